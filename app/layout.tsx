@@ -1,0 +1,41 @@
+import type { Metadata, Viewport } from 'next';
+import { AppHeader } from '@/components/shell/app-header';
+import { APP_VERSION } from '@/lib/version';
+import { monoFont, textFont } from './fonts';
+import './globals.css';
+
+export const metadata: Metadata = {
+  title: { default: 'Worldsheet', template: '%s · Worldsheet' },
+  description:
+    'Relativistic calculation sheets with units, independent check, approval and signed, verifiable issue.',
+};
+
+export const viewport: Viewport = { themeColor: '#0b5a61' };
+
+export default function RootLayout({ children }: { children: React.ReactNode }) {
+  const demo = process.env.WORLDSHEET_DEMO === '1';
+  return (
+    <html lang="en" className={`${textFont.variable} ${monoFont.variable}`}>
+      <body className="flex min-h-screen flex-col">
+        <a
+          href="#main"
+          className="sr-only focus:not-sr-only focus:absolute focus:left-3 focus:top-3 focus:z-50 focus:rounded focus:bg-surface focus:px-3 focus:py-2 focus:text-ink"
+        >
+          Skip to content
+        </a>
+        <AppHeader userName={null} />
+        <main id="main" className="mx-auto w-full max-w-sheet flex-1 px-gutter py-8">
+          {children}
+        </main>
+        <footer className="border-t border-rule bg-surface">
+          <div className="mx-auto flex max-w-sheet flex-wrap items-center justify-between gap-2 px-gutter py-3 text-xs text-ink-muted">
+            <span>
+              Worldsheet <span className="font-mono">{APP_VERSION}</span>
+            </span>
+            {demo ? <span>Demo installation: fictional organisation and data</span> : null}
+          </div>
+        </footer>
+      </body>
+    </html>
+  );
+}

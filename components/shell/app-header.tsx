@@ -1,0 +1,39 @@
+import Link from 'next/link';
+import { BrandMark } from './brand-mark';
+import { NavLink } from './nav-link';
+
+const NAV = [
+  { href: '/projects', label: 'Projects' },
+  { href: '/checks', label: 'My checks' },
+  { href: '/register', label: 'Register' },
+  { href: '/verify', label: 'Verify' },
+] as const;
+
+export function AppHeader({ userName }: { userName: string | null }) {
+  return (
+    <header className="border-b border-rule bg-surface">
+      <div className="mx-auto flex max-w-sheet flex-wrap items-center gap-x-6 gap-y-2 px-gutter py-3">
+        <Link href="/" className="flex items-center gap-2 text-ink no-underline" aria-label="Worldsheet, home">
+          <BrandMark className="h-7 w-7 text-accent" />
+          <span className="text-lg font-bold tracking-tight">Worldsheet</span>
+        </Link>
+        <nav aria-label="Main" className="flex flex-wrap items-center gap-1">
+          {NAV.map((item) => (
+            <NavLink key={item.href} href={item.href}>
+              {item.label}
+            </NavLink>
+          ))}
+        </nav>
+        <div className="ml-auto text-sm text-ink-muted">
+          {userName ? (
+            <span>
+              Signed in as <strong className="font-semibold text-ink">{userName}</strong>
+            </span>
+          ) : (
+            <span>Not signed in</span>
+          )}
+        </div>
+      </div>
+    </header>
+  );
+}

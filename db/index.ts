@@ -1,0 +1,37 @@
+// The one Kysely instance of the application. Connection settings come from DATABASE_URL, which
+// `npm start` and `npm test` set for the local cluster and a deployment sets for its own server.
+import { Kysely, PostgresDialect } from 'kysely';
+import pg from 'pg';
+import type { Database } from './schema';
+
+// bigint (int8) columns such as audit_events.id arrive as strings, never as lossy numbers.
+pg.types.setTypeParser(pg.types.builtins.INT8, (value) => value);
+
+export function createDb(connectionString: string, options: { max?: number } = {}): Kysely<Database> {
+  const pool = new pg.Pool({
+    connectionString,
+    max: options.max ?? 10,
+    connectionTimeoutMillis: 3000,
+    idleTimeoutMillis: 30_000,
+    application_name: 'worldsheet',
+  });
+  // A dropped connection must not take the process down; the next query reports the error.
+  pool.on('error', () => undefined);
+  return new Kysely<Database>({ dialect: new PostgresDialect({ pool }) });
+}
+
+const globalForDb = globalThis as unknown as { worldsheetDb?: Kysely<Database> };
+
+function connectionString(): string {
+  const url = process.env.DATABASE_URL;
+  if (!url) throw new Error('DATABASE_URL is not set; start the app with `npm start`.');
+  return url;
+}
+
+/** The shared instance, created on first use so that importing this module never connects. */
+export function getDb(): Kysely<Database> {
+  globalForDb.worldsheetDb ??= createDb(connectionString());
+  return globalForDb.worldsheetDb;
+}
+
+export type { Database } from './schema';

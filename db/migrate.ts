@@ -1,0 +1,34 @@
+// Runs the Kysely migrations in migrations/ with Kysely's Migrator.
+import { promises as fs } from 'node:fs';
+import path from 'node:path';
+import { fileURLToPath } from 'node:url';
+import { FileMigrationProvider, Migrator, type Kysely, type MigrationResultSet } from 'kysely';
+
+export const migrationFolder = path.join(path.dirname(fileURLToPath(import.meta.url)), '..', 'migrations');
+
+export function createMigrator(db: Kysely<any>): Migrator {
+  return new Migrator({
+    db,
+    provider: new FileMigrationProvider({ fs, path, migrationFolder }),
+  });
+}
+
+function report(result: MigrationResultSet, log: (line: string) => void): void {
+  for (const r of result.results ?? []) {
+    log(`migration ${r.migrationName}: ${r.status === 'Success' ? (r.direction === 'Up' ? 'applied' : 'reverted') : r.status}`);
+  }
+  if (result.error) {
+    const message = result.error instanceof Error ? result.error.message : String(result.error);
+    throw new Error(`Migration failed: ${message}`);
+  }
+}
+
+export async function migrateToLatest(db: Kysely<any>, log: (line: string) => void = () => undefined): Promise<void> {
+  report(await createMigrator(db).migrateToLatest(), log);
+}
+
+export async function migrateDownAll(db: Kysely<any>, log: (line: string) => void = () => undefined): Promise<void> {
+  const migrator = createMigrator(db);
+  const { NO_MIGRATIONS } = await import('kysely');
+  report(await migrator.migrateTo(NO_MIGRATIONS), log);
+}

@@ -1,0 +1,103 @@
+// Table types for Kysely, following its getting-started rules: one interface per table,
+// Generated<> for columns the database fills in, nullable columns as `T | null`.
+import type { ColumnType, Generated, Insertable, JSONColumnType, Selectable } from 'kysely';
+
+type Timestamp = ColumnType<Date, Date | string | undefined, never>;
+/** A column the database fills in and that nothing may ever write. */
+type Assigned<T> = ColumnType<T, never, never>;
+/** Columns of append-only tables: written once on insert, never updated. */
+type Once<T> = ColumnType<T, T, never>;
+
+export type ProjectRole = 'originator' | 'checker' | 'approver' | 'controller' | 'viewer';
+export type RevisionScheme = 'letters' | 'numbers';
+
+export interface UsersTable {
+  id: Generated<string>;
+  email: string;
+  display_name: string;
+  password_hash: string | null;
+  is_admin: Generated<boolean>;
+  disabled_at: Date | null;
+  created_at: Timestamp;
+}
+
+export interface ProjectsTable {
+  id: Generated<string>;
+  code: string;
+  name: string;
+  legal_owner: string;
+  revision_scheme: ColumnType<RevisionScheme, RevisionScheme | undefined, RevisionScheme>;
+  created_by: string | null;
+  created_at: Timestamp;
+}
+
+export interface ProjectMembersTable {
+  project_id: string;
+  user_id: string;
+  role: ProjectRole;
+  granted_by: string | null;
+  granted_at: Timestamp;
+}
+
+export interface SheetsTable {
+  id: Generated<string>;
+  project_id: string;
+  number: number;
+  title: string;
+  safety_related: Generated<boolean>;
+  created_by: string;
+  created_at: Timestamp;
+  updated_at: ColumnType<Date, Date | string | undefined, Date | string>;
+}
+
+export interface VersionsTable {
+  id: Generated<string>;
+  sheet_id: Once<string>;
+  number: Once<number>;
+  parent_number: Once<number | null>;
+  content: ColumnType<unknown, string, never>;
+  content_hash: Once<string>;
+  results: ColumnType<unknown | null, string | null, never>;
+  engine_version: Once<string | null>;
+  constants_edition: Once<string | null>;
+  author_id: Once<string>;
+  message: ColumnType<string, string | undefined, never>;
+  created_at: Timestamp;
+}
+
+export interface AuditEventsTable {
+  id: Assigned<string>;
+  occurred_at: Assigned<Date>;
+  actor_id: Once<string | null>;
+  project_id: Once<string | null>;
+  action: Once<string>;
+  object_type: Once<string>;
+  object_id: Once<string | null>;
+  old_value: ColumnType<unknown | null, string | null | undefined, never>;
+  new_value: ColumnType<unknown | null, string | null | undefined, never>;
+  reason: ColumnType<string | null, string | null | undefined, never>;
+  prev_hash: Assigned<string>;
+  hash: Assigned<string>;
+}
+
+export interface Database {
+  users: UsersTable;
+  projects: ProjectsTable;
+  project_members: ProjectMembersTable;
+  sheets: SheetsTable;
+  versions: VersionsTable;
+  audit_events: AuditEventsTable;
+}
+
+export type User = Selectable<UsersTable>;
+export type NewUser = Insertable<UsersTable>;
+export type Project = Selectable<ProjectsTable>;
+export type NewProject = Insertable<ProjectsTable>;
+export type ProjectMember = Selectable<ProjectMembersTable>;
+export type Sheet = Selectable<SheetsTable>;
+export type NewSheet = Insertable<SheetsTable>;
+export type Version = Selectable<VersionsTable>;
+export type NewVersion = Insertable<VersionsTable>;
+export type AuditEvent = Selectable<AuditEventsTable>;
+export type NewAuditEvent = Insertable<AuditEventsTable>;
+export type { JSONColumnType };

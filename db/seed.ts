@@ -1,0 +1,230 @@
+// Demo data for a local start: a fictional organisation, one project, the demo accounts and a few
+// sheets. Every name here is invented; the engineering figures are demo values, not design data.
+//
+// Idempotent: it only adds what is missing, so a second start never duplicates or wipes anything.
+// It runs only for the local demo cluster (`npm start` without DATABASE_URL), never in production.
+import { hash } from '@node-rs/argon2';
+import { sql, type Kysely } from 'kysely';
+import { emptyRecord, versionContentSchema, type VersionContent } from '../lib/sheets/content';
+import { contentHash } from '../lib/sheets/content-hash';
+import type { Database, ProjectRole } from './schema';
+
+export const DEMO_PASSWORD = 'worldsheet-demo';
+
+export const DEMO_ORGANISATION = 'Kestrelwick Beam Systems Ltd';
+export const DEMO_PROJECT = {
+  code: 'TPT2',
+  name: 'Tarnmoor Proton Therapy Centre — gantry 2 beam transport',
+  legal_owner: DEMO_ORGANISATION,
+  revision_scheme: 'letters' as const,
+};
+
+export const DEMO_ACCOUNTS: ReadonlyArray<{ email: string; name: string; roles: ProjectRole[]; admin?: boolean }> = [
+  { email: 'originator@demo.test', name: 'Demo Originator', roles: ['originator'] },
+  { email: 'checker@demo.test', name: 'Demo Checker', roles: ['checker'] },
+  { email: 'approver@demo.test', name: 'Demo Approver', roles: ['approver'] },
+  { email: 'controller@demo.test', name: 'Demo Document Controller', roles: ['controller'] },
+  { email: 'viewer@demo.test', name: 'Demo Viewer', roles: ['viewer'] },
+  { email: 'admin@demo.test', name: 'Demo Administrator', roles: [], admin: true },
+];
+
+type DemoSheet = { number: number; content: VersionContent };
+
+function demoSheets(): DemoSheet[] {
+  const sheet = (number: number, partial: Omit<VersionContent, 'schema' | 'attachments' | 'significantFigures'>): DemoSheet => ({
+    number,
+    content: versionContentSchema.parse({ schema: 1, significantFigures: 6, attachments: [], ...partial }),
+  });
+  return [
+    sheet(1, {
+      title: 'Dipole field over the treatment energy range, 70–250 MeV protons',
+      safetyRelated: true,
+      record: {
+        objective:
+          'Show that the gantry 2 bending dipoles reach the field needed to bend the highest treatment energy on the design radius, with margin to the rated field.',
+        inputs: [
+          { name: 'Highest treatment energy', value: '250 MeV', source: 'TPT2 beam requirements specification (demo)', sourceRevision: 'C' },
+          { name: 'Dipole bending radius', value: '1.5 m', source: 'TPT2 gantry layout drawing (demo)', sourceRevision: 'B' },
+          { name: 'Dipole rated field', value: '1.8 T', source: 'Dipole magnet datasheet (demo)', sourceRevision: 'A' },
+        ],
+        assumptions: [
+          { text: 'Singly charged protons; the beam is on the design orbit.', needsVerification: false },
+          { text: 'Energy spread of the degraded beam is neglected.', needsVerification: true },
+        ],
+        method: 'Relativistic momentum from kinetic energy, magnetic rigidity Bρ = p/q, field B = Bρ/ρ.',
+        references: ['Particle Data Group, Review of Particle Physics, section "Kinematics"'],
+        conclusions: 'To be stated after evaluation and check.',
+      },
+      cells: [
+        {
+          id: 'intro',
+          kind: 'text',
+          source:
+            'The dipoles must bend protons of every treatment energy on the design radius. The magnetic rigidity $B\\rho = p/q$ of the highest energy sets the field.',
+        },
+        {
+          id: 'rigidity',
+          kind: 'calc',
+          source: [
+            'T_max = 250 MeV                  # highest treatment energy',
+            'p_max = momentumFromKinetic(T_max, m_p)',
+            'Brho_max = magneticRigidity(p_max, q_e) to T*m',
+            'rho = 1.5 m                      # dipole bending radius',
+            'B_max = Brho_max / rho to T',
+            'B_max < 1.8 T                    # design criterion: below the rated field',
+          ].join('\n'),
+        },
+        {
+          id: 'lowest',
+          kind: 'calc',
+          source: [
+            'T_min = 70 MeV                   # lowest treatment energy',
+            'v_min = speedFromKinetic(T_min, m_p)',
+            'gamma_min = lorentzFactor(v_min)',
+            'Brho_min = magneticRigidity(momentumFromKinetic(T_min, m_p), q_e) to T*m',
+          ].join('\n'),
+        },
+      ],
+    }),
+    sheet(2, {
+      title: 'Time of flight between beam position monitors BPM-3 and BPM-7',
+      safetyRelated: false,
+      record: {
+        ...emptyRecord(),
+        objective: 'Time of flight of a 150 MeV proton bunch between two monitors, for the timing of the position read-out.',
+        inputs: [{ name: 'Monitor spacing', value: '12.5 m', source: 'TPT2 beam-line survey (demo)', sourceRevision: 'A' }],
+        method: 'Speed from kinetic energy; time of flight = path length / speed.',
+      },
+      cells: [
+        {
+          id: 'tof',
+          kind: 'calc',
+          source: [
+            'd_bpm = 12.5 m                   # path length between the monitors',
+            'T_beam = 150 MeV',
+            'v_beam = speedFromKinetic(T_beam, m_p)',
+            't_flight = d_bpm / v_beam to ns',
+          ].join('\n'),
+        },
+      ],
+    }),
+    sheet(3, {
+      title: 'Electron wavelength and speed in the beam-profile monitor gun',
+      safetyRelated: false,
+      record: {
+        ...emptyRecord(),
+        objective: 'De Broglie wavelength and speed of the 60 kV probe electrons of the beam-profile monitor.',
+        method: 'Relativistic de Broglie wavelength for an electron accelerated through a potential difference.',
+      },
+      cells: [
+        { id: 'note', kind: 'text', source: 'At 60 kV the classical formula is already a few per cent off; the relativistic one is used.' },
+        {
+          id: 'gun',
+          kind: 'calc',
+          source: [
+            'U_gun = 60 kV                    # gun accelerating voltage',
+            'lambda_e = electronWavelength(U_gun) to pm',
+            'v_e = speedFromKinetic(60 keV, m_e)',
+            'beta_e = v_e / c',
+          ].join('\n'),
+        },
+      ],
+    }),
+  ];
+}
+
+export interface SeedReport {
+  usersCreated: number;
+  projectCreated: boolean;
+  membershipsCreated: number;
+  sheetsCreated: number;
+}
+
+export async function seedDemo(db: Kysely<Database>): Promise<SeedReport> {
+  const report: SeedReport = { usersCreated: 0, projectCreated: false, membershipsCreated: 0, sheetsCreated: 0 };
+  const existing = await db
+    .selectFrom('users')
+    .select(['id', 'email'])
+    .where('email', 'in', DEMO_ACCOUNTS.map((a) => a.email))
+    .execute();
+  const missing = DEMO_ACCOUNTS.filter((a) => !existing.some((u) => u.email === a.email));
+  // Hash outside the transaction: argon2id is deliberately slow.
+  const hashes = await Promise.all(missing.map(() => hash(DEMO_PASSWORD)));
+
+  await db.transaction().execute(async (trx) => {
+    // One seed at a time, even if two starts race.
+    await sql`select pg_advisory_xact_lock(hashtext('worldsheet.seed'))`.execute(trx);
+    const userIds = new Map<string, string>();
+    for (const [i, account] of missing.entries()) {
+      const row = await trx
+        .insertInto('users')
+        .values({ email: account.email, display_name: account.name, password_hash: hashes[i], is_admin: account.admin ?? false })
+        .onConflict((oc) => oc.column('email').doNothing())
+        .returning('id')
+        .executeTakeFirst();
+      if (row) {
+        report.usersCreated += 1;
+        await trx
+          .insertInto('audit_events')
+          .values({ actor_id: null, action: 'user.create', object_type: 'user', object_id: row.id, new_value: JSON.stringify({ email: account.email, name: account.name }), reason: 'demo seed' })
+          .execute();
+      }
+    }
+    for (const u of await trx.selectFrom('users').select(['id', 'email']).where('email', 'in', DEMO_ACCOUNTS.map((a) => a.email)).execute()) {
+      userIds.set(u.email, u.id);
+    }
+    const admin = userIds.get('admin@demo.test')!;
+
+    let project = await trx.selectFrom('projects').select('id').where('code', '=', DEMO_PROJECT.code).executeTakeFirst();
+    if (!project) {
+      project = await trx.insertInto('projects').values({ ...DEMO_PROJECT, created_by: admin }).returning('id').executeTakeFirstOrThrow();
+      report.projectCreated = true;
+      await trx
+        .insertInto('audit_events')
+        .values({ actor_id: admin, project_id: project.id, action: 'project.create', object_type: 'project', object_id: project.id, new_value: JSON.stringify(DEMO_PROJECT), reason: 'demo seed' })
+        .execute();
+    }
+
+    for (const account of DEMO_ACCOUNTS) {
+      for (const role of account.roles) {
+        const added = await trx
+          .insertInto('project_members')
+          .values({ project_id: project.id, user_id: userIds.get(account.email)!, role, granted_by: admin })
+          .onConflict((oc) => oc.columns(['project_id', 'user_id', 'role']).doNothing())
+          .returning('role')
+          .executeTakeFirst();
+        if (added) {
+          report.membershipsCreated += 1;
+          await trx
+            .insertInto('audit_events')
+            .values({ actor_id: admin, project_id: project.id, action: 'membership.grant', object_type: 'user', object_id: userIds.get(account.email)!, new_value: JSON.stringify({ role }), reason: 'demo seed' })
+            .execute();
+        }
+      }
+    }
+
+    const originator = userIds.get('originator@demo.test')!;
+    for (const demo of demoSheets()) {
+      const sheet = await trx
+        .insertInto('sheets')
+        .values({ project_id: project.id, number: demo.number, title: demo.content.title, safety_related: demo.content.safetyRelated, created_by: originator })
+        .onConflict((oc) => oc.columns(['project_id', 'number']).doNothing())
+        .returning('id')
+        .executeTakeFirst();
+      if (!sheet) continue;
+      report.sheetsCreated += 1;
+      const hashHex = contentHash(demo.content);
+      // Seeded before evaluation: results, engine version and constants edition stay empty, and the
+      // sheet's first save through the editor records them.
+      await trx
+        .insertInto('versions')
+        .values({ sheet_id: sheet.id, number: 1, parent_number: null, content: JSON.stringify(demo.content), content_hash: hashHex, results: null, engine_version: null, constants_edition: null, author_id: originator, message: 'First draft (demo data)' })
+        .execute();
+      await trx
+        .insertInto('audit_events')
+        .values({ actor_id: originator, project_id: project.id, action: 'version.save', object_type: 'sheet', object_id: sheet.id, new_value: JSON.stringify({ version: 1, sha256: hashHex }), reason: 'demo seed' })
+        .execute();
+    }
+  });
+  return report;
+}

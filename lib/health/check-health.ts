@@ -1,0 +1,28 @@
+import { sql, type Kysely } from 'kysely';
+import type { Database } from '@/db/schema';
+
+export interface Health {
+  status: 'ok' | 'unavailable';
+  version: string;
+  database: { status: 'up' | 'down'; latencyMs: number | null; migration: string | null; error?: string };
+}
+
+/** Asks the database one cheap question; never throws. */
+export async function checkHealth(db: Kysely<Database>, version: string): Promise<Health> {
+  const started = performance.now();
+  try {
+    const row = await sql<{ name: string | null }>`select max(name) as name from kysely_migration`.execute(db);
+    const latencyMs = Math.round((performance.now() - started) * 10) / 10;
+    return { status: 'ok', version, database: { status: 'up', latencyMs, migration: row.rows[0]?.name ?? null } };
+  } catch {
+    return { status: 'unavailable', version, database: { status: 'down', latencyMs: null, migration: null, error: 'database unreachable' } };
+  }
+}
+
+export async function healthResponse(db: Kysely<Database>, version: string): Promise<Response> {
+  const health = await checkHealth(db, version);
+  return Response.json(health, {
+    status: health.status === 'ok' ? 200 : 503,
+    headers: { 'Cache-Control': 'no-store' },
+  });
+}

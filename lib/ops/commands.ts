@@ -1,0 +1,155 @@
+// The project's commands, run by lib/ops/bootstrap.mjs after the npm packages are in place:
+//   start     local PostgreSQL, migrations, demo seed, production build, app server (npm start)
+//   test      the whole test suite against a separate test cluster (npm test)
+//   dev       like start, with `next dev` instead of a production build
+//   db-start  only the local PostgreSQL, until Ctrl-C
+//   db-stop   stops a local PostgreSQL left running by a process that is gone
+//   migrate   applies migrations to DATABASE_URL or the local cluster
+import path from 'node:path';
+import { fileURLToPath } from 'node:url';
+import { createDb } from '../../db/index';
+import {
+  devClusterPort,
+  LocalCluster,
+  LocalPostgresError,
+  portIsFree,
+  testClusterPort,
+} from '../../db/local-postgres';
+import { migrateToLatest } from '../../db/migrate';
+import { seedDemo } from '../../db/seed';
+import { ensureChromium } from './chromium';
+import { buildIfStale } from './next-build';
+import { Supervisor, waitForExit } from './supervisor';
+
+const root = path.join(path.dirname(fileURLToPath(import.meta.url)), '..', '..');
+const log = (line: string) => console.log(`[worldsheet] ${line}`);
+const nextBin = path.join(root, 'node_modules', 'next', 'dist', 'bin', 'next');
+
+interface Database {
+  url: string;
+  demo: boolean;
+}
+
+/** DATABASE_URL when set (a deployment's own server, no demo data); otherwise the local dev cluster. */
+async function prepareDatabase(supervisor: Supervisor, options: { seed: boolean }): Promise<Database> {
+  const external = process.env.DATABASE_URL;
+  let url: string;
+  if (external) {
+    log('using the PostgreSQL server named by DATABASE_URL (no demo data)');
+    url = external;
+  } else {
+    const cluster = new LocalCluster({ name: 'dev', port: devClusterPort(), projectRoot: root });
+    cluster.prepare();
+    supervisor.add('PostgreSQL', () => cluster.stop());
+    await cluster.start();
+    await cluster.ensureDatabase('worldsheet');
+    url = cluster.appUrl('worldsheet');
+  }
+  const db = createDb(url, { max: 2 });
+  try {
+    await migrateToLatest(db, log);
+    if (!external && options.seed) {
+      const r = await seedDemo(db);
+      log(
+        r.usersCreated + r.sheetsCreated + r.membershipsCreated === 0 && !r.projectCreated
+          ? 'demo data already in place'
+          : `demo data: ${r.usersCreated} accounts, ${r.projectCreated ? 1 : 0} project, ${r.membershipsCreated} roles, ${r.sheetsCreated} sheets added`,
+      );
+    }
+  } finally {
+    await db.destroy();
+  }
+  return { url, demo: !external };
+}
+
+function appEnv(database: Database, extra: Record<string, string> = {}): NodeJS.ProcessEnv {
+  return {
+    ...process.env,
+    DATABASE_URL: database.url,
+    WORLDSHEET_DEMO: database.demo ? '1' : '0',
+    NEXT_TELEMETRY_DISABLED: '1',
+    ...extra,
+  };
+}
+
+async function serve(supervisor: Supervisor, mode: 'start' | 'dev'): Promise<void> {
+  const host = process.env.WORLDSHEET_HOST ?? '127.0.0.1';
+  const port = Number(process.env.PORT ?? 3000);
+  if (!(await portIsFree(port, host))) {
+    throw new LocalPostgresError(`Port ${port} on ${host} is already in use. Stop what uses it, or choose another with PORT=<port>.`);
+  }
+  const database = await prepareDatabase(supervisor, { seed: true });
+  const env = appEnv(database);
+  if (mode === 'start') buildIfStale(root, '.next', { ...env, NODE_ENV: 'production' });
+  if (supervisor.isStopping) return;
+  const app = supervisor.spawn('app server', process.execPath, [nextBin, mode, '-H', host, '-p', String(port)], {
+    cwd: root,
+    env: mode === 'start' ? { ...env, NODE_ENV: 'production' } : { ...env, NODE_ENV: 'development' },
+  });
+  log(`Worldsheet: http://${host}:${port}  (demo accounts are listed in README.md; Ctrl-C stops everything)`);
+  const code = await waitForExit(app);
+  if (!supervisor.isStopping) {
+    console.error(`[worldsheet] the app server stopped unexpectedly (exit ${code}); stopping the rest.`);
+    await supervisor.shutdown(code || 1);
+  }
+}
+
+async function test(supervisor: Supervisor, args: string[]): Promise<void> {
+  ensureChromium(log);
+  // The vitest global setup starts the test cluster itself (tests/setup/global-setup.ts) and the
+  // browser harness builds and serves the app; this command only runs vitest to the end.
+  const vitest = supervisor.spawn(
+    'vitest',
+    process.execPath,
+    [path.join(root, 'node_modules', 'vitest', 'vitest.mjs'), 'run', '--config', 'tests/vitest.config.ts', ...args],
+    { cwd: root, env: { ...process.env, NEXT_TELEMETRY_DISABLED: '1', WORLDSHEET_TEST_PG_PORT: String(testClusterPort()) } },
+  );
+  const code = await waitForExit(vitest);
+  if (!supervisor.isStopping) process.exit(code);
+}
+
+async function dbOnly(supervisor: Supervisor): Promise<void> {
+  const database = await prepareDatabase(supervisor, { seed: true });
+  log(`PostgreSQL ready: DATABASE_URL=${database.url}`);
+  log('Ctrl-C stops it.');
+  await new Promise(() => undefined);
+}
+
+function dbStop(args: string[]): void {
+  const test = args.includes('--test');
+  const cluster = new LocalCluster({ name: test ? 'test' : 'dev', port: test ? testClusterPort() : devClusterPort(), projectRoot: root });
+  log(cluster.stopLeftover() ? 'stopped the leftover server' : 'no server was running on that cluster');
+}
+
+async function migrateOnly(supervisor: Supervisor): Promise<void> {
+  await prepareDatabase(supervisor, { seed: false });
+  await supervisor.shutdown(0);
+}
+
+export async function runCommand(command: string, args: string[]): Promise<void> {
+  const supervisor = new Supervisor();
+  try {
+    switch (command) {
+      case 'start':
+        return await serve(supervisor, 'start');
+      case 'dev':
+        return await serve(supervisor, 'dev');
+      case 'test':
+        return await test(supervisor, args);
+      case 'db-start':
+        return await dbOnly(supervisor);
+      case 'db-stop':
+        return dbStop(args);
+      case 'migrate':
+        return await migrateOnly(supervisor);
+      default:
+        console.error(`[worldsheet] unknown command ${command}`);
+        process.exit(2);
+    }
+  } catch (error) {
+    console.error(`\n[worldsheet] ${error instanceof LocalPostgresError ? '' : 'error: '}${(error as Error).message}`);
+    if (!(error instanceof LocalPostgresError) && process.env.WORLDSHEET_DEBUG) console.error(error);
+    // Stop whatever was started before the failure.
+    await supervisor.shutdown(1);
+  }
+}

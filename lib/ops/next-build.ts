@@ -1,0 +1,47 @@
+// Builds the production app only when its sources changed since the last build into that folder.
+import { spawnSync } from 'node:child_process';
+import { createHash } from 'node:crypto';
+import { existsSync, readdirSync, readFileSync, statSync, writeFileSync } from 'node:fs';
+import { join, relative } from 'node:path';
+
+const SOURCE_DIRS = ['app', 'components', 'lib', 'db', 'public', 'fonts'];
+const SOURCE_FILES = ['package-lock.json', 'next.config.mjs', 'tailwind.config.ts', 'tsconfig.json', '.postcssrc.json'];
+
+function walk(dir: string, out: string[]): void {
+  if (!existsSync(dir)) return;
+  for (const entry of readdirSync(dir, { withFileTypes: true })) {
+    const path = join(dir, entry.name);
+    if (entry.isDirectory()) walk(path, out);
+    else if (entry.isFile()) out.push(path);
+  }
+}
+
+export function sourceHash(root: string): string {
+  const files: string[] = [];
+  for (const d of SOURCE_DIRS) walk(join(root, d), files);
+  for (const f of SOURCE_FILES) if (existsSync(join(root, f))) files.push(join(root, f));
+  const hash = createHash('sha256');
+  for (const file of files.sort()) {
+    hash.update(relative(root, file)).update('\0').update(String(statSync(file).size)).update('\0');
+    hash.update(readFileSync(file)).update('\0');
+  }
+  return hash.digest('hex');
+}
+
+/** Runs `next build` into `distDir` unless the stamp there matches the sources. Returns whether it built. */
+export function buildIfStale(root: string, distDir: string, env: NodeJS.ProcessEnv): boolean {
+  const stamp = join(root, distDir, 'worldsheet-source-hash');
+  const wanted = sourceHash(root);
+  if (existsSync(join(root, distDir, 'BUILD_ID')) && existsSync(stamp) && readFileSync(stamp, 'utf8').trim() === wanted) {
+    return false;
+  }
+  console.log(`[worldsheet] building the app into ${distDir}/ …`);
+  const result = spawnSync(process.execPath, [join(root, 'node_modules', 'next', 'dist', 'bin', 'next'), 'build'], {
+    cwd: root,
+    stdio: 'inherit',
+    env: { ...env, WORLDSHEET_DIST_DIR: distDir, NEXT_TELEMETRY_DISABLED: '1' },
+  });
+  if (result.status !== 0) throw new Error('`next build` failed; see its messages above.');
+  writeFileSync(stamp, `${wanted}\n`);
+  return true;
+}
