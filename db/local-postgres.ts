@@ -35,7 +35,7 @@ export interface ServerBinaries {
   major: number;
 }
 
-interface OsUser {
+export interface OsUser {
   uid: number;
   gid: number;
   name: string;
@@ -112,7 +112,7 @@ export function ensureServerBinaries(log: Log): ServerBinaries {
   return installed;
 }
 
-function lookupOsUser(name: string): OsUser | null {
+export function lookupOsUser(name: string): OsUser | null {
   const passwd = readFileSync('/etc/passwd', 'utf8');
   for (const line of passwd.split('\n')) {
     const parts = line.split(':');
@@ -150,6 +150,27 @@ function processIsPostgres(pid: number): boolean {
   } catch {
     return true;
   }
+}
+
+/**
+ * `<checkout>/.data/pg-<name>`, or, when the server runs as another OS user who cannot enter the
+ * checkout (a private temporary folder, a home folder), a folder of its own under /var/tmp named
+ * after the checkout, with a note in the checkout saying where the data is.
+ */
+export function chooseClusterFolder(options: { projectRoot: string; name: string; runAs: OsUser | null; log: Log }): string {
+  const { projectRoot, name, runAs, log } = options;
+  const preferred = join(projectRoot, '.data', `pg-${name}`);
+  mkdirSync(preferred, { recursive: true, mode: 0o755 });
+  if (!runAs) return preferred;
+  chownSync(preferred, runAs.uid, runAs.gid);
+  if (canReach(runAs, preferred)) return preferred;
+  const tag = createHash('sha256').update(projectRoot).digest('hex').slice(0, 12);
+  const fallback = join('/var/tmp', `worldsheet-${tag}`, `pg-${name}`);
+  mkdirSync(fallback, { recursive: true, mode: 0o755 });
+  chownSync(fallback, runAs.uid, runAs.gid);
+  writeFileSync(join(preferred, 'WHERE-IS-THE-DATA.txt'), `The postgres OS user cannot reach this folder, so this cluster lives in\n${fallback}\n`);
+  log(`the postgres user cannot reach ${preferred}; using ${fallback}`);
+  return fallback;
 }
 
 export interface LocalClusterOptions {
@@ -230,20 +251,7 @@ export class LocalCluster {
   }
 
   private chooseFolder(): string {
-    const preferred = join(this.projectRoot, '.data', `pg-${this.name}`);
-    mkdirSync(preferred, { recursive: true, mode: 0o755 });
-    if (!this.runAs) return preferred;
-    chownSync(preferred, this.runAs.uid, this.runAs.gid);
-    if (canReach(this.runAs, preferred)) return preferred;
-    // The checkout sits below a folder the postgres user may not enter (a private temporary folder,
-    // a home folder): keep the cluster in a folder of its own under /var/tmp, named after the checkout.
-    const tag = createHash('sha256').update(this.projectRoot).digest('hex').slice(0, 12);
-    const fallback = join('/var/tmp', `worldsheet-${tag}`, `pg-${this.name}`);
-    mkdirSync(fallback, { recursive: true, mode: 0o755 });
-    chownSync(fallback, this.runAs.uid, this.runAs.gid);
-    writeFileSync(join(preferred, 'WHERE-IS-THE-DATA.txt'), `The postgres OS user cannot reach this folder, so this cluster lives in\n${fallback}\n`);
-    this.log(`the postgres user cannot reach ${preferred}; using ${fallback}`);
-    return fallback;
+    return chooseClusterFolder({ projectRoot: this.projectRoot, name: this.name, runAs: this.runAs, log: this.log });
   }
 
   private spawnOptions(): { uid?: number; gid?: number; env: NodeJS.ProcessEnv } {

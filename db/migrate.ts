@@ -2,15 +2,29 @@
 import { promises as fs } from 'node:fs';
 import path from 'node:path';
 import { fileURLToPath } from 'node:url';
-import { FileMigrationProvider, Migrator, type Kysely, type MigrationResultSet } from 'kysely';
+import { Migrator, type Kysely, type Migration, type MigrationProvider, type MigrationResultSet } from 'kysely';
 
 export const migrationFolder = path.join(path.dirname(fileURLToPath(import.meta.url)), '..', 'migrations');
 
+/**
+ * Kysely's FileMigrationProvider, with the import done here rather than inside node_modules: the
+ * migrations are TypeScript, and only an import in our own code goes through the loader of
+ * whoever runs it (tsx for the commands, Vite's module runner in the tests).
+ */
+class MigrationFolderProvider implements MigrationProvider {
+  async getMigrations(): Promise<Record<string, Migration>> {
+    const migrations: Record<string, Migration> = {};
+    for (const file of (await fs.readdir(migrationFolder)).sort()) {
+      if (!/\.(ts|mjs|js)$/.test(file) || file.endsWith('.d.ts')) continue;
+      const module = (await import(/* @vite-ignore */ path.join(migrationFolder, file))) as Migration;
+      migrations[file.replace(/\.[^.]+$/, '')] = module;
+    }
+    return migrations;
+  }
+}
+
 export function createMigrator(db: Kysely<any>): Migrator {
-  return new Migrator({
-    db,
-    provider: new FileMigrationProvider({ fs, path, migrationFolder }),
-  });
+  return new Migrator({ db, provider: new MigrationFolderProvider() });
 }
 
 function report(result: MigrationResultSet, log: (line: string) => void): void {

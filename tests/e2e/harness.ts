@@ -1,0 +1,112 @@
+// The browser harness: builds the production app (into .next-test/, only when sources changed),
+// serves it against the test database, and drives Debian's Chromium through playwright-core.
+// Every page it visits can be saved as a screenshot in tests/.artifacts/screenshots/ (git-ignored).
+// A console error or a failed request fails the test that caused it.
+import { spawn, type ChildProcess } from 'node:child_process';
+import { mkdirSync } from 'node:fs';
+import path from 'node:path';
+import { chromium, type Browser, type BrowserContext, type Page } from 'playwright-core';
+import { inject } from 'vitest';
+import { CHROMIUM_PATH } from '../../lib/ops/chromium';
+import { buildIfStale } from '../../lib/ops/next-build';
+
+const root = process.cwd();
+export const SCREENSHOT_DIR = path.join(root, 'tests', '.artifacts', 'screenshots');
+
+export interface RunningApp {
+  baseUrl: string;
+  stop(): Promise<void>;
+}
+
+export async function startApp(): Promise<RunningApp> {
+  const port = Number(process.env.WORLDSHEET_TEST_APP_PORT ?? 3199);
+  const env: NodeJS.ProcessEnv = {
+    ...process.env,
+    NODE_ENV: 'production',
+    DATABASE_URL: inject('databaseUrl'),
+    WORLDSHEET_DEMO: '0',
+    NEXT_TELEMETRY_DISABLED: '1',
+  };
+  buildIfStale(root, '.next-test', env);
+  const child: ChildProcess = spawn(
+    process.execPath,
+    [path.join(root, 'node_modules', 'next', 'dist', 'bin', 'next'), 'start', '-H', '127.0.0.1', '-p', String(port)],
+    { cwd: root, env: { ...env, WORLDSHEET_DIST_DIR: '.next-test' }, stdio: ['ignore', 'pipe', 'pipe'] },
+  );
+  let output = '';
+  child.stdout!.on('data', (d) => (output += d));
+  child.stderr!.on('data', (d) => (output += d));
+  const baseUrl = `http://127.0.0.1:${port}`;
+  const deadline = Date.now() + 60_000;
+  for (;;) {
+    if (child.exitCode !== null) throw new Error(`the app server exited (${child.exitCode}):\n${output}`);
+    try {
+      const r = await fetch(`${baseUrl}/api/health`);
+      if (r.ok) break;
+    } catch {
+      // not listening yet
+    }
+    if (Date.now() > deadline) {
+      child.kill('SIGKILL');
+      throw new Error(`the app server did not answer within 60 s:\n${output}`);
+    }
+    await new Promise((r) => setTimeout(r, 200));
+  }
+  return {
+    baseUrl,
+    async stop() {
+      if (child.exitCode !== null) return;
+      const exited = new Promise((r) => child.once('exit', r));
+      child.kill('SIGTERM');
+      await exited;
+    },
+  };
+}
+
+export interface BrowserSession {
+  page: Page;
+  context: BrowserContext;
+  /** Console errors and failed requests seen so far; a test asserts this stays empty. */
+  problems: string[];
+  screenshot(name: string): Promise<string>;
+  close(): Promise<void>;
+}
+
+let browser: Browser | null = null;
+
+export async function openBrowser(): Promise<BrowserSession> {
+  browser ??= await chromium.launch({
+    executablePath: CHROMIUM_PATH,
+    args: ['--no-sandbox', '--disable-gpu', '--disable-background-networking', '--disable-component-update', '--no-first-run', '--disable-sync'],
+  });
+  const context = await browser.newContext({ viewport: { width: 1280, height: 860 } });
+  const page = await context.newPage();
+  const problems: string[] = [];
+  page.on('console', (m) => {
+    if (m.type() === 'error') problems.push(`console error: ${m.text()}`);
+  });
+  page.on('pageerror', (e) => problems.push(`page error: ${e.message}`));
+  page.on('requestfailed', (r) => problems.push(`request failed: ${r.url()} ${r.failure()?.errorText}`));
+  page.on('response', (r) => {
+    if (r.status() >= 400) problems.push(`HTTP ${r.status()}: ${r.url()}`);
+  });
+  mkdirSync(SCREENSHOT_DIR, { recursive: true });
+  return {
+    page,
+    context,
+    problems,
+    async screenshot(name: string) {
+      const file = path.join(SCREENSHOT_DIR, `${name}.png`);
+      await page.screenshot({ path: file, fullPage: true });
+      return file;
+    },
+    async close() {
+      await context.close();
+    },
+  };
+}
+
+export async function closeBrowser(): Promise<void> {
+  await browser?.close();
+  browser = null;
+}
