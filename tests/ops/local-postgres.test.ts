@@ -8,32 +8,46 @@ import { afterEach, describe, expect, inject, it } from 'vitest';
 import { chooseClusterFolder, findServerBinaries, LocalCluster, LocalPostgresError, lookupOsUser, portIsFree } from '../../db/local-postgres';
 
 const made: string[] = [];
-afterEach(() => {
+const clusters: LocalCluster[] = [];
+afterEach(async () => {
+  // A cluster under test must never really start; stop it if a regression lets it.
+  for (const c of clusters.splice(0)) await c.stop();
   for (const dir of made.splice(0)) rmSync(dir, { recursive: true, force: true });
 });
 
-/** A project root with a hand-made data folder: no initdb needed to reach the checks under test. */
-function fakeProject(pgVersion: string): { root: string; cluster: LocalCluster } {
+const runAs = process.getuid?.() === 0 ? lookupOsUser('postgres') : null;
+
+/**
+ * A project root whose cluster folder (wherever the cluster will look for it: in the checkout, or
+ * under /var/tmp when the postgres user cannot reach the checkout) holds a hand-made data folder,
+ * so no initdb is needed to reach the checks under test.
+ */
+function fakeProject(pgVersion: string): { dataFolder: string; cluster: LocalCluster } {
   const root = path.join(process.cwd(), '.data', 'test-roots', `r${Date.now()}${Math.random().toString(16).slice(2, 8)}`);
-  mkdirSync(path.join(root, '.data', 'pg-probe', 'data'), { recursive: true });
-  writeFileSync(path.join(root, '.data', 'pg-probe', 'data', 'PG_VERSION'), `${pgVersion}\n`);
   made.push(root);
-  return { root, cluster: new LocalCluster({ name: 'probe', port: 54399, projectRoot: root, log: () => undefined }) };
+  const folder = chooseClusterFolder({ projectRoot: root, name: 'probe', runAs, log: () => undefined });
+  if (!folder.startsWith(root)) made.push(path.dirname(folder));
+  const dataFolder = path.join(folder, 'data');
+  mkdirSync(dataFolder, { recursive: true });
+  writeFileSync(path.join(dataFolder, 'PG_VERSION'), `${pgVersion}\n`);
+  const cluster = new LocalCluster({ name: 'probe', port: 54399, projectRoot: root, log: () => undefined });
+  clusters.push(cluster);
+  return { dataFolder, cluster };
 }
 
 const major = findServerBinaries()!.major;
 
 describe('LocalCluster refuses to start and says why', () => {
   it('when the data folder was made by another major version', () => {
-    const { cluster, root } = fakeProject('11');
+    const { cluster, dataFolder } = fakeProject('11');
     expect(() => cluster.prepare()).toThrowError(LocalPostgresError);
     expect(() => cluster.prepare()).toThrowError(new RegExp(`made by PostgreSQL 11, but this machine has PostgreSQL ${major}.*Nothing was changed`));
-    expect(readdirSync(path.join(root, '.data', 'pg-probe', 'data'))).toEqual(['PG_VERSION']);
+    expect(readdirSync(dataFolder)).toEqual(['PG_VERSION']);
   });
 
   it('when a lock file is left by a server that is gone', async () => {
-    const { cluster, root } = fakeProject(String(major));
-    const lock = path.join(root, '.data', 'pg-probe', 'data', 'postmaster.pid');
+    const { cluster, dataFolder } = fakeProject(String(major));
+    const lock = path.join(dataFolder, 'postmaster.pid');
     // pid 2^22 + 1 is above Linux's default pid_max, so no process can have it.
     writeFileSync(lock, '4194305\n/elsewhere\n');
     cluster.prepare();
@@ -42,10 +56,10 @@ describe('LocalCluster refuses to start and says why', () => {
   });
 
   it('when a lock file names a running server', async () => {
-    const { cluster, root } = fakeProject(String(major));
+    const { cluster, dataFolder } = fakeProject(String(major));
     // The test cluster started by the global setup is a running postgres process.
     const running = readFileSync(path.join(inject('testClusterDataFolder'), 'postmaster.pid'), 'utf8').split('\n')[0];
-    writeFileSync(path.join(root, '.data', 'pg-probe', 'data', 'postmaster.pid'), `${running}\n`);
+    writeFileSync(path.join(dataFolder, 'postmaster.pid'), `${running}\n`);
     cluster.prepare();
     await expect(cluster.start()).rejects.toThrowError(new RegExp(`pid ${running}\\) is already running.*npm run db:stop`));
   });
@@ -69,7 +83,7 @@ describe.runIf(process.getuid?.() === 0)('as root', () => {
   it('keeps the cluster where the postgres user can reach it when the checkout is in a private folder', () => {
     const privateRoot = mkdtempSync(path.join(tmpdir(), 'ws-private-'));
     made.push(privateRoot);
-    const chosen = chooseClusterFolder({ projectRoot: privateRoot, name: 'probe', runAs: lookupOsUser('postgres'), log: () => undefined });
+    const chosen = chooseClusterFolder({ projectRoot: privateRoot, name: 'probe', runAs, log: () => undefined });
     made.push(path.dirname(chosen));
     expect(chosen.startsWith('/var/tmp/worldsheet-')).toBe(true);
     expect(readFileSync(path.join(privateRoot, '.data', 'pg-probe', 'WHERE-IS-THE-DATA.txt'), 'utf8')).toContain(chosen);
