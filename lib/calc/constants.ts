@@ -1,0 +1,52 @@
+// Physical constants of the engine, with their provenance. Exact ones are defined by the SI
+// (SI Brochure, 9th edition, 2019, table 1 and §2.3.1); the rest are the CODATA 2022 recommended
+// values (Mohr, Newell, Taylor, Tiesinga, "CODATA recommended values of the fundamental physical
+// constants: 2022", published 2024), each with its standard uncertainty.
+
+export const CONSTANTS_EDITION = 'CODATA 2022; SI 2019 exact constants';
+
+export interface ConstantDef {
+  /** The name a sheet uses. */
+  name: string;
+  description: string;
+  /** Value in the SI unit given by `unit`. */
+  value: number;
+  unit: string;
+  /** Standard uncertainty in the same unit; 0 when exact. */
+  uncertainty: number;
+  provenance: string;
+  tex: string;
+}
+
+/** Speed of light in vacuum, m/s: exact (SI 2019, defining constant). */
+export const C = 299_792_458;
+/** Elementary charge, C: exact (SI 2019, defining constant). */
+export const E_CHARGE = 1.602_176_634e-19;
+/** Planck constant, J s: exact (SI 2019, defining constant). */
+export const H_PLANCK = 6.626_070_15e-34;
+/** Standard acceleration of gravity, m/s²: exact (3rd CGPM 1901; SI Brochure 9th ed.). */
+export const G_N = 9.806_65;
+/** Electron mass, kg: CODATA 2022, u = 2.8e-40 kg. */
+export const M_E = 9.109_383_7139e-31;
+/** Proton mass, kg: CODATA 2022, u = 5.2e-37 kg. */
+export const M_P = 1.672_621_925_95e-27;
+/** Neutron mass, kg: CODATA 2022, u = 8.5e-37 kg. */
+export const M_N = 1.674_927_500_56e-27;
+/** Atomic mass constant, kg: CODATA 2022, u = 5.2e-37 kg. */
+export const M_U = 1.660_539_068_92e-27;
+/** Muon mass, kg: CODATA 2022, u = 4.2e-36 kg. */
+export const M_MU = 1.883_531_627e-28;
+
+const SI_2019 = 'exact by definition (SI Brochure, 9th edition, 2019)';
+
+export const CONSTANTS: readonly ConstantDef[] = [
+  { name: 'c', description: 'speed of light in vacuum', value: C, unit: 'm/s', uncertainty: 0, provenance: SI_2019, tex: 'c' },
+  { name: 'g_n', description: 'standard acceleration of gravity', value: G_N, unit: 'm/s^2', uncertainty: 0, provenance: 'exact by definition (3rd CGPM, 1901; SI Brochure, 9th edition)', tex: 'g_{\\mathrm{n}}' },
+  { name: 'q_e', description: 'elementary charge', value: E_CHARGE, unit: 'C', uncertainty: 0, provenance: SI_2019, tex: 'e' },
+  { name: 'h_P', description: 'Planck constant', value: H_PLANCK, unit: 'J s', uncertainty: 0, provenance: SI_2019, tex: 'h' },
+  { name: 'm_e', description: 'electron mass', value: M_E, unit: 'kg', uncertainty: 2.8e-40, provenance: 'CODATA 2022', tex: 'm_{\\mathrm{e}}' },
+  { name: 'm_p', description: 'proton mass', value: M_P, unit: 'kg', uncertainty: 5.2e-37, provenance: 'CODATA 2022', tex: 'm_{\\mathrm{p}}' },
+  { name: 'm_n', description: 'neutron mass', value: M_N, unit: 'kg', uncertainty: 8.5e-37, provenance: 'CODATA 2022', tex: 'm_{\\mathrm{n}}' },
+  { name: 'm_u', description: 'atomic mass constant', value: M_U, unit: 'kg', uncertainty: 5.2e-37, provenance: 'CODATA 2022', tex: 'm_{\\mathrm{u}}' },
+  { name: 'm_mu', description: 'muon mass', value: M_MU, unit: 'kg', uncertainty: 4.2e-36, provenance: 'CODATA 2022', tex: 'm_{\\mu}' },
+];
