@@ -1,6 +1,7 @@
 // The project's commands, run by lib/ops/bootstrap.mjs after the npm packages are in place:
 //   start     local PostgreSQL, migrations, demo seed, production build, app server (npm start)
 //   test      the whole test suite against a separate test cluster (npm test)
+//   bench     the benchmarks, printed as ratios measured in one run (npm run bench)
 //   dev       like start, with `next dev` instead of a production build
 //   db-start  only the local PostgreSQL, until Ctrl-C
 //   db-stop   stops a local PostgreSQL left running by a process that is gone
@@ -108,6 +109,12 @@ async function test(supervisor: Supervisor, args: string[]): Promise<void> {
   if (!supervisor.isStopping) process.exit(code);
 }
 
+async function bench(supervisor: Supervisor): Promise<void> {
+  const child = supervisor.spawn('benchmarks', process.execPath, ['--import', 'tsx', path.join(root, 'tests', 'bench', 'calc-bench.ts')], { cwd: root });
+  const code = await waitForExit(child);
+  if (!supervisor.isStopping) process.exit(code);
+}
+
 async function dbOnly(supervisor: Supervisor): Promise<void> {
   const database = await prepareDatabase(supervisor, { seed: true });
   log(`PostgreSQL ready: DATABASE_URL=${database.url}`);
@@ -136,6 +143,8 @@ export async function runCommand(command: string, args: string[]): Promise<void>
         return await serve(supervisor, 'dev');
       case 'test':
         return await test(supervisor, args);
+      case 'bench':
+        return await bench(supervisor);
       case 'db-start':
         return await dbOnly(supervisor);
       case 'db-stop':

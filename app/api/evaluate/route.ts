@@ -1,0 +1,22 @@
+import { AppError, errorResponse, readJsonBody } from '@/lib/errors/app-error';
+import { EVALUATE_MAX_BYTES, evaluateRequestSchema } from '@/lib/calc/evaluate-request';
+import { getEvaluator } from '@/lib/calc/sandbox/evaluator';
+
+export const dynamic = 'force-dynamic';
+
+// Sign-in will be required here once accounts exist.
+export async function POST(request: Request): Promise<Response> {
+  try {
+    const body = await readJsonBody(request, EVALUATE_MAX_BYTES);
+    const parsed = evaluateRequestSchema.safeParse(body);
+    if (!parsed.success) {
+      const issue = parsed.error.issues[0];
+      throw new AppError('bad_request', `${issue.path.join('.') || 'body'}: ${issue.message}`, parsed.error.issues.slice(0, 10));
+    }
+    const { cells, significantFigures, sheetKey } = parsed.data;
+    const result = await getEvaluator().evaluate(cells, { significantFigures }, sheetKey);
+    return Response.json(result);
+  } catch (error) {
+    return errorResponse(error);
+  }
+}

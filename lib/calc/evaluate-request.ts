@@ -1,0 +1,23 @@
+// The body of POST /api/evaluate, validated with zod.
+import { z } from 'zod';
+import { LIMITS } from './limits';
+
+export const EVALUATE_MAX_BYTES = 2 * 1024 * 1024;
+
+export const evaluateRequestSchema = z.object({
+  /** Sends the same sheet to the same worker, whose cache makes re-evaluation incremental. */
+  sheetKey: z.string().max(100).optional(),
+  significantFigures: z.number().int().min(2).max(15).default(6),
+  cells: z
+    .array(
+      z.object({
+        id: z.string().regex(/^[a-z0-9][a-z0-9-]{0,39}$/, 'cell ids are short lowercase tokens'),
+        kind: z.enum(['calc', 'text']),
+        source: z.string().max(LIMITS.maxCellSourceChars),
+      }),
+    )
+    .max(LIMITS.maxCells)
+    .refine((cells) => new Set(cells.map((c) => c.id)).size === cells.length, 'cell ids must be unique'),
+});
+
+export type EvaluateRequestBody = z.infer<typeof evaluateRequestSchema>;

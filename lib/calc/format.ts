@@ -1,0 +1,163 @@
+// Numbers and units as a checker reads them, per ISO 80000-1 and the SI Brochure (9th ed., §5.4):
+// a space between number and unit, digits grouped in threes by a thin space when a side has more
+// than four, the minus sign U+2212, powers of ten written as × 10ⁿ, products of units with a
+// half-high dot, quotients with a solidus.
+import type { MathJsInstance, Unit } from 'mathjs';
+import type { DisplayValue } from './types';
+
+const THIN = '\u202f';
+const MINUS = '\u2212';
+const SUPERSCRIPTS: Record<string, string> = { '0': '⁰', '1': '¹', '2': '²', '3': '³', '4': '⁴', '5': '⁵', '6': '⁶', '7': '⁷', '8': '⁸', '9': '⁹', '-': '⁻' };
+
+const superscript = (s: string) => [...s].map((ch) => SUPERSCRIPTS[ch] ?? ch).join('');
+
+function group(digits: string, fromLeft: boolean, sep: string): string {
+  if (digits.length <= 4) return digits;
+  const out: string[] = [];
+  if (fromLeft) {
+    for (let i = 0; i < digits.length; i += 3) out.push(digits.slice(i, i + 3));
+  } else {
+    for (let i = digits.length; i > 0; i -= 3) out.unshift(digits.slice(Math.max(0, i - 3), i));
+  }
+  return out.join(sep);
+}
+
+interface NumberParts {
+  negative: boolean;
+  integer: string;
+  fraction: string;
+  exponent: number | null;
+}
+
+/** Rounds to `sig` significant figures and drops trailing zeros of the fraction. */
+export function numberParts(x: number, sig: number): NumberParts {
+  const negative = x < 0 || Object.is(x, -0);
+  const a = Math.abs(x);
+  if (a === 0) return { negative: false, integer: '0', fraction: '', exponent: null };
+  const [mantissa, expText] = a.toExponential(sig - 1).split('e');
+  let exponent = Number(expText);
+  const scientific = exponent < -3 || exponent >= 6;
+  let text: string;
+  if (scientific) {
+    text = mantissa;
+  } else {
+    text = Number(a.toPrecision(sig)).toFixed(Math.max(0, sig - 1 - exponent));
+    exponent = 0;
+  }
+  let [integer, fraction = ''] = text.split('.');
+  fraction = fraction.replace(/0+$/, '');
+  return { negative, integer, fraction, exponent: scientific ? exponent : null };
+}
+
+export function formatNumberText(x: number, sig: number): string {
+  if (Number.isNaN(x)) return 'NaN';
+  if (!Number.isFinite(x)) return x > 0 ? '∞' : `${MINUS}∞`;
+  const p = numberParts(x, sig);
+  const body = group(p.integer, false, THIN) + (p.fraction ? `.${group(p.fraction, true, THIN)}` : '');
+  return `${p.negative ? MINUS : ''}${body}${p.exponent !== null ? ` × 10${superscript(String(p.exponent))}` : ''}`;
+}
+
+export function formatNumberTex(x: number, sig: number): string {
+  if (Number.isNaN(x)) return '\\mathrm{NaN}';
+  if (!Number.isFinite(x)) return x > 0 ? '\\infty' : '-\\infty';
+  const p = numberParts(x, sig);
+  const body = group(p.integer, false, '\\,') + (p.fraction ? `.${group(p.fraction, true, '\\,')}` : '');
+  return `${p.negative ? '-' : ''}${body}${p.exponent !== null ? ` \\times 10^{${p.exponent}}` : ''}`;
+}
+
+interface UnitPart {
+  name: string;
+  power: number;
+}
+
+function unitParts(unit: Unit): UnitPart[] {
+  const units = (unit as unknown as { units: Array<{ unit: { name: string }; prefix: { name: string }; power: number }> }).units;
+  return units.map((u) => ({ name: `${u.prefix.name}${u.unit.name}`, power: u.power }));
+}
+
+const UPRIGHT_TEX: Record<string, string> = { deg: '^{\\circ}', ohm: '\\Omega', micro: '\\mu' };
+
+function unitNameTex(name: string): string {
+  if (UPRIGHT_TEX[name]) return UPRIGHT_TEX[name];
+  // mathjs spells the micro prefix "u" (us, um, uV): print µ.
+  const micro = /^u[A-Za-z]/.test(name) && name !== 'unit' ? `\\mu\\mathrm{${name.slice(1)}}` : null;
+  return micro ?? `\\mathrm{${name}}`;
+}
+
+function unitNameText(name: string): string {
+  if (name === 'deg') return '°';
+  return /^u[A-Za-z]/.test(name) ? `µ${name.slice(1)}` : name;
+}
+
+export function unitText(parts: UnitPart[]): string {
+  const term = (p: UnitPart, power: number) => `${unitNameText(p.name)}${power === 1 ? '' : superscript(String(power))}`;
+  const num = parts.filter((p) => p.power > 0).map((p) => term(p, p.power));
+  const den = parts.filter((p) => p.power < 0).map((p) => term(p, -p.power));
+  const top = num.length ? num.join('·') : '1';
+  if (!den.length) return top;
+  return `${top}/${den.length > 1 ? `(${den.join('·')})` : den[0]}`;
+}
+
+export function unitTex(parts: UnitPart[]): string {
+  const term = (p: UnitPart, power: number) => `${unitNameTex(p.name)}${power === 1 ? '' : `^{${power}}`}`;
+  const num = parts.filter((p) => p.power > 0).map((p) => term(p, p.power));
+  const den = parts.filter((p) => p.power < 0).map((p) => term(p, -p.power));
+  const top = num.length ? num.join('\\cdot ') : '1';
+  if (!den.length) return top;
+  return `${top}/${den.length > 1 ? `\\left(${den.join('\\cdot ')}\\right)` : den[0]}`;
+}
+
+/**
+ * Splits a mathjs quantity into the number and unit it is displayed in (simplified, with the best
+ * prefix, as mathjs chooses), keeping the number at full double precision.
+ */
+export function quantityParts(math: MathJsInstance, unit: Unit): { number: number; unitString: string; parts: UnitPart[] } {
+  const text = math.format(unit, { precision: 17 });
+  const space = text.indexOf(' ');
+  const numberText = space < 0 ? text : text.slice(0, space);
+  const unitString = space < 0 ? '' : text.slice(space + 1);
+  const number = Number(numberText);
+  if (!unitString) return { number, unitString: '', parts: [] };
+  const display = math.unit(unitString);
+  return { number, unitString, parts: unitParts(display) };
+}
+
+export function displayValue(math: MathJsInstance, value: unknown, sig: number): DisplayValue {
+  if (typeof value === 'number') {
+    return { kind: 'number', text: formatNumberText(value, sig), tex: formatNumberTex(value, sig), number: value, unit: null, raw: null };
+  }
+  if (typeof value === 'boolean') {
+    return { kind: 'boolean', text: value ? 'true' : 'false', tex: `\\mathrm{${value}}`, number: null, unit: null, raw: value };
+  }
+  if (typeof value === 'string') {
+    return { kind: 'string', text: value, tex: `\\text{${value.replace(/[\\{}$&#^_%~]/g, '')}}`, number: null, unit: null, raw: value };
+  }
+  if (math.isUnit(value)) {
+    const u = value as Unit;
+    if (u.value === null) {
+      const parts = unitParts(u);
+      return { kind: 'quantity', text: unitText(parts), tex: unitTex(parts), number: null, unit: u.formatUnits(), raw: null };
+    }
+    const q = quantityParts(math, u);
+    if (!q.unitString) {
+      return { kind: 'number', text: formatNumberText(q.number, sig), tex: formatNumberTex(q.number, sig), number: q.number, unit: null, raw: null };
+    }
+    return {
+      kind: 'quantity',
+      text: `${formatNumberText(q.number, sig)} ${unitText(q.parts)}`,
+      tex: `${formatNumberTex(q.number, sig)}\\ ${unitTex(q.parts)}`,
+      number: q.number,
+      unit: q.unitString,
+      raw: null,
+    };
+  }
+  if (math.isMatrix(value) || Array.isArray(value)) {
+    const text = math.format(value, { precision: sig });
+    return { kind: 'matrix', text, tex: `\\texttt{${text.replace(/[\\{}$&#^_%~]/g, '')}}`, number: null, unit: null, raw: text };
+  }
+  if (typeof value === 'function') {
+    return { kind: 'function', text: 'function', tex: '\\text{function}', number: null, unit: null, raw: null };
+  }
+  const text = math.format(value as never, { precision: sig });
+  return { kind: 'other', text, tex: `\\text{${text.replace(/[\\{}$&#^_%~]/g, '')}}`, number: null, unit: null, raw: text };
+}

@@ -1,0 +1,111 @@
+// Binds the relativistic library's numeric kernels to mathjs: converts each argument (a mathjs Unit
+// or a plain number) to the SI number the kernel expects, checks its dimension, and wraps the
+// kernel's result as a mathjs value with its unit.
+import type { MathJsInstance, Unit } from 'mathjs';
+import { C, E_CHARGE } from './constants';
+import { DomainError, type CalcFunction, type ParamKind, type ReturnKind } from './functions/types';
+import type { LibraryBinding } from './math-instance';
+
+/** SI base unit of each physical kind, and the alternative dimension it accepts. */
+const KIND_UNITS: Record<Exclude<ParamKind, 'number'>, { si: string; label: string; alt?: { si: string; label: string; toSi: (x: number) => number } }> = {
+  speed: { si: 'm/s', label: 'a speed' },
+  mass: { si: 'kg', label: 'a mass', alt: { si: 'J', label: 'an energy (read as mc²)', toSi: (x) => x / (C * C) } },
+  energy: { si: 'J', label: 'an energy' },
+  momentum: { si: 'kg m/s', label: 'a momentum', alt: { si: 'J', label: 'an energy (read as pc)', toSi: (x) => x / C } },
+  time: { si: 's', label: 'a time' },
+  length: { si: 'm', label: 'a length' },
+  acceleration: { si: 'm/s^2', label: 'an acceleration' },
+  voltage: { si: 'V', label: 'a voltage' },
+  charge: { si: 'C', label: 'a charge' },
+  angle: { si: 'rad', label: 'an angle' },
+};
+
+const RETURN_UNITS: Record<Exclude<ReturnKind, 'number' | 'speed' | 'pair-time-length'>, string> = {
+  energy: 'J',
+  momentum: 'kg m/s',
+  time: 's',
+  length: 'm',
+  acceleration: 'm/s^2',
+  rigidity: 'T m',
+  mass: 'kg',
+  angle: 'rad',
+};
+
+export class ArgumentError extends Error {
+  constructor(message: string) {
+    super(message);
+    this.name = 'ArgumentError';
+  }
+}
+
+function describe(value: unknown): string {
+  if (typeof value === 'number') return String(value);
+  if (value && typeof value === 'object' && 'toString' in value) return String(value);
+  return typeof value;
+}
+
+export function bindLibrary(math: MathJsInstance, library: readonly CalcFunction[]): LibraryBinding[] {
+  const reference = new Map<string, Unit>();
+  const baseOf = (si: string): Unit => {
+    let u = reference.get(si);
+    if (!u) {
+      u = math.unit(si);
+      reference.set(si, u);
+    }
+    return u;
+  };
+
+  const toNumber = (fn: CalcFunction, index: number, value: unknown): number => {
+    const param = fn.params[index];
+    const where = `${fn.name}: argument ${index + 1} (${param.name})`;
+    if (typeof value === 'number') {
+      if (param.kind === 'number' || param.kind === 'speed' || param.kind === 'angle') return value;
+      if (param.kind === 'charge') return value * E_CHARGE;
+      throw new ArgumentError(`${where} must be ${KIND_UNITS[param.kind].label} with a unit; got the plain number ${value}`);
+    }
+    if (math.isUnit(value)) {
+      const unit = value as Unit;
+      if (param.kind === 'number') {
+        throw new ArgumentError(`${where} must be a plain number; got ${describe(unit)}`);
+      }
+      const spec = KIND_UNITS[param.kind];
+      if (unit.value === null) throw new ArgumentError(`${where} needs a value, not the bare unit ${describe(unit)}`);
+      if (unit.equalBase(baseOf(spec.si))) {
+        const si = unit.toNumber(spec.si);
+        return param.kind === 'speed' ? si / C : si;
+      }
+      if (spec.alt && unit.equalBase(baseOf(spec.alt.si))) return spec.alt.toSi(unit.toNumber(spec.alt.si));
+      throw new ArgumentError(
+        `${where} must be ${spec.label}${spec.alt ? ` or ${spec.alt.label}` : ''}${param.kind === 'speed' ? ' or a plain β' : ''}; got ${describe(unit)}`,
+      );
+    }
+    throw new ArgumentError(`${where} must be ${param.kind === 'number' ? 'a number' : KIND_UNITS[param.kind].label}; got ${describe(value)}`);
+  };
+
+  const wrap = (fn: CalcFunction, result: number | [number, number]): unknown => {
+    if (fn.returns === 'pair-time-length') {
+      const [t, x] = result as [number, number];
+      return math.matrix([math.unit(t, 's'), math.unit(x, 'm')]);
+    }
+    const r = result as number;
+    if (fn.returns === 'number') return r;
+    if (fn.returns === 'speed') return math.unit(r * C, 'm/s');
+    return math.unit(r, RETURN_UNITS[fn.returns]);
+  };
+
+  return library.map((fn) => ({
+    name: fn.name,
+    fn: (...args: unknown[]) => {
+      if (args.length !== fn.params.length) {
+        throw new ArgumentError(
+          `${fn.name} takes ${fn.params.length} argument${fn.params.length === 1 ? '' : 's'} (${fn.params.map((p) => p.name).join(', ')}); got ${args.length}`,
+        );
+      }
+      const numbers = args.map((a, i) => toNumber(fn, i, a));
+      for (const [i, n] of numbers.entries()) {
+        if (!Number.isFinite(n)) throw new DomainError(`${fn.name}: argument ${i + 1} (${fn.params[i].name}) must be finite; got ${n}`);
+      }
+      return wrap(fn, fn.kernel(...numbers));
+    },
+  }));
+}

@@ -1,0 +1,143 @@
+// The engine's own mathjs instance: units and constants corrected to the SI 2019 and CODATA 2022
+// values, the relativistic library registered, and every function that reaches outside a sheet
+// disabled for sheet code (mathjs security documentation: import, createUnit, reviver, evaluate,
+// parse, simplify, derivative, resolve; also config, compile, parser, help and the rest listed
+// below). The engine keeps private references to parse for its own use.
+import { all, create, type MathJsInstance, type MathNode, type Unit } from 'mathjs';
+import { C, CONSTANTS, E_CHARGE, M_E, M_N, M_P, M_U } from './constants';
+
+export interface EngineMath {
+  math: MathJsInstance;
+  /** mathjs's parser, kept before it is disabled for sheet code. */
+  parse: (expr: string) => MathNode;
+  /** Built-in constants of the product brief, as mathjs values. */
+  constants: ReadonlyMap<string, Unit>;
+  /** Names a sheet may call as functions (mathjs functions and the relativistic library). */
+  isFunctionName: (name: string) => boolean;
+  /** True when `name` is a unit, with or without an SI prefix (m, mm, MeV, T, t, h …). */
+  isUnitName: (name: string) => boolean;
+  /** True for mathjs's own named values: pi, e, i, Infinity, NaN, true, false, null, phi, tau … */
+  isMathConstant: (name: string) => boolean;
+}
+
+/**
+ * Physical constants that mathjs carries at CODATA 2018 values, corrected to CODATA 2022 (masses)
+ * or to their SI 2019 exact values. Each entry: mathjs name, value, unit, source.
+ */
+export const MATHJS_CONSTANT_CORRECTIONS: ReadonlyArray<{ name: string; value: number; unit: string; source: string }> = [
+  { name: 'electronMass', value: M_E, unit: 'kg', source: 'CODATA 2022' },
+  { name: 'protonMass', value: M_P, unit: 'kg', source: 'CODATA 2022' },
+  { name: 'neutronMass', value: M_N, unit: 'kg', source: 'CODATA 2022' },
+  { name: 'atomicMass', value: M_U, unit: 'kg', source: 'CODATA 2022' },
+  // CODATA 2022: ε0 = 8.854 187 8188(14) e-12 F/m; μ0 = 1.256 637 061 27(20) e-6 N/A²; α = 7.297 352 5643(11) e-3
+  { name: 'electricConstant', value: 8.8541878188e-12, unit: 'F/m', source: 'CODATA 2022' },
+  { name: 'magneticConstant', value: 1.25663706127e-6, unit: 'N/A^2', source: 'CODATA 2022' },
+  { name: 'fineStructure', value: 7.2973525643e-3, unit: '', source: 'CODATA 2022' },
+];
+
+/**
+ * Units whose mathjs definition is not at the current value, and units the trade needs that
+ * mathjs lacks. Values in SI base or derived units.
+ */
+export const UNIT_CORRECTIONS: ReadonlyArray<{ name: string; value: number; unit: string; source: string }> = [
+  // mathjs 15 builds the electronvolt from e = 1.602176565e-19 C (CODATA 2010).
+  { name: 'eV', value: E_CHARGE, unit: 'J', source: 'SI Brochure 9th ed., table 8: 1 eV = 1.602 176 634 × 10⁻¹⁹ J exactly' },
+  { name: 'electronvolt', value: E_CHARGE, unit: 'J', source: 'SI Brochure 9th ed., table 8' },
+  // 1 Torr = 101 325/760 Pa by definition; mathjs rounds it to 133.322 Pa.
+  { name: 'torr', value: 101_325 / 760, unit: 'Pa', source: 'definition of the torr (1/760 of a standard atmosphere, 101 325 Pa)' },
+];
+
+export const NEW_UNITS: ReadonlyArray<{ name: string; definition: string; aliases?: string[]; prefixes?: 'short' | 'long'; source: string }> = [
+  { name: 'Da', definition: `${M_U} kg`, aliases: ['dalton'], prefixes: 'short', source: 'SI Brochure 9th ed., table 8 (dalton = atomic mass constant, CODATA 2022 value)' },
+  { name: 'au', definition: '149597870700 m', aliases: ['astronomicalunit'], source: 'IAU 2012 Resolution B2 (exact)' },
+  { name: 'ly', definition: `${C * 365.25 * 86400} m`, aliases: ['lightyear'], source: 'IAU: c × Julian year (365.25 d)' },
+  { name: 'pc', definition: `${(149597870700 * 648000) / Math.PI} m`, aliases: ['parsec'], prefixes: 'short', source: 'IAU 2015 Resolution B2: 648 000/π au' },
+];
+
+/** Functions sheet code must never reach (mathjs security documentation, and more). */
+export const DISABLED_FUNCTIONS = [
+  'import',
+  'createUnit',
+  'reviver',
+  'replacer',
+  'evaluate',
+  'parse',
+  'compile',
+  'parser',
+  'simplify',
+  'simplifyConstant',
+  'simplifyCore',
+  'rationalize',
+  'derivative',
+  'resolve',
+  'leafCount',
+  'symbolicEqual',
+  'config',
+  'help',
+  'chain',
+  'print',
+] as const;
+
+/**
+ * Names refused where a sheet mentions them, before evaluation: mathjs needs them internally, so
+ * they cannot be replaced in the instance itself.
+ */
+export const REFUSED_NAMES = new Set<string>([...DISABLED_FUNCTIONS, 'typed', 'format', 'Unit', 'expression', 'json', 'Node', 'Parser', 'on', 'off', 'once', 'emit', 'factory', 'create']);
+
+/** Named values of mathjs that stay available and cannot be redefined. */
+const MATH_CONSTANTS = new Set([
+  'pi', 'PI', 'e', 'E', 'i', 'Infinity', 'NaN', 'true', 'false', 'null', 'undefined', 'phi', 'tau',
+  'LN2', 'LN10', 'LOG2E', 'LOG10E', 'SQRT1_2', 'SQRT2', 'version',
+]);
+
+export interface LibraryBinding {
+  name: string;
+  fn: (...args: unknown[]) => unknown;
+}
+
+export function createEngineMath(library: readonly LibraryBinding[], setup?: (math: MathJsInstance) => void): EngineMath {
+  const math = create(all, { number: 'number', precision: 64 }) as MathJsInstance;
+  const parse = math.parse.bind(math) as (expr: string) => MathNode;
+
+  const units = (math.Unit as unknown as { UNITS: Record<string, { value: number }> }).UNITS;
+  for (const u of UNIT_CORRECTIONS) {
+    if (!units[u.name]) throw new Error(`mathjs has no unit ${u.name} to correct`);
+    units[u.name].value = math.unit(u.value, u.unit).value as number;
+  }
+  for (const u of NEW_UNITS) {
+    math.createUnit(u.name, { definition: u.definition, aliases: u.aliases ?? [], prefixes: u.prefixes ?? 'none' }, { override: false });
+  }
+
+  const corrections: Record<string, unknown> = {};
+  for (const k of MATHJS_CONSTANT_CORRECTIONS) corrections[k.name] = k.unit ? math.unit(k.value, k.unit) : k.value;
+  math.import(corrections, { override: true });
+
+  const libraryFns: Record<string, unknown> = {};
+  for (const f of library) libraryFns[f.name] = f.fn;
+  math.import(libraryFns, { override: false });
+
+  const constants = new Map<string, Unit>();
+  for (const k of CONSTANTS) constants.set(k.name, math.unit(k.value, k.unit));
+
+  setup?.(math);
+
+  const disabled: Record<string, unknown> = {};
+  for (const name of DISABLED_FUNCTIONS) {
+    disabled[name] = () => {
+      throw new Error(`The function ${name} is not available in calculation sheets.`);
+    };
+  }
+  math.import(disabled, { override: true });
+
+  const mathRecord = math as unknown as Record<string, unknown>;
+  const libraryNames = new Set(library.map((f) => f.name));
+  return {
+    math,
+    parse,
+    constants,
+    isFunctionName: (name) =>
+      libraryNames.has(name) || (Object.prototype.hasOwnProperty.call(mathRecord, name) && typeof mathRecord[name] === 'function'),
+    isUnitName: (name) => (math.Unit as unknown as { isValuelessUnit(n: string): boolean }).isValuelessUnit(name),
+    isMathConstant: (name) => MATH_CONSTANTS.has(name) || (Object.prototype.hasOwnProperty.call(mathRecord, name) && typeof mathRecord[name] !== 'function'),
+  };
+}

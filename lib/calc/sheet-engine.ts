@@ -1,0 +1,465 @@
+// Sheet evaluation: cells in order, one statement per line, names defined once and only above their
+// use, errors kept to the cell (and the statements that depend on it), design criteria compared
+// exactly, and a content-addressed cache so that re-evaluating after an edit only evaluates the
+// edited cell and what depends on it.
+import { createHash } from 'node:crypto';
+import type { MathJsInstance, MathNode, Unit } from 'mathjs';
+import { CONSTANTS_EDITION } from './constants';
+import { displayValue, formatNumberText } from './format';
+import { LIBRARY } from './functions';
+import { bindLibrary } from './library-adapter';
+import { createEngineMath, REFUSED_NAMES, type EngineMath } from './math-instance';
+import { checkDefinitionName } from './names';
+import { formulaTex, substitutedTex, substitutionTex, type TexContext } from './tex';
+import type { CellInput, CellResult, CriterionResult, DisplayValue, EvaluateOptions, SheetResult, StatementResult } from './types';
+import { ENGINE_VERSION } from './version';
+import { installSizeGuards, LIMITS } from './limits';
+
+type AnyNode = MathNode & {
+  type: string;
+  name?: string;
+  op?: string;
+  fn?: AnyNode | string;
+  args?: AnyNode[];
+  object?: AnyNode;
+  index?: unknown;
+  value?: AnyNode;
+  params?: AnyNode[] | string[];
+  expr?: AnyNode;
+  conditionals?: string[];
+  implicit?: boolean;
+};
+
+const RELATIONAL_FNS: Record<string, (a: number, b: number) => boolean> = {
+  smaller: (a, b) => a < b,
+  larger: (a, b) => a > b,
+  smallerEq: (a, b) => a <= b,
+  largerEq: (a, b) => a >= b,
+  equal: (a, b) => a === b,
+  unequal: (a, b) => a !== b,
+};
+
+interface ParsedStatement {
+  line: number;
+  source: string;
+  node: AnyNode | null;
+  parseError: string | null;
+  kind: StatementResult['kind'];
+  /** Name defined by this statement (definitions and functions). */
+  defines: string | null;
+  /** Free names it uses (sheet names; units, functions and built-in constants excluded). */
+  uses: string[];
+  /** A problem found without evaluating (unknown unit in a conversion, a bad assignment target). */
+  staticError: string | null;
+}
+
+/** Strips a `#` comment that is not inside a string. */
+function stripComment(line: string): string {
+  let quote: string | null = null;
+  for (let i = 0; i < line.length; i++) {
+    const ch = line[i];
+    if (quote) {
+      if (ch === '\\') i++;
+      else if (ch === quote) quote = null;
+    } else if (ch === '"' || ch === "'") quote = ch;
+    else if (ch === '#') return line.slice(0, i);
+  }
+  return line;
+}
+
+function messageOf(error: unknown): string {
+  const text = error instanceof Error ? error.message : String(error);
+  return text.length > 500 ? `${text.slice(0, 500)}…` : text;
+}
+
+export interface SheetEngine {
+  readonly em: EngineMath;
+  evaluate(cells: CellInput[], options: EvaluateOptions, hooks?: EvaluateHooks): SheetResult;
+  /** Number of cached cell results (for tests and benchmarks). */
+  cacheSize(): number;
+  clearCache(): void;
+}
+
+export interface EvaluateHooks {
+  /** Called before a cell is evaluated (not for cache hits); the sandbox uses it to know which cell runs. */
+  onCellStart?: (index: number) => void;
+  /** Cells not to evaluate, with the reason (set by the sandbox after a cell exceeded a limit). */
+  skip?: ReadonlyMap<string, string>;
+}
+
+interface CachedCell {
+  result: CellResult;
+  values: Map<string, unknown>;
+  failed: Map<string, string>;
+}
+
+export function createSheetEngine(): SheetEngine {
+  // The library is bound to a mathjs instance that exists before the engine instance: the adapter
+  // only needs `unit`, `isUnit` and `matrix`, which do not depend on the later configuration.
+  let em: EngineMath;
+  const bootstrap = createEngineMath([]);
+  em = createEngineMath(bindLibrary(bootstrap.math, LIBRARY), installSizeGuards);
+  const math: MathJsInstance = em.math;
+
+  const parseCache = new Map<string, ParsedStatement[]>();
+  const cellCache = new Map<string, CachedCell>();
+
+  function remember<K, V>(map: Map<K, V>, key: K, value: V, max: number): void {
+    if (map.size >= max) map.delete(map.keys().next().value as K);
+    map.set(key, value);
+  }
+
+  function analyse(node: AnyNode, statement: ParsedStatement): void {
+    const uses = new Set<string>();
+    const visit = (n: AnyNode, locals: ReadonlySet<string>) => {
+      switch (n.type) {
+        case 'SymbolNode': {
+          const name = n.name!;
+          if (REFUSED_NAMES.has(name)) {
+            statement.staticError ??= `The function ${name} is not available in calculation sheets.`;
+            return;
+          }
+          if (locals.has(name) || em.constants.has(name) || em.isMathConstant(name) || em.isUnitName(name)) return;
+          uses.add(name);
+          return;
+        }
+        case 'FunctionNode': {
+          const fn = n.fn as AnyNode;
+          if (fn && fn.type === 'SymbolNode') {
+            const name = fn.name!;
+            if (REFUSED_NAMES.has(name)) {
+              statement.staticError ??= `The function ${name} is not available in calculation sheets.`;
+              return;
+            }
+            if (!locals.has(name) && !em.isFunctionName(name)) uses.add(name);
+          } else if (fn) visit(fn, locals);
+          for (const a of n.args ?? []) visit(a, locals);
+          return;
+        }
+        case 'OperatorNode': {
+          if ((n.op === 'to' || n.op === 'in') && n.args) {
+            visit(n.args[0], locals);
+            n.args[1].traverse((u: MathNode) => {
+              const un = u as AnyNode;
+              if (un.type === 'SymbolNode' && !em.isUnitName(un.name!)) {
+                statement.staticError ??= `\`${un.name}\` after "${n.op}" is not a unit`;
+              }
+            });
+            return;
+          }
+          for (const a of n.args ?? []) visit(a, locals);
+          return;
+        }
+        case 'FunctionAssignmentNode': {
+          const params = (n.params as string[]) ?? [];
+          visit(n.expr!, new Set([...locals, ...params]));
+          return;
+        }
+        case 'AccessorNode':
+        case 'AssignmentNode':
+        case 'BlockNode':
+          statement.staticError ??= 'only one plain statement per line is allowed here';
+          return;
+        default:
+          n.forEach((child: MathNode) => visit(child as AnyNode, locals));
+      }
+    };
+    visit(node, new Set());
+    statement.uses = [...uses];
+  }
+
+  function parseCell(source: string): ParsedStatement[] {
+    const cached = parseCache.get(source);
+    if (cached) return cached;
+    if (source.length > LIMITS.maxCellSourceChars) {
+      const out = [{ line: 1, source: source.slice(0, 80), node: null, parseError: `the cell is longer than ${LIMITS.maxCellSourceChars} characters`, kind: 'expression' as const, defines: null, uses: [], staticError: null }];
+      return out;
+    }
+    const statements: ParsedStatement[] = [];
+    const lines = source.split(/\r?\n/);
+    for (const [i, raw] of lines.entries()) {
+      const text = stripComment(raw).trim();
+      if (!text) continue;
+      const st: ParsedStatement = { line: i + 1, source: raw.trim(), node: null, parseError: null, kind: 'expression', defines: null, uses: [], staticError: null };
+      statements.push(st);
+      if (statements.length > LIMITS.maxStatementsPerCell) {
+        st.parseError = `a cell holds at most ${LIMITS.maxStatementsPerCell} statements`;
+        break;
+      }
+      if (text.length > LIMITS.maxLineChars) {
+        st.parseError = `a line holds at most ${LIMITS.maxLineChars} characters`;
+        continue;
+      }
+      try {
+        st.node = em.parse(text) as AnyNode;
+      } catch (error) {
+        st.parseError = messageOf(error);
+        continue;
+      }
+      const node = st.node;
+      if (node.type === 'AssignmentNode') {
+        const target = node.object!;
+        if (target.type !== 'SymbolNode' || node.index) {
+          st.staticError = 'only plain names can be defined (no indexes or properties)';
+        } else {
+          st.kind = 'definition';
+          st.defines = target.name!;
+          analyse(node.value!, st);
+        }
+      } else if (node.type === 'FunctionAssignmentNode') {
+        st.kind = 'function';
+        st.defines = node.name!;
+        analyse(node, st);
+      } else {
+        st.kind = isCriterion(node) ? 'criterion' : 'expression';
+        analyse(node, st);
+      }
+      if (st.defines) st.staticError ??= checkDefinitionName(st.defines, em);
+    }
+    remember(parseCache, source, statements, LIMITS.parseCacheEntries);
+    return statements;
+  }
+
+  function isCriterion(node: AnyNode): boolean {
+    if (node.type === 'RelationalNode') return true;
+    return node.type === 'OperatorNode' && typeof node.fn === 'string' && node.fn in RELATIONAL_FNS && (node.args?.length ?? 0) === 2;
+  }
+
+  function criterionOperands(node: AnyNode): { operands: AnyNode[]; fns: string[] } {
+    if (node.type === 'RelationalNode') return { operands: node.params as AnyNode[], fns: node.conditionals! };
+    return { operands: node.args!, fns: [node.fn as string] };
+  }
+
+  function siNumber(value: unknown, side: string): { si: number; unit: Unit | null } {
+    if (typeof value === 'number') return { si: value, unit: null };
+    if (math.isUnit(value)) {
+      const u = value as Unit;
+      if (u.value === null) throw new Error(`the ${side} of the criterion is a bare unit`);
+      return { si: u.value as number, unit: u };
+    }
+    throw new Error(`the ${side} of a criterion must be a number or a quantity`);
+  }
+
+  function evaluateCriterion(node: AnyNode, scope: Map<string, unknown>): { value: boolean; criterion: CriterionResult } {
+    const { operands, fns } = criterionOperands(node);
+    const values = operands.map((o) => o.compile().evaluate(scope));
+    let pass = true;
+    let margin: number | null = null;
+    for (let i = 0; i < fns.length; i++) {
+      const a = siNumber(values[i], i === 0 ? 'left side' : 'middle');
+      const b = siNumber(values[i + 1], 'right side');
+      if ((a.unit === null) !== (b.unit === null) || (a.unit && b.unit && !a.unit.equalBase(b.unit))) {
+        throw new Error('the two sides of the criterion have different dimensions');
+      }
+      const holds = RELATIONAL_FNS[fns[i]](a.si, b.si);
+      pass &&= holds;
+      // Relative margin to the limit: how far the left side is from the right, as a fraction of it.
+      if (fns[i] !== 'equal' && fns[i] !== 'unequal' && b.si !== 0) {
+        const towardsPass = fns[i] === 'smaller' || fns[i] === 'smallerEq' ? b.si - a.si : a.si - b.si;
+        const m = towardsPass / Math.abs(b.si);
+        margin = margin === null ? m : Math.min(margin, m);
+      }
+    }
+    const marginText =
+      margin === null
+        ? 'compared exactly (no tolerance)'
+        : `margin ${formatNumberText(margin * 100, 3)} % of the limit, compared exactly (no tolerance)`;
+    return { value: pass, criterion: { pass, comparison: 'exact', margin, marginText } };
+  }
+
+  function evaluate(cells: CellInput[], options: EvaluateOptions, hooks: EvaluateHooks = {}): SheetResult {
+    if (cells.length > LIMITS.maxCells) throw new Error(`a sheet holds at most ${LIMITS.maxCells} cells`);
+    const sig = Math.min(15, Math.max(2, Math.round(options.significantFigures)));
+    const parsed = cells.map((c) => (c.kind === 'calc' ? parseCell(c.source) : []));
+
+    // Where each name is first defined in the whole sheet: to tell "defined below" from "undefined".
+    const firstDefinition = new Map<string, { cell: number; line: number }>();
+    parsed.forEach((statements, ci) => {
+      for (const st of statements) if (st.defines && !firstDefinition.has(st.defines)) firstDefinition.set(st.defines, { cell: ci, line: st.line });
+    });
+
+    const scope = new Map<string, unknown>(em.constants);
+    const definedAt = new Map<string, { cell: number; line: number }>();
+    /** Names whose value is unavailable, with why. */
+    const failed = new Map<string, string>();
+    /** Cache key of the cell that defined each name, so a dependent cell's key changes with it. */
+    const nameKey = new Map<string, string>();
+    const results: CellResult[] = [];
+    let evaluatedCells = 0;
+
+    const texValue = new Map<string, string>();
+    const valueTexOf = (name: string): string | undefined => {
+      const cachedTex = texValue.get(name);
+      if (cachedTex !== undefined) return cachedTex;
+      if (!scope.has(name)) return undefined;
+      const v = scope.get(name);
+      if (typeof v === 'function') return undefined;
+      const tex = substitutionTex(displayValue(math, v, sig).tex);
+      texValue.set(name, tex);
+      return tex;
+    };
+
+    for (const [ci, cell] of cells.entries()) {
+      const statements = parsed[ci];
+      if (cell.kind === 'text') {
+        results.push({ id: cell.id, index: ci, kind: 'text', ok: true, error: null, statements: [], defines: [], uses: [] });
+        continue;
+      }
+      const ownNames = new Set(statements.map((s) => s.defines).filter((n): n is string => !!n));
+      const external = [...new Set(statements.flatMap((s) => s.uses))].filter((n) => !ownNames.has(n) || definedAt.has(n)).sort();
+      const skipReason = hooks.skip?.get(cell.id);
+      // The key covers everything the cell's results depend on: its text, its position (messages
+      // name cells by number), the display precision, the keys of the cells that defined what it
+      // uses, and where its own names and not-yet-defined names stand in the sheet.
+      const context = [
+        ...external.map((n) => {
+          if (definedAt.has(n)) return `${n}=${nameKey.get(n) ?? `failed:${failed.get(n) ?? ''}`}`;
+          const later = firstDefinition.get(n);
+          return `${n}=${later ? `later:${later.cell}:${later.line}` : 'undefined'}`;
+        }),
+        ...[...ownNames].map((n) => {
+          const at = definedAt.get(n);
+          return `own:${n}=${at ? `${at.cell}:${at.line}` : 'new'}`;
+        }),
+      ];
+      const key = createHash('sha256').update(`${sig}\0${ci}\0${cell.source}\0${context.join('\0')}`).digest('base64');
+
+      const cached = skipReason ? undefined : cellCache.get(key);
+      if (cached) {
+        for (const [name, value] of cached.values) {
+          scope.set(name, value);
+          texValue.delete(name);
+        }
+        for (const [name, why] of cached.failed) failed.set(name, why);
+        for (const st of statements) if (st.defines && !definedAt.has(st.defines)) definedAt.set(st.defines, { cell: ci, line: st.line });
+        for (const name of ownNames) nameKey.set(name, key);
+        results.push({ ...cached.result, id: cell.id, index: ci });
+        continue;
+      }
+
+      hooks.onCellStart?.(ci);
+      evaluatedCells++;
+      const values = new Map<string, unknown>();
+      const cellFailed = new Map<string, string>();
+      const out: StatementResult[] = [];
+      const texCtx: TexContext = { isValueName: (n) => scope.has(n) || definedAt.has(n) || ownNames.has(n), valueTex: valueTexOf };
+
+      for (const st of statements) {
+        const result: StatementResult = { line: st.line, source: st.source, kind: st.kind, name: st.defines, tex: '', substitutedTex: null, value: null, criterion: null, error: null };
+        out.push(result);
+        const fail = (message: string) => {
+          result.error = message;
+          if (st.defines) cellFailed.set(st.defines, `it has an error in cell ${ci + 1}, line ${st.line}`);
+        };
+        if (st.node) {
+          try {
+            result.tex = formulaTex(st.node, texCtx);
+          } catch {
+            result.tex = '';
+          }
+        }
+        // Register the definition first, so that later uses of a name whose statement fails read
+        // "depends on …, which has an error" rather than "not defined".
+        if (st.defines) {
+          const earlier = definedAt.get(st.defines);
+          if (earlier) {
+            result.error = `\`${st.defines}\` is already defined in cell ${earlier.cell + 1}, line ${earlier.line}; a name is defined once per sheet`;
+            continue;
+          }
+          definedAt.set(st.defines, { cell: ci, line: st.line });
+        }
+        if (skipReason) {
+          fail(skipReason);
+          continue;
+        }
+        if (st.parseError) {
+          fail(`cannot read this line: ${st.parseError}`);
+          continue;
+        }
+        if (st.staticError) {
+          fail(st.staticError);
+          continue;
+        }
+        const problem = st.uses
+          .map((name) => {
+            if (definedAt.has(name)) {
+              const why = failed.get(name) ?? cellFailed.get(name);
+              return why ? `depends on \`${name}\`, which is not available: ${why}` : null;
+            }
+            const later = firstDefinition.get(name);
+            if (later) return `\`${name}\` is used before it is defined (cell ${later.cell + 1}, line ${later.line}); define names above where they are used`;
+            return em.isFunctionName(name) ? null : `\`${name}\` is not defined`;
+          })
+          .find((p) => p !== null);
+        if (problem) {
+          fail(problem);
+          continue;
+        }
+        try {
+          const node = st.node!;
+          let value: unknown;
+          if (st.kind === 'criterion') {
+            const c = evaluateCriterion(node, scope);
+            value = c.value;
+            result.criterion = c.criterion;
+          } else if (st.kind === 'definition') {
+            value = node.value!.compile().evaluate(scope);
+            if (typeof value === 'function') throw new Error('define functions with the form f(x) = …');
+            scope.set(st.defines!, value);
+            texValue.delete(st.defines!);
+            values.set(st.defines!, value);
+          } else if (st.kind === 'function') {
+            value = node.compile().evaluate(scope);
+            values.set(st.defines!, scope.get(st.defines!));
+          } else {
+            value = node.compile().evaluate(scope);
+          }
+          if (st.kind !== 'function') {
+            result.value = displayValue(math, value, sig) as DisplayValue;
+            try {
+              result.substitutedTex = substitutedTex(node, texCtx);
+            } catch {
+              result.substitutedTex = null;
+            }
+          }
+        } catch (error) {
+          fail(messageOf(error));
+        }
+      }
+
+      for (const [name, why] of cellFailed) failed.set(name, why);
+      for (const name of ownNames) nameKey.set(name, key);
+      const firstError = out.find((s) => s.error)?.error ?? null;
+      const cellResult: CellResult = {
+        id: cell.id,
+        index: ci,
+        kind: 'calc',
+        ok: firstError === null,
+        error: firstError,
+        statements: out,
+        defines: [...ownNames],
+        uses: external,
+      };
+      results.push(cellResult);
+      if (!skipReason) remember(cellCache, key, { result: cellResult, values, failed: cellFailed }, LIMITS.cellCacheEntries);
+    }
+
+    return {
+      ok: results.every((r) => r.ok),
+      cells: results,
+      engineVersion: ENGINE_VERSION,
+      constantsEdition: CONSTANTS_EDITION,
+      evaluatedCells,
+    };
+  }
+
+  return {
+    em,
+    evaluate,
+    cacheSize: () => cellCache.size,
+    clearCache: () => {
+      cellCache.clear();
+      parseCache.clear();
+    },
+  };
+}

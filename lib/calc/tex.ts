@@ -1,0 +1,90 @@
+// TeX for a statement, as a checker reads it on paper: the formula with quantity symbols in the
+// ISO 80000-2 style (italic single letters, upright descriptive subscripts, Greek names as Greek
+// letters), and the same formula with every input value substituted.
+import type { MathNode } from 'mathjs';
+import { CONSTANTS } from './constants';
+
+const GREEK = new Set([
+  'alpha', 'beta', 'gamma', 'delta', 'epsilon', 'varepsilon', 'zeta', 'eta', 'theta', 'vartheta', 'iota', 'kappa',
+  'lambda', 'mu', 'nu', 'xi', 'pi', 'rho', 'sigma', 'tau', 'upsilon', 'phi', 'varphi', 'chi', 'psi', 'omega',
+  'Gamma', 'Delta', 'Theta', 'Lambda', 'Xi', 'Pi', 'Sigma', 'Upsilon', 'Phi', 'Psi', 'Omega',
+]);
+const GREEK_SUFFIX = /(alpha|beta|gamma|delta|epsilon|zeta|eta|theta|kappa|lambda|mu|nu|xi|rho|sigma|tau|phi|chi|psi|omega|Gamma|Delta|Theta|Lambda|Sigma|Phi|Psi|Omega)$/;
+
+const CONSTANT_TEX = new Map(CONSTANTS.map((c) => [c.name, c.tex]));
+
+function baseTex(base: string): string {
+  if (GREEK.has(base)) return `\\${base}`;
+  if (base.length === 1) return base;
+  const m = GREEK_SUFFIX.exec(base);
+  if (m && m.index > 0) {
+    const head = base.slice(0, m.index);
+    return `${head.length === 1 ? head : `\\mathit{${head}}`}\\${m[1]}`;
+  }
+  return `\\mathit{${base}}`;
+}
+
+/** A sheet name as a quantity symbol: T_max → T_{\mathrm{max}}, Brho_min → B\rho_{\mathrm{min}}, m_p → m_{\mathrm{p}}. */
+export function nameTex(name: string): string {
+  const constant = CONSTANT_TEX.get(name);
+  if (constant) return constant;
+  const [base, ...subs] = name.split('_');
+  if (!base) return `\\mathit{${name.replace(/_/g, '\\_')}}`;
+  if (subs.length === 0 || subs.every((s) => s === '')) return baseTex(base);
+  const sub = subs
+    .filter((s) => s !== '')
+    .map((s) => (GREEK.has(s) ? `\\${s}` : `\\mathrm{${s}}`))
+    .join(',');
+  return `${baseTex(base)}_{${sub}}`;
+}
+
+export interface TexContext {
+  /** Is this symbol a sheet name or built-in constant (rather than a unit or function)? */
+  isValueName: (name: string) => boolean;
+  /** TeX of a name's value, for substitution; undefined when it has none. */
+  valueTex?: (name: string) => string | undefined;
+}
+
+type AnyNode = MathNode & {
+  type: string;
+  name?: string;
+  op?: string;
+  fn?: unknown;
+  args?: MathNode[];
+  object?: MathNode;
+  value?: MathNode;
+  implicit?: boolean;
+};
+
+function makeHandler(ctx: TexContext, substitute: boolean) {
+  return (node: AnyNode, options: object): string | undefined => {
+    if (node.type === 'SymbolNode' && node.name && ctx.isValueName(node.name)) {
+      if (substitute && ctx.valueTex) {
+        const v = ctx.valueTex(node.name);
+        if (v !== undefined) return v;
+      }
+      return nameTex(node.name);
+    }
+    if (node.type === 'AssignmentNode' && node.object && (node.object as AnyNode).type === 'SymbolNode') {
+      return `${nameTex((node.object as AnyNode).name!)} = ${node.value!.toTex(options)}`;
+    }
+    // A unit conversion does not change the quantity; its result shows the unit.
+    if (node.type === 'OperatorNode' && (node.op === 'to' || node.op === 'in') && node.args) {
+      return node.args[0].toTex(options);
+    }
+    return undefined;
+  };
+}
+
+export function formulaTex(node: MathNode, ctx: TexContext): string {
+  return node.toTex({ handler: makeHandler(ctx, false), parenthesis: 'keep', implicit: 'hide' } as never);
+}
+
+export function substitutedTex(node: MathNode, ctx: TexContext): string {
+  return node.toTex({ handler: makeHandler(ctx, true), parenthesis: 'keep', implicit: 'hide' } as never);
+}
+
+/** Wraps a value's TeX in parentheses where substituting it bare could be misread. */
+export function substitutionTex(valueTex: string): string {
+  return /[\s\\]|^-/.test(valueTex) ? `\\left(${valueTex}\\right)` : valueTex;
+}

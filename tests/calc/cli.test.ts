@@ -1,0 +1,74 @@
+// The command-line evaluator's contract (product brief, "Sheet files and the command-line
+// evaluator"): one JSON document on stdout, values at full precision, exit codes 0, 1 and 2.
+import { spawnSync } from 'node:child_process';
+import { mkdtempSync, writeFileSync } from 'node:fs';
+import { tmpdir } from 'node:os';
+import path from 'node:path';
+import { describe, expect, it } from 'vitest';
+
+const dir = mkdtempSync(path.join(tmpdir(), 'ws-cli-'));
+function file(name: string, content: unknown): string {
+  const p = path.join(dir, name);
+  writeFileSync(p, typeof content === 'string' ? content : JSON.stringify(content));
+  return p;
+}
+function calc(...args: string[]) {
+  const r = spawnSync('npm', ['run', '-s', 'calc', '--', ...args], { cwd: process.cwd(), encoding: 'utf8', timeout: 60_000 });
+  return { code: r.status, stdout: r.stdout, stderr: r.stderr };
+}
+
+describe('npm run -s calc -- FILE --json', () => {
+  it('prints one JSON document with full-precision values and exits 0 when every cell evaluates', () => {
+    const f = file('ok.json', {
+      title: 'Proton speed',
+      cells: [
+        { kind: 'text', source: 'A proton at 250 MeV.' },
+        { kind: 'calc', source: 'T_kin = 250 MeV\nx = 1/3\nok_1 = 1 < 2\nlabel = "gantry"' },
+      ],
+    });
+    const r = calc(f, '--json');
+    expect(r.code).toBe(0);
+    const out = JSON.parse(r.stdout);
+    expect(r.stdout.trim().split('\n')).toHaveLength(1);
+    expect(out.ok).toBe(true);
+    expect(out.values.T_kin).toEqual({ value: 250, unit: 'MeV' });
+    expect(out.values.x).toEqual({ value: 1 / 3, unit: null }); // full double precision, not rounded for display
+    expect(out.values.ok_1).toEqual({ value: true, unit: null });
+    expect(out.values.label).toEqual({ value: 'gantry', unit: null });
+    expect(out.cells).toEqual([
+      { index: 0, ok: true, error: null },
+      { index: 1, ok: true, error: null },
+    ]);
+  });
+
+  it('exits 1 and names the error when a cell fails', () => {
+    const r = calc(file('bad.json', { title: 'x', cells: [{ kind: 'calc', source: 'a = 1 m + 1 s' }, { kind: 'calc', source: 'b_1 = 2' }] }), '--json');
+    expect(r.code).toBe(1);
+    const out = JSON.parse(r.stdout);
+    expect(out.ok).toBe(false);
+    expect(out.cells[0]).toMatchObject({ index: 0, ok: false, error: expect.stringMatching(/Units do not match/) });
+    expect(out.values.b_1).toEqual({ value: 2, unit: null });
+  });
+
+  it.each([
+    ['not JSON', 'not json {'],
+    ['not a sheet', { cells: 'nope' }],
+    ['a cell of an unknown kind', { title: 'x', cells: [{ kind: 'code', source: '1' }] }],
+  ])('exits 2 for a file that is %s', (_, content) => {
+    const r = calc(file(`bad-${Math.random()}.json`, content), '--json');
+    expect(r.code).toBe(2);
+    expect(JSON.parse(r.stdout)).toMatchObject({ ok: false, values: {}, cells: [] });
+  });
+
+  it('exits 2 when the file cannot be read', () => {
+    expect(calc(path.join(dir, 'missing.json'), '--json').code).toBe(2);
+  });
+
+  it('prints a readable table without --json', () => {
+    const r = calc(file('table.json', { title: 'Rigidity', cells: [{ kind: 'calc', source: 'B_1 = 1.5 T\nB_1 < 1.8 T' }] }));
+    expect(r.code).toBe(0);
+    expect(r.stdout).toContain('Rigidity');
+    expect(r.stdout).toMatch(/B_1\s+1\.5 T/);
+    expect(r.stdout).toMatch(/PASS \(margin 16\.7 % of the limit/);
+  });
+});

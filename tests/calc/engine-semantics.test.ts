@@ -1,0 +1,156 @@
+// The sheet semantics of the product brief ("The calculation language"): order of definition,
+// one definition per name, unit names kept for units, errors kept to their cells, incremental
+// re-evaluation, design criteria, display.
+import { describe, expect, it } from 'vitest';
+import { createSheetEngine } from '../../lib/calc/sheet-engine';
+import type { CellInput } from '../../lib/calc/types';
+
+const engine = createSheetEngine();
+const cells = (...sources: string[]): CellInput[] => sources.map((source, i) => ({ id: `c${i + 1}`, kind: 'calc', source }));
+const run = (list: CellInput[], significantFigures = 6) => engine.evaluate(list, { significantFigures });
+
+describe('definitions', () => {
+  it('evaluates cells top to bottom and carries names down', () => {
+    const r = run(cells('L_0 = 2 m', 'A_1 = L_0^2', 'A_1 to cm^2'));
+    expect(r.ok).toBe(true);
+    expect(r.cells[2].statements[0].value).toMatchObject({ number: 40000, unit: 'cm^2' });
+  });
+
+  it('refuses a use before the definition, on the using cell, naming where it is defined', () => {
+    const r = run(cells('y = x + 1', 'x = 2', 'z = 5'));
+    expect(r.cells[0].ok).toBe(false);
+    expect(r.cells[0].error).toBe('`x` is used before it is defined (cell 2, line 1); define names above where they are used');
+    expect(r.cells[1].ok).toBe(true);
+    expect(r.cells[2].ok).toBe(true);
+  });
+
+  it('refuses a second definition of a name', () => {
+    const r = run(cells('x = 1', 'x = 2'));
+    expect(r.cells[1].error).toBe('`x` is already defined in cell 1, line 1; a name is defined once per sheet');
+    expect(r.cells[0].ok).toBe(true);
+  });
+
+  it('refuses to name a quantity like a unit, so 2 m stays two metres', () => {
+    const r = run(cells('m = 5 kg', 'd = 2 m', 'T = 250 MeV', 'h = 3', 't = 1 s'));
+    expect(r.cells[0].error).toMatch(/^`m` is a unit, so it cannot name a quantity .*m_1 or m_kin/);
+    expect(r.cells[1].statements[0].value).toMatchObject({ number: 2, unit: 'm' });
+    for (const i of [2, 3, 4]) expect(r.cells[i].error).toMatch(/is a unit, so it cannot name a quantity/);
+  });
+
+  it('refuses to redefine built-in constants and functions', () => {
+    const r = run(cells('c = 3e8 m/s', 'pi = 3', 'lorentzFactor = 2', 'sin(x) = x'));
+    expect(r.cells[0].error).toBe('`c` is a built-in constant and cannot be redefined');
+    expect(r.cells[1].error).toBe('`pi` is a built-in value and cannot be redefined');
+    expect(r.cells[2].error).toBe('`lorentzFactor` is a built-in function and cannot be redefined');
+    expect(r.cells[3].error).toBe('`sin` is a built-in function and cannot be redefined');
+  });
+
+  it('reports an undefined name and a line it cannot read', () => {
+    const r = run(cells('y = q + 1', 'z = (1 + ', 'w = 3 # fine'));
+    expect(r.cells[0].error).toBe('`q` is not defined');
+    expect(r.cells[1].error).toMatch(/^cannot read this line: /);
+    expect(r.cells[2].ok).toBe(true);
+  });
+
+  it('accepts functions defined in the sheet and comments after #', () => {
+    const r = run(cells('f(x) = 2 x + 1   # a line', 'y = f(3)  # seven'));
+    expect(r.ok).toBe(true);
+    expect(r.cells[1].statements[0].value?.number).toBe(7);
+  });
+});
+
+describe('errors stay in their cells', () => {
+  it('fails only the cells that depend on a failed name', () => {
+    const r = run(cells('x_a = 1 m', 'x_b = x_a + 1 s', 'x_c = x_a * 2', 'x_d = x_b * 2', 'x_e = 5'));
+    expect(r.cells.map((c) => c.ok)).toEqual([true, false, true, false, true]);
+    expect(r.cells[1].error).toMatch(/Units do not match/);
+    expect(r.cells[3].error).toBe('depends on `x_b`, which is not available: it has an error in cell 2, line 1');
+  });
+
+  it('keeps evaluating the statements of a cell that do not depend on its error', () => {
+    const r = run(cells('x_a = 1 m\nx_b = x_a + 1 s\nx_c = 3'));
+    expect(r.cells[0].statements.map((s) => s.error === null)).toEqual([true, false, true]);
+  });
+});
+
+describe('incremental re-evaluation', () => {
+  it('re-evaluates only the edited cell and what depends on it', () => {
+    const local = createSheetEngine();
+    const sheet = cells('x_a = 1 m', 'x_b = x_a * 2', 'x_c = 7 s', 'x_d = x_b * 3', 'x_e = x_c * 2');
+    expect(local.evaluate(sheet, { significantFigures: 6 }).evaluatedCells).toBe(5);
+    expect(local.evaluate(sheet, { significantFigures: 6 }).evaluatedCells).toBe(0);
+
+    const lastEdited = sheet.map((c, i) => (i === 4 ? { ...c, source: 'x_e = x_c * 3' } : c));
+    const r1 = local.evaluate(lastEdited, { significantFigures: 6 });
+    expect(r1.evaluatedCells).toBe(1);
+    expect(r1.cells[4].statements[0].value?.number).toBe(21);
+
+    const firstEdited = lastEdited.map((c, i) => (i === 0 ? { ...c, source: 'x_a = 2 m' } : c));
+    const r2 = local.evaluate(firstEdited, { significantFigures: 6 });
+    expect(r2.evaluatedCells).toBe(3); // x_a, then x_b and x_d that depend on it; x_c and x_e untouched
+    expect(r2.cells[3].statements[0].value).toMatchObject({ number: 12, unit: 'm' });
+  });
+
+  it('updates messages that name another cell when that cell changes', () => {
+    const local = createSheetEngine();
+    const r1 = local.evaluate(cells('x = 1', 'x = 2'), { significantFigures: 6 });
+    expect(r1.cells[1].ok).toBe(false);
+    const r2 = local.evaluate(cells('w = 1', 'x = 2'), { significantFigures: 6 });
+    expect(r2.cells[1].ok).toBe(true);
+  });
+});
+
+describe('design criteria', () => {
+  it('compares exactly, where mathjs alone would apply a relative tolerance of 1e-12', () => {
+    // mathjs documentation, configuration: relTol defaults to 1e-12, so 0.9999999999995 < 1 is false there.
+    const r = run(cells('0.9999999999995 < 1', '1 < 1 + 1e-15', '1 <= 1'));
+    expect(r.cells[0].statements[0].criterion).toMatchObject({ pass: true, comparison: 'exact' });
+    expect(r.cells[1].statements[0].criterion?.pass).toBe(true);
+    expect(r.cells[2].statements[0].criterion?.pass).toBe(true);
+  });
+
+  it('shows pass or fail with the margin to the limit, in any units of the same dimension', () => {
+    const r = run(cells('B_1 = 1.62 T', 'B_1 < 1.8 T', 'B_1 > 1620.000001 mT', 'B_1 < 2 m'));
+    expect(r.cells[1].statements[0].criterion).toMatchObject({ pass: true, margin: expect.closeTo(0.1, 12) });
+    expect(r.cells[1].statements[0].criterion?.marginText).toBe('margin 10 % of the limit, compared exactly (no tolerance)');
+    expect(r.cells[2].statements[0].criterion?.pass).toBe(false);
+    expect(r.cells[3].error).toBe('the two sides of the criterion have different dimensions');
+  });
+
+  it('treats chained comparisons as one criterion', () => {
+    const r = run(cells('x_1 = 5 cm', '1 cm < x_1 < 10 cm', '1 cm < x_1 < 4 cm'));
+    expect(r.cells[1].statements[0].criterion?.pass).toBe(true);
+    expect(r.cells[2].statements[0].criterion?.pass).toBe(false);
+  });
+});
+
+describe('what a statement shows', () => {
+  it('typesets the formula, the substituted formula and the result with its unit', () => {
+    const r = run(cells('T_kin = 250 MeV', 'E_tot = T_kin + m_p c^2 to MeV'));
+    const st = r.cells[1].statements[0];
+    expect(st.tex).toContain('E_{\\mathrm{tot}} = T_{\\mathrm{kin}}');
+    expect(st.tex).toContain('m_{\\mathrm{p}}');
+    expect(st.substitutedTex).toContain('\\left(250\\ \\mathrm{MeV}\\right)');
+    // CODATA 2022: m_p c^2 = 938.272 089 43 MeV, so 250 MeV + m_p c^2 = 1188.272 089 43 MeV
+    expect(st.value?.number).toBeCloseTo(1188.27208943, 6);
+    expect(st.value?.text).toBe('1188.27 MeV');
+    expect(st.value?.unit).toBe('MeV');
+  });
+
+  it('keeps full precision in the value while rounding the display to the sheet setting', () => {
+    const r = run(cells('x = 1/3', 'y = 299792458 m/s', 'z = 12345.6789', 'w = -0.000123456 s'), 4);
+    expect(r.cells[0].statements[0].value).toMatchObject({ number: 1 / 3, text: '0.3333' });
+    // ISO 80000-1 §7.3.1: digits grouped in threes by a thin space; powers of ten as × 10ⁿ;
+    // the minus sign U+2212. The sheet shows 4 significant figures.
+    expect(r.cells[1].statements[0].value?.text).toBe('2.998 × 10⁸ m/s');
+    expect(r.cells[1].statements[0].value?.number).toBe(299792458);
+    expect(r.cells[2].statements[0].value?.text).toBe('12\u202f350');
+    expect(r.cells[3].statements[0].value?.text).toBe('\u2212123.5 µs');
+  });
+
+  it('records the engine version and the constants edition', () => {
+    const r = run(cells('x = 1'));
+    expect(r.engineVersion).toMatch(/^worldsheet-calc \d+\.\d+\.\d+/);
+    expect(r.constantsEdition).toBe('CODATA 2022; SI 2019 exact constants');
+  });
+});
