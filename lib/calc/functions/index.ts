@@ -1,0 +1,100 @@
+// The relativistic function library: every function the engine registers, in reference order.
+import { aberrationAngle } from './aberration-angle';
+import { addVelocities } from './add-velocities';
+import { betaGamma } from './beta-gamma';
+import { clockRateOffset } from './clock-rate-offset';
+import { decayLength } from './decay-length';
+import { dopplerFactor } from './doppler-factor';
+import { electronWavelength } from './electron-wavelength';
+import { gammaMinusOne } from './gamma-minus-one';
+import { hyperbolicDistance } from './hyperbolic-distance';
+import { hyperbolicProperTime } from './hyperbolic-proper-time';
+import { hyperbolicSpeed } from './hyperbolic-speed';
+import { invariantMass } from './invariant-mass';
+import { kineticEnergy } from './kinetic-energy';
+import { lengthContraction } from './length-contraction';
+import { lorentzBoost } from './lorentz-boost';
+import { lorentzFactor } from './lorentz-factor';
+import { magneticRigidity } from './magnetic-rigidity';
+import { momentumFromKinetic } from './momentum-from-kinetic';
+import { properToCoordinateAcceleration } from './proper-to-coordinate-acceleration';
+import { rapidity } from './rapidity';
+import { rindlerHorizonDistance } from './rindler-horizon-distance';
+import { rocketDeltaV } from './rocket-delta-v';
+import { speedFromKinetic } from './speed-from-kinetic';
+import { sqrtSCollider } from './sqrt-s-collider';
+import { sqrtSFixedTarget } from './sqrt-s-fixed-target';
+import { synchrotronLossPerTurn } from './synchrotron-loss-per-turn';
+import { thresholdKinetic } from './threshold-kinetic';
+import { timeDilation } from './time-dilation';
+import { timeOfFlight } from './time-of-flight';
+import { transverseCoordinateAcceleration } from './transverse-coordinate-acceleration';
+import type { CalcFunction } from './types';
+
+export { DomainError } from './types';
+export type { CalcFunction, CalcFunctionDoc, ParamDoc, ParamKind, ReturnKind } from './types';
+export {
+  aberrationAngle,
+  addVelocities,
+  betaGamma,
+  clockRateOffset,
+  decayLength,
+  dopplerFactor,
+  electronWavelength,
+  gammaMinusOne,
+  hyperbolicDistance,
+  hyperbolicProperTime,
+  hyperbolicSpeed,
+  invariantMass,
+  kineticEnergy,
+  lengthContraction,
+  lorentzBoost,
+  lorentzFactor,
+  magneticRigidity,
+  momentumFromKinetic,
+  properToCoordinateAcceleration,
+  rapidity,
+  rindlerHorizonDistance,
+  rocketDeltaV,
+  speedFromKinetic,
+  sqrtSCollider,
+  sqrtSFixedTarget,
+  synchrotronLossPerTurn,
+  thresholdKinetic,
+  timeDilation,
+  timeOfFlight,
+  transverseCoordinateAcceleration,
+};
+
+export const LIBRARY: readonly CalcFunction[] = Object.freeze([
+  lorentzFactor,
+  gammaMinusOne,
+  rapidity,
+  addVelocities,
+  timeDilation,
+  lengthContraction,
+  kineticEnergy,
+  speedFromKinetic,
+  momentumFromKinetic,
+  magneticRigidity,
+  decayLength,
+  electronWavelength,
+  dopplerFactor,
+  properToCoordinateAcceleration,
+  hyperbolicSpeed,
+  hyperbolicDistance,
+  hyperbolicProperTime,
+  rocketDeltaV,
+  clockRateOffset,
+  invariantMass,
+  sqrtSFixedTarget,
+  sqrtSCollider,
+  thresholdKinetic,
+  timeOfFlight,
+  transverseCoordinateAcceleration,
+  aberrationAngle,
+  lorentzBoost,
+  rindlerHorizonDistance,
+  synchrotronLossPerTurn,
+  betaGamma,
+]);

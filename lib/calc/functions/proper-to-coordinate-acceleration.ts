@@ -1,0 +1,46 @@
+import { finiteResult, requireFinite, requireMassiveSpeed } from './support/domain';
+import { mul, mulNum, round } from './support/double-double';
+import { inverseGamma, oneMinusBetaSquared } from './support/kinematics';
+import type { CalcFunction } from './types';
+
+const FN = 'properToCoordinateAcceleration';
+
+/**
+ * properToCoordinateAcceleration(a0, v) — the acceleration dv/dt seen in the lab of a body moving at v
+ * whose proper (felt) acceleration a0 is along its velocity.
+ *
+ * Formula: a = a0/γ³ = a0 ((1 − β)(1 + β))^{3/2}.
+ *
+ * Domain: a0 any finite value (its sign is its direction along the motion); |β| < 1; NaN and
+ * ±Infinity are refused.
+ *
+ * Example: `properToCoordinateAcceleration(g_n, 0.6)` → 5.0210 m/s².
+ *
+ * Source: W. Rindler, Relativity: Special, General, and Cosmological, 2nd ed. (2006), §3.7
+ * (transformation of acceleration); Jackson, Classical Electrodynamics, 3rd ed. (1999), §11.
+ *
+ * Numerics: 1/γ³ = (1 − β²)·√(1 − β²) with 1 − β² exact in double-double, times a0, rounded once.
+ */
+export const properToCoordinateAcceleration: CalcFunction = {
+  name: FN,
+  params: [
+    { name: 'a0', kind: 'acceleration', description: 'proper acceleration along the direction of motion' },
+    { name: 'v', kind: 'speed', description: 'speed of the body (a velocity, or β)' },
+  ],
+  returns: 'acceleration',
+  doc: {
+    summary: 'Lab-frame (coordinate) acceleration of a body whose proper acceleration a0 is along its velocity v.',
+    formula: 'a = \\frac{a_0}{\\gamma^3} = a_0\\,\\big((1-\\beta)(1+\\beta)\\big)^{3/2}',
+    domain: 'a0 finite, either sign (its direction along the motion); |β| < 1. NaN and ±Infinity are refused.',
+    example: 'properToCoordinateAcceleration(g_n, 0.6)',
+    exampleResult: '5.0210048 m/s^2',
+    source: 'W. Rindler, Relativity: Special, General, and Cosmological, 2nd ed. (2006), ch. 3 (transformation of acceleration, proper acceleration); J. D. Jackson, Classical Electrodynamics, 3rd ed. (1999), ch. 11.',
+    numerics: '1/γ³ = (1 − β²)·√(1 − β²) with 1 − β² formed exactly in double-double, times a0, rounded once (within about half an ulp).',
+  },
+  kernel: (a0: number, v: number): number => {
+    requireFinite(FN, 'a0', a0);
+    requireMassiveSpeed(FN, 'v', v);
+    const d = oneMinusBetaSquared(v);
+    return finiteResult(FN, round(mulNum(mul(d, inverseGamma(v)), a0)));
+  },
+};

@@ -1,0 +1,159 @@
+// Double-double arithmetic: a value is the unevaluated sum hi + lo of two doubles with
+// |lo| ≤ ulp(hi)/2, which carries about 106 bits. The kernels evaluate their (stable) formulas in it
+// and round once at the end, so each result is within about half an ulp of the exact value of the
+// formula for the given double inputs, whatever cancellation hides inside (1 − β² near c,
+// 1 + uv for opposite speeds near c, t − βx/c in a boost).
+//
+// Algorithms: Dekker, "A floating-point technique for extending the available precision",
+// Numerische Mathematik 18 (1971); Knuth, TAOCP vol. 2, §4.2.2 (TwoSum); Hida, Li, Bailey,
+// "Library for double-double and quad-double arithmetic" (QD, 2007) for the add, divide and square root.
+// The error-free transformations are exact as long as nothing overflows and no product falls into
+// the subnormal range; the kernels scale their operands where squares could leave the double range.
+
+export type DD = readonly [hi: number, lo: number];
+
+/** 2^27 + 1, Veltkamp's splitting constant for 53-bit doubles. */
+const SPLITTER = 134_217_729;
+
+/** a + b = s + e exactly (Knuth). */
+export function twoSum(a: number, b: number): DD {
+  const s = a + b;
+  const bb = s - a;
+  return [s, a - (s - bb) + (b - bb)];
+}
+
+/** a + b = s + e exactly, when |a| ≥ |b| or a = 0 (Dekker). */
+export function fastTwoSum(a: number, b: number): DD {
+  const s = a + b;
+  return [s, b - (s - a)];
+}
+
+function split(a: number): DD {
+  const t = SPLITTER * a;
+  const hi = t - (t - a);
+  return [hi, a - hi];
+}
+
+/** a · b = p + e exactly (Dekker, Veltkamp). */
+export function twoProd(a: number, b: number): DD {
+  const p = a * b;
+  const [ah, al] = split(a);
+  const [bh, bl] = split(b);
+  return [p, ah * bh - p + ah * bl + al * bh + al * bl];
+}
+
+export function dd(x: number): DD {
+  return [x, 0];
+}
+
+export function neg(a: DD): DD {
+  return [-a[0], -a[1]];
+}
+
+export function add(a: DD, b: DD): DD {
+  const [s1, s2] = twoSum(a[0], b[0]);
+  const [t1, t2] = twoSum(a[1], b[1]);
+  const [u1, u2] = fastTwoSum(s1, s2 + t1);
+  return fastTwoSum(u1, u2 + t2);
+}
+
+export function sub(a: DD, b: DD): DD {
+  return add(a, neg(b));
+}
+
+export function mul(a: DD, b: DD): DD {
+  const [p, e] = twoProd(a[0], b[0]);
+  return fastTwoSum(p, e + (a[0] * b[1] + a[1] * b[0]));
+}
+
+export function mulNum(a: DD, b: number): DD {
+  const [p, e] = twoProd(a[0], b);
+  return fastTwoSum(p, e + a[1] * b);
+}
+
+/** Exact scaling by a power of two (no rounding unless the result under- or overflows). */
+export function scale(a: DD, powerOfTwo: number): DD {
+  return [a[0] * powerOfTwo, a[1] * powerOfTwo];
+}
+
+export function div(a: DD, b: DD): DD {
+  const q1 = a[0] / b[0];
+  let r = sub(a, mulNum(b, q1));
+  const q2 = r[0] / b[0];
+  r = sub(r, mulNum(b, q2));
+  const q3 = r[0] / b[0];
+  const [s, e] = fastTwoSum(q1, q2);
+  return add([s, e], [q3, 0]);
+}
+
+export function sqrt(a: DD): DD {
+  if (a[0] <= 0) return [0, 0];
+  const x = Math.sqrt(a[0]);
+  const residual = sub(a, twoProd(x, x));
+  return fastTwoSum(x, residual[0] / (2 * x));
+}
+
+/** The double nearest to the double-double value. */
+export function round(a: DD): number {
+  return a[0] + a[1];
+}
+
+/** 2^k with k = the binary exponent of |x| (x finite, non-zero): |x| / 2^k lies in [1, 2). */
+export function binade(x: number): number {
+  let k = Math.floor(Math.log2(Math.abs(x)));
+  // log2 can round across a power of two; settle it with exact comparisons.
+  if (Math.abs(x) < 2 ** k) k -= 1;
+  else if (Math.abs(x) >= 2 ** (k + 1)) k += 1;
+  return 2 ** Math.max(-1022, Math.min(1023, k));
+}
+
+/**
+ * The double-double nearest to the value of a decimal literal, e.g. "6.62607015e-34", so that a
+ * constant defined exactly in decimal (SI 2019) or quoted in decimal (CODATA) enters the kernels
+ * with its decimal value rather than its nearest double. Exact rational arithmetic on BigInt.
+ */
+export function fromDecimal(literal: string): DD {
+  const match = /^([+-]?)(\d+)(?:\.(\d*))?(?:[eE]([+-]?\d+))?$/.exec(literal.trim());
+  if (!match) throw new Error(`fromDecimal: not a decimal literal: ${literal}`);
+  const [, sign, intPart, fracPart = '', expPart = '0'] = match;
+  const digits = BigInt(intPart + fracPart);
+  const exp10 = Number(expPart) - fracPart.length;
+  const hi = Number(`${sign}${intPart}.${fracPart}e${expPart}`);
+  if (hi === 0 || digits === 0n) return [hi, 0];
+  // hi = m · 2^e2 exactly, with m an integer.
+  const unit = binade(hi) / 2 ** 52;
+  const m = BigInt(Math.abs(hi) / unit);
+  const e2 = Math.round(Math.log2(unit));
+  // value − |hi| = digits·10^exp10 − m·2^e2, as a rational num / den.
+  let num: bigint;
+  let den: bigint;
+  const pow10 = 10n ** BigInt(Math.abs(exp10));
+  const pow2 = 2n ** BigInt(Math.abs(e2));
+  if (exp10 >= 0 && e2 >= 0) {
+    num = digits * pow10 - m * pow2;
+    den = 1n;
+  } else if (exp10 >= 0) {
+    num = digits * pow10 * pow2 - m;
+    den = pow2;
+  } else if (e2 >= 0) {
+    num = digits - m * pow2 * pow10;
+    den = pow10;
+  } else {
+    num = digits * pow2 - m * pow10;
+    den = pow10 * pow2;
+  }
+  const lo = ratioToNumber(num, den);
+  return sign === '-' ? [hi, -lo] : [hi, lo];
+}
+
+/** num/den to within a few ulp, for |num/den| in the normal range, num and den possibly huge. */
+function ratioToNumber(num: bigint, den: bigint): number {
+  if (num === 0n) return 0;
+  const negative = num < 0n;
+  const n = negative ? -num : num;
+  // Keep 64 significant bits of each before converting.
+  const shiftN = Math.max(0, n.toString(2).length - 64);
+  const shiftD = Math.max(0, den.toString(2).length - 64);
+  const value = (Number(n >> BigInt(shiftN)) / Number(den >> BigInt(shiftD))) * 2 ** (shiftN - shiftD);
+  return negative ? -value : value;
+}
