@@ -1,7 +1,9 @@
 import type { Metadata, Viewport } from 'next';
+import Link from 'next/link';
 import { AppHeader } from '@/components/shell/app-header';
 import { APP_VERSION } from '@/lib/version';
 import { monoFont, textFont } from './fonts';
+import 'katex/dist/katex.min.css';
 import './globals.css';
 
 export const metadata: Metadata = {
@@ -32,6 +34,10 @@ export default function RootLayout({ children }: { children: React.ReactNode }) 
             <span>
               Worldsheet <span className="font-mono">{APP_VERSION}</span>
             </span>
+            <nav aria-label="Tools" className="flex gap-4">
+              <Link href="/reference" className="underline hover:text-ink">Function reference</Link>
+              <Link href="/scratch" className="underline hover:text-ink">Scratch pad</Link>
+            </nav>
             {demo ? <span>Demo installation: fictional organisation and data</span> : null}
           </div>
         </footer>

@@ -112,6 +112,13 @@ export function unitTex(parts: UnitPart[]): string {
  * prefix, as mathjs chooses), keeping the number at full double precision.
  */
 export function quantityParts(math: MathJsInstance, unit: Unit): { number: number; unitString: string; parts: UnitPart[] } {
+  // A mass stays in kilograms unless the sheet asked for another unit with `to`: mathjs's choice of
+  // the "best" prefix would show the proton mass in yoctograms.
+  const fixed = (unit as unknown as { fixPrefix?: boolean }).fixPrefix;
+  if (!fixed && unit.equalBase(math.unit('kg'))) {
+    const kg = unit.toNumber('kg');
+    if (Math.abs(kg) < 1e3) return { number: kg, unitString: 'kg', parts: [{ name: 'kg', power: 1 }] };
+  }
   const text = math.format(unit, { precision: 17 });
   const space = text.indexOf(' ');
   const numberText = space < 0 ? text : text.slice(0, space);

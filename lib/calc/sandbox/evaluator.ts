@@ -25,6 +25,8 @@ export function sandboxOptionsFromEnv(): SandboxOptions {
   };
 }
 
+const WORKER_ENTRY = ['lib', 'calc', 'sandbox', 'worker-entry.mjs'].join(path.sep);
+
 class LimitExceeded extends Error {
   constructor(
     readonly cellIndex: number,
@@ -53,8 +55,9 @@ class EvaluationThread {
 
   private start(): Promise<void> {
     if (this.ready) return this.ready;
-    const entry = path.join(this.options.root ?? process.cwd(), 'lib', 'calc', 'sandbox', 'worker-entry.mjs');
-    const worker = new Worker(entry, {
+    // The worker loads the engine from source at run time; the app bundler must not follow it.
+    const entry = path.join(/* turbopackIgnore: true */ this.options.root ?? process.cwd(), WORKER_ENTRY);
+    const worker = new Worker(/* turbopackIgnore: true */ entry, {
       workerData: { progress: this.progress.buffer },
       resourceLimits: { maxOldGenerationSizeMb: this.options.memoryMb, maxYoungGenerationSizeMb: Math.min(64, this.options.memoryMb / 4), stackSizeMb: 4 },
       stdout: false,
