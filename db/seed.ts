@@ -7,6 +7,7 @@ import { hash } from '@node-rs/argon2';
 import { sql, type Kysely } from 'kysely';
 import { emptyRecord, versionContentSchema, type VersionContent } from '../lib/sheets/content';
 import { contentHash } from '../lib/sheets/content-hash';
+import { createSheetEngine, type SheetEngine } from '../lib/calc/sheet-engine';
 import type { Database, ProjectRole } from './schema';
 
 export const DEMO_PASSWORD = 'worldsheet-demo';
@@ -30,7 +31,7 @@ export const DEMO_ACCOUNTS: ReadonlyArray<{ email: string; name: string; roles: 
 
 type DemoSheet = { number: number; content: VersionContent };
 
-function demoSheets(): DemoSheet[] {
+export function demoSheets(): DemoSheet[] {
   const sheet = (number: number, partial: Omit<VersionContent, 'schema' | 'attachments' | 'significantFigures'>): DemoSheet => ({
     number,
     content: versionContentSchema.parse({ schema: 1, significantFigures: 6, attachments: [], ...partial }),
@@ -204,6 +205,7 @@ export async function seedDemo(db: Kysely<Database>): Promise<SeedReport> {
     }
 
     const originator = userIds.get('originator@demo.test')!;
+    let engine: SheetEngine | null = null;
     for (const demo of demoSheets()) {
       const sheet = await trx
         .insertInto('sheets')
@@ -214,11 +216,23 @@ export async function seedDemo(db: Kysely<Database>): Promise<SeedReport> {
       if (!sheet) continue;
       report.sheetsCreated += 1;
       const hashHex = contentHash(demo.content);
-      // Seeded before evaluation: results, engine version and constants edition stay empty, and the
-      // sheet's first save through the editor records them.
+      // The demo content is our own, so it is evaluated in process rather than in the sandbox.
+      engine ??= createSheetEngine();
+      const results = engine.evaluate(demo.content.cells, { significantFigures: demo.content.significantFigures });
       await trx
         .insertInto('versions')
-        .values({ sheet_id: sheet.id, number: 1, parent_number: null, content: JSON.stringify(demo.content), content_hash: hashHex, results: null, engine_version: null, constants_edition: null, author_id: originator, message: 'First draft (demo data)' })
+        .values({
+          sheet_id: sheet.id,
+          number: 1,
+          parent_number: null,
+          content: JSON.stringify(demo.content),
+          content_hash: hashHex,
+          results: JSON.stringify(results),
+          engine_version: results.engineVersion,
+          constants_edition: results.constantsEdition,
+          author_id: originator,
+          message: 'First draft (demo data)',
+        })
         .execute();
       await trx
         .insertInto('audit_events')

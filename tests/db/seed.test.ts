@@ -1,6 +1,7 @@
 import { verify } from '@node-rs/argon2';
 import { expect, it } from 'vitest';
-import { DEMO_ACCOUNTS, DEMO_PASSWORD, seedDemo } from '../../db/seed';
+import { DEMO_ACCOUNTS, DEMO_PASSWORD, demoSheets, seedDemo } from '../../db/seed';
+import { createSheetEngine } from '../../lib/calc/sheet-engine';
 import { versionContentSchema } from '../../lib/sheets/content';
 import { contentHash } from '../../lib/sheets/content-hash';
 import { testDb } from '../support/database';
@@ -49,4 +50,28 @@ it('stores each seeded version with the SHA-256 of its canonical content', async
     const content = versionContentSchema.parse(v.content);
     expect(contentHash(content)).toBe(v.content_hash);
   }
+});
+
+it('stores each demo version evaluated, every cell without error, with the engine version and constants edition', async () => {
+  await seedDemo(testDb());
+  const versions = await testDb().selectFrom('versions').select(['results', 'engine_version', 'constants_edition']).execute();
+  expect(versions).toHaveLength(3);
+  for (const v of versions) {
+    const results = v.results as { ok: boolean; cells: Array<{ ok: boolean; error: string | null }> };
+    expect(results.cells.filter((c) => !c.ok).map((c) => c.error)).toEqual([]);
+    expect(results.ok).toBe(true);
+    expect(v.engine_version).toMatch(/^worldsheet-calc /);
+    expect(v.constants_edition).toBe('CODATA 2022; SI 2019 exact constants');
+  }
+});
+
+it('evaluates the demo dipole sheet to the expected rigidity and criterion', () => {
+  const engine = createSheetEngine();
+  const dipole = demoSheets()[0].content;
+  const r = engine.evaluate(dipole.cells, { significantFigures: 6 });
+  const statements = r.cells.flatMap((c) => c.statements);
+  // 250 MeV protons: pc = √(T(T + 2 m_p c²)) = 729.133 MeV with CODATA 2022 m_p c² = 938.272 089 43 MeV,
+  // Bρ = p/e = 2.432 13 T m (PDG kinematics: p [GeV/c] = 0.299 792 458 Bρ [T m] for unit charge).
+  expect(statements.find((s) => s.name === 'Brho_max')?.value?.number).toBeCloseTo(2.43213, 4);
+  expect(statements.find((s) => s.kind === 'criterion')?.criterion?.pass).toBe(true);
 });
