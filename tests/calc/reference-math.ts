@@ -1,0 +1,364 @@
+// 50-digit reference implementations of the relativistic library (decimal.js), the error measure in
+// ulp, and the accuracy survey over log-spaced grids that the tests assert on and the benchmark prints.
+//
+// Each reference evaluates the TEXTBOOK formula (not the kernel's rearrangement) at 50 significant
+// digits, on the same double inputs as the kernel, converted to decimal exactly: `exact(x)` expands
+// the binary value of a double digit by digit. (`new Decimal(x)` is NOT exact: it goes through the
+// shortest decimal string, so new Decimal(0.1) is 0.1, not 0.1000000000000000055511151231257827…;
+// near c that difference is amplified by γ² and would swamp the comparison.)
+//
+// The worst cancellation in these formulas (γ − 1 at β = 1e-12, √(1 + w²) − 1 at w = 1e-12) leaves
+// about 25 of the 50 digits, far more than the 17 the comparison needs.
+import Decimal from 'decimal.js';
+import { LIBRARY } from '../../lib/calc/functions';
+
+export const D = Decimal.clone({ precision: 50, rounding: Decimal.ROUND_HALF_EVEN, toExpNeg: -400, toExpPos: 400 });
+export type Dec = InstanceType<typeof D>;
+
+/** The exact decimal value of a double. */
+export function exact(x: number): Dec {
+  if (!Number.isFinite(x)) throw new Error(`exact: not a finite double: ${x}`);
+  if (x === 0) return new D(0);
+  const view = new DataView(new ArrayBuffer(8));
+  view.setFloat64(0, x);
+  const bits = view.getBigUint64(0);
+  const negative = bits >> 63n === 1n;
+  const biased = Number((bits >> 52n) & 0x7ffn);
+  let mantissa = bits & ((1n << 52n) - 1n);
+  let exponent: number;
+  if (biased === 0) {
+    exponent = -1074;
+  } else {
+    mantissa |= 1n << 52n;
+    exponent = biased - 1075;
+  }
+  // x = mantissa · 2^exponent = mantissa · 5^−exponent · 10^exponent when exponent < 0.
+  const text = exponent >= 0 ? (mantissa << BigInt(exponent)).toString() : `${(mantissa * 5n ** BigInt(-exponent)).toString()}e${exponent}`;
+  return new D(negative ? `-${text}` : text);
+}
+
+// Constants at their defined or recommended decimal values.
+export const REF_C = new D('299792458'); // SI Brochure, 9th ed. (2019): c exact
+export const REF_E = new D('1.602176634e-19'); // SI Brochure, 9th ed. (2019): e exact
+export const REF_H = new D('6.62607015e-34'); // SI Brochure, 9th ed. (2019): h exact
+export const REF_ME = new D('9.1093837139e-31'); // CODATA 2022: electron mass, kg
+export const REF_EPSILON_0 = new D('8.8541878188e-12'); // CODATA 2022: vacuum electric permittivity, F/m
+const C2 = REF_C.mul(REF_C);
+const ONE = new D(1);
+const TWO = new D(2);
+
+function gammaOf(beta: Dec): Dec {
+  return ONE.div(ONE.minus(beta.mul(beta)).sqrt());
+}
+
+function betaFromKinetic(T: Dec, m: Dec): Dec {
+  const gamma = ONE.plus(T.div(m.mul(C2)));
+  return ONE.minus(ONE.div(gamma.mul(gamma))).sqrt();
+}
+
+type Ref = (...args: number[]) => Dec | [Dec, Dec];
+
+/** Textbook formulas, 50 digits, exact inputs. */
+export const REFERENCES: Record<string, Ref> = {
+  lorentzFactor: (v) => gammaOf(exact(v)),
+  gammaMinusOne: (v) => gammaOf(exact(v)).minus(1),
+  rapidity: (v) => D.atanh(exact(v)),
+  addVelocities: (u, v) => {
+    const [a, b] = [exact(u), exact(v)];
+    return a.plus(b).div(ONE.plus(a.mul(b)));
+  },
+  timeDilation: (dtau, v) => exact(dtau).mul(gammaOf(exact(v))),
+  lengthContraction: (L0, v) => exact(L0).div(gammaOf(exact(v))),
+  kineticEnergy: (m, v) => gammaOf(exact(v)).minus(1).mul(exact(m)).mul(C2),
+  speedFromKinetic: (T, m) => betaFromKinetic(exact(T), exact(m)),
+  momentumFromKinetic: (T, m) => {
+    const rest = exact(m).mul(C2);
+    const E = exact(T).plus(rest);
+    return E.mul(E).minus(rest.mul(rest)).sqrt().div(REF_C);
+  },
+  magneticRigidity: (p, q) => exact(p).div(exact(q)),
+  decayLength: (p, m, tau) => exact(p).mul(exact(tau)).div(exact(m)),
+  electronWavelength: (U) => {
+    const eU = REF_E.mul(exact(U));
+    return REF_H.div(TWO.mul(REF_ME).mul(eU).mul(ONE.plus(eU.div(TWO.mul(REF_ME).mul(C2)))).sqrt());
+  },
+  dopplerFactor: (v) => {
+    const b = exact(v);
+    return ONE.plus(b).div(ONE.minus(b)).sqrt();
+  },
+  properToCoordinateAcceleration: (a0, v) => exact(a0).div(gammaOf(exact(v)).pow(3)),
+  hyperbolicSpeed: (a0, t) => {
+    const w = exact(a0).mul(exact(t)).div(REF_C);
+    return w.div(ONE.plus(w.mul(w)).sqrt());
+  },
+  hyperbolicDistance: (a0, t) => {
+    const a = exact(a0);
+    const w = a.mul(exact(t)).div(REF_C);
+    return C2.div(a).mul(ONE.plus(w.mul(w)).sqrt().minus(1));
+  },
+  hyperbolicProperTime: (a0, t) => {
+    const a = exact(a0);
+    return REF_C.div(a).mul(D.asinh(a.mul(exact(t)).div(REF_C)));
+  },
+  rocketDeltaV: (ve, R) => D.tanh(exact(ve).mul(D.ln(exact(R)))),
+  clockRateOffset: (v) => ONE.div(gammaOf(exact(v))).minus(1),
+  invariantMass: (E, p) => {
+    const e = exact(E);
+    const pc = exact(p).mul(REF_C);
+    return e.mul(e).minus(pc.mul(pc)).sqrt().div(C2);
+  },
+  sqrtSFixedTarget: (T, mBeam, mTarget) => {
+    const Ma = exact(mBeam).mul(C2);
+    const Mb = exact(mTarget).mul(C2);
+    const Ea = exact(T).plus(Ma);
+    return Ma.mul(Ma).plus(Mb.mul(Mb)).plus(TWO.mul(Ea).mul(Mb)).sqrt();
+  },
+  sqrtSCollider: (E1, E2, m1, m2) => {
+    const [e1, e2] = [exact(E1), exact(E2)];
+    const [M1, M2] = [exact(m1).mul(C2), exact(m2).mul(C2)];
+    const p1c = e1.mul(e1).minus(M1.mul(M1)).sqrt();
+    const p2c = e2.mul(e2).minus(M2.mul(M2)).sqrt();
+    const total = e1.plus(e2);
+    const net = p1c.minus(p2c);
+    return total.mul(total).minus(net.mul(net)).sqrt();
+  },
+  thresholdKinetic: (mBeam, mTarget, mProducts) => {
+    const sumInitial = exact(mBeam).plus(exact(mTarget));
+    const mf = exact(mProducts);
+    const T = mf.mul(mf).minus(sumInitial.mul(sumInitial)).mul(C2).div(TWO.mul(exact(mTarget)));
+    return T.isNegative() ? new D(0) : T;
+  },
+  timeOfFlight: (L, T, m) => exact(L).div(betaFromKinetic(exact(T), exact(m)).mul(REF_C)),
+  transverseCoordinateAcceleration: (a0, v) => exact(a0).div(gammaOf(exact(v)).pow(2)),
+  aberrationAngle: (theta, v) => {
+    // Independent of the kernel's half-angle form: sin θ′ = sin θ/(γ(1 − β cos θ)) and
+    // cos θ′ = (cos θ − β)/(1 − β cos θ), whose common positive factor atan2 ignores.
+    const [th, b] = [exact(theta), exact(v)];
+    return D.atan2(D.sin(th).div(gammaOf(b)), D.cos(th).minus(b));
+  },
+  lorentzBoost: (t, x, v) => {
+    const [tt, xx, b] = [exact(t), exact(x), exact(v)];
+    const g = gammaOf(b);
+    return [g.mul(tt.minus(b.mul(xx).div(REF_C))), g.mul(xx.minus(b.mul(REF_C).mul(tt)))];
+  },
+  rindlerHorizonDistance: (a0) => C2.div(exact(a0)),
+  synchrotronLossPerTurn: (E, rho, m) => {
+    const gamma = exact(E).div(exact(m).mul(C2));
+    const beta = ONE.minus(ONE.div(gamma.mul(gamma))).sqrt();
+    return REF_E.mul(REF_E).mul(beta.pow(3)).mul(gamma.pow(4)).div(new D(3).mul(REF_EPSILON_0).mul(exact(rho)));
+  },
+  betaGamma: (v) => {
+    const b = exact(v);
+    return b.mul(gammaOf(b));
+  },
+};
+
+/** One unit in the last place of a double in the binade of the (exact) reference value. */
+export function ulpOf(ref: Dec): Dec {
+  const magnitude = ref.abs();
+  if (magnitude.isZero()) return exact(2 ** -1074);
+  let k = Math.floor(Math.log2(magnitude.toNumber()));
+  if (exact(2 ** k).gt(magnitude)) k -= 1;
+  else if (exact(2 ** (k + 1)).lte(magnitude)) k += 1;
+  return exact(2 ** (Math.max(k, -1022) - 52));
+}
+
+/** |result − ref| in ulp of the reference. */
+export function ulpError(result: number, ref: Dec): number {
+  if (!Number.isFinite(result)) return Infinity;
+  return exact(result).minus(ref).abs().div(ulpOf(ref)).toNumber();
+}
+
+/** Worst ulp error of a kernel result (a number or a pair) against its reference. */
+export function errorOf(result: number | [number, number], ref: Dec | [Dec, Dec]): number {
+  if (Array.isArray(result) && Array.isArray(ref)) return Math.max(ulpError(result[0], ref[0]), ulpError(result[1], ref[1]));
+  if (!Array.isArray(result) && !Array.isArray(ref)) return ulpError(result, ref);
+  throw new Error('errorOf: result and reference differ in shape');
+}
+
+// ---------------------------------------------------------------------------------------------
+// Sample grids. Deterministic: a fixed-seed generator, so every run measures the same points.
+
+function mulberry32(seed: number): () => number {
+  let a = seed >>> 0;
+  return () => {
+    a = (a + 0x6d2b79f5) >>> 0;
+    let t = a;
+    t = Math.imul(t ^ (t >>> 15), t | 1);
+    t ^= t + Math.imul(t ^ (t >>> 7), t | 61);
+    return ((t ^ (t >>> 14)) >>> 0) / 4294967296;
+  };
+}
+
+/** n points log-spaced from 10^lo to 10^hi. */
+export function logSpace(lo: number, hi: number, n: number): number[] {
+  return Array.from({ length: n }, (_, i) => 10 ** (lo + ((hi - lo) * i) / (n - 1)));
+}
+
+const M_E_KG = 9.1093837139e-31; // CODATA 2022: electron mass
+const M_P_KG = 1.67262192595e-27; // CODATA 2022: proton mass
+const M_MU_KG = 1.883531627e-28; // CODATA 2022: muon mass
+const C_NUM = 299_792_458;
+
+/**
+ * Positive speeds from 1e-12 to 1 − 1e-15: log-spaced β below 0.5, β = 1 − 10^-k above, random
+ * log-uniform points of both kinds between the grid lines, and the largest doubles below 1.
+ */
+export function betaGrid(perSide = 120, random = 60, seed = 1): number[] {
+  const rand = mulberry32(seed);
+  const low = logSpace(-12, Math.log10(0.5), perSide);
+  const high = logSpace(Math.log10(0.5), -15, perSide).map((d) => 1 - d);
+  const lowRandom = Array.from({ length: random }, () => 10 ** (-12 + rand() * (12 + Math.log10(0.5))));
+  const highRandom = Array.from({ length: random }, () => 1 - 10 ** (Math.log10(0.5) - rand() * (15 + Math.log10(0.5))));
+  const edge = [1 - 2 ** -53, 1 - 2 ** -52, 1 - 3 * 2 ** -53, 1 - 1e-15, 0.6, 0.8, 0.5];
+  return [...low, ...high, ...lowRandom, ...highRandom, ...edge];
+}
+
+function withNegatives(xs: number[]): number[] {
+  return [...xs, ...xs.map((x) => -x)];
+}
+
+/** The argument lists each function is surveyed on. */
+export function surveyCases(): Record<string, number[][]> {
+  const rand = mulberry32(20260101);
+  const pick = <T>(xs: readonly T[]): T => xs[Math.floor(rand() * xs.length)];
+  const betas = betaGrid();
+  const signedBetas = withNegatives(betas);
+  const masses = [M_E_KG, M_P_KG, M_MU_KG, 1, 3.7e-26];
+  const scales = [1, 0.37, 2.1969811e-6, 7.3e3, 1e-9, 6.02e23];
+  const accelerations = [9.80665, 1e3, 1e-3, 3.3e12, 1.7e20];
+  const cases: Record<string, number[][]> = {};
+
+  for (const name of ['lorentzFactor', 'gammaMinusOne', 'rapidity', 'dopplerFactor', 'clockRateOffset', 'betaGamma']) {
+    cases[name] = signedBetas.map((b) => [b]);
+  }
+  cases.timeDilation = signedBetas.map((b) => [pick(scales), b]);
+  cases.lengthContraction = signedBetas.map((b) => [pick(scales), b]);
+  cases.kineticEnergy = signedBetas.map((b) => [pick(masses), b]);
+  cases.properToCoordinateAcceleration = signedBetas.map((b) => [pick(accelerations) * (rand() < 0.5 ? -1 : 1), b]);
+  cases.transverseCoordinateAcceleration = signedBetas.map((b) => [pick(accelerations) * (rand() < 0.5 ? -1 : 1), b]);
+
+  // Composition: each speed against a random partner of either sign, both from the grid.
+  cases.addVelocities = signedBetas.map((u) => [u, pick(signedBetas)]);
+
+  // Energy-based: x = T/(mc²) from 1e-24 (β ≈ 1.4e-12) to 1e12.
+  const ratios = [...logSpace(-24, 12, 240), ...Array.from({ length: 80 }, () => 10 ** (-24 + 36 * rand()))];
+  const kinetic = ratios.map((x) => {
+    const m = pick(masses);
+    return [x * m * C_NUM * C_NUM, m];
+  });
+  cases.speedFromKinetic = kinetic;
+  cases.momentumFromKinetic = kinetic;
+  cases.timeOfFlight = kinetic.map(([T, m]) => [pick(scales), T, m]);
+
+  cases.magneticRigidity = logSpace(-30, -10, 60).map((p) => [p, pick([1, 2, 6, 92, -1, 79]) * 1.602176634e-19]);
+  cases.decayLength = logSpace(-24, -15, 60).map((p) => [p, pick(masses), pick([2.1969811e-6, 2.6033e-8, 1e-12, 880])]);
+  cases.electronWavelength = logSpace(-3, 12, 120).map((U) => [U]);
+  cases.rindlerHorizonDistance = logSpace(-12, 25, 80).map((a) => [a]);
+
+  // Hyperbolic motion: a0 t / c from 1e-12 to 1e6, several accelerations, both directions.
+  const ws = [...logSpace(-12, 6, 200), ...Array.from({ length: 60 }, () => 10 ** (-12 + 18 * rand()))];
+  const hyperbolic = ws.map((w) => {
+    const a = pick(accelerations);
+    return [rand() < 0.5 ? -a : a, (w * C_NUM) / a];
+  });
+  cases.hyperbolicSpeed = hyperbolic;
+  cases.hyperbolicDistance = hyperbolic;
+  cases.hyperbolicProperTime = hyperbolic;
+
+  // Rocket: exhaust speeds over the β grid (and light), mass ratios with R − 1 from 1e-12 to 1e6.
+  const ratiosR = [...logSpace(-12, 6, 120).map((d) => 1 + d), 1 + 2 ** -52, 2, 10, 100];
+  cases.rocketDeltaV = [...betas, 1, 1, 1].map((ve) => [ve, pick(ratiosR)]);
+
+  // Invariant mass of a particle with the β grid: E = γmc², p = γβmc (skipping any that round space-like).
+  cases.invariantMass = betas
+    .map((b) => {
+      const m = pick(masses);
+      const g = 1 / Math.sqrt((1 - b) * (1 + b));
+      return [g * m * C_NUM * C_NUM, g * b * m * C_NUM];
+    })
+    .filter(([E, p]) => exact(E).gte(exact(p).mul(REF_C)));
+
+  const pairs: Array<[number, number]> = [
+    [M_P_KG, M_P_KG],
+    [M_E_KG, M_P_KG],
+    [0, M_P_KG],
+    [M_P_KG, M_E_KG],
+    [M_MU_KG, 3.7e-26],
+  ];
+  cases.sqrtSFixedTarget = ratios.map((x) => {
+    const [ma, mb] = pick(pairs);
+    return [x * (ma || mb) * C_NUM * C_NUM, ma, mb];
+  });
+
+  // Colliders: each beam's γ from 1 + 1e-12 to 1e12, masses including 0 (massless beams).
+  cases.sqrtSCollider = ratios.map((x) => {
+    const [m1, m2] = pick(pairs);
+    const E1 = (1 + x) * (m1 || M_E_KG) * C_NUM * C_NUM;
+    const E2 = (1 + pick(ratios)) * (m2 || M_E_KG) * C_NUM * C_NUM;
+    return [E1, E2, m1, m2];
+  }).filter(([E1, E2, m1, m2]) => exact(E1).gte(exact(m1).mul(C2)) && exact(E2).gte(exact(m2).mul(C2)));
+
+  // Thresholds: product mass excess from 1e-12 to 1e3 of the initial masses.
+  cases.thresholdKinetic = logSpace(-12, 3, 120).map((d) => {
+    const [ma, mb] = pick(pairs);
+    return [ma, mb, (ma + mb) * (1 + d)];
+  });
+
+  // Aberration: angles from 1e-12 rad to π (log-spaced, uniform, and π − 10^-k), both signs.
+  const angles = [...logSpace(-12, Math.log10(Math.PI), 80), ...Array.from({ length: 60 }, () => Math.PI * rand()), ...logSpace(-12, 0, 40).map((d) => Math.PI - d), Math.PI].map(
+    (th) => Math.min(th, Math.PI),
+  );
+  cases.aberrationAngle = signedBetas.map((b) => {
+    const th = pick(angles);
+    return [rand() < 0.5 ? -th : th, b];
+  });
+
+  // Lorentz boosts of random events with |x| up to 3c|t|.
+  cases.lorentzBoost = signedBetas.map((b) => {
+    const t = (rand() - 0.5) * pick([2, 2e-9, 2e6]);
+    const x = (rand() - 0.5) * 6 * C_NUM * Math.abs(t);
+    return [t, x, b];
+  });
+
+  // Synchrotron loss: γ from 1 + 1e-12 to 1e7, electrons, muons and protons.
+  cases.synchrotronLossPerTurn = logSpace(-12, 7, 120).map((x) => {
+    const m = pick([M_E_KG, M_P_KG, M_MU_KG]);
+    return [(1 + x) * m * C_NUM * C_NUM, pick([7, 0.3, 3096.175, 2803.95]), m];
+  }).filter(([E, , m]) => exact(E).gte(exact(m).mul(C2)));
+
+  return cases;
+}
+
+export interface SurveyRow {
+  name: string;
+  worstUlp: number;
+  samples: number;
+  /** The arguments of the worst sample. */
+  worstAt: number[];
+}
+
+/** Worst ulp error of every library function over its grid. */
+export function accuracySurvey(): SurveyRow[] {
+  const cases = surveyCases();
+  return LIBRARY.map((fn) => {
+    const list = cases[fn.name];
+    if (!list) throw new Error(`no survey grid for ${fn.name}`);
+    const reference = REFERENCES[fn.name];
+    let worstUlp = 0;
+    let worstAt: number[] = [];
+    for (const args of list) {
+      const error = errorOf(fn.kernel(...args), reference(...args));
+      if (!(error <= worstUlp)) {
+        worstUlp = error;
+        worstAt = args;
+      }
+    }
+    return { name: fn.name, worstUlp, samples: list.length, worstAt };
+  });
+}
+
+/** The table the accuracy test prints and the benchmark reports. */
+export function worstUlpTable(): Array<{ name: string; worstUlp: number; samples: number }> {
+  return accuracySurvey().map(({ name, worstUlp, samples }) => ({ name, worstUlp, samples }));
+}
