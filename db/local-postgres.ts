@@ -412,7 +412,7 @@ export class LocalCluster {
    */
   async ensureDatabase(database: string, options: { fresh?: boolean } = {}): Promise<void> {
     if (!/^[a-z_][a-z0-9_]*$/.test(database)) throw new LocalPostgresError(`Bad database name ${database}`);
-    if (options.fresh && this.name !== 'test') {
+    if (options.fresh && !this.name.startsWith('test')) {
       throw new LocalPostgresError('Only the test cluster may drop and re-create a database.');
     }
     const c = this.credentials();

@@ -168,3 +168,8 @@ export function displayValue(math: MathJsInstance, value: unknown, sig: number):
   const text = math.format(value as never, { precision: sig });
   return { kind: 'other', text, tex: `\\text{${text.replace(/[\\{}$&#^_%~]/g, '')}}`, number: null, unit: null, raw: text };
 }
+
+/** TeX of a unit expression written in a sheet ("m/s^2", "T*m"). */
+export function unitTexOf(math: MathJsInstance, unit: string): string {
+  return unitTex(unitParts(math.unit(unit)));
+}

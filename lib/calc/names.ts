@@ -1,6 +1,6 @@
-// What a sheet may call its own quantities. A name that is also a unit would change what a
-// quantity means (after `m = 5 kg`, does `2 m` mean two metres?), so such names are refused with
-// a suggestion, as are the names of built-in constants and functions.
+// What a sheet may call its own quantities. Names of units are allowed (t, T, B, L, V, m, s, g,
+// h …): a unit written after a number or after `to` stays a unit (see unit-literals.ts). The names
+// of built-in constants, values and functions are refused.
 import type { EngineMath } from './math-instance';
 
 const NAME = /^[A-Za-z][A-Za-z0-9_]*$/;
@@ -10,9 +10,6 @@ export function checkDefinitionName(name: string, em: EngineMath): string | null
   if (name.length > 64) return `\`${name}\`: names are at most 64 characters long`;
   if (name in Object.prototype) return `\`${name}\` is a reserved word; choose another name`;
   if (em.constants.has(name)) return `\`${name}\` is a built-in constant and cannot be redefined`;
-  if (em.isUnitName(name)) {
-    return `\`${name}\` is a unit, so it cannot name a quantity (it would change what "2 ${name}" means); choose another name, such as ${name}_1 or ${name}_kin`;
-  }
   if (em.isMathConstant(name)) return `\`${name}\` is a built-in value and cannot be redefined`;
   if (em.isFunctionName(name)) return `\`${name}\` is a built-in function and cannot be redefined`;
   return null;

@@ -14,6 +14,8 @@ import { formulaTex, substitutedTex, substitutionTex, type TexContext } from './
 import type { CellInput, CellResult, CriterionResult, DisplayValue, EvaluateOptions, SheetResult, StatementResult } from './types';
 import { ENGINE_VERSION } from './version';
 import { installSizeGuards, LIMITS } from './limits';
+import { extractUnitLiterals, UNIT_PLACEHOLDER_PREFIX, type UnitLiteral } from './unit-literals';
+import { unitTexOf } from './format';
 
 type AnyNode = MathNode & {
   type: string;
@@ -49,6 +51,10 @@ interface ParsedStatement {
   defines: string | null;
   /** Free names it uses (sheet names; units, functions and built-in constants excluded). */
   uses: string[];
+  /** Bare names that are also units: quantities where the sheet defines them, units otherwise. */
+  unitNamed: string[];
+  /** Unit expressions written after numbers and after `to`, bound to placeholder symbols. */
+  unitLiterals: UnitLiteral[];
   /** A problem found without evaluating (unknown unit in a conversion, a bad assignment target). */
   staticError: string | null;
 }
@@ -111,6 +117,7 @@ export function createSheetEngine(): SheetEngine {
 
   function analyse(node: AnyNode, statement: ParsedStatement): void {
     const uses = new Set<string>();
+    const unitNamed = new Set<string>();
     const visit = (n: AnyNode, locals: ReadonlySet<string>) => {
       switch (n.type) {
         case 'SymbolNode': {
@@ -119,8 +126,9 @@ export function createSheetEngine(): SheetEngine {
             statement.staticError ??= `The function ${name} is not available in calculation sheets.`;
             return;
           }
-          if (locals.has(name) || em.constants.has(name) || em.isMathConstant(name) || em.isUnitName(name)) return;
-          uses.add(name);
+          if (name.startsWith(UNIT_PLACEHOLDER_PREFIX) || locals.has(name) || em.constants.has(name) || em.isMathConstant(name)) return;
+          if (em.isUnitName(name)) unitNamed.add(name);
+          else uses.add(name);
           return;
         }
         case 'FunctionNode': {
@@ -141,7 +149,7 @@ export function createSheetEngine(): SheetEngine {
             visit(n.args[0], locals);
             n.args[1].traverse((u: MathNode) => {
               const un = u as AnyNode;
-              if (un.type === 'SymbolNode' && !em.isUnitName(un.name!)) {
+              if (un.type === 'SymbolNode' && !un.name!.startsWith(UNIT_PLACEHOLDER_PREFIX) && !em.isUnitName(un.name!)) {
                 statement.staticError ??= `\`${un.name}\` after "${n.op}" is not a unit`;
               }
             });
@@ -166,13 +174,14 @@ export function createSheetEngine(): SheetEngine {
     };
     visit(node, new Set());
     statement.uses = [...uses];
+    statement.unitNamed = [...unitNamed];
   }
 
   function parseCell(source: string): ParsedStatement[] {
     const cached = parseCache.get(source);
     if (cached) return cached;
     if (source.length > LIMITS.maxCellSourceChars) {
-      const out = [{ line: 1, source: source.slice(0, 80), node: null, parseError: `the cell is longer than ${LIMITS.maxCellSourceChars} characters`, kind: 'expression' as const, defines: null, uses: [], staticError: null }];
+      const out = [{ line: 1, source: source.slice(0, 80), node: null, parseError: `the cell is longer than ${LIMITS.maxCellSourceChars} characters`, kind: 'expression' as const, defines: null, uses: [], unitNamed: [], unitLiterals: [], staticError: null }];
       return out;
     }
     const statements: ParsedStatement[] = [];
@@ -180,7 +189,7 @@ export function createSheetEngine(): SheetEngine {
     for (const [i, raw] of lines.entries()) {
       const text = stripComment(raw).trim();
       if (!text) continue;
-      const st: ParsedStatement = { line: i + 1, source: raw.trim(), node: null, parseError: null, kind: 'expression', defines: null, uses: [], staticError: null };
+      const st: ParsedStatement = { line: i + 1, source: raw.trim(), node: null, parseError: null, kind: 'expression', defines: null, uses: [], unitNamed: [], unitLiterals: [], staticError: null };
       statements.push(st);
       if (statements.length > LIMITS.maxStatementsPerCell) {
         st.parseError = `a cell holds at most ${LIMITS.maxStatementsPerCell} statements`;
@@ -191,7 +200,9 @@ export function createSheetEngine(): SheetEngine {
         continue;
       }
       try {
-        st.node = em.parse(text) as AnyNode;
+        const { text: rewritten, literals } = extractUnitLiterals(text, em.isUnitName);
+        st.unitLiterals = literals;
+        st.node = em.parse(rewritten) as AnyNode;
       } catch (error) {
         st.parseError = messageOf(error);
         continue;
@@ -306,7 +317,9 @@ export function createSheetEngine(): SheetEngine {
         continue;
       }
       const ownNames = new Set(statements.map((s) => s.defines).filter((n): n is string => !!n));
-      const external = [...new Set(statements.flatMap((s) => s.uses))].filter((n) => !ownNames.has(n) || definedAt.has(n)).sort();
+      // A bare name that is also a unit is a quantity when the sheet defines it anywhere.
+      const usesOf = (st: ParsedStatement) => (st.unitNamed.length ? [...st.uses, ...st.unitNamed.filter((n) => firstDefinition.has(n))] : st.uses);
+      const external = [...new Set(statements.flatMap(usesOf))].filter((n) => !ownNames.has(n) || definedAt.has(n)).sort();
       const skipReason = hooks.skip?.get(cell.id);
       // The key covers everything the cell's results depend on: its text, its position (messages
       // name cells by number), the display precision, the keys of the cells that defined what it
@@ -342,7 +355,11 @@ export function createSheetEngine(): SheetEngine {
       const values = new Map<string, unknown>();
       const cellFailed = new Map<string, string>();
       const out: StatementResult[] = [];
-      const texCtx: TexContext = { isValueName: (n) => scope.has(n) || definedAt.has(n) || ownNames.has(n), valueTex: valueTexOf };
+      const texCtx: TexContext = {
+        isValueName: (n) => scope.has(n) || definedAt.has(n) || ownNames.has(n),
+        valueTex: valueTexOf,
+        unitTex: (unit) => unitTexOf(math, unit),
+      };
 
       for (const st of statements) {
         const result: StatementResult = { line: st.line, source: st.source, kind: st.kind, name: st.defines, tex: '', substitutedTex: null, value: null, criterion: null, error: null };
@@ -380,7 +397,7 @@ export function createSheetEngine(): SheetEngine {
           fail(st.staticError);
           continue;
         }
-        const problem = st.uses
+        const problem = usesOf(st)
           .map((name) => {
             if (definedAt.has(name)) {
               const why = failed.get(name) ?? cellFailed.get(name);
@@ -397,6 +414,7 @@ export function createSheetEngine(): SheetEngine {
         }
         try {
           const node = st.node!;
+          for (const l of st.unitLiterals) if (!scope.has(l.placeholder)) scope.set(l.placeholder, math.unit(l.unit));
           let value: unknown;
           if (st.kind === 'criterion') {
             const c = evaluateCriterion(node, scope);

@@ -3,6 +3,7 @@
 // letters), and the same formula with every input value substituted.
 import type { MathNode } from 'mathjs';
 import { CONSTANTS } from './constants';
+import { unitOfPlaceholder } from './unit-literals';
 
 const GREEK = new Set([
   'alpha', 'beta', 'gamma', 'delta', 'epsilon', 'varepsilon', 'zeta', 'eta', 'theta', 'vartheta', 'iota', 'kappa',
@@ -43,6 +44,8 @@ export interface TexContext {
   isValueName: (name: string) => boolean;
   /** TeX of a name's value, for substitution; undefined when it has none. */
   valueTex?: (name: string) => string | undefined;
+  /** TeX of a unit expression such as "m/s^2". */
+  unitTex: (unit: string) => string;
 }
 
 type AnyNode = MathNode & {
@@ -58,6 +61,8 @@ type AnyNode = MathNode & {
 
 function makeHandler(ctx: TexContext, substitute: boolean) {
   return (node: AnyNode, options: object): string | undefined => {
+    const unit = node.type === 'SymbolNode' && node.name ? unitOfPlaceholder(node.name) : null;
+    if (unit !== null) return ctx.unitTex(unit);
     if (node.type === 'SymbolNode' && node.name && ctx.isValueName(node.name)) {
       if (substitute && ctx.valueTex) {
         const v = ctx.valueTex(node.name);

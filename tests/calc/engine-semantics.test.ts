@@ -30,11 +30,28 @@ describe('definitions', () => {
     expect(r.cells[0].ok).toBe(true);
   });
 
-  it('refuses to name a quantity like a unit, so 2 m stays two metres', () => {
-    const r = run(cells('m = 5 kg', 'd = 2 m', 'T = 250 MeV', 'h = 3', 't = 1 s'));
-    expect(r.cells[0].error).toMatch(/^`m` is a unit, so it cannot name a quantity .*m_1 or m_kin/);
-    expect(r.cells[1].statements[0].value).toMatchObject({ number: 2, unit: 'm' });
-    for (const i of [2, 3, 4]) expect(r.cells[i].error).toMatch(/is a unit, so it cannot name a quantity/);
+  it('lets a quantity take a unit name while a number followed by that unit stays that unit', () => {
+    // Product brief: "2 m stays two metres after m = 5 kg; the target of to is always units".
+    const r = run(cells('m = 5 kg', 'd_1 = 2 m', 'T = 250 MeV', 'E_1 = T to J', 'w_1 = m * 2', 't = 2 s', 'v_1 = 9.81 m/s^2 * t', 'L = 3 m', 'L_2 = L to m'));
+    expect(r.ok).toBe(true);
+    const value = (i: number) => r.cells[i].statements[0].value;
+    expect(value(1)).toMatchObject({ number: 2, unit: 'm' });
+    // SI Brochure table 8: 1 eV = 1.602 176 634e-19 J, so 250 MeV = 4.005 441 585e-11 J
+    expect(value(3)?.number).toBeCloseTo(4.005441585e-11, 20);
+    expect(value(4)).toMatchObject({ number: 10, unit: 'kg' });
+    expect(value(6)).toMatchObject({ number: 19.62, unit: 'm / s' });
+    expect(value(8)).toMatchObject({ number: 3, unit: 'm' });
+    // The quantity m is italic, the unit m upright.
+    expect(r.cells[4].statements[0].tex).toBe('w_{\\mathrm{1}} = m\\cdot2');
+    expect(r.cells[1].statements[0].tex).toBe('d_{\\mathrm{1}} = 2~\\mathrm{m}');
+  });
+
+  it('reads a bare unit name as a quantity only where the sheet defines it, and above its use', () => {
+    const r = run(cells('x_1 = 3 * s', 's = 4 m', 'y_1 = 10 m / s', 'z_1 = 5 * kg'));
+    expect(r.cells[0].error).toBe('`s` is used before it is defined (cell 2, line 1); define names above where they are used');
+    expect(r.cells[3].statements[0].value).toMatchObject({ number: 5, unit: 'kg' });
+    // "10 m" is ten metres; the bare s after the spaced "/" is the quantity s = 4 m.
+    expect(r.cells[2].statements[0].value).toMatchObject({ number: 2.5 });
   });
 
   it('refuses to redefine built-in constants and functions', () => {
@@ -46,8 +63,8 @@ describe('definitions', () => {
   });
 
   it('reports an undefined name and a line it cannot read', () => {
-    const r = run(cells('y = q + 1', 'z = (1 + ', 'w = 3 # fine'));
-    expect(r.cells[0].error).toBe('`q` is not defined');
+    const r = run(cells('y = q_1 + 1', 'z = (1 + ', 'w = 3 # fine'));
+    expect(r.cells[0].error).toBe('`q_1` is not defined');
     expect(r.cells[1].error).toMatch(/^cannot read this line: /);
     expect(r.cells[2].ok).toBe(true);
   });

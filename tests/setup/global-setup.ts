@@ -21,7 +21,8 @@ declare module 'vitest' {
 }
 
 export default async function setup(project: TestProject) {
-  const cluster = new LocalCluster({ name: 'test', port: testClusterPort(), projectRoot: root });
+  // WORLDSHEET_TEST_CLUSTER lets two test runs on one machine use separate clusters.
+  const cluster = new LocalCluster({ name: process.env.WORLDSHEET_TEST_CLUSTER ?? 'test', port: testClusterPort(), projectRoot: root });
   cluster.prepare();
   await cluster.start();
   try {

@@ -1,0 +1,136 @@
+// Units written after a number, and after `to`/`in`, are always units, even where the sheet has a
+// quantity of the same name: after `m = 5 kg`, `2 m` is still two metres and `x to m` still
+// converts to metres, while a bare `m` is the quantity. The rule, as the sheet author reads it:
+//
+//   a number followed by a unit expression written without spaces (`9.81 m/s^2`, `2.5 T*m`)
+//   is that quantity; what follows `to` or `in` is units; any other name is a quantity if the
+//   sheet defines it, and otherwise a unit.
+//
+// Before mathjs parses a line, each such unit expression is replaced by a placeholder symbol that
+// names it unambiguously; the engine binds the placeholder to the unit and typesets it as the unit.
+
+export const UNIT_PLACEHOLDER_PREFIX = '__u_';
+
+export interface UnitLiteral {
+  placeholder: string;
+  unit: string;
+}
+
+const IDENT = /[A-Za-z_][A-Za-z0-9_]*/y;
+const POWER = /\^\s*(?:-?\d+(?:\.\d+)?|\(\s*-?\d+(?:\.\d+)?\s*\))/y;
+const NUMBER = /(?:\d+\.?\d*|\.\d+)(?:[eE][+-]?\d+)?/y;
+
+export function placeholderFor(unit: string): string {
+  return `${UNIT_PLACEHOLDER_PREFIX}${Buffer.from(unit, 'utf8').toString('hex')}`;
+}
+
+export function unitOfPlaceholder(name: string): string | null {
+  if (!name.startsWith(UNIT_PLACEHOLDER_PREFIX)) return null;
+  return Buffer.from(name.slice(UNIT_PLACEHOLDER_PREFIX.length), 'hex').toString('utf8');
+}
+
+/**
+ * Reads a unit expression at `start`: unit names joined by * or / and raised by ^n. Within a `to`
+ * target, spaces around * and / are allowed. Returns the end index, or `start` when no unit is there.
+ */
+function readUnitExpression(line: string, start: number, isUnit: (name: string) => boolean, spaced: boolean): number {
+  let i = start;
+  let end = start;
+  let expectUnit = true;
+  for (;;) {
+    if (expectUnit) {
+      IDENT.lastIndex = i;
+      const m = IDENT.exec(line);
+      if (!m || !isUnit(m[0])) return end;
+      i += m[0].length;
+      end = i;
+      expectUnit = false;
+      POWER.lastIndex = i;
+      const p = POWER.exec(line);
+      if (p) {
+        i += p[0].length;
+        end = i;
+      }
+      continue;
+    }
+    let j = i;
+    if (spaced) while (line[j] === ' ' || line[j] === '\t') j++;
+    const op = line[j];
+    if (op !== '*' && op !== '/') return end;
+    j++;
+    if (spaced) while (line[j] === ' ' || line[j] === '\t') j++;
+    IDENT.lastIndex = j;
+    const m = IDENT.exec(line);
+    if (!m || !isUnit(m[0])) return end;
+    i = j;
+    expectUnit = true;
+  }
+}
+
+/** Replaces unit literals of one statement (comment already removed) by placeholders. */
+export function extractUnitLiterals(line: string, isUnit: (name: string) => boolean): { text: string; literals: UnitLiteral[] } {
+  const literals: UnitLiteral[] = [];
+  let out = '';
+  let i = 0;
+  let quote: string | null = null;
+  const take = (from: number, to: number) => {
+    const unit = line.slice(from, to).replace(/\s+/g, '');
+    const placeholder = placeholderFor(unit);
+    if (!literals.some((l) => l.placeholder === placeholder)) literals.push({ placeholder, unit });
+    out += placeholder;
+  };
+  while (i < line.length) {
+    const ch = line[i];
+    if (quote) {
+      out += ch;
+      if (ch === '\\' && i + 1 < line.length) out += line[++i];
+      else if (ch === quote) quote = null;
+      i++;
+      continue;
+    }
+    if (ch === '"' || ch === "'") {
+      quote = ch;
+      out += ch;
+      i++;
+      continue;
+    }
+    const prev = i > 0 ? line[i - 1] : '';
+    if (/[A-Za-z_]/.test(ch)) {
+      IDENT.lastIndex = i;
+      const word = IDENT.exec(line)![0];
+      out += word;
+      i += word.length;
+      if ((word === 'to' || word === 'in') && /\s/.test(line[i] ?? '')) {
+        let j = i;
+        while (line[j] === ' ' || line[j] === '\t') j++;
+        const end = readUnitExpression(line, j, isUnit, true);
+        if (end > j) {
+          out += line.slice(i, j);
+          take(j, end);
+          i = end;
+        }
+      }
+      continue;
+    }
+    if (/[0-9.]/.test(ch) && !/[A-Za-z0-9_.]/.test(prev)) {
+      NUMBER.lastIndex = i;
+      const m = NUMBER.exec(line);
+      if (m) {
+        out += m[0];
+        i += m[0].length;
+        let j = i;
+        while (line[j] === ' ' || line[j] === '\t') j++;
+        const end = readUnitExpression(line, j, isUnit, false);
+        if (end > j) {
+          out += line.slice(i, j);
+          take(j, end);
+          i = end;
+        }
+        continue;
+      }
+    }
+    out += ch;
+    i++;
+  }
+  return { text: out, literals };
+}
