@@ -107,6 +107,23 @@ export function unitTex(parts: UnitPart[]): string {
   return `${top}/${den.length > 1 ? `\\left(${den.join('\\cdot ')}\\right)` : den[0]}`;
 }
 
+const partsCache = new WeakMap<MathJsInstance, Map<string, UnitPart[]>>();
+
+/** The parts of a unit string, parsed once per instance and unit string. */
+function partsOf(math: MathJsInstance, unitString: string): UnitPart[] {
+  let cache = partsCache.get(math);
+  if (!cache) {
+    cache = new Map();
+    partsCache.set(math, cache);
+  }
+  let parts = cache.get(unitString);
+  if (!parts) {
+    parts = unitParts(math.unit(unitString));
+    if (cache.size < 10_000) cache.set(unitString, parts);
+  }
+  return parts;
+}
+
 /**
  * Splits a mathjs quantity into the number and unit it is displayed in (simplified, with the best
  * prefix, as mathjs chooses), keeping the number at full double precision.
@@ -115,18 +132,43 @@ export function quantityParts(math: MathJsInstance, unit: Unit): { number: numbe
   // A mass stays in kilograms unless the sheet asked for another unit with `to`: mathjs's choice of
   // the "best" prefix would show the proton mass in yoctograms.
   const fixed = (unit as unknown as { fixPrefix?: boolean }).fixPrefix;
-  if (!fixed && unit.equalBase(math.unit('kg'))) {
-    const kg = unit.toNumber('kg');
+  if (!fixed && unit.equalBase(kilogram(math))) {
+    const kg = unit.value as number;
     if (Math.abs(kg) < 1e3) return { number: kg, unitString: 'kg', parts: [{ name: 'kg', power: 1 }] };
   }
-  const text = math.format(unit, { precision: 17 });
-  const space = text.indexOf(' ');
-  const numberText = space < 0 ? text : text.slice(0, space);
-  const unitString = space < 0 ? '' : text.slice(space + 1);
-  const number = Number(numberText);
-  if (!unitString) return { number, unitString: '', parts: [] };
-  const display = math.unit(unitString);
-  return { number, unitString, parts: unitParts(display) };
+  // The steps of mathjs's Unit.format (simplify unless told not to, then pick the best prefix of
+  // a single unit), without formatting the number to text and parsing the unit back.
+  const u = unit as unknown as InternalUnit;
+  const simp = (u.skipAutomaticSimplification ? u.clone() : u.simplify()) as InternalUnit;
+  if (simp.units.length === 1 && !simp.fixPrefix && Math.abs(simp.units[0].power - Math.round(simp.units[0].power)) < 1e-14) {
+    simp.units[0].prefix = simp._bestPrefix();
+  }
+  const number = simp._denormalize(simp.value) as number;
+  const unitString = simp.formatUnits();
+  return { number, unitString, parts: unitParts(simp as unknown as Unit) };
+}
+
+/** The parts of mathjs's Unit that its own format() uses. */
+interface InternalUnit {
+  value: number;
+  units: Array<{ unit: { name: string }; prefix: { name: string; value: number }; power: number }>;
+  fixPrefix: boolean;
+  skipAutomaticSimplification: boolean;
+  clone(): InternalUnit;
+  simplify(): InternalUnit;
+  _bestPrefix(): { name: string; value: number };
+  _denormalize(value: number): number;
+  formatUnits(): string;
+}
+
+const kilograms = new WeakMap<MathJsInstance, Unit>();
+function kilogram(math: MathJsInstance): Unit {
+  let kg = kilograms.get(math);
+  if (!kg) {
+    kg = math.unit('kg');
+    kilograms.set(math, kg);
+  }
+  return kg;
 }
 
 export function displayValue(math: MathJsInstance, value: unknown, sig: number): DisplayValue {
@@ -171,5 +213,5 @@ export function displayValue(math: MathJsInstance, value: unknown, sig: number):
 
 /** TeX of a unit expression written in a sheet ("m/s^2", "T*m"). */
 export function unitTexOf(math: MathJsInstance, unit: string): string {
-  return unitTex(unitParts(math.unit(unit)));
+  return unitTex(partsOf(math, unit));
 }

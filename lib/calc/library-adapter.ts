@@ -70,11 +70,13 @@ export function bindLibrary(math: MathJsInstance, library: readonly CalcFunction
       }
       const spec = KIND_UNITS[param.kind];
       if (unit.value === null) throw new ArgumentError(`${where} needs a value, not the bare unit ${describe(unit)}`);
+      // mathjs keeps a unit's value normalised to coherent SI units, so for these kinds (none has
+      // an offset, as temperatures do) `value` is already the SI number.
       if (unit.equalBase(baseOf(spec.si))) {
-        const si = unit.toNumber(spec.si);
+        const si = unit.value as number;
         return param.kind === 'speed' ? si / C : si;
       }
-      if (spec.alt && unit.equalBase(baseOf(spec.alt.si))) return spec.alt.toSi(unit.toNumber(spec.alt.si));
+      if (spec.alt && unit.equalBase(baseOf(spec.alt.si))) return spec.alt.toSi(unit.value as number);
       throw new ArgumentError(
         `${where} must be ${spec.label}${spec.alt ? ` or ${spec.alt.label}` : ''}${param.kind === 'speed' ? ' or a plain β' : ''}; got ${describe(unit)}`,
       );
@@ -82,15 +84,28 @@ export function bindLibrary(math: MathJsInstance, library: readonly CalcFunction
     throw new ArgumentError(`${where} must be ${param.kind === 'number' ? 'a number' : KIND_UNITS[param.kind].label}; got ${describe(value)}`);
   };
 
+  // Results are made by cloning a parsed template and setting its SI value: parsing the unit
+  // string on every call costs more than the kernel itself.
+  const templates = new Map<string, Unit>();
+  const siUnit = (value: number, unit: string): Unit => {
+    let t = templates.get(unit);
+    if (!t) {
+      t = math.unit(1, unit);
+      templates.set(unit, t);
+    }
+    const u = t.clone();
+    (u as unknown as { value: number }).value = value;
+    return u;
+  };
   const wrap = (fn: CalcFunction, result: number | [number, number]): unknown => {
     if (fn.returns === 'pair-time-length') {
       const [t, x] = result as [number, number];
-      return math.matrix([math.unit(t, 's'), math.unit(x, 'm')]);
+      return math.matrix([siUnit(t, 's'), siUnit(x, 'm')]);
     }
     const r = result as number;
     if (fn.returns === 'number') return r;
-    if (fn.returns === 'speed') return math.unit(r * C, 'm/s');
-    return math.unit(r, RETURN_UNITS[fn.returns]);
+    if (fn.returns === 'speed') return siUnit(r * C, 'm/s');
+    return siUnit(r, RETURN_UNITS[fn.returns]);
   };
 
   return library.map((fn) => ({

@@ -131,13 +131,25 @@ export function createEngineMath(library: readonly LibraryBinding[], setup?: (ma
 
   const mathRecord = math as unknown as Record<string, unknown>;
   const libraryNames = new Set(library.map((f) => f.name));
+  // mathjs's own lookup is memoised through a costly hasher; names repeat, so keep the answers here.
+  const unitNames = new Map<string, boolean>();
   return {
     math,
     parse,
     constants,
     isFunctionName: (name) =>
       libraryNames.has(name) || (Object.prototype.hasOwnProperty.call(mathRecord, name) && typeof mathRecord[name] === 'function'),
-    isUnitName: (name) => (math.Unit as unknown as { isValuelessUnit(n: string): boolean }).isValuelessUnit(name),
+    isUnitName: (name) => {
+      // No mathjs unit or prefix holds an underscore, and most sheet names do (T_kin, m_p): answer
+      // those at once, since mathjs's lookup of an unknown name tries every unit in turn.
+      if (name.includes('_')) return false;
+      let known = unitNames.get(name);
+      if (known === undefined) {
+        known = (math.Unit as unknown as { isValuelessUnit(n: string): boolean }).isValuelessUnit(name);
+        if (unitNames.size < 100_000) unitNames.set(name, known);
+      }
+      return known;
+    },
     isMathConstant: (name) => MATH_CONSTANTS.has(name) || (Object.prototype.hasOwnProperty.call(mathRecord, name) && typeof mathRecord[name] !== 'function'),
   };
 }

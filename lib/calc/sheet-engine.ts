@@ -108,6 +108,16 @@ export function createSheetEngine(): SheetEngine {
   const math: MathJsInstance = em.math;
 
   const parseCache = new Map<string, ParsedStatement[]>();
+  // Valueless units are never changed by arithmetic (it returns new units), so one per string serves all.
+  const unitLiteralCache = new Map<string, Unit>();
+  const unitLiteral = (text: string): Unit => {
+    let u = unitLiteralCache.get(text);
+    if (!u) {
+      u = math.unit(text);
+      if (unitLiteralCache.size < 10_000) unitLiteralCache.set(text, u);
+    }
+    return u;
+  };
   const cellCache = new Map<string, CachedCell>();
 
   function remember<K, V>(map: Map<K, V>, key: K, value: V, max: number): void {
@@ -343,6 +353,9 @@ export function createSheetEngine(): SheetEngine {
           scope.set(name, value);
           texValue.delete(name);
         }
+        for (const st of cached.result.statements) {
+          if (st.kind === 'definition' && st.name && st.value && !st.error) texValue.set(st.name, substitutionTex(st.value.tex));
+        }
         for (const [name, why] of cached.failed) failed.set(name, why);
         for (const st of statements) if (st.defines && !definedAt.has(st.defines)) definedAt.set(st.defines, { cell: ci, line: st.line });
         for (const name of ownNames) nameKey.set(name, key);
@@ -414,7 +427,7 @@ export function createSheetEngine(): SheetEngine {
         }
         try {
           const node = st.node!;
-          for (const l of st.unitLiterals) if (!scope.has(l.placeholder)) scope.set(l.placeholder, math.unit(l.unit));
+          for (const l of st.unitLiterals) if (!scope.has(l.placeholder)) scope.set(l.placeholder, unitLiteral(l.unit));
           let value: unknown;
           if (st.kind === 'criterion') {
             const c = evaluateCriterion(node, scope);
@@ -434,6 +447,8 @@ export function createSheetEngine(): SheetEngine {
           }
           if (st.kind !== 'function') {
             result.value = displayValue(math, value, sig) as DisplayValue;
+            // The substituted formulas below reuse this display instead of formatting the value again.
+            if (st.kind === 'definition') texValue.set(st.defines!, substitutionTex(result.value.tex));
             try {
               result.substitutedTex = substitutedTex(node, texCtx);
             } catch {
