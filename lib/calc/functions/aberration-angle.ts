@@ -1,5 +1,5 @@
 import { requireFinite, requireMassiveSpeed } from './support/domain';
-import { dd, div, mul, round, scale, sqrt, twoSum } from './support/double-double';
+import { dd, div, mul, mulNum, round, scale, sqrt, twoSum } from './support/double-double';
 import { atan2FirstQuadrant, sinCos } from './support/elementary';
 import { type CalcFunction, DomainError } from './types';
 
@@ -63,10 +63,16 @@ export const aberrationAngle: CalcFunction = {
       }
       magnitude = Math.PI;
     }
-    const [s, c] = sinCos(dd(magnitude / 2));
     const doppler = sqrt(div(twoSum(1, v), twoSum(1, -v)));
-    const half = atan2FirstQuadrant(mul(doppler, s), c);
-    const result = round(scale(half, 2));
+    let result: number;
+    if (magnitude < 2 ** -500) {
+      // θ′ = Dθ(1 + O(θ²)): exact to far below an ulp, and safe for subnormal angles, whose half
+      // would underflow.
+      result = round(mulNum(doppler, magnitude));
+    } else {
+      const [s, c] = sinCos(dd(magnitude / 2));
+      result = round(scale(atan2FirstQuadrant(mul(doppler, s), c), 2));
+    }
     return theta < 0 ? -result : result;
   },
 };
