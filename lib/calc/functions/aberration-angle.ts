@@ -25,8 +25,7 @@ const PI_ALLOWANCE = 4 * 2 ** -51;
  * Example: `aberrationAngle(90 deg, 0.6) to deg` → 126.87 deg.
  *
  * Source: Einstein, Annalen der Physik 17 (1905), §7; Jackson, Classical Electrodynamics, 3rd ed.
- * (1999), ch. 11; W. Rindler, Relativity: Special, General, and
- * Cosmological, 2nd ed. (2006), §4.
+ * (1999), ch. 11; W. Rindler, Relativity: Special, General, and Cosmological, 2nd ed. (2006), ch. 4.
  *
  * Numerics: the half-angle form is well conditioned at all angles, where acos of the cosine form loses
  * digits near 0 and π. θ′/2 = atan2(D sin(θ/2), cos(θ/2)) with the Doppler factor D, sin and cos in

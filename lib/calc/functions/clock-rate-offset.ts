@@ -14,7 +14,7 @@ import type { CalcFunction } from './types';
  *
  * Example: `clockRateOffset(3874 m/s)` (a GPS satellite) → −8.3493e-11.
  *
- * Source: IS-GPS-200 (rev. N, 2022), §3.3.1.1; N. Ashby, "Relativity in the Global Positioning
+ * Source: IS-GPS-200, §3.3.1.1; N. Ashby, "Relativity in the Global Positioning
  * System", Living Reviews in Relativity 6 (2003) 1.
  *
  * Numerics: √(1 − β²) − 1 cancels completely at satellite speeds; −β²/(1 + s) does not; evaluated in

@@ -20,8 +20,8 @@ const ELECTRON_REST_ENERGY = mul(decimalConstant(M_E), C_SQUARED);
  *
  * Example: `electronWavelength(200 kV) to pm` → 2.5079 pm.
  *
- * Source: D. B. Williams & C. B. Carter, Transmission Electron Microscopy, 2nd ed. (2009), §1.4 and
- * table 1.1; L. Reimer & H. Kohl, Transmission Electron Microscopy, 5th ed. (2008), §2.1.
+ * Source: D. B. Williams & C. B. Carter, Transmission Electron Microscopy, 2nd ed. (2009), table 1.1;
+ * L. Reimer & H. Kohl, Transmission Electron Microscopy, 5th ed. (2008), ch. 2.
  * Constants h, e (SI 2019, exact) and mₑ (CODATA 2022).
  *
  * Numerics: the kinetic energy eU and the product with e, h and mₑ taken at their decimal values in
@@ -37,7 +37,7 @@ export const electronWavelength: CalcFunction = {
     domain: 'U > 0. NaN and ±Infinity are refused.',
     example: 'electronWavelength(200 kV) to pm',
     exampleResult: '2.5079 pm',
-    source: 'D. B. Williams & C. B. Carter, Transmission Electron Microscopy, 2nd ed. (2009), §1.4 and table 1.1; L. Reimer & H. Kohl, Transmission Electron Microscopy, 5th ed. (2008), §2.1. Constants: h and e exact (SI 2019), mₑ CODATA 2022.',
+    source: 'D. B. Williams & C. B. Carter, Transmission Electron Microscopy, 2nd ed. (2009), table 1.1; L. Reimer & H. Kohl, Transmission Electron Microscopy, 5th ed. (2008), ch. 2. Constants: h and e exact (SI 2019), mₑ CODATA 2022.',
     numerics:
       'e, h and mₑ enter at their decimal (defined or recommended) values in double-double; λ = hc/(√T·√(T + 2mₑc²)) with T = eU is evaluated in double-double and rounded once (within about half an ulp of the formula with those constants).',
   },

@@ -18,7 +18,7 @@ const FN = 'hyperbolicDistance';
  *
  * Example: `hyperbolicDistance(g_n, 365.25 day)` → 4.0071e15 m (0.42355 light-year).
  *
- * Source: W. Rindler, Relativity: Special, General, and Cosmological, 2nd ed. (2006), §3.8;
+ * Source: W. Rindler, Relativity: Special, General, and Cosmological, 2nd ed. (2006), ch. 3;
  * Misner, Thorne, Wheeler, Gravitation (1973), §6.2.
  *
  * Numerics: √(1 + w²) − 1 = w²/(√(1 + w²) + 1) removes the cancellation at small w (at w = 1e-12 the
@@ -44,6 +44,10 @@ export const hyperbolicDistance: CalcFunction = {
   kernel: (a0: number, t: number): number => {
     requireFinite(FN, 'a0', a0);
     requireNonNegative(FN, 't', t, 's', 'time since the start from rest');
+    if (Math.abs(a0 * t) > 1e290) {
+      // Beyond the range of the exact products; w/(√(1 + w²) + 1) = 1 − 1/|w| + … is 1 to far below an ulp.
+      return finiteResult(FN, Math.sign(a0) * round(twoProd(C, t)));
+    }
     const w = hyperbolicParameter(a0, t);
     return finiteResult(FN, round(mul(twoProd(C, t), div(w, add(hypotOne(w), ONE)))));
   },

@@ -17,7 +17,7 @@ const FN = 'hyperbolicProperTime';
  *
  * Example: `hyperbolicProperTime(g_n, 365.25 day) to day` → 319.87 day.
  *
- * Source: W. Rindler, Relativity: Special, General, and Cosmological, 2nd ed. (2006), §3.8;
+ * Source: W. Rindler, Relativity: Special, General, and Cosmological, 2nd ed. (2006), ch. 3;
  * Misner, Thorne, Wheeler, Gravitation (1973), §6.2.
  *
  * Numerics: asinh in double-double (series near 0, logarithm by a Newton step otherwise); the form

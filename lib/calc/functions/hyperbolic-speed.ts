@@ -18,7 +18,7 @@ const FN = 'hyperbolicSpeed';
  *
  * Example: `hyperbolicSpeed(g_n, 365.25 day)` → 0.71825 c = 2.1533e8 m/s.
  *
- * Source: W. Rindler, Relativity: Special, General, and Cosmological, 2nd ed. (2006), §3.8
+ * Source: W. Rindler, Relativity: Special, General, and Cosmological, 2nd ed. (2006), ch. 3
  * (hyperbolic motion); C. W. Misner, K. S. Thorne, J. A. Wheeler, Gravitation (1973), §6.2.
  *
  * Numerics: w in double-double, √(1 + w²) without overflow (|w|·√(1 + 1/w²) for |w| > 1), rounded

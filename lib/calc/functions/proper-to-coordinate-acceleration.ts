@@ -16,7 +16,7 @@ const FN = 'properToCoordinateAcceleration';
  *
  * Example: `properToCoordinateAcceleration(g_n, 0.6)` → 5.0210 m/s².
  *
- * Source: W. Rindler, Relativity: Special, General, and Cosmological, 2nd ed. (2006), §3.7
+ * Source: W. Rindler, Relativity: Special, General, and Cosmological, 2nd ed. (2006), ch. 3
  * (transformation of acceleration); Jackson, Classical Electrodynamics, 3rd ed. (1999), §11.
  *
  * Numerics: 1/γ³ = (1 − β²)·√(1 − β²) with 1 − β² exact in double-double, times a0, rounded once.

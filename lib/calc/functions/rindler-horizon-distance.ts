@@ -15,7 +15,7 @@ const FN = 'rindlerHorizonDistance';
  *
  * Example: `rindlerHorizonDistance(g_n) to lightyear` → 0.96872 lightyear (9.1648e15 m).
  *
- * Source: W. Rindler, Relativity: Special, General, and Cosmological, 2nd ed. (2006), §3.8 and §12;
+ * Source: W. Rindler, Relativity: Special, General, and Cosmological, 2nd ed. (2006), ch. 3 and ch. 12;
  * Misner, Thorne, Wheeler, Gravitation (1973), §6.2–6.3.
  *
  * Numerics: c² exact in double-double, one division, rounded once.

@@ -27,7 +27,7 @@ const PREFACTOR = (() => {
  *
  * Example: `synchrotronLossPerTurn(3 GeV, 7 m, m_e) to keV` → 1023.6 keV.
  *
- * Source: M. Sands, "The Physics of Electron Storage Rings: An Introduction", SLAC-121 (1970), §4
+ * Source: M. Sands, "The Physics of Electron Storage Rings: An Introduction", SLAC-121 (1970)
  * (U0 = C_γ E⁴/ρ, C_γ = 8.85e-5 m/GeV³); Jackson, Classical Electrodynamics, 3rd ed. (1999), §14.2
  * (relativistic Larmor formula). ε0 from CODATA 2022.
  *
@@ -51,7 +51,7 @@ export const synchrotronLossPerTurn: CalcFunction = {
     example: 'synchrotronLossPerTurn(3 GeV, 7 m, m_e) to keV',
     exampleResult: '1023.6 keV',
     source:
-      'M. Sands, "The Physics of Electron Storage Rings: An Introduction", SLAC-121 (1970), §4: U0 = C_γE⁴/ρ, U0[keV] = 88.46 E⁴[GeV]/ρ[m] for electrons; J. D. Jackson, Classical Electrodynamics, 3rd ed. (1999), §14.2. ε0 = 8.8541878188e-12 F/m (CODATA 2022).',
+      'M. Sands, "The Physics of Electron Storage Rings: An Introduction", SLAC-121 (1970): U0 = C_γE⁴/ρ, U0[keV] = 88.46 E⁴[GeV]/ρ[m] for electrons; J. D. Jackson, Classical Electrodynamics, 3rd ed. (1999), §14.2. ε0 = 8.8541878188e-12 F/m (CODATA 2022).',
     numerics:
       'γ − 1 = (E − mc²)/(mc²) is formed in double-double, so (βγ)² = (γ − 1)(γ + 1) keeps its digits at low energy; e and ε0 enter at their decimal values; double-double throughout, rounded once (within about half an ulp).',
   },
