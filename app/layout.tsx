@@ -1,6 +1,7 @@
 import type { Metadata, Viewport } from 'next';
 import Link from 'next/link';
 import { AppHeader } from '@/components/shell/app-header';
+import { getActor } from '@/lib/auth/current-actor';
 import { APP_VERSION } from '@/lib/version';
 import { monoFont, textFont } from './fonts';
 import 'katex/dist/katex.min.css';
@@ -14,8 +15,10 @@ export const metadata: Metadata = {
 
 export const viewport: Viewport = { themeColor: '#0b5a61' };
 
-export default function RootLayout({ children }: { children: React.ReactNode }) {
+export default async function RootLayout({ children }: { children: React.ReactNode }) {
   const demo = process.env.WORLDSHEET_DEMO === '1';
+  // Shows who is signed in; it protects nothing (every page and route handler checks for itself).
+  const actor = await getActor().catch(() => null);
   return (
     <html lang="en" className={`${textFont.variable} ${monoFont.variable}`}>
       <body className="flex min-h-screen flex-col">
@@ -25,7 +28,7 @@ export default function RootLayout({ children }: { children: React.ReactNode }) 
         >
           Skip to content
         </a>
-        <AppHeader userName={null} />
+        <AppHeader userName={actor?.name ?? null} isAdmin={actor?.isAdmin ?? false} />
         <main id="main" className="mx-auto w-full max-w-sheet flex-1 px-gutter py-8">
           {children}
         </main>

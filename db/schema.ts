@@ -18,7 +18,56 @@ export interface UsersTable {
   password_hash: string | null;
   is_admin: Generated<boolean>;
   disabled_at: Date | null;
+  locked_at: Date | null;
+  failed_sign_ins: Generated<number>;
+  password_changed_at: Date | null;
   created_at: Timestamp;
+}
+
+export type SignInMethod = 'password' | 'link' | 'oidc';
+
+export interface SessionsTable {
+  id: Generated<string>;
+  user_id: string;
+  method: SignInMethod;
+  created_at: Timestamp;
+  last_seen_at: ColumnType<Date, Date | string | undefined, Date | string>;
+  ended_at: Date | null;
+  ended_reason: string | null;
+  ip: string | null;
+  user_agent: string | null;
+}
+
+export interface SignInAttemptsTable {
+  id: Generated<string>;
+  email: string;
+  ip: string;
+  method: string;
+  ok: boolean;
+  at: Timestamp;
+}
+
+export type EmailTokenPurpose = 'sign-in' | 'password-reset' | 'invitation';
+
+export interface EmailTokensTable {
+  id: Generated<string>;
+  user_id: string;
+  purpose: EmailTokenPurpose;
+  token_hash: string;
+  created_at: Timestamp;
+  expires_at: Date;
+  used_at: Date | null;
+}
+
+export interface ApiTokensTable {
+  id: Generated<string>;
+  user_id: string;
+  name: string;
+  token_hash: string;
+  prefix: string;
+  created_at: Timestamp;
+  last_used_at: Date | null;
+  revoked_at: Date | null;
 }
 
 export interface ProjectsTable {
@@ -78,6 +127,8 @@ export interface AuditEventsTable {
   reason: ColumnType<string | null, string | null | undefined, never>;
   prev_hash: Assigned<string>;
   hash: Assigned<string>;
+  session_id: ColumnType<string | null, string | null | undefined, never>;
+  token_id: ColumnType<string | null, string | null | undefined, never>;
 }
 
 export interface Database {
@@ -87,6 +138,10 @@ export interface Database {
   sheets: SheetsTable;
   versions: VersionsTable;
   audit_events: AuditEventsTable;
+  sessions: SessionsTable;
+  sign_in_attempts: SignInAttemptsTable;
+  email_tokens: EmailTokensTable;
+  api_tokens: ApiTokensTable;
 }
 
 export type User = Selectable<UsersTable>;
@@ -99,5 +154,7 @@ export type NewSheet = Insertable<SheetsTable>;
 export type Version = Selectable<VersionsTable>;
 export type NewVersion = Insertable<VersionsTable>;
 export type AuditEvent = Selectable<AuditEventsTable>;
+export type Session = Selectable<SessionsTable>;
+export type ApiToken = Selectable<ApiTokensTable>;
 export type NewAuditEvent = Insertable<AuditEventsTable>;
 export type { JSONColumnType };

@@ -1,15 +1,56 @@
 import type { Metadata } from 'next';
-import { UnavailableNotice } from '@/components/shell/unavailable-notice';
+import Link from 'next/link';
+import { getDb } from '@/db';
+import { pageActor } from '@/lib/auth/page-guard';
+import { listProjectsFor, ROLE_LABELS } from '@/lib/projects/projects';
 
 export const metadata: Metadata = { title: 'Projects' };
+export const dynamic = 'force-dynamic';
 
-export default function ProjectsPage() {
+export default async function ProjectsPage() {
+  const actor = await pageActor('/projects');
+  const projects = await listProjectsFor(getDb(), actor);
   return (
-    <UnavailableNotice title="Projects">
-      <p>
-        Not available yet in this build: project lists need sign-in and project roles, which are not built yet.
-        Until then no project data is shown to anyone.
-      </p>
-    </UnavailableNotice>
+    <div className="space-y-6">
+      <header>
+        <h1 className="text-2xl font-bold">Projects</h1>
+        <p className="mt-1 text-ink-muted">{actor.isAdmin ? 'All projects (you are an administrator).' : 'The projects you are a member of, with your roles.'}</p>
+      </header>
+      {projects.length === 0 ? (
+        <p className="rounded border border-rule bg-surface p-4 text-ink-muted">You are not a member of any project yet. An administrator gives roles per project.</p>
+      ) : (
+        <table className="w-full border-collapse text-sm">
+          <caption className="sr-only">Projects</caption>
+          <thead>
+            <tr className="border-b border-rule-strong text-left">
+              <th scope="col" className="py-2 pr-4">Code</th>
+              <th scope="col" className="py-2 pr-4">Name</th>
+              <th scope="col" className="py-2 pr-4">Legal owner</th>
+              <th scope="col" className="py-2 pr-4">Revisions</th>
+              <th scope="col" className="py-2">Your roles</th>
+            </tr>
+          </thead>
+          <tbody>
+            {projects.map((p) => (
+              <tr key={p.id} className="border-b border-rule">
+                <td className="py-2 pr-4 font-mono">
+                  {p.roles.length ? (
+                    <Link href={`/projects/${p.code}`} className="font-semibold text-accent underline">
+                      {p.code}
+                    </Link>
+                  ) : (
+                    p.code
+                  )}
+                </td>
+                <td className="py-2 pr-4">{p.name}</td>
+                <td className="py-2 pr-4">{p.legal_owner}</td>
+                <td className="py-2 pr-4">{p.revision_scheme === 'letters' ? 'A, B, C …' : '0, 1, 2 …'}</td>
+                <td className="py-2">{p.roles.length ? p.roles.map((r) => ROLE_LABELS[r]).join(', ') : '— (administration only)'}</td>
+              </tr>
+            ))}
+          </tbody>
+        </table>
+      )}
+    </div>
   );
 }

@@ -1,4 +1,5 @@
 import Link from 'next/link';
+import { SignOutButton } from '@/components/auth/sign-out-button';
 import { BrandMark } from './brand-mark';
 import { NavLink } from './nav-link';
 
@@ -9,7 +10,7 @@ const NAV = [
   { href: '/verify', label: 'Verify' },
 ] as const;
 
-export function AppHeader({ userName }: { userName: string | null }) {
+export function AppHeader({ userName, isAdmin = false }: { userName: string | null; isAdmin?: boolean }) {
   return (
     <header className="border-b border-rule bg-surface">
       <div className="mx-auto flex max-w-sheet flex-wrap items-center gap-x-6 gap-y-2 px-gutter py-3">
@@ -23,14 +24,20 @@ export function AppHeader({ userName }: { userName: string | null }) {
               {item.label}
             </NavLink>
           ))}
+          {isAdmin ? <NavLink href="/admin">Administration</NavLink> : null}
         </nav>
-        <div className="ml-auto text-sm text-ink-muted">
+        <div className="ml-auto flex items-center gap-2 text-sm text-ink-muted">
           {userName ? (
-            <span>
-              Signed in as <strong className="font-semibold text-ink">{userName}</strong>
-            </span>
+            <>
+              <Link href="/account" className="text-ink-muted no-underline hover:text-ink">
+                Signed in as <strong className="font-semibold text-ink">{userName}</strong>
+              </Link>
+              <SignOutButton />
+            </>
           ) : (
-            <span>Not signed in</span>
+            <Link href="/sign-in" className="font-semibold text-accent underline hover:text-accent-hover">
+              Sign in
+            </Link>
           )}
         </div>
       </div>

@@ -1,5 +1,6 @@
 // The project's commands, run by lib/ops/bootstrap.mjs after the npm packages are in place:
-//   start     local PostgreSQL, migrations, demo seed, production build, app server (npm start)
+//   start     local PostgreSQL, migrations, demo seed, production build, app server and job worker,
+//             and in demo mode the local mail capture server (npm start)
 //   test      the whole test suite against a separate test cluster (npm test)
 //   bench     the benchmarks, printed as ratios measured in one run (npm run bench)
 //   dev       like start, with `next dev` instead of a production build
@@ -19,8 +20,12 @@ import {
 import { migrateToLatest } from '../../db/migrate';
 import { seedDemo } from '../../db/seed';
 import { ensureChromium } from './chromium';
+import { localAuthSecret } from './app-secrets';
 import { buildIfStale } from './next-build';
 import { Supervisor, waitForExit } from './supervisor';
+import { ensureJobQueues } from '../jobs/queue';
+import { startCaptureServer } from '../mail/capture-server';
+import { mailCapturePort, smtpPort } from '../mail/config';
 
 const root = path.join(path.dirname(fileURLToPath(import.meta.url)), '..', '..');
 const log = (line: string) => console.log(`[worldsheet] ${line}`);
@@ -64,14 +69,47 @@ async function prepareDatabase(supervisor: Supervisor, options: { seed: boolean 
 }
 
 function appEnv(database: Database, extra: Record<string, string> = {}): NodeJS.ProcessEnv {
+  const host = process.env.WORLDSHEET_HOST ?? '127.0.0.1';
+  const port = process.env.PORT ?? '3000';
+  if (!database.demo && !process.env.NEXTAUTH_SECRET) {
+    throw new LocalPostgresError('Set NEXTAUTH_SECRET (a long random string) for a deployment with its own DATABASE_URL.');
+  }
   return {
     ...process.env,
     DATABASE_URL: database.url,
     WORLDSHEET_DEMO: database.demo ? '1' : '0',
     NEXT_TELEMETRY_DISABLED: '1',
+    NEXTAUTH_URL: process.env.NEXTAUTH_URL ?? `http://${host}:${port}`,
+    NEXTAUTH_SECRET: process.env.NEXTAUTH_SECRET ?? localAuthSecret(root),
     ...extra,
   };
 }
+
+// ── Mail and jobs ────────────────────────────────────────────────────────────────────────────
+// Demo mode (no DATABASE_URL): the local mail capture server, in this process, receives all mail
+// and the app shows it at /mailbox. A deployment sets WORLDSHEET_SMTP_URL for its mail service.
+// In both cases the job worker process (lib/jobs/worker-main.ts) delivers the queued mail.
+
+/** Starts the demo mail capture server; returns the settings the app and the worker need. */
+async function startDemoMail(supervisor: Supervisor, appBaseUrl: string): Promise<Record<string, string>> {
+  const capture = await startCaptureServer({
+    smtpPort: smtpPort(),
+    httpPort: mailCapturePort(),
+    portVariables: { smtp: 'WORLDSHEET_SMTP_PORT', http: 'WORLDSHEET_MAIL_CAPTURE_PORT' },
+    log: (line) => log(`demo mail: ${line} (read it at ${appBaseUrl}/mailbox)`),
+  });
+  supervisor.add('mail capture server', () => capture.stop());
+  log(`demo mail server: SMTP on ${capture.smtpUrl}, nothing is delivered; captured mail at ${appBaseUrl}/mailbox`);
+  return { WORLDSHEET_SMTP_URL: capture.smtpUrl, WORLDSHEET_MAIL_CAPTURE_URL: capture.url };
+}
+
+function spawnJobWorker(supervisor: Supervisor, env: NodeJS.ProcessEnv) {
+  return supervisor.spawn('job worker', process.execPath, ['--import', 'tsx', path.join('lib', 'jobs', 'worker-main.ts')], {
+    cwd: root,
+    env,
+  });
+}
+// ─────────────────────────────────────────────────────────────────────────────────────────────
 
 async function serve(supervisor: Supervisor, mode: 'start' | 'dev'): Promise<void> {
   const host = process.env.WORLDSHEET_HOST ?? '127.0.0.1';
@@ -79,18 +117,24 @@ async function serve(supervisor: Supervisor, mode: 'start' | 'dev'): Promise<voi
   if (!(await portIsFree(port, host))) {
     throw new LocalPostgresError(`Port ${port} on ${host} is already in use. Stop what uses it, or choose another with PORT=<port>.`);
   }
+  const mailEnv = process.env.DATABASE_URL ? {} : await startDemoMail(supervisor, `http://${host}:${port}`);
   const database = await prepareDatabase(supervisor, { seed: true });
-  const env = appEnv(database);
+  await ensureJobQueues(database.url);
+  const env = appEnv(database, mailEnv);
   if (mode === 'start') buildIfStale(root, '.next', { ...env, NODE_ENV: 'production' });
   if (supervisor.isStopping) return;
+  const worker = spawnJobWorker(supervisor, { ...env, NODE_ENV: 'production' });
   const app = supervisor.spawn('app server', process.execPath, [nextBin, mode, '-H', host, '-p', String(port)], {
     cwd: root,
     env: mode === 'start' ? { ...env, NODE_ENV: 'production' } : { ...env, NODE_ENV: 'development' },
   });
   log(`Worldsheet: http://${host}:${port}  (demo accounts are listed in README.md; Ctrl-C stops everything)`);
-  const code = await waitForExit(app);
+  const [which, code] = await Promise.race([
+    waitForExit(app).then((c) => ['app server', c] as const),
+    waitForExit(worker).then((c) => ['job worker', c] as const),
+  ]);
   if (!supervisor.isStopping) {
-    console.error(`[worldsheet] the app server stopped unexpectedly (exit ${code}); stopping the rest.`);
+    console.error(`[worldsheet] the ${which} stopped unexpectedly (exit ${code}); stopping the rest.`);
     await supervisor.shutdown(code || 1);
   }
 }

@@ -1,12 +1,13 @@
 import { AppError, errorResponse, readJsonBody } from '@/lib/errors/app-error';
 import { EVALUATE_MAX_BYTES, evaluateRequestSchema } from '@/lib/calc/evaluate-request';
 import { getEvaluator } from '@/lib/calc/sandbox/evaluator';
+import { requireActor } from '@/lib/auth/current-actor';
 
 export const dynamic = 'force-dynamic';
 
-// Sign-in will be required here once accounts exist.
 export async function POST(request: Request): Promise<Response> {
   try {
+    await requireActor();
     const body = await readJsonBody(request, EVALUATE_MAX_BYTES);
     const parsed = evaluateRequestSchema.safeParse(body);
     if (!parsed.success) {

@@ -1,0 +1,55 @@
+import type { Metadata } from 'next';
+import Link from 'next/link';
+import { SignInForm } from '@/components/auth/sign-in-form';
+import { oidcConfigured } from '@/lib/auth/oidc';
+
+export const metadata: Metadata = { title: 'Sign in' };
+export const dynamic = 'force-dynamic';
+
+const DEMO = ['originator', 'checker', 'approver', 'controller', 'viewer', 'admin'];
+
+function safeCallback(value: string | undefined): string {
+  return value && value.startsWith('/') && !value.startsWith('//') ? value : '/projects';
+}
+
+export default async function SignInPage({ searchParams }: { searchParams: Promise<Record<string, string | undefined>> }) {
+  const query = await searchParams;
+  const demo = process.env.WORLDSHEET_DEMO === '1';
+  const error = query.error ? (query.error === 'CredentialsSignin' ? 'Sign-in failed.' : query.error.slice(0, 300)) : null;
+  return (
+    <div className="mx-auto grid max-w-sheet gap-10 py-6 md:grid-cols-2">
+      <section aria-labelledby="sign-in-title" className="max-w-md">
+        <h1 id="sign-in-title" className="text-2xl font-bold">
+          Sign in
+        </h1>
+        <p className="mt-2 text-ink-muted">Your account is given by an administrator of your organisation.</p>
+        <div className="mt-6">
+          <SignInForm callbackUrl={safeCallback(query.callbackUrl)} initialError={error} oidcName={oidcConfigured() ? (process.env.WORLDSHEET_OIDC_NAME ?? 'Organisation account') : null} />
+        </div>
+      </section>
+      {demo ? (
+        <aside aria-labelledby="demo-title" className="rounded border border-rule bg-surface p-5">
+          <h2 id="demo-title" className="font-bold">
+            Demo accounts
+          </h2>
+          <p className="mt-1 text-sm text-ink-muted">
+            This installation holds fictional demo data. Every account below uses the password{' '}
+            <code className="font-mono text-ink">worldsheet-demo</code>.
+          </p>
+          <ul className="mt-3 space-y-1 font-mono text-sm">
+            {DEMO.map((d) => (
+              <li key={d}>{d}@demo.test</li>
+            ))}
+          </ul>
+          <p className="mt-3 text-sm">
+            E-mails (sign-in links, password resets) are caught by the local demo mail server:{' '}
+            <Link href="/mailbox" className="font-semibold text-accent underline">
+              open the demo mailbox
+            </Link>
+            .
+          </p>
+        </aside>
+      ) : null}
+    </div>
+  );
+}

@@ -1,0 +1,14 @@
+import { getDb } from '@/db';
+import { changePassword, passwordChangeSchema } from '@/lib/auth/account';
+import { requireActor } from '@/lib/auth/current-actor';
+import { handle, parseJson } from '@/lib/http/route';
+
+export const dynamic = 'force-dynamic';
+
+export function POST(request: Request): Promise<Response> {
+  return handle(async () => {
+    const actor = await requireActor();
+    await changePassword(getDb(), actor, await parseJson(request, passwordChangeSchema));
+    return Response.json({ ok: true });
+  });
+}

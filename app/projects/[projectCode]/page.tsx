@@ -1,0 +1,67 @@
+import type { Metadata } from 'next';
+import Link from 'next/link';
+import { getDb } from '@/db';
+import { pageProject } from '@/lib/auth/page-guard';
+import { listMembers, ROLE_LABELS } from '@/lib/projects/projects';
+
+export const metadata: Metadata = { title: 'Project' };
+export const dynamic = 'force-dynamic';
+
+export default async function ProjectPage({ params }: { params: Promise<{ projectCode: string }> }) {
+  const { projectCode } = await params;
+  const { project, roles } = await pageProject(projectCode, `/projects/${projectCode}`);
+  const members = await listMembers(getDb(), project.id);
+  const seesAudit = roles.some((r) => r !== 'viewer');
+  return (
+    <div className="space-y-8">
+      <header>
+        <p className="font-mono text-sm text-ink-muted">{project.code}</p>
+        <h1 className="text-2xl font-bold">{project.name}</h1>
+        <p className="mt-1 text-ink-muted">
+          Legal owner: {project.legal_owner}. Revisions numbered {project.revision_scheme === 'letters' ? 'A, B, C … (skipping I, O, Q, S, X, Z)' : '0, 1, 2 …'}. Your roles:{' '}
+          {roles.map((r) => ROLE_LABELS[r]).join(', ')}.
+        </p>
+        {seesAudit ? (
+          <p className="mt-2">
+            <Link href={`/projects/${project.code}/audit`} className="font-semibold text-accent underline">
+              Audit trail
+            </Link>
+          </p>
+        ) : null}
+      </header>
+      <section aria-labelledby="sheets-title" className="rounded border border-rule bg-surface p-4">
+        <h2 id="sheets-title" className="font-bold">
+          Calculation sheets
+        </h2>
+        <p className="mt-1 text-sm text-ink-muted">Not available yet in this build: the sheet register and editor come next.</p>
+      </section>
+      <section aria-labelledby="members-title">
+        <h2 id="members-title" className="text-xl font-bold">
+          Members
+        </h2>
+        <table className="mt-3 w-full border-collapse text-sm">
+          <caption className="sr-only">Members of {project.code} and their roles</caption>
+          <thead>
+            <tr className="border-b border-rule-strong text-left">
+              <th scope="col" className="py-2 pr-4">Name</th>
+              <th scope="col" className="py-2 pr-4">E-mail</th>
+              <th scope="col" className="py-2">Roles</th>
+            </tr>
+          </thead>
+          <tbody>
+            {members.map((m) => (
+              <tr key={m.userId} className="border-b border-rule">
+                <td className="py-2 pr-4">
+                  {m.name}
+                  {m.disabledAt ? <span className="ml-2 text-xs text-fail">(disabled)</span> : null}
+                </td>
+                <td className="py-2 pr-4 font-mono">{m.email}</td>
+                <td className="py-2">{m.roles.map((r) => ROLE_LABELS[r]).join(', ')}</td>
+              </tr>
+            ))}
+          </tbody>
+        </table>
+      </section>
+    </div>
+  );
+}

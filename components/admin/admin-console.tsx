@@ -1,0 +1,221 @@
+'use client';
+
+import { useState } from 'react';
+import useSWR from 'swr';
+import { JsonForm } from '@/components/forms/json-form';
+
+interface UserRow {
+  id: string;
+  email: string;
+  name: string;
+  isAdmin: boolean;
+  disabledAt: string | null;
+  lockedAt: string | null;
+  hasPassword: boolean;
+}
+interface ProjectRow {
+  id: string;
+  code: string;
+  name: string;
+  legal_owner: string;
+  revision_scheme: string;
+}
+interface MemberRow {
+  userId: string;
+  name: string;
+  email: string;
+  roles: string[];
+}
+
+const ROLES = [
+  { value: 'originator', label: 'Originator' },
+  { value: 'checker', label: 'Checker' },
+  { value: 'approver', label: 'Approver' },
+  { value: 'controller', label: 'Document controller' },
+  { value: 'viewer', label: 'Viewer' },
+];
+
+const fetcher = async (url: string) => {
+  const r = await fetch(url);
+  if (!r.ok) throw new Error(`HTTP ${r.status}`);
+  return r.json();
+};
+
+function UserAction({ user, action, onDone }: { user: UserRow; action: 'disable' | 'enable' | 'unlock'; onDone: () => void }) {
+  const [open, setOpen] = useState(false);
+  const label = { disable: 'Disable', enable: 'Enable', unlock: 'Unlock' }[action];
+  if (!open) {
+    return (
+      <button type="button" onClick={() => setOpen(true)} className="font-semibold text-accent underline">
+        {label} {user.name}
+      </button>
+    );
+  }
+  return (
+    <JsonForm
+      action={`/api/admin/users/${user.id}`}
+      method="PATCH"
+      extra={{ action }}
+      fields={[{ name: 'reason', label: `Reason to ${action} ${user.name}`, required: true }]}
+      submitLabel={label}
+      onDone={() => {
+        setOpen(false);
+        onDone();
+      }}
+    />
+  );
+}
+
+export function AdminConsole() {
+  const users = useSWR<{ users: UserRow[] }>('/api/admin/users', fetcher);
+  const projects = useSWR<{ projects: ProjectRow[] }>('/api/projects', fetcher);
+  const [projectId, setProjectId] = useState<string>('');
+  const selected = projectId || projects.data?.projects[0]?.id || '';
+  const members = useSWR<{ members: MemberRow[] }>(selected ? `/api/projects/${selected}/members` : null, fetcher);
+  const userOptions = (users.data?.users ?? []).filter((u) => !u.disabledAt).map((u) => ({ value: u.id, label: `${u.name} (${u.email})` }));
+
+  return (
+    <div className="space-y-12">
+      <section aria-labelledby="users-title" className="space-y-4">
+        <h2 id="users-title" className="text-xl font-bold">
+          People
+        </h2>
+        <table className="w-full border-collapse text-sm">
+          <caption className="sr-only">Accounts</caption>
+          <thead>
+            <tr className="border-b border-rule-strong text-left">
+              <th scope="col" className="py-2 pr-3">Printed name</th>
+              <th scope="col" className="py-2 pr-3">E-mail</th>
+              <th scope="col" className="py-2 pr-3">State</th>
+              <th scope="col" className="py-2">Actions</th>
+            </tr>
+          </thead>
+          <tbody>
+            {(users.data?.users ?? []).map((u) => (
+              <tr key={u.id} className="border-b border-rule align-top">
+                <td className="py-2 pr-3">
+                  {u.name}
+                  {u.isAdmin ? <span className="ml-2 text-xs text-ink-muted">administrator</span> : null}
+                </td>
+                <td className="py-2 pr-3 font-mono">{u.email}</td>
+                <td className="py-2 pr-3">
+                  {u.disabledAt ? 'disabled' : u.lockedAt ? <span className="text-fail">locked</span> : u.hasPassword ? 'active' : 'invited'}
+                </td>
+                <td className="space-y-1 py-2">
+                  {u.lockedAt ? <UserAction user={u} action="unlock" onDone={() => void users.mutate()} /> : null}
+                  <UserAction user={u} action={u.disabledAt ? 'enable' : 'disable'} onDone={() => void users.mutate()} />
+                </td>
+              </tr>
+            ))}
+          </tbody>
+        </table>
+        <div className="max-w-md rounded border border-rule bg-surface p-4">
+          <h3 className="font-bold">Invite a person</h3>
+          <p className="text-sm text-ink-muted">They receive an e-mail with a link to choose their password.</p>
+          <div className="mt-3">
+            <JsonForm
+              action="/api/admin/users"
+              fields={[
+                { name: 'email', label: 'E-mail', type: 'email', required: true },
+                { name: 'name', label: 'Printed name (as on signatures)', required: true },
+                { name: 'isAdmin', label: 'Administrator', type: 'checkbox' },
+              ]}
+              submitLabel="Send the invitation"
+              successMessage="Invitation sent."
+              onDone={() => void users.mutate()}
+            />
+          </div>
+        </div>
+      </section>
+
+      <section aria-labelledby="projects-title" className="space-y-4">
+        <h2 id="projects-title" className="text-xl font-bold">
+          Projects and roles
+        </h2>
+        <div className="flex flex-wrap items-end gap-3">
+          <div>
+            <label htmlFor="admin-project" className="block text-sm font-semibold">
+              Project
+            </label>
+            <select id="admin-project" value={selected} onChange={(e) => setProjectId(e.target.value)} className="rounded border border-rule-strong bg-surface px-3 py-2">
+              {(projects.data?.projects ?? []).map((p) => (
+                <option key={p.id} value={p.id}>
+                  {p.code}: {p.name}
+                </option>
+              ))}
+            </select>
+          </div>
+        </div>
+        {selected ? (
+          <>
+            <table className="w-full border-collapse text-sm">
+              <caption className="sr-only">Members and roles of the selected project</caption>
+              <thead>
+                <tr className="border-b border-rule-strong text-left">
+                  <th scope="col" className="py-2 pr-3">Member</th>
+                  <th scope="col" className="py-2">Roles</th>
+                </tr>
+              </thead>
+              <tbody>
+                {(members.data?.members ?? []).map((m) => (
+                  <tr key={m.userId} className="border-b border-rule">
+                    <td className="py-2 pr-3">
+                      {m.name} <span className="font-mono text-xs text-ink-muted">{m.email}</span>
+                    </td>
+                    <td className="py-2">{m.roles.join(', ')}</td>
+                  </tr>
+                ))}
+              </tbody>
+            </table>
+            <div className="grid gap-6 md:grid-cols-2">
+              <div className="rounded border border-rule bg-surface p-4">
+                <h3 className="font-bold">Give a role</h3>
+                <JsonForm
+                  action={`/api/projects/${selected}/members`}
+                  fields={[
+                    { name: 'userId', label: 'Person', type: 'select', options: userOptions, required: true },
+                    { name: 'role', label: 'Role', type: 'select', options: ROLES, required: true },
+                    { name: 'reason', label: 'Reason', required: true, hint: 'Recorded in the audit trail.' },
+                  ]}
+                  submitLabel="Give the role"
+                  successMessage="Role given."
+                  onDone={() => void members.mutate()}
+                />
+              </div>
+              <div className="rounded border border-rule bg-surface p-4">
+                <h3 className="font-bold">Take a role away</h3>
+                <JsonForm
+                  action={`/api/projects/${selected}/members`}
+                  method="DELETE"
+                  fields={[
+                    { name: 'userId', label: 'Person', type: 'select', options: userOptions, required: true },
+                    { name: 'role', label: 'Role', type: 'select', options: ROLES, required: true },
+                    { name: 'reason', label: 'Reason', required: true, hint: 'Recorded in the audit trail.' },
+                  ]}
+                  submitLabel="Take the role away"
+                  successMessage="Role taken away."
+                  onDone={() => void members.mutate()}
+                />
+              </div>
+            </div>
+          </>
+        ) : null}
+        <div className="max-w-md rounded border border-rule bg-surface p-4">
+          <h3 className="font-bold">Create a project</h3>
+          <JsonForm
+            action="/api/projects"
+            fields={[
+              { name: 'code', label: 'Code', required: true, hint: '2 to 10 capital letters or digits, e.g. TPT3.' },
+              { name: 'name', label: 'Name', required: true },
+              { name: 'legalOwner', label: 'Legal owner', required: true },
+              { name: 'revisionScheme', label: 'Revision scheme', type: 'select', options: [{ value: 'letters', label: 'Letters A, B, C … (ASME Y14.35)' }, { value: 'numbers', label: 'Numbers 0, 1, 2 …' }] },
+            ]}
+            submitLabel="Create the project"
+            successMessage="Project created."
+            onDone={() => void projects.mutate()}
+          />
+        </div>
+      </section>
+    </div>
+  );
+}

@@ -1,0 +1,103 @@
+'use client';
+
+import { useId, useState } from 'react';
+
+export interface FieldSpec {
+  name: string;
+  label: string;
+  type?: 'text' | 'email' | 'password' | 'select' | 'checkbox' | 'textarea';
+  options?: Array<{ value: string; label: string }>;
+  required?: boolean;
+  autoComplete?: string;
+  hint?: string;
+  defaultValue?: string;
+}
+
+/**
+ * A form that sends its fields as JSON to one of our route handlers and shows the server's answer.
+ * The server validates everything again; the browser's checks only save a round trip.
+ */
+export function JsonForm({
+  action,
+  method = 'POST',
+  fields,
+  submitLabel,
+  onDone,
+  successMessage,
+  extra,
+}: {
+  action: string;
+  method?: 'POST' | 'PATCH' | 'DELETE';
+  fields: FieldSpec[];
+  submitLabel: string;
+  onDone?: (body: Record<string, unknown>) => void;
+  successMessage?: string;
+  extra?: Record<string, unknown>;
+}) {
+  const id = useId();
+  const [state, setState] = useState<{ kind: 'idle' | 'busy' | 'error' | 'done'; message?: string }>({ kind: 'idle' });
+  async function submit(event: React.FormEvent<HTMLFormElement>) {
+    event.preventDefault();
+    const form = new FormData(event.currentTarget);
+    const body: Record<string, unknown> = { ...extra };
+    for (const f of fields) body[f.name] = f.type === 'checkbox' ? form.get(f.name) === 'on' : String(form.get(f.name) ?? '');
+    setState({ kind: 'busy' });
+    try {
+      const response = await fetch(action, { method, headers: { 'content-type': 'application/json' }, body: JSON.stringify(body) });
+      const answer = (await response.json().catch(() => ({}))) as Record<string, unknown> & { error?: { message?: string }; message?: string };
+      if (!response.ok) {
+        setState({ kind: 'error', message: answer.error?.message ?? `The server answered ${response.status}.` });
+        return;
+      }
+      setState({ kind: 'done', message: successMessage ?? (answer.message as string | undefined) ?? 'Done.' });
+      onDone?.(answer);
+    } catch {
+      setState({ kind: 'error', message: 'The server could not be reached.' });
+    }
+  }
+  return (
+    <form onSubmit={submit} className="space-y-3" aria-describedby={`${id}-status`}>
+      {fields.map((f) => {
+        const fieldId = `${id}-${f.name}`;
+        const hintId = f.hint ? `${fieldId}-hint` : undefined;
+        const common = { id: fieldId, name: f.name, required: f.required, 'aria-describedby': hintId, autoComplete: f.autoComplete, defaultValue: f.defaultValue };
+        const input =
+          f.type === 'select' ? (
+            <select {...common} className="w-full rounded border border-rule-strong bg-surface px-3 py-2">
+              {f.options!.map((o) => (
+                <option key={o.value} value={o.value}>
+                  {o.label}
+                </option>
+              ))}
+            </select>
+          ) : f.type === 'textarea' ? (
+            <textarea {...common} rows={2} className="w-full rounded border border-rule-strong bg-surface px-3 py-2" />
+          ) : f.type === 'checkbox' ? (
+            <input {...common} type="checkbox" className="h-4 w-4" />
+          ) : (
+            <input {...common} type={f.type ?? 'text'} className="w-full rounded border border-rule-strong bg-surface px-3 py-2" />
+          );
+        return (
+          <div key={f.name} className={f.type === 'checkbox' ? 'flex items-center gap-2' : ''}>
+            {f.type === 'checkbox' ? input : null}
+            <label htmlFor={fieldId} className={f.type === 'checkbox' ? 'text-sm' : 'block text-sm font-semibold'}>
+              {f.label}
+            </label>
+            {f.type !== 'checkbox' ? input : null}
+            {f.hint ? (
+              <p id={hintId} className="text-xs text-ink-muted">
+                {f.hint}
+              </p>
+            ) : null}
+          </div>
+        );
+      })}
+      <button type="submit" disabled={state.kind === 'busy'} className="rounded bg-accent px-4 py-2 font-semibold text-surface hover:bg-accent-hover disabled:opacity-60">
+        {state.kind === 'busy' ? 'Working…' : submitLabel}
+      </button>
+      <p id={`${id}-status`} role={state.kind === 'error' ? 'alert' : 'status'} aria-live="polite" className={state.kind === 'error' ? 'text-sm text-fail' : 'text-sm text-pass'}>
+        {state.kind === 'error' || state.kind === 'done' ? state.message : ''}
+      </p>
+    </form>
+  );
+}

@@ -1,0 +1,87 @@
+// What people do with their own account: change the password, reset a forgotten one through an
+// e-mailed link, ask for a sign-in link. Requests for unknown addresses answer the same as for known
+// ones, so the form does not reveal who has an account.
+import { sql, type Kysely } from 'kysely';
+import { z } from 'zod';
+import type { Database } from '@/db/schema';
+import { recordAudit } from '@/lib/audit/record';
+import { AppError } from '@/lib/errors/app-error';
+import { enqueueMail } from '@/lib/mail/outbox';
+import { appUrl } from '@/lib/projects/users';
+import type { Actor } from './actor';
+import { consumeEmailToken, createEmailToken } from './email-tokens';
+import { hashPassword, passwordProblem, verifyPassword } from './password';
+import { endUserSessions } from './sessions';
+import { AUTH_SETTINGS } from './settings';
+
+const newPassword = z.string().superRefine((value, ctx) => {
+  const problem = passwordProblem(value);
+  if (problem) ctx.addIssue({ code: 'custom', message: problem });
+});
+
+export const passwordChangeSchema = z.object({ currentPassword: z.string().min(1, 'enter your current password'), newPassword });
+export const resetRequestSchema = z.object({ email: z.string().trim().toLowerCase().email('enter an e-mail address').max(254) });
+export const resetConfirmSchema = z.object({ token: z.string().min(10).max(200), newPassword });
+
+export async function changePassword(db: Kysely<Database>, actor: Actor, input: z.infer<typeof passwordChangeSchema>): Promise<void> {
+  const user = await db.selectFrom('users').select('password_hash').where('id', '=', actor.userId).executeTakeFirstOrThrow();
+  if (!(await verifyPassword(user.password_hash, input.currentPassword))) throw new AppError('bad_request', 'The current password is not right.');
+  const hashed = await hashPassword(input.newPassword);
+  await db.transaction().execute(async (trx) => {
+    await trx.updateTable('users').set({ password_hash: hashed, password_changed_at: sql`now()` }).where('id', '=', actor.userId).execute();
+    await recordAudit(trx, actor, { action: 'user.password-change', objectType: 'user', objectId: actor.userId });
+  });
+}
+
+async function requestLink(db: Kysely<Database>, email: string, purpose: 'password-reset' | 'sign-in'): Promise<void> {
+  const user = await db.selectFrom('users').select(['id', 'display_name', 'disabled_at']).where('email', '=', email).executeTakeFirst();
+  if (!user || user.disabled_at) return;
+  // At most three links of a kind per account in a quarter of an hour: the form cannot be used to
+  // flood someone's mailbox.
+  const recent = await db
+    .selectFrom('email_tokens')
+    .select((eb) => eb.fn.countAll<string>().as('n'))
+    .where('user_id', '=', user.id)
+    .where('purpose', '=', purpose)
+    .where('created_at', '>', sql<Date>`now() - interval '15 minutes'`)
+    .executeTakeFirstOrThrow();
+  if (Number(recent.n) >= 3) return;
+  await db.transaction().execute(async (trx) => {
+    const minutes = purpose === 'sign-in' ? AUTH_SETTINGS.signInLinkMinutes : AUTH_SETTINGS.passwordResetMinutes;
+    const token = await createEmailToken(trx, { userId: user.id, purpose, minutes });
+    const link = purpose === 'sign-in' ? `${appUrl()}/sign-in/link?token=${token}` : `${appUrl()}/reset-password?token=${token}`;
+    await enqueueMail(trx, {
+      kind: purpose,
+      to: email,
+      subject: purpose === 'sign-in' ? 'Your Worldsheet sign-in link' : 'Reset your Worldsheet password',
+      text: [
+        `Hello ${user.display_name},`,
+        '',
+        purpose === 'sign-in'
+          ? `Sign in to Worldsheet with this link. It works once, for ${minutes} minutes:`
+          : `Choose a new Worldsheet password with this link. It works once, for ${minutes} minutes:`,
+        '',
+        link,
+        '',
+        'If you did not ask for it, ignore this message.',
+      ].join('\n'),
+    });
+    await recordAudit(trx, null, { action: purpose === 'sign-in' ? 'auth.link-request' : 'auth.reset-request', objectType: 'user', objectId: user.id });
+  });
+}
+
+export const requestPasswordReset = (db: Kysely<Database>, email: string) => requestLink(db, email, 'password-reset');
+export const requestSignInLink = (db: Kysely<Database>, email: string) => requestLink(db, email, 'sign-in');
+
+/** Sets a new password from a reset or invitation link; the link works once. Ends every session. */
+export async function confirmPasswordReset(db: Kysely<Database>, input: z.infer<typeof resetConfirmSchema>): Promise<void> {
+  const hashed = await hashPassword(input.newPassword);
+  await db.transaction().execute(async (trx) => {
+    const userId =
+      (await consumeEmailToken(trx, { token: input.token, purpose: 'password-reset' })) ?? (await consumeEmailToken(trx, { token: input.token, purpose: 'invitation' }));
+    if (!userId) throw new AppError('bad_request', 'This link has expired or was already used. Ask for a new one.');
+    await trx.updateTable('users').set({ password_hash: hashed, password_changed_at: sql`now()`, failed_sign_ins: 0 }).where('id', '=', userId).execute();
+    await endUserSessions(trx as unknown as Kysely<Database>, userId, 'password reset');
+    await recordAudit(trx, null, { action: 'user.password-reset', objectType: 'user', objectId: userId });
+  });
+}

@@ -1,0 +1,12 @@
+/** Why a sign-in was refused. The message is safe to show on the sign-in page. */
+export type AuthErrorCode = 'invalid' | 'locked' | 'disabled' | 'rate_limited' | 'expired_link';
+
+export class AuthError extends Error {
+  constructor(
+    readonly code: AuthErrorCode,
+    message: string,
+  ) {
+    super(message);
+    this.name = 'AuthError';
+  }
+}

@@ -1,0 +1,85 @@
+// Accounts, as administrators manage them: invite, disable and enable (never delete: signatures
+// must stay readable), unlock after a lockout.
+import { sql, type Kysely } from 'kysely';
+import { z } from 'zod';
+import type { Database } from '@/db/schema';
+import type { Actor } from '@/lib/auth/actor';
+import { createEmailToken } from '@/lib/auth/email-tokens';
+import { endUserSessions } from '@/lib/auth/sessions';
+import { AUTH_SETTINGS } from '@/lib/auth/settings';
+import { recordAudit } from '@/lib/audit/record';
+import { AppError } from '@/lib/errors/app-error';
+import { enqueueMail } from '@/lib/mail/outbox';
+
+export const inviteSchema = z.object({
+  email: z.string().trim().toLowerCase().email('enter an e-mail address').max(254),
+  name: z.string().trim().min(1, 'enter the printed name used on signatures').max(200),
+  isAdmin: z.boolean().default(false),
+});
+
+export const userChangeSchema = z.object({
+  action: z.enum(['disable', 'enable', 'unlock']),
+  reason: z.string().trim().min(3, 'give a reason').max(1000),
+});
+
+export function appUrl(): string {
+  return (process.env.NEXTAUTH_URL ?? 'http://127.0.0.1:3000').replace(/\/$/, '');
+}
+
+export async function listUsers(db: Kysely<Database>) {
+  return db
+    .selectFrom('users')
+    .select(['id', 'email', 'display_name as name', 'is_admin as isAdmin', 'disabled_at as disabledAt', 'locked_at as lockedAt', 'created_at as createdAt', sql<boolean>`password_hash is not null`.as('hasPassword')])
+    .orderBy('display_name')
+    .execute();
+}
+
+export async function inviteUser(db: Kysely<Database>, actor: Actor, input: z.infer<typeof inviteSchema>): Promise<{ id: string }> {
+  return db.transaction().execute(async (trx) => {
+    const existing = await trx.selectFrom('users').select('id').where('email', '=', input.email).executeTakeFirst();
+    if (existing) throw new AppError('conflict', 'There is an account with this e-mail address already.');
+    const user = await trx.insertInto('users').values({ email: input.email, display_name: input.name, password_hash: null, is_admin: input.isAdmin }).returning('id').executeTakeFirstOrThrow();
+    const token = await createEmailToken(trx, { userId: user.id, purpose: 'invitation', minutes: AUTH_SETTINGS.invitationDays * 24 * 60 });
+    await enqueueMail(trx, {
+      kind: 'invitation',
+      to: input.email,
+      subject: 'You are invited to Worldsheet',
+      text: [
+        `Hello ${input.name},`,
+        '',
+        `${actor.name} has given you an account on Worldsheet. Choose your password here (the link works once, for ${AUTH_SETTINGS.invitationDays} days):`,
+        '',
+        `${appUrl()}/reset-password?token=${token}&invitation=1`,
+      ].join('\n'),
+    });
+    await recordAudit(trx, actor, { action: 'user.invite', objectType: 'user', objectId: user.id, newValue: { email: input.email, name: input.name, isAdmin: input.isAdmin } });
+    return user;
+  });
+}
+
+export async function changeUser(db: Kysely<Database>, actor: Actor, userId: string, input: z.infer<typeof userChangeSchema>): Promise<void> {
+  if (userId === actor.userId && input.action === 'disable') throw new AppError('conflict', 'You cannot disable your own account.');
+  await db.transaction().execute(async (trx) => {
+    const user = await trx.selectFrom('users').select(['id', 'disabled_at', 'locked_at']).where('id', '=', userId).forUpdate().executeTakeFirst();
+    if (!user) throw new AppError('not_found', 'No such user.');
+    if (input.action === 'disable') {
+      if (user.disabled_at) throw new AppError('conflict', 'The account is disabled already.');
+      await trx.updateTable('users').set({ disabled_at: sql`now()` }).where('id', '=', userId).execute();
+      await endUserSessions(trx as unknown as Kysely<Database>, userId, 'user disabled');
+      await trx.updateTable('api_tokens').set({ revoked_at: sql`now()` }).where('user_id', '=', userId).where('revoked_at', 'is', null).execute();
+    } else if (input.action === 'enable') {
+      if (!user.disabled_at) throw new AppError('conflict', 'The account is not disabled.');
+      await trx.updateTable('users').set({ disabled_at: null }).where('id', '=', userId).execute();
+    } else {
+      if (!user.locked_at) throw new AppError('conflict', 'The account is not locked.');
+      await trx.updateTable('users').set({ locked_at: null, failed_sign_ins: 0 }).where('id', '=', userId).execute();
+    }
+    await recordAudit(trx, actor, {
+      action: `user.${input.action}`,
+      objectType: 'user',
+      objectId: userId,
+      oldValue: { disabled: Boolean(user.disabled_at), locked: Boolean(user.locked_at) },
+      reason: input.reason,
+    });
+  });
+}

@@ -1,0 +1,33 @@
+import { describe, expect, it } from 'vitest';
+import { parseRoleMap, signInWithOidc } from '../../lib/auth/oidc';
+import { testDb } from '../support/database';
+import { makeProject } from '../support/people';
+
+describe('single sign-on role mapping', () => {
+  it('reads the group map and refuses what it cannot read', () => {
+    expect(parseRoleMap('authors=TPT2:originator; checkers=TPT2:checker')).toEqual([
+      { group: 'authors', projectCode: 'TPT2', role: 'originator' },
+      { group: 'checkers', projectCode: 'TPT2', role: 'checker' },
+    ]);
+    expect(() => parseRoleMap('authors=TPT2:boss')).toThrow(/cannot read/);
+  });
+
+  it('creates the user on first sign-in and gives exactly the mapped roles of their groups', async () => {
+    const projectId = await makeProject(testDb(), 'TPT2');
+    const mapping = parseRoleMap('authors=TPT2:originator;checkers=TPT2:checker');
+    const first = await signInWithOidc(testDb(), { profile: { sub: 'u1', email: 'Sam@Org.test', name: 'Sam Org', groups: ['authors', 'other'] }, account: null }, mapping);
+    expect(first?.email).toBe('sam@org.test');
+    const roles = async () => (await testDb().selectFrom('project_members').select('role').where('project_id', '=', projectId).execute()).map((r) => r.role).sort();
+    expect(await roles()).toEqual(['originator']);
+    await signInWithOidc(testDb(), { profile: { sub: 'u1', email: 'sam@org.test', name: 'Sam Org', groups: ['checkers'] }, account: null }, mapping);
+    expect(await roles()).toEqual(['checker']);
+    const actions = (await testDb().selectFrom('audit_events').select('action').orderBy('id').execute()).map((e) => e.action);
+    expect(actions).toEqual(['user.create', 'auth.sign-in', 'membership.grant', 'auth.sign-in', 'membership.revoke', 'membership.grant']);
+  });
+
+  it('refuses an unverified address and a disabled account', async () => {
+    expect(await signInWithOidc(testDb(), { profile: { sub: 'u2', email: 'x@org.test', email_verified: false }, account: null }, [])).toBeNull();
+    await testDb().insertInto('users').values({ email: 'off@org.test', display_name: 'Off', password_hash: null, disabled_at: new Date() }).execute();
+    expect(await signInWithOidc(testDb(), { profile: { sub: 'u3', email: 'off@org.test' }, account: null }, [])).toBeNull();
+  });
+});
