@@ -1,0 +1,164 @@
+// Every API route, called as a signed-out visitor, a user of another project, and each role of the
+// demo project, through the production server. A route file without an entry here fails the test.
+// (The app has no server actions: every write goes through these route handlers, the same ones API
+// tokens use, so this matrix covers every way to change something.)
+import { readdirSync, readFileSync, statSync } from 'node:fs';
+import path from 'node:path';
+import { afterAll, beforeAll, describe, expect, it } from 'vitest';
+import { seedDemo } from '../../db/seed';
+import { createApiToken } from '../../lib/auth/api-tokens';
+import type { Actor } from '../../lib/auth/actor';
+import { resetDatabase, testDb } from '../support/database';
+import { makeProject, makeUser } from '../support/people';
+import { startApp, type RunningApp } from './harness';
+
+type Who = 'anonymous' | 'outsider' | 'originator' | 'checker' | 'approver' | 'controller' | 'viewer' | 'admin';
+const WHO: Who[] = ['anonymous', 'outsider', 'originator', 'checker', 'approver', 'controller', 'viewer', 'admin'];
+
+interface World {
+  projectId: string;
+  spareUserId: string;
+  outsiderId: string;
+}
+
+interface Entry {
+  /** What the request does, built from the world. */
+  request: (w: World) => { path: string; body?: unknown };
+  /** Expected status for each caller, or one status for all. */
+  expect: Partial<Record<Who, number>> & { default?: number };
+}
+
+const signedIn = (status: number, extra: Partial<Record<Who, number>> = {}) => ({ anonymous: 401, default: status, ...extra });
+const memberOnly = (status: number) => ({ anonymous: 401, outsider: 404, admin: 404, default: status });
+const adminOnly = (status: number) => ({ anonymous: 401, admin: status, default: 403 });
+const reason = 'matrix test';
+
+// Keys are "METHOD /api/path" with the route file's own [segments].
+const MATRIX: Record<string, Entry> = {
+  'GET /api/health': { request: () => ({ path: '/api/health' }), expect: { default: 200 } },
+  'GET /api/auth/[...nextauth]': { request: () => ({ path: '/api/auth/providers' }), expect: { default: 200 } },
+  'POST /api/auth/[...nextauth]': { request: () => ({ path: '/api/auth/callback/password', body: {} }), expect: { default: 302 } },
+  'POST /api/auth/password-reset': { request: () => ({ path: '/api/auth/password-reset', body: { email: 'nobody@example.test' } }), expect: { default: 202 } },
+  'POST /api/auth/password-reset/confirm': {
+    request: () => ({ path: '/api/auth/password-reset/confirm', body: { token: 'not-a-real-token-at-all', newPassword: 'a long enough password' } }),
+    expect: { default: 400 },
+  },
+  'POST /api/auth/sign-in-link': { request: () => ({ path: '/api/auth/sign-in-link', body: { email: 'nobody@example.test' } }), expect: { default: 202 } },
+  'POST /api/evaluate': { request: () => ({ path: '/api/evaluate', body: { cells: [{ id: 'a', kind: 'calc', source: 'x_1 = 2 m' }] } }), expect: signedIn(200) },
+  'GET /api/account': { request: () => ({ path: '/api/account' }), expect: signedIn(200) },
+  'POST /api/account/password': {
+    request: () => ({ path: '/api/account/password', body: { currentPassword: 'not the password', newPassword: 'another long password' } }),
+    expect: signedIn(403),
+  },
+  'GET /api/account/tokens': { request: () => ({ path: '/api/account/tokens' }), expect: signedIn(200) },
+  'POST /api/account/tokens': { request: () => ({ path: '/api/account/tokens', body: { name: 'from a token' } }), expect: signedIn(403) },
+  'DELETE /api/account/tokens/[tokenId]': { request: () => ({ path: '/api/account/tokens/00000000-0000-4000-8000-000000000000' }), expect: signedIn(404) },
+  'GET /api/projects': { request: () => ({ path: '/api/projects' }), expect: signedIn(200) },
+  'POST /api/projects': {
+    request: () => ({ path: '/api/projects', body: { code: 'MTX', name: 'Matrix project', legalOwner: 'Fixture Ltd', revisionScheme: 'letters' } }),
+    expect: adminOnly(201),
+  },
+  'GET /api/projects/[projectId]': { request: (w) => ({ path: `/api/projects/${w.projectId}` }), expect: memberOnly(200) },
+  'GET /api/projects/[projectId]/members': { request: (w) => ({ path: `/api/projects/${w.projectId}/members` }), expect: { ...memberOnly(200), admin: 200 } },
+  'POST /api/projects/[projectId]/members': {
+    request: (w) => ({ path: `/api/projects/${w.projectId}/members`, body: { userId: w.spareUserId, role: 'viewer', reason } }),
+    expect: adminOnly(201),
+  },
+  'DELETE /api/projects/[projectId]/members': {
+    request: (w) => ({ path: `/api/projects/${w.projectId}/members`, body: { userId: w.spareUserId, role: 'viewer', reason } }),
+    expect: adminOnly(200),
+  },
+  'GET /api/projects/[projectId]/audit': { request: (w) => ({ path: `/api/projects/${w.projectId}/audit` }), expect: { ...memberOnly(200), viewer: 403 } },
+  'GET /api/admin/users': { request: () => ({ path: '/api/admin/users' }), expect: adminOnly(200) },
+  'POST /api/admin/users': { request: () => ({ path: '/api/admin/users', body: { email: 'invited@example.test', name: 'Invited Person' } }), expect: adminOnly(201) },
+  'PATCH /api/admin/users/[userId]': { request: (w) => ({ path: `/api/admin/users/${w.spareUserId}`, body: { action: 'disable', reason } }), expect: adminOnly(200) },
+};
+
+function routeFiles(dir: string, out: string[] = []): string[] {
+  for (const name of readdirSync(dir)) {
+    const p = path.join(dir, name);
+    if (statSync(p).isDirectory()) routeFiles(p, out);
+    else if (name === 'route.ts') out.push(p);
+  }
+  return out;
+}
+
+function discoveredRoutes(): string[] {
+  const appDir = path.join(process.cwd(), 'app');
+  const keys: string[] = [];
+  for (const file of routeFiles(path.join(appDir, 'api'))) {
+    const route = `/${path.relative(appDir, path.dirname(file)).split(path.sep).filter((s) => !/^\(.*\)$/.test(s)).join('/')}`;
+    const source = readFileSync(file, 'utf8');
+    const methods = new Set<string>();
+    for (const m of source.matchAll(/export\s+(?:async\s+)?function\s+(GET|POST|PUT|PATCH|DELETE)\b/g)) methods.add(m[1]);
+    for (const m of source.matchAll(/\bas\s+(GET|POST|PUT|PATCH|DELETE)\b/g)) methods.add(m[1]);
+    for (const method of methods) keys.push(`${method} ${route}`);
+  }
+  return keys.sort();
+}
+
+let app: RunningApp;
+let world: World;
+const tokens = new Map<Who, string>();
+
+beforeAll(async () => {
+  await resetDatabase();
+  await seedDemo(testDb());
+  const projectId = (await testDb().selectFrom('projects').select('id').where('code', '=', 'TPT2').executeTakeFirstOrThrow()).id;
+  const outsider = await makeUser(testDb(), 'outsider@example.test');
+  await makeProject(testDb(), 'OTH', [[outsider, 'originator']]);
+  const spare = await makeUser(testDb(), 'spare@example.test');
+  world = { projectId, spareUserId: spare.userId, outsiderId: outsider.userId };
+  const demo = await testDb().selectFrom('users').select(['id', 'email', 'display_name', 'is_admin']).execute();
+  for (const who of WHO) {
+    if (who === 'anonymous') continue;
+    const email = who === 'outsider' ? 'outsider@example.test' : `${who}@demo.test`;
+    const u = demo.find((d) => d.email === email)!;
+    const actor: Actor = { userId: u.id, email: u.email, name: u.display_name, isAdmin: u.is_admin, via: 'session', sessionId: null, tokenId: null };
+    tokens.set(who, (await createApiToken(testDb(), actor, 'matrix')).token);
+  }
+  app = await startApp();
+});
+
+afterAll(async () => {
+  await app?.stop();
+});
+
+describe('authorization matrix', () => {
+  it('has an entry for every route handler, and no entry for a route that does not exist', () => {
+    expect(discoveredRoutes()).toEqual(Object.keys(MATRIX).sort());
+  });
+
+  for (const [key, entry] of Object.entries(MATRIX)) {
+    it(`${key}`, async () => {
+      const method = key.split(' ')[0];
+      const { path: url, body } = entry.request(world);
+      const seen: Record<string, number> = {};
+      const wanted: Record<string, number> = {};
+      for (const who of WHO) {
+        const headers: Record<string, string> = {};
+        if (who !== 'anonymous') headers.authorization = `Bearer ${tokens.get(who)}`;
+        if (body !== undefined) headers['content-type'] = 'application/json';
+        const response = await fetch(`${app.baseUrl}${url}`, { method, headers, body: body === undefined ? undefined : JSON.stringify(body), redirect: 'manual' });
+        seen[who] = response.status;
+        wanted[who] = entry.expect[who] ?? entry.expect.default!;
+      }
+      expect(seen).toEqual(wanted);
+    });
+  }
+
+  it('answers 401 for a revoked or made-up token', async () => {
+    const response = await fetch(`${app.baseUrl}/api/account`, { headers: { authorization: 'Bearer wst_made-up-token' } });
+    expect(response.status).toBe(401);
+  });
+
+  it('records writes made with a token under the owner and the token', async () => {
+    const events = await testDb()
+      .selectFrom('audit_events')
+      .select(['action', 'token_id', 'actor_id'])
+      .where('action', 'in', ['project.create', 'membership.grant', 'membership.revoke', 'user.invite', 'user.disable'])
+      .where('token_id', 'is not', null)
+      .execute();
+    expect(events.map((e) => e.action).sort()).toEqual(['membership.grant', 'membership.revoke', 'project.create', 'user.disable', 'user.invite']);
+  });
+});
