@@ -1,5 +1,6 @@
 // The browser harness: builds the production app (into .next-test/, only when sources changed),
-// serves it against the test database, and drives Debian's Chromium through playwright-core.
+// serves it against the test database, with the job worker process delivering its mail to the test
+// mail capture server, and drives Debian's Chromium through playwright-core.
 // Every page it visits can be saved as a screenshot in tests/.artifacts/screenshots/ (git-ignored).
 // A console error or a failed request fails the test that caused it.
 import { spawn, type ChildProcess } from 'node:child_process';
@@ -26,8 +27,11 @@ export async function startApp(): Promise<RunningApp> {
     DATABASE_URL: inject('databaseUrl'),
     WORLDSHEET_DEMO: '0',
     NEXT_TELEMETRY_DISABLED: '1',
+    WORLDSHEET_SMTP_URL: inject('smtpUrl'),
+    WORLDSHEET_MAIL_CAPTURE_URL: inject('mailCaptureUrl'),
   };
   buildIfStale(root, '.next-test', env);
+  const worker = await startWorker(env);
   const child: ChildProcess = spawn(
     process.execPath,
     [path.join(root, 'node_modules', 'next', 'dist', 'bin', 'next'), 'start', '-H', '127.0.0.1', '-p', String(port)],
@@ -39,7 +43,10 @@ export async function startApp(): Promise<RunningApp> {
   const baseUrl = `http://127.0.0.1:${port}`;
   const deadline = Date.now() + 60_000;
   for (;;) {
-    if (child.exitCode !== null) throw new Error(`the app server exited (${child.exitCode}):\n${output}`);
+    if (child.exitCode !== null) {
+      await worker.stop();
+      throw new Error(`the app server exited (${child.exitCode}):\n${output}`);
+    }
     try {
       const r = await fetch(`${baseUrl}/api/health`);
       if (r.ok) break;
@@ -48,6 +55,7 @@ export async function startApp(): Promise<RunningApp> {
     }
     if (Date.now() > deadline) {
       child.kill('SIGKILL');
+      await worker.stop();
       throw new Error(`the app server did not answer within 60 s:\n${output}`);
     }
     await new Promise((r) => setTimeout(r, 200));
@@ -55,12 +63,48 @@ export async function startApp(): Promise<RunningApp> {
   return {
     baseUrl,
     async stop() {
-      if (child.exitCode !== null) return;
-      const exited = new Promise((r) => child.once('exit', r));
-      child.kill('SIGTERM');
-      await exited;
+      await Promise.all([stopChild(child), worker.stop()]);
     },
   };
+}
+
+async function stopChild(child: ChildProcess): Promise<void> {
+  if (child.exitCode !== null || child.signalCode !== null) return;
+  const exited = new Promise((r) => child.once('exit', r));
+  child.kill('SIGTERM');
+  await exited;
+}
+
+/** The job worker process (lib/jobs/worker-main.ts), as `npm start` runs it, polling twice a second. */
+async function startWorker(env: NodeJS.ProcessEnv): Promise<{ stop(): Promise<void> }> {
+  const child = spawn(process.execPath, ['--import', 'tsx', path.join('lib', 'jobs', 'worker-main.ts')], {
+    cwd: root,
+    env: { ...env, NODE_ENV: 'production', WORLDSHEET_JOB_POLL_SECONDS: '0.5' },
+    stdio: ['ignore', 'pipe', 'pipe'],
+  });
+  let output = '';
+  const ready = new Promise<void>((resolve, reject) => {
+    const timer = setTimeout(() => reject(new Error(`the job worker did not start within 30 s:\n${output}`)), 30_000);
+    child.stdout!.on('data', (d) => {
+      output += d;
+      if (output.includes('working the queues')) {
+        clearTimeout(timer);
+        resolve();
+      }
+    });
+    child.stderr!.on('data', (d) => (output += d));
+    child.once('exit', (code) => {
+      clearTimeout(timer);
+      reject(new Error(`the job worker exited (${code}):\n${output}`));
+    });
+  });
+  try {
+    await ready;
+  } catch (error) {
+    child.kill('SIGKILL');
+    throw error;
+  }
+  return { stop: () => stopChild(child) };
 }
 
 export interface BrowserSession {

@@ -20,9 +20,9 @@ export function adminPool(): pg.Pool {
 }
 
 /**
- * Empties every application table. Versions and audit events refuse TRUNCATE through triggers; the
- * superuser sets session_replication_role = replica, which a normal role cannot, so only the tests
- * can do this.
+ * Empties every application table, and the job queue (schema pgboss), so that no job queued by one
+ * test runs in another. Versions and audit events refuse TRUNCATE through triggers; the superuser
+ * sets session_replication_role = replica, which a normal role cannot, so only the tests can do this.
  */
 export async function resetDatabase(): Promise<void> {
   const client = await adminPool().connect();
@@ -35,6 +35,9 @@ export async function resetDatabase(): Promise<void> {
     await client.query('set local session_replication_role = replica');
     await client.query(`truncate ${rows.map((r) => `"${r.tablename}"`).join(', ')} cascade`);
     await client.query("select setval('audit_events_id_seq', 1, false)");
+    if ((await client.query("select to_regclass('pgboss.job') is not null as present")).rows[0].present) {
+      await client.query('delete from pgboss.job');
+    }
     await client.query('commit');
   } catch (error) {
     await client.query('rollback').catch(() => undefined);
