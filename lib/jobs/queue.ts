@@ -15,10 +15,10 @@ export const JOB_SCHEMA = 'pgboss';
 
 /** Every queue and its settings. Add a queue here and a handler in lib/jobs/worker.ts. */
 export const QUEUES: Record<string, Omit<PgBoss.Queue, 'name'>> = {
-  // Retries with exponential backoff: pg-boss waits retryDelay·2^(n−1)·(1…2) s before retry n
-  // (5–10 s, 10–20 s, 20–40 s, …, at most 2.3–4.6 days apart), so mail survives the mail service
-  // being down for days; after 20 failed tries the job is left in state `failed`. The retention
-  // (how long a job may wait at all) covers the whole series.
+  // Retries with exponential backoff: pg-boss waits retryDelay·2^min(n−1, 15)·(1…2) s before retry
+  // n (5–10 s, 10–20 s, 20–40 s, …, at most 1.9–3.8 days apart), so mail survives the mail service
+  // being down for days; after 20 failed retries (11–23 days in all) the job is left in state
+  // `failed`. The retention (how long a job may wait at all) covers the whole series.
   mail: {
     policy: 'standard',
     retryLimit: 20,
