@@ -57,6 +57,18 @@ export function oidcProviders(): OAuthConfig<Record<string, unknown>>[] {
       clientSecret: process.env.WORLDSHEET_OIDC_CLIENT_SECRET,
       authorization: { params: { scope: 'openid email profile' } },
       idToken: true,
+      // With the code flow a conforming provider may put only `sub` in the ID token and give the
+      // e-mail, name and groups at its userinfo endpoint (OpenID Connect Core 1.0, 5.4). Take the
+      // ID token's claims, completed by userinfo (openid-client checks its `sub` is the same).
+      userinfo: {
+        async request({ tokens, client }) {
+          // next-auth types the token set loosely; at run time it is openid-client's TokenSet.
+          const set = tokens as Extract<Parameters<typeof client.userinfo>[0], object>;
+          const claims = set.claims();
+          if (!client.issuer.metadata.userinfo_endpoint || !set.access_token) return claims;
+          return { ...(await client.userinfo(set)), ...claims };
+        },
+      },
       checks: ['pkce', 'state', 'nonce'],
       profile(profile) {
         return { id: String(profile.sub), email: profile.email as string, name: (profile.name as string) ?? (profile.email as string) };
