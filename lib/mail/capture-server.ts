@@ -59,8 +59,11 @@ export function findLinks(text: string, html: string | null): string[] {
   return [...new Set(found)];
 }
 
+/** `Name <address>` for each address of a header, as written but without quoting. */
 function addressText(value: ParsedMail['from']): string {
-  return value?.text ?? '';
+  return (value?.value ?? [])
+    .map((a) => (a.name ? `${a.name} <${a.address ?? ''}>` : (a.address ?? '')))
+    .join(', ');
 }
 
 function sendJson(res: ServerResponse, status: number, body: unknown): void {
@@ -124,6 +127,8 @@ export async function startCaptureServer(options: CaptureServerOptions): Promise
     hideSTARTTLS: true,
     secure: false,
     logger: false,
+    // Every client is local; a reverse DNS lookup would only add a delay, or hang without DNS.
+    disableReverseLookup: true,
     size: MAX_MESSAGE_BYTES,
     // A stop must not hang on a client that keeps its connection open.
     closeTimeout: 1000,
