@@ -2,10 +2,13 @@ import type { Metadata } from 'next';
 import Link from 'next/link';
 import { ScratchPad } from '@/components/calc/scratch-pad';
 import { CautionNotice } from '@/components/shell/caution-notice';
+import { pageActor } from '@/lib/auth/page-guard';
 
 export const metadata: Metadata = { title: 'Scratch pad' };
+export const dynamic = 'force-dynamic';
 
-export default function ScratchPage() {
+export default async function ScratchPage() {
+  await pageActor('/scratch');
   return (
     <div className="space-y-6">
       <header>

@@ -82,7 +82,7 @@ export const authOptions: NextAuthOptions = {
     async signIn({ account, profile, user }) {
       if (account?.provider !== 'oidc') return true;
       const result = await signInWithOidc(getDb(), { profile: profile as Record<string, unknown> | undefined, account });
-      if (!result) return '/sign-in?error=' + encodeURIComponent('Your organisation account is not allowed to sign in here.');
+      if (!result) return `/sign-in?error=${(profile as { email_verified?: unknown } | undefined)?.email_verified === false ? 'OidcEmailUnverified' : 'OidcNotAllowed'}`;
       Object.assign(user, result);
       return true;
     },

@@ -1,14 +1,26 @@
 // The engine through the built app: the API as the server bundles it (worker threads included),
 // the scratch pad typeset by KaTeX, and the function reference.
 import { afterAll, beforeAll, expect, it } from 'vitest';
+import { createApiToken } from '../../lib/auth/api-tokens';
+import { resetDatabase, testDb } from '../support/database';
+import { makeUser, PASSWORD } from '../support/people';
 import { closeBrowser, openBrowser, startApp, type BrowserSession, type RunningApp } from './harness';
 
 let app: RunningApp;
 let session: BrowserSession;
+let token: string;
 
 beforeAll(async () => {
+  await resetDatabase();
+  const user = await makeUser(testDb(), 'engineer@example.test');
+  token = (await createApiToken(testDb(), user, 'calc e2e')).token;
   app = await startApp();
   session = await openBrowser();
+  await session.page.goto(`${app.baseUrl}/sign-in?callbackUrl=%2Fscratch`);
+  await session.page.getByLabel('E-mail').fill('engineer@example.test');
+  await session.page.getByLabel('Password').fill(PASSWORD);
+  await session.page.getByRole('button', { name: 'Sign in', exact: true }).click();
+  await session.page.waitForURL(`${app.baseUrl}/scratch`);
 });
 
 afterAll(async () => {
@@ -20,7 +32,7 @@ afterAll(async () => {
 it('evaluates through POST /api/evaluate in the production server', async () => {
   const response = await fetch(`${app.baseUrl}/api/evaluate`, {
     method: 'POST',
-    headers: { 'content-type': 'application/json' },
+    headers: { 'content-type': 'application/json', authorization: `Bearer ${token}` },
     body: JSON.stringify({ cells: [{ id: 'a', kind: 'calc', source: 'T_kin = 250 MeV\nBrho = magneticRigidity(momentumFromKinetic(T_kin, m_p), q_e) to T*m' }] }),
   });
   expect(response.status).toBe(200);
@@ -28,8 +40,21 @@ it('evaluates through POST /api/evaluate in the production server', async () => 
   // PDG Review of Particle Physics, kinematics: p [GeV/c] = 0.299 79 B [T] ρ [m] for unit charge; for
   // 250 MeV protons pc = √(T(T + 2 m_p c²)) = 729.13 MeV (CODATA 2022 m_p c²), so Bρ = 2.4321 T m.
   expect(body.cells[0].statements[1].value.number).toBeCloseTo(2.4321, 3);
-  const bad = await fetch(`${app.baseUrl}/api/evaluate`, { method: 'POST', body: '{' });
+  const bad = await fetch(`${app.baseUrl}/api/evaluate`, { method: 'POST', body: '{', headers: { authorization: `Bearer ${token}` } });
   expect(bad.status).toBe(400);
+  const oversized = await fetch(`${app.baseUrl}/api/evaluate`, {
+    method: 'POST',
+    headers: { 'content-type': 'application/json', authorization: `Bearer ${token}` },
+    body: JSON.stringify({ cells: [{ id: 'a', kind: 'calc', source: 'x'.repeat(3 * 1024 * 1024) }] }),
+  });
+  expect(oversized.status).toBe(413);
+  const wrongShape = await fetch(`${app.baseUrl}/api/evaluate`, {
+    method: 'POST',
+    headers: { 'content-type': 'application/json', authorization: `Bearer ${token}` },
+    body: JSON.stringify({ cells: [{ id: 'A B', kind: 'calc', source: '1' }] }),
+  });
+  expect(wrongShape.status).toBe(400);
+  expect((await wrongShape.json()).error.message).toBe('cells.0.id: cell ids are short lowercase tokens');
 });
 
 it('typesets the scratch pad results as the user types', async () => {

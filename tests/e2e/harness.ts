@@ -19,7 +19,10 @@ export interface RunningApp {
   stop(): Promise<void>;
 }
 
-export async function startApp(): Promise<RunningApp> {
+/** A fixed secret for the test server's signed session cookies. */
+export const TEST_AUTH_SECRET = 'worldsheet-test-secret-not-for-production-use';
+
+export async function startApp(extraEnv: Record<string, string> = {}): Promise<RunningApp> {
   const port = Number(process.env.WORLDSHEET_TEST_APP_PORT ?? 3199);
   const env: NodeJS.ProcessEnv = {
     ...process.env,
@@ -29,13 +32,17 @@ export async function startApp(): Promise<RunningApp> {
     NEXT_TELEMETRY_DISABLED: '1',
     WORLDSHEET_SMTP_URL: inject('smtpUrl'),
     WORLDSHEET_MAIL_CAPTURE_URL: inject('mailCaptureUrl'),
+    NEXTAUTH_URL: `http://127.0.0.1:${port}`,
+    NEXTAUTH_SECRET: TEST_AUTH_SECRET,
+    ...extraEnv,
   };
-  buildIfStale(root, '.next-test', env);
+  const distDir = process.env.WORLDSHEET_TEST_DIST_DIR ?? '.next-test';
+  buildIfStale(root, distDir, env);
   const worker = await startWorker(env);
   const child: ChildProcess = spawn(
     process.execPath,
     [path.join(root, 'node_modules', 'next', 'dist', 'bin', 'next'), 'start', '-H', '127.0.0.1', '-p', String(port)],
-    { cwd: root, env: { ...env, WORLDSHEET_DIST_DIR: '.next-test' }, stdio: ['ignore', 'pipe', 'pipe'] },
+    { cwd: root, env: { ...env, WORLDSHEET_DIST_DIR: distDir }, stdio: ['ignore', 'pipe', 'pipe'] },
   );
   let output = '';
   child.stdout!.on('data', (d) => (output += d));
@@ -130,7 +137,12 @@ export async function openBrowser(): Promise<BrowserSession> {
     if (m.type() === 'error') problems.push(`console error: ${m.text()}`);
   });
   page.on('pageerror', (e) => problems.push(`page error: ${e.message}`));
-  page.on('requestfailed', (r) => problems.push(`request failed: ${r.url()} ${r.failure()?.errorText}`));
+  page.on('requestfailed', (r) => {
+    // The browser cancels what it no longer needs when a page moves on (Next.js's prefetches of
+    // linked pages, an icon still loading): a cancellation, not a failure of the server.
+    if (r.failure()?.errorText === 'net::ERR_ABORTED') return;
+    problems.push(`request failed: ${r.url()} ${r.failure()?.errorText}`);
+  });
   page.on('response', (r) => {
     if (r.status() >= 400) problems.push(`HTTP ${r.status()}: ${r.url()}`);
   });

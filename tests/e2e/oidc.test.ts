@@ -12,7 +12,7 @@ import { closeBrowser, openBrowser, startApp, type BrowserSession, type RunningA
 
 const APP_PORT = Number(process.env.WORLDSHEET_TEST_APP_PORT ?? 3199);
 const BUTTON = 'Sign in with Fictional Org account';
-const REFUSED = 'Your organisation account is not allowed to sign in here.';
+const REFUSED = 'Your organisation account has no verified e-mail address, so it cannot sign in here.';
 
 // Fictional people of a fictional organisation.
 const AUTHOR = { login: 'ada.quill', name: 'Ada Quill', email: 'ada.quill@fictional-org.test', emailVerified: true, groups: ['calc-authors', 'canteen-committee'] };
@@ -207,7 +207,8 @@ describe('single sign-on through an OpenID Connect provider', () => {
     expect(await throughProvider(other, UNVERIFIED.login, 'oidc-unverified')).toEqual(['login', 'consent']);
     const url = new URL(page.url());
     expect(url.pathname).toBe('/sign-in');
-    expect(url.searchParams.get('error')).toBe(REFUSED);
+    // The address carries a code only; the page shows the fixed message for it.
+    expect(url.searchParams.get('error')).toBe('OidcEmailUnverified');
     await expect(page.getByRole('alert').filter({ hasText: REFUSED }).isVisible()).resolves.toBe(true);
     await expect(page.getByRole('link', { name: 'Sign in', exact: true }).isVisible()).resolves.toBe(true);
     await other.screenshot('oidc-unverified-refused');

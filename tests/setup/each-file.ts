@@ -6,7 +6,10 @@ import { closeTestDatabase, resetDatabase } from '../support/database';
 
 process.env.DATABASE_URL = inject('databaseUrl');
 
-beforeEach(async () => {
+// Browser journeys (tests/e2e/) build their world in beforeAll (starting with resetDatabase()) and
+// walk through it test by test, so they are not emptied between tests.
+beforeEach(async (context) => {
+  if (context.task.file.filepath.includes('/tests/e2e/')) return;
   await Promise.all([resetDatabase(), clearCapturedMessages(inject('mailCaptureUrl'))]);
 });
 

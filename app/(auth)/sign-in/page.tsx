@@ -6,6 +6,15 @@ import { oidcConfigured } from '@/lib/auth/oidc';
 export const metadata: Metadata = { title: 'Sign in' };
 export const dynamic = 'force-dynamic';
 
+const SIGN_IN_ERRORS: Record<string, string> = {
+  OidcNotAllowed: 'Your organisation account is not allowed to sign in here. Ask an administrator.',
+  OidcEmailUnverified: 'Your organisation account has no verified e-mail address, so it cannot sign in here.',
+  OAuthSignin: 'The organisation sign-in could not start. Try again.',
+  OAuthCallback: 'The organisation sign-in did not complete. Try again.',
+  AccessDenied: 'Sign-in was refused.',
+  SessionRequired: 'Sign in to see that page.',
+};
+
 const DEMO = ['originator', 'checker', 'approver', 'controller', 'viewer', 'admin'];
 
 function safeCallback(value: string | undefined): string {
@@ -15,7 +24,8 @@ function safeCallback(value: string | undefined): string {
 export default async function SignInPage({ searchParams }: { searchParams: Promise<Record<string, string | undefined>> }) {
   const query = await searchParams;
   const demo = process.env.WORLDSHEET_DEMO === '1';
-  const error = query.error ? (query.error === 'CredentialsSignin' ? 'Sign-in failed.' : query.error.slice(0, 300)) : null;
+  // Only fixed messages, chosen by code: text from the address bar is never shown as a message.
+  const error = query.error ? (SIGN_IN_ERRORS[query.error] ?? 'Sign-in failed. Try again, or ask an administrator.') : null;
   return (
     <div className="mx-auto grid max-w-sheet gap-10 py-6 md:grid-cols-2">
       <section aria-labelledby="sign-in-title" className="max-w-md">
