@@ -166,12 +166,15 @@ export async function startCaptureServer(options: CaptureServerOptions): Promise
   smtp.on('error', (error) => log(`SMTP: ${error.message}`));
 
   const http: Server = createServer((req: IncomingMessage, res: ServerResponse) => {
+    // One request per connection: a client reusing a kept-alive socket just as the server times it
+    // out gets "other side closed"; the API is local and light, so no socket is kept.
+    res.setHeader('connection', 'close');
     const path = new URL(req.url ?? '/', `http://${HOST}`).pathname.replace(/\/+$/, '') || '/';
     if (path === '/messages') {
       if (req.method === 'GET' || req.method === 'HEAD') return sendJson(res, 200, messages);
       if (req.method === 'DELETE') {
         messages.length = 0;
-        res.writeHead(204).end();
+        res.writeHead(204, { 'cache-control': 'no-store' }).end();
         return;
       }
       res.setHeader('allow', 'GET, HEAD, DELETE');

@@ -86,6 +86,8 @@ it('captures messages newest first, within its bound, and serves them over HTTP'
   expect(await getCapturedMessage(server.url, list[1].id)).toEqual(list[1]);
   expect(await getCapturedMessage(server.url, 'no-such-id')).toBeNull();
 
+  // No kept-alive sockets: a reused socket closed by the server at the same moment fails the request.
+  expect((await fetch(`${server.url}/messages`)).headers.get('connection')).toBe('close');
   expect((await fetch(`${server.url}/messages`, { method: 'POST' })).status).toBe(405);
   expect((await fetch(`${server.url}/elsewhere`)).status).toBe(404);
   expect((await fetch(`${server.url}/messages`, { method: 'DELETE' })).status).toBe(204);
