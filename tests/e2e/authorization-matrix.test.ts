@@ -19,6 +19,8 @@ interface World {
   projectId: string;
   spareUserId: string;
   outsiderId: string;
+  sheetId: string;
+  sheetContent: unknown;
 }
 
 interface Entry {
@@ -31,6 +33,7 @@ interface Entry {
 const signedIn = (status: number, extra: Partial<Record<Who, number>> = {}) => ({ anonymous: 401, default: status, ...extra });
 const memberOnly = (status: number) => ({ anonymous: 401, outsider: 404, admin: 404, default: status });
 const adminOnly = (status: number) => ({ anonymous: 401, admin: status, default: 403 });
+const originatorOnly = (status: number) => ({ anonymous: 401, outsider: 404, admin: 404, originator: status, default: 403 });
 const reason = 'matrix test';
 
 // Keys are "METHOD /api/path" with the route file's own [segments].
@@ -69,6 +72,18 @@ const MATRIX: Record<string, Entry> = {
     expect: adminOnly(200),
   },
   'GET /api/projects/[projectId]/audit': { request: (w) => ({ path: `/api/projects/${w.projectId}/audit` }), expect: { ...memberOnly(200), viewer: 403 } },
+  'GET /api/projects/[projectId]/sheets': { request: (w) => ({ path: `/api/projects/${w.projectId}/sheets` }), expect: memberOnly(200) },
+  'POST /api/projects/[projectId]/sheets': {
+    request: (w) => ({ path: `/api/projects/${w.projectId}/sheets`, body: { title: 'Matrix sheet', safetyRelated: false, objective: 'check the matrix' } }),
+    expect: originatorOnly(201),
+  },
+  'GET /api/sheets/[sheetId]': { request: (w) => ({ path: `/api/sheets/${w.sheetId}` }), expect: memberOnly(200) },
+  'GET /api/sheets/[sheetId]/versions': { request: (w) => ({ path: `/api/sheets/${w.sheetId}/versions` }), expect: memberOnly(200) },
+  'POST /api/sheets/[sheetId]/versions': {
+    request: (w) => ({ path: `/api/sheets/${w.sheetId}/versions`, body: { parentNumber: 1, message: 'matrix save', content: w.sheetContent } }),
+    expect: originatorOnly(201),
+  },
+  'GET /api/sheets/[sheetId]/versions/[number]': { request: (w) => ({ path: `/api/sheets/${w.sheetId}/versions/1` }), expect: memberOnly(200) },
   'GET /api/admin/users': { request: () => ({ path: '/api/admin/users' }), expect: adminOnly(200) },
   'POST /api/admin/users': { request: () => ({ path: '/api/admin/users', body: { email: 'invited@example.test', name: 'Invited Person' } }), expect: adminOnly(201) },
   'PATCH /api/admin/users/[userId]': { request: (w) => ({ path: `/api/admin/users/${w.spareUserId}`, body: { action: 'disable', reason } }), expect: adminOnly(200) },
@@ -108,7 +123,9 @@ beforeAll(async () => {
   const outsider = await makeUser(testDb(), 'outsider@example.test');
   await makeProject(testDb(), 'OTH', [[outsider, 'originator']]);
   const spare = await makeUser(testDb(), 'spare@example.test');
-  world = { projectId, spareUserId: spare.userId, outsiderId: outsider.userId };
+  const sheet = await testDb().selectFrom('sheets').select('id').where('project_id', '=', projectId).where('number', '=', 1).executeTakeFirstOrThrow();
+  const version = await testDb().selectFrom('versions').select('content').where('sheet_id', '=', sheet.id).where('number', '=', 1).executeTakeFirstOrThrow();
+  world = { projectId, spareUserId: spare.userId, outsiderId: outsider.userId, sheetId: sheet.id, sheetContent: version.content };
   const demo = await testDb().selectFrom('users').select(['id', 'email', 'display_name', 'is_admin']).execute();
   for (const who of WHO) {
     if (who === 'anonymous') continue;
@@ -156,9 +173,9 @@ describe('authorization matrix', () => {
     const events = await testDb()
       .selectFrom('audit_events')
       .select(['action', 'token_id', 'actor_id'])
-      .where('action', 'in', ['project.create', 'membership.grant', 'membership.revoke', 'user.invite', 'user.disable'])
+      .where('action', 'in', ['project.create', 'membership.grant', 'membership.revoke', 'user.invite', 'user.disable', 'sheet.create', 'version.save'])
       .where('token_id', 'is not', null)
       .execute();
-    expect(events.map((e) => e.action).sort()).toEqual(['membership.grant', 'membership.revoke', 'project.create', 'user.disable', 'user.invite']);
+    expect(events.map((e) => e.action).sort()).toEqual(['membership.grant', 'membership.revoke', 'project.create', 'sheet.create', 'user.disable', 'user.invite', 'version.save']);
   });
 });

@@ -1,0 +1,166 @@
+// Sheets and their versions. A sheet is numbered by the server within its project; every save is
+// a new immutable version that names the version it was based on, and a save based on anything but
+// the latest version is refused (409) so that no one's work is silently overwritten.
+import { sql, type Kysely } from 'kysely';
+import { z } from 'zod';
+import type { Database } from '@/db/schema';
+import type { Actor } from '@/lib/auth/actor';
+import { recordAudit } from '@/lib/audit/record';
+import { getEvaluator } from '@/lib/calc/sandbox/evaluator';
+import type { SheetResult } from '@/lib/calc/types';
+import { AppError } from '@/lib/errors/app-error';
+import { emptyRecord, versionContentSchema, type VersionContent } from './content';
+import { contentHash } from './content-hash';
+import { formatSheetNumber } from './sheet-number';
+
+export const createSheetSchema = z.object({
+  title: z.string().trim().min(1, 'give the sheet a title').max(300),
+  safetyRelated: z.boolean(),
+  objective: z.string().trim().max(100_000).default(''),
+});
+
+export const saveVersionSchema = z.object({
+  parentNumber: z.number().int().positive(),
+  message: z.string().trim().min(1, 'say what changed').max(2000),
+  content: versionContentSchema,
+});
+
+export async function listSheets(db: Kysely<Database>, projectId: string, projectCode: string) {
+  const rows = await db
+    .selectFrom('sheets as s')
+    .innerJoin('users as o', 'o.id', 's.created_by')
+    .leftJoin(
+      (eb) => eb.selectFrom('versions').select(['sheet_id', sql<number>`max(number)`.as('latest'), sql<Date>`max(created_at)`.as('updated')]).groupBy('sheet_id').as('v'),
+      (j) => j.onRef('v.sheet_id', '=', 's.id'),
+    )
+    .select(['s.id', 's.number', 's.title', 's.safety_related', 'o.display_name as originator', 'v.latest', 'v.updated', 's.created_at'])
+    .where('s.project_id', '=', projectId)
+    .orderBy('s.number')
+    .execute();
+  return rows.map((r) => ({
+    id: r.id,
+    number: r.number,
+    code: formatSheetNumber(projectCode, r.number),
+    title: r.title,
+    safetyRelated: r.safety_related,
+    status: 'draft' as const,
+    currentRevision: null as string | null,
+    latestVersion: r.latest === null ? null : Number(r.latest),
+    originator: r.originator,
+    updatedAt: (r.updated ?? r.created_at) as Date,
+  }));
+}
+
+/** Evaluates content with the server's sandboxed engine, for storing with a version. */
+async function evaluateContent(content: VersionContent, sheetKey: string): Promise<SheetResult> {
+  return getEvaluator().evaluate(content.cells, { significantFigures: content.significantFigures }, sheetKey);
+}
+
+export async function createSheet(db: Kysely<Database>, actor: Actor, project: { id: string; code: string }, input: z.infer<typeof createSheetSchema>) {
+  const content = versionContentSchema.parse({
+    schema: 1,
+    title: input.title,
+    safetyRelated: input.safetyRelated,
+    significantFigures: 6,
+    record: { ...emptyRecord(), objective: input.objective },
+    cells: [],
+    attachments: [],
+  });
+  const results = await evaluateContent(content, `new:${project.id}`);
+  return db.transaction().execute(async (trx) => {
+    await sql`select pg_advisory_xact_lock(hashtext(${`sheets:${project.id}`}))`.execute(trx);
+    const next = await trx.selectFrom('sheets').select(sql<number>`coalesce(max(number), 0) + 1`.as('n')).where('project_id', '=', project.id).executeTakeFirstOrThrow();
+    const sheet = await trx
+      .insertInto('sheets')
+      .values({ project_id: project.id, number: Number(next.n), title: input.title, safety_related: input.safetyRelated, created_by: actor.userId })
+      .returning(['id', 'number'])
+      .executeTakeFirstOrThrow();
+    const hash = contentHash(content);
+    await trx
+      .insertInto('versions')
+      .values({
+        sheet_id: sheet.id,
+        number: 1,
+        parent_number: null,
+        content: JSON.stringify(content),
+        content_hash: hash,
+        results: JSON.stringify(results),
+        engine_version: results.engineVersion,
+        constants_edition: results.constantsEdition,
+        author_id: actor.userId,
+        message: 'Sheet created',
+      })
+      .execute();
+    const code = formatSheetNumber(project.code, sheet.number);
+    await recordAudit(trx, actor, { action: 'sheet.create', objectType: 'sheet', objectId: sheet.id, projectId: project.id, newValue: { number: code, title: input.title, safetyRelated: input.safetyRelated, version: 1, sha256: hash } });
+    return { id: sheet.id, number: sheet.number, code };
+  });
+}
+
+export async function getSheet(db: Kysely<Database>, sheetId: string) {
+  if (!/^[0-9a-f-]{36}$/.test(sheetId)) return undefined;
+  return db.selectFrom('sheets').select(['id', 'project_id', 'number', 'title', 'safety_related', 'created_by', 'created_at']).where('id', '=', sheetId).executeTakeFirst();
+}
+
+export async function getSheetByNumber(db: Kysely<Database>, projectId: string, number: number) {
+  return db.selectFrom('sheets').select(['id', 'project_id', 'number', 'title', 'safety_related', 'created_by', 'created_at']).where('project_id', '=', projectId).where('number', '=', number).executeTakeFirst();
+}
+
+export async function listVersions(db: Kysely<Database>, sheetId: string) {
+  return db
+    .selectFrom('versions as v')
+    .innerJoin('users as u', 'u.id', 'v.author_id')
+    .select(['v.number', 'v.parent_number as parentNumber', 'v.content_hash as sha256', 'v.message', 'v.created_at as createdAt', 'v.engine_version as engineVersion', 'v.constants_edition as constantsEdition', 'u.display_name as author'])
+    .where('v.sheet_id', '=', sheetId)
+    .orderBy('v.number', 'desc')
+    .execute();
+}
+
+export async function getVersion(db: Kysely<Database>, sheetId: string, number?: number) {
+  let q = db
+    .selectFrom('versions as v')
+    .innerJoin('users as u', 'u.id', 'v.author_id')
+    .select(['v.number', 'v.parent_number as parentNumber', 'v.content', 'v.content_hash as sha256', 'v.results', 'v.message', 'v.created_at as createdAt', 'v.engine_version as engineVersion', 'v.constants_edition as constantsEdition', 'u.display_name as author'])
+    .where('v.sheet_id', '=', sheetId);
+  q = number === undefined ? q.orderBy('v.number', 'desc').limit(1) : q.where('v.number', '=', number);
+  const row = await q.executeTakeFirst();
+  return row ? { ...row, content: row.content as VersionContent, results: row.results as SheetResult | null } : undefined;
+}
+
+/**
+ * Saves a new version based on `parentNumber`. Refused with 409 (and the latest version's number
+ * and hash) when the sheet has moved on since the parent, so the editor can show what changed.
+ */
+export async function saveVersion(db: Kysely<Database>, actor: Actor, sheet: { id: string; project_id: string }, input: z.infer<typeof saveVersionSchema>) {
+  const results = await evaluateContent(input.content, sheet.id);
+  const hash = contentHash(input.content);
+  return db.transaction().execute(async (trx) => {
+    await trx.selectFrom('sheets').select('id').where('id', '=', sheet.id).forUpdate().executeTakeFirstOrThrow();
+    const latest = await trx.selectFrom('versions').select(['number', 'content_hash']).where('sheet_id', '=', sheet.id).orderBy('number', 'desc').limit(1).executeTakeFirstOrThrow();
+    if (latest.number !== input.parentNumber) {
+      throw new AppError('conflict', `Version ${latest.number} was saved since version ${input.parentNumber}, which your edits are based on.`, {
+        latestNumber: latest.number,
+        latestSha256: latest.content_hash,
+      });
+    }
+    const number = latest.number + 1;
+    await trx
+      .insertInto('versions')
+      .values({
+        sheet_id: sheet.id,
+        number,
+        parent_number: input.parentNumber,
+        content: JSON.stringify(input.content),
+        content_hash: hash,
+        results: JSON.stringify(results),
+        engine_version: results.engineVersion,
+        constants_edition: results.constantsEdition,
+        author_id: actor.userId,
+        message: input.message,
+      })
+      .execute();
+    await trx.updateTable('sheets').set({ title: input.content.title, safety_related: input.content.safetyRelated, updated_at: sql`now()` }).where('id', '=', sheet.id).execute();
+    await recordAudit(trx, actor, { action: 'version.save', objectType: 'sheet', objectId: sheet.id, projectId: sheet.project_id, newValue: { version: number, parent: input.parentNumber, sha256: hash }, reason: input.message });
+    return { number, sha256: hash, ok: results.ok };
+  });
+}
