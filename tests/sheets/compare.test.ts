@@ -1,0 +1,438 @@
+import { describe, expect, it } from 'vitest';
+import { createSheetEngine } from '../../lib/calc/sheet-engine';
+import type { CellResult, SheetResult, StatementResult } from '../../lib/calc/types';
+import { compareVersions, foldUnchanged, wordDiff, type ComparedVersion } from '../../lib/sheets/compare';
+import { emptyRecord, type Cell, type VersionContent } from '../../lib/sheets/content';
+
+function content(cells: Cell[], overrides: Partial<VersionContent> = {}): VersionContent {
+  return {
+    schema: 1,
+    title: 'Dipole bending',
+    safetyRelated: false,
+    significantFigures: 6,
+    record: emptyRecord(),
+    cells,
+    attachments: [],
+    ...overrides,
+  };
+}
+
+const calc = (id: string, source: string): Cell => ({ id, kind: 'calc', source });
+const text = (id: string, source: string): Cell => ({ id, kind: 'text', source });
+
+/** A version evaluated with the server's engine. */
+function evaluated(cells: Cell[], overrides: Partial<VersionContent> = {}): ComparedVersion {
+  const engine = createSheetEngine();
+  return { content: content(cells, overrides), results: engine.evaluate(cells, { significantFigures: 6 }) };
+}
+
+/** A small hand-built result: one calc cell holding the given statements. */
+function handResult(cellId: string, statements: Array<Partial<StatementResult>>): SheetResult {
+  const cell: CellResult = {
+    id: cellId,
+    index: 0,
+    kind: 'calc',
+    ok: statements.every((s) => !s.error),
+    error: statements.find((s) => s.error)?.error ?? null,
+    statements: statements.map((s, i) => ({
+      line: i + 1,
+      source: '',
+      kind: 'definition',
+      name: null,
+      tex: '',
+      substitutedTex: null,
+      value: null,
+      criterion: null,
+      error: null,
+      ...s,
+    })),
+    defines: [],
+    uses: [],
+  };
+  return { ok: cell.ok, cells: [cell], engineVersion: 'hand', constantsEdition: 'hand', evaluatedCells: 1 };
+}
+
+describe('word diff', () => {
+  it('keeps numbers whole and puts removed text before added text', () => {
+    expect(wordDiff('B = 1.5 T\nr = 1.62 m', 'B = 1.6 T\nr = 1.62 m')).toEqual([
+      { text: 'B = ' },
+      { text: '1.5', removed: true },
+      { text: '1.6', added: true },
+      { text: ' T\nr = 1.62 m' },
+    ]);
+    expect(wordDiff('t = 1e-3 s', 't = 2e-3 s')).toEqual([{ text: 't = ' }, { text: '1e-3', removed: true }, { text: '2e-3', added: true }, { text: ' s' }]);
+  });
+
+  it('folds the spaces between changed words on one line into the change', () => {
+    expect(wordDiff('use the nominal field', 'use the measured peak field')).toEqual([
+      { text: 'use the ' },
+      { text: 'nominal', removed: true },
+      { text: 'measured peak', added: true },
+      { text: ' field' },
+    ]);
+  });
+
+  it('always rebuilds both texts from its pieces', () => {
+    const pairs: Array<[string, string]> = [
+      ['use the nominal field', 'use the measured peak field'],
+      ['a b c d', 'x b y d'],
+      ['p = gamma(v) * m * v\n# momentum', 'p = gamma(v)*m_p*v  \n# momentum, proton'],
+      ['  indented   text ', 'indented text'],
+      ['Δp/p = 1e-3', 'Δp/p = 2.5e-3 (worst case)'],
+    ];
+    for (const [a, b] of pairs) {
+      const pieces = wordDiff(a, b);
+      expect(pieces.filter((p) => !p.added).map((p) => p.text).join('')).toBe(a);
+      expect(pieces.filter((p) => !p.removed).map((p) => p.text).join('')).toBe(b);
+      expect(pieces.every((p) => p.text !== '')).toBe(true);
+    }
+  });
+
+  it('gives nothing for two empty texts and one piece for equal texts', () => {
+    expect(wordDiff('', '')).toEqual([]);
+    expect(wordDiff('same', 'same')).toEqual([{ text: 'same' }]);
+    expect(wordDiff('', 'new')).toEqual([{ text: 'new', added: true }]);
+  });
+});
+
+describe('cells', () => {
+  it('reports added, removed, changed and unchanged cells in target order, removed ones where they stood', () => {
+    const base = { content: content([calc('a', 'x = 1 m'), text('b', 'Intro'), calc('c', 'y = 2 m'), calc('d', 'z = 3 m')]), results: null };
+    const target = { content: content([calc('a', 'x = 1 m'), calc('c', 'y = 2.5 m'), calc('n', 'w = 4 m'), calc('d', 'z = 3 m')]), results: null };
+    const cmp = compareVersions(base, target);
+    expect(cmp.cells).toEqual([
+      { id: 'a', status: 'unchanged', kind: 'calc', baseKind: 'calc', baseIndex: 0, targetIndex: 0, moved: false, sourceDiff: null },
+      { id: 'b', status: 'removed', kind: 'text', baseKind: 'text', baseIndex: 1, targetIndex: null, moved: false, sourceDiff: [{ text: 'Intro', removed: true }] },
+      {
+        id: 'c',
+        status: 'changed',
+        kind: 'calc',
+        baseKind: 'calc',
+        baseIndex: 2,
+        targetIndex: 1,
+        moved: false,
+        sourceDiff: [{ text: 'y = ' }, { text: '2', removed: true }, { text: '2.5', added: true }, { text: ' m' }],
+      },
+      { id: 'n', status: 'added', kind: 'calc', baseKind: null, baseIndex: null, targetIndex: 2, moved: false, sourceDiff: [{ text: 'w = 4 m', added: true }] },
+      { id: 'd', status: 'unchanged', kind: 'calc', baseKind: 'calc', baseIndex: 3, targetIndex: 3, moved: false, sourceDiff: null },
+    ]);
+    expect(cmp.summary.cells).toEqual({ added: 1, removed: 1, changed: 1, moved: 0, unchanged: 2 });
+    expect(cmp.resultsCompared).toBe(false);
+    expect(cmp.results).toEqual([]);
+  });
+
+  it('calls a cell moved only when it left the order of the others, not when cells before it were inserted', () => {
+    const base = { content: content([calc('a', 'x = 1'), calc('b', 'y = 2'), calc('c', 'z = 3'), calc('d', 'w = 4')]), results: null };
+    const moved = compareVersions(base, { content: content([calc('b', 'y = 2'), calc('c', 'z = 3'), calc('d', 'w = 4'), calc('a', 'x = 1')]), results: null });
+    expect(moved.cells.map((c) => [c.id, c.status, c.baseIndex, c.targetIndex])).toEqual([
+      ['b', 'unchanged', 1, 0],
+      ['c', 'unchanged', 2, 1],
+      ['d', 'unchanged', 3, 2],
+      ['a', 'moved', 0, 3],
+    ]);
+    expect(moved.summary.cells).toEqual({ added: 0, removed: 0, changed: 0, moved: 1, unchanged: 3 });
+
+    const inserted = compareVersions(base, { content: content([calc('n', 'v = 0'), ...base.content.cells]), results: null });
+    expect(inserted.cells.map((c) => c.status)).toEqual(['added', 'unchanged', 'unchanged', 'unchanged', 'unchanged']);
+
+    const movedAndEdited = compareVersions(base, { content: content([calc('b', 'y = 2'), calc('a', 'x = 10'), calc('c', 'z = 3'), calc('d', 'w = 4')]), results: null });
+    // Swapping a and b leaves either in order; the diff keeps b (first in the target) in place.
+    expect(movedAndEdited.cells.map((c) => [c.id, c.status, c.moved])).toEqual([
+      ['b', 'unchanged', false],
+      ['a', 'changed', true],
+      ['c', 'unchanged', false],
+      ['d', 'unchanged', false],
+    ]);
+    expect(movedAndEdited.cells[1].sourceDiff).toEqual([{ text: 'x = ' }, { text: '1', removed: true }, { text: '10', added: true }]);
+  });
+
+  it('puts a cell removed from the start first, before any cell added there', () => {
+    const cmp = compareVersions(
+      { content: content([text('old', 'Old intro'), calc('a', 'x = 1')]), results: null },
+      { content: content([text('new', 'New intro'), calc('a', 'x = 1')]), results: null },
+    );
+    expect(cmp.cells.map((c) => [c.id, c.status])).toEqual([
+      ['old', 'removed'],
+      ['new', 'added'],
+      ['a', 'unchanged'],
+    ]);
+  });
+
+  it('counts a change of kind as a change, with the source diff all common', () => {
+    const cmp = compareVersions({ content: content([text('a', 'E = m c^2')]), results: null }, { content: content([calc('a', 'E = m c^2')]), results: null });
+    expect(cmp.cells).toEqual([
+      { id: 'a', status: 'changed', kind: 'calc', baseKind: 'text', baseIndex: 0, targetIndex: 0, moved: false, sourceDiff: [{ text: 'E = m c^2' }] },
+    ]);
+    expect(cmp.summary.cells.changed).toBe(1);
+  });
+});
+
+describe('results', () => {
+  const baseSource = 'B = 1.5 T\nr = 1.62 m\nBr = B * r\nBr <= 2.45 T m';
+  const targetSource = 'B = 1.25 T\nr = 2 m\nBr = B * r\nBr <= 2.45 T m';
+
+  it('gives the relative change of a named result and flags a criterion that flipped (real engine)', () => {
+    const cmp = compareVersions(evaluated([calc('c1', baseSource)]), evaluated([calc('c1', targetSource)]));
+    const br = cmp.results.find((r) => r.key === 'value:Br')!;
+    expect(br).toMatchObject({
+      type: 'value',
+      name: 'Br',
+      cellId: 'c1',
+      status: 'changed',
+      old: { text: '2.43 T·m', number: 2.43, unit: 'T m', kind: 'quantity', error: null },
+      new: { text: '2.5 T·m', number: 2.5, unit: 'T m', kind: 'quantity', error: null },
+      unitChanged: false,
+      flipped: false,
+    });
+    // common practice: relative change = (new − old) / |old| = (2.5 − 2.43) / 2.43 = 0.07 / 2.43
+    // = 0.028 806 6 (2.43 × 0.0288 = 0.069 984; the remaining 0.000 016 / 2.43 = 0.000 006 6).
+    expect(br.relativeChange).toBeCloseTo(0.0288066, 6);
+
+    const criterion = cmp.results.find((r) => r.type === 'criterion')!;
+    expect(criterion).toMatchObject({ key: 'criterion:c1:Br <= 2.45 T m', name: 'Br <= 2.45 T m', status: 'changed', passOld: true, passNew: false, flipped: true, relativeChange: null });
+    // common practice: margins relative to the limit, (2.45 − 2.43)/2.45 = 0.008 16 and (2.45 − 2.5)/2.45 = −0.020 4.
+    expect(criterion.old!.number).toBeCloseTo(0.00816, 5);
+    expect(criterion.new!.number).toBeCloseTo(-0.0204, 4);
+
+    expect(cmp.results.map((r) => [r.key, r.status])).toEqual([
+      ['value:B', 'changed'],
+      ['value:r', 'changed'],
+      ['value:Br', 'changed'],
+      ['criterion:c1:Br <= 2.45 T m', 'changed'],
+    ]);
+    expect(cmp.summary.results).toEqual({ added: 0, removed: 0, changed: 4, unchanged: 0 });
+    expect(cmp.summary.criteriaFlipped).toBe(1);
+    expect(JSON.parse(JSON.stringify(cmp))).toEqual(cmp);
+  });
+
+  it('reports an error appearing, and the dependents that lost their value (real engine)', () => {
+    const cmp = compareVersions(
+      evaluated([calc('c1', 'v = 2 m / s\nw = v * 2\nL = 3 m')]),
+      evaluated([calc('c1', 'v = 2 m / s + 1 kg\nw = v * 2\nL = 3 m')]),
+    );
+    const [v, w, l] = cmp.results;
+    expect(v).toMatchObject({ name: 'v', status: 'changed', old: { text: '2 m/s', error: null }, new: { text: '', number: null, unit: null, kind: null }, relativeChange: null });
+    expect(v.new!.error).toMatch(/Units do not match/);
+    expect(w.status).toBe('changed');
+    expect(w.new!.error).toMatch(/depends on `v`/);
+    expect(l).toMatchObject({ name: 'L', status: 'unchanged', relativeChange: 0 });
+
+    // And the error disappearing again is a change the other way.
+    const back = compareVersions(evaluated([calc('c1', 'v = 2 m / s + 1 kg')]), evaluated([calc('c1', 'v = 2 m / s')]));
+    expect(back.results[0]).toMatchObject({ status: 'changed', new: { text: '2 m/s', number: 2, error: null } });
+    expect(back.results[0].old!.error).not.toBeNull();
+  });
+
+  it('matches a named result by name wherever its cell went, and criteria by cell and line', () => {
+    const cmp = compareVersions(
+      evaluated([calc('c1', 'm = 2 kg\nm <= 3 kg'), calc('c2', 'g2 = 9.81 m/s^2')]),
+      evaluated([calc('c2', 'g2 = 9.81 m/s^2\nm = 2 kg'), calc('c1', 'm <= 3 kg\nm >= 1 kg')]),
+    );
+    expect(cmp.results.map((r) => [r.key, r.cellId, r.status])).toEqual([
+      ['value:g2', 'c2', 'unchanged'],
+      ['value:m', 'c2', 'unchanged'],
+      ['criterion:c1:m <= 3 kg', 'c1', 'unchanged'],
+      ['criterion:c1:m >= 1 kg', 'c1', 'added'],
+    ]);
+  });
+
+  it('says when the unit changed instead of comparing numbers in different units', () => {
+    const quantity = (number: number, unit: string) => ({ kind: 'quantity' as const, text: `${number} ${unit}`, tex: '', number, unit, raw: null });
+    const cmp = compareVersions(
+      { content: content([calc('c1', 'Br = 2.43 T m')]), results: handResult('c1', [{ name: 'Br', value: quantity(2.43, 'T m') }]) },
+      { content: content([calc('c1', 'Br = 2430 mT m')]), results: handResult('c1', [{ name: 'Br', value: quantity(2430, 'mT m') }]) },
+    );
+    expect(cmp.results).toEqual([
+      {
+        key: 'value:Br',
+        type: 'value',
+        name: 'Br',
+        cellId: 'c1',
+        status: 'changed',
+        old: { text: '2.43 T m', number: 2.43, unit: 'T m', kind: 'quantity', error: null },
+        new: { text: '2430 mT m', number: 2430, unit: 'mT m', kind: 'quantity', error: null },
+        relativeChange: null,
+        unitChanged: true,
+        passOld: null,
+        passNew: null,
+        flipped: false,
+      },
+    ]);
+  });
+
+  it('compares no results when one side was not evaluated, rather than calling them all removed', () => {
+    const base = evaluated([calc('c1', baseSource)]);
+    const cmp = compareVersions(base, { content: base.content, results: null });
+    expect(cmp.resultsCompared).toBe(false);
+    expect(cmp.results).toEqual([]);
+    expect(cmp.summary.cells.unchanged).toBe(1);
+  });
+});
+
+describe('record and attachments', () => {
+  const hashA = 'a'.repeat(64);
+  const hashB = 'b'.repeat(64);
+  const hashC = 'c'.repeat(64);
+
+  it('lists the changed fields, inputs, assumptions, references and attachments', () => {
+    const base = content([calc('c1', 'x = 1')], {
+      title: 'Dipole bending',
+      record: {
+        objective: 'Check the bending power of dipole D1',
+        inputs: [
+          { name: 'Field', value: '1.5 T', source: 'Magnet specification MS-12', sourceRevision: 'B' },
+          { name: 'Length', value: '1.62 m', source: 'Drawing D-100', sourceRevision: '3' },
+        ],
+        assumptions: [{ text: 'Vacuum in the beam pipe', needsVerification: false }],
+        method: 'Rigidity from field and radius',
+        references: ['PDG 2024, section 34', 'Wiedemann, Particle Accelerator Physics'],
+        conclusions: '',
+      },
+      attachments: [
+        { name: 'field-map.csv', mediaType: 'text/csv', size: 100, sha256: hashA },
+        { name: 'photo.jpg', mediaType: 'image/jpeg', size: 5000, sha256: hashC },
+      ],
+    });
+    const target = content([calc('c1', 'x = 1')], {
+      title: 'Dipole bending power',
+      record: {
+        ...base.record,
+        inputs: [
+          { name: 'Field', value: '1.5 T', source: 'Magnet specification MS-12', sourceRevision: 'C' },
+          { name: 'Length', value: '1.62 m', source: 'Drawing D-100', sourceRevision: '3' },
+        ],
+        assumptions: [
+          { text: 'Vacuum in the beam pipe', needsVerification: false },
+          { text: 'Beam on the design orbit', needsVerification: true },
+        ],
+        references: ['PDG 2024, section 34'],
+      },
+      attachments: [{ name: 'field-map.csv', mediaType: 'text/csv', size: 100, sha256: hashB }],
+    });
+    const cmp = compareVersions({ content: base, results: null }, { content: target, results: null });
+
+    expect(cmp.record.fields).toEqual([
+      { field: 'title', old: 'Dipole bending', new: 'Dipole bending power', diff: [{ text: 'Dipole bending' }, { text: ' power', added: true }] },
+    ]);
+    expect(cmp.record.inputs).toEqual([
+      {
+        key: 'Field',
+        status: 'changed',
+        old: { name: 'Field', value: '1.5 T', source: 'Magnet specification MS-12', sourceRevision: 'B' },
+        new: { name: 'Field', value: '1.5 T', source: 'Magnet specification MS-12', sourceRevision: 'C' },
+        changedFields: ['sourceRevision'],
+      },
+    ]);
+    expect(cmp.record.assumptions).toEqual([
+      { key: 'Beam on the design orbit', status: 'added', old: null, new: { text: 'Beam on the design orbit', needsVerification: true }, changedFields: [] },
+    ]);
+    expect(cmp.record.references).toEqual([
+      { key: 'Wiedemann, Particle Accelerator Physics', status: 'removed', old: 'Wiedemann, Particle Accelerator Physics', new: null, changedFields: [] },
+    ]);
+    expect(cmp.record.attachments).toEqual([
+      {
+        key: 'field-map.csv',
+        status: 'changed',
+        old: { name: 'field-map.csv', mediaType: 'text/csv', size: 100, sha256: hashA },
+        new: { name: 'field-map.csv', mediaType: 'text/csv', size: 100, sha256: hashB },
+        changedFields: ['sha256'],
+      },
+      { key: 'photo.jpg', status: 'removed', old: { name: 'photo.jpg', mediaType: 'image/jpeg', size: 5000, sha256: hashC }, new: null, changedFields: [] },
+    ]);
+    expect(cmp.summary).toMatchObject({ recordChanges: 4, attachmentChanges: 2 });
+    expect(cmp.summary.cells.unchanged).toBe(1);
+  });
+
+  it('reports the scalar fields and a changed assumption flag', () => {
+    const base = content([], { record: { ...emptyRecord(), assumptions: [{ text: 'Beam on axis', needsVerification: true }] } });
+    const target = content([], { safetyRelated: true, significantFigures: 4, record: { ...emptyRecord(), assumptions: [{ text: 'Beam on axis', needsVerification: false }] } });
+    const cmp = compareVersions({ content: base, results: null }, { content: target, results: null });
+    expect(cmp.record.fields).toEqual([
+      { field: 'safetyRelated', old: false, new: true, diff: null },
+      { field: 'significantFigures', old: 6, new: 4, diff: null },
+    ]);
+    expect(cmp.record.assumptions).toEqual([
+      { key: 'Beam on axis', status: 'changed', old: { text: 'Beam on axis', needsVerification: true }, new: { text: 'Beam on axis', needsVerification: false }, changedFields: ['needsVerification'] },
+    ]);
+  });
+});
+
+describe('first check and identical versions', () => {
+  it('reports everything in the target as added when there is no base', () => {
+    const target = evaluated([text('t', 'Rigidity of the beam'), calc('c1', 'B = 1.5 T\nB <= 2 T')], {
+      record: { ...emptyRecord(), objective: 'Rigidity', inputs: [{ name: 'Field', value: '1.5 T', source: 'MS-12', sourceRevision: 'B' }], references: ['PDG 2024'] },
+      attachments: [{ name: 'map.csv', mediaType: 'text/csv', size: 1, sha256: 'd'.repeat(64) }],
+    });
+    const cmp = compareVersions(null, target);
+    expect(cmp.firstCheck).toBe(true);
+    expect(cmp.resultsCompared).toBe(true);
+    expect(cmp.cells.map((c) => [c.id, c.status, c.baseIndex, c.targetIndex])).toEqual([
+      ['t', 'added', null, 0],
+      ['c1', 'added', null, 1],
+    ]);
+    expect(cmp.results.map((r) => [r.key, r.status, r.old, r.passOld, r.passNew, r.flipped])).toEqual([
+      ['value:B', 'added', null, null, null, false],
+      ['criterion:c1:B <= 2 T', 'added', null, null, true, false],
+    ]);
+    expect(cmp.record.fields.map((f) => [f.field, f.old])).toEqual([
+      ['title', null],
+      ['safetyRelated', null],
+      ['significantFigures', null],
+      ['objective', null],
+      ['method', null],
+      ['conclusions', null],
+    ]);
+    expect(cmp.record.fields[3].diff).toEqual([{ text: 'Rigidity', added: true }]);
+    expect(cmp.record.inputs.map((i) => [i.key, i.status])).toEqual([['Field', 'added']]);
+    expect(cmp.record.references.map((r) => [r.key, r.status])).toEqual([['PDG 2024', 'added']]);
+    expect(cmp.record.attachments.map((a) => [a.key, a.status])).toEqual([['map.csv', 'added']]);
+    expect(cmp.summary).toEqual({
+      cells: { added: 2, removed: 0, changed: 0, moved: 0, unchanged: 0 },
+      results: { added: 2, removed: 0, changed: 0, unchanged: 0 },
+      criteriaFlipped: 0,
+      recordChanges: 8,
+      attachmentChanges: 1,
+    });
+  });
+
+  it('gives all unchanged and zero change counts for identical versions', () => {
+    const version = evaluated([text('t', 'Intro'), calc('c1', 'B = 1.5 T\nr = 1.62 m\nBr = B * r\nBr <= 3 T m')], {
+      record: { ...emptyRecord(), inputs: [{ name: 'Field', value: '1.5 T', source: 'MS-12', sourceRevision: 'B' }], references: ['PDG 2024'] },
+    });
+    const again = evaluated(version.content.cells, { record: version.content.record });
+    const cmp = compareVersions(version, again);
+    expect(cmp.cells.every((c) => c.status === 'unchanged' && c.sourceDiff === null)).toBe(true);
+    expect(cmp.results.every((r) => r.status === 'unchanged' && !r.flipped)).toBe(true);
+    expect(cmp.results.find((r) => r.key === 'value:Br')!.relativeChange).toBe(0);
+    expect(cmp.record).toEqual({ fields: [], inputs: [], assumptions: [], references: [], attachments: [] });
+    expect(cmp.summary).toEqual({
+      cells: { added: 0, removed: 0, changed: 0, moved: 0, unchanged: 2 },
+      results: { added: 0, removed: 0, changed: 0, unchanged: 4 },
+      criteriaFlipped: 0,
+      recordChanges: 0,
+      attachmentChanges: 0,
+    });
+    expect(foldUnchanged(cmp)).toEqual({ segments: [{ type: 'folded', fromTargetIndex: 0, toTargetIndex: 1, count: 2, cellIds: ['t', 'c1'] }], changedIds: [] });
+  });
+});
+
+describe('folding unchanged cells', () => {
+  const ids = ['u1', 'u2', 'ch', 'u3', 'u4', 'u5'];
+  const base = { content: content(ids.map((id) => calc(id, `${id} = 1`))), results: null };
+  const target = { content: content(ids.map((id) => calc(id, id === 'ch' ? `${id} = 2` : `${id} = 1`))), results: null };
+  const cmp = compareVersions(base, target);
+
+  it('folds the runs of unchanged cells between changes', () => {
+    const folded = foldUnchanged(cmp);
+    expect(folded.changedIds).toEqual(['ch']);
+    expect(folded.segments.map((s) => (s.type === 'cell' ? s.cell.id : `[${s.cellIds.join(' ')}]`))).toEqual(['[u1 u2]', 'ch', '[u3 u4 u5]']);
+    expect(folded.segments[2]).toEqual({ type: 'folded', fromTargetIndex: 3, toTargetIndex: 5, count: 3, cellIds: ['u3', 'u4', 'u5'] });
+  });
+
+  it('keeps context cells next to changes shown, and short runs unfolded', () => {
+    const withContext = foldUnchanged(cmp, { context: 1 });
+    expect(withContext.segments.map((s) => (s.type === 'cell' ? s.cell.id : `[${s.cellIds.join(' ')}]`))).toEqual(['[u1]', 'u2', 'ch', 'u3', '[u4 u5]']);
+    const minRun = foldUnchanged(cmp, { context: 1, minRun: 2 });
+    expect(minRun.segments.map((s) => (s.type === 'cell' ? s.cell.id : `[${s.cellIds.join(' ')}]`))).toEqual(['u1', 'u2', 'ch', 'u3', '[u4 u5]']);
+  });
+});
