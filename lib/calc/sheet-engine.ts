@@ -4,8 +4,8 @@
 // edited cell and what depends on it.
 import { createHash } from 'node:crypto';
 import type { MathJsInstance, MathNode, Unit } from 'mathjs';
-import { CONSTANTS_EDITION } from './constants';
-import { displayValue, formatNumberText } from './format';
+import { CONSTANTS, CONSTANTS_EDITION } from './constants';
+import { displayValue, formatNumberTex, formatNumberText } from './format';
 import { LIBRARY } from './functions';
 import { bindLibrary } from './library-adapter';
 import { createEngineMath, REFUSED_NAMES, type EngineMath } from './math-instance';
@@ -308,7 +308,11 @@ export function createSheetEngine(): SheetEngine {
     const results: CellResult[] = [];
     let evaluatedCells = 0;
 
-    const texValue = new Map<string, string>();
+    // Constants are substituted in the SI unit they are defined in (the elementary charge as
+    // 1.602 18 × 10⁻¹⁹ C, not in zeptocoulombs as mathjs's choice of prefix would have it).
+    const texValue = new Map<string, string>(
+      CONSTANTS.map((k) => [k.name, substitutionTex(`${formatNumberTex(k.value, sig)}\\ ${unitTexOf(math, k.unit)}`)]),
+    );
     const valueTexOf = (name: string): string | undefined => {
       const cachedTex = texValue.get(name);
       if (cachedTex !== undefined) return cachedTex;

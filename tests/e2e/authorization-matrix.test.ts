@@ -83,6 +83,7 @@ const MATRIX: Record<string, Entry> = {
     request: (w) => ({ path: `/api/sheets/${w.sheetId}/versions`, body: { parentNumber: 1, message: 'matrix save', content: w.sheetContent } }),
     expect: originatorOnly(201),
   },
+  'GET /api/sheets/[sheetId]/compare': { request: (w) => ({ path: `/api/sheets/${w.sheetId}/compare?target=1` }), expect: memberOnly(200) },
   'GET /api/sheets/[sheetId]/versions/[number]': { request: (w) => ({ path: `/api/sheets/${w.sheetId}/versions/1` }), expect: memberOnly(200) },
   'GET /api/admin/users': { request: () => ({ path: '/api/admin/users' }), expect: adminOnly(200) },
   'POST /api/admin/users': { request: () => ({ path: '/api/admin/users', body: { email: 'invited@example.test', name: 'Invited Person' } }), expect: adminOnly(201) },

@@ -75,6 +75,18 @@ describe('sheets and versions', () => {
     ]);
   });
 
+  it('compares two versions: the added calculation cell and its results', async () => {
+    const r = await api(`/api/sheets/${sheetId}/compare?base=1&target=2`);
+    expect(r.status).toBe(200);
+    expect(r.body.comparison.summary.cells).toMatchObject({ added: 1, removed: 0, changed: 0 });
+    expect(r.body.comparison.cells[0]).toMatchObject({ id: 'c1', status: 'added' });
+    expect(r.body.comparison.results.map((x: { name: string; status: string }) => [x.name, x.status])).toEqual([
+      ['T_kin', 'added'],
+      ['Brho', 'added'],
+    ]);
+    expect((await api(`/api/sheets/${sheetId}/compare?base=7&target=2`)).status).toBe(404);
+  });
+
   it('refuses content that is not a sheet, and an unknown sheet or version', async () => {
     expect((await api(`/api/sheets/${sheetId}/versions`, { method: 'POST', body: { parentNumber: 2, message: 'x', content: { cells: 'no' } } })).status).toBe(400);
     expect((await api('/api/sheets/00000000-0000-4000-8000-000000000000')).status).toBe(404);

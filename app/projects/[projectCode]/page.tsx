@@ -2,7 +2,10 @@ import type { Metadata } from 'next';
 import Link from 'next/link';
 import { getDb } from '@/db';
 import { pageProject } from '@/lib/auth/page-guard';
+import { CreateSheetForm } from '@/components/sheet/create-sheet-form';
+import { SheetRegister } from '@/components/sheet/sheet-register';
 import { listMembers, ROLE_LABELS } from '@/lib/projects/projects';
+import { listSheets } from '@/lib/sheets/sheets';
 
 export const metadata: Metadata = { title: 'Project' };
 export const dynamic = 'force-dynamic';
@@ -10,7 +13,7 @@ export const dynamic = 'force-dynamic';
 export default async function ProjectPage({ params }: { params: Promise<{ projectCode: string }> }) {
   const { projectCode } = await params;
   const { project, roles } = await pageProject(projectCode, `/projects/${projectCode}`);
-  const members = await listMembers(getDb(), project.id);
+  const [members, sheets] = await Promise.all([listMembers(getDb(), project.id), listSheets(getDb(), project.id, project.code)]);
   const seesAudit = roles.some((r) => r !== 'viewer');
   return (
     <div className="space-y-8">
@@ -29,11 +32,19 @@ export default async function ProjectPage({ params }: { params: Promise<{ projec
           </p>
         ) : null}
       </header>
-      <section aria-labelledby="sheets-title" className="rounded border border-rule bg-surface p-4">
-        <h2 id="sheets-title" className="font-bold">
+      <section aria-labelledby="sheets-title" className="space-y-4">
+        <h2 id="sheets-title" className="text-xl font-bold">
           Calculation sheets
         </h2>
-        <p className="mt-1 text-sm text-ink-muted">Not available yet in this build: the sheet register and editor come next.</p>
+        <SheetRegister rows={sheets.map((r) => ({ ...r, updatedAt: r.updatedAt.toISOString() }))} projectCode={project.code} />
+        {roles.includes('originator') ? (
+          <details className="max-w-xl rounded border border-rule bg-surface p-4">
+            <summary className="cursor-pointer font-semibold">New sheet</summary>
+            <div className="mt-3">
+              <CreateSheetForm projectId={project.id} projectCode={project.code} />
+            </div>
+          </details>
+        ) : null}
       </section>
       <section aria-labelledby="members-title">
         <h2 id="members-title" className="text-xl font-bold">

@@ -1,0 +1,89 @@
+'use client';
+
+import Link from 'next/link';
+import { useMemo, useState } from 'react';
+
+export interface RegisterRow {
+  id: string;
+  number: number;
+  code: string;
+  title: string;
+  safetyRelated: boolean;
+  status: string;
+  currentRevision: string | null;
+  latestVersion: number | null;
+  originator: string;
+  updatedAt: string;
+}
+
+type Key = 'code' | 'title' | 'status' | 'currentRevision' | 'latestVersion' | 'originator' | 'updatedAt';
+const COLUMNS: Array<{ key: Key; label: string }> = [
+  { key: 'code', label: 'Number' },
+  { key: 'title', label: 'Title' },
+  { key: 'status', label: 'Status' },
+  { key: 'currentRevision', label: 'Current revision' },
+  { key: 'latestVersion', label: 'Latest version' },
+  { key: 'originator', label: 'Originator' },
+  { key: 'updatedAt', label: 'Updated (UTC)' },
+];
+
+/** The register of a project's sheets: sortable by any column, filtered by text. */
+export function SheetRegister({ rows, projectCode }: { rows: RegisterRow[]; projectCode: string }) {
+  const [sort, setSort] = useState<{ key: Key; dir: 1 | -1 }>({ key: 'code', dir: 1 });
+  const [filter, setFilter] = useState('');
+  const shown = useMemo(() => {
+    const f = filter.trim().toLowerCase();
+    const list = f ? rows.filter((r) => `${r.code} ${r.title} ${r.originator} ${r.status}`.toLowerCase().includes(f)) : rows;
+    return [...list].sort((a, b) => {
+      const x = a[sort.key] ?? '';
+      const y = b[sort.key] ?? '';
+      return (x < y ? -1 : x > y ? 1 : 0) * sort.dir;
+    });
+  }, [rows, sort, filter]);
+  return (
+    <div className="space-y-3">
+      <div>
+        <label htmlFor="register-filter" className="block text-sm font-semibold">
+          Filter
+        </label>
+        <input id="register-filter" value={filter} onChange={(e) => setFilter(e.target.value)} className="w-full max-w-sm rounded border border-rule-strong bg-surface px-3 py-2" placeholder="number, title, originator…" />
+      </div>
+      <table className="w-full border-collapse text-sm">
+        <caption className="sr-only">Calculation sheets of {projectCode}</caption>
+        <thead>
+          <tr className="border-b border-rule-strong text-left">
+            {COLUMNS.map((c) => (
+              <th key={c.key} scope="col" aria-sort={sort.key === c.key ? (sort.dir === 1 ? 'ascending' : 'descending') : 'none'} className="py-2 pr-3">
+                <button type="button" onClick={() => setSort((s) => ({ key: c.key, dir: s.key === c.key ? ((-s.dir) as 1 | -1) : 1 }))} className="font-semibold hover:underline">
+                  {c.label}
+                  {sort.key === c.key ? (sort.dir === 1 ? ' ▲' : ' ▼') : ''}
+                </button>
+              </th>
+            ))}
+          </tr>
+        </thead>
+        <tbody>
+          {shown.map((r) => (
+            <tr key={r.id} className="border-b border-rule">
+              <td className="py-2 pr-3 font-mono">
+                <Link href={`/projects/${projectCode}/sheets/${r.number}`} className="font-semibold text-accent underline">
+                  {r.code}
+                </Link>
+              </td>
+              <td className="py-2 pr-3">
+                {r.title}
+                {r.safetyRelated ? <span className="ml-2 rounded bg-caution-soft px-1.5 py-0.5 text-xs font-bold text-caution">safety-related</span> : null}
+              </td>
+              <td className="py-2 pr-3">{r.status}</td>
+              <td className="py-2 pr-3">{r.currentRevision ?? '—'}</td>
+              <td className="py-2 pr-3 font-mono">{r.latestVersion ?? '—'}</td>
+              <td className="py-2 pr-3">{r.originator}</td>
+              <td className="py-2 pr-3 font-mono whitespace-nowrap">{r.updatedAt.slice(0, 16).replace('T', ' ')}</td>
+            </tr>
+          ))}
+        </tbody>
+      </table>
+      {shown.length === 0 ? <p className="text-ink-muted">No sheets match.</p> : null}
+    </div>
+  );
+}

@@ -1,0 +1,81 @@
+import { StatementView } from '@/components/calc/statement-view';
+import type { SheetResult } from '@/lib/calc/types';
+import type { VersionContent } from '@/lib/sheets/content';
+
+/** A version as recorded: the calculation record fields, then every cell with its recorded results. */
+export function VersionView({ content, results, renderText }: { content: VersionContent; results: SheetResult | null; renderText: (source: string) => React.ReactNode }) {
+  const r = content.record;
+  const byId = new Map((results?.cells ?? []).map((c) => [c.id, c]));
+  return (
+    <div className="space-y-8">
+      <section aria-labelledby="record-title" className="rounded border border-rule bg-surface p-4">
+        <h2 id="record-title" className="text-lg font-bold">
+          Calculation record
+        </h2>
+        <dl className="mt-2 grid gap-x-6 gap-y-2 text-sm sm:grid-cols-[10rem_minmax(0,1fr)]">
+          <dt className="font-semibold">Objective</dt>
+          <dd>{r.objective || <span className="text-ink-muted">not stated</span>}</dd>
+          <dt className="font-semibold">Design inputs</dt>
+          <dd>
+            {r.inputs.length ? (
+              <ul className="list-disc pl-5">
+                {r.inputs.map((i) => (
+                  <li key={i.name}>
+                    {i.name}: <span className="font-mono">{i.value}</span> — {i.source}, revision {i.sourceRevision}
+                  </li>
+                ))}
+              </ul>
+            ) : (
+              <span className="text-ink-muted">none listed</span>
+            )}
+          </dd>
+          <dt className="font-semibold">Assumptions</dt>
+          <dd>
+            {r.assumptions.length ? (
+              <ul className="list-disc pl-5">
+                {r.assumptions.map((a) => (
+                  <li key={a.text}>
+                    {a.text}
+                    {a.needsVerification ? <span className="ml-2 rounded bg-caution-soft px-1.5 text-xs font-bold text-caution">to be verified</span> : null}
+                  </li>
+                ))}
+              </ul>
+            ) : (
+              <span className="text-ink-muted">none listed</span>
+            )}
+          </dd>
+          <dt className="font-semibold">Method</dt>
+          <dd>{r.method || <span className="text-ink-muted">not stated</span>}</dd>
+          <dt className="font-semibold">References</dt>
+          <dd>{r.references.length ? <ul className="list-disc pl-5">{r.references.map((x) => <li key={x}>{x}</li>)}</ul> : <span className="text-ink-muted">none listed</span>}</dd>
+          <dt className="font-semibold">Conclusions</dt>
+          <dd>{r.conclusions || <span className="text-ink-muted">not stated</span>}</dd>
+        </dl>
+      </section>
+      <section aria-labelledby="cells-title" className="space-y-3">
+        <h2 id="cells-title" className="text-lg font-bold">
+          Cells
+        </h2>
+        {content.cells.length === 0 ? <p className="text-ink-muted">No cells yet.</p> : null}
+        {content.cells.map((cell, i) => {
+          const result = byId.get(cell.id);
+          return (
+            <article key={cell.id} aria-label={`Cell ${i + 1}`} className={`rounded border bg-surface px-4 py-2 ${result && !result.ok ? 'border-fail' : 'border-rule'}`}>
+              <p className="text-xs text-ink-muted">
+                Cell {i + 1} · {cell.kind === 'calc' ? 'calculation' : 'text'}
+              </p>
+              {cell.kind === 'text' ? (
+                <div className="py-2">{renderText(cell.source)}</div>
+              ) : (
+                <>
+                  <pre className="my-2 overflow-x-auto rounded bg-paper p-2 font-mono text-sm">{cell.source}</pre>
+                  {result ? result.statements.map((s) => <StatementView key={`${s.line}:${s.source}`} statement={s} />) : <p className="text-sm text-ink-muted">Not evaluated.</p>}
+                </>
+              )}
+            </article>
+          );
+        })}
+      </section>
+    </div>
+  );
+}
