@@ -67,3 +67,59 @@ it('shows a demo sheet with its record, recorded results, criterion and history'
   await session.screenshot('sheet-view');
   expect(session.problems).toEqual([]);
 });
+
+it('edits a sheet, sees typeset results as it types, saves two versions and compares them', async () => {
+  const { page } = session;
+  await page.goto(`${app.baseUrl}/projects/TPT2/sheets/2/edit`);
+  await page.getByRole('heading', { level: 1, name: /Edit: Time of flight/ }).waitFor();
+  await page.getByRole('button', { name: 'Add a calculation cell' }).click();
+  const source = page.getByLabel('Cell 2 (calculation) source');
+  await source.fill('gamma_b = lorentzFactor(v_beam)\nt_proper = t_flight / gamma_b to ns\nt_proper < 100 ns');
+  await page.getByRole('article', { name: 'Cell 2 (calculation)' }).getByText('Pass').waitFor();
+  await page.getByLabel('What changed').fill('Proper time of flight of the bunch');
+  await page.getByRole('button', { name: 'Save version' }).click();
+  await page.getByRole('status').filter({ hasText: 'Saved as version 2.' }).waitFor();
+  await session.screenshot('sheet-editor');
+
+  await source.fill('gamma_b = lorentzFactor(v_beam)\nt_proper = t_flight / gamma_b to ns\nt_proper < 60 ns');
+  await page.getByLabel('What changed').fill('Tighter timing limit');
+  await page.getByRole('button', { name: 'Save version' }).click();
+  await page.getByRole('status').filter({ hasText: 'Saved as version 3.' }).waitFor();
+
+  await page.goto(`${app.baseUrl}/projects/TPT2/sheets/2/compare?base=2&target=3`);
+  await page.getByRole('heading', { level: 1, name: 'Version 2 → version 3' }).waitFor();
+  expect(await page.getByRole('article', { name: /changed/ }).locator('del').innerText()).toContain('100');
+  expect(await page.getByRole('article', { name: /changed/ }).locator('ins').innerText()).toContain('60');
+  await session.screenshot('version-comparison');
+  expect(session.problems).toEqual([]);
+});
+
+it('refuses a save based on a stale version, shows it, and carries the edits over', async () => {
+  const { page } = session;
+  await page.goto(`${app.baseUrl}/projects/TPT2/sheets/3/edit`);
+  await page.getByLabel('Objective').fill('Wavelength and speed of the probe electrons, edited in the browser.');
+  // Meanwhile someone else saves version 2 of the same sheet.
+  const other = await session.context.request.post(`${app.baseUrl}/api/sheets/${(await sheetId(3))}/versions`, {
+    data: { parentNumber: 1, message: 'Saved elsewhere', content: await latestContent(3) },
+  });
+  expect(other.status()).toBe(201);
+  await page.getByLabel('What changed').fill('Objective reworded');
+  await page.getByRole('button', { name: 'Save version' }).click();
+  await page.getByRole('alert').filter({ hasText: 'Version 2 was saved since version 1' }).waitFor();
+  await session.screenshot('save-conflict');
+  await page.getByRole('button', { name: 'Keep my edits on top of version 2' }).click();
+  await page.getByRole('button', { name: 'Save version' }).click();
+  await page.getByRole('status').filter({ hasText: 'Saved as version 3.' }).waitFor();
+  // The 409 the test provoked is the only HTTP error.
+  expect(session.problems.filter((p) => !/409/.test(p))).toEqual([]);
+});
+
+async function sheetId(number: number): Promise<string> {
+  const project = await testDb().selectFrom('projects').select('id').where('code', '=', 'TPT2').executeTakeFirstOrThrow();
+  return (await testDb().selectFrom('sheets').select('id').where('project_id', '=', project.id).where('number', '=', number).executeTakeFirstOrThrow()).id;
+}
+
+async function latestContent(number: number): Promise<unknown> {
+  const id = await sheetId(number);
+  return (await testDb().selectFrom('versions').select('content').where('sheet_id', '=', id).orderBy('number', 'desc').limit(1).executeTakeFirstOrThrow()).content;
+}

@@ -15,7 +15,7 @@ export const dynamic = 'force-dynamic';
 export default async function SheetPage({ params, searchParams }: { params: Promise<{ projectCode: string; sheetNumber: string }>; searchParams: Promise<{ version?: string }> }) {
   const { projectCode, sheetNumber } = await params;
   const { version: versionParam } = await searchParams;
-  const { project } = await pageProject(projectCode, `/projects/${projectCode}/sheets/${sheetNumber}`);
+  const { project, roles } = await pageProject(projectCode, `/projects/${projectCode}/sheets/${sheetNumber}`);
   const number = Number(sheetNumber);
   const sheet = Number.isInteger(number) && number > 0 ? await getSheetByNumber(getDb(), project.id, number) : undefined;
   if (!sheet) notFound();
@@ -43,6 +43,13 @@ export default async function SheetPage({ params, searchParams }: { params: Prom
           <p className="mt-1 text-xs text-ink-muted">
             {version.engineVersion ?? 'not evaluated'} · constants {version.constantsEdition ?? '—'}
           </p>
+          {roles.includes('originator') ? (
+            <p className="mt-3">
+              <Link href={`/projects/${project.code}/sheets/${sheet.number}/edit`} className="rounded bg-accent px-4 py-2 font-semibold text-surface no-underline hover:bg-accent-hover">
+                Edit the sheet
+              </Link>
+            </p>
+          ) : null}
         </header>
         {version.content.safetyRelated ? (
           <p role="note" className="rounded border-l-4 border-caution-rule bg-caution-soft px-4 py-3 text-sm font-semibold text-caution">
@@ -67,6 +74,11 @@ export default async function SheetPage({ params, searchParams }: { params: Prom
                 {v.author} · {v.createdAt.toISOString().slice(0, 16).replace('T', ' ')} UTC
               </span>
               <span className="block font-mono text-xs text-ink-muted">{v.sha256.slice(0, 16)}…</span>
+              {v.parentNumber ? (
+                <Link href={`/projects/${project.code}/sheets/${sheet.number}/compare?base=${v.parentNumber}&target=${v.number}`} className="text-xs text-accent underline">
+                  Compare with version {v.parentNumber}
+                </Link>
+              ) : null}
             </li>
           ))}
         </ol>

@@ -1,0 +1,101 @@
+import type { Metadata } from 'next';
+import Link from 'next/link';
+import { notFound } from 'next/navigation';
+import { getDb } from '@/db';
+import { pageProject } from '@/lib/auth/page-guard';
+import { compareVersions, type DiffPiece } from '@/lib/sheets/compare';
+import { formatSheetNumber } from '@/lib/sheets/sheet-number';
+import { getSheetByNumber, getVersion } from '@/lib/sheets/sheets';
+
+export const metadata: Metadata = { title: 'Compare versions' };
+export const dynamic = 'force-dynamic';
+
+function Diff({ pieces }: { pieces: DiffPiece[] }) {
+  return (
+    <pre className="overflow-x-auto whitespace-pre-wrap rounded bg-paper p-2 font-mono text-sm">
+      {pieces.map((p, i) =>
+        p.added ? (
+          <ins key={i} className="bg-pass-soft text-pass no-underline">
+            {p.text}
+          </ins>
+        ) : p.removed ? (
+          <del key={i} className="bg-fail-soft text-fail">
+            {p.text}
+          </del>
+        ) : (
+          <span key={i}>{p.text}</span>
+        ),
+      )}
+    </pre>
+  );
+}
+
+export default async function ComparePage({ params, searchParams }: { params: Promise<{ projectCode: string; sheetNumber: string }>; searchParams: Promise<{ base?: string; target?: string }> }) {
+  const { projectCode, sheetNumber } = await params;
+  const q = await searchParams;
+  const { project } = await pageProject(projectCode, `/projects/${projectCode}/sheets/${sheetNumber}/compare`);
+  const sheet = await getSheetByNumber(getDb(), project.id, Number(sheetNumber));
+  if (!sheet) notFound();
+  const [base, target] = await Promise.all([q.base ? getVersion(getDb(), sheet.id, Number(q.base)) : Promise.resolve(null), getVersion(getDb(), sheet.id, q.target ? Number(q.target) : undefined)]);
+  if (!target || base === undefined) notFound();
+  const c = compareVersions(base ? { content: base.content, results: base.results } : null, { content: target.content, results: target.results });
+  const changed = c.cells.filter((x) => x.status !== 'unchanged');
+  return (
+    <div className="space-y-6">
+      <header>
+        <p className="font-mono text-sm text-ink-muted">{formatSheetNumber(project.code, sheet.number)}</p>
+        <h1 className="text-2xl font-bold">
+          {base ? `Version ${base.number} → version ${target.number}` : `Version ${target.number} (first check: everything is new)`}
+        </h1>
+        <p className="mt-1 text-sm text-ink-muted">
+          Cells: {c.summary.cells.added} added, {c.summary.cells.removed} removed, {c.summary.cells.changed} changed, {c.summary.cells.moved} moved, {c.summary.cells.unchanged} unchanged.
+          Results changed: {c.summary.results.changed}. Criteria that flipped: {c.summary.criteriaFlipped}.
+        </p>
+      </header>
+      <section aria-labelledby="changed-cells" className="space-y-3">
+        <h2 id="changed-cells" className="text-lg font-bold">Changed cells</h2>
+        {changed.length === 0 ? <p className="text-ink-muted">No cell changed.</p> : null}
+        {changed.map((cell) => (
+          <article key={cell.id} aria-label={`Cell ${cell.id}, ${cell.status}`} className="rounded border border-rule bg-surface p-3">
+            <p className="text-xs font-semibold text-ink-muted">
+              {cell.id} · {cell.status}
+              {cell.moved ? ' · moved' : ''}
+            </p>
+            {cell.sourceDiff ? <Diff pieces={cell.sourceDiff} /> : null}
+          </article>
+        ))}
+      </section>
+      <section aria-labelledby="changed-results" className="space-y-2">
+        <h2 id="changed-results" className="text-lg font-bold">Results</h2>
+        <table className="w-full border-collapse text-sm">
+          <caption className="sr-only">Results that changed</caption>
+          <thead>
+            <tr className="border-b border-rule-strong text-left">
+              <th scope="col" className="py-2 pr-3">Result</th>
+              <th scope="col" className="py-2 pr-3">Status</th>
+              <th scope="col" className="py-2 pr-3">Old</th>
+              <th scope="col" className="py-2 pr-3">New</th>
+              <th scope="col" className="py-2">Relative change</th>
+            </tr>
+          </thead>
+          <tbody>
+            {c.results.filter((r) => r.status !== 'unchanged').map((r) => (
+              <tr key={r.key} className="border-b border-rule">
+                <td className="py-2 pr-3 font-mono">{r.name ?? r.key}</td>
+                <td className="py-2 pr-3">{r.status}{r.flipped ? ' (pass/fail flipped)' : ''}</td>
+                <td className="py-2 pr-3 font-mono">{r.old?.error ? `error: ${r.old.error}` : (r.old?.text ?? '—')}</td>
+                <td className="py-2 pr-3 font-mono">{r.new?.error ? `error: ${r.new.error}` : (r.new?.text ?? '—')}</td>
+                <td className="py-2 font-mono">{r.relativeChange === null ? '—' : `${(r.relativeChange * 100).toPrecision(3)} %`}</td>
+              </tr>
+            ))}
+          </tbody>
+        </table>
+      </section>
+      <p>
+        <Link href={`/projects/${project.code}/sheets/${sheet.number}?version=${target.number}`} className="font-semibold text-accent underline">
+          Open version {target.number}
+        </Link>
+      </p>
+    </div>
+  );
+}

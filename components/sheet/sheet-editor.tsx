@@ -1,0 +1,261 @@
+'use client';
+
+import Link from 'next/link';
+import { useCallback, useEffect, useMemo, useRef, useState } from 'react';
+import useSWR from 'swr';
+import { StatementView } from '@/components/calc/statement-view';
+import type { SheetResult } from '@/lib/calc/types';
+import type { Cell, VersionContent } from '@/lib/sheets/content';
+
+interface Props {
+  sheetId: string;
+  projectCode: string;
+  sheetNumber: number;
+  base: { number: number; content: VersionContent };
+}
+
+interface Draft {
+  parentNumber: number;
+  content: VersionContent;
+  savedAt: string;
+}
+
+const draftKey = (sheetId: string) => `worldsheet:draft:${sheetId}`;
+
+function newCellId(cells: Cell[]): string {
+  let n = cells.length + 1;
+  const ids = new Set(cells.map((c) => c.id));
+  while (ids.has(`c${n}`)) n++;
+  return `c${n}`;
+}
+
+async function evaluate([, sheetKey, body]: [string, string, string]): Promise<SheetResult> {
+  const response = await fetch('/api/evaluate', { method: 'POST', headers: { 'content-type': 'application/json' }, body: JSON.stringify({ ...JSON.parse(body), sheetKey }) });
+  const answer = await response.json();
+  if (!response.ok) throw new Error(answer?.error?.message ?? `HTTP ${response.status}`);
+  return answer as SheetResult;
+}
+
+/**
+ * Edits a sheet: cells (insert, delete, move), the calculation record, evaluation on the server as
+ * you type (debounced; the server re-evaluates only what changed), and "save version". Unsaved
+ * edits are kept in this browser until saved, so a reload or a crashed tab loses nothing.
+ */
+export function SheetEditor({ sheetId, projectCode, sheetNumber, base }: Props) {
+  const [parentNumber, setParentNumber] = useState(base.number);
+  const [content, setContent] = useState<VersionContent>(base.content);
+  const [restored, setRestored] = useState(false);
+  const [message, setMessage] = useState('');
+  const [status, setStatus] = useState<{ kind: 'idle' | 'saving' | 'saved' | 'error' | 'conflict'; text?: string; latest?: number }>({ kind: 'idle' });
+  const loaded = useRef(false);
+
+  // Restore a draft kept in this browser (only if it was based on the version we start from or later).
+  useEffect(() => {
+    const raw = localStorage.getItem(draftKey(sheetId));
+    if (raw) {
+      try {
+        const draft = JSON.parse(raw) as Draft;
+        if (draft.parentNumber >= base.number) {
+          setContent(draft.content);
+          setParentNumber(draft.parentNumber);
+          setRestored(true);
+        }
+      } catch {
+        localStorage.removeItem(draftKey(sheetId));
+      }
+    }
+    loaded.current = true;
+  }, [sheetId, base.number]);
+
+  useEffect(() => {
+    if (!loaded.current) return;
+    const draft: Draft = { parentNumber, content, savedAt: new Date().toISOString() };
+    localStorage.setItem(draftKey(sheetId), JSON.stringify(draft));
+  }, [sheetId, parentNumber, content]);
+
+  const [debounced, setDebounced] = useState(content);
+  useEffect(() => {
+    const t = setTimeout(() => setDebounced(content), 400);
+    return () => clearTimeout(t);
+  }, [content]);
+  const body = useMemo(() => JSON.stringify({ cells: debounced.cells, significantFigures: debounced.significantFigures }), [debounced]);
+  const { data: results, error } = useSWR(['evaluate', sheetId, body], evaluate, { keepPreviousData: true, revalidateOnFocus: false });
+  const resultById = useMemo(() => new Map((results?.cells ?? []).map((c) => [c.id, c])), [results]);
+
+  const update = useCallback((change: (c: VersionContent) => VersionContent) => setContent((c) => change(c)), []);
+  const setCell = (i: number, source: string) => update((c) => ({ ...c, cells: c.cells.map((x, j) => (j === i ? { ...x, source } : x)) }));
+  const insertCell = (at: number, kind: Cell['kind']) =>
+    update((c) => ({ ...c, cells: [...c.cells.slice(0, at), { id: newCellId(c.cells), kind, source: '' }, ...c.cells.slice(at)] }));
+  const removeCell = (i: number) => update((c) => ({ ...c, cells: c.cells.filter((_, j) => j !== i) }));
+  const moveCell = (i: number, by: -1 | 1) =>
+    update((c) => {
+      const j = i + by;
+      if (j < 0 || j >= c.cells.length) return c;
+      const cells = [...c.cells];
+      [cells[i], cells[j]] = [cells[j], cells[i]];
+      return { ...c, cells };
+    });
+
+  async function save() {
+    setStatus({ kind: 'saving' });
+    const response = await fetch(`/api/sheets/${sheetId}/versions`, {
+      method: 'POST',
+      headers: { 'content-type': 'application/json' },
+      body: JSON.stringify({ parentNumber, message, content }),
+    });
+    const answer = await response.json().catch(() => ({}));
+    if (response.status === 409) {
+      setStatus({ kind: 'conflict', text: answer.error?.message, latest: answer.error?.details?.latestNumber });
+      return;
+    }
+    if (!response.ok) {
+      setStatus({ kind: 'error', text: answer.error?.message ?? `The server answered ${response.status}.` });
+      return;
+    }
+    localStorage.removeItem(draftKey(sheetId));
+    setParentNumber(answer.number);
+    setMessage('');
+    setRestored(false);
+    setStatus({ kind: 'saved', text: `Saved as version ${answer.number}.` });
+  }
+
+  /** Keeps the edits and bases them on the latest version; the next save records that. */
+  function carryOver() {
+    if (status.latest) setParentNumber(status.latest);
+    setStatus({ kind: 'idle', text: undefined });
+  }
+
+  const record = content.record;
+  const setRecord = (patch: Partial<VersionContent['record']>) => update((c) => ({ ...c, record: { ...c.record, ...patch } }));
+
+  return (
+    <div className="space-y-6">
+      {restored ? (
+        <p role="status" className="rounded border border-caution-rule bg-caution-soft px-3 py-2 text-sm text-caution">
+          Unsaved edits from this browser were restored (based on version {parentNumber}).
+        </p>
+      ) : null}
+
+      <section aria-labelledby="editor-record" className="space-y-3 rounded border border-rule bg-surface p-4">
+        <h2 id="editor-record" className="text-lg font-bold">
+          Calculation record
+        </h2>
+        <div>
+          <label htmlFor="ed-title" className="block text-sm font-semibold">Title</label>
+          <input id="ed-title" value={content.title} onChange={(e) => update((c) => ({ ...c, title: e.target.value }))} className="w-full rounded border border-rule-strong bg-surface px-3 py-2" />
+        </div>
+        {(['objective', 'method', 'conclusions'] as const).map((field) => (
+          <div key={field}>
+            <label htmlFor={`ed-${field}`} className="block text-sm font-semibold capitalize">{field}</label>
+            <textarea id={`ed-${field}`} rows={2} value={record[field]} onChange={(e) => setRecord({ [field]: e.target.value })} className="w-full rounded border border-rule-strong bg-surface px-3 py-2" />
+          </div>
+        ))}
+        <div>
+          <label htmlFor="ed-references" className="block text-sm font-semibold">References (one per line)</label>
+          <textarea id="ed-references" rows={2} value={record.references.join('\n')} onChange={(e) => setRecord({ references: e.target.value.split('\n').filter((x) => x.trim() !== '') })} className="w-full rounded border border-rule-strong bg-surface px-3 py-2" />
+        </div>
+        <p className="text-xs text-ink-muted">
+          Design inputs and assumptions: {record.inputs.length} inputs, {record.assumptions.length} assumptions (edited in the sheet file for now).
+        </p>
+      </section>
+
+      <section aria-labelledby="editor-cells" className="space-y-3">
+        <h2 id="editor-cells" className="text-lg font-bold">
+          Cells
+        </h2>
+        {error ? (
+          <p role="alert" className="rounded bg-fail-soft px-3 py-2 text-sm text-fail">
+            Evaluation failed: {(error as Error).message}
+          </p>
+        ) : null}
+        {content.cells.map((cell, i) => {
+          const result = resultById.get(cell.id);
+          const label = `Cell ${i + 1} (${cell.kind === 'calc' ? 'calculation' : 'text'})`;
+          return (
+            <article key={cell.id} aria-label={label} className={`rounded border bg-surface p-3 ${result && !result.ok ? 'border-fail' : 'border-rule'}`}>
+              <div className="mb-2 flex flex-wrap items-center gap-2 text-xs">
+                <span className="font-semibold text-ink-muted">{label}</span>
+                <span className="ml-auto flex gap-1">
+                  <button type="button" onClick={() => moveCell(i, -1)} disabled={i === 0} className="rounded border border-rule px-2 py-1 disabled:opacity-40" aria-label={`Move cell ${i + 1} up`}>
+                    ↑
+                  </button>
+                  <button type="button" onClick={() => moveCell(i, 1)} disabled={i === content.cells.length - 1} className="rounded border border-rule px-2 py-1 disabled:opacity-40" aria-label={`Move cell ${i + 1} down`}>
+                    ↓
+                  </button>
+                  <button type="button" onClick={() => insertCell(i + 1, 'calc')} className="rounded border border-rule px-2 py-1" aria-label={`Insert a calculation cell after cell ${i + 1}`}>
+                    + calc
+                  </button>
+                  <button type="button" onClick={() => insertCell(i + 1, 'text')} className="rounded border border-rule px-2 py-1" aria-label={`Insert a text cell after cell ${i + 1}`}>
+                    + text
+                  </button>
+                  <button type="button" onClick={() => removeCell(i)} className="rounded border border-fail px-2 py-1 text-fail" aria-label={`Delete cell ${i + 1}`}>
+                    Delete
+                  </button>
+                </span>
+              </div>
+              <textarea
+                aria-label={`${label} source`}
+                value={cell.source}
+                onChange={(e) => setCell(i, e.target.value)}
+                spellCheck={cell.kind === 'text'}
+                rows={Math.max(2, cell.source.split('\n').length + 1)}
+                className={`w-full rounded border border-rule-strong bg-surface p-2 text-sm ${cell.kind === 'calc' ? 'font-mono' : ''}`}
+              />
+              {cell.kind === 'calc' && result ? (
+                <div aria-live="polite" className="mt-2">
+                  {result.statements.map((s) => (
+                    <StatementView key={`${s.line}:${s.source}`} statement={s} />
+                  ))}
+                </div>
+              ) : null}
+            </article>
+          );
+        })}
+        <div className="flex gap-2">
+          <button type="button" onClick={() => insertCell(content.cells.length, 'calc')} className="rounded border border-rule-strong bg-surface px-3 py-2 text-sm font-semibold">
+            Add a calculation cell
+          </button>
+          <button type="button" onClick={() => insertCell(content.cells.length, 'text')} className="rounded border border-rule-strong bg-surface px-3 py-2 text-sm font-semibold">
+            Add a text cell
+          </button>
+        </div>
+      </section>
+
+      <section aria-labelledby="editor-save" className="space-y-2 rounded border border-rule bg-surface p-4">
+        <h2 id="editor-save" className="text-lg font-bold">
+          Save a version
+        </h2>
+        <p className="text-sm text-ink-muted">Based on version {parentNumber}. A saved version never changes; its SHA-256 identifies it.</p>
+        <label htmlFor="ed-message" className="block text-sm font-semibold">
+          What changed
+        </label>
+        <input id="ed-message" value={message} onChange={(e) => setMessage(e.target.value)} className="w-full rounded border border-rule-strong bg-surface px-3 py-2" />
+        <button type="button" onClick={save} disabled={!message.trim() || status.kind === 'saving'} className="rounded bg-accent px-4 py-2 font-semibold text-surface hover:bg-accent-hover disabled:opacity-60">
+          {status.kind === 'saving' ? 'Saving…' : 'Save version'}
+        </button>
+        <div role={status.kind === 'error' || status.kind === 'conflict' ? 'alert' : 'status'} aria-live="polite" className="text-sm">
+          {status.kind === 'saved' ? (
+            <span className="text-pass">
+              {status.text}{' '}
+              <Link href={`/projects/${projectCode}/sheets/${sheetNumber}`} className="font-semibold text-accent underline">
+                View the sheet
+              </Link>
+            </span>
+          ) : null}
+          {status.kind === 'error' ? <span className="text-fail">{status.text}</span> : null}
+          {status.kind === 'conflict' ? (
+            <span className="text-fail">
+              {status.text}{' '}
+              <Link href={`/projects/${projectCode}/sheets/${sheetNumber}/compare?base=${parentNumber}&target=${status.latest}`} className="font-semibold text-accent underline">
+                See what changed
+              </Link>{' '}
+              <button type="button" onClick={carryOver} className="font-semibold text-accent underline">
+                Keep my edits on top of version {status.latest}
+              </button>
+            </span>
+          ) : null}
+        </div>
+      </section>
+    </div>
+  );
+}
