@@ -2,6 +2,7 @@
 
 import { useEffect, useId, useState } from 'react';
 import useSWR from 'swr';
+import { CalcEditor } from '@/components/sheet/calc-editor';
 import type { SheetResult } from '@/lib/calc/types';
 import { StatementView } from './statement-view';
 
@@ -40,21 +41,14 @@ export function ScratchPad() {
   return (
     <div className="grid gap-6 lg:grid-cols-2">
       <div>
-        <label htmlFor={inputId} className="block font-semibold">
+        <p id={inputId} className="block font-semibold">
           Calculation cell
-        </label>
+        </p>
         <p id={helpId} className="text-sm text-ink-muted">
           One statement per line; <code className="font-mono">#</code> starts a comment. Names are defined once, above their use.
+          Ctrl-Space lists names, constants and functions; Escape then Tab leaves the editor.
         </p>
-        <textarea
-          id={inputId}
-          aria-describedby={helpId}
-          value={source}
-          onChange={(e) => setSource(e.target.value)}
-          spellCheck={false}
-          rows={14}
-          className="mt-2 w-full rounded border border-rule-strong bg-surface p-3 font-mono text-sm leading-6 text-ink"
-        />
+        <CalcEditor value={source} onChange={setSource} label="Calculation cell" describedBy={helpId} minLines={14} className="mt-2" />
       </div>
       <section aria-labelledby={`${inputId}-results`} aria-live="polite" aria-busy={isLoading}>
         <h2 id={`${inputId}-results`} className="font-semibold">

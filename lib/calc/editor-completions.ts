@@ -1,0 +1,95 @@
+// Completion for the calculation cell editor: names defined in the cells above, the built-in
+// constants (with their description and provenance) and the relativistic library (with its
+// signature and one-line summary). Pure: no React, no DOM, so tests can call it directly.
+import type { Completion, CompletionContext, CompletionResult, CompletionSource } from '@codemirror/autocomplete';
+import { CONSTANTS } from './constants';
+import { LIBRARY, type CalcFunction } from './functions';
+
+export interface NameAbove {
+  name: string;
+  /** A short description: what the cell defines it as, its unit, its value. */
+  summary?: string;
+}
+
+/** `name(param, …)` of a library function. */
+export function functionSignature(fn: Pick<CalcFunction, 'name' | 'params'>): string {
+  return `${fn.name}(${fn.params.map((p) => p.name).join(', ')})`;
+}
+
+function firstSentence(text: string): string {
+  const flat = text.replace(/\s+/g, ' ').trim();
+  const m = /^(.*?[.!?])(?:\s|$)/.exec(flat);
+  return m ? m[1] : flat;
+}
+
+/** Every completion the editor offers, names above first (most recent definition wins). */
+export function calcCompletionOptions(namesAbove: readonly NameAbove[] = []): Completion[] {
+  const seen = new Set<string>();
+  const options: Completion[] = [];
+  for (const n of [...namesAbove].reverse()) {
+    if (seen.has(n.name)) continue;
+    seen.add(n.name);
+    options.push({ label: n.name, type: 'variable', detail: 'defined above', info: n.summary, boost: 2 });
+  }
+  for (const k of CONSTANTS) {
+    if (seen.has(k.name)) continue;
+    seen.add(k.name);
+    options.push({
+      label: k.name,
+      type: 'constant',
+      detail: k.unit === '' ? 'constant' : `constant, ${k.unit}`,
+      info: `${k.description} — ${k.provenance}`,
+      boost: 1,
+    });
+  }
+  for (const f of LIBRARY) {
+    if (seen.has(f.name)) continue;
+    seen.add(f.name);
+    options.push({
+      label: f.name,
+      type: 'function',
+      detail: functionSignature(f).slice(f.name.length),
+      info: `${functionSignature(f)} — ${firstSentence(f.doc.summary)}`,
+      apply: `${f.name}(`,
+    });
+  }
+  return options;
+}
+
+/** True when `before` (the line up to the cursor) ends inside a string or a `#` comment. */
+export function inCommentOrString(before: string): boolean {
+  let quote: string | null = null;
+  for (let i = 0; i < before.length; i++) {
+    const ch = before[i];
+    if (quote) {
+      if (ch === '\\') i++;
+      else if (ch === quote) quote = null;
+    } else if (ch === '"' || ch === "'") quote = ch;
+    else if (ch === '#') return true;
+  }
+  return quote !== null;
+}
+
+const WORD = /[A-Za-z_][A-Za-z0-9_]*$/;
+
+/**
+ * The completion for a cursor at `pos` in `lineBefore` (the text of its line before it): null when
+ * nothing should be offered (inside a comment or string, right after a digit, or no word typed and
+ * not explicitly asked for).
+ */
+export function completeCalcAt(lineBefore: string, pos: number, explicit: boolean, namesAbove: readonly NameAbove[]): CompletionResult | null {
+  if (inCommentOrString(lineBefore)) return null;
+  const word = WORD.exec(lineBefore);
+  if (word && word.index > 0 && /[0-9.]/.test(lineBefore[word.index - 1])) return null;
+  if (!word && !explicit) return null;
+  const from = word ? pos - word[0].length : pos;
+  return { from, options: calcCompletionOptions(namesAbove), validFor: /^[A-Za-z_][A-Za-z0-9_]*$/ };
+}
+
+/** A CodeMirror completion source; `namesAbove` is read at each request so it can change. */
+export function calcCompletionSource(namesAbove: () => readonly NameAbove[]): CompletionSource {
+  return (context: CompletionContext) => {
+    const line = context.state.doc.lineAt(context.pos);
+    return completeCalcAt(line.text.slice(0, context.pos - line.from), context.pos, context.explicit, namesAbove());
+  };
+}
