@@ -4,6 +4,8 @@ import Link from 'next/link';
 import { useCallback, useEffect, useMemo, useRef, useState } from 'react';
 import useSWR from 'swr';
 import { StatementView } from '@/components/calc/statement-view';
+import { CalcEditor } from './calc-editor';
+import { MarkdownView } from './markdown-view';
 import type { SheetResult } from '@/lib/calc/types';
 import type { Cell, VersionContent } from '@/lib/sheets/content';
 
@@ -193,14 +195,26 @@ export function SheetEditor({ sheetId, projectCode, sheetNumber, base }: Props) 
                   </button>
                 </span>
               </div>
-              <textarea
-                aria-label={`${label} source`}
-                value={cell.source}
-                onChange={(e) => setCell(i, e.target.value)}
-                spellCheck={cell.kind === 'text'}
-                rows={Math.max(2, cell.source.split('\n').length + 1)}
-                className={`w-full rounded border border-rule-strong bg-surface p-2 text-sm ${cell.kind === 'calc' ? 'font-mono' : ''}`}
-              />
+              {cell.kind === 'calc' ? (
+                <CalcEditor
+                  label={`${label} source`}
+                  value={cell.source}
+                  onChange={(value) => setCell(i, value)}
+                  namesAbove={content.cells.slice(0, i).flatMap((above) => (resultById.get(above.id)?.defines ?? []).map((name) => ({ name })))}
+                  minLines={2}
+                />
+              ) : (
+                <>
+                  <textarea
+                    aria-label={`${label} source`}
+                    value={cell.source}
+                    onChange={(e) => setCell(i, e.target.value)}
+                    rows={Math.max(2, cell.source.split('\n').length + 1)}
+                    className="w-full rounded border border-rule-strong bg-surface p-2 text-sm"
+                  />
+                  <MarkdownView source={cell.source} className="mt-2" />
+                </>
+              )}
               {cell.kind === 'calc' && result ? (
                 <div aria-live="polite" className="mt-2">
                   {result.statements.map((s) => (

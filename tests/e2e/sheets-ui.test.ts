@@ -31,6 +31,7 @@ it('lists the sheets in a sortable, filterable register', async () => {
   const { page } = session;
   await page.goto(`${app.baseUrl}/projects/TPT2`);
   const rows = page.getByRole('table', { name: 'Calculation sheets of TPT2' }).getByRole('row');
+  await rows.filter({ hasText: 'TPT2-CALC-0003' }).waitFor();
   await expect(rows.count()).resolves.toBe(4);
   await page.getByLabel('Filter').fill('electron');
   await expect(rows.count()).resolves.toBe(2);

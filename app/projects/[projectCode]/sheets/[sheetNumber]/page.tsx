@@ -1,6 +1,7 @@
 import type { Metadata } from 'next';
 import Link from 'next/link';
 import { notFound } from 'next/navigation';
+import { MarkdownView } from '@/components/sheet/markdown-view';
 import { VersionView } from '@/components/sheet/version-view';
 import { CautionNotice } from '@/components/shell/caution-notice';
 import { getDb } from '@/db';
@@ -57,7 +58,7 @@ export default async function SheetPage({ params, searchParams }: { params: Prom
           </p>
         ) : null}
         <CautionNotice compact />
-        <VersionView content={version.content} results={version.results} renderText={(source) => <p className="whitespace-pre-wrap">{source}</p>} />
+        <VersionView content={version.content} results={version.results} renderText={(source) => <MarkdownView source={source} />} />
       </div>
       <aside aria-labelledby="history-title" className="space-y-2">
         <h2 id="history-title" className="font-bold">
