@@ -97,6 +97,8 @@ interface CachedCell {
   result: CellResult;
   values: Map<string, unknown>;
   failed: Map<string, string>;
+  /** TeX of each defined value as substituted into later formulas, made once when cached. */
+  substitutions: Array<[string, string]>;
 }
 
 export function createSheetEngine(): SheetEngine {
@@ -357,9 +359,7 @@ export function createSheetEngine(): SheetEngine {
           scope.set(name, value);
           texValue.delete(name);
         }
-        for (const st of cached.result.statements) {
-          if (st.kind === 'definition' && st.name && st.value && !st.error) texValue.set(st.name, substitutionTex(st.value.tex));
-        }
+        for (const [name, tex] of cached.substitutions) texValue.set(name, tex);
         for (const [name, why] of cached.failed) failed.set(name, why);
         for (const st of statements) if (st.defines && !definedAt.has(st.defines)) definedAt.set(st.defines, { cell: ci, line: st.line });
         for (const name of ownNames) nameKey.set(name, key);
@@ -478,7 +478,12 @@ export function createSheetEngine(): SheetEngine {
         uses: external,
       };
       results.push(cellResult);
-      if (!skipReason) remember(cellCache, key, { result: cellResult, values, failed: cellFailed }, LIMITS.cellCacheEntries);
+      if (!skipReason) {
+        const substitutions = out
+          .filter((st) => st.kind === 'definition' && st.name && st.value && !st.error)
+          .map((st) => [st.name!, substitutionTex(st.value!.tex)] as [string, string]);
+        remember(cellCache, key, { result: cellResult, values, failed: cellFailed, substitutions }, LIMITS.cellCacheEntries);
+      }
     }
 
     return {
