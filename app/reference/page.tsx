@@ -1,4 +1,5 @@
 import type { Metadata } from 'next';
+import { FunctionReference } from '@/components/calc/function-reference';
 import { TexMath } from '@/components/calc/tex-math';
 import { CONSTANTS, CONSTANTS_EDITION } from '@/lib/calc/constants';
 import { LIBRARY } from '@/lib/calc/functions';
@@ -74,42 +75,20 @@ export default function ReferencePage() {
           A speed argument takes a velocity in any speed unit or a plain number read as β = v/c. Inputs outside the domain
           are refused with a message naming the function and the value.
         </p>
-        <div className="mt-4 space-y-4">
-          {LIBRARY.map((f) => (
-            <article key={f.name} id={f.name} aria-labelledby={`${f.name}-title`} className="rounded border border-rule bg-surface p-4">
-              <h3 id={`${f.name}-title`} className="font-mono text-base font-bold">
-                {f.name}({f.params.map((p) => p.name).join(', ')})
-              </h3>
-              <p className="mt-1">{f.doc.summary}</p>
-              <div className="mt-2 overflow-x-auto">
-                <TexMath tex={f.doc.formula} display />
-              </div>
-              <dl className="mt-2 grid gap-x-4 gap-y-1 text-sm sm:grid-cols-[8rem_minmax(0,1fr)]">
-                <dt className="font-semibold">Arguments</dt>
-                <dd>
-                  {f.params.map((p) => (
-                    <span key={p.name} className="block">
-                      <code className="font-mono">{p.name}</code>: {p.description} ({KIND_LABEL[p.kind]})
-                    </span>
-                  ))}
-                </dd>
-                <dt className="font-semibold">Domain</dt>
-                <dd>{f.doc.domain}</dd>
-                <dt className="font-semibold">Example</dt>
-                <dd>
-                  <code className="font-mono">{f.doc.example}</code> → {f.doc.exampleResult}
-                </dd>
-                {f.doc.numerics ? (
-                  <>
-                    <dt className="font-semibold">Numerics</dt>
-                    <dd>{f.doc.numerics}</dd>
-                  </>
-                ) : null}
-                <dt className="font-semibold">Source</dt>
-                <dd>{f.doc.source}</dd>
-              </dl>
-            </article>
-          ))}
+        <div className="mt-4">
+          <FunctionReference
+            functions={LIBRARY.map((f) => ({
+              name: f.name,
+              params: f.params.map((p) => ({ name: p.name, description: p.description, kindLabel: KIND_LABEL[p.kind] })),
+              summary: f.doc.summary,
+              formula: f.doc.formula,
+              domain: f.doc.domain,
+              example: f.doc.example,
+              exampleResult: f.doc.exampleResult,
+              numerics: f.doc.numerics,
+              source: f.doc.source,
+            }))}
+          />
         </div>
       </section>
     </div>
