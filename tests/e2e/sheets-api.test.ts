@@ -87,6 +87,28 @@ describe('sheets and versions', () => {
     expect((await api(`/api/sheets/${sheetId}/compare?base=7&target=2`)).status).toBe(404);
   });
 
+  it('exports a version as a sheet file that the command-line evaluator reads, and imports it back', async () => {
+    const response = await fetch(`${app.baseUrl}/api/sheets/${sheetId}/export?version=2`, { headers: { authorization: `Bearer ${token}` } });
+    expect(response.status).toBe(200);
+    expect(response.headers.get('content-disposition')).toBe('attachment; filename="BEAM-CALC-0001-v2.json"');
+    const file = await response.json();
+    expect(file).toMatchObject({ title: 'Rigidity of the transfer line', cells: [{ id: 'c1', kind: 'calc' }], exportedFrom: { sheet: 'BEAM-CALC-0001', version: 2 } });
+    const { mkdtempSync, writeFileSync } = await import('node:fs');
+    const { tmpdir } = await import('node:os');
+    const path = `${mkdtempSync(`${tmpdir()}/ws-export-`)}/sheet.json`;
+    writeFileSync(path, JSON.stringify(file));
+    const { spawnSync } = await import('node:child_process');
+    const cli = spawnSync('npm', ['run', '-s', 'calc', '--', path, '--json'], { cwd: process.cwd(), encoding: 'utf8', timeout: 60_000 });
+    expect(cli.status).toBe(0);
+    // 250 MeV protons: Bρ = 2.432 13 T m (see tests/e2e/calc.test.ts for the derivation).
+    expect(JSON.parse(cli.stdout).values.Brho.value).toBeCloseTo(2.43213, 4);
+    const imported = await api(`/api/projects/${projectId}/sheets/import`, { method: 'POST', body: file });
+    expect(imported).toMatchObject({ status: 201, body: { code: 'BEAM-CALC-0003', version: 2 } });
+    const v = (await api(`/api/sheets/${imported.body.id}/versions/2`)).body.version;
+    expect(v.content.cells).toEqual(file.cells);
+    expect((await api(`/api/projects/${projectId}/sheets/import`, { method: 'POST', body: { cells: [] } })).status).toBe(400);
+  });
+
   it('refuses content that is not a sheet, and an unknown sheet or version', async () => {
     expect((await api(`/api/sheets/${sheetId}/versions`, { method: 'POST', body: { parentNumber: 2, message: 'x', content: { cells: 'no' } } })).status).toBe(400);
     expect((await api('/api/sheets/00000000-0000-4000-8000-000000000000')).status).toBe(404);

@@ -1,0 +1,49 @@
+// Sheet files (product brief, "Sheet files and the command-line evaluator"): export a version as
+// JSON that the command-line evaluator reads, and import such a file as a new sheet.
+import type { Kysely } from 'kysely';
+import type { Database } from '@/db/schema';
+import type { Actor } from '@/lib/auth/actor';
+import { cellsOf, DEFAULT_SIGNIFICANT_FIGURES, parseSheetFile, SheetFileError } from '@/lib/calc/sheet-file';
+import { AppError } from '@/lib/errors/app-error';
+import { calculationRecordSchema, emptyRecord, versionContentSchema, type VersionContent } from './content';
+import { createSheet, saveVersion } from './sheets';
+
+export const SHEET_FILE_MAX_BYTES = 4 * 1024 * 1024;
+
+/** The file for one version: the smallest valid form plus what Worldsheet records with it. */
+export function sheetFileOf(content: VersionContent, meta: { number: string; version: number; sha256: string }) {
+  return {
+    title: content.title,
+    cells: content.cells.map((c) => ({ id: c.id, kind: c.kind, source: c.source })),
+    significantFigures: content.significantFigures,
+    safetyRelated: content.safetyRelated,
+    record: content.record,
+    exportedFrom: { sheet: meta.number, version: meta.version, sha256: meta.sha256 },
+  };
+}
+
+/** Creates a sheet from a sheet file's text: version 1 as created, version 2 holding the file. */
+export async function importSheetFile(db: Kysely<Database>, actor: Actor, project: { id: string; code: string }, text: string) {
+  let file;
+  try {
+    file = parseSheetFile(text);
+  } catch (error) {
+    if (error instanceof SheetFileError) throw new AppError('bad_request', error.message);
+    throw error;
+  }
+  if (!file.title.trim()) throw new AppError('bad_request', 'not a sheet file: title: the title is empty');
+  const record = calculationRecordSchema.safeParse(file.record);
+  const content = versionContentSchema.safeParse({
+    schema: 1,
+    title: file.title.trim(),
+    safetyRelated: file.safetyRelated === true,
+    significantFigures: file.significantFigures ?? DEFAULT_SIGNIFICANT_FIGURES,
+    record: record.success ? record.data : emptyRecord(),
+    cells: cellsOf(file),
+    attachments: [],
+  });
+  if (!content.success) throw new AppError('bad_request', `not a sheet file: ${content.error.issues[0].path.join('.')}: ${content.error.issues[0].message}`);
+  const sheet = await createSheet(db, actor, project, { title: content.data.title, safetyRelated: content.data.safetyRelated, objective: content.data.record.objective });
+  const saved = await saveVersion(db, actor, { id: sheet.id, project_id: project.id }, { parentNumber: 1, message: 'Imported from a sheet file', content: content.data });
+  return { ...sheet, version: saved.number, sha256: saved.sha256 };
+}
