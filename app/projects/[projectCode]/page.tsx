@@ -3,6 +3,7 @@ import Link from 'next/link';
 import { getDb } from '@/db';
 import { pageProject } from '@/lib/auth/page-guard';
 import { CreateSheetForm } from '@/components/sheet/create-sheet-form';
+import { ImportSheetForm } from '@/components/sheet/import-sheet-form';
 import { SheetRegister } from '@/components/sheet/sheet-register';
 import { listMembers, ROLE_LABELS } from '@/lib/projects/projects';
 import { listSheets } from '@/lib/sheets/sheets';
@@ -42,6 +43,9 @@ export default async function ProjectPage({ params }: { params: Promise<{ projec
             <summary className="cursor-pointer font-semibold">New sheet</summary>
             <div className="mt-3">
               <CreateSheetForm projectId={project.id} projectCode={project.code} />
+            </div>
+            <div className="mt-4 border-t border-rule pt-3">
+              <ImportSheetForm projectId={project.id} projectCode={project.code} />
             </div>
           </details>
         ) : null}

@@ -44,6 +44,11 @@ export default async function SheetPage({ params, searchParams }: { params: Prom
           <p className="mt-1 text-xs text-ink-muted">
             {version.engineVersion ?? 'not evaluated'} · constants {version.constantsEdition ?? '—'}
           </p>
+          <p className="mt-2 text-sm">
+            <a href={`/api/sheets/${sheet.id}/export?version=${version.number}`} download className="font-semibold text-accent underline">
+              Download version {version.number} as a sheet file
+            </a>
+          </p>
           {roles.includes('originator') ? (
             <p className="mt-3">
               <Link href={`/projects/${project.code}/sheets/${sheet.number}/edit`} className="rounded bg-accent px-4 py-2 font-semibold text-surface no-underline hover:bg-accent-hover">
