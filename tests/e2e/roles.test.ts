@@ -84,7 +84,7 @@ describe('demo roles in the browser', () => {
       expect(await page.getByRole('row', { name: /TPT2/ }).innerText()).toContain('administration only');
       await page.getByRole('link', { name: 'Administration' }).click();
       await page.getByRole('heading', { level: 1, name: 'Administration' }).waitFor();
-      await page.getByRole('cell', { name: 'checker@demo.test' }).waitFor();
+      await page.getByRole('cell', { name: 'checker@demo.test', exact: true }).waitFor();
       await page.getByRole('cell', { name: /Demo Checker/ }).first().waitFor();
       await session.screenshot('administration');
       await page.goto(`${app.baseUrl}/projects/TPT2`);

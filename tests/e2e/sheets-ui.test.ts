@@ -64,7 +64,7 @@ it('shows a demo sheet with its record, recorded results, criterion and history'
   await page.locator('.katex').first().waitFor();
   expect(await page.getByText('Pass', { exact: true }).count()).toBe(1);
   expect(await page.getByText(/2\.432\s?13 T·m/).count()).toBeGreaterThan(0);
-  await page.getByRole('link', { name: 'Version 1' }).waitFor();
+  await page.getByRole('link', { name: 'Version 1', exact: true }).waitFor();
   await session.screenshot('sheet-view');
   expect(session.problems).toEqual([]);
 });
