@@ -6,6 +6,7 @@ import useSWR from 'swr';
 import { StatementView } from '@/components/calc/statement-view';
 import { CalcEditor } from './calc-editor';
 import { MarkdownView } from './markdown-view';
+import { RecordListsEditor } from './record-lists-editor';
 import type { SheetResult } from '@/lib/calc/types';
 import type { Cell, VersionContent } from '@/lib/sheets/content';
 
@@ -156,9 +157,7 @@ export function SheetEditor({ sheetId, projectCode, sheetNumber, base }: Props) 
           <label htmlFor="ed-references" className="block text-sm font-semibold">References (one per line)</label>
           <textarea id="ed-references" rows={2} value={record.references.join('\n')} onChange={(e) => setRecord({ references: e.target.value.split('\n').filter((x) => x.trim() !== '') })} className="w-full rounded border border-rule-strong bg-surface px-3 py-2" />
         </div>
-        <p className="text-xs text-ink-muted">
-          Design inputs and assumptions: {record.inputs.length} inputs, {record.assumptions.length} assumptions (edited in the sheet file for now).
-        </p>
+        <RecordListsEditor record={record} onChange={setRecord} />
       </section>
 
       <section aria-labelledby="editor-cells" className="space-y-3">

@@ -77,6 +77,13 @@ it('edits a sheet, sees typeset results as it types, saves two versions and comp
   const source = page.getByLabel('Cell 2 (calculation) source');
   await source.fill('gamma_b = lorentzFactor(v_beam)\nt_proper = t_flight / gamma_b to ns\nt_proper < 100 ns');
   await page.getByRole('article', { name: 'Cell 2 (calculation)' }).getByText('Pass').waitFor();
+  await page.getByRole('button', { name: 'Add an assumption' }).click();
+  await page.getByLabel('Assumption 1', { exact: true }).fill('The bunch travels on the design orbit between the monitors.');
+  await page.getByRole('button', { name: 'Add a design input' }).click();
+  await page.getByLabel('Input 2 name').fill('Beam kinetic energy');
+  await page.getByLabel('Input 2 value').fill('150 MeV');
+  await page.getByLabel('Input 2 source', { exact: true }).fill('TPT2 beam requirements specification (demo)');
+  await page.getByLabel('Input 2 source revision').fill('C');
   await page.getByLabel('What changed').fill('Proper time of flight of the bunch');
   await page.getByRole('button', { name: 'Save version' }).click();
   await page.getByRole('status').filter({ hasText: 'Saved as version 2.' }).waitFor();
@@ -87,6 +94,9 @@ it('edits a sheet, sees typeset results as it types, saves two versions and comp
   await page.getByRole('button', { name: 'Save version' }).click();
   await page.getByRole('status').filter({ hasText: 'Saved as version 3.' }).waitFor();
 
+  await page.goto(`${app.baseUrl}/projects/TPT2/sheets/2?version=2`);
+  await page.getByText('The bunch travels on the design orbit between the monitors.').waitFor();
+  await page.getByText(/Beam kinetic energy: 150 MeV — TPT2 beam requirements specification \(demo\), revision C/).waitFor();
   await page.goto(`${app.baseUrl}/projects/TPT2/sheets/2/compare?base=2&target=3`);
   await page.getByRole('heading', { level: 1, name: 'Version 2 → version 3' }).waitFor();
   expect(await page.getByRole('article', { name: /changed/ }).locator('del').innerText()).toContain('100');
