@@ -2,6 +2,7 @@
 
 import { useState } from 'react';
 import useSWR from 'swr';
+import { fetchJson as fetcher } from '@/components/data/fetch-json';
 import { JsonForm } from '@/components/forms/json-form';
 
 interface TokenRow {
@@ -13,11 +14,6 @@ interface TokenRow {
   revoked_at: string | null;
 }
 
-const fetcher = async (url: string) => {
-  const r = await fetch(url);
-  if (!r.ok) throw new Error(`HTTP ${r.status}`);
-  return r.json();
-};
 
 export function ApiTokensPanel() {
   const { data, mutate } = useSWR<{ tokens: TokenRow[] }>('/api/account/tokens', fetcher);

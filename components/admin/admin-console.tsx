@@ -2,6 +2,7 @@
 
 import { useState } from 'react';
 import useSWR from 'swr';
+import { fetchJson as fetcher } from '@/components/data/fetch-json';
 import { JsonForm } from '@/components/forms/json-form';
 
 interface UserRow {
@@ -35,11 +36,6 @@ const ROLES = [
   { value: 'viewer', label: 'Viewer' },
 ];
 
-const fetcher = async (url: string) => {
-  const r = await fetch(url);
-  if (!r.ok) throw new Error(`HTTP ${r.status}`);
-  return r.json();
-};
 
 function UserAction({ user, action, onDone }: { user: UserRow; action: 'disable' | 'enable' | 'unlock'; onDone: () => void }) {
   const [open, setOpen] = useState(false);

@@ -7,7 +7,7 @@ import type { Database } from '@/db/schema';
 import { recordAudit } from '@/lib/audit/record';
 import { AppError } from '@/lib/errors/app-error';
 import { enqueueMail } from '@/lib/mail/outbox';
-import { appUrl } from '@/lib/projects/users';
+import { appUrl } from '@/lib/http/app-url';
 import type { Actor } from './actor';
 import { consumeEmailToken, createEmailToken } from './email-tokens';
 import { hashPassword, passwordProblem, verifyPassword } from './password';

@@ -9,6 +9,7 @@ import { endUserSessions } from '@/lib/auth/sessions';
 import { AUTH_SETTINGS } from '@/lib/auth/settings';
 import { recordAudit } from '@/lib/audit/record';
 import { AppError } from '@/lib/errors/app-error';
+import { appUrl } from '@/lib/http/app-url';
 import { enqueueMail } from '@/lib/mail/outbox';
 
 export const inviteSchema = z.object({
@@ -21,10 +22,6 @@ export const userChangeSchema = z.object({
   action: z.enum(['disable', 'enable', 'unlock']),
   reason: z.string().trim().min(3, 'give a reason').max(1000),
 });
-
-export function appUrl(): string {
-  return (process.env.NEXTAUTH_URL ?? 'http://127.0.0.1:3000').replace(/\/$/, '');
-}
 
 export async function listUsers(db: Kysely<Database>) {
   return db

@@ -4,7 +4,7 @@ import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { seedDemo } from '../../db/seed';
 import { resetDatabase, testDb } from '../support/database';
 import { clearMailbox, waitForMail } from '../support/mailbox';
-import { closeBrowser, openBrowser, startApp, type RunningApp } from './harness';
+import { closeBrowser, openBrowser, startApp, submitSignIn, type RunningApp } from './harness';
 
 let app: RunningApp;
 
@@ -88,10 +88,7 @@ describe('e-mailed links', () => {
     const session = await openBrowser();
     const { page } = session;
     try {
-      await page.goto(`${app.baseUrl}/sign-in`);
-      await page.getByLabel('E-mail').fill('admin@demo.test');
-      await page.getByLabel('Password').fill('worldsheet-demo');
-      await page.getByRole('button', { name: 'Sign in', exact: true }).click();
+      await submitSignIn(page, app.baseUrl, 'admin@demo.test', 'worldsheet-demo');
       await page.waitForURL(`${app.baseUrl}/projects`);
       await page.goto(`${app.baseUrl}/admin`);
       const invite = page.locator('form').filter({ has: page.getByRole('button', { name: 'Send the invitation' }) });

@@ -4,7 +4,7 @@ import { afterAll, beforeAll, expect, it } from 'vitest';
 import { createApiToken } from '../../lib/auth/api-tokens';
 import { resetDatabase, testDb } from '../support/database';
 import { makeUser, PASSWORD } from '../support/people';
-import { closeBrowser, openBrowser, startApp, type BrowserSession, type RunningApp } from './harness';
+import { closeBrowser, openBrowser, startApp, submitSignIn, type BrowserSession, type RunningApp } from './harness';
 
 let app: RunningApp;
 let session: BrowserSession;
@@ -16,10 +16,7 @@ beforeAll(async () => {
   token = (await createApiToken(testDb(), user, 'calc e2e')).token;
   app = await startApp();
   session = await openBrowser();
-  await session.page.goto(`${app.baseUrl}/sign-in?callbackUrl=%2Fscratch`);
-  await session.page.getByLabel('E-mail').fill('engineer@example.test');
-  await session.page.getByLabel('Password').fill(PASSWORD);
-  await session.page.getByRole('button', { name: 'Sign in', exact: true }).click();
+  await submitSignIn(session.page, app.baseUrl, 'engineer@example.test', PASSWORD, '/sign-in?callbackUrl=%2Fscratch');
   await session.page.waitForURL(`${app.baseUrl}/scratch`);
 });
 

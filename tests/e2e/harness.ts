@@ -162,6 +162,14 @@ export async function openBrowser(): Promise<BrowserSession> {
   };
 }
 
+/** Fills and submits the sign-in form; the caller waits for where it expects to land. */
+export async function submitSignIn(page: Page, baseUrl: string, email: string, password: string, path = '/sign-in'): Promise<void> {
+  await page.goto(`${baseUrl}${path}`);
+  await page.getByLabel('E-mail').fill(email);
+  await page.getByLabel('Password').fill(password);
+  await page.getByRole('button', { name: 'Sign in', exact: true }).click();
+}
+
 export async function closeBrowser(): Promise<void> {
   await browser?.close();
   browser = null;

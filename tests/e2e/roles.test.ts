@@ -4,7 +4,7 @@ import { DEMO_PASSWORD, seedDemo } from '../../db/seed';
 import { AUTH_SETTINGS } from '../../lib/auth/settings';
 import { resetDatabase, testDb } from '../support/database';
 import { makeUser } from '../support/people';
-import { closeBrowser, openBrowser, startApp, type BrowserSession, type RunningApp } from './harness';
+import { closeBrowser, openBrowser, startApp, submitSignIn, type BrowserSession, type RunningApp } from './harness';
 
 let app: RunningApp;
 
@@ -22,11 +22,7 @@ afterAll(async () => {
 
 async function signIn(email: string, password = DEMO_PASSWORD): Promise<BrowserSession> {
   const session = await openBrowser();
-  const { page } = session;
-  await page.goto(`${app.baseUrl}/sign-in`);
-  await page.getByLabel('E-mail').fill(email);
-  await page.getByLabel('Password').fill(password);
-  await page.getByRole('button', { name: 'Sign in', exact: true }).click();
+  await submitSignIn(session.page, app.baseUrl, email, password);
   return session;
 }
 

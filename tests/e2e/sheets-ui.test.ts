@@ -3,7 +3,7 @@
 import { afterAll, beforeAll, expect, it } from 'vitest';
 import { DEMO_PASSWORD, seedDemo } from '../../db/seed';
 import { resetDatabase, testDb } from '../support/database';
-import { closeBrowser, openBrowser, startApp, type BrowserSession, type RunningApp } from './harness';
+import { closeBrowser, openBrowser, startApp, submitSignIn, type BrowserSession, type RunningApp } from './harness';
 
 let app: RunningApp;
 let session: BrowserSession;
@@ -13,12 +13,8 @@ beforeAll(async () => {
   await seedDemo(testDb());
   app = await startApp();
   session = await openBrowser();
-  const { page } = session;
-  await page.goto(`${app.baseUrl}/sign-in`);
-  await page.getByLabel('E-mail').fill('originator@demo.test');
-  await page.getByLabel('Password').fill(DEMO_PASSWORD);
-  await page.getByRole('button', { name: 'Sign in', exact: true }).click();
-  await page.waitForURL(`${app.baseUrl}/projects`);
+  await submitSignIn(session.page, app.baseUrl, 'originator@demo.test', DEMO_PASSWORD);
+  await session.page.waitForURL(`${app.baseUrl}/projects`);
 });
 
 afterAll(async () => {
