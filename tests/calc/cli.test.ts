@@ -1,5 +1,8 @@
 // The command-line evaluator's contract (product brief, "Sheet files and the command-line
 // evaluator"): one JSON document on stdout, values at full precision, exit codes 0, 1 and 2.
+// Expected numbers are the hand-checked arithmetic of the statements under test (common practice),
+// with unit conversions by SI prefix definitions (SI Brochure, 9th ed., §3); a physical reference
+// value names its source beside it.
 import { spawnSync } from 'node:child_process';
 import { mkdtempSync, writeFileSync } from 'node:fs';
 import { tmpdir } from 'node:os';

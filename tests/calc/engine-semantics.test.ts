@@ -1,6 +1,9 @@
 // The sheet semantics of the product brief ("The calculation language"): order of definition,
 // one definition per name, unit names kept for units, errors kept to their cells, incremental
 // re-evaluation, design criteria, display.
+// Expected numbers are the hand-checked arithmetic of the statements under test (common practice),
+// with unit conversions by SI prefix definitions (SI Brochure, 9th ed., §3); a physical reference
+// value names its source beside it.
 import { describe, expect, it } from 'vitest';
 import { createSheetEngine } from '../../lib/calc/sheet-engine';
 import type { CellInput } from '../../lib/calc/types';

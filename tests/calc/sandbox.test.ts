@@ -1,5 +1,8 @@
 // The sandbox: a cell that runs too long or needs too much memory ends with a clear error on that
 // cell, the worker is replaced, and the rest of the sheet is still evaluated.
+// Expected numbers are the hand-checked arithmetic of the statements under test (common practice),
+// with unit conversions by SI prefix definitions (SI Brochure, 9th ed., §3); a physical reference
+// value names its source beside it.
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { SandboxedEvaluator } from '../../lib/calc/sandbox/evaluator';
 import type { CellInput } from '../../lib/calc/types';
