@@ -114,6 +114,21 @@ export interface VersionsTable {
   created_at: Timestamp;
 }
 
+export interface AttachmentsTable {
+  id: Generated<string>;
+  sheet_id: Once<string>;
+  project_id: Once<string>;
+  name: Once<string>;
+  media_type: Once<string>;
+  /** bigint: pg returns it as a string. */
+  size: ColumnType<string, number, never>;
+  sha256: Once<string>;
+  storage_key: Once<string>;
+  table_data: ColumnType<unknown | null, string | null, never>;
+  uploaded_by: Once<string>;
+  created_at: Timestamp;
+}
+
 export interface AuditEventsTable {
   id: Assigned<string>;
   occurred_at: Assigned<Date>;
@@ -137,6 +152,7 @@ export interface Database {
   project_members: ProjectMembersTable;
   sheets: SheetsTable;
   versions: VersionsTable;
+  attachments: AttachmentsTable;
   audit_events: AuditEventsTable;
   sessions: SessionsTable;
   sign_in_attempts: SignInAttemptsTable;

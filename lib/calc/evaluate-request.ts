@@ -8,6 +8,13 @@ export const evaluateRequestSchema = z.object({
   /** Sends the same sheet to the same worker, whose cache makes re-evaluation incremental. */
   sheetKey: z.string().max(100).optional(),
   significantFigures: z.number().int().min(2).max(15).default(6),
+  /** The sheet whose attachments `attachments` names (needed only with attachments). */
+  sheetId: z.string().uuid().optional(),
+  /** CSV attachments of that sheet to use as input tables, by name and SHA-256. */
+  attachments: z
+    .array(z.object({ name: z.string().min(1).max(255), sha256: z.string().regex(/^[0-9a-f]{64}$/) }))
+    .max(200)
+    .default([]),
   cells: z
     .array(
       z.object({

@@ -200,10 +200,7 @@ export function displayValue(math: MathJsInstance, value: unknown, sig: number):
       raw: null,
     };
   }
-  if (math.isMatrix(value) || Array.isArray(value)) {
-    const text = math.format(value, { precision: sig });
-    return { kind: 'matrix', text, tex: `\\texttt{${text.replace(/[\\{}$&#^_%~]/g, '')}}`, number: null, unit: null, raw: text };
-  }
+  if (math.isMatrix(value) || Array.isArray(value)) return listDisplay(math, value as unknown[] | { toArray(): unknown[] }, sig);
   if (typeof value === 'function') {
     return { kind: 'function', text: 'function', tex: '\\text{function}', number: null, unit: null, raw: null };
   }
@@ -214,4 +211,35 @@ export function displayValue(math: MathJsInstance, value: unknown, sig: number):
 /** TeX of a unit expression written in a sheet ("m/s^2", "T*m"). */
 export function unitTexOf(math: MathJsInstance, unit: string): string {
   return unitTex(partsOf(math, unit));
+}
+
+/** Longest list shown whole; longer ones show their first and last elements and their length. */
+const LIST_SHOWN = 12;
+
+/**
+ * A list (a table column, or a library function applied to one): quantities of one dimension in a
+ * common unit, `[70, 150, 250] MeV`; anything else element by element.
+ */
+function listDisplay(math: MathJsInstance, value: unknown[] | { toArray(): unknown[] }, sig: number): DisplayValue {
+  const items = Array.isArray(value) ? value : value.toArray();
+  const elide = <T,>(xs: T[]): Array<T | null> => (xs.length <= LIST_SHOWN ? xs : [...xs.slice(0, 6), null, ...xs.slice(-3)]);
+  const suffix = items.length > LIST_SHOWN ? ` (${items.length} values)` : '';
+  const first = items[0];
+  const sameQuantity =
+    items.length > 0 &&
+    math.isUnit(first) &&
+    (first as Unit).value !== null &&
+    items.every((x) => math.isUnit(x) && (x as Unit).value !== null && (x as Unit).equalBase(first as Unit));
+  if (sameQuantity) {
+    const { unitString, parts } = quantityParts(math, first as Unit);
+    const numbers = items.map((x) => (unitString ? (x as Unit).toNumber(unitString) : ((x as Unit).value as number)));
+    const shown = elide(numbers);
+    const text = `[${shown.map((n) => (n === null ? '…' : formatNumberText(n, sig))).join(', ')}]${unitString ? ` ${unitText(parts)}` : ''}${suffix}`;
+    const tex = `\\left[${shown.map((n) => (n === null ? '\\ldots' : formatNumberTex(n, sig))).join(',\\ ')}\\right]${unitString ? `\\ ${unitTex(parts)}` : ''}${suffix ? `\\ \\text{${suffix.trim()}}` : ''}`;
+    return { kind: 'matrix', text, tex, number: null, unit: unitString || null, raw: JSON.stringify(numbers) };
+  }
+  const shown = elide(items).map((x) => (x === null ? null : displayValue(math, x, sig)));
+  const text = `[${shown.map((d) => (d === null ? '…' : d.text)).join(', ')}]${suffix}`;
+  const tex = `\\left[${shown.map((d) => (d === null ? '\\ldots' : d.tex)).join(',\\ ')}\\right]${suffix ? `\\ \\text{${suffix.trim()}}` : ''}`;
+  return { kind: 'matrix', text, tex, number: null, unit: null, raw: text };
 }

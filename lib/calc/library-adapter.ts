@@ -108,6 +108,41 @@ export function bindLibrary(math: MathJsInstance, library: readonly CalcFunction
     return siUnit(r, RETURN_UNITS[fn.returns]);
   };
 
+  const scalar = (fn: CalcFunction, args: unknown[]): unknown => {
+    const numbers = args.map((a, i) => toNumber(fn, i, a));
+    for (const [i, n] of numbers.entries()) {
+      if (!Number.isFinite(n)) throw new DomainError(`${fn.name}: argument ${i + 1} (${fn.params[i].name}) must be finite; got ${n}`);
+    }
+    return wrap(fn, fn.kernel(...numbers));
+  };
+
+  // A vector argument (a column of an input table, or [a, b, c]) applies the function to each
+  // element; several vectors must have the same length, and plain values are used for every element.
+  const elementwise = (fn: CalcFunction, args: unknown[]): unknown => {
+    const lists = args.map((a) => (math.isMatrix(a) ? (a as { toArray(): unknown[] }).toArray() : Array.isArray(a) ? a : null));
+    let length = -1;
+    for (const [i, list] of lists.entries()) {
+      if (!list) continue;
+      if (list.some((x) => Array.isArray(x) || math.isMatrix(x))) {
+        throw new ArgumentError(`${fn.name}: argument ${i + 1} (${fn.params[i].name}) must be a value or a list of values, not a table of several dimensions`);
+      }
+      if (length >= 0 && list.length !== length) {
+        throw new ArgumentError(`${fn.name}: the lists given have different lengths (${length} and ${list.length})`);
+      }
+      length = list.length;
+    }
+    const out: unknown[] = [];
+    for (let k = 0; k < length; k++) {
+      try {
+        out.push(scalar(fn, args.map((a, i) => (lists[i] ? lists[i]![k] : a))));
+      } catch (error) {
+        if (error instanceof Error) error.message = `${error.message} (element ${k + 1})`;
+        throw error;
+      }
+    }
+    return math.matrix(out as never[]);
+  };
+
   return library.map((fn) => ({
     name: fn.name,
     fn: (...args: unknown[]) => {
@@ -116,11 +151,8 @@ export function bindLibrary(math: MathJsInstance, library: readonly CalcFunction
           `${fn.name} takes ${fn.params.length} argument${fn.params.length === 1 ? '' : 's'} (${fn.params.map((p) => p.name).join(', ')}); got ${args.length}`,
         );
       }
-      const numbers = args.map((a, i) => toNumber(fn, i, a));
-      for (const [i, n] of numbers.entries()) {
-        if (!Number.isFinite(n)) throw new DomainError(`${fn.name}: argument ${i + 1} (${fn.params[i].name}) must be finite; got ${n}`);
-      }
-      return wrap(fn, fn.kernel(...numbers));
+      if (args.some((a) => Array.isArray(a) || math.isMatrix(a))) return elementwise(fn, args);
+      return scalar(fn, args);
     },
   }));
 }

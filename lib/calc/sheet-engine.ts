@@ -11,7 +11,7 @@ import { bindLibrary } from './library-adapter';
 import { createEngineMath, REFUSED_NAMES, type EngineMath } from './math-instance';
 import { checkDefinitionName } from './names';
 import { formulaTex, substitutedTex, substitutionTex, type TexContext } from './tex';
-import type { CellInput, CellResult, CriterionResult, DisplayValue, EvaluateOptions, SheetResult, StatementResult } from './types';
+import type { CellInput, CellResult, CriterionResult, DisplayValue, EvaluateOptions, InputTable, SheetResult, StatementResult } from './types';
 import { ENGINE_VERSION } from './version';
 import { installSizeGuards, LIMITS } from './limits';
 import { extractUnitLiterals, UNIT_PLACEHOLDER_PREFIX, type UnitLiteral } from './unit-literals';
@@ -57,6 +57,8 @@ interface ParsedStatement {
   unitLiterals: UnitLiteral[];
   /** A problem found without evaluating (unknown unit in a conversion, a bad assignment target). */
   staticError: string | null;
+  /** `table.column` reads, checked against the input tables before evaluating. */
+  columns: Array<{ table: string; column: string }>;
 }
 
 /** Strips a `#` comment that is not inside a string. */
@@ -121,6 +123,31 @@ export function createSheetEngine(): SheetEngine {
     return u;
   };
   const cellCache = new Map<string, CachedCell>();
+  // An input table's value (columns as vectors of quantities), built once per attachment content.
+  const tableCache = new Map<string, Record<string, unknown>>();
+  const tableValue = (table: InputTable): Record<string, unknown> => {
+    const key = `${table.sha256}\0${table.name}`;
+    let value = tableCache.get(key);
+    if (!value) {
+      value = {};
+      for (const column of table.columns) {
+        const template = column.unit ? math.unit(1, column.unit) : null;
+        const offset = template?.units.some((u) => (u.unit as unknown as { offset: number }).offset !== 0) ?? false;
+        value[column.name] = math.matrix(
+          column.values.map((v) => {
+            if (!template) return v;
+            if (offset) return math.unit(v, column.unit!);
+            const u = template.clone();
+            // Same as math.unit(v, unit), without parsing the unit again for every row.
+            (u as unknown as { value: number }).value = (template.value as number) * v;
+            return u;
+          }),
+        );
+      }
+      remember(tableCache, key, value, 50);
+    }
+    return value;
+  };
 
   function remember<K, V>(map: Map<K, V>, key: K, value: V, max: number): void {
     if (map.size >= max) map.delete(map.keys().next().value as K);
@@ -175,7 +202,22 @@ export function createSheetEngine(): SheetEngine {
           visit(n.expr!, new Set([...locals, ...params]));
           return;
         }
-        case 'AccessorNode':
+        case 'AccessorNode': {
+          // `table.column` (a column of an input table) and `v[k]` (an element of a list).
+          const index = n.index as { dotNotation?: boolean; dimensions?: AnyNode[] } | undefined;
+          const object = n.object as AnyNode;
+          if (index?.dotNotation && object.type !== 'SymbolNode') {
+            statement.staticError ??= 'a column is read from an input table by its name: table.column';
+            return;
+          }
+          visit(object, locals);
+          if (index?.dotNotation) {
+            const column = (index.dimensions?.[0] as { value?: unknown } | undefined)?.value;
+            statement.columns.push({ table: object.name!, column: String(column) });
+          }
+          if (!index?.dotNotation) for (const d of index?.dimensions ?? []) visit(d, new Set([...locals, 'end']));
+          return;
+        }
         case 'AssignmentNode':
         case 'BlockNode':
           statement.staticError ??= 'only one plain statement per line is allowed here';
@@ -193,7 +235,7 @@ export function createSheetEngine(): SheetEngine {
     const cached = parseCache.get(source);
     if (cached) return cached;
     if (source.length > LIMITS.maxCellSourceChars) {
-      const out = [{ line: 1, source: source.slice(0, 80), node: null, parseError: `the cell is longer than ${LIMITS.maxCellSourceChars} characters`, kind: 'expression' as const, defines: null, uses: [], unitNamed: [], unitLiterals: [], staticError: null }];
+      const out = [{ line: 1, source: source.slice(0, 80), node: null, parseError: `the cell is longer than ${LIMITS.maxCellSourceChars} characters`, kind: 'expression' as const, defines: null, uses: [], unitNamed: [], unitLiterals: [], staticError: null, columns: [] }];
       return out;
     }
     const statements: ParsedStatement[] = [];
@@ -201,7 +243,7 @@ export function createSheetEngine(): SheetEngine {
     for (const [i, raw] of lines.entries()) {
       const text = stripComment(raw).trim();
       if (!text) continue;
-      const st: ParsedStatement = { line: i + 1, source: raw.trim(), node: null, parseError: null, kind: 'expression', defines: null, uses: [], unitNamed: [], unitLiterals: [], staticError: null };
+      const st: ParsedStatement = { line: i + 1, source: raw.trim(), node: null, parseError: null, kind: 'expression', defines: null, uses: [], unitNamed: [], unitLiterals: [], staticError: null, columns: [] };
       statements.push(st);
       if (statements.length > LIMITS.maxStatementsPerCell) {
         st.parseError = `a cell holds at most ${LIMITS.maxStatementsPerCell} statements`;
@@ -297,6 +339,9 @@ export function createSheetEngine(): SheetEngine {
 
     // Where each name is first defined in the whole sheet: to tell "defined below" from "undefined".
     const firstDefinition = new Map<string, { cell: number; line: number }>();
+    // Input tables are defined before the first cell (cell index -1).
+    const tables = new Map((options.tables ?? []).map((t) => [t.name, t]));
+    for (const name of tables.keys()) firstDefinition.set(name, { cell: -1, line: 0 });
     parsed.forEach((statements, ci) => {
       for (const st of statements) if (st.defines && !firstDefinition.has(st.defines)) firstDefinition.set(st.defines, { cell: ci, line: st.line });
     });
@@ -309,6 +354,11 @@ export function createSheetEngine(): SheetEngine {
     const nameKey = new Map<string, string>();
     const results: CellResult[] = [];
     let evaluatedCells = 0;
+    for (const [name, table] of tables) {
+      scope.set(name, tableValue(table));
+      definedAt.set(name, { cell: -1, line: 0 });
+      nameKey.set(name, `table:${table.sha256}:${table.fileName}`);
+    }
 
     // Constants are substituted in the SI unit they are defined in (the elementary charge as
     // 1.602 18 × 10⁻¹⁹ C, not in zeptocoulombs as mathjs's choice of prefix would have it).
@@ -318,9 +368,10 @@ export function createSheetEngine(): SheetEngine {
     const valueTexOf = (name: string): string | undefined => {
       const cachedTex = texValue.get(name);
       if (cachedTex !== undefined) return cachedTex;
-      if (!scope.has(name)) return undefined;
+      if (!scope.has(name) || tables.has(name)) return undefined;
       const v = scope.get(name);
-      if (typeof v === 'function') return undefined;
+      // Lists stay as their names in substituted formulas: their values are shown as results.
+      if (typeof v === 'function' || math.isMatrix(v) || Array.isArray(v)) return undefined;
       const tex = substitutionTex(displayValue(math, v, sig).tex);
       texValue.set(name, tex);
       return tex;
@@ -397,7 +448,10 @@ export function createSheetEngine(): SheetEngine {
         if (st.defines) {
           const earlier = definedAt.get(st.defines);
           if (earlier) {
-            result.error = `\`${st.defines}\` is already defined in cell ${earlier.cell + 1}, line ${earlier.line}; a name is defined once per sheet`;
+            const table = tables.get(st.defines);
+            result.error = table
+              ? `\`${st.defines}\` is the input table read from the attachment ${table.fileName}; a name is defined once per sheet`
+              : `\`${st.defines}\` is already defined in cell ${earlier.cell + 1}, line ${earlier.line}; a name is defined once per sheet`;
             continue;
           }
           definedAt.set(st.defines, { cell: ci, line: st.line });
@@ -425,8 +479,16 @@ export function createSheetEngine(): SheetEngine {
             return em.isFunctionName(name) ? null : `\`${name}\` is not defined`;
           })
           .find((p) => p !== null);
-        if (problem) {
-          fail(problem);
+        const columnProblem = st.columns
+          .map(({ table, column }) => {
+            const t = tables.get(table);
+            if (!t) return scope.has(table) ? `\`${table}\` is not an input table; \`.\` reads a column of an input table` : null;
+            if (t.columns.some((c) => c.name === column)) return null;
+            return `the input table \`${table}\` has no column \`${column}\`; its columns are ${t.columns.map((c) => (c.unit ? `${c.name} [${c.unit}]` : c.name)).join(', ')}`;
+          })
+          .find((p) => p !== null);
+        if (problem || columnProblem) {
+          fail((problem ?? columnProblem)!);
           continue;
         }
         try {
@@ -452,7 +514,7 @@ export function createSheetEngine(): SheetEngine {
           if (st.kind !== 'function') {
             result.value = displayValue(math, value, sig) as DisplayValue;
             // The substituted formulas below reuse this display instead of formatting the value again.
-            if (st.kind === 'definition') texValue.set(st.defines!, substitutionTex(result.value.tex));
+            if (st.kind === 'definition' && result.value.kind !== 'matrix') texValue.set(st.defines!, substitutionTex(result.value.tex));
             try {
               result.substitutedTex = substitutedTex(node, texCtx);
             } catch {

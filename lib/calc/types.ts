@@ -10,6 +10,19 @@ export interface CellInput {
 export interface EvaluateOptions {
   /** Significant figures for display; full precision is kept in `value.number`. */
   significantFigures: number;
+  /** Input tables from the sheet's CSV attachments, usable in cells as `table.column`. */
+  tables?: InputTable[];
+}
+
+/** A table of numbers read from a CSV attachment: each column a name and an optional unit. */
+export interface InputTable {
+  /** The name cells use (from the file name): `beam_energies` for "beam-energies.csv". */
+  name: string;
+  /** SHA-256 of the attachment it was read from; the cache key of everything that uses it. */
+  sha256: string;
+  /** The attachment's file name, for messages. */
+  fileName: string;
+  columns: Array<{ name: string; unit: string | null; values: number[] }>;
 }
 
 export type ValueKind = 'quantity' | 'number' | 'boolean' | 'string' | 'matrix' | 'function' | 'other';

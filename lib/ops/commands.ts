@@ -1,6 +1,7 @@
 // The project's commands, run by lib/ops/bootstrap.mjs after the npm packages are in place:
 //   start     local PostgreSQL, migrations, demo seed, production build, app server and job worker,
-//             and in demo mode the local mail capture server (npm start)
+//             the local object store (S3-compatible fake) unless one is configured, and in demo mode
+//             the local mail capture server (npm start)
 //   test      the whole test suite against a separate test cluster (npm test)
 //   bench     the benchmarks, printed as ratios measured in one run (npm run bench)
 //   dev       like start, with `next dev` instead of a production build
@@ -26,6 +27,8 @@ import { Supervisor, waitForExit } from './supervisor';
 import { ensureJobQueues } from '../jobs/queue';
 import { startCaptureServer } from '../mail/capture-server';
 import { mailCapturePort, smtpPort } from '../mail/config';
+import { DEFAULT_FAKE_S3_PORT } from '../storage/config';
+import { startFakeObjectStore } from '../storage/fake-server';
 
 const root = path.join(path.dirname(fileURLToPath(import.meta.url)), '..', '..');
 const log = (line: string) => console.log(`[worldsheet] ${line}`);
@@ -103,6 +106,21 @@ async function startDemoMail(supervisor: Supervisor, appBaseUrl: string): Promis
   return { WORLDSHEET_SMTP_URL: capture.smtpUrl, WORLDSHEET_MAIL_CAPTURE_URL: capture.url };
 }
 
+/**
+ * Starts the local S3-compatible object store unless the environment names a real one
+ * (WORLDSHEET_S3_ENDPOINT or WORLDSHEET_S3_BUCKET); returns the settings the app needs.
+ */
+async function startLocalObjectStore(supervisor: Supervisor): Promise<Record<string, string>> {
+  if (process.env.WORLDSHEET_S3_ENDPOINT || process.env.WORLDSHEET_S3_BUCKET) return {};
+  const store = await startFakeObjectStore({
+    port: Number(process.env.WORLDSHEET_S3_PORT ?? DEFAULT_FAKE_S3_PORT),
+    directory: path.join(root, '.data', 'objects-dev'),
+  });
+  supervisor.add('local object store', () => store.stop());
+  log(`local object store: S3-compatible fake on ${store.url}, files kept in .data/objects-dev`);
+  return store.env;
+}
+
 function spawnJobWorker(supervisor: Supervisor, env: NodeJS.ProcessEnv) {
   return supervisor.spawn('job worker', process.execPath, ['--import', 'tsx', path.join('lib', 'jobs', 'worker-main.ts')], {
     cwd: root,
@@ -118,9 +136,10 @@ async function serve(supervisor: Supervisor, mode: 'start' | 'dev'): Promise<voi
     throw new LocalPostgresError(`Port ${port} on ${host} is already in use. Stop what uses it, or choose another with PORT=<port>.`);
   }
   const mailEnv = process.env.DATABASE_URL ? {} : await startDemoMail(supervisor, `http://${host}:${port}`);
+  const storeEnv = await startLocalObjectStore(supervisor);
   const database = await prepareDatabase(supervisor, { seed: true });
   await ensureJobQueues(database.url);
-  const env = appEnv(database, mailEnv);
+  const env = appEnv(database, { ...mailEnv, ...storeEnv });
   if (mode === 'start') buildIfStale(root, '.next', { ...env, NODE_ENV: 'production' });
   if (supervisor.isStopping) return;
   const worker = spawnJobWorker(supervisor, { ...env, NODE_ENV: 'production' });

@@ -7,7 +7,8 @@ import type { Database } from '@/db/schema';
 import type { Actor } from '@/lib/auth/actor';
 import { recordAudit } from '@/lib/audit/record';
 import { getEvaluator } from '@/lib/calc/sandbox/evaluator';
-import type { SheetResult } from '@/lib/calc/types';
+import type { InputTable, SheetResult } from '@/lib/calc/types';
+import { resolveAttachments } from '@/lib/attachments/attachments';
 import { AppError } from '@/lib/errors/app-error';
 import { emptyRecord, versionContentSchema, type VersionContent } from './content';
 import { contentHash } from './content-hash';
@@ -52,8 +53,8 @@ export async function listSheets(db: Kysely<Database>, projectId: string, projec
 }
 
 /** Evaluates content with the server's sandboxed engine, for storing with a version. */
-async function evaluateContent(content: VersionContent, sheetKey: string): Promise<SheetResult> {
-  return getEvaluator().evaluate(content.cells, { significantFigures: content.significantFigures }, sheetKey);
+async function evaluateContent(content: VersionContent, sheetKey: string, tables: InputTable[] = []): Promise<SheetResult> {
+  return getEvaluator().evaluate(content.cells, { significantFigures: content.significantFigures, tables }, sheetKey);
 }
 
 export async function createSheet(db: Kysely<Database>, actor: Actor, project: { id: string; code: string }, input: z.infer<typeof createSheetSchema>) {
@@ -132,7 +133,9 @@ export async function getVersion(db: Kysely<Database>, sheetId: string, number?:
  * and hash) when the sheet has moved on since the parent, so the editor can show what changed.
  */
 export async function saveVersion(db: Kysely<Database>, actor: Actor, sheet: { id: string; project_id: string }, input: z.infer<typeof saveVersionSchema>) {
-  const results = await evaluateContent(input.content, sheet.id);
+  // Every attachment the content cites must be one uploaded to this sheet; CSV tables feed the cells.
+  const tables = await resolveAttachments(db, sheet.id, input.content.attachments);
+  const results = await evaluateContent(input.content, sheet.id, tables);
   const hash = contentHash(input.content);
   return db.transaction().execute(async (trx) => {
     await trx.selectFrom('sheets').select('id').where('id', '=', sheet.id).forUpdate().executeTakeFirstOrThrow();

@@ -32,6 +32,7 @@ export async function startApp(extraEnv: Record<string, string> = {}): Promise<R
     NEXT_TELEMETRY_DISABLED: '1',
     WORLDSHEET_SMTP_URL: inject('smtpUrl'),
     WORLDSHEET_MAIL_CAPTURE_URL: inject('mailCaptureUrl'),
+    ...inject('objectStoreEnv'),
     NEXTAUTH_URL: `http://127.0.0.1:${port}`,
     NEXTAUTH_SECRET: TEST_AUTH_SECRET,
     ...extraEnv,

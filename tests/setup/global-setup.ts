@@ -9,6 +9,8 @@ import { DEFAULT_TEST_PG_PORT, LocalCluster, testClusterPort } from '../../db/lo
 import { migrateToLatest } from '../../db/migrate';
 import { ensureJobQueues } from '../../lib/jobs/queue';
 import { startCaptureServer } from '../../lib/mail/capture-server';
+import { rmSync } from 'node:fs';
+import { startFakeObjectStore } from '../../lib/storage/fake-server';
 
 const root = path.resolve(path.dirname(fileURLToPath(import.meta.url)), '..', '..');
 export const TEST_DATABASE = 'worldsheet_test';
@@ -23,12 +25,16 @@ declare module 'vitest' {
     /** The test mail capture server: SMTP (for WORLDSHEET_SMTP_URL) and its HTTP API. */
     smtpUrl: string;
     mailCaptureUrl: string;
+    /** The WORLDSHEET_S3_* variables of the test object store (the local S3-compatible fake). */
+    objectStoreEnv: Record<string, string>;
   }
 }
 
 /** The test mail ports (npm start uses 2525 and 2580). */
 export const DEFAULT_TEST_SMTP_PORT = 2535;
 export const DEFAULT_TEST_MAIL_CAPTURE_PORT = 2590;
+/** The test object store's port (npm start uses 4568). */
+export const DEFAULT_TEST_S3_PORT = 4578;
 
 /**
  * WORLDSHEET_TEST_SMTP_PORT / WORLDSHEET_TEST_MAIL_CAPTURE_PORT when set; otherwise the default
@@ -49,12 +55,24 @@ export default async function setup(project: TestProject) {
     portVariables: { smtp: 'WORLDSHEET_TEST_SMTP_PORT', http: 'WORLDSHEET_TEST_MAIL_CAPTURE_PORT' },
   });
   // WORLDSHEET_TEST_CLUSTER lets two test runs on one machine use separate clusters.
-  const cluster = new LocalCluster({ name: process.env.WORLDSHEET_TEST_CLUSTER ?? 'test', port: testClusterPort(), projectRoot: root });
+  const clusterName = process.env.WORLDSHEET_TEST_CLUSTER ?? 'test';
+  // A fresh object store per run, as the database is fresh.
+  const objectsFolder = path.join(root, '.data', `objects-${clusterName}`);
+  rmSync(objectsFolder, { recursive: true, force: true });
+  let objects;
+  try {
+    objects = await startFakeObjectStore({ port: testMailPort('WORLDSHEET_TEST_S3_PORT', DEFAULT_TEST_S3_PORT), directory: objectsFolder });
+  } catch (error) {
+    await mail.stop();
+    throw error;
+  }
+  const stopServers = () => Promise.all([mail.stop(), objects.stop()]);
+  const cluster = new LocalCluster({ name: clusterName, port: testClusterPort(), projectRoot: root });
   try {
     cluster.prepare();
     await cluster.start();
   } catch (error) {
-    await mail.stop();
+    await stopServers();
     throw error;
   }
   try {
@@ -69,7 +87,7 @@ export default async function setup(project: TestProject) {
     await ensureJobQueues(cluster.appUrl(TEST_DATABASE));
   } catch (error) {
     await cluster.stop();
-    await mail.stop();
+    await stopServers();
     throw error;
   }
   project.provide('databaseUrl', cluster.appUrl(TEST_DATABASE));
@@ -79,8 +97,9 @@ export default async function setup(project: TestProject) {
   project.provide('testClusterDataFolder', cluster.dataFolder);
   project.provide('smtpUrl', mail.smtpUrl);
   project.provide('mailCaptureUrl', mail.url);
+  project.provide('objectStoreEnv', objects.env);
   return async () => {
-    await mail.stop();
+    await stopServers();
     await cluster.stop();
   };
 }
