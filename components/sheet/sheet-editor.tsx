@@ -4,6 +4,7 @@ import Link from 'next/link';
 import { useCallback, useEffect, useMemo, useRef, useState } from 'react';
 import useSWR from 'swr';
 import { StatementView } from '@/components/calc/statement-view';
+import { AttachmentsPanel, useSheetAttachments } from './attachments-panel';
 import { CalcEditor } from './calc-editor';
 import { MarkdownView } from './markdown-view';
 import { RecordListsEditor } from './record-lists-editor';
@@ -81,9 +82,27 @@ export function SheetEditor({ sheetId, projectCode, sheetNumber, base }: Props) 
     const t = setTimeout(() => setDebounced(content), 400);
     return () => clearTimeout(t);
   }, [content]);
-  const body = useMemo(() => JSON.stringify({ cells: debounced.cells, significantFigures: debounced.significantFigures }), [debounced]);
+  const body = useMemo(
+    () =>
+      JSON.stringify({
+        cells: debounced.cells,
+        significantFigures: debounced.significantFigures,
+        sheetId,
+        attachments: debounced.attachments.filter((a) => a.mediaType === 'text/csv').map(({ name, sha256 }) => ({ name, sha256 })),
+      }),
+    [debounced, sheetId],
+  );
   const { data: results, error } = useSWR(['evaluate', sheetId, body], evaluate, { keepPreviousData: true, revalidateOnFocus: false });
   const resultById = useMemo(() => new Map((results?.cells ?? []).map((c) => [c.id, c])), [results]);
+  // The cited CSV tables, offered in completion as `table.` with their columns.
+  const { data: uploads } = useSheetAttachments(sheetId);
+  const tableNames = useMemo(
+    () =>
+      (uploads?.attachments ?? [])
+        .filter((a) => a.table && content.attachments.some((c) => c.name === a.name && c.sha256 === a.sha256))
+        .map((a) => ({ name: a.table!.name, summary: `input table from ${a.name}, ${a.table!.rows} rows`, columns: a.table!.columns })),
+    [uploads, content.attachments],
+  );
 
   const update = useCallback((change: (c: VersionContent) => VersionContent) => setContent((c) => change(c)), []);
   const setCell = (i: number, source: string) => update((c) => ({ ...c, cells: c.cells.map((x, j) => (j === i ? { ...x, source } : x)) }));
@@ -160,6 +179,8 @@ export function SheetEditor({ sheetId, projectCode, sheetNumber, base }: Props) 
         <RecordListsEditor record={record} onChange={setRecord} />
       </section>
 
+      <AttachmentsPanel sheetId={sheetId} cited={content.attachments} onChange={(attachments) => update((c) => ({ ...c, attachments }))} />
+
       <section aria-labelledby="editor-cells" className="space-y-3">
         <h2 id="editor-cells" className="text-lg font-bold">
           Cells
@@ -199,7 +220,7 @@ export function SheetEditor({ sheetId, projectCode, sheetNumber, base }: Props) 
                   label={`${label} source`}
                   value={cell.source}
                   onChange={(value) => setCell(i, value)}
-                  namesAbove={content.cells.slice(0, i).flatMap((above) => (resultById.get(above.id)?.defines ?? []).map((name) => ({ name })))}
+                  namesAbove={[...tableNames, ...content.cells.slice(0, i).flatMap((above) => (resultById.get(above.id)?.defines ?? []).map((name) => ({ name })))]}
                   minLines={2}
                 />
               ) : (

@@ -1,9 +1,20 @@
 import { StatementView } from '@/components/calc/statement-view';
 import type { SheetResult } from '@/lib/calc/types';
 import type { VersionContent } from '@/lib/sheets/content';
+import { AttachmentList } from './attachment-list';
 
 /** A version as recorded: the calculation record fields, then every cell with its recorded results. */
-export function VersionView({ content, results, renderText }: { content: VersionContent; results: SheetResult | null; renderText: (source: string) => React.ReactNode }) {
+export function VersionView({
+  sheetId,
+  content,
+  results,
+  renderText,
+}: {
+  sheetId: string;
+  content: VersionContent;
+  results: SheetResult | null;
+  renderText: (source: string) => React.ReactNode;
+}) {
   const r = content.record;
   const byId = new Map((results?.cells ?? []).map((c) => [c.id, c]));
   return (
@@ -51,6 +62,12 @@ export function VersionView({ content, results, renderText }: { content: Version
           <dt className="font-semibold">Conclusions</dt>
           <dd>{r.conclusions || <span className="text-ink-muted">not stated</span>}</dd>
         </dl>
+      </section>
+      <section aria-labelledby="attachments-title" className="rounded border border-rule bg-surface p-4">
+        <h2 id="attachments-title" className="mb-2 text-lg font-bold">
+          Attachments
+        </h2>
+        <AttachmentList sheetId={sheetId} attachments={content.attachments} />
       </section>
       <section aria-labelledby="cells-title" className="space-y-3">
         <h2 id="cells-title" className="text-lg font-bold">

@@ -3,6 +3,9 @@
 // `table.column`, a list of quantities with the column's unit.
 import { parse } from 'csv-parse/sync';
 import type { InputTable } from '@/lib/calc/types';
+import { reserved } from './table-name';
+
+export { tableNameFor } from './table-name';
 
 export const TABLE_LIMITS = { maxRows: 10_000, maxColumns: 50 };
 
@@ -15,24 +18,6 @@ export class TableError extends Error {
     super(message);
     this.name = 'TableError';
   }
-}
-
-function reserved(name: string): boolean {
-  return name in Object.prototype || name === 'prototype' || name === '__proto__';
-}
-
-/** The name cells use for a table: the file name without extension, as an identifier. */
-export function tableNameFor(fileName: string): string {
-  let name = fileName
-    .replace(/\.[A-Za-z0-9]+$/, '')
-    .normalize('NFKD')
-    .replace(/[\u0300-\u036f]/g, '')
-    .replace(/[^A-Za-z0-9]+/g, '_')
-    .replace(/^_+|_+$/g, '');
-  if (!/^[A-Za-z]/.test(name)) name = `table_${name}`.replace(/_+$/, '');
-  name = name.slice(0, 40).replace(/_+$/, '');
-  if (reserved(name)) name = `table_${name}`;
-  return name;
 }
 
 export interface ParsedTable {

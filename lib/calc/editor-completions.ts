@@ -9,6 +9,8 @@ export interface NameAbove {
   name: string;
   /** A short description: what the cell defines it as, its unit, its value. */
   summary?: string;
+  /** For an input table (a CSV attachment): its columns, offered after `name.`. */
+  columns?: ReadonlyArray<{ name: string; unit: string | null }>;
 }
 
 /** `name(param, …)` of a library function. */
@@ -29,7 +31,7 @@ export function calcCompletionOptions(namesAbove: readonly NameAbove[] = []): Co
   for (const n of [...namesAbove].reverse()) {
     if (seen.has(n.name)) continue;
     seen.add(n.name);
-    options.push({ label: n.name, type: 'variable', detail: 'defined above', info: n.summary, boost: 2 });
+    options.push({ label: n.name, type: 'variable', detail: n.columns ? 'input table' : 'defined above', info: n.summary, boost: 2 });
   }
   for (const k of CONSTANTS) {
     if (seen.has(k.name)) continue;
@@ -79,6 +81,17 @@ const WORD = /[A-Za-z_][A-Za-z0-9_]*$/;
  */
 export function completeCalcAt(lineBefore: string, pos: number, explicit: boolean, namesAbove: readonly NameAbove[]): CompletionResult | null {
   if (inCommentOrString(lineBefore)) return null;
+  // After `table.`: the columns of that input table, with their units.
+  const member = /(?:^|[^A-Za-z0-9_.])([A-Za-z][A-Za-z0-9_]*)\.([A-Za-z_][A-Za-z0-9_]*)?$/.exec(lineBefore);
+  if (member) {
+    const table = [...namesAbove].reverse().find((n) => n.name === member[1] && n.columns);
+    if (!table) return null;
+    return {
+      from: pos - (member[2]?.length ?? 0),
+      options: table.columns!.map((c) => ({ label: c.name, type: 'property', detail: c.unit ? `column, ${c.unit}` : 'column, plain numbers', boost: 2 })),
+      validFor: /^[A-Za-z_][A-Za-z0-9_]*$/,
+    };
+  }
   const word = WORD.exec(lineBefore);
   if (word && word.index > 0 && /[0-9.]/.test(lineBefore[word.index - 1])) return null;
   if (!word && !explicit) return null;

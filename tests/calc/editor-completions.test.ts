@@ -57,6 +57,18 @@ describe('where completion applies', () => {
     expect(r?.options.some((o) => o.label === 'lorentzFactor')).toBe(true);
   });
 
+  it('offers the columns of an input table after `table.`, with their units, and nothing after another name', () => {
+    const tables = [{ name: 'scan', columns: [{ name: 'energy', unit: 'MeV' }, { name: 'turns', unit: null }] }];
+    const r = completeCalcAt('E = scan.en', 11, false, tables);
+    expect(r?.from).toBe(9);
+    expect(r?.options.map((o) => [o.label, o.detail])).toEqual([
+      ['energy', 'column, MeV'],
+      ['turns', 'column, plain numbers'],
+    ]);
+    expect(completeCalcAt('E = scan.', 9, true, tables)?.options).toHaveLength(2);
+    expect(completeCalcAt('E = other.', 10, true, tables)).toBeNull();
+  });
+
   it('offers nothing in a comment, in a string, in a number exponent, or with no word unless asked', () => {
     expect(completeCalcAt('x = 1 # lorentz', 15, true, [])).toBeNull();
     expect(completeCalcAt('s = "lore', 9, true, [])).toBeNull();

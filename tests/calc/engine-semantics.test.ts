@@ -174,3 +174,58 @@ describe('what a statement shows', () => {
     expect(r.constantsEdition).toBe('CODATA 2022; SI 2019 exact constants');
   });
 });
+
+describe('input tables (CSV attachments)', () => {
+  const table = (values: number[], sha = 'a'.repeat(64)) => ({
+    name: 'scan',
+    sha256: sha,
+    fileName: 'scan.csv',
+    columns: [
+      { name: 'energy', unit: 'MeV', values },
+      { name: 'turns', unit: null, values: values.map((_, i) => i + 1) },
+      { name: 'temp', unit: 'degC', values: values.map(() => 20) },
+    ],
+  });
+  const withTable = (list: CellInput[], values = [70, 150, 250], sha?: string) => engine.evaluate(list, { significantFigures: 6, tables: [table(values, sha)] });
+
+  it('gives each column as a list with its unit; an element by index; list functions work', () => {
+    const r = withTable(cells('E_all = scan.energy', 'E_3 = scan.energy[3] to J', 'n_mean = mean(scan.turns)', 'T_room = scan.temp[1] to K'));
+    expect(r.ok).toBe(true);
+    expect(r.cells[0].statements[0].value).toMatchObject({ kind: 'matrix', text: '[70, 150, 250] MeV', unit: 'MeV' });
+    // 1 eV = 1.602 176 634 × 10⁻¹⁹ J exactly (SI Brochure, 9th ed., Table 8): 250 MeV = 4.005 441 585 × 10⁻¹¹ J.
+    expect(r.cells[1].statements[0].value!.number).toBeCloseTo(4.005441585e-11, 20);
+    expect(r.cells[2].statements[0].value!.number).toBe(2);
+    // 20 °C = 293.15 K (SI Brochure, 9th ed., §2.3.1: t/°C = T/K − 273.15): offset units stay correct.
+    expect(r.cells[3].statements[0].value!.number).toBeCloseTo(293.15, 10);
+  });
+
+  it('applies library functions element by element to a column', () => {
+    const r = withTable(cells('g = lorentzFactor(speedFromKinetic(scan.energy, m_p))'));
+    // γ = 1 + T/(m_p c²), m_p c² = 938.272 089 43 MeV (CODATA 2022): 1.074 605, 1.159 868, 1.266 447.
+    const text = r.cells[0].statements[0].value!.text;
+    expect(text).toBe('[1.074\u202f61, 1.159\u202f87, 1.266\u202f45]');
+  });
+
+  it('names a missing column and its columns, refuses a property of anything else, and keeps the table name', () => {
+    const r = withTable(cells('x = scan.energi', 'L_1 = 2 m\ny_1 = L_1.value', 'scan = 3'));
+    expect(r.cells[0].error).toBe('the input table `scan` has no column `energi`; its columns are energy [MeV], turns, temp [degC]');
+    expect(r.cells[1].statements[1].error).toBe('`L_1` is not an input table; `.` reads a column of an input table');
+    expect(r.cells[2].error).toBe('`scan` is the input table read from the attachment scan.csv; a name is defined once per sheet');
+  });
+
+  it('re-evaluates the cells that use a table when its content (SHA-256) changes, and only those', () => {
+    const list = cells('a_1 = 1 m', 'E_max = max(scan.energy)');
+    withTable(list, [70, 250], '1'.repeat(64));
+    const again = withTable(list, [70, 250], '1'.repeat(64));
+    expect(again.evaluatedCells).toBe(0);
+    const changed = withTable(list, [70, 230], '2'.repeat(64));
+    expect(changed.evaluatedCells).toBe(1);
+    expect(changed.cells[1].statements[0].value!.text).toBe('230 MeV');
+  });
+
+  it('refuses lists of different lengths in one function call, naming the element on a domain error', () => {
+    const r = withTable(cells('v_1 = addVelocities(scan.turns / 10, [0.1, 0.2])', 'g_1 = lorentzFactor(scan.turns / 2)'));
+    expect(r.cells[0].error).toBe('addVelocities: the lists given have different lengths (3 and 2)');
+    expect(r.cells[1].error).toMatch(/\(element 2\)$/);
+  });
+});

@@ -63,7 +63,7 @@ export default async function SheetPage({ params, searchParams }: { params: Prom
           </p>
         ) : null}
         <CautionNotice compact />
-        <VersionView content={version.content} results={version.results} renderText={(source) => <MarkdownView source={source} />} />
+        <VersionView sheetId={sheet.id} content={version.content} results={version.results} renderText={(source) => <MarkdownView source={source} />} />
       </div>
       <aside aria-labelledby="history-title" className="space-y-2">
         <h2 id="history-title" className="font-bold">
