@@ -13,6 +13,9 @@ export const auditFilterSchema = z.object({
 
 export type AuditFilter = z.infer<typeof auditFilterSchema>;
 
+/** The query of GET /api/projects/{projectId}/audit: the filter, and `format=csv` for a CSV download. */
+export const auditQuerySchema = auditFilterSchema.extend({ format: z.enum(['json', 'csv']).default('json') });
+
 export async function listProjectAudit(db: Kysely<Database>, projectId: string, filter: AuditFilter) {
   let q = db
     .selectFrom('audit_events as e')

@@ -2,6 +2,7 @@
 // `Authorization: Bearer …`, carrying their owner's roles, revocable.
 import { randomBytes } from 'node:crypto';
 import { sql, type Kysely } from 'kysely';
+import { z } from 'zod';
 import type { Database } from '@/db/schema';
 import { recordAudit } from '@/lib/audit/record';
 import { AppError } from '@/lib/errors/app-error';
@@ -9,6 +10,9 @@ import type { Actor } from './actor';
 import { hashToken } from './email-tokens';
 
 export const API_TOKEN_PREFIX = 'wst_';
+
+/** The body of POST /api/account/tokens. */
+export const apiTokenInputSchema = z.object({ name: z.string().trim().min(1, 'name the token').max(100) });
 
 export async function createApiToken(db: Kysely<Database>, actor: Actor, name: string): Promise<{ id: string; token: string; prefix: string }> {
   const token = `${API_TOKEN_PREFIX}${randomBytes(32).toString('base64url')}`;

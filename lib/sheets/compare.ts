@@ -3,8 +3,15 @@
 // version content and the engine's results; the answer is plain JSON-serialisable data (no Maps, no
 // undefined values, no NaN or Infinity) so a route handler can return it as it is.
 import { diffArrays } from 'diff';
+import { z } from 'zod';
 import type { DisplayValue, SheetResult, StatementResult, ValueKind } from '../calc/types';
 import type { VersionContent } from './content';
+
+/** The query of GET /api/sheets/{sheetId}/compare: `?base=1&target=2`, or only `target` for a first check. */
+export const compareQuerySchema = z.object({
+  base: z.coerce.number().int().positive().optional(),
+  target: z.coerce.number().int().positive(),
+});
 
 type CellKind = 'calc' | 'text';
 type DesignInput = VersionContent['record']['inputs'][number];

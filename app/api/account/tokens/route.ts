@@ -1,13 +1,10 @@
-import { z } from 'zod';
 import { getDb } from '@/db';
-import { createApiToken, listApiTokens } from '@/lib/auth/api-tokens';
+import { apiTokenInputSchema, createApiToken, listApiTokens } from '@/lib/auth/api-tokens';
 import { requireActor } from '@/lib/auth/current-actor';
 import { AppError } from '@/lib/errors/app-error';
 import { handle, parseJson } from '@/lib/http/route';
 
 export const dynamic = 'force-dynamic';
-
-const tokenSchema = z.object({ name: z.string().trim().min(1, 'name the token').max(100) });
 
 export function GET(): Promise<Response> {
   return handle(async () => Response.json({ tokens: await listApiTokens(getDb(), (await requireActor()).userId) }));
@@ -18,7 +15,7 @@ export function POST(request: Request): Promise<Response> {
   return handle(async () => {
     const actor = await requireActor();
     if (actor.via === 'token') throw new AppError('forbidden', 'Create tokens from a signed-in browser session.');
-    const { name } = await parseJson(request, tokenSchema);
+    const { name } = await parseJson(request, apiTokenInputSchema);
     return Response.json(await createApiToken(getDb(), actor, name), { status: 201 });
   });
 }

@@ -1,6 +1,6 @@
 import { getDb } from '@/db';
 import { requireProjectRole } from '@/lib/auth/current-actor';
-import { auditCsv, auditFilterSchema, listProjectAudit } from '@/lib/audit/query';
+import { auditCsv, auditQuerySchema, listProjectAudit } from '@/lib/audit/query';
 import { handle, parseValue, searchParams } from '@/lib/http/route';
 
 export const dynamic = 'force-dynamic';
@@ -9,9 +9,9 @@ export const dynamic = 'force-dynamic';
 export function GET(request: Request, { params }: { params: Promise<{ projectId: string }> }): Promise<Response> {
   return handle(async () => {
     const { project } = await requireProjectRole((await params).projectId, ['originator', 'checker', 'approver', 'controller']);
-    const query = searchParams(request);
-    const rows = await listProjectAudit(getDb(), project.id, parseValue(query, auditFilterSchema));
-    if (query.format === 'csv') {
+    const { format, ...filter } = parseValue(searchParams(request), auditQuerySchema);
+    const rows = await listProjectAudit(getDb(), project.id, filter);
+    if (format === 'csv') {
       return new Response(auditCsv(rows), {
         headers: { 'content-type': 'text/csv; charset=utf-8', 'content-disposition': `attachment; filename="${project.code}-audit.csv"` },
       });

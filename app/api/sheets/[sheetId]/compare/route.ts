@@ -1,23 +1,17 @@
-import { z } from 'zod';
 import { getDb } from '@/db';
 import { AppError } from '@/lib/errors/app-error';
 import { handle, parseValue, searchParams } from '@/lib/http/route';
 import { requireSheetAccess } from '@/lib/sheets/access';
-import { compareVersions } from '@/lib/sheets/compare';
+import { compareQuerySchema, compareVersions } from '@/lib/sheets/compare';
 import { getVersion } from '@/lib/sheets/sheets';
 
 export const dynamic = 'force-dynamic';
-
-const querySchema = z.object({
-  base: z.coerce.number().int().positive().optional(),
-  target: z.coerce.number().int().positive(),
-});
 
 /** Compares two versions (`?base=1&target=2`; without base, the whole target as a first check). */
 export function GET(request: Request, { params }: { params: Promise<{ sheetId: string }> }): Promise<Response> {
   return handle(async () => {
     const { sheet } = await requireSheetAccess((await params).sheetId);
-    const q = parseValue(searchParams(request), querySchema);
+    const q = parseValue(searchParams(request), compareQuerySchema);
     const [base, target] = await Promise.all([q.base ? getVersion(getDb(), sheet.id, q.base) : Promise.resolve(null), getVersion(getDb(), sheet.id, q.target)]);
     if (!target || base === undefined) throw new AppError('not_found', 'No such version.');
     return Response.json({

@@ -1,8 +1,8 @@
 import { getDb } from '@/db';
 import { AppError } from '@/lib/errors/app-error';
-import { handle } from '@/lib/http/route';
+import { handle, parseValue, searchParams } from '@/lib/http/route';
 import { requireSheetAccess } from '@/lib/sheets/access';
-import { sheetFileOf } from '@/lib/sheets/sheet-files';
+import { exportQuerySchema, sheetFileOf } from '@/lib/sheets/sheet-files';
 import { formatSheetNumber } from '@/lib/sheets/sheet-number';
 import { getVersion } from '@/lib/sheets/sheets';
 
@@ -12,8 +12,8 @@ export const dynamic = 'force-dynamic';
 export function GET(request: Request, { params }: { params: Promise<{ sheetId: string }> }): Promise<Response> {
   return handle(async () => {
     const { sheet, project } = await requireSheetAccess((await params).sheetId);
-    const v = new URL(request.url).searchParams.get('version');
-    const version = await getVersion(getDb(), sheet.id, v ? Number(v) : undefined);
+    const query = parseValue(searchParams(request), exportQuerySchema);
+    const version = await getVersion(getDb(), sheet.id, query.version);
     if (!version) throw new AppError('not_found', 'No such version.');
     const number = formatSheetNumber(project.code, sheet.number);
     return new Response(`${JSON.stringify(sheetFileOf(version.content, { number, version: version.number, sha256: version.sha256 }), null, 2)}\n`, {

@@ -1,0 +1,180 @@
+// Zod schemas that exist only to describe bodies in the OpenAPI document (lib/http/openapi.ts):
+// response bodies, which the handlers build from lib/ functions rather than parse, and the multipart
+// upload form, which is read with request.formData(). Request bodies and queries that a handler
+// validates are never described here: the document uses the handler's own schema.
+import { z } from 'zod';
+import { attachmentSchema } from '@/lib/attachments/attachments';
+import { calculationRecordSchema, versionContentSchema } from '@/lib/sheets/content';
+import { sheetFileSchema } from '@/lib/calc/sheet-file';
+import { PROJECT_ROLES } from '@/lib/projects/projects';
+
+const uuid = z.uuid();
+const timestamp = z.iso.datetime({ offset: true }).meta({ description: 'ISO 8601 date and time (UTC).' });
+const sha256 = z.string().regex(/^[0-9a-f]{64}$/).meta({ description: 'SHA-256, lowercase hexadecimal.' });
+const role = z.enum(PROJECT_ROLES);
+
+export const okSchema = z.object({ ok: z.literal(true) });
+
+/** 202 answers to requests that must not reveal whether an address has an account. */
+export const acceptedSchema = z.object({ ok: z.literal(true), message: z.string() });
+
+export const accountSchema = z.object({
+  id: uuid,
+  email: z.string(),
+  name: z.string(),
+  isAdmin: z.boolean(),
+  via: z.enum(['session', 'token']).meta({ description: 'How this request was authenticated.' }),
+});
+
+export const apiTokenListSchema = z.object({
+  tokens: z.array(
+    z.object({ id: uuid, name: z.string(), prefix: z.string(), created_at: timestamp, last_used_at: timestamp.nullable(), revoked_at: timestamp.nullable() }),
+  ),
+});
+
+export const apiTokenCreatedSchema = z.object({
+  id: uuid,
+  token: z.string().meta({ description: 'The secret (`wst_…`), shown in this response only; send it as `Authorization: Bearer <token>`.' }),
+  prefix: z.string(),
+});
+
+export const createdIdSchema = z.object({ id: uuid });
+
+export const userListSchema = z.object({
+  users: z.array(
+    z.object({
+      id: uuid,
+      email: z.string(),
+      name: z.string(),
+      isAdmin: z.boolean(),
+      disabledAt: timestamp.nullable(),
+      lockedAt: timestamp.nullable(),
+      createdAt: timestamp,
+      hasPassword: z.boolean(),
+    }),
+  ),
+});
+
+const projectFields = { id: uuid, code: z.string(), name: z.string(), legal_owner: z.string(), revision_scheme: z.enum(['letters', 'numbers']) };
+
+export const projectListSchema = z.object({
+  projects: z.array(z.object({ ...projectFields, created_at: timestamp, roles: z.array(role).meta({ description: 'Roles the caller holds (administrators may hold none).' }) })),
+});
+
+export const projectCreatedSchema = z.object({ id: uuid, code: z.string() });
+
+export const memberListSchema = z.object({
+  members: z.array(z.object({ userId: uuid, email: z.string(), name: z.string(), disabledAt: timestamp.nullable(), roles: z.array(role) })),
+});
+
+export const projectSchema = z.object({ project: z.object(projectFields), roles: z.array(role), members: memberListSchema.shape.members });
+
+export const auditEventListSchema = z.object({
+  events: z.array(
+    z.object({
+      id: z.string().meta({ description: 'Sequence number of the event (a bigint, sent as a string).' }),
+      occurred_at: timestamp,
+      action: z.string(),
+      object_type: z.string(),
+      object_id: z.string().nullable(),
+      old_value: z.unknown(),
+      new_value: z.unknown(),
+      reason: z.string().nullable(),
+      session_id: z.string().nullable(),
+      token_id: z.string().nullable(),
+      hash: z.string(),
+      actor_name: z.string().nullable(),
+      actor_email: z.string().nullable(),
+    }),
+  ),
+});
+
+export const sheetRegisterSchema = z.object({
+  sheets: z.array(
+    z.object({
+      id: uuid,
+      number: z.number().int(),
+      code: z.string().meta({ description: 'The sheet number as printed, e.g. `TPT2-CALC-0001`.' }),
+      title: z.string(),
+      safetyRelated: z.boolean(),
+      status: z.string(),
+      currentRevision: z.string().nullable(),
+      latestVersion: z.number().int().nullable(),
+      originator: z.string(),
+      updatedAt: timestamp,
+    }),
+  ),
+});
+
+export const sheetCreatedSchema = z.object({ id: uuid, number: z.number().int(), code: z.string() });
+
+export const sheetImportedSchema = sheetCreatedSchema.extend({
+  version: z.number().int().meta({ description: 'The version holding the imported file (2: version 1 is the sheet as created).' }),
+  sha256,
+});
+
+/** What the engine answers for a sheet; the full shape is `SheetResult` in lib/calc/types.ts. */
+export const sheetResultSchema = z
+  .looseObject({
+    ok: z.boolean(),
+    cells: z.array(z.looseObject({ id: z.string(), ok: z.boolean(), error: z.string().nullable(), statements: z.array(z.looseObject({})) })),
+    engineVersion: z.string(),
+    constantsEdition: z.string(),
+  })
+  .meta({ description: 'Per-cell, per-statement results: values with units, TeX, criteria and errors (SheetResult in lib/calc/types.ts).' });
+
+const versionSummaryFields = {
+  number: z.number().int(),
+  parentNumber: z.number().int().nullable(),
+  sha256,
+  message: z.string(),
+  createdAt: timestamp,
+  engineVersion: z.string(),
+  constantsEdition: z.string(),
+  author: z.string(),
+};
+
+export const versionListSchema = z.object({ versions: z.array(z.object(versionSummaryFields)) });
+
+export const versionSchema = z.object({ ...versionSummaryFields, content: versionContentSchema, results: sheetResultSchema.nullable() });
+
+export const sheetWithVersionSchema = z.object({
+  sheet: z.object({ id: uuid, project_id: uuid, number: z.number().int(), code: z.string(), title: z.string(), safety_related: z.boolean(), created_by: uuid, created_at: timestamp }),
+  version: versionSchema,
+});
+
+export const versionSavedSchema = z.object({ number: z.number().int(), sha256, ok: z.boolean().meta({ description: 'Whether every cell evaluated without error.' }) });
+
+export const comparisonSchema = z.object({
+  base: z.object({ number: z.number().int(), sha256 }).nullable(),
+  target: z.object({ number: z.number().int(), sha256 }),
+  comparison: z.looseObject({}).meta({ description: 'Cells matched by id with word diffs, results by name, criteria, record fields and attachments (VersionComparison in lib/sheets/compare.ts).' }),
+});
+
+/** The file GET …/export sends: a sheet file (what import takes) plus what Worldsheet records with it. */
+export const exportedSheetFileSchema = sheetFileSchema.extend({
+  safetyRelated: z.boolean(),
+  record: calculationRecordSchema,
+  exportedFrom: z.object({ sheet: z.string(), version: z.number().int(), sha256 }),
+});
+
+export const healthSchema = z.object({
+  status: z.enum(['ok', 'unavailable']),
+  version: z.string(),
+  database: z.object({ status: z.enum(['up', 'down']), latencyMs: z.number().nullable(), migration: z.string().nullable(), error: z.string().optional() }),
+});
+
+/** The multipart form of an attachment upload: one file. */
+export const attachmentUploadFormSchema = z.object({ file: z.file().meta({ description: 'The file; its name and media type come from the part.' }) });
+
+/** GET /api/sheets/{sheetId}/attachments, newest first. */
+export const attachmentListSchema = z.object({ attachments: z.array(attachmentSchema) });
+
+/** next-auth's own answers (sessions, providers, CSRF token); their shapes belong to next-auth. */
+export const nextAuthBodySchema = z.looseObject({});
+
+/** next-auth's sign-in and sign-out forms (read by next-auth, not by our zod schemas). */
+export const nextAuthFormSchema = z.record(z.string(), z.string());
+
+/** The answer of GET /api/openapi.json, described by its one fixed field. */
+export const openApiDocumentSchema = z.looseObject({ openapi: z.literal('3.1.0') });

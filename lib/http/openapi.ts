@@ -1,0 +1,646 @@
+// The OpenAPI 3.1 document of the HTTP API, served at GET /api/openapi.json. Every request body and
+// query here is the very zod schema the route handler validates with, converted by zod's own
+// z.toJSONSchema (JSON Schema 2020-12, the dialect of OpenAPI 3.1), so the document cannot drift from
+// what the server accepts. tests/api/openapi.test.ts fails when a route file has no entry in
+// OPERATIONS, or an entry has no route file.
+import { z, type ZodObject, type ZodType } from 'zod';
+import { attachmentSchema } from '@/lib/attachments/attachments';
+import { auditQuerySchema } from '@/lib/audit/query';
+import { passwordChangeSchema, resetConfirmSchema, resetRequestSchema } from '@/lib/auth/account';
+import { API_TOKEN_PREFIX, apiTokenInputSchema } from '@/lib/auth/api-tokens';
+import { evaluateRequestSchema } from '@/lib/calc/evaluate-request';
+import { sheetFileSchema } from '@/lib/calc/sheet-file';
+import { ENGINE_VERSION } from '@/lib/calc/version';
+import { errorBodySchema } from '@/lib/errors/app-error';
+import { projectInputSchema, roleChangeSchema } from '@/lib/projects/projects';
+import { inviteSchema, userChangeSchema } from '@/lib/projects/users';
+import { compareQuerySchema } from '@/lib/sheets/compare';
+import { exportQuerySchema } from '@/lib/sheets/sheet-files';
+import { createSheetSchema, saveVersionSchema } from '@/lib/sheets/sheets';
+import { APP_VERSION } from '@/lib/version';
+import * as res from './openapi-schemas';
+
+export type HttpMethod = 'GET' | 'POST' | 'PUT' | 'PATCH' | 'DELETE';
+
+/** Who may call: anyone, a browser session or an API token, or a browser session only. */
+export type Auth = 'none' | 'session or API token' | 'session';
+
+export type Tag = 'meta' | 'sign-in' | 'account' | 'admin' | 'projects' | 'sheets' | 'attachments' | 'calculation';
+
+/** A body: a zod schema, or raw bytes of a media type. */
+export type BodySchema = ZodType | 'binary';
+
+export interface ResponseSpec {
+  description: string;
+  /** Media type → body; none for an empty body. */
+  content?: Record<string, BodySchema>;
+}
+
+export interface Operation {
+  method: HttpMethod;
+  /** OpenAPI style: `/api/sheets/{sheetId}/versions`. */
+  path: string;
+  operationId: string;
+  summary: string;
+  description?: string;
+  tags: Tag[];
+  auth: Auth;
+  /** Every `{name}` of the path, with its schema. */
+  params?: Record<string, { description: string; schema: ZodType }>;
+  /** The schema the handler passes to parseValue with the query string. */
+  query?: ZodObject;
+  /** The schema the handler passes to parseJson (or safeParse); JSON unless `contentType` says otherwise. */
+  body?: { schema: BodySchema; contentType?: string; description?: string };
+  responses: Record<number, ResponseSpec>;
+}
+
+const json = (description: string, schema: ZodType): ResponseSpec => ({ description, content: { 'application/json': schema } });
+
+const ERROR_TEXT: Record<number, string> = {
+  400: 'The request is not valid; `details` lists the first problems.',
+  401: 'Not signed in: no live session and no valid API token.',
+  403: 'Signed in without the role this needs.',
+  404: 'No such object, or one of a project the caller is not a member of.',
+  409: 'Conflicts with the current state; `details` says with what.',
+  413: 'The body is larger than allowed.',
+  415: 'The media type is not accepted.',
+  503: 'A service the request needs is unavailable.',
+};
+
+/** Error responses, each with the one error body; `overrides` words a status for this operation. */
+function errors(statuses: number[], overrides: Record<number, string> = {}): Record<number, ResponseSpec> {
+  return Object.fromEntries(statuses.map((s) => [s, json(overrides[s] ?? ERROR_TEXT[s], errorBodySchema)]));
+}
+
+const uuidParam = (what: string) => ({ description: `The ${what}'s id (UUID).`, schema: z.uuid() });
+const projectParam = { projectId: { description: "The project's id (UUID) or its code, e.g. `TPT2`.", schema: z.string().min(1) } };
+const projectIdParam = { projectId: uuidParam('project') };
+const sheetParam = { sheetId: uuidParam('sheet') };
+
+const member = 'Members of the project; 404 for anyone else, administrators included.';
+
+export const OPERATIONS: Operation[] = [
+  // meta
+  {
+    method: 'GET',
+    path: '/api/health',
+    operationId: 'getHealth',
+    summary: 'Health of the app and its database',
+    tags: ['meta'],
+    auth: 'none',
+    responses: { 200: json('Up, with the latest migration and the app version.', res.healthSchema), 503: json('The database cannot be reached.', res.healthSchema) },
+  },
+  {
+    method: 'GET',
+    path: '/api/openapi.json',
+    operationId: 'getOpenApiDocument',
+    summary: 'This document',
+    description: 'The OpenAPI 3.1 document of the API, generated from the zod schemas the route handlers validate with.',
+    tags: ['meta'],
+    auth: 'none',
+    responses: { 200: { description: 'The OpenAPI document.', content: { 'application/json': res.openApiDocumentSchema } } },
+  },
+
+  // sign-in
+  {
+    method: 'GET',
+    path: '/api/auth/{nextauth}',
+    operationId: 'nextAuthGet',
+    summary: 'Sign-in endpoints (next-auth): session, providers, CSRF token, sign-in and sign-out pages, callbacks',
+    description:
+      'Handled by next-auth. `{nextauth}` is the rest of the path and may hold slashes: `session`, `providers`, `csrf`, `signin`, `signout`, ' +
+      '`callback/oidc` (the redirect URI registered at the OpenID Connect provider), `error`. A successful sign-in sets the session cookie.',
+    tags: ['sign-in'],
+    auth: 'none',
+    params: { nextauth: { description: 'The next-auth action, e.g. `session`, `providers`, `csrf`, `callback/oidc`.', schema: z.string() } },
+    responses: { 200: json('The action\'s answer (JSON for `session`, `providers` and `csrf`).', res.nextAuthBodySchema), 302: { description: 'A redirect (sign-in page, provider, callback).' } },
+  },
+  {
+    method: 'POST',
+    path: '/api/auth/{nextauth}',
+    operationId: 'nextAuthPost',
+    summary: 'Sign in and out (next-auth)',
+    description:
+      'Handled by next-auth, with its CSRF token (from `GET /api/auth/csrf`) in the form: `callback/password` (fields `email`, `password`), ' +
+      '`callback/link` (field `token`, from an e-mailed sign-in link), `signin/oidc` (single sign-on), `signout`. ' +
+      'Five failed passwords in a row lock the account; attempts are rate limited per address and per client.',
+    tags: ['sign-in'],
+    auth: 'none',
+    params: { nextauth: { description: 'The next-auth action, e.g. `callback/password`, `callback/link`, `signin/oidc`, `signout`.', schema: z.string() } },
+    body: { schema: res.nextAuthFormSchema, contentType: 'application/x-www-form-urlencoded', description: 'next-auth form fields, with `csrfToken`.' },
+    responses: { 200: json('JSON answer when asked for one (`json=true`).', res.nextAuthBodySchema), 302: { description: 'Redirect after sign-in, a refused sign-in (to the error page) or sign-out.' } },
+  },
+  {
+    method: 'POST',
+    path: '/api/auth/password-reset',
+    operationId: 'requestPasswordReset',
+    summary: 'Send a password reset link',
+    description: 'Sends a reset link if the address has an account; the answer is the same either way. At most 3 per account per 15 minutes.',
+    tags: ['sign-in'],
+    auth: 'none',
+    body: { schema: resetRequestSchema },
+    responses: { 202: json('Accepted (whether or not the address has an account).', res.acceptedSchema), ...errors([400, 413]) },
+  },
+  {
+    method: 'POST',
+    path: '/api/auth/password-reset/confirm',
+    operationId: 'confirmPasswordReset',
+    summary: 'Set a new password with a reset token',
+    tags: ['sign-in'],
+    auth: 'none',
+    body: { schema: resetConfirmSchema },
+    responses: { 200: json('The password is changed and the account\'s sessions ended.', res.okSchema), ...errors([400, 413], { 400: 'Invalid body, a password that is too weak, or an unknown, used or expired token.' }) },
+  },
+  {
+    method: 'POST',
+    path: '/api/auth/sign-in-link',
+    operationId: 'requestSignInLink',
+    summary: 'Send a single-use sign-in link',
+    description: 'Sends a sign-in link if the address has an account; the answer is the same either way.',
+    tags: ['sign-in'],
+    auth: 'none',
+    body: { schema: resetRequestSchema },
+    responses: { 202: json('Accepted (whether or not the address has an account).', res.acceptedSchema), ...errors([400, 413]) },
+  },
+
+  // account
+  {
+    method: 'GET',
+    path: '/api/account',
+    operationId: 'getAccount',
+    summary: 'Who the caller is',
+    tags: ['account'],
+    auth: 'session or API token',
+    responses: { 200: json('The signed-in user.', res.accountSchema), ...errors([401]) },
+  },
+  {
+    method: 'POST',
+    path: '/api/account/password',
+    operationId: 'changePassword',
+    summary: 'Change the password',
+    description: 'From a browser session only: an API token gets 403.',
+    tags: ['account'],
+    auth: 'session',
+    body: { schema: passwordChangeSchema },
+    responses: { 200: json('Changed; the other sessions are ended.', res.okSchema), ...errors([400, 401, 403, 413]) },
+  },
+  {
+    method: 'GET',
+    path: '/api/account/tokens',
+    operationId: 'listApiTokens',
+    summary: "The caller's API tokens (never their secrets)",
+    tags: ['account'],
+    auth: 'session or API token',
+    responses: { 200: json('Newest first, revoked ones included.', res.apiTokenListSchema), ...errors([401]) },
+  },
+  {
+    method: 'POST',
+    path: '/api/account/tokens',
+    operationId: 'createApiToken',
+    summary: 'Create an API token',
+    description: `From a browser session only: a token cannot create tokens. The secret (\`${API_TOKEN_PREFIX}…\`) is in this response only.`,
+    tags: ['account'],
+    auth: 'session',
+    body: { schema: apiTokenInputSchema },
+    responses: { 201: json('The token, with its secret.', res.apiTokenCreatedSchema), ...errors([400, 401, 403, 413]) },
+  },
+  {
+    method: 'DELETE',
+    path: '/api/account/tokens/{tokenId}',
+    operationId: 'revokeApiToken',
+    summary: 'Revoke one of the caller\'s API tokens',
+    tags: ['account'],
+    auth: 'session or API token',
+    params: { tokenId: uuidParam('token') },
+    responses: { 200: json('Revoked.', res.okSchema), ...errors([401, 404]) },
+  },
+
+  // admin
+  {
+    method: 'GET',
+    path: '/api/admin/users',
+    operationId: 'listUsers',
+    summary: 'Every account',
+    tags: ['admin'],
+    auth: 'session or API token',
+    description: 'Administrators only.',
+    responses: { 200: json('Accounts by name.', res.userListSchema), ...errors([401, 403]) },
+  },
+  {
+    method: 'POST',
+    path: '/api/admin/users',
+    operationId: 'inviteUser',
+    summary: 'Invite a user by e-mail',
+    description: 'Administrators only. The account is created and a link to choose a password is sent.',
+    tags: ['admin'],
+    auth: 'session or API token',
+    body: { schema: inviteSchema },
+    responses: { 201: json('The new account.', res.createdIdSchema), ...errors([400, 401, 403, 409, 413]) },
+  },
+  {
+    method: 'PATCH',
+    path: '/api/admin/users/{userId}',
+    operationId: 'changeUser',
+    summary: 'Disable, enable or unlock an account, with a reason',
+    description: 'Administrators only. Accounts are never deleted: signatures must stay readable.',
+    tags: ['admin'],
+    auth: 'session or API token',
+    params: { userId: uuidParam('user') },
+    body: { schema: userChangeSchema },
+    responses: { 200: json('Changed and audited.', res.okSchema), ...errors([400, 401, 403, 404, 409, 413]) },
+  },
+
+  // projects
+  {
+    method: 'GET',
+    path: '/api/projects',
+    operationId: 'listProjects',
+    summary: 'Projects the caller is a member of (administrators: all)',
+    tags: ['projects'],
+    auth: 'session or API token',
+    responses: { 200: json('Projects by code, with the caller\'s roles.', res.projectListSchema), ...errors([401]) },
+  },
+  {
+    method: 'POST',
+    path: '/api/projects',
+    operationId: 'createProject',
+    summary: 'Create a project',
+    description: 'Administrators only.',
+    tags: ['projects'],
+    auth: 'session or API token',
+    body: { schema: projectInputSchema },
+    responses: { 201: json('The new project.', res.projectCreatedSchema), ...errors([400, 401, 403, 409, 413]) },
+  },
+  {
+    method: 'GET',
+    path: '/api/projects/{projectId}',
+    operationId: 'getProject',
+    summary: 'A project, the caller\'s roles in it and its members',
+    description: member,
+    tags: ['projects'],
+    auth: 'session or API token',
+    params: projectParam,
+    responses: { 200: json('The project.', res.projectSchema), ...errors([401, 404]) },
+  },
+  {
+    method: 'GET',
+    path: '/api/projects/{projectId}/members',
+    operationId: 'listMembers',
+    summary: 'The members of a project and their roles',
+    description: 'Members of the project, and administrators (who give the id, not the code).',
+    tags: ['projects'],
+    auth: 'session or API token',
+    params: projectParam,
+    responses: { 200: json('Members by name.', res.memberListSchema), ...errors([401, 404]) },
+  },
+  {
+    method: 'POST',
+    path: '/api/projects/{projectId}/members',
+    operationId: 'grantRole',
+    summary: 'Give a user a role in the project, with a reason',
+    description: 'Administrators only.',
+    tags: ['projects'],
+    auth: 'session or API token',
+    params: projectIdParam,
+    body: { schema: roleChangeSchema },
+    responses: { 201: json('Given and audited.', res.okSchema), ...errors([400, 401, 403, 404, 409, 413]) },
+  },
+  {
+    method: 'DELETE',
+    path: '/api/projects/{projectId}/members',
+    operationId: 'revokeRole',
+    summary: 'Take a role away, with a reason',
+    description: 'Administrators only. The body names the user and the role.',
+    tags: ['projects'],
+    auth: 'session or API token',
+    params: projectIdParam,
+    body: { schema: roleChangeSchema },
+    responses: { 200: json('Taken away and audited.', res.okSchema), ...errors([400, 401, 403, 404, 413]) },
+  },
+  {
+    method: 'GET',
+    path: '/api/projects/{projectId}/audit',
+    operationId: 'listProjectAudit',
+    summary: 'The project\'s audit trail, filtered, as JSON or CSV',
+    description: 'Originators, checkers, approvers and document controllers of the project; viewers get 403.',
+    tags: ['projects'],
+    auth: 'session or API token',
+    params: projectParam,
+    query: auditQuerySchema,
+    responses: {
+      200: {
+        description: 'Events, newest first; with `format=csv` a CSV download.',
+        content: { 'application/json': res.auditEventListSchema, 'text/csv': z.string() },
+      },
+      ...errors([400, 401, 403, 404]),
+    },
+  },
+
+  // sheets
+  {
+    method: 'GET',
+    path: '/api/projects/{projectId}/sheets',
+    operationId: 'listSheets',
+    summary: 'The project\'s register of sheets',
+    description: member,
+    tags: ['sheets'],
+    auth: 'session or API token',
+    params: projectParam,
+    responses: { 200: json('Sheets by number.', res.sheetRegisterSchema), ...errors([401, 404]) },
+  },
+  {
+    method: 'POST',
+    path: '/api/projects/{projectId}/sheets',
+    operationId: 'createSheet',
+    summary: 'Create a sheet, numbered by the server, with version 1',
+    description: 'Originators of the project.',
+    tags: ['sheets'],
+    auth: 'session or API token',
+    params: projectParam,
+    body: { schema: createSheetSchema },
+    responses: { 201: json('The new sheet.', res.sheetCreatedSchema), ...errors([400, 401, 403, 404, 413]) },
+  },
+  {
+    method: 'POST',
+    path: '/api/projects/{projectId}/sheets/import',
+    operationId: 'importSheetFile',
+    summary: 'Import a sheet file as a new sheet',
+    description: 'Originators of the project. Version 1 is the sheet as created, version 2 holds the file. At most 4 MiB.',
+    tags: ['sheets'],
+    auth: 'session or API token',
+    params: projectParam,
+    body: { schema: sheetFileSchema, description: 'A sheet file, e.g. one from GET /api/sheets/{sheetId}/export.' },
+    responses: { 201: json('The new sheet and the version holding the file.', res.sheetImportedSchema), ...errors([400, 401, 403, 404, 413]) },
+  },
+  {
+    method: 'GET',
+    path: '/api/sheets/{sheetId}',
+    operationId: 'getSheet',
+    summary: 'A sheet with its latest version',
+    description: member,
+    tags: ['sheets'],
+    auth: 'session or API token',
+    params: sheetParam,
+    responses: { 200: json('The sheet, and its latest version with content, results and hash.', res.sheetWithVersionSchema), ...errors([401, 404]) },
+  },
+  {
+    method: 'GET',
+    path: '/api/sheets/{sheetId}/versions',
+    operationId: 'listVersions',
+    summary: 'The versions of a sheet',
+    description: member,
+    tags: ['sheets'],
+    auth: 'session or API token',
+    params: sheetParam,
+    responses: { 200: json('Newest first.', res.versionListSchema), ...errors([401, 404]) },
+  },
+  {
+    method: 'POST',
+    path: '/api/sheets/{sheetId}/versions',
+    operationId: 'saveVersion',
+    summary: 'Save a new version',
+    description:
+      'Originators of the project. The content is evaluated by the server and stored with its SHA-256 (RFC 8785 canonical form) and results. ' +
+      'Refused with 409 when `parentNumber` is not the latest version; `details` then holds `latestNumber` and `latestSha256`. At most 4 MiB.',
+    tags: ['sheets'],
+    auth: 'session or API token',
+    params: sheetParam,
+    body: { schema: saveVersionSchema },
+    responses: { 201: json('The new version.', res.versionSavedSchema), ...errors([400, 401, 403, 404, 409, 413]) },
+  },
+  {
+    method: 'GET',
+    path: '/api/sheets/{sheetId}/versions/{number}',
+    operationId: 'getVersion',
+    summary: 'One version, with the results recorded when it was saved',
+    description: member,
+    tags: ['sheets'],
+    auth: 'session or API token',
+    params: { ...sheetParam, number: { description: 'The version number, from 1.', schema: z.coerce.number().int().positive() } },
+    responses: { 200: json('The version.', z.object({ version: res.versionSchema })), ...errors([401, 404]) },
+  },
+  {
+    method: 'GET',
+    path: '/api/sheets/{sheetId}/compare',
+    operationId: 'compareVersions',
+    summary: 'Compare two versions for the check',
+    description: `${member} Without \`base\`, the whole target version as a first check.`,
+    tags: ['sheets'],
+    auth: 'session or API token',
+    params: sheetParam,
+    query: compareQuerySchema,
+    responses: { 200: json('The comparison.', res.comparisonSchema), ...errors([400, 401, 404]) },
+  },
+  {
+    method: 'GET',
+    path: '/api/sheets/{sheetId}/export',
+    operationId: 'exportSheetFile',
+    summary: 'Download a version as a sheet file',
+    description: `${member} The latest version, or \`version\`. The command-line evaluator and the import read this file.`,
+    tags: ['sheets'],
+    auth: 'session or API token',
+    params: sheetParam,
+    query: exportQuerySchema,
+    responses: {
+      200: { description: 'The sheet file, as a download (`content-disposition: attachment`).', content: { 'application/json': res.exportedSheetFileSchema } },
+      ...errors([400, 401, 404]),
+    },
+  },
+
+  // attachments
+  {
+    method: 'GET',
+    path: '/api/sheets/{sheetId}/attachments',
+    operationId: 'listAttachments',
+    summary: 'The files attached to a sheet',
+    description: member,
+    tags: ['attachments'],
+    auth: 'session or API token',
+    params: sheetParam,
+    responses: { 200: json('The attachments.', res.attachmentListSchema), ...errors([401, 404]) },
+  },
+  {
+    method: 'POST',
+    path: '/api/sheets/{sheetId}/attachments',
+    operationId: 'uploadAttachment',
+    summary: 'Upload a file to attach to a sheet',
+    description:
+      'Originators of the project. Accepted: PDF documents (up to 20 MiB), PNG or JPEG images (up to 10 MiB) and CSV tables (up to 2 MiB), ' +
+      'recognised by their content; the name and the declared type must agree with it. The file is stored by its SHA-256; the next version ' +
+      'cites it by the returned reference in `content.attachments`. A CSV file is read as a table of numbers that cells can use.',
+    tags: ['attachments'],
+    auth: 'session or API token',
+    params: sheetParam,
+    body: { schema: res.attachmentUploadFormSchema, contentType: 'multipart/form-data', description: 'One part named `file`.' },
+    responses: {
+      201: json('The stored file\'s reference, and the table read from a CSV file.', attachmentSchema),
+      ...errors([400, 401, 403, 404, 413, 415], {
+        400: 'Not multipart, no `file` part, an empty file, or a CSV file that is not a table of numbers (the message says where).',
+        413: 'The file is larger than allowed.',
+        415: 'A media type that is not accepted, or content that does not match its declared type.',
+      }),
+    },
+  },
+  {
+    method: 'GET',
+    path: '/api/sheets/{sheetId}/attachments/{sha256}',
+    operationId: 'downloadAttachment',
+    summary: 'Download an attached file',
+    description: member,
+    tags: ['attachments'],
+    auth: 'session or API token',
+    params: { ...sheetParam, sha256: { description: 'The SHA-256 of the file, lowercase hexadecimal.', schema: z.string().regex(/^[0-9a-f]{64}$/) } },
+    responses: {
+      200: {
+        description: 'The file\'s bytes, checked against their SHA-256, always as a download (`content-disposition: attachment`).',
+        content: { 'application/pdf': 'binary', 'image/png': 'binary', 'image/jpeg': 'binary', 'text/csv': 'binary' },
+      },
+      ...errors([401, 404, 503], { 503: 'The stored file is missing or no longer matches its SHA-256; it is not served.' }),
+    },
+  },
+
+  // calculation
+  {
+    method: 'POST',
+    path: '/api/evaluate',
+    operationId: 'evaluate',
+    summary: 'Evaluate cells with the server\'s engine',
+    description:
+      'Any signed-in user. Cells are evaluated in order in a sandboxed worker with a time and a memory limit. `sheetKey` sends a sheet to the same ' +
+      'worker each time, so its cache makes re-evaluation incremental. `attachments` (with `sheetId`) names CSV attachments of that sheet to use ' +
+      'as input tables; the caller must be a member of its project. At most 2 MiB.',
+    tags: ['calculation'],
+    auth: 'session or API token',
+    body: { schema: evaluateRequestSchema },
+    responses: { 200: json('Per-cell, per-statement results.', res.sheetResultSchema), ...errors([400, 401, 404, 413], { 404: 'No such sheet, or one of a project the caller is not a member of (with `sheetId`).' }) },
+  },
+];
+
+const TAGS: { name: Tag; description: string }[] = [
+  { name: 'meta', description: 'Health and this document.' },
+  { name: 'sign-in', description: 'Signing in and recovering an account.' },
+  { name: 'account', description: 'The caller\'s own account and API tokens.' },
+  { name: 'admin', description: 'Accounts, for administrators.' },
+  { name: 'projects', description: 'Projects, roles and the audit trail.' },
+  { name: 'sheets', description: 'Calculation sheets and their immutable versions.' },
+  { name: 'attachments', description: 'Files attached to sheets.' },
+  { name: 'calculation', description: 'The calculation engine.' },
+];
+
+const SECURITY: Record<Auth, Record<string, string[]>[]> = {
+  none: [],
+  'session or API token': [{ sessionCookie: [] }, { apiToken: [] }],
+  session: [{ sessionCookie: [] }],
+};
+
+/** Schemas shown once under components and referred to by `$ref` where a body is exactly one of them. */
+const COMPONENTS: Record<string, ZodType> = { Error: errorBodySchema };
+
+/**
+ * JSON Schema 2020-12 of a zod schema, as the request (`input`) or the response (`output`) side sees
+ * it. Response objects stay open (no `additionalProperties: false`): a field added to an answer later
+ * must not break a client that validates answers.
+ */
+export function jsonSchemaOf(schema: ZodType, io: 'input' | 'output'): Record<string, unknown> {
+  const { $schema: _dialect, ...rest } = z.toJSONSchema(schema, {
+    target: 'draft-2020-12',
+    io,
+    override: ({ jsonSchema }) => {
+      if (io === 'output' && jsonSchema.additionalProperties === false) delete jsonSchema.additionalProperties;
+    },
+  });
+  return rest;
+}
+
+function schemaOrRef(body: BodySchema, io: 'input' | 'output', mediaType: string): Record<string, unknown> {
+  // Raw bytes as OpenAPI 3.1 describes them ("Considerations for File Uploads"): a string with its media type.
+  if (body === 'binary') return { type: 'string', contentMediaType: mediaType };
+  const name = Object.keys(COMPONENTS).find((k) => COMPONENTS[k] === body);
+  return name ? { $ref: `#/components/schemas/${name}` } : jsonSchemaOf(body, io);
+}
+
+function parametersOf(op: Operation): Record<string, unknown>[] {
+  const out: Record<string, unknown>[] = [];
+  for (const [name, p] of Object.entries(op.params ?? {})) {
+    out.push({ name, in: 'path', required: true, description: p.description, schema: jsonSchemaOf(p.schema, 'input') });
+  }
+  if (op.query) {
+    const query = jsonSchemaOf(op.query, 'input') as { properties?: Record<string, Record<string, unknown>>; required?: string[] };
+    for (const [name, schema] of Object.entries(query.properties ?? {})) {
+      const { description, ...rest } = schema;
+      out.push({ name, in: 'query', required: (query.required ?? []).includes(name), ...(description ? { description } : {}), schema: rest });
+    }
+  }
+  return out;
+}
+
+function operationObject(op: Operation): Record<string, unknown> {
+  const parameters = parametersOf(op);
+  return {
+    operationId: op.operationId,
+    summary: op.summary,
+    ...(op.description ? { description: op.description } : {}),
+    tags: op.tags,
+    security: SECURITY[op.auth],
+    ...(parameters.length ? { parameters } : {}),
+    ...(op.body
+      ? {
+          requestBody: {
+            required: true,
+            ...(op.body.description ? { description: op.body.description } : {}),
+            content: { [op.body.contentType ?? 'application/json']: { schema: schemaOrRef(op.body.schema, 'input', op.body.contentType ?? 'application/json') } },
+          },
+        }
+      : {}),
+    responses: Object.fromEntries(
+      Object.entries(op.responses).map(([status, r]) => [
+        status,
+        {
+          description: r.description,
+          ...(r.content ? { content: Object.fromEntries(Object.entries(r.content).map(([type, body]) => [type, { schema: schemaOrRef(body, 'output', type) }])) } : {}),
+        },
+      ]),
+    ),
+  };
+}
+
+/** The OpenAPI 3.1 document of every route in OPERATIONS. */
+export function buildOpenApiDocument(): Record<string, unknown> {
+  const paths: Record<string, Record<string, unknown>> = {};
+  for (const op of OPERATIONS) {
+    paths[op.path] ??= {};
+    paths[op.path][op.method.toLowerCase()] = operationObject(op);
+  }
+  return {
+    openapi: '3.1.0',
+    jsonSchemaDialect: 'https://json-schema.org/draft/2020-12/schema',
+    info: {
+      title: 'Worldsheet API',
+      version: APP_VERSION,
+      description:
+        'Unit-aware relativistic calculation sheets with independent check and approval. Every write in the app goes through these routes; ' +
+        `scripts use an API token (\`Authorization: Bearer ${API_TOKEN_PREFIX}…\`), acting with its owner's roles. ` +
+        `Errors answer with one body: {"error": {"code", "message", "details"}}. Calculation engine: ${ENGINE_VERSION}.`,
+    },
+    servers: [{ url: '/' }],
+    tags: TAGS,
+    paths,
+    components: {
+      schemas: Object.fromEntries(Object.entries(COMPONENTS).map(([name, schema]) => [name, jsonSchemaOf(schema, 'output')])),
+      securitySchemes: {
+        sessionCookie: {
+          type: 'apiKey',
+          in: 'cookie',
+          name: 'next-auth.session-token',
+          description: 'The browser session set by signing in (`__Secure-next-auth.session-token` over https). Ends after idle time, 12 hours or sign-out.',
+        },
+        apiToken: {
+          type: 'http',
+          scheme: 'bearer',
+          bearerFormat: `${API_TOKEN_PREFIX}…`,
+          description: 'An API token made on the account page, acting with its owner\'s roles. It cannot create tokens or change the password.',
+        },
+      },
+    },
+  };
+}
