@@ -129,6 +129,56 @@ export interface AttachmentsTable {
   created_at: Timestamp;
 }
 
+export type CheckState = 'in_check' | 'returned' | 'checked' | 'approved' | 'approval_returned';
+export type VerificationMethod = 'design_review' | 'alternate_calculation' | 'qualification_test';
+export type SignatureMeaning = 'prepared' | 'checked' | 'approved' | 'issued';
+
+export interface ChecksTable {
+  id: Generated<string>;
+  sheet_id: Once<string>;
+  project_id: Once<string>;
+  version_number: Once<number>;
+  version_sha256: Once<string>;
+  base_version_number: Once<number | null>;
+  submitted_by: Once<string>;
+  checker_id: Once<string>;
+  state: Generated<CheckState>;
+  verification_method: VerificationMethod | null;
+  checker_notes: Generated<string>;
+  alternate_cells: ColumnType<unknown, string | undefined, string>;
+  alternate_results: ColumnType<unknown | null, string | null | undefined, string | null>;
+  return_reason: string | null;
+  decided_by: string | null;
+  created_at: Timestamp;
+  updated_at: ColumnType<Date, Date | string | undefined, Date | string>;
+  closed_at: ColumnType<Date | null, Date | string | null | undefined, Date | string | null>;
+}
+
+export interface SignaturesTable {
+  id: Generated<string>;
+  sheet_id: Once<string>;
+  version_number: Once<number>;
+  version_sha256: Once<string>;
+  check_id: Once<string | null>;
+  user_id: Once<string>;
+  printed_name: Once<string>;
+  meaning: Once<SignatureMeaning>;
+  signed_at: Timestamp;
+}
+
+export interface CheckCommentsTable {
+  id: Generated<string>;
+  check_id: Once<string>;
+  thread_id: Once<string | null>;
+  cell_id: Once<string>;
+  statement_line: Once<number | null>;
+  author_id: Once<string>;
+  body: Once<string>;
+  created_at: Timestamp;
+  resolved_at: ColumnType<Date | null, never, Date | string>;
+  resolved_by: ColumnType<string | null, never, string>;
+}
+
 export interface AuditEventsTable {
   id: Assigned<string>;
   occurred_at: Assigned<Date>;
@@ -153,6 +203,9 @@ export interface Database {
   sheets: SheetsTable;
   versions: VersionsTable;
   attachments: AttachmentsTable;
+  checks: ChecksTable;
+  signatures: SignaturesTable;
+  check_comments: CheckCommentsTable;
   audit_events: AuditEventsTable;
   sessions: SessionsTable;
   sign_in_attempts: SignInAttemptsTable;

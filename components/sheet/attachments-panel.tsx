@@ -95,7 +95,7 @@ export function AttachmentsPanel({ sheetId, cited, onChange }: { sheetId: string
           <input id="att-file" ref={input} type="file" accept=".pdf,.png,.jpg,.jpeg,.csv,application/pdf,image/png,image/jpeg,text/csv" className="text-sm" />
         </div>
         <button type="button" onClick={upload} disabled={status.kind === 'busy'} className="rounded border border-rule-strong bg-surface px-3 py-2 text-sm font-semibold disabled:opacity-60">
-          Upload
+          Upload the file
         </button>
       </div>
       <p role={status.kind === 'error' ? 'alert' : 'status'} aria-live="polite" className={`text-sm ${status.kind === 'error' ? 'text-fail' : ''}`}>

@@ -2,6 +2,7 @@
 
 import Link from 'next/link';
 import { useMemo, useState } from 'react';
+import { SHEET_STATUS_LABELS, type SheetStatus } from '@/lib/checks/status';
 
 export interface RegisterRow {
   id: string;
@@ -33,7 +34,7 @@ export function SheetRegister({ rows, projectCode }: { rows: RegisterRow[]; proj
   const [filter, setFilter] = useState('');
   const shown = useMemo(() => {
     const f = filter.trim().toLowerCase();
-    const list = f ? rows.filter((r) => `${r.code} ${r.title} ${r.originator} ${r.status}`.toLowerCase().includes(f)) : rows;
+    const list = f ? rows.filter((r) => `${r.code} ${r.title} ${r.originator} ${SHEET_STATUS_LABELS[r.status as SheetStatus] ?? r.status}`.toLowerCase().includes(f)) : rows;
     return [...list].sort((a, b) => {
       const x = a[sort.key] ?? '';
       const y = b[sort.key] ?? '';
@@ -74,7 +75,7 @@ export function SheetRegister({ rows, projectCode }: { rows: RegisterRow[]; proj
                 {r.title}
                 {r.safetyRelated ? <span className="ml-2 rounded bg-caution-soft px-1.5 py-0.5 text-xs font-bold text-caution">safety-related</span> : null}
               </td>
-              <td className="py-2 pr-3">{r.status}</td>
+              <td className="py-2 pr-3">{SHEET_STATUS_LABELS[r.status as SheetStatus] ?? r.status}</td>
               <td className="py-2 pr-3">{r.currentRevision ?? '—'}</td>
               <td className="py-2 pr-3 font-mono">{r.latestVersion ?? '—'}</td>
               <td className="py-2 pr-3">{r.originator}</td>

@@ -178,3 +178,79 @@ export const nextAuthFormSchema = z.record(z.string(), z.string());
 
 /** The answer of GET /api/openapi.json, described by its one fixed field. */
 export const openApiDocumentSchema = z.looseObject({ openapi: z.literal('3.1.0') });
+
+// ── Check and approval ───────────────────────────────────────────────────────────────────────
+
+const checkState = z.enum(['in_check', 'returned', 'checked', 'approved', 'approval_returned']);
+const meaning = z.enum(['prepared', 'checked', 'approved', 'issued']);
+
+export const signatureSchema = z.object({
+  id: uuid,
+  versionNumber: z.number().int(),
+  sha256: sha256.meta({ description: 'SHA-256 of the signed version: the signature applies to this content only (21 CFR Part 11 §11.70).' }),
+  printedName: z.string(),
+  meaning,
+  signedAt: timestamp,
+  checkId: uuid.nullable(),
+  userId: uuid,
+});
+
+export const sheetWorkflowSchema = z.object({
+  status: z.enum(['draft', 'in_check', 'checked', 'approved', 'returned']),
+  latestVersion: z.number().int(),
+  lastApprovedVersion: z.number().int().nullable(),
+  checks: z.array(
+    z.object({ id: uuid, state: checkState, stateLabel: z.string(), versionNumber: z.number().int(), sha256, checker: z.string(), submittedAt: timestamp, returnReason: z.string().nullable() }),
+  ),
+  signatures: z.array(signatureSchema),
+  checkers: z
+    .array(z.object({ userId: uuid, name: z.string(), eligible: z.boolean(), reason: z.string().nullable() }))
+    .meta({ description: 'The project\'s checkers, and why any of them may not check the latest version.' }),
+});
+
+export const submittedCheckSchema = z.object({ id: uuid, state: z.literal('in_check'), versionNumber: z.number().int(), sha256 });
+
+export const checkQueueSchema = z.object({
+  queue: z.enum(['check', 'approval']),
+  checks: z.array(
+    z.object({
+      id: uuid,
+      state: checkState,
+      sheet: z.object({ code: z.string(), title: z.string(), safetyRelated: z.boolean(), projectCode: z.string(), number: z.number().int() }),
+      versionNumber: z.number().int(),
+      sha256,
+      submittedBy: z.string(),
+      checker: z.string(),
+      submittedAt: timestamp,
+      updatedAt: timestamp,
+      eligible: z.boolean(),
+      reason: z.string().nullable(),
+    }),
+  ),
+});
+
+export const checkDetailSchema = z.looseObject({
+  id: uuid,
+  state: checkState,
+  stateLabel: z.string(),
+  sheet: z.object({ id: uuid, number: z.number().int(), code: z.string(), title: z.string(), safetyRelated: z.boolean(), projectCode: z.string() }),
+  version: z.looseObject({ number: z.number().int(), sha256, content: versionContentSchema }),
+  base: z.looseObject({ number: z.number().int(), sha256 }).nullable().meta({ description: 'The last approved version; null at a first check.' }),
+  comparison: z.looseObject({}).meta({ description: 'The version against its base: cells (word diffs), results (old, new, relative change), record fields.' }),
+  verificationMethod: z.enum(['design_review', 'alternate_calculation', 'qualification_test']).nullable(),
+  threads: z.array(
+    z.object({
+      id: uuid,
+      cellId: z.string(),
+      statementLine: z.number().int().nullable(),
+      resolvedAt: timestamp.nullable(),
+      resolvedBy: z.string().nullable(),
+      comments: z.array(z.object({ id: uuid, author: z.string(), body: z.string(), createdAt: timestamp })),
+    }),
+  ),
+  signatures: z.array(signatureSchema),
+  you: z.looseObject({ actions: z.array(z.enum(['return', 'sign', 'approve', 'reject'])) }).meta({ description: 'What the caller may do now.' }),
+});
+
+export const checkWorkResultSchema = z.object({ ok: z.literal(true), alternateResults: z.looseObject({}).nullable() });
+export const decisionResultSchema = z.object({ id: uuid, state: checkState });

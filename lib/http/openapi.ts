@@ -17,6 +17,7 @@ import { inviteSchema, userChangeSchema } from '@/lib/projects/users';
 import { compareQuerySchema } from '@/lib/sheets/compare';
 import { exportQuerySchema } from '@/lib/sheets/sheet-files';
 import { createSheetSchema, saveVersionSchema } from '@/lib/sheets/sheets';
+import { checkWorkSchema, commentSchema, decisionSchema, queueQuerySchema, resolveSchema, submitSchema } from '@/lib/checks/workflow';
 import { APP_VERSION } from '@/lib/version';
 import * as res from './openapi-schemas';
 
@@ -25,7 +26,7 @@ export type HttpMethod = 'GET' | 'POST' | 'PUT' | 'PATCH' | 'DELETE';
 /** Who may call: anyone, a browser session or an API token, or a browser session only. */
 export type Auth = 'none' | 'session or API token' | 'session';
 
-export type Tag = 'meta' | 'sign-in' | 'account' | 'admin' | 'projects' | 'sheets' | 'attachments' | 'calculation';
+export type Tag = 'meta' | 'sign-in' | 'account' | 'admin' | 'projects' | 'sheets' | 'attachments' | 'checks' | 'calculation';
 
 /** A body: a zod schema, or raw bytes of a media type. */
 export type BodySchema = ZodType | 'binary';
@@ -499,6 +500,113 @@ export const OPERATIONS: Operation[] = [
     },
   },
 
+  // checks
+  {
+    method: 'GET',
+    path: '/api/sheets/{sheetId}/checks',
+    operationId: 'sheetWorkflow',
+    summary: 'Where a sheet stands: its checks, signatures and eligible checkers',
+    description: member,
+    tags: ['checks'],
+    auth: 'session or API token',
+    params: sheetParam,
+    responses: { 200: json('The sheet\'s status, checks and signatures.', res.sheetWorkflowSchema), ...errors([401, 404]) },
+  },
+  {
+    method: 'POST',
+    path: '/api/sheets/{sheetId}/checks',
+    operationId: 'submitForCheck',
+    summary: 'Submit one version for check by a named checker',
+    description:
+      'Originators of the project. Signs the version "prepared": the password is asked again (21 CFR Part 11 §11.200). The checker must hold ' +
+      'the checker role and must not have saved any version since the last approved one (ASME NQA-1 Requirement 3 §500); a refusal names the rule ' +
+      'in `details.rule` and is audited. One open check per sheet.',
+    tags: ['checks'],
+    auth: 'session or API token',
+    params: sheetParam,
+    body: { schema: submitSchema },
+    responses: {
+      201: json('The check.', res.submittedCheckSchema),
+      ...errors([400, 401, 403, 404, 409], { 403: 'Not an originator, an ineligible checker (`details.rule`), or a wrong password.', 409: 'A check of this sheet is already open, or the version is older than the last approved one.' }),
+    },
+  },
+  {
+    method: 'GET',
+    path: '/api/checks',
+    operationId: 'checkQueue',
+    summary: 'My checks, or my approvals',
+    description: 'Any signed-in user: `queue=check` lists the open checks naming the caller as checker; `queue=approval` the checked versions awaiting approval in projects where the caller is an approver, each saying whether the caller may approve it.',
+    tags: ['checks'],
+    auth: 'session or API token',
+    query: queueQuerySchema,
+    responses: { 200: json('The queue.', res.checkQueueSchema), ...errors([400, 401]) },
+  },
+  {
+    method: 'GET',
+    path: '/api/checks/{checkId}',
+    operationId: 'getCheck',
+    summary: 'A check: the version against the last approved one, comments, signatures',
+    description: member,
+    tags: ['checks'],
+    auth: 'session or API token',
+    params: { checkId: uuidParam('check') },
+    responses: { 200: json('The check.', res.checkDetailSchema), ...errors([401, 404]) },
+  },
+  {
+    method: 'PATCH',
+    path: '/api/checks/{checkId}',
+    operationId: 'saveCheckWork',
+    summary: 'Record the checker\'s work: verification method, notes, alternate calculation',
+    description: 'The checker named on the check, while it is in check. Alternate calculation cells are evaluated by the server.',
+    tags: ['checks'],
+    auth: 'session or API token',
+    params: { checkId: uuidParam('check') },
+    body: { schema: checkWorkSchema },
+    responses: { 200: json('Saved; the alternate calculation\'s results.', res.checkWorkResultSchema), ...errors([400, 401, 403, 404, 409]) },
+  },
+  {
+    method: 'POST',
+    path: '/api/checks/{checkId}/comments',
+    operationId: 'addCheckComment',
+    summary: 'Comment on a cell, or answer a comment thread',
+    description: 'The checker opens threads anchored to a cell (and optionally a statement line); the checker and the originators answer them. Only while in check.',
+    tags: ['checks'],
+    auth: 'session or API token',
+    params: { checkId: uuidParam('check') },
+    body: { schema: commentSchema },
+    responses: { 201: json('The comment.', res.createdIdSchema), ...errors([400, 401, 403, 404, 409]) },
+  },
+  {
+    method: 'PATCH',
+    path: '/api/checks/{checkId}/comments/{commentId}',
+    operationId: 'resolveCheckComment',
+    summary: 'Resolve a comment thread',
+    description: 'The checker named on the check, while in check. A thread is resolved once and stays resolved.',
+    tags: ['checks'],
+    auth: 'session or API token',
+    params: { checkId: uuidParam('check'), commentId: uuidParam('thread\'s first comment') },
+    body: { schema: resolveSchema },
+    responses: { 200: json('Resolved.', res.okSchema), ...errors([400, 401, 403, 404, 409]) },
+  },
+  {
+    method: 'POST',
+    path: '/api/checks/{checkId}/decision',
+    operationId: 'decideCheck',
+    summary: 'Return, sign as checked, approve, or return from approval',
+    description:
+      '`return` and `sign` by the checker named on the check while in check; `sign` needs every thread resolved, a verification method and the ' +
+      'password. `approve` (password) and `reject` by an approver who saved no version since the last approved one and, on a safety-related ' +
+      'sheet, is not the checker. Each signature is bound to the version\'s SHA-256. An illegal transition is 409 with `details.state`.',
+    tags: ['checks'],
+    auth: 'session or API token',
+    params: { checkId: uuidParam('check') },
+    body: { schema: decisionSchema },
+    responses: {
+      200: json('The new state.', res.decisionResultSchema),
+      ...errors([400, 401, 403, 404, 409], { 403: 'Not the checker or an eligible approver (`details.rule`), or a wrong password.', 409: 'Not possible in the current state (`details.state`), or open comment threads.' }),
+    },
+  },
+
   // calculation
   {
     method: 'POST',
@@ -524,6 +632,7 @@ const TAGS: { name: Tag; description: string }[] = [
   { name: 'projects', description: 'Projects, roles and the audit trail.' },
   { name: 'sheets', description: 'Calculation sheets and their immutable versions.' },
   { name: 'attachments', description: 'Files attached to sheets.' },
+  { name: 'checks', description: 'Independent check, approval and electronic signatures.' },
   { name: 'calculation', description: 'The calculation engine.' },
 ];
 

@@ -9,6 +9,7 @@ import { recordAudit } from '@/lib/audit/record';
 import { getEvaluator } from '@/lib/calc/sandbox/evaluator';
 import type { InputTable, SheetResult } from '@/lib/calc/types';
 import { resolveAttachments } from '@/lib/attachments/attachments';
+import { sheetStatuses } from '@/lib/checks/status';
 import { AppError } from '@/lib/errors/app-error';
 import { emptyRecord, versionContentSchema, type VersionContent } from './content';
 import { contentHash } from './content-hash';
@@ -38,13 +39,14 @@ export async function listSheets(db: Kysely<Database>, projectId: string, projec
     .where('s.project_id', '=', projectId)
     .orderBy('s.number')
     .execute();
+  const statuses = await sheetStatuses(db, rows.map((r) => ({ id: r.id, latestVersion: r.latest === null ? null : Number(r.latest) })));
   return rows.map((r) => ({
     id: r.id,
     number: r.number,
     code: formatSheetNumber(projectCode, r.number),
     title: r.title,
     safetyRelated: r.safety_related,
-    status: 'draft' as const,
+    status: statuses.get(r.id) ?? ('draft' as const),
     currentRevision: null as string | null,
     latestVersion: r.latest === null ? null : Number(r.latest),
     originator: r.originator,

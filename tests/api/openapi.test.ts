@@ -17,6 +17,7 @@ import * as users from '../../lib/projects/users';
 import * as compare from '../../lib/sheets/compare';
 import * as sheetFiles from '../../lib/sheets/sheet-files';
 import * as sheets from '../../lib/sheets/sheets';
+import * as checksWorkflow from '../../lib/checks/workflow';
 
 const METHODS = ['GET', 'POST', 'PUT', 'PATCH', 'DELETE'] as const;
 
@@ -199,6 +200,7 @@ describe('generated from the handlers\' zod schemas', () => {
       'lib/sheets/compare.ts': compare,
       'lib/sheets/sheet-files.ts': sheetFiles,
       'lib/sheets/sheets.ts': sheets,
+      'lib/checks/workflow.ts': checksWorkflow,
     };
     // The import route hands the body text to importSheetFile, which parses it with sheetFileSchema.
     const parsedInLib: Record<string, string> = { 'POST /api/projects/{projectId}/sheets/import': 'lib/calc/sheet-file.ts' };

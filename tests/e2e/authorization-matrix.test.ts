@@ -5,8 +5,11 @@
 import { readdirSync, readFileSync, statSync } from 'node:fs';
 import path from 'node:path';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
-import { seedDemo } from '../../db/seed';
+import { DEMO_PASSWORD, seedDemo } from '../../db/seed';
+import { addComment, submitForCheck } from '../../lib/checks/workflow';
+import { uploadAttachment } from '../../lib/attachments/attachments';
 import { createApiToken } from '../../lib/auth/api-tokens';
+import { getObjectStore } from '../../lib/storage/object-store';
 import type { Actor } from '../../lib/auth/actor';
 import { resetDatabase, testDb } from '../support/database';
 import { makeProject, makeUser } from '../support/people';
@@ -21,11 +24,18 @@ interface World {
   outsiderId: string;
   sheetId: string;
   sheetContent: unknown;
+  /** SHA-256 of a CSV attachment uploaded to the sheet. */
+  attachmentSha256: string;
+  /** The demo checker, and an open check (of sheet 2) naming them, with one open comment thread. */
+  checkerId: string;
+  checkId: string;
+  threadId: string;
+  checkedCellId: string;
 }
 
 interface Entry {
   /** What the request does, built from the world. */
-  request: (w: World) => { path: string; body?: unknown };
+  request: (w: World) => { path: string; body?: unknown; file?: { name: string; type: string; text: string } };
   /** Expected status for each caller, or one status for all. */
   expect: Partial<Record<Who, number>> & { default?: number };
 }
@@ -34,6 +44,7 @@ const signedIn = (status: number, extra: Partial<Record<Who, number>> = {}) => (
 const memberOnly = (status: number) => ({ anonymous: 401, outsider: 404, admin: 404, default: status });
 const adminOnly = (status: number) => ({ anonymous: 401, admin: status, default: 403 });
 const originatorOnly = (status: number) => ({ anonymous: 401, outsider: 404, admin: 404, originator: status, default: 403 });
+const checkerOnly = (status: number) => ({ anonymous: 401, outsider: 404, admin: 404, checker: status, default: 403 });
 const reason = 'matrix test';
 
 // Keys are "METHOD /api/path" with the route file's own [segments].
@@ -91,6 +102,27 @@ const MATRIX: Record<string, Entry> = {
   },
   'GET /api/sheets/[sheetId]/compare': { request: (w) => ({ path: `/api/sheets/${w.sheetId}/compare?target=1` }), expect: memberOnly(200) },
   'GET /api/sheets/[sheetId]/versions/[number]': { request: (w) => ({ path: `/api/sheets/${w.sheetId}/versions/1` }), expect: memberOnly(200) },
+  'GET /api/sheets/[sheetId]/attachments': { request: (w) => ({ path: `/api/sheets/${w.sheetId}/attachments` }), expect: memberOnly(200) },
+  'POST /api/sheets/[sheetId]/attachments': {
+    request: (w) => ({ path: `/api/sheets/${w.sheetId}/attachments`, file: { name: 'matrix.csv', type: 'text/csv', text: 'x [m]\n1\n' } }),
+    expect: originatorOnly(201),
+  },
+  'GET /api/sheets/[sheetId]/attachments/[sha256]': { request: (w) => ({ path: `/api/sheets/${w.sheetId}/attachments/${w.attachmentSha256}` }), expect: memberOnly(200) },
+  'GET /api/sheets/[sheetId]/checks': { request: (w) => ({ path: `/api/sheets/${w.sheetId}/checks` }), expect: memberOnly(200) },
+  'POST /api/sheets/[sheetId]/checks': {
+    request: (w) => ({ path: `/api/sheets/${w.sheetId}/checks`, body: { versionNumber: 1, checkerId: w.checkerId, password: DEMO_PASSWORD } }),
+    expect: originatorOnly(201),
+  },
+  'GET /api/checks': { request: () => ({ path: '/api/checks?queue=approval' }), expect: signedIn(200) },
+  'GET /api/checks/[checkId]': { request: (w) => ({ path: `/api/checks/${w.checkId}` }), expect: memberOnly(200) },
+  'PATCH /api/checks/[checkId]': { request: (w) => ({ path: `/api/checks/${w.checkId}`, body: { verificationMethod: 'design_review' } }), expect: checkerOnly(200) },
+  'POST /api/checks/[checkId]/comments': {
+    request: (w) => ({ path: `/api/checks/${w.checkId}/comments`, body: { cellId: w.checkedCellId, body: 'Matrix comment' } }),
+    expect: checkerOnly(201),
+  },
+  'PATCH /api/checks/[checkId]/comments/[commentId]': { request: (w) => ({ path: `/api/checks/${w.checkId}/comments/${w.threadId}`, body: { resolved: true } }), expect: checkerOnly(200) },
+  // Last of the check entries: returning the check closes it.
+  'POST /api/checks/[checkId]/decision': { request: (w) => ({ path: `/api/checks/${w.checkId}/decision`, body: { action: 'return', reason: 'matrix test' } }), expect: checkerOnly(200) },
   'GET /api/admin/users': { request: () => ({ path: '/api/admin/users' }), expect: adminOnly(200) },
   'POST /api/admin/users': { request: () => ({ path: '/api/admin/users', body: { email: 'invited@example.test', name: 'Invited Person' } }), expect: adminOnly(201) },
   'PATCH /api/admin/users/[userId]': { request: (w) => ({ path: `/api/admin/users/${w.spareUserId}`, body: { action: 'disable', reason } }), expect: adminOnly(200) },
@@ -132,7 +164,33 @@ beforeAll(async () => {
   const spare = await makeUser(testDb(), 'spare@example.test');
   const sheet = await testDb().selectFrom('sheets').select('id').where('project_id', '=', projectId).where('number', '=', 1).executeTakeFirstOrThrow();
   const version = await testDb().selectFrom('versions').select('content').where('sheet_id', '=', sheet.id).where('number', '=', 1).executeTakeFirstOrThrow();
-  world = { projectId, spareUserId: spare.userId, outsiderId: outsider.userId, sheetId: sheet.id, sheetContent: version.content };
+  const originator = await testDb().selectFrom('users').select(['id', 'email', 'display_name']).where('email', '=', 'originator@demo.test').executeTakeFirstOrThrow();
+  const attachment = await uploadAttachment(
+    testDb(),
+    getObjectStore(),
+    { userId: originator.id, email: originator.email, name: originator.display_name, isAdmin: false, via: 'session', sessionId: null, tokenId: null },
+    { id: sheet.id, project_id: projectId },
+    { name: 'scan.csv', type: 'text/csv', bytes: new TextEncoder().encode('energy [MeV]\n70\n250\n') },
+  );
+  const originatorActor: Actor = { userId: originator.id, email: originator.email, name: originator.display_name, isAdmin: false, via: 'session', sessionId: null, tokenId: null };
+  const checker = await testDb().selectFrom('users').select(['id', 'email', 'display_name']).where('email', '=', 'checker@demo.test').executeTakeFirstOrThrow();
+  const checkerActor: Actor = { userId: checker.id, email: checker.email, name: checker.display_name, isAdmin: false, via: 'session', sessionId: null, tokenId: null };
+  const second = await testDb().selectFrom('sheets').select(['id', 'project_id', 'number', 'title']).where('project_id', '=', projectId).where('number', '=', 2).executeTakeFirstOrThrow();
+  const secondContent = (await testDb().selectFrom('versions').select('content').where('sheet_id', '=', second.id).where('number', '=', 1).executeTakeFirstOrThrow()).content as { cells: Array<{ id: string }> };
+  const check = await submitForCheck(testDb(), originatorActor, second, { versionNumber: 1, checkerId: checker.id, password: DEMO_PASSWORD });
+  const thread = await addComment(testDb(), checkerActor, check.id, { cellId: secondContent.cells[0].id, statementLine: null, body: 'Source of the flight path length?' });
+  world = {
+    projectId,
+    spareUserId: spare.userId,
+    outsiderId: outsider.userId,
+    sheetId: sheet.id,
+    sheetContent: version.content,
+    attachmentSha256: attachment.sha256,
+    checkerId: checker.id,
+    checkId: check.id,
+    threadId: thread.id,
+    checkedCellId: secondContent.cells[0].id,
+  };
   const demo = await testDb().selectFrom('users').select(['id', 'email', 'display_name', 'is_admin']).execute();
   for (const who of WHO) {
     if (who === 'anonymous') continue;
@@ -156,14 +214,19 @@ describe('authorization matrix', () => {
   for (const [key, entry] of Object.entries(MATRIX)) {
     it(`${key}`, async () => {
       const method = key.split(' ')[0];
-      const { path: url, body } = entry.request(world);
+      const { path: url, body, file } = entry.request(world);
       const seen: Record<string, number> = {};
       const wanted: Record<string, number> = {};
       for (const who of WHO) {
         const headers: Record<string, string> = {};
         if (who !== 'anonymous') headers.authorization = `Bearer ${tokens.get(who)}`;
         if (body !== undefined) headers['content-type'] = 'application/json';
-        const response = await fetch(`${app.baseUrl}${url}`, { method, headers, body: body === undefined ? undefined : JSON.stringify(body), redirect: 'manual' });
+        let payload: string | FormData | undefined = body === undefined ? undefined : JSON.stringify(body);
+        if (file) {
+          payload = new FormData();
+          payload.append('file', new Blob([file.text], { type: file.type }), file.name);
+        }
+        const response = await fetch(`${app.baseUrl}${url}`, { method, headers, body: payload, redirect: 'manual' });
         seen[who] = response.status;
         wanted[who] = entry.expect[who] ?? entry.expect.default!;
       }
@@ -184,7 +247,7 @@ describe('authorization matrix', () => {
       .where('token_id', 'is not', null)
       .execute();
     expect(events.map((e) => e.action).sort()).toEqual(['membership.grant', 'membership.revoke', 'project.create', 'user.disable', 'user.invite']);
-    const sheetWrites = await testDb().selectFrom('audit_events').select('action').where('action', 'in', ['sheet.create', 'version.save']).where('token_id', 'is not', null).execute();
-    expect(new Set(sheetWrites.map((e) => e.action))).toEqual(new Set(['sheet.create', 'version.save']));
+    const sheetWrites = await testDb().selectFrom('audit_events').select('action').where('action', 'in', ['sheet.create', 'version.save', 'attachment.upload']).where('token_id', 'is not', null).execute();
+    expect(new Set(sheetWrites.map((e) => e.action))).toEqual(new Set(['sheet.create', 'version.save', 'attachment.upload']));
   });
 });

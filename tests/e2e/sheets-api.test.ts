@@ -97,9 +97,11 @@ describe('sheets and versions', () => {
     const { tmpdir } = await import('node:os');
     const path = `${mkdtempSync(`${tmpdir()}/ws-export-`)}/sheet.json`;
     writeFileSync(path, JSON.stringify(file));
-    const { spawnSync } = await import('node:child_process');
-    const cli = spawnSync('npm', ['run', '-s', 'calc', '--', path, '--json'], { cwd: process.cwd(), encoding: 'utf8', timeout: 60_000 });
-    expect(cli.status).toBe(0);
+    // Asynchronously: a blocked event loop would miss the server closing idle keep-alive sockets,
+    // and the next request would go out on a dead one.
+    const { execFile } = await import('node:child_process');
+    const { promisify } = await import('node:util');
+    const cli = await promisify(execFile)('npm', ['run', '-s', 'calc', '--', path, '--json'], { cwd: process.cwd(), encoding: 'utf8', timeout: 60_000 });
     // 250 MeV protons: Bρ = 2.432 13 T m (see tests/e2e/calc.test.ts for the derivation).
     expect(JSON.parse(cli.stdout).values.Brho.value).toBeCloseTo(2.43213, 4);
     const imported = await api(`/api/projects/${projectId}/sheets/import`, { method: 'POST', body: file });
@@ -119,5 +121,83 @@ describe('sheets and versions', () => {
     const rows = await sql<{ content: unknown; content_hash: string }>`select content, content_hash from versions`.execute(testDb());
     expect(rows.rows.length).toBeGreaterThanOrEqual(3);
     for (const r of rows.rows) expect(createHash('sha256').update(canonicalize(r.content)!).digest('hex')).toBe(r.content_hash);
+  });
+});
+
+describe('attachments', () => {
+  let sheetId: string;
+  const csv = 'energy [MeV], field [T]\n70, 0.5\n250, 1.5\n';
+
+  async function upload(name: string, type: string, data: Uint8Array | string) {
+    const form = new FormData();
+    form.append('file', new Blob([typeof data === 'string' ? data : new Uint8Array(data)], { type }), name);
+    const response = await fetch(`${app.baseUrl}/api/sheets/${sheetId}/attachments`, { method: 'POST', headers: { authorization: `Bearer ${token}` }, body: form });
+    return { status: response.status, body: await response.json() };
+  }
+
+  beforeAll(async () => {
+    sheetId = (await api(`/api/projects/${projectId}/sheets`, { method: 'POST', body: { title: 'Energy scan', safetyRelated: false } })).body.id;
+  });
+
+  it('uploads a CSV table and answers with its SHA-256 and how cells name its columns', async () => {
+    const r = await upload('energy scan.csv', 'text/csv', csv);
+    expect(r.status).toBe(201);
+    expect(r.body).toMatchObject({
+      name: 'energy scan.csv',
+      mediaType: 'text/csv',
+      size: csv.length,
+      sha256: createHash('sha256').update(csv).digest('hex'),
+      table: { name: 'energy_scan', rows: 2, columns: [{ name: 'energy', unit: 'MeV' }, { name: 'field', unit: 'T' }] },
+    });
+    const list = await api(`/api/sheets/${sheetId}/attachments`);
+    expect(list.body.attachments.map((a: { name: string }) => a.name)).toEqual(['energy scan.csv']);
+  });
+
+  it('downloads the exact bytes, as a download, with their SHA-256', async () => {
+    const sha = createHash('sha256').update(csv).digest('hex');
+    const response = await fetch(`${app.baseUrl}/api/sheets/${sheetId}/attachments/${sha}`, { headers: { authorization: `Bearer ${token}` } });
+    expect(response.status).toBe(200);
+    expect(await response.text()).toBe(csv);
+    expect(response.headers.get('content-disposition')).toBe(`attachment; filename="energy scan.csv"; filename*=UTF-8''energy%20scan.csv`);
+    expect(response.headers.get('x-content-type-options')).toBe('nosniff');
+    expect(response.headers.get('x-worldsheet-sha256')).toBe(sha);
+    expect((await fetch(`${app.baseUrl}/api/sheets/${sheetId}/attachments/${'0'.repeat(64)}`, { headers: { authorization: `Bearer ${token}` } })).status).toBe(404);
+  });
+
+  it('refuses mislabelled (415), oversized (413) and malformed (400) uploads with a clear message', async () => {
+    const png = new Uint8Array([0x89, 0x50, 0x4e, 0x47, 0x0d, 0x0a, 0x1a, 0x0a, 0, 0, 0, 0]);
+    const mislabelled = await upload('datasheet.pdf', 'application/pdf', png);
+    expect(mislabelled.status).toBe(415);
+    expect(mislabelled.body.error.message).toMatch(/named as a PDF document but its content is a PNG image/);
+    const huge = new Uint8Array(21 * 1024 * 1024);
+    huge.set(new TextEncoder().encode('%PDF-1.7\n'));
+    const tooBig = await upload('huge.pdf', 'application/pdf', huge);
+    expect(tooBig.status).toBe(413);
+    const badCsv = await upload('bad.csv', 'text/csv', 'energy [MeV]\n70\nseventy\n');
+    expect(badCsv.status).toBe(400);
+    expect(badCsv.body.error.message).toBe('bad.csv: row 3, column energy: "seventy" is not a number');
+    const notMultipart = await api(`/api/sheets/${sheetId}/attachments`, { method: 'POST', body: { file: 'x' } });
+    expect(notMultipart.status).toBe(400);
+    const list = await api(`/api/sheets/${sheetId}/attachments`);
+    expect(list.body.attachments).toHaveLength(1);
+  });
+
+  it('evaluates cells that use the table, and saves a version citing it', async () => {
+    const sha = createHash('sha256').update(csv).digest('hex');
+    const cells = [{ id: 'c1', kind: 'calc', source: 'p = momentumFromKinetic(energy_scan.energy, m_p)\nBrho = magneticRigidity(p, 1) to T*m\nmax(energy_scan.field) * 1 m < Brho[2]' }];
+    const evaluated = await api('/api/evaluate', { method: 'POST', body: { cells, sheetId, attachments: [{ name: 'energy scan.csv', sha256: sha }] } });
+    expect(evaluated.status).toBe(200);
+    // 250 MeV protons: Bρ = 2.432 13 T·m (PDG RPP "Kinematics", p = 0.299 792 458 Bρ, m_p from CODATA 2022).
+    expect(evaluated.body.cells[0].statements[1].value.text).toBe('[1.231\u202f29, 2.432\u202f13] T·m');
+    expect(evaluated.body.cells[0].statements[2].criterion.pass).toBe(true);
+    const v1 = (await api(`/api/sheets/${sheetId}`)).body.version;
+    const attachment = { name: 'energy scan.csv', mediaType: 'text/csv', size: csv.length, sha256: sha };
+    const saved = await api(`/api/sheets/${sheetId}/versions`, { method: 'POST', body: { parentNumber: 1, message: 'Rigidity over the scan', content: { ...v1.content, cells, attachments: [attachment] } } });
+    expect(saved).toMatchObject({ status: 201, body: { number: 2, ok: true } });
+    const v2 = (await api(`/api/sheets/${sheetId}/versions/2`)).body.version;
+    expect(v2.content.attachments).toEqual([attachment]);
+    // Without the table the same cells fail: the table really is what the cells read.
+    const without = await api('/api/evaluate', { method: 'POST', body: { cells } });
+    expect(without.body.cells[0].statements[0].error).toBe('`energy_scan` is not defined');
   });
 });

@@ -121,6 +121,41 @@ it('refuses a save based on a stale version, shows it, and carries the edits ove
   expect(session.problems.filter((p) => !/409/.test(p))).toEqual([]);
 });
 
+it('uploads a CSV data table, uses its columns with units in a cell, and saves a version citing it', async () => {
+  const { page } = session;
+  session.problems.length = 0; // the 409 the previous test provoked
+  await page.goto(`${app.baseUrl}/projects/TPT2/sheets/4/edit`);
+  await page.getByRole('heading', { level: 2, name: 'Attachments' }).waitFor();
+  const csv = 'energy [MeV], field [T]\n70, 0.4\n150, 0.9\n250, 1.3\n';
+  await page.getByLabel('File to upload').setInputFiles({ name: 'energy-scan.csv', mimeType: 'text/csv', buffer: Buffer.from(csv) });
+  await page.getByRole('button', { name: 'Upload the file', exact: true }).click();
+  await page.getByRole('status').filter({ hasText: 'energy-scan.csv uploaded' }).filter({ hasText: 'energy_scan.energy [MeV], energy_scan.field [T]' }).waitFor();
+  await page.getByRole('table', { name: 'Attachments cited by this version' }).getByRole('link', { name: 'energy-scan.csv' }).waitFor();
+
+  // A PNG named .pdf is refused with the reason.
+  const png = Buffer.from([0x89, 0x50, 0x4e, 0x47, 0x0d, 0x0a, 0x1a, 0x0a, 0, 0, 0, 0]);
+  await page.getByLabel('File to upload').setInputFiles({ name: 'datasheet.pdf', mimeType: 'application/pdf', buffer: png });
+  await page.getByRole('button', { name: 'Upload the file', exact: true }).click();
+  await page.getByRole('alert').filter({ hasText: 'named as a PDF document but its content is a PNG image' }).waitFor();
+
+  await page.getByRole('button', { name: 'Add a calculation cell' }).click();
+  await page.getByLabel('Cell 1 (calculation) source').fill('p_scan = momentumFromKinetic(energy_scan.energy, m_p)\nBrho_scan = magneticRigidity(p_scan, 1) to T*m');
+  // 250 MeV protons: Bρ = 2.432 13 T·m (PDG RPP "Kinematics", m_p from CODATA 2022).
+  await page.getByRole('article', { name: 'Cell 1 (calculation)' }).getByText(/2\.432\s?13\]\s?T·m/).waitFor();
+  await session.screenshot('attachments-editor');
+  await page.getByLabel('What changed').fill('Rigidity over the energy scan');
+  await page.getByRole('button', { name: 'Save version' }).click();
+  await page.getByRole('status').filter({ hasText: 'Saved as version 2.' }).waitFor();
+  await page.goto(`${app.baseUrl}/projects/TPT2/sheets/4`);
+  const cited = page.getByRole('table', { name: 'Attachments cited by this version' });
+  await cited.getByRole('link', { name: 'energy-scan.csv' }).waitFor();
+  const sha = (await import('node:crypto')).createHash('sha256').update(csv).digest('hex');
+  await cited.getByText(sha).waitFor();
+  await session.screenshot('attachments-version');
+  // The refused upload (415) is the only HTTP error.
+  expect(session.problems.filter((p) => !/415/.test(p))).toEqual([]);
+});
+
 async function sheetId(number: number): Promise<string> {
   const project = await testDb().selectFrom('projects').select('id').where('code', '=', 'TPT2').executeTakeFirstOrThrow();
   return (await testDb().selectFrom('sheets').select('id').where('project_id', '=', project.id).where('number', '=', number).executeTakeFirstOrThrow()).id;

@@ -1,0 +1,22 @@
+import { getDb } from '@/db';
+import { requireActor } from '@/lib/auth/current-actor';
+import { checkWorkSchema, getCheckDetail, saveCheckWork } from '@/lib/checks/workflow';
+import { handle, parseJson } from '@/lib/http/route';
+
+export const dynamic = 'force-dynamic';
+
+type Context = { params: Promise<{ checkId: string }> };
+
+/** The check: the version against its base, comments, signatures and what the caller may do. */
+export function GET(_request: Request, { params }: Context): Promise<Response> {
+  return handle(async () => Response.json(await getCheckDetail(getDb(), await requireActor(), (await params).checkId)));
+}
+
+/** The checker's work: verification method, notes, alternate calculation cells (evaluated). */
+export function PATCH(request: Request, { params }: Context): Promise<Response> {
+  return handle(async () => {
+    const actor = await requireActor();
+    const input = await parseJson(request, checkWorkSchema, 1024 * 1024);
+    return Response.json(await saveCheckWork(getDb(), actor, (await params).checkId, input));
+  });
+}

@@ -1,0 +1,613 @@
+// Independent check and approval. A version is submitted (signed "prepared" by its originator) to a
+// named checker; the checker reviews it against the last approved version, comments on cells,
+// records the verification method, and returns it or signs it "checked"; an approver approves it
+// (signed "approved") or returns it. Every transition is one guarded UPDATE in a transaction with
+// its signature, audit event and e-mails, so two people acting at once record exactly one outcome.
+import { sql, type Kysely, type Transaction } from 'kysely';
+import { z } from 'zod';
+import type { CheckState, Database, ProjectRole, SignatureMeaning, VerificationMethod } from '@/db/schema';
+import type { Actor } from '@/lib/auth/actor';
+import { verifyPassword } from '@/lib/auth/password';
+import { recordAudit } from '@/lib/audit/record';
+import { getEvaluator } from '@/lib/calc/sandbox/evaluator';
+import type { SheetResult } from '@/lib/calc/types';
+import { AppError } from '@/lib/errors/app-error';
+import { appUrl } from '@/lib/http/app-url';
+import { enqueueMail } from '@/lib/mail/outbox';
+import { cellSchema, type Cell } from '@/lib/sheets/content';
+import { compareVersions, type VersionComparison } from '@/lib/sheets/compare';
+import { formatSheetNumber } from '@/lib/sheets/sheet-number';
+import { getVersion } from '@/lib/sheets/sheets';
+import { approverRefusal, checkerRefusal, type Person, type Refusal } from './rules';
+import { statusOf } from './status';
+
+type Db = Kysely<Database> | Transaction<Database>;
+
+export const VERIFICATION_METHODS = ['design_review', 'alternate_calculation', 'qualification_test'] as const satisfies readonly VerificationMethod[];
+export const VERIFICATION_LABELS: Record<VerificationMethod, string> = {
+  design_review: 'Design review',
+  alternate_calculation: 'Alternate calculation',
+  qualification_test: 'Qualification test',
+};
+export const STATE_LABELS: Record<CheckState, string> = {
+  in_check: 'in check',
+  returned: 'returned by the checker',
+  checked: 'checked, awaiting approval',
+  approved: 'approved',
+  approval_returned: 'returned by the approver',
+};
+export const MEANING_LABELS: Record<SignatureMeaning, string> = { prepared: 'Prepared', checked: 'Checked', approved: 'Approved', issued: 'Issued' };
+
+const password = z.string().min(1, 'enter your password to sign').max(200);
+
+export const submitSchema = z.object({
+  versionNumber: z.number().int().positive(),
+  checkerId: z.string().uuid(),
+  password,
+});
+
+export const checkWorkSchema = z.object({
+  verificationMethod: z.enum(VERIFICATION_METHODS).nullable().optional(),
+  checkerNotes: z.string().max(20_000).optional(),
+  alternateCells: z.array(cellSchema).max(200).optional(),
+});
+
+export const commentSchema = z.object({
+  cellId: z.string().regex(/^[a-z0-9][a-z0-9-]{0,39}$/),
+  statementLine: z.number().int().positive().nullable().default(null),
+  body: z.string().trim().min(1, 'write the comment').max(10_000),
+  /** The thread answered; absent for a new thread. */
+  threadId: z.string().uuid().optional(),
+});
+
+export const decisionSchema = z.discriminatedUnion('action', [
+  z.object({ action: z.literal('return'), reason: z.string().trim().min(1, 'say why it is returned').max(5000) }),
+  z.object({ action: z.literal('sign'), password }),
+  z.object({ action: z.literal('approve'), password }),
+  z.object({ action: z.literal('reject'), reason: z.string().trim().min(1, 'say why it is returned').max(5000) }),
+]);
+export type Decision = z.infer<typeof decisionSchema>;
+
+export const queueQuerySchema = z.object({ queue: z.enum(['check', 'approval']).default('check') });
+
+// ── Who did what ──────────────────────────────────────────────────────────────────────────────
+
+async function rolesOf(db: Db, projectId: string, userId: string): Promise<ProjectRole[]> {
+  return (await db.selectFrom('project_members').select('role').where('project_id', '=', projectId).where('user_id', '=', userId).execute()).map((r) => r.role);
+}
+
+async function person(db: Db, projectId: string, userId: string): Promise<Person & { email: string; passwordHash: string | null; disabled: boolean }> {
+  const u = await db.selectFrom('users').select(['id', 'display_name', 'email', 'password_hash', 'disabled_at']).where('id', '=', userId).executeTakeFirst();
+  if (!u) throw new AppError('not_found', 'No such person.');
+  return { userId: u.id, name: u.display_name, email: u.email, passwordHash: u.password_hash, disabled: u.disabled_at !== null, roles: await rolesOf(db, projectId, userId) };
+}
+
+/** The number of the last approved version of a sheet, or null. */
+export async function lastApprovedNumber(db: Db, sheetId: string): Promise<number | null> {
+  const row = await db.selectFrom('checks').select(sql<number | null>`max(version_number)`.as('n')).where('sheet_id', '=', sheetId).where('state', '=', 'approved').executeTakeFirst();
+  return row?.n === null || row?.n === undefined ? null : Number(row.n);
+}
+
+/** Everyone who saved a version after `after` (the last approved version) up to `upTo`. */
+export async function originatorsSince(db: Db, sheetId: string, after: number | null, upTo: number): Promise<Set<string>> {
+  let q = db.selectFrom('versions').select('author_id').distinct().where('sheet_id', '=', sheetId).where('number', '<=', upTo);
+  if (after !== null) q = q.where('number', '>', after);
+  return new Set((await q.execute()).map((r) => r.author_id));
+}
+
+// ── Signatures ───────────────────────────────────────────────────────────────────────────────
+
+async function refuse(db: Kysely<Database>, actor: Actor, sheet: { id: string; project_id: string }, refusal: Refusal, attempted: string): Promise<never> {
+  await recordAudit(db, actor, { action: 'workflow.refused', objectType: 'sheet', objectId: sheet.id, projectId: sheet.project_id, newValue: { attempted, rule: refusal.rule }, reason: refusal.message });
+  throw new AppError('forbidden', refusal.message, { rule: refusal.rule });
+}
+
+/** Re-authentication at the moment of signing (21 CFR Part 11 §11.200(a)(1)). Refusals are audited. */
+async function confirmPassword(db: Kysely<Database>, actor: Actor, sheet: { id: string; project_id: string }, meaning: SignatureMeaning, given: string): Promise<void> {
+  const u = await db.selectFrom('users').select(['password_hash', 'disabled_at', 'locked_at']).where('id', '=', actor.userId).executeTakeFirstOrThrow();
+  const problem = !u.password_hash
+    ? 'Your account has no password (you sign in through single sign-on); set one on your account page to sign records.'
+    : u.disabled_at || u.locked_at
+      ? 'Your account is disabled or locked and cannot sign.'
+      : (await verifyPassword(u.password_hash, given))
+        ? null
+        : 'The password is not correct; nothing was signed.';
+  if (problem) {
+    await recordAudit(db, actor, { action: 'signature.refused', objectType: 'sheet', objectId: sheet.id, projectId: sheet.project_id, newValue: { meaning }, reason: problem });
+    throw new AppError('forbidden', problem, { rule: 'password' });
+  }
+}
+
+async function sign(trx: Transaction<Database>, actor: Actor, v: { sheetId: string; projectId: string; number: number; sha256: string }, meaning: SignatureMeaning, checkId: string | null) {
+  const u = await trx.selectFrom('users').select('display_name').where('id', '=', actor.userId).executeTakeFirstOrThrow();
+  const row = await trx
+    .insertInto('signatures')
+    .values({ sheet_id: v.sheetId, version_number: v.number, version_sha256: v.sha256, check_id: checkId, user_id: actor.userId, printed_name: u.display_name, meaning })
+    .returning(['id', 'signed_at'])
+    .executeTakeFirstOrThrow();
+  await recordAudit(trx, actor, {
+    action: 'signature.sign',
+    objectType: 'sheet',
+    objectId: v.sheetId,
+    projectId: v.projectId,
+    newValue: { meaning, version: v.number, sha256: v.sha256, printedName: u.display_name, signedAt: new Date(row.signed_at).toISOString(), signatureId: row.id },
+  });
+}
+
+export async function listSignatures(db: Db, sheetId: string) {
+  const rows = await db
+    .selectFrom('signatures')
+    .select(['id', 'version_number', 'version_sha256', 'printed_name', 'meaning', 'signed_at', 'check_id', 'user_id'])
+    .where('sheet_id', '=', sheetId)
+    .orderBy('signed_at')
+    .execute();
+  return rows.map((r) => ({
+    id: r.id,
+    versionNumber: r.version_number,
+    sha256: r.version_sha256,
+    printedName: r.printed_name,
+    meaning: r.meaning,
+    signedAt: new Date(r.signed_at).toISOString(),
+    checkId: r.check_id,
+    userId: r.user_id,
+  }));
+}
+
+// ── E-mail ───────────────────────────────────────────────────────────────────────────────────
+
+async function notify(trx: Transaction<Database>, to: Array<{ email: string; name: string }>, kind: string, subject: string, lines: string[], link: string) {
+  const seen = new Set<string>();
+  for (const r of to) {
+    if (seen.has(r.email)) continue;
+    seen.add(r.email);
+    await enqueueMail(trx, { to: r.email, kind, subject, text: [`Hello ${r.name},`, '', ...lines, '', `Open it: ${link}`, '', '— Worldsheet'].join('\n') });
+  }
+}
+
+// ── Loading a check ──────────────────────────────────────────────────────────────────────────
+
+async function loadCheck(db: Db, checkId: string) {
+  if (!/^[0-9a-f-]{36}$/.test(checkId)) return undefined;
+  return db
+    .selectFrom('checks as c')
+    .innerJoin('sheets as s', 's.id', 'c.sheet_id')
+    .innerJoin('projects as p', 'p.id', 'c.project_id')
+    .selectAll('c')
+    .select(['s.number as sheet_number', 's.title as sheet_title', 's.safety_related', 'p.code as project_code'])
+    .where('c.id', '=', checkId)
+    .executeTakeFirst();
+}
+type CheckRow = NonNullable<Awaited<ReturnType<typeof loadCheck>>>;
+
+/** The check and the caller's roles in its project: 404 unless a member. */
+export async function requireCheck(db: Kysely<Database>, actor: Actor, checkId: string): Promise<{ check: CheckRow; roles: ProjectRole[] }> {
+  const check = await loadCheck(db, checkId);
+  const roles = check ? await rolesOf(db, check.project_id, actor.userId) : [];
+  if (!check || roles.length === 0) throw new AppError('not_found', 'No such check, or you are not a member of its project.');
+  return { check, roles };
+}
+
+const conflict = (check: { state: CheckState }, wanted: string) =>
+  new AppError('conflict', `This check is ${STATE_LABELS[check.state]}; it cannot be ${wanted} now.`, { state: check.state });
+
+// ── Submit ───────────────────────────────────────────────────────────────────────────────────
+
+/** The project's checkers, each with the reason they cannot check this sheet's next submission, if any. */
+export async function eligibleCheckers(db: Db, sheet: { id: string; project_id: string }, versionNumber: number) {
+  const after = await lastApprovedNumber(db, sheet.id);
+  const originators = await originatorsSince(db, sheet.id, after, versionNumber);
+  const members = await db
+    .selectFrom('project_members as m')
+    .innerJoin('users as u', 'u.id', 'm.user_id')
+    .select(['u.id', 'u.display_name'])
+    .where('m.project_id', '=', sheet.project_id)
+    .where('m.role', '=', 'checker')
+    .where('u.disabled_at', 'is', null)
+    .orderBy('u.display_name')
+    .execute();
+  return members.map((m) => {
+    const refusal = checkerRefusal({ userId: m.id, name: m.display_name, roles: ['checker'] }, originators);
+    return { userId: m.id, name: m.display_name, eligible: refusal === null, reason: refusal?.message ?? null };
+  });
+}
+
+export async function submitForCheck(db: Kysely<Database>, actor: Actor, sheet: { id: string; project_id: string; number: number; title: string }, input: z.infer<typeof submitSchema>) {
+  const version = await getVersion(db, sheet.id, input.versionNumber);
+  if (!version) throw new AppError('not_found', `Version ${input.versionNumber} does not exist.`);
+  const after = await lastApprovedNumber(db, sheet.id);
+  if (after !== null && input.versionNumber <= after) {
+    throw new AppError('conflict', `Version ${after} is already approved; submit a later version.`, { lastApproved: after });
+  }
+  const checker = await person(db, sheet.project_id, input.checkerId);
+  if (checker.disabled) throw new AppError('bad_request', `${checker.name}'s account is disabled.`);
+  const refusal = checkerRefusal(checker, await originatorsSince(db, sheet.id, after, input.versionNumber));
+  if (refusal) await refuse(db, actor, sheet, refusal, 'submit');
+  await confirmPassword(db, actor, sheet, 'prepared', input.password);
+
+  const project = await db.selectFrom('projects').select('code').where('id', '=', sheet.project_id).executeTakeFirstOrThrow();
+  const code = formatSheetNumber(project.code, sheet.number);
+  try {
+    return await db.transaction().execute(async (trx) => {
+      const check = await trx
+        .insertInto('checks')
+        .values({
+          sheet_id: sheet.id,
+          project_id: sheet.project_id,
+          version_number: version.number,
+          version_sha256: version.sha256,
+          base_version_number: after,
+          submitted_by: actor.userId,
+          checker_id: checker.userId,
+        })
+        .returning(['id'])
+        .executeTakeFirstOrThrow();
+      await sign(trx, actor, { sheetId: sheet.id, projectId: sheet.project_id, number: version.number, sha256: version.sha256 }, 'prepared', check.id);
+      await recordAudit(trx, actor, {
+        action: 'check.submit',
+        objectType: 'check',
+        objectId: check.id,
+        projectId: sheet.project_id,
+        newValue: { sheet: code, version: version.number, sha256: version.sha256, checker: checker.name, base: after },
+      });
+      await notify(
+        trx,
+        [checker],
+        'check-submitted',
+        `${code} version ${version.number} is submitted to you for check`,
+        [`${actor.name} submitted version ${version.number} of ${code} "${sheet.title}" for your check.`, after === null ? 'It is a first check: review the whole sheet.' : `Review it against version ${after}, the last approved one.`],
+        `${appUrl()}/checks/${check.id}`,
+      );
+      return { id: check.id, state: 'in_check' as const, versionNumber: version.number, sha256: version.sha256 };
+    });
+  } catch (error) {
+    if ((error as { constraint?: string }).constraint === 'checks_one_open_per_sheet') {
+      const open = await db.selectFrom('checks').select(['id', 'state', 'version_number']).where('sheet_id', '=', sheet.id).where('state', 'in', ['in_check', 'checked']).executeTakeFirst();
+      throw new AppError('conflict', `Version ${open?.version_number} of this sheet is ${open ? STATE_LABELS[open.state] : 'under check'}; one submission at a time.`, { checkId: open?.id, state: open?.state });
+    }
+    throw error;
+  }
+}
+
+// ── The checker's work and comments ──────────────────────────────────────────────────────────
+
+type ThreadScope = Pick<CheckRow, 'id' | 'sheet_id' | 'base_version_number' | 'created_at'>;
+
+/**
+ * The first comments of the threads a check carries: those opened on it, and those opened on the
+ * earlier checks of the same sheet against the same base (versions returned with comments and
+ * submitted again) that were still open when it was submitted. So a comment is answered after the
+ * return and resolved by the checker at the resubmission, and signing waits for it.
+ */
+function threadRoots(db: Db, check: ThreadScope) {
+  return db
+    .selectFrom('check_comments as t')
+    .innerJoin('checks as k', 'k.id', 't.check_id')
+    .where('t.thread_id', 'is', null)
+    .where((eb) =>
+      eb.or([
+        eb('t.check_id', '=', check.id),
+        eb.and([
+          eb('k.sheet_id', '=', check.sheet_id),
+          sql<boolean>`k.base_version_number is not distinct from ${check.base_version_number}`,
+          eb('k.created_at', '<', check.created_at),
+          eb.or([eb('t.resolved_at', 'is', null), eb('t.resolved_at', '>=', check.created_at)]),
+        ]),
+      ]),
+    );
+}
+
+/** A returned check stays open to replies until the sheet is submitted again. */
+async function submittedAgain(db: Db, check: ThreadScope): Promise<boolean> {
+  return (await db.selectFrom('checks').select('id').where('sheet_id', '=', check.sheet_id).where('created_at', '>', check.created_at).executeTakeFirst()) !== undefined;
+}
+
+export async function saveCheckWork(db: Kysely<Database>, actor: Actor, checkId: string, input: z.infer<typeof checkWorkSchema>) {
+  const { check } = await requireCheck(db, actor, checkId);
+  if (check.checker_id !== actor.userId) throw new AppError('forbidden', 'Only the checker named on this check records its work.');
+  if (check.state !== 'in_check') throw conflict(check, 'changed');
+  let results: SheetResult | null | undefined;
+  if (input.alternateCells) {
+    results = input.alternateCells.length ? await getEvaluator().evaluate(input.alternateCells, { significantFigures: 6 }, `check:${check.id}`) : null;
+  }
+  const updated = await db
+    .updateTable('checks')
+    .set({
+      ...(input.verificationMethod !== undefined ? { verification_method: input.verificationMethod } : {}),
+      ...(input.checkerNotes !== undefined ? { checker_notes: input.checkerNotes } : {}),
+      ...(input.alternateCells ? { alternate_cells: JSON.stringify(input.alternateCells), alternate_results: results ? JSON.stringify(results) : null } : {}),
+      updated_at: sql`now()`,
+    })
+    .where('id', '=', check.id)
+    .where('state', '=', 'in_check')
+    .returning('id')
+    .executeTakeFirst();
+  if (!updated) throw conflict((await loadCheck(db, check.id))!, 'changed');
+  return { ok: true, alternateResults: results ?? null };
+}
+
+export async function addComment(db: Kysely<Database>, actor: Actor, checkId: string, input: z.infer<typeof commentSchema>) {
+  const { check, roles } = await requireCheck(db, actor, checkId);
+  const isChecker = check.checker_id === actor.userId;
+  if (!isChecker && !roles.includes('originator')) throw new AppError('forbidden', 'Only the checker and the sheet\u2019s originators comment on a check.');
+  const answeringReturn = input.threadId !== undefined && (check.state === 'returned' || check.state === 'approval_returned') && !(await submittedAgain(db, check));
+  if (check.state !== 'in_check' && !answeringReturn) throw conflict(check, 'commented on');
+  if (!input.threadId && !isChecker) throw new AppError('forbidden', 'The checker opens comment threads; originators answer them.');
+  let cellId = input.cellId;
+  let line = input.statementLine;
+  if (input.threadId) {
+    const thread = await threadRoots(db, check).select(['t.id', 't.cell_id', 't.statement_line', 't.thread_id', 't.resolved_at']).where('t.id', '=', input.threadId).executeTakeFirst();
+    if (!thread || thread.thread_id !== null) throw new AppError('not_found', 'No such comment thread on this check.');
+    if (thread.resolved_at) throw new AppError('conflict', 'This thread is resolved.');
+    cellId = thread.cell_id;
+    line = thread.statement_line;
+  } else {
+    const version = await getVersion(db, check.sheet_id, check.version_number);
+    const base = check.base_version_number ? await getVersion(db, check.sheet_id, check.base_version_number) : null;
+    const known = new Set([...(version?.content.cells ?? []), ...(base?.content.cells ?? []), ...((check.alternate_cells as Cell[]) ?? [])].map((c) => c.id));
+    if (!known.has(cellId)) throw new AppError('bad_request', `cellId: the version under check has no cell ${cellId}`);
+  }
+  return db.transaction().execute(async (trx) => {
+    const row = await trx
+      .insertInto('check_comments')
+      .values({ check_id: check.id, thread_id: input.threadId ?? null, cell_id: cellId, statement_line: line, author_id: actor.userId, body: input.body })
+      .returning(['id', 'created_at'])
+      .executeTakeFirstOrThrow();
+    await recordAudit(trx, actor, { action: input.threadId ? 'comment.reply' : 'comment.open', objectType: 'check', objectId: check.id, projectId: check.project_id, newValue: { commentId: row.id, cellId, line } });
+    return { id: row.id };
+  });
+}
+
+export async function resolveThread(db: Kysely<Database>, actor: Actor, checkId: string, commentId: string) {
+  const { check } = await requireCheck(db, actor, checkId);
+  if (check.checker_id !== actor.userId) throw new AppError('forbidden', 'Only the checker resolves comment threads.');
+  if (check.state !== 'in_check') throw conflict(check, 'changed');
+  // Not a uuid: no such thread (rather than PostgreSQL's error about the uuid's syntax).
+  if (!/^[0-9a-f-]{36}$/.test(commentId)) throw new AppError('conflict', 'No open thread with this id on this check.');
+  return db.transaction().execute(async (trx) => {
+    const row = await trx
+      .updateTable('check_comments')
+      .set({ resolved_at: sql`now()`, resolved_by: actor.userId })
+      .where('id', '=', commentId)
+      .where('id', 'in', threadRoots(trx, check).select('t.id'))
+      .where('resolved_at', 'is', null)
+      .returning('id')
+      .executeTakeFirst();
+    if (!row) throw new AppError('conflict', 'No open thread with this id on this check.');
+    await recordAudit(trx, actor, { action: 'comment.resolve', objectType: 'check', objectId: check.id, projectId: check.project_id, newValue: { commentId } });
+    return { ok: true };
+  });
+}
+
+// ── Decisions ────────────────────────────────────────────────────────────────────────────────
+
+export async function decide(db: Kysely<Database>, actor: Actor, checkId: string, decision: Decision) {
+  const { check, roles } = await requireCheck(db, actor, checkId);
+  const sheet = { id: check.sheet_id, project_id: check.project_id };
+  const code = formatSheetNumber(check.project_code, check.sheet_number);
+  const link = `${appUrl()}/checks/${check.id}`;
+  const version = { sheetId: check.sheet_id, projectId: check.project_id, number: check.version_number, sha256: check.version_sha256 };
+  const originators = await originatorsSince(db, check.sheet_id, check.base_version_number, check.version_number);
+  const submitter = await person(db, check.project_id, check.submitted_by);
+  const checker = await person(db, check.project_id, check.checker_id);
+  const me = await person(db, check.project_id, actor.userId);
+
+  if (decision.action === 'return' || decision.action === 'sign') {
+    if (check.checker_id !== actor.userId) throw new AppError('forbidden', `Only ${checker.name}, the checker named on this check, can ${decision.action === 'sign' ? 'sign it as checked' : 'return it'}.`);
+    if (check.state !== 'in_check') throw conflict(check, decision.action === 'sign' ? 'signed as checked' : 'returned');
+    // The rules are checked again at the decision: roles may have changed since the submission.
+    const refusal = checkerRefusal(me, originators);
+    if (refusal) await refuse(db, actor, sheet, refusal, decision.action);
+  } else {
+    if (check.state !== 'checked') throw conflict(check, decision.action === 'approve' ? 'approved' : 'returned by an approver');
+    const refusal = approverRefusal({ ...me, roles }, originators, check.checker_id, check.safety_related);
+    if (refusal) await refuse(db, actor, sheet, refusal, decision.action);
+  }
+
+  if (decision.action === 'sign') {
+    const open = await threadRoots(db, check).select(sql<number>`count(*)`.as('n')).where('t.resolved_at', 'is', null).executeTakeFirstOrThrow();
+    if (Number(open.n) > 0) throw new AppError('conflict', `${open.n} comment thread${Number(open.n) === 1 ? ' is' : 's are'} still open; resolve every thread before signing as checked.`, { openThreads: Number(open.n) });
+    if (!check.verification_method) throw new AppError('bad_request', 'Record the verification method (design review, alternate calculation or qualification test) before signing.');
+  }
+  if (decision.action === 'sign' || decision.action === 'approve') await confirmPassword(db, actor, sheet, decision.action === 'sign' ? 'checked' : 'approved', decision.password);
+
+  const target: Record<Decision['action'], CheckState> = { return: 'returned', sign: 'checked', approve: 'approved', reject: 'approval_returned' };
+  const from: CheckState = decision.action === 'return' || decision.action === 'sign' ? 'in_check' : 'checked';
+  const state = target[decision.action];
+  const reason = decision.action === 'return' || decision.action === 'reject' ? decision.reason : null;
+
+  return db.transaction().execute(async (trx) => {
+    const moved = await trx
+      .updateTable('checks')
+      .set({
+        state,
+        decided_by: actor.userId,
+        updated_at: sql`now()`,
+        ...(reason ? { return_reason: reason } : {}),
+        ...(state !== 'checked' ? { closed_at: sql`now()` } : {}),
+      })
+      .where('id', '=', check.id)
+      .where('state', '=', from)
+      .returning('id')
+      .executeTakeFirst();
+    if (!moved) {
+      // Someone else decided first: their outcome stands.
+      const now = await trx.selectFrom('checks').select('state').where('id', '=', check.id).executeTakeFirstOrThrow();
+      throw conflict(now, 'decided again');
+    }
+    if (decision.action === 'sign') await sign(trx, actor, version, 'checked', check.id);
+    if (decision.action === 'approve') await sign(trx, actor, version, 'approved', check.id);
+    await recordAudit(trx, actor, {
+      action: `check.${decision.action}`,
+      objectType: 'check',
+      objectId: check.id,
+      projectId: check.project_id,
+      oldValue: { state: from },
+      newValue: { state, version: check.version_number, sha256: check.version_sha256 },
+      reason: reason ?? undefined,
+    });
+    const v = `${code} version ${check.version_number}`;
+    if (decision.action === 'return') {
+      await notify(trx, [submitter], 'check-returned', `${v} is returned with comments`, [`${actor.name} returned ${v} "${check.sheet_title}" with comments.`, `Reason: ${reason}`, 'Answer the comments and submit a new version.'], link);
+    } else if (decision.action === 'sign') {
+      const approvers = await trx
+        .selectFrom('project_members as m')
+        .innerJoin('users as u', 'u.id', 'm.user_id')
+        .select(['u.id', 'u.email', 'u.display_name'])
+        .where('m.project_id', '=', check.project_id)
+        .where('m.role', '=', 'approver')
+        .where('u.disabled_at', 'is', null)
+        .execute();
+      const eligible = approvers.filter((a) => !approverRefusal({ userId: a.id, name: a.display_name, roles: ['approver'] }, originators, check.checker_id, check.safety_related));
+      await notify(trx, [submitter], 'check-checked', `${v} is checked`, [`${actor.name} signed ${v} "${check.sheet_title}" as checked. It now awaits approval.`], link);
+      await notify(trx, eligible.map((a) => ({ email: a.email, name: a.display_name })), 'approval-requested', `${v} awaits your approval`, [`${v} "${check.sheet_title}" is checked by ${actor.name} and awaits approval.`], link);
+    } else if (decision.action === 'approve') {
+      await notify(trx, [submitter, checker], 'check-approved', `${v} is approved`, [`${actor.name} approved ${v} "${check.sheet_title}".`, 'Document control can now issue it as a revision.'], link);
+    } else {
+      await notify(trx, [submitter, checker], 'approval-returned', `${v} is returned by the approver`, [`${actor.name} did not approve ${v} "${check.sheet_title}".`, `Reason: ${reason}`], link);
+    }
+    return { id: check.id, state };
+  });
+}
+
+// ── Reading ──────────────────────────────────────────────────────────────────────────────────
+
+export async function getCheckDetail(db: Kysely<Database>, actor: Actor, checkId: string) {
+  const { check, roles } = await requireCheck(db, actor, checkId);
+  const [version, base, comments, signatures, submitter, checker] = await Promise.all([
+    getVersion(db, check.sheet_id, check.version_number),
+    check.base_version_number ? getVersion(db, check.sheet_id, check.base_version_number) : Promise.resolve(null),
+    db
+      .selectFrom('check_comments as c')
+      .innerJoin('users as u', 'u.id', 'c.author_id')
+      .innerJoin('checks as k', 'k.id', 'c.check_id')
+      .leftJoin('users as r', 'r.id', 'c.resolved_by')
+      .select(['c.id', 'c.thread_id', 'c.cell_id', 'c.statement_line', 'c.body', 'c.created_at', 'c.resolved_at', 'u.display_name as author', 'r.display_name as resolved_by', 'k.version_number as check_version'])
+      .where((eb) => eb.or([eb('c.id', 'in', threadRoots(db, check).select('t.id')), eb('c.thread_id', 'in', threadRoots(db, check).select('t.id'))]))
+      .orderBy('c.created_at')
+      .execute(),
+    listSignatures(db, check.sheet_id),
+    person(db, check.project_id, check.submitted_by),
+    person(db, check.project_id, check.checker_id),
+  ]);
+  if (!version) throw new AppError('not_found', 'The version under check is missing.');
+  const comparison: VersionComparison = compareVersions(base ? { content: base.content, results: base.results } : null, { content: version.content, results: version.results });
+  const threads = comments
+    .filter((c) => c.thread_id === null)
+    .map((t) => ({
+      id: t.id,
+      cellId: t.cell_id,
+      statementLine: t.statement_line,
+      resolvedAt: t.resolved_at ? new Date(t.resolved_at).toISOString() : null,
+      resolvedBy: t.resolved_by,
+      /** The version under check when the thread was opened (an earlier one for a thread carried over a return). */
+      openedOnVersion: t.check_version,
+      comments: comments.filter((c) => c.id === t.id || c.thread_id === t.id).map((c) => ({ id: c.id, author: c.author, body: c.body, createdAt: new Date(c.created_at).toISOString() })),
+    }));
+  const originators = await originatorsSince(db, check.sheet_id, check.base_version_number, check.version_number);
+  const me = { userId: actor.userId, name: actor.name, roles };
+  const isChecker = check.checker_id === actor.userId;
+  const actions: Decision['action'][] = [];
+  if (check.state === 'in_check' && isChecker && !checkerRefusal(me, originators)) actions.push('return', 'sign');
+  const approverProblem = approverRefusal(me, originators, check.checker_id, check.safety_related);
+  const answeringReturn = (check.state === 'returned' || check.state === 'approval_returned') && threads.some((t) => !t.resolvedAt) && !(await submittedAgain(db, check));
+  if (check.state === 'checked' && !approverProblem) actions.push('approve', 'reject');
+  return {
+    id: check.id,
+    state: check.state,
+    stateLabel: STATE_LABELS[check.state],
+    sheet: { id: check.sheet_id, number: check.sheet_number, code: formatSheetNumber(check.project_code, check.sheet_number), title: check.sheet_title, safetyRelated: check.safety_related, projectCode: check.project_code },
+    version: { number: version.number, sha256: version.sha256, author: version.author, createdAt: new Date(version.createdAt).toISOString(), message: version.message, content: version.content, results: version.results },
+    base: base ? { number: base.number, sha256: base.sha256, content: base.content, results: base.results } : null,
+    comparison,
+    submittedBy: submitter.name,
+    checker: { userId: checker.userId, name: checker.name },
+    submittedAt: new Date(check.created_at).toISOString(),
+    verificationMethod: check.verification_method,
+    checkerNotes: check.checker_notes,
+    alternateCells: check.alternate_cells as Cell[],
+    alternateResults: check.alternate_results as SheetResult | null,
+    returnReason: check.return_reason,
+    threads,
+    signatures: signatures.filter((s) => s.versionNumber === check.version_number),
+    you: {
+      isChecker,
+      canComment: (check.state === 'in_check' || answeringReturn) && (isChecker || roles.includes('originator')),
+      canOpenThreads: check.state === 'in_check' && isChecker,
+      actions,
+      approverRefusal: check.state === 'checked' && roles.includes('approver') ? (approverProblem?.message ?? null) : null,
+    },
+  };
+}
+export type CheckDetail = Awaited<ReturnType<typeof getCheckDetail>>;
+
+/** "My checks" (open checks naming me) or "My approvals" (checked versions I may approve). */
+export async function listQueue(db: Kysely<Database>, actor: Actor, queue: 'check' | 'approval') {
+  let q = db
+    .selectFrom('checks as c')
+    .innerJoin('sheets as s', 's.id', 'c.sheet_id')
+    .innerJoin('projects as p', 'p.id', 'c.project_id')
+    .innerJoin('users as o', 'o.id', 'c.submitted_by')
+    .innerJoin('users as k', 'k.id', 'c.checker_id')
+    .select(['c.id', 'c.state', 'c.version_number', 'c.version_sha256', 'c.created_at', 'c.updated_at', 'c.checker_id', 'c.base_version_number', 'c.sheet_id', 's.number', 's.title', 's.safety_related', 'p.code', 'p.id as project_id', 'o.display_name as submitted_by', 'k.display_name as checker']);
+  if (queue === 'check') q = q.where('c.checker_id', '=', actor.userId).where('c.state', '=', 'in_check');
+  else
+    q = q
+      .where('c.state', '=', 'checked')
+      .where('c.project_id', 'in', db.selectFrom('project_members').select('project_id').where('user_id', '=', actor.userId).where('role', '=', 'approver'));
+  const rows = await q.orderBy('c.updated_at').execute();
+  const out = [];
+  for (const r of rows) {
+    let eligible = true;
+    let reason: string | null = null;
+    if (queue === 'approval') {
+      const originators = await originatorsSince(db, r.sheet_id, r.base_version_number, r.version_number);
+      const refusal = approverRefusal({ userId: actor.userId, name: actor.name, roles: ['approver'] }, originators, r.checker_id, r.safety_related);
+      eligible = refusal === null;
+      reason = refusal?.message ?? null;
+    }
+    out.push({
+      id: r.id,
+      state: r.state,
+      sheet: { code: formatSheetNumber(r.code, r.number), title: r.title, safetyRelated: r.safety_related, projectCode: r.code, number: r.number },
+      versionNumber: r.version_number,
+      sha256: r.version_sha256,
+      submittedBy: r.submitted_by,
+      checker: r.checker,
+      submittedAt: new Date(r.created_at).toISOString(),
+      updatedAt: new Date(r.updated_at).toISOString(),
+      eligible,
+      reason,
+    });
+  }
+  return out;
+}
+
+/** Where a sheet stands: its open or latest check, its last approved version, its signatures. */
+export async function sheetWorkflow(db: Db, sheetId: string) {
+  const [checks, signatures, latest] = await Promise.all([
+    db
+      .selectFrom('checks as c')
+      .innerJoin('users as k', 'k.id', 'c.checker_id')
+      .select(['c.id', 'c.state', 'c.version_number', 'c.version_sha256', 'c.created_at', 'c.return_reason', 'k.display_name as checker'])
+      .where('c.sheet_id', '=', sheetId)
+      .orderBy('c.created_at', 'desc')
+      .execute(),
+    listSignatures(db, sheetId),
+    db.selectFrom('versions').select(sql<number>`max(number)`.as('n')).where('sheet_id', '=', sheetId).executeTakeFirstOrThrow(),
+  ]);
+  const latestNumber = Number(latest.n);
+  const lastApproved = checks.filter((c) => c.state === 'approved').reduce<number | null>((m, c) => (m === null || c.version_number > m ? c.version_number : m), null);
+  const newest = checks[0];
+  const status = statusOf(newest ? { state: newest.state, versionNumber: newest.version_number } : undefined, latestNumber);
+  return {
+    status,
+    latestVersion: latestNumber,
+    lastApprovedVersion: lastApproved,
+    checks: checks.map((c) => ({ id: c.id, state: c.state, stateLabel: STATE_LABELS[c.state], versionNumber: c.version_number, sha256: c.version_sha256, checker: c.checker, submittedAt: new Date(c.created_at).toISOString(), returnReason: c.return_reason })),
+    signatures,
+  };
+}
+export type SheetWorkflow = Awaited<ReturnType<typeof sheetWorkflow>>;
+export { SHEET_STATUS_LABELS } from './status';
+
+export const resolveSchema = z.object({ resolved: z.literal(true) });
