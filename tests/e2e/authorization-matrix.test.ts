@@ -104,7 +104,7 @@ const MATRIX: Record<string, Entry> = {
   'GET /api/sheets/[sheetId]/versions/[number]': { request: (w) => ({ path: `/api/sheets/${w.sheetId}/versions/1` }), expect: memberOnly(200) },
   'GET /api/sheets/[sheetId]/attachments': { request: (w) => ({ path: `/api/sheets/${w.sheetId}/attachments` }), expect: memberOnly(200) },
   'POST /api/sheets/[sheetId]/attachments': {
-    request: (w) => ({ path: `/api/sheets/${w.sheetId}/attachments`, file: { name: 'matrix.csv', type: 'text/csv', text: 'x [m]\n1\n' } }),
+    request: (w) => ({ path: `/api/sheets/${w.sheetId}/attachments`, file: { name: 'matrix-probe.csv', type: 'text/csv', text: 'x [m]\n1\n' } }),
     expect: originatorOnly(201),
   },
   'GET /api/sheets/[sheetId]/attachments/[sha256]': { request: (w) => ({ path: `/api/sheets/${w.sheetId}/attachments/${w.attachmentSha256}` }), expect: memberOnly(200) },
