@@ -59,19 +59,27 @@ type AnyNode = MathNode & {
   implicit?: boolean;
 };
 
+/**
+ * A symbol's TeX as mathjs's own SymbolNode writes it: a leading space unless it starts with a
+ * control word, so that an operator written before it stays one (`3\cdot x`, not `3\cdotx`).
+ */
+function spaced(tex: string): string {
+  return tex.startsWith('\\') ? tex : ` ${tex}`;
+}
+
 function makeHandler(ctx: TexContext, substitute: boolean) {
   return (node: AnyNode, options: object): string | undefined => {
     const unit = node.type === 'SymbolNode' && node.name ? unitOfPlaceholder(node.name) : null;
-    if (unit !== null) return ctx.unitTex(unit);
+    if (unit !== null) return spaced(ctx.unitTex(unit));
     if (node.type === 'SymbolNode' && node.name && ctx.isValueName(node.name)) {
       if (substitute && ctx.valueTex) {
         const v = ctx.valueTex(node.name);
-        if (v !== undefined) return v;
+        if (v !== undefined) return spaced(v);
       }
-      return nameTex(node.name);
+      return spaced(nameTex(node.name));
     }
     if (node.type === 'AssignmentNode' && node.object && (node.object as AnyNode).type === 'SymbolNode') {
-      return `${nameTex((node.object as AnyNode).name!)} = ${node.value!.toTex(options)}`;
+      return `${nameTex((node.object as AnyNode).name!)} = ${node.value!.toTex(options).trimStart()}`;
     }
     // A unit conversion does not change the quantity; its result shows the unit.
     if (node.type === 'OperatorNode' && (node.op === 'to' || node.op === 'in') && node.args) {
@@ -82,11 +90,11 @@ function makeHandler(ctx: TexContext, substitute: boolean) {
 }
 
 export function formulaTex(node: MathNode, ctx: TexContext): string {
-  return node.toTex({ handler: makeHandler(ctx, false), parenthesis: 'keep', implicit: 'hide' } as never);
+  return node.toTex({ handler: makeHandler(ctx, false), parenthesis: 'keep', implicit: 'hide' } as never).trimStart();
 }
 
 export function substitutedTex(node: MathNode, ctx: TexContext): string {
-  return node.toTex({ handler: makeHandler(ctx, true), parenthesis: 'keep', implicit: 'hide' } as never);
+  return node.toTex({ handler: makeHandler(ctx, true), parenthesis: 'keep', implicit: 'hide' } as never).trimStart();
 }
 
 /** Wraps a value's TeX in parentheses where substituting it bare could be misread. */
