@@ -270,7 +270,10 @@ export async function submitForCheck(db: Kysely<Database>, actor: Actor, sheet: 
 
 // ── The checker's work and comments ──────────────────────────────────────────────────────────
 
-type ThreadScope = Pick<CheckRow, 'id' | 'sheet_id' | 'base_version_number' | 'created_at'>;
+type ThreadScope = Pick<CheckRow, 'id' | 'sheet_id' | 'base_version_number'>;
+
+/** The check's creation time, read in SQL (a JavaScript Date would lose the microseconds). */
+const createdAtOf = (db: Db, checkId: string) => db.selectFrom('checks as me').select('me.created_at').where('me.id', '=', checkId);
 
 /**
  * The first comments of the threads a check carries: those opened on it, and those opened on the
@@ -289,8 +292,8 @@ function threadRoots(db: Db, check: ThreadScope) {
         eb.and([
           eb('k.sheet_id', '=', check.sheet_id),
           sql<boolean>`k.base_version_number is not distinct from ${check.base_version_number}`,
-          eb('k.created_at', '<', check.created_at),
-          eb.or([eb('t.resolved_at', 'is', null), eb('t.resolved_at', '>=', check.created_at)]),
+          eb('k.created_at', '<', createdAtOf(db, check.id)),
+          eb.or([eb('t.resolved_at', 'is', null), eb('t.resolved_at', '>=', createdAtOf(db, check.id))]),
         ]),
       ]),
     );
@@ -298,7 +301,7 @@ function threadRoots(db: Db, check: ThreadScope) {
 
 /** A returned check stays open to replies until the sheet is submitted again. */
 async function submittedAgain(db: Db, check: ThreadScope): Promise<boolean> {
-  return (await db.selectFrom('checks').select('id').where('sheet_id', '=', check.sheet_id).where('created_at', '>', check.created_at).executeTakeFirst()) !== undefined;
+  return (await db.selectFrom('checks').select('id').where('sheet_id', '=', check.sheet_id).where('created_at', '>', createdAtOf(db, check.id)).executeTakeFirst()) !== undefined;
 }
 
 export async function saveCheckWork(db: Kysely<Database>, actor: Actor, checkId: string, input: z.infer<typeof checkWorkSchema>) {
