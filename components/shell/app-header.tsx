@@ -6,6 +6,7 @@ import { NavLink } from './nav-link';
 const NAV = [
   { href: '/projects', label: 'Projects' },
   { href: '/checks', label: 'My checks' },
+  { href: '/approvals', label: 'My approvals' },
   { href: '/register', label: 'Register' },
   { href: '/verify', label: 'Verify' },
 ] as const;

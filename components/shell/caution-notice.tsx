@@ -1,4 +1,4 @@
-import { CAUTIONS } from '@/lib/safety/cautions';
+import { CAUTIONS, SAFETY_RELATED_CAUTION } from '@/lib/safety/cautions';
 
 /** The cautions of the product brief, shown wherever results appear. */
 export function CautionNotice({ compact = false }: { compact?: boolean }) {
@@ -14,5 +14,14 @@ export function CautionNotice({ compact = false }: { compact?: boolean }) {
         ))}
       </ul>
     </aside>
+  );
+}
+
+/** The banner of a safety-related sheet, wherever the sheet or its check is shown. */
+export function SafetyRelatedNotice() {
+  return (
+    <p role="note" className="rounded border-l-4 border-caution-rule bg-caution-soft px-4 py-3 text-sm font-semibold text-caution">
+      {SAFETY_RELATED_CAUTION}
+    </p>
   );
 }

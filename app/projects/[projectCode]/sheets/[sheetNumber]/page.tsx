@@ -1,17 +1,50 @@
 import type { Metadata } from 'next';
 import Link from 'next/link';
 import { notFound } from 'next/navigation';
+import { SignatureList, SignatureTable, type SignatureRow } from '@/components/checks/signatures';
+import { StatusBadge } from '@/components/checks/status-badge';
+import { SubmitForCheckForm } from '@/components/checks/submit-for-check-form';
+import { UtcTime } from '@/components/data/utc-time';
 import { MarkdownView } from '@/components/sheet/markdown-view';
 import { VersionView } from '@/components/sheet/version-view';
-import { CautionNotice } from '@/components/shell/caution-notice';
+import { CautionNotice, SafetyRelatedNotice } from '@/components/shell/caution-notice';
 import { getDb } from '@/db';
 import { pageProject } from '@/lib/auth/page-guard';
-import { SAFETY_RELATED_CAUTION } from '@/lib/safety/cautions';
+import { eligibleCheckers, MEANING_LABELS, SHEET_STATUS_LABELS, sheetWorkflow, type SheetWorkflow } from '@/lib/checks/workflow';
 import { formatSheetNumber } from '@/lib/sheets/sheet-number';
 import { getSheetByNumber, getVersion, listVersions } from '@/lib/sheets/sheets';
 
 export const metadata: Metadata = { title: 'Sheet' };
 export const dynamic = 'force-dynamic';
+
+/** One sentence on where the sheet stands, and the check it concerns. */
+function whereItStands(wf: SheetWorkflow): { text: string; checkId: string | null; linkText: string } {
+  const newest = wf.checks[0];
+  const later = newest && newest.versionNumber < wf.latestVersion ? ` Version ${wf.latestVersion} is a later draft.` : '';
+  switch (wf.status) {
+    case 'in_check':
+      return { text: `Version ${newest.versionNumber} is in check by ${newest.checker}.${later}`, checkId: newest.id, linkText: 'Open the check' };
+    case 'checked':
+      return { text: `Version ${newest.versionNumber} is checked by ${newest.checker} and awaits approval.${later}`, checkId: newest.id, linkText: 'Open the check' };
+    case 'approved':
+      return { text: `Version ${newest.versionNumber} is approved (checked by ${newest.checker}).`, checkId: newest.id, linkText: 'Open the check' };
+    case 'returned':
+      return {
+        text: `Version ${newest.versionNumber} was returned ${newest.state === 'approval_returned' ? 'by the approver' : `by ${newest.checker}`}: “${newest.returnReason ?? ''}”`,
+        checkId: newest.id,
+        linkText: 'Read the comments',
+      };
+    default:
+      return {
+        text:
+          wf.lastApprovedVersion !== null
+            ? `Version ${wf.lastApprovedVersion} is the last approved version; version ${wf.latestVersion} is a draft, not submitted for check.`
+            : `Version ${wf.latestVersion} is a draft, not submitted for check.`,
+        checkId: null,
+        linkText: '',
+      };
+  }
+}
 
 export default async function SheetPage({ params, searchParams }: { params: Promise<{ projectCode: string; sheetNumber: string }>; searchParams: Promise<{ version?: string }> }) {
   const { projectCode, sheetNumber } = await params;
@@ -21,10 +54,24 @@ export default async function SheetPage({ params, searchParams }: { params: Prom
   const sheet = Number.isInteger(number) && number > 0 ? await getSheetByNumber(getDb(), project.id, number) : undefined;
   if (!sheet) notFound();
   const wanted = versionParam ? Number(versionParam) : undefined;
-  const [version, versions] = await Promise.all([getVersion(getDb(), sheet.id, wanted), listVersions(getDb(), sheet.id)]);
+  const [version, versions, workflow] = await Promise.all([getVersion(getDb(), sheet.id, wanted), listVersions(getDb(), sheet.id), sheetWorkflow(getDb(), sheet.id)]);
   if (!version) notFound();
   const latest = versions[0]?.number;
   const code = formatSheetNumber(project.code, sheet.number);
+  const isOriginator = roles.includes('originator');
+  const checkers = isOriginator ? await eligibleCheckers(getDb(), sheet, workflow.latestVersion) : [];
+  const signatures: SignatureRow[] = workflow.signatures.map((s) => ({ ...s, meaningLabel: MEANING_LABELS[s.meaning] }));
+  const stands = whereItStands(workflow);
+  // The newest check of each version says what became of it.
+  const versionState = new Map<number, string>();
+  for (const c of [...workflow.checks].reverse()) versionState.set(c.versionNumber, c.stateLabel);
+  const open = workflow.status === 'in_check' || workflow.status === 'checked';
+  const submittable = versions.map((v) => v.number).filter((n) => workflow.lastApprovedVersion === null || n > workflow.lastApprovedVersion);
+  const blocked = open
+    ? `Version ${workflow.checks[0].versionNumber} is ${workflow.checks[0].stateLabel}; one submission at a time.`
+    : submittable.length === 0
+      ? `Version ${workflow.latestVersion} is approved. Save a new version to submit it for check.`
+      : null;
   return (
     <div className="grid gap-8 lg:grid-cols-[minmax(0,1fr)_18rem]">
       <div className="min-w-0 space-y-6">
@@ -38,8 +85,8 @@ export default async function SheetPage({ params, searchParams }: { params: Prom
           <h1 className="text-2xl font-bold">{version.content.title}</h1>
           <p className="mt-1 text-sm text-ink-muted">
             Version {version.number}
-            {version.number !== latest ? ` (read-only; the latest is ${latest})` : ' (latest)'} · draft · saved by {version.author} on{' '}
-            {version.createdAt.toISOString().slice(0, 16).replace('T', ' ')} UTC · SHA-256 <span className="font-mono">{version.sha256.slice(0, 16)}…</span>
+            {version.number !== latest ? ` (read-only; the latest is ${latest})` : ' (latest)'} · {versionState.get(version.number) ?? 'not submitted for check'} · saved by{' '}
+            {version.author} on <UtcTime iso={version.createdAt.toISOString()} /> · SHA-256 <span className="font-mono">{version.sha256.slice(0, 16)}…</span>
           </p>
           <p className="mt-1 text-xs text-ink-muted">
             {version.engineVersion ?? 'not evaluated'} · constants {version.constantsEdition ?? '—'}
@@ -57,37 +104,69 @@ export default async function SheetPage({ params, searchParams }: { params: Prom
             </p>
           ) : null}
         </header>
-        {version.content.safetyRelated ? (
-          <p role="note" className="rounded border-l-4 border-caution-rule bg-caution-soft px-4 py-3 text-sm font-semibold text-caution">
-            {SAFETY_RELATED_CAUTION}
+        <section aria-labelledby="status-title" className="flex flex-wrap items-baseline gap-x-3 gap-y-1 rounded border border-rule bg-surface px-4 py-3">
+          <h2 id="status-title" className="sr-only">
+            Status
+          </h2>
+          <StatusBadge status={workflow.status} label={SHEET_STATUS_LABELS[workflow.status]} />
+          <p className="text-sm">
+            {stands.text}{' '}
+            {stands.checkId ? (
+              <Link href={`/checks/${stands.checkId}`} className="font-semibold text-accent underline">
+                {stands.linkText}
+              </Link>
+            ) : null}
           </p>
-        ) : null}
+        </section>
+        <section aria-labelledby="signatures-title" className="space-y-2">
+          <h2 id="signatures-title" className="text-lg font-bold">
+            Signatures
+          </h2>
+          <SignatureTable signatures={signatures} caption="Signatures of this sheet" />
+        </section>
+        {version.content.safetyRelated ? <SafetyRelatedNotice /> : null}
         <CautionNotice compact />
         <VersionView sheetId={sheet.id} content={version.content} results={version.results} renderText={(source) => <MarkdownView source={source} />} />
       </div>
-      <aside aria-labelledby="history-title" className="space-y-2">
-        <h2 id="history-title" className="font-bold">
-          History
-        </h2>
-        <ol className="space-y-2 text-sm">
-          {versions.map((v) => (
-            <li key={v.number} className={`rounded border px-3 py-2 ${v.number === version.number ? 'border-accent bg-accent-soft' : 'border-rule bg-surface'}`}>
-              <Link href={`/projects/${project.code}/sheets/${sheet.number}?version=${v.number}`} className="font-semibold text-accent underline">
-                Version {v.number}
-              </Link>
-              <span className="block text-ink">{v.message}</span>
-              <span className="block text-xs text-ink-muted">
-                {v.author} · {v.createdAt.toISOString().slice(0, 16).replace('T', ' ')} UTC
-              </span>
-              <span className="block font-mono text-xs text-ink-muted">{v.sha256.slice(0, 16)}…</span>
-              {v.parentNumber ? (
-                <Link href={`/projects/${project.code}/sheets/${sheet.number}/compare?base=${v.parentNumber}&target=${v.number}`} className="text-xs text-accent underline">
-                  Compare with version {v.parentNumber}
+      <aside aria-label="Check and history" className="space-y-6">
+        {isOriginator ? (
+          <section aria-labelledby="submit-title" className="space-y-2 rounded border border-rule bg-surface p-3">
+            <h2 id="submit-title" className="font-bold">
+              Submit for check
+            </h2>
+            <SubmitForCheckForm sheetId={sheet.id} versions={submittable} checkers={checkers} blocked={blocked} />
+          </section>
+        ) : null}
+        <section aria-labelledby="history-title" className="space-y-2">
+          <h2 id="history-title" className="font-bold">
+            History
+          </h2>
+          <ol className="space-y-2 text-sm">
+            {versions.map((v) => (
+              <li key={v.number} className={`rounded border px-3 py-2 ${v.number === version.number ? 'border-accent bg-accent-soft' : 'border-rule bg-surface'}`}>
+                <Link href={`/projects/${project.code}/sheets/${sheet.number}?version=${v.number}`} className="font-semibold text-accent underline">
+                  Version {v.number}
                 </Link>
-              ) : null}
-            </li>
-          ))}
-        </ol>
+                <span className="block text-ink">{v.message}</span>
+                <span className="block text-xs text-ink-muted">
+                  {v.author} · <UtcTime iso={v.createdAt.toISOString()} />
+                </span>
+                <span className="block font-mono text-xs text-ink-muted">{v.sha256.slice(0, 16)}…</span>
+                {versionState.has(v.number) ? <span className="block text-xs font-semibold">{versionState.get(v.number)}</span> : null}
+                {signatures.some((s) => s.versionNumber === v.number) ? (
+                  <div className="mt-1 border-t border-rule pt-1">
+                    <SignatureList signatures={signatures.filter((s) => s.versionNumber === v.number)} label={`Signatures of version ${v.number}`} />
+                  </div>
+                ) : null}
+                {v.parentNumber ? (
+                  <Link href={`/projects/${project.code}/sheets/${sheet.number}/compare?base=${v.parentNumber}&target=${v.number}`} className="text-xs text-accent underline">
+                    Compare with version {v.parentNumber}
+                  </Link>
+                ) : null}
+              </li>
+            ))}
+          </ol>
+        </section>
       </aside>
     </div>
   );

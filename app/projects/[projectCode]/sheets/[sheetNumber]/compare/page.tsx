@@ -1,34 +1,15 @@
 import type { Metadata } from 'next';
 import Link from 'next/link';
 import { notFound } from 'next/navigation';
+import { SourceDiff } from '@/components/sheet/source-diff';
 import { getDb } from '@/db';
 import { pageProject } from '@/lib/auth/page-guard';
-import { compareVersions, type DiffPiece } from '@/lib/sheets/compare';
+import { compareVersions } from '@/lib/sheets/compare';
 import { formatSheetNumber } from '@/lib/sheets/sheet-number';
 import { getSheetByNumber, getVersion } from '@/lib/sheets/sheets';
 
 export const metadata: Metadata = { title: 'Compare versions' };
 export const dynamic = 'force-dynamic';
-
-function Diff({ pieces }: { pieces: DiffPiece[] }) {
-  return (
-    <pre className="overflow-x-auto whitespace-pre-wrap rounded bg-paper p-2 font-mono text-sm">
-      {pieces.map((p, i) =>
-        p.added ? (
-          <ins key={i} className="bg-pass-soft text-pass no-underline">
-            {p.text}
-          </ins>
-        ) : p.removed ? (
-          <del key={i} className="bg-fail-soft text-fail">
-            {p.text}
-          </del>
-        ) : (
-          <span key={i}>{p.text}</span>
-        ),
-      )}
-    </pre>
-  );
-}
 
 export default async function ComparePage({ params, searchParams }: { params: Promise<{ projectCode: string; sheetNumber: string }>; searchParams: Promise<{ base?: string; target?: string }> }) {
   const { projectCode, sheetNumber } = await params;
@@ -61,7 +42,7 @@ export default async function ComparePage({ params, searchParams }: { params: Pr
               {cell.id} · {cell.status}
               {cell.moved ? ' · moved' : ''}
             </p>
-            {cell.sourceDiff ? <Diff pieces={cell.sourceDiff} /> : null}
+            {cell.sourceDiff ? <SourceDiff pieces={cell.sourceDiff} /> : null}
           </article>
         ))}
       </section>

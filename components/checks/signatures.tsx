@@ -1,0 +1,60 @@
+import { UtcTime } from '@/components/data/utc-time';
+
+export interface SignatureRow {
+  id: string;
+  printedName: string;
+  /** "Prepared", "Checked", "Approved", "Issued". */
+  meaningLabel: string;
+  signedAt: string;
+  versionNumber: number;
+  sha256: string;
+}
+
+/** Electronic signatures as records show them: printed name, meaning, UTC time, and the version's SHA-256. */
+export function SignatureTable({ signatures, caption }: { signatures: SignatureRow[]; caption: string }) {
+  if (signatures.length === 0) return <p className="text-sm text-ink-muted">No signatures yet.</p>;
+  return (
+    <table className="w-full border-collapse text-sm">
+      <caption className="sr-only">{caption}</caption>
+      <thead>
+        <tr className="border-b border-rule-strong text-left">
+          <th scope="col" className="py-2 pr-3">Printed name</th>
+          <th scope="col" className="py-2 pr-3">Meaning</th>
+          <th scope="col" className="py-2 pr-3">Signed (UTC)</th>
+          <th scope="col" className="py-2 pr-3">Version</th>
+          <th scope="col" className="py-2">SHA-256 of the version</th>
+        </tr>
+      </thead>
+      <tbody>
+        {signatures.map((s) => (
+          <tr key={s.id} className="border-b border-rule align-top">
+            <td className="py-2 pr-3 font-semibold whitespace-nowrap">{s.printedName}</td>
+            <td className="py-2 pr-3">{s.meaningLabel}</td>
+            <td className="py-2 pr-3 whitespace-nowrap font-mono">
+              <UtcTime iso={s.signedAt} />
+            </td>
+            <td className="py-2 pr-3 font-mono">{s.versionNumber}</td>
+            <td className="py-2 font-mono text-xs break-all">{s.sha256}</td>
+          </tr>
+        ))}
+      </tbody>
+    </table>
+  );
+}
+
+/** The same, compact, for a narrow column (one version's signatures). */
+export function SignatureList({ signatures, label }: { signatures: SignatureRow[]; label: string }) {
+  if (signatures.length === 0) return <p className="text-sm text-ink-muted">No signatures yet.</p>;
+  return (
+    <ul aria-label={label} className="space-y-1 text-sm">
+      {signatures.map((s) => (
+        <li key={s.id}>
+          <span className="font-semibold">{s.meaningLabel}</span> · {s.printedName}
+          <span className="block font-mono text-xs text-ink-muted">
+            <UtcTime iso={s.signedAt} />
+          </span>
+        </li>
+      ))}
+    </ul>
+  );
+}

@@ -1,0 +1,139 @@
+'use client';
+
+import { useRouter } from 'next/navigation';
+import { useId, useState } from 'react';
+
+export interface CheckerOption {
+  userId: string;
+  name: string;
+  eligible: boolean;
+  reason: string | null;
+}
+
+type Status = { kind: 'idle' | 'busy' } | { kind: 'done'; text: string } | { kind: 'error'; text: string; rule?: string };
+
+/**
+ * The originator submits one exact version to a named checker. Submitting signs the version as
+ * "prepared", so the password is asked again. Checkers the independence rules exclude are listed,
+ * disabled, with the reason; the server applies the same rules again.
+ */
+export function SubmitForCheckForm({
+  sheetId,
+  versions,
+  checkers,
+  blocked,
+}: {
+  sheetId: string;
+  /** The versions that may be submitted, newest first. */
+  versions: number[];
+  checkers: CheckerOption[];
+  /** Why nothing can be submitted now (an open check, an approved latest version), or null. */
+  blocked: string | null;
+}) {
+  const id = useId();
+  const router = useRouter();
+  const [status, setStatus] = useState<Status>({ kind: 'idle' });
+  const ineligible = checkers.filter((c) => !c.eligible);
+  const anyEligible = checkers.some((c) => c.eligible);
+
+  async function submit(event: React.FormEvent<HTMLFormElement>) {
+    event.preventDefault();
+    const form = event.currentTarget;
+    const data = new FormData(form);
+    const versionNumber = Number(data.get('versionNumber'));
+    const checkerId = String(data.get('checkerId') ?? '');
+    setStatus({ kind: 'busy' });
+    try {
+      const response = await fetch(`/api/sheets/${sheetId}/checks`, {
+        method: 'POST',
+        headers: { 'content-type': 'application/json' },
+        body: JSON.stringify({ versionNumber, checkerId, password: String(data.get('password') ?? '') }),
+      });
+      const answer = await response.json().catch(() => ({}));
+      if (!response.ok) {
+        setStatus({ kind: 'error', text: answer.error?.message ?? `The server answered ${response.status}.`, rule: answer.error?.details?.rule });
+        return;
+      }
+      form.reset();
+      const checker = checkers.find((c) => c.userId === checkerId)?.name ?? 'the checker';
+      setStatus({ kind: 'done', text: `Version ${answer.versionNumber} is submitted to ${checker} for check and signed as prepared.` });
+      router.refresh();
+    } catch {
+      setStatus({ kind: 'error', text: 'The server could not be reached; nothing was submitted.' });
+    }
+  }
+
+  return (
+    <div className="space-y-3">
+      {blocked ? <p className="text-sm text-ink-muted">{blocked}</p> : null}
+      {!blocked ? (
+        <form onSubmit={submit} className="space-y-3" aria-describedby={`${id}-status`}>
+          <div>
+            <label htmlFor={`${id}-version`} className="block text-sm font-semibold">
+              Version
+            </label>
+            <select id={`${id}-version`} name="versionNumber" defaultValue={versions[0]} className="w-full rounded border border-rule-strong bg-surface px-3 py-2">
+              {versions.map((v, i) => (
+                <option key={v} value={v}>
+                  Version {v}
+                  {i === 0 ? ' (latest)' : ''}
+                </option>
+              ))}
+            </select>
+          </div>
+          <div>
+            <label htmlFor={`${id}-checker`} className="block text-sm font-semibold">
+              Checker
+            </label>
+            <select
+              id={`${id}-checker`}
+              name="checkerId"
+              required
+              defaultValue=""
+              aria-describedby={ineligible.length ? `${id}-ineligible` : undefined}
+              className="w-full rounded border border-rule-strong bg-surface px-3 py-2"
+            >
+              <option value="" disabled>
+                {anyEligible ? 'Choose a checker' : 'No eligible checker'}
+              </option>
+              {checkers.map((c) => (
+                <option key={c.userId} value={c.userId} disabled={!c.eligible}>
+                  {c.name}
+                  {c.eligible ? '' : ' (not eligible)'}
+                </option>
+              ))}
+            </select>
+            {ineligible.length ? (
+              <ul id={`${id}-ineligible`} className="mt-1 space-y-1 text-xs text-ink-muted">
+                {ineligible.map((c) => (
+                  <li key={c.userId}>
+                    <span className="font-semibold text-ink">{c.name}</span> is not eligible: {c.reason}
+                  </li>
+                ))}
+              </ul>
+            ) : null}
+            {checkers.length === 0 ? <p className="mt-1 text-xs text-ink-muted">The project has no checker; an administrator gives the checker role.</p> : null}
+          </div>
+          <div>
+            <label htmlFor={`${id}-password`} className="block text-sm font-semibold">
+              Your password (signs as prepared)
+            </label>
+            <input id={`${id}-password`} name="password" type="password" required autoComplete="current-password" className="w-full rounded border border-rule-strong bg-surface px-3 py-2" />
+          </div>
+          <button type="submit" disabled={status.kind === 'busy' || !anyEligible} className="rounded bg-accent px-4 py-2 font-semibold text-surface hover:bg-accent-hover disabled:opacity-60">
+            {status.kind === 'busy' ? 'Submitting…' : 'Submit for check'}
+          </button>
+        </form>
+      ) : null}
+      <div id={`${id}-status`} role={status.kind === 'error' ? 'alert' : 'status'} aria-live="polite" className="text-sm">
+        {status.kind === 'error' ? (
+          <p className="rounded bg-fail-soft px-3 py-2 text-fail">
+            {status.text}
+            {status.rule ? <span className="block text-xs">Rule: {status.rule}</span> : null}
+          </p>
+        ) : null}
+        {status.kind === 'done' ? <p className="text-pass">{status.text}</p> : null}
+      </div>
+    </div>
+  );
+}
