@@ -7,10 +7,13 @@ import type { Database } from './schema';
 // bigint (int8) columns such as audit_events.id arrive as strings, never as lossy numbers.
 pg.types.setTypeParser(pg.types.builtins.INT8, (value) => value);
 
+/** Connections in the application's pool (the server's and the benchmarks'). */
+export const DB_POOL_MAX = 10;
+
 export function createDb(connectionString: string, options: { max?: number } = {}): Kysely<Database> {
   const pool = new pg.Pool({
     connectionString,
-    max: options.max ?? 10,
+    max: options.max ?? DB_POOL_MAX,
     connectionTimeoutMillis: 3000,
     idleTimeoutMillis: 30_000,
     application_name: 'worldsheet',

@@ -319,7 +319,7 @@ export class LocalCluster {
     if (Number.isInteger(pid) && pid > 0 && processIsPostgres(pid)) {
       throw new LocalPostgresError(
         `A PostgreSQL server (pid ${pid}) is already running on ${this.dataFolder}, probably left over from an earlier run ` +
-          `that did not stop. Stop it with \`npm run db:stop${this.name === 'test' ? ' -- --test' : ''}\` and start again.`,
+          `that did not stop. Stop it with \`npm run db:stop${this.name === 'test' ? ' -- --test' : this.name === 'bench' ? ' -- --bench' : ''}\` and start again.`,
       );
     }
     throw new LocalPostgresError(
@@ -336,7 +336,7 @@ export class LocalCluster {
     if (!(await portIsFree(this.port))) {
       throw new LocalPostgresError(
         `Port ${this.port} on 127.0.0.1 is already in use by another program. Stop that program, or choose a free port with ` +
-          `${this.name === 'test' ? 'WORLDSHEET_TEST_PG_PORT' : 'WORLDSHEET_PG_PORT'}=<port>.`,
+          `${this.name === 'test' ? 'WORLDSHEET_TEST_PG_PORT' : this.name === 'bench' ? 'WORLDSHEET_BENCH_PG_PORT' : 'WORLDSHEET_PG_PORT'}=<port>.`,
       );
     }
     const logFile = join(this.clusterFolder, 'postgres.log');
@@ -408,12 +408,13 @@ export class LocalCluster {
 
   /**
    * Creates the application role and the database when missing. With `fresh`, an existing database
-   * of that name is dropped first: used only for the test cluster's throw-away databases.
+   * of that name is dropped first: used only for the throw-away databases of the test and benchmark
+   * clusters.
    */
   async ensureDatabase(database: string, options: { fresh?: boolean } = {}): Promise<void> {
     if (!/^[a-z_][a-z0-9_]*$/.test(database)) throw new LocalPostgresError(`Bad database name ${database}`);
-    if (options.fresh && !this.name.startsWith('test')) {
-      throw new LocalPostgresError('Only the test cluster may drop and re-create a database.');
+    if (options.fresh && !this.name.startsWith('test') && this.name !== 'bench') {
+      throw new LocalPostgresError('Only the test and benchmark clusters may drop and re-create a database.');
     }
     const c = this.credentials();
     const client = new pg.Client(this.adminConnection('postgres'));
@@ -461,6 +462,7 @@ export class LocalCluster {
 
 export const DEFAULT_DEV_PG_PORT = 54329;
 export const DEFAULT_TEST_PG_PORT = 54339;
+export const DEFAULT_BENCH_PG_PORT = 54369;
 
 export function devClusterPort(): number {
   return Number(process.env.WORLDSHEET_PG_PORT ?? DEFAULT_DEV_PG_PORT);
@@ -468,4 +470,8 @@ export function devClusterPort(): number {
 
 export function testClusterPort(): number {
   return Number(process.env.WORLDSHEET_TEST_PG_PORT ?? DEFAULT_TEST_PG_PORT);
+}
+
+export function benchClusterPort(): number {
+  return Number(process.env.WORLDSHEET_BENCH_PG_PORT ?? DEFAULT_BENCH_PG_PORT);
 }

@@ -6,12 +6,13 @@
 //   bench     the benchmarks, printed as ratios measured in one run (npm run bench)
 //   dev       like start, with `next dev` instead of a production build
 //   db-start  only the local PostgreSQL, until Ctrl-C
-//   db-stop   stops a local PostgreSQL left running by a process that is gone
+//   db-stop   stops a local PostgreSQL left running by a process that is gone (--test, --bench: those clusters)
 //   migrate   applies migrations to DATABASE_URL or the local cluster
 import path from 'node:path';
 import { fileURLToPath } from 'node:url';
 import { createDb } from '../../db/index';
 import {
+  benchClusterPort,
   devClusterPort,
   LocalCluster,
   LocalPostgresError,
@@ -172,10 +173,22 @@ async function test(supervisor: Supervisor, args: string[]): Promise<void> {
   if (!supervisor.isStopping) process.exit(code);
 }
 
+/**
+ * The benchmarks, one after the other: the calculation engine, then saving versions (which runs its
+ * own PostgreSQL cluster in .data/pg-bench on WORLDSHEET_BENCH_PG_PORT and stops it when done).
+ */
 async function bench(supervisor: Supervisor): Promise<void> {
-  const child = supervisor.spawn('benchmarks', process.execPath, ['--import', 'tsx', path.join(root, 'tests', 'bench', 'calc-bench.ts')], { cwd: root });
-  const code = await waitForExit(child);
-  if (!supervisor.isStopping) process.exit(code);
+  let failed = 0;
+  for (const file of ['calc-bench.ts', 'save-bench.ts']) {
+    const child = supervisor.spawn(`benchmark ${file}`, process.execPath, ['--import', 'tsx', path.join(root, 'tests', 'bench', file)], { cwd: root });
+    const code = await waitForExit(child);
+    if (supervisor.isStopping) return;
+    if (code !== 0) {
+      console.error(`[worldsheet] ${file} failed (exit ${code})`);
+      failed ||= code;
+    }
+  }
+  process.exit(failed);
 }
 
 async function dbOnly(supervisor: Supervisor): Promise<void> {
@@ -186,8 +199,9 @@ async function dbOnly(supervisor: Supervisor): Promise<void> {
 }
 
 function dbStop(args: string[]): void {
-  const test = args.includes('--test');
-  const cluster = new LocalCluster({ name: test ? 'test' : 'dev', port: test ? testClusterPort() : devClusterPort(), projectRoot: root });
+  const which = args.includes('--test') ? 'test' : args.includes('--bench') ? 'bench' : 'dev';
+  const port = which === 'test' ? testClusterPort() : which === 'bench' ? benchClusterPort() : devClusterPort();
+  const cluster = new LocalCluster({ name: which, port, projectRoot: root });
   log(cluster.stopLeftover() ? 'stopped the leftover server' : 'no server was running on that cluster');
 }
 

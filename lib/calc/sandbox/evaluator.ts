@@ -178,7 +178,7 @@ export class SandboxedEvaluator {
    * cache then makes re-evaluation after an edit cost only the edited cells.
    */
   async evaluate(cells: CellInput[], options: EvaluateOptions, affinity?: string): Promise<SheetResult> {
-    const thread = this.threads[affinity ? hash(affinity) % this.threads.length : this.roundRobin++ % this.threads.length];
+    const thread = this.threads[affinity ? this.workerFor(affinity) : this.roundRobin++ % this.threads.length];
     const skip = new Map<string, string>();
     const budgetEnds = Date.now() + 3 * this.options.timeoutMs;
     for (let attempt = 0; attempt <= cells.length; attempt++) {
@@ -195,6 +195,11 @@ export class SandboxedEvaluator {
       }
     }
     throw new Error('evaluation did not finish');
+  }
+
+  /** Which worker (0-based) evaluates the sheets with this affinity. */
+  workerFor(affinity: string): number {
+    return hash(affinity) % this.threads.length;
   }
 
   async close(): Promise<void> {
