@@ -167,3 +167,8 @@ const SANITIZE: sanitizeHtml.IOptions = {
 export function renderMarkdown(source: string): string {
   return sanitizeHtml(md.render(source), SANITIZE);
 }
+
+/** The markdown-it tokens of a text cell, with the same math rules (`math_inline`, `math_display_inline`, `math_block`); the issued PDF draws them. */
+export function parseMarkdown(source: string): ReturnType<typeof md.parse> {
+  return md.parse(source, {});
+}
