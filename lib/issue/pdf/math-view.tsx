@@ -1,0 +1,128 @@
+// Typeset TeX drawn with react-pdf's SVG primitives: every glyph a filled path, so formulas stay
+// vector graphics at any zoom. Sizes: MathJax works in units of 1/1000 em, drawn here at `emPt`
+// points per em (1 ex ≈ 0.442 em in MathJax's TeX fonts, so 10 pt per em is about 4.4 pt per ex).
+import { Line, Path, Rect, Svg, Text, View } from '@react-pdf/renderer';
+import type { ReactElement } from 'react';
+import { TEXT_FONT } from './fonts';
+import type { Matrix, MathPrimitive, TypesetMath } from './tex-svg';
+
+const INK = '#17212b';
+
+function round(n: number): number {
+  return Math.round(n * 1000) / 1000;
+}
+
+function matrixAttr(m: Matrix): string | undefined {
+  if (m[0] === 1 && m[1] === 0 && m[2] === 0 && m[3] === 1 && m[4] === 0 && m[5] === 0) return undefined;
+  return `matrix(${m.map(round).join(',')})`;
+}
+
+/** Size of a typeset formula in points at `emPt`, shrunk to `maxWidth` when wider. */
+export function mathSize(math: TypesetMath, emPt: number, maxWidth = Infinity): { width: number; height: number; depth: number; scale: number } {
+  const [, , w, h] = math.viewBox;
+  let scale = emPt / 1000;
+  if (w * scale > maxWidth) scale = maxWidth / w;
+  return { width: w * scale, height: h * scale, depth: math.depth * scale, scale };
+}
+
+/** One line of a formula: the part of the viewBox from `start` to `end`, drawn at `scale` pt/unit. */
+export interface MathStrip {
+  start: number;
+  end: number;
+  scale: number;
+  items: MathPrimitive[];
+}
+
+/**
+ * A formula cut into lines no wider than `maxWidth` (the lines after the first `indent` narrower).
+ * A formula that fits, or fits when shrunk to no less than `minShrink` of its size, stays whole;
+ * otherwise it is cut at its break points, as TeX breaks a long inline formula after an operator
+ * or relation, and a piece with no break point narrow enough is shrunk to fit.
+ */
+export function mathStrips(math: TypesetMath, emPt: number, maxWidth: number, indent = 0, minShrink = 0.8): MathStrip[] {
+  const [minX, , w] = math.viewBox;
+  const scale = emPt / 1000;
+  const end = minX + w;
+  if (w * scale <= maxWidth) return [{ start: minX, end, scale, items: math.items }];
+  if (w * scale * minShrink <= maxWidth || math.breaks.length === 0) return [{ start: minX, end, scale: maxWidth / w, items: math.items }];
+  const cuts: number[] = [minX];
+  let start = minX;
+  while (end - start > (maxWidth - (cuts.length > 1 ? indent : 0)) / scale) {
+    const room = (maxWidth - (cuts.length > 1 ? indent : 0)) / scale;
+    const candidates = math.breaks.filter((b) => b > start);
+    if (candidates.length === 0) break;
+    const fitting = candidates.filter((b) => b - start <= room);
+    const cut = fitting.length ? fitting[fitting.length - 1] : candidates[0];
+    cuts.push(cut);
+    start = cut;
+  }
+  cuts.push(end);
+  const strips: MathStrip[] = [];
+  for (let i = 0; i + 1 < cuts.length; i++) {
+    const a = cuts[i];
+    const b = cuts[i + 1];
+    const room = maxWidth - (i > 0 ? indent : 0);
+    const last = i + 2 === cuts.length;
+    strips.push({
+      start: a,
+      end: b,
+      scale: Math.min(scale, room / (b - a)),
+      // A piece belongs to the line where it starts (the first line also takes anything left of it).
+      items: math.items.filter((it) => (i === 0 || it.left >= a) && (last || it.left < b)),
+    });
+  }
+  return strips;
+}
+
+function Primitive({ item }: { item: MathPrimitive }): ReactElement {
+  const transform = matrixAttr(item.matrix);
+  switch (item.kind) {
+    case 'path':
+      return <Path d={item.d} fill={INK} transform={transform} />;
+    case 'rect':
+      return <Rect x={item.x} y={item.y} width={item.width} height={item.height} fill={INK} transform={transform} />;
+    case 'line':
+      return <Line x1={item.x1} y1={item.y1} x2={item.x2} y2={item.y2} stroke={INK} strokeWidth={item.strokeWidth} transform={transform} />;
+    case 'text':
+      return (
+        <Text x={0} y={0} fill={INK} transform={transform} style={{ fontFamily: TEXT_FONT, fontSize: item.fontSize, fontWeight: item.bold ? 700 : 400, fontStyle: item.italic ? 'italic' : 'normal' }}>
+          {item.text}
+        </Text>
+      );
+  }
+}
+
+function StripGraphic({ math, strip }: { math: TypesetMath; strip: MathStrip }): ReactElement {
+  const [, minY, , h] = math.viewBox;
+  const w = strip.end - strip.start;
+  return (
+    <Svg width={w * strip.scale} height={h * strip.scale} viewBox={`${strip.start} ${minY} ${w} ${h}`}>
+      {strip.items.map((item, i) => (
+        <Primitive key={i} item={item} />
+      ))}
+    </Svg>
+  );
+}
+
+/** A formula on one line, shrunk to `maxWidth` if need be (inline math in text). */
+export function MathGraphic({ math, emPt, maxWidth = Infinity }: { math: TypesetMath; emPt: number; maxWidth?: number }): ReactElement {
+  const [minX, , w] = math.viewBox;
+  const { scale } = mathSize(math, emPt, maxWidth);
+  return <StripGraphic math={math} strip={{ start: minX, end: minX + w, scale, items: math.items }} />;
+}
+
+/** A displayed formula: on as many lines as it needs, the continuation lines indented. */
+export function MathBlock({ math, emPt, maxWidth }: { math: TypesetMath; emPt: number; maxWidth: number }): ReactElement {
+  const indent = emPt * 2;
+  const strips = mathStrips(math, emPt, maxWidth, indent);
+  if (strips.length === 1) return <StripGraphic math={math} strip={strips[0]} />;
+  return (
+    <View>
+      {strips.map((strip, i) => (
+        <View key={i} style={{ marginLeft: i > 0 ? indent : 0 }}>
+          <StripGraphic math={math} strip={strip} />
+        </View>
+      ))}
+    </View>
+  );
+}

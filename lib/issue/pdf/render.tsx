@@ -1,0 +1,725 @@
+// The issued PDF of a revision (product brief, "The issued PDF"): drawn with @react-pdf/renderer
+// from RevisionPdfData alone. Every page carries the ISO 7200 title block at its foot; the body runs
+// cautions → revision history → calculation record → cells in order → attachments → evaluation →
+// signatures → verification. Formulas are MathJax outlines (./tex-svg.ts); beside each one the
+// statement's source and result stay real text, so the file can be searched and copied.
+import { Document, Page, Text, View, renderToBuffer } from '@react-pdf/renderer';
+import type { ReactElement, ReactNode } from 'react';
+import type { CellResult, StatementResult } from '@/lib/calc/types';
+import type { Cell } from '@/lib/sheets/content';
+import type { RevisionPdfData } from '../pdf-data';
+import { MONO_FONT, TEXT_FONT, registerPdfFonts } from './fonts';
+import { type Block, type Inline, markdownBlocks } from './markdown-blocks';
+import { MathBlock, MathGraphic, mathSize } from './math-view';
+import { type TypesetMath, createTexCache } from './tex-svg';
+
+// Worldsheet's palette (tailwind.config.ts `tokens`): drafting-paper neutrals, one teal, and the
+// signal colours kept for pass, fail and caution.
+const C = {
+  ink: '#17212b',
+  muted: '#4b5563',
+  rule: '#d6d1c4',
+  ruleStrong: '#7d7768',
+  accent: '#0b5a61',
+  accentSoft: '#e3f0f0',
+  pass: '#1d6a33',
+  passSoft: '#e6f2e8',
+  fail: '#a3242b',
+  failSoft: '#fae9e9',
+  caution: '#6f4500',
+  cautionSoft: '#fff3d4',
+  cautionRule: '#c2861a',
+  codeSoft: '#f3f2ec',
+} as const;
+
+// A4 portrait. ISO 7200 limits the title block to 180 mm wide, which is the text width here.
+const MM = 72 / 25.4;
+const MARGIN_X = 15 * MM;
+const CONTENT_WIDTH = 595.28 - 2 * MARGIN_X;
+const TITLE_BLOCK_ROWS = [25, 28, 22];
+const TITLE_BLOCK_HEIGHT = TITLE_BLOCK_ROWS.reduce((a, b) => a + b, 0);
+const TITLE_BLOCK_BOTTOM = 16;
+const PAGE_PADDING_TOP = 40;
+// Content stops well above the title block (fixed elements do not take part in the page's flow).
+const PAGE_PADDING_BOTTOM = TITLE_BLOCK_BOTTOM + TITLE_BLOCK_HEIGHT + 18;
+
+const BODY = 9.5;
+const MATH_EM = 10;
+// Width left for a formula inside a calculation cell: cell border and padding, line-number gutter.
+const CELL_PAD = 7;
+const GUTTER = 22;
+const FORMULA_WIDTH = CONTENT_WIDTH - 2 * CELL_PAD - 2 - GUTTER;
+
+const s = {
+  page: { fontFamily: TEXT_FONT, fontSize: BODY, color: C.ink, paddingTop: PAGE_PADDING_TOP, paddingBottom: PAGE_PADDING_BOTTOM, paddingHorizontal: MARGIN_X },
+  runningHead: { position: 'absolute' as const, top: 18, left: MARGIN_X, right: MARGIN_X, flexDirection: 'row' as const, justifyContent: 'space-between' as const, fontSize: 7.5, color: C.muted, borderBottomWidth: 0.5, borderBottomColor: C.rule, paddingBottom: 3 },
+  h1: { fontSize: 17, fontWeight: 700, lineHeight: 1.2, marginBottom: 4 },
+  h2: { fontSize: 12.5, fontWeight: 700, color: C.accent, marginTop: 14, marginBottom: 5, paddingBottom: 2, borderBottomWidth: 1, borderBottomColor: C.accent },
+  h3: { fontSize: 10.5, fontWeight: 700, marginTop: 8, marginBottom: 3 },
+  muted: { color: C.muted },
+  mono: { fontFamily: MONO_FONT },
+  para: { marginBottom: 4 },
+  label: { fontSize: 7, fontWeight: 600, color: C.muted, textTransform: 'uppercase' as const, letterSpacing: 0.3 },
+  table: { borderWidth: 0.75, borderColor: C.ruleStrong, marginBottom: 6 },
+  tr: { flexDirection: 'row' as const, borderTopWidth: 0.5, borderTopColor: C.rule },
+  th: { fontSize: 7.5, fontWeight: 700, color: C.muted, paddingVertical: 3, paddingHorizontal: 4, backgroundColor: C.codeSoft },
+  td: { fontSize: 8.5, paddingVertical: 3, paddingHorizontal: 4 },
+};
+
+/** "2026-12-02T14:03:07.000Z" → "2026-12-02 14:03:07 UTC"; anything unparseable is shown as given. */
+export function formatUtc(value: string): string {
+  const d = new Date(value);
+  if (Number.isNaN(d.getTime())) return value;
+  const iso = d.toISOString();
+  return `${iso.slice(0, 10)} ${iso.slice(11, 19)} UTC`;
+}
+
+function formatBytes(n: number): string {
+  const grouped = String(n).replace(/\B(?=(\d{3})+(?!\d))/g, ' ');
+  if (n < 1024) return `${grouped} B`;
+  const units = ['KiB', 'MiB', 'GiB'];
+  let v = n / 1024;
+  let u = 0;
+  while (v >= 1024 && u < units.length - 1) {
+    v /= 1024;
+    u++;
+  }
+  return `${grouped} B (${v.toFixed(1)} ${units[u]})`;
+}
+
+type Typeset = (tex: string, display?: boolean) => TypesetMath | null;
+
+// ---------------------------------------------------------------------------------------------
+// Page furniture
+
+function TitleField({ label, children, width, last, valueStyle, lines = 1 }: { label: string; children?: ReactNode; width: string; last?: boolean; valueStyle?: Record<string, unknown>; lines?: number }) {
+  return (
+    <View style={{ width, paddingHorizontal: 3, paddingTop: 1.5, borderRightWidth: last ? 0 : 0.75, borderRightColor: C.ink }}>
+      <Text style={{ fontSize: 5.5, color: C.muted, lineHeight: 1.2 }}>{label}</Text>
+      <Text style={{ fontSize: 8, lineHeight: 1.15, maxLines: lines, textOverflow: 'ellipsis', ...valueStyle }}>
+        {children}
+      </Text>
+    </View>
+  );
+}
+
+/** ISO 7200:2004 data fields in title blocks, as one fixed block at the foot of every page. */
+function TitleBlock({ data }: { data: RevisionPdfData }) {
+  const t = data.titleBlock;
+  const row = (i: number, last = false) => ({ flexDirection: 'row' as const, height: TITLE_BLOCK_ROWS[i], borderBottomWidth: last ? 0 : 0.75, borderBottomColor: C.ink });
+  return (
+    <View fixed style={{ position: 'absolute', left: MARGIN_X, right: MARGIN_X, bottom: TITLE_BLOCK_BOTTOM, borderWidth: 1.25, borderColor: C.ink, backgroundColor: '#ffffff' }}>
+      <View style={row(0)}>
+        <TitleField label="Legal owner" width="38%" valueStyle={{ fontWeight: 700 }}>
+          {t.legalOwner}
+        </TitleField>
+        <TitleField label="Project" width="32%" lines={2} valueStyle={{ fontSize: 7, lineHeight: 1.1 }}>
+          {`${t.project.code} · ${t.project.name}`}
+        </TitleField>
+        <TitleField label="Document type" width="15%">
+          {t.documentType}
+        </TitleField>
+        <TitleField label="Document status" width="15%" last valueStyle={{ fontWeight: 700 }}>
+          {t.status}
+        </TitleField>
+      </View>
+      <View style={row(1)}>
+        <TitleField label="Title" width="70%" lines={2} valueStyle={{ fontWeight: 600, fontSize: 8.5 }}>
+          {t.title}
+        </TitleField>
+        <TitleField label="Identification number" width="30%" last valueStyle={{ fontWeight: 700, fontSize: 10 }}>
+          {t.identificationNumber}
+        </TitleField>
+      </View>
+      <View style={row(2, true)}>
+        <TitleField label="Creator" width="23%">
+          {t.creator}
+        </TitleField>
+        <TitleField label="Approval person" width="23%">
+          {t.approvalPerson}
+        </TitleField>
+        <TitleField label="Rev." width="8%" valueStyle={{ fontWeight: 700 }}>
+          {t.revisionIndex}
+        </TitleField>
+        <TitleField label="Date of issue" width="15%">
+          {t.dateOfIssue}
+        </TitleField>
+        <TitleField label="Lang." width="8%">
+          {t.language}
+        </TitleField>
+        <View style={{ width: '23%', paddingHorizontal: 3, paddingTop: 1.5 }}>
+          <Text style={{ fontSize: 5.5, color: C.muted, lineHeight: 1.2 }}>Sheet</Text>
+          {/* No lineHeight on this text, here or inherited: react-pdf 4.9 applies a line height twice
+              when it re-lays out a render-prop text, and the line then no longer fits and is dropped. */}
+          <Text style={{ fontSize: 8, fontWeight: 700 }} render={({ pageNumber, totalPages }) => `Sheet ${pageNumber} of ${totalPages}`} />
+        </View>
+      </View>
+    </View>
+  );
+}
+
+function RunningHead({ data }: { data: RevisionPdfData }) {
+  const t = data.titleBlock;
+  return (
+    <View fixed style={s.runningHead}>
+      <Text>{t.legalOwner}</Text>
+      <Text>{`${t.identificationNumber} · Rev. ${t.revisionIndex} · ${t.status}`}</Text>
+    </View>
+  );
+}
+
+function SectionHeading({ children }: { children: string }) {
+  return (
+    <Text style={s.h2} minPresenceAhead={40}>
+      {children}
+    </Text>
+  );
+}
+
+function Table({ columns, rows, empty = 'None.' }: { columns: Array<{ title: string; width: string; mono?: boolean }>; rows: ReactNode[][]; empty?: string }) {
+  if (rows.length === 0) return <Text style={[s.muted, s.para]}>{empty}</Text>;
+  return (
+    <View style={s.table}>
+      <View style={{ flexDirection: 'row' }}>
+        {columns.map((c, i) => (
+          <Text key={i} style={[s.th, { width: c.width }]}>
+            {c.title}
+          </Text>
+        ))}
+      </View>
+      {rows.map((cells, r) => (
+        <View key={r} style={s.tr} wrap={false}>
+          {cells.map((cell, i) => (
+            <View key={i} style={[s.td, { width: columns[i].width }]}>
+              {typeof cell === 'string' ? <Text style={columns[i].mono ? [s.mono, { fontSize: 7.5 }] : undefined}>{cell}</Text> : cell}
+            </View>
+          ))}
+        </View>
+      ))}
+    </View>
+  );
+}
+
+// ---------------------------------------------------------------------------------------------
+// Math and text
+
+/** A formula as outlines (cut into lines when too wide), or its TeX in the mono face when MathJax cannot typeset it. */
+function Formula({ tex, typeset, maxWidth }: { tex: string; typeset: Typeset; maxWidth: number }) {
+  // Display style: fractions and limits at full size, as a checker reads them on paper.
+  const math = typeset(tex, true);
+  if (!math) return <Text style={[s.mono, { fontSize: 7.5, color: C.muted }]}>{tex}</Text>;
+  return (
+    <View style={{ marginVertical: 1.5 }}>
+      <MathBlock math={math} emPt={MATH_EM} maxWidth={maxWidth} />
+    </View>
+  );
+}
+
+function spanStyle(i: Extract<Inline, { kind: 'text' }>) {
+  return {
+    ...(i.bold ? { fontWeight: 700 } : {}),
+    ...(i.italic ? { fontStyle: 'italic' as const } : {}),
+    ...(i.code ? { fontFamily: MONO_FONT, fontSize: BODY * 0.85, fontWeight: 400, fontStyle: 'normal' as const } : {}),
+  };
+}
+
+/** A run of inlines. Without math it is one text with styled spans; with math the words and the
+ * formulas are laid out as a wrapping row, each formula sitting on the text's baseline. */
+function InlineFlow({ inlines, typeset, fontSize = BODY, style, maxWidth }: { inlines: Inline[]; typeset: Typeset; fontSize?: number; style?: Record<string, unknown>; maxWidth: number }) {
+  const hasMath = inlines.some((i) => i.kind === 'math' && typeset(i.tex, i.display));
+  if (!hasMath) {
+    return (
+      <Text style={{ fontSize, ...style }}>
+        {inlines.map((i, k) =>
+          i.kind === 'text' ? (
+            <Text key={k} style={spanStyle(i)}>
+              {i.text}
+            </Text>
+          ) : (
+            <Text key={k} style={{ fontFamily: MONO_FONT, fontSize: fontSize * 0.85 }}>
+              {`$${i.tex}$`}
+            </Text>
+          ),
+        )}
+      </Text>
+    );
+  }
+  const parts: ReactElement[] = [];
+  // A text line is Source Sans 3's natural 1.424 em high (ascender 1.024, descender 0.400): its
+  // baseline sits 0.4 em above the bottom of the line.
+  const baselineFromBottom = fontSize * 0.4;
+  inlines.forEach((i, k) => {
+    if (i.kind === 'text') {
+      const words = i.text.split(/(?<=\s)/);
+      words.forEach((w, j) => {
+        if (w === '') return;
+        parts.push(
+          <Text key={`${k}-${j}`} style={{ fontSize, ...style, ...spanStyle(i) }}>
+            {w}
+          </Text>,
+        );
+      });
+      return;
+    }
+    const math = typeset(i.tex, i.display);
+    if (!math) {
+      parts.push(
+        <Text key={k} style={{ fontFamily: MONO_FONT, fontSize: fontSize * 0.85 }}>
+          {`$${i.tex}$ `}
+        </Text>,
+      );
+      return;
+    }
+    const em = fontSize * 1.05;
+    const size = mathSize(math, em, maxWidth);
+    parts.push(
+      <View key={k} style={i.display ? { width: '100%', alignItems: 'center', marginVertical: 3 } : { marginBottom: baselineFromBottom - size.depth }}>
+        <MathGraphic math={math} emPt={em} maxWidth={maxWidth} />
+      </View>,
+    );
+  });
+  return <View style={{ flexDirection: 'row', flexWrap: 'wrap', alignItems: 'flex-end' }}>{parts}</View>;
+}
+
+/** A text cell's blocks, one element each (the cell frames them). */
+function markdownElements(blocks: Block[], typeset: Typeset, maxWidth: number): ReactElement[] {
+  return blocks.map((b, k) => {
+    switch (b.kind) {
+      case 'heading':
+        return (
+          <View key={k} style={{ marginTop: 3, marginBottom: 2 }} minPresenceAhead={24}>
+            <InlineFlow inlines={b.inlines} typeset={typeset} fontSize={b.level <= 1 ? 12 : b.level === 2 ? 11 : 10} style={{ fontWeight: 700 }} maxWidth={maxWidth} />
+          </View>
+        );
+      case 'paragraph': {
+        const indent = b.indent * 12;
+        return (
+          <View key={k} style={{ flexDirection: 'row', marginBottom: 3, paddingLeft: b.marker ? Math.max(0, indent - 12) : indent, ...(b.quote ? { borderLeftWidth: 2, borderLeftColor: C.rule } : {}) }}>
+            {b.marker ? <Text style={{ width: 12 }}>{b.marker}</Text> : null}
+            <View style={{ flex: 1 }}>
+              <InlineFlow inlines={b.inlines} typeset={typeset} maxWidth={maxWidth - indent} />
+            </View>
+          </View>
+        );
+      }
+      case 'code':
+        return (
+          <Text key={k} style={[s.mono, { fontSize: 7.5, backgroundColor: C.codeSoft, padding: 4, marginBottom: 3, marginLeft: b.indent * 12 }]}>
+            {b.text}
+          </Text>
+        );
+      case 'math': {
+        const math = typeset(b.tex, true);
+        return (
+          <View key={k} style={{ alignItems: 'center', marginVertical: 3, marginLeft: b.indent * 12 }} wrap={false}>
+            {math ? <MathBlock math={math} emPt={MATH_EM} maxWidth={maxWidth - b.indent * 12} /> : <Text style={[s.mono, { fontSize: 7.5 }]}>{`$$${b.tex}$$`}</Text>}
+          </View>
+        );
+      }
+      case 'table': {
+        const n = Math.max(b.header.length, ...b.rows.map((r) => r.length), 1);
+        const width = `${100 / n}%`;
+        const cell = (inl: Inline[] | undefined) => <InlineFlow inlines={inl ?? []} typeset={typeset} fontSize={8.5} maxWidth={maxWidth / n - 8} />;
+        return (
+          <View key={k}>
+            <Table columns={Array.from({ length: n }, (_, i) => ({ title: b.header[i]?.map((x) => (x.kind === 'text' ? x.text : x.tex)).join('') ?? '', width }))} rows={b.rows.map((r) => Array.from({ length: n }, (_, i) => cell(r[i])))} />
+          </View>
+        );
+      }
+      case 'rule':
+        return <View key={k} style={{ borderBottomWidth: 0.5, borderBottomColor: C.rule, marginVertical: 4 }} />;
+    }
+  });
+}
+
+/** Plain multi-line text (record fields): paragraphs split at blank lines, line breaks kept. */
+function PlainText({ text, empty = '—' }: { text: string; empty?: string }) {
+  const paragraphs = text
+    .split(/\n\s*\n/)
+    .map((p) => p.trim())
+    .filter(Boolean);
+  if (paragraphs.length === 0) return <Text style={[s.muted, s.para]}>{empty}</Text>;
+  return (
+    <View>
+      {paragraphs.map((p, i) => (
+        <Text key={i} style={s.para}>
+          {p}
+        </Text>
+      ))}
+    </View>
+  );
+}
+
+// ---------------------------------------------------------------------------------------------
+// Cells
+
+function resultText(st: StatementResult): string | null {
+  if (!st.value) return null;
+  if (st.kind === 'definition' || st.kind === 'function') return `${st.name ?? ''} = ${st.value.text}`;
+  return `= ${st.value.text}`;
+}
+
+function Statement({ st, typeset }: { st: StatementResult; typeset: Typeset }) {
+  const result = resultText(st);
+  const showSubstituted = st.substitutedTex && st.substitutedTex !== st.tex;
+  return (
+    <View wrap={false} style={{ flexDirection: 'row', paddingVertical: 3, borderTopWidth: 0.5, borderTopColor: C.rule }}>
+      <Text style={[s.mono, { width: GUTTER, fontSize: 7, color: C.muted, paddingTop: 0.5 }]}>{`L${st.line}`}</Text>
+      <View style={{ flex: 1 }}>
+        <Text style={[s.mono, { fontSize: 7.5, color: C.muted }]}>{st.source}</Text>
+        {st.tex ? <Formula tex={st.tex} typeset={typeset} maxWidth={FORMULA_WIDTH} /> : null}
+        {showSubstituted ? <Formula tex={st.substitutedTex!} typeset={typeset} maxWidth={FORMULA_WIDTH} /> : null}
+        {st.error ? (
+          <Text style={{ color: C.fail, backgroundColor: C.failSoft, paddingHorizontal: 3, paddingVertical: 1, fontSize: 8.5 }}>{`Error: ${st.error}`}</Text>
+        ) : st.criterion ? (
+          <View style={{ flexDirection: 'row', alignItems: 'center', marginTop: 1 }}>
+            <Text
+              style={{
+                fontWeight: 700,
+                fontSize: 8.5,
+                color: '#ffffff',
+                backgroundColor: st.criterion.pass ? C.pass : C.fail,
+                paddingHorizontal: 4,
+                paddingVertical: 0.5,
+                marginRight: 5,
+              }}
+            >
+              {st.criterion.pass ? 'PASS' : 'FAIL'}
+            </Text>
+            <Text style={{ fontSize: 8.5, color: st.criterion.pass ? C.pass : C.fail }}>{st.criterion.marginText}</Text>
+          </View>
+        ) : result ? (
+          <Text style={{ fontWeight: 600, fontSize: 10, marginTop: 1 }}>{result}</Text>
+        ) : null}
+      </View>
+    </View>
+  );
+}
+
+/** A calculation cell's lines in order, one element each (the cell frames them): statements with formula, substitution and result, comment-only lines as written. */
+function calcElements(cell: Cell, result: CellResult | undefined, typeset: Typeset): ReactElement[] {
+  const byLine = new Map((result?.statements ?? []).map((st) => [st.line, st]));
+  const lines = cell.source.split('\n');
+  const out: ReactElement[] = [];
+  lines.forEach((line, i) => {
+    const st = byLine.get(i + 1);
+    if (st) out.push(<Statement key={i} st={st} typeset={typeset} />);
+    else if (line.trim())
+      out.push(
+        <View key={i} style={{ flexDirection: 'row', paddingVertical: 2, borderTopWidth: 0.5, borderTopColor: C.rule }} wrap={false}>
+          <Text style={[s.mono, { width: GUTTER, fontSize: 7, color: C.muted }]}>{`L${i + 1}`}</Text>
+          <Text style={[s.mono, { flex: 1, fontSize: 7.5, color: C.muted }]}>{line}</Text>
+        </View>,
+      );
+  });
+  // A cell the engine did not evaluate (a limit, or a dependency) says why once.
+  const cellError = result?.error && !result.statements.some((st) => st.error === result.error) ? result.error : null;
+  if (cellError) out.push(<Text key="error" style={{ color: C.fail, backgroundColor: C.failSoft, padding: 3, marginVertical: 2, fontSize: 8.5 }}>{`Error: ${cellError}`}</Text>);
+  if (!result) out.push(<Text key="missing" style={{ color: C.fail, fontSize: 8.5, marginVertical: 2 }}>No evaluation result was recorded for this cell.</Text>);
+  return out;
+}
+
+/**
+ * The cells, flat: each cell's header and each of its statements or blocks is a box of its own,
+ * framed so that together they read as one cell, and all of them are children of the page.
+ * react-pdf 4.9's pagination gives up on a box tens of thousands of points tall (it places it on
+ * one page and the rest is lost: seen with one box around the cells of a 180-cell sheet), and a
+ * single cell may hold 500 statements; flat boxes of a statement each always paginate.
+ */
+function cellElements(data: RevisionPdfData, typeset: Typeset): ReactElement[] {
+  const results = data.version.results.cells;
+  const byId = new Map(results.map((r) => [r.id, r]));
+  const out: ReactElement[] = [];
+  data.version.content.cells.forEach((cell, index) => {
+    const result = byId.get(cell.id) ?? (results[index]?.id === cell.id ? results[index] : undefined);
+    const failed = cell.kind === 'calc' && (!result || !result.ok);
+    const frame = { borderColor: failed ? C.fail : C.rule, borderLeftWidth: 0.75, borderRightWidth: 0.75 };
+    out.push(
+      <View key={`${cell.id}-head`} style={{ ...frame, borderTopWidth: 0.75, flexDirection: 'row', justifyContent: 'space-between', backgroundColor: cell.kind === 'calc' ? C.accentSoft : C.codeSoft, paddingHorizontal: CELL_PAD, paddingVertical: 1.5 }} minPresenceAhead={40}>
+        <Text style={{ fontSize: 7.5, fontWeight: 700, color: C.accent }}>{`Cell ${index + 1} · ${cell.kind === 'calc' ? 'calculation' : 'text'}`}</Text>
+        <Text style={[s.mono, { fontSize: 6.5, color: C.muted }]}>{`id ${cell.id}`}</Text>
+      </View>,
+    );
+    const parts = cell.kind === 'calc' ? calcElements(cell, result, typeset) : markdownElements(markdownBlocks(cell.source), typeset, CONTENT_WIDTH - 2 * CELL_PAD - 2);
+    if (parts.length === 0) parts.push(<Text key="empty" style={[s.muted, { fontSize: 8, paddingVertical: 2 }]}>(empty)</Text>);
+    parts.forEach((part, k) => {
+      const first = k === 0;
+      const last = k === parts.length - 1;
+      out.push(
+        <View
+          key={`${cell.id}-${k}`}
+          wrap={cell.kind === 'text'}
+          style={{
+            ...frame,
+            paddingHorizontal: CELL_PAD,
+            ...(cell.kind === 'text' && first ? { paddingTop: 4 } : {}),
+            ...(last ? { borderBottomWidth: 0.75, marginBottom: 6, paddingBottom: cell.kind === 'text' ? 2 : 0 } : {}),
+          }}
+        >
+          {part}
+        </View>,
+      );
+    });
+  });
+  if (out.length === 0) out.push(<Text key="none" style={s.muted}>The sheet has no cells.</Text>);
+  return out;
+}
+
+// ---------------------------------------------------------------------------------------------
+// Sections
+
+function Heading({ data }: { data: RevisionPdfData }) {
+  const t = data.titleBlock;
+  return (
+    <View style={{ marginBottom: 8 }}>
+      <Text style={{ fontSize: 8.5, color: C.accent, fontWeight: 600, marginBottom: 2 }}>{`${t.project.code} · ${t.project.name}`}</Text>
+      <Text style={s.h1}>{t.title}</Text>
+      <Text style={{ fontSize: 10 }}>
+        <Text style={{ fontWeight: 700 }}>{t.identificationNumber}</Text>
+        {`  ·  Revision ${t.revisionIndex}  ·  version ${data.version.number}  ·  issued ${t.dateOfIssue}  ·  ${t.documentType}`}
+      </Text>
+      {data.safetyRelated ? (
+        <Text style={{ marginTop: 4, alignSelf: 'flex-start', fontSize: 8, fontWeight: 700, color: C.caution, borderWidth: 1, borderColor: C.cautionRule, paddingHorizontal: 4, paddingVertical: 1 }}>SAFETY-RELATED CALCULATION</Text>
+      ) : null}
+    </View>
+  );
+}
+
+function Cautions({ data }: { data: RevisionPdfData }) {
+  return (
+    <View wrap={false} style={{ borderLeftWidth: 4, borderLeftColor: C.cautionRule, backgroundColor: C.cautionSoft, paddingVertical: 6, paddingHorizontal: 9, marginBottom: 4 }}>
+      <Text style={{ fontSize: 10.5, fontWeight: 700, color: C.caution, marginBottom: 2 }}>Caution</Text>
+      {data.cautions.map((c, i) => (
+        <View key={i} style={{ flexDirection: 'row', marginTop: 1 }}>
+          <Text style={{ width: 9, color: C.caution }}>•</Text>
+          <Text style={{ flex: 1, color: C.caution, fontWeight: 600 }}>{c}</Text>
+        </View>
+      ))}
+    </View>
+  );
+}
+
+function RevisionHistory({ data }: { data: RevisionPdfData }) {
+  return (
+    <Table
+      columns={[
+        { title: 'Rev.', width: '7%' },
+        { title: 'Date', width: '13%' },
+        { title: 'Version', width: '9%' },
+        { title: 'Description', width: '39%' },
+        { title: 'Approved by', width: '18%' },
+        { title: 'Status', width: '14%' },
+      ]}
+      rows={data.revisionHistory.map((r) => [r.revision, r.date, String(r.version), r.description, r.approvedBy, r.status])}
+    />
+  );
+}
+
+function Record({ data }: { data: RevisionPdfData }) {
+  const r = data.version.content.record;
+  return (
+    <View>
+      <Text style={s.h3} minPresenceAhead={20}>
+        Objective
+      </Text>
+      <PlainText text={r.objective} />
+      <Text style={s.h3} minPresenceAhead={30}>
+        Design inputs
+      </Text>
+      <Table
+        columns={[
+          { title: 'Input', width: '24%' },
+          { title: 'Value', width: '22%' },
+          { title: 'Source', width: '40%' },
+          { title: 'Source revision', width: '14%' },
+        ]}
+        rows={r.inputs.map((i) => [i.name, i.value, i.source, i.sourceRevision])}
+      />
+      <Text style={s.h3} minPresenceAhead={20}>
+        Assumptions
+      </Text>
+      {r.assumptions.length === 0 ? <Text style={[s.muted, s.para]}>None.</Text> : null}
+      {r.assumptions.map((a, i) => (
+        <View key={i} style={{ flexDirection: 'row', marginBottom: 2 }} wrap={false}>
+          <Text style={{ width: 16 }}>{`A${i + 1}`}</Text>
+          <Text style={{ flex: 1 }}>{a.text}</Text>
+          {a.needsVerification ? (
+            <Text style={{ marginLeft: 6, fontSize: 7, fontWeight: 700, color: C.caution, backgroundColor: C.cautionSoft, borderWidth: 0.75, borderColor: C.cautionRule, paddingHorizontal: 3, alignSelf: 'flex-start' }}>TO BE VERIFIED</Text>
+          ) : null}
+        </View>
+      ))}
+      {r.assumptions.some((a) => a.needsVerification) ? (
+        <Text style={{ fontSize: 8, color: C.caution, marginBottom: 3 }}>Assumptions marked TO BE VERIFIED must be confirmed before the results are relied upon.</Text>
+      ) : null}
+      <Text style={s.h3} minPresenceAhead={20}>
+        Method
+      </Text>
+      <PlainText text={r.method} />
+      <Text style={s.h3} minPresenceAhead={20}>
+        References
+      </Text>
+      {r.references.length === 0 ? <Text style={[s.muted, s.para]}>None.</Text> : null}
+      {r.references.map((ref, i) => (
+        <View key={i} style={{ flexDirection: 'row', marginBottom: 2 }} wrap={false}>
+          <Text style={{ width: 20 }}>{`[${i + 1}]`}</Text>
+          <Text style={{ flex: 1 }}>{ref}</Text>
+        </View>
+      ))}
+      <Text style={s.h3} minPresenceAhead={20}>
+        Conclusions
+      </Text>
+      <PlainText text={r.conclusions} />
+    </View>
+  );
+}
+
+function Attachments({ data }: { data: RevisionPdfData }) {
+  const list = data.version.content.attachments;
+  if (list.length === 0) return <Text style={[s.muted, s.para]}>None.</Text>;
+  return (
+    <View style={s.table}>
+      <View style={{ flexDirection: 'row' }}>
+        <Text style={[s.th, { width: '50%' }]}>Name</Text>
+        <Text style={[s.th, { width: '25%' }]}>Media type</Text>
+        <Text style={[s.th, { width: '25%' }]}>Size</Text>
+      </View>
+      {list.map((a, i) => (
+        <View key={i} style={[s.tr, { flexDirection: 'column' }]} wrap={false}>
+          <View style={{ flexDirection: 'row' }}>
+            <Text style={[s.td, { width: '50%', fontWeight: 600 }]}>{a.name}</Text>
+            <Text style={[s.td, { width: '25%' }]}>{a.mediaType}</Text>
+            <Text style={[s.td, { width: '25%' }]}>{formatBytes(a.size)}</Text>
+          </View>
+          <Text style={[s.td, { paddingTop: 0 }]}>
+            <Text style={{ fontSize: 7, color: C.muted }}>{'SHA-256  '}</Text>
+            <Text style={[s.mono, { fontSize: 7.5 }]}>{a.sha256}</Text>
+          </Text>
+        </View>
+      ))}
+    </View>
+  );
+}
+
+function Evaluation({ data }: { data: RevisionPdfData }) {
+  const statements = data.version.results.cells.flatMap((c) => c.statements);
+  const criteria = statements.filter((st) => st.criterion);
+  const passed = criteria.filter((st) => st.criterion?.pass).length;
+  const errors = data.version.results.cells.filter((c) => c.kind === 'calc' && !c.ok).length;
+  const field = (label: string, value: string, mono = false) => (
+    <View style={{ flexDirection: 'row', marginBottom: 2 }}>
+      <Text style={{ width: 130, color: C.muted }}>{label}</Text>
+      <Text style={[{ flex: 1 }, mono ? [s.mono, { fontSize: 8 }] : {}].flat()}>{value}</Text>
+    </View>
+  );
+  return (
+    <View>
+      {field('Engine version', data.version.engineVersion, true)}
+      {field('Constants edition', data.version.constantsEdition)}
+      {field('Significant figures shown', String(data.version.content.significantFigures))}
+      {field('Statements', `${statements.length} in ${data.version.content.cells.length} cells; ${errors} cell${errors === 1 ? '' : 's'} with errors`)}
+      {field('Design criteria', `${criteria.length} (${passed} pass, ${criteria.length - passed} fail)`)}
+      <Text style={s.h3} minPresenceAhead={30}>
+        Built-in constants used
+      </Text>
+      <Table
+        columns={[
+          { title: 'Name', width: '14%', mono: true },
+          { title: 'Value', width: '36%' },
+          { title: 'Provenance', width: '50%' },
+        ]}
+        rows={data.constants.map((k) => [k.name, k.value, k.provenance])}
+      />
+    </View>
+  );
+}
+
+function Signatures({ data }: { data: RevisionPdfData }) {
+  return (
+    <View>
+      <Table
+        columns={[
+          { title: 'Meaning', width: '22%' },
+          { title: 'Printed name', width: '40%' },
+          { title: 'Signed (UTC)', width: '38%' },
+        ]}
+        rows={data.signatures.map((sig) => [sig.meaning, sig.printedName, formatUtc(sig.signedAt)])}
+        empty="No signatures recorded."
+      />
+      <Text style={{ fontSize: 8, color: C.muted }}>
+        {`Electronic signatures, each bound to the SHA-256 of version ${data.version.number} shown below; each signer re-entered their password to sign.`}
+      </Text>
+    </View>
+  );
+}
+
+function Verification({ data }: { data: RevisionPdfData }) {
+  const row = (label: string, value: ReactNode) => (
+    <View style={{ flexDirection: 'row', marginBottom: 3 }}>
+      <Text style={{ width: 118, color: C.muted }}>{label}</Text>
+      <View style={{ flex: 1 }}>{typeof value === 'string' ? <Text>{value}</Text> : value}</View>
+    </View>
+  );
+  return (
+    <View style={{ borderWidth: 1.25, borderColor: C.accent, padding: 8, marginTop: 2 }}>
+      {row('Document', `${data.titleBlock.identificationNumber}, revision ${data.titleBlock.revisionIndex}, version ${data.version.number}`)}
+      {row('Version SHA-256', <Text style={[s.mono, { fontSize: 8 }]}>{data.version.sha256}</Text>)}
+      {row('Verification code', <Text style={[s.mono, { fontSize: 13, fontWeight: 700, color: C.accent }]}>{data.verificationCode}</Text>)}
+      {row('Verify at', <Text style={[s.mono, { fontSize: 8.5 }]}>{data.verifyUrl}</Text>)}
+      {row('Verification method', data.verificationMethod ?? 'Not recorded')}
+      <Text style={{ fontSize: 8, color: C.muted, marginTop: 3 }}>
+        {`Upload this file or enter the verification code at the address above to learn whether it is an authentic issued revision of ${data.titleBlock.legalOwner} and whether it is still current. The file also carries the issuing organisation's digital signature, which standard PDF tools can check.`}
+      </Text>
+    </View>
+  );
+}
+
+// ---------------------------------------------------------------------------------------------
+
+export function RevisionPdfDocument({ data, typeset }: { data: RevisionPdfData; typeset: Typeset }) {
+  const t = data.titleBlock;
+  return (
+    <Document
+      title={`${t.identificationNumber} rev. ${t.revisionIndex} — ${t.title}`}
+      author={t.legalOwner}
+      subject={`${t.documentType}, ${t.project.code} ${t.project.name}`}
+      keywords={`${t.identificationNumber}; revision ${t.revisionIndex}; SHA-256 ${data.version.sha256}`}
+      creator="Worldsheet"
+      producer="Worldsheet"
+      language={t.language}
+      // The date of issue, so that the same revision always renders to the same content.
+      creationDate={Number.isNaN(Date.parse(`${t.dateOfIssue}T00:00:00Z`)) ? undefined : new Date(`${t.dateOfIssue}T00:00:00Z`)}
+    >
+      <Page size="A4" style={s.page} experimentalPagination>
+        {/* Fixed page furniture first: the pagination repeats a fixed element on the pages after the one where it enters the flow. */}
+        <RunningHead data={data} />
+        <TitleBlock data={data} />
+        <Heading data={data} />
+        <Cautions data={data} />
+        <SectionHeading>1  Revision history</SectionHeading>
+        <RevisionHistory data={data} />
+        <SectionHeading>2  Calculation record</SectionHeading>
+        <Record data={data} />
+        <SectionHeading>3  Calculation</SectionHeading>
+        {cellElements(data, typeset)}
+        <SectionHeading>4  Attachments</SectionHeading>
+        <Attachments data={data} />
+        <SectionHeading>5  Evaluation</SectionHeading>
+        <Evaluation data={data} />
+        <SectionHeading>6  Signatures</SectionHeading>
+        <Signatures data={data} />
+        <View wrap={false}>
+          <SectionHeading>7  Verification</SectionHeading>
+          <Verification data={data} />
+        </View>
+      </Page>
+    </Document>
+  );
+}
+
+/** The issued PDF of one revision, unsigned (lib/issue/sign-pdf.ts adds the organisation's signature). */
+export async function renderRevisionPdf(data: RevisionPdfData): Promise<Buffer> {
+  registerPdfFonts();
+  // One TeX → outline conversion per distinct string in this document.
+  const typeset = createTexCache();
+  return renderToBuffer(<RevisionPdfDocument data={data} typeset={typeset} />);
+}
