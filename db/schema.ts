@@ -179,6 +179,55 @@ export interface CheckCommentsTable {
   resolved_by: ColumnType<string | null, never, string>;
 }
 
+export type RevisionStatus = 'current' | 'superseded' | 'withdrawn';
+
+export interface IssueJobsTable {
+  id: Generated<string>;
+  sheet_id: Once<string>;
+  project_id: Once<string>;
+  version_number: Once<number>;
+  version_sha256: Once<string>;
+  check_id: Once<string>;
+  revision_code: Once<string>;
+  revision_sequence: Once<number>;
+  verification_code: Once<string>;
+  requested_by: Once<string>;
+  signed_at: ColumnType<Date, Date | string, never>;
+  state: Generated<'pending' | 'done' | 'failed'>;
+  step: Generated<string>;
+  pdf_key: string | null;
+  error: string | null;
+  revision_id: string | null;
+  created_at: Timestamp;
+  finished_at: ColumnType<Date | null, Date | string | null | undefined, Date | string | null>;
+}
+
+export interface RevisionsTable {
+  id: Generated<string>;
+  sheet_id: Once<string>;
+  project_id: Once<string>;
+  version_number: Once<number>;
+  version_sha256: Once<string>;
+  check_id: Once<string>;
+  issue_job_id: Once<string>;
+  code: Once<string>;
+  sequence: Once<number>;
+  status: Generated<RevisionStatus>;
+  issued_by: Once<string>;
+  issued_at: ColumnType<Date, Date | string, never>;
+  pdf_key: Once<string>;
+  pdf_sha256: Once<string>;
+  pdf_size: ColumnType<string, number, never>;
+  verification_code: Once<string>;
+  superseded_by: string | null;
+  superseded_at: ColumnType<Date | null, Date | string | null | undefined, Date | string | null>;
+  stamped_key: string | null;
+  stamped_sha256: string | null;
+  withdrawn_at: ColumnType<Date | null, Date | string | null | undefined, Date | string | null>;
+  withdrawn_by: string | null;
+  withdrawn_reason: string | null;
+}
+
 export interface AuditEventsTable {
   id: Assigned<string>;
   occurred_at: Assigned<Date>;
@@ -206,6 +255,8 @@ export interface Database {
   checks: ChecksTable;
   signatures: SignaturesTable;
   check_comments: CheckCommentsTable;
+  issue_jobs: IssueJobsTable;
+  revisions: RevisionsTable;
   audit_events: AuditEventsTable;
   sessions: SessionsTable;
   sign_in_attempts: SignInAttemptsTable;

@@ -1,12 +1,32 @@
 import type { Metadata } from 'next';
-import { UnavailableNotice } from '@/components/shell/unavailable-notice';
+import Link from 'next/link';
+import { getDb } from '@/db';
+import { pageActor } from '@/lib/auth/page-guard';
+import { listProjectsFor } from '@/lib/projects/projects';
 
-export const metadata: Metadata = { title: 'Register' };
+export const metadata: Metadata = { title: 'Document register' };
+export const dynamic = 'force-dynamic';
 
-export default function RegisterPage() {
+export default async function RegisterPage() {
+  const actor = await pageActor('/register');
+  const projects = await listProjectsFor(getDb(), actor);
   return (
-    <UnavailableNotice title="Document register">
-      <p>Not available yet in this build: the register of issued revisions arrives with issuing.</p>
-    </UnavailableNotice>
+    <div className="space-y-4">
+      <h1 className="text-2xl font-bold">Document register</h1>
+      <p className="max-w-prose text-ink-muted">The issued revisions of each project you belong to. Anyone can check a PDF on the <Link href="/verify" className="text-accent underline">verification page</Link>.</p>
+      {projects.length === 0 ? (
+        <p className="text-ink-muted">You are not a member of any project.</p>
+      ) : (
+        <ul className="space-y-2">
+          {projects.map((p) => (
+            <li key={p.id}>
+              <Link href={`/projects/${p.code}/register`} className="font-semibold text-accent underline">
+                {p.code} — {p.name}
+              </Link>
+            </li>
+          ))}
+        </ul>
+      )}
+    </div>
   );
 }

@@ -1,15 +1,18 @@
 import type { Metadata } from 'next';
-import { UnavailableNotice } from '@/components/shell/unavailable-notice';
+import { VerifyForm } from '@/components/issue/verify-form';
 
-export const metadata: Metadata = { title: 'Verify a PDF' };
+export const metadata: Metadata = { title: 'Verify an issued PDF' };
 
+/** For anyone, signed in or not. */
 export default function VerifyPage() {
   return (
-    <UnavailableNotice title="Verify an issued PDF">
-      <p>
-        Not available yet in this build: verification of issued PDFs arrives with signed issuing. No PDF can be
-        verified here yet.
+    <div className="space-y-4">
+      <h1 className="text-2xl font-bold">Verify an issued PDF</h1>
+      <p className="max-w-prose text-ink-muted">
+        Were you handed a calculation PDF? Check here whether it is an authentic revision issued through Worldsheet, which sheet and revision it is,
+        and whether it is still current. No account is needed.
       </p>
-    </UnavailableNotice>
+      <VerifyForm />
+    </div>
   );
 }

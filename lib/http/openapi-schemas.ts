@@ -254,3 +254,71 @@ export const checkDetailSchema = z.looseObject({
 
 export const checkWorkResultSchema = z.object({ ok: z.literal(true), alternateResults: z.looseObject({}).nullable() });
 export const decisionResultSchema = z.object({ id: uuid, state: checkState });
+
+// ── Issuing, the register and verification ───────────────────────────────────────────────────
+
+const revisionStatus = z.enum(['current', 'superseded', 'withdrawn']);
+
+export const issueAcceptedSchema = z.object({ jobId: uuid, revision: z.string(), versionNumber: z.number().int() });
+
+export const issueJobSchema = z.object({
+  id: uuid,
+  state: z.enum(['pending', 'done', 'failed']),
+  step: z.string().meta({ description: 'queued, rendering, signing, storing, recording or done.' }),
+  error: z.string().nullable(),
+  revision: z.string(),
+  versionNumber: z.number().int(),
+  revisionId: uuid.nullable(),
+  pdfSha256: sha256.nullable(),
+  verificationCode: z.string().nullable(),
+});
+
+export const registerRowSchema = z.object({
+  id: uuid,
+  sheetId: uuid,
+  sheet: z.string(),
+  sheetNumber: z.number().int(),
+  projectCode: z.string(),
+  title: z.string(),
+  safetyRelated: z.boolean(),
+  revision: z.string(),
+  status: revisionStatus,
+  versionNumber: z.number().int(),
+  versionSha256: sha256,
+  issuedAt: timestamp,
+  issuedBy: z.string(),
+  pdfSha256: sha256,
+  pdfSize: z.number().int(),
+  verificationCode: z.string(),
+  supersededBy: z.string().nullable(),
+  supersededAt: timestamp.nullable(),
+  withdrawnReason: z.string().nullable(),
+  withdrawnAt: timestamp.nullable(),
+});
+export const sheetRevisionsSchema = z.object({ revisions: z.array(registerRowSchema) });
+export const registerSchema = z.object({ project: z.string(), revisions: z.array(registerRowSchema) });
+export const withdrawnSchema = z.object({ id: uuid, status: z.literal('withdrawn') });
+
+export const verifyUploadFormSchema = z.object({ file: z.string().meta({ format: 'binary', description: 'The PDF to check.' }) });
+
+export const verificationSchema = z.object({
+  authentic: z.boolean(),
+  summary: z.string(),
+  revision: z
+    .object({
+      sheet: z.string(),
+      title: z.string(),
+      revision: z.string(),
+      status: revisionStatus,
+      issuedAt: timestamp,
+      versionNumber: z.number().int(),
+      versionSha256: sha256,
+      pdfSha256: sha256,
+      supersededBy: z.string().nullable(),
+      withdrawnReason: z.string().nullable(),
+      legalOwner: z.string(),
+    })
+    .nullable(),
+  checks: z.object({ hashInRegister: z.boolean(), signatureValid: z.boolean().nullable(), signedByOrganisation: z.boolean().nullable(), stampedCopy: z.boolean() }),
+  sha256: sha256.nullable(),
+});

@@ -17,6 +17,7 @@ import { inviteSchema, userChangeSchema } from '@/lib/projects/users';
 import { compareQuerySchema } from '@/lib/sheets/compare';
 import { exportQuerySchema } from '@/lib/sheets/sheet-files';
 import { createSheetSchema, saveVersionSchema } from '@/lib/sheets/sheets';
+import { downloadQuerySchema, issueRequestSchema, registerQuerySchema, verifyCodeSchema, withdrawSchema } from '@/lib/issue/issue';
 import { checkWorkSchema, commentSchema, decisionSchema, queueQuerySchema, resolveSchema, submitSchema } from '@/lib/checks/workflow';
 import { APP_VERSION } from '@/lib/version';
 import * as res from './openapi-schemas';
@@ -26,7 +27,7 @@ export type HttpMethod = 'GET' | 'POST' | 'PUT' | 'PATCH' | 'DELETE';
 /** Who may call: anyone, a browser session or an API token, or a browser session only. */
 export type Auth = 'none' | 'session or API token' | 'session';
 
-export type Tag = 'meta' | 'sign-in' | 'account' | 'admin' | 'projects' | 'sheets' | 'attachments' | 'checks' | 'calculation';
+export type Tag = 'meta' | 'sign-in' | 'account' | 'admin' | 'projects' | 'sheets' | 'attachments' | 'checks' | 'revisions' | 'calculation';
 
 /** A body: a zod schema, or raw bytes of a media type. */
 export type BodySchema = ZodType | 'binary';
@@ -607,6 +608,101 @@ export const OPERATIONS: Operation[] = [
     },
   },
 
+  // revisions
+  {
+    method: 'GET',
+    path: '/api/sheets/{sheetId}/revisions',
+    operationId: 'listSheetRevisions',
+    summary: 'The issued revisions of a sheet',
+    description: member,
+    tags: ['revisions'],
+    auth: 'session or API token',
+    params: sheetParam,
+    responses: { 200: json('Newest first.', res.sheetRevisionsSchema), ...errors([401, 404]) },
+  },
+  {
+    method: 'POST',
+    path: '/api/sheets/{sheetId}/revisions',
+    operationId: 'issueRevision',
+    summary: 'Issue an approved version as the next revision',
+    description:
+      'Document controllers. Signs "issued" (password asked again), then a job renders the PDF, signs it with the organisation\'s certificate ' +
+      '(PAdES, ETSI.CAdES.detached), stores it and records the revision, superseding the previous one, all or nothing. Follow the job at ' +
+      '`/api/issuing/{jobId}`.',
+    tags: ['revisions'],
+    auth: 'session or API token',
+    params: sheetParam,
+    body: { schema: issueRequestSchema },
+    responses: {
+      202: json('Accepted: the job that issues it.', res.issueAcceptedSchema),
+      ...errors([400, 401, 403, 404, 409], { 409: 'The version is not approved, is already issued, or another issue of this sheet is in progress.' }),
+    },
+  },
+  {
+    method: 'GET',
+    path: '/api/issuing/{jobId}',
+    operationId: 'issueJob',
+    summary: 'Progress of an issue request',
+    description: member,
+    tags: ['revisions'],
+    auth: 'session or API token',
+    params: { jobId: uuidParam('issue request') },
+    responses: { 200: json('Its state and step; the revision once done.', res.issueJobSchema), ...errors([401, 404]) },
+  },
+  {
+    method: 'GET',
+    path: '/api/projects/{projectId}/register',
+    operationId: 'projectRegister',
+    summary: 'The document register of a project',
+    description: `${member} \`format=csv\` answers a CSV file.`,
+    tags: ['revisions'],
+    auth: 'session or API token',
+    params: projectParam,
+    query: registerQuerySchema,
+    responses: {
+      200: { description: 'Every issued revision with its status.', content: { 'application/json': res.registerSchema, 'text/csv': 'binary' } },
+      ...errors([400, 401, 404]),
+    },
+  },
+  {
+    method: 'GET',
+    path: '/api/revisions/{revisionId}/pdf',
+    operationId: 'downloadRevision',
+    summary: 'Download the signed PDF of a revision',
+    description: `${member} A superseded or withdrawn revision comes as a copy stamped with its status; \`original=1\` (document controllers) gives the original file, byte for byte.`,
+    tags: ['revisions'],
+    auth: 'session or API token',
+    params: { revisionId: uuidParam('revision') },
+    query: downloadQuerySchema,
+    responses: { 200: { description: 'The PDF.', content: { 'application/pdf': 'binary' } }, ...errors([400, 401, 403, 404, 503]) },
+  },
+  {
+    method: 'POST',
+    path: '/api/revisions/{revisionId}/withdraw',
+    operationId: 'withdrawRevision',
+    summary: 'Withdraw a revision, with a reason',
+    description: 'Document controllers of the project.',
+    tags: ['revisions'],
+    auth: 'session or API token',
+    params: { revisionId: uuidParam('revision') },
+    body: { schema: withdrawSchema },
+    responses: { 200: json('Withdrawn.', res.withdrawnSchema), ...errors([400, 401, 403, 404, 409]) },
+  },
+  {
+    method: 'POST',
+    path: '/api/verify',
+    operationId: 'verify',
+    summary: 'Is this PDF, or this verification code, an authentic issued revision?',
+    description:
+      'Anyone, signed in or not. Send the PDF as multipart/form-data (field `file`, at most 30 MiB) or a verification code as JSON. The answer says ' +
+      'whether the file\'s SHA-256 is in the register and its embedded signature verifies with the organisation\'s certificate, which revision it is, ' +
+      'and whether it is current, superseded or withdrawn. A file that is not a PDF, or one never issued, gets an answer, not an error.',
+    tags: ['revisions'],
+    auth: 'none',
+    body: { schema: verifyCodeSchema, description: 'Or multipart/form-data with a `file` part.' },
+    responses: { 200: json('The answer.', res.verificationSchema), ...errors([400, 413]) },
+  },
+
   // calculation
   {
     method: 'POST',
@@ -633,6 +729,7 @@ const TAGS: { name: Tag; description: string }[] = [
   { name: 'sheets', description: 'Calculation sheets and their immutable versions.' },
   { name: 'attachments', description: 'Files attached to sheets.' },
   { name: 'checks', description: 'Independent check, approval and electronic signatures.' },
+  { name: 'revisions', description: 'Issued revisions, their signed PDFs, the register and verification.' },
   { name: 'calculation', description: 'The calculation engine.' },
 ];
 

@@ -82,7 +82,7 @@ function pemCertificates(text: string): string[] {
 let cached: LoadedIdentity | null = null;
 
 export function localKeyFolder(root = process.cwd()): string {
-  return process.env.WORLDSHEET_KEY_FOLDER ?? path.join(root, '.data', 'keys');
+  return process.env.WORLDSHEET_KEY_FOLDER ?? path.join(/* turbopackIgnore: true */ root, '.data', 'keys');
 }
 
 /** The signing identity from the configuration, or the local test one (made when missing). */
@@ -95,12 +95,12 @@ export function signingIdentity(): LoadedIdentity {
     const folder = localKeyFolder();
     keyFile = path.join(folder, 'signing.key.pem');
     certFile = path.join(folder, 'signing.crt.pem');
-    if (!existsSync(keyFile) || !existsSync(certFile)) createTestIdentity(folder);
+    if (!existsSync(/* turbopackIgnore: true */ keyFile) || !existsSync(/* turbopackIgnore: true */ certFile)) createTestIdentity(folder);
     source = `local test certificate authority in ${folder}`;
   }
-  const certificatePems = pemCertificates(readFileSync(certFile, 'utf8'));
+  const certificatePems = pemCertificates(readFileSync(/* turbopackIgnore: true */ certFile, 'utf8'));
   if (certificatePems.length === 0) throw new Error(`${certFile} holds no certificate`);
-  const keyPem = readFileSync(keyFile, 'utf8');
+  const keyPem = readFileSync(/* turbopackIgnore: true */ keyFile, 'utf8');
   const der = Buffer.from(forge.asn1.toDer(forge.pki.certificateToAsn1(forge.pki.certificateFromPem(certificatePems[0]))).getBytes(), 'binary');
   cached = { keyPem, certificatePems, certificateSha256: createHash('sha256').update(der).digest('hex'), source };
   return cached;

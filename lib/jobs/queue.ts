@@ -29,6 +29,16 @@ export const QUEUES: Record<string, Omit<PgBoss.Queue, 'name'>> = {
     // 30 days. (pg-boss 10 stores only retentionMinutes for a queue; retentionDays would be ignored.)
     retentionMinutes: 30 * 24 * 60,
   },
+  // Issuing a revision (lib/issue/issue.ts): rendering, signing, storing and recording are
+  // resumable, so a job that failed or whose worker died is simply run again.
+  issue: {
+    policy: 'standard',
+    retryLimit: 30,
+    retryDelay: 2,
+    retryBackoff: true,
+    expireInSeconds: 300,
+    retentionMinutes: 30 * 24 * 60,
+  },
 };
 
 export type QueueName = keyof typeof QUEUES;

@@ -1,6 +1,7 @@
 // Works every queue of lib/jobs/queue.ts until stopped. Runs in its own process
 // (lib/jobs/worker-main.ts), started by `npm start` and by the browser test harness.
 import { createQueues, startBoss } from './queue';
+import { workIssueQueue } from './issue-job';
 import { workMailQueue, type MailDelivery, type MailDeliverySettings } from './mail-job';
 
 export interface JobWorkerOptions {
@@ -27,6 +28,7 @@ export async function startJobWorker(options: JobWorkerOptions): Promise<JobWork
     deliveries.push(
       await workMailQueue(boss, { settings: options.mail, pollingIntervalSeconds: options.pollingIntervalSeconds ?? 1, log }),
     );
+    await workIssueQueue(boss, { pollingIntervalSeconds: options.pollingIntervalSeconds ?? 1, log });
   } catch (error) {
     await boss.stop({ graceful: false });
     throw error;

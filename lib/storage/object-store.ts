@@ -1,8 +1,8 @@
 // Object storage through the S3 SDK: files are written once under a key derived from their SHA-256
-// and read back whole. Nothing here deletes or overwrites: records that cite a file by its hash
-// must always find the same bytes.
+// and read back whole. Nothing overwrites: records that cite a file by its hash must always find the
+// same bytes. `discard` exists only for a duplicate that no record cites (a losing concurrent run).
 import { createHash } from 'node:crypto';
-import { GetObjectCommand, HeadObjectCommand, PutObjectCommand, S3Client, S3ServiceException } from '@aws-sdk/client-s3';
+import { DeleteObjectCommand, GetObjectCommand, HeadObjectCommand, ListObjectsV2Command, PutObjectCommand, S3Client, S3ServiceException } from '@aws-sdk/client-s3';
 import { AppError } from '@/lib/errors/app-error';
 import { storageConfig, type StorageConfig } from './config';
 
@@ -13,6 +13,10 @@ export interface ObjectStore {
   /** The whole object, or null when there is none. */
   get(key: string): Promise<Buffer | null>;
   exists(key: string): Promise<boolean>;
+  /** Keys under a prefix, sorted. */
+  list(prefix: string): Promise<string[]>;
+  /** Removes an object that no record cites. */
+  discard(key: string): Promise<void>;
 }
 
 const unreachable = (error: unknown): AppError => {
@@ -59,6 +63,21 @@ export function createObjectStore(config: StorageConfig): ObjectStore {
           }),
         );
         return true;
+      } catch (error) {
+        throw unreachable(error);
+      }
+    },
+    async list(prefix) {
+      try {
+        const out = await client.send(new ListObjectsV2Command({ Bucket: bucket, Prefix: prefix }));
+        return (out.Contents ?? []).map((o) => o.Key!).sort();
+      } catch (error) {
+        throw unreachable(error);
+      }
+    },
+    async discard(key) {
+      try {
+        await client.send(new DeleteObjectCommand({ Bucket: bucket, Key: key }));
       } catch (error) {
         throw unreachable(error);
       }

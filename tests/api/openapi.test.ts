@@ -18,6 +18,7 @@ import * as compare from '../../lib/sheets/compare';
 import * as sheetFiles from '../../lib/sheets/sheet-files';
 import * as sheets from '../../lib/sheets/sheets';
 import * as checksWorkflow from '../../lib/checks/workflow';
+import * as issuing from '../../lib/issue/issue';
 
 const METHODS = ['GET', 'POST', 'PUT', 'PATCH', 'DELETE'] as const;
 
@@ -201,6 +202,7 @@ describe('generated from the handlers\' zod schemas', () => {
       'lib/sheets/sheet-files.ts': sheetFiles,
       'lib/sheets/sheets.ts': sheets,
       'lib/checks/workflow.ts': checksWorkflow,
+      'lib/issue/issue.ts': issuing,
     };
     // The import route hands the body text to importSheetFile, which parses it with sheetFileSchema.
     const parsedInLib: Record<string, string> = { 'POST /api/projects/{projectId}/sheets/import': 'lib/calc/sheet-file.ts' };

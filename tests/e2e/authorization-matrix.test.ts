@@ -6,7 +6,9 @@ import { readdirSync, readFileSync, statSync } from 'node:fs';
 import path from 'node:path';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { DEMO_PASSWORD, seedDemo } from '../../db/seed';
-import { addComment, submitForCheck } from '../../lib/checks/workflow';
+import { addComment, decide, saveCheckWork, submitForCheck } from '../../lib/checks/workflow';
+import { processIssueJob, requestIssue } from '../../lib/issue/issue';
+import { createSheet } from '../../lib/sheets/sheets';
 import { uploadAttachment } from '../../lib/attachments/attachments';
 import { createApiToken } from '../../lib/auth/api-tokens';
 import { getObjectStore } from '../../lib/storage/object-store';
@@ -31,6 +33,10 @@ interface World {
   checkId: string;
   threadId: string;
   checkedCellId: string;
+  /** Revision A of sheet 3 (issued), its issue job, and a sheet whose version 1 is approved, not issued. */
+  revisionId: string;
+  issueJobId: string;
+  approvedSheetId: string;
 }
 
 interface Entry {
@@ -44,6 +50,7 @@ const signedIn = (status: number, extra: Partial<Record<Who, number>> = {}) => (
 const memberOnly = (status: number) => ({ anonymous: 401, outsider: 404, admin: 404, default: status });
 const adminOnly = (status: number) => ({ anonymous: 401, admin: status, default: 403 });
 const originatorOnly = (status: number) => ({ anonymous: 401, outsider: 404, admin: 404, originator: status, default: 403 });
+const controllerOnly = (status: number) => ({ anonymous: 401, outsider: 404, admin: 404, controller: status, default: 403 });
 const checkerOnly = (status: number) => ({ anonymous: 401, outsider: 404, admin: 404, checker: status, default: 403 });
 const reason = 'matrix test';
 
@@ -123,6 +130,16 @@ const MATRIX: Record<string, Entry> = {
   'PATCH /api/checks/[checkId]/comments/[commentId]': { request: (w) => ({ path: `/api/checks/${w.checkId}/comments/${w.threadId}`, body: { resolved: true } }), expect: checkerOnly(200) },
   // Last of the check entries: returning the check closes it.
   'POST /api/checks/[checkId]/decision': { request: (w) => ({ path: `/api/checks/${w.checkId}/decision`, body: { action: 'return', reason: 'matrix test' } }), expect: checkerOnly(200) },
+  'GET /api/sheets/[sheetId]/revisions': { request: (w) => ({ path: `/api/sheets/${w.sheetId}/revisions` }), expect: memberOnly(200) },
+  'POST /api/sheets/[sheetId]/revisions': {
+    request: (w) => ({ path: `/api/sheets/${w.approvedSheetId}/revisions`, body: { versionNumber: 1, password: DEMO_PASSWORD } }),
+    expect: controllerOnly(202),
+  },
+  'GET /api/issuing/[jobId]': { request: (w) => ({ path: `/api/issuing/${w.issueJobId}` }), expect: memberOnly(200) },
+  'GET /api/projects/[projectId]/register': { request: (w) => ({ path: `/api/projects/${w.projectId}/register?format=csv` }), expect: memberOnly(200) },
+  'GET /api/revisions/[revisionId]/pdf': { request: (w) => ({ path: `/api/revisions/${w.revisionId}/pdf` }), expect: memberOnly(200) },
+  'POST /api/revisions/[revisionId]/withdraw': { request: (w) => ({ path: `/api/revisions/${w.revisionId}/withdraw`, body: { reason: 'matrix test' } }), expect: controllerOnly(200) },
+  'POST /api/verify': { request: () => ({ path: '/api/verify', body: { code: 'ZZZZ-ZZZZ-ZZZZ' } }), expect: { default: 200 } },
   'GET /api/admin/users': { request: () => ({ path: '/api/admin/users' }), expect: adminOnly(200) },
   'POST /api/admin/users': { request: () => ({ path: '/api/admin/users', body: { email: 'invited@example.test', name: 'Invited Person' } }), expect: adminOnly(201) },
   'PATCH /api/admin/users/[userId]': { request: (w) => ({ path: `/api/admin/users/${w.spareUserId}`, body: { action: 'disable', reason } }), expect: adminOnly(200) },
@@ -179,7 +196,27 @@ beforeAll(async () => {
   const secondContent = (await testDb().selectFrom('versions').select('content').where('sheet_id', '=', second.id).where('number', '=', 1).executeTakeFirstOrThrow()).content as { cells: Array<{ id: string }> };
   const check = await submitForCheck(testDb(), originatorActor, second, { versionNumber: 1, checkerId: checker.id, password: DEMO_PASSWORD });
   const thread = await addComment(testDb(), checkerActor, check.id, { cellId: secondContent.cells[0].id, statementLine: null, body: 'Source of the flight path length?' });
+  // Sheet 3 through check and approval to revision A; a new sheet approved but not issued.
+  const approverRow = await testDb().selectFrom('users').select(['id', 'email', 'display_name']).where('email', '=', 'approver@demo.test').executeTakeFirstOrThrow();
+  const approverActor: Actor = { userId: approverRow.id, email: approverRow.email, name: approverRow.display_name, isAdmin: false, via: 'session', sessionId: null, tokenId: null };
+  const controllerRow = await testDb().selectFrom('users').select(['id', 'email', 'display_name']).where('email', '=', 'controller@demo.test').executeTakeFirstOrThrow();
+  const controllerActor: Actor = { userId: controllerRow.id, email: controllerRow.email, name: controllerRow.display_name, isAdmin: false, via: 'session', sessionId: null, tokenId: null };
+  const approveVersion1 = async (s: { id: string; project_id: string; number: number; title: string }) => {
+    const c = await submitForCheck(testDb(), originatorActor, s, { versionNumber: 1, checkerId: checker.id, password: DEMO_PASSWORD });
+    await saveCheckWork(testDb(), checkerActor, c.id, { verificationMethod: 'design_review' });
+    await decide(testDb(), checkerActor, c.id, { action: 'sign', password: DEMO_PASSWORD });
+    await decide(testDb(), approverActor, c.id, { action: 'approve', password: DEMO_PASSWORD });
+  };
+  const third = await testDb().selectFrom('sheets').select(['id', 'project_id', 'number', 'title']).where('project_id', '=', projectId).where('number', '=', 3).executeTakeFirstOrThrow();
+  await approveVersion1(third);
+  const issued = await requestIssue(testDb(), controllerActor, third, { versionNumber: 1, password: DEMO_PASSWORD });
+  const revisionId = (await processIssueJob(testDb(), getObjectStore(), issued.jobId))!;
+  const fresh = await createSheet(testDb(), originatorActor, { id: projectId, code: 'TPT2' }, { title: 'Matrix sheet to issue', safetyRelated: false, objective: '' });
+  await approveVersion1({ id: fresh.id, project_id: projectId, number: fresh.number, title: 'Matrix sheet to issue' });
   world = {
+    revisionId,
+    issueJobId: issued.jobId,
+    approvedSheetId: fresh.id,
     projectId,
     spareUserId: spare.userId,
     outsiderId: outsider.userId,

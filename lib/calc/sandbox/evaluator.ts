@@ -1,6 +1,7 @@
 // Runs sheet evaluation in worker threads with a time and a memory limit. A cell that exceeds a
 // limit ends with a clear error on that cell; the worker is replaced and the rest of the sheet is
 // evaluated without it, so a runaway sheet never takes the server down.
+import { createHash } from 'node:crypto';
 import path from 'node:path';
 import { Worker } from 'node:worker_threads';
 import type { CellInput, EvaluateOptions, SheetResult } from '../types';
@@ -164,10 +165,14 @@ class EvaluationThread {
   }
 }
 
+/** Whole results kept in this process, so that the same sheet asked again (a save right after the editor's evaluation) is not sent to a worker. */
+const RECENT_RESULTS = 24;
+
 export class SandboxedEvaluator {
   private readonly threads: EvaluationThread[];
   private nextId = 1;
   private roundRobin = 0;
+  private readonly recent = new Map<string, SheetResult>();
 
   constructor(readonly options: SandboxOptions) {
     this.threads = Array.from({ length: Math.max(1, options.workers) }, () => new EvaluationThread(options));
@@ -178,6 +183,24 @@ export class SandboxedEvaluator {
    * cache then makes re-evaluation after an edit cost only the edited cells.
    */
   async evaluate(cells: CellInput[], options: EvaluateOptions, affinity?: string): Promise<SheetResult> {
+    // The engine is deterministic: the same cells, options and tables always give the same result.
+    const key = createHash('sha256').update(JSON.stringify([cells, options.significantFigures, options.tables ?? []])).digest('base64');
+    const hit = this.recent.get(key);
+    if (hit) {
+      this.recent.delete(key);
+      this.recent.set(key, hit);
+      return { ...hit, evaluatedCells: 0 };
+    }
+    const result = await this.evaluateInWorker(cells, options, affinity);
+    // A result cut short by a limit depends on the load of the moment: not kept.
+    if (!result.cells.some((c) => c.error !== null && /^(stopped|not evaluated)/.test(c.error))) {
+      if (this.recent.size >= RECENT_RESULTS) this.recent.delete(this.recent.keys().next().value as string);
+      this.recent.set(key, result);
+    }
+    return result;
+  }
+
+  private async evaluateInWorker(cells: CellInput[], options: EvaluateOptions, affinity?: string): Promise<SheetResult> {
     const thread = this.threads[affinity ? this.workerFor(affinity) : this.roundRobin++ % this.threads.length];
     const skip = new Map<string, string>();
     const budgetEnds = Date.now() + 3 * this.options.timeoutMs;

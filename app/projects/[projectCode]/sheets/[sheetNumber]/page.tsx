@@ -11,6 +11,8 @@ import { CautionNotice, SafetyRelatedNotice } from '@/components/shell/caution-n
 import { getDb } from '@/db';
 import { pageProject } from '@/lib/auth/page-guard';
 import { eligibleCheckers, MEANING_LABELS, SHEET_STATUS_LABELS, sheetWorkflow, type SheetWorkflow } from '@/lib/checks/workflow';
+import { IssuePanel } from '@/components/issue/issue-panel';
+import { issueCandidates, listRevisions } from '@/lib/issue/issue';
 import { formatSheetNumber } from '@/lib/sheets/sheet-number';
 import { getSheetByNumber, getVersion, listVersions } from '@/lib/sheets/sheets';
 
@@ -54,7 +56,14 @@ export default async function SheetPage({ params, searchParams }: { params: Prom
   const sheet = Number.isInteger(number) && number > 0 ? await getSheetByNumber(getDb(), project.id, number) : undefined;
   if (!sheet) notFound();
   const wanted = versionParam ? Number(versionParam) : undefined;
-  const [version, versions, workflow] = await Promise.all([getVersion(getDb(), sheet.id, wanted), listVersions(getDb(), sheet.id), sheetWorkflow(getDb(), sheet.id)]);
+  const [version, versions, workflow, revisions, candidates] = await Promise.all([
+    getVersion(getDb(), sheet.id, wanted),
+    listVersions(getDb(), sheet.id),
+    sheetWorkflow(getDb(), sheet.id),
+    listRevisions(getDb(), { sheetId: sheet.id }),
+    issueCandidates(getDb(), sheet.id),
+  ]);
+  const current = revisions.find((r) => r.status === 'current');
   if (!version) notFound();
   const latest = versions[0]?.number;
   const code = formatSheetNumber(project.code, sheet.number);
@@ -109,6 +118,9 @@ export default async function SheetPage({ params, searchParams }: { params: Prom
             Status
           </h2>
           <StatusBadge status={workflow.status} label={SHEET_STATUS_LABELS[workflow.status]} />
+          {current ? (
+            <span className="rounded bg-pass-soft px-1.5 py-0.5 text-xs font-bold text-pass">Issued: revision {current.revision}</span>
+          ) : null}
           <p className="text-sm">
             {stands.text}{' '}
             {stands.checkId ? (
@@ -116,6 +128,57 @@ export default async function SheetPage({ params, searchParams }: { params: Prom
                 {stands.linkText}
               </Link>
             ) : null}
+          </p>
+        </section>
+        <section aria-labelledby="revisions-title" className="space-y-2">
+          <h2 id="revisions-title" className="text-lg font-bold">
+            Issued revisions
+          </h2>
+          {revisions.length === 0 ? (
+            <p className="text-sm text-ink-muted">Not issued yet.</p>
+          ) : (
+            <div className="overflow-x-auto">
+              <table className="w-full text-left text-sm">
+                <caption className="sr-only">Issued revisions of {code}</caption>
+                <thead>
+                  <tr className="border-b border-rule-strong">
+                    <th scope="col" className="py-1 pr-3">Revision</th>
+                    <th scope="col" className="py-1 pr-3">Status</th>
+                    <th scope="col" className="py-1 pr-3">Version</th>
+                    <th scope="col" className="py-1 pr-3">Issued</th>
+                    <th scope="col" className="py-1 pr-3">Verification code</th>
+                    <th scope="col" className="py-1">PDF</th>
+                  </tr>
+                </thead>
+                <tbody>
+                  {revisions.map((r) => (
+                    <tr key={r.id} className="border-b border-rule">
+                      <td className="py-1 pr-3 font-semibold">{r.revision}</td>
+                      <td className="py-1 pr-3">
+                        {r.status}
+                        {r.supersededBy ? ` by ${r.supersededBy}` : ''}
+                        {r.withdrawnReason ? `: ${r.withdrawnReason}` : ''}
+                      </td>
+                      <td className="py-1 pr-3">{r.versionNumber}</td>
+                      <td className="py-1 pr-3 whitespace-nowrap">
+                        <UtcTime iso={r.issuedAt} /> · {r.issuedBy}
+                      </td>
+                      <td className="py-1 pr-3 font-mono">{r.verificationCode}</td>
+                      <td className="py-1">
+                        <a href={`/api/revisions/${r.id}/pdf`} download className="font-semibold text-accent underline">
+                          {r.status === 'current' ? `Download revision ${r.revision}` : `Download revision ${r.revision} (stamped ${r.status})`}
+                        </a>
+                      </td>
+                    </tr>
+                  ))}
+                </tbody>
+              </table>
+            </div>
+          )}
+          <p className="text-sm">
+            <Link href={`/projects/${project.code}/register`} className="text-accent underline">
+              The project&apos;s document register
+            </Link>
           </p>
         </section>
         <section aria-labelledby="signatures-title" className="space-y-2">
@@ -135,6 +198,14 @@ export default async function SheetPage({ params, searchParams }: { params: Prom
               Submit for check
             </h2>
             <SubmitForCheckForm sheetId={sheet.id} versions={submittable} checkers={checkers} blocked={blocked} />
+          </section>
+        ) : null}
+        {roles.includes('controller') ? (
+          <section aria-labelledby="issue-title" className="space-y-2 rounded border border-rule bg-surface p-3">
+            <h2 id="issue-title" className="font-bold">
+              Issue a revision
+            </h2>
+            <IssuePanel sheetId={sheet.id} approvedVersions={candidates.approvedVersions} nextRevision={candidates.nextRevision} pendingJobId={candidates.pendingJobId} />
           </section>
         ) : null}
         <section aria-labelledby="history-title" className="space-y-2">

@@ -1,0 +1,21 @@
+import { getDb } from '@/db';
+import { requireProjectRole } from '@/lib/auth/current-actor';
+import { handle, parseValue, searchParams } from '@/lib/http/route';
+import { listRevisions, registerCsv, registerQuerySchema } from '@/lib/issue/issue';
+
+export const dynamic = 'force-dynamic';
+
+/** The project's document register: every issued revision with its status; `format=csv` for a file. */
+export function GET(request: Request, { params }: { params: Promise<{ projectId: string }> }): Promise<Response> {
+  return handle(async () => {
+    const { project } = await requireProjectRole((await params).projectId);
+    const q = parseValue(searchParams(request), registerQuerySchema);
+    const rows = await listRevisions(getDb(), { projectId: project.id, status: q.status, q: q.q });
+    if (q.format === 'csv') {
+      return new Response(registerCsv(rows), {
+        headers: { 'content-type': 'text/csv; charset=utf-8', 'content-disposition': `attachment; filename="${project.code}-register.csv"` },
+      });
+    }
+    return Response.json({ project: project.code, revisions: rows });
+  });
+}

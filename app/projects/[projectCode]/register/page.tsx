@@ -1,0 +1,120 @@
+import type { Metadata } from 'next';
+import Link from 'next/link';
+import { getDb } from '@/db';
+import { WithdrawForm } from '@/components/issue/withdraw-form';
+import { pageProject } from '@/lib/auth/page-guard';
+import { listRevisions, registerQuerySchema } from '@/lib/issue/issue';
+
+export const metadata: Metadata = { title: 'Document register' };
+export const dynamic = 'force-dynamic';
+
+const STATUS_STYLE: Record<string, string> = {
+  current: 'bg-pass-soft text-pass',
+  superseded: 'bg-caution-soft text-caution',
+  withdrawn: 'bg-fail-soft text-fail',
+};
+
+export default async function ProjectRegisterPage({ params, searchParams }: { params: Promise<{ projectCode: string }>; searchParams: Promise<Record<string, string>> }) {
+  const { projectCode } = await params;
+  const { project, roles } = await pageProject(projectCode, `/projects/${projectCode}/register`);
+  const parsed = registerQuerySchema.safeParse(await searchParams);
+  const filter = parsed.success ? parsed.data : registerQuerySchema.parse({});
+  const rows = await listRevisions(getDb(), { projectId: project.id, status: filter.status, q: filter.q });
+  const controller = roles.includes('controller');
+  const csv = new URLSearchParams({ status: filter.status, ...(filter.q ? { q: filter.q } : {}), format: 'csv' });
+  return (
+    <div className="space-y-6">
+      <header>
+        <p className="font-mono text-sm text-ink-muted">{project.code}</p>
+        <h1 className="text-2xl font-bold">Document register</h1>
+        <p className="mt-1 max-w-prose text-ink-muted">
+          Every issued revision of {project.name}, with its status. Only the current revision of a sheet is for use; a superseded or withdrawn one
+          downloads as a copy stamped with its status.
+        </p>
+      </header>
+      <form method="get" className="flex flex-wrap items-end gap-3 rounded border border-rule bg-surface p-3 text-sm">
+        <div>
+          <label htmlFor="reg-status" className="block font-semibold">Status</label>
+          <select id="reg-status" name="status" defaultValue={filter.status} className="rounded border border-rule-strong bg-surface px-2 py-1">
+            <option value="all">Any</option>
+            <option value="current">Current</option>
+            <option value="superseded">Superseded</option>
+            <option value="withdrawn">Withdrawn</option>
+          </select>
+        </div>
+        <div>
+          <label htmlFor="reg-q" className="block font-semibold">Sheet number or title</label>
+          <input id="reg-q" name="q" defaultValue={filter.q ?? ''} className="rounded border border-rule-strong bg-surface px-2 py-1" />
+        </div>
+        <button type="submit" className="rounded bg-accent px-3 py-1.5 font-semibold text-surface hover:bg-accent-hover">Filter</button>
+        <a href={`/api/projects/${project.id}/register?${csv}`} download className="ml-auto font-semibold text-accent underline">
+          Export as CSV
+        </a>
+      </form>
+      {rows.length === 0 ? (
+        <p className="text-ink-muted">No issued revision matches.</p>
+      ) : (
+        <div className="overflow-x-auto rounded border border-rule bg-surface">
+          <table className="w-full text-left text-sm">
+            <caption className="sr-only">Issued revisions of {project.code}</caption>
+            <thead>
+              <tr className="border-b border-rule-strong">
+                <th scope="col" className="px-3 py-2">Sheet</th>
+                <th scope="col" className="px-3 py-2">Title</th>
+                <th scope="col" className="px-3 py-2">Revision</th>
+                <th scope="col" className="px-3 py-2">Status</th>
+                <th scope="col" className="px-3 py-2">Version</th>
+                <th scope="col" className="px-3 py-2">Issued (UTC)</th>
+                <th scope="col" className="px-3 py-2">Verification code</th>
+                <th scope="col" className="px-3 py-2">PDF</th>
+              </tr>
+            </thead>
+            <tbody>
+              {rows.map((r) => (
+                <tr key={r.id} className="border-b border-rule align-top">
+                  <td className="px-3 py-2 font-mono whitespace-nowrap">
+                    <Link href={`/projects/${project.code}/sheets/${r.sheetNumber}`} className="text-accent underline">
+                      {r.sheet}
+                    </Link>
+                  </td>
+                  <td className="px-3 py-2">{r.title}</td>
+                  <td className="px-3 py-2 font-semibold">{r.revision}</td>
+                  <td className="px-3 py-2">
+                    <span className={`rounded px-1.5 py-0.5 text-xs font-bold ${STATUS_STYLE[r.status]}`}>{r.status}</span>
+                    {r.supersededBy ? <div className="text-xs text-ink-muted">by revision {r.supersededBy}</div> : null}
+                    {r.withdrawnReason ? <div className="text-xs text-ink-muted">{r.withdrawnReason}</div> : null}
+                  </td>
+                  <td className="px-3 py-2">
+                    {r.versionNumber}
+                    <div className="font-mono text-xs text-ink-muted" title={r.versionSha256}>
+                      {r.versionSha256.slice(0, 12)}…
+                    </div>
+                  </td>
+                  <td className="px-3 py-2 whitespace-nowrap">
+                    {r.issuedAt.slice(0, 16).replace('T', ' ')}
+                    <div className="text-xs text-ink-muted">{r.issuedBy}</div>
+                  </td>
+                  <td className="px-3 py-2 font-mono whitespace-nowrap">{r.verificationCode}</td>
+                  <td className="space-y-1 px-3 py-2">
+                    <a href={`/api/revisions/${r.id}/pdf`} download className="block font-semibold text-accent underline">
+                      {r.status === 'current' ? 'Download' : `Download (stamped ${r.status})`}
+                    </a>
+                    {controller && r.status !== 'current' ? (
+                      <a href={`/api/revisions/${r.id}/pdf?original=1`} download className="block text-accent underline">
+                        Original file
+                      </a>
+                    ) : null}
+                    <div className="font-mono text-xs text-ink-muted" title={`SHA-256 of the PDF: ${r.pdfSha256}`}>
+                      {r.pdfSha256.slice(0, 12)}…
+                    </div>
+                    {controller && r.status !== 'withdrawn' ? <WithdrawForm revisionId={r.id} label={`${r.sheet} revision ${r.revision}`} /> : null}
+                  </td>
+                </tr>
+              ))}
+            </tbody>
+          </table>
+        </div>
+      )}
+    </div>
+  );
+}

@@ -1,0 +1,120 @@
+'use client';
+
+import { useRouter } from 'next/navigation';
+import { useState } from 'react';
+import useSWR from 'swr';
+import { fetchJson } from '@/components/data/fetch-json';
+
+interface JobStatus {
+  id: string;
+  state: 'pending' | 'done' | 'failed';
+  step: string;
+  error: string | null;
+  revision: string;
+  versionNumber: number;
+  revisionId: string | null;
+  pdfSha256: string | null;
+  verificationCode: string | null;
+}
+
+const STEPS = ['queued', 'rendering', 'signing', 'storing', 'recording', 'done'] as const;
+const STEP_LABELS: Record<string, string> = {
+  queued: 'Waiting for the issuing service',
+  rendering: 'Typesetting the PDF',
+  signing: 'Signing it with the organisation\u2019s certificate',
+  storing: 'Storing it',
+  recording: 'Recording the revision',
+  done: 'Issued',
+};
+
+/**
+ * Document control issues an approved version as the next revision: the password signs it
+ * ("issued"), then the progress of the job shows until the signed PDF is stored and recorded.
+ */
+export function IssuePanel({ sheetId, approvedVersions, nextRevision, pendingJobId = null }: { sheetId: string; approvedVersions: number[]; nextRevision: string; pendingJobId?: string | null }) {
+  const router = useRouter();
+  const [version, setVersion] = useState(approvedVersions[approvedVersions.length - 1] ?? 0);
+  const [password, setPassword] = useState('');
+  const [jobId, setJobId] = useState<string | null>(pendingJobId);
+  const [error, setError] = useState<string | null>(null);
+  const [busy, setBusy] = useState(false);
+  const { data: job } = useSWR<JobStatus>(jobId ? `/api/issuing/${jobId}` : null, fetchJson, {
+    refreshInterval: (latest) => (latest && latest.state !== 'pending' ? 0 : 700),
+    onSuccess: (latest) => {
+      if (latest.state === 'done') router.refresh();
+    },
+  });
+
+  async function issue(event: React.FormEvent) {
+    event.preventDefault();
+    setBusy(true);
+    setError(null);
+    const response = await fetch(`/api/sheets/${sheetId}/revisions`, {
+      method: 'POST',
+      headers: { 'content-type': 'application/json' },
+      body: JSON.stringify({ versionNumber: version, password }),
+    }).catch(() => null);
+    const answer = response ? await response.json().catch(() => ({})) : {};
+    setBusy(false);
+    setPassword('');
+    if (!response || response.status !== 202) {
+      setError(answer?.error?.message ?? 'The server could not be reached.');
+      return;
+    }
+    setJobId(answer.jobId);
+  }
+
+  if (approvedVersions.length === 0 && !jobId) {
+    return <p className="text-sm text-ink-muted">No approved version waits to be issued.</p>;
+  }
+  const stepIndex = job ? STEPS.indexOf(job.step as (typeof STEPS)[number]) : -1;
+  return (
+    <div className="space-y-3">
+      {!jobId || job?.state === 'failed' ? (
+        <form onSubmit={issue} className="flex flex-wrap items-end gap-3">
+          <div>
+            <label htmlFor="issue-version" className="block text-sm font-semibold">
+              Approved version
+            </label>
+            <select id="issue-version" value={version} onChange={(e) => setVersion(Number(e.target.value))} className="rounded border border-rule-strong bg-surface px-2 py-1.5">
+              {approvedVersions.map((v) => (
+                <option key={v} value={v}>
+                  Version {v}
+                </option>
+              ))}
+            </select>
+          </div>
+          <div>
+            <label htmlFor="issue-password" className="block text-sm font-semibold">
+              Your password (signs as issued)
+            </label>
+            <input id="issue-password" type="password" autoComplete="current-password" value={password} onChange={(e) => setPassword(e.target.value)} required className="rounded border border-rule-strong bg-surface px-2 py-1.5" />
+          </div>
+          <button type="submit" disabled={busy || !password} className="rounded bg-accent px-4 py-2 font-semibold text-surface hover:bg-accent-hover disabled:opacity-60">
+            {busy ? 'Signing…' : `Issue as revision ${nextRevision}`}
+          </button>
+        </form>
+      ) : null}
+      {error ? (
+        <p role="alert" className="rounded bg-fail-soft px-3 py-2 text-sm text-fail">
+          {error}
+        </p>
+      ) : null}
+      {jobId ? (
+        <div role="status" aria-live="polite" className="space-y-2 rounded border border-rule bg-paper p-3 text-sm">
+          <p className="font-semibold">
+            Revision {job?.revision ?? nextRevision}: {job ? (job.state === 'failed' ? 'not issued' : STEP_LABELS[job.step] ?? job.step) : 'Waiting for the issuing service'}
+          </p>
+          <progress max={STEPS.length - 1} value={Math.max(0, stepIndex)} aria-label="Issuing progress" className="w-full" />
+          {job?.state === 'failed' ? <p className="text-fail">Issuing failed and nothing was recorded: {job.error}</p> : null}
+          {job?.state === 'done' && job.revisionId ? (
+            <p>
+              Issued. <a href={`/api/revisions/${job.revisionId}/pdf`} download className="font-semibold text-accent underline">Download the signed PDF</a>{' '}
+              (verification code <span className="font-mono">{job.verificationCode}</span>).
+            </p>
+          ) : null}
+        </div>
+      ) : null}
+    </div>
+  );
+}

@@ -1,0 +1,120 @@
+'use client';
+
+import { useState } from 'react';
+import type { VerificationAnswer } from '@/lib/issue/issue';
+
+/** Upload a PDF or type a verification code; the server says whether it is an authentic issued revision. */
+export function VerifyForm() {
+  const [answer, setAnswer] = useState<VerificationAnswer | null>(null);
+  const [state, setState] = useState<{ kind: 'idle' | 'busy' | 'error'; message?: string }>({ kind: 'idle' });
+
+  async function send(body: BodyInit, headers: Record<string, string> = {}) {
+    setState({ kind: 'busy' });
+    setAnswer(null);
+    const response = await fetch('/api/verify', { method: 'POST', body, headers }).catch(() => null);
+    const data = response ? await response.json().catch(() => null) : null;
+    if (!response || !response.ok || !data) {
+      setState({ kind: 'error', message: data?.error?.message ?? 'The server could not be reached.' });
+      return;
+    }
+    setAnswer(data as VerificationAnswer);
+    setState({ kind: 'idle' });
+  }
+
+  async function onFile(event: React.FormEvent<HTMLFormElement>) {
+    event.preventDefault();
+    const input = event.currentTarget.elements.namedItem('verify-file') as HTMLInputElement;
+    const file = input.files?.[0];
+    if (!file) {
+      setState({ kind: 'error', message: 'Choose a PDF first.' });
+      return;
+    }
+    const form = new FormData();
+    form.append('file', file);
+    await send(form);
+  }
+
+  async function onCode(event: React.FormEvent<HTMLFormElement>) {
+    event.preventDefault();
+    const code = (event.currentTarget.elements.namedItem('verify-code') as HTMLInputElement).value;
+    await send(JSON.stringify({ code }), { 'content-type': 'application/json' });
+  }
+
+  const r = answer?.revision;
+  return (
+    <div className="space-y-6">
+      <div className="grid gap-4 md:grid-cols-2">
+        <form onSubmit={onFile} className="space-y-2 rounded border border-rule bg-surface p-4">
+          <h2 className="text-lg font-bold">Check a PDF</h2>
+          <label htmlFor="verify-file" className="block text-sm font-semibold">
+            The PDF you were given
+          </label>
+          <input id="verify-file" name="verify-file" type="file" accept="application/pdf,.pdf" className="text-sm" />
+          <button type="submit" disabled={state.kind === 'busy'} className="block rounded bg-accent px-4 py-2 font-semibold text-surface hover:bg-accent-hover disabled:opacity-60">
+            Check the file
+          </button>
+          <p className="text-xs text-ink-muted">The file is compared by its SHA-256 with the register, and its embedded signature is checked. It is not kept.</p>
+        </form>
+        <form onSubmit={onCode} className="space-y-2 rounded border border-rule bg-surface p-4">
+          <h2 className="text-lg font-bold">Look up a verification code</h2>
+          <label htmlFor="verify-code" className="block text-sm font-semibold">
+            Verification code (printed on every issued PDF)
+          </label>
+          <input id="verify-code" name="verify-code" autoComplete="off" placeholder="K7QF-2M9D-XW4T" className="w-full rounded border border-rule-strong bg-surface px-3 py-2 font-mono" />
+          <button type="submit" disabled={state.kind === 'busy'} className="rounded bg-accent px-4 py-2 font-semibold text-surface hover:bg-accent-hover disabled:opacity-60">
+            Look it up
+          </button>
+        </form>
+      </div>
+      <div aria-live="polite">
+        {state.kind === 'busy' ? <p role="status">Checking…</p> : null}
+        {state.kind === 'error' ? (
+          <p role="alert" className="rounded bg-fail-soft px-3 py-2 text-fail">
+            {state.message}
+          </p>
+        ) : null}
+        {answer ? (
+          <section aria-labelledby="verify-answer" className={`space-y-3 rounded border-2 p-4 ${answer.authentic && r?.status === 'current' ? 'border-pass bg-pass-soft' : answer.authentic ? 'border-caution-rule bg-caution-soft' : 'border-fail bg-fail-soft'}`}>
+            <h2 id="verify-answer" className="text-lg font-bold">
+              {answer.authentic ? (r?.status === 'current' ? 'Authentic and current' : `Authentic, but ${r?.status}`) : 'Not an authentic issued revision'}
+            </h2>
+            <p>{answer.summary}</p>
+            {r ? (
+              <dl className="grid gap-x-4 gap-y-1 text-sm sm:grid-cols-[12rem_minmax(0,1fr)]">
+                <dt className="font-semibold">Sheet</dt>
+                <dd>
+                  {r.sheet} — {r.title}
+                </dd>
+                <dt className="font-semibold">Revision</dt>
+                <dd>
+                  {r.revision} ({r.status}
+                  {r.supersededBy ? `, superseded by revision ${r.supersededBy}` : ''}
+                  {r.withdrawnReason ? `: ${r.withdrawnReason}` : ''})
+                </dd>
+                <dt className="font-semibold">Issued (UTC)</dt>
+                <dd>{r.issuedAt.slice(0, 19).replace('T', ' ')}</dd>
+                <dt className="font-semibold">Issued by</dt>
+                <dd>{r.legalOwner}</dd>
+                <dt className="font-semibold">Version and its SHA-256</dt>
+                <dd className="break-all font-mono text-xs">
+                  {r.versionNumber} · {r.versionSha256}
+                </dd>
+                <dt className="font-semibold">SHA-256 of the issued PDF</dt>
+                <dd className="break-all font-mono text-xs">{r.pdfSha256}</dd>
+              </dl>
+            ) : null}
+            {answer.sha256 ? (
+              <ul className="text-sm">
+                <li>SHA-256 of your file: <span className="break-all font-mono text-xs">{answer.sha256}</span></li>
+                <li>In the register: {answer.checks.hashInRegister ? 'yes' : 'no'}</li>
+                <li>Embedded signature: {answer.checks.signatureValid === null ? 'none' : answer.checks.signatureValid ? 'valid, covering the whole file' : 'not valid'}</li>
+                <li>Signed by the organisation&apos;s certificate: {answer.checks.signedByOrganisation === null ? '—' : answer.checks.signedByOrganisation ? 'yes' : 'no'}</li>
+                {answer.checks.stampedCopy ? <li>This is a stamped copy made for reading, not the issued original.</li> : null}
+              </ul>
+            ) : null}
+          </section>
+        ) : null}
+      </div>
+    </div>
+  );
+}
