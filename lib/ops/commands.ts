@@ -8,6 +8,8 @@
 //   db-start  only the local PostgreSQL, until Ctrl-C
 //   db-stop   stops a local PostgreSQL left running by a process that is gone (--test, --bench: those clusters)
 //   migrate   applies migrations to DATABASE_URL or the local cluster
+//   backup    dumps the database and every stored object into a folder (npm run backup -- FOLDER)
+//   restore   restores such a folder into an empty installation and verifies it (npm run restore -- FOLDER)
 import path from 'node:path';
 import { fileURLToPath } from 'node:url';
 import { createDb } from '../../db/index';
@@ -28,8 +30,10 @@ import { Supervisor, waitForExit } from './supervisor';
 import { ensureJobQueues } from '../jobs/queue';
 import { startCaptureServer } from '../mail/capture-server';
 import { mailCapturePort, smtpPort } from '../mail/config';
-import { DEFAULT_FAKE_S3_PORT } from '../storage/config';
+import { DEFAULT_FAKE_S3_PORT, FAKE_S3_CREDENTIALS, storageConfig, type StorageConfig } from '../storage/config';
 import { startFakeObjectStore } from '../storage/fake-server';
+import { createObjectStore } from '../storage/object-store';
+import { backup, restore, verifyInstallationAt, type InstallationReport } from './backup';
 
 const root = path.join(path.dirname(fileURLToPath(import.meta.url)), '..', '..');
 const log = (line: string) => console.log(`[worldsheet] ${line}`);
@@ -210,6 +214,91 @@ async function migrateOnly(supervisor: Supervisor): Promise<void> {
   await supervisor.shutdown(0);
 }
 
+// ── Backup and restore ───────────────────────────────────────────────────────────────────────
+// On DATABASE_URL and the configured object store when they are set; otherwise on the local demo
+// installation (the dev cluster and .data/objects-dev), started here as npm start does, or the
+// running ones when npm start already runs them.
+
+async function localDatabaseUrl(supervisor: Supervisor, options: { create: boolean }): Promise<string> {
+  if (process.env.DATABASE_URL) return process.env.DATABASE_URL;
+  const cluster = new LocalCluster({ name: 'dev', port: devClusterPort(), projectRoot: root });
+  cluster.prepare();
+  try {
+    supervisor.add('PostgreSQL', () => cluster.stop());
+    await cluster.start();
+  } catch (error) {
+    // The dev cluster is already running (npm start): use it if our credentials get in.
+    if (!(error instanceof LocalPostgresError) || !/already running/.test(error.message)) throw error;
+    const probe = createDb(cluster.appUrl('postgres'), { max: 1 });
+    try {
+      await probe.selectNoFrom((eb) => eb.val(1).as('one')).execute();
+    } catch {
+      throw error;
+    } finally {
+      await probe.destroy();
+    }
+    log('using the dev cluster that is already running');
+  }
+  if (options.create) await cluster.ensureDatabase('worldsheet');
+  return cluster.appUrl('worldsheet');
+}
+
+async function localStoreConfig(supervisor: Supervisor): Promise<StorageConfig> {
+  if (process.env.WORLDSHEET_S3_ENDPOINT || process.env.WORLDSHEET_S3_BUCKET) return storageConfig();
+  const port = Number(process.env.WORLDSHEET_S3_PORT ?? DEFAULT_FAKE_S3_PORT);
+  if (!(await portIsFree(port))) {
+    // npm start runs the local object store in its own process; talk to that one.
+    log(`using the local object store already listening on 127.0.0.1:${port}`);
+    return storageConfig({
+      ...process.env,
+      WORLDSHEET_S3_ENDPOINT: `http://127.0.0.1:${port}`,
+      WORLDSHEET_S3_ACCESS_KEY_ID: FAKE_S3_CREDENTIALS.accessKeyId,
+      WORLDSHEET_S3_SECRET_ACCESS_KEY: FAKE_S3_CREDENTIALS.secretAccessKey,
+    });
+  }
+  const store = await startFakeObjectStore({ port, directory: path.join(root, '.data', 'objects-dev') });
+  supervisor.add('local object store', () => store.stop());
+  return storageConfig({ ...process.env, ...store.env });
+}
+
+function printReport(report: InstallationReport): void {
+  const c = report.counts;
+  log(
+    `verified: ${c.versions} version hashes, ${c.revisions} revision PDFs, ${c.stampedCopies} stamped copies, ` +
+      `${c.attachments} attachments, audit chain of ${c.auditEvents} events`,
+  );
+  if (report.ok) log('every hash matches and the audit chain is intact');
+  else for (const p of report.problems) console.error(`[worldsheet] PROBLEM: ${p}`);
+}
+
+function folderArgument(args: string[], command: string): string {
+  const folder = args.find((a) => !a.startsWith('-'));
+  if (!folder) throw new LocalPostgresError(`Name the backup folder: npm run ${command} -- <folder>`);
+  return path.resolve(folder);
+}
+
+async function backupCommand(supervisor: Supervisor, args: string[]): Promise<void> {
+  const folder = folderArgument(args, 'backup');
+  const store = await localStoreConfig(supervisor);
+  const databaseUrl = await localDatabaseUrl(supervisor, { create: false });
+  await backup({ databaseUrl, store, folder, log });
+  // The installation backed up is checked too: a backup of broken records is worth knowing about.
+  const report = await verifyInstallationAt(databaseUrl, createObjectStore(store));
+  printReport(report);
+  await supervisor.shutdown(report.ok ? 0 : 1);
+}
+
+async function restoreCommand(supervisor: Supervisor, args: string[]): Promise<void> {
+  const folder = folderArgument(args, 'restore');
+  const store = await localStoreConfig(supervisor);
+  const databaseUrl = await localDatabaseUrl(supervisor, { create: true });
+  await restore({ databaseUrl, store, folder, log });
+  const report = await verifyInstallationAt(databaseUrl, createObjectStore(store));
+  printReport(report);
+  await supervisor.shutdown(report.ok ? 0 : 1);
+}
+// ─────────────────────────────────────────────────────────────────────────────────────────────
+
 export async function runCommand(command: string, args: string[]): Promise<void> {
   const supervisor = new Supervisor();
   try {
@@ -228,6 +317,10 @@ export async function runCommand(command: string, args: string[]): Promise<void>
         return dbStop(args);
       case 'migrate':
         return await migrateOnly(supervisor);
+      case 'backup':
+        return await backupCommand(supervisor, args);
+      case 'restore':
+        return await restoreCommand(supervisor, args);
       default:
         console.error(`[worldsheet] unknown command ${command}`);
         process.exit(2);
