@@ -178,12 +178,13 @@ async function test(supervisor: Supervisor, args: string[]): Promise<void> {
 }
 
 /**
- * The benchmarks, one after the other: the calculation engine, saving versions and issuing (which run their
- * own PostgreSQL cluster in .data/pg-bench on WORLDSHEET_BENCH_PG_PORT and stop it when done).
+ * The benchmarks, one after the other: the calculation engine, saving versions, issuing and the load on
+ * the served app (which run their own PostgreSQL cluster in .data/pg-bench on WORLDSHEET_BENCH_PG_PORT
+ * and stop it when done).
  */
 async function bench(supervisor: Supervisor): Promise<void> {
   let failed = 0;
-  for (const file of ['calc-bench.ts', 'save-bench.ts', 'issue-bench.ts']) {
+  for (const file of ['calc-bench.ts', 'save-bench.ts', 'issue-bench.ts', 'load-bench.ts']) {
     const child = supervisor.spawn(`benchmark ${file}`, process.execPath, ['--import', 'tsx', path.join(root, 'tests', 'bench', file)], { cwd: root });
     const code = await waitForExit(child);
     if (supervisor.isStopping) return;
