@@ -19,7 +19,11 @@ export function createDb(connectionString: string, options: { max?: number } = {
     application_name: 'worldsheet',
   });
   // A dropped connection must not take the process down; the next query reports the error.
+  // The pool listens for errors only on idle clients: a client checked out (in a transaction, say)
+  // whose server goes away emits 'error' with no listener, an uncaught exception. Each client
+  // therefore gets its own listener; its queries still fail, and the pool drops it on release.
   pool.on('error', () => undefined);
+  pool.on('connect', (client) => client.on('error', () => undefined));
   return new Kysely<Database>({ dialect: new PostgresDialect({ pool }) });
 }
 

@@ -39,8 +39,62 @@ export class AppError extends Error {
   }
 }
 
+// A lost database: the server shutting down or refusing (SQLSTATE class 57P, "operator
+// intervention"), the connection failing (class 08), or the socket refused, reset or closed under
+// node-postgres (which reports a closed connection with these messages and no code).
+const CONNECTION_SQLSTATES = new Set(['57P01', '57P02', '57P03', '08006', '08001', '08003', '08004']);
+const CONNECTION_ERRNOS = new Set(['ECONNREFUSED', 'ECONNRESET']);
+const CONNECTION_MESSAGES = [/^Connection terminated/, /^Client has encountered a connection error and is not queryable/];
+
+/** Whether `error` (or its cause, or one of an AggregateError's errors) says the database connection is lost. */
+export function isDatabaseConnectionError(error: unknown, depth = 0): boolean {
+  if (!(error instanceof Error) || depth > 4) return false;
+  const code = (error as { code?: unknown }).code;
+  if (typeof code === 'string' && (CONNECTION_SQLSTATES.has(code) || CONNECTION_ERRNOS.has(code))) return true;
+  if (CONNECTION_MESSAGES.some((m) => m.test(error.message))) return true;
+  if (error instanceof AggregateError && error.errors.some((e) => isDatabaseConnectionError(e, depth + 1))) return true;
+  return isDatabaseConnectionError(error.cause, depth + 1);
+}
+
+// Text PostgreSQL cannot store, which only a request can bring: U+0000 in a text column
+// (22021 character_not_in_repertoire) or in jsonb (22P05 untranslatable_character). The statement
+// failed, so its transaction wrote nothing.
+const UNSTORABLE_TEXT_SQLSTATES = new Set(['22021', '22P05']);
+
+/** Whether `error` is PostgreSQL refusing a character of the text it was given. */
+export function isUnstorableTextError(error: unknown): boolean {
+  const code = error instanceof Error ? (error as { code?: unknown }).code : undefined;
+  return typeof code === 'string' && UNSTORABLE_TEXT_SQLSTATES.has(code);
+}
+
+// U+0000, which PostgreSQL refuses in text and jsonb, and a surrogate without its other half, which
+// jsonb refuses and the canonical JSON of a version's hash (RFC 8785) cannot represent. parseValue
+// refuses them at the door, rather than half way through a save.
+// eslint-disable-next-line no-control-regex
+const UNSTORABLE_CHARACTER = /\u0000|[\ud800-\udbff](?![\udc00-\udfff])|(?<![\ud800-\udbff])[\udc00-\udfff]/;
+
+/** The dotted path of the first string (or key) in `value` holding such a character (`path` for `value` itself), or null. */
+export function unstorableTextPath(value: unknown, path = '', depth = 0): string | null {
+  if (typeof value === 'string') return UNSTORABLE_CHARACTER.test(value) ? path : null;
+  if (value === null || typeof value !== 'object' || depth > 64) return null;
+  for (const [key, item] of Object.entries(value)) {
+    const at = path ? `${path}.${key}` : key;
+    if (UNSTORABLE_CHARACTER.test(key)) return at;
+    const found = unstorableTextPath(item, at, depth + 1);
+    if (found !== null) return found;
+  }
+  return null;
+}
+
 /** Maps any error to a JSON response without leaking stacks or internals. */
 export function errorResponse(error: unknown): Response {
+  if (!(error instanceof AppError) && isDatabaseConnectionError(error)) {
+    console.error('database unavailable:', error instanceof Error ? error.message : error);
+    error = new AppError('unavailable', 'The database is unavailable just now; nothing was saved. Try again in a minute.');
+  }
+  if (!(error instanceof AppError) && isUnstorableTextError(error)) {
+    error = new AppError('bad_request', 'The text holds the NUL character (U+0000), which cannot be stored; remove it and try again.');
+  }
   if (error instanceof AppError) {
     return Response.json({ error: { code: error.code, message: error.message, details: error.details ?? null } } satisfies ErrorBody, { status: error.status });
   }

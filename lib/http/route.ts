@@ -1,6 +1,6 @@
 // Route handlers are thin adapters: parse (zod), authorize, call lib/, map errors.
 import type { ZodType } from 'zod';
-import { AppError, errorResponse, readJsonBody } from '@/lib/errors/app-error';
+import { AppError, errorResponse, readJsonBody, unstorableTextPath } from '@/lib/errors/app-error';
 
 export async function handle(fn: () => Promise<Response>): Promise<Response> {
   try {
@@ -16,6 +16,10 @@ export async function parseJson<T>(request: Request, schema: ZodType<T>, maxByte
 }
 
 export function parseValue<T>(value: unknown, schema: ZodType<T>): T {
+  const unstorable = unstorableTextPath(value);
+  if (unstorable !== null) {
+    throw new AppError('bad_request', `${unstorable || 'body'}: holds a character that cannot be stored (U+0000, or half of a surrogate pair)`);
+  }
   const parsed = schema.safeParse(value);
   if (!parsed.success) {
     const issue = parsed.error.issues[0];
