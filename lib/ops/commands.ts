@@ -4,6 +4,7 @@
 //             the local mail capture server (npm start)
 //   test      the whole test suite against a separate test cluster (npm test)
 //   bench     the benchmarks, printed as ratios measured in one run (npm run bench)
+//   stress    the load test with its pass conditions (npm run test:stress; CI runs it after test)
 //   dev       like start, with `next dev` instead of a production build
 //   db-start  only the local PostgreSQL, until Ctrl-C
 //   db-stop   stops a local PostgreSQL left running by a process that is gone (--test, --bench: those clusters)
@@ -196,6 +197,23 @@ async function bench(supervisor: Supervisor): Promise<void> {
   process.exit(failed);
 }
 
+/**
+ * The load test (npm run test:stress, run in CI after npm test): the load benchmark with its pass
+ * conditions (no 5xx, no lost version, no failed request), one minute of the mix and two shorter
+ * repeats, so that CI proves them on every landing; `npm run bench` prints the same figures.
+ */
+async function stress(supervisor: Supervisor): Promise<void> {
+  const env = {
+    ...process.env,
+    WORLDSHEET_BENCH_LOAD_SECONDS: process.env.WORLDSHEET_BENCH_LOAD_SECONDS ?? '60',
+    WORLDSHEET_BENCH_LOAD_REPEAT_SECONDS: process.env.WORLDSHEET_BENCH_LOAD_REPEAT_SECONDS ?? '20',
+    WORLDSHEET_BENCH_HEALTH_SECONDS: process.env.WORLDSHEET_BENCH_HEALTH_SECONDS ?? '10',
+  };
+  const child = supervisor.spawn('load test', process.execPath, ['--import', 'tsx', path.join(root, 'tests', 'bench', 'load-bench.ts')], { cwd: root, env });
+  const code = await waitForExit(child);
+  if (!supervisor.isStopping) process.exit(code);
+}
+
 async function dbOnly(supervisor: Supervisor): Promise<void> {
   const database = await prepareDatabase(supervisor, { seed: true });
   log(`PostgreSQL ready: DATABASE_URL=${database.url}`);
@@ -312,6 +330,8 @@ export async function runCommand(command: string, args: string[]): Promise<void>
         return await test(supervisor, args);
       case 'bench':
         return await bench(supervisor);
+      case 'stress':
+        return await stress(supervisor);
       case 'db-start':
         return await dbOnly(supervisor);
       case 'db-stop':
