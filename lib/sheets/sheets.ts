@@ -40,6 +40,9 @@ export async function listSheets(db: Kysely<Database>, projectId: string, projec
     .orderBy('s.number')
     .execute();
   const statuses = await sheetStatuses(db, rows.map((r) => ({ id: r.id, latestVersion: r.latest === null ? null : Number(r.latest) })));
+  const current = new Map(
+    (await db.selectFrom('revisions').select(['sheet_id', 'code']).where('project_id', '=', projectId).where('status', '=', 'current').execute()).map((r) => [r.sheet_id, r.code]),
+  );
   return rows.map((r) => ({
     id: r.id,
     number: r.number,
@@ -47,7 +50,7 @@ export async function listSheets(db: Kysely<Database>, projectId: string, projec
     title: r.title,
     safetyRelated: r.safety_related,
     status: statuses.get(r.id) ?? ('draft' as const),
-    currentRevision: null as string | null,
+    currentRevision: current.get(r.id) ?? null,
     latestVersion: r.latest === null ? null : Number(r.latest),
     originator: r.originator,
     updatedAt: (r.updated ?? r.created_at) as Date,

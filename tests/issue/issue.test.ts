@@ -16,7 +16,7 @@ import { decide, saveCheckWork, submitForCheck } from '../../lib/checks/workflow
 import { AppError } from '../../lib/errors/app-error';
 import { normaliseVerificationCode, revisionCode } from '../../lib/issue/codes';
 import { listRevisions, processIssueJob, registerCsv, requestIssue, revisionPdf, verifyCode, verifyPdfFile, withdrawRevision } from '../../lib/issue/issue';
-import { createSheet, getVersion, saveVersion } from '../../lib/sheets/sheets';
+import { createSheet, getVersion, listSheets, saveVersion } from '../../lib/sheets/sheets';
 import { storageConfig } from '../../lib/storage/config';
 import { createObjectStore, type ObjectStore } from '../../lib/storage/object-store';
 import { testDb } from '../support/database';
@@ -99,6 +99,8 @@ describe('issuing', () => {
     expect(revision).toBe('A');
     const [row] = await listRevisions(db, { sheetId: w.sheet.id });
     expect(row).toMatchObject({ id: revisionId, revision: 'A', status: 'current', versionNumber: v, sheet: 'TPT2-CALC-0001' });
+    // The project's sheet register shows the current revision and the approved status.
+    expect((await listSheets(db, w.sheet.project_id, 'TPT2'))[0]).toMatchObject({ currentRevision: 'A', status: 'approved' });
 
     const file = await revisionPdf(db, store(), revisionId, false);
     expect(createHash('sha256').update(file.bytes).digest('hex')).toBe(row.pdfSha256);

@@ -25,13 +25,16 @@ export default async function ProjectPage({ params }: { params: Promise<{ projec
           Legal owner: {project.legal_owner}. Revisions numbered {project.revision_scheme === 'letters' ? 'A, B, C … (skipping I, O, Q, S, X, Z)' : '0, 1, 2 …'}. Your roles:{' '}
           {roles.map((r) => ROLE_LABELS[r]).join(', ')}.
         </p>
-        {seesAudit ? (
-          <p className="mt-2">
+        <p className="mt-2 flex flex-wrap gap-4">
+          <Link href={`/projects/${project.code}/register`} className="font-semibold text-accent underline">
+            Document register
+          </Link>
+          {seesAudit ? (
             <Link href={`/projects/${project.code}/audit`} className="font-semibold text-accent underline">
               Audit trail
             </Link>
-          </p>
-        ) : null}
+          ) : null}
+        </p>
       </header>
       <section aria-labelledby="sheets-title" className="space-y-4">
         <h2 id="sheets-title" className="text-xl font-bold">
