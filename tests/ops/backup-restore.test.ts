@@ -229,6 +229,15 @@ describe('backup and restore', () => {
     const s3 = new S3Client({ endpoint: restoredStore.endpoint, region: restoredStore.region, credentials: restoredStore.credentials, forcePathStyle: true });
     await s3.send(new PutObjectCommand({ Bucket: restoredStore.bucket, Key: pdf.key, Body: Buffer.from('%PDF-1.7 not the issued file') }));
     s3.destroy();
+    // The replacement must be what the store now serves before the check runs (the local fake
+    // writes the object and its metadata separately; under load a read can briefly see the old one).
+    const replaced = Buffer.from('%PDF-1.7 not the issued file');
+    for (let i = 0; i < 100; i++) {
+      const now = await store.get(pdf.key);
+      if (now && now.equals(replaced)) break;
+      await new Promise((r) => setTimeout(r, 100));
+    }
+    expect((await store.get(pdf.key))?.equals(replaced)).toBe(true);
 
     const report = await verifyInstallation(copy, store);
     expect(report.ok).toBe(false);
