@@ -16,6 +16,7 @@ import { ENGINE_VERSION } from './version';
 import { installSizeGuards, LIMITS } from './limits';
 import { extractUnitLiterals, UNIT_PLACEHOLDER_PREFIX, type UnitLiteral } from './unit-literals';
 import { unitTexOf } from './format';
+import { stripComment } from './references';
 
 type AnyNode = MathNode & {
   type: string;
@@ -59,20 +60,6 @@ interface ParsedStatement {
   staticError: string | null;
   /** `table.column` reads, checked against the input tables before evaluating. */
   columns: Array<{ table: string; column: string }>;
-}
-
-/** Strips a `#` comment that is not inside a string. */
-function stripComment(line: string): string {
-  let quote: string | null = null;
-  for (let i = 0; i < line.length; i++) {
-    const ch = line[i];
-    if (quote) {
-      if (ch === '\\') i++;
-      else if (ch === quote) quote = null;
-    } else if (ch === '"' || ch === "'") quote = ch;
-    else if (ch === '#') return line.slice(0, i);
-  }
-  return line;
 }
 
 function messageOf(error: unknown): string {
