@@ -228,6 +228,13 @@ export interface RevisionsTable {
   withdrawn_reason: string | null;
 }
 
+/** A version's citation of a named result of an issued revision (immutable, like the version). */
+export interface VersionReferencesTable {
+  version_id: Once<string>;
+  revision_id: Once<string>;
+  name: Once<string>;
+}
+
 export interface AuditEventsTable {
   id: Assigned<string>;
   occurred_at: Assigned<Date>;
@@ -257,6 +264,7 @@ export interface Database {
   check_comments: CheckCommentsTable;
   issue_jobs: IssueJobsTable;
   revisions: RevisionsTable;
+  version_references: VersionReferencesTable;
   audit_events: AuditEventsTable;
   sessions: SessionsTable;
   sign_in_attempts: SignInAttemptsTable;

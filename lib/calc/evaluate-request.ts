@@ -8,7 +8,10 @@ export const evaluateRequestSchema = z.object({
   /** Sends the same sheet to the same worker, whose cache makes re-evaluation incremental. */
   sheetKey: z.string().max(100).optional(),
   significantFigures: z.number().int().min(2).max(15).default(6),
-  /** The sheet whose attachments `attachments` names (needed only with attachments). */
+  /**
+   * The sheet being edited: the one whose attachments `attachments` names, and whose project's issued
+   * revisions `fromRevision(…)` cites (without it, a citation evaluates to an error).
+   */
   sheetId: z.string().uuid().optional(),
   /** CSV attachments of that sheet to use as input tables, by name and SHA-256. */
   attachments: z

@@ -7,12 +7,14 @@ import type { Database } from '@/db/schema';
 import type { Actor } from '@/lib/auth/actor';
 import { recordAudit } from '@/lib/audit/record';
 import { getEvaluator } from '@/lib/calc/sandbox/evaluator';
-import type { InputTable, SheetResult } from '@/lib/calc/types';
+import { findReferences } from '@/lib/calc/references';
+import type { InputTable, ResolvedReference, SheetResult } from '@/lib/calc/types';
 import { resolveAttachments } from '@/lib/attachments/attachments';
 import { sheetStatuses } from '@/lib/checks/status';
 import { AppError } from '@/lib/errors/app-error';
 import { emptyRecord, versionContentSchema, type VersionContent } from './content';
 import { contentHash } from './content-hash';
+import { resolveCitations } from './references';
 import { formatSheetNumber } from './sheet-number';
 
 export const createSheetSchema = z.object({
@@ -58,8 +60,8 @@ export async function listSheets(db: Kysely<Database>, projectId: string, projec
 }
 
 /** Evaluates content with the server's sandboxed engine, for storing with a version. */
-async function evaluateContent(content: VersionContent, sheetKey: string, tables: InputTable[] = []): Promise<SheetResult> {
-  return getEvaluator().evaluate(content.cells, { significantFigures: content.significantFigures, tables }, sheetKey);
+async function evaluateContent(content: VersionContent, sheetKey: string, tables: InputTable[] = [], references: ResolvedReference[] = []): Promise<SheetResult> {
+  return getEvaluator().evaluate(content.cells, { significantFigures: content.significantFigures, tables, references }, sheetKey);
 }
 
 export async function createSheet(db: Kysely<Database>, actor: Actor, project: { id: string; code: string }, input: z.infer<typeof createSheetSchema>) {
@@ -140,7 +142,9 @@ export async function getVersion(db: Kysely<Database>, sheetId: string, number?:
 export async function saveVersion(db: Kysely<Database>, actor: Actor, sheet: { id: string; project_id: string }, input: z.infer<typeof saveVersionSchema>) {
   // Every attachment the content cites must be one uploaded to this sheet; CSV tables feed the cells.
   const tables = await resolveAttachments(db, sheet.id, input.content.attachments);
-  const results = await evaluateContent(input.content, sheet.id, tables);
+  // Citations of other sheets' issued revisions: resolved to the values as issued before evaluating.
+  const citations = await resolveCitations(db, sheet.project_id, findReferences(input.content.cells), { excludeSheetId: sheet.id });
+  const results = await evaluateContent(input.content, sheet.id, tables, citations.map((c) => c.reference));
   const hash = contentHash(input.content);
   return db.transaction().execute(async (trx) => {
     await trx.selectFrom('sheets').select('id').where('id', '=', sheet.id).forUpdate().executeTakeFirstOrThrow();
@@ -152,7 +156,7 @@ export async function saveVersion(db: Kysely<Database>, actor: Actor, sheet: { i
       });
     }
     const number = latest.number + 1;
-    await trx
+    const version = await trx
       .insertInto('versions')
       .values({
         sheet_id: sheet.id,
@@ -166,7 +170,11 @@ export async function saveVersion(db: Kysely<Database>, actor: Actor, sheet: { i
         author_id: actor.userId,
         message: input.message,
       })
-      .execute();
+      .returning('id')
+      .executeTakeFirstOrThrow();
+    // The revisions this version depends on, for the superseded-input flags and the impact page.
+    const cited = citations.flatMap((c) => (c.revisionId ? [{ version_id: version.id, revision_id: c.revisionId, name: c.reference.name }] : []));
+    if (cited.length > 0) await trx.insertInto('version_references').values(cited).onConflict((oc) => oc.doNothing()).execute();
     await trx.updateTable('sheets').set({ title: input.content.title, safety_related: input.content.safetyRelated, updated_at: sql`now()` }).where('id', '=', sheet.id).execute();
     await recordAudit(trx, actor, { action: 'version.save', objectType: 'sheet', objectId: sheet.id, projectId: sheet.project_id, newValue: { version: number, parent: input.parentNumber, sha256: hash }, reason: input.message });
     return { number, sha256: hash, ok: results.ok };

@@ -4,8 +4,10 @@ import { getEvaluator } from '@/lib/calc/sandbox/evaluator';
 import { requireActor } from '@/lib/auth/current-actor';
 import { getDb } from '@/db';
 import { resolveAttachments } from '@/lib/attachments/attachments';
-import type { InputTable } from '@/lib/calc/types';
+import { findReferences } from '@/lib/calc/references';
+import type { InputTable, ResolvedReference } from '@/lib/calc/types';
 import { requireSheetAccess } from '@/lib/sheets/access';
+import { resolveReferences, unresolvedReferences } from '@/lib/sheets/references';
 
 export const dynamic = 'force-dynamic';
 
@@ -19,13 +21,16 @@ export async function POST(request: Request): Promise<Response> {
       throw new AppError('bad_request', `${issue.path.join('.') || 'body'}: ${issue.message}`, parsed.error.issues.slice(0, 10));
     }
     const { cells, significantFigures, sheetKey, sheetId, attachments } = parsed.data;
+    if (attachments.length > 0 && !sheetId) throw new AppError('bad_request', 'sheetId: say which sheet the attachments belong to');
+    const cited = findReferences(cells);
+    // The sheet (and the caller's membership of its project) matters only for attachments and citations.
+    const sheet = sheetId && (attachments.length > 0 || cited.length > 0) ? (await requireSheetAccess(sheetId)).sheet : null;
     let tables: InputTable[] = [];
-    if (attachments.length > 0) {
-      if (!sheetId) throw new AppError('bad_request', 'sheetId: say which sheet the attachments belong to');
-      const { sheet } = await requireSheetAccess(sheetId);
-      tables = await resolveAttachments(getDb(), sheet.id, attachments);
-    }
-    const result = await getEvaluator().evaluate(cells, { significantFigures, tables }, sheetKey);
+    if (sheet && attachments.length > 0) tables = await resolveAttachments(getDb(), sheet.id, attachments);
+    // Citations of issued revisions resolve within the sheet's project; without a sheet, to an error.
+    let references: ResolvedReference[] = [];
+    if (cited.length > 0) references = sheet ? await resolveReferences(getDb(), sheet.project_id, cited, { excludeSheetId: sheet.id }) : unresolvedReferences(cited);
+    const result = await getEvaluator().evaluate(cells, { significantFigures, tables, references }, sheetKey);
     return Response.json(result);
   } catch (error) {
     return errorResponse(error);

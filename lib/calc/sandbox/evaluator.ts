@@ -183,8 +183,11 @@ export class SandboxedEvaluator {
    * cache then makes re-evaluation after an edit cost only the edited cells.
    */
   async evaluate(cells: CellInput[], options: EvaluateOptions, affinity?: string): Promise<SheetResult> {
-    // The engine is deterministic: the same cells, options and tables always give the same result.
-    const key = createHash('sha256').update(JSON.stringify([cells, options.significantFigures, options.tables ?? []])).digest('base64');
+    // The engine is deterministic: the same cells and options always give the same result. Cited
+    // revisions belong in the key: the same value reads differently once its revision is superseded.
+    const key = createHash('sha256')
+      .update(JSON.stringify([cells, options.significantFigures, options.tables ?? [], options.references ?? [], options.monteCarlo ?? 'auto']))
+      .digest('base64');
     const hit = this.recent.get(key);
     if (hit) {
       this.recent.delete(key);

@@ -1,0 +1,245 @@
+// Citations between sheets against the real database: a citation resolves to the value as issued,
+// is recorded with the version that makes it, flags the citing sheet (and its issued revision in the
+// register) once the cited revision is superseded, clears when the sheet cites the current revision,
+// and shows on the cited sheet's impact list, directly and through other sheets' revisions.
+import { mkdtempSync } from 'node:fs';
+import { tmpdir } from 'node:os';
+import path from 'node:path';
+import { sql } from 'kysely';
+import { beforeEach, describe, expect, it } from 'vitest';
+import type { Actor } from '../../lib/auth/actor';
+import { findReferences } from '../../lib/calc/references';
+import type { SheetResult, StatementResult } from '../../lib/calc/types';
+import { decide, saveCheckWork, submitForCheck } from '../../lib/checks/workflow';
+import { processIssueJob, requestIssue, withdrawRevision } from '../../lib/issue/issue';
+import { revisionInputFlags, sheetImpact, sheetInputFlags, staleRevisionCounts, supersededInputs } from '../../lib/sheets/impact';
+import { NO_PROJECT_FOR_REFERENCES, resolveReferences, unresolvedReferences } from '../../lib/sheets/references';
+import { createSheet, getVersion, saveVersion } from '../../lib/sheets/sheets';
+import { storageConfig } from '../../lib/storage/config';
+import { createObjectStore } from '../../lib/storage/object-store';
+import { testDb } from '../support/database';
+import { makeProject, makeUser, PASSWORD } from '../support/people';
+
+process.env.WORLDSHEET_KEY_FOLDER ??= path.join(mkdtempSync(path.join(tmpdir(), 'ws-refs-')), 'keys');
+
+interface People {
+  author: Actor;
+  checker: Actor;
+  approver: Actor;
+  controller: Actor;
+}
+type Sheet = { id: string; project_id: string; number: number };
+
+let people: People;
+let projectId: string;
+
+async function newSheet(title: string, project = projectId, code = 'TPT2'): Promise<Sheet> {
+  const created = await createSheet(testDb(), people.author, { id: project, code }, { title, safetyRelated: false, objective: title });
+  return { id: created.id, project_id: project, number: created.number };
+}
+
+async function save(sheet: Sheet, source: string) {
+  const db = testDb();
+  const latest = (await getVersion(db, sheet.id))!;
+  return saveVersion(db, people.author, sheet, { parentNumber: latest.number, message: 'edit', content: { ...latest.content, cells: [{ id: 'c1', kind: 'calc', source }] } });
+}
+
+/** Saves `source`, takes it through check and approval, and issues it: the revision's code and id. */
+async function issue(sheet: Sheet, source: string) {
+  const db = testDb();
+  const saved = await save(sheet, source);
+  const { id } = await submitForCheck(db, people.author, sheet, { versionNumber: saved.number, checkerId: people.checker.userId, password: PASSWORD });
+  await saveCheckWork(db, people.checker, id, { verificationMethod: 'design_review' });
+  await decide(db, people.checker, id, { action: 'sign', password: PASSWORD });
+  await decide(db, people.approver, id, { action: 'approve', password: PASSWORD });
+  const { jobId, revision } = await requestIssue(db, people.controller, sheet, { versionNumber: saved.number, password: PASSWORD });
+  const revisionId = (await processIssueJob(db, createObjectStore(storageConfig()), jobId))!;
+  return { revision, revisionId, versionNumber: saved.number };
+}
+
+function definition(results: SheetResult | null, name: string): StatementResult {
+  const s = results?.cells.flatMap((c) => c.statements).find((x) => x.name === name && x.kind === 'definition');
+  if (!s) throw new Error(`no definition of ${name}`);
+  return s;
+}
+
+const RIGIDITY = (tKin: string) => `T_kin = ${tKin}\nBrho = magneticRigidity(momentumFromKinetic(T_kin, m_p), q_e) to T*m`;
+const cite = (sheet: string, revision: string, name = 'Brho', as = 'Brho_in') => `${as} = fromRevision("${sheet}", "${revision}", "${name}")`;
+
+beforeEach(async () => {
+  const db = testDb();
+  const [author, checker, approver, controller] = await Promise.all(['author', 'checker', 'approver', 'controller'].map((n) => makeUser(db, `${n}@example.test`)));
+  people = { author, checker, approver, controller };
+  projectId = await makeProject(db, 'TPT2', [[author, 'originator'], [checker, 'checker'], [approver, 'approver'], [controller, 'controller']]);
+});
+
+describe('resolving citations', () => {
+  it('pins a citation to the value of the issued revision, with its status, title and version hash', async () => {
+    const db = testDb();
+    const a = await newSheet('Gantry dipole rigidity');
+    const revA = await issue(a, RIGIDITY('250 MeV'));
+    const issued = definition((await getVersion(db, a.id, revA.versionNumber))!.results, 'Brho');
+    const [resolved] = await resolveReferences(db, projectId, findReferences([{ kind: 'calc', source: cite('tpt2-calc-0001', 'a') }]));
+    expect(resolved).toMatchObject({
+      sheet: 'TPT2-CALC-0001',
+      revision: 'A',
+      name: 'Brho',
+      error: null,
+      status: 'current',
+      supersededBy: null,
+      title: 'Gantry dipole rigidity',
+      versionSha256: (await getVersion(db, a.id, revA.versionNumber))!.sha256,
+    });
+    // Exactly the stored number, at full precision, in the stored unit.
+    expect(resolved.value).toEqual({ number: issued.value!.number, unit: issued.value!.unit, uncertainty: null });
+
+    // Once revision B is issued, revision A still resolves to its own value, marked superseded by B.
+    await issue(a, RIGIDITY('230 MeV'));
+    const [again] = await resolveReferences(db, projectId, [{ sheet: 'TPT2-CALC-0001', revision: 'A', name: 'Brho' }]);
+    expect(again).toMatchObject({ status: 'superseded', supersededBy: 'B', error: null, value: { number: issued.value!.number } });
+  });
+
+  it('refuses another project\'s sheet, an unissued or withdrawn revision, a missing name, a value that is not a number, and the sheet itself', async () => {
+    const db = testDb();
+    const a = await newSheet('Gantry dipole rigidity');
+    const revA = await issue(a, `${RIGIDITY('250 MeV')}\nlabel = "dipole"\nbad = 2 m + 3 s`);
+    const otherProject = await makeProject(db, 'OTH', [[people.author, 'originator']]);
+    const other = await newSheet('Elsewhere', otherProject, 'OTH');
+    expect(other.number).toBe(1);
+    const answers = await resolveReferences(
+      db,
+      projectId,
+      [
+        { sheet: 'OTH-CALC-0001', revision: 'A', name: 'x' },
+        { sheet: 'TPT2-CALC-0009', revision: 'A', name: 'x' },
+        { sheet: 'TPT2-CALC-0001', revision: 'B', name: 'Brho' },
+        { sheet: 'TPT2-CALC-0001', revision: 'A', name: 'Bfield' },
+        { sheet: 'TPT2-CALC-0001', revision: 'A', name: 'label' },
+        { sheet: 'TPT2-CALC-0001', revision: 'A', name: 'bad' },
+        { sheet: 'TPT2-CALC-0001', revision: 'A', name: 'Brho' },
+      ],
+      { excludeSheetId: undefined },
+    );
+    const errors = answers.map((r) => r.error);
+    expect(errors[0]).toMatch(/OTH-CALC-0001 is not a sheet of this project/);
+    expect(errors[1]).toMatch(/TPT2-CALC-0009 is not a sheet of this project/);
+    expect(errors[2]).toBe('revision B of TPT2-CALC-0001 is not issued');
+    expect(errors[3]).toBe('revision A of TPT2-CALC-0001 has no result named Bfield');
+    expect(errors[4]).toBe('label in revision A of TPT2-CALC-0001 is not a number');
+    expect(errors[5]).toMatch(/^bad in revision A of TPT2-CALC-0001 has an error: /);
+    expect(errors[6]).toBeNull();
+    for (const r of answers.slice(0, 6)) expect(r.value).toBeNull();
+
+    const [self] = await resolveReferences(db, projectId, [{ sheet: 'TPT2-CALC-0001', revision: 'A', name: 'Brho' }], { excludeSheetId: a.id });
+    expect(self.error).toBe('a sheet cannot cite its own revisions (TPT2-CALC-0001)');
+
+    await withdrawRevision(db, people.controller, revA.revisionId, 'field map of the wrong magnet');
+    const [withdrawn] = await resolveReferences(db, projectId, [{ sheet: 'TPT2-CALC-0001', revision: 'A', name: 'Brho' }]);
+    expect(withdrawn).toMatchObject({ value: null, status: 'withdrawn', error: 'revision A of TPT2-CALC-0001 was withdrawn: field map of the wrong magnet' });
+
+    // Evaluated outside a saved sheet (the scratch pad), a citation cannot resolve.
+    expect(unresolvedReferences([{ sheet: 'TPT2-CALC-0001', revision: 'A', name: 'Brho' }])[0]).toMatchObject({ value: null, error: NO_PROJECT_FOR_REFERENCES });
+  });
+});
+
+describe('recording, superseded inputs and impact', () => {
+  it('records citations with the version, flags superseded inputs until the sheet cites the current revision, and lists the impact', async () => {
+    const db = testDb();
+    const a = await newSheet('Gantry dipole rigidity');
+    const b = await newSheet('Dipole power supply');
+    const c = await newSheet('Interlock set-points');
+    const revAA = await issue(a, RIGIDITY('250 MeV'));
+    const oldBrho = definition((await getVersion(db, a.id, revAA.versionNumber))!.results, 'Brho');
+
+    // B cites A revision A and is issued; C cites B revision A.
+    const revBA = await issue(b, `${cite('TPT2-CALC-0001', 'A')}\nI_max = 400 A`);
+    const recorded = await db
+      .selectFrom('version_references as vr')
+      .innerJoin('versions as v', 'v.id', 'vr.version_id')
+      .select(['v.sheet_id', 'v.number', 'vr.revision_id', 'vr.name'])
+      .execute();
+    expect(recorded).toEqual([{ sheet_id: b.id, number: revBA.versionNumber, revision_id: revAA.revisionId, name: 'Brho' }]);
+    await save(c, `${cite('TPT2-CALC-0002', 'A', 'I_max', 'I_lim')}\n${cite('TPT2-CALC-0001', 'Z')}`);
+    // Only citations that resolved are recorded (revision Z does not exist).
+    expect(await db.selectFrom('version_references').select('name').where('revision_id', '=', revBA.revisionId).execute()).toEqual([{ name: 'I_max' }]);
+    expect(await supersededInputs(db, b.id)).toEqual([]);
+    expect((await revisionInputFlags(db, projectId)).size).toBe(0);
+
+    // The records are as immutable as the versions.
+    await expect(sql`update version_references set name = 'x'`.execute(db)).rejects.toThrow(/immutable/);
+    await expect(sql`delete from version_references`.execute(db)).rejects.toThrow(/immutable/);
+
+    // A is issued at revision B with a changed value: B's latest version now has a superseded input.
+    const revAB = await issue(a, RIGIDITY('230 MeV'));
+    const newBrho = definition((await getVersion(db, a.id, revAB.versionNumber))!.results, 'Brho');
+    expect(newBrho.value!.number).not.toBe(oldBrho.value!.number);
+    const flags = await supersededInputs(db, b.id);
+    expect(flags).toEqual([
+      {
+        sheetId: a.id,
+        sheet: 'TPT2-CALC-0001',
+        sheetNumber: 1,
+        title: 'Gantry dipole rigidity',
+        revision: 'A',
+        status: 'superseded',
+        withdrawnReason: null,
+        versionNumber: revAA.versionNumber,
+        currentRevision: 'B',
+        currentVersionNumber: revAB.versionNumber,
+        names: [
+          {
+            name: 'Brho',
+            cited: { text: oldBrho.value!.text, number: oldBrho.value!.number, unit: oldBrho.value!.unit, error: null },
+            current: { text: newBrho.value!.text, number: newBrho.value!.number, unit: newBrho.value!.unit, error: null },
+            changed: true,
+          },
+        ],
+        compareHref: `/projects/TPT2/sheets/1/compare?base=${revAA.versionNumber}&target=${revAB.versionNumber}`,
+      },
+    ]);
+    // The register flags B's revision A; the sheet list flags B; C cites only B's current revision.
+    const register = await revisionInputFlags(db, projectId);
+    expect([...register.keys()]).toEqual([revBA.revisionId]);
+    expect(register.get(revBA.revisionId)).toEqual([{ sheet: 'TPT2-CALC-0001', sheetNumber: 1, revision: 'A', status: 'superseded', currentRevision: 'B' }]);
+    expect([...(await sheetInputFlags(db, projectId)).keys()]).toEqual([b.id]);
+    expect(await staleRevisionCounts(db, [projectId])).toEqual(new Map([[projectId, 1]]));
+
+    // Impact of A: B directly (through revision A), C through B's revision A.
+    const impact = await sheetImpact(db, a.id);
+    expect(impact.map((r) => [r.revision, r.status])).toEqual([
+      ['B', 'current'],
+      ['A', 'superseded'],
+    ]);
+    expect(impact[0].dependents).toEqual([]);
+    expect(impact[1].dependents.map((d) => [d.depth, d.sheet, d.via.sheet, d.via.revision, d.versions, d.names, d.issuedAs.map((x) => x.revision), d.latestCitesVia, d.latestCitesSuperseded])).toEqual([
+      [1, 'TPT2-CALC-0002', 'TPT2-CALC-0001', 'A', [revBA.versionNumber], ['Brho'], ['A'], true, true],
+      [2, 'TPT2-CALC-0003', 'TPT2-CALC-0002', 'A', [2], ['I_max'], [], true, false],
+    ]);
+
+    // B saves a version citing A's current revision: the flag clears on the sheet; the register row of
+    // B's revision A stays flagged, because that revision's own version cites the superseded one.
+    await save(b, `${cite('TPT2-CALC-0001', 'B')}\nI_max = 400 A`);
+    expect(await supersededInputs(db, b.id)).toEqual([]);
+    expect(await supersededInputs(db, b.id, revBA.versionNumber)).toHaveLength(1);
+    expect((await sheetInputFlags(db, projectId)).size).toBe(0);
+    expect([...(await revisionInputFlags(db, projectId)).keys()]).toEqual([revBA.revisionId]);
+    const after = await sheetImpact(db, a.id);
+    expect(after[0].dependents.map((d) => [d.depth, d.sheet, d.versions, d.latestCitesVia, d.latestCitesSuperseded])).toEqual([[1, 'TPT2-CALC-0002', [revBA.versionNumber + 1], true, false]]);
+    expect(after[1].dependents.map((d) => [d.depth, d.sheet, d.latestCitesVia])).toEqual([
+      [1, 'TPT2-CALC-0002', false],
+      [2, 'TPT2-CALC-0003', true],
+    ]);
+  });
+
+  it('flags a withdrawn input, with no current revision to compare with', async () => {
+    const db = testDb();
+    const a = await newSheet('Gantry dipole rigidity');
+    const b = await newSheet('Dipole power supply');
+    const revAA = await issue(a, RIGIDITY('250 MeV'));
+    await save(b, cite('TPT2-CALC-0001', 'A'));
+    await withdrawRevision(db, people.controller, revAA.revisionId, 'wrong magnet');
+    const [flag] = await supersededInputs(db, b.id);
+    expect(flag).toMatchObject({ revision: 'A', status: 'withdrawn', withdrawnReason: 'wrong magnet', currentRevision: null, compareHref: null });
+    expect(flag.names[0]).toMatchObject({ name: 'Brho', current: null, changed: true });
+  });
+});
