@@ -322,3 +322,76 @@ export const verificationSchema = z.object({
   checks: z.object({ hashInRegister: z.boolean(), signatureValid: z.boolean().nullable(), signedByOrganisation: z.boolean().nullable(), stampedCopy: z.boolean() }),
   sha256: sha256.nullable(),
 });
+
+// Citations between sheets (lib/sheets/impact.ts) and software impact (lib/sheets/software-impact.ts).
+const citedValue = z
+  .object({ text: z.string(), number: z.number().nullable(), unit: z.string().nullable(), error: z.string().nullable() })
+  .meta({ description: 'A cited result as a revision recorded it: display text, full-precision number and unit, or its error.' });
+
+export const supersededInputSchema = z.object({
+  sheetId: uuid,
+  sheet: z.string(),
+  sheetNumber: z.number().int(),
+  title: z.string(),
+  revision: z.string().meta({ description: 'The revision cited, no longer current.' }),
+  status: z.enum(['superseded', 'withdrawn']),
+  withdrawnReason: z.string().nullable(),
+  versionNumber: z.number().int(),
+  currentRevision: z.string().nullable(),
+  currentVersionNumber: z.number().int().nullable(),
+  names: z.array(z.object({ name: z.string(), cited: citedValue.nullable(), current: citedValue.nullable().meta({ description: 'Null: no longer defined, or no current revision.' }), changed: z.boolean() })),
+  compareHref: z.string().nullable().meta({ description: 'The comparison page between the cited and the current revision\'s versions.' }),
+});
+
+const impactDependentSchema = z.object({
+  depth: z.number().int().meta({ description: '1: cites the revision itself; 2: cites a revision that does; …' }),
+  via: z.object({ sheetId: uuid, sheet: z.string(), sheetNumber: z.number().int(), revision: z.string(), status: revisionStatus }),
+  sheetId: uuid,
+  sheet: z.string(),
+  sheetNumber: z.number().int(),
+  title: z.string(),
+  versions: z.array(z.number().int()),
+  names: z.array(z.string()),
+  issuedAs: z.array(z.object({ id: uuid, revision: z.string(), status: revisionStatus, versionNumber: z.number().int() })),
+  latestVersion: z.number().int(),
+  latestCitesVia: z.boolean(),
+  latestCitesSuperseded: z.boolean(),
+});
+
+export const sheetImpactSchema = z.object({
+  sheet: z.object({ id: uuid, code: z.string(), title: z.string() }),
+  supersededInputs: z.array(supersededInputSchema),
+  revisions: z.array(z.object({ id: uuid, revision: z.string(), status: revisionStatus, versionNumber: z.number().int(), issuedAt: timestamp, dependents: z.array(impactDependentSchema) })),
+});
+
+const facetSchema = z.object({ value: z.string(), versions: z.number().int(), revisions: z.number().int() });
+
+export const softwareImpactSchema = z.object({
+  filter: z.object({ engineVersion: z.string().nullable(), constantsEdition: z.string().nullable(), function: z.string().nullable() }),
+  engineVersions: z.array(facetSchema),
+  constantsEditions: z.array(facetSchema),
+  rows: z
+    .array(
+      z.object({
+        projectCode: z.string(),
+        sheetId: uuid,
+        sheet: z.string(),
+        sheetNumber: z.number().int(),
+        title: z.string(),
+        safetyRelated: z.boolean(),
+        versionNumber: z.number().int(),
+        versionSha256: sha256,
+        engineVersion: z.string().nullable(),
+        constantsEdition: z.string().nullable(),
+        savedAt: timestamp,
+        author: z.string(),
+        revision: z.string().nullable(),
+        revisionId: uuid.nullable(),
+        revisionStatus: revisionStatus.nullable(),
+      }),
+    )
+    .nullable()
+    .meta({ description: 'Null until a filter is given.' }),
+  summary: z.object({ versions: z.number().int(), sheets: z.number().int(), revisions: z.number().int(), currentRevisions: z.number().int(), safetyRelatedSheets: z.number().int() }).nullable(),
+  truncated: z.boolean(),
+});

@@ -16,6 +16,7 @@ import { projectInputSchema, roleChangeSchema } from '@/lib/projects/projects';
 import { inviteSchema, userChangeSchema } from '@/lib/projects/users';
 import { compareQuerySchema } from '@/lib/sheets/compare';
 import { exportQuerySchema } from '@/lib/sheets/sheet-files';
+import { softwareImpactQuerySchema } from '@/lib/sheets/software-impact';
 import { createSheetSchema, saveVersionSchema } from '@/lib/sheets/sheets';
 import { downloadQuerySchema, issueRequestSchema, registerQuerySchema, verifyCodeSchema, withdrawSchema } from '@/lib/issue/issue';
 import { checkWorkSchema, commentSchema, decisionSchema, queueQuerySchema, resolveSchema, submitSchema } from '@/lib/checks/workflow';
@@ -435,6 +436,20 @@ export const OPERATIONS: Operation[] = [
   },
   {
     method: 'GET',
+    path: '/api/sheets/{sheetId}/impact',
+    operationId: 'sheetImpact',
+    summary: 'What depends on the sheet\'s revisions, and its own superseded inputs',
+    description:
+      `${member} For each issued revision of the sheet, the sheets whose versions cite it (\`fromRevision\`), then those citing revisions issued from ` +
+      'those versions, and so on, each with its depth and whether its latest version still cites a superseded revision. `supersededInputs` lists ' +
+      'the revisions the sheet\'s latest version cites that are no longer current, with the cited values then and now.',
+    tags: ['sheets'],
+    auth: 'session or API token',
+    params: sheetParam,
+    responses: { 200: json('The impact.', res.sheetImpactSchema), ...errors([401, 404]) },
+  },
+  {
+    method: 'GET',
     path: '/api/sheets/{sheetId}/export',
     operationId: 'exportSheetFile',
     summary: 'Download a version as a sheet file',
@@ -703,6 +718,25 @@ export const OPERATIONS: Operation[] = [
     responses: { 200: json('The answer.', res.verificationSchema), ...errors([400, 413]) },
   },
 
+  {
+    method: 'GET',
+    path: '/api/software-impact',
+    operationId: 'softwareImpact',
+    summary: 'Versions and revisions evaluated with an engine version or constants edition (software problem reporting)',
+    description:
+      'Any signed-in user; only projects the caller is a member of (administrators: all). Lists every version evaluated with `engineVersion` ' +
+      'and/or `constantsEdition`, optionally only those whose calculation cells call `function`, with the revision issued from it; the distinct ' +
+      'engine versions and constants editions come with counts to pick from. Without any filter, `rows` is null. `format=csv` answers a CSV file. ' +
+      'ASME NQA-1 Part II, Subpart 2.7 (software problem reporting).',
+    tags: ['calculation'],
+    auth: 'session or API token',
+    query: softwareImpactQuerySchema,
+    responses: {
+      200: { description: 'The matching versions, with counts.', content: { 'application/json': res.softwareImpactSchema, 'text/csv': 'binary' } },
+      ...errors([400, 401]),
+    },
+  },
+
   // calculation
   {
     method: 'POST',
@@ -712,7 +746,8 @@ export const OPERATIONS: Operation[] = [
     description:
       'Any signed-in user. Cells are evaluated in order in a sandboxed worker with a time and a memory limit. `sheetKey` sends a sheet to the same ' +
       'worker each time, so its cache makes re-evaluation incremental. `attachments` (with `sheetId`) names CSV attachments of that sheet to use ' +
-      'as input tables; the caller must be a member of its project. At most 2 MiB.',
+      'as input tables; `fromRevision(…)` citations resolve to issued revisions of that sheet\'s project (without `sheetId`, to an error); ' +
+      'the caller must be a member of its project. At most 2 MiB.',
     tags: ['calculation'],
     auth: 'session or API token',
     body: { schema: evaluateRequestSchema },

@@ -17,6 +17,7 @@ import * as users from '../../lib/projects/users';
 import * as compare from '../../lib/sheets/compare';
 import * as sheetFiles from '../../lib/sheets/sheet-files';
 import * as sheets from '../../lib/sheets/sheets';
+import * as softwareImpact from '../../lib/sheets/software-impact';
 import * as checksWorkflow from '../../lib/checks/workflow';
 import * as issuing from '../../lib/issue/issue';
 
@@ -201,6 +202,7 @@ describe('generated from the handlers\' zod schemas', () => {
       'lib/sheets/compare.ts': compare,
       'lib/sheets/sheet-files.ts': sheetFiles,
       'lib/sheets/sheets.ts': sheets,
+      'lib/sheets/software-impact.ts': softwareImpact,
       'lib/checks/workflow.ts': checksWorkflow,
       'lib/issue/issue.ts': issuing,
     };

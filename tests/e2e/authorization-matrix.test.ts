@@ -108,6 +108,8 @@ const MATRIX: Record<string, Entry> = {
     expect: originatorOnly(201),
   },
   'GET /api/sheets/[sheetId]/compare': { request: (w) => ({ path: `/api/sheets/${w.sheetId}/compare?target=1` }), expect: memberOnly(200) },
+  'GET /api/sheets/[sheetId]/impact': { request: (w) => ({ path: `/api/sheets/${w.sheetId}/impact` }), expect: memberOnly(200) },
+  'GET /api/software-impact': { request: () => ({ path: '/api/software-impact?function=lorentzFactor&format=csv' }), expect: signedIn(200) },
   'GET /api/sheets/[sheetId]/versions/[number]': { request: (w) => ({ path: `/api/sheets/${w.sheetId}/versions/1` }), expect: memberOnly(200) },
   'GET /api/sheets/[sheetId]/attachments': { request: (w) => ({ path: `/api/sheets/${w.sheetId}/attachments` }), expect: memberOnly(200) },
   'POST /api/sheets/[sheetId]/attachments': {

@@ -28,14 +28,14 @@ interface People {
   approver: Actor;
   controller: Actor;
 }
-type Sheet = { id: string; project_id: string; number: number };
+type Sheet = { id: string; project_id: string; number: number; title: string };
 
 let people: People;
 let projectId: string;
 
 async function newSheet(title: string, project = projectId, code = 'TPT2'): Promise<Sheet> {
   const created = await createSheet(testDb(), people.author, { id: project, code }, { title, safetyRelated: false, objective: title });
-  return { id: created.id, project_id: project, number: created.number };
+  return { id: created.id, project_id: project, number: created.number, title };
 }
 
 async function save(sheet: Sheet, source: string) {
