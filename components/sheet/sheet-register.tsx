@@ -15,6 +15,8 @@ export interface RegisterRow {
   latestVersion: number | null;
   originator: string;
   updatedAt: string;
+  /** Revisions the latest version cites that are no longer current: "TPT2-CALC-0001 rev A (now B)". */
+  supersededInputs?: string[];
 }
 
 type Key = 'code' | 'title' | 'status' | 'currentRevision' | 'latestVersion' | 'originator' | 'updatedAt';
@@ -34,7 +36,9 @@ export function SheetRegister({ rows, projectCode }: { rows: RegisterRow[]; proj
   const [filter, setFilter] = useState('');
   const shown = useMemo(() => {
     const f = filter.trim().toLowerCase();
-    const list = f ? rows.filter((r) => `${r.code} ${r.title} ${r.originator} ${SHEET_STATUS_LABELS[r.status as SheetStatus] ?? r.status}`.toLowerCase().includes(f)) : rows;
+    const list = f
+      ? rows.filter((r) => `${r.code} ${r.title} ${r.originator} ${SHEET_STATUS_LABELS[r.status as SheetStatus] ?? r.status}${r.supersededInputs?.length ? ' superseded input' : ''}`.toLowerCase().includes(f))
+      : rows;
     return [...list].sort((a, b) => {
       const x = a[sort.key] ?? '';
       const y = b[sort.key] ?? '';
@@ -75,7 +79,17 @@ export function SheetRegister({ rows, projectCode }: { rows: RegisterRow[]; proj
                 {r.title}
                 {r.safetyRelated ? <span className="ml-2 rounded bg-caution-soft px-1.5 py-0.5 text-xs font-bold text-caution">safety-related</span> : null}
               </td>
-              <td className="py-2 pr-3">{SHEET_STATUS_LABELS[r.status as SheetStatus] ?? r.status}</td>
+              <td className="py-2 pr-3">
+                {SHEET_STATUS_LABELS[r.status as SheetStatus] ?? r.status}
+                {r.supersededInputs?.length ? (
+                  <Link
+                    href={`/projects/${projectCode}/sheets/${r.number}#superseded-inputs`}
+                    className="mt-1 block w-fit rounded bg-caution-soft px-1.5 py-0.5 text-xs font-bold text-caution underline"
+                  >
+                    Superseded input<span className="sr-only"> of {r.code}</span>: {r.supersededInputs.join('; ')}
+                  </Link>
+                ) : null}
+              </td>
               <td className="py-2 pr-3">{r.currentRevision ?? '—'}</td>
               <td className="py-2 pr-3 font-mono">{r.latestVersion ?? '—'}</td>
               <td className="py-2 pr-3">{r.originator}</td>

@@ -25,6 +25,7 @@ export function AppHeader({ userName, isAdmin = false }: { userName: string | nu
               {item.label}
             </NavLink>
           ))}
+          {userName ? <NavLink href="/software-impact">Software impact</NavLink> : null}
           {isAdmin ? <NavLink href="/admin">Administration</NavLink> : null}
         </nav>
         <div className="ml-auto flex items-center gap-2 text-sm text-ink-muted">

@@ -6,6 +6,7 @@ import { CreateSheetForm } from '@/components/sheet/create-sheet-form';
 import { ImportSheetForm } from '@/components/sheet/import-sheet-form';
 import { SheetRegister } from '@/components/sheet/sheet-register';
 import { listMembers, ROLE_LABELS } from '@/lib/projects/projects';
+import { sheetInputFlags } from '@/lib/sheets/impact';
 import { listSheets } from '@/lib/sheets/sheets';
 
 export const metadata: Metadata = { title: 'Project' };
@@ -14,7 +15,7 @@ export const dynamic = 'force-dynamic';
 export default async function ProjectPage({ params }: { params: Promise<{ projectCode: string }> }) {
   const { projectCode } = await params;
   const { project, roles } = await pageProject(projectCode, `/projects/${projectCode}`);
-  const [members, sheets] = await Promise.all([listMembers(getDb(), project.id), listSheets(getDb(), project.id, project.code)]);
+  const [members, sheets, stale] = await Promise.all([listMembers(getDb(), project.id), listSheets(getDb(), project.id, project.code), sheetInputFlags(getDb(), project.id)]);
   const seesAudit = roles.some((r) => r !== 'viewer');
   return (
     <div className="space-y-8">
@@ -40,7 +41,14 @@ export default async function ProjectPage({ params }: { params: Promise<{ projec
         <h2 id="sheets-title" className="text-xl font-bold">
           Calculation sheets
         </h2>
-        <SheetRegister rows={sheets.map((r) => ({ ...r, updatedAt: r.updatedAt.toISOString() }))} projectCode={project.code} />
+        <SheetRegister
+          rows={sheets.map((r) => ({
+            ...r,
+            updatedAt: r.updatedAt.toISOString(),
+            supersededInputs: (stale.get(r.id) ?? []).map((c) => `${c.sheet} rev ${c.revision} (${c.currentRevision ? `now ${c.currentRevision}` : c.status})`),
+          }))}
+          projectCode={project.code}
+        />
         {roles.includes('originator') ? (
           <details className="max-w-xl rounded border border-rule bg-surface p-4">
             <summary className="cursor-pointer font-semibold">New sheet</summary>

@@ -4,6 +4,7 @@ import { getDb } from '@/db';
 import { WithdrawForm } from '@/components/issue/withdraw-form';
 import { pageProject } from '@/lib/auth/page-guard';
 import { listRevisions, registerQuerySchema } from '@/lib/issue/issue';
+import { revisionInputFlags } from '@/lib/sheets/impact';
 
 export const metadata: Metadata = { title: 'Document register' };
 export const dynamic = 'force-dynamic';
@@ -19,7 +20,7 @@ export default async function ProjectRegisterPage({ params, searchParams }: { pa
   const { project, roles } = await pageProject(projectCode, `/projects/${projectCode}/register`);
   const parsed = registerQuerySchema.safeParse(await searchParams);
   const filter = parsed.success ? parsed.data : registerQuerySchema.parse({});
-  const rows = await listRevisions(getDb(), { projectId: project.id, status: filter.status, q: filter.q });
+  const [rows, stale] = await Promise.all([listRevisions(getDb(), { projectId: project.id, status: filter.status, q: filter.q }), revisionInputFlags(getDb(), project.id)]);
   const controller = roles.includes('controller');
   const csv = new URLSearchParams({ status: filter.status, ...(filter.q ? { q: filter.q } : {}), format: 'csv' });
   return (
@@ -29,7 +30,8 @@ export default async function ProjectRegisterPage({ params, searchParams }: { pa
         <h1 className="text-2xl font-bold">Document register</h1>
         <p className="mt-1 max-w-prose text-ink-muted">
           Every issued revision of {project.name}, with its status. Only the current revision of a sheet is for use; a superseded or withdrawn one
-          downloads as a copy stamped with its status.
+          downloads as a copy stamped with its status. “Superseded input” marks a revision whose version cites a revision of another sheet that
+          has since been superseded or withdrawn.
         </p>
       </header>
       <form method="get" className="flex flex-wrap items-end gap-3 rounded border border-rule bg-surface p-3 text-sm">
@@ -83,6 +85,15 @@ export default async function ProjectRegisterPage({ params, searchParams }: { pa
                     <span className={`rounded px-1.5 py-0.5 text-xs font-bold ${STATUS_STYLE[r.status]}`}>{r.status}</span>
                     {r.supersededBy ? <div className="text-xs text-ink-muted">by revision {r.supersededBy}</div> : null}
                     {r.withdrawnReason ? <div className="text-xs text-ink-muted">{r.withdrawnReason}</div> : null}
+                    {stale.has(r.id) ? (
+                      <div className="mt-1 w-fit rounded bg-caution-soft px-1.5 py-0.5 text-xs font-bold text-caution">
+                        Superseded input:{' '}
+                        {stale
+                          .get(r.id)!
+                          .map((c) => `${c.sheet} rev ${c.revision} (${c.currentRevision ? `now ${c.currentRevision}` : c.status})`)
+                          .join('; ')}
+                      </div>
+                    ) : null}
                   </td>
                   <td className="px-3 py-2">
                     {r.versionNumber}

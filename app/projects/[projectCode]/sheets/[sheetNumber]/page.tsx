@@ -6,6 +6,7 @@ import { StatusBadge } from '@/components/checks/status-badge';
 import { SubmitForCheckForm } from '@/components/checks/submit-for-check-form';
 import { UtcTime } from '@/components/data/utc-time';
 import { MarkdownView } from '@/components/sheet/markdown-view';
+import { SupersededInputs } from '@/components/sheet/superseded-inputs';
 import { VersionView } from '@/components/sheet/version-view';
 import { CautionNotice, SafetyRelatedNotice } from '@/components/shell/caution-notice';
 import { getDb } from '@/db';
@@ -13,6 +14,7 @@ import { pageProject } from '@/lib/auth/page-guard';
 import { eligibleCheckers, MEANING_LABELS, SHEET_STATUS_LABELS, sheetWorkflow, type SheetWorkflow } from '@/lib/checks/workflow';
 import { IssuePanel } from '@/components/issue/issue-panel';
 import { issueCandidates, listRevisions } from '@/lib/issue/issue';
+import { supersededInputs } from '@/lib/sheets/impact';
 import { formatSheetNumber } from '@/lib/sheets/sheet-number';
 import { getSheetByNumber, getVersion, listVersions } from '@/lib/sheets/sheets';
 
@@ -56,12 +58,14 @@ export default async function SheetPage({ params, searchParams }: { params: Prom
   const sheet = Number.isInteger(number) && number > 0 ? await getSheetByNumber(getDb(), project.id, number) : undefined;
   if (!sheet) notFound();
   const wanted = versionParam ? Number(versionParam) : undefined;
-  const [version, versions, workflow, revisions, candidates] = await Promise.all([
+  const [version, versions, workflow, revisions, candidates, staleInputs] = await Promise.all([
     getVersion(getDb(), sheet.id, wanted),
     listVersions(getDb(), sheet.id),
     sheetWorkflow(getDb(), sheet.id),
     listRevisions(getDb(), { sheetId: sheet.id }),
     issueCandidates(getDb(), sheet.id),
+    // The latest version's citations decide the flag, whichever version is shown.
+    supersededInputs(getDb(), sheet.id),
   ]);
   const current = revisions.find((r) => r.status === 'current');
   if (!version) notFound();
@@ -104,6 +108,10 @@ export default async function SheetPage({ params, searchParams }: { params: Prom
             <a href={`/api/sheets/${sheet.id}/export?version=${version.number}`} download className="font-semibold text-accent underline">
               Download version {version.number} as a sheet file
             </a>
+            {' · '}
+            <Link href={`/projects/${project.code}/sheets/${sheet.number}/impact`} className="font-semibold text-accent underline">
+              Impact: what depends on this sheet
+            </Link>
           </p>
           {roles.includes('originator') ? (
             <p className="mt-3">
@@ -130,6 +138,7 @@ export default async function SheetPage({ params, searchParams }: { params: Prom
             ) : null}
           </p>
         </section>
+        {latest !== undefined ? <SupersededInputs inputs={staleInputs} projectCode={project.code} latestVersion={latest} /> : null}
         <section aria-labelledby="revisions-title" className="space-y-2">
           <h2 id="revisions-title" className="text-lg font-bold">
             Issued revisions

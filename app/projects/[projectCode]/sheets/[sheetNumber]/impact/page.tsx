@@ -1,0 +1,144 @@
+import type { Metadata } from 'next';
+import Link from 'next/link';
+import { notFound } from 'next/navigation';
+import { UtcTime } from '@/components/data/utc-time';
+import { SupersededInputs } from '@/components/sheet/superseded-inputs';
+import { getDb } from '@/db';
+import { pageProject } from '@/lib/auth/page-guard';
+import { sheetImpact, supersededInputs, type ImpactDependent } from '@/lib/sheets/impact';
+import { formatSheetNumber } from '@/lib/sheets/sheet-number';
+import { getSheetByNumber, listVersions } from '@/lib/sheets/sheets';
+
+export const metadata: Metadata = { title: 'Impact' };
+export const dynamic = 'force-dynamic';
+
+const STATUS_STYLE: Record<string, string> = {
+  current: 'bg-pass-soft text-pass',
+  superseded: 'bg-caution-soft text-caution',
+  withdrawn: 'bg-fail-soft text-fail',
+};
+
+function LatestState({ d }: { d: ImpactDependent }) {
+  return (
+    <>
+      Version {d.latestVersion} {d.latestCitesVia ? `still cites revision ${d.via.revision}` : `no longer cites revision ${d.via.revision}`}
+      {d.latestCitesSuperseded ? (
+        <span className="mt-1 block w-fit rounded bg-caution-soft px-1.5 py-0.5 text-xs font-bold text-caution">cites a superseded or withdrawn revision</span>
+      ) : null}
+    </>
+  );
+}
+
+export default async function ImpactPage({ params }: { params: Promise<{ projectCode: string; sheetNumber: string }> }) {
+  const { projectCode, sheetNumber } = await params;
+  const { project } = await pageProject(projectCode, `/projects/${projectCode}/sheets/${sheetNumber}/impact`);
+  const number = Number(sheetNumber);
+  const sheet = Number.isInteger(number) && number > 0 ? await getSheetByNumber(getDb(), project.id, number) : undefined;
+  if (!sheet) notFound();
+  const [revisions, inputs, versions] = await Promise.all([sheetImpact(getDb(), sheet.id), supersededInputs(getDb(), sheet.id), listVersions(getDb(), sheet.id)]);
+  const code = formatSheetNumber(project.code, sheet.number);
+  const sheetHref = (n: number) => `/projects/${project.code}/sheets/${n}`;
+  return (
+    <div className="space-y-6">
+      <header>
+        <p className="font-mono text-sm text-ink-muted">
+          <Link href={`/projects/${project.code}`} className="underline">
+            {project.code}
+          </Link>{' '}
+          /{' '}
+          <Link href={sheetHref(sheet.number)} className="underline">
+            {code}
+          </Link>{' '}
+          / impact
+        </p>
+        <h1 className="text-2xl font-bold">Impact of {code}</h1>
+        <p className="mt-1 text-ink-muted">{sheet.title}</p>
+        <p className="mt-2 max-w-prose text-sm">
+          For each issued revision of this sheet, the sheets whose versions cite it with <code className="font-mono">fromRevision</code> (depth 1), then
+          the sheets citing revisions issued from those versions (depth 2), and so on. When a revision is superseded or withdrawn, each of these may
+          need to be checked again.
+        </p>
+      </header>
+      {versions[0] ? <SupersededInputs inputs={inputs} projectCode={project.code} latestVersion={versions[0].number} /> : null}
+      {revisions.length === 0 ? <p className="text-ink-muted">{code} has no issued revision, so no sheet can cite it.</p> : null}
+      {revisions.map((r) => (
+        <section key={r.id} aria-labelledby={`rev-${r.id}`} className="space-y-2">
+          <h2 id={`rev-${r.id}`} className="flex flex-wrap items-baseline gap-2 text-lg font-bold">
+            Revision {r.revision}
+            <span className={`rounded px-1.5 py-0.5 text-xs font-bold ${STATUS_STYLE[r.status]}`}>{r.status}</span>
+            <span className="text-sm font-normal text-ink-muted">
+              version {r.versionNumber}, issued <UtcTime iso={r.issuedAt} />
+            </span>
+          </h2>
+          {r.dependents.length === 0 ? (
+            <p className="text-sm text-ink-muted">No sheet cites revision {r.revision}.</p>
+          ) : (
+            <div className="overflow-x-auto rounded border border-rule bg-surface">
+              <table className="w-full text-left text-sm">
+                <caption className="sr-only">
+                  Sheets that depend on {code} revision {r.revision}
+                </caption>
+                <thead>
+                  <tr className="border-b border-rule-strong">
+                    <th scope="col" className="px-3 py-2">Depth</th>
+                    <th scope="col" className="px-3 py-2">Sheet</th>
+                    <th scope="col" className="px-3 py-2">Cites</th>
+                    <th scope="col" className="px-3 py-2">Versions citing it</th>
+                    <th scope="col" className="px-3 py-2">Issued as</th>
+                    <th scope="col" className="px-3 py-2">Latest version</th>
+                  </tr>
+                </thead>
+                <tbody>
+                  {r.dependents.map((d) => (
+                    <tr key={`${d.via.sheetId}:${d.via.revision}:${d.sheetId}`} className="border-b border-rule align-top">
+                      <td className="px-3 py-2 whitespace-nowrap">{d.depth === 1 ? '1 (direct)' : `${d.depth} (indirect)`}</td>
+                      <th scope="row" className="px-3 py-2 text-left font-normal">
+                        <Link href={sheetHref(d.sheetNumber)} className="font-mono font-semibold text-accent underline">
+                          {d.sheet}
+                        </Link>
+                        <div>{d.title}</div>
+                      </th>
+                      <td className="px-3 py-2">
+                        <span className="font-mono whitespace-nowrap">
+                          {d.via.sheet} rev {d.via.revision}
+                        </span>
+                        <div className="font-mono text-xs text-ink-muted">{d.names.join(', ')}</div>
+                      </td>
+                      <td className="px-3 py-2">
+                        {d.versions.map((v, i) => (
+                          <span key={v}>
+                            {i > 0 ? ', ' : ''}
+                            <Link href={`${sheetHref(d.sheetNumber)}?version=${v}`} className="text-accent underline">
+                              {v}
+                            </Link>
+                          </span>
+                        ))}
+                      </td>
+                      <td className="px-3 py-2">
+                        {d.issuedAs.length === 0
+                          ? '—'
+                          : d.issuedAs.map((x) => (
+                              <div key={x.id} className="whitespace-nowrap">
+                                rev {x.revision} <span className={`rounded px-1 text-xs font-bold ${STATUS_STYLE[x.status]}`}>{x.status}</span>
+                              </div>
+                            ))}
+                      </td>
+                      <td className="px-3 py-2">
+                        <LatestState d={d} />
+                      </td>
+                    </tr>
+                  ))}
+                </tbody>
+              </table>
+            </div>
+          )}
+        </section>
+      ))}
+      <p className="text-sm">
+        <Link href={sheetHref(sheet.number)} className="text-accent underline">
+          Back to {code}
+        </Link>
+      </p>
+    </div>
+  );
+}
