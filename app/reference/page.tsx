@@ -3,6 +3,7 @@ import { FunctionReference } from '@/components/calc/function-reference';
 import { TexMath } from '@/components/calc/tex-math';
 import { CONSTANTS, CONSTANTS_EDITION } from '@/lib/calc/constants';
 import { LIBRARY } from '@/lib/calc/functions';
+import { STUDY_FUNCTION_DOCS } from '@/lib/calc/study-functions';
 import { ENGINE_VERSION } from '@/lib/calc/version';
 
 export const metadata: Metadata = { title: 'Function reference' };
@@ -90,6 +91,29 @@ export default function ReferencePage() {
             }))}
           />
         </div>
+      </section>
+
+      <section aria-labelledby="studies">
+        <h2 id="studies" className="text-xl font-bold">
+          Studies: sweeps, plots, uncertainty and citations
+        </h2>
+        <p className="mt-2 max-w-prose text-sm text-ink-muted">
+          A sweep or a plot evaluates the sheet&apos;s own statements again for each value of one input, so each row is
+          what the sheet gives for that value. Uncertainties are propagated to first order with sensitivity coefficients
+          (JCGM 100:2008); where the model is markedly non-linear, a Monte Carlo propagation (JCGM 101:2008, 10 000 draws,
+          fixed seed) runs as well and a warning shows when the two disagree.
+        </p>
+        <dl className="mt-4 space-y-4">
+          {STUDY_FUNCTION_DOCS.map((d) => (
+            <div key={d.name} className="rounded border border-rule p-3">
+              <dt className="font-mono font-bold">{d.signature}</dt>
+              <dd className="mt-1 text-sm">{d.summary}</dd>
+              <dd className="mt-1 text-sm">
+                Example: <code className="font-mono">{d.example}</code>
+              </dd>
+            </div>
+          ))}
+        </dl>
       </section>
     </div>
   );

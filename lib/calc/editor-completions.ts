@@ -4,6 +4,7 @@
 import type { Completion, CompletionContext, CompletionResult, CompletionSource } from '@codemirror/autocomplete';
 import { CONSTANTS } from './constants';
 import { LIBRARY, type CalcFunction } from './functions';
+import { STUDY_FUNCTION_DOCS } from './study-functions';
 
 export interface NameAbove {
   name: string;
@@ -54,6 +55,11 @@ export function calcCompletionOptions(namesAbove: readonly NameAbove[] = []): Co
       info: `${functionSignature(f)} — ${firstSentence(f.doc.summary)}`,
       apply: `${f.name}(`,
     });
+  }
+  for (const d of STUDY_FUNCTION_DOCS) {
+    if (seen.has(d.name) || !/^[A-Za-z]/.test(d.name)) continue;
+    seen.add(d.name);
+    options.push({ label: d.name, type: 'function', detail: d.signature.slice(d.name.length), info: `${d.signature} — ${firstSentence(d.summary)}`, apply: `${d.name}(` });
   }
   return options;
 }

@@ -243,3 +243,20 @@ function listDisplay(math: MathJsInstance, value: unknown[] | { toArray(): unkno
   const tex = `\\left[${shown.map((d) => (d === null ? '\\ldots' : d.tex)).join(',\\ ')}\\right]${suffix ? `\\ \\text{${suffix.trim()}}` : ''}`;
   return { kind: 'matrix', text, tex, number: null, unit: null, raw: text };
 }
+
+function fixedParts(x: number, decimals: number): { negative: boolean; integer: string; fraction: string } {
+  const text = Math.abs(x).toFixed(Math.min(20, Math.max(0, decimals)));
+  const [integer, fraction = ''] = text.split('.');
+  return { negative: x < 0 && Number(text) !== 0, integer, fraction };
+}
+
+/** A number with a fixed count of decimals, trailing zeros kept (they carry meaning beside an uncertainty). */
+export function formatFixedText(x: number, decimals: number): string {
+  const p = fixedParts(x, decimals);
+  return `${p.negative ? MINUS : ''}${group(p.integer, false, THIN)}${p.fraction ? `.${group(p.fraction, true, THIN)}` : ''}`;
+}
+
+export function formatFixedTex(x: number, decimals: number): string {
+  const p = fixedParts(x, decimals);
+  return `${p.negative ? '-' : ''}${group(p.integer, false, '\\,')}${p.fraction ? `.${group(p.fraction, true, '\\,')}` : ''}`;
+}

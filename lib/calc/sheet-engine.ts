@@ -11,12 +11,16 @@ import { bindLibrary } from './library-adapter';
 import { createEngineMath, REFUSED_NAMES, type EngineMath } from './math-instance';
 import { checkDefinitionName } from './names';
 import { formulaTex, substitutedTex, substitutionTex, type TexContext } from './tex';
-import type { CellInput, CellResult, CriterionResult, DisplayValue, EvaluateOptions, InputTable, SheetResult, StatementResult } from './types';
+import type { CellInput, CellResult, CriterionResult, DisplayValue, EvaluateOptions, InputTable, ResolvedReference, SheetReference, SheetResult, StatementResult } from './types';
+import { REFERENCE_FUNCTION, referenceKey } from './references';
+import { computeStudy, inputUncertainty, propagateUncertainty, Reevaluator, siOf, type ChainStatement } from './studies';
+import { STUDY_STATEMENTS, type StudyStatement } from './study-functions';
 import { ENGINE_VERSION } from './version';
 import { installSizeGuards, LIMITS } from './limits';
 import { extractUnitLiterals, UNIT_PLACEHOLDER_PREFIX, type UnitLiteral } from './unit-literals';
 import { unitTexOf } from './format';
 import { stripComment } from './references';
+import { studyBindings } from './study-functions';
 
 type AnyNode = MathNode & {
   type: string;
@@ -60,6 +64,27 @@ interface ParsedStatement {
   staticError: string | null;
   /** `table.column` reads, checked against the input tables before evaluating. */
   columns: Array<{ table: string; column: string }>;
+  /** A definition `x = value ± u` (or `uncertain(value, u)`): an input with a standard uncertainty. */
+  uncertain: boolean;
+  /** A definition `x = fromRevision("SHEET", "REV", "name")`: a cited result of another sheet. */
+  reference: SheetReference | null;
+  /** `sweep(…)`, `plot(…)` or `spacetime(…)`: the input swept and the results named. */
+  study: { kind: StudyStatement; input: string; targets: string[] } | null;
+  /** The compiled right-hand side (definitions) or statement (functions), made on first use. */
+  compiled?: { evaluate(scope: Map<string, unknown>): unknown };
+}
+
+/**
+ * `x = value ± u` written as `x = uncertain(value, u)` for the parser; a `±` anywhere else is refused.
+ * Returns the line unchanged when it holds no `±`.
+ */
+function rewritePlusMinus(line: string): { text: string; error: string | null } {
+  // `+/-` is read as `±` for keyboards without it (it means nothing else in a formula).
+  const text = line.includes('+/-') ? line.replace(/\+\/-/g, '±') : line;
+  if (!text.includes('±')) return { text, error: null };
+  const m = /^\s*([A-Za-z][A-Za-z0-9_]*)\s*=(?!=)([^±]+)±([^±]+)$/.exec(text);
+  if (!m || /["']/.test(text)) return { text, error: '± gives an input its standard uncertainty: write name = value ± u, one ± per line' };
+  return { text: `${m[1]} = uncertain(${m[2].trim()}, ${m[3].trim()})`, error: null };
 }
 
 function messageOf(error: unknown): string {
@@ -88,6 +113,8 @@ interface CachedCell {
   failed: Map<string, string>;
   /** TeX of each defined value as substituted into later formulas, made once when cached. */
   substitutions: Array<[string, string]>;
+  /** Standard uncertainties of the inputs the cell defines (`x = value ± u`). */
+  uncertainties: Map<string, unknown>;
 }
 
 export function createSheetEngine(): SheetEngine {
@@ -95,7 +122,7 @@ export function createSheetEngine(): SheetEngine {
   // only needs `unit`, `isUnit` and `matrix`, which do not depend on the later configuration.
   let em: EngineMath;
   const bootstrap = createEngineMath([]);
-  em = createEngineMath(bindLibrary(bootstrap.math, LIBRARY), installSizeGuards);
+  em = createEngineMath([...bindLibrary(bootstrap.math, LIBRARY), ...studyBindings(bootstrap.math)], installSizeGuards);
   const math: MathJsInstance = em.math;
 
   const parseCache = new Map<string, ParsedStatement[]>();
@@ -222,7 +249,7 @@ export function createSheetEngine(): SheetEngine {
     const cached = parseCache.get(source);
     if (cached) return cached;
     if (source.length > LIMITS.maxCellSourceChars) {
-      const out = [{ line: 1, source: source.slice(0, 80), node: null, parseError: `the cell is longer than ${LIMITS.maxCellSourceChars} characters`, kind: 'expression' as const, defines: null, uses: [], unitNamed: [], unitLiterals: [], staticError: null, columns: [] }];
+      const out = [{ line: 1, source: source.slice(0, 80), node: null, parseError: `the cell is longer than ${LIMITS.maxCellSourceChars} characters`, kind: 'expression' as const, defines: null, uses: [], unitNamed: [], unitLiterals: [], staticError: null, columns: [], uncertain: false, reference: null, study: null }];
       return out;
     }
     const statements: ParsedStatement[] = [];
@@ -230,7 +257,7 @@ export function createSheetEngine(): SheetEngine {
     for (const [i, raw] of lines.entries()) {
       const text = stripComment(raw).trim();
       if (!text) continue;
-      const st: ParsedStatement = { line: i + 1, source: raw.trim(), node: null, parseError: null, kind: 'expression', defines: null, uses: [], unitNamed: [], unitLiterals: [], staticError: null, columns: [] };
+      const st: ParsedStatement = { line: i + 1, source: raw.trim(), node: null, parseError: null, kind: 'expression', defines: null, uses: [], unitNamed: [], unitLiterals: [], staticError: null, columns: [], uncertain: false, reference: null, study: null };
       statements.push(st);
       if (statements.length > LIMITS.maxStatementsPerCell) {
         st.parseError = `a cell holds at most ${LIMITS.maxStatementsPerCell} statements`;
@@ -241,7 +268,12 @@ export function createSheetEngine(): SheetEngine {
         continue;
       }
       try {
-        const { text: rewritten, literals } = extractUnitLiterals(text, em.isUnitName);
+        const pm = rewritePlusMinus(text);
+        if (pm.error) {
+          st.parseError = pm.error;
+          continue;
+        }
+        const { text: rewritten, literals } = extractUnitLiterals(pm.text, em.isUnitName);
         st.unitLiterals = literals;
         st.node = em.parse(rewritten) as AnyNode;
       } catch (error) {
@@ -257,6 +289,20 @@ export function createSheetEngine(): SheetEngine {
           st.kind = 'definition';
           st.defines = target.name!;
           analyse(node.value!, st);
+          const value = node.value!;
+          const fnName = value.type === 'FunctionNode' && (value.fn as AnyNode)?.type === 'SymbolNode' ? (value.fn as AnyNode).name : null;
+          if (fnName === 'uncertain') {
+            if ((value.args?.length ?? 0) !== 2) st.staticError ??= 'write an input with its standard uncertainty as name = value ± u';
+            else st.uncertain = true;
+          } else if (fnName === REFERENCE_FUNCTION) {
+            const args = (value.args ?? []).map((a) => (a.type === 'ConstantNode' ? (a as AnyNode & { value?: unknown }).value : undefined));
+            if (args.length !== 3 || !args.every((a) => typeof a === 'string' && (a as string).trim() !== '')) {
+              st.staticError ??= 'cite an issued result with three quoted texts: fromRevision("PROJ-CALC-0003", "B", "name")';
+            } else {
+              const [sheet, revision, name] = (args as unknown as string[]).map((a) => a.trim());
+              st.reference = { sheet: sheet.toUpperCase(), revision: revision.toUpperCase(), name };
+            }
+          }
         }
       } else if (node.type === 'FunctionAssignmentNode') {
         st.kind = 'function';
@@ -265,6 +311,20 @@ export function createSheetEngine(): SheetEngine {
       } else {
         st.kind = isCriterion(node) ? 'criterion' : 'expression';
         analyse(node, st);
+        const fnName = node.type === 'FunctionNode' && (node.fn as AnyNode)?.type === 'SymbolNode' ? (node.fn as AnyNode).name! : null;
+        if (fnName && (STUDY_STATEMENTS as readonly string[]).includes(fnName)) {
+          const kind = fnName as StudyStatement;
+          st.kind = kind === 'sweep' ? 'sweep' : 'plot';
+          const args = node.args ?? [];
+          const names = [args[0], ...args.slice(2)].map((a) => (a?.type === 'SymbolNode' ? a.name! : null));
+          if (args.length < 3 || names.some((n) => n === null)) {
+            st.staticError ??= `write ${fnName}(input, values, result1, result2, …) with the names of an input and of results defined above`;
+          } else if (args.length - 2 > 12) {
+            st.staticError ??= `${fnName} shows at most 12 results; split it`;
+          } else {
+            st.study = { kind, input: names[0]!, targets: names.slice(1) as string[] };
+          }
+        }
       }
       if (st.defines) st.staticError ??= checkDefinitionName(st.defines, em);
     }
@@ -333,7 +393,51 @@ export function createSheetEngine(): SheetEngine {
       for (const st of statements) if (st.defines && !firstDefinition.has(st.defines)) firstDefinition.set(st.defines, { cell: ci, line: st.line });
     });
 
+    // A bare name that is also a unit is a quantity when the sheet defines it anywhere.
+    const usesOf = (st: ParsedStatement) => (st.unitNamed.length ? [...st.uses, ...st.unitNamed.filter((n) => firstDefinition.has(n))] : st.uses);
     const scope = new Map<string, unknown>(em.constants);
+    const monteCarloMode = options.monteCarlo ?? 'auto';
+    const resolved = new Map((options.references ?? []).map((r) => [referenceKey(r), r]));
+    /** Standard uncertainties of the inputs that carry one, by name. */
+    const inputU = new Map<string, unknown>();
+
+    // Every name's definition in sheet order, and what each depends on (directly and through other
+    // names), for re-evaluating what depends on an input: sweeps, plots, uncertainty propagation.
+    const chain: ChainStatement[] = [];
+    const chainIndex = new Map<string, number>();
+    const upstream = new Map<string, Set<string>>();
+    const compiledOf = (st: ParsedStatement) => {
+      if (!st.compiled) {
+        const node = st.node!;
+        st.compiled = st.kind === 'function' ? node.compile() : st.uncertain ? node.value!.args![0].compile() : node.value!.compile();
+      }
+      return st.compiled;
+    };
+    for (const statements of parsed) {
+      for (const st of statements) {
+        if (!st.defines || chainIndex.has(st.defines) || !st.node || st.parseError || st.staticError) continue;
+        const direct = usesOf(st);
+        const up = new Set<string>();
+        for (const u of direct) {
+          up.add(u);
+          for (const x of upstream.get(u) ?? []) up.add(x);
+        }
+        upstream.set(st.defines, up);
+        chainIndex.set(st.defines, chain.length);
+        const name = st.defines;
+        chain.push({
+          defines: name,
+          uses: direct,
+          run: (sc) => {
+            for (const l of st.unitLiterals) if (!scope.has(l.placeholder)) scope.set(l.placeholder, unitLiteral(l.unit));
+            if (st.reference) return; // a cited value depends on nothing in this sheet
+            const value = compiledOf(st).evaluate(sc);
+            if (st.kind !== 'function') sc.set(name, value);
+          },
+        });
+      }
+    }
+    const reevaluator = new Reevaluator(scope, chain, chainIndex);
     const definedAt = new Map<string, { cell: number; line: number }>();
     /** Names whose value is unavailable, with why. */
     const failed = new Map<string, string>();
@@ -371,8 +475,6 @@ export function createSheetEngine(): SheetEngine {
         continue;
       }
       const ownNames = new Set(statements.map((s) => s.defines).filter((n): n is string => !!n));
-      // A bare name that is also a unit is a quantity when the sheet defines it anywhere.
-      const usesOf = (st: ParsedStatement) => (st.unitNamed.length ? [...st.uses, ...st.unitNamed.filter((n) => firstDefinition.has(n))] : st.uses);
       const external = [...new Set(statements.flatMap(usesOf))].filter((n) => !ownNames.has(n) || definedAt.has(n)).sort();
       const skipReason = hooks.skip?.get(cell.id);
       // The key covers everything the cell's results depend on: its text, its position (messages
@@ -388,6 +490,9 @@ export function createSheetEngine(): SheetEngine {
           const at = definedAt.get(n);
           return `own:${n}=${at ? `${at.cell}:${at.line}` : 'new'}`;
         }),
+        // Cited results as resolved now (a withdrawal or a new issue changes what the cell shows).
+        ...statements.filter((st) => st.reference).map((st) => `ref:${JSON.stringify(resolved.get(referenceKey(st.reference!)) ?? null)}`),
+        ...(monteCarloMode === 'always' && statements.some((st) => st.defines) ? ['monteCarlo:always'] : []),
       ];
       const key = createHash('sha256').update(`${sig}\0${ci}\0${cell.source}\0${context.join('\0')}`).digest('base64');
 
@@ -399,6 +504,7 @@ export function createSheetEngine(): SheetEngine {
         }
         for (const [name, tex] of cached.substitutions) texValue.set(name, tex);
         for (const [name, why] of cached.failed) failed.set(name, why);
+        for (const [name, u] of cached.uncertainties) inputU.set(name, u);
         for (const st of statements) if (st.defines && !definedAt.has(st.defines)) definedAt.set(st.defines, { cell: ci, line: st.line });
         for (const name of ownNames) nameKey.set(name, key);
         results.push({ ...cached.result, id: cell.id, index: ci });
@@ -408,6 +514,7 @@ export function createSheetEngine(): SheetEngine {
       hooks.onCellStart?.(ci);
       evaluatedCells++;
       const values = new Map<string, unknown>();
+      const uncertainties = new Map<string, unknown>();
       const cellFailed = new Map<string, string>();
       const out: StatementResult[] = [];
       const texCtx: TexContext = {
@@ -486,6 +593,57 @@ export function createSheetEngine(): SheetEngine {
             const c = evaluateCriterion(node, scope);
             value = c.value;
             result.criterion = c.criterion;
+          } else if (st.study) {
+            const listValue = (node.args![1] as AnyNode).compile().evaluate(scope);
+            const list = math.isMatrix(listValue) ? (listValue as { toArray(): unknown[] }).toArray() : Array.isArray(listValue) ? listValue : null;
+            if (!list || list.some((x) => Array.isArray(x) || math.isMatrix(x))) throw new Error('the second argument is the list of values to sweep, e.g. steps(70 MeV, 250 MeV, 20 MeV)');
+            if (list.length > 2000) throw new Error('a sweep or a plot takes at most 2000 values');
+            const { input, targets } = st.study;
+            if (tables.has(input) || !chainIndex.has(input)) throw new Error(`\`${input}\` must be a value defined above to be swept`);
+            for (const t of targets) {
+              if (!definedAt.has(t) || tables.has(t)) throw new Error(`\`${t}\` is not a result defined above`);
+            }
+            const out = computeStudy(math, reevaluator, scope, {
+              kind: st.study.kind,
+              input,
+              values: list,
+              targets,
+              dependsOnInput: (t) => t === input || (upstream.get(t)?.has(input) ?? false),
+            });
+            result.table = out.table;
+            result.plot = out.plot;
+            value = undefined;
+          } else if (st.kind === 'definition' && st.reference) {
+            const ref = resolved.get(referenceKey(st.reference));
+            result.references = ref ? [ref] : [];
+            if (!ref) throw new Error(`${st.reference.sheet} rev. ${st.reference.revision}, ${st.reference.name}: citations of issued revisions are resolved within the sheet's project; save the sheet in a project to use it`);
+            if (ref.error || !ref.value) throw new Error(ref.error ?? 'the cited result has no value');
+            value = ref.value.unit ? math.unit(ref.value.number, ref.value.unit) : ref.value.number;
+            scope.set(st.defines!, value);
+            texValue.delete(st.defines!);
+            values.set(st.defines!, value);
+            if (ref.value.uncertainty !== null && ref.value.uncertainty > 0) {
+              const u = ref.value.unit ? math.unit(ref.value.uncertainty, ref.value.unit) : ref.value.uncertainty;
+              uncertainties.set(st.defines!, u);
+              inputU.set(st.defines!, u);
+            }
+          } else if (st.kind === 'definition' && st.uncertain) {
+            const [valueNode, uNode] = node.value!.args! as AnyNode[];
+            value = compiledOf(st).evaluate(scope);
+            const u = uNode.compile().evaluate(scope);
+            void valueNode;
+            const v = siOf(math, value);
+            const us = siOf(math, u);
+            if (v === null) throw new Error('the value before ± must be a single number or quantity');
+            if (us === null) throw new Error('the standard uncertainty after ± must be a single number or quantity');
+            const sameDimension = typeof value === 'number' ? typeof u === 'number' : math.isUnit(u) && (u as Unit).equalBase(value as Unit);
+            if (!sameDimension) throw new Error('the standard uncertainty after ± must have the dimension of the value');
+            if (!(us >= 0) || !Number.isFinite(us) || !Number.isFinite(v)) throw new Error('the standard uncertainty must be a finite number ≥ 0');
+            scope.set(st.defines!, value);
+            texValue.delete(st.defines!);
+            values.set(st.defines!, value);
+            uncertainties.set(st.defines!, u);
+            inputU.set(st.defines!, u);
           } else if (st.kind === 'definition') {
             value = node.value!.compile().evaluate(scope);
             if (typeof value === 'function') throw new Error('define functions with the form f(x) = …');
@@ -498,7 +656,30 @@ export function createSheetEngine(): SheetEngine {
           } else {
             value = node.compile().evaluate(scope);
           }
-          if (st.kind !== 'function') {
+          if (st.kind === 'definition' && uncertainties.has(st.defines!)) {
+            result.uncertainty = inputUncertainty(math, value, uncertainties.get(st.defines!), sig);
+          } else if (st.kind === 'definition' && siOf(math, value) !== null) {
+            const inputs = [...(upstream.get(st.defines!) ?? [])].filter((n) => inputU.has(n)).sort((a, b) => chainIndex.get(a)! - chainIndex.get(b)!);
+            if (inputs.length) {
+              try {
+                result.uncertainty = propagateUncertainty(
+                  math,
+                  reevaluator,
+                  st.defines!,
+                  value,
+                  inputs.map((n) => ({ name: n, value: scope.get(n), u: inputU.get(n) })),
+                  sig,
+                  monteCarloMode,
+                );
+              } catch (error) {
+                result.uncertainty = null;
+                throw new Error(`the uncertainty cannot be propagated: ${messageOf(error)}`);
+              }
+            }
+          }
+          if (st.study) {
+            // The table or plot is the result.
+          } else if (st.kind !== 'function') {
             result.value = displayValue(math, value, sig) as DisplayValue;
             // The substituted formulas below reuse this display instead of formatting the value again.
             if (st.kind === 'definition' && result.value.kind !== 'matrix') texValue.set(st.defines!, substitutionTex(result.value.tex));
@@ -531,7 +712,7 @@ export function createSheetEngine(): SheetEngine {
         const substitutions = out
           .filter((st) => st.kind === 'definition' && st.name && st.value && !st.error)
           .map((st) => [st.name!, substitutionTex(st.value!.tex)] as [string, string]);
-        remember(cellCache, key, { result: cellResult, values, failed: cellFailed, substitutions }, LIMITS.cellCacheEntries);
+        remember(cellCache, key, { result: cellResult, values, failed: cellFailed, substitutions, uncertainties }, LIMITS.cellCacheEntries);
       }
     }
 

@@ -81,6 +81,20 @@ function makeHandler(ctx: TexContext, substitute: boolean) {
     if (node.type === 'AssignmentNode' && node.object && (node.object as AnyNode).type === 'SymbolNode') {
       return `${nameTex((node.object as AnyNode).name!)} = ${node.value!.toTex(options).trimStart()}`;
     }
+    if (node.type === 'FunctionNode' && (node.fn as AnyNode | undefined)?.type === 'SymbolNode' && node.args) {
+      const fnName = (node.fn as AnyNode).name;
+      // An input with its standard uncertainty: `250 MeV ± 0.5 MeV`.
+      if (fnName === 'uncertain' && node.args.length === 2) {
+        return `${node.args[0].toTex(options).trimStart()} \\pm ${node.args[1].toTex(options).trimStart()}`;
+      }
+      // A cited result: its source and its name there.
+      const strings = node.args.map((a) => (a as AnyNode & { value?: unknown }).value);
+      if (fnName === 'fromRevision' && strings.length === 3 && strings.every((v) => typeof v === 'string')) {
+        const [sheet, revision, name] = strings as string[];
+        const plain = (t: string) => t.replace(/[^A-Za-z0-9 .,:-]/g, '');
+        return `\\text{${plain(sheet)} rev. ${plain(revision)}: }${/^[A-Za-z][A-Za-z0-9_]*$/.test(name) ? nameTex(name) : `\\text{${plain(name)}}`}`;
+      }
+    }
     // A unit conversion does not change the quantity; its result shows the unit.
     if (node.type === 'OperatorNode' && (node.op === 'to' || node.op === 'in') && node.args) {
       return node.args[0].toTex(options);

@@ -1,0 +1,382 @@
+// What an engineering study asks of a sheet beyond single values: re-evaluating the statements that
+// depend on one input with that input changed. Sweeps and plots do it once per value of the input;
+// uncertainty propagation does it for sensitivity coefficients (JCGM 100:2008, 5.1.3) and for each
+// Monte Carlo draw (JCGM 101:2008). Every re-evaluation runs the sheet's own compiled statements, so
+// a sweep's row equals what the sheet gives when that value is written in.
+import type { MathJsInstance, Unit } from 'mathjs';
+import { displayValue, formatFixedTex, formatFixedText, formatNumberText, quantityParts, unitTex, unitText } from './format';
+import type { BudgetLine, MonteCarloSummary, PlotData, StudyTable, UncertaintyResult } from './types';
+import { nameTex } from './tex';
+import { firstOrder, monteCarlo, roundExpanded, validateAgainstMonteCarlo, type UncertainInput } from './uncertainty';
+
+/** A statement that defines a name, as the engine re-evaluates it in a scope of its choosing. */
+export interface ChainStatement {
+  defines: string;
+  /** Sheet names it reads directly. */
+  uses: readonly string[];
+  /** Evaluates the statement in `scope` and stores what it defines there. */
+  run(scope: Map<string, unknown>): void;
+}
+
+/** A scope that reads through to the sheet's scope and keeps its own writes. */
+class OverlayScope extends Map<string, unknown> {
+  constructor(private readonly base: ReadonlyMap<string, unknown>) {
+    super();
+  }
+  override get(key: string): unknown {
+    return super.has(key) ? super.get(key) : this.base.get(key);
+  }
+  override has(key: string): boolean {
+    return super.has(key) || this.base.has(key);
+  }
+  override keys(): MapIterator<string> {
+    return new Set([...this.base.keys(), ...super.keys()]).values();
+  }
+}
+
+/** Monte Carlo trials per result; fixed, with a fixed seed, so that an evaluation is reproducible. */
+export const MONTE_CARLO_TRIALS = 10_000;
+export const MONTE_CARLO_SEED = 20_081_231;
+
+export class Reevaluator {
+  constructor(
+    private readonly base: ReadonlyMap<string, unknown>,
+    private readonly chain: readonly ChainStatement[],
+    private readonly index: ReadonlyMap<string, number>,
+  ) {}
+
+  /** Position of a name's definition in the sheet, or −1. */
+  position(name: string): number {
+    return this.index.get(name) ?? -1;
+  }
+
+  /**
+   * The values of `targets` with the inputs in `overrides` replaced: every statement between the
+   * first input and the last target that reads a changed name is evaluated again, in sheet order.
+   * Throws the first error met.
+   */
+  run(overrides: ReadonlyMap<string, unknown>, targets: readonly string[]): Map<string, unknown> {
+    const scope = new OverlayScope(this.base);
+    const changed = new Set<string>();
+    let first = Infinity;
+    for (const [name, value] of overrides) {
+      scope.set(name, value);
+      changed.add(name);
+      first = Math.min(first, this.position(name));
+    }
+    const last = Math.max(...targets.map((t) => this.position(t)));
+    for (let i = Math.max(0, first + 1); i <= last; i++) {
+      const st = this.chain[i];
+      if (changed.has(st.defines) || !st.uses.some((u) => changed.has(u))) continue;
+      st.run(scope);
+      changed.add(st.defines);
+    }
+    return new Map(targets.map((t) => [t, scope.get(t)]));
+  }
+}
+
+function messageOf(error: unknown): string {
+  return error instanceof Error ? error.message : String(error);
+}
+
+/** A scalar's SI number (mathjs keeps a unit's value in SI), or null for anything else. */
+export function siOf(math: MathJsInstance, v: unknown): number | null {
+  if (typeof v === 'number') return v;
+  if (math.isUnit(v) && (v as Unit).value !== null) return (v as Unit).value as number;
+  return null;
+}
+
+/** A value like `template` with the SI number `si`. */
+export function withSi(template: unknown, si: number): unknown {
+  if (typeof template === 'number') return si;
+  const u = (template as Unit).clone();
+  (u as unknown as { value: number }).value = si;
+  return u;
+}
+
+/** How a scalar is displayed: its unit string, its unit as text and TeX, and SI per display unit. */
+interface DisplayUnit {
+  unit: string | null;
+  text: string;
+  tex: string;
+  /** SI value of one display unit. */
+  factor: number;
+  /** An SI number in the display unit, converted as mathjs converts it for display. */
+  fromSi: (si: number) => number;
+}
+
+function displayUnitOf(math: MathJsInstance, v: unknown): DisplayUnit {
+  if (typeof v === 'number' || !math.isUnit(v)) return { unit: null, text: '', tex: '', factor: 1, fromSi: (si) => si };
+  const q = quantityParts(math, v as Unit);
+  if (!q.unitString) return { unit: null, text: '', tex: '', factor: (v as Unit).value as number / (q.number || 1), fromSi: (si) => si / ((v as Unit).value as number / (q.number || 1)) };
+  const template = math.unit(1, q.unitString) as Unit & { _denormalize(x: number): number };
+  const factor = template.value as number;
+  return { unit: q.unitString, text: unitText(q.parts), tex: unitTex(q.parts), factor, fromSi: (si) => template._denormalize(si) };
+}
+
+/** "value ± U" with the value rounded to the last digit of U (two significant digits, JCGM 100 7.2.6). */
+export function measuredText(y: number, U: number, unit: { text: string; tex: string }): { text: string; tex: string } {
+  const { U: Ur, lastDigitExponent: e } = roundExpanded(U);
+  const scale = Math.abs(y) >= 1e6 || (Math.abs(y) < 1e-3 && Math.abs(Ur) < 1e-3) || e < -9 ? Math.floor(Math.log10(Math.max(Math.abs(y), Ur) || 1)) : 0;
+  const decimals = Math.max(0, scale - e);
+  const ys = y / 10 ** scale;
+  const Us = Ur / 10 ** scale;
+  const round = (x: number) => (e > scale ? Math.round(x / 10 ** (e - scale)) * 10 ** (e - scale) : x);
+  const yText = formatFixedText(round(ys), decimals);
+  const uText = formatFixedText(round(Us), decimals);
+  const yTex = formatFixedTex(round(ys), decimals);
+  const uTex = formatFixedTex(round(Us), decimals);
+  const pow = scale ? ` × 10${String(scale).replace(/[-0-9]/g, (d) => '⁻⁰¹²³⁴⁵⁶⁷⁸⁹'['-0123456789'.indexOf(d)])}` : '';
+  const powTex = scale ? ` \\times 10^{${scale}}` : '';
+  const grouped = pow || unit.text;
+  const text = `${grouped ? '(' : ''}${yText} ± ${uText}${grouped ? ')' : ''}${pow}${unit.text ? ` ${unit.text}` : ''} (k = 2)`;
+  const tex = `${grouped ? '\\left(' : ''}${yTex} \\pm ${uTex}${grouped ? '\\right)' : ''}${powTex}${unit.tex ? `\\ ${unit.tex}` : ''}\\ (k = 2)`;
+  return { text, tex };
+}
+
+/** An input's own standard uncertainty, for display beside its value. */
+export function inputUncertainty(math: MathJsInstance, value: unknown, u: unknown, sig: number): UncertaintyResult {
+  const du = displayUnitOf(math, value);
+  const y = (siOf(math, value) ?? 0) / du.factor;
+  const uu = (siOf(math, u) ?? 0) / du.factor;
+  const U = 2 * uu;
+  const shown = measuredText(y, U, du);
+  return {
+    kind: 'input',
+    u: uu,
+    U: roundExpanded(U).U,
+    k: 2,
+    unit: du.unit,
+    text: `standard uncertainty u = ${formatNumberText(uu, Math.min(sig, 3))}${du.text ? ` ${du.text}` : ''}; ${shown.text}`,
+    tex: shown.tex,
+    budget: [],
+    nonLinear: false,
+    monteCarlo: null,
+    warning: null,
+  };
+}
+
+export interface PropagationInput {
+  name: string;
+  value: unknown;
+  u: unknown;
+}
+
+/**
+ * The combined standard uncertainty of `target` (value `y`) from the uncertain inputs it depends
+ * on, with the budget; a Monte Carlo propagation as well when the model is markedly non-linear or
+ * when asked for, and a warning when the two disagree.
+ */
+export function propagateUncertainty(
+  math: MathJsInstance,
+  re: Reevaluator,
+  target: string,
+  y: unknown,
+  inputs: readonly PropagationInput[],
+  sig: number,
+  monteCarloMode: 'auto' | 'always',
+): UncertaintyResult {
+  const ySi = siOf(math, y);
+  if (ySi === null) throw new Error('an uncertainty is propagated to single values only (not to lists)');
+  const xs: UncertainInput[] = inputs.map((i) => ({ value: siOf(math, i.value)!, u: Math.abs(siOf(math, i.u)!) }));
+  const model = (x: readonly number[]): number => {
+    const out = re.run(new Map(inputs.map((i, k) => [i.name, withSi(i.value, x[k])])), [target]).get(target);
+    const si = siOf(math, out);
+    if (si === null) throw new Error(`${target} is not a single value`);
+    return si;
+  };
+  const fo = firstOrder(model, xs);
+  const dy = displayUnitOf(math, y);
+  const uc = fo.uc / dy.factor;
+  const U = 2 * uc;
+  const yShown = ySi / dy.factor;
+  const budget: BudgetLine[] = inputs.map((input, k) => {
+    const dx = displayUnitOf(math, input.value);
+    const c = fo.sensitivities[k];
+    const cShown = (c * dx.factor) / dy.factor;
+    const unitOfC = dy.text && dx.text ? `${dy.text}/${dx.text}` : dy.text || (dx.text ? `1/${dx.text}` : '');
+    const contribution = Math.abs(fo.contributions[k]) / dy.factor;
+    return {
+      name: input.name,
+      valueText: displayValue(math, input.value, sig).text,
+      uText: `${formatNumberText(xs[k].u / dx.factor, Math.min(sig, 3))}${dx.text ? ` ${dx.text}` : ''}`,
+      sensitivity: c,
+      sensitivityText: `${formatNumberText(cShown, Math.min(sig, 4))}${unitOfC ? ` ${unitOfC}` : ''}`,
+      contribution,
+      contributionText: `${formatNumberText(contribution, Math.min(sig, 3))}${dy.text ? ` ${dy.text}` : ''}`,
+      share: fo.shares[k],
+    };
+  });
+  let mc: MonteCarloSummary | null = null;
+  let warning: string | null = null;
+  if (fo.nonLinear || monteCarloMode === 'always') {
+    const r = monteCarlo(model, xs, { trials: MONTE_CARLO_TRIALS, seed: MONTE_CARLO_SEED });
+    if (r.valid < 2) {
+      warning = `the Monte Carlo propagation could not evaluate the model for ${r.outOfDomain} of ${r.trials} draws (outside a function's domain); the first-order result is not reliable here`;
+    } else {
+      const v = validateAgainstMonteCarlo(ySi, 2 * fo.uc, fo.uc, r);
+      const d = (si: number) => formatNumberText(si / dy.factor, Math.min(sig, 4));
+      const unit = dy.text ? ` ${dy.text}` : '';
+      mc = {
+        trials: r.trials,
+        outOfDomain: r.outOfDomain,
+        seed: MONTE_CARLO_SEED,
+        mean: r.mean / dy.factor,
+        u: r.u / dy.factor,
+        low: r.low / dy.factor,
+        high: r.high / dy.factor,
+        tolerance: v.tolerance / dy.factor,
+        dLow: v.dLow / dy.factor,
+        dHigh: v.dHigh / dy.factor,
+        agrees: v.agrees && r.outOfDomain === 0,
+        text: `Monte Carlo (JCGM 101, ${r.trials.toLocaleString('en').replace(/,/g, '\u202f')} draws): mean ${d(r.mean)}${unit}, u = ${d(r.u)}${unit}, 95.45 % interval [${d(r.low)}, ${d(r.high)}]${unit}`,
+      };
+      if (r.outOfDomain > 0) {
+        warning = `${r.outOfDomain} of ${r.trials} Monte Carlo draws fell outside the model's domain and were left out; the uncertainty is too large for this model near its limit`;
+      } else if (!v.agrees) {
+        warning = `the first-order (GUM) interval differs from the Monte Carlo interval by more than ${d(v.tolerance)}${unit} (JCGM 101, 8.2): use the Monte Carlo result`;
+      }
+    }
+  }
+  const shown = measuredText(yShown, U, dy);
+  return {
+    kind: 'propagated',
+    u: uc,
+    U: roundExpanded(U).U,
+    k: 2,
+    unit: dy.unit,
+    text: shown.text,
+    tex: shown.tex,
+    budget,
+    nonLinear: fo.nonLinear,
+    monteCarlo: mc,
+    warning,
+  };
+}
+
+export interface StudyRequest {
+  kind: 'sweep' | 'plot' | 'spacetime';
+  input: string;
+  values: unknown[];
+  targets: readonly string[];
+  /** Does a target depend on the input (transitively)? */
+  dependsOnInput: (name: string) => boolean;
+}
+
+/** Light-year in metres (c × Julian year), the unit of long space-time diagrams. */
+const LIGHT_YEAR_M = 299_792_458 * 365.25 * 86_400;
+
+/** Evaluates a sweep, a plot or a space-time diagram. */
+export function computeStudy(
+  math: MathJsInstance,
+  re: Reevaluator,
+  scope: ReadonlyMap<string, unknown>,
+  request: StudyRequest,
+): { table: StudyTable | null; plot: PlotData | null } {
+  const { input, values, targets } = request;
+  const base = scope.get(input);
+  if (siOf(math, base) === null) throw new Error(`\`${input}\` must be a single value to be swept`);
+  for (const [k, v] of values.entries()) {
+    const same = typeof base === 'number' ? typeof v === 'number' : math.isUnit(v) && (v as Unit).value !== null && (v as Unit).equalBase(base as Unit);
+    if (!same) throw new Error(`value ${k + 1} of the list is not of the dimension of \`${input}\``);
+  }
+  for (const t of targets) {
+    if (siOf(math, scope.get(t)) === null) throw new Error(`\`${t}\` is not a single value`);
+  }
+  const varying = targets.filter((t) => request.dependsOnInput(t));
+  const rows: Array<Array<number | null>> = [];
+  const errors: Array<string | null> = [];
+  const raw: Array<Map<string, unknown> | null> = [];
+  for (const v of values) {
+    try {
+      const out = varying.length ? re.run(new Map([[input, v]]), varying) : new Map<string, unknown>();
+      for (const t of varying) if (siOf(math, out.get(t)) === null) throw new Error(`\`${t}\` is not a single value for this input`);
+      raw.push(out);
+      errors.push(null);
+    } catch (error) {
+      raw.push(null);
+      errors.push(messageOf(error));
+    }
+  }
+  const valueOf = (row: number, t: string): unknown => (request.dependsOnInput(t) ? raw[row]?.get(t) : scope.get(t));
+
+  if (request.kind === 'sweep') {
+    const units = [input, ...targets].map((n) => displayUnitOf(math, scope.get(n)));
+    values.forEach((v, r) => {
+      rows.push([
+        units[0].fromSi(siOf(math, v)!),
+        ...targets.map((t, k) => {
+          const x = raw[r] ? siOf(math, valueOf(r, t)) : null;
+          return x === null ? null : units[k + 1].fromSi(x);
+        }),
+      ]);
+    });
+    return {
+      table: { columns: [input, ...targets].map((n, k) => ({ name: n, unit: units[k].unit, tex: nameTex(n) })), rows, errors },
+      plot: null,
+    };
+  }
+
+  if (request.kind === 'plot') {
+    const first = scope.get(targets[0]);
+    for (const t of targets.slice(1)) {
+      const v = scope.get(t);
+      const same = typeof first === 'number' ? typeof v === 'number' : math.isUnit(v) && (v as Unit).equalBase(first as Unit);
+      if (!same) throw new Error(`the curves of one plot share an axis: \`${t}\` is not of the dimension of \`${targets[0]}\`; draw it in a plot of its own`);
+    }
+    const dx = displayUnitOf(math, base);
+    const dy = displayUnitOf(math, first);
+    return {
+      table: null,
+      plot: {
+        kind: 'curve',
+        x: { label: input, unit: dx.unit },
+        y: { label: targets.join(', '), unit: dy.unit },
+        series: targets.map((t) => ({
+          name: t,
+          points: values.flatMap((v, r) => {
+            const y = raw[r] ? siOf(math, valueOf(r, t)) : null;
+            return y === null || !Number.isFinite(y) ? [] : [[dx.fromSi(siOf(math, v)!), dy.fromSi(y)] as [number, number]];
+          }),
+        })),
+      },
+    };
+  }
+
+  // A space-time diagram: x across, ct up, one length unit on both axes.
+  const second = math.unit(1, 's');
+  const metre = math.unit(1, 'm');
+  if (!math.isUnit(base) || !(base as Unit).equalBase(second)) throw new Error(`a space-time diagram sweeps a time; \`${input}\` is not a time`);
+  const lines: string[] = [];
+  const horizons: string[] = [];
+  for (const t of targets) {
+    const v = scope.get(t);
+    if (!math.isUnit(v) || !(v as Unit).equalBase(metre)) throw new Error(`\`${t}\` is not a length; a space-time diagram draws distances against time`);
+    (request.dependsOnInput(t) ? lines : horizons).push(t);
+  }
+  if (!lines.length) throw new Error(`none of ${targets.map((t) => `\`${t}\``).join(', ')} depends on \`${input}\`; name at least one distance that does`);
+  const c = 299_792_458;
+  let extent = 0;
+  values.forEach((v, r) => {
+    extent = Math.max(extent, Math.abs(siOf(math, v)! * c));
+    for (const t of lines) extent = Math.max(extent, Math.abs(raw[r] ? (siOf(math, valueOf(r, t)) ?? 0) : 0));
+  });
+  for (const t of horizons) extent = Math.max(extent, Math.abs(siOf(math, scope.get(t))!));
+  const [unit, factor] = extent >= 0.01 * LIGHT_YEAR_M ? ['ly', LIGHT_YEAR_M] : extent >= 1e4 ? ['km', 1e3] : ['m', 1];
+  return {
+    table: null,
+    plot: {
+      kind: 'spacetime',
+      x: { label: 'x', unit },
+      y: { label: 'ct', unit },
+      series: lines.map((t) => ({
+        name: t,
+        points: values.flatMap((v, r) => {
+          const x = raw[r] ? siOf(math, valueOf(r, t)) : null;
+          return x === null || !Number.isFinite(x) ? [] : [[x / factor, (siOf(math, v)! * c) / factor] as [number, number]];
+        }),
+      })),
+      horizons: horizons.map((t) => ({ name: t, distance: siOf(math, scope.get(t))! / factor })),
+    },
+  };
+}

@@ -1,0 +1,255 @@
+// Engineering studies in the engine: parameter sweeps, plots and space-time diagrams, inputs with a
+// standard uncertainty and its propagation, and citations of other sheets' issued results.
+import { describe, expect, it } from 'vitest';
+import { createSheetEngine } from '../../lib/calc/sheet-engine';
+import type { CellInput, ResolvedReference, SheetResult, StatementResult } from '../../lib/calc/types';
+
+const C = 299_792_458; // m/s, exact (SI Brochure, 9th ed.)
+const E = 1.602_176_634e-19; // C, exact (SI Brochure, 9th ed.)
+const MP_MEV = 938.272_089_43; // proton rest energy, MeV (CODATA 2022)
+const G_N = 9.806_65; // standard gravity, m/s², exact (CGPM 1901; SI Brochure)
+const LY = C * 365.25 * 86_400; // light-year, m (IAU: c × Julian year)
+
+const engine = createSheetEngine();
+const calc = (...sources: string[]): CellInput[] => sources.map((source, i) => ({ id: `c${i + 1}`, kind: 'calc', source }));
+const run = (cells: CellInput[], options: Partial<Parameters<typeof engine.evaluate>[1]> = {}): SheetResult => engine.evaluate(cells, { significantFigures: 6, ...options });
+const statement = (r: SheetResult, name: string): StatementResult => {
+  const st = r.cells.flatMap((c) => c.statements).find((s) => s.name === name);
+  if (!st) throw new Error(`no statement defines ${name}`);
+  return st;
+};
+const studies = (r: SheetResult) => r.cells.flatMap((c) => c.statements).filter((s) => s.kind === 'sweep' || s.kind === 'plot');
+
+const BEAM = 'T_kin = 250 MeV\nbeta = speedFromKinetic(T_kin, m_p) / c\ngamma_L = lorentzFactor(beta)\np = momentumFromKinetic(T_kin, m_p)\nBrho = magneticRigidity(p, q_e) to T*m';
+
+describe('parameter sweeps', () => {
+  it('gives at each step exactly what a single evaluation with that value gives', () => {
+    const r = run(calc(BEAM, 'sweep(T_kin, steps(70 MeV, 250 MeV, 20 MeV), beta, gamma_L, p, Brho)'));
+    const [sweep] = studies(r);
+    expect(sweep.error).toBeNull();
+    const table = sweep.table!;
+    expect(table.columns.map((c) => c.name)).toEqual(['T_kin', 'beta', 'gamma_L', 'p', 'Brho']);
+    expect(table.columns[0].unit).toBe('MeV');
+    expect(table.columns[4].unit).toBe('T m');
+    const written = [70, 90, 110, 130, 150, 170, 190, 210, 230, 250];
+    expect(table.rows).toHaveLength(written.length);
+    for (const [k, row] of table.rows.entries()) {
+      const single = run(calc(BEAM.replace('T_kin = 250 MeV', `T_kin = ${written[k]} MeV`)));
+      // The input column shows the value as the sheet itself shows it (mathjs's unit conversion).
+      expect(row[0]).toBe(statement(single, 'T_kin').value!.number);
+      expect(row[1]).toBe(statement(single, 'beta').value!.number);
+      expect(row[2]).toBe(statement(single, 'gamma_L').value!.number);
+      expect(row[4]).toBe(statement(single, 'Brho').value!.number);
+    }
+    expect(table.errors.every((e) => e === null)).toBe(true);
+  });
+
+  it('agrees with the magnetic rigidity from the PDG kinematics relations at 250 MeV', () => {
+    // PDG Review of Particle Physics, Kinematics: E² = (pc)² + (mc²)²; pc = √(T² + 2T·mc²); Bρ = p/e.
+    const pc = Math.sqrt(250 ** 2 + 2 * 250 * MP_MEV); // MeV
+    const brho = (pc * 1e6 * E) / C / E; // T·m
+    const r = run(calc(BEAM, 'sweep(T_kin, [70, 250] MeV, Brho)'));
+    const row = studies(r)[0].table!.rows[1];
+    // To 10 decimals: the proton rest energy above is CODATA's rounded MeV value (u = 2.9 × 10⁻⁷ MeV).
+    expect(row[1]!).toBeCloseTo(brho, 10);
+    expect(brho).toBeCloseTo(2.432_13, 5);
+  });
+
+  it('keeps a failed step to its row and names why', () => {
+    const r = run(calc('v = 0.5\ng_v = lorentzFactor(v)', 'sweep(v, [0.2, 1.5, 0.6], g_v)'));
+    const table = studies(r)[0].table!;
+    expect(table.rows[0][1]).toBeCloseTo(1 / Math.sqrt(1 - 0.04), 15);
+    expect(table.rows[1][1]).toBeNull();
+    expect(table.errors[1]).toMatch(/lorentzFactor/);
+    expect(table.rows[2][1]).toBeCloseTo(1.25, 15);
+  });
+
+  it('refuses what is not a sweep', () => {
+    const bad = run(calc('x_a = 2 m\ny_a = 3 * x_a', 'sweep(x_a, [1, 2] s, y_a)', 'sweep(x_a, 2 m)', 'sweep(x_a, [1, 2] m, z_a)', 'k_a = 2 * sweep(x_a, [1] m, y_a)'));
+    const [dimension, tooFew, undefinedName] = studies(bad);
+    expect(dimension.error).toMatch(/dimension of `x_a`/);
+    expect(tooFew.error).toMatch(/sweep\(input, values, result1/);
+    expect(undefinedName.error).toMatch(/`z_a` is not defined/);
+    expect(statement(bad, 'k_a').error).toMatch(/statement of its own line/);
+  });
+
+  it('steps includes the end when it falls on a step, and points spaces n values evenly', () => {
+    const r = run(calc('x_s = steps(0 m, 1 m, 0.25 m)\ny_s = steps(0 m, 1 m, 0.3 m)\nz_s = points(1 s, 2 s, 5)'));
+    expect(statement(r, 'x_s').value!.text).toBe('[0, 0.25, 0.5, 0.75, 1] m');
+    expect(statement(r, 'y_s').value!.text).toBe('[0, 0.3, 0.6, 0.9] m');
+    expect(statement(r, 'z_s').value!.text).toBe('[1, 1.25, 1.5, 1.75, 2] s');
+  });
+});
+
+describe('plots', () => {
+  it('draws curves of results against the swept input, in their display units', () => {
+    const r = run(calc(BEAM, 'plot(T_kin, points(70 MeV, 250 MeV, 10), Brho)'));
+    const plot = studies(r)[0].plot!;
+    expect(plot.kind).toBe('curve');
+    expect(plot.x).toEqual({ label: 'T_kin', unit: 'MeV' });
+    expect(plot.y.unit).toBe('T m');
+    expect(plot.series[0].points).toHaveLength(10);
+    expect(plot.series[0].points[9][1]).toBe(statement(r, 'Brho').value!.number);
+  });
+
+  it('refuses series of different dimensions on one axis', () => {
+    const r = run(calc(BEAM, 'plot(T_kin, [100, 200] MeV, Brho, beta)'));
+    expect(studies(r)[0].error).toMatch(/share an axis/);
+  });
+
+  it('draws the worldline of constant proper acceleration and its horizon on a space-time diagram', () => {
+    // Hyperbolic motion from rest: x(t) = (c²/a)(√(1 + (at/c)²) − 1) (W. Rindler, Relativity:
+    // Special, General, and Cosmological, 2nd ed., §3.7); horizon distance c²/a.
+    const r = run(calc('a0 = g_n\nt = 1 year\nx_ship = hyperbolicDistance(a0, t)\nd_h = rindlerHorizonDistance(a0)', 'spacetime(t, points(0 year, 3 year, 13), x_ship, d_h)'));
+    const plot = studies(r)[0].plot!;
+    expect(plot.kind).toBe('spacetime');
+    expect(plot.x).toEqual({ label: 'x', unit: 'ly' });
+    expect(plot.y).toEqual({ label: 'ct', unit: 'ly' });
+    expect(plot.horizons).toEqual([{ name: 'd_h', distance: expect.closeTo((C * C) / G_N / LY, 12) }]);
+    expect(plot.horizons![0].distance).toBeCloseTo(0.968_7, 4);
+    const points = plot.series[0].points;
+    expect(points).toHaveLength(13);
+    for (const [x, ct] of points) {
+      const t = (ct * LY) / C;
+      const expected = ((C * C) / G_N) * (Math.sqrt(1 + ((G_N * t) / C) ** 2) - 1);
+      expect(x).toBeCloseTo(expected / LY, 12);
+      // A massive body stays inside the light cone of its start, and outside its horizon's light line.
+      expect(x).toBeLessThanOrEqual(ct);
+      expect(x).toBeGreaterThan(ct - plot.horizons![0].distance);
+    }
+  });
+
+  it('asks for a time to sweep and for distances on a space-time diagram', () => {
+    const r = run(calc('a0 = g_n\nt = 1 year\nx_ship = hyperbolicDistance(a0, t)\nv_s = hyperbolicSpeed(a0, t)', 'spacetime(a0, [1, 2] m/s^2, x_ship)', 'spacetime(t, [1, 2] year, v_s)'));
+    const [notTime, notLength] = studies(r);
+    expect(notTime.error).toMatch(/sweeps a time/);
+    expect(notLength.error).toMatch(/not a length/);
+  });
+});
+
+describe('uncertainty (JCGM 100:2008, law of propagation of uncertainty)', () => {
+  it('propagates to the Lorentz factor with the textbook sensitivity βγ³', () => {
+    // dγ/dβ = βγ³ (any special relativity text); u_c(γ) = βγ³·u(β) to first order.
+    const r = run(calc('b_0 = 0.6 ± 0.001\ng_0 = lorentzFactor(b_0)'));
+    const input = statement(r, 'b_0').uncertainty!;
+    expect(input.kind).toBe('input');
+    expect(input.u).toBe(0.001);
+    const u = statement(r, 'g_0').uncertainty!;
+    expect(u.kind).toBe('propagated');
+    expect(u.u).toBeCloseTo(0.6 * 1.25 ** 3 * 0.001, 9);
+    expect(u.budget).toHaveLength(1);
+    expect(u.budget[0].name).toBe('b_0');
+    expect(u.budget[0].sensitivity).toBeCloseTo(0.6 * 1.25 ** 3, 6);
+    expect(u.budget[0].share).toBeCloseTo(1, 12);
+    // y ± U (k = 2), U to two significant digits (JCGM 100, 7.2.6): U = 0.002 34… → 0.0023.
+    expect(u.U).toBe(0.0023);
+    expect(u.text).toBe('1.2500 ± 0.0023 (k = 2)');
+    expect(u.warning).toBeNull();
+  });
+
+  it('propagates a beam energy uncertainty to magnetic rigidity, with units, as the PDG relations give', () => {
+    // Bρ = p/e with pc = √(T² + 2T·mc²) (PDG, Kinematics): d(pc)/dT = (T + mc²)/(pc).
+    const r = run(calc(BEAM.replace('T_kin = 250 MeV', 'T_kin = 250 MeV ± 0.5 MeV')));
+    const u = statement(r, 'Brho').uncertainty!;
+    const pc = Math.sqrt(250 ** 2 + 2 * 250 * MP_MEV);
+    const dBrhoPerMeV = ((250 + MP_MEV) / pc) * (1e6 / C); // T·m per MeV
+    expect(u.unit).toBe('T m');
+    expect(u.u).toBeCloseTo(dBrhoPerMeV * 0.5, 10);
+    expect(u.budget[0].sensitivityText).toMatch(/T·m\/MeV$/);
+    expect(u.text).toBe('(2.4321 ± 0.0054) T·m (k = 2)');
+  });
+
+  it('adds independent contributions in quadrature and gives each its share', () => {
+    const r = run(calc('L_1 = 2.000 m ± 0.003 m\nL_2 = 1.000 m +/- 0.004 m\nL_t = L_1 + L_2'));
+    const u = statement(r, 'L_t').uncertainty!;
+    expect(u.u).toBeCloseTo(0.005, 12);
+    expect(u.budget.map((b) => b.name)).toEqual(['L_1', 'L_2']);
+    expect(u.budget[0].share).toBeCloseTo(0.36, 9);
+    expect(u.budget[1].share).toBeCloseTo(0.64, 9);
+    expect(u.nonLinear).toBe(false);
+    expect(u.monteCarlo).toBeNull();
+  });
+
+  it('gives the same result by Monte Carlo for a linear model, within the Monte Carlo’s own uncertainty', () => {
+    const r = run(calc('L_1 = 2.000 m ± 0.003 m\nL_2 = 1.000 m ± 0.004 m\nL_t = 2 * L_1 - L_2'), { monteCarlo: 'always' });
+    const u = statement(r, 'L_t').uncertainty!;
+    const mc = u.monteCarlo!;
+    expect(mc.trials).toBe(10_000);
+    // u(L_t)² = 4·0.003² + 0.004² → u = 0.007 211 m; the Monte Carlo u within 3 of its standard errors (≈ u/√(2M)).
+    expect(u.u).toBeCloseTo(Math.sqrt(4 * 0.003 ** 2 + 0.004 ** 2), 9);
+    expect(Math.abs(mc.u - u.u)).toBeLessThan((3 * u.u) / Math.sqrt(2 * mc.trials));
+    expect(Math.abs(mc.mean - 3)).toBeLessThan((4 * u.u) / Math.sqrt(mc.trials));
+    expect(mc.agrees).toBe(true);
+    expect(u.warning).toBeNull();
+  });
+
+  it('runs a Monte Carlo where the model is strongly non-linear, and warns when draws leave the domain', () => {
+    const r = run(calc('b_1 = 0.9999 ± 0.00005\ng_1 = lorentzFactor(b_1)'));
+    const u = statement(r, 'g_1').uncertainty!;
+    expect(u.nonLinear).toBe(true);
+    expect(u.monteCarlo).not.toBeNull();
+    expect(u.monteCarlo!.outOfDomain).toBeGreaterThan(0);
+    expect(u.monteCarlo!.agrees).toBe(false);
+    expect(u.warning).toMatch(/outside the model's domain/);
+  });
+
+  it('refuses an uncertainty of another dimension, a negative one, and ± outside a definition', () => {
+    const r = run(calc('x_1 = 2 m ± 1 s', 'x_2 = 2 m ± -1 m', 'x_3 = 2 m\nx_3 + 1 m ± 1 m'));
+    expect(statement(r, 'x_1').error).toMatch(/dimension of the value/);
+    expect(statement(r, 'x_2').error).toMatch(/≥ 0/);
+    expect(r.cells[2].statements[1].error).toMatch(/± gives an input its standard uncertainty/);
+  });
+
+  it('keeps uncertainties through the cache when only a dependent cell changes', () => {
+    const cells = calc('T_u = 100 MeV ± 1 MeV', 'p_u = momentumFromKinetic(T_u, m_p)');
+    const first = statement(run(cells), 'p_u').uncertainty!.u;
+    const edited = [cells[0], { ...cells[1], source: 'p_u = momentumFromKinetic(T_u, m_p)\nq_u = 2 * p_u' }];
+    const r = run(edited);
+    expect(statement(r, 'p_u').uncertainty!.u).toBe(first);
+    expect(statement(r, 'q_u').uncertainty!.u).toBeCloseTo(2 * first, 30);
+  });
+});
+
+describe('citations of issued revisions', () => {
+  const ref = (over: Partial<ResolvedReference> = {}): ResolvedReference => ({
+    sheet: 'TPT2-CALC-0003',
+    revision: 'B',
+    name: 'Brho',
+    value: { number: 2.432_13, unit: 'T m', uncertainty: null },
+    error: null,
+    status: 'current',
+    supersededBy: null,
+    title: 'Gantry rigidity',
+    versionSha256: 'a'.repeat(64),
+    ...over,
+  });
+  const CITING = 'B_max = fromRevision("TPT2-CALC-0003", "B", "Brho")\nI_coil = B_max / (2 m) * 1000 A/T to A';
+
+  it('uses the issued value, pinned, with its source', () => {
+    const r = run(calc(CITING), { references: [ref()] });
+    const st = statement(r, 'B_max');
+    expect(st.error).toBeNull();
+    expect(st.value!.number).toBe(2.432_13);
+    expect(st.value!.unit).toBe('T m');
+    expect(st.references).toEqual([ref()]);
+    expect(st.tex).toContain('TPT2-CALC-0003 rev. B');
+    expect(statement(r, 'I_coil').value!.number).toBeCloseTo(1216.065, 9);
+  });
+
+  it('carries the cited standard uncertainty into results', () => {
+    const r = run(calc(CITING), { references: [ref({ value: { number: 2.432_13, unit: 'T m', uncertainty: 0.002 } })] });
+    expect(statement(r, 'B_max').uncertainty!.u).toBeCloseTo(0.002, 15);
+    expect(statement(r, 'I_coil').uncertainty!.u).toBeCloseTo(1, 9);
+  });
+
+  it('shows why a citation cannot be used, and re-evaluates when its resolution changes', () => {
+    const withdrawn = run(calc(CITING), { references: [ref({ value: null, status: 'withdrawn', error: 'TPT2-CALC-0003 rev. B was withdrawn: wrong field map' })] });
+    expect(statement(withdrawn, 'B_max').error).toBe('TPT2-CALC-0003 rev. B was withdrawn: wrong field map');
+    expect(statement(withdrawn, 'I_coil').error).toMatch(/depends on `B_max`/);
+    const unresolved = run(calc(CITING));
+    expect(statement(unresolved, 'B_max').error).toMatch(/resolved within the sheet's project/);
+    const malformed = run(calc('B_y = fromRevision("TPT2-CALC-0003", "B")', 'B_z = 2 * fromRevision("TPT2-CALC-0003", "B", "Brho")'));
+    expect(statement(malformed, 'B_y').error).toMatch(/three quoted texts/);
+    expect(statement(malformed, 'B_z').error).toMatch(/whole definition/);
+  });
+});
