@@ -31,11 +31,12 @@ export const DEMO_ACCOUNTS: ReadonlyArray<{ email: string; name: string; roles: 
 
 type DemoSheet = { number: number; content: VersionContent };
 
+const sheet = (number: number, partial: Omit<VersionContent, 'schema' | 'attachments' | 'significantFigures'>): DemoSheet => ({
+  number,
+  content: versionContentSchema.parse({ schema: 1, significantFigures: 6, attachments: [], ...partial }),
+});
+
 export function demoSheets(): DemoSheet[] {
-  const sheet = (number: number, partial: Omit<VersionContent, 'schema' | 'attachments' | 'significantFigures'>): DemoSheet => ({
-    number,
-    content: versionContentSchema.parse({ schema: 1, significantFigures: 6, attachments: [], ...partial }),
-  });
   return [
     sheet(1, {
       title: 'Dipole field over the treatment energy range, 70–250 MeV protons',
@@ -134,6 +135,85 @@ export function demoSheets(): DemoSheet[] {
   ];
 }
 
+/**
+ * Engineering-study sheets of the demo installation (sweeps, plots, uncertainty, a space-time
+ * diagram). `npm start` seeds them; the test fixtures keep the three sheets above unless asked.
+ */
+export function demoStudySheets(): DemoSheet[] {
+  return [
+    sheet(4, {
+      title: 'Dipole field study over the treatment energy range, with uncertainty',
+      safetyRelated: true,
+      record: {
+        ...emptyRecord(),
+        objective:
+          'Tabulate β, γ, magnetic rigidity and dipole field over 70–250 MeV, and carry the uncertainty of the beam energy and of the bending radius to the field at the highest energy.',
+        inputs: [
+          { name: 'Beam energy at the gantry entrance', value: '250 MeV, u = 0.4 MeV', source: 'Degrader calibration report (demo)', sourceRevision: 'A' },
+          { name: 'Dipole bending radius', value: '1.5 m, u = 2 mm', source: 'TPT2 gantry survey (demo)', sourceRevision: 'B' },
+        ],
+        method:
+          'Relativistic kinematics (PDG, Kinematics); law of propagation of uncertainty, JCGM 100:2008, with a Monte Carlo check (JCGM 101:2008) where the model is non-linear.',
+        references: ['JCGM 100:2008 Evaluation of measurement data — Guide to the expression of uncertainty in measurement', 'Particle Data Group, Review of Particle Physics, section "Kinematics"'],
+      },
+      cells: [
+        {
+          id: 'study-intro',
+          kind: 'text',
+          source: 'Standard uncertainties are written after `±` (k = 1); results are reported as $y \\pm U$ with $k = 2$.',
+        },
+        {
+          id: 'study-model',
+          kind: 'calc',
+          source: [
+            'T_kin = 250 MeV ± 0.4 MeV        # energy at the gantry entrance (demo calibration)',
+            'rho = 1.5 m ± 0.002 m            # bending radius (demo survey)',
+            'beta = speedFromKinetic(T_kin, m_p) / c',
+            'gamma_L = lorentzFactor(beta)',
+            'p = momentumFromKinetic(T_kin, m_p)',
+            'Brho = magneticRigidity(p, q_e) to T*m',
+            'B_dip = Brho / rho to T',
+          ].join('\n'),
+        },
+        {
+          id: 'study-sweep',
+          kind: 'calc',
+          source: ['sweep(T_kin, steps(70 MeV, 250 MeV, 20 MeV), beta, gamma_L, Brho, B_dip)', 'plot(T_kin, points(70 MeV, 250 MeV, 91), B_dip)'].join('\n'),
+        },
+      ],
+    }),
+    sheet(5, {
+      title: 'Verification of the hyperbolic-motion functions against the space-time diagram',
+      safetyRelated: false,
+      record: {
+        ...emptyRecord(),
+        objective:
+          'Show the worldline of a body with constant proper acceleration of 1 g_n from rest, its light cone and its horizon c²/a, as a check of the library functions used by the timing model.',
+        method: 'Hyperbolic motion from rest; horizon distance c²/a (Rindler, Relativity: Special, General, and Cosmological, ch. 3).',
+      },
+      cells: [
+        {
+          id: 'worldline',
+          kind: 'calc',
+          source: [
+            'a0 = g_n                         # proper acceleration of the model',
+            't = 1 year',
+            'x_probe = hyperbolicDistance(a0, t) to lightyear',
+            'tau_probe = hyperbolicProperTime(a0, t) to year',
+            'd_h = rindlerHorizonDistance(a0) to lightyear',
+            'spacetime(t, points(0 year, 3 year, 121), x_probe, d_h)',
+          ].join('\n'),
+        },
+      ],
+    }),
+  ];
+}
+
+export interface SeedOptions {
+  /** Also seed the study sheets (numbers 4 and 5). */
+  studies?: boolean;
+}
+
 export interface SeedReport {
   usersCreated: number;
   projectCreated: boolean;
@@ -141,7 +221,7 @@ export interface SeedReport {
   sheetsCreated: number;
 }
 
-export async function seedDemo(db: Kysely<Database>): Promise<SeedReport> {
+export async function seedDemo(db: Kysely<Database>, options: SeedOptions = {}): Promise<SeedReport> {
   const report: SeedReport = { usersCreated: 0, projectCreated: false, membershipsCreated: 0, sheetsCreated: 0 };
   const existing = await db
     .selectFrom('users')
@@ -206,7 +286,7 @@ export async function seedDemo(db: Kysely<Database>): Promise<SeedReport> {
 
     const originator = userIds.get('originator@demo.test')!;
     let engine: SheetEngine | null = null;
-    for (const demo of demoSheets()) {
+    for (const demo of options.studies ? [...demoSheets(), ...demoStudySheets()] : demoSheets()) {
       const sheet = await trx
         .insertInto('sheets')
         .values({ project_id: project.id, number: demo.number, title: demo.content.title, safety_related: demo.content.safetyRelated, created_by: originator })

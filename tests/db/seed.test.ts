@@ -1,6 +1,6 @@
 import { verify } from '@node-rs/argon2';
 import { expect, it } from 'vitest';
-import { DEMO_ACCOUNTS, DEMO_PASSWORD, demoSheets, seedDemo } from '../../db/seed';
+import { DEMO_ACCOUNTS, DEMO_PASSWORD, demoSheets, demoStudySheets, seedDemo } from '../../db/seed';
 import { createSheetEngine } from '../../lib/calc/sheet-engine';
 import { versionContentSchema } from '../../lib/sheets/content';
 import { contentHash } from '../../lib/sheets/content-hash';
@@ -74,4 +74,18 @@ it('evaluates the demo dipole sheet to the expected rigidity and criterion', () 
   // Bρ = p/e = 2.432 13 T m (PDG kinematics: p [GeV/c] = 0.299 792 458 Bρ [T m] for unit charge).
   expect(statements.find((s) => s.name === 'Brho_max')?.value?.number).toBeCloseTo(2.43213, 4);
   expect(statements.find((s) => s.kind === 'criterion')?.criterion?.pass).toBe(true);
+});
+
+it('seeds the study sheets of the demo installation when asked, each evaluating without error', async () => {
+  const report = await seedDemo(testDb(), { studies: true });
+  expect(report.sheetsCreated).toBe(5);
+  const versions = await testDb().selectFrom('versions').select(['results']).execute();
+  expect(versions).toHaveLength(5);
+  for (const v of versions) expect((v.results as { ok: boolean }).ok).toBe(true);
+  const engine = createSheetEngine();
+  const [study, worldline] = demoStudySheets().map((d) => engine.evaluate(d.content.cells, { significantFigures: 6 }).cells.flatMap((c) => c.statements));
+  expect(study.find((s) => s.kind === 'sweep')?.table?.rows).toHaveLength(10);
+  expect(study.find((s) => s.name === 'B_dip')?.uncertainty?.budget.map((b) => b.name)).toEqual(['T_kin', 'rho']);
+  // Horizon of 1 g_n: c²/g_n = 0.968 7 ly (c exact, g_n exact, ly = c × Julian year; IAU).
+  expect(worldline.find((s) => s.kind === 'plot')?.plot?.horizons?.[0].distance).toBeCloseTo(0.9687, 4);
 });
