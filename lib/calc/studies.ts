@@ -192,7 +192,8 @@ export function propagateUncertainty(
   const yShown = ySi / dy.factor;
   const budget: BudgetLine[] = inputs.map((input, k) => {
     const dx = displayUnitOf(math, input.value);
-    const c = fo.sensitivities[k];
+    // An input with u = 0 contributes nothing; its sensitivity is not evaluated (NaN from firstOrder).
+    const c = Number.isFinite(fo.sensitivities[k]) ? fo.sensitivities[k] : 0;
     const cShown = (c * dx.factor) / dy.factor;
     const unitOfC = dy.text && dx.text ? `${dy.text}/${dx.text}` : dy.text || (dx.text ? `1/${dx.text}` : '');
     const contribution = Math.abs(fo.contributions[k]) / dy.factor;
@@ -201,7 +202,7 @@ export function propagateUncertainty(
       valueText: displayValue(math, input.value, sig).text,
       uText: `${formatNumberText(xs[k].u / dx.factor, Math.min(sig, 3))}${dx.text ? ` ${dx.text}` : ''}`,
       sensitivity: c,
-      sensitivityText: `${formatNumberText(cShown, Math.min(sig, 4))}${unitOfC ? ` ${unitOfC}` : ''}`,
+      sensitivityText: Number.isFinite(fo.sensitivities[k]) ? `${formatNumberText(cShown, Math.min(sig, 4))}${unitOfC ? ` ${unitOfC}` : ''}` : 'not evaluated (u = 0)',
       contribution,
       contributionText: `${formatNumberText(contribution, Math.min(sig, 3))}${dy.text ? ` ${dy.text}` : ''}`,
       share: fo.shares[k],

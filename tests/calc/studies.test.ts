@@ -193,6 +193,14 @@ describe('uncertainty (JCGM 100:2008, law of propagation of uncertainty)', () =>
     expect(u.warning).toMatch(/outside the model's domain/);
   });
 
+  it('leaves an input with zero uncertainty out of the budget without breaking it', () => {
+    const r = run(calc('L_1 = 2 m ± 0.003 m\nL_2 = 1 m ± 0 m\nL_t = L_1 * L_2'));
+    const u = statement(r, 'L_t').uncertainty!;
+    expect(u.u).toBeCloseTo(0.003, 12);
+    expect(u.budget[1]).toMatchObject({ name: 'L_2', sensitivity: 0, contribution: 0, sensitivityText: 'not evaluated (u = 0)' });
+    expect(JSON.parse(JSON.stringify(u))).toEqual(u);
+  });
+
   it('refuses an uncertainty of another dimension, a negative one, and ± outside a definition', () => {
     const r = run(calc('x_1 = 2 m ± 1 s', 'x_2 = 2 m ± -1 m', 'x_3 = 2 m\nx_3 + 1 m ± 1 m'));
     expect(statement(r, 'x_1').error).toMatch(/dimension of the value/);
