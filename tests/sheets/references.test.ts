@@ -73,7 +73,10 @@ beforeEach(async () => {
   projectId = await makeProject(db, 'TPT2', [[author, 'originator'], [checker, 'checker'], [approver, 'approver'], [controller, 'controller']]);
 });
 
-describe('resolving citations', () => {
+// Issuing renders and signs a PDF, which takes seconds on a busy machine: more time than the default.
+const ISSUING = { timeout: 120_000 };
+
+describe('resolving citations', ISSUING, () => {
   it('pins a citation to the value of the issued revision, with its status, title and version hash', async () => {
     const db = testDb();
     const a = await newSheet('Gantry dipole rigidity');
@@ -142,7 +145,51 @@ describe('resolving citations', () => {
   });
 });
 
-describe('recording, superseded inputs and impact', () => {
+describe('evaluating citations', ISSUING, () => {
+  it('evaluates a citation to the issued value, and one that cannot be used to the error of its statement', async () => {
+    const db = testDb();
+    const a = await newSheet('Gantry dipole rigidity');
+    const revA = await issue(a, RIGIDITY('250 MeV'));
+    const issued = definition((await getVersion(db, a.id, revA.versionNumber))!.results, 'Brho');
+    const otherProject = await makeProject(db, 'OTH', [[people.author, 'originator']]);
+    await newSheet('Elsewhere', otherProject, 'OTH');
+    const b = await newSheet('Dipole power supply');
+    await save(
+      b,
+      [
+        cite('TPT2-CALC-0001', 'A'),
+        'I_ratio = Brho_in / (1 T*m)',
+        cite('OTH-CALC-0001', 'A', 'x', 'x_other'),
+        cite('TPT2-CALC-0001', 'B', 'Brho', 'Brho_next'),
+        cite('TPT2-CALC-0001', 'A', 'Bfield', 'B_missing'),
+      ].join('\n'),
+    );
+    const results = (await getVersion(db, b.id))!.results;
+    const cited = definition(results, 'Brho_in');
+    // Pinned: the number as issued, at full precision, in its unit; the statement names the revision.
+    expect(cited.error).toBeNull();
+    expect(cited.value!.number).toBe(issued.value!.number);
+    expect(cited.value!.unit).toBe(issued.value!.unit);
+    expect(cited.references).toMatchObject([{ sheet: 'TPT2-CALC-0001', revision: 'A', name: 'Brho', status: 'current', error: null }]);
+    expect(definition(results, 'I_ratio').error).toBeNull();
+    expect(definition(results, 'x_other').error).toMatch(/OTH-CALC-0001 is not a sheet of this project/);
+    expect(definition(results, 'Brho_next').error).toMatch(/revision B of TPT2-CALC-0001 is not issued/);
+    expect(definition(results, 'B_missing').error).toMatch(/revision A of TPT2-CALC-0001 has no result named Bfield/);
+    // Only the citation that resolved is recorded with the version.
+    expect(await db.selectFrom('version_references').select(['revision_id', 'name']).execute()).toEqual([{ revision_id: revA.revisionId, name: 'Brho' }]);
+
+    // The same cells saved again after revision B is issued: still the value of revision A, now
+    // marked superseded (the evaluator's recent results are keyed on the citations as resolved).
+    await issue(a, RIGIDITY('230 MeV'));
+    const latest = (await getVersion(db, b.id))!;
+    await saveVersion(db, people.author, b, { parentNumber: latest.number, message: 'same cells', content: latest.content });
+    const again = definition((await getVersion(db, b.id))!.results, 'Brho_in');
+    expect(again.value!.number).toBe(issued.value!.number);
+    expect(again.references).toMatchObject([{ revision: 'A', status: 'superseded', supersededBy: 'B' }]);
+  });
+});
+
+describe('recording, superseded inputs and impact', ISSUING, () => {
   it('records citations with the version, flags superseded inputs until the sheet cites the current revision, and lists the impact', async () => {
     const db = testDb();
     const a = await newSheet('Gantry dipole rigidity');

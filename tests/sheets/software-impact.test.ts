@@ -77,7 +77,10 @@ beforeEach(async () => {
 
 const query = (q: Record<string, string>) => softwareImpactQuerySchema.parse(q);
 
-describe('software impact', () => {
+// Issuing renders and signs a PDF, which takes seconds on a busy machine: more time than the default.
+const ISSUING = { timeout: 120_000 };
+
+describe('software impact', ISSUING, () => {
   it('lists the versions evaluated with an engine version, only in the caller\'s projects, with counts to pick from', async () => {
     const db = testDb();
     const mine = await softwareImpact(db, alpha.author, query({ engineVersion: OLD_ENGINE }));
