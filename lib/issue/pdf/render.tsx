@@ -4,13 +4,14 @@
 // signatures → verification. Formulas are MathJax outlines (./tex-svg.ts); beside each one the
 // statement's source and result stay real text, so the file can be searched and copied.
 import { Document, Page, Text, View, renderToBuffer } from '@react-pdf/renderer';
-import type { ReactElement, ReactNode } from 'react';
+import { isValidElement, type ReactElement, type ReactNode } from 'react';
 import type { CellResult, StatementResult } from '@/lib/calc/types';
 import type { Cell } from '@/lib/sheets/content';
 import type { RevisionPdfData } from '../pdf-data';
 import { MONO_FONT, TEXT_FONT, registerPdfFonts } from './fonts';
 import { type Block, type Inline, markdownBlocks } from './markdown-blocks';
 import { MathBlock, MathGraphic, mathSize } from './math-view';
+import { Breakable, type FigureRenderer, PlotFigurePdf, ReferenceLines, statementExtras, UncertaintyLine } from './statement-extras';
 import { type TypesetMath, createTexCache } from './tex-svg';
 
 // Worldsheet's palette (tailwind.config.ts `tokens`): drafting-paper neutrals, one teal, and the
@@ -391,20 +392,47 @@ function Statement({ st, typeset }: { st: StatementResult; typeset: Typeset }) {
         ) : result ? (
           <Text style={{ fontWeight: 600, fontSize: 10, marginTop: 1 }}>{result}</Text>
         ) : null}
+        {!st.error && st.uncertainty ? <UncertaintyLine uncertainty={st.uncertainty} /> : null}
+        {st.references?.length ? <ReferenceLines references={st.references} /> : null}
       </View>
     </View>
   );
 }
 
+/** What the cells need besides the typesetter: the figure renderer (null when the sheet has no plots) and the sheet's significant figures. */
+interface CellContext {
+  typeset: Typeset;
+  figure: FigureRenderer | null;
+  significantFigures: number;
+}
+
 /** A calculation cell's lines in order, one element each (the cell frames them): statements with formula, substitution and result, comment-only lines as written. */
-function calcElements(cell: Cell, result: CellResult | undefined, typeset: Typeset): ReactElement[] {
+function calcElements(cell: Cell, result: CellResult | undefined, ctx: CellContext): ReactElement[] {
+  const { typeset } = ctx;
   const byLine = new Map((result?.statements ?? []).map((st) => [st.line, st]));
   const lines = cell.source.split('\n');
   const out: ReactElement[] = [];
   lines.forEach((line, i) => {
     const st = byLine.get(i + 1);
-    if (st) out.push(<Statement key={i} st={st} typeset={typeset} />);
-    else if (line.trim())
+    if (st) {
+      // Figure, sweep table and uncertainty budget follow as boxes of their own, indented like the
+      // formulas; a figure stays on the page of its statement (together they fit any page).
+      const extras = st.error ? [] : statementExtras(st, { width: FORMULA_WIDTH, significantFigures: ctx.significantFigures, figure: ctx.figure, keyPrefix: String(i) });
+      const figure = extras.length && extras[0].type === PlotFigurePdf ? extras.shift()! : null;
+      out.push(
+        figure ? (
+          <View key={i}>
+            <Statement st={st} typeset={typeset} />
+            <View style={{ marginLeft: GUTTER }}>{figure}</View>
+          </View>
+        ) : (
+          <Statement key={i} st={st} typeset={typeset} />
+        ),
+      );
+      for (const extra of extras) {
+        out.push(extra.type === Breakable ? <Breakable key={extra.key}><View style={{ marginLeft: GUTTER }}>{extra}</View></Breakable> : <View key={extra.key} style={{ marginLeft: GUTTER }}>{extra}</View>);
+      }
+    } else if (line.trim())
       out.push(
         <View key={i} style={{ flexDirection: 'row', paddingVertical: 2, borderTopWidth: 0.5, borderTopColor: C.rule }} wrap={false}>
           <Text style={[s.mono, { width: GUTTER, fontSize: 7, color: C.muted }]}>{`L${i + 1}`}</Text>
@@ -426,7 +454,8 @@ function calcElements(cell: Cell, result: CellResult | undefined, typeset: Types
  * one page and the rest is lost: seen with one box around the cells of a 180-cell sheet), and a
  * single cell may hold 500 statements; flat boxes of a statement each always paginate.
  */
-function cellElements(data: RevisionPdfData, typeset: Typeset): ReactElement[] {
+function cellElements(data: RevisionPdfData, ctx: CellContext): ReactElement[] {
+  const { typeset } = ctx;
   const results = data.version.results.cells;
   const byId = new Map(results.map((r) => [r.id, r]));
   const out: ReactElement[] = [];
@@ -440,7 +469,7 @@ function cellElements(data: RevisionPdfData, typeset: Typeset): ReactElement[] {
         <Text style={[s.mono, { fontSize: 6.5, color: C.muted }]}>{`id ${cell.id}`}</Text>
       </View>,
     );
-    const parts = cell.kind === 'calc' ? calcElements(cell, result, typeset) : markdownElements(markdownBlocks(cell.source), typeset, CONTENT_WIDTH - 2 * CELL_PAD - 2);
+    const parts = cell.kind === 'calc' ? calcElements(cell, result, ctx) : markdownElements(markdownBlocks(cell.source), typeset, CONTENT_WIDTH - 2 * CELL_PAD - 2);
     if (parts.length === 0) parts.push(<Text key="empty" style={[s.muted, { fontSize: 8, paddingVertical: 2 }]}>(empty)</Text>);
     parts.forEach((part, k) => {
       const first = k === 0;
@@ -448,7 +477,7 @@ function cellElements(data: RevisionPdfData, typeset: Typeset): ReactElement[] {
       out.push(
         <View
           key={`${cell.id}-${k}`}
-          wrap={cell.kind === 'text'}
+          wrap={cell.kind === 'text' || (isValidElement(part) && part.type === Breakable)}
           style={{
             ...frame,
             paddingHorizontal: CELL_PAD,
@@ -675,7 +704,7 @@ function Verification({ data }: { data: RevisionPdfData }) {
 
 // ---------------------------------------------------------------------------------------------
 
-export function RevisionPdfDocument({ data, typeset }: { data: RevisionPdfData; typeset: Typeset }) {
+export function RevisionPdfDocument({ data, typeset, figure = null }: { data: RevisionPdfData; typeset: Typeset; figure?: FigureRenderer | null }) {
   const t = data.titleBlock;
   return (
     <Document
@@ -700,7 +729,7 @@ export function RevisionPdfDocument({ data, typeset }: { data: RevisionPdfData; 
         <SectionHeading>2  Calculation record</SectionHeading>
         <Record data={data} />
         <SectionHeading>3  Calculation</SectionHeading>
-        {cellElements(data, typeset)}
+        {cellElements(data, { typeset, figure, significantFigures: data.version.content.significantFigures })}
         <SectionHeading>4  Attachments</SectionHeading>
         <Attachments data={data} />
         <SectionHeading>5  Evaluation</SectionHeading>
@@ -721,5 +750,9 @@ export async function renderRevisionPdf(data: RevisionPdfData): Promise<Buffer> 
   registerPdfFonts();
   // One TeX → outline conversion per distinct string in this document.
   const typeset = createTexCache();
-  return renderToBuffer(<RevisionPdfDocument data={data} typeset={typeset} />);
+  // Plots are drawn by Observable Plot on a jsdom document (./svg-to-pdf.tsx), loaded only for a
+  // sheet that has one, so issuing any other sheet (and every module importing this one) skips it.
+  const hasPlot = data.version.results.cells.some((c) => c.statements.some((st) => st.plot));
+  const figure: FigureRenderer | null = hasPlot ? (await import('./svg-to-pdf')).plotPdfGraphic : null;
+  return renderToBuffer(<RevisionPdfDocument data={data} typeset={typeset} figure={figure} />);
 }

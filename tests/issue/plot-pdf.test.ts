@@ -1,0 +1,264 @@
+// The issued PDF of a version whose results hold a plot, sweep tables, uncertainties and a citation
+// (hand-made results of the engine's types, as lib/calc/types.ts defines them), read back with
+// poppler: the words with pdftotext, the figure as pixels with pdftoppm, images with pdfimages.
+import { execFileSync } from 'node:child_process';
+import { mkdirSync, mkdtempSync, readFileSync, writeFileSync } from 'node:fs';
+import { tmpdir } from 'node:os';
+import path from 'node:path';
+import { beforeAll, describe, expect, it } from 'vitest';
+import type { CellResult, PlotData, StatementResult, StudyTable, UncertaintyResult } from '../../lib/calc/types';
+import type { RevisionPdfData } from '../../lib/issue/pdf-data';
+import { renderRevisionPdf } from '../../lib/issue/pdf/render';
+import { buildRevisionPdfData, FIXTURE_CELLS } from './pdf-fixture';
+
+const folder = mkdtempSync(path.join(tmpdir(), 'ws-plot-pdf-'));
+const run = (tool: string, args: string[]) => execFileSync(tool, args, { encoding: 'utf8', maxBuffer: 64 * 1024 * 1024 });
+const flat = (s: string) => s.replace(/\s+/g, ' ');
+
+// SI Brochure, 9th ed.: c exact, g_n = 9.806 65 m/s² exact; IAU light-year = c × 365.25 d.
+const c = 299_792_458;
+const a = 9.80665;
+const year = 365.25 * 86_400;
+const ly = c * year;
+
+/** Hyperbolic motion from rest (MTW §6.2), x against ct in light-years. */
+const worldline: Array<[number, number]> = Array.from({ length: 41 }, (_, i) => {
+  const t = (3 * year * i) / 40;
+  return [(((c * c) / a) * (Math.sqrt(1 + ((a * t) / c) ** 2) - 1)) / ly, (c * t) / ly];
+});
+
+const plot: PlotData = {
+  kind: 'spacetime',
+  x: { label: 'x', unit: 'ly' },
+  y: { label: 'ct', unit: 'ly' },
+  series: [{ name: 'rocket at 1 g', points: worldline }],
+  horizons: [{ name: 'Rindler horizon', distance: (c * c) / a / ly }],
+};
+
+// Invented figures in the shape the engine gives (common practice, no published source).
+const sweep: StudyTable = {
+  columns: [
+    { name: 'T_kin', unit: 'MeV', tex: 'T_{kin}' },
+    { name: 'Brho', unit: 'T m', tex: 'B\\rho' },
+  ],
+  rows: [
+    [70, 1.2296],
+    [150, 1.8343],
+    [-10, null],
+    [250, 2.4297],
+  ],
+  errors: [null, null, 'speedFromKinetic: the kinetic energy must not be negative (got −10 MeV)', null],
+};
+
+/** A sweep long enough to run over a page break. */
+const longSweep: StudyTable = {
+  columns: [
+    { name: 'E_step', unit: 'MeV', tex: 'E' },
+    { name: 'beta_step', unit: null, tex: '\\beta' },
+  ],
+  rows: Array.from({ length: 140 }, (_, i) => [70 + i, Math.sqrt(1 - 1 / (1 + (70 + i) / 938.272) ** 2)]),
+  errors: Array.from({ length: 140 }, () => null),
+};
+
+const inputUncertainty: UncertaintyResult = {
+  kind: 'input',
+  u: 0.5,
+  U: 1,
+  k: 2,
+  unit: 'MeV',
+  text: '250.0 ± 1.0 MeV (k = 2)',
+  tex: '250.0 \\pm 1.0\\ \\mathrm{MeV}',
+  budget: [],
+  nonLinear: false,
+  monteCarlo: null,
+  warning: null,
+};
+
+const propagated: UncertaintyResult = {
+  kind: 'propagated',
+  u: 0.00061,
+  U: 0.0012,
+  k: 2,
+  unit: 'T m',
+  text: '2.4297 ± 0.0012 T·m (k = 2)',
+  tex: '2.4297 \\pm 0.0012\\ \\mathrm{T}\\cdot\\mathrm{m}',
+  budget: [
+    { name: 'T_u', valueText: '250 MeV', uText: '0.5 MeV', sensitivity: 7.7e-3, sensitivityText: '0.001 22 T·m/MeV', contribution: 0.00061, contributionText: '0.000 61 T·m', share: 0.9991 },
+    { name: 'm_p', valueText: '1.672 62 × 10⁻²⁷ kg', uText: '5.2 × 10⁻³⁷ kg', sensitivity: 1e26, sensitivityText: '1.1 × 10²⁶ T·m/kg', contribution: 2e-11, contributionText: '2 × 10⁻¹¹ T·m', share: 0.0009 },
+  ],
+  nonLinear: true,
+  monteCarlo: { trials: 200_000, outOfDomain: 12, seed: 20261202, mean: 2.42969, u: 0.00061, low: 2.42848, high: 2.43092, tolerance: 0.00005, dLow: 0.00002, dHigh: 0.00003, agrees: true, text: 'mean 2.429 69 T·m, u = 0.000 61 T·m, 95.45 % interval [2.428 48, 2.430 92] T·m' },
+  warning: '12 of 200 000 draws fell outside the model\'s domain',
+};
+
+const statement = (line: number, source: string, extra: Partial<StatementResult>): StatementResult => ({
+  line,
+  source,
+  kind: 'definition',
+  name: null,
+  tex: '',
+  substitutedTex: null,
+  value: null,
+  criterion: null,
+  error: null,
+  ...extra,
+});
+
+const STUDY_SOURCE = [
+  'T_u = 250 MeV ± 0.5 MeV',
+  'Brho_u = magneticRigidity(momentumFromKinetic(T_u, m_p), q_e) to T*m',
+  'B_ref = fromRevision("TPT2-CALC-0003", "B", "Brho")',
+  'sweep(T_kin, [70, 150, -10, 250] MeV, Brho)',
+  'spacetime(hyperbolicDistance(g_n, t) to ly, c*t to ly)',
+  'sweep(E_step, 70 MeV : 1 MeV : 209 MeV, beta_step)',
+];
+
+const studyCell: CellResult = {
+  id: 'studies',
+  index: FIXTURE_CELLS.length,
+  kind: 'calc',
+  ok: true,
+  error: null,
+  defines: ['T_u', 'Brho_u', 'B_ref'],
+  uses: [],
+  statements: [
+    statement(1, STUDY_SOURCE[0], { name: 'T_u', tex: 'T_u = 250\\ \\mathrm{MeV}', value: { kind: 'quantity', text: '250 MeV', tex: '250\\ \\mathrm{MeV}', number: 250, unit: 'MeV', raw: null }, uncertainty: inputUncertainty }),
+    statement(2, STUDY_SOURCE[1], {
+      name: 'Brho_u',
+      tex: 'B\\rho_u = \\mathrm{magneticRigidity}(p, q_e)',
+      value: { kind: 'quantity', text: '2.429 68 T·m', tex: '2.429\\,68\\ \\mathrm{T}\\cdot\\mathrm{m}', number: 2.42968, unit: 'T m', raw: null },
+      uncertainty: propagated,
+    }),
+    statement(3, STUDY_SOURCE[2], {
+      name: 'B_ref',
+      tex: 'B_{ref} = 2.4297\\ \\mathrm{T}\\cdot\\mathrm{m}',
+      value: { kind: 'quantity', text: '2.4297 T·m', tex: '2.4297\\ \\mathrm{T}\\cdot\\mathrm{m}', number: 2.4297, unit: 'T m', raw: null },
+      references: [
+        { sheet: 'TPT2-CALC-0003', revision: 'B', name: 'Brho', value: { number: 2.4297, unit: 'T m', uncertainty: null }, error: null, status: 'superseded', supersededBy: 'C', title: 'Rigidity of the 250 MeV beam', versionSha256: 'ab'.repeat(32) },
+      ],
+    }),
+    statement(4, STUDY_SOURCE[3], { kind: 'sweep', table: sweep }),
+    statement(5, STUDY_SOURCE[4], { kind: 'plot', plot }),
+    statement(6, STUDY_SOURCE[5], { kind: 'sweep', table: longSweep }),
+  ],
+};
+
+let data: RevisionPdfData;
+let file: string;
+let pageCount: number;
+const pages: string[] = [];
+let whole: string;
+let plotPage: number;
+const screenshots = path.join(process.cwd(), '.data', 'screenshots');
+
+beforeAll(async () => {
+  data = buildRevisionPdfData({ cells: [...FIXTURE_CELLS, { id: 'studies', kind: 'calc', source: STUDY_SOURCE.join('\n') }] });
+  data.version.results.cells = [...data.version.results.cells.filter((cell) => cell.id !== 'studies'), studyCell];
+  const bytes = await renderRevisionPdf(data);
+  file = path.join(folder, 'studies.pdf');
+  writeFileSync(file, bytes);
+  pageCount = Number(/^Pages:\s+(\d+)/m.exec(run('pdfinfo', [file]))?.[1]);
+  for (let p = 1; p <= pageCount; p++) pages[p] = run('pdftotext', ['-layout', '-f', String(p), '-l', String(p), file, '-']);
+  whole = flat(run('pdftotext', [file, '-']));
+  plotPage = pages.findIndex((t) => t?.includes('ct (ly)'));
+  // A picture of the figure's page for people to look at (.data/ is git-ignored).
+  mkdirSync(screenshots, { recursive: true });
+  if (plotPage > 0) run('pdftoppm', ['-png', '-r', '60', '-f', String(plotPage), '-l', String(plotPage), '-singlefile', file, path.join(screenshots, 'pdf-plot-page')]);
+}, 180_000);
+
+/** The page as RGB pixels at `dpi` (pdftoppm's binary PPM). */
+function pagePixels(page: number, dpi: number): { width: number; height: number; rgb: Buffer } {
+  const out = path.join(folder, `page-${page}`);
+  run('pdftoppm', ['-r', String(dpi), '-f', String(page), '-l', String(page), '-singlefile', file, out]);
+  const ppm = readFileSync(`${out}.ppm`);
+  const m = /^P6\s+(\d+)\s+(\d+)\s+255\s/.exec(ppm.subarray(0, 40).toString('latin1'))!;
+  return { width: Number(m[1]), height: Number(m[2]), rgb: ppm.subarray(m[0].length) };
+}
+
+describe('a plot in the issued PDF', () => {
+  it('is on a page with its axis titles, legend, horizon and caption as text', () => {
+    expect(plotPage).toBeGreaterThan(0);
+    const text = flat(pages[plotPage]);
+    expect(text).toContain('x (ly)');
+    expect(text).toContain('ct (ly)');
+    expect(text).toContain('rocket at 1 g');
+    expect(text).toContain('light lines x = ±ct');
+    expect(text).toContain('Figure, L5');
+    expect(text).toContain('Space-time diagram, ct (ly) against x (ly), equal scales');
+    // The horizon's label runs along the line at 45°, so pdftotext may cut it into pieces: the whole
+    // words are in the caption, the rotated label's own glyphs are checked in the figure's pixels.
+    expect(whole).toContain('Rindler horizon x = ct − 0.968');
+  });
+
+  it('is drawn as vector graphics: the worldline\'s blue and the horizon\'s brown are on the page, and there are no images', () => {
+    const { rgb } = pagePixels(plotPage, 60);
+    let blue = 0;
+    let brown = 0;
+    for (let i = 0; i + 2 < rgb.length; i += 3) {
+      const [r, g, b] = [rgb[i], rgb[i + 1], rgb[i + 2]];
+      if (Math.abs(r - 0x00) < 40 && Math.abs(g - 0x72) < 40 && Math.abs(b - 0xb2) < 40) blue++;
+      if (Math.abs(r - 0x6f) < 35 && Math.abs(g - 0x45) < 35 && Math.abs(b - 0x00) < 35) brown++;
+    }
+    // A 3-year worldline over ~300 pt at 60 dpi is a few hundred pixels of line.
+    expect(blue).toBeGreaterThan(150);
+    expect(brown).toBeGreaterThan(50);
+    const images = run('pdfimages', ['-list', '-f', String(plotPage), '-l', String(plotPage), file]).split('\n').slice(2).filter((l) => l.trim());
+    expect(images).toEqual([]);
+  });
+
+  it('uses only the embedded faces for its text', () => {
+    const rows = run('pdffonts', [file]).split('\n').slice(2).filter((l) => l.trim());
+    for (const row of rows) expect(row).toMatch(/^[A-Z]{6}\+(SourceSans3-(Regular|Italic|SemiBold|Bold)|NotoSansMono-(Regular|Bold))\s/);
+  });
+});
+
+describe('a sweep table in the issued PDF', () => {
+  it('has a header of names and readable units, numbers at the sheet\'s significant figures, and the failed step with its error', () => {
+    expect(whole).toContain('Sweep, L4: 4 steps, 1 failed');
+    const layout = flat(pages.join('\n'));
+    expect(layout).toMatch(/T_kin \(MeV\)\s+Brho \(T·m\)/);
+    expect(layout).toContain('150 1.8343');
+    expect(layout).toContain('−10 Step failed: speedFromKinetic: the kinetic energy must not be negative (got −10 MeV)');
+  });
+
+  it('repeats its header on each page it runs onto', () => {
+    // Rows of the 140-step sweep are "E  β" lines: 70 … 209 MeV, β from 0.366 to 0.576.
+    const row = /^\s*(\d{2,3})\s+0\.\d+(?:\s\d+)?\s*$/m;
+    const withRows = pages.map((t, p) => ({ p, t: t ?? '' })).filter(({ t }) => row.test(t));
+    expect(withRows.length).toBeGreaterThanOrEqual(2);
+    for (const { p, t } of withRows) {
+      const lines = t.split('\n');
+      const header = lines.findIndex((l) => /E_step \(MeV\)\s+beta_step/.test(l));
+      const firstRow = lines.findIndex((l) => row.test(l));
+      expect(header, `page ${p}: header`).toBeGreaterThanOrEqual(0);
+      expect(header, `page ${p}: header above the rows`).toBeLessThan(firstRow);
+    }
+    // Every step is there once, in order.
+    const steps = withRows.flatMap(({ t }) => t.split('\n').filter((l) => row.test(l)).map((l) => Number(l.trim().split(/\s+/)[0])));
+    expect(steps).toEqual(longSweep.rows.map((r) => r[0]));
+  });
+});
+
+describe('uncertainty and citations in the issued PDF', () => {
+  it('shows "y ± U (k = 2)" under a result and an input\'s standard uncertainty', () => {
+    expect(whole).toContain('2.4297 ± 0.0012 T·m (k = 2)');
+    expect(whole).toContain('standard uncertainty u = 0.5 MeV');
+  });
+
+  it('shows the budget: each input\'s contribution and share, u_c and U, the Monte Carlo check and the caution', () => {
+    expect(whole).toContain('Uncertainty budget, L2');
+    const layout = flat(pages.join('\n'));
+    expect(layout).toMatch(/Input\s+Value\s+Standard uncertainty\s+Sensitivity coefficient\s+Contribution\s+Share/);
+    expect(layout).toContain('T_u 250 MeV 0.5 MeV 0.001 22 T·m/MeV 0.000 61 T·m 99.9 %');
+    // Two significant digits (GUM 7.2.6), written as the sheet writes numbers below 10⁻³ (lib/calc/format.ts).
+    expect(whole).toContain('combined standard uncertainty u_c = 6.1 × 10⁻⁴ T·m; expanded uncertainty U = 0.0012 T·m (k = 2)');
+    expect(whole).toContain('Monte Carlo propagation (JCGM 101): 200 000 trials, seed 20261202');
+    expect(whole).toContain('Agrees with the first-order result');
+    expect(whole).toContain("Caution: 12 of 200 000 draws fell outside the model's domain");
+  });
+
+  it('names the cited revision under the statement, with a badge when it is superseded', () => {
+    const line = pages.join('\n').split('\n').find((l) => l.includes('from TPT2-CALC-0003 rev. B, Brho'));
+    expect(line && flat(line).trim()).toBe('from TPT2-CALC-0003 rev. B, Brho (Rigidity of the 250 MeV beam) SUPERSEDED BY REV. C');
+  });
+});
