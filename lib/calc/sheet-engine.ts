@@ -405,7 +405,8 @@ export function createSheetEngine(): SheetEngine {
     // names), for re-evaluating what depends on an input: sweeps, plots, uncertainty propagation.
     const chain: ChainStatement[] = [];
     const chainIndex = new Map<string, number>();
-    const upstream = new Map<string, Set<string>>();
+    /** Names each definition reads directly. What depends on what further is worked out on demand. */
+    const directUses = new Map<string, readonly string[]>();
     const compiledOf = (st: ParsedStatement) => {
       if (!st.compiled) {
         const node = st.node!;
@@ -417,12 +418,7 @@ export function createSheetEngine(): SheetEngine {
       for (const st of statements) {
         if (!st.defines || chainIndex.has(st.defines) || !st.node || st.parseError || st.staticError) continue;
         const direct = usesOf(st);
-        const up = new Set<string>();
-        for (const u of direct) {
-          up.add(u);
-          for (const x of upstream.get(u) ?? []) up.add(x);
-        }
-        upstream.set(st.defines, up);
+        directUses.set(st.defines, direct);
         chainIndex.set(st.defines, chain.length);
         const name = st.defines;
         chain.push({
@@ -438,6 +434,30 @@ export function createSheetEngine(): SheetEngine {
       }
     }
     const reevaluator = new Reevaluator(scope, chain, chainIndex);
+    // The uncertain inputs a name depends on (directly or through other names), memoised: asked for
+    // only once the sheet has an uncertain input, and only for names defined above the one asking.
+    const uncertainMemo = new Map<string, readonly string[]>();
+    const uncertainInputsOf = (name: string): readonly string[] => {
+      let known = uncertainMemo.get(name);
+      if (known) return known;
+      const found = new Set<string>();
+      for (const u of directUses.get(name) ?? []) {
+        if (inputU.has(u)) found.add(u);
+        for (const x of uncertainInputsOf(u)) found.add(x);
+      }
+      known = [...found].sort((a, b) => chainIndex.get(a)! - chainIndex.get(b)!);
+      uncertainMemo.set(name, known);
+      return known;
+    };
+    /** Does `name` depend on `input` (directly or through other names)? */
+    const dependsOn = (name: string, input: string, memo = new Map<string, boolean>()): boolean => {
+      const known = memo.get(name);
+      if (known !== undefined) return known;
+      memo.set(name, false);
+      const answer = (directUses.get(name) ?? []).some((u) => u === input || dependsOn(u, input, memo));
+      memo.set(name, answer);
+      return answer;
+    };
     const definedAt = new Map<string, { cell: number; line: number }>();
     /** Names whose value is unavailable, with why. */
     const failed = new Map<string, string>();
@@ -608,7 +628,10 @@ export function createSheetEngine(): SheetEngine {
               input,
               values: list,
               targets,
-              dependsOnInput: (t) => t === input || (upstream.get(t)?.has(input) ?? false),
+              dependsOnInput: (() => {
+                const memo = new Map<string, boolean>();
+                return (t: string) => t === input || dependsOn(t, input, memo);
+              })(),
             });
             result.table = out.table;
             result.plot = out.plot;
@@ -659,7 +682,7 @@ export function createSheetEngine(): SheetEngine {
           if (st.kind === 'definition' && uncertainties.has(st.defines!)) {
             result.uncertainty = inputUncertainty(math, value, uncertainties.get(st.defines!), sig);
           } else if (st.kind === 'definition' && siOf(math, value) !== null) {
-            const inputs = [...(upstream.get(st.defines!) ?? [])].filter((n) => inputU.has(n)).sort((a, b) => chainIndex.get(a)! - chainIndex.get(b)!);
+            const inputs = inputU.size ? uncertainInputsOf(st.defines!) : [];
             if (inputs.length) {
               try {
                 result.uncertainty = propagateUncertainty(
