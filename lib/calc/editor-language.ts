@@ -62,7 +62,7 @@ const IDENT = /[A-Za-z_][A-Za-z0-9_]*/y;
 const POWER = /\^\s*(?:-?\d+(?:\.\d+)?|\(\s*-?\d+(?:\.\d+)?\s*\))/y;
 const NUMBER = /(?:\d+\.?\d*|\.\d+)(?:[eE][+-]?\d+)?/;
 const COMPARISON = /^(?:<=|>=|==|!=|<|>|≤|≥|≠)/;
-const OPERATOR = /^(?:\.\*|\.\/|\.\^|[-+*/^%!=:'?|&~])/;
+const OPERATOR = /^(?:\+\/-|±|\.\*|\.\/|\.\^|[-+*/^%!=:'?|&~])/;
 
 /** The end of a unit expression starting at `start` (the rule of unit-literals.ts), or `start`. */
 export function unitExpressionEnd(line: string, start: number, spaced: boolean, isUnit: (name: string) => boolean = isUnitName): number {
