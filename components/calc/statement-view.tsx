@@ -1,9 +1,37 @@
-import type { StatementResult } from '@/lib/calc/types';
+import { referenceText } from '@/lib/calc/reference-text';
+import type { ResolvedReference, StatementResult } from '@/lib/calc/types';
+import { PlotView } from './plot-view';
+import { StudyTable } from './study-table';
 import { TexMath } from './tex-math';
+import { UncertaintyDetails, UncertaintyValue } from './uncertainty-view';
 
-/** One statement as a checker reads it: formula, values substituted, result; or its error. */
-export function StatementView({ statement }: { statement: StatementResult }) {
+/** Where a version's sweep table downloads from (its study route); without it the CSV is built in the page. */
+export type StudyCsvLink = (line: number) => { href: string; fileName: string };
+
+/** "from TPT2-CALC-0003 rev. B, Brho", with a badge when that revision is superseded or withdrawn. */
+function ReferenceLines({ references }: { references: ResolvedReference[] }) {
+  return (
+    <ul className="space-y-0.5 text-xs text-ink-muted">
+      {references.map((ref, i) => {
+        const r = referenceText(ref);
+        return (
+          <li key={i} className="flex flex-wrap items-baseline gap-x-2">
+            <span title={r.title ?? undefined}>{r.text}</span>
+            {r.badge ? <span className="rounded border border-caution-rule bg-caution-soft px-1.5 text-xs font-bold text-caution">{r.badge}</span> : null}
+            {r.problem ? <span className="text-fail">Cannot be used: {r.problem}</span> : null}
+          </li>
+        );
+      })}
+    </ul>
+  );
+}
+
+/** One statement as a checker reads it: formula, values substituted, result; or its error. Then what it cites, its plot, sweep table and uncertainty budget. */
+export function StatementView({ statement, significantFigures = 6, studyCsv }: { statement: StatementResult; significantFigures?: number; studyCsv?: StudyCsvLink }) {
   const s = statement;
+  const references = s.references ?? [];
+  const extras = !s.error && (s.plot || s.table || s.uncertainty?.kind === 'propagated');
+  const csv = s.table && studyCsv ? studyCsv(s.line) : null;
   return (
     <div className="grid gap-1 border-t border-rule py-2 first:border-t-0 sm:grid-cols-[minmax(0,1fr)_auto] sm:gap-4">
       <div className="min-w-0 space-y-1 overflow-x-auto">
@@ -16,6 +44,7 @@ export function StatementView({ statement }: { statement: StatementResult }) {
             Line {s.line}: {s.error}
           </p>
         ) : null}
+        {references.length ? <ReferenceLines references={references} /> : null}
       </div>
       <div className="text-right sm:min-w-40">
         {s.criterion ? (
@@ -33,7 +62,15 @@ export function StatementView({ statement }: { statement: StatementResult }) {
             {s.value.text}
           </p>
         ) : null}
+        {!s.error && s.uncertainty ? <UncertaintyValue uncertainty={s.uncertainty} /> : null}
       </div>
+      {extras ? (
+        <div className="min-w-0 sm:col-span-2">
+          {s.plot ? <PlotView plot={s.plot} significantFigures={significantFigures} label={`Figure, line ${s.line}`} /> : null}
+          {s.table ? <StudyTable table={s.table} line={s.line} significantFigures={significantFigures} csvHref={csv?.href} csvFileName={csv?.fileName} /> : null}
+          {s.uncertainty?.kind === 'propagated' ? <UncertaintyDetails uncertainty={s.uncertainty} line={s.line} /> : null}
+        </div>
+      ) : null}
     </div>
   );
 }

@@ -1,0 +1,93 @@
+'use client';
+
+import { useEffect, useRef, useState } from 'react';
+import { formatNumberText } from '@/lib/calc/format';
+import type { PlotData } from '@/lib/calc/types';
+import { unitLabel } from '@/lib/calc/unit-label';
+import { plotAxisLabels, plotDescription, plotElement } from '@/lib/plots/plot-figure';
+
+const MAX_WIDTH = 760;
+
+/**
+ * A statement's plot, drawn in the browser by the same code as the issued PDF's figure
+ * (lib/plots/plot-figure.ts), with a text alternative: the caption says what is plotted, and
+ * "Show data" lists every point, so the numbers are there for screen readers and keyboards.
+ */
+export function PlotView({ plot, significantFigures = 6, label }: { plot: PlotData; significantFigures?: number; label?: string }) {
+  const box = useRef<HTMLDivElement>(null);
+  const [width, setWidth] = useState(0);
+  const description = plotDescription(plot);
+
+  useEffect(() => {
+    const el = box.current;
+    if (!el) return;
+    const measure = () => setWidth(Math.min(MAX_WIDTH, Math.floor(el.clientWidth)));
+    measure();
+    const observer = new ResizeObserver(measure);
+    observer.observe(el);
+    return () => observer.disconnect();
+  }, []);
+
+  useEffect(() => {
+    const el = box.current;
+    if (!el || width < 120) return;
+    const svg = plotElement(plot, window.document, { width, fontFamily: 'inherit' });
+    svg.setAttribute('role', 'img');
+    svg.setAttribute('aria-label', `${description} The points are listed under "Show data".`);
+    el.replaceChildren(svg);
+  }, [plot, width, description]);
+
+  const axes = plotAxisLabels(plot);
+  const horizonUnit = unitLabel(plot.x.unit ?? plot.y.unit);
+  return (
+    <figure className="my-2 min-w-0">
+      <div ref={box} className="w-full text-ink" style={{ minHeight: 160 }} />
+      <figcaption className="mt-1 text-xs text-ink-muted">
+        {label ? <span className="font-semibold text-ink">{label}: </span> : null}
+        {description}
+      </figcaption>
+      <details className="mt-1 text-sm">
+        <summary className="cursor-pointer text-accent underline-offset-2 hover:underline">Show data</summary>
+        <div className="mt-1 space-y-3">
+          {plot.series.map((s, i) => (
+            <div key={i} className="max-h-80 overflow-auto rounded border border-rule" tabIndex={0} role="region" aria-label={`Points of ${s.name}`}>
+              <table className="w-full border-collapse text-xs">
+                <caption className="bg-paper px-2 py-1 text-left font-semibold">
+                  {s.name} ({s.points.length} point{s.points.length === 1 ? '' : 's'})
+                </caption>
+                <thead>
+                  <tr>
+                    <th scope="col" className="border-b border-rule px-2 py-1 text-right font-semibold">
+                      {axes.x}
+                    </th>
+                    <th scope="col" className="border-b border-rule px-2 py-1 text-right font-semibold">
+                      {axes.y}
+                    </th>
+                  </tr>
+                </thead>
+                <tbody className="font-mono">
+                  {s.points.map(([x, y], k) => (
+                    <tr key={k} className="border-t border-rule first:border-t-0">
+                      <td className="px-2 py-0.5 text-right">{formatNumberText(x, significantFigures)}</td>
+                      <td className="px-2 py-0.5 text-right">{formatNumberText(y, significantFigures)}</td>
+                    </tr>
+                  ))}
+                </tbody>
+              </table>
+            </div>
+          ))}
+          {plot.kind === 'spacetime' && plot.horizons?.length ? (
+            <ul className="list-disc pl-5 text-xs">
+              {plot.horizons.map((h, i) => (
+                <li key={i}>
+                  {h.name}: x = ct − {formatNumberText(h.distance, significantFigures)}
+                  {horizonUnit ? ` ${horizonUnit}` : ''}
+                </li>
+              ))}
+            </ul>
+          ) : null}
+        </div>
+      </details>
+    </figure>
+  );
+}
