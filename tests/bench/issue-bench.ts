@@ -11,16 +11,15 @@ import { fileURLToPath } from 'node:url';
 import { createDb } from '../../db/index';
 import { benchClusterPort, LocalCluster } from '../../db/local-postgres';
 import { migrateToLatest } from '../../db/migrate';
-import { decide, saveCheckWork, submitForCheck } from '../../lib/checks/workflow';
 import { ensureJobQueues } from '../../lib/jobs/queue';
 import { processIssueJob, requestIssue, revisionPdfData } from '../../lib/issue/issue';
 import { renderRevisionPdf } from '../../lib/issue/pdf/render';
 import { Supervisor } from '../../lib/ops/supervisor';
-import { createSheet, getVersion, saveVersion } from '../../lib/sheets/sheets';
 import { createObjectStore } from '../../lib/storage/object-store';
 import { startFakeObjectStore } from '../../lib/storage/fake-server';
 import { storageConfig } from '../../lib/storage/config';
-import { makeProject, makeUser, PASSWORD } from '../support/people';
+import { approveNewVersion, makeSheet, makeTeam } from '../support/approved-sheet';
+import { PASSWORD } from '../support/people';
 
 const root = path.resolve(path.dirname(fileURLToPath(import.meta.url)), '..', '..');
 const DATABASE = 'worldsheet_issue_bench';
@@ -63,23 +62,16 @@ async function main(supervisor: Supervisor) {
   await ensureJobQueues(url);
   const store = createObjectStore(storageConfig());
 
-  const [author, checker, approver, controller] = await Promise.all(['author', 'checker', 'approver', 'controller'].map((n) => makeUser(db, `${n}@bench.example`)));
-  const projectId = await makeProject(db, 'BNCH', [[author, 'originator'], [checker, 'checker'], [approver, 'approver'], [controller, 'controller']]);
+  const team = await makeTeam(db, { code: 'BNCH', domain: 'bench.example' });
   const totals: number[] = [];
   const renders: number[] = [];
   const sizes: number[] = [];
   for (let run = 0; run <= RUNS; run++) {
-    const created = await createSheet(db, author, { id: projectId, code: 'BNCH' }, { title: `Beam line ${run}`, safetyRelated: false, objective: '' });
-    const sheet = { id: created.id, project_id: projectId, number: created.number, title: `Beam line ${run}` };
-    const v1 = (await getVersion(db, sheet.id, 1))!;
-    await saveVersion(db, author, sheet, { parentNumber: 1, message: '100 cells', content: { ...v1.content, cells: hundredCells(run) } });
-    const { id } = await submitForCheck(db, author, sheet, { versionNumber: 2, checkerId: checker.userId, password: PASSWORD });
-    await saveCheckWork(db, checker, id, { verificationMethod: 'design_review' });
-    await decide(db, checker, id, { action: 'sign', password: PASSWORD });
-    await decide(db, approver, id, { action: 'approve', password: PASSWORD });
+    const sheet = await makeSheet(db, team.author, { id: team.projectId, code: 'BNCH' }, { title: `Beam line ${run}` });
+    await approveNewVersion(db, team, sheet, { message: '100 cells', cells: hundredCells(run) });
 
     const t0 = performance.now();
-    const { jobId } = await requestIssue(db, controller, sheet, { versionNumber: 2, password: PASSWORD });
+    const { jobId } = await requestIssue(db, team.controller, sheet, { versionNumber: 2, password: PASSWORD });
     const revisionId = await processIssueJob(db, store, jobId);
     const total = performance.now() - t0;
     const r0 = performance.now();

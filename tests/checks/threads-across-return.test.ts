@@ -4,10 +4,10 @@
 import { beforeEach, expect, it } from 'vitest';
 import type { Actor } from '../../lib/auth/actor';
 import { addComment, decide, getCheckDetail, resolveThread, saveCheckWork, submitForCheck } from '../../lib/checks/workflow';
-import { AppError } from '../../lib/errors/app-error';
 import { createSheet, getVersion, saveVersion } from '../../lib/sheets/sheets';
 import { testDb } from '../support/database';
 import { makeProject, makeUser, PASSWORD } from '../support/people';
+import { refusal } from '../support/refusal';
 
 let author: Actor;
 let checker: Actor;
@@ -16,16 +16,6 @@ let sheet: { id: string; project_id: string; number: number; title: string };
 async function edit(source: string) {
   const latest = (await getVersion(testDb(), sheet.id))!;
   return saveVersion(testDb(), author, sheet, { parentNumber: latest.number, message: 'edit', content: { ...latest.content, cells: [{ id: 'c1', kind: 'calc', source }] } });
-}
-
-async function refusal(promise: Promise<unknown>): Promise<AppError> {
-  try {
-    await promise;
-  } catch (error) {
-    if (error instanceof AppError) return error;
-    throw error;
-  }
-  throw new Error('not refused');
 }
 
 beforeEach(async () => {

@@ -6,11 +6,11 @@ import { sql } from 'kysely';
 import { beforeEach, describe, expect, it } from 'vitest';
 import type { Actor } from '../../lib/auth/actor';
 import { addComment, decide, getCheckDetail, listQueue, resolveThread, saveCheckWork, sheetWorkflow, submitForCheck } from '../../lib/checks/workflow';
-import { AppError } from '../../lib/errors/app-error';
 import { createSheet, getVersion, saveVersion } from '../../lib/sheets/sheets';
 import { testDb } from '../support/database';
 import { drainMailQueue, waitForMail } from '../support/mailbox';
 import { makeProject, makeUser, PASSWORD } from '../support/people';
+import { refusal } from '../support/refusal';
 
 interface World {
   author: Actor;
@@ -48,16 +48,6 @@ async function world(safetyRelated = false): Promise<World> {
 async function edit(actor: Actor, sheet: World['sheet'], source: string) {
   const latest = (await getVersion(testDb(), sheet.id))!;
   return saveVersion(testDb(), actor, sheet, { parentNumber: latest.number, message: 'edit', content: { ...latest.content, cells: [{ id: 'c1', kind: 'calc', source }] } });
-}
-
-async function refusal(promise: Promise<unknown>): Promise<AppError> {
-  try {
-    await promise;
-  } catch (error) {
-    if (error instanceof AppError) return error;
-    throw error;
-  }
-  throw new Error('not refused');
 }
 
 /** Submits the latest version to `checker`, has it checked (design review) and returns the check id. */

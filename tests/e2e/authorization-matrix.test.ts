@@ -6,15 +6,14 @@ import { readdirSync, readFileSync, statSync } from 'node:fs';
 import path from 'node:path';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { DEMO_PASSWORD, seedDemo } from '../../db/seed';
-import { addComment, decide, saveCheckWork, submitForCheck } from '../../lib/checks/workflow';
+import { addComment, submitForCheck } from '../../lib/checks/workflow';
 import { processIssueJob, requestIssue } from '../../lib/issue/issue';
-import { createSheet } from '../../lib/sheets/sheets';
 import { uploadAttachment } from '../../lib/attachments/attachments';
 import { createApiToken } from '../../lib/auth/api-tokens';
 import { getObjectStore } from '../../lib/storage/object-store';
-import type { Actor } from '../../lib/auth/actor';
+import { checkAndApprove, makeSheet } from '../support/approved-sheet';
 import { resetDatabase, testDb } from '../support/database';
-import { makeProject, makeUser } from '../support/people';
+import { actorByEmail, makeProject, makeUser } from '../support/people';
 import { startApp, type RunningApp } from './harness';
 
 type Who = 'anonymous' | 'outsider' | 'originator' | 'checker' | 'approver' | 'controller' | 'viewer' | 'admin';
@@ -183,38 +182,29 @@ beforeAll(async () => {
   const spare = await makeUser(testDb(), 'spare@example.test');
   const sheet = await testDb().selectFrom('sheets').select('id').where('project_id', '=', projectId).where('number', '=', 1).executeTakeFirstOrThrow();
   const version = await testDb().selectFrom('versions').select('content').where('sheet_id', '=', sheet.id).where('number', '=', 1).executeTakeFirstOrThrow();
-  const originator = await testDb().selectFrom('users').select(['id', 'email', 'display_name']).where('email', '=', 'originator@demo.test').executeTakeFirstOrThrow();
+  const originator = await actorByEmail(testDb(), 'originator@demo.test');
   const attachment = await uploadAttachment(
     testDb(),
     getObjectStore(),
-    { userId: originator.id, email: originator.email, name: originator.display_name, isAdmin: false, via: 'session', sessionId: null, tokenId: null },
+    originator,
     { id: sheet.id, project_id: projectId },
     { name: 'scan.csv', type: 'text/csv', bytes: new TextEncoder().encode('energy [MeV]\n70\n250\n') },
   );
-  const originatorActor: Actor = { userId: originator.id, email: originator.email, name: originator.display_name, isAdmin: false, via: 'session', sessionId: null, tokenId: null };
-  const checker = await testDb().selectFrom('users').select(['id', 'email', 'display_name']).where('email', '=', 'checker@demo.test').executeTakeFirstOrThrow();
-  const checkerActor: Actor = { userId: checker.id, email: checker.email, name: checker.display_name, isAdmin: false, via: 'session', sessionId: null, tokenId: null };
+  const checker = await actorByEmail(testDb(), 'checker@demo.test');
   const second = await testDb().selectFrom('sheets').select(['id', 'project_id', 'number', 'title']).where('project_id', '=', projectId).where('number', '=', 2).executeTakeFirstOrThrow();
   const secondContent = (await testDb().selectFrom('versions').select('content').where('sheet_id', '=', second.id).where('number', '=', 1).executeTakeFirstOrThrow()).content as { cells: Array<{ id: string }> };
-  const check = await submitForCheck(testDb(), originatorActor, second, { versionNumber: 1, checkerId: checker.id, password: DEMO_PASSWORD });
-  const thread = await addComment(testDb(), checkerActor, check.id, { cellId: secondContent.cells[0].id, statementLine: null, body: 'Source of the flight path length?' });
+  const check = await submitForCheck(testDb(), originator, second, { versionNumber: 1, checkerId: checker.userId, password: DEMO_PASSWORD });
+  const thread = await addComment(testDb(), checker, check.id, { cellId: secondContent.cells[0].id, statementLine: null, body: 'Source of the flight path length?' });
   // Sheet 3 through check and approval to revision A; a new sheet approved but not issued.
-  const approverRow = await testDb().selectFrom('users').select(['id', 'email', 'display_name']).where('email', '=', 'approver@demo.test').executeTakeFirstOrThrow();
-  const approverActor: Actor = { userId: approverRow.id, email: approverRow.email, name: approverRow.display_name, isAdmin: false, via: 'session', sessionId: null, tokenId: null };
-  const controllerRow = await testDb().selectFrom('users').select(['id', 'email', 'display_name']).where('email', '=', 'controller@demo.test').executeTakeFirstOrThrow();
-  const controllerActor: Actor = { userId: controllerRow.id, email: controllerRow.email, name: controllerRow.display_name, isAdmin: false, via: 'session', sessionId: null, tokenId: null };
-  const approveVersion1 = async (s: { id: string; project_id: string; number: number; title: string }) => {
-    const c = await submitForCheck(testDb(), originatorActor, s, { versionNumber: 1, checkerId: checker.id, password: DEMO_PASSWORD });
-    await saveCheckWork(testDb(), checkerActor, c.id, { verificationMethod: 'design_review' });
-    await decide(testDb(), checkerActor, c.id, { action: 'sign', password: DEMO_PASSWORD });
-    await decide(testDb(), approverActor, c.id, { action: 'approve', password: DEMO_PASSWORD });
-  };
+  const approver = await actorByEmail(testDb(), 'approver@demo.test');
+  const controller = await actorByEmail(testDb(), 'controller@demo.test');
+  const people = { author: originator, checker, approver };
   const third = await testDb().selectFrom('sheets').select(['id', 'project_id', 'number', 'title']).where('project_id', '=', projectId).where('number', '=', 3).executeTakeFirstOrThrow();
-  await approveVersion1(third);
-  const issued = await requestIssue(testDb(), controllerActor, third, { versionNumber: 1, password: DEMO_PASSWORD });
+  await checkAndApprove(testDb(), people, third, { versionNumber: 1, password: DEMO_PASSWORD });
+  const issued = await requestIssue(testDb(), controller, third, { versionNumber: 1, password: DEMO_PASSWORD });
   const revisionId = (await processIssueJob(testDb(), getObjectStore(), issued.jobId))!;
-  const fresh = await createSheet(testDb(), originatorActor, { id: projectId, code: 'TPT2' }, { title: 'Matrix sheet to issue', safetyRelated: false, objective: '' });
-  await approveVersion1({ id: fresh.id, project_id: projectId, number: fresh.number, title: 'Matrix sheet to issue' });
+  const fresh = await makeSheet(testDb(), originator, { id: projectId, code: 'TPT2' }, { title: 'Matrix sheet to issue' });
+  await checkAndApprove(testDb(), people, fresh, { versionNumber: 1, password: DEMO_PASSWORD });
   world = {
     revisionId,
     issueJobId: issued.jobId,
@@ -225,17 +215,14 @@ beforeAll(async () => {
     sheetId: sheet.id,
     sheetContent: version.content,
     attachmentSha256: attachment.sha256,
-    checkerId: checker.id,
+    checkerId: checker.userId,
     checkId: check.id,
     threadId: thread.id,
     checkedCellId: secondContent.cells[0].id,
   };
-  const demo = await testDb().selectFrom('users').select(['id', 'email', 'display_name', 'is_admin']).execute();
   for (const who of WHO) {
     if (who === 'anonymous') continue;
-    const email = who === 'outsider' ? 'outsider@example.test' : `${who}@demo.test`;
-    const u = demo.find((d) => d.email === email)!;
-    const actor: Actor = { userId: u.id, email: u.email, name: u.display_name, isAdmin: u.is_admin, via: 'session', sessionId: null, tokenId: null };
+    const actor = await actorByEmail(testDb(), who === 'outsider' ? 'outsider@example.test' : `${who}@demo.test`);
     tokens.set(who, (await createApiToken(testDb(), actor, 'matrix')).token);
   }
   app = await startApp();

@@ -8,9 +8,9 @@ import { readdirSync, readFileSync, writeFileSync } from 'node:fs';
 import path from 'node:path';
 import { afterAll, beforeAll, expect, it } from 'vitest';
 import { DEMO_PASSWORD, seedDemo } from '../../db/seed';
-import type { Actor } from '../../lib/auth/actor';
-import { decide, saveCheckWork, submitForCheck } from '../../lib/checks/workflow';
+import { checkAndApprove } from '../support/approved-sheet';
 import { resetDatabase, testDb } from '../support/database';
+import { actorByEmail } from '../support/people';
 import { closeBrowser, openBrowser, SCREENSHOT_DIR, startApp, submitSignIn, type BrowserSession, type RunningApp } from './harness';
 
 let app: RunningApp;
@@ -18,22 +18,14 @@ let controller: BrowserSession;
 let pdfFile: string;
 const artifacts = SCREENSHOT_DIR;
 
-async function actor(email: string): Promise<Actor> {
-  const u = await testDb().selectFrom('users').select(['id', 'email', 'display_name']).where('email', '=', email).executeTakeFirstOrThrow();
-  return { userId: u.id, email: u.email, name: u.display_name, isAdmin: false, via: 'session', sessionId: null, tokenId: null };
-}
-
 beforeAll(async () => {
   await resetDatabase();
   await seedDemo(testDb());
   // Sheet 1 of the demo project through check and approval (the browser test of that is check-approval-ui).
   const project = await testDb().selectFrom('projects').select('id').where('code', '=', 'TPT2').executeTakeFirstOrThrow();
   const sheet = await testDb().selectFrom('sheets').select(['id', 'project_id', 'number', 'title']).where('project_id', '=', project.id).where('number', '=', 1).executeTakeFirstOrThrow();
-  const [originator, checker, approver] = await Promise.all(['originator', 'checker', 'approver'].map((r) => actor(`${r}@demo.test`)));
-  const c = await submitForCheck(testDb(), originator, sheet, { versionNumber: 1, checkerId: checker.userId, password: DEMO_PASSWORD });
-  await saveCheckWork(testDb(), checker, c.id, { verificationMethod: 'alternate_calculation' });
-  await decide(testDb(), checker, c.id, { action: 'sign', password: DEMO_PASSWORD });
-  await decide(testDb(), approver, c.id, { action: 'approve', password: DEMO_PASSWORD });
+  const [originator, checker, approver] = await Promise.all(['originator', 'checker', 'approver'].map((r) => actorByEmail(testDb(), `${r}@demo.test`)));
+  await checkAndApprove(testDb(), { author: originator, checker, approver }, sheet, { versionNumber: 1, password: DEMO_PASSWORD, verificationMethod: 'alternate_calculation' });
   app = await startApp();
   controller = await openBrowser();
   await submitSignIn(controller.page, app.baseUrl, 'controller@demo.test', DEMO_PASSWORD);

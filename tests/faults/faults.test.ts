@@ -20,7 +20,6 @@ import { migrateToLatest } from '../../db/migrate';
 import type { Database } from '../../db/schema';
 import { uploadAttachment } from '../../lib/attachments/attachments';
 import type { Actor } from '../../lib/auth/actor';
-import { decide, saveCheckWork, submitForCheck } from '../../lib/checks/workflow';
 import { AppError, errorResponse, isDatabaseConnectionError } from '../../lib/errors/app-error';
 import { handle } from '../../lib/http/route';
 import { processIssueJob, requestIssue } from '../../lib/issue/issue';
@@ -29,6 +28,7 @@ import type { VersionContent } from '../../lib/sheets/content';
 import { createSheet, getVersion, saveVersion } from '../../lib/sheets/sheets';
 import { storageConfig } from '../../lib/storage/config';
 import { createObjectStore } from '../../lib/storage/object-store';
+import { approvedSheet } from '../support/approved-sheet';
 import { testDb } from '../support/database';
 import { makeProject, makeUser, PASSWORD } from '../support/people';
 
@@ -248,24 +248,9 @@ describe('what a lost database answers', () => {
 });
 
 describe('object storage down', () => {
-  async function approvedSheet() {
-    const db = testDb();
-    const [author, checker, approver, controller] = await Promise.all(['author', 'checker', 'approver', 'controller'].map((n) => makeUser(db, `${n}@example.test`)));
-    const projectId = await makeProject(db, 'TPT2', [[author, 'originator'], [checker, 'checker'], [approver, 'approver'], [controller, 'controller']]);
-    const created = await createSheet(db, author, { id: projectId, code: 'TPT2' }, { title: 'Time of flight', safetyRelated: false, objective: '' });
-    const sheet = { id: created.id, project_id: projectId, number: created.number, title: 'Time of flight' };
-    const v1 = (await getVersion(db, sheet.id, 1))!;
-    await saveVersion(db, author, sheet, { parentNumber: 1, message: 'flight time', content: { ...v1.content, cells: [{ id: 'c1', kind: 'calc', source: 'L = 12.5 m\nt_f = L / speedFromKinetic(150 MeV, m_p) to ns' }] } });
-    const { id } = await submitForCheck(db, author, sheet, { versionNumber: 2, checkerId: checker.userId, password: PASSWORD });
-    await saveCheckWork(db, checker, id, { verificationMethod: 'design_review' });
-    await decide(db, checker, id, { action: 'sign', password: PASSWORD });
-    await decide(db, approver, id, { action: 'approve', password: PASSWORD });
-    return { author, controller, sheet };
-  }
-
   it('leaves an issue request pending with no revision, and finishes it into exactly one revision once the store is back', { timeout: 120_000 }, async () => {
     const db = testDb();
-    const { controller, sheet } = await approvedSheet();
+    const { controller, sheet } = await approvedSheet(db);
     const { jobId } = await requestIssue(db, controller, sheet, { versionNumber: 2, password: PASSWORD });
 
     let refused: unknown = null;

@@ -11,17 +11,16 @@ import { ListObjectsV2Command, S3Client } from '@aws-sdk/client-s3';
 import { sql } from 'kysely';
 import { PDFDocument } from 'pdf-lib';
 import { beforeEach, describe, expect, it } from 'vitest';
-import type { Actor } from '../../lib/auth/actor';
-import { decide, saveCheckWork, submitForCheck } from '../../lib/checks/workflow';
-import { AppError } from '../../lib/errors/app-error';
 import { normaliseVerificationCode, revisionCode } from '../../lib/issue/codes';
 import { listRevisions, processIssueJob, registerCsv, requestIssue, revisionPdf, verifyCode, verifyPdfFile, withdrawRevision } from '../../lib/issue/issue';
-import { createSheet, getVersion, listSheets, saveVersion } from '../../lib/sheets/sheets';
+import { listSheets } from '../../lib/sheets/sheets';
 import { storageConfig } from '../../lib/storage/config';
 import { createObjectStore, type ObjectStore } from '../../lib/storage/object-store';
+import { approveNewVersion, makeSheet, makeTeam, type SheetRef, type Team } from '../support/approved-sheet';
 import { testDb } from '../support/database';
 import { drainMailQueue, waitForMail } from '../support/mailbox';
-import { makeProject, makeUser, PASSWORD } from '../support/people';
+import { PASSWORD } from '../support/people';
+import { refusal } from '../support/refusal';
 
 const store = () => createObjectStore(storageConfig());
 const folder = mkdtempSync(path.join(tmpdir(), 'ws-issue-'));
@@ -33,23 +32,11 @@ function poppler(tool: 'pdfsig' | 'pdftotext', bytes: Uint8Array): string {
   return execFileSync(tool, tool === 'pdftotext' ? ['-layout', file, '-'] : [file], { encoding: 'utf8' });
 }
 
-interface World {
-  author: Actor;
-  checker: Actor;
-  approver: Actor;
-  controller: Actor;
-  sheet: { id: string; project_id: string; number: number; title: string };
-}
+type World = Team & { sheet: SheetRef };
 
-async function approve(w: World, source: string) {
-  const db = testDb();
-  const latest = (await getVersion(db, w.sheet.id))!;
-  const saved = await saveVersion(db, w.author, w.sheet, { parentNumber: latest.number, message: `Rigidity at ${source}`, content: { ...latest.content, cells: [{ id: 'c1', kind: 'calc', source }] } });
-  const { id } = await submitForCheck(db, w.author, w.sheet, { versionNumber: saved.number, checkerId: w.checker.userId, password: PASSWORD });
-  await saveCheckWork(db, w.checker, id, { verificationMethod: 'design_review' });
-  await decide(db, w.checker, id, { action: 'sign', password: PASSWORD });
-  await decide(db, w.approver, id, { action: 'approve', password: PASSWORD });
-  return saved.number;
+/** Saves `source` as the next version and takes it through check and approval; its number. */
+function approve(w: World, source: string) {
+  return approveNewVersion(testDb(), w, w.sheet, { message: `Rigidity at ${source}`, cells: [{ id: 'c1', kind: 'calc', source }] });
 }
 
 async function issue(w: World, versionNumber: number, s: ObjectStore = store()) {
@@ -58,23 +45,12 @@ async function issue(w: World, versionNumber: number, s: ObjectStore = store()) 
   return { jobId, revision, revisionId };
 }
 
-async function refusal(promise: Promise<unknown>): Promise<AppError> {
-  try {
-    await promise;
-  } catch (error) {
-    if (error instanceof AppError) return error;
-    throw error;
-  }
-  throw new Error('not refused');
-}
-
 let w: World;
 beforeEach(async () => {
   const db = testDb();
-  const [author, checker, approver, controller] = await Promise.all(['author', 'checker', 'approver', 'controller'].map((n) => makeUser(db, `${n}@example.test`)));
-  const projectId = await makeProject(db, 'TPT2', [[author, 'originator'], [checker, 'checker'], [approver, 'approver'], [controller, 'controller']]);
-  const created = await createSheet(db, author, { id: projectId, code: 'TPT2' }, { title: 'Gantry dipole rigidity', safetyRelated: true, objective: 'Bρ of the gantry dipoles' });
-  w = { author, checker, approver, controller, sheet: { id: created.id, project_id: projectId, number: created.number, title: 'Gantry dipole rigidity' } };
+  const team = await makeTeam(db, { code: 'TPT2' });
+  const sheet = await makeSheet(db, team.author, { id: team.projectId, code: 'TPT2' }, { title: 'Gantry dipole rigidity', safetyRelated: true, objective: 'Bρ of the gantry dipoles' });
+  w = { ...team, sheet };
 });
 
 describe('revision codes (ASME Y14.35)', () => {

@@ -1,27 +1,20 @@
 // Mail waits while the mail service is down: the job fails, is retried, and the mail arrives once
 // the service is back. Once with the worker process as `npm start` runs it, once in this process
 // with drainMailQueue. Retries are made short (1 s, no backoff) through enqueueMail's options.
-import { spawn, type ChildProcess } from 'node:child_process';
-import path from 'node:path';
 import { sql } from 'kysely';
-import { afterEach, expect, inject, it } from 'vitest';
+import { afterEach, expect, it } from 'vitest';
 import { startCaptureServer, type CaptureServer } from '../../lib/mail/capture-server';
 import { enqueueMail } from '../../lib/mail/outbox';
 import { testDb } from '../support/database';
 import { drainMailQueue, waitForMail } from '../support/mailbox';
+import { until } from '../support/until';
+import { killWorkers, startWorker } from '../support/worker-process';
 
 const fastRetry = { retryDelay: 1, retryBackoff: false } as const;
 
 const captures: CaptureServer[] = [];
-const children: ChildProcess[] = [];
 afterEach(async () => {
-  for (const c of children.splice(0)) {
-    if (c.exitCode === null && c.signalCode === null) {
-      const exited = new Promise((r) => c.once('exit', r));
-      c.kill('SIGKILL');
-      await exited;
-    }
-  }
+  await killWorkers();
   for (const s of captures.splice(0)) await s.stop();
 });
 
@@ -38,32 +31,9 @@ async function jobState(id: string): Promise<{ state: string; retry_count: numbe
   return rows[0];
 }
 
-async function until<T>(what: string, probe: () => Promise<T | null | undefined | false>, timeoutMs: number): Promise<T> {
-  const deadline = Date.now() + timeoutMs;
-  for (;;) {
-    const value = await probe();
-    if (value) return value;
-    if (Date.now() > deadline) throw new Error(`${what}: not within ${timeoutMs} ms`);
-    await new Promise((r) => setTimeout(r, 100));
-  }
-}
-
-function startWorker(smtpUrl: string): { child: ChildProcess; output: () => string } {
-  const child = spawn(process.execPath, ['--import', 'tsx', path.join('lib', 'jobs', 'worker-main.ts')], {
-    cwd: process.cwd(),
-    env: { ...process.env, DATABASE_URL: inject('databaseUrl'), WORLDSHEET_SMTP_URL: smtpUrl, WORLDSHEET_JOB_POLL_SECONDS: '0.5' },
-    stdio: ['ignore', 'pipe', 'pipe'],
-  });
-  children.push(child);
-  let output = '';
-  child.stdout!.on('data', (d) => (output += d));
-  child.stderr!.on('data', (d) => (output += d));
-  return { child, output: () => output };
-}
-
 it('the worker process retries while the mail service is down and delivers when it is back', async () => {
   const ports = await portsOfAStoppedServer();
-  const worker = startWorker(ports.smtpUrl);
+  const worker = startWorker({ WORLDSHEET_SMTP_URL: ports.smtpUrl });
   await until('the worker to start', async () => worker.output().includes('working the queues'), 30_000);
 
   const id = await testDb()

@@ -16,15 +16,16 @@ import { afterAll, beforeAll, describe, expect, inject, it } from 'vitest';
 import { createDb } from '../../db/index';
 import type { Database } from '../../db/schema';
 import { uploadAttachment } from '../../lib/attachments/attachments';
-import { decide, saveCheckWork, submitForCheck } from '../../lib/checks/workflow';
 import { processIssueJob, requestIssue, revisionPdf } from '../../lib/issue/issue';
 import { enqueueMail } from '../../lib/mail/outbox';
 import { backup, BackupError, ensureBucket, MANIFEST_FILE, readManifest, restore, tableCounts, verifyInstallation, type Manifest } from '../../lib/ops/backup';
-import { createSheet, getVersion, saveVersion } from '../../lib/sheets/sheets';
+import { createSheet } from '../../lib/sheets/sheets';
 import { storageConfig, type StorageConfig } from '../../lib/storage/config';
 import { createObjectStore } from '../../lib/storage/object-store';
+import { approveNewVersion, makeSheet, makeTeam } from '../support/approved-sheet';
 import { testDb } from '../support/database';
-import { makeProject, makeUser, PASSWORD } from '../support/people';
+import { PASSWORD } from '../support/people';
+import { refusal } from '../support/refusal';
 import type { Kysely } from 'kysely';
 
 const work = mkdtempSync(path.join(tmpdir(), 'ws-backup-'));
@@ -64,16 +65,6 @@ function openDb(url: string): Kysely<Database> {
   return db;
 }
 
-async function refusal(promise: Promise<unknown>): Promise<BackupError> {
-  try {
-    await promise;
-  } catch (error) {
-    if (error instanceof BackupError) return error;
-    throw error;
-  }
-  throw new Error('not refused');
-}
-
 let manifest: Manifest;
 let sourceCounts: Record<string, number>;
 let restored: { url: string; adminUrl: string };
@@ -82,21 +73,15 @@ let restoredStore: StorageConfig;
 async function buildWorld() {
   const db = testDb();
   const store = createObjectStore(sourceStore());
-  const [author, checker, approver, controller] = await Promise.all(['author', 'checker', 'approver', 'controller'].map((n) => makeUser(db, `${n}@example.test`)));
-  const projectId = await makeProject(db, 'BKP', [[author, 'originator'], [checker, 'checker'], [approver, 'approver'], [controller, 'controller']]);
-  const created = await createSheet(db, author, { id: projectId, code: 'BKP' }, { title: 'Booster extraction kicker', safetyRelated: false, objective: 'Kick angle at extraction' });
-  const sheet = { id: created.id, project_id: projectId, number: created.number, title: 'Booster extraction kicker' };
+  const team = await makeTeam(db, { code: 'BKP' });
+  const { author, controller, projectId } = team;
+  const sheet = await makeSheet(db, author, { id: projectId, code: 'BKP' }, { title: 'Booster extraction kicker', objective: 'Kick angle at extraction' });
   await uploadAttachment(db, store, author, sheet, { name: 'kicker-scan.csv', type: 'text/csv', bytes: new TextEncoder().encode('voltage [kV], angle [mrad]\n10, 0.5\n20, 1.0\n') });
   await createSheet(db, author, { id: projectId, code: 'BKP' }, { title: 'Second sheet, never issued', safetyRelated: false, objective: '' });
 
   const approveAndIssue = async (source: string) => {
-    const latest = (await getVersion(db, sheet.id))!;
-    const saved = await saveVersion(db, author, sheet, { parentNumber: latest.number, message: source, content: { ...latest.content, cells: [{ id: 'c1', kind: 'calc', source }] } });
-    const { id } = await submitForCheck(db, author, sheet, { versionNumber: saved.number, checkerId: checker.userId, password: PASSWORD });
-    await saveCheckWork(db, checker, id, { verificationMethod: 'design_review' });
-    await decide(db, checker, id, { action: 'sign', password: PASSWORD });
-    await decide(db, approver, id, { action: 'approve', password: PASSWORD });
-    const { jobId } = await requestIssue(db, controller, sheet, { versionNumber: saved.number, password: PASSWORD });
+    const versionNumber = await approveNewVersion(db, team, sheet, { message: source, cells: [{ id: 'c1', kind: 'calc', source }] });
+    const { jobId } = await requestIssue(db, controller, sheet, { versionNumber, password: PASSWORD });
     return (await processIssueJob(db, store, jobId))!;
   };
   const a = await approveAndIssue('T_kin = 250 MeV');
@@ -162,10 +147,10 @@ describe('backup and restore', () => {
 
   it('refuses a target database or bucket that is not empty, and changes nothing', async () => {
     expect(manifest).toBeDefined();
-    const intoUsed = await refusal(restore({ databaseUrl: restored.url, store: await emptyBucket('unused'), folder: backupFolder }));
+    const intoUsed = await refusal(restore({ databaseUrl: restored.url, store: await emptyBucket('unused'), folder: backupFolder }), BackupError);
     expect(intoUsed.message).toMatch(/target database .* is not empty/);
     const fresh = await emptyDatabase('refused');
-    const intoFullBucket = await refusal(restore({ databaseUrl: fresh.url, store: restoredStore, folder: backupFolder }));
+    const intoFullBucket = await refusal(restore({ databaseUrl: fresh.url, store: restoredStore, folder: backupFolder }), BackupError);
     expect(intoFullBucket.message).toMatch(/target bucket .* is not empty/);
     const db = openDb(fresh.url);
     const tables = await db.selectFrom('pg_tables' as never).select('tablename' as never).where('schemaname' as never, '=', 'public' as never).execute();
@@ -182,7 +167,7 @@ describe('backup and restore', () => {
     try {
       const target = await emptyDatabase('altered');
       const bucket = await emptyBucket('altered');
-      const error = await refusal(restore({ databaseUrl: target.url, store: bucket, folder: backupFolder }));
+      const error = await refusal(restore({ databaseUrl: target.url, store: bucket, folder: backupFolder }), BackupError);
       expect(error.message).toContain(pdf.key);
       expect(error.message).toMatch(/does not match/);
       expect(await createObjectStore(bucket).list('')).toEqual([]);
@@ -198,7 +183,7 @@ describe('backup and restore', () => {
       const edited = JSON.parse(text) as Manifest;
       edited.database.sha256 = '0'.repeat(64);
       writeFileSync(manifestFile, JSON.stringify(edited));
-      const error = await refusal(restore({ databaseUrl: (await emptyDatabase('dump')).url, store: await emptyBucket('dump'), folder: backupFolder }));
+      const error = await refusal(restore({ databaseUrl: (await emptyDatabase('dump')).url, store: await emptyBucket('dump'), folder: backupFolder }), BackupError);
       expect(error.message).toMatch(/database dump .* does not match/);
     } finally {
       writeFileSync(manifestFile, text);

@@ -9,12 +9,12 @@ import { listAttachments, readAttachment, resolveAttachments, uploadAttachment }
 import { parseInputTable, tableNameFor } from '../../lib/attachments/csv-table';
 import { sanitizeFileName } from '../../lib/attachments/file-name';
 import { sniffKind } from '../../lib/attachments/kinds';
-import { AppError } from '../../lib/errors/app-error';
 import { createSheet, getVersion, saveVersion } from '../../lib/sheets/sheets';
 import { storageConfig } from '../../lib/storage/config';
 import { createObjectStore } from '../../lib/storage/object-store';
 import { testDb } from '../support/database';
 import { makeProject, makeUser } from '../support/people';
+import { refusal } from '../support/refusal';
 
 const store = () => createObjectStore(storageConfig());
 const bytes = (text: string) => new TextEncoder().encode(text);
@@ -29,16 +29,6 @@ async function world() {
   const projectId = await makeProject(db, 'BEAM', [[author, 'originator']]);
   const created = await createSheet(db, author, { id: projectId, code: 'BEAM' }, { title: 'Energy scan', safetyRelated: false, objective: '' });
   return { db, author, sheet: { id: created.id, project_id: projectId } };
-}
-
-async function refusal(promise: Promise<unknown>): Promise<AppError> {
-  try {
-    await promise;
-  } catch (error) {
-    if (error instanceof AppError) return error;
-    throw error;
-  }
-  throw new Error('not refused');
 }
 
 describe('what a file is, by its content', () => {

@@ -20,3 +20,9 @@ export async function makeProject(db: Kysely<Database>, code = 'PRJ', members: A
   for (const [actor, role] of members) await db.insertInto('project_members').values({ project_id: p.id, user_id: actor.userId, role }).execute();
   return p.id;
 }
+
+/** The Actor of an existing account (e.g. one of the demo seed's people), as a browser session would carry it. */
+export async function actorByEmail(db: Kysely<Database>, email: string): Promise<Actor> {
+  const u = await db.selectFrom('users').select(['id', 'email', 'display_name', 'is_admin']).where('email', '=', email).executeTakeFirstOrThrow();
+  return { userId: u.id, email: u.email, name: u.display_name, isAdmin: u.is_admin, via: 'session', sessionId: null, tokenId: null };
+}
