@@ -7,7 +7,7 @@ import { sql, type Kysely, type Transaction } from 'kysely';
 import { z } from 'zod';
 import type { CheckState, Database, ProjectRole, SignatureMeaning, VerificationMethod } from '@/db/schema';
 import type { Actor } from '@/lib/auth/actor';
-import { verifyPassword } from '@/lib/auth/password';
+import { reauthenticateToSign } from '@/lib/auth/reauthenticate';
 import { recordAudit } from '@/lib/audit/record';
 import { getEvaluator } from '@/lib/calc/sandbox/evaluator';
 import type { SheetResult } from '@/lib/calc/types';
@@ -103,19 +103,16 @@ async function refuse(db: Kysely<Database>, actor: Actor, sheet: { id: string; p
 }
 
 /** Re-authentication at the moment of signing (21 CFR Part 11 §11.200(a)(1)). Refusals are audited. */
-async function confirmPassword(db: Kysely<Database>, actor: Actor, sheet: { id: string; project_id: string }, meaning: SignatureMeaning, given: string): Promise<void> {
-  const u = await db.selectFrom('users').select(['password_hash', 'disabled_at', 'locked_at']).where('id', '=', actor.userId).executeTakeFirstOrThrow();
-  const problem = !u.password_hash
-    ? 'Your account has no password (you sign in through single sign-on); set one on your account page to sign records.'
-    : u.disabled_at || u.locked_at
-      ? 'Your account is disabled or locked and cannot sign.'
-      : (await verifyPassword(u.password_hash, given))
-        ? null
-        : 'The password is not correct; nothing was signed.';
-  if (problem) {
-    await recordAudit(db, actor, { action: 'signature.refused', objectType: 'sheet', objectId: sheet.id, projectId: sheet.project_id, newValue: { meaning }, reason: problem });
-    throw new AppError('forbidden', problem, { rule: 'password' });
-  }
+function confirmPassword(db: Kysely<Database>, actor: Actor, sheet: { id: string; project_id: string }, meaning: SignatureMeaning, given: string): Promise<void> {
+  return reauthenticateToSign(db, actor, {
+    sheet,
+    meaning,
+    password: given,
+    messages: {
+      noPassword: 'Your account has no password (you sign in through single sign-on); set one on your account page to sign records.',
+      disabledOrLocked: 'Your account is disabled or locked and cannot sign.',
+    },
+  });
 }
 
 async function sign(trx: Transaction<Database>, actor: Actor, v: { sheetId: string; projectId: string; number: number; sha256: string }, meaning: SignatureMeaning, checkId: string | null) {

@@ -11,7 +11,7 @@ import { PDFDocument, rgb, StandardFonts, degrees } from 'pdf-lib';
 import { z } from 'zod';
 import type { Database } from '@/db/schema';
 import type { Actor } from '@/lib/auth/actor';
-import { verifyPassword } from '@/lib/auth/password';
+import { reauthenticateToSign, WRONG_PASSWORD_MESSAGE } from '@/lib/auth/reauthenticate';
 import { recordAudit } from '@/lib/audit/record';
 import { CONSTANTS } from '@/lib/calc/constants';
 import { VERIFICATION_LABELS } from '@/lib/checks/workflow';
@@ -64,12 +64,13 @@ export async function requestIssue(db: Kysely<Database>, actor: Actor, sheet: { 
   const issued = await db.selectFrom('revisions').select(['code', 'version_number']).where('sheet_id', '=', sheet.id).where('version_number', '>=', input.versionNumber).orderBy('sequence', 'desc').executeTakeFirst();
   if (issued) throw new AppError('conflict', `Version ${issued.version_number} is already issued as revision ${issued.code}; a revision is issued from a later approved version.`);
 
-  const u = await db.selectFrom('users').select(['password_hash', 'disabled_at', 'locked_at']).where('id', '=', actor.userId).executeTakeFirstOrThrow();
-  if (!u.password_hash || u.disabled_at || u.locked_at || !(await verifyPassword(u.password_hash, input.password))) {
-    const reason = !u.password_hash ? 'Your account has no password; set one on your account page to sign records.' : 'The password is not correct; nothing was signed.';
-    await recordAudit(db, actor, { action: 'signature.refused', objectType: 'sheet', objectId: sheet.id, projectId: sheet.project_id, newValue: { meaning: 'issued' }, reason });
-    throw new AppError('forbidden', reason, { rule: 'password' });
-  }
+  await reauthenticateToSign(db, actor, {
+    sheet,
+    meaning: 'issued',
+    password: input.password,
+    // A disabled or locked account is told what a wrong password is told, as issuing always has.
+    messages: { noPassword: 'Your account has no password; set one on your account page to sign records.', disabledOrLocked: WRONG_PASSWORD_MESSAGE },
+  });
 
   const project = await db.selectFrom('projects').select(['revision_scheme']).where('id', '=', sheet.project_id).executeTakeFirstOrThrow();
   try {
