@@ -166,7 +166,7 @@ export function plotDescription(data: PlotData): string {
   const count = `${data.series.length} series${names ? ` (${names})` : ''}`;
   if (data.kind === 'spacetime') {
     const unit = unitLabel(spacetimeUnit(data));
-    const horizons = (data.horizons ?? []).map((h) => `${h.name} x = ct − ${formatNumberText(h.distance, 6)}${unit ? ` ${unit}` : ''}`);
+    const horizons = (data.horizons ?? []).map((h) => `horizon ${h.name}: x = ct − ${formatNumberText(h.distance, 6)}${unit ? ` ${unit}` : ''}`);
     return `Space-time diagram, ${labels.y} against ${labels.x}, equal scales: ${count}; light lines x = ±ct${horizons.length ? `; ${horizons.join('; ')}` : ''}.`;
   }
   return `Plot of ${labels.y} against ${labels.x}: ${count}.`;
@@ -364,7 +364,7 @@ export function plotElement(data: PlotData, document: Document, options: PlotFig
           Plot.text([at], {
             x: (d: [number, number]) => d[0],
             y: (d: [number, number]) => d[1],
-            text: () => `${h.name} (x = ct − ${formatNumberText(h.distance, 4)}${unit ? ` ${unit}` : ''})`,
+            text: () => `${h.name}: x = ct − ${formatNumberText(h.distance, 4)}${unit ? ` ${unit}` : ''}`,
             rotate: -45,
             textAnchor: 'end',
             lineAnchor: 'bottom',

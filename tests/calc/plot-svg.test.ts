@@ -141,7 +141,7 @@ describe('the space-time diagram of hyperbolic motion', () => {
     expect(Math.abs((hx - x1) * (y2 - y1) - (hy - y1) * (x2 - x1)) / Math.hypot(x2 - x1, y2 - y1)).toBeLessThan(0.003);
     // Hyperbolic motion never reaches its horizon: x > ct − c²/a at every event.
     for (const [x, ct] of spacetime.series[0].points) expect(x).toBeGreaterThan(ct - horizon);
-    expect(text(svg, 'text')).toContain('Rindler horizon (x = ct − 0.9687 ly)');
+    expect(text(svg, 'text')).toContain('Rindler horizon: x = ct − 0.9687 ly');
   });
 
   it('titles the axes "x (ly)" and "ct (ly)", and has a legend', () => {

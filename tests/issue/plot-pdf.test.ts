@@ -187,7 +187,7 @@ describe('a plot in the issued PDF', () => {
     expect(text).toContain('Space-time diagram, ct (ly) against x (ly), equal scales');
     // The horizon's label runs along the line at 45°, so pdftotext may cut it into pieces: the whole
     // words are in the caption, the rotated label's own glyphs are checked in the figure's pixels.
-    expect(whole).toContain('Rindler horizon x = ct − 0.968');
+    expect(whole).toContain('horizon Rindler horizon: x = ct − 0.968 715 ly');
   });
 
   it('is drawn as vector graphics: the worldline\'s blue and the horizon\'s brown are on the page, and there are no images', () => {
