@@ -424,6 +424,28 @@ export const OPERATIONS: Operation[] = [
   },
   {
     method: 'GET',
+    path: '/api/sheets/{sheetId}/versions/{number}/studies/{cellIndex}/{line}',
+    operationId: 'downloadStudyTable',
+    summary: 'Download the table of a sweep recorded in a version, as CSV',
+    description:
+      `${member} The sweep on line \`line\` of the cell whose result has index \`cellIndex\` (\`results.cells[].index\`, from 0). ` +
+      'RFC 4180 CSV with CRLF line ends: a header `name [unit]` per column (the form data-table attachments use), then one row per step with every number at full double precision; ' +
+      'when a step failed its values are empty and a last column `error` says why. The file is named `<sheet number>-v<n>-cell<cell number from 1>-line<line>.csv`.',
+    tags: ['sheets'],
+    auth: 'session or API token',
+    params: {
+      ...sheetParam,
+      number: { description: 'The version number, from 1.', schema: z.coerce.number().int().positive() },
+      cellIndex: { description: 'The index of the cell in the version (`results.cells[].index`), from 0.', schema: z.coerce.number().int().nonnegative() },
+      line: { description: 'The line of the `sweep(…)` statement in the cell, from 1.', schema: z.coerce.number().int().positive() },
+    },
+    responses: {
+      200: { description: 'The table as a download (`content-disposition: attachment`).', content: { 'text/csv': 'binary' } },
+      ...errors([401, 404], { 404: 'No such sheet, version, cell or line, a statement that is not a sweep, or a project the caller is not a member of.' }),
+    },
+  },
+  {
+    method: 'GET',
     path: '/api/sheets/{sheetId}/compare',
     operationId: 'compareVersions',
     summary: 'Compare two versions for the check',

@@ -110,6 +110,8 @@ const MATRIX: Record<string, Entry> = {
   'GET /api/sheets/[sheetId]/impact': { request: (w) => ({ path: `/api/sheets/${w.sheetId}/impact` }), expect: memberOnly(200) },
   'GET /api/software-impact': { request: () => ({ path: '/api/software-impact?function=lorentzFactor&format=csv' }), expect: signedIn(200) },
   'GET /api/sheets/[sheetId]/versions/[number]': { request: (w) => ({ path: `/api/sheets/${w.sheetId}/versions/1` }), expect: memberOnly(200) },
+  // The demo sheet has no sweep: members get 404 for a statement without a table, others as usual.
+  'GET /api/sheets/[sheetId]/versions/[number]/studies/[cellIndex]/[line]': { request: (w) => ({ path: `/api/sheets/${w.sheetId}/versions/1/studies/0/1` }), expect: memberOnly(404) },
   'GET /api/sheets/[sheetId]/attachments': { request: (w) => ({ path: `/api/sheets/${w.sheetId}/attachments` }), expect: memberOnly(200) },
   'POST /api/sheets/[sheetId]/attachments': {
     request: (w) => ({ path: `/api/sheets/${w.sheetId}/attachments`, file: { name: 'matrix-probe.csv', type: 'text/csv', text: 'x [m]\n1\n' } }),
