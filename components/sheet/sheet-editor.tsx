@@ -238,7 +238,7 @@ export function SheetEditor({ sheetId, projectCode, sheetNumber, base }: Props) 
               {cell.kind === 'calc' && result ? (
                 <div aria-live="polite" className="mt-2">
                   {result.statements.map((s) => (
-                    <StatementView key={`${s.line}:${s.source}`} statement={s} />
+                    <StatementView key={`${s.line}:${s.source}`} statement={s} significantFigures={content.significantFigures} />
                   ))}
                 </div>
               ) : null}

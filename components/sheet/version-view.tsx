@@ -1,16 +1,22 @@
 import { StatementView } from '@/components/calc/statement-view';
 import type { SheetResult } from '@/lib/calc/types';
+import { studyCsvFileName } from '@/lib/calc/study-csv';
 import type { VersionContent } from '@/lib/sheets/content';
 import { AttachmentList } from './attachment-list';
 
 /** A version as recorded: the calculation record fields, then every cell with its recorded results. */
 export function VersionView({
   sheetId,
+  sheetCode,
+  versionNumber,
   content,
   results,
   renderText,
 }: {
   sheetId: string;
+  /** "TPT2-CALC-0004" and the version shown: sweep tables download from the version's study route. */
+  sheetCode: string;
+  versionNumber: number;
   content: VersionContent;
   results: SheetResult | null;
   renderText: (source: string) => React.ReactNode;
@@ -86,7 +92,21 @@ export function VersionView({
               ) : (
                 <>
                   <pre className="my-2 overflow-x-auto rounded bg-paper p-2 font-mono text-sm">{cell.source}</pre>
-                  {result ? result.statements.map((s) => <StatementView key={`${s.line}:${s.source}`} statement={s} />) : <p className="text-sm text-ink-muted">Not evaluated.</p>}
+                  {result ? (
+                    result.statements.map((s) => (
+                      <StatementView
+                        key={`${s.line}:${s.source}`}
+                        statement={s}
+                        significantFigures={content.significantFigures}
+                        studyCsv={(line) => ({
+                          href: `/api/sheets/${sheetId}/versions/${versionNumber}/studies/${result.index}/${line}`,
+                          fileName: studyCsvFileName({ sheet: sheetCode, version: versionNumber, cellNumber: i + 1, line }),
+                        })}
+                      />
+                    ))
+                  ) : (
+                    <p className="text-sm text-ink-muted">Not evaluated.</p>
+                  )}
                 </>
               )}
             </article>

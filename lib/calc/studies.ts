@@ -305,7 +305,9 @@ export function computeStudy(
     const units = [input, ...targets].map((n) => displayUnitOf(math, scope.get(n)));
     values.forEach((v, r) => {
       rows.push([
-        units[0].fromSi(siOf(math, v)!),
+        // The swept value as written: a unit conversion there and back can leave a last-bit
+        // residue (190 MeV → 190.000 000 000 000 03), which 15 significant digits drop.
+        Number(units[0].fromSi(siOf(math, v)!).toPrecision(15)),
         ...targets.map((t, k) => {
           const x = raw[r] ? siOf(math, valueOf(r, t)) : null;
           return x === null ? null : units[k + 1].fromSi(x);
@@ -337,7 +339,7 @@ export function computeStudy(
           name: t,
           points: values.flatMap((v, r) => {
             const y = raw[r] ? siOf(math, valueOf(r, t)) : null;
-            return y === null || !Number.isFinite(y) ? [] : [[dx.fromSi(siOf(math, v)!), dy.fromSi(y)] as [number, number]];
+            return y === null || !Number.isFinite(y) ? [] : [[Number(dx.fromSi(siOf(math, v)!).toPrecision(15)), dy.fromSi(y)] as [number, number]];
           }),
         })),
       },

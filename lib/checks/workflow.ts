@@ -10,6 +10,8 @@ import type { Actor } from '@/lib/auth/actor';
 import { reauthenticateToSign } from '@/lib/auth/reauthenticate';
 import { recordAudit } from '@/lib/audit/record';
 import { getEvaluator } from '@/lib/calc/sandbox/evaluator';
+import { findReferences } from '@/lib/calc/references';
+import { resolveReferences } from '@/lib/sheets/references';
 import type { SheetResult } from '@/lib/calc/types';
 import { AppError } from '@/lib/errors/app-error';
 import { appUrl } from '@/lib/http/app-url';
@@ -307,7 +309,9 @@ export async function saveCheckWork(db: Kysely<Database>, actor: Actor, checkId:
   if (check.state !== 'in_check') throw conflict(check, 'changed');
   let results: SheetResult | null | undefined;
   if (input.alternateCells) {
-    results = input.alternateCells.length ? await getEvaluator().evaluate(input.alternateCells, { significantFigures: 6 }, `check:${check.id}`) : null;
+    // The checker's alternate cells may cite issued revisions like the sheet's own cells.
+    const references = await resolveReferences(db, check.project_id, findReferences(input.alternateCells), { excludeSheetId: check.sheet_id });
+    results = input.alternateCells.length ? await getEvaluator().evaluate(input.alternateCells, { significantFigures: 6, references }, `check:${check.id}`) : null;
   }
   const updated = await db
     .updateTable('checks')

@@ -21,6 +21,7 @@ import { jobSender, kyselyJobDb } from '@/lib/jobs/queue';
 import { enqueueMail } from '@/lib/mail/outbox';
 import { CAUTIONS, SAFETY_RELATED_CAUTION } from '@/lib/safety/cautions';
 import { formatSheetNumber } from '@/lib/sheets/sheet-number';
+import { supersededInputs } from '@/lib/sheets/impact';
 import { getVersion } from '@/lib/sheets/sheets';
 import type { ObjectStore } from '@/lib/storage/object-store';
 import { verifyPdfSignature } from './cades';
@@ -63,6 +64,15 @@ export async function requestIssue(db: Kysely<Database>, actor: Actor, sheet: { 
   if (!approved) throw new AppError('conflict', `Version ${input.versionNumber} is not approved; only an approved version is issued.`, { state: 'not_approved' });
   const issued = await db.selectFrom('revisions').select(['code', 'version_number']).where('sheet_id', '=', sheet.id).where('version_number', '>=', input.versionNumber).orderBy('sequence', 'desc').executeTakeFirst();
   if (issued) throw new AppError('conflict', `Version ${issued.version_number} is already issued as revision ${issued.code}; a revision is issued from a later approved version.`);
+  // A revision is never issued on an input that has since been superseded or withdrawn.
+  const stale = await supersededInputs(db, sheet.id, input.versionNumber);
+  if (stale.length) {
+    const list = stale.map((s) => `${s.sheet} rev. ${s.revision} (${s.status === 'withdrawn' ? 'withdrawn' : `superseded by rev. ${s.currentRevision}`})`).join(', ');
+    throw new AppError('conflict', `Version ${input.versionNumber} cites ${list}; revise the sheet to cite the current revision, have it checked and approved, then issue.`, {
+      state: 'superseded_inputs',
+      citations: stale.map((s) => ({ sheet: s.sheet, revision: s.revision, status: s.status, currentRevision: s.currentRevision })),
+    });
+  }
 
   await reauthenticateToSign(db, actor, {
     sheet,

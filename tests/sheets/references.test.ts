@@ -278,6 +278,26 @@ describe('recording, superseded inputs and impact', ISSUING, () => {
     ]);
   });
 
+  it('refuses to issue a version whose cited revision was superseded after its approval', async () => {
+    const db = testDb();
+    const a = await newSheet('Gantry dipole rigidity');
+    const b = await newSheet('Dipole power supply');
+    await issue(a, RIGIDITY('250 MeV'));
+    // B cites A rev. A and is approved; then A is issued at rev. B before B is issued.
+    const saved = await save(b, `${cite('TPT2-CALC-0001', 'A')}\nI_max = 400 A`);
+    const { id } = await submitForCheck(db, people.author, b, { versionNumber: saved.number, checkerId: people.checker.userId, password: PASSWORD });
+    await saveCheckWork(db, people.checker, id, { verificationMethod: 'design_review' });
+    await decide(db, people.checker, id, { action: 'sign', password: PASSWORD });
+    await decide(db, people.approver, id, { action: 'approve', password: PASSWORD });
+    await issue(a, RIGIDITY('230 MeV'));
+    const refused = await requestIssue(db, people.controller, b, { versionNumber: saved.number, password: PASSWORD }).then(
+      () => null,
+      (e: Error & { status?: number; details?: Record<string, unknown> }) => e,
+    );
+    expect(refused?.message).toMatch(/cites TPT2-CALC-0001 rev\. A \(superseded by rev\. B\); revise the sheet/);
+    expect(await db.selectFrom('issue_jobs').select('id').where('sheet_id', '=', b.id).execute()).toEqual([]);
+  });
+
   it('flags a withdrawn input, with no current revision to compare with', async () => {
     const db = testDb();
     const a = await newSheet('Gantry dipole rigidity');

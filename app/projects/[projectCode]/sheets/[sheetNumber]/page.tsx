@@ -198,7 +198,7 @@ export default async function SheetPage({ params, searchParams }: { params: Prom
         </section>
         {version.content.safetyRelated ? <SafetyRelatedNotice /> : null}
         <CautionNotice compact />
-        <VersionView sheetId={sheet.id} content={version.content} results={version.results} renderText={(source) => <MarkdownView source={source} />} />
+        <VersionView sheetId={sheet.id} sheetCode={code} versionNumber={version.number} content={version.content} results={version.results} renderText={(source) => <MarkdownView source={source} />} />
       </div>
       <aside aria-label="Check and history" className="space-y-6">
         {isOriginator ? (
