@@ -260,3 +260,12 @@ export function formatFixedTex(x: number, decimals: number): string {
   const p = fixedParts(x, decimals);
   return `${p.negative ? '-' : ''}${group(p.integer, false, '\\,')}${p.fraction ? `.${group(p.fraction, true, '\\,')}` : ''}`;
 }
+
+/** A number to exactly `sig` significant digits, trailing zeros kept: an uncertainty of 7.0 × 10⁻²² stays so. */
+export function formatSignificantText(x: number, sig: number): string {
+  if (!Number.isFinite(x) || x === 0) return formatNumberText(x, sig);
+  const rounded = Number(x.toPrecision(sig));
+  const e = Math.floor(Math.log10(Math.abs(rounded)));
+  if (e < -3 || e >= 6) return `${formatFixedText(rounded / 10 ** e, sig - 1)} × 10${superscript(String(e))}`;
+  return formatFixedText(rounded, Math.max(0, sig - 1 - e));
+}

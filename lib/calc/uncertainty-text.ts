@@ -2,13 +2,13 @@
 // engine's UncertaintyResult: the standard uncertainty of an input, or the budget of a propagated
 // result (JCGM 100:2008 "GUM" 5.1.3 and 7.2; Monte Carlo per JCGM 101:2008). Uncertainties are
 // written with two significant digits (GUM 7.2.6).
-import { formatNumberText } from './format';
+import { formatSignificantText } from './format';
 import type { MonteCarloSummary, UncertaintyResult } from './types';
 import { unitLabel } from './unit-label';
 
 const withUnit = (n: number, unit: string | null, sig = 2) => {
   const u = unitLabel(unit);
-  return `${formatNumberText(n, sig)}${u ? ` ${u}` : ''}`;
+  return `${formatSignificantText(n, sig)}${u ? ` ${u}` : ''}`;
 };
 
 /** "standard uncertainty u = 0.50 MeV" for an input. */
