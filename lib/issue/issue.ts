@@ -410,9 +410,15 @@ const csvField = (v: unknown) => {
   return /[",\n\r]/.test(safe) ? `"${safe.replace(/"/g, '""')}"` : safe;
 };
 
-export function registerCsv(rows: RegisterRow[]): string {
-  const header = ['sheet', 'title', 'revision', 'status', 'version', 'issued_at_utc', 'issued_by', 'superseded_by', 'withdrawn_reason', 'pdf_sha256', 'version_sha256', 'verification_code'];
-  const lines = rows.map((r) => [r.sheet, r.title, r.revision, r.status, r.versionNumber, r.issuedAt, r.issuedBy, r.supersededBy, r.withdrawnReason, r.pdfSha256, r.versionSha256, r.verificationCode].map(csvField).join(','));
+/**
+ * The register as CSV. `staleInputs` (revision id → its citations of revisions no longer current, from
+ * `revisionInputFlags`) fills the last column, `superseded_inputs`.
+ */
+export function registerCsv(rows: RegisterRow[], staleInputs: ReadonlyMap<string, ReadonlyArray<{ sheet: string; revision: string; status: string; currentRevision: string | null }>> = new Map()): string {
+  const header = ['sheet', 'title', 'revision', 'status', 'version', 'issued_at_utc', 'issued_by', 'superseded_by', 'withdrawn_reason', 'pdf_sha256', 'version_sha256', 'verification_code', 'superseded_inputs'];
+  const stale = (id: string) =>
+    (staleInputs.get(id) ?? []).map((c) => `${c.sheet} rev. ${c.revision} (${c.status === 'withdrawn' ? 'withdrawn' : `superseded by rev. ${c.currentRevision}`})`).join('; ');
+  const lines = rows.map((r) => [r.sheet, r.title, r.revision, r.status, r.versionNumber, r.issuedAt, r.issuedBy, r.supersededBy, r.withdrawnReason, r.pdfSha256, r.versionSha256, r.verificationCode, stale(r.id)].map(csvField).join(','));
   return `${[header.join(','), ...lines].join('\r\n')}\r\n`;
 }
 

@@ -178,7 +178,7 @@ describe('issuing', () => {
     await expect(sql`update revisions set status = 'current' where id = ${b.revisionId}`.execute(db)).rejects.toThrow(/cannot go from withdrawn to current/);
     await expect(sql`delete from revisions`.execute(db)).rejects.toThrow(/DELETE on revisions is refused/);
     const csv = registerCsv(await listRevisions(db, { projectId: w.sheet.project_id }));
-    expect(csv.split('\r\n')[0]).toBe('sheet,title,revision,status,version,issued_at_utc,issued_by,superseded_by,withdrawn_reason,pdf_sha256,version_sha256,verification_code');
+    expect(csv.split('\r\n')[0]).toBe('sheet,title,revision,status,version,issued_at_utc,issued_by,superseded_by,withdrawn_reason,pdf_sha256,version_sha256,verification_code,superseded_inputs');
     expect(csv).toContain('TPT2-CALC-0001,Gantry dipole rigidity,B,withdrawn,');
   });
 });

@@ -11,7 +11,7 @@ import type { Actor } from '../../lib/auth/actor';
 import { findReferences } from '../../lib/calc/references';
 import type { SheetResult, StatementResult } from '../../lib/calc/types';
 import { decide, saveCheckWork, submitForCheck } from '../../lib/checks/workflow';
-import { processIssueJob, requestIssue, withdrawRevision } from '../../lib/issue/issue';
+import { listRevisions, processIssueJob, registerCsv, requestIssue, withdrawRevision } from '../../lib/issue/issue';
 import { revisionInputFlags, sheetImpact, sheetInputFlags, staleRevisionCounts, supersededInputs } from '../../lib/sheets/impact';
 import { NO_PROJECT_FOR_REFERENCES, resolveReferences, unresolvedReferences } from '../../lib/sheets/references';
 import { createSheet, getVersion, saveVersion } from '../../lib/sheets/sheets';
@@ -250,6 +250,10 @@ describe('recording, superseded inputs and impact', ISSUING, () => {
     expect(register.get(revBA.revisionId)).toEqual([{ sheet: 'TPT2-CALC-0001', sheetNumber: 1, revision: 'A', status: 'superseded', currentRevision: 'B' }]);
     expect([...(await sheetInputFlags(db, projectId)).keys()]).toEqual([b.id]);
     expect(await staleRevisionCounts(db, [projectId])).toEqual(new Map([[projectId, 1]]));
+    // The register's CSV names the superseded input on B's row only.
+    const csvRows = registerCsv(await listRevisions(db, { projectId }), register).trim().split('\r\n');
+    expect(csvRows[0].endsWith(',superseded_inputs')).toBe(true);
+    expect(csvRows.filter((line) => line.endsWith(',TPT2-CALC-0001 rev. A (superseded by rev. B)')).map((line) => line.split(',')[0])).toEqual(['TPT2-CALC-0002']);
 
     // Impact of A: B directly (through revision A), C through B's revision A.
     const impact = await sheetImpact(db, a.id);

@@ -2,6 +2,7 @@ import { getDb } from '@/db';
 import { requireProjectRole } from '@/lib/auth/current-actor';
 import { handle, parseValue, searchParams } from '@/lib/http/route';
 import { listRevisions, registerCsv, registerQuerySchema } from '@/lib/issue/issue';
+import { revisionInputFlags } from '@/lib/sheets/impact';
 
 export const dynamic = 'force-dynamic';
 
@@ -12,7 +13,7 @@ export function GET(request: Request, { params }: { params: Promise<{ projectId:
     const q = parseValue(searchParams(request), registerQuerySchema);
     const rows = await listRevisions(getDb(), { projectId: project.id, status: q.status, q: q.q });
     if (q.format === 'csv') {
-      return new Response(registerCsv(rows), {
+      return new Response(registerCsv(rows, await revisionInputFlags(getDb(), project.id)), {
         headers: { 'content-type': 'text/csv; charset=utf-8', 'content-disposition': `attachment; filename="${project.code}-register.csv"` },
       });
     }
