@@ -75,7 +75,54 @@ export function runCalcBench(repeats = 5) {
   return { cells: sheet.length, statements: statements.length, bareMs, fullMs, editMs, fullOverBare: fullMs / bareMs, editOverFull: editMs / fullMs };
 }
 
+const STUDY_MODEL = (energy: string) =>
+  [`T_kin = ${energy}`, 'beta = speedFromKinetic(T_kin, m_p) / c', 'gamma_L = lorentzFactor(beta)', 'p = momentumFromKinetic(T_kin, m_p)', 'Brho = magneticRigidity(p, q_e) to T*m', 'B_dip = Brho / (1.5 m) to T'].join('\n');
+
+/**
+ * Studies: a 200-step sweep against 200 evaluations of the sheet with the value written in; the
+ * first-order uncertainty of five results against the same sheet without uncertainties; the Monte
+ * Carlo propagation (10 000 draws for each of five results) against the same.
+ */
+export function runStudyBench(repeats = 5) {
+  const cells = (source: string, extra = ''): CellInput[] => [
+    { id: 'm', kind: 'calc', source },
+    ...(extra ? [{ id: 's', kind: 'calc' as const, source: extra }] : []),
+  ];
+  const energies = Array.from({ length: 200 }, (_, k) => 70 + (180 * k) / 199);
+  const sweepTimes: number[] = [];
+  const singleTimes: number[] = [];
+  const plainTimes: number[] = [];
+  const firstOrderTimes: number[] = [];
+  const monteCarloTimes: number[] = [];
+  for (let r = 0; r < repeats + 1; r++) {
+    const engine = createSheetEngine();
+    const sweep = time(() => engine.evaluate(cells(STUDY_MODEL('250 MeV'), 'sweep(T_kin, points(70 MeV, 250 MeV, 200), beta, gamma_L, Brho, B_dip)'), { significantFigures: 6 }));
+    const single = time(() => {
+      for (const t of energies) engine.evaluate(cells(STUDY_MODEL(`${t} MeV`)), { significantFigures: 6 });
+    });
+    engine.clearCache();
+    const plain = time(() => engine.evaluate(cells(STUDY_MODEL('250 MeV')), { significantFigures: 6 }));
+    engine.clearCache();
+    const firstOrder = time(() => engine.evaluate(cells(STUDY_MODEL('250 MeV ± 0.4 MeV')), { significantFigures: 6 }));
+    engine.clearCache();
+    const monteCarlo = time(() => engine.evaluate(cells(STUDY_MODEL('250 MeV ± 0.4 MeV')), { significantFigures: 6, monteCarlo: 'always' }));
+    if (r === 0) continue; // warm-up
+    sweepTimes.push(sweep);
+    singleTimes.push(single);
+    plainTimes.push(plain);
+    firstOrderTimes.push(firstOrder);
+    monteCarloTimes.push(monteCarlo);
+  }
+  const [sweepMs, singleMs, plainMs, firstOrderMs, monteCarloMs] = [sweepTimes, singleTimes, plainTimes, firstOrderTimes, monteCarloTimes].map(median);
+  return { sweepMs, singleMs, plainMs, firstOrderMs, monteCarloMs, sweepOverSingles: sweepMs / singleMs, firstOrderOverPlain: firstOrderMs / plainMs, monteCarloOverPlain: monteCarloMs / plainMs };
+}
+
 async function main() {
+  const st = runStudyBench();
+  console.log('Studies (median of 5 runs)');
+  console.log(`  sweep of 200 steps: ${st.sweepMs.toFixed(1)} ms; 200 evaluations with the value written in: ${st.singleMs.toFixed(1)} ms; ratio ${st.sweepOverSingles.toFixed(3)}`);
+  console.log(`  5 results with first-order uncertainty: ${st.firstOrderMs.toFixed(1)} ms against ${st.plainMs.toFixed(1)} ms without; ratio ${st.firstOrderOverPlain.toFixed(2)}`);
+  console.log(`  the same with Monte Carlo (10 000 draws each): ${st.monteCarloMs.toFixed(1)} ms; ratio to without ${st.monteCarloOverPlain.toFixed(1)}\n`);
   const r = runCalcBench();
   console.log('Calculation engine, 2,000-cell sheet with units (median of 5 runs)');
   console.log(`  bare mathjs compile + evaluate:    ${r.bareMs.toFixed(1)} ms for ${r.statements} statements`);
