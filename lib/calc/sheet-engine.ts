@@ -13,7 +13,7 @@ import { checkDefinitionName } from './names';
 import { formulaTex, substitutedTex, substitutionTex, type TexContext } from './tex';
 import type { CellInput, CellResult, CriterionResult, DisplayValue, EvaluateOptions, InputTable, ResolvedReference, SheetReference, SheetResult, StatementResult } from './types';
 import { REFERENCE_FUNCTION, referenceKey } from './references';
-import { computeStudy, inputUncertainty, propagateUncertainty, Reevaluator, siOf, type ChainStatement } from './studies';
+import { computeStudy, inputUncertainty, MONTE_CARLO_PER_SHEET, propagateUncertainty, Reevaluator, siOf, type ChainStatement } from './studies';
 import { STUDY_STATEMENTS, type StudyStatement } from './study-functions';
 import { ENGINE_VERSION } from './version';
 import { installSizeGuards, LIMITS } from './limits';
@@ -115,6 +115,8 @@ interface CachedCell {
   substitutions: Array<[string, string]>;
   /** Standard uncertainties of the inputs the cell defines (`x = value ± u`). */
   uncertainties: Map<string, unknown>;
+  /** Monte Carlo propagations the cell asked for (run or refused), counted towards the sheet's share. */
+  monteCarloRequests: number;
 }
 
 export function createSheetEngine(): SheetEngine {
@@ -400,6 +402,7 @@ export function createSheetEngine(): SheetEngine {
     const resolved = new Map((options.references ?? []).map((r) => [referenceKey(r), r]));
     /** Standard uncertainties of the inputs that carry one, by name. */
     const inputU = new Map<string, unknown>();
+    let monteCarloRequests = 0;
 
     // Every name's definition in sheet order, and what each depends on (directly and through other
     // names), for re-evaluating what depends on an input: sweeps, plots, uncertainty propagation.
@@ -513,6 +516,8 @@ export function createSheetEngine(): SheetEngine {
         // Cited results as resolved now (a withdrawal or a new issue changes what the cell shows).
         ...statements.filter((st) => st.reference).map((st) => `ref:${JSON.stringify(resolved.get(referenceKey(st.reference!)) ?? null)}`),
         ...(monteCarloMode === 'always' && statements.some((st) => st.defines) ? ['monteCarlo:always'] : []),
+        // How many of the sheet's Monte Carlo propagations are left decides which this cell may run.
+        ...(inputU.size > 0 ? [`monteCarloUsed:${Math.min(monteCarloRequests, MONTE_CARLO_PER_SHEET)}`] : []),
       ];
       const key = createHash('sha256').update(`${sig}\0${ci}\0${cell.source}\0${context.join('\0')}`).digest('base64');
 
@@ -525,6 +530,7 @@ export function createSheetEngine(): SheetEngine {
         for (const [name, tex] of cached.substitutions) texValue.set(name, tex);
         for (const [name, why] of cached.failed) failed.set(name, why);
         for (const [name, u] of cached.uncertainties) inputU.set(name, u);
+        monteCarloRequests += cached.monteCarloRequests;
         for (const st of statements) if (st.defines && !definedAt.has(st.defines)) definedAt.set(st.defines, { cell: ci, line: st.line });
         for (const name of ownNames) nameKey.set(name, key);
         results.push({ ...cached.result, id: cell.id, index: ci });
@@ -535,6 +541,7 @@ export function createSheetEngine(): SheetEngine {
       evaluatedCells++;
       const values = new Map<string, unknown>();
       const uncertainties = new Map<string, unknown>();
+      const requestsBefore = monteCarloRequests;
       const cellFailed = new Map<string, string>();
       const out: StatementResult[] = [];
       const texCtx: TexContext = {
@@ -693,6 +700,7 @@ export function createSheetEngine(): SheetEngine {
                   inputs.map((n) => ({ name: n, value: scope.get(n), u: inputU.get(n) })),
                   sig,
                   monteCarloMode,
+                  () => ++monteCarloRequests <= MONTE_CARLO_PER_SHEET,
                 );
               } catch (error) {
                 result.uncertainty = null;
@@ -735,7 +743,7 @@ export function createSheetEngine(): SheetEngine {
         const substitutions = out
           .filter((st) => st.kind === 'definition' && st.name && st.value && !st.error)
           .map((st) => [st.name!, substitutionTex(st.value!.tex)] as [string, string]);
-        remember(cellCache, key, { result: cellResult, values, failed: cellFailed, substitutions, uncertainties }, LIMITS.cellCacheEntries);
+        remember(cellCache, key, { result: cellResult, values, failed: cellFailed, substitutions, uncertainties, monteCarloRequests: monteCarloRequests - requestsBefore }, LIMITS.cellCacheEntries);
       }
     }
 

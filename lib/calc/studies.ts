@@ -37,6 +37,11 @@ class OverlayScope extends Map<string, unknown> {
 /** Monte Carlo trials per result; fixed, with a fixed seed, so that an evaluation is reproducible. */
 export const MONTE_CARLO_TRIALS = 10_000;
 export const MONTE_CARLO_SEED = 20_081_231;
+/**
+ * Monte Carlo propagations per sheet evaluation (each 10 000 runs of its model). Counted in sheet
+ * order, cached cells included, so the same sheet always gets the same ones.
+ */
+export const MONTE_CARLO_PER_SHEET = 8;
 
 export class Reevaluator {
   constructor(
@@ -175,6 +180,8 @@ export function propagateUncertainty(
   inputs: readonly PropagationInput[],
   sig: number,
   monteCarloMode: 'auto' | 'always',
+  /** Asked before each Monte Carlo run: false once the sheet has used its share (MONTE_CARLO_PER_SHEET). */
+  takeMonteCarloSlot: () => boolean = () => true,
 ): UncertaintyResult {
   const ySi = siOf(math, y);
   if (ySi === null) throw new Error('an uncertainty is propagated to single values only (not to lists)');
@@ -210,7 +217,12 @@ export function propagateUncertainty(
   });
   let mc: MonteCarloSummary | null = null;
   let warning: string | null = null;
-  if (fo.nonLinear || monteCarloMode === 'always') {
+  const wanted = fo.nonLinear || monteCarloMode === 'always';
+  if (wanted && !takeMonteCarloSlot()) {
+    warning = fo.nonLinear
+      ? `the model is markedly non-linear here and the first-order result may be poor; the Monte Carlo check was not run (at most ${MONTE_CARLO_PER_SHEET} per sheet, to stay within the evaluation time limit)`
+      : null;
+  } else if (wanted) {
     const r = monteCarlo(model, xs, { trials: MONTE_CARLO_TRIALS, seed: MONTE_CARLO_SEED });
     if (r.valid < 2) {
       warning = `the Monte Carlo propagation could not evaluate the model for ${r.outOfDomain} of ${r.trials} draws (outside a function's domain); the first-order result is not reliable here`;

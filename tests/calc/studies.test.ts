@@ -194,6 +194,25 @@ describe('uncertainty (JCGM 100:2008, law of propagation of uncertainty)', () =>
     expect(u.warning).toMatch(/outside the model's domain/);
   });
 
+  it('runs at most eight Monte Carlo propagations per sheet, the same ones whatever the cache holds', () => {
+    const lines = ['b_m = 0.9999 ± 0.00005', ...Array.from({ length: 10 }, (_, k) => `g_${k} = lorentzFactor(b_m) * ${k + 1}`)];
+    const cells = lines.map((source, i) => ({ id: `m${i}`, kind: 'calc' as const, source }));
+    const fresh = createSheetEngine();
+    const first = fresh.evaluate(cells, { significantFigures: 6 });
+    const ran = (r: SheetResult) => Array.from({ length: 10 }, (_, k) => (statement(r, `g_${k}`).uncertainty?.monteCarlo ?? null) !== null);
+    expect(ran(first)).toEqual([true, true, true, true, true, true, true, true, false, false]);
+    expect(statement(first, 'g_9').uncertainty!.warning).toMatch(/not run \(at most 8 per sheet/);
+    // Editing the last cell re-evaluates it alone: the cached cells still count.
+    const edited = cells.map((c, i) => (i === 10 ? { ...c, source: 'g_9 = lorentzFactor(b_m) * 11' } : c));
+    const again = fresh.evaluate(edited, { significantFigures: 6 });
+    expect(again.evaluatedCells).toBe(1);
+    expect(ran(again)).toEqual(ran(first));
+    // Taking the uncertainty off one early result frees a slot: the later cells see it, cached or not.
+    const freed = edited.map((c, i) => (i === 1 ? { ...c, source: 'g_0 = lorentzFactor(0.9999) * 1' } : c));
+    expect(ran(fresh.evaluate(freed, { significantFigures: 6 }))).toEqual(ran(createSheetEngine().evaluate(freed, { significantFigures: 6 })));
+    expect(ran(fresh.evaluate(freed, { significantFigures: 6 }))[8]).toBe(true);
+  });
+
   it('leaves an input with zero uncertainty out of the budget without breaking it', () => {
     const r = run(calc('L_1 = 2 m ± 0.003 m\nL_2 = 1 m ± 0 m\nL_t = L_1 * L_2'));
     const u = statement(r, 'L_t').uncertainty!;
