@@ -101,7 +101,7 @@ export default function ReferencePage() {
           A sweep or a plot evaluates the sheet&apos;s own statements again for each value of one input, so each row is
           what the sheet gives for that value. Uncertainties are propagated to first order with sensitivity coefficients
           (JCGM 100:2008); where the model is markedly non-linear, a Monte Carlo propagation (JCGM 101:2008, 10 000 draws,
-          fixed seed) runs as well and a warning shows when the two disagree.
+          fixed seed; at most eight per sheet) runs as well and a warning shows when the two disagree.
         </p>
         <dl className="mt-4 space-y-4">
           {STUDY_FUNCTION_DOCS.map((d) => (
