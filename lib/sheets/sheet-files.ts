@@ -7,7 +7,7 @@ import type { Actor } from '@/lib/auth/actor';
 import { cellsOf, DEFAULT_SIGNIFICANT_FIGURES, parseSheetFile, SheetFileError } from '@/lib/calc/sheet-file';
 import { AppError, unstorableTextPath } from '@/lib/errors/app-error';
 import { calculationRecordSchema, emptyRecord, versionContentSchema, type VersionContent } from './content';
-import { createSheet, saveVersion } from './sheets';
+import { createSheetWithContent } from './sheets';
 
 export const SHEET_FILE_MAX_BYTES = 4 * 1024 * 1024;
 
@@ -47,11 +47,9 @@ export async function importSheetFile(db: Kysely<Database>, actor: Actor, projec
     attachments: [],
   });
   if (!content.success) throw new AppError('bad_request', `not a sheet file: ${content.error.issues[0].path.join('.')}: ${content.error.issues[0].message}`);
-  // Creating the sheet and saving the file are two transactions, and a version can never be
-  // deleted: text PostgreSQL would refuse in the second must be refused before the first.
+  // Text PostgreSQL would refuse is refused here with a message naming where it is.
   const unstorable = unstorableTextPath(content.data, 'file');
   if (unstorable !== null) throw new AppError('bad_request', `not a sheet file: ${unstorable}: holds a character that cannot be stored (U+0000, or half of a surrogate pair)`);
-  const sheet = await createSheet(db, actor, project, { title: content.data.title, safetyRelated: content.data.safetyRelated, objective: content.data.record.objective });
-  const saved = await saveVersion(db, actor, { id: sheet.id, project_id: project.id }, { parentNumber: 1, message: 'Imported from a sheet file', content: content.data });
-  return { ...sheet, version: saved.number, sha256: saved.sha256 };
+  // The sheet and its imported version are made in one transaction: never a sheet without its file.
+  return createSheetWithContent(db, actor, project, content.data, 'Imported from a sheet file');
 }

@@ -1,7 +1,7 @@
 // Sheets and their versions. A sheet is numbered by the server within its project; every save is
 // a new immutable version that names the version it was based on, and a save based on anything but
 // the latest version is refused (409) so that no one's work is silently overwritten.
-import { sql, type Kysely } from 'kysely';
+import { sql, type Kysely, type Transaction } from 'kysely';
 import { z } from 'zod';
 import type { Database } from '@/db/schema';
 import type { Actor } from '@/lib/auth/actor';
@@ -64,8 +64,9 @@ async function evaluateContent(content: VersionContent, sheetKey: string, tables
   return getEvaluator().evaluate(content.cells, { significantFigures: content.significantFigures, tables, references }, sheetKey);
 }
 
-export async function createSheet(db: Kysely<Database>, actor: Actor, project: { id: string; code: string }, input: z.infer<typeof createSheetSchema>) {
-  const content = versionContentSchema.parse({
+/** A new sheet's version 1: its title, safety flag and objective, no cells. */
+function firstContent(input: z.infer<typeof createSheetSchema>): VersionContent {
+  return versionContentSchema.parse({
     schema: 1,
     title: input.title,
     safetyRelated: input.safetyRelated,
@@ -74,34 +75,58 @@ export async function createSheet(db: Kysely<Database>, actor: Actor, project: {
     cells: [],
     attachments: [],
   });
+}
+
+/** Numbers and inserts a sheet with its version 1 (already evaluated), inside `trx`. */
+async function insertSheet(trx: Transaction<Database>, actor: Actor, project: { id: string; code: string }, input: z.infer<typeof createSheetSchema>, content: VersionContent, results: SheetResult) {
+  await sql`select pg_advisory_xact_lock(hashtext(${`sheets:${project.id}`}))`.execute(trx);
+  const next = await trx.selectFrom('sheets').select(sql<number>`coalesce(max(number), 0) + 1`.as('n')).where('project_id', '=', project.id).executeTakeFirstOrThrow();
+  const sheet = await trx
+    .insertInto('sheets')
+    .values({ project_id: project.id, number: Number(next.n), title: input.title, safety_related: input.safetyRelated, created_by: actor.userId })
+    .returning(['id', 'number'])
+    .executeTakeFirstOrThrow();
+  const hash = contentHash(content);
+  await trx
+    .insertInto('versions')
+    .values({
+      sheet_id: sheet.id,
+      number: 1,
+      parent_number: null,
+      content: JSON.stringify(content),
+      content_hash: hash,
+      results: JSON.stringify(results),
+      engine_version: results.engineVersion,
+      constants_edition: results.constantsEdition,
+      author_id: actor.userId,
+      message: 'Sheet created',
+    })
+    .execute();
+  const code = formatSheetNumber(project.code, sheet.number);
+  await recordAudit(trx, actor, { action: 'sheet.create', objectType: 'sheet', objectId: sheet.id, projectId: project.id, newValue: { number: code, title: input.title, safetyRelated: input.safetyRelated, version: 1, sha256: hash } });
+  return { id: sheet.id, number: sheet.number, code };
+}
+
+export async function createSheet(db: Kysely<Database>, actor: Actor, project: { id: string; code: string }, input: z.infer<typeof createSheetSchema>) {
+  const content = firstContent(input);
   const results = await evaluateContent(content, `new:${project.id}`);
+  return db.transaction().execute((trx) => insertSheet(trx, actor, project, input, content, results));
+}
+
+/**
+ * Creates a sheet and saves `content` as its version 2 in one transaction: both are evaluated first,
+ * so that a sheet never exists without the content it was created for (an import).
+ */
+export async function createSheetWithContent(db: Kysely<Database>, actor: Actor, project: { id: string; code: string }, content: VersionContent, message: string) {
+  const input = { title: content.title, safetyRelated: content.safetyRelated, objective: content.record.objective };
+  const first = firstContent(input);
+  const firstResults = await evaluateContent(first, `new:${project.id}`);
+  // A new sheet has no attachments yet, and no revision of its own that a cell could cite.
+  const prepared = await prepareVersion(db, { id: null, project_id: project.id }, content);
   return db.transaction().execute(async (trx) => {
-    await sql`select pg_advisory_xact_lock(hashtext(${`sheets:${project.id}`}))`.execute(trx);
-    const next = await trx.selectFrom('sheets').select(sql<number>`coalesce(max(number), 0) + 1`.as('n')).where('project_id', '=', project.id).executeTakeFirstOrThrow();
-    const sheet = await trx
-      .insertInto('sheets')
-      .values({ project_id: project.id, number: Number(next.n), title: input.title, safety_related: input.safetyRelated, created_by: actor.userId })
-      .returning(['id', 'number'])
-      .executeTakeFirstOrThrow();
-    const hash = contentHash(content);
-    await trx
-      .insertInto('versions')
-      .values({
-        sheet_id: sheet.id,
-        number: 1,
-        parent_number: null,
-        content: JSON.stringify(content),
-        content_hash: hash,
-        results: JSON.stringify(results),
-        engine_version: results.engineVersion,
-        constants_edition: results.constantsEdition,
-        author_id: actor.userId,
-        message: 'Sheet created',
-      })
-      .execute();
-    const code = formatSheetNumber(project.code, sheet.number);
-    await recordAudit(trx, actor, { action: 'sheet.create', objectType: 'sheet', objectId: sheet.id, projectId: project.id, newValue: { number: code, title: input.title, safetyRelated: input.safetyRelated, version: 1, sha256: hash } });
-    return { id: sheet.id, number: sheet.number, code };
+    const sheet = await insertSheet(trx, actor, project, input, first, firstResults);
+    const saved = await insertVersion(trx, actor, { id: sheet.id, project_id: project.id }, { parentNumber: 1, message, content }, prepared);
+    return { ...sheet, version: saved.number, sha256: saved.sha256 };
   });
 }
 
@@ -135,48 +160,63 @@ export async function getVersion(db: Kysely<Database>, sheetId: string, number?:
   return row ? { ...row, content: row.content as VersionContent, results: row.results as SheetResult | null } : undefined;
 }
 
+/** What a save computes before its transaction: the evaluation, the citations and the hash. */
+interface PreparedVersion {
+  results: SheetResult;
+  citations: Awaited<ReturnType<typeof resolveCitations>>;
+  hash: string;
+}
+
+async function prepareVersion(db: Kysely<Database>, sheet: { id: string | null; project_id: string }, content: VersionContent): Promise<PreparedVersion> {
+  // Every attachment the content cites must be one uploaded to this sheet; CSV tables feed the cells.
+  const tables = sheet.id ? await resolveAttachments(db, sheet.id, content.attachments) : [];
+  // Citations of other sheets' issued revisions: resolved to the values as issued before evaluating.
+  const citations = await resolveCitations(db, sheet.project_id, findReferences(content.cells), sheet.id ? { excludeSheetId: sheet.id } : {});
+  const results = await evaluateContent(content, sheet.id ?? `new:${sheet.project_id}`, tables, citations.map((c) => c.reference));
+  return { results, citations, hash: contentHash(content) };
+}
+
+/** Inserts a prepared version on top of `parentNumber`, inside `trx`; 409 when the sheet moved on. */
+async function insertVersion(trx: Transaction<Database>, actor: Actor, sheet: { id: string; project_id: string }, input: z.infer<typeof saveVersionSchema>, prepared: PreparedVersion) {
+  const { results, citations, hash } = prepared;
+  await trx.selectFrom('sheets').select('id').where('id', '=', sheet.id).forUpdate().executeTakeFirstOrThrow();
+  const latest = await trx.selectFrom('versions').select(['number', 'content_hash']).where('sheet_id', '=', sheet.id).orderBy('number', 'desc').limit(1).executeTakeFirstOrThrow();
+  if (latest.number !== input.parentNumber) {
+    throw new AppError('conflict', `Version ${latest.number} was saved since version ${input.parentNumber}, which your edits are based on.`, {
+      latestNumber: latest.number,
+      latestSha256: latest.content_hash,
+    });
+  }
+  const number = latest.number + 1;
+  const version = await trx
+    .insertInto('versions')
+    .values({
+      sheet_id: sheet.id,
+      number,
+      parent_number: input.parentNumber,
+      content: JSON.stringify(input.content),
+      content_hash: hash,
+      results: JSON.stringify(results),
+      engine_version: results.engineVersion,
+      constants_edition: results.constantsEdition,
+      author_id: actor.userId,
+      message: input.message,
+    })
+    .returning('id')
+    .executeTakeFirstOrThrow();
+  // The revisions this version depends on, for the superseded-input flags and the impact page.
+  const cited = citations.flatMap((c) => (c.revisionId ? [{ version_id: version.id, revision_id: c.revisionId, name: c.reference.name }] : []));
+  if (cited.length > 0) await trx.insertInto('version_references').values(cited).onConflict((oc) => oc.doNothing()).execute();
+  await trx.updateTable('sheets').set({ title: input.content.title, safety_related: input.content.safetyRelated, updated_at: sql`now()` }).where('id', '=', sheet.id).execute();
+  await recordAudit(trx, actor, { action: 'version.save', objectType: 'sheet', objectId: sheet.id, projectId: sheet.project_id, newValue: { version: number, parent: input.parentNumber, sha256: hash }, reason: input.message });
+  return { number, sha256: hash, ok: results.ok };
+}
+
 /**
  * Saves a new version based on `parentNumber`. Refused with 409 (and the latest version's number
  * and hash) when the sheet has moved on since the parent, so the editor can show what changed.
  */
 export async function saveVersion(db: Kysely<Database>, actor: Actor, sheet: { id: string; project_id: string }, input: z.infer<typeof saveVersionSchema>) {
-  // Every attachment the content cites must be one uploaded to this sheet; CSV tables feed the cells.
-  const tables = await resolveAttachments(db, sheet.id, input.content.attachments);
-  // Citations of other sheets' issued revisions: resolved to the values as issued before evaluating.
-  const citations = await resolveCitations(db, sheet.project_id, findReferences(input.content.cells), { excludeSheetId: sheet.id });
-  const results = await evaluateContent(input.content, sheet.id, tables, citations.map((c) => c.reference));
-  const hash = contentHash(input.content);
-  return db.transaction().execute(async (trx) => {
-    await trx.selectFrom('sheets').select('id').where('id', '=', sheet.id).forUpdate().executeTakeFirstOrThrow();
-    const latest = await trx.selectFrom('versions').select(['number', 'content_hash']).where('sheet_id', '=', sheet.id).orderBy('number', 'desc').limit(1).executeTakeFirstOrThrow();
-    if (latest.number !== input.parentNumber) {
-      throw new AppError('conflict', `Version ${latest.number} was saved since version ${input.parentNumber}, which your edits are based on.`, {
-        latestNumber: latest.number,
-        latestSha256: latest.content_hash,
-      });
-    }
-    const number = latest.number + 1;
-    const version = await trx
-      .insertInto('versions')
-      .values({
-        sheet_id: sheet.id,
-        number,
-        parent_number: input.parentNumber,
-        content: JSON.stringify(input.content),
-        content_hash: hash,
-        results: JSON.stringify(results),
-        engine_version: results.engineVersion,
-        constants_edition: results.constantsEdition,
-        author_id: actor.userId,
-        message: input.message,
-      })
-      .returning('id')
-      .executeTakeFirstOrThrow();
-    // The revisions this version depends on, for the superseded-input flags and the impact page.
-    const cited = citations.flatMap((c) => (c.revisionId ? [{ version_id: version.id, revision_id: c.revisionId, name: c.reference.name }] : []));
-    if (cited.length > 0) await trx.insertInto('version_references').values(cited).onConflict((oc) => oc.doNothing()).execute();
-    await trx.updateTable('sheets').set({ title: input.content.title, safety_related: input.content.safetyRelated, updated_at: sql`now()` }).where('id', '=', sheet.id).execute();
-    await recordAudit(trx, actor, { action: 'version.save', objectType: 'sheet', objectId: sheet.id, projectId: sheet.project_id, newValue: { version: number, parent: input.parentNumber, sha256: hash }, reason: input.message });
-    return { number, sha256: hash, ok: results.ok };
-  });
+  const prepared = await prepareVersion(db, sheet, input.content);
+  return db.transaction().execute((trx) => insertVersion(trx, actor, sheet, input, prepared));
 }
