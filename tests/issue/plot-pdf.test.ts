@@ -242,7 +242,8 @@ describe('a sweep table in the issued PDF', () => {
 describe('uncertainty and citations in the issued PDF', () => {
   it('shows "y ± U (k = 2)" under a result and an input\'s standard uncertainty', () => {
     expect(whole).toContain('2.4297 ± 0.0012 T·m (k = 2)');
-    expect(whole).toContain('standard uncertainty u = 0.5 MeV');
+    // Two significant digits, the trailing zero kept (JCGM 100:2008, 7.2.6).
+    expect(whole).toContain('standard uncertainty u = 0.50 MeV');
   });
 
   it('shows the budget: each input\'s contribution and share, u_c and U, the Monte Carlo check and the caution', () => {
