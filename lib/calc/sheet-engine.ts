@@ -68,6 +68,8 @@ interface ParsedStatement {
   uncertain: boolean;
   /** A definition `x = fromRevision("SHEET", "REV", "name")`: a cited result of another sheet. */
   reference: SheetReference | null;
+  /** `correlation(x, y, r)`: the correlation coefficient of two uncertain inputs. */
+  correlation?: { a: string; b: string; r: number };
   /** `sweep(…)`, `plot(…)` or `spacetime(…)`: the input swept and the results named. */
   study: { kind: StudyStatement; input: string; targets: string[] } | null;
   /** The compiled right-hand side (definitions) or statement (functions), made on first use. */
@@ -314,7 +316,27 @@ export function createSheetEngine(): SheetEngine {
         st.kind = isCriterion(node) ? 'criterion' : 'expression';
         analyse(node, st);
         const fnName = node.type === 'FunctionNode' && (node.fn as AnyNode)?.type === 'SymbolNode' ? (node.fn as AnyNode).name! : null;
-        if (fnName && (STUDY_STATEMENTS as readonly string[]).includes(fnName)) {
+        if (fnName === 'correlation') {
+          const args = (node.args ?? []) as AnyNode[];
+          const literal = (a: AnyNode | undefined): number | null => {
+            if (a?.type === 'ConstantNode' && typeof (a as AnyNode & { value?: unknown }).value === 'number') return (a as AnyNode & { value: number }).value;
+            if (a?.type === 'OperatorNode' && a.fn === 'unaryMinus' && a.args?.length === 1) {
+              const inner = literal(a.args[0] as AnyNode);
+              return inner === null ? null : -inner;
+            }
+            return null;
+          };
+          const r = literal(args[2]);
+          if (args.length !== 3 || args[0].type !== 'SymbolNode' || args[1].type !== 'SymbolNode' || r === null) {
+            st.staticError ??= 'write correlation(x, y, r) with the names of two inputs that carry an uncertainty and a number r';
+          } else if (!(Math.abs(r) <= 1)) {
+            st.staticError ??= 'a correlation coefficient lies between −1 and 1';
+          } else if (args[0].name === args[1].name) {
+            st.staticError ??= 'a correlation is between two different inputs';
+          } else {
+            st.correlation = { a: args[0].name!, b: args[1].name!, r };
+          }
+        } else if (fnName && (STUDY_STATEMENTS as readonly string[]).includes(fnName)) {
           const kind = fnName as StudyStatement;
           st.kind = kind === 'sweep' ? 'sweep' : 'plot';
           const args = node.args ?? [];
@@ -437,6 +459,19 @@ export function createSheetEngine(): SheetEngine {
       }
     }
     const reevaluator = new Reevaluator(scope, chain, chainIndex);
+    // Correlations between inputs, from every correlation(x, y, r) of the sheet (the first one of a
+    // pair counts): they hold for every result, wherever the statement stands.
+    const staticallyUncertain = new Set(parsed.flat().filter((st) => st.uncertain && st.defines && !st.parseError && !st.staticError).map((st) => st.defines!));
+    const correlations = new Map<string, { r: number; cell: number; line: number }>();
+    const pairKey = (a: string, b: string) => (a < b ? `${a}\0${b}` : `${b}\0${a}`);
+    parsed.forEach((statements, ci) => {
+      for (const st of statements) {
+        const c = st.correlation;
+        if (c && staticallyUncertain.has(c.a) && staticallyUncertain.has(c.b) && !correlations.has(pairKey(c.a, c.b))) correlations.set(pairKey(c.a, c.b), { r: c.r, cell: ci, line: st.line });
+      }
+    });
+    const correlationContext = correlations.size ? [`correlations:${[...correlations].map(([k, v]) => `${k}=${v.r}`).join(';')}`] : [];
+    const correlationOf = (a: string, b: string) => (a === b ? 1 : (correlations.get(pairKey(a, b))?.r ?? 0));
     // The uncertain inputs a name depends on (directly or through other names), memoised: asked for
     // only once the sheet has an uncertain input, and only for names defined above the one asking.
     const uncertainMemo = new Map<string, readonly string[]>();
@@ -518,6 +553,7 @@ export function createSheetEngine(): SheetEngine {
         ...(monteCarloMode === 'always' && statements.some((st) => st.defines) ? ['monteCarlo:always'] : []),
         // How many of the sheet's Monte Carlo propagations are left decides which this cell may run.
         ...(inputU.size > 0 ? [`monteCarloUsed:${Math.min(monteCarloRequests, MONTE_CARLO_PER_SHEET)}`] : []),
+        ...correlationContext,
       ];
       const key = createHash('sha256').update(`${sig}\0${ci}\0${cell.source}\0${context.join('\0')}`).digest('base64');
 
@@ -620,6 +656,15 @@ export function createSheetEngine(): SheetEngine {
             const c = evaluateCriterion(node, scope);
             value = c.value;
             result.criterion = c.criterion;
+          } else if (st.correlation) {
+            const { a, b, r } = st.correlation;
+            for (const name of [a, b]) {
+              if (!definedAt.has(name)) throw new Error(`\`${name}\` is not defined above`);
+              if (!staticallyUncertain.has(name)) throw new Error(`\`${name}\` carries no standard uncertainty (write it as ${name} = value ± u)`);
+            }
+            const first = correlations.get(pairKey(a, b))!;
+            if (first.cell !== ci || first.line !== st.line) throw new Error(`the correlation of \`${a}\` and \`${b}\` is already given in cell ${first.cell + 1}, line ${first.line}`);
+            value = r;
           } else if (st.study) {
             const listValue = (node.args![1] as AnyNode).compile().evaluate(scope);
             const list = math.isMatrix(listValue) ? (listValue as { toArray(): unknown[] }).toArray() : Array.isArray(listValue) ? listValue : null;
@@ -701,6 +746,7 @@ export function createSheetEngine(): SheetEngine {
                   sig,
                   monteCarloMode,
                   () => ++monteCarloRequests <= MONTE_CARLO_PER_SHEET,
+                  correlations.size ? correlationOf : undefined,
                 );
               } catch (error) {
                 result.uncertainty = null;

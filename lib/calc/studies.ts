@@ -182,6 +182,8 @@ export function propagateUncertainty(
   monteCarloMode: 'auto' | 'always',
   /** Asked before each Monte Carlo run: false once the sheet has used its share (MONTE_CARLO_PER_SHEET). */
   takeMonteCarloSlot: () => boolean = () => true,
+  /** Correlation coefficient of two inputs by name (1 for the same, 0 when none is given). */
+  correlationOf?: (a: string, b: string) => number,
 ): UncertaintyResult {
   const ySi = siOf(math, y);
   if (ySi === null) throw new Error('an uncertainty is propagated to single values only (not to lists)');
@@ -192,7 +194,9 @@ export function propagateUncertainty(
     if (si === null) throw new Error(`${target} is not a single value`);
     return si;
   };
-  const fo = firstOrder(model, xs);
+  const correlation = correlationOf && inputs.length > 1 ? inputs.map((a) => inputs.map((b) => correlationOf(a.name, b.name))) : undefined;
+  const correlated = correlation?.some((row, i) => row.some((r, j) => i !== j && r !== 0)) ? correlation : undefined;
+  const fo = firstOrder(model, xs, correlated ? { correlation: correlated } : undefined);
   const dy = displayUnitOf(math, y);
   const uc = fo.uc / dy.factor;
   const U = 2 * uc;
@@ -223,7 +227,7 @@ export function propagateUncertainty(
       ? `the model is markedly non-linear here and the first-order result may be poor; the Monte Carlo check was not run (at most ${MONTE_CARLO_PER_SHEET} per sheet, to stay within the evaluation time limit)`
       : null;
   } else if (wanted) {
-    const r = monteCarlo(model, xs, { trials: MONTE_CARLO_TRIALS, seed: MONTE_CARLO_SEED });
+    const r = monteCarlo(model, xs, { trials: MONTE_CARLO_TRIALS, seed: MONTE_CARLO_SEED, ...(correlated ? { correlation: correlated } : {}) });
     if (r.valid < 2) {
       warning = `the Monte Carlo propagation could not evaluate the model for ${r.outOfDomain} of ${r.trials} draws (outside a function's domain); the first-order result is not reliable here`;
     } else {

@@ -41,6 +41,13 @@ export const STUDY_FUNCTION_DOCS: readonly StudyFunctionDoc[] = [
     example: 'T_kin = 250 MeV ± 0.5 MeV',
   },
   {
+    name: 'correlation',
+    signature: 'correlation(x, y, r)',
+    summary:
+      'The correlation coefficient r (a number from −1 to 1) between two inputs that carry a standard uncertainty, for example two readings from one calibration; a statement of its own line, applied to every result of the sheet that depends on both (JCGM 100:2008, 5.2).',
+    example: 'correlation(V_m, I_m, -0.36)',
+  },
+  {
     name: 'sweep',
     signature: 'sweep(input, values, result1, result2, …)',
     summary:
@@ -146,6 +153,7 @@ export function studyBindings(math: MathJsInstance): LibraryBinding[] {
       },
     },
     refuse('uncertain', 'uncertain(value, u) gives an input its standard uncertainty: write it as the whole definition, x = 250 MeV ± 0.5 MeV'),
+    refuse('correlation', 'correlation(…) is a statement of its own line: correlation(x, y, r)'),
     refuse('sweep', 'sweep(…) is a statement of its own line: sweep(input, values, result1, result2, …)'),
     refuse('plot', 'plot(…) is a statement of its own line: plot(input, values, result1, …)'),
     refuse('spacetime', 'spacetime(…) is a statement of its own line: spacetime(t, values, x1, …)'),

@@ -213,6 +213,40 @@ describe('uncertainty (JCGM 100:2008, law of propagation of uncertainty)', () =>
     expect(ran(fresh.evaluate(freed, { significantFigures: 6 }))[8]).toBe(true);
   });
 
+  it('reproduces the GUM resistance and reactance example with correlated inputs (JCGM 100:2008, H.2)', () => {
+    // JCGM 100:2008 H.2 (from memory): V = 4.9990 V, u 0.0032 V; I = 19.6610 mA, u 0.0095 mA; φ = 1.04446 rad,
+    // u 0.00075 rad; r(V,I) = −0.36, r(V,φ) = 0.86, r(I,φ) = −0.65. Published: R = 127.732 Ω, u 0.071 Ω;
+    // X = 219.847 Ω, u 0.296 Ω; Z = 254.260 Ω, u 0.236 Ω. With these rounded inputs the law of propagation
+    // gives u(R) = 0.0700 Ω (the published 0.071 comes from the unrounded observations; see uncertainty.test.ts).
+    const r = run(
+      calc(
+        'V_m = 4.9990 V ± 0.0032 V\nI_m = 19.6610 mA ± 0.0095 mA\nphi_m = 1.04446 rad ± 0.00075 rad',
+        'correlation(V_m, I_m, -0.36)\ncorrelation(V_m, phi_m, 0.86)\ncorrelation(I_m, phi_m, -0.65)',
+        'R_m = V_m / I_m * cos(phi_m) to ohm\nX_m = V_m / I_m * sin(phi_m) to ohm\nZ_m = V_m / I_m to ohm',
+      ),
+    );
+    expect(r.cells[1].ok).toBe(true);
+    expect(statement(r, 'R_m').value!.number).toBeCloseTo(127.732, 3);
+    expect(statement(r, 'X_m').value!.number).toBeCloseTo(219.847, 3);
+    expect(statement(r, 'Z_m').value!.number).toBeCloseTo(254.260, 3);
+    expect(statement(r, 'R_m').uncertainty!.u).toBeCloseTo(0.07, 3);
+    expect(statement(r, 'X_m').uncertainty!.u).toBeCloseTo(0.296, 3);
+    // 0.2366 from the rounded inputs against the published 0.236 (the same as uncertainty.test.ts finds).
+    expect(Math.abs(statement(r, 'Z_m').uncertainty!.u - 0.236)).toBeLessThan(0.001);
+    // Without the correlations the same inputs give a different u(R): the statements are what changes it.
+    const uncorrelated = run(calc('V_m = 4.9990 V ± 0.0032 V\nI_m = 19.6610 mA ± 0.0095 mA\nphi_m = 1.04446 rad ± 0.00075 rad', 'R_m = V_m / I_m * cos(phi_m) to ohm'));
+    expect(Math.abs(statement(uncorrelated, 'R_m').uncertainty!.u - 0.07)).toBeGreaterThan(0.01);
+  });
+
+  it('refuses a correlation of a value without uncertainty, out of range, or given twice', () => {
+    const r = run(calc('a_c = 1 m ± 0.1 m\nb_c = 2 m ± 0.1 m\nk_c = 3 m', 'correlation(a_c, k_c, 0.5)\ncorrelation(a_c, b_c, 1.5)\ncorrelation(a_c, b_c, 0.5)\ncorrelation(b_c, a_c, 0.2)'));
+    const [noU, range, ok, twice] = r.cells[1].statements;
+    expect(noU.error).toMatch(/`k_c` carries no standard uncertainty/);
+    expect(range.error).toMatch(/between −1 and 1/);
+    expect(ok.error).toBeNull();
+    expect(twice.error).toMatch(/already given in cell 2, line 3/);
+  });
+
   it('leaves an input with zero uncertainty out of the budget without breaking it', () => {
     const r = run(calc('L_1 = 2 m ± 0.003 m\nL_2 = 1 m ± 0 m\nL_t = L_1 * L_2'));
     const u = statement(r, 'L_t').uncertainty!;
