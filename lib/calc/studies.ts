@@ -265,6 +265,9 @@ export function propagateUncertainty(
     text: shown.text,
     tex: shown.tex,
     budget,
+    ...(correlated
+      ? { correlations: inputs.flatMap((a, i) => inputs.slice(i + 1).flatMap((b, k) => (correlated[i][i + 1 + k] !== 0 ? [{ a: a.name, b: b.name, r: correlated[i][i + 1 + k] }] : []))) }
+      : {}),
     nonLinear: fo.nonLinear,
     monteCarlo: mc,
     warning,

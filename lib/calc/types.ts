@@ -134,6 +134,8 @@ export interface UncertaintyResult {
   tex: string;
   /** Each input's contribution; empty for an input. */
   budget: BudgetLine[];
+  /** Correlations between the inputs of the budget that entered the propagation (none: uncorrelated). */
+  correlations?: Array<{ a: string; b: string; r: number }>;
   /** True when the first-order (linear) approximation is poor over ±2u of some input. */
   nonLinear: boolean;
   monteCarlo: MonteCarloSummary | null;

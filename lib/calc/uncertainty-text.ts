@@ -33,7 +33,10 @@ export function budgetRows(u: UncertaintyResult): string[][] {
 
 /** "combined standard uncertainty u_c = 0.0006 T·m; expanded U = 0.0012 T·m (k = 2)". */
 export function combinedText(u: UncertaintyResult): string {
-  return `combined standard uncertainty u_c = ${withUnit(u.u, u.unit)}; expanded uncertainty U = ${withUnit(u.U, u.unit)} (k = ${u.k})`;
+  const correlated = u.correlations?.length
+    ? `; with the correlations ${u.correlations.map((c) => `r(${c.a}, ${c.b}) = ${c.r < 0 ? '−' : ''}${Math.abs(c.r)}`).join(', ')} (the shares above are the uncorrelated parts)`
+    : '';
+  return `combined standard uncertainty u_c = ${withUnit(u.u, u.unit)}; expanded uncertainty U = ${withUnit(u.U, u.unit)} (k = ${u.k})${correlated}`;
 }
 
 /** The Monte Carlo summary as sentences: what was run, what it gave, whether it agrees. */

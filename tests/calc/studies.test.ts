@@ -3,6 +3,7 @@
 import { describe, expect, it } from 'vitest';
 import { createSheetEngine } from '../../lib/calc/sheet-engine';
 import type { CellInput, ResolvedReference, SheetResult, StatementResult } from '../../lib/calc/types';
+import { combinedText } from '../../lib/calc/uncertainty-text';
 
 const C = 299_792_458; // m/s, exact (SI Brochure, 9th ed.)
 const E = 1.602_176_634e-19; // C, exact (SI Brochure, 9th ed.)
@@ -233,6 +234,12 @@ describe('uncertainty (JCGM 100:2008, law of propagation of uncertainty)', () =>
     expect(statement(r, 'X_m').uncertainty!.u).toBeCloseTo(0.296, 3);
     // 0.2366 from the rounded inputs against the published 0.236 (the same as uncertainty.test.ts finds).
     expect(Math.abs(statement(r, 'Z_m').uncertainty!.u - 0.236)).toBeLessThan(0.001);
+    expect(statement(r, 'R_m').uncertainty!.correlations).toEqual([
+      { a: 'V_m', b: 'I_m', r: -0.36 },
+      { a: 'V_m', b: 'phi_m', r: 0.86 },
+      { a: 'I_m', b: 'phi_m', r: -0.65 },
+    ]);
+    expect(combinedText(statement(r, 'R_m').uncertainty!)).toMatch(/with the correlations r\(V_m, I_m\) = −0\.36, r\(V_m, phi_m\) = 0\.86, r\(I_m, phi_m\) = −0\.65/);
     // Without the correlations the same inputs give a different u(R): the statements are what changes it.
     const uncorrelated = run(calc('V_m = 4.9990 V ± 0.0032 V\nI_m = 19.6610 mA ± 0.0095 mA\nphi_m = 1.04446 rad ± 0.00075 rad', 'R_m = V_m / I_m * cos(phi_m) to ohm'));
     expect(Math.abs(statement(uncorrelated, 'R_m').uncertainty!.u - 0.07)).toBeGreaterThan(0.01);
