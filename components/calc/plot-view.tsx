@@ -37,6 +37,18 @@ export function PlotView({ plot, significantFigures = 6, label }: { plot: PlotDa
     el.replaceChildren(svg);
   }, [plot, width, description]);
 
+  // The figure as a standalone SVG file (fixed width, the fonts named), for a report or a slide.
+  const downloadSvg = () => {
+    const svg = plotElement(plot, window.document, { width: MAX_WIDTH });
+    svg.setAttribute('xmlns', 'http://www.w3.org/2000/svg');
+    const url = URL.createObjectURL(new Blob([svg.outerHTML], { type: 'image/svg+xml' }));
+    const a = window.document.createElement('a');
+    a.href = url;
+    a.download = `${(label ?? 'figure').replace(/[^A-Za-z0-9]+/g, '-').replace(/^-|-$/g, '').toLowerCase() || 'figure'}.svg`;
+    a.click();
+    setTimeout(() => URL.revokeObjectURL(url), 1000);
+  };
+
   const axes = plotAxisLabels(plot);
   const horizonUnit = unitLabel(plot.x.unit ?? plot.y.unit);
   return (
@@ -46,6 +58,9 @@ export function PlotView({ plot, significantFigures = 6, label }: { plot: PlotDa
         {label ? <span className="font-semibold text-ink">{label}: </span> : null}
         {description}
       </figcaption>
+      <button type="button" onClick={downloadSvg} className="mt-1 text-sm text-accent underline underline-offset-2 hover:no-underline">
+        Download as SVG<span className="sr-only"> ({label ?? 'figure'})</span>
+      </button>
       <details className="mt-1 text-sm">
         <summary className="cursor-pointer text-accent underline-offset-2 hover:underline">Show data</summary>
         <div className="mt-1 space-y-3">

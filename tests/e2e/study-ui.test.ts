@@ -1,6 +1,7 @@
 // An engineering study in the browser: the demo dipole study (inputs with uncertainties, a sweep and
 // a plot) and the space-time diagram, as the originator reads them on the version page and edits
 // them in the editor, with the sweep downloaded as CSV. Fails on any console error or failed request.
+import { readFileSync } from 'node:fs';
 import { afterAll, beforeAll, expect, it } from 'vitest';
 import { DEMO_PASSWORD, seedDemo } from '../../db/seed';
 import { resetDatabase, testDb } from '../support/database';
@@ -68,6 +69,13 @@ it('shows a study sheet with its uncertainty budget, sweep table, plot and CSV',
   const svgText = await figure.locator('svg').first().textContent();
   expect(svgText).toMatch(/T_kin \(MeV\)/);
   expect(svgText).toMatch(/B_dip \(T\)/);
+  // The same figure as a file for a report.
+  const [download] = await Promise.all([page.waitForEvent('download'), figure.getByRole('button', { name: /Download as SVG/ }).click()]);
+  expect(download.suggestedFilename()).toMatch(/\.svg$/);
+  const file = readFileSync((await download.path())!, 'utf8');
+  expect(file.startsWith('<svg')).toBe(true);
+  expect(file).toContain('xmlns="http://www.w3.org/2000/svg"');
+  expect(file).toMatch(/B_dip \(T\)/);
   await originator.screenshot('study-sweep-and-plot');
   expect(originator.problems).toEqual([]);
 });
