@@ -20,19 +20,24 @@ type Status = { kind: 'idle' | 'busy' } | { kind: 'done'; text: string } | { kin
 export function SubmitForCheckForm({
   sheetId,
   versions,
-  checkers,
+  checkers: latestCheckers,
+  checkersByVersion,
   blocked,
 }: {
   sheetId: string;
   /** The versions that may be submitted, newest first. */
   versions: number[];
   checkers: CheckerOption[];
+  /** Each submittable version's checkers with their eligibility, which depends on who changed what up to it. */
+  checkersByVersion?: Record<number, CheckerOption[]>;
   /** Why nothing can be submitted now (an open check, an approved latest version), or null. */
   blocked: string | null;
 }) {
   const id = useId();
   const router = useRouter();
   const [status, setStatus] = useState<Status>({ kind: 'idle' });
+  const [version, setVersion] = useState<number | undefined>(versions[0]);
+  const checkers = (version !== undefined ? checkersByVersion?.[version] : undefined) ?? latestCheckers;
   const ineligible = checkers.filter((c) => !c.eligible);
   const anyEligible = checkers.some((c) => c.eligible);
 
@@ -72,7 +77,7 @@ export function SubmitForCheckForm({
             <label htmlFor={`${id}-version`} className="block text-sm font-semibold">
               Version
             </label>
-            <select id={`${id}-version`} name="versionNumber" defaultValue={versions[0]} className="w-full rounded border border-rule-strong bg-surface px-3 py-2">
+            <select id={`${id}-version`} name="versionNumber" value={version} onChange={(e) => setVersion(Number(e.target.value))} className="w-full rounded border border-rule-strong bg-surface px-3 py-2">
               {versions.map((v, i) => (
                 <option key={v} value={v}>
                   Version {v}
@@ -86,6 +91,7 @@ export function SubmitForCheckForm({
               Checker
             </label>
             <select
+              key={version}
               id={`${id}-checker`}
               name="checkerId"
               required

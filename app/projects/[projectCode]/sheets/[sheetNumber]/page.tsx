@@ -73,6 +73,11 @@ export default async function SheetPage({ params, searchParams }: { params: Prom
   const code = formatSheetNumber(project.code, sheet.number);
   const isOriginator = roles.includes('originator');
   const checkers = isOriginator ? await eligibleCheckers(getDb(), sheet, workflow.latestVersion) : [];
+  // Eligibility depends on the version chosen (who saved what up to it): the newest ten, each its own.
+  const submittableVersions = versions.map((v) => v.number).filter((n) => workflow.lastApprovedVersion === null || n > workflow.lastApprovedVersion).slice(0, 10);
+  const checkersByVersion = isOriginator
+    ? Object.fromEntries(await Promise.all(submittableVersions.map(async (n) => [n, n === workflow.latestVersion ? checkers : await eligibleCheckers(getDb(), sheet, n)] as const)))
+    : {};
   const signatures: SignatureRow[] = workflow.signatures.map((s) => ({ ...s, meaningLabel: MEANING_LABELS[s.meaning] }));
   const stands = whereItStands(workflow);
   // The newest check of each version says what became of it.
@@ -206,7 +211,7 @@ export default async function SheetPage({ params, searchParams }: { params: Prom
             <h2 id="submit-title" className="font-bold">
               Submit for check
             </h2>
-            <SubmitForCheckForm sheetId={sheet.id} versions={submittable} checkers={checkers} blocked={blocked} />
+            <SubmitForCheckForm sheetId={sheet.id} versions={submittable} checkers={checkers} checkersByVersion={checkersByVersion} blocked={blocked} />
           </section>
         ) : null}
         {roles.includes('controller') ? (
