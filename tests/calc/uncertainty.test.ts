@@ -26,7 +26,7 @@ const gamma: Model = (x) => {
 describe('createRandom', () => {
   it('is xoshiro128** seeded by splitmix64, word for word', () => {
     // splitmix64 with state 0 first returns 0xE220A8397B1DCDAF (value from memory, confirmed by the C below).
-    // The outputs: a C transcription of the reference xoshiro128starstar.c and splitmix64.c (Blackman and
+    // The outputs: a C port of the reference xoshiro128starstar.c and splitmix64.c (Blackman and
     // Vigna), state words s0..s3 = low, high halves of the first two splitmix64 outputs, compiled with gcc.
     const expected: Array<[number, number[]]> = [
       [0, [3737715805, 2584255861, 2876756834, 3286328325, 1553311962, 1625202774]],
