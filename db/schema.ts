@@ -19,6 +19,8 @@ export interface UsersTable {
   is_admin: Generated<boolean>;
   disabled_at: Date | null;
   locked_at: Date | null;
+  /** When a timed lock ends; null with locked_at set means locked until an administrator unlocks. */
+  lock_expires_at: Date | null;
   failed_sign_ins: Generated<number>;
   password_changed_at: Date | null;
   created_at: Timestamp;
@@ -47,7 +49,7 @@ export interface SignInAttemptsTable {
   at: Timestamp;
 }
 
-export type EmailTokenPurpose = 'sign-in' | 'password-reset' | 'invitation';
+export type EmailTokenPurpose = 'sign-in' | 'password-reset' | 'invitation' | 'unlock';
 
 export interface EmailTokensTable {
   id: Generated<string>;
@@ -68,7 +70,12 @@ export interface ApiTokensTable {
   created_at: Timestamp;
   last_used_at: Date | null;
   revoked_at: Date | null;
+  /** 'read': GET requests only; 'read-write': any request (signing still asks for the password). */
+  scope: ColumnType<ApiTokenScope, ApiTokenScope | undefined, ApiTokenScope>;
+  expires_at: ColumnType<Date, Date | string | undefined, Date | string>;
 }
+
+export type ApiTokenScope = 'read' | 'read-write';
 
 export interface ProjectsTable {
   id: Generated<string>;

@@ -1,3 +1,5 @@
+import type { ApiTokenScope } from '@/db/schema';
+
 /** Who is acting, and through what: a browser session or an API token. */
 export interface Actor {
   userId: string;
@@ -7,6 +9,8 @@ export interface Actor {
   via: 'session' | 'token' | 'system';
   sessionId: string | null;
   tokenId: string | null;
+  /** For an API token: what it may do ('read': GET and HEAD only). Absent for sessions. */
+  tokenScope?: ApiTokenScope;
 }
 
 /** The demo seed and other start-up work act as the system, with no session or token. */
