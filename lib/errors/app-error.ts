@@ -1,7 +1,7 @@
 // One error type for the whole app: a code that maps to an HTTP status and a message safe to show.
 import { z } from 'zod';
 
-export type AppErrorCode = 'bad_request' | 'unauthenticated' | 'forbidden' | 'not_found' | 'conflict' | 'too_large' | 'unsupported_type' | 'unavailable';
+export type AppErrorCode = 'bad_request' | 'unauthenticated' | 'forbidden' | 'not_found' | 'conflict' | 'too_large' | 'unsupported_type' | 'too_many_requests' | 'unavailable';
 
 const STATUS: Record<AppErrorCode, number> = {
   bad_request: 400,
@@ -11,6 +11,7 @@ const STATUS: Record<AppErrorCode, number> = {
   conflict: 409,
   too_large: 413,
   unsupported_type: 415,
+  too_many_requests: 429,
   unavailable: 503,
 };
 
@@ -29,6 +30,8 @@ export class AppError extends Error {
     readonly code: AppErrorCode,
     message: string,
     readonly details?: unknown,
+    /** For 429 (and 503): seconds after which the request may be made again, sent as Retry-After. */
+    readonly retryAfterSeconds?: number,
   ) {
     super(message);
     this.name = 'AppError';
@@ -96,7 +99,8 @@ export function errorResponse(error: unknown): Response {
     error = new AppError('bad_request', 'The text holds the NUL character (U+0000), which cannot be stored; remove it and try again.');
   }
   if (error instanceof AppError) {
-    return Response.json({ error: { code: error.code, message: error.message, details: error.details ?? null } } satisfies ErrorBody, { status: error.status });
+    const headers = error.retryAfterSeconds === undefined ? undefined : { 'retry-after': String(Math.max(1, Math.ceil(error.retryAfterSeconds))) };
+    return Response.json({ error: { code: error.code, message: error.message, details: error.details ?? null } } satisfies ErrorBody, { status: error.status, headers });
   }
   console.error(error);
   return Response.json({ error: { code: 'internal', message: 'Something went wrong on the server.' } } satisfies ErrorBody, { status: 500 });
