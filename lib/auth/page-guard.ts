@@ -2,6 +2,7 @@ import 'server-only';
 import { notFound, redirect } from 'next/navigation';
 import type { ProjectRole } from '@/db/schema';
 import { AppError } from '@/lib/errors/app-error';
+import { pageParams } from '@/lib/http/params';
 import type { Actor } from './actor';
 import { getActor, requireProjectRole, type ProjectAccess } from './current-actor';
 
@@ -15,6 +16,7 @@ export async function pageActor(returnTo: string): Promise<Actor> {
 /** For project pages: membership (with one of `roles`, when given), else not found. */
 export async function pageProject(projectRef: string, returnTo: string, roles?: readonly ProjectRole[]): Promise<ProjectAccess> {
   await pageActor(returnTo);
+  if (!pageParams({ projectCode: projectRef })) notFound();
   try {
     return await requireProjectRole(projectRef, roles);
   } catch (error) {

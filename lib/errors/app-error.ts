@@ -89,6 +89,18 @@ export function unstorableTextPath(value: unknown, path = '', depth = 0): string
   return null;
 }
 
+// A value PostgreSQL could not read as its column's type: text that is not a UUID or a number
+// (22P02 invalid_text_representation), a number beyond the column's range such as int4
+// (22003 numeric_value_out_of_range). Path parameters and bodies are validated before they reach
+// the database (lib/http/params.ts); this is the net under that, so such a request is a 400, never a 500.
+const MALFORMED_VALUE_SQLSTATES = new Set(['22P02', '22003']);
+
+/** Whether `error` is PostgreSQL refusing a value of the wrong form or range. */
+export function isMalformedValueError(error: unknown): boolean {
+  const code = error instanceof Error ? (error as { code?: unknown }).code : undefined;
+  return typeof code === 'string' && MALFORMED_VALUE_SQLSTATES.has(code);
+}
+
 /** Maps any error to a JSON response without leaking stacks or internals. */
 export function errorResponse(error: unknown): Response {
   if (!(error instanceof AppError) && isDatabaseConnectionError(error)) {
@@ -98,23 +110,13 @@ export function errorResponse(error: unknown): Response {
   if (!(error instanceof AppError) && isUnstorableTextError(error)) {
     error = new AppError('bad_request', 'The text holds the NUL character (U+0000), which cannot be stored; remove it and try again.');
   }
+  if (!(error instanceof AppError) && isMalformedValueError(error)) {
+    error = new AppError('bad_request', 'A value in the request is not of the expected form or is out of range (an id that is not a UUID, a number beyond 2147483647).');
+  }
   if (error instanceof AppError) {
     const headers = error.retryAfterSeconds === undefined ? undefined : { 'retry-after': String(Math.max(1, Math.ceil(error.retryAfterSeconds))) };
     return Response.json({ error: { code: error.code, message: error.message, details: error.details ?? null } } satisfies ErrorBody, { status: error.status, headers });
   }
   console.error(error);
   return Response.json({ error: { code: 'internal', message: 'Something went wrong on the server.' } } satisfies ErrorBody, { status: 500 });
-}
-
-/** Reads a JSON body, refusing bodies over `maxBytes` before parsing them. */
-export async function readJsonBody(request: Request, maxBytes: number): Promise<unknown> {
-  const declared = Number(request.headers.get('content-length') ?? 0);
-  if (declared > maxBytes) throw new AppError('too_large', `The request body is larger than ${maxBytes} bytes.`);
-  const text = await request.text();
-  if (Buffer.byteLength(text) > maxBytes) throw new AppError('too_large', `The request body is larger than ${maxBytes} bytes.`);
-  try {
-    return JSON.parse(text);
-  } catch {
-    throw new AppError('bad_request', 'The request body is not valid JSON.');
-  }
 }

@@ -1,6 +1,7 @@
 // Reads one file from a multipart/form-data request, refusing bodies over a limit before and while
 // reading them (a client may send no Content-Length, or a false one).
 import { AppError } from '@/lib/errors/app-error';
+import { readBodyBytes } from './body';
 
 /** Room for the multipart boundaries and part headers around the file. */
 const ENVELOPE_BYTES = 64 * 1024;
@@ -16,26 +17,10 @@ export async function readFormFile(request: Request, field: string, maxFileBytes
   if (!/^multipart\/form-data;/i.test(contentType)) {
     throw new AppError('bad_request', `Send the file as multipart/form-data in a field named "${field}".`);
   }
-  const limit = maxFileBytes + ENVELOPE_BYTES;
-  const declared = Number(request.headers.get('content-length') ?? 0);
-  if (declared > limit) throw new AppError('too_large', tooLarge);
-  if (!request.body) throw new AppError('bad_request', `Send the file in a field named "${field}".`);
-  const chunks: Uint8Array[] = [];
-  let total = 0;
-  const reader = request.body.getReader();
-  for (;;) {
-    const { done, value } = await reader.read();
-    if (done) break;
-    total += value.byteLength;
-    if (total > limit) {
-      await reader.cancel().catch(() => undefined);
-      throw new AppError('too_large', tooLarge);
-    }
-    chunks.push(value);
-  }
+  const bytes = await readBodyBytes(request, maxFileBytes + ENVELOPE_BYTES, tooLarge);
   let form: FormData;
   try {
-    form = await new Response(Buffer.concat(chunks), { headers: { 'content-type': contentType } }).formData();
+    form = await new Response(bytes, { headers: { 'content-type': contentType } }).formData();
   } catch {
     throw new AppError('bad_request', 'The upload could not be read as multipart/form-data.');
   }

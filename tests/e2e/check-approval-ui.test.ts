@@ -26,7 +26,8 @@ async function saveVersion(message: string, edit: (source: string) => string): P
   const latest = await originator.context.request.get(`${app.baseUrl}/api/sheets/${sheetId}`);
   const { version } = await latest.json();
   const content = { ...version.content, cells: version.content.cells.map((c: { id: string; source: string }) => (c.id === 'rigidity' ? { ...c, source: edit(c.source) } : c)) };
-  const saved = await originator.context.request.post(`${app.baseUrl}/api/sheets/${sheetId}/versions`, { data: { parentNumber: version.number, message, content } });
+  // With the session cookie, a change says where it comes from (Origin), as a browser's fetch does.
+  const saved = await originator.context.request.post(`${app.baseUrl}/api/sheets/${sheetId}/versions`, { headers: { origin: app.baseUrl }, data: { parentNumber: version.number, message, content } });
   expect(saved.status()).toBe(201);
   return (await saved.json()).number;
 }

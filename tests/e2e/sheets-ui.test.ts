@@ -106,7 +106,9 @@ it('refuses a save based on a stale version, shows it, and carries the edits ove
   await page.goto(`${app.baseUrl}/projects/TPT2/sheets/3/edit`);
   await page.getByLabel('Objective').fill('Wavelength and speed of the probe electrons, edited in the browser.');
   // Meanwhile someone else saves version 2 of the same sheet.
+  // A change made with the session cookie says where it comes from, as a browser's fetch does.
   const other = await session.context.request.post(`${app.baseUrl}/api/sheets/${(await sheetId(3))}/versions`, {
+    headers: { origin: app.baseUrl },
     data: { parentNumber: 1, message: 'Saved elsewhere', content: await latestContent(3) },
   });
   expect(other.status()).toBe(201);

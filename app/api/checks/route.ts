@@ -7,7 +7,7 @@ export const dynamic = 'force-dynamic';
 
 /** "My checks" (`?queue=check`) or "My approvals" (`?queue=approval`). */
 export function GET(request: Request): Promise<Response> {
-  return handle(async () => {
+  return handle(request, async () => {
     const actor = await requireActor();
     const { queue } = parseValue(searchParams(request), queueQuerySchema);
     return Response.json({ queue, checks: await listQueue(getDb(), actor, queue) });

@@ -1,4 +1,6 @@
-import { AppError, errorResponse, readJsonBody } from '@/lib/errors/app-error';
+import { AppError } from '@/lib/errors/app-error';
+import { readJsonBody } from '@/lib/http/body';
+import { handle } from '@/lib/http/route';
 import { EVALUATE_MAX_BYTES, evaluateRequestSchema } from '@/lib/calc/evaluate-request';
 import { getEvaluator } from '@/lib/calc/sandbox/evaluator';
 import { requireActor } from '@/lib/auth/current-actor';
@@ -11,8 +13,8 @@ import { resolveReferences, unresolvedReferences } from '@/lib/sheets/references
 
 export const dynamic = 'force-dynamic';
 
-export async function POST(request: Request): Promise<Response> {
-  try {
+export function POST(request: Request): Promise<Response> {
+  return handle(request, async () => {
     await requireActor();
     const body = await readJsonBody(request, EVALUATE_MAX_BYTES);
     const parsed = evaluateRequestSchema.safeParse(body);
@@ -32,7 +34,5 @@ export async function POST(request: Request): Promise<Response> {
     if (cited.length > 0) references = sheet ? await resolveReferences(getDb(), sheet.project_id, cited, { excludeSheetId: sheet.id }) : unresolvedReferences(cited);
     const result = await getEvaluator().evaluate(cells, { significantFigures, tables, references }, sheetKey);
     return Response.json(result);
-  } catch (error) {
-    return errorResponse(error);
-  }
+  });
 }

@@ -5,12 +5,12 @@ import { createProject, listProjectsFor, projectInputSchema } from '@/lib/projec
 
 export const dynamic = 'force-dynamic';
 
-export function GET(): Promise<Response> {
-  return handle(async () => Response.json({ projects: await listProjectsFor(getDb(), await requireActor()) }));
+export function GET(request: Request): Promise<Response> {
+  return handle(request, async () => Response.json({ projects: await listProjectsFor(getDb(), await requireActor()) }));
 }
 
 export function POST(request: Request): Promise<Response> {
-  return handle(async () => {
+  return handle(request, async () => {
     const actor = await requireAdmin();
     const input = await parseJson(request, projectInputSchema);
     return Response.json(await createProject(getDb(), actor, input), { status: 201 });

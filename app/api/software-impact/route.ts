@@ -10,7 +10,7 @@ export const dynamic = 'force-dynamic';
  * (optionally calling a function), in the projects the caller belongs to (administrators: all).
  */
 export function GET(request: Request): Promise<Response> {
-  return handle(async () => {
+  return handle(request, async () => {
     const actor = await requireActor();
     const q = parseValue(searchParams(request), softwareImpactQuerySchema);
     const answer = await softwareImpact(getDb(), actor, q);

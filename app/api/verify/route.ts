@@ -12,7 +12,7 @@ export const dynamic = 'force-dynamic';
  * answer: a file that is not a PDF, or one we never issued, is an answer, not an error.
  */
 export function POST(request: Request): Promise<Response> {
-  return handle(async () => {
+  return handle(request, async () => {
     const type = request.headers.get('content-type') ?? '';
     if (/^multipart\/form-data/i.test(type)) {
       const file = await readFormFile(request, 'file', MAX_VERIFY_BYTES, `The file is larger than ${MAX_VERIFY_BYTES / (1024 * 1024)} MiB; no issued revision is that large.`);
@@ -23,5 +23,5 @@ export function POST(request: Request): Promise<Response> {
       return Response.json(await verifyCode(getDb(), code));
     }
     throw new AppError('bad_request', 'Send a PDF as multipart/form-data (field "file") or a verification code as JSON {"code": "…"}.');
-  });
+  }, { multipart: true });
 }

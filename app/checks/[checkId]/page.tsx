@@ -11,6 +11,7 @@ import { UtcTime } from '@/components/data/utc-time';
 import { MarkdownView } from '@/components/sheet/markdown-view';
 import { CautionNotice, SafetyRelatedNotice } from '@/components/shell/caution-notice';
 import { getDb } from '@/db';
+import { pageParams } from '@/lib/http/params';
 import { pageActor } from '@/lib/auth/page-guard';
 import { getCheckDetail, MEANING_LABELS, VERIFICATION_LABELS, VERIFICATION_METHODS, type CheckDetail } from '@/lib/checks/workflow';
 import { AppError } from '@/lib/errors/app-error';
@@ -36,8 +37,9 @@ function standing(check: CheckDetail): string {
 }
 
 export default async function CheckPage({ params }: { params: Promise<{ checkId: string }> }) {
-  const { checkId } = await params;
-  const actor = await pageActor(`/checks/${checkId}`);
+  const raw = await params;
+  const actor = await pageActor(`/checks/${raw.checkId}`);
+  const { checkId } = pageParams(raw) ?? notFound();
   let check: CheckDetail;
   try {
     check = await getCheckDetail(getDb(), actor, checkId);

@@ -6,13 +6,13 @@ import { handle, parseJson } from '@/lib/http/route';
 
 export const dynamic = 'force-dynamic';
 
-export function GET(): Promise<Response> {
-  return handle(async () => Response.json({ tokens: await listApiTokens(getDb(), (await requireActor()).userId) }));
+export function GET(request: Request): Promise<Response> {
+  return handle(request, async () => Response.json({ tokens: await listApiTokens(getDb(), (await requireActor()).userId) }));
 }
 
 /** Creates a token; its secret is in this response only. A token cannot create further tokens. */
 export function POST(request: Request): Promise<Response> {
-  return handle(async () => {
+  return handle(request, async () => {
     const actor = await requireActor();
     if (actor.via === 'token') throw new AppError('forbidden', 'Create tokens from a signed-in browser session.');
     const { name } = await parseJson(request, apiTokenInputSchema);

@@ -5,8 +5,8 @@ import { inviteSchema, inviteUser, listUsers } from '@/lib/projects/users';
 
 export const dynamic = 'force-dynamic';
 
-export function GET(): Promise<Response> {
-  return handle(async () => {
+export function GET(request: Request): Promise<Response> {
+  return handle(request, async () => {
     await requireAdmin();
     return Response.json({ users: await listUsers(getDb()) });
   });
@@ -14,7 +14,7 @@ export function GET(): Promise<Response> {
 
 /** Invites a user by e-mail: the account is created and a link to choose a password is sent. */
 export function POST(request: Request): Promise<Response> {
-  return handle(async () => {
+  return handle(request, async () => {
     const actor = await requireAdmin();
     return Response.json(await inviteUser(getDb(), actor, await parseJson(request, inviteSchema)), { status: 201 });
   });

@@ -6,7 +6,7 @@ export const dynamic = 'force-dynamic';
 
 /** Sends a single-use sign-in link if the address has an account; the answer is the same either way. */
 export function POST(request: Request): Promise<Response> {
-  return handle(async () => {
+  return handle(request, async () => {
     const { email } = await parseJson(request, resetRequestSchema);
     await requestSignInLink(getDb(), email);
     return Response.json({ ok: true, message: 'If this address has an account, a sign-in link is on its way.' }, { status: 202 });

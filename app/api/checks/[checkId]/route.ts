@@ -1,6 +1,7 @@
 import { getDb } from '@/db';
 import { requireActor } from '@/lib/auth/current-actor';
 import { checkWorkSchema, getCheckDetail, saveCheckWork } from '@/lib/checks/workflow';
+import { routeParams } from '@/lib/http/params';
 import { handle, parseJson } from '@/lib/http/route';
 
 export const dynamic = 'force-dynamic';
@@ -8,15 +9,15 @@ export const dynamic = 'force-dynamic';
 type Context = { params: Promise<{ checkId: string }> };
 
 /** The check: the version against its base, comments, signatures and what the caller may do. */
-export function GET(_request: Request, { params }: Context): Promise<Response> {
-  return handle(async () => Response.json(await getCheckDetail(getDb(), await requireActor(), (await params).checkId)));
+export function GET(request: Request, { params }: Context): Promise<Response> {
+  return handle(request, async () => Response.json(await getCheckDetail(getDb(), await requireActor(), (await routeParams(params)).checkId)));
 }
 
 /** The checker's work: verification method, notes, alternate calculation cells (evaluated). */
 export function PATCH(request: Request, { params }: Context): Promise<Response> {
-  return handle(async () => {
+  return handle(request, async () => {
     const actor = await requireActor();
     const input = await parseJson(request, checkWorkSchema, 1024 * 1024);
-    return Response.json(await saveCheckWork(getDb(), actor, (await params).checkId, input));
+    return Response.json(await saveCheckWork(getDb(), actor, (await routeParams(params)).checkId, input));
   });
 }

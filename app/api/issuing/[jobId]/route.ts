@@ -2,16 +2,17 @@ import { getDb } from '@/db';
 import { requireProjectRole } from '@/lib/auth/current-actor';
 import { requireActor } from '@/lib/auth/current-actor';
 import { AppError } from '@/lib/errors/app-error';
+import { routeParams } from '@/lib/http/params';
 import { handle } from '@/lib/http/route';
 import { issueJobStatus } from '@/lib/issue/issue';
 
 export const dynamic = 'force-dynamic';
 
 /** Where an issue request stands: queued, rendering, signing, storing, recording, done or failed. */
-export function GET(_request: Request, { params }: { params: Promise<{ jobId: string }> }): Promise<Response> {
-  return handle(async () => {
+export function GET(request: Request, { params }: { params: Promise<{ jobId: string }> }): Promise<Response> {
+  return handle(request, async () => {
     await requireActor();
-    const job = await issueJobStatus(getDb(), (await params).jobId);
+    const job = await issueJobStatus(getDb(), (await routeParams(params)).jobId);
     if (!job) throw new AppError('not_found', 'No such issue request.');
     await requireProjectRole(job.project_id);
     return Response.json({

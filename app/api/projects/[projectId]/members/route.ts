@@ -1,6 +1,8 @@
+import { z } from 'zod';
 import { getDb } from '@/db';
 import { requireActor, requireAdmin, requireProjectRole } from '@/lib/auth/current-actor';
 import { AppError } from '@/lib/errors/app-error';
+import { routeParams } from '@/lib/http/params';
 import { handle, parseJson } from '@/lib/http/route';
 import { grantRole, listMembers, revokeRole, roleChangeSchema } from '@/lib/projects/projects';
 
@@ -8,17 +10,17 @@ export const dynamic = 'force-dynamic';
 
 type Context = { params: Promise<{ projectId: string }> };
 
+/** An administrator names the project by its id or its code, as members do. */
 async function projectForAdmin(projectId: string): Promise<string> {
-  if (!/^[0-9a-f-]{36}$/.test(projectId)) throw new AppError('not_found', 'No such project.');
-  const project = await getDb().selectFrom('projects').select('id').where('id', '=', projectId).executeTakeFirst();
+  const project = await getDb().selectFrom('projects').select('id').where(z.uuid().safeParse(projectId).success ? 'id' : 'code', '=', projectId).executeTakeFirst();
   if (!project) throw new AppError('not_found', 'No such project.');
   return project.id;
 }
 
 /** Members see their project's members; administrators see any project's. */
-export function GET(_request: Request, { params }: Context): Promise<Response> {
-  return handle(async () => {
-    const { projectId } = await params;
+export function GET(request: Request, { params }: Context): Promise<Response> {
+  return handle(request, async () => {
+    const { projectId } = await routeParams(params);
     const actor = await requireActor();
     const id = actor.isAdmin ? await projectForAdmin(projectId) : (await requireProjectRole(projectId)).project.id;
     return Response.json({ members: await listMembers(getDb(), id) });
@@ -27,9 +29,9 @@ export function GET(_request: Request, { params }: Context): Promise<Response> {
 
 /** Gives a role: administrators only, with a reason. */
 export function POST(request: Request, { params }: Context): Promise<Response> {
-  return handle(async () => {
+  return handle(request, async () => {
     const actor = await requireAdmin();
-    const projectId = await projectForAdmin((await params).projectId);
+    const projectId = await projectForAdmin((await routeParams(params)).projectId);
     await grantRole(getDb(), actor, projectId, await parseJson(request, roleChangeSchema));
     return Response.json({ ok: true }, { status: 201 });
   });
@@ -37,9 +39,9 @@ export function POST(request: Request, { params }: Context): Promise<Response> {
 
 /** Takes a role away: administrators only, with a reason. */
 export function DELETE(request: Request, { params }: Context): Promise<Response> {
-  return handle(async () => {
+  return handle(request, async () => {
     const actor = await requireAdmin();
-    const projectId = await projectForAdmin((await params).projectId);
+    const projectId = await projectForAdmin((await routeParams(params)).projectId);
     await revokeRole(getDb(), actor, projectId, await parseJson(request, roleChangeSchema));
     return Response.json({ ok: true });
   });

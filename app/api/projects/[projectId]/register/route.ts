@@ -1,5 +1,6 @@
 import { getDb } from '@/db';
 import { requireProjectRole } from '@/lib/auth/current-actor';
+import { routeParams } from '@/lib/http/params';
 import { handle, parseValue, searchParams } from '@/lib/http/route';
 import { listRevisions, registerCsv, registerQuerySchema } from '@/lib/issue/issue';
 import { revisionInputFlags } from '@/lib/sheets/impact';
@@ -8,8 +9,8 @@ export const dynamic = 'force-dynamic';
 
 /** The project's document register: every issued revision with its status; `format=csv` for a file. */
 export function GET(request: Request, { params }: { params: Promise<{ projectId: string }> }): Promise<Response> {
-  return handle(async () => {
-    const { project } = await requireProjectRole((await params).projectId);
+  return handle(request, async () => {
+    const { project } = await requireProjectRole((await routeParams(params)).projectId);
     const q = parseValue(searchParams(request), registerQuerySchema);
     const rows = await listRevisions(getDb(), { projectId: project.id, status: q.status, q: q.q });
     if (q.format === 'csv') {

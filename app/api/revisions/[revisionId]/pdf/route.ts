@@ -1,6 +1,7 @@
 import { getDb } from '@/db';
 import { requireActor, requireProjectRole } from '@/lib/auth/current-actor';
 import { AppError } from '@/lib/errors/app-error';
+import { routeParams } from '@/lib/http/params';
 import { handle, parseValue, searchParams } from '@/lib/http/route';
 import { downloadQuerySchema, getRevision, revisionPdf } from '@/lib/issue/issue';
 import { getObjectStore } from '@/lib/storage/object-store';
@@ -12,9 +13,9 @@ export const dynamic = 'force-dynamic';
  * fetch the original with `original=1`.
  */
 export function GET(request: Request, { params }: { params: Promise<{ revisionId: string }> }): Promise<Response> {
-  return handle(async () => {
+  return handle(request, async () => {
     await requireActor();
-    const { revisionId } = await params;
+    const { revisionId } = await routeParams(params);
     const revision = await getRevision(getDb(), revisionId);
     if (!revision) throw new AppError('not_found', 'No such revision.');
     const { original } = parseValue(searchParams(request), downloadQuerySchema);

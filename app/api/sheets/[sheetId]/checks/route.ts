@@ -1,5 +1,6 @@
 import { getDb } from '@/db';
 import { eligibleCheckers, sheetWorkflow, submitForCheck, submitSchema } from '@/lib/checks/workflow';
+import { routeParams } from '@/lib/http/params';
 import { handle, parseJson } from '@/lib/http/route';
 import { requireSheetAccess } from '@/lib/sheets/access';
 
@@ -8,9 +9,9 @@ export const dynamic = 'force-dynamic';
 type Context = { params: Promise<{ sheetId: string }> };
 
 /** Where the sheet stands: its checks, signatures, and the checkers who may check its latest version. */
-export function GET(_request: Request, { params }: Context): Promise<Response> {
-  return handle(async () => {
-    const { sheet } = await requireSheetAccess((await params).sheetId);
+export function GET(request: Request, { params }: Context): Promise<Response> {
+  return handle(request, async () => {
+    const { sheet } = await requireSheetAccess((await routeParams(params)).sheetId);
     const workflow = await sheetWorkflow(getDb(), sheet.id);
     return Response.json({ ...workflow, checkers: await eligibleCheckers(getDb(), sheet, workflow.latestVersion) });
   });
@@ -18,8 +19,8 @@ export function GET(_request: Request, { params }: Context): Promise<Response> {
 
 /** Submits one exact version for check by a named checker; signs it "prepared" (password asked again). */
 export function POST(request: Request, { params }: Context): Promise<Response> {
-  return handle(async () => {
-    const { actor, sheet } = await requireSheetAccess((await params).sheetId, ['originator']);
+  return handle(request, async () => {
+    const { actor, sheet } = await requireSheetAccess((await routeParams(params)).sheetId, ['originator']);
     const input = await parseJson(request, submitSchema);
     return Response.json(await submitForCheck(getDb(), actor, sheet, input), { status: 201 });
   });

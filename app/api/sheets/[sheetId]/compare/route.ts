@@ -1,5 +1,6 @@
 import { getDb } from '@/db';
 import { AppError } from '@/lib/errors/app-error';
+import { routeParams } from '@/lib/http/params';
 import { handle, parseValue, searchParams } from '@/lib/http/route';
 import { requireSheetAccess } from '@/lib/sheets/access';
 import { compareQuerySchema, compareVersions } from '@/lib/sheets/compare';
@@ -9,8 +10,8 @@ export const dynamic = 'force-dynamic';
 
 /** Compares two versions (`?base=1&target=2`; without base, the whole target as a first check). */
 export function GET(request: Request, { params }: { params: Promise<{ sheetId: string }> }): Promise<Response> {
-  return handle(async () => {
-    const { sheet } = await requireSheetAccess((await params).sheetId);
+  return handle(request, async () => {
+    const { sheet } = await requireSheetAccess((await routeParams(params)).sheetId);
     const q = parseValue(searchParams(request), compareQuerySchema);
     const [base, target] = await Promise.all([q.base ? getVersion(getDb(), sheet.id, q.base) : Promise.resolve(null), getVersion(getDb(), sheet.id, q.target)]);
     if (!target || base === undefined) throw new AppError('not_found', 'No such version.');

@@ -1,5 +1,6 @@
 import { getDb } from '@/db';
 import { AppError } from '@/lib/errors/app-error';
+import { routeParams } from '@/lib/http/params';
 import { handle, parseValue, searchParams } from '@/lib/http/route';
 import { requireSheetAccess } from '@/lib/sheets/access';
 import { exportQuerySchema, sheetFileOf } from '@/lib/sheets/sheet-files';
@@ -10,8 +11,8 @@ export const dynamic = 'force-dynamic';
 
 /** The sheet file of the latest version, or of `?version=n`. */
 export function GET(request: Request, { params }: { params: Promise<{ sheetId: string }> }): Promise<Response> {
-  return handle(async () => {
-    const { sheet, project } = await requireSheetAccess((await params).sheetId);
+  return handle(request, async () => {
+    const { sheet, project } = await requireSheetAccess((await routeParams(params)).sheetId);
     const query = parseValue(searchParams(request), exportQuerySchema);
     const version = await getVersion(getDb(), sheet.id, query.version);
     if (!version) throw new AppError('not_found', 'No such version.');

@@ -10,6 +10,7 @@ import { SupersededInputs } from '@/components/sheet/superseded-inputs';
 import { VersionView } from '@/components/sheet/version-view';
 import { CautionNotice, SafetyRelatedNotice } from '@/components/shell/caution-notice';
 import { getDb } from '@/db';
+import { pageParams, queryInt4 } from '@/lib/http/params';
 import { pageProject } from '@/lib/auth/page-guard';
 import { eligibleCheckers, MEANING_LABELS, SHEET_STATUS_LABELS, sheetWorkflow, type SheetWorkflow } from '@/lib/checks/workflow';
 import { IssuePanel } from '@/components/issue/issue-panel';
@@ -54,10 +55,10 @@ export default async function SheetPage({ params, searchParams }: { params: Prom
   const { projectCode, sheetNumber } = await params;
   const { version: versionParam } = await searchParams;
   const { project, roles } = await pageProject(projectCode, `/projects/${projectCode}/sheets/${sheetNumber}`);
-  const number = Number(sheetNumber);
-  const sheet = Number.isInteger(number) && number > 0 ? await getSheetByNumber(getDb(), project.id, number) : undefined;
+  const { sheetNumber: number } = pageParams({ sheetNumber }) ?? notFound();
+  const sheet = await getSheetByNumber(getDb(), project.id, number);
   if (!sheet) notFound();
-  const wanted = versionParam ? Number(versionParam) : undefined;
+  const wanted = versionParam ? (queryInt4(versionParam) ?? notFound()) : undefined;
   const [version, versions, workflow, revisions, candidates, staleInputs] = await Promise.all([
     getVersion(getDb(), sheet.id, wanted),
     listVersions(getDb(), sheet.id),

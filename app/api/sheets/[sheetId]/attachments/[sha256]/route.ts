@@ -1,5 +1,6 @@
 import { getDb } from '@/db';
 import { readAttachment } from '@/lib/attachments/attachments';
+import { routeParams } from '@/lib/http/params';
 import { handle } from '@/lib/http/route';
 import { requireSheetAccess } from '@/lib/sheets/access';
 import { getObjectStore } from '@/lib/storage/object-store';
@@ -9,9 +10,9 @@ export const dynamic = 'force-dynamic';
 type Context = { params: Promise<{ sheetId: string; sha256: string }> };
 
 /** The attachment's bytes, checked against their SHA-256, always as a download (never rendered inline). */
-export function GET(_request: Request, { params }: Context): Promise<Response> {
-  return handle(async () => {
-    const { sheetId, sha256 } = await params;
+export function GET(request: Request, { params }: Context): Promise<Response> {
+  return handle(request, async () => {
+    const { sheetId, sha256 } = await routeParams(params);
     const { sheet } = await requireSheetAccess(sheetId);
     const file = await readAttachment(getDb(), getObjectStore(), sheet.id, sha256);
     const ascii = file.name.replace(/[^\x20-\x7e]/g, '_').replace(/["\\]/g, '_');

@@ -4,6 +4,7 @@ import { notFound } from 'next/navigation';
 import { SheetEditor } from '@/components/sheet/sheet-editor';
 import { CautionNotice } from '@/components/shell/caution-notice';
 import { getDb } from '@/db';
+import { pageParams } from '@/lib/http/params';
 import { pageProject } from '@/lib/auth/page-guard';
 import { formatSheetNumber } from '@/lib/sheets/sheet-number';
 import { getSheetByNumber, getVersion } from '@/lib/sheets/sheets';
@@ -14,8 +15,8 @@ export const dynamic = 'force-dynamic';
 export default async function EditSheetPage({ params }: { params: Promise<{ projectCode: string; sheetNumber: string }> }) {
   const { projectCode, sheetNumber } = await params;
   const { project } = await pageProject(projectCode, `/projects/${projectCode}/sheets/${sheetNumber}/edit`, ['originator']);
-  const n = Number(sheetNumber);
-  const sheet = Number.isInteger(n) && n > 0 ? await getSheetByNumber(getDb(), project.id, n) : undefined;
+  const { sheetNumber: n } = pageParams({ sheetNumber }) ?? notFound();
+  const sheet = await getSheetByNumber(getDb(), project.id, n);
   if (!sheet) notFound();
   const version = await getVersion(getDb(), sheet.id);
   if (!version) notFound();

@@ -4,6 +4,7 @@ import { notFound } from 'next/navigation';
 import { UtcTime } from '@/components/data/utc-time';
 import { SupersededInputs } from '@/components/sheet/superseded-inputs';
 import { getDb } from '@/db';
+import { pageParams } from '@/lib/http/params';
 import { pageProject } from '@/lib/auth/page-guard';
 import { sheetImpact, supersededInputs, type ImpactDependent } from '@/lib/sheets/impact';
 import { formatSheetNumber } from '@/lib/sheets/sheet-number';
@@ -32,8 +33,8 @@ function LatestState({ d }: { d: ImpactDependent }) {
 export default async function ImpactPage({ params }: { params: Promise<{ projectCode: string; sheetNumber: string }> }) {
   const { projectCode, sheetNumber } = await params;
   const { project } = await pageProject(projectCode, `/projects/${projectCode}/sheets/${sheetNumber}/impact`);
-  const number = Number(sheetNumber);
-  const sheet = Number.isInteger(number) && number > 0 ? await getSheetByNumber(getDb(), project.id, number) : undefined;
+  const { sheetNumber: number } = pageParams({ sheetNumber }) ?? notFound();
+  const sheet = await getSheetByNumber(getDb(), project.id, number);
   if (!sheet) notFound();
   const [revisions, inputs, versions] = await Promise.all([sheetImpact(getDb(), sheet.id), supersededInputs(getDb(), sheet.id), listVersions(getDb(), sheet.id)]);
   const code = formatSheetNumber(project.code, sheet.number);
