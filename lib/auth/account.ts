@@ -10,7 +10,8 @@ import { enqueueMail } from '@/lib/mail/outbox';
 import { appUrl } from '@/lib/http/app-url';
 import type { Actor } from './actor';
 import { consumeEmailToken, createEmailToken } from './email-tokens';
-import { hashPassword, passwordProblem, verifyPassword } from './password';
+import { checkAccountPassword, lockedMessage } from './lockout';
+import { hashPassword, passwordProblem } from './password';
 import { endUserSessions } from './sessions';
 import { AUTH_SETTINGS } from './settings';
 
@@ -24,13 +25,38 @@ export const resetRequestSchema = z.object({ email: z.string().trim().toLowerCas
 export const resetConfirmSchema = z.object({ token: z.string().min(10).max(200), newPassword });
 
 export async function changePassword(db: Kysely<Database>, actor: Actor, input: z.infer<typeof passwordChangeSchema>): Promise<void> {
-  const user = await db.selectFrom('users').select('password_hash').where('id', '=', actor.userId).executeTakeFirstOrThrow();
-  if (!(await verifyPassword(user.password_hash, input.currentPassword))) throw new AppError('bad_request', 'The current password is not right.');
+  await checkCurrentPassword(db, actor, input.currentPassword);
   const hashed = await hashPassword(input.newPassword);
   await db.transaction().execute(async (trx) => {
     await trx.updateTable('users').set({ password_hash: hashed, password_changed_at: sql`now()` }).where('id', '=', actor.userId).execute();
     await recordAudit(trx, actor, { action: 'user.password-change', objectType: 'user', objectId: actor.userId });
   });
+}
+
+/**
+ * The current password of a password change counts toward the account's lock like a sign-in
+ * (lib/auth/lockout.ts); a refusal is audited (user.password-change-refused) and answered 400, or 403
+ * when the account is locked.
+ */
+async function checkCurrentPassword(db: Kysely<Database>, actor: Actor, currentPassword: string): Promise<void> {
+  const check = await checkAccountPassword(db, { userId: actor.userId, password: currentPassword, context: { where: 'password-change', actor } });
+  if (check.outcome === 'ok') return;
+  const refusal =
+    check.outcome === 'locked'
+      ? new AppError('forbidden', lockedMessage(check.until))
+      : check.outcome === 'no-password'
+        ? new AppError('bad_request', 'Your account has no password yet; set one through a reset link.')
+        : check.outcome === 'disabled'
+          ? new AppError('forbidden', 'This account is disabled.')
+          : new AppError('bad_request', 'The current password is not right.');
+  await recordAudit(db, actor, {
+    action: 'user.password-change-refused',
+    objectType: 'user',
+    objectId: actor.userId,
+    newValue: { outcome: check.outcome },
+    reason: refusal.message,
+  });
+  throw refusal;
 }
 
 async function requestLink(db: Kysely<Database>, email: string, purpose: 'password-reset' | 'sign-in'): Promise<void> {

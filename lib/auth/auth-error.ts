@@ -5,6 +5,8 @@ export class AuthError extends Error {
   constructor(
     readonly code: AuthErrorCode,
     message: string,
+    /** For 'rate_limited': seconds until the next attempt may be made. */
+    readonly retryAfterSeconds?: number,
   ) {
     super(message);
     this.name = 'AuthError';

@@ -6,6 +6,7 @@ import type { NextAuthOptions } from 'next-auth';
 import CredentialsProvider from 'next-auth/providers/credentials';
 import { getDb } from '@/db';
 import { recordAudit } from '@/lib/audit/record';
+import { clientAddress } from '@/lib/http/client-address';
 import { AuthError } from './auth-error';
 import { oidcProviders, signInWithOidc } from './oidc';
 import { endSession, startSession } from './sessions';
@@ -14,11 +15,9 @@ import { authenticateLink, authenticatePassword, type SignedInUser } from './sig
 
 type RequestLike = { headers?: Record<string, string | string[] | undefined> } | undefined;
 
+/** The connection's address, or the right-most untrusted X-Forwarded-For hop behind configured proxies; never what a client wrote. */
 function clientIp(req: RequestLike): string {
-  const h = req?.headers ?? {};
-  const forwarded = h['x-forwarded-for'];
-  const first = (Array.isArray(forwarded) ? forwarded[0] : forwarded)?.split(',')[0]?.trim();
-  return first || (h['x-real-ip'] as string | undefined) || 'unknown';
+  return clientAddress(req?.headers);
 }
 
 function userAgent(req: RequestLike): string | null {

@@ -1,11 +1,23 @@
 // Limits of sign-in, in one place. 21 CFR Part 11 §11.300(d): safeguards against unauthorised use,
 // detecting and reporting attempts; NIST SP 800-63B §5.2.2: rate-limit failed attempts.
 export const AUTH_SETTINGS = {
-  /** Consecutive failed password attempts after which the account locks until an administrator unlocks it. */
+  /**
+   * Consecutive failed passwords (at sign-in, at a signature's re-entry, at a password change) after
+   * which the account locks for lockMinutes; every further lockAfterFailures failures lock it again
+   * for twice as long (15, 30, 60 minutes…, at most lockMaxHours). A success, the e-mailed unlock
+   * link or an administrator's unlock starts the count again. A lock an administrator sets has no
+   * end until an administrator unlocks.
+   */
   lockAfterFailures: 5,
-  /** Attempts allowed per e-mail address, and per client address, in the window. */
-  maxAttemptsPerEmail: 10,
-  maxAttemptsPerIp: 50,
+  lockMinutes: Number(process.env.WORLDSHEET_LOCK_MINUTES ?? 15),
+  lockMaxHours: 24,
+  /**
+   * Per client address (lib/http/client-address.ts), failed sign-ins only (a success never counts):
+   * the first ipFreeFailures failures in the window cost nothing, then each further attempt from that
+   * address must wait 2^(n - ipFreeFailures) seconds after its latest failure (1, 2, 4… s, at most
+   * the window), and is refused with "try again in N s" until then. Nothing sleeps on the server.
+   */
+  ipFreeFailures: Number(process.env.WORLDSHEET_SIGN_IN_FREE_FAILURES ?? 10),
   rateWindowMinutes: 15,
   /** A session ends after this long without a request. */
   sessionIdleMinutes: Number(process.env.WORLDSHEET_SESSION_IDLE_MINUTES ?? 30),

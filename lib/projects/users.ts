@@ -1,10 +1,11 @@
 // Accounts, as administrators manage them: invite, disable and enable (never delete: signatures
-// must stay readable), unlock after a lockout.
+// must stay readable), lock (until an administrator unlocks) and unlock.
 import { sql, type Kysely } from 'kysely';
 import { z } from 'zod';
 import type { Database } from '@/db/schema';
 import type { Actor } from '@/lib/auth/actor';
 import { createEmailToken } from '@/lib/auth/email-tokens';
+import { LOCK_ACTIVE } from '@/lib/auth/lockout';
 import { endUserSessions } from '@/lib/auth/sessions';
 import { AUTH_SETTINGS } from '@/lib/auth/settings';
 import { recordAudit } from '@/lib/audit/record';
@@ -19,14 +20,25 @@ export const inviteSchema = z.object({
 });
 
 export const userChangeSchema = z.object({
-  action: z.enum(['disable', 'enable', 'unlock']),
+  action: z.enum(['disable', 'enable', 'lock', 'unlock']),
   reason: z.string().trim().min(3, 'give a reason').max(1000),
 });
 
 export async function listUsers(db: Kysely<Database>) {
   return db
     .selectFrom('users')
-    .select(['id', 'email', 'display_name as name', 'is_admin as isAdmin', 'disabled_at as disabledAt', 'locked_at as lockedAt', 'created_at as createdAt', sql<boolean>`password_hash is not null`.as('hasPassword')])
+    .select([
+      'id',
+      'email',
+      'display_name as name',
+      'is_admin as isAdmin',
+      'disabled_at as disabledAt',
+      // Only a lock in force; lockedUntil null with lockedAt set: until an administrator unlocks.
+      sql<Date | null>`case when ${LOCK_ACTIVE} then locked_at end`.as('lockedAt'),
+      sql<Date | null>`case when ${LOCK_ACTIVE} then lock_expires_at end`.as('lockedUntil'),
+      'created_at as createdAt',
+      sql<boolean>`password_hash is not null`.as('hasPassword'),
+    ])
     .orderBy('display_name')
     .execute();
 }
@@ -57,7 +69,7 @@ export async function inviteUser(db: Kysely<Database>, actor: Actor, input: z.in
 export async function changeUser(db: Kysely<Database>, actor: Actor, userId: string, input: z.infer<typeof userChangeSchema>): Promise<void> {
   if (userId === actor.userId && input.action === 'disable') throw new AppError('conflict', 'You cannot disable your own account.');
   await db.transaction().execute(async (trx) => {
-    const user = await trx.selectFrom('users').select(['id', 'disabled_at', 'locked_at']).where('id', '=', userId).forUpdate().executeTakeFirst();
+    const user = await trx.selectFrom('users').select(['id', 'disabled_at', 'lock_expires_at', LOCK_ACTIVE.as('locked')]).where('id', '=', userId).forUpdate().executeTakeFirst();
     if (!user) throw new AppError('not_found', 'No such user.');
     if (input.action === 'disable') {
       if (user.disabled_at) throw new AppError('conflict', 'The account is disabled already.');
@@ -67,15 +79,20 @@ export async function changeUser(db: Kysely<Database>, actor: Actor, userId: str
     } else if (input.action === 'enable') {
       if (!user.disabled_at) throw new AppError('conflict', 'The account is not disabled.');
       await trx.updateTable('users').set({ disabled_at: null }).where('id', '=', userId).execute();
+    } else if (input.action === 'lock') {
+      // An administrator's lock has no end (lock_expires_at null): it lasts until an administrator
+      // unlocks, and the holder's e-mailed unlock links do not lift it. A timed lock becomes one.
+      if (user.locked && user.lock_expires_at === null) throw new AppError('conflict', 'The account is locked already.');
+      await trx.updateTable('users').set({ locked_at: sql`now()`, lock_expires_at: null }).where('id', '=', userId).execute();
     } else {
-      if (!user.locked_at) throw new AppError('conflict', 'The account is not locked.');
-      await trx.updateTable('users').set({ locked_at: null, failed_sign_ins: 0 }).where('id', '=', userId).execute();
+      if (!user.locked) throw new AppError('conflict', 'The account is not locked.');
+      await trx.updateTable('users').set({ locked_at: null, lock_expires_at: null, failed_sign_ins: 0 }).where('id', '=', userId).execute();
     }
     await recordAudit(trx, actor, {
       action: `user.${input.action}`,
       objectType: 'user',
       objectId: userId,
-      oldValue: { disabled: Boolean(user.disabled_at), locked: Boolean(user.locked_at) },
+      oldValue: { disabled: Boolean(user.disabled_at), locked: Boolean(user.locked), lockedUntil: user.locked ? (user.lock_expires_at?.toISOString() ?? null) : null },
       reason: input.reason,
     });
   });
