@@ -1,7 +1,9 @@
 import type { Metadata } from 'next';
 import { notFound } from 'next/navigation';
+import { getDb } from '@/db';
 import { DemoMailbox } from '@/components/mail/demo-mailbox';
-import { demoMailboxEnabled } from '@/lib/mail/mailbox';
+import { getActor } from '@/lib/auth/current-actor';
+import { demoMailboxEnabled, loadDemoMailbox } from '@/lib/mail/mailbox';
 
 // Read the capture server on every request; exists only in demo mode.
 export const dynamic = 'force-dynamic';
@@ -11,9 +13,14 @@ export function generateMetadata(): Metadata {
   return demoMailboxEnabled() ? { title: 'Demo mailbox' } : {};
 }
 
+/** Whose mail the reader sees is decided in lib/mail/mailbox.ts: nothing signed out, their own, or all for an administrator (audited). */
+async function MailboxForReader() {
+  return <DemoMailbox mailbox={await loadDemoMailbox(getDb(), await getActor())} />;
+}
+
 export default function MailboxPage() {
   // Next streams every page under app/loading.tsx, so this renders the not-found page (marked
   // noindex) with status 200 rather than 404, as every notFound() of the app does.
   if (!demoMailboxEnabled()) notFound();
-  return <DemoMailbox />;
+  return <MailboxForReader />;
 }

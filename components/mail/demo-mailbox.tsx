@@ -1,8 +1,9 @@
-// The demo mailbox (app/mailbox/page.tsx): the e-mails captured by the local demo mail server, in a
-// table and one by one with their links clickable. The text is shown as text, never as HTML.
+// The demo mailbox (app/mailbox/page.tsx): the e-mails captured by the local demo mail server that
+// the reader may see (lib/mail/mailbox.ts decides), in a table and one by one with their links
+// clickable. The text is shown as text, never as HTML. Signed out, it shows no mail at all.
 import { notFound } from 'next/navigation';
 import { splitLinks, type CapturedMessage } from '@/lib/mail/capture-client';
-import { loadDemoMailbox } from '@/lib/mail/mailbox';
+import type { DemoMailbox as DemoMailboxData } from '@/lib/mail/mailbox';
 
 /** `2026-12-02 09:41:07 UTC`: the same on every machine, unlike a locale format. */
 function formatTime(iso: string): string {
@@ -54,9 +55,8 @@ function MessageCard({ message }: { message: CapturedMessage }) {
   );
 }
 
-/** The demo mailbox: the mail the local demo mail server captured (see lib/mail/mailbox.ts). */
-export async function DemoMailbox() {
-  const mailbox = await loadDemoMailbox();
+/** The demo mailbox: the mail the local demo mail server captured, as lib/mail/mailbox.ts lets the reader see it. */
+export function DemoMailbox({ mailbox }: { mailbox: DemoMailboxData }) {
   if (mailbox.status === 'not-demo') notFound();
 
   return (
@@ -73,7 +73,17 @@ export async function DemoMailbox() {
         </div>
       </header>
 
-      {mailbox.status === 'unavailable' ? (
+      {mailbox.status === 'signed-out' ? (
+        <section aria-labelledby="signed-out" className="max-w-prose rounded border border-rule bg-surface p-5">
+          <h2 id="signed-out" className="text-xl font-bold">
+            Sign in to read your mail
+          </h2>
+          <p className="mt-2 text-ink-muted">
+            The mailbox shows each person only the e-mails addressed to them (sign-in links among them), so it shows nothing to someone who is not signed in.
+            The demo accounts are listed on the sign-in page.
+          </p>
+        </section>
+      ) : mailbox.status === 'unavailable' ? (
         <section aria-labelledby="unavailable" className="max-w-prose rounded border border-rule bg-surface p-5">
           <h2 id="unavailable" className="text-xl font-bold">
             The demo mail server does not answer
@@ -90,14 +100,21 @@ export async function DemoMailbox() {
         </section>
       ) : mailbox.messages.length === 0 ? (
         <p className="max-w-prose rounded border border-rule bg-surface p-5 text-ink-muted">
-          No e-mail has been captured yet. E-mails this demo sends appear here.
+          {mailbox.scope === 'all'
+            ? 'No e-mail has been captured yet. E-mails this demo sends appear here.'
+            : `No e-mail to ${mailbox.viewerEmail} has been captured yet. E-mails this demo sends you appear here.`}
         </p>
       ) : (
         <>
           <section aria-labelledby="captured">
             <h2 id="captured" className="text-xl font-bold">
-              Captured e-mails
+              {mailbox.scope === 'all' ? 'Captured e-mails' : 'Your e-mails'}
             </h2>
+            <p className="mt-1 text-sm text-ink-muted">
+              {mailbox.scope === 'all'
+                ? 'Every captured e-mail, as you are an administrator. Each reading of this list is recorded in the audit trail.'
+                : `The e-mails addressed to ${mailbox.viewerEmail}.`}
+            </p>
             <div className="mt-3 overflow-x-auto">
               <table className="w-full border-collapse text-sm">
                 <caption className="sr-only">E-mails captured by the demo mail server, newest first</caption>
@@ -138,12 +155,14 @@ export async function DemoMailbox() {
         </>
       )}
 
-      <p>
-        {/* A full load, so the list is read again. */}
-        <a href="/mailbox" className="font-semibold text-accent underline hover:text-accent-hover">
-          Refresh the mailbox
-        </a>
-      </p>
+      {mailbox.status !== 'signed-out' ? (
+        <p>
+          {/* A full load, so the list is read again. */}
+          <a href="/mailbox" className="font-semibold text-accent underline hover:text-accent-hover">
+            Refresh the mailbox
+          </a>
+        </p>
+      ) : null}
     </div>
   );
 }
