@@ -12,6 +12,8 @@ interface UserRow {
   isAdmin: boolean;
   disabledAt: string | null;
   lockedAt: string | null;
+  /** When a timed lock ends; null with lockedAt set: until an administrator unlocks. */
+  lockedUntil: string | null;
   hasPassword: boolean;
 }
 interface ProjectRow {
@@ -37,9 +39,14 @@ const ROLES = [
 ];
 
 
-function UserAction({ user, action, onDone }: { user: UserRow; action: 'disable' | 'enable' | 'unlock'; onDone: () => void }) {
+/** `2026-12-03 14:05 UTC`, the same on every machine. */
+function utcMinute(iso: string): string {
+  return `${iso.slice(0, 10)} ${iso.slice(11, 16)} UTC`;
+}
+
+function UserAction({ user, action, onDone }: { user: UserRow; action: 'disable' | 'enable' | 'lock' | 'unlock'; onDone: () => void }) {
   const [open, setOpen] = useState(false);
-  const label = { disable: 'Disable', enable: 'Enable', unlock: 'Unlock' }[action];
+  const label = { disable: 'Disable', enable: 'Enable', lock: 'Lock', unlock: 'Unlock' }[action];
   if (!open) {
     return (
       <button type="button" onClick={() => setOpen(true)} className="font-semibold text-accent underline">
@@ -95,10 +102,19 @@ export function AdminConsole() {
                 </td>
                 <td className="py-2 pr-3 font-mono">{u.email}</td>
                 <td className="py-2 pr-3">
-                  {u.disabledAt ? 'disabled' : u.lockedAt ? <span className="text-fail">locked</span> : u.hasPassword ? 'active' : 'invited'}
+                  {u.disabledAt ? (
+                    'disabled'
+                  ) : u.lockedAt ? (
+                    <span className="text-fail">{u.lockedUntil ? `locked until ${utcMinute(u.lockedUntil)} (failed passwords)` : 'locked by an administrator'}</span>
+                  ) : u.hasPassword ? (
+                    'active'
+                  ) : (
+                    'invited'
+                  )}
                 </td>
                 <td className="space-y-1 py-2">
                   {u.lockedAt ? <UserAction user={u} action="unlock" onDone={() => void users.mutate()} /> : null}
+                  {!u.disabledAt && (!u.lockedAt || u.lockedUntil) ? <UserAction user={u} action="lock" onDone={() => void users.mutate()} /> : null}
                   <UserAction user={u} action={u.disabledAt ? 'enable' : 'disable'} onDone={() => void users.mutate()} />
                 </td>
               </tr>

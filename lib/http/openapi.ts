@@ -8,6 +8,7 @@ import { attachmentSchema } from '@/lib/attachments/attachments';
 import { auditQuerySchema } from '@/lib/audit/query';
 import { passwordChangeSchema, resetConfirmSchema, resetRequestSchema } from '@/lib/auth/account';
 import { API_TOKEN_PREFIX, apiTokenInputSchema } from '@/lib/auth/api-tokens';
+import { unlockSchema } from '@/lib/auth/lockout';
 import { evaluateRequestSchema } from '@/lib/calc/evaluate-request';
 import { sheetFileSchema } from '@/lib/calc/sheet-file';
 import { ENGINE_VERSION } from '@/lib/calc/version';
@@ -126,7 +127,8 @@ export const OPERATIONS: Operation[] = [
     description:
       'Handled by next-auth, with its CSRF token (from `GET /api/auth/csrf`) in the form: `callback/password` (fields `email`, `password`), ' +
       '`callback/link` (field `token`, from an e-mailed sign-in link), `signin/oidc` (single sign-on), `signout`. ' +
-      'Five failed passwords in a row lock the account; attempts are rate limited per address and per client.',
+      'Five failed passwords in a row (at sign-in, a signature or a password change) lock the account for a while, longer each time, and e-mail its holder an unlock link; ' +
+      'failed attempts from one client address are slowed down with growing waits.',
     tags: ['sign-in'],
     auth: 'none',
     params: { nextauth: { description: 'The next-auth action, e.g. `callback/password`, `callback/link`, `signin/oidc`, `signout`.', schema: z.string() } },
@@ -153,6 +155,20 @@ export const OPERATIONS: Operation[] = [
     auth: 'none',
     body: { schema: resetConfirmSchema },
     responses: { 200: json('The password is changed and the account\'s sessions ended.', res.okSchema), ...errors([400, 413], { 400: 'Invalid body, a password that is too weak, or an unknown, used or expired token.' }) },
+  },
+  {
+    method: 'POST',
+    path: '/api/auth/unlock',
+    operationId: 'unlockAccount',
+    summary: 'Unlock an account with the e-mailed unlock link',
+    description: 'The link is e-mailed to the holder when failed passwords lock the account; it works once, and not on a lock set by an administrator.',
+    tags: ['sign-in'],
+    auth: 'none',
+    body: { schema: unlockSchema },
+    responses: {
+      200: json('The account is unlocked and its count of failed passwords starts again.', res.okSchema),
+      ...errors([400, 409, 413], { 400: 'Invalid body, or an unknown, used or expired link.', 409: 'An administrator has locked the account since.' }),
+    },
   },
   {
     method: 'POST',
@@ -244,8 +260,8 @@ export const OPERATIONS: Operation[] = [
     method: 'PATCH',
     path: '/api/admin/users/{userId}',
     operationId: 'changeUser',
-    summary: 'Disable, enable or unlock an account, with a reason',
-    description: 'Administrators only. Accounts are never deleted: signatures must stay readable.',
+    summary: 'Disable, enable, lock or unlock an account, with a reason',
+    description: 'Administrators only. Accounts are never deleted: signatures must stay readable. An administrator\'s lock lasts until an administrator unlocks.',
     tags: ['admin'],
     auth: 'session or API token',
     params: { userId: uuidParam('user') },

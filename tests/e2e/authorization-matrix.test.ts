@@ -65,6 +65,7 @@ const MATRIX: Record<string, Entry> = {
     expect: { default: 400 },
   },
   'POST /api/auth/sign-in-link': { request: () => ({ path: '/api/auth/sign-in-link', body: { email: 'nobody@example.test' } }), expect: { default: 202 } },
+  'POST /api/auth/unlock': { request: () => ({ path: '/api/auth/unlock', body: { token: 'not-a-real-unlock-token' } }), expect: { default: 400 } },
   'POST /api/evaluate': { request: () => ({ path: '/api/evaluate', body: { cells: [{ id: 'a', kind: 'calc', source: 'x_1 = 2 m' }] } }), expect: signedIn(200) },
   'GET /api/account': { request: () => ({ path: '/api/account' }), expect: signedIn(200) },
   'POST /api/account/password': {
