@@ -20,7 +20,7 @@ import { cellSchema, type Cell } from '@/lib/sheets/content';
 import { compareVersions, type VersionComparison } from '@/lib/sheets/compare';
 import { formatSheetNumber } from '@/lib/sheets/sheet-number';
 import { getVersion } from '@/lib/sheets/sheets';
-import { approverRefusal, checkerRefusal, type Person, type Refusal } from './rules';
+import { approverRefusal, checkerRefusal, mayAnswerThreads, type Participants, type Person, type Refusal } from './rules';
 import { statusOf } from './status';
 
 type Db = Kysely<Database> | Transaction<Database>;
@@ -90,11 +90,33 @@ export async function lastApprovedNumber(db: Db, sheetId: string): Promise<numbe
   return row?.n === null || row?.n === undefined ? null : Number(row.n);
 }
 
-/** Everyone who saved a version after `after` (the last approved version) up to `upTo`. */
-export async function originatorsSince(db: Db, sheetId: string, after: number | null, upTo: number): Promise<Set<string>> {
-  let q = db.selectFrom('versions').select('author_id').distinct().where('sheet_id', '=', sheetId).where('number', '<=', upTo);
+/**
+ * Everyone who saved a version after `after` (the last approved version): those saved after the
+ * version under check count too (a newer version is the same change carried on).
+ */
+export async function originatorsSince(db: Db, sheetId: string, after: number | null): Promise<Set<string>> {
+  let q = db.selectFrom('versions').select('author_id').distinct().where('sheet_id', '=', sheetId);
   if (after !== null) q = q.where('number', '>', after);
   return new Set((await q.execute()).map((r) => r.author_id));
+}
+
+/** The safety flag a version records in its content (hashed and immutable); a version without one counts as safety-related. */
+const versionSafetyFlag = (alias: 'v') => sql<boolean>`coalesce((${sql.ref(`${alias}.content`)} ->> 'safetyRelated')::boolean, true)`;
+
+/**
+ * Who authored or signed anything on version `versionNumber` of a sheet since the last approved
+ * version `after`, and the safety flag that version records: the independence rules read this.
+ * `current` names the submitter and checker of the submission being made or the check being decided.
+ */
+export async function participants(db: Db, sheetId: string, after: number | null, versionNumber: number, current: { preparerId?: string; checkerId?: string } = {}): Promise<Participants> {
+  const originators = await originatorsSince(db, sheetId, after);
+  const signed = await db.selectFrom('signatures').select(['user_id', 'meaning']).where('sheet_id', '=', sheetId).where('version_number', '=', versionNumber).where('meaning', 'in', ['prepared', 'checked']).execute();
+  const version = await db.selectFrom('versions as v').select(versionSafetyFlag('v').as('safety_related')).where('v.sheet_id', '=', sheetId).where('v.number', '=', versionNumber).executeTakeFirst();
+  const preparers = new Set(signed.filter((s) => s.meaning === 'prepared').map((s) => s.user_id));
+  const checkers = new Set(signed.filter((s) => s.meaning === 'checked').map((s) => s.user_id));
+  if (current.preparerId) preparers.add(current.preparerId);
+  if (current.checkerId) checkers.add(current.checkerId);
+  return { originators, preparers, checkers, safetyRelated: version?.safety_related ?? true };
 }
 
 // ── Signatures ───────────────────────────────────────────────────────────────────────────────
@@ -172,7 +194,7 @@ async function loadCheck(db: Db, checkId: string) {
     .innerJoin('sheets as s', 's.id', 'c.sheet_id')
     .innerJoin('projects as p', 'p.id', 'c.project_id')
     .selectAll('c')
-    .select(['s.number as sheet_number', 's.title as sheet_title', 's.safety_related', 'p.code as project_code'])
+    .select(['s.number as sheet_number', 's.title as sheet_title', 'p.code as project_code'])
     .where('c.id', '=', checkId)
     .executeTakeFirst();
 }
@@ -191,10 +213,13 @@ const conflict = (check: { state: CheckState }, wanted: string) =>
 
 // ── Submit ───────────────────────────────────────────────────────────────────────────────────
 
-/** The project's checkers, each with the reason they cannot check this sheet's next submission, if any. */
-export async function eligibleCheckers(db: Db, sheet: { id: string; project_id: string }, versionNumber: number) {
+/**
+ * The project's checkers, each with the reason they cannot check version `versionNumber` if
+ * `submitterId` submitted it now (the submitter signs it prepared and cannot also check it).
+ */
+export async function eligibleCheckers(db: Db, sheet: { id: string; project_id: string }, versionNumber: number, submitterId?: string) {
   const after = await lastApprovedNumber(db, sheet.id);
-  const originators = await originatorsSince(db, sheet.id, after, versionNumber);
+  const who = await participants(db, sheet.id, after, versionNumber, { preparerId: submitterId });
   const members = await db
     .selectFrom('project_members as m')
     .innerJoin('users as u', 'u.id', 'm.user_id')
@@ -205,7 +230,7 @@ export async function eligibleCheckers(db: Db, sheet: { id: string; project_id: 
     .orderBy('u.display_name')
     .execute();
   return members.map((m) => {
-    const refusal = checkerRefusal({ userId: m.id, name: m.display_name, roles: ['checker'] }, originators);
+    const refusal = checkerRefusal({ userId: m.id, name: m.display_name, roles: ['checker'] }, who);
     return { userId: m.id, name: m.display_name, eligible: refusal === null, reason: refusal?.message ?? null };
   });
 }
@@ -219,7 +244,8 @@ export async function submitForCheck(db: Kysely<Database>, actor: Actor, sheet: 
   }
   const checker = await person(db, sheet.project_id, input.checkerId);
   if (checker.disabled) throw new AppError('bad_request', `${checker.name}'s account is disabled.`);
-  const refusal = checkerRefusal(checker, await originatorsSince(db, sheet.id, after, input.versionNumber));
+  // The submitter signs it prepared: they count as its preparer, beside everyone who authored or signed it.
+  const refusal = checkerRefusal(checker, await participants(db, sheet.id, after, input.versionNumber, { preparerId: actor.userId }));
   if (refusal) await refuse(db, actor, sheet, refusal, 'submit');
   await confirmPassword(db, actor, sheet, 'prepared', input.password);
 
@@ -313,26 +339,36 @@ export async function saveCheckWork(db: Kysely<Database>, actor: Actor, checkId:
     const references = await resolveReferences(db, check.project_id, findReferences(input.alternateCells), { excludeSheetId: check.sheet_id });
     results = input.alternateCells.length ? await getEvaluator().evaluate(input.alternateCells, { significantFigures: 6, references }, `check:${check.id}`) : null;
   }
-  const updated = await db
-    .updateTable('checks')
-    .set({
-      ...(input.verificationMethod !== undefined ? { verification_method: input.verificationMethod } : {}),
-      ...(input.checkerNotes !== undefined ? { checker_notes: input.checkerNotes } : {}),
-      ...(input.alternateCells ? { alternate_cells: JSON.stringify(input.alternateCells), alternate_results: results ? JSON.stringify(results) : null } : {}),
-      updated_at: sql`now()`,
-    })
-    .where('id', '=', check.id)
-    .where('state', '=', 'in_check')
-    .returning('id')
-    .executeTakeFirst();
-  if (!updated) throw conflict((await loadCheck(db, check.id))!, 'changed');
-  return { ok: true, alternateResults: results ?? null };
+  const given = { method: input.verificationMethod !== undefined, notes: input.checkerNotes !== undefined, cells: input.alternateCells !== undefined };
+  if (!given.method && !given.notes && !given.cells) return { ok: true, alternateResults: null };
+  return db.transaction().execute(async (trx) => {
+    // The values before the change, read under a row lock, so that the audit event records them exactly.
+    const before = await trx.selectFrom('checks').select(['state', 'verification_method', 'checker_notes', 'alternate_cells']).where('id', '=', check.id).forUpdate().executeTakeFirstOrThrow();
+    if (before.state !== 'in_check') throw conflict(before, 'changed');
+    await trx
+      .updateTable('checks')
+      .set({
+        ...(given.method ? { verification_method: input.verificationMethod } : {}),
+        ...(given.notes ? { checker_notes: input.checkerNotes } : {}),
+        ...(input.alternateCells ? { alternate_cells: JSON.stringify(input.alternateCells), alternate_results: results ? JSON.stringify(results) : null } : {}),
+        updated_at: sql`now()`,
+      })
+      .where('id', '=', check.id)
+      .execute();
+    const oldValue: Record<string, unknown> = {};
+    const newValue: Record<string, unknown> = {};
+    if (given.method) [oldValue.verificationMethod, newValue.verificationMethod] = [before.verification_method, input.verificationMethod];
+    if (given.notes) [oldValue.checkerNotes, newValue.checkerNotes] = [before.checker_notes, input.checkerNotes];
+    if (given.cells) [oldValue.alternateCells, newValue.alternateCells] = [before.alternate_cells, input.alternateCells];
+    await recordAudit(trx, actor, { action: 'check.work', objectType: 'check', objectId: check.id, projectId: check.project_id, oldValue, newValue });
+    return { ok: true, alternateResults: results ?? null };
+  });
 }
 
 export async function addComment(db: Kysely<Database>, actor: Actor, checkId: string, input: z.infer<typeof commentSchema>) {
-  const { check, roles } = await requireCheck(db, actor, checkId);
+  const { check } = await requireCheck(db, actor, checkId);
   const isChecker = check.checker_id === actor.userId;
-  if (!isChecker && !roles.includes('originator')) throw new AppError('forbidden', 'Only the checker and the sheet\u2019s originators comment on a check.');
+  if (!mayAnswerThreads(check, actor.userId)) throw new AppError('forbidden', 'Only the people of this check (the person who submitted it, its checker and its approver) comment on it.');
   const answeringReturn = input.threadId !== undefined && (check.state === 'returned' || check.state === 'approval_returned') && !(await submittedAgain(db, check));
   if (check.state !== 'in_check' && !answeringReturn) throw conflict(check, 'commented on');
   if (!input.threadId && !isChecker) throw new AppError('forbidden', 'The checker opens comment threads; originators answer them.');
@@ -390,7 +426,8 @@ export async function decide(db: Kysely<Database>, actor: Actor, checkId: string
   const code = formatSheetNumber(check.project_code, check.sheet_number);
   const link = `${appUrl()}/checks/${check.id}`;
   const version = { sheetId: check.sheet_id, projectId: check.project_id, number: check.version_number, sha256: check.version_sha256 };
-  const originators = await originatorsSince(db, check.sheet_id, check.base_version_number, check.version_number);
+  // Everyone who authored or signed anything on the version, read again at every transition.
+  const who = await participants(db, check.sheet_id, check.base_version_number, check.version_number, { preparerId: check.submitted_by, checkerId: check.checker_id });
   const submitter = await person(db, check.project_id, check.submitted_by);
   const checker = await person(db, check.project_id, check.checker_id);
   const me = await person(db, check.project_id, actor.userId);
@@ -399,11 +436,11 @@ export async function decide(db: Kysely<Database>, actor: Actor, checkId: string
     if (check.checker_id !== actor.userId) throw new AppError('forbidden', `Only ${checker.name}, the checker named on this check, can ${decision.action === 'sign' ? 'sign it as checked' : 'return it'}.`);
     if (check.state !== 'in_check') throw conflict(check, decision.action === 'sign' ? 'signed as checked' : 'returned');
     // The rules are checked again at the decision: roles may have changed since the submission.
-    const refusal = checkerRefusal(me, originators);
+    const refusal = checkerRefusal(me, who);
     if (refusal) await refuse(db, actor, sheet, refusal, decision.action);
   } else {
     if (check.state !== 'checked') throw conflict(check, decision.action === 'approve' ? 'approved' : 'returned by an approver');
-    const refusal = approverRefusal({ ...me, roles }, originators, check.checker_id, check.safety_related);
+    const refusal = approverRefusal({ ...me, roles }, who);
     if (refusal) await refuse(db, actor, sheet, refusal, decision.action);
   }
 
@@ -461,7 +498,7 @@ export async function decide(db: Kysely<Database>, actor: Actor, checkId: string
         .where('m.role', '=', 'approver')
         .where('u.disabled_at', 'is', null)
         .execute();
-      const eligible = approvers.filter((a) => !approverRefusal({ userId: a.id, name: a.display_name, roles: ['approver'] }, originators, check.checker_id, check.safety_related));
+      const eligible = approvers.filter((a) => !approverRefusal({ userId: a.id, name: a.display_name, roles: ['approver'] }, who));
       await notify(trx, [submitter], 'check-checked', `${v} is checked`, [`${actor.name} signed ${v} "${check.sheet_title}" as checked. It now awaits approval.`], link);
       await notify(trx, eligible.map((a) => ({ email: a.email, name: a.display_name })), 'approval-requested', `${v} awaits your approval`, [`${v} "${check.sheet_title}" is checked by ${actor.name} and awaits approval.`], link);
     } else if (decision.action === 'approve') {
@@ -507,19 +544,20 @@ export async function getCheckDetail(db: Kysely<Database>, actor: Actor, checkId
       openedOnVersion: t.check_version,
       comments: comments.filter((c) => c.id === t.id || c.thread_id === t.id).map((c) => ({ id: c.id, author: c.author, body: c.body, createdAt: new Date(c.created_at).toISOString() })),
     }));
-  const originators = await originatorsSince(db, check.sheet_id, check.base_version_number, check.version_number);
+  const who = await participants(db, check.sheet_id, check.base_version_number, check.version_number, { preparerId: check.submitted_by, checkerId: check.checker_id });
   const me = { userId: actor.userId, name: actor.name, roles };
   const isChecker = check.checker_id === actor.userId;
   const actions: Decision['action'][] = [];
-  if (check.state === 'in_check' && isChecker && !checkerRefusal(me, originators)) actions.push('return', 'sign');
-  const approverProblem = approverRefusal(me, originators, check.checker_id, check.safety_related);
+  const checkerProblem = check.state === 'in_check' && isChecker ? checkerRefusal(me, who) : null;
+  if (check.state === 'in_check' && isChecker && !checkerProblem) actions.push('return', 'sign');
+  const approverProblem = approverRefusal(me, who);
   const answeringReturn = (check.state === 'returned' || check.state === 'approval_returned') && threads.some((t) => !t.resolvedAt) && !(await submittedAgain(db, check));
   if (check.state === 'checked' && !approverProblem) actions.push('approve', 'reject');
   return {
     id: check.id,
     state: check.state,
     stateLabel: STATE_LABELS[check.state],
-    sheet: { id: check.sheet_id, number: check.sheet_number, code: formatSheetNumber(check.project_code, check.sheet_number), title: check.sheet_title, safetyRelated: check.safety_related, projectCode: check.project_code },
+    sheet: { id: check.sheet_id, number: check.sheet_number, code: formatSheetNumber(check.project_code, check.sheet_number), title: check.sheet_title, safetyRelated: who.safetyRelated, projectCode: check.project_code },
     version: { number: version.number, sha256: version.sha256, author: version.author, createdAt: new Date(version.createdAt).toISOString(), message: version.message, content: version.content, results: version.results },
     base: base ? { number: base.number, sha256: base.sha256, content: base.content, results: base.results } : null,
     comparison,
@@ -535,10 +573,12 @@ export async function getCheckDetail(db: Kysely<Database>, actor: Actor, checkId
     signatures: signatures.filter((s) => s.versionNumber === check.version_number),
     you: {
       isChecker,
-      canComment: (check.state === 'in_check' || answeringReturn) && (isChecker || roles.includes('originator')),
+      canComment: (check.state === 'in_check' || answeringReturn) && mayAnswerThreads(check, actor.userId),
       canOpenThreads: check.state === 'in_check' && isChecker,
       actions,
       approverRefusal: check.state === 'checked' && roles.includes('approver') ? (approverProblem?.message ?? null) : null,
+      /** Why the named checker may not return or sign it (the rules read again at every transition). */
+      checkerRefusal: checkerProblem?.message ?? null,
     },
   };
 }
@@ -552,7 +592,9 @@ export async function listQueue(db: Kysely<Database>, actor: Actor, queue: 'chec
     .innerJoin('projects as p', 'p.id', 'c.project_id')
     .innerJoin('users as o', 'o.id', 'c.submitted_by')
     .innerJoin('users as k', 'k.id', 'c.checker_id')
-    .select(['c.id', 'c.state', 'c.version_number', 'c.version_sha256', 'c.created_at', 'c.updated_at', 'c.checker_id', 'c.base_version_number', 'c.sheet_id', 's.number', 's.title', 's.safety_related', 'p.code', 'p.id as project_id', 'o.display_name as submitted_by', 'k.display_name as checker']);
+    .innerJoin('versions as v', (j) => j.onRef('v.sheet_id', '=', 'c.sheet_id').onRef('v.number', '=', 'c.version_number'))
+    .select(['c.id', 'c.state', 'c.version_number', 'c.version_sha256', 'c.created_at', 'c.updated_at', 'c.checker_id', 'c.submitted_by as submitter_id', 'c.base_version_number', 'c.sheet_id', 's.number', 's.title', 'p.code', 'p.id as project_id', 'o.display_name as submitted_by', 'k.display_name as checker'])
+    .select(versionSafetyFlag('v').as('safety_related'));
   if (queue === 'check') q = q.where('c.checker_id', '=', actor.userId).where('c.state', '=', 'in_check');
   else
     q = q
@@ -564,8 +606,8 @@ export async function listQueue(db: Kysely<Database>, actor: Actor, queue: 'chec
     let eligible = true;
     let reason: string | null = null;
     if (queue === 'approval') {
-      const originators = await originatorsSince(db, r.sheet_id, r.base_version_number, r.version_number);
-      const refusal = approverRefusal({ userId: actor.userId, name: actor.name, roles: ['approver'] }, originators, r.checker_id, r.safety_related);
+      const who = await participants(db, r.sheet_id, r.base_version_number, r.version_number, { preparerId: r.submitter_id, checkerId: r.checker_id });
+      const refusal = approverRefusal({ userId: actor.userId, name: actor.name, roles: ['approver'] }, who);
       eligible = refusal === null;
       reason = refusal?.message ?? null;
     }

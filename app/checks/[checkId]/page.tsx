@@ -238,6 +238,11 @@ export default async function CheckPage({ params }: { params: Promise<{ checkId:
                 {you.approverRefusal}
               </p>
             ) : null}
+            {you.checkerRefusal ? (
+              <p role="note" className="rounded bg-caution-soft px-3 py-2 text-sm text-caution">
+                {you.checkerRefusal}
+              </p>
+            ) : null}
             <DecisionPanel checkId={check.id} actions={you.actions} versionNumber={version.number} sha256={version.sha256} openThreads={openThreads} methodRecorded={check.verificationMethod !== null} />
           </section>
           <section aria-labelledby="signatures-title" className="space-y-2 rounded border border-rule bg-surface p-4">

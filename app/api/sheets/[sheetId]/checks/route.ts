@@ -11,9 +11,10 @@ type Context = { params: Promise<{ sheetId: string }> };
 /** Where the sheet stands: its checks, signatures, and the checkers who may check its latest version. */
 export function GET(request: Request, { params }: Context): Promise<Response> {
   return handle(request, async () => {
-    const { sheet } = await requireSheetAccess((await routeParams(params)).sheetId);
+    const { actor, sheet } = await requireSheetAccess((await routeParams(params)).sheetId);
     const workflow = await sheetWorkflow(getDb(), sheet.id);
-    return Response.json({ ...workflow, checkers: await eligibleCheckers(getDb(), sheet, workflow.latestVersion) });
+    // Eligibility as if the caller submitted it: the submitter cannot also check it.
+    return Response.json({ ...workflow, checkers: await eligibleCheckers(getDb(), sheet, workflow.latestVersion, actor.userId) });
   });
 }
 

@@ -54,7 +54,7 @@ function whereItStands(wf: SheetWorkflow): { text: string; checkId: string | nul
 export default async function SheetPage({ params, searchParams }: { params: Promise<{ projectCode: string; sheetNumber: string }>; searchParams: Promise<{ version?: string }> }) {
   const { projectCode, sheetNumber } = await params;
   const { version: versionParam } = await searchParams;
-  const { project, roles } = await pageProject(projectCode, `/projects/${projectCode}/sheets/${sheetNumber}`);
+  const { project, roles, actor } = await pageProject(projectCode, `/projects/${projectCode}/sheets/${sheetNumber}`);
   const { sheetNumber: number } = pageParams({ sheetNumber }) ?? notFound();
   const sheet = await getSheetByNumber(getDb(), project.id, number);
   if (!sheet) notFound();
@@ -73,11 +73,11 @@ export default async function SheetPage({ params, searchParams }: { params: Prom
   const latest = versions[0]?.number;
   const code = formatSheetNumber(project.code, sheet.number);
   const isOriginator = roles.includes('originator');
-  const checkers = isOriginator ? await eligibleCheckers(getDb(), sheet, workflow.latestVersion) : [];
+  const checkers = isOriginator ? await eligibleCheckers(getDb(), sheet, workflow.latestVersion, actor.userId) : [];
   // Eligibility depends on the version chosen (who saved what up to it): the newest ten, each its own.
   const submittableVersions = versions.map((v) => v.number).filter((n) => workflow.lastApprovedVersion === null || n > workflow.lastApprovedVersion).slice(0, 10);
   const checkersByVersion = isOriginator
-    ? Object.fromEntries(await Promise.all(submittableVersions.map(async (n) => [n, n === workflow.latestVersion ? checkers : await eligibleCheckers(getDb(), sheet, n)] as const)))
+    ? Object.fromEntries(await Promise.all(submittableVersions.map(async (n) => [n, n === workflow.latestVersion ? checkers : await eligibleCheckers(getDb(), sheet, n, actor.userId)] as const)))
     : {};
   const signatures: SignatureRow[] = workflow.signatures.map((s) => ({ ...s, meaningLabel: MEANING_LABELS[s.meaning] }));
   const stands = whereItStands(workflow);
