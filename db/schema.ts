@@ -259,6 +259,13 @@ export interface AuditEventsTable {
   token_id: ColumnType<string | null, string | null | undefined, never>;
 }
 
+/** Verification requests per client address in the current fixed window (lib/issue/verify-rate-limit.ts). */
+export interface VerifyRateLimitsTable {
+  address: string;
+  window_started_at: Generated<Date>;
+  requests: number;
+}
+
 export interface Database {
   users: UsersTable;
   projects: ProjectsTable;
@@ -277,6 +284,7 @@ export interface Database {
   sign_in_attempts: SignInAttemptsTable;
   email_tokens: EmailTokensTable;
   api_tokens: ApiTokensTable;
+  verify_rate_limits: VerifyRateLimitsTable;
 }
 
 export type User = Selectable<UsersTable>;

@@ -24,7 +24,7 @@ import { formatSheetNumber } from '@/lib/sheets/sheet-number';
 import { supersededInputs } from '@/lib/sheets/impact';
 import { getVersion } from '@/lib/sheets/sheets';
 import type { ObjectStore } from '@/lib/storage/object-store';
-import { verifyPdfSignature } from './cades';
+import { getSignatureParser } from './signature-parser';
 import { newVerificationCode, normaliseVerificationCode, revisionCode } from './codes';
 import { signingIdentity } from './identity';
 import type { RevisionPdfData } from './pdf-data';
@@ -558,7 +558,11 @@ function statusSentence(r: NonNullable<VerificationAnswer['revision']>): string 
   return `It is withdrawn (${r.withdrawnReason}): do not use it.`;
 }
 
-/** Whether an uploaded file is an authentic issued revision, which one, and where it stands. */
+/**
+ * Whether an uploaded file is an authentic issued revision, which one, and where it stands. A file
+ * whose signature container is beyond the budget (cades.ts SIGNATURE_BUDGET) or too costly to parse
+ * is refused (413) with a message saying so: no issued revision carries one.
+ */
 export async function verifyPdfFile(db: Kysely<Database>, bytes: Uint8Array): Promise<VerificationAnswer> {
   const empty = { hashInRegister: false, signatureValid: null, signedByOrganisation: null, stampedCopy: false };
   if (bytes.length === 0) return { authentic: false, summary: 'The file is empty.', revision: null, checks: empty, sha256: null };
@@ -567,7 +571,9 @@ export async function verifyPdfFile(db: Kysely<Database>, bytes: Uint8Array): Pr
   if (!buffer.subarray(0, 1024).toString('latin1').includes('%PDF-')) {
     return { authentic: false, summary: 'This file is not a PDF, so it is not a revision issued by Worldsheet.', revision: null, checks: empty, sha256 };
   }
-  const signature = verifyPdfSignature(buffer);
+  // Parsed in a worker thread, after the container's size and element count are checked here.
+  const signature = await getSignatureParser().verifyPdf(buffer);
+  if (signature.refused) throw new AppError('too_large', signature.problem!);
   const signedByOrganisation = signature.certificateSha256 ? signature.certificateSha256 === signingIdentity().certificateSha256 : null;
   const checks = { hashInRegister: false, signatureValid: signature.certificateSha256 ? signature.valid && signature.coversWholeFile : false, signedByOrganisation, stampedCopy: false };
   const revision = await describeRevision(db, { pdfSha256: sha256 });

@@ -6,11 +6,13 @@ import { execFileSync } from 'node:child_process';
 import { mkdtempSync, readFileSync, writeFileSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import path from 'node:path';
+import forge from 'node-forge';
 import { PDFDocument } from 'pdf-lib';
-import { beforeAll, describe, expect, it } from 'vitest';
-import { verifyPdfSignature } from '../../lib/issue/cades';
+import { afterEach, beforeAll, describe, expect, it, vi } from 'vitest';
+import { checkDerBudget, CONTAINER_TOO_COMPLEX, CONTAINER_TOO_LARGE, SIGNATURE_BUDGET, verifyPdfSignature } from '../../lib/issue/cades';
 import { signingIdentity } from '../../lib/issue/identity';
 import { signPdf } from '../../lib/issue/sign-pdf';
+import { derSequenceOfNulls, pdfWithSignatureContents } from '../support/hostile-pdf';
 
 const folder = mkdtempSync(path.join(tmpdir(), 'ws-sign-'));
 let signed: Buffer;
@@ -70,6 +72,55 @@ describe('the embedded signature', () => {
   it('makes the local test identity once and reuses it', () => {
     expect(readFileSync(path.join(folder, 'keys', 'README.txt'), 'utf8')).toMatch(/TEST certificate authority/);
     expect(signingIdentity().source).toMatch(/local test certificate authority/);
+  });
+});
+
+describe('the signature container budget (checked before anything parses it)', () => {
+  afterEach(() => vi.restoreAllMocks());
+
+  it('holds the product\u2019s own signature with room to spare', () => {
+    const budget = checkDerBudget(readContents(signed));
+    expect(budget).toMatchObject({ ok: true });
+    // A SignerInfo and a chain of two certificates: about 2.5 KiB and 150 elements.
+    if (budget.ok) {
+      expect(budget.bytes).toBeLessThan(SIGNATURE_BUDGET.maxDerBytes / 8);
+      expect(budget.elements).toBeLessThan(SIGNATURE_BUDGET.maxElements / 8);
+    }
+  });
+
+  it('refuses one DER sequence of 4.5 million elements as too large, without calling asn1.fromDer', () => {
+    const fromDer = vi.spyOn(forge.asn1, 'fromDer');
+    const hostile = pdfWithSignatureContents(derSequenceOfNulls(4_500_000));
+    expect(hostile.length).toBeGreaterThan(18_000_000);
+    expect(verifyPdfSignature(hostile)).toMatchObject({ valid: false, refused: 'too-large', problem: CONTAINER_TOO_LARGE, subFilter: 'ETSI.CAdES.detached' });
+    expect(CONTAINER_TOO_LARGE).toMatch(/^Not an authentic issued revision: signature container too large/);
+    expect(fromDer).not.toHaveBeenCalled();
+  });
+
+  it('refuses a container within the size cap but of too many elements as too complex, without calling asn1.fromDer', () => {
+    const der = derSequenceOfNulls(20_000);
+    expect(der.length).toBeLessThan(SIGNATURE_BUDGET.maxDerBytes);
+    expect(checkDerBudget(der)).toEqual({ ok: false, refused: 'too-complex' });
+    const fromDer = vi.spyOn(forge.asn1, 'fromDer');
+    expect(verifyPdfSignature(pdfWithSignatureContents(der))).toMatchObject({ valid: false, refused: 'too-complex', problem: CONTAINER_TOO_COMPLEX });
+    expect(CONTAINER_TOO_COMPLEX).toMatch(/^Not an authentic issued revision: signature container too complex/);
+    expect(fromDer).not.toHaveBeenCalled();
+  });
+
+  it('refuses deep nesting and lengths that overrun their parent as it walks', () => {
+    // 70 nested SEQUENCEs, each holding the next: deeper than the budget's 64.
+    let nested = Buffer.from([0x05, 0x00]);
+    for (let i = 0; i < 70; i++) nested = Buffer.concat([Buffer.from([0x30, ...(nested.length < 128 ? [nested.length] : [0x81, nested.length])]), nested]);
+    expect(checkDerBudget(nested)).toEqual({ ok: false, refused: 'too-complex' });
+    expect(checkDerBudget(Buffer.from([0x30, 0x04, 0x04, 0x05, 0x00, 0x00]))).toEqual({ ok: false, refused: 'malformed' });
+    expect(checkDerBudget(Buffer.from([0x30, 0x80, 0x05, 0x00, 0x00, 0x00]))).toEqual({ ok: false, refused: 'malformed' });
+    expect(checkDerBudget(Buffer.from([0x30, 0x02, 0x05, 0x00]))).toEqual({ ok: true, bytes: 4, elements: 2 });
+  });
+
+  it('reads a genuine container placed in the same wrapper (the wrapper is a fair test)', () => {
+    const wrapped = pdfWithSignatureContents(readContents(signed));
+    // Its digest cannot match (other bytes are signed), but the container is read and parsed.
+    expect(verifyPdfSignature(wrapped)).toMatchObject({ valid: false, refused: null, problem: 'The file was changed after it was signed: its digest no longer matches the signature.', signerOrganisation: 'Kestrelwick Beam Systems Ltd' });
   });
 });
 
