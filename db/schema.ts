@@ -259,6 +259,18 @@ export interface AuditEventsTable {
   token_id: ColumnType<string | null, string | null | undefined, never>;
 }
 
+/** A Content-Security-Policy violation report a browser sent (lib/http/csp-reports.ts). */
+export interface CspReportsTable {
+  id: Generated<string>;
+  received_at: Generated<Date>;
+  ip: string;
+  document_uri: string | null;
+  blocked_uri: string | null;
+  directive: string | null;
+  disposition: string | null;
+  report: ColumnType<unknown, string, never>;
+}
+
 /** Verification requests per client address in the current fixed window (lib/issue/verify-rate-limit.ts). */
 export interface VerifyRateLimitsTable {
   address: string;
@@ -285,6 +297,7 @@ export interface Database {
   email_tokens: EmailTokensTable;
   api_tokens: ApiTokensTable;
   verify_rate_limits: VerifyRateLimitsTable;
+  csp_reports: CspReportsTable;
 }
 
 export type User = Selectable<UsersTable>;

@@ -4,6 +4,7 @@ import { signIn } from 'next-auth/react';
 import { useRouter } from 'next/navigation';
 import { useId, useState } from 'react';
 import { JsonForm } from '@/components/forms/json-form';
+import { safeSameOriginPath } from '@/lib/http/same-origin';
 
 export function SignInForm({ callbackUrl, initialError, oidcName }: { callbackUrl: string; initialError: string | null; oidcName: string | null }) {
   const router = useRouter();
@@ -23,7 +24,9 @@ export function SignInForm({ callbackUrl, initialError, oidcName }: { callbackUr
       setError(result?.error && result.error !== 'CredentialsSignin' ? result.error : 'Sign-in failed.');
       return;
     }
-    router.push(callbackUrl);
+    // The page passed a same-origin path; resolved once more against the page's own origin, so that
+    // this form never sends the browser to another host whatever it is given.
+    router.push(safeSameOriginPath(callbackUrl, window.location.origin, '/projects'));
     router.refresh();
   }
 

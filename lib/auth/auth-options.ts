@@ -5,8 +5,11 @@
 import type { NextAuthOptions } from 'next-auth';
 import CredentialsProvider from 'next-auth/providers/credentials';
 import { getDb } from '@/db';
+import { safeSameOriginPath } from '@/lib/http/same-origin';
+import { httpsEnabled } from '@/lib/http/security-headers';
 import { recordAudit } from '@/lib/audit/record';
 import { clientAddress } from '@/lib/http/client-address';
+import { authCookies } from './auth-cookies';
 import { AuthError } from './auth-error';
 import { oidcProviders, signInWithOidc } from './oidc';
 import { endSession, startSession } from './sessions';
@@ -48,6 +51,9 @@ export const authOptions: NextAuthOptions = {
   secret: process.env.NEXTAUTH_SECRET,
   session: { strategy: 'jwt', maxAge: AUTH_SETTINGS.sessionMaxHours * 3600 },
   pages: { signIn: '/sign-in', error: '/sign-in' },
+  // Secure, __Host- cookies when served over HTTPS (lib/auth/auth-cookies.ts).
+  useSecureCookies: httpsEnabled(),
+  cookies: authCookies(httpsEnabled()),
   providers: [
     CredentialsProvider({
       id: 'password',
@@ -78,6 +84,11 @@ export const authOptions: NextAuthOptions = {
     ...oidcProviders(),
   ],
   callbacks: {
+    // Only a path on the app's own origin, as the URL parser resolves it (lib/http/same-origin.ts);
+    // a value the parser refuses falls back to the home page instead of failing the request.
+    async redirect({ url, baseUrl }) {
+      return `${baseUrl}${safeSameOriginPath(url, baseUrl, '/')}`;
+    },
     async signIn({ account, profile, user }) {
       if (account?.provider !== 'oidc') return true;
       const result = await signInWithOidc(getDb(), { profile: profile as Record<string, unknown> | undefined, account });

@@ -10,8 +10,10 @@
 //    application/x-www-form-urlencoded) are refused before anything reads them.
 //  - requests with an API token (Authorization: Bearer) are not subject to either rule (no browser
 //    attaches one by itself), but a read-only token may only read: 403 for anything but GET and HEAD.
-// The next-auth route (app/api/auth/[...nextauth]) is the one handler outside: next-auth checks its
-// own double-submit CSRF token on every POST that signs in or out.
+// The next-auth route (app/api/auth/[...nextauth]) is outside: next-auth checks its own
+// double-submit CSRF token on every POST that signs in or out. So is the CSP report sink
+// (app/api/csp-report), which browsers post to themselves in their own content types and which
+// reads no session.
 import type { ZodType } from 'zod';
 import { AppError, errorResponse, unstorableTextPath } from '@/lib/errors/app-error';
 import { appUrl } from '@/lib/http/app-url';
