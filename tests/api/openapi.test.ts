@@ -7,6 +7,7 @@ import { z, type ZodType } from 'zod';
 import { GET } from '../../app/api/openapi.json/route';
 import * as auditQuery from '../../lib/audit/query';
 import * as account from '../../lib/auth/account';
+import * as lockout from '../../lib/auth/lockout';
 import * as apiTokens from '../../lib/auth/api-tokens';
 import * as evaluateRequest from '../../lib/calc/evaluate-request';
 import * as sheetFile from '../../lib/calc/sheet-file';
@@ -195,6 +196,7 @@ describe('generated from the handlers\' zod schemas', () => {
       'lib/audit/query.ts': auditQuery,
       'lib/auth/account.ts': account,
       'lib/auth/api-tokens.ts': apiTokens,
+      'lib/auth/lockout.ts': lockout,
       'lib/calc/evaluate-request.ts': evaluateRequest,
       'lib/calc/sheet-file.ts': sheetFile,
       'lib/projects/projects.ts': projects,
