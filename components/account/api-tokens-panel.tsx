@@ -1,44 +1,133 @@
 'use client';
 
-import { useState } from 'react';
+import { useId, useState } from 'react';
 import useSWR from 'swr';
 import { fetchJson as fetcher } from '@/components/data/fetch-json';
-import { JsonForm } from '@/components/forms/json-form';
+
+type Scope = 'read' | 'read-write';
 
 interface TokenRow {
   id: string;
   name: string;
   prefix: string;
+  scope: Scope;
   created_at: string;
+  expires_at: string;
+  expired: boolean;
   last_used_at: string | null;
   revoked_at: string | null;
 }
 
+interface Created {
+  token: string;
+  scope: Scope;
+  expires_at: string;
+}
 
-export function ApiTokensPanel() {
+const SCOPE_TEXT: Record<Scope, string> = { read: 'read only', 'read-write': 'read and write' };
+
+/** `2026-12-03 14:05 UTC`: what the server stored, the same on every machine. */
+function utcMinute(at: string): string {
+  return `${at.slice(0, 10)} ${at.slice(11, 16)} UTC`;
+}
+
+/** Lifetimes offered at creation: the usual ones up to the maximum, and the default. */
+function lifetimes(defaultDays: number, maxDays: number): number[] {
+  return [...new Set([7, 30, 90, 180, 365, defaultDays, maxDays])].filter((d) => d >= 1 && d <= maxDays).sort((a, b) => a - b);
+}
+
+export function ApiTokensPanel({ defaultDays, maxDays }: { defaultDays: number; maxDays: number }) {
+  const id = useId();
   const { data, mutate } = useSWR<{ tokens: TokenRow[] }>('/api/account/tokens', fetcher);
-  const [secret, setSecret] = useState<string | null>(null);
-  async function revoke(id: string) {
-    await fetch(`/api/account/tokens/${id}`, { method: 'DELETE' });
+  const [created, setCreated] = useState<Created | null>(null);
+  const [state, setState] = useState<{ kind: 'idle' | 'busy' | 'error' | 'done'; message?: string }>({ kind: 'idle' });
+
+  async function create(event: React.FormEvent<HTMLFormElement>) {
+    event.preventDefault();
+    const form = new FormData(event.currentTarget);
+    const body = { name: String(form.get('name') ?? ''), scope: String(form.get('scope') ?? 'read'), expiresInDays: Number(form.get('expiresInDays')) };
+    setState({ kind: 'busy' });
+    try {
+      const response = await fetch('/api/account/tokens', { method: 'POST', headers: { 'content-type': 'application/json' }, body: JSON.stringify(body) });
+      const answer = (await response.json().catch(() => ({}))) as Partial<Created> & { error?: { message?: string } };
+      if (!response.ok || !answer.token) {
+        setState({ kind: 'error', message: answer.error?.message ?? `The server answered ${response.status}.` });
+        return;
+      }
+      setCreated({ token: answer.token, scope: answer.scope as Scope, expires_at: String(answer.expires_at) });
+      setState({ kind: 'done', message: 'Token created.' });
+      void mutate();
+    } catch {
+      setState({ kind: 'error', message: 'The server could not be reached.' });
+    }
+  }
+
+  async function revoke(tokenId: string) {
+    await fetch(`/api/account/tokens/${tokenId}`, { method: 'DELETE' });
     await mutate();
   }
+
   return (
     <div className="space-y-4">
-      <JsonForm
-        action="/api/account/tokens"
-        fields={[{ name: 'name', label: 'Token name', required: true, hint: 'What the token is for, e.g. "nightly export script".' }]}
-        submitLabel="Create a token"
-        successMessage="Token created."
-        onDone={(body) => {
-          setSecret(String(body.token));
-          void mutate();
-        }}
-      />
-      {secret ? (
+      <form onSubmit={create} className="max-w-md space-y-3" aria-describedby={`${id}-status`}>
+        <div>
+          <label htmlFor={`${id}-name`} className="block text-sm font-semibold">
+            Token name
+          </label>
+          <input
+            id={`${id}-name`}
+            name="name"
+            required
+            maxLength={100}
+            aria-describedby={`${id}-name-hint`}
+            className="w-full rounded border border-rule-strong bg-surface px-3 py-2"
+          />
+          <p id={`${id}-name-hint`} className="text-xs text-ink-muted">
+            What the token is for, e.g. &quot;nightly export script&quot;.
+          </p>
+        </div>
+        <fieldset>
+          <legend className="text-sm font-semibold">What it may do</legend>
+          <div className="flex items-center gap-2">
+            <input id={`${id}-scope-read`} type="radio" name="scope" value="read" defaultChecked className="h-4 w-4" />
+            <label htmlFor={`${id}-scope-read`} className="text-sm">
+              Read only
+            </label>
+          </div>
+          <div className="flex items-center gap-2">
+            <input id={`${id}-scope-rw`} type="radio" name="scope" value="read-write" className="h-4 w-4" />
+            <label htmlFor={`${id}-scope-rw`} className="text-sm">
+              Read and write (signing still asks for your password)
+            </label>
+          </div>
+        </fieldset>
+        <div>
+          <label htmlFor={`${id}-days`} className="block text-sm font-semibold">
+            Expires after
+          </label>
+          <select id={`${id}-days`} name="expiresInDays" defaultValue={String(defaultDays)} className="w-full rounded border border-rule-strong bg-surface px-3 py-2">
+            {lifetimes(defaultDays, maxDays).map((d) => (
+              <option key={d} value={d}>
+                {d} days
+              </option>
+            ))}
+          </select>
+        </div>
+        <button type="submit" disabled={state.kind === 'busy'} className="rounded bg-accent px-4 py-2 font-semibold text-surface hover:bg-accent-hover disabled:opacity-60">
+          {state.kind === 'busy' ? 'Working…' : 'Create a token'}
+        </button>
+        <p id={`${id}-status`} role={state.kind === 'error' ? 'alert' : 'status'} aria-live="polite" className={state.kind === 'error' ? 'text-sm text-fail' : 'text-sm text-pass'}>
+          {state.kind === 'error' || state.kind === 'done' ? state.message : ''}
+        </p>
+      </form>
+      {created ? (
         <div role="status" className="rounded border border-caution-rule bg-caution-soft p-3 text-sm text-caution">
           <p className="font-bold">Copy this token now: it is shown only once.</p>
-          <code className="mt-1 block break-all font-mono text-ink">{secret}</code>
-          <p className="mt-1">Send it as <code className="font-mono">Authorization: Bearer …</code>. It acts with your roles.</p>
+          <code className="mt-1 block break-all font-mono text-ink">{created.token}</code>
+          <p className="mt-1">
+            {SCOPE_TEXT[created.scope] ?? created.scope}; expires {utcMinute(created.expires_at)}. Send it as <code className="font-mono">Authorization: Bearer …</code>. It acts
+            with your roles.
+          </p>
         </div>
       ) : null}
       <table className="w-full border-collapse text-sm">
@@ -47,7 +136,9 @@ export function ApiTokensPanel() {
           <tr className="border-b border-rule-strong text-left">
             <th scope="col" className="py-2 pr-3">Name</th>
             <th scope="col" className="py-2 pr-3">Begins with</th>
+            <th scope="col" className="py-2 pr-3">May</th>
             <th scope="col" className="py-2 pr-3">Created</th>
+            <th scope="col" className="py-2 pr-3">Expires</th>
             <th scope="col" className="py-2 pr-3">Last used</th>
             <th scope="col" className="py-2">State</th>
           </tr>
@@ -57,11 +148,15 @@ export function ApiTokensPanel() {
             <tr key={t.id} className="border-b border-rule">
               <td className="py-2 pr-3">{t.name}</td>
               <td className="py-2 pr-3 font-mono">{t.prefix}…</td>
+              <td className="py-2 pr-3">{SCOPE_TEXT[t.scope] ?? t.scope}</td>
               <td className="py-2 pr-3">{t.created_at.slice(0, 10)}</td>
+              <td className="py-2 pr-3">{utcMinute(t.expires_at)}</td>
               <td className="py-2 pr-3">{t.last_used_at ? t.last_used_at.slice(0, 16).replace('T', ' ') : 'never'}</td>
               <td className="py-2">
                 {t.revoked_at ? (
                   'revoked'
+                ) : t.expired ? (
+                  'expired'
                 ) : (
                   <button type="button" onClick={() => revoke(t.id)} className="font-semibold text-fail underline">
                     Revoke {t.name}

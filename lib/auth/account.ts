@@ -9,6 +9,7 @@ import { AppError } from '@/lib/errors/app-error';
 import { enqueueMail } from '@/lib/mail/outbox';
 import { appUrl } from '@/lib/http/app-url';
 import type { Actor } from './actor';
+import { revokeUserApiTokens } from './api-tokens';
 import { consumeEmailToken, createEmailToken } from './email-tokens';
 import { checkAccountPassword, lockedMessage } from './lockout';
 import { hashPassword, passwordProblem } from './password';
@@ -20,16 +21,37 @@ const newPassword = z.string().superRefine((value, ctx) => {
   if (problem) ctx.addIssue({ code: 'custom', message: problem });
 });
 
-export const passwordChangeSchema = z.object({ currentPassword: z.string().min(1, 'enter your current password'), newPassword });
+export const passwordChangeSchema = z.object({
+  currentPassword: z.string().min(1, 'enter your current password'),
+  newPassword,
+  revokeTokens: z.boolean().default(false).meta({ description: 'Also revoke every API token of the account. The other browser sessions end in any case.' }),
+});
 export const resetRequestSchema = z.object({ email: z.string().trim().toLowerCase().email('enter an e-mail address').max(254) });
 export const resetConfirmSchema = z.object({ token: z.string().min(10).max(200), newPassword });
 
-export async function changePassword(db: Kysely<Database>, actor: Actor, input: z.infer<typeof passwordChangeSchema>): Promise<void> {
+/**
+ * Changes the password of the actor's account. The account's other sessions end (the one that made
+ * the change goes on), and its API tokens are revoked when `revokeTokens` asks; the audit event says
+ * how many of each.
+ */
+export async function changePassword(
+  db: Kysely<Database>,
+  actor: Actor,
+  input: z.input<typeof passwordChangeSchema>,
+): Promise<{ endedSessions: number; revokedTokens: number }> {
   await checkCurrentPassword(db, actor, input.currentPassword);
   const hashed = await hashPassword(input.newPassword);
-  await db.transaction().execute(async (trx) => {
+  return db.transaction().execute(async (trx) => {
     await trx.updateTable('users').set({ password_hash: hashed, password_changed_at: sql`now()` }).where('id', '=', actor.userId).execute();
-    await recordAudit(trx, actor, { action: 'user.password-change', objectType: 'user', objectId: actor.userId });
+    const endedSessions = await endUserSessions(trx, actor.userId, 'password changed', actor.sessionId);
+    const revokedTokens = input.revokeTokens ? await revokeUserApiTokens(trx, actor.userId) : 0;
+    await recordAudit(trx, actor, {
+      action: 'user.password-change',
+      objectType: 'user',
+      objectId: actor.userId,
+      newValue: { endedSessions, revokedTokens, tokensRevokeAsked: Boolean(input.revokeTokens) },
+    });
+    return { endedSessions, revokedTokens };
   });
 }
 
@@ -99,7 +121,11 @@ async function requestLink(db: Kysely<Database>, email: string, purpose: 'passwo
 export const requestPasswordReset = (db: Kysely<Database>, email: string) => requestLink(db, email, 'password-reset');
 export const requestSignInLink = (db: Kysely<Database>, email: string) => requestLink(db, email, 'sign-in');
 
-/** Sets a new password from a reset or invitation link; the link works once. Ends every session. */
+/**
+ * Sets a new password from a reset or invitation link; the link works once. Ends every session and
+ * revokes every API token of the account (whoever knew the old password may have made them); the
+ * audit event says how many of each.
+ */
 export async function confirmPasswordReset(db: Kysely<Database>, input: z.infer<typeof resetConfirmSchema>): Promise<void> {
   const hashed = await hashPassword(input.newPassword);
   await db.transaction().execute(async (trx) => {
@@ -107,7 +133,8 @@ export async function confirmPasswordReset(db: Kysely<Database>, input: z.infer<
       (await consumeEmailToken(trx, { token: input.token, purpose: 'password-reset' })) ?? (await consumeEmailToken(trx, { token: input.token, purpose: 'invitation' }));
     if (!userId) throw new AppError('bad_request', 'This link has expired or was already used. Ask for a new one.');
     await trx.updateTable('users').set({ password_hash: hashed, password_changed_at: sql`now()`, failed_sign_ins: 0 }).where('id', '=', userId).execute();
-    await endUserSessions(trx as unknown as Kysely<Database>, userId, 'password reset');
-    await recordAudit(trx, null, { action: 'user.password-reset', objectType: 'user', objectId: userId });
+    const endedSessions = await endUserSessions(trx, userId, 'password reset');
+    const revokedTokens = await revokeUserApiTokens(trx, userId);
+    await recordAudit(trx, null, { action: 'user.password-reset', objectType: 'user', objectId: userId, newValue: { endedSessions, revokedTokens } });
   });
 }

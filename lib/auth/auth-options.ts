@@ -12,7 +12,7 @@ import { clientAddress } from '@/lib/http/client-address';
 import { authCookies } from './auth-cookies';
 import { AuthError } from './auth-error';
 import { oidcProviders, signInWithOidc } from './oidc';
-import { endSession, startSession } from './sessions';
+import { signOutSession, startSession } from './sessions';
 import { AUTH_SETTINGS } from './settings';
 import { authenticateLink, authenticatePassword, type SignedInUser } from './sign-in';
 
@@ -107,9 +107,10 @@ export const authOptions: NextAuthOptions = {
     },
   },
   events: {
+    // Ends the server-side session and records auth.sign-out (lib/auth/sessions.ts).
     async signOut({ token }) {
       const sid = token?.sid as string | undefined;
-      if (sid) await endSession(getDb(), sid, 'signed out');
+      if (sid) await signOutSession(getDb(), sid);
     },
   },
 };

@@ -28,7 +28,17 @@ export const accountSchema = z.object({
 
 export const apiTokenListSchema = z.object({
   tokens: z.array(
-    z.object({ id: uuid, name: z.string(), prefix: z.string(), created_at: timestamp, last_used_at: timestamp.nullable(), revoked_at: timestamp.nullable() }),
+    z.object({
+      id: uuid,
+      name: z.string(),
+      prefix: z.string(),
+      scope: z.enum(['read', 'read-write']).meta({ description: '`read`: GET and HEAD requests only; `read-write`: also changes.' }),
+      created_at: timestamp,
+      expires_at: timestamp.meta({ description: 'The token stops working at this time.' }),
+      expired: z.boolean(),
+      last_used_at: timestamp.nullable(),
+      revoked_at: timestamp.nullable(),
+    }),
   ),
 });
 
@@ -36,6 +46,8 @@ export const apiTokenCreatedSchema = z.object({
   id: uuid,
   token: z.string().meta({ description: 'The secret (`wst_…`), shown in this response only; send it as `Authorization: Bearer <token>`.' }),
   prefix: z.string(),
+  scope: z.enum(['read', 'read-write']),
+  expires_at: timestamp.meta({ description: 'When the token stops working.' }),
 });
 
 export const createdIdSchema = z.object({ id: uuid });

@@ -7,7 +7,7 @@ import { z, type ZodObject, type ZodType } from 'zod';
 import { attachmentSchema } from '@/lib/attachments/attachments';
 import { auditQuerySchema } from '@/lib/audit/query';
 import { passwordChangeSchema, resetConfirmSchema, resetRequestSchema } from '@/lib/auth/account';
-import { API_TOKEN_PREFIX, apiTokenInputSchema } from '@/lib/auth/api-tokens';
+import { API_TOKEN_PREFIX, API_TOKEN_SETTINGS, apiTokenInputSchema } from '@/lib/auth/api-tokens';
 import { unlockSchema } from '@/lib/auth/lockout';
 import { evaluateRequestSchema } from '@/lib/calc/evaluate-request';
 import { sheetFileSchema } from '@/lib/calc/sheet-file';
@@ -154,7 +154,7 @@ export const OPERATIONS: Operation[] = [
     tags: ['sign-in'],
     auth: 'none',
     body: { schema: resetConfirmSchema },
-    responses: { 200: json('The password is changed and the account\'s sessions ended.', res.okSchema), ...errors([400, 413], { 400: 'Invalid body, a password that is too weak, or an unknown, used or expired token.' }) },
+    responses: { 200: json('The password is changed, the account\'s sessions ended and its API tokens revoked.', res.okSchema), ...errors([400, 413], { 400: 'Invalid body, a password that is too weak, or an unknown, used or expired token.' }) },
   },
   {
     method: 'POST',
@@ -201,7 +201,7 @@ export const OPERATIONS: Operation[] = [
     tags: ['account'],
     auth: 'session',
     body: { schema: passwordChangeSchema },
-    responses: { 200: json('Changed; the other sessions are ended.', res.okSchema), ...errors([400, 401, 403, 413]) },
+    responses: { 200: json('Changed; the other sessions are ended, and the API tokens revoked when `revokeTokens` asked.', res.okSchema), ...errors([400, 401, 403, 413]) },
   },
   {
     method: 'GET',
@@ -210,14 +210,18 @@ export const OPERATIONS: Operation[] = [
     summary: "The caller's API tokens (never their secrets)",
     tags: ['account'],
     auth: 'session or API token',
-    responses: { 200: json('Newest first, revoked ones included.', res.apiTokenListSchema), ...errors([401]) },
+    responses: { 200: json('Newest first, revoked and expired ones included.', res.apiTokenListSchema), ...errors([401]) },
   },
   {
     method: 'POST',
     path: '/api/account/tokens',
     operationId: 'createApiToken',
     summary: 'Create an API token',
-    description: `From a browser session only: a token cannot create tokens. The secret (\`${API_TOKEN_PREFIX}…\`) is in this response only.`,
+    description:
+      `From a browser session only: a token cannot create tokens. The secret (\`${API_TOKEN_PREFIX}…\`) is in this response only. ` +
+      `A token has a scope (\`read\`: GET and HEAD only, anything else answers 403; \`read-write\`) and expires after \`expiresInDays\` ` +
+      `(${API_TOKEN_SETTINGS.defaultDays} unless given, at most ${API_TOKEN_SETTINGS.maxDays}). It is refused while its owner is locked or disabled, ` +
+      'and revoked by a password reset.',
     tags: ['account'],
     auth: 'session',
     body: { schema: apiTokenInputSchema },

@@ -84,6 +84,8 @@ export async function changeUser(db: Kysely<Database>, actor: Actor, userId: str
       // unlocks, and the holder's e-mailed unlock links do not lift it. A timed lock becomes one.
       if (user.locked && user.lock_expires_at === null) throw new AppError('conflict', 'The account is locked already.');
       await trx.updateTable('users').set({ locked_at: sql`now()`, lock_expires_at: null }).where('id', '=', userId).execute();
+      // Its sessions end now; its API tokens are refused while the lock lasts (lib/auth/api-tokens.ts).
+      await endUserSessions(trx, userId, 'user locked');
     } else {
       if (!user.locked) throw new AppError('conflict', 'The account is not locked.');
       await trx.updateTable('users').set({ locked_at: null, lock_expires_at: null, failed_sign_ins: 0 }).where('id', '=', userId).execute();

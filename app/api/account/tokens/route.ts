@@ -10,12 +10,15 @@ export function GET(request: Request): Promise<Response> {
   return handle(request, async () => Response.json({ tokens: await listApiTokens(getDb(), (await requireActor()).userId) }));
 }
 
-/** Creates a token; its secret is in this response only. A token cannot create further tokens. */
+/**
+ * Creates a token with its scope and expiry; its secret is in this response only. A token cannot
+ * create further tokens.
+ */
 export function POST(request: Request): Promise<Response> {
   return handle(request, async () => {
     const actor = await requireActor();
     if (actor.via === 'token') throw new AppError('forbidden', 'Create tokens from a signed-in browser session.');
-    const { name } = await parseJson(request, apiTokenInputSchema);
-    return Response.json(await createApiToken(getDb(), actor, name), { status: 201 });
+    const { name, scope, expiresInDays } = await parseJson(request, apiTokenInputSchema);
+    return Response.json(await createApiToken(getDb(), actor, name, { scope, expiresInDays }), { status: 201 });
   });
 }
