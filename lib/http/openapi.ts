@@ -577,8 +577,9 @@ export const OPERATIONS: Operation[] = [
     summary: 'Submit one version for check by a named checker',
     description:
       'Originators of the project. Signs the version "prepared": the password is asked again (21 CFR Part 11 §11.200). The checker must hold ' +
-      'the checker role and must not have saved any version since the last approved one (ASME NQA-1 Requirement 3 §500); a refusal names the rule ' +
-      'in `details.rule` and is audited. One open check per sheet.',
+      'the checker role, must not have saved any version since the last approved one, later ones included (ASME NQA-1 Requirement 3 §500), and ' +
+      'must not be the submitter or anyone who submitted this version before; a refusal names the rule in `details.rule` and is audited. ' +
+      'One open check per sheet.',
     tags: ['checks'],
     auth: 'session or API token',
     params: sheetParam,
@@ -615,7 +616,7 @@ export const OPERATIONS: Operation[] = [
     path: '/api/checks/{checkId}',
     operationId: 'saveCheckWork',
     summary: 'Record the checker\'s work: verification method, notes, alternate calculation',
-    description: 'The checker named on the check, while it is in check. Alternate calculation cells are evaluated by the server.',
+    description: 'The checker named on the check, while it is in check. Alternate calculation cells are evaluated by the server. Audited (`check.work`) with the old and new values.',
     tags: ['checks'],
     auth: 'session or API token',
     params: { checkId: uuidParam('check') },
@@ -627,7 +628,7 @@ export const OPERATIONS: Operation[] = [
     path: '/api/checks/{checkId}/comments',
     operationId: 'addCheckComment',
     summary: 'Comment on a cell, or answer a comment thread',
-    description: 'The checker opens threads anchored to a cell (and optionally a statement line); the checker and the originators answer them. Only while in check.',
+    description: 'The checker opens threads anchored to a cell (and optionally a statement line); only the people of the check (its submitter, checker and approver) answer them; any other member gets 403. While in check, or on a returned check until the sheet is submitted again.',
     tags: ['checks'],
     auth: 'session or API token',
     params: { checkId: uuidParam('check') },
@@ -653,8 +654,9 @@ export const OPERATIONS: Operation[] = [
     summary: 'Return, sign as checked, approve, or return from approval',
     description:
       '`return` and `sign` by the checker named on the check while in check; `sign` needs every thread resolved, a verification method and the ' +
-      'password. `approve` (password) and `reject` by an approver who saved no version since the last approved one and, on a safety-related ' +
-      'sheet, is not the checker. Each signature is bound to the version\'s SHA-256. An illegal transition is 409 with `details.state`.',
+      'password. `approve` (password) and `reject` by an approver who saved no version since the last approved one (later ones included), did not ' +
+      'submit the version and, when the version under check records itself as safety-related, is not its checker. The rules are applied again at ' +
+      'every decision. Each signature is bound to the version\'s SHA-256. An illegal transition is 409 with `details.state`.',
     tags: ['checks'],
     auth: 'session or API token',
     params: { checkId: uuidParam('check') },
