@@ -107,6 +107,11 @@ export interface EvaluateHooks {
   onCellStart?: (index: number) => void;
   /** Cells not to evaluate, with the reason (set by the sandbox after a cell exceeded a limit). */
   skip?: ReadonlyMap<string, string>;
+  /**
+   * Partition of the cell cache (the server passes the project): a cell is answered from the cache
+   * only for a sheet of the same scope, so no one learns another project's cells from a fast answer.
+   */
+  cacheScope?: string;
 }
 
 interface CachedCell {
@@ -555,7 +560,7 @@ export function createSheetEngine(): SheetEngine {
         ...(inputU.size > 0 ? [`monteCarloUsed:${Math.min(monteCarloRequests, MONTE_CARLO_PER_SHEET)}`] : []),
         ...correlationContext,
       ];
-      const key = createHash('sha256').update(`${sig}\0${ci}\0${cell.source}\0${context.join('\0')}`).digest('base64');
+      const key = createHash('sha256').update(`${hooks.cacheScope ?? ''}\0${sig}\0${ci}\0${cell.source}\0${context.join('\0')}`).digest('base64');
 
       const cached = skipReason ? undefined : cellCache.get(key);
       if (cached) {

@@ -6,10 +6,10 @@ import { z } from 'zod';
 import type { Database } from '@/db/schema';
 import type { Actor } from '@/lib/auth/actor';
 import { recordAudit } from '@/lib/audit/record';
-import { getEvaluator } from '@/lib/calc/sandbox/evaluator';
 import { findReferences } from '@/lib/calc/references';
 import type { InputTable, ResolvedReference, SheetResult } from '@/lib/calc/types';
 import { resolveAttachments } from '@/lib/attachments/attachments';
+import { evaluateSandboxed, evaluationScope } from './evaluate-sandboxed';
 import { sheetStatuses } from '@/lib/checks/status';
 import { AppError } from '@/lib/errors/app-error';
 import { emptyRecord, versionContentSchema, type VersionContent } from './content';
@@ -59,9 +59,13 @@ export async function listSheets(db: Kysely<Database>, projectId: string, projec
   }));
 }
 
-/** Evaluates content with the server's sandboxed engine, for storing with a version. */
-async function evaluateContent(content: VersionContent, sheetKey: string, tables: InputTable[] = [], references: ResolvedReference[] = []): Promise<SheetResult> {
-  return getEvaluator().evaluate(content.cells, { significantFigures: content.significantFigures, tables, references }, sheetKey);
+/**
+ * Evaluates content with the server's sandboxed engine, for storing with a version: as a save, which
+ * the author's own editor evaluations in flight never make wait or refuse (lib/calc/sandbox/evaluator.ts),
+ * in the project's cache scope.
+ */
+async function evaluateContent(content: VersionContent, target: { sheetKey: string; projectId: string; userId: string }, tables: InputTable[] = [], references: ResolvedReference[] = []): Promise<SheetResult> {
+  return evaluateSandboxed(content.cells, { significantFigures: content.significantFigures, tables, references }, { kind: 'save', userId: target.userId, scope: evaluationScope({ projectId: target.projectId }), affinity: target.sheetKey });
 }
 
 /** A new sheet's version 1: its title, safety flag and objective, no cells. */
@@ -109,7 +113,7 @@ async function insertSheet(trx: Transaction<Database>, actor: Actor, project: { 
 
 export async function createSheet(db: Kysely<Database>, actor: Actor, project: { id: string; code: string }, input: z.infer<typeof createSheetSchema>) {
   const content = firstContent(input);
-  const results = await evaluateContent(content, `new:${project.id}`);
+  const results = await evaluateContent(content, { sheetKey: `new:${project.id}`, projectId: project.id, userId: actor.userId });
   return db.transaction().execute((trx) => insertSheet(trx, actor, project, input, content, results));
 }
 
@@ -120,9 +124,9 @@ export async function createSheet(db: Kysely<Database>, actor: Actor, project: {
 export async function createSheetWithContent(db: Kysely<Database>, actor: Actor, project: { id: string; code: string }, content: VersionContent, message: string) {
   const input = { title: content.title, safetyRelated: content.safetyRelated, objective: content.record.objective };
   const first = firstContent(input);
-  const firstResults = await evaluateContent(first, `new:${project.id}`);
+  const firstResults = await evaluateContent(first, { sheetKey: `new:${project.id}`, projectId: project.id, userId: actor.userId });
   // A new sheet has no attachments yet, and no revision of its own that a cell could cite.
-  const prepared = await prepareVersion(db, { id: null, project_id: project.id }, content);
+  const prepared = await prepareVersion(db, { id: null, project_id: project.id }, content, actor.userId);
   return db.transaction().execute(async (trx) => {
     const sheet = await insertSheet(trx, actor, project, input, first, firstResults);
     const saved = await insertVersion(trx, actor, { id: sheet.id, project_id: project.id }, { parentNumber: 1, message, content }, prepared);
@@ -167,12 +171,12 @@ interface PreparedVersion {
   hash: string;
 }
 
-async function prepareVersion(db: Kysely<Database>, sheet: { id: string | null; project_id: string }, content: VersionContent): Promise<PreparedVersion> {
+async function prepareVersion(db: Kysely<Database>, sheet: { id: string | null; project_id: string }, content: VersionContent, userId: string): Promise<PreparedVersion> {
   // Every attachment the content cites must be one uploaded to this sheet; CSV tables feed the cells.
   const tables = sheet.id ? await resolveAttachments(db, sheet.id, content.attachments) : [];
   // Citations of other sheets' issued revisions: resolved to the values as issued before evaluating.
   const citations = await resolveCitations(db, sheet.project_id, findReferences(content.cells), sheet.id ? { excludeSheetId: sheet.id } : {});
-  const results = await evaluateContent(content, sheet.id ?? `new:${sheet.project_id}`, tables, citations.map((c) => c.reference));
+  const results = await evaluateContent(content, { sheetKey: sheet.id ?? `new:${sheet.project_id}`, projectId: sheet.project_id, userId }, tables, citations.map((c) => c.reference));
   return { results, citations, hash: contentHash(content) };
 }
 
@@ -217,6 +221,6 @@ async function insertVersion(trx: Transaction<Database>, actor: Actor, sheet: { 
  * and hash) when the sheet has moved on since the parent, so the editor can show what changed.
  */
 export async function saveVersion(db: Kysely<Database>, actor: Actor, sheet: { id: string; project_id: string }, input: z.infer<typeof saveVersionSchema>) {
-  const prepared = await prepareVersion(db, sheet, input.content);
+  const prepared = await prepareVersion(db, sheet, input.content, actor.userId);
   return db.transaction().execute((trx) => insertVersion(trx, actor, sheet, input, prepared));
 }

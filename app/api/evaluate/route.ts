@@ -2,20 +2,20 @@ import { AppError } from '@/lib/errors/app-error';
 import { readJsonBody } from '@/lib/http/body';
 import { handle } from '@/lib/http/route';
 import { EVALUATE_MAX_BYTES, evaluateRequestSchema } from '@/lib/calc/evaluate-request';
-import { getEvaluator } from '@/lib/calc/sandbox/evaluator';
 import { requireActor } from '@/lib/auth/current-actor';
 import { getDb } from '@/db';
 import { resolveAttachments } from '@/lib/attachments/attachments';
 import { findReferences } from '@/lib/calc/references';
 import type { InputTable, ResolvedReference } from '@/lib/calc/types';
 import { requireSheetAccess } from '@/lib/sheets/access';
+import { evaluateSandboxed, evaluationScope } from '@/lib/sheets/evaluate-sandboxed';
 import { resolveReferences, unresolvedReferences } from '@/lib/sheets/references';
 
 export const dynamic = 'force-dynamic';
 
 export function POST(request: Request): Promise<Response> {
   return handle(request, async () => {
-    await requireActor();
+    const actor = await requireActor();
     const body = await readJsonBody(request, EVALUATE_MAX_BYTES);
     const parsed = evaluateRequestSchema.safeParse(body);
     if (!parsed.success) {
@@ -25,14 +25,21 @@ export function POST(request: Request): Promise<Response> {
     const { cells, significantFigures, sheetKey, sheetId, attachments } = parsed.data;
     if (attachments.length > 0 && !sheetId) throw new AppError('bad_request', 'sheetId: say which sheet the attachments belong to');
     const cited = findReferences(cells);
-    // The sheet (and the caller's membership of its project) matters only for attachments and citations.
-    const sheet = sheetId && (attachments.length > 0 || cited.length > 0) ? (await requireSheetAccess(sheetId)).sheet : null;
+    // The sheet, and the caller's membership of its project: its attachments and citations, and the
+    // cache scope (results are shared within a project only, never across).
+    const sheet = sheetId ? (await requireSheetAccess(sheetId)).sheet : null;
     let tables: InputTable[] = [];
     if (sheet && attachments.length > 0) tables = await resolveAttachments(getDb(), sheet.id, attachments);
     // Citations of issued revisions resolve within the sheet's project; without a sheet, to an error.
     let references: ResolvedReference[] = [];
     if (cited.length > 0) references = sheet ? await resolveReferences(getDb(), sheet.project_id, cited, { excludeSheetId: sheet.id }) : unresolvedReferences(cited);
-    const result = await getEvaluator().evaluate(cells, { significantFigures, tables, references }, sheetKey);
+    // Interactive: counts against the caller's share of the workers (429 with Retry-After beyond it).
+    const result = await evaluateSandboxed(cells, { significantFigures, tables, references }, {
+      userId: actor.userId,
+      kind: 'interactive',
+      scope: evaluationScope(sheet ? { projectId: sheet.project_id } : { userId: actor.userId }),
+      affinity: sheetKey,
+    });
     return Response.json(result);
   });
 }

@@ -1,11 +1,33 @@
 // Runs sheet evaluation in worker threads with a time and a memory limit. A cell that exceeds a
 // limit ends with a clear error on that cell; the worker is replaced and the rest of the sheet is
 // evaluated without it, so a runaway sheet never takes the server down.
+//
+// The workers are shared fairly between the people evaluating (SandboxedEvaluator below):
+//  - one pool-wide queue; a request waits for any free worker (the sheet's own worker, whose cache
+//    makes re-evaluation incremental, when that one is free);
+//  - an interactive evaluation (the editor, the scratch pad, POST /api/evaluate) counts against its
+//    user's budget: at most `perUserInFlight` running or waiting, the next refused (429, Retry-After);
+//    and while others wait, one user runs at most `perUserRunning` of them at once, so a user who
+//    floods the server with slow cells holds at most that many workers and everyone else's
+//    evaluations go on in the rest;
+//  - saves (and imports and a checker's alternate calculation) evaluate what is being stored: they
+//    do not count against the interactive budget, so a user is never refused a save because their
+//    own editor evaluation is in flight; they go ahead of waiting interactive evaluations, may use any
+//    free worker, and are capped separately per user (`perUserSaves`);
+//  - a request that hit a limit is retried at once on the worker it holds, without the cell that hit
+//    the limit (never put back at the end of the queue), and that cell is remembered for a while:
+//    the same cell after the same cells above (the editor sends the whole sheet after every edit)
+//    is not run again, but answered with the same error;
+//  - the request's size is bounded before it is queued (statements) and its result after it is
+//    computed (serialized bytes): beyond either, 413 with what to reduce;
+//  - the whole-result cache and the workers' cell caches are partitioned by scope (the project), so
+//    a cell another project evaluated is never answered faster, nor reported as a cache hit.
 import { createHash } from 'node:crypto';
+import os from 'node:os';
 import path from 'node:path';
 import { Worker } from 'node:worker_threads';
 import type { CellInput, EvaluateOptions, SheetResult } from '../types';
-import { PROGRESS_CELL, type EvaluateRequest, type WorkerReply } from './protocol';
+import { PROGRESS_CELL, PROGRESS_SLOTS, PROGRESS_STARTED, type EvaluateRequest, type WorkerReply } from './protocol';
 
 export interface SandboxOptions {
   /** Time limit for one evaluation request in one worker, in ms. */
@@ -16,14 +38,73 @@ export interface SandboxOptions {
   workers: number;
   /** The project root (where lib/ is); defaults to the current directory. */
   root?: string;
+  /** Interactive evaluations one user may have running or waiting; the next is refused (429). Default 2. */
+  perUserInFlight?: number;
+  /** Evaluations of one user that run at once while anyone else waits. Default workers − 1 (at least 1), at most perUserInFlight. */
+  perUserRunning?: number;
+  /** Saves one user may have running or waiting. Default 4. */
+  perUserSaves?: number;
+  /** Interactive evaluations that may wait for a worker in all; the next is refused (429). Default 4 per worker. */
+  maxQueued?: number;
+  /** Statements (non-blank, non-comment lines of calculation cells) one request may hold. */
+  maxStatements?: number;
+  /** Serialized size of one result, in bytes. */
+  maxResultBytes?: number;
+  /** How long a cell that hit a limit is answered with that error without running it again, in ms. Default 10 minutes. */
+  rememberLimitMs?: number;
+}
+
+export const DEFAULT_MAX_STATEMENTS = 20_000;
+export const DEFAULT_MAX_RESULT_BYTES = 32 * 1024 * 1024;
+
+/**
+ * Worker threads for this machine: one per CPU the process may use (os.availableParallelism), at
+ * least 2 so that one slow sheet never holds the only worker, at most 8 (each may take its memory
+ * limit). WORLDSHEET_CALC_WORKERS overrides.
+ */
+export function defaultWorkerCount(env: Record<string, string | undefined> = process.env): number {
+  const set = Number(env.WORLDSHEET_CALC_WORKERS);
+  if (env.WORLDSHEET_CALC_WORKERS && Number.isInteger(set) && set >= 1) return set;
+  return Math.min(8, Math.max(2, os.availableParallelism()));
 }
 
 export function sandboxOptionsFromEnv(): SandboxOptions {
   return {
     timeoutMs: Number(process.env.WORLDSHEET_CALC_TIMEOUT_MS ?? 5000),
     memoryMb: Number(process.env.WORLDSHEET_CALC_MEMORY_MB ?? 256),
-    workers: Number(process.env.WORLDSHEET_CALC_WORKERS ?? 2),
+    workers: defaultWorkerCount(),
   };
+}
+
+/**
+ * A request the evaluator will not take: too large (413, with what to reduce) or beyond the
+ * caller's share just now (429, with when to try again). lib/calc stays free of the web: the server
+ * maps this to its AppError (lib/sheets/evaluate-sandboxed.ts).
+ */
+export class EvaluationRefused extends Error {
+  constructor(
+    readonly reason: 'too-large' | 'too-many-requests',
+    message: string,
+    readonly retryAfterSeconds?: number,
+  ) {
+    super(message);
+    this.name = 'EvaluationRefused';
+  }
+}
+
+/** Who asks for an evaluation, and of what. */
+export interface EvaluationContext {
+  /** The person asking; their budget applies. Without one (the command line, tests), no per-user budget. */
+  userId?: string;
+  /** 'interactive' (the default): POST /api/evaluate. 'save': what a save, import or check stores. */
+  kind?: 'interactive' | 'save';
+  /**
+   * Cache partition: results are shared only between requests of the same scope (the server uses
+   * the project, or the user for evaluations outside a sheet). Defaults to the affinity.
+   */
+  scope?: string;
+  /** Sends the same sheet to the same worker when that one is free (its cache makes re-evaluation incremental). */
+  affinity?: string;
 }
 
 const WORKER_ENTRY = ['lib', 'calc', 'sandbox', 'worker-entry.mjs'].join(path.sep);
@@ -32,29 +113,37 @@ class LimitExceeded extends Error {
   constructor(
     readonly cellIndex: number,
     message: string,
+    /** The time or memory limit (worth remembering), not a worker that failed to start. */
+    readonly limit: boolean,
   ) {
     super(message);
   }
 }
 
-interface Job {
-  request: EvaluateRequest;
-  resolve: (r: SheetResult) => void;
-  reject: (e: Error) => void;
+class ResultTooLarge extends Error {
+  constructor(readonly bytes: number | null) {
+    super('result too large');
+  }
 }
 
+/** One worker thread, running one request at a time (the pool hands it out only when idle). */
 class EvaluationThread {
   private worker: Worker | null = null;
   private ready: Promise<void> | null = null;
-  private readonly progress = new Int32Array(new SharedArrayBuffer(4));
-  private readonly queue: Job[] = [];
-  private current: { job: Job; timer: NodeJS.Timeout } | null = null;
-  /** True from taking a job off the queue until its reply or failure. */
-  private busy = false;
+  private readonly progress = new Int32Array(new SharedArrayBuffer(4 * PROGRESS_SLOTS));
+  private current: { request: EvaluateRequest; resolve: (r: SheetResult) => void; reject: (e: Error) => void; timer: NodeJS.Timeout | null } | null = null;
 
-  constructor(private readonly options: SandboxOptions) {}
+  constructor(
+    readonly index: number,
+    private readonly options: SandboxOptions,
+  ) {}
 
-  private start(): Promise<void> {
+  /** Cells this thread has started evaluating since it was created (cache hits not counted). */
+  cellsStarted(): number {
+    return Atomics.load(this.progress, PROGRESS_STARTED);
+  }
+
+  start(): Promise<void> {
     if (this.ready) return this.ready;
     // The worker loads the engine from source at run time; the app bundler must not follow it.
     const entry = path.join(/* turbopackIgnore: true */ this.options.root ?? process.cwd(), WORKER_ENTRY);
@@ -65,6 +154,7 @@ class EvaluationThread {
       stderr: false,
     });
     this.worker = worker;
+    worker.unref();
     this.ready = new Promise<void>((resolve, reject) => {
       const onReady = (m: WorkerReply) => {
         if (m.type === 'ready') {
@@ -74,39 +164,34 @@ class EvaluationThread {
       };
       worker.on('message', onReady);
       worker.once('error', reject);
+      worker.once('exit', (code) => reject(new Error(`the evaluation worker stopped while starting (exit ${code})`)));
     });
+    // A failed start is reported to the request that waits for it; nobody else awaits this promise.
+    this.ready.catch(() => undefined);
     worker.on('message', (m: WorkerReply) => this.onReply(m));
     worker.on('error', (error: Error & { code?: string }) => this.onCrash(worker, error));
     worker.on('exit', (code) => this.onCrash(worker, new Error(`the evaluation worker stopped (exit ${code})`)));
     return this.ready;
   }
 
-  run(request: EvaluateRequest): Promise<SheetResult> {
-    return new Promise((resolve, reject) => {
-      this.queue.push({ request, resolve, reject });
-      void this.next();
-    });
-  }
-
-  private async next(): Promise<void> {
-    if (this.busy || this.queue.length === 0) return;
-    this.busy = true;
-    const job = this.queue.shift()!;
+  async run(request: EvaluateRequest): Promise<SheetResult> {
     try {
       await this.start();
     } catch (error) {
       this.reset();
-      this.busy = false;
-      job.reject(error as Error);
-      void this.next();
-      return;
+      throw new LimitExceeded(-1, `stopped: ${(error as Error).message}`, false);
     }
-    // An idle worker must not keep its host process alive; a busy one must.
-    this.worker!.ref();
-    Atomics.store(this.progress, PROGRESS_CELL, -1);
-    const timer = setTimeout(() => this.fail(new LimitExceeded(this.runningCell(), `stopped after ${this.options.timeoutMs / 1000} s: this cell takes longer than the time limit`)), this.options.timeoutMs);
-    this.current = { job, timer };
-    this.worker!.postMessage(job.request);
+    return new Promise<SheetResult>((resolve, reject) => {
+      // A busy worker must keep its host process alive; an idle one must not.
+      this.worker!.ref();
+      Atomics.store(this.progress, PROGRESS_CELL, -1);
+      this.current = { request, resolve, reject, timer: null };
+      this.current.timer = setTimeout(
+        () => this.fail(new LimitExceeded(this.runningCell(), `stopped after ${this.options.timeoutMs / 1000} s: this cell takes longer than the time limit`, true)),
+        this.options.timeoutMs,
+      );
+      this.worker!.postMessage(request);
+    });
   }
 
   private runningCell(): number {
@@ -114,40 +199,39 @@ class EvaluationThread {
   }
 
   private onReply(m: WorkerReply): void {
-    if (m.type === 'ready' || !this.current || m.id !== this.current.job.request.id) return;
-    const { job, timer } = this.current;
-    clearTimeout(timer);
+    if (m.type === 'ready' || !this.current || m.id !== this.current.request.id) return;
+    const { resolve, reject, timer } = this.current;
+    if (timer) clearTimeout(timer);
     this.current = null;
-    this.busy = false;
-    if (m.type === 'done') job.resolve(m.result);
-    else job.reject(new Error(m.error));
-    if (this.queue.length === 0) this.worker?.unref();
-    void this.next();
+    this.worker?.unref();
+    if (m.type === 'done') resolve(m.result);
+    else if (m.type === 'too-large') reject(new ResultTooLarge(m.bytes));
+    else reject(new Error(m.error));
   }
 
   private onCrash(worker: Worker, error: Error & { code?: string }): void {
     if (worker !== this.worker) return;
     const cell = this.runningCell();
-    const message =
-      error.code === 'ERR_WORKER_OUT_OF_MEMORY'
-        ? `stopped: this cell needs more memory than the limit (${this.options.memoryMb} MB)`
-        : error.message.includes('Maximum call stack')
-          ? 'stopped: the calculation recursed too deeply'
-          : `stopped: ${error.message}`;
-    this.fail(new LimitExceeded(cell, message));
+    const outOfMemory = error.code === 'ERR_WORKER_OUT_OF_MEMORY';
+    // Out of memory with no cell running: building or sending the whole result did not fit.
+    if (outOfMemory && cell < 0 && this.current) return this.fail(new ResultTooLarge(null));
+    const message = outOfMemory
+      ? `stopped: this cell needs more memory than the limit (${this.options.memoryMb} MB)`
+      : error.message.includes('Maximum call stack')
+        ? 'stopped: the calculation recursed too deeply'
+        : `stopped: ${error.message}`;
+    this.fail(new LimitExceeded(cell, message, outOfMemory || error.message.includes('Maximum call stack')));
   }
 
-  /** Ends the current job with `error`, replaces the worker and goes on with the queue. */
+  /** Ends the current request with `error` and replaces the worker. */
   private fail(error: Error): void {
     const current = this.current;
     this.current = null;
-    this.busy = false;
     this.reset();
     if (current) {
-      clearTimeout(current.timer);
-      current.job.reject(error);
+      if (current.timer) clearTimeout(current.timer);
+      current.reject(error);
     }
-    void this.next();
   }
 
   private reset(): void {
@@ -165,28 +249,71 @@ class EvaluationThread {
   }
 }
 
+/** A request waiting for a worker. */
+interface Ticket {
+  userId: string | null;
+  kind: 'interactive' | 'save';
+  affinity: number | null;
+  grant: (thread: EvaluationThread) => void;
+}
+
 /** Whole results kept in this process, so that the same sheet asked again (a save right after the editor's evaluation) is not sent to a worker. */
 const RECENT_RESULTS = 24;
+/** Cells remembered as having hit a limit. */
+const REMEMBERED_LIMITS = 2000;
 
 export class SandboxedEvaluator {
   private readonly threads: EvaluationThread[];
+  private readonly idle: Set<EvaluationThread>;
+  private readonly waiting: Ticket[] = [];
+  /** Per user: interactive requests in flight (running or waiting), saves in flight, and requests running. */
+  private readonly budgets = new Map<string, { interactive: number; saves: number; running: number }>();
   private nextId = 1;
   private roundRobin = 0;
   private readonly recent = new Map<string, SheetResult>();
+  /** Cells that hit a limit, by scope and everything up to and including the cell, with the error they ended with. */
+  private readonly limitHits = new Map<string, { message: string; at: number }>();
+  private readonly perUserInFlight: number;
+  private readonly perUserRunning: number;
+  private readonly perUserSaves: number;
+  private readonly maxQueued: number;
+  private readonly maxStatements: number;
+  private readonly maxResultBytes: number;
+  private readonly rememberLimitMs: number;
+  /** Requests sent to a worker (retries included), for tests and benchmarks. */
+  workerRuns = 0;
 
   constructor(readonly options: SandboxOptions) {
-    this.threads = Array.from({ length: Math.max(1, options.workers) }, () => new EvaluationThread(options));
+    this.threads = Array.from({ length: Math.max(1, options.workers) }, (_, i) => new EvaluationThread(i, options));
+    this.idle = new Set(this.threads);
+    this.perUserInFlight = Math.max(1, options.perUserInFlight ?? 2);
+    this.perUserRunning = Math.max(1, Math.min(this.perUserInFlight, options.perUserRunning ?? this.threads.length - 1));
+    this.perUserSaves = Math.max(1, options.perUserSaves ?? 4);
+    this.maxQueued = Math.max(1, options.maxQueued ?? 4 * this.threads.length);
+    this.maxStatements = options.maxStatements ?? DEFAULT_MAX_STATEMENTS;
+    this.maxResultBytes = options.maxResultBytes ?? DEFAULT_MAX_RESULT_BYTES;
+    this.rememberLimitMs = options.rememberLimitMs ?? 10 * 60_000;
   }
 
   /**
-   * Evaluates a sheet. `affinity` (a sheet id, say) sends the same sheet to the same worker, whose
-   * cache then makes re-evaluation after an edit cost only the edited cells.
+   * Evaluates a sheet. `context` says who asks and for what (a bare string is the affinity, as for a
+   * caller with no user: no per-user budget, its own cache scope).
    */
-  async evaluate(cells: CellInput[], options: EvaluateOptions, affinity?: string): Promise<SheetResult> {
+  async evaluate(cells: CellInput[], options: EvaluateOptions, context: string | EvaluationContext = {}): Promise<SheetResult> {
+    const ctx: EvaluationContext = typeof context === 'string' ? { affinity: context, kind: 'save' } : context;
+    const scope = ctx.scope ?? ctx.affinity ?? '';
+    const statements = countStatements(cells);
+    if (statements > this.maxStatements) {
+      throw new EvaluationRefused(
+        'too-large',
+        `This evaluation holds ${statements.toLocaleString('en')} statements; at most ${this.maxStatements.toLocaleString('en')} are evaluated in one request. Evaluate fewer cells at a time (split the sheet), or fewer statements per cell.`,
+      );
+    }
     // The engine is deterministic: the same cells and options always give the same result. Cited
     // revisions belong in the key: the same value reads differently once its revision is superseded.
+    // The scope (the project) too: another project's identical cells are evaluated afresh.
     const key = createHash('sha256')
-      .update(JSON.stringify([cells, options.significantFigures, options.tables ?? [], options.references ?? [], options.monteCarlo ?? 'auto']))
+      .update(JSON.stringify([scope, cells, options.significantFigures, options.tables ?? [], options.references ?? [], options.monteCarlo ?? 'auto']))
       .digest('base64');
     const hit = this.recent.get(key);
     if (hit) {
@@ -194,7 +321,13 @@ export class SandboxedEvaluator {
       this.recent.set(key, hit);
       return { ...hit, evaluatedCells: 0 };
     }
-    const result = await this.evaluateInWorker(cells, options, affinity);
+    const release = await this.acquire(ctx);
+    let result: SheetResult;
+    try {
+      result = await this.evaluateInWorker(release.thread, cells, options, scope);
+    } finally {
+      release.done();
+    }
     // A result cut short by a limit depends on the load of the moment: not kept.
     if (!result.cells.some((c) => c.error !== null && /^(stopped|not evaluated)/.test(c.error))) {
       if (this.recent.size >= RECENT_RESULTS) this.recent.delete(this.recent.keys().next().value as string);
@@ -203,16 +336,109 @@ export class SandboxedEvaluator {
     return result;
   }
 
-  private async evaluateInWorker(cells: CellInput[], options: EvaluateOptions, affinity?: string): Promise<SheetResult> {
-    const thread = this.threads[affinity ? this.workerFor(affinity) : this.roundRobin++ % this.threads.length];
+  /** Waits for a worker within the caller's budget; refuses (429) beyond it. */
+  private acquire(ctx: EvaluationContext): Promise<{ thread: EvaluationThread; done: () => void }> {
+    const kind = ctx.kind ?? 'interactive';
+    const userId = ctx.userId ?? null;
+    const retryAfter = Math.max(1, Math.ceil(this.options.timeoutMs / 1000));
+    const budget = userId === null ? null : (this.budgets.get(userId) ?? { interactive: 0, saves: 0, running: 0 });
+    if (budget && kind === 'interactive' && budget.interactive >= this.perUserInFlight) {
+      throw new EvaluationRefused('too-many-requests', `You have ${budget.interactive} evaluations in progress already; at most ${this.perUserInFlight} at a time. Wait for them to finish, then try again.`, retryAfter);
+    }
+    if (budget && kind === 'save' && budget.saves >= this.perUserSaves) {
+      throw new EvaluationRefused('too-many-requests', `You have ${budget.saves} saves being evaluated already; at most ${this.perUserSaves} at a time. Wait for them to finish, then try again.`, retryAfter);
+    }
+    // The queue bound applies to people's requests; the server's own callers (no user) bound themselves.
+    if (userId !== null && kind === 'interactive' && this.waiting.filter((t) => t.kind === 'interactive').length >= this.maxQueued) {
+      throw new EvaluationRefused('too-many-requests', 'The server is evaluating many sheets just now; try again in a few seconds.', retryAfter);
+    }
+    if (budget && userId !== null) {
+      if (kind === 'interactive') budget.interactive++;
+      else budget.saves++;
+      this.budgets.set(userId, budget);
+    }
+    const affinity = ctx.affinity ? hash(ctx.affinity) % this.threads.length : null;
+    return new Promise((resolve) => {
+      const ticket: Ticket = {
+        userId,
+        kind,
+        affinity,
+        grant: (thread) => {
+          if (budget) budget.running++;
+          resolve({
+            thread,
+            done: () => {
+              if (budget && userId !== null) {
+                budget.running--;
+                if (kind === 'interactive') budget.interactive--;
+                else budget.saves--;
+                if (budget.interactive === 0 && budget.saves === 0 && budget.running === 0) this.budgets.delete(userId);
+              }
+              this.idle.add(thread);
+              this.dispatch();
+            },
+          });
+        },
+      };
+      this.waiting.push(ticket);
+      this.dispatch();
+    });
+  }
+
+  /** Hands free workers to waiting requests: saves first, then interactive ones within their user's running share. */
+  private dispatch(): void {
+    while (this.idle.size > 0 && this.waiting.length > 0) {
+      const running = (t: Ticket) => (t.userId === null ? 0 : (this.budgets.get(t.userId)?.running ?? 0));
+      const index =
+        this.waiting.findIndex((t) => t.kind === 'save') >= 0
+          ? this.waiting.findIndex((t) => t.kind === 'save')
+          : this.waiting.findIndex((t) => t.userId === null || running(t) < this.perUserRunning);
+      if (index < 0) return;
+      const [ticket] = this.waiting.splice(index, 1);
+      const preferred = ticket.affinity === null ? null : this.threads[ticket.affinity];
+      const thread = preferred && this.idle.has(preferred) ? preferred : this.pickIdle();
+      this.idle.delete(thread);
+      ticket.grant(thread);
+    }
+  }
+
+  private pickIdle(): EvaluationThread {
+    const free = [...this.idle];
+    return free[this.roundRobin++ % free.length];
+  }
+
+  /**
+   * Runs the request on `thread`, which it holds until done: after a cell hits a limit the request
+   * is sent again at once, to the same thread, without that cell (never back to the queue), and
+   * the cell is remembered so that the next request with the same cells up to it skips it too.
+   */
+  private async evaluateInWorker(thread: EvaluationThread, cells: CellInput[], options: EvaluateOptions, scope: string): Promise<SheetResult> {
+    const prefixKeys = this.prefixKeys(cells, options, scope);
     const skip = new Map<string, string>();
+    const now = Date.now();
+    for (const [i, k] of prefixKeys.entries()) {
+      const remembered = this.limitHits.get(k);
+      if (remembered && now - remembered.at < this.rememberLimitMs) skip.set(cells[i].id, remembered.message);
+      else if (remembered) this.limitHits.delete(k);
+    }
     const budgetEnds = Date.now() + 3 * this.options.timeoutMs;
     for (let attempt = 0; attempt <= cells.length; attempt++) {
       try {
-        return await thread.run({ id: this.nextId++, cells, options, skip: [...skip] });
+        this.workerRuns++;
+        return await thread.run({ id: this.nextId++, cells, options, skip: [...skip], scope, maxResultBytes: this.maxResultBytes });
       } catch (error) {
+        if (error instanceof ResultTooLarge) {
+          throw new EvaluationRefused(
+            'too-large',
+            `The results of this evaluation are larger than ${error.bytes === null ? `the worker's memory limit (${this.options.memoryMb} MB) can hold` : `the ${formatBytes(this.maxResultBytes)} returned for one request`}. Evaluate fewer cells or statements at a time (split the sheet), or make large lists and matrices smaller.`,
+          );
+        }
         if (!(error instanceof LimitExceeded) || error.cellIndex < 0 || error.cellIndex >= cells.length) throw error;
         skip.set(cells[error.cellIndex].id, error.message);
+        if (error.limit) {
+          if (this.limitHits.size >= REMEMBERED_LIMITS) this.limitHits.delete(this.limitHits.keys().next().value as string);
+          this.limitHits.set(prefixKeys[error.cellIndex], { message: error.message, at: Date.now() });
+        }
         if (Date.now() > budgetEnds) {
           for (const c of cells.slice(error.cellIndex + 1)) {
             if (!skip.has(c.id)) skip.set(c.id, 'not evaluated: the sheet used up its time budget on the cells above');
@@ -223,14 +449,54 @@ export class SandboxedEvaluator {
     throw new Error('evaluation did not finish');
   }
 
-  /** Which worker (0-based) evaluates the sheets with this affinity. */
+  /** For each cell, a key of the scope, the options and every cell up to and including it. */
+  private prefixKeys(cells: CellInput[], options: EvaluateOptions, scope: string): string[] {
+    let h = createHash('sha256')
+      .update(JSON.stringify([scope, options.significantFigures, options.tables ?? [], options.references ?? [], options.monteCarlo ?? 'auto']))
+      .digest('base64');
+    return cells.map((c) => (h = createHash('sha256').update(`${h}\0${c.kind}\0${c.source}`).digest('base64')));
+  }
+
+  /** Which worker (0-based) a sheet with this affinity goes to when that worker is free. */
   workerFor(affinity: string): number {
     return hash(affinity) % this.threads.length;
+  }
+
+  /** The number of worker threads. */
+  get size(): number {
+    return this.threads.length;
+  }
+
+  /** Cells the workers have started evaluating (cache hits and skipped cells not counted), for tests and benchmarks. */
+  cellsStarted(): number {
+    return this.threads.reduce((n, t) => n + t.cellsStarted(), 0);
+  }
+
+  /** Starts every worker now rather than on its first request. */
+  async warm(): Promise<void> {
+    await Promise.all(this.threads.map((t) => t.start()));
   }
 
   async close(): Promise<void> {
     await Promise.all(this.threads.map((t) => t.close()));
   }
+}
+
+/** Statements of a request: the non-blank lines of its calculation cells that are not only a comment. */
+export function countStatements(cells: CellInput[]): number {
+  let n = 0;
+  for (const c of cells) {
+    if (c.kind !== 'calc') continue;
+    for (const line of c.source.split('\n')) {
+      const t = line.trim();
+      if (t !== '' && !t.startsWith('#')) n++;
+    }
+  }
+  return n;
+}
+
+function formatBytes(bytes: number): string {
+  return bytes >= 1024 * 1024 ? `${Math.floor(bytes / (1024 * 1024))} MiB` : `${Math.floor(bytes / 1024)} KiB`;
 }
 
 function hash(text: string): number {

@@ -1,9 +1,10 @@
 // The evaluation worker: one sheet engine (with its caches) per thread. The parent terminates the
 // thread when a request exceeds the time or memory limit, and reads from the shared progress array
-// which cell was running.
+// which cell was running. A result heavier than the request allows is not sent: the parent answers
+// that the request asks for too much (413) instead of the thread running out of memory sending it.
 import { parentPort, workerData } from 'node:worker_threads';
 import { createSheetEngine } from '../sheet-engine';
-import { PROGRESS_CELL, type EvaluateRequest, type WorkerReply } from './protocol';
+import { jsonSizeAtMost, PROGRESS_CELL, PROGRESS_STARTED, type EvaluateRequest, type WorkerReply } from './protocol';
 
 const progress = new Int32Array(workerData.progress as SharedArrayBuffer);
 const engine = createSheetEngine();
@@ -12,11 +13,18 @@ const port = parentPort!;
 port.on('message', (request: EvaluateRequest) => {
   let reply: WorkerReply;
   try {
+    const skip = new Map(request.skip);
     const result = engine.evaluate(request.cells, request.options, {
-      skip: new Map(request.skip),
-      onCellStart: (index) => Atomics.store(progress, PROGRESS_CELL, index),
+      skip,
+      cacheScope: request.scope,
+      onCellStart: (index) => {
+        Atomics.store(progress, PROGRESS_CELL, index);
+        // A skipped cell only gets its error; it is not run.
+        if (!skip.has(request.cells[index].id)) Atomics.add(progress, PROGRESS_STARTED, 1);
+      },
     });
-    reply = { type: 'done', id: request.id, result };
+    const bytes = jsonSizeAtMost(result, request.maxResultBytes);
+    reply = bytes > request.maxResultBytes ? { type: 'too-large', id: request.id, bytes } : { type: 'done', id: request.id, result };
   } catch (error) {
     reply = { type: 'failed', id: request.id, error: error instanceof Error ? error.message : String(error) };
   }
