@@ -68,6 +68,7 @@ const ERROR_TEXT: Record<number, string> = {
   409: 'Conflicts with the current state; `details` says with what.',
   413: 'The body is larger than allowed.',
   415: 'The media type is not accepted.',
+  429: 'Too many requests from this caller just now; the `Retry-After` header says after how many seconds to try again.',
   503: 'A service the request needs is unavailable.',
 };
 
@@ -755,11 +756,19 @@ export const OPERATIONS: Operation[] = [
     description:
       'Anyone, signed in or not. Send the PDF as multipart/form-data (field `file`, at most 30 MiB) or a verification code as JSON. The answer says ' +
       'whether the file\'s SHA-256 is in the register and its embedded signature verifies with the organisation\'s certificate, which revision it is, ' +
-      'and whether it is current, superseded or withdrawn. A file that is not a PDF, or one never issued, gets an answer, not an error.',
+      'and whether it is current, superseded or withdrawn. A file that is not a PDF, or one never issued, gets an answer, not an error. ' +
+      'A file whose signature container is larger than 64 KiB of DER or holds more than 4,096 ASN.1 elements is not read: 413 (an issued ' +
+      'revision\'s signature is a few KiB). Each client address may verify 30 times a minute (`WORLDSHEET_VERIFY_RATE_PER_MINUTE`): 429 beyond.',
     tags: ['revisions'],
     auth: 'none',
     body: { schema: verifyCodeSchema, description: 'Or multipart/form-data with a `file` part.' },
-    responses: { 200: json('The answer.', res.verificationSchema), ...errors([400, 413]) },
+    responses: {
+      200: json('The answer.', res.verificationSchema),
+      ...errors([400, 413, 429], {
+        413: 'The file is larger than 30 MiB, or its signature container is too large or too complex to read: not an authentic issued revision.',
+        429: 'This address has verified too often in the last minute; `Retry-After` says when to try again.',
+      }),
+    },
   },
 
   {
@@ -791,11 +800,20 @@ export const OPERATIONS: Operation[] = [
       'Any signed-in user. Cells are evaluated in order in a sandboxed worker with a time and a memory limit. `sheetKey` sends a sheet to the same ' +
       'worker each time, so its cache makes re-evaluation incremental. `attachments` (with `sheetId`) names CSV attachments of that sheet to use ' +
       'as input tables; `fromRevision(…)` citations resolve to issued revisions of that sheet\'s project (without `sheetId`, to an error); ' +
-      'the caller must be a member of its project. At most 2 MiB.',
+      'the caller must be a member of its project, and results are cached per project only. At most 2 MiB of body, 20,000 statements and ' +
+      '32 MiB of results per request (413 beyond, saying what to reduce). The workers are shared fairly: each caller may have two ' +
+      'evaluations in progress (429 with `Retry-After` beyond); a cell that hit the time limit is not run again after the same cells above it.',
     tags: ['calculation'],
     auth: 'session or API token',
     body: { schema: evaluateRequestSchema },
-    responses: { 200: json('Per-cell, per-statement results.', res.sheetResultSchema), ...errors([400, 401, 404, 413], { 404: 'No such sheet, or one of a project the caller is not a member of (with `sheetId`).' }) },
+    responses: {
+      200: json('Per-cell, per-statement results.', res.sheetResultSchema),
+      ...errors([400, 401, 404, 413, 429], {
+        404: 'No such sheet, or one of a project the caller is not a member of (with `sheetId`).',
+        413: 'The body, its statements or its results are larger than one request may be; the message says what to reduce.',
+        429: 'The caller has two evaluations in progress already, or the server is evaluating many sheets; `Retry-After` says when to try again.',
+      }),
+    },
   },
 ];
 
