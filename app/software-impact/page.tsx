@@ -5,6 +5,7 @@ import { getDb } from '@/db';
 import { pageActor } from '@/lib/auth/page-guard';
 import { LIBRARY } from '@/lib/calc/functions';
 import { softwareImpact, softwareImpactQuerySchema, SOFTWARE_IMPACT_LIMIT, type Facet } from '@/lib/sheets/software-impact';
+import { VisibleText } from '@/components/data/visible-text';
 
 export const metadata: Metadata = { title: 'Software impact' };
 export const dynamic = 'force-dynamic';
@@ -133,7 +134,9 @@ export default async function SoftwareImpactPage({ searchParams }: { searchParam
                         <Link href={`/projects/${r.projectCode}/sheets/${r.sheetNumber}`} className="font-mono font-semibold text-accent underline">
                           {r.sheet}
                         </Link>
-                        <div>{r.title}</div>
+                        <div>
+                          <VisibleText text={r.title} />
+                        </div>
                         {r.safetyRelated ? <span className="rounded bg-caution-soft px-1.5 py-0.5 text-xs font-bold text-caution">safety-related</span> : null}
                       </th>
                       <td className="px-3 py-2">

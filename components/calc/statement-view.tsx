@@ -4,6 +4,7 @@ import { PlotView } from './plot-view';
 import { StudyTable } from './study-table';
 import { TexMath } from './tex-math';
 import { UncertaintyDetails, UncertaintyValue } from './uncertainty-view';
+import { VisibleText } from '@/components/data/visible-text';
 
 /** Where a version's sweep table downloads from (its study route); without it the CSV is built in the page. */
 export type StudyCsvLink = (line: number) => { href: string; fileName: string };
@@ -16,7 +17,9 @@ function ReferenceLines({ references }: { references: ResolvedReference[] }) {
         const r = referenceText(ref);
         return (
           <li key={i} className="flex flex-wrap items-baseline gap-x-2">
-            <span title={r.title ?? undefined}>{r.text}</span>
+            <span title={r.title ?? undefined}>
+              <VisibleText text={r.text} />
+            </span>
             {r.badge ? <span className="rounded border border-caution-rule bg-caution-soft px-1.5 text-xs font-bold text-caution">{r.badge}</span> : null}
             {r.problem ? <span className="text-fail">Cannot be used: {r.problem}</span> : null}
           </li>
@@ -35,13 +38,15 @@ export function StatementView({ statement, significantFigures = 6, studyCsv }: {
   return (
     <div className="grid gap-1 border-t border-rule py-2 first:border-t-0 sm:grid-cols-[minmax(0,1fr)_auto] sm:gap-4">
       <div className="min-w-0 space-y-1 overflow-x-auto">
-        {s.tex ? <TexMath tex={s.tex} className="block text-ink" /> : <code className="font-mono text-sm">{s.source}</code>}
+        {s.tex ? <TexMath tex={s.tex} className="block text-ink" /> : <code className="font-mono text-sm">
+            <VisibleText text={s.source} />
+          </code>}
         {s.substitutedTex && s.substitutedTex !== s.tex ? (
           <TexMath tex={s.substitutedTex} className="block text-sm text-ink-muted" />
         ) : null}
         {s.error ? (
           <p role="alert" className="rounded bg-fail-soft px-2 py-1 text-sm text-fail">
-            Line {s.line}: {s.error}
+            Line {s.line}: <VisibleText text={s.error} />
           </p>
         ) : null}
         {references.length ? <ReferenceLines references={references} /> : null}

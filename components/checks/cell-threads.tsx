@@ -4,6 +4,8 @@ import { useRouter } from 'next/navigation';
 import { useEffect, useId, useRef, useState } from 'react';
 import { UtcTime } from '@/components/data/utc-time';
 import type { CheckDetail } from '@/lib/checks/workflow';
+import { VisibleText } from '@/components/data/visible-text';
+import { revealBidiControls } from '@/lib/calc/bidi-controls';
 
 export type Thread = CheckDetail['threads'][number];
 
@@ -38,7 +40,9 @@ function Comments({ thread }: { thread: Thread }) {
           <p className="text-xs text-ink-muted">
             <span className="font-semibold text-ink">{c.author}</span> · <UtcTime iso={c.createdAt} />
           </p>
-          <p className="whitespace-pre-wrap">{c.body}</p>
+          <p className="whitespace-pre-wrap">
+            <VisibleText text={c.body} />
+          </p>
         </li>
       ))}
     </ol>
@@ -213,7 +217,7 @@ export function CellThreads({
                 <option value="">The whole cell</option>
                 {lines.map((l) => (
                   <option key={l.line} value={l.line}>
-                    Line {l.line}: {l.text.length > 60 ? `${l.text.slice(0, 59)}…` : l.text}
+                    Line {l.line}: {revealBidiControls(l.text.length > 60 ? `${l.text.slice(0, 59)}…` : l.text)}
                   </option>
                 ))}
               </select>

@@ -2,6 +2,7 @@ import { StatementView } from '@/components/calc/statement-view';
 import { SourceDiff } from '@/components/sheet/source-diff';
 import type { CellResult, StatementResult } from '@/lib/calc/types';
 import type { CellComparison, CellStatus, ResultComparison, ResultSnapshot } from '@/lib/sheets/compare';
+import { VisibleText } from '@/components/data/visible-text';
 
 const STATUS_TONE: Record<CellStatus, string> = {
   added: 'bg-pass-soft text-pass',
@@ -46,7 +47,12 @@ function ResultChange({ change, baseNumber }: { change: ResultComparison; baseNu
         </>
       ) : (
         <>
-          <span className="font-mono">{shown(change.old)}</span> → <span className="font-mono">{shown(change.new)}</span>
+          <span className="font-mono">
+            <VisibleText text={shown(change.old)} />
+          </span>{' '}
+          → <span className="font-mono">
+            <VisibleText text={shown(change.new)} />
+          </span>
           {change.relativeChange !== null ? <span className="font-mono"> ({formatRelativeChange(change.relativeChange)})</span> : null}
           {change.unitChanged ? ' (unit changed)' : null}
         </>
@@ -104,7 +110,9 @@ export function CheckCell({
       {cell.sourceDiff && !first ? (
         <SourceDiff pieces={cell.sourceDiff} label={`Source of ${label.toLowerCase()}, with changes`} />
       ) : cell.kind === 'calc' ? (
-        <pre className="overflow-x-auto rounded bg-paper p-2 font-mono text-sm">{source}</pre>
+        <pre className="overflow-x-auto rounded bg-paper p-2 font-mono text-sm">
+          <VisibleText text={source} />
+        </pre>
       ) : null}
       {cell.kind === 'text' && cell.status !== 'removed' ? <div className="py-2">{renderText(source)}</div> : null}
       {cell.kind === 'calc' && cell.status !== 'removed' ? (
@@ -130,7 +138,10 @@ export function CheckCell({
         <ul className="mt-2 space-y-1 text-sm text-caution">
           {removedResults.map((r) => (
             <li key={r.key}>
-              <span className="font-semibold">No longer computed:</span> <span className="font-mono">{r.name}</span> (was <span className="font-mono">{shown(r.old)}</span> in version {baseNumber})
+              <span className="font-semibold">No longer computed:</span> <span className="font-mono">
+                <VisibleText text={r.name} />
+              </span>{' '}
+              (was <span className="font-mono">{shown(r.old)}</span> in version {baseNumber})
             </li>
           ))}
         </ul>

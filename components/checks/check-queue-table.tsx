@@ -1,6 +1,7 @@
 import Link from 'next/link';
 import { UtcTime } from '@/components/data/utc-time';
 import type { listQueue } from '@/lib/checks/workflow';
+import { VisibleText } from '@/components/data/visible-text';
 
 export type QueueRow = Awaited<ReturnType<typeof listQueue>>[number];
 
@@ -29,7 +30,9 @@ export function CheckQueueTable({ rows, queue, caption }: { rows: QueueRow[]; qu
               <Link href={`/projects/${r.sheet.projectCode}/sheets/${r.sheet.number}`} className="font-mono font-semibold text-accent underline">
                 {r.sheet.code}
               </Link>
-              <span className="block">{r.sheet.title}</span>
+              <span className="block">
+                <VisibleText text={r.sheet.title} />
+              </span>
               {r.sheet.safetyRelated ? <span className="mt-1 inline-block rounded bg-caution-soft px-1.5 py-0.5 text-xs font-bold text-caution">safety-related</span> : null}
             </td>
             <td className="py-2 pr-3 font-mono">

@@ -1,5 +1,6 @@
 import { SourceDiff } from '@/components/sheet/source-diff';
 import type { RecordComparison, RecordFieldName } from '@/lib/sheets/compare';
+import { VisibleText } from '@/components/data/visible-text';
 
 const FIELD_LABELS: Record<RecordFieldName, string> = {
   title: 'Title',
@@ -69,12 +70,19 @@ export function RecordChanges({ record, first }: { record: RecordComparison; fir
           <dt className="font-semibold">{FIELD_LABELS[f.field]}</dt>
           <dd className="min-w-0">
             {first ? (
-              <span className="whitespace-pre-wrap">{plain(f.new)}</span>
+              <span className="whitespace-pre-wrap">
+                <VisibleText text={plain(f.new)} />
+              </span>
             ) : f.diff ? (
               <SourceDiff pieces={f.diff} label={`${FIELD_LABELS[f.field]}, with changes`} />
             ) : (
               <>
-                <span className="font-mono">{plain(f.old)}</span> → <span className="font-mono">{plain(f.new)}</span>
+                <span className="font-mono">
+                  <VisibleText text={plain(f.old)} />
+                </span>{' '}
+                → <span className="font-mono">
+                  <VisibleText text={plain(f.new)} />
+                </span>
               </>
             )}
           </dd>
@@ -86,19 +94,22 @@ export function RecordChanges({ record, first }: { record: RecordComparison; fir
         first={first}
         render={(i) => (
           <>
-            {i.name}: <span className="font-mono">{i.value}</span> — {i.source}, revision {i.sourceRevision}
+            <VisibleText text={i.name} />: <span className="font-mono">
+              <VisibleText text={i.value} />
+            </span>{' '}
+            — <VisibleText text={i.source} />, revision <VisibleText text={i.sourceRevision} />
           </>
         )}
       />
-      <ItemList title="Assumptions" first={first} items={record.assumptions} render={(a) => <>{a.text}{a.needsVerification ? ' (to be verified)' : ''}</>} />
-      <ItemList title="References" first={first} items={record.references} render={(r) => <>{r}</>} />
+      <ItemList title="Assumptions" first={first} items={record.assumptions} render={(a) => <><VisibleText text={a.text} />{a.needsVerification ? ' (to be verified)' : ''}</>} />
+      <ItemList title="References" first={first} items={record.references} render={(r) => <VisibleText text={r} />} />
       <ItemList
         title="Attachments"
         items={record.attachments}
         first={first}
         render={(a) => (
           <>
-            {a.name} <span className="font-mono text-xs break-all text-ink-muted">SHA-256 {a.sha256}</span>
+            <VisibleText text={a.name} /> <span className="font-mono text-xs break-all text-ink-muted">SHA-256 {a.sha256}</span>
           </>
         )}
       />

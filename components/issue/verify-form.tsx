@@ -2,6 +2,7 @@
 
 import { useState } from 'react';
 import type { VerificationAnswer } from '@/lib/issue/issue';
+import { VisibleText } from '@/components/data/visible-text';
 
 /** Upload a PDF or type a verification code; the server says whether it is an authentic issued revision. */
 export function VerifyForm() {
@@ -83,7 +84,7 @@ export function VerifyForm() {
               <dl className="grid gap-x-4 gap-y-1 text-sm sm:grid-cols-[12rem_minmax(0,1fr)]">
                 <dt className="font-semibold">Sheet</dt>
                 <dd>
-                  {r.sheet} — {r.title}
+                  {r.sheet} — <VisibleText text={r.title} />
                 </dd>
                 <dt className="font-semibold">Revision</dt>
                 <dd>

@@ -1,5 +1,7 @@
 import type { VersionContent } from '@/lib/sheets/content';
 import { tableNameFor } from '@/lib/attachments/table-name';
+import { VisibleText } from '@/components/data/visible-text';
+import { revealBidiControls } from '@/lib/calc/bidi-controls';
 
 type Ref = VersionContent['attachments'][number];
 
@@ -32,8 +34,8 @@ export function AttachmentList({ sheetId, attachments, actions }: { sheetId: str
           {attachments.map((a) => (
             <tr key={`${a.name}:${a.sha256}`} className="border-b border-rule align-top">
               <td className="py-1 pr-3">
-                <a href={`/api/sheets/${sheetId}/attachments/${a.sha256}`} download={a.name} className="font-semibold text-accent underline">
-                  {a.name}
+                <a href={`/api/sheets/${sheetId}/attachments/${a.sha256}`} download={revealBidiControls(a.name)} className="font-semibold text-accent underline">
+                  <VisibleText text={a.name} />
                 </a>
               </td>
               <td className="py-1 pr-3">{KIND_LABEL[a.mediaType] ?? a.mediaType}</td>

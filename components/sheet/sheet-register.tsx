@@ -3,6 +3,7 @@
 import Link from 'next/link';
 import { useMemo, useState } from 'react';
 import { SHEET_STATUS_LABELS, type SheetStatus } from '@/lib/checks/status';
+import { VisibleText } from '@/components/data/visible-text';
 
 export interface RegisterRow {
   id: string;
@@ -76,7 +77,7 @@ export function SheetRegister({ rows, projectCode }: { rows: RegisterRow[]; proj
                 </Link>
               </td>
               <td className="py-2 pr-3">
-                {r.title}
+                <VisibleText text={r.title} />
                 {r.safetyRelated ? <span className="ml-2 rounded bg-caution-soft px-1.5 py-0.5 text-xs font-bold text-caution">safety-related</span> : null}
               </td>
               <td className="py-2 pr-3">

@@ -1,4 +1,5 @@
 import type { DiffPiece } from '@/lib/sheets/compare';
+import { VisibleText } from '@/components/data/visible-text';
 
 /**
  * A word diff as the checker reads it: added words in `<ins>` on green, removed words in `<del>` on
@@ -10,14 +11,16 @@ export function SourceDiff({ pieces, label }: { pieces: DiffPiece[]; label?: str
       {pieces.map((p, i) =>
         p.added ? (
           <ins key={i} className="bg-pass-soft text-pass no-underline">
-            {p.text}
+            <VisibleText text={p.text} />
           </ins>
         ) : p.removed ? (
           <del key={i} className="bg-fail-soft text-fail">
-            {p.text}
+            <VisibleText text={p.text} />
           </del>
         ) : (
-          <span key={i}>{p.text}</span>
+          <span key={i}>
+            <VisibleText text={p.text} />
+          </span>
         ),
       )}
     </pre>

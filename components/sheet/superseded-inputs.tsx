@@ -1,5 +1,6 @@
 import Link from 'next/link';
 import type { CitedValue, SupersededInput } from '@/lib/sheets/impact';
+import { VisibleText } from '@/components/data/visible-text';
 
 function Value({ value, missing }: { value: CitedValue | null; missing: string }) {
   if (!value) return <span className="italic">{missing}</span>;
@@ -30,7 +31,7 @@ export function SupersededInputs({ inputs, projectCode, latestVersion }: { input
               <Link href={`/projects/${projectCode}/sheets/${input.sheetNumber}`} className="font-semibold text-caution underline">
                 {input.sheet}
               </Link>{' '}
-              ({input.title}): revision <strong>{input.revision}</strong> is{' '}
+              (<VisibleText text={input.title} />): revision <strong>{input.revision}</strong> is{' '}
               {input.status === 'withdrawn' ? (
                 <>withdrawn{input.withdrawnReason ? `: “${input.withdrawnReason}”` : ''}</>
               ) : (

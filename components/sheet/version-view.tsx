@@ -3,6 +3,7 @@ import type { SheetResult } from '@/lib/calc/types';
 import { studyCsvFileName } from '@/lib/calc/study-csv';
 import type { VersionContent } from '@/lib/sheets/content';
 import { AttachmentList } from './attachment-list';
+import { VisibleText } from '@/components/data/visible-text';
 
 /** A version as recorded: the calculation record fields, then every cell with its recorded results. */
 export function VersionView({
@@ -31,14 +32,17 @@ export function VersionView({
         </h2>
         <dl className="mt-2 grid gap-x-6 gap-y-2 text-sm sm:grid-cols-[10rem_minmax(0,1fr)]">
           <dt className="font-semibold">Objective</dt>
-          <dd>{r.objective || <span className="text-ink-muted">not stated</span>}</dd>
+          <dd>{r.objective ? <VisibleText text={r.objective} /> : <span className="text-ink-muted">not stated</span>}</dd>
           <dt className="font-semibold">Design inputs</dt>
           <dd>
             {r.inputs.length ? (
               <ul className="list-disc pl-5">
                 {r.inputs.map((i) => (
                   <li key={i.name}>
-                    {i.name}: <span className="font-mono">{i.value}</span> — {i.source}, revision {i.sourceRevision}
+                    <VisibleText text={i.name} />: <span className="font-mono">
+                      <VisibleText text={i.value} />
+                    </span>{' '}
+                    — <VisibleText text={i.source} />, revision <VisibleText text={i.sourceRevision} />
                   </li>
                 ))}
               </ul>
@@ -52,7 +56,7 @@ export function VersionView({
               <ul className="list-disc pl-5">
                 {r.assumptions.map((a) => (
                   <li key={a.text}>
-                    {a.text}
+                    <VisibleText text={a.text} />
                     {a.needsVerification ? <span className="ml-2 rounded bg-caution-soft px-1.5 text-xs font-bold text-caution">to be verified</span> : null}
                   </li>
                 ))}
@@ -62,11 +66,11 @@ export function VersionView({
             )}
           </dd>
           <dt className="font-semibold">Method</dt>
-          <dd>{r.method || <span className="text-ink-muted">not stated</span>}</dd>
+          <dd>{r.method ? <VisibleText text={r.method} /> : <span className="text-ink-muted">not stated</span>}</dd>
           <dt className="font-semibold">References</dt>
-          <dd>{r.references.length ? <ul className="list-disc pl-5">{r.references.map((x) => <li key={x}>{x}</li>)}</ul> : <span className="text-ink-muted">none listed</span>}</dd>
+          <dd>{r.references.length ? <ul className="list-disc pl-5">{r.references.map((x) => <li key={x}><VisibleText text={x} /></li>)}</ul> : <span className="text-ink-muted">none listed</span>}</dd>
           <dt className="font-semibold">Conclusions</dt>
-          <dd>{r.conclusions || <span className="text-ink-muted">not stated</span>}</dd>
+          <dd>{r.conclusions ? <VisibleText text={r.conclusions} /> : <span className="text-ink-muted">not stated</span>}</dd>
         </dl>
       </section>
       <section aria-labelledby="attachments-title" className="rounded border border-rule bg-surface p-4">
@@ -91,7 +95,9 @@ export function VersionView({
                 <div className="py-2">{renderText(cell.source)}</div>
               ) : (
                 <>
-                  <pre className="my-2 overflow-x-auto rounded bg-paper p-2 font-mono text-sm">{cell.source}</pre>
+                  <pre className="my-2 overflow-x-auto rounded bg-paper p-2 font-mono text-sm">
+                    <VisibleText text={cell.source} />
+                  </pre>
                   {result ? (
                     result.statements.map((s) => (
                       <StatementView

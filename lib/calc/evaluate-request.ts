@@ -1,5 +1,6 @@
 // The body of POST /api/evaluate, validated with zod.
 import { z } from 'zod';
+import { bidiControlsInCalcCells } from './bidi-controls';
 import { LIMITS } from './limits';
 
 export const EVALUATE_MAX_BYTES = 2 * 1024 * 1024;
@@ -27,7 +28,11 @@ export const evaluateRequestSchema = z.object({
       }),
     )
     .max(LIMITS.maxCells)
-    .refine((cells) => new Set(cells.map((c) => c.id)).size === cells.length, 'cell ids must be unique'),
+    .refine((cells) => new Set(cells.map((c) => c.id)).size === cells.length, 'cell ids must be unique')
+    // A calculation source with a bidirectional control character can read differently from what is evaluated.
+    .superRefine((cells, ctx) => {
+      for (const { index, message } of bidiControlsInCalcCells(cells)) ctx.addIssue({ code: 'custom', path: [index, 'source'], message });
+    }),
 });
 
 export type EvaluateRequestBody = z.infer<typeof evaluateRequestSchema>;

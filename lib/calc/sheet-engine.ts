@@ -8,6 +8,7 @@ import { CONSTANTS, CONSTANTS_EDITION } from './constants';
 import { displayValue, formatNumberTex, formatNumberText } from './format';
 import { LIBRARY } from './functions';
 import { bindLibrary } from './library-adapter';
+import { bidiRefusalReason, findBidiControl } from './bidi-controls';
 import { createEngineMath, REFUSED_NAMES, type EngineMath } from './math-instance';
 import { checkDefinitionName } from './names';
 import { formulaTex, substitutedTex, substitutionTex, type TexContext } from './tex';
@@ -265,9 +266,16 @@ export function createSheetEngine(): SheetEngine {
     const lines = source.split(/\r?\n/);
     for (const [i, raw] of lines.entries()) {
       const text = stripComment(raw).trim();
-      if (!text) continue;
+      // A bidirectional control character, even in a comment, can make the line read differently
+      // from what is evaluated (lib/calc/bidi-controls.ts): the line is an error, never evaluated.
+      const control = findBidiControl(raw);
+      if (!text && !control) continue;
       const st: ParsedStatement = { line: i + 1, source: raw.trim(), node: null, parseError: null, kind: 'expression', defines: null, uses: [], unitNamed: [], unitLiterals: [], staticError: null, columns: [], uncertain: false, reference: null, study: null };
       statements.push(st);
+      if (control) {
+        st.parseError = bidiRefusalReason(control, false);
+        continue;
+      }
       if (statements.length > LIMITS.maxStatementsPerCell) {
         st.parseError = `a cell holds at most ${LIMITS.maxStatementsPerCell} statements`;
         break;

@@ -9,14 +9,14 @@ import type { CheckState, Database, ProjectRole, SignatureMeaning, VerificationM
 import type { Actor } from '@/lib/auth/actor';
 import { reauthenticateToSign } from '@/lib/auth/reauthenticate';
 import { recordAudit } from '@/lib/audit/record';
-import { getEvaluator } from '@/lib/calc/sandbox/evaluator';
 import { findReferences } from '@/lib/calc/references';
 import { resolveReferences } from '@/lib/sheets/references';
 import type { SheetResult } from '@/lib/calc/types';
 import { AppError } from '@/lib/errors/app-error';
+import { evaluateSandboxed, evaluationScope } from '@/lib/sheets/evaluate-sandboxed';
 import { appUrl } from '@/lib/http/app-url';
 import { enqueueMail } from '@/lib/mail/outbox';
-import { cellSchema, type Cell } from '@/lib/sheets/content';
+import { cellSchema, refuseBidiControls, type Cell } from '@/lib/sheets/content';
 import { compareVersions, type VersionComparison } from '@/lib/sheets/compare';
 import { formatSheetNumber } from '@/lib/sheets/sheet-number';
 import { getVersion } from '@/lib/sheets/sheets';
@@ -51,7 +51,7 @@ export const submitSchema = z.object({
 export const checkWorkSchema = z.object({
   verificationMethod: z.enum(VERIFICATION_METHODS).nullable().optional(),
   checkerNotes: z.string().max(20_000).optional(),
-  alternateCells: z.array(cellSchema).max(200).optional(),
+  alternateCells: z.array(cellSchema).max(200).superRefine((cells, ctx) => refuseBidiControls(cells, ctx, [])).optional(),
 });
 
 export const commentSchema = z.object({
@@ -337,7 +337,10 @@ export async function saveCheckWork(db: Kysely<Database>, actor: Actor, checkId:
   if (input.alternateCells) {
     // The checker's alternate cells may cite issued revisions like the sheet's own cells.
     const references = await resolveReferences(db, check.project_id, findReferences(input.alternateCells), { excludeSheetId: check.sheet_id });
-    results = input.alternateCells.length ? await getEvaluator().evaluate(input.alternateCells, { significantFigures: 6, references }, `check:${check.id}`) : null;
+    // Stored with the check, so evaluated as a save (outside the checker's interactive budget), in the project's cache scope.
+    results = input.alternateCells.length
+      ? await evaluateSandboxed(input.alternateCells, { significantFigures: 6, references }, { kind: 'save', userId: actor.userId, scope: evaluationScope({ projectId: check.project_id }), affinity: `check:${check.id}` })
+      : null;
   }
   const given = { method: input.verificationMethod !== undefined, notes: input.checkerNotes !== undefined, cells: input.alternateCells !== undefined };
   if (!given.method && !given.notes && !given.cells) return { ok: true, alternateResults: null };

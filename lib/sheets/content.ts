@@ -2,6 +2,7 @@
 // fields follow ASME NQA-1 Requirement 3 §400 (objective, design inputs with their sources,
 // assumptions, method, references, conclusions).
 import { z } from 'zod';
+import { bidiControlsInCalcCells } from '../calc/bidi-controls';
 
 export const CONTENT_SCHEMA_VERSION = 1;
 
@@ -58,7 +59,16 @@ export const versionContentSchema = z
       if (seen.has(cell.id)) ctx.addIssue({ code: 'custom', path: ['cells', index, 'id'], message: `duplicate cell id ${cell.id}` });
       seen.add(cell.id);
     });
+    refuseBidiControls(content.cells, ctx);
   });
+
+/**
+ * Adds an issue for every calculation cell whose source holds a bidirectional control character
+ * (lib/calc/bidi-controls.ts): such a source can read differently from what is evaluated.
+ */
+export function refuseBidiControls(cells: ReadonlyArray<{ kind: string; source: string }>, ctx: z.RefinementCtx, path: Array<string | number> = ['cells']): void {
+  for (const { index, message } of bidiControlsInCalcCells(cells)) ctx.addIssue({ code: 'custom', path: [...path, index, 'source'], message });
+}
 
 export type Cell = z.infer<typeof cellSchema>;
 export type CalculationRecord = z.infer<typeof calculationRecordSchema>;

@@ -5,10 +5,12 @@
 // with `throwOnError: false` (a mistake is shown in red, not thrown) and `trust: false` (\href,
 // \url, \htmlId, \htmlClass, \htmlStyle, \htmlData and \includegraphics are refused). The result then
 // goes through sanitize-html, allowing only the elements and attributes markdown-it and KaTeX
-// produce, links only to http(s) and mailto (with rel="noopener noreferrer"), and no images.
+// produce, links only to http(s) and mailto (with rel="noopener noreferrer"), and no images;
+// bidirectional control characters come out as visible markers.
 import katex from 'katex';
 import MarkdownIt from 'markdown-it';
 import sanitizeHtml from 'sanitize-html';
+import { bidiControlPattern, bidiMarker, describeBidiControl } from '../calc/bidi-controls';
 
 // The parser states, as the rulers of this markdown-it instance type them.
 type StateInline = Parameters<Parameters<typeof md.inline.ruler.push>[1]>[0];
@@ -161,6 +163,13 @@ const SANITIZE: sanitizeHtml.IOptions = {
     },
   },
   parser: { lowerCaseTags: false, lowerCaseAttributeNames: false },
+  // Bidirectional control characters are shown as markers (⟦U+202E⟧), never allowed to reorder
+  // the text around them (lib/calc/bidi-controls.ts). The filter gets text already escaped.
+  textFilter: (text) =>
+    text.replace(bidiControlPattern(), (c) => {
+      const cp = c.codePointAt(0)!;
+      return `<span class="ws-bidi-marker" title="${describeBidiControl(cp)}">${bidiMarker(cp)}</span>`;
+    }),
 };
 
 /** Markdown with `$…$` / `$$…$$` math to sanitised HTML. */

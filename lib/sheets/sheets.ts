@@ -6,6 +6,7 @@ import { z } from 'zod';
 import type { Database } from '@/db/schema';
 import type { Actor } from '@/lib/auth/actor';
 import { recordAudit } from '@/lib/audit/record';
+import { bidiControlsInCalcCells } from '@/lib/calc/bidi-controls';
 import { findReferences } from '@/lib/calc/references';
 import type { InputTable, ResolvedReference, SheetResult } from '@/lib/calc/types';
 import { resolveAttachments } from '@/lib/attachments/attachments';
@@ -172,6 +173,10 @@ interface PreparedVersion {
 }
 
 async function prepareVersion(db: Kysely<Database>, sheet: { id: string | null; project_id: string }, content: VersionContent, userId: string): Promise<PreparedVersion> {
+  // The save schema refuses these already; this keeps any other way in (a caller that builds content
+  // itself) from storing a calculation that reads differently from what is evaluated.
+  const bidi = bidiControlsInCalcCells(content.cells);
+  if (bidi.length > 0) throw new AppError('bad_request', bidi[0].message, bidi);
   // Every attachment the content cites must be one uploaded to this sheet; CSV tables feed the cells.
   const tables = sheet.id ? await resolveAttachments(db, sheet.id, content.attachments) : [];
   // Citations of other sheets' issued revisions: resolved to the values as issued before evaluating.

@@ -560,3 +560,43 @@ describe('attachment file names (OWASP Path Traversal; OWASP File Upload Cheat S
     );
   });
 });
+
+// ── 6. Bidirectional control characters (UAX #9; CVE-2021-42574, "Trojan Source") ─────────
+
+const BIDI = ['\u061c', '\u200e', '\u200f', '\u202a', '\u202b', '\u202c', '\u202d', '\u202e', '\u2066', '\u2067', '\u2068', '\u2069'];
+const BIDI_ANY = /[\u061c\u200e\u200f\u202a-\u202e\u2066-\u2069]/;
+const withBidi = fc.array(fc.oneof(fc.constantFrom(...BIDI, '#', '\n', '$', '**', '`', '[a](https://x.test/', ')', ' ', 'x = 1', '⟦U+202E⟧', 'שלום', 'مرحبا'), fc.string({ maxLength: 8 })), { maxLength: 24 }).map((p) => p.join(''));
+
+describe('bidirectional control characters (UAX #9; CVE-2021-42574): refused in calculation sources, shown everywhere else', () => {
+  it('a calculation source is refused (400, naming the cell and the code point) exactly when it holds one; a text cell never is', () => {
+    fc.assert(
+      fc.property(withBidi, withBidi, (calc, text) => {
+        const body = { parentNumber: 1, message: 'm', content: { schema: 1, title: 't', safetyRelated: false, significantFigures: 6, record: { objective: '', inputs: [], assumptions: [], method: '', references: [], conclusions: '' }, cells: [{ id: 't1', kind: 'text', source: text }, { id: 'c2', kind: 'calc', source: calc }], attachments: [] } };
+        let refusal: AppError | null = null;
+        try {
+          parseValue(body, saveVersionSchema);
+        } catch (error) {
+          if (!(error instanceof AppError)) throw error;
+          refusal = error;
+        }
+        if (BIDI_ANY.test(calc)) {
+          expect(refusal?.status).toBe(400);
+          expect(refusal?.message).toMatch(/^content\.cells\.1\.source: cell 2: holds U\+(061C|200E|200F|202[A-E]|206[6-9]) \([A-Z -]+\) on line \d+, /);
+        } else {
+          expect(refusal).toBeNull();
+        }
+      }),
+      { numRuns: 300 },
+    );
+  });
+
+  it('text shown as Markdown holds none of them outside attributes; each becomes a marker', () => {
+    fc.assert(
+      fc.property(withBidi, (source) => {
+        const html = renderMarkdown(source);
+        expect(html.replace(/="[^"]*"/g, '')).not.toMatch(BIDI_ANY);
+      }),
+      { numRuns: 300 },
+    );
+  });
+});

@@ -293,6 +293,27 @@ describe('the formulas', () => {
     expect(flat(run('pdftotext', [f, '-']))).toContain('Broken: $\\frac{a$ and fine:');
   });
 
+  it('show bidirectional control characters as ⟦U+202E⟧ markers instead of letting them reorder the text (UAX #9; CVE-2021-42574)', async () => {
+    // Text cells and record fields may hold them (calculation sources are refused on save; this one
+    // stands for a version stored before that rule).
+    const d = buildRevisionPdfData({
+      cells: [
+        { id: 'note', kind: 'text', source: 'Limit \u202e3 T m\u202c, see the **spec\u2067**.' },
+        { id: 'calc', kind: 'calc', source: 'x = 2 m # ok \u202e' },
+      ],
+    });
+    d.titleBlock.title = `Dipole \u202eexe.fdp`;
+    d.version.content.record.method = 'By hand \u200f';
+    d.version.content.attachments = [{ ...d.version.content.attachments[0], name: 'scan\u202efdp.pdf' }];
+    const f = path.join(folder, 'bidi.pdf');
+    writeFileSync(f, await renderRevisionPdf(d));
+    const text = flat(run('pdftotext', [f, '-']));
+    expect(text).not.toMatch(/[\u061c\u200e\u200f\u202a-\u202e\u2066-\u2069]/);
+    for (const shown of ['Dipole ⟦U+202E⟧exe.fdp', 'Limit ⟦U+202E⟧3 T m⟦U+202C⟧', 'spec⟦U+2067⟧', 'By hand ⟦U+200F⟧', 'scan⟦U+202E⟧fdp.pdf', '# ok ⟦U+202E⟧']) {
+      expect(text).toContain(shown);
+    }
+  });
+
   it('cut a formula too wide for the page at its operators instead of shrinking it to nothing', () => {
     // Common practice (TeX breaks an inline formula after a relation or binary operator).
     const math = typesetTex(Array.from({ length: 30 }, (_, i) => `${i + 1}~\\mathrm{m}`).join(' + '), true);

@@ -16,6 +16,7 @@ import { pageActor } from '@/lib/auth/page-guard';
 import { getCheckDetail, MEANING_LABELS, VERIFICATION_LABELS, VERIFICATION_METHODS, type CheckDetail } from '@/lib/checks/workflow';
 import { AppError } from '@/lib/errors/app-error';
 import type { CellComparison } from '@/lib/sheets/compare';
+import { VisibleText } from '@/components/data/visible-text';
 
 export const metadata: Metadata = { title: 'Check' };
 export const dynamic = 'force-dynamic';
@@ -110,7 +111,9 @@ export default async function CheckPage({ params }: { params: Promise<{ checkId:
           </Link>{' '}
           / check
         </p>
-        <h1 className="text-2xl font-bold">{sheet.title}</h1>
+        <h1 className="text-2xl font-bold">
+          <VisibleText text={sheet.title} />
+        </h1>
         <p className="mt-1 text-lg">
           {first ? (
             <>

@@ -5,6 +5,7 @@
 // statement's source and result stay real text, so the file can be searched and copied.
 import { Document, Page, Text, View, renderToBuffer } from '@react-pdf/renderer';
 import { isValidElement, type ReactElement, type ReactNode } from 'react';
+import { bidiSegments, revealBidiControlsDeep } from '@/lib/calc/bidi-controls';
 import type { CellResult, StatementResult } from '@/lib/calc/types';
 import type { Cell } from '@/lib/sheets/content';
 import type { RevisionPdfData } from '../pdf-data';
@@ -67,6 +68,25 @@ const s = {
   td: { fontSize: 8.5, paddingVertical: 3, paddingHorizontal: 4 },
 };
 
+/**
+ * Text with its bidirectional control markers (⟦U+202E⟧, written by `revealBidiControlsDeep` in
+ * RevisionPdfDocument) drawn in the caution colours and the mono face, so that a control character
+ * someone typed shows as what it is. A string without one is returned as it is.
+ */
+function shown(text: string): ReactNode {
+  const segments = bidiSegments(text);
+  if (segments.length === 1 && segments[0].control === null) return text;
+  return segments.map((seg, i) =>
+    seg.control ? (
+      <Text key={i} style={{ fontFamily: MONO_FONT, fontWeight: 700, fontStyle: 'normal', color: C.caution, backgroundColor: C.cautionSoft }}>
+        {seg.text}
+      </Text>
+    ) : (
+      seg.text
+    ),
+  );
+}
+
 /** "2026-12-02T14:03:07.000Z" → "2026-12-02 14:03:07 UTC"; anything unparseable is shown as given. */
 export function formatUtc(value: string): string {
   const d = new Date(value);
@@ -126,7 +146,7 @@ function TitleBlock({ data }: { data: RevisionPdfData }) {
       </View>
       <View style={row(1)}>
         <TitleField label="Title" width="70%" lines={2} valueStyle={{ fontWeight: 600, fontSize: 8.5 }}>
-          {t.title}
+          {shown(t.title)}
         </TitleField>
         <TitleField label="Identification number" width="30%" last valueStyle={{ fontWeight: 700, fontSize: 10 }}>
           {t.identificationNumber}
@@ -192,7 +212,7 @@ function Table({ columns, rows, empty = 'None.' }: { columns: Array<{ title: str
         <View key={r} style={s.tr} wrap={false}>
           {cells.map((cell, i) => (
             <View key={i} style={[s.td, { width: columns[i].width }]}>
-              {typeof cell === 'string' ? <Text style={columns[i].mono ? [s.mono, { fontSize: 7.5 }] : undefined}>{cell}</Text> : cell}
+              {typeof cell === 'string' ? <Text style={columns[i].mono ? [s.mono, { fontSize: 7.5 }] : undefined}>{shown(cell)}</Text> : cell}
             </View>
           ))}
         </View>
@@ -234,7 +254,7 @@ function InlineFlow({ inlines, typeset, fontSize = BODY, style, maxWidth }: { in
         {inlines.map((i, k) =>
           i.kind === 'text' ? (
             <Text key={k} style={spanStyle(i)}>
-              {i.text}
+              {shown(i.text)}
             </Text>
           ) : (
             <Text key={k} style={{ fontFamily: MONO_FONT, fontSize: fontSize * 0.85 }}>
@@ -256,7 +276,7 @@ function InlineFlow({ inlines, typeset, fontSize = BODY, style, maxWidth }: { in
         if (w === '') return;
         parts.push(
           <Text key={`${k}-${j}`} style={{ fontSize, ...style, ...spanStyle(i) }}>
-            {w}
+            {shown(w)}
           </Text>,
         );
       });
@@ -344,7 +364,7 @@ function PlainText({ text, empty = '—' }: { text: string; empty?: string }) {
     <View>
       {paragraphs.map((p, i) => (
         <Text key={i} style={s.para}>
-          {p}
+          {shown(p)}
         </Text>
       ))}
     </View>
@@ -367,7 +387,7 @@ function Statement({ st, typeset }: { st: StatementResult; typeset: Typeset }) {
     <View wrap={false} style={{ flexDirection: 'row', paddingVertical: 3, borderTopWidth: 0.5, borderTopColor: C.rule }}>
       <Text style={[s.mono, { width: GUTTER, fontSize: 7, color: C.muted, paddingTop: 0.5 }]}>{`L${st.line}`}</Text>
       <View style={{ flex: 1 }}>
-        <Text style={[s.mono, { fontSize: 7.5, color: C.muted }]}>{st.source}</Text>
+        <Text style={[s.mono, { fontSize: 7.5, color: C.muted }]}>{shown(st.source)}</Text>
         {st.tex ? <Formula tex={st.tex} typeset={typeset} maxWidth={FORMULA_WIDTH} /> : null}
         {showSubstituted ? <Formula tex={st.substitutedTex!} typeset={typeset} maxWidth={FORMULA_WIDTH} /> : null}
         {st.error ? (
@@ -436,7 +456,7 @@ function calcElements(cell: Cell, result: CellResult | undefined, ctx: CellConte
       out.push(
         <View key={i} style={{ flexDirection: 'row', paddingVertical: 2, borderTopWidth: 0.5, borderTopColor: C.rule }} wrap={false}>
           <Text style={[s.mono, { width: GUTTER, fontSize: 7, color: C.muted }]}>{`L${i + 1}`}</Text>
-          <Text style={[s.mono, { flex: 1, fontSize: 7.5, color: C.muted }]}>{line}</Text>
+          <Text style={[s.mono, { flex: 1, fontSize: 7.5, color: C.muted }]}>{shown(line)}</Text>
         </View>,
       );
   });
@@ -502,7 +522,7 @@ function Heading({ data }: { data: RevisionPdfData }) {
   return (
     <View style={{ marginBottom: 8 }}>
       <Text style={{ fontSize: 8.5, color: C.accent, fontWeight: 600, marginBottom: 2 }}>{`${t.project.code} · ${t.project.name}`}</Text>
-      <Text style={s.h1}>{t.title}</Text>
+      <Text style={s.h1}>{shown(t.title)}</Text>
       <Text style={{ fontSize: 10 }}>
         <Text style={{ fontWeight: 700 }}>{t.identificationNumber}</Text>
         {`  ·  Revision ${t.revisionIndex}  ·  version ${data.version.number}  ·  issued ${t.dateOfIssue}  ·  ${t.documentType}`}
@@ -571,7 +591,7 @@ function Record({ data }: { data: RevisionPdfData }) {
       {r.assumptions.map((a, i) => (
         <View key={i} style={{ flexDirection: 'row', marginBottom: 2 }} wrap={false}>
           <Text style={{ width: 16 }}>{`A${i + 1}`}</Text>
-          <Text style={{ flex: 1 }}>{a.text}</Text>
+          <Text style={{ flex: 1 }}>{shown(a.text)}</Text>
           {a.needsVerification ? (
             <Text style={{ marginLeft: 6, fontSize: 7, fontWeight: 700, color: C.caution, backgroundColor: C.cautionSoft, borderWidth: 0.75, borderColor: C.cautionRule, paddingHorizontal: 3, alignSelf: 'flex-start' }}>TO BE VERIFIED</Text>
           ) : null}
@@ -591,7 +611,7 @@ function Record({ data }: { data: RevisionPdfData }) {
       {r.references.map((ref, i) => (
         <View key={i} style={{ flexDirection: 'row', marginBottom: 2 }} wrap={false}>
           <Text style={{ width: 20 }}>{`[${i + 1}]`}</Text>
-          <Text style={{ flex: 1 }}>{ref}</Text>
+          <Text style={{ flex: 1 }}>{shown(ref)}</Text>
         </View>
       ))}
       <Text style={s.h3} minPresenceAhead={20}>
@@ -615,7 +635,7 @@ function Attachments({ data }: { data: RevisionPdfData }) {
       {list.map((a, i) => (
         <View key={i} style={[s.tr, { flexDirection: 'column' }]} wrap={false}>
           <View style={{ flexDirection: 'row' }}>
-            <Text style={[s.td, { width: '50%', fontWeight: 600 }]}>{a.name}</Text>
+            <Text style={[s.td, { width: '50%', fontWeight: 600 }]}>{shown(a.name)}</Text>
             <Text style={[s.td, { width: '25%' }]}>{a.mediaType}</Text>
             <Text style={[s.td, { width: '25%' }]}>{formatBytes(a.size)}</Text>
           </View>
@@ -704,7 +724,10 @@ function Verification({ data }: { data: RevisionPdfData }) {
 
 // ---------------------------------------------------------------------------------------------
 
-export function RevisionPdfDocument({ data, typeset, figure = null }: { data: RevisionPdfData; typeset: Typeset; figure?: FigureRenderer | null }) {
+export function RevisionPdfDocument({ data: given, typeset, figure = null }: { data: RevisionPdfData; typeset: Typeset; figure?: FigureRenderer | null }) {
+  // Every bidirectional control character anyone typed (title, record, cells, attachment names,
+  // signatures…) becomes a visible marker before anything is drawn, so none can reorder the text.
+  const data = revealBidiControlsDeep(given);
   const t = data.titleBlock;
   return (
     <Document

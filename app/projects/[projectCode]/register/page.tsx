@@ -5,6 +5,7 @@ import { WithdrawForm } from '@/components/issue/withdraw-form';
 import { pageProject } from '@/lib/auth/page-guard';
 import { listRevisions, registerQuerySchema } from '@/lib/issue/issue';
 import { revisionInputFlags } from '@/lib/sheets/impact';
+import { VisibleText } from '@/components/data/visible-text';
 
 export const metadata: Metadata = { title: 'Document register' };
 export const dynamic = 'force-dynamic';
@@ -79,7 +80,9 @@ export default async function ProjectRegisterPage({ params, searchParams }: { pa
                       {r.sheet}
                     </Link>
                   </td>
-                  <td className="px-3 py-2">{r.title}</td>
+                  <td className="px-3 py-2">
+                    <VisibleText text={r.title} />
+                  </td>
                   <td className="px-3 py-2 font-semibold">{r.revision}</td>
                   <td className="px-3 py-2">
                     <span className={`rounded px-1.5 py-0.5 text-xs font-bold ${STATUS_STYLE[r.status]}`}>{r.status}</span>

@@ -18,6 +18,7 @@ import { issueCandidates, listRevisions } from '@/lib/issue/issue';
 import { supersededInputs } from '@/lib/sheets/impact';
 import { formatSheetNumber } from '@/lib/sheets/sheet-number';
 import { getSheetByNumber, getVersion, listVersions } from '@/lib/sheets/sheets';
+import { VisibleText } from '@/components/data/visible-text';
 
 export const metadata: Metadata = { title: 'Sheet' };
 export const dynamic = 'force-dynamic';
@@ -101,7 +102,9 @@ export default async function SheetPage({ params, searchParams }: { params: Prom
             </Link>{' '}
             / {code}
           </p>
-          <h1 className="text-2xl font-bold">{version.content.title}</h1>
+          <h1 className="text-2xl font-bold">
+            <VisibleText text={version.content.title} />
+          </h1>
           <p className="mt-1 text-sm text-ink-muted">
             Version {version.number}
             {version.number !== latest ? ` (read-only; the latest is ${latest})` : ' (latest)'} · {versionState.get(version.number) ?? 'not submitted for check'} · saved by{' '}

@@ -8,6 +8,7 @@ import { pageParams } from '@/lib/http/params';
 import { pageProject } from '@/lib/auth/page-guard';
 import { formatSheetNumber } from '@/lib/sheets/sheet-number';
 import { getSheetByNumber, getVersion } from '@/lib/sheets/sheets';
+import { VisibleText } from '@/components/data/visible-text';
 
 export const metadata: Metadata = { title: 'Edit sheet' };
 export const dynamic = 'force-dynamic';
@@ -28,7 +29,8 @@ export default async function EditSheetPage({ params }: { params: Promise<{ proj
             {formatSheetNumber(project.code, sheet.number)}
           </Link>
         </p>
-        <h1 className="text-2xl font-bold">Edit: {version.content.title}</h1>
+        <h1 className="text-2xl font-bold">Edit: <VisibleText text={version.content.title} />
+        </h1>
       </header>
       <CautionNotice compact />
       <SheetEditor sheetId={sheet.id} projectCode={project.code} sheetNumber={sheet.number} base={{ number: version.number, content: version.content }} />

@@ -9,6 +9,7 @@ import { pageProject } from '@/lib/auth/page-guard';
 import { sheetImpact, supersededInputs, type ImpactDependent } from '@/lib/sheets/impact';
 import { formatSheetNumber } from '@/lib/sheets/sheet-number';
 import { getSheetByNumber, listVersions } from '@/lib/sheets/sheets';
+import { VisibleText } from '@/components/data/visible-text';
 
 export const metadata: Metadata = { title: 'Impact' };
 export const dynamic = 'force-dynamic';
@@ -53,7 +54,9 @@ export default async function ImpactPage({ params }: { params: Promise<{ project
           / impact
         </p>
         <h1 className="text-2xl font-bold">Impact of {code}</h1>
-        <p className="mt-1 text-ink-muted">{sheet.title}</p>
+        <p className="mt-1 text-ink-muted">
+          <VisibleText text={sheet.title} />
+        </p>
         <p className="mt-2 max-w-prose text-sm">
           For each issued revision of this sheet, the sheets whose versions cite it with <code className="font-mono">fromRevision</code> (depth 1), then
           the sheets citing revisions issued from those versions (depth 2), and so on. When a revision is superseded or withdrawn, each of these may
@@ -97,7 +100,9 @@ export default async function ImpactPage({ params }: { params: Promise<{ project
                         <Link href={sheetHref(d.sheetNumber)} className="font-mono font-semibold text-accent underline">
                           {d.sheet}
                         </Link>
-                        <div>{d.title}</div>
+                        <div>
+                          <VisibleText text={d.title} />
+                        </div>
                       </th>
                       <td className="px-3 py-2">
                         <span className="font-mono whitespace-nowrap">
