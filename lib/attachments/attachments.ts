@@ -17,6 +17,7 @@ import type { ObjectStore } from '@/lib/storage/object-store';
 import { attachmentRefSchema } from '@/lib/sheets/content';
 import { parseInputTable, tableNameFor, TableError } from './csv-table';
 import { sanitizeFileName } from './file-name';
+import { checkProjectStorageQuota } from './quota';
 import { ACCEPTED_DESCRIPTION, ATTACHMENT_KINDS, kindOfMediaType, kindOfName, MAX_ATTACHMENT_BYTES, sniffKind } from './kinds';
 
 export type AttachmentRef = z.infer<typeof attachmentRefSchema>;
@@ -67,7 +68,8 @@ export interface UploadedFile {
 }
 
 /**
- * Checks and stores an uploaded file for a sheet. Refused with 413 when too large for its kind,
+ * Checks and stores an uploaded file for a sheet. Refused with 413 when too large for its kind or
+ * for the project's storage quota (./quota.ts),
  * 415 when its content is not an accepted kind or does not match its name or declared type, 400
  * for an unreadable data table. Uploading the same bytes under the same name again is harmless.
  */
@@ -112,9 +114,16 @@ export async function uploadAttachment(
   }
   const sha256 = createHash('sha256').update(file.bytes).digest('hex');
   const key = storageKey(sha256);
+  // The project's storage quota (./quota.ts): checked before the bytes are sent to storage, so a
+  // file plainly over it is not stored at all, and again under the project's row lock below.
+  await checkProjectStorageQuota(db, sheet.project_id, { sha256, size: file.bytes.length });
   // The object first: a row is only ever written for bytes that are stored.
   await store.putOnce(key, file.bytes, spec.mediaType);
   const inserted = await db.transaction().execute(async (trx) => {
+    // The deciding check: concurrent uploads to one project pass it one at a time, each counting the
+    // ones before it. (One that loses leaves its bytes in storage with no row: write-once storage
+    // is never deleted from, and unreferenced bytes count against no project.)
+    await checkProjectStorageQuota(trx, sheet.project_id, { sha256, size: file.bytes.length }, { lock: true });
     const row = await trx
       .insertInto('attachments')
       .values({
