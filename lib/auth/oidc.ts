@@ -101,16 +101,18 @@ export async function signInWithOidc(
   const groups = new Set(groupsOf(profile));
 
   return db.transaction().execute(async (trx) => {
-    let user = await trx.selectFrom('users').select(['id', 'email', 'display_name', 'is_admin', 'disabled_at', 'locked_at']).where('email', '=', email).executeTakeFirst();
+    let user = await trx.selectFrom('users').select(['id', 'email', 'display_name', 'is_admin', 'disabled_at', 'locked_at', 'lock_expires_at']).where('email', '=', email).executeTakeFirst();
     if (!user) {
       user = await trx
         .insertInto('users')
         .values({ email, display_name: name, password_hash: null })
-        .returning(['id', 'email', 'display_name', 'is_admin', 'disabled_at', 'locked_at'])
+        .returning(['id', 'email', 'display_name', 'is_admin', 'disabled_at', 'locked_at', 'lock_expires_at'])
         .executeTakeFirstOrThrow();
       await recordAudit(trx, null, { action: 'user.create', objectType: 'user', objectId: user.id, newValue: { email, name, via: 'oidc' }, reason: 'first sign-in through the organisation account' });
     }
-    if (user.disabled_at || user.locked_at) return null;
+    // A timed lock (after failed passwords) that has run out no longer holds (lib/auth/lockout.ts).
+    const locked = user.locked_at !== null && (user.lock_expires_at === null || user.lock_expires_at > new Date());
+    if (user.disabled_at || locked) return null;
     const sessionId = await startSession(trx as unknown as Kysely<Database>, { userId: user.id, method: 'oidc', ip: null, userAgent: null });
     const actor: Actor = { userId: user.id, email: user.email, name: user.display_name, isAdmin: user.is_admin, via: 'session', sessionId, tokenId: null };
     await recordAudit(trx, actor, { action: 'auth.sign-in', objectType: 'session', objectId: sessionId, newValue: { method: 'oidc' } });

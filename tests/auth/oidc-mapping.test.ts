@@ -30,4 +30,14 @@ describe('single sign-on role mapping', () => {
     await testDb().insertInto('users').values({ email: 'off@org.test', display_name: 'Off', password_hash: null, disabled_at: new Date() }).execute();
     expect(await signInWithOidc(testDb(), { profile: { sub: 'u3', email: 'off@org.test' }, account: null }, [])).toBeNull();
   });
+
+  it('refuses a locked account while the lock holds, and not after a timed lock ran out', async () => {
+    const hour = 3600_000;
+    await testDb().insertInto('users').values({ email: 'held@org.test', display_name: 'Held', password_hash: null, locked_at: new Date(), lock_expires_at: new Date(Date.now() + hour) }).execute();
+    await testDb().insertInto('users').values({ email: 'admin-held@org.test', display_name: 'Admin held', password_hash: null, locked_at: new Date(), lock_expires_at: null }).execute();
+    await testDb().insertInto('users').values({ email: 'was-held@org.test', display_name: 'Was held', password_hash: null, locked_at: new Date(Date.now() - 2 * hour), lock_expires_at: new Date(Date.now() - hour) }).execute();
+    expect(await signInWithOidc(testDb(), { profile: { sub: 'u4', email: 'held@org.test' }, account: null }, [])).toBeNull();
+    expect(await signInWithOidc(testDb(), { profile: { sub: 'u5', email: 'admin-held@org.test' }, account: null }, [])).toBeNull();
+    expect((await signInWithOidc(testDb(), { profile: { sub: 'u6', email: 'was-held@org.test' }, account: null }, []))?.email).toBe('was-held@org.test');
+  });
 });
