@@ -158,6 +158,36 @@ it('uploads a CSV data table, uses its columns with units in a cell, and saves a
   expect(session.problems.filter((p) => !/415/.test(p))).toEqual([]);
 });
 
+it('shows bidirectional control characters as markers in the sheet and the comparison, and refuses one in a calculation (Trojan Source)', async () => {
+  const { page } = session;
+  session.problems.length = 0; // the 415 the previous test provoked
+  const id = await sheetId(1);
+  const versions = await testDb().selectFrom('versions').select('number').where('sheet_id', '=', id).orderBy('number', 'desc').execute();
+  const latest = versions[0].number;
+  const content = (await latestContent(1)) as { title: string; cells: Array<{ id: string; kind: string; source: string }> };
+  const post = (body: unknown) => session.context.request.post(`${app.baseUrl}/api/sheets/${id}/versions`, { headers: { origin: app.baseUrl }, data: body });
+  // A calculation cell holding U+202E is refused by the route with 400, naming the cell and the character.
+  const trojan = { ...content, cells: [...content.cells, { id: 'trojan', kind: 'calc', source: 'limit = 3 T*m # \u202e check' }] };
+  const refused = await post({ parentNumber: latest, message: 'Trojan', content: trojan });
+  expect(refused.status()).toBe(400);
+  expect((await refused.json()).error.message).toBe(
+    `content.cells.${content.cells.length}.source: cell ${content.cells.length + 1}: holds U+202E (RIGHT-TO-LEFT OVERRIDE) on line 1, which can make the source read differently from what is evaluated`,
+  );
+  // In a text cell and the title it is stored as typed, and shown as a marker.
+  const noted = { ...content, title: `${content.title} \u202e`, cells: [...content.cells, { id: 'note', kind: 'text', source: 'The limit is \u202e3 T·m\u202c.' }] };
+  expect((await post({ parentNumber: latest, message: 'A note', content: noted })).status()).toBe(201);
+  await page.goto(`${app.baseUrl}/projects/TPT2/sheets/1`);
+  await page.getByRole('heading', { level: 1 }).locator('.ws-bidi-marker').filter({ hasText: '⟦U+202E⟧' }).waitFor();
+  await page.goto(`${app.baseUrl}/projects/TPT2/sheets/1/compare?base=${latest}&target=${latest + 1}`);
+  const added = page.getByRole('article', { name: /note/ });
+  await added.locator('.ws-bidi-marker').filter({ hasText: '⟦U+202C⟧' }).waitFor();
+  expect(await added.locator('.ws-bidi-marker').allInnerTexts()).toEqual(['⟦U+202E⟧', '⟦U+202C⟧']);
+  expect(await page.locator('main').innerText()).not.toMatch(/[\u061c\u200e\u200f\u202a-\u202e\u2066-\u2069]/);
+  await session.screenshot('bidi-markers-comparison');
+  // The 400 the test provoked is the only HTTP error.
+  expect(session.problems.filter((p) => !/400/.test(p))).toEqual([]);
+});
+
 async function sheetId(number: number): Promise<string> {
   const project = await testDb().selectFrom('projects').select('id').where('code', '=', 'TPT2').executeTakeFirstOrThrow();
   return (await testDb().selectFrom('sheets').select('id').where('project_id', '=', project.id).where('number', '=', number).executeTakeFirstOrThrow()).id;

@@ -8,6 +8,7 @@ import { pageProject } from '@/lib/auth/page-guard';
 import { compareVersions } from '@/lib/sheets/compare';
 import { formatSheetNumber } from '@/lib/sheets/sheet-number';
 import { getSheetByNumber, getVersion } from '@/lib/sheets/sheets';
+import { VisibleText } from '@/components/data/visible-text';
 
 export const metadata: Metadata = { title: 'Compare versions' };
 export const dynamic = 'force-dynamic';
@@ -66,7 +67,9 @@ export default async function ComparePage({ params, searchParams }: { params: Pr
           <tbody>
             {c.results.filter((r) => r.status !== 'unchanged').map((r) => (
               <tr key={r.key} className="border-b border-rule">
-                <td className="py-2 pr-3 font-mono">{r.name ?? r.key}</td>
+                <td className="py-2 pr-3 font-mono">
+                  <VisibleText text={r.name ?? r.key} />
+                </td>
                 <td className="py-2 pr-3">{r.status}{r.flipped ? ' (pass/fail flipped)' : ''}</td>
                 <td className="py-2 pr-3 font-mono">{r.old?.error ? `error: ${r.old.error}` : (r.old?.text ?? '—')}</td>
                 <td className="py-2 pr-3 font-mono">{r.new?.error ? `error: ${r.new.error}` : (r.new?.text ?? '—')}</td>
