@@ -31,6 +31,7 @@ import { createDb, DB_POOL_MAX } from '../../db/index';
 import { benchClusterPort, LocalCluster } from '../../db/local-postgres';
 import { migrateToLatest } from '../../db/migrate';
 import { getEvaluator, sandboxOptionsFromEnv } from '../../lib/calc/sandbox/evaluator';
+import { evaluationScope } from '../../lib/sheets/evaluate-sandboxed';
 import { parseValue } from '../../lib/http/route';
 import { Supervisor } from '../../lib/ops/supervisor';
 import { versionContentSchema, type VersionContent } from '../../lib/sheets/content';
@@ -259,7 +260,8 @@ export async function runSaveBench(databaseUrl: string, options: { postmasterPid
       const { content, message } = nextEdit(s);
       const body = JSON.stringify({ parentNumber: latest[s], message, content });
       // The editor's live evaluation through /api/evaluate before the user presses save (not timed).
-      if (evaluateFirst) await evaluator.evaluate(content.cells, { significantFigures: content.significantFigures, tables: [] }, sheets[s].id);
+      // As the editor does: the sheet's project is the cache scope a save of it evaluates in.
+      if (evaluateFirst) await evaluator.evaluate(content.cells, { significantFigures: content.significantFigures, tables: [] }, { scope: evaluationScope({ projectId }), affinity: sheets[s].id });
       const t0 = performance.now();
       const saved = await saveVersion(app, author, sheets[s], parseValue(JSON.parse(body), saveVersionSchema));
       const elapsed = performance.now() - t0;
