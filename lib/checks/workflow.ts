@@ -5,6 +5,7 @@
 // its signature, audit event and e-mails, so two people acting at once record exactly one outcome.
 import { sql, type Kysely, type Transaction } from 'kysely';
 import { z } from 'zod';
+import { INT4_MAX } from '@/lib/http/params';
 import type { CheckState, Database, ProjectRole, SignatureMeaning, VerificationMethod } from '@/db/schema';
 import type { Actor } from '@/lib/auth/actor';
 import { reauthenticateToSign } from '@/lib/auth/reauthenticate';
@@ -43,7 +44,7 @@ export const MEANING_LABELS: Record<SignatureMeaning, string> = { prepared: 'Pre
 const password = z.string().min(1, 'enter your password to sign').max(200);
 
 export const submitSchema = z.object({
-  versionNumber: z.number().int().positive(),
+  versionNumber: z.number().int().positive().max(INT4_MAX),
   checkerId: z.string().uuid(),
   password,
 });
@@ -56,7 +57,7 @@ export const checkWorkSchema = z.object({
 
 export const commentSchema = z.object({
   cellId: z.string().regex(/^[a-z0-9][a-z0-9-]{0,39}$/),
-  statementLine: z.number().int().positive().nullable().default(null),
+  statementLine: z.number().int().positive().max(INT4_MAX).nullable().default(null),
   body: z.string().trim().min(1, 'write the comment').max(10_000),
   /** The thread answered; absent for a new thread. */
   threadId: z.string().uuid().optional(),

@@ -13,6 +13,7 @@ import { evaluateRequestSchema } from '@/lib/calc/evaluate-request';
 import { sheetFileSchema } from '@/lib/calc/sheet-file';
 import { ENGINE_VERSION } from '@/lib/calc/version';
 import { errorBodySchema } from '@/lib/errors/app-error';
+import { PATH_PARAMS } from '@/lib/http/params';
 import { projectInputSchema, roleChangeSchema } from '@/lib/projects/projects';
 import { inviteSchema, userChangeSchema } from '@/lib/projects/users';
 import { compareQuerySchema } from '@/lib/sheets/compare';
@@ -63,11 +64,11 @@ const json = (description: string, schema: ZodType): ResponseSpec => ({ descript
 const ERROR_TEXT: Record<number, string> = {
   400: 'The request is not valid; `details` lists the first problems.',
   401: 'Not signed in: no live session and no valid API token.',
-  403: 'Signed in without the role this needs.',
+  403: 'Signed in without the role this needs; or a change with a read-only token, or with the session cookie from another origin.',
   404: 'No such object, or one of a project the caller is not a member of.',
   409: 'Conflicts with the current state; `details` says with what.',
   413: 'The body is larger than allowed.',
-  415: 'The media type is not accepted.',
+  415: 'The media type is not accepted (a change with the session cookie takes JSON, or multipart/form-data where a file is sent).',
   429: 'Too many requests from this caller just now; the `Retry-After` header says after how many seconds to try again.',
   503: 'A service the request needs is unavailable.',
 };
@@ -78,7 +79,7 @@ function errors(statuses: number[], overrides: Record<number, string> = {}): Rec
 }
 
 const uuidParam = (what: string) => ({ description: `The ${what}'s id (UUID).`, schema: z.uuid() });
-const projectParam = { projectId: { description: "The project's id (UUID) or its code, e.g. `TPT2`.", schema: z.string().min(1) } };
+const projectParam = { projectId: { description: "The project's id (UUID) or its code, e.g. `TPT2`.", schema: PATH_PARAMS.projectId.schema } };
 const projectIdParam = { projectId: uuidParam('project') };
 const sheetParam = { sheetId: uuidParam('sheet') };
 
@@ -440,7 +441,7 @@ export const OPERATIONS: Operation[] = [
     description: member,
     tags: ['sheets'],
     auth: 'session or API token',
-    params: { ...sheetParam, number: { description: 'The version number, from 1.', schema: z.coerce.number().int().positive() } },
+    params: { ...sheetParam, number: { description: 'The version number, from 1.', schema: PATH_PARAMS.number.schema } },
     responses: { 200: json('The version.', z.object({ version: res.versionSchema })), ...errors([401, 404]) },
   },
   {
@@ -456,9 +457,9 @@ export const OPERATIONS: Operation[] = [
     auth: 'session or API token',
     params: {
       ...sheetParam,
-      number: { description: 'The version number, from 1.', schema: z.coerce.number().int().positive() },
-      cellIndex: { description: 'The index of the cell in the version (`results.cells[].index`), from 0.', schema: z.coerce.number().int().nonnegative() },
-      line: { description: 'The line of the `sweep(…)` statement in the cell, from 1.', schema: z.coerce.number().int().positive() },
+      number: { description: 'The version number, from 1.', schema: PATH_PARAMS.number.schema },
+      cellIndex: { description: 'The index of the cell in the version (`results.cells[].index`), from 0.', schema: PATH_PARAMS.cellIndex.schema },
+      line: { description: 'The line of the `sweep(…)` statement in the cell, from 1.', schema: PATH_PARAMS.line.schema },
     },
     responses: {
       200: { description: 'The table as a download (`content-disposition: attachment`).', content: { 'text/csv': 'binary' } },
@@ -923,6 +924,9 @@ export function buildOpenApiDocument(): Record<string, unknown> {
       description:
         'Unit-aware relativistic calculation sheets with independent check and approval. Every write in the app goes through these routes; ' +
         `scripts use an API token (\`Authorization: Bearer ${API_TOKEN_PREFIX}…\`), acting with its owner's roles. ` +
+        'A read-only token may only make GET and HEAD requests (403 otherwise). A change made with the browser session (the cookie) must come from the ' +
+        "app's own pages: an `Origin` header equal to the app's address, or `Sec-Fetch-Site: same-origin` (403 otherwise), and a JSON body " +
+        '(multipart/form-data where a file is sent; 415 otherwise). Bodies are read with a byte limit: 413 as soon as it is passed. ' +
         `Errors answer with one body: {"error": {"code", "message", "details"}}. Calculation engine: ${ENGINE_VERSION}.`,
     },
     servers: [{ url: '/' }],

@@ -9,6 +9,7 @@ import { createHash } from 'node:crypto';
 import { sql, type Kysely, type Transaction } from 'kysely';
 import { PDFDocument, rgb, StandardFonts, degrees } from 'pdf-lib';
 import { z } from 'zod';
+import { INT4_MAX } from '@/lib/http/params';
 import type { Database } from '@/db/schema';
 import type { Actor } from '@/lib/auth/actor';
 import { reauthenticateToSign, WRONG_PASSWORD_MESSAGE } from '@/lib/auth/reauthenticate';
@@ -34,7 +35,7 @@ import { signPdf } from './sign-pdf';
 export const ISSUE_QUEUE = 'issue';
 
 export const issueRequestSchema = z.object({
-  versionNumber: z.number().int().positive(),
+  versionNumber: z.number().int().positive().max(INT4_MAX),
   password: z.string().min(1, 'enter your password to sign').max(200),
 });
 export const withdrawSchema = z.object({ reason: z.string().trim().min(1, 'say why the revision is withdrawn').max(5000) });

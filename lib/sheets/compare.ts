@@ -4,13 +4,14 @@
 // undefined values, no NaN or Infinity) so a route handler can return it as it is.
 import { diffArrays } from 'diff';
 import { z } from 'zod';
+import { INT4_MAX } from '@/lib/http/params';
 import type { DisplayValue, SheetResult, StatementResult, ValueKind } from '../calc/types';
 import type { VersionContent } from './content';
 
 /** The query of GET /api/sheets/{sheetId}/compare: `?base=1&target=2`, or only `target` for a first check. */
 export const compareQuerySchema = z.object({
-  base: z.coerce.number().int().positive().optional(),
-  target: z.coerce.number().int().positive(),
+  base: z.coerce.number().int().positive().max(INT4_MAX).optional(),
+  target: z.coerce.number().int().positive().max(INT4_MAX),
 });
 
 type CellKind = 'calc' | 'text';

@@ -2,6 +2,7 @@
 // JSON that the command-line evaluator reads, and import such a file as a new sheet.
 import type { Kysely } from 'kysely';
 import { z } from 'zod';
+import { INT4_MAX } from '@/lib/http/params';
 import type { Database } from '@/db/schema';
 import type { Actor } from '@/lib/auth/actor';
 import { cellsOf, DEFAULT_SIGNIFICANT_FIGURES, parseSheetFile, SheetFileError } from '@/lib/calc/sheet-file';
@@ -12,7 +13,7 @@ import { createSheetWithContent } from './sheets';
 export const SHEET_FILE_MAX_BYTES = 4 * 1024 * 1024;
 
 /** The query of GET /api/sheets/{sheetId}/export: `?version=n`, or nothing for the latest version. */
-export const exportQuerySchema = z.object({ version: z.coerce.number().int().positive().optional() });
+export const exportQuerySchema = z.object({ version: z.coerce.number().int().positive().max(INT4_MAX).optional() });
 
 /** The file for one version: the smallest valid form plus what Worldsheet records with it. */
 export function sheetFileOf(content: VersionContent, meta: { number: string; version: number; sha256: string }) {

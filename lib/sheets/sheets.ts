@@ -3,6 +3,7 @@
 // the latest version is refused (409) so that no one's work is silently overwritten.
 import { sql, type Kysely, type Transaction } from 'kysely';
 import { z } from 'zod';
+import { INT4_MAX } from '@/lib/http/params';
 import type { Database } from '@/db/schema';
 import type { Actor } from '@/lib/auth/actor';
 import { recordAudit } from '@/lib/audit/record';
@@ -25,7 +26,7 @@ export const createSheetSchema = z.object({
 });
 
 export const saveVersionSchema = z.object({
-  parentNumber: z.number().int().positive(),
+  parentNumber: z.number().int().positive().max(INT4_MAX),
   message: z.string().trim().min(1, 'say what changed').max(2000),
   content: versionContentSchema,
 });

@@ -20,6 +20,7 @@ import { parseSheetFile, SheetFileError, sheetFileSchema } from '../../lib/calc/
 import type { CellInput, SheetResult } from '../../lib/calc/types';
 import { AppError, errorResponse, isUnstorableTextError } from '../../lib/errors/app-error';
 import { OPERATIONS } from '../../lib/http/openapi';
+import { INT4_MAX, PATH_PARAMS, routeParams, type PathParamName } from '../../lib/http/params';
 import { parseValue } from '../../lib/http/route';
 import { renderMarkdown } from '../../lib/sheets/markdown';
 import { importSheetFile } from '../../lib/sheets/sheet-files';
@@ -598,5 +599,41 @@ describe('bidirectional control characters (UAX #9; CVE-2021-42574): refused in 
       }),
       { numRuns: 300 },
     );
+  });
+});
+
+describe('path parameters (common practice: an id that names nothing is a 404, never a 500)', () => {
+  const uuidLike = fc.oneof(
+    fc.uuid(),
+    fc.stringMatching(/^[0-9a-fA-F-]{36}$/),
+    fc.constantFrom('-'.repeat(36), '0'.repeat(36), '00000000-0000-0000-0000-000000000000', 'ffffffff-ffff-ffff-ffff-ffffffffffff', '%00', '../', ''),
+  );
+  const numberLike = fc.oneof(fc.nat().map(String), fc.bigInt({ min: 0n, max: 10n ** 30n }).map(String), fc.constantFrom('2147483647', '2147483648', '-0', '+1', '1e3', '0x1F', ' 1', '1.5'));
+  const anyText = fc.oneof(uuidLike, numberLike, fc.string({ maxLength: 40 }), fc.string({ maxLength: 40, unit: 'binary' }));
+
+  it('parses every segment to a UUID, a project code or an integer within int4, or answers 404 naming what does not exist', async () => {
+    for (const name of Object.keys(PATH_PARAMS) as PathParamName[]) {
+      await fc.assert(
+        fc.asyncProperty(anyText, async (value) => {
+          try {
+            const parsed = (await routeParams({ [name]: value }))[name] as unknown;
+            if (typeof parsed === 'number') expect(Number.isInteger(parsed) && parsed >= 0 && parsed <= INT4_MAX).toBe(true);
+            else expect(parsed).toBe(value);
+          } catch (error) {
+            if (!(error instanceof AppError)) throw error;
+            expect(error.status).toBe(404);
+          }
+        }),
+        { numRuns: 150, seed: hashSeed(name) },
+      );
+    }
+  });
+
+  it('answers PostgreSQL’s refusal of a malformed or out-of-range value (22P02, 22003) with 400, not 500', async () => {
+    for (const code of ['22P02', '22003']) {
+      const response = errorResponse(Object.assign(new Error('invalid input syntax for type uuid: "------------------------------------"'), { code }));
+      expect(response.status).toBe(400);
+      expect(JSON.stringify(await response.json())).not.toContain('invalid input syntax');
+    }
   });
 });

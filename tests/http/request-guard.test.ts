@@ -161,6 +161,19 @@ describe('path parameters', () => {
     expect(unvalidated).toEqual([]);
   });
 
+  it('there are no server actions, which would be state changes outside the guard', () => {
+    const withActions: string[] = [];
+    const walk = (dir: string) => {
+      for (const name of readdirSync(dir)) {
+        const p = path.join(dir, name);
+        if (statSync(p).isDirectory()) walk(p);
+        else if (/\.(ts|tsx)$/.test(name) && /^\s*['"]use server['"]/m.test(readFileSync(p, 'utf8'))) withActions.push(path.relative(process.cwd(), p));
+      }
+    };
+    for (const dir of ['app', 'components', 'lib']) walk(path.join(process.cwd(), dir));
+    expect(withActions).toEqual([]);
+  });
+
   it('every route handler runs inside handle(request, …) (the guard), one per exported method', () => {
     const apiDir = path.join(process.cwd(), 'app', 'api');
     // csp-report: browsers post violation reports themselves (application/csp-report, with the page's
