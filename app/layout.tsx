@@ -15,6 +15,10 @@ export const metadata: Metadata = {
 
 export const viewport: Viewport = { themeColor: '#0b5a61' };
 
+// Every page is rendered per request: its scripts carry the nonce of that response's
+// Content-Security-Policy (lib/ops/server.ts), which a page prerendered at build time could not.
+export const dynamic = 'force-dynamic';
+
 export default async function RootLayout({ children }: { children: React.ReactNode }) {
   const demo = process.env.WORLDSHEET_DEMO === '1';
   // Shows who is signed in; it protects nothing (every page and route handler checks for itself).

@@ -3,6 +3,7 @@
 // batch). Anyone can post here, so everything is capped: the body's size, the reports in one body,
 // the length of every text kept, the reports kept per address and in all per period, and their age.
 import { sql, type Kysely } from 'kysely';
+import { z } from 'zod';
 import type { Database } from '@/db/schema';
 import { AppError } from '@/lib/errors/app-error';
 
@@ -16,6 +17,14 @@ export const CSP_REPORT_LIMITS = {
 } as const;
 
 export const CSP_REPORT_TYPES = ['application/csp-report', 'application/reports+json', 'application/json'] as const;
+
+/** The two forms a body may take (parseCspReports checks it, then reads the fields leniently, as browsers vary). */
+export const cspReportBodySchema = z.union([
+  z.object({ 'csp-report': z.record(z.string(), z.unknown()).meta({ description: 'document-uri, blocked-uri, effective-directive, disposition, …' }) }),
+  z
+    .array(z.object({ type: z.string(), url: z.string().optional(), body: z.record(z.string(), z.unknown()) }))
+    .meta({ description: 'A Reporting API batch (application/reports+json); only `csp-violation` reports are kept.' }),
+]);
 
 export interface CspViolation {
   documentUri: string | null;
@@ -73,6 +82,9 @@ function fromReportingApi(item: unknown): CspViolation | null {
 
 /** The violations a body holds (others, such as deprecation reports in a batch, are left out); 400 when it holds none. */
 export function parseCspReports(body: unknown): CspViolation[] {
+  if (!cspReportBodySchema.safeParse(body).success) {
+    throw new AppError('bad_request', 'The body is not a Content-Security-Policy violation report.');
+  }
   const items = Array.isArray(body) ? body.slice(0, CSP_REPORT_LIMITS.reportsPerBody) : [body];
   const violations = items
     .map((item) => (isObject(item) && 'csp-report' in item ? fromReportUri(item) : fromReportingApi(item)))

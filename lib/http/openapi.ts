@@ -13,6 +13,7 @@ import { evaluateRequestSchema } from '@/lib/calc/evaluate-request';
 import { sheetFileSchema } from '@/lib/calc/sheet-file';
 import { ENGINE_VERSION } from '@/lib/calc/version';
 import { errorBodySchema } from '@/lib/errors/app-error';
+import { cspReportBodySchema } from '@/lib/http/csp-reports';
 import { PATH_PARAMS } from '@/lib/http/params';
 import { projectInputSchema, roleChangeSchema } from '@/lib/projects/projects';
 import { inviteSchema, userChangeSchema } from '@/lib/projects/users';
@@ -106,6 +107,20 @@ export const OPERATIONS: Operation[] = [
     auth: 'none',
     responses: { 200: { description: 'The OpenAPI document.', content: { 'application/json': res.openApiDocumentSchema } } },
   },
+  {
+    method: 'POST',
+    path: '/api/csp-report',
+    operationId: 'reportCspViolation',
+    summary: 'Where browsers report Content-Security-Policy violations',
+    description:
+      'Anyone (browsers post here by themselves, as the policy\'s `report-uri` and, over HTTPS, `report-to` say). Takes ' +
+      '`application/csp-report`, `application/reports+json` or `application/json`, at most 64 KiB and 20 reports a body; kept in ' +
+      '`csp_reports` for 30 days. Each client address may send 60 reports in 10 minutes, all addresses together 10,000 a day: 429 beyond.',
+    tags: ['meta'],
+    auth: 'none',
+    body: { schema: cspReportBodySchema, contentType: 'application/csp-report' },
+    responses: { 204: { description: 'Stored.' }, ...errors([400, 413, 415, 429]) },
+  },
 
   // sign-in
   {
@@ -119,7 +134,11 @@ export const OPERATIONS: Operation[] = [
     tags: ['sign-in'],
     auth: 'none',
     params: { nextauth: { description: 'The next-auth action, e.g. `session`, `providers`, `csrf`, `callback/oidc`.', schema: z.string() } },
-    responses: { 200: json('The action\'s answer (JSON for `session`, `providers` and `csrf`).', res.nextAuthBodySchema), 302: { description: 'A redirect (sign-in page, provider, callback).' } },
+    responses: {
+      200: json('The action\'s answer (JSON for `session`, `providers` and `csrf`).', res.nextAuthBodySchema),
+      302: { description: 'A redirect (sign-in page, provider, callback), always to a path of the app itself.' },
+      ...errors([400], { 400: 'The `callbackUrl` parameter or cookie is not a valid URL.' }),
+    },
   },
   {
     method: 'POST',
@@ -135,7 +154,11 @@ export const OPERATIONS: Operation[] = [
     auth: 'none',
     params: { nextauth: { description: 'The next-auth action, e.g. `callback/password`, `callback/link`, `signin/oidc`, `signout`.', schema: z.string() } },
     body: { schema: res.nextAuthFormSchema, contentType: 'application/x-www-form-urlencoded', description: 'next-auth form fields, with `csrfToken`.' },
-    responses: { 200: json('JSON answer when asked for one (`json=true`).', res.nextAuthBodySchema), 302: { description: 'Redirect after sign-in, a refused sign-in (to the error page) or sign-out.' } },
+    responses: {
+      200: json('JSON answer when asked for one (`json=true`).', res.nextAuthBodySchema),
+      302: { description: 'Redirect after sign-in, a refused sign-in (to the error page) or sign-out, always to a path of the app itself.' },
+      ...errors([400], { 400: 'The `callbackUrl` parameter or cookie is not a valid URL.' }),
+    },
   },
   {
     method: 'POST',
@@ -939,7 +962,7 @@ export function buildOpenApiDocument(): Record<string, unknown> {
           type: 'apiKey',
           in: 'cookie',
           name: 'next-auth.session-token',
-          description: 'The browser session set by signing in (`__Secure-next-auth.session-token` over https). Ends after idle time, 12 hours or sign-out.',
+          description: 'The browser session set by signing in (`__Host-next-auth.session-token`, Secure, when served over HTTPS). Ends after idle time, 12 hours or sign-out.',
         },
         apiToken: {
           type: 'http',

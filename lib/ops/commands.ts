@@ -38,7 +38,6 @@ import { backup, restore, verifyInstallationAt, type InstallationReport } from '
 
 const root = path.join(path.dirname(fileURLToPath(import.meta.url)), '..', '..');
 const log = (line: string) => console.log(`[worldsheet] ${line}`);
-const nextBin = path.join(root, 'node_modules', 'next', 'dist', 'bin', 'next');
 
 interface Database {
   url: string;
@@ -149,7 +148,10 @@ async function serve(supervisor: Supervisor, mode: 'start' | 'dev'): Promise<voi
   if (mode === 'start') buildIfStale(root, '.next', { ...env, NODE_ENV: 'production' });
   if (supervisor.isStopping) return;
   const worker = spawnJobWorker(supervisor, { ...env, NODE_ENV: 'production' });
-  const app = supervisor.spawn('app server', process.execPath, [nextBin, mode, '-H', host, '-p', String(port)], {
+  // The app's own server (lib/ops/server.ts): Next.js behind the layer that records the connection's
+  // address and sets the Content-Security-Policy.
+  const serverArgs = ['--import', 'tsx', path.join('lib', 'ops', 'server.ts'), ...(mode === 'dev' ? ['--dev'] : []), '-H', host, '-p', String(port)];
+  const app = supervisor.spawn('app server', process.execPath, serverArgs, {
     cwd: root,
     env: mode === 'start' ? { ...env, NODE_ENV: 'production' } : { ...env, NODE_ENV: 'development' },
   });

@@ -12,6 +12,7 @@ import * as apiTokens from '../../lib/auth/api-tokens';
 import * as evaluateRequest from '../../lib/calc/evaluate-request';
 import * as sheetFile from '../../lib/calc/sheet-file';
 import { buildOpenApiDocument, OPERATIONS } from '../../lib/http/openapi';
+import * as cspReports from '../../lib/http/csp-reports';
 import * as openApiSchemas from '../../lib/http/openapi-schemas';
 import * as projects from '../../lib/projects/projects';
 import * as users from '../../lib/projects/users';
@@ -207,9 +208,11 @@ describe('generated from the handlers\' zod schemas', () => {
       'lib/sheets/software-impact.ts': softwareImpact,
       'lib/checks/workflow.ts': checksWorkflow,
       'lib/issue/issue.ts': issuing,
+      'lib/http/csp-reports.ts': cspReports,
     };
     // The import route hands the body text to importSheetFile, which parses it with sheetFileSchema.
-    const parsedInLib: Record<string, string> = { 'POST /api/projects/{projectId}/sheets/import': 'lib/calc/sheet-file.ts' };
+    // The CSP report route hands the body to parseCspReports, which checks it with cspReportBodySchema.
+    const parsedInLib: Record<string, string> = { 'POST /api/projects/{projectId}/sheets/import': 'lib/calc/sheet-file.ts', 'POST /api/csp-report': 'lib/http/csp-reports.ts' };
     const files = new Map(routesOnDisk().map((r) => [r.key, r.file]));
     const describedOnly = new Set<unknown>(Object.values(openApiSchemas));
     let checked = 0;

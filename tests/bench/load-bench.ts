@@ -6,8 +6,8 @@
 // What it checks (and exits non-zero on): no 5xx answer, no failed or timed-out request, and no lost
 // version: every save the server acknowledged with 201 is in the versions table with the SHA-256 it
 // acknowledged, which is also the hash of the content sent. What it measures: p50/p95/p99 of the mix
-// and of each kind of request, and the app server's resident memory (the `next start` process and
-// its descendants, from /proc, once a second): its peak during each run and its figure after 5 s
+// and of each kind of request, and the app server's resident memory (lib/ops/server.ts and its
+// descendants, from /proc, once a second): its peak during each run and its figure after 5 s
 // idle, which must stay under 1 GiB and must not keep growing from run to run.
 //
 // Each user (connection) has an API token of its own and a sheet of its own, and chains its saves on
@@ -272,7 +272,8 @@ function requestsFor(user: User, base: VersionContent, acks: Ack[], tallyOf: () 
 // ── The app server ────────────────────────────────────────────────────────────────────────────
 
 async function startApp(supervisor: Supervisor, env: NodeJS.ProcessEnv): Promise<{ child: ChildProcess; baseUrl: string; output: () => string }> {
-  const child = supervisor.spawn('app server', process.execPath, [path.join(root, 'node_modules', 'next', 'dist', 'bin', 'next'), 'start', '-H', '127.0.0.1', '-p', String(APP_PORT)], {
+  // The app's own server, as `npm start` runs it (lib/ops/server.ts).
+  const child = supervisor.spawn('app server', process.execPath, ['--import', 'tsx', path.join('lib', 'ops', 'server.ts'), '-H', '127.0.0.1', '-p', String(APP_PORT)], {
     cwd: root,
     env,
     stdio: ['ignore', 'pipe', 'pipe'],
@@ -446,7 +447,7 @@ async function main(supervisor: Supervisor): Promise<boolean> {
     for (const kind of KINDS) console.log(row(kind, figures(r.tally.latencies.get(kind) ?? [])));
     console.log(`  ratio mix / health:  p50 ${(mix.p50 / h.p50).toFixed(1)}   p95 ${(mix.p95 / h.p95).toFixed(1)}   p99 ${(mix.p99 / h.p99).toFixed(1)}`);
   }
-  console.log('\nApp server resident memory (next start and its children, sampled every second; aim: under 1 GiB, no growth)');
+  console.log('\nApp server resident memory (lib/ops/server.ts and its children, sampled every second; aim: under 1 GiB, no growth)');
   console.log(`  after start ${mib(startRss)}`);
   for (const [i, r] of runs.entries()) console.log(`  run ${i + 1}: peak ${mib(r.peak)}   settled (after ${IDLE_SECONDS} s idle) ${mib(r.settled)}`);
   const overLimit = runs.some((r) => r.peak >= MEMORY_LIMIT);

@@ -2,13 +2,16 @@
 // serves it against the test database, with the job worker process delivering its mail to the test
 // mail capture server, and drives Debian's Chromium through playwright-core.
 // Every page it visits can be saved as a screenshot in tests/.artifacts/screenshots/ (git-ignored).
-// A console error or a failed request fails the test that caused it.
+// A console error or a failed request fails the test that caused it; so does a Content-Security-Policy
+// violation, seen by the page (securitypolicyviolation) and reported to the app (table csp_reports):
+// the session's close() throws when either saw one.
 import { spawn, type ChildProcess } from 'node:child_process';
 import { mkdirSync } from 'node:fs';
 import path from 'node:path';
 import { chromium, type Browser, type BrowserContext, type Page } from 'playwright-core';
 import { inject } from 'vitest';
 import { CHROMIUM_PATH } from '../../lib/ops/chromium';
+import { testDb } from '../support/database';
 import { buildIfStale } from '../../lib/ops/next-build';
 
 const root = process.cwd();
@@ -40,9 +43,10 @@ export async function startApp(extraEnv: Record<string, string> = {}): Promise<R
   const distDir = process.env.WORLDSHEET_TEST_DIST_DIR ?? '.next-test';
   buildIfStale(root, distDir, env);
   const worker = await startWorker(env);
+  // The app's own server, as `npm start` runs it (lib/ops/server.ts).
   const child: ChildProcess = spawn(
     process.execPath,
-    [path.join(root, 'node_modules', 'next', 'dist', 'bin', 'next'), 'start', '-H', '127.0.0.1', '-p', String(port)],
+    ['--import', 'tsx', path.join('lib', 'ops', 'server.ts'), '-H', '127.0.0.1', '-p', String(port)],
     { cwd: root, env: { ...env, WORLDSHEET_DIST_DIR: distDir }, stdio: ['ignore', 'pipe', 'pipe'] },
   );
   let output = '';
@@ -118,10 +122,33 @@ async function startWorker(env: NodeJS.ProcessEnv): Promise<{ stop(): Promise<vo
 export interface BrowserSession {
   page: Page;
   context: BrowserContext;
-  /** Console errors and failed requests seen so far; a test asserts this stays empty. */
+  /** Console errors, failed requests and CSP violations seen so far; a test asserts this stays empty. */
   problems: string[];
+  /** Content-Security-Policy violations the pages saw (securitypolicyviolation events). */
+  cspViolations: CspViolationSeen[];
+  /** The violation reports the app stored (csp_reports) since the session opened or last acknowledged. */
+  cspReports(): Promise<Array<{ document_uri: string | null; blocked_uri: string | null; directive: string | null }>>;
+  /** For a test that causes violations on purpose: forgets those seen and reported so far. */
+  acknowledgeCspViolations(): Promise<void>;
   screenshot(name: string): Promise<string>;
+  /** Closes the context; throws when a CSP violation was seen or reported and not acknowledged. */
   close(): Promise<void>;
+}
+
+export interface CspViolationSeen {
+  documentURI: string;
+  blockedURI: string;
+  effectiveDirective: string;
+  sample: string;
+}
+
+// Reports name a page, not a browser session: one acknowledged by a test (a violation caused on
+// purpose) is acknowledged for every session open at the time.
+let cspReportsAcknowledgedThrough = 0n;
+
+async function lastCspReportId(): Promise<string> {
+  const row = await testDb().selectFrom('csp_reports').select((eb) => eb.fn.max('id').as('id')).executeTakeFirst();
+  return String(row?.id ?? 0);
 }
 
 let browser: Browser | null = null;
@@ -132,8 +159,30 @@ export async function openBrowser(): Promise<BrowserSession> {
     args: ['--no-sandbox', '--disable-gpu', '--disable-background-networking', '--disable-component-update', '--no-first-run', '--disable-sync'],
   });
   const context = await browser.newContext({ viewport: { width: 1280, height: 860 } });
-  const page = await context.newPage();
   const problems: string[] = [];
+  const cspViolations: CspViolationSeen[] = [];
+  let reportsAfter = await lastCspReportId();
+  // Every page of the context tells the harness about each violation as it happens (the binding and
+  // the init script come through the DevTools protocol, which the page's policy does not govern).
+  await context.exposeBinding('__worldsheetCspViolation', (_source, v: CspViolationSeen) => {
+    cspViolations.push(v);
+    problems.push(`CSP violation: ${v.effectiveDirective} blocked ${v.blockedURI || '(inline)'} on ${v.documentURI}${v.sample ? ` (${v.sample})` : ''}`);
+  });
+  await context.addInitScript(() => {
+    document.addEventListener(
+      'securitypolicyviolation',
+      (e) => {
+        const report = (window as unknown as { __worldsheetCspViolation: (v: CspViolationSeen) => void }).__worldsheetCspViolation;
+        report({ documentURI: e.documentURI, blockedURI: e.blockedURI, effectiveDirective: e.effectiveDirective, sample: e.sample });
+      },
+      true,
+    );
+  });
+  const page = await context.newPage();
+  const cspReports = () => {
+    const after = BigInt(reportsAfter) > cspReportsAcknowledgedThrough ? reportsAfter : String(cspReportsAcknowledgedThrough);
+    return testDb().selectFrom('csp_reports').select(['document_uri', 'blocked_uri', 'directive']).where('id', '>', after).orderBy('id').execute();
+  };
   page.on('console', (m) => {
     if (m.type() === 'error') problems.push(`console error: ${m.text()}`);
   });
@@ -152,6 +201,14 @@ export async function openBrowser(): Promise<BrowserSession> {
     page,
     context,
     problems,
+    cspViolations,
+    cspReports,
+    async acknowledgeCspViolations() {
+      cspViolations.length = 0;
+      for (let i = problems.length - 1; i >= 0; i--) if (problems[i].startsWith('CSP violation: ')) problems.splice(i, 1);
+      reportsAfter = await lastCspReportId();
+      if (BigInt(reportsAfter) > cspReportsAcknowledgedThrough) cspReportsAcknowledgedThrough = BigInt(reportsAfter);
+    },
     async screenshot(name: string) {
       const file = path.join(SCREENSHOT_DIR, `${name}.png`);
       await page.screenshot({ path: file, fullPage: true });
@@ -159,6 +216,14 @@ export async function openBrowser(): Promise<BrowserSession> {
     },
     async close() {
       await context.close();
+      const reported = await cspReports();
+      if (cspViolations.length > 0 || reported.length > 0) {
+        const lines = [
+          ...cspViolations.map((v) => `seen: ${v.effectiveDirective} blocked ${v.blockedURI || '(inline)'} on ${v.documentURI}`),
+          ...reported.map((r) => `reported: ${r.directive} blocked ${r.blocked_uri ?? '(inline)'} on ${r.document_uri}`),
+        ];
+        throw new Error(`Content-Security-Policy violations in this browser session:\n${lines.join('\n')}`);
+      }
     },
   };
 }

@@ -1,0 +1,110 @@
+// The app's HTTP server: Next.js's own request handler (its documented custom-server API) behind a
+// thin layer that owns what only the connection knows.
+//
+//   node --import tsx lib/ops/server.ts [--dev] [-H host] [-p port]
+//
+// On every request it
+//   - replaces any client-sent PEER_ADDRESS_HEADER with the socket's peer address, which
+//     lib/http/client-address.ts reads (Next.js exposes no socket address to route handlers, and keeps
+//     a client-sent X-Forwarded-For);
+//   - drops client-sent X-Forwarded-* headers unless the peer is a trusted proxy
+//     (WORLDSHEET_TRUSTED_PROXIES), so Next.js fills them from the connection itself;
+//   - sets a Content-Security-Policy with a fresh nonce on the request (Next.js gives its scripts the
+//     nonce it finds there) and on the response, and HSTS when served over HTTPS
+//     (lib/http/security-headers.ts).
+// The build folder follows WORLDSHEET_DIST_DIR through next.config.mjs, as for `next start`.
+import { createServer, type IncomingMessage, type ServerResponse } from 'node:http';
+import path from 'node:path';
+import { fileURLToPath } from 'node:url';
+import next from 'next';
+import { isTrustedProxy, parseTrustedProxies, PEER_ADDRESS_HEADER } from '../http/client-address';
+import { edgeHeaders, httpsEnabled, newNonce } from '../http/security-headers';
+
+const root = path.join(path.dirname(fileURLToPath(import.meta.url)), '..', '..');
+
+const FORWARDED_HEADERS = ['x-forwarded-for', 'x-forwarded-host', 'x-forwarded-proto', 'x-forwarded-port', 'x-real-ip', 'forwarded'];
+
+/**
+ * Rewrites the request's headers as described above and returns the headers for its response. The
+ * request must come straight from a socket (req.socket.remoteAddress is its peer).
+ */
+export function prepareRequest(req: IncomingMessage, options: { dev: boolean; https: boolean }): Record<string, string> {
+  delete req.headers[PEER_ADDRESS_HEADER];
+  const peer = req.socket.remoteAddress;
+  if (peer) req.headers[PEER_ADDRESS_HEADER] = peer;
+  if (!peer || !isTrustedProxy(peer)) for (const name of FORWARDED_HEADERS) delete req.headers[name];
+  const headers = edgeHeaders({ nonce: newNonce(), dev: options.dev, https: options.https });
+  req.headers['content-security-policy'] = headers['Content-Security-Policy'];
+  delete req.headers['content-security-policy-report-only'];
+  return headers;
+}
+
+function argument(args: string[], names: string[]): string | undefined {
+  const i = args.findIndex((a) => names.includes(a));
+  return i >= 0 ? args[i + 1] : undefined;
+}
+
+async function main(): Promise<void> {
+  const args = process.argv.slice(2);
+  const dev = args.includes('--dev');
+  const hostname = argument(args, ['-H', '--hostname']) ?? process.env.WORLDSHEET_HOST ?? '127.0.0.1';
+  const port = Number(argument(args, ['-p', '--port']) ?? process.env.PORT ?? 3000);
+  if (!Number.isInteger(port) || port < 0 || port > 65535) throw new Error(`not a port: ${port}`);
+  // A mistyped proxy list stops the server here rather than at the first sign-in.
+  parseTrustedProxies(process.env.WORLDSHEET_TRUSTED_PROXIES);
+  const https = httpsEnabled();
+  if (!dev) (process.env as Record<string, string>).NODE_ENV ??= 'production';
+
+  const server = createServer();
+  const app = next({ dev, dir: root, hostname, port, httpServer: server });
+  const handle = app.getRequestHandler();
+  await app.prepare();
+
+  server.on('request', (req: IncomingMessage, res: ServerResponse) => {
+    let headers: Record<string, string>;
+    try {
+      headers = prepareRequest(req, { dev, https });
+    } catch (error) {
+      console.error(error);
+      res.statusCode = 500;
+      res.end();
+      return;
+    }
+    for (const [name, value] of Object.entries(headers)) res.setHeader(name, value);
+    handle(req, res).catch((error: unknown) => {
+      console.error(error);
+      if (!res.headersSent) res.statusCode = 500;
+      res.end();
+    });
+  });
+  // next start's figures: idle keep-alive sockets outlive a typical proxy's own timeout.
+  server.keepAliveTimeout = 65_000;
+  await new Promise<void>((resolve, reject) => {
+    server.once('error', reject);
+    server.listen(port, hostname, () => resolve());
+  });
+  console.log(`[worldsheet] app server (${dev ? 'development' : 'production'}) listening on http://${hostname}:${port}${https ? ', served to browsers over HTTPS' : ''}`);
+
+  let stopping = false;
+  const stop = (signal: NodeJS.Signals) => {
+    if (stopping) return;
+    stopping = true;
+    server.close();
+    server.closeIdleConnections();
+    const force = setTimeout(() => process.exit(0), 5_000);
+    force.unref();
+    app
+      .close()
+      .catch(() => undefined)
+      .finally(() => process.exit(signal === 'SIGINT' ? 130 : 0));
+  };
+  process.on('SIGTERM', () => stop('SIGTERM'));
+  process.on('SIGINT', () => stop('SIGINT'));
+}
+
+if (process.argv[1] && path.resolve(process.argv[1]) === fileURLToPath(import.meta.url)) {
+  main().catch((error) => {
+    console.error(error);
+    process.exit(1);
+  });
+}
