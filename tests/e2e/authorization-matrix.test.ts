@@ -89,8 +89,9 @@ const MATRIX: Record<string, Entry> = {
   },
   'POST /api/auth/sign-in-link': { request: () => ({ path: '/api/auth/sign-in-link', body: { email: 'nobody@example.test' } }), expect: { default: 202 } },
   'POST /api/auth/unlock': { request: () => ({ path: '/api/auth/unlock', body: { token: 'not-a-real-unlock-token' } }), expect: { default: 400 } },
-  // Browsers post their own violation reports here, with no session; outside the request guard. A list of no report stores nothing.
-  'POST /api/csp-report': { request: () => ({ path: '/api/csp-report', body: [{}] }), expect: { default: 204 } },
+  // Browsers post their own violation reports here, with no session; outside the request guard. A
+  // well-formed Reporting API batch whose only report is not a CSP violation is accepted and stores nothing.
+  'POST /api/csp-report': { request: () => ({ path: '/api/csp-report', body: [{ type: 'deprecation', url: 'http://127.0.0.1/', body: {} }] }), expect: { default: 204 } },
   'POST /api/evaluate': { request: () => ({ path: '/api/evaluate', body: { cells: [{ id: 'a', kind: 'calc', source: 'x_1 = 2 m' }] } }), expect: signedIn(200) },
   'GET /api/account': { request: () => ({ path: '/api/account' }), expect: signedIn(200) },
   'POST /api/account/password': {
