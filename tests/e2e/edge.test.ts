@@ -20,7 +20,7 @@ beforeAll(async () => {
 });
 
 afterAll(async () => {
-  // close() throws on any CSP violation left unacknowledged.
+  // stop() throws on any CSP violation left unacknowledged.
   for (const s of sessions) await s.close();
   await closeBrowser();
   await app?.stop();

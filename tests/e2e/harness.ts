@@ -2,9 +2,10 @@
 // serves it against the test database, with the job worker process delivering its mail to the test
 // mail capture server, and drives Debian's Chromium through playwright-core.
 // Every page it visits can be saved as a screenshot in tests/.artifacts/screenshots/ (git-ignored).
-// A console error or a failed request fails the test that caused it; so does a Content-Security-Policy
-// violation, seen by the page (securitypolicyviolation) and reported to the app (table csp_reports):
-// the session's close() throws when either saw one.
+// A console error or a failed request fails the test that caused it. A Content-Security-Policy
+// violation is one of those problems as the page sees it (securitypolicyviolation), and the app's
+// stop() throws, after stopping its processes, when any page of its run saw one or reported one to
+// the app (table csp_reports) that its test did not acknowledge: the file fails.
 import { spawn, type ChildProcess } from 'node:child_process';
 import { mkdirSync } from 'node:fs';
 import path from 'node:path';
@@ -26,6 +27,7 @@ export interface RunningApp {
 export const TEST_AUTH_SECRET = 'worldsheet-test-secret-not-for-production-use';
 
 export async function startApp(extraEnv: Record<string, string> = {}): Promise<RunningApp> {
+  const reportsFrom = BigInt(await lastCspReportId());
   const port = Number(process.env.WORLDSHEET_TEST_APP_PORT ?? 3199);
   const env: NodeJS.ProcessEnv = {
     ...process.env,
@@ -76,6 +78,13 @@ export async function startApp(extraEnv: Record<string, string> = {}): Promise<R
     baseUrl,
     async stop() {
       await Promise.all([stopChild(child), worker.stop()]);
+      const after = reportsFrom > cspReportsAcknowledgedThrough ? reportsFrom : cspReportsAcknowledgedThrough;
+      const reported = await testDb().selectFrom('csp_reports').select(['document_uri', 'blocked_uri', 'directive']).where('id', '>', String(after)).orderBy('id').execute();
+      const lines = [
+        ...cspSeen.splice(0).map((v) => `seen: ${v.effectiveDirective} blocked ${v.blockedURI || '(inline)'} on ${v.documentURI}`),
+        ...reported.map((r) => `reported: ${r.directive} blocked ${r.blocked_uri ?? '(inline)'} on ${r.document_uri}`),
+      ];
+      if (lines.length > 0) throw new Error(`Content-Security-Policy violations while the app ran:\n${lines.join('\n')}`);
     },
   };
 }
@@ -128,10 +137,9 @@ export interface BrowserSession {
   cspViolations: CspViolationSeen[];
   /** The violation reports the app stored (csp_reports) since the session opened or last acknowledged. */
   cspReports(): Promise<Array<{ document_uri: string | null; blocked_uri: string | null; directive: string | null }>>;
-  /** For a test that causes violations on purpose: forgets those seen and reported so far. */
+  /** For a test that causes violations on purpose: forgets those seen (this session) and reported (all) so far. */
   acknowledgeCspViolations(): Promise<void>;
   screenshot(name: string): Promise<string>;
-  /** Closes the context; throws when a CSP violation was seen or reported and not acknowledged. */
   close(): Promise<void>;
 }
 
@@ -145,6 +153,8 @@ export interface CspViolationSeen {
 // Reports name a page, not a browser session: one acknowledged by a test (a violation caused on
 // purpose) is acknowledged for every session open at the time.
 let cspReportsAcknowledgedThrough = 0n;
+/** Violations the pages of every session saw and no test acknowledged; the app's stop() reads them. */
+const cspSeen: CspViolationSeen[] = [];
 
 async function lastCspReportId(): Promise<string> {
   const row = await testDb().selectFrom('csp_reports').select((eb) => eb.fn.max('id').as('id')).executeTakeFirst();
@@ -166,6 +176,7 @@ export async function openBrowser(): Promise<BrowserSession> {
   // the init script come through the DevTools protocol, which the page's policy does not govern).
   await context.exposeBinding('__worldsheetCspViolation', (_source, v: CspViolationSeen) => {
     cspViolations.push(v);
+    cspSeen.push(v);
     problems.push(`CSP violation: ${v.effectiveDirective} blocked ${v.blockedURI || '(inline)'} on ${v.documentURI}${v.sample ? ` (${v.sample})` : ''}`);
   });
   await context.addInitScript(() => {
@@ -204,6 +215,7 @@ export async function openBrowser(): Promise<BrowserSession> {
     cspViolations,
     cspReports,
     async acknowledgeCspViolations() {
+      for (const v of cspViolations) if (cspSeen.includes(v)) cspSeen.splice(cspSeen.indexOf(v), 1);
       cspViolations.length = 0;
       for (let i = problems.length - 1; i >= 0; i--) if (problems[i].startsWith('CSP violation: ')) problems.splice(i, 1);
       reportsAfter = await lastCspReportId();
@@ -216,14 +228,6 @@ export async function openBrowser(): Promise<BrowserSession> {
     },
     async close() {
       await context.close();
-      const reported = await cspReports();
-      if (cspViolations.length > 0 || reported.length > 0) {
-        const lines = [
-          ...cspViolations.map((v) => `seen: ${v.effectiveDirective} blocked ${v.blockedURI || '(inline)'} on ${v.documentURI}`),
-          ...reported.map((r) => `reported: ${r.directive} blocked ${r.blocked_uri ?? '(inline)'} on ${r.document_uri}`),
-        ];
-        throw new Error(`Content-Security-Policy violations in this browser session:\n${lines.join('\n')}`);
-      }
     },
   };
 }
