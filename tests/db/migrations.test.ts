@@ -34,7 +34,7 @@ it('migrates up from nothing, down to nothing and up again', async () => {
   try {
     expect(await tables(db)).toEqual([]);
     await migrateToLatest(db);
-    const expected = ['api_tokens', 'attachments', 'audit_events', 'check_comments', 'checks', 'email_tokens', 'issue_jobs', 'project_members', 'projects', 'revisions', 'sessions', 'sheets', 'sign_in_attempts', 'signatures', 'users', 'version_references', 'versions'];
+    const expected = ['api_tokens', 'attachments', 'audit_events', 'check_comments', 'checks', 'csp_reports', 'email_tokens', 'issue_jobs', 'project_members', 'projects', 'revisions', 'sessions', 'sheets', 'sign_in_attempts', 'signatures', 'users', 'verify_rate_limits', 'version_references', 'versions'];
     expect(await tables(db)).toEqual(expected);
     await migrateDownAll(db);
     expect(await tables(db)).toEqual([]);
