@@ -73,6 +73,9 @@ it('typesets the scratch pad results as the user types', async () => {
 it('lists every library function with its formula typeset', async () => {
   const { page } = session;
   await page.goto(`${app.baseUrl}/reference`);
+  // The page streams (the root layout renders per request, for the CSP nonce): wait until React has
+  // moved the streamed content out of its hidden holder before counting by role.
+  await page.getByRole('table', { name: 'Built-in constants with their provenance' }).waitFor();
   for (const name of ['lorentzFactor', 'gammaMinusOne', 'momentumFromKinetic', 'clockRateOffset', 'rocketDeltaV']) {
     await expect(page.locator(`article#${name} .katex`).count()).resolves.toBeGreaterThan(0);
   }
