@@ -4,6 +4,7 @@ import { useEffect, useId, useState } from 'react';
 import useSWR from 'swr';
 import { CalcEditor } from '@/components/sheet/calc-editor';
 import type { SheetResult } from '@/lib/calc/types';
+import { oneAtATime, postEvaluation } from './one-evaluation-at-a-time';
 import { StatementView } from './statement-view';
 
 const EXAMPLE = [
@@ -14,16 +15,8 @@ const EXAMPLE = [
   'gamma_1 = lorentzFactor(speedFromKinetic(T_kin, m_p))',
 ].join('\n');
 
-async function evaluate([, source]: [string, string]): Promise<SheetResult> {
-  const response = await fetch('/api/evaluate', {
-    method: 'POST',
-    headers: { 'content-type': 'application/json' },
-    body: JSON.stringify({ sheetKey: 'scratch', cells: [{ id: 'scratch', kind: 'calc', source }] }),
-  });
-  const body = await response.json();
-  if (!response.ok) throw new Error(body?.error?.message ?? `HTTP ${response.status}`);
-  return body as SheetResult;
-}
+// One evaluation in flight; see one-evaluation-at-a-time.ts.
+const evaluate = oneAtATime(([, source]: [string, string]) => postEvaluation<SheetResult>({ sheetKey: 'scratch', cells: [{ id: 'scratch', kind: 'calc', source }] }));
 
 /** A single calculation cell evaluated by the server as you type. Nothing here is saved. */
 export function ScratchPad() {

@@ -3,6 +3,7 @@
 import Link from 'next/link';
 import { useCallback, useEffect, useMemo, useRef, useState } from 'react';
 import useSWR from 'swr';
+import { oneAtATime, postEvaluation } from '@/components/calc/one-evaluation-at-a-time';
 import { StatementView } from '@/components/calc/statement-view';
 import { AttachmentsPanel, useSheetAttachments } from './attachments-panel';
 import { CalcEditor } from './calc-editor';
@@ -33,12 +34,8 @@ function newCellId(cells: Cell[]): string {
   return `c${n}`;
 }
 
-async function evaluate([, sheetKey, body]: [string, string, string]): Promise<SheetResult> {
-  const response = await fetch('/api/evaluate', { method: 'POST', headers: { 'content-type': 'application/json' }, body: JSON.stringify({ ...JSON.parse(body), sheetKey }) });
-  const answer = await response.json();
-  if (!response.ok) throw new Error(answer?.error?.message ?? `HTTP ${response.status}`);
-  return answer as SheetResult;
-}
+// One evaluation in flight per editor; see components/calc/one-evaluation-at-a-time.ts.
+const evaluate = oneAtATime(([, sheetKey, body]: [string, string, string]) => postEvaluation<SheetResult>({ ...JSON.parse(body), sheetKey }));
 
 /**
  * Edits a sheet: cells (insert, delete, move), the calculation record, evaluation on the server as
