@@ -4,7 +4,7 @@
 // caps, no objects built); only what passes goes to the worker, which has a time budget per parse
 // and a heap limit. A parse beyond either is refused as too complex and the worker replaced.
 import path from 'node:path';
-import { Worker } from 'node:worker_threads';
+import { LimitedWorker } from '@/lib/calc/sandbox/limited-worker';
 import { AppError } from '@/lib/errors/app-error';
 import { CONTAINER_TOO_COMPLEX, locateSignature, signedRangesDigest, type PdfSignatureCheck, type SignedDataCheck } from './cades';
 
@@ -46,8 +46,7 @@ interface Job {
 }
 
 export class SignatureParser {
-  private worker: Worker | null = null;
-  private ready: Promise<void> | null = null;
+  private readonly thread: LimitedWorker<ParseReply>;
   private readonly queue: Job[] = [];
   private current: { job: Job; timer: NodeJS.Timeout } | null = null;
   private busy = false;
@@ -55,31 +54,17 @@ export class SignatureParser {
   /** Containers parsed by the worker thread (for tests: the main thread parses none). */
   parsed = 0;
 
-  constructor(readonly options: SignatureParserOptions) {}
-
-  private start(): Promise<void> {
-    if (this.ready) return this.ready;
-    const entry = path.join(/* turbopackIgnore: true */ this.options.root ?? process.cwd(), WORKER_ENTRY);
-    const worker = new Worker(/* turbopackIgnore: true */ entry, {
-      resourceLimits: { maxOldGenerationSizeMb: this.options.memoryMb, maxYoungGenerationSizeMb: Math.max(4, Math.min(16, this.options.memoryMb / 4)), stackSizeMb: 4 },
-      stdout: false,
-      stderr: false,
+  constructor(readonly options: SignatureParserOptions) {
+    this.thread = new LimitedWorker<ParseReply>({
+      entry: WORKER_ENTRY,
+      root: options.root,
+      memoryMb: options.memoryMb,
+      youngMb: Math.max(4, Math.min(16, options.memoryMb / 4)),
+      label: 'signature worker',
+      onMessage: (m) => this.onReply(m),
+      // Out of memory (ERR_WORKER_OUT_OF_MEMORY) or any other end of the thread mid-parse.
+      onCrash: (error) => this.fail(new ParseBudgetExceeded(error.message)),
     });
-    this.worker = worker;
-    this.ready = new Promise<void>((resolve, reject) => {
-      const onReady = (m: ParseReply) => {
-        if (m.type === 'ready') {
-          worker.off('message', onReady);
-          resolve();
-        }
-      };
-      worker.on('message', onReady);
-      worker.once('error', reject);
-    });
-    worker.on('message', (m: ParseReply) => this.onReply(m));
-    worker.on('error', (error) => this.onCrash(worker, error));
-    worker.on('exit', (code) => this.onCrash(worker, new Error(`the signature worker stopped (exit ${code})`)));
-    return this.ready;
   }
 
   /** Parses and checks a container (within the budget of checkDerBudget) against the digest of the signed ranges. */
@@ -98,7 +83,7 @@ export class SignatureParser {
     this.busy = true;
     const job = this.queue.shift()!;
     try {
-      await this.start();
+      await this.thread.start();
     } catch (error) {
       this.reset();
       this.busy = false;
@@ -106,10 +91,9 @@ export class SignatureParser {
       void this.next();
       return;
     }
-    this.worker!.ref();
     const timer = setTimeout(() => this.fail(new ParseBudgetExceeded('time')), this.options.timeoutMs);
     this.current = { job, timer };
-    this.worker!.postMessage(job.request);
+    this.thread.post(job.request);
   }
 
   private onReply(m: ParseReply): void {
@@ -120,14 +104,8 @@ export class SignatureParser {
     this.busy = false;
     this.parsed++;
     job.resolve(m.check);
-    if (this.queue.length === 0) this.worker?.unref();
+    if (this.queue.length === 0) this.thread.idle();
     void this.next();
-  }
-
-  private onCrash(worker: Worker, error: Error): void {
-    if (worker !== this.worker) return;
-    // Out of memory (ERR_WORKER_OUT_OF_MEMORY) or any other end of the thread mid-parse.
-    this.fail(new ParseBudgetExceeded(error.message));
   }
 
   private fail(error: Error): void {
@@ -143,17 +121,11 @@ export class SignatureParser {
   }
 
   private reset(): void {
-    const w = this.worker;
-    this.worker = null;
-    this.ready = null;
-    if (w) void w.terminate();
+    this.thread.reset();
   }
 
-  async close(): Promise<void> {
-    const w = this.worker;
-    this.worker = null;
-    this.ready = null;
-    if (w) await w.terminate();
+  close(): Promise<void> {
+    return this.thread.close();
   }
 
   /**

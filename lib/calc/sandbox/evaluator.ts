@@ -25,7 +25,7 @@
 import { createHash } from 'node:crypto';
 import os from 'node:os';
 import path from 'node:path';
-import { Worker } from 'node:worker_threads';
+import { LimitedWorker } from './limited-worker';
 import type { CellInput, EvaluateOptions, SheetResult } from '../types';
 import { PROGRESS_CELL, PROGRESS_SLOTS, PROGRESS_STARTED, type EvaluateRequest, type WorkerReply } from './protocol';
 
@@ -128,15 +128,25 @@ class ResultTooLarge extends Error {
 
 /** One worker thread, running one request at a time (the pool hands it out only when idle). */
 class EvaluationThread {
-  private worker: Worker | null = null;
-  private ready: Promise<void> | null = null;
+  private readonly thread: LimitedWorker<WorkerReply>;
   private readonly progress = new Int32Array(new SharedArrayBuffer(4 * PROGRESS_SLOTS));
   private current: { request: EvaluateRequest; resolve: (r: SheetResult) => void; reject: (e: Error) => void; timer: NodeJS.Timeout | null } | null = null;
 
   constructor(
     readonly index: number,
     private readonly options: SandboxOptions,
-  ) {}
+  ) {
+    this.thread = new LimitedWorker<WorkerReply>({
+      entry: WORKER_ENTRY,
+      root: options.root,
+      memoryMb: options.memoryMb,
+      youngMb: Math.min(64, options.memoryMb / 4),
+      workerData: { progress: this.progress.buffer },
+      label: 'evaluation worker',
+      onMessage: (m) => this.onReply(m),
+      onCrash: (error) => this.onCrash(error),
+    });
+  }
 
   /** Cells this thread has started evaluating since it was created (cache hits not counted). */
   cellsStarted(): number {
@@ -144,34 +154,7 @@ class EvaluationThread {
   }
 
   start(): Promise<void> {
-    if (this.ready) return this.ready;
-    // The worker loads the engine from source at run time; the app bundler must not follow it.
-    const entry = path.join(/* turbopackIgnore: true */ this.options.root ?? process.cwd(), WORKER_ENTRY);
-    const worker = new Worker(/* turbopackIgnore: true */ entry, {
-      workerData: { progress: this.progress.buffer },
-      resourceLimits: { maxOldGenerationSizeMb: this.options.memoryMb, maxYoungGenerationSizeMb: Math.min(64, this.options.memoryMb / 4), stackSizeMb: 4 },
-      stdout: false,
-      stderr: false,
-    });
-    this.worker = worker;
-    worker.unref();
-    this.ready = new Promise<void>((resolve, reject) => {
-      const onReady = (m: WorkerReply) => {
-        if (m.type === 'ready') {
-          worker.off('message', onReady);
-          resolve();
-        }
-      };
-      worker.on('message', onReady);
-      worker.once('error', reject);
-      worker.once('exit', (code) => reject(new Error(`the evaluation worker stopped while starting (exit ${code})`)));
-    });
-    // A failed start is reported to the request that waits for it; nobody else awaits this promise.
-    this.ready.catch(() => undefined);
-    worker.on('message', (m: WorkerReply) => this.onReply(m));
-    worker.on('error', (error: Error & { code?: string }) => this.onCrash(worker, error));
-    worker.on('exit', (code) => this.onCrash(worker, new Error(`the evaluation worker stopped (exit ${code})`)));
-    return this.ready;
+    return this.thread.start();
   }
 
   async run(request: EvaluateRequest): Promise<SheetResult> {
@@ -182,15 +165,14 @@ class EvaluationThread {
       throw new LimitExceeded(-1, `stopped: ${(error as Error).message}`, false);
     }
     return new Promise<SheetResult>((resolve, reject) => {
-      // A busy worker must keep its host process alive; an idle one must not.
-      this.worker!.ref();
       Atomics.store(this.progress, PROGRESS_CELL, -1);
       this.current = { request, resolve, reject, timer: null };
       this.current.timer = setTimeout(
         () => this.fail(new LimitExceeded(this.runningCell(), `stopped after ${this.options.timeoutMs / 1000} s: this cell takes longer than the time limit`, true)),
         this.options.timeoutMs,
       );
-      this.worker!.postMessage(request);
+      // A busy worker keeps its host process alive; an idle one does not.
+      this.thread.post(request);
     });
   }
 
@@ -203,14 +185,13 @@ class EvaluationThread {
     const { resolve, reject, timer } = this.current;
     if (timer) clearTimeout(timer);
     this.current = null;
-    this.worker?.unref();
+    this.thread.idle();
     if (m.type === 'done') resolve(m.result);
     else if (m.type === 'too-large') reject(new ResultTooLarge(m.bytes));
     else reject(new Error(m.error));
   }
 
-  private onCrash(worker: Worker, error: Error & { code?: string }): void {
-    if (worker !== this.worker) return;
+  private onCrash(error: Error & { code?: string }): void {
     const cell = this.runningCell();
     const outOfMemory = error.code === 'ERR_WORKER_OUT_OF_MEMORY';
     // Out of memory with no cell running: building or sending the whole result did not fit.
@@ -235,17 +216,11 @@ class EvaluationThread {
   }
 
   private reset(): void {
-    const w = this.worker;
-    this.worker = null;
-    this.ready = null;
-    if (w) void w.terminate();
+    this.thread.reset();
   }
 
-  async close(): Promise<void> {
-    const w = this.worker;
-    this.worker = null;
-    this.ready = null;
-    if (w) await w.terminate();
+  close(): Promise<void> {
+    return this.thread.close();
   }
 }
 
