@@ -24,6 +24,8 @@ export const C = 299_792_458;
 export const E_CHARGE = 1.602_176_634e-19;
 /** Planck constant, J s: exact (SI 2019, defining constant). */
 export const H_PLANCK = 6.626_070_15e-34;
+/** Reduced Planck constant ħ = h/(2π), J s: exact, derived from the exact h (SI 2019). */
+export const HBAR = H_PLANCK / (2 * Math.PI);
 /** Standard acceleration of gravity, m/s²: exact (3rd CGPM 1901; SI Brochure 9th ed.). */
 export const G_N = 9.806_65;
 /** Electron mass, kg: CODATA 2022, u = 2.8e-40 kg. */
@@ -44,6 +46,8 @@ export const CONSTANTS: readonly ConstantDef[] = [
   { name: 'g_n', description: 'standard acceleration of gravity', value: G_N, unit: 'm/s^2', uncertainty: 0, provenance: 'exact by definition (3rd CGPM, 1901; SI Brochure, 9th edition)', tex: 'g_{\\mathrm{n}}' },
   { name: 'q_e', description: 'elementary charge', value: E_CHARGE, unit: 'C', uncertainty: 0, provenance: SI_2019, tex: 'e' },
   { name: 'h_P', description: 'Planck constant', value: H_PLANCK, unit: 'J s', uncertainty: 0, provenance: SI_2019, tex: 'h' },
+  { name: 'hbar_P', description: 'reduced Planck constant h/(2π)', value: HBAR, unit: 'J s', uncertainty: 0, provenance: 'derived from the exact h (SI 2019): h/(2π)', tex: '\\hbar' },
+  { name: 'ħ', description: 'reduced Planck constant h/(2π), the same as hbar_P', value: HBAR, unit: 'J s', uncertainty: 0, provenance: 'derived from the exact h (SI 2019): h/(2π)', tex: '\\hbar' },
   { name: 'm_e', description: 'electron mass', value: M_E, unit: 'kg', uncertainty: 2.8e-40, provenance: 'CODATA 2022', tex: 'm_{\\mathrm{e}}' },
   { name: 'm_p', description: 'proton mass', value: M_P, unit: 'kg', uncertainty: 5.2e-37, provenance: 'CODATA 2022', tex: 'm_{\\mathrm{p}}' },
   { name: 'm_n', description: 'neutron mass', value: M_N, unit: 'kg', uncertainty: 8.5e-37, provenance: 'CODATA 2022', tex: 'm_{\\mathrm{n}}' },
