@@ -19,6 +19,7 @@ import { STUDY_STATEMENTS, type StudyStatement } from './study-functions';
 import { ENGINE_VERSION } from './version';
 import { installSizeGuards, LIMITS } from './limits';
 import { extractUnitLiterals, UNIT_PLACEHOLDER_PREFIX, type UnitLiteral } from './unit-literals';
+import { lintExpression, type LintFinding } from './lint';
 import { unitTexOf } from './format';
 import { stripComment } from './references';
 import { studyBindings } from './study-functions';
@@ -73,6 +74,8 @@ interface ParsedStatement {
   correlation?: { a: string; b: string; r: number };
   /** `sweep(…)`, `plot(…)` or `spacetime(…)`: the input swept and the results named. */
   study: { kind: StudyStatement; input: string; targets: string[] } | null;
+  /** Names read as a unit or mathematical constant where a physical constant is likely meant (lint.ts). */
+  lint?: LintFinding[];
   /** The compiled right-hand side (definitions) or statement (functions), made on first use. */
   compiled?: { evaluate(scope: Map<string, unknown>): unknown };
 }
@@ -364,6 +367,11 @@ export function createSheetEngine(): SheetEngine {
         }
       }
       if (st.defines) st.staticError ??= checkDefinitionName(st.defines, em);
+      try {
+        st.lint = lintExpression(node.type === 'AssignmentNode' ? node.value! : node, em);
+      } catch {
+        st.lint = [];
+      }
     }
     remember(parseCache, source, statements, LIMITS.parseCacheEntries);
     return statements;
@@ -430,6 +438,10 @@ export function createSheetEngine(): SheetEngine {
       for (const st of statements) if (st.defines && !firstDefinition.has(st.defines)) firstDefinition.set(st.defines, { cell: ci, line: st.line });
     });
 
+    // The lint's findings for a name the sheet defines are dropped: the name is the sheet's quantity
+    // (a name that cannot be redefined, such as `e`, stays flagged).
+    const lintSilenced = (name: string) => firstDefinition.has(name) && checkDefinitionName(name, em) === null;
+    const warningsOf = (st: ParsedStatement) => (st.lint ?? []).filter((f) => !lintSilenced(f.name)).map((f) => f.message);
     // A bare name that is also a unit is a quantity when the sheet defines it anywhere.
     const usesOf = (st: ParsedStatement) => (st.unitNamed.length ? [...st.uses, ...st.unitNamed.filter((n) => firstDefinition.has(n))] : st.uses);
     const scope = new Map<string, unknown>(em.constants);
@@ -542,7 +554,7 @@ export function createSheetEngine(): SheetEngine {
     for (const [ci, cell] of cells.entries()) {
       const statements = parsed[ci];
       if (cell.kind === 'text') {
-        results.push({ id: cell.id, index: ci, kind: 'text', ok: true, error: null, statements: [], defines: [], uses: [] });
+        results.push({ id: cell.id, index: ci, kind: 'text', ok: true, error: null, statements: [], warnings: [], defines: [], uses: [] });
         continue;
       }
       const ownNames = new Set(statements.map((s) => s.defines).filter((n): n is string => !!n));
@@ -567,6 +579,8 @@ export function createSheetEngine(): SheetEngine {
         // How many of the sheet's Monte Carlo propagations are left decides which this cell may run.
         ...(inputU.size > 0 ? [`monteCarloUsed:${Math.min(monteCarloRequests, MONTE_CARLO_PER_SHEET)}`] : []),
         ...correlationContext,
+        // Whether the sheet defines a name the lint flags decides whether the warning shows.
+        ...[...new Set(statements.flatMap((st) => (st.lint ?? []).map((f) => f.name)))].map((n) => `lint:${n}=${lintSilenced(n)}`),
       ];
       const key = createHash('sha256').update(`${hooks.cacheScope ?? ''}\0${sig}\0${ci}\0${cell.source}\0${context.join('\0')}`).digest('base64');
 
@@ -600,7 +614,7 @@ export function createSheetEngine(): SheetEngine {
       };
 
       for (const st of statements) {
-        const result: StatementResult = { line: st.line, source: st.source, kind: st.kind, name: st.defines, tex: '', substitutedTex: null, value: null, criterion: null, error: null };
+        const result: StatementResult = { line: st.line, source: st.source, kind: st.kind, name: st.defines, tex: '', substitutedTex: null, value: null, criterion: null, error: null, warnings: warningsOf(st) };
         out.push(result);
         const fail = (message: string) => {
           result.error = message;
@@ -794,6 +808,7 @@ export function createSheetEngine(): SheetEngine {
         ok: firstError === null,
         error: firstError,
         statements: out,
+        warnings: out.flatMap((s) => (s.warnings ?? []).map((w) => `line ${s.line}: ${w}`)),
         defines: [...ownNames],
         uses: external,
       };

@@ -181,6 +181,12 @@ export interface StatementResult {
   value: DisplayValue | null;
   criterion: CriterionResult | null;
   error: string | null;
+  /**
+   * Warnings of the physics lint (lib/calc/lint.ts): a name read as a unit or a mathematical
+   * constant where a physical constant is likely meant. The statement is evaluated as written.
+   * Absent in results stored before warnings existed: read absent as none.
+   */
+  warnings?: string[];
   /** Standard or propagated uncertainty, when the value carries one. */
   uncertainty?: UncertaintyResult | null;
   /** Results of other sheets' issued revisions this statement uses, with their status then. */
@@ -199,6 +205,8 @@ export interface CellResult {
   /** The first error of the cell, or why it could not be evaluated. */
   error: string | null;
   statements: StatementResult[];
+  /** The statements' warnings, each as "line N: …" (absent in results stored before warnings existed: none). */
+  warnings?: string[];
   /** Names this cell defines. */
   defines: string[];
   /** Names from other cells this cell uses. */
