@@ -29,8 +29,14 @@ interface NumberParts {
   exponent: number | null;
 }
 
-/** Rounds to `sig` significant figures and drops trailing zeros of the fraction. */
-export function numberParts(x: number, sig: number): NumberParts {
+/**
+ * Rounds to `sig` significant figures and keeps the trailing zeros, which are significant
+ * (1.967 50, 144.110): the number of digits written tells the reader the precision (SI Brochure 9th ed.,
+ * §5.4.4; significant-figure convention, common practice). A whole number (an input such as 250 MeV,
+ * a count, a charge number, within 4 ulp of an integer below 2⁵³) is written without a fraction, as
+ * it is exact. `trailingZeros: false` drops them (axis tick labels).
+ */
+export function numberParts(x: number, sig: number, trailingZeros = true): NumberParts {
   const negative = x < 0 || Object.is(x, -0);
   const a = Math.abs(x);
   if (a === 0) return { negative: false, integer: '0', fraction: '', exponent: null };
@@ -45,14 +51,21 @@ export function numberParts(x: number, sig: number): NumberParts {
     exponent = 0;
   }
   let [integer, fraction = ''] = text.split('.');
-  fraction = fraction.replace(/0+$/, '');
+  if (!trailingZeros || isWholeNumber(a)) fraction = fraction.replace(/0+$/, '');
   return { negative, integer, fraction, exponent: scientific ? exponent : null };
 }
 
-export function formatNumberText(x: number, sig: number): string {
+/** True for a whole number (within 4 ulp of an integer, below 2⁵³): it is written without a fraction. */
+function isWholeNumber(a: number): boolean {
+  if (!(a >= 1) || a >= 2 ** 53) return false;
+  return Math.abs(a - Math.round(a)) <= a * 2 ** -50;
+}
+
+/** The number at `sig` significant figures; `trailingZeros: false` drops the fraction's trailing zeros (axis ticks). */
+export function formatNumberText(x: number, sig: number, options?: { trailingZeros?: boolean }): string {
   if (Number.isNaN(x)) return 'NaN';
   if (!Number.isFinite(x)) return x > 0 ? '∞' : `${MINUS}∞`;
-  const p = numberParts(x, sig);
+  const p = numberParts(x, sig, options?.trailingZeros ?? true);
   const body = group(p.integer, false, THIN) + (p.fraction ? `.${group(p.fraction, true, THIN)}` : '');
   return `${p.negative ? MINUS : ''}${body}${p.exponent !== null ? ` × 10${superscript(String(p.exponent))}` : ''}`;
 }

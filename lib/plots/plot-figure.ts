@@ -142,7 +142,7 @@ function symbolPath(marker: string, size: number, dx: number, dy: number): strin
 
 /** Tick labels the way results are written: U+2212 minus, thin-space groups, × 10ⁿ beyond 10⁶ or below 10⁻³. */
 export function tickText(value: number): string {
-  return formatNumberText(value, 10);
+  return formatNumberText(value, 10, { trailingZeros: false });
 }
 
 /** The x and ct axes of a space-time diagram carry one length unit. */

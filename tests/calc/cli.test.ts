@@ -71,7 +71,8 @@ describe('npm run -s calc -- FILE --json', () => {
     const r = calc(file('table.json', { title: 'Rigidity', cells: [{ kind: 'calc', source: 'B_1 = 1.5 T\nB_1 < 1.8 T' }] }));
     expect(r.code).toBe(0);
     expect(r.stdout).toContain('Rigidity');
-    expect(r.stdout).toMatch(/B_1\s+1\.5 T/);
+    // Six significant figures, trailing zeros kept (SI Brochure 9th ed. §5.4.4; common practice).
+    expect(r.stdout).toMatch(/B_1\s+1\.500\u202f00 T/);
     expect(r.stdout).toMatch(/PASS \(margin 16\.7 % of the limit/);
   });
 });

@@ -77,9 +77,10 @@ describe('parameter sweeps', () => {
 
   it('steps includes the end when it falls on a step, and points spaces n values evenly', () => {
     const r = run(calc('x_s = steps(0 m, 1 m, 0.25 m)\ny_s = steps(0 m, 1 m, 0.3 m)\nz_s = points(1 s, 2 s, 5)'));
-    expect(statement(r, 'x_s').value!.text).toBe('[0, 0.25, 0.5, 0.75, 1] m');
-    expect(statement(r, 'y_s').value!.text).toBe('[0, 0.3, 0.6, 0.9] m');
-    expect(statement(r, 'z_s').value!.text).toBe('[1, 1.25, 1.5, 1.75, 2] s');
+    // Six significant figures with their trailing zeros; whole numbers without a fraction (lib/calc/format.ts).
+    expect(statement(r, 'x_s').value!.text).toBe('[0, 0.250\u202f000, 0.500\u202f000, 0.750\u202f000, 1] m');
+    expect(statement(r, 'y_s').value!.text).toBe('[0, 0.300\u202f000, 0.600\u202f000, 0.900\u202f000] m');
+    expect(statement(r, 'z_s').value!.text).toBe('[1, 1.250\u202f00, 1.500\u202f00, 1.750\u202f00, 2] s');
   });
 });
 

@@ -144,9 +144,10 @@ describe('the content', () => {
     }
     // The engine's own results (a real evaluation), as text beside the formulas.
     expect(whole).toContain('T_kin = 250 MeV');
-    expect(whole).toContain('p = 3.8967 × 10⁻¹⁹ kg·m/s');
+    // Six significant figures, the trailing zero kept (common practice).
+    expect(whole).toContain('p = 3.896 70 × 10⁻¹⁹ kg·m/s');
     expect(whole).toContain('Brho = 2.432 13 T·m');
-    expect(whole).toContain('gamma_L = 1.25');
+    expect(whole).toContain('gamma_L = 1.250 00');
     expect(whole).toContain('beta_p = 0.613 608');
     // The text cell's Markdown as prose (heading, bold, list items), no markup left.
     expect(whole).toContain('Beam transport to gantry 2');
@@ -239,7 +240,7 @@ describe('the formulas', () => {
     }
     expect(whole).not.toMatch(/\\mathrm|\\left|\\frac/);
     // The substituted values appear only inside the typeset formula, never as text.
-    expect(whole).not.toContain('(3.8967');
+    expect(whole).not.toContain('(3.896');
     const calcPage = pages.findIndex((text) => /T_kin = 250 MeV\s+# kinetic energy/.test(text ?? ''));
     expect(calcPage).toBeGreaterThan(0);
     const content = await pageContent(calcPage - 1);
@@ -261,7 +262,8 @@ describe('the formulas', () => {
       text: m[5],
     }));
     const source = words.find((w) => w.text === 'momentumFromKinetic(T_kin,');
-    const result = words.find((w) => w.text === '3.8967' && source && w.yMin > source.yMax);
+    // 3.896 70 × 10⁻¹⁹ (six figures, the trailing zero kept): its first group is a word of its own.
+    const result = words.find((w) => w.text.startsWith('3.896') && source && w.yMin > source.yMax);
     expect(source && result).toBeTruthy();
     const top = source!.yMax + 1;
     const bottom = result!.yMin - 1;

@@ -217,7 +217,8 @@ describe('a sweep table in the issued PDF', () => {
     expect(whole).toContain('Sweep, L4: 4 steps, 1 failed');
     const layout = flat(pages.join('\n'));
     expect(layout).toMatch(/T_kin \(MeV\)\s+Brho \(T·m\)/);
-    expect(layout).toContain('150 1.8343');
+    // Six significant figures, trailing zeros kept (common practice): 1.834 30.
+    expect(layout).toContain('150 1.834 30');
     expect(layout).toContain('−10 Step failed: speedFromKinetic: the kinetic energy must not be negative (got −10 MeV)');
   });
 

@@ -179,8 +179,9 @@ describe('results', () => {
       name: 'Br',
       cellId: 'c1',
       status: 'changed',
-      old: { text: '2.43 T·m', number: 2.43, unit: 'T m', kind: 'quantity', error: null },
-      new: { text: '2.5 T·m', number: 2.5, unit: 'T m', kind: 'quantity', error: null },
+      // Six significant figures with their trailing zeros (common practice).
+      old: { text: '2.430\u202f00 T·m', number: 2.43, unit: 'T m', kind: 'quantity', error: null },
+      new: { text: '2.500\u202f00 T·m', number: 2.5, unit: 'T m', kind: 'quantity', error: null },
       unitChanged: false,
       flipped: false,
     });

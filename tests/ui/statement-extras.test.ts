@@ -86,10 +86,10 @@ describe('a statement with a sweep, a plot, an uncertainty and a citation', () =
     const headers = [...t.querySelectorAll('thead th[scope="col"]')].map((th) => th.textContent);
     expect(headers).toEqual(['T_kinMeV', 'BrhoT·m']);
     const rows = [...t.querySelectorAll('tbody tr')].map((tr) => [...tr.querySelectorAll('td')].map((td) => td.textContent));
-    // Four significant figures, as the sheet asks (lib/calc/format.ts).
-    expect(rows[0]).toEqual(['70', '1.23']);
+    // Four significant figures, as the sheet asks, trailing zeros kept (lib/calc/format.ts; common practice).
+    expect(rows[0]).toEqual(['70', '1.230']);
     expect(rows[1]).toEqual(['−10', 'Step failed: the kinetic energy must not be negative']);
-    expect(rows[2]).toEqual(['250', '2.43']);
+    expect(rows[2]).toEqual(['250', '2.430']);
   });
 
   it('offers the table as CSV at full precision', () => {
@@ -119,7 +119,7 @@ describe('a statement with a sweep, a plot, an uncertainty and a citation', () =
     expect(figure.querySelector('figcaption')!.textContent).toBe('Figure, line 3: Plot of Brho (T·m) against T_kin (MeV): 1 series (protons).');
     const data = [...figure.querySelectorAll('details')].find((d) => d.querySelector('summary')!.textContent === 'Show data')!;
     expect([...data.querySelectorAll('th')].map((th) => th.textContent)).toEqual(['T_kin (MeV)', 'Brho (T·m)']);
-    expect([...data.querySelectorAll('tbody tr')].map((tr) => tr.textContent)).toEqual(['701.23', '2502.43']);
+    expect([...data.querySelectorAll('tbody tr')].map((tr) => tr.textContent)).toEqual(['701.230', '2502.430']);
   });
 });
 
