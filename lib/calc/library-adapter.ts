@@ -38,6 +38,24 @@ export class ArgumentError extends Error {
   }
 }
 
+/**
+ * A plain number given for a charge is a charge number (6 for C⁶⁺, −1 for an electron), so it must be
+ * an integer. Euler's number (a sheet's bare `e`) is the likely slip for the elementary charge and is
+ * named as such: before this check, `magneticRigidity(p, e)` was read as 2.718 elementary charges.
+ */
+function chargeNumber(where: string, value: number): number {
+  if (!Number.isFinite(value)) return value; // refused below as not finite
+  if (value === Math.E) {
+    throw new ArgumentError(`${where}: \`e\` is Euler's number 2.718…; the elementary charge is \`q_e\` (or give the charge number, e.g. 1)`);
+  }
+  if (!Number.isInteger(value)) {
+    throw new ArgumentError(
+      `${where} must be a charge (e.g. 2 q_e, or in C) or an integer charge number (e.g. 6 for C⁶⁺, −1 for an electron); a charge number must be an integer, got the plain number ${value}`,
+    );
+  }
+  return value;
+}
+
 function describe(value: unknown): string {
   if (typeof value === 'number') return String(value);
   if (value && typeof value === 'object' && 'toString' in value) return String(value);
@@ -60,7 +78,7 @@ export function bindLibrary(math: MathJsInstance, library: readonly CalcFunction
     const where = `${fn.name}: argument ${index + 1} (${param.name})`;
     if (typeof value === 'number') {
       if (param.kind === 'number' || param.kind === 'speed' || param.kind === 'angle') return value;
-      if (param.kind === 'charge') return value * E_CHARGE;
+      if (param.kind === 'charge') return chargeNumber(where, value) * E_CHARGE;
       throw new ArgumentError(`${where} must be ${KIND_UNITS[param.kind].label} with a unit; got the plain number ${value}`);
     }
     if (math.isUnit(value)) {

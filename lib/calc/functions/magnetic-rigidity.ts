@@ -23,7 +23,7 @@ export const magneticRigidity: CalcFunction = {
   name: FN,
   params: [
     { name: 'p', kind: 'momentum', description: 'momentum of the particle (a momentum, or pc as an energy)' },
-    { name: 'q', kind: 'charge', description: 'charge of the particle (a charge, or a multiple of e)' },
+    { name: 'q', kind: 'charge', description: 'charge of the particle (a charge such as q_e or 6 q_e, or an integer charge number: 1, 6 for C⁶⁺, −1 for an electron)' },
   ],
   returns: 'rigidity',
   doc: {

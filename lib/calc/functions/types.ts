@@ -12,7 +12,8 @@
  * - energy: an energy → J
  * - momentum: a momentum, or an energy read as pc → kg m/s
  * - time → s; length → m; acceleration → m/s²; voltage → V
- * - charge: a charge, or a plain number read as a multiple of e → C
+ * - charge: a charge, or a plain INTEGER charge number (6 for C⁶⁺, −1 for an electron) → C; any other
+ *   plain number is refused (Euler's number, a sheet's bare `e`, with a pointer to `q_e`)
  * - angle: an angle, or a plain number in radians → rad
  * - number: a plain (dimensionless) number
  */

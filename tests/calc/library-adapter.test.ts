@@ -1,0 +1,84 @@
+// The library as a sheet reaches it: the adapter (lib/calc/library-adapter.ts) between mathjs values
+// and the kernels. Argument kinds (charges), precision carried through composition, plain β in and
+// out, non-finite results refused, and messages that echo the argument as the sheet wrote it.
+// References: 50-digit decimal.js (tests/calc/reference-math.ts) on the exact doubles the kernels
+// receive; physical relations name their source beside them.
+import type { Unit } from 'mathjs';
+import { describe, expect, it } from 'vitest';
+import { createSheetEngine } from '../../lib/calc/sheet-engine';
+import type { CellInput } from '../../lib/calc/types';
+import { D, type Dec, exact, REF_C, REF_E, ulpError } from './reference-math';
+
+const engine = createSheetEngine();
+const math = engine.em.math;
+const lib = math as unknown as Record<string, (...args: unknown[]) => unknown>;
+const constant = (name: string) => engine.em.constants.get(name)!;
+const unit = (text: string) => math.unit(text);
+const si = (u: unknown) => (u as Unit).value as number;
+const cells = (...sources: string[]): CellInput[] => sources.map((source, i) => ({ id: `c${i + 1}`, kind: 'calc', source }));
+const run = (...sources: string[]) => engine.evaluate(cells(...sources), { significantFigures: 6 });
+const thrown = (f: () => unknown): Error => {
+  try {
+    f();
+  } catch (error) {
+    return error as Error;
+  }
+  throw new Error('expected a refusal');
+};
+
+/** 50-digit momentum pc of kinetic energy T for rest mass m (PDG RPP 2024, "Kinematics": E² = p²c² + m²c⁴, E = T + mc²). */
+function momentumRef(T: number, m: number): Dec {
+  const rest = exact(m).mul(REF_C).mul(REF_C);
+  const E = exact(T).plus(rest);
+  return E.mul(E).minus(rest.mul(rest)).sqrt().div(REF_C);
+}
+
+describe('charge arguments', () => {
+  it('refuse Euler’s number where the elementary charge was meant, naming both', () => {
+    // issue 15: `magneticRigidity(momentumFromKinetic(1 GeV, m_p), e)` silently gave 2.718× too little.
+    const r = run('B_rho = magneticRigidity(momentumFromKinetic(1 GeV, m_p), e)');
+    expect(r.cells[0].ok).toBe(false);
+    expect(r.cells[0].error).toContain("`e` is Euler's number 2.718…; the elementary charge is `q_e` (or give the charge number, e.g. 1)");
+    expect(thrown(() => lib.magneticRigidity(unit('1 GeV'), Math.E)).message).toContain('the elementary charge is `q_e`');
+  });
+
+  it('refuse a non-integer charge number, and accept integers of either sign', () => {
+    const message = thrown(() => lib.magneticRigidity(unit('1 GeV'), 1.5)).message;
+    expect(message).toContain('magneticRigidity: argument 2 (q)');
+    expect(message).toContain('a charge number must be an integer, got the plain number 1.5');
+    expect(si(lib.magneticRigidity(unit('1 GeV'), -1))).toBeLessThan(0);
+    expect(si(lib.magneticRigidity(unit('1 GeV'), 6))).toBeCloseTo(si(lib.magneticRigidity(unit('1 GeV'), 1)) / 6, 15);
+  });
+
+  it('gives Bρ = 3.3356 T·m per GeV/c with q_e or the charge number 1 (PDG RPP 2024, "Passage of particles through matter" / "Kinematics": Bρ [T m] = 3.3356 p [GeV/c])', () => {
+    // p = 1 GeV/c, written as the energy pc = 1 GeV (a momentum parameter reads an energy as pc).
+    const p = unit('1 GeV');
+    const reference = exact(si(p)).div(REF_C).div(REF_E); // 50 digits: 1e9/299792458 T·m = 3.33564095198152…
+    expect(reference.toSignificantDigits(5).toString()).toBe('3.3356'); // the PDG coefficient
+    for (const q of [constant('q_e'), 1]) {
+      const brho = lib.magneticRigidity(p, q) as Unit;
+      expect(brho.equalBase(unit('T m'))).toBe(true);
+      expect(ulpError(si(brho), reference)).toBeLessThanOrEqual(1);
+    }
+    // The same momentum in kg m/s.
+    const pSi = exact(si(p)).div(REF_C).toNumber();
+    expect(ulpError(si(lib.magneticRigidity(math.unit(pSi, 'kg m/s'), 1)), exact(pSi).div(REF_E))).toBeLessThanOrEqual(0.5);
+  });
+
+  it('gives Bρ ≈ 5.657 T·m for a proton of kinetic energy 1 GeV (p = 1.696 GeV/c)', () => {
+    // p c = √(T(T + 2 m_p c²)) with m_p c² = 938.272 MeV (CODATA 2022), then PDG's Bρ = 3.3356 p [GeV/c].
+    const T = unit('1 GeV');
+    const mp = constant('m_p');
+    const reference = momentumRef(si(T), si(mp)).div(REF_E);
+    expect(reference.toSignificantDigits(4).toString()).toBe('5.657');
+    for (const q of [constant('q_e'), 1]) {
+      const brho = lib.magneticRigidity(lib.momentumFromKinetic(T, mp), q);
+      // momentumFromKinetic within 0.5 ulp, then one correctly rounded division: within 1.5 ulp.
+      expect(ulpError(si(brho), reference)).toBeLessThanOrEqual(1.5);
+    }
+    const r = run('B_rho = magneticRigidity(momentumFromKinetic(1 GeV, m_p), q_e) to T m');
+    expect(r.cells[0].ok).toBe(true);
+    expect(r.cells[0].statements[0].value?.number).toBeCloseTo(reference.toNumber(), 12);
+    expect(new D(r.cells[0].statements[0].value!.number!).toSignificantDigits(4).toString()).toBe('5.657');
+  });
+});
