@@ -29,6 +29,40 @@ function ReferenceLines({ references }: { references: ResolvedReference[] }) {
   );
 }
 
+/** "`h` here is the hour…": the names between backquotes in the code face, the rest as text. */
+function WarningText({ text }: { text: string }) {
+  return (
+    <>
+      {text.split('`').map((piece, i) =>
+        i % 2 === 1 ? (
+          <code key={i} className="font-mono">
+            <VisibleText text={piece} />
+          </code>
+        ) : (
+          <VisibleText key={i} text={piece} />
+        ),
+      )}
+    </>
+  );
+}
+
+/**
+ * The physics lint's warnings beside a statement (lib/calc/lint.ts): in the caution colours, each
+ * introduced by the word "Warning" (not by colour alone), and distinct from an error's alert.
+ */
+export function StatementWarnings({ line, warnings }: { line: number; warnings: readonly string[] | undefined }) {
+  if (!warnings?.length) return null;
+  return (
+    <ul aria-label={`Warnings, line ${line}`} className="space-y-0.5">
+      {warnings.map((w, i) => (
+        <li key={i} className="rounded border-l-4 border-caution-rule bg-caution-soft px-2 py-1 text-sm text-caution">
+          <span className="font-bold">Warning, line {line}:</span> <WarningText text={w} />
+        </li>
+      ))}
+    </ul>
+  );
+}
+
 /** One statement as a checker reads it: formula, values substituted, result; or its error. Then what it cites, its plot, sweep table and uncertainty budget. */
 export function StatementView({ statement, significantFigures = 6, studyCsv }: { statement: StatementResult; significantFigures?: number; studyCsv?: StudyCsvLink }) {
   const s = statement;
@@ -49,6 +83,7 @@ export function StatementView({ statement, significantFigures = 6, studyCsv }: {
             Line {s.line}: <VisibleText text={s.error} />
           </p>
         ) : null}
+        <StatementWarnings line={s.line} warnings={s.warnings} />
         {references.length ? <ReferenceLines references={references} /> : null}
       </div>
       <div className="text-right sm:min-w-40">

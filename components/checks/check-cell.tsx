@@ -98,6 +98,8 @@ export function CheckCell({
   const kind = cell.kind === 'calc' ? 'calculation' : 'text';
   const status = cell.status === 'changed' && cell.moved ? 'changed and moved' : cell.status;
   const removedResults = changes.filter((r) => r.status === 'removed');
+  // The physics lint's warnings (absent in results stored before they existed: none).
+  const warningCount = cell.status === 'removed' ? 0 : (result?.statements ?? []).reduce((n, s) => n + (s.warnings?.length ?? 0), 0);
   return (
     <article aria-label={`${label} (${cell.id}), ${status}`} className={`rounded border bg-surface p-3 ${result && !result.ok ? 'border-fail' : 'border-rule'}`}>
       <p className="mb-2 flex flex-wrap items-baseline gap-x-2 text-xs">
@@ -105,6 +107,11 @@ export function CheckCell({
         <span className="font-mono text-ink-muted">{cell.id}</span>
         <span className="text-ink-muted">{kind}</span>
         {first ? null : <span className={`rounded px-1.5 py-0.5 font-bold ${STATUS_TONE[cell.status]}`}>{status}</span>}
+        {warningCount ? (
+          <span className="rounded border border-caution-rule bg-caution-soft px-1.5 py-0.5 font-bold text-caution">
+            {warningCount} {warningCount === 1 ? 'warning' : 'warnings'}
+          </span>
+        ) : null}
         {cell.baseKind && cell.baseKind !== cell.kind ? <span className="text-ink-muted">(was a {cell.baseKind === 'calc' ? 'calculation' : 'text'} cell)</span> : null}
       </p>
       {cell.sourceDiff && !first ? (

@@ -1,7 +1,10 @@
 // The command-line evaluator: `npm run -s calc -- FILE [--json]`.
 // With --json it prints one JSON document and nothing else:
 //   {"ok": bool, "values": {NAME: {"value": number|string|boolean, "unit": string|null}},
-//    "cells": [{"index": n, "ok": bool, "error": string|null}]}
+//    "cells": [{"index": n, "ok": bool, "error": string|null, "warnings": [string]}]}
+// `warnings` holds the physics lint's warnings of the cell's statements, each "line N: …" (a name
+// read as a unit or a mathematical constant where a physical constant is likely meant; see
+// lib/calc/lint.ts); they do not change `ok` or the exit code.
 // Exit code 0 when every cell evaluated, 1 when any cell has an error, 2 when the file cannot be
 // read or is not a sheet. It evaluates through the same sandboxed workers as the server.
 import { readFileSync } from 'node:fs';
@@ -16,7 +19,7 @@ const root = path.join(path.dirname(fileURLToPath(import.meta.url)), '..', '..')
 export interface CliOutput {
   ok: boolean;
   values: Record<string, { value: number | string | boolean; unit: string | null }>;
-  cells: Array<{ index: number; ok: boolean; error: string | null }>;
+  cells: Array<{ index: number; ok: boolean; error: string | null; warnings: string[] }>;
 }
 
 export function toCliOutput(result: SheetResult): CliOutput {
@@ -28,7 +31,7 @@ export function toCliOutput(result: SheetResult): CliOutput {
       values[st.name] = { value: v.number ?? (typeof v.raw === 'boolean' || typeof v.raw === 'string' ? v.raw : v.text), unit: v.unit };
     }
   }
-  return { ok: result.ok, values, cells: result.cells.map((c) => ({ index: c.index, ok: c.ok, error: c.error })) };
+  return { ok: result.ok, values, cells: result.cells.map((c) => ({ index: c.index, ok: c.ok, error: c.error, warnings: c.warnings ?? [] })) };
 }
 
 function table(result: SheetResult, title: string): string {
@@ -44,6 +47,7 @@ function table(result: SheetResult, title: string): string {
           ? `${st.criterion.pass ? 'PASS' : 'FAIL'} (${st.criterion.marginText})`
           : (st.value?.text ?? '');
       lines.push(`  ${label.padEnd(28)} ${shown}`);
+      for (const w of st.warnings ?? []) lines.push(`  ${''.padEnd(28)} warning: ${w}`);
     }
   }
   return lines.join('\n');

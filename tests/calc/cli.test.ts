@@ -39,9 +39,26 @@ describe('npm run -s calc -- FILE --json', () => {
     expect(out.values.ok_1).toEqual({ value: true, unit: null });
     expect(out.values.label).toEqual({ value: 'gantry', unit: null });
     expect(out.cells).toEqual([
-      { index: 0, ok: true, error: null },
-      { index: 1, ok: true, error: null },
+      { index: 0, ok: true, error: null, warnings: [] },
+      { index: 1, ok: true, error: null, warnings: [] },
     ]);
+  });
+
+  it('lists the physics lint’s warnings per cell as strings, without changing ok or the exit code', () => {
+    // Issue 15: `h * c / (500 nm)` is a plain number because mathjs's h is the hour (common practice:
+    // dimensional analysis); `hbar` is the hectobar.
+    const f = file('lint.json', { title: 'Photon', cells: [{ kind: 'calc', source: 'E_ph = h * c / (500 nm)\nx_1 = 2\np_1 = hbar * c' }, { kind: 'calc', source: 'E_2 = h_P * c / (500 nm)' }] });
+    const r = calc(f, '--json');
+    expect(r.code).toBe(0);
+    const out = JSON.parse(r.stdout);
+    expect(out.ok).toBe(true);
+    expect(out.cells[0].warnings).toEqual([
+      'line 1: `h` here is the hour (a unit of time); the Planck constant is `h_P`',
+      'line 3: `hbar` here is the hectobar (a unit of pressure, 10⁷ Pa); the reduced Planck constant is `hbar_P` (or `ħ`)',
+    ]);
+    expect(out.cells[1].warnings).toEqual([]);
+    // The readable table shows them under the statement.
+    expect(calc(f).stdout).toContain('warning: `h` here is the hour (a unit of time); the Planck constant is `h_P`');
   });
 
   it('exits 1 and names the error when a cell fails', () => {

@@ -413,6 +413,12 @@ function Statement({ st, typeset }: { st: StatementResult; typeset: Typeset }) {
           <Text style={{ fontWeight: 600, fontSize: 10, marginTop: 1 }}>{result}</Text>
         ) : null}
         {!st.error && st.uncertainty ? <UncertaintyLine uncertainty={st.uncertainty} /> : null}
+        {(st.warnings ?? []).map((w, i) => (
+          // The physics lint's warnings (absent in results stored before they existed: none), in the caution colours and introduced by the word.
+          <Text key={`w${i}`} style={{ color: C.caution, backgroundColor: C.cautionSoft, borderLeftWidth: 2, borderLeftColor: C.cautionRule, paddingHorizontal: 3, paddingVertical: 1, marginTop: 1, fontSize: 8.5 }}>
+            Warning: {shown(w)}
+          </Text>
+        ))}
         {st.references?.length ? <ReferenceLines references={st.references} /> : null}
       </View>
     </View>
@@ -654,6 +660,7 @@ function Evaluation({ data }: { data: RevisionPdfData }) {
   const criteria = statements.filter((st) => st.criterion);
   const passed = criteria.filter((st) => st.criterion?.pass).length;
   const errors = data.version.results.cells.filter((c) => c.kind === 'calc' && !c.ok).length;
+  const warnings = statements.reduce((n, st) => n + (st.warnings?.length ?? 0), 0);
   const field = (label: string, value: string, mono = false) => (
     <View style={{ flexDirection: 'row', marginBottom: 2 }}>
       <Text style={{ width: 130, color: C.muted }}>{label}</Text>
@@ -666,6 +673,7 @@ function Evaluation({ data }: { data: RevisionPdfData }) {
       {field('Constants edition', data.version.constantsEdition)}
       {field('Significant figures shown', String(data.version.content.significantFigures))}
       {field('Statements', `${statements.length} in ${data.version.content.cells.length} cells; ${errors} cell${errors === 1 ? '' : 's'} with errors`)}
+      {field('Warnings', warnings === 0 ? 'none' : `${warnings} (a name read as a unit or a mathematical constant where a physical constant may be meant; shown beside each statement)`)}
       {field('Design criteria', `${criteria.length} (${passed} pass, ${criteria.length - passed} fail)`)}
       <Text style={s.h3} minPresenceAhead={30}>
         Built-in constants used
