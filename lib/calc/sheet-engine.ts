@@ -20,6 +20,7 @@ import { ENGINE_VERSION } from './version';
 import { installSizeGuards, LIMITS } from './limits';
 import { extractUnitLiterals, UNIT_PLACEHOLDER_PREFIX, type UnitLiteral } from './unit-literals';
 import { lintExpression, type LintFinding } from './lint';
+import { nonFiniteReason } from './non-finite';
 import { unitTexOf } from './format';
 import { stripComment } from './references';
 import { studyBindings } from './study-functions';
@@ -757,6 +758,12 @@ export function createSheetEngine(): SheetEngine {
             values.set(st.defines!, scope.get(st.defines!));
           } else {
             value = node.compile().evaluate(scope);
+          }
+          // A non-finite or complex value is an error saying what happened (a definition's dependents
+          // then say they depend on it); criteria, functions, sweeps and plots are not values to check.
+          if ((st.kind === 'definition' || st.kind === 'expression') && !st.study && !st.correlation) {
+            const why = nonFiniteReason(math, st.kind === 'definition' ? (st.uncertain ? node.value!.args![0] : node.value!) : node, scope, value, sig);
+            if (why) throw new Error(why);
           }
           if (st.kind === 'definition' && uncertainties.has(st.defines!)) {
             result.uncertainty = inputUncertainty(math, value, uncertainties.get(st.defines!), sig);

@@ -123,3 +123,62 @@ describe('the reduced Planck constant', () => {
     expect(r.cells[1].statements[0].tex).toContain('\\hbar');
   });
 });
+
+describe('non-finite and complex results', () => {
+  it('refuses ∞ from a division by zero, naming the divisor as written (issue 15: 1/(1 m - 1 m) gave ∞ m)', () => {
+    // Common practice: 1 m − 1 m = 0 m, and x/0 has no finite value.
+    expect(one('w_1 = 1/(1 m - 1 m)').error).toBe('division by zero: the divisor `1 m - 1 m` is zero');
+    expect(one('1 m / 0').error).toBe('division by zero: the divisor `0` is zero');
+    expect(one('0^-1').error).toBe('zero raised to a negative power (−1) is a division by zero: `0 ^ (-1)`');
+  });
+
+  it('refuses a complex length from the square root of a negative quantity (issue 15: sqrt(-4 m^2))', () => {
+    // Common practice: (−4 m²)^(1/2) = 2i m has no real value.
+    expect(one('L_1 = sqrt(-4 m^2)').error).toBe('the square root of a negative quantity (−4 m²) is not real: `sqrt(-4 m^2)`');
+    expect(one('sqrt(-4)').error).toBe('the square root of a negative number (−4) is not real: `sqrt(-4)`');
+    expect(one('x = (-8)^(1/3)').error).toMatch(/^a negative number \(−8\) raised to the non-integer power 0\.333\s?333 is not real: `\(-8\) \^ \(1 \/ 3\)`$/);
+    expect(one('x = log(-1)').error).toBe('the logarithm of a negative number (−1) is not real: `log(-1)`');
+    expect(one('x = log(0)').error).toBe('the logarithm of zero is −∞: `log(0)`');
+    expect(one('x = asin(2)').error).toBe("asin of 2 is outside the function's real domain: `asin(2)`");
+    expect(one('x = 3 * i').error).toBe('`i` is the imaginary unit: a sheet computes real quantities');
+  });
+
+  it('refuses NaN and overflow', () => {
+    // Common practice: 0/0 is undefined (NaN in IEEE 754); 1e308 × 10 exceeds the largest double, about 1.797 69 × 10³⁰⁸ (IEEE 754 binary64).
+    expect(one('x = 0/0').error).toBe('division by zero: the divisor `0` is zero');
+    expect(one('x = 2 * NaN').error).toBe('`NaN` is not a number (NaN)');
+    expect(one('x = Infinity').error).toBe('`Infinity` is infinite');
+    expect(one('x = 1e308 * 10').error).toBe('`1e+308 * 10` overflows: its value (in SI units) is beyond the largest double-precision number, about 1.8 × 10³⁰⁸');
+    // Issue 15: electronWavelength(1e-305 V) gave NaN. Whichever layer catches it (the library's
+    // adapter or this engine check), the statement is an error naming the call.
+    const lib = one('l_2 = electronWavelength(1e-305 V)');
+    expect(lib.value).toBeNull();
+    expect(lib.error).toMatch(/electronWavelength/);
+    // A function of the sheet that divides by zero: the call is named.
+    const r = run('f(x) = 1/x', 'y_1 = f(0)');
+    expect(r.cells[0].ok).toBe(true);
+    expect(r.cells[1].error).toBe('`f(0)` is infinite');
+  });
+
+  it('refuses an element of a list, naming its position', () => {
+    expect(one('v_1 = [1, 1/0]').error).toBe('element 2 of the list: division by zero: the divisor `0` is zero');
+    expect(one('v_1 = [1 m, sqrt(-1 m^2)]').error).toBe('element 2 of the list: the square root of a negative quantity (−1 m²) is not real: `sqrt(-1 m^2)`');
+    expect(one('v_1 = [[1, 2], [3, 0/0]]').error).toMatch(/^element 2, 2 of the list: /);
+  });
+
+  it('makes a definition’s dependents say what they depend on, and leaves the rest of the sheet alone', () => {
+    const r = run('w_1 = 1/(1 m - 1 m)', 'y_1 = 2 * w_1', 'z_1 = 3 m');
+    expect(r.cells[0].error).toBe('division by zero: the divisor `1 m - 1 m` is zero');
+    expect(r.cells[1].error).toBe('depends on `w_1`, which is not available: it has an error in cell 1, line 1');
+    expect(r.cells[2].ok).toBe(true);
+  });
+
+  it('leaves finite real values, booleans, criteria and functions as they were', () => {
+    const r = run('a_1 = 1/(2 m)', 'b_1 = sqrt(4 m^2)', 'c_1 = sqrt(4) > 5', 'f(x) = 1/x', 'd_1 = [1, 2] * 1 m', 'p_1 = 1e308 * 1.5', 'c_2 = 1 m < 2 m');
+    expect(r.ok).toBe(true);
+    expect(r.cells[0].statements[0].value?.number).toBe(0.5);
+    expect(r.cells[1].statements[0].value?.number).toBe(2);
+    expect(r.cells[2].statements[0].value?.raw).toBe(false);
+    expect(r.cells[5].statements[0].value?.number).toBe(1.5e308);
+  });
+});
