@@ -3,6 +3,7 @@ import { FunctionReference } from '@/components/calc/function-reference';
 import { TexMath } from '@/components/calc/tex-math';
 import { CONSTANTS, CONSTANTS_EDITION } from '@/lib/calc/constants';
 import { LIBRARY } from '@/lib/calc/functions';
+import { LINT_EXAMPLES } from '@/lib/calc/lint';
 import { STUDY_FUNCTION_DOCS } from '@/lib/calc/study-functions';
 import { ENGINE_VERSION } from '@/lib/calc/version';
 
@@ -61,6 +62,39 @@ export default function ReferencePage() {
                   </td>
                   <td className="py-2 pr-4 font-mono">{k.uncertainty === 0 ? 'exact' : `${k.uncertainty} ${k.unit}`}</td>
                   <td className="py-2">{k.provenance}</td>
+                </tr>
+              ))}
+            </tbody>
+          </table>
+        </div>
+      </section>
+
+      <section aria-labelledby="lint">
+        <h2 id="lint" className="text-xl font-bold">
+          Warnings: units and numbers that look like constants
+        </h2>
+        <p className="mt-2 max-w-prose text-sm text-ink-muted">
+          Some short names are units or mathematical constants, not physical constants: <code className="font-mono">h</code> is the hour,{' '}
+          <code className="font-mono">hbar</code> the hectobar, <code className="font-mono">g</code> the gram, <code className="font-mono">kB</code> the kilobyte,{' '}
+          <code className="font-mono">e</code> and <code className="font-mono">E</code> Euler&apos;s number. Such a name used by itself (not as a unit after a
+          number, not <code className="font-mono">e</code> as the base of a power) gets a warning beside the statement, in the check view, in the issued PDF and
+          in <code className="font-mono">npm run calc -- --json</code> (<code className="font-mono">cells[].warnings</code>); the statement is still evaluated as
+          written. A sheet that defines the name itself gets no warning.
+        </p>
+        <div className="mt-3 overflow-x-auto">
+          <table className="w-full border-collapse text-sm">
+            <caption className="sr-only">Examples of the warnings</caption>
+            <thead>
+              <tr className="border-b border-rule-strong text-left">
+                <th scope="col" className="py-2 pr-4">Statement</th>
+                <th scope="col" className="py-2">Warning</th>
+              </tr>
+            </thead>
+            <tbody>
+              {LINT_EXAMPLES.map((x) => (
+                <tr key={x.source} className="border-b border-rule align-top">
+                  <td className="py-2 pr-4 font-mono">{x.source}</td>
+                  <td className="py-2">{x.warning ?? 'none'}</td>
                 </tr>
               ))}
             </tbody>

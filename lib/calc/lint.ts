@@ -126,3 +126,17 @@ export function lintExpression(node: MathNode, em: EngineMath): LintFinding[] {
   visit(node as Node, null, null, new Set());
   return [...found].map(([name, message]) => ({ name, message }));
 }
+
+/**
+ * The lint's examples for the function reference (app/reference/page.tsx), each with the warning
+ * it gives (null: none); tests/calc/lint-and-nonfinite.test.ts evaluates every one.
+ */
+export const LINT_EXAMPLES: ReadonlyArray<{ source: string; warning: string | null }> = [
+  { source: 'E_ph = h * c / (500 nm)', warning: '`h` here is the hour (a unit of time); the Planck constant is `h_P`' },
+  { source: 'E_ph = h_P * c / (500 nm) to eV', warning: null },
+  { source: 'x = hbar * c', warning: '`hbar` here is the hectobar (a unit of pressure, 10⁷ Pa); the reduced Planck constant is `hbar_P` (or `ħ`)' },
+  { source: 'U_1 = e * 1 V', warning: '`e` here is Euler’s number 2.718…; the elementary charge is `q_e` (Euler’s number as the base of a power, `e^x`, is fine)' },
+  { source: 'y = e^(-0.5)', warning: null },
+  { source: 'F_w = 70 kg * g', warning: '`g` here is the gram (a unit of mass); the standard acceleration of gravity is `g_n`' },
+  { source: 't_1 = 2 h + 30 min', warning: null },
+];

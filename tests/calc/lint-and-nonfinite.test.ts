@@ -4,7 +4,7 @@
 // a physical reference value names its source beside it.
 import { describe, expect, it } from 'vitest';
 import { CONSTANTS } from '../../lib/calc/constants';
-import { SUSPECT_NAMES } from '../../lib/calc/lint';
+import { LINT_EXAMPLES, SUSPECT_NAMES } from '../../lib/calc/lint';
 import { createSheetEngine } from '../../lib/calc/sheet-engine';
 import type { CellInput } from '../../lib/calc/types';
 import { D, ulpError } from './reference-math';
@@ -88,6 +88,14 @@ describe('the physics lint', () => {
     const later = run('x = h * c', 'h = 2 m');
     expect(later.cells[0].warnings).toEqual([]);
     expect(run('x = h * c').cells[0].warnings).toHaveLength(1);
+  });
+
+  it('gives exactly the documented warning for every example of the function reference', () => {
+    for (const x of LINT_EXAMPLES) {
+      const st = one(x.source);
+      expect(st.error, x.source).toBeNull();
+      expect(st.warnings, x.source).toEqual(x.warning ? [x.warning] : []);
+    }
   });
 
   it('points only at names the engine has: every suggested constant evaluates', () => {
