@@ -3,7 +3,8 @@
 // kernel's result as a mathjs value with its unit.
 import type { MathJsInstance, Unit } from 'mathjs';
 import { C, E_CHARGE } from './constants';
-import { DomainError, type CalcFunction, type ParamKind, type ReturnKind } from './functions/types';
+import { speedValue } from './functions/support/kinematics';
+import { DomainError, type CalcFunction, type KernelArgument, type ParamKind, type PreciseSpeed, type ReturnKind } from './functions/types';
 import type { LibraryBinding } from './math-instance';
 
 /** SI base unit of each physical kind, and the alternative dimension it accepts. */
@@ -18,6 +19,7 @@ const KIND_UNITS: Record<Exclude<ParamKind, 'number'>, { si: string; label: stri
   voltage: { si: 'V', label: 'a voltage' },
   charge: { si: 'C', label: 'a charge' },
   angle: { si: 'rad', label: 'an angle' },
+  rigidity: { si: 'T m', label: 'a magnetic rigidity (T m)' },
 };
 
 const RETURN_UNITS: Record<Exclude<ReturnKind, 'number' | 'speed' | 'pair-time-length'>, string> = {
@@ -73,6 +75,25 @@ export function bindLibrary(math: MathJsInstance, library: readonly CalcFunction
     return u;
   };
 
+  // The precise-speed companions (functions/types.ts, PreciseSpeed) of the speeds this binding has
+  // returned, keyed by the very mathjs object returned, with the SI value it was returned with. The
+  // same object passed back to a speed parameter (directly, or through a sheet's scope or cell cache,
+  // which hold the object itself) reaches the kernel as its companion instead of the rounded β. Any
+  // arithmetic on it (−v, 2v, v to km/s) makes a new object, which has no companion.
+  const companions = new WeakMap<object, { si: number; speed: PreciseSpeed }>();
+  const companionOf = (value: Unit): PreciseSpeed | null => {
+    const entry = companions.get(value);
+    return entry && entry.si === value.value ? entry.speed : null;
+  };
+
+  const toArgument = (fn: CalcFunction, index: number, value: unknown): KernelArgument => {
+    if (fn.params[index].kind === 'speed' && math.isUnit(value)) {
+      const speed = companionOf(value as Unit);
+      if (speed) return speed;
+    }
+    return toNumber(fn, index, value);
+  };
+
   const toNumber = (fn: CalcFunction, index: number, value: unknown): number => {
     const param = fn.params[index];
     const where = `${fn.name}: argument ${index + 1} (${param.name})`;
@@ -115,6 +136,13 @@ export function bindLibrary(math: MathJsInstance, library: readonly CalcFunction
     (u as unknown as { value: number }).value = value;
     return u;
   };
+  const speedResult = (result: PreciseSpeed | number): Unit => {
+    const beta = speedValue(result);
+    const unit = siUnit(beta * C, 'm/s');
+    if (typeof result !== 'number') companions.set(unit, { si: unit.value as number, speed: result });
+    return unit;
+  };
+
   const wrap = (fn: CalcFunction, result: number | [number, number]): unknown => {
     if (fn.returns === 'pair-time-length') {
       const [t, x] = result as [number, number];
@@ -127,17 +155,19 @@ export function bindLibrary(math: MathJsInstance, library: readonly CalcFunction
   };
 
   const scalar = (fn: CalcFunction, args: unknown[]): unknown => {
-    const numbers = args.map((a, i) => toNumber(fn, i, a));
+    const numbers = args.map((a, i) => toArgument(fn, i, a));
     for (const [i, n] of numbers.entries()) {
-      if (!Number.isFinite(n)) throw new DomainError(`${fn.name}: argument ${i + 1} (${fn.params[i].name}) must be finite; got ${n}`);
+      if (typeof n === 'number' && !Number.isFinite(n)) throw new DomainError(`${fn.name}: argument ${i + 1} (${fn.params[i].name}) must be finite; got ${n}`);
     }
+    if (fn.returns === 'speed' && fn.preciseKernel) return speedResult(fn.preciseKernel(...numbers));
     return wrap(fn, fn.kernel(...numbers));
   };
 
   // A vector argument (a column of an input table, or [a, b, c]) applies the function to each
   // element; several vectors must have the same length, and plain values are used for every element.
   const elementwise = (fn: CalcFunction, args: unknown[]): unknown => {
-    const lists = args.map((a) => (math.isMatrix(a) ? (a as { toArray(): unknown[] }).toArray() : Array.isArray(a) ? a : null));
+    // valueOf() gives a matrix's own elements (toArray() would clone them and lose their companions).
+    const lists = args.map((a) => (math.isMatrix(a) ? (a as { valueOf(): unknown[] }).valueOf() : Array.isArray(a) ? a : null));
     let length = -1;
     for (const [i, list] of lists.entries()) {
       if (!list) continue;

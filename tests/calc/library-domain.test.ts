@@ -47,6 +47,11 @@ const VALID: Record<string, number[]> = {
   rindlerHorizonDistance: [G_N],
   synchrotronLossPerTurn: [3e9 * 1.602176634e-19, 7, M_E],
   betaGamma: [0.5],
+  gammaFromKinetic: [250 * MeV, M_P],
+  betaGammaFromMomentum: [1e-18, M_P],
+  speedFromMomentum: [1e-18, M_P],
+  kineticFromMomentum: [1e-18, M_P],
+  kineticFromRigidity: [3.3356, M_P, 1.602176634e-19],
 };
 
 /** Runs the call and returns the DomainError it must throw. */

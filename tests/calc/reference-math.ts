@@ -151,7 +151,26 @@ export const REFERENCES: Record<string, Ref> = {
     const b = exact(v);
     return b.mul(gammaOf(b));
   },
+  gammaFromKinetic: (T, m) => ONE.plus(exact(T).div(exact(m).mul(C2))),
+  betaGammaFromMomentum: (p, m) => exact(p).div(exact(m).mul(REF_C)),
+  speedFromMomentum: (p, m) => speedFromMomentumRef(exact(p), exact(m)),
+  kineticFromMomentum: (p, m) => kineticFromMomentumRef(exact(p), exact(m)),
+  kineticFromRigidity: (Brho, m, q) => kineticFromMomentumRef(exact(Brho).mul(exact(q)).abs(), exact(m)),
 };
+
+/** β = pc/E, E = √(p²c² + m²c⁴) (PDG RPP 2024, "Kinematics"), 50 digits. */
+export function speedFromMomentumRef(p: Dec, m: Dec): Dec {
+  const pc = p.mul(REF_C);
+  const rest = m.mul(C2);
+  return pc.div(pc.mul(pc).plus(rest.mul(rest)).sqrt());
+}
+
+/** T = E − mc², E = √(p²c² + m²c⁴) (PDG RPP 2024, "Kinematics"), 50 digits (the textbook subtraction). */
+export function kineticFromMomentumRef(p: Dec, m: Dec): Dec {
+  const pc = p.mul(REF_C);
+  const rest = m.mul(C2);
+  return pc.mul(pc).plus(rest.mul(rest)).sqrt().minus(rest);
+}
 
 /** One unit in the last place of a double in the binade of the (exact) reference value. */
 export function ulpOf(ref: Dec): Dec {
@@ -251,6 +270,19 @@ export function surveyCases(): Record<string, number[][]> {
   cases.momentumFromKinetic = kinetic;
   cases.timeOfFlight = kinetic.map(([T, m]) => [pick(scales), T, m]);
 
+  cases.gammaFromKinetic = kinetic.filter(([, m]) => m > 0);
+  // Momentum-based: y = βγ = p/(mc) from 1e-12 to 1e12, and massless particles.
+  const momenta = [...logSpace(-12, 12, 240), ...Array.from({ length: 80 }, () => 10 ** (-12 + 24 * rand()))].map((y) => {
+    const m = pick(masses);
+    return [y * m * C_NUM, m];
+  });
+  cases.betaGammaFromMomentum = momenta;
+  cases.speedFromMomentum = momenta;
+  cases.kineticFromMomentum = [...momenta, [1e-18, 0], [3.3e-22, 0]];
+  cases.kineticFromRigidity = momenta.map(([p, m]) => {
+    const z = pick([1, 2, 6, 92, -1, 79]);
+    return [p / (z * 1.602176634e-19), m, z * 1.602176634e-19];
+  });
   cases.magneticRigidity = logSpace(-30, -10, 60).map((p) => [p, pick([1, 2, 6, 92, -1, 79]) * 1.602176634e-19]);
   cases.decayLength = logSpace(-24, -15, 60).map((p) => [p, pick(masses), pick([2.1969811e-6, 2.6033e-8, 1e-12, 880])]);
   cases.electronWavelength = logSpace(-3, 12, 120).map((U) => [U]);

@@ -1,7 +1,8 @@
-import { requireFinite, requireMassiveSpeed } from './support/domain';
-import { dd, div, mul, mulNum, round, scale, sqrt, twoSum } from './support/double-double';
+import { requireFinite } from './support/domain';
+import { dd, mul, mulNum, round, scale } from './support/double-double';
 import { atan2FirstQuadrant, sinCos } from './support/elementary';
-import { type CalcFunction, DomainError } from './types';
+import { dopplerOf, massiveSpeed } from './support/kinematics';
+import { type CalcFunction, DomainError, type KernelArgument } from './types';
 
 const FN = 'aberrationAngle';
 
@@ -52,9 +53,9 @@ export const aberrationAngle: CalcFunction = {
     numerics:
       'The half-angle form is well conditioned at every angle (acos of the cosine form loses digits near 0 and π). θ′/2 = atan2(D·sin(θ/2), cos(θ/2)) with D = √((1 + β)/(1 − β)) from exact 1 ± β, sin and cos by double-double series, and atan2 corrected to double-double; rounded once (within about half an ulp).',
   },
-  kernel: (theta: number, v: number): number => {
-    requireFinite(FN, 'theta', theta);
-    requireMassiveSpeed(FN, 'v', v);
+  kernel: (thetaArg: KernelArgument, v: KernelArgument): number => {
+    const theta = requireFinite(FN, 'theta', thetaArg as number);
+    const speed = massiveSpeed(FN, 'v', v);
     let magnitude = Math.abs(theta);
     if (magnitude > Math.PI) {
       if (magnitude > Math.PI * (1 + PI_ALLOWANCE)) {
@@ -62,7 +63,7 @@ export const aberrationAngle: CalcFunction = {
       }
       magnitude = Math.PI;
     }
-    const doppler = sqrt(div(twoSum(1, v), twoSum(1, -v)));
+    const doppler = dopplerOf(speed);
     let result: number;
     if (magnitude < 2 ** -500) {
       // θ′ = Dθ(1 + O(θ²)): exact to far below an ulp, and safe for subnormal angles, whose half

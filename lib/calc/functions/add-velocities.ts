@@ -1,15 +1,59 @@
-import { keepBelowLight, requireFinite } from './support/domain';
-import { add, div, round, twoProd, twoSum } from './support/double-double';
-import { type CalcFunction, DomainError } from './types';
+import { requireFinite } from './support/domain';
+import { add, type DD, div, mul, round, sub } from './support/double-double';
+import { absDD, betaOf, isPrecise, massiveResult, ONE, oneMinusAbsBeta, preciseFromBeta, speedValue } from './support/kinematics';
+import { type CalcFunction, DomainError, type KernelArgument, type PreciseSpeed } from './types';
 
 const FN = 'addVelocities';
 
-function requireSpeedUpToLight(name: string, beta: number): number {
-  requireFinite(FN, name, beta);
+function requireSpeedUpToLight(name: string, speed: KernelArgument): PreciseSpeed {
+  const beta = requireFinite(FN, name, betaOf(speed));
   if (Math.abs(beta) > 1) {
     throw new DomainError(`${FN}: |β| of ${name} must not exceed 1 (1 is light); got β = ${beta}`);
   }
-  return beta;
+  return isPrecise(speed) ? speed : preciseFromBeta(beta);
+}
+
+const isLight = (s: PreciseSpeed) => s.inverseGamma[0] === 0 && Math.abs(round(s.beta)) === 1;
+
+function precise(uArg: KernelArgument, vArg: KernelArgument): PreciseSpeed | number {
+  const u = requireSpeedUpToLight('u', uArg);
+  const v = requireSpeedUpToLight('v', vArg);
+  const uLight = isLight(u);
+  const vLight = isLight(v);
+  if (uLight || vLight) {
+    const [bu, bv] = [round(u.beta), round(v.beta)];
+    if (uLight && vLight && bu !== bv) {
+      throw new DomainError(`${FN}: light composed with light in the opposite direction is undefined; got β_u = ${bu}, β_v = ${bv}`);
+    }
+    return uLight ? bu : bv;
+  }
+  const a = absDD(u.beta);
+  const b = absDD(v.beta);
+  const sameSign = (u.beta[0] >= 0) === (v.beta[0] >= 0);
+  let numerator: DD;
+  let denominator: DD;
+  if (sameSign) {
+    numerator = add(u.beta, v.beta);
+    denominator = add(ONE, mul(a, b));
+  } else {
+    // Opposite directions: u + v = ±(|u| − |v|) and 1 + uv = 1 − |u||v| both cancel near c; formed
+    // from 1 − |u| and 1 − |v| (exact in double-double, from s near c) they do not:
+    // |u| − |v| = (1 − |v|) − (1 − |u|), and 1 − |u||v| = (1 − |u|) + |u|(1 − |v|).
+    // Plain doubles are exact, so for them (and away from c) the direct forms are exact already.
+    const nearLight = (isPrecise(uArg) || isPrecise(vArg)) && a[0] >= 0.5 && b[0] >= 0.5;
+    let difference: DD;
+    if (nearLight) {
+      const [da, db] = [oneMinusAbsBeta(u), oneMinusAbsBeta(v)];
+      difference = sub(db, da);
+      denominator = add(da, mul(a, db));
+    } else {
+      difference = sub(a, b);
+      denominator = sub(ONE, mul(a, b));
+    }
+    numerator = u.beta[0] >= 0 ? difference : [-difference[0], -difference[1]];
+  }
+  // γ_w = γ_u γ_v (1 + uv) (the composition law of γ), so 1/γ_w = s_u s_v / (1 + uv).
+  return massiveResult(div(numerator, denominator), div(mul(u.inverseGamma, v.inverseGamma), denominator));
 }
 
 /**
@@ -49,19 +93,6 @@ export const addVelocities: CalcFunction = {
     numerics:
       'Numerator (TwoSum) and denominator 1 + β_u β_v (Dekker product) are exact in double-double, so opposite speeds close to c, where 1 + β_u β_v cancels, lose nothing; one double-double division, rounded once (within about half an ulp).',
   },
-  kernel: (u: number, v: number): number => {
-    requireSpeedUpToLight('u', u);
-    requireSpeedUpToLight('v', v);
-    const uLight = Math.abs(u) === 1;
-    const vLight = Math.abs(v) === 1;
-    if (uLight || vLight) {
-      if (uLight && vLight && u !== v) {
-        throw new DomainError(`${FN}: light composed with light in the opposite direction is undefined; got β_u = ${u}, β_v = ${v}`);
-      }
-      return uLight ? u : v;
-    }
-    const numerator = twoSum(u, v);
-    const denominator = add([1, 0], twoProd(u, v));
-    return keepBelowLight(round(div(numerator, denominator)));
-  },
+  kernel: (u: KernelArgument, v: KernelArgument): number => speedValue(precise(u, v)),
+  preciseKernel: precise,
 };

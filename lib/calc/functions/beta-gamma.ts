@@ -1,7 +1,6 @@
-import { requireMassiveSpeed } from './support/domain';
-import { dd, div, round } from './support/double-double';
-import { inverseGamma } from './support/kinematics';
-import type { CalcFunction } from './types';
+import { div, round } from './support/double-double';
+import { massiveSpeed } from './support/kinematics';
+import type { CalcFunction, KernelArgument } from './types';
 
 /**
  * betaGamma(v) — βγ = p/(mc), the reduced momentum of a body moving at v; accurate near c.
@@ -30,5 +29,8 @@ export const betaGamma: CalcFunction = {
     source: 'Particle Data Group, Review of Particle Physics (2024), review "Kinematics" (βγ = p/(mc)); J. D. Jackson, Classical Electrodynamics, 3rd ed. (1999), §11.3.',
     numerics: '1 − β² is formed exactly in double-double (it keeps every digit of 1 − β near c), root and quotient in double-double, rounded once (within about half an ulp).',
   },
-  kernel: (v: number): number => round(div(dd(requireMassiveSpeed('betaGamma', 'v', v)), inverseGamma(v))),
+  kernel: (v: KernelArgument): number => {
+    const speed = massiveSpeed('betaGamma', 'v', v);
+    return round(div(speed.beta, speed.inverseGamma));
+  },
 };

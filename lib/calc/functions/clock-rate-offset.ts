@@ -1,7 +1,6 @@
-import { requireMassiveSpeed } from './support/domain';
-import { add, div, neg, round, twoProd } from './support/double-double';
-import { inverseGamma, ONE } from './support/kinematics';
-import type { CalcFunction } from './types';
+import { add, div, mul, neg, round } from './support/double-double';
+import { massiveSpeed, ONE } from './support/kinematics';
+import type { CalcFunction, KernelArgument } from './types';
 
 /**
  * clockRateOffset(v) — the fractional rate offset 1/γ − 1 of a clock moving at v, as seen from the
@@ -34,8 +33,8 @@ export const clockRateOffset: CalcFunction = {
     numerics:
       '√(1 − β²) − 1 loses every digit at satellite speeds (β ≈ 1e-5 leaves about 6 correct digits, β = 1e-12 none). −β²/(1 + s) has no subtraction; it is evaluated in double-double with 1 − β² exact and rounded once (within about half an ulp).',
   },
-  kernel: (v: number): number => {
-    requireMassiveSpeed('clockRateOffset', 'v', v);
-    return round(neg(div(twoProd(v, v), add(ONE, inverseGamma(v)))));
+  kernel: (v: KernelArgument): number => {
+    const speed = massiveSpeed('clockRateOffset', 'v', v);
+    return round(neg(div(mul(speed.beta, speed.beta), add(ONE, speed.inverseGamma))));
   },
 };

@@ -1,6 +1,7 @@
-import { requireMassiveSpeed } from './support/domain';
-import { div, round, sqrt, twoSum } from './support/double-double';
-import type { CalcFunction } from './types';
+import { finiteResult } from './support/domain';
+import { round } from './support/double-double';
+import { dopplerOf, massiveSpeed } from './support/kinematics';
+import type { CalcFunction, KernelArgument } from './types';
 
 /**
  * dopplerFactor(v) — the ratio f_observed/f_source for a source moving at v along the line of sight,
@@ -31,8 +32,5 @@ export const dopplerFactor: CalcFunction = {
     source: 'A. Einstein, "Zur Elektrodynamik bewegter Körper", Annalen der Physik 17 (1905), §7; J. D. Jackson, Classical Electrodynamics, 3rd ed. (1999), §11.3.',
     numerics: '1 + β and 1 − β are formed exactly (TwoSum), so nothing is lost near β = ±1; quotient and square root in double-double, rounded once (within about half an ulp).',
   },
-  kernel: (v: number): number => {
-    requireMassiveSpeed('dopplerFactor', 'v', v);
-    return round(sqrt(div(twoSum(1, v), twoSum(1, -v))));
-  },
+  kernel: (v: KernelArgument): number => finiteResult('dopplerFactor', round(dopplerOf(massiveSpeed('dopplerFactor', 'v', v)))),
 };

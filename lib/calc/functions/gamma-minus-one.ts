@@ -1,7 +1,6 @@
-import { requireMassiveSpeed } from './support/domain';
 import { round } from './support/double-double';
-import { gammaMinusOne as gammaMinusOneDD } from './support/kinematics';
-import type { CalcFunction } from './types';
+import { gammaMinusOneOf, massiveSpeed } from './support/kinematics';
+import type { CalcFunction, KernelArgument } from './types';
 
 /**
  * gammaMinusOne(v) — γ − 1, with full relative accuracy also for tiny speeds (at β = 1e-12 it is
@@ -33,5 +32,5 @@ export const gammaMinusOne: CalcFunction = {
     numerics:
       'γ − 1 computed as γ minus 1 cancels: at β = 1e-12 every digit is lost. The form β²/(s(1 + s)) has no subtraction; it is evaluated in double-double with 1 − β² formed exactly and rounded once, so it is within about half an ulp from β = 1e-12 up to 1 − β = 1e-16.',
   },
-  kernel: (v: number): number => round(gammaMinusOneDD(requireMassiveSpeed('gammaMinusOne', 'v', v))),
+  kernel: (v: KernelArgument): number => round(gammaMinusOneOf(massiveSpeed('gammaMinusOne', 'v', v))),
 };

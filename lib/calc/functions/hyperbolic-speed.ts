@@ -1,8 +1,18 @@
-import { BELOW_ONE, keepBelowLight, requireFinite, requireNonNegative } from './support/domain';
-import { div, round } from './support/double-double';
+import { BELOW_ONE, requireFinite, requireNonNegative } from './support/domain';
+import { div } from './support/double-double';
 import { hypotOne } from './support/elementary';
-import { hyperbolicParameter } from './support/kinematics';
-import type { CalcFunction } from './types';
+import { hyperbolicParameter, massiveResult, ONE, speedValue } from './support/kinematics';
+import type { CalcFunction, KernelArgument, PreciseSpeed } from './types';
+
+function precise(a0Arg: KernelArgument, tArg: KernelArgument): PreciseSpeed | number {
+  const a0 = requireFinite(FN, 'a0', a0Arg as number);
+  const t = requireNonNegative(FN, 't', tArg as number, 's', 'time since the start from rest');
+  if (Math.abs(a0 * t) > 1e300) return Math.sign(a0) * BELOW_ONE;
+  const w = hyperbolicParameter(a0, t);
+  // β = w/√(1 + w²) and 1/γ = 1/√(1 + w²), both without cancellation.
+  const root = hypotOne(w);
+  return massiveResult(div(w, root), div(ONE, root));
+}
 
 const FN = 'hyperbolicSpeed';
 
@@ -40,11 +50,6 @@ export const hyperbolicSpeed: CalcFunction = {
     source: 'W. Rindler, Relativity: Special, General, and Cosmological, 2nd ed. (2006), ch. 3 (hyperbolic motion); C. W. Misner, K. S. Thorne, J. A. Wheeler, Gravitation (1973), §6.2.',
     numerics: 'w = a0 t/c in double-double; √(1 + w²) is taken as |w|·√(1 + 1/w²) for |w| > 1 so nothing overflows; rounded once (within about half an ulp).',
   },
-  kernel: (a0: number, t: number): number => {
-    requireFinite(FN, 'a0', a0);
-    requireNonNegative(FN, 't', t, 's', 'time since the start from rest');
-    if (Math.abs(a0 * t) > 1e300) return Math.sign(a0) * BELOW_ONE;
-    const w = hyperbolicParameter(a0, t);
-    return keepBelowLight(round(div(w, hypotOne(w))));
-  },
+  kernel: (a0: KernelArgument, t: KernelArgument): number => speedValue(precise(a0, t)),
+  preciseKernel: precise,
 };

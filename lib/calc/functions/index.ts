@@ -2,16 +2,20 @@
 import { aberrationAngle } from './aberration-angle';
 import { addVelocities } from './add-velocities';
 import { betaGamma } from './beta-gamma';
+import { betaGammaFromMomentum } from './beta-gamma-from-momentum';
 import { clockRateOffset } from './clock-rate-offset';
 import { decayLength } from './decay-length';
 import { dopplerFactor } from './doppler-factor';
 import { electronWavelength } from './electron-wavelength';
+import { gammaFromKinetic } from './gamma-from-kinetic';
 import { gammaMinusOne } from './gamma-minus-one';
 import { hyperbolicDistance } from './hyperbolic-distance';
 import { hyperbolicProperTime } from './hyperbolic-proper-time';
 import { hyperbolicSpeed } from './hyperbolic-speed';
 import { invariantMass } from './invariant-mass';
 import { kineticEnergy } from './kinetic-energy';
+import { kineticFromMomentum } from './kinetic-from-momentum';
+import { kineticFromRigidity } from './kinetic-from-rigidity';
 import { lengthContraction } from './length-contraction';
 import { lorentzBoost } from './lorentz-boost';
 import { lorentzFactor } from './lorentz-factor';
@@ -22,6 +26,7 @@ import { rapidity } from './rapidity';
 import { rindlerHorizonDistance } from './rindler-horizon-distance';
 import { rocketDeltaV } from './rocket-delta-v';
 import { speedFromKinetic } from './speed-from-kinetic';
+import { speedFromMomentum } from './speed-from-momentum';
 import { sqrtSCollider } from './sqrt-s-collider';
 import { sqrtSFixedTarget } from './sqrt-s-fixed-target';
 import { synchrotronLossPerTurn } from './synchrotron-loss-per-turn';
@@ -32,21 +37,25 @@ import { transverseCoordinateAcceleration } from './transverse-coordinate-accele
 import type { CalcFunction } from './types';
 
 export { DomainError } from './types';
-export type { CalcFunction, CalcFunctionDoc, ParamDoc, ParamKind, ReturnKind } from './types';
+export type { CalcFunction, CalcFunctionDoc, KernelArgument, ParamDoc, ParamKind, PreciseSpeed, ReturnKind } from './types';
 export {
   aberrationAngle,
   addVelocities,
   betaGamma,
+  betaGammaFromMomentum,
   clockRateOffset,
   decayLength,
   dopplerFactor,
   electronWavelength,
+  gammaFromKinetic,
   gammaMinusOne,
   hyperbolicDistance,
   hyperbolicProperTime,
   hyperbolicSpeed,
   invariantMass,
   kineticEnergy,
+  kineticFromMomentum,
+  kineticFromRigidity,
   lengthContraction,
   lorentzBoost,
   lorentzFactor,
@@ -57,6 +66,7 @@ export {
   rindlerHorizonDistance,
   rocketDeltaV,
   speedFromKinetic,
+  speedFromMomentum,
   sqrtSCollider,
   sqrtSFixedTarget,
   synchrotronLossPerTurn,
@@ -97,4 +107,11 @@ export const LIBRARY: readonly CalcFunction[] = Object.freeze([
   rindlerHorizonDistance,
   synchrotronLossPerTurn,
   betaGamma,
+  // Direct routes from energies, momenta and rigidities (issue 15): exact where composing through a
+  // rounded β would not be (the precise-speed companion makes the compositions exact too).
+  gammaFromKinetic,
+  speedFromMomentum,
+  betaGammaFromMomentum,
+  kineticFromMomentum,
+  kineticFromRigidity,
 ]);

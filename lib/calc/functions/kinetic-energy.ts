@@ -1,7 +1,7 @@
-import { finiteResult, requireMassiveSpeed, requirePositive } from './support/domain';
+import { finiteResult, requirePositive } from './support/domain';
 import { mul, mulNum, round } from './support/double-double';
-import { C_SQUARED, gammaMinusOne } from './support/kinematics';
-import type { CalcFunction } from './types';
+import { C_SQUARED, gammaMinusOneOf, massiveSpeed } from './support/kinematics';
+import type { CalcFunction, KernelArgument } from './types';
 
 const FN = 'kineticEnergy';
 
@@ -38,9 +38,9 @@ export const kineticEnergy: CalcFunction = {
     numerics:
       '(γ − 1) is formed as β²/(s(1 + s)) in double-double (no cancellation), multiplied by m and by c² (exact in double-double) and rounded once: within about half an ulp, and identical to ½mv² to the last digit below β ≈ 1e-8.',
   },
-  kernel: (m: number, v: number): number => {
-    requirePositive(FN, 'm', m, 'kg', 'a body slower than light has mass');
-    requireMassiveSpeed(FN, 'v', v);
-    return finiteResult(FN, round(mul(mulNum(gammaMinusOne(v), m), C_SQUARED)));
+  kernel: (m: KernelArgument, v: KernelArgument): number => {
+    requirePositive(FN, 'm', m as number, 'kg', 'a body slower than light has mass');
+    const speed = massiveSpeed(FN, 'v', v);
+    return finiteResult(FN, round(mul(mulNum(gammaMinusOneOf(speed), m as number), C_SQUARED)));
   },
 };

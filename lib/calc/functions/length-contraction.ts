@@ -1,7 +1,7 @@
-import { requireMassiveSpeed, requireNonNegative } from './support/domain';
+import { finiteResult, requireNonNegative } from './support/domain';
 import { mulNum, round } from './support/double-double';
-import { inverseGamma } from './support/kinematics';
-import type { CalcFunction } from './types';
+import { massiveSpeed } from './support/kinematics';
+import type { CalcFunction, KernelArgument } from './types';
 
 const FN = 'lengthContraction';
 
@@ -36,9 +36,9 @@ export const lengthContraction: CalcFunction = {
     source: 'A. Einstein, "Zur Elektrodynamik bewegter Körper", Annalen der Physik 17 (1905), §4; J. D. Jackson, Classical Electrodynamics, 3rd ed. (1999), §11.3.',
     numerics: '1/γ = √(1 − β²) with 1 − β² formed exactly in double-double, times L0 in double-double, rounded once (within about half an ulp).',
   },
-  kernel: (L0: number, v: number): number => {
-    requireNonNegative(FN, 'L0', L0, 'm', 'a proper length');
-    requireMassiveSpeed(FN, 'v', v);
-    return round(mulNum(inverseGamma(v), L0));
+  kernel: (L0: KernelArgument, v: KernelArgument): number => {
+    requireNonNegative(FN, 'L0', L0 as number, 'm', 'a proper length');
+    const speed = massiveSpeed(FN, 'v', v);
+    return finiteResult(FN, round(mulNum(speed.inverseGamma, L0 as number)));
   },
 };

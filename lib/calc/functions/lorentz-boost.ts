@@ -1,8 +1,8 @@
-import { finiteResult, requireFinite, requireMassiveSpeed } from './support/domain';
-import { dd, div, mul, mulNum, round, sub, twoProd } from './support/double-double';
 import { C } from '../constants';
-import { C_DD, gamma } from './support/kinematics';
-import type { CalcFunction } from './types';
+import { finiteResult, requireFinite } from './support/domain';
+import { dd, div, mul, mulNum, round, sub } from './support/double-double';
+import { C_DD, gammaOfSpeed, massiveSpeed } from './support/kinematics';
+import type { CalcFunction, KernelArgument } from './types';
 
 const FN = 'lorentzBoost';
 
@@ -43,13 +43,13 @@ export const lorentzBoost: CalcFunction = {
     numerics:
       'βx/c and βct come from exact (Dekker) products, the differences t − βx/c and x − βct and γ are formed in double-double, and each coordinate is rounded once: within about half an ulp, unless the coordinate is itself below about 1e-30 of the inputs (an event almost on the light cone), where its absolute error stays below about 1e-32·γ(|t| + |x|/c).',
   },
-  kernel: (t: number, x: number, v: number): [number, number] => {
-    requireFinite(FN, 't', t);
-    requireFinite(FN, 'x', x);
-    requireMassiveSpeed(FN, 'v', v);
-    const g = gamma(v);
-    const tPrime = mul(g, sub(dd(t), div(twoProd(v, x), C_DD)));
-    const xPrime = mul(g, sub(dd(x), mulNum(twoProd(v, t), C)));
+  kernel: (tArg: KernelArgument, xArg: KernelArgument, v: KernelArgument): [number, number] => {
+    const t = requireFinite(FN, 't', tArg as number);
+    const x = requireFinite(FN, 'x', xArg as number);
+    const speed = massiveSpeed(FN, 'v', v);
+    const g = gammaOfSpeed(speed);
+    const tPrime = mul(g, sub(dd(t), div(mul(speed.beta, dd(x)), C_DD)));
+    const xPrime = mul(g, sub(dd(x), mulNum(mul(speed.beta, dd(t)), C)));
     return [finiteResult(FN, round(tPrime)), finiteResult(FN, round(xPrime))];
   },
 };

@@ -1,7 +1,6 @@
-import { requireMassiveSpeed } from './support/domain';
 import { round } from './support/double-double';
-import { gamma } from './support/kinematics';
-import type { CalcFunction } from './types';
+import { gammaOfSpeed, massiveSpeed } from './support/kinematics';
+import type { CalcFunction, KernelArgument } from './types';
 
 /**
  * lorentzFactor(v) — the Lorentz factor γ of a body moving at speed v.
@@ -33,5 +32,5 @@ export const lorentzFactor: CalcFunction = {
     numerics:
       '1 − β² is formed exactly in double-double arithmetic (Dekker product of β with itself, TwoSum with 1), then the square root and reciprocal are taken in double-double and the result is rounded once: within about half an ulp from β = 1e-12 to 1 − β = 1e-16. The textbook 1 − β·β in doubles loses every digit of 1 − β² near c.',
   },
-  kernel: (v: number): number => round(gamma(requireMassiveSpeed('lorentzFactor', 'v', v))),
+  kernel: (v: KernelArgument): number => round(gammaOfSpeed(massiveSpeed('lorentzFactor', 'v', v))),
 };

@@ -1,7 +1,7 @@
-import { finiteResult, requireFinite, requireMassiveSpeed } from './support/domain';
+import { finiteResult, requireFinite } from './support/domain';
 import { mul, mulNum, round } from './support/double-double';
-import { inverseGamma, oneMinusBetaSquared } from './support/kinematics';
-import type { CalcFunction } from './types';
+import { massiveSpeed, oneMinusBetaSquaredOf } from './support/kinematics';
+import type { CalcFunction, KernelArgument } from './types';
 
 const FN = 'properToCoordinateAcceleration';
 
@@ -37,10 +37,9 @@ export const properToCoordinateAcceleration: CalcFunction = {
     source: 'W. Rindler, Relativity: Special, General, and Cosmological, 2nd ed. (2006), ch. 3 (transformation of acceleration, proper acceleration); J. D. Jackson, Classical Electrodynamics, 3rd ed. (1999), ch. 11.',
     numerics: '1/γ³ = (1 − β²)·√(1 − β²) with 1 − β² formed exactly in double-double, times a0, rounded once (within about half an ulp).',
   },
-  kernel: (a0: number, v: number): number => {
-    requireFinite(FN, 'a0', a0);
-    requireMassiveSpeed(FN, 'v', v);
-    const d = oneMinusBetaSquared(v);
-    return finiteResult(FN, round(mulNum(mul(d, inverseGamma(v)), a0)));
+  kernel: (a0: KernelArgument, v: KernelArgument): number => {
+    requireFinite(FN, 'a0', a0 as number);
+    const speed = massiveSpeed(FN, 'v', v);
+    return finiteResult(FN, round(mulNum(mul(oneMinusBetaSquaredOf(speed), speed.inverseGamma), a0 as number)));
   },
 };

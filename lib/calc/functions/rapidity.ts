@@ -1,7 +1,6 @@
-import { requireMassiveSpeed } from './support/domain';
 import { round } from './support/double-double';
-import { atanh } from './support/elementary';
-import type { CalcFunction } from './types';
+import { massiveSpeed, rapidityOf } from './support/kinematics';
+import type { CalcFunction, KernelArgument } from './types';
 
 /**
  * rapidity(v) — the rapidity η = atanh β of a body moving at speed v; rapidities of collinear
@@ -33,5 +32,5 @@ export const rapidity: CalcFunction = {
     numerics:
       'Evaluated in double-double: the odd series β + β³/3 + … below |β| = 0.01, ½ log1p(2β/(1 − β)) above it with 1 − β formed exactly (a Newton step on a double-double exponential gives the logarithm). Rounded once: within about half an ulp up to 1 − β = 1e-16.',
   },
-  kernel: (v: number): number => round(atanh(requireMassiveSpeed('rapidity', 'v', v))),
+  kernel: (v: KernelArgument): number => round(rapidityOf(massiveSpeed('rapidity', 'v', v))),
 };

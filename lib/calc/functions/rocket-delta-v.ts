@@ -1,7 +1,29 @@
-import { BELOW_ONE, keepBelowLight, requireFinite } from './support/domain';
-import { add, div, dd, mulNum, round, scale, twoSum } from './support/double-double';
+import { BELOW_ONE, requireFinite } from './support/domain';
+import { add, div, dd, mul, round, scale, sqrt, twoSum } from './support/double-double';
 import { expm1, log1p } from './support/elementary';
-import { type CalcFunction, DomainError } from './types';
+import { isPrecise, massiveResult, speedValue } from './support/kinematics';
+import { type CalcFunction, DomainError, type KernelArgument, type PreciseSpeed } from './types';
+
+function precise(veArg: KernelArgument, RArg: KernelArgument): PreciseSpeed | number {
+  const veDD = isPrecise(veArg) ? veArg.beta : dd(veArg);
+  const ve = requireFinite(FN, 've', round(veDD));
+  const R = requireFinite(FN, 'R', RArg as number);
+  if (!(ve >= 0 && ve <= 1)) {
+    throw new DomainError(`${FN}: the exhaust speed must satisfy 0 ≤ β_e ≤ 1; got β_e = ${ve}`);
+  }
+  if (!(R >= 1)) {
+    throw new DomainError(`${FN}: the mass ratio R = initial/final mass must be at least 1; got R = ${R}`);
+  }
+  if (ve === 0 || R === 1) return 0;
+  const twiceRapidity = scale(mul(log1p(twoSum(R, -1)), veDD), 2);
+  // Beyond 2η = 700, e^(2η) leaves the double range: β is returned as the largest double below 1
+  // (beyond 2η = 40 it rounds there anyway), without a companion.
+  if (twiceRapidity[0] > 700) return BELOW_ONE;
+  const E = expm1(twiceRapidity);
+  const E2 = add(E, dd(2));
+  // Δβ = tanh η = E/(E + 2) and 1/γ = 1/cosh η = 2√(E + 1)/(E + 2), E = e^(2η) − 1: no subtraction.
+  return massiveResult(div(E, E2), div(scale(sqrt(add(E, dd(1))), 2), E2));
+}
 
 const FN = 'rocketDeltaV';
 
@@ -41,20 +63,6 @@ export const rocketDeltaV: CalcFunction = {
     numerics:
       'ln R = log1p(R − 1) with R − 1 formed exactly, times β_e, and expm1 of twice that, all in double-double (Taylor series and doublings that keep relative accuracy near 0); Δβ = E/(E + 2) has no subtraction. Rounded once (within about half an ulp).',
   },
-  kernel: (ve: number, R: number): number => {
-    requireFinite(FN, 've', ve);
-    requireFinite(FN, 'R', R);
-    if (!(ve >= 0 && ve <= 1)) {
-      throw new DomainError(`${FN}: the exhaust speed must satisfy 0 ≤ β_e ≤ 1; got β_e = ${ve}`);
-    }
-    if (!(R >= 1)) {
-      throw new DomainError(`${FN}: the mass ratio R = initial/final mass must be at least 1; got R = ${R}`);
-    }
-    if (ve === 0 || R === 1) return 0;
-    const twiceRapidity = scale(mulNum(log1p(twoSum(R, -1)), ve), 2);
-    // Beyond 2η = 40, 1 − Δβ = 2/(E + 2) < 1e-17: Δβ rounds to 1.
-    if (twiceRapidity[0] > 40) return BELOW_ONE;
-    const E = expm1(twiceRapidity);
-    return keepBelowLight(round(div(E, add(E, dd(2)))));
-  },
+  kernel: (ve: KernelArgument, R: KernelArgument): number => speedValue(precise(ve, R)),
+  preciseKernel: precise,
 };

@@ -1,7 +1,19 @@
-import { keepBelowLight, requireNonNegative } from './support/domain';
-import { div, dd, round } from './support/double-double';
-import { betaFromKineticRatio, restEnergy } from './support/kinematics';
-import { type CalcFunction, DomainError } from './types';
+import { requireNonNegative } from './support/domain';
+import { add, div, dd } from './support/double-double';
+import { betaFromKineticRatio, massiveResult, ONE, restEnergy, speedValue } from './support/kinematics';
+import { type CalcFunction, DomainError, type KernelArgument, type PreciseSpeed } from './types';
+
+function precise(TArg: KernelArgument, mArg: KernelArgument): PreciseSpeed | number {
+  const T = requireNonNegative(FN, 'T', TArg as number, 'J', 'a kinetic energy');
+  const m = requireNonNegative(FN, 'm', mArg as number, 'kg', 'a rest mass');
+  if (m === 0) {
+    if (T === 0) throw new DomainError(`${FN}: the speed of a massless particle with no energy is undefined; got T = 0 J, m = 0 kg`);
+    return { beta: [1, 0], inverseGamma: [0, 0] };
+  }
+  const x = div(dd(T), restEnergy(m));
+  // β = √(x(x + 2))/(x + 1) and 1/γ = 1/(1 + x): the companion keeps γ exactly as T/mc² gives it.
+  return massiveResult(betaFromKineticRatio(x), div(ONE, add(x, ONE)));
+}
 
 const FN = 'speedFromKinetic';
 
@@ -41,14 +53,6 @@ export const speedFromKinetic: CalcFunction = {
     numerics:
       'x = T/(mc²) is formed in double-double; β = √(x(x + 2))/(x + 1) has no subtraction (the textbook √(1 − 1/γ²) loses every digit at small T), and is evaluated in double-double and rounded once (within about half an ulp).',
   },
-  kernel: (T: number, m: number): number => {
-    requireNonNegative(FN, 'T', T, 'J', 'a kinetic energy');
-    requireNonNegative(FN, 'm', m, 'kg', 'a rest mass');
-    if (m === 0) {
-      if (T === 0) throw new DomainError(`${FN}: the speed of a massless particle with no energy is undefined; got T = 0 J, m = 0 kg`);
-      return 1;
-    }
-    const x = div(dd(T), restEnergy(m));
-    return keepBelowLight(round(betaFromKineticRatio(x)));
-  },
+  kernel: (T: KernelArgument, m: KernelArgument): number => speedValue(precise(T, m)),
+  preciseKernel: precise,
 };

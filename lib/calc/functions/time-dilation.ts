@@ -1,7 +1,7 @@
-import { requireMassiveSpeed, requireNonNegative, finiteResult } from './support/domain';
+import { finiteResult, requireNonNegative } from './support/domain';
 import { mulNum, round } from './support/double-double';
-import { gamma } from './support/kinematics';
-import type { CalcFunction } from './types';
+import { gammaOfSpeed, massiveSpeed } from './support/kinematics';
+import type { CalcFunction, KernelArgument } from './types';
 
 const FN = 'timeDilation';
 
@@ -36,9 +36,9 @@ export const timeDilation: CalcFunction = {
     source: 'A. Einstein, "Zur Elektrodynamik bewegter Körper", Annalen der Physik 17 (1905), §4; J. D. Jackson, Classical Electrodynamics, 3rd ed. (1999), §11.3.',
     numerics: 'γ is formed in double-double with 1 − β² exact, multiplied by Δτ in double-double and rounded once (within about half an ulp).',
   },
-  kernel: (dtau: number, v: number): number => {
-    requireNonNegative(FN, 'dtau', dtau, 's', 'an elapsed proper time');
-    requireMassiveSpeed(FN, 'v', v);
-    return finiteResult(FN, round(mulNum(gamma(v), dtau)));
+  kernel: (dtau: KernelArgument, v: KernelArgument): number => {
+    requireNonNegative(FN, 'dtau', dtau as number, 's', 'an elapsed proper time');
+    const speed = massiveSpeed(FN, 'v', v);
+    return finiteResult(FN, round(mulNum(gammaOfSpeed(speed), dtau as number)));
   },
 };

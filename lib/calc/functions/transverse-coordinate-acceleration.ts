@@ -1,7 +1,7 @@
-import { finiteResult, requireFinite, requireMassiveSpeed } from './support/domain';
+import { finiteResult, requireFinite } from './support/domain';
 import { mulNum, round } from './support/double-double';
-import { oneMinusBetaSquared } from './support/kinematics';
-import type { CalcFunction } from './types';
+import { massiveSpeed, oneMinusBetaSquaredOf } from './support/kinematics';
+import type { CalcFunction, KernelArgument } from './types';
 
 const FN = 'transverseCoordinateAcceleration';
 
@@ -37,9 +37,9 @@ export const transverseCoordinateAcceleration: CalcFunction = {
     source: 'W. Rindler, Relativity: Special, General, and Cosmological, 2nd ed. (2006), ch. 3 (transformation of acceleration); J. D. Jackson, Classical Electrodynamics, 3rd ed. (1999), ch. 11.',
     numerics: '1 − β² is formed exactly in double-double (the textbook 1 − β·β loses it near c), times a0, rounded once (within about half an ulp).',
   },
-  kernel: (a0: number, v: number): number => {
-    requireFinite(FN, 'a0', a0);
-    requireMassiveSpeed(FN, 'v', v);
-    return finiteResult(FN, round(mulNum(oneMinusBetaSquared(v), a0)));
+  kernel: (a0: KernelArgument, v: KernelArgument): number => {
+    requireFinite(FN, 'a0', a0 as number);
+    const speed = massiveSpeed(FN, 'v', v);
+    return finiteResult(FN, round(mulNum(oneMinusBetaSquaredOf(speed), a0 as number)));
   },
 };

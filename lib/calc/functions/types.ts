@@ -15,6 +15,7 @@
  * - charge: a charge, or a plain INTEGER charge number (6 for C⁶⁺, −1 for an electron) → C; any other
  *   plain number is refused (Euler's number, a sheet's bare `e`, with a pointer to `q_e`)
  * - angle: an angle, or a plain number in radians → rad
+ * - rigidity: a magnetic rigidity Bρ (T m, or anything of that dimension, such as momentum/charge) → T m
  * - number: a plain (dimensionless) number
  */
 export type ParamKind =
@@ -28,6 +29,7 @@ export type ParamKind =
   | 'voltage'
   | 'charge'
   | 'angle'
+  | 'rigidity'
   | 'number';
 
 /**
@@ -73,12 +75,39 @@ export interface CalcFunctionDoc {
   numerics?: string;
 }
 
+/**
+ * A speed carried with more precision than its double β: β and s = 1/γ = √(1 − β²), each as a
+ * double-double [hi, lo] (about 106 bits). Near c the double β keeps almost nothing of 1 − β (at
+ * γ = 3e6 it rounds to within a few ulp of 1, so γ from it is off by 3e-4 relative); s keeps it
+ * all. The speed functions produce one beside their double result (`preciseKernel`), the adapter
+ * keeps it with the mathjs value it returns, and hands it back, instead of the double β, when that
+ * same value is passed to a speed parameter (see lib/calc/README.md, "The precise-speed companion").
+ * Light is β = ±1 with s = 0.
+ */
+export interface PreciseSpeed {
+  readonly beta: readonly [number, number];
+  readonly inverseGamma: readonly [number, number];
+}
+
+/** What a kernel receives for one parameter: an SI number, or, for a `speed` parameter, a PreciseSpeed. */
+export type KernelArgument = number | PreciseSpeed;
+
 export interface CalcFunction {
   name: string;
   params: ParamDoc[];
   returns: ReturnKind;
   doc: CalcFunctionDoc;
-  kernel: (...args: number[]) => number | [number, number];
+  /**
+   * The numeric kernel on SI numbers. A `speed` parameter receives β as a number, or a PreciseSpeed
+   * (every kernel with a speed parameter accepts both, and is at least as accurate with the latter);
+   * all other parameters receive numbers.
+   */
+  kernel(...args: KernelArgument[]): number | [number, number];
+  /**
+   * Only for `returns: 'speed'`: the result with its precise companion (or a plain β where none can
+   * be formed). `kernel(...)` is always the double β of this result, below 1 unless it is light.
+   */
+  preciseKernel?(...args: KernelArgument[]): PreciseSpeed | number;
 }
 
 export class DomainError extends Error {

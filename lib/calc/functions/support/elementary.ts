@@ -71,7 +71,7 @@ export function log1p(u: DD): DD {
 }
 
 /** z + z³/3 + z⁵/5 + … for |z| ≤ 0.01 (at most 12 terms reach 1e-48 relative). */
-function atanhSeries(z: DD): DD {
+export function atanhSeries(z: DD): DD {
   const z2 = mul(z, z);
   let power = z;
   let sum = z;
