@@ -12,6 +12,7 @@ import { tags, type Tag } from '@lezer/highlight';
 import { tokens } from '../../tailwind.config';
 import { CONSTANTS } from './constants';
 import { LIBRARY } from './functions';
+import { readUnitExpression } from './unit-literals';
 
 const PREFIXES = {
   none: [''],
@@ -29,7 +30,7 @@ export const UNIT_TABLE: Readonly<Record<PrefixSet, readonly string[]>> = {
   short: ['m', 'L', 'l', 'g', 'ton', 't', 's', 'Hz', 'rad', 'deg', 'grad', 'A', 'K', 'degC', 'degF', 'degR', 'mol', 'cd', 'N', 'dyn', 'J', 'Wh', 'eV', 'W', 'VAR', 'VA', 'Pa', 'C', 'Ah', 'F', 'V', 'H', 'S', 'Wb', 'T', 'lt', 'tons', 'Da', 'dalton', 'pc', 'parsec', 'm2', 'm3'],
   long: ['meter', 'litre', 'gram', 'tonne', 'second', 'sec', 'hertz', 'radian', 'degree', 'gradian', 'ampere', 'kelvin', 'celsius', 'fahrenheit', 'rankine', 'mole', 'candela', 'newton', 'dyne', 'kip', 'joule', 'electronvolt', 'watt', 'coulomb', 'farad', 'volt', 'henry', 'siemens', 'weber', 'tesla', 'meters', 'litres', 'liter', 'liters', 'grams', 'tonnes', 'kips', 'seconds', 'secs', 'radians', 'degrees', 'gradians', 'watts', 'joules', 'amperes', 'amps', 'amp', 'coulombs', 'volts', 'farads', 'webers', 'teslas', 'electronvolts', 'moles'],
   shortLong: ['erg', 'bar', 'ohm', 'ohms'],
-  none: ['inch', 'foot', 'yard', 'mile', 'link', 'rod', 'chain', 'angstrom', 'in', 'ft', 'yd', 'mi', 'li', 'rd', 'ch', 'mil', 'sqin', 'sqft', 'sqyd', 'sqmi', 'sqrd', 'sqch', 'sqmil', 'acre', 'hectare', 'cuin', 'cuft', 'cuyd', 'teaspoon', 'tablespoon', 'drop', 'gtt', 'minim', 'fluiddram', 'fluidounce', 'gill', 'cc', 'cup', 'pint', 'quart', 'gallon', 'beerbarrel', 'oilbarrel', 'hogshead', 'grain', 'dram', 'ounce', 'poundmass', 'hundredweight', 'stick', 'stone', 'gr', 'dr', 'oz', 'lbm', 'cwt', 'min', 'h', 'minute', 'hour', 'day', 'week', 'month', 'year', 'decade', 'century', 'millennium', 'cycle', 'arcsec', 'arcmin', 'lbf', 'poundforce', 'kilogramforce', 'hp', 'psi', 'atm', 'torr', 'mmHg', 'mmH2O', 'cmH2O', 'inches', 'feet', 'yards', 'miles', 'links', 'rods', 'chains', 'angstroms', 'teaspoons', 'tablespoons', 'minims', 'fldr', 'fluiddrams', 'floz', 'fluidounces', 'gi', 'gills', 'cp', 'cups', 'pt', 'pints', 'qt', 'quarts', 'gal', 'gallons', 'bbl', 'beerbarrels', 'obl', 'oilbarrels', 'hogsheads', 'gtts', 'grains', 'drams', 'ounces', 'poundmasses', 'hundredweights', 'sticks', 'lb', 'lbs', 'kgf', 'acres', 'hectares', 'sqfeet', 'sqyard', 'sqmile', 'sqmiles', 'mmhg', 'mmh2o', 'cmh2o', 'minutes', 'mins', 'hours', 'hr', 'hrs', 'days', 'weeks', 'months', 'years', 'decades', 'centuries', 'millennia', 'cycles', 'arcsecond', 'arcseconds', 'arcminute', 'arcminutes', 'au', 'astronomicalunit', 'ly', 'lightyear'],
+  none: ['inch', 'foot', 'yard', 'mile', 'link', 'rod', 'chain', 'angstrom', 'in', 'ft', 'yd', 'mi', 'li', 'rd', 'ch', 'mil', 'sqin', 'sqft', 'sqyd', 'sqmi', 'sqrd', 'sqch', 'sqmil', 'acre', 'hectare', 'cuin', 'cuft', 'cuyd', 'teaspoon', 'tablespoon', 'drop', 'gtt', 'minim', 'fluiddram', 'fluidounce', 'gill', 'cc', 'cup', 'pint', 'quart', 'gallon', 'beerbarrel', 'oilbarrel', 'hogshead', 'grain', 'dram', 'ounce', 'poundmass', 'hundredweight', 'stick', 'stone', 'gr', 'dr', 'oz', 'lbm', 'cwt', 'min', 'h', 'minute', 'hour', 'day', 'week', 'month', 'year', 'decade', 'century', 'millennium', 'cycle', 'arcsec', 'arcmin', 'lbf', 'poundforce', 'kilogramforce', 'hp', 'psi', 'atm', 'torr', 'mmHg', 'mmH2O', 'cmH2O', 'inches', 'feet', 'yards', 'miles', 'links', 'rods', 'chains', 'angstroms', 'teaspoons', 'tablespoons', 'minims', 'fldr', 'fluiddrams', 'floz', 'fluidounces', 'gi', 'gills', 'cp', 'cups', 'pt', 'pints', 'qt', 'quarts', 'gal', 'gallons', 'bbl', 'beerbarrels', 'obl', 'oilbarrels', 'hogsheads', 'gtts', 'grains', 'drams', 'ounces', 'poundmasses', 'hundredweights', 'sticks', 'lb', 'lbs', 'kgf', 'acres', 'hectares', 'sqfeet', 'sqyard', 'sqmile', 'sqmiles', 'mmhg', 'mmh2o', 'cmh2o', 'minutes', 'mins', 'hours', 'hr', 'hrs', 'days', 'weeks', 'months', 'years', 'decades', 'centuries', 'millennia', 'cycles', 'arcsecond', 'arcseconds', 'arcminute', 'arcminutes', 'au', 'astronomicalunit', 'ly', 'lightyear', 'u', 'yr', 'a', 'ppm', 'ppb'],
   btu: ['BTU', 'BTUs'],
   binaryShort: ['b', 'B'],
   binaryLong: ['bits', 'bytes', 'bit', 'byte'],
@@ -59,34 +60,14 @@ export const CONSTANT_NAMES: ReadonlySet<string> = new Set([
 export const KEYWORDS: ReadonlySet<string> = new Set(['to', 'in', 'and', 'or', 'not', 'xor', 'mod']);
 
 const IDENT = /[A-Za-z_][A-Za-z0-9_]*/y;
-const POWER = /\^\s*(?:-?\d+(?:\.\d+)?|\(\s*-?\d+(?:\.\d+)?\s*\))/y;
 const NUMBER = /(?:\d+\.?\d*|\.\d+)(?:[eE][+-]?\d+)?/;
 const COMPARISON = /^(?:<=|>=|==|!=|<|>|≤|≥|≠)/;
 const OPERATOR = /^(?:\+\/-|±|\.\*|\.\/|\.\^|[-+*/^%!=:'?|&~])/;
 
 /** The end of a unit expression starting at `start` (the rule of unit-literals.ts), or `start`. */
 export function unitExpressionEnd(line: string, start: number, spaced: boolean, isUnit: (name: string) => boolean = isUnitName): number {
-  let i = start;
-  let end = start;
-  for (;;) {
-    IDENT.lastIndex = i;
-    const m = IDENT.exec(line);
-    if (!m || !isUnit(m[0])) return end;
-    i += m[0].length;
-    end = i;
-    POWER.lastIndex = i;
-    const p = POWER.exec(line);
-    if (p) {
-      i += p[0].length;
-      end = i;
-    }
-    let j = i;
-    if (spaced) while (line[j] === ' ' || line[j] === '\t') j++;
-    if (line[j] !== '*' && line[j] !== '/') return end;
-    j++;
-    if (spaced) while (line[j] === ' ' || line[j] === '\t') j++;
-    i = j;
-  }
+  // The engine's own reader: the same units, `MeV/c` and `MeV/c^2`, and `u`/`a` not after a number.
+  return readUnitExpression(line, start, isUnit, spaced);
 }
 
 /** The kinds of token the tokenizer gives; each has a highlighting tag and a style. */

@@ -4,6 +4,7 @@
 // half-high dot, quotients with a solidus.
 import type { MathJsInstance, Unit } from 'mathjs';
 import type { DisplayValue } from './types';
+import { cancelLikeUnits, displayUnitsOf, tradeDisplay } from './display-units';
 
 const THIN = '\u202f';
 const MINUS = '\u2212';
@@ -88,7 +89,8 @@ function unitParts(unit: Unit): UnitPart[] {
   return units.map((u) => ({ name: `${u.prefix.name}${u.unit.name}`, power: u.power }));
 }
 
-const UPRIGHT_TEX: Record<string, string> = { deg: '^{\\circ}', ohm: '\\Omega', micro: '\\mu' };
+// `c` in GeV/c and MeV/c² is the speed of light, written as the quantity symbol (PDG RPP).
+const UPRIGHT_TEX: Record<string, string> = { deg: '^{\\circ}', ohm: '\\Omega', micro: '\\mu', c: 'c' };
 
 function unitNameTex(name: string): string {
   if (UPRIGHT_TEX[name]) return UPRIGHT_TEX[name];
@@ -141,11 +143,18 @@ function partsOf(math: MathJsInstance, unitString: string): UnitPart[] {
  * Splits a mathjs quantity into the number and unit it is displayed in (simplified, with the best
  * prefix, as mathjs chooses), keeping the number at full double precision.
  */
-export function quantityParts(math: MathJsInstance, unit: Unit): { number: number; unitString: string; parts: UnitPart[] } {
+export function quantityParts(math: MathJsInstance, written: Unit): { number: number; unitString: string; parts: UnitPart[] } {
+  const fixed = (written as unknown as { fixPrefix?: boolean }).fixPrefix;
+  // Factors of one unit that cancel go (MeV·T·m/MeV is T·m), unless `to` asked for that unit.
+  const unit = fixed ? written : cancelLikeUnits(written);
+  // The trade's units, where the sheet asks for them (lib/calc/display-units.ts).
+  if (displayUnitsOf(math) === 'trade') {
+    const t = tradeDisplay(math, unit);
+    if (t) return { ...t, parts: partsOf(math, t.unitString) };
+  }
   // A mass stays in kilograms unless the sheet asked for another unit with `to`: mathjs's choice of
   // the "best" prefix would show the proton mass in yoctograms.
-  const fixed = (unit as unknown as { fixPrefix?: boolean }).fixPrefix;
-  if (!fixed && unit.equalBase(kilogram(math))) {
+  if (!fixed && unit.equalBase(kilogram(math)) && !writtenAsAtomicMass(unit)) {
     const kg = unit.value as number;
     if (Math.abs(kg) < 1e3) return { number: kg, unitString: 'kg', parts: [{ name: 'kg', power: 1 }] };
   }
@@ -159,6 +168,12 @@ export function quantityParts(math: MathJsInstance, unit: Unit): { number: numbe
   const number = simp._denormalize(simp.value) as number;
   const unitString = simp.formatUnits();
   return { number, unitString, parts: unitParts(simp as unknown as Unit) };
+}
+
+/** A mass the author wrote in MeV/c², u or Da: shown so, not in kilograms. */
+function writtenAsAtomicMass(unit: Unit): boolean {
+  const u = unit as unknown as InternalUnit;
+  return u.skipAutomaticSimplification && u.units.some((f) => f.unit.name === 'c' || f.unit.name === 'u' || f.unit.name === 'Da');
 }
 
 /** The parts of mathjs's Unit that its own format() uses. */

@@ -52,7 +52,20 @@ export const NEW_UNITS: ReadonlyArray<{ name: string; definition: string; aliase
   { name: 'au', definition: '149597870700 m', aliases: ['astronomicalunit'], source: 'IAU 2012 Resolution B2 (exact)' },
   { name: 'ly', definition: `${C * 365.25 * 86400} m`, aliases: ['lightyear'], source: 'IAU: c × Julian year (365.25 d)' },
   { name: 'pc', definition: `${(149597870700 * 648000) / Math.PI} m`, aliases: ['parsec'], prefixes: 'short', source: 'IAU 2015 Resolution B2: 648 000/π au' },
+  // The trade's units (lib/calc/README.md, "Units and the display setting").
+  { name: 'u', definition: `${M_U} kg`, source: 'SI Brochure 9th ed., table 8: the unified atomic mass unit u = 1 Da = m_u (CODATA 2022 value); u and a are units only where a sheet does not define them' },
+  { name: 'yr', definition: `${365.25 * 86400} s`, source: 'IAU: the Julian year, 365.25 d of 86 400 s' },
+  { name: 'a', definition: `${365.25 * 86400} s`, source: 'IAU: the Julian year (annum), 365.25 d; mathjs has no are, so `a` is free' },
+  { name: 'ppm', definition: '1e-6', source: 'parts per million, 10⁻⁶ (dimensionless; common practice)' },
+  { name: 'ppb', definition: '1e-9', source: 'parts per billion, 10⁻⁹ (dimensionless; common practice)' },
+  // The speed of light as a unit, only so that MeV/c and MeV/c² (momentum and mass, PDG RPP
+  // conventions) can be written after a number, after `to` and in number(x, "MeV/c"), and read back
+  // from a result's unit string. A bare `c` is still the constant (isUnitName says no).
+  { name: 'c', definition: `${C} m/s`, source: 'SI 2019: c = 299 792 458 m/s exactly' },
 ];
+
+/** Names that are units only in unit positions: a bare `c` in a formula is the constant. */
+const UNIT_POSITION_ONLY = new Set(['c']);
 
 /** Functions sheet code must never reach (mathjs security documentation, and more). */
 export const DISABLED_FUNCTIONS = [
@@ -107,6 +120,11 @@ export function createEngineMath(library: readonly LibraryBinding[], setup?: (ma
   for (const u of NEW_UNITS) {
     math.createUnit(u.name, { definition: u.definition, aliases: u.aliases ?? [], prefixes: u.prefixes ?? 'none' }, { override: false });
   }
+  // Derived units are written in the SI's own (J, N, T·m …), never in whichever unit of that
+  // dimension mathjs last parsed (its default "auto" system changes with every unit it reads, so a
+  // result's display depended on what the worker had evaluated before).
+  (math.Unit as unknown as { setUnitSystem(name: string): void }).setUnitSystem('si');
+  installUnitRules(math);
 
   const corrections: Record<string, unknown> = {};
   for (const k of MATHJS_CONSTANT_CORRECTIONS) corrections[k.name] = k.unit ? math.unit(k.value, k.unit) : k.value;
@@ -142,7 +160,7 @@ export function createEngineMath(library: readonly LibraryBinding[], setup?: (ma
     isUnitName: (name) => {
       // No mathjs unit or prefix holds an underscore, and most sheet names do (T_kin, m_p): answer
       // those at once, since mathjs's lookup of an unknown name tries every unit in turn.
-      if (name.includes('_')) return false;
+      if (name.includes('_') || UNIT_POSITION_ONLY.has(name)) return false;
       let known = unitNames.get(name);
       if (known === undefined) {
         known = (math.Unit as unknown as { isValuelessUnit(n: string): boolean }).isValuelessUnit(name);
@@ -152,4 +170,84 @@ export function createEngineMath(library: readonly LibraryBinding[], setup?: (ma
     },
     isMathConstant: (name) => MATH_CONSTANTS.has(name) || (Object.prototype.hasOwnProperty.call(mathRecord, name) && typeof mathRecord[name] !== 'function'),
   };
+}
+
+interface UnitInternals {
+  value: number | null;
+  units: Array<{ unit: { name: string; base: { key: string; dimensions: number[] } }; prefix: unknown; power: number }>;
+  dimensions: number[];
+  skipAutomaticSimplification: boolean;
+  fixPrefix: boolean;
+  clone(): UnitInternals;
+  _normalize(x: number): number;
+}
+
+/**
+ * Two rules of the trade on top of mathjs's arithmetic:
+ * - an angle is a ratio where it multiplies a length (SI Brochure 9th ed., §2.3.3: rad = m/m):
+ *   ω·r with ω in rad/s is a speed in m/s, θ·r a length; only products holding a length lose
+ *   their angle, so ω·t stays an angle and sin(30 deg) still takes an angle;
+ * - a dimensionless unit the author wrote (ppm, ppb, µs/day, ns/day) keeps its name when scaled
+ *   by a number or converted with `to`, where mathjs would return a bare number (4.5 µs/day, not
+ *   5.2 × 10⁻¹¹).
+ */
+function installUnitRules(math: MathJsInstance): void {
+  const dims = (math.Unit as unknown as { BASE_DIMENSIONS: string[] }).BASE_DIMENSIONS;
+  const ANGLE = dims.indexOf('ANGLE');
+  const LENGTH = dims.indexOf('LENGTH');
+  const isUnit = (x: unknown): x is UnitInternals => math.isUnit(x);
+  const dimensionless = (u: UnitInternals) => u.dimensions.every((d) => Math.abs(d) < 1e-12);
+  const withoutAngle = (x: unknown): unknown => {
+    if (!isUnit(x) || Math.abs(x.dimensions[ANGLE] ?? 0) < 1e-12 || Math.abs(x.dimensions[LENGTH] ?? 0) < 1e-12) return x;
+    const r = x.clone();
+    // The value is held in SI base units, where the radian is 1: removing the angle factors changes
+    // only the unit the number is shown in.
+    r.units = r.units.filter((f) => Math.abs(f.unit.base.dimensions[ANGLE] ?? 0) < 1e-12);
+    r.dimensions = r.dimensions.map((d, i) => (i === ANGLE ? 0 : d));
+    r.skipAutomaticSimplification = false;
+    return r;
+  };
+  const mapResult = (x: unknown): unknown => (math.isMatrix(x) ? (x as { map(f: (v: unknown) => unknown): unknown }).map(withoutAngle) : withoutAngle(x));
+  /** A named dimensionless unit times a number stays a quantity in that unit. */
+  const scaled = (u: UnitInternals, factor: number): UnitInternals => {
+    const r = u.clone();
+    r.value = u.value === null ? u._normalize(factor) : (u.value as number) * factor;
+    return r;
+  };
+  const record = math as unknown as Record<string, (...args: unknown[]) => unknown>;
+  const multiply = record.multiply;
+  const divide = record.divide;
+  const to = record.to;
+  const typed = (math as unknown as { typed: (name: string, signatures: Record<string, (...args: unknown[]) => unknown>) => unknown }).typed;
+  math.import(
+    {
+      multiply: typed('multiply', {
+        'any, any': (a, b) => {
+          if (typeof a === 'number' && isUnit(b) && b.units.length && dimensionless(b)) return scaled(b, a);
+          if (typeof b === 'number' && isUnit(a) && a.units.length && dimensionless(a)) return scaled(a, b);
+          return mapResult(multiply(a, b));
+        },
+        'any, any, ...any': (a, b, rest) => (rest as unknown[]).reduce((acc, x) => mapResult(multiply(acc, x)), mapResult(multiply(a, b))),
+      }),
+      divide: typed('divide', {
+        'any, any': (a, b) => {
+          if (typeof b === 'number' && isUnit(a) && a.value !== null && a.units.length && dimensionless(a)) return scaled(a, 1 / b);
+          return mapResult(divide(a, b));
+        },
+      }),
+      to: typed('to', {
+        'any, any': (a, b) => {
+          // A plain number written in a dimensionless unit: `4.5e-10 to us/day` is 38.88 µs/day.
+          if (typeof a === 'number' && isUnit(b) && b.value === null && dimensionless(b)) {
+            const r = scaled(b, 1);
+            r.value = a;
+            r.fixPrefix = true;
+            return r;
+          }
+          return to(a, b);
+        },
+      }),
+    },
+    { override: true },
+  );
 }

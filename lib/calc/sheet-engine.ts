@@ -22,6 +22,7 @@ import { extractUnitLiterals, UNIT_PLACEHOLDER_PREFIX, type UnitLiteral } from '
 import { lintExpression, type LintFinding } from './lint';
 import { nonFiniteReason } from './non-finite';
 import { unitTexOf } from './format';
+import { DISPLAY_UNITS_DEFAULT, setDisplayUnits, tradeDisplay } from './display-units';
 import { stripComment } from './references';
 import { studyBindings } from './study-functions';
 
@@ -428,6 +429,9 @@ export function createSheetEngine(): SheetEngine {
   function evaluate(cells: CellInput[], options: EvaluateOptions, hooks: EvaluateHooks = {}): SheetResult {
     if (cells.length > LIMITS.maxCells) throw new Error(`a sheet holds at most ${LIMITS.maxCells} cells`);
     const sig = Math.min(15, Math.max(2, Math.round(options.significantFigures)));
+    // SI or the trade's units for what this evaluation shows (lib/calc/display-units.ts).
+    const displayUnits = options.displayUnits ?? DISPLAY_UNITS_DEFAULT;
+    setDisplayUnits(math, displayUnits);
     const parsed = cells.map((c) => (c.kind === 'calc' ? parseCell(c.source) : []));
 
     // Where each name is first defined in the whole sheet: to tell "defined below" from "undefined".
@@ -536,9 +540,14 @@ export function createSheetEngine(): SheetEngine {
     }
 
     // Constants are substituted in the SI unit they are defined in (the elementary charge as
-    // 1.602 18 × 10⁻¹⁹ C, not in zeptocoulombs as mathjs's choice of prefix would have it).
+    // 1.602 18 × 10⁻¹⁹ C, not in zeptocoulombs as mathjs's choice of prefix would have it); in the
+    // trade's units the particle masses are in MeV/c² (m_p as 938.272 MeV/c²).
     const texValue = new Map<string, string>(
-      CONSTANTS.map((k) => [k.name, substitutionTex(`${formatNumberTex(k.value, sig)}\\ ${unitTexOf(math, k.unit)}`)]),
+      CONSTANTS.map((k) => {
+        const trade = displayUnits === 'trade' ? tradeDisplay(math, em.constants.get(k.name)!) : null;
+        const tex = trade ? `${formatNumberTex(trade.number, sig)}\\ ${unitTexOf(math, trade.unitString)}` : `${formatNumberTex(k.value, sig)}\\ ${unitTexOf(math, k.unit)}`;
+        return [k.name, substitutionTex(tex)];
+      }),
     );
     const valueTexOf = (name: string): string | undefined => {
       const cachedTex = texValue.get(name);
@@ -583,7 +592,7 @@ export function createSheetEngine(): SheetEngine {
         // Whether the sheet defines a name the lint flags decides whether the warning shows.
         ...[...new Set(statements.flatMap((st) => (st.lint ?? []).map((f) => f.name)))].map((n) => `lint:${n}=${lintSilenced(n)}`),
       ];
-      const key = createHash('sha256').update(`${hooks.cacheScope ?? ''}\0${sig}\0${ci}\0${cell.source}\0${context.join('\0')}`).digest('base64');
+      const key = createHash('sha256').update(`${hooks.cacheScope ?? ''}\0${sig}\0${displayUnits}\0${ci}\0${cell.source}\0${context.join('\0')}`).digest('base64');
 
       const cached = skipReason ? undefined : cellCache.get(key);
       if (cached) {

@@ -10,6 +10,11 @@ export interface CellInput {
 export interface EvaluateOptions {
   /** Significant figures for display; full precision is kept in `value.number`. */
   significantFigures: number;
+  /**
+   * The units results are shown in: 'si' (the default) or 'trade' (energies, momenta and masses at
+   * particle scale in eV, eV/c, eV/c²; lib/calc/display-units.ts). Values are the same either way.
+   */
+  displayUnits?: 'si' | 'trade';
   /** Input tables from the sheet's CSV attachments, usable in cells as `table.column`. */
   tables?: InputTable[];
   /**

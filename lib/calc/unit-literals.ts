@@ -9,7 +9,21 @@
 // Before mathjs parses a line, each such unit expression is replaced by a placeholder symbol that
 // names it unambiguously; the engine binds the placeholder to the unit and typesets it as the unit.
 
+//
+// Two refinements for the trade's units (lib/calc/README.md, "Units and the display setting"):
+// - `c` after an electronvolt unit and a solidus is part of the unit: `1.2 GeV/c` (a momentum),
+//   `938.272 MeV/c^2` (a mass), `p to MeV/c`; anywhere else `c` is the speed-of-light constant;
+// - `u` (unified atomic mass unit) and `a` (Julian year) are common quantity names, so they are
+//   never read as units after a number: `2 u` is two u where the sheet does not define `u`, and
+//   twice the sheet's `u` where it does (after `to` they are units).
+
 export const UNIT_PLACEHOLDER_PREFIX = '__u_';
+
+/** Units that are units after a number only when the sheet does not define the name. */
+export const BARE_NAME_UNITS: ReadonlySet<string> = new Set(['u', 'a']);
+
+/** An electronvolt unit (eV, keV, MeV, GeV, TeV …) that `/c` and `/c^2` may follow. */
+const EV_UNIT = /^(?:[yzafpnumkMGTPEZY]|da|h)?eV$/;
 
 export interface UnitLiteral {
   placeholder: string;
@@ -33,15 +47,20 @@ export function unitOfPlaceholder(name: string): string | null {
  * Reads a unit expression at `start`: unit names joined by * or / and raised by ^n. Within a `to`
  * target, spaces around * and / are allowed. Returns the end index, or `start` when no unit is there.
  */
-function readUnitExpression(line: string, start: number, isUnit: (name: string) => boolean, spaced: boolean): number {
+export function readUnitExpression(line: string, start: number, isUnit: (name: string) => boolean, spaced: boolean): number {
   let i = start;
   let end = start;
   let expectUnit = true;
+  let previous = '';
+  let divided = false;
+  // After a number, `u` and `a` are the sheet's quantities where it defines them (see above).
+  const unit = (name: string) => (spaced || !BARE_NAME_UNITS.has(name)) && isUnit(name);
   for (;;) {
     if (expectUnit) {
       IDENT.lastIndex = i;
       const m = IDENT.exec(line);
-      if (!m || !isUnit(m[0])) return end;
+      if (!m || !(unit(m[0]) || (m[0] === 'c' && divided && EV_UNIT.test(previous) && isUnit(previous)))) return end;
+      previous = m[0];
       i += m[0].length;
       end = i;
       expectUnit = false;
@@ -61,7 +80,9 @@ function readUnitExpression(line: string, start: number, isUnit: (name: string) 
     if (spaced) while (line[j] === ' ' || line[j] === '\t') j++;
     IDENT.lastIndex = j;
     const m = IDENT.exec(line);
-    if (!m || !isUnit(m[0])) return end;
+    const perC = m?.[0] === 'c' && op === '/' && EV_UNIT.test(previous) && isUnit(previous);
+    if (!m || !(unit(m[0]) || perC)) return end;
+    divided = op === '/';
     i = j;
     expectUnit = true;
   }

@@ -288,7 +288,7 @@ export class SandboxedEvaluator {
     // revisions belong in the key: the same value reads differently once its revision is superseded.
     // The scope (the project) too: another project's identical cells are evaluated afresh.
     const key = createHash('sha256')
-      .update(JSON.stringify([scope, cells, options.significantFigures, options.tables ?? [], options.references ?? [], options.monteCarlo ?? 'auto']))
+      .update(JSON.stringify([scope, cells, options.significantFigures, options.tables ?? [], options.references ?? [], options.monteCarlo ?? 'auto', options.displayUnits ?? 'si']))
       .digest('base64');
     const hit = this.recent.get(key);
     if (hit) {
@@ -427,7 +427,7 @@ export class SandboxedEvaluator {
   /** For each cell, a key of the scope, the options and every cell up to and including it. */
   private prefixKeys(cells: CellInput[], options: EvaluateOptions, scope: string): string[] {
     let h = createHash('sha256')
-      .update(JSON.stringify([scope, options.significantFigures, options.tables ?? [], options.references ?? [], options.monteCarlo ?? 'auto']))
+      .update(JSON.stringify([scope, options.significantFigures, options.tables ?? [], options.references ?? [], options.monteCarlo ?? 'auto', options.displayUnits ?? 'si']))
       .digest('base64');
     return cells.map((c) => (h = createHash('sha256').update(`${h}\0${c.kind}\0${c.source}`).digest('base64')));
   }
