@@ -154,11 +154,25 @@ export function bindLibrary(math: MathJsInstance, library: readonly CalcFunction
     return siUnit(r, RETURN_UNITS[fn.returns]);
   };
 
+  // A speed function whose speed arguments are all plain numbers (β) answers a plain β, as the
+  // speed parameters read plain numbers: addVelocities(0.5, 0.5) is 0.8. With any velocity given,
+  // or with no speed parameter at all (speedFromKinetic), the result is a velocity.
+  const plainSpeeds = (fn: CalcFunction, args: unknown[]): boolean => {
+    let any = false;
+    for (const [i, p] of fn.params.entries()) {
+      if (p.kind !== 'speed') continue;
+      if (typeof args[i] !== 'number') return false;
+      any = true;
+    }
+    return any;
+  };
+
   const scalar = (fn: CalcFunction, args: unknown[]): unknown => {
     const numbers = args.map((a, i) => toArgument(fn, i, a));
     for (const [i, n] of numbers.entries()) {
       if (typeof n === 'number' && !Number.isFinite(n)) throw new DomainError(`${fn.name}: argument ${i + 1} (${fn.params[i].name}) must be finite; got ${n}`);
     }
+    if (fn.returns === 'speed' && plainSpeeds(fn, args)) return fn.kernel(...numbers);
     if (fn.returns === 'speed' && fn.preciseKernel) return speedResult(fn.preciseKernel(...numbers));
     return wrap(fn, fn.kernel(...numbers));
   };

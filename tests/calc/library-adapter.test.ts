@@ -82,3 +82,28 @@ describe('charge arguments', () => {
     expect(new D(r.cells[0].statements[0].value!.number!).toSignificantDigits(4).toString()).toBe('5.657');
   });
 });
+
+describe('plain β in, plain β out', () => {
+  it('addVelocities(0.5, 0.5) is the plain β 0.8, and with velocities a velocity (textbook: 0.5c ⊕ 0.5c = 0.8c, e.g. Taylor & Wheeler, Spacetime Physics)', () => {
+    expect(lib.addVelocities(0.5, 0.5)).toBe(0.8);
+    const r = run('w_1 = addVelocities(0.5, 0.5)', 'w_2 = addVelocities(0.5 c, 0.5 c)', 'w_3 = addVelocities(0.5, 0.5 c)', 'g = lorentzFactor(w_1)');
+    expect(r.ok).toBe(true);
+    expect(r.cells[0].statements[0].value).toMatchObject({ kind: 'number', number: 0.8 });
+    expect(r.cells[1].statements[0].value).toMatchObject({ kind: 'quantity', unit: 'm / s' });
+    expect(r.cells[1].statements[0].value!.number).toBeCloseTo(0.8 * 299792458, 6);
+    expect(r.cells[2].statements[0].value!.kind).toBe('quantity');
+    expect(r.cells[3].statements[0].value!.number).toBeCloseTo(5 / 3, 14); // γ(0.8) = 5/3
+  });
+
+  it('applies to every speed function with speed parameters; the others return a velocity', () => {
+    // rocketDeltaV(ve, R): a plain exhaust β gives a plain Δβ (Ackeret 1946: photon rocket at R = 3 gives 0.8).
+    expect(lib.rocketDeltaV(1, 3)).toBeCloseTo(0.8, 15);
+    expect(math.isUnit(lib.rocketDeltaV(math.unit(1, 'c'), 3))).toBe(true);
+    // No speed parameter: always a velocity.
+    expect(math.isUnit(lib.speedFromKinetic(unit('250 MeV'), constant('m_p')))).toBe(true);
+    expect(math.isUnit(lib.hyperbolicSpeed(unit('9.80665 m/s^2'), unit('1 s')))).toBe(true);
+    // Lists of plain β give lists of plain β.
+    const list = lib.addVelocities(math.matrix([0.5, 0.6]), 0.5) as { valueOf(): unknown[] };
+    expect(list.valueOf()[0]).toBe(0.8);
+  });
+});

@@ -67,7 +67,10 @@ function precise(uArg: KernelArgument, vArg: KernelArgument): PreciseSpeed | num
  * are NaN, ±Infinity and |β| > 1. For two massive bodies (|β| < 1) the result never reaches c: when
  * the exact composition is below 1 but rounds to 1, the largest double below 1 is returned.
  *
- * Example: `addVelocities(0.5, 0.5)` → 0.8 c = 239 833 966.4 m/s.
+ * Example: `addVelocities(0.5, 0.5)` → 0.8 (plain β in, plain β out); `addVelocities(0.5 c, 0.5 c)` →
+ * 2.3983e8 m/s.
+ *
+ * Result: a plain β when both u and v are plain numbers (β), otherwise a velocity in m/s.
  *
  * Source: A. Einstein, "Zur Elektrodynamik bewegter Körper", Annalen der Physik 17 (1905), §5;
  * Jackson, Classical Electrodynamics, 3rd ed. (1999), §11.4.
@@ -86,9 +89,9 @@ export const addVelocities: CalcFunction = {
     summary: 'Collinear composition of two velocities; for massive bodies the result never reaches c.',
     formula: 'u \\oplus v = \\frac{\\beta_u + \\beta_v}{1 + \\beta_u \\beta_v}\\,c \\quad\\left(= \\frac{u + v}{1 + uv/c^2}\\right)',
     domain:
-      '|β_u|, |β_v| ≤ 1. Exactly c is light: c ⊕ v = c for any v > −c, −c ⊕ v = −c for v < c; c ⊕ −c is refused, as are NaN, ±Infinity and |β| > 1. For |β_u|, |β_v| < 1 the result is strictly below c: when the exact value is below 1 but rounds to 1, the largest double below 1 is returned.',
+      '|β_u|, |β_v| ≤ 1. Exactly c is light: c ⊕ v = c for any v > −c, −c ⊕ v = −c for v < c; c ⊕ −c is refused, as are NaN, ±Infinity and |β| > 1. For |β_u|, |β_v| < 1 the result is strictly below c: when the exact value is below 1 but rounds to 1, the largest double below 1 is returned. The result is a plain β when u and v are both plain numbers (β), as speeds read plain numbers; with a velocity among them it is a velocity.',
     example: 'addVelocities(0.5, 0.5)',
-    exampleResult: '0.8 c = 2.398339664e8 m/s',
+    exampleResult: '0.8 (plain β in, plain β out; addVelocities(0.5 c, 0.5 c) gives 2.3983e8 m/s)',
     source: 'A. Einstein, "Zur Elektrodynamik bewegter Körper", Annalen der Physik 17 (1905), §5; J. D. Jackson, Classical Electrodynamics, 3rd ed. (1999), §11.4.',
     numerics:
       'Numerator (TwoSum) and denominator 1 + β_u β_v (Dekker product) are exact in double-double, so opposite speeds close to c, where 1 + β_u β_v cancels, lose nothing; one double-double division, rounded once (within about half an ulp).',

@@ -34,7 +34,9 @@ export type ParamKind =
 
 /**
  * What the kernel returns and how the engine presents it:
- * - speed: β → a velocity in m/s
+ * - speed: β → a velocity in m/s; but a plain β when the function has speed parameters and every
+ *   one of them was given as a plain number (addVelocities(0.5, 0.5) is 0.8, as speeds read plain
+ *   numbers as β)
  * - number: a plain number
  * - energy → J; momentum → kg m/s; time → s; length → m; acceleration → m/s²;
  *   rigidity → T m; mass → kg; angle → rad
