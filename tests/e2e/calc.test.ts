@@ -81,8 +81,9 @@ it('lists every library function with its formula typeset', async () => {
   }
   await expect(page.getByRole('cell', { name: 'CODATA 2022' }).count()).resolves.toBe(5);
   await page.getByLabel('Search the functions').fill('rigidity');
-  await page.getByRole('status').filter({ hasText: /^1 of \d+ functions$/ }).waitFor();
+  await page.getByRole('status').filter({ hasText: /^2 of \d+ functions$/ }).waitFor();
   await expect(page.locator('article#magneticRigidity').count()).resolves.toBe(1);
+  await expect(page.locator('article#kineticFromRigidity').count()).resolves.toBe(1);
   await expect(page.locator('article#lorentzFactor').count()).resolves.toBe(0);
   await page.getByLabel('Search the functions').fill('');
   await session.screenshot('function-reference');
