@@ -167,14 +167,29 @@ export function bindLibrary(math: MathJsInstance, library: readonly CalcFunction
     return any;
   };
 
+  // The last guard against a silent NaN or infinity: a kernel's result that is not finite (the
+  // kernels refuse those themselves; tests/calc/library-extremes.test.ts surveys them) is refused here,
+  // naming the function and its arguments.
+  const finite = <R extends number | [number, number]>(fn: CalcFunction, args: unknown[], result: R): R => {
+    const values = Array.isArray(result) ? result : [result];
+    if (values.every((x) => typeof x === 'number' && Number.isFinite(x))) return result;
+    throw new DomainError(
+      `${fn.name}(${args.map(describe).join(', ')}): the result is not a finite number (${values.map(String).join(', ')}); the inputs are outside the range where it can be computed`,
+    );
+  };
+
   const scalar = (fn: CalcFunction, args: unknown[]): unknown => {
     const numbers = args.map((a, i) => toArgument(fn, i, a));
     for (const [i, n] of numbers.entries()) {
       if (typeof n === 'number' && !Number.isFinite(n)) throw new DomainError(`${fn.name}: argument ${i + 1} (${fn.params[i].name}) must be finite; got ${n}`);
     }
-    if (fn.returns === 'speed' && plainSpeeds(fn, args)) return fn.kernel(...numbers);
-    if (fn.returns === 'speed' && fn.preciseKernel) return speedResult(fn.preciseKernel(...numbers));
-    return wrap(fn, fn.kernel(...numbers));
+    if (fn.returns === 'speed' && plainSpeeds(fn, args)) return finite(fn, args, fn.kernel(...numbers));
+    if (fn.returns === 'speed' && fn.preciseKernel) {
+      const precise = fn.preciseKernel(...numbers);
+      finite(fn, args, speedValue(precise));
+      return speedResult(precise);
+    }
+    return wrap(fn, finite(fn, args, fn.kernel(...numbers)));
   };
 
   // A vector argument (a column of an input table, or [a, b, c]) applies the function to each

@@ -5,6 +5,8 @@
 // receive; physical relations name their source beside them.
 import type { Unit } from 'mathjs';
 import { describe, expect, it } from 'vitest';
+import { LIBRARY, type CalcFunction, DomainError } from '../../lib/calc/functions';
+import { bindLibrary } from '../../lib/calc/library-adapter';
 import { createSheetEngine } from '../../lib/calc/sheet-engine';
 import type { CellInput } from '../../lib/calc/types';
 import { D, type Dec, exact, REF_C, REF_E, ulpError } from './reference-math';
@@ -105,5 +107,28 @@ describe('plain β in, plain β out', () => {
     // Lists of plain β give lists of plain β.
     const list = lib.addVelocities(math.matrix([0.5, 0.6]), 0.5) as { valueOf(): unknown[] };
     expect(list.valueOf()[0]).toBe(0.8);
+  });
+});
+
+describe('non-finite results', () => {
+  it('are refused by the adapter with a DomainError naming the function and its arguments', () => {
+    // A kernel that overflows (every library kernel refuses such results itself, as the survey in
+    // library-extremes.test.ts shows; this is the adapter's own guard, bound like any library function).
+    const overflowing: CalcFunction = {
+      ...LIBRARY.find((f) => f.name === 'lengthContraction')!,
+      name: 'overflowing',
+      kernel: (L0) => (L0 as number) * 1e300,
+    };
+    const [binding] = bindLibrary(math, [overflowing]);
+    expect(math.unit(1, 'm').equalBase((binding.fn(unit('1 m'), 0.5) as Unit))).toBe(true);
+    const error = thrown(() => binding.fn(unit('1e10 m'), 0.5));
+    expect(error).toBeInstanceOf(DomainError);
+    expect(error.message).toMatch(/^overflowing\(10 Gm, 0\.5\): the result is not a finite number \(Infinity\)/);
+  });
+
+  it('of the issue are computed, not returned as NaN (lengthContraction(1e302 m, 0.5), electronWavelength(1e-305 V))', () => {
+    const r = run('L = lengthContraction(1e302 m, 0.5)', 'lambda = electronWavelength(1e-305 V)');
+    expect(r.ok).toBe(true);
+    expect(r.cells.map((c) => c.statements[0].value!.text).join(' ')).not.toMatch(/NaN|∞/);
   });
 });

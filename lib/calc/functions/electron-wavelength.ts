@@ -1,6 +1,6 @@
 import { E_CHARGE, H_PLANCK, M_E } from '../constants';
-import { requirePositive } from './support/domain';
-import { add, div, mul, mulNum, round, scale, sqrt } from './support/double-double';
+import { finiteResult, requirePositive } from './support/domain';
+import { add, dd, div, mul, mulNum, round, scale, sqrt } from './support/double-double';
 import { C_DD, C_SQUARED, decimalConstant } from './support/kinematics';
 import type { CalcFunction } from './types';
 
@@ -9,6 +9,7 @@ const FN = 'electronWavelength';
 const ELEMENTARY_CHARGE = decimalConstant(E_CHARGE);
 const PLANCK_TIMES_C = mul(decimalConstant(H_PLANCK), C_DD);
 const ELECTRON_REST_ENERGY = mul(decimalConstant(M_E), C_SQUARED);
+const ROOT_ELEMENTARY_CHARGE = sqrt(ELEMENTARY_CHARGE);
 
 /**
  * electronWavelength(U) — the relativistic de Broglie wavelength of an electron accelerated from
@@ -25,7 +26,8 @@ const ELECTRON_REST_ENERGY = mul(decimalConstant(M_E), C_SQUARED);
  * Constants h, e (SI 2019, exact) and mₑ (CODATA 2022).
  *
  * Numerics: the kinetic energy eU and the product with e, h and mₑ taken at their decimal values in
- * double-double, λ = hc/(√T·√(T + 2mₑc²)) evaluated in double-double, rounded once.
+ * double-double, λ = hc/(√e·√U·√(T + 2mₑc²)) evaluated in double-double (√e·√U rather than √(eU),
+ * which underflows below 1e-289 V), rounded once.
  */
 export const electronWavelength: CalcFunction = {
   name: FN,
@@ -44,7 +46,10 @@ export const electronWavelength: CalcFunction = {
   kernel: (U: number): number => {
     requirePositive(FN, 'U', U, 'V', 'an accelerating voltage');
     const T = mulNum(ELEMENTARY_CHARGE, U);
-    const pc = mul(sqrt(T), sqrt(add(T, scale(ELECTRON_REST_ENERGY, 2))));
-    return round(div(PLANCK_TIMES_C, pc));
+    // √T = √e·√U, not √(eU): eU underflows below U ≈ 1e-289 V, where λ (up to 5e152 m) is still a
+    // double. A tiny U is scaled by 2^1000 (exactly) before its square root.
+    const rootU = U < 2 ** -900 ? scale(sqrt(dd(U * 2 ** 1000)), 2 ** -500) : sqrt(dd(U));
+    const pc = mul(mul(ROOT_ELEMENTARY_CHARGE, rootU), sqrt(add(T, scale(ELECTRON_REST_ENERGY, 2))));
+    return finiteResult(FN, round(div(PLANCK_TIMES_C, pc)));
   },
 };

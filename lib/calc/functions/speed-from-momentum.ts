@@ -15,6 +15,8 @@ function precise(pArg: KernelArgument, mArg: KernelArgument): PreciseSpeed | num
   }
   // y = βγ = p/(mc); β = y/√(1 + y²) and 1/γ = 1/√(1 + y²), without cancellation or overflow.
   const y = div(div(dd(p), dd(m)), C_DD);
+  // Beyond y = 2^500, √(1 + y²) = y to far below an ulp (and y may be infinite: no companion then).
+  if (!(y[0] <= 2 ** 500)) return massiveResult([1, 0], div(ONE, y));
   const root = hypotOne(y);
   return massiveResult(div(y, root), div(ONE, root));
 }

@@ -28,7 +28,13 @@ export function fastTwoSum(a: number, b: number): DD {
   return [s, b - (s - a)];
 }
 
+/** Veltkamp's split of a into two 26-bit halves; beyond 2^996, SPLITTER·a would overflow, so a is
+ * split at a scale 2^-28 lower and the halves scaled back (exact: powers of two). */
 function split(a: number): DD {
+  if ((a > 6.69692879491417e299 || a < -6.69692879491417e299) && Number.isFinite(a)) {
+    const [h, l] = split(a * 3.725290298461914e-9);
+    return [h * 268435456, l * 268435456];
+  }
   const t = SPLITTER * a;
   const hi = t - (t - a);
   return [hi, a - hi];
