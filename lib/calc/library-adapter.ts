@@ -3,7 +3,9 @@
 // kernel's result as a mathjs value with its unit.
 import type { MathJsInstance, Unit } from 'mathjs';
 import { C, E_CHARGE } from './constants';
+import { withArgumentEcho } from './functions/support/domain';
 import { speedValue } from './functions/support/kinematics';
+import { formatNumberText } from './format';
 import { DomainError, type CalcFunction, type KernelArgument, type ParamKind, type PreciseSpeed, type ReturnKind } from './functions/types';
 import type { LibraryBinding } from './math-instance';
 
@@ -56,6 +58,25 @@ function chargeNumber(where: string, value: number): number {
     );
   }
   return value;
+}
+
+/**
+ * An argument as the sheet wrote it, for messages: a quantity in its own unit (−5 MeV, not
+ * −8.01e-13 J), the number formatted as results are (lib/calc/format.ts), a plain number as is.
+ */
+function asWritten(value: unknown): string {
+  if (typeof value === 'number') return String(value);
+  const unit = value as Unit;
+  if (value && typeof value === 'object' && typeof unit.formatUnits === 'function' && typeof unit.value === 'number') {
+    const units = unit.formatUnits();
+    try {
+      const number = units ? unit.toNumber(units) : (unit.value as number);
+      return `${formatNumberText(number, 12, { trailingZeros: false })}${units ? ` ${units}` : ''}`;
+    } catch {
+      return describe(value);
+    }
+  }
+  return describe(value);
 }
 
 function describe(value: unknown): string {
@@ -174,7 +195,7 @@ export function bindLibrary(math: MathJsInstance, library: readonly CalcFunction
     const values = Array.isArray(result) ? result : [result];
     if (values.every((x) => typeof x === 'number' && Number.isFinite(x))) return result;
     throw new DomainError(
-      `${fn.name}(${args.map(describe).join(', ')}): the result is not a finite number (${values.map(String).join(', ')}); the inputs are outside the range where it can be computed`,
+      `${fn.name}(${args.map(asWritten).join(', ')}): the result is not a finite number (${values.map(String).join(', ')}); the inputs are outside the range where it can be computed`,
     );
   };
 
@@ -183,6 +204,12 @@ export function bindLibrary(math: MathJsInstance, library: readonly CalcFunction
     for (const [i, n] of numbers.entries()) {
       if (typeof n === 'number' && !Number.isFinite(n)) throw new DomainError(`${fn.name}: argument ${i + 1} (${fn.params[i].name}) must be finite; got ${n}`);
     }
+    // Domain messages echo an argument as the sheet wrote it (functions/support/domain.ts).
+    const echo = { names: fn.params.map((p) => p.name), values: numbers.map((n) => (typeof n === 'number' ? n : speedValue(n))), text: (i: number) => asWritten(args[i]) };
+    return withArgumentEcho(echo, () => call(fn, args, numbers));
+  };
+
+  const call = (fn: CalcFunction, args: unknown[], numbers: KernelArgument[]): unknown => {
     if (fn.returns === 'speed' && plainSpeeds(fn, args)) return finite(fn, args, fn.kernel(...numbers));
     if (fn.returns === 'speed' && fn.preciseKernel) {
       const precise = fn.preciseKernel(...numbers);

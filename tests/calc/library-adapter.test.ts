@@ -123,12 +123,39 @@ describe('non-finite results', () => {
     expect(math.unit(1, 'm').equalBase((binding.fn(unit('1 m'), 0.5) as Unit))).toBe(true);
     const error = thrown(() => binding.fn(unit('1e10 m'), 0.5));
     expect(error).toBeInstanceOf(DomainError);
-    expect(error.message).toMatch(/^overflowing\(10 Gm, 0\.5\): the result is not a finite number \(Infinity\)/);
+    expect(error.message).toMatch(/^overflowing\(1 × 10¹⁰ m, 0\.5\): the result is not a finite number \(Infinity\)/);
   });
 
   it('of the issue are computed, not returned as NaN (lengthContraction(1e302 m, 0.5), electronWavelength(1e-305 V))', () => {
     const r = run('L = lengthContraction(1e302 m, 0.5)', 'lambda = electronWavelength(1e-305 V)');
     expect(r.ok).toBe(true);
     expect(r.cells.map((c) => c.statements[0].value!.text).join(' ')).not.toMatch(/NaN|∞/);
+  });
+});
+
+describe('domain errors echo the argument as the sheet wrote it', () => {
+  // Issue 15: `speedFromKinetic(-5 MeV, m_p)` said "got T = -8.010883169999999e-13 J".
+  const MINUS = '\u2212';
+  it.each([
+    ['speedFromKinetic(-5 MeV, m_p)', `speedFromKinetic: T must be ≥ 0 (a kinetic energy); got ${MINUS}5 MeV`],
+    ['momentumFromKinetic(250 MeV, -1 kg)', `momentumFromKinetic: m must be ≥ 0 (a rest mass); got ${MINUS}1 kg`],
+    ['lengthContraction(-3 km, 0.5)', `lengthContraction: L0 must be ≥ 0 (a proper length); got ${MINUS}3 km`],
+    ['electronWavelength(-200 kV)', `electronWavelength: U must be > 0 (an accelerating voltage); got ${MINUS}200 kV`],
+    ['timeDilation(-2.5 us, 0.5)', `timeDilation: dtau must be ≥ 0 (an elapsed proper time); got ${MINUS}2.5 us`],
+    ['kineticFromMomentum(-1 GeV, m_p)', `kineticFromMomentum: p must be ≥ 0 (a momentum magnitude); got ${MINUS}1 GeV`],
+    ['lorentzFactor(4e8 m/s)', 'lorentzFactor: |β| must be below 1 for a massive body; got β = 1.3342563807926082 (v = 4 × 10⁸ m / s)'],
+  ])('%s', (source, message) => {
+    const r = run(`x = ${source}`);
+    expect(r.cells[0].ok).toBe(false);
+    expect(r.cells[0].error).toContain(message);
+  });
+
+  it('keeps the SI value when the kernel is called directly, and for values derived from the arguments', () => {
+    expect(thrown(() => LIBRARY.find((f) => f.name === 'speedFromKinetic')!.kernel(-1e-13, 1e-27)).message).toBe(
+      'speedFromKinetic: T must be ≥ 0 (a kinetic energy); got T = -1e-13 J',
+    );
+    // sqrtSCollider checks E ≥ mc², a relation between arguments: it names the SI values.
+    const r = run('x = sqrtSCollider(100 MeV, 100 MeV, m_p, m_p)');
+    expect(r.cells[0].error).toContain('the total energy E1 must be at least the rest energy');
   });
 });

@@ -24,19 +24,56 @@ export function requireMassiveSpeed(fn: string, name: string, beta: number): num
   requireFinite(fn, name, beta);
   if (!(Math.abs(beta) < 1)) {
     const which = name === 'v' ? '|β|' : `|β| of ${name}`;
-    throw new DomainError(`${fn}: ${which} must be below 1 for a massive body; got β = ${beta}`);
+    const written = asWritten(name, beta);
+    throw new DomainError(`${fn}: ${which} must be below 1 for a massive body; got β = ${beta}${written && written !== String(beta) ? ` (${name} = ${written})` : ''}`);
   }
   return beta;
 }
 
+/**
+ * The arguments of the call in progress as the sheet wrote them, set by the adapter around a kernel
+ * call (kernels are synchronous, so one slot suffices): a message about a parameter whose value is
+ * the argument itself then echoes it in the sheet's units ("got −5 MeV") rather than as the SI number
+ * the kernel received ("got T = -8.010883169999999e-13 J"). Called directly (tests, benchmarks), a
+ * kernel has no echo and shows the SI value.
+ */
+export interface ArgumentEcho {
+  /** Parameter names, in order. */
+  readonly names: readonly string[];
+  /** The values the kernel received, in order (to tell the argument from a value derived from it). */
+  readonly values: readonly unknown[];
+  /** The argument at `index` as written (a unit in the sheet's own unit, or a plain number). */
+  text(index: number): string;
+}
+
+let echo: ArgumentEcho | null = null;
+
+export function withArgumentEcho<T>(current: ArgumentEcho, run: () => T): T {
+  const previous = echo;
+  echo = current;
+  try {
+    return run();
+  } finally {
+    echo = previous;
+  }
+}
+
+/** The argument `name` as written, when `x` is that argument's own value. */
+export function asWritten(name: string, x: number): string | null {
+  if (!echo) return null;
+  const index = echo.names.indexOf(name);
+  if (index < 0 || echo.values[index] !== x) return null;
+  return echo.text(index);
+}
+
 function show(name: string, x: number, unit: string): string {
-  return `${name} = ${x}${unit ? ` ${unit}` : ''}`;
+  return asWritten(name, x) ?? `${name} = ${x}${unit ? ` ${unit}` : ''}`;
 }
 
 export function requirePositive(fn: string, name: string, x: number, unit: string, why = ''): number {
   requireFinite(fn, name, x);
   if (!(x > 0)) {
-    throw new DomainError(`${fn}: ${name} must be positive${why ? ` (${why})` : ''}; got ${show(name, x, unit)}`);
+    throw new DomainError(`${fn}: ${name} must be > 0${why ? ` (${why})` : ''}; got ${show(name, x, unit)}`);
   }
   return x;
 }
@@ -44,7 +81,7 @@ export function requirePositive(fn: string, name: string, x: number, unit: strin
 export function requireNonNegative(fn: string, name: string, x: number, unit: string, why = ''): number {
   requireFinite(fn, name, x);
   if (!(x >= 0)) {
-    throw new DomainError(`${fn}: ${name} must not be negative${why ? ` (${why})` : ''}; got ${show(name, x, unit)}`);
+    throw new DomainError(`${fn}: ${name} must be ≥ 0${why ? ` (${why})` : ''}; got ${show(name, x, unit)}`);
   }
   return x;
 }
