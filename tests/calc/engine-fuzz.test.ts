@@ -2,6 +2,9 @@
 import fc from 'fast-check';
 import { describe, expect, it } from 'vitest';
 import { createSheetEngine } from '../../lib/calc/sheet-engine';
+import { seedFastCheck } from './fast-check-seed';
+
+seedFastCheck('tests/calc/engine-fuzz.test.ts', 20260316);
 
 const engine = createSheetEngine();
 

@@ -27,6 +27,9 @@ import { importSheetFile } from '../../lib/sheets/sheet-files';
 import { createSheet, getVersion, saveVersion, saveVersionSchema } from '../../lib/sheets/sheets';
 import { testDb } from '../support/database';
 import { makeProject, makeUser } from '../support/people';
+import { seedFastCheck } from '../calc/fast-check-seed';
+
+seedFastCheck('tests/fuzz/hostile-input.test.ts', 20260317);
 
 // A shorter time limit than the server's 5 s, so that a runaway input costs the run less; the
 // behaviour under test (stop the cell, replace the worker, answer the next request) is the same.
