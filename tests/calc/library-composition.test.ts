@@ -50,6 +50,11 @@ function kinematics(T: number, m: number): { x: Dec; gamma: Dec; betaGamma: Dec;
   return { x, gamma, betaGamma, beta: betaGamma.div(gamma) };
 }
 
+/** θ′ = atan2(sin θ/γ, cos θ − β) (Jackson, Classical Electrodynamics, 3rd ed., §11.4), 50 digits. */
+function aberrationRef(theta: Dec, k: { gamma: Dec; beta: Dec }): Dec {
+  return D.atan2(D.sin(theta).div(k.gamma), D.cos(theta).minus(k.beta));
+}
+
 interface Worst {
   ulp: number;
   at: string;
@@ -88,6 +93,16 @@ describe('compositions of library functions against 50-digit references', () => 
         // γ_{v⊕v} = γ²(1 + β²) = 2γ² − 1, and the result of addVelocities carries its own companion.
         check('lorentzFactor(addVelocities(v, v))', lib.lorentzFactor(lib.addVelocities(v, v)), k.gamma.mul(k.gamma).mul(2).minus(1), COMPANION_ULP);
         check('gammaFromKinetic(T, m)', lib.gammaFromKinetic(T, beam.m), k.gamma, COMPANION_ULP);
+        check('clockRateOffset(speedFromKinetic(T, m)) = 1/γ − 1', lib.clockRateOffset(v), ONE.div(k.gamma).minus(1), COMPANION_ULP);
+        const g = math.unit(9.80665, 'm/s^2');
+        check('transverseCoordinateAcceleration(g, v) = g/γ²', lib.transverseCoordinateAcceleration(g, v), exact(9.80665).div(k.gamma.pow(2)), COMPANION_ULP);
+        check('properToCoordinateAcceleration(g, v) = g/γ³', lib.properToCoordinateAcceleration(g, v), exact(9.80665).div(k.gamma.pow(3)), COMPANION_ULP);
+        // An event at x = 0, t = 1 s seen from the beam: t′ = γ t, x′ = −βγ c t.
+        const [tPrime, xPrime] = (lib.lorentzBoost(math.unit(1, 's'), math.unit(0, 'm'), v) as { valueOf(): Unit[] }).valueOf();
+        check('lorentzBoost(1 s, 0 m, v): t′ = γ·1 s', tPrime, k.gamma, COMPANION_ULP);
+        check('lorentzBoost(1 s, 0 m, v): x′ = −βγc·1 s', xPrime, k.betaGamma.mul(REF_C).neg(), COMPANION_ULP);
+        // A ray at 90° in the lab, seen from the beam: θ′ = atan2(sin θ/γ, cos θ − β) = atan2(1/γ, −β).
+        check('aberrationAngle(π/2, v)', lib.aberrationAngle(Math.PI / 2, v), aberrationRef(exact(Math.PI / 2), k), COMPANION_ULP);
 
         // Through the momentum: p = βγmc.
         const p = lib.momentumFromKinetic(T, beam.m);
@@ -107,6 +122,25 @@ describe('compositions of library functions against 50-digit references', () => 
       }
     }
     report('Worst error of compositions in ulp against 50-digit references:', worst);
+  });
+
+  it('composes opposite speeds near c without cancellation (hyperbolic motion both ways: rapidities add)', () => {
+    // hyperbolicSpeed(a, t) has rapidity asinh(a t/c) (Rindler, Relativity, 2nd ed. (2006), §3.8); the
+    // two speeds below are within 1e-12 of ±c and nearly opposite, where 1 + β_u β_v cancels.
+    const g = math.unit(9.80665, 'm/s^2');
+    const minusG = math.unit(-9.80665, 'm/s^2');
+    for (const [t1, t2] of [
+      [3e13, 3.0000003e13],
+      [3e13, 2.9e13],
+      [1e12, 1e12 * (1 + 1e-9)],
+    ]) {
+      const u = lib.hyperbolicSpeed(g, math.unit(t1, 's'));
+      const w = lib.hyperbolicSpeed(minusG, math.unit(t2, 's'));
+      const eta = D.asinh(exact(9.80665).mul(exact(t1)).div(REF_C)).minus(D.asinh(exact(9.80665).mul(exact(t2)).div(REF_C)));
+      const gammaRef = D.cosh(eta);
+      expect(ulpError(si(lib.lorentzFactor(lib.addVelocities(u, w))), gammaRef), `t = ${t1}, ${t2}`).toBeLessThanOrEqual(COMPANION_ULP);
+      expect(ulpError(si(lib.rapidity(lib.addVelocities(u, w))), eta), `t = ${t1}, ${t2}`).toBeLessThanOrEqual(COMPANION_ULP);
+    }
   });
 
   it('would fail without the companion: the rounded β alone is off by up to 3e-4 in γ', () => {
