@@ -18,8 +18,9 @@ const KIND_LABEL: Record<string, string> = {
   length: 'length',
   acceleration: 'acceleration',
   voltage: 'voltage',
-  charge: 'charge, or multiple of e',
+  charge: 'charge, or integer charge number',
   angle: 'angle, or radians',
+  rigidity: 'magnetic rigidity (T m)',
   number: 'plain number',
 };
 
