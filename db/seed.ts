@@ -8,6 +8,7 @@ import { sql, type Kysely } from 'kysely';
 import { emptyRecord, versionContentSchema, type VersionContent } from '../lib/sheets/content';
 import { contentHash } from '../lib/sheets/content-hash';
 import { createSheetEngine, type SheetEngine } from '../lib/calc/sheet-engine';
+import { NEW_SHEET_DISPLAY_UNITS } from '../lib/calc/display-units';
 import type { Database, ProjectRole } from './schema';
 
 export const DEMO_PASSWORD = 'worldsheet-demo';
@@ -31,9 +32,9 @@ export const DEMO_ACCOUNTS: ReadonlyArray<{ email: string; name: string; roles: 
 
 type DemoSheet = { number: number; content: VersionContent };
 
-const sheet = (number: number, partial: Omit<VersionContent, 'schema' | 'attachments' | 'significantFigures'>): DemoSheet => ({
+const sheet = (number: number, partial: Omit<VersionContent, 'schema' | 'attachments' | 'significantFigures' | 'displayUnits'>): DemoSheet => ({
   number,
-  content: versionContentSchema.parse({ schema: 1, significantFigures: 6, attachments: [], ...partial }),
+  content: versionContentSchema.parse({ schema: 1, significantFigures: 6, displayUnits: NEW_SHEET_DISPLAY_UNITS, attachments: [], ...partial }),
 });
 
 export function demoSheets(): DemoSheet[] {
@@ -298,7 +299,7 @@ export async function seedDemo(db: Kysely<Database>, options: SeedOptions = {}):
       const hashHex = contentHash(demo.content);
       // The demo content is our own, so it is evaluated in process rather than in the sandbox.
       engine ??= createSheetEngine();
-      const results = engine.evaluate(demo.content.cells, { significantFigures: demo.content.significantFigures });
+      const results = engine.evaluate(demo.content.cells, { significantFigures: demo.content.significantFigures, displayUnits: demo.content.displayUnits });
       await trx
         .insertInto('versions')
         .values({

@@ -6,6 +6,7 @@ import { LIBRARY } from '@/lib/calc/functions';
 import { LINT_EXAMPLES } from '@/lib/calc/lint';
 import { STUDY_FUNCTION_DOCS } from '@/lib/calc/study-functions';
 import { ENGINE_VERSION } from '@/lib/calc/version';
+import { DISPLAY_UNITS_LABEL, UNIT_EXAMPLES } from '@/lib/calc/display-units';
 
 export const metadata: Metadata = { title: 'Function reference' };
 
@@ -63,6 +64,46 @@ export default function ReferencePage() {
                   </td>
                   <td className="py-2 pr-4 font-mono">{k.uncertainty === 0 ? 'exact' : `${k.uncertainty} ${k.unit}`}</td>
                   <td className="py-2">{k.provenance}</td>
+                </tr>
+              ))}
+            </tbody>
+          </table>
+        </div>
+      </section>
+
+      <section aria-labelledby="units">
+        <h2 id="units" className="text-xl font-bold">
+          Units of the trade and the units shown
+        </h2>
+        <p className="mt-2 max-w-prose text-sm text-ink-muted">
+          Besides the SI units and their prefixes, a sheet can write momenta in <code className="font-mono">eV/c</code> …{' '}
+          <code className="font-mono">TeV/c</code> and masses in <code className="font-mono">eV/c^2</code> … <code className="font-mono">TeV/c^2</code> (after a
+          number, after <code className="font-mono">to</code> and in <code className="font-mono">number(x, &quot;MeV/c&quot;)</code>; elsewhere{' '}
+          <code className="font-mono">c</code> is the speed of light), <code className="font-mono">u</code> (unified atomic mass unit, = Da),{' '}
+          <code className="font-mono">yr</code> and <code className="font-mono">a</code> (Julian year), <code className="font-mono">ppm</code>,{' '}
+          <code className="font-mono">ppb</code> and rates such as <code className="font-mono">us/day</code>. Numbers are shown to the sheet&apos;s significant
+          figures with their trailing zeros (1.967 50). The sheet setting &quot;Units shown&quot; chooses SI units or accelerator units, where energies,
+          momenta and masses at particle scale are shown in eV, eV/c and eV/c² with a prefix chosen by size; a unit written in the formula (
+          <code className="font-mono">3 kg</code>, <code className="font-mono">x to J</code>) is kept, and the stored values are the same either way.
+        </p>
+        <div className="mt-3 overflow-x-auto">
+          <table className="w-full border-collapse text-sm">
+            <caption className="sr-only">Examples of the units</caption>
+            <thead>
+              <tr className="border-b border-rule-strong text-left">
+                <th scope="col" className="py-2 pr-4">Statement</th>
+                <th scope="col" className="py-2 pr-4">Units shown</th>
+                <th scope="col" className="py-2 pr-4">Result</th>
+                <th scope="col" className="py-2">Note</th>
+              </tr>
+            </thead>
+            <tbody>
+              {UNIT_EXAMPLES.map((x) => (
+                <tr key={`${x.source}:${x.displayUnits}`} className="border-b border-rule align-top">
+                  <td className="py-2 pr-4 font-mono">{x.source}</td>
+                  <td className="py-2 pr-4">{DISPLAY_UNITS_LABEL[x.displayUnits]}</td>
+                  <td className="py-2 pr-4 font-mono">{x.result}</td>
+                  <td className="py-2">{x.note}</td>
                 </tr>
               ))}
             </tbody>

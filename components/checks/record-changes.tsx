@@ -6,6 +6,7 @@ const FIELD_LABELS: Record<RecordFieldName, string> = {
   title: 'Title',
   safetyRelated: 'Safety-related',
   significantFigures: 'Significant figures',
+  displayUnits: 'Units shown',
   objective: 'Objective',
   method: 'Method',
   conclusions: 'Conclusions',

@@ -10,6 +10,7 @@ import { CalcEditor } from './calc-editor';
 import { MarkdownView } from './markdown-view';
 import { RecordListsEditor } from './record-lists-editor';
 import type { SheetResult } from '@/lib/calc/types';
+import { DISPLAY_UNITS, DISPLAY_UNITS_DEFAULT, DISPLAY_UNITS_LABEL, type DisplayUnits } from '@/lib/calc/display-units';
 import type { Cell, VersionContent } from '@/lib/sheets/content';
 
 interface Props {
@@ -84,6 +85,7 @@ export function SheetEditor({ sheetId, projectCode, sheetNumber, base }: Props) 
       JSON.stringify({
         cells: debounced.cells,
         significantFigures: debounced.significantFigures,
+        displayUnits: debounced.displayUnits,
         sheetId,
         attachments: debounced.attachments.filter((a) => a.mediaType === 'text/csv').map(({ name, sha256 }) => ({ name, sha256 })),
       }),
@@ -162,6 +164,25 @@ export function SheetEditor({ sheetId, projectCode, sheetNumber, base }: Props) 
         <div>
           <label htmlFor="ed-title" className="block text-sm font-semibold">Title</label>
           <input id="ed-title" value={content.title} onChange={(e) => update((c) => ({ ...c, title: e.target.value }))} className="w-full rounded border border-rule-strong bg-surface px-3 py-2" />
+        </div>
+        <div>
+          <label htmlFor="ed-display-units" className="block text-sm font-semibold">Units shown</label>
+          <select
+            id="ed-display-units"
+            aria-describedby="ed-display-units-hint"
+            value={content.displayUnits ?? DISPLAY_UNITS_DEFAULT}
+            onChange={(e) => update((c) => ({ ...c, displayUnits: e.target.value as DisplayUnits }))}
+            className="rounded border border-rule-strong bg-surface px-3 py-2"
+          >
+            {DISPLAY_UNITS.map((d) => (
+              <option key={d} value={d}>
+                {DISPLAY_UNITS_LABEL[d]}
+              </option>
+            ))}
+          </select>
+          <p id="ed-display-units-hint" className="text-sm text-ink-muted">
+            How results are shown; the values are the same either way. A unit written in a formula (<code>3 kg</code>, <code>x to J</code>) is always kept.
+          </p>
         </div>
         {(['objective', 'method', 'conclusions'] as const).map((field) => (
           <div key={field}>

@@ -77,7 +77,7 @@ async function main(argv: string[]): Promise<number> {
   }
   const evaluator = new SandboxedEvaluator({ ...sandboxOptionsFromEnv(), workers: 1, root });
   try {
-    const result = await evaluator.evaluate(cellsOf(sheet), { significantFigures: sheet.significantFigures ?? DEFAULT_SIGNIFICANT_FIGURES });
+    const result = await evaluator.evaluate(cellsOf(sheet), { significantFigures: sheet.significantFigures ?? DEFAULT_SIGNIFICANT_FIGURES, displayUnits: sheet.displayUnits });
     if (json) process.stdout.write(`${JSON.stringify(toCliOutput(result))}\n`);
     else process.stdout.write(`${table(result, sheet.title)}\n`);
     return result.ok ? 0 : 1;

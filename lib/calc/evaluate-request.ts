@@ -9,6 +9,8 @@ export const evaluateRequestSchema = z.object({
   /** Sends the same sheet to the same worker, whose cache makes re-evaluation incremental. */
   sheetKey: z.string().max(100).optional(),
   significantFigures: z.number().int().min(2).max(15).default(6),
+  /** The units results are shown in (lib/calc/display-units.ts); SI when absent. */
+  displayUnits: z.enum(['si', 'trade']).optional(),
   /**
    * The sheet being edited: the one whose attachments `attachments` names, and whose project's issued
    * revisions `fromRevision(…)` cites (without it, a citation evaluates to an error).

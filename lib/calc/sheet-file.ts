@@ -7,6 +7,8 @@ import type { CellInput } from './types';
 export const sheetFileSchema = z.looseObject({
   title: z.string().max(300),
   significantFigures: z.number().int().min(2).max(15).optional(),
+  /** 'si' or 'trade' (lib/calc/display-units.ts); SI when absent. */
+  displayUnits: z.enum(['si', 'trade']).optional(),
   cells: z
     .array(
       z.looseObject({

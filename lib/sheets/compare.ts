@@ -7,6 +7,7 @@ import { z } from 'zod';
 import { INT4_MAX } from '@/lib/http/params';
 import type { DisplayValue, SheetResult, StatementResult, ValueKind } from '../calc/types';
 import type { VersionContent } from './content';
+import { DISPLAY_UNITS_DEFAULT, DISPLAY_UNITS_LABEL } from '@/lib/calc/display-units';
 
 /** The query of GET /api/sheets/{sheetId}/compare: `?base=1&target=2`, or only `target` for a first check. */
 export const compareQuerySchema = z.object({
@@ -95,7 +96,7 @@ export interface ResultComparison {
   flipped: boolean;
 }
 
-export type RecordFieldName = 'title' | 'safetyRelated' | 'significantFigures' | 'objective' | 'method' | 'conclusions';
+export type RecordFieldName = 'title' | 'safetyRelated' | 'significantFigures' | 'displayUnits' | 'objective' | 'method' | 'conclusions';
 
 export interface RecordFieldChange {
   field: RecordFieldName;
@@ -550,11 +551,17 @@ function compareList<T, F extends string>(
   return out;
 }
 
+function displayUnitsLabel(content: VersionContent): string {
+  return DISPLAY_UNITS_LABEL[content.displayUnits ?? DISPLAY_UNITS_DEFAULT];
+}
+
 function compareRecord(base: VersionContent | null, target: VersionContent): RecordComparison {
   const fields = [
     compareField('title', base?.title ?? null, target.title, true),
     compareField('safetyRelated', base?.safetyRelated ?? null, target.safetyRelated, false),
     compareField('significantFigures', base?.significantFigures ?? null, target.significantFigures, false),
+    // Compared as shown: a version saved before the setting existed shows SI units.
+    compareField('displayUnits', base ? displayUnitsLabel(base) : null, displayUnitsLabel(target), false),
     compareField('objective', base?.record.objective ?? null, target.record.objective, true),
     compareField('method', base?.record.method ?? null, target.record.method, true),
     compareField('conclusions', base?.record.conclusions ?? null, target.record.conclusions, true),

@@ -49,6 +49,12 @@ export const versionContentSchema = z
     title: z.string().trim().min(1).max(300),
     safetyRelated: z.boolean(),
     significantFigures: z.number().int().min(2).max(15),
+    /**
+     * The units results are shown in: 'si' or 'trade' (lib/calc/display-units.ts). Optional so that
+     * versions saved before the setting existed parse, and hash, exactly as stored: absent means
+     * 'si' (DISPLAY_UNITS_DEFAULT), what they showed. New sheets write it explicitly.
+     */
+    displayUnits: z.enum(['si', 'trade']).optional(),
     record: calculationRecordSchema,
     cells: z.array(cellSchema).max(2000),
     attachments: z.array(attachmentRefSchema).max(200),

@@ -7,6 +7,7 @@ import type { Database } from '@/db/schema';
 import type { Actor } from '@/lib/auth/actor';
 import { cellsOf, DEFAULT_SIGNIFICANT_FIGURES, parseSheetFile, SheetFileError } from '@/lib/calc/sheet-file';
 import { AppError, unstorableTextPath } from '@/lib/errors/app-error';
+import { DISPLAY_UNITS_DEFAULT } from '@/lib/calc/display-units';
 import { calculationRecordSchema, emptyRecord, versionContentSchema, type VersionContent } from './content';
 import { createSheetWithContent } from './sheets';
 
@@ -21,6 +22,7 @@ export function sheetFileOf(content: VersionContent, meta: { number: string; ver
     title: content.title,
     cells: content.cells.map((c) => ({ id: c.id, kind: c.kind, source: c.source })),
     significantFigures: content.significantFigures,
+    ...(content.displayUnits ? { displayUnits: content.displayUnits } : {}),
     safetyRelated: content.safetyRelated,
     record: content.record,
     exportedFrom: { sheet: meta.number, version: meta.version, sha256: meta.sha256 },
@@ -43,6 +45,8 @@ export async function importSheetFile(db: Kysely<Database>, actor: Actor, projec
     title: file.title.trim(),
     safetyRelated: file.safetyRelated === true,
     significantFigures: file.significantFigures ?? DEFAULT_SIGNIFICANT_FIGURES,
+    // A file without the setting was written before it existed (or by hand): it showed SI units.
+    displayUnits: file.displayUnits ?? DISPLAY_UNITS_DEFAULT,
     record: record.success ? record.data : emptyRecord(),
     cells: cellsOf(file),
     attachments: [],

@@ -15,6 +15,7 @@ import { evaluateSandboxed, evaluationScope } from './evaluate-sandboxed';
 import { sheetStatuses } from '@/lib/checks/status';
 import { AppError } from '@/lib/errors/app-error';
 import { emptyRecord, versionContentSchema, type VersionContent } from './content';
+import { NEW_SHEET_DISPLAY_UNITS } from '@/lib/calc/display-units';
 import { contentHash } from './content-hash';
 import { resolveCitations } from './references';
 import { formatSheetNumber } from './sheet-number';
@@ -67,7 +68,7 @@ export async function listSheets(db: Kysely<Database>, projectId: string, projec
  * in the project's cache scope.
  */
 async function evaluateContent(content: VersionContent, target: { sheetKey: string; projectId: string; userId: string }, tables: InputTable[] = [], references: ResolvedReference[] = []): Promise<SheetResult> {
-  return evaluateSandboxed(content.cells, { significantFigures: content.significantFigures, tables, references }, { kind: 'save', userId: target.userId, scope: evaluationScope({ projectId: target.projectId }), affinity: target.sheetKey });
+  return evaluateSandboxed(content.cells, { significantFigures: content.significantFigures, displayUnits: content.displayUnits, tables, references }, { kind: 'save', userId: target.userId, scope: evaluationScope({ projectId: target.projectId }), affinity: target.sheetKey });
 }
 
 /** A new sheet's version 1: its title, safety flag and objective, no cells. */
@@ -77,6 +78,8 @@ function firstContent(input: z.infer<typeof createSheetSchema>): VersionContent 
     title: input.title,
     safetyRelated: input.safetyRelated,
     significantFigures: 6,
+    // Written explicitly (a version without it shows SI units, as versions did before the setting).
+    displayUnits: NEW_SHEET_DISPLAY_UNITS,
     record: { ...emptyRecord(), objective: input.objective },
     cells: [],
     attachments: [],

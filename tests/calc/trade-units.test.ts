@@ -138,3 +138,16 @@ describe('the radian where it multiplies a length (SI Brochure 9th ed., §2.3.3:
     expect(ok(r.get('s_30')).number).toBeCloseTo(0.5, 15);
   });
 });
+
+describe('the examples of the function reference (lib/calc/display-units.ts, UNIT_EXAMPLES)', () => {
+  it('each evaluates to the result the reference shows', async () => {
+    const { UNIT_EXAMPLES } = await import('../../lib/calc/display-units');
+    expect(UNIT_EXAMPLES.length).toBeGreaterThan(8);
+    for (const x of UNIT_EXAMPLES) {
+      const r = engine.evaluate([{ id: 'c1', kind: 'calc', source: x.source }], { significantFigures: 6, displayUnits: x.displayUnits });
+      const st = r.cells[0].statements[0];
+      expect(st.error, x.source).toBeNull();
+      expect(st.value!.text.replace(/\u202f/g, ' '), `${x.source} (${x.displayUnits})`).toBe(x.result);
+    }
+  });
+});

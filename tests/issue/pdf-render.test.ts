@@ -175,6 +175,9 @@ describe('the content', () => {
     expect(layout).toContain(`Engine version ${data.version.engineVersion}`);
     expect(data.version.engineVersion).toMatch(/^worldsheet-calc /);
     expect(layout).toContain(`Constants edition ${data.version.constantsEdition}`);
+    // The display-units setting: the fixture's content predates it, so it showed SI units.
+    expect('displayUnits' in data.version.content).toBe(false);
+    expect(layout).toContain('Units shown SI units');
     for (const k of data.constants) expect(layout).toContain(`${k.name} ${k.value} ${k.provenance}`);
   });
 

@@ -356,6 +356,15 @@ describe('record and attachments', () => {
       { key: 'Beam on axis', status: 'changed', old: { text: 'Beam on axis', needsVerification: true }, new: { text: 'Beam on axis', needsVerification: false }, changedFields: ['needsVerification'] },
     ]);
   });
+
+  it('reports a change of the units shown, reading a version saved without the setting as SI units', () => {
+    const before = content([]);
+    expect('displayUnits' in before).toBe(false);
+    const trade = compareVersions({ content: before, results: null }, { content: content([], { displayUnits: 'trade' }), results: null });
+    expect(trade.record.fields).toEqual([{ field: 'displayUnits', old: 'SI units', new: 'Accelerator units (eV, eV/c, eV/c²)', diff: null }]);
+    // Writing 'si' explicitly shows the same as before: no change to report.
+    expect(compareVersions({ content: before, results: null }, { content: content([], { displayUnits: 'si' }), results: null }).record.fields).toEqual([]);
+  });
 });
 
 describe('first check and identical versions', () => {
@@ -379,11 +388,13 @@ describe('first check and identical versions', () => {
       ['title', null],
       ['safetyRelated', null],
       ['significantFigures', null],
+      // The display-units setting is a record field (new with issue 15).
+      ['displayUnits', null],
       ['objective', null],
       ['method', null],
       ['conclusions', null],
     ]);
-    expect(cmp.record.fields[3].diff).toEqual([{ text: 'Rigidity', added: true }]);
+    expect(cmp.record.fields[4].diff).toEqual([{ text: 'Rigidity', added: true }]);
     expect(cmp.record.inputs.map((i) => [i.key, i.status])).toEqual([['Field', 'added']]);
     expect(cmp.record.references.map((r) => [r.key, r.status])).toEqual([['PDG 2024', 'added']]);
     expect(cmp.record.attachments.map((a) => [a.key, a.status])).toEqual([['map.csv', 'added']]);
@@ -391,7 +402,7 @@ describe('first check and identical versions', () => {
       cells: { added: 2, removed: 0, changed: 0, moved: 0, unchanged: 0 },
       results: { added: 2, removed: 0, changed: 0, unchanged: 0 },
       criteriaFlipped: 0,
-      recordChanges: 8,
+      recordChanges: 9,
       attachmentChanges: 1,
     });
   });

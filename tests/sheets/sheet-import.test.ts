@@ -44,3 +44,23 @@ it('leaves nothing behind when saving the imported version fails', async () => {
   // And the next import takes number 1: nothing was used up.
   expect((await importSheetFile(db, author, project, FILE)).code).toBe('TPT2-CALC-0001');
 });
+
+it('records the units shown: a new sheet writes the trade setting, a file keeps its own, a file without one reads as SI', async () => {
+  const { db, author, project } = await world();
+  const momentum = { title: 'Momentum', cells: [{ kind: 'calc', source: 'p_i = momentumFromKinetic(250 MeV, m_p)' }] };
+  const plain = await importSheetFile(db, author, project, JSON.stringify(momentum));
+  const trade = await importSheetFile(db, author, project, JSON.stringify({ ...momentum, displayUnits: 'trade' }));
+  const read = async (sheetId: string) =>
+    db.selectFrom('versions').select(['number', 'content', 'results']).where('sheet_id', '=', sheetId).orderBy('number').execute();
+  const [created, imported] = await read(plain.id);
+  // Version 1, as created: the setting written explicitly.
+  expect((created.content as { displayUnits?: string }).displayUnits).toBe('trade');
+  // A file without the setting was written before it existed: SI units, as it showed then.
+  expect((imported.content as { displayUnits?: string }).displayUnits).toBe('si');
+  const unitOf = (results: unknown) => (results as { cells: Array<{ statements: Array<{ value: { unit: string } }> }> }).cells[0].statements[0].value.unit;
+  expect(unitOf(imported.results)).toBe('(kg m) / s');
+  const [, tradeVersion] = await read(trade.id);
+  expect((tradeVersion.content as { displayUnits?: string }).displayUnits).toBe('trade');
+  // PDG RPP, kinematics: pc = √(T² + 2T·mc²) = 729.134 MeV for 250 MeV protons.
+  expect(unitOf(tradeVersion.results)).toBe('MeV / c');
+});

@@ -22,7 +22,7 @@ export function POST(request: Request): Promise<Response> {
       const issue = parsed.error.issues[0];
       throw new AppError('bad_request', `${issue.path.join('.') || 'body'}: ${issue.message}`, parsed.error.issues.slice(0, 10));
     }
-    const { cells, significantFigures, sheetKey, sheetId, attachments } = parsed.data;
+    const { cells, significantFigures, displayUnits, sheetKey, sheetId, attachments } = parsed.data;
     if (attachments.length > 0 && !sheetId) throw new AppError('bad_request', 'sheetId: say which sheet the attachments belong to');
     const cited = findReferences(cells);
     // The sheet, and the caller's membership of its project: its attachments and citations, and the
@@ -34,7 +34,7 @@ export function POST(request: Request): Promise<Response> {
     let references: ResolvedReference[] = [];
     if (cited.length > 0) references = sheet ? await resolveReferences(getDb(), sheet.project_id, cited, { excludeSheetId: sheet.id }) : unresolvedReferences(cited);
     // Interactive: counts against the caller's share of the workers (429 with Retry-After beyond it).
-    const result = await evaluateSandboxed(cells, { significantFigures, tables, references }, {
+    const result = await evaluateSandboxed(cells, { significantFigures, displayUnits, tables, references }, {
       userId: actor.userId,
       kind: 'interactive',
       scope: evaluationScope(sheet ? { projectId: sheet.project_id } : { userId: actor.userId }),

@@ -14,6 +14,7 @@ import { type Block, type Inline, markdownBlocks } from './markdown-blocks';
 import { MathBlock, MathGraphic, mathSize } from './math-view';
 import { Breakable, type FigureRenderer, PlotFigurePdf, ReferenceLines, statementExtras, UncertaintyLine } from './statement-extras';
 import { type TypesetMath, createTexCache } from './tex-svg';
+import { DISPLAY_UNITS_DEFAULT, DISPLAY_UNITS_LABEL } from '@/lib/calc/display-units';
 
 // Worldsheet's palette (tailwind.config.ts `tokens`): drafting-paper neutrals, one teal, and the
 // signal colours kept for pass, fail and caution.
@@ -672,6 +673,7 @@ function Evaluation({ data }: { data: RevisionPdfData }) {
       {field('Engine version', data.version.engineVersion, true)}
       {field('Constants edition', data.version.constantsEdition)}
       {field('Significant figures shown', String(data.version.content.significantFigures))}
+      {field('Units shown', DISPLAY_UNITS_LABEL[data.version.content.displayUnits ?? DISPLAY_UNITS_DEFAULT])}
       {field('Statements', `${statements.length} in ${data.version.content.cells.length} cells; ${errors} cell${errors === 1 ? '' : 's'} with errors`)}
       {field('Warnings', warnings === 0 ? 'none' : `${warnings} (a name read as a unit or a mathematical constant where a physical constant may be meant; shown beside each statement)`)}
       {field('Design criteria', `${criteria.length} (${passed} pass, ${criteria.length - passed} fail)`)}
