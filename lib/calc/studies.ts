@@ -7,6 +7,7 @@ import type { MathJsInstance, Unit } from 'mathjs';
 import { displayValue, formatFixedTex, formatFixedText, formatNumberText, quantityParts, unitTex, unitText } from './format';
 import type { BudgetLine, MonteCarloSummary, PlotData, StudyTable, UncertaintyResult } from './types';
 import { nameTex } from './tex';
+import { parseUnitString } from './unit-label';
 import { firstOrder, monteCarlo, roundExpanded, validateAgainstMonteCarlo, type UncertainInput } from './uncertainty';
 
 /** A statement that defines a name, as the engine re-evaluates it in a scope of its choosing. */
@@ -110,6 +111,32 @@ interface DisplayUnit {
   fromSi: (si: number) => number;
 }
 
+/**
+ * The budget's and the uncertainty lines' figures are short summaries at three or four digits, not
+ * the sheet's significant figures: written without trailing zeros (0.5 MeV, not 0.500 MeV, which
+ * would claim a precision the uncertainty does not have; JCGM 100:2008, 7.2.6).
+ */
+const SUMMARY = { trailingZeros: false } as const;
+
+const SUPERSCRIPT: Record<string, string> = { '-': '⁻', '0': '⁰', '1': '¹', '2': '²', '3': '³', '4': '⁴', '5': '⁵', '6': '⁶', '7': '⁷', '8': '⁸', '9': '⁹', '.': '·' };
+
+/** The unit of a sensitivity coefficient, result unit per input unit, with like factors cancelled: (MeV/c)/MeV is 1/c. */
+function quotientText(dy: DisplayUnit, dx: DisplayUnit): string {
+  const top = dy.unit ? parseUnitString(dy.unit) : [];
+  const bottom = dx.unit ? parseUnitString(dx.unit) : [];
+  if (top && bottom) {
+    const powers = new Map<string, number>();
+    for (const p of top) powers.set(p.name, (powers.get(p.name) ?? 0) + p.power);
+    for (const p of bottom) powers.set(p.name, (powers.get(p.name) ?? 0) - p.power);
+    const parts = [...powers].filter(([, power]) => power !== 0).map(([name, power]) => ({ name, power }));
+    if (!parts.length) return '';
+    // Only a denominator: c⁻¹ rather than "1/c", which would read as a number beside the coefficient.
+    if (parts.every((p) => p.power < 0)) return parts.map((p) => `${unitText([{ name: p.name, power: 1 }])}${[...String(p.power)].map((ch) => SUPERSCRIPT[ch] ?? ch).join('')}`).join('·');
+    return unitText(parts);
+  }
+  return dy.text && dx.text ? `${dy.text}/${dx.text}` : dy.text || (dx.text ? `1/${dx.text}` : '');
+}
+
 function displayUnitOf(math: MathJsInstance, v: unknown): DisplayUnit {
   if (typeof v === 'number' || !math.isUnit(v)) return { unit: null, text: '', tex: '', factor: 1, fromSi: (si) => si };
   const q = quantityParts(math, v as Unit);
@@ -152,7 +179,7 @@ export function inputUncertainty(math: MathJsInstance, value: unknown, u: unknow
     U: roundExpanded(U).U,
     k: 2,
     unit: du.unit,
-    text: `standard uncertainty u = ${formatNumberText(uu, Math.min(sig, 3))}${du.text ? ` ${du.text}` : ''}; ${shown.text}`,
+    text: `standard uncertainty u = ${formatNumberText(uu, Math.min(sig, 3), SUMMARY)}${du.text ? ` ${du.text}` : ''}; ${shown.text}`,
     tex: shown.tex,
     budget: [],
     nonLinear: false,
@@ -206,16 +233,16 @@ export function propagateUncertainty(
     // An input with u = 0 contributes nothing; its sensitivity is not evaluated (NaN from firstOrder).
     const c = Number.isFinite(fo.sensitivities[k]) ? fo.sensitivities[k] : 0;
     const cShown = (c * dx.factor) / dy.factor;
-    const unitOfC = dy.text && dx.text ? `${dy.text}/${dx.text}` : dy.text || (dx.text ? `1/${dx.text}` : '');
+    const unitOfC = quotientText(dy, dx);
     const contribution = Math.abs(fo.contributions[k]) / dy.factor;
     return {
       name: input.name,
       valueText: displayValue(math, input.value, sig).text,
-      uText: `${formatNumberText(xs[k].u / dx.factor, Math.min(sig, 3))}${dx.text ? ` ${dx.text}` : ''}`,
+      uText: `${formatNumberText(xs[k].u / dx.factor, Math.min(sig, 3), SUMMARY)}${dx.text ? ` ${dx.text}` : ''}`,
       sensitivity: c,
-      sensitivityText: Number.isFinite(fo.sensitivities[k]) ? `${formatNumberText(cShown, Math.min(sig, 4))}${unitOfC ? ` ${unitOfC}` : ''}` : 'not evaluated (u = 0)',
+      sensitivityText: Number.isFinite(fo.sensitivities[k]) ? `${formatNumberText(cShown, Math.min(sig, 4), SUMMARY)}${unitOfC ? ` ${unitOfC}` : ''}` : 'not evaluated (u = 0)',
       contribution,
-      contributionText: `${formatNumberText(contribution, Math.min(sig, 3))}${dy.text ? ` ${dy.text}` : ''}`,
+      contributionText: `${formatNumberText(contribution, Math.min(sig, 3), SUMMARY)}${dy.text ? ` ${dy.text}` : ''}`,
       share: fo.shares[k],
     };
   });
@@ -232,7 +259,7 @@ export function propagateUncertainty(
       warning = `the Monte Carlo propagation could not evaluate the model for ${r.outOfDomain} of ${r.trials} draws (outside a function's domain); the first-order result is not reliable here`;
     } else {
       const v = validateAgainstMonteCarlo(ySi, 2 * fo.uc, fo.uc, r);
-      const d = (si: number) => formatNumberText(si / dy.factor, Math.min(sig, 4));
+      const d = (si: number) => formatNumberText(si / dy.factor, Math.min(sig, 4), SUMMARY);
       const unit = dy.text ? ` ${dy.text}` : '';
       mc = {
         trials: r.trials,

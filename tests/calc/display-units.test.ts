@@ -113,3 +113,18 @@ describe('the pieces', () => {
     expect(c.toNumber('T m')).toBeCloseTo(6000, 9);
   });
 });
+
+describe('uncertainty in the trade units', () => {
+  it('propagates to a momentum in MeV/c with a sensitivity in c⁻¹ and the summary figures without trailing zeros', () => {
+    const r = engine.evaluate([{ id: 'u1', kind: 'calc', source: 'T_u = 250 MeV ± 0.5 MeV\np_u = momentumFromKinetic(T_u, m_p)' }], { significantFigures: 6, displayUnits: 'trade' });
+    const [input, result] = r.cells[0].statements;
+    // The input's u as written, not 0.500 MeV (JCGM 100:2008, 7.2.6: an uncertainty is given to at most two significant digits).
+    expect(input.uncertainty!.text).toMatch(/^standard uncertainty u = 0\.5 MeV;/);
+    expect(result.value!.unit).toBe('MeV / c');
+    // dp/dT = (T + mc²)/(pc) (PDG RPP kinematics) = 1188.272 / 729.134 = 1.63 per c; (MeV/c)/MeV cancels to c⁻¹.
+    const line = result.uncertainty!.budget[0];
+    expect(line.sensitivityText).toBe('1.63 c⁻¹');
+    expect(line.uText).toBe('0.5 MeV');
+    expect(result.uncertainty!.unit).toBe('MeV / c');
+  });
+});
