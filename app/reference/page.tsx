@@ -4,6 +4,7 @@ import { TexMath } from '@/components/calc/tex-math';
 import { CONSTANTS, CONSTANTS_EDITION } from '@/lib/calc/constants';
 import { LIBRARY } from '@/lib/calc/functions';
 import { LINT_EXAMPLES } from '@/lib/calc/lint';
+import { NAME_EXAMPLES } from '@/lib/calc/reference-examples';
 import { STUDY_FUNCTION_DOCS } from '@/lib/calc/study-functions';
 import { ENGINE_VERSION } from '@/lib/calc/version';
 import { DISPLAY_UNITS_LABEL, UNIT_EXAMPLES } from '@/lib/calc/display-units';
@@ -137,6 +138,53 @@ export default function ReferencePage() {
                 <tr key={x.source} className="border-b border-rule align-top">
                   <td className="py-2 pr-4 font-mono">{x.source}</td>
                   <td className="py-2">{x.warning ?? 'none'}</td>
+                </tr>
+              ))}
+            </tbody>
+          </table>
+        </div>
+      </section>
+
+      <section aria-labelledby="names">
+        <h2 id="names" className="text-xl font-bold">
+          Names
+        </h2>
+        <p className="mt-2 max-w-prose text-sm text-ink-muted">
+          A name starts with a letter, Latin or Greek, and holds letters, digits and underscores (
+          <code className="font-mono">γ</code>, <code className="font-mono">Δp</code>, <code className="font-mono">θ_1</code>,{' '}
+          <code className="font-mono">T_kin</code>); Greek letters are typeset as such. The constants above and the
+          mathematical values (<code className="font-mono">pi</code>, <code className="font-mono">e</code>, …) cannot be
+          redefined.
+        </p>
+        <p className="mt-2 max-w-prose text-sm text-ink-muted">
+          <strong>Precedence:</strong> a sheet may define a name that is also a built-in function (
+          <code className="font-mono">gamma</code>, <code className="font-mono">beta</code>,{' '}
+          <code className="font-mono">sin</code>, a library function). The sheet&apos;s definition then takes precedence
+          over the built-in function everywhere in that sheet: a call such as <code className="font-mono">gamma(5)</code>{' '}
+          after <code className="font-mono">gamma = 1.25</code> is an error that says so, never a silent call of the
+          built-in. To use the built-in function, give the quantity another name.
+        </p>
+        <div className="mt-4 overflow-x-auto">
+          <table className="w-full text-left text-sm">
+            <thead>
+              <tr className="border-b border-rule">
+                <th scope="col" className="py-1 pr-4">
+                  Statements
+                </th>
+                <th scope="col" className="py-1 pr-4">
+                  Result
+                </th>
+                <th scope="col" className="py-1">
+                  Note
+                </th>
+              </tr>
+            </thead>
+            <tbody>
+              {NAME_EXAMPLES.map((x) => (
+                <tr key={x.source} className="border-b border-rule align-top">
+                  <td className="whitespace-pre py-1 pr-4 font-mono">{x.source}</td>
+                  <td className="py-1 pr-4 font-mono">{x.result ?? 'error'}</td>
+                  <td className="py-1">{x.note}</td>
                 </tr>
               ))}
             </tbody>

@@ -5,6 +5,7 @@ import type { Completion, CompletionContext, CompletionResult, CompletionSource 
 import { CONSTANTS } from './constants';
 import { LIBRARY, type CalcFunction } from './functions';
 import { STUDY_FUNCTION_DOCS } from './study-functions';
+import { NAME_CHAR, NAME_START } from './name-syntax';
 
 export interface NameAbove {
   name: string;
@@ -78,7 +79,9 @@ export function inCommentOrString(before: string): boolean {
   return quote !== null;
 }
 
-const WORD = /[A-Za-z_][A-Za-z0-9_]*$/;
+// A name being typed may hold Greek letters (`Δp`, `θ_1`; name-syntax.ts).
+const WORD = new RegExp(`[${NAME_START}_][${NAME_CHAR}]*$`);
+const WHOLE_WORD = new RegExp(`^[${NAME_START}_][${NAME_CHAR}]*$`);
 
 /**
  * The completion for a cursor at `pos` in `lineBefore` (the text of its line before it): null when
@@ -102,7 +105,7 @@ export function completeCalcAt(lineBefore: string, pos: number, explicit: boolea
   if (word && word.index > 0 && /[0-9.]/.test(lineBefore[word.index - 1])) return null;
   if (!word && !explicit) return null;
   const from = word ? pos - word[0].length : pos;
-  return { from, options: calcCompletionOptions(namesAbove), validFor: /^[A-Za-z_][A-Za-z0-9_]*$/ };
+  return { from, options: calcCompletionOptions(namesAbove), validFor: WHOLE_WORD };
 }
 
 /** A CodeMirror completion source; `namesAbove` is read at each request so it can change. */

@@ -13,6 +13,7 @@ import { tokens } from '../../tailwind.config';
 import { CONSTANTS } from './constants';
 import { LIBRARY } from './functions';
 import { readUnitExpression } from './unit-literals';
+import { NAME_CHAR, NAME_START } from './name-syntax';
 
 const PREFIXES = {
   none: [''],
@@ -59,7 +60,10 @@ export const CONSTANT_NAMES: ReadonlySet<string> = new Set([
 /** Words that are operators in mathjs (`to` and `in` convert units). */
 export const KEYWORDS: ReadonlySet<string> = new Set(['to', 'in', 'and', 'or', 'not', 'xor', 'mod']);
 
-const IDENT = /[A-Za-z_][A-Za-z0-9_]*/y;
+// Names hold Latin and Greek letters (`γ`, `Δp`, `θ_1`; lib/calc/name-syntax.ts), and `ħ` is a constant.
+const IDENT = new RegExp(`[${NAME_START}ħ_][${NAME_CHAR}]*`, 'y');
+const IDENT_START = new RegExp(`[${NAME_START}ħ_]`);
+const IDENT_CHAR = new RegExp(`[${NAME_CHAR}.]`);
 const NUMBER = /(?:\d+\.?\d*|\.\d+)(?:[eE][+-]?\d+)?/;
 const COMPARISON = /^(?:<=|>=|==|!=|<|>|≤|≥|≠)/;
 const OPERATOR = /^(?:\+\/-|±|\.\*|\.\/|\.\^|[-+*/^%!=:'?|&~])/;
@@ -128,7 +132,7 @@ export function calcStreamParser(options: CalcLanguageOptions = {}): StreamParse
         return 'string';
       }
       const prev = at > 0 ? line[at - 1] : '';
-      if (/[0-9.]/.test(ch) && !/[A-Za-z0-9_.]/.test(prev)) {
+      if (/[0-9.]/.test(ch) && !IDENT_CHAR.test(prev)) {
         const m = stream.match(NUMBER) as RegExpMatchArray | null;
         if (m && m.index === 0) {
           let j = stream.pos;
@@ -141,7 +145,7 @@ export function calcStreamParser(options: CalcLanguageOptions = {}): StreamParse
           return 'number';
         }
       }
-      if (/[A-Za-z_]/.test(ch)) {
+      if (IDENT_START.test(ch)) {
         IDENT.lastIndex = at;
         const word = IDENT.exec(line)![0];
         stream.pos = at + word.length;

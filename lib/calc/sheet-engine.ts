@@ -11,6 +11,7 @@ import { bindLibrary } from './library-adapter';
 import { bidiRefusalReason, findBidiControl } from './bidi-controls';
 import { createEngineMath, REFUSED_NAMES, type EngineMath } from './math-instance';
 import { checkDefinitionName } from './names';
+import { NAME_CHAR, NAME_START } from './name-syntax';
 import { formulaTex, substitutedTex, substitutionTex, type TexContext } from './tex';
 import type { CellInput, CellResult, CriterionResult, DisplayValue, EvaluateOptions, InputTable, ResolvedReference, SheetReference, SheetResult, StatementResult } from './types';
 import { REFERENCE_FUNCTION, referenceKey } from './references';
@@ -62,6 +63,10 @@ interface ParsedStatement {
   uses: string[];
   /** Bare names that are also units: quantities where the sheet defines them, units otherwise. */
   unitNamed: string[];
+  /** Names called as functions that are built-in functions: the sheet's own where it defines them (names.ts). */
+  fnNamed?: string[];
+  /** Every name called as a function (`f(x)`), to refuse calling a quantity. */
+  calls?: string[];
   /** Unit expressions written after numbers and after `to`, bound to placeholder symbols. */
   unitLiterals: UnitLiteral[];
   /** A problem found without evaluating (unknown unit in a conversion, a bad assignment target). */
@@ -90,7 +95,7 @@ function rewritePlusMinus(line: string): { text: string; error: string | null } 
   // `+/-` is read as `±` for keyboards without it (it means nothing else in a formula).
   const text = line.includes('+/-') ? line.replace(/\+\/-/g, '±') : line;
   if (!text.includes('±')) return { text, error: null };
-  const m = /^\s*([A-Za-z][A-Za-z0-9_]*)\s*=(?!=)([^±]+)±([^±]+)$/.exec(text);
+  const m = new RegExp(`^\\s*([${NAME_START}][${NAME_CHAR}]*)\\s*=(?!=)([^±]+)±([^±]+)$`).exec(text);
   if (!m || /["']/.test(text)) return { text, error: '± gives an input its standard uncertainty: write name = value ± u, one ± per line' };
   return { text: `${m[1]} = uncertain(${m[2].trim()}, ${m[3].trim()})`, error: null };
 }
@@ -186,6 +191,8 @@ export function createSheetEngine(): SheetEngine {
   function analyse(node: AnyNode, statement: ParsedStatement): void {
     const uses = new Set<string>();
     const unitNamed = new Set<string>();
+    const fnNamed = new Set<string>();
+    const calls = new Set<string>();
     const visit = (n: AnyNode, locals: ReadonlySet<string>) => {
       switch (n.type) {
         case 'SymbolNode': {
@@ -207,7 +214,11 @@ export function createSheetEngine(): SheetEngine {
               statement.staticError ??= `The function ${name} is not available in calculation sheets.`;
               return;
             }
-            if (!locals.has(name) && !em.isFunctionName(name)) uses.add(name);
+            if (!locals.has(name)) {
+              calls.add(name);
+              if (em.isFunctionName(name)) fnNamed.add(name);
+              else uses.add(name);
+            }
           } else if (fn) visit(fn, locals);
           for (const a of n.args ?? []) visit(a, locals);
           return;
@@ -258,6 +269,8 @@ export function createSheetEngine(): SheetEngine {
     visit(node, new Set());
     statement.uses = [...uses];
     statement.unitNamed = [...unitNamed];
+    statement.fnNamed = [...fnNamed];
+    statement.calls = [...calls];
   }
 
   function parseCell(source: string): ParsedStatement[] {
@@ -445,10 +458,26 @@ export function createSheetEngine(): SheetEngine {
 
     // The lint's findings for a name the sheet defines are dropped: the name is the sheet's quantity
     // (a name that cannot be redefined, such as `e`, stays flagged).
+    const calledQuantityMessage = (name: string): string => {
+      if (tables.has(name)) return `\`${name}\` is the input table read from ${tables.get(name)!.fileName}, not a function; read a column as ${name}.column`;
+      const at = firstDefinition.get(name)!;
+      const where = `cell ${at.cell + 1}, line ${at.line}`;
+      if (em.isFunctionName(name)) {
+        return `\`${name}\` is this sheet's own quantity (defined in ${where}), not a function: a sheet's definition takes precedence over the built-in function ${name} everywhere in the sheet; to call the built-in function, give the quantity another name (e.g. \`${name}_1\`)`;
+      }
+      return `\`${name}\` is a quantity (defined in ${where}), not a function: write \`${name} * (…)\` for a product, or define a function such as f(x) = …`;
+    };
     const lintSilenced = (name: string) => firstDefinition.has(name) && checkDefinitionName(name, em) === null;
     const warningsOf = (st: ParsedStatement) => (st.lint ?? []).filter((f) => !lintSilenced(f.name)).map((f) => f.message);
-    // A bare name that is also a unit is a quantity when the sheet defines it anywhere.
-    const usesOf = (st: ParsedStatement) => (st.unitNamed.length ? [...st.uses, ...st.unitNamed.filter((n) => firstDefinition.has(n))] : st.uses);
+    // A bare name that is also a unit is a quantity when the sheet defines it anywhere; so is a
+    // name of a built-in function the sheet defines (its definition takes precedence: names.ts).
+    const usesOf = (st: ParsedStatement) =>
+      st.unitNamed.length || st.fnNamed?.length
+        ? [...st.uses, ...st.unitNamed.filter((n) => firstDefinition.has(n)), ...(st.fnNamed ?? []).filter((n) => firstDefinition.has(n))]
+        : st.uses;
+    // What the sheet's first definition of each name is: a value (`x = …`) cannot be called as `x(…)`.
+    const definitionKindOf = new Map<string, StatementResult['kind']>();
+    for (const statements of parsed) for (const st of statements) if (st.defines && !definitionKindOf.has(st.defines)) definitionKindOf.set(st.defines, st.kind);
     const scope = new Map<string, unknown>(em.constants);
     const monteCarloMode = options.monteCarlo ?? 'auto';
     const resolved = new Map((options.references ?? []).map((r) => [referenceKey(r), r]));
@@ -591,6 +620,8 @@ export function createSheetEngine(): SheetEngine {
         ...correlationContext,
         // Whether the sheet defines a name the lint flags decides whether the warning shows.
         ...[...new Set(statements.flatMap((st) => (st.lint ?? []).map((f) => f.name)))].map((n) => `lint:${n}=${lintSilenced(n)}`),
+        // Whether the sheet defines a unit name written after a number's unit with a space (`1 T m`).
+        ...[...new Set(statements.flatMap((st) => st.unitLiterals.flatMap((l) => l.spacedNames ?? [])))].map((n) => `spaced:${n}=${firstDefinition.has(n)}`),
       ];
       const key = createHash('sha256').update(`${hooks.cacheScope ?? ''}\0${sig}\0${displayUnits}\0${ci}\0${cell.source}\0${context.join('\0')}`).digest('base64');
 
@@ -662,8 +693,21 @@ export function createSheetEngine(): SheetEngine {
           fail(st.staticError);
           continue;
         }
-        const problem = usesOf(st)
+        // `1 T m`: a unit name joined by a space after a number's unit, which the sheet also defines.
+        const spacedUnit = st.unitLiterals.find((l) => l.spacedNames?.some((n) => firstDefinition.has(n)));
+        if (spacedUnit) {
+          const name = spacedUnit.spacedNames!.find((n) => firstDefinition.has(n))!;
+          const at = firstDefinition.get(name)!;
+          fail(
+            `\`${spacedUnit.written}\` after a number reads \`${name}\` as a unit, but this sheet also defines a quantity \`${name}\` (${at.cell < 0 ? 'an input table' : `cell ${at.cell + 1}, line ${at.line}`}): ` +
+              `write \`${spacedUnit.unit}\` (no spaces) for the unit, or put \`*\` with spaces before the quantity (\`… * ${name}\`)`,
+          );
+          continue;
+        }
+        const calledQuantity = (st.calls ?? []).find((name) => tables.has(name) || (firstDefinition.has(name) && definitionKindOf.get(name) !== 'function'));
+        const problem = (calledQuantity ? [calledQuantity] : usesOf(st))
           .map((name) => {
+            if (name === calledQuantity) return calledQuantityMessage(name);
             if (definedAt.has(name)) {
               const why = failed.get(name) ?? cellFailed.get(name);
               return why ? `depends on \`${name}\`, which is not available: ${why}` : null;

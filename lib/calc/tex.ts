@@ -14,7 +14,45 @@ const GREEK_SUFFIX = /(alpha|beta|gamma|delta|epsilon|zeta|eta|theta|kappa|lambd
 
 const CONSTANT_TEX = new Map(CONSTANTS.map((c) => [c.name, c.tex]));
 
+/** A Greek letter written as itself in a name (`γ`, `Δp`, `θ_1`) and its TeX control word. */
+const GREEK_CHAR_TEX: ReadonlyMap<string, string> = new Map([
+  ...'alpha beta gamma delta epsilon zeta eta theta iota kappa lambda mu nu xi omicron pi rho varsigma sigma tau upsilon phi chi psi omega'
+    .split(' ')
+    .map((n, i) => [String.fromCharCode(0x03b1 + i), n === 'omicron' ? 'o' : `\\${n}`] as [string, string]),
+  ...'Alpha Beta Gamma Delta Epsilon Zeta Eta Theta Iota Kappa Lambda Mu Nu Xi Omicron Pi Rho - Sigma Tau Upsilon Phi Chi Psi Omega'
+    .split(' ')
+    .map((n, i) => [String.fromCharCode(0x0391 + i), n] as [string, string])
+    .filter(([, n]) => n !== '-')
+    // Capitals that look like Latin letters are written as those letters (TeX has no \Alpha).
+    .map(([c, n]) => [c, GREEK.has(n) ? `\\${n}` : ({ Alpha: 'A', Beta: 'B', Epsilon: 'E', Zeta: 'Z', Eta: 'H', Iota: 'I', Kappa: 'K', Mu: 'M', Nu: 'N', Omicron: 'O', Rho: 'P', Tau: 'T', Chi: 'X' } as Record<string, string>)[n] ?? n] as [string, string]),
+  ['\u03d1', '\\vartheta'],
+  ['\u03d5', '\\phi'],
+  ['\u03f5', '\\epsilon'],
+]);
+const HAS_GREEK_CHAR = /[\u0370-\u03ff]/;
+
+/** A name part holding Greek letters as characters: each letter as its control word (`Δp` → {\Delta p}). */
+function greekCharsTex(part: string): string {
+  const pieces: string[] = [];
+  let latin = '';
+  const flush = () => {
+    if (latin) pieces.push(latin.length === 1 ? latin : `\\mathit{${latin}}`);
+    latin = '';
+  };
+  for (const ch of part) {
+    const tex = GREEK_CHAR_TEX.get(ch);
+    if (tex === undefined) latin += ch;
+    else {
+      flush();
+      pieces.push(tex);
+    }
+  }
+  flush();
+  return pieces.length > 1 ? `{${pieces.join(' ')}}` : pieces.join('');
+}
+
 function baseTex(base: string): string {
+  if (HAS_GREEK_CHAR.test(base)) return greekCharsTex(base);
   if (GREEK.has(base)) return `\\${base}`;
   if (base.length === 1) return base;
   const m = GREEK_SUFFIX.exec(base);
@@ -34,7 +72,7 @@ export function nameTex(name: string): string {
   if (subs.length === 0 || subs.every((s) => s === '')) return baseTex(base);
   const sub = subs
     .filter((s) => s !== '')
-    .map((s) => (GREEK.has(s) ? `\\${s}` : `\\mathrm{${s}}`))
+    .map((s) => (GREEK.has(s) ? `\\${s}` : HAS_GREEK_CHAR.test(s) ? greekCharsTex(s) : `\\mathrm{${s}}`))
     .join(',');
   return `${baseTex(base)}_{${sub}}`;
 }

@@ -17,6 +17,8 @@
 //   never read as units after a number: `2 u` is two u where the sheet does not define `u`, and
 //   twice the sheet's `u` where it does (after `to` they are units).
 
+import { NAME_CHAR, NAME_START } from './name-syntax';
+
 export const UNIT_PLACEHOLDER_PREFIX = '__u_';
 
 /** Units that are units after a number only when the sheet does not define the name. */
@@ -28,9 +30,21 @@ const EV_UNIT = /^(?:[yzafpnumkMGTPEZY]|da|h)?eV$/;
 export interface UnitLiteral {
   placeholder: string;
   unit: string;
+  /**
+   * Unit names joined to the unit after a number by a space (`1 T m` is the unit T·m): the engine
+   * refuses the statement as ambiguous where the sheet also defines one of these names.
+   */
+  spacedNames?: string[];
+  /** The unit as written (`T m`), for messages. */
+  written?: string;
 }
 
 const IDENT = /[A-Za-z_][A-Za-z0-9_]*/y;
+// A sheet name may hold Greek letters (name-syntax.ts): a word is skipped whole, and a number right
+// after a letter of a name (`γ1`) is part of the name. Unit names are Latin only (IDENT above).
+const WORD = new RegExp(`[${NAME_START}ħ_][${NAME_CHAR}]*`, 'y');
+const WORD_START = new RegExp(`[${NAME_START}ħ_]`);
+const WORD_CHAR = new RegExp(`[${NAME_CHAR}.]`);
 const POWER = /\^\s*(?:-?\d+(?:\.\d+)?|\(\s*-?\d+(?:\.\d+)?\s*\))/y;
 const NUMBER = /(?:\d+\.?\d*|\.\d+)(?:[eE][+-]?\d+)?/y;
 
@@ -47,7 +61,7 @@ export function unitOfPlaceholder(name: string): string | null {
  * Reads a unit expression at `start`: unit names joined by * or / and raised by ^n. Within a `to`
  * target, spaces around * and / are allowed. Returns the end index, or `start` when no unit is there.
  */
-export function readUnitExpression(line: string, start: number, isUnit: (name: string) => boolean, spaced: boolean): number {
+export function readUnitExpression(line: string, start: number, isUnit: (name: string) => boolean, spaced: boolean, spacedNames?: string[]): number {
   let i = start;
   let end = start;
   let expectUnit = true;
@@ -75,7 +89,19 @@ export function readUnitExpression(line: string, start: number, isUnit: (name: s
     let j = i;
     if (spaced) while (line[j] === ' ' || line[j] === '\t') j++;
     const op = line[j];
-    if (op !== '*' && op !== '/') return end;
+    if (op !== '*' && op !== '/') {
+      // After a number, unit names separated by a space multiply (`1 T m` is T·m, as the trade
+      // writes it); not `to`/`in` (conversions) nor a name called as a function.
+      if (spaced || (op !== ' ' && op !== '\t')) return end;
+      while (line[j] === ' ' || line[j] === '\t') j++;
+      IDENT.lastIndex = j;
+      const m = IDENT.exec(line);
+      if (!m || m[0] === 'to' || m[0] === 'in' || !unit(m[0]) || /^\s*\(/.test(line.slice(j + m[0].length))) return end;
+      spacedNames?.push(m[0]);
+      i = j;
+      expectUnit = true;
+      continue;
+    }
     j++;
     if (spaced) while (line[j] === ' ' || line[j] === '\t') j++;
     IDENT.lastIndex = j;
@@ -94,10 +120,18 @@ export function extractUnitLiterals(line: string, isUnit: (name: string) => bool
   let out = '';
   let i = 0;
   let quote: string | null = null;
-  const take = (from: number, to: number) => {
-    const unit = line.slice(from, to).replace(/\s+/g, '');
+  const take = (from: number, to: number, spacedNames: string[] = []) => {
+    const written = line.slice(from, to);
+    // Spaces around operators and inside a power's parentheses go; a space between two units multiplies.
+    const unit = written
+      .replace(/\s*([*/^])\s*/g, '$1')
+      .replace(/\(\s+/g, '(')
+      .replace(/\s+\)/g, ')')
+      .replace(/\s+/g, '*');
     const placeholder = placeholderFor(unit);
-    if (!literals.some((l) => l.placeholder === placeholder)) literals.push({ placeholder, unit });
+    const known = literals.find((l) => l.placeholder === placeholder);
+    if (!known) literals.push({ placeholder, unit, ...(spacedNames.length ? { spacedNames, written } : {}) });
+    else if (spacedNames.length) Object.assign(known, { spacedNames: [...new Set([...(known.spacedNames ?? []), ...spacedNames])], written });
     out += placeholder;
   };
   while (i < line.length) {
@@ -116,9 +150,9 @@ export function extractUnitLiterals(line: string, isUnit: (name: string) => bool
       continue;
     }
     const prev = i > 0 ? line[i - 1] : '';
-    if (/[A-Za-z_]/.test(ch)) {
-      IDENT.lastIndex = i;
-      const word = IDENT.exec(line)![0];
+    if (WORD_START.test(ch)) {
+      WORD.lastIndex = i;
+      const word = WORD.exec(line)![0];
       out += word;
       i += word.length;
       if ((word === 'to' || word === 'in') && /\s/.test(line[i] ?? '')) {
@@ -133,7 +167,7 @@ export function extractUnitLiterals(line: string, isUnit: (name: string) => bool
       }
       continue;
     }
-    if (/[0-9.]/.test(ch) && !/[A-Za-z0-9_.]/.test(prev)) {
+    if (/[0-9.]/.test(ch) && !WORD_CHAR.test(prev)) {
       NUMBER.lastIndex = i;
       const m = NUMBER.exec(line);
       if (m) {
@@ -141,10 +175,11 @@ export function extractUnitLiterals(line: string, isUnit: (name: string) => bool
         i += m[0].length;
         let j = i;
         while (line[j] === ' ' || line[j] === '\t') j++;
-        const end = readUnitExpression(line, j, isUnit, false);
+        const spacedNames: string[] = [];
+        const end = readUnitExpression(line, j, isUnit, false, spacedNames);
         if (end > j) {
           out += line.slice(i, j);
-          take(j, end);
+          take(j, end, spacedNames);
           i = end;
         }
         continue;

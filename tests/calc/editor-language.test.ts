@@ -22,6 +22,28 @@ function kinds(line: string): Array<[string, CalcTokenKind]> {
 }
 
 describe('tokens', () => {
+  it('reads Greek letters as names (lib/calc/name-syntax.ts), ħ as a constant, and `1 T m` as a unit', () => {
+    expect(kinds('Δp = 3 γ * θ_1 + β2 * ħ')).toEqual([
+      ['Δp', 'name'],
+      ['=', 'operator'],
+      ['3', 'number'],
+      ['γ', 'name'],
+      ['*', 'operator'],
+      ['θ_1', 'name'],
+      ['+', 'operator'],
+      ['β2', 'name'],
+      ['*', 'operator'],
+      ['ħ', 'constant'],
+    ]);
+    // Unit names joined by a space after a number multiply (unit-literals.ts): the trade's T m.
+    expect(kinds('B_rho = 1 T m')).toEqual([
+      ['B_rho', 'name'],
+      ['=', 'operator'],
+      ['1', 'number'],
+      ['T m', 'unit'],
+    ]);
+  });
+
   it('reads a definition with a unit after the number and a comment', () => {
     expect(kinds('T_kin = 250 MeV   # kinetic energy')).toEqual([
       ['T_kin', 'name'],
