@@ -21,6 +21,7 @@ import { ENGINE_VERSION } from './version';
 import { installSizeGuards, LIMITS } from './limits';
 import { extractUnitLiterals, UNIT_PLACEHOLDER_PREFIX, type UnitLiteral } from './unit-literals';
 import { lintExpression, type LintFinding } from './lint';
+import { describeOperand, engineerMessage, notDefined, parseMessage } from './messages';
 import { nonFiniteReason } from './non-finite';
 import { unitTexOf } from './format';
 import { DISPLAY_UNITS_DEFAULT, setDisplayUnits, tradeDisplay } from './display-units';
@@ -103,6 +104,23 @@ function rewritePlusMinus(line: string): { text: string; error: string | null } 
 function messageOf(error: unknown): string {
   const text = error instanceof Error ? error.message : String(error);
   return text.length > 500 ? `${text.slice(0, 500)}…` : text;
+}
+
+/** Names a misspelt name is compared with: functions, mathematical values and units (any case). */
+const builtinNameLists = new WeakMap<EngineMath, { names: string[]; units: string[] }>();
+function builtinNamesOf(em: EngineMath): { names: string[]; units: string[] } {
+  const known = builtinNameLists.get(em);
+  if (known) return known;
+  const math = em.math as unknown as Record<string, unknown>;
+  const names = Object.keys(math).filter(
+    (k) => /^[a-z][A-Za-z0-9]*$/.test(k) && !/Scalar$|Dependencies$|^create[A-Z]/.test(k) && !REFUSED_NAMES.has(k) && (em.isFunctionName(k) || em.isMathConstant(k)),
+  );
+  const units = (em.math.Unit as unknown as { UNITS: Record<string, { prefixes: Record<string, unknown> }> }).UNITS;
+  const unitNames: string[] = [];
+  for (const [name, u] of Object.entries(units)) for (const p of Object.keys(u.prefixes ?? { '': 1 })) unitNames.push(p + name);
+  const lists = { names, units: unitNames.filter((n) => em.isUnitName(n)) };
+  builtinNameLists.set(em, lists);
+  return lists;
 }
 
 export interface SheetEngine {
@@ -312,7 +330,8 @@ export function createSheetEngine(): SheetEngine {
         st.unitLiterals = literals;
         st.node = em.parse(rewritten) as AnyNode;
       } catch (error) {
-        st.parseError = messageOf(error);
+        // mathjs's position counts the unit placeholders; the message is said for the line as written.
+        st.parseError = parseMessage(error, text, em.parse);
         continue;
       }
       const node = st.node;
@@ -421,7 +440,10 @@ export function createSheetEngine(): SheetEngine {
       const a = siNumber(values[i], i === 0 ? 'left side' : 'middle');
       const b = siNumber(values[i + 1], 'right side');
       if ((a.unit === null) !== (b.unit === null) || (a.unit && b.unit && !a.unit.equalBase(b.unit))) {
-        throw new Error('the two sides of the criterion have different dimensions');
+        const sig = 6;
+        throw new Error(
+          `the two sides of the criterion have different dimensions: ${describeOperand(math, operands[i], values[i], sig)} and ${describeOperand(math, operands[i + 1], values[i + 1], sig)}; compare quantities of one kind`,
+        );
       }
       const holds = RELATIONAL_FNS[fns[i]](a.si, b.si);
       pass &&= holds;
@@ -458,6 +480,18 @@ export function createSheetEngine(): SheetEngine {
 
     // The lint's findings for a name the sheet defines are dropped: the name is the sheet's quantity
     // (a name that cannot be redefined, such as `e`, stays flagged).
+    // For messages: the sheet's functions (to say what fails inside a call) and the names a misspelt
+    // one may have meant (the sheet's, the functions', the constants'; a unit in another case).
+    const sheetFunctions = new Map<string, { params: string[]; expr: MathNode }>();
+    for (const statements of parsed) {
+      for (const st of statements) {
+        if (st.kind === 'function' && st.node && st.defines && !sheetFunctions.has(st.defines)) sheetFunctions.set(st.defines, { params: (st.node.params as string[]) ?? [], expr: st.node.expr! });
+      }
+    }
+    const messageNames = {
+      candidates: () => [...firstDefinition.keys(), ...em.constants.keys(), ...builtinNamesOf(em).names],
+      caseCandidates: () => builtinNamesOf(em).units,
+    };
     const calledQuantityMessage = (name: string): string => {
       if (tables.has(name)) return `\`${name}\` is the input table read from ${tables.get(name)!.fileName}, not a function; read a column as ${name}.column`;
       const at = firstDefinition.get(name)!;
@@ -714,7 +748,7 @@ export function createSheetEngine(): SheetEngine {
             }
             const later = firstDefinition.get(name);
             if (later) return `\`${name}\` is used before it is defined (cell ${later.cell + 1}, line ${later.line}); define names above where they are used`;
-            return em.isFunctionName(name) ? null : `\`${name}\` is not defined`;
+            return em.isFunctionName(name) ? null : notDefined(name, messageNames);
           })
           .find((p) => p !== null);
         const columnProblem = st.columns
@@ -854,7 +888,21 @@ export function createSheetEngine(): SheetEngine {
             }
           }
         } catch (error) {
-          fail(messageOf(error));
+          // mathjs's own wording never reaches a person (messages.ts); the engine's and the
+          // library's messages pass through.
+          fail(
+            engineerMessage(error, {
+              math,
+              // A sweep, plot or correlation is not a formula to take apart: its message is only cleaned.
+              node: st.kind === 'definition' ? (st.uncertain ? st.node!.value!.args![0] : st.node!.value!) : st.node!,
+              locate: !st.study && !st.correlation && !st.reference,
+              scope,
+              sig,
+              sheetFunction: (name) => sheetFunctions.get(name) ?? null,
+              candidates: messageNames.candidates,
+              caseCandidates: messageNames.caseCandidates,
+            }),
+          );
         }
       }
 

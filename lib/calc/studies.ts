@@ -4,6 +4,7 @@
 // Monte Carlo draw (JCGM 101:2008). Every re-evaluation runs the sheet's own compiled statements, so
 // a sweep's row equals what the sheet gives when that value is written in.
 import type { MathJsInstance, Unit } from 'mathjs';
+import { cleanMessage } from './messages';
 import { displayValue, formatFixedTex, formatFixedText, formatNumberText, quantityParts, unitTex, unitText } from './format';
 import type { BudgetLine, MonteCarloSummary, PlotData, StudyTable, UncertaintyResult } from './types';
 import { nameTex } from './tex';
@@ -82,7 +83,8 @@ export class Reevaluator {
 }
 
 function messageOf(error: unknown): string {
-  return error instanceof Error ? error.message : String(error);
+  // A row's error is shown to a person: never mathjs's own wording (messages.ts).
+  return cleanMessage(error);
 }
 
 /** A scalar's SI number (mathjs keeps a unit's value in SI), or null for anything else. */

@@ -66,7 +66,7 @@ describe('npm run -s calc -- FILE --json', () => {
     expect(r.code).toBe(1);
     const out = JSON.parse(r.stdout);
     expect(out.ok).toBe(false);
-    expect(out.cells[0]).toMatchObject({ index: 0, ok: false, error: expect.stringMatching(/Units do not match/) });
+    expect(out.cells[0]).toMatchObject({ index: 0, ok: false, error: expect.stringMatching(/cannot add `1 m` \(a length\) and `1 s` \(a time\)/) });
     expect(out.values.b_1).toEqual({ value: 2, unit: null });
   });
 

@@ -62,7 +62,7 @@ it('typesets the scratch pad results as the user types', async () => {
   expect(await page.getByText('Pass').count()).toBeGreaterThan(0);
   const box = page.getByLabel('Calculation cell');
   await box.fill('x_1 = 2 m\ny_1 = x_1 + 1 s');
-  await page.getByRole('alert').filter({ hasText: 'Units do not match' }).waitFor();
+  await page.getByRole('alert').filter({ hasText: 'cannot add `x_1` (a length, 2 m) and `1 s` (a time)' }).waitFor();
   await session.screenshot('scratch-pad-error');
   await box.fill('T_kin = 250 MeV\nv_1 = speedFromKinetic(T_kin, m_p)\nbeta_1 = v_1 / c\nbeta_1 < 0.7');
   await page.getByText('Pass').waitFor();

@@ -163,7 +163,7 @@ describe('the content', () => {
     const layout = flat(pages.join('\n'));
     expect(layout).toContain(`PASS ${criteria[0].criterion!.marginText}`);
     expect(layout).toContain(`FAIL ${criteria[1].criterion!.marginText}`);
-    expect(whole).toContain('Error: Units do not match');
+    expect(whole).toContain('Error: cannot add');
   });
 
   it('lists the attachments with their SHA-256, the engine version and the constants edition', () => {

@@ -213,7 +213,7 @@ describe('results', () => {
     );
     const [v, w, l] = cmp.results;
     expect(v).toMatchObject({ name: 'v', status: 'changed', old: { text: '2 m/s', error: null }, new: { text: '', number: null, unit: null, kind: null }, relativeChange: null });
-    expect(v.new!.error).toMatch(/Units do not match/);
+    expect(v.new!.error).toMatch(/^cannot add `2 m \/ s` \(a speed\) and `1 kg` \(a mass\)/);
     expect(w.status).toBe('changed');
     expect(w.new!.error).toMatch(/depends on `v`/);
     expect(l).toMatchObject({ name: 'L', status: 'unchanged', relativeChange: 0 });
