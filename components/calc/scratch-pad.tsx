@@ -41,7 +41,15 @@ export function ScratchPad() {
           One statement per line; <code className="font-mono">#</code> starts a comment. Names are defined once, above their use.
           Ctrl-Space lists names, constants and functions; Escape then Tab leaves the editor.
         </p>
-        <CalcEditor value={source} onChange={setSource} label="Calculation cell" describedBy={helpId} minLines={14} className="mt-2" />
+        <CalcEditor
+          value={source}
+          onChange={setSource}
+          label="Calculation cell"
+          describedBy={helpId}
+          lineErrors={cell?.statements.flatMap((s) => (s.error ? [{ line: s.line, message: s.error }] : []))}
+          minLines={14}
+          className="mt-2"
+        />
       </div>
       <section aria-labelledby={`${inputId}-results`} aria-live="polite" aria-busy={isLoading}>
         <h2 id={`${inputId}-results`} className="font-semibold">

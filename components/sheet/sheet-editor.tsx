@@ -239,6 +239,7 @@ export function SheetEditor({ sheetId, projectCode, sheetNumber, base }: Props) 
                   value={cell.source}
                   onChange={(value) => setCell(i, value)}
                   namesAbove={[...tableNames, ...content.cells.slice(0, i).flatMap((above) => (resultById.get(above.id)?.defines ?? []).map((name) => ({ name })))]}
+                  lineErrors={result?.statements.flatMap((s) => (s.error ? [{ line: s.line, message: s.error }] : []))}
                   minLines={2}
                 />
               ) : (

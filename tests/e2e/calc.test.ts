@@ -63,9 +63,19 @@ it('typesets the scratch pad results as the user types', async () => {
   const box = page.getByLabel('Calculation cell');
   await box.fill('x_1 = 2 m\ny_1 = x_1 + 1 s');
   await page.getByRole('alert').filter({ hasText: 'cannot add `x_1` (a length, 2 m) and `1 s` (a time)' }).waitFor();
+  // The error also marks its line in the editor's gutter: a button named by the line and the message
+  // (reachable by keyboard, read by a screen reader); activating it puts the cursor on that line.
+  const marker = page.getByRole('button', { name: /^Line 2 error: cannot add x_1 \(a length, 2 m\) and 1 s \(a time\)/ });
+  await marker.waitFor();
+  expect(await page.locator('.cm-calc-error-marker[aria-label^="Line 1 "]').count()).toBe(0);
+  await marker.focus();
+  await page.keyboard.press('Enter');
+  expect(await page.evaluate(() => document.activeElement?.getAttribute('aria-label'))).toBe('Calculation cell');
   await session.screenshot('scratch-pad-error');
   await box.fill('T_kin = 250 MeV\nv_1 = speedFromKinetic(T_kin, m_p)\nbeta_1 = v_1 / c\nbeta_1 < 0.7');
   await page.getByText('Pass').waitFor();
+  // No error, no marker (the gutter's hidden spacer has no name).
+  await page.locator('.cm-calc-error-marker[aria-label]').first().waitFor({ state: 'detached' });
   await session.screenshot('scratch-pad');
   expect(session.problems).toEqual([]);
 });
