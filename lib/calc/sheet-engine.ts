@@ -640,7 +640,8 @@ export function createSheetEngine(): SheetEngine {
         ...external.map((n) => {
           if (definedAt.has(n)) return `${n}=${nameKey.get(n) ?? `failed:${failed.get(n) ?? ''}`}`;
           const later = firstDefinition.get(n);
-          return `${n}=${later ? `later:${later.cell}:${later.line}` : 'undefined'}`;
+          // An undefined name's message suggests names of the sheet: the suggestion is part of the key.
+          return `${n}=${later ? `later:${later.cell}:${later.line}` : `undefined:${em.isFunctionName(n) ? '' : notDefined(n, messageNames)}`}`;
         }),
         ...[...ownNames].map((n) => {
           const at = definedAt.get(n);

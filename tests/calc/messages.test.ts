@@ -150,3 +150,13 @@ describe('did you mean', () => {
     expect(didYouMean('gama', ['gamma', 'game', 'lambda'])).toEqual(['game', 'gamma']);
   });
 });
+
+describe('did you mean, with the cell cache', () => {
+  it('follows a change of the names above (the suggestion is part of the cell’s cache key)', () => {
+    const own = createSheetEngine();
+    const first = own.evaluate(cells('T_kin = 250 MeV', 'x = T_knn * 2'), { significantFigures: 6 });
+    expect(first.cells[1].error).toContain('did you mean `T_kin`');
+    const renamed = own.evaluate(cells('T_knx = 250 MeV', 'x = T_knn * 2'), { significantFigures: 6 });
+    expect(renamed.cells[1].error).toContain('did you mean `T_knx`');
+  });
+});
