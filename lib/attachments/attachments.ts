@@ -55,7 +55,9 @@ function checkUnit(unit: string): string | null {
 /** Why a table name cannot be used in cells (it is a built-in name), or null. */
 export function tableNameProblem(name: string, fileName: string): string | null {
   unitMath ??= createEngineMath([]);
-  const problem = LIBRARY.some((f) => f.name === name) ? `\`${name}\` is a built-in function` : checkDefinitionName(name, unitMath);
+  // A sheet's own definition may take a built-in function's name (lib/calc/names.ts), but a table is
+  // named by its file, not written by the author: it never hides a function.
+  const problem = LIBRARY.some((f) => f.name === name) || unitMath.isFunctionName(name) ? `\`${name}\` is a built-in function` : checkDefinitionName(name, unitMath);
   return problem ? `${fileName} would be called \`${name}\` in cells, but ${problem.replace(/^`[^`]*`:? ?/, '')}; rename the file (for example ${name}_data.csv) and upload it again` : null;
 }
 
