@@ -163,11 +163,34 @@ export function quantityParts(math: MathJsInstance, written: Unit): { number: nu
   const u = unit as unknown as InternalUnit;
   const simp = (u.skipAutomaticSimplification ? u.clone() : u.simplify()) as InternalUnit;
   if (simp.units.length === 1 && !simp.fixPrefix && Math.abs(simp.units[0].power - Math.round(simp.units[0].power)) < 1e-14) {
-    simp.units[0].prefix = simp._bestPrefix();
+    const best = simp._bestPrefix();
+    if (prefixInUse(simp.units[0].unit.name, best.name)) simp.units[0].prefix = best;
+    else if (simp.units[0].unit.name === 'g') simp.units[0].prefix = (simp.units[0].unit as unknown as { prefixes: Record<string, { name: string; value: number }> }).prefixes.k;
+    else if (!prefixInUse(simp.units[0].unit.name, simp.units[0].prefix.name)) {
+      const none = (simp.units[0].unit as unknown as { prefixes: Record<string, { name: string; value: number }> }).prefixes[''];
+      if (none) simp.units[0].prefix = none;
+    }
   }
   const number = simp._denormalize(simp.value) as number;
   const unitString = simp.formatUnits();
   return { number, unitString, parts: unitParts(simp as unknown as Unit) };
+}
+
+/**
+ * The prefixes a result is given automatically: atto to exa, as the trade writes them (common
+ * practice: 3 × 10¹² m, not 3 Tm; 1 × 10⁻⁴⁰ m, never 10⁻¹⁰ quectometres; 43 082 s, never 43.1 ks
+ * or 100 Es). Lengths take no prefix above kilo, durations none above one (a duration in hours,
+ * days or years is asked for with `to`), masses no prefix but kilo above a kilogram. Outside
+ * these, the unit keeps no prefix and the number carries the power of ten. A prefix the author
+ * wrote, or asked for with `to`, is never changed.
+ */
+const AUTOMATIC_PREFIXES = new Set(['a', 'f', 'p', 'n', 'u', 'm', '', 'k', 'M', 'G', 'T', 'P', 'E']);
+const LARGEST_PREFIX: Record<string, string> = { m: 'k', s: '', g: 'k' };
+const PREFIX_ORDER = ['a', 'f', 'p', 'n', 'u', 'm', '', 'k', 'M', 'G', 'T', 'P', 'E'];
+export function prefixInUse(unitName: string, prefix: string): boolean {
+  if (!AUTOMATIC_PREFIXES.has(prefix)) return false;
+  const cap = LARGEST_PREFIX[unitName];
+  return cap === undefined || PREFIX_ORDER.indexOf(prefix) <= PREFIX_ORDER.indexOf(cap);
 }
 
 /** A mass the author wrote in MeV/c², u or Da: shown so, not in kilograms. */

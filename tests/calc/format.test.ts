@@ -42,3 +42,31 @@ describe('significant figures keep their trailing zeros', () => {
     expect(r.cells[0].statements[1].value!.number).toBe(1.9675);
   });
 });
+
+describe('prefixes chosen for a result are the ones the trade writes', () => {
+  const engine = createSheetEngine();
+  const shown = (source: string) => engine.evaluate([{ id: 'a', kind: 'calc', source }], { significantFigures: 6 }).cells[0].statements[0].value!.text;
+
+  it('gives a length in metres with a power of ten beyond a kilometre, never Tm, Qm or qm (common practice)', () => {
+    expect(shown('L_1 = 1e120 m')).toBe(`1.000${THIN}00 × 10¹²⁰ m`);
+    expect(shown('L_2 = 1e-40 m')).toBe(`1.000${THIN}00 × 10⁻⁴⁰ m`);
+    expect(shown('L_3 = 3e12 m')).toBe('3 × 10¹² m');
+    // Within the prefixes the trade uses, the prefix stays: 2.5 km, 0.8 fm.
+    expect(shown('L_4 = 2500 m')).toBe(`2.500${THIN}00 km`);
+    expect(shown('L_5 = 0.8e-15 m')).toBe(`0.800${THIN}000 fm`);
+  });
+
+  it('gives a duration in seconds, never ks or Es (common practice: hours, days, years are asked for with `to`)', () => {
+    expect(shown('t_1 = 43082 s')).toBe(`43${THIN}082 s`);
+    expect(shown('t_2 = 1e20 s')).toBe(`1.000${THIN}00 × 10²⁰ s`);
+    expect(shown('t_3 = 2.5e-9 s')).toBe(`2.500${THIN}00 ns`);
+  });
+
+  it('gives a large mass in kilograms with a power of ten, never Qg (common practice)', () => {
+    expect(shown('M_1 = 5.972e24 kg')).toBe(`5.972${THIN}00 × 10²⁴ kg`);
+  });
+
+  it('keeps a prefix the author wrote', () => {
+    expect(shown('L_6 = 3e9 km')).toBe('3 × 10⁹ km');
+  });
+});

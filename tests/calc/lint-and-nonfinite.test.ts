@@ -157,11 +157,17 @@ describe('non-finite and complex results', () => {
     expect(one('x = 2 * NaN').error).toBe('`NaN` is not a number (NaN)');
     expect(one('x = Infinity').error).toBe('`Infinity` is infinite');
     expect(one('x = 1e308 * 10').error).toBe('`1e+308 * 10` overflows: its value (in SI units) is beyond the largest double-precision number, about 1.8 × 10³⁰⁸');
-    // Issue 15: electronWavelength(1e-305 V) gave NaN. Whichever layer catches it (the library's
-    // adapter or this engine check), the statement is an error naming the call.
-    const lib = one('l_2 = electronWavelength(1e-305 V)');
+    // A library result beyond the largest double (γ ≈ 707 times 10³⁰⁸ s): whichever layer catches
+    // it (the library's adapter or this engine check), the statement is an error naming the call.
+    const lib = one('t_2 = timeDilation(1e308 s, 0.999999)');
     expect(lib.value).toBeNull();
-    expect(lib.error).toMatch(/electronWavelength/);
+    expect(lib.error).toMatch(/timeDilation/);
+    // Issue 15: electronWavelength(1e-305 V) gave NaN. The true value, h/√(2 m_e e V) ≈ 3.878 × 10¹⁴³ m
+    // (nonrelativistic limit, common practice; h/√(2 m_e e · 1 V) = 1.226 43 nm, CODATA 2018 constants),
+    // is finite, so it is given, in metres with a power of ten.
+    const finite = one('l_2 = electronWavelength(1e-305 V)');
+    expect(finite.error).toBeNull();
+    expect(finite.value?.text).toBe('3.878\u202f30 × 10¹⁴³ m');
     // A function of the sheet that divides by zero: the call is named.
     const r = run('f(x) = 1/x', 'y_1 = f(0)');
     expect(r.cells[0].ok).toBe(true);
