@@ -193,6 +193,8 @@ describe('single sign-on through an OpenID Connect provider', () => {
     // A checker may read the project's audit trail: the same events, with their reasons.
     await page.goto(`${app.baseUrl}/projects/TPT2/audit?action=membership.revoke`);
     const revoked = page.getByRole('row').filter({ hasText: 'membership.revoke' }).filter({ hasText: '"originator"' });
+    // The page streams: wait for the row before counting.
+    await revoked.first().waitFor();
     expect(await revoked.count()).toBe(1);
     expect(await revoked.innerText()).toContain('no longer in the organisation group (single sign-on)');
     await session.screenshot('oidc-audit-trail-revoke');
