@@ -29,7 +29,7 @@ function ReferenceLines({ references }: { references: ResolvedReference[] }) {
   );
 }
 
-/** "`h` here is the hour…": the names between backquotes in the code face, the rest as text. */
+/** "`h` here is the hour…" (a warning or an error): the names between backquotes in the code face, the rest as text. */
 function WarningText({ text }: { text: string }) {
   return (
     <>
@@ -80,7 +80,7 @@ export function StatementView({ statement, significantFigures = 6, studyCsv }: {
         ) : null}
         {s.error ? (
           <p role="alert" className="rounded bg-fail-soft px-2 py-1 text-sm text-fail">
-            Line {s.line}: <VisibleText text={s.error} />
+            Line {s.line}: <WarningText text={s.error} />
           </p>
         ) : null}
         <StatementWarnings line={s.line} warnings={s.warnings} />

@@ -128,6 +128,11 @@ export function CheckerWorkPanel({
     );
   }
 
+  // Gutter markers for the errors of the last save, while the cell's text is what was evaluated.
+  const lineErrorsOf = (cell: Cell) => {
+    if (!evaluated.some((e) => e.id === cell.id && e.source === cell.source)) return undefined;
+    return results?.cells.find((r) => r.id === cell.id)?.statements.flatMap((s) => (s.error ? [{ line: s.line, message: s.error }] : []));
+  };
   const namesAbove = (i: number) => cells.slice(0, i).flatMap((above) => (results?.cells.find((r) => r.id === above.id)?.defines ?? []).map((name) => ({ name })));
 
   return (
@@ -166,6 +171,7 @@ export function CheckerWorkPanel({
               value={cell.source}
               onChange={(source) => setCells((cs) => cs.map((c) => (c.id === cell.id ? { ...c, source } : c)))}
               namesAbove={namesAbove(i)}
+              lineErrors={lineErrorsOf(cell)}
               minLines={2}
             />
           </div>
