@@ -116,6 +116,9 @@ function makeHandler(ctx: TexContext, substitute: boolean) {
       }
       return spaced(nameTex(node.name));
     }
+    // Euler's number upright, as ISO 80000-2 writes mathematical constants, so that it cannot be
+    // read as the elementary charge `q_e`, typeset as the italic quantity symbol e.
+    if (node.type === 'SymbolNode' && (node.name === 'e' || node.name === 'E')) return '\\mathrm{e}';
     if (node.type === 'AssignmentNode' && node.object && (node.object as AnyNode).type === 'SymbolNode') {
       return `${nameTex((node.object as AnyNode).name!)} = ${node.value!.toTex(options).trimStart()}`;
     }
@@ -124,6 +127,17 @@ function makeHandler(ctx: TexContext, substitute: boolean) {
       // An input with its standard uncertainty: `250 MeV ± 0.5 MeV`.
       if (fnName === 'uncertain' && node.args.length === 2) {
         return `${node.args[0].toTex(options).trimStart()} \\pm ${node.args[1].toTex(options).trimStart()}`;
+      }
+      // The number a quantity is in a unit, as ISO 80000-1 writes it, {Q} = Q/[Q]: `p / (MeV/c)`
+      // (mathjs writes number(p, "MeV/c") as a product of p and a string).
+      if (fnName === 'number' && node.args.length === 2) {
+        const unitArg = (node.args[1] as AnyNode & { value?: unknown }).value;
+        const unitTex = typeof unitArg === 'string' ? safeUnitTex(ctx, unitArg) : node.args[1].toTex(options).trimStart();
+        return `\\frac{${node.args[0].toTex(options).trimStart()}}{${unitTex}}`;
+      }
+      // mathjs writes `\hypot`, which is no TeX command.
+      if (fnName === 'hypot') {
+        return `\\mathrm{hypot}\\left(${node.args.map((a) => a.toTex(options).trimStart()).join(',')}\\right)`;
       }
       // A cited result: its source and its name there.
       const strings = node.args.map((a) => (a as AnyNode & { value?: unknown }).value);
@@ -139,6 +153,15 @@ function makeHandler(ctx: TexContext, substitute: boolean) {
     }
     return undefined;
   };
+}
+
+/** A unit string's TeX, or the string as text where it is no unit (the call fails at evaluation). */
+function safeUnitTex(ctx: TexContext, unit: string): string {
+  try {
+    return ctx.unitTex(unit);
+  } catch {
+    return `\\text{${unit.replace(/[^A-Za-z0-9 ./^*-]/g, '')}}`;
+  }
 }
 
 export function formulaTex(node: MathNode, ctx: TexContext): string {

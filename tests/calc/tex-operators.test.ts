@@ -28,3 +28,27 @@ describe('statement TeX', () => {
     }
   });
 });
+
+describe('symbols that could be read two ways', () => {
+  const engine = createSheetEngine();
+  const st = (source: string) => engine.evaluate([{ id: 'a', kind: 'calc', source }], { significantFigures: 6 }).cells[0].statements.at(-1)!;
+
+  it("sets Euler's number upright and the elementary charge as the italic e (ISO 80000-2: mathematical constants upright; CODATA symbol e)", () => {
+    expect(st('x_1 = e * 1 V').tex).toBe('x_{\\mathrm{1}} = \\mathrm{e}\\cdot1~\\mathrm{V}');
+    expect(st('x_2 = q_e * 1 V').tex).toBe('x_{\\mathrm{2}} = e\\cdot1~\\mathrm{V}');
+    expect(st('x_3 = e^2').tex).toBe('x_{\\mathrm{3}} = {\\mathrm{e}}^{2}');
+  });
+
+  it('writes number(p, "MeV/c") as the quantity over the unit (ISO 80000-1, {Q} = Q/[Q]), not as a product with a string', () => {
+    const s = st('p = momentumFromKinetic(250 MeV, m_p)\nn_1 = number(p, "MeV/c")');
+    expect(s.tex).toBe('n_{\\mathrm{1}} = \\frac{p}{\\mathrm{MeV}/c}');
+    // In SI units the momentum substituted is 729.134 MeV/c = 3.896 70 × 10⁻¹⁹ kg·m/s (CODATA 2018 e and c, exact).
+    expect(s.substitutedTex).toBe('n_{\\mathrm{1}} = \\frac{\\left(3.896\\,70 \\times 10^{-19}\\ \\mathrm{kg}\\cdot \\mathrm{m}/\\mathrm{s}\\right)}{\\mathrm{MeV}/c}');
+  });
+
+  it('typesets hypot, which mathjs writes as the undefined control sequence \\hypot', () => {
+    const s = st('h_1 = hypot(3, 4)');
+    expect(s.tex).toBe('h_{\\mathrm{1}} = \\mathrm{hypot}\\left(3,4\\right)');
+    expect(() => katex.renderToString(s.tex!, { throwOnError: true, strict: 'ignore' })).not.toThrow();
+  });
+});
