@@ -6,6 +6,7 @@ import { C, E_CHARGE } from './constants';
 import { withArgumentEcho } from './functions/support/domain';
 import { speedValue } from './functions/support/kinematics';
 import { formatNumberText } from './format';
+import { unitLabel } from './unit-label';
 import { DomainError, type CalcFunction, type KernelArgument, type ParamKind, type PreciseSpeed, type ReturnKind } from './functions/types';
 import type { LibraryBinding } from './math-instance';
 
@@ -71,7 +72,7 @@ function asWritten(value: unknown): string {
     const units = unit.formatUnits();
     try {
       const number = units ? unit.toNumber(units) : (unit.value as number);
-      return `${formatNumberText(number, 12, { trailingZeros: false })}${units ? ` ${units}` : ''}`;
+      return `${formatNumberText(number, 12, { trailingZeros: false })}${units ? ` ${unitLabel(units)}` : ''}`;
     } catch {
       return describe(value);
     }

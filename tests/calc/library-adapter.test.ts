@@ -141,9 +141,10 @@ describe('domain errors echo the argument as the sheet wrote it', () => {
     ['momentumFromKinetic(250 MeV, -1 kg)', `momentumFromKinetic: m must be ≥ 0 (a rest mass); got ${MINUS}1 kg`],
     ['lengthContraction(-3 km, 0.5)', `lengthContraction: L0 must be ≥ 0 (a proper length); got ${MINUS}3 km`],
     ['electronWavelength(-200 kV)', `electronWavelength: U must be > 0 (an accelerating voltage); got ${MINUS}200 kV`],
-    ['timeDilation(-2.5 us, 0.5)', `timeDilation: dtau must be ≥ 0 (an elapsed proper time); got ${MINUS}2.5 us`],
+    ['timeDilation(-2.5 us, 0.5)', `timeDilation: dtau must be ≥ 0 (an elapsed proper time); got ${MINUS}2.5 µs`],
+    ['kineticFromMomentum(-5 MeV/c, m_p)', `kineticFromMomentum: p must be ≥ 0 (a momentum magnitude); got ${MINUS}5 MeV/c`],
     ['kineticFromMomentum(-1 GeV, m_p)', `kineticFromMomentum: p must be ≥ 0 (a momentum magnitude); got ${MINUS}1 GeV`],
-    ['lorentzFactor(4e8 m/s)', 'lorentzFactor: |β| must be below 1 for a massive body; got β = 1.3342563807926082 (v = 4 × 10⁸ m / s)'],
+    ['lorentzFactor(4e8 m/s)', 'lorentzFactor: |β| must be below 1 for a massive body; got β = 1.3342563807926082 (v = 4 × 10⁸ m/s)'],
   ])('%s', (source, message) => {
     const r = run(`x = ${source}`);
     expect(r.cells[0].ok).toBe(false);
