@@ -1,7 +1,7 @@
 // TeX for a statement, as a checker reads it on paper: the formula with quantity symbols in the
 // ISO 80000-2 style (italic single letters, upright descriptive subscripts, Greek names as Greek
 // letters), and the same formula with every input value substituted.
-import type { MathNode } from 'mathjs';
+import { format, type MathNode } from 'mathjs';
 import { CONSTANTS } from './constants';
 import { unitOfPlaceholder } from './unit-literals';
 
@@ -115,6 +115,15 @@ function makeHandler(ctx: TexContext, substitute: boolean) {
         if (v !== undefined) return spaced(v);
       }
       return spaced(nameTex(node.name));
+    }
+    // A number in powers of ten as the result beside it writes it (ISO 80000-1): 3 × 10¹², not
+    // mathjs's 3·10⁺¹², whose dot reads as a product of two numbers.
+    const constant = node.type === 'ConstantNode' ? (node as unknown as { value: unknown }).value : null;
+    if (typeof constant === 'number') {
+      // Plain digits from 10⁻⁴ to below 10⁶ (150000, 0.000125), powers of ten outside.
+      const text = format(constant, { lowerExp: -4, upperExp: 6 });
+      const at = text.indexOf('e');
+      return at > 0 ? `${text.slice(0, at)}\\times 10^{${text.slice(at + 1).replace('+', '')}}` : text;
     }
     // Euler's number upright, as ISO 80000-2 writes mathematical constants, so that it cannot be
     // read as the elementary charge `q_e`, typeset as the italic quantity symbol e.

@@ -52,3 +52,17 @@ describe('symbols that could be read two ways', () => {
     expect(() => katex.renderToString(s.tex!, { throwOnError: true, strict: 'ignore' })).not.toThrow();
   });
 });
+
+describe('numbers in a formula', () => {
+  const engine = createSheetEngine();
+  const tex = (source: string) => engine.evaluate([{ id: 'a', kind: 'calc', source }], { significantFigures: 6 }).cells[0].statements[0].tex;
+
+  it('write powers of ten with × and no plus sign, as the result does (ISO 80000-1 §7.1.3, common practice)', () => {
+    expect(tex('d_1 = 3e12 m')).toBe('d_{\\mathrm{1}} = 3\\times 10^{12}~\\mathrm{m}');
+    expect(tex('r_1 = 4.5e-10')).toBe('r_{\\mathrm{1}} = 4.5\\times 10^{-10}');
+    // From 10⁻⁴ to below 10⁶ the digits are written out (mathjs would write 150000 as 1.5 · 10⁺⁵).
+    expect(tex('x_1 = 150000 * 2')).toBe('x_{\\mathrm{1}} = 150000\\cdot2');
+    expect(tex('x_2 = 0.000125')).toBe('x_{\\mathrm{2}} = 0.000125');
+    expect(tex('x_3 = 2500000')).toBe('x_{\\mathrm{3}} = 2.5\\times 10^{6}');
+  });
+});
