@@ -154,6 +154,11 @@ export interface ChecksTable {
   checker_notes: Generated<string>;
   alternate_cells: ColumnType<unknown, string | undefined, string>;
   alternate_results: ColumnType<unknown | null, string | null | undefined, string | null>;
+  /** The checker's relative tolerance for the alternate comparison, and as written ("0.1 %"). */
+  tolerance: number | null;
+  tolerance_text: string | null;
+  /** Work carried over from the returned check of an earlier version (lib/checks/carry-over.ts). */
+  carried_over: ColumnType<unknown | null, string | null | undefined, string | null>;
   return_reason: string | null;
   decided_by: string | null;
   created_at: Timestamp;

@@ -23,6 +23,8 @@ import { formatSheetNumber } from '@/lib/sheets/sheet-number';
 import { getVersion } from '@/lib/sheets/sheets';
 import { approverRefusal, checkerRefusal, mayAnswerThreads, type Participants, type Person, type Refusal } from './rules';
 import { statusOf } from './status';
+import { compareAlternate, parseTolerance } from './alternate-comparison';
+import { carryOverWork, carriedFieldsText, readCarriedOver, unconfirmedCarriedOver, type CarriedField } from './carry-over';
 
 type Db = Kysely<Database> | Transaction<Database>;
 
@@ -53,6 +55,19 @@ export const checkWorkSchema = z.object({
   verificationMethod: z.enum(VERIFICATION_METHODS).nullable().optional(),
   checkerNotes: z.string().max(20_000).optional(),
   alternateCells: z.array(cellSchema).max(200).superRefine((cells, ctx) => refuseBidiControls(cells, ctx, [])).optional(),
+  /** The relative tolerance of the alternate comparison as written: "1e-6", "0.1 %", "5 ppm"; null clears it. */
+  tolerance: z
+    .string()
+    .trim()
+    .max(40)
+    .superRefine((t, ctx) => {
+      const parsed = parseTolerance(t);
+      if (!parsed.ok) ctx.addIssue({ code: 'custom', message: parsed.message });
+    })
+    .nullable()
+    .optional(),
+  /** The checker confirms the work carried over from the returned check of an earlier version. */
+  confirmCarriedOver: z.literal(true).optional(),
 });
 
 export const commentSchema = z.object({
@@ -268,6 +283,7 @@ export async function submitForCheck(db: Kysely<Database>, actor: Actor, sheet: 
         .returning(['id'])
         .executeTakeFirstOrThrow();
       await sign(trx, actor, { sheetId: sheet.id, projectId: sheet.project_id, number: version.number, sha256: version.sha256 }, 'prepared', check.id);
+      await carryOverWork(trx, actor, { id: check.id, sheetId: sheet.id, projectId: sheet.project_id });
       await recordAudit(trx, actor, {
         action: 'check.submit',
         objectType: 'check',
@@ -343,18 +359,36 @@ export async function saveCheckWork(db: Kysely<Database>, actor: Actor, checkId:
       ? await evaluateSandboxed(input.alternateCells, { significantFigures: 6, references }, { kind: 'save', userId: actor.userId, scope: evaluationScope({ projectId: check.project_id }), affinity: `check:${check.id}` })
       : null;
   }
-  const given = { method: input.verificationMethod !== undefined, notes: input.checkerNotes !== undefined, cells: input.alternateCells !== undefined };
-  if (!given.method && !given.notes && !given.cells) return { ok: true, alternateResults: null };
+  const given = { method: input.verificationMethod !== undefined, notes: input.checkerNotes !== undefined, cells: input.alternateCells !== undefined, tolerance: input.tolerance !== undefined, confirm: input.confirmCarriedOver === true };
+  if (!given.method && !given.notes && !given.cells && !given.tolerance && !given.confirm) return { ok: true, alternateResults: null };
   return db.transaction().execute(async (trx) => {
     // The values before the change, read under a row lock, so that the audit event records them exactly.
-    const before = await trx.selectFrom('checks').select(['state', 'verification_method', 'checker_notes', 'alternate_cells']).where('id', '=', check.id).forUpdate().executeTakeFirstOrThrow();
+    const before = await trx.selectFrom('checks').select(['state', 'verification_method', 'checker_notes', 'alternate_cells', 'tolerance_text', 'carried_over']).where('id', '=', check.id).forUpdate().executeTakeFirstOrThrow();
     if (before.state !== 'in_check') throw conflict(before, 'changed');
+    const tolerance = input.tolerance ? parseTolerance(input.tolerance) : null;
+    // A carried-over field the checker changes is their own work from now on; one saved unchanged stays marked.
+    const edited = new Set<CarriedField>();
+    if (given.method && input.verificationMethod !== before.verification_method) edited.add('verificationMethod');
+    if (given.notes && input.checkerNotes !== before.checker_notes) edited.add('checkerNotes');
+    if (given.cells && JSON.stringify(input.alternateCells) !== JSON.stringify(before.alternate_cells)) edited.add('alternateCells');
+    if (given.tolerance && (input.tolerance ?? null) !== before.tolerance_text) edited.add('tolerance');
+    const carriedBefore = readCarriedOver(before.carried_over);
+    if (given.confirm && !carriedBefore) throw new AppError('conflict', 'This check carries over no work from an earlier check.');
+    const carried = carriedBefore
+      ? {
+          ...carriedBefore,
+          fields: carriedBefore.fields.filter((f) => !edited.has(f)),
+          ...(given.confirm && !carriedBefore.confirmedAt ? { confirmedAt: new Date().toISOString(), confirmedBy: actor.name } : {}),
+        }
+      : null;
     await trx
       .updateTable('checks')
       .set({
         ...(given.method ? { verification_method: input.verificationMethod } : {}),
         ...(given.notes ? { checker_notes: input.checkerNotes } : {}),
         ...(input.alternateCells ? { alternate_cells: JSON.stringify(input.alternateCells), alternate_results: results ? JSON.stringify(results) : null } : {}),
+        ...(given.tolerance ? { tolerance: tolerance?.ok ? tolerance.value : null, tolerance_text: input.tolerance || null } : {}),
+        ...(carried ? { carried_over: JSON.stringify(carried) } : {}),
         updated_at: sql`now()`,
       })
       .where('id', '=', check.id)
@@ -364,6 +398,8 @@ export async function saveCheckWork(db: Kysely<Database>, actor: Actor, checkId:
     if (given.method) [oldValue.verificationMethod, newValue.verificationMethod] = [before.verification_method, input.verificationMethod];
     if (given.notes) [oldValue.checkerNotes, newValue.checkerNotes] = [before.checker_notes, input.checkerNotes];
     if (given.cells) [oldValue.alternateCells, newValue.alternateCells] = [before.alternate_cells, input.alternateCells];
+    if (given.tolerance) [oldValue.tolerance, newValue.tolerance] = [before.tolerance_text, input.tolerance || null];
+    if (carried && JSON.stringify(carried) !== JSON.stringify(carriedBefore)) [oldValue.carriedOver, newValue.carriedOver] = [carriedBefore, carried];
     await recordAudit(trx, actor, { action: 'check.work', objectType: 'check', objectId: check.id, projectId: check.project_id, oldValue, newValue });
     return { ok: true, alternateResults: results ?? null };
   });
@@ -452,6 +488,17 @@ export async function decide(db: Kysely<Database>, actor: Actor, checkId: string
     const open = await threadRoots(db, check).select(sql<number>`count(*)`.as('n')).where('t.resolved_at', 'is', null).executeTakeFirstOrThrow();
     if (Number(open.n) > 0) throw new AppError('conflict', `${open.n} comment thread${Number(open.n) === 1 ? ' is' : 's are'} still open; resolve every thread before signing as checked.`, { openThreads: Number(open.n) });
     if (!check.verification_method) throw new AppError('bad_request', 'Record the verification method (design review, alternate calculation or qualification test) before signing.');
+    const carried = readCarriedOver(check.carried_over);
+    const pending = unconfirmedCarriedOver(carried);
+    if (pending.length) {
+      throw new AppError('conflict', `The ${carriedFieldsText(pending)} ${pending.length === 1 ? 'is' : 'are'} still as carried over from the check of version ${carried!.fromVersion}; confirm or edit ${pending.length === 1 ? 'it' : 'them'} before signing.`, { carriedOver: pending });
+    }
+    if (check.tolerance === null && check.alternate_results) {
+      const v = await getVersion(db, check.sheet_id, check.version_number);
+      if (compareAlternate(v?.results, check.alternate_results as SheetResult, null).rows.length) {
+        throw new AppError('bad_request', 'State the tolerance of the comparison between the alternate calculation and the sheet before signing.');
+      }
+    }
   }
   if (decision.action === 'sign' || decision.action === 'approve') await confirmPassword(db, actor, sheet, decision.action === 'sign' ? 'checked' : 'approved', decision.password);
 
@@ -572,6 +619,12 @@ export async function getCheckDetail(db: Kysely<Database>, actor: Actor, checkId
     checkerNotes: check.checker_notes,
     alternateCells: check.alternate_cells as Cell[],
     alternateResults: check.alternate_results as SheetResult | null,
+    tolerance: check.tolerance,
+    toleranceText: check.tolerance_text,
+    /** Each name both the sheet and the alternate calculation define, compared (lib/checks/alternate-comparison.ts). */
+    alternateComparison: compareAlternate(version.results, check.alternate_results as SheetResult | null, check.tolerance, check.tolerance_text),
+    /** Work carried over from the returned check of an earlier version, and which of it is still as carried over. */
+    carriedOver: readCarriedOver(check.carried_over),
     returnReason: check.return_reason,
     threads,
     signatures: signatures.filter((s) => s.versionNumber === check.version_number),

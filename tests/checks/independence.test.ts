@@ -69,6 +69,8 @@ async function submit(by: Actor, sheet: SheetRef, checker: Actor, versionNumber 
 
 async function signChecked(checker: Actor, checkId: string) {
   await saveCheckWork(testDb(), checker, checkId, { verificationMethod: 'design_review' });
+  // Work carried over from a returned check of the sheet is confirmed before signing (lib/checks/carry-over.ts).
+  if ((await getCheckDetail(testDb(), checker, checkId)).carriedOver) await saveCheckWork(testDb(), checker, checkId, { confirmCarriedOver: true });
   return decide(testDb(), checker, checkId, { action: 'sign', password: PASSWORD });
 }
 
