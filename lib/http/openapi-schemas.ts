@@ -251,6 +251,29 @@ export const checkDetailSchema = z.looseObject({
   base: z.looseObject({ number: z.number().int(), sha256 }).nullable().meta({ description: 'The last approved version; null at a first check.' }),
   comparison: z.looseObject({}).meta({ description: 'The version against its base: cells (word diffs), results (old, new, relative change), record fields.' }),
   verificationMethod: z.enum(['design_review', 'alternate_calculation', 'qualification_test']).nullable(),
+  tolerance: z.number().nullable().meta({ description: "The checker's relative tolerance for the alternate comparison, as a fraction (0.001 for 0.1 %)." }),
+  toleranceText: z.string().nullable().meta({ description: 'The tolerance as the checker wrote it: "1e-6", "0.1 %", "5 ppm".' }),
+  alternateComparison: z
+    .looseObject({
+      tolerance: z.number().nullable(),
+      rows: z.array(
+        z.looseObject({
+          name: z.string(),
+          sheet: z.string(),
+          alternate: z.string(),
+          alternateInSheetUnit: z.string().nullable(),
+          relativeDifference: z.number().nullable(),
+          status: z.enum(['within', 'outside', 'no_tolerance', 'units_differ', 'not_compared']),
+          words: z.string(),
+        }),
+      ),
+      notWithin: z.number().int(),
+    })
+    .meta({ description: 'Each name defined both in the alternate cells and in the version\'s results: both values as displayed, |a − s| / |s| on SI values, and the outcome in words (units that differ, a zero sheet value, lists: see lib/checks/README.md).' }),
+  carriedOver: z
+    .object({ fromCheckId: uuid, fromVersion: z.number().int(), fields: z.array(z.enum(['verificationMethod', 'checkerNotes', 'alternateCells', 'tolerance'])), confirmedAt: timestamp.nullable(), confirmedBy: z.string().nullable() })
+    .nullable()
+    .meta({ description: 'Work carried over from the returned check of an earlier version: the fields still as carried over (an edit removes one) and the checker\'s confirmation, which signing as checked waits for.' }),
   threads: z.array(
     z.object({
       id: uuid,

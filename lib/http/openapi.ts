@@ -604,7 +604,8 @@ export const OPERATIONS: Operation[] = [
       'Originators of the project. Signs the version "prepared": the password is asked again (21 CFR Part 11 §11.200). The checker must hold ' +
       'the checker role, must not have saved any version since the last approved one, later ones included (ASME NQA-1 Requirement 3 §500), and ' +
       'must not be the submitter or anyone who submitted this version before; a refusal names the rule in `details.rule` and is audited. ' +
-      'One open check per sheet.',
+      'One open check per sheet. When the sheet\'s latest earlier check was returned, its verification method, notes, alternate calculation and tolerance ' +
+      'are carried over to the new check, marked as from that check until the checker edits or confirms them (audited `check.carry_over`).',
     tags: ['checks'],
     auth: 'session or API token',
     params: sheetParam,
@@ -640,8 +641,11 @@ export const OPERATIONS: Operation[] = [
     method: 'PATCH',
     path: '/api/checks/{checkId}',
     operationId: 'saveCheckWork',
-    summary: 'Record the checker\'s work: verification method, notes, alternate calculation',
-    description: 'The checker named on the check, while it is in check. Alternate calculation cells are evaluated by the server. Audited (`check.work`) with the old and new values.',
+    summary: 'Record the checker\'s work: verification method, notes, alternate calculation, tolerance; confirm work carried over',
+    description:
+      'The checker named on the check, while it is in check. Alternate calculation cells are evaluated by the server. `tolerance` is relative ("1e-6", "0.1 %", "5 ppm"; ' +
+      'greater than 0, at most 10 %; null clears it). `confirmCarriedOver: true` confirms the work carried over from the returned check of an earlier version ' +
+      '(409 when there is none); a field saved with a different value is no longer marked as carried over. Audited (`check.work`) with the old and new values.',
     tags: ['checks'],
     auth: 'session or API token',
     params: { checkId: uuidParam('check') },
@@ -678,8 +682,9 @@ export const OPERATIONS: Operation[] = [
     operationId: 'decideCheck',
     summary: 'Return, sign as checked, approve, or return from approval',
     description:
-      '`return` and `sign` by the checker named on the check while in check; `sign` needs every thread resolved, a verification method and the ' +
-      'password. `approve` (password) and `reject` by an approver who saved no version since the last approved one (later ones included), did not ' +
+      '`return` and `sign` by the checker named on the check while in check; `sign` needs every thread resolved, a verification method, a tolerance ' +
+      'when the alternate calculation shares a name with the sheet (400), the work carried over from a returned check confirmed (409 with ' +
+      '`details.carriedOver`) and the password. `approve` (password) and `reject` by an approver who saved no version since the last approved one (later ones included), did not ' +
       'submit the version and, when the version under check records itself as safety-related, is not its checker. The rules are applied again at ' +
       'every decision. Each signature is bound to the version\'s SHA-256. An illegal transition is 409 with `details.state`.',
     tags: ['checks'],
