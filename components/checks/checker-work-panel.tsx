@@ -6,6 +6,10 @@ import { StatementView } from '@/components/calc/statement-view';
 import { CalcEditor } from '@/components/sheet/calc-editor';
 import type { VerificationMethod } from '@/db/schema';
 import type { SheetResult } from '@/lib/calc/types';
+import type { AlternateComparison } from '@/lib/checks/alternate-comparison';
+import type { CarriedOver } from '@/lib/checks/carried-over';
+import { AlternateComparisonTable } from './alternate-comparison-table';
+import { CarriedMark, CarriedOverNotice } from './carried-over-notice';
 import type { Cell } from '@/lib/sheets/content';
 
 type Status = { kind: 'idle' | 'busy' } | { kind: 'done' | 'error'; text: string };
@@ -48,6 +52,10 @@ export function CheckerWorkPanel({
   notes: initialNotes,
   alternateCells,
   alternateResults,
+  tolerance: initialTolerance = null,
+  comparison,
+  carriedOver = null,
+  versionNumber,
 }: {
   checkId: string;
   editable: boolean;
@@ -56,6 +64,11 @@ export function CheckerWorkPanel({
   notes: string;
   alternateCells: Cell[];
   alternateResults: SheetResult | null;
+  /** The checker's relative tolerance as written ("0.1 %"). */
+  tolerance?: string | null;
+  comparison?: AlternateComparison;
+  carriedOver?: CarriedOver | null;
+  versionNumber?: number;
 }) {
   const id = useId();
   const router = useRouter();
@@ -65,6 +78,12 @@ export function CheckerWorkPanel({
   const [results, setResults] = useState<SheetResult | null>(alternateResults);
   const [evaluated, setEvaluated] = useState<Cell[]>(alternateCells);
   const [status, setStatus] = useState<Status>({ kind: 'idle' });
+  const [tolerance, setTolerance] = useState(initialTolerance ?? '');
+  const evidence = (
+    <>
+      {comparison && versionNumber !== undefined && (cells.length > 0 || alternateCells.length > 0) ? <AlternateComparisonTable comparison={comparison} versionNumber={versionNumber} /> : null}
+    </>
+  );
 
   async function patch(body: Record<string, unknown>): Promise<{ alternateResults: SheetResult | null } | null> {
     setStatus({ kind: 'busy' });
@@ -92,7 +111,7 @@ export function CheckerWorkPanel({
   }
 
   async function save() {
-    const answer = await patch({ verificationMethod: method, checkerNotes: notes, alternateCells: cells });
+    const answer = await patch({ verificationMethod: method, checkerNotes: notes, alternateCells: cells, tolerance: tolerance.trim() || null });
     if (!answer) return;
     setResults(answer.alternateResults);
     setEvaluated(cells);
@@ -101,21 +120,36 @@ export function CheckerWorkPanel({
     router.refresh();
   }
 
+  async function confirmCarried() {
+    if (await patch({ confirmCarriedOver: true })) {
+      setStatus({ kind: 'done', text: `Confirmed the work carried over from the check of version ${carriedOver?.fromVersion}.` });
+      router.refresh();
+    }
+  }
+
   const methodLabel = methods.find((m) => m.value === method)?.label;
 
   if (!editable) {
     return (
       <div className="space-y-3 text-sm">
+        <CarriedOverNotice carried={carriedOver} />
         <p>
           <span className="font-semibold">Verification method:</span> {methodLabel ?? <span className="text-ink-muted">not recorded yet</span>}
+          <CarriedMark carried={carriedOver} field="verificationMethod" />
         </p>
         <div>
-          <p className="font-semibold">Checker&apos;s notes</p>
+          <p className="font-semibold">
+            Checker&apos;s notes
+            <CarriedMark carried={carriedOver} field="checkerNotes" />
+          </p>
           {initialNotes ? <p className="whitespace-pre-wrap">{initialNotes}</p> : <p className="text-ink-muted">No notes.</p>}
         </div>
         {alternateCells.length ? (
           <div className="space-y-2">
-            <p className="font-semibold">Alternate calculation</p>
+            <p className="font-semibold">
+              Alternate calculation
+              <CarriedMark carried={carriedOver} field="alternateCells" />
+            </p>
             {alternateCells.map((c) => (
               <pre key={c.id} className="overflow-x-auto rounded bg-paper p-2 font-mono text-sm">
                 {c.source}
@@ -124,6 +158,7 @@ export function CheckerWorkPanel({
             <Results cells={alternateCells} results={alternateResults} />
           </div>
         ) : null}
+        {evidence}
       </div>
     );
   }
@@ -137,8 +172,24 @@ export function CheckerWorkPanel({
 
   return (
     <div className="space-y-4">
+      {carriedOver && carriedOver.fields.length ? (
+        <div className="space-y-2">
+          <CarriedOverNotice carried={carriedOver} />
+          {!carriedOver.confirmedAt ? (
+            <p className="text-sm">
+              Check the carried-over work against version {versionNumber}: edit what no longer holds, then confirm the rest (signing waits for it).{' '}
+              <button type="button" onClick={confirmCarried} disabled={status.kind === 'busy'} className="mt-1 rounded border border-rule-strong bg-surface px-3 py-1.5 text-sm font-semibold">
+                Confirm the work carried over from version {carriedOver.fromVersion}
+              </button>
+            </p>
+          ) : null}
+        </div>
+      ) : null}
       <fieldset className="space-y-1">
-        <legend className="text-sm font-semibold">Verification method (ASME NQA-1 Requirement 3)</legend>
+        <legend className="text-sm font-semibold">
+          Verification method (ASME NQA-1 Requirement 3)
+          <CarriedMark carried={carriedOver} field="verificationMethod" />
+        </legend>
         {methods.map((m) => (
           <label key={m.value} className="flex items-center gap-2 text-sm">
             <input type="radio" name={`${id}-method`} value={m.value} checked={method === m.value} onChange={() => chooseMethod(m.value)} disabled={status.kind === 'busy'} className="h-4 w-4" />
@@ -149,11 +200,15 @@ export function CheckerWorkPanel({
       <div>
         <label htmlFor={`${id}-notes`} className="block text-sm font-semibold">
           Checker&apos;s notes
+          <CarriedMark carried={carriedOver} field="checkerNotes" />
         </label>
         <textarea id={`${id}-notes`} rows={3} value={notes} onChange={(e) => setNotes(e.target.value)} className="w-full rounded border border-rule-strong bg-surface px-3 py-2 text-sm" />
       </div>
       <div className="space-y-2">
-        <h3 className="text-sm font-semibold">Alternate calculation</h3>
+        <h3 className="text-sm font-semibold">
+          Alternate calculation
+          <CarriedMark carried={carriedOver} field="alternateCells" />
+        </h3>
         <p id={`${id}-alt-help`} className="text-xs text-ink-muted">
           Work out the key results another way. The cells are evaluated by the server&apos;s engine and kept with this check; they are not part of the sheet.
         </p>
@@ -179,6 +234,22 @@ export function CheckerWorkPanel({
         <button type="button" onClick={() => setCells((cs) => [...cs, { id: newId(cs), kind: 'calc', source: '' }])} className="rounded border border-rule-strong bg-surface px-3 py-1.5 text-sm font-semibold">
           Add an alternate calculation cell
         </button>
+        <div>
+          <label htmlFor={`${id}-tolerance`} className="block text-sm font-semibold">
+            Tolerance of the comparison (relative)
+            <CarriedMark carried={carriedOver} field="tolerance" />
+          </label>
+          <input
+            id={`${id}-tolerance`}
+            value={tolerance}
+            onChange={(e) => setTolerance(e.target.value)}
+            aria-describedby={`${id}-tolerance-help`}
+            className="w-40 rounded border border-rule-strong bg-surface px-3 py-1.5 font-mono text-sm"
+          />
+          <p id={`${id}-tolerance-help`} className="text-xs text-ink-muted">
+            Each name the alternate cells share with the sheet is compared: |alternate − sheet| / |sheet| must not exceed it. Write 1e-6, 0.1 % or 5 ppm.
+          </p>
+        </div>
       </div>
       <div className="flex flex-wrap items-center gap-3">
         <button type="button" onClick={save} disabled={status.kind === 'busy'} className="rounded bg-accent px-4 py-2 font-semibold text-surface hover:bg-accent-hover disabled:opacity-60">
@@ -194,6 +265,7 @@ export function CheckerWorkPanel({
           <Results cells={evaluated} results={results} />
         </div>
       ) : null}
+      {evidence}
     </div>
   );
 }

@@ -29,6 +29,8 @@ export interface AlternateComparisonRow {
   alternateInSheetUnit: string | null;
   /** |a − s| / |s| on SI values; null when not computed (see `status` and `words`). */
   relativeDifference: number | null;
+  /** The relative difference written for the reader ("2.35 × 10⁻⁵", "0.1 %"), or "—". */
+  relativeDifferenceText: string;
   status: ComparisonStatus;
   /** The outcome in words ("within the tolerance of 1 × 10⁻⁶"), never by colour alone. */
   words: string;
@@ -37,6 +39,8 @@ export interface AlternateComparisonRow {
 export interface AlternateComparison {
   tolerance: number | null;
   toleranceText: string | null;
+  /** The tolerance written for the reader ("1 × 10⁻⁶"), or null. */
+  toleranceWords: string | null;
   rows: AlternateComparisonRow[];
   /** How many rows are not within the tolerance (outside it, not compared, or no tolerance stated). */
   notWithin: number;
@@ -106,6 +110,8 @@ export function compareValues(
   sheet: DisplayValue,
   alternate: DisplayValue,
   tolerance: number | null,
+  /** The tolerance as the checker wrote it ("0.01 %"); by default written from the number. */
+  toleranceLabel: string | null = null,
 ): Pick<AlternateComparisonRow, 'relativeDifference' | 'status' | 'words' | 'alternateInSheetUnit'> {
   const s = siValue(sheet);
   const a = siValue(alternate);
@@ -130,7 +136,7 @@ export function compareValues(
   return {
     relativeDifference: rel,
     status: within ? 'within' : 'outside',
-    words: `${within ? 'within' : 'outside'} the tolerance of ${formatRelative(tolerance)}`,
+    words: `${within ? 'within' : 'outside'} the tolerance of ${toleranceLabel ?? formatRelative(tolerance)}`,
     alternateInSheetUnit: inSheetUnit,
   };
 }
@@ -144,10 +150,11 @@ export function compareAlternate(sheet: SheetResult | null | undefined, alternat
     if (!theirs.has(name)) continue;
     const a = theirs.get(name) ?? null;
     if (!s || !a) {
-      rows.push({ name, sheet: s?.text ?? '—', alternate: a?.text ?? '—', alternateInSheetUnit: null, relativeDifference: null, status: 'not_compared', words: `not compared: the ${!s ? 'sheet' : 'alternate'}'s statement has an error` });
+      rows.push({ name, sheet: s?.text ?? '—', alternate: a?.text ?? '—', alternateInSheetUnit: null, relativeDifference: null, relativeDifferenceText: '—', status: 'not_compared', words: `not compared: the ${!s ? 'sheet' : 'alternate'}'s statement has an error` });
       continue;
     }
-    rows.push({ name, sheet: s.text, alternate: a.text, ...compareValues(s, a, tolerance) });
+    const c = compareValues(s, a, tolerance, toleranceText);
+    rows.push({ name, sheet: s.text, alternate: a.text, ...c, relativeDifferenceText: c.relativeDifference === null ? '—' : formatRelative(c.relativeDifference) });
   }
-  return { tolerance, toleranceText, rows, notWithin: rows.filter((r) => r.status !== 'within').length };
+  return { tolerance, toleranceText, toleranceWords: tolerance === null ? null : formatRelative(tolerance), rows, notWithin: rows.filter((r) => r.status !== 'within').length };
 }

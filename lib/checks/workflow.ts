@@ -346,6 +346,9 @@ async function submittedAgain(db: Db, check: ThreadScope): Promise<boolean> {
   return (await db.selectFrom('checks').select('id').where('sheet_id', '=', check.sheet_id).where('created_at', '>', createdAtOf(db, check.id)).executeTakeFirst()) !== undefined;
 }
 
+/** JSON with the keys of every object sorted (jsonb stores keys in its own order). */
+const canonicalJson = (v: unknown): string => JSON.stringify(v, (_k, x) => (x && typeof x === 'object' && !Array.isArray(x) ? Object.fromEntries(Object.entries(x).sort(([a], [b]) => (a < b ? -1 : 1))) : x));
+
 export async function saveCheckWork(db: Kysely<Database>, actor: Actor, checkId: string, input: z.infer<typeof checkWorkSchema>) {
   const { check } = await requireCheck(db, actor, checkId);
   if (check.checker_id !== actor.userId) throw new AppError('forbidden', 'Only the checker named on this check records its work.');
@@ -370,7 +373,7 @@ export async function saveCheckWork(db: Kysely<Database>, actor: Actor, checkId:
     const edited = new Set<CarriedField>();
     if (given.method && input.verificationMethod !== before.verification_method) edited.add('verificationMethod');
     if (given.notes && input.checkerNotes !== before.checker_notes) edited.add('checkerNotes');
-    if (given.cells && JSON.stringify(input.alternateCells) !== JSON.stringify(before.alternate_cells)) edited.add('alternateCells');
+    if (given.cells && canonicalJson(input.alternateCells) !== canonicalJson(before.alternate_cells)) edited.add('alternateCells');
     if (given.tolerance && (input.tolerance ?? null) !== before.tolerance_text) edited.add('tolerance');
     const carriedBefore = readCarriedOver(before.carried_over);
     if (given.confirm && !carriedBefore) throw new AppError('conflict', 'This check carries over no work from an earlier check.');

@@ -45,6 +45,8 @@ export interface RevisionPdfData {
   signatures: Array<{ printedName: string; meaning: string; signedAt: string }>;
   /** The checker's verification method (NQA-1 name). */
   verificationMethod: string | null;
+  /** The checker's alternate calculation compared with the sheet (lib/checks/alternate-comparison.ts), when they share a name. */
+  alternateComparison?: { toleranceText: string | null; rows: Array<{ name: string; sheet: string; alternate: string; relativeDifference: string; outcome: string }> } | null;
   /** Short code to type on the verification page, e.g. "K7QF-2M9D-XW4T". */
   verificationCode: string;
   /** Where to verify, e.g. "http://127.0.0.1:3000/verify". */

@@ -5,6 +5,7 @@ import { CellThreads } from '@/components/checks/cell-threads';
 import { CheckCell } from '@/components/checks/check-cell';
 import { CheckerWorkPanel } from '@/components/checks/checker-work-panel';
 import { DecisionPanel } from '@/components/checks/decision-panel';
+import { EvidenceSummary } from '@/components/checks/evidence-summary';
 import { RecordChanges } from '@/components/checks/record-changes';
 import { SignatureList } from '@/components/checks/signatures';
 import { UtcTime } from '@/components/data/utc-time';
@@ -226,6 +227,10 @@ export default async function CheckPage({ params }: { params: Promise<{ checkId:
               notes={check.checkerNotes}
               alternateCells={check.alternateCells}
               alternateResults={check.alternateResults}
+              tolerance={check.toleranceText}
+              comparison={check.alternateComparison}
+              carriedOver={check.carriedOver}
+              versionNumber={version.number}
             />
           </section>
         </div>
@@ -245,6 +250,9 @@ export default async function CheckPage({ params }: { params: Promise<{ checkId:
               <p role="note" className="rounded bg-caution-soft px-3 py-2 text-sm text-caution">
                 {you.checkerRefusal}
               </p>
+            ) : null}
+            {check.state !== 'in_check' || you.isChecker ? (
+              <EvidenceSummary method={check.verificationMethod ? VERIFICATION_LABELS[check.verificationMethod] : null} comparison={check.alternateComparison} carriedOver={check.carriedOver} />
             ) : null}
             <DecisionPanel checkId={check.id} actions={you.actions} versionNumber={version.number} sha256={version.sha256} openThreads={openThreads} methodRecorded={check.verificationMethod !== null} />
           </section>

@@ -707,6 +707,21 @@ function Signatures({ data }: { data: RevisionPdfData }) {
       <Text style={{ fontSize: 8, color: C.muted }}>
         {`Electronic signatures, each bound to the SHA-256 of version ${data.version.number} shown below; each signer re-entered their password to sign.`}
       </Text>
+      {data.alternateComparison ? (
+        <View style={{ marginTop: 6 }}>
+          <Text style={{ fontWeight: 700, marginBottom: 2 }}>{`Checker's alternate calculation compared with the sheet (tolerance ${data.alternateComparison.toleranceText ?? 'not stated'}, relative)`}</Text>
+          <Table
+            columns={[
+              { title: 'Name', width: '14%', mono: true },
+              { title: 'Sheet', width: '20%' },
+              { title: 'Alternate', width: '20%' },
+              { title: '|a − s|/|s|', width: '14%' },
+              { title: 'Outcome', width: '32%' },
+            ]}
+            rows={data.alternateComparison.rows.map((r) => [r.name, r.sheet, r.alternate, r.relativeDifference, r.outcome])}
+          />
+        </View>
+      ) : null}
     </View>
   );
 }
