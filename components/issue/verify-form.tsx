@@ -77,7 +77,13 @@ export function VerifyForm() {
         {answer ? (
           <section aria-labelledby="verify-answer" className={`space-y-3 rounded border-2 p-4 ${answer.authentic && r?.status === 'current' ? 'border-pass bg-pass-soft' : answer.authentic ? 'border-caution-rule bg-caution-soft' : 'border-fail bg-fail-soft'}`}>
             <h2 id="verify-answer" className="text-lg font-bold">
-              {answer.authentic ? (r?.status === 'current' ? 'Authentic and current' : `Authentic, but ${r?.status}`) : 'Not an authentic issued revision'}
+              {answer.authentic && answer.checks.stampedCopy
+                ? `Authentic stamped copy of revision ${r?.revision}, ${r?.status}`
+                : answer.authentic
+                  ? r?.status === 'current'
+                    ? 'Authentic and current'
+                    : `Authentic, but ${r?.status}`
+                  : 'Not an authentic issued revision'}
             </h2>
             <p>{answer.summary}</p>
             {r ? (
@@ -110,7 +116,9 @@ export function VerifyForm() {
                 <li>In the register: {answer.checks.hashInRegister ? 'yes' : 'no'}</li>
                 <li>Embedded signature: {answer.checks.signatureValid === null ? 'none' : answer.checks.signatureValid ? 'valid, covering the whole file' : 'not valid'}</li>
                 <li>Signed by the organisation&apos;s certificate: {answer.checks.signedByOrganisation === null ? '—' : answer.checks.signedByOrganisation ? 'yes' : 'no'}</li>
-                {answer.checks.stampedCopy ? <li>This is a stamped copy made for reading, not the issued original.</li> : null}
+                {answer.checks.stampedCopy ? (
+                  <li>This is a stamped copy made for reading: the issued original, byte for byte, with a stamp added after it and signed by document control (the original&apos;s signature still verifies).</li>
+                ) : null}
               </ul>
             ) : null}
           </section>

@@ -7,7 +7,6 @@
 // final transaction happens once (all or nothing).
 import { createHash } from 'node:crypto';
 import { sql, type Kysely, type Transaction } from 'kysely';
-import { PDFDocument, rgb, StandardFonts, degrees } from 'pdf-lib';
 import { z } from 'zod';
 import { INT4_MAX } from '@/lib/http/params';
 import type { Database } from '@/db/schema';
@@ -19,6 +18,7 @@ import { VERIFICATION_LABELS } from '@/lib/checks/workflow';
 import { compareAlternate } from '@/lib/checks/alternate-comparison';
 import type { SheetResult } from '@/lib/calc/types';
 import { AppError } from '@/lib/errors/app-error';
+import { earlierRevisionLengths, sha256Hex, stampIssuedPdf } from './stamp';
 import { appUrl } from '@/lib/http/app-url';
 import { jobSender, kyselyJobDb } from '@/lib/jobs/queue';
 import { enqueueMail } from '@/lib/mail/outbox';
@@ -465,28 +465,19 @@ export async function revisionPdf(db: Kysely<Database>, store: ObjectStore, revi
     r.status === 'withdrawn'
       ? `WITHDRAWN ${r.withdrawn_at ? new Date(r.withdrawn_at).toISOString().slice(0, 10) : ''}: ${r.withdrawn_reason ?? ''}`
       : `SUPERSEDED by revision ${r.superseded_by_code} issued ${r.superseded_by_issued_at ? new Date(r.superseded_by_issued_at).toISOString().slice(0, 10) : ''}`;
-  const stamped = await stampPdf(bytes, label, 'Not for use. Copy of an issued revision; the original stays in the register.');
+  // The copy is an incremental update of the issued file (lib/issue/stamp.ts): the original's
+  // signature still verifies, and document control signs the stamp over the whole file.
+  const stamped = await stampIssuedPdf(bytes, {
+    status: r.status,
+    headline: label,
+    note: 'Not for use. Copy of an issued revision, stamped and signed by document control; the original stays in the register.',
+    signingTime: new Date(),
+  });
   const sha = createHash('sha256').update(stamped).digest('hex');
   const key = `revisions/stamped-${r.id}-${r.status}-${sha}.pdf`;
   await store.putOnce(key, stamped, 'application/pdf');
   await db.updateTable('revisions').set({ stamped_key: key, stamped_sha256: sha }).where('id', '=', r.id).where('stamped_sha256', 'is', null).execute().catch(() => undefined);
   return { fileName: `${name}-${r.status}.pdf`, bytes: Buffer.from(stamped), stamped: true };
-}
-
-async function stampPdf(pdf: Uint8Array, headline: string, note: string): Promise<Uint8Array> {
-  const doc = await PDFDocument.load(pdf, { updateMetadata: false });
-  const font = await doc.embedFont(StandardFonts.HelveticaBold);
-  const red = rgb(0.7, 0.05, 0.05);
-  // Only ASCII reaches the standard font: the stamp names the status, the revision and the date.
-  const ascii = (s: string) => s.replace(/[^\x20-\x7e]/g, '?');
-  for (const page of doc.getPages()) {
-    const { width, height } = page.getSize();
-    page.drawRectangle({ x: 24, y: height - 58, width: width - 48, height: 40, borderColor: red, borderWidth: 2, color: rgb(1, 1, 1), opacity: 0.9 });
-    page.drawText(ascii(headline).slice(0, 90), { x: 34, y: height - 36, size: 11, font, color: red });
-    page.drawText(ascii(note).slice(0, 110), { x: 34, y: height - 50, size: 8, font, color: red });
-    page.drawText(ascii(headline.split(':')[0].split(' by ')[0]), { x: width / 2 - 150, y: height / 2 - 60, size: 48, font, color: red, opacity: 0.18, rotate: degrees(35) });
-  }
-  return doc.save({ useObjectStreams: false });
 }
 
 export async function withdrawRevision(db: Kysely<Database>, actor: Actor, revisionId: string, reason: string) {
@@ -594,6 +585,32 @@ export async function verifyPdfFile(db: Kysely<Database>, bytes: Uint8Array): Pr
         : `The file is in the register as ${revision.sheet} revision ${revision.revision}, but its embedded signature does not verify (${signature.problem ?? 'not signed by the organisation'}).`,
       revision,
       checks,
+      sha256,
+    };
+  }
+  // A stamped copy: the issued file, byte for byte, then an update signed by document control.
+  for (const length of earlierRevisionLengths(buffer)) {
+    const prefix = buffer.subarray(0, length);
+    const issued = await describeRevision(db, { pdfSha256: sha256Hex(prefix) });
+    if (!issued) continue;
+    const inner = await getSignatureParser().verifyPdf(prefix);
+    const originalValid = inner.valid && inner.coversWholeFile && inner.certificateSha256 === signingIdentity().certificateSha256;
+    const stampValid = checks.signatureValid === true && signedByOrganisation === true;
+    const copyChecks = { ...checks, hashInRegister: true, stampedCopy: true };
+    if (originalValid && stampValid) {
+      return {
+        authentic: true,
+        summary: `Authentic stamped copy: this is ${issued.sheet} revision ${issued.revision} (issued ${issued.issuedAt.slice(0, 10)}), stamped "${issued.status}" and signed by document control; the issued file inside it is byte for byte the one in the register. ${statusSentence(issued)}`,
+        revision: issued,
+        checks: copyChecks,
+        sha256,
+      };
+    }
+    return {
+      authentic: false,
+      summary: `The file begins with ${issued.sheet} revision ${issued.revision} as issued, but what was added after it is not a stamp signed by document control (${stampValid ? 'the issued signature does not verify' : (signature.problem ?? 'its last signature is not the organisation\u2019s')}).`,
+      revision: issued,
+      checks: { ...copyChecks, stampedCopy: false },
       sha256,
     };
   }

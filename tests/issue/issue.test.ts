@@ -198,7 +198,8 @@ describe('verification by anyone', () => {
     expect(nowA.summary).toMatch(/^Authentic: this is TPT2-CALC-0001 revision A, issued \d{4}-\d\d-\d\d\. It is superseded by revision B: do not use it\.$/);
 
     const stamped = (await revisionPdf(db, store(), a.revisionId, false)).bytes;
-    expect(await verifyPdfFile(db, stamped)).toMatchObject({ authentic: false, checks: { stampedCopy: true }, revision: { revision: 'A' } });
+    // The stamped copy keeps the issued file as its prefix and is signed by document control (tests/issue/stamped-copy.test.ts).
+    expect(await verifyPdfFile(db, stamped)).toMatchObject({ authentic: true, checks: { stampedCopy: true }, revision: { revision: 'A', status: 'superseded' } });
 
     const changed = Buffer.from(fileA);
     changed[Math.floor(changed.length / 3)] ^= 0x20;

@@ -198,10 +198,15 @@ function SectionHeading({ children }: { children: string }) {
   );
 }
 
-function Table({ columns, rows, empty = 'None.' }: { columns: Array<{ title: string; width: string; mono?: boolean }>; rows: ReactNode[][]; empty?: string }) {
+/**
+ * `anchor` names the table, its last row and that row's last cell as destinations: react-pdf writes
+ * each box's offset from its parent, so their sum (with the anchored text's) places that cell.
+ */
+function Table({ columns, rows, empty = 'None.', anchor }: { columns: Array<{ title: string; width: string; mono?: boolean }>; rows: ReactNode[][]; empty?: string; anchor?: string }) {
   if (rows.length === 0) return <Text style={[s.muted, s.para]}>{empty}</Text>;
+  const last = (r: number, i?: number) => (anchor && r === rows.length - 1 && (i === undefined || i === columns.length - 1) ? { id: `${anchor}-${i === undefined ? 'row' : 'cell'}` } : {});
   return (
-    <View style={s.table}>
+    <View style={s.table} {...(anchor ? { id: `${anchor}-table` } : {})}>
       <View style={{ flexDirection: 'row' }}>
         {columns.map((c, i) => (
           <Text key={i} style={[s.th, { width: c.width }]}>
@@ -210,9 +215,9 @@ function Table({ columns, rows, empty = 'None.' }: { columns: Array<{ title: str
         ))}
       </View>
       {rows.map((cells, r) => (
-        <View key={r} style={s.tr} wrap={false}>
+        <View key={r} style={s.tr} wrap={false} {...last(r)}>
           {cells.map((cell, i) => (
-            <View key={i} style={[s.td, { width: columns[i].width }]}>
+            <View key={i} style={[s.td, { width: columns[i].width }]} {...last(r, i)}>
               {typeof cell === 'string' ? <Text style={columns[i].mono ? [s.mono, { fontSize: 7.5 }] : undefined}>{shown(cell)}</Text> : cell}
             </View>
           ))}
@@ -566,7 +571,10 @@ function RevisionHistory({ data }: { data: RevisionPdfData }) {
         { title: 'Approved by', width: '18%' },
         { title: 'Status', width: '14%' },
       ]}
-      rows={data.revisionHistory.map((r) => [r.revision, r.date, String(r.version), r.description, r.approvedBy, r.status])}
+      // The last row is this revision: its status carries a named destination, where a stamped copy
+      // (lib/issue/stamp.ts) overlays "superseded" or "withdrawn".
+      anchor="revision-history-this-status"
+      rows={data.revisionHistory.map((r, i, all) => [r.revision, r.date, String(r.version), r.description, r.approvedBy, i === all.length - 1 ? <Text id="revision-history-this-status">{shown(r.status)}</Text> : r.status])}
     />
   );
 }
@@ -749,6 +757,15 @@ function Verification({ data }: { data: RevisionPdfData }) {
 
 // ---------------------------------------------------------------------------------------------
 
+/** The "issued" signature's time (written "YYYY-MM-DD HH:MM:SS UTC"), else midnight of the date of issue. */
+function issueTime(data: RevisionPdfData): Date | undefined {
+  const issued = data.signatures.find((x) => x.meaning === 'issued');
+  const at = issued ? Date.parse(issued.signedAt.replace(' UTC', 'Z').replace(' ', 'T')) : NaN;
+  if (!Number.isNaN(at)) return new Date(at);
+  const day = Date.parse(`${data.titleBlock.dateOfIssue}T00:00:00Z`);
+  return Number.isNaN(day) ? undefined : new Date(day);
+}
+
 export function RevisionPdfDocument({ data: given, typeset, figure = null }: { data: RevisionPdfData; typeset: Typeset; figure?: FigureRenderer | null }) {
   // Every bidirectional control character anyone typed (title, record, cells, attachment names,
   // signatures…) becomes a visible marker before anything is drawn, so none can reorder the text.
@@ -763,8 +780,8 @@ export function RevisionPdfDocument({ data: given, typeset, figure = null }: { d
       creator="Worldsheet"
       producer="Worldsheet"
       language={t.language}
-      // The date of issue, so that the same revision always renders to the same content.
-      creationDate={Number.isNaN(Date.parse(`${t.dateOfIssue}T00:00:00Z`)) ? undefined : new Date(`${t.dateOfIssue}T00:00:00Z`)}
+      // The time of issue (the "issued" signature's), so that the same revision always renders to the same content.
+      creationDate={issueTime(data)}
     >
       <Page size="A4" style={s.page} experimentalPagination>
         {/* Fixed page furniture first: the pagination repeats a fixed element on the pages after the one where it enters the flow. */}
