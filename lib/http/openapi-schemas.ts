@@ -355,7 +355,7 @@ export const verificationSchema = z.object({
       legalOwner: z.string(),
     })
     .nullable(),
-  checks: z.object({ hashInRegister: z.boolean(), signatureValid: z.boolean().nullable(), signedByOrganisation: z.boolean().nullable(), stampedCopy: z.boolean() }),
+  checks: z.object({ hashInRegister: z.boolean(), signatureValid: z.boolean().nullable(), signedByOrganisation: z.boolean().nullable(), stampedCopy: z.boolean().meta({ description: 'The file is a stamped copy: a registered original as its exact prefix, then a stamp signed by document control.' }) }),
   sha256: sha256.nullable(),
 });
 

@@ -758,7 +758,7 @@ export const OPERATIONS: Operation[] = [
     path: '/api/revisions/{revisionId}/pdf',
     operationId: 'downloadRevision',
     summary: 'Download the signed PDF of a revision',
-    description: `${member} A superseded or withdrawn revision comes as a copy stamped with its status; \`original=1\` (document controllers) gives the original file, byte for byte.`,
+    description: `${member} A superseded or withdrawn revision comes as a copy stamped with its status (an incremental update of the issued file, signed by document control; the issued signature stays valid); \`original=1\` (document controllers) gives the original file, byte for byte.`,
     tags: ['revisions'],
     auth: 'session or API token',
     params: { revisionId: uuidParam('revision') },
@@ -785,7 +785,10 @@ export const OPERATIONS: Operation[] = [
     description:
       'Anyone, signed in or not. Send the PDF as multipart/form-data (field `file`, at most 30 MiB) or a verification code as JSON. The answer says ' +
       'whether the file\'s SHA-256 is in the register and its embedded signature verifies with the organisation\'s certificate, which revision it is, ' +
-      'and whether it is current, superseded or withdrawn. A file that is not a PDF, or one never issued, gets an answer, not an error. ' +
+      'and whether it is current, superseded or withdrawn. A stamped copy of a superseded or withdrawn revision (the issued file, byte for byte, ' +
+      'then an incremental update signed by document control over the whole file) is answered as authentic with `checks.stampedCopy` true ' +
+      'when the prefix is a registered original and both signatures verify with the organisation\'s certificate. ' +
+      'A file that is not a PDF, or one never issued, gets an answer, not an error. ' +
       'A file whose signature container is larger than 64 KiB of DER or holds more than 4,096 ASN.1 elements is not read: 413 (an issued ' +
       'revision\'s signature is a few KiB). Each client address may verify 30 times a minute (`WORLDSHEET_VERIFY_RATE_PER_MINUTE`): 429 beyond.',
     tags: ['revisions'],

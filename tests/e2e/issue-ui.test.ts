@@ -2,12 +2,14 @@
 // issues an approved version from the sheet page and follows its progress, downloads the signed PDF
 // (its pages rendered with pdftoppm and saved beside the screenshots), sees it in the register; a
 // visitor with no account uploads it on the verification page, looks up its code, and is told that
-// a copy with one byte changed is not authentic.
+// a copy with one byte changed is not authentic; once withdrawn, the stamped copy document control
+// hands out is recognised as an authentic stamped copy (both its signatures valid in pdfsig).
 import { execFileSync } from 'node:child_process';
 import { readdirSync, readFileSync, writeFileSync } from 'node:fs';
 import path from 'node:path';
 import { afterAll, beforeAll, expect, it } from 'vitest';
 import { DEMO_PASSWORD, seedDemo } from '../../db/seed';
+import { withdrawRevision } from '../../lib/issue/issue';
 import { checkAndApprove } from '../support/approved-sheet';
 import { resetDatabase, testDb } from '../support/database';
 import { actorByEmail } from '../support/people';
@@ -91,6 +93,37 @@ it('a signed-out visitor verifies the PDF and its code, and is told a changed co
     await visitor.screenshot('verify-changed');
     const sig = execFileSync('pdfsig', [changedFile], { encoding: 'utf8' });
     expect(sig).not.toContain('Signature is Valid.');
+    expect(visitor.problems).toEqual([]);
+  } finally {
+    await visitor.close();
+  }
+});
+
+it('a withdrawn revision downloads as a stamped copy that pdfsig and the verification page accept as a stamped copy', async () => {
+  const revision = await testDb().selectFrom('revisions').select('id').where('code', '=', 'A').orderBy('issued_at', 'desc').executeTakeFirstOrThrow();
+  await withdrawRevision(testDb(), await actorByEmail(testDb(), 'controller@demo.test'), revision.id, 'Field map revised by the magnet supplier.');
+  const response = await controller.page.request.get(`${app.baseUrl}/api/revisions/${revision.id}/pdf`);
+  expect(response.status()).toBe(200);
+  const stampedFile = path.join(artifacts, 'issued-TPT2-CALC-0001-rev-A-withdrawn.pdf');
+  const stamped = Buffer.from(await response.body());
+  writeFileSync(stampedFile, stamped);
+  // The issued file is the copy's exact prefix; pdfsig (poppler-utils) finds two signatures, both valid.
+  const original = readFileSync(pdfFile);
+  expect(Buffer.compare(stamped.subarray(0, original.length), original)).toBe(0);
+  const sig = execFileSync('pdfsig', [stampedFile], { encoding: 'utf8' });
+  expect(sig.match(/Signature Validation: Signature is Valid\./g)).toHaveLength(2);
+  execFileSync('pdftoppm', ['-r', '70', '-png', '-f', '1', '-l', '1', stampedFile, path.join(artifacts, 'stamped-withdrawn-page')]);
+
+  const visitor = await openBrowser();
+  try {
+    const { page } = visitor;
+    await page.goto(`${app.baseUrl}/verify`);
+    await page.getByLabel('The PDF you were given').setInputFiles(stampedFile);
+    await page.getByRole('button', { name: 'Check the file' }).click();
+    await page.getByRole('heading', { name: 'Authentic stamped copy of revision A, withdrawn' }).waitFor();
+    await page.getByText(/^Authentic stamped copy: this is TPT2-CALC-0001 revision A .*It is withdrawn \(Field map revised by the magnet supplier\.\): do not use it\.$/).waitFor();
+    await page.getByText(/This is a stamped copy made for reading/).waitFor();
+    await visitor.screenshot('verify-stamped-copy');
     expect(visitor.problems).toEqual([]);
   } finally {
     await visitor.close();

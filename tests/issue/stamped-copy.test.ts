@@ -8,6 +8,7 @@ import { createHash } from 'node:crypto';
 import { mkdirSync, mkdtempSync, writeFileSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import path from 'node:path';
+import { PDFDocument, PDFName, PDFString } from 'pdf-lib';
 import { beforeEach, describe, expect, it } from 'vitest';
 import { listRevisions, processIssueJob, requestIssue, revisionPdf, verifyPdfFile, withdrawRevision } from '../../lib/issue/issue';
 import { storageConfig } from '../../lib/storage/config';
@@ -66,6 +67,9 @@ describe('stamped copies keep the issued signature', () => {
     const created = /^CreationDate:\s+(\S+)/m.exec(info)![1];
     expect(new Date(created).toISOString()).toBe(new Date(Math.floor(Date.parse(rowA.issuedAt) / 1000) * 1000).toISOString());
     expect(created).not.toMatch(/T00:00:00/);
+    // The document language (ISO 32000-1 §14.9.2.2, the catalog's /Lang).
+    const lang = (await PDFDocument.load(originalA, { updateMetadata: false })).catalog.lookup(PDFName.of('Lang'));
+    expect(lang instanceof PDFString && lang.decodeText()).toBe('en');
 
     const copies: Array<[string, Buffer, string]> = [];
     const superseded = Buffer.from((await revisionPdf(db, store(), a, false)).bytes);
