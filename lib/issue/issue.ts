@@ -445,7 +445,7 @@ export async function getRevision(db: Kysely<Database>, revisionId: string) {
 /**
  * The PDF of a revision. The original file, byte for byte, while it is current (or when document
  * control asks for it); a superseded or withdrawn revision comes as a copy stamped on every page
- * with its status, made once and kept beside the original.
+ * with its status, made once for each status and kept beside the original.
  */
 export async function revisionPdf(db: Kysely<Database>, store: ObjectStore, revisionId: string, original: boolean) {
   const r = await getRevision(db, revisionId);
@@ -457,7 +457,9 @@ export async function revisionPdf(db: Kysely<Database>, store: ObjectStore, revi
     throw new AppError('unavailable', 'The stored PDF no longer matches its recorded SHA-256; it is not served. Report this to your administrator.');
   }
   if (original || r.status === 'current') return { fileName: `${name}.pdf`, bytes, stamped: false };
-  if (r.stamped_key && r.stamped_sha256) {
+  // A copy is stamped once for each status (a superseded revision later withdrawn gets a new one).
+  const keyPrefix = `revisions/stamped-${r.id}-${r.status}-`;
+  if (r.stamped_key && r.stamped_sha256 && r.stamped_key.startsWith(keyPrefix)) {
     const stamped = await store.get(r.stamped_key);
     if (stamped && createHash('sha256').update(stamped).digest('hex') === r.stamped_sha256) return { fileName: `${name}-${r.status}.pdf`, bytes: stamped, stamped: true };
   }
@@ -474,9 +476,16 @@ export async function revisionPdf(db: Kysely<Database>, store: ObjectStore, revi
     signingTime: new Date(),
   });
   const sha = createHash('sha256').update(stamped).digest('hex');
-  const key = `revisions/stamped-${r.id}-${r.status}-${sha}.pdf`;
+  const key = `${keyPrefix}${sha}.pdf`;
   await store.putOnce(key, stamped, 'application/pdf');
-  await db.updateTable('revisions').set({ stamped_key: key, stamped_sha256: sha }).where('id', '=', r.id).where('stamped_sha256', 'is', null).execute().catch(() => undefined);
+  await db
+    .updateTable('revisions')
+    .set({ stamped_key: key, stamped_sha256: sha })
+    .where('id', '=', r.id)
+    .where('status', '=', r.status)
+    .where((eb) => eb.or([eb('stamped_sha256', 'is', null), eb('stamped_key', 'not like', `${keyPrefix}%`)]))
+    .execute()
+    .catch(() => undefined);
   return { fileName: `${name}-${r.status}.pdf`, bytes: Buffer.from(stamped), stamped: true };
 }
 
@@ -598,9 +607,11 @@ export async function verifyPdfFile(db: Kysely<Database>, bytes: Uint8Array): Pr
     const stampValid = checks.signatureValid === true && signedByOrganisation === true;
     const copyChecks = { ...checks, hashInRegister: true, stampedCopy: true };
     if (originalValid && stampValid) {
+      // What the stamp says (its signature's /Reason, covered by that signature); the revision may have moved on since.
+      const stampedAs = /\/Reason\s*\(Stamped (superseded|withdrawn)/.exec(buffer.subarray(length).toString('latin1'))?.[1] ?? issued.status;
       return {
         authentic: true,
-        summary: `Authentic stamped copy: this is ${issued.sheet} revision ${issued.revision} (issued ${issued.issuedAt.slice(0, 10)}), stamped "${issued.status}" and signed by document control; the issued file inside it is byte for byte the one in the register. ${statusSentence(issued)}`,
+        summary: `Authentic stamped copy: this is ${issued.sheet} revision ${issued.revision} (issued ${issued.issuedAt.slice(0, 10)}), stamped "${stampedAs}" and signed by document control; the issued file inside it is byte for byte the one in the register. ${statusSentence(issued)}`,
         revision: issued,
         checks: copyChecks,
         sha256,

@@ -8,6 +8,7 @@ import { createHash } from 'node:crypto';
 import { mkdirSync, mkdtempSync, writeFileSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import path from 'node:path';
+import { sql } from 'kysely';
 import { PDFDocument, PDFName, PDFString } from 'pdf-lib';
 import { beforeEach, describe, expect, it } from 'vitest';
 import { listRevisions, processIssueJob, requestIssue, revisionPdf, verifyPdfFile, withdrawRevision } from '../../lib/issue/issue';
@@ -116,6 +117,23 @@ describe('stamped copies keep the issued signature', () => {
       expect(tampered.checks.stampedCopy).toBe(false);
       expect(tampered.summary).toMatch(/not a stamp signed by document control/);
     }
+
+    // A superseded revision later withdrawn gets a copy stamped "withdrawn" (made once for each
+    // status); the earlier "superseded" copy still verifies, as what it says, with the present status.
+    await withdrawRevision(db, w.controller, a, 'Superseded and then found wrong.');
+    const laterA = Buffer.from((await revisionPdf(db, store(), a, false)).bytes);
+    expect(Buffer.compare(laterA, superseded)).not.toBe(0);
+    expect(signatures(laterA).map((s) => [s.valid, s.whole])).toEqual([
+      [true, false],
+      [true, true],
+    ]);
+    expect(run('pdftotext', ['-layout', saved(laterA), '-'])).toMatch(/Stamped copy, not for use: WITHDRAWN/);
+    expect(Buffer.compare((await revisionPdf(db, store(), a, false)).bytes, laterA)).toBe(0);
+    // The database keeps it once for that status.
+    await expect(sql`update revisions set stamped_key = ${`revisions/stamped-${a}-withdrawn-x.pdf`}, stamped_sha256 = ${'0'.repeat(64)} where id = ${a}`.execute(db)).rejects.toThrow(/made once for each status/);
+    const oldCopy = await verifyPdfFile(db, superseded);
+    expect(oldCopy).toMatchObject({ authentic: true, checks: { stampedCopy: true }, revision: { revision: 'A', status: 'withdrawn' } });
+    expect(oldCopy.summary).toMatch(/stamped "superseded".*It is withdrawn \(Superseded and then found wrong\.\): do not use it\.$/);
 
     // A picture of the stamped first page, for a person to look at.
     mkdirSync(artifacts, { recursive: true });
