@@ -8,7 +8,7 @@ import { createHash } from 'node:crypto';
 import { pdflibAddPlaceholder } from '@signpdf/placeholder-pdf-lib';
 import signpdfModule from '@signpdf/signpdf';
 import { SUBFILTER_ETSI_CADES_DETACHED } from '@signpdf/utils';
-import { degrees, PDFArray, PDFDict, PDFDocument, PDFName, PDFNumber, PDFObject, PDFPage, PDFRef, PDFString, rgb, StandardFonts } from 'pdf-lib';
+import { beginMarkedContent, degrees, endMarkedContent, PDFArray, PDFDict, PDFDocument, PDFName, PDFNumber, PDFObject, PDFPage, PDFRef, PDFString, rgb, StandardFonts } from 'pdf-lib';
 import { CadesSigner } from './cades';
 import { signingIdentity } from './identity';
 
@@ -97,8 +97,12 @@ async function drawStamp(doc: PDFDocument, stamp: StampText) {
   const white = rgb(1, 1, 1);
   const word = stamp.status.toUpperCase();
   const L = STAMP_LAYOUT;
+  // The issued PDF is tagged (lib/issue/pdf/structure.tsx): everything the stamp draws is marked as
+  // an artifact, outside the structure tree the issued signature covers (the status it states is the
+  // verification page's answer and the title block's overlay).
   for (const page of doc.getPages()) {
     const { width, height } = page.getSize();
+    page.pushOperators(beginMarkedContent('Artifact'));
     // A band in the left margin, reading upwards: clear of the running head (top 40 pt) and the
     // content (which starts at the margin).
     const band = ascii(`${stamp.headline}. ${stamp.note}`);
@@ -115,6 +119,7 @@ async function drawStamp(doc: PDFDocument, stamp: StampText) {
     page.drawText(word, { x: fieldX + 2.5, y: rowTop - 19.5, size: Math.min(9, (inner * 0.15 - 7) / bold.widthOfTextAtSize(word, 1)), font: bold, color: red });
     // Under the title block: what the stamp is.
     page.drawText(ascii(`Stamped copy, not for use: ${stamp.headline}`).slice(0, 150), { x: L.marginX, y: 5, size: 6.5, font: regular, color: red });
+    page.pushOperators(endMarkedContent());
   }
   // The revision history's status for this revision ("current" in the original). react-pdf writes
   // each destination as its box's offset from its parent's box (x, and page height − y), so the
@@ -122,8 +127,10 @@ async function drawStamp(doc: PDFDocument, stamp: StampText) {
   const at = revisionStatusPlace(doc);
   if (at) {
     const columnWidth = (at.page.getWidth() - 2 * L.marginX) * 0.14 - 8;
+    at.page.pushOperators(beginMarkedContent('Artifact'));
     at.page.drawRectangle({ x: at.x - 1.5, y: at.y - 11.5, width: columnWidth, height: 12.5, color: white, borderColor: red, borderWidth: 0.8 });
     at.page.drawText(word.toLowerCase(), { x: at.x, y: at.y - 8.5, size: 8.5, font: bold, color: red });
+    at.page.pushOperators(endMarkedContent());
   }
 }
 

@@ -6,7 +6,7 @@ import { mkdirSync, mkdtempSync, readFileSync, writeFileSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import path from 'node:path';
 import zlib from 'node:zlib';
-import { PDFArray, PDFDocument, PDFName, PDFRawStream, type PDFRef } from 'pdf-lib';
+import { PDFArray, PDFDict, PDFDocument, PDFHexString, PDFName, PDFRawStream, type PDFRef, PDFString } from 'pdf-lib';
 import { beforeAll, describe, expect, it } from 'vitest';
 import type { RevisionPdfData } from '../../lib/issue/pdf-data';
 import { renderRevisionPdf } from '../../lib/issue/pdf/render';
@@ -40,6 +40,21 @@ beforeAll(async () => {
   mkdirSync(artifacts, { recursive: true });
   run('pdftoppm', ['-r', '100', '-png', '-f', '1', '-l', '1', '-singlefile', file, path.join(artifacts, 'pdf-page-1')]);
 }, 180_000);
+
+/** The decoded content streams of a page. */
+async function pageContent(pageIndex: number): Promise<string> {
+  const doc = await PDFDocument.load(bytes);
+  const page = doc.getPage(pageIndex);
+  const contents = doc.context.lookup(page.node.get(PDFName.of('Contents')));
+  const refs = contents instanceof PDFArray ? contents.asArray() : [contents];
+  return refs
+    .map((ref) => {
+      const stream = (ref instanceof PDFRawStream ? ref : doc.context.lookup(ref as PDFRef)) as PDFRawStream;
+      const raw = Buffer.from(stream.getContents());
+      return stream.dict.get(PDFName.of('Filter')) ? zlib.inflateSync(raw).toString('latin1') : raw.toString('latin1');
+    })
+    .join('\n');
+}
 
 describe('the page furniture', () => {
   it('is a PDF of several A4 pages', () => {
@@ -219,21 +234,6 @@ describe('the content', () => {
 });
 
 describe('the formulas', () => {
-  /** The decoded content streams of a page. */
-  async function pageContent(pageIndex: number): Promise<string> {
-    const doc = await PDFDocument.load(bytes);
-    const page = doc.getPage(pageIndex);
-    const contents = doc.context.lookup(page.node.get(PDFName.of('Contents')));
-    const refs = contents instanceof PDFArray ? contents.asArray() : [contents];
-    return refs
-      .map((ref) => {
-        const stream = (ref instanceof PDFRawStream ? ref : doc.context.lookup(ref as PDFRef)) as PDFRawStream;
-        const raw = Buffer.from(stream.getContents());
-        return stream.dict.get(PDFName.of('Filter')) ? zlib.inflateSync(raw).toString('latin1') : raw.toString('latin1');
-      })
-      .join('\n');
-  }
-
   it('are drawn as vector outlines, not text', async () => {
     // Issue text: formulas typeset as vector graphics.
     const statements = data.version.results.cells.flatMap((c) => c.statements);
@@ -333,5 +333,139 @@ describe('the formulas', () => {
     expect(pdfPathData('M0 0Q10 10 20 0T40 0Z')).toBe('M0 0C7 7 13 7 20 0C27 -7 33 -7 40 0Z');
     expect(pdfPathData('M1 2h3v4l-1 1z')).toBe('M1 2L4 2L4 6L3 7Z');
     expect(parsePathData('M0 0A5 5 0 0 1 10 0')).toBeNull();
+  });
+});
+
+/**
+ * The operators of a content stream with the depth of marked content each is drawn at (strings,
+ * dictionaries and comments skipped; ISO 32000-1 §7.8.2 and §14.6).
+ */
+function markedDepths(content: string): Array<{ op: string; depth: number }> {
+  const out: Array<{ op: string; depth: number }> = [];
+  let depth = 0;
+  let i = 0;
+  let word = '';
+  const flush = () => {
+    if (/^[A-Za-z'"][A-Za-z*'"0-9]*$/.test(word)) {
+      if (word === 'EMC') depth -= 1;
+      out.push({ op: word, depth });
+      if (word === 'BDC' || word === 'BMC') depth += 1;
+    }
+    word = '';
+  };
+  while (i < content.length) {
+    const c = content[i];
+    if (c === '(') {
+      flush();
+      let nest = 1;
+      i += 1;
+      while (i < content.length && nest > 0) {
+        if (content[i] === '\\') i += 2;
+        else {
+          if (content[i] === '(') nest += 1;
+          if (content[i] === ')') nest -= 1;
+          i += 1;
+        }
+      }
+    } else if (c === '<' && content[i + 1] !== '<') {
+      flush();
+      i = content.indexOf('>', i) + 1;
+    } else if (c === '%') {
+      flush();
+      while (i < content.length && content[i] !== '\n' && content[i] !== '\r') i += 1;
+    } else if (c === '/') {
+      flush();
+      i += 1;
+      while (i < content.length && !/[\s/<>[\]()]/.test(content[i])) i += 1;
+    } else if (/[\s<>[\]{}]/.test(c)) {
+      flush();
+      i += 1;
+    } else {
+      word += c;
+      i += 1;
+    }
+  }
+  flush();
+  return out;
+}
+
+describe('the structure (a tagged PDF, ISO 32000-1 §14.8)', () => {
+  /** `pdfinfo -struct-text`: the structure tree with each element's text, as a reader that uses tags sees the file. */
+  let tree: string;
+  beforeAll(() => {
+    tree = run('pdfinfo', ['-struct-text', file]);
+  });
+  const texts = () => [...tree.matchAll(/^\s*"(.*)"$/gm)].map((m) => m[1]);
+
+  it('is tagged, with a structure tree and the document language', async () => {
+    // ISO 32000-1 §14.7.1 (StructTreeRoot), §14.8.1 (MarkInfo /Marked true), §14.9.2 (the catalog's /Lang).
+    expect(run('pdfinfo', [file])).toMatch(/^Tagged:\s+yes$/m);
+    const doc = await PDFDocument.load(bytes, { updateMetadata: false });
+    expect(doc.catalog.get(PDFName.of('StructTreeRoot'))).toBeDefined();
+    const markInfo = doc.catalog.lookup(PDFName.of('MarkInfo'), PDFDict);
+    expect(markInfo.get(PDFName.of('Marked'))?.toString()).toBe('true');
+    const lang = doc.catalog.lookup(PDFName.of('Lang'));
+    expect(lang instanceof PDFString || lang instanceof PDFHexString ? lang.decodeText() : null).toBe(data.titleBlock.language);
+    expect(bytes.subarray(0, 8).toString('latin1')).toBe('%PDF-1.7');
+  });
+
+  it('reads as a document: the title as H1, the cautions, then the seven numbered sections in order, each under its H2', () => {
+    // ISO 32000-1 §14.8.4.3 standard structure types (Document, Sect, H1–H6, P, Table, TR, TH, TD, Formula).
+    expect(tree.split('\n')[0]).toBe('Document');
+    expect(tree).toMatch(new RegExp(`H1 \\(block\\)\\n\\s+"${data.titleBlock.title.replace(/[.*+?^${}()|[\]\\]/g, '\\$&')}"`));
+    expect(tree).toMatch(/H2 \(block\)\n\s+"Caution"/);
+    const sections = [...tree.matchAll(/^ {2}Sect\n {4}H2 \(block\)\n\s+"(.*)"$/gm)].map((m) => m[1].replace(/\s+/g, ' '));
+    expect(sections).toEqual(['1 Revision history', '2 Calculation record', '3 Calculation', '4 Attachments', '5 Evaluation', '6 Signatures', '7 Verification']);
+    for (const field of ['Objective', 'Design inputs', 'Assumptions', 'Method', 'References', 'Conclusions']) expect(tree).toMatch(new RegExp(`H3 \\(block\\)\\n\\s+"${field}"`));
+  });
+
+  it('tags tables as rows of header and data cells', () => {
+    // ISO 32000-1 §14.8.4.3.4 (table elements).
+    const history = /Table \(block\)\n((?:\s+(?:TR|TH|TD|".*")\n)+)/.exec(tree)![1];
+    const headers = [...history.matchAll(/TH\n\s+"(.*)"/g)].map((m) => m[1]);
+    expect(headers).toEqual(['Rev.', 'Date', 'Version', 'Description', 'Approved by', 'Status']);
+    expect([...history.matchAll(/^\s+TR$/gm)]).toHaveLength(1 + data.revisionHistory.length);
+    for (const row of data.revisionHistory) expect(history).toContain(`"${row.description}"`);
+  });
+
+  it('gives every typeset formula a Formula element whose alternate text is its TeX', async () => {
+    // ISO 32000-1 §14.9.3 (alternate descriptions): a formula drawn as outlines is read through its /Alt.
+    const doc = await PDFDocument.load(bytes, { updateMetadata: false });
+    const alts: string[] = [];
+    for (const [, object] of doc.context.enumerateIndirectObjects()) {
+      if (!(object instanceof PDFDict) || object.get(PDFName.of('S'))?.toString() !== '/Formula') continue;
+      const alt = object.lookup(PDFName.of('Alt'));
+      alts.push(alt instanceof PDFString || alt instanceof PDFHexString ? alt.decodeText() : '');
+    }
+    const statements = data.version.results.cells.flatMap((c) => c.statements);
+    const expected = statements.flatMap((st) => [st.tex, st.substitutedTex && st.substitutedTex !== st.tex ? st.substitutedTex : null]).filter((t): t is string => Boolean(t));
+    expect(expected.length).toBeGreaterThan(5);
+    for (const tex of expected) expect(alts).toContain(tex);
+    expect(alts.every((a) => a.length > 0)).toBe(true);
+  });
+
+  it('tags what each statement says (source, result, PASS/FAIL, error) and leaves the page furniture out as artifacts', () => {
+    // ISO 32000-1 §14.8.2.2 (real content and artifacts: running heads and title blocks are pagination artifacts).
+    const tagged = texts().join('\n').replace(/[ \t]+/g, ' ');
+    const statements = data.version.results.cells.flatMap((c) => c.statements);
+    for (const st of statements) expect(tagged).toContain(st.source.replace(/\s+/g, ' ').trim().slice(0, 30));
+    expect(tagged).toMatch(/PASS/);
+    expect(tagged).toMatch(/FAIL/);
+    expect(tagged).toContain(data.verificationCode);
+    expect(tagged).not.toMatch(/Sheet \d+ of \d+/);
+    expect(tagged).not.toContain('Identification number');
+  });
+
+  it('draws nothing outside marked content: every text and path is tagged or an artifact', async () => {
+    // ISO 32000-1 §14.8.2.2.1: in a tagged PDF, content that is not an artifact is part of the structure.
+    const shows = new Set(['Tj', 'TJ', "'", '"', 'f', 'F', 'f*', 'B', 'B*', 'b', 'b*', 'S', 's', 'Do', 'sh']);
+    for (let p = 0; p < pageCount; p++) {
+      const ops = markedDepths(await pageContent(p));
+      const drawn = ops.filter((o) => shows.has(o.op));
+      expect(drawn.length).toBeGreaterThan(10);
+      expect(drawn.filter((o) => o.depth === 0)).toEqual([]);
+      expect(ops.at(-1)?.depth ?? 0).toBeGreaterThanOrEqual(0);
+      expect(ops.filter((o) => o.op === 'EMC').length).toBe(ops.filter((o) => o.op === 'BDC' || o.op === 'BMC').length);
+    }
   });
 });

@@ -8,8 +8,9 @@ import { createHash } from 'node:crypto';
 import { mkdirSync, mkdtempSync, writeFileSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import path from 'node:path';
+import zlib from 'node:zlib';
 import { sql } from 'kysely';
-import { PDFDocument, PDFName, PDFString } from 'pdf-lib';
+import { PDFArray, PDFDocument, PDFName, PDFRawStream, PDFString } from 'pdf-lib';
 import { beforeEach, describe, expect, it } from 'vitest';
 import { listRevisions, processIssueJob, requestIssue, revisionPdf, verifyPdfFile, withdrawRevision } from '../../lib/issue/issue';
 import { storageConfig } from '../../lib/storage/config';
@@ -71,6 +72,8 @@ describe('stamped copies keep the issued signature', () => {
     // The document language (ISO 32000-1 §14.9.2.2, the catalog's /Lang).
     const lang = (await PDFDocument.load(originalA, { updateMetadata: false })).catalog.lookup(PDFName.of('Lang'));
     expect(lang instanceof PDFString && lang.decodeText()).toBe('en');
+    // A tagged PDF (ISO 32000-1 §14.8; the structure itself is tested in tests/issue/pdf-render.test.ts).
+    expect(info).toMatch(/^Tagged:\s+yes$/m);
 
     const copies: Array<[string, Buffer, string]> = [];
     const superseded = Buffer.from((await revisionPdf(db, store(), a, false)).bytes);
@@ -106,6 +109,16 @@ describe('stamped copies keep the issued signature', () => {
       const page1 = run('pdftotext', ['-f', '1', '-l', '1', '-layout', saved(copy), '-']);
       expect(page1).toMatch(new RegExp(`\\b${status}\\b`));
       expect(page1.match(new RegExp(`\\b${status.toUpperCase()}\\b`, 'g'))!.length).toBeGreaterThanOrEqual(3);
+      // Still a tagged PDF, and the stamp is an artifact (ISO 32000-1 §14.8.2.2): its content streams,
+      // appended to each page's, open with /Artifact BMC and close every sequence they open.
+      expect(run('pdfinfo', [saved(copy)])).toMatch(/^Tagged:\s+yes$/m);
+      const stampDoc = await PDFDocument.load(copy, { updateMetadata: false });
+      const contents = stampDoc.getPage(0).node.lookup(PDFName.of('Contents'), PDFArray);
+      const stampStream = stampDoc.context.lookup(contents.get(contents.size() - 1)) as PDFRawStream;
+      const raw = Buffer.from(stampStream.getContents());
+      const ops = (stampStream.dict.get(PDFName.of('Filter')) ? zlib.inflateSync(raw) : raw).toString('latin1');
+      expect(ops.trimStart()).toMatch(/^\/Artifact BMC/);
+      expect((ops.match(/\bEMC\b/g) ?? []).length).toBe((ops.match(/\bBMC\b|\bBDC\b/g) ?? []).length);
 
       // A changed byte in the stamp's update breaks the document-control signature.
       const changed = Buffer.from(copy);

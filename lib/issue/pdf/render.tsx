@@ -13,6 +13,7 @@ import { MONO_FONT, TEXT_FONT, registerPdfFonts } from './fonts';
 import { type Block, type Inline, markdownBlocks } from './markdown-blocks';
 import { MathBlock, MathGraphic, mathSize } from './math-view';
 import { Breakable, type FigureRenderer, PlotFigurePdf, ReferenceLines, statementExtras, UncertaintyLine } from './statement-extras';
+import { Group, Leaf, PageArtifact, installPdfStructure, structureInstructionsActedOn } from './structure';
 import { type TypesetMath, createTexCache } from './tex-svg';
 import { DISPLAY_UNITS_DEFAULT, DISPLAY_UNITS_LABEL } from '@/lib/calc/display-units';
 
@@ -55,7 +56,8 @@ const FORMULA_WIDTH = CONTENT_WIDTH - 2 * CELL_PAD - 2 - GUTTER;
 
 const s = {
   page: { fontFamily: TEXT_FONT, fontSize: BODY, color: C.ink, paddingTop: PAGE_PADDING_TOP, paddingBottom: PAGE_PADDING_BOTTOM, paddingHorizontal: MARGIN_X },
-  runningHead: { position: 'absolute' as const, top: 18, left: MARGIN_X, right: MARGIN_X, flexDirection: 'row' as const, justifyContent: 'space-between' as const, fontSize: 7.5, color: C.muted, borderBottomWidth: 0.5, borderBottomColor: C.rule, paddingBottom: 3 },
+  runningHeadBox: { position: 'absolute' as const, top: 18, left: MARGIN_X, right: MARGIN_X },
+  runningHead: { flexDirection: 'row' as const, justifyContent: 'space-between' as const, fontSize: 7.5, color: C.muted, borderBottomWidth: 0.5, borderBottomColor: C.rule, paddingBottom: 3 },
   h1: { fontSize: 17, fontWeight: 700, lineHeight: 1.2, marginBottom: 4 },
   h2: { fontSize: 12.5, fontWeight: 700, color: C.accent, marginTop: 14, marginBottom: 5, paddingBottom: 2, borderBottomWidth: 1, borderBottomColor: C.accent },
   h3: { fontSize: 10.5, fontWeight: 700, marginTop: 8, marginBottom: 3 },
@@ -130,7 +132,11 @@ function TitleBlock({ data }: { data: RevisionPdfData }) {
   const t = data.titleBlock;
   const row = (i: number, last = false) => ({ flexDirection: 'row' as const, height: TITLE_BLOCK_ROWS[i], borderBottomWidth: last ? 0 : 0.75, borderBottomColor: C.ink });
   return (
-    <View fixed style={{ position: 'absolute', left: MARGIN_X, right: MARGIN_X, bottom: TITLE_BLOCK_BOTTOM, borderWidth: 1.25, borderColor: C.ink, backgroundColor: '#ffffff' }}>
+    // Page furniture (the body's heading, revision history and signatures say what it says): the
+    // fixed box draws nothing itself, so that its frame is inside the artifact.
+    <View fixed style={{ position: 'absolute', left: MARGIN_X, right: MARGIN_X, bottom: TITLE_BLOCK_BOTTOM }}>
+      <PageArtifact>
+      <View style={{ borderWidth: 1.25, borderColor: C.ink, backgroundColor: '#ffffff' }}>
       <View style={row(0)}>
         <TitleField label="Legal owner" width="38%" valueStyle={{ fontWeight: 700 }}>
           {t.legalOwner}
@@ -176,6 +182,8 @@ function TitleBlock({ data }: { data: RevisionPdfData }) {
           <Text style={{ fontSize: 8, fontWeight: 700 }} render={({ pageNumber, totalPages }) => `Sheet ${pageNumber} of ${totalPages}`} />
         </View>
       </View>
+      </View>
+      </PageArtifact>
     </View>
   );
 }
@@ -183,18 +191,25 @@ function TitleBlock({ data }: { data: RevisionPdfData }) {
 function RunningHead({ data }: { data: RevisionPdfData }) {
   const t = data.titleBlock;
   return (
-    <View fixed style={s.runningHead}>
-      <Text>{t.legalOwner}</Text>
-      <Text>{`${t.identificationNumber} · Rev. ${t.revisionIndex} · ${t.status}`}</Text>
+    // Page furniture; the fixed box draws nothing itself, so that its rule is inside the artifact.
+    <View fixed style={s.runningHeadBox}>
+      <PageArtifact>
+        <View style={s.runningHead}>
+          <Text>{t.legalOwner}</Text>
+          <Text>{`${t.identificationNumber} · Rev. ${t.revisionIndex} · ${t.status}`}</Text>
+        </View>
+      </PageArtifact>
     </View>
   );
 }
 
 function SectionHeading({ children }: { children: string }) {
   return (
-    <Text style={s.h2} minPresenceAhead={40}>
-      {children}
-    </Text>
+    <Leaf as="H2">
+      <Text style={s.h2} minPresenceAhead={40}>
+        {children}
+      </Text>
+    </Leaf>
   );
 }
 
@@ -203,26 +218,37 @@ function SectionHeading({ children }: { children: string }) {
  * each box's offset from its parent, so their sum (with the anchored text's) places that cell.
  */
 function Table({ columns, rows, empty = 'None.', anchor }: { columns: Array<{ title: string; width: string; mono?: boolean }>; rows: ReactNode[][]; empty?: string; anchor?: string }) {
-  if (rows.length === 0) return <Text style={[s.muted, s.para]}>{empty}</Text>;
+  if (rows.length === 0)
+    return (
+      <Leaf as="P">
+        <Text style={[s.muted, s.para]}>{empty}</Text>
+      </Leaf>
+    );
   const last = (r: number, i?: number) => (anchor && r === rows.length - 1 && (i === undefined || i === columns.length - 1) ? { id: `${anchor}-${i === undefined ? 'row' : 'cell'}` } : {});
   return (
     <View style={s.table} {...(anchor ? { id: `${anchor}-table` } : {})}>
-      <View style={{ flexDirection: 'row' }}>
-        {columns.map((c, i) => (
-          <Text key={i} style={[s.th, { width: c.width }]}>
-            {c.title}
-          </Text>
-        ))}
-      </View>
-      {rows.map((cells, r) => (
-        <View key={r} style={s.tr} wrap={false} {...last(r)}>
-          {cells.map((cell, i) => (
-            <View key={i} style={[s.td, { width: columns[i].width }]} {...last(r, i)}>
-              {typeof cell === 'string' ? <Text style={columns[i].mono ? [s.mono, { fontSize: 7.5 }] : undefined}>{shown(cell)}</Text> : cell}
-            </View>
-          ))}
+      <Group as="Table">
+        <View style={{ flexDirection: 'row' }}>
+          <Group as="TR" inRow>
+            {columns.map((c, i) => (
+              <Leaf key={i} as="TH" inRow>
+                <Text style={[s.th, { width: c.width }]}>{c.title}</Text>
+              </Leaf>
+            ))}
+          </Group>
         </View>
-      ))}
+        {rows.map((cells, r) => (
+          <View key={r} style={s.tr} wrap={false} {...last(r)}>
+            <Group as="TR" inRow>
+              {cells.map((cell, i) => (
+                <View key={i} style={[s.td, { width: columns[i].width }]} {...last(r, i)}>
+                  <Leaf as="TD">{typeof cell === 'string' ? <Text style={columns[i].mono ? [s.mono, { fontSize: 7.5 }] : undefined}>{shown(cell)}</Text> : cell}</Leaf>
+                </View>
+              ))}
+            </Group>
+          </View>
+        ))}
+      </Group>
     </View>
   );
 }
@@ -234,11 +260,18 @@ function Table({ columns, rows, empty = 'None.', anchor }: { columns: Array<{ ti
 function Formula({ tex, typeset, maxWidth }: { tex: string; typeset: Typeset; maxWidth: number }) {
   // Display style: fractions and limits at full size, as a checker reads them on paper.
   const math = typeset(tex, true);
-  if (!math) return <Text style={[s.mono, { fontSize: 7.5, color: C.muted }]}>{tex}</Text>;
+  if (!math)
+    return (
+      <Leaf as="Code">
+        <Text style={[s.mono, { fontSize: 7.5, color: C.muted }]}>{tex}</Text>
+      </Leaf>
+    );
   return (
-    <View style={{ marginVertical: 1.5 }}>
-      <MathBlock math={math} emPt={MATH_EM} maxWidth={maxWidth} />
-    </View>
+    <Leaf as="Formula" alt={tex}>
+      <View style={{ marginVertical: 1.5 }}>
+        <MathBlock math={math} emPt={MATH_EM} maxWidth={maxWidth} />
+      </View>
+    </Leaf>
   );
 }
 
@@ -313,34 +346,41 @@ function markdownElements(blocks: Block[], typeset: Typeset, maxWidth: number): 
   return blocks.map((b, k) => {
     switch (b.kind) {
       case 'heading':
+        // Below the cell's own heading (H3): a text cell's levels 1, 2, 3+ are H4, H5, H6.
         return (
-          <View key={k} style={{ marginTop: 3, marginBottom: 2 }} minPresenceAhead={24}>
-            <InlineFlow inlines={b.inlines} typeset={typeset} fontSize={b.level <= 1 ? 12 : b.level === 2 ? 11 : 10} style={{ fontWeight: 700 }} maxWidth={maxWidth} />
-          </View>
+          <Leaf key={k} as={b.level <= 1 ? 'H4' : b.level === 2 ? 'H5' : 'H6'}>
+            <View style={{ marginTop: 3, marginBottom: 2 }} minPresenceAhead={24}>
+              <InlineFlow inlines={b.inlines} typeset={typeset} fontSize={b.level <= 1 ? 12 : b.level === 2 ? 11 : 10} style={{ fontWeight: 700 }} maxWidth={maxWidth} />
+            </View>
+          </Leaf>
         );
       case 'paragraph': {
         const indent = b.indent * 12;
         return (
-          <View key={k} style={{ flexDirection: 'row', marginBottom: 3, paddingLeft: b.marker ? Math.max(0, indent - 12) : indent, ...(b.quote ? { borderLeftWidth: 2, borderLeftColor: C.rule } : {}) }}>
-            {b.marker ? <Text style={{ width: 12 }}>{b.marker}</Text> : null}
-            <View style={{ flex: 1 }}>
-              <InlineFlow inlines={b.inlines} typeset={typeset} maxWidth={maxWidth - indent} />
+          <Leaf key={k} as="P">
+            <View style={{ flexDirection: 'row', marginBottom: 3, paddingLeft: b.marker ? Math.max(0, indent - 12) : indent, ...(b.quote ? { borderLeftWidth: 2, borderLeftColor: C.rule } : {}) }}>
+              {b.marker ? <Text style={{ width: 12 }}>{b.marker}</Text> : null}
+              <View style={{ flex: 1 }}>
+                <InlineFlow inlines={b.inlines} typeset={typeset} maxWidth={maxWidth - indent} />
+              </View>
             </View>
-          </View>
+          </Leaf>
         );
       }
       case 'code':
         return (
-          <Text key={k} style={[s.mono, { fontSize: 7.5, backgroundColor: C.codeSoft, padding: 4, marginBottom: 3, marginLeft: b.indent * 12 }]}>
-            {b.text}
-          </Text>
+          <Leaf key={k} as="Code">
+            <Text style={[s.mono, { fontSize: 7.5, backgroundColor: C.codeSoft, padding: 4, marginBottom: 3, marginLeft: b.indent * 12 }]}>{b.text}</Text>
+          </Leaf>
         );
       case 'math': {
         const math = typeset(b.tex, true);
         return (
-          <View key={k} style={{ alignItems: 'center', marginVertical: 3, marginLeft: b.indent * 12 }} wrap={false}>
-            {math ? <MathBlock math={math} emPt={MATH_EM} maxWidth={maxWidth - b.indent * 12} /> : <Text style={[s.mono, { fontSize: 7.5 }]}>{`$$${b.tex}$$`}</Text>}
-          </View>
+          <Leaf key={k} as={math ? 'Formula' : 'Code'} alt={math ? b.tex : undefined}>
+            <View style={{ alignItems: 'center', marginVertical: 3, marginLeft: b.indent * 12 }} wrap={false}>
+              {math ? <MathBlock math={math} emPt={MATH_EM} maxWidth={maxWidth - b.indent * 12} /> : <Text style={[s.mono, { fontSize: 7.5 }]}>{`$$${b.tex}$$`}</Text>}
+            </View>
+          </Leaf>
         );
       }
       case 'table': {
@@ -365,13 +405,18 @@ function PlainText({ text, empty = '—' }: { text: string; empty?: string }) {
     .split(/\n\s*\n/)
     .map((p) => p.trim())
     .filter(Boolean);
-  if (paragraphs.length === 0) return <Text style={[s.muted, s.para]}>{empty}</Text>;
+  if (paragraphs.length === 0)
+    return (
+      <Leaf as="P">
+        <Text style={[s.muted, s.para]}>{empty}</Text>
+      </Leaf>
+    );
   return (
     <View>
       {paragraphs.map((p, i) => (
-        <Text key={i} style={s.para}>
-          {shown(p)}
-        </Text>
+        <Leaf key={i} as="P">
+          <Text style={s.para}>{shown(p)}</Text>
+        </Leaf>
       ))}
     </View>
   );
@@ -391,14 +436,22 @@ function Statement({ st, typeset }: { st: StatementResult; typeset: Typeset }) {
   const showSubstituted = st.substitutedTex && st.substitutedTex !== st.tex;
   return (
     <View wrap={false} style={{ flexDirection: 'row', paddingVertical: 3, borderTopWidth: 0.5, borderTopColor: C.rule }}>
-      <Text style={[s.mono, { width: GUTTER, fontSize: 7, color: C.muted, paddingTop: 0.5 }]}>{`L${st.line}`}</Text>
+      <Group as="Div" inRow>
+      <Leaf as="Lbl" inRow>
+        <Text style={[s.mono, { width: GUTTER, fontSize: 7, color: C.muted, paddingTop: 0.5 }]}>{`L${st.line}`}</Text>
+      </Leaf>
       <View style={{ flex: 1 }}>
-        <Text style={[s.mono, { fontSize: 7.5, color: C.muted }]}>{shown(st.source)}</Text>
+        <Leaf as="Code">
+          <Text style={[s.mono, { fontSize: 7.5, color: C.muted }]}>{shown(st.source)}</Text>
+        </Leaf>
         {st.tex ? <Formula tex={st.tex} typeset={typeset} maxWidth={FORMULA_WIDTH} /> : null}
         {showSubstituted ? <Formula tex={st.substitutedTex!} typeset={typeset} maxWidth={FORMULA_WIDTH} /> : null}
         {st.error ? (
-          <Text style={{ color: C.fail, backgroundColor: C.failSoft, paddingHorizontal: 3, paddingVertical: 1, fontSize: 8.5 }}>{`Error: ${st.error}`}</Text>
+          <Leaf as="P">
+            <Text style={{ color: C.fail, backgroundColor: C.failSoft, paddingHorizontal: 3, paddingVertical: 1, fontSize: 8.5 }}>{`Error: ${st.error}`}</Text>
+          </Leaf>
         ) : st.criterion ? (
+          <Leaf as="P">
           <View style={{ flexDirection: 'row', alignItems: 'center', marginTop: 1 }}>
             <Text
               style={{
@@ -415,18 +468,32 @@ function Statement({ st, typeset }: { st: StatementResult; typeset: Typeset }) {
             </Text>
             <Text style={{ fontSize: 8.5, color: st.criterion.pass ? C.pass : C.fail }}>{st.criterion.marginText}</Text>
           </View>
+          </Leaf>
         ) : result ? (
-          <Text style={{ fontWeight: 600, fontSize: 10, marginTop: 1 }}>{result}</Text>
+          <Leaf as="P">
+            <Text style={{ fontWeight: 600, fontSize: 10, marginTop: 1 }}>{result}</Text>
+          </Leaf>
         ) : null}
-        {!st.error && st.uncertainty ? <UncertaintyLine uncertainty={st.uncertainty} /> : null}
+        {!st.error && st.uncertainty ? (
+          <Leaf as="P">
+            <UncertaintyLine uncertainty={st.uncertainty} />
+          </Leaf>
+        ) : null}
         {(st.warnings ?? []).map((w, i) => (
           // The physics lint's warnings (absent in results stored before they existed: none), in the caution colours and introduced by the word.
-          <Text key={`w${i}`} style={{ color: C.caution, backgroundColor: C.cautionSoft, borderLeftWidth: 2, borderLeftColor: C.cautionRule, paddingHorizontal: 3, paddingVertical: 1, marginTop: 1, fontSize: 8.5 }}>
-            Warning: {shown(w)}
-          </Text>
+          <Leaf key={`w${i}`} as="P">
+            <Text style={{ color: C.caution, backgroundColor: C.cautionSoft, borderLeftWidth: 2, borderLeftColor: C.cautionRule, paddingHorizontal: 3, paddingVertical: 1, marginTop: 1, fontSize: 8.5 }}>
+              Warning: {shown(w)}
+            </Text>
+          </Leaf>
         ))}
-        {st.references?.length ? <ReferenceLines references={st.references} /> : null}
+        {st.references?.length ? (
+          <Leaf as="P">
+            <ReferenceLines references={st.references} />
+          </Leaf>
+        ) : null}
       </View>
+      </Group>
     </View>
   );
 }
@@ -467,15 +534,27 @@ function calcElements(cell: Cell, result: CellResult | undefined, ctx: CellConte
     } else if (line.trim())
       out.push(
         <View key={i} style={{ flexDirection: 'row', paddingVertical: 2, borderTopWidth: 0.5, borderTopColor: C.rule }} wrap={false}>
-          <Text style={[s.mono, { width: GUTTER, fontSize: 7, color: C.muted }]}>{`L${i + 1}`}</Text>
-          <Text style={[s.mono, { flex: 1, fontSize: 7.5, color: C.muted }]}>{shown(line)}</Text>
+          <Leaf as="Code" inRow>
+            <Text style={[s.mono, { width: GUTTER, fontSize: 7, color: C.muted }]}>{`L${i + 1}`}</Text>
+            <Text style={[s.mono, { flex: 1, fontSize: 7.5, color: C.muted }]}>{shown(line)}</Text>
+          </Leaf>
         </View>,
       );
   });
   // A cell the engine did not evaluate (a limit, or a dependency) says why once.
   const cellError = result?.error && !result.statements.some((st) => st.error === result.error) ? result.error : null;
-  if (cellError) out.push(<Text key="error" style={{ color: C.fail, backgroundColor: C.failSoft, padding: 3, marginVertical: 2, fontSize: 8.5 }}>{`Error: ${cellError}`}</Text>);
-  if (!result) out.push(<Text key="missing" style={{ color: C.fail, fontSize: 8.5, marginVertical: 2 }}>No evaluation result was recorded for this cell.</Text>);
+  if (cellError)
+    out.push(
+      <Leaf key="error" as="P">
+        <Text style={{ color: C.fail, backgroundColor: C.failSoft, padding: 3, marginVertical: 2, fontSize: 8.5 }}>{`Error: ${cellError}`}</Text>
+      </Leaf>,
+    );
+  if (!result)
+    out.push(
+      <Leaf key="missing" as="P">
+        <Text style={{ color: C.fail, fontSize: 8.5, marginVertical: 2 }}>No evaluation result was recorded for this cell.</Text>
+      </Leaf>,
+    );
   return out;
 }
 
@@ -497,12 +576,19 @@ function cellElements(data: RevisionPdfData, ctx: CellContext): ReactElement[] {
     const frame = { borderColor: failed ? C.fail : C.rule, borderLeftWidth: 0.75, borderRightWidth: 0.75 };
     out.push(
       <View key={`${cell.id}-head`} style={{ ...frame, borderTopWidth: 0.75, flexDirection: 'row', justifyContent: 'space-between', backgroundColor: cell.kind === 'calc' ? C.accentSoft : C.codeSoft, paddingHorizontal: CELL_PAD, paddingVertical: 1.5 }} minPresenceAhead={40}>
-        <Text style={{ fontSize: 7.5, fontWeight: 700, color: C.accent }}>{`Cell ${index + 1} · ${cell.kind === 'calc' ? 'calculation' : 'text'}`}</Text>
-        <Text style={[s.mono, { fontSize: 6.5, color: C.muted }]}>{`id ${cell.id}`}</Text>
+        <Leaf as="H3" inRow>
+          <Text style={{ fontSize: 7.5, fontWeight: 700, color: C.accent }}>{`Cell ${index + 1} · ${cell.kind === 'calc' ? 'calculation' : 'text'}`}</Text>
+          <Text style={[s.mono, { fontSize: 6.5, color: C.muted }]}>{`id ${cell.id}`}</Text>
+        </Leaf>
       </View>,
     );
     const parts = cell.kind === 'calc' ? calcElements(cell, result, ctx) : markdownElements(markdownBlocks(cell.source), typeset, CONTENT_WIDTH - 2 * CELL_PAD - 2);
-    if (parts.length === 0) parts.push(<Text key="empty" style={[s.muted, { fontSize: 8, paddingVertical: 2 }]}>(empty)</Text>);
+    if (parts.length === 0)
+      parts.push(
+        <Leaf key="empty" as="P">
+          <Text style={[s.muted, { fontSize: 8, paddingVertical: 2 }]}>(empty)</Text>
+        </Leaf>,
+      );
     parts.forEach((part, k) => {
       const first = k === 0;
       const last = k === parts.length - 1;
@@ -522,7 +608,12 @@ function cellElements(data: RevisionPdfData, ctx: CellContext): ReactElement[] {
       );
     });
   });
-  if (out.length === 0) out.push(<Text key="none" style={s.muted}>The sheet has no cells.</Text>);
+  if (out.length === 0)
+    out.push(
+      <Leaf key="none" as="P">
+        <Text style={s.muted}>The sheet has no cells.</Text>
+      </Leaf>,
+    );
   return out;
 }
 
@@ -533,14 +624,22 @@ function Heading({ data }: { data: RevisionPdfData }) {
   const t = data.titleBlock;
   return (
     <View style={{ marginBottom: 8 }}>
-      <Text style={{ fontSize: 8.5, color: C.accent, fontWeight: 600, marginBottom: 2 }}>{`${t.project.code} · ${t.project.name}`}</Text>
-      <Text style={s.h1}>{shown(t.title)}</Text>
-      <Text style={{ fontSize: 10 }}>
-        <Text style={{ fontWeight: 700 }}>{t.identificationNumber}</Text>
-        {`  ·  Revision ${t.revisionIndex}  ·  version ${data.version.number}  ·  issued ${t.dateOfIssue}  ·  ${t.documentType}`}
-      </Text>
+      <Leaf as="P">
+        <Text style={{ fontSize: 8.5, color: C.accent, fontWeight: 600, marginBottom: 2 }}>{`${t.project.code} · ${t.project.name}`}</Text>
+      </Leaf>
+      <Leaf as="H1">
+        <Text style={s.h1}>{shown(t.title)}</Text>
+      </Leaf>
+      <Leaf as="P">
+        <Text style={{ fontSize: 10 }}>
+          <Text style={{ fontWeight: 700 }}>{t.identificationNumber}</Text>
+          {`  ·  Revision ${t.revisionIndex}  ·  version ${data.version.number}  ·  issued ${t.dateOfIssue}  ·  ${t.documentType}`}
+        </Text>
+      </Leaf>
       {data.safetyRelated ? (
-        <Text style={{ marginTop: 4, alignSelf: 'flex-start', fontSize: 8, fontWeight: 700, color: C.caution, borderWidth: 1, borderColor: C.cautionRule, paddingHorizontal: 4, paddingVertical: 1 }}>SAFETY-RELATED CALCULATION</Text>
+        <Leaf as="P">
+          <Text style={{ marginTop: 4, alignSelf: 'flex-start', fontSize: 8, fontWeight: 700, color: C.caution, borderWidth: 1, borderColor: C.cautionRule, paddingHorizontal: 4, paddingVertical: 1 }}>SAFETY-RELATED CALCULATION</Text>
+        </Leaf>
       ) : null}
     </View>
   );
@@ -549,11 +648,15 @@ function Heading({ data }: { data: RevisionPdfData }) {
 function Cautions({ data }: { data: RevisionPdfData }) {
   return (
     <View wrap={false} style={{ borderLeftWidth: 4, borderLeftColor: C.cautionRule, backgroundColor: C.cautionSoft, paddingVertical: 6, paddingHorizontal: 9, marginBottom: 4 }}>
-      <Text style={{ fontSize: 10.5, fontWeight: 700, color: C.caution, marginBottom: 2 }}>Caution</Text>
+      <Leaf as="H2">
+        <Text style={{ fontSize: 10.5, fontWeight: 700, color: C.caution, marginBottom: 2 }}>Caution</Text>
+      </Leaf>
       {data.cautions.map((c, i) => (
         <View key={i} style={{ flexDirection: 'row', marginTop: 1 }}>
           <Text style={{ width: 9, color: C.caution }}>•</Text>
-          <Text style={{ flex: 1, color: C.caution, fontWeight: 600 }}>{c}</Text>
+          <Leaf as="P" inRow>
+            <Text style={{ flex: 1, color: C.caution, fontWeight: 600 }}>{c}</Text>
+          </Leaf>
         </View>
       ))}
     </View>
@@ -583,13 +686,17 @@ function Record({ data }: { data: RevisionPdfData }) {
   const r = data.version.content.record;
   return (
     <View>
-      <Text style={s.h3} minPresenceAhead={20}>
-        Objective
-      </Text>
+      <Leaf as="H3">
+        <Text style={s.h3} minPresenceAhead={20}>
+          Objective
+        </Text>
+      </Leaf>
       <PlainText text={r.objective} />
-      <Text style={s.h3} minPresenceAhead={30}>
-        Design inputs
-      </Text>
+      <Leaf as="H3">
+        <Text style={s.h3} minPresenceAhead={30}>
+          Design inputs
+        </Text>
+      </Leaf>
       <Table
         columns={[
           { title: 'Input', width: '24%' },
@@ -599,39 +706,61 @@ function Record({ data }: { data: RevisionPdfData }) {
         ]}
         rows={r.inputs.map((i) => [i.name, i.value, i.source, i.sourceRevision])}
       />
-      <Text style={s.h3} minPresenceAhead={20}>
-        Assumptions
-      </Text>
-      {r.assumptions.length === 0 ? <Text style={[s.muted, s.para]}>None.</Text> : null}
+      <Leaf as="H3">
+        <Text style={s.h3} minPresenceAhead={20}>
+          Assumptions
+        </Text>
+      </Leaf>
+      {r.assumptions.length === 0 ? (
+        <Leaf as="P">
+          <Text style={[s.muted, s.para]}>None.</Text>
+        </Leaf>
+      ) : null}
       {r.assumptions.map((a, i) => (
         <View key={i} style={{ flexDirection: 'row', marginBottom: 2 }} wrap={false}>
+          <Leaf as="P" inRow>
           <Text style={{ width: 16 }}>{`A${i + 1}`}</Text>
           <Text style={{ flex: 1 }}>{shown(a.text)}</Text>
           {a.needsVerification ? (
             <Text style={{ marginLeft: 6, fontSize: 7, fontWeight: 700, color: C.caution, backgroundColor: C.cautionSoft, borderWidth: 0.75, borderColor: C.cautionRule, paddingHorizontal: 3, alignSelf: 'flex-start' }}>TO BE VERIFIED</Text>
           ) : null}
+          </Leaf>
         </View>
       ))}
       {r.assumptions.some((a) => a.needsVerification) ? (
-        <Text style={{ fontSize: 8, color: C.caution, marginBottom: 3 }}>Assumptions marked TO BE VERIFIED must be confirmed before the results are relied upon.</Text>
+        <Leaf as="P">
+          <Text style={{ fontSize: 8, color: C.caution, marginBottom: 3 }}>Assumptions marked TO BE VERIFIED must be confirmed before the results are relied upon.</Text>
+        </Leaf>
       ) : null}
-      <Text style={s.h3} minPresenceAhead={20}>
-        Method
-      </Text>
+      <Leaf as="H3">
+        <Text style={s.h3} minPresenceAhead={20}>
+          Method
+        </Text>
+      </Leaf>
       <PlainText text={r.method} />
-      <Text style={s.h3} minPresenceAhead={20}>
-        References
-      </Text>
-      {r.references.length === 0 ? <Text style={[s.muted, s.para]}>None.</Text> : null}
+      <Leaf as="H3">
+        <Text style={s.h3} minPresenceAhead={20}>
+          References
+        </Text>
+      </Leaf>
+      {r.references.length === 0 ? (
+        <Leaf as="P">
+          <Text style={[s.muted, s.para]}>None.</Text>
+        </Leaf>
+      ) : null}
       {r.references.map((ref, i) => (
         <View key={i} style={{ flexDirection: 'row', marginBottom: 2 }} wrap={false}>
-          <Text style={{ width: 20 }}>{`[${i + 1}]`}</Text>
-          <Text style={{ flex: 1 }}>{shown(ref)}</Text>
+          <Leaf as="P" inRow>
+            <Text style={{ width: 20 }}>{`[${i + 1}]`}</Text>
+            <Text style={{ flex: 1 }}>{shown(ref)}</Text>
+          </Leaf>
         </View>
       ))}
-      <Text style={s.h3} minPresenceAhead={20}>
-        Conclusions
-      </Text>
+      <Leaf as="H3">
+        <Text style={s.h3} minPresenceAhead={20}>
+          Conclusions
+        </Text>
+      </Leaf>
       <PlainText text={r.conclusions} />
     </View>
   );
@@ -639,27 +768,49 @@ function Record({ data }: { data: RevisionPdfData }) {
 
 function Attachments({ data }: { data: RevisionPdfData }) {
   const list = data.version.content.attachments;
-  if (list.length === 0) return <Text style={[s.muted, s.para]}>None.</Text>;
+  if (list.length === 0)
+    return (
+      <Leaf as="P">
+        <Text style={[s.muted, s.para]}>None.</Text>
+      </Leaf>
+    );
   return (
     <View style={s.table}>
-      <View style={{ flexDirection: 'row' }}>
-        <Text style={[s.th, { width: '50%' }]}>Name</Text>
-        <Text style={[s.th, { width: '25%' }]}>Media type</Text>
-        <Text style={[s.th, { width: '25%' }]}>Size</Text>
-      </View>
-      {list.map((a, i) => (
-        <View key={i} style={[s.tr, { flexDirection: 'column' }]} wrap={false}>
-          <View style={{ flexDirection: 'row' }}>
-            <Text style={[s.td, { width: '50%', fontWeight: 600 }]}>{shown(a.name)}</Text>
-            <Text style={[s.td, { width: '25%' }]}>{a.mediaType}</Text>
-            <Text style={[s.td, { width: '25%' }]}>{formatBytes(a.size)}</Text>
-          </View>
-          <Text style={[s.td, { paddingTop: 0 }]}>
-            <Text style={{ fontSize: 7, color: C.muted }}>{'SHA-256  '}</Text>
-            <Text style={[s.mono, { fontSize: 7.5 }]}>{a.sha256}</Text>
-          </Text>
+      <Group as="Table">
+        <View style={{ flexDirection: 'row' }}>
+          <Group as="TR" inRow>
+            {['Name', 'Media type', 'Size'].map((title, i) => (
+              <Leaf key={title} as="TH" inRow>
+                <Text style={[s.th, { width: i === 0 ? '50%' : '25%' }]}>{title}</Text>
+              </Leaf>
+            ))}
+          </Group>
         </View>
-      ))}
+        {list.map((a, i) => (
+          <View key={i} style={[s.tr, { flexDirection: 'column' }]} wrap={false}>
+            <Group as="TR">
+              <View style={{ flexDirection: 'row' }}>
+                <Leaf as="TD" inRow>
+                  <Text style={[s.td, { width: '50%', fontWeight: 600 }]}>{shown(a.name)}</Text>
+                </Leaf>
+                <Leaf as="TD" inRow>
+                  <Text style={[s.td, { width: '25%' }]}>{a.mediaType}</Text>
+                </Leaf>
+                <Leaf as="TD" inRow>
+                  <Text style={[s.td, { width: '25%' }]}>{formatBytes(a.size)}</Text>
+                </Leaf>
+              </View>
+              {/* The digest spans the row under the three cells: a fourth cell of the row. */}
+              <Leaf as="TD">
+                <Text style={[s.td, { paddingTop: 0 }]}>
+                  <Text style={{ fontSize: 7, color: C.muted }}>{'SHA-256  '}</Text>
+                  <Text style={[s.mono, { fontSize: 7.5 }]}>{a.sha256}</Text>
+                </Text>
+              </Leaf>
+            </Group>
+          </View>
+        ))}
+      </Group>
     </View>
   );
 }
@@ -672,8 +823,10 @@ function Evaluation({ data }: { data: RevisionPdfData }) {
   const warnings = statements.reduce((n, st) => n + (st.warnings?.length ?? 0), 0);
   const field = (label: string, value: string, mono = false) => (
     <View style={{ flexDirection: 'row', marginBottom: 2 }}>
-      <Text style={{ width: 130, color: C.muted }}>{label}</Text>
-      <Text style={[{ flex: 1 }, mono ? [s.mono, { fontSize: 8 }] : {}].flat()}>{value}</Text>
+      <Leaf as="P" inRow>
+        <Text style={{ width: 130, color: C.muted }}>{label}</Text>
+        <Text style={[{ flex: 1 }, mono ? [s.mono, { fontSize: 8 }] : {}].flat()}>{value}</Text>
+      </Leaf>
     </View>
   );
   return (
@@ -685,9 +838,11 @@ function Evaluation({ data }: { data: RevisionPdfData }) {
       {field('Statements', `${statements.length} in ${data.version.content.cells.length} cells; ${errors} cell${errors === 1 ? '' : 's'} with errors`)}
       {field('Warnings', warnings === 0 ? 'none' : `${warnings} (a name read as a unit or a mathematical constant where a physical constant may be meant; shown beside each statement)`)}
       {field('Design criteria', `${criteria.length} (${passed} pass, ${criteria.length - passed} fail)`)}
-      <Text style={s.h3} minPresenceAhead={30}>
-        Built-in constants used
-      </Text>
+      <Leaf as="H3">
+        <Text style={s.h3} minPresenceAhead={30}>
+          Built-in constants used
+        </Text>
+      </Leaf>
       <Table
         columns={[
           { title: 'Name', width: '14%', mono: true },
@@ -712,12 +867,16 @@ function Signatures({ data }: { data: RevisionPdfData }) {
         rows={data.signatures.map((sig) => [sig.meaning, sig.printedName, formatUtc(sig.signedAt)])}
         empty="No signatures recorded."
       />
-      <Text style={{ fontSize: 8, color: C.muted }}>
-        {`Electronic signatures, each bound to the SHA-256 of version ${data.version.number} shown below; each signer re-entered their password to sign.`}
-      </Text>
+      <Leaf as="P">
+        <Text style={{ fontSize: 8, color: C.muted }}>
+          {`Electronic signatures, each bound to the SHA-256 of version ${data.version.number} shown below; each signer re-entered their password to sign.`}
+        </Text>
+      </Leaf>
       {data.alternateComparison ? (
         <View style={{ marginTop: 6 }}>
+          <Leaf as="Caption">
           <Text style={{ fontWeight: 700, marginBottom: 2 }}>{`Checker's alternate calculation compared with the sheet (tolerance ${data.alternateComparison.toleranceText ?? 'not stated'}, relative)`}</Text>
+          </Leaf>
           <Table
             columns={[
               { title: 'Name', width: '14%', mono: true },
@@ -737,8 +896,10 @@ function Signatures({ data }: { data: RevisionPdfData }) {
 function Verification({ data }: { data: RevisionPdfData }) {
   const row = (label: string, value: ReactNode) => (
     <View style={{ flexDirection: 'row', marginBottom: 3 }}>
-      <Text style={{ width: 118, color: C.muted }}>{label}</Text>
-      <View style={{ flex: 1 }}>{typeof value === 'string' ? <Text>{value}</Text> : value}</View>
+      <Leaf as="P" inRow>
+        <Text style={{ width: 118, color: C.muted }}>{label}</Text>
+        <View style={{ flex: 1 }}>{typeof value === 'string' ? <Text>{value}</Text> : value}</View>
+      </Leaf>
     </View>
   );
   return (
@@ -748,9 +909,11 @@ function Verification({ data }: { data: RevisionPdfData }) {
       {row('Verification code', <Text style={[s.mono, { fontSize: 13, fontWeight: 700, color: C.accent }]}>{data.verificationCode}</Text>)}
       {row('Verify at', <Text style={[s.mono, { fontSize: 8.5 }]}>{data.verifyUrl}</Text>)}
       {row('Verification method', data.verificationMethod ?? 'Not recorded')}
+      <Leaf as="P">
       <Text style={{ fontSize: 8, color: C.muted, marginTop: 3 }}>
         {`Upload this file or enter the verification code at the address above to learn whether it is an authentic issued revision of ${data.titleBlock.legalOwner} and whether it is still current. The file also carries the issuing organisation's digital signature, which standard PDF tools can check.`}
       </Text>
+      </Leaf>
     </View>
   );
 }
@@ -780,6 +943,8 @@ export function RevisionPdfDocument({ data: given, typeset, figure = null }: { d
       creator="Worldsheet"
       producer="Worldsheet"
       language={t.language}
+      // A tagged PDF (./structure.tsx) needs PDF 1.4 or later; react-pdf writes 1.3 unless told.
+      pdfVersion="1.7"
       // The time of issue (the "issued" signature's), so that the same revision always renders to the same content.
       creationDate={issueTime(data)}
     >
@@ -789,21 +954,35 @@ export function RevisionPdfDocument({ data: given, typeset, figure = null }: { d
         <TitleBlock data={data} />
         <Heading data={data} />
         <Cautions data={data} />
-        <SectionHeading>1  Revision history</SectionHeading>
-        <RevisionHistory data={data} />
-        <SectionHeading>2  Calculation record</SectionHeading>
-        <Record data={data} />
-        <SectionHeading>3  Calculation</SectionHeading>
-        {cellElements(data, { typeset, figure, significantFigures: data.version.content.significantFigures })}
-        <SectionHeading>4  Attachments</SectionHeading>
-        <Attachments data={data} />
-        <SectionHeading>5  Evaluation</SectionHeading>
-        <Evaluation data={data} />
-        <SectionHeading>6  Signatures</SectionHeading>
-        <Signatures data={data} />
+        <Group as="Sect">
+          <SectionHeading>1  Revision history</SectionHeading>
+          <RevisionHistory data={data} />
+        </Group>
+        <Group as="Sect">
+          <SectionHeading>2  Calculation record</SectionHeading>
+          <Record data={data} />
+        </Group>
+        <Group as="Sect">
+          <SectionHeading>3  Calculation</SectionHeading>
+          {cellElements(data, { typeset, figure, significantFigures: data.version.content.significantFigures })}
+        </Group>
+        <Group as="Sect">
+          <SectionHeading>4  Attachments</SectionHeading>
+          <Attachments data={data} />
+        </Group>
+        <Group as="Sect">
+          <SectionHeading>5  Evaluation</SectionHeading>
+          <Evaluation data={data} />
+        </Group>
+        <Group as="Sect">
+          <SectionHeading>6  Signatures</SectionHeading>
+          <Signatures data={data} />
+        </Group>
         <View wrap={false}>
-          <SectionHeading>7  Verification</SectionHeading>
-          <Verification data={data} />
+          <Group as="Sect">
+            <SectionHeading>7  Verification</SectionHeading>
+            <Verification data={data} />
+          </Group>
         </View>
       </Page>
     </Document>
@@ -819,5 +998,10 @@ export async function renderRevisionPdf(data: RevisionPdfData): Promise<Buffer> 
   // sheet that has one, so issuing any other sheet (and every module importing this one) skips it.
   const hasPlot = data.version.results.cells.some((c) => c.statements.some((st) => st.plot));
   const figure: FigureRenderer | null = hasPlot ? (await import('./svg-to-pdf')).plotPdfGraphic : null;
-  return renderToBuffer(<RevisionPdfDocument data={data} typeset={typeset} figure={figure} />);
+  installPdfStructure();
+  const before = structureInstructionsActedOn();
+  const pdf = await renderToBuffer(<RevisionPdfDocument data={data} typeset={typeset} figure={figure} />);
+  // A silent fall-back to an untagged file would go unnoticed: refuse it.
+  if (structureInstructionsActedOn() === before) throw new Error('The issued PDF was drawn without its structure tree (the structure markers never reached pdfkit).');
+  return pdf;
 }

@@ -12,6 +12,7 @@ import { unitLabel } from '@/lib/calc/unit-label';
 import { plotDescription } from '@/lib/plots/plot-figure';
 import { tokens } from '@/tailwind.config';
 import { MONO_FONT } from './fonts';
+import { Group, Leaf } from './structure';
 
 /** Draws a plot `width` points wide, at most `maxHeight` tall (lib/issue/pdf/svg-to-pdf.tsx, loaded only when a sheet has plots). */
 export type FigureRenderer = (data: PlotData, width: number, options: { height: number }) => ReactElement;
@@ -63,7 +64,11 @@ export function UncertaintyLine({ uncertainty }: { uncertainty: UncertaintyResul
 }
 
 function Caption({ children }: { children: string }) {
-  return <Text style={{ fontSize: 7.5, fontWeight: 700, color: C.accent, marginBottom: 2 }}>{children}</Text>;
+  return (
+    <Leaf as="Caption">
+      <Text style={{ fontSize: 7.5, fontWeight: 700, color: C.accent, marginBottom: 2 }}>{children}</Text>
+    </Leaf>
+  );
 }
 
 const th = { fontSize: 7, fontWeight: 700, color: C['ink-muted'], paddingVertical: 2, paddingHorizontal: 3, backgroundColor: '#f3f2ec' };
@@ -78,37 +83,51 @@ export function UncertaintyBudget({ line, uncertainty }: { line: number; uncerta
       <Caption>{`Uncertainty budget, L${line} (JCGM 100, first order)`}</Caption>
       {rows.length ? (
         <View style={{ borderWidth: 0.5, borderColor: C['rule-strong'] }}>
-          <View style={{ flexDirection: 'row' }}>
-            {BUDGET_COLUMNS.map((title, i) => (
-              <Text key={i} style={[th, { width: widths[i], textAlign: i === 0 ? 'left' : 'right' }]}>
-                {title}
-              </Text>
-            ))}
-          </View>
-          {rows.map((cells, r) => (
-            <View key={r} style={{ flexDirection: 'row', borderTopWidth: 0.5, borderTopColor: C.rule }} wrap={false}>
-              {cells.map((cell, i) => (
-                <Text key={i} style={[td, i === 0 ? mono : {}, { width: widths[i], textAlign: i === 0 ? 'left' : 'right' }]}>
-                  {cell}
-                </Text>
-              ))}
+          <Group as="Table">
+            <View style={{ flexDirection: 'row' }}>
+              <Group as="TR" inRow>
+                {BUDGET_COLUMNS.map((title, i) => (
+                  <Leaf key={i} as="TH" inRow>
+                    <Text style={[th, { width: widths[i], textAlign: i === 0 ? 'left' : 'right' }]}>{title}</Text>
+                  </Leaf>
+                ))}
+              </Group>
             </View>
-          ))}
+            {rows.map((cells, r) => (
+              <View key={r} style={{ flexDirection: 'row', borderTopWidth: 0.5, borderTopColor: C.rule }} wrap={false}>
+                <Group as="TR" inRow>
+                  {cells.map((cell, i) => (
+                    <Leaf key={i} as="TD" inRow>
+                      <Text style={[td, i === 0 ? mono : {}, { width: widths[i], textAlign: i === 0 ? 'left' : 'right' }]}>{cell}</Text>
+                    </Leaf>
+                  ))}
+                </Group>
+              </View>
+            ))}
+          </Group>
         </View>
       ) : null}
-      <Text style={{ fontSize: 8, marginTop: 2 }}>{combinedText(uncertainty)}</Text>
-      {uncertainty.nonLinear ? <Text style={{ fontSize: 8, color: C['ink-muted'] }}>The model is not linear over ±2u of some input; the Monte Carlo result below is the one to rely on.</Text> : null}
+      <Leaf as="P">
+        <Text style={{ fontSize: 8, marginTop: 2 }}>{combinedText(uncertainty)}</Text>
+      </Leaf>
+      {uncertainty.nonLinear ? (
+        <Leaf as="P">
+          <Text style={{ fontSize: 8, color: C['ink-muted'] }}>The model is not linear over ±2u of some input; the Monte Carlo result below is the one to rely on.</Text>
+        </Leaf>
+      ) : null}
       {uncertainty.monteCarlo
         ? monteCarloLines(uncertainty.monteCarlo, uncertainty.unit).map((l, i) => (
-            <Text key={i} style={{ fontSize: 8, color: C['ink-muted'] }}>
-              {l}
-            </Text>
+            <Leaf key={i} as="P">
+              <Text style={{ fontSize: 8, color: C['ink-muted'] }}>{l}</Text>
+            </Leaf>
           ))
         : null}
       {uncertainty.warning ? (
-        <Text style={{ fontSize: 8, fontWeight: 700, color: C.caution, backgroundColor: C['caution-soft'], borderLeftWidth: 2, borderLeftColor: C['caution-rule'], paddingHorizontal: 4, paddingVertical: 1.5, marginTop: 2 }}>
-          {`Caution: ${uncertainty.warning}`}
-        </Text>
+        <Leaf as="P">
+          <Text style={{ fontSize: 8, fontWeight: 700, color: C.caution, backgroundColor: C['caution-soft'], borderLeftWidth: 2, borderLeftColor: C['caution-rule'], paddingHorizontal: 4, paddingVertical: 1.5, marginTop: 2 }}>
+            {`Caution: ${uncertainty.warning}`}
+          </Text>
+        </Leaf>
       ) : null}
     </View>
   );
@@ -129,12 +148,15 @@ export function StudyTablePdf({ line, table, significantFigures }: { line: numbe
   const width = `${100 / n}%`;
   const failed = table.errors.filter((e) => e !== null).length;
   const header = (
+    // Repeated on each page the table runs onto, and tagged each time (a header row per page).
     <View fixed style={{ flexDirection: 'row', borderBottomWidth: 0.5, borderBottomColor: C['rule-strong'] }}>
-      {table.columns.map((c, i) => (
-        <Text key={i} style={[th, { width, textAlign: 'right' }]}>
-          {studyColumnTitle(c)}
-        </Text>
-      ))}
+      <Group as="TR" inRow>
+        {table.columns.map((c, i) => (
+          <Leaf key={i} as="TH" inRow>
+            <Text style={[th, { width, textAlign: 'right' }]}>{studyColumnTitle(c)}</Text>
+          </Leaf>
+        ))}
+      </Group>
     </View>
   );
   const boxes: ReactElement[] = [];
@@ -148,18 +170,24 @@ export function StudyTablePdf({ line, table, significantFigures }: { line: numbe
           const error = table.errors[r];
           return (
             <View key={r} style={{ flexDirection: 'row', borderTopWidth: k === 0 ? 0 : 0.5, borderTopColor: C.rule }} wrap={false}>
-              {error ? (
-                <>
-                  <Text style={[td, mono, { width, textAlign: 'right' }]}>{row[0] === null || row[0] === undefined ? '—' : formatNumberText(row[0], significantFigures)}</Text>
-                  <Text style={[td, { flex: 1, color: C.fail }]}>{`Step failed: ${error}`}</Text>
-                </>
-              ) : (
-                table.columns.map((_, i) => (
-                  <Text key={i} style={[td, mono, { width, textAlign: 'right' }]}>
-                    {row[i] === null || row[i] === undefined ? '—' : formatNumberText(row[i]!, significantFigures)}
-                  </Text>
-                ))
-              )}
+              <Group as="TR" inRow>
+                {error ? (
+                  <>
+                    <Leaf as="TD" inRow>
+                      <Text style={[td, mono, { width, textAlign: 'right' }]}>{row[0] === null || row[0] === undefined ? '—' : formatNumberText(row[0], significantFigures)}</Text>
+                    </Leaf>
+                    <Leaf as="TD" inRow>
+                      <Text style={[td, { flex: 1, color: C.fail }]}>{`Step failed: ${error}`}</Text>
+                    </Leaf>
+                  </>
+                ) : (
+                  table.columns.map((_, i) => (
+                    <Leaf key={i} as="TD" inRow>
+                      <Text style={[td, mono, { width, textAlign: 'right' }]}>{row[i] === null || row[i] === undefined ? '—' : formatNumberText(row[i]!, significantFigures)}</Text>
+                    </Leaf>
+                  ))
+                )}
+              </Group>
             </View>
           );
         })}
@@ -168,10 +196,12 @@ export function StudyTablePdf({ line, table, significantFigures }: { line: numbe
   }
   return (
     <View style={{ paddingVertical: 3, borderTopWidth: 0.5, borderTopColor: C.rule }}>
-      <Text minPresenceAhead={40} style={{ fontSize: 7.5, fontWeight: 700, color: C.accent, marginBottom: 2 }}>
-        {`Sweep, L${line}: ${table.rows.length} step${table.rows.length === 1 ? '' : 's'}${failed ? `, ${failed} failed` : ''}`}
-      </Text>
-      {boxes}
+      <Leaf as="Caption">
+        <Text minPresenceAhead={40} style={{ fontSize: 7.5, fontWeight: 700, color: C.accent, marginBottom: 2 }}>
+          {`Sweep, L${line}: ${table.rows.length} step${table.rows.length === 1 ? '' : 's'}${failed ? `, ${failed} failed` : ''}`}
+        </Text>
+      </Leaf>
+      <Group as="Table">{boxes}</Group>
     </View>
   );
 }
@@ -182,8 +212,13 @@ export function PlotFigurePdf({ line, plot, width, figure }: { line: number; plo
   return (
     <View style={{ paddingVertical: 3, borderTopWidth: 0.5, borderTopColor: C.rule }} wrap={false}>
       <Caption>{`Figure, L${line}`}</Caption>
-      {figure ? figure(plot, width, { height }) : null}
-      <Text style={{ fontSize: 7.5, color: C['ink-muted'], marginTop: 1 }}>{plotDescription(plot)}</Text>
+      {/* The description printed under the figure is also its alternate text. */}
+      <Leaf as="Figure" alt={plotDescription(plot)}>
+        {figure ? figure(plot, width, { height }) : null}
+      </Leaf>
+      <Leaf as="P">
+        <Text style={{ fontSize: 7.5, color: C['ink-muted'], marginTop: 1 }}>{plotDescription(plot)}</Text>
+      </Leaf>
     </View>
   );
 }

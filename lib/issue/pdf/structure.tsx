@@ -1,0 +1,258 @@
+// The issued PDF as a tagged PDF (ISO 32000-1 §14.8): a structure tree (Document → headings,
+// paragraphs, tables, formulas with their alternate text), marked content with MCIDs linking each
+// element to what is drawn, page furniture marked as pagination artifacts, MarkInfo /Marked true.
+//
+// react-pdf 4.9 writes none of this (it draws through pdfkit, which can), and gives no hook between
+// its layout and its drawing. So the document carries markers: zero-size Canvas elements placed
+// before and after what they tag. react-pdf draws every node in document order, page by page, and
+// calls a Canvas's paint function with a painter that forwards a fixed list of pdfkit methods; a
+// marker passes its instruction through one of them (`miterLimit`), which this module wraps so that
+// an instruction object is acted on with pdfkit's own marking API and any number is passed through.
+// Every instruction is a no-op for a pdfkit document that did not start tagged (see `install`).
+//
+// The rules the markers follow (checked here, an error stops the rendering):
+// - a leaf (H1, P, TD, Formula …) holds drawn content; leaves never nest; content between leaves
+//   (rules, cell frames, backgrounds) is an artifact;
+// - a group (Sect, Table, TR, Div …) holds leaves and groups, and draws nothing of its own;
+// - a leaf or group may run over a page break: the leaf's marked content is reopened on the next
+//   page after its page furniture, under the same structure element;
+// - page furniture (the running head and the title block) is a pagination artifact.
+import { Canvas } from '@react-pdf/renderer';
+import PDFDocument from 'pdfkit';
+import type { ReactElement, ReactNode } from 'react';
+
+type LeafType = 'H1' | 'H2' | 'H3' | 'H4' | 'H5' | 'H6' | 'P' | 'Lbl' | 'TH' | 'TD' | 'Code' | 'Formula' | 'Figure' | 'Caption' | 'Note';
+type GroupType = 'Sect' | 'Div' | 'Table' | 'TR' | 'L' | 'LI';
+
+type Instruction =
+  | { op: 'group'; type: GroupType }
+  | { op: 'end-group' }
+  | { op: 'leaf'; type: LeafType; alt?: string }
+  | { op: 'end-leaf' }
+  | { op: 'artifact' }
+  | { op: 'end-artifact' };
+
+const INSTRUCTION = Symbol.for('worldsheet.pdf-structure');
+
+// The slice of pdfkit's document (its MarkingsMixin) this module uses.
+interface StructureContent {
+  push(other: StructureContent): void;
+}
+interface StructureElement {
+  add(child: StructureElement | StructureContent): StructureElement;
+  end(): void;
+}
+interface Doc {
+  markContent(tag: string, options?: Record<string, unknown> | null): Doc;
+  markStructureContent(tag: string, options?: Record<string, unknown>): StructureContent;
+  endMarkedContent(): Doc;
+  struct(type: string, options?: Record<string, unknown>, children?: StructureContent[]): StructureElement;
+  addStructure(element: StructureElement): Doc;
+  addContent(data: string): Doc;
+  miterLimit(value: unknown): Doc;
+  addPage(options?: unknown): Doc;
+  initMarkings(options: Record<string, unknown>): void;
+}
+
+interface State {
+  groups: StructureElement[];
+  /** The leaf in progress; its content is null until something of it is drawn. */
+  leaf: { type: LeafType; alt?: string; content: StructureContent | null } | null;
+  /** What the current page has open: the leaf's marked content, a pagination artifact, or the artifact between leaves. */
+  open: 'leaf' | 'pagination' | 'artifact' | null;
+  /** Nothing is open and the next drawing must first open the leaf in progress, else an artifact. */
+  pending: boolean;
+  /** Set while this module writes a marking operator, which is not a drawing. */
+  writing: boolean;
+}
+
+const states = new WeakMap<Doc, State>();
+let actedOn = 0;
+
+// Operators that only set the graphics state (ISO 32000-1 Table 51, 57, 74) and the marking
+// operators themselves: writing one of them draws nothing, so it does not open a marked sequence.
+// Every other operator (BT, a path's first m or re, Do, sh …) starts something drawn.
+const STATE_OPERATORS = new Set(['q', 'Q', 'cm', 'w', 'J', 'j', 'M', 'd', 'ri', 'i', 'gs', 'CS', 'cs', 'SC', 'SCN', 'sc', 'scn', 'G', 'g', 'RG', 'rg', 'K', 'k', 'BDC', 'BMC', 'EMC', 'MP', 'DP']);
+
+function draws(data: string): boolean {
+  const op = /(\S+)\s*$/.exec(data)?.[1] ?? '';
+  return !STATE_OPERATORS.has(op);
+}
+
+function write(doc: Doc, st: State, fn: () => void): void {
+  st.writing = true;
+  try {
+    fn();
+  } finally {
+    st.writing = false;
+  }
+}
+
+function closeOpen(doc: Doc, st: State): void {
+  if (st.open) write(doc, st, () => doc.endMarkedContent());
+  st.open = null;
+  st.pending = false;
+}
+
+/** Opens, just before something is drawn, the leaf in progress (its content continues here), else an artifact. */
+function openPending(doc: Doc, st: State): void {
+  st.pending = false;
+  write(doc, st, () => {
+    const leaf = st.leaf;
+    if (leaf) {
+      const content = doc.markStructureContent(leaf.type);
+      if (leaf.content) leaf.content.push(content);
+      else leaf.content = content;
+      st.open = 'leaf';
+    } else {
+      doc.markContent('Artifact');
+      st.open = 'artifact';
+    }
+  });
+}
+
+function act(doc: Doc, st: State, ins: Instruction): void {
+  actedOn += 1;
+  switch (ins.op) {
+    case 'group': {
+      if (st.leaf) throw new Error(`PDF structure: a ${ins.type} cannot start inside a ${st.leaf.type}.`);
+      const element = doc.struct(ins.type);
+      st.groups[st.groups.length - 1].add(element);
+      st.groups.push(element);
+      return;
+    }
+    case 'end-group': {
+      if (st.groups.length < 2) throw new Error('PDF structure: a group ends that was not started.');
+      st.groups.pop()!.end();
+      return;
+    }
+    case 'leaf': {
+      if (st.leaf) throw new Error(`PDF structure: a ${ins.type} cannot start inside a ${st.leaf.type}.`);
+      closeOpen(doc, st);
+      st.leaf = { type: ins.type, alt: ins.alt, content: null };
+      st.pending = true;
+      return;
+    }
+    case 'end-leaf': {
+      const leaf = st.leaf;
+      if (!leaf) throw new Error('PDF structure: a leaf ends that was not started.');
+      if (st.open === 'leaf') closeOpen(doc, st);
+      st.leaf = null;
+      // The element is made once its content is complete, so every page it ran over is in the
+      // parent tree; a leaf that drew nothing is no element.
+      if (leaf.content) st.groups[st.groups.length - 1].add(doc.struct(leaf.type, leaf.alt ? { alt: leaf.alt } : {}, [leaf.content]));
+      if (!st.open) st.pending = true;
+      return;
+    }
+    case 'artifact': {
+      closeOpen(doc, st);
+      write(doc, st, () => doc.markContent('Artifact', { type: 'Pagination' }));
+      st.open = 'pagination';
+      return;
+    }
+    case 'end-artifact': {
+      if (st.open !== 'pagination') throw new Error('PDF structure: an artifact ends that was not started.');
+      closeOpen(doc, st);
+      st.pending = true;
+      return;
+    }
+  }
+}
+
+let installed = false;
+
+/**
+ * Makes every pdfkit document of this process start tagged (the issued PDF is the only one drawn
+ * with react-pdf) and teaches it the markers' instructions. Idempotent.
+ */
+export function installPdfStructure(): void {
+  if (installed) return;
+  installed = true;
+  const proto = (PDFDocument as unknown as { prototype: Doc }).prototype;
+  const initMarkings = proto.initMarkings;
+  proto.initMarkings = function (this: Doc, options: Record<string, unknown>) {
+    initMarkings.call(this, { ...options, tagged: true });
+    const root = this.struct('Document');
+    this.addStructure(root);
+    states.set(this, { groups: [root], leaf: null, open: null, pending: false, writing: false });
+  };
+  const addContent = proto.addContent;
+  proto.addContent = function (this: Doc, data: string) {
+    const st = states.get(this);
+    if (st && st.pending && !st.writing && draws(data)) openPending(this, st);
+    return addContent.call(this, data);
+  };
+  const addPage = proto.addPage;
+  proto.addPage = function (this: Doc, options?: unknown) {
+    addPage.call(this, options);
+    // The previous page's open marked content was closed when it was written (pdfkit's endPageMarkings);
+    // what is drawn next on this page continues the leaf in progress, else is an artifact.
+    const st = states.get(this);
+    if (st) {
+      st.open = null;
+      st.pending = true;
+    }
+    return this;
+  };
+  const miterLimit = proto.miterLimit;
+  proto.miterLimit = function (this: Doc, value: unknown) {
+    if (value && typeof value === 'object' && INSTRUCTION in value) {
+      const st = states.get(this);
+      if (st) act(this, st, (value as { [INSTRUCTION]: Instruction })[INSTRUCTION]);
+      return this;
+    }
+    return miterLimit.call(this, value);
+  };
+}
+
+/** How many structure instructions this process has acted on: a rendering that adds none was drawn untagged. */
+export function structureInstructionsActedOn(): number {
+  return actedOn;
+}
+
+// In the normal flow a marker is 0.001 pt tall (layout is not rounded: react-pdf sets Yoga's point scale factor to 0); inside a row it is taken out of the flow so that it
+// cannot move its siblings (`absolute`), which is safe only where the row is never split by a page.
+function Marker({ instruction, absolute = false }: { instruction: Instruction; absolute?: boolean }): ReactElement {
+  return (
+    <Canvas
+      style={absolute ? { position: 'absolute', left: 0, top: 0, width: 0.01, height: 0.01 } : { width: 0.001, height: 0.001 }}
+      paint={(painter) => {
+        (painter as unknown as { miterLimit(v: unknown): unknown }).miterLimit({ [INSTRUCTION]: instruction });
+        return null;
+      }}
+    />
+  );
+}
+
+/** Tags what `children` draw as one structure element of a leaf type (a heading, a paragraph, a table cell, a formula…). */
+export function Leaf({ as, alt, inRow = false, children }: { as: LeafType; alt?: string; inRow?: boolean; children: ReactNode }): ReactElement {
+  return (
+    <>
+      <Marker instruction={{ op: 'leaf', type: as, ...(alt ? { alt } : {}) }} absolute={inRow} />
+      {children}
+      <Marker instruction={{ op: 'end-leaf' }} absolute={inRow} />
+    </>
+  );
+}
+
+/** Groups the leaves and groups `children` hold under one structure element (a section, a table, a row…). */
+export function Group({ as, inRow = false, children }: { as: GroupType; inRow?: boolean; children: ReactNode }): ReactElement {
+  return (
+    <>
+      <Marker instruction={{ op: 'group', type: as }} absolute={inRow} />
+      {children}
+      <Marker instruction={{ op: 'end-group' }} absolute={inRow} />
+    </>
+  );
+}
+
+/** Page furniture, repeated on every page (running head, title block): a pagination artifact. */
+export function PageArtifact({ children }: { children: ReactNode }): ReactElement {
+  return (
+    <>
+      <Marker instruction={{ op: 'artifact' }} absolute />
+      {children}
+      <Marker instruction={{ op: 'end-artifact' }} absolute />
+    </>
+  );
+}
