@@ -234,3 +234,17 @@ export async function resolveAttachments(db: Kysely<Database>, sheetId: string, 
   }
   return tables;
 }
+
+/**
+ * The parsed CSV tables (columns with their values, as stored at upload) of the given SHA-256s among
+ * a sheet's attachments, by SHA-256: what the version comparison diffs row by row. Hashes that are
+ * not CSV tables of the sheet are absent.
+ */
+export async function attachmentTables(db: Kysely<Database>, sheetId: string, sha256s: Iterable<string>): Promise<Record<string, StoredTable>> {
+  const wanted = [...new Set(sha256s)].filter((h) => /^[0-9a-f]{64}$/.test(h));
+  if (wanted.length === 0) return {};
+  const rows = await db.selectFrom('attachments').select(['sha256', 'table_data']).where('sheet_id', '=', sheetId).where('sha256', 'in', wanted).where('table_data', 'is not', null).execute();
+  const out: Record<string, StoredTable> = {};
+  for (const row of rows) out[row.sha256] ??= row.table_data as StoredTable;
+  return out;
+}

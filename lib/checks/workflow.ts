@@ -18,7 +18,9 @@ import { evaluateSandboxed, evaluationScope } from '@/lib/sheets/evaluate-sandbo
 import { appUrl } from '@/lib/http/app-url';
 import { enqueueMail } from '@/lib/mail/outbox';
 import { cellSchema, refuseBidiControls, type Cell } from '@/lib/sheets/content';
-import { compareVersions, type VersionComparison } from '@/lib/sheets/compare';
+import type { VersionComparison } from '@/lib/sheets/compare';
+import { compareStoredVersions } from '@/lib/sheets/comparison';
+import { returnedCheckBefore } from './recheck';
 import { formatSheetNumber } from '@/lib/sheets/sheet-number';
 import { getVersion } from '@/lib/sheets/sheets';
 import { approverRefusal, checkerRefusal, mayAnswerThreads, type Participants, type Person, type Refusal } from './rules';
@@ -585,7 +587,14 @@ export async function getCheckDetail(db: Kysely<Database>, actor: Actor, checkId
     person(db, check.project_id, check.checker_id),
   ]);
   if (!version) throw new AppError('not_found', 'The version under check is missing.');
-  const comparison: VersionComparison = compareVersions(base ? { content: base.content, results: base.results } : null, { content: version.content, results: version.results });
+  const comparison: VersionComparison = await compareStoredVersions(db, check.sheet_id, base ?? null, version);
+  // A re-check after a return: what changed since the version that was returned comes first.
+  const returned = await returnedCheckBefore(db, check);
+  const returnedVersion = returned ? await getVersion(db, check.sheet_id, returned.versionNumber) : null;
+  const sinceReturn =
+    returned && returnedVersion
+      ? { ...returned, sha256: returnedVersion.sha256, comparison: await compareStoredVersions(db, check.sheet_id, returnedVersion, version) }
+      : null;
   const threads = comments
     .filter((c) => c.thread_id === null)
     .map((t) => ({
@@ -615,6 +624,8 @@ export async function getCheckDetail(db: Kysely<Database>, actor: Actor, checkId
     version: { number: version.number, sha256: version.sha256, author: version.author, createdAt: new Date(version.createdAt).toISOString(), message: version.message, content: version.content, results: version.results },
     base: base ? { number: base.number, sha256: base.sha256, content: base.content, results: base.results } : null,
     comparison,
+    /** For a re-check after a return: the returned check, its version and the comparison since that version; null otherwise. */
+    sinceReturn,
     submittedBy: submitter.name,
     checker: { userId: checker.userId, name: checker.name },
     submittedAt: new Date(check.created_at).toISOString(),

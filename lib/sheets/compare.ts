@@ -122,7 +122,61 @@ export interface ItemChange<T, F extends string> {
 export type InputChange = ItemChange<DesignInput, 'value' | 'source' | 'sourceRevision'>;
 export type AssumptionChange = ItemChange<Assumption, 'needsVerification'>;
 export type ReferenceChange = ItemChange<string, never>;
-export type AttachmentChange = ItemChange<AttachmentRef, 'sha256' | 'mediaType' | 'size'>;
+/**
+ * An attachment added, removed or changed (status `changed`: the same name with other bytes, i.e.
+ * replaced). `table` is the row/column diff when either side is a CSV data table whose parsed columns
+ * were passed in (`CompareOptions.tables`), else null.
+ */
+export type AttachmentChange = ItemChange<AttachmentRef, 'sha256' | 'mediaType' | 'size'> & { table: TableDiff | null };
+
+/** A CSV data table as parsed at upload (lib/attachments/csv-table.ts): columns with their values. */
+export interface ComparedTable {
+  rows: number;
+  columns: ReadonlyArray<{ name: string; unit: string | null; values: readonly number[] }>;
+}
+
+export interface CompareOptions {
+  /** Parsed CSV tables by the SHA-256 of their bytes; attachments without one get no table diff. */
+  tables?: Readonly<Record<string, ComparedTable>>;
+}
+
+export type TableColumnStatus = 'added' | 'removed' | 'unitChanged' | 'unchanged';
+
+export interface TableColumnChange {
+  name: string;
+  status: TableColumnStatus;
+  /** Null when the column is absent on that side. */
+  oldUnit: string | null;
+  newUnit: string | null;
+}
+
+export interface TableRowChange {
+  status: 'added' | 'removed' | 'changed';
+  /** 1-based data row (the header not counted) in the old / new table; null when absent there. */
+  oldRow: number | null;
+  newRow: number | null;
+  /** The row's values aligned with `TableDiff.columns` (null for a column absent on that side); null when the row is absent. */
+  old: Array<number | null> | null;
+  new: Array<number | null> | null;
+  /** For a changed row, the columns (present on both sides) whose values differ. */
+  changedColumns: string[];
+}
+
+export interface TableDiff {
+  /** Data rows on each side; null when that side is not a table (absent, or not a CSV table). */
+  oldRows: number | null;
+  newRows: number | null;
+  /** Every column of either side: the new table's order, then the removed columns in the old order. */
+  columns: TableColumnChange[];
+  /** Row changes in table order, at most `MAX_TABLE_ROW_CHANGES` of them (see `truncated`). */
+  rows: TableRowChange[];
+  rowCounts: { added: number; removed: number; changed: number };
+  /** More row changes than listed. */
+  truncated: boolean;
+}
+
+/** At most this many row changes are listed per table (all are counted). */
+export const MAX_TABLE_ROW_CHANGES = 200;
 
 export interface RecordComparison {
   fields: RecordFieldChange[];
@@ -185,15 +239,20 @@ export interface VersionComparison {
  *   equal unit strings ("T m" and "T·m" are not converted; "MeV" and "GeV" neither).
  * - **Record**: fields compared by value (text fields with a word diff); inputs matched by `name`,
  *   assumptions and references by their exact text, attachments by `name` (changed when `sha256`,
- *   media type or size differs). Order within these lists is ignored. Repeated keys are matched
- *   k-th with k-th. Only differences are listed.
+ *   media type or size differs: replaced). Order within these lists is ignored. Repeated keys are
+ *   matched k-th with k-th. Only differences are listed.
+ * - **CSV tables** (an attachment whose SHA-256 has an entry in `options.tables`, on either side):
+ *   columns matched by name (added, removed, unit changed); rows compared on the values of the
+ *   columns both sides have, diffed in order (Myers's diff on whole rows), a removed run followed by
+ *   an added run paired row by row as changed rows (the columns that differ named). A missing side
+ *   counts as an empty table, so an added table lists every row as added.
  * - With `base` null every cell, result, field and list item of the target is `added`.
  */
-export function compareVersions(base: ComparedVersion | null, target: ComparedVersion): VersionComparison {
+export function compareVersions(base: ComparedVersion | null, target: ComparedVersion, options: CompareOptions = {}): VersionComparison {
   const cells = compareCells(base?.content.cells ?? [], target.content.cells);
   const resultsCompared = base === null || (base.results !== null && target.results !== null);
   const results = resultsCompared ? compareResults(base?.results ?? null, target.results) : [];
-  const record = compareRecord(base?.content ?? null, target.content);
+  const record = compareRecord(base?.content ?? null, target.content, options.tables ?? {});
 
   const cellCounts: Record<CellStatus, number> = { added: 0, removed: 0, changed: 0, moved: 0, unchanged: 0 };
   for (const cell of cells) cellCounts[cell.status]++;
@@ -555,7 +614,7 @@ function displayUnitsLabel(content: VersionContent): string {
   return DISPLAY_UNITS_LABEL[content.displayUnits ?? DISPLAY_UNITS_DEFAULT];
 }
 
-function compareRecord(base: VersionContent | null, target: VersionContent): RecordComparison {
+function compareRecord(base: VersionContent | null, target: VersionContent, tables: Readonly<Record<string, ComparedTable>>): RecordComparison {
   const fields = [
     compareField('title', base?.title ?? null, target.title, true),
     compareField('safetyRelated', base?.safetyRelated ?? null, target.safetyRelated, false),
@@ -591,7 +650,95 @@ function compareRecord(base: VersionContent | null, target: VersionContent): Rec
       (a) => a.name,
       ['sha256', 'mediaType', 'size'] as const,
       (a, f) => a[f],
-    ),
+    ).map((change) => {
+      const oldTable = change.old ? (tables[change.old.sha256] ?? null) : null;
+      const newTable = change.new ? (tables[change.new.sha256] ?? null) : null;
+      return { ...change, table: oldTable || newTable ? compareTables(oldTable, newTable) : null };
+    }),
+  };
+}
+
+/**
+ * Row/column diff of two CSV data tables (either may be null: absent, or not a table). See
+ * `compareVersions` for the rules.
+ */
+export function compareTables(oldTable: ComparedTable | null, newTable: ComparedTable | null): TableDiff {
+  const oldCols = oldTable?.columns ?? [];
+  const newCols = newTable?.columns ?? [];
+  const oldByName = new Map(oldCols.map((c) => [c.name, c]));
+  const newNames = new Set(newCols.map((c) => c.name));
+  const columns: TableColumnChange[] = [
+    ...newCols.map((c): TableColumnChange => {
+      const old = oldByName.get(c.name);
+      if (!old) return { name: c.name, status: 'added', oldUnit: null, newUnit: c.unit };
+      return { name: c.name, status: old.unit === c.unit ? 'unchanged' : 'unitChanged', oldUnit: old.unit, newUnit: c.unit };
+    }),
+    ...oldCols.filter((c) => !newNames.has(c.name)).map((c): TableColumnChange => ({ name: c.name, status: 'removed', oldUnit: c.unit, newUnit: null })),
+  ];
+  const shared = columns.filter((c) => c.status === 'unchanged' || c.status === 'unitChanged').map((c) => c.name);
+  const newByName = new Map(newCols.map((c) => [c.name, c]));
+  const oldCount = oldTable ? Math.min(oldTable.rows, ...oldCols.map((c) => c.values.length)) : 0;
+  const newCount = newTable ? Math.min(newTable.rows, ...newCols.map((c) => c.values.length)) : 0;
+  const rowValues = (byName: Map<string, ComparedTable['columns'][number]>, r: number) => columns.map((c) => byName.get(c.name)?.values[r] ?? null);
+  const keyOf = (byName: Map<string, ComparedTable['columns'][number]>, r: number) => JSON.stringify(shared.map((n) => byName.get(n)!.values[r]));
+  const oldKeys = Array.from({ length: oldCount }, (_, r) => keyOf(oldByName, r));
+  const newKeys = Array.from({ length: newCount }, (_, r) => keyOf(newByName, r));
+
+  const rows: TableRowChange[] = [];
+  const rowCounts = { added: 0, removed: 0, changed: 0 };
+  const push = (change: TableRowChange) => {
+    rowCounts[change.status]++;
+    if (rows.length < MAX_TABLE_ROW_CHANGES) rows.push(change);
+  };
+  const emitHunk = (removed: number[], added: number[]) => {
+    const pairs = Math.min(removed.length, added.length);
+    for (let k = 0; k < Math.max(removed.length, added.length); k++) {
+      const o = k < removed.length ? removed[k] : null;
+      const n = k < added.length ? added[k] : null;
+      if (k < pairs && o !== null && n !== null) {
+        const changedColumns = shared.filter((name) => !Object.is(oldByName.get(name)!.values[o], newByName.get(name)!.values[n]));
+        push({ status: 'changed', oldRow: o + 1, newRow: n + 1, old: rowValues(oldByName, o), new: rowValues(newByName, n), changedColumns });
+      } else if (o !== null) push({ status: 'removed', oldRow: o + 1, newRow: null, old: rowValues(oldByName, o), new: null, changedColumns: [] });
+      else if (n !== null) push({ status: 'added', oldRow: null, newRow: n + 1, old: null, new: rowValues(newByName, n), changedColumns: [] });
+    }
+  };
+
+  const changes = diffArrays(oldKeys, newKeys, { maxEditLength: MAX_EDIT_TOKENS });
+  if (!changes) {
+    // Too different to diff cheaply: row k against row k.
+    const both = Math.min(oldCount, newCount);
+    for (let r = 0; r < both; r++) if (oldKeys[r] !== newKeys[r]) emitHunk([r], [r]);
+    emitHunk(
+      Array.from({ length: Math.max(0, oldCount - both) }, (_, i) => both + i),
+      Array.from({ length: Math.max(0, newCount - both) }, (_, i) => both + i),
+    );
+  } else {
+    let o = 0;
+    let n = 0;
+    let removed: number[] = [];
+    let added: number[] = [];
+    for (const change of changes) {
+      const count = change.value.length;
+      if (change.removed) removed = [...removed, ...Array.from({ length: count }, (_, i) => o + i)];
+      else if (change.added) added = [...added, ...Array.from({ length: count }, (_, i) => n + i)];
+      else {
+        emitHunk(removed, added);
+        removed = [];
+        added = [];
+      }
+      if (!change.added) o += count;
+      if (!change.removed) n += count;
+    }
+    emitHunk(removed, added);
+  }
+
+  return {
+    oldRows: oldTable ? oldCount : null,
+    newRows: newTable ? newCount : null,
+    columns,
+    rows,
+    rowCounts,
+    truncated: rowCounts.added + rowCounts.removed + rowCounts.changed > rows.length,
   };
 }
 

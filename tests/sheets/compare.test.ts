@@ -1,7 +1,8 @@
 import { describe, expect, it } from 'vitest';
 import { createSheetEngine } from '../../lib/calc/sheet-engine';
 import type { CellResult, SheetResult, StatementResult } from '../../lib/calc/types';
-import { compareVersions, foldUnchanged, wordDiff, type ComparedVersion } from '../../lib/sheets/compare';
+import { compareTables, compareVersions, foldUnchanged, MAX_TABLE_ROW_CHANGES, wordDiff, type ComparedVersion } from '../../lib/sheets/compare';
+import { parseInputTable } from '../../lib/attachments/csv-table';
 import { emptyRecord, type Cell, type VersionContent } from '../../lib/sheets/content';
 
 function content(cells: Cell[], overrides: Partial<VersionContent> = {}): VersionContent {
@@ -337,8 +338,9 @@ describe('record and attachments', () => {
         old: { name: 'field-map.csv', mediaType: 'text/csv', size: 100, sha256: hashA },
         new: { name: 'field-map.csv', mediaType: 'text/csv', size: 100, sha256: hashB },
         changedFields: ['sha256'],
+        table: null,
       },
-      { key: 'photo.jpg', status: 'removed', old: { name: 'photo.jpg', mediaType: 'image/jpeg', size: 5000, sha256: hashC }, new: null, changedFields: [] },
+      { key: 'photo.jpg', status: 'removed', old: { name: 'photo.jpg', mediaType: 'image/jpeg', size: 5000, sha256: hashC }, new: null, changedFields: [], table: null },
     ]);
     expect(cmp.summary).toMatchObject({ recordChanges: 4, attachmentChanges: 2 });
     expect(cmp.summary.cells.unchanged).toBe(1);
@@ -446,5 +448,96 @@ describe('folding unchanged cells', () => {
     expect(withContext.segments.map((s) => (s.type === 'cell' ? s.cell.id : `[${s.cellIds.join(' ')}]`))).toEqual(['[u1]', 'u2', 'ch', 'u3', '[u4 u5]']);
     const minRun = foldUnchanged(cmp, { context: 1, minRun: 2 });
     expect(minRun.segments.map((s) => (s.type === 'cell' ? s.cell.id : `[${s.cellIds.join(' ')}]`))).toEqual(['u1', 'u2', 'ch', 'u3', '[u4 u5]']);
+  });
+});
+
+describe('attachments and CSV tables', () => {
+  // Unit checks are not the subject here: every unit is accepted.
+  const table = (csv: string) => parseInputTable(csv, () => null);
+  const sha = (c: string) => c.repeat(64);
+
+  it('lists attachments added, removed and replaced with name, size and SHA-256, and diffs a replaced CSV table by rows and columns', () => {
+    // Invented demo data: a field map measured at four currents, then re-measured.
+    const before = table('current [A], field [T]\n100, 0.50\n200, 1.00\n300, 1.50\n400, 2.00\n');
+    const after = table('current [A], field [T], temperature [K]\n100, 0.50, 300\n200, 1.01, 300\n400, 2.00, 301\n500, 2.49, 302\n');
+    const base = content([], {
+      attachments: [
+        { name: 'field-map.csv', mediaType: 'text/csv', size: 60, sha256: sha('a') },
+        { name: 'old-drawing.pdf', mediaType: 'application/pdf', size: 12000, sha256: sha('b') },
+      ],
+    });
+    const target = content([], {
+      attachments: [
+        { name: 'field-map.csv', mediaType: 'text/csv', size: 90, sha256: sha('c') },
+        { name: 'scan.csv', mediaType: 'text/csv', size: 30, sha256: sha('d') },
+      ],
+    });
+    const scan = table('t [s]\n1\n2\n');
+    const cmp = compareVersions({ content: base, results: null }, { content: target, results: null }, { tables: { [sha('a')]: before, [sha('c')]: after, [sha('d')]: scan } });
+    const byKey = new Map(cmp.record.attachments.map((a) => [a.key, a]));
+    expect([...byKey.keys()]).toEqual(['field-map.csv', 'scan.csv', 'old-drawing.pdf']);
+
+    const replaced = byKey.get('field-map.csv')!;
+    expect(replaced.status).toBe('changed');
+    expect(replaced.changedFields).toEqual(['sha256', 'size']);
+    expect(replaced.old).toMatchObject({ size: 60, sha256: sha('a') });
+    expect(replaced.new).toMatchObject({ size: 90, sha256: sha('c') });
+    const diff = replaced.table!;
+    expect(diff.oldRows).toBe(4);
+    expect(diff.newRows).toBe(4);
+    expect(diff.columns).toEqual([
+      { name: 'current', status: 'unchanged', oldUnit: 'A', newUnit: 'A' },
+      { name: 'field', status: 'unchanged', oldUnit: 'T', newUnit: 'T' },
+      { name: 'temperature', status: 'added', oldUnit: null, newUnit: 'K' },
+    ]);
+    // Row 2 changed its field, row 3 (300 A) was removed, a row at 500 A was added; the added column
+    // alone does not make rows 1 and 4 changed.
+    expect(diff.rows).toEqual([
+      { status: 'changed', oldRow: 2, newRow: 2, old: [200, 1.0, null], new: [200, 1.01, 300], changedColumns: ['field'] },
+      { status: 'removed', oldRow: 3, newRow: null, old: [300, 1.5, null], new: null, changedColumns: [] },
+      { status: 'added', oldRow: null, newRow: 4, old: null, new: [500, 2.49, 302], changedColumns: [] },
+    ]);
+    expect(diff.rowCounts).toEqual({ added: 1, removed: 1, changed: 1 });
+    expect(diff.truncated).toBe(false);
+
+    const added = byKey.get('scan.csv')!;
+    expect(added).toMatchObject({ status: 'added', old: null, new: { name: 'scan.csv', size: 30, sha256: sha('d') } });
+    expect(added.table).toMatchObject({ oldRows: null, newRows: 2, columns: [{ name: 't', status: 'added', oldUnit: null, newUnit: 's' }], rowCounts: { added: 2, removed: 0, changed: 0 } });
+
+    const removed = byKey.get('old-drawing.pdf')!;
+    expect(removed).toMatchObject({ status: 'removed', new: null, old: { name: 'old-drawing.pdf', size: 12000, sha256: sha('b') }, table: null });
+    expect(cmp.summary.attachmentChanges).toBe(3);
+    // Plain JSON: what the API returns is what the page renders.
+    expect(JSON.parse(JSON.stringify(cmp))).toEqual(cmp);
+  });
+
+  it('reports a removed column, a changed unit, and lists at most the row limit while counting every row', () => {
+    const oldT = table('x [m], y [m], w\n1, 2, 3\n');
+    const newT = table('x [mm], y [m]\n1, 2\n');
+    const d = compareTables(oldT, newT);
+    expect(d.columns).toEqual([
+      { name: 'x', status: 'unitChanged', oldUnit: 'm', newUnit: 'mm' },
+      { name: 'y', status: 'unchanged', oldUnit: 'm', newUnit: 'm' },
+      { name: 'w', status: 'removed', oldUnit: null, newUnit: null },
+    ]);
+    expect(d.rows).toEqual([]);
+
+    const rows = (n: number, f: (i: number) => number) => 'i, v\n' + Array.from({ length: n }, (_, i) => `${i}, ${f(i)}`).join('\n');
+    const big = compareTables(table(rows(500, (i) => i)), table(rows(500, (i) => i + 0.5)));
+    expect(big.rowCounts).toEqual({ added: 0, removed: 0, changed: 500 });
+    expect(big.rows).toHaveLength(MAX_TABLE_ROW_CHANGES);
+    expect(big.truncated).toBe(true);
+    expect(big.rows[0]).toMatchObject({ oldRow: 1, newRow: 1, changedColumns: ['v'] });
+  });
+
+  it('gives no table diff for an attachment whose table was not passed in, and the same answer either way round', () => {
+    const a = content([], { attachments: [{ name: 'd.csv', mediaType: 'text/csv', size: 10, sha256: sha('e') }] });
+    const b = content([], { attachments: [{ name: 'd.csv', mediaType: 'text/csv', size: 11, sha256: sha('f') }] });
+    expect(compareVersions({ content: a, results: null }, { content: b, results: null }).record.attachments[0].table).toBeNull();
+    const t1 = table('n\n1\n2\n');
+    const t2 = table('n\n1\n3\n');
+    const forward = compareTables(t1, t2);
+    const backward = compareTables(t2, t1);
+    expect(forward.rows.map((r) => [r.oldRow, r.newRow, r.old, r.new])).toEqual(backward.rows.map((r) => [r.newRow, r.oldRow, r.new, r.old]));
   });
 });
