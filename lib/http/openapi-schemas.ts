@@ -161,7 +161,45 @@ export const versionSavedSchema = z.object({ number: z.number().int(), sha256, o
 export const comparisonSchema = z.object({
   base: z.object({ number: z.number().int(), sha256 }).nullable(),
   target: z.object({ number: z.number().int(), sha256 }),
-  comparison: z.looseObject({}).meta({ description: 'Cells matched by id with word diffs, results by name, criteria, record fields and attachments (VersionComparison in lib/sheets/compare.ts).' }),
+  comparison: z
+    .looseObject({
+      firstCheck: z.boolean(),
+      cells: z.array(z.looseObject({ id: z.string(), status: z.enum(['added', 'removed', 'changed', 'moved', 'unchanged']) })),
+      results: z.array(z.looseObject({ key: z.string(), status: z.enum(['added', 'removed', 'changed', 'unchanged']) })),
+      record: z
+        .looseObject({
+          fields: z
+            .array(z.looseObject({ field: z.enum(['title', 'safetyRelated', 'significantFigures', 'displayUnits', 'objective', 'method', 'conclusions']), old: z.unknown(), new: z.unknown() }))
+            .meta({ description: 'Record fields that differ, including the safety flag and the significant figures; text fields with a word diff.' }),
+          inputs: z.array(z.looseObject({ key: z.string(), status: z.enum(['added', 'removed', 'changed']), changedFields: z.array(z.enum(['value', 'source', 'sourceRevision'])) })).meta({ description: 'Design inputs matched by name, with their source revisions.' }),
+          assumptions: z.array(z.looseObject({ key: z.string(), status: z.enum(['added', 'removed', 'changed']) })).meta({ description: 'Assumptions matched by text; `changed` when the verification mark differs.' }),
+          references: z.array(z.looseObject({ key: z.string(), status: z.enum(['added', 'removed', 'changed']) })),
+          attachments: z
+            .array(
+              z.looseObject({
+                key: z.string(),
+                status: z.enum(['added', 'removed', 'changed']).meta({ description: '`changed`: the same name with other bytes (replaced).' }),
+                old: z.looseObject({ name: z.string(), size: z.number().int(), sha256 }).nullable(),
+                new: z.looseObject({ name: z.string(), size: z.number().int(), sha256 }).nullable(),
+                table: z
+                  .looseObject({
+                    oldRows: z.number().int().nullable(),
+                    newRows: z.number().int().nullable(),
+                    columns: z.array(z.object({ name: z.string(), status: z.enum(['added', 'removed', 'unitChanged', 'unchanged']), oldUnit: z.string().nullable(), newUnit: z.string().nullable() })),
+                    rows: z.array(z.looseObject({ status: z.enum(['added', 'removed', 'changed']), oldRow: z.number().int().nullable(), newRow: z.number().int().nullable() })),
+                    rowCounts: z.object({ added: z.number().int(), removed: z.number().int(), changed: z.number().int() }),
+                    truncated: z.boolean(),
+                  })
+                  .nullable()
+                  .meta({ description: 'For a CSV data table on either side: the row/column diff (at most 200 row changes listed, all counted).' }),
+              }),
+            )
+            .meta({ description: 'Attachments matched by name: added, removed, replaced (name, size, SHA-256).' }),
+        })
+        .meta({ description: 'The calculation record and the attachments.' }),
+      summary: z.looseObject({}),
+    })
+    .meta({ description: 'Cells matched by id with word diffs, results by name, criteria, the calculation record and the attachments (VersionComparison in lib/sheets/compare.ts).' }),
 });
 
 /** The file GET …/export sends: a sheet file (what import takes) plus what Worldsheet records with it. */
@@ -249,7 +287,18 @@ export const checkDetailSchema = z.looseObject({
   sheet: z.object({ id: uuid, number: z.number().int(), code: z.string(), title: z.string(), safetyRelated: z.boolean(), projectCode: z.string() }),
   version: z.looseObject({ number: z.number().int(), sha256, content: versionContentSchema }),
   base: z.looseObject({ number: z.number().int(), sha256 }).nullable().meta({ description: 'The last approved version; null at a first check.' }),
-  comparison: z.looseObject({}).meta({ description: 'The version against its base: cells (word diffs), results (old, new, relative change), record fields.' }),
+  comparison: z.looseObject({}).meta({ description: 'The version against its base: cells (word diffs), results (old, new, relative change), the calculation record and attachments (as GET /api/sheets/{sheetId}/compare).' }),
+  sinceReturn: z
+    .looseObject({
+      checkId: uuid,
+      state: z.enum(['returned', 'approval_returned']),
+      versionNumber: z.number().int(),
+      sha256,
+      returnedBy: z.string().nullable(),
+      comparison: z.looseObject({}),
+    })
+    .nullable()
+    .meta({ description: 'A re-check after a return: the returned check, its version and the comparison of that version with this one; null otherwise.' }),
   verificationMethod: z.enum(['design_review', 'alternate_calculation', 'qualification_test']).nullable(),
   tolerance: z.number().nullable().meta({ description: "The checker's relative tolerance for the alternate comparison, as a fraction (0.001 for 0.1 %)." }),
   toleranceText: z.string().nullable().meta({ description: 'The tolerance as the checker wrote it: "1e-6", "0.1 %", "5 ppm".' }),

@@ -493,8 +493,12 @@ export const OPERATIONS: Operation[] = [
     method: 'GET',
     path: '/api/sheets/{sheetId}/compare',
     operationId: 'compareVersions',
-    summary: 'Compare two versions for the check',
-    description: `${member} Without \`base\`, the whole target version as a first check.`,
+    summary: 'Compare any two versions: cells, results, calculation record, attachments',
+    description:
+      `${member} Any two versions (\`base\` may be later than \`target\`); without \`base\`, the whole target version as a first check. ` +
+      'Besides cells and results: the calculation record (objective, method, conclusions, references, design inputs with their source revisions, ' +
+      'assumptions and their verification marks), the significant figures, the safety flag, and the attachments added, removed and replaced ' +
+      '(name, size, SHA-256; a row/column diff of CSV tables). The check view uses the same comparison.',
     tags: ['sheets'],
     auth: 'session or API token',
     params: sheetParam,
@@ -630,7 +634,7 @@ export const OPERATIONS: Operation[] = [
     method: 'GET',
     path: '/api/checks/{checkId}',
     operationId: 'getCheck',
-    summary: 'A check: the version against the last approved one, comments, signatures',
+    summary: 'A check: the version against the last approved one (and, for a re-check, against the version returned), comments, signatures',
     description: member,
     tags: ['checks'],
     auth: 'session or API token',

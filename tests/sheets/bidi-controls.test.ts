@@ -6,7 +6,7 @@ import { createElement } from 'react';
 import { renderToStaticMarkup } from 'react-dom/server';
 import { describe, expect, it } from 'vitest';
 import { CheckCell } from '../../components/checks/check-cell';
-import { RecordChanges } from '../../components/checks/record-changes';
+import { RecordChanges } from '../../components/sheet/record-changes';
 import { VisibleText } from '../../components/data/visible-text';
 import { SourceDiff } from '../../components/sheet/source-diff';
 import { VersionView } from '../../components/sheet/version-view';

@@ -6,10 +6,11 @@ import { CheckCell } from '@/components/checks/check-cell';
 import { CheckerWorkPanel } from '@/components/checks/checker-work-panel';
 import { DecisionPanel } from '@/components/checks/decision-panel';
 import { EvidenceSummary } from '@/components/checks/evidence-summary';
-import { RecordChanges } from '@/components/checks/record-changes';
+import { RecordChanges } from '@/components/sheet/record-changes';
 import { SignatureList } from '@/components/checks/signatures';
 import { UtcTime } from '@/components/data/utc-time';
 import { MarkdownView } from '@/components/sheet/markdown-view';
+import { SourceDiff } from '@/components/sheet/source-diff';
 import { CautionNotice, SafetyRelatedNotice } from '@/components/shell/caution-notice';
 import { getDb } from '@/db';
 import { pageParams } from '@/lib/http/params';
@@ -50,6 +51,11 @@ export default async function CheckPage({ params }: { params: Promise<{ checkId:
     throw error;
   }
   const { comparison, version, base, sheet, you } = check;
+  // A re-check after a return: what changed since the returned version comes first.
+  const sr = check.sinceReturn?.comparison ?? null;
+  const sinceReturn = check.sinceReturn
+    ? { comparisonBase: check.sinceReturn.versionNumber, byYou: check.sinceReturn.returnedById === actor.userId, by: check.sinceReturn.returnedBy ?? (check.sinceReturn.state === 'approval_returned' ? 'the approver' : 'the checker') }
+    : null;
   const first = comparison.firstCheck;
   const changed = comparison.cells.filter((c) => c.status !== 'unchanged');
   const unchanged = comparison.cells.filter((c) => c.status === 'unchanged');
@@ -116,7 +122,12 @@ export default async function CheckPage({ params }: { params: Promise<{ checkId:
           <VisibleText text={sheet.title} />
         </h1>
         <p className="mt-1 text-lg">
-          {first ? (
+          {sinceReturn ? (
+            <>
+              Version {version.number}, re-check after the return of version {sinceReturn.comparisonBase}
+              {first ? '; no version is approved yet' : `, and against version ${base!.number}, the last approved one`}
+            </>
+          ) : first ? (
             <>
               Version {version.number}, first check: the whole sheet
             </>
@@ -160,9 +171,56 @@ export default async function CheckPage({ params }: { params: Promise<{ checkId:
 
       <div className="grid gap-8 lg:grid-cols-[minmax(0,1fr)_20rem]">
         <div className="min-w-0 space-y-8">
+          {sinceReturn ? (
+            <section aria-labelledby="since-return-title" className="space-y-3 rounded border-2 border-accent bg-surface p-4">
+              <h2 id="since-return-title" className="text-lg font-bold">
+                Changes since version {sinceReturn.comparisonBase}, the version {sinceReturn.byYou ? 'you returned' : `${sinceReturn.by} returned`}
+              </h2>
+              <p className="text-sm text-ink-muted">
+                {sr!.summary.cells.added} added, {sr!.summary.cells.removed} removed, {sr!.summary.cells.changed} changed, {sr!.summary.cells.moved} moved, {sr!.summary.cells.unchanged} unchanged. Results changed:{' '}
+                {sr!.summary.results.changed}; criteria that flipped: {sr!.summary.criteriaFlipped}.{' '}
+                <Link href={`${sheetHref}/compare?base=${sinceReturn.comparisonBase}&target=${version.number}`} className="text-accent underline">
+                  Open this comparison
+                </Link>
+              </p>
+              {sr!.cells.filter((c) => c.status !== 'unchanged').length === 0 ? <p className="text-ink-muted">No cell changed since version {sinceReturn.comparisonBase}.</p> : null}
+              {sr!.cells
+                .filter((c) => c.status !== 'unchanged')
+                .map((cell) => (
+                  <article key={cell.id} aria-label={`Cell ${cell.id}, ${cell.status} since version ${sinceReturn.comparisonBase}`} className="rounded border border-rule bg-paper p-3">
+                    <p className="text-xs font-semibold text-ink-muted">
+                      {cell.targetIndex !== null ? `Cell ${cell.targetIndex + 1}` : `Removed cell (was cell ${cell.baseIndex! + 1})`} · {cell.status}
+                      {cell.moved ? ' · moved' : ''}
+                    </p>
+                    {cell.sourceDiff ? <SourceDiff pieces={cell.sourceDiff} /> : null}
+                  </article>
+                ))}
+              {sr!.results.some((r) => r.status !== 'unchanged') ? (
+                <ul className="text-sm">
+                  {sr!.results
+                    .filter((r) => r.status !== 'unchanged')
+                    .map((r) => (
+                      <li key={r.key}>
+                        <span className="font-mono">
+                          <VisibleText text={r.name} />
+                        </span>
+                        : {r.old?.error ? `error: ${r.old.error}` : (r.old?.text ?? '—')} → {r.new?.error ? `error: ${r.new.error}` : (r.new?.text ?? '—')}
+                        {r.flipped ? ' (pass/fail flipped)' : ''}
+                      </li>
+                    ))}
+                </ul>
+              ) : null}
+              <h3 className="font-bold">Calculation record and attachments since version {sinceReturn.comparisonBase}</h3>
+              <RecordChanges record={sr!.record} first={false} />
+            </section>
+          ) : null}
           <section aria-labelledby="changes-title" className="space-y-3">
             <h2 id="changes-title" className="text-lg font-bold">
-              {first ? 'Cells (first check: every cell is new)' : `Cells changed since version ${base!.number}`}
+              {first
+                ? sinceReturn
+                  ? 'Since the last approved version: none is approved yet, so every cell is new'
+                  : 'Cells (first check: every cell is new)'
+                : `Cells changed since version ${base!.number}, the last approved one`}
             </h2>
             {!first ? (
               <p className="text-sm text-ink-muted">

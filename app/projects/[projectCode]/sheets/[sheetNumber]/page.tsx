@@ -7,6 +7,7 @@ import { SubmitForCheckForm } from '@/components/checks/submit-for-check-form';
 import { UtcTime } from '@/components/data/utc-time';
 import { MarkdownView } from '@/components/sheet/markdown-view';
 import { SupersededInputs } from '@/components/sheet/superseded-inputs';
+import { VersionPicker } from '@/components/sheet/version-picker';
 import { VersionView } from '@/components/sheet/version-view';
 import { CautionNotice, SafetyRelatedNotice } from '@/components/shell/caution-notice';
 import { getDb } from '@/db';
@@ -230,6 +231,16 @@ export default async function SheetPage({ params, searchParams }: { params: Prom
           <h2 id="history-title" className="font-bold">
             History
           </h2>
+          {versions.length > 1 ? (
+            <VersionPicker
+              action={`/projects/${project.code}/sheets/${sheet.number}/compare`}
+              versions={versions}
+              base={versions.find((v) => v.number === version.number)?.parentNumber ?? null}
+              target={version.number}
+              idPrefix="history-compare"
+              compact
+            />
+          ) : null}
           <ol className="space-y-2 text-sm">
             {versions.map((v) => (
               <li key={v.number} className={`rounded border px-3 py-2 ${v.number === version.number ? 'border-accent bg-accent-soft' : 'border-rule bg-surface'}`}>

@@ -5,10 +5,12 @@ import { SourceDiff } from '@/components/sheet/source-diff';
 import { getDb } from '@/db';
 import { pageParams, queryInt4 } from '@/lib/http/params';
 import { pageProject } from '@/lib/auth/page-guard';
-import { compareVersions } from '@/lib/sheets/compare';
+import { compareStoredVersions } from '@/lib/sheets/comparison';
 import { formatSheetNumber } from '@/lib/sheets/sheet-number';
-import { getSheetByNumber, getVersion } from '@/lib/sheets/sheets';
+import { getSheetByNumber, getVersion, listVersions } from '@/lib/sheets/sheets';
 import { VisibleText } from '@/components/data/visible-text';
+import { RecordChanges } from '@/components/sheet/record-changes';
+import { VersionPicker } from '@/components/sheet/version-picker';
 
 export const metadata: Metadata = { title: 'Compare versions' };
 export const dynamic = 'force-dynamic';
@@ -22,9 +24,14 @@ export default async function ComparePage({ params, searchParams }: { params: Pr
   if (!sheet) notFound();
   const baseNumber = q.base ? (queryInt4(q.base) ?? notFound()) : null;
   const targetNumber = q.target ? (queryInt4(q.target) ?? notFound()) : undefined;
-  const [base, target] = await Promise.all([baseNumber !== null ? getVersion(getDb(), sheet.id, baseNumber) : Promise.resolve(null), getVersion(getDb(), sheet.id, targetNumber)]);
+  const [base, target, versions] = await Promise.all([
+    baseNumber !== null ? getVersion(getDb(), sheet.id, baseNumber) : Promise.resolve(null),
+    getVersion(getDb(), sheet.id, targetNumber),
+    listVersions(getDb(), sheet.id),
+  ]);
   if (!target || base === undefined) notFound();
-  const c = compareVersions(base ? { content: base.content, results: base.results } : null, { content: target.content, results: target.results });
+  const c = await compareStoredVersions(getDb(), sheet.id, base, target);
+  const compareHref = `/projects/${project.code}/sheets/${sheet.number}/compare`;
   const changed = c.cells.filter((x) => x.status !== 'unchanged');
   return (
     <div className="space-y-6">
@@ -35,9 +42,22 @@ export default async function ComparePage({ params, searchParams }: { params: Pr
         </h1>
         <p className="mt-1 text-sm text-ink-muted">
           Cells: {c.summary.cells.added} added, {c.summary.cells.removed} removed, {c.summary.cells.changed} changed, {c.summary.cells.moved} moved, {c.summary.cells.unchanged} unchanged.
-          Results changed: {c.summary.results.changed}. Criteria that flipped: {c.summary.criteriaFlipped}.
+          Results changed: {c.summary.results.changed}. Criteria that flipped: {c.summary.criteriaFlipped}. Calculation record: {c.summary.recordChanges} change
+          {c.summary.recordChanges === 1 ? '' : 's'}; attachments: {c.summary.attachmentChanges} change{c.summary.attachmentChanges === 1 ? '' : 's'}.
         </p>
       </header>
+      <section aria-labelledby="pick-title" className="space-y-2 rounded border border-rule bg-surface p-3">
+        <h2 id="pick-title" className="font-bold">
+          Compare other versions
+        </h2>
+        <VersionPicker action={compareHref} versions={versions} base={base?.number ?? null} target={target.number} />
+      </section>
+      <section aria-labelledby="record-title" className="space-y-2 rounded border border-rule bg-surface p-4">
+        <h2 id="record-title" className="text-lg font-bold">
+          {base ? `Calculation record and attachments: changes since version ${base.number}` : 'Calculation record and attachments'}
+        </h2>
+        <RecordChanges record={c.record} first={c.firstCheck} />
+      </section>
       <section aria-labelledby="changed-cells" className="space-y-3">
         <h2 id="changed-cells" className="text-lg font-bold">Changed cells</h2>
         {changed.length === 0 ? <p className="text-ink-muted">No cell changed.</p> : null}
