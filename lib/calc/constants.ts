@@ -39,6 +39,20 @@ export const M_U = 1.660_539_068_92e-27;
 /** Muon mass, kg: CODATA 2022, u = 4.2e-36 kg. */
 export const M_MU = 1.883_531_627e-28;
 
+// Geodesy and timing (satellite clocks, ground stations, spaceflight).
+/** Geocentric gravitational constant GM of the Earth (atmosphere included), m³/s²: IERS Conventions (2010) table 1.1, u = 8e5 m³/s². */
+export const GM_EARTH = 3.986_004_418e14;
+/** Nominal mean angular velocity of the Earth, rad/s: WGS 84 / IS-GPS-200 (defining value for GPS computations). */
+export const OMEGA_EARTH = 7.292_115_146_7e-5;
+/** Equatorial radius (semi-major axis) of the WGS 84 ellipsoid, m: defining parameter. */
+export const R_EARTH = 6_378_137;
+/** L_G = 1 − d(TT)/d(TCG): IAU 2000 Resolution B1.9 (defining, exact). */
+export const L_G = 6.969_290_134e-10;
+/** Geoid potential W₀ = L_G c², m²/s² (IERS Conventions (2010) §1.1: 62 636 856.0 m²/s²). */
+export const W_0 = L_G * C * C;
+/** Heliocentric gravitational constant GM of the Sun, TDB-compatible, m³/s²: IERS Conventions (2010) table 1.1 (IAU 2009 system), u = 1e10 m³/s². */
+export const GM_SUN = 1.327_124_400_41e20;
+
 const SI_2019 = 'exact by definition (SI Brochure, 9th edition, 2019)';
 
 export const CONSTANTS: readonly ConstantDef[] = [
@@ -53,4 +67,9 @@ export const CONSTANTS: readonly ConstantDef[] = [
   { name: 'm_n', description: 'neutron mass', value: M_N, unit: 'kg', uncertainty: 8.5e-37, provenance: 'CODATA 2022', tex: 'm_{\\mathrm{n}}' },
   { name: 'm_u', description: 'atomic mass constant', value: M_U, unit: 'kg', uncertainty: 5.2e-37, provenance: 'CODATA 2022', tex: 'm_{\\mathrm{u}}' },
   { name: 'm_mu', description: 'muon mass', value: M_MU, unit: 'kg', uncertainty: 4.2e-36, provenance: 'CODATA 2022', tex: 'm_{\\mu}' },
+  { name: 'GM_E', description: 'geocentric gravitational constant (Earth, atmosphere included)', value: GM_EARTH, unit: 'm^3/s^2', uncertainty: 8e5, provenance: 'IERS Conventions (2010), table 1.1; the WGS 84 value (IS-GPS-200 user algorithms use 3.986005e14)', tex: 'GM_{\\mathrm{E}}' },
+  { name: 'omega_E', description: 'mean angular velocity of the Earth', value: OMEGA_EARTH, unit: 'rad/s', uncertainty: 0, provenance: 'IS-GPS-200, table 20-IV (WGS 84 value of the Earth rotation rate; defining for GPS computations)', tex: '\\omega_{\\mathrm{E}}' },
+  { name: 'R_E', description: 'equatorial radius of the Earth (WGS 84 semi-major axis)', value: R_EARTH, unit: 'm', uncertainty: 0, provenance: 'WGS 84 defining parameter (NGA.STND.0036, 2014)', tex: 'R_{\\mathrm{E}}' },
+  { name: 'W_0', description: 'potential of the geoid, W₀ = L_G c² (L_G = 6.969 290 134 × 10⁻¹⁰)', value: W_0, unit: 'm^2/s^2', uncertainty: 0, provenance: 'IAU 2000 Resolution B1.9 (L_G, defining); IERS Conventions (2010) §1.1 (W₀ = 62 636 856.0 m²/s²)', tex: 'W_{0}' },
+  { name: 'GM_S', description: 'heliocentric gravitational constant (Sun), TDB-compatible', value: GM_SUN, unit: 'm^3/s^2', uncertainty: 1e10, provenance: 'IERS Conventions (2010), table 1.1 (IAU 2009 system of astronomical constants)', tex: 'GM_{\\mathrm{S}}' },
 ];

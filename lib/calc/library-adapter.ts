@@ -23,6 +23,8 @@ const KIND_UNITS: Record<Exclude<ParamKind, 'number'>, { si: string; label: stri
   charge: { si: 'C', label: 'a charge' },
   angle: { si: 'rad', label: 'an angle' },
   rigidity: { si: 'T m', label: 'a magnetic rigidity (T m)' },
+  'gravitational-parameter': { si: 'm^3/s^2', label: 'a gravitational parameter GM (m³/s², e.g. GM_E)' },
+  area: { si: 'm^2', label: 'an area' },
 };
 
 const RETURN_UNITS: Record<Exclude<ReturnKind, 'number' | 'speed' | 'pair-time-length'>, string> = {

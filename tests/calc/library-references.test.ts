@@ -171,6 +171,86 @@ describe('IS-GPS-200 §3.3.1.1: the satellite clock offset', () => {
   });
 });
 
+describe('satellite clocks and signals: IS-GPS-200, Ashby (2003), IERS Conventions (2010)', () => {
+  const orbitClockRateOffset = k1(lib.orbitClockRateOffset);
+  const gravitationalRateOffset = k3(lib.gravitationalRateOffset);
+  const eccentricityClockCorrection = k3(lib.eccentricityClockCorrection);
+  const sagnacDelay = k1(lib.sagnacDelay);
+  const shapiroDelay = k4(lib.shapiroDelay);
+  const GM_E = 3.986004418e14; // IERS Conventions (2010) table 1.1: GM of the Earth, m³/s²
+  const R_E = 6_378_137; // WGS 84: equatorial radius (semi-major axis), m
+  const GPS_A = 26_561_750; // IS-GPS-200: nominal semi-major axis 26 561.75 km
+
+  it('a GPS clock on its orbit runs fast by 4.4647e-10 against the geoid: 10.23 MHz is set to 10.22999999543 MHz', () => {
+    const offset = orbitClockRateOffset(GPS_A);
+    expectQuoted(offset, 4.4647e-10, 1e-14); // IS-GPS-200 §3.3.1.1: Δf/f = −4.4647e-10 applied to the satellite clock
+    expectQuoted(10.23e6 * (1 - offset), 10_229_999.99543, 1e-5); // IS-GPS-200 §3.3.1.1: 10.22999999543 MHz
+    expectQuoted((offset * 86400) / 1e-6, 38.6, 0.1); // from memory: Ashby (2003) §5, the net gain of 38.6 µs per day
+  });
+
+  it('the gravitational and velocity terms cancel on an orbit of radius 3GM/(2W₀) ≈ 9545 km', () => {
+    // from memory: Ashby (2003) §5: the two effects cancel at a radius of about 9545 km (an altitude near 3170 km).
+    expect(orbitClockRateOffset(9_540_000)).toBeLessThan(0);
+    expect(orbitClockRateOffset(9_550_000)).toBeGreaterThan(0);
+    expect(orbitClockRateOffset(7_000_000)).toBeLessThan(0); // common practice: a low-orbit clock (ISS, LEO) runs slow
+    expect(() => orbitClockRateOffset(6_000_000)).toThrow(/at least R_E/);
+  });
+
+  it('the gravitational shift of a GPS orbit against the equator is about 5.28e-10, and nearby radii keep their digits', () => {
+    expectQuoted(gravitationalRateOffset(GM_E, GPS_A, R_E), 5.28e-10, 1e-12); // from memory: Ashby (2003) §5, the gravitational blueshift 5.28e-10
+    // Common practice: for a height h ≪ R, (GM/R²)·h/c² (1 − h/R); about 1 mm above the equator (2⁻¹⁰ m,
+    // so that R_E + h is exact) is 1.07e-19, which 1/r_ref − 1/r would get with some 7 digits lost.
+    const h = 2 ** -10;
+    expectRelative(gravitationalRateOffset(GM_E, R_E + h, R_E), ((GM_E / (R_E * R_E)) * h) / (C * C) / (1 + h / R_E), 1e-12);
+    // The Sun's surface against infinity: GM_S/(R_S c²) = 2.12e-6 (from memory: the solar gravitational redshift, 636 m/s).
+    expectQuoted(gravitationalRateOffset(1.32712440041e20, 1e30, 6.957e8), 2.12e-6, 1e-8); // IAU 2015 B3: nominal solar radius 6.957e8 m
+    expect(() => gravitationalRateOffset(GM_E, 1e-3, 1)).toThrow(/weak field/);
+  });
+
+  it('the eccentricity term uses F = −4.442807633e-10 s/√m and reaches about 23 ns for e = 0.01', () => {
+    const F = eccentricityClockCorrection(1, 0.5, Math.PI / 2) / 0.5;
+    expectRelative(F, -4.442807633e-10, 1e-7); // IS-GPS-200 §20.3.3.3.3.1 (F is formed there with μ = 3.986005e14: 7.3e-8 apart)
+    expectQuoted(Math.abs(eccentricityClockCorrection(GPS_A, 0.01, Math.PI / 2)) / 1e-9, 23, 1); // from memory: Ashby (2003) §5, 23 ns for e = 0.01
+    expect(Math.abs(eccentricityClockCorrection(GPS_A, 0.01, 0))).toBe(0); // IS-GPS-200: sin E = 0 at perigee
+    expect(() => eccentricityClockCorrection(GPS_A, 1, 1)).toThrow(/0 ≤ e < 1/);
+  });
+
+  it('the Sagnac correction is 2ω_E/c² = 1.6227e-21 s/m² times the swept area: 207.4 ns around the equator', () => {
+    expectQuoted(sagnacDelay(1) / 1e-21, 1.6227, 1e-4); // from memory: Ashby (2003) §2, 2ω_E/c² = 1.6227e-21 s/m²
+    expectQuoted(sagnacDelay(Math.PI * R_E * R_E) / 1e-9, 207.4, 0.1); // from memory: Ashby (2003) §2, 207.4 ns for one circuit of the equator
+    expect(sagnacDelay(-1)).toBe(-sagnacDelay(1)); // common practice: westward is the opposite sign
+  });
+
+  it('the Shapiro delay of a GPS signal is at most about 19 mm; at solar conjunction a Mars echo is delayed about 250 µs', () => {
+    const horizon = Math.sqrt(GPS_A * GPS_A - R_E * R_E);
+    expectQuoted((shapiroDelay(GM_E, GPS_A, R_E, horizon) * C) / 1e-3, 19, 1); // from memory: Ashby (2003) §5, up to about 19 mm for GPS
+    // Common practice (IERS Conventions 2010, eq. 11.17): the zenith case is 2GM/c³ ln(r1/r2).
+    expectRelative(shapiroDelay(GM_E, GPS_A, R_E, GPS_A - R_E), ((2 * GM_E) / C ** 3) * Math.log(GPS_A / R_E), 1e-13);
+    // Earth–Mars echo grazing the Sun (impact parameter the solar radius), there and back:
+    // from memory: Reasenberg et al. (1979), the Viking conjunction delay of about 250 µs.
+    const au = 149_597_870_700; // IAU 2012 Resolution B2 (exact)
+    const r1 = au;
+    const r2 = 1.524 * au; // from memory: Mars's semi-major axis 1.524 au
+    const b = 6.957e8; // IAU 2015 Resolution B3: nominal solar radius
+    const r12 = Math.sqrt(r1 * r1 - b * b) + Math.sqrt(r2 * r2 - b * b);
+    expectQuoted((2 * shapiroDelay(1.32712440041e20, r1, r2, r12)) / 1e-6, 250, 10);
+    expect(() => shapiroDelay(GM_E, 1, 1, 2)).toThrow(/triangle/);
+  });
+});
+
+describe('the rocket mass ratio (Ackeret 1946; Rindler 2006, ch. 6)', () => {
+  const massRatio = k2(lib.massRatio);
+  const rocketDeltaV = k2(lib.rocketDeltaV);
+  it('a photon rocket reaching 0.8 c needs R = √((1 + β)/(1 − β)) = 3', () => {
+    expectRelative(massRatio(0.8, 1), 3, 4e-16); // Rindler (2006) ch. 6: R = √((1 + β)/(1 − β)) for a photon rocket
+  });
+  it('is Tsiolkovsky’s exp(Δv/v_e) at low speed, and inverts rocketDeltaV', () => {
+    expectRelative(massRatio(300 / C, 3000 / C), Math.exp(0.1), 1e-9); // Tsiolkovsky (1903): R = exp(Δv/v_e); relativistic terms ~β² = 1e-12
+    expectRelative(massRatio(rocketDeltaV(0.1, 10), 0.1), 10, 1e-14); // common practice: inverse of the rocket equation
+    expect(() => massRatio(1, 0.5)).toThrow(/0 ≤ Δβ < 1/);
+  });
+});
+
 describe('electron-microscopy wavelength tables', () => {
   it('100, 200 and 300 kV', () => {
     expectQuoted(electronWavelength(100e3) / pm, 3.701, 1e-3); // Williams & Carter, TEM, table 1.1: 100 kV → 3.701 pm

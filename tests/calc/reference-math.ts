@@ -156,6 +156,20 @@ export const REFERENCES: Record<string, Ref> = {
   speedFromMomentum: (p, m) => speedFromMomentumRef(exact(p), exact(m)),
   kineticFromMomentum: (p, m) => kineticFromMomentumRef(exact(p), exact(m)),
   kineticFromRigidity: (Brho, m, q) => kineticFromMomentumRef(exact(Brho).mul(exact(q)).abs(), exact(m)),
+  // Satellite timing and spaceflight. GM_E (IERS 2010) is an integer, exact as a double; L_G (IAU 2000
+  // B1.9) and ω_E (IS-GPS-200) are taken as their decimal values.
+  gravitationalRateOffset: (GM, r, ref) => exact(GM).div(C2).mul(ONE.div(exact(ref)).minus(ONE.div(exact(r)))),
+  orbitClockRateOffset: (a) => {
+    const x = new D('3.986004418e14').div(exact(a).mul(C2));
+    return new D('6.969290134e-10').minus(x).plus(ONE.minus(x).sqrt().minus(1));
+  },
+  eccentricityClockCorrection: (a, e, E) => new D('3.986004418e14').sqrt().mul(-2).div(C2).mul(exact(e)).mul(exact(a).sqrt()).mul(D.sin(exact(E))),
+  sagnacDelay: (A) => new D('7.2921151467e-5').mul(2).mul(exact(A)).div(C2),
+  shapiroDelay: (GM, r1, r2, r12) => {
+    const s = exact(r1).plus(exact(r2));
+    return exact(GM).mul(2).div(C2.mul(REF_C)).mul(D.ln(s.plus(exact(r12)).div(s.minus(exact(r12)))));
+  },
+  massRatio: (dv, ve) => D.exp(D.atanh(exact(dv)).div(exact(ve))),
 };
 
 /** β = pc/E, E = √(p²c² + m²c⁴) (PDG RPP 2024, "Kinematics"), 50 digits. */
@@ -358,6 +372,34 @@ export function surveyCases(): Record<string, number[][]> {
     const m = pick([M_E_KG, M_P_KG, M_MU_KG]);
     return [(1 + x) * m * C_NUM * C_NUM, pick([7, 0.3, 3096.175, 2803.95]), m];
   }).filter(([E, , m]) => exact(E).gte(exact(m).mul(C2)));
+
+  // Satellite timing and spaceflight (drawn after every grid above, which therefore stay as they were).
+  const bodies = [3.986004418e14, 1.32712440041e20, 4.9028e12, 1e5];
+  const weak = (GM: number, r: number) => GM / (C_NUM * C_NUM * r) <= 1e-4;
+  cases.gravitationalRateOffset = logSpace(-12, 3, 160)
+    .map((d) => {
+      const GM = pick(bodies);
+      const ref = 10 ** (6 + 7 * rand());
+      return [GM, rand() < 0.5 ? ref * (1 + d) : ref / (1 + d), ref];
+    })
+    .filter(([GM, r, ref]) => weak(GM, r) && weak(GM, ref));
+  cases.orbitClockRateOffset = [...logSpace(-9, 2.3, 160), 2.3, 0.49653].map((x) => [6_378_137 * (1 + x)]);
+  cases.eccentricityClockCorrection = logSpace(6, 9, 120).map((a) => [a, pick([1e-6, 0.01, 0.3, 0.9]), (rand() - 0.5) * 20]);
+  cases.sagnacDelay = logSpace(0, 15, 60).map((A) => [rand() < 0.5 ? -A : A]);
+  cases.shapiroDelay = logSpace(-12, 0, 160)
+    .map((d) => {
+      const r1 = 10 ** (6 + 6 * rand());
+      const r2 = 10 ** (6 + 6 * rand());
+      const lo = Math.abs(r1 - r2);
+      const hi = r1 + r2;
+      // Short paths (near |r1 − r2|) and paths grazing behind the body (near r1 + r2).
+      const r12 = rand() < 0.5 ? lo + (hi - lo) * d : hi - (hi - lo) * d;
+      return [pick(bodies), r1, r2, r12];
+    })
+    .filter(([, r1, r2, r12]) => r12 >= Math.abs(r1 - r2) && exact(r12).lt(exact(r1).plus(exact(r2))));
+  cases.massRatio = betas
+    .map((dv) => [dv, pick([...betas, 1, 1])])
+    .filter(([dv, ve]) => dv < 1 && Math.atanh(dv) / ve < 700);
 
   return cases;
 }

@@ -4,6 +4,12 @@ import { addVelocities } from './add-velocities';
 import { betaGamma } from './beta-gamma';
 import { betaGammaFromMomentum } from './beta-gamma-from-momentum';
 import { clockRateOffset } from './clock-rate-offset';
+import { eccentricityClockCorrection } from './eccentricity-clock-correction';
+import { gravitationalRateOffset } from './gravitational-rate-offset';
+import { massRatio } from './mass-ratio';
+import { orbitClockRateOffset } from './orbit-clock-rate-offset';
+import { sagnacDelay } from './sagnac-delay';
+import { shapiroDelay } from './shapiro-delay';
 import { decayLength } from './decay-length';
 import { dopplerFactor } from './doppler-factor';
 import { electronWavelength } from './electron-wavelength';
@@ -45,6 +51,13 @@ export {
   betaGammaFromMomentum,
   clockRateOffset,
   decayLength,
+  eccentricityClockCorrection,
+  gravitationalRateOffset,
+  massRatio,
+  orbitClockRateOffset,
+  sagnacDelay,
+  shapiroDelay,
+
   dopplerFactor,
   electronWavelength,
   gammaFromKinetic,
@@ -114,4 +127,11 @@ export const LIBRARY: readonly CalcFunction[] = Object.freeze([
   betaGammaFromMomentum,
   kineticFromMomentum,
   kineticFromRigidity,
+  // Satellite timing and spaceflight (issue 17).
+  gravitationalRateOffset,
+  orbitClockRateOffset,
+  eccentricityClockCorrection,
+  sagnacDelay,
+  shapiroDelay,
+  massRatio,
 ]);

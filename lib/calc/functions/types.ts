@@ -16,6 +16,8 @@
  *   plain number is refused (Euler's number, a sheet's bare `e`, with a pointer to `q_e`)
  * - angle: an angle, or a plain number in radians → rad
  * - rigidity: a magnetic rigidity Bρ (T m, or anything of that dimension, such as momentum/charge) → T m
+ * - gravitational-parameter: GM of a body (m³/s², e.g. GM_E) → m³/s²
+ * - area → m²
  * - number: a plain (dimensionless) number
  */
 export type ParamKind =
@@ -30,6 +32,8 @@ export type ParamKind =
   | 'charge'
   | 'angle'
   | 'rigidity'
+  | 'gravitational-parameter'
+  | 'area'
   | 'number';
 
 /**
