@@ -200,4 +200,66 @@ describe('attachments', () => {
     const without = await api('/api/evaluate', { method: 'POST', body: { cells } });
     expect(without.body.cells[0].statements[0].error).toBe('`energy_scan` is not defined');
   });
+
+  it('compares any two versions with the calculation record and the attachments: replaced CSV with its row/column diff, an added one, SHA-256 and sizes', async () => {
+    // Invented demo data: the scan re-measured (the 250 MeV field corrected, a 300 MeV point added).
+    const csv2 = 'energy [MeV], field [T]\n70, 0.5\n250, 1.6\n300, 1.8\n';
+    const notes = 'position [m], loss [W]\n1, 0.5\n';
+    expect((await upload('energy scan.csv', 'text/csv', csv2)).status).toBe(201);
+    expect((await upload('beam-losses.csv', 'text/csv', notes)).status).toBe(201);
+    const v2 = (await api(`/api/sheets/${sheetId}/versions/2`)).body.version;
+    const sha = (t: string) => createHash('sha256').update(t).digest('hex');
+    const content = {
+      ...v2.content,
+      safetyRelated: true,
+      significantFigures: 4,
+      record: {
+        ...v2.content.record,
+        conclusions: 'The dipole reaches the rigidity of the whole scan.',
+        inputs: [{ name: 'Scan energies', value: '70 to 300 MeV', source: 'Beam request BR-7', sourceRevision: 'B' }],
+        assumptions: [{ text: 'Fields measured at 20 °C', needsVerification: true }],
+        references: ['PDG RPP, Kinematics'],
+      },
+      attachments: [
+        { name: 'energy scan.csv', mediaType: 'text/csv', size: csv2.length, sha256: sha(csv2) },
+        { name: 'beam-losses.csv', mediaType: 'text/csv', size: notes.length, sha256: sha(notes) },
+      ],
+    };
+    expect((await api(`/api/sheets/${sheetId}/versions`, { method: 'POST', body: { parentNumber: 2, message: 'Re-measured scan', content } })).status).toBe(201);
+    // Version 4 only changes a design input's source revision: 1 → 4 skips two versions.
+    const v4content = { ...content, record: { ...content.record, inputs: [{ ...content.record.inputs[0], sourceRevision: 'C' }] } };
+    expect((await api(`/api/sheets/${sheetId}/versions`, { method: 'POST', body: { parentNumber: 3, message: 'Beam request revision C', content: v4content } })).status).toBe(201);
+
+    const r = await api(`/api/sheets/${sheetId}/compare?base=2&target=4`);
+    expect(r.status).toBe(200);
+    const { record } = r.body.comparison;
+    expect(record.fields.map((f: { field: string }) => f.field)).toEqual(['safetyRelated', 'significantFigures', 'conclusions']);
+    expect(record.fields[0]).toMatchObject({ old: false, new: true });
+    expect(record.fields[1]).toMatchObject({ old: 6, new: 4 });
+    expect(record.inputs).toEqual([{ key: 'Scan energies', status: 'added', old: null, new: v4content.record.inputs[0], changedFields: [] }]);
+    expect(record.assumptions).toMatchObject([{ key: 'Fields measured at 20 °C', status: 'added', new: { needsVerification: true } }]);
+    expect(record.references).toMatchObject([{ key: 'PDG RPP, Kinematics', status: 'added' }]);
+    const replaced = record.attachments.find((a: { key: string }) => a.key === 'energy scan.csv');
+    expect(replaced).toMatchObject({
+      status: 'changed',
+      changedFields: ['sha256', 'size'],
+      old: { size: csv.length, sha256: sha(csv) },
+      new: { size: csv2.length, sha256: sha(csv2) },
+      table: {
+        oldRows: 2,
+        newRows: 3,
+        rowCounts: { added: 1, removed: 0, changed: 1 },
+        rows: [
+          { status: 'changed', oldRow: 2, newRow: 2, old: [250, 1.5], new: [250, 1.6], changedColumns: ['field'] },
+          { status: 'added', oldRow: null, newRow: 3, old: null, new: [300, 1.8], changedColumns: [] },
+        ],
+      },
+    });
+    expect(record.attachments.find((a: { key: string }) => a.key === 'beam-losses.csv')).toMatchObject({ status: 'added', new: { sha256: sha(notes), size: notes.length }, table: { newRows: 1 } });
+    expect(r.body.comparison.summary).toMatchObject({ attachmentChanges: 2 });
+
+    // Any pair, either way round: 4 → 3 differs only by the source revision.
+    const back = await api(`/api/sheets/${sheetId}/compare?base=4&target=3`);
+    expect(back.body.comparison.record).toMatchObject({ fields: [], attachments: [], inputs: [{ key: 'Scan energies', status: 'changed', changedFields: ['sourceRevision'], old: { sourceRevision: 'C' }, new: { sourceRevision: 'B' } }] });
+  });
 });
