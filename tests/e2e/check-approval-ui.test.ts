@@ -121,7 +121,11 @@ it('takes a version from submission through a return, a resubmission, the check 
   page = checker.page;
   await page.goto(`${app.baseUrl}/checks`);
   await page.getByRole('link', { name: 'Open the check of TPT2-CALC-0001 version 3' }).click();
-  await page.getByText('Version 3, first check: the whole sheet').waitFor();
+  // A re-check: what changed since the returned version 2 comes first (no version is approved yet).
+  await page.getByText('Version 3, re-check after the return of version 2; no version is approved yet').waitFor();
+  const sinceReturn = page.getByRole('region', { name: 'Changes since version 2, the version you returned' });
+  await sinceReturn.getByRole('article', { name: 'Cell rigidity, changed since version 2' }).getByRole('insertion').filter({ hasText: '# protons, charge state 1' }).waitFor();
+  await page.getByRole('heading', { name: 'Since the last approved version: none is approved yet, so every cell is new' }).waitFor();
   cell = page.getByRole('article', { name: /^Cell 2 \(rigidity\)/ });
   await cell.getByText('Open thread · Line 3 · opened at the check of version 2').waitFor();
   await cell.getByText('Protons, charge state 1; now in the cell comment.').waitFor();
