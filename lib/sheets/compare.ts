@@ -177,6 +177,8 @@ export interface TableDiff {
 
 /** At most this many row changes are listed per table (all are counted). */
 export const MAX_TABLE_ROW_CHANGES = 200;
+/** Tables more than this many row edits apart are compared row k with row k instead of diffed. */
+const MAX_TABLE_EDIT_ROWS = 500;
 
 export interface RecordComparison {
   fields: RecordFieldChange[];
@@ -244,8 +246,9 @@ export interface VersionComparison {
  * - **CSV tables** (an attachment whose SHA-256 has an entry in `options.tables`, on either side):
  *   columns matched by name (added, removed, unit changed); rows compared on the values of the
  *   columns both sides have, diffed in order (Myers's diff on whole rows), a removed run followed by
- *   an added run paired row by row as changed rows (the columns that differ named). A missing side
- *   counts as an empty table, so an added table lists every row as added.
+ *   an added run paired row by row as changed rows (the columns that differ named); tables more than
+ *   500 row edits apart are compared row k with row k. A missing side counts as an empty table, so an
+ *   added table lists every row as added.
  * - With `base` null every cell, result, field and list item of the target is `added`.
  */
 export function compareVersions(base: ComparedVersion | null, target: ComparedVersion, options: CompareOptions = {}): VersionComparison {
@@ -703,7 +706,8 @@ export function compareTables(oldTable: ComparedTable | null, newTable: Compared
     }
   };
 
-  const changes = diffArrays(oldKeys, newKeys, { maxEditLength: MAX_EDIT_TOKENS });
+  // Tables have up to 10,000 rows each: a tighter bound on the diff's work than for cell sources.
+  const changes = diffArrays(oldKeys, newKeys, { maxEditLength: MAX_TABLE_EDIT_ROWS });
   if (!changes) {
     // Too different to diff cheaply: row k against row k.
     const both = Math.min(oldCount, newCount);

@@ -528,6 +528,11 @@ describe('attachments and CSV tables', () => {
     expect(big.rows).toHaveLength(MAX_TABLE_ROW_CHANGES);
     expect(big.truncated).toBe(true);
     expect(big.rows[0]).toMatchObject({ oldRow: 1, newRow: 1, changedColumns: ['v'] });
+    // Far apart (1000 row edits): compared row k with row k, every row changed.
+    expect(big.rows.every((r, k) => r.status === 'changed' && r.oldRow === k + 1 && r.newRow === k + 1)).toBe(true);
+    // Close: one row inserted near the top of 500 shifts nothing else.
+    const inserted = compareTables(table(rows(500, (i) => i)), table('i, v\n' + ['0, 0', '0.5, 0.5', ...Array.from({ length: 499 }, (_, k) => `${k + 1}, ${k + 1}`)].join('\n')));
+    expect(inserted.rows).toEqual([{ status: 'added', oldRow: null, newRow: 2, old: null, new: [0.5, 0.5], changedColumns: [] }]);
   });
 
   it('gives no table diff for an attachment whose table was not passed in, and the same answer either way round', () => {
