@@ -52,7 +52,11 @@ export function numberParts(x: number, sig: number, trailingZeros = true): Numbe
     exponent = 0;
   }
   let [integer, fraction = ''] = text.split('.');
-  if (!trailingZeros || isWholeNumber(a)) fraction = fraction.replace(/0+$/, '');
+  // A whole number drops its fraction's zeros only where they are all there is: written out (250),
+  // or as a power of ten that is the number itself (1 × 10²⁰). 3.986004418e14 at six figures stays
+  // 3.986 00 × 10¹⁴: "3.986 × 10¹⁴" would claim the digits after 3.986 are zeros.
+  const exactAsWritten = !scientific || Number(`${mantissa}e${exponent}`) === a;
+  if (!trailingZeros || (isWholeNumber(a) && exactAsWritten)) fraction = fraction.replace(/0+$/, '');
   return { negative, integer, fraction, exponent: scientific ? exponent : null };
 }
 

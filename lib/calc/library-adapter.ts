@@ -36,6 +36,8 @@ const RETURN_UNITS: Record<Exclude<ReturnKind, 'number' | 'speed' | 'pair-time-l
   rigidity: 'T m',
   mass: 'kg',
   angle: 'rad',
+  voltage: 'V',
+  'interaction-constant': 'V^-1 m^-1',
 };
 
 export class ArgumentError extends Error {

@@ -28,6 +28,14 @@ describe('significant figures keep their trailing zeros', () => {
     expect(formatNumberText(0, 6)).toBe('0');
   });
 
+  it('keeps the zeros of a large whole number written as a power of ten unless that power is the number itself', () => {
+    // IERS Conventions (2010) table 1.1: GM of the Earth 3.986 004 418 × 10¹⁴ m³/s², a whole number;
+    // at six figures it is 3.986 00 × 10¹⁴ (common practice: "3.986 × 10¹⁴" would say the rest are zeros).
+    expect(formatNumberText(3.986004418e14, 6)).toBe(`3.986${THIN}00 × 10¹⁴`);
+    expect(formatNumberText(2000001, 6)).toBe(`2.000${THIN}00 × 10⁶`);
+    expect(formatNumberText(3.5e15, 6)).toBe('3.5 × 10¹⁵');
+  });
+
   it('drops them on axis ticks, where the figures of the data do not apply', () => {
     expect(tickText(0.5)).toBe('0.5');
     expect(tickText(1250)).toBe('1250');

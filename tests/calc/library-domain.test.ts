@@ -58,6 +58,10 @@ const VALID: Record<string, number[]> = {
   sagnacDelay: [1e12],
   shapiroDelay: [3.986004418e14, 26_561_750, 6_378_137, 20_183_613],
   massRatio: [0.5, 0.5],
+  relativisticVoltage: [200e3],
+  interactionConstant: [200e3],
+  wavelengthFromKinetic: [4.05e-21, M_N],
+  wavelengthFromMomentum: [1e-24],
 };
 
 /** Runs the call and returns the DomainError it must throw. */

@@ -238,6 +238,42 @@ describe('satellite clocks and signals: IS-GPS-200, Ashby (2003), IERS Conventio
   });
 });
 
+describe('electron optics and matter waves', () => {
+  const relativisticVoltage = k1(lib.relativisticVoltage);
+  const interactionConstant = k1(lib.interactionConstant);
+  const wavelengthFromKinetic = k2(lib.wavelengthFromKinetic);
+  const wavelengthFromMomentum = k1(lib.wavelengthFromMomentum);
+  const electronWavelength = k1(lib.electronWavelength);
+  const eV = E_CHARGE; // SI Brochure, 9th ed.: 1 eV = 1.602 176 634e-19 J exactly
+  const perKvAngstrom = 1 / (1e3 * 1e-10); // 1 rad/(kV·Å) in 1/(V·m)
+
+  it('the corrected voltage U* is 109.78, 239.14 and 388.06 kV at 100, 200 and 300 kV', () => {
+    expectQuoted(relativisticVoltage(100e3) / 1e3, 109.78, 0.01); // from memory: Reimer & Kohl, TEM, 5th ed., table 2.2
+    expectQuoted(relativisticVoltage(200e3) / 1e3, 239.14, 0.01); // from memory: Reimer & Kohl, TEM, 5th ed., table 2.2
+    expectQuoted(relativisticVoltage(300e3) / 1e3, 388.06, 0.01); // from memory: Reimer & Kohl, TEM, 5th ed., table 2.2
+    // Common practice: p = √(2mₑeU*) is the relativistic momentum, so h/√(2mₑeU*) is the electron wavelength.
+    expectRelative(H_PLANCK / Math.sqrt(2 * M_E * E_CHARGE * relativisticVoltage(200e3)), electronWavelength(200e3), 1e-15);
+  });
+
+  it('the interaction constant is 0.924, 0.729 and 0.653 rad/(kV·Å) at 100, 200 and 300 kV', () => {
+    expectQuoted(interactionConstant(100e3) / perKvAngstrom, 0.924, 1e-3); // from memory: Kirkland, Advanced Computing in Electron Microscopy, §5.2
+    expectQuoted(interactionConstant(200e3) / perKvAngstrom, 0.729, 1e-3); // from memory: Kirkland (2010) §5.2
+    expectQuoted(interactionConstant(300e3) / perKvAngstrom, 0.653, 1e-3); // from memory: Kirkland (2010) §5.2
+    // Reimer & Kohl §3.1: σ = (2π/(λU)) (mₑc² + eU)/(2mₑc² + eU).
+    const U = 300e3;
+    const rest = M_E * C * C;
+    expectRelative(interactionConstant(U), ((2 * Math.PI) / (electronWavelength(U) * U)) * ((rest + E_CHARGE * U) / (2 * rest + E_CHARGE * U)), 1e-14);
+  });
+
+  it('a thermal neutron of 25.3 meV has λ = 1.798 Å; an electron’s λ is electronWavelength; a 1 eV photon’s is hc/(1 eV) = 1239.84 nm', () => {
+    expectQuoted(wavelengthFromKinetic(0.0253 * eV, M_N) / 1e-10, 1.798, 1e-3); // from memory: Squires (1978) ch. 1, 25.3 meV (2200 m/s) ↔ 1.798 Å
+    expectRelative(wavelengthFromKinetic(200e3 * eV, M_E), electronWavelength(200e3), 1e-15); // common practice: the same formula for T = eU
+    expectQuoted(wavelengthFromKinetic(eV, 0) / 1e-9, 1239.841984, 1e-6); // CODATA 2022: hc = 1239.841 984… eV·nm (exact from h, c, e)
+    expectQuoted(wavelengthFromMomentum(eV / C) / 1e-9, 1239.841984, 1e-6); // CODATA 2022: hc = 1239.841 984… eV·nm
+    expect(() => wavelengthFromKinetic(0, M_N)).toThrow(/T must be > 0/);
+  });
+});
+
 describe('the rocket mass ratio (Ackeret 1946; Rindler 2006, ch. 6)', () => {
   const massRatio = k2(lib.massRatio);
   const rocketDeltaV = k2(lib.rocketDeltaV);

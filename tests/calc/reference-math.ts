@@ -170,6 +170,15 @@ export const REFERENCES: Record<string, Ref> = {
     return exact(GM).mul(2).div(C2.mul(REF_C)).mul(D.ln(s.plus(exact(r12)).div(s.minus(exact(r12)))));
   },
   massRatio: (dv, ve) => D.exp(D.atanh(exact(dv)).div(exact(ve))),
+  relativisticVoltage: (U) => exact(U).mul(ONE.plus(REF_E.mul(exact(U)).div(TWO.mul(REF_ME).mul(C2)))),
+  interactionConstant: (U) => {
+    const T = REF_E.mul(exact(U));
+    const rest = REF_ME.mul(C2);
+    const pc = T.mul(T.plus(TWO.mul(rest))).sqrt();
+    return TWO.mul(D.acos(-1)).mul(REF_E).mul(rest.plus(T)).div(REF_H.mul(REF_C).mul(pc));
+  },
+  wavelengthFromKinetic: (T, m) => REF_H.mul(REF_C).div(exact(T).mul(exact(T).plus(TWO.mul(exact(m)).mul(C2))).sqrt()),
+  wavelengthFromMomentum: (p) => REF_H.div(exact(p)),
 };
 
 /** β = pc/E, E = √(p²c² + m²c⁴) (PDG RPP 2024, "Kinematics"), 50 digits. */
@@ -400,6 +409,13 @@ export function surveyCases(): Record<string, number[][]> {
   cases.massRatio = betas
     .map((dv) => [dv, pick([...betas, 1, 1])])
     .filter(([dv, ve]) => dv < 1 && Math.atanh(dv) / ve < 700);
+  // Electron optics and matter waves: voltages from 1e-6 V to 1e12 V; kinetic energies T/(mc²) from
+  // 1e-24 to 1e12 (the energy grid above), and photons; momenta over 30 decades.
+  const volts = logSpace(-6, 12, 160);
+  cases.relativisticVoltage = volts.map((U) => [U]);
+  cases.interactionConstant = volts.map((U) => [U]);
+  cases.wavelengthFromKinetic = [...kinetic, [1.602176634e-19, 0], [3.2e-13, 0]];
+  cases.wavelengthFromMomentum = logSpace(-40, -10, 120).map((p) => [p]);
 
   return cases;
 }

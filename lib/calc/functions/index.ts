@@ -4,6 +4,10 @@ import { addVelocities } from './add-velocities';
 import { betaGamma } from './beta-gamma';
 import { betaGammaFromMomentum } from './beta-gamma-from-momentum';
 import { clockRateOffset } from './clock-rate-offset';
+import { interactionConstant } from './interaction-constant';
+import { relativisticVoltage } from './relativistic-voltage';
+import { wavelengthFromKinetic } from './wavelength-from-kinetic';
+import { wavelengthFromMomentum } from './wavelength-from-momentum';
 import { eccentricityClockCorrection } from './eccentricity-clock-correction';
 import { gravitationalRateOffset } from './gravitational-rate-offset';
 import { massRatio } from './mass-ratio';
@@ -51,6 +55,11 @@ export {
   betaGammaFromMomentum,
   clockRateOffset,
   decayLength,
+  interactionConstant,
+  relativisticVoltage,
+  wavelengthFromKinetic,
+  wavelengthFromMomentum,
+
   eccentricityClockCorrection,
   gravitationalRateOffset,
   massRatio,
@@ -134,4 +143,9 @@ export const LIBRARY: readonly CalcFunction[] = Object.freeze([
   sagnacDelay,
   shapiroDelay,
   massRatio,
+  // Electron optics and matter waves (issue 17).
+  relativisticVoltage,
+  interactionConstant,
+  wavelengthFromKinetic,
+  wavelengthFromMomentum,
 ]);

@@ -44,6 +44,7 @@ export type ParamKind =
  * - number: a plain number
  * - energy → J; momentum → kg m/s; time → s; length → m; acceleration → m/s²;
  *   rigidity → T m; mass → kg; angle → rad
+ * - voltage → V; interaction-constant → 1/(V m) (radians of phase per volt-metre of projected potential)
  * - pair-time-length: [t (s), x (m)] for a Lorentz transformation of an event
  */
 export type ReturnKind =
@@ -57,6 +58,8 @@ export type ReturnKind =
   | 'rigidity'
   | 'mass'
   | 'angle'
+  | 'voltage'
+  | 'interaction-constant'
   | 'pair-time-length';
 
 export interface ParamDoc {
