@@ -62,6 +62,8 @@ const VALID: Record<string, number[]> = {
   interactionConstant: [200e3],
   wavelengthFromKinetic: [4.05e-21, M_N],
   wavelengthFromMomentum: [1e-24],
+  synchrotronCriticalEnergy: [3e9 * 1.602176634e-19, 7, M_E],
+  twoBodyDecayMomentum: [2.488e-28, 1.884e-28, 0],
 };
 
 /** Runs the call and returns the DomainError it must throw. */

@@ -274,6 +274,28 @@ describe('electron optics and matter waves', () => {
   });
 });
 
+describe('rings and decays', () => {
+  const synchrotronCriticalEnergy = k3(lib.synchrotronCriticalEnergy);
+  const twoBodyDecayMomentum = k3(lib.twoBodyDecayMomentum);
+  const m = (mev: number) => (mev * MeV) / (C * C);
+  const pMeV = (p: number) => (p * C) / MeV;
+
+  it('the critical energy of electrons is 2.218 keV·E³[GeV]/ρ[m]', () => {
+    // from memory: Wiedemann, Particle Accelerator Physics, ch. 24: ε_c[keV] = 2.218 E³[GeV]/ρ[m] for electrons.
+    expectQuoted(synchrotronCriticalEnergy(GeV, 1, M_E) / keV, 2.218, 1e-3);
+    expectRelative(synchrotronCriticalEnergy(3 * GeV, 7, M_E), (synchrotronCriticalEnergy(GeV, 1, M_E) * 27) / 7, 1e-15); // common practice: E³/ρ scaling
+  });
+
+  it('two-body decay momenta: π⁺ → μ⁺ν 29.79, K⁺ → μ⁺ν 235.5, Λ → pπ⁻ 101 MeV/c', () => {
+    // Masses from memory: PDG 2024 listings (π± 139.57039, μ 105.6583755, K± 493.677, Λ 1115.683, p 938.272 MeV).
+    expectQuoted(pMeV(twoBodyDecayMomentum(m(139.57039), m(105.6583755), 0)), 29.79, 0.01); // from memory: PDG listing, π⁺ → μ⁺ν_μ, p = 29.79 MeV/c
+    expectQuoted(pMeV(twoBodyDecayMomentum(m(493.677), m(105.6583755), 0)), 235.5, 0.1); // from memory: PDG listing, K⁺ → μ⁺ν_μ, p = 235.5 MeV/c
+    expectQuoted(pMeV(twoBodyDecayMomentum(m(1115.683), m(938.272), m(139.57039))), 101, 1); // from memory: PDG listing, Λ → pπ⁻, p = 101 MeV/c
+    expect(twoBodyDecayMomentum(m(1000), m(500), m(500))).toBe(0); // PDG kinematics: at threshold p* = 0
+    expect(() => twoBodyDecayMomentum(m(100), m(60), m(50))).toThrow(/not allowed/);
+  });
+});
+
 describe('the rocket mass ratio (Ackeret 1946; Rindler 2006, ch. 6)', () => {
   const massRatio = k2(lib.massRatio);
   const rocketDeltaV = k2(lib.rocketDeltaV);

@@ -179,6 +179,14 @@ export const REFERENCES: Record<string, Ref> = {
   },
   wavelengthFromKinetic: (T, m) => REF_H.mul(REF_C).div(exact(T).mul(exact(T).plus(TWO.mul(exact(m)).mul(C2))).sqrt()),
   wavelengthFromMomentum: (p) => REF_H.div(exact(p)),
+  synchrotronCriticalEnergy: (E, rho, m) => {
+    const gamma = exact(E).div(exact(m).mul(C2));
+    return new D(3).mul(REF_H).mul(REF_C).div(new D(4).mul(D.acos(-1))).mul(gamma.pow(3)).div(exact(rho));
+  },
+  twoBodyDecayMomentum: (M, m1, m2) => {
+    const [a, b, c] = [exact(M), exact(m1), exact(m2)];
+    return a.mul(a).minus(b.plus(c).pow(2)).mul(a.mul(a).minus(b.minus(c).pow(2))).sqrt().mul(REF_C).div(TWO.mul(a));
+  },
 };
 
 /** β = pc/E, E = √(p²c² + m²c⁴) (PDG RPP 2024, "Kinematics"), 50 digits. */
@@ -416,6 +424,18 @@ export function surveyCases(): Record<string, number[][]> {
   cases.interactionConstant = volts.map((U) => [U]);
   cases.wavelengthFromKinetic = [...kinetic, [1.602176634e-19, 0], [3.2e-13, 0]];
   cases.wavelengthFromMomentum = logSpace(-40, -10, 120).map((p) => [p]);
+  cases.synchrotronCriticalEnergy = logSpace(-12, 7, 120)
+    .map((x) => {
+      const m = pick([M_E_KG, M_P_KG, M_MU_KG]);
+      return [(1 + x) * m * C_NUM * C_NUM, pick([7, 0.3, 3096.175]), m];
+    })
+    .filter(([E, , m]) => exact(E).gte(exact(m).mul(C2)));
+  // Two-body decays from just above threshold (M/(m1 + m2) − 1 from 1e-12) to far above, one product massless at times.
+  cases.twoBodyDecayMomentum = logSpace(-12, 4, 160).map((x) => {
+    const m1 = pick([M_E_KG, M_P_KG, M_MU_KG, 3.7e-26]);
+    const m2 = pick([0, M_E_KG, M_P_KG, M_MU_KG]);
+    return [(m1 + m2) * (1 + x), m1, m2];
+  }).filter(([M, m1, m2]) => exact(M).gte(exact(m1).plus(exact(m2))));
 
   return cases;
 }

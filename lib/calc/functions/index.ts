@@ -4,6 +4,8 @@ import { addVelocities } from './add-velocities';
 import { betaGamma } from './beta-gamma';
 import { betaGammaFromMomentum } from './beta-gamma-from-momentum';
 import { clockRateOffset } from './clock-rate-offset';
+import { synchrotronCriticalEnergy } from './synchrotron-critical-energy';
+import { twoBodyDecayMomentum } from './two-body-decay-momentum';
 import { interactionConstant } from './interaction-constant';
 import { relativisticVoltage } from './relativistic-voltage';
 import { wavelengthFromKinetic } from './wavelength-from-kinetic';
@@ -55,6 +57,9 @@ export {
   betaGammaFromMomentum,
   clockRateOffset,
   decayLength,
+  synchrotronCriticalEnergy,
+  twoBodyDecayMomentum,
+
   interactionConstant,
   relativisticVoltage,
   wavelengthFromKinetic,
@@ -148,4 +153,7 @@ export const LIBRARY: readonly CalcFunction[] = Object.freeze([
   interactionConstant,
   wavelengthFromKinetic,
   wavelengthFromMomentum,
+  // Rings and decays (issue 17).
+  synchrotronCriticalEnergy,
+  twoBodyDecayMomentum,
 ]);
