@@ -104,6 +104,10 @@ export interface SheetsTable {
   created_by: string;
   created_at: Timestamp;
   updated_at: ColumnType<Date, Date | string | undefined, Date | string>;
+  /** Set once, with who and why, when a sheet never issued is voided (lib/sheets/void.ts); never cleared. */
+  voided_at: ColumnType<Date | null, never, Date | string>;
+  voided_by: ColumnType<string | null, never, string>;
+  void_reason: ColumnType<string | null, never, string>;
 }
 
 export interface VersionsTable {
@@ -159,6 +163,8 @@ export interface ChecksTable {
   tolerance_text: string | null;
   /** Work carried over from the returned check of an earlier version (lib/checks/carry-over.ts). */
   carried_over: ColumnType<unknown | null, string | null | undefined, string | null>;
+  /** What the originator acknowledged in writing on submitting (lib/checks/submission-findings.ts); immutable. */
+  acknowledgements: ColumnType<unknown, string | undefined, never>;
   return_reason: string | null;
   decided_by: string | null;
   created_at: Timestamp;

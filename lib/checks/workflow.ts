@@ -26,6 +26,7 @@ import { getVersion } from '@/lib/sheets/sheets';
 import { approverRefusal, checkerRefusal, mayAnswerThreads, type Participants, type Person, type Refusal } from './rules';
 import { statusOf } from './status';
 import { compareAlternate, parseTolerance } from './alternate-comparison';
+import { checkDesignInputs, submissionFindings, unacknowledged, type SubmissionFinding } from './submission-findings';
 import { carryOverWork, carriedFieldsText, readCarriedOver, unconfirmedCarriedOver, type CarriedField } from './carry-over';
 
 type Db = Kysely<Database> | Transaction<Database>;
@@ -51,6 +52,14 @@ export const submitSchema = z.object({
   versionNumber: z.number().int().positive().max(INT4_MAX),
   checkerId: z.string().uuid(),
   password,
+  /**
+   * The originator's written acknowledgement of each cell error, failed criterion, engine warning
+   * and mismatched design input of the version (lib/checks/submission-findings.ts), by key.
+   */
+  acknowledgements: z
+    .array(z.object({ key: z.string().min(1).max(200), text: z.string().trim().max(5000) }))
+    .max(1000)
+    .default([]),
 });
 
 export const checkWorkSchema = z.object({
@@ -229,6 +238,9 @@ export async function requireCheck(db: Kysely<Database>, actor: Actor, checkId: 
 const conflict = (check: { state: CheckState }, wanted: string) =>
   new AppError('conflict', `This check is ${STATE_LABELS[check.state]}; it cannot be ${wanted} now.`, { state: check.state });
 
+/** A finding as acknowledged on submission, stored with the check. */
+export type StoredAcknowledgement = SubmissionFinding & { text: string };
+
 // ── Submit ───────────────────────────────────────────────────────────────────────────────────
 
 /**
@@ -253,7 +265,8 @@ export async function eligibleCheckers(db: Db, sheet: { id: string; project_id: 
   });
 }
 
-export async function submitForCheck(db: Kysely<Database>, actor: Actor, sheet: { id: string; project_id: string; number: number; title: string }, input: z.infer<typeof submitSchema>) {
+export async function submitForCheck(db: Kysely<Database>, actor: Actor, sheet: { id: string; project_id: string; number: number; title: string }, raw: z.input<typeof submitSchema>) {
+  const input = { ...raw, acknowledgements: raw.acknowledgements ?? [] };
   const version = await getVersion(db, sheet.id, input.versionNumber);
   if (!version) throw new AppError('not_found', `Version ${input.versionNumber} does not exist.`);
   const after = await lastApprovedNumber(db, sheet.id);
@@ -265,6 +278,19 @@ export async function submitForCheck(db: Kysely<Database>, actor: Actor, sheet: 
   // The submitter signs it prepared: they count as its preparer, beside everyone who authored or signed it.
   const refusal = checkerRefusal(checker, await participants(db, sheet.id, after, input.versionNumber, { preparerId: actor.userId }));
   if (refusal) await refuse(db, actor, sheet, refusal, 'submit');
+  // Nothing is signed on a broken or unsupported sheet without the originator's written word on each item.
+  const findings = submissionFindings(version.content, version.results);
+  const { missing, unknown } = unacknowledged(findings, input.acknowledgements);
+  if (unknown.length > 0) throw new AppError('bad_request', `Acknowledgements name items this version does not have: ${unknown.join(', ')}.`, { unknownAcknowledgements: unknown });
+  if (missing.length > 0) {
+    throw new AppError(
+      'bad_request',
+      `Version ${version.number} has ${missing.length === 1 ? 'an item' : `${missing.length} items`} to acknowledge in writing before it can be submitted: ${missing.map((f) => f.message).join('; ')}`,
+      { acknowledgementsNeeded: findings },
+    );
+  }
+  const texts = new Map(input.acknowledgements.map((a) => [a.key, a.text.trim()]));
+  const acknowledgements: StoredAcknowledgement[] = findings.map((f) => ({ ...f, text: texts.get(f.key)! }));
   await confirmPassword(db, actor, sheet, 'prepared', input.password);
 
   const project = await db.selectFrom('projects').select('code').where('id', '=', sheet.project_id).executeTakeFirstOrThrow();
@@ -281,6 +307,7 @@ export async function submitForCheck(db: Kysely<Database>, actor: Actor, sheet: 
           base_version_number: after,
           submitted_by: actor.userId,
           checker_id: checker.userId,
+          acknowledgements: JSON.stringify(acknowledgements),
         })
         .returning(['id'])
         .executeTakeFirstOrThrow();
@@ -291,7 +318,7 @@ export async function submitForCheck(db: Kysely<Database>, actor: Actor, sheet: 
         objectType: 'check',
         objectId: check.id,
         projectId: sheet.project_id,
-        newValue: { sheet: code, version: version.number, sha256: version.sha256, checker: checker.name, base: after },
+        newValue: { sheet: code, version: version.number, sha256: version.sha256, checker: checker.name, base: after, acknowledgements },
       });
       await notify(
         trx,
@@ -637,6 +664,10 @@ export async function getCheckDetail(db: Kysely<Database>, actor: Actor, checkId
     toleranceText: check.tolerance_text,
     /** Each name both the sheet and the alternate calculation define, compared (lib/checks/alternate-comparison.ts). */
     alternateComparison: compareAlternate(version.results, check.alternate_results as SheetResult | null, check.tolerance, check.tolerance_text),
+    /** What the originator acknowledged in writing on submitting: each cell error, failed criterion, engine warning and mismatched design input. */
+    acknowledgements: (check.acknowledgements ?? []) as StoredAcknowledgement[],
+    /** Each design input that names a cell quantity, with the value the engine used and whether they match. */
+    designInputs: checkDesignInputs(version.content.record, version.results),
     /** Work carried over from the returned check of an earlier version, and which of it is still as carried over. */
     carriedOver: readCarriedOver(check.carried_over),
     returnReason: check.return_reason,

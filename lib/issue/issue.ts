@@ -16,6 +16,8 @@ import { recordAudit } from '@/lib/audit/record';
 import { CONSTANTS } from '@/lib/calc/constants';
 import { VERIFICATION_LABELS } from '@/lib/checks/workflow';
 import { compareAlternate } from '@/lib/checks/alternate-comparison';
+import { checkDesignInputs, FINDING_LABELS } from '@/lib/checks/submission-findings';
+import type { StoredAcknowledgement } from '@/lib/checks/workflow';
 import type { SheetResult } from '@/lib/calc/types';
 import { AppError } from '@/lib/errors/app-error';
 import { earlierRevisionLengths, sha256Hex, stampIssuedPdf } from './stamp';
@@ -152,7 +154,7 @@ export async function revisionPdfData(db: Kysely<Database>, jobId: string): Prom
   const sheet = await db.selectFrom('sheets').select(['number', 'safety_related']).where('id', '=', job.sheet_id).executeTakeFirstOrThrow();
   const project = await db.selectFrom('projects').select(['code', 'name', 'legal_owner']).where('id', '=', job.project_id).executeTakeFirstOrThrow();
   const version = (await getVersion(db, job.sheet_id, job.version_number))!;
-  const check = await db.selectFrom('checks').select(['verification_method', 'base_version_number', 'alternate_results', 'tolerance', 'tolerance_text']).where('id', '=', job.check_id).executeTakeFirstOrThrow();
+  const check = await db.selectFrom('checks').select(['verification_method', 'base_version_number', 'alternate_results', 'tolerance', 'tolerance_text', 'acknowledgements']).where('id', '=', job.check_id).executeTakeFirstOrThrow();
   const alternate = compareAlternate(version.results, check.alternate_results as SheetResult | null, check.tolerance, check.tolerance_text);
   const previous = await db
     .selectFrom('revisions as r')
@@ -211,6 +213,8 @@ export async function revisionPdfData(db: Kysely<Database>, jobId: string): Prom
       { printedName: controller.display_name, meaning: 'issued', signedAt: utc(signedAt) },
     ],
     verificationMethod: check.verification_method ? VERIFICATION_LABELS[check.verification_method] : null,
+    acknowledgements: ((check.acknowledgements ?? []) as StoredAcknowledgement[]).map((a) => ({ item: `${FINDING_LABELS[a.kind]}: ${a.message}`, text: a.text })),
+    designInputChecks: checkDesignInputs(version.content.record, version.results).map((d) => ({ index: d.index, cell: d.cell, engineValue: d.engineValue, match: d.status === 'match', words: d.words })),
     alternateComparison: alternate.rows.length
       ? { toleranceText: alternate.toleranceText, rows: alternate.rows.map((r) => ({ name: r.name, sheet: r.sheet, alternate: r.alternate, relativeDifference: r.relativeDifferenceText, outcome: r.words })) }
       : null,

@@ -46,6 +46,10 @@ export interface RevisionPdfData {
   /** The checker's verification method (NQA-1 name). */
   verificationMethod: string | null;
   /** The checker's alternate calculation compared with the sheet (lib/checks/alternate-comparison.ts), when they share a name. */
+  /** What the originator acknowledged in writing on submitting the version (lib/checks/submission-findings.ts). */
+  acknowledgements?: Array<{ item: string; text: string }>;
+  /** Each design input that names a cell quantity, by its index in the record: the value the engine used and whether it matches. */
+  designInputChecks?: Array<{ index: number; cell: string; engineValue: string | null; match: boolean; words: string }>;
   alternateComparison?: { toleranceText: string | null; rows: Array<{ name: string; sheet: string; alternate: string; relativeDifference: string; outcome: string }> } | null;
   /** Short code to type on the verification page, e.g. "K7QF-2M9D-XW4T". */
   verificationCode: string;

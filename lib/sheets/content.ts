@@ -20,6 +20,12 @@ export const designInputSchema = z.object({
   value: shortText,
   source: shortText,
   sourceRevision: shortText,
+  /**
+   * The cell quantity this input feeds ("T" for `T = 150 MeV`): the record's value is checked
+   * against the value the engine used (lib/checks/submission-findings.ts). Optional so that
+   * versions saved before the link existed parse, and hash, exactly as stored.
+   */
+  cell: z.string().trim().max(100).optional(),
 });
 
 export const assumptionSchema = z.object({

@@ -704,7 +704,11 @@ function Record({ data }: { data: RevisionPdfData }) {
           { title: 'Source', width: '40%' },
           { title: 'Source revision', width: '14%' },
         ]}
-        rows={r.inputs.map((i) => [i.name, i.value, i.source, i.sourceRevision])}
+        rows={r.inputs.map((i, index) => {
+          const linked = data.designInputChecks?.find((d) => d.index === index);
+          const value = linked ? `${i.value} (cell ${linked.cell}: ${linked.match ? `used ${linked.engineValue}` : `ERROR, ${linked.words}`})` : i.value;
+          return [i.name, value, i.source, i.sourceRevision];
+        })}
       />
       <Leaf as="H3">
         <Text style={s.h3} minPresenceAhead={20}>
@@ -886,6 +890,20 @@ function Signatures({ data }: { data: RevisionPdfData }) {
               { title: 'Outcome', width: '32%' },
             ]}
             rows={data.alternateComparison.rows.map((r) => [r.name, r.sheet, r.alternate, r.relativeDifference, r.outcome])}
+          />
+        </View>
+      ) : null}
+      {data.acknowledgements?.length ? (
+        <View style={{ marginTop: 6 }}>
+          <Leaf as="Caption">
+            <Text style={{ fontWeight: 700, marginBottom: 2 }}>Acknowledged in writing by the originator on submission</Text>
+          </Leaf>
+          <Table
+            columns={[
+              { title: 'Item', width: '50%' },
+              { title: 'Acknowledgement', width: '50%' },
+            ]}
+            rows={data.acknowledgements.map((a) => [a.item, a.text])}
           />
         </View>
       ) : null}
