@@ -10,6 +10,20 @@ export interface CheckerOption {
   reason: string | null;
 }
 
+/** An item the server asks to be acknowledged in writing (lib/checks/submission-findings.ts). */
+interface Finding {
+  key: string;
+  kind: string;
+  message: string;
+}
+
+const KIND_LABELS: Record<string, string> = {
+  'cell-error': 'Cell error',
+  'criterion-failed': 'Failed design criterion',
+  'lint-warning': 'Engine warning',
+  'design-input': 'Design input does not match the sheet',
+};
+
 type Status = { kind: 'idle' | 'busy' } | { kind: 'done'; text: string } | { kind: 'error'; text: string; rule?: string };
 
 /**
@@ -37,6 +51,8 @@ export function SubmitForCheckForm({
   const router = useRouter();
   const [status, setStatus] = useState<Status>({ kind: 'idle' });
   const [version, setVersion] = useState<number | undefined>(versions[0]);
+  const [needed, setNeeded] = useState<{ version: number; items: Finding[] } | null>(null);
+  const items = needed && needed.version === version ? needed.items : [];
   const checkers = (version !== undefined ? checkersByVersion?.[version] : undefined) ?? latestCheckers;
   const ineligible = checkers.filter((c) => !c.eligible);
   const anyEligible = checkers.some((c) => c.eligible);
@@ -52,14 +68,26 @@ export function SubmitForCheckForm({
       const response = await fetch(`/api/sheets/${sheetId}/checks`, {
         method: 'POST',
         headers: { 'content-type': 'application/json' },
-        body: JSON.stringify({ versionNumber, checkerId, password: String(data.get('password') ?? '') }),
+        body: JSON.stringify({
+          versionNumber,
+          checkerId,
+          password: String(data.get('password') ?? ''),
+          acknowledgements: items.map((f) => ({ key: f.key, text: String(data.get(`ack:${f.key}`) ?? '') })),
+        }),
       });
       const answer = await response.json().catch(() => ({}));
+      const asked = answer.error?.details?.acknowledgementsNeeded as Finding[] | undefined;
+      if (!response.ok && asked) {
+        setNeeded({ version: versionNumber, items: asked });
+        setStatus({ kind: 'error', text: `${answer.error.message} Write an acknowledgement for each item below, then submit again.` });
+        return;
+      }
       if (!response.ok) {
         setStatus({ kind: 'error', text: answer.error?.message ?? `The server answered ${response.status}.`, rule: answer.error?.details?.rule });
         return;
       }
       form.reset();
+      setNeeded(null);
       const checker = checkers.find((c) => c.userId === checkerId)?.name ?? 'the checker';
       setStatus({ kind: 'done', text: `Version ${answer.versionNumber} is submitted to ${checker} for check and signed as prepared.` });
       router.refresh();
@@ -120,6 +148,20 @@ export function SubmitForCheckForm({
             ) : null}
             {checkers.length === 0 ? <p className="mt-1 text-xs text-ink-muted">The project has no checker; an administrator gives the checker role.</p> : null}
           </div>
+          {items.length ? (
+            <fieldset className="space-y-2 rounded border border-fail px-3 py-2">
+              <legend className="px-1 text-sm font-semibold text-fail">Acknowledge in writing before submitting ({items.length})</legend>
+              <p className="text-xs text-ink-muted">Each acknowledgement goes with the version to the checker, the approver and the issued PDF, and cannot be changed after submission.</p>
+              {items.map((f, i) => (
+                <div key={f.key}>
+                  <label htmlFor={`${id}-ack-${i}`} className="block text-sm">
+                    <span className="font-semibold">{KIND_LABELS[f.kind] ?? f.kind}:</span> {f.message}
+                  </label>
+                  <textarea id={`${id}-ack-${i}`} name={`ack:${f.key}`} required rows={2} maxLength={5000} className="w-full rounded border border-rule-strong bg-surface px-3 py-2 text-sm" />
+                </div>
+              ))}
+            </fieldset>
+          ) : null}
           <div>
             <label htmlFor={`${id}-password`} className="block text-sm font-semibold">
               Your password (signs as prepared)

@@ -19,6 +19,7 @@ export function RecordListsEditor({ record, onChange }: { record: CalculationRec
           <div key={i} className="grid gap-2 rounded border border-rule p-2 sm:grid-cols-[1fr_1fr_1.5fr_0.6fr_auto]">
             <input aria-label={`Input ${i + 1} name`} value={input.name} onChange={(e) => setInput(i, { name: e.target.value })} className={field} placeholder="name" />
             <input aria-label={`Input ${i + 1} value`} value={input.value} onChange={(e) => setInput(i, { value: e.target.value })} className={`${field} font-mono`} placeholder="value with unit" />
+            <input aria-label={`Input ${i + 1} cell quantity it feeds`} value={input.cell ?? ''} onChange={(e) => setInput(i, { cell: e.target.value || undefined })} className={`${field} w-24 font-mono`} placeholder="cell name" />
             <input aria-label={`Input ${i + 1} source`} value={input.source} onChange={(e) => setInput(i, { source: e.target.value })} className={field} placeholder="source document" />
             <input aria-label={`Input ${i + 1} source revision`} value={input.sourceRevision} onChange={(e) => setInput(i, { sourceRevision: e.target.value })} className={field} placeholder="revision" />
             <button type="button" onClick={() => onChange({ inputs: record.inputs.filter((_, j) => j !== i) })} className="rounded border border-fail px-2 text-sm text-fail" aria-label={`Remove input ${i + 1}`}>

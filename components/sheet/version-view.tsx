@@ -4,6 +4,7 @@ import { studyCsvFileName } from '@/lib/calc/study-csv';
 import type { VersionContent } from '@/lib/sheets/content';
 import { AttachmentList } from './attachment-list';
 import { VisibleText } from '@/components/data/visible-text';
+import { checkDesignInputs } from '@/lib/checks/submission-findings';
 
 /** A version as recorded: the calculation record fields, then every cell with its recorded results. */
 export function VersionView({
@@ -24,6 +25,7 @@ export function VersionView({
 }) {
   const r = content.record;
   const byId = new Map((results?.cells ?? []).map((c) => [c.id, c]));
+  const linked = new Map(checkDesignInputs(r, results).map((d) => [d.index, d]));
   return (
     <div className="space-y-8">
       <section aria-labelledby="record-title" className="rounded border border-rule bg-surface p-4">
@@ -37,14 +39,30 @@ export function VersionView({
           <dd>
             {r.inputs.length ? (
               <ul className="list-disc pl-5">
-                {r.inputs.map((i) => (
-                  <li key={i.name}>
-                    <VisibleText text={i.name} />: <span className="font-mono">
-                      <VisibleText text={i.value} />
-                    </span>{' '}
-                    — <VisibleText text={i.source} />, revision <VisibleText text={i.sourceRevision} />
-                  </li>
-                ))}
+                {r.inputs.map((i, index) => {
+                  const d = linked.get(index);
+                  return (
+                    <li key={`${index}-${i.name}`}>
+                      <VisibleText text={i.name} />: <span className="font-mono">
+                        <VisibleText text={i.value} />
+                      </span>{' '}
+                      — <VisibleText text={i.source} />, revision <VisibleText text={i.sourceRevision} />
+                      {d ? (
+                        <span className={`block ${d.status === 'match' ? 'text-ink-muted' : 'font-semibold text-fail'}`}>
+                          {d.status === 'match' ? (
+                            <>
+                              feeds <code className="font-mono">{d.cell}</code>; value used: {d.engineValue}
+                            </>
+                          ) : (
+                            <>
+                              Error: feeds <code className="font-mono">{d.cell}</code>, {d.words}
+                            </>
+                          )}
+                        </span>
+                      ) : null}
+                    </li>
+                  );
+                })}
               </ul>
             ) : (
               <span className="text-ink-muted">none listed</span>

@@ -319,6 +319,12 @@ export const checkDetailSchema = z.looseObject({
       notWithin: z.number().int(),
     })
     .meta({ description: 'Each name defined both in the alternate cells and in the version\'s results: both values as displayed, |a − s| / |s| on SI values, and the outcome in words (units that differ, a zero sheet value, lists: see lib/checks/README.md).' }),
+  acknowledgements: z
+    .array(z.object({ key: z.string(), kind: z.enum(['cell-error', 'criterion-failed', 'lint-warning', 'design-input']), cellId: z.string().nullable(), message: z.string(), text: z.string() }))
+    .meta({ description: 'What the originator acknowledged in writing on submitting the version: each item and the acknowledgement (immutable).' }),
+  designInputs: z
+    .array(z.object({ index: z.number().int(), name: z.string(), cell: z.string(), recordValue: z.string(), engineValue: z.string().nullable(), status: z.enum(['match', 'mismatch', 'missing-cell', 'unreadable']), words: z.string() }))
+    .meta({ description: 'Each design input of the record that names a cell quantity: the record\'s value, the value the engine used, and whether they match (in SI, to the last digit written).' }),
   carriedOver: z
     .object({ fromCheckId: uuid, fromVersion: z.number().int(), fields: z.array(z.enum(['verificationMethod', 'checkerNotes', 'alternateCells', 'tolerance'])), confirmedAt: timestamp.nullable(), confirmedBy: z.string().nullable() })
     .nullable()

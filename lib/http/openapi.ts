@@ -609,7 +609,10 @@ export const OPERATIONS: Operation[] = [
       'the checker role, must not have saved any version since the last approved one, later ones included (ASME NQA-1 Requirement 3 §500), and ' +
       'must not be the submitter or anyone who submitted this version before; a refusal names the rule in `details.rule` and is audited. ' +
       'One open check per sheet. When the sheet\'s latest earlier check was returned, its verification method, notes, alternate calculation and tolerance ' +
-      'are carried over to the new check, marked as from that check until the checker edits or confirms them (audited `check.carry_over`).',
+      'are carried over to the new check, marked as from that check until the checker edits or confirms them (audited `check.carry_over`). ' +
+      'A version with any cell error, failed design criterion, engine (lint) warning, or design input whose value does not match the cell it names is refused (400, ' +
+      '`details.acknowledgementsNeeded`: each item\'s key, kind, cell and message) until `acknowledgements` gives written text for each key; they are stored with the check, ' +
+      'audited with `check.submit`, never changed, and shown to the checker, the approver and in the issued PDF.',
     tags: ['checks'],
     auth: 'session or API token',
     params: sheetParam,

@@ -1,4 +1,5 @@
 import type { Metadata } from 'next';
+import { SubmissionAcknowledgements } from '@/components/checks/submission-acknowledgements';
 import Link from 'next/link';
 import { notFound } from 'next/navigation';
 import { CellThreads } from '@/components/checks/cell-threads';
@@ -168,6 +169,7 @@ export default async function CheckPage({ params }: { params: Promise<{ checkId:
           <span className="font-bold">{check.state === 'approval_returned' ? 'Returned by the approver' : 'Returned with comments'}:</span> {check.returnReason}
         </p>
       ) : null}
+      <SubmissionAcknowledgements acknowledgements={check.acknowledgements} designInputs={check.designInputs} submittedBy={check.submittedBy} />
 
       <div className="grid gap-8 lg:grid-cols-[minmax(0,1fr)_20rem]">
         <div className="min-w-0 space-y-8">
