@@ -152,9 +152,15 @@ export const versionListSchema = z.object({ versions: z.array(z.object(versionSu
 export const versionSchema = z.object({ ...versionSummaryFields, content: versionContentSchema, results: sheetResultSchema.nullable() });
 
 export const sheetWithVersionSchema = z.object({
-  sheet: z.object({ id: uuid, project_id: uuid, number: z.number().int(), code: z.string(), title: z.string(), safety_related: z.boolean(), created_by: uuid, created_at: timestamp }),
+  sheet: z.object({
+    id: uuid, project_id: uuid, number: z.number().int(), code: z.string(), title: z.string(), safety_related: z.boolean(), created_by: uuid, created_at: timestamp,
+    voided_at: timestamp.nullable().meta({ description: 'When the sheet was voided; null for a sheet in use.' }),
+    void_reason: z.string().nullable(),
+  }),
   version: versionSchema,
 });
+
+export const sheetVoidedSchema = z.object({ sheetId: uuid, status: z.literal('void'), voidedAt: timestamp, reason: z.string() });
 
 export const versionSavedSchema = z.object({ number: z.number().int(), sha256, ok: z.boolean().meta({ description: 'Whether every cell evaluated without error.' }) });
 

@@ -21,6 +21,7 @@ import { compareQuerySchema } from '@/lib/sheets/compare';
 import { exportQuerySchema } from '@/lib/sheets/sheet-files';
 import { softwareImpactQuerySchema } from '@/lib/sheets/software-impact';
 import { createSheetSchema, saveVersionSchema } from '@/lib/sheets/sheets';
+import { voidSheetSchema } from '@/lib/sheets/void';
 import { downloadQuerySchema, issueRequestSchema, registerQuerySchema, verifyCodeSchema, withdrawSchema } from '@/lib/issue/issue';
 import { checkWorkSchema, commentSchema, decisionSchema, queueQuerySchema, resolveSchema, submitSchema } from '@/lib/checks/workflow';
 import { APP_VERSION } from '@/lib/version';
@@ -533,6 +534,20 @@ export const OPERATIONS: Operation[] = [
       200: { description: 'The sheet file, as a download (`content-disposition: attachment`).', content: { 'application/json': res.exportedSheetFileSchema } },
       ...errors([400, 401, 404]),
     },
+  },
+  {
+    method: 'POST',
+    path: '/api/sheets/{sheetId}/void',
+    operationId: 'voidSheet',
+    summary: 'Void a sheet never issued, with a reason',
+    description:
+      'The originator who created the sheet, or a document controller of the project. The sheet stays in the register as void, with its versions; ' +
+      'it takes no new version, check or revision. 409 when the sheet has an issued revision, a check in progress (in check, or checked and awaiting approval), or is already void.',
+    tags: ['sheets'],
+    auth: 'session or API token',
+    params: sheetParam,
+    body: { schema: voidSheetSchema },
+    responses: { 200: json('Voided.', res.sheetVoidedSchema), ...errors([400, 401, 403, 404, 409]) },
   },
 
   // attachments

@@ -141,7 +141,7 @@ export async function createSheetWithContent(db: Kysely<Database>, actor: Actor,
 
 export async function getSheet(db: Kysely<Database>, sheetId: string) {
   if (!/^[0-9a-f-]{36}$/.test(sheetId)) return undefined;
-  return db.selectFrom('sheets').select(['id', 'project_id', 'number', 'title', 'safety_related', 'created_by', 'created_at']).where('id', '=', sheetId).executeTakeFirst();
+  return db.selectFrom('sheets').select(['id', 'project_id', 'number', 'title', 'safety_related', 'created_by', 'created_at', 'voided_at', 'void_reason']).where('id', '=', sheetId).executeTakeFirst();
 }
 
 export async function getSheetByNumber(db: Kysely<Database>, projectId: string, number: number) {
@@ -192,7 +192,8 @@ async function prepareVersion(db: Kysely<Database>, sheet: { id: string | null; 
 /** Inserts a prepared version on top of `parentNumber`, inside `trx`; 409 when the sheet moved on. */
 async function insertVersion(trx: Transaction<Database>, actor: Actor, sheet: { id: string; project_id: string }, input: z.infer<typeof saveVersionSchema>, prepared: PreparedVersion) {
   const { results, citations, hash } = prepared;
-  await trx.selectFrom('sheets').select('id').where('id', '=', sheet.id).forUpdate().executeTakeFirstOrThrow();
+  const locked = await trx.selectFrom('sheets').select(['id', 'voided_at']).where('id', '=', sheet.id).forUpdate().executeTakeFirstOrThrow();
+  if (locked.voided_at) throw new AppError('conflict', 'This sheet is void: it keeps its versions but takes no new ones.', { voided: true });
   const latest = await trx.selectFrom('versions').select(['number', 'content_hash']).where('sheet_id', '=', sheet.id).orderBy('number', 'desc').limit(1).executeTakeFirstOrThrow();
   if (latest.number !== input.parentNumber) {
     throw new AppError('conflict', `Version ${latest.number} was saved since version ${input.parentNumber}, which your edits are based on.`, {

@@ -20,6 +20,7 @@ import * as compare from '../../lib/sheets/compare';
 import * as sheetFiles from '../../lib/sheets/sheet-files';
 import * as sheets from '../../lib/sheets/sheets';
 import * as softwareImpact from '../../lib/sheets/software-impact';
+import * as voiding from '../../lib/sheets/void';
 import * as checksWorkflow from '../../lib/checks/workflow';
 import * as issuing from '../../lib/issue/issue';
 
@@ -206,6 +207,7 @@ describe('generated from the handlers\' zod schemas', () => {
       'lib/sheets/sheet-files.ts': sheetFiles,
       'lib/sheets/sheets.ts': sheets,
       'lib/sheets/software-impact.ts': softwareImpact,
+      'lib/sheets/void.ts': voiding,
       'lib/checks/workflow.ts': checksWorkflow,
       'lib/issue/issue.ts': issuing,
       'lib/http/csp-reports.ts': cspReports,

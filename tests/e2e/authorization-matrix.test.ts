@@ -136,6 +136,11 @@ const MATRIX: Record<string, Entry> = {
     request: (w) => ({ path: `/api/sheets/${w.sheetId}/versions`, body: { parentNumber: w.latestNumber, message: 'matrix save', content: w.sheetContent } }),
     expect: originatorOnly(201),
   },
+  // An empty reason: the roles allowed past authorization get 400, so the matrix's sheet is not voided.
+  'POST /api/sheets/[sheetId]/void': {
+    request: (w) => ({ path: `/api/sheets/${w.sheetId}/void`, body: { reason: '' } }),
+    expect: { anonymous: 401, outsider: 404, admin: 404, originator: 400, controller: 400, default: 403 },
+  },
   'GET /api/sheets/[sheetId]/compare': { request: (w) => ({ path: `/api/sheets/${w.sheetId}/compare?target=1` }), expect: memberOnly(200) },
   'GET /api/sheets/[sheetId]/impact': { request: (w) => ({ path: `/api/sheets/${w.sheetId}/impact` }), expect: memberOnly(200) },
   'GET /api/software-impact': { request: () => ({ path: '/api/software-impact?function=lorentzFactor&format=csv' }), expect: signedIn(200) },
