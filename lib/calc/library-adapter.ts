@@ -25,6 +25,7 @@ const KIND_UNITS: Record<Exclude<ParamKind, 'number'>, { si: string; label: stri
   rigidity: { si: 'T m', label: 'a magnetic rigidity (T m)' },
   'gravitational-parameter': { si: 'm^3/s^2', label: 'a gravitational parameter GM (m³/s², e.g. GM_E)' },
   area: { si: 'm^2', label: 'an area' },
+  'magnetic-field': { si: 'T', label: 'a magnetic flux density (T)' },
 };
 
 const RETURN_UNITS: Record<Exclude<ReturnKind, 'number' | 'speed' | 'pair-time-length'>, string> = {
@@ -37,6 +38,7 @@ const RETURN_UNITS: Record<Exclude<ReturnKind, 'number' | 'speed' | 'pair-time-l
   mass: 'kg',
   angle: 'rad',
   voltage: 'V',
+  frequency: 'Hz',
   'interaction-constant': 'V^-1 m^-1',
 };
 

@@ -64,6 +64,10 @@ const VALID: Record<string, number[]> = {
   wavelengthFromMomentum: [1e-24],
   synchrotronCriticalEnergy: [3e9 * 1.602176634e-19, 7, M_E],
   twoBodyDecayMomentum: [2.488e-28, 1.884e-28, 0],
+  revolutionFrequency: [0.5, 100],
+  cyclotronFrequency: [1.602176634e-19, 1, M_P, 1e-12],
+  momentumSpreadFromEnergySpread: [1e-3, 0.5],
+  energySpreadFromMomentumSpread: [1e-3, 0.5],
 };
 
 /** Runs the call and returns the DomainError it must throw. */
@@ -118,7 +122,7 @@ describe('speeds of massive bodies', () => {
         if (p.kind === 'speed') speedPositions.push([f.name, i]);
       });
     }
-    expect(speedPositions.length).toBe(13);
+    expect(speedPositions.length).toBe(16);
     for (const [name, i] of speedPositions) {
       for (const bad of [1, -1, 1.5, -2, 1 + 2 ** -52]) {
         const args = [...VALID[name]];

@@ -294,6 +294,34 @@ describe('rings and decays', () => {
     expect(twoBodyDecayMomentum(m(1000), m(500), m(500))).toBe(0); // PDG kinematics: at threshold p* = 0
     expect(() => twoBodyDecayMomentum(m(100), m(60), m(50))).toThrow(/not allowed/);
   });
+
+  it('the LHC revolution frequency at 7 TeV is 11.245 kHz; a proton turns at 15.245 MHz in 1 T, slower by 1/γ', () => {
+    const revolutionFrequency = k2(lib.revolutionFrequency);
+    const cyclotronFrequency = k4(lib.cyclotronFrequency);
+    const speedFromKinetic = k2(lib.speedFromKinetic);
+    expectQuoted(revolutionFrequency(speedFromKinetic(7e6 * MeV, M_P), 26_658.883) / 1e3, 11.245, 1e-3); // LHC Design Report, CERN-2004-003: 26 658.883 m, 11.245 kHz
+    expectQuoted(cyclotronFrequency(E_CHARGE, 1, M_P, 0) / 1e6, 15.245, 1e-3); // CODATA 2022 e, m_p: e/(2π m_p) = 15.245 MHz/T (common practice)
+    const T = 250 * MeV;
+    const gamma = 1 + T / (M_P * C * C);
+    expectRelative(cyclotronFrequency(E_CHARGE, 1, M_P, T), cyclotronFrequency(E_CHARGE, 1, M_P, 0) / gamma, 1e-15); // Jackson §12.2: ω = qB/(γm)
+    expectRelative(cyclotronFrequency(-6 * E_CHARGE, -2, 12 * 1.66053906892e-27, 0), cyclotronFrequency(6 * E_CHARGE, 2, 12 * 1.66053906892e-27, 0), 0); // common practice: signs dropped
+  });
+
+  it('ΔE/E = β² Δp/p for the total energy, both ways', () => {
+    // PDG Kinematics: E² = p²c² + m²c⁴ gives dE/E = β² dp/p (common practice).
+    const toP = k2(lib.momentumSpreadFromEnergySpread);
+    const toE = k2(lib.energySpreadFromMomentumSpread);
+    expectRelative(toP(1e-3, 0.5), 4e-3, 1e-15);
+    expectRelative(toE(toP(2.5e-4, 0.6), 0.6), 2.5e-4, 1e-15);
+    // Against finite differences of the library's own momentum and total energy for 250 MeV protons.
+    const momentumFromKinetic = k2(lib.momentumFromKinetic);
+    const beta = k2(lib.speedFromKinetic)(250 * MeV, M_P);
+    const E = 250 * MeV + M_P * C * C;
+    const dT = 1e-6 * E;
+    const dpOverP = (momentumFromKinetic(250 * MeV + dT, M_P) - momentumFromKinetic(250 * MeV - dT, M_P)) / (2 * momentumFromKinetic(250 * MeV, M_P));
+    expectRelative(toP(dT / E, beta), dpOverP, 1e-8);
+    expect(() => toP(1e-3, 0)).toThrow(/must move/);
+  });
 });
 
 describe('the rocket mass ratio (Ackeret 1946; Rindler 2006, ch. 6)', () => {

@@ -183,6 +183,10 @@ export const REFERENCES: Record<string, Ref> = {
     const gamma = exact(E).div(exact(m).mul(C2));
     return new D(3).mul(REF_H).mul(REF_C).div(new D(4).mul(D.acos(-1))).mul(gamma.pow(3)).div(exact(rho));
   },
+  revolutionFrequency: (v, L) => exact(v).abs().mul(REF_C).div(exact(L)),
+  cyclotronFrequency: (q, B, m, T) => exact(q).abs().mul(exact(B).abs()).mul(C2).div(TWO.mul(D.acos(-1)).mul(exact(m).mul(C2).plus(exact(T)))),
+  momentumSpreadFromEnergySpread: (x, v) => exact(x).div(exact(v).pow(2)),
+  energySpreadFromMomentumSpread: (x, v) => exact(x).mul(exact(v).pow(2)),
   twoBodyDecayMomentum: (M, m1, m2) => {
     const [a, b, c] = [exact(M), exact(m1), exact(m2)];
     return a.mul(a).minus(b.plus(c).pow(2)).mul(a.mul(a).minus(b.minus(c).pow(2))).sqrt().mul(REF_C).div(TWO.mul(a));
@@ -430,6 +434,10 @@ export function surveyCases(): Record<string, number[][]> {
       return [(1 + x) * m * C_NUM * C_NUM, pick([7, 0.3, 3096.175]), m];
     })
     .filter(([E, , m]) => exact(E).gte(exact(m).mul(C2)));
+  cases.revolutionFrequency = signedBetas.filter((b) => b !== 0).map((b) => [b, pick([1, 26_658.883, 0.3, 6.3e3])]);
+  cases.cyclotronFrequency = kinetic.map(([T, m]) => [pick([1.602176634e-19, -1.602176634e-19, 9.6e-19]), pick([1, 0.01, 12, -3]), m, T]);
+  cases.momentumSpreadFromEnergySpread = signedBetas.filter((b) => b !== 0).map((b) => [pick([1e-3, -2.5e-4, 0.1, 3e-7]), b]);
+  cases.energySpreadFromMomentumSpread = signedBetas.filter((b) => b !== 0).map((b) => [pick([1e-3, -2.5e-4, 0.1, 3e-7]), b]);
   // Two-body decays from just above threshold (M/(m1 + m2) − 1 from 1e-12) to far above, one product massless at times.
   cases.twoBodyDecayMomentum = logSpace(-12, 4, 160).map((x) => {
     const m1 = pick([M_E_KG, M_P_KG, M_MU_KG, 3.7e-26]);

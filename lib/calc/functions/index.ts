@@ -4,6 +4,10 @@ import { addVelocities } from './add-velocities';
 import { betaGamma } from './beta-gamma';
 import { betaGammaFromMomentum } from './beta-gamma-from-momentum';
 import { clockRateOffset } from './clock-rate-offset';
+import { cyclotronFrequency } from './cyclotron-frequency';
+import { energySpreadFromMomentumSpread } from './energy-spread-from-momentum-spread';
+import { momentumSpreadFromEnergySpread } from './momentum-spread-from-energy-spread';
+import { revolutionFrequency } from './revolution-frequency';
 import { synchrotronCriticalEnergy } from './synchrotron-critical-energy';
 import { twoBodyDecayMomentum } from './two-body-decay-momentum';
 import { interactionConstant } from './interaction-constant';
@@ -57,6 +61,11 @@ export {
   betaGammaFromMomentum,
   clockRateOffset,
   decayLength,
+  cyclotronFrequency,
+  energySpreadFromMomentumSpread,
+  momentumSpreadFromEnergySpread,
+  revolutionFrequency,
+
   synchrotronCriticalEnergy,
   twoBodyDecayMomentum,
 
@@ -156,4 +165,8 @@ export const LIBRARY: readonly CalcFunction[] = Object.freeze([
   // Rings and decays (issue 17).
   synchrotronCriticalEnergy,
   twoBodyDecayMomentum,
+  revolutionFrequency,
+  cyclotronFrequency,
+  momentumSpreadFromEnergySpread,
+  energySpreadFromMomentumSpread,
 ]);

@@ -17,7 +17,7 @@
  * - angle: an angle, or a plain number in radians → rad
  * - rigidity: a magnetic rigidity Bρ (T m, or anything of that dimension, such as momentum/charge) → T m
  * - gravitational-parameter: GM of a body (m³/s², e.g. GM_E) → m³/s²
- * - area → m²
+ * - area → m²; magnetic-field: a magnetic flux density → T
  * - number: a plain (dimensionless) number
  */
 export type ParamKind =
@@ -34,6 +34,7 @@ export type ParamKind =
   | 'rigidity'
   | 'gravitational-parameter'
   | 'area'
+  | 'magnetic-field'
   | 'number';
 
 /**
@@ -44,7 +45,7 @@ export type ParamKind =
  * - number: a plain number
  * - energy → J; momentum → kg m/s; time → s; length → m; acceleration → m/s²;
  *   rigidity → T m; mass → kg; angle → rad
- * - voltage → V; interaction-constant → 1/(V m) (radians of phase per volt-metre of projected potential)
+ * - voltage → V; frequency → Hz; interaction-constant → 1/(V m) (radians of phase per volt-metre of projected potential)
  * - pair-time-length: [t (s), x (m)] for a Lorentz transformation of an event
  */
 export type ReturnKind =
@@ -60,6 +61,7 @@ export type ReturnKind =
   | 'angle'
   | 'voltage'
   | 'interaction-constant'
+  | 'frequency'
   | 'pair-time-length';
 
 export interface ParamDoc {
