@@ -9,7 +9,7 @@ import { sql } from 'kysely';
 import { beforeEach, describe, expect, it } from 'vitest';
 import { decide, submitForCheck } from '../../lib/checks/workflow';
 import { processIssueJob, requestIssue } from '../../lib/issue/issue';
-import { getVersion, listVersions, saveVersion } from '../../lib/sheets/sheets';
+import { getVersion, listSheets, listVersions, saveVersion } from '../../lib/sheets/sheets';
 import { voidSheet } from '../../lib/sheets/void';
 import { storageConfig } from '../../lib/storage/config';
 import { createObjectStore } from '../../lib/storage/object-store';
@@ -54,6 +54,8 @@ describe('voiding a sheet', () => {
     expect(await refusal(submitForCheck(testDb(), w.author, w.sheet, { versionNumber: 2, checkerId: w.checker.userId, password: PASSWORD }), Error)).toBeTruthy();
     expect(await refusal(voidSheet(testDb(), w.controller, ['controller'], w.sheet.id, { reason: 'again' }))).toMatchObject({ code: 'conflict' });
     expect((await listVersions(testDb(), w.sheet.id)).length).toBe(2);
+    const register = await listSheets(testDb(), w.projectId, 'VOID');
+    expect(register.map((r) => [r.id, r.status, r.latestVersion])).toEqual([[w.sheet.id, 'void', 2]]);
   });
 
   it('the database refuses a new version, a check, un-voiding, and a void without a reason', async () => {
