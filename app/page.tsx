@@ -1,4 +1,10 @@
 import { CautionNotice } from '@/components/shell/caution-notice';
+import { MyWorkView } from '@/components/home/my-work';
+import { getDb } from '@/db';
+import { getActor } from '@/lib/auth/current-actor';
+import { myWork } from '@/lib/home/my-work';
+
+export const dynamic = 'force-dynamic';
 
 const STEPS = [
   { term: 'Write', text: 'The originator writes cells with units and the relativistic function library; the server evaluates them.' },
@@ -9,7 +15,10 @@ const STEPS = [
   { term: 'Verify', text: 'Anyone handed the PDF can confirm it is authentic and still current.' },
 ] as const;
 
-export default function LandingPage() {
+/** Signed in: the person's work (lib/home/my-work.ts); signed out: what the product is. */
+export default async function HomePage() {
+  const actor = await getActor();
+  if (actor) return <MyWorkView name={actor.name} work={await myWork(getDb(), actor)} />;
   return (
     <div className="space-y-10">
       <section className="ws-grid -mx-gutter rounded border border-rule px-gutter py-12">

@@ -13,6 +13,7 @@ import { formatSheetNumber } from '@/lib/sheets/sheet-number';
 
 export interface WorkSheet {
   id: string;
+  number: number;
   code: string;
   title: string;
   projectCode: string;
@@ -56,7 +57,7 @@ async function ownSheets(db: Kysely<Database>, actor: Actor) {
     .orderBy('s.number')
     .execute();
   const statuses = await sheetStatuses(db, rows.map((r) => ({ id: r.id, latestVersion: Number(r.latest) })));
-  const sheet = (r: (typeof rows)[number]): WorkSheet => ({ id: r.id, code: formatSheetNumber(r.code, r.number), title: r.title, projectCode: r.code, latestVersion: Number(r.latest) });
+  const sheet = (r: (typeof rows)[number]): WorkSheet => ({ id: r.id, number: r.number, code: formatSheetNumber(r.code, r.number), title: r.title, projectCode: r.code, latestVersion: Number(r.latest) });
   return {
     returned: rows.filter((r) => statuses.get(r.id) === 'returned').map(sheet),
     drafts: rows.filter((r) => statuses.get(r.id) === 'draft').map(sheet),
@@ -79,5 +80,5 @@ async function awaitingIssue(db: Kysely<Database>, actor: Actor) {
     .where((eb) => eb.not(eb.exists(eb.selectFrom('checks as n').select('n.id').whereRef('n.sheet_id', '=', 'c.sheet_id').where('n.state', '=', 'approved').whereRef('n.version_number', '>', 'c.version_number'))))
     .orderBy('c.updated_at')
     .execute();
-  return rows.map((r) => ({ id: r.sheet_id, code: formatSheetNumber(r.code, r.number), title: r.title, projectCode: r.code, latestVersion: Number(r.latest), versionNumber: r.version_number, checkId: r.id }));
+  return rows.map((r) => ({ id: r.sheet_id, number: r.number, code: formatSheetNumber(r.code, r.number), title: r.title, projectCode: r.code, latestVersion: Number(r.latest), versionNumber: r.version_number, checkId: r.id }));
 }
