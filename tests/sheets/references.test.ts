@@ -10,6 +10,7 @@ import { beforeEach, describe, expect, it } from 'vitest';
 import type { Actor } from '../../lib/auth/actor';
 import { findReferences } from '../../lib/calc/references';
 import type { SheetResult, StatementResult } from '../../lib/calc/types';
+import { submissionFindings } from '../../lib/checks/submission-findings';
 import { decide, saveCheckWork, submitForCheck } from '../../lib/checks/workflow';
 import { listRevisions, processIssueJob, registerCsv, requestIssue, withdrawRevision } from '../../lib/issue/issue';
 import { revisionInputFlags, sheetImpact, sheetInputFlags, staleRevisionCounts, supersededInputs } from '../../lib/sheets/impact';
@@ -48,7 +49,10 @@ async function save(sheet: Sheet, source: string) {
 async function issue(sheet: Sheet, source: string) {
   const db = testDb();
   const saved = await save(sheet, source);
-  const { id } = await submitForCheck(db, people.author, sheet, { versionNumber: saved.number, checkerId: people.checker.userId, password: PASSWORD });
+  // A sheet with an evaluation error can only be submitted with each error acknowledged in writing.
+  const version = (await getVersion(db, sheet.id, saved.number))!;
+  const acknowledgements = submissionFindings(version.content, version.results).map((f) => ({ key: f.key, text: 'Deliberate: exercises a citation of a result that is not a number.' }));
+  const { id } = await submitForCheck(db, people.author, sheet, { versionNumber: saved.number, checkerId: people.checker.userId, password: PASSWORD, acknowledgements });
   await saveCheckWork(db, people.checker, id, { verificationMethod: 'design_review' });
   await decide(db, people.checker, id, { action: 'sign', password: PASSWORD });
   await decide(db, people.approver, id, { action: 'approve', password: PASSWORD });
