@@ -1,7 +1,9 @@
 import type { Metadata, Viewport } from 'next';
 import Link from 'next/link';
 import { AppHeader } from '@/components/shell/app-header';
+import { getDb } from '@/db';
 import { getActor } from '@/lib/auth/current-actor';
+import { myWork, navigationCounts } from '@/lib/home/my-work';
 import { APP_VERSION } from '@/lib/version';
 import { monoFont, textFont } from './fonts';
 import 'katex/dist/katex.min.css';
@@ -23,6 +25,16 @@ export default async function RootLayout({ children }: { children: React.ReactNo
   const demo = process.env.WORLDSHEET_DEMO === '1';
   // Shows who is signed in; it protects nothing (every page and route handler checks for itself).
   const actor = await getActor().catch(() => null);
+  // The counts beside the navigation (what waits for this person). A failure to count leaves the
+  // links without figures and is logged; it does not take the page down.
+  const counts = actor
+    ? await myWork(getDb(), actor)
+        .then(navigationCounts)
+        .catch((error: unknown) => {
+          console.error('navigation counts', error);
+          return null;
+        })
+    : null;
   return (
     <html lang="en" className={`${textFont.variable} ${monoFont.variable}`}>
       <body className="flex min-h-screen flex-col">
@@ -32,7 +44,7 @@ export default async function RootLayout({ children }: { children: React.ReactNo
         >
           Skip to content
         </a>
-        <AppHeader userName={actor?.name ?? null} isAdmin={actor?.isAdmin ?? false} />
+        <AppHeader userName={actor?.name ?? null} isAdmin={actor?.isAdmin ?? false} counts={counts} />
         <main id="main" className="mx-auto w-full max-w-sheet flex-1 px-gutter py-8">
           {children}
         </main>

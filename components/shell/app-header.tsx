@@ -1,5 +1,6 @@
 import Link from 'next/link';
 import { SignOutButton } from '@/components/auth/sign-out-button';
+import type { NavigationCounts } from '@/lib/home/my-work';
 import { BrandMark } from './brand-mark';
 import { NavLink } from './nav-link';
 
@@ -11,7 +12,21 @@ const NAV = [
   { href: '/verify', label: 'Verify' },
 ] as const;
 
-export function AppHeader({ userName, isAdmin = false }: { userName: string | null; isAdmin?: boolean }) {
+/** Which count each link shows (signed in): the queue behind it. */
+const COUNT_OF: Partial<Record<string, keyof NavigationCounts>> = { '/checks': 'checks', '/approvals': 'approvals', '/register': 'issue' };
+
+/** A count beside a link's label; its words are read out, the figure is what the eye sees. */
+function CountBadge({ n, what }: { n: number; what: string }) {
+  if (n <= 0) return null;
+  return (
+    <span className="ml-1.5 inline-block min-w-[1.25rem] rounded-full bg-accent px-1.5 text-center text-xs font-bold leading-5 text-white">
+      {n}
+      <span className="sr-only"> {what}</span>
+    </span>
+  );
+}
+
+export function AppHeader({ userName, isAdmin = false, counts = null }: { userName: string | null; isAdmin?: boolean; counts?: NavigationCounts | null }) {
   return (
     <header className="border-b border-rule bg-surface">
       <div className="mx-auto flex max-w-sheet flex-wrap items-center gap-x-6 gap-y-2 px-gutter py-3">
@@ -20,11 +35,21 @@ export function AppHeader({ userName, isAdmin = false }: { userName: string | nu
           <span className="text-lg font-bold tracking-tight">Worldsheet</span>
         </Link>
         <nav aria-label="Main" className="flex flex-wrap items-center gap-1">
-          {NAV.map((item) => (
-            <NavLink key={item.href} href={item.href}>
-              {item.label}
+          {userName ? (
+            <NavLink href="/" exact>
+              My work
+              <CountBadge n={counts?.work ?? 0} what="waiting for you" />
             </NavLink>
-          ))}
+          ) : null}
+          {NAV.map((item) => {
+            const count = COUNT_OF[item.href];
+            return (
+              <NavLink key={item.href} href={item.href}>
+                {item.label}
+                {count && counts ? <CountBadge n={counts[count]} what={count === 'issue' ? 'approved, waiting for issue' : 'waiting'} /> : null}
+              </NavLink>
+            );
+          })}
           {userName ? <NavLink href="/software-impact">Software impact</NavLink> : null}
           {isAdmin ? <NavLink href="/admin">Administration</NavLink> : null}
         </nav>

@@ -44,6 +44,23 @@ export function workCount(work: MyWork): number {
   return (work.returned?.length ?? 0) + (work.toCheck?.length ?? 0) + (work.toApprove?.filter((c) => c.eligible).length ?? 0) + (work.toIssue?.length ?? 0);
 }
 
+/** What the navigation shows beside its links: all of it on "My work", and each queue on its own link. */
+export interface NavigationCounts {
+  work: number;
+  checks: number;
+  approvals: number;
+  issue: number;
+}
+
+export function navigationCounts(work: MyWork): NavigationCounts {
+  return {
+    work: workCount(work),
+    checks: work.toCheck?.length ?? 0,
+    approvals: work.toApprove?.filter((c) => c.eligible).length ?? 0,
+    issue: work.toIssue?.length ?? 0,
+  };
+}
+
 async function ownSheets(db: Kysely<Database>, actor: Actor) {
   const rows = await db
     .selectFrom('sheets as s')

@@ -3,7 +3,7 @@
 import path from 'node:path';
 import { afterAll, beforeAll, expect, it } from 'vitest';
 import { DEMO_PASSWORD, seedDemo } from '../../db/seed';
-import { myWork } from '../../lib/home/my-work';
+import { myWork, navigationCounts } from '../../lib/home/my-work';
 import { resetDatabase, testDb } from '../support/database';
 import { actorByEmail } from '../support/people';
 import { closeBrowser, openBrowser, SCREENSHOT_DIR, startApp, submitSignIn, type RunningApp } from './harness';
@@ -41,6 +41,19 @@ for (const who of ['originator', 'checker', 'approver', 'controller']) {
     const expected = SECTIONS.filter(([key]) => work[key] !== null).map(([key, title]) => `${title} (${work[key]!.length})`);
     expect(expected.length).toBeGreaterThan(0);
     expect(headings).toEqual(expected);
+    // The navigation carries the same counts: all of it on "My work", each queue on its link (a
+    // link shows no figure when nothing waits).
+    const counts = navigationCounts(work);
+    const nav = session.page.getByRole('navigation', { name: 'Main' });
+    const shown = async (name: string) => {
+      const text = (await nav.getByRole('link', { name, exact: false }).innerText()).replace(name, '');
+      return Number(/\d+/.exec(text)?.[0] ?? 0);
+    };
+    expect(await shown('My work')).toBe(counts.work);
+    expect(await shown('My checks')).toBe(counts.checks);
+    expect(await shown('My approvals')).toBe(counts.approvals);
+    expect(await shown('Register')).toBe(counts.issue);
+    expect(counts.work).toBe(counts.checks + counts.approvals + counts.issue + (work.returned?.length ?? 0));
     await session.page.screenshot({ path: path.join(SCREENSHOT_DIR, `home-work-${who}.png`), fullPage: true });
     expect(session.problems).toEqual([]);
   }, 90_000);
