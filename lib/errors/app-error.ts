@@ -101,6 +101,18 @@ export function isMalformedValueError(error: unknown): boolean {
   return typeof code === 'string' && MALFORMED_VALUE_SQLSTATES.has(code);
 }
 
+// The record rules the database itself enforces (migrations: WS001 a record is only ever added,
+// WS002 a check names the hash of its version, WS003 a state change the record does not allow, such
+// as a new version of a void sheet). The application checks the same rules first; a request reaching
+// the database's refusal lost a race with another change, so it is a 409 with the database's words.
+const RECORD_RULE_SQLSTATES = new Set(['WS001', 'WS002', 'WS003']);
+
+/** Whether `error` is one of the database's record rules refusing a change. */
+export function isRecordRuleError(error: unknown): boolean {
+  const code = error instanceof Error ? (error as { code?: unknown }).code : undefined;
+  return typeof code === 'string' && RECORD_RULE_SQLSTATES.has(code);
+}
+
 /** Maps any error to a JSON response without leaking stacks or internals. */
 export function errorResponse(error: unknown): Response {
   if (!(error instanceof AppError) && isDatabaseConnectionError(error)) {
@@ -112,6 +124,10 @@ export function errorResponse(error: unknown): Response {
   }
   if (!(error instanceof AppError) && isMalformedValueError(error)) {
     error = new AppError('bad_request', 'A value in the request is not of the expected form or is out of range (an id that is not a UUID, a number beyond 2147483647).');
+  }
+  if (!(error instanceof AppError) && isRecordRuleError(error)) {
+    const message = (error as Error).message.slice(0, 300);
+    error = new AppError('conflict', `The record refuses this change (${message}); nothing was saved. Reload the page to see the record as it stands now.`, { rule: (error as { code: string }).code });
   }
   if (error instanceof AppError) {
     const headers = error.retryAfterSeconds === undefined ? undefined : { 'retry-after': String(Math.max(1, Math.ceil(error.retryAfterSeconds))) };

@@ -8,6 +8,7 @@ import path from 'node:path';
 import { sql } from 'kysely';
 import { beforeEach, describe, expect, it } from 'vitest';
 import { decide, submitForCheck } from '../../lib/checks/workflow';
+import { errorResponse } from '../../lib/errors/app-error';
 import { processIssueJob, requestIssue } from '../../lib/issue/issue';
 import { getVersion, listSheets, listVersions, saveVersion } from '../../lib/sheets/sheets';
 import { voidSheet } from '../../lib/sheets/void';
@@ -64,6 +65,10 @@ describe('voiding a sheet', () => {
     const insertVersion = sql`insert into versions (sheet_id, number, parent_number, content, content_hash, author_id)
       values (${w.sheet.id}, 2, 1, '{}'::jsonb, ${v1.sha256}, ${w.author.userId})`;
     await expect(insertVersion.execute(testDb())).rejects.toThrow(/the sheet is void: no new versions/);
+    // Reaching the database's refusal (a race the application's own check lost) answers 409 with its words, not 500.
+    const answer = errorResponse(await refusal(insertVersion.execute(testDb()), Error));
+    expect(answer.status).toBe(409);
+    expect(await answer.json()).toMatchObject({ error: { code: 'conflict', message: expect.stringMatching(/^The record refuses this change \(.*the sheet is void: no new versions.*\); nothing was saved\./), details: { rule: 'WS003' } } });
     const insertCheck = sql`insert into checks (sheet_id, project_id, version_number, version_sha256, submitted_by, checker_id)
       values (${w.sheet.id}, ${w.projectId}, 1, ${v1.sha256}, ${w.author.userId}, ${w.checker.userId})`;
     await expect(insertCheck.execute(testDb())).rejects.toThrow(/the sheet is void: no new checks/);
