@@ -3,7 +3,7 @@
 // give to the calculation engine. A version cites attachments by name and SHA-256 in its content,
 // so the version's own hash covers them.
 import { createHash } from 'node:crypto';
-import type { Kysely } from 'kysely';
+import type { Kysely, Transaction } from 'kysely';
 import { z } from 'zod';
 import type { Database } from '@/db/schema';
 import type { Actor } from '@/lib/auth/actor';
@@ -69,19 +69,22 @@ export interface UploadedFile {
   bytes: Uint8Array;
 }
 
+/** An attachment file that passed every check, ready to be stored: what upload and import share. */
+export interface CheckedAttachment {
+  name: string;
+  mediaType: string;
+  size: number;
+  sha256: string;
+  table: StoredTable | null;
+  bytes: Uint8Array;
+}
+
 /**
- * Checks and stores an uploaded file for a sheet. Refused with 413 when too large for its kind or
- * for the project's storage quota (./quota.ts),
- * 415 when its content is not an accepted kind or does not match its name or declared type, 400
- * for an unreadable data table. Uploading the same bytes under the same name again is harmless.
+ * Checks a file offered as an attachment: 413 when too large for its kind, 415 when its content is
+ * not an accepted kind or does not match its name or declared type, 400 for an unreadable data
+ * table or a table name cells could not use. Stores nothing.
  */
-export async function uploadAttachment(
-  db: Kysely<Database>,
-  store: ObjectStore,
-  actor: Actor,
-  sheet: { id: string; project_id: string },
-  file: UploadedFile,
-): Promise<AttachmentInfo> {
+export function checkAttachmentFile(file: UploadedFile): CheckedAttachment {
   if (file.bytes.length === 0) throw new AppError('bad_request', 'The file is empty.');
   if (file.bytes.length > MAX_ATTACHMENT_BYTES) throw new AppError('too_large', `The file is larger than any accepted attachment: ${ACCEPTED_DESCRIPTION}.`);
   const kind = sniffKind(file.bytes);
@@ -115,47 +118,100 @@ export async function uploadAttachment(
     if (problem) throw new AppError('bad_request', problem);
   }
   const sha256 = createHash('sha256').update(file.bytes).digest('hex');
-  const key = storageKey(sha256);
-  // The project's storage quota (./quota.ts): checked before the bytes are sent to storage, so a
-  // file plainly over it is not stored at all, and again under the project's row lock below.
-  await checkProjectStorageQuota(db, sheet.project_id, { sha256, size: file.bytes.length });
+  return { name, mediaType: spec.mediaType, size: file.bytes.length, sha256, table, bytes: file.bytes };
+}
+
+/**
+ * Sends checked files' bytes to object storage, after a first check of the project's storage quota
+ * (so that a file plainly over it is not stored at all). Write-once: bytes already there stay.
+ */
+export async function storeAttachmentBytes(db: Kysely<Database>, store: ObjectStore, projectId: string, files: readonly CheckedAttachment[]): Promise<void> {
+  for (const file of files) {
+    await checkProjectStorageQuota(db, projectId, { sha256: file.sha256, size: file.size });
+    await store.putOnce(storageKey(file.sha256), file.bytes, file.mediaType);
+  }
+}
+
+/**
+ * Records a stored attachment of a sheet inside `trx`, after the deciding quota check under the
+ * project's row lock; audited as `action`. False when the sheet already had these bytes under this name.
+ */
+export async function insertAttachment(
+  trx: Transaction<Database>,
+  actor: Actor,
+  sheet: { id: string; project_id: string },
+  file: CheckedAttachment,
+  action: 'attachment.upload' | 'attachment.import' = 'attachment.upload',
+): Promise<boolean> {
+  // The deciding check: concurrent uploads to one project pass it one at a time, each counting the
+  // ones before it. (One that loses leaves its bytes in storage with no row: write-once storage
+  // is never deleted from, and unreferenced bytes count against no project.)
+  await checkProjectStorageQuota(trx, sheet.project_id, { sha256: file.sha256, size: file.size }, { lock: true });
+  const row = await trx
+    .insertInto('attachments')
+    .values({
+      sheet_id: sheet.id,
+      project_id: sheet.project_id,
+      name: file.name,
+      media_type: file.mediaType,
+      size: file.size,
+      sha256: file.sha256,
+      storage_key: storageKey(file.sha256),
+      table_data: file.table ? JSON.stringify(file.table) : null,
+      uploaded_by: actor.userId,
+    })
+    .onConflict((oc) => oc.constraint('attachments_sheet_name_sha256_key').doNothing())
+    .returning('id')
+    .executeTakeFirst();
+  if (row) {
+    await recordAudit(trx, actor, {
+      action,
+      objectType: 'sheet',
+      objectId: sheet.id,
+      projectId: sheet.project_id,
+      newValue: { name: file.name, mediaType: file.mediaType, size: file.size, sha256: file.sha256 },
+    });
+  }
+  return row !== undefined;
+}
+
+/**
+ * Checks and stores an uploaded file for a sheet (checkAttachmentFile says what is refused; 413 also
+ * for the project's storage quota, ./quota.ts). Uploading the same bytes under the same name again
+ * is harmless.
+ */
+export async function uploadAttachment(
+  db: Kysely<Database>,
+  store: ObjectStore,
+  actor: Actor,
+  sheet: { id: string; project_id: string },
+  file: UploadedFile,
+): Promise<AttachmentInfo> {
+  const checked = checkAttachmentFile(file);
   // The object first: a row is only ever written for bytes that are stored.
-  await store.putOnce(key, file.bytes, spec.mediaType);
-  const inserted = await db.transaction().execute(async (trx) => {
-    // The deciding check: concurrent uploads to one project pass it one at a time, each counting the
-    // ones before it. (One that loses leaves its bytes in storage with no row: write-once storage
-    // is never deleted from, and unreferenced bytes count against no project.)
-    await checkProjectStorageQuota(trx, sheet.project_id, { sha256, size: file.bytes.length }, { lock: true });
-    const row = await trx
-      .insertInto('attachments')
-      .values({
-        sheet_id: sheet.id,
-        project_id: sheet.project_id,
-        name,
-        media_type: spec.mediaType,
-        size: file.bytes.length,
-        sha256,
-        storage_key: key,
-        table_data: table ? JSON.stringify(table) : null,
-        uploaded_by: actor.userId,
-      })
-      .onConflict((oc) => oc.constraint('attachments_sheet_name_sha256_key').doNothing())
-      .returning('id')
-      .executeTakeFirst();
-    if (row) {
-      await recordAudit(trx, actor, {
-        action: 'attachment.upload',
-        objectType: 'sheet',
-        objectId: sheet.id,
-        projectId: sheet.project_id,
-        newValue: { name, mediaType: spec.mediaType, size: file.bytes.length, sha256 },
-      });
-    }
-    return row !== undefined;
-  });
-  const info = (await listAttachments(db, sheet.id)).find((a) => a.name === name && a.sha256 === sha256);
-  if (!info) throw new Error(`attachment ${name} not found after upload (inserted: ${inserted})`);
+  await storeAttachmentBytes(db, store, sheet.project_id, [checked]);
+  const inserted = await db.transaction().execute((trx) => insertAttachment(trx, actor, sheet, checked));
+  const info = (await listAttachments(db, sheet.id)).find((a) => a.name === checked.name && a.sha256 === checked.sha256);
+  if (!info) throw new Error(`attachment ${checked.name} not found after upload (inserted: ${inserted})`);
   return info;
+}
+
+/**
+ * The input tables of checked files not yet stored (an import): the same names and clash rules as
+ * resolveAttachments.
+ */
+export function tablesOfFiles(files: readonly CheckedAttachment[]): InputTable[] {
+  const tables: InputTable[] = [];
+  const names = new Map<string, string>();
+  for (const file of files) {
+    if (!file.table) continue;
+    const name = tableNameFor(file.name);
+    const clash = names.get(name);
+    if (clash) throw new AppError('bad_request', `The data tables ${clash} and ${file.name} would both be called \`${name}\` in cells; keep only one of them.`);
+    names.set(name, file.name);
+    tables.push({ name, sha256: file.sha256, fileName: file.name, columns: file.table.columns });
+  }
+  return tables;
 }
 
 export async function listAttachments(db: Kysely<Database>, sheetId: string): Promise<AttachmentInfo[]> {

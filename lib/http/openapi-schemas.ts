@@ -6,6 +6,7 @@ import { z } from 'zod';
 import { attachmentSchema } from '@/lib/attachments/attachments';
 import { calculationRecordSchema, versionContentSchema } from '@/lib/sheets/content';
 import { sheetFileSchema } from '@/lib/calc/sheet-file';
+import { sheetFileAttachmentSchema } from '@/lib/sheets/sheet-files';
 import { PROJECT_ROLES } from '@/lib/projects/projects';
 
 const uuid = z.uuid();
@@ -124,6 +125,10 @@ export const sheetCreatedSchema = z.object({ id: uuid, number: z.number().int(),
 export const sheetImportedSchema = sheetCreatedSchema.extend({
   version: z.number().int().meta({ description: 'The version holding the imported file (2: version 1 is the sheet as created).' }),
   sha256,
+  attachments: z.object({
+    carried: z.array(z.string()).meta({ description: 'Attachments imported from the file, their SHA-256 verified.' }),
+    notCarried: z.array(z.string()).meta({ description: 'Attachments the file lists without their bytes: not imported; upload them again.' }),
+  }),
 });
 
 /** What the engine answers for a sheet; the full shape is `SheetResult` in lib/calc/types.ts. */
@@ -212,7 +217,29 @@ export const comparisonSchema = z.object({
 export const exportedSheetFileSchema = sheetFileSchema.extend({
   safetyRelated: z.boolean(),
   record: calculationRecordSchema,
+  attachments: z.array(sheetFileAttachmentSchema).meta({ description: 'The attachments the version cites; with `?attachments=include`, each with its bytes.' }),
   exportedFrom: z.object({ sheet: z.string(), version: z.number().int(), sha256 }),
+});
+
+/** What POST …/sheets/import/preview answers: what the import would create, checked, nothing created. */
+export const importPreviewSchema = z.object({
+  title: z.string(),
+  safetyRelated: z.boolean(),
+  calcCells: z.number().int(),
+  textCells: z.number().int(),
+  significantFigures: z.number().int(),
+  displayUnits: z.enum(['si', 'trade']),
+  exportedFrom: z.object({ sheet: z.string(), version: z.number().int(), sha256 }).nullable(),
+  unchangedSinceExport: z.boolean().nullable().meta({ description: 'Whether the file still hashes to the SHA-256 of the version it was exported from; null when it names none.' }),
+  attachments: z.array(
+    z.object({
+      name: z.string(),
+      mediaType: z.string(),
+      size: z.number().int(),
+      sha256,
+      carried: z.boolean().meta({ description: 'True: the file carries the bytes and they match the size and SHA-256 (the import stores them). False: listed only; not imported.' }),
+    }),
+  ),
 });
 
 export const healthSchema = z.object({

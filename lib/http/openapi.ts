@@ -18,7 +18,7 @@ import { PATH_PARAMS } from '@/lib/http/params';
 import { projectInputSchema, roleChangeSchema } from '@/lib/projects/projects';
 import { inviteSchema, userChangeSchema } from '@/lib/projects/users';
 import { compareQuerySchema } from '@/lib/sheets/compare';
-import { exportQuerySchema } from '@/lib/sheets/sheet-files';
+import { exportQuerySchema, importQuerySchema } from '@/lib/sheets/sheet-files';
 import { softwareImpactQuerySchema } from '@/lib/sheets/software-impact';
 import { createSheetSchema, saveVersionSchema } from '@/lib/sheets/sheets';
 import { voidSheetSchema } from '@/lib/sheets/void';
@@ -414,12 +414,28 @@ export const OPERATIONS: Operation[] = [
     path: '/api/projects/{projectId}/sheets/import',
     operationId: 'importSheetFile',
     summary: 'Import a sheet file as a new sheet',
-    description: 'Originators of the project. Version 1 is the sheet as created, version 2 holds the file. At most 4 MiB.',
+    description:
+      'Originators of the project. Version 1 is the sheet as created, version 2 holds the file. At most 32 MiB. ' +
+      'Attachments the file carries (`contentBase64`) are checked against their size and SHA-256 and stored on the new sheet; a mismatch refuses the whole import (400). ' +
+      'Attachments listed without their bytes are not imported (named in the answer). `title` replaces the file\'s title. The screen shows POST …/import/preview first.',
     tags: ['sheets'],
     auth: 'session or API token',
     params: projectParam,
+    query: importQuerySchema,
     body: { schema: sheetFileSchema, description: 'A sheet file, e.g. one from GET /api/sheets/{sheetId}/export.' },
     responses: { 201: json('The new sheet and the version holding the file.', res.sheetImportedSchema), ...errors([400, 401, 403, 404, 413]) },
+  },
+  {
+    method: 'POST',
+    path: '/api/projects/{projectId}/sheets/import/preview',
+    operationId: 'previewSheetFileImport',
+    summary: 'Check a sheet file and say what importing it would create, creating nothing',
+    description: 'Originators of the project. The same checks as the import (attachments against their SHA-256); the confirmation before an import.',
+    tags: ['sheets'],
+    auth: 'session or API token',
+    params: projectParam,
+    body: { schema: sheetFileSchema, description: 'A sheet file.' },
+    responses: { 200: json('What the import would create.', res.importPreviewSchema), ...errors([400, 401, 403, 404, 413]) },
   },
   {
     method: 'GET',
@@ -525,14 +541,14 @@ export const OPERATIONS: Operation[] = [
     path: '/api/sheets/{sheetId}/export',
     operationId: 'exportSheetFile',
     summary: 'Download a version as a sheet file',
-    description: `${member} The latest version, or \`version\`. The command-line evaluator and the import read this file.`,
+    description: `${member} The latest version, or \`version\`. The command-line evaluator and the import read this file. With \`attachments=include\` it carries each attachment's bytes (413 when the file would exceed what an import reads).`,
     tags: ['sheets'],
     auth: 'session or API token',
     params: sheetParam,
     query: exportQuerySchema,
     responses: {
       200: { description: 'The sheet file, as a download (`content-disposition: attachment`).', content: { 'application/json': res.exportedSheetFileSchema } },
-      ...errors([400, 401, 404]),
+      ...errors([400, 401, 404, 413, 503]),
     },
   },
   {

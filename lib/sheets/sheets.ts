@@ -10,7 +10,8 @@ import { recordAudit } from '@/lib/audit/record';
 import { bidiControlsInCalcCells } from '@/lib/calc/bidi-controls';
 import { findReferences } from '@/lib/calc/references';
 import type { InputTable, ResolvedReference, SheetResult } from '@/lib/calc/types';
-import { resolveAttachments } from '@/lib/attachments/attachments';
+import { insertAttachment, resolveAttachments, storeAttachmentBytes, tablesOfFiles, type CheckedAttachment } from '@/lib/attachments/attachments';
+import type { ObjectStore } from '@/lib/storage/object-store';
 import { evaluateSandboxed, evaluationScope } from './evaluate-sandboxed';
 import { sheetStatuses } from '@/lib/checks/status';
 import { AppError } from '@/lib/errors/app-error';
@@ -127,14 +128,29 @@ export async function createSheet(db: Kysely<Database>, actor: Actor, project: {
  * Creates a sheet and saves `content` as its version 2 in one transaction: both are evaluated first,
  * so that a sheet never exists without the content it was created for (an import).
  */
-export async function createSheetWithContent(db: Kysely<Database>, actor: Actor, project: { id: string; code: string }, content: VersionContent, message: string) {
+export async function createSheetWithContent(
+  db: Kysely<Database>,
+  actor: Actor,
+  project: { id: string; code: string },
+  content: VersionContent,
+  message: string,
+  files: { checked: CheckedAttachment[]; store: ObjectStore } | null = null,
+) {
   const input = { title: content.title, safetyRelated: content.safetyRelated, objective: content.record.objective };
   const first = firstContent(input);
   const firstResults = await evaluateContent(first, { sheetKey: `new:${project.id}`, projectId: project.id, userId: actor.userId });
-  // A new sheet has no attachments yet, and no revision of its own that a cell could cite.
-  const prepared = await prepareVersion(db, { id: null, project_id: project.id }, content, actor.userId);
+  // A new sheet has no attachments but the files it brings (already checked), and no revision of its
+  // own that a cell could cite.
+  const checked = files?.checked ?? [];
+  const cited = new Set(checked.map((f) => `${f.name}\u0000${f.sha256}`));
+  const stray = content.attachments.find((a) => !cited.has(`${a.name}\u0000${a.sha256}`));
+  if (stray) throw new AppError('bad_request', `The attachment ${stray.name} is cited but its file is not carried.`);
+  const prepared = await prepareVersion(db, { id: null, project_id: project.id }, content, actor.userId, tablesOfFiles(checked));
+  // The bytes first (write-once storage): an attachment row is only ever written for stored bytes.
+  if (files && checked.length > 0) await storeAttachmentBytes(db, files.store, project.id, checked);
   return db.transaction().execute(async (trx) => {
     const sheet = await insertSheet(trx, actor, project, input, first, firstResults);
+    for (const file of checked) await insertAttachment(trx, actor, { id: sheet.id, project_id: project.id }, file, 'attachment.import');
     const saved = await insertVersion(trx, actor, { id: sheet.id, project_id: project.id }, { parentNumber: 1, message, content }, prepared);
     return { ...sheet, version: saved.number, sha256: saved.sha256 };
   });
@@ -146,7 +162,7 @@ export async function getSheet(db: Kysely<Database>, sheetId: string) {
 }
 
 export async function getSheetByNumber(db: Kysely<Database>, projectId: string, number: number) {
-  return db.selectFrom('sheets').select(['id', 'project_id', 'number', 'title', 'safety_related', 'created_by', 'created_at']).where('project_id', '=', projectId).where('number', '=', number).executeTakeFirst();
+  return db.selectFrom('sheets').select(['id', 'project_id', 'number', 'title', 'safety_related', 'created_by', 'created_at', 'voided_at', 'void_reason']).where('project_id', '=', projectId).where('number', '=', number).executeTakeFirst();
 }
 
 export async function listVersions(db: Kysely<Database>, sheetId: string) {
@@ -177,13 +193,14 @@ interface PreparedVersion {
   hash: string;
 }
 
-async function prepareVersion(db: Kysely<Database>, sheet: { id: string | null; project_id: string }, content: VersionContent, userId: string): Promise<PreparedVersion> {
+async function prepareVersion(db: Kysely<Database>, sheet: { id: string | null; project_id: string }, content: VersionContent, userId: string, newTables?: InputTable[]): Promise<PreparedVersion> {
   // The save schema refuses these already; this keeps any other way in (a caller that builds content
   // itself) from storing a calculation that reads differently from what is evaluated.
   const bidi = bidiControlsInCalcCells(content.cells);
   if (bidi.length > 0) throw new AppError('bad_request', bidi[0].message, bidi);
   // Every attachment the content cites must be one uploaded to this sheet; CSV tables feed the cells.
-  const tables = sheet.id ? await resolveAttachments(db, sheet.id, content.attachments) : [];
+  // (A sheet being created has none yet: its caller gives the tables of the files it brings.)
+  const tables = sheet.id ? await resolveAttachments(db, sheet.id, content.attachments) : (newTables ?? []);
   // Citations of other sheets' issued revisions: resolved to the values as issued before evaluating.
   const citations = await resolveCitations(db, sheet.project_id, findReferences(content.cells), sheet.id ? { excludeSheetId: sheet.id } : {});
   const results = await evaluateContent(content, { sheetKey: sheet.id ?? `new:${sheet.project_id}`, projectId: sheet.project_id, userId }, tables, citations.map((c) => c.reference));

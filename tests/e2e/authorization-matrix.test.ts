@@ -129,6 +129,10 @@ const MATRIX: Record<string, Entry> = {
     request: (w) => ({ path: `/api/projects/${w.projectId}/sheets/import`, body: { title: 'Imported in the matrix', cells: [{ kind: 'calc', source: 'x_1 = 1 m' }] } }),
     expect: originatorOnly(201),
   },
+  'POST /api/projects/[projectId]/sheets/import/preview': {
+    request: (w) => ({ path: `/api/projects/${w.projectId}/sheets/import/preview`, body: { title: 'Previewed in the matrix', cells: [{ kind: 'calc', source: 'x_1 = 1 m' }] } }),
+    expect: originatorOnly(200),
+  },
   'GET /api/sheets/[sheetId]/export': { request: (w) => ({ path: `/api/sheets/${w.sheetId}/export` }), expect: memberOnly(200) },
   'GET /api/sheets/[sheetId]': { request: (w) => ({ path: `/api/sheets/${w.sheetId}` }), expect: memberOnly(200) },
   'GET /api/sheets/[sheetId]/versions': { request: (w) => ({ path: `/api/sheets/${w.sheetId}/versions` }), expect: memberOnly(200) },

@@ -122,6 +122,47 @@ describe('sheets and versions', () => {
     expect(rows.rows.length).toBeGreaterThanOrEqual(3);
     for (const r of rows.rows) expect(createHash('sha256').update(canonicalize(r.content)!).digest('hex')).toBe(r.content_hash);
   });
+
+  it('exports a version with its attachments; the import previews it, creating nothing, then brings them back with a new title', async () => {
+    const register = await api(`/api/projects/${projectId}/sheets`);
+    const tof = register.body.sheets.find((x: { code: string }) => x.code === 'BEAM-CALC-0002');
+    const form = new FormData();
+    const csv = 'energy [MeV], field [T]\n70, 0.4\n250, 1.3\n';
+    form.append('file', new Blob([csv], { type: 'text/csv' }), 'energy-scan.csv');
+    const uploaded = await fetch(`${app.baseUrl}/api/sheets/${tof.id}/attachments`, { method: 'POST', headers: { authorization: `Bearer ${token}` }, body: form });
+    expect(uploaded.status).toBe(201);
+    const ref = await uploaded.json();
+    const latest = (await api(`/api/sheets/${tof.id}`)).body.version;
+    const content = { ...latest.content, attachments: [{ name: ref.name, mediaType: ref.mediaType, size: ref.size, sha256: ref.sha256 }], cells: [{ id: 'c1', kind: 'calc', source: 'T_top = max(energy_scan.energy)' }] };
+    expect((await api(`/api/sheets/${tof.id}/versions`, { method: 'POST', body: { parentNumber: latest.number, message: 'Scan', content } })).status).toBe(201);
+
+    const plain = await (await fetch(`${app.baseUrl}/api/sheets/${tof.id}/export`, { headers: { authorization: `Bearer ${token}` } })).json();
+    expect(plain.attachments).toEqual([{ name: 'energy-scan.csv', mediaType: 'text/csv', size: csv.length, sha256: createHash('sha256').update(csv).digest('hex') }]);
+    const response = await fetch(`${app.baseUrl}/api/sheets/${tof.id}/export?attachments=include`, { headers: { authorization: `Bearer ${token}` } });
+    expect(response.headers.get('content-disposition')).toBe('attachment; filename="BEAM-CALC-0002-v2-with-attachments.json"');
+    const file = await response.json();
+    expect(Buffer.from(file.attachments[0].contentBase64, 'base64').toString('utf8')).toBe(csv);
+
+    const before = (await api(`/api/projects/${projectId}/sheets`)).body.sheets.length;
+    const preview = await api(`/api/projects/${projectId}/sheets/import/preview`, { method: 'POST', body: file });
+    expect(preview).toMatchObject({ status: 200, body: { title: 'Time of flight', unchangedSinceExport: true, exportedFrom: { sheet: 'BEAM-CALC-0002', version: 2 }, attachments: [{ name: 'energy-scan.csv', carried: true }] } });
+    expect((await api(`/api/projects/${projectId}/sheets`)).body.sheets.length).toBe(before);
+
+    const imported = await api(`/api/projects/${projectId}/sheets/import?title=${encodeURIComponent('Time of flight, beam line 2')}`, { method: 'POST', body: file });
+    expect(imported).toMatchObject({ status: 201, body: { version: 2, attachments: { carried: ['energy-scan.csv'], notCarried: [] } } });
+    const copy = (await api(`/api/sheets/${imported.body.id}/versions/2`)).body.version;
+    expect(copy.content.title).toBe('Time of flight, beam line 2');
+    expect(copy.results.cells[0].statements[0].value).toMatchObject({ number: 250, unit: 'MeV' });
+    const attachments = (await api(`/api/sheets/${imported.body.id}/attachments`)).body.attachments;
+    expect(attachments.map((a: { name: string; sha256: string }) => [a.name, a.sha256])).toEqual([['energy-scan.csv', ref.sha256]]);
+
+    // One changed byte in the carried file: refused, nothing created.
+    const tampered = { ...file, attachments: [{ ...file.attachments[0], contentBase64: Buffer.from(csv.replace('250', '251')).toString('base64') }] };
+    const refused = await api(`/api/projects/${projectId}/sheets/import`, { method: 'POST', body: tampered });
+    expect(refused.status).toBe(400);
+    expect(refused.body.error.message).toMatch(/energy-scan\.csv in the file does not match its record/);
+    expect((await api(`/api/projects/${projectId}/sheets`)).body.sheets.length).toBe(before + 1);
+  });
 });
 
 describe('attachments', () => {
