@@ -3,6 +3,7 @@
 import { describe, expect, it } from 'vitest';
 import { CONSTANTS } from '../../lib/calc/constants';
 import { createSheetEngine } from '../../lib/calc/sheet-engine';
+import { D, ulpError } from './reference-math';
 
 const { parse } = createSheetEngine().em;
 const si = (expr: string, unit: string) => (parse(expr).compile().evaluate() as { toNumber(u: string): number }).toNumber(unit);
@@ -77,5 +78,107 @@ describe('constants (SI 2019 exact, CODATA 2022)', () => {
     expect(si('electricConstant', 'F/m')).toBe(8.8541878188e-12); // CODATA 2022, from memory
     expect(si('elementaryCharge', 'C')).toBe(1.602176634e-19); // SI Brochure table 1
     expect(si('speedOfLight', 'm/s')).toBe(299792458); // SI Brochure table 1
+  });
+});
+
+describe('the particle and ion table (CODATA 2022, PDG 2024, AME 2020)', () => {
+  const value = (name: string) => CONSTANTS.find((c) => c.name === name)!;
+  const M_U = 1.66053906892e-27; // CODATA 2022: atomic mass constant, kg
+  const MEV = 1.602176634e-13; // SI Brochure table 8: 1 MeV = 1.602 176 634e-13 J exactly
+  const mev = (name: string) => (value(name).value * 299792458 ** 2) / MEV;
+  const inU = (name: string) => value(name).value / M_U;
+  const eVinU = 1.07354410083e-9; // CODATA 2022: 1 eV/c² = 1.073 544 100 83(33)e-9 u
+
+  it('carries the CODATA 2022 light nuclei and τ with their uncertainties', () => {
+    // CODATA 2022, recalled from memory; every value agrees with the CODATA 2022 table of scipy.constants 1.17.
+    expect(value('m_d')).toMatchObject({ value: 3.3435837768e-27, uncertainty: 1.0e-36, unit: 'kg' });
+    expect(value('m_triton')).toMatchObject({ value: 5.0073567512e-27, uncertainty: 1.6e-36 });
+    expect(value('m_helion')).toMatchObject({ value: 5.0064127862e-27, uncertainty: 1.6e-36 });
+    expect(value('m_alpha')).toMatchObject({ value: 6.644657345e-27, uncertainty: 2.1e-36 });
+    expect(value('m_tau')).toMatchObject({ value: 3.16754e-27, uncertainty: 2.1e-31 });
+    // CODATA 2022 relative atomic masses A_r = m/m_u (the kg values are A_r·m_u rounded to 11 digits).
+    expect(inU('m_d')).toBeCloseTo(2.013553212544, 9); // CODATA 2022: 2.013 553 212 544(15)
+    expect(inU('m_triton')).toBeCloseTo(3.01550071597, 9); // CODATA 2022: 3.015 500 715 97(10)
+    expect(inU('m_helion')).toBeCloseTo(3.014932246932, 9); // CODATA 2022: 3.014 932 246 932(74)
+    expect(inU('m_alpha')).toBeCloseTo(4.001506179129, 9); // CODATA 2022: 4.001 506 179 129(62)
+    // CODATA 2022 energy equivalents (from memory, as in scipy.constants 1.17).
+    expect(mev('m_d')).toBeCloseTo(1875.61294500, 5); // CODATA 2022: m_d c² = 1875.612 945 00(58) MeV
+    expect(mev('m_triton')).toBeCloseTo(2808.92113668, 5); // CODATA 2022: 2808.921 136 68(88) MeV
+    expect(mev('m_helion')).toBeCloseTo(2808.39161112, 5); // CODATA 2022: 2808.391 611 12(88) MeV
+    expect(mev('m_alpha')).toBeCloseTo(3727.3794118, 5); // CODATA 2022: 3727.379 4118(12) MeV
+    // τ: CODATA 2022 3.167 54(21)e-27 kg is 1776.86 MeV/c²; PDG 2024 gives 1776.93(9) MeV (from memory): within both uncertainties.
+    expect(Math.abs(mev('m_tau') - 1776.93)).toBeLessThan(Math.hypot(0.12, 0.09));
+  });
+
+  it('converts the PDG 2024 masses from MeV/c² to kg exactly (the double nearest 10⁶ e/c² × the MeV value)', () => {
+    // PDG 2024 (from memory): π± 139.570 39(18), π⁰ 134.9768(5), K± 493.677(15), K⁰ 497.611(13), Λ 1115.683(6) MeV.
+    const pdg: Array<[string, string, number]> = [
+      ['m_pi', '139.57039', 0.00018],
+      ['m_pi0', '134.9768', 0.0005],
+      ['m_K', '493.677', 0.015],
+      ['m_K0', '497.611', 0.013],
+      ['m_Lambda', '1115.683', 0.006],
+    ];
+    const perMeV = new D('1e6').mul('1.602176634e-19').div(new D(299792458).pow(2)); // SI 2019: exact e and c
+    for (const [name, mevValue, u] of pdg) {
+      const k = value(name);
+      expect(ulpError(k.value, new D(mevValue).mul(perMeV)), name).toBeLessThanOrEqual(0.5);
+      expect(k.uncertainty / (u * perMeV.toNumber()), name).toBeCloseTo(1, 1); // two significant digits
+      expect(k.provenance).toContain('PDG');
+      expect(k.provenance).toContain('converted to kg exactly');
+    }
+    // PDG 2024 mass differences (from memory): m(π±) − m(π⁰) = 4.5936(5) MeV; m(K⁰) − m(K±) = 3.934(20) MeV.
+    expect(mev('m_pi') - mev('m_pi0')).toBeCloseTo(4.5936, 3);
+    expect(mev('m_K0') - mev('m_K')).toBeCloseTo(3.934, 2);
+  });
+
+  it('carries the AME 2020 atomic masses of the therapy ions, converted with the CODATA 2022 m_u', () => {
+    // AME 2020, from memory: ¹H 1.007 825 031 898(14) u, ⁴He 4.002 603 254 13(16) u, ¹²C 12 u exactly,
+    // ¹⁶O 15.994 914 619 26(32) u, ²⁰Ne 19.992 440 1762(17) u.
+    const ame: Array<[string, string]> = [
+      ['M_H1', '1.007825031898'],
+      ['M_He4', '4.00260325413'],
+      ['M_C12', '12'],
+      ['M_O16', '15.99491461926'],
+      ['M_Ne20', '19.9924401762'],
+    ];
+    for (const [name, ar] of ame) {
+      const k = value(name);
+      expect(ulpError(k.value, new D(ar).mul('1.66053906892e-27')), name).toBeLessThanOrEqual(0.5);
+      expect(k.description, name).toContain('neutral atom, electrons included');
+      expect(k.provenance, name).toMatch(/AME 2020|exactly 12 u/);
+    }
+    expect(inU('M_C12')).toBe(12); // SI Brochure (2019), definition of the dalton: m(¹²C) = 12 u exactly
+  });
+
+  it('agrees across the tables: nuclei from atoms minus electrons plus their binding energy', () => {
+    const me = 5.485799090441e-4; // CODATA 2022: A_r(e) = 5.485 799 090 441(97)e-4
+    // α = M(⁴He) − 2m_e + 79.005 15 eV/c² (He ionization energies 24.587 387 + 54.417 765 eV, NIST ASD, from memory).
+    expect(inU('M_He4') - 2 * me + 79.00515 * eVinU).toBeCloseTo(inU('m_alpha'), 10);
+    // p = M(¹H) − m_e + 13.598 434 eV/c² (H ionization energy, NIST ASD, from memory); A_r(p) = 1.007 276 466 5789 (CODATA 2022).
+    expect(inU('M_H1') - me + 13.598434 * eVinU).toBeCloseTo(1.0072764665789, 10);
+    // d = M(²H) − m_e + 13.602 eV/c² with M(²H) = 2.014 101 777 844(15) u (AME 2020, from memory).
+    expect(2.014101777844 - me + 13.602 * eVinU).toBeCloseTo(inU('m_d'), 10);
+    // t = M(³H) − m_e + 13.603 eV/c² with M(³H) = 3.016 049 281 32(8) u (AME 2020, from memory).
+    expect(3.01604928132 - me + 13.603 * eVinU).toBeCloseTo(inU('m_triton'), 9);
+    // h = M(³He) − 2m_e + 78.98 eV/c² with M(³He) = 3.016 029 321 967(60) u (AME 2020, from memory).
+    expect(3.016029321967 - 2 * me + 78.98 * eVinU).toBeCloseTo(inU('m_helion'), 10);
+  });
+
+  it('names nothing a sheet might mean otherwise, and no name can be redefined', () => {
+    const engine = createSheetEngine();
+    const names = ['m_d', 'm_triton', 'm_helion', 'm_alpha', 'm_tau', 'm_pi', 'm_pi0', 'm_K', 'm_K0', 'm_Lambda', 'M_H1', 'M_He4', 'M_C12', 'M_O16', 'M_Ne20'];
+    for (const name of names) {
+      expect(engine.em.isUnitName(name), name).toBe(false);
+      expect(engine.em.isFunctionName(name), name).toBe(false);
+      expect(CONSTANTS.filter((k) => k.name === name), name).toHaveLength(1);
+      const r = engine.evaluate([{ id: 'c1', kind: 'calc', source: `${name} = 2 kg` }], { significantFigures: 6 });
+      expect(r.cells[0].statements[0].error, name).toContain('built-in constant');
+    }
+    // m_t is the top-quark mass and m_h the Higgs mass in PDG notation: the table uses m_triton and m_helion.
+    expect(CONSTANTS.some((k) => k.name === 'm_t' || k.name === 'm_h')).toBe(false);
+    const r = engine.evaluate([{ id: 'c1', kind: 'calc', source: 'x = m_pi to MeV/c^2\ny = M_C12 to u' }], { significantFigures: 8 });
+    expect(r.cells[0].statements[0].value?.text).toBe('139.570\u202f39 MeV/c²'); // PDG 2024
+    expect(r.cells[0].statements[1].value?.text).toBe('12 u'); // 12 u exactly (definition of u)
   });
 });
