@@ -68,6 +68,14 @@ const VALID: Record<string, number[]> = {
   cyclotronFrequency: [1.602176634e-19, 1, M_P, 1e-12],
   momentumSpreadFromEnergySpread: [1e-3, 0.5],
   energySpreadFromMomentumSpread: [1e-3, 0.5],
+  hyperbolicSpeedFromDistance: [G_N, 1e15],
+  hyperbolicCoordinateTimeFromDistance: [G_N, 1e15],
+  hyperbolicProperTimeFromDistance: [G_N, 1e15],
+  hyperbolicTripCoordinateTime: [8e-4, 4.5e11],
+  hyperbolicTripProperTime: [8e-4, 4.5e11],
+  hyperbolicTripPeakSpeed: [8e-4, 4.5e11],
+  slipFactor: [3.225e-4, 479.6],
+  transitionGamma: [3.225e-4],
 };
 
 /** Runs the call and returns the DomainError it must throw. */
@@ -223,6 +231,16 @@ describe('masses, energies and other magnitudes', () => {
     ['aberrationAngle', [-3.2, 0.5], 'got theta = -3.2 rad'],
     ['kineticEnergy', [1e300, 0.99], 'kineticEnergy: the result is outside the range of double-precision numbers'],
     ['rindlerHorizonDistance', [1e-300], 'rindlerHorizonDistance: the result is outside the range'],
+    // hyperbolic motion by distance, trips, rings
+    ['hyperbolicSpeedFromDistance', [G_N, -1], 'hyperbolicSpeedFromDistance: d must be ≥ 0 (the distance covered from rest); got d = -1 m'],
+    ['hyperbolicCoordinateTimeFromDistance', [0, 1], 'hyperbolicCoordinateTimeFromDistance: a0 must not be 0 when d > 0'],
+    ['hyperbolicProperTimeFromDistance', [0, 1e-300], 'hyperbolicProperTimeFromDistance: a0 must not be 0 when d > 0'],
+    ['hyperbolicTripCoordinateTime', [G_N, -5], 'hyperbolicTripCoordinateTime: d must be ≥ 0'],
+    ['hyperbolicTripProperTime', [0, 4.5e11], 'hyperbolicTripProperTime: a0 must not be 0 when d > 0'],
+    ['hyperbolicTripPeakSpeed', [8e-4, -4.5e11], 'hyperbolicTripPeakSpeed: d must be ≥ 0'],
+    ['slipFactor', [3.225e-4, 0.999], 'slipFactor: gamma must be ≥ 1 (a Lorentz factor); got gamma = 0.999'],
+    ['transitionGamma', [0], 'transitionGamma: alpha_c must be > 0 (a ring with α_c ≤ 0 has no transition energy); got alpha_c = 0'],
+    ['transitionGamma', [-0.01], 'got alpha_c = -0.01'],
   ];
 
   it.each(cases)('%s(%j) is refused: %s', (name, args, message) => {
@@ -269,12 +287,22 @@ describe('edges of the domain that make physical sense are accepted', () => {
     expect(call('thresholdKinetic', M_N, M_P, M_P + M_E)).toBe(0); // exothermic: no threshold
     expect(call('magneticRigidity', 1e-18, -1.602176634e-19)).toBeLessThan(0); // negative charges bend the other way
     expect(call('hyperbolicSpeed', -G_N, 1e7)).toBeLessThan(0); // acceleration in the negative direction
+    for (const name of ['hyperbolicSpeedFromDistance', 'hyperbolicCoordinateTimeFromDistance', 'hyperbolicProperTimeFromDistance', 'hyperbolicTripCoordinateTime', 'hyperbolicTripProperTime', 'hyperbolicTripPeakSpeed']) {
+      expect(call(name, 0, 0), name).toBe(0); // no distance: no time, no speed, with or without acceleration
+      expect(call(name, G_N, 0), name).toBe(0);
+    }
+    expect(call('hyperbolicSpeedFromDistance', -G_N, 1e15)).toBeLessThan(0); // acceleration in the negative direction
+    expect(call('hyperbolicTripPeakSpeed', -G_N, 1e15)).toBeLessThan(0);
+    expect(call('hyperbolicTripProperTime', -G_N, 1e15)).toBe(call('hyperbolicTripProperTime', G_N, 1e15)); // times depend on |a0|
+    expect(call('slipFactor', -1e-3, 1)).toBe(-1.001); // negative momentum compaction, γ = 1
   });
 
   it('speeds that round to c are returned as the largest double below 1', () => {
     expect(call('speedFromKinetic', 1e3 * M_E * C * C * 1e6, M_E)).toBe(BELOW_ONE);
     expect(call('hyperbolicSpeed', G_N, 1e20)).toBe(BELOW_ONE);
     expect(call('hyperbolicSpeed', -G_N, 1e20)).toBe(-BELOW_ONE);
+    expect(call('hyperbolicSpeedFromDistance', G_N, 1e300)).toBe(BELOW_ONE);
+    expect(call('hyperbolicTripPeakSpeed', -1e300, 1e300)).toBe(-BELOW_ONE);
     expect(call('rocketDeltaV', 1, 1e30)).toBe(BELOW_ONE);
     expect(call('addVelocities', BELOW_ONE, BELOW_ONE)).toBe(BELOW_ONE);
     expect(call('addVelocities', -BELOW_ONE, -BELOW_ONE)).toBe(-BELOW_ONE);

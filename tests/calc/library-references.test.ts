@@ -337,6 +337,93 @@ describe('the rocket mass ratio (Ackeret 1946; Rindler 2006, ch. 6)', () => {
   });
 });
 
+describe('constant proper acceleration by distance, and accelerate-then-decelerate trips (Rindler 2006, ch. 3)', () => {
+  const speedFromDistance = k2(lib.hyperbolicSpeedFromDistance);
+  const timeFromDistance = k2(lib.hyperbolicCoordinateTimeFromDistance);
+  const properTimeFromDistance = k2(lib.hyperbolicProperTimeFromDistance);
+  const tripTime = k2(lib.hyperbolicTripCoordinateTime);
+  const tripProperTime = k2(lib.hyperbolicTripProperTime);
+  const tripPeakSpeed = k2(lib.hyperbolicTripPeakSpeed);
+
+  it('the relativistic-rocket trip table: rest to rest at 1 g, half accelerating, half braking', () => {
+    // from memory: P. Gibbs and D. Koks, "The Relativistic Rocket", Usenet Physics FAQ, table of trips at 1 g
+    // (accelerate for half the way, decelerate for the other half): ship time and Earth time in years.
+    expectQuoted(tripProperTime(G_N, 4.3 * LIGHT_YEAR) / YEAR, 3.6, 0.1); // Alpha Centauri, 4.3 ly: 3.6 years on board
+    expectQuoted(tripTime(G_N, 4.3 * LIGHT_YEAR) / YEAR, 5.9, 0.1); // … 5.9 years on Earth
+    expectQuoted(tripProperTime(G_N, 27 * LIGHT_YEAR) / YEAR, 6.6, 0.1); // Vega, 27 ly: 6.6 years
+    expectQuoted(tripProperTime(G_N, 30_000 * LIGHT_YEAR) / YEAR, 20, 1); // centre of the Galaxy, 30 000 ly: 20 years
+    expectQuoted(tripProperTime(G_N, 2e6 * LIGHT_YEAR) / YEAR, 28, 1); // Andromeda galaxy, 2 000 000 ly: 28 years
+    // Rindler (2006) ch. 3: at the midpoint γ = 1 + a(d/2)/c², so βγ there is √(γ² − 1).
+    const gammaMid = 1 + (G_N * 2.15 * LIGHT_YEAR) / (C * C);
+    expectRelative(lorentzFactor(tripPeakSpeed(G_N, 4.3 * LIGHT_YEAR)), gammaMid, 1e-12);
+  });
+
+  it('an electron from rest in a uniform field moves hyperbolically (Rindler 2006, ch. 3): γ − 1 = qEd/(mc²), the work done', () => {
+    const field = 1e6; // V/m
+    const a = (E_CHARGE * field) / M_E; // proper acceleration qE/m of a charge in a uniform static field (Rindler 2006, ch. 3)
+    for (const d of [1e-9, 1e-3, 0.06, 1, 1e3]) {
+      const work = E_CHARGE * field * d;
+      expectRelative(speedFromDistance(a, d), speedFromKinetic(work, M_E), 4e-16); // common practice: T = qEd, β from T
+    }
+    // 60 keV over 60 mm: γ = 1 + 60/510.998 950 69 (CODATA 2022: m_e c² = 0.510 998 950 69 MeV).
+    expectRelative(lorentzFactor(speedFromDistance(a, 0.06)), 1 + 60 / 510.99895069, 1e-10);
+  });
+
+  it('inverts hyperbolicDistance: the time, proper time and speed at the distance reached by time t', () => {
+    for (const [a, t] of [
+      [G_N, 3e7],
+      [8e-4, 3.456e7],
+      [1.7588e17, 1e-9],
+      [-2.5e4, 12],
+    ]) {
+      const d = Math.abs(hyperbolicDistance(a, t));
+      expectRelative(timeFromDistance(a, d), t, 1e-14); // Rindler (2006) ch. 3: x(t) and t(x) are inverse
+      expectRelative(properTimeFromDistance(a, d), hyperbolicProperTime(a, t), 1e-14); // same τ by either route
+      expectRelative(speedFromDistance(a, d), hyperbolicSpeed(a, t), 1e-14); // same β by either route
+    }
+  });
+
+  it('is Galilean at low speed: t = √(2d/a), v = √(2ad); a trip takes 2√(d/a) and peaks at √(ad)', () => {
+    const [a, d] = [8e-4, 4.5e11]; // x = ad/c² = 4e-9: relativistic corrections of that order
+    expectRelative(timeFromDistance(a, d), Math.sqrt((2 * d) / a), 1e-8); // Galileo: d = ½at²
+    expectRelative(speedFromDistance(a, d) * C, Math.sqrt(2 * a * d), 1e-8); // Galileo: v² = 2ad
+    expectRelative(properTimeFromDistance(a, d), timeFromDistance(a, d), 1e-8); // Newtonian limit: τ = t
+    expectRelative(tripTime(a, d), 2 * Math.sqrt(d / a), 1e-8); // common practice: flip at the midpoint
+    expectRelative(tripPeakSpeed(a, d) * C, Math.sqrt(a * d), 1e-8);
+    // The clock lag t − τ ≈ t·w²/6, w = at/c (expansion of asinh; Rindler 2006, ch. 3), per half of the trip.
+    const half = Math.sqrt(d / a);
+    const w = (a * half) / C;
+    expectRelative(tripTime(a, d) - tripProperTime(a, d), (2 * half * w * w) / 6, 1e-6);
+  });
+});
+
+describe('momentum compaction, slip factor and transition (S. Y. Lee, Accelerator Physics, ch. 3)', () => {
+  const slipFactor = k2(lib.slipFactor);
+  const transitionGamma = k1(lib.transitionGamma);
+
+  it('the LHC: α_c = 3.225e-4 gives γ_t = 55.68', () => {
+    expectQuoted(transitionGamma(3.225e-4), 55.68, 0.01); // from memory: LHC Design Report, CERN-2004-003, vol. I, table 2.1: α_c = 3.225e-4, γ_tr = 55.68
+    // above transition at 450 GeV (γ = 450/0.938 272 089 43, CODATA 2022 m_p c²): η = α_c − 1/γ² > 0
+    expectRelative(slipFactor(3.225e-4, 450 / 0.93827208943), 3.225e-4 - (0.93827208943 / 450) ** 2, 1e-12);
+  });
+
+  it('η < 0 below transition, 0 at it, > 0 above (η = α_c − 1/γ², ΔT/T = η Δp/p: Lee’s sign)', () => {
+    const alpha = 1 / 6.1 ** 2; // from memory: CERN PS, γ_t ≈ 6.1
+    expect(slipFactor(alpha, 2)).toBeLessThan(0); // Lee: below transition a faster particle goes round sooner
+    expect(slipFactor(alpha, 30)).toBeGreaterThan(0);
+    expect(Math.abs(slipFactor(alpha, transitionGamma(alpha)))).toBeLessThan(4 * Number.EPSILON * alpha); // at γ_t: 0 to rounding
+    expect(slipFactor(0.01, 1)).toBe(-0.99); // common practice: a particle at rest, η = α_c − 1
+  });
+
+  it('keeps its digits near transition, where the double 1/(γ·γ) does not', () => {
+    const alpha = 3.225e-4;
+    const gamma = transitionGamma(alpha) * (1 + 1e-9);
+    const ref = exact(alpha).minus(exact(1).div(exact(gamma).pow(2))); // S. Y. Lee: η = α_c − 1/γ², 50 digits
+    expect(ulpError(slipFactor(alpha, gamma), ref)).toBeLessThanOrEqual(0.5);
+    expect(ulpError(alpha - 1 / (gamma * gamma), ref)).toBeGreaterThan(100); // the textbook double form: cancellation
+  });
+});
+
 describe('electron-microscopy wavelength tables', () => {
   it('100, 200 and 300 kV', () => {
     expectQuoted(electronWavelength(100e3) / pm, 3.701, 1e-3); // Williams & Carter, TEM, table 1.1: 100 kV → 3.701 pm

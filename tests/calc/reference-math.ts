@@ -191,7 +191,33 @@ export const REFERENCES: Record<string, Ref> = {
     const [a, b, c] = [exact(M), exact(m1), exact(m2)];
     return a.mul(a).minus(b.plus(c).pow(2)).mul(a.mul(a).minus(b.minus(c).pow(2))).sqrt().mul(REF_C).div(TWO.mul(a));
   },
+  // Constant proper acceleration by distance (Rindler 2006, ch. 3): γ = 1 + |a|d/c², textbook forms.
+  hyperbolicSpeedFromDistance: (a0, d) => fromDistanceRef(a0, d).beta,
+  hyperbolicCoordinateTimeFromDistance: (a0, d) => fromDistanceRef(a0, d).t,
+  hyperbolicProperTimeFromDistance: (a0, d) => fromDistanceRef(a0, d).tau,
+  hyperbolicTripCoordinateTime: (a0, d) => fromDistanceRef(a0, exact(d).div(2)).t.mul(2),
+  hyperbolicTripProperTime: (a0, d) => fromDistanceRef(a0, exact(d).div(2)).tau.mul(2),
+  hyperbolicTripPeakSpeed: (a0, d) => fromDistanceRef(a0, exact(d).div(2)).beta,
+  // Rings (S. Y. Lee, Accelerator Physics, ch. 3): η = α_c − 1/γ², γ_t = 1/√α_c.
+  slipFactor: (alpha, gamma) => exact(alpha).minus(ONE.div(exact(gamma).pow(2))),
+  transitionGamma: (alpha) => ONE.div(exact(alpha).sqrt()),
 };
+
+/**
+ * Hyperbolic motion from rest over the distance d (a Dec, or a double taken exactly), textbook forms at
+ * 50 digits: γ = 1 + |a|d/c², β = ±√(1 − 1/γ²) (the sign of a), t = (c/|a|)√(γ² − 1), τ = (c/|a|) acosh γ.
+ */
+export function fromDistanceRef(a0: number, d: number | Dec): { beta: Dec; t: Dec; tau: Dec } {
+  const a = exact(a0).abs();
+  const dist = typeof d === 'number' ? exact(d) : d;
+  const gamma = ONE.plus(a.mul(dist).div(C2));
+  const beta = ONE.minus(ONE.div(gamma.mul(gamma))).sqrt();
+  return {
+    beta: a0 < 0 ? beta.neg() : beta,
+    t: REF_C.div(a).mul(gamma.mul(gamma).minus(1).sqrt()),
+    tau: REF_C.div(a).mul(D.acosh(gamma)),
+  };
+}
 
 /** β = pc/E, E = √(p²c² + m²c⁴) (PDG RPP 2024, "Kinematics"), 50 digits. */
 export function speedFromMomentumRef(p: Dec, m: Dec): Dec {
@@ -444,6 +470,29 @@ export function surveyCases(): Record<string, number[][]> {
     const m2 = pick([0, M_E_KG, M_P_KG, M_MU_KG]);
     return [(m1 + m2) * (1 + x), m1, m2];
   }).filter(([M, m1, m2]) => exact(M).gte(exact(m1).plus(exact(m2))));
+  // Hyperbolic motion by distance: x = a0·d/c² = γ − 1 from 1e-12 to 1e6, several accelerations, both
+  // directions; the trips cover twice the distance (so γ at the midpoint spans the same range).
+  const xs = [...logSpace(-12, 6, 200), ...Array.from({ length: 60 }, () => 10 ** (-12 + 18 * rand()))];
+  const byDistance = xs.map((x) => {
+    const a = pick(accelerations);
+    return [rand() < 0.5 ? -a : a, (x * C_NUM * C_NUM) / a];
+  });
+  cases.hyperbolicSpeedFromDistance = byDistance;
+  cases.hyperbolicCoordinateTimeFromDistance = byDistance;
+  cases.hyperbolicProperTimeFromDistance = byDistance;
+  cases.hyperbolicTripCoordinateTime = byDistance.map(([a, d]) => [a, 2 * d]);
+  cases.hyperbolicTripProperTime = byDistance.map(([a, d]) => [a, 2 * d]);
+  cases.hyperbolicTripPeakSpeed = byDistance.map(([a, d]) => [a, 2 * d]);
+  // Slip factor: α_c from 1e-5 to 0.1 (both signs), γ from 1 to 1e4 and within 1e-12 … 1e-1 of transition.
+  const alphas = logSpace(-5, -1, 40);
+  cases.slipFactor = [
+    ...alphas.map((al) => [rand() < 0.2 ? -al : al, 10 ** (4 * rand())]),
+    ...logSpace(-12, -1, 120).map((eps) => {
+      const al = pick(alphas);
+      return [al, (1 / Math.sqrt(al)) * (rand() < 0.5 ? 1 + eps : 1 - eps)];
+    }).filter(([, g]) => g >= 1),
+  ];
+  cases.transitionGamma = logSpace(-12, 2, 120).map((al) => [al]);
 
   return cases;
 }

@@ -28,6 +28,14 @@ import { gammaMinusOne } from './gamma-minus-one';
 import { hyperbolicDistance } from './hyperbolic-distance';
 import { hyperbolicProperTime } from './hyperbolic-proper-time';
 import { hyperbolicSpeed } from './hyperbolic-speed';
+import { hyperbolicCoordinateTimeFromDistance } from './hyperbolic-coordinate-time-from-distance';
+import { hyperbolicProperTimeFromDistance } from './hyperbolic-proper-time-from-distance';
+import { hyperbolicSpeedFromDistance } from './hyperbolic-speed-from-distance';
+import { hyperbolicTripCoordinateTime } from './hyperbolic-trip-coordinate-time';
+import { hyperbolicTripPeakSpeed } from './hyperbolic-trip-peak-speed';
+import { hyperbolicTripProperTime } from './hyperbolic-trip-proper-time';
+import { slipFactor } from './slip-factor';
+import { transitionGamma } from './transition-gamma';
 import { invariantMass } from './invariant-mass';
 import { kineticEnergy } from './kinetic-energy';
 import { kineticFromMomentum } from './kinetic-from-momentum';
@@ -88,6 +96,14 @@ export {
   hyperbolicDistance,
   hyperbolicProperTime,
   hyperbolicSpeed,
+  hyperbolicCoordinateTimeFromDistance,
+  hyperbolicProperTimeFromDistance,
+  hyperbolicSpeedFromDistance,
+  hyperbolicTripCoordinateTime,
+  hyperbolicTripPeakSpeed,
+  hyperbolicTripProperTime,
+  slipFactor,
+  transitionGamma,
   invariantMass,
   kineticEnergy,
   kineticFromMomentum,
@@ -169,4 +185,14 @@ export const LIBRARY: readonly CalcFunction[] = Object.freeze([
   cyclotronFrequency,
   momentumSpreadFromEnergySpread,
   energySpreadFromMomentumSpread,
+  // Constant proper acceleration given by distance, and accelerate-then-decelerate trips (issue 17).
+  hyperbolicSpeedFromDistance,
+  hyperbolicCoordinateTimeFromDistance,
+  hyperbolicProperTimeFromDistance,
+  hyperbolicTripCoordinateTime,
+  hyperbolicTripProperTime,
+  hyperbolicTripPeakSpeed,
+  // Longitudinal motion in rings (issue 17).
+  slipFactor,
+  transitionGamma,
 ]);
