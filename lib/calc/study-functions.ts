@@ -65,7 +65,7 @@ export const STUDY_FUNCTION_DOCS: readonly StudyFunctionDoc[] = [
     signature: 'spacetime(t, values, x1, x2, …)',
     summary:
       'A space-time diagram: each named distance x(t) as a worldline, ct up and x across on one scale, light lines at 45°. A named length that does not depend on t is drawn as a horizon, the light line x = ct − d.',
-    example: 'spacetime(t, points(0 yr, 3 yr, 121), x_ship, d_horizon)',
+    example: 'spacetime(t, points(0 ns, 2 ns, 81), x_e, d_h)',
   },
   {
     name: 'fromRevision',

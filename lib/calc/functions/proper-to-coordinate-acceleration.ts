@@ -14,7 +14,8 @@ const FN = 'properToCoordinateAcceleration';
  * Domain: a0 any finite value (its sign is its direction along the motion); |β| < 1; NaN and
  * ±Infinity are refused.
  *
- * Example: `properToCoordinateAcceleration(g_n, 0.6)` → 5.0210 m/s².
+ * Example: `properToCoordinateAcceleration(q_e * 1 MV/m / m_e, 0.6)` → 9.0052e16 m/s² (an electron at
+ * 0.6 c pushed along its motion by a 1 MV/m field).
  *
  * Source: W. Rindler, Relativity: Special, General, and Cosmological, 2nd ed. (2006), ch. 3
  * (transformation of acceleration); Jackson, Classical Electrodynamics, 3rd ed. (1999), §11.
@@ -32,8 +33,8 @@ export const properToCoordinateAcceleration: CalcFunction = {
     summary: 'Lab-frame (coordinate) acceleration of a body whose proper acceleration a0 is along its velocity v.',
     formula: 'a = \\frac{a_0}{\\gamma^3} = a_0\\,\\big((1-\\beta)(1+\\beta)\\big)^{3/2}',
     domain: 'a0 finite, either sign (its direction along the motion); |β| < 1. NaN and ±Infinity are refused.',
-    example: 'properToCoordinateAcceleration(g_n, 0.6)',
-    exampleResult: '5.0210048 m/s^2',
+    example: 'properToCoordinateAcceleration(q_e * 1 MV/m / m_e, 0.6)',
+    exampleResult: '9.0052e16 m/s^2 (an electron at 0.6 c pushed along its motion by a 1 MV/m field)',
     source: 'W. Rindler, Relativity: Special, General, and Cosmological, 2nd ed. (2006), ch. 3 (transformation of acceleration, proper acceleration); J. D. Jackson, Classical Electrodynamics, 3rd ed. (1999), ch. 11.',
     numerics: '1/γ³ = (1 − β²)·√(1 − β²) with 1 − β² formed exactly in double-double, times a0, rounded once (within about half an ulp).',
   },

@@ -13,7 +13,8 @@ const FN = 'rindlerHorizonDistance';
  *
  * Domain: a0 > 0 (the magnitude of the proper acceleration); NaN and ±Infinity are refused.
  *
- * Example: `rindlerHorizonDistance(g_n) to lightyear` → 0.96872 lightyear (9.1648e15 m).
+ * Example: `rindlerHorizonDistance(q_e * 1 MV/m / m_e) to mm` → 510.999 mm (m_e c²/(eE) for an electron
+ * in a uniform 1 MV/m field).
  *
  * Source: W. Rindler, Relativity: Special, General, and Cosmological, 2nd ed. (2006), ch. 3 and ch. 12;
  * Misner, Thorne, Wheeler, Gravitation (1973), §6.2–6.3.
@@ -28,8 +29,8 @@ export const rindlerHorizonDistance: CalcFunction = {
     summary: 'Distance c²/a0 from a body with constant proper acceleration a0 to its Rindler horizon.',
     formula: 'd = \\frac{c^2}{a_0}',
     domain: 'a0 > 0 (the magnitude of the proper acceleration). NaN and ±Infinity are refused.',
-    example: 'rindlerHorizonDistance(g_n) to lightyear',
-    exampleResult: '0.96872 lightyear (9.1648e15 m)',
+    example: 'rindlerHorizonDistance(q_e * 1 MV/m / m_e) to mm',
+    exampleResult: '510.999 mm (m_e c²/(eE) for an electron in a uniform 1 MV/m field)',
     source: 'W. Rindler, Relativity: Special, General, and Cosmological, 2nd ed. (2006), ch. 3 and ch. 12 (Rindler coordinates); C. W. Misner, K. S. Thorne, J. A. Wheeler, Gravitation (1973), §6.2–6.3.',
     numerics: 'c² is exact in double-double; one division, rounded once (within about half an ulp).',
   },

@@ -14,7 +14,8 @@ const FN = 'transverseCoordinateAcceleration';
  *
  * Domain: a0 finite (either sign); |β| < 1; NaN and ±Infinity are refused.
  *
- * Example: `transverseCoordinateAcceleration(g_n, 0.6)` → 6.276256 m/s².
+ * Example: `transverseCoordinateAcceleration(q_e * 1 MV/m / m_e, 0.6)` → 1.1256e17 m/s² (an electron at
+ * 0.6 c in a 1 MV/m field across its motion, as seen in the lab).
  *
  * Source: W. Rindler, Relativity: Special, General, and Cosmological, 2nd ed. (2006), ch. 3
  * (transformation of acceleration); Jackson, Classical Electrodynamics, 3rd ed. (1999), ch. 11.
@@ -32,8 +33,8 @@ export const transverseCoordinateAcceleration: CalcFunction = {
     summary: 'Lab-frame acceleration of a body whose proper acceleration a0 is perpendicular to its velocity v.',
     formula: 'a = \\frac{a_0}{\\gamma^2} = a_0\\,(1-\\beta)(1+\\beta)',
     domain: 'a0 finite, either sign; |β| < 1. NaN and ±Infinity are refused.',
-    example: 'transverseCoordinateAcceleration(g_n, 0.6)',
-    exampleResult: '6.276256 m/s^2',
+    example: 'transverseCoordinateAcceleration(q_e * 1 MV/m / m_e, 0.6)',
+    exampleResult: '1.1256e17 m/s^2 (an electron at 0.6 c in a 1 MV/m field across its motion, as seen in the lab)',
     source: 'W. Rindler, Relativity: Special, General, and Cosmological, 2nd ed. (2006), ch. 3 (transformation of acceleration); J. D. Jackson, Classical Electrodynamics, 3rd ed. (1999), ch. 11.',
     numerics: '1 − β² is formed exactly in double-double (the textbook 1 − β·β loses it near c), times a0, rounded once (within about half an ulp).',
   },
