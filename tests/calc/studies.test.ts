@@ -8,7 +8,7 @@ import { combinedText } from '../../lib/calc/uncertainty-text';
 const C = 299_792_458; // m/s, exact (SI Brochure, 9th ed.)
 const E = 1.602_176_634e-19; // C, exact (SI Brochure, 9th ed.)
 const MP_MEV = 938.272_089_43; // proton rest energy, MeV (CODATA 2022)
-const G_N = 9.806_65; // standard gravity, m/s², exact (CGPM 1901; SI Brochure)
+const A0 = 25; // m/s², a test value of the proper acceleration (common practice, no published source)
 const LY = C * 365.25 * 86_400; // light-year, m (IAU: c × Julian year)
 
 const engine = createSheetEngine();
@@ -103,18 +103,18 @@ describe('plots', () => {
   it('draws the worldline of constant proper acceleration and its horizon on a space-time diagram', () => {
     // Hyperbolic motion from rest: x(t) = (c²/a)(√(1 + (at/c)²) − 1) (W. Rindler, Relativity:
     // Special, General, and Cosmological, 2nd ed., §3.7); horizon distance c²/a.
-    const r = run(calc('a0 = g_n\nt = 1 year\nx_ship = hyperbolicDistance(a0, t)\nd_h = rindlerHorizonDistance(a0)', 'spacetime(t, points(0 year, 3 year, 13), x_ship, d_h)'));
+    const r = run(calc('a0 = 25 m/s^2\nt = 1 year\nx_w = hyperbolicDistance(a0, t)\nd_h = rindlerHorizonDistance(a0)', 'spacetime(t, points(0 year, 3 year, 13), x_w, d_h)'));
     const plot = studies(r)[0].plot!;
     expect(plot.kind).toBe('spacetime');
     expect(plot.x).toEqual({ label: 'x', unit: 'ly' });
     expect(plot.y).toEqual({ label: 'ct', unit: 'ly' });
-    expect(plot.horizons).toEqual([{ name: 'd_h', distance: expect.closeTo((C * C) / G_N / LY, 12) }]);
-    expect(plot.horizons![0].distance).toBeCloseTo(0.968_7, 4);
+    expect(plot.horizons).toEqual([{ name: 'd_h', distance: expect.closeTo((C * C) / A0 / LY, 12) }]);
+    expect(plot.horizons![0].distance).toBeCloseTo(0.380_0, 4); // c²/a0 in light-years
     const points = plot.series[0].points;
     expect(points).toHaveLength(13);
     for (const [x, ct] of points) {
       const t = (ct * LY) / C;
-      const expected = ((C * C) / G_N) * (Math.sqrt(1 + ((G_N * t) / C) ** 2) - 1);
+      const expected = ((C * C) / A0) * (Math.sqrt(1 + ((A0 * t) / C) ** 2) - 1);
       expect(x).toBeCloseTo(expected / LY, 12);
       // A massive body stays inside the light cone of its start, and outside its horizon's light line.
       expect(x).toBeLessThanOrEqual(ct);
@@ -123,7 +123,7 @@ describe('plots', () => {
   });
 
   it('asks for a time to sweep and for distances on a space-time diagram', () => {
-    const r = run(calc('a0 = g_n\nt = 1 year\nx_ship = hyperbolicDistance(a0, t)\nv_s = hyperbolicSpeed(a0, t)', 'spacetime(a0, [1, 2] m/s^2, x_ship)', 'spacetime(t, [1, 2] year, v_s)'));
+    const r = run(calc('a0 = 25 m/s^2\nt = 1 year\nx_w = hyperbolicDistance(a0, t)\nv_s = hyperbolicSpeed(a0, t)', 'spacetime(a0, [1, 2] m/s^2, x_w)', 'spacetime(t, [1, 2] year, v_s)'));
     const [notTime, notLength] = studies(r);
     expect(notTime.error).toMatch(/sweeps a time/);
     expect(notLength.error).toMatch(/not a length/);
