@@ -5,6 +5,11 @@ import { useMemo, useState } from 'react';
 import { SHEET_STATUS_LABELS, type SheetStatus } from '@/lib/checks/status';
 import { VisibleText } from '@/components/data/visible-text';
 
+/** The workflow status, or Void for a sheet voided as created by mistake (lib/sheets/void.ts). */
+function statusLabel(status: string): string {
+  return status === 'void' ? 'Void' : (SHEET_STATUS_LABELS[status as SheetStatus] ?? status);
+}
+
 export interface RegisterRow {
   id: string;
   number: number;
@@ -38,7 +43,7 @@ export function SheetRegister({ rows, projectCode }: { rows: RegisterRow[]; proj
   const shown = useMemo(() => {
     const f = filter.trim().toLowerCase();
     const list = f
-      ? rows.filter((r) => `${r.code} ${r.title} ${r.originator} ${SHEET_STATUS_LABELS[r.status as SheetStatus] ?? r.status}${r.supersededInputs?.length ? ' superseded input' : ''}`.toLowerCase().includes(f))
+      ? rows.filter((r) => `${r.code} ${r.title} ${r.originator} ${statusLabel(r.status)}${r.supersededInputs?.length ? ' superseded input' : ''}`.toLowerCase().includes(f))
       : rows;
     return [...list].sort((a, b) => {
       const x = a[sort.key] ?? '';
@@ -81,7 +86,7 @@ export function SheetRegister({ rows, projectCode }: { rows: RegisterRow[]; proj
                 {r.safetyRelated ? <span className="ml-2 rounded bg-caution-soft px-1.5 py-0.5 text-xs font-bold text-caution">safety-related</span> : null}
               </td>
               <td className="py-2 pr-3">
-                {SHEET_STATUS_LABELS[r.status as SheetStatus] ?? r.status}
+                {statusLabel(r.status)}
                 {r.supersededInputs?.length ? (
                   <Link
                     href={`/projects/${projectCode}/sheets/${r.number}#superseded-inputs`}
