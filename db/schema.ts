@@ -108,6 +108,10 @@ export interface SheetsTable {
   voided_at: ColumnType<Date | null, never, Date | string>;
   voided_by: ColumnType<string | null, never, string>;
   void_reason: ColumnType<string | null, never, string>;
+  /** A worked sheet offered to start new sheets from (demo starters); set when the sheet is made. */
+  starter: Generated<boolean>;
+  /** The exact version a sheet was started from (lib/sheets/start-from.ts); set at creation, never changed. */
+  started_from_version_id: ColumnType<string | null, string | null | undefined, never>;
 }
 
 export interface VersionsTable {

@@ -10,6 +10,7 @@ import { contentHash } from '../lib/sheets/content-hash';
 import { createSheetEngine, type SheetEngine } from '../lib/calc/sheet-engine';
 import { NEW_SHEET_DISPLAY_UNITS } from '../lib/calc/display-units';
 import type { Database, ProjectRole } from './schema';
+import { demoStarterSheets } from './starters';
 
 export const DEMO_PASSWORD = 'worldsheet-demo';
 
@@ -213,6 +214,8 @@ export function demoStudySheets(): DemoSheet[] {
 export interface SeedOptions {
   /** Also seed the study sheets (numbers 4 and 5). */
   studies?: boolean;
+  /** Also seed the starter sheets (numbers 6–10, db/starters.ts), offered to start new sheets from. */
+  starters?: boolean;
 }
 
 export interface SeedReport {
@@ -287,10 +290,11 @@ export async function seedDemo(db: Kysely<Database>, options: SeedOptions = {}):
 
     const originator = userIds.get('originator@demo.test')!;
     let engine: SheetEngine | null = null;
-    for (const demo of options.studies ? [...demoSheets(), ...demoStudySheets()] : demoSheets()) {
+    const starters = new Set(options.starters ? demoStarterSheets().map((d) => d.number) : []);
+    for (const demo of [...demoSheets(), ...(options.studies ? demoStudySheets() : []), ...(options.starters ? demoStarterSheets() : [])]) {
       const sheet = await trx
         .insertInto('sheets')
-        .values({ project_id: project.id, number: demo.number, title: demo.content.title, safety_related: demo.content.safetyRelated, created_by: originator })
+        .values({ project_id: project.id, number: demo.number, title: demo.content.title, safety_related: demo.content.safetyRelated, created_by: originator, starter: starters.has(demo.number) })
         .onConflict((oc) => oc.columns(['project_id', 'number']).doNothing())
         .returning('id')
         .executeTakeFirst();

@@ -36,6 +36,7 @@ export function SubmitForCheckForm({
   versions,
   checkers: latestCheckers,
   checkersByVersion,
+  findingsByVersion,
   blocked,
 }: {
   sheetId: string;
@@ -44,6 +45,8 @@ export function SubmitForCheckForm({
   checkers: CheckerOption[];
   /** Each submittable version's checkers with their eligibility, which depends on who changed what up to it. */
   checkersByVersion?: Record<number, CheckerOption[]>;
+  /** What each version needs acknowledged in writing (cell errors, failed criteria, engine warnings, mismatched design inputs), shown before submitting. */
+  findingsByVersion?: Record<number, Finding[]>;
   /** Why nothing can be submitted now (an open check, an approved latest version), or null. */
   blocked: string | null;
 }) {
@@ -52,7 +55,8 @@ export function SubmitForCheckForm({
   const [status, setStatus] = useState<Status>({ kind: 'idle' });
   const [version, setVersion] = useState<number | undefined>(versions[0]);
   const [needed, setNeeded] = useState<{ version: number; items: Finding[] } | null>(null);
-  const items = needed && needed.version === version ? needed.items : [];
+  // The server's list after a refusal wins (it is the one it will check); before that, the page's.
+  const items = needed && needed.version === version ? needed.items : version !== undefined ? (findingsByVersion?.[version] ?? []) : [];
   const checkers = (version !== undefined ? checkersByVersion?.[version] : undefined) ?? latestCheckers;
   const ineligible = checkers.filter((c) => !c.eligible);
   const anyEligible = checkers.some((c) => c.eligible);

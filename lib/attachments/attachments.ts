@@ -176,6 +176,56 @@ export async function insertAttachment(
 }
 
 /**
+ * Gives a new sheet the attachments `refs` of the sheet it was started from, inside `trx`: the same
+ * stored bytes (write-once, by SHA-256), a row of its own for each, counted against its project's
+ * quota, audited as attachment.copy. 400 when a reference is not an attachment of that sheet.
+ */
+export async function copyAttachments(
+  trx: Transaction<Database>,
+  actor: Actor,
+  fromSheetId: string,
+  sheet: { id: string; project_id: string },
+  refs: ReadonlyArray<Pick<AttachmentRef, 'name' | 'sha256'>>,
+): Promise<void> {
+  for (const ref of refs) {
+    const row = await trx
+      .selectFrom('attachments')
+      .select(['name', 'media_type', 'size', 'sha256', 'storage_key', 'table_data'])
+      .where('sheet_id', '=', fromSheetId)
+      .where('name', '=', ref.name)
+      .where('sha256', '=', ref.sha256)
+      .executeTakeFirst();
+    if (!row) throw new AppError('bad_request', `The attachment ${ref.name} (SHA-256 ${ref.sha256.slice(0, 12)}…) is not an attachment of the sheet started from.`);
+    await checkProjectStorageQuota(trx, sheet.project_id, { sha256: row.sha256, size: Number(row.size) }, { lock: true });
+    const inserted = await trx
+      .insertInto('attachments')
+      .values({
+        sheet_id: sheet.id,
+        project_id: sheet.project_id,
+        name: row.name,
+        media_type: row.media_type,
+        size: Number(row.size),
+        sha256: row.sha256,
+        storage_key: row.storage_key,
+        table_data: row.table_data === null ? null : JSON.stringify(row.table_data),
+        uploaded_by: actor.userId,
+      })
+      .onConflict((oc) => oc.constraint('attachments_sheet_name_sha256_key').doNothing())
+      .returning('id')
+      .executeTakeFirst();
+    if (inserted) {
+      await recordAudit(trx, actor, {
+        action: 'attachment.copy',
+        objectType: 'sheet',
+        objectId: sheet.id,
+        projectId: sheet.project_id,
+        newValue: { name: row.name, mediaType: row.media_type, size: Number(row.size), sha256: row.sha256, fromSheet: fromSheetId },
+      });
+    }
+  }
+}
+
+/**
  * Checks and stores an uploaded file for a sheet (checkAttachmentFile says what is refused; 413 also
  * for the project's storage quota, ./quota.ts). Uploading the same bytes under the same name again
  * is harmless.

@@ -221,6 +221,24 @@ export const exportedSheetFileSchema = sheetFileSchema.extend({
   exportedFrom: z.object({ sheet: z.string(), version: z.number().int(), sha256 }),
 });
 
+export const startCandidatesSchema = z.object({
+  candidates: z.array(
+    z.object({
+      sheetId: uuid,
+      code: z.string(),
+      title: z.string(),
+      version: z.number().int(),
+      sha256,
+      kind: z.enum(['starter', 'approved']).meta({ description: 'starter: a starter sheet, its latest version; approved: the newest approved version of the sheet.' }),
+    }),
+  ),
+});
+
+export const sheetStartedSchema = sheetCreatedSchema.extend({
+  version: z.number().int().meta({ description: 'The version holding the copy (2: version 1 is the sheet as created).' }),
+  sha256,
+});
+
 /** What POST …/sheets/import/preview answers: what the import would create, checked, nothing created. */
 export const importPreviewSchema = z.object({
   title: z.string(),

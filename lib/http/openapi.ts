@@ -19,6 +19,7 @@ import { projectInputSchema, roleChangeSchema } from '@/lib/projects/projects';
 import { inviteSchema, userChangeSchema } from '@/lib/projects/users';
 import { compareQuerySchema } from '@/lib/sheets/compare';
 import { exportQuerySchema, importQuerySchema } from '@/lib/sheets/sheet-files';
+import { startFromSchema } from '@/lib/sheets/start-from';
 import { softwareImpactQuerySchema } from '@/lib/sheets/software-impact';
 import { createSheetSchema, saveVersionSchema } from '@/lib/sheets/sheets';
 import { voidSheetSchema } from '@/lib/sheets/void';
@@ -424,6 +425,32 @@ export const OPERATIONS: Operation[] = [
     query: importQuerySchema,
     body: { schema: sheetFileSchema, description: 'A sheet file, e.g. one from GET /api/sheets/{sheetId}/export.' },
     responses: { 201: json('The new sheet and the version holding the file.', res.sheetImportedSchema), ...errors([400, 401, 403, 404, 413]) },
+  },
+  {
+    method: 'GET',
+    path: '/api/projects/{projectId}/sheets/start-from',
+    operationId: 'listStartCandidates',
+    summary: 'What a new sheet can be started from',
+    description: 'Originators of the project. Starter sheets (their latest version) and the newest approved version of each sheet, in every project the caller is a member of; void sheets are left out.',
+    tags: ['sheets'],
+    auth: 'session or API token',
+    params: projectParam,
+    responses: { 200: json('Starters first, then approved versions.', res.startCandidatesSchema), ...errors([401, 403, 404]) },
+  },
+  {
+    method: 'POST',
+    path: '/api/projects/{projectId}/sheets/start-from',
+    operationId: 'startSheetFrom',
+    summary: 'Start a new sheet from an approved version or a starter',
+    description:
+      'Originators of the project. Version 2 of the new sheet copies the content of the given version (cells, record, settings, the attachments it cites) under the new title; ' +
+      'the sheet records the exact version it was started from, for ever. 404 when the caller is not a member of the source\'s project or the version does not exist; ' +
+      '409 when the source is void, or the version is neither approved nor the latest version of a starter. The new sheet is a draft: nothing of the source\'s checks carries over.',
+    tags: ['sheets'],
+    auth: 'session or API token',
+    params: projectParam,
+    body: { schema: startFromSchema },
+    responses: { 201: json('The new sheet and the version holding the copy.', res.sheetStartedSchema), ...errors([400, 401, 403, 404, 409, 413]) },
   },
   {
     method: 'POST',

@@ -63,7 +63,7 @@ async function prepareDatabase(supervisor: Supervisor, options: { seed: boolean 
   try {
     await migrateToLatest(db, log);
     if (!external && options.seed) {
-      const r = await seedDemo(db, { studies: true });
+      const r = await seedDemo(db, { studies: true, starters: true });
       log(
         r.usersCreated + r.sheetsCreated + r.membershipsCreated === 0 && !r.projectCreated
           ? 'demo data already in place'

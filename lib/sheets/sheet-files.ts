@@ -208,7 +208,7 @@ export async function importSheetFile(db: Kysely<Database>, actor: Actor, projec
   const reading = readSheetFile(text, options.title);
   if (reading.carried.length > 0 && !options.store) throw new Error('importSheetFile: the file carries attachments but no object store was given');
   // The sheet, its attachments and its imported version are made in one transaction: never a sheet without its file.
-  const sheet = await createSheetWithContent(db, actor, project, reading.content, importMessage(reading), options.store ? { checked: reading.carried, store: options.store } : null);
+  const sheet = await createSheetWithContent(db, actor, project, reading.content, importMessage(reading), options.store ? { files: { checked: reading.carried, store: options.store } } : {});
   return {
     ...sheet,
     attachments: { carried: reading.carried.map((a) => a.name), notCarried: reading.notCarried.map((a) => a.name) },

@@ -10,7 +10,7 @@ import { recordAudit } from '@/lib/audit/record';
 import { bidiControlsInCalcCells } from '@/lib/calc/bidi-controls';
 import { findReferences } from '@/lib/calc/references';
 import type { InputTable, ResolvedReference, SheetResult } from '@/lib/calc/types';
-import { insertAttachment, resolveAttachments, storeAttachmentBytes, tablesOfFiles, type CheckedAttachment } from '@/lib/attachments/attachments';
+import { copyAttachments, insertAttachment, resolveAttachments, storeAttachmentBytes, tablesOfFiles, type CheckedAttachment } from '@/lib/attachments/attachments';
 import type { ObjectStore } from '@/lib/storage/object-store';
 import { evaluateSandboxed, evaluationScope } from './evaluate-sandboxed';
 import { sheetStatuses } from '@/lib/checks/status';
@@ -89,12 +89,28 @@ function firstContent(input: z.infer<typeof createSheetSchema>): VersionContent 
 }
 
 /** Numbers and inserts a sheet with its version 1 (already evaluated), inside `trx`. */
-async function insertSheet(trx: Transaction<Database>, actor: Actor, project: { id: string; code: string }, input: z.infer<typeof createSheetSchema>, content: VersionContent, results: SheetResult) {
+/** Where a new sheet was started from: the exact version copied (lib/sheets/start-from.ts). */
+export interface SheetOrigin {
+  versionId: string;
+  sheet: string;
+  version: number;
+  sha256: string;
+}
+
+async function insertSheet(
+  trx: Transaction<Database>,
+  actor: Actor,
+  project: { id: string; code: string },
+  input: z.infer<typeof createSheetSchema>,
+  content: VersionContent,
+  results: SheetResult,
+  origin: SheetOrigin | null = null,
+) {
   await sql`select pg_advisory_xact_lock(hashtext(${`sheets:${project.id}`}))`.execute(trx);
   const next = await trx.selectFrom('sheets').select(sql<number>`coalesce(max(number), 0) + 1`.as('n')).where('project_id', '=', project.id).executeTakeFirstOrThrow();
   const sheet = await trx
     .insertInto('sheets')
-    .values({ project_id: project.id, number: Number(next.n), title: input.title, safety_related: input.safetyRelated, created_by: actor.userId })
+    .values({ project_id: project.id, number: Number(next.n), title: input.title, safety_related: input.safetyRelated, created_by: actor.userId, started_from_version_id: origin?.versionId ?? null })
     .returning(['id', 'number'])
     .executeTakeFirstOrThrow();
   const hash = contentHash(content);
@@ -114,7 +130,15 @@ async function insertSheet(trx: Transaction<Database>, actor: Actor, project: { 
     })
     .execute();
   const code = formatSheetNumber(project.code, sheet.number);
-  await recordAudit(trx, actor, { action: 'sheet.create', objectType: 'sheet', objectId: sheet.id, projectId: project.id, newValue: { number: code, title: input.title, safetyRelated: input.safetyRelated, version: 1, sha256: hash } });
+  await recordAudit(trx, actor, { action: 'sheet.create', objectType: 'sheet', objectId: sheet.id, projectId: project.id, newValue: {
+      number: code,
+      title: input.title,
+      safetyRelated: input.safetyRelated,
+      version: 1,
+      sha256: hash,
+      ...(origin ? { startedFrom: { sheet: origin.sheet, version: origin.version, sha256: origin.sha256 } } : {}),
+    },
+  });
   return { id: sheet.id, number: sheet.number, code };
 }
 
@@ -126,7 +150,10 @@ export async function createSheet(db: Kysely<Database>, actor: Actor, project: {
 
 /**
  * Creates a sheet and saves `content` as its version 2 in one transaction: both are evaluated first,
- * so that a sheet never exists without the content it was created for (an import).
+ * so that a sheet never exists without the content it was created for (an import, or a start from
+ * another sheet). The attachments `content` cites come either as checked files (an import: their
+ * bytes are stored first) or from the sheet it was started from (the rows are copied; the bytes are
+ * already stored).
  */
 export async function createSheetWithContent(
   db: Kysely<Database>,
@@ -134,24 +161,32 @@ export async function createSheetWithContent(
   project: { id: string; code: string },
   content: VersionContent,
   message: string,
-  files: { checked: CheckedAttachment[]; store: ObjectStore } | null = null,
+  source: { files?: { checked: CheckedAttachment[]; store: ObjectStore }; copyFrom?: { sheetId: string; origin: SheetOrigin } } = {},
 ) {
   const input = { title: content.title, safetyRelated: content.safetyRelated, objective: content.record.objective };
   const first = firstContent(input);
   const firstResults = await evaluateContent(first, { sheetKey: `new:${project.id}`, projectId: project.id, userId: actor.userId });
-  // A new sheet has no attachments but the files it brings (already checked), and no revision of its
-  // own that a cell could cite.
-  const checked = files?.checked ?? [];
-  const cited = new Set(checked.map((f) => `${f.name}\u0000${f.sha256}`));
-  const stray = content.attachments.find((a) => !cited.has(`${a.name}\u0000${a.sha256}`));
-  if (stray) throw new AppError('bad_request', `The attachment ${stray.name} is cited but its file is not carried.`);
-  const prepared = await prepareVersion(db, { id: null, project_id: project.id }, content, actor.userId, tablesOfFiles(checked));
+  // A new sheet has no attachments but those it brings, and no revision of its own that a cell could cite.
+  const checked = source.files?.checked ?? [];
+  let tables: InputTable[];
+  if (source.copyFrom) {
+    // Every cited attachment must be one of the sheet it was started from (refused with 400 otherwise).
+    tables = await resolveAttachments(db, source.copyFrom.sheetId, content.attachments);
+  } else {
+    const cited = new Set(checked.map((f) => `${f.name}\u0000${f.sha256}`));
+    const stray = content.attachments.find((a) => !cited.has(`${a.name}\u0000${a.sha256}`));
+    if (stray) throw new AppError('bad_request', `The attachment ${stray.name} is cited but its file is not carried.`);
+    tables = tablesOfFiles(checked);
+  }
+  const prepared = await prepareVersion(db, { id: null, project_id: project.id }, content, actor.userId, tables);
   // The bytes first (write-once storage): an attachment row is only ever written for stored bytes.
-  if (files && checked.length > 0) await storeAttachmentBytes(db, files.store, project.id, checked);
+  if (source.files && checked.length > 0) await storeAttachmentBytes(db, source.files.store, project.id, checked);
   return db.transaction().execute(async (trx) => {
-    const sheet = await insertSheet(trx, actor, project, input, first, firstResults);
-    for (const file of checked) await insertAttachment(trx, actor, { id: sheet.id, project_id: project.id }, file, 'attachment.import');
-    const saved = await insertVersion(trx, actor, { id: sheet.id, project_id: project.id }, { parentNumber: 1, message, content }, prepared);
+    const sheet = await insertSheet(trx, actor, project, input, first, firstResults, source.copyFrom?.origin ?? null);
+    const target = { id: sheet.id, project_id: project.id };
+    for (const file of checked) await insertAttachment(trx, actor, target, file, 'attachment.import');
+    if (source.copyFrom) await copyAttachments(trx, actor, source.copyFrom.sheetId, target, content.attachments);
+    const saved = await insertVersion(trx, actor, target, { parentNumber: 1, message, content }, prepared);
     return { ...sheet, version: saved.number, sha256: saved.sha256 };
   });
 }

@@ -21,6 +21,7 @@ import * as sheetFiles from '../../lib/sheets/sheet-files';
 import * as sheets from '../../lib/sheets/sheets';
 import * as softwareImpact from '../../lib/sheets/software-impact';
 import * as voiding from '../../lib/sheets/void';
+import * as startFrom from '../../lib/sheets/start-from';
 import * as checksWorkflow from '../../lib/checks/workflow';
 import * as issuing from '../../lib/issue/issue';
 
@@ -208,6 +209,7 @@ describe('generated from the handlers\' zod schemas', () => {
       'lib/sheets/sheets.ts': sheets,
       'lib/sheets/software-impact.ts': softwareImpact,
       'lib/sheets/void.ts': voiding,
+      'lib/sheets/start-from.ts': startFrom,
       'lib/checks/workflow.ts': checksWorkflow,
       'lib/issue/issue.ts': issuing,
       'lib/http/csp-reports.ts': cspReports,

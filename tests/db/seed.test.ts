@@ -4,6 +4,7 @@ import { DEMO_ACCOUNTS, DEMO_PASSWORD, demoSheets, demoStudySheets, seedDemo } f
 import { createSheetEngine } from '../../lib/calc/sheet-engine';
 import { versionContentSchema } from '../../lib/sheets/content';
 import { contentHash } from '../../lib/sheets/content-hash';
+import { demoStarterSheets } from '../../db/starters';
 import { testDb } from '../support/database';
 
 async function counts() {
@@ -88,4 +89,27 @@ it('seeds the study sheets of the demo installation when asked, each evaluating 
   expect(study.find((s) => s.name === 'B_dip')?.uncertainty?.budget.map((b) => b.name)).toEqual(['T_kin', 'rho']);
   // Horizon of 1 g_n: c²/g_n = 0.968 7 ly (c exact, g_n exact, ly = c × Julian year; IAU).
   expect(worldline.find((s) => s.kind === 'plot')?.plot?.horizons?.[0].distance).toBeCloseTo(0.9687, 4);
+});
+
+it('seeds the starter sheets when asked: marked as starters, every cell without error, every design criterion met', async () => {
+  const report = await seedDemo(testDb(), { starters: true });
+  expect(report.sheetsCreated).toBe(3 + demoStarterSheets().length);
+  const rows = await testDb()
+    .selectFrom('sheets as s')
+    .innerJoin('versions as v', 'v.sheet_id', 's.id')
+    .select(['s.number', 's.starter', 'v.results'])
+    .where('s.starter', '=', true)
+    .orderBy('s.number')
+    .execute();
+  expect(rows.map((r) => r.number)).toEqual([6, 7, 8, 9, 10]);
+  for (const r of rows) {
+    const results = r.results as { ok: boolean; cells: Array<{ error: string | null; statements: Array<{ kind: string; criterion: { pass: boolean } | null }> }> };
+    expect(results.cells.map((c) => c.error).filter(Boolean), `starter ${r.number}`).toEqual([]);
+    expect(results.ok, `starter ${r.number}`).toBe(true);
+    const criteria = results.cells.flatMap((c) => c.statements).filter((s) => s.kind === 'criterion');
+    expect(criteria.length, `starter ${r.number} has a design criterion`).toBeGreaterThan(0);
+    expect(criteria.every((s) => s.criterion?.pass), `starter ${r.number}`).toBe(true);
+  }
+  // The demo sheets are not starters.
+  expect((await testDb().selectFrom('sheets').select('number').where('starter', '=', false).orderBy('number').execute()).map((r) => r.number)).toEqual([1, 2, 3]);
 });

@@ -129,6 +129,11 @@ const MATRIX: Record<string, Entry> = {
     request: (w) => ({ path: `/api/projects/${w.projectId}/sheets/import`, body: { title: 'Imported in the matrix', cells: [{ kind: 'calc', source: 'x_1 = 1 m' }] } }),
     expect: originatorOnly(201),
   },
+  'GET /api/projects/[projectId]/sheets/start-from': { request: (w) => ({ path: `/api/projects/${w.projectId}/sheets/start-from` }), expect: originatorOnly(200) },
+  'POST /api/projects/[projectId]/sheets/start-from': {
+    request: (w) => ({ path: `/api/projects/${w.projectId}/sheets/start-from`, body: { sheetId: w.approvedSheetId, version: 1, title: 'Started in the matrix' } }),
+    expect: originatorOnly(201),
+  },
   'POST /api/projects/[projectId]/sheets/import/preview': {
     request: (w) => ({ path: `/api/projects/${w.projectId}/sheets/import/preview`, body: { title: 'Previewed in the matrix', cells: [{ kind: 'calc', source: 'x_1 = 1 m' }] } }),
     expect: originatorOnly(200),

@@ -44,7 +44,7 @@ it('goes from a new sheet to a verified issued revision', async () => {
   let page = originator.page;
   await page.goto(`${app.baseUrl}/projects/TPT2`);
   await page.getByText('New sheet').click();
-  await page.getByLabel('Title').fill('Muon decay length in the gantry 2 beam dump line');
+  await page.getByLabel('Title', { exact: true }).fill('Muon decay length in the gantry 2 beam dump line');
   await page.getByLabel('Objective').fill('Mean decay length of muons produced at the degrader (demo).');
   await page.getByRole('button', { name: 'Create the sheet' }).click();
   await page.waitForURL(`${app.baseUrl}/projects/TPT2/sheets/4`);

@@ -5,7 +5,7 @@ import { sql } from 'kysely';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { createApiToken } from '../../lib/auth/api-tokens';
 import { resetDatabase, testDb } from '../support/database';
-import { makeProject, makeUser } from '../support/people';
+import { makeProject, makeUser, PASSWORD } from '../support/people';
 import { startApp, type RunningApp } from './harness';
 
 let app: RunningApp;
@@ -302,5 +302,36 @@ describe('attachments', () => {
     // Any pair, either way round: 4 → 3 differs only by the source revision.
     const back = await api(`/api/sheets/${sheetId}/compare?base=4&target=3`);
     expect(back.body.comparison.record).toMatchObject({ fields: [], attachments: [], inputs: [{ key: 'Scan energies', status: 'changed', changedFields: ['sourceRevision'], old: { sourceRevision: 'C' }, new: { sourceRevision: 'B' } }] });
+  });
+});
+
+describe('submission over HTTP', () => {
+  it('refuses to submit a version with an evaluation error until each item is acknowledged in writing, then accepts it', async () => {
+    const author = await testDb().selectFrom('users').select('id').where('email', '=', 'author@example.test').executeTakeFirstOrThrow();
+    const checker = await makeUser(testDb(), 'checker@example.test');
+    const acks = await makeProject(testDb(), 'ACKS', [[{ userId: author.id } as never, 'originator'], [checker, 'checker']]);
+    const created = await api(`/api/projects/${acks}/sheets`, { method: 'POST', body: { title: 'Muon decay length', safetyRelated: false } });
+    const v1 = (await api(`/api/sheets/${created.body.id}`)).body.version;
+    // A deliberate dimension error in the second line.
+    const content = { ...v1.content, cells: [{ id: 'c1', kind: 'calc', source: 'L_dec = decayLength(1 GeV, m_mu, 2.1969811 us)\nbad = 2 m + 3 s' }] };
+    expect((await api(`/api/sheets/${created.body.id}/versions`, { method: 'POST', body: { parentNumber: 1, message: 'with an error', content } })).status).toBe(201);
+
+    const refused = await api(`/api/sheets/${created.body.id}/checks`, { method: 'POST', body: { versionNumber: 2, checkerId: checker.userId, password: PASSWORD } });
+    expect(refused.status).toBe(400);
+    expect(refused.body.error.message).toMatch(/^Version 2 has an item to acknowledge in writing before it can be submitted: cell 1, line 2 \(bad = 2 m \+ 3 s\)/);
+    const needed = refused.body.error.details.acknowledgementsNeeded as Array<{ key: string; kind: string }>;
+    expect(needed.map((f) => f.kind)).toEqual(['cell-error']);
+    // An empty acknowledgement is not one.
+    const blank = await api(`/api/sheets/${created.body.id}/checks`, { method: 'POST', body: { versionNumber: 2, checkerId: checker.userId, password: PASSWORD, acknowledgements: [{ key: needed[0].key, text: '  ' }] } });
+    expect(blank.status).toBe(400);
+    expect(await testDb().selectFrom('checks').select('id').execute()).toEqual([]);
+
+    const accepted = await api(`/api/sheets/${created.body.id}/checks`, {
+      method: 'POST',
+      body: { versionNumber: 2, checkerId: checker.userId, password: PASSWORD, acknowledgements: [{ key: needed[0].key, text: 'A scratch line; the checker may ignore it.' }] },
+    });
+    expect(accepted.status).toBe(201);
+    const stored = await testDb().selectFrom('checks').select('acknowledgements').executeTakeFirstOrThrow();
+    expect(stored.acknowledgements).toEqual([expect.objectContaining({ key: needed[0].key, kind: 'cell-error', text: 'A scratch line; the checker may ignore it.' })]);
   });
 });

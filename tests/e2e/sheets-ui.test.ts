@@ -42,14 +42,14 @@ it('creates a sheet numbered by the server and opens it', async () => {
   const { page } = session;
   await page.goto(`${app.baseUrl}/projects/TPT2`);
   await page.getByText('New sheet').click();
-  await page.getByLabel('Title').fill('Shielding wall transmission at 250 MeV');
+  await page.getByLabel('Title', { exact: true }).fill('Shielding wall transmission at 250 MeV');
   await page.getByLabel('Objective').fill('Dose rate behind the gantry wall (demo).');
   await page.getByLabel(/Safety-related/).check();
   await page.getByRole('button', { name: 'Create the sheet' }).click();
   await page.waitForURL(`${app.baseUrl}/projects/TPT2/sheets/4`);
   await page.getByRole('heading', { level: 1, name: 'Shielding wall transmission at 250 MeV' }).waitFor();
   await page.getByRole('note').filter({ hasText: 'Safety-related calculation' }).waitFor();
-  expect(await page.getByText('TPT2-CALC-0004').count()).toBe(1);
+  expect(await page.getByText(/\/ TPT2-CALC-0004$/).count()).toBe(1);
   expect(session.problems).toEqual([]);
 });
 

@@ -4,18 +4,25 @@ import { getDb } from '@/db';
 import { pageProject } from '@/lib/auth/page-guard';
 import { CreateSheetForm } from '@/components/sheet/create-sheet-form';
 import { ImportSheetForm } from '@/components/sheet/import-sheet-form';
+import { StartFromForm } from '@/components/sheet/start-from-form';
 import { SheetRegister } from '@/components/sheet/sheet-register';
 import { listMembers, ROLE_LABELS } from '@/lib/projects/projects';
 import { sheetInputFlags } from '@/lib/sheets/impact';
 import { listSheets } from '@/lib/sheets/sheets';
+import { startCandidates } from '@/lib/sheets/start-from';
 
 export const metadata: Metadata = { title: 'Project' };
 export const dynamic = 'force-dynamic';
 
 export default async function ProjectPage({ params }: { params: Promise<{ projectCode: string }> }) {
   const { projectCode } = await params;
-  const { project, roles } = await pageProject(projectCode, `/projects/${projectCode}`);
-  const [members, sheets, stale] = await Promise.all([listMembers(getDb(), project.id), listSheets(getDb(), project.id, project.code), sheetInputFlags(getDb(), project.id)]);
+  const { project, roles, actor } = await pageProject(projectCode, `/projects/${projectCode}`);
+  const [members, sheets, stale, candidates] = await Promise.all([
+    listMembers(getDb(), project.id),
+    listSheets(getDb(), project.id, project.code),
+    sheetInputFlags(getDb(), project.id),
+    roles.includes('originator') ? startCandidates(getDb(), actor) : Promise.resolve([]),
+  ]);
   const seesAudit = roles.some((r) => r !== 'viewer');
   return (
     <div className="space-y-8">
@@ -54,6 +61,9 @@ export default async function ProjectPage({ params }: { params: Promise<{ projec
             <summary className="cursor-pointer font-semibold">New sheet</summary>
             <div className="mt-3">
               <CreateSheetForm projectId={project.id} projectCode={project.code} />
+            </div>
+            <div className="mt-4 border-t border-rule pt-3">
+              <StartFromForm projectId={project.id} projectCode={project.code} options={candidates} />
             </div>
             <div className="mt-4 border-t border-rule pt-3">
               <ImportSheetForm projectId={project.id} projectCode={project.code} />

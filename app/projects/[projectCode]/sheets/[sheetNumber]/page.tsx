@@ -19,6 +19,10 @@ import { issueCandidates, listRevisions } from '@/lib/issue/issue';
 import { supersededInputs } from '@/lib/sheets/impact';
 import { formatSheetNumber } from '@/lib/sheets/sheet-number';
 import { getSheetByNumber, getVersion, listVersions } from '@/lib/sheets/sheets';
+import { mayVoidSheet } from '@/lib/sheets/void';
+import { sheetOrigin } from '@/lib/sheets/start-from';
+import { submissionFindings } from '@/lib/checks/submission-findings';
+import { VoidSheetForm } from '@/components/sheet/void-sheet-form';
 import { VisibleText } from '@/components/data/visible-text';
 
 export const metadata: Metadata = { title: 'Sheet' };
@@ -61,7 +65,7 @@ export default async function SheetPage({ params, searchParams }: { params: Prom
   const sheet = await getSheetByNumber(getDb(), project.id, number);
   if (!sheet) notFound();
   const wanted = versionParam ? (queryInt4(versionParam) ?? notFound()) : undefined;
-  const [version, versions, workflow, revisions, candidates, staleInputs] = await Promise.all([
+  const [version, versions, workflow, revisions, candidates, staleInputs, origin] = await Promise.all([
     getVersion(getDb(), sheet.id, wanted),
     listVersions(getDb(), sheet.id),
     sheetWorkflow(getDb(), sheet.id),
@@ -69,6 +73,7 @@ export default async function SheetPage({ params, searchParams }: { params: Prom
     issueCandidates(getDb(), sheet.id),
     // The latest version's citations decide the flag, whichever version is shown.
     supersededInputs(getDb(), sheet.id),
+    sheetOrigin(getDb(), sheet.id),
   ]);
   const current = revisions.find((r) => r.status === 'current');
   if (!version) notFound();
@@ -80,6 +85,17 @@ export default async function SheetPage({ params, searchParams }: { params: Prom
   const submittableVersions = versions.map((v) => v.number).filter((n) => workflow.lastApprovedVersion === null || n > workflow.lastApprovedVersion).slice(0, 10);
   const checkersByVersion = isOriginator
     ? Object.fromEntries(await Promise.all(submittableVersions.map(async (n) => [n, n === workflow.latestVersion ? checkers : await eligibleCheckers(getDb(), sheet, n, actor.userId)] as const)))
+    : {};
+  // What each submittable version needs acknowledged in writing, shown before the first attempt (the server asks again).
+  const findingsByVersion = isOriginator && !sheet.voided_at
+    ? Object.fromEntries(
+        await Promise.all(
+          submittableVersions.map(async (n) => {
+            const v = n === version.number ? version : await getVersion(getDb(), sheet.id, n);
+            return [n, v ? submissionFindings(v.content, v.results).map((f) => ({ key: f.key, kind: f.kind, message: f.message })) : []] as const;
+          }),
+        ),
+      )
     : {};
   const signatures: SignatureRow[] = workflow.signatures.map((s) => ({ ...s, meaningLabel: MEANING_LABELS[s.meaning] }));
   const stands = whereItStands(workflow);
@@ -111,6 +127,15 @@ export default async function SheetPage({ params, searchParams }: { params: Prom
             {version.number !== latest ? ` (read-only; the latest is ${latest})` : ' (latest)'} · {versionState.get(version.number) ?? 'not submitted for check'} · saved by{' '}
             {version.author} on <UtcTime iso={version.createdAt.toISOString()} /> · SHA-256 <span className="font-mono">{version.sha256.slice(0, 16)}…</span>
           </p>
+          {origin ? (
+            <p className="mt-1 text-sm">
+              Started from{' '}
+              <Link href={`/projects/${origin.projectCode}/sheets/${origin.number}?version=${origin.version}`} className="font-semibold text-accent underline">
+                {origin.code} version {origin.version}
+              </Link>{' '}
+              (SHA-256 <span className="font-mono">{origin.sha256.slice(0, 12)}…</span>).
+            </p>
+          ) : null}
           <p className="mt-1 text-xs text-ink-muted">
             {version.engineVersion ?? 'not evaluated'} · constants {version.constantsEdition ?? '—'}
           </p>
@@ -118,12 +143,20 @@ export default async function SheetPage({ params, searchParams }: { params: Prom
             <a href={`/api/sheets/${sheet.id}/export?version=${version.number}`} download className="font-semibold text-accent underline">
               Download version {version.number} as a sheet file
             </a>
+            {version.content.attachments.length > 0 ? (
+              <>
+                {' · '}
+                <a href={`/api/sheets/${sheet.id}/export?version=${version.number}&attachments=include`} download className="font-semibold text-accent underline">
+                  with its {version.content.attachments.length === 1 ? 'attachment' : `${version.content.attachments.length} attachments`}
+                </a>
+              </>
+            ) : null}
             {' · '}
             <Link href={`/projects/${project.code}/sheets/${sheet.number}/impact`} className="font-semibold text-accent underline">
               Impact: what depends on this sheet
             </Link>
           </p>
-          {roles.includes('originator') ? (
+          {roles.includes('originator') && !sheet.voided_at ? (
             <p className="mt-3">
               <Link href={`/projects/${project.code}/sheets/${sheet.number}/edit`} className="rounded bg-accent px-4 py-2 font-semibold text-surface no-underline hover:bg-accent-hover">
                 Edit the sheet
@@ -135,18 +168,27 @@ export default async function SheetPage({ params, searchParams }: { params: Prom
           <h2 id="status-title" className="sr-only">
             Status
           </h2>
-          <StatusBadge status={workflow.status} label={SHEET_STATUS_LABELS[workflow.status]} />
-          {current ? (
-            <span className="rounded bg-pass-soft px-1.5 py-0.5 text-xs font-bold text-pass">Issued: revision {current.revision}</span>
-          ) : null}
-          <p className="text-sm">
-            {stands.text}{' '}
-            {stands.checkId ? (
-              <Link href={`/checks/${stands.checkId}`} className="font-semibold text-accent underline">
-                {stands.linkText}
-              </Link>
-            ) : null}
-          </p>
+          {sheet.voided_at ? (
+            <p role="status" className="w-full rounded border border-fail bg-fail-soft px-2 py-1 text-sm font-semibold text-fail">
+              Void since <UtcTime iso={sheet.voided_at.toISOString()} />. Reason: “<VisibleText text={sheet.void_reason ?? ''} />” The sheet stays in the register with its
+              versions; it cannot be saved, submitted or issued.
+            </p>
+          ) : (
+            <>
+              <StatusBadge status={workflow.status} label={SHEET_STATUS_LABELS[workflow.status]} />
+              {current ? (
+                <span className="rounded bg-pass-soft px-1.5 py-0.5 text-xs font-bold text-pass">Issued: revision {current.revision}</span>
+              ) : null}
+              <p className="text-sm">
+                {stands.text}{' '}
+                {stands.checkId ? (
+                  <Link href={`/checks/${stands.checkId}`} className="font-semibold text-accent underline">
+                    {stands.linkText}
+                  </Link>
+                ) : null}
+              </p>
+            </>
+          )}
         </section>
         {latest !== undefined ? <SupersededInputs inputs={staleInputs} projectCode={project.code} latestVersion={latest} /> : null}
         <section aria-labelledby="revisions-title" className="space-y-2">
@@ -211,20 +253,28 @@ export default async function SheetPage({ params, searchParams }: { params: Prom
         <VersionView sheetId={sheet.id} sheetCode={code} versionNumber={version.number} content={version.content} results={version.results} renderText={(source) => <MarkdownView source={source} />} />
       </div>
       <aside aria-label="Check and history" className="space-y-6">
-        {isOriginator ? (
+        {isOriginator && !sheet.voided_at ? (
           <section aria-labelledby="submit-title" className="space-y-2 rounded border border-rule bg-surface p-3">
             <h2 id="submit-title" className="font-bold">
               Submit for check
             </h2>
-            <SubmitForCheckForm sheetId={sheet.id} versions={submittable} checkers={checkers} checkersByVersion={checkersByVersion} blocked={blocked} />
+            <SubmitForCheckForm sheetId={sheet.id} versions={submittable} checkers={checkers} checkersByVersion={checkersByVersion} findingsByVersion={findingsByVersion} blocked={blocked} />
           </section>
         ) : null}
-        {roles.includes('controller') ? (
+        {roles.includes('controller') && !sheet.voided_at ? (
           <section aria-labelledby="issue-title" className="space-y-2 rounded border border-rule bg-surface p-3">
             <h2 id="issue-title" className="font-bold">
               Issue a revision
             </h2>
             <IssuePanel sheetId={sheet.id} approvedVersions={candidates.approvedVersions} nextRevision={candidates.nextRevision} pendingJobId={candidates.pendingJobId} />
+          </section>
+        ) : null}
+        {!sheet.voided_at && revisions.length === 0 && mayVoidSheet(actor, roles, sheet) ? (
+          <section aria-labelledby="void-title" className="space-y-2 rounded border border-rule bg-surface p-3">
+            <h2 id="void-title" className="font-bold">
+              Created by mistake?
+            </h2>
+            <VoidSheetForm sheetId={sheet.id} code={code} />
           </section>
         ) : null}
         <section aria-labelledby="history-title" className="space-y-2">
