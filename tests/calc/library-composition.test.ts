@@ -158,6 +158,18 @@ describe('compositions of library functions against 50-digit references', () => 
     expect(si(lib.lorentzFactor(math.unit(-(v.value as number), 'm/s')))).toBe(rounded);
   });
 
+  it('gives γ = 1 + a0·d/c² exactly from the speed after a distance, and from a trip’s peak speed (Rindler 2006, ch. 3)', () => {
+    // An electron from rest in a uniform field E covers d: γ − 1 = eEd/(m_e c²), the work done.
+    const a0 = (eV * 1e6) / si(m_e); // eE/m_e at 1 MV/m
+    for (const d of [1e-6, 0.06, 1e3, 1e7]) {
+      const x = exact(a0).mul(exact(d)).div(C2);
+      const v = lib.hyperbolicSpeedFromDistance(math.unit(a0, 'm/s^2'), math.unit(d, 'm'));
+      expect(ulpError(si(lib.gammaMinusOne(v)), x), `d = ${d} m`).toBeLessThanOrEqual(COMPANION_ULP);
+      const peak = lib.hyperbolicTripPeakSpeed(math.unit(a0, 'm/s^2'), math.unit(2 * d, 'm'));
+      expect(ulpError(si(lib.gammaMinusOne(peak)), x), `trip over ${2 * d} m`).toBeLessThanOrEqual(COMPANION_ULP);
+    }
+  });
+
   it('keeps companions of list elements (a vector argument)', () => {
     const Ts = math.matrix([math.unit(1.5, 'TeV'), math.unit(7, 'TeV')]);
     const vs = lib.speedFromKinetic(Ts, m_e);
