@@ -185,25 +185,59 @@ export function demoStudySheets(): DemoSheet[] {
       ],
     }),
     sheet(5, {
-      title: 'Verification of the hyperbolic-motion functions against the space-time diagram',
+      title: 'Electron transit through the 60 kV gap of the beam-profile monitor gun: hyperbolic motion and space-time diagram',
       safetyRelated: false,
       record: {
-        ...emptyRecord(),
         objective:
-          'Show the worldline of a body with constant proper acceleration of 1 g_n from rest, its light cone and its horizon c²/a, as a check of the library functions used by the timing model.',
-        method: 'Hyperbolic motion from rest; horizon distance c²/a (Rindler, Relativity: Special, General, and Cosmological, ch. 3).',
+          'Show that the probe electrons of the beam-profile monitor gun, starting from rest at the cathode, cross the 60 mm accelerating gap within the 1 ns read-out gate, and verify the constant-proper-acceleration functions against the energy gained, with the worldline, light lines and horizon on a space-time diagram.',
+        inputs: [
+          { name: 'Gun accelerating voltage', value: '60 kV', source: 'Beam-profile monitor gun datasheet (demo)', sourceRevision: 'A' },
+          { name: 'Cathode–anode gap', value: '60 mm', source: 'Beam-profile monitor gun assembly drawing (demo)', sourceRevision: 'B' },
+          { name: 'Read-out gate', value: '1 ns', source: 'TPT2 beam-profile monitor timing specification (demo)', sourceRevision: 'A' },
+        ],
+        assumptions: [
+          { text: 'Plane-parallel electrodes: the field E = U/d is uniform across the gap.', needsVerification: true },
+          { text: 'Electrons leave the cathode at rest; emission energy and space charge are neglected.', needsVerification: false },
+        ],
+        method:
+          'A charge in a uniform static field keeps a constant proper acceleration a0 = eE/m_e (hyperbolic motion): transit time, proper time and exit speed from the gap length; cross-check of the exit speed against the energy gained, eU; horizon distance c²/a0 = m_e c²/(eE).',
+        references: ['W. Rindler, Relativity: Special, General, and Cosmological, 2nd ed. (2006), ch. 3 (hyperbolic motion)'],
+        conclusions: 'To be stated after evaluation and check.',
       },
       cells: [
+        {
+          id: 'transit-intro',
+          kind: 'text',
+          source:
+            'Between plane electrodes the field $E = U/d$ is uniform, so an electron leaving the cathode at rest has the constant proper acceleration $a_0 = eE/m_e$ and moves on a hyperbola: $\\gamma = 1 + a_0 x/c^2$.',
+        },
+        {
+          id: 'transit',
+          kind: 'calc',
+          source: [
+            'U_gun = 60 kV                    # gun accelerating voltage',
+            'd_gap = 60 mm                    # cathode–anode gap',
+            'E_gap = U_gun / d_gap to MV/m    # uniform field between plane electrodes',
+            'a0 = q_e * E_gap / m_e           # proper acceleration of the electron',
+            't_gap = hyperbolicCoordinateTimeFromDistance(a0, d_gap) to ns',
+            'tau_gap = hyperbolicProperTimeFromDistance(a0, d_gap) to ns',
+            'v_exit = hyperbolicSpeedFromDistance(a0, d_gap)',
+            't_gap < 1 ns                     # design criterion: across the gap within the read-out gate',
+          ].join('\n'),
+        },
+        {
+          id: 'energy-check',
+          kind: 'calc',
+          source: ['v_energy = speedFromKinetic(q_e * U_gun, m_e)', 'abs(v_exit / v_energy - 1) < 1e-12   # the exit speed agrees with the energy gained, eU'].join('\n'),
+        },
         {
           id: 'worldline',
           kind: 'calc',
           source: [
-            'a0 = g_n                         # proper acceleration of the model',
-            't = 1 year',
-            'x_probe = hyperbolicDistance(a0, t) to lightyear',
-            'tau_probe = hyperbolicProperTime(a0, t) to year',
-            'd_h = rindlerHorizonDistance(a0) to lightyear',
-            'spacetime(t, points(0 year, 3 year, 121), x_probe, d_h)',
+            't = 1 ns',
+            'x_e = hyperbolicDistance(a0, t) to mm',
+            'd_h = rindlerHorizonDistance(a0) to mm',
+            'spacetime(t, points(0 ns, 2 ns, 121), x_e, d_h)',
           ].join('\n'),
         },
       ],

@@ -87,8 +87,16 @@ it('seeds the study sheets of the demo installation when asked, each evaluating 
   const [study, worldline] = demoStudySheets().map((d) => engine.evaluate(d.content.cells, { significantFigures: 6 }).cells.flatMap((c) => c.statements));
   expect(study.find((s) => s.kind === 'sweep')?.table?.rows).toHaveLength(10);
   expect(study.find((s) => s.name === 'B_dip')?.uncertainty?.budget.map((b) => b.name)).toEqual(['T_kin', 'rho']);
-  // Horizon of 1 g_n: c²/g_n = 0.968 7 ly (c exact, g_n exact, ly = c × Julian year; IAU).
-  expect(worldline.find((s) => s.kind === 'plot')?.plot?.horizons?.[0].distance).toBeCloseTo(0.9687, 4);
+  // Sheet 5, an electron from rest across a 60 mm gap at 60 kV (Rindler 2006, ch. 3, hyperbolic motion):
+  // the horizon c²/a0 = m_e c²/(eE) = 0.510 998 950 69 m at E = 1 MV/m (CODATA 2022: m_e c² = 0.510 998 950 69 MeV),
+  // drawn in metres; γ = 1 + eU/(m_e c²) at the anode, t = (c/a0)√(γ² − 1) = 0.849 90 ns.
+  expect(worldline.find((s) => s.kind === 'plot')?.plot?.horizons?.[0].distance).toBeCloseTo(0.51099895069, 9);
+  const gammaExit = 1 + 60 / 510.99895069;
+  const a0 = (1.602176634e-19 * 1e6) / 9.1093837139e-31; // SI 2019 e exact; CODATA 2022 m_e
+  expect(worldline.find((s) => s.name === 't_gap')?.value?.number).toBeCloseTo((299_792_458 / a0) * Math.sqrt(gammaExit * gammaExit - 1) * 1e9, 9);
+  const criteria = worldline.filter((s) => s.kind === 'criterion');
+  expect(criteria).toHaveLength(2);
+  expect(criteria.every((s) => s.criterion?.pass)).toBe(true);
 });
 
 it('seeds the starter sheets when asked: marked as starters, every cell without error, every design criterion met', async () => {

@@ -80,17 +80,18 @@ it('shows a study sheet with its uncertainty budget, sweep table, plot and CSV',
   expect(originator.problems).toEqual([]);
 });
 
-it('draws the space-time diagram of hyperbolic motion with its light lines and horizon', async () => {
+it('draws the space-time diagram of hyperbolic motion (an electron in a uniform field) with its light lines and horizon', async () => {
   const { page } = originator;
   await page.goto(`${app.baseUrl}/projects/TPT2/sheets/5`);
   const figure = page.locator('figure').filter({ has: page.locator('svg') }).first();
   await figure.waitFor();
   await figure.scrollIntoViewIfNeeded();
   const text = await figure.locator('svg').first().textContent();
-  expect(text).toMatch(/ct \(ly\)/);
-  expect(text).toMatch(/x \(ly\)/);
-  // The horizon c²/g_n = 0.9687 ly (c and g_n exact; ly = c × Julian year, IAU), drawn as x = ct − d.
-  expect(text).toMatch(/d_h: x = ct − 0\.9687 ly/);
+  expect(text).toMatch(/ct \(m\)/);
+  expect(text).toMatch(/x \(m\)/);
+  // Demo sheet 5, an electron in the uniform 1 MV/m field of a 60 kV, 60 mm gap: its horizon
+  // c²/a0 = m_e c²/(eE) = 0.5110 m (CODATA 2022: m_e c² = 0.510 998 950 69 MeV), drawn as x = ct − d.
+  expect(text).toMatch(/d_h: x = ct − 0\.5110 m/);
   await originator.screenshot('study-spacetime');
   expect(originator.problems).toEqual([]);
 });
