@@ -11,6 +11,7 @@ export interface ConstantDef {
   description: string;
   /** Value in the SI unit given by `unit`. */
   value: number;
+  /** The SI unit of `value`; '' for a dimensionless constant (a plain number in sheets). */
   unit: string;
   /** Standard uncertainty in the same unit; 0 when exact. */
   uncertainty: number;
@@ -128,6 +129,7 @@ export const CONSTANTS: readonly ConstantDef[] = [
   { name: 'GM_E', description: 'geocentric gravitational constant (Earth, atmosphere included)', value: GM_EARTH, unit: 'm^3/s^2', uncertainty: 8e5, provenance: 'IERS Conventions (2010), table 1.1; the WGS 84 value (IS-GPS-200 user algorithms use 3.986005e14)', tex: 'GM_{\\mathrm{E}}' },
   { name: 'omega_E', description: 'mean angular velocity of the Earth', value: OMEGA_EARTH, unit: 'rad/s', uncertainty: 0, provenance: 'IS-GPS-200, table 20-IV (WGS 84 value of the Earth rotation rate; defining for GPS computations)', tex: '\\omega_{\\mathrm{E}}' },
   { name: 'R_E', description: 'equatorial radius of the Earth (WGS 84 semi-major axis)', value: R_EARTH, unit: 'm', uncertainty: 0, provenance: 'WGS 84 defining parameter (NGA.STND.0036, 2014)', tex: 'R_{\\mathrm{E}}' },
+  { name: 'L_G', description: 'rate of TT against TCG, L_G = 1 − d(TT)/d(TCG): the geoid potential over c²', value: L_G, unit: '', uncertainty: 0, provenance: 'IAU 2000 Resolution B1.9 (defining, exact); IERS Conventions (2010) §1.1', tex: 'L_{\\mathrm{G}}' },
   { name: 'W_0', description: 'potential of the geoid, W₀ = L_G c² (L_G = 6.969 290 134 × 10⁻¹⁰)', value: W_0, unit: 'm^2/s^2', uncertainty: 0, provenance: 'IAU 2000 Resolution B1.9 (L_G, defining); IERS Conventions (2010) §1.1 (W₀ = 62 636 856.0 m²/s²)', tex: 'W_{0}' },
   { name: 'GM_S', description: 'heliocentric gravitational constant (Sun), TDB-compatible', value: GM_SUN, unit: 'm^3/s^2', uncertainty: 1e10, provenance: 'IERS Conventions (2010), table 1.1 (IAU 2009 system of astronomical constants)', tex: 'GM_{\\mathrm{S}}' },
 ];

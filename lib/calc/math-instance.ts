@@ -10,8 +10,8 @@ export interface EngineMath {
   math: MathJsInstance;
   /** mathjs's parser, kept before it is disabled for sheet code. */
   parse: (expr: string) => MathNode;
-  /** Built-in constants of the product brief, as mathjs values. */
-  constants: ReadonlyMap<string, Unit>;
+  /** Built-in constants of the product brief, as mathjs values (a plain number when dimensionless). */
+  constants: ReadonlyMap<string, Unit | number>;
   /** Names a sheet may call as functions (mathjs functions and the relativistic library). */
   isFunctionName: (name: string) => boolean;
   /** True when `name` is a unit, with or without an SI prefix (m, mm, MeV, T, t, h …). */
@@ -134,8 +134,8 @@ export function createEngineMath(library: readonly LibraryBinding[], setup?: (ma
   for (const f of library) libraryFns[f.name] = f.fn;
   math.import(libraryFns, { override: false });
 
-  const constants = new Map<string, Unit>();
-  for (const k of CONSTANTS) constants.set(k.name, math.unit(k.value, k.unit));
+  const constants = new Map<string, Unit | number>();
+  for (const k of CONSTANTS) constants.set(k.name, k.unit === '' ? k.value : math.unit(k.value, k.unit));
 
   setup?.(math);
 

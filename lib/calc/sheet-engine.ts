@@ -607,8 +607,13 @@ export function createSheetEngine(): SheetEngine {
     // trade's units the particle masses are in MeV/c² (m_p as 938.272 MeV/c²).
     const texValue = new Map<string, string>(
       CONSTANTS.map((k) => {
-        const trade = displayUnits === 'trade' ? tradeDisplay(math, em.constants.get(k.name)!) : null;
-        const tex = trade ? `${formatNumberTex(trade.number, sig)}\\ ${unitTexOf(math, trade.unitString)}` : `${formatNumberTex(k.value, sig)}\\ ${unitTexOf(math, k.unit)}`;
+        const value = em.constants.get(k.name)!;
+        const trade = displayUnits === 'trade' && typeof value !== 'number' ? tradeDisplay(math, value) : null;
+        const tex = trade
+          ? `${formatNumberTex(trade.number, sig)}\\ ${unitTexOf(math, trade.unitString)}`
+          : k.unit === ''
+            ? formatNumberTex(k.value, sig)
+            : `${formatNumberTex(k.value, sig)}\\ ${unitTexOf(math, k.unit)}`;
         return [k.name, substitutionTex(tex)];
       }),
     );

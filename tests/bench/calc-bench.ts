@@ -45,7 +45,7 @@ export function runCalcBench(repeats = 5) {
   const bindings: Record<string, unknown> = {};
   for (const b of bindLibrary(bootstrap, LIBRARY)) bindings[b.name] = b.fn;
   bare.import(bindings);
-  const constants = new Map<string, unknown>(CONSTANTS.map((k) => [k.name, bare.unit(k.value, k.unit)]));
+  const constants = new Map<string, unknown>(CONSTANTS.map((k) => [k.name, k.unit === '' ? k.value : bare.unit(k.value, k.unit)]));
   const bareRun = () => {
     const scope = new Map(constants);
     for (const s of statements) bare.compile(s).evaluate(scope);

@@ -34,8 +34,8 @@ const ONE = new D(1);
 const C2 = REF_C.mul(REF_C);
 const eV = 1.602176634e-19; // SI Brochure 9th ed.: 1 eV = 1.602 176 634e-19 J exactly
 
-const m_e = engine.em.constants.get('m_e')!;
-const m_p = engine.em.constants.get('m_p')!;
+const m_e = engine.em.constants.get('m_e') as Unit;
+const m_p = engine.em.constants.get('m_p') as Unit;
 /** Electrons from 1 keV to 10 TeV, protons from 1 MeV to 10 TeV, log-spaced, 80 points each. */
 const beams: Array<{ name: string; m: Unit; T: number[] }> = [
   { name: 'electron', m: m_e, T: logSpace(3, 13, 80).map((x) => x * eV) },

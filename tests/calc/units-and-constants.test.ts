@@ -182,3 +182,21 @@ describe('the particle and ion table (CODATA 2022, PDG 2024, AME 2020)', () => {
     expect(r.cells[0].statements[1].value?.text).toBe('12 u'); // 12 u exactly (definition of u)
   });
 });
+
+describe('a dimensionless constant: L_G (IAU 2000 Resolution B1.9)', () => {
+  const engine = createSheetEngine();
+  const run = (source: string, displayUnits: 'si' | 'trade' = 'si') => engine.evaluate([{ id: 'c1', kind: 'calc', source }], { significantFigures: 10, displayUnits }).cells[0].statements;
+  it('is a plain number in sheets, 6.969 290 134e-10 exactly, and gives the geoid potential W₀ = L_G c²', () => {
+    const [lg, w] = run('x_lg = L_G\nW_geoid = L_G * c^2 to m^2/s^2');
+    // IAU 2000 Resolution B1.9: L_G = 6.969 290 134 × 10⁻¹⁰ (defining).
+    expect(lg.value).toMatchObject({ kind: 'number', number: 6.969290134e-10, unit: null });
+    // IERS Conventions (2010) §1.1: W₀ = 62 636 856.0 m²/s².
+    expect(w.value?.number).toBeCloseTo(62636856.0, 0);
+    expect(w.value?.number).toBe(CONSTANTS.find((k) => k.name === 'W_0')!.value);
+    // Substituted into the formula as a bare number, in either display setting.
+    for (const setting of ['si', 'trade'] as const) {
+      const [st] = run('y_lg = 2 * L_G', setting);
+      expect(st.substitutedTex, setting).toBe('y_{\\mathrm{lg}} = 2\\cdot\\left(6.969\\,290\\,134 \\times 10^{-10}\\right)');
+    }
+  });
+});
