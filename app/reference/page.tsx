@@ -2,7 +2,7 @@ import type { Metadata } from 'next';
 import { FunctionReference } from '@/components/calc/function-reference';
 import { TexMath } from '@/components/calc/tex-math';
 import { CONSTANTS, CONSTANTS_EDITION } from '@/lib/calc/constants';
-import { LIBRARY } from '@/lib/calc/functions';
+import { LIBRARY, type ParamKind } from '@/lib/calc/functions';
 import { LINT_EXAMPLES } from '@/lib/calc/lint';
 import { NAME_EXAMPLES } from '@/lib/calc/reference-examples';
 import { STUDY_FUNCTION_DOCS } from '@/lib/calc/study-functions';
@@ -11,7 +11,7 @@ import { DISPLAY_UNITS_LABEL, UNIT_EXAMPLES } from '@/lib/calc/display-units';
 
 export const metadata: Metadata = { title: 'Function reference' };
 
-const KIND_LABEL: Record<string, string> = {
+const KIND_LABEL: Record<ParamKind, string> = {
   speed: 'speed, or plain β',
   mass: 'mass, or energy as mc²',
   energy: 'energy',
@@ -23,6 +23,10 @@ const KIND_LABEL: Record<string, string> = {
   charge: 'charge, or integer charge number',
   angle: 'angle, or radians',
   rigidity: 'magnetic rigidity (T m)',
+  'gravitational-parameter': 'gravitational parameter GM (m³/s²)',
+  area: 'area',
+  'magnetic-field': 'magnetic flux density (T)',
+  'energy-per-nucleon': 'kinetic energy per nucleon (MeV, or MeV/u read as per nucleon)',
   number: 'plain number',
 };
 

@@ -2,7 +2,7 @@
 // or a plain number) to the SI number the kernel expects, checks its dimension, and wraps the
 // kernel's result as a mathjs value with its unit.
 import type { MathJsInstance, Unit } from 'mathjs';
-import { C, E_CHARGE } from './constants';
+import { C, E_CHARGE, M_U } from './constants';
 import { withArgumentEcho } from './functions/support/domain';
 import { speedValue } from './functions/support/kinematics';
 import { formatNumberText } from './format';
@@ -11,7 +11,7 @@ import { DomainError, type CalcFunction, type KernelArgument, type ParamKind, ty
 import type { LibraryBinding } from './math-instance';
 
 /** SI base unit of each physical kind, and the alternative dimension it accepts. */
-const KIND_UNITS: Record<Exclude<ParamKind, 'number'>, { si: string; label: string; alt?: { si: string; label: string; toSi: (x: number) => number } }> = {
+const KIND_UNITS: Record<Exclude<ParamKind, 'number'>, { si: string; label: string; alt?: { si: string; label: string; toSi: (x: number) => number; written?: (unit: Unit) => boolean } }> = {
   speed: { si: 'm/s', label: 'a speed' },
   mass: { si: 'kg', label: 'a mass', alt: { si: 'J', label: 'an energy (read as mc²)', toSi: (x) => x / (C * C) } },
   energy: { si: 'J', label: 'an energy' },
@@ -26,6 +26,13 @@ const KIND_UNITS: Record<Exclude<ParamKind, 'number'>, { si: string; label: stri
   'gravitational-parameter': { si: 'm^3/s^2', label: 'a gravitational parameter GM (m³/s², e.g. GM_E)' },
   area: { si: 'm^2', label: 'an area' },
   'magnetic-field': { si: 'T', label: 'a magnetic flux density (T)' },
+  // 430 MeV/u as the therapy trade writes it: per nucleon, so the energy per mass times one u (m_u).
+  'energy-per-nucleon': {
+    si: 'J',
+    label: 'a kinetic energy per nucleon (an energy, e.g. 430 MeV)',
+    // Only a unit written per u (or Da): 430 MeV/kg, or an m²/s² that happens to share the dimension, is refused.
+    alt: { si: 'J/kg', label: 'an energy per nucleon written as MeV/u', toSi: (x) => x * M_U, written: (unit) => unit.units.some((u) => ['u', 'Da'].includes(u.unit.name) && u.power === -1) },
+  },
 };
 
 const RETURN_UNITS: Record<Exclude<ReturnKind, 'number' | 'speed' | 'pair-time-length'>, string> = {
@@ -143,7 +150,7 @@ export function bindLibrary(math: MathJsInstance, library: readonly CalcFunction
         const si = unit.value as number;
         return param.kind === 'speed' ? si / C : si;
       }
-      if (spec.alt && unit.equalBase(baseOf(spec.alt.si))) return spec.alt.toSi(unit.value as number);
+      if (spec.alt && unit.equalBase(baseOf(spec.alt.si)) && (spec.alt.written?.(unit) ?? true)) return spec.alt.toSi(unit.value as number);
       throw new ArgumentError(
         `${where} must be ${spec.label}${spec.alt ? ` or ${spec.alt.label}` : ''}${param.kind === 'speed' ? ' or a plain β' : ''}; got ${describe(unit)}`,
       );

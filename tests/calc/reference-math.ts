@@ -156,6 +156,21 @@ export const REFERENCES: Record<string, Ref> = {
   speedFromMomentum: (p, m) => speedFromMomentumRef(exact(p), exact(m)),
   kineticFromMomentum: (p, m) => kineticFromMomentumRef(exact(p), exact(m)),
   kineticFromRigidity: (Brho, m, q) => kineticFromMomentumRef(exact(Brho).mul(exact(q)).abs(), exact(m)),
+  // Ion beams: the ion's mass (AME convention, Lunney et al. 2003 eq. A4 for the fully stripped ion) and
+  // the kinematics of T = A·Tn (per nucleon), textbook forms.
+  ionMass: (M, Z, q) => {
+    const n = exact(q).div(REF_E).round();
+    const stripped = exact(M).minus(n.mul(REF_ME));
+    if (!n.eq(Z)) return stripped;
+    const eV = new D('14.4381').mul(new D(Z).pow('2.39')).plus(new D('1.55468e-6').mul(new D(Z).pow('5.35')));
+    return stripped.plus(eV.mul(REF_E).div(C2));
+  },
+  gammaFromKineticPerNucleon: (Tn, A, m) => ONE.plus(exact(Tn).mul(A).div(exact(m).mul(C2))),
+  speedFromKineticPerNucleon: (Tn, A, m) => betaFromKinetic(exact(Tn).mul(A), exact(m)),
+  momentumFromKineticPerNucleon: (Tn, A, m) => momentumFromKineticRef(exact(Tn).mul(A), exact(m)),
+  rigidityFromKineticPerNucleon: (Tn, A, m, q) => momentumFromKineticRef(exact(Tn).mul(A), exact(m)).div(exact(q)),
+  kineticPerNucleonFromRigidity: (Brho, A, m, q) => kineticFromMomentumRef(exact(Brho).mul(exact(q)).abs(), exact(m)).div(A),
+  kineticPerNucleonFromMomentum: (p, A, m) => kineticFromMomentumRef(exact(p), exact(m)).div(A),
   // Satellite timing and spaceflight. GM_E (IERS 2010) is an integer, exact as a double; L_G (IAU 2000
   // B1.9) and ω_E (IS-GPS-200) are taken as their decimal values.
   gravitationalRateOffset: (GM, r, ref) => exact(GM).div(C2).mul(ONE.div(exact(ref)).minus(ONE.div(exact(r)))),
@@ -217,6 +232,13 @@ export function fromDistanceRef(a0: number, d: number | Dec): { beta: Dec; t: De
     t: REF_C.div(a).mul(gamma.mul(gamma).minus(1).sqrt()),
     tau: REF_C.div(a).mul(D.acosh(gamma)),
   };
+}
+
+/** p = √(E² − m²c⁴)/c, E = T + mc² (PDG RPP 2024, "Kinematics"), 50 digits. */
+export function momentumFromKineticRef(T: Dec, m: Dec): Dec {
+  const rest = m.mul(C2);
+  const E = T.plus(rest);
+  return E.mul(E).minus(rest.mul(rest)).sqrt().div(REF_C);
 }
 
 /** β = pc/E, E = √(p²c² + m²c⁴) (PDG RPP 2024, "Kinematics"), 50 digits. */
@@ -493,6 +515,47 @@ export function surveyCases(): Record<string, number[][]> {
     }).filter(([, g]) => g >= 1),
   ];
   cases.transitionGamma = logSpace(-12, 2, 120).map((al) => [al]);
+
+  // Ion beams (drawn after every grid above): atoms from ¹H to ²³⁸U in every charge state class; ions
+  // of A = 1 … 238 with T/A from 1e-24 to 1e12 of their rest energy per nucleon, momenta over 24 decades.
+  const atoms: Array<[number, number]> = [
+    [1.6735328401021743e-27, 1],
+    [6.646479080869192e-27, 2],
+    [1.992646882704e-26, 6],
+    [2.65601806293209e-26, 8],
+    [3.319822799562595e-26, 10],
+    [3.9529e-25, 92],
+  ];
+  // Every charge state from −1 to min(Z, 12), and Z: at least 50 samples.
+  cases.ionMass = atoms.flatMap(([M, Z]) =>
+    [...Array.from({ length: Math.min(Z, 12) + 2 }, (_, i) => i - 1), ...(Z > 12 ? [Z] : [])].map((q) => [M, Z, q * 1.602176634e-19]),
+  );
+  const ions: Array<[number, number, number]> = [
+    [1, 1.67262192595e-27, 1],
+    [4, 6.644657345e-27, 2],
+    [12, 1.9921005e-26, 6],
+    [12, 1.99221e-26, 4],
+    [16, 2.6551e-26, 8],
+    [20, 3.3187e-26, 10],
+    [238, 3.9516e-25, 92],
+  ];
+  const perNucleon = ratios.map((x) => {
+    const [A, m, z] = pick(ions);
+    return [x * (m / A) * C_NUM * C_NUM, A, m, z];
+  });
+  cases.gammaFromKineticPerNucleon = perNucleon.map(([Tn, A, m]) => [Tn, A, m]);
+  cases.speedFromKineticPerNucleon = perNucleon.map(([Tn, A, m]) => [Tn, A, m]);
+  cases.momentumFromKineticPerNucleon = perNucleon.map(([Tn, A, m]) => [Tn, A, m]);
+  cases.rigidityFromKineticPerNucleon = perNucleon.map(([Tn, A, m, z]) => [Tn, A, m, (rand() < 0.5 ? -z : z) * 1.602176634e-19]);
+  const ionMomenta = logSpace(-12, 12, 240).map((y) => {
+    const [A, m, z] = pick(ions);
+    return [y * m * C_NUM, A, m, z];
+  });
+  cases.kineticPerNucleonFromMomentum = ionMomenta.map(([p, A, m]) => [p, A, m]);
+  cases.kineticPerNucleonFromRigidity = ionMomenta.map(([p, A, m, z]) => {
+    const q = (rand() < 0.5 ? -z : z) * 1.602176634e-19;
+    return [p / q, A, m, q];
+  });
 
   return cases;
 }

@@ -1,6 +1,6 @@
 import { finiteResult, requireNonNegative, requirePositive } from './support/domain';
-import { add, dd, div, round } from './support/double-double';
-import { ONE, restEnergy } from './support/kinematics';
+import { dd, round } from './support/double-double';
+import { gammaFromKineticDD } from './support/kinematics';
 import type { CalcFunction, KernelArgument } from './types';
 
 const FN = 'gammaFromKinetic';
@@ -41,6 +41,6 @@ export const gammaFromKinetic: CalcFunction = {
   kernel: (T: KernelArgument, m: KernelArgument): number => {
     requireNonNegative(FN, 'T', T as number, 'J', 'a kinetic energy');
     requirePositive(FN, 'm', m as number, 'kg', 'a body with a rest frame has mass');
-    return finiteResult(FN, round(add(div(dd(T as number), restEnergy(m as number)), ONE)));
+    return finiteResult(FN, round(gammaFromKineticDD(dd(T as number), m as number)));
   },
 };

@@ -10,6 +10,13 @@ import { momentumSpreadFromEnergySpread } from './momentum-spread-from-energy-sp
 import { revolutionFrequency } from './revolution-frequency';
 import { synchrotronCriticalEnergy } from './synchrotron-critical-energy';
 import { twoBodyDecayMomentum } from './two-body-decay-momentum';
+import { ionMass } from './ion-mass';
+import { gammaFromKineticPerNucleon } from './gamma-from-kinetic-per-nucleon';
+import { speedFromKineticPerNucleon } from './speed-from-kinetic-per-nucleon';
+import { momentumFromKineticPerNucleon } from './momentum-from-kinetic-per-nucleon';
+import { rigidityFromKineticPerNucleon } from './rigidity-from-kinetic-per-nucleon';
+import { kineticPerNucleonFromRigidity } from './kinetic-per-nucleon-from-rigidity';
+import { kineticPerNucleonFromMomentum } from './kinetic-per-nucleon-from-momentum';
 import { interactionConstant } from './interaction-constant';
 import { relativisticVoltage } from './relativistic-voltage';
 import { wavelengthFromKinetic } from './wavelength-from-kinetic';
@@ -76,6 +83,14 @@ export {
 
   synchrotronCriticalEnergy,
   twoBodyDecayMomentum,
+
+  ionMass,
+  gammaFromKineticPerNucleon,
+  speedFromKineticPerNucleon,
+  momentumFromKineticPerNucleon,
+  rigidityFromKineticPerNucleon,
+  kineticPerNucleonFromRigidity,
+  kineticPerNucleonFromMomentum,
 
   interactionConstant,
   relativisticVoltage,
@@ -166,6 +181,15 @@ export const LIBRARY: readonly CalcFunction[] = Object.freeze([
   betaGammaFromMomentum,
   kineticFromMomentum,
   kineticFromRigidity,
+  // Ion beams (issue 17): the ion's mass from the atomic mass, and kinematics from the kinetic
+  // energy per nucleon (T/A, the trade's MeV/u) and back.
+  ionMass,
+  gammaFromKineticPerNucleon,
+  speedFromKineticPerNucleon,
+  momentumFromKineticPerNucleon,
+  rigidityFromKineticPerNucleon,
+  kineticPerNucleonFromRigidity,
+  kineticPerNucleonFromMomentum,
   // Satellite timing and spaceflight (issue 17).
   gravitationalRateOffset,
   orbitClockRateOffset,

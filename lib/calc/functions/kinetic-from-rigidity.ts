@@ -1,7 +1,7 @@
 import { finiteResult, requireFinite, requireNonNegative } from './support/domain';
-import { neg, round, twoProd } from './support/double-double';
-import { kineticFromMomentumDD } from './support/kinematics';
-import { type CalcFunction, DomainError, type KernelArgument } from './types';
+import { round } from './support/double-double';
+import { kineticFromMomentumDD, momentumFromRigidityDD } from './support/kinematics';
+import type { CalcFunction, KernelArgument } from './types';
 
 const FN = 'kineticFromRigidity';
 
@@ -47,12 +47,6 @@ export const kineticFromRigidity: CalcFunction = {
     const Brho = requireFinite(FN, 'Brho', BrhoArg as number);
     const m = requireNonNegative(FN, 'm', mArg as number, 'kg', 'a rest mass');
     const q = requireFinite(FN, 'q', qArg as number);
-    if (q === 0) throw new DomainError(`${FN}: q must not be zero (a neutral particle has no rigidity); got q = 0 C`);
-    if (Brho !== 0 && Math.sign(Brho) !== Math.sign(q)) {
-      throw new DomainError(`${FN}: Brho must have the sign of q (Bρ = p/q with p ≥ 0); got Brho = ${Brho} T m, q = ${q} C`);
-    }
-    const qBrho = twoProd(Brho, q);
-    const p = qBrho[0] < 0 ? neg(qBrho) : qBrho;
-    return finiteResult(FN, round(kineticFromMomentumDD(p, m)));
+    return finiteResult(FN, round(kineticFromMomentumDD(momentumFromRigidityDD(FN, Brho, q), m)));
   },
 };

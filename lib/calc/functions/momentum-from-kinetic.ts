@@ -1,6 +1,6 @@
 import { finiteResult, requireNonNegative } from './support/domain';
-import { add, div, dd, mul, round, scale, sqrt } from './support/double-double';
-import { C_DD, restEnergy } from './support/kinematics';
+import { dd, round } from './support/double-double';
+import { momentumFromKineticDD } from './support/kinematics';
 import type { CalcFunction } from './types';
 
 const FN = 'momentumFromKinetic';
@@ -40,8 +40,6 @@ export const momentumFromKinetic: CalcFunction = {
   kernel: (T: number, m: number): number => {
     requireNonNegative(FN, 'T', T, 'J', 'a kinetic energy');
     requireNonNegative(FN, 'm', m, 'kg', 'a rest mass');
-    const t = dd(T);
-    const pc = mul(sqrt(t), sqrt(add(t, scale(restEnergy(m), 2))));
-    return finiteResult(FN, round(div(pc, C_DD)));
+    return finiteResult(FN, round(momentumFromKineticDD(dd(T), m)));
   },
 };

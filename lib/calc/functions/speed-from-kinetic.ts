@@ -1,6 +1,6 @@
 import { requireNonNegative } from './support/domain';
-import { add, div, dd } from './support/double-double';
-import { betaFromKineticRatio, C_SQUARED, massiveResult, ONE, speedValue } from './support/kinematics';
+import { dd } from './support/double-double';
+import { speedFromKineticDD, speedValue } from './support/kinematics';
 import { type CalcFunction, DomainError, type KernelArgument, type PreciseSpeed } from './types';
 
 function precise(TArg: KernelArgument, mArg: KernelArgument): PreciseSpeed | number {
@@ -10,12 +10,8 @@ function precise(TArg: KernelArgument, mArg: KernelArgument): PreciseSpeed | num
     if (T === 0) throw new DomainError(`${FN}: the speed of a massless particle with no energy is undefined; got T = 0 J, m = 0 kg`);
     return { beta: [1, 0], inverseGamma: [0, 0] };
   }
-  // x = (T/m)/c² rather than T/(mc²): mc² overflows for m above 2e291 kg, where T/m may not.
-  const x = div(div(dd(T), dd(m)), C_SQUARED);
-  // T/m beyond the double range (x not finite): β rounds to 1 and γ is not representable.
-  if (!(x[0] <= 2 ** 500)) return massiveResult([1, 0], Number.isFinite(x[0]) ? div(ONE, x) : [0, 0]);
-  // β = √(x(x + 2))/(x + 1) and 1/γ = 1/(1 + x): the companion keeps γ exactly as T/mc² gives it.
-  return massiveResult(betaFromKineticRatio(x), div(ONE, add(x, ONE)));
+  // β = √(x(x + 2))/(x + 1) and 1/γ = 1/(1 + x), x = (T/m)/c²: the companion keeps γ exactly as T/mc² gives it.
+  return speedFromKineticDD(dd(T), m);
 }
 
 const FN = 'speedFromKinetic';

@@ -18,6 +18,10 @@
  * - rigidity: a magnetic rigidity Bρ (T m, or anything of that dimension, such as momentum/charge) → T m
  * - gravitational-parameter: GM of a body (m³/s², e.g. GM_E) → m³/s²
  * - area → m²; magnetic-field: a magnetic flux density → T
+ * - energy-per-nucleon: a kinetic energy PER NUCLEON (T/A, A the mass number), as an energy (430 MeV)
+ *   or as the trade writes it, 430 MeV/u: an energy per mass whose mass unit is read as one nucleon
+ *   (the value times m_u) → J per nucleon. Not per atomic mass unit of the ion's mass: those differ
+ *   by m/(A u) (see lib/calc/README.md, "Ions: atomic masses, charge states and the energy per nucleon")
  * - number: a plain (dimensionless) number
  */
 export type ParamKind =
@@ -35,6 +39,7 @@ export type ParamKind =
   | 'gravitational-parameter'
   | 'area'
   | 'magnetic-field'
+  | 'energy-per-nucleon'
   | 'number';
 
 /**

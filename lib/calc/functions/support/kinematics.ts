@@ -166,3 +166,42 @@ export function kineticFromMomentumDD(p: DD, m: number): DD {
   const y = div(div(p, dd(m)), C_DD);
   return mul(pc, div(y, add(hypotOne(y), ONE)));
 }
+
+// ---------------------------------------------------------------------------------------------
+// From a kinetic energy given in double-double (so that T = A·(T/A), an exact product, loses
+// nothing before the kinematics): the numerics of gammaFromKinetic, momentumFromKinetic and
+// speedFromKinetic, shared with their per-nucleon forms.
+
+/** γ = 1 + T/(mc²), m > 0. */
+export function gammaFromKineticDD(T: DD, m: number): DD {
+  return add(div(T, restEnergy(m)), ONE);
+}
+
+/** pc = √T·√(T + 2mc²) (no E² − m²c⁴ cancellation; no square leaves the double range); p = pc/c. */
+export function momentumFromKineticDD(T: DD, m: number): DD {
+  return div(mul(sqrt(T), sqrt(add(T, scale(restEnergy(m), 2)))), C_DD);
+}
+
+/**
+ * β = √(x(x + 2))/(x + 1) and 1/γ = 1/(1 + x), x = (T/m)/c² (not T/(mc²): mc² overflows for m above
+ * 2e291 kg, where T/m may not), for m > 0.
+ */
+export function speedFromKineticDD(T: DD, m: number): PreciseSpeed | number {
+  const x = div(div(T, dd(m)), C_SQUARED);
+  // T/m beyond the double range (x not finite): β rounds to 1 and γ is not representable.
+  if (!(x[0] <= 2 ** 500)) return massiveResult([1, 0], Number.isFinite(x[0]) ? div(ONE, x) : [0, 0]);
+  return massiveResult(betaFromKineticRatio(x), div(ONE, add(x, ONE)));
+}
+
+/**
+ * p = |qBρ| as an exact (Dekker) product, for Bρ and q already finite: q ≠ 0 and Bρ of the sign of q
+ * (Bρ = p/q with p ≥ 0; 0 allowed), refused otherwise naming the function.
+ */
+export function momentumFromRigidityDD(fn: string, Brho: number, q: number): DD {
+  if (q === 0) throw new DomainError(`${fn}: q must not be zero (a neutral particle has no rigidity); got q = 0 C`);
+  if (Brho !== 0 && Math.sign(Brho) !== Math.sign(q)) {
+    throw new DomainError(`${fn}: Brho must have the sign of q (Bρ = p/q with p ≥ 0); got Brho = ${Brho} T m, q = ${q} C`);
+  }
+  const qBrho = twoProd(Brho, q);
+  return qBrho[0] < 0 ? [-qBrho[0], -qBrho[1]] : qBrho;
+}
