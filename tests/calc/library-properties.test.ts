@@ -277,6 +277,64 @@ describe('hyperbolic motion', () => {
   });
 });
 
+describe('hyperbolic motion by distance, and trips (Rindler 2006, ch. 3)', () => {
+  const w = magnitude(-12, 6);
+  const acceleration = signed(magnitude(-3, 20));
+  const timeFromDistance = n2(lib.hyperbolicCoordinateTimeFromDistance);
+  const properTimeFromDistance = n2(lib.hyperbolicProperTimeFromDistance);
+  const speedFromDistance = n2(lib.hyperbolicSpeedFromDistance);
+  const tripTime = n2(lib.hyperbolicTripCoordinateTime);
+  const tripProperTime = n2(lib.hyperbolicTripProperTime);
+  const tripPeakSpeed = n2(lib.hyperbolicTripPeakSpeed);
+
+  it('inverts hyperbolicDistance: the time, proper time and speed at x(t) are those at t', () => {
+    // d = |x(t)| is within half an ulp; t, τ and β depend on d with a sensitivity d ln f/d ln d ≤ 1, and
+    // each kernel rounds once more: within 2u relative, asserted with room at 4u.
+    fc.assert(
+      fc.property(acceleration, w, (a, ww) => {
+        const t = (ww * C) / Math.abs(a);
+        const d = Math.abs(hyperbolicDistance(a, t));
+        expect(Math.abs(timeFromDistance(a, d) / t - 1)).toBeLessThanOrEqual(4 * u);
+        expect(Math.abs(properTimeFromDistance(a, d) / hyperbolicProperTime(a, t) - 1)).toBeLessThanOrEqual(4 * u);
+        expect(Math.abs(speedFromDistance(a, d) / hyperbolicSpeed(a, t) - 1)).toBeLessThanOrEqual(4 * u);
+      }),
+      { numRuns: 3000 },
+    );
+  });
+
+  it('a trip is never faster than light nor than the Galilean 2√(d/a0), its clock never ahead of the lab', () => {
+    fc.assert(
+      fc.property(acceleration, w, (a, ww) => {
+        const d = (ww * C * C) / Math.abs(a);
+        const t = tripTime(a, d);
+        expect(t).toBeGreaterThanOrEqual((d / C) * (1 - 2 * u));
+        expect(t).toBeGreaterThanOrEqual(2 * Math.sqrt(d / Math.abs(a)) * (1 - 2 * u));
+        expect(tripProperTime(a, d)).toBeLessThanOrEqual(t);
+        const peak = tripPeakSpeed(a, d);
+        expect(Math.abs(peak)).toBeLessThan(1);
+        expect(Math.sign(peak)).toBe(Math.sign(a));
+      }),
+      { numRuns: 3000 },
+    );
+  });
+});
+
+describe('slip factor and transition (S. Y. Lee, Accelerator Physics, ch. 3)', () => {
+  it('η changes sign at γ_t = 1/√α_c: negative below, positive above, however close (1e-12 relative)', () => {
+    const slipFactor = n2(lib.slipFactor);
+    const transitionGamma = n1(lib.transitionGamma);
+    fc.assert(
+      fc.property(magnitude(-6, -0.5), magnitude(-12, -1), fc.boolean(), (alpha, offset, above) => {
+        const gt = transitionGamma(alpha); // within half an ulp of 1/√α_c, far closer than the offset
+        const gamma = gt * (above ? 1 + offset : 1 - offset);
+        if (!(gamma >= 1)) return;
+        expect(Math.sign(slipFactor(alpha, gamma))).toBe(above ? 1 : -1);
+      }),
+      { numRuns: 3000 },
+    );
+  });
+});
+
 describe('Lorentz transformation and aberration', () => {
   const event = fc.tuple(signed(magnitude(-9, 6)), fc.double({ min: -3, max: 3, noNaN: true }));
 
