@@ -7,10 +7,10 @@ import { unitLabel } from '../../lib/calc/unit-label';
 import { clip45, SERIES_COLORS } from '../../lib/plots/plot-figure';
 import { plotSvg, serverPlotElement } from '../../lib/plots/plot-svg';
 
-// SI Brochure, 9th ed. (2019): c = 299 792 458 m/s exact; standard gravity g_n = 9.806 65 m/s²
-// exact (3rd CGPM, 1901). IAU: light-year = c × one Julian year of 365.25 days of 86 400 s.
+// SI Brochure, 9th ed. (2019): c = 299 792 458 m/s exact. A proper acceleration of 25 m/s² (a test
+// value, no published source). IAU: light-year = c × one Julian year of 365.25 days of 86 400 s.
 const c = 299_792_458;
-const a = 9.80665;
+const a = 25;
 const year = 365.25 * 86_400;
 const ly = c * year;
 // Rindler horizon of constant proper acceleration a from rest at the origin: x = ct − c²/a
@@ -32,7 +32,7 @@ const spacetime: PlotData = {
   kind: 'spacetime',
   x: { label: 'x', unit: 'ly' },
   y: { label: 'ct', unit: 'ly' },
-  series: [{ name: 'rocket at 1 g', points: worldline(3, 60) }],
+  series: [{ name: 'worldline at 25 m/s²', points: worldline(3, 60) }],
   horizons: [{ name: 'Rindler horizon', distance: horizon }],
 };
 
@@ -75,10 +75,10 @@ describe('the space-time diagram of hyperbolic motion', () => {
   const svg = parse(plotSvg(spacetime, OPTIONS));
   const { x: sx, y: sy } = scales(spacetime);
 
-  it('uses the horizon distance c²/a of 1 g, about 0.969 ly', () => {
-    // c²/a = 9.164 74 × 10¹⁵ m; 1 ly = 9.460 730 472 580 8 × 10¹⁵ m (IAU); ratio 0.968 7 (computed above from the exact constants).
-    expect(horizon).toBeGreaterThan(0.968);
-    expect(horizon).toBeLessThan(0.97);
+  it('uses the horizon distance c²/a of 25 m/s², about 0.380 ly', () => {
+    // c²/a = 3.595 02 × 10¹⁵ m; 1 ly = 9.460 730 472 580 8 × 10¹⁵ m (IAU); ratio 0.379 99 (computed above from the exact constants).
+    expect(horizon).toBeGreaterThan(0.3799);
+    expect(horizon).toBeLessThan(0.3801);
   });
 
   it('is a standalone SVG with an explicit size and the shipped text face', () => {
@@ -90,7 +90,7 @@ describe('the space-time diagram of hyperbolic motion', () => {
   });
 
   it('draws the worldline through the figure\'s scales, point by point', () => {
-    const paths = [...svg.querySelectorAll('path[aria-label="series rocket at 1 g"]')];
+    const paths = [...svg.querySelectorAll('path[aria-label="series worldline at 25 m/s²"]')];
     expect(paths).toHaveLength(1);
     const drawn = pathPoints(paths[0].getAttribute('d')!);
     const data = spacetime.series[0].points;
@@ -141,13 +141,13 @@ describe('the space-time diagram of hyperbolic motion', () => {
     expect(Math.abs((hx - x1) * (y2 - y1) - (hy - y1) * (x2 - x1)) / Math.hypot(x2 - x1, y2 - y1)).toBeLessThan(0.003);
     // Hyperbolic motion never reaches its horizon: x > ct − c²/a at every event.
     for (const [x, ct] of spacetime.series[0].points) expect(x).toBeGreaterThan(ct - horizon);
-    expect(text(svg, 'text')).toContain('Rindler horizon: x = ct − 0.9687 ly');
+    expect(text(svg, 'text')).toContain('Rindler horizon: x = ct − 0.3800 ly');
   });
 
   it('titles the axes "x (ly)" and "ct (ly)", and has a legend', () => {
     expect(text(svg, 'x-axis label')).toContain('x (ly)');
     expect(text(svg, 'y-axis label')).toContain('ct (ly)');
-    expect(text(svg, 'legend')).toContain('rocket at 1 g');
+    expect(text(svg, 'legend')).toContain('worldline at 25 m/s²');
     expect(text(svg, 'legend')).toContain('light lines x = ±ct');
   });
 

@@ -15,9 +15,10 @@ const folder = mkdtempSync(path.join(tmpdir(), 'ws-plot-pdf-'));
 const run = (tool: string, args: string[]) => execFileSync(tool, args, { encoding: 'utf8', maxBuffer: 64 * 1024 * 1024 });
 const flat = (s: string) => s.replace(/\s+/g, ' ');
 
-// SI Brochure, 9th ed.: c exact, g_n = 9.806 65 m/s² exact; IAU light-year = c × 365.25 d.
+// SI Brochure, 9th ed.: c exact; a proper acceleration of 25 m/s² (a test value, no published source);
+// IAU light-year = c × 365.25 d.
 const c = 299_792_458;
-const a = 9.80665;
+const a = 25;
 const year = 365.25 * 86_400;
 const ly = c * year;
 
@@ -31,7 +32,7 @@ const plot: PlotData = {
   kind: 'spacetime',
   x: { label: 'x', unit: 'ly' },
   y: { label: 'ct', unit: 'ly' },
-  series: [{ name: 'rocket at 1 g', points: worldline }],
+  series: [{ name: 'test worldline', points: worldline }],
   horizons: [{ name: 'Rindler horizon', distance: (c * c) / a / ly }],
 };
 
@@ -109,7 +110,7 @@ const STUDY_SOURCE = [
   'Brho_u = magneticRigidity(momentumFromKinetic(T_u, m_p), q_e) to T*m',
   'B_ref = fromRevision("TPT2-CALC-0003", "B", "Brho")',
   'sweep(T_kin, [70, 150, -10, 250] MeV, Brho)',
-  'spacetime(hyperbolicDistance(g_n, t) to ly, c*t to ly)',
+  'spacetime(hyperbolicDistance(25 m/s^2, t) to ly, c*t to ly)',
   'sweep(E_step, 70 MeV : 1 MeV : 209 MeV, beta_step)',
 ];
 
@@ -181,13 +182,13 @@ describe('a plot in the issued PDF', () => {
     const text = flat(pages[plotPage]);
     expect(text).toContain('x (ly)');
     expect(text).toContain('ct (ly)');
-    expect(text).toContain('rocket at 1 g');
+    expect(text).toContain('test worldline');
     expect(text).toContain('light lines x = ±ct');
     expect(text).toContain('Figure, L5');
     expect(text).toContain('Space-time diagram, ct (ly) against x (ly), equal scales');
     // The horizon's label runs along the line at 45°, so pdftotext may cut it into pieces: the whole
     // words are in the caption, the rotated label's own glyphs are checked in the figure's pixels.
-    expect(whole).toContain('horizon Rindler horizon: x = ct − 0.968 715 ly');
+    expect(whole).toContain('horizon Rindler horizon: x = ct − 0.379 994 ly'); // c²/a in light-years, computed above
   });
 
   it('is drawn as vector graphics: the worldline\'s blue and the horizon\'s brown are on the page, and there are no images', () => {
