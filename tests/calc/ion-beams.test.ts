@@ -166,6 +166,15 @@ describe('in a sheet: 430 MeV/u is read as per nucleon', () => {
     expectRelative(c.value!.number!, b.value!.number!, 2 ** -51); // MeV/u times u: one rounding
   });
 
+  it('the speed carries its precise companion: γ from it is the direct γ', () => {
+    const [, v, g1, g2] = run(
+      'm_C = ionMass(M_C12, 6, 6)\nv = speedFromKineticPerNucleon(430 MeV/u, 12, m_C)\ng_1 = lorentzFactor(v)\ng_2 = gammaFromKineticPerNucleon(430 MeV/u, 12, m_C)',
+    );
+    expect(v.value?.unit).toBe('m / s');
+    // common practice: γ = 1/√(1 − β²) = 1 + T/mc² (PDG kinematics), the same to the last bit through the companion
+    expectRelative(g1.value!.number!, g2.value!.number!, 2 ** -52);
+  });
+
   it('refuses an energy per mass not written per u, and an energy per u where a total energy is meant', () => {
     const [bad] = run('rigidityFromKineticPerNucleon(430 MeV/kg, 12, ionMass(M_C12, 6, 6), 6)');
     expect(bad.error).toContain('must be a kinetic energy per nucleon (an energy, e.g. 430 MeV) or an energy per nucleon written as MeV/u');
