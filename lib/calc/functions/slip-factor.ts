@@ -24,7 +24,7 @@ const FN = 'slipFactor';
  * α_c = 3.225e-4 at 450 GeV total energy, above transition).
  *
  * Source: S. Y. Lee, Accelerator Physics, 3rd ed. (2012), ch. 3 (synchrotron motion: η = α_c − 1/γ²);
- * Particle Data Group, Review of Particle Physics, "Accelerator physics of colliders".
+ * the opposite sign: H. Wiedemann, Particle Accelerator Physics (η_c = 1/γ² − α_c).
  *
  * Numerics: near transition α_c and 1/γ² are nearly equal and their difference cancels; 1/γ² is
  * formed in double-double and the difference is exact, so the result is the correctly rounded
@@ -45,7 +45,7 @@ export const slipFactor: CalcFunction = {
     example: 'slipFactor(3.225e-4, 450 GeV / (m_p * c^2))',
     exampleResult: '3.1815e-4 (an LHC-like ring, α_c = 3.225e-4, at 450 GeV total energy: above transition)',
     source:
-      'S. Y. Lee, Accelerator Physics, 3rd ed. (2012), ch. 3 (η = α_c − 1/γ², ΔT/T = η Δp/p); Particle Data Group, Review of Particle Physics, "Accelerator physics of colliders". Opposite sign convention: H. Wiedemann, Particle Accelerator Physics.',
+      'S. Y. Lee, Accelerator Physics, 3rd ed. (2012), ch. 3 (η = α_c − 1/γ², ΔT/T = η Δp/p). Opposite sign convention: H. Wiedemann, Particle Accelerator Physics (η_c = 1/γ² − α_c).',
     numerics:
       'Near transition α_c and 1/γ² nearly cancel. 1/γ² is formed in double-double and the difference is exact, so the result is α_c − 1/γ² correctly rounded for the given inputs however close γ is to γ_t (the double 1/(γ*γ) alone would leave only the digits beyond the cancellation).',
   },
