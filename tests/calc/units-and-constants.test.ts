@@ -1,6 +1,7 @@
 // Units and constants of the engine's mathjs instance, against the SI Brochure (9th edition, 2019)
 // and CODATA 2022.
 import { describe, expect, it } from 'vitest';
+import katex from 'katex';
 import { CONSTANTS } from '../../lib/calc/constants';
 import { createSheetEngine } from '../../lib/calc/sheet-engine';
 import { D, ulpError } from './reference-math';
@@ -198,5 +199,16 @@ describe('a dimensionless constant: L_G (IAU 2000 Resolution B1.9)', () => {
       const [st] = run('y_lg = 2 * L_G', setting);
       expect(st.substitutedTex, setting).toBe('y_{\\mathrm{lg}} = 2\\cdot\\left(6.969\\,290\\,134 \\times 10^{-10}\\right)');
     }
+  });
+
+  it('typesets every constant, and a formula using the new ones with their values substituted, in KaTeX', () => {
+    // common practice: a formula the checker cannot see is a formula the checker cannot check.
+    for (const k of CONSTANTS) expect(() => katex.renderToString(k.tex, { throwOnError: true }), k.name).not.toThrow();
+    const engine = createSheetEngine();
+    const source = 'x = (m_pi + m_pi0 + m_K + m_K0 + m_Lambda + m_tau + m_d + m_triton + m_helion + m_alpha) / (M_H1 + M_He4 + M_C12 + M_O16 + M_Ne20)';
+    const [st] = engine.evaluate([{ id: 'c1', kind: 'calc', source }], { significantFigures: 6 }).cells[0].statements;
+    expect(st.error).toBeNull();
+    for (const tex of [st.tex, st.substitutedTex ?? '']) expect(() => katex.renderToString(tex, { throwOnError: true }), tex).not.toThrow();
+    expect(st.tex).toContain('M(^{12}\\mathrm{C})');
   });
 });
