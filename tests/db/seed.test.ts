@@ -5,6 +5,9 @@ import { createSheetEngine } from '../../lib/calc/sheet-engine';
 import { versionContentSchema } from '../../lib/sheets/content';
 import { contentHash } from '../../lib/sheets/content-hash';
 import { demoStarterSheets } from '../../db/starters';
+import type { SheetResult } from '../../lib/calc/types';
+import { submissionFindings } from '../../lib/checks/submission-findings';
+import type { VersionContent } from '../../lib/sheets/content';
 import { testDb } from '../support/database';
 
 async function counts() {
@@ -105,7 +108,7 @@ it('seeds the starter sheets when asked: marked as starters, every cell without 
   const rows = await testDb()
     .selectFrom('sheets as s')
     .innerJoin('versions as v', 'v.sheet_id', 's.id')
-    .select(['s.number', 's.starter', 'v.results'])
+    .select(['s.number', 's.starter', 'v.results', 'v.content'])
     .where('s.starter', '=', true)
     .orderBy('s.number')
     .execute();
@@ -117,6 +120,8 @@ it('seeds the starter sheets when asked: marked as starters, every cell without 
     const criteria = results.cells.flatMap((c) => c.statements).filter((s) => s.kind === 'criterion');
     expect(criteria.length, `starter ${r.number} has a design criterion`).toBeGreaterThan(0);
     expect(criteria.every((s) => s.criterion?.pass), `starter ${r.number}`).toBe(true);
+    // Nothing to acknowledge at submission: no error, failed criterion, engine warning or mismatched design input.
+    expect(submissionFindings(r.content as VersionContent, r.results as SheetResult), `starter ${r.number}`).toEqual([]);
   }
   // The demo sheets are not starters.
   expect((await testDb().selectFrom('sheets').select('number').where('starter', '=', false).orderBy('number').execute()).map((r) => r.number)).toEqual([1, 2, 3]);
