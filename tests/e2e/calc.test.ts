@@ -89,11 +89,16 @@ it('lists every library function with its formula typeset', async () => {
   for (const name of ['lorentzFactor', 'gammaMinusOne', 'momentumFromKinetic', 'clockRateOffset', 'rocketDeltaV']) {
     await expect(page.locator(`article#${name} .katex`).count()).resolves.toBeGreaterThan(0);
   }
-  await expect(page.getByRole('cell', { name: 'CODATA 2022' }).count()).resolves.toBe(5);
+  // m_e, m_p, m_n, m_u, m_mu, m_tau; the light nuclei name their relative atomic mass beside it.
+  await expect(page.getByRole('cell', { name: 'CODATA 2022', exact: true }).count()).resolves.toBe(6);
+  await expect(page.getByRole('cell', { name: /^PDG, Review of Particle Physics 2024/ }).count()).resolves.toBe(5);
+  await expect(page.getByRole('cell', { name: /^AME 2020/ }).count()).resolves.toBe(4);
   await page.getByLabel('Search the functions').fill('rigidity');
-  await page.getByRole('status').filter({ hasText: /^2 of \d+ functions$/ }).waitFor();
+  await page.getByRole('status').filter({ hasText: /^4 of \d+ functions$/ }).waitFor();
   await expect(page.locator('article#magneticRigidity').count()).resolves.toBe(1);
   await expect(page.locator('article#kineticFromRigidity').count()).resolves.toBe(1);
+  await expect(page.locator('article#rigidityFromKineticPerNucleon .katex').count()).resolves.toBeGreaterThan(0);
+  await expect(page.locator('article#kineticPerNucleonFromRigidity').count()).resolves.toBe(1);
   await expect(page.locator('article#lorentzFactor').count()).resolves.toBe(0);
   await page.getByLabel('Search the functions').fill('');
   await session.screenshot('function-reference');
