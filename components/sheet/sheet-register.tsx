@@ -16,6 +16,7 @@ export interface RegisterRow {
   code: string;
   title: string;
   safetyRelated: boolean;
+  starter?: boolean;
   status: string;
   currentRevision: string | null;
   latestVersion: number | null;
@@ -84,6 +85,7 @@ export function SheetRegister({ rows, projectCode }: { rows: RegisterRow[]; proj
               <td className="py-2 pr-3">
                 <VisibleText text={r.title} />
                 {r.safetyRelated ? <span className="ml-2 rounded bg-caution-soft px-1.5 py-0.5 text-xs font-bold text-caution">safety-related</span> : null}
+                {r.starter ? <span className="ml-2 rounded bg-accent-soft px-1.5 py-0.5 text-xs font-bold text-accent-hover">starter</span> : null}
               </td>
               <td className="py-2 pr-3">
                 {statusLabel(r.status)}

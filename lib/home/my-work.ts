@@ -70,6 +70,8 @@ async function ownSheets(db: Kysely<Database>, actor: Actor) {
     .select(['s.id', 's.number', 's.title', 'p.code', 'v.latest'])
     .where('s.created_by', '=', actor.userId)
     .where('s.voided_at', 'is', null)
+    // Starter sheets are worked examples to start from, not work waiting (lib/sheets/start-from.ts).
+    .where('s.starter', '=', false)
     .orderBy('p.code')
     .orderBy('s.number')
     .execute();

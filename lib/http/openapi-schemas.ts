@@ -111,6 +111,7 @@ export const sheetRegisterSchema = z.object({
       code: z.string().meta({ description: 'The sheet number as printed, e.g. `TPT2-CALC-0001`.' }),
       title: z.string(),
       safetyRelated: z.boolean(),
+      starter: z.boolean().meta({ description: 'A starter sheet: a worked sheet offered to start new sheets from.' }),
       status: z.string(),
       currentRevision: z.string().nullable(),
       latestVersion: z.number().int().nullable(),

@@ -41,7 +41,7 @@ export async function listSheets(db: Kysely<Database>, projectId: string, projec
       (eb) => eb.selectFrom('versions').select(['sheet_id', sql<number>`max(number)`.as('latest'), sql<Date>`max(created_at)`.as('updated')]).groupBy('sheet_id').as('v'),
       (j) => j.onRef('v.sheet_id', '=', 's.id'),
     )
-    .select(['s.id', 's.number', 's.title', 's.safety_related', 's.voided_at', 'o.display_name as originator', 'v.latest', 'v.updated', 's.created_at'])
+    .select(['s.id', 's.number', 's.title', 's.safety_related', 's.voided_at', 's.starter', 'o.display_name as originator', 'v.latest', 'v.updated', 's.created_at'])
     .where('s.project_id', '=', projectId)
     .orderBy('s.number')
     .execute();
@@ -55,6 +55,7 @@ export async function listSheets(db: Kysely<Database>, projectId: string, projec
     code: formatSheetNumber(projectCode, r.number),
     title: r.title,
     safetyRelated: r.safety_related,
+    starter: r.starter,
     // A void sheet stays in the register, shown as void whatever its checks were.
     status: r.voided_at ? ('void' as const) : (statuses.get(r.id) ?? ('draft' as const)),
     currentRevision: current.get(r.id) ?? null,

@@ -1,6 +1,7 @@
 // The home page's work for each role (lib/home/my-work.ts): returned sheets and drafts for their
 // originator, the checker's and approver's queues, approved versions waiting for issue for document
 // control; void sheets are no one's work, and a person without a role has no section for it.
+import { sql } from 'kysely';
 import { describe, expect, it } from 'vitest';
 import { decide, saveCheckWork, submitForCheck } from '../../lib/checks/workflow';
 import { myWork, workCount } from '../../lib/home/my-work';
@@ -49,4 +50,14 @@ describe('my work', () => {
     expect(controller.toIssue?.map((s) => [s.id, s.versionNumber])).toEqual([[approved.id, 2]]);
     expect(workCount(controller)).toBe(1);
   });
+});
+
+it('does not list starter sheets among the drafts: they are worked examples to start from, not work waiting', async () => {
+  const db = testDb();
+  const team = await makeTeam(db, { code: 'STRT' });
+  const mine = await makeSheet(db, team.author, { id: team.projectId, code: 'STRT' }, { title: 'My draft' });
+  const starter = await makeSheet(db, team.author, { id: team.projectId, code: 'STRT' }, { title: 'Starter — worked example' });
+  await sql`update sheets set starter = true where id = ${starter.id}`.execute(db);
+  const work = await myWork(db, team.author);
+  expect(work.drafts?.map((s) => s.id)).toEqual([mine.id]);
 });
