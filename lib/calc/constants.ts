@@ -1,9 +1,12 @@
 // Physical constants of the engine, with their provenance. Exact ones are defined by the SI
 // (SI Brochure, 9th edition, 2019, table 1 and §2.3.1); the rest are the CODATA 2022 recommended
 // values (Mohr, Newell, Taylor, Tiesinga, "CODATA recommended values of the fundamental physical
-// constants: 2022", published 2024), each with its standard uncertainty.
+// constants: 2022", published 2024), each with its standard uncertainty; meson and Λ masses from the
+// PDG Review of Particle Physics 2024, atomic masses from AME 2020, geodesy and timing from IERS
+// Conventions (2010), IAU resolutions and WGS 84. The edition string names them all: it is stored with
+// every evaluation, so a sheet evaluated against another set of constants can be found.
 
-export const CONSTANTS_EDITION = 'CODATA 2022; SI 2019 exact constants';
+export const CONSTANTS_EDITION = 'CODATA 2022; SI 2019 exact; PDG 2024; AME 2020; IERS 2010';
 
 export interface ConstantDef {
   /** The name a sheet uses. */

@@ -173,7 +173,7 @@ describe('what a statement shows', () => {
   it('records the engine version and the constants edition', () => {
     const r = run(cells('x = 1'));
     expect(r.engineVersion).toMatch(/^worldsheet-calc \d+\.\d+\.\d+/);
-    expect(r.constantsEdition).toBe('CODATA 2022; SI 2019 exact constants');
+    expect(r.constantsEdition).toBe('CODATA 2022; SI 2019 exact; PDG 2024; AME 2020; IERS 2010');
   });
 });
 

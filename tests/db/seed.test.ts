@@ -65,7 +65,7 @@ it('stores each demo version evaluated, every cell without error, with the engin
     expect(results.cells.filter((c) => !c.ok).map((c) => c.error)).toEqual([]);
     expect(results.ok).toBe(true);
     expect(v.engine_version).toMatch(/^worldsheet-calc /);
-    expect(v.constants_edition).toBe('CODATA 2022; SI 2019 exact constants');
+    expect(v.constants_edition).toBe('CODATA 2022; SI 2019 exact; PDG 2024; AME 2020; IERS 2010');
   }
 });
 

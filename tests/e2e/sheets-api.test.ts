@@ -58,7 +58,7 @@ describe('sheets and versions', () => {
     const v2 = (await api(`/api/sheets/${sheetId}/versions/2`)).body.version;
     expect(v2.results.cells[0].statements[1].value.unit).toBe('T m');
     expect(v2.engineVersion).toMatch(/^worldsheet-calc /);
-    expect(v2.constantsEdition).toBe('CODATA 2022; SI 2019 exact constants');
+    expect(v2.constantsEdition).toBe('CODATA 2022; SI 2019 exact; PDG 2024; AME 2020; IERS 2010');
     // SHA-256 over the RFC 8785 canonical form of the content.
     expect(v2.sha256).toBe(createHash('sha256').update(canonicalize(content)!).digest('hex'));
   });
