@@ -203,8 +203,12 @@ export async function runSaveBench(databaseUrl: string, options: { postmasterPid
   bare.on('error', () => undefined); // as the application's pool: a dropped idle connection is not fatal
   const evaluator = getEvaluator();
   try {
-    const author = await makeUser(app, 'bench-originator@example.test', { password: null });
-    const projectId = await makeProject(app, 'BEN', [[author, 'originator']]);
+    // One originator per client, as in use: the evaluator limits the saves one person has in
+    // evaluation at once (four: lib/calc/sandbox/evaluator.ts, perUserSaves), so one account for all
+    // clients would be refused.
+    const authors = await Promise.all(Array.from({ length: CLIENTS }, (_, k) => makeUser(app, `bench-originator-${k + 1}@example.test`, { password: null })));
+    const author = authors[0];
+    const projectId = await makeProject(app, 'BEN', authors.map((a) => [a, 'originator'] as [typeof a, 'originator']));
     const project = { id: projectId, code: 'BEN' };
     // Sheets go to evaluation workers by a hash of their id: 16 random ids split 8 and 8 only one
     // time in five, and 10 and 6 or worse almost half the time; the busier worker then sets the p95.
@@ -240,7 +244,7 @@ export async function runSaveBench(databaseUrl: string, options: { postmasterPid
     await concurrently(CLIENTS, 1, async (s) => {
       const options = { significantFigures: current[s].significantFigures, tables: [] };
       resultsJson[s] = JSON.stringify(await evaluator.evaluate(current[s].cells, options, sheets[s].id));
-      const saved = await saveVersion(app, author, sheets[s], { parentNumber: latest[s], message: 'Beam line sheet', content: current[s] });
+      const saved = await saveVersion(app, authors[s], sheets[s], { parentNumber: latest[s], message: 'Beam line sheet', content: current[s] });
       if (!saved.ok) throw new Error(`the generated sheet ${s} has errors`);
       latest[s] = saved.number;
       return 0;
@@ -263,7 +267,7 @@ export async function runSaveBench(databaseUrl: string, options: { postmasterPid
       // As the editor does: the sheet's project is the cache scope a save of it evaluates in.
       if (evaluateFirst) await evaluator.evaluate(content.cells, { significantFigures: content.significantFigures, tables: [] }, { scope: evaluationScope({ projectId }), affinity: sheets[s].id });
       const t0 = performance.now();
-      const saved = await saveVersion(app, author, sheets[s], parseValue(JSON.parse(body), saveVersionSchema));
+      const saved = await saveVersion(app, authors[s], sheets[s], parseValue(JSON.parse(body), saveVersionSchema));
       const elapsed = performance.now() - t0;
       if (!saved.ok) throw new Error(`a save of sheet ${s} has errors`);
       latest[s] = saved.number;
