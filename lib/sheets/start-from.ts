@@ -37,7 +37,8 @@ export async function startCandidates(db: Kysely<Database>, actor: Actor): Promi
     .innerJoin('projects as p', 'p.id', 's.project_id')
     .select(['s.id', 's.number', 's.title', 's.starter', 'p.code'])
     .where('s.voided_at', 'is', null)
-    .where((eb) => (actor.isAdmin ? eb.lit(true) : eb.exists(eb.selectFrom('project_members as m').select('m.user_id').whereRef('m.project_id', '=', 's.project_id').where('m.user_id', '=', actor.userId))))
+    // Members only: an administrator manages accounts and projects, and reads no project's sheets without a role in it.
+    .where((eb) => eb.exists(eb.selectFrom('project_members as m').select('m.user_id').whereRef('m.project_id', '=', 's.project_id').where('m.user_id', '=', actor.userId)))
     .where((eb) => eb.or([eb('s.starter', '=', true), eb.exists(eb.selectFrom('checks as c').select('c.id').whereRef('c.sheet_id', '=', 's.id').where('c.state', '=', 'approved'))]))
     .orderBy('p.code')
     .orderBy('s.number')
@@ -80,10 +81,7 @@ export async function startSheetFrom(db: Kysely<Database>, actor: Actor, project
     .select(['s.id', 's.number', 's.starter', 's.voided_at', 's.project_id', 'p.code'])
     .where('s.id', '=', input.sheetId)
     .executeTakeFirst();
-  const member =
-    source &&
-    (actor.isAdmin ||
-      (await db.selectFrom('project_members').select('user_id').where('project_id', '=', source.project_id).where('user_id', '=', actor.userId).executeTakeFirst()) !== undefined);
+  const member = source && (await db.selectFrom('project_members').select('user_id').where('project_id', '=', source.project_id).where('user_id', '=', actor.userId).executeTakeFirst()) !== undefined;
   if (!source || !member) throw new AppError('not_found', 'No such sheet.');
   const code = formatSheetNumber(source.code, source.number);
   if (source.voided_at) throw new AppError('conflict', `${code} is void; a new sheet cannot be started from it.`);

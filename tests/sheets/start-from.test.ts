@@ -79,6 +79,11 @@ it('offers starters by their latest version, and refuses a non-member, a void sh
   expect(await startCandidates(db, outsider)).toEqual([]);
   expect(await refusal(startSheetFrom(db, outsider, { id: elsewhere, code: 'ELSE' }, { sheetId: w.sheet.id, version: 2, title: 'x' }))).toMatchObject({ code: 'not_found' });
   expect(await refusal(startSheetFrom(db, w.author, project, { sheetId: w.sheet.id, version: 9, title: 'x' }))).toMatchObject({ code: 'not_found' });
+  // Nor does an administrator without a role in the source's project.
+  const admin = await makeUser(db, 'admin@example.test', { admin: true });
+  const adminProject = await makeProject(db, 'ADMN', [[admin, 'originator']]);
+  expect(await startCandidates(db, admin)).toEqual([]);
+  expect(await refusal(startSheetFrom(db, admin, { id: adminProject, code: 'ADMN' }, { sheetId: w.sheet.id, version: 2, title: 'x' }))).toMatchObject({ code: 'not_found' });
 
   await voidSheet(db, w.author, ['originator'], starter.id, { reason: 'replaced' });
   expect((await startCandidates(db, w.author)).map((c) => c.code)).toEqual(['TPT2-CALC-0001']);
