@@ -81,6 +81,9 @@ const VALID: Record<string, number[]> = {
   hyperbolicTripCoordinateTime: [8e-4, 4.5e11],
   hyperbolicTripProperTime: [8e-4, 4.5e11],
   hyperbolicTripPeakSpeed: [8e-4, 4.5e11],
+  hyperbolicSpeedAtProperTime: [8e-4, 3.456e7],
+  hyperbolicCoordinateTimeAtProperTime: [8e-4, 3.456e7],
+  hyperbolicDistanceAtProperTime: [8e-4, 3.456e7],
   slipFactor: [3.225e-4, 479.6],
   transitionGamma: [3.225e-4],
 };
@@ -245,6 +248,9 @@ describe('masses, energies and other magnitudes', () => {
     ['hyperbolicTripCoordinateTime', [G_N, -5], 'hyperbolicTripCoordinateTime: d must be ≥ 0'],
     ['hyperbolicTripProperTime', [0, 4.5e11], 'hyperbolicTripProperTime: a0 must not be 0 when d > 0'],
     ['hyperbolicTripPeakSpeed', [8e-4, -4.5e11], 'hyperbolicTripPeakSpeed: d must be ≥ 0'],
+    ['hyperbolicSpeedAtProperTime', [8e-4, -1], 'hyperbolicSpeedAtProperTime: tau must be ≥ 0 (proper time since the start from rest); got tau = -1 s'],
+    ['hyperbolicCoordinateTimeAtProperTime', [1e20, 1e-6], 'hyperbolicCoordinateTimeAtProperTime: the result is outside the range'],
+    ['hyperbolicDistanceAtProperTime', [-1e20, 1e-6], 'hyperbolicDistanceAtProperTime: the result is outside the range'],
     ['slipFactor', [3.225e-4, 0.999], 'slipFactor: gamma must be ≥ 1 (a Lorentz factor); got gamma = 0.999'],
     ['transitionGamma', [0], 'transitionGamma: alpha_c must be > 0 (a ring with α_c ≤ 0 has no transition energy); got alpha_c = 0'],
     ['transitionGamma', [-0.01], 'got alpha_c = -0.01'],
@@ -301,6 +307,13 @@ describe('edges of the domain that make physical sense are accepted', () => {
     expect(call('hyperbolicSpeedFromDistance', -G_N, 1e15)).toBeLessThan(0); // acceleration in the negative direction
     expect(call('hyperbolicTripPeakSpeed', -G_N, 1e15)).toBeLessThan(0);
     expect(call('hyperbolicTripProperTime', -G_N, 1e15)).toBe(call('hyperbolicTripProperTime', G_N, 1e15)); // times depend on |a0|
+    expect(call('hyperbolicSpeedAtProperTime', 0, 100)).toBe(0);
+    expect(call('hyperbolicCoordinateTimeAtProperTime', 0, 100)).toBe(100); // no acceleration: lab time = proper time
+    expect(call('hyperbolicDistanceAtProperTime', 0, 100)).toBe(0);
+    for (const name of ['hyperbolicSpeedAtProperTime', 'hyperbolicCoordinateTimeAtProperTime', 'hyperbolicDistanceAtProperTime']) expect(call(name, G_N, 0), name).toBe(0);
+    expect(call('hyperbolicSpeedAtProperTime', -G_N, 1e7)).toBeLessThan(0); // acceleration in the negative direction
+    expect(call('hyperbolicDistanceAtProperTime', -G_N, 1e7)).toBe(-call('hyperbolicDistanceAtProperTime', G_N, 1e7));
+    expect(call('hyperbolicCoordinateTimeAtProperTime', -G_N, 1e7)).toBe(call('hyperbolicCoordinateTimeAtProperTime', G_N, 1e7)); // times depend on |a0|
     expect(call('slipFactor', -1e-3, 1)).toBe(-1.001); // negative momentum compaction, γ = 1
   });
 
@@ -311,6 +324,8 @@ describe('edges of the domain that make physical sense are accepted', () => {
     expect(call('hyperbolicSpeedFromDistance', G_N, 1e300)).toBe(BELOW_ONE);
     expect(call('hyperbolicTripPeakSpeed', -1e300, 1e300)).toBe(-BELOW_ONE);
     expect(call('rocketDeltaV', 1, 1e30)).toBe(BELOW_ONE);
+    expect(call('hyperbolicSpeedAtProperTime', G_N, 1e10)).toBe(BELOW_ONE); // a0τ/c ≈ 327
+    expect(call('hyperbolicSpeedAtProperTime', -1e300, 1e300)).toBe(-BELOW_ONE);
     expect(call('addVelocities', BELOW_ONE, BELOW_ONE)).toBe(BELOW_ONE);
     expect(call('addVelocities', -BELOW_ONE, -BELOW_ONE)).toBe(-BELOW_ONE);
   });

@@ -397,6 +397,43 @@ describe('constant proper acceleration by distance, and accelerate-then-decelera
   });
 });
 
+describe('constant proper acceleration given by the proper time τ (Rindler 2006, ch. 3)', () => {
+  const speedAt = k2(lib.hyperbolicSpeedAtProperTime);
+  const timeAt = k2(lib.hyperbolicCoordinateTimeAtProperTime);
+  const distanceAt = k2(lib.hyperbolicDistanceAtProperTime);
+
+  it('the relativistic-rocket table, by ship time at 1 g: 2 years aboard', () => {
+    // from memory: P. Gibbs and D. Koks, "The Relativistic Rocket", Usenet Physics FAQ, table of a constant 1 g
+    // from rest by ship time: τ = 2 yr gives t = 3.75 yr, d = 2.9 ly (the third digit not recalled), γ = 4.0.
+    expectQuoted(timeAt(G_N, 2 * YEAR) / YEAR, 3.75, 0.02);
+    expectQuoted(distanceAt(G_N, 2 * YEAR) / LIGHT_YEAR, 2.9, 0.1);
+    expectQuoted(lorentzFactor(speedAt(G_N, 2 * YEAR)), 4.0, 0.05);
+  });
+
+  it('inverts hyperbolicProperTime, and agrees with the functions of t at t(τ)', () => {
+    for (const [a, t] of [
+      [8e-4, 3.456e7],
+      [G_N, 3e7],
+      [1.7588e17, 1e-9],
+      [-2.5e4, 12],
+    ]) {
+      const tau = hyperbolicProperTime(a, t);
+      expectRelative(timeAt(a, tau), t, 1e-14); // Rindler (2006) ch. 3: t(τ) and τ(t) are inverse
+      expectRelative(distanceAt(a, tau), hyperbolicDistance(a, t), 1e-14); // same x by either route
+      expectRelative(speedAt(a, tau), hyperbolicSpeed(a, t), 1e-14); // same β by either route
+    }
+  });
+
+  it('the rapidity a0τ/c: β = tanh, so rapidity of the speed reached is a0τ/c', () => {
+    for (const [a, tau] of [
+      [8e-4, 3.456e7],
+      [25, 3e7],
+    ]) {
+      expectRelative(rapidity(speedAt(a, tau)), (a * tau) / C, 1e-13); // Rindler (2006) ch. 3: dφ/dτ = a0/c
+    }
+  });
+});
+
 describe('momentum compaction, slip factor and transition (S. Y. Lee, Accelerator Physics, ch. 3)', () => {
   const slipFactor = k2(lib.slipFactor);
   const transitionGamma = k1(lib.transitionGamma);

@@ -213,6 +213,16 @@ export const REFERENCES: Record<string, Ref> = {
   hyperbolicTripCoordinateTime: (a0, d) => fromDistanceRef(a0, exact(d).div(2)).t.mul(2),
   hyperbolicTripProperTime: (a0, d) => fromDistanceRef(a0, exact(d).div(2)).tau.mul(2),
   hyperbolicTripPeakSpeed: (a0, d) => fromDistanceRef(a0, exact(d).div(2)).beta,
+  // Constant proper acceleration by proper time (Rindler 2006, ch. 3): u = a0τ/c, textbook forms.
+  hyperbolicSpeedAtProperTime: (a0, tau) => D.tanh(exact(a0).mul(exact(tau)).div(REF_C)),
+  hyperbolicCoordinateTimeAtProperTime: (a0, tau) => {
+    const a = exact(a0);
+    return a.isZero() ? exact(tau) : REF_C.div(a).mul(D.sinh(a.mul(exact(tau)).div(REF_C)));
+  },
+  hyperbolicDistanceAtProperTime: (a0, tau) => {
+    const a = exact(a0);
+    return a.isZero() ? new D(0) : C2.div(a).mul(D.cosh(a.mul(exact(tau)).div(REF_C)).minus(1));
+  },
   // Rings (S. Y. Lee, Accelerator Physics, ch. 3): η = α_c − 1/γ², γ_t = 1/√α_c.
   slipFactor: (alpha, gamma) => exact(alpha).minus(ONE.div(exact(gamma).pow(2))),
   transitionGamma: (alpha) => ONE.div(exact(alpha).sqrt()),
@@ -556,6 +566,18 @@ export function surveyCases(): Record<string, number[][]> {
     const q = (rand() < 0.5 ? -z : z) * 1.602176634e-19;
     return [p / q, A, m, q];
   });
+
+  // Hyperbolic motion by proper time (drawn last, so the grids above keep their points): u = a0τ/c
+  // from 1e-12 to 630 (overflow of t and x begins between u ≈ 660 and 720, depending on a0; see
+  // support/hyperbolic-at-proper-time.ts), several accelerations, both directions.
+  const us = [...logSpace(-12, Math.log10(630), 220), ...Array.from({ length: 60 }, () => 10 ** (-12 + (12 + Math.log10(630)) * rand()))];
+  const byProperTime = us.map((uu) => {
+    const a = pick(accelerations);
+    return [rand() < 0.5 ? -a : a, (uu * C_NUM) / a];
+  });
+  cases.hyperbolicSpeedAtProperTime = byProperTime;
+  cases.hyperbolicCoordinateTimeAtProperTime = byProperTime;
+  cases.hyperbolicDistanceAtProperTime = byProperTime;
 
   return cases;
 }

@@ -38,6 +38,9 @@ import { hyperbolicSpeed } from './hyperbolic-speed';
 import { hyperbolicCoordinateTimeFromDistance } from './hyperbolic-coordinate-time-from-distance';
 import { hyperbolicProperTimeFromDistance } from './hyperbolic-proper-time-from-distance';
 import { hyperbolicSpeedFromDistance } from './hyperbolic-speed-from-distance';
+import { hyperbolicCoordinateTimeAtProperTime } from './hyperbolic-coordinate-time-at-proper-time';
+import { hyperbolicDistanceAtProperTime } from './hyperbolic-distance-at-proper-time';
+import { hyperbolicSpeedAtProperTime } from './hyperbolic-speed-at-proper-time';
 import { hyperbolicTripCoordinateTime } from './hyperbolic-trip-coordinate-time';
 import { hyperbolicTripPeakSpeed } from './hyperbolic-trip-peak-speed';
 import { hyperbolicTripProperTime } from './hyperbolic-trip-proper-time';
@@ -117,6 +120,9 @@ export {
   hyperbolicTripCoordinateTime,
   hyperbolicTripPeakSpeed,
   hyperbolicTripProperTime,
+  hyperbolicSpeedAtProperTime,
+  hyperbolicCoordinateTimeAtProperTime,
+  hyperbolicDistanceAtProperTime,
   slipFactor,
   transitionGamma,
   invariantMass,
@@ -216,6 +222,10 @@ export const LIBRARY: readonly CalcFunction[] = Object.freeze([
   hyperbolicTripCoordinateTime,
   hyperbolicTripProperTime,
   hyperbolicTripPeakSpeed,
+  // Constant proper acceleration given by the proper time τ on the body's own clock (issue 17).
+  hyperbolicSpeedAtProperTime,
+  hyperbolicCoordinateTimeAtProperTime,
+  hyperbolicDistanceAtProperTime,
   // Longitudinal motion in rings (issue 17).
   slipFactor,
   transitionGamma,
