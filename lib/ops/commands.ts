@@ -11,6 +11,8 @@
 //   migrate   applies migrations to DATABASE_URL or the local cluster
 //   backup    dumps the database and every stored object into a folder (npm run backup -- FOLDER)
 //   restore   restores such a folder into an empty installation and verifies it (npm run restore -- FOLDER)
+import { execFileSync } from 'node:child_process';
+import { createWriteStream, mkdirSync } from 'node:fs';
 import path from 'node:path';
 import { fileURLToPath } from 'node:url';
 import { createDb } from '../../db/index';
@@ -183,19 +185,44 @@ async function test(supervisor: Supervisor, args: string[]): Promise<void> {
 /**
  * The benchmarks, one after the other: the calculation engine, saving versions, issuing and the load on
  * the served app (which run their own PostgreSQL cluster in .data/pg-bench on WORLDSHEET_BENCH_PG_PORT
- * and stop it when done).
+ * and stop it when done). Each one's output is printed and also written, with the time and the
+ * commit, to tests/.artifacts/bench/<name>.txt (git-ignored): the figures of the last run.
  */
 async function bench(supervisor: Supervisor): Promise<void> {
   let failed = 0;
+  const folder = path.join(root, 'tests', '.artifacts', 'bench');
+  mkdirSync(folder, { recursive: true });
+  const commit = (() => {
+    try {
+      return execFileSync('git', ['rev-parse', '--short', 'HEAD'], { cwd: root, encoding: 'utf8' }).trim();
+    } catch {
+      return 'unknown';
+    }
+  })();
   for (const file of ['calc-bench.ts', 'save-bench.ts', 'issue-bench.ts', 'load-bench.ts']) {
-    const child = supervisor.spawn(`benchmark ${file}`, process.execPath, ['--import', 'tsx', path.join(root, 'tests', 'bench', file)], { cwd: root });
+    const out = createWriteStream(path.join(folder, file.replace(/\.ts$/, '.txt')));
+    out.write(`# ${file}, run ${new Date().toISOString()} at commit ${commit}\n`);
+    const child = supervisor.spawn(`benchmark ${file}`, process.execPath, ['--import', 'tsx', path.join(root, 'tests', 'bench', file)], { cwd: root, stdio: ['ignore', 'pipe', 'pipe'] });
+    child.stdout?.on('data', (chunk: Buffer) => {
+      process.stdout.write(chunk);
+      out.write(chunk);
+    });
+    child.stderr?.on('data', (chunk: Buffer) => {
+      process.stderr.write(chunk);
+      out.write(chunk);
+    });
+    // 'close' comes after the last output, where 'exit' may come before it.
+    const closed = new Promise<void>((resolve) => child.once('close', () => resolve()));
     const code = await waitForExit(child);
+    await closed;
+    await new Promise<void>((resolve) => out.end(resolve));
     if (supervisor.isStopping) return;
     if (code !== 0) {
       console.error(`[worldsheet] ${file} failed (exit ${code})`);
       failed ||= code;
     }
   }
+  console.log(`[worldsheet] figures written to ${path.relative(root, folder)}/`);
   process.exit(failed);
 }
 
