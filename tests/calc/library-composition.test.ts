@@ -170,6 +170,16 @@ describe('compositions of library functions against 50-digit references', () => 
     }
   });
 
+  it('gives γ = cosh(a0τ/c) exactly from the speed at a proper time, near c as well (Rindler 2006, ch. 3)', () => {
+    // An electron from rest at 1 MV/m (eE/m_e): γ = cosh u, u = a0τ/c, after 1 ps … 1 µs of its own time (u up to 586).
+    const a0 = (eV * 1e6) / si(m_e);
+    for (const tau of [1e-12, 1e-9, 1e-7, 1e-6]) {
+      const u = exact(a0).mul(exact(tau)).div(REF_C);
+      const v = lib.hyperbolicSpeedAtProperTime(math.unit(a0, 'm/s^2'), math.unit(tau, 's'));
+      expect(ulpError(si(lib.lorentzFactor(v)), D.cosh(u)), `tau = ${tau} s`).toBeLessThanOrEqual(COMPANION_ULP);
+    }
+  });
+
   it('keeps companions of list elements (a vector argument)', () => {
     const Ts = math.matrix([math.unit(1.5, 'TeV'), math.unit(7, 'TeV')]);
     const vs = lib.speedFromKinetic(Ts, m_e);
