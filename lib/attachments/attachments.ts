@@ -140,8 +140,9 @@ export async function insertAttachment(
   trx: Transaction<Database>,
   actor: Actor,
   sheet: { id: string; project_id: string },
-  file: CheckedAttachment,
-  action: 'attachment.upload' | 'attachment.import' = 'attachment.upload',
+  file: Omit<CheckedAttachment, 'bytes'>,
+  action: 'attachment.upload' | 'attachment.import' | 'attachment.copy' = 'attachment.upload',
+  auditDetails: Record<string, string> = {},
 ): Promise<boolean> {
   // The deciding check: concurrent uploads to one project pass it one at a time, each counting the
   // ones before it. (One that loses leaves its bytes in storage with no row: write-once storage
@@ -169,7 +170,7 @@ export async function insertAttachment(
       objectType: 'sheet',
       objectId: sheet.id,
       projectId: sheet.project_id,
-      newValue: { name: file.name, mediaType: file.mediaType, size: file.size, sha256: file.sha256 },
+      newValue: { name: file.name, mediaType: file.mediaType, size: file.size, sha256: file.sha256, ...auditDetails },
     });
   }
   return row !== undefined;
@@ -190,38 +191,15 @@ export async function copyAttachments(
   for (const ref of refs) {
     const row = await trx
       .selectFrom('attachments')
-      .select(['name', 'media_type', 'size', 'sha256', 'storage_key', 'table_data'])
+      .select(['name', 'media_type', 'size', 'sha256', 'table_data'])
       .where('sheet_id', '=', fromSheetId)
       .where('name', '=', ref.name)
       .where('sha256', '=', ref.sha256)
       .executeTakeFirst();
     if (!row) throw new AppError('bad_request', `The attachment ${ref.name} (SHA-256 ${ref.sha256.slice(0, 12)}…) is not an attachment of the sheet started from.`);
-    await checkProjectStorageQuota(trx, sheet.project_id, { sha256: row.sha256, size: Number(row.size) }, { lock: true });
-    const inserted = await trx
-      .insertInto('attachments')
-      .values({
-        sheet_id: sheet.id,
-        project_id: sheet.project_id,
-        name: row.name,
-        media_type: row.media_type,
-        size: Number(row.size),
-        sha256: row.sha256,
-        storage_key: row.storage_key,
-        table_data: row.table_data === null ? null : JSON.stringify(row.table_data),
-        uploaded_by: actor.userId,
-      })
-      .onConflict((oc) => oc.constraint('attachments_sheet_name_sha256_key').doNothing())
-      .returning('id')
-      .executeTakeFirst();
-    if (inserted) {
-      await recordAudit(trx, actor, {
-        action: 'attachment.copy',
-        objectType: 'sheet',
-        objectId: sheet.id,
-        projectId: sheet.project_id,
-        newValue: { name: row.name, mediaType: row.media_type, size: Number(row.size), sha256: row.sha256, fromSheet: fromSheetId },
-      });
-    }
+    // The same bytes under the same key (attachments/sha256/<hex>): a row of the new sheet's own.
+    const file = { name: row.name, mediaType: row.media_type, size: Number(row.size), sha256: row.sha256, table: row.table_data as StoredTable | null };
+    await insertAttachment(trx, actor, sheet, file, 'attachment.copy', { fromSheet: fromSheetId });
   }
 }
 
