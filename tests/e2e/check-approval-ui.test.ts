@@ -6,7 +6,7 @@
 import { afterAll, beforeAll, expect, it } from 'vitest';
 import { DEMO_PASSWORD, seedDemo } from '../../db/seed';
 import { resetDatabase, testDb } from '../support/database';
-import { closeBrowser, openBrowser, startApp, submitSignIn, type BrowserSession, type RunningApp } from './harness';
+import { type BrowserSession, closeBrowser, openSignedIn, type RunningApp, startApp } from './harness';
 
 let app: RunningApp;
 let originator: BrowserSession;
@@ -14,12 +14,7 @@ let checker: BrowserSession;
 let approver: BrowserSession;
 let sheetId: string;
 
-async function signedIn(email: string): Promise<BrowserSession> {
-  const session = await openBrowser();
-  await submitSignIn(session.page, app.baseUrl, email, DEMO_PASSWORD);
-  await session.page.waitForURL(`${app.baseUrl}/projects`);
-  return session;
-}
+const signedIn = (email: string): Promise<BrowserSession> => openSignedIn(app.baseUrl, email, DEMO_PASSWORD);
 
 /** Saves a new version of sheet 1 through the API with the originator's session, editing one cell. */
 async function saveVersion(message: string, edit: (source: string) => string): Promise<number> {

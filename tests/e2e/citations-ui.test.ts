@@ -14,7 +14,7 @@ import { ENGINE_VERSION } from '../../lib/calc/version';
 import { checkAndApprove, type SheetRef } from '../support/approved-sheet';
 import { resetDatabase, testDb } from '../support/database';
 import { actorByEmail } from '../support/people';
-import { closeBrowser, openBrowser, startApp, submitSignIn, type BrowserSession, type RunningApp } from './harness';
+import { type BrowserSession, closeBrowser, openSignedIn, type RunningApp, startApp } from './harness';
 
 let app: RunningApp;
 let team: { author: Actor; checker: Actor; approver: Actor; controller: Actor };
@@ -31,12 +31,7 @@ async function approveAndIssue(sheet: SheetRef, versionNumber: number) {
   await processIssueJob(testDb(), createObjectStore(storageConfig()), jobId);
 }
 
-async function signedIn(email: string): Promise<BrowserSession> {
-  const session = await openBrowser();
-  await submitSignIn(session.page, app.baseUrl, email, DEMO_PASSWORD);
-  await session.page.waitForURL(`${app.baseUrl}/projects`);
-  return session;
-}
+const signedIn = (email: string): Promise<BrowserSession> => openSignedIn(app.baseUrl, email, DEMO_PASSWORD);
 
 beforeAll(async () => {
   await resetDatabase();

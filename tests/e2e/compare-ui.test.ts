@@ -13,7 +13,7 @@ import type { VersionContent } from '../../lib/sheets/content';
 import { getObjectStore } from '../../lib/storage/object-store';
 import { resetDatabase, testDb } from '../support/database';
 import { actorByEmail } from '../support/people';
-import { closeBrowser, openBrowser, startApp, submitSignIn, type BrowserSession, type RunningApp } from './harness';
+import { type BrowserSession, closeBrowser, openSignedIn, type RunningApp, startApp } from './harness';
 
 let app: RunningApp;
 let originator: BrowserSession;
@@ -24,12 +24,7 @@ const scan1 = 'energy [MeV], field [T]\n70, 0.51\n250, 1.21\n';
 const scan2 = 'energy [MeV], field [T]\n70, 0.51\n250, 1.23\n300, 1.36\n';
 const sha = (t: string) => createHash('sha256').update(t).digest('hex');
 
-async function signedIn(email: string): Promise<BrowserSession> {
-  const session = await openBrowser();
-  await submitSignIn(session.page, app.baseUrl, email, DEMO_PASSWORD);
-  await session.page.waitForURL(`${app.baseUrl}/projects`);
-  return session;
-}
+const signedIn = (email: string): Promise<BrowserSession> => openSignedIn(app.baseUrl, email, DEMO_PASSWORD);
 
 beforeAll(async () => {
   await resetDatabase();

@@ -240,6 +240,14 @@ export async function submitSignIn(page: Page, baseUrl: string, email: string, p
   await page.getByRole('button', { name: 'Sign in', exact: true }).click();
 }
 
+/** A browser session signed in as `email`, on the projects page a sign-in leads to. */
+export async function openSignedIn(baseUrl: string, email: string, password: string): Promise<BrowserSession> {
+  const session = await openBrowser();
+  await submitSignIn(session.page, baseUrl, email, password);
+  await session.page.waitForURL(`${baseUrl}/projects`);
+  return session;
+}
+
 export async function closeBrowser(): Promise<void> {
   await browser?.close();
   browser = null;

@@ -9,18 +9,13 @@ import { DEMO_PASSWORD, seedDemo } from '../../db/seed';
 import { getVersion, saveVersion } from '../../lib/sheets/sheets';
 import { resetDatabase, testDb } from '../support/database';
 import { actorByEmail } from '../support/people';
-import { closeBrowser, openBrowser, startApp, submitSignIn, type BrowserSession, type RunningApp } from './harness';
+import { type BrowserSession, closeBrowser, openSignedIn, type RunningApp, startApp } from './harness';
 
 let app: RunningApp;
 let originator: BrowserSession;
 let checker: BrowserSession;
 
-async function signedIn(email: string): Promise<BrowserSession> {
-  const session = await openBrowser();
-  await submitSignIn(session.page, app.baseUrl, email, DEMO_PASSWORD);
-  await session.page.waitForURL(`${app.baseUrl}/projects`);
-  return session;
-}
+const signedIn = (email: string): Promise<BrowserSession> => openSignedIn(app.baseUrl, email, DEMO_PASSWORD);
 
 beforeAll(async () => {
   await resetDatabase();

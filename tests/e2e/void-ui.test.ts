@@ -8,15 +8,13 @@ import { DEMO_PASSWORD, seedDemo } from '../../db/seed';
 import { createSheet } from '../../lib/sheets/sheets';
 import { resetDatabase, testDb } from '../support/database';
 import { actorByEmail } from '../support/people';
-import { closeBrowser, openBrowser, startApp, submitSignIn, type BrowserSession, type RunningApp } from './harness';
+import { closeBrowser, openSignedIn, startApp, type BrowserSession, type RunningApp } from './harness';
 
 let app: RunningApp;
 let sheetNumber: number;
 
 async function signedIn(email: string): Promise<BrowserSession> {
-  const session = await openBrowser();
-  await submitSignIn(session.page, app.baseUrl, email, DEMO_PASSWORD);
-  await session.page.waitForURL(`${app.baseUrl}/projects`);
+  const session = await openSignedIn(app.baseUrl, email, DEMO_PASSWORD);
   session.page.setDefaultTimeout(15_000);
   return session;
 }
