@@ -11,8 +11,7 @@ import './globals.css';
 
 export const metadata: Metadata = {
   title: { default: 'Worldsheet', template: '%s · Worldsheet' },
-  description:
-    'Relativistic calculation sheets with units, independent check, approval and signed, verifiable issue.',
+  description: 'Relativistic calculation sheets with units, independent check, approval and signed, verifiable issue.',
 };
 
 export const viewport: Viewport = { themeColor: '#0b5a61' };
@@ -54,8 +53,12 @@ export default async function RootLayout({ children }: { children: React.ReactNo
               Worldsheet <span className="font-mono">{APP_VERSION}</span>
             </span>
             <nav aria-label="Tools" className="flex gap-4">
-              <Link href="/reference" className="underline hover:text-ink">Function reference</Link>
-              <Link href="/scratch" className="underline hover:text-ink">Scratch pad</Link>
+              <Link href="/reference" className="underline hover:text-ink">
+                Function reference
+              </Link>
+              <Link href="/scratch" className="underline hover:text-ink">
+                Scratch pad
+              </Link>
             </nav>
             {demo ? <span>Demo installation: fictional organisation and data</span> : null}
           </div>

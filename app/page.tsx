@@ -7,9 +7,15 @@ import { myWork } from '@/lib/home/my-work';
 export const dynamic = 'force-dynamic';
 
 const STEPS = [
-  { term: 'Write', text: 'The originator writes cells with units and the relativistic function library; the server evaluates them.' },
+  {
+    term: 'Write',
+    text: 'The originator writes cells with units and the relativistic function library; the server evaluates them.',
+  },
   { term: 'Save', text: 'Every save is an immutable version, identified by the SHA-256 of its content.' },
-  { term: 'Check', text: 'An independent checker reviews what changed since the last approved version, comments and signs.' },
+  {
+    term: 'Check',
+    text: 'An independent checker reviews what changed since the last approved version, comments and signs.',
+  },
   { term: 'Approve', text: 'An approver who did not write it approves the checked version.' },
   { term: 'Issue', text: 'Document control issues a numbered revision as a digitally signed PDF.' },
   { term: 'Verify', text: 'Anyone handed the PDF can confirm it is authentic and still current.' },
@@ -22,14 +28,16 @@ export default async function HomePage() {
   return (
     <div className="space-y-10">
       <section className="ws-grid -mx-gutter rounded border border-rule px-gutter py-12">
-        <p className="font-mono text-xs font-bold uppercase tracking-widest text-accent">Calculation control for relativistic engineering</p>
+        <p className="font-mono text-xs font-bold uppercase tracking-widest text-accent">
+          Calculation control for relativistic engineering
+        </p>
         <h1 className="mt-3 max-w-prose text-3xl font-bold">
-          Worldsheet is where engineers write unit-aware relativistic calculations, have each one independently
-          checked and approved, and issue it as a signed PDF revision that anyone can verify.
+          Worldsheet is where engineers write unit-aware relativistic calculations, have each one independently checked
+          and approved, and issue it as a signed PDF revision that anyone can verify.
         </h1>
         <p className="mt-4 max-w-prose text-lg text-ink-muted">
-          For beam-line and accelerator design, ion-beam therapy, electron optics, satellite timing and mission
-          studies: the numbers behind magnet specifications, shielding and interlock set-points and timing budgets.
+          For beam-line and accelerator design, ion-beam therapy, electron optics, satellite timing and mission studies:
+          the numbers behind magnet specifications, shielding and interlock set-points and timing budgets.
         </p>
       </section>
 

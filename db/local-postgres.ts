@@ -108,7 +108,7 @@ export function ensureServerBinaries(log: Log): ServerBinaries {
   }
   aptInstall(['postgresql'], log);
   const installed = findServerBinaries();
-  if (!installed) throw new LocalPostgresError('Debian\'s postgresql package installed no server programs.');
+  if (!installed) throw new LocalPostgresError("Debian's postgresql package installed no server programs.");
   return installed;
 }
 
@@ -157,7 +157,12 @@ function processIsPostgres(pid: number): boolean {
  * checkout (a private temporary folder, a home folder), a folder of its own under /var/tmp named
  * after the checkout, with a note in the checkout saying where the data is.
  */
-export function chooseClusterFolder(options: { projectRoot: string; name: string; runAs: OsUser | null; log: Log }): string {
+export function chooseClusterFolder(options: {
+  projectRoot: string;
+  name: string;
+  runAs: OsUser | null;
+  log: Log;
+}): string {
   const { projectRoot, name, runAs, log } = options;
   const preferred = join(projectRoot, '.data', `pg-${name}`);
   mkdirSync(preferred, { recursive: true, mode: 0o755 });
@@ -168,7 +173,10 @@ export function chooseClusterFolder(options: { projectRoot: string; name: string
   const fallback = join('/var/tmp', `worldsheet-${tag}`, `pg-${name}`);
   mkdirSync(fallback, { recursive: true, mode: 0o755 });
   chownSync(fallback, runAs.uid, runAs.gid);
-  writeFileSync(join(preferred, 'WHERE-IS-THE-DATA.txt'), `The postgres OS user cannot reach this folder, so this cluster lives in\n${fallback}\n`);
+  writeFileSync(
+    join(preferred, 'WHERE-IS-THE-DATA.txt'),
+    `The postgres OS user cannot reach this folder, so this cluster lives in\n${fallback}\n`,
+  );
   log(`the postgres user cannot reach ${preferred}; using ${fallback}`);
   return fallback;
 }
@@ -224,7 +232,7 @@ export class LocalCluster {
       const postgresUser = lookupOsUser('postgres');
       if (!postgresUser) {
         throw new LocalPostgresError(
-          'Running as root, but there is no `postgres` OS user to run the server as. Install Debian\'s postgresql package, which creates it.',
+          "Running as root, but there is no `postgres` OS user to run the server as. Install Debian's postgresql package, which creates it.",
         );
       }
       this.runAs = postgresUser;
@@ -273,7 +281,9 @@ export class LocalCluster {
   credentials(): Credentials {
     const file = this.credentialsFile();
     if (!existsSync(file)) {
-      throw new LocalPostgresError(`${file} is missing; the cluster was initialised without it. Move ${this.dataFolder} aside and start again.`);
+      throw new LocalPostgresError(
+        `${file} is missing; the cluster was initialised without it. Move ${this.dataFolder} aside and start again.`,
+      );
     }
     return JSON.parse(readFileSync(file, 'utf8')) as Credentials;
   }
@@ -295,10 +305,13 @@ export class LocalCluster {
       const result = spawnSync(
         join(bin.binDir, 'initdb'),
         [
-          '-D', this.dataFolder,
-          '-E', 'UTF8',
+          '-D',
+          this.dataFolder,
+          '-E',
+          'UTF8',
           '--locale=C.UTF-8',
-          '-U', credentials.adminUser,
+          '-U',
+          credentials.adminUser,
           `--pwfile=${pwfile}`,
           '--auth=scram-sha-256',
         ],
@@ -344,12 +357,18 @@ export class LocalCluster {
     const child = spawn(
       join(this.binaries!.binDir, 'postgres'),
       [
-        '-D', this.dataFolder,
-        '-p', String(this.port),
-        '-c', 'listen_addresses=127.0.0.1',
-        '-c', 'unix_socket_directories=',
-        '-c', 'max_connections=200',
-        '-c', 'fsync=on',
+        '-D',
+        this.dataFolder,
+        '-p',
+        String(this.port),
+        '-c',
+        'listen_addresses=127.0.0.1',
+        '-c',
+        'unix_socket_directories=',
+        '-c',
+        'max_connections=200',
+        '-c',
+        'fsync=on',
       ],
       { ...this.spawnOptions(), stdio: ['ignore', logFd, logFd] },
     );
@@ -365,7 +384,9 @@ export class LocalCluster {
     for (;;) {
       if (exitCode !== null) {
         const tail = readFileSync(logFile, 'utf8').split('\n').slice(-15).join('\n');
-        throw new LocalPostgresError(`The PostgreSQL server stopped while starting (exit ${exitCode}). Last lines of ${logFile}:\n${tail}`);
+        throw new LocalPostgresError(
+          `The PostgreSQL server stopped while starting (exit ${exitCode}). Last lines of ${logFile}:\n${tail}`,
+        );
       }
       if (await this.accepts()) break;
       if (Date.now() > deadline) {
@@ -451,10 +472,14 @@ export class LocalCluster {
     if (!this.binaries) this.prepare();
     const lock = join(this.dataFolder, 'postmaster.pid');
     if (!existsSync(lock)) return false;
-    const result = spawnSync(join(this.binaries!.binDir, 'pg_ctl'), ['stop', '-D', this.dataFolder, '-m', 'fast', '-w'], {
-      ...this.spawnOptions(),
-      encoding: 'utf8',
-    });
+    const result = spawnSync(
+      join(this.binaries!.binDir, 'pg_ctl'),
+      ['stop', '-D', this.dataFolder, '-m', 'fast', '-w'],
+      {
+        ...this.spawnOptions(),
+        encoding: 'utf8',
+      },
+    );
     if (result.status !== 0) throw new LocalPostgresError(`pg_ctl stop failed:\n${result.stdout}\n${result.stderr}`);
     return true;
   }

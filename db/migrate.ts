@@ -29,7 +29,9 @@ export function createMigrator(db: Kysely<any>): Migrator {
 
 function report(result: MigrationResultSet, log: (line: string) => void): void {
   for (const r of result.results ?? []) {
-    log(`migration ${r.migrationName}: ${r.status === 'Success' ? (r.direction === 'Up' ? 'applied' : 'reverted') : r.status}`);
+    log(
+      `migration ${r.migrationName}: ${r.status === 'Success' ? (r.direction === 'Up' ? 'applied' : 'reverted') : r.status}`,
+    );
   }
   if (result.error) {
     const message = result.error instanceof Error ? result.error.message : String(result.error);

@@ -33,9 +33,18 @@ export const DEMO_ACCOUNTS: ReadonlyArray<{ email: string; name: string; roles: 
 
 type DemoSheet = { number: number; content: VersionContent };
 
-const sheet = (number: number, partial: Omit<VersionContent, 'schema' | 'attachments' | 'significantFigures' | 'displayUnits'>): DemoSheet => ({
+const sheet = (
+  number: number,
+  partial: Omit<VersionContent, 'schema' | 'attachments' | 'significantFigures' | 'displayUnits'>,
+): DemoSheet => ({
   number,
-  content: versionContentSchema.parse({ schema: 1, significantFigures: 6, displayUnits: NEW_SHEET_DISPLAY_UNITS, attachments: [], ...partial }),
+  content: versionContentSchema.parse({
+    schema: 1,
+    significantFigures: 6,
+    displayUnits: NEW_SHEET_DISPLAY_UNITS,
+    attachments: [],
+    ...partial,
+  }),
 });
 
 export function demoSheets(): DemoSheet[] {
@@ -47,8 +56,18 @@ export function demoSheets(): DemoSheet[] {
         objective:
           'Show that the gantry 2 bending dipoles reach the field needed to bend the highest treatment energy on the design radius, with margin to the rated field.',
         inputs: [
-          { name: 'Highest treatment energy', value: '250 MeV', source: 'TPT2 beam requirements specification (demo)', sourceRevision: 'C' },
-          { name: 'Dipole bending radius', value: '1.5 m', source: 'TPT2 gantry layout drawing (demo)', sourceRevision: 'B' },
+          {
+            name: 'Highest treatment energy',
+            value: '250 MeV',
+            source: 'TPT2 beam requirements specification (demo)',
+            sourceRevision: 'C',
+          },
+          {
+            name: 'Dipole bending radius',
+            value: '1.5 m',
+            source: 'TPT2 gantry layout drawing (demo)',
+            sourceRevision: 'B',
+          },
           { name: 'Dipole rated field', value: '1.8 T', source: 'Dipole magnet datasheet (demo)', sourceRevision: 'A' },
         ],
         assumptions: [
@@ -95,8 +114,11 @@ export function demoSheets(): DemoSheet[] {
       safetyRelated: false,
       record: {
         ...emptyRecord(),
-        objective: 'Time of flight of a 150 MeV proton bunch between two monitors, for the timing of the position read-out.',
-        inputs: [{ name: 'Monitor spacing', value: '12.5 m', source: 'TPT2 beam-line survey (demo)', sourceRevision: 'A' }],
+        objective:
+          'Time of flight of a 150 MeV proton bunch between two monitors, for the timing of the position read-out.',
+        inputs: [
+          { name: 'Monitor spacing', value: '12.5 m', source: 'TPT2 beam-line survey (demo)', sourceRevision: 'A' },
+        ],
         method: 'Speed from kinetic energy; time of flight = path length / speed.',
       },
       cells: [
@@ -121,7 +143,11 @@ export function demoSheets(): DemoSheet[] {
         method: 'Relativistic de Broglie wavelength for an electron accelerated through a potential difference.',
       },
       cells: [
-        { id: 'note', kind: 'text', source: 'At 60 kV the classical formula is already a few per cent off; the relativistic one is used.' },
+        {
+          id: 'note',
+          kind: 'text',
+          source: 'At 60 kV the classical formula is already a few per cent off; the relativistic one is used.',
+        },
         {
           id: 'gun',
           kind: 'calc',
@@ -151,18 +177,32 @@ export function demoStudySheets(): DemoSheet[] {
         objective:
           'Tabulate β, γ, magnetic rigidity and dipole field over 70–250 MeV, and carry the uncertainty of the beam energy and of the bending radius to the field at the highest energy.',
         inputs: [
-          { name: 'Beam energy at the gantry entrance', value: '250 MeV, u = 0.4 MeV', source: 'Degrader calibration report (demo)', sourceRevision: 'A' },
-          { name: 'Dipole bending radius', value: '1.5 m, u = 2 mm', source: 'TPT2 gantry survey (demo)', sourceRevision: 'B' },
+          {
+            name: 'Beam energy at the gantry entrance',
+            value: '250 MeV, u = 0.4 MeV',
+            source: 'Degrader calibration report (demo)',
+            sourceRevision: 'A',
+          },
+          {
+            name: 'Dipole bending radius',
+            value: '1.5 m, u = 2 mm',
+            source: 'TPT2 gantry survey (demo)',
+            sourceRevision: 'B',
+          },
         ],
         method:
           'Relativistic kinematics (PDG, Kinematics); law of propagation of uncertainty, JCGM 100:2008, with a Monte Carlo check (JCGM 101:2008) where the model is non-linear.',
-        references: ['JCGM 100:2008 Evaluation of measurement data — Guide to the expression of uncertainty in measurement', 'Particle Data Group, Review of Particle Physics, section "Kinematics"'],
+        references: [
+          'JCGM 100:2008 Evaluation of measurement data — Guide to the expression of uncertainty in measurement',
+          'Particle Data Group, Review of Particle Physics, section "Kinematics"',
+        ],
       },
       cells: [
         {
           id: 'study-intro',
           kind: 'text',
-          source: 'Standard uncertainties are written after `±` (k = 1); results are reported as $y \\pm U$ with $k = 2$.',
+          source:
+            'Standard uncertainties are written after `±` (k = 1); results are reported as $y \\pm U$ with $k = 2$.',
         },
         {
           id: 'study-model',
@@ -180,28 +220,52 @@ export function demoStudySheets(): DemoSheet[] {
         {
           id: 'study-sweep',
           kind: 'calc',
-          source: ['sweep(T_kin, steps(70 MeV, 250 MeV, 20 MeV), beta, gamma_L, Brho, B_dip)', 'plot(T_kin, points(70 MeV, 250 MeV, 91), B_dip)'].join('\n'),
+          source: [
+            'sweep(T_kin, steps(70 MeV, 250 MeV, 20 MeV), beta, gamma_L, Brho, B_dip)',
+            'plot(T_kin, points(70 MeV, 250 MeV, 91), B_dip)',
+          ].join('\n'),
         },
       ],
     }),
     sheet(5, {
-      title: 'Electron transit through the 60 kV gap of the beam-profile monitor gun: hyperbolic motion and space-time diagram',
+      title:
+        'Electron transit through the 60 kV gap of the beam-profile monitor gun: hyperbolic motion and space-time diagram',
       safetyRelated: false,
       record: {
         objective:
           'Show that the probe electrons of the beam-profile monitor gun, starting from rest at the cathode, cross the 60 mm accelerating gap within the 1 ns read-out gate, and verify the constant-proper-acceleration functions against the energy gained, with the worldline, light lines and horizon on a space-time diagram.',
         inputs: [
-          { name: 'Gun accelerating voltage', value: '60 kV', source: 'Beam-profile monitor gun datasheet (demo)', sourceRevision: 'A' },
-          { name: 'Cathode–anode gap', value: '60 mm', source: 'Beam-profile monitor gun assembly drawing (demo)', sourceRevision: 'B' },
-          { name: 'Read-out gate', value: '1 ns', source: 'TPT2 beam-profile monitor timing specification (demo)', sourceRevision: 'A' },
+          {
+            name: 'Gun accelerating voltage',
+            value: '60 kV',
+            source: 'Beam-profile monitor gun datasheet (demo)',
+            sourceRevision: 'A',
+          },
+          {
+            name: 'Cathode–anode gap',
+            value: '60 mm',
+            source: 'Beam-profile monitor gun assembly drawing (demo)',
+            sourceRevision: 'B',
+          },
+          {
+            name: 'Read-out gate',
+            value: '1 ns',
+            source: 'TPT2 beam-profile monitor timing specification (demo)',
+            sourceRevision: 'A',
+          },
         ],
         assumptions: [
           { text: 'Plane-parallel electrodes: the field E = U/d is uniform across the gap.', needsVerification: true },
-          { text: 'Electrons leave the cathode at rest; emission energy and space charge are neglected.', needsVerification: false },
+          {
+            text: 'Electrons leave the cathode at rest; emission energy and space charge are neglected.',
+            needsVerification: false,
+          },
         ],
         method:
           'A charge in a uniform static field keeps a constant proper acceleration a0 = eE/m_e (hyperbolic motion): transit time, proper time and exit speed from the gap length; cross-check of the exit speed against the energy gained, eU; horizon distance c²/a0 = m_e c²/(eE).',
-        references: ['W. Rindler, Relativity: Special, General, and Cosmological, 2nd ed. (2006), ch. 3 (hyperbolic motion)'],
+        references: [
+          'W. Rindler, Relativity: Special, General, and Cosmological, 2nd ed. (2006), ch. 3 (hyperbolic motion)',
+        ],
         conclusions: 'To be stated after evaluation and check.',
       },
       cells: [
@@ -228,7 +292,10 @@ export function demoStudySheets(): DemoSheet[] {
         {
           id: 'energy-check',
           kind: 'calc',
-          source: ['v_energy = speedFromKinetic(q_e * U_gun, m_e)', 'abs(v_exit / v_energy - 1) < 1e-12   # the exit speed agrees with the energy gained, eU'].join('\n'),
+          source: [
+            'v_energy = speedFromKinetic(q_e * U_gun, m_e)',
+            'abs(v_exit / v_energy - 1) < 1e-12   # the exit speed agrees with the energy gained, eU',
+          ].join('\n'),
         },
         {
           id: 'worldline',
@@ -264,7 +331,11 @@ export async function seedDemo(db: Kysely<Database>, options: SeedOptions = {}):
   const existing = await db
     .selectFrom('users')
     .select(['id', 'email'])
-    .where('email', 'in', DEMO_ACCOUNTS.map((a) => a.email))
+    .where(
+      'email',
+      'in',
+      DEMO_ACCOUNTS.map((a) => a.email),
+    )
     .execute();
   const missing = DEMO_ACCOUNTS.filter((a) => !existing.some((u) => u.email === a.email));
   // Hash outside the transaction: argon2id is deliberately slow.
@@ -277,7 +348,12 @@ export async function seedDemo(db: Kysely<Database>, options: SeedOptions = {}):
     for (const [i, account] of missing.entries()) {
       const row = await trx
         .insertInto('users')
-        .values({ email: account.email, display_name: account.name, password_hash: hashes[i], is_admin: account.admin ?? false })
+        .values({
+          email: account.email,
+          display_name: account.name,
+          password_hash: hashes[i],
+          is_admin: account.admin ?? false,
+        })
         .onConflict((oc) => oc.column('email').doNothing())
         .returning('id')
         .executeTakeFirst();
@@ -285,22 +361,53 @@ export async function seedDemo(db: Kysely<Database>, options: SeedOptions = {}):
         report.usersCreated += 1;
         await trx
           .insertInto('audit_events')
-          .values({ actor_id: null, action: 'user.create', object_type: 'user', object_id: row.id, new_value: JSON.stringify({ email: account.email, name: account.name }), reason: 'demo seed' })
+          .values({
+            actor_id: null,
+            action: 'user.create',
+            object_type: 'user',
+            object_id: row.id,
+            new_value: JSON.stringify({ email: account.email, name: account.name }),
+            reason: 'demo seed',
+          })
           .execute();
       }
     }
-    for (const u of await trx.selectFrom('users').select(['id', 'email']).where('email', 'in', DEMO_ACCOUNTS.map((a) => a.email)).execute()) {
+    for (const u of await trx
+      .selectFrom('users')
+      .select(['id', 'email'])
+      .where(
+        'email',
+        'in',
+        DEMO_ACCOUNTS.map((a) => a.email),
+      )
+      .execute()) {
       userIds.set(u.email, u.id);
     }
     const admin = userIds.get('admin@demo.test')!;
 
-    let project = await trx.selectFrom('projects').select('id').where('code', '=', DEMO_PROJECT.code).executeTakeFirst();
+    let project = await trx
+      .selectFrom('projects')
+      .select('id')
+      .where('code', '=', DEMO_PROJECT.code)
+      .executeTakeFirst();
     if (!project) {
-      project = await trx.insertInto('projects').values({ ...DEMO_PROJECT, created_by: admin }).returning('id').executeTakeFirstOrThrow();
+      project = await trx
+        .insertInto('projects')
+        .values({ ...DEMO_PROJECT, created_by: admin })
+        .returning('id')
+        .executeTakeFirstOrThrow();
       report.projectCreated = true;
       await trx
         .insertInto('audit_events')
-        .values({ actor_id: admin, project_id: project.id, action: 'project.create', object_type: 'project', object_id: project.id, new_value: JSON.stringify(DEMO_PROJECT), reason: 'demo seed' })
+        .values({
+          actor_id: admin,
+          project_id: project.id,
+          action: 'project.create',
+          object_type: 'project',
+          object_id: project.id,
+          new_value: JSON.stringify(DEMO_PROJECT),
+          reason: 'demo seed',
+        })
         .execute();
     }
 
@@ -316,7 +423,15 @@ export async function seedDemo(db: Kysely<Database>, options: SeedOptions = {}):
           report.membershipsCreated += 1;
           await trx
             .insertInto('audit_events')
-            .values({ actor_id: admin, project_id: project.id, action: 'membership.grant', object_type: 'user', object_id: userIds.get(account.email)!, new_value: JSON.stringify({ role }), reason: 'demo seed' })
+            .values({
+              actor_id: admin,
+              project_id: project.id,
+              action: 'membership.grant',
+              object_type: 'user',
+              object_id: userIds.get(account.email)!,
+              new_value: JSON.stringify({ role }),
+              reason: 'demo seed',
+            })
             .execute();
         }
       }
@@ -325,10 +440,21 @@ export async function seedDemo(db: Kysely<Database>, options: SeedOptions = {}):
     const originator = userIds.get('originator@demo.test')!;
     let engine: SheetEngine | null = null;
     const starters = new Set(options.starters ? demoStarterSheets().map((d) => d.number) : []);
-    for (const demo of [...demoSheets(), ...(options.studies ? demoStudySheets() : []), ...(options.starters ? demoStarterSheets() : [])]) {
+    for (const demo of [
+      ...demoSheets(),
+      ...(options.studies ? demoStudySheets() : []),
+      ...(options.starters ? demoStarterSheets() : []),
+    ]) {
       const sheet = await trx
         .insertInto('sheets')
-        .values({ project_id: project.id, number: demo.number, title: demo.content.title, safety_related: demo.content.safetyRelated, created_by: originator, starter: starters.has(demo.number) })
+        .values({
+          project_id: project.id,
+          number: demo.number,
+          title: demo.content.title,
+          safety_related: demo.content.safetyRelated,
+          created_by: originator,
+          starter: starters.has(demo.number),
+        })
         .onConflict((oc) => oc.columns(['project_id', 'number']).doNothing())
         .returning('id')
         .executeTakeFirst();
@@ -337,7 +463,10 @@ export async function seedDemo(db: Kysely<Database>, options: SeedOptions = {}):
       const hashHex = contentHash(demo.content);
       // The demo content is our own, so it is evaluated in process rather than in the sandbox.
       engine ??= createSheetEngine();
-      const results = engine.evaluate(demo.content.cells, { significantFigures: demo.content.significantFigures, displayUnits: demo.content.displayUnits });
+      const results = engine.evaluate(demo.content.cells, {
+        significantFigures: demo.content.significantFigures,
+        displayUnits: demo.content.displayUnits,
+      });
       await trx
         .insertInto('versions')
         .values({
@@ -355,7 +484,15 @@ export async function seedDemo(db: Kysely<Database>, options: SeedOptions = {}):
         .execute();
       await trx
         .insertInto('audit_events')
-        .values({ actor_id: originator, project_id: project.id, action: 'version.save', object_type: 'sheet', object_id: sheet.id, new_value: JSON.stringify({ version: 1, sha256: hashHex }), reason: 'demo seed' })
+        .values({
+          actor_id: originator,
+          project_id: project.id,
+          action: 'version.save',
+          object_type: 'sheet',
+          object_id: sheet.id,
+          new_value: JSON.stringify({ version: 1, sha256: hashHex }),
+          reason: 'demo seed',
+        })
         .execute();
     }
   });

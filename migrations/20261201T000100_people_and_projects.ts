@@ -18,11 +18,19 @@ export async function up(db: Kysely<any>): Promise<void> {
   await db.schema
     .createTable('projects')
     .addColumn('id', 'uuid', (c) => c.primaryKey().defaultTo(sql`gen_random_uuid()`))
-    .addColumn('code', 'text', (c) => c.notNull().unique().check(sql`code ~ '^[A-Z][A-Z0-9]{1,9}$'`))
+    .addColumn('code', 'text', (c) =>
+      c
+        .notNull()
+        .unique()
+        .check(sql`code ~ '^[A-Z][A-Z0-9]{1,9}$'`),
+    )
     .addColumn('name', 'text', (c) => c.notNull().check(sql`length(btrim(name)) between 1 and 200`))
     .addColumn('legal_owner', 'text', (c) => c.notNull().check(sql`length(btrim(legal_owner)) between 1 and 200`))
     .addColumn('revision_scheme', 'text', (c) =>
-      c.notNull().defaultTo('letters').check(sql`revision_scheme in ('letters', 'numbers')`),
+      c
+        .notNull()
+        .defaultTo('letters')
+        .check(sql`revision_scheme in ('letters', 'numbers')`),
     )
     .addColumn('created_by', 'uuid', (c) => c.references('users.id'))
     .addColumn('created_at', 'timestamptz', (c) => c.notNull().defaultTo(sql`now()`))

@@ -33,7 +33,10 @@ export async function up(db: Kysely<any>): Promise<void> {
     .addColumn('message', 'text', (c) => c.notNull().defaultTo(''))
     .addColumn('created_at', 'timestamptz', (c) => c.notNull().defaultTo(sql`now()`))
     .addUniqueConstraint('versions_sheet_number_key', ['sheet_id', 'number'])
-    .addCheckConstraint('versions_parent_before_check', sql`parent_number is null or (parent_number > 0 and parent_number < number)`)
+    .addCheckConstraint(
+      'versions_parent_before_check',
+      sql`parent_number is null or (parent_number > 0 and parent_number < number)`,
+    )
     .addCheckConstraint('versions_first_has_no_parent_check', sql`(number = 1) = (parent_number is null)`)
     .execute();
   await db.schema.createIndex('versions_content_hash_idx').on('versions').column('content_hash').execute();

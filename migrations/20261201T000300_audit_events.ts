@@ -24,7 +24,11 @@ export async function up(db: Kysely<any>): Promise<void> {
     .addColumn('prev_hash', 'text', (c) => c.notNull())
     .addColumn('hash', 'text', (c) => c.notNull().unique())
     .execute();
-  await db.schema.createIndex('audit_events_object_idx').on('audit_events').columns(['object_type', 'object_id']).execute();
+  await db.schema
+    .createIndex('audit_events_object_idx')
+    .on('audit_events')
+    .columns(['object_type', 'object_id'])
+    .execute();
   await db.schema.createIndex('audit_events_project_idx').on('audit_events').column('project_id').execute();
 
   await sql`

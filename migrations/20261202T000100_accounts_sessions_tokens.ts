@@ -113,5 +113,10 @@ export async function down(db: Kysely<any>): Promise<void> {
   await db.schema.dropTable('email_tokens').execute();
   await db.schema.dropTable('sign_in_attempts').execute();
   await db.schema.dropTable('sessions').execute();
-  await db.schema.alterTable('users').dropColumn('locked_at').dropColumn('failed_sign_ins').dropColumn('password_changed_at').execute();
+  await db.schema
+    .alterTable('users')
+    .dropColumn('locked_at')
+    .dropColumn('failed_sign_ins')
+    .dropColumn('password_changed_at')
+    .execute();
 }

@@ -21,7 +21,11 @@ export async function up(db: Kysely<any>): Promise<void> {
     .addColumn('created_at', 'timestamptz', (c) => c.notNull().defaultTo(sql`now()`))
     .addUniqueConstraint('attachments_sheet_name_sha256_key', ['sheet_id', 'name', 'sha256'])
     .execute();
-  await db.schema.createIndex('attachments_sheet_sha256_idx').on('attachments').columns(['sheet_id', 'sha256']).execute();
+  await db.schema
+    .createIndex('attachments_sheet_sha256_idx')
+    .on('attachments')
+    .columns(['sheet_id', 'sha256'])
+    .execute();
   await sql`create trigger attachments_refuse_update_delete before update or delete on attachments
             for each row execute function worldsheet_refuse_change()`.execute(db);
   await sql`create trigger attachments_refuse_truncate before truncate on attachments

@@ -16,8 +16,15 @@ export async function up(db: Kysely<any>): Promise<void> {
     .addColumn('base_version_number', 'integer')
     .addColumn('submitted_by', 'uuid', (c) => c.notNull().references('users.id'))
     .addColumn('checker_id', 'uuid', (c) => c.notNull().references('users.id'))
-    .addColumn('state', 'text', (c) => c.notNull().defaultTo('in_check').check(sql`state in ('in_check', 'returned', 'checked', 'approved', 'approval_returned')`))
-    .addColumn('verification_method', 'text', (c) => c.check(sql`verification_method in ('design_review', 'alternate_calculation', 'qualification_test')`))
+    .addColumn('state', 'text', (c) =>
+      c
+        .notNull()
+        .defaultTo('in_check')
+        .check(sql`state in ('in_check', 'returned', 'checked', 'approved', 'approval_returned')`),
+    )
+    .addColumn('verification_method', 'text', (c) =>
+      c.check(sql`verification_method in ('design_review', 'alternate_calculation', 'qualification_test')`),
+    )
     .addColumn('checker_notes', 'text', (c) => c.notNull().defaultTo(''))
     .addColumn('alternate_cells', 'jsonb', (c) => c.notNull().defaultTo(sql`'[]'::jsonb`))
     .addColumn('alternate_results', 'jsonb')
@@ -29,7 +36,9 @@ export async function up(db: Kysely<any>): Promise<void> {
     .addForeignKeyConstraint('checks_version_fkey', ['sheet_id', 'version_number'], 'versions', ['sheet_id', 'number'])
     .execute();
   // At most one open check per sheet.
-  await sql`create unique index checks_one_open_per_sheet on checks (sheet_id) where state in ('in_check', 'checked')`.execute(db);
+  await sql`create unique index checks_one_open_per_sheet on checks (sheet_id) where state in ('in_check', 'checked')`.execute(
+    db,
+  );
   await db.schema.createIndex('checks_checker_idx').on('checks').columns(['checker_id', 'state']).execute();
 
   // A signature (21 CFR Part 11 §11.50): printed name, UTC time, meaning; bound to the SHA-256 of
@@ -43,11 +52,20 @@ export async function up(db: Kysely<any>): Promise<void> {
     .addColumn('check_id', 'uuid', (c) => c.references('checks.id'))
     .addColumn('user_id', 'uuid', (c) => c.notNull().references('users.id'))
     .addColumn('printed_name', 'text', (c) => c.notNull().check(sql`length(btrim(printed_name)) > 0`))
-    .addColumn('meaning', 'text', (c) => c.notNull().check(sql`meaning in ('prepared', 'checked', 'approved', 'issued')`))
+    .addColumn('meaning', 'text', (c) =>
+      c.notNull().check(sql`meaning in ('prepared', 'checked', 'approved', 'issued')`),
+    )
     .addColumn('signed_at', 'timestamptz', (c) => c.notNull().defaultTo(sql`now()`))
-    .addForeignKeyConstraint('signatures_version_fkey', ['sheet_id', 'version_number'], 'versions', ['sheet_id', 'number'])
+    .addForeignKeyConstraint('signatures_version_fkey', ['sheet_id', 'version_number'], 'versions', [
+      'sheet_id',
+      'number',
+    ])
     .execute();
-  await db.schema.createIndex('signatures_sheet_idx').on('signatures').columns(['sheet_id', 'version_number']).execute();
+  await db.schema
+    .createIndex('signatures_sheet_idx')
+    .on('signatures')
+    .columns(['sheet_id', 'version_number'])
+    .execute();
 
   await sql`
     create function worldsheet_version_hash_matches() returns trigger language plpgsql as $$
@@ -59,8 +77,12 @@ export async function up(db: Kysely<any>): Promise<void> {
       return new;
     end
     $$`.execute(db);
-  await sql`create trigger signatures_bind_version before insert on signatures for each row execute function worldsheet_version_hash_matches()`.execute(db);
-  await sql`create trigger checks_bind_version before insert on checks for each row execute function worldsheet_version_hash_matches()`.execute(db);
+  await sql`create trigger signatures_bind_version before insert on signatures for each row execute function worldsheet_version_hash_matches()`.execute(
+    db,
+  );
+  await sql`create trigger checks_bind_version before insert on checks for each row execute function worldsheet_version_hash_matches()`.execute(
+    db,
+  );
   await sql`create trigger signatures_refuse_update_delete before update or delete on signatures
             for each row execute function worldsheet_refuse_change()`.execute(db);
   await sql`create trigger signatures_refuse_truncate before truncate on signatures
@@ -89,7 +111,9 @@ export async function up(db: Kysely<any>): Promise<void> {
       return new;
     end
     $$`.execute(db);
-  await sql`create trigger checks_guard before update or delete on checks for each row execute function checks_guard()`.execute(db);
+  await sql`create trigger checks_guard before update or delete on checks for each row execute function checks_guard()`.execute(
+    db,
+  );
 
   // Comments anchored to a cell (and optionally a statement line), in threads: a reply names its
   // thread's first comment. Only the resolution of a thread is ever written after the fact, once.
@@ -106,7 +130,11 @@ export async function up(db: Kysely<any>): Promise<void> {
     .addColumn('resolved_at', 'timestamptz')
     .addColumn('resolved_by', 'uuid', (c) => c.references('users.id'))
     .execute();
-  await db.schema.createIndex('check_comments_check_idx').on('check_comments').columns(['check_id', 'created_at']).execute();
+  await db.schema
+    .createIndex('check_comments_check_idx')
+    .on('check_comments')
+    .columns(['check_id', 'created_at'])
+    .execute();
   await sql`
     create function check_comments_guard() returns trigger language plpgsql as $$
     begin
@@ -121,7 +149,9 @@ export async function up(db: Kysely<any>): Promise<void> {
       return new;
     end
     $$`.execute(db);
-  await sql`create trigger check_comments_guard before update or delete on check_comments for each row execute function check_comments_guard()`.execute(db);
+  await sql`create trigger check_comments_guard before update or delete on check_comments for each row execute function check_comments_guard()`.execute(
+    db,
+  );
 }
 
 export async function down(db: Kysely<any>): Promise<void> {

@@ -21,5 +21,7 @@ export async function up(db: Kysely<any>): Promise<void> {
 }
 
 export async function down(db: Kysely<any>): Promise<void> {
-  await sql`alter table versions alter column content set compression default, alter column results set compression default`.execute(db);
+  await sql`alter table versions alter column content set compression default, alter column results set compression default`.execute(
+    db,
+  );
 }

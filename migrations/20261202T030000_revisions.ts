@@ -18,16 +18,26 @@ export async function up(db: Kysely<any>): Promise<void> {
     .addColumn('verification_code', 'text', (c) => c.notNull().unique())
     .addColumn('requested_by', 'uuid', (c) => c.notNull().references('users.id'))
     .addColumn('signed_at', 'timestamptz', (c) => c.notNull())
-    .addColumn('state', 'text', (c) => c.notNull().defaultTo('pending').check(sql`state in ('pending', 'done', 'failed')`))
+    .addColumn('state', 'text', (c) =>
+      c
+        .notNull()
+        .defaultTo('pending')
+        .check(sql`state in ('pending', 'done', 'failed')`),
+    )
     .addColumn('step', 'text', (c) => c.notNull().defaultTo('queued'))
     .addColumn('pdf_key', 'text')
     .addColumn('error', 'text')
     .addColumn('revision_id', 'uuid')
     .addColumn('created_at', 'timestamptz', (c) => c.notNull().defaultTo(sql`now()`))
     .addColumn('finished_at', 'timestamptz')
-    .addForeignKeyConstraint('issue_jobs_version_fkey', ['sheet_id', 'version_number'], 'versions', ['sheet_id', 'number'])
+    .addForeignKeyConstraint('issue_jobs_version_fkey', ['sheet_id', 'version_number'], 'versions', [
+      'sheet_id',
+      'number',
+    ])
     .execute();
-  await sql`create unique index issue_jobs_one_pending_per_sheet on issue_jobs (sheet_id) where state = 'pending'`.execute(db);
+  await sql`create unique index issue_jobs_one_pending_per_sheet on issue_jobs (sheet_id) where state = 'pending'`.execute(
+    db,
+  );
 
   // An issued revision: an approved version, its code, its signed PDF (in object storage, by its
   // SHA-256), its status. Only the status moves: current → superseded, or to withdrawn with a reason.
@@ -42,11 +52,21 @@ export async function up(db: Kysely<any>): Promise<void> {
     .addColumn('issue_job_id', 'uuid', (c) => c.notNull().unique().references('issue_jobs.id'))
     .addColumn('code', 'text', (c) => c.notNull())
     .addColumn('sequence', 'integer', (c) => c.notNull().check(sql`sequence >= 0`))
-    .addColumn('status', 'text', (c) => c.notNull().defaultTo('current').check(sql`status in ('current', 'superseded', 'withdrawn')`))
+    .addColumn('status', 'text', (c) =>
+      c
+        .notNull()
+        .defaultTo('current')
+        .check(sql`status in ('current', 'superseded', 'withdrawn')`),
+    )
     .addColumn('issued_by', 'uuid', (c) => c.notNull().references('users.id'))
     .addColumn('issued_at', 'timestamptz', (c) => c.notNull())
     .addColumn('pdf_key', 'text', (c) => c.notNull())
-    .addColumn('pdf_sha256', 'text', (c) => c.notNull().unique().check(sql`pdf_sha256 ~ '^[0-9a-f]{64}$'`))
+    .addColumn('pdf_sha256', 'text', (c) =>
+      c
+        .notNull()
+        .unique()
+        .check(sql`pdf_sha256 ~ '^[0-9a-f]{64}$'`),
+    )
     .addColumn('pdf_size', 'bigint', (c) => c.notNull())
     .addColumn('verification_code', 'text', (c) => c.notNull().unique())
     .addColumn('superseded_by', 'uuid', (c) => c.references('revisions.id'))
@@ -58,11 +78,20 @@ export async function up(db: Kysely<any>): Promise<void> {
     .addColumn('withdrawn_reason', 'text')
     .addUniqueConstraint('revisions_sheet_code_key', ['sheet_id', 'code'])
     .addUniqueConstraint('revisions_sheet_sequence_key', ['sheet_id', 'sequence'])
-    .addForeignKeyConstraint('revisions_version_fkey', ['sheet_id', 'version_number'], 'versions', ['sheet_id', 'number'])
+    .addForeignKeyConstraint('revisions_version_fkey', ['sheet_id', 'version_number'], 'versions', [
+      'sheet_id',
+      'number',
+    ])
     .execute();
-  await sql`create unique index revisions_one_current_per_sheet on revisions (sheet_id) where status = 'current'`.execute(db);
-  await sql`create trigger revisions_bind_version before insert on revisions for each row execute function worldsheet_version_hash_matches()`.execute(db);
-  await sql`create trigger issue_jobs_bind_version before insert on issue_jobs for each row execute function worldsheet_version_hash_matches()`.execute(db);
+  await sql`create unique index revisions_one_current_per_sheet on revisions (sheet_id) where status = 'current'`.execute(
+    db,
+  );
+  await sql`create trigger revisions_bind_version before insert on revisions for each row execute function worldsheet_version_hash_matches()`.execute(
+    db,
+  );
+  await sql`create trigger issue_jobs_bind_version before insert on issue_jobs for each row execute function worldsheet_version_hash_matches()`.execute(
+    db,
+  );
   await sql`
     create function revisions_guard() returns trigger language plpgsql as $$
     begin
@@ -89,8 +118,12 @@ export async function up(db: Kysely<any>): Promise<void> {
       return new;
     end
     $$`.execute(db);
-  await sql`create trigger revisions_guard before update or delete on revisions for each row execute function revisions_guard()`.execute(db);
-  await sql`create trigger revisions_refuse_truncate before truncate on revisions for each statement execute function worldsheet_refuse_change()`.execute(db);
+  await sql`create trigger revisions_guard before update or delete on revisions for each row execute function revisions_guard()`.execute(
+    db,
+  );
+  await sql`create trigger revisions_refuse_truncate before truncate on revisions for each statement execute function worldsheet_refuse_change()`.execute(
+    db,
+  );
 }
 
 export async function down(db: Kysely<any>): Promise<void> {

@@ -12,7 +12,11 @@ export async function up(db: Kysely<any>): Promise<void> {
     .addColumn('name', 'text', (c) => c.notNull().check(sql`length(name) between 1 and 100`))
     .addPrimaryKeyConstraint('version_references_pkey', ['version_id', 'revision_id', 'name'])
     .execute();
-  await db.schema.createIndex('version_references_revision_idx').on('version_references').column('revision_id').execute();
+  await db.schema
+    .createIndex('version_references_revision_idx')
+    .on('version_references')
+    .column('revision_id')
+    .execute();
   await sql`create trigger version_references_refuse_update_delete before update or delete on version_references
             for each row execute function worldsheet_refuse_change()`.execute(db);
   await sql`create trigger version_references_refuse_truncate before truncate on version_references

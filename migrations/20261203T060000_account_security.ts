@@ -15,7 +15,12 @@ export async function up(db: Kysely<any>): Promise<void> {
 
   await db.schema
     .alterTable('api_tokens')
-    .addColumn('scope', 'text', (c) => c.notNull().defaultTo('read-write').check(sql`scope in ('read', 'read-write')`))
+    .addColumn('scope', 'text', (c) =>
+      c
+        .notNull()
+        .defaultTo('read-write')
+        .check(sql`scope in ('read', 'read-write')`),
+    )
     .addColumn('expires_at', 'timestamptz')
     .execute();
   // Tokens made before expiry existed get the default lifetime, counted from their creation.

@@ -13,7 +13,11 @@ export async function up(db: Kysely<any>): Promise<void> {
     .addColumn('window_started_at', 'timestamptz', (c) => c.notNull().defaultTo(sql`now()`))
     .addColumn('requests', 'integer', (c) => c.notNull().check(sql`requests >= 0`))
     .execute();
-  await db.schema.createIndex('verify_rate_limits_window_idx').on('verify_rate_limits').column('window_started_at').execute();
+  await db.schema
+    .createIndex('verify_rate_limits_window_idx')
+    .on('verify_rate_limits')
+    .column('window_started_at')
+    .execute();
 }
 
 export async function down(db: Kysely<any>): Promise<void> {

@@ -16,5 +16,10 @@ export async function up(db: Kysely<any>): Promise<void> {
 }
 
 export async function down(db: Kysely<any>): Promise<void> {
-  await db.schema.alterTable('checks').dropColumn('carried_over').dropColumn('tolerance_text').dropColumn('tolerance').execute();
+  await db.schema
+    .alterTable('checks')
+    .dropColumn('carried_over')
+    .dropColumn('tolerance_text')
+    .dropColumn('tolerance')
+    .execute();
 }

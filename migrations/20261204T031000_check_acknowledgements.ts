@@ -6,7 +6,10 @@ export async function up(db: Kysely<any>): Promise<void> {
   // What the originator acknowledged in writing when submitting the version: each cell error,
   // failed design criterion, engine warning and mismatched design input, as
   // [{ key, kind, cellId, message, text }]. Written with the submission and never changed after.
-  await db.schema.alterTable('checks').addColumn('acknowledgements', 'jsonb', (c) => c.notNull().defaultTo(sql`'[]'::jsonb`)).execute();
+  await db.schema
+    .alterTable('checks')
+    .addColumn('acknowledgements', 'jsonb', (c) => c.notNull().defaultTo(sql`'[]'::jsonb`))
+    .execute();
   await sql`
     create function checks_acknowledgements_immutable() returns trigger language plpgsql as $$
     begin
@@ -15,7 +18,9 @@ export async function up(db: Kysely<any>): Promise<void> {
       end if;
       return new;
     end $$`.execute(db);
-  await sql`create trigger checks_acknowledgements_immutable before update on checks for each row execute function checks_acknowledgements_immutable()`.execute(db);
+  await sql`create trigger checks_acknowledgements_immutable before update on checks for each row execute function checks_acknowledgements_immutable()`.execute(
+    db,
+  );
 }
 
 export async function down(db: Kysely<any>): Promise<void> {

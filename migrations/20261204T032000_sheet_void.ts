@@ -13,7 +13,9 @@ export async function up(db: Kysely<any>): Promise<void> {
     add column void_reason text,
     add constraint sheets_void_complete_check check (
       (voided_at is null and voided_by is null and void_reason is null)
-      or (voided_at is not null and voided_by is not null and void_reason is not null and length(btrim(void_reason)) > 0))`.execute(db);
+      or (voided_at is not null and voided_by is not null and void_reason is not null and length(btrim(void_reason)) > 0))`.execute(
+    db,
+  );
 
   await sql`
     create function sheets_void_guard() returns trigger language plpgsql as $$
@@ -36,7 +38,9 @@ export async function up(db: Kysely<any>): Promise<void> {
       return new;
     end
     $$`.execute(db);
-  await sql`create trigger sheets_void_guard before update on sheets for each row execute function sheets_void_guard()`.execute(db);
+  await sql`create trigger sheets_void_guard before update on sheets for each row execute function sheets_void_guard()`.execute(
+    db,
+  );
 
   // New versions, checks and revisions of a void sheet are refused. FOR SHARE waits for a voiding
   // in progress on the same sheet, so the two cannot both succeed.
@@ -53,7 +57,9 @@ export async function up(db: Kysely<any>): Promise<void> {
     end
     $$`.execute(db);
   for (const table of ['versions', 'checks', 'revisions']) {
-    await sql`create trigger ${sql.raw(`${table}_refuse_on_void_sheet`)} before insert on ${sql.table(table)} for each row execute function refuse_on_void_sheet()`.execute(db);
+    await sql`create trigger ${sql.raw(`${table}_refuse_on_void_sheet`)} before insert on ${sql.table(table)} for each row execute function refuse_on_void_sheet()`.execute(
+      db,
+    );
   }
 }
 
@@ -64,5 +70,7 @@ export async function down(db: Kysely<any>): Promise<void> {
   await sql`drop function refuse_on_void_sheet()`.execute(db);
   await sql`drop trigger sheets_void_guard on sheets`.execute(db);
   await sql`drop function sheets_void_guard()`.execute(db);
-  await sql`alter table sheets drop constraint sheets_void_complete_check, drop column void_reason, drop column voided_by, drop column voided_at`.execute(db);
+  await sql`alter table sheets drop constraint sheets_void_complete_check, drop column void_reason, drop column voided_by, drop column voided_at`.execute(
+    db,
+  );
 }

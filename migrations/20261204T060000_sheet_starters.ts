@@ -19,7 +19,9 @@ export async function up(db: Kysely<any>): Promise<void> {
       return new;
     end
     $$`.execute(db);
-  await sql`create trigger sheets_origin_guard before update on sheets for each row execute function sheets_origin_guard()`.execute(db);
+  await sql`create trigger sheets_origin_guard before update on sheets for each row execute function sheets_origin_guard()`.execute(
+    db,
+  );
 }
 
 export async function down(db: Kysely<any>): Promise<void> {

@@ -26,8 +26,21 @@ export default async function AccountPage() {
           <JsonForm
             action="/api/account/password"
             fields={[
-              { name: 'currentPassword', label: 'Current password', type: 'password', required: true, autoComplete: 'current-password' },
-              { name: 'newPassword', label: 'New password', type: 'password', required: true, autoComplete: 'new-password', hint: 'At least 12 characters.' },
+              {
+                name: 'currentPassword',
+                label: 'Current password',
+                type: 'password',
+                required: true,
+                autoComplete: 'current-password',
+              },
+              {
+                name: 'newPassword',
+                label: 'New password',
+                type: 'password',
+                required: true,
+                autoComplete: 'new-password',
+                hint: 'At least 12 characters.',
+              },
               { name: 'revokeTokens', label: 'Also revoke all my API tokens', type: 'checkbox' },
             ]}
             submitLabel="Change the password"
@@ -40,9 +53,10 @@ export default async function AccountPage() {
           API tokens
         </h2>
         <p className="mt-1 max-w-prose text-sm text-ink-muted">
-          For scripts and integrations. A token carries your roles; its writes are audited under your name. A read-only token may only read; signing
-          always asks for your password. Tokens expire (you choose when, after at most {API_TOKEN_SETTINGS.maxDays} days) and stop working while your account is locked or disabled;
-          a password reset revokes them all. Revoke a token you no longer use.
+          For scripts and integrations. A token carries your roles; its writes are audited under your name. A read-only
+          token may only read; signing always asks for your password. Tokens expire (you choose when, after at most{' '}
+          {API_TOKEN_SETTINGS.maxDays} days) and stop working while your account is locked or disabled; a password reset
+          revokes them all. Revoke a token you no longer use.
         </p>
         <div className="mt-3">
           <ApiTokensPanel defaultDays={API_TOKEN_SETTINGS.defaultDays} maxDays={API_TOKEN_SETTINGS.maxDays} />

@@ -14,7 +14,8 @@ export default async function AdminPage() {
       <header>
         <h1 className="text-2xl font-bold">Administration</h1>
         <p className="mt-1 max-w-prose text-ink-muted">
-          People, projects and roles. Accounts are disabled, never deleted: their signatures must stay readable. Every change asks for a reason and is audited.
+          People, projects and roles. Accounts are disabled, never deleted: their signatures must stay readable. Every
+          change asks for a reason and is audited.
         </p>
       </header>
       <AdminConsole />

@@ -15,7 +15,8 @@ export default async function MyApprovalsPage() {
       <header>
         <h1 className="text-2xl font-bold">My approvals</h1>
         <p className="mt-1 text-ink-muted">
-          Checked versions in the projects where you approve, oldest first. Where the independence rules keep you from approving one, the reason is shown.
+          Checked versions in the projects where you approve, oldest first. Where the independence rules keep you from
+          approving one, the reason is shown.
         </p>
       </header>
       {rows.length === 0 ? (

@@ -14,7 +14,9 @@ export default async function MyChecksPage() {
     <div className="space-y-6">
       <header>
         <h1 className="text-2xl font-bold">My checks</h1>
-        <p className="mt-1 text-ink-muted">Versions submitted to you for an independent check, oldest first. Each names one exact version by its SHA-256.</p>
+        <p className="mt-1 text-ink-muted">
+          Versions submitted to you for an independent check, oldest first. Each names one exact version by its SHA-256.
+        </p>
       </header>
       {rows.length === 0 ? (
         <p className="rounded border border-rule bg-surface p-4 text-ink-muted">Nothing is waiting for your check.</p>

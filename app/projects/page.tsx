@@ -14,20 +14,36 @@ export default async function ProjectsPage() {
     <div className="space-y-6">
       <header>
         <h1 className="text-2xl font-bold">Projects</h1>
-        <p className="mt-1 text-ink-muted">{actor.isAdmin ? 'All projects (you are an administrator).' : 'The projects you are a member of, with your roles.'}</p>
+        <p className="mt-1 text-ink-muted">
+          {actor.isAdmin
+            ? 'All projects (you are an administrator).'
+            : 'The projects you are a member of, with your roles.'}
+        </p>
       </header>
       {projects.length === 0 ? (
-        <p className="rounded border border-rule bg-surface p-4 text-ink-muted">You are not a member of any project yet. An administrator gives roles per project.</p>
+        <p className="rounded border border-rule bg-surface p-4 text-ink-muted">
+          You are not a member of any project yet. An administrator gives roles per project.
+        </p>
       ) : (
         <table className="w-full border-collapse text-sm">
           <caption className="sr-only">Projects</caption>
           <thead>
             <tr className="border-b border-rule-strong text-left">
-              <th scope="col" className="py-2 pr-4">Code</th>
-              <th scope="col" className="py-2 pr-4">Name</th>
-              <th scope="col" className="py-2 pr-4">Legal owner</th>
-              <th scope="col" className="py-2 pr-4">Revisions</th>
-              <th scope="col" className="py-2">Your roles</th>
+              <th scope="col" className="py-2 pr-4">
+                Code
+              </th>
+              <th scope="col" className="py-2 pr-4">
+                Name
+              </th>
+              <th scope="col" className="py-2 pr-4">
+                Legal owner
+              </th>
+              <th scope="col" className="py-2 pr-4">
+                Revisions
+              </th>
+              <th scope="col" className="py-2">
+                Your roles
+              </th>
             </tr>
           </thead>
           <tbody>
@@ -45,7 +61,9 @@ export default async function ProjectsPage() {
                 <td className="py-2 pr-4">{p.name}</td>
                 <td className="py-2 pr-4">{p.legal_owner}</td>
                 <td className="py-2 pr-4">{p.revision_scheme === 'letters' ? 'A, B, C …' : '0, 1, 2 …'}</td>
-                <td className="py-2">{p.roles.length ? p.roles.map((r) => ROLE_LABELS[r]).join(', ') : '— (administration only)'}</td>
+                <td className="py-2">
+                  {p.roles.length ? p.roles.map((r) => ROLE_LABELS[r]).join(', ') : '— (administration only)'}
+                </td>
               </tr>
             ))}
           </tbody>

@@ -50,11 +50,21 @@ export default function ReferencePage() {
             <caption className="sr-only">Built-in constants with their provenance</caption>
             <thead>
               <tr className="border-b border-rule-strong text-left">
-                <th scope="col" className="py-2 pr-4">Name</th>
-                <th scope="col" className="py-2 pr-4">Quantity</th>
-                <th scope="col" className="py-2 pr-4">Value</th>
-                <th scope="col" className="py-2 pr-4">Standard uncertainty</th>
-                <th scope="col" className="py-2">Provenance</th>
+                <th scope="col" className="py-2 pr-4">
+                  Name
+                </th>
+                <th scope="col" className="py-2 pr-4">
+                  Quantity
+                </th>
+                <th scope="col" className="py-2 pr-4">
+                  Value
+                </th>
+                <th scope="col" className="py-2 pr-4">
+                  Standard uncertainty
+                </th>
+                <th scope="col" className="py-2">
+                  Provenance
+                </th>
               </tr>
             </thead>
             <tbody>
@@ -67,7 +77,9 @@ export default function ReferencePage() {
                   <td className="py-2 pr-4 font-mono">
                     {k.value} {k.unit}
                   </td>
-                  <td className="py-2 pr-4 font-mono">{k.uncertainty === 0 ? 'exact' : `${k.uncertainty} ${k.unit}`}</td>
+                  <td className="py-2 pr-4 font-mono">
+                    {k.uncertainty === 0 ? 'exact' : `${k.uncertainty} ${k.unit}`}
+                  </td>
                   <td className="py-2">{k.provenance}</td>
                 </tr>
               ))}
@@ -81,25 +93,36 @@ export default function ReferencePage() {
           Units of the trade and the units shown
         </h2>
         <p className="mt-2 max-w-prose text-sm text-ink-muted">
-          Besides the SI units and their prefixes, a sheet can write momenta in <code className="font-mono">eV/c</code> …{' '}
-          <code className="font-mono">TeV/c</code> and masses in <code className="font-mono">eV/c^2</code> … <code className="font-mono">TeV/c^2</code> (after a
-          number, after <code className="font-mono">to</code> and in <code className="font-mono">number(x, &quot;MeV/c&quot;)</code>; elsewhere{' '}
-          <code className="font-mono">c</code> is the speed of light), <code className="font-mono">u</code> (unified atomic mass unit, = Da),{' '}
-          <code className="font-mono">yr</code> and <code className="font-mono">a</code> (Julian year), <code className="font-mono">ppm</code>,{' '}
-          <code className="font-mono">ppb</code> and rates such as <code className="font-mono">us/day</code>. Numbers are shown to the sheet&apos;s significant
-          figures with their trailing zeros (1.967 50). The sheet setting &quot;Units shown&quot; chooses SI units or accelerator units, where energies,
-          momenta and masses at particle scale are shown in eV, eV/c and eV/c² with a prefix chosen by size; a unit written in the formula (
-          <code className="font-mono">3 kg</code>, <code className="font-mono">x to J</code>) is kept, and the stored values are the same either way.
+          Besides the SI units and their prefixes, a sheet can write momenta in <code className="font-mono">eV/c</code>{' '}
+          … <code className="font-mono">TeV/c</code> and masses in <code className="font-mono">eV/c^2</code> …{' '}
+          <code className="font-mono">TeV/c^2</code> (after a number, after <code className="font-mono">to</code> and in{' '}
+          <code className="font-mono">number(x, &quot;MeV/c&quot;)</code>; elsewhere{' '}
+          <code className="font-mono">c</code> is the speed of light), <code className="font-mono">u</code> (unified
+          atomic mass unit, = Da), <code className="font-mono">yr</code> and <code className="font-mono">a</code>{' '}
+          (Julian year), <code className="font-mono">ppm</code>, <code className="font-mono">ppb</code> and rates such
+          as <code className="font-mono">us/day</code>. Numbers are shown to the sheet&apos;s significant figures with
+          their trailing zeros (1.967 50). The sheet setting &quot;Units shown&quot; chooses SI units or accelerator
+          units, where energies, momenta and masses at particle scale are shown in eV, eV/c and eV/c² with a prefix
+          chosen by size; a unit written in the formula (<code className="font-mono">3 kg</code>,{' '}
+          <code className="font-mono">x to J</code>) is kept, and the stored values are the same either way.
         </p>
         <div className="mt-3 overflow-x-auto">
           <table className="w-full border-collapse text-sm">
             <caption className="sr-only">Examples of the units</caption>
             <thead>
               <tr className="border-b border-rule-strong text-left">
-                <th scope="col" className="py-2 pr-4">Statement</th>
-                <th scope="col" className="py-2 pr-4">Units shown</th>
-                <th scope="col" className="py-2 pr-4">Result</th>
-                <th scope="col" className="py-2">Note</th>
+                <th scope="col" className="py-2 pr-4">
+                  Statement
+                </th>
+                <th scope="col" className="py-2 pr-4">
+                  Units shown
+                </th>
+                <th scope="col" className="py-2 pr-4">
+                  Result
+                </th>
+                <th scope="col" className="py-2">
+                  Note
+                </th>
               </tr>
             </thead>
             <tbody>
@@ -121,20 +144,26 @@ export default function ReferencePage() {
           Warnings: units and numbers that look like constants
         </h2>
         <p className="mt-2 max-w-prose text-sm text-ink-muted">
-          Some short names are units or mathematical constants, not physical constants: <code className="font-mono">h</code> is the hour,{' '}
-          <code className="font-mono">hbar</code> the hectobar, <code className="font-mono">g</code> the gram, <code className="font-mono">kB</code> the kilobyte,{' '}
-          <code className="font-mono">e</code> and <code className="font-mono">E</code> Euler&apos;s number. Such a name used by itself (not as a unit after a
-          number, not <code className="font-mono">e</code> as the base of a power) gets a warning beside the statement, in the check view, in the issued PDF and
-          in <code className="font-mono">npm run calc -- --json</code> (<code className="font-mono">cells[].warnings</code>); the statement is still evaluated as
-          written. A sheet that defines the name itself gets no warning.
+          Some short names are units or mathematical constants, not physical constants:{' '}
+          <code className="font-mono">h</code> is the hour, <code className="font-mono">hbar</code> the hectobar,{' '}
+          <code className="font-mono">g</code> the gram, <code className="font-mono">kB</code> the kilobyte,{' '}
+          <code className="font-mono">e</code> and <code className="font-mono">E</code> Euler&apos;s number. Such a name
+          used by itself (not as a unit after a number, not <code className="font-mono">e</code> as the base of a power)
+          gets a warning beside the statement, in the check view, in the issued PDF and in{' '}
+          <code className="font-mono">npm run calc -- --json</code> (<code className="font-mono">cells[].warnings</code>
+          ); the statement is still evaluated as written. A sheet that defines the name itself gets no warning.
         </p>
         <div className="mt-3 overflow-x-auto">
           <table className="w-full border-collapse text-sm">
             <caption className="sr-only">Examples of the warnings</caption>
             <thead>
               <tr className="border-b border-rule-strong text-left">
-                <th scope="col" className="py-2 pr-4">Statement</th>
-                <th scope="col" className="py-2">Warning</th>
+                <th scope="col" className="py-2 pr-4">
+                  Statement
+                </th>
+                <th scope="col" className="py-2">
+                  Warning
+                </th>
               </tr>
             </thead>
             <tbody>
@@ -155,18 +184,19 @@ export default function ReferencePage() {
         </h2>
         <p className="mt-2 max-w-prose text-sm text-ink-muted">
           A name starts with a letter, Latin or Greek, and holds letters, digits and underscores (
-          <code className="font-mono">γ</code>, <code className="font-mono">Δp</code>, <code className="font-mono">θ_1</code>,{' '}
-          <code className="font-mono">T_kin</code>); Greek letters are typeset as such. The constants above and the
-          mathematical values (<code className="font-mono">pi</code>, <code className="font-mono">e</code>, …) cannot be
-          redefined.
+          <code className="font-mono">γ</code>, <code className="font-mono">Δp</code>,{' '}
+          <code className="font-mono">θ_1</code>, <code className="font-mono">T_kin</code>); Greek letters are typeset
+          as such. The constants above and the mathematical values (<code className="font-mono">pi</code>,{' '}
+          <code className="font-mono">e</code>, …) cannot be redefined.
         </p>
         <p className="mt-2 max-w-prose text-sm text-ink-muted">
           <strong>Precedence:</strong> a sheet may define a name that is also a built-in function (
           <code className="font-mono">gamma</code>, <code className="font-mono">beta</code>,{' '}
           <code className="font-mono">sin</code>, a library function). The sheet&apos;s definition then takes precedence
-          over the built-in function everywhere in that sheet: a call such as <code className="font-mono">gamma(5)</code>{' '}
-          after <code className="font-mono">gamma = 1.25</code> is an error that says so, never a silent call of the
-          built-in. To use the built-in function, give the quantity another name.
+          over the built-in function everywhere in that sheet: a call such as{' '}
+          <code className="font-mono">gamma(5)</code> after <code className="font-mono">gamma = 1.25</code> is an error
+          that says so, never a silent call of the built-in. To use the built-in function, give the quantity another
+          name.
         </p>
         <div className="mt-4 overflow-x-auto">
           <table className="w-full text-left text-sm">
@@ -201,14 +231,18 @@ export default function ReferencePage() {
           Functions
         </h2>
         <p className="mt-2 max-w-prose text-sm text-ink-muted">
-          A speed argument takes a velocity in any speed unit or a plain number read as β = v/c. Inputs outside the domain
-          are refused with a message naming the function and the value.
+          A speed argument takes a velocity in any speed unit or a plain number read as β = v/c. Inputs outside the
+          domain are refused with a message naming the function and the value.
         </p>
         <div className="mt-4">
           <FunctionReference
             functions={LIBRARY.map((f) => ({
               name: f.name,
-              params: f.params.map((p) => ({ name: p.name, description: p.description, kindLabel: KIND_LABEL[p.kind] })),
+              params: f.params.map((p) => ({
+                name: p.name,
+                description: p.description,
+                kindLabel: KIND_LABEL[p.kind],
+              })),
               summary: f.doc.summary,
               formula: f.doc.formula,
               domain: f.doc.domain,
@@ -228,8 +262,8 @@ export default function ReferencePage() {
         <p className="mt-2 max-w-prose text-sm text-ink-muted">
           A sweep or a plot evaluates the sheet&apos;s own statements again for each value of one input, so each row is
           what the sheet gives for that value. Uncertainties are propagated to first order with sensitivity coefficients
-          (JCGM 100:2008); where the model is markedly non-linear, a Monte Carlo propagation (JCGM 101:2008, 10 000 draws,
-          fixed seed; at most eight per sheet) runs as well and a warning shows when the two disagree.
+          (JCGM 100:2008); where the model is markedly non-linear, a Monte Carlo propagation (JCGM 101:2008, 10 000
+          draws, fixed seed; at most eight per sheet) runs as well and a warning shows when the two disagree.
         </p>
         <dl className="mt-4 space-y-4">
           {STUDY_FUNCTION_DOCS.map((d) => (

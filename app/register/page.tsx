@@ -11,11 +11,20 @@ export const dynamic = 'force-dynamic';
 export default async function RegisterPage() {
   const actor = await pageActor('/register');
   const projects = await listProjectsFor(getDb(), actor);
-  const stale = await staleRevisionCounts(getDb(), projects.map((p) => p.id));
+  const stale = await staleRevisionCounts(
+    getDb(),
+    projects.map((p) => p.id),
+  );
   return (
     <div className="space-y-4">
       <h1 className="text-2xl font-bold">Document register</h1>
-      <p className="max-w-prose text-ink-muted">The issued revisions of each project you belong to. Anyone can check a PDF on the <Link href="/verify" className="text-accent underline">verification page</Link>.</p>
+      <p className="max-w-prose text-ink-muted">
+        The issued revisions of each project you belong to. Anyone can check a PDF on the{' '}
+        <Link href="/verify" className="text-accent underline">
+          verification page
+        </Link>
+        .
+      </p>
       {projects.length === 0 ? (
         <p className="text-ink-muted">You are not a member of any project.</p>
       ) : (
@@ -27,7 +36,8 @@ export default async function RegisterPage() {
               </Link>
               {stale.get(p.id) ? (
                 <span className="ml-2 rounded bg-caution-soft px-1.5 py-0.5 text-xs font-bold text-caution">
-                  {stale.get(p.id) === 1 ? '1 current revision cites' : `${stale.get(p.id)} current revisions cite`} a superseded input
+                  {stale.get(p.id) === 1 ? '1 current revision cites' : `${stale.get(p.id)} current revisions cite`} a
+                  superseded input
                 </span>
               ) : null}
             </li>

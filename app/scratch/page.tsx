@@ -15,8 +15,11 @@ export default async function ScratchPage() {
         <h1 className="text-2xl font-bold">Scratch pad</h1>
         <p className="mt-2 max-w-prose text-ink-muted">
           Try the calculation engine on one cell. Nothing here is saved or controlled: a result becomes usable only in a
-          sheet that has been checked, approved and issued. The <Link href="/reference" className="font-semibold text-accent underline">function reference</Link> lists
-          the constants and functions.
+          sheet that has been checked, approved and issued. The{' '}
+          <Link href="/reference" className="font-semibold text-accent underline">
+            function reference
+          </Link>{' '}
+          lists the constants and functions.
         </p>
       </header>
       <CautionNotice compact />

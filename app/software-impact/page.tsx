@@ -4,7 +4,12 @@ import { UtcTime } from '@/components/data/utc-time';
 import { getDb } from '@/db';
 import { pageActor } from '@/lib/auth/page-guard';
 import { LIBRARY } from '@/lib/calc/functions';
-import { softwareImpact, softwareImpactQuerySchema, SOFTWARE_IMPACT_LIMIT, type Facet } from '@/lib/sheets/software-impact';
+import {
+  softwareImpact,
+  softwareImpactQuerySchema,
+  SOFTWARE_IMPACT_LIMIT,
+  type Facet,
+} from '@/lib/sheets/software-impact';
 import { VisibleText } from '@/components/data/visible-text';
 
 export const metadata: Metadata = { title: 'Software impact' };
@@ -16,7 +21,8 @@ const STATUS_STYLE: Record<string, string> = {
   withdrawn: 'bg-fail-soft text-fail',
 };
 
-const counted = (f: Facet) => `${f.value} — ${f.versions} ${f.versions === 1 ? 'version' : 'versions'}, ${f.revisions} ${f.revisions === 1 ? 'revision' : 'revisions'}`;
+const counted = (f: Facet) =>
+  `${f.value} — ${f.versions} ${f.versions === 1 ? 'version' : 'versions'}, ${f.revisions} ${f.revisions === 1 ? 'revision' : 'revisions'}`;
 
 export default async function SoftwareImpactPage({ searchParams }: { searchParams: Promise<Record<string, string>> }) {
   const actor = await pageActor('/software-impact');
@@ -36,15 +42,27 @@ export default async function SoftwareImpactPage({ searchParams }: { searchParam
       <header>
         <h1 className="text-2xl font-bold">Software impact</h1>
         <p className="mt-1 max-w-prose text-ink-muted">
-          When a problem is found in the calculation engine or in a constants edition (ASME NQA-1 Part II, Subpart 2.7), find every version evaluated
-          with it, and the revisions issued from them, so that their users can be told. Only projects you are a member of are searched
+          When a problem is found in the calculation engine or in a constants edition (ASME NQA-1 Part II, Subpart 2.7),
+          find every version evaluated with it, and the revisions issued from them, so that their users can be told.
+          Only projects you are a member of are searched
           {actor.isAdmin ? ' (as an administrator, you see all projects)' : ''}.
         </p>
       </header>
-      <form method="get" className="flex flex-wrap items-end gap-3 rounded border border-rule bg-surface p-3 text-sm" aria-describedby={problem ? 'swi-problem' : undefined}>
+      <form
+        method="get"
+        className="flex flex-wrap items-end gap-3 rounded border border-rule bg-surface p-3 text-sm"
+        aria-describedby={problem ? 'swi-problem' : undefined}
+      >
         <div>
-          <label htmlFor="swi-engine" className="block font-semibold">Engine version</label>
-          <select id="swi-engine" name="engineVersion" defaultValue={answer.filter.engineVersion ?? ''} className="max-w-md rounded border border-rule-strong bg-surface px-2 py-1">
+          <label htmlFor="swi-engine" className="block font-semibold">
+            Engine version
+          </label>
+          <select
+            id="swi-engine"
+            name="engineVersion"
+            defaultValue={answer.filter.engineVersion ?? ''}
+            className="max-w-md rounded border border-rule-strong bg-surface px-2 py-1"
+          >
             <option value="">Any</option>
             {answer.engineVersions.map((f) => (
               <option key={f.value} value={f.value}>
@@ -54,8 +72,15 @@ export default async function SoftwareImpactPage({ searchParams }: { searchParam
           </select>
         </div>
         <div>
-          <label htmlFor="swi-edition" className="block font-semibold">Constants edition</label>
-          <select id="swi-edition" name="constantsEdition" defaultValue={answer.filter.constantsEdition ?? ''} className="max-w-md rounded border border-rule-strong bg-surface px-2 py-1">
+          <label htmlFor="swi-edition" className="block font-semibold">
+            Constants edition
+          </label>
+          <select
+            id="swi-edition"
+            name="constantsEdition"
+            defaultValue={answer.filter.constantsEdition ?? ''}
+            className="max-w-md rounded border border-rule-strong bg-surface px-2 py-1"
+          >
             <option value="">Any</option>
             {answer.constantsEditions.map((f) => (
               <option key={f.value} value={f.value}>
@@ -65,7 +90,9 @@ export default async function SoftwareImpactPage({ searchParams }: { searchParam
           </select>
         </div>
         <div>
-          <label htmlFor="swi-function" className="block font-semibold">Calls the function (optional)</label>
+          <label htmlFor="swi-function" className="block font-semibold">
+            Calls the function (optional)
+          </label>
           <input
             id="swi-function"
             name="function"
@@ -84,7 +111,10 @@ export default async function SoftwareImpactPage({ searchParams }: { searchParam
             A name written with “(” after it in a calculation cell, comments included.
           </p>
         </div>
-        <button type="submit" className="rounded bg-accent px-3 py-1.5 font-semibold text-surface hover:bg-accent-hover">
+        <button
+          type="submit"
+          className="rounded bg-accent px-3 py-1.5 font-semibold text-surface hover:bg-accent-hover"
+        >
           Find
         </button>
         {answer.rows ? (
@@ -94,14 +124,22 @@ export default async function SoftwareImpactPage({ searchParams }: { searchParam
         ) : null}
       </form>
       {problem ? (
-        <p id="swi-problem" role="alert" className="rounded border-l-4 border-fail bg-fail-soft px-3 py-2 text-sm text-fail">
+        <p
+          id="swi-problem"
+          role="alert"
+          className="rounded border-l-4 border-fail bg-fail-soft px-3 py-2 text-sm text-fail"
+        >
           {problem}
         </p>
       ) : null}
-      {answer.engineVersions.length === 0 ? <p className="text-ink-muted">No evaluated version in your projects yet.</p> : null}
+      {answer.engineVersions.length === 0 ? (
+        <p className="text-ink-muted">No evaluated version in your projects yet.</p>
+      ) : null}
       {answer.rows === null ? (
         answer.engineVersions.length > 0 ? (
-          <p className="text-ink-muted">Choose an engine version, a constants edition or a function to list what used it.</p>
+          <p className="text-ink-muted">
+            Choose an engine version, a constants edition or a function to list what used it.
+          </p>
         ) : null
       ) : (
         <section aria-labelledby="swi-results" className="space-y-2">
@@ -109,38 +147,66 @@ export default async function SoftwareImpactPage({ searchParams }: { searchParam
             What used it
           </h2>
           <p aria-live="polite" className="text-sm">
-            {answer.summary!.versions} {answer.summary!.versions === 1 ? 'version' : 'versions'} of {answer.summary!.sheets} {answer.summary!.sheets === 1 ? 'sheet' : 'sheets'}
-            {answer.summary!.safetyRelatedSheets > 0 ? ` (${answer.summary!.safetyRelatedSheets} safety-related)` : ''}; {answer.summary!.revisions} issued as{' '}
-            {answer.summary!.revisions === 1 ? 'a revision' : 'revisions'}, {answer.summary!.currentRevisions} of them current.
-            {answer.truncated ? ` Only the first ${SOFTWARE_IMPACT_LIMIT.json} are shown; the CSV export holds up to ${SOFTWARE_IMPACT_LIMIT.csv}.` : ''}
+            {answer.summary!.versions} {answer.summary!.versions === 1 ? 'version' : 'versions'} of{' '}
+            {answer.summary!.sheets} {answer.summary!.sheets === 1 ? 'sheet' : 'sheets'}
+            {answer.summary!.safetyRelatedSheets > 0
+              ? ` (${answer.summary!.safetyRelatedSheets} safety-related)`
+              : ''}; {answer.summary!.revisions} issued as{' '}
+            {answer.summary!.revisions === 1 ? 'a revision' : 'revisions'}, {answer.summary!.currentRevisions} of them
+            current.
+            {answer.truncated
+              ? ` Only the first ${SOFTWARE_IMPACT_LIMIT.json} are shown; the CSV export holds up to ${SOFTWARE_IMPACT_LIMIT.csv}.`
+              : ''}
           </p>
           {answer.rows.length > 0 ? (
             <div className="overflow-x-auto rounded border border-rule bg-surface">
               <table className="w-full text-left text-sm">
-                <caption className="sr-only">Versions evaluated with the chosen engine version, constants edition or function</caption>
+                <caption className="sr-only">
+                  Versions evaluated with the chosen engine version, constants edition or function
+                </caption>
                 <thead>
                   <tr className="border-b border-rule-strong">
-                    <th scope="col" className="px-3 py-2">Sheet</th>
-                    <th scope="col" className="px-3 py-2">Version</th>
-                    <th scope="col" className="px-3 py-2">Revision</th>
-                    <th scope="col" className="px-3 py-2">Engine · constants</th>
-                    <th scope="col" className="px-3 py-2">Saved (UTC)</th>
+                    <th scope="col" className="px-3 py-2">
+                      Sheet
+                    </th>
+                    <th scope="col" className="px-3 py-2">
+                      Version
+                    </th>
+                    <th scope="col" className="px-3 py-2">
+                      Revision
+                    </th>
+                    <th scope="col" className="px-3 py-2">
+                      Engine · constants
+                    </th>
+                    <th scope="col" className="px-3 py-2">
+                      Saved (UTC)
+                    </th>
                   </tr>
                 </thead>
                 <tbody>
                   {answer.rows.map((r) => (
                     <tr key={`${r.sheetId}:${r.versionNumber}`} className="border-b border-rule align-top">
                       <th scope="row" className="px-3 py-2 text-left font-normal">
-                        <Link href={`/projects/${r.projectCode}/sheets/${r.sheetNumber}`} className="font-mono font-semibold text-accent underline">
+                        <Link
+                          href={`/projects/${r.projectCode}/sheets/${r.sheetNumber}`}
+                          className="font-mono font-semibold text-accent underline"
+                        >
                           {r.sheet}
                         </Link>
                         <div>
                           <VisibleText text={r.title} />
                         </div>
-                        {r.safetyRelated ? <span className="rounded bg-caution-soft px-1.5 py-0.5 text-xs font-bold text-caution">safety-related</span> : null}
+                        {r.safetyRelated ? (
+                          <span className="rounded bg-caution-soft px-1.5 py-0.5 text-xs font-bold text-caution">
+                            safety-related
+                          </span>
+                        ) : null}
                       </th>
                       <td className="px-3 py-2">
-                        <Link href={`/projects/${r.projectCode}/sheets/${r.sheetNumber}?version=${r.versionNumber}`} className="text-accent underline">
+                        <Link
+                          href={`/projects/${r.projectCode}/sheets/${r.sheetNumber}?version=${r.versionNumber}`}
+                          className="text-accent underline"
+                        >
                           {r.versionNumber}
                         </Link>
                         <div className="font-mono text-xs text-ink-muted" title={r.versionSha256}>
@@ -150,7 +216,12 @@ export default async function SoftwareImpactPage({ searchParams }: { searchParam
                       <td className="px-3 py-2 whitespace-nowrap">
                         {r.revision ? (
                           <>
-                            {r.revision} <span className={`rounded px-1 text-xs font-bold ${STATUS_STYLE[r.revisionStatus ?? 'current']}`}>{r.revisionStatus}</span>
+                            {r.revision}{' '}
+                            <span
+                              className={`rounded px-1 text-xs font-bold ${STATUS_STYLE[r.revisionStatus ?? 'current']}`}
+                            >
+                              {r.revisionStatus}
+                            </span>
                           </>
                         ) : (
                           'not issued'

@@ -9,8 +9,8 @@ export default function VerifyPage() {
     <div className="space-y-4">
       <h1 className="text-2xl font-bold">Verify an issued PDF</h1>
       <p className="max-w-prose text-ink-muted">
-        Were you handed a calculation PDF? Check here whether it is an authentic revision issued through Worldsheet, which sheet and revision it is,
-        and whether it is still current. No account is needed.
+        Were you handed a calculation PDF? Check here whether it is an authentic revision issued through Worldsheet,
+        which sheet and revision it is, and whether it is still current. No account is needed.
       </p>
       <VerifyForm />
     </div>

@@ -33,7 +33,9 @@ function utcMinute(at: string): string {
 
 /** Lifetimes offered at creation: the usual ones up to the maximum, and the default. */
 function lifetimes(defaultDays: number, maxDays: number): number[] {
-  return [...new Set([7, 30, 90, 180, 365, defaultDays, maxDays])].filter((d) => d >= 1 && d <= maxDays).sort((a, b) => a - b);
+  return [...new Set([7, 30, 90, 180, 365, defaultDays, maxDays])]
+    .filter((d) => d >= 1 && d <= maxDays)
+    .sort((a, b) => a - b);
 }
 
 export function ApiTokensPanel({ defaultDays, maxDays }: { defaultDays: number; maxDays: number }) {
@@ -45,10 +47,18 @@ export function ApiTokensPanel({ defaultDays, maxDays }: { defaultDays: number; 
   async function create(event: React.FormEvent<HTMLFormElement>) {
     event.preventDefault();
     const form = new FormData(event.currentTarget);
-    const body = { name: String(form.get('name') ?? ''), scope: String(form.get('scope') ?? 'read'), expiresInDays: Number(form.get('expiresInDays')) };
+    const body = {
+      name: String(form.get('name') ?? ''),
+      scope: String(form.get('scope') ?? 'read'),
+      expiresInDays: Number(form.get('expiresInDays')),
+    };
     setState({ kind: 'busy' });
     try {
-      const response = await fetch('/api/account/tokens', { method: 'POST', headers: { 'content-type': 'application/json' }, body: JSON.stringify(body) });
+      const response = await fetch('/api/account/tokens', {
+        method: 'POST',
+        headers: { 'content-type': 'application/json' },
+        body: JSON.stringify(body),
+      });
       const answer = (await response.json().catch(() => ({}))) as Partial<Created> & { error?: { message?: string } };
       if (!response.ok || !answer.token) {
         setState({ kind: 'error', message: answer.error?.message ?? `The server answered ${response.status}.` });
@@ -105,7 +115,12 @@ export function ApiTokensPanel({ defaultDays, maxDays }: { defaultDays: number; 
           <label htmlFor={`${id}-days`} className="block text-sm font-semibold">
             Expires after
           </label>
-          <select id={`${id}-days`} name="expiresInDays" defaultValue={String(defaultDays)} className="w-full rounded border border-rule-strong bg-surface px-3 py-2">
+          <select
+            id={`${id}-days`}
+            name="expiresInDays"
+            defaultValue={String(defaultDays)}
+            className="w-full rounded border border-rule-strong bg-surface px-3 py-2"
+          >
             {lifetimes(defaultDays, maxDays).map((d) => (
               <option key={d} value={d}>
                 {d} days
@@ -113,10 +128,19 @@ export function ApiTokensPanel({ defaultDays, maxDays }: { defaultDays: number; 
             ))}
           </select>
         </div>
-        <button type="submit" disabled={state.kind === 'busy'} className="rounded bg-accent px-4 py-2 font-semibold text-surface hover:bg-accent-hover disabled:opacity-60">
+        <button
+          type="submit"
+          disabled={state.kind === 'busy'}
+          className="rounded bg-accent px-4 py-2 font-semibold text-surface hover:bg-accent-hover disabled:opacity-60"
+        >
           {state.kind === 'busy' ? 'Working…' : 'Create a token'}
         </button>
-        <p id={`${id}-status`} role={state.kind === 'error' ? 'alert' : 'status'} aria-live="polite" className={state.kind === 'error' ? 'text-sm text-fail' : 'text-sm text-pass'}>
+        <p
+          id={`${id}-status`}
+          role={state.kind === 'error' ? 'alert' : 'status'}
+          aria-live="polite"
+          className={state.kind === 'error' ? 'text-sm text-fail' : 'text-sm text-pass'}
+        >
           {state.kind === 'error' || state.kind === 'done' ? state.message : ''}
         </p>
       </form>
@@ -125,8 +149,8 @@ export function ApiTokensPanel({ defaultDays, maxDays }: { defaultDays: number; 
           <p className="font-bold">Copy this token now: it is shown only once.</p>
           <code className="mt-1 block break-all font-mono text-ink">{created.token}</code>
           <p className="mt-1">
-            {SCOPE_TEXT[created.scope] ?? created.scope}; expires {utcMinute(created.expires_at)}. Send it as <code className="font-mono">Authorization: Bearer …</code>. It acts
-            with your roles.
+            {SCOPE_TEXT[created.scope] ?? created.scope}; expires {utcMinute(created.expires_at)}. Send it as{' '}
+            <code className="font-mono">Authorization: Bearer …</code>. It acts with your roles.
           </p>
         </div>
       ) : null}
@@ -134,13 +158,27 @@ export function ApiTokensPanel({ defaultDays, maxDays }: { defaultDays: number; 
         <caption className="sr-only">Your API tokens</caption>
         <thead>
           <tr className="border-b border-rule-strong text-left">
-            <th scope="col" className="py-2 pr-3">Name</th>
-            <th scope="col" className="py-2 pr-3">Begins with</th>
-            <th scope="col" className="py-2 pr-3">May</th>
-            <th scope="col" className="py-2 pr-3">Created</th>
-            <th scope="col" className="py-2 pr-3">Expires</th>
-            <th scope="col" className="py-2 pr-3">Last used</th>
-            <th scope="col" className="py-2">State</th>
+            <th scope="col" className="py-2 pr-3">
+              Name
+            </th>
+            <th scope="col" className="py-2 pr-3">
+              Begins with
+            </th>
+            <th scope="col" className="py-2 pr-3">
+              May
+            </th>
+            <th scope="col" className="py-2 pr-3">
+              Created
+            </th>
+            <th scope="col" className="py-2 pr-3">
+              Expires
+            </th>
+            <th scope="col" className="py-2 pr-3">
+              Last used
+            </th>
+            <th scope="col" className="py-2">
+              State
+            </th>
           </tr>
         </thead>
         <tbody>

@@ -38,13 +38,20 @@ const ROLES = [
   { value: 'viewer', label: 'Viewer' },
 ];
 
-
 /** `2026-12-03 14:05 UTC`, the same on every machine. */
 function utcMinute(iso: string): string {
   return `${iso.slice(0, 10)} ${iso.slice(11, 16)} UTC`;
 }
 
-function UserAction({ user, action, onDone }: { user: UserRow; action: 'disable' | 'enable' | 'lock' | 'unlock'; onDone: () => void }) {
+function UserAction({
+  user,
+  action,
+  onDone,
+}: {
+  user: UserRow;
+  action: 'disable' | 'enable' | 'lock' | 'unlock';
+  onDone: () => void;
+}) {
   const [open, setOpen] = useState(false);
   const label = { disable: 'Disable', enable: 'Enable', lock: 'Lock', unlock: 'Unlock' }[action];
   if (!open) {
@@ -75,7 +82,9 @@ export function AdminConsole() {
   const [projectId, setProjectId] = useState<string>('');
   const selected = projectId || projects.data?.projects[0]?.id || '';
   const members = useSWR<{ members: MemberRow[] }>(selected ? `/api/projects/${selected}/members` : null, fetcher);
-  const userOptions = (users.data?.users ?? []).filter((u) => !u.disabledAt).map((u) => ({ value: u.id, label: `${u.name} (${u.email})` }));
+  const userOptions = (users.data?.users ?? [])
+    .filter((u) => !u.disabledAt)
+    .map((u) => ({ value: u.id, label: `${u.name} (${u.email})` }));
 
   return (
     <div className="space-y-12">
@@ -87,10 +96,18 @@ export function AdminConsole() {
           <caption className="sr-only">Accounts</caption>
           <thead>
             <tr className="border-b border-rule-strong text-left">
-              <th scope="col" className="py-2 pr-3">Printed name</th>
-              <th scope="col" className="py-2 pr-3">E-mail</th>
-              <th scope="col" className="py-2 pr-3">State</th>
-              <th scope="col" className="py-2">Actions</th>
+              <th scope="col" className="py-2 pr-3">
+                Printed name
+              </th>
+              <th scope="col" className="py-2 pr-3">
+                E-mail
+              </th>
+              <th scope="col" className="py-2 pr-3">
+                State
+              </th>
+              <th scope="col" className="py-2">
+                Actions
+              </th>
             </tr>
           </thead>
           <tbody>
@@ -105,7 +122,11 @@ export function AdminConsole() {
                   {u.disabledAt ? (
                     'disabled'
                   ) : u.lockedAt ? (
-                    <span className="text-fail">{u.lockedUntil ? `locked until ${utcMinute(u.lockedUntil)} (failed passwords)` : 'locked by an administrator'}</span>
+                    <span className="text-fail">
+                      {u.lockedUntil
+                        ? `locked until ${utcMinute(u.lockedUntil)} (failed passwords)`
+                        : 'locked by an administrator'}
+                    </span>
                   ) : u.hasPassword ? (
                     'active'
                   ) : (
@@ -114,8 +135,14 @@ export function AdminConsole() {
                 </td>
                 <td className="space-y-1 py-2">
                   {u.lockedAt ? <UserAction user={u} action="unlock" onDone={() => void users.mutate()} /> : null}
-                  {!u.disabledAt && (!u.lockedAt || u.lockedUntil) ? <UserAction user={u} action="lock" onDone={() => void users.mutate()} /> : null}
-                  <UserAction user={u} action={u.disabledAt ? 'enable' : 'disable'} onDone={() => void users.mutate()} />
+                  {!u.disabledAt && (!u.lockedAt || u.lockedUntil) ? (
+                    <UserAction user={u} action="lock" onDone={() => void users.mutate()} />
+                  ) : null}
+                  <UserAction
+                    user={u}
+                    action={u.disabledAt ? 'enable' : 'disable'}
+                    onDone={() => void users.mutate()}
+                  />
                 </td>
               </tr>
             ))}
@@ -149,7 +176,12 @@ export function AdminConsole() {
             <label htmlFor="admin-project" className="block text-sm font-semibold">
               Project
             </label>
-            <select id="admin-project" value={selected} onChange={(e) => setProjectId(e.target.value)} className="rounded border border-rule-strong bg-surface px-3 py-2">
+            <select
+              id="admin-project"
+              value={selected}
+              onChange={(e) => setProjectId(e.target.value)}
+              className="rounded border border-rule-strong bg-surface px-3 py-2"
+            >
               {(projects.data?.projects ?? []).map((p) => (
                 <option key={p.id} value={p.id}>
                   {p.code}: {p.name}
@@ -164,8 +196,12 @@ export function AdminConsole() {
               <caption className="sr-only">Members and roles of the selected project</caption>
               <thead>
                 <tr className="border-b border-rule-strong text-left">
-                  <th scope="col" className="py-2 pr-3">Member</th>
-                  <th scope="col" className="py-2">Roles</th>
+                  <th scope="col" className="py-2 pr-3">
+                    Member
+                  </th>
+                  <th scope="col" className="py-2">
+                    Roles
+                  </th>
                 </tr>
               </thead>
               <tbody>
@@ -220,7 +256,15 @@ export function AdminConsole() {
               { name: 'code', label: 'Code', required: true, hint: '2 to 10 capital letters or digits, e.g. TPT3.' },
               { name: 'name', label: 'Name', required: true },
               { name: 'legalOwner', label: 'Legal owner', required: true },
-              { name: 'revisionScheme', label: 'Revision scheme', type: 'select', options: [{ value: 'letters', label: 'Letters A, B, C … (ASME Y14.35)' }, { value: 'numbers', label: 'Numbers 0, 1, 2 …' }] },
+              {
+                name: 'revisionScheme',
+                label: 'Revision scheme',
+                type: 'select',
+                options: [
+                  { value: 'letters', label: 'Letters A, B, C … (ASME Y14.35)' },
+                  { value: 'numbers', label: 'Numbers 0, 1, 2 …' },
+                ],
+              },
             ]}
             submitLabel="Create the project"
             successMessage="Project created."

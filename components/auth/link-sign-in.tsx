@@ -22,7 +22,12 @@ export function LinkSignIn({ token }: { token: string }) {
   }
   return (
     <div className="space-y-3">
-      <button type="button" onClick={go} disabled={busy} className="rounded bg-accent px-4 py-2 font-semibold text-surface hover:bg-accent-hover disabled:opacity-60">
+      <button
+        type="button"
+        onClick={go}
+        disabled={busy}
+        className="rounded bg-accent px-4 py-2 font-semibold text-surface hover:bg-accent-hover disabled:opacity-60"
+      >
         {busy ? 'Signing in…' : 'Sign in to Worldsheet'}
       </button>
       <p role="alert" aria-live="assertive" className="text-sm text-fail">

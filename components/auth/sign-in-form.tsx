@@ -6,7 +6,15 @@ import { useId, useState } from 'react';
 import { JsonForm } from '@/components/forms/json-form';
 import { safeSameOriginPath } from '@/lib/http/same-origin';
 
-export function SignInForm({ callbackUrl, initialError, oidcName }: { callbackUrl: string; initialError: string | null; oidcName: string | null }) {
+export function SignInForm({
+  callbackUrl,
+  initialError,
+  oidcName,
+}: {
+  callbackUrl: string;
+  initialError: string | null;
+  oidcName: string | null;
+}) {
   const router = useRouter();
   const id = useId();
   const [error, setError] = useState<string | null>(initialError);
@@ -18,7 +26,11 @@ export function SignInForm({ callbackUrl, initialError, oidcName }: { callbackUr
     const form = new FormData(event.currentTarget);
     setBusy(true);
     setError(null);
-    const result = await signIn('password', { email: String(form.get('email')), password: String(form.get('password')), redirect: false });
+    const result = await signIn('password', {
+      email: String(form.get('email')),
+      password: String(form.get('password')),
+      redirect: false,
+    });
     setBusy(false);
     if (!result || result.error) {
       setError(result?.error && result.error !== 'CredentialsSignin' ? result.error : 'Sign-in failed.');
@@ -38,15 +50,33 @@ export function SignInForm({ callbackUrl, initialError, oidcName }: { callbackUr
             <label htmlFor={`${id}-email`} className="block text-sm font-semibold">
               E-mail
             </label>
-            <input id={`${id}-email`} name="email" type="email" required autoComplete="username" className="w-full rounded border border-rule-strong bg-surface px-3 py-2" />
+            <input
+              id={`${id}-email`}
+              name="email"
+              type="email"
+              required
+              autoComplete="username"
+              className="w-full rounded border border-rule-strong bg-surface px-3 py-2"
+            />
           </div>
           <div>
             <label htmlFor={`${id}-password`} className="block text-sm font-semibold">
               Password
             </label>
-            <input id={`${id}-password`} name="password" type="password" required autoComplete="current-password" className="w-full rounded border border-rule-strong bg-surface px-3 py-2" />
+            <input
+              id={`${id}-password`}
+              name="password"
+              type="password"
+              required
+              autoComplete="current-password"
+              className="w-full rounded border border-rule-strong bg-surface px-3 py-2"
+            />
           </div>
-          <button type="submit" disabled={busy} className="rounded bg-accent px-4 py-2 font-semibold text-surface hover:bg-accent-hover disabled:opacity-60">
+          <button
+            type="submit"
+            disabled={busy}
+            className="rounded bg-accent px-4 py-2 font-semibold text-surface hover:bg-accent-hover disabled:opacity-60"
+          >
             {busy ? 'Signing in…' : 'Sign in'}
           </button>
           <p id={`${id}-error`} role="alert" aria-live="assertive" className="text-sm text-fail">
@@ -54,9 +84,17 @@ export function SignInForm({ callbackUrl, initialError, oidcName }: { callbackUr
           </p>
         </form>
       ) : mode === 'link' ? (
-        <JsonForm action="/api/auth/sign-in-link" fields={[{ name: 'email', label: 'E-mail', type: 'email', required: true, autoComplete: 'username' }]} submitLabel="E-mail me a sign-in link" />
+        <JsonForm
+          action="/api/auth/sign-in-link"
+          fields={[{ name: 'email', label: 'E-mail', type: 'email', required: true, autoComplete: 'username' }]}
+          submitLabel="E-mail me a sign-in link"
+        />
       ) : (
-        <JsonForm action="/api/auth/password-reset" fields={[{ name: 'email', label: 'E-mail', type: 'email', required: true, autoComplete: 'username' }]} submitLabel="E-mail me a reset link" />
+        <JsonForm
+          action="/api/auth/password-reset"
+          fields={[{ name: 'email', label: 'E-mail', type: 'email', required: true, autoComplete: 'username' }]}
+          submitLabel="E-mail me a reset link"
+        />
       )}
       <div className="flex flex-wrap gap-x-4 gap-y-1 text-sm">
         {mode !== 'password' ? (
@@ -76,7 +114,11 @@ export function SignInForm({ callbackUrl, initialError, oidcName }: { callbackUr
         ) : null}
       </div>
       {oidcName ? (
-        <button type="button" onClick={() => signIn('oidc', { callbackUrl })} className="rounded border border-rule-strong bg-surface px-4 py-2 font-semibold hover:bg-paper">
+        <button
+          type="button"
+          onClick={() => signIn('oidc', { callbackUrl })}
+          className="rounded border border-rule-strong bg-surface px-4 py-2 font-semibold hover:bg-paper"
+        >
           Sign in with {oidcName}
         </button>
       ) : null}

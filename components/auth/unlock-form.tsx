@@ -15,6 +15,12 @@ export function UnlockForm({ token }: { token: string }) {
       .
     </p>
   ) : (
-    <JsonForm action="/api/auth/unlock" extra={{ token }} fields={[]} submitLabel="Unlock my account" onDone={() => setDone(true)} />
+    <JsonForm
+      action="/api/auth/unlock"
+      extra={{ token }}
+      fields={[]}
+      submitLabel="Unlock my account"
+      onDone={() => setDone(true)}
+    />
   );
 }

@@ -21,7 +21,12 @@ export function FunctionReference({ functions }: { functions: FunctionDocView[] 
   const shown = useMemo(() => {
     const q = query.trim().toLowerCase();
     if (!q) return functions;
-    return functions.filter((f) => [f.name, f.summary, f.domain, ...f.params.map((p) => `${p.name} ${p.description}`)].join(' ').toLowerCase().includes(q));
+    return functions.filter((f) =>
+      [f.name, f.summary, f.domain, ...f.params.map((p) => `${p.name} ${p.description}`)]
+        .join(' ')
+        .toLowerCase()
+        .includes(q),
+    );
   }, [functions, query]);
   return (
     <div className="space-y-4">
@@ -29,13 +34,25 @@ export function FunctionReference({ functions }: { functions: FunctionDocView[] 
         <label htmlFor="function-search" className="block text-sm font-semibold">
           Search the functions
         </label>
-        <input id="function-search" type="search" value={query} onChange={(e) => setQuery(e.target.value)} placeholder="e.g. rigidity, proper time, doppler" className="w-full max-w-md rounded border border-rule-strong bg-surface px-3 py-2" />
+        <input
+          id="function-search"
+          type="search"
+          value={query}
+          onChange={(e) => setQuery(e.target.value)}
+          placeholder="e.g. rigidity, proper time, doppler"
+          className="w-full max-w-md rounded border border-rule-strong bg-surface px-3 py-2"
+        />
         <p role="status" aria-live="polite" className="mt-1 text-xs text-ink-muted">
           {shown.length} of {functions.length} functions
         </p>
       </div>
       {shown.map((f) => (
-        <article key={f.name} id={f.name} aria-labelledby={`${f.name}-title`} className="rounded border border-rule bg-surface p-4">
+        <article
+          key={f.name}
+          id={f.name}
+          aria-labelledby={`${f.name}-title`}
+          className="rounded border border-rule bg-surface p-4"
+        >
           <h3 id={`${f.name}-title`} className="font-mono text-base font-bold">
             {f.name}({f.params.map((p) => p.name).join(', ')})
           </h3>

@@ -26,7 +26,11 @@ export function oneAtATime<A extends unknown[], R>(fetcher: (...args: A) => Prom
 /** POST /api/evaluate with the body given, retrying a 429 after its Retry-After (at most 3 tries, 10 s each). */
 export async function postEvaluation<R>(body: unknown): Promise<R> {
   for (let attempt = 1; ; attempt++) {
-    const response = await fetch('/api/evaluate', { method: 'POST', headers: { 'content-type': 'application/json' }, body: JSON.stringify(body) });
+    const response = await fetch('/api/evaluate', {
+      method: 'POST',
+      headers: { 'content-type': 'application/json' },
+      body: JSON.stringify(body),
+    });
     if (response.status === 429 && attempt < 3) {
       const seconds = Math.min(10, Math.max(1, Number(response.headers.get('retry-after')) || 1));
       await new Promise((resolve) => setTimeout(resolve, seconds * 1000));

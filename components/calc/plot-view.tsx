@@ -13,7 +13,15 @@ const MAX_WIDTH = 760;
  * (lib/plots/plot-figure.ts), with a text alternative: the caption says what is plotted, and
  * "Show data" lists every point, so the numbers are there for screen readers and keyboards.
  */
-export function PlotView({ plot, significantFigures = 6, label }: { plot: PlotData; significantFigures?: number; label?: string }) {
+export function PlotView({
+  plot,
+  significantFigures = 6,
+  label,
+}: {
+  plot: PlotData;
+  significantFigures?: number;
+  label?: string;
+}) {
   const box = useRef<HTMLDivElement>(null);
   const [width, setWidth] = useState(0);
   const description = plotDescription(plot);
@@ -44,7 +52,12 @@ export function PlotView({ plot, significantFigures = 6, label }: { plot: PlotDa
     const url = URL.createObjectURL(new Blob([svg.outerHTML], { type: 'image/svg+xml' }));
     const a = window.document.createElement('a');
     a.href = url;
-    a.download = `${(label ?? 'figure').replace(/[^A-Za-z0-9]+/g, '-').replace(/^-|-$/g, '').toLowerCase() || 'figure'}.svg`;
+    a.download = `${
+      (label ?? 'figure')
+        .replace(/[^A-Za-z0-9]+/g, '-')
+        .replace(/^-|-$/g, '')
+        .toLowerCase() || 'figure'
+    }.svg`;
     a.click();
     setTimeout(() => URL.revokeObjectURL(url), 1000);
   };
@@ -58,14 +71,24 @@ export function PlotView({ plot, significantFigures = 6, label }: { plot: PlotDa
         {label ? <span className="font-semibold text-ink">{label}: </span> : null}
         {description}
       </figcaption>
-      <button type="button" onClick={downloadSvg} className="mt-1 text-sm text-accent underline underline-offset-2 hover:no-underline">
+      <button
+        type="button"
+        onClick={downloadSvg}
+        className="mt-1 text-sm text-accent underline underline-offset-2 hover:no-underline"
+      >
         Download as SVG<span className="sr-only"> ({label ?? 'figure'})</span>
       </button>
       <details className="mt-1 text-sm">
         <summary className="cursor-pointer text-accent underline-offset-2 hover:underline">Show data</summary>
         <div className="mt-1 space-y-3">
           {plot.series.map((s, i) => (
-            <div key={i} className="max-h-80 overflow-auto rounded border border-rule" tabIndex={0} role="region" aria-label={`Points of ${s.name}`}>
+            <div
+              key={i}
+              className="max-h-80 overflow-auto rounded border border-rule"
+              tabIndex={0}
+              role="region"
+              aria-label={`Points of ${s.name}`}
+            >
               <table className="w-full border-collapse text-xs">
                 <caption className="bg-paper px-2 py-1 text-left font-semibold">
                   {s.name} ({s.points.length} point{s.points.length === 1 ? '' : 's'})

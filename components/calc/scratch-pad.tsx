@@ -16,7 +16,9 @@ const EXAMPLE = [
 ].join('\n');
 
 // One evaluation in flight; see one-evaluation-at-a-time.ts.
-const evaluate = oneAtATime(([, source]: [string, string]) => postEvaluation<SheetResult>({ sheetKey: 'scratch', cells: [{ id: 'scratch', kind: 'calc', source }] }));
+const evaluate = oneAtATime(([, source]: [string, string]) =>
+  postEvaluation<SheetResult>({ sheetKey: 'scratch', cells: [{ id: 'scratch', kind: 'calc', source }] }),
+);
 
 /** A single calculation cell evaluated by the server as you type. Nothing here is saved. */
 export function ScratchPad() {
@@ -28,7 +30,10 @@ export function ScratchPad() {
     const t = setTimeout(() => setDebounced(source), 350);
     return () => clearTimeout(t);
   }, [source]);
-  const { data, error, isLoading } = useSWR(['evaluate', debounced], evaluate, { keepPreviousData: true, revalidateOnFocus: false });
+  const { data, error, isLoading } = useSWR(['evaluate', debounced], evaluate, {
+    keepPreviousData: true,
+    revalidateOnFocus: false,
+  });
   const cell = data?.cells[0];
 
   return (
@@ -38,8 +43,8 @@ export function ScratchPad() {
           Calculation cell
         </p>
         <p id={helpId} className="text-sm text-ink-muted">
-          One statement per line; <code className="font-mono">#</code> starts a comment. Names are defined once, above their use.
-          Ctrl-Space lists names, constants and functions; Escape then Tab leaves the editor.
+          One statement per line; <code className="font-mono">#</code> starts a comment. Names are defined once, above
+          their use. Ctrl-Space lists names, constants and functions; Escape then Tab leaves the editor.
         </p>
         <CalcEditor
           value={source}
@@ -61,7 +66,11 @@ export function ScratchPad() {
           </p>
         ) : null}
         <div className="mt-2 rounded border border-rule bg-surface px-4 py-2">
-          {cell ? cell.statements.map((s) => <StatementView key={`${s.line}:${s.source}`} statement={s} />) : <p className="py-2 text-sm text-ink-muted">Evaluating…</p>}
+          {cell ? (
+            cell.statements.map((s) => <StatementView key={`${s.line}:${s.source}`} statement={s} />)
+          ) : (
+            <p className="py-2 text-sm text-ink-muted">Evaluating…</p>
+          )}
         </div>
         {data ? (
           <p className="mt-2 text-xs text-ink-muted">

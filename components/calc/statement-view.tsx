@@ -20,7 +20,11 @@ function ReferenceLines({ references }: { references: ResolvedReference[] }) {
             <span title={r.title ?? undefined}>
               <VisibleText text={r.text} />
             </span>
-            {r.badge ? <span className="rounded border border-caution-rule bg-caution-soft px-1.5 text-xs font-bold text-caution">{r.badge}</span> : null}
+            {r.badge ? (
+              <span className="rounded border border-caution-rule bg-caution-soft px-1.5 text-xs font-bold text-caution">
+                {r.badge}
+              </span>
+            ) : null}
             {r.problem ? <span className="text-fail">Cannot be used: {r.problem}</span> : null}
           </li>
         );
@@ -64,7 +68,15 @@ export function StatementWarnings({ line, warnings }: { line: number; warnings: 
 }
 
 /** One statement as a checker reads it: formula, values substituted, result; or its error. Then what it cites, its plot, sweep table and uncertainty budget. */
-export function StatementView({ statement, significantFigures = 6, studyCsv }: { statement: StatementResult; significantFigures?: number; studyCsv?: StudyCsvLink }) {
+export function StatementView({
+  statement,
+  significantFigures = 6,
+  studyCsv,
+}: {
+  statement: StatementResult;
+  significantFigures?: number;
+  studyCsv?: StudyCsvLink;
+}) {
   const s = statement;
   const references = s.references ?? [];
   const extras = !s.error && (s.plot || s.table || s.uncertainty?.kind === 'propagated');
@@ -72,9 +84,13 @@ export function StatementView({ statement, significantFigures = 6, studyCsv }: {
   return (
     <div className="grid gap-1 border-t border-rule py-2 first:border-t-0 sm:grid-cols-[minmax(0,1fr)_auto] sm:gap-4">
       <div className="min-w-0 space-y-1 overflow-x-auto">
-        {s.tex ? <TexMath tex={s.tex} className="block text-ink" /> : <code className="font-mono text-sm">
+        {s.tex ? (
+          <TexMath tex={s.tex} className="block text-ink" />
+        ) : (
+          <code className="font-mono text-sm">
             <VisibleText text={s.source} />
-          </code>}
+          </code>
+        )}
         {s.substitutedTex && s.substitutedTex !== s.tex ? (
           <TexMath tex={s.substitutedTex} className="block text-sm text-ink-muted" />
         ) : null}
@@ -97,7 +113,14 @@ export function StatementView({ statement, significantFigures = 6, studyCsv }: {
             <span className="mt-1 block text-xs text-ink-muted">{s.criterion.marginText}</span>
           </p>
         ) : s.value && !s.error ? (
-          <p className="font-mono text-sm text-ink" title={s.value.number !== null ? `full precision: ${s.value.number}${s.value.unit ? ` ${s.value.unit}` : ''}` : undefined}>
+          <p
+            className="font-mono text-sm text-ink"
+            title={
+              s.value.number !== null
+                ? `full precision: ${s.value.number}${s.value.unit ? ` ${s.value.unit}` : ''}`
+                : undefined
+            }
+          >
             {s.name ? <span className="sr-only">{s.name} = </span> : null}
             {s.value.text}
           </p>
@@ -106,9 +129,21 @@ export function StatementView({ statement, significantFigures = 6, studyCsv }: {
       </div>
       {extras ? (
         <div className="min-w-0 sm:col-span-2">
-          {s.plot ? <PlotView plot={s.plot} significantFigures={significantFigures} label={`Figure, line ${s.line}`} /> : null}
-          {s.table ? <StudyTable table={s.table} line={s.line} significantFigures={significantFigures} csvHref={csv?.href} csvFileName={csv?.fileName} /> : null}
-          {s.uncertainty?.kind === 'propagated' ? <UncertaintyDetails uncertainty={s.uncertainty} line={s.line} /> : null}
+          {s.plot ? (
+            <PlotView plot={s.plot} significantFigures={significantFigures} label={`Figure, line ${s.line}`} />
+          ) : null}
+          {s.table ? (
+            <StudyTable
+              table={s.table}
+              line={s.line}
+              significantFigures={significantFigures}
+              csvHref={csv?.href}
+              csvFileName={csv?.fileName}
+            />
+          ) : null}
+          {s.uncertainty?.kind === 'propagated' ? (
+            <UncertaintyDetails uncertainty={s.uncertainty} line={s.line} />
+          ) : null}
         </div>
       ) : null}
     </div>

@@ -28,15 +28,26 @@ export function StudyTable({
   const n = table.columns.length;
   return (
     <div className="my-2 min-w-0">
-      <div className="max-h-96 overflow-auto rounded border border-rule" tabIndex={0} role="region" aria-label={caption}>
+      <div
+        className="max-h-96 overflow-auto rounded border border-rule"
+        tabIndex={0}
+        role="region"
+        aria-label={caption}
+      >
         <table className="w-full border-collapse text-sm">
           <caption className="bg-paper px-2 py-1 text-left text-xs font-semibold text-ink">{caption}</caption>
           <thead className="sticky top-0 bg-surface">
             <tr>
               {table.columns.map((c, i) => (
-                <th key={i} scope="col" className="border-b border-rule-strong px-2 py-1 text-right align-bottom font-semibold">
+                <th
+                  key={i}
+                  scope="col"
+                  className="border-b border-rule-strong px-2 py-1 text-right align-bottom font-semibold"
+                >
                   <span className="font-mono">{c.name}</span>
-                  {c.unit ? <span className="block text-xs font-normal text-ink-muted">{unitLabel(c.unit)}</span> : null}
+                  {c.unit ? (
+                    <span className="block text-xs font-normal text-ink-muted">{unitLabel(c.unit)}</span>
+                  ) : null}
                 </th>
               ))}
             </tr>
@@ -48,7 +59,9 @@ export function StudyTable({
                 <tr key={r} className="border-t border-rule first:border-t-0">
                   {error ? (
                     <>
-                      <td className="px-2 py-0.5 text-right">{row[0] === null || row[0] === undefined ? '—' : formatNumberText(row[0], significantFigures)}</td>
+                      <td className="px-2 py-0.5 text-right">
+                        {row[0] === null || row[0] === undefined ? '—' : formatNumberText(row[0], significantFigures)}
+                      </td>
                       {n > 1 ? (
                         <td colSpan={n - 1} className="bg-fail-soft px-2 py-0.5 font-sans text-fail">
                           Step failed: {error}
@@ -57,7 +70,11 @@ export function StudyTable({
                     </>
                   ) : (
                     table.columns.map((_, i) => (
-                      <td key={i} className="px-2 py-0.5 text-right" title={row[i] === null || row[i] === undefined ? undefined : `full precision: ${row[i]}`}>
+                      <td
+                        key={i}
+                        className="px-2 py-0.5 text-right"
+                        title={row[i] === null || row[i] === undefined ? undefined : `full precision: ${row[i]}`}
+                      >
                         {row[i] === null || row[i] === undefined ? (
                           <>
                             <span aria-hidden="true">—</span>
@@ -76,7 +93,11 @@ export function StudyTable({
         </table>
       </div>
       <p className="mt-1 text-xs">
-        <a href={href} download={csvFileName ?? `sweep-line${line}.csv`} className="text-accent underline hover:text-accent-hover">
+        <a
+          href={href}
+          download={csvFileName ?? `sweep-line${line}.csv`}
+          className="text-accent underline hover:text-accent-hover"
+        >
           Download CSV<span className="sr-only"> of the sweep on line {line}</span>
         </a>{' '}
         <span className="text-ink-muted">(full precision)</span>

@@ -5,6 +5,12 @@ import katex from 'katex';
  * commands that could carry links, classes or HTML, so its output is safe to insert.
  */
 export function TexMath({ tex, display = false, className }: { tex: string; display?: boolean; className?: string }) {
-  const html = katex.renderToString(tex, { displayMode: display, throwOnError: false, trust: false, strict: 'ignore', output: 'htmlAndMathml' });
+  const html = katex.renderToString(tex, {
+    displayMode: display,
+    throwOnError: false,
+    trust: false,
+    strict: 'ignore',
+    output: 'htmlAndMathml',
+  });
   return <span className={className} dangerouslySetInnerHTML={{ __html: html }} />;
 }

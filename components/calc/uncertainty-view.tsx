@@ -1,9 +1,19 @@
 import type { UncertaintyResult } from '@/lib/calc/types';
-import { BUDGET_COLUMNS, budgetRows, combinedText, monteCarloLines, standardUncertaintyText } from '@/lib/calc/uncertainty-text';
+import {
+  BUDGET_COLUMNS,
+  budgetRows,
+  combinedText,
+  monteCarloLines,
+  standardUncertaintyText,
+} from '@/lib/calc/uncertainty-text';
 
 /** The line under a value: "y ± U (k = 2)" for a result, the standard uncertainty for an input. */
 export function UncertaintyValue({ uncertainty }: { uncertainty: UncertaintyResult }) {
-  return <p className="font-mono text-xs text-ink">{uncertainty.kind === 'input' ? standardUncertaintyText(uncertainty) : uncertainty.text}</p>;
+  return (
+    <p className="font-mono text-xs text-ink">
+      {uncertainty.kind === 'input' ? standardUncertaintyText(uncertainty) : uncertainty.text}
+    </p>
+  );
 }
 
 /**
@@ -19,7 +29,10 @@ export function UncertaintyDetails({ uncertainty, line }: { uncertainty: Uncerta
   return (
     <div className="my-1 space-y-1">
       {uncertainty.warning ? (
-        <p role="status" className="rounded border-l-4 border-caution-rule bg-caution-soft px-2 py-1 text-sm text-caution">
+        <p
+          role="status"
+          className="rounded border-l-4 border-caution-rule bg-caution-soft px-2 py-1 text-sm text-caution"
+        >
           <strong>Caution:</strong> {uncertainty.warning}
         </p>
       ) : null}
@@ -29,13 +42,24 @@ export function UncertaintyDetails({ uncertainty, line }: { uncertainty: Uncerta
         </summary>
         <div className="mt-1 space-y-1">
           {rows.length ? (
-            <div className="overflow-x-auto rounded border border-rule" tabIndex={0} role="region" aria-label={`Uncertainty budget of line ${line}`}>
+            <div
+              className="overflow-x-auto rounded border border-rule"
+              tabIndex={0}
+              role="region"
+              aria-label={`Uncertainty budget of line ${line}`}
+            >
               <table className="w-full border-collapse text-xs">
-                <caption className="bg-paper px-2 py-1 text-left font-semibold">Contributions to the combined standard uncertainty (first order, JCGM 100)</caption>
+                <caption className="bg-paper px-2 py-1 text-left font-semibold">
+                  Contributions to the combined standard uncertainty (first order, JCGM 100)
+                </caption>
                 <thead>
                   <tr>
                     {BUDGET_COLUMNS.map((title, i) => (
-                      <th key={title} scope="col" className={`border-b border-rule-strong px-2 py-1 font-semibold ${i === 0 ? 'text-left' : 'text-right'}`}>
+                      <th
+                        key={title}
+                        scope="col"
+                        className={`border-b border-rule-strong px-2 py-1 font-semibold ${i === 0 ? 'text-left' : 'text-right'}`}
+                      >
                         {title}
                       </th>
                     ))}
@@ -62,7 +86,11 @@ export function UncertaintyDetails({ uncertainty, line }: { uncertainty: Uncerta
             </div>
           ) : null}
           <p className="text-xs">{combinedText(uncertainty)}</p>
-          {uncertainty.nonLinear ? <p className="text-xs text-ink-muted">The model is not linear over ±2u of some input; the Monte Carlo result below is the one to rely on.</p> : null}
+          {uncertainty.nonLinear ? (
+            <p className="text-xs text-ink-muted">
+              The model is not linear over ±2u of some input; the Monte Carlo result below is the one to rely on.
+            </p>
+          ) : null}
           {mc ? (
             <div className="text-xs text-ink-muted">
               {monteCarloLines(mc, uncertainty.unit).map((l) => (

@@ -13,7 +13,13 @@ const MARK: Record<ComparisonStatus, { sign: string; className: string }> = {
  * displayed, the relative difference |a − s| / |s| (on SI values) and the outcome in words (the
  * colour and the sign only repeat it). Shown to the checker, the approver and everyone else alike.
  */
-export function AlternateComparisonTable({ comparison, versionNumber }: { comparison: AlternateComparison; versionNumber: number }) {
+export function AlternateComparisonTable({
+  comparison,
+  versionNumber,
+}: {
+  comparison: AlternateComparison;
+  versionNumber: number;
+}) {
   const { rows } = comparison;
   return (
     <div className="space-y-2">
@@ -24,7 +30,8 @@ export function AlternateComparisonTable({ comparison, versionNumber }: { compar
         ) : (
           <>
             Tolerance stated by the checker: <span className="font-semibold">{comparison.toleranceText}</span>
-            {comparison.toleranceText !== comparison.toleranceWords ? <> ({comparison.toleranceWords})</> : null}, relative.
+            {comparison.toleranceText !== comparison.toleranceWords ? <> ({comparison.toleranceWords})</> : null},
+            relative.
           </>
         )}{' '}
         {rows.length === 0
@@ -41,11 +48,21 @@ export function AlternateComparisonTable({ comparison, versionNumber }: { compar
             <caption className="sr-only">Alternate calculation compared with the sheet</caption>
             <thead>
               <tr className="border-b border-rule-strong text-left">
-                <th scope="col" className="py-1.5 pr-3">Name</th>
-                <th scope="col" className="py-1.5 pr-3">Sheet</th>
-                <th scope="col" className="py-1.5 pr-3">Alternate</th>
-                <th scope="col" className="py-1.5 pr-3">Relative difference</th>
-                <th scope="col" className="py-1.5">Outcome</th>
+                <th scope="col" className="py-1.5 pr-3">
+                  Name
+                </th>
+                <th scope="col" className="py-1.5 pr-3">
+                  Sheet
+                </th>
+                <th scope="col" className="py-1.5 pr-3">
+                  Alternate
+                </th>
+                <th scope="col" className="py-1.5 pr-3">
+                  Relative difference
+                </th>
+                <th scope="col" className="py-1.5">
+                  Outcome
+                </th>
               </tr>
             </thead>
             <tbody>
@@ -57,7 +74,9 @@ export function AlternateComparisonTable({ comparison, versionNumber }: { compar
                   <td className="py-1.5 pr-3 tabular-nums">{r.sheet}</td>
                   <td className="py-1.5 pr-3 tabular-nums">
                     {r.alternate}
-                    {r.alternateInSheetUnit ? <span className="block text-xs text-ink-muted">= {r.alternateInSheetUnit}</span> : null}
+                    {r.alternateInSheetUnit ? (
+                      <span className="block text-xs text-ink-muted">= {r.alternateInSheetUnit}</span>
+                    ) : null}
                   </td>
                   <td className="py-1.5 pr-3 tabular-nums">{r.relativeDifferenceText}</td>
                   <td className={`py-1.5 font-semibold ${MARK[r.status].className}`}>

@@ -23,7 +23,11 @@ function useFocusOnClose(open: boolean) {
 /** Sends one request to the check's comment routes; answers the server's message on failure. */
 async function send(url: string, method: 'POST' | 'PATCH', body: unknown): Promise<string | null> {
   try {
-    const response = await fetch(url, { method, headers: { 'content-type': 'application/json' }, body: JSON.stringify(body) });
+    const response = await fetch(url, {
+      method,
+      headers: { 'content-type': 'application/json' },
+      body: JSON.stringify(body),
+    });
     if (response.ok) return null;
     const answer = await response.json().catch(() => ({}));
     return answer.error?.message ?? `The server answered ${response.status}.`;
@@ -51,11 +55,25 @@ function Comments({ thread }: { thread: Thread }) {
 
 function where(thread: Thread, versionNumber: number): string {
   const line = thread.statementLine ? `Line ${thread.statementLine}` : 'Whole cell';
-  return thread.openedOnVersion !== versionNumber ? `${line} · opened at the check of version ${thread.openedOnVersion}` : line;
+  return thread.openedOnVersion !== versionNumber
+    ? `${line} · opened at the check of version ${thread.openedOnVersion}`
+    : line;
 }
 
 /** One open thread: its comments, a reply form, and (for the checker) Resolve. */
-function OpenThread({ checkId, thread, versionNumber, canReply, canResolve }: { checkId: string; thread: Thread; versionNumber: number; canReply: boolean; canResolve: boolean }) {
+function OpenThread({
+  checkId,
+  thread,
+  versionNumber,
+  canReply,
+  canResolve,
+}: {
+  checkId: string;
+  thread: Thread;
+  versionNumber: number;
+  canReply: boolean;
+  canResolve: boolean;
+}) {
   const id = useId();
   const router = useRouter();
   const [replying, setReplying] = useState(false);
@@ -67,7 +85,11 @@ function OpenThread({ checkId, thread, versionNumber, canReply, canResolve }: { 
   async function reply(event: React.FormEvent) {
     event.preventDefault();
     setBusy(true);
-    const problem = await send(`/api/checks/${checkId}/comments`, 'POST', { cellId: thread.cellId, threadId: thread.id, body });
+    const problem = await send(`/api/checks/${checkId}/comments`, 'POST', {
+      cellId: thread.cellId,
+      threadId: thread.id,
+      body,
+    });
     setBusy(false);
     setError(problem);
     if (!problem) {
@@ -87,21 +109,35 @@ function OpenThread({ checkId, thread, versionNumber, canReply, canResolve }: { 
 
   return (
     <li className="rounded border border-caution-rule bg-surface p-3">
-      <p className="mb-2 text-xs font-bold text-caution">
-        Open thread · {where(thread, versionNumber)}
-      </p>
+      <p className="mb-2 text-xs font-bold text-caution">Open thread · {where(thread, versionNumber)}</p>
       <Comments thread={thread} />
       {replying ? (
         <form onSubmit={reply} className="mt-2 space-y-2">
           <label htmlFor={`${id}-reply`} className="block text-sm font-semibold">
             Your reply
           </label>
-          <textarea id={`${id}-reply`} autoFocus required rows={3} value={body} onChange={(e) => setBody(e.target.value)} className="w-full rounded border border-rule-strong bg-surface px-3 py-2 text-sm" />
+          <textarea
+            id={`${id}-reply`}
+            autoFocus
+            required
+            rows={3}
+            value={body}
+            onChange={(e) => setBody(e.target.value)}
+            className="w-full rounded border border-rule-strong bg-surface px-3 py-2 text-sm"
+          />
           <div className="flex gap-2">
-            <button type="submit" disabled={busy || !body.trim()} className="rounded bg-accent px-3 py-1.5 text-sm font-semibold text-surface hover:bg-accent-hover disabled:opacity-60">
+            <button
+              type="submit"
+              disabled={busy || !body.trim()}
+              className="rounded bg-accent px-3 py-1.5 text-sm font-semibold text-surface hover:bg-accent-hover disabled:opacity-60"
+            >
               Send the reply
             </button>
-            <button type="button" onClick={() => setReplying(false)} className="rounded border border-rule-strong px-3 py-1.5 text-sm font-semibold">
+            <button
+              type="button"
+              onClick={() => setReplying(false)}
+              className="rounded border border-rule-strong px-3 py-1.5 text-sm font-semibold"
+            >
               Cancel
             </button>
           </div>
@@ -109,12 +145,22 @@ function OpenThread({ checkId, thread, versionNumber, canReply, canResolve }: { 
       ) : canReply || canResolve ? (
         <div className="mt-2 flex gap-2">
           {canReply ? (
-            <button ref={replyButton} type="button" onClick={() => setReplying(true)} className="rounded border border-rule-strong bg-surface px-3 py-1.5 text-sm font-semibold">
+            <button
+              ref={replyButton}
+              type="button"
+              onClick={() => setReplying(true)}
+              className="rounded border border-rule-strong bg-surface px-3 py-1.5 text-sm font-semibold"
+            >
               Reply
             </button>
           ) : null}
           {canResolve ? (
-            <button type="button" onClick={resolve} disabled={busy} className="rounded border border-pass bg-pass-soft px-3 py-1.5 text-sm font-semibold text-pass disabled:opacity-60">
+            <button
+              type="button"
+              onClick={resolve}
+              disabled={busy}
+              className="rounded border border-pass bg-pass-soft px-3 py-1.5 text-sm font-semibold text-pass disabled:opacity-60"
+            >
               Resolve
             </button>
           ) : null}
@@ -171,7 +217,11 @@ export function CellThreads({
   async function add(event: React.FormEvent) {
     event.preventDefault();
     setBusy(true);
-    const problem = await send(`/api/checks/${checkId}/comments`, 'POST', { cellId, statementLine: line ? Number(line) : null, body });
+    const problem = await send(`/api/checks/${checkId}/comments`, 'POST', {
+      cellId,
+      statementLine: line ? Number(line) : null,
+      body,
+    });
     setBusy(false);
     setError(problem);
     if (!problem) {
@@ -187,14 +237,22 @@ export function CellThreads({
       {open.length ? (
         <ul className="space-y-2">
           {open.map((t) => (
-            <OpenThread key={t.id} checkId={checkId} thread={t} versionNumber={versionNumber} canReply={canReply} canResolve={canResolve} />
+            <OpenThread
+              key={t.id}
+              checkId={checkId}
+              thread={t}
+              versionNumber={versionNumber}
+              canReply={canReply}
+              canResolve={canResolve}
+            />
           ))}
         </ul>
       ) : null}
       {resolved.map((t) => (
         <details key={t.id} className="rounded border border-rule bg-paper px-3 py-2">
           <summary className="cursor-pointer text-sm text-ink-muted">
-            Resolved thread · {where(t, versionNumber)} · resolved by {t.resolvedBy} ({t.comments.length} comment{t.comments.length === 1 ? '' : 's'})
+            Resolved thread · {where(t, versionNumber)} · resolved by {t.resolvedBy} ({t.comments.length} comment
+            {t.comments.length === 1 ? '' : 's'})
           </summary>
           <div className="mt-2">
             <Comments thread={t} />
@@ -202,7 +260,12 @@ export function CellThreads({
         </details>
       ))}
       {canOpen && !opening ? (
-        <button ref={openButton} type="button" onClick={() => setOpening(true)} className="rounded border border-rule-strong bg-surface px-3 py-1.5 text-sm font-semibold">
+        <button
+          ref={openButton}
+          type="button"
+          onClick={() => setOpening(true)}
+          className="rounded border border-rule-strong bg-surface px-3 py-1.5 text-sm font-semibold"
+        >
           Comment on this cell
         </button>
       ) : null}
@@ -213,7 +276,13 @@ export function CellThreads({
               <label htmlFor={`${id}-line`} className="block text-sm font-semibold">
                 Statement line (optional)
               </label>
-              <select id={`${id}-line`} autoFocus value={line} onChange={(e) => setLine(e.target.value)} className="w-full rounded border border-rule-strong bg-surface px-3 py-2 font-mono text-sm">
+              <select
+                id={`${id}-line`}
+                autoFocus
+                value={line}
+                onChange={(e) => setLine(e.target.value)}
+                className="w-full rounded border border-rule-strong bg-surface px-3 py-2 font-mono text-sm"
+              >
                 <option value="">The whole cell</option>
                 {lines.map((l) => (
                   <option key={l.line} value={l.line}>
@@ -227,13 +296,29 @@ export function CellThreads({
             <label htmlFor={`${id}-body`} className="block text-sm font-semibold">
               Comment
             </label>
-            <textarea id={`${id}-body`} autoFocus={lines.length === 0} required rows={3} value={body} onChange={(e) => setBody(e.target.value)} className="w-full rounded border border-rule-strong bg-surface px-3 py-2 text-sm" />
+            <textarea
+              id={`${id}-body`}
+              autoFocus={lines.length === 0}
+              required
+              rows={3}
+              value={body}
+              onChange={(e) => setBody(e.target.value)}
+              className="w-full rounded border border-rule-strong bg-surface px-3 py-2 text-sm"
+            />
           </div>
           <div className="flex gap-2">
-            <button type="submit" disabled={busy || !body.trim()} className="rounded bg-accent px-3 py-1.5 text-sm font-semibold text-surface hover:bg-accent-hover disabled:opacity-60">
+            <button
+              type="submit"
+              disabled={busy || !body.trim()}
+              className="rounded bg-accent px-3 py-1.5 text-sm font-semibold text-surface hover:bg-accent-hover disabled:opacity-60"
+            >
               Add the comment
             </button>
-            <button type="button" onClick={() => setOpening(false)} className="rounded border border-rule-strong bg-surface px-3 py-1.5 text-sm font-semibold">
+            <button
+              type="button"
+              onClick={() => setOpening(false)}
+              className="rounded border border-rule-strong bg-surface px-3 py-1.5 text-sm font-semibold"
+            >
               Cancel
             </button>
           </div>

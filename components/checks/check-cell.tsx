@@ -31,7 +31,12 @@ function margin(s: ResultSnapshot | null): string {
 
 /** What changed in one result since the base version, in words. */
 function ResultChange({ change, baseNumber }: { change: ResultComparison; baseNumber: number | null }) {
-  if (change.status === 'added') return <p className="text-sm font-semibold text-caution">New result{baseNumber ? ` since version ${baseNumber}` : ''}.</p>;
+  if (change.status === 'added')
+    return (
+      <p className="text-sm font-semibold text-caution">
+        New result{baseNumber ? ` since version ${baseNumber}` : ''}.
+      </p>
+    );
   const verdict = (pass: boolean | null) => (pass === null ? 'no verdict' : pass ? 'Pass' : 'Fail');
   return (
     <p className="text-sm text-caution">
@@ -43,17 +48,21 @@ function ResultChange({ change, baseNumber }: { change: ResultComparison; baseNu
               {verdict(change.passOld)} → {verdict(change.passNew)};{' '}
             </span>
           ) : null}
-          margin to the limit <span className="font-mono">{margin(change.old)}</span> → <span className="font-mono">{margin(change.new)}</span>
+          margin to the limit <span className="font-mono">{margin(change.old)}</span> →{' '}
+          <span className="font-mono">{margin(change.new)}</span>
         </>
       ) : (
         <>
           <span className="font-mono">
             <VisibleText text={shown(change.old)} />
           </span>{' '}
-          → <span className="font-mono">
+          →{' '}
+          <span className="font-mono">
             <VisibleText text={shown(change.new)} />
           </span>
-          {change.relativeChange !== null ? <span className="font-mono"> ({formatRelativeChange(change.relativeChange)})</span> : null}
+          {change.relativeChange !== null ? (
+            <span className="font-mono"> ({formatRelativeChange(change.relativeChange)})</span>
+          ) : null}
           {change.unitChanged ? ' (unit changed)' : null}
         </>
       )}
@@ -62,7 +71,11 @@ function ResultChange({ change, baseNumber }: { change: ResultComparison; baseNu
 }
 
 function changeFor(statement: StatementResult, changes: ResultComparison[]): ResultComparison | undefined {
-  return changes.find((r) => (statement.kind === 'criterion' ? r.type === 'criterion' && r.name === statement.source : r.type === 'value' && statement.name !== null && r.name === statement.name));
+  return changes.find((r) =>
+    statement.kind === 'criterion'
+      ? r.type === 'criterion' && r.name === statement.source
+      : r.type === 'value' && statement.name !== null && r.name === statement.name,
+  );
 }
 
 /**
@@ -99,9 +112,13 @@ export function CheckCell({
   const status = cell.status === 'changed' && cell.moved ? 'changed and moved' : cell.status;
   const removedResults = changes.filter((r) => r.status === 'removed');
   // The physics lint's warnings (absent in results stored before they existed: none).
-  const warningCount = cell.status === 'removed' ? 0 : (result?.statements ?? []).reduce((n, s) => n + (s.warnings?.length ?? 0), 0);
+  const warningCount =
+    cell.status === 'removed' ? 0 : (result?.statements ?? []).reduce((n, s) => n + (s.warnings?.length ?? 0), 0);
   return (
-    <article aria-label={`${label} (${cell.id}), ${status}`} className={`rounded border bg-surface p-3 ${result && !result.ok ? 'border-fail' : 'border-rule'}`}>
+    <article
+      aria-label={`${label} (${cell.id}), ${status}`}
+      className={`rounded border bg-surface p-3 ${result && !result.ok ? 'border-fail' : 'border-rule'}`}
+    >
       <p className="mb-2 flex flex-wrap items-baseline gap-x-2 text-xs">
         <span className="font-bold text-ink">{label}</span>
         <span className="font-mono text-ink-muted">{cell.id}</span>
@@ -112,7 +129,9 @@ export function CheckCell({
             {warningCount} {warningCount === 1 ? 'warning' : 'warnings'}
           </span>
         ) : null}
-        {cell.baseKind && cell.baseKind !== cell.kind ? <span className="text-ink-muted">(was a {cell.baseKind === 'calc' ? 'calculation' : 'text'} cell)</span> : null}
+        {cell.baseKind && cell.baseKind !== cell.kind ? (
+          <span className="text-ink-muted">(was a {cell.baseKind === 'calc' ? 'calculation' : 'text'} cell)</span>
+        ) : null}
       </p>
       {cell.sourceDiff && !first ? (
         <SourceDiff pieces={cell.sourceDiff} label={`Source of ${label.toLowerCase()}, with changes`} />
@@ -145,7 +164,8 @@ export function CheckCell({
         <ul className="mt-2 space-y-1 text-sm text-caution">
           {removedResults.map((r) => (
             <li key={r.key}>
-              <span className="font-semibold">No longer computed:</span> <span className="font-mono">
+              <span className="font-semibold">No longer computed:</span>{' '}
+              <span className="font-mono">
                 <VisibleText text={r.name} />
               </span>{' '}
               (was <span className="font-mono">{shown(r.old)}</span> in version {baseNumber})

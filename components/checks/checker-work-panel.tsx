@@ -28,7 +28,12 @@ function Results({ cells, results }: { cells: Cell[]; results: SheetResult | nul
       {cells.map((cell, i) => {
         const r = byId.get(cell.id);
         return r ? (
-          <div key={cell.id} aria-label={`Results of alternate cell ${i + 1}`} role="group" className="rounded border border-rule bg-surface px-3 py-1">
+          <div
+            key={cell.id}
+            aria-label={`Results of alternate cell ${i + 1}`}
+            role="group"
+            className="rounded border border-rule bg-surface px-3 py-1"
+          >
             {r.statements.map((s) => (
               <StatementView key={`${s.line}:${s.source}`} statement={s} />
             ))}
@@ -81,14 +86,20 @@ export function CheckerWorkPanel({
   const [tolerance, setTolerance] = useState(initialTolerance ?? '');
   const evidence = (
     <>
-      {comparison && versionNumber !== undefined && (cells.length > 0 || alternateCells.length > 0) ? <AlternateComparisonTable comparison={comparison} versionNumber={versionNumber} /> : null}
+      {comparison && versionNumber !== undefined && (cells.length > 0 || alternateCells.length > 0) ? (
+        <AlternateComparisonTable comparison={comparison} versionNumber={versionNumber} />
+      ) : null}
     </>
   );
 
   async function patch(body: Record<string, unknown>): Promise<{ alternateResults: SheetResult | null } | null> {
     setStatus({ kind: 'busy' });
     try {
-      const response = await fetch(`/api/checks/${checkId}`, { method: 'PATCH', headers: { 'content-type': 'application/json' }, body: JSON.stringify(body) });
+      const response = await fetch(`/api/checks/${checkId}`, {
+        method: 'PATCH',
+        headers: { 'content-type': 'application/json' },
+        body: JSON.stringify(body),
+      });
       const answer = await response.json().catch(() => ({}));
       if (!response.ok) {
         setStatus({ kind: 'error', text: answer.error?.message ?? `The server answered ${response.status}.` });
@@ -105,24 +116,38 @@ export function CheckerWorkPanel({
     const before = method;
     setMethod(value);
     if (await patch({ verificationMethod: value })) {
-      setStatus({ kind: 'done', text: `Verification method recorded: ${methods.find((m) => m.value === value)?.label}.` });
+      setStatus({
+        kind: 'done',
+        text: `Verification method recorded: ${methods.find((m) => m.value === value)?.label}.`,
+      });
       router.refresh();
     } else setMethod(before);
   }
 
   async function save() {
-    const answer = await patch({ verificationMethod: method, checkerNotes: notes, alternateCells: cells, tolerance: tolerance.trim() || null });
+    const answer = await patch({
+      verificationMethod: method,
+      checkerNotes: notes,
+      alternateCells: cells,
+      tolerance: tolerance.trim() || null,
+    });
     if (!answer) return;
     setResults(answer.alternateResults);
     setEvaluated(cells);
     const failed = (answer.alternateResults?.cells ?? []).filter((c) => !c.ok).length;
-    setStatus({ kind: 'done', text: `Saved${cells.length ? ` and evaluated${failed ? `: ${failed} cell${failed === 1 ? ' has' : 's have'} an error` : ''}` : ''}.` });
+    setStatus({
+      kind: 'done',
+      text: `Saved${cells.length ? ` and evaluated${failed ? `: ${failed} cell${failed === 1 ? ' has' : 's have'} an error` : ''}` : ''}.`,
+    });
     router.refresh();
   }
 
   async function confirmCarried() {
     if (await patch({ confirmCarriedOver: true })) {
-      setStatus({ kind: 'done', text: `Confirmed the work carried over from the check of version ${carriedOver?.fromVersion}.` });
+      setStatus({
+        kind: 'done',
+        text: `Confirmed the work carried over from the check of version ${carriedOver?.fromVersion}.`,
+      });
       router.refresh();
     }
   }
@@ -134,7 +159,8 @@ export function CheckerWorkPanel({
       <div className="space-y-3 text-sm">
         <CarriedOverNotice carried={carriedOver} />
         <p>
-          <span className="font-semibold">Verification method:</span> {methodLabel ?? <span className="text-ink-muted">not recorded yet</span>}
+          <span className="font-semibold">Verification method:</span>{' '}
+          {methodLabel ?? <span className="text-ink-muted">not recorded yet</span>}
           <CarriedMark carried={carriedOver} field="verificationMethod" />
         </p>
         <div>
@@ -142,7 +168,11 @@ export function CheckerWorkPanel({
             Checker&apos;s notes
             <CarriedMark carried={carriedOver} field="checkerNotes" />
           </p>
-          {initialNotes ? <p className="whitespace-pre-wrap">{initialNotes}</p> : <p className="text-ink-muted">No notes.</p>}
+          {initialNotes ? (
+            <p className="whitespace-pre-wrap">{initialNotes}</p>
+          ) : (
+            <p className="text-ink-muted">No notes.</p>
+          )}
         </div>
         {alternateCells.length ? (
           <div className="space-y-2">
@@ -166,9 +196,14 @@ export function CheckerWorkPanel({
   // Gutter markers for the errors of the last save, while the cell's text is what was evaluated.
   const lineErrorsOf = (cell: Cell) => {
     if (!evaluated.some((e) => e.id === cell.id && e.source === cell.source)) return undefined;
-    return results?.cells.find((r) => r.id === cell.id)?.statements.flatMap((s) => (s.error ? [{ line: s.line, message: s.error }] : []));
+    return results?.cells
+      .find((r) => r.id === cell.id)
+      ?.statements.flatMap((s) => (s.error ? [{ line: s.line, message: s.error }] : []));
   };
-  const namesAbove = (i: number) => cells.slice(0, i).flatMap((above) => (results?.cells.find((r) => r.id === above.id)?.defines ?? []).map((name) => ({ name })));
+  const namesAbove = (i: number) =>
+    cells
+      .slice(0, i)
+      .flatMap((above) => (results?.cells.find((r) => r.id === above.id)?.defines ?? []).map((name) => ({ name })));
 
   return (
     <div className="space-y-4">
@@ -177,8 +212,14 @@ export function CheckerWorkPanel({
           <CarriedOverNotice carried={carriedOver} />
           {!carriedOver.confirmedAt ? (
             <p className="text-sm">
-              Check the carried-over work against version {versionNumber}: edit what no longer holds, then confirm the rest (signing waits for it).{' '}
-              <button type="button" onClick={confirmCarried} disabled={status.kind === 'busy'} className="mt-1 rounded border border-rule-strong bg-surface px-3 py-1.5 text-sm font-semibold">
+              Check the carried-over work against version {versionNumber}: edit what no longer holds, then confirm the
+              rest (signing waits for it).{' '}
+              <button
+                type="button"
+                onClick={confirmCarried}
+                disabled={status.kind === 'busy'}
+                className="mt-1 rounded border border-rule-strong bg-surface px-3 py-1.5 text-sm font-semibold"
+              >
                 Confirm the work carried over from version {carriedOver.fromVersion}
               </button>
             </p>
@@ -192,7 +233,15 @@ export function CheckerWorkPanel({
         </legend>
         {methods.map((m) => (
           <label key={m.value} className="flex items-center gap-2 text-sm">
-            <input type="radio" name={`${id}-method`} value={m.value} checked={method === m.value} onChange={() => chooseMethod(m.value)} disabled={status.kind === 'busy'} className="h-4 w-4" />
+            <input
+              type="radio"
+              name={`${id}-method`}
+              value={m.value}
+              checked={method === m.value}
+              onChange={() => chooseMethod(m.value)}
+              disabled={status.kind === 'busy'}
+              className="h-4 w-4"
+            />
             {m.label}
           </label>
         ))}
@@ -202,7 +251,13 @@ export function CheckerWorkPanel({
           Checker&apos;s notes
           <CarriedMark carried={carriedOver} field="checkerNotes" />
         </label>
-        <textarea id={`${id}-notes`} rows={3} value={notes} onChange={(e) => setNotes(e.target.value)} className="w-full rounded border border-rule-strong bg-surface px-3 py-2 text-sm" />
+        <textarea
+          id={`${id}-notes`}
+          rows={3}
+          value={notes}
+          onChange={(e) => setNotes(e.target.value)}
+          className="w-full rounded border border-rule-strong bg-surface px-3 py-2 text-sm"
+        />
       </div>
       <div className="space-y-2">
         <h3 className="text-sm font-semibold">
@@ -210,13 +265,19 @@ export function CheckerWorkPanel({
           <CarriedMark carried={carriedOver} field="alternateCells" />
         </h3>
         <p id={`${id}-alt-help`} className="text-xs text-ink-muted">
-          Work out the key results another way. The cells are evaluated by the server&apos;s engine and kept with this check; they are not part of the sheet.
+          Work out the key results another way. The cells are evaluated by the server&apos;s engine and kept with this
+          check; they are not part of the sheet.
         </p>
         {cells.map((cell, i) => (
           <div key={cell.id} className="space-y-1">
             <div className="flex items-center justify-between text-xs">
               <span className="font-semibold text-ink-muted">Alternate cell {i + 1}</span>
-              <button type="button" onClick={() => setCells((cs) => cs.filter((c) => c.id !== cell.id))} className="rounded border border-fail px-2 py-0.5 text-fail" aria-label={`Delete alternate cell ${i + 1}`}>
+              <button
+                type="button"
+                onClick={() => setCells((cs) => cs.filter((c) => c.id !== cell.id))}
+                className="rounded border border-fail px-2 py-0.5 text-fail"
+                aria-label={`Delete alternate cell ${i + 1}`}
+              >
                 Delete
               </button>
             </div>
@@ -231,7 +292,11 @@ export function CheckerWorkPanel({
             />
           </div>
         ))}
-        <button type="button" onClick={() => setCells((cs) => [...cs, { id: newId(cs), kind: 'calc', source: '' }])} className="rounded border border-rule-strong bg-surface px-3 py-1.5 text-sm font-semibold">
+        <button
+          type="button"
+          onClick={() => setCells((cs) => [...cs, { id: newId(cs), kind: 'calc', source: '' }])}
+          className="rounded border border-rule-strong bg-surface px-3 py-1.5 text-sm font-semibold"
+        >
           Add an alternate calculation cell
         </button>
         <div>
@@ -247,15 +312,25 @@ export function CheckerWorkPanel({
             className="w-40 rounded border border-rule-strong bg-surface px-3 py-1.5 font-mono text-sm"
           />
           <p id={`${id}-tolerance-help`} className="text-xs text-ink-muted">
-            Each name the alternate cells share with the sheet is compared: |alternate − sheet| / |sheet| must not exceed it. Write 1e-6, 0.1 % or 5 ppm.
+            Each name the alternate cells share with the sheet is compared: |alternate − sheet| / |sheet| must not
+            exceed it. Write 1e-6, 0.1 % or 5 ppm.
           </p>
         </div>
       </div>
       <div className="flex flex-wrap items-center gap-3">
-        <button type="button" onClick={save} disabled={status.kind === 'busy'} className="rounded bg-accent px-4 py-2 font-semibold text-surface hover:bg-accent-hover disabled:opacity-60">
+        <button
+          type="button"
+          onClick={save}
+          disabled={status.kind === 'busy'}
+          className="rounded bg-accent px-4 py-2 font-semibold text-surface hover:bg-accent-hover disabled:opacity-60"
+        >
           {status.kind === 'busy' ? 'Saving…' : 'Save and evaluate'}
         </button>
-        <p role={status.kind === 'error' ? 'alert' : 'status'} aria-live="polite" className={`text-sm ${status.kind === 'error' ? 'text-fail' : 'text-pass'}`}>
+        <p
+          role={status.kind === 'error' ? 'alert' : 'status'}
+          aria-live="polite"
+          className={`text-sm ${status.kind === 'error' ? 'text-fail' : 'text-pass'}`}
+        >
           {status.kind === 'done' || status.kind === 'error' ? status.text : ''}
         </p>
       </div>

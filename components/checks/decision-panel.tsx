@@ -43,10 +43,17 @@ export function DecisionPanel({
     event.preventDefault();
     const form = event.currentTarget;
     const data = new FormData(form);
-    const body = action === 'sign' || action === 'approve' ? { action, password: String(data.get('password') ?? '') } : { action, reason: String(data.get('reason') ?? '') };
+    const body =
+      action === 'sign' || action === 'approve'
+        ? { action, password: String(data.get('password') ?? '') }
+        : { action, reason: String(data.get('reason') ?? '') };
     setOutcome({ kind: 'busy' });
     try {
-      const response = await fetch(`/api/checks/${checkId}/decision`, { method: 'POST', headers: { 'content-type': 'application/json' }, body: JSON.stringify(body) });
+      const response = await fetch(`/api/checks/${checkId}/decision`, {
+        method: 'POST',
+        headers: { 'content-type': 'application/json' },
+        body: JSON.stringify(body),
+      });
       const answer = await response.json().catch(() => ({}));
       if (!response.ok) {
         setOutcome({ kind: 'error', text: answer.error?.message ?? `The server answered ${response.status}.` });
@@ -63,7 +70,8 @@ export function DecisionPanel({
   const busy = outcome.kind === 'busy';
   const meaning = (word: string) => (
     <p className="text-xs text-ink-muted">
-      Meaning of your signature: <strong className="text-ink">{word}</strong>. It binds to version {versionNumber}, SHA-256 <span className="font-mono break-all">{sha256}</span>.
+      Meaning of your signature: <strong className="text-ink">{word}</strong>. It binds to version {versionNumber},
+      SHA-256 <span className="font-mono break-all">{sha256}</span>.
     </p>
   );
   const reasonForm = (action: 'return' | 'reject', title: string, label: string, button: string) => (
@@ -74,13 +82,29 @@ export function DecisionPanel({
       <label htmlFor={`${id}-${action}-reason`} className="block text-sm font-semibold">
         {label}
       </label>
-      <textarea id={`${id}-${action}-reason`} name="reason" required rows={3} className="w-full rounded border border-rule-strong bg-surface px-3 py-2 text-sm" />
-      <button type="submit" disabled={busy} className="rounded border border-rule-strong bg-surface px-4 py-2 font-semibold text-ink hover:bg-paper disabled:opacity-60">
+      <textarea
+        id={`${id}-${action}-reason`}
+        name="reason"
+        required
+        rows={3}
+        className="w-full rounded border border-rule-strong bg-surface px-3 py-2 text-sm"
+      />
+      <button
+        type="submit"
+        disabled={busy}
+        className="rounded border border-rule-strong bg-surface px-4 py-2 font-semibold text-ink hover:bg-paper disabled:opacity-60"
+      >
         {button}
       </button>
     </form>
   );
-  const signForm = (action: 'sign' | 'approve', title: string, word: string, button: string, note?: React.ReactNode) => (
+  const signForm = (
+    action: 'sign' | 'approve',
+    title: string,
+    word: string,
+    button: string,
+    note?: React.ReactNode,
+  ) => (
     <form onSubmit={(e) => decide(e, action)} className="space-y-2" aria-labelledby={`${id}-${action}`}>
       <h3 id={`${id}-${action}`} className="text-sm font-bold">
         {title}
@@ -90,8 +114,19 @@ export function DecisionPanel({
       <label htmlFor={`${id}-${action}-password`} className="block text-sm font-semibold">
         Your password (signs as {word.toLowerCase()})
       </label>
-      <input id={`${id}-${action}-password`} name="password" type="password" required autoComplete="current-password" className="w-full rounded border border-rule-strong bg-surface px-3 py-2" />
-      <button type="submit" disabled={busy} className="rounded bg-accent px-4 py-2 font-semibold text-surface hover:bg-accent-hover disabled:opacity-60">
+      <input
+        id={`${id}-${action}-password`}
+        name="password"
+        type="password"
+        required
+        autoComplete="current-password"
+        className="w-full rounded border border-rule-strong bg-surface px-3 py-2"
+      />
+      <button
+        type="submit"
+        disabled={busy}
+        className="rounded bg-accent px-4 py-2 font-semibold text-surface hover:bg-accent-hover disabled:opacity-60"
+      >
         {button}
       </button>
     </form>
@@ -100,7 +135,12 @@ export function DecisionPanel({
   const signNote =
     openThreads > 0 || !methodRecorded ? (
       <ul className="list-disc pl-5 text-xs text-caution">
-        {openThreads > 0 ? <li>{openThreads === 1 ? '1 comment thread is' : `${openThreads} comment threads are`} still open; resolve them first.</li> : null}
+        {openThreads > 0 ? (
+          <li>
+            {openThreads === 1 ? '1 comment thread is' : `${openThreads} comment threads are`} still open; resolve them
+            first.
+          </li>
+        ) : null}
         {!methodRecorded ? <li>Record the verification method first.</li> : null}
       </ul>
     ) : null;
@@ -108,9 +148,13 @@ export function DecisionPanel({
   return (
     <div className="space-y-4">
       {actions.includes('sign') ? signForm('sign', 'Sign as checked', 'Checked', 'Sign as checked', signNote) : null}
-      {actions.includes('return') ? reasonForm('return', 'Return with comments', 'Reason for returning', 'Return with comments') : null}
+      {actions.includes('return')
+        ? reasonForm('return', 'Return with comments', 'Reason for returning', 'Return with comments')
+        : null}
       {actions.includes('approve') ? signForm('approve', 'Approve', 'Approved', 'Approve') : null}
-      {actions.includes('reject') ? reasonForm('reject', 'Return to originator', 'Reason for not approving', 'Return to originator') : null}
+      {actions.includes('reject')
+        ? reasonForm('reject', 'Return to originator', 'Reason for not approving', 'Return to originator')
+        : null}
       <div role={outcome.kind === 'error' ? 'alert' : 'status'} aria-live="polite" className="text-sm">
         {outcome.kind === 'error' ? <p className="rounded bg-fail-soft px-3 py-2 text-fail">{outcome.text}</p> : null}
         {outcome.kind === 'done' ? <p className="rounded bg-pass-soft px-3 py-2 text-pass">{outcome.text}</p> : null}

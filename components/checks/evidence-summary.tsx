@@ -5,10 +5,22 @@ import { carriedFieldsText, type CarriedOver } from '@/lib/checks/carried-over';
  * The checker's evidence in two lines beside the decision, so the approver reads it before
  * approving: the verification method, the alternate comparison's outcome, and what is carried over.
  */
-export function EvidenceSummary({ method, comparison, carriedOver }: { method: string | null; comparison: AlternateComparison; carriedOver: CarriedOver | null }) {
+export function EvidenceSummary({
+  method,
+  comparison,
+  carriedOver,
+}: {
+  method: string | null;
+  comparison: AlternateComparison;
+  carriedOver: CarriedOver | null;
+}) {
   const rows = comparison.rows.length;
   return (
-    <div role="group" aria-label="The checker's evidence" className="space-y-1 rounded border border-rule bg-paper px-3 py-2 text-sm">
+    <div
+      role="group"
+      aria-label="The checker's evidence"
+      className="space-y-1 rounded border border-rule bg-paper px-3 py-2 text-sm"
+    >
       <p>
         <span className="font-semibold">Verification method:</span> {method ?? 'not recorded'}
       </p>
@@ -23,7 +35,8 @@ export function EvidenceSummary({ method, comparison, carriedOver }: { method: s
       </p>
       {carriedOver && carriedOver.fields.length ? (
         <p>
-          <span className="font-semibold">Carried over from the check of version {carriedOver.fromVersion}:</span> {carriedFieldsText(carriedOver.fields)}
+          <span className="font-semibold">Carried over from the check of version {carriedOver.fromVersion}:</span>{' '}
+          {carriedFieldsText(carriedOver.fields)}
           {carriedOver.confirmedAt ? `; confirmed by ${carriedOver.confirmedBy}` : '; not confirmed by the checker'}.
         </p>
       ) : null}

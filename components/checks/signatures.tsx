@@ -18,11 +18,21 @@ export function SignatureTable({ signatures, caption }: { signatures: SignatureR
       <caption className="sr-only">{caption}</caption>
       <thead>
         <tr className="border-b border-rule-strong text-left">
-          <th scope="col" className="py-2 pr-3">Printed name</th>
-          <th scope="col" className="py-2 pr-3">Meaning</th>
-          <th scope="col" className="py-2 pr-3">Signed (UTC)</th>
-          <th scope="col" className="py-2 pr-3">Version</th>
-          <th scope="col" className="py-2">SHA-256 of the version</th>
+          <th scope="col" className="py-2 pr-3">
+            Printed name
+          </th>
+          <th scope="col" className="py-2 pr-3">
+            Meaning
+          </th>
+          <th scope="col" className="py-2 pr-3">
+            Signed (UTC)
+          </th>
+          <th scope="col" className="py-2 pr-3">
+            Version
+          </th>
+          <th scope="col" className="py-2">
+            SHA-256 of the version
+          </th>
         </tr>
       </thead>
       <tbody>

@@ -16,9 +16,14 @@ export function SubmissionAcknowledgements({
 }) {
   if (acknowledgements.length === 0 && designInputs.length === 0) return null;
   return (
-    <section aria-labelledby="acknowledgements-title" className={`space-y-3 rounded border-2 bg-surface p-4 ${acknowledgements.length ? 'border-fail' : 'border-rule'}`}>
+    <section
+      aria-labelledby="acknowledgements-title"
+      className={`space-y-3 rounded border-2 bg-surface p-4 ${acknowledgements.length ? 'border-fail' : 'border-rule'}`}
+    >
       <h2 id="acknowledgements-title" className="text-lg font-bold">
-        {acknowledgements.length ? `Acknowledged by ${submittedBy} on submission (${acknowledgements.length})` : 'Design inputs and the values used'}
+        {acknowledgements.length
+          ? `Acknowledged by ${submittedBy} on submission (${acknowledgements.length})`
+          : 'Design inputs and the values used'}
       </h2>
       {acknowledgements.length ? (
         <ul className="space-y-2 text-sm">
@@ -37,7 +42,9 @@ export function SubmissionAcknowledgements({
       ) : null}
       {designInputs.length ? (
         <table className="w-full text-left text-sm">
-          <caption className="text-left text-xs text-ink-muted">Each design input that names a cell: the record&apos;s value and the value the engine used.</caption>
+          <caption className="text-left text-xs text-ink-muted">
+            Each design input that names a cell: the record&apos;s value and the value the engine used.
+          </caption>
           <thead>
             <tr>
               <th scope="col">Design input</th>
@@ -54,7 +61,9 @@ export function SubmissionAcknowledgements({
                   <code className="font-mono">{d.cell}</code> = {d.recordValue}
                 </td>
                 <td>{d.engineValue ?? '—'}</td>
-                <td className={d.status === 'match' ? 'text-pass' : 'font-semibold text-fail'}>{d.status === 'match' ? 'matches' : `Error: ${d.words}`}</td>
+                <td className={d.status === 'match' ? 'text-pass' : 'font-semibold text-fail'}>
+                  {d.status === 'match' ? 'matches' : `Error: ${d.words}`}
+                </td>
               </tr>
             ))}
           </tbody>

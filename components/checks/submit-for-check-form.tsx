@@ -24,7 +24,8 @@ const KIND_LABELS: Record<string, string> = {
   'design-input': 'Design input does not match the sheet',
 };
 
-type Status = { kind: 'idle' | 'busy' } | { kind: 'done'; text: string } | { kind: 'error'; text: string; rule?: string };
+type Status =
+  { kind: 'idle' | 'busy' } | { kind: 'done'; text: string } | { kind: 'error'; text: string; rule?: string };
 
 /**
  * The originator submits one exact version to a named checker. Submitting signs the version as
@@ -56,7 +57,12 @@ export function SubmitForCheckForm({
   const [version, setVersion] = useState<number | undefined>(versions[0]);
   const [needed, setNeeded] = useState<{ version: number; items: Finding[] } | null>(null);
   // The server's list after a refusal wins (it is the one it will check); before that, the page's.
-  const items = needed && needed.version === version ? needed.items : version !== undefined ? (findingsByVersion?.[version] ?? []) : [];
+  const items =
+    needed && needed.version === version
+      ? needed.items
+      : version !== undefined
+        ? (findingsByVersion?.[version] ?? [])
+        : [];
   const checkers = (version !== undefined ? checkersByVersion?.[version] : undefined) ?? latestCheckers;
   const ineligible = checkers.filter((c) => !c.eligible);
   const anyEligible = checkers.some((c) => c.eligible);
@@ -83,17 +89,27 @@ export function SubmitForCheckForm({
       const asked = answer.error?.details?.acknowledgementsNeeded as Finding[] | undefined;
       if (!response.ok && asked) {
         setNeeded({ version: versionNumber, items: asked });
-        setStatus({ kind: 'error', text: `${answer.error.message} Write an acknowledgement for each item below, then submit again.` });
+        setStatus({
+          kind: 'error',
+          text: `${answer.error.message} Write an acknowledgement for each item below, then submit again.`,
+        });
         return;
       }
       if (!response.ok) {
-        setStatus({ kind: 'error', text: answer.error?.message ?? `The server answered ${response.status}.`, rule: answer.error?.details?.rule });
+        setStatus({
+          kind: 'error',
+          text: answer.error?.message ?? `The server answered ${response.status}.`,
+          rule: answer.error?.details?.rule,
+        });
         return;
       }
       form.reset();
       setNeeded(null);
       const checker = checkers.find((c) => c.userId === checkerId)?.name ?? 'the checker';
-      setStatus({ kind: 'done', text: `Version ${answer.versionNumber} is submitted to ${checker} for check and signed as prepared.` });
+      setStatus({
+        kind: 'done',
+        text: `Version ${answer.versionNumber} is submitted to ${checker} for check and signed as prepared.`,
+      });
       router.refresh();
     } catch {
       setStatus({ kind: 'error', text: 'The server could not be reached; nothing was submitted.' });
@@ -109,7 +125,13 @@ export function SubmitForCheckForm({
             <label htmlFor={`${id}-version`} className="block text-sm font-semibold">
               Version
             </label>
-            <select id={`${id}-version`} name="versionNumber" value={version} onChange={(e) => setVersion(Number(e.target.value))} className="w-full rounded border border-rule-strong bg-surface px-3 py-2">
+            <select
+              id={`${id}-version`}
+              name="versionNumber"
+              value={version}
+              onChange={(e) => setVersion(Number(e.target.value))}
+              className="w-full rounded border border-rule-strong bg-surface px-3 py-2"
+            >
               {versions.map((v, i) => (
                 <option key={v} value={v}>
                   Version {v}
@@ -150,18 +172,34 @@ export function SubmitForCheckForm({
                 ))}
               </ul>
             ) : null}
-            {checkers.length === 0 ? <p className="mt-1 text-xs text-ink-muted">The project has no checker; an administrator gives the checker role.</p> : null}
+            {checkers.length === 0 ? (
+              <p className="mt-1 text-xs text-ink-muted">
+                The project has no checker; an administrator gives the checker role.
+              </p>
+            ) : null}
           </div>
           {items.length ? (
             <fieldset className="space-y-2 rounded border border-fail px-3 py-2">
-              <legend className="px-1 text-sm font-semibold text-fail">Acknowledge in writing before submitting ({items.length})</legend>
-              <p className="text-xs text-ink-muted">Each acknowledgement goes with the version to the checker, the approver and the issued PDF, and cannot be changed after submission.</p>
+              <legend className="px-1 text-sm font-semibold text-fail">
+                Acknowledge in writing before submitting ({items.length})
+              </legend>
+              <p className="text-xs text-ink-muted">
+                Each acknowledgement goes with the version to the checker, the approver and the issued PDF, and cannot
+                be changed after submission.
+              </p>
               {items.map((f, i) => (
                 <div key={f.key}>
                   <label htmlFor={`${id}-ack-${i}`} className="block text-sm">
                     <span className="font-semibold">{KIND_LABELS[f.kind] ?? f.kind}:</span> {f.message}
                   </label>
-                  <textarea id={`${id}-ack-${i}`} name={`ack:${f.key}`} required rows={2} maxLength={5000} className="w-full rounded border border-rule-strong bg-surface px-3 py-2 text-sm" />
+                  <textarea
+                    id={`${id}-ack-${i}`}
+                    name={`ack:${f.key}`}
+                    required
+                    rows={2}
+                    maxLength={5000}
+                    className="w-full rounded border border-rule-strong bg-surface px-3 py-2 text-sm"
+                  />
                 </div>
               ))}
             </fieldset>
@@ -170,14 +208,30 @@ export function SubmitForCheckForm({
             <label htmlFor={`${id}-password`} className="block text-sm font-semibold">
               Your password (signs as prepared)
             </label>
-            <input id={`${id}-password`} name="password" type="password" required autoComplete="current-password" className="w-full rounded border border-rule-strong bg-surface px-3 py-2" />
+            <input
+              id={`${id}-password`}
+              name="password"
+              type="password"
+              required
+              autoComplete="current-password"
+              className="w-full rounded border border-rule-strong bg-surface px-3 py-2"
+            />
           </div>
-          <button type="submit" disabled={status.kind === 'busy' || !anyEligible} className="rounded bg-accent px-4 py-2 font-semibold text-surface hover:bg-accent-hover disabled:opacity-60">
+          <button
+            type="submit"
+            disabled={status.kind === 'busy' || !anyEligible}
+            className="rounded bg-accent px-4 py-2 font-semibold text-surface hover:bg-accent-hover disabled:opacity-60"
+          >
             {status.kind === 'busy' ? 'Submitting…' : 'Submit for check'}
           </button>
         </form>
       ) : null}
-      <div id={`${id}-status`} role={status.kind === 'error' ? 'alert' : 'status'} aria-live="polite" className="text-sm">
+      <div
+        id={`${id}-status`}
+        role={status.kind === 'error' ? 'alert' : 'status'}
+        aria-live="polite"
+        className="text-sm"
+      >
         {status.kind === 'error' ? (
           <p className="rounded bg-fail-soft px-3 py-2 text-fail">
             {status.text}

@@ -12,7 +12,11 @@ export function VisibleText({ text }: { text: string }) {
     <>
       {segments.map((s, i) =>
         s.control ? (
-          <span key={i} className="ws-bidi-marker" title={`${describeBidiControl(s.control.codePoint)}: a bidirectional control character, shown instead of applied`}>
+          <span
+            key={i}
+            className="ws-bidi-marker"
+            title={`${describeBidiControl(s.control.codePoint)}: a bidirectional control character, shown instead of applied`}
+          >
             {s.text}
           </span>
         ) : (

@@ -40,11 +40,19 @@ export function JsonForm({
     event.preventDefault();
     const form = new FormData(event.currentTarget);
     const body: Record<string, unknown> = { ...extra };
-    for (const f of fields) body[f.name] = f.type === 'checkbox' ? form.get(f.name) === 'on' : String(form.get(f.name) ?? '');
+    for (const f of fields)
+      body[f.name] = f.type === 'checkbox' ? form.get(f.name) === 'on' : String(form.get(f.name) ?? '');
     setState({ kind: 'busy' });
     try {
-      const response = await fetch(action, { method, headers: { 'content-type': 'application/json' }, body: JSON.stringify(body) });
-      const answer = (await response.json().catch(() => ({}))) as Record<string, unknown> & { error?: { message?: string }; message?: string };
+      const response = await fetch(action, {
+        method,
+        headers: { 'content-type': 'application/json' },
+        body: JSON.stringify(body),
+      });
+      const answer = (await response.json().catch(() => ({}))) as Record<string, unknown> & {
+        error?: { message?: string };
+        message?: string;
+      };
       if (!response.ok) {
         setState({ kind: 'error', message: answer.error?.message ?? `The server answered ${response.status}.` });
         return;
@@ -60,7 +68,14 @@ export function JsonForm({
       {fields.map((f) => {
         const fieldId = `${id}-${f.name}`;
         const hintId = f.hint ? `${fieldId}-hint` : undefined;
-        const common = { id: fieldId, name: f.name, required: f.required, 'aria-describedby': hintId, autoComplete: f.autoComplete, defaultValue: f.defaultValue };
+        const common = {
+          id: fieldId,
+          name: f.name,
+          required: f.required,
+          'aria-describedby': hintId,
+          autoComplete: f.autoComplete,
+          defaultValue: f.defaultValue,
+        };
         const input =
           f.type === 'select' ? (
             <select {...common} className="w-full rounded border border-rule-strong bg-surface px-3 py-2">
@@ -75,7 +90,11 @@ export function JsonForm({
           ) : f.type === 'checkbox' ? (
             <input {...common} type="checkbox" className="h-4 w-4" />
           ) : (
-            <input {...common} type={f.type ?? 'text'} className="w-full rounded border border-rule-strong bg-surface px-3 py-2" />
+            <input
+              {...common}
+              type={f.type ?? 'text'}
+              className="w-full rounded border border-rule-strong bg-surface px-3 py-2"
+            />
           );
         return (
           <div key={f.name} className={f.type === 'checkbox' ? 'flex items-center gap-2' : ''}>
@@ -92,10 +111,19 @@ export function JsonForm({
           </div>
         );
       })}
-      <button type="submit" disabled={state.kind === 'busy'} className="rounded bg-accent px-4 py-2 font-semibold text-surface hover:bg-accent-hover disabled:opacity-60">
+      <button
+        type="submit"
+        disabled={state.kind === 'busy'}
+        className="rounded bg-accent px-4 py-2 font-semibold text-surface hover:bg-accent-hover disabled:opacity-60"
+      >
         {state.kind === 'busy' ? 'Working…' : submitLabel}
       </button>
-      <p id={`${id}-status`} role={state.kind === 'error' ? 'alert' : 'status'} aria-live="polite" className={state.kind === 'error' ? 'text-sm text-fail' : 'text-sm text-pass'}>
+      <p
+        id={`${id}-status`}
+        role={state.kind === 'error' ? 'alert' : 'status'}
+        aria-live="polite"
+        className={state.kind === 'error' ? 'text-sm text-fail' : 'text-sm text-pass'}
+      >
         {state.kind === 'error' || state.kind === 'done' ? state.message : ''}
       </p>
     </form>

@@ -31,7 +31,17 @@ const STEP_LABELS: Record<string, string> = {
  * Document control issues an approved version as the next revision: the password signs it
  * ("issued"), then the progress of the job shows until the signed PDF is stored and recorded.
  */
-export function IssuePanel({ sheetId, approvedVersions, nextRevision, pendingJobId = null }: { sheetId: string; approvedVersions: number[]; nextRevision: string; pendingJobId?: string | null }) {
+export function IssuePanel({
+  sheetId,
+  approvedVersions,
+  nextRevision,
+  pendingJobId = null,
+}: {
+  sheetId: string;
+  approvedVersions: number[];
+  nextRevision: string;
+  pendingJobId?: string | null;
+}) {
   const router = useRouter();
   const [version, setVersion] = useState(approvedVersions[approvedVersions.length - 1] ?? 0);
   const [password, setPassword] = useState('');
@@ -76,7 +86,12 @@ export function IssuePanel({ sheetId, approvedVersions, nextRevision, pendingJob
             <label htmlFor="issue-version" className="block text-sm font-semibold">
               Approved version
             </label>
-            <select id="issue-version" value={version} onChange={(e) => setVersion(Number(e.target.value))} className="rounded border border-rule-strong bg-surface px-2 py-1.5">
+            <select
+              id="issue-version"
+              value={version}
+              onChange={(e) => setVersion(Number(e.target.value))}
+              className="rounded border border-rule-strong bg-surface px-2 py-1.5"
+            >
               {approvedVersions.map((v) => (
                 <option key={v} value={v}>
                   Version {v}
@@ -88,9 +103,21 @@ export function IssuePanel({ sheetId, approvedVersions, nextRevision, pendingJob
             <label htmlFor="issue-password" className="block text-sm font-semibold">
               Your password (signs as issued)
             </label>
-            <input id="issue-password" type="password" autoComplete="current-password" value={password} onChange={(e) => setPassword(e.target.value)} required className="rounded border border-rule-strong bg-surface px-2 py-1.5" />
+            <input
+              id="issue-password"
+              type="password"
+              autoComplete="current-password"
+              value={password}
+              onChange={(e) => setPassword(e.target.value)}
+              required
+              className="rounded border border-rule-strong bg-surface px-2 py-1.5"
+            />
           </div>
-          <button type="submit" disabled={busy || !password} className="rounded bg-accent px-4 py-2 font-semibold text-surface hover:bg-accent-hover disabled:opacity-60">
+          <button
+            type="submit"
+            disabled={busy || !password}
+            className="rounded bg-accent px-4 py-2 font-semibold text-surface hover:bg-accent-hover disabled:opacity-60"
+          >
             {busy ? 'Signing…' : `Issue as revision ${nextRevision}`}
           </button>
         </form>
@@ -103,13 +130,28 @@ export function IssuePanel({ sheetId, approvedVersions, nextRevision, pendingJob
       {jobId ? (
         <div role="status" aria-live="polite" className="space-y-2 rounded border border-rule bg-paper p-3 text-sm">
           <p className="font-semibold">
-            Revision {job?.revision ?? nextRevision}: {job ? (job.state === 'failed' ? 'not issued' : STEP_LABELS[job.step] ?? job.step) : 'Waiting for the issuing service'}
+            Revision {job?.revision ?? nextRevision}:{' '}
+            {job
+              ? job.state === 'failed'
+                ? 'not issued'
+                : (STEP_LABELS[job.step] ?? job.step)
+              : 'Waiting for the issuing service'}
           </p>
-          <progress max={STEPS.length - 1} value={Math.max(0, stepIndex)} aria-label="Issuing progress" className="w-full" />
-          {job?.state === 'failed' ? <p className="text-fail">Issuing failed and nothing was recorded: {job.error}</p> : null}
+          <progress
+            max={STEPS.length - 1}
+            value={Math.max(0, stepIndex)}
+            aria-label="Issuing progress"
+            className="w-full"
+          />
+          {job?.state === 'failed' ? (
+            <p className="text-fail">Issuing failed and nothing was recorded: {job.error}</p>
+          ) : null}
           {job?.state === 'done' && job.revisionId ? (
             <p>
-              Issued. <a href={`/api/revisions/${job.revisionId}/pdf`} download className="font-semibold text-accent underline">Download the signed PDF</a>{' '}
+              Issued.{' '}
+              <a href={`/api/revisions/${job.revisionId}/pdf`} download className="font-semibold text-accent underline">
+                Download the signed PDF
+              </a>{' '}
               (verification code <span className="font-mono">{job.verificationCode}</span>).
             </p>
           ) : null}

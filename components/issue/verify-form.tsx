@@ -51,18 +51,35 @@ export function VerifyForm() {
             The PDF you were given
           </label>
           <input id="verify-file" name="verify-file" type="file" accept="application/pdf,.pdf" className="text-sm" />
-          <button type="submit" disabled={state.kind === 'busy'} className="block rounded bg-accent px-4 py-2 font-semibold text-surface hover:bg-accent-hover disabled:opacity-60">
+          <button
+            type="submit"
+            disabled={state.kind === 'busy'}
+            className="block rounded bg-accent px-4 py-2 font-semibold text-surface hover:bg-accent-hover disabled:opacity-60"
+          >
             Check the file
           </button>
-          <p className="text-xs text-ink-muted">The file is compared by its SHA-256 with the register, and its embedded signature is checked. It is not kept.</p>
+          <p className="text-xs text-ink-muted">
+            The file is compared by its SHA-256 with the register, and its embedded signature is checked. It is not
+            kept.
+          </p>
         </form>
         <form onSubmit={onCode} className="space-y-2 rounded border border-rule bg-surface p-4">
           <h2 className="text-lg font-bold">Look up a verification code</h2>
           <label htmlFor="verify-code" className="block text-sm font-semibold">
             Verification code (printed on every issued PDF)
           </label>
-          <input id="verify-code" name="verify-code" autoComplete="off" placeholder="K7QF-2M9D-XW4T" className="w-full rounded border border-rule-strong bg-surface px-3 py-2 font-mono" />
-          <button type="submit" disabled={state.kind === 'busy'} className="rounded bg-accent px-4 py-2 font-semibold text-surface hover:bg-accent-hover disabled:opacity-60">
+          <input
+            id="verify-code"
+            name="verify-code"
+            autoComplete="off"
+            placeholder="K7QF-2M9D-XW4T"
+            className="w-full rounded border border-rule-strong bg-surface px-3 py-2 font-mono"
+          />
+          <button
+            type="submit"
+            disabled={state.kind === 'busy'}
+            className="rounded bg-accent px-4 py-2 font-semibold text-surface hover:bg-accent-hover disabled:opacity-60"
+          >
             Look it up
           </button>
         </form>
@@ -75,7 +92,10 @@ export function VerifyForm() {
           </p>
         ) : null}
         {answer ? (
-          <section aria-labelledby="verify-answer" className={`space-y-3 rounded border-2 p-4 ${answer.authentic && r?.status === 'current' ? 'border-pass bg-pass-soft' : answer.authentic ? 'border-caution-rule bg-caution-soft' : 'border-fail bg-fail-soft'}`}>
+          <section
+            aria-labelledby="verify-answer"
+            className={`space-y-3 rounded border-2 p-4 ${answer.authentic && r?.status === 'current' ? 'border-pass bg-pass-soft' : answer.authentic ? 'border-caution-rule bg-caution-soft' : 'border-fail bg-fail-soft'}`}
+          >
             <h2 id="verify-answer" className="text-lg font-bold">
               {answer.authentic && answer.checks.stampedCopy
                 ? `Authentic stamped copy of revision ${r?.revision}, ${r?.status}`
@@ -112,12 +132,31 @@ export function VerifyForm() {
             ) : null}
             {answer.sha256 ? (
               <ul className="text-sm">
-                <li>SHA-256 of your file: <span className="break-all font-mono text-xs">{answer.sha256}</span></li>
+                <li>
+                  SHA-256 of your file: <span className="break-all font-mono text-xs">{answer.sha256}</span>
+                </li>
                 <li>In the register: {answer.checks.hashInRegister ? 'yes' : 'no'}</li>
-                <li>Embedded signature: {answer.checks.signatureValid === null ? 'none' : answer.checks.signatureValid ? 'valid, covering the whole file' : 'not valid'}</li>
-                <li>Signed by the organisation&apos;s certificate: {answer.checks.signedByOrganisation === null ? '—' : answer.checks.signedByOrganisation ? 'yes' : 'no'}</li>
+                <li>
+                  Embedded signature:{' '}
+                  {answer.checks.signatureValid === null
+                    ? 'none'
+                    : answer.checks.signatureValid
+                      ? 'valid, covering the whole file'
+                      : 'not valid'}
+                </li>
+                <li>
+                  Signed by the organisation&apos;s certificate:{' '}
+                  {answer.checks.signedByOrganisation === null
+                    ? '—'
+                    : answer.checks.signedByOrganisation
+                      ? 'yes'
+                      : 'no'}
+                </li>
                 {answer.checks.stampedCopy ? (
-                  <li>This is a stamped copy made for reading: the issued original, byte for byte, with a stamp added after it and signed by document control (the original&apos;s signature still verifies).</li>
+                  <li>
+                    This is a stamped copy made for reading: the issued original, byte for byte, with a stamp added
+                    after it and signed by document control (the original&apos;s signature still verifies).
+                  </li>
                 ) : null}
               </ul>
             ) : null}

@@ -15,7 +15,12 @@ function MessageText({ text }: { text: string }) {
     <p className="mt-3 whitespace-pre-wrap break-words text-sm">
       {splitLinks(text).map((part, i) =>
         'href' in part ? (
-          <a key={i} href={part.href} rel="noreferrer" className="break-all font-semibold text-accent underline hover:text-accent-hover">
+          <a
+            key={i}
+            href={part.href}
+            rel="noreferrer"
+            className="break-all font-semibold text-accent underline hover:text-accent-hover"
+          >
             {part.href}
           </a>
         ) : (
@@ -29,7 +34,11 @@ function MessageText({ text }: { text: string }) {
 function MessageCard({ message }: { message: CapturedMessage }) {
   const headingId = `message-${message.id}-subject`;
   return (
-    <article id={`message-${message.id}`} aria-labelledby={headingId} className="scroll-mt-4 rounded border border-rule bg-surface p-4">
+    <article
+      id={`message-${message.id}`}
+      aria-labelledby={headingId}
+      className="scroll-mt-4 rounded border border-rule bg-surface p-4"
+    >
       <h3 id={headingId} className="text-base font-bold">
         {message.subject || '(no subject)'}
       </h3>
@@ -63,12 +72,16 @@ export function DemoMailbox({ mailbox }: { mailbox: DemoMailboxData }) {
     <div className="space-y-8">
       <header>
         <h1 className="text-2xl font-bold">Demo mailbox</h1>
-        <div role="note" aria-label="About this mailbox" className="mt-4 max-w-prose rounded border-l-4 border-caution-rule bg-caution-soft px-4 py-3 text-caution">
+        <div
+          role="note"
+          aria-label="About this mailbox"
+          className="mt-4 max-w-prose rounded border-l-4 border-caution-rule bg-caution-soft px-4 py-3 text-caution"
+        >
           <p className="font-bold">These e-mails were never delivered</p>
           <p className="mt-1 text-sm">
-            This demo installation sends its e-mails (address confirmations, password resets, notifications) to a
-            local demo mail server, which keeps them here instead of delivering them. Nobody received them. They are
-            kept in memory only, newest first, and are gone when the demo stops.
+            This demo installation sends its e-mails (address confirmations, password resets, notifications) to a local
+            demo mail server, which keeps them here instead of delivering them. Nobody received them. They are kept in
+            memory only, newest first, and are gone when the demo stops.
           </p>
         </div>
       </header>
@@ -79,8 +92,8 @@ export function DemoMailbox({ mailbox }: { mailbox: DemoMailboxData }) {
             Sign in to read your mail
           </h2>
           <p className="mt-2 text-ink-muted">
-            The mailbox shows each person only the e-mails addressed to them (sign-in links among them), so it shows nothing to someone who is not signed in.
-            The demo accounts are listed on the sign-in page.
+            The mailbox shows each person only the e-mails addressed to them (sign-in links among them), so it shows
+            nothing to someone who is not signed in. The demo accounts are listed on the sign-in page.
           </p>
         </section>
       ) : mailbox.status === 'unavailable' ? (
@@ -120,9 +133,15 @@ export function DemoMailbox({ mailbox }: { mailbox: DemoMailboxData }) {
                 <caption className="sr-only">E-mails captured by the demo mail server, newest first</caption>
                 <thead>
                   <tr className="border-b border-rule-strong text-left">
-                    <th scope="col" className="py-2 pr-4">To</th>
-                    <th scope="col" className="py-2 pr-4">Subject</th>
-                    <th scope="col" className="py-2">Received</th>
+                    <th scope="col" className="py-2 pr-4">
+                      To
+                    </th>
+                    <th scope="col" className="py-2 pr-4">
+                      Subject
+                    </th>
+                    <th scope="col" className="py-2">
+                      Received
+                    </th>
                   </tr>
                 </thead>
                 <tbody>
@@ -130,7 +149,10 @@ export function DemoMailbox({ mailbox }: { mailbox: DemoMailboxData }) {
                     <tr key={m.id} className="border-b border-rule align-top">
                       <td className="break-all py-2 pr-4">{m.to.join(', ')}</td>
                       <th scope="row" className="py-2 pr-4 text-left font-normal">
-                        <a href={`#message-${m.id}`} className="font-semibold text-accent underline hover:text-accent-hover">
+                        <a
+                          href={`#message-${m.id}`}
+                          className="font-semibold text-accent underline hover:text-accent-hover"
+                        >
                           {m.subject || '(no subject)'}
                         </a>
                       </th>

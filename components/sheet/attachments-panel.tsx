@@ -20,7 +20,15 @@ export function useSheetAttachments(sheetId: string) {
   return useSWR<{ attachments: AttachmentInfo[] }>(`/api/sheets/${sheetId}/attachments`, fetchJson);
 }
 
-export function AttachmentsPanel({ sheetId, cited, onChange }: { sheetId: string; cited: Ref[]; onChange: (refs: Ref[]) => void }) {
+export function AttachmentsPanel({
+  sheetId,
+  cited,
+  onChange,
+}: {
+  sheetId: string;
+  cited: Ref[];
+  onChange: (refs: Ref[]) => void;
+}) {
   const { data, mutate } = useSheetAttachments(sheetId);
   const input = useRef<HTMLInputElement>(null);
   const [status, setStatus] = useState<{ kind: 'idle' | 'busy' | 'done' | 'error'; text?: string }>({ kind: 'idle' });
@@ -37,7 +45,9 @@ export function AttachmentsPanel({ sheetId, cited, onChange }: { sheetId: string
     setStatus({ kind: 'busy', text: `Uploading ${file.name}…` });
     const form = new FormData();
     form.append('file', file);
-    const response = await fetch(`/api/sheets/${sheetId}/attachments`, { method: 'POST', body: form }).catch(() => null);
+    const response = await fetch(`/api/sheets/${sheetId}/attachments`, { method: 'POST', body: form }).catch(
+      () => null,
+    );
     const answer = response ? await response.json().catch(() => ({})) : {};
     if (!response || !response.ok) {
       setStatus({ kind: 'error', text: answer?.error?.message ?? 'The upload did not reach the server.' });
@@ -47,11 +57,18 @@ export function AttachmentsPanel({ sheetId, cited, onChange }: { sheetId: string
     cite(info);
     await mutate();
     if (input.current) input.current.value = '';
-    const table = info.table ? ` Use it in cells as ${info.table.columns.map((c) => `${info.table!.name}.${c.name}${c.unit ? ` [${c.unit}]` : ''}`).join(', ')}.` : '';
-    setStatus({ kind: 'done', text: `${info.name} uploaded (SHA-256 ${info.sha256.slice(0, 12)}…) and cited in this version.${table}` });
+    const table = info.table
+      ? ` Use it in cells as ${info.table.columns.map((c) => `${info.table!.name}.${c.name}${c.unit ? ` [${c.unit}]` : ''}`).join(', ')}.`
+      : '';
+    setStatus({
+      kind: 'done',
+      text: `${info.name} uploaded (SHA-256 ${info.sha256.slice(0, 12)}…) and cited in this version.${table}`,
+    });
   }
 
-  const uncitedUploads = (data?.attachments ?? []).filter((a) => !cited.some((c) => c.name === a.name && c.sha256 === a.sha256));
+  const uncitedUploads = (data?.attachments ?? []).filter(
+    (a) => !cited.some((c) => c.name === a.name && c.sha256 === a.sha256),
+  );
 
   return (
     <section aria-labelledby="editor-attachments" className="space-y-3 rounded border border-rule bg-surface p-4">
@@ -59,14 +76,21 @@ export function AttachmentsPanel({ sheetId, cited, onChange }: { sheetId: string
         Attachments
       </h2>
       <p className="text-sm text-ink-muted">
-        Reference documents (PDF, PNG, JPEG) and data tables (CSV with a header row such as <code className="font-mono">energy [MeV], field [T]</code>). A data
-        table called <code className="font-mono">scan.csv</code> is used in cells as <code className="font-mono">scan.energy</code>, a list with its unit.
+        Reference documents (PDF, PNG, JPEG) and data tables (CSV with a header row such as{' '}
+        <code className="font-mono">energy [MeV], field [T]</code>). A data table called{' '}
+        <code className="font-mono">scan.csv</code> is used in cells as <code className="font-mono">scan.energy</code>,
+        a list with its unit.
       </p>
       <AttachmentList
         sheetId={sheetId}
         attachments={cited}
         actions={(a) => (
-          <button type="button" onClick={() => uncite(a)} className="rounded border border-rule px-2 py-1 text-xs" aria-label={`Stop citing ${a.name} in this version`}>
+          <button
+            type="button"
+            onClick={() => uncite(a)}
+            className="rounded border border-rule px-2 py-1 text-xs"
+            aria-label={`Stop citing ${a.name} in this version`}
+          >
             Remove
           </button>
         )}
@@ -79,7 +103,12 @@ export function AttachmentsPanel({ sheetId, cited, onChange }: { sheetId: string
               <li key={`${a.name}:${a.sha256}`} className="flex flex-wrap items-center gap-2">
                 <span>{a.name}</span>
                 <code className="font-mono text-xs text-ink-muted">{a.sha256.slice(0, 12)}…</code>
-                <button type="button" onClick={() => cite(a)} className="rounded border border-rule px-2 py-1 text-xs" aria-label={`Cite ${a.name} in this version`}>
+                <button
+                  type="button"
+                  onClick={() => cite(a)}
+                  className="rounded border border-rule px-2 py-1 text-xs"
+                  aria-label={`Cite ${a.name} in this version`}
+                >
                   Cite
                 </button>
               </li>
@@ -92,13 +121,28 @@ export function AttachmentsPanel({ sheetId, cited, onChange }: { sheetId: string
           <label htmlFor="att-file" className="block text-sm font-semibold">
             File to upload
           </label>
-          <input id="att-file" ref={input} type="file" accept=".pdf,.png,.jpg,.jpeg,.csv,application/pdf,image/png,image/jpeg,text/csv" className="text-sm" />
+          <input
+            id="att-file"
+            ref={input}
+            type="file"
+            accept=".pdf,.png,.jpg,.jpeg,.csv,application/pdf,image/png,image/jpeg,text/csv"
+            className="text-sm"
+          />
         </div>
-        <button type="button" onClick={upload} disabled={status.kind === 'busy'} className="rounded border border-rule-strong bg-surface px-3 py-2 text-sm font-semibold disabled:opacity-60">
+        <button
+          type="button"
+          onClick={upload}
+          disabled={status.kind === 'busy'}
+          className="rounded border border-rule-strong bg-surface px-3 py-2 text-sm font-semibold disabled:opacity-60"
+        >
           Upload the file
         </button>
       </div>
-      <p role={status.kind === 'error' ? 'alert' : 'status'} aria-live="polite" className={`text-sm ${status.kind === 'error' ? 'text-fail' : ''}`}>
+      <p
+        role={status.kind === 'error' ? 'alert' : 'status'}
+        aria-live="polite"
+        className={`text-sm ${status.kind === 'error' ? 'text-fail' : ''}`}
+      >
         {status.text ?? ''}
       </p>
     </section>

@@ -4,7 +4,17 @@ import { acceptCompletion, autocompletion, completionKeymap } from '@codemirror/
 import { defaultKeymap, history, historyKeymap } from '@codemirror/commands';
 import { bracketMatching, HighlightStyle, syntaxHighlighting } from '@codemirror/language';
 import { Annotation, Compartment, EditorState, RangeSet, StateEffect, StateField } from '@codemirror/state';
-import { Decoration, drawSelection, EditorView, gutter, GutterMarker, highlightSpecialChars, keymap, lineNumbers, ViewPlugin } from '@codemirror/view';
+import {
+  Decoration,
+  drawSelection,
+  EditorView,
+  gutter,
+  GutterMarker,
+  highlightSpecialChars,
+  keymap,
+  lineNumbers,
+  ViewPlugin,
+} from '@codemirror/view';
 import { useEffect, useRef } from 'react';
 import { calcCompletionSource, type NameAbove } from '@/lib/calc/editor-completions';
 import { calcLanguage, TOKEN_STYLES, TOKEN_TAGS, type CalcTokenKind } from '@/lib/calc/editor-language';
@@ -79,10 +89,14 @@ class ErrorMarker extends GutterMarker {
 
 function errorMarkers(state: EditorState): RangeSet<GutterMarker> {
   const doc = state.doc;
-  const errors = [...state.field(lineErrorsField)].filter((e) => e.line >= 1 && e.line <= doc.lines).sort((a, b) => a.line - b.line);
+  const errors = [...state.field(lineErrorsField)]
+    .filter((e) => e.line >= 1 && e.line <= doc.lines)
+    .sort((a, b) => a.line - b.line);
   const seen = new Set<number>();
   return RangeSet.of(
-    errors.filter((e) => !seen.has(e.line) && seen.add(e.line)).map((e) => new ErrorMarker(e.line, e.message).range(doc.line(e.line).from)),
+    errors
+      .filter((e) => !seen.has(e.line) && seen.add(e.line))
+      .map((e) => new ErrorMarker(e.line, e.message).range(doc.line(e.line).from)),
   );
 }
 
@@ -98,8 +112,10 @@ const gutterAccessibility = ViewPlugin.fromClass(
       this.apply();
     }
     apply() {
-      for (const area of this.view.dom.querySelectorAll('.cm-gutters')) if (area.getAttribute('aria-hidden') === 'true') area.removeAttribute('aria-hidden');
-      for (const g of this.view.dom.querySelectorAll('.cm-gutter:not(.cm-calc-error-gutter)')) if (!g.hasAttribute('aria-hidden')) g.setAttribute('aria-hidden', 'true');
+      for (const area of this.view.dom.querySelectorAll('.cm-gutters'))
+        if (area.getAttribute('aria-hidden') === 'true') area.removeAttribute('aria-hidden');
+      for (const g of this.view.dom.querySelectorAll('.cm-gutter:not(.cm-calc-error-gutter)'))
+        if (!g.hasAttribute('aria-hidden')) g.setAttribute('aria-hidden', 'true');
     }
   },
 );
@@ -108,7 +124,11 @@ const errorLine = Decoration.line({ class: 'cm-calc-error-line' });
 const lineErrorExtensions = [
   lineErrorsField,
   gutterAccessibility,
-  gutter({ class: 'cm-calc-error-gutter', markers: (view) => errorMarkers(view.state), initialSpacer: () => new ErrorMarker(1, '') }),
+  gutter({
+    class: 'cm-calc-error-gutter',
+    markers: (view) => errorMarkers(view.state),
+    initialSpacer: () => new ErrorMarker(1, ''),
+  }),
   EditorView.decorations.compute([lineErrorsField, 'doc'], (state) => {
     const markers = errorMarkers(state);
     const lines: ReturnType<typeof errorLine.range>[] = [];
@@ -147,14 +167,20 @@ const theme = EditorView.theme({
   },
   '.cm-calc-error-marker:focus-visible': { outline: `3px solid ${tokens.focus}`, outlineOffset: '1px' },
   '.cm-calc-error-line': { backgroundColor: tokens['fail-soft'] },
-  '&.cm-focused .cm-selectionBackground, .cm-selectionBackground, ::selection': { backgroundColor: tokens['accent-soft'] },
+  '&.cm-focused .cm-selectionBackground, .cm-selectionBackground, ::selection': {
+    backgroundColor: tokens['accent-soft'],
+  },
   '&.cm-focused .cm-matchingBracket': { backgroundColor: tokens['accent-soft'], outline: `1px solid ${tokens.accent}` },
   '&.cm-focused .cm-nonmatchingBracket': { backgroundColor: tokens['fail-soft'], color: tokens.fail },
   '.cm-tooltip': { border: `1px solid ${tokens['rule-strong']}`, backgroundColor: tokens.surface, color: tokens.ink },
   '.cm-tooltip-autocomplete > ul': { fontFamily: 'var(--font-mono), ui-monospace, monospace', maxHeight: '14rem' },
   '.cm-tooltip-autocomplete > ul > li[aria-selected]': { backgroundColor: tokens.accent, color: tokens.surface },
   '.cm-completionDetail': { color: 'inherit', fontStyle: 'normal', marginLeft: '0.5rem' },
-  '.cm-completionInfo': { maxWidth: '24rem', padding: '0.5rem 0.75rem', fontFamily: 'var(--font-text), system-ui, sans-serif' },
+  '.cm-completionInfo': {
+    maxWidth: '24rem',
+    padding: '0.5rem 0.75rem',
+    fontFamily: 'var(--font-text), system-ui, sans-serif',
+  },
 });
 
 /** Marks changes that come from the `value` prop, so they are not echoed to onChange. */
@@ -166,7 +192,17 @@ const External = Annotation.define<boolean>();
  * undo/redo and the default keymap. Tab moves focus out (it accepts a completion while the list is
  * open; Escape then Tab always leaves).
  */
-export function CalcEditor({ value, onChange, label, namesAbove = [], lineErrors, readOnly = false, describedBy, minLines = 3, className }: CalcEditorProps) {
+export function CalcEditor({
+  value,
+  onChange,
+  label,
+  namesAbove = [],
+  lineErrors,
+  readOnly = false,
+  describedBy,
+  minLines = 3,
+  className,
+}: CalcEditorProps) {
   const host = useRef<HTMLDivElement>(null);
   const view = useRef<EditorView | null>(null);
   const onChangeRef = useRef(onChange);
@@ -227,7 +263,8 @@ export function CalcEditor({ value, onChange, label, namesAbove = [], lineErrors
     const v = view.current;
     if (!v) return;
     const current = v.state.doc.toString();
-    if (current !== value) v.dispatch({ changes: { from: 0, to: current.length, insert: value }, annotations: External.of(true) });
+    if (current !== value)
+      v.dispatch({ changes: { from: 0, to: current.length, insert: value }, annotations: External.of(true) });
   }, [value]);
 
   // The markers follow the latest results; a key of their content avoids dispatching on every render.
@@ -241,10 +278,18 @@ export function CalcEditor({ value, onChange, label, namesAbove = [], lineErrors
     if (!v) return;
     const { readOnly: ro, attributes: attrs } = compartments.current;
     v.dispatch({
-      effects: [ro.reconfigure([EditorState.readOnly.of(readOnly)]), attrs.reconfigure(EditorView.contentAttributes.of(attributes()))],
+      effects: [
+        ro.reconfigure([EditorState.readOnly.of(readOnly)]),
+        attrs.reconfigure(EditorView.contentAttributes.of(attributes())),
+      ],
     });
     // eslint-disable-next-line react-hooks/exhaustive-deps
   }, [readOnly, label, describedBy]);
 
-  return <div ref={host} className={`overflow-hidden rounded border border-rule-strong bg-surface focus-within:outline-3 focus-within:outline-offset-2 focus-within:outline-focus ${className ?? ''}`} />;
+  return (
+    <div
+      ref={host}
+      className={`overflow-hidden rounded border border-rule-strong bg-surface focus-within:outline-3 focus-within:outline-offset-2 focus-within:outline-focus ${className ?? ''}`}
+    />
+  );
 }

@@ -47,7 +47,11 @@ export function ImportSheetForm({ projectId, projectCode }: { projectId: string;
     if (!file) return;
     setState({ busy: true });
     const body = await file.text();
-    const response = await fetch(`/api/projects/${projectId}/sheets/import/preview`, { method: 'POST', headers: { 'content-type': 'application/json' }, body });
+    const response = await fetch(`/api/projects/${projectId}/sheets/import/preview`, {
+      method: 'POST',
+      headers: { 'content-type': 'application/json' },
+      body,
+    });
     const answer = await response.json().catch(() => ({}));
     if (!response.ok) {
       setState({ error: answer.error?.message ?? `The server answered ${response.status}.` });
@@ -64,7 +68,11 @@ export function ImportSheetForm({ projectId, projectCode }: { projectId: string;
     if (text === null) return;
     setState({ busy: true });
     const query = new URLSearchParams({ title: title.trim() });
-    const response = await fetch(`/api/projects/${projectId}/sheets/import?${query}`, { method: 'POST', headers: { 'content-type': 'application/json' }, body: text });
+    const response = await fetch(`/api/projects/${projectId}/sheets/import?${query}`, {
+      method: 'POST',
+      headers: { 'content-type': 'application/json' },
+      body: text,
+    });
     const answer = await response.json().catch(() => ({}));
     if (!response.ok) {
       setState({ error: answer.error?.message ?? `The server answered ${response.status}.` });
@@ -93,19 +101,27 @@ export function ImportSheetForm({ projectId, projectCode }: { projectId: string;
         Nothing is created until you confirm: the file is checked first, and what it holds is shown here.
       </p>
       {preview ? (
-        <form onSubmit={confirm} aria-labelledby={`${id}-confirm`} className="space-y-2 rounded border border-rule-strong bg-paper p-3 text-sm">
+        <form
+          onSubmit={confirm}
+          aria-labelledby={`${id}-confirm`}
+          className="space-y-2 rounded border border-rule-strong bg-paper p-3 text-sm"
+        >
           <h3 id={`${id}-confirm`} className="font-bold">
             Confirm the import
           </h3>
           <p>
-            {preview.calcCells} calculation cell{preview.calcCells === 1 ? '' : 's'} and {preview.textCells} text cell{preview.textCells === 1 ? '' : 's'};{' '}
-            {preview.significantFigures} significant figures; {preview.displayUnits === 'trade' ? 'units of the trade' : 'SI units'} shown
+            {preview.calcCells} calculation cell{preview.calcCells === 1 ? '' : 's'} and {preview.textCells} text cell
+            {preview.textCells === 1 ? '' : 's'}; {preview.significantFigures} significant figures;{' '}
+            {preview.displayUnits === 'trade' ? 'units of the trade' : 'SI units'} shown
             {preview.safetyRelated ? '; marked safety-related' : ''}.
           </p>
           {preview.exportedFrom ? (
             <p className={preview.unchangedSinceExport ? '' : 'font-semibold text-caution'}>
-              Exported from {preview.exportedFrom.sheet} version {preview.exportedFrom.version} (SHA-256 <span className="font-mono">{preview.exportedFrom.sha256.slice(0, 12)}…</span>):{' '}
-              {preview.unchangedSinceExport ? 'the content is unchanged since export.' : 'the content differs from that version: it was edited after export.'}
+              Exported from {preview.exportedFrom.sheet} version {preview.exportedFrom.version} (SHA-256{' '}
+              <span className="font-mono">{preview.exportedFrom.sha256.slice(0, 12)}…</span>):{' '}
+              {preview.unchangedSinceExport
+                ? 'the content is unchanged since export.'
+                : 'the content differs from that version: it was edited after export.'}
             </p>
           ) : (
             <p>The file does not say which sheet it was exported from.</p>
@@ -115,10 +131,18 @@ export function ImportSheetForm({ projectId, projectCode }: { projectId: string;
               <caption className="text-left font-semibold">Attachments in the file</caption>
               <thead>
                 <tr className="border-b border-rule-strong">
-                  <th scope="col" className="py-1 pr-2">Name</th>
-                  <th scope="col" className="py-1 pr-2">Size</th>
-                  <th scope="col" className="py-1 pr-2">SHA-256</th>
-                  <th scope="col" className="py-1">Imported</th>
+                  <th scope="col" className="py-1 pr-2">
+                    Name
+                  </th>
+                  <th scope="col" className="py-1 pr-2">
+                    Size
+                  </th>
+                  <th scope="col" className="py-1 pr-2">
+                    SHA-256
+                  </th>
+                  <th scope="col" className="py-1">
+                    Imported
+                  </th>
                 </tr>
               </thead>
               <tbody>
@@ -127,7 +151,9 @@ export function ImportSheetForm({ projectId, projectCode }: { projectId: string;
                     <td className="py-1 pr-2 break-all">{a.name}</td>
                     <td className="py-1 pr-2 whitespace-nowrap">{formatSize(a.size)}</td>
                     <td className="py-1 pr-2 font-mono">{a.sha256.slice(0, 16)}…</td>
-                    <td className={`py-1 ${a.carried ? 'text-pass' : 'font-semibold text-caution'}`}>{a.carried ? 'yes: bytes match the SHA-256' : 'no: the file lists it without its bytes'}</td>
+                    <td className={`py-1 ${a.carried ? 'text-pass' : 'font-semibold text-caution'}`}>
+                      {a.carried ? 'yes: bytes match the SHA-256' : 'no: the file lists it without its bytes'}
+                    </td>
                   </tr>
                 ))}
               </tbody>
@@ -135,9 +161,10 @@ export function ImportSheetForm({ projectId, projectCode }: { projectId: string;
           ) : null}
           {notCarried.length > 0 ? (
             <p className="font-semibold text-caution">
-              {notCarried.length === 1 ? `${notCarried[0].name} is` : `${notCarried.length} attachments are`} not in the file: cells that read{' '}
-              {notCarried.length === 1 ? 'it' : 'them'} will show errors until {notCarried.length === 1 ? 'it is' : 'they are'} uploaded again. Export with the attachments to bring
-              them along.
+              {notCarried.length === 1 ? `${notCarried[0].name} is` : `${notCarried.length} attachments are`} not in the
+              file: cells that read {notCarried.length === 1 ? 'it' : 'them'} will show errors until{' '}
+              {notCarried.length === 1 ? 'it is' : 'they are'} uploaded again. Export with the attachments to bring them
+              along.
             </p>
           ) : null}
           <div>
@@ -154,10 +181,18 @@ export function ImportSheetForm({ projectId, projectCode }: { projectId: string;
             />
           </div>
           <div className="flex flex-wrap gap-2">
-            <button type="submit" disabled={state.busy || !title.trim()} className="rounded bg-accent px-3 py-1.5 font-semibold text-surface hover:bg-accent-hover disabled:opacity-60">
+            <button
+              type="submit"
+              disabled={state.busy || !title.trim()}
+              className="rounded bg-accent px-3 py-1.5 font-semibold text-surface hover:bg-accent-hover disabled:opacity-60"
+            >
               Create the sheet from this file
             </button>
-            <button type="button" onClick={reset} className="rounded border border-rule-strong px-3 py-1.5 font-semibold">
+            <button
+              type="button"
+              onClick={reset}
+              className="rounded border border-rule-strong px-3 py-1.5 font-semibold"
+            >
               Cancel
             </button>
           </div>

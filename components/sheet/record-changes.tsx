@@ -21,7 +21,12 @@ function fileSize(bytes: number): string {
   return kib < 1024 ? `${kib.toFixed(1)} KiB (${bytes} bytes)` : `${(kib / 1024).toFixed(1)} MiB (${bytes} bytes)`;
 }
 
-const COLUMN_WORD = { added: 'added', removed: 'removed', unitChanged: 'unit changed', unchanged: 'unchanged' } as const;
+const COLUMN_WORD = {
+  added: 'added',
+  removed: 'removed',
+  unitChanged: 'unit changed',
+  unchanged: 'unchanged',
+} as const;
 
 /** The row/column diff of a CSV data table, as a table of the rows that changed. */
 export function TableDiffView({ name, diff, first }: { name: string; diff: TableDiff; first: boolean }) {
@@ -45,7 +50,8 @@ export function TableDiffView({ name, diff, first }: { name: string; diff: Table
               Column <span className="font-mono">{c.name}</span> {COLUMN_WORD[c.status]}
               {c.status === 'unitChanged' ? (
                 <>
-                  : <span className="font-mono">{c.oldUnit ?? 'no unit'}</span> → <span className="font-mono">{c.newUnit ?? 'no unit'}</span>
+                  : <span className="font-mono">{c.oldUnit ?? 'no unit'}</span> →{' '}
+                  <span className="font-mono">{c.newUnit ?? 'no unit'}</span>
                 </>
               ) : c.status === 'added' ? (
                 <span className="font-mono">{unit(c.newUnit)}</span>
@@ -62,8 +68,12 @@ export function TableDiffView({ name, diff, first }: { name: string; diff: Table
             <caption className="sr-only">Rows of {name} that changed</caption>
             <thead>
               <tr className="border-b border-rule-strong text-left">
-                <th scope="col" className="py-1 pr-3 font-sans">Row</th>
-                <th scope="col" className="py-1 pr-3 font-sans">Change</th>
+                <th scope="col" className="py-1 pr-3 font-sans">
+                  Row
+                </th>
+                <th scope="col" className="py-1 pr-3 font-sans">
+                  Change
+                </th>
                 {diff.columns.map((c) => (
                   <th key={c.name} scope="col" className="py-1 pr-3">
                     {c.name}
@@ -78,7 +88,11 @@ export function TableDiffView({ name, diff, first }: { name: string; diff: Table
                   <th scope="row" className="py-1 pr-3 text-left font-normal">
                     {r.oldRow ?? '—'} → {r.newRow ?? '—'}
                   </th>
-                  <td className={`py-1 pr-3 font-sans font-semibold ${r.status === 'added' ? 'text-pass' : r.status === 'removed' ? 'text-fail' : 'text-caution'}`}>{r.status}</td>
+                  <td
+                    className={`py-1 pr-3 font-sans font-semibold ${r.status === 'added' ? 'text-pass' : r.status === 'removed' ? 'text-fail' : 'text-caution'}`}
+                  >
+                    {r.status}
+                  </td>
                   {diff.columns.map((c, k) => {
                     const o = r.old?.[k] ?? null;
                     const v = r.new?.[k] ?? null;
@@ -86,10 +100,11 @@ export function TableDiffView({ name, diff, first }: { name: string; diff: Table
                       <td key={c.name} className="py-1 pr-3">
                         {r.status === 'changed' && r.changedColumns.includes(c.name) ? (
                           <>
-                            <del className="bg-fail-soft text-fail">{o}</del> <ins className="bg-pass-soft text-pass no-underline">{v}</ins>
+                            <del className="bg-fail-soft text-fail">{o}</del>{' '}
+                            <ins className="bg-pass-soft text-pass no-underline">{v}</ins>
                           </>
                         ) : r.status === 'removed' ? (
-                          o ?? ''
+                          (o ?? '')
                         ) : (
                           (v ?? o ?? '')
                         )}
@@ -102,7 +117,9 @@ export function TableDiffView({ name, diff, first }: { name: string; diff: Table
           </table>
         </div>
       ) : null}
-      {diff.truncated ? <p className="text-xs text-ink-muted">Only the first {diff.rows.length} row changes are listed.</p> : null}
+      {diff.truncated ? (
+        <p className="text-xs text-ink-muted">Only the first {diff.rows.length} row changes are listed.</p>
+      ) : null}
     </div>
   );
 }
@@ -141,7 +158,10 @@ function ItemList<T>({
         <ul className="space-y-1">
           {items.map((i, n) => (
             <li key={`${i.key}:${n}`}>
-              <span hidden={first} className={`mr-1 rounded px-1.5 text-xs font-bold ${i.status === 'added' ? 'bg-pass-soft text-pass' : i.status === 'removed' ? 'bg-fail-soft text-fail' : 'bg-caution-soft text-caution'}`}>
+              <span
+                hidden={first}
+                className={`mr-1 rounded px-1.5 text-xs font-bold ${i.status === 'added' ? 'bg-pass-soft text-pass' : i.status === 'removed' ? 'bg-fail-soft text-fail' : 'bg-caution-soft text-caution'}`}
+              >
                 {STATUS_WORD[i.status]}
               </span>
               {i.status === 'changed' ? (
@@ -164,7 +184,13 @@ function ItemList<T>({
  * at a first check (`first`), the whole record as it stands.
  */
 export function RecordChanges({ record, first }: { record: RecordComparison; first: boolean }) {
-  const none = record.fields.length + record.inputs.length + record.assumptions.length + record.references.length + record.attachments.length === 0;
+  const none =
+    record.fields.length +
+      record.inputs.length +
+      record.assumptions.length +
+      record.references.length +
+      record.attachments.length ===
+    0;
   if (none) return <p className="text-sm text-ink-muted">No change to the calculation record or the attachments.</p>;
   return (
     <dl className="grid gap-x-6 gap-y-3 text-sm sm:grid-cols-[10rem_minmax(0,1fr)]">
@@ -183,7 +209,8 @@ export function RecordChanges({ record, first }: { record: RecordComparison; fir
                 <span className="font-mono">
                   <VisibleText text={plain(f.old)} />
                 </span>{' '}
-                → <span className="font-mono">
+                →{' '}
+                <span className="font-mono">
                   <VisibleText text={plain(f.new)} />
                 </span>
               </>
@@ -197,16 +224,28 @@ export function RecordChanges({ record, first }: { record: RecordComparison; fir
         first={first}
         render={(i) => (
           <>
-            <VisibleText text={i.name} />: <span className="font-mono">
+            <VisibleText text={i.name} />:{' '}
+            <span className="font-mono">
               <VisibleText text={i.value} />
             </span>{' '}
-            — <VisibleText text={i.source} />, revision <span className="font-semibold">
+            — <VisibleText text={i.source} />, revision{' '}
+            <span className="font-semibold">
               <VisibleText text={i.sourceRevision} />
             </span>
           </>
         )}
       />
-      <ItemList title="Assumptions" first={first} items={record.assumptions} render={(a) => <><VisibleText text={a.text} />{a.needsVerification ? ' (to be verified)' : ' (verified)'}</>} />
+      <ItemList
+        title="Assumptions"
+        first={first}
+        items={record.assumptions}
+        render={(a) => (
+          <>
+            <VisibleText text={a.text} />
+            {a.needsVerification ? ' (to be verified)' : ' (verified)'}
+          </>
+        )}
+      />
       <ItemList title="References" first={first} items={record.references} render={(r) => <VisibleText text={r} />} />
       {record.attachments.length ? (
         <div className="contents">
@@ -214,8 +253,14 @@ export function RecordChanges({ record, first }: { record: RecordComparison; fir
           <dd className="min-w-0">
             <ul className="space-y-2">
               {record.attachments.map((a, n) => (
-                <li key={`${a.key}:${n}`} aria-label={`Attachment ${a.key}, ${a.status === 'changed' ? 'replaced' : a.status}`}>
-                  <span hidden={first} className={`mr-1 rounded px-1.5 text-xs font-bold ${a.status === 'added' ? 'bg-pass-soft text-pass' : a.status === 'removed' ? 'bg-fail-soft text-fail' : 'bg-caution-soft text-caution'}`}>
+                <li
+                  key={`${a.key}:${n}`}
+                  aria-label={`Attachment ${a.key}, ${a.status === 'changed' ? 'replaced' : a.status}`}
+                >
+                  <span
+                    hidden={first}
+                    className={`mr-1 rounded px-1.5 text-xs font-bold ${a.status === 'added' ? 'bg-pass-soft text-pass' : a.status === 'removed' ? 'bg-fail-soft text-fail' : 'bg-caution-soft text-caution'}`}
+                  >
                     {a.status === 'changed' ? 'Replaced' : STATUS_WORD[a.status]}
                   </span>
                   {a.status === 'changed' ? (

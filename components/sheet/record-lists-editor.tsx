@@ -8,26 +8,75 @@ type Assumption = CalculationRecord['assumptions'][number];
 const field = 'w-full rounded border border-rule-strong bg-surface px-2 py-1 text-sm';
 
 /** Design inputs (each with its source and the source's revision) and assumptions (each marked whether it still needs verification). */
-export function RecordListsEditor({ record, onChange }: { record: CalculationRecord; onChange: (patch: Partial<CalculationRecord>) => void }) {
-  const setInput = (i: number, patch: Partial<Input>) => onChange({ inputs: record.inputs.map((x, j) => (j === i ? { ...x, ...patch } : x)) });
-  const setAssumption = (i: number, patch: Partial<Assumption>) => onChange({ assumptions: record.assumptions.map((x, j) => (j === i ? { ...x, ...patch } : x)) });
+export function RecordListsEditor({
+  record,
+  onChange,
+}: {
+  record: CalculationRecord;
+  onChange: (patch: Partial<CalculationRecord>) => void;
+}) {
+  const setInput = (i: number, patch: Partial<Input>) =>
+    onChange({ inputs: record.inputs.map((x, j) => (j === i ? { ...x, ...patch } : x)) });
+  const setAssumption = (i: number, patch: Partial<Assumption>) =>
+    onChange({ assumptions: record.assumptions.map((x, j) => (j === i ? { ...x, ...patch } : x)) });
   return (
     <div className="space-y-4">
       <fieldset className="space-y-2">
         <legend className="text-sm font-semibold">Design inputs</legend>
         {record.inputs.map((input, i) => (
           <div key={i} className="grid gap-2 rounded border border-rule p-2 sm:grid-cols-[1fr_1fr_1.5fr_0.6fr_auto]">
-            <input aria-label={`Input ${i + 1} name`} value={input.name} onChange={(e) => setInput(i, { name: e.target.value })} className={field} placeholder="name" />
-            <input aria-label={`Input ${i + 1} value`} value={input.value} onChange={(e) => setInput(i, { value: e.target.value })} className={`${field} font-mono`} placeholder="value with unit" />
-            <input aria-label={`Input ${i + 1} cell quantity it feeds`} value={input.cell ?? ''} onChange={(e) => setInput(i, { cell: e.target.value || undefined })} className={`${field} w-24 font-mono`} placeholder="cell name" />
-            <input aria-label={`Input ${i + 1} source`} value={input.source} onChange={(e) => setInput(i, { source: e.target.value })} className={field} placeholder="source document" />
-            <input aria-label={`Input ${i + 1} source revision`} value={input.sourceRevision} onChange={(e) => setInput(i, { sourceRevision: e.target.value })} className={field} placeholder="revision" />
-            <button type="button" onClick={() => onChange({ inputs: record.inputs.filter((_, j) => j !== i) })} className="rounded border border-fail px-2 text-sm text-fail" aria-label={`Remove input ${i + 1}`}>
+            <input
+              aria-label={`Input ${i + 1} name`}
+              value={input.name}
+              onChange={(e) => setInput(i, { name: e.target.value })}
+              className={field}
+              placeholder="name"
+            />
+            <input
+              aria-label={`Input ${i + 1} value`}
+              value={input.value}
+              onChange={(e) => setInput(i, { value: e.target.value })}
+              className={`${field} font-mono`}
+              placeholder="value with unit"
+            />
+            <input
+              aria-label={`Input ${i + 1} cell quantity it feeds`}
+              value={input.cell ?? ''}
+              onChange={(e) => setInput(i, { cell: e.target.value || undefined })}
+              className={`${field} w-24 font-mono`}
+              placeholder="cell name"
+            />
+            <input
+              aria-label={`Input ${i + 1} source`}
+              value={input.source}
+              onChange={(e) => setInput(i, { source: e.target.value })}
+              className={field}
+              placeholder="source document"
+            />
+            <input
+              aria-label={`Input ${i + 1} source revision`}
+              value={input.sourceRevision}
+              onChange={(e) => setInput(i, { sourceRevision: e.target.value })}
+              className={field}
+              placeholder="revision"
+            />
+            <button
+              type="button"
+              onClick={() => onChange({ inputs: record.inputs.filter((_, j) => j !== i) })}
+              className="rounded border border-fail px-2 text-sm text-fail"
+              aria-label={`Remove input ${i + 1}`}
+            >
               Remove
             </button>
           </div>
         ))}
-        <button type="button" onClick={() => onChange({ inputs: [...record.inputs, { name: '', value: '', source: '', sourceRevision: '' }] })} className="rounded border border-rule-strong bg-surface px-3 py-1 text-sm font-semibold">
+        <button
+          type="button"
+          onClick={() =>
+            onChange({ inputs: [...record.inputs, { name: '', value: '', source: '', sourceRevision: '' }] })
+          }
+          className="rounded border border-rule-strong bg-surface px-3 py-1 text-sm font-semibold"
+        >
           Add a design input
         </button>
       </fieldset>
@@ -35,17 +84,35 @@ export function RecordListsEditor({ record, onChange }: { record: CalculationRec
         <legend className="text-sm font-semibold">Assumptions</legend>
         {record.assumptions.map((a, i) => (
           <div key={i} className="flex flex-wrap items-center gap-2 rounded border border-rule p-2">
-            <input aria-label={`Assumption ${i + 1}`} value={a.text} onChange={(e) => setAssumption(i, { text: e.target.value })} className={`${field} min-w-64 flex-1`} />
+            <input
+              aria-label={`Assumption ${i + 1}`}
+              value={a.text}
+              onChange={(e) => setAssumption(i, { text: e.target.value })}
+              className={`${field} min-w-64 flex-1`}
+            />
             <label className="flex items-center gap-1 text-sm">
-              <input type="checkbox" checked={a.needsVerification} onChange={(e) => setAssumption(i, { needsVerification: e.target.checked })} />
+              <input
+                type="checkbox"
+                checked={a.needsVerification}
+                onChange={(e) => setAssumption(i, { needsVerification: e.target.checked })}
+              />
               still needs verification
             </label>
-            <button type="button" onClick={() => onChange({ assumptions: record.assumptions.filter((_, j) => j !== i) })} className="rounded border border-fail px-2 text-sm text-fail" aria-label={`Remove assumption ${i + 1}`}>
+            <button
+              type="button"
+              onClick={() => onChange({ assumptions: record.assumptions.filter((_, j) => j !== i) })}
+              className="rounded border border-fail px-2 text-sm text-fail"
+              aria-label={`Remove assumption ${i + 1}`}
+            >
               Remove
             </button>
           </div>
         ))}
-        <button type="button" onClick={() => onChange({ assumptions: [...record.assumptions, { text: '', needsVerification: true }] })} className="rounded border border-rule-strong bg-surface px-3 py-1 text-sm font-semibold">
+        <button
+          type="button"
+          onClick={() => onChange({ assumptions: [...record.assumptions, { text: '', needsVerification: true }] })}
+          className="rounded border border-rule-strong bg-surface px-3 py-1 text-sm font-semibold"
+        >
           Add an assumption
         </button>
       </fieldset>

@@ -36,7 +36,9 @@ function newCellId(cells: Cell[]): string {
 }
 
 // One evaluation in flight per editor; see components/calc/one-evaluation-at-a-time.ts.
-const evaluate = oneAtATime(([, sheetKey, body]: [string, string, string]) => postEvaluation<SheetResult>({ ...JSON.parse(body), sheetKey }));
+const evaluate = oneAtATime(([, sheetKey, body]: [string, string, string]) =>
+  postEvaluation<SheetResult>({ ...JSON.parse(body), sheetKey }),
+);
 
 /**
  * Edits a sheet: cells (insert, delete, move), the calculation record, evaluation on the server as
@@ -48,7 +50,11 @@ export function SheetEditor({ sheetId, projectCode, sheetNumber, base }: Props) 
   const [content, setContent] = useState<VersionContent>(base.content);
   const [restored, setRestored] = useState(false);
   const [message, setMessage] = useState('');
-  const [status, setStatus] = useState<{ kind: 'idle' | 'saving' | 'saved' | 'error' | 'conflict'; text?: string; latest?: number }>({ kind: 'idle' });
+  const [status, setStatus] = useState<{
+    kind: 'idle' | 'saving' | 'saved' | 'error' | 'conflict';
+    text?: string;
+    latest?: number;
+  }>({ kind: 'idle' });
   const loaded = useRef(false);
 
   // Restore a draft kept in this browser (only if it was based on the version we start from or later).
@@ -87,11 +93,16 @@ export function SheetEditor({ sheetId, projectCode, sheetNumber, base }: Props) 
         significantFigures: debounced.significantFigures,
         displayUnits: debounced.displayUnits,
         sheetId,
-        attachments: debounced.attachments.filter((a) => a.mediaType === 'text/csv').map(({ name, sha256 }) => ({ name, sha256 })),
+        attachments: debounced.attachments
+          .filter((a) => a.mediaType === 'text/csv')
+          .map(({ name, sha256 }) => ({ name, sha256 })),
       }),
     [debounced, sheetId],
   );
-  const { data: results, error } = useSWR(['evaluate', sheetId, body], evaluate, { keepPreviousData: true, revalidateOnFocus: false });
+  const { data: results, error } = useSWR(['evaluate', sheetId, body], evaluate, {
+    keepPreviousData: true,
+    revalidateOnFocus: false,
+  });
   const resultById = useMemo(() => new Map((results?.cells ?? []).map((c) => [c.id, c])), [results]);
   // The cited CSV tables, offered in completion as `table.` with their columns.
   const { data: uploads } = useSheetAttachments(sheetId);
@@ -99,14 +110,22 @@ export function SheetEditor({ sheetId, projectCode, sheetNumber, base }: Props) 
     () =>
       (uploads?.attachments ?? [])
         .filter((a) => a.table && content.attachments.some((c) => c.name === a.name && c.sha256 === a.sha256))
-        .map((a) => ({ name: a.table!.name, summary: `input table from ${a.name}, ${a.table!.rows} rows`, columns: a.table!.columns })),
+        .map((a) => ({
+          name: a.table!.name,
+          summary: `input table from ${a.name}, ${a.table!.rows} rows`,
+          columns: a.table!.columns,
+        })),
     [uploads, content.attachments],
   );
 
   const update = useCallback((change: (c: VersionContent) => VersionContent) => setContent((c) => change(c)), []);
-  const setCell = (i: number, source: string) => update((c) => ({ ...c, cells: c.cells.map((x, j) => (j === i ? { ...x, source } : x)) }));
+  const setCell = (i: number, source: string) =>
+    update((c) => ({ ...c, cells: c.cells.map((x, j) => (j === i ? { ...x, source } : x)) }));
   const insertCell = (at: number, kind: Cell['kind']) =>
-    update((c) => ({ ...c, cells: [...c.cells.slice(0, at), { id: newCellId(c.cells), kind, source: '' }, ...c.cells.slice(at)] }));
+    update((c) => ({
+      ...c,
+      cells: [...c.cells.slice(0, at), { id: newCellId(c.cells), kind, source: '' }, ...c.cells.slice(at)],
+    }));
   const removeCell = (i: number) => update((c) => ({ ...c, cells: c.cells.filter((_, j) => j !== i) }));
   const moveCell = (i: number, by: -1 | 1) =>
     update((c) => {
@@ -147,7 +166,8 @@ export function SheetEditor({ sheetId, projectCode, sheetNumber, base }: Props) 
   }
 
   const record = content.record;
-  const setRecord = (patch: Partial<VersionContent['record']>) => update((c) => ({ ...c, record: { ...c.record, ...patch } }));
+  const setRecord = (patch: Partial<VersionContent['record']>) =>
+    update((c) => ({ ...c, record: { ...c.record, ...patch } }));
 
   return (
     <div className="space-y-6">
@@ -162,11 +182,20 @@ export function SheetEditor({ sheetId, projectCode, sheetNumber, base }: Props) 
           Calculation record
         </h2>
         <div>
-          <label htmlFor="ed-title" className="block text-sm font-semibold">Title</label>
-          <input id="ed-title" value={content.title} onChange={(e) => update((c) => ({ ...c, title: e.target.value }))} className="w-full rounded border border-rule-strong bg-surface px-3 py-2" />
+          <label htmlFor="ed-title" className="block text-sm font-semibold">
+            Title
+          </label>
+          <input
+            id="ed-title"
+            value={content.title}
+            onChange={(e) => update((c) => ({ ...c, title: e.target.value }))}
+            className="w-full rounded border border-rule-strong bg-surface px-3 py-2"
+          />
         </div>
         <div>
-          <label htmlFor="ed-display-units" className="block text-sm font-semibold">Units shown</label>
+          <label htmlFor="ed-display-units" className="block text-sm font-semibold">
+            Units shown
+          </label>
           <select
             id="ed-display-units"
             aria-describedby="ed-display-units-hint"
@@ -181,23 +210,44 @@ export function SheetEditor({ sheetId, projectCode, sheetNumber, base }: Props) 
             ))}
           </select>
           <p id="ed-display-units-hint" className="text-sm text-ink-muted">
-            How results are shown; the values are the same either way. A unit written in a formula (<code>3 kg</code>, <code>x to J</code>) is always kept.
+            How results are shown; the values are the same either way. A unit written in a formula (<code>3 kg</code>,{' '}
+            <code>x to J</code>) is always kept.
           </p>
         </div>
         {(['objective', 'method', 'conclusions'] as const).map((field) => (
           <div key={field}>
-            <label htmlFor={`ed-${field}`} className="block text-sm font-semibold capitalize">{field}</label>
-            <textarea id={`ed-${field}`} rows={2} value={record[field]} onChange={(e) => setRecord({ [field]: e.target.value })} className="w-full rounded border border-rule-strong bg-surface px-3 py-2" />
+            <label htmlFor={`ed-${field}`} className="block text-sm font-semibold capitalize">
+              {field}
+            </label>
+            <textarea
+              id={`ed-${field}`}
+              rows={2}
+              value={record[field]}
+              onChange={(e) => setRecord({ [field]: e.target.value })}
+              className="w-full rounded border border-rule-strong bg-surface px-3 py-2"
+            />
           </div>
         ))}
         <div>
-          <label htmlFor="ed-references" className="block text-sm font-semibold">References (one per line)</label>
-          <textarea id="ed-references" rows={2} value={record.references.join('\n')} onChange={(e) => setRecord({ references: e.target.value.split('\n').filter((x) => x.trim() !== '') })} className="w-full rounded border border-rule-strong bg-surface px-3 py-2" />
+          <label htmlFor="ed-references" className="block text-sm font-semibold">
+            References (one per line)
+          </label>
+          <textarea
+            id="ed-references"
+            rows={2}
+            value={record.references.join('\n')}
+            onChange={(e) => setRecord({ references: e.target.value.split('\n').filter((x) => x.trim() !== '') })}
+            className="w-full rounded border border-rule-strong bg-surface px-3 py-2"
+          />
         </div>
         <RecordListsEditor record={record} onChange={setRecord} />
       </section>
 
-      <AttachmentsPanel sheetId={sheetId} cited={content.attachments} onChange={(attachments) => update((c) => ({ ...c, attachments }))} />
+      <AttachmentsPanel
+        sheetId={sheetId}
+        cited={content.attachments}
+        onChange={(attachments) => update((c) => ({ ...c, attachments }))}
+      />
 
       <section aria-labelledby="editor-cells" className="space-y-3">
         <h2 id="editor-cells" className="text-lg font-bold">
@@ -212,23 +262,54 @@ export function SheetEditor({ sheetId, projectCode, sheetNumber, base }: Props) 
           const result = resultById.get(cell.id);
           const label = `Cell ${i + 1} (${cell.kind === 'calc' ? 'calculation' : 'text'})`;
           return (
-            <article key={cell.id} aria-label={label} className={`rounded border bg-surface p-3 ${result && !result.ok ? 'border-fail' : 'border-rule'}`}>
+            <article
+              key={cell.id}
+              aria-label={label}
+              className={`rounded border bg-surface p-3 ${result && !result.ok ? 'border-fail' : 'border-rule'}`}
+            >
               <div className="mb-2 flex flex-wrap items-center gap-2 text-xs">
                 <span className="font-semibold text-ink-muted">{label}</span>
                 <span className="ml-auto flex gap-1">
-                  <button type="button" onClick={() => moveCell(i, -1)} disabled={i === 0} className="rounded border border-rule px-2 py-1 disabled:opacity-40" aria-label={`Move cell ${i + 1} up`}>
+                  <button
+                    type="button"
+                    onClick={() => moveCell(i, -1)}
+                    disabled={i === 0}
+                    className="rounded border border-rule px-2 py-1 disabled:opacity-40"
+                    aria-label={`Move cell ${i + 1} up`}
+                  >
                     ↑
                   </button>
-                  <button type="button" onClick={() => moveCell(i, 1)} disabled={i === content.cells.length - 1} className="rounded border border-rule px-2 py-1 disabled:opacity-40" aria-label={`Move cell ${i + 1} down`}>
+                  <button
+                    type="button"
+                    onClick={() => moveCell(i, 1)}
+                    disabled={i === content.cells.length - 1}
+                    className="rounded border border-rule px-2 py-1 disabled:opacity-40"
+                    aria-label={`Move cell ${i + 1} down`}
+                  >
                     ↓
                   </button>
-                  <button type="button" onClick={() => insertCell(i + 1, 'calc')} className="rounded border border-rule px-2 py-1" aria-label={`Insert a calculation cell after cell ${i + 1}`}>
+                  <button
+                    type="button"
+                    onClick={() => insertCell(i + 1, 'calc')}
+                    className="rounded border border-rule px-2 py-1"
+                    aria-label={`Insert a calculation cell after cell ${i + 1}`}
+                  >
                     + calc
                   </button>
-                  <button type="button" onClick={() => insertCell(i + 1, 'text')} className="rounded border border-rule px-2 py-1" aria-label={`Insert a text cell after cell ${i + 1}`}>
+                  <button
+                    type="button"
+                    onClick={() => insertCell(i + 1, 'text')}
+                    className="rounded border border-rule px-2 py-1"
+                    aria-label={`Insert a text cell after cell ${i + 1}`}
+                  >
                     + text
                   </button>
-                  <button type="button" onClick={() => removeCell(i)} className="rounded border border-fail px-2 py-1 text-fail" aria-label={`Delete cell ${i + 1}`}>
+                  <button
+                    type="button"
+                    onClick={() => removeCell(i)}
+                    className="rounded border border-fail px-2 py-1 text-fail"
+                    aria-label={`Delete cell ${i + 1}`}
+                  >
                     Delete
                   </button>
                 </span>
@@ -238,7 +319,12 @@ export function SheetEditor({ sheetId, projectCode, sheetNumber, base }: Props) 
                   label={`${label} source`}
                   value={cell.source}
                   onChange={(value) => setCell(i, value)}
-                  namesAbove={[...tableNames, ...content.cells.slice(0, i).flatMap((above) => (resultById.get(above.id)?.defines ?? []).map((name) => ({ name })))]}
+                  namesAbove={[
+                    ...tableNames,
+                    ...content.cells
+                      .slice(0, i)
+                      .flatMap((above) => (resultById.get(above.id)?.defines ?? []).map((name) => ({ name }))),
+                  ]}
                   lineErrors={result?.statements.flatMap((s) => (s.error ? [{ line: s.line, message: s.error }] : []))}
                   minLines={2}
                 />
@@ -257,7 +343,11 @@ export function SheetEditor({ sheetId, projectCode, sheetNumber, base }: Props) 
               {cell.kind === 'calc' && result ? (
                 <div aria-live="polite" className="mt-2">
                   {result.statements.map((s) => (
-                    <StatementView key={`${s.line}:${s.source}`} statement={s} significantFigures={content.significantFigures} />
+                    <StatementView
+                      key={`${s.line}:${s.source}`}
+                      statement={s}
+                      significantFigures={content.significantFigures}
+                    />
                   ))}
                 </div>
               ) : null}
@@ -265,10 +355,18 @@ export function SheetEditor({ sheetId, projectCode, sheetNumber, base }: Props) 
           );
         })}
         <div className="flex gap-2">
-          <button type="button" onClick={() => insertCell(content.cells.length, 'calc')} className="rounded border border-rule-strong bg-surface px-3 py-2 text-sm font-semibold">
+          <button
+            type="button"
+            onClick={() => insertCell(content.cells.length, 'calc')}
+            className="rounded border border-rule-strong bg-surface px-3 py-2 text-sm font-semibold"
+          >
             Add a calculation cell
           </button>
-          <button type="button" onClick={() => insertCell(content.cells.length, 'text')} className="rounded border border-rule-strong bg-surface px-3 py-2 text-sm font-semibold">
+          <button
+            type="button"
+            onClick={() => insertCell(content.cells.length, 'text')}
+            className="rounded border border-rule-strong bg-surface px-3 py-2 text-sm font-semibold"
+          >
             Add a text cell
           </button>
         </div>
@@ -278,19 +376,38 @@ export function SheetEditor({ sheetId, projectCode, sheetNumber, base }: Props) 
         <h2 id="editor-save" className="text-lg font-bold">
           Save a version
         </h2>
-        <p className="text-sm text-ink-muted">Based on version {parentNumber}. A saved version never changes; its SHA-256 identifies it.</p>
+        <p className="text-sm text-ink-muted">
+          Based on version {parentNumber}. A saved version never changes; its SHA-256 identifies it.
+        </p>
         <label htmlFor="ed-message" className="block text-sm font-semibold">
           What changed
         </label>
-        <input id="ed-message" value={message} onChange={(e) => setMessage(e.target.value)} className="w-full rounded border border-rule-strong bg-surface px-3 py-2" />
-        <button type="button" onClick={save} disabled={!message.trim() || status.kind === 'saving'} className="rounded bg-accent px-4 py-2 font-semibold text-surface hover:bg-accent-hover disabled:opacity-60">
+        <input
+          id="ed-message"
+          value={message}
+          onChange={(e) => setMessage(e.target.value)}
+          className="w-full rounded border border-rule-strong bg-surface px-3 py-2"
+        />
+        <button
+          type="button"
+          onClick={save}
+          disabled={!message.trim() || status.kind === 'saving'}
+          className="rounded bg-accent px-4 py-2 font-semibold text-surface hover:bg-accent-hover disabled:opacity-60"
+        >
           {status.kind === 'saving' ? 'Saving…' : 'Save version'}
         </button>
-        <div role={status.kind === 'error' || status.kind === 'conflict' ? 'alert' : 'status'} aria-live="polite" className="text-sm">
+        <div
+          role={status.kind === 'error' || status.kind === 'conflict' ? 'alert' : 'status'}
+          aria-live="polite"
+          className="text-sm"
+        >
           {status.kind === 'saved' ? (
             <span className="text-pass">
               {status.text}{' '}
-              <Link href={`/projects/${projectCode}/sheets/${sheetNumber}`} className="font-semibold text-accent underline">
+              <Link
+                href={`/projects/${projectCode}/sheets/${sheetNumber}`}
+                className="font-semibold text-accent underline"
+              >
                 View the sheet
               </Link>
             </span>
@@ -299,7 +416,10 @@ export function SheetEditor({ sheetId, projectCode, sheetNumber, base }: Props) 
           {status.kind === 'conflict' ? (
             <span className="text-fail">
               {status.text}{' '}
-              <Link href={`/projects/${projectCode}/sheets/${sheetNumber}/compare?base=${parentNumber}&target=${status.latest}`} className="font-semibold text-accent underline">
+              <Link
+                href={`/projects/${projectCode}/sheets/${sheetNumber}/compare?base=${parentNumber}&target=${status.latest}`}
+                className="font-semibold text-accent underline"
+              >
                 See what changed
               </Link>{' '}
               <button type="button" onClick={carryOver} className="font-semibold text-accent underline">

@@ -44,7 +44,11 @@ export function SheetRegister({ rows, projectCode }: { rows: RegisterRow[]; proj
   const shown = useMemo(() => {
     const f = filter.trim().toLowerCase();
     const list = f
-      ? rows.filter((r) => `${r.code} ${r.title} ${r.originator} ${statusLabel(r.status)}${r.supersededInputs?.length ? ' superseded input' : ''}`.toLowerCase().includes(f))
+      ? rows.filter((r) =>
+          `${r.code} ${r.title} ${r.originator} ${statusLabel(r.status)}${r.supersededInputs?.length ? ' superseded input' : ''}`
+            .toLowerCase()
+            .includes(f),
+        )
       : rows;
     return [...list].sort((a, b) => {
       const x = a[sort.key] ?? '';
@@ -58,15 +62,30 @@ export function SheetRegister({ rows, projectCode }: { rows: RegisterRow[]; proj
         <label htmlFor="register-filter" className="block text-sm font-semibold">
           Filter
         </label>
-        <input id="register-filter" value={filter} onChange={(e) => setFilter(e.target.value)} className="w-full max-w-sm rounded border border-rule-strong bg-surface px-3 py-2" placeholder="number, title, originator…" />
+        <input
+          id="register-filter"
+          value={filter}
+          onChange={(e) => setFilter(e.target.value)}
+          className="w-full max-w-sm rounded border border-rule-strong bg-surface px-3 py-2"
+          placeholder="number, title, originator…"
+        />
       </div>
       <table className="w-full border-collapse text-sm">
         <caption className="sr-only">Calculation sheets of {projectCode}</caption>
         <thead>
           <tr className="border-b border-rule-strong text-left">
             {COLUMNS.map((c) => (
-              <th key={c.key} scope="col" aria-sort={sort.key === c.key ? (sort.dir === 1 ? 'ascending' : 'descending') : 'none'} className="py-2 pr-3">
-                <button type="button" onClick={() => setSort((s) => ({ key: c.key, dir: s.key === c.key ? ((-s.dir) as 1 | -1) : 1 }))} className="font-semibold hover:underline">
+              <th
+                key={c.key}
+                scope="col"
+                aria-sort={sort.key === c.key ? (sort.dir === 1 ? 'ascending' : 'descending') : 'none'}
+                className="py-2 pr-3"
+              >
+                <button
+                  type="button"
+                  onClick={() => setSort((s) => ({ key: c.key, dir: s.key === c.key ? (-s.dir as 1 | -1) : 1 }))}
+                  className="font-semibold hover:underline"
+                >
                   {c.label}
                   {sort.key === c.key ? (sort.dir === 1 ? ' ▲' : ' ▼') : ''}
                 </button>
@@ -78,14 +97,25 @@ export function SheetRegister({ rows, projectCode }: { rows: RegisterRow[]; proj
           {shown.map((r) => (
             <tr key={r.id} className="border-b border-rule">
               <td className="py-2 pr-3 font-mono">
-                <Link href={`/projects/${projectCode}/sheets/${r.number}`} className="font-semibold text-accent underline">
+                <Link
+                  href={`/projects/${projectCode}/sheets/${r.number}`}
+                  className="font-semibold text-accent underline"
+                >
                   {r.code}
                 </Link>
               </td>
               <td className="py-2 pr-3">
                 <VisibleText text={r.title} />
-                {r.safetyRelated ? <span className="ml-2 rounded bg-caution-soft px-1.5 py-0.5 text-xs font-bold text-caution">safety-related</span> : null}
-                {r.starter ? <span className="ml-2 rounded bg-accent-soft px-1.5 py-0.5 text-xs font-bold text-accent-hover">starter</span> : null}
+                {r.safetyRelated ? (
+                  <span className="ml-2 rounded bg-caution-soft px-1.5 py-0.5 text-xs font-bold text-caution">
+                    safety-related
+                  </span>
+                ) : null}
+                {r.starter ? (
+                  <span className="ml-2 rounded bg-accent-soft px-1.5 py-0.5 text-xs font-bold text-accent-hover">
+                    starter
+                  </span>
+                ) : null}
               </td>
               <td className="py-2 pr-3">
                 {statusLabel(r.status)}

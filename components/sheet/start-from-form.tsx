@@ -16,7 +16,15 @@ export interface StartOption {
  * Starts a new sheet from a starter or an approved version (lib/sheets/start-from.ts): the copy is a
  * new draft that records where it came from; it is checked and approved on its own.
  */
-export function StartFromForm({ projectId, projectCode, options }: { projectId: string; projectCode: string; options: StartOption[] }) {
+export function StartFromForm({
+  projectId,
+  projectCode,
+  options,
+}: {
+  projectId: string;
+  projectCode: string;
+  options: StartOption[];
+}) {
   const router = useRouter();
   const id = useId();
   const [chosen, setChosen] = useState('');
@@ -91,8 +99,9 @@ export function StartFromForm({ projectId, projectCode, options }: { projectId: 
         </select>
         {option ? (
           <p className="mt-1 text-xs text-ink-muted">
-            Copies version {option.version} of {option.code} (SHA-256 <span className="font-mono">{option.sha256.slice(0, 12)}…</span>): cells, record, settings and
-            attachments. The new sheet records where it came from and is checked and approved on its own.
+            Copies version {option.version} of {option.code} (SHA-256{' '}
+            <span className="font-mono">{option.sha256.slice(0, 12)}…</span>): cells, record, settings and attachments.
+            The new sheet records where it came from and is checked and approved on its own.
           </p>
         ) : null}
       </div>
@@ -100,9 +109,20 @@ export function StartFromForm({ projectId, projectCode, options }: { projectId: 
         <label htmlFor={`${id}-new-title`} className="block text-sm font-semibold">
           Title of the new sheet
         </label>
-        <input id={`${id}-new-title`} required maxLength={300} value={title} onChange={(e) => setTitle(e.target.value)} className="w-full rounded border border-rule-strong bg-surface px-3 py-2" />
+        <input
+          id={`${id}-new-title`}
+          required
+          maxLength={300}
+          value={title}
+          onChange={(e) => setTitle(e.target.value)}
+          className="w-full rounded border border-rule-strong bg-surface px-3 py-2"
+        />
       </div>
-      <button type="submit" disabled={state.busy || !option || !title.trim()} className="rounded bg-accent px-4 py-2 font-semibold text-surface hover:bg-accent-hover disabled:opacity-60">
+      <button
+        type="submit"
+        disabled={state.busy || !option || !title.trim()}
+        className="rounded bg-accent px-4 py-2 font-semibold text-surface hover:bg-accent-hover disabled:opacity-60"
+      >
         Start the new sheet
       </button>
       <p role="alert" aria-live="polite" className="text-sm text-fail">

@@ -12,26 +12,43 @@ function Value({ value, missing }: { value: CitedValue | null; missing: string }
  * The caution shown on a sheet whose latest version cites a revision that is no longer current:
  * which sheet and revision, what replaced it, and each cited value then and now.
  */
-export function SupersededInputs({ inputs, projectCode, latestVersion }: { inputs: SupersededInput[]; projectCode: string; latestVersion: number }) {
+export function SupersededInputs({
+  inputs,
+  projectCode,
+  latestVersion,
+}: {
+  inputs: SupersededInput[];
+  projectCode: string;
+  latestVersion: number;
+}) {
   if (inputs.length === 0) return null;
   return (
-    <aside id="superseded-inputs" aria-labelledby="superseded-inputs-title" className="space-y-3 rounded border-l-4 border-caution-rule bg-caution-soft px-4 py-3 text-caution">
+    <aside
+      id="superseded-inputs"
+      aria-labelledby="superseded-inputs-title"
+      className="space-y-3 rounded border-l-4 border-caution-rule bg-caution-soft px-4 py-3 text-caution"
+    >
       <h2 id="superseded-inputs-title" className="font-bold">
         Superseded input
       </h2>
       <p className="text-sm">
-        Version {latestVersion} cites {inputs.length === 1 ? 'a revision of another sheet that is' : 'revisions of other sheets that are'} no longer current. Check
-        whether the results still hold, then save a version citing the current revision.
+        Version {latestVersion} cites{' '}
+        {inputs.length === 1 ? 'a revision of another sheet that is' : 'revisions of other sheets that are'} no longer
+        current. Check whether the results still hold, then save a version citing the current revision.
       </p>
       {inputs.map((input) => {
         const what = `${input.sheet} revision ${input.revision}`;
         return (
           <section key={`${input.sheetId}:${input.revision}`} aria-label={what} className="space-y-1 text-sm">
             <p>
-              <Link href={`/projects/${projectCode}/sheets/${input.sheetNumber}`} className="font-semibold text-caution underline">
+              <Link
+                href={`/projects/${projectCode}/sheets/${input.sheetNumber}`}
+                className="font-semibold text-caution underline"
+              >
                 {input.sheet}
               </Link>{' '}
-              (<VisibleText text={input.title} />): revision <strong>{input.revision}</strong> is{' '}
+              (<VisibleText text={input.title} />
+              ): revision <strong>{input.revision}</strong> is{' '}
               {input.status === 'withdrawn' ? (
                 <>withdrawn{input.withdrawnReason ? `: “${input.withdrawnReason}”` : ''}</>
               ) : (
@@ -46,7 +63,8 @@ export function SupersededInputs({ inputs, projectCode, latestVersion }: { input
               )}{' '}
               {input.compareHref ? (
                 <Link href={input.compareHref} className="font-semibold text-caution underline">
-                  Compare {input.sheet} version {input.versionNumber} (revision {input.revision}) with version {input.currentVersionNumber} (revision {input.currentRevision})
+                  Compare {input.sheet} version {input.versionNumber} (revision {input.revision}) with version{' '}
+                  {input.currentVersionNumber} (revision {input.currentRevision})
                 </Link>
               ) : null}
             </p>
@@ -54,21 +72,34 @@ export function SupersededInputs({ inputs, projectCode, latestVersion }: { input
               <caption className="sr-only">Values cited from {what}, then and now</caption>
               <thead>
                 <tr className="border-b border-caution-rule">
-                  <th scope="col" className="py-1 pr-3">Name</th>
-                  <th scope="col" className="py-1 pr-3">In revision {input.revision} (cited)</th>
-                  <th scope="col" className="py-1 pr-3">{input.currentRevision ? `In revision ${input.currentRevision} (current)` : 'Current'}</th>
-                  <th scope="col" className="py-1">Changed</th>
+                  <th scope="col" className="py-1 pr-3">
+                    Name
+                  </th>
+                  <th scope="col" className="py-1 pr-3">
+                    In revision {input.revision} (cited)
+                  </th>
+                  <th scope="col" className="py-1 pr-3">
+                    {input.currentRevision ? `In revision ${input.currentRevision} (current)` : 'Current'}
+                  </th>
+                  <th scope="col" className="py-1">
+                    Changed
+                  </th>
                 </tr>
               </thead>
               <tbody>
                 {input.names.map((n) => (
                   <tr key={n.name} className="border-b border-caution-rule align-top">
-                    <th scope="row" className="py-1 pr-3 font-mono font-normal">{n.name}</th>
+                    <th scope="row" className="py-1 pr-3 font-mono font-normal">
+                      {n.name}
+                    </th>
                     <td className="py-1 pr-3">
                       <Value value={n.cited} missing="not recorded" />
                     </td>
                     <td className="py-1 pr-3">
-                      <Value value={n.current} missing={input.currentRevision ? 'no longer defined' : 'no current revision'} />
+                      <Value
+                        value={n.current}
+                        missing={input.currentRevision ? 'no longer defined' : 'no current revision'}
+                      />
                     </td>
                     <td className="py-1 font-semibold">{n.changed ? 'yes' : 'no'}</td>
                   </tr>

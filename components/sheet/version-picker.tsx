@@ -18,10 +18,16 @@ export function VersionPicker({
   compact?: boolean;
 }) {
   const newestFirst = [...versions].sort((a, b) => b.number - a.number);
-  const label = (v: { number: number; message: string }) => `Version ${v.number}${v.message ? ` — ${v.message.length > 40 ? `${v.message.slice(0, 39)}…` : v.message}` : ''}`;
+  const label = (v: { number: number; message: string }) =>
+    `Version ${v.number}${v.message ? ` — ${v.message.length > 40 ? `${v.message.slice(0, 39)}…` : v.message}` : ''}`;
   const select = 'rounded border border-rule-strong bg-surface px-2 py-1 text-sm text-ink max-w-full';
   return (
-    <form method="get" action={action} aria-label="Compare two versions" className={`flex flex-wrap items-end gap-3 ${compact ? 'text-sm' : ''}`}>
+    <form
+      method="get"
+      action={action}
+      aria-label="Compare two versions"
+      className={`flex flex-wrap items-end gap-3 ${compact ? 'text-sm' : ''}`}
+    >
       <div className="flex min-w-0 flex-col gap-1">
         <label htmlFor={`${idPrefix}-base`} className="text-sm font-semibold">
           Base version
@@ -39,7 +45,12 @@ export function VersionPicker({
         <label htmlFor={`${idPrefix}-target`} className="text-sm font-semibold">
           Target version
         </label>
-        <select id={`${idPrefix}-target`} name="target" defaultValue={target === null ? '' : String(target)} className={select}>
+        <select
+          id={`${idPrefix}-target`}
+          name="target"
+          defaultValue={target === null ? '' : String(target)}
+          className={select}
+        >
           {newestFirst.map((v) => (
             <option key={v.number} value={v.number}>
               {label(v)}
@@ -47,7 +58,10 @@ export function VersionPicker({
           ))}
         </select>
       </div>
-      <button type="submit" className="rounded bg-accent px-3 py-1.5 text-sm font-semibold text-surface hover:bg-accent-hover">
+      <button
+        type="submit"
+        className="rounded bg-accent px-3 py-1.5 text-sm font-semibold text-surface hover:bg-accent-hover"
+      >
         Compare
       </button>
     </form>

@@ -34,7 +34,9 @@ export function VersionView({
         </h2>
         <dl className="mt-2 grid gap-x-6 gap-y-2 text-sm sm:grid-cols-[10rem_minmax(0,1fr)]">
           <dt className="font-semibold">Objective</dt>
-          <dd>{r.objective ? <VisibleText text={r.objective} /> : <span className="text-ink-muted">not stated</span>}</dd>
+          <dd>
+            {r.objective ? <VisibleText text={r.objective} /> : <span className="text-ink-muted">not stated</span>}
+          </dd>
           <dt className="font-semibold">Design inputs</dt>
           <dd>
             {r.inputs.length ? (
@@ -43,12 +45,15 @@ export function VersionView({
                   const d = linked.get(index);
                   return (
                     <li key={`${index}-${i.name}`}>
-                      <VisibleText text={i.name} />: <span className="font-mono">
+                      <VisibleText text={i.name} />:{' '}
+                      <span className="font-mono">
                         <VisibleText text={i.value} />
                       </span>{' '}
                       — <VisibleText text={i.source} />, revision <VisibleText text={i.sourceRevision} />
                       {d ? (
-                        <span className={`block ${d.status === 'match' ? 'text-ink-muted' : 'font-semibold text-fail'}`}>
+                        <span
+                          className={`block ${d.status === 'match' ? 'text-ink-muted' : 'font-semibold text-fail'}`}
+                        >
                           {d.status === 'match' ? (
                             <>
                               feeds <code className="font-mono">{d.cell}</code>; value used: {d.engineValue}
@@ -75,7 +80,11 @@ export function VersionView({
                 {r.assumptions.map((a) => (
                   <li key={a.text}>
                     <VisibleText text={a.text} />
-                    {a.needsVerification ? <span className="ml-2 rounded bg-caution-soft px-1.5 text-xs font-bold text-caution">to be verified</span> : null}
+                    {a.needsVerification ? (
+                      <span className="ml-2 rounded bg-caution-soft px-1.5 text-xs font-bold text-caution">
+                        to be verified
+                      </span>
+                    ) : null}
                   </li>
                 ))}
               </ul>
@@ -86,9 +95,23 @@ export function VersionView({
           <dt className="font-semibold">Method</dt>
           <dd>{r.method ? <VisibleText text={r.method} /> : <span className="text-ink-muted">not stated</span>}</dd>
           <dt className="font-semibold">References</dt>
-          <dd>{r.references.length ? <ul className="list-disc pl-5">{r.references.map((x) => <li key={x}><VisibleText text={x} /></li>)}</ul> : <span className="text-ink-muted">none listed</span>}</dd>
+          <dd>
+            {r.references.length ? (
+              <ul className="list-disc pl-5">
+                {r.references.map((x) => (
+                  <li key={x}>
+                    <VisibleText text={x} />
+                  </li>
+                ))}
+              </ul>
+            ) : (
+              <span className="text-ink-muted">none listed</span>
+            )}
+          </dd>
           <dt className="font-semibold">Conclusions</dt>
-          <dd>{r.conclusions ? <VisibleText text={r.conclusions} /> : <span className="text-ink-muted">not stated</span>}</dd>
+          <dd>
+            {r.conclusions ? <VisibleText text={r.conclusions} /> : <span className="text-ink-muted">not stated</span>}
+          </dd>
         </dl>
       </section>
       <section aria-labelledby="attachments-title" className="rounded border border-rule bg-surface p-4">
@@ -105,7 +128,11 @@ export function VersionView({
         {content.cells.map((cell, i) => {
           const result = byId.get(cell.id);
           return (
-            <article key={cell.id} aria-label={`Cell ${i + 1}`} className={`rounded border bg-surface px-4 py-2 ${result && !result.ok ? 'border-fail' : 'border-rule'}`}>
+            <article
+              key={cell.id}
+              aria-label={`Cell ${i + 1}`}
+              className={`rounded border bg-surface px-4 py-2 ${result && !result.ok ? 'border-fail' : 'border-rule'}`}
+            >
               <p className="text-xs text-ink-muted">
                 Cell {i + 1} · {cell.kind === 'calc' ? 'calculation' : 'text'}
               </p>
@@ -124,7 +151,12 @@ export function VersionView({
                         significantFigures={content.significantFigures}
                         studyCsv={(line) => ({
                           href: `/api/sheets/${sheetId}/versions/${versionNumber}/studies/${result.index}/${line}`,
-                          fileName: studyCsvFileName({ sheet: sheetCode, version: versionNumber, cellNumber: i + 1, line }),
+                          fileName: studyCsvFileName({
+                            sheet: sheetCode,
+                            version: versionNumber,
+                            cellNumber: i + 1,
+                            line,
+                          }),
                         })}
                       />
                     ))

@@ -14,8 +14,8 @@ export function VoidSheetForm({ sheetId, code }: { sheetId: string; code: string
       <summary className="cursor-pointer font-semibold text-fail underline">Void {code}</summary>
       <div className="mt-2 space-y-2 rounded border border-rule bg-paper p-2">
         <p className="text-xs text-ink-muted">
-          For a sheet created by mistake that was never issued. It stays in the register as void, with its versions; no one can save, submit or issue it
-          afterwards, and voiding cannot be undone.
+          For a sheet created by mistake that was never issued. It stays in the register as void, with its versions; no
+          one can save, submit or issue it afterwards, and voiding cannot be undone.
         </p>
         <JsonForm
           action={`/api/sheets/${sheetId}/void`}

@@ -13,7 +13,11 @@ const NAV = [
 ] as const;
 
 /** Which count each link shows (signed in): the queue behind it. */
-const COUNT_OF: Partial<Record<string, keyof NavigationCounts>> = { '/checks': 'checks', '/approvals': 'approvals', '/register': 'issue' };
+const COUNT_OF: Partial<Record<string, keyof NavigationCounts>> = {
+  '/checks': 'checks',
+  '/approvals': 'approvals',
+  '/register': 'issue',
+};
 
 /** A count beside a link's label; its words are read out, the figure is what the eye sees. */
 function CountBadge({ n, what }: { n: number; what: string }) {
@@ -26,7 +30,15 @@ function CountBadge({ n, what }: { n: number; what: string }) {
   );
 }
 
-export function AppHeader({ userName, isAdmin = false, counts = null }: { userName: string | null; isAdmin?: boolean; counts?: NavigationCounts | null }) {
+export function AppHeader({
+  userName,
+  isAdmin = false,
+  counts = null,
+}: {
+  userName: string | null;
+  isAdmin?: boolean;
+  counts?: NavigationCounts | null;
+}) {
   return (
     <header className="border-b border-rule bg-surface">
       <div className="mx-auto flex max-w-sheet flex-wrap items-center gap-x-6 gap-y-2 px-gutter py-3">
@@ -46,7 +58,9 @@ export function AppHeader({ userName, isAdmin = false, counts = null }: { userNa
             return (
               <NavLink key={item.href} href={item.href}>
                 {item.label}
-                {count && counts ? <CountBadge n={counts[count]} what={count === 'issue' ? 'approved, waiting for issue' : 'waiting'} /> : null}
+                {count && counts ? (
+                  <CountBadge n={counts[count]} what={count === 'issue' ? 'approved, waiting for issue' : 'waiting'} />
+                ) : null}
               </NavLink>
             );
           })}

@@ -20,7 +20,10 @@ export function CautionNotice({ compact = false }: { compact?: boolean }) {
 /** The banner of a safety-related sheet, wherever the sheet or its check is shown. */
 export function SafetyRelatedNotice() {
   return (
-    <p role="note" className="rounded border-l-4 border-caution-rule bg-caution-soft px-4 py-3 text-sm font-semibold text-caution">
+    <p
+      role="note"
+      className="rounded border-l-4 border-caution-rule bg-caution-soft px-4 py-3 text-sm font-semibold text-caution"
+    >
       {SAFETY_RELATED_CAUTION}
     </p>
   );

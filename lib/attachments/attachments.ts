@@ -18,7 +18,14 @@ import { attachmentRefSchema } from '@/lib/sheets/content';
 import { parseInputTable, tableNameFor, TableError } from './csv-table';
 import { sanitizeFileName } from './file-name';
 import { checkProjectStorageQuota } from './quota';
-import { ACCEPTED_DESCRIPTION, ATTACHMENT_KINDS, kindOfMediaType, kindOfName, MAX_ATTACHMENT_BYTES, sniffKind } from './kinds';
+import {
+  ACCEPTED_DESCRIPTION,
+  ATTACHMENT_KINDS,
+  kindOfMediaType,
+  kindOfName,
+  MAX_ATTACHMENT_BYTES,
+  sniffKind,
+} from './kinds';
 
 export type AttachmentRef = z.infer<typeof attachmentRefSchema>;
 
@@ -57,8 +64,13 @@ export function tableNameProblem(name: string, fileName: string): string | null 
   unitMath ??= createEngineMath([]);
   // A sheet's own definition may take a built-in function's name (lib/calc/names.ts), but a table is
   // named by its file, not written by the author: it never hides a function.
-  const problem = LIBRARY.some((f) => f.name === name) || unitMath.isFunctionName(name) ? `\`${name}\` is a built-in function` : checkDefinitionName(name, unitMath);
-  return problem ? `${fileName} would be called \`${name}\` in cells, but ${problem.replace(/^`[^`]*`:? ?/, '')}; rename the file (for example ${name}_data.csv) and upload it again` : null;
+  const problem =
+    LIBRARY.some((f) => f.name === name) || unitMath.isFunctionName(name)
+      ? `\`${name}\` is a built-in function`
+      : checkDefinitionName(name, unitMath);
+  return problem
+    ? `${fileName} would be called \`${name}\` in cells, but ${problem.replace(/^`[^`]*`:? ?/, '')}; rename the file (for example ${name}_data.csv) and upload it again`
+    : null;
 }
 
 const storageKey = (sha256: string) => `attachments/sha256/${sha256}`;
@@ -86,24 +98,41 @@ export interface CheckedAttachment {
  */
 export function checkAttachmentFile(file: UploadedFile): CheckedAttachment {
   if (file.bytes.length === 0) throw new AppError('bad_request', 'The file is empty.');
-  if (file.bytes.length > MAX_ATTACHMENT_BYTES) throw new AppError('too_large', `The file is larger than any accepted attachment: ${ACCEPTED_DESCRIPTION}.`);
+  if (file.bytes.length > MAX_ATTACHMENT_BYTES)
+    throw new AppError('too_large', `The file is larger than any accepted attachment: ${ACCEPTED_DESCRIPTION}.`);
   const kind = sniffKind(file.bytes);
-  if (!kind) throw new AppError('unsupported_type', `This file's content is not an accepted kind. Accepted: ${ACCEPTED_DESCRIPTION}.`);
+  if (!kind)
+    throw new AppError(
+      'unsupported_type',
+      `This file's content is not an accepted kind. Accepted: ${ACCEPTED_DESCRIPTION}.`,
+    );
   const spec = ATTACHMENT_KINDS[kind];
   const byName = kindOfName(file.name);
   if (byName && byName !== kind) {
-    throw new AppError('unsupported_type', `The file is named as ${ATTACHMENT_KINDS[byName].label} but its content is ${spec.label}; rename it or upload the right file.`);
+    throw new AppError(
+      'unsupported_type',
+      `The file is named as ${ATTACHMENT_KINDS[byName].label} but its content is ${spec.label}; rename it or upload the right file.`,
+    );
   }
   const byType = kindOfMediaType(file.type);
   if (byType && byType !== kind) {
-    throw new AppError('unsupported_type', `The file was sent as ${ATTACHMENT_KINDS[byType].label} (${file.type}) but its content is ${spec.label}.`);
+    throw new AppError(
+      'unsupported_type',
+      `The file was sent as ${ATTACHMENT_KINDS[byType].label} (${file.type}) but its content is ${spec.label}.`,
+    );
   }
   if (!byName && kind === 'csv') {
     // Plain text without a .csv name is not taken for a data table by guesswork.
-    throw new AppError('unsupported_type', `Text files are accepted as CSV data tables only when their name ends in .csv. Accepted: ${ACCEPTED_DESCRIPTION}.`);
+    throw new AppError(
+      'unsupported_type',
+      `Text files are accepted as CSV data tables only when their name ends in .csv. Accepted: ${ACCEPTED_DESCRIPTION}.`,
+    );
   }
   if (file.bytes.length > spec.maxBytes) {
-    throw new AppError('too_large', `${spec.label[0].toUpperCase()}${spec.label.slice(1)} may be at most ${spec.maxBytes / (1024 * 1024)} MiB; this file is ${(file.bytes.length / (1024 * 1024)).toFixed(1)} MiB.`);
+    throw new AppError(
+      'too_large',
+      `${spec.label[0].toUpperCase()}${spec.label.slice(1)} may be at most ${spec.maxBytes / (1024 * 1024)} MiB; this file is ${(file.bytes.length / (1024 * 1024)).toFixed(1)} MiB.`,
+    );
   }
   const name = sanitizeFileName(file.name, kind);
   let table: StoredTable | null = null;
@@ -125,7 +154,12 @@ export function checkAttachmentFile(file: UploadedFile): CheckedAttachment {
  * Sends checked files' bytes to object storage, after a first check of the project's storage quota
  * (so that a file plainly over it is not stored at all). Write-once: bytes already there stay.
  */
-export async function storeAttachmentBytes(db: Kysely<Database>, store: ObjectStore, projectId: string, files: readonly CheckedAttachment[]): Promise<void> {
+export async function storeAttachmentBytes(
+  db: Kysely<Database>,
+  store: ObjectStore,
+  projectId: string,
+  files: readonly CheckedAttachment[],
+): Promise<void> {
   for (const file of files) {
     await checkProjectStorageQuota(db, projectId, { sha256: file.sha256, size: file.size });
     await store.putOnce(storageKey(file.sha256), file.bytes, file.mediaType);
@@ -196,9 +230,19 @@ export async function copyAttachments(
       .where('name', '=', ref.name)
       .where('sha256', '=', ref.sha256)
       .executeTakeFirst();
-    if (!row) throw new AppError('bad_request', `The attachment ${ref.name} (SHA-256 ${ref.sha256.slice(0, 12)}…) is not an attachment of the sheet started from.`);
+    if (!row)
+      throw new AppError(
+        'bad_request',
+        `The attachment ${ref.name} (SHA-256 ${ref.sha256.slice(0, 12)}…) is not an attachment of the sheet started from.`,
+      );
     // The same bytes under the same key (attachments/sha256/<hex>): a row of the new sheet's own.
-    const file = { name: row.name, mediaType: row.media_type, size: Number(row.size), sha256: row.sha256, table: row.table_data as StoredTable | null };
+    const file = {
+      name: row.name,
+      mediaType: row.media_type,
+      size: Number(row.size),
+      sha256: row.sha256,
+      table: row.table_data as StoredTable | null,
+    };
     await insertAttachment(trx, actor, sheet, file, 'attachment.copy', { fromSheet: fromSheetId });
   }
 }
@@ -219,7 +263,9 @@ export async function uploadAttachment(
   // The object first: a row is only ever written for bytes that are stored.
   await storeAttachmentBytes(db, store, sheet.project_id, [checked]);
   const inserted = await db.transaction().execute((trx) => insertAttachment(trx, actor, sheet, checked));
-  const info = (await listAttachments(db, sheet.id)).find((a) => a.name === checked.name && a.sha256 === checked.sha256);
+  const info = (await listAttachments(db, sheet.id)).find(
+    (a) => a.name === checked.name && a.sha256 === checked.sha256,
+  );
   if (!info) throw new Error(`attachment ${checked.name} not found after upload (inserted: ${inserted})`);
   return info;
 }
@@ -235,7 +281,11 @@ export function tablesOfFiles(files: readonly CheckedAttachment[]): InputTable[]
     if (!file.table) continue;
     const name = tableNameFor(file.name);
     const clash = names.get(name);
-    if (clash) throw new AppError('bad_request', `The data tables ${clash} and ${file.name} would both be called \`${name}\` in cells; keep only one of them.`);
+    if (clash)
+      throw new AppError(
+        'bad_request',
+        `The data tables ${clash} and ${file.name} would both be called \`${name}\` in cells; keep only one of them.`,
+      );
     names.set(name, file.name);
     tables.push({ name, sha256: file.sha256, fileName: file.name, columns: file.table.columns });
   }
@@ -259,7 +309,9 @@ export async function listAttachments(db: Kysely<Database>, sheetId: string): Pr
       sha256: r.sha256,
       uploadedBy: r.display_name,
       uploadedAt: new Date(r.created_at).toISOString(),
-      table: t ? { name: tableNameFor(r.name), rows: t.rows, columns: t.columns.map((c) => ({ name: c.name, unit: c.unit })) } : null,
+      table: t
+        ? { name: tableNameFor(r.name), rows: t.rows, columns: t.columns.map((c) => ({ name: c.name, unit: c.unit })) }
+        : null,
     };
   });
 }
@@ -277,11 +329,18 @@ export async function readAttachment(db: Kysely<Database>, store: ObjectStore, s
     .executeTakeFirst();
   if (!row) throw new AppError('not_found', 'No such attachment on this sheet.');
   const bytes = await store.get(row.storage_key);
-  if (!bytes) throw new AppError('unavailable', `The stored file of ${row.name} is missing from the file store; report this to your administrator.`);
+  if (!bytes)
+    throw new AppError(
+      'unavailable',
+      `The stored file of ${row.name} is missing from the file store; report this to your administrator.`,
+    );
   const actual = createHash('sha256').update(bytes).digest('hex');
   if (actual !== sha256) {
     console.error(`attachment ${sheetId}/${sha256}: stored bytes hash to ${actual}`);
-    throw new AppError('unavailable', `The stored file of ${row.name} does not match its recorded SHA-256; it is not served. Report this to your administrator.`);
+    throw new AppError(
+      'unavailable',
+      `The stored file of ${row.name} does not match its recorded SHA-256; it is not served. Report this to your administrator.`,
+    );
   }
   return { name: row.name, mediaType: row.media_type, bytes };
 }
@@ -291,7 +350,11 @@ export async function readAttachment(db: Kysely<Database>, store: ObjectStore, s
  * that each reference is an attachment uploaded to this sheet with the same name, size, type and
  * hash. Refused with 400 naming the first reference that is not.
  */
-export async function resolveAttachments(db: Kysely<Database>, sheetId: string, refs: ReadonlyArray<Pick<AttachmentRef, 'name' | 'sha256'> & Partial<AttachmentRef>>): Promise<InputTable[]> {
+export async function resolveAttachments(
+  db: Kysely<Database>,
+  sheetId: string,
+  refs: ReadonlyArray<Pick<AttachmentRef, 'name' | 'sha256'> & Partial<AttachmentRef>>,
+): Promise<InputTable[]> {
   if (refs.length === 0) return [];
   const rows = await db
     .selectFrom('attachments')
@@ -303,15 +366,26 @@ export async function resolveAttachments(db: Kysely<Database>, sheetId: string, 
   const names = new Map<string, string>();
   for (const ref of refs) {
     const row = rows.find((r) => r.name === ref.name && r.sha256 === ref.sha256);
-    if (!row || (ref.size !== undefined && Number(row.size) !== ref.size) || (ref.mediaType !== undefined && row.media_type !== ref.mediaType)) {
-      throw new AppError('bad_request', `The attachment ${ref.name} (SHA-256 ${ref.sha256.slice(0, 12)}…) is not an attachment uploaded to this sheet.`);
+    if (
+      !row ||
+      (ref.size !== undefined && Number(row.size) !== ref.size) ||
+      (ref.mediaType !== undefined && row.media_type !== ref.mediaType)
+    ) {
+      throw new AppError(
+        'bad_request',
+        `The attachment ${ref.name} (SHA-256 ${ref.sha256.slice(0, 12)}…) is not an attachment uploaded to this sheet.`,
+      );
     }
     if (!row.table_data) continue;
     const name = tableNameFor(row.name);
     const problem = tableNameProblem(name, row.name);
     if (problem) throw new AppError('bad_request', problem);
     const clash = names.get(name);
-    if (clash) throw new AppError('bad_request', `The data tables ${clash} and ${row.name} would both be called \`${name}\` in cells; keep only one of them, or rename one and upload it again.`);
+    if (clash)
+      throw new AppError(
+        'bad_request',
+        `The data tables ${clash} and ${row.name} would both be called \`${name}\` in cells; keep only one of them, or rename one and upload it again.`,
+      );
     names.set(name, row.name);
     const stored = row.table_data as StoredTable;
     tables.push({ name, sha256: row.sha256, fileName: row.name, columns: stored.columns });
@@ -324,10 +398,20 @@ export async function resolveAttachments(db: Kysely<Database>, sheetId: string, 
  * a sheet's attachments, by SHA-256: what the version comparison diffs row by row. Hashes that are
  * not CSV tables of the sheet are absent.
  */
-export async function attachmentTables(db: Kysely<Database>, sheetId: string, sha256s: Iterable<string>): Promise<Record<string, StoredTable>> {
+export async function attachmentTables(
+  db: Kysely<Database>,
+  sheetId: string,
+  sha256s: Iterable<string>,
+): Promise<Record<string, StoredTable>> {
   const wanted = [...new Set(sha256s)].filter((h) => /^[0-9a-f]{64}$/.test(h));
   if (wanted.length === 0) return {};
-  const rows = await db.selectFrom('attachments').select(['sha256', 'table_data']).where('sheet_id', '=', sheetId).where('sha256', 'in', wanted).where('table_data', 'is not', null).execute();
+  const rows = await db
+    .selectFrom('attachments')
+    .select(['sha256', 'table_data'])
+    .where('sheet_id', '=', sheetId)
+    .where('sha256', 'in', wanted)
+    .where('table_data', 'is not', null)
+    .execute();
   const out: Record<string, StoredTable> = {};
   for (const row of rows) out[row.sha256] ??= row.table_data as StoredTable;
   return out;

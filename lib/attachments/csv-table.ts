@@ -45,8 +45,12 @@ export function parseInputTable(text: string, checkUnit: (unit: string) => strin
   }
   if (records.length < 2) throw new TableError('A data table needs a header row and at least one row of numbers.');
   const [header, ...rows] = records;
-  if (header.length > TABLE_LIMITS.maxColumns) throw new TableError(`A data table has at most ${TABLE_LIMITS.maxColumns} columns; this one has ${header.length}.`);
-  if (rows.length > TABLE_LIMITS.maxRows) throw new TableError(`A data table has at most ${TABLE_LIMITS.maxRows} rows of numbers; this one has ${rows.length}.`);
+  if (header.length > TABLE_LIMITS.maxColumns)
+    throw new TableError(`A data table has at most ${TABLE_LIMITS.maxColumns} columns; this one has ${header.length}.`);
+  if (rows.length > TABLE_LIMITS.maxRows)
+    throw new TableError(
+      `A data table has at most ${TABLE_LIMITS.maxRows} rows of numbers; this one has ${rows.length}.`,
+    );
 
   const seen = new Set<string>();
   const columns = header.map((heading, c) => {
@@ -54,7 +58,8 @@ export function parseInputTable(text: string, checkUnit: (unit: string) => strin
     const where = `column ${c + 1} of the header ("${heading.slice(0, 60)}")`;
     if (!m) throw new TableError(`${where}: write a column as name [unit], for example energy [MeV]`);
     const name = m[1].trim().replace(/[\s-]+/g, '_');
-    if (!IDENTIFIER.test(name)) throw new TableError(`${where}: a column name starts with a letter and holds letters, digits and underscores`);
+    if (!IDENTIFIER.test(name))
+      throw new TableError(`${where}: a column name starts with a letter and holds letters, digits and underscores`);
     if (name.length > 40) throw new TableError(`${where}: column names are at most 40 characters long`);
     if (reserved(name)) throw new TableError(`${where}: "${name}" is a reserved word; rename the column`);
     if (seen.has(name)) throw new TableError(`${where}: there are two columns named ${name}`);

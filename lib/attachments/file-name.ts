@@ -22,7 +22,11 @@ export function sanitizeFileName(raw: string, kind: AttachmentKind): string {
   if (!stem) stem = 'attachment';
   const ext = declared === kind ? name.slice(name.lastIndexOf('.') + 1).toLowerCase() : spec.extensions[0];
   // Cutting to length can leave a dot or a space at the end of the stem again ("scan ..pdf").
-  stem = [...stem].slice(0, MAX_NAME - ext.length - 1).join('').replace(/[.\s]+$/, '') || 'attachment';
+  stem =
+    [...stem]
+      .slice(0, MAX_NAME - ext.length - 1)
+      .join('')
+      .replace(/[.\s]+$/, '') || 'attachment';
   name = `${stem}.${ext}`;
   return name;
 }

@@ -20,16 +20,24 @@ const MiB = 1024 * 1024;
 export const ATTACHMENT_KINDS: Record<AttachmentKind, KindSpec> = {
   pdf: { kind: 'pdf', mediaType: 'application/pdf', extensions: ['pdf'], maxBytes: 20 * MiB, label: 'a PDF document' },
   png: { kind: 'png', mediaType: 'image/png', extensions: ['png'], maxBytes: 10 * MiB, label: 'a PNG image' },
-  jpeg: { kind: 'jpeg', mediaType: 'image/jpeg', extensions: ['jpg', 'jpeg'], maxBytes: 10 * MiB, label: 'a JPEG image' },
+  jpeg: {
+    kind: 'jpeg',
+    mediaType: 'image/jpeg',
+    extensions: ['jpg', 'jpeg'],
+    maxBytes: 10 * MiB,
+    label: 'a JPEG image',
+  },
   csv: { kind: 'csv', mediaType: 'text/csv', extensions: ['csv'], maxBytes: 2 * MiB, label: 'a CSV table' },
 };
 
 /** The largest upload of any kind (the request is refused before reading beyond it). */
 export const MAX_ATTACHMENT_BYTES = Math.max(...Object.values(ATTACHMENT_KINDS).map((k) => k.maxBytes));
 
-export const ACCEPTED_DESCRIPTION = 'PDF documents (up to 20 MiB), PNG or JPEG images (up to 10 MiB) and CSV tables (up to 2 MiB)';
+export const ACCEPTED_DESCRIPTION =
+  'PDF documents (up to 20 MiB), PNG or JPEG images (up to 10 MiB) and CSV tables (up to 2 MiB)';
 
-const startsWith = (bytes: Uint8Array, signature: number[], offset = 0) => signature.every((b, i) => bytes[offset + i] === b);
+const startsWith = (bytes: Uint8Array, signature: number[], offset = 0) =>
+  signature.every((b, i) => bytes[offset + i] === b);
 
 /**
  * The kind of a file by its content: PDF by "%PDF-" (ISO 32000-2 §7.5.2, within the first 1024
@@ -62,7 +70,10 @@ function isPlainUtf8Text(bytes: Uint8Array): boolean {
 export function kindOfName(name: string): AttachmentKind | null {
   const ext = /\.([A-Za-z0-9]+)$/.exec(name)?.[1]?.toLowerCase();
   if (!ext) return null;
-  return (Object.values(ATTACHMENT_KINDS).find((k) => k.extensions.includes(ext))?.kind as AttachmentKind | undefined) ?? null;
+  return (
+    (Object.values(ATTACHMENT_KINDS).find((k) => k.extensions.includes(ext))?.kind as AttachmentKind | undefined) ??
+    null
+  );
 }
 
 /** The kind a browser's declared media type names, or null when it says nothing useful. */

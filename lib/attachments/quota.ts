@@ -16,7 +16,8 @@ export function projectStorageQuotaBytes(env: Record<string, string | undefined>
   const raw = env.WORLDSHEET_PROJECT_STORAGE_QUOTA_MB;
   if (raw === undefined || raw.trim() === '') return DEFAULT_PROJECT_STORAGE_QUOTA_MB * MIB;
   const mb = Number(raw);
-  if (!Number.isFinite(mb) || mb < 0) throw new Error(`WORLDSHEET_PROJECT_STORAGE_QUOTA_MB must be a number of MiB (0 or more), not "${raw}"`);
+  if (!Number.isFinite(mb) || mb < 0)
+    throw new Error(`WORLDSHEET_PROJECT_STORAGE_QUOTA_MB must be a number of MiB (0 or more), not "${raw}"`);
   return Math.floor(mb * MIB);
 }
 
@@ -30,7 +31,14 @@ export function formatQuotaSize(bytes: number): string {
 /** Bytes of attachments stored for the project, each distinct content counted once. */
 export async function projectStorageUsed(db: Kysely<Database>, projectId: string): Promise<number> {
   const row = await db
-    .selectFrom((eb) => eb.selectFrom('attachments').select(['sha256', sql<string>`max(size)`.as('size')]).where('project_id', '=', projectId).groupBy('sha256').as('distinct_contents'))
+    .selectFrom((eb) =>
+      eb
+        .selectFrom('attachments')
+        .select(['sha256', sql<string>`max(size)`.as('size')])
+        .where('project_id', '=', projectId)
+        .groupBy('sha256')
+        .as('distinct_contents'),
+    )
     .select(sql<string>`coalesce(sum(size), 0)`.as('used'))
     .executeTakeFirstOrThrow();
   return Number(row.used);
@@ -38,7 +46,15 @@ export async function projectStorageUsed(db: Kysely<Database>, projectId: string
 
 /** Whether the project already stores this content (it then costs nothing more). */
 async function projectHasContent(db: Kysely<Database>, projectId: string, sha256: string): Promise<boolean> {
-  return (await db.selectFrom('attachments').select('id').where('project_id', '=', projectId).where('sha256', '=', sha256).limit(1).executeTakeFirst()) !== undefined;
+  return (
+    (await db
+      .selectFrom('attachments')
+      .select('id')
+      .where('project_id', '=', projectId)
+      .where('sha256', '=', sha256)
+      .limit(1)
+      .executeTakeFirst()) !== undefined
+  );
 }
 
 /**
@@ -47,10 +63,16 @@ async function projectHasContent(db: Kysely<Database>, projectId: string, sha256
  * so concurrent uploads to one project are checked one after the other, each seeing the ones
  * before it (two uploads that fit only one at a time cannot both pass).
  */
-export async function checkProjectStorageQuota(db: Kysely<Database>, projectId: string, upload: { sha256: string; size: number }, options: { lock?: boolean } = {}): Promise<void> {
+export async function checkProjectStorageQuota(
+  db: Kysely<Database>,
+  projectId: string,
+  upload: { sha256: string; size: number },
+  options: { lock?: boolean } = {},
+): Promise<void> {
   // FOR NO KEY UPDATE: it excludes another upload's check, but not the key-share locks that inserts
   // referencing the project take (sheets, audit events), which go on meanwhile.
-  if (options.lock) await db.selectFrom('projects').select('id').where('id', '=', projectId).forNoKeyUpdate().executeTakeFirstOrThrow();
+  if (options.lock)
+    await db.selectFrom('projects').select('id').where('id', '=', projectId).forNoKeyUpdate().executeTakeFirstOrThrow();
   if (await projectHasContent(db, projectId, upload.sha256)) return;
   const quota = projectStorageQuotaBytes();
   const used = await projectStorageUsed(db, projectId);

@@ -26,7 +26,9 @@ async function main(argv: string[]): Promise<number> {
       process.stdout.write(`audit chain intact: ${report.events} events\n`);
       return 0;
     }
-    process.stdout.write(`audit chain broken at event ${report.firstBroken!.id}: ${report.firstBroken!.problem} (${report.events} events read)\n`);
+    process.stdout.write(
+      `audit chain broken at event ${report.firstBroken!.id}: ${report.firstBroken!.problem} (${report.events} events read)\n`,
+    );
     return 1;
   } catch (error) {
     process.stderr.write(`audit: cannot read the audit trail: ${(error as Error).message}\n`);

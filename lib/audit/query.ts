@@ -4,10 +4,27 @@ import { z } from 'zod';
 import type { Database } from '@/db/schema';
 
 export const auditFilterSchema = z.object({
-  person: z.string().uuid().optional().or(z.literal('').transform(() => undefined)),
-  action: z.string().regex(/^[a-z][a-z0-9_.-]*$/).max(64).optional().or(z.literal('').transform(() => undefined)),
-  from: z.string().regex(/^\d{4}-\d{2}-\d{2}$/).optional().or(z.literal('').transform(() => undefined)),
-  to: z.string().regex(/^\d{4}-\d{2}-\d{2}$/).optional().or(z.literal('').transform(() => undefined)),
+  person: z
+    .string()
+    .uuid()
+    .optional()
+    .or(z.literal('').transform(() => undefined)),
+  action: z
+    .string()
+    .regex(/^[a-z][a-z0-9_.-]*$/)
+    .max(64)
+    .optional()
+    .or(z.literal('').transform(() => undefined)),
+  from: z
+    .string()
+    .regex(/^\d{4}-\d{2}-\d{2}$/)
+    .optional()
+    .or(z.literal('').transform(() => undefined)),
+  to: z
+    .string()
+    .regex(/^\d{4}-\d{2}-\d{2}$/)
+    .optional()
+    .or(z.literal('').transform(() => undefined)),
   limit: z.coerce.number().int().min(1).max(10_000).default(500),
 });
 
@@ -20,7 +37,21 @@ export async function listProjectAudit(db: Kysely<Database>, projectId: string, 
   let q = db
     .selectFrom('audit_events as e')
     .leftJoin('users as u', 'u.id', 'e.actor_id')
-    .select(['e.id', 'e.occurred_at', 'e.action', 'e.object_type', 'e.object_id', 'e.old_value', 'e.new_value', 'e.reason', 'e.session_id', 'e.token_id', 'e.hash', 'u.display_name as actor_name', 'u.email as actor_email'])
+    .select([
+      'e.id',
+      'e.occurred_at',
+      'e.action',
+      'e.object_type',
+      'e.object_id',
+      'e.old_value',
+      'e.new_value',
+      'e.reason',
+      'e.session_id',
+      'e.token_id',
+      'e.hash',
+      'u.display_name as actor_name',
+      'u.email as actor_email',
+    ])
     .where('e.project_id', '=', projectId);
   if (filter.person) q = q.where('e.actor_id', '=', filter.person);
   if (filter.action) q = q.where('e.action', '=', filter.action);
@@ -30,7 +61,13 @@ export async function listProjectAudit(db: Kysely<Database>, projectId: string, 
 }
 
 export async function listProjectAuditActions(db: Kysely<Database>, projectId: string): Promise<string[]> {
-  const rows = await db.selectFrom('audit_events').select('action').distinct().where('project_id', '=', projectId).orderBy('action').execute();
+  const rows = await db
+    .selectFrom('audit_events')
+    .select('action')
+    .distinct()
+    .where('project_id', '=', projectId)
+    .orderBy('action')
+    .execute();
   return rows.map((r) => r.action);
 }
 
@@ -43,9 +80,39 @@ function csvField(value: unknown): string {
 }
 
 export function auditCsv(rows: Awaited<ReturnType<typeof listProjectAudit>>): string {
-  const header = ['id', 'time_utc', 'person', 'email', 'action', 'object_type', 'object_id', 'old_value', 'new_value', 'reason', 'session', 'token', 'hash'];
+  const header = [
+    'id',
+    'time_utc',
+    'person',
+    'email',
+    'action',
+    'object_type',
+    'object_id',
+    'old_value',
+    'new_value',
+    'reason',
+    'session',
+    'token',
+    'hash',
+  ];
   const lines = rows.map((r) =>
-    [r.id, r.occurred_at, r.actor_name ?? 'system', r.actor_email, r.action, r.object_type, r.object_id, r.old_value, r.new_value, r.reason, r.session_id, r.token_id, r.hash].map(csvField).join(','),
+    [
+      r.id,
+      r.occurred_at,
+      r.actor_name ?? 'system',
+      r.actor_email,
+      r.action,
+      r.object_type,
+      r.object_id,
+      r.old_value,
+      r.new_value,
+      r.reason,
+      r.session_id,
+      r.token_id,
+      r.hash,
+    ]
+      .map(csvField)
+      .join(','),
   );
   return `${[header.join(','), ...lines].join('\r\n')}\r\n`;
 }

@@ -15,7 +15,11 @@ export interface AuditInput {
   reason?: string | null;
 }
 
-export async function recordAudit(db: Kysely<Database> | Transaction<Database>, actor: Actor | null, event: AuditInput): Promise<void> {
+export async function recordAudit(
+  db: Kysely<Database> | Transaction<Database>,
+  actor: Actor | null,
+  event: AuditInput,
+): Promise<void> {
   await db
     .insertInto('audit_events')
     .values({

@@ -22,9 +22,19 @@ export async function verifyAuditChain(db: Kysely<Database>, batch = 5000): Prom
       from audit_events e where e.id > ${lastId.toString()} order by e.id limit ${batch}`.execute(db);
     for (const r of rows.rows) {
       count++;
-      if (r.prev_hash !== previous) return { ok: false, events: count, firstBroken: { id: r.id, problem: 'it does not follow the event before it (prev_hash differs)' } };
+      if (r.prev_hash !== previous)
+        return {
+          ok: false,
+          events: count,
+          firstBroken: { id: r.id, problem: 'it does not follow the event before it (prev_hash differs)' },
+        };
       const expected = createHash('sha256').update(`${r.prev_hash}|${r.payload}`, 'utf8').digest('hex');
-      if (expected !== r.hash) return { ok: false, events: count, firstBroken: { id: r.id, problem: 'its content no longer matches its hash' } };
+      if (expected !== r.hash)
+        return {
+          ok: false,
+          events: count,
+          firstBroken: { id: r.id, problem: 'its content no longer matches its hash' },
+        };
       previous = r.hash;
       lastId = BigInt(r.id);
     }

@@ -24,9 +24,14 @@ const newPassword = z.string().superRefine((value, ctx) => {
 export const passwordChangeSchema = z.object({
   currentPassword: z.string().min(1, 'enter your current password'),
   newPassword,
-  revokeTokens: z.boolean().default(false).meta({ description: 'Also revoke every API token of the account. The other browser sessions end in any case.' }),
+  revokeTokens: z
+    .boolean()
+    .default(false)
+    .meta({ description: 'Also revoke every API token of the account. The other browser sessions end in any case.' }),
 });
-export const resetRequestSchema = z.object({ email: z.string().trim().toLowerCase().email('enter an e-mail address').max(254) });
+export const resetRequestSchema = z.object({
+  email: z.string().trim().toLowerCase().email('enter an e-mail address').max(254),
+});
 export const resetConfirmSchema = z.object({ token: z.string().min(10).max(200), newPassword });
 
 /**
@@ -42,7 +47,11 @@ export async function changePassword(
   await checkCurrentPassword(db, actor, input.currentPassword);
   const hashed = await hashPassword(input.newPassword);
   return db.transaction().execute(async (trx) => {
-    await trx.updateTable('users').set({ password_hash: hashed, password_changed_at: sql`now()` }).where('id', '=', actor.userId).execute();
+    await trx
+      .updateTable('users')
+      .set({ password_hash: hashed, password_changed_at: sql`now()` })
+      .where('id', '=', actor.userId)
+      .execute();
     const endedSessions = await endUserSessions(trx, actor.userId, 'password changed', actor.sessionId);
     const revokedTokens = input.revokeTokens ? await revokeUserApiTokens(trx, actor.userId) : 0;
     await recordAudit(trx, actor, {
@@ -61,7 +70,11 @@ export async function changePassword(
  * when the account is locked.
  */
 async function checkCurrentPassword(db: Kysely<Database>, actor: Actor, currentPassword: string): Promise<void> {
-  const check = await checkAccountPassword(db, { userId: actor.userId, password: currentPassword, context: { where: 'password-change', actor } });
+  const check = await checkAccountPassword(db, {
+    userId: actor.userId,
+    password: currentPassword,
+    context: { where: 'password-change', actor },
+  });
   if (check.outcome === 'ok') return;
   const refusal =
     check.outcome === 'locked'
@@ -82,7 +95,11 @@ async function checkCurrentPassword(db: Kysely<Database>, actor: Actor, currentP
 }
 
 async function requestLink(db: Kysely<Database>, email: string, purpose: 'password-reset' | 'sign-in'): Promise<void> {
-  const user = await db.selectFrom('users').select(['id', 'display_name', 'disabled_at']).where('email', '=', email).executeTakeFirst();
+  const user = await db
+    .selectFrom('users')
+    .select(['id', 'display_name', 'disabled_at'])
+    .where('email', '=', email)
+    .executeTakeFirst();
   if (!user || user.disabled_at) return;
   // At most three links of a kind per account in a quarter of an hour: the form cannot be used to
   // flood someone's mailbox.
@@ -97,7 +114,8 @@ async function requestLink(db: Kysely<Database>, email: string, purpose: 'passwo
   await db.transaction().execute(async (trx) => {
     const minutes = purpose === 'sign-in' ? AUTH_SETTINGS.signInLinkMinutes : AUTH_SETTINGS.passwordResetMinutes;
     const token = await createEmailToken(trx, { userId: user.id, purpose, minutes });
-    const link = purpose === 'sign-in' ? `${appUrl()}/sign-in/link?token=${token}` : `${appUrl()}/reset-password?token=${token}`;
+    const link =
+      purpose === 'sign-in' ? `${appUrl()}/sign-in/link?token=${token}` : `${appUrl()}/reset-password?token=${token}`;
     await enqueueMail(trx, {
       kind: purpose,
       to: email,
@@ -114,7 +132,11 @@ async function requestLink(db: Kysely<Database>, email: string, purpose: 'passwo
         'If you did not ask for it, ignore this message.',
       ].join('\n'),
     });
-    await recordAudit(trx, null, { action: purpose === 'sign-in' ? 'auth.link-request' : 'auth.reset-request', objectType: 'user', objectId: user.id });
+    await recordAudit(trx, null, {
+      action: purpose === 'sign-in' ? 'auth.link-request' : 'auth.reset-request',
+      objectType: 'user',
+      objectId: user.id,
+    });
   });
 }
 
@@ -126,15 +148,28 @@ export const requestSignInLink = (db: Kysely<Database>, email: string) => reques
  * revokes every API token of the account (whoever knew the old password may have made them); the
  * audit event says how many of each.
  */
-export async function confirmPasswordReset(db: Kysely<Database>, input: z.infer<typeof resetConfirmSchema>): Promise<void> {
+export async function confirmPasswordReset(
+  db: Kysely<Database>,
+  input: z.infer<typeof resetConfirmSchema>,
+): Promise<void> {
   const hashed = await hashPassword(input.newPassword);
   await db.transaction().execute(async (trx) => {
     const userId =
-      (await consumeEmailToken(trx, { token: input.token, purpose: 'password-reset' })) ?? (await consumeEmailToken(trx, { token: input.token, purpose: 'invitation' }));
+      (await consumeEmailToken(trx, { token: input.token, purpose: 'password-reset' })) ??
+      (await consumeEmailToken(trx, { token: input.token, purpose: 'invitation' }));
     if (!userId) throw new AppError('bad_request', 'This link has expired or was already used. Ask for a new one.');
-    await trx.updateTable('users').set({ password_hash: hashed, password_changed_at: sql`now()`, failed_sign_ins: 0 }).where('id', '=', userId).execute();
+    await trx
+      .updateTable('users')
+      .set({ password_hash: hashed, password_changed_at: sql`now()`, failed_sign_ins: 0 })
+      .where('id', '=', userId)
+      .execute();
     const endedSessions = await endUserSessions(trx, userId, 'password reset');
     const revokedTokens = await revokeUserApiTokens(trx, userId);
-    await recordAudit(trx, null, { action: 'user.password-reset', objectType: 'user', objectId: userId, newValue: { endedSessions, revokedTokens } });
+    await recordAudit(trx, null, {
+      action: 'user.password-reset',
+      objectType: 'user',
+      objectId: userId,
+      newValue: { endedSessions, revokedTokens },
+    });
   });
 }

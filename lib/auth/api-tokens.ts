@@ -40,14 +40,19 @@ export const apiTokenInputSchema = z.object({
   scope: z
     .enum(API_TOKEN_SCOPES)
     .default('read-write')
-    .meta({ description: "`read`: GET and HEAD requests only. `read-write`: also changes. Signing, approving and issuing need the password in any case." }),
+    .meta({
+      description:
+        '`read`: GET and HEAD requests only. `read-write`: also changes. Signing, approving and issuing need the password in any case.',
+    }),
   expiresInDays: z
     .number()
     .int()
     .min(1)
     .max(API_TOKEN_SETTINGS.maxDays, `a token lasts at most ${API_TOKEN_SETTINGS.maxDays} days`)
     .default(API_TOKEN_SETTINGS.defaultDays)
-    .meta({ description: `Days until the token expires: ${API_TOKEN_SETTINGS.defaultDays} unless given, at most ${API_TOKEN_SETTINGS.maxDays}.` }),
+    .meta({
+      description: `Days until the token expires: ${API_TOKEN_SETTINGS.defaultDays} unless given, at most ${API_TOKEN_SETTINGS.maxDays}.`,
+    }),
 });
 
 export interface CreatedApiToken {
@@ -75,7 +80,14 @@ export async function createApiToken(
   return db.transaction().execute(async (trx) => {
     const row = await trx
       .insertInto('api_tokens')
-      .values({ user_id: actor.userId, name: name.trim(), token_hash: hashToken(token), prefix, scope, expires_at: sql<Date>`now() + make_interval(days => ${days})` })
+      .values({
+        user_id: actor.userId,
+        name: name.trim(),
+        token_hash: hashToken(token),
+        prefix,
+        scope,
+        expires_at: sql<Date>`now() + make_interval(days => ${days})`,
+      })
       .returning(['id', 'scope', 'expires_at'])
       .executeTakeFirstOrThrow();
     await recordAudit(trx, actor, {
@@ -91,7 +103,17 @@ export async function createApiToken(
 export async function listApiTokens(db: Kysely<Database>, userId: string) {
   return db
     .selectFrom('api_tokens')
-    .select(['id', 'name', 'prefix', 'scope', 'created_at', 'expires_at', 'last_used_at', 'revoked_at', sql<boolean>`expires_at <= now()`.as('expired')])
+    .select([
+      'id',
+      'name',
+      'prefix',
+      'scope',
+      'created_at',
+      'expires_at',
+      'last_used_at',
+      'revoked_at',
+      sql<boolean>`expires_at <= now()`.as('expired'),
+    ])
     .where('user_id', '=', userId)
     .orderBy('created_at', 'desc')
     .execute();
@@ -99,7 +121,13 @@ export async function listApiTokens(db: Kysely<Database>, userId: string) {
 
 /** Revokes every live token of a user (password reset, or a password change that asks to); the number revoked. */
 export async function revokeUserApiTokens(db: Kysely<Database>, userId: string): Promise<number> {
-  const revoked = await db.updateTable('api_tokens').set({ revoked_at: sql`now()` }).where('user_id', '=', userId).where('revoked_at', 'is', null).returning('id').execute();
+  const revoked = await db
+    .updateTable('api_tokens')
+    .set({ revoked_at: sql`now()` })
+    .where('user_id', '=', userId)
+    .where('revoked_at', 'is', null)
+    .returning('id')
+    .execute();
   return revoked.length;
 }
 
@@ -114,7 +142,12 @@ export async function revokeApiToken(db: Kysely<Database>, actor: Actor, tokenId
       .returning(['id', 'name'])
       .executeTakeFirst();
     if (!row) throw new AppError('not_found', 'No such token.');
-    await recordAudit(trx, actor, { action: 'token.revoke', objectType: 'api_token', objectId: row.id, oldValue: { name: row.name } });
+    await recordAudit(trx, actor, {
+      action: 'token.revoke',
+      objectType: 'api_token',
+      objectId: row.id,
+      oldValue: { name: row.name },
+    });
   });
 }
 
@@ -144,6 +177,20 @@ export async function resolveApiToken(db: Kysely<Database>, token: string): Prom
     .where('t.token_hash', '=', hashToken(token))
     .executeTakeFirst();
   if (!row || row.revoked_at || row.expired || row.disabled_at || row.locked) return null;
-  if (row.stale) await db.updateTable('api_tokens').set({ last_used_at: sql`now()` }).where('id', '=', row.id).execute();
-  return { userId: row.user_id, email: row.email, name: row.display_name, isAdmin: row.is_admin, via: 'token', sessionId: null, tokenId: row.id, tokenScope: row.scope };
+  if (row.stale)
+    await db
+      .updateTable('api_tokens')
+      .set({ last_used_at: sql`now()` })
+      .where('id', '=', row.id)
+      .execute();
+  return {
+    userId: row.user_id,
+    email: row.email,
+    name: row.display_name,
+    isAdmin: row.is_admin,
+    via: 'token',
+    sessionId: null,
+    tokenId: row.id,
+    tokenScope: row.scope,
+  };
 }

@@ -31,12 +31,24 @@ function userAgent(req: RequestLike): string | null {
 async function open(user: SignedInUser, method: 'password' | 'link', req: RequestLike) {
   const db = getDb();
   const sessionId = await startSession(db, { userId: user.id, method, ip: clientIp(req), userAgent: userAgent(req) });
-  await recordAudit(db, { userId: user.id, email: user.email, name: user.name, isAdmin: user.isAdmin, via: 'session', sessionId, tokenId: null }, {
-    action: 'auth.sign-in',
-    objectType: 'session',
-    objectId: sessionId,
-    newValue: { method },
-  });
+  await recordAudit(
+    db,
+    {
+      userId: user.id,
+      email: user.email,
+      name: user.name,
+      isAdmin: user.isAdmin,
+      via: 'session',
+      sessionId,
+      tokenId: null,
+    },
+    {
+      action: 'auth.sign-in',
+      objectType: 'session',
+      objectId: sessionId,
+      newValue: { method },
+    },
+  );
   return { id: user.id, email: user.email, name: user.name, sessionId };
 }
 
@@ -61,7 +73,11 @@ export const authOptions: NextAuthOptions = {
       credentials: { email: { label: 'E-mail', type: 'email' }, password: { label: 'Password', type: 'password' } },
       async authorize(credentials, req) {
         try {
-          const user = await authenticatePassword(getDb(), { email: credentials?.email ?? '', password: credentials?.password ?? '', ip: clientIp(req) });
+          const user = await authenticatePassword(getDb(), {
+            email: credentials?.email ?? '',
+            password: credentials?.password ?? '',
+            ip: clientIp(req),
+          });
           return await open(user, 'password', req);
         } catch (error) {
           rethrow(error);
@@ -91,8 +107,12 @@ export const authOptions: NextAuthOptions = {
     },
     async signIn({ account, profile, user }) {
       if (account?.provider !== 'oidc') return true;
-      const result = await signInWithOidc(getDb(), { profile: profile as Record<string, unknown> | undefined, account });
-      if (!result) return `/sign-in?error=${(profile as { email_verified?: unknown } | undefined)?.email_verified === false ? 'OidcEmailUnverified' : 'OidcNotAllowed'}`;
+      const result = await signInWithOidc(getDb(), {
+        profile: profile as Record<string, unknown> | undefined,
+        account,
+      });
+      if (!result)
+        return `/sign-in?error=${(profile as { email_verified?: unknown } | undefined)?.email_verified === false ? 'OidcEmailUnverified' : 'OidcNotAllowed'}`;
       Object.assign(user, result);
       return true;
     },

@@ -48,21 +48,31 @@ export interface ProjectAccess {
  * Requires membership of the project (404 otherwise) and, when `roles` is given, one of those roles
  * (403 otherwise). `projectRef` is the project's id or its code.
  */
-export const requireProjectRole = cache(async (projectRef: string, roles?: readonly ProjectRole[]): Promise<ProjectAccess> => {
-  const actor = await requireActor();
-  const db = getDb();
-  const isUuid = /^[0-9a-f]{8}-[0-9a-f]{4}-[0-9a-f]{4}-[0-9a-f]{4}-[0-9a-f]{12}$/.test(projectRef);
-  const project = await db
-    .selectFrom('projects')
-    .select(['id', 'code', 'name', 'legal_owner', 'revision_scheme'])
-    .where(isUuid ? 'id' : 'code', '=', projectRef)
-    .executeTakeFirst();
-  const held = project
-    ? (await db.selectFrom('project_members').select('role').where('project_id', '=', project.id).where('user_id', '=', actor.userId).execute()).map((r) => r.role)
-    : [];
-  if (!project || held.length === 0) throw new AppError('not_found', 'No such project, or you are not a member of it.');
-  if (roles && !roles.some((r) => held.includes(r))) {
-    throw new AppError('forbidden', `This needs the ${roles.join(' or ')} role in ${project.code}.`);
-  }
-  return { actor, project, roles: held };
-});
+export const requireProjectRole = cache(
+  async (projectRef: string, roles?: readonly ProjectRole[]): Promise<ProjectAccess> => {
+    const actor = await requireActor();
+    const db = getDb();
+    const isUuid = /^[0-9a-f]{8}-[0-9a-f]{4}-[0-9a-f]{4}-[0-9a-f]{4}-[0-9a-f]{12}$/.test(projectRef);
+    const project = await db
+      .selectFrom('projects')
+      .select(['id', 'code', 'name', 'legal_owner', 'revision_scheme'])
+      .where(isUuid ? 'id' : 'code', '=', projectRef)
+      .executeTakeFirst();
+    const held = project
+      ? (
+          await db
+            .selectFrom('project_members')
+            .select('role')
+            .where('project_id', '=', project.id)
+            .where('user_id', '=', actor.userId)
+            .execute()
+        ).map((r) => r.role)
+      : [];
+    if (!project || held.length === 0)
+      throw new AppError('not_found', 'No such project, or you are not a member of it.');
+    if (roles && !roles.some((r) => held.includes(r))) {
+      throw new AppError('forbidden', `This needs the ${roles.join(' or ')} role in ${project.code}.`);
+    }
+    return { actor, project, roles: held };
+  },
+);

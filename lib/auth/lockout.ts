@@ -123,7 +123,10 @@ const WHERE_TEXT: Record<AttemptContext['where'], string> = {
  * file). The lock is decided before the password is evaluated: a locked account's password is never
  * checked.
  */
-export async function checkAccountPassword(db: Kysely<Database>, input: { userId: string; password: string; context: AttemptContext }): Promise<PasswordCheck> {
+export async function checkAccountPassword(
+  db: Kysely<Database>,
+  input: { userId: string; password: string; context: AttemptContext },
+): Promise<PasswordCheck> {
   const booking = await bookAttempt(db, input.userId);
   if (!booking) {
     const u = await db
@@ -164,7 +167,13 @@ async function announceLock(db: Kysely<Database>, booking: Booking, context: Att
       action: 'user.lock',
       objectType: 'user',
       objectId: booking.userId,
-      newValue: { locked: true, until: until.toISOString(), failedAttempts: booking.failures, where: context.where, ip: context.ip ?? null },
+      newValue: {
+        locked: true,
+        until: until.toISOString(),
+        failedAttempts: booking.failures,
+        where: context.where,
+        ip: context.ip ?? null,
+      },
       reason: `${booking.failures} failed password attempts in a row (the last while ${WHERE_TEXT[context.where]})`,
     });
     const token = await createEmailToken(trx, { userId: booking.userId, purpose: 'unlock', minutes });
@@ -194,12 +203,28 @@ export const unlockSchema = z.object({ token: z.string().min(10).max(200) });
 export async function unlockWithToken(db: Kysely<Database>, token: string): Promise<{ unlocked: boolean }> {
   return db.transaction().execute(async (trx) => {
     const userId = await consumeEmailToken(trx, { token, purpose: 'unlock' });
-    if (!userId) throw new AppError('bad_request', 'This unlock link has expired or was already used. Sign in, or ask an administrator.');
-    const user = await trx.selectFrom('users').select(['locked_at', 'lock_expires_at', LOCK_ACTIVE.as('locked')]).where('id', '=', userId).forUpdate().executeTakeFirstOrThrow();
+    if (!userId)
+      throw new AppError(
+        'bad_request',
+        'This unlock link has expired or was already used. Sign in, or ask an administrator.',
+      );
+    const user = await trx
+      .selectFrom('users')
+      .select(['locked_at', 'lock_expires_at', LOCK_ACTIVE.as('locked')])
+      .where('id', '=', userId)
+      .forUpdate()
+      .executeTakeFirstOrThrow();
     if (user.locked && user.lock_expires_at === null) {
-      throw new AppError('conflict', 'An administrator has locked this account since; only an administrator can unlock it.');
+      throw new AppError(
+        'conflict',
+        'An administrator has locked this account since; only an administrator can unlock it.',
+      );
     }
-    await trx.updateTable('users').set({ locked_at: null, lock_expires_at: null, failed_sign_ins: 0 }).where('id', '=', userId).execute();
+    await trx
+      .updateTable('users')
+      .set({ locked_at: null, lock_expires_at: null, failed_sign_ins: 0 })
+      .where('id', '=', userId)
+      .execute();
     await recordAudit(trx, null, {
       action: 'user.unlock',
       objectType: 'user',

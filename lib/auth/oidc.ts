@@ -34,7 +34,8 @@ export function parseRoleMap(text: string | undefined): RoleMapping[] {
     .filter(Boolean)
     .map((part) => {
       const m = /^([^=]+)=([A-Z][A-Z0-9]{1,9}):([a-z]+)$/.exec(part);
-      if (!m || !ROLES.includes(m[3] as ProjectRole)) throw new Error(`WORLDSHEET_OIDC_ROLE_MAP: cannot read "${part}" (expected group=PROJECT:role)`);
+      if (!m || !ROLES.includes(m[3] as ProjectRole))
+        throw new Error(`WORLDSHEET_OIDC_ROLE_MAP: cannot read "${part}" (expected group=PROJECT:role)`);
       return { group: m[1].trim(), projectCode: m[2], role: m[3] as ProjectRole };
     });
 }
@@ -71,7 +72,11 @@ export function oidcProviders(): OAuthConfig<Record<string, unknown>>[] {
       },
       checks: ['pkce', 'state', 'nonce'],
       profile(profile) {
-        return { id: String(profile.sub), email: profile.email as string, name: (profile.name as string) ?? (profile.email as string) };
+        return {
+          id: String(profile.sub),
+          email: profile.email as string,
+          name: (profile.name as string) ?? (profile.email as string),
+        };
       },
     },
   ];
@@ -101,37 +106,96 @@ export async function signInWithOidc(
   const groups = new Set(groupsOf(profile));
 
   return db.transaction().execute(async (trx) => {
-    let user = await trx.selectFrom('users').select(['id', 'email', 'display_name', 'is_admin', 'disabled_at', 'locked_at', 'lock_expires_at']).where('email', '=', email).executeTakeFirst();
+    let user = await trx
+      .selectFrom('users')
+      .select(['id', 'email', 'display_name', 'is_admin', 'disabled_at', 'locked_at', 'lock_expires_at'])
+      .where('email', '=', email)
+      .executeTakeFirst();
     if (!user) {
       user = await trx
         .insertInto('users')
         .values({ email, display_name: name, password_hash: null })
         .returning(['id', 'email', 'display_name', 'is_admin', 'disabled_at', 'locked_at', 'lock_expires_at'])
         .executeTakeFirstOrThrow();
-      await recordAudit(trx, null, { action: 'user.create', objectType: 'user', objectId: user.id, newValue: { email, name, via: 'oidc' }, reason: 'first sign-in through the organisation account' });
+      await recordAudit(trx, null, {
+        action: 'user.create',
+        objectType: 'user',
+        objectId: user.id,
+        newValue: { email, name, via: 'oidc' },
+        reason: 'first sign-in through the organisation account',
+      });
     }
     // A timed lock (after failed passwords) that has run out no longer holds (lib/auth/lockout.ts).
     const locked = user.locked_at !== null && (user.lock_expires_at === null || user.lock_expires_at > new Date());
     if (user.disabled_at || locked) return null;
-    const sessionId = await startSession(trx as unknown as Kysely<Database>, { userId: user.id, method: 'oidc', ip: null, userAgent: null });
-    const actor: Actor = { userId: user.id, email: user.email, name: user.display_name, isAdmin: user.is_admin, via: 'session', sessionId, tokenId: null };
-    await recordAudit(trx, actor, { action: 'auth.sign-in', objectType: 'session', objectId: sessionId, newValue: { method: 'oidc' } });
+    const sessionId = await startSession(trx as unknown as Kysely<Database>, {
+      userId: user.id,
+      method: 'oidc',
+      ip: null,
+      userAgent: null,
+    });
+    const actor: Actor = {
+      userId: user.id,
+      email: user.email,
+      name: user.display_name,
+      isAdmin: user.is_admin,
+      via: 'session',
+      sessionId,
+      tokenId: null,
+    };
+    await recordAudit(trx, actor, {
+      action: 'auth.sign-in',
+      objectType: 'session',
+      objectId: sessionId,
+      newValue: { method: 'oidc' },
+    });
 
     const codes = [...new Set(mapping.map((m) => m.projectCode))];
-    const projects = codes.length ? await trx.selectFrom('projects').select(['id', 'code']).where('code', 'in', codes).execute() : [];
+    const projects = codes.length
+      ? await trx.selectFrom('projects').select(['id', 'code']).where('code', 'in', codes).execute()
+      : [];
     for (const project of projects) {
       const pairs = mapping.filter((m) => m.projectCode === project.code);
       const held = new Set(
-        (await trx.selectFrom('project_members').select('role').where('project_id', '=', project.id).where('user_id', '=', user.id).execute()).map((r) => r.role),
+        (
+          await trx
+            .selectFrom('project_members')
+            .select('role')
+            .where('project_id', '=', project.id)
+            .where('user_id', '=', user.id)
+            .execute()
+        ).map((r) => r.role),
       );
       for (const role of new Set(pairs.map((p) => p.role))) {
         const should = pairs.some((p) => p.role === role && groups.has(p.group));
         if (should && !held.has(role)) {
-          await trx.insertInto('project_members').values({ project_id: project.id, user_id: user.id, role, granted_by: null }).execute();
-          await recordAudit(trx, null, { action: 'membership.grant', objectType: 'user', objectId: user.id, projectId: project.id, newValue: { role }, reason: 'organisation group membership (single sign-on)' });
+          await trx
+            .insertInto('project_members')
+            .values({ project_id: project.id, user_id: user.id, role, granted_by: null })
+            .execute();
+          await recordAudit(trx, null, {
+            action: 'membership.grant',
+            objectType: 'user',
+            objectId: user.id,
+            projectId: project.id,
+            newValue: { role },
+            reason: 'organisation group membership (single sign-on)',
+          });
         } else if (!should && held.has(role)) {
-          await trx.deleteFrom('project_members').where('project_id', '=', project.id).where('user_id', '=', user.id).where('role', '=', role).execute();
-          await recordAudit(trx, null, { action: 'membership.revoke', objectType: 'user', objectId: user.id, projectId: project.id, oldValue: { role }, reason: 'no longer in the organisation group (single sign-on)' });
+          await trx
+            .deleteFrom('project_members')
+            .where('project_id', '=', project.id)
+            .where('user_id', '=', user.id)
+            .where('role', '=', role)
+            .execute();
+          await recordAudit(trx, null, {
+            action: 'membership.revoke',
+            objectType: 'user',
+            objectId: user.id,
+            projectId: project.id,
+            oldValue: { role },
+            reason: 'no longer in the organisation group (single sign-on)',
+          });
         }
       }
     }

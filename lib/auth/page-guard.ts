@@ -14,7 +14,11 @@ export async function pageActor(returnTo: string): Promise<Actor> {
 }
 
 /** For project pages: membership (with one of `roles`, when given), else not found. */
-export async function pageProject(projectRef: string, returnTo: string, roles?: readonly ProjectRole[]): Promise<ProjectAccess> {
+export async function pageProject(
+  projectRef: string,
+  returnTo: string,
+  roles?: readonly ProjectRole[],
+): Promise<ProjectAccess> {
   await pageActor(returnTo);
   if (!pageParams({ projectCode: projectRef })) notFound();
   try {

@@ -22,11 +22,20 @@ export interface ReauthenticationMessages {
 export async function reauthenticateToSign(
   db: Kysely<Database>,
   actor: Actor,
-  input: { sheet: { id: string; project_id: string }; meaning: SignatureMeaning; password: string; messages: ReauthenticationMessages },
+  input: {
+    sheet: { id: string; project_id: string };
+    meaning: SignatureMeaning;
+    password: string;
+    messages: ReauthenticationMessages;
+  },
 ): Promise<void> {
   // A wrong password here counts toward the same lock as at sign-in (lib/auth/lockout.ts): a session
   // or an API token is no licence to guess. A locked account cannot sign, even with the right one.
-  const check = await checkAccountPassword(db, { userId: actor.userId, password: input.password, context: { where: 'signature', actor } });
+  const check = await checkAccountPassword(db, {
+    userId: actor.userId,
+    password: input.password,
+    context: { where: 'signature', actor },
+  });
   const problem =
     check.outcome === 'ok'
       ? null
@@ -39,7 +48,14 @@ export async function reauthenticateToSign(
             : WRONG_PASSWORD_MESSAGE;
   if (problem) {
     const { sheet, meaning } = input;
-    await recordAudit(db, actor, { action: 'signature.refused', objectType: 'sheet', objectId: sheet.id, projectId: sheet.project_id, newValue: { meaning }, reason: problem });
+    await recordAudit(db, actor, {
+      action: 'signature.refused',
+      objectType: 'sheet',
+      objectId: sheet.id,
+      projectId: sheet.project_id,
+      newValue: { meaning },
+      reason: problem,
+    });
     throw new AppError('forbidden', problem, { rule: 'password' });
   }
 }

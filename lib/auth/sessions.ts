@@ -14,7 +14,12 @@ export async function startSession(
 ): Promise<string> {
   const row = await db
     .insertInto('sessions')
-    .values({ user_id: input.userId, method: input.method, ip: input.ip, user_agent: input.userAgent?.slice(0, 300) ?? null })
+    .values({
+      user_id: input.userId,
+      method: input.method,
+      ip: input.ip,
+      user_agent: input.userAgent?.slice(0, 300) ?? null,
+    })
     .returning('id')
     .executeTakeFirstOrThrow();
   return row.id;
@@ -44,11 +49,28 @@ export async function resumeSession(db: Kysely<Database>, sessionId: string): Pr
     .executeTakeFirst();
   if (!row || row.ended_at) return null;
   if (row.idle || row.too_old || row.disabled_at || row.locked) {
-    await endSession(db, sessionId, row.disabled_at ? 'user disabled' : row.locked ? 'user locked' : row.idle ? 'inactivity' : 'maximum duration');
+    await endSession(
+      db,
+      sessionId,
+      row.disabled_at ? 'user disabled' : row.locked ? 'user locked' : row.idle ? 'inactivity' : 'maximum duration',
+    );
     return null;
   }
-  if (row.stale) await db.updateTable('sessions').set({ last_seen_at: sql`now()` }).where('id', '=', sessionId).execute();
-  return { userId: row.user_id, email: row.email, name: row.display_name, isAdmin: row.is_admin, via: 'session', sessionId, tokenId: null };
+  if (row.stale)
+    await db
+      .updateTable('sessions')
+      .set({ last_seen_at: sql`now()` })
+      .where('id', '=', sessionId)
+      .execute();
+  return {
+    userId: row.user_id,
+    email: row.email,
+    name: row.display_name,
+    isAdmin: row.is_admin,
+    via: 'session',
+    sessionId,
+    tokenId: null,
+  };
 }
 
 /** Ends one session; its user's id when it was live, null when it had ended already. */
@@ -69,11 +91,15 @@ export async function signOutSession(db: Kysely<Database>, sessionId: string): P
   await db.transaction().execute(async (trx) => {
     const userId = await endSession(trx, sessionId, 'signed out');
     if (!userId) return;
-    await recordAudit(trx, { userId, email: '', name: '', isAdmin: false, via: 'session', sessionId, tokenId: null }, {
-      action: 'auth.sign-out',
-      objectType: 'session',
-      objectId: sessionId,
-    });
+    await recordAudit(
+      trx,
+      { userId, email: '', name: '', isAdmin: false, via: 'session', sessionId, tokenId: null },
+      {
+        action: 'auth.sign-out',
+        objectType: 'session',
+        objectId: sessionId,
+      },
+    );
   });
 }
 
@@ -81,8 +107,17 @@ export async function signOutSession(db: Kysely<Database>, sessionId: string): P
  * Ends the user's live sessions, but the one in `except` (the session that changed the password),
  * each with `reason`; the number ended.
  */
-export async function endUserSessions(db: Kysely<Database>, userId: string, reason: string, except: string | null = null): Promise<number> {
-  let query = db.updateTable('sessions').set({ ended_at: sql`now()`, ended_reason: reason }).where('user_id', '=', userId).where('ended_at', 'is', null);
+export async function endUserSessions(
+  db: Kysely<Database>,
+  userId: string,
+  reason: string,
+  except: string | null = null,
+): Promise<number> {
+  let query = db
+    .updateTable('sessions')
+    .set({ ended_at: sql`now()`, ended_reason: reason })
+    .where('user_id', '=', userId)
+    .where('ended_at', 'is', null);
   if (except) query = query.where('id', '<>', except);
   const ended = await query.returning('id').execute();
   return ended.length;

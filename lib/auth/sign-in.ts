@@ -41,8 +41,17 @@ export function addressDelaySeconds(failures: number): number {
   return Math.min(2 ** (failures - AUTH_SETTINGS.ipFreeFailures), AUTH_SETTINGS.rateWindowMinutes * 60);
 }
 
-async function noteAttempt(db: Kysely<Database>, email: string, ip: string, method: 'password' | 'link'): Promise<string> {
-  const row = await db.insertInto('sign_in_attempts').values({ email, ip, method, ok: false }).returning('id').executeTakeFirstOrThrow();
+async function noteAttempt(
+  db: Kysely<Database>,
+  email: string,
+  ip: string,
+  method: 'password' | 'link',
+): Promise<string> {
+  const row = await db
+    .insertInto('sign_in_attempts')
+    .values({ email, ip, method, ok: false })
+    .returning('id')
+    .executeTakeFirstOrThrow();
   return row.id;
 }
 
@@ -68,7 +77,11 @@ async function throttleAddress(db: Kysely<Database>, ip: string, attemptId: stri
   if (wait > 0) {
     await db.deleteFrom('sign_in_attempts').where('id', '=', attemptId).execute();
     const seconds = Math.ceil(wait);
-    throw new AuthError('rate_limited', `Too many failed sign-in attempts from your network. Try again in ${seconds} ${seconds === 1 ? 'second' : 'seconds'}.`, seconds);
+    throw new AuthError(
+      'rate_limited',
+      `Too many failed sign-in attempts from your network. Try again in ${seconds} ${seconds === 1 ? 'second' : 'seconds'}.`,
+      seconds,
+    );
   }
 }
 
@@ -89,7 +102,10 @@ async function unknownAddressFailures(db: Kysely<Database>, email: string, attem
   return rows.map((r) => r.at);
 }
 
-export async function authenticatePassword(db: Kysely<Database>, input: { email: string; password: string; ip: string }): Promise<SignedInUser> {
+export async function authenticatePassword(
+  db: Kysely<Database>,
+  input: { email: string; password: string; ip: string },
+): Promise<SignedInUser> {
   const email = input.email.trim().toLowerCase();
   const attemptId = await noteAttempt(db, email, input.ip, 'password');
   await throttleAddress(db, input.ip, attemptId);
@@ -113,7 +129,11 @@ export async function authenticatePassword(db: Kysely<Database>, input: { email:
     const right = await verifyPasswordOrDummy(user.password_hash, input.password);
     throw right && user.disabled_at ? new AuthError('disabled', DISABLED) : new AuthError('invalid', INVALID);
   }
-  const check = await checkAccountPassword(db, { userId: user.id, password: input.password, context: { where: 'sign-in', ip: input.ip } });
+  const check = await checkAccountPassword(db, {
+    userId: user.id,
+    password: input.password,
+    context: { where: 'sign-in', ip: input.ip },
+  });
   switch (check.outcome) {
     case 'ok':
       await succeeded(db, attemptId);
@@ -132,7 +152,10 @@ export async function authenticatePassword(db: Kysely<Database>, input: { email:
  * before the link is used; a link that does not work is a failure). A locked or disabled account
  * cannot use one, and its link is then left unused.
  */
-export async function authenticateLink(db: Kysely<Database>, input: { token: string; ip: string }): Promise<SignedInUser> {
+export async function authenticateLink(
+  db: Kysely<Database>,
+  input: { token: string; ip: string },
+): Promise<SignedInUser> {
   const holder = await db
     .selectFrom('email_tokens')
     .innerJoin('users', 'users.id', 'email_tokens.user_id')
@@ -152,7 +175,8 @@ export async function authenticateLink(db: Kysely<Database>, input: { token: str
     if (state.locked) throw new AuthError('locked', lockedMessage(state.lock_expires_at));
   }
   const userId = await consumeEmailToken(db, { token: input.token, purpose: 'sign-in' });
-  if (!userId) throw new AuthError('expired_link', 'This sign-in link has expired or was already used. Ask for a new one.');
+  if (!userId)
+    throw new AuthError('expired_link', 'This sign-in link has expired or was already used. Ask for a new one.');
   const user = await db
     .selectFrom('users')
     .select(['id', 'email', 'display_name', 'is_admin', 'disabled_at', 'lock_expires_at', LOCK_ACTIVE.as('locked')])

@@ -76,7 +76,9 @@ export function bidiRefusalReason(found: FoundBidiControl, withLine = true): str
  * each with the message a refusal gives: "cell 3: holds U+202E (RIGHT-TO-LEFT OVERRIDE) on line 1, …".
  * Text cells are not refused: their text is shown with the characters made visible.
  */
-export function bidiControlsInCalcCells(cells: ReadonlyArray<{ kind: string; source: string }>): Array<{ index: number; message: string }> {
+export function bidiControlsInCalcCells(
+  cells: ReadonlyArray<{ kind: string; source: string }>,
+): Array<{ index: number; message: string }> {
   const out: Array<{ index: number; message: string }> = [];
   cells.forEach((cell, index) => {
     if (cell.kind !== 'calc' || typeof cell.source !== 'string') return;
@@ -102,7 +104,8 @@ export function revealBidiControlsDeep<T>(value: T): T {
   return value;
 }
 
-export type BidiSegment = { text: string; control: null } | { text: string; control: { codePoint: number; name: string } };
+export type BidiSegment =
+  { text: string; control: null } | { text: string; control: { codePoint: number; name: string } };
 
 /**
  * `text` cut into plain runs and markers, for showing the markers in a style of their own: each

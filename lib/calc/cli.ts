@@ -28,10 +28,17 @@ export function toCliOutput(result: SheetResult): CliOutput {
     for (const st of cell.statements) {
       if (!st.name || !st.value || st.error) continue;
       const v = st.value;
-      values[st.name] = { value: v.number ?? (typeof v.raw === 'boolean' || typeof v.raw === 'string' ? v.raw : v.text), unit: v.unit };
+      values[st.name] = {
+        value: v.number ?? (typeof v.raw === 'boolean' || typeof v.raw === 'string' ? v.raw : v.text),
+        unit: v.unit,
+      };
     }
   }
-  return { ok: result.ok, values, cells: result.cells.map((c) => ({ index: c.index, ok: c.ok, error: c.error, warnings: c.warnings ?? [] })) };
+  return {
+    ok: result.ok,
+    values,
+    cells: result.cells.map((c) => ({ index: c.index, ok: c.ok, error: c.error, warnings: c.warnings ?? [] })),
+  };
 }
 
 function table(result: SheetResult, title: string): string {
@@ -77,7 +84,10 @@ async function main(argv: string[]): Promise<number> {
   }
   const evaluator = new SandboxedEvaluator({ ...sandboxOptionsFromEnv(), workers: 1, root });
   try {
-    const result = await evaluator.evaluate(cellsOf(sheet), { significantFigures: sheet.significantFigures ?? DEFAULT_SIGNIFICANT_FIGURES, displayUnits: sheet.displayUnits });
+    const result = await evaluator.evaluate(cellsOf(sheet), {
+      significantFigures: sheet.significantFigures ?? DEFAULT_SIGNIFICANT_FIGURES,
+      displayUnits: sheet.displayUnits,
+    });
     if (json) process.stdout.write(`${JSON.stringify(toCliOutput(result))}\n`);
     else process.stdout.write(`${table(result, sheet.title)}\n`);
     return result.ok ? 0 : 1;

@@ -99,7 +99,10 @@ const PARTICLE_SCALE_EV = 1e15;
 
 /** SI-coherent forms a library function or a constant returns (J, kg·m/s, kg): not a unit the author chose. */
 function isCoherentSi(u: UnitInternals): boolean {
-  const names = u.units.map((f) => `${f.prefix.name}${f.unit.name}^${f.power}`).sort().join(' ');
+  const names = u.units
+    .map((f) => `${f.prefix.name}${f.unit.name}^${f.power}`)
+    .sort()
+    .join(' ');
   return names === 'J^1' || names === 'kg^1' || names === 'g^1 m^1 s^-1' || names === 'kg^1 m^1 s^-1';
 }
 
@@ -134,17 +137,72 @@ export function tradeDisplay(math: MathJsInstance, unit: Unit): { number: number
  * Examples of the trade's units for the function reference (app/reference/page.tsx), each evaluated
  * by tests/calc/trade-units.test.ts against the result shown here.
  */
-export const UNIT_EXAMPLES: ReadonlyArray<{ source: string; displayUnits: DisplayUnits; result: string; note: string }> = [
-  { source: 'p_1 = 1.2 GeV/c', displayUnits: 'si', result: '1.200 00 GeV/c', note: 'a momentum in GeV/c (also eV/c, keV/c, MeV/c, TeV/c)' },
-  { source: 'p_2 = momentumFromKinetic(250 MeV, m_p) to MeV/c', displayUnits: 'si', result: '729.134 MeV/c', note: 'to converts to MeV/c; number(p, "MeV/c") gives the plain number' },
-  { source: 'm_1 = 938.272 MeV/c^2 to kg', displayUnits: 'si', result: '1.672 62 × 10⁻²⁷ kg', note: 'a mass in MeV/c² (also eV/c², keV/c², GeV/c², TeV/c²)' },
-  { source: 'E_1 = 430 MeV/u * 12 u to MeV', displayUnits: 'si', result: '5160 MeV', note: 'u is the unified atomic mass unit (= Da); u and a are units only where the sheet does not define them' },
-  { source: 't_1 = 1 yr to day', displayUnits: 'si', result: '365.250 day', note: 'yr and a are the Julian year, 365.25 d' },
+export const UNIT_EXAMPLES: ReadonlyArray<{
+  source: string;
+  displayUnits: DisplayUnits;
+  result: string;
+  note: string;
+}> = [
+  {
+    source: 'p_1 = 1.2 GeV/c',
+    displayUnits: 'si',
+    result: '1.200 00 GeV/c',
+    note: 'a momentum in GeV/c (also eV/c, keV/c, MeV/c, TeV/c)',
+  },
+  {
+    source: 'p_2 = momentumFromKinetic(250 MeV, m_p) to MeV/c',
+    displayUnits: 'si',
+    result: '729.134 MeV/c',
+    note: 'to converts to MeV/c; number(p, "MeV/c") gives the plain number',
+  },
+  {
+    source: 'm_1 = 938.272 MeV/c^2 to kg',
+    displayUnits: 'si',
+    result: '1.672 62 × 10⁻²⁷ kg',
+    note: 'a mass in MeV/c² (also eV/c², keV/c², GeV/c², TeV/c²)',
+  },
+  {
+    source: 'E_1 = 430 MeV/u * 12 u to MeV',
+    displayUnits: 'si',
+    result: '5160 MeV',
+    note: 'u is the unified atomic mass unit (= Da); u and a are units only where the sheet does not define them',
+  },
+  {
+    source: 't_1 = 1 yr to day',
+    displayUnits: 'si',
+    result: '365.250 day',
+    note: 'yr and a are the Julian year, 365.25 d',
+  },
   { source: 'w_1 = 5 ppm * 2 m', displayUnits: 'si', result: '10 µm', note: 'ppm and ppb are ratios (10⁻⁶, 10⁻⁹)' },
-  { source: 'r_1 = 4.5e-10 to us/day', displayUnits: 'si', result: '38.8800 µs/day', note: 'a rate unit keeps its name' },
-  { source: 'v_1 = 2 rad/s * 3 m', displayUnits: 'si', result: '6 m/s', note: 'an angle times a length is a length: ω·r is a speed' },
-  { source: 'B_1 = 1 MeV * 2 T*m / (1 MeV)', displayUnits: 'si', result: '2 T·m', note: 'factors of one unit that cancel are left out' },
-  { source: 'E_0 = m_p * c^2', displayUnits: 'trade', result: '938.272 MeV', note: 'in accelerator units an energy at particle scale is in eV … TeV' },
+  {
+    source: 'r_1 = 4.5e-10 to us/day',
+    displayUnits: 'si',
+    result: '38.8800 µs/day',
+    note: 'a rate unit keeps its name',
+  },
+  {
+    source: 'v_1 = 2 rad/s * 3 m',
+    displayUnits: 'si',
+    result: '6 m/s',
+    note: 'an angle times a length is a length: ω·r is a speed',
+  },
+  {
+    source: 'B_1 = 1 MeV * 2 T*m / (1 MeV)',
+    displayUnits: 'si',
+    result: '2 T·m',
+    note: 'factors of one unit that cancel are left out',
+  },
+  {
+    source: 'E_0 = m_p * c^2',
+    displayUnits: 'trade',
+    result: '938.272 MeV',
+    note: 'in accelerator units an energy at particle scale is in eV … TeV',
+  },
   { source: 'E_0 = m_p * c^2', displayUnits: 'si', result: '150.328 pJ', note: 'the same value in SI units' },
-  { source: 'p_3 = momentumFromKinetic(250 MeV, m_p)', displayUnits: 'trade', result: '729.134 MeV/c', note: 'in accelerator units a momentum is in eV/c … TeV/c, a mass in eV/c² … TeV/c²' },
+  {
+    source: 'p_3 = momentumFromKinetic(250 MeV, m_p)',
+    displayUnits: 'trade',
+    result: '729.134 MeV/c',
+    note: 'in accelerator units a momentum is in eV/c … TeV/c, a mass in eV/c² … TeV/c²',
+  },
 ];

@@ -33,7 +33,13 @@ export function calcCompletionOptions(namesAbove: readonly NameAbove[] = []): Co
   for (const n of [...namesAbove].reverse()) {
     if (seen.has(n.name)) continue;
     seen.add(n.name);
-    options.push({ label: n.name, type: 'variable', detail: n.columns ? 'input table' : 'defined above', info: n.summary, boost: 2 });
+    options.push({
+      label: n.name,
+      type: 'variable',
+      detail: n.columns ? 'input table' : 'defined above',
+      info: n.summary,
+      boost: 2,
+    });
   }
   for (const k of CONSTANTS) {
     if (seen.has(k.name)) continue;
@@ -60,7 +66,13 @@ export function calcCompletionOptions(namesAbove: readonly NameAbove[] = []): Co
   for (const d of STUDY_FUNCTION_DOCS) {
     if (seen.has(d.name) || !/^[A-Za-z]/.test(d.name)) continue;
     seen.add(d.name);
-    options.push({ label: d.name, type: 'function', detail: d.signature.slice(d.name.length), info: `${d.signature} — ${firstSentence(d.summary)}`, apply: `${d.name}(` });
+    options.push({
+      label: d.name,
+      type: 'function',
+      detail: d.signature.slice(d.name.length),
+      info: `${d.signature} — ${firstSentence(d.summary)}`,
+      apply: `${d.name}(`,
+    });
   }
   return options;
 }
@@ -88,7 +100,12 @@ const WHOLE_WORD = new RegExp(`^[${NAME_START}_][${NAME_CHAR}]*$`);
  * nothing should be offered (inside a comment or string, right after a digit, or no word typed and
  * not explicitly asked for).
  */
-export function completeCalcAt(lineBefore: string, pos: number, explicit: boolean, namesAbove: readonly NameAbove[]): CompletionResult | null {
+export function completeCalcAt(
+  lineBefore: string,
+  pos: number,
+  explicit: boolean,
+  namesAbove: readonly NameAbove[],
+): CompletionResult | null {
   if (inCommentOrString(lineBefore)) return null;
   // After `table.`: the columns of that input table, with their units.
   const member = /(?:^|[^A-Za-z0-9_.])([A-Za-z][A-Za-z0-9_]*)\.([A-Za-z_][A-Za-z0-9_]*)?$/.exec(lineBefore);
@@ -97,7 +114,12 @@ export function completeCalcAt(lineBefore: string, pos: number, explicit: boolea
     if (!table) return null;
     return {
       from: pos - (member[2]?.length ?? 0),
-      options: table.columns!.map((c) => ({ label: c.name, type: 'property', detail: c.unit ? `column, ${c.unit}` : 'column, plain numbers', boost: 2 })),
+      options: table.columns!.map((c) => ({
+        label: c.name,
+        type: 'property',
+        detail: c.unit ? `column, ${c.unit}` : 'column, plain numbers',
+        boost: 2,
+      })),
       validFor: /^[A-Za-z_][A-Za-z0-9_]*$/,
     };
   }

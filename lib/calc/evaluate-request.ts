@@ -33,7 +33,8 @@ export const evaluateRequestSchema = z.object({
     .refine((cells) => new Set(cells.map((c) => c.id)).size === cells.length, 'cell ids must be unique')
     // A calculation source with a bidirectional control character can read differently from what is evaluated.
     .superRefine((cells, ctx) => {
-      for (const { index, message } of bidiControlsInCalcCells(cells)) ctx.addIssue({ code: 'custom', path: [index, 'source'], message });
+      for (const { index, message } of bidiControlsInCalcCells(cells))
+        ctx.addIssue({ code: 'custom', path: [index, 'source'], message });
     }),
 });
 

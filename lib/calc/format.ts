@@ -8,7 +8,19 @@ import { cancelLikeUnits, displayUnitsOf, tradeDisplay } from './display-units';
 
 const THIN = '\u202f';
 const MINUS = '\u2212';
-const SUPERSCRIPTS: Record<string, string> = { '0': '⁰', '1': '¹', '2': '²', '3': '³', '4': '⁴', '5': '⁵', '6': '⁶', '7': '⁷', '8': '⁸', '9': '⁹', '-': '⁻' };
+const SUPERSCRIPTS: Record<string, string> = {
+  '0': '⁰',
+  '1': '¹',
+  '2': '²',
+  '3': '³',
+  '4': '⁴',
+  '5': '⁵',
+  '6': '⁶',
+  '7': '⁷',
+  '8': '⁸',
+  '9': '⁹',
+  '-': '⁻',
+};
 
 const superscript = (s: string) => [...s].map((ch) => SUPERSCRIPTS[ch] ?? ch).join('');
 
@@ -89,7 +101,9 @@ interface UnitPart {
 }
 
 function unitParts(unit: Unit): UnitPart[] {
-  const units = (unit as unknown as { units: Array<{ unit: { name: string }; prefix: { name: string }; power: number }> }).units;
+  const units = (
+    unit as unknown as { units: Array<{ unit: { name: string }; prefix: { name: string }; power: number }> }
+  ).units;
   return units.map((u) => ({ name: `${u.prefix.name}${u.unit.name}`, power: u.power }));
 }
 
@@ -109,7 +123,8 @@ function unitNameText(name: string): string {
 }
 
 export function unitText(parts: UnitPart[]): string {
-  const term = (p: UnitPart, power: number) => `${unitNameText(p.name)}${power === 1 ? '' : superscript(String(power))}`;
+  const term = (p: UnitPart, power: number) =>
+    `${unitNameText(p.name)}${power === 1 ? '' : superscript(String(power))}`;
   const num = parts.filter((p) => p.power > 0).map((p) => term(p, p.power));
   const den = parts.filter((p) => p.power < 0).map((p) => term(p, -p.power));
   const top = num.length ? num.join('·') : '1';
@@ -147,7 +162,10 @@ function partsOf(math: MathJsInstance, unitString: string): UnitPart[] {
  * Splits a mathjs quantity into the number and unit it is displayed in (simplified, with the best
  * prefix, as mathjs chooses), keeping the number at full double precision.
  */
-export function quantityParts(math: MathJsInstance, written: Unit): { number: number; unitString: string; parts: UnitPart[] } {
+export function quantityParts(
+  math: MathJsInstance,
+  written: Unit,
+): { number: number; unitString: string; parts: UnitPart[] } {
   const fixed = (written as unknown as { fixPrefix?: boolean }).fixPrefix;
   // Factors of one unit that cancel go (MeV·T·m/MeV is T·m), unless `to` asked for that unit.
   const unit = fixed ? written : cancelLikeUnits(written);
@@ -166,12 +184,20 @@ export function quantityParts(math: MathJsInstance, written: Unit): { number: nu
   // a single unit), without formatting the number to text and parsing the unit back.
   const u = unit as unknown as InternalUnit;
   const simp = (u.skipAutomaticSimplification ? u.clone() : u.simplify()) as InternalUnit;
-  if (simp.units.length === 1 && !simp.fixPrefix && Math.abs(simp.units[0].power - Math.round(simp.units[0].power)) < 1e-14) {
+  if (
+    simp.units.length === 1 &&
+    !simp.fixPrefix &&
+    Math.abs(simp.units[0].power - Math.round(simp.units[0].power)) < 1e-14
+  ) {
     const best = simp._bestPrefix();
     if (prefixInUse(simp.units[0].unit.name, best.name)) simp.units[0].prefix = best;
-    else if (simp.units[0].unit.name === 'g') simp.units[0].prefix = (simp.units[0].unit as unknown as { prefixes: Record<string, { name: string; value: number }> }).prefixes.k;
+    else if (simp.units[0].unit.name === 'g')
+      simp.units[0].prefix = (
+        simp.units[0].unit as unknown as { prefixes: Record<string, { name: string; value: number }> }
+      ).prefixes.k;
     else if (!prefixInUse(simp.units[0].unit.name, simp.units[0].prefix.name)) {
-      const none = (simp.units[0].unit as unknown as { prefixes: Record<string, { name: string; value: number }> }).prefixes[''];
+      const none = (simp.units[0].unit as unknown as { prefixes: Record<string, { name: string; value: number }> })
+        .prefixes[''];
       if (none) simp.units[0].prefix = none;
     }
   }
@@ -200,7 +226,10 @@ export function prefixInUse(unitName: string, prefix: string): boolean {
 /** A mass the author wrote in MeV/c², u or Da: shown so, not in kilograms. */
 function writtenAsAtomicMass(unit: Unit): boolean {
   const u = unit as unknown as InternalUnit;
-  return u.skipAutomaticSimplification && u.units.some((f) => f.unit.name === 'c' || f.unit.name === 'u' || f.unit.name === 'Da');
+  return (
+    u.skipAutomaticSimplification &&
+    u.units.some((f) => f.unit.name === 'c' || f.unit.name === 'u' || f.unit.name === 'Da')
+  );
 }
 
 /** The parts of mathjs's Unit that its own format() uses. */
@@ -228,23 +257,58 @@ function kilogram(math: MathJsInstance): Unit {
 
 export function displayValue(math: MathJsInstance, value: unknown, sig: number): DisplayValue {
   if (typeof value === 'number') {
-    return { kind: 'number', text: formatNumberText(value, sig), tex: formatNumberTex(value, sig), number: value, unit: null, raw: null };
+    return {
+      kind: 'number',
+      text: formatNumberText(value, sig),
+      tex: formatNumberTex(value, sig),
+      number: value,
+      unit: null,
+      raw: null,
+    };
   }
   if (typeof value === 'boolean') {
-    return { kind: 'boolean', text: value ? 'true' : 'false', tex: `\\mathrm{${value}}`, number: null, unit: null, raw: value };
+    return {
+      kind: 'boolean',
+      text: value ? 'true' : 'false',
+      tex: `\\mathrm{${value}}`,
+      number: null,
+      unit: null,
+      raw: value,
+    };
   }
   if (typeof value === 'string') {
-    return { kind: 'string', text: value, tex: `\\text{${value.replace(/[\\{}$&#^_%~]/g, '')}}`, number: null, unit: null, raw: value };
+    return {
+      kind: 'string',
+      text: value,
+      tex: `\\text{${value.replace(/[\\{}$&#^_%~]/g, '')}}`,
+      number: null,
+      unit: null,
+      raw: value,
+    };
   }
   if (math.isUnit(value)) {
     const u = value as Unit;
     if (u.value === null) {
       const parts = unitParts(u);
-      return { kind: 'quantity', text: unitText(parts), tex: unitTex(parts), number: null, unit: u.formatUnits(), raw: null };
+      return {
+        kind: 'quantity',
+        text: unitText(parts),
+        tex: unitTex(parts),
+        number: null,
+        unit: u.formatUnits(),
+        raw: null,
+      };
     }
     const q = quantityParts(math, u);
     if (!q.unitString) {
-      return { kind: 'number', text: formatNumberText(q.number, sig), tex: formatNumberTex(q.number, sig), number: q.number, unit: null, raw: null };
+      return {
+        kind: 'number',
+        text: formatNumberText(q.number, sig),
+        tex: formatNumberTex(q.number, sig),
+        number: q.number,
+        unit: null,
+        raw: null,
+      };
     }
     return {
       kind: 'quantity',
@@ -255,12 +319,20 @@ export function displayValue(math: MathJsInstance, value: unknown, sig: number):
       raw: null,
     };
   }
-  if (math.isMatrix(value) || Array.isArray(value)) return listDisplay(math, value as unknown[] | { toArray(): unknown[] }, sig);
+  if (math.isMatrix(value) || Array.isArray(value))
+    return listDisplay(math, value as unknown[] | { toArray(): unknown[] }, sig);
   if (typeof value === 'function') {
     return { kind: 'function', text: 'function', tex: '\\text{function}', number: null, unit: null, raw: null };
   }
   const text = math.format(value as never, { precision: sig });
-  return { kind: 'other', text, tex: `\\text{${text.replace(/[\\{}$&#^_%~]/g, '')}}`, number: null, unit: null, raw: text };
+  return {
+    kind: 'other',
+    text,
+    tex: `\\text{${text.replace(/[\\{}$&#^_%~]/g, '')}}`,
+    number: null,
+    unit: null,
+    raw: text,
+  };
 }
 
 /** TeX of a unit expression written in a sheet ("m/s^2", "T*m"). */
@@ -277,7 +349,8 @@ const LIST_SHOWN = 12;
  */
 function listDisplay(math: MathJsInstance, value: unknown[] | { toArray(): unknown[] }, sig: number): DisplayValue {
   const items = Array.isArray(value) ? value : value.toArray();
-  const elide = <T,>(xs: T[]): Array<T | null> => (xs.length <= LIST_SHOWN ? xs : [...xs.slice(0, 6), null, ...xs.slice(-3)]);
+  const elide = <T>(xs: T[]): Array<T | null> =>
+    xs.length <= LIST_SHOWN ? xs : [...xs.slice(0, 6), null, ...xs.slice(-3)];
   const suffix = items.length > LIST_SHOWN ? ` (${items.length} values)` : '';
   const first = items[0];
   const sameQuantity =

@@ -7,15 +7,33 @@ import { withArgumentEcho } from './functions/support/domain';
 import { speedValue } from './functions/support/kinematics';
 import { formatNumberText } from './format';
 import { unitLabel } from './unit-label';
-import { DomainError, type CalcFunction, type KernelArgument, type ParamKind, type PreciseSpeed, type ReturnKind } from './functions/types';
+import {
+  DomainError,
+  type CalcFunction,
+  type KernelArgument,
+  type ParamKind,
+  type PreciseSpeed,
+  type ReturnKind,
+} from './functions/types';
 import type { LibraryBinding } from './math-instance';
 
 /** SI base unit of each physical kind, and the alternative dimension it accepts. */
-const KIND_UNITS: Record<Exclude<ParamKind, 'number'>, { si: string; label: string; alt?: { si: string; label: string; toSi: (x: number) => number; written?: (unit: Unit) => boolean } }> = {
+const KIND_UNITS: Record<
+  Exclude<ParamKind, 'number'>,
+  {
+    si: string;
+    label: string;
+    alt?: { si: string; label: string; toSi: (x: number) => number; written?: (unit: Unit) => boolean };
+  }
+> = {
   speed: { si: 'm/s', label: 'a speed' },
   mass: { si: 'kg', label: 'a mass', alt: { si: 'J', label: 'an energy (read as mc²)', toSi: (x) => x / (C * C) } },
   energy: { si: 'J', label: 'an energy' },
-  momentum: { si: 'kg m/s', label: 'a momentum', alt: { si: 'J', label: 'an energy (read as pc)', toSi: (x) => x / C } },
+  momentum: {
+    si: 'kg m/s',
+    label: 'a momentum',
+    alt: { si: 'J', label: 'an energy (read as pc)', toSi: (x) => x / C },
+  },
   time: { si: 's', label: 'a time' },
   length: { si: 'm', label: 'a length' },
   acceleration: { si: 'm/s^2', label: 'an acceleration' },
@@ -31,7 +49,12 @@ const KIND_UNITS: Record<Exclude<ParamKind, 'number'>, { si: string; label: stri
     si: 'J',
     label: 'a kinetic energy per nucleon (an energy, e.g. 430 MeV)',
     // Only a unit written per u (or Da): 430 MeV/kg, or an m²/s² that happens to share the dimension, is refused.
-    alt: { si: 'J/kg', label: 'an energy per nucleon written as MeV/u', toSi: (x) => x * M_U, written: (unit) => unit.units.some((u) => ['u', 'Da'].includes(u.unit.name) && u.power === -1) },
+    alt: {
+      si: 'J/kg',
+      label: 'an energy per nucleon written as MeV/u',
+      toSi: (x) => x * M_U,
+      written: (unit) => unit.units.some((u) => ['u', 'Da'].includes(u.unit.name) && u.power === -1),
+    },
   },
 };
 
@@ -64,7 +87,9 @@ export class ArgumentError extends Error {
 function chargeNumber(where: string, value: number): number {
   if (!Number.isFinite(value)) return value; // refused below as not finite
   if (value === Math.E) {
-    throw new ArgumentError(`${where}: \`e\` is Euler's number 2.718…; the elementary charge is \`q_e\` (or give the charge number, e.g. 1)`);
+    throw new ArgumentError(
+      `${where}: \`e\` is Euler's number 2.718…; the elementary charge is \`q_e\` (or give the charge number, e.g. 1)`,
+    );
   }
   if (!Number.isInteger(value)) {
     throw new ArgumentError(
@@ -135,7 +160,9 @@ export function bindLibrary(math: MathJsInstance, library: readonly CalcFunction
     if (typeof value === 'number') {
       if (param.kind === 'number' || param.kind === 'speed' || param.kind === 'angle') return value;
       if (param.kind === 'charge') return chargeNumber(where, value) * E_CHARGE;
-      throw new ArgumentError(`${where} must be ${KIND_UNITS[param.kind].label} with a unit; got the plain number ${value}`);
+      throw new ArgumentError(
+        `${where} must be ${KIND_UNITS[param.kind].label} with a unit; got the plain number ${value}`,
+      );
     }
     if (math.isUnit(value)) {
       const unit = value as Unit;
@@ -150,12 +177,15 @@ export function bindLibrary(math: MathJsInstance, library: readonly CalcFunction
         const si = unit.value as number;
         return param.kind === 'speed' ? si / C : si;
       }
-      if (spec.alt && unit.equalBase(baseOf(spec.alt.si)) && (spec.alt.written?.(unit) ?? true)) return spec.alt.toSi(unit.value as number);
+      if (spec.alt && unit.equalBase(baseOf(spec.alt.si)) && (spec.alt.written?.(unit) ?? true))
+        return spec.alt.toSi(unit.value as number);
       throw new ArgumentError(
         `${where} must be ${spec.label}${spec.alt ? ` or ${spec.alt.label}` : ''}${param.kind === 'speed' ? ' or a plain β' : ''}; got ${describe(unit)}`,
       );
     }
-    throw new ArgumentError(`${where} must be ${param.kind === 'number' ? 'a number' : KIND_UNITS[param.kind].label}; got ${describe(value)}`);
+    throw new ArgumentError(
+      `${where} must be ${param.kind === 'number' ? 'a number' : KIND_UNITS[param.kind].label}; got ${describe(value)}`,
+    );
   };
 
   // Results are made by cloning a parsed template and setting its SI value: parsing the unit
@@ -216,10 +246,15 @@ export function bindLibrary(math: MathJsInstance, library: readonly CalcFunction
   const scalar = (fn: CalcFunction, args: unknown[]): unknown => {
     const numbers = args.map((a, i) => toArgument(fn, i, a));
     for (const [i, n] of numbers.entries()) {
-      if (typeof n === 'number' && !Number.isFinite(n)) throw new DomainError(`${fn.name}: argument ${i + 1} (${fn.params[i].name}) must be finite; got ${n}`);
+      if (typeof n === 'number' && !Number.isFinite(n))
+        throw new DomainError(`${fn.name}: argument ${i + 1} (${fn.params[i].name}) must be finite; got ${n}`);
     }
     // Domain messages echo an argument as the sheet wrote it (functions/support/domain.ts).
-    const echo = { names: fn.params.map((p) => p.name), values: numbers.map((n) => (typeof n === 'number' ? n : speedValue(n))), text: (i: number) => asWritten(args[i]) };
+    const echo = {
+      names: fn.params.map((p) => p.name),
+      values: numbers.map((n) => (typeof n === 'number' ? n : speedValue(n))),
+      text: (i: number) => asWritten(args[i]),
+    };
     return withArgumentEcho(echo, () => call(fn, args, numbers));
   };
 
@@ -237,12 +272,16 @@ export function bindLibrary(math: MathJsInstance, library: readonly CalcFunction
   // element; several vectors must have the same length, and plain values are used for every element.
   const elementwise = (fn: CalcFunction, args: unknown[]): unknown => {
     // valueOf() gives a matrix's own elements (toArray() would clone them and lose their companions).
-    const lists = args.map((a) => (math.isMatrix(a) ? (a as { valueOf(): unknown[] }).valueOf() : Array.isArray(a) ? a : null));
+    const lists = args.map((a) =>
+      math.isMatrix(a) ? (a as { valueOf(): unknown[] }).valueOf() : Array.isArray(a) ? a : null,
+    );
     let length = -1;
     for (const [i, list] of lists.entries()) {
       if (!list) continue;
       if (list.some((x) => Array.isArray(x) || math.isMatrix(x))) {
-        throw new ArgumentError(`${fn.name}: argument ${i + 1} (${fn.params[i].name}) must be a value or a list of values, not a table of several dimensions`);
+        throw new ArgumentError(
+          `${fn.name}: argument ${i + 1} (${fn.params[i].name}) must be a value or a list of values, not a table of several dimensions`,
+        );
       }
       if (length >= 0 && list.length !== length) {
         throw new ArgumentError(`${fn.name}: the lists given have different lengths (${length} and ${list.length})`);
@@ -252,7 +291,12 @@ export function bindLibrary(math: MathJsInstance, library: readonly CalcFunction
     const out: unknown[] = [];
     for (let k = 0; k < length; k++) {
       try {
-        out.push(scalar(fn, args.map((a, i) => (lists[i] ? lists[i]![k] : a))));
+        out.push(
+          scalar(
+            fn,
+            args.map((a, i) => (lists[i] ? lists[i]![k] : a)),
+          ),
+        );
       } catch (error) {
         if (error instanceof Error) error.message = `${error.message} (element ${k + 1})`;
         throw error;

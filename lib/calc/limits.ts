@@ -36,9 +36,12 @@ export function installSizeGuards(math: MathJsInstance): void {
   for (const name of bySize) {
     const original = record[name];
     guarded[name] = (...args: unknown[]) => {
-      const sizeArgs = name === 'resize' || name === 'reshape' ? args.slice(1, 2) : args.filter((a) => typeof a !== 'string');
+      const sizeArgs =
+        name === 'resize' || name === 'reshape' ? args.slice(1, 2) : args.filter((a) => typeof a !== 'string');
       if (sizeOf(sizeArgs) > LIMITS.maxMatrixElements) {
-        throw new Error(`${name}: more than ${LIMITS.maxMatrixElements.toLocaleString('en')} elements is beyond the sheet limit`);
+        throw new Error(
+          `${name}: more than ${LIMITS.maxMatrixElements.toLocaleString('en')} elements is beyond the sheet limit`,
+        );
       }
       return original(...args);
     };
@@ -48,7 +51,10 @@ export function installSizeGuards(math: MathJsInstance): void {
     const [start, end, step] = args.map((a) => (typeof a === 'number' ? a : Number.NaN));
     if (Number.isFinite(start) && Number.isFinite(end)) {
       const n = Math.abs((end - start) / (Number.isFinite(step) && step !== 0 ? step : 1));
-      if (n > LIMITS.maxMatrixElements) throw new Error(`range: more than ${LIMITS.maxMatrixElements.toLocaleString('en')} elements is beyond the sheet limit`);
+      if (n > LIMITS.maxMatrixElements)
+        throw new Error(
+          `range: more than ${LIMITS.maxMatrixElements.toLocaleString('en')} elements is beyond the sheet limit`,
+        );
     }
     return range(...args);
   };

@@ -18,7 +18,17 @@ export interface LintFinding {
   message: string;
 }
 
-type Node = MathNode & { type: string; name?: string; op?: string; fn?: Node | string; args?: Node[]; params?: string[]; expr?: Node; value?: unknown; implicit?: boolean };
+type Node = MathNode & {
+  type: string;
+  name?: string;
+  op?: string;
+  fn?: Node | string;
+  args?: Node[];
+  params?: string[];
+  expr?: Node;
+  value?: unknown;
+  implicit?: boolean;
+};
 
 /**
  * The names flagged, with the constant the author most likely meant. A name is flagged only when
@@ -27,11 +37,33 @@ type Node = MathNode & { type: string; name?: string; op?: string; fn?: Node | s
  */
 export const SUSPECT_NAMES: ReadonlyMap<string, { means?: string; intended: string }> = new Map([
   ['h', { means: 'the hour (a unit of time)', intended: 'the Planck constant is `h_P`' }],
-  ['hbar', { means: 'the hectobar (a unit of pressure, 10⁷ Pa)', intended: 'the reduced Planck constant is `hbar_P` (or `ħ`)' }],
-  ['e', { means: 'Euler’s number 2.718…', intended: 'the elementary charge is `q_e` (Euler’s number as the base of a power, `e^x`, is fine)' }],
-  ['E', { means: 'Euler’s number 2.718…', intended: 'the elementary charge is `q_e`; a quantity of the sheet (an energy) needs a name of its own, such as `E_k`' }],
+  [
+    'hbar',
+    {
+      means: 'the hectobar (a unit of pressure, 10⁷ Pa)',
+      intended: 'the reduced Planck constant is `hbar_P` (or `ħ`)',
+    },
+  ],
+  [
+    'e',
+    {
+      means: 'Euler’s number 2.718…',
+      intended: 'the elementary charge is `q_e` (Euler’s number as the base of a power, `e^x`, is fine)',
+    },
+  ],
+  [
+    'E',
+    {
+      means: 'Euler’s number 2.718…',
+      intended:
+        'the elementary charge is `q_e`; a quantity of the sheet (an energy) needs a name of its own, such as `E_k`',
+    },
+  ],
   ['g', { means: 'the gram (a unit of mass)', intended: 'the standard acceleration of gravity is `g_n`' }],
-  ['kB', { means: 'the kilobyte (a unit of information, 8000 bits)', intended: 'the Boltzmann constant is `boltzmann`' }],
+  [
+    'kB',
+    { means: 'the kilobyte (a unit of information, 8000 bits)', intended: 'the Boltzmann constant is `boltzmann`' },
+  ],
   // Not units or constants of mathjs today (a bare one is "not defined"); flagged if one becomes a unit.
   ['G', { intended: 'the Newtonian constant of gravitation is `gravitationConstant`' }],
   ['k', { intended: 'the Boltzmann constant is `boltzmann`' }],
@@ -42,7 +74,12 @@ function isNumberLiteral(n: Node | undefined): boolean {
   if (!n) return false;
   if (n.type === 'ConstantNode') return typeof n.value === 'number';
   if (n.type === 'ParenthesisNode') return isNumberLiteral((n as unknown as { content: Node }).content);
-  return n.type === 'OperatorNode' && (n.fn === 'unaryMinus' || n.fn === 'unaryPlus') && n.args?.length === 1 && isNumberLiteral(n.args[0]);
+  return (
+    n.type === 'OperatorNode' &&
+    (n.fn === 'unaryMinus' || n.fn === 'unaryPlus') &&
+    n.args?.length === 1 &&
+    isNumberLiteral(n.args[0])
+  );
 }
 
 const isProduct = (n: Node | undefined) => n?.type === 'OperatorNode' && (n.fn === 'multiply' || n.fn === 'divide');
@@ -75,7 +112,13 @@ function meaningOf(name: string, em: EngineMath, given: string | undefined): str
 export function lintExpression(node: MathNode, em: EngineMath): LintFinding[] {
   const found = new Map<string, string>();
   // `slot` is the node as its parent holds it: `n` itself, or the parenthesis around it.
-  const visit = (n: Node, parent: Node | null, grandparent: Node | null, locals: ReadonlySet<string>, slot: Node = n) => {
+  const visit = (
+    n: Node,
+    parent: Node | null,
+    grandparent: Node | null,
+    locals: ReadonlySet<string>,
+    slot: Node = n,
+  ) => {
     switch (n.type) {
       case 'SymbolNode': {
         const name = n.name!;
@@ -83,13 +126,20 @@ export function lintExpression(node: MathNode, em: EngineMath): LintFinding[] {
         if (!suspect || locals.has(name) || found.has(name)) return;
         // A unit written after a number: `2*h`, `-3*g` (unless the product goes on: `2*h*c`). Not
         // a constant: `2 e` is twice Euler's number, where two elementary charges are likely meant.
-        if (em.isUnitName(name) && parent?.type === 'OperatorNode' && parent.fn === 'multiply' && parent.args?.[1] === slot && isNumberLiteral(parent.args[0])) {
+        if (
+          em.isUnitName(name) &&
+          parent?.type === 'OperatorNode' &&
+          parent.fn === 'multiply' &&
+          parent.args?.[1] === slot &&
+          isNumberLiteral(parent.args[0])
+        ) {
           if (!(isProduct(grandparent ?? undefined) && grandparent!.args?.[0] === parent)) return;
         }
         // Euler's number as the base of a power, or as the base of a logarithm.
         if ((name === 'e' || name === 'E') && parent) {
           if (parent.type === 'OperatorNode' && parent.fn === 'pow' && parent.args?.[0] === slot) return;
-          if (parent.type === 'FunctionNode' && (parent.fn as Node)?.name === 'log' && parent.args?.[1] === slot) return;
+          if (parent.type === 'FunctionNode' && (parent.fn as Node)?.name === 'log' && parent.args?.[1] === slot)
+            return;
         }
         const means = meaningOf(name, em, suspect.means);
         if (means) found.set(name, `\`${name}\` here is ${means}; ${suspect.intended}`);
@@ -134,9 +184,20 @@ export function lintExpression(node: MathNode, em: EngineMath): LintFinding[] {
 export const LINT_EXAMPLES: ReadonlyArray<{ source: string; warning: string | null }> = [
   { source: 'E_ph = h * c / (500 nm)', warning: '`h` here is the hour (a unit of time); the Planck constant is `h_P`' },
   { source: 'E_ph = h_P * c / (500 nm) to eV', warning: null },
-  { source: 'x = hbar * c', warning: '`hbar` here is the hectobar (a unit of pressure, 10⁷ Pa); the reduced Planck constant is `hbar_P` (or `ħ`)' },
-  { source: 'U_1 = e * 1 V', warning: '`e` here is Euler’s number 2.718…; the elementary charge is `q_e` (Euler’s number as the base of a power, `e^x`, is fine)' },
+  {
+    source: 'x = hbar * c',
+    warning:
+      '`hbar` here is the hectobar (a unit of pressure, 10⁷ Pa); the reduced Planck constant is `hbar_P` (or `ħ`)',
+  },
+  {
+    source: 'U_1 = e * 1 V',
+    warning:
+      '`e` here is Euler’s number 2.718…; the elementary charge is `q_e` (Euler’s number as the base of a power, `e^x`, is fine)',
+  },
   { source: 'y = e^(-0.5)', warning: null },
-  { source: 'F_w = 70 kg * g', warning: '`g` here is the gram (a unit of mass); the standard acceleration of gravity is `g_n`' },
+  {
+    source: 'F_w = 70 kg * g',
+    warning: '`g` here is the gram (a unit of mass); the standard acceleration of gravity is `g_n`',
+  },
   { source: 't_1 = 2 h + 30 min', warning: null },
 ];

@@ -24,16 +24,17 @@ export interface EngineMath {
  * Physical constants that mathjs carries at CODATA 2018 values, corrected to CODATA 2022 (masses)
  * or to their SI 2019 exact values. Each entry: mathjs name, value, unit, source.
  */
-export const MATHJS_CONSTANT_CORRECTIONS: ReadonlyArray<{ name: string; value: number; unit: string; source: string }> = [
-  { name: 'electronMass', value: M_E, unit: 'kg', source: 'CODATA 2022' },
-  { name: 'protonMass', value: M_P, unit: 'kg', source: 'CODATA 2022' },
-  { name: 'neutronMass', value: M_N, unit: 'kg', source: 'CODATA 2022' },
-  { name: 'atomicMass', value: M_U, unit: 'kg', source: 'CODATA 2022' },
-  // CODATA 2022: ε0 = 8.854 187 8188(14) e-12 F/m; μ0 = 1.256 637 061 27(20) e-6 N/A²; α = 7.297 352 5643(11) e-3
-  { name: 'electricConstant', value: 8.8541878188e-12, unit: 'F/m', source: 'CODATA 2022' },
-  { name: 'magneticConstant', value: 1.25663706127e-6, unit: 'N/A^2', source: 'CODATA 2022' },
-  { name: 'fineStructure', value: 7.2973525643e-3, unit: '', source: 'CODATA 2022' },
-];
+export const MATHJS_CONSTANT_CORRECTIONS: ReadonlyArray<{ name: string; value: number; unit: string; source: string }> =
+  [
+    { name: 'electronMass', value: M_E, unit: 'kg', source: 'CODATA 2022' },
+    { name: 'protonMass', value: M_P, unit: 'kg', source: 'CODATA 2022' },
+    { name: 'neutronMass', value: M_N, unit: 'kg', source: 'CODATA 2022' },
+    { name: 'atomicMass', value: M_U, unit: 'kg', source: 'CODATA 2022' },
+    // CODATA 2022: ε0 = 8.854 187 8188(14) e-12 F/m; μ0 = 1.256 637 061 27(20) e-6 N/A²; α = 7.297 352 5643(11) e-3
+    { name: 'electricConstant', value: 8.8541878188e-12, unit: 'F/m', source: 'CODATA 2022' },
+    { name: 'magneticConstant', value: 1.25663706127e-6, unit: 'N/A^2', source: 'CODATA 2022' },
+    { name: 'fineStructure', value: 7.2973525643e-3, unit: '', source: 'CODATA 2022' },
+  ];
 
 /**
  * Units whose mathjs definition is not at the current value, and units the trade needs that
@@ -41,21 +42,63 @@ export const MATHJS_CONSTANT_CORRECTIONS: ReadonlyArray<{ name: string; value: n
  */
 export const UNIT_CORRECTIONS: ReadonlyArray<{ name: string; value: number; unit: string; source: string }> = [
   // mathjs 15 builds the electronvolt from e = 1.602176565e-19 C (CODATA 2010).
-  { name: 'eV', value: E_CHARGE, unit: 'J', source: 'SI Brochure 9th ed., table 8: 1 eV = 1.602 176 634 × 10⁻¹⁹ J exactly' },
+  {
+    name: 'eV',
+    value: E_CHARGE,
+    unit: 'J',
+    source: 'SI Brochure 9th ed., table 8: 1 eV = 1.602 176 634 × 10⁻¹⁹ J exactly',
+  },
   { name: 'electronvolt', value: E_CHARGE, unit: 'J', source: 'SI Brochure 9th ed., table 8' },
   // 1 Torr = 101 325/760 Pa by definition; mathjs rounds it to 133.322 Pa.
-  { name: 'torr', value: 101_325 / 760, unit: 'Pa', source: 'definition of the torr (1/760 of a standard atmosphere, 101 325 Pa)' },
+  {
+    name: 'torr',
+    value: 101_325 / 760,
+    unit: 'Pa',
+    source: 'definition of the torr (1/760 of a standard atmosphere, 101 325 Pa)',
+  },
 ];
 
-export const NEW_UNITS: ReadonlyArray<{ name: string; definition: string; aliases?: string[]; prefixes?: 'short' | 'long'; source: string }> = [
-  { name: 'Da', definition: `${M_U} kg`, aliases: ['dalton'], prefixes: 'short', source: 'SI Brochure 9th ed., table 8 (dalton = atomic mass constant, CODATA 2022 value)' },
+export const NEW_UNITS: ReadonlyArray<{
+  name: string;
+  definition: string;
+  aliases?: string[];
+  prefixes?: 'short' | 'long';
+  source: string;
+}> = [
+  {
+    name: 'Da',
+    definition: `${M_U} kg`,
+    aliases: ['dalton'],
+    prefixes: 'short',
+    source: 'SI Brochure 9th ed., table 8 (dalton = atomic mass constant, CODATA 2022 value)',
+  },
   { name: 'au', definition: '149597870700 m', aliases: ['astronomicalunit'], source: 'IAU 2012 Resolution B2 (exact)' },
-  { name: 'ly', definition: `${C * 365.25 * 86400} m`, aliases: ['lightyear'], source: 'IAU: c × Julian year (365.25 d)' },
-  { name: 'pc', definition: `${(149597870700 * 648000) / Math.PI} m`, aliases: ['parsec'], prefixes: 'short', source: 'IAU 2015 Resolution B2: 648 000/π au' },
+  {
+    name: 'ly',
+    definition: `${C * 365.25 * 86400} m`,
+    aliases: ['lightyear'],
+    source: 'IAU: c × Julian year (365.25 d)',
+  },
+  {
+    name: 'pc',
+    definition: `${(149597870700 * 648000) / Math.PI} m`,
+    aliases: ['parsec'],
+    prefixes: 'short',
+    source: 'IAU 2015 Resolution B2: 648 000/π au',
+  },
   // The trade's units (lib/calc/README.md, "Units and the display setting").
-  { name: 'u', definition: `${M_U} kg`, source: 'SI Brochure 9th ed., table 8: the unified atomic mass unit u = 1 Da = m_u (CODATA 2022 value); u and a are units only where a sheet does not define them' },
+  {
+    name: 'u',
+    definition: `${M_U} kg`,
+    source:
+      'SI Brochure 9th ed., table 8: the unified atomic mass unit u = 1 Da = m_u (CODATA 2022 value); u and a are units only where a sheet does not define them',
+  },
   { name: 'yr', definition: `${365.25 * 86400} s`, source: 'IAU: the Julian year, 365.25 d of 86 400 s' },
-  { name: 'a', definition: `${365.25 * 86400} s`, source: 'IAU: the Julian year (annum), 365.25 d; mathjs has no are, so `a` is free' },
+  {
+    name: 'a',
+    definition: `${365.25 * 86400} s`,
+    source: 'IAU: the Julian year (annum), 365.25 d; mathjs has no are, so `a` is free',
+  },
   { name: 'ppm', definition: '1e-6', source: 'parts per million, 10⁻⁶ (dimensionless; common practice)' },
   { name: 'ppb', definition: '1e-9', source: 'parts per billion, 10⁻⁹ (dimensionless; common practice)' },
   // The speed of light as a unit, only so that MeV/c and MeV/c² (momentum and mass, PDG RPP
@@ -95,12 +138,45 @@ export const DISABLED_FUNCTIONS = [
  * Names refused where a sheet mentions them, before evaluation: mathjs needs them internally, so
  * they cannot be replaced in the instance itself.
  */
-export const REFUSED_NAMES = new Set<string>([...DISABLED_FUNCTIONS, 'typed', 'format', 'Unit', 'expression', 'json', 'Node', 'Parser', 'on', 'off', 'once', 'emit', 'factory', 'create']);
+export const REFUSED_NAMES = new Set<string>([
+  ...DISABLED_FUNCTIONS,
+  'typed',
+  'format',
+  'Unit',
+  'expression',
+  'json',
+  'Node',
+  'Parser',
+  'on',
+  'off',
+  'once',
+  'emit',
+  'factory',
+  'create',
+]);
 
 /** Named values of mathjs that stay available and cannot be redefined. */
 const MATH_CONSTANTS = new Set([
-  'pi', 'PI', 'e', 'E', 'i', 'Infinity', 'NaN', 'true', 'false', 'null', 'undefined', 'phi', 'tau',
-  'LN2', 'LN10', 'LOG2E', 'LOG10E', 'SQRT1_2', 'SQRT2', 'version',
+  'pi',
+  'PI',
+  'e',
+  'E',
+  'i',
+  'Infinity',
+  'NaN',
+  'true',
+  'false',
+  'null',
+  'undefined',
+  'phi',
+  'tau',
+  'LN2',
+  'LN10',
+  'LOG2E',
+  'LOG10E',
+  'SQRT1_2',
+  'SQRT2',
+  'version',
 ]);
 
 export interface LibraryBinding {
@@ -108,7 +184,10 @@ export interface LibraryBinding {
   fn: (...args: unknown[]) => unknown;
 }
 
-export function createEngineMath(library: readonly LibraryBinding[], setup?: (math: MathJsInstance) => void): EngineMath {
+export function createEngineMath(
+  library: readonly LibraryBinding[],
+  setup?: (math: MathJsInstance) => void,
+): EngineMath {
   const math = create(all, { number: 'number', precision: 64 }) as MathJsInstance;
   const parse = math.parse.bind(math) as (expr: string) => MathNode;
 
@@ -118,7 +197,11 @@ export function createEngineMath(library: readonly LibraryBinding[], setup?: (ma
     units[u.name].value = math.unit(u.value, u.unit).value as number;
   }
   for (const u of NEW_UNITS) {
-    math.createUnit(u.name, { definition: u.definition, aliases: u.aliases ?? [], prefixes: u.prefixes ?? 'none' }, { override: false });
+    math.createUnit(
+      u.name,
+      { definition: u.definition, aliases: u.aliases ?? [], prefixes: u.prefixes ?? 'none' },
+      { override: false },
+    );
   }
   // Derived units are written in the SI's own (J, N, T·m …), never in whichever unit of that
   // dimension mathjs last parsed (its default "auto" system changes with every unit it reads, so a
@@ -156,7 +239,8 @@ export function createEngineMath(library: readonly LibraryBinding[], setup?: (ma
     parse,
     constants,
     isFunctionName: (name) =>
-      libraryNames.has(name) || (Object.prototype.hasOwnProperty.call(mathRecord, name) && typeof mathRecord[name] === 'function'),
+      libraryNames.has(name) ||
+      (Object.prototype.hasOwnProperty.call(mathRecord, name) && typeof mathRecord[name] === 'function'),
     isUnitName: (name) => {
       // No mathjs unit or prefix holds an underscore, and most sheet names do (T_kin, m_p): answer
       // those at once, since mathjs's lookup of an unknown name tries every unit in turn.
@@ -168,7 +252,9 @@ export function createEngineMath(library: readonly LibraryBinding[], setup?: (ma
       }
       return known;
     },
-    isMathConstant: (name) => MATH_CONSTANTS.has(name) || (Object.prototype.hasOwnProperty.call(mathRecord, name) && typeof mathRecord[name] !== 'function'),
+    isMathConstant: (name) =>
+      MATH_CONSTANTS.has(name) ||
+      (Object.prototype.hasOwnProperty.call(mathRecord, name) && typeof mathRecord[name] !== 'function'),
   };
 }
 
@@ -198,7 +284,8 @@ function installUnitRules(math: MathJsInstance): void {
   const isUnit = (x: unknown): x is UnitInternals => math.isUnit(x);
   const dimensionless = (u: UnitInternals) => u.dimensions.every((d) => Math.abs(d) < 1e-12);
   const withoutAngle = (x: unknown): unknown => {
-    if (!isUnit(x) || Math.abs(x.dimensions[ANGLE] ?? 0) < 1e-12 || Math.abs(x.dimensions[LENGTH] ?? 0) < 1e-12) return x;
+    if (!isUnit(x) || Math.abs(x.dimensions[ANGLE] ?? 0) < 1e-12 || Math.abs(x.dimensions[LENGTH] ?? 0) < 1e-12)
+      return x;
     const r = x.clone();
     // The value is held in SI base units, where the radian is 1: removing the angle factors changes
     // only the unit the number is shown in.
@@ -207,7 +294,8 @@ function installUnitRules(math: MathJsInstance): void {
     r.skipAutomaticSimplification = false;
     return r;
   };
-  const mapResult = (x: unknown): unknown => (math.isMatrix(x) ? (x as { map(f: (v: unknown) => unknown): unknown }).map(withoutAngle) : withoutAngle(x));
+  const mapResult = (x: unknown): unknown =>
+    math.isMatrix(x) ? (x as { map(f: (v: unknown) => unknown): unknown }).map(withoutAngle) : withoutAngle(x);
   /** A named dimensionless unit times a number stays a quantity in that unit. */
   const scaled = (u: UnitInternals, factor: number): UnitInternals => {
     const r = u.clone();
@@ -218,7 +306,9 @@ function installUnitRules(math: MathJsInstance): void {
   const multiply = record.multiply;
   const divide = record.divide;
   const to = record.to;
-  const typed = (math as unknown as { typed: (name: string, signatures: Record<string, (...args: unknown[]) => unknown>) => unknown }).typed;
+  const typed = (
+    math as unknown as { typed: (name: string, signatures: Record<string, (...args: unknown[]) => unknown>) => unknown }
+  ).typed;
   math.import(
     {
       multiply: typed('multiply', {
@@ -227,11 +317,13 @@ function installUnitRules(math: MathJsInstance): void {
           if (typeof b === 'number' && isUnit(a) && a.units.length && dimensionless(a)) return scaled(a, b);
           return mapResult(multiply(a, b));
         },
-        'any, any, ...any': (a, b, rest) => (rest as unknown[]).reduce((acc, x) => mapResult(multiply(acc, x)), mapResult(multiply(a, b))),
+        'any, any, ...any': (a, b, rest) =>
+          (rest as unknown[]).reduce((acc, x) => mapResult(multiply(acc, x)), mapResult(multiply(a, b))),
       }),
       divide: typed('divide', {
         'any, any': (a, b) => {
-          if (typeof b === 'number' && isUnit(a) && a.value !== null && a.units.length && dimensionless(a)) return scaled(a, 1 / b);
+          if (typeof b === 'number' && isUnit(a) && a.value !== null && a.units.length && dimensionless(a))
+            return scaled(a, 1 / b);
           return mapResult(divide(a, b));
         },
       }),

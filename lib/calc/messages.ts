@@ -50,7 +50,8 @@ export interface MessageContext {
  * Words and shapes of mathjs (and JavaScript) internals that must never reach a person: internal
  * function names, typed-function's signature lists, stack-like text.
  */
-const INTERNAL = /typed-function|\b\w+Scalar\b|Unexpected type of argument|Too (?:few|many) arguments|\(expected: |actual: |index: \d|\bat \w+ \(|\.(?:js|ts|mjs):\d|TypeError|RangeError|SyntaxError|is no angle|Units do not match|Cannot compare units|different base|Undefined (?:symbol|function)|is not a function|Cannot convert .* to a number|Cannot calculate \w+|unexpected type of argument|\bDenseMatrix\b|\bSparseMatrix\b|\bBigNumber\b|\bFraction\b|\bbigint\b|\bidentifier\b/;
+const INTERNAL =
+  /typed-function|\b\w+Scalar\b|Unexpected type of argument|Too (?:few|many) arguments|\(expected: |actual: |index: \d|\bat \w+ \(|\.(?:js|ts|mjs):\d|TypeError|RangeError|SyntaxError|is no angle|Units do not match|Cannot compare units|different base|Undefined (?:symbol|function)|is not a function|Cannot convert .* to a number|Cannot calculate \w+|unexpected type of argument|\bDenseMatrix\b|\bSparseMatrix\b|\bBigNumber\b|\bFraction\b|\bbigint\b|\bidentifier\b/;
 
 /** True when a message is mathjs's (or JavaScript's) own and must be translated. */
 export function isInternalMessage(message: string): boolean {
@@ -105,7 +106,11 @@ function dimensionWord(math: MathJsInstance, u: Unit): string | null {
 }
 
 /** A value described for a message: "an energy, 1 MeV", "a plain number, 2", "a text". */
-function describe(math: MathJsInstance, value: unknown, sig: number): { kind: string; shown: string | null; dimensionless: boolean } {
+function describe(
+  math: MathJsInstance,
+  value: unknown,
+  sig: number,
+): { kind: string; shown: string | null; dimensionless: boolean } {
   const shown = (() => {
     try {
       return displayValue(math, value, sig).text;
@@ -133,9 +138,14 @@ function isLiteral(node: Node): boolean {
   while (node.type === 'ParenthesisNode') node = node.content!;
   if (node.type === 'ConstantNode') return true;
   if (node.type === 'SymbolNode') return unitOfPlaceholder(node.name!) !== null;
-  if (node.type === 'OperatorNode' && (node.fn === 'unaryMinus' || node.fn === 'unaryPlus')) return isLiteral(node.args![0]);
+  if (node.type === 'OperatorNode' && (node.fn === 'unaryMinus' || node.fn === 'unaryPlus'))
+    return isLiteral(node.args![0]);
   if (node.type === 'OperatorNode' && node.fn === 'multiply' && node.args?.length === 2) {
-    return node.args[0].type === 'ConstantNode' && node.args[1].type === 'SymbolNode' && unitOfPlaceholder(node.args[1].name!) !== null;
+    return (
+      node.args[0].type === 'ConstantNode' &&
+      node.args[1].type === 'SymbolNode' &&
+      unitOfPlaceholder(node.args[1].name!) !== null
+    );
   }
   return false;
 }
@@ -157,20 +167,52 @@ function unitOf(math: MathJsInstance, value: unknown): string | null {
   return text && text !== '' ? text.replace(/\s+/g, '') : null;
 }
 
-const ADDITIVE: Record<string, string> = { add: 'add', subtract: 'subtract', addScalar: 'add', subtractScalar: 'subtract' };
+const ADDITIVE: Record<string, string> = {
+  add: 'add',
+  subtract: 'subtract',
+  addScalar: 'add',
+  subtractScalar: 'subtract',
+};
 const COMPARE = new Set(['smaller', 'larger', 'smallerEq', 'largerEq', 'equal', 'unequal', 'compare', 'max', 'min']);
 const TRIG = new Set(['sin', 'cos', 'tan', 'sec', 'csc', 'cot', 'sinh', 'cosh', 'tanh', 'sech', 'csch', 'coth']);
-const NUMBER_ONLY = new Set(['exp', 'expm1', 'log', 'ln', 'log10', 'log2', 'log1p', 'asin', 'acos', 'atan', 'asinh', 'acosh', 'atanh', 'gamma', 'lgamma', 'erf', 'factorial', 'sign', 'nthRoot', 'cbrt']);
+const NUMBER_ONLY = new Set([
+  'exp',
+  'expm1',
+  'log',
+  'ln',
+  'log10',
+  'log2',
+  'log1p',
+  'asin',
+  'acos',
+  'atan',
+  'asinh',
+  'acosh',
+  'atanh',
+  'gamma',
+  'lgamma',
+  'erf',
+  'factorial',
+  'sign',
+  'nthRoot',
+  'cbrt',
+]);
 
 /** Conversions between dimensions that need a power of c: what to write instead. */
 function conversionHint(from: string, to: string, src: string, target: string): string | null {
   const p = /[\s+\-*/]/.test(src) ? `(${src})` : src;
-  if (from === 'a mass' && to === 'an energy') return `a mass cannot be converted to an energy; for the rest energy write \`${p} * c^2 to ${target}\``;
-  if (from === 'an energy' && to === 'a mass') return `an energy cannot be converted to a mass; for the mass of that rest energy write \`${p} / c^2 to ${target}\``;
-  if (from === 'a momentum' && to === 'an energy') return `a momentum cannot be converted to an energy; for pc write \`${p} * c to ${target}\``;
-  if (from === 'an energy' && to === 'a momentum') return `an energy cannot be converted to a momentum; for E/c write \`${p} / c to ${target}\``;
-  if (from === 'a mass' && to === 'a momentum') return `a mass cannot be converted to a momentum; for mc write \`${p} * c to ${target}\``;
-  if (from === 'a momentum' && to === 'a mass') return `a momentum cannot be converted to a mass; for p/c write \`${p} / c to ${target}\``;
+  if (from === 'a mass' && to === 'an energy')
+    return `a mass cannot be converted to an energy; for the rest energy write \`${p} * c^2 to ${target}\``;
+  if (from === 'an energy' && to === 'a mass')
+    return `an energy cannot be converted to a mass; for the mass of that rest energy write \`${p} / c^2 to ${target}\``;
+  if (from === 'a momentum' && to === 'an energy')
+    return `a momentum cannot be converted to an energy; for pc write \`${p} * c to ${target}\``;
+  if (from === 'an energy' && to === 'a momentum')
+    return `an energy cannot be converted to a momentum; for E/c write \`${p} / c to ${target}\``;
+  if (from === 'a mass' && to === 'a momentum')
+    return `a mass cannot be converted to a momentum; for mc write \`${p} * c to ${target}\``;
+  if (from === 'a momentum' && to === 'a mass')
+    return `a momentum cannot be converted to a mass; for p/c write \`${p} / c to ${target}\``;
   return null;
 }
 
@@ -226,13 +268,16 @@ export function notDefined(name: string, ctx: Pick<MessageContext, 'candidates' 
 /** Edit distance (insertions, deletions, substitutions and swaps of neighbours), or max + 1 beyond `max`. */
 function distance(a: string, b: string, max: number): number {
   if (Math.abs(a.length - b.length) > max) return max + 1;
-  const d: number[][] = Array.from({ length: a.length + 1 }, (_, i) => Array.from({ length: b.length + 1 }, (_, j) => (i === 0 ? j : j === 0 ? i : 0)));
+  const d: number[][] = Array.from({ length: a.length + 1 }, (_, i) =>
+    Array.from({ length: b.length + 1 }, (_, j) => (i === 0 ? j : j === 0 ? i : 0)),
+  );
   for (let i = 1; i <= a.length; i++) {
     let best = Infinity;
     for (let j = 1; j <= b.length; j++) {
       const cost = a[i - 1] === b[j - 1] ? 0 : 1;
       d[i][j] = Math.min(d[i - 1][j] + 1, d[i][j - 1] + 1, d[i - 1][j - 1] + cost);
-      if (i > 1 && j > 1 && a[i - 1] === b[j - 2] && a[i - 2] === b[j - 1]) d[i][j] = Math.min(d[i][j], d[i - 2][j - 2] + 1);
+      if (i > 1 && j > 1 && a[i - 1] === b[j - 2] && a[i - 2] === b[j - 1])
+        d[i][j] = Math.min(d[i][j], d[i - 2][j - 2] + 1);
       best = Math.min(best, d[i][j]);
     }
     if (best > max) return max + 1;
@@ -244,7 +289,11 @@ function distance(a: string, b: string, max: number): number {
  * The names closest to a misspelt one: the same name in another case first (`lorentzfactor` →
  * `lorentzFactor`), then those within one edit (two for names of six letters or more). At most three.
  */
-export function didYouMean(name: string, candidates: Iterable<string>, caseCandidates: Iterable<string> = []): string[] {
+export function didYouMean(
+  name: string,
+  candidates: Iterable<string>,
+  caseCandidates: Iterable<string> = [],
+): string[] {
   const lower = name.toLowerCase();
   const max = name.length >= 6 ? 2 : 1;
   const scored: Array<[string, number]> = [];
@@ -339,7 +388,8 @@ function locate(ctx: MessageContext, node: Node, scope: Map<string, unknown>, de
       const inner = new Map(scope);
       own.params.forEach((p, i) => inner.set(p, values[i]));
       const message = locate(ctx, own.expr as Node, inner, depth + 1);
-      if (message) return `in ${src}, with ${own.params.map((p, i) => `${p} = ${describe(math, values[i], sig).shown ?? sourceOf(args[i])}`).join(', ')}: ${message}`;
+      if (message)
+        return `in ${src}, with ${own.params.map((p, i) => `${p} = ${describe(math, values[i], sig).shown ?? sourceOf(args[i])}`).join(', ')}: ${message}`;
     }
   }
   if (fnName && /Undefined function/.test(raw)) return notDefined(fnName, ctx);
@@ -350,16 +400,23 @@ function locate(ctx: MessageContext, node: Node, scope: Map<string, unknown>, de
     const da = describe(math, a, sig);
     const db = describe(math, b, sig);
     const verb = ADDITIVE[fn];
-    const pair = verb === 'subtract' ? `subtract ${describeArg(1)} from ${describeArg(0)}` : `add ${describeArg(0)} and ${describeArg(1)}`;
+    const pair =
+      verb === 'subtract'
+        ? `subtract ${describeArg(1)} from ${describeArg(0)}`
+        : `add ${describeArg(0)} and ${describeArg(1)}`;
     const textAt = values.findIndex((v) => typeof v === 'string');
     if (textAt >= 0) return `cannot ${pair}: a text is not a number`;
-    if (values.some((v) => math.isMatrix(v) || Array.isArray(v))) return `cannot ${pair}: every element of a list must have the dimension of the other term`;
+    if (values.some((v) => math.isMatrix(v) || Array.isArray(v)))
+      return `cannot ${pair}: every element of a list must have the dimension of the other term`;
     const plain = typeof a === 'number' ? 0 : typeof b === 'number' ? 1 : -1;
     const other = values[1 - plain];
     if (plain >= 0 && math.isUnit(other) && (other as Unit).value !== null) {
       const unit = unitOf(math, other);
       const literal = args[plain].type === 'ConstantNode' ? sourceOf(args[plain]) : null;
-      const fix = unit && literal ? `write the unit with the number (\`${literal} ${unit}\`)` : `give ${sourceOf(args[plain])} a unit of ${describe(math, other, sig).kind.replace(/^an? /, 'the same kind, ')}, or divide the quantity by a unit to make it a plain number`;
+      const fix =
+        unit && literal
+          ? `write the unit with the number (\`${literal} ${unit}\`)`
+          : `give ${sourceOf(args[plain])} a unit of ${describe(math, other, sig).kind.replace(/^an? /, 'the same kind, ')}, or divide the quantity by a unit to make it a plain number`;
       return `cannot ${pair}: a plain number and a quantity cannot be ${verb === 'subtract' ? 'subtracted' : 'added'}; ${fix}`;
     }
     return `cannot ${pair}: the terms of a ${verb === 'subtract' ? 'difference' : 'sum'} must have the same dimension (${da.kind} and ${db.kind})`;
@@ -376,10 +433,15 @@ function locate(ctx: MessageContext, node: Node, scope: Map<string, unknown>, de
       return `\`${target}\` is not a unit`;
     }
     const from = describe(math, a, sig).kind;
-    const to = describe(math, math.isUnit(targetUnit) ? math.unit(1, (targetUnit as Unit).formatUnits() || '') : targetUnit, sig).kind;
+    const to = describe(
+      math,
+      math.isUnit(targetUnit) ? math.unit(1, (targetUnit as Unit).formatUnits() || '') : targetUnit,
+      sig,
+    ).kind;
     const hint = conversionHint(from, to, sourceOf(args[0]), target);
     if (hint) return `cannot convert ${describeArg(0)} to ${target} (${to}): ${hint}`;
-    if (typeof a === 'number') return `cannot convert ${describeArg(0)} to ${target} (${to}): a plain number has no unit to convert; write the number with its unit`;
+    if (typeof a === 'number')
+      return `cannot convert ${describeArg(0)} to ${target} (${to}): a plain number has no unit to convert; write the number with its unit`;
     const examples = TARGET_EXAMPLES[from];
     return `cannot convert ${describeArg(0)} to ${target} (${to}): convert to a unit of ${from.replace(/^an? /, '')}${examples ? ` (e.g. ${examples})` : ''}`;
   }
@@ -401,10 +463,20 @@ function locate(ctx: MessageContext, node: Node, scope: Map<string, unknown>, de
   }
 
   // Functions of plain numbers given a quantity.
-  const unitArg = values.findIndex((v) => math.isUnit(v) && (v as Unit).value !== null && !describe(math, v, sig).dimensionless);
-  if (fnName && unitArg >= 0 && (NUMBER_ONLY.has(fnName) || /Unexpected type of argument|Too few arguments/.test(raw))) {
+  const unitArg = values.findIndex(
+    (v) => math.isUnit(v) && (v as Unit).value !== null && !describe(math, v, sig).dimensionless,
+  );
+  if (
+    fnName &&
+    unitArg >= 0 &&
+    (NUMBER_ONLY.has(fnName) || /Unexpected type of argument|Too few arguments/.test(raw))
+  ) {
     const unit = unitOf(math, values[unitArg]);
-    const example = args.map((a, i) => (i === unitArg ? `${/[+\-]/.test(sourceOf(a)) ? `(${sourceOf(a)})` : sourceOf(a)} / (1 ${unit})` : sourceOf(a))).join(', ');
+    const example = args
+      .map((a, i) =>
+        i === unitArg ? `${/[+\-]/.test(sourceOf(a)) ? `(${sourceOf(a)})` : sourceOf(a)} / (1 ${unit})` : sourceOf(a),
+      )
+      .join(', ');
     const reference = unit ? ` divide it by a reference quantity first, e.g. \`${fnName}(${example})\`` : '';
     return `${fnName} takes a plain number; ${describeArg(unitArg)} is a quantity:${reference || ' divide it by a reference quantity first'}`;
   }
@@ -412,7 +484,9 @@ function locate(ctx: MessageContext, node: Node, scope: Map<string, unknown>, de
   // Wrong number of arguments.
   const count = /Too (few|many) arguments in function \w+ \(expected: (\d+)?/.exec(raw);
   if (fnName && count) {
-    return count[2] ? `${fnName} takes ${count[2]} argument${count[2] === '1' ? '' : 's'}; ${src} has ${args.length}` : `${fnName} takes ${count[1] === 'few' ? 'more' : 'fewer'} arguments than the ${args.length} of ${src}`;
+    return count[2]
+      ? `${fnName} takes ${count[2]} argument${count[2] === '1' ? '' : 's'}; ${src} has ${args.length}`
+      : `${fnName} takes ${count[1] === 'few' ? 'more' : 'fewer'} arguments than the ${args.length} of ${src}`;
   }
 
   // Texts where numbers are expected.
@@ -454,10 +528,17 @@ export function parseMessage(error: unknown, text: string, parse: (expr: string)
   const at = /\(char (\d+)\)/.exec(raw);
   const bare = raw.replace(/\s*\(char \d+\)/, '');
   const rule = PARSE_WORDS.find(([re]) => re.test(bare));
-  const words = rule ? (rule[0].exec(bare)![0]).replace(rule[0], rule[1]) : isInternalMessage(bare) ? 'the line is not a formula the engine can read' : bare;
+  const words = rule
+    ? rule[0].exec(bare)![0].replace(rule[0], rule[1])
+    : isInternalMessage(bare)
+      ? 'the line is not a formula the engine can read'
+      : bare;
   if (!at) return words;
   const pos = Number(at[1]);
-  const excerpt = pos > text.length ? 'at the end of the line' : `at character ${pos} (\`${text.slice(Math.max(0, pos - 1), pos + 11)}\`)`;
+  const excerpt =
+    pos > text.length
+      ? 'at the end of the line'
+      : `at character ${pos} (\`${text.slice(Math.max(0, pos - 1), pos + 11)}\`)`;
   return `${words}, ${excerpt}`;
 }
 
@@ -471,6 +552,7 @@ export function cleanMessage(error: unknown): string {
   const undefinedName = /Undefined (?:symbol|function) (\S+)/.exec(raw);
   if (undefinedName) return `\`${undefinedName[1]}\` is not defined`;
   if (/is no angle/.test(raw)) return 'a trigonometric function was given a quantity that is not an angle';
-  if (/Units do not match|Cannot compare units|different base|addScalar|subtractScalar/.test(raw)) return 'quantities of different dimensions were added, compared or converted';
+  if (/Units do not match|Cannot compare units|different base|addScalar|subtractScalar/.test(raw))
+    return 'quantities of different dimensions were added, compared or converted';
   return 'a step of the calculation cannot take the values it was given (check the units of each sum, comparison and function argument)';
 }

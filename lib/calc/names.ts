@@ -14,20 +14,29 @@ import { NAME } from './name-syntax';
 export { NAME } from './name-syntax';
 
 /** Names the engine reads as statement forms or markers of their own: never a sheet's quantity. */
-export const STATEMENT_NAMES: ReadonlySet<string> = new Set(['uncertain', 'correlation', 'sweep', 'plot', 'spacetime', 'fromRevision']);
+export const STATEMENT_NAMES: ReadonlySet<string> = new Set([
+  'uncertain',
+  'correlation',
+  'sweep',
+  'plot',
+  'spacetime',
+  'fromRevision',
+]);
 
 /** Names that read as a mathematical constant although mathjs does not know them. */
 const LOOKALIKES: ReadonlyMap<string, string> = new Map([['π', 'pi']]);
 
 export function checkDefinitionName(name: string, em: EngineMath): string | null {
-  if (!NAME.test(name)) return `\`${name}\`: names start with a letter (Latin or Greek) and hold letters, digits and underscores`;
+  if (!NAME.test(name))
+    return `\`${name}\`: names start with a letter (Latin or Greek) and hold letters, digits and underscores`;
   if (name.length > 64) return `\`${name}\`: names are at most 64 characters long`;
   if (name in Object.prototype) return `\`${name}\` is a reserved word; choose another name`;
   if (REFUSED_NAMES.has(name)) return `\`${name}\` is a reserved word; choose another name`;
   if (em.constants.has(name)) return `\`${name}\` is a built-in constant and cannot be redefined`;
   if (em.isMathConstant(name)) return `\`${name}\` is a built-in value and cannot be redefined`;
   const lookalike = LOOKALIKES.get(name);
-  if (lookalike) return `\`${name}\` reads as the number ${lookalike} and cannot be redefined; write \`${lookalike}\` for the number, or choose another name`;
+  if (lookalike)
+    return `\`${name}\` reads as the number ${lookalike} and cannot be redefined; write \`${lookalike}\` for the number, or choose another name`;
   if (STATEMENT_NAMES.has(name)) return `\`${name}\` is a statement form of its own and cannot be redefined`;
   return null;
 }

@@ -8,7 +8,17 @@ import type { MathJsInstance, MathNode, Unit } from 'mathjs';
 import { displayValue } from './format';
 import { unitOfPlaceholder } from './unit-literals';
 
-type Node = MathNode & { type: string; name?: string; op?: string; fn?: Node | string; args?: Node[]; condition?: Node; trueExpr?: Node; falseExpr?: Node; content?: Node };
+type Node = MathNode & {
+  type: string;
+  name?: string;
+  op?: string;
+  fn?: Node | string;
+  args?: Node[];
+  condition?: Node;
+  trueExpr?: Node;
+  falseExpr?: Node;
+  content?: Node;
+};
 
 type Problem = 'NaN' | 'infinite' | 'complex';
 
@@ -28,7 +38,11 @@ function scalarProblem(math: MathJsInstance, x: unknown): Problem | null {
 }
 
 /** The first element (1-based position, as "2" or "2, 3") of a value that is not finite and real. */
-function firstProblem(math: MathJsInstance, value: unknown, at: number[] = []): { problem: Problem; at: number[] } | null {
+function firstProblem(
+  math: MathJsInstance,
+  value: unknown,
+  at: number[] = [],
+): { problem: Problem; at: number[] } | null {
   if (math.isMatrix(value)) return firstProblem(math, (value as unknown as { toArray(): unknown[] }).toArray(), at);
   if (Array.isArray(value)) {
     for (const [i, v] of value.entries()) {
@@ -54,13 +68,23 @@ function siNumber(math: MathJsInstance, x: unknown): number | null {
   return null;
 }
 
-const WORDS: Record<Problem, string> = { NaN: 'is not a number (NaN)', infinite: 'is infinite', complex: 'is a complex number, not a real one' };
+const WORDS: Record<Problem, string> = {
+  NaN: 'is not a number (NaN)',
+  infinite: 'is infinite',
+  complex: 'is a complex number, not a real one',
+};
 
 /**
  * Why `value`, the value of `node` evaluated in `scope`, cannot be a statement's result, or null
  * when it is finite and real (booleans, strings and functions are not checked).
  */
-export function nonFiniteReason(math: MathJsInstance, node: MathNode, scope: Map<string, unknown>, value: unknown, sig: number): string | null {
+export function nonFiniteReason(
+  math: MathJsInstance,
+  node: MathNode,
+  scope: Map<string, unknown>,
+  value: unknown,
+  sig: number,
+): string | null {
   const found = firstProblem(math, value);
   if (!found) return null;
   const shown = (x: unknown) => {
@@ -136,12 +160,14 @@ export function nonFiniteReason(math: MathJsInstance, node: MathNode, scope: Map
       if (negative(base) && exponent !== null && !Number.isInteger(exponent)) {
         return `a negative ${kindOf(base)} (${shown(base)}) raised to the non-integer power ${shown(exponent)} is not real: ${src}`;
       }
-      if (siNumber(math, base) === 0 && exponent !== null && exponent < 0) return `zero raised to a negative power (${shown(exponent)}) is a division by zero: ${src}`;
+      if (siNumber(math, base) === 0 && exponent !== null && exponent < 0)
+        return `zero raised to a negative power (${shown(exponent)}) is a division by zero: ${src}`;
     }
     if (fnName && ['log', 'ln', 'log10', 'log2', 'log1p'].includes(fnName)) {
       const x = siNumber(math, argValue(0));
       if (x !== null && (fnName === 'log1p' ? x === -1 : x === 0)) return `the logarithm of zero is −∞: ${src}`;
-      if (x !== null && (fnName === 'log1p' ? x < -1 : x < 0)) return `the logarithm of a negative number (${shown(argValue(0))}) is not real: ${src}`;
+      if (x !== null && (fnName === 'log1p' ? x < -1 : x < 0))
+        return `the logarithm of a negative number (${shown(argValue(0))}) is not real: ${src}`;
     }
     if (fnName && ['asin', 'acos', 'acosh', 'atanh', 'asec', 'acsc'].includes(fnName)) {
       return `${fnName} of ${shown(argValue(0))} is outside the function's real domain: ${src}`;
@@ -153,8 +179,15 @@ export function nonFiniteReason(math: MathJsInstance, node: MathNode, scope: Map
     }
     // Arithmetic on finite, real operands with an infinite result: the number overflowed.
     const problem = problemOf(origin) ?? found.problem;
-    const arithmetic = origin.type === 'OperatorNode' || (!!fnName && ['exp', 'pow', 'multiply', 'add', 'subtract', 'cube', 'square', 'sinh', 'cosh'].includes(fnName));
-    if (problem === 'infinite' && arithmetic && args.length > 0 && args.every((a) => a.ok && firstProblem(math, a.value) === null)) {
+    const arithmetic =
+      origin.type === 'OperatorNode' ||
+      (!!fnName && ['exp', 'pow', 'multiply', 'add', 'subtract', 'cube', 'square', 'sinh', 'cosh'].includes(fnName));
+    if (
+      problem === 'infinite' &&
+      arithmetic &&
+      args.length > 0 &&
+      args.every((a) => a.ok && firstProblem(math, a.value) === null)
+    ) {
       return `${src} overflows: its value (in SI units) is beyond the largest double-precision number, about 1.8 × 10³⁰⁸`;
     }
     return `${src} ${WORDS[problem]}`;

@@ -21,7 +21,8 @@ export function stripComment(line: string): string {
   return line;
 }
 
-const CALL = /\bfromRevision\s*\(\s*(["'])([^"'\\]{1,100})\1\s*,\s*(["'])([^"'\\]{1,20})\3\s*,\s*(["'])([^"'\\]{1,100})\5\s*\)/g;
+const CALL =
+  /\bfromRevision\s*\(\s*(["'])([^"'\\]{1,100})\1\s*,\s*(["'])([^"'\\]{1,20})\3\s*,\s*(["'])([^"'\\]{1,100})\5\s*\)/g;
 
 export function referenceKey(r: SheetReference): string {
   return `${r.sheet}\u0000${r.revision}\u0000${r.name}`;

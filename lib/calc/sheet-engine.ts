@@ -13,9 +13,28 @@ import { createEngineMath, REFUSED_NAMES, type EngineMath } from './math-instanc
 import { checkDefinitionName } from './names';
 import { NAME_CHAR, NAME_START } from './name-syntax';
 import { formulaTex, substitutedTex, substitutionTex, type TexContext } from './tex';
-import type { CellInput, CellResult, CriterionResult, DisplayValue, EvaluateOptions, InputTable, ResolvedReference, SheetReference, SheetResult, StatementResult } from './types';
+import type {
+  CellInput,
+  CellResult,
+  CriterionResult,
+  DisplayValue,
+  EvaluateOptions,
+  InputTable,
+  ResolvedReference,
+  SheetReference,
+  SheetResult,
+  StatementResult,
+} from './types';
 import { REFERENCE_FUNCTION, referenceKey } from './references';
-import { computeStudy, inputUncertainty, MONTE_CARLO_PER_SHEET, propagateUncertainty, Reevaluator, siOf, type ChainStatement } from './studies';
+import {
+  computeStudy,
+  inputUncertainty,
+  MONTE_CARLO_PER_SHEET,
+  propagateUncertainty,
+  Reevaluator,
+  siOf,
+  type ChainStatement,
+} from './studies';
 import { STUDY_STATEMENTS, type StudyStatement } from './study-functions';
 import { ENGINE_VERSION } from './version';
 import { installSizeGuards, LIMITS } from './limits';
@@ -97,7 +116,8 @@ function rewritePlusMinus(line: string): { text: string; error: string | null } 
   const text = line.includes('+/-') ? line.replace(/\+\/-/g, '±') : line;
   if (!text.includes('±')) return { text, error: null };
   const m = new RegExp(`^\\s*([${NAME_START}][${NAME_CHAR}]*)\\s*=(?!=)([^±]+)±([^±]+)$`).exec(text);
-  if (!m || /["']/.test(text)) return { text, error: '± gives an input its standard uncertainty: write name = value ± u, one ± per line' };
+  if (!m || /["']/.test(text))
+    return { text, error: '± gives an input its standard uncertainty: write name = value ± u, one ± per line' };
   return { text: `${m[1]} = uncertain(${m[2].trim()}, ${m[3].trim()})`, error: null };
 }
 
@@ -113,11 +133,16 @@ function builtinNamesOf(em: EngineMath): { names: string[]; units: string[] } {
   if (known) return known;
   const math = em.math as unknown as Record<string, unknown>;
   const names = Object.keys(math).filter(
-    (k) => /^[a-z][A-Za-z0-9]*$/.test(k) && !/Scalar$|Dependencies$|^create[A-Z]/.test(k) && !REFUSED_NAMES.has(k) && (em.isFunctionName(k) || em.isMathConstant(k)),
+    (k) =>
+      /^[a-z][A-Za-z0-9]*$/.test(k) &&
+      !/Scalar$|Dependencies$|^create[A-Z]/.test(k) &&
+      !REFUSED_NAMES.has(k) &&
+      (em.isFunctionName(k) || em.isMathConstant(k)),
   );
   const units = (em.math.Unit as unknown as { UNITS: Record<string, { prefixes: Record<string, unknown> }> }).UNITS;
   const unitNames: string[] = [];
-  for (const [name, u] of Object.entries(units)) for (const p of Object.keys(u.prefixes ?? { '': 1 })) unitNames.push(p + name);
+  for (const [name, u] of Object.entries(units))
+    for (const p of Object.keys(u.prefixes ?? { '': 1 })) unitNames.push(p + name);
   const lists = { names, units: unitNames.filter((n) => em.isUnitName(n)) };
   builtinNameLists.set(em, lists);
   return lists;
@@ -219,7 +244,13 @@ export function createSheetEngine(): SheetEngine {
             statement.staticError ??= `The function ${name} is not available in calculation sheets.`;
             return;
           }
-          if (name.startsWith(UNIT_PLACEHOLDER_PREFIX) || locals.has(name) || em.constants.has(name) || em.isMathConstant(name)) return;
+          if (
+            name.startsWith(UNIT_PLACEHOLDER_PREFIX) ||
+            locals.has(name) ||
+            em.constants.has(name) ||
+            em.isMathConstant(name)
+          )
+            return;
           if (em.isUnitName(name)) unitNamed.add(name);
           else uses.add(name);
           return;
@@ -246,7 +277,11 @@ export function createSheetEngine(): SheetEngine {
             visit(n.args[0], locals);
             n.args[1].traverse((u: MathNode) => {
               const un = u as AnyNode;
-              if (un.type === 'SymbolNode' && !un.name!.startsWith(UNIT_PLACEHOLDER_PREFIX) && !em.isUnitName(un.name!)) {
+              if (
+                un.type === 'SymbolNode' &&
+                !un.name!.startsWith(UNIT_PLACEHOLDER_PREFIX) &&
+                !em.isUnitName(un.name!)
+              ) {
                 statement.staticError ??= `\`${un.name}\` after "${n.op}" is not a unit`;
               }
             });
@@ -295,7 +330,24 @@ export function createSheetEngine(): SheetEngine {
     const cached = parseCache.get(source);
     if (cached) return cached;
     if (source.length > LIMITS.maxCellSourceChars) {
-      const out = [{ line: 1, source: source.slice(0, 80), node: null, parseError: `the cell is longer than ${LIMITS.maxCellSourceChars} characters`, kind: 'expression' as const, defines: null, uses: [], unitNamed: [], unitLiterals: [], staticError: null, columns: [], uncertain: false, reference: null, study: null }];
+      const out = [
+        {
+          line: 1,
+          source: source.slice(0, 80),
+          node: null,
+          parseError: `the cell is longer than ${LIMITS.maxCellSourceChars} characters`,
+          kind: 'expression' as const,
+          defines: null,
+          uses: [],
+          unitNamed: [],
+          unitLiterals: [],
+          staticError: null,
+          columns: [],
+          uncertain: false,
+          reference: null,
+          study: null,
+        },
+      ];
       return out;
     }
     const statements: ParsedStatement[] = [];
@@ -306,7 +358,22 @@ export function createSheetEngine(): SheetEngine {
       // from what is evaluated (lib/calc/bidi-controls.ts): the line is an error, never evaluated.
       const control = findBidiControl(raw);
       if (!text && !control) continue;
-      const st: ParsedStatement = { line: i + 1, source: raw.trim(), node: null, parseError: null, kind: 'expression', defines: null, uses: [], unitNamed: [], unitLiterals: [], staticError: null, columns: [], uncertain: false, reference: null, study: null };
+      const st: ParsedStatement = {
+        line: i + 1,
+        source: raw.trim(),
+        node: null,
+        parseError: null,
+        kind: 'expression',
+        defines: null,
+        uses: [],
+        unitNamed: [],
+        unitLiterals: [],
+        staticError: null,
+        columns: [],
+        uncertain: false,
+        reference: null,
+        study: null,
+      };
       statements.push(st);
       if (control) {
         st.parseError = bidiRefusalReason(control, false);
@@ -344,14 +411,21 @@ export function createSheetEngine(): SheetEngine {
           st.defines = target.name!;
           analyse(node.value!, st);
           const value = node.value!;
-          const fnName = value.type === 'FunctionNode' && (value.fn as AnyNode)?.type === 'SymbolNode' ? (value.fn as AnyNode).name : null;
+          const fnName =
+            value.type === 'FunctionNode' && (value.fn as AnyNode)?.type === 'SymbolNode'
+              ? (value.fn as AnyNode).name
+              : null;
           if (fnName === 'uncertain') {
-            if ((value.args?.length ?? 0) !== 2) st.staticError ??= 'write an input with its standard uncertainty as name = value ± u';
+            if ((value.args?.length ?? 0) !== 2)
+              st.staticError ??= 'write an input with its standard uncertainty as name = value ± u';
             else st.uncertain = true;
           } else if (fnName === REFERENCE_FUNCTION) {
-            const args = (value.args ?? []).map((a) => (a.type === 'ConstantNode' ? (a as AnyNode & { value?: unknown }).value : undefined));
+            const args = (value.args ?? []).map((a) =>
+              a.type === 'ConstantNode' ? (a as AnyNode & { value?: unknown }).value : undefined,
+            );
             if (args.length !== 3 || !args.every((a) => typeof a === 'string' && (a as string).trim() !== '')) {
-              st.staticError ??= 'cite an issued result with three quoted texts: fromRevision("PROJ-CALC-0003", "B", "name")';
+              st.staticError ??=
+                'cite an issued result with three quoted texts: fromRevision("PROJ-CALC-0003", "B", "name")';
             } else {
               const [sheet, revision, name] = (args as unknown as string[]).map((a) => a.trim());
               st.reference = { sheet: sheet.toUpperCase(), revision: revision.toUpperCase(), name };
@@ -365,11 +439,15 @@ export function createSheetEngine(): SheetEngine {
       } else {
         st.kind = isCriterion(node) ? 'criterion' : 'expression';
         analyse(node, st);
-        const fnName = node.type === 'FunctionNode' && (node.fn as AnyNode)?.type === 'SymbolNode' ? (node.fn as AnyNode).name! : null;
+        const fnName =
+          node.type === 'FunctionNode' && (node.fn as AnyNode)?.type === 'SymbolNode'
+            ? (node.fn as AnyNode).name!
+            : null;
         if (fnName === 'correlation') {
           const args = (node.args ?? []) as AnyNode[];
           const literal = (a: AnyNode | undefined): number | null => {
-            if (a?.type === 'ConstantNode' && typeof (a as AnyNode & { value?: unknown }).value === 'number') return (a as AnyNode & { value: number }).value;
+            if (a?.type === 'ConstantNode' && typeof (a as AnyNode & { value?: unknown }).value === 'number')
+              return (a as AnyNode & { value: number }).value;
             if (a?.type === 'OperatorNode' && a.fn === 'unaryMinus' && a.args?.length === 1) {
               const inner = literal(a.args[0] as AnyNode);
               return inner === null ? null : -inner;
@@ -378,7 +456,8 @@ export function createSheetEngine(): SheetEngine {
           };
           const r = literal(args[2]);
           if (args.length !== 3 || args[0].type !== 'SymbolNode' || args[1].type !== 'SymbolNode' || r === null) {
-            st.staticError ??= 'write correlation(x, y, r) with the names of two inputs that carry an uncertainty and a number r';
+            st.staticError ??=
+              'write correlation(x, y, r) with the names of two inputs that carry an uncertainty and a number r';
           } else if (!(Math.abs(r) <= 1)) {
             st.staticError ??= 'a correlation coefficient lies between −1 and 1';
           } else if (args[0].name === args[1].name) {
@@ -413,7 +492,12 @@ export function createSheetEngine(): SheetEngine {
 
   function isCriterion(node: AnyNode): boolean {
     if (node.type === 'RelationalNode') return true;
-    return node.type === 'OperatorNode' && typeof node.fn === 'string' && node.fn in RELATIONAL_FNS && (node.args?.length ?? 0) === 2;
+    return (
+      node.type === 'OperatorNode' &&
+      typeof node.fn === 'string' &&
+      node.fn in RELATIONAL_FNS &&
+      (node.args?.length ?? 0) === 2
+    );
   }
 
   function criterionOperands(node: AnyNode): { operands: AnyNode[]; fns: string[] } {
@@ -431,7 +515,10 @@ export function createSheetEngine(): SheetEngine {
     throw new Error(`the ${side} of a criterion must be a number or a quantity`);
   }
 
-  function evaluateCriterion(node: AnyNode, scope: Map<string, unknown>): { value: boolean; criterion: CriterionResult } {
+  function evaluateCriterion(
+    node: AnyNode,
+    scope: Map<string, unknown>,
+  ): { value: boolean; criterion: CriterionResult } {
     const { operands, fns } = criterionOperands(node);
     const values = operands.map((o) => o.compile().evaluate(scope));
     let pass = true;
@@ -475,7 +562,9 @@ export function createSheetEngine(): SheetEngine {
     const tables = new Map((options.tables ?? []).map((t) => [t.name, t]));
     for (const name of tables.keys()) firstDefinition.set(name, { cell: -1, line: 0 });
     parsed.forEach((statements, ci) => {
-      for (const st of statements) if (st.defines && !firstDefinition.has(st.defines)) firstDefinition.set(st.defines, { cell: ci, line: st.line });
+      for (const st of statements)
+        if (st.defines && !firstDefinition.has(st.defines))
+          firstDefinition.set(st.defines, { cell: ci, line: st.line });
     });
 
     // The lint's findings for a name the sheet defines are dropped: the name is the sheet's quantity
@@ -485,7 +574,8 @@ export function createSheetEngine(): SheetEngine {
     const sheetFunctions = new Map<string, { params: string[]; expr: MathNode }>();
     for (const statements of parsed) {
       for (const st of statements) {
-        if (st.kind === 'function' && st.node && st.defines && !sheetFunctions.has(st.defines)) sheetFunctions.set(st.defines, { params: (st.node.params as string[]) ?? [], expr: st.node.expr! });
+        if (st.kind === 'function' && st.node && st.defines && !sheetFunctions.has(st.defines))
+          sheetFunctions.set(st.defines, { params: (st.node.params as string[]) ?? [], expr: st.node.expr! });
       }
     }
     const messageNames = {
@@ -493,7 +583,8 @@ export function createSheetEngine(): SheetEngine {
       caseCandidates: () => builtinNamesOf(em).units,
     };
     const calledQuantityMessage = (name: string): string => {
-      if (tables.has(name)) return `\`${name}\` is the input table read from ${tables.get(name)!.fileName}, not a function; read a column as ${name}.column`;
+      if (tables.has(name))
+        return `\`${name}\` is the input table read from ${tables.get(name)!.fileName}, not a function; read a column as ${name}.column`;
       const at = firstDefinition.get(name)!;
       const where = `cell ${at.cell + 1}, line ${at.line}`;
       if (em.isFunctionName(name)) {
@@ -502,16 +593,23 @@ export function createSheetEngine(): SheetEngine {
       return `\`${name}\` is a quantity (defined in ${where}), not a function: write \`${name} * (…)\` for a product, or define a function such as f(x) = …`;
     };
     const lintSilenced = (name: string) => firstDefinition.has(name) && checkDefinitionName(name, em) === null;
-    const warningsOf = (st: ParsedStatement) => (st.lint ?? []).filter((f) => !lintSilenced(f.name)).map((f) => f.message);
+    const warningsOf = (st: ParsedStatement) =>
+      (st.lint ?? []).filter((f) => !lintSilenced(f.name)).map((f) => f.message);
     // A bare name that is also a unit is a quantity when the sheet defines it anywhere; so is a
     // name of a built-in function the sheet defines (its definition takes precedence: names.ts).
     const usesOf = (st: ParsedStatement) =>
       st.unitNamed.length || st.fnNamed?.length
-        ? [...st.uses, ...st.unitNamed.filter((n) => firstDefinition.has(n)), ...(st.fnNamed ?? []).filter((n) => firstDefinition.has(n))]
+        ? [
+            ...st.uses,
+            ...st.unitNamed.filter((n) => firstDefinition.has(n)),
+            ...(st.fnNamed ?? []).filter((n) => firstDefinition.has(n)),
+          ]
         : st.uses;
     // What the sheet's first definition of each name is: a value (`x = …`) cannot be called as `x(…)`.
     const definitionKindOf = new Map<string, StatementResult['kind']>();
-    for (const statements of parsed) for (const st of statements) if (st.defines && !definitionKindOf.has(st.defines)) definitionKindOf.set(st.defines, st.kind);
+    for (const statements of parsed)
+      for (const st of statements)
+        if (st.defines && !definitionKindOf.has(st.defines)) definitionKindOf.set(st.defines, st.kind);
     const scope = new Map<string, unknown>(em.constants);
     const monteCarloMode = options.monteCarlo ?? 'auto';
     const resolved = new Map((options.references ?? []).map((r) => [referenceKey(r), r]));
@@ -528,7 +626,12 @@ export function createSheetEngine(): SheetEngine {
     const compiledOf = (st: ParsedStatement) => {
       if (!st.compiled) {
         const node = st.node!;
-        st.compiled = st.kind === 'function' ? node.compile() : st.uncertain ? node.value!.args![0].compile() : node.value!.compile();
+        st.compiled =
+          st.kind === 'function'
+            ? node.compile()
+            : st.uncertain
+              ? node.value!.args![0].compile()
+              : node.value!.compile();
       }
       return st.compiled;
     };
@@ -543,7 +646,8 @@ export function createSheetEngine(): SheetEngine {
           defines: name,
           uses: direct,
           run: (sc) => {
-            for (const l of st.unitLiterals) if (!scope.has(l.placeholder)) scope.set(l.placeholder, unitLiteral(l.unit));
+            for (const l of st.unitLiterals)
+              if (!scope.has(l.placeholder)) scope.set(l.placeholder, unitLiteral(l.unit));
             if (st.reference) return; // a cited value depends on nothing in this sheet
             const value = compiledOf(st).evaluate(sc);
             if (st.kind !== 'function') sc.set(name, value);
@@ -554,16 +658,24 @@ export function createSheetEngine(): SheetEngine {
     const reevaluator = new Reevaluator(scope, chain, chainIndex);
     // Correlations between inputs, from every correlation(x, y, r) of the sheet (the first one of a
     // pair counts): they hold for every result, wherever the statement stands.
-    const staticallyUncertain = new Set(parsed.flat().filter((st) => st.uncertain && st.defines && !st.parseError && !st.staticError).map((st) => st.defines!));
+    const staticallyUncertain = new Set(
+      parsed
+        .flat()
+        .filter((st) => st.uncertain && st.defines && !st.parseError && !st.staticError)
+        .map((st) => st.defines!),
+    );
     const correlations = new Map<string, { r: number; cell: number; line: number }>();
     const pairKey = (a: string, b: string) => (a < b ? `${a}\0${b}` : `${b}\0${a}`);
     parsed.forEach((statements, ci) => {
       for (const st of statements) {
         const c = st.correlation;
-        if (c && staticallyUncertain.has(c.a) && staticallyUncertain.has(c.b) && !correlations.has(pairKey(c.a, c.b))) correlations.set(pairKey(c.a, c.b), { r: c.r, cell: ci, line: st.line });
+        if (c && staticallyUncertain.has(c.a) && staticallyUncertain.has(c.b) && !correlations.has(pairKey(c.a, c.b)))
+          correlations.set(pairKey(c.a, c.b), { r: c.r, cell: ci, line: st.line });
       }
     });
-    const correlationContext = correlations.size ? [`correlations:${[...correlations].map(([k, v]) => `${k}=${v.r}`).join(';')}`] : [];
+    const correlationContext = correlations.size
+      ? [`correlations:${[...correlations].map(([k, v]) => `${k}=${v.r}`).join(';')}`]
+      : [];
     const correlationOf = (a: string, b: string) => (a === b ? 1 : (correlations.get(pairKey(a, b))?.r ?? 0));
     // The uncertain inputs a name depends on (directly or through other names), memoised: asked for
     // only once the sheet has an uncertain input, and only for names defined above the one asking.
@@ -632,11 +744,23 @@ export function createSheetEngine(): SheetEngine {
     for (const [ci, cell] of cells.entries()) {
       const statements = parsed[ci];
       if (cell.kind === 'text') {
-        results.push({ id: cell.id, index: ci, kind: 'text', ok: true, error: null, statements: [], warnings: [], defines: [], uses: [] });
+        results.push({
+          id: cell.id,
+          index: ci,
+          kind: 'text',
+          ok: true,
+          error: null,
+          statements: [],
+          warnings: [],
+          defines: [],
+          uses: [],
+        });
         continue;
       }
       const ownNames = new Set(statements.map((s) => s.defines).filter((n): n is string => !!n));
-      const external = [...new Set(statements.flatMap(usesOf))].filter((n) => !ownNames.has(n) || definedAt.has(n)).sort();
+      const external = [...new Set(statements.flatMap(usesOf))]
+        .filter((n) => !ownNames.has(n) || definedAt.has(n))
+        .sort();
       const skipReason = hooks.skip?.get(cell.id);
       // The key covers everything the cell's results depend on: its text, its position (messages
       // name cells by number), the display precision, the keys of the cells that defined what it
@@ -653,17 +777,25 @@ export function createSheetEngine(): SheetEngine {
           return `own:${n}=${at ? `${at.cell}:${at.line}` : 'new'}`;
         }),
         // Cited results as resolved now (a withdrawal or a new issue changes what the cell shows).
-        ...statements.filter((st) => st.reference).map((st) => `ref:${JSON.stringify(resolved.get(referenceKey(st.reference!)) ?? null)}`),
+        ...statements
+          .filter((st) => st.reference)
+          .map((st) => `ref:${JSON.stringify(resolved.get(referenceKey(st.reference!)) ?? null)}`),
         ...(monteCarloMode === 'always' && statements.some((st) => st.defines) ? ['monteCarlo:always'] : []),
         // How many of the sheet's Monte Carlo propagations are left decides which this cell may run.
         ...(inputU.size > 0 ? [`monteCarloUsed:${Math.min(monteCarloRequests, MONTE_CARLO_PER_SHEET)}`] : []),
         ...correlationContext,
         // Whether the sheet defines a name the lint flags decides whether the warning shows.
-        ...[...new Set(statements.flatMap((st) => (st.lint ?? []).map((f) => f.name)))].map((n) => `lint:${n}=${lintSilenced(n)}`),
+        ...[...new Set(statements.flatMap((st) => (st.lint ?? []).map((f) => f.name)))].map(
+          (n) => `lint:${n}=${lintSilenced(n)}`,
+        ),
         // Whether the sheet defines a unit name written after a number's unit with a space (`1 T m`).
-        ...[...new Set(statements.flatMap((st) => st.unitLiterals.flatMap((l) => l.spacedNames ?? [])))].map((n) => `spaced:${n}=${firstDefinition.has(n)}`),
+        ...[...new Set(statements.flatMap((st) => st.unitLiterals.flatMap((l) => l.spacedNames ?? [])))].map(
+          (n) => `spaced:${n}=${firstDefinition.has(n)}`,
+        ),
       ];
-      const key = createHash('sha256').update(`${hooks.cacheScope ?? ''}\0${sig}\0${displayUnits}\0${ci}\0${cell.source}\0${context.join('\0')}`).digest('base64');
+      const key = createHash('sha256')
+        .update(`${hooks.cacheScope ?? ''}\0${sig}\0${displayUnits}\0${ci}\0${cell.source}\0${context.join('\0')}`)
+        .digest('base64');
 
       const cached = skipReason ? undefined : cellCache.get(key);
       if (cached) {
@@ -675,7 +807,8 @@ export function createSheetEngine(): SheetEngine {
         for (const [name, why] of cached.failed) failed.set(name, why);
         for (const [name, u] of cached.uncertainties) inputU.set(name, u);
         monteCarloRequests += cached.monteCarloRequests;
-        for (const st of statements) if (st.defines && !definedAt.has(st.defines)) definedAt.set(st.defines, { cell: ci, line: st.line });
+        for (const st of statements)
+          if (st.defines && !definedAt.has(st.defines)) definedAt.set(st.defines, { cell: ci, line: st.line });
         for (const name of ownNames) nameKey.set(name, key);
         results.push({ ...cached.result, id: cell.id, index: ci });
         continue;
@@ -695,7 +828,18 @@ export function createSheetEngine(): SheetEngine {
       };
 
       for (const st of statements) {
-        const result: StatementResult = { line: st.line, source: st.source, kind: st.kind, name: st.defines, tex: '', substitutedTex: null, value: null, criterion: null, error: null, warnings: warningsOf(st) };
+        const result: StatementResult = {
+          line: st.line,
+          source: st.source,
+          kind: st.kind,
+          name: st.defines,
+          tex: '',
+          substitutedTex: null,
+          value: null,
+          criterion: null,
+          error: null,
+          warnings: warningsOf(st),
+        };
         out.push(result);
         const fail = (message: string) => {
           result.error = message;
@@ -744,7 +888,9 @@ export function createSheetEngine(): SheetEngine {
           );
           continue;
         }
-        const calledQuantity = (st.calls ?? []).find((name) => tables.has(name) || (firstDefinition.has(name) && definitionKindOf.get(name) !== 'function'));
+        const calledQuantity = (st.calls ?? []).find(
+          (name) => tables.has(name) || (firstDefinition.has(name) && definitionKindOf.get(name) !== 'function'),
+        );
         const problem = (calledQuantity ? [calledQuantity] : usesOf(st))
           .map((name) => {
             if (name === calledQuantity) return calledQuantityMessage(name);
@@ -753,14 +899,18 @@ export function createSheetEngine(): SheetEngine {
               return why ? `depends on \`${name}\`, which is not available: ${why}` : null;
             }
             const later = firstDefinition.get(name);
-            if (later) return `\`${name}\` is used before it is defined (cell ${later.cell + 1}, line ${later.line}); define names above where they are used`;
+            if (later)
+              return `\`${name}\` is used before it is defined (cell ${later.cell + 1}, line ${later.line}); define names above where they are used`;
             return em.isFunctionName(name) ? null : notDefined(name, messageNames);
           })
           .find((p) => p !== null);
         const columnProblem = st.columns
           .map(({ table, column }) => {
             const t = tables.get(table);
-            if (!t) return scope.has(table) ? `\`${table}\` is not an input table; \`.\` reads a column of an input table` : null;
+            if (!t)
+              return scope.has(table)
+                ? `\`${table}\` is not an input table; \`.\` reads a column of an input table`
+                : null;
             if (t.columns.some((c) => c.name === column)) return null;
             return `the input table \`${table}\` has no column \`${column}\`; its columns are ${t.columns.map((c) => (c.unit ? `${c.name} [${c.unit}]` : c.name)).join(', ')}`;
           })
@@ -781,18 +931,30 @@ export function createSheetEngine(): SheetEngine {
             const { a, b, r } = st.correlation;
             for (const name of [a, b]) {
               if (!definedAt.has(name)) throw new Error(`\`${name}\` is not defined above`);
-              if (!staticallyUncertain.has(name)) throw new Error(`\`${name}\` carries no standard uncertainty (write it as ${name} = value ± u)`);
+              if (!staticallyUncertain.has(name))
+                throw new Error(`\`${name}\` carries no standard uncertainty (write it as ${name} = value ± u)`);
             }
             const first = correlations.get(pairKey(a, b))!;
-            if (first.cell !== ci || first.line !== st.line) throw new Error(`the correlation of \`${a}\` and \`${b}\` is already given in cell ${first.cell + 1}, line ${first.line}`);
+            if (first.cell !== ci || first.line !== st.line)
+              throw new Error(
+                `the correlation of \`${a}\` and \`${b}\` is already given in cell ${first.cell + 1}, line ${first.line}`,
+              );
             value = r;
           } else if (st.study) {
             const listValue = (node.args![1] as AnyNode).compile().evaluate(scope);
-            const list = math.isMatrix(listValue) ? (listValue as { toArray(): unknown[] }).toArray() : Array.isArray(listValue) ? listValue : null;
-            if (!list || list.some((x) => Array.isArray(x) || math.isMatrix(x))) throw new Error('the second argument is the list of values to sweep, e.g. steps(70 MeV, 250 MeV, 20 MeV)');
+            const list = math.isMatrix(listValue)
+              ? (listValue as { toArray(): unknown[] }).toArray()
+              : Array.isArray(listValue)
+                ? listValue
+                : null;
+            if (!list || list.some((x) => Array.isArray(x) || math.isMatrix(x)))
+              throw new Error(
+                'the second argument is the list of values to sweep, e.g. steps(70 MeV, 250 MeV, 20 MeV)',
+              );
             if (list.length > 2000) throw new Error('a sweep or a plot takes at most 2000 values');
             const { input, targets } = st.study;
-            if (tables.has(input) || !chainIndex.has(input)) throw new Error(`\`${input}\` must be a value defined above to be swept`);
+            if (tables.has(input) || !chainIndex.has(input))
+              throw new Error(`\`${input}\` must be a value defined above to be swept`);
             for (const t of targets) {
               if (!definedAt.has(t) || tables.has(t)) throw new Error(`\`${t}\` is not a result defined above`);
             }
@@ -812,7 +974,10 @@ export function createSheetEngine(): SheetEngine {
           } else if (st.kind === 'definition' && st.reference) {
             const ref = resolved.get(referenceKey(st.reference));
             result.references = ref ? [ref] : [];
-            if (!ref) throw new Error(`${st.reference.sheet} rev. ${st.reference.revision}, ${st.reference.name}: citations of issued revisions are resolved within the sheet's project; save the sheet in a project to use it`);
+            if (!ref)
+              throw new Error(
+                `${st.reference.sheet} rev. ${st.reference.revision}, ${st.reference.name}: citations of issued revisions are resolved within the sheet's project; save the sheet in a project to use it`,
+              );
             if (ref.error || !ref.value) throw new Error(ref.error ?? 'the cited result has no value');
             value = ref.value.unit ? math.unit(ref.value.number, ref.value.unit) : ref.value.number;
             scope.set(st.defines!, value);
@@ -832,9 +997,14 @@ export function createSheetEngine(): SheetEngine {
             const us = siOf(math, u);
             if (v === null) throw new Error('the value before ± must be a single number or quantity');
             if (us === null) throw new Error('the standard uncertainty after ± must be a single number or quantity');
-            const sameDimension = typeof value === 'number' ? typeof u === 'number' : math.isUnit(u) && (u as Unit).equalBase(value as Unit);
-            if (!sameDimension) throw new Error('the standard uncertainty after ± must have the dimension of the value');
-            if (!(us >= 0) || !Number.isFinite(us) || !Number.isFinite(v)) throw new Error('the standard uncertainty must be a finite number ≥ 0');
+            const sameDimension =
+              typeof value === 'number'
+                ? typeof u === 'number'
+                : math.isUnit(u) && (u as Unit).equalBase(value as Unit);
+            if (!sameDimension)
+              throw new Error('the standard uncertainty after ± must have the dimension of the value');
+            if (!(us >= 0) || !Number.isFinite(us) || !Number.isFinite(v))
+              throw new Error('the standard uncertainty must be a finite number ≥ 0');
             scope.set(st.defines!, value);
             texValue.delete(st.defines!);
             values.set(st.defines!, value);
@@ -855,7 +1025,13 @@ export function createSheetEngine(): SheetEngine {
           // A non-finite or complex value is an error saying what happened (a definition's dependents
           // then say they depend on it); criteria, functions, sweeps and plots are not values to check.
           if ((st.kind === 'definition' || st.kind === 'expression') && !st.study && !st.correlation) {
-            const why = nonFiniteReason(math, st.kind === 'definition' ? (st.uncertain ? node.value!.args![0] : node.value!) : node, scope, value, sig);
+            const why = nonFiniteReason(
+              math,
+              st.kind === 'definition' ? (st.uncertain ? node.value!.args![0] : node.value!) : node,
+              scope,
+              value,
+              sig,
+            );
             if (why) throw new Error(why);
           }
           if (st.kind === 'definition' && uncertainties.has(st.defines!)) {
@@ -886,7 +1062,8 @@ export function createSheetEngine(): SheetEngine {
           } else if (st.kind !== 'function') {
             result.value = displayValue(math, value, sig) as DisplayValue;
             // The substituted formulas below reuse this display instead of formatting the value again.
-            if (st.kind === 'definition' && result.value.kind !== 'matrix') texValue.set(st.defines!, substitutionTex(result.value.tex));
+            if (st.kind === 'definition' && result.value.kind !== 'matrix')
+              texValue.set(st.defines!, substitutionTex(result.value.tex));
             try {
               result.substitutedTex = substitutedTex(node, texCtx);
             } catch {
@@ -931,7 +1108,19 @@ export function createSheetEngine(): SheetEngine {
         const substitutions = out
           .filter((st) => st.kind === 'definition' && st.name && st.value && !st.error)
           .map((st) => [st.name!, substitutionTex(st.value!.tex)] as [string, string]);
-        remember(cellCache, key, { result: cellResult, values, failed: cellFailed, substitutions, uncertainties, monteCarloRequests: monteCarloRequests - requestsBefore }, LIMITS.cellCacheEntries);
+        remember(
+          cellCache,
+          key,
+          {
+            result: cellResult,
+            values,
+            failed: cellFailed,
+            substitutions,
+            uncertainties,
+            monteCarloRequests: monteCarloRequests - requestsBefore,
+          },
+          LIMITS.cellCacheEntries,
+        );
       }
     }
 

@@ -12,7 +12,10 @@ export const sheetFileSchema = z.looseObject({
   cells: z
     .array(
       z.looseObject({
-        id: z.string().regex(/^[a-z0-9][a-z0-9-]{0,39}$/).optional(),
+        id: z
+          .string()
+          .regex(/^[a-z0-9][a-z0-9-]{0,39}$/)
+          .optional(),
         kind: z.enum(['calc', 'text']),
         source: z.string().max(LIMITS.maxCellSourceChars),
       }),

@@ -5,7 +5,15 @@
 // a sweep's row equals what the sheet gives when that value is written in.
 import type { MathJsInstance, Unit } from 'mathjs';
 import { cleanMessage } from './messages';
-import { displayValue, formatFixedTex, formatFixedText, formatNumberText, quantityParts, unitTex, unitText } from './format';
+import {
+  displayValue,
+  formatFixedTex,
+  formatFixedText,
+  formatNumberText,
+  quantityParts,
+  unitTex,
+  unitText,
+} from './format';
 import type { BudgetLine, MonteCarloSummary, PlotData, StudyTable, UncertaintyResult } from './types';
 import { nameTex } from './tex';
 import { parseUnitString } from './unit-label';
@@ -120,7 +128,20 @@ interface DisplayUnit {
  */
 const SUMMARY = { trailingZeros: false } as const;
 
-const SUPERSCRIPT: Record<string, string> = { '-': '⁻', '0': '⁰', '1': '¹', '2': '²', '3': '³', '4': '⁴', '5': '⁵', '6': '⁶', '7': '⁷', '8': '⁸', '9': '⁹', '.': '·' };
+const SUPERSCRIPT: Record<string, string> = {
+  '-': '⁻',
+  '0': '⁰',
+  '1': '¹',
+  '2': '²',
+  '3': '³',
+  '4': '⁴',
+  '5': '⁵',
+  '6': '⁶',
+  '7': '⁷',
+  '8': '⁸',
+  '9': '⁹',
+  '.': '·',
+};
 
 /** The unit of a sensitivity coefficient, result unit per input unit, with like factors cancelled: (MeV/c)/MeV is 1/c. */
 function quotientText(dy: DisplayUnit, dx: DisplayUnit): string {
@@ -133,7 +154,13 @@ function quotientText(dy: DisplayUnit, dx: DisplayUnit): string {
     const parts = [...powers].filter(([, power]) => power !== 0).map(([name, power]) => ({ name, power }));
     if (!parts.length) return '';
     // Only a denominator: c⁻¹ rather than "1/c", which would read as a number beside the coefficient.
-    if (parts.every((p) => p.power < 0)) return parts.map((p) => `${unitText([{ name: p.name, power: 1 }])}${[...String(p.power)].map((ch) => SUPERSCRIPT[ch] ?? ch).join('')}`).join('·');
+    if (parts.every((p) => p.power < 0))
+      return parts
+        .map(
+          (p) =>
+            `${unitText([{ name: p.name, power: 1 }])}${[...String(p.power)].map((ch) => SUPERSCRIPT[ch] ?? ch).join('')}`,
+        )
+        .join('·');
     return unitText(parts);
   }
   return dy.text && dx.text ? `${dy.text}/${dx.text}` : dy.text || (dx.text ? `1/${dx.text}` : '');
@@ -142,16 +169,32 @@ function quotientText(dy: DisplayUnit, dx: DisplayUnit): string {
 function displayUnitOf(math: MathJsInstance, v: unknown): DisplayUnit {
   if (typeof v === 'number' || !math.isUnit(v)) return { unit: null, text: '', tex: '', factor: 1, fromSi: (si) => si };
   const q = quantityParts(math, v as Unit);
-  if (!q.unitString) return { unit: null, text: '', tex: '', factor: (v as Unit).value as number / (q.number || 1), fromSi: (si) => si / ((v as Unit).value as number / (q.number || 1)) };
+  if (!q.unitString)
+    return {
+      unit: null,
+      text: '',
+      tex: '',
+      factor: ((v as Unit).value as number) / (q.number || 1),
+      fromSi: (si) => si / (((v as Unit).value as number) / (q.number || 1)),
+    };
   const template = math.unit(1, q.unitString) as Unit & { _denormalize(x: number): number };
   const factor = template.value as number;
-  return { unit: q.unitString, text: unitText(q.parts), tex: unitTex(q.parts), factor, fromSi: (si) => template._denormalize(si) };
+  return {
+    unit: q.unitString,
+    text: unitText(q.parts),
+    tex: unitTex(q.parts),
+    factor,
+    fromSi: (si) => template._denormalize(si),
+  };
 }
 
 /** "value ± U" with the value rounded to the last digit of U (two significant digits, JCGM 100 7.2.6). */
 export function measuredText(y: number, U: number, unit: { text: string; tex: string }): { text: string; tex: string } {
   const { U: Ur, lastDigitExponent: e } = roundExpanded(U);
-  const scale = Math.abs(y) >= 1e6 || (Math.abs(y) < 1e-3 && Math.abs(Ur) < 1e-3) || e < -9 ? Math.floor(Math.log10(Math.max(Math.abs(y), Ur) || 1)) : 0;
+  const scale =
+    Math.abs(y) >= 1e6 || (Math.abs(y) < 1e-3 && Math.abs(Ur) < 1e-3) || e < -9
+      ? Math.floor(Math.log10(Math.max(Math.abs(y), Ur) || 1))
+      : 0;
   const decimals = Math.max(0, scale - e);
   const ys = y / 10 ** scale;
   const Us = Ur / 10 ** scale;
@@ -223,7 +266,10 @@ export function propagateUncertainty(
     if (si === null) throw new Error(`${target} is not a single value`);
     return si;
   };
-  const correlation = correlationOf && inputs.length > 1 ? inputs.map((a) => inputs.map((b) => correlationOf(a.name, b.name))) : undefined;
+  const correlation =
+    correlationOf && inputs.length > 1
+      ? inputs.map((a) => inputs.map((b) => correlationOf(a.name, b.name)))
+      : undefined;
   const correlated = correlation?.some((row, i) => row.some((r, j) => i !== j && r !== 0)) ? correlation : undefined;
   const fo = firstOrder(model, xs, correlated ? { correlation: correlated } : undefined);
   const dy = displayUnitOf(math, y);
@@ -242,7 +288,9 @@ export function propagateUncertainty(
       valueText: displayValue(math, input.value, sig).text,
       uText: `${formatNumberText(xs[k].u / dx.factor, Math.min(sig, 3), SUMMARY)}${dx.text ? ` ${dx.text}` : ''}`,
       sensitivity: c,
-      sensitivityText: Number.isFinite(fo.sensitivities[k]) ? `${formatNumberText(cShown, Math.min(sig, 4), SUMMARY)}${unitOfC ? ` ${unitOfC}` : ''}` : 'not evaluated (u = 0)',
+      sensitivityText: Number.isFinite(fo.sensitivities[k])
+        ? `${formatNumberText(cShown, Math.min(sig, 4), SUMMARY)}${unitOfC ? ` ${unitOfC}` : ''}`
+        : 'not evaluated (u = 0)',
       contribution,
       contributionText: `${formatNumberText(contribution, Math.min(sig, 3), SUMMARY)}${dy.text ? ` ${dy.text}` : ''}`,
       share: fo.shares[k],
@@ -256,7 +304,11 @@ export function propagateUncertainty(
       ? `the model is markedly non-linear here and the first-order result may be poor; the Monte Carlo check was not run (at most ${MONTE_CARLO_PER_SHEET} per sheet, to stay within the evaluation time limit)`
       : null;
   } else if (wanted) {
-    const r = monteCarlo(model, xs, { trials: MONTE_CARLO_TRIALS, seed: MONTE_CARLO_SEED, ...(correlated ? { correlation: correlated } : {}) });
+    const r = monteCarlo(model, xs, {
+      trials: MONTE_CARLO_TRIALS,
+      seed: MONTE_CARLO_SEED,
+      ...(correlated ? { correlation: correlated } : {}),
+    });
     if (r.valid < 2) {
       warning = `the Monte Carlo propagation could not evaluate the model for ${r.outOfDomain} of ${r.trials} draws (outside a function's domain); the first-order result is not reliable here`;
     } else {
@@ -295,7 +347,15 @@ export function propagateUncertainty(
     tex: shown.tex,
     budget,
     ...(correlated
-      ? { correlations: inputs.flatMap((a, i) => inputs.slice(i + 1).flatMap((b, k) => (correlated[i][i + 1 + k] !== 0 ? [{ a: a.name, b: b.name, r: correlated[i][i + 1 + k] }] : []))) }
+      ? {
+          correlations: inputs.flatMap((a, i) =>
+            inputs
+              .slice(i + 1)
+              .flatMap((b, k) =>
+                correlated[i][i + 1 + k] !== 0 ? [{ a: a.name, b: b.name, r: correlated[i][i + 1 + k] }] : [],
+              ),
+          ),
+        }
       : {}),
     nonLinear: fo.nonLinear,
     monteCarlo: mc,
@@ -326,7 +386,10 @@ export function computeStudy(
   const base = scope.get(input);
   if (siOf(math, base) === null) throw new Error(`\`${input}\` must be a single value to be swept`);
   for (const [k, v] of values.entries()) {
-    const same = typeof base === 'number' ? typeof v === 'number' : math.isUnit(v) && (v as Unit).value !== null && (v as Unit).equalBase(base as Unit);
+    const same =
+      typeof base === 'number'
+        ? typeof v === 'number'
+        : math.isUnit(v) && (v as Unit).value !== null && (v as Unit).equalBase(base as Unit);
     if (!same) throw new Error(`value ${k + 1} of the list is not of the dimension of \`${input}\``);
   }
   for (const t of targets) {
@@ -339,7 +402,8 @@ export function computeStudy(
   for (const v of values) {
     try {
       const out = varying.length ? re.run(new Map([[input, v]]), varying) : new Map<string, unknown>();
-      for (const t of varying) if (siOf(math, out.get(t)) === null) throw new Error(`\`${t}\` is not a single value for this input`);
+      for (const t of varying)
+        if (siOf(math, out.get(t)) === null) throw new Error(`\`${t}\` is not a single value for this input`);
       raw.push(out);
       errors.push(null);
     } catch (error) {
@@ -363,7 +427,11 @@ export function computeStudy(
       ]);
     });
     return {
-      table: { columns: [input, ...targets].map((n, k) => ({ name: n, unit: units[k].unit, tex: nameTex(n) })), rows, errors },
+      table: {
+        columns: [input, ...targets].map((n, k) => ({ name: n, unit: units[k].unit, tex: nameTex(n) })),
+        rows,
+        errors,
+      },
       plot: null,
     };
   }
@@ -372,8 +440,12 @@ export function computeStudy(
     const first = scope.get(targets[0]);
     for (const t of targets.slice(1)) {
       const v = scope.get(t);
-      const same = typeof first === 'number' ? typeof v === 'number' : math.isUnit(v) && (v as Unit).equalBase(first as Unit);
-      if (!same) throw new Error(`the curves of one plot share an axis: \`${t}\` is not of the dimension of \`${targets[0]}\`; draw it in a plot of its own`);
+      const same =
+        typeof first === 'number' ? typeof v === 'number' : math.isUnit(v) && (v as Unit).equalBase(first as Unit);
+      if (!same)
+        throw new Error(
+          `the curves of one plot share an axis: \`${t}\` is not of the dimension of \`${targets[0]}\`; draw it in a plot of its own`,
+        );
     }
     const dx = displayUnitOf(math, base);
     const dy = displayUnitOf(math, first);
@@ -387,7 +459,9 @@ export function computeStudy(
           name: t,
           points: values.flatMap((v, r) => {
             const y = raw[r] ? siOf(math, valueOf(r, t)) : null;
-            return y === null || !Number.isFinite(y) ? [] : [[Number(dx.fromSi(siOf(math, v)!).toPrecision(15)), dy.fromSi(y)] as [number, number]];
+            return y === null || !Number.isFinite(y)
+              ? []
+              : [[Number(dx.fromSi(siOf(math, v)!).toPrecision(15)), dy.fromSi(y)] as [number, number]];
           }),
         })),
       },
@@ -397,15 +471,20 @@ export function computeStudy(
   // A space-time diagram: x across, ct up, one length unit on both axes.
   const second = math.unit(1, 's');
   const metre = math.unit(1, 'm');
-  if (!math.isUnit(base) || !(base as Unit).equalBase(second)) throw new Error(`a space-time diagram sweeps a time; \`${input}\` is not a time`);
+  if (!math.isUnit(base) || !(base as Unit).equalBase(second))
+    throw new Error(`a space-time diagram sweeps a time; \`${input}\` is not a time`);
   const lines: string[] = [];
   const horizons: string[] = [];
   for (const t of targets) {
     const v = scope.get(t);
-    if (!math.isUnit(v) || !(v as Unit).equalBase(metre)) throw new Error(`\`${t}\` is not a length; a space-time diagram draws distances against time`);
+    if (!math.isUnit(v) || !(v as Unit).equalBase(metre))
+      throw new Error(`\`${t}\` is not a length; a space-time diagram draws distances against time`);
     (request.dependsOnInput(t) ? lines : horizons).push(t);
   }
-  if (!lines.length) throw new Error(`none of ${targets.map((t) => `\`${t}\``).join(', ')} depends on \`${input}\`; name at least one distance that does`);
+  if (!lines.length)
+    throw new Error(
+      `none of ${targets.map((t) => `\`${t}\``).join(', ')} depends on \`${input}\`; name at least one distance that does`,
+    );
   const c = 299_792_458;
   let extent = 0;
   values.forEach((v, r) => {
@@ -424,7 +503,9 @@ export function computeStudy(
         name: t,
         points: values.flatMap((v, r) => {
           const x = raw[r] ? siOf(math, valueOf(r, t)) : null;
-          return x === null || !Number.isFinite(x) ? [] : [[x / factor, (siOf(math, v)! * c) / factor] as [number, number]];
+          return x === null || !Number.isFinite(x)
+            ? []
+            : [[x / factor, (siOf(math, v)! * c) / factor] as [number, number]];
         }),
       })),
       horizons: horizons.map((t) => ({ name: t, distance: siOf(math, scope.get(t))! / factor })),

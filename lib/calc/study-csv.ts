@@ -33,6 +33,16 @@ export function studyTableCsv(table: StudyTable): string {
 }
 
 /** The download's file name: `TPT2-CALC-0003-v4-cell2-line3.csv` (cell number as shown, from 1). */
-export function studyCsvFileName({ sheet, version, cellNumber, line }: { sheet: string; version: number; cellNumber: number; line: number }): string {
+export function studyCsvFileName({
+  sheet,
+  version,
+  cellNumber,
+  line,
+}: {
+  sheet: string;
+  version: number;
+  cellNumber: number;
+  line: number;
+}): string {
   return `${sheet}-v${version}-cell${cellNumber}-line${line}.csv`;
 }

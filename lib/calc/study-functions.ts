@@ -24,7 +24,8 @@ export const STUDY_FUNCTION_DOCS: readonly StudyFunctionDoc[] = [
   {
     name: 'steps',
     signature: 'steps(from, to, step)',
-    summary: 'The list from, from + step, … up to and including to (when to falls on a step); all of one dimension. At most 2000 values.',
+    summary:
+      'The list from, from + step, … up to and including to (when to falls on a step); all of one dimension. At most 2000 values.',
     example: 'T_list = steps(70 MeV, 250 MeV, 20 MeV)',
   },
   {
@@ -99,7 +100,8 @@ export function studyBindings(math: MathJsInstance): LibraryBinding[] {
   };
   /** Numbers in the unit a quantity is written in, and quantities back from such numbers (mathjs's own conversion). */
   const ownUnit = (template: unknown) => {
-    if (typeof template === 'number') return { number: (x: unknown) => x as number, list: (values: number[]) => math.matrix(values as never[]) };
+    if (typeof template === 'number')
+      return { number: (x: unknown) => x as number, list: (values: number[]) => math.matrix(values as never[]) };
     const t = template as Unit & { _normalize(x: number): number; _denormalize(x: number): number };
     return {
       number: (x: unknown) => t._denormalize((x as Unit).value as number),
@@ -128,12 +130,17 @@ export function studyBindings(math: MathJsInstance): LibraryBinding[] {
         const b = own.number(to);
         const h = own.number(step);
         if (![a, b, h].every(Number.isFinite)) throw new Error('steps: from, to and step must be finite');
-        if (h === 0 || Math.sign(h) !== Math.sign(b - a || h)) throw new Error('steps: step must be non-zero and go from `from` towards `to`');
+        if (h === 0 || Math.sign(h) !== Math.sign(b - a || h))
+          throw new Error('steps: step must be non-zero and go from `from` towards `to`');
         const span = (b - a) / h;
         // The end is included when it falls on a step, to within rounding of the step count.
         const n = Math.floor(span + 1e-9 * Math.max(1, Math.abs(span))) + 1;
         if (n > MAX_STUDY_VALUES) throw new Error(`steps: ${n} values; at most ${MAX_STUDY_VALUES}`);
-        return own.list(Array.from({ length: n }, (_, k) => (k === n - 1 && Math.abs(a + k * h - b) <= 1e-9 * Math.abs(h) ? b : a + k * h)));
+        return own.list(
+          Array.from({ length: n }, (_, k) =>
+            k === n - 1 && Math.abs(a + k * h - b) <= 1e-9 * Math.abs(h) ? b : a + k * h,
+          ),
+        );
       },
     },
     {
@@ -149,14 +156,22 @@ export function studyBindings(math: MathJsInstance): LibraryBinding[] {
         const a = own.number(from);
         const b = own.number(to);
         if (!Number.isFinite(a) || !Number.isFinite(b)) throw new Error('points: from and to must be finite');
-        return own.list(Array.from({ length: count }, (_, k) => (k === count - 1 ? b : a + ((b - a) * k) / (count - 1))));
+        return own.list(
+          Array.from({ length: count }, (_, k) => (k === count - 1 ? b : a + ((b - a) * k) / (count - 1))),
+        );
       },
     },
-    refuse('uncertain', 'uncertain(value, u) gives an input its standard uncertainty: write it as the whole definition, x = 250 MeV ± 0.5 MeV'),
+    refuse(
+      'uncertain',
+      'uncertain(value, u) gives an input its standard uncertainty: write it as the whole definition, x = 250 MeV ± 0.5 MeV',
+    ),
     refuse('correlation', 'correlation(…) is a statement of its own line: correlation(x, y, r)'),
     refuse('sweep', 'sweep(…) is a statement of its own line: sweep(input, values, result1, result2, …)'),
     refuse('plot', 'plot(…) is a statement of its own line: plot(input, values, result1, …)'),
     refuse('spacetime', 'spacetime(…) is a statement of its own line: spacetime(t, values, x1, …)'),
-    refuse('fromRevision', 'a cited result is written as the whole definition, name = fromRevision("SHEET-NUMBER", "REVISION", "name"), so that it shows with its source'),
+    refuse(
+      'fromRevision',
+      'a cited result is written as the whole definition, name = fromRevision("SHEET-NUMBER", "REVISION", "name"), so that it shows with its source',
+    ),
   ];
 }

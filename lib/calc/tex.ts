@@ -6,11 +6,46 @@ import { CONSTANTS } from './constants';
 import { unitOfPlaceholder } from './unit-literals';
 
 const GREEK = new Set([
-  'alpha', 'beta', 'gamma', 'delta', 'epsilon', 'varepsilon', 'zeta', 'eta', 'theta', 'vartheta', 'iota', 'kappa',
-  'lambda', 'mu', 'nu', 'xi', 'pi', 'rho', 'sigma', 'tau', 'upsilon', 'phi', 'varphi', 'chi', 'psi', 'omega',
-  'Gamma', 'Delta', 'Theta', 'Lambda', 'Xi', 'Pi', 'Sigma', 'Upsilon', 'Phi', 'Psi', 'Omega',
+  'alpha',
+  'beta',
+  'gamma',
+  'delta',
+  'epsilon',
+  'varepsilon',
+  'zeta',
+  'eta',
+  'theta',
+  'vartheta',
+  'iota',
+  'kappa',
+  'lambda',
+  'mu',
+  'nu',
+  'xi',
+  'pi',
+  'rho',
+  'sigma',
+  'tau',
+  'upsilon',
+  'phi',
+  'varphi',
+  'chi',
+  'psi',
+  'omega',
+  'Gamma',
+  'Delta',
+  'Theta',
+  'Lambda',
+  'Xi',
+  'Pi',
+  'Sigma',
+  'Upsilon',
+  'Phi',
+  'Psi',
+  'Omega',
 ]);
-const GREEK_SUFFIX = /(alpha|beta|gamma|delta|epsilon|zeta|eta|theta|kappa|lambda|mu|nu|xi|rho|sigma|tau|phi|chi|psi|omega|Gamma|Delta|Theta|Lambda|Sigma|Phi|Psi|Omega)$/;
+const GREEK_SUFFIX =
+  /(alpha|beta|gamma|delta|epsilon|zeta|eta|theta|kappa|lambda|mu|nu|xi|rho|sigma|tau|phi|chi|psi|omega|Gamma|Delta|Theta|Lambda|Sigma|Phi|Psi|Omega)$/;
 
 const CONSTANT_TEX = new Map(CONSTANTS.map((c) => [c.name, c.tex]));
 
@@ -24,7 +59,31 @@ const GREEK_CHAR_TEX: ReadonlyMap<string, string> = new Map([
     .map((n, i) => [String.fromCharCode(0x0391 + i), n] as [string, string])
     .filter(([, n]) => n !== '-')
     // Capitals that look like Latin letters are written as those letters (TeX has no \Alpha).
-    .map(([c, n]) => [c, GREEK.has(n) ? `\\${n}` : ({ Alpha: 'A', Beta: 'B', Epsilon: 'E', Zeta: 'Z', Eta: 'H', Iota: 'I', Kappa: 'K', Mu: 'M', Nu: 'N', Omicron: 'O', Rho: 'P', Tau: 'T', Chi: 'X' } as Record<string, string>)[n] ?? n] as [string, string]),
+    .map(
+      ([c, n]) =>
+        [
+          c,
+          GREEK.has(n)
+            ? `\\${n}`
+            : ((
+                {
+                  Alpha: 'A',
+                  Beta: 'B',
+                  Epsilon: 'E',
+                  Zeta: 'Z',
+                  Eta: 'H',
+                  Iota: 'I',
+                  Kappa: 'K',
+                  Mu: 'M',
+                  Nu: 'N',
+                  Omicron: 'O',
+                  Rho: 'P',
+                  Tau: 'T',
+                  Chi: 'X',
+                } as Record<string, string>
+              )[n] ?? n),
+        ] as [string, string],
+    ),
   ['\u03d1', '\\vartheta'],
   ['\u03d5', '\\phi'],
   ['\u03f5', '\\epsilon'],
@@ -141,7 +200,8 @@ function makeHandler(ctx: TexContext, substitute: boolean) {
       // (mathjs writes number(p, "MeV/c") as a product of p and a string).
       if (fnName === 'number' && node.args.length === 2) {
         const unitArg = (node.args[1] as AnyNode & { value?: unknown }).value;
-        const unitTex = typeof unitArg === 'string' ? safeUnitTex(ctx, unitArg) : node.args[1].toTex(options).trimStart();
+        const unitTex =
+          typeof unitArg === 'string' ? safeUnitTex(ctx, unitArg) : node.args[1].toTex(options).trimStart();
         return `\\frac{${node.args[0].toTex(options).trimStart()}}{${unitTex}}`;
       }
       // mathjs writes `\hypot`, which is no TeX command.

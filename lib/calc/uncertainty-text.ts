@@ -24,7 +24,14 @@ export function shareText(share: number): string {
   return `${pct.toFixed(1)} %`;
 }
 
-export const BUDGET_COLUMNS = ['Input', 'Value', 'Standard uncertainty', 'Sensitivity coefficient', 'Contribution', 'Share'] as const;
+export const BUDGET_COLUMNS = [
+  'Input',
+  'Value',
+  'Standard uncertainty',
+  'Sensitivity coefficient',
+  'Contribution',
+  'Share',
+] as const;
 
 /** One row of text per input, in the order of BUDGET_COLUMNS. */
 export function budgetRows(u: UncertaintyResult): string[][] {
@@ -41,12 +48,15 @@ export function combinedText(u: UncertaintyResult): string {
 
 /** The Monte Carlo summary as sentences: what was run, what it gave, whether it agrees. */
 export function monteCarloLines(mc: MonteCarloSummary, unit: string | null): string[] {
-  const lines = [`Monte Carlo propagation (JCGM 101): ${mc.trials.toLocaleString('en-US').replace(/,/g, '\u202f')} trials, seed ${mc.seed}: ${mc.text}`];
+  const lines = [
+    `Monte Carlo propagation (JCGM 101): ${mc.trials.toLocaleString('en-US').replace(/,/g, '\u202f')} trials, seed ${mc.seed}: ${mc.text}`,
+  ];
   lines.push(
     mc.agrees
       ? `Agrees with the first-order result: |y − U − low| = ${withUnit(mc.dLow, unit)} and |y + U − high| = ${withUnit(mc.dHigh, unit)}, within the tolerance ${withUnit(mc.tolerance, unit)}.`
       : `Does not agree with the first-order result: |y − U − low| = ${withUnit(mc.dLow, unit)}, |y + U − high| = ${withUnit(mc.dHigh, unit)}, tolerance ${withUnit(mc.tolerance, unit)}.`,
   );
-  if (mc.outOfDomain > 0) lines.push(`${mc.outOfDomain} of the draws fell outside the model's domain and were left out.`);
+  if (mc.outOfDomain > 0)
+    lines.push(`${mc.outOfDomain} of the draws fell outside the model's domain and were left out.`);
   return lines;
 }

@@ -124,7 +124,8 @@ function withShift(values: readonly number[], i: number, di: number, j = -1, dj 
 function checkInputs(inputs: readonly UncertainInput[]): void {
   inputs.forEach((input, i) => {
     if (!Number.isFinite(input.value)) throw new RangeError(`input ${i}: the value must be a finite number`);
-    if (!Number.isFinite(input.u) || input.u < 0) throw new RangeError(`input ${i}: the standard uncertainty must be a finite number ≥ 0`);
+    if (!Number.isFinite(input.u) || input.u < 0)
+      throw new RangeError(`input ${i}: the standard uncertainty must be a finite number ≥ 0`);
     const d = input.distribution ?? 'normal';
     if (d !== 'normal' && d !== 'rectangular') throw new RangeError(`input ${i}: unknown distribution "${String(d)}"`);
   });
@@ -139,7 +140,8 @@ function checkCorrelation(correlation: readonly (readonly number[])[], n: number
       const r = row[j];
       if (!Number.isFinite(r) || Math.abs(r) > 1) throw new RangeError(`correlation (${i}, ${j}) must lie in [−1, 1]`);
       if (i === j && Math.abs(r - 1) > 1e-12) throw new RangeError(`correlation (${i}, ${i}) must be 1`);
-      if (Math.abs(r - correlation[j][i]) > 1e-12) throw new RangeError(`the correlation matrix must be symmetric: (${i}, ${j}) ≠ (${j}, ${i})`);
+      if (Math.abs(r - correlation[j][i]) > 1e-12)
+        throw new RangeError(`the correlation matrix must be symmetric: (${i}, ${j}) ≠ (${j}, ${i})`);
     }
   }
 }
@@ -175,7 +177,13 @@ function cholesky(a: readonly (readonly number[])[]): Float64Array[] {
 // ∂f/∂x_i by a central difference, falling back to a second-order one-sided difference where one side
 // is outside the model's domain. The step is 10⁻³·u_i, but never below √ε·|x_i| (below that rounding in
 // x_i + h spoils the difference, e.g. for a constant known to 10⁻¹⁰) nor above u_i.
-function sensitivity(model: (x: readonly number[]) => number, values: readonly number[], i: number, u: number, y: number): number {
+function sensitivity(
+  model: (x: readonly number[]) => number,
+  values: readonly number[],
+  i: number,
+  u: number,
+  y: number,
+): number {
   const x = values[i];
   let step = Math.min(u, Math.max(1e-3 * u, Math.sqrt(EPS) * Math.abs(x)));
   // A u below the spacing of doubles near x would give a zero step.
@@ -214,7 +222,10 @@ export function firstOrder(
   try {
     y = model(values);
   } catch (cause) {
-    throw new Error(`the model cannot be evaluated at the input estimates: ${cause instanceof Error ? cause.message : String(cause)}`, { cause });
+    throw new Error(
+      `the model cannot be evaluated at the input estimates: ${cause instanceof Error ? cause.message : String(cause)}`,
+      { cause },
+    );
   }
   if (!Number.isFinite(y)) throw new Error(`the model gives ${y} at the input estimates`);
 
@@ -242,7 +253,9 @@ export function firstOrder(
   }
   const uc = Math.sqrt(Math.max(0, variance));
   const shares = contributions.map((c) => (uc > 0 ? (c * c) / (uc * uc) : 0));
-  const nonLinear = active.length > 0 && (uc === 0 || secondOrderExceeds(model, values, inputs, active, contributions, y, NON_LINEAR_THRESHOLD * uc * uc));
+  const nonLinear =
+    active.length > 0 &&
+    (uc === 0 || secondOrderExceeds(model, values, inputs, active, contributions, y, NON_LINEAR_THRESHOLD * uc * uc));
   return { y, uc, sensitivities, contributions, shares, nonLinear };
 }
 
@@ -263,7 +276,8 @@ function secondOrderExceeds(
   y: number,
   limit: number,
 ): boolean {
-  const noise = (d: number, ...fs: number[]) => (Math.abs(d) <= 64 * EPS * Math.max(Math.abs(y), ...fs.map(Math.abs)) ? 0 : d);
+  const noise = (d: number, ...fs: number[]) =>
+    Math.abs(d) <= 64 * EPS * Math.max(Math.abs(y), ...fs.map(Math.abs)) ? 0 : d;
   const plus = new Map<number, number>();
   const minus = new Map<number, number>();
   let total = 0;
@@ -382,7 +396,9 @@ function latentCorrelation(r: number, a: Distribution, b: Distribution, i: numbe
   if (a === 'rectangular' && b === 'rectangular') return 2 * Math.sin((Math.PI * r) / 6);
   const rho = r * Math.sqrt(Math.PI / 3);
   if (Math.abs(rho) > 1 + 1e-12) {
-    throw new RangeError(`inputs ${i} and ${j}: a normal and a rectangular input cannot have a correlation beyond ±${Math.sqrt(3 / Math.PI).toFixed(4)}`);
+    throw new RangeError(
+      `inputs ${i} and ${j}: a normal and a rectangular input cannot have a correlation beyond ±${Math.sqrt(3 / Math.PI).toFixed(4)}`,
+    );
   }
   return Math.max(-1, Math.min(1, rho));
 }
@@ -447,14 +463,19 @@ function mergeRuns(a: Float64Array, bounds: number[]): Float64Array {
 }
 
 /** Propagation of distributions (JCGM 101:2008, 7), one model call per trial; the array passed to the model is reused, so copy it to keep it. */
-export function monteCarlo(model: (x: readonly number[]) => number, inputs: readonly UncertainInput[], options: MonteCarloOptions): MonteCarloResult {
+export function monteCarlo(
+  model: (x: readonly number[]) => number,
+  inputs: readonly UncertainInput[],
+  options: MonteCarloOptions,
+): MonteCarloResult {
   checkInputs(inputs);
   const n = inputs.length;
   const trials = options.trials;
   const blocks = options.blocks ?? 10;
   const coverage = options.coverage ?? 0.9545;
   if (!Number.isSafeInteger(trials) || trials < 1) throw new RangeError('trials must be a positive integer');
-  if (!Number.isSafeInteger(blocks) || blocks < 1 || blocks > trials) throw new RangeError('blocks must be an integer from 1 to trials');
+  if (!Number.isSafeInteger(blocks) || blocks < 1 || blocks > trials)
+    throw new RangeError('blocks must be an integer from 1 to trials');
   if (!(coverage > 0 && coverage < 1)) throw new RangeError('coverage must lie strictly between 0 and 1');
   const correlation = options.correlation;
   if (correlation) checkCorrelation(correlation, n);
@@ -471,7 +492,9 @@ export function monteCarlo(model: (x: readonly number[]) => number, inputs: read
   let factor: Float64Array[] = [];
   if (correlated && correlation) {
     const dist = (i: number): Distribution => inputs[i].distribution ?? 'normal';
-    factor = cholesky(active.map((i) => active.map((j) => latentCorrelation(correlation[i][j], dist(i), dist(j), i, j))));
+    factor = cholesky(
+      active.map((i) => active.map((j) => latentCorrelation(correlation[i][j], dist(i), dist(j), i, j))),
+    );
   }
   const z = new Float64Array(m);
 
@@ -492,7 +515,9 @@ export function monteCarlo(model: (x: readonly number[]) => number, inputs: read
       }
     } else {
       for (let k = 0; k < m; k++) {
-        x[active[k]] = rectangular[k] ? value[k] + halfWidth[k] * (2 * rng.uniform() - 1) : value[k] + u[k] * rng.normal();
+        x[active[k]] = rectangular[k]
+          ? value[k] + halfWidth[k] * (2 * rng.uniform() - 1)
+          : value[k] + u[k] * rng.normal();
       }
     }
     let v: number;
@@ -569,7 +594,8 @@ export function validateAgainstMonteCarlo(
 
 /** Expanded uncertainty rounded to two significant digits (JCGM 100 7.2.6), and the decimal exponent of its last digit so y can be rounded to the same place. */
 export function roundExpanded(U: number): { U: number; lastDigitExponent: number } {
-  if (!Number.isFinite(U) || U < 0) throw new RangeError(`an expanded uncertainty must be a finite number ≥ 0, not ${U}`);
+  if (!Number.isFinite(U) || U < 0)
+    throw new RangeError(`an expanded uncertainty must be a finite number ≥ 0, not ${U}`);
   // Zero has no last digit: nothing to round y to.
   if (U === 0) return { U: 0, lastDigitExponent: Number.NEGATIVE_INFINITY };
   // toExponential rounds the double's exact decimal value, a tie upwards, and carries (0.0996 → "1.0e-1").

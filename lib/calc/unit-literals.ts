@@ -61,7 +61,13 @@ export function unitOfPlaceholder(name: string): string | null {
  * Reads a unit expression at `start`: unit names joined by * or / and raised by ^n. Within a `to`
  * target, spaces around * and / are allowed. Returns the end index, or `start` when no unit is there.
  */
-export function readUnitExpression(line: string, start: number, isUnit: (name: string) => boolean, spaced: boolean, spacedNames?: string[]): number {
+export function readUnitExpression(
+  line: string,
+  start: number,
+  isUnit: (name: string) => boolean,
+  spaced: boolean,
+  spacedNames?: string[],
+): number {
   let i = start;
   let end = start;
   let expectUnit = true;
@@ -115,7 +121,10 @@ export function readUnitExpression(line: string, start: number, isUnit: (name: s
 }
 
 /** Replaces unit literals of one statement (comment already removed) by placeholders. */
-export function extractUnitLiterals(line: string, isUnit: (name: string) => boolean): { text: string; literals: UnitLiteral[] } {
+export function extractUnitLiterals(
+  line: string,
+  isUnit: (name: string) => boolean,
+): { text: string; literals: UnitLiteral[] } {
   const literals: UnitLiteral[] = [];
   let out = '';
   let i = 0;
@@ -131,7 +140,8 @@ export function extractUnitLiterals(line: string, isUnit: (name: string) => bool
     const placeholder = placeholderFor(unit);
     const known = literals.find((l) => l.placeholder === placeholder);
     if (!known) literals.push({ placeholder, unit, ...(spacedNames.length ? { spacedNames, written } : {}) });
-    else if (spacedNames.length) Object.assign(known, { spacedNames: [...new Set([...(known.spacedNames ?? []), ...spacedNames])], written });
+    else if (spacedNames.length)
+      Object.assign(known, { spacedNames: [...new Set([...(known.spacedNames ?? []), ...spacedNames])], written });
     out += placeholder;
   };
   while (i < line.length) {

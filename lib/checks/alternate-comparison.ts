@@ -56,12 +56,21 @@ export const TOLERANCE_MAX = 0.1;
  * parts per million ("5 ppm"). Returns the fraction, or a message saying what is accepted.
  */
 export function parseTolerance(text: string): { ok: true; value: number } | { ok: false; message: string } {
-  const t = text.trim().replace(/[\u00a0\u202f\u2009 ]/g, '').replace(/\u2212/g, '-').replace(/×10\^?/g, 'e');
+  const t = text
+    .trim()
+    .replace(/[\u00a0\u202f\u2009 ]/g, '')
+    .replace(/\u2212/g, '-')
+    .replace(/×10\^?/g, 'e');
   const m = /^([0-9]*\.?[0-9]+(?:e[+-]?[0-9]+)?)(%|ppm)?$/i.exec(t);
-  if (!m) return { ok: false, message: 'write the tolerance as a relative number (1e-6), a percentage (0.1 %) or parts per million (5 ppm)' };
+  if (!m)
+    return {
+      ok: false,
+      message: 'write the tolerance as a relative number (1e-6), a percentage (0.1 %) or parts per million (5 ppm)',
+    };
   const n = Number(m[1]) / (m[2] === '%' ? 100 : m[2]?.toLowerCase() === 'ppm' ? 1e6 : 1);
   if (!Number.isFinite(n) || n <= 0) return { ok: false, message: 'the tolerance must be greater than zero' };
-  if (n > TOLERANCE_MAX) return { ok: false, message: `the tolerance must be at most ${TOLERANCE_MAX * 100} % (a relative difference)` };
+  if (n > TOLERANCE_MAX)
+    return { ok: false, message: `the tolerance must be at most ${TOLERANCE_MAX * 100} % (a relative difference)` };
   return { ok: true, value: n };
 }
 
@@ -92,7 +101,8 @@ function definitions(results: SheetResult | null | undefined): Map<string, Displ
 /** A value in SI with its dimension, or why it is not compared. */
 function siValue(v: DisplayValue): { value: number; unit: Unit | null } | string {
   if (v.kind === 'matrix') return 'not compared: lists are not compared';
-  if (v.kind !== 'quantity' && v.kind !== 'number') return `not compared: a ${v.kind === 'boolean' ? 'true/false value' : v.kind === 'string' ? 'text' : v.kind === 'function' ? 'function' : 'value that is not a number'}`;
+  if (v.kind !== 'quantity' && v.kind !== 'number')
+    return `not compared: a ${v.kind === 'boolean' ? 'true/false value' : v.kind === 'string' ? 'text' : v.kind === 'function' ? 'function' : 'value that is not a number'}`;
   if (v.number === null || !Number.isFinite(v.number)) return 'not compared: not a finite number';
   if (!v.unit) return { value: v.number, unit: null };
   try {
@@ -115,11 +125,21 @@ export function compareValues(
 ): Pick<AlternateComparisonRow, 'relativeDifference' | 'status' | 'words' | 'alternateInSheetUnit'> {
   const s = siValue(sheet);
   const a = siValue(alternate);
-  if (typeof s === 'string') return { relativeDifference: null, status: 'not_compared', words: `${s} (sheet)`, alternateInSheetUnit: null };
-  if (typeof a === 'string') return { relativeDifference: null, status: 'not_compared', words: `${a} (alternate)`, alternateInSheetUnit: null };
-  const sameDimension = s.unit && a.unit ? s.unit.equalBase(a.unit) : (s.unit === null || dimensionless(s.unit)) && (a.unit === null || dimensionless(a.unit));
+  if (typeof s === 'string')
+    return { relativeDifference: null, status: 'not_compared', words: `${s} (sheet)`, alternateInSheetUnit: null };
+  if (typeof a === 'string')
+    return { relativeDifference: null, status: 'not_compared', words: `${a} (alternate)`, alternateInSheetUnit: null };
+  const sameDimension =
+    s.unit && a.unit
+      ? s.unit.equalBase(a.unit)
+      : (s.unit === null || dimensionless(s.unit)) && (a.unit === null || dimensionless(a.unit));
   if (!sameDimension) {
-    return { relativeDifference: null, status: 'units_differ', words: `cannot be compared: units differ (${unitLabel(sheet.unit) || 'a plain number'} and ${unitLabel(alternate.unit) || 'a plain number'})`, alternateInSheetUnit: null };
+    return {
+      relativeDifference: null,
+      status: 'units_differ',
+      words: `cannot be compared: units differ (${unitLabel(sheet.unit) || 'a plain number'} and ${unitLabel(alternate.unit) || 'a plain number'})`,
+      alternateInSheetUnit: null,
+    };
   }
   let inSheetUnit: string | null = null;
   if (unitLabel(alternate.unit) !== unitLabel(sheet.unit)) {
@@ -128,10 +148,23 @@ export function compareValues(
   }
   let rel: number;
   if (s.value === 0) {
-    if (a.value !== 0) return { relativeDifference: null, status: 'outside', words: 'outside the tolerance: the sheet value is 0 and the alternate is not, so there is no relative difference', alternateInSheetUnit: inSheetUnit };
+    if (a.value !== 0)
+      return {
+        relativeDifference: null,
+        status: 'outside',
+        words:
+          'outside the tolerance: the sheet value is 0 and the alternate is not, so there is no relative difference',
+        alternateInSheetUnit: inSheetUnit,
+      };
     rel = 0;
   } else rel = Math.abs(a.value - s.value) / Math.abs(s.value);
-  if (tolerance === null) return { relativeDifference: rel, status: 'no_tolerance', words: 'no tolerance stated yet', alternateInSheetUnit: inSheetUnit };
+  if (tolerance === null)
+    return {
+      relativeDifference: rel,
+      status: 'no_tolerance',
+      words: 'no tolerance stated yet',
+      alternateInSheetUnit: inSheetUnit,
+    };
   const within = rel <= tolerance;
   return {
     relativeDifference: rel,
@@ -142,7 +175,12 @@ export function compareValues(
 }
 
 /** Every name defined both in the sheet's results and in the alternate cells, in the sheet's order. */
-export function compareAlternate(sheet: SheetResult | null | undefined, alternate: SheetResult | null | undefined, tolerance: number | null, toleranceText: string | null = null): AlternateComparison {
+export function compareAlternate(
+  sheet: SheetResult | null | undefined,
+  alternate: SheetResult | null | undefined,
+  tolerance: number | null,
+  toleranceText: string | null = null,
+): AlternateComparison {
   const ours = definitions(sheet);
   const theirs = definitions(alternate);
   const rows: AlternateComparisonRow[] = [];
@@ -150,11 +188,32 @@ export function compareAlternate(sheet: SheetResult | null | undefined, alternat
     if (!theirs.has(name)) continue;
     const a = theirs.get(name) ?? null;
     if (!s || !a) {
-      rows.push({ name, sheet: s?.text ?? '—', alternate: a?.text ?? '—', alternateInSheetUnit: null, relativeDifference: null, relativeDifferenceText: '—', status: 'not_compared', words: `not compared: the ${!s ? 'sheet' : 'alternate'}'s statement has an error` });
+      rows.push({
+        name,
+        sheet: s?.text ?? '—',
+        alternate: a?.text ?? '—',
+        alternateInSheetUnit: null,
+        relativeDifference: null,
+        relativeDifferenceText: '—',
+        status: 'not_compared',
+        words: `not compared: the ${!s ? 'sheet' : 'alternate'}'s statement has an error`,
+      });
       continue;
     }
     const c = compareValues(s, a, tolerance, toleranceText);
-    rows.push({ name, sheet: s.text, alternate: a.text, ...c, relativeDifferenceText: c.relativeDifference === null ? '—' : formatRelative(c.relativeDifference) });
+    rows.push({
+      name,
+      sheet: s.text,
+      alternate: a.text,
+      ...c,
+      relativeDifferenceText: c.relativeDifference === null ? '—' : formatRelative(c.relativeDifference),
+    });
   }
-  return { tolerance, toleranceText, toleranceWords: tolerance === null ? null : formatRelative(tolerance), rows, notWithin: rows.filter((r) => r.status !== 'within').length };
+  return {
+    tolerance,
+    toleranceText,
+    toleranceWords: tolerance === null ? null : formatRelative(tolerance),
+    rows,
+    notWithin: rows.filter((r) => r.status !== 'within').length,
+  };
 }

@@ -24,7 +24,13 @@ export function readCarriedOver(value: unknown): CarriedOver | null {
   if (!value || typeof value !== 'object') return null;
   const v = value as Partial<CarriedOver>;
   if (typeof v.fromCheckId !== 'string' || typeof v.fromVersion !== 'number' || !Array.isArray(v.fields)) return null;
-  return { fromCheckId: v.fromCheckId, fromVersion: v.fromVersion, fields: v.fields.filter((f): f is CarriedField => (CARRIED_FIELDS as readonly string[]).includes(f)), confirmedAt: v.confirmedAt ?? null, confirmedBy: v.confirmedBy ?? null };
+  return {
+    fromCheckId: v.fromCheckId,
+    fromVersion: v.fromVersion,
+    fields: v.fields.filter((f): f is CarriedField => (CARRIED_FIELDS as readonly string[]).includes(f)),
+    confirmedAt: v.confirmedAt ?? null,
+    confirmedBy: v.confirmedBy ?? null,
+  };
 }
 
 /** Carried-over fields the checker has neither edited nor confirmed: signing waits for them. */

@@ -17,10 +17,24 @@ export * from './carried-over';
  * was returned (by its checker or its approver) and recorded any work. Runs in the submission's
  * transaction.
  */
-export async function carryOverWork(trx: Transaction<Database>, actor: Actor, check: { id: string; sheetId: string; projectId: string }): Promise<CarriedOver | null> {
+export async function carryOverWork(
+  trx: Transaction<Database>,
+  actor: Actor,
+  check: { id: string; sheetId: string; projectId: string },
+): Promise<CarriedOver | null> {
   const earlier = await trx
     .selectFrom('checks')
-    .select(['id', 'state', 'version_number', 'verification_method', 'checker_notes', 'alternate_cells', 'alternate_results', 'tolerance', 'tolerance_text'])
+    .select([
+      'id',
+      'state',
+      'version_number',
+      'verification_method',
+      'checker_notes',
+      'alternate_cells',
+      'alternate_results',
+      'tolerance',
+      'tolerance_text',
+    ])
     .where('sheet_id', '=', check.sheetId)
     .where('id', '<>', check.id)
     .orderBy('created_at', 'desc')
@@ -34,7 +48,13 @@ export async function carryOverWork(trx: Transaction<Database>, actor: Actor, ch
   if (cells.length) fields.push('alternateCells');
   if (earlier.tolerance !== null) fields.push('tolerance');
   if (fields.length === 0) return null;
-  const carried: CarriedOver = { fromCheckId: earlier.id, fromVersion: earlier.version_number, fields, confirmedAt: null, confirmedBy: null };
+  const carried: CarriedOver = {
+    fromCheckId: earlier.id,
+    fromVersion: earlier.version_number,
+    fields,
+    confirmedAt: null,
+    confirmedBy: null,
+  };
   await trx
     .updateTable('checks')
     .set({
@@ -53,7 +73,15 @@ export async function carryOverWork(trx: Transaction<Database>, actor: Actor, ch
     objectType: 'check',
     objectId: check.id,
     projectId: check.projectId,
-    newValue: { fromCheckId: earlier.id, fromVersion: earlier.version_number, fields, verificationMethod: earlier.verification_method, checkerNotes: earlier.checker_notes, alternateCells: cells, tolerance: earlier.tolerance_text },
+    newValue: {
+      fromCheckId: earlier.id,
+      fromVersion: earlier.version_number,
+      fields,
+      verificationMethod: earlier.verification_method,
+      checkerNotes: earlier.checker_notes,
+      alternateCells: cells,
+      tolerance: earlier.tolerance_text,
+    },
   });
   return carried;
 }

@@ -19,7 +19,10 @@ export interface ReturnedCheck {
  * when that one was returned and its version comes after the check's base (the last approved
  * version). Null for a check after an approval or a sheet's first check.
  */
-export async function returnedCheckBefore(db: Kysely<Database>, check: { id: string; sheet_id: string; base_version_number: number | null }): Promise<ReturnedCheck | null> {
+export async function returnedCheckBefore(
+  db: Kysely<Database>,
+  check: { id: string; sheet_id: string; base_version_number: number | null },
+): Promise<ReturnedCheck | null> {
   const earlier = await db
     .selectFrom('checks as k')
     .leftJoin('users as u', 'u.id', 'k.decided_by')

@@ -16,7 +16,10 @@ export const SHEET_STATUS_LABELS: Record<SheetStatus, string> = {
  * An open check (in check, or checked and awaiting approval) decides; otherwise the newest check
  * decides when it is of the latest version (approved, or returned); anything saved since is a draft.
  */
-export function statusOf(newest: { state: CheckState; versionNumber: number } | undefined, latestVersion: number): SheetStatus {
+export function statusOf(
+  newest: { state: CheckState; versionNumber: number } | undefined,
+  latestVersion: number,
+): SheetStatus {
   if (!newest) return 'draft';
   if (newest.state === 'in_check' || newest.state === 'checked') return newest.state;
   if (newest.versionNumber !== latestVersion) return 'draft';
@@ -24,14 +27,21 @@ export function statusOf(newest: { state: CheckState; versionNumber: number } | 
 }
 
 /** The status of each sheet, by id. */
-export async function sheetStatuses(db: Kysely<Database>, sheets: ReadonlyArray<{ id: string; latestVersion: number | null }>): Promise<Map<string, SheetStatus>> {
+export async function sheetStatuses(
+  db: Kysely<Database>,
+  sheets: ReadonlyArray<{ id: string; latestVersion: number | null }>,
+): Promise<Map<string, SheetStatus>> {
   const out = new Map<string, SheetStatus>();
   if (sheets.length === 0) return out;
   const rows = await db
     .selectFrom('checks')
     .select(['sheet_id', 'state', 'version_number'])
     .distinctOn('sheet_id')
-    .where('sheet_id', 'in', sheets.map((s) => s.id))
+    .where(
+      'sheet_id',
+      'in',
+      sheets.map((s) => s.id),
+    )
     .orderBy('sheet_id')
     .orderBy('created_at', 'desc')
     .execute();

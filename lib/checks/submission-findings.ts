@@ -66,16 +66,42 @@ const NUMBER_PART = /^\s*([+-]?)(\d+(?:\.(\d*))?|\.(\d+))(?:e([+-]?\d+))?/i;
  * the record's value counts as written to its last digit: the cell's value, in the record's unit,
  * must lie within half a unit of that last digit (150 MeV matches 150.04 MeV, not 150.7 MeV).
  */
-export function checkDesignInput(recordValue: string, cell: string, engine: DisplayValue | null | undefined): DesignInputCheck {
+export function checkDesignInput(
+  recordValue: string,
+  cell: string,
+  engine: DisplayValue | null | undefined,
+): DesignInputCheck {
   const base = { recordValue, cell };
-  if (engine === undefined) return { ...base, engineValue: null, status: 'missing-cell', words: `the sheet defines no quantity named ${cell}` };
-  if (engine === null) return { ...base, engineValue: null, status: 'missing-cell', words: `the statement defining ${cell} has an error, so no value was used` };
+  if (engine === undefined)
+    return { ...base, engineValue: null, status: 'missing-cell', words: `the sheet defines no quantity named ${cell}` };
+  if (engine === null)
+    return {
+      ...base,
+      engineValue: null,
+      status: 'missing-cell',
+      words: `the statement defining ${cell} has an error, so no value was used`,
+    };
   const engineText = engine.text;
-  if ((engine.kind !== 'quantity' && engine.kind !== 'number') || engine.number === null || !Number.isFinite(engine.number)) {
-    return { ...base, engineValue: engineText, status: 'unreadable', words: `${cell} is not a finite number or quantity (${engineText})` };
+  if (
+    (engine.kind !== 'quantity' && engine.kind !== 'number') ||
+    engine.number === null ||
+    !Number.isFinite(engine.number)
+  ) {
+    return {
+      ...base,
+      engineValue: engineText,
+      status: 'unreadable',
+      words: `${cell} is not a finite number or quantity (${engineText})`,
+    };
   }
   const m = NUMBER_PART.exec(recordValue.replace(/[\u00a0\u2009\u202f]/g, ' ').replace(/\u2212/g, '-'));
-  if (!m) return { ...base, engineValue: engineText, status: 'unreadable', words: `the record's value "${recordValue}" does not start with a number` };
+  if (!m)
+    return {
+      ...base,
+      engineValue: engineText,
+      status: 'unreadable',
+      words: `the record's value "${recordValue}" does not start with a number`,
+    };
   const decimals = (m[3] ?? m[4] ?? '').length;
   const exponent = m[5] ? Number(m[5]) : 0;
   const unitText = recordValue.slice(m[0].length).trim();
@@ -85,18 +111,34 @@ export function checkDesignInput(recordValue: string, cell: string, engine: Disp
     written = Number(`${m[1]}${m[2]}${m[5] ? `e${m[5]}` : ''}`);
     if (unitText) record = math().unit(written, unitText) as Unit;
   } catch {
-    return { ...base, engineValue: engineText, status: 'unreadable', words: `the unit "${unitText}" of the record's value is not read` };
+    return {
+      ...base,
+      engineValue: engineText,
+      status: 'unreadable',
+      words: `the unit "${unitText}" of the record's value is not read`,
+    };
   }
   let cellUnit: Unit | null = null;
   try {
     if (engine.unit) cellUnit = math().unit(engine.number, engine.unit) as Unit;
   } catch {
-    return { ...base, engineValue: engineText, status: 'unreadable', words: `the unit ${engine.unit} of ${cell} is not read` };
+    return {
+      ...base,
+      engineValue: engineText,
+      status: 'unreadable',
+      words: `the unit ${engine.unit} of ${cell} is not read`,
+    };
   }
-  const dimless = (u: Unit | null) => u === null || (u as unknown as { dimensions: number[] }).dimensions.every((d) => d === 0);
+  const dimless = (u: Unit | null) =>
+    u === null || (u as unknown as { dimensions: number[] }).dimensions.every((d) => d === 0);
   const same = record && cellUnit ? record.equalBase(cellUnit) : dimless(record) && dimless(cellUnit);
   if (!same) {
-    return { ...base, engineValue: engineText, status: 'mismatch', words: `units differ: the record gives ${unitText || 'a plain number'}, ${cell} is in ${unitLabel(engine.unit) || 'no unit'}` };
+    return {
+      ...base,
+      engineValue: engineText,
+      status: 'mismatch',
+      words: `units differ: the record gives ${unitText || 'a plain number'}, ${cell} is in ${unitLabel(engine.unit) || 'no unit'}`,
+    };
   }
   // The cell's value expressed in the record's unit.
   const cellSi = cellUnit ? (cellUnit.value as number) : engine.number;
@@ -118,7 +160,10 @@ export function checkDesignInput(recordValue: string, cell: string, engine: Disp
 }
 
 /** Each design input that names a cell quantity, checked against the results. */
-export function checkDesignInputs(record: CalculationRecord, results: SheetResult | null | undefined): Array<DesignInputCheck & { index: number; name: string }> {
+export function checkDesignInputs(
+  record: CalculationRecord,
+  results: SheetResult | null | undefined,
+): Array<DesignInputCheck & { index: number; name: string }> {
   const values = definedValues(results);
   const out: Array<DesignInputCheck & { index: number; name: string }> = [];
   record.inputs.forEach((input, index) => {
@@ -132,10 +177,18 @@ export function checkDesignInputs(record: CalculationRecord, results: SheetResul
 // ── Everything to acknowledge ───────────────────────────────────────────────────────────────────
 
 /** Every item the originator must acknowledge in writing before submitting the version. */
-export function submissionFindings(content: VersionContent, results: SheetResult | null | undefined): SubmissionFinding[] {
+export function submissionFindings(
+  content: VersionContent,
+  results: SheetResult | null | undefined,
+): SubmissionFinding[] {
   const out: SubmissionFinding[] = [];
   if (!results) {
-    out.push({ key: 'results:none', kind: 'cell-error', cellId: null, message: 'The version has no stored evaluation.' });
+    out.push({
+      key: 'results:none',
+      kind: 'cell-error',
+      cellId: null,
+      message: 'The version has no stored evaluation.',
+    });
     return out;
   }
   const labelOf = (cellId: string) => {
@@ -146,18 +199,42 @@ export function submissionFindings(content: VersionContent, results: SheetResult
     if (cell.kind !== 'calc') continue;
     const where = labelOf(cell.id);
     const erred = cell.statements.filter((s) => s.error);
-    if (erred.length === 0 && cell.error) out.push({ key: `error:${cell.id}`, kind: 'cell-error', cellId: cell.id, message: `${where}: ${cell.error}` });
-    for (const s of erred) out.push({ key: `error:${cell.id}:${s.line}`, kind: 'cell-error', cellId: cell.id, message: `${where}, line ${s.line} (${s.source.trim()}): ${s.error}` });
+    if (erred.length === 0 && cell.error)
+      out.push({ key: `error:${cell.id}`, kind: 'cell-error', cellId: cell.id, message: `${where}: ${cell.error}` });
+    for (const s of erred)
+      out.push({
+        key: `error:${cell.id}:${s.line}`,
+        kind: 'cell-error',
+        cellId: cell.id,
+        message: `${where}, line ${s.line} (${s.source.trim()}): ${s.error}`,
+      });
     for (const s of cell.statements) {
       if (s.kind === 'criterion' && !s.error && s.criterion && !s.criterion.pass) {
-        out.push({ key: `criterion:${cell.id}:${s.line}`, kind: 'criterion-failed', cellId: cell.id, message: `${where}, line ${s.line}: the criterion ${s.source.trim()} fails (${s.criterion.marginText})` });
+        out.push({
+          key: `criterion:${cell.id}:${s.line}`,
+          kind: 'criterion-failed',
+          cellId: cell.id,
+          message: `${where}, line ${s.line}: the criterion ${s.source.trim()} fails (${s.criterion.marginText})`,
+        });
       }
-      (s.warnings ?? []).forEach((w, i) => out.push({ key: `warning:${cell.id}:${s.line}:${i}`, kind: 'lint-warning', cellId: cell.id, message: `${where}, line ${s.line}: ${w}` }));
+      (s.warnings ?? []).forEach((w, i) =>
+        out.push({
+          key: `warning:${cell.id}:${s.line}:${i}`,
+          kind: 'lint-warning',
+          cellId: cell.id,
+          message: `${where}, line ${s.line}: ${w}`,
+        }),
+      );
     }
   }
   for (const d of checkDesignInputs(content.record, results)) {
     if (d.status === 'match') continue;
-    out.push({ key: `input:${d.index}`, kind: 'design-input', cellId: null, message: `Design input "${d.name}" (${d.cell} = ${d.recordValue}): ${d.words}` });
+    out.push({
+      key: `input:${d.index}`,
+      kind: 'design-input',
+      cellId: null,
+      message: `Design input "${d.name}" (${d.cell} = ${d.recordValue}): ${d.words}`,
+    });
   }
   return out;
 }
@@ -168,8 +245,14 @@ export interface Acknowledgement {
 }
 
 /** The findings not acknowledged with some written text, and acknowledgements of nothing found. */
-export function unacknowledged(findings: readonly SubmissionFinding[], acks: readonly Acknowledgement[]): { missing: SubmissionFinding[]; unknown: string[] } {
+export function unacknowledged(
+  findings: readonly SubmissionFinding[],
+  acks: readonly Acknowledgement[],
+): { missing: SubmissionFinding[]; unknown: string[] } {
   const given = new Map(acks.filter((a) => a.text.trim().length > 0).map((a) => [a.key, a.text.trim()]));
   const keys = new Set(findings.map((f) => f.key));
-  return { missing: findings.filter((f) => !given.has(f.key)), unknown: acks.map((a) => a.key).filter((k) => !keys.has(k)) };
+  return {
+    missing: findings.filter((f) => !given.has(f.key)),
+    unknown: acks.map((a) => a.key).filter((k) => !keys.has(k)),
+  };
 }

@@ -1,7 +1,16 @@
 // One error type for the whole app: a code that maps to an HTTP status and a message safe to show.
 import { z } from 'zod';
 
-export type AppErrorCode = 'bad_request' | 'unauthenticated' | 'forbidden' | 'not_found' | 'conflict' | 'too_large' | 'unsupported_type' | 'too_many_requests' | 'unavailable';
+export type AppErrorCode =
+  | 'bad_request'
+  | 'unauthenticated'
+  | 'forbidden'
+  | 'not_found'
+  | 'conflict'
+  | 'too_large'
+  | 'unsupported_type'
+  | 'too_many_requests'
+  | 'unavailable';
 
 const STATUS: Record<AppErrorCode, number> = {
   bad_request: 400,
@@ -20,7 +29,12 @@ export const errorBodySchema = z.object({
   error: z.object({
     code: z.enum([...(Object.keys(STATUS) as AppErrorCode[]), 'internal']),
     message: z.string().meta({ description: 'Safe to show to the person using the app.' }),
-    details: z.unknown().optional().meta({ description: 'For 400 the first validation issues, for 409 what the request conflicts with; otherwise null.' }),
+    details: z
+      .unknown()
+      .optional()
+      .meta({
+        description: 'For 400 the first validation issues, for 409 what the request conflicts with; otherwise null.',
+      }),
   }),
 });
 export type ErrorBody = z.infer<typeof errorBodySchema>;
@@ -47,7 +61,10 @@ export class AppError extends Error {
 // node-postgres (which reports a closed connection with these messages and no code).
 const CONNECTION_SQLSTATES = new Set(['57P01', '57P02', '57P03', '08006', '08001', '08003', '08004']);
 const CONNECTION_ERRNOS = new Set(['ECONNREFUSED', 'ECONNRESET']);
-const CONNECTION_MESSAGES = [/^Connection terminated/, /^Client has encountered a connection error and is not queryable/];
+const CONNECTION_MESSAGES = [
+  /^Connection terminated/,
+  /^Client has encountered a connection error and is not queryable/,
+];
 
 /** Whether `error` (or its cause, or one of an AggregateError's errors) says the database connection is lost. */
 export function isDatabaseConnectionError(error: unknown, depth = 0): boolean {
@@ -117,22 +134,44 @@ export function isRecordRuleError(error: unknown): boolean {
 export function errorResponse(error: unknown): Response {
   if (!(error instanceof AppError) && isDatabaseConnectionError(error)) {
     console.error('database unavailable:', error instanceof Error ? error.message : error);
-    error = new AppError('unavailable', 'The database is unavailable just now; nothing was saved. Try again in a minute.');
+    error = new AppError(
+      'unavailable',
+      'The database is unavailable just now; nothing was saved. Try again in a minute.',
+    );
   }
   if (!(error instanceof AppError) && isUnstorableTextError(error)) {
-    error = new AppError('bad_request', 'The text holds the NUL character (U+0000), which cannot be stored; remove it and try again.');
+    error = new AppError(
+      'bad_request',
+      'The text holds the NUL character (U+0000), which cannot be stored; remove it and try again.',
+    );
   }
   if (!(error instanceof AppError) && isMalformedValueError(error)) {
-    error = new AppError('bad_request', 'A value in the request is not of the expected form or is out of range (an id that is not a UUID, a number beyond 2147483647).');
+    error = new AppError(
+      'bad_request',
+      'A value in the request is not of the expected form or is out of range (an id that is not a UUID, a number beyond 2147483647).',
+    );
   }
   if (!(error instanceof AppError) && isRecordRuleError(error)) {
     const message = (error as Error).message.slice(0, 300);
-    error = new AppError('conflict', `The record refuses this change (${message}); nothing was saved. Reload the page to see the record as it stands now.`, { rule: (error as { code: string }).code });
+    error = new AppError(
+      'conflict',
+      `The record refuses this change (${message}); nothing was saved. Reload the page to see the record as it stands now.`,
+      { rule: (error as { code: string }).code },
+    );
   }
   if (error instanceof AppError) {
-    const headers = error.retryAfterSeconds === undefined ? undefined : { 'retry-after': String(Math.max(1, Math.ceil(error.retryAfterSeconds))) };
-    return Response.json({ error: { code: error.code, message: error.message, details: error.details ?? null } } satisfies ErrorBody, { status: error.status, headers });
+    const headers =
+      error.retryAfterSeconds === undefined
+        ? undefined
+        : { 'retry-after': String(Math.max(1, Math.ceil(error.retryAfterSeconds))) };
+    return Response.json(
+      { error: { code: error.code, message: error.message, details: error.details ?? null } } satisfies ErrorBody,
+      { status: error.status, headers },
+    );
   }
   console.error(error);
-  return Response.json({ error: { code: 'internal', message: 'Something went wrong on the server.' } } satisfies ErrorBody, { status: 500 });
+  return Response.json(
+    { error: { code: 'internal', message: 'Something went wrong on the server.' } } satisfies ErrorBody,
+    { status: 500 },
+  );
 }

@@ -15,7 +15,11 @@ export async function checkHealth(db: Kysely<Database>, version: string): Promis
     const latencyMs = Math.round((performance.now() - started) * 10) / 10;
     return { status: 'ok', version, database: { status: 'up', latencyMs, migration: row.rows[0]?.name ?? null } };
   } catch {
-    return { status: 'unavailable', version, database: { status: 'down', latencyMs: null, migration: null, error: 'database unreachable' } };
+    return {
+      status: 'unavailable',
+      version,
+      database: { status: 'down', latencyMs: null, migration: null, error: 'database unreachable' },
+    };
   }
 }
 

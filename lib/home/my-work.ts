@@ -29,7 +29,11 @@ export interface MyWork {
 }
 
 export async function myWork(db: Kysely<Database>, actor: Actor): Promise<MyWork> {
-  const roles = new Set((await db.selectFrom('project_members').select('role').where('user_id', '=', actor.userId).execute()).map((r) => r.role));
+  const roles = new Set(
+    (await db.selectFrom('project_members').select('role').where('user_id', '=', actor.userId).execute()).map(
+      (r) => r.role,
+    ),
+  );
   const [own, toCheck, toApprove, toIssue] = await Promise.all([
     roles.has('originator') ? ownSheets(db, actor) : null,
     roles.has('checker') ? listQueue(db, actor, 'check') : null,
@@ -41,7 +45,12 @@ export async function myWork(db: Kysely<Database>, actor: Actor): Promise<MyWork
 
 /** The number in the navigation: everything waiting on this person. */
 export function workCount(work: MyWork): number {
-  return (work.returned?.length ?? 0) + (work.toCheck?.length ?? 0) + (work.toApprove?.filter((c) => c.eligible).length ?? 0) + (work.toIssue?.length ?? 0);
+  return (
+    (work.returned?.length ?? 0) +
+    (work.toCheck?.length ?? 0) +
+    (work.toApprove?.filter((c) => c.eligible).length ?? 0) +
+    (work.toIssue?.length ?? 0)
+  );
 }
 
 /** What the navigation shows beside its links: all of it on "My work", and each queue on its own link. */
@@ -65,8 +74,18 @@ async function ownSheets(db: Kysely<Database>, actor: Actor) {
   const rows = await db
     .selectFrom('sheets as s')
     .innerJoin('projects as p', 'p.id', 's.project_id')
-    .innerJoin('project_members as m', (j) => j.onRef('m.project_id', '=', 's.project_id').on('m.user_id', '=', actor.userId).on('m.role', '=', 'originator'))
-    .innerJoin((eb) => eb.selectFrom('versions').select(['sheet_id', sql<number>`max(number)`.as('latest')]).groupBy('sheet_id').as('v'), (j) => j.onRef('v.sheet_id', '=', 's.id'))
+    .innerJoin('project_members as m', (j) =>
+      j.onRef('m.project_id', '=', 's.project_id').on('m.user_id', '=', actor.userId).on('m.role', '=', 'originator'),
+    )
+    .innerJoin(
+      (eb) =>
+        eb
+          .selectFrom('versions')
+          .select(['sheet_id', sql<number>`max(number)`.as('latest')])
+          .groupBy('sheet_id')
+          .as('v'),
+      (j) => j.onRef('v.sheet_id', '=', 's.id'),
+    )
     .select(['s.id', 's.number', 's.title', 'p.code', 'v.latest'])
     .where('s.created_by', '=', actor.userId)
     .where('s.voided_at', 'is', null)
@@ -75,8 +94,18 @@ async function ownSheets(db: Kysely<Database>, actor: Actor) {
     .orderBy('p.code')
     .orderBy('s.number')
     .execute();
-  const statuses = await sheetStatuses(db, rows.map((r) => ({ id: r.id, latestVersion: Number(r.latest) })));
-  const sheet = (r: (typeof rows)[number]): WorkSheet => ({ id: r.id, number: r.number, code: formatSheetNumber(r.code, r.number), title: r.title, projectCode: r.code, latestVersion: Number(r.latest) });
+  const statuses = await sheetStatuses(
+    db,
+    rows.map((r) => ({ id: r.id, latestVersion: Number(r.latest) })),
+  );
+  const sheet = (r: (typeof rows)[number]): WorkSheet => ({
+    id: r.id,
+    number: r.number,
+    code: formatSheetNumber(r.code, r.number),
+    title: r.title,
+    projectCode: r.code,
+    latestVersion: Number(r.latest),
+  });
   return {
     returned: rows.filter((r) => statuses.get(r.id) === 'returned').map(sheet),
     drafts: rows.filter((r) => statuses.get(r.id) === 'draft').map(sheet),
@@ -89,15 +118,55 @@ async function awaitingIssue(db: Kysely<Database>, actor: Actor) {
     .selectFrom('checks as c')
     .innerJoin('sheets as s', 's.id', 'c.sheet_id')
     .innerJoin('projects as p', 'p.id', 'c.project_id')
-    .innerJoin('project_members as m', (j) => j.onRef('m.project_id', '=', 'c.project_id').on('m.user_id', '=', actor.userId).on('m.role', '=', 'controller'))
-    .innerJoin((eb) => eb.selectFrom('versions').select(['sheet_id', sql<number>`max(number)`.as('latest')]).groupBy('sheet_id').as('v'), (j) => j.onRef('v.sheet_id', '=', 's.id'))
+    .innerJoin('project_members as m', (j) =>
+      j.onRef('m.project_id', '=', 'c.project_id').on('m.user_id', '=', actor.userId).on('m.role', '=', 'controller'),
+    )
+    .innerJoin(
+      (eb) =>
+        eb
+          .selectFrom('versions')
+          .select(['sheet_id', sql<number>`max(number)`.as('latest')])
+          .groupBy('sheet_id')
+          .as('v'),
+      (j) => j.onRef('v.sheet_id', '=', 's.id'),
+    )
     .select(['c.id', 'c.version_number', 's.id as sheet_id', 's.number', 's.title', 'p.code', 'v.latest'])
     .where('c.state', '=', 'approved')
     .where('s.voided_at', 'is', null)
-    .where((eb) => eb.not(eb.exists(eb.selectFrom('revisions as r').select('r.id').whereRef('r.sheet_id', '=', 'c.sheet_id').whereRef('r.version_number', '=', 'c.version_number'))))
+    .where((eb) =>
+      eb.not(
+        eb.exists(
+          eb
+            .selectFrom('revisions as r')
+            .select('r.id')
+            .whereRef('r.sheet_id', '=', 'c.sheet_id')
+            .whereRef('r.version_number', '=', 'c.version_number'),
+        ),
+      ),
+    )
     // Only the newest approved version of a sheet waits: an older approved version is not issued after a newer one.
-    .where((eb) => eb.not(eb.exists(eb.selectFrom('checks as n').select('n.id').whereRef('n.sheet_id', '=', 'c.sheet_id').where('n.state', '=', 'approved').whereRef('n.version_number', '>', 'c.version_number'))))
+    .where((eb) =>
+      eb.not(
+        eb.exists(
+          eb
+            .selectFrom('checks as n')
+            .select('n.id')
+            .whereRef('n.sheet_id', '=', 'c.sheet_id')
+            .where('n.state', '=', 'approved')
+            .whereRef('n.version_number', '>', 'c.version_number'),
+        ),
+      ),
+    )
     .orderBy('c.updated_at')
     .execute();
-  return rows.map((r) => ({ id: r.sheet_id, number: r.number, code: formatSheetNumber(r.code, r.number), title: r.title, projectCode: r.code, latestVersion: Number(r.latest), versionNumber: r.version_number, checkId: r.id }));
+  return rows.map((r) => ({
+    id: r.sheet_id,
+    number: r.number,
+    code: formatSheetNumber(r.code, r.number),
+    title: r.title,
+    projectCode: r.code,
+    latestVersion: Number(r.latest),
+    versionNumber: r.version_number,
+    checkId: r.id,
+  }));
 }

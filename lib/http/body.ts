@@ -9,7 +9,11 @@ export function tooLargeMessage(maxBytes: number): string {
 }
 
 /** The body's bytes, at most `maxBytes` of them; 413 (`tooLarge`) as soon as there are more. */
-export async function readBodyBytes(request: Request, maxBytes: number, tooLarge = tooLargeMessage(maxBytes)): Promise<Uint8Array<ArrayBuffer>> {
+export async function readBodyBytes(
+  request: Request,
+  maxBytes: number,
+  tooLarge = tooLargeMessage(maxBytes),
+): Promise<Uint8Array<ArrayBuffer>> {
   const declared = request.headers.get('content-length');
   if (declared !== null && Number(declared) > maxBytes) {
     await request.body?.cancel().catch(() => undefined);

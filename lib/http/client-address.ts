@@ -29,7 +29,10 @@ export function normaliseAddress(address: string): string {
 /** Parses "10.0.0.0/8, 192.0.2.7, fd00::/8" into a BlockList; throws on an entry that is not an address or range. */
 export function parseTrustedProxies(setting: string | undefined): BlockList {
   const list = new BlockList();
-  for (const raw of (setting ?? '').split(',').map((s) => s.trim()).filter(Boolean)) {
+  for (const raw of (setting ?? '')
+    .split(',')
+    .map((s) => s.trim())
+    .filter(Boolean)) {
     const [addr, bits] = raw.split('/');
     const address = normaliseAddress(addr);
     const family = isIP(address);

@@ -20,7 +20,11 @@ export const CSP_REPORT_TYPES = ['application/csp-report', 'application/reports+
 
 /** The two forms a body may take (parseCspReports checks it, then reads the fields leniently, as browsers vary). */
 export const cspReportBodySchema = z.union([
-  z.object({ 'csp-report': z.record(z.string(), z.unknown()).meta({ description: 'document-uri, blocked-uri, effective-directive, disposition, …' }) }),
+  z.object({
+    'csp-report': z
+      .record(z.string(), z.unknown())
+      .meta({ description: 'document-uri, blocked-uri, effective-directive, disposition, …' }),
+  }),
   z
     .array(z.object({ type: z.string(), url: z.string().optional(), body: z.record(z.string(), z.unknown()) }))
     .meta({ description: 'A Reporting API batch (application/reports+json); only `csp-violation` reports are kept.' }),
@@ -95,22 +99,33 @@ export function parseCspReports(body: unknown): CspViolation[] {
   return violations;
 }
 
-export type RecordOutcome = { stored: number; limited: false } | { stored: number; limited: true; retryAfterSeconds: number };
+export type RecordOutcome =
+  { stored: number; limited: false } | { stored: number; limited: true; retryAfterSeconds: number };
 
 /**
  * Stores the violations from `ip` within the caps; when a cap is reached the rest are dropped and the
  * outcome says so. One transaction under an advisory lock, so concurrent posts cannot pass a cap.
  */
-export async function recordCspReports(db: Kysely<Database>, { ip, violations }: { ip: string; violations: CspViolation[] }): Promise<RecordOutcome> {
+export async function recordCspReports(
+  db: Kysely<Database>,
+  { ip, violations }: { ip: string; violations: CspViolation[] },
+): Promise<RecordOutcome> {
   const L = CSP_REPORT_LIMITS;
   return db.transaction().execute(async (trx) => {
     await sql`select pg_advisory_xact_lock(hashtext('csp_reports'))`.execute(trx);
-    await trx.deleteFrom('csp_reports').where('received_at', '<', sql<Date>`now() - make_interval(days => ${L.keepDays})`).execute();
+    await trx
+      .deleteFrom('csp_reports')
+      .where('received_at', '<', sql<Date>`now() - make_interval(days => ${L.keepDays})`)
+      .execute();
     const counts = await trx
       .selectFrom('csp_reports')
       .select([
-        sql<string>`count(*) filter (where ip = ${ip} and received_at > now() - make_interval(mins => ${L.perAddress.minutes}))`.as('address'),
-        sql<string>`count(*) filter (where received_at > now() - make_interval(hours => ${L.overall.hours}))`.as('overall'),
+        sql<string>`count(*) filter (where ip = ${ip} and received_at > now() - make_interval(mins => ${L.perAddress.minutes}))`.as(
+          'address',
+        ),
+        sql<string>`count(*) filter (where received_at > now() - make_interval(hours => ${L.overall.hours}))`.as(
+          'overall',
+        ),
       ])
       .executeTakeFirstOrThrow();
     const addressRoom = L.perAddress.count - Number(counts.address);
@@ -133,6 +148,10 @@ export async function recordCspReports(db: Kysely<Database>, { ip, violations }:
         .execute();
     }
     if (kept.length === violations.length) return { stored: kept.length, limited: false };
-    return { stored: kept.length, limited: true, retryAfterSeconds: addressRoom <= overallRoom ? L.perAddress.minutes * 60 : 3600 };
+    return {
+      stored: kept.length,
+      limited: true,
+      retryAfterSeconds: addressRoom <= overallRoom ? L.perAddress.minutes * 60 : 3600,
+    };
   });
 }

@@ -12,7 +12,12 @@ export interface FormFile {
   bytes: Uint8Array;
 }
 
-export async function readFormFile(request: Request, field: string, maxFileBytes: number, tooLarge: string): Promise<FormFile> {
+export async function readFormFile(
+  request: Request,
+  field: string,
+  maxFileBytes: number,
+  tooLarge: string,
+): Promise<FormFile> {
   const contentType = request.headers.get('content-type') ?? '';
   if (!/^multipart\/form-data;/i.test(contentType)) {
     throw new AppError('bad_request', `Send the file as multipart/form-data in a field named "${field}".`);
@@ -25,6 +30,7 @@ export async function readFormFile(request: Request, field: string, maxFileBytes
     throw new AppError('bad_request', 'The upload could not be read as multipart/form-data.');
   }
   const file = form.get(field);
-  if (!file || typeof file === 'string') throw new AppError('bad_request', `Send the file in a field named "${field}".`);
+  if (!file || typeof file === 'string')
+    throw new AppError('bad_request', `Send the file in a field named "${field}".`);
   return { name: file.name, type: file.type, bytes: new Uint8Array(await file.arrayBuffer()) };
 }

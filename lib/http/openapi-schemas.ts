@@ -11,7 +11,10 @@ import { PROJECT_ROLES } from '@/lib/projects/projects';
 
 const uuid = z.uuid();
 const timestamp = z.iso.datetime({ offset: true }).meta({ description: 'ISO 8601 date and time (UTC).' });
-const sha256 = z.string().regex(/^[0-9a-f]{64}$/).meta({ description: 'SHA-256, lowercase hexadecimal.' });
+const sha256 = z
+  .string()
+  .regex(/^[0-9a-f]{64}$/)
+  .meta({ description: 'SHA-256, lowercase hexadecimal.' });
 const role = z.enum(PROJECT_ROLES);
 
 export const okSchema = z.object({ ok: z.literal(true) });
@@ -33,7 +36,9 @@ export const apiTokenListSchema = z.object({
       id: uuid,
       name: z.string(),
       prefix: z.string(),
-      scope: z.enum(['read', 'read-write']).meta({ description: '`read`: GET and HEAD requests only; `read-write`: also changes.' }),
+      scope: z
+        .enum(['read', 'read-write'])
+        .meta({ description: '`read`: GET and HEAD requests only; `read-write`: also changes.' }),
       created_at: timestamp,
       expires_at: timestamp.meta({ description: 'The token stops working at this time.' }),
       expired: z.boolean(),
@@ -45,7 +50,11 @@ export const apiTokenListSchema = z.object({
 
 export const apiTokenCreatedSchema = z.object({
   id: uuid,
-  token: z.string().meta({ description: 'The secret (`wst_…`), shown in this response only; send it as `Authorization: Bearer <token>`.' }),
+  token: z
+    .string()
+    .meta({
+      description: 'The secret (`wst_…`), shown in this response only; send it as `Authorization: Bearer <token>`.',
+    }),
   prefix: z.string(),
   scope: z.enum(['read', 'read-write']),
   expires_at: timestamp.meta({ description: 'When the token stops working.' }),
@@ -62,26 +71,55 @@ export const userListSchema = z.object({
       isAdmin: z.boolean(),
       disabledAt: timestamp.nullable(),
       lockedAt: timestamp.nullable().meta({ description: 'When the lock in force began; null when not locked now.' }),
-      lockedUntil: timestamp.nullable().meta({ description: 'When a timed lock (after failed passwords) ends; null with lockedAt set: until an administrator unlocks.' }),
+      lockedUntil: timestamp
+        .nullable()
+        .meta({
+          description:
+            'When a timed lock (after failed passwords) ends; null with lockedAt set: until an administrator unlocks.',
+        }),
       createdAt: timestamp,
       hasPassword: z.boolean(),
     }),
   ),
 });
 
-const projectFields = { id: uuid, code: z.string(), name: z.string(), legal_owner: z.string(), revision_scheme: z.enum(['letters', 'numbers']) };
+const projectFields = {
+  id: uuid,
+  code: z.string(),
+  name: z.string(),
+  legal_owner: z.string(),
+  revision_scheme: z.enum(['letters', 'numbers']),
+};
 
 export const projectListSchema = z.object({
-  projects: z.array(z.object({ ...projectFields, created_at: timestamp, roles: z.array(role).meta({ description: 'Roles the caller holds (administrators may hold none).' }) })),
+  projects: z.array(
+    z.object({
+      ...projectFields,
+      created_at: timestamp,
+      roles: z.array(role).meta({ description: 'Roles the caller holds (administrators may hold none).' }),
+    }),
+  ),
 });
 
 export const projectCreatedSchema = z.object({ id: uuid, code: z.string() });
 
 export const memberListSchema = z.object({
-  members: z.array(z.object({ userId: uuid, email: z.string(), name: z.string(), disabledAt: timestamp.nullable(), roles: z.array(role) })),
+  members: z.array(
+    z.object({
+      userId: uuid,
+      email: z.string(),
+      name: z.string(),
+      disabledAt: timestamp.nullable(),
+      roles: z.array(role),
+    }),
+  ),
 });
 
-export const projectSchema = z.object({ project: z.object(projectFields), roles: z.array(role), members: memberListSchema.shape.members });
+export const projectSchema = z.object({
+  project: z.object(projectFields),
+  roles: z.array(role),
+  members: memberListSchema.shape.members,
+});
 
 export const auditEventListSchema = z.object({
   events: z.array(
@@ -124,11 +162,16 @@ export const sheetRegisterSchema = z.object({
 export const sheetCreatedSchema = z.object({ id: uuid, number: z.number().int(), code: z.string() });
 
 export const sheetImportedSchema = sheetCreatedSchema.extend({
-  version: z.number().int().meta({ description: 'The version holding the imported file (2: version 1 is the sheet as created).' }),
+  version: z
+    .number()
+    .int()
+    .meta({ description: 'The version holding the imported file (2: version 1 is the sheet as created).' }),
   sha256,
   attachments: z.object({
     carried: z.array(z.string()).meta({ description: 'Attachments imported from the file, their SHA-256 verified.' }),
-    notCarried: z.array(z.string()).meta({ description: 'Attachments the file lists without their bytes: not imported; upload them again.' }),
+    notCarried: z
+      .array(z.string())
+      .meta({ description: 'Attachments the file lists without their bytes: not imported; upload them again.' }),
   }),
 });
 
@@ -136,11 +179,21 @@ export const sheetImportedSchema = sheetCreatedSchema.extend({
 export const sheetResultSchema = z
   .looseObject({
     ok: z.boolean(),
-    cells: z.array(z.looseObject({ id: z.string(), ok: z.boolean(), error: z.string().nullable(), statements: z.array(z.looseObject({})) })),
+    cells: z.array(
+      z.looseObject({
+        id: z.string(),
+        ok: z.boolean(),
+        error: z.string().nullable(),
+        statements: z.array(z.looseObject({})),
+      }),
+    ),
     engineVersion: z.string(),
     constantsEdition: z.string(),
   })
-  .meta({ description: 'Per-cell, per-statement results: values with units, TeX, criteria and errors (SheetResult in lib/calc/types.ts).' });
+  .meta({
+    description:
+      'Per-cell, per-statement results: values with units, TeX, criteria and errors (SheetResult in lib/calc/types.ts).',
+  });
 
 const versionSummaryFields = {
   number: z.number().int(),
@@ -155,20 +208,40 @@ const versionSummaryFields = {
 
 export const versionListSchema = z.object({ versions: z.array(z.object(versionSummaryFields)) });
 
-export const versionSchema = z.object({ ...versionSummaryFields, content: versionContentSchema, results: sheetResultSchema.nullable() });
+export const versionSchema = z.object({
+  ...versionSummaryFields,
+  content: versionContentSchema,
+  results: sheetResultSchema.nullable(),
+});
 
 export const sheetWithVersionSchema = z.object({
   sheet: z.object({
-    id: uuid, project_id: uuid, number: z.number().int(), code: z.string(), title: z.string(), safety_related: z.boolean(), created_by: uuid, created_at: timestamp,
+    id: uuid,
+    project_id: uuid,
+    number: z.number().int(),
+    code: z.string(),
+    title: z.string(),
+    safety_related: z.boolean(),
+    created_by: uuid,
+    created_at: timestamp,
     voided_at: timestamp.nullable().meta({ description: 'When the sheet was voided; null for a sheet in use.' }),
     void_reason: z.string().nullable(),
   }),
   version: versionSchema,
 });
 
-export const sheetVoidedSchema = z.object({ sheetId: uuid, status: z.literal('void'), voidedAt: timestamp, reason: z.string() });
+export const sheetVoidedSchema = z.object({
+  sheetId: uuid,
+  status: z.literal('void'),
+  voidedAt: timestamp,
+  reason: z.string(),
+});
 
-export const versionSavedSchema = z.object({ number: z.number().int(), sha256, ok: z.boolean().meta({ description: 'Whether every cell evaluated without error.' }) });
+export const versionSavedSchema = z.object({
+  number: z.number().int(),
+  sha256,
+  ok: z.boolean().meta({ description: 'Whether every cell evaluated without error.' }),
+});
 
 export const comparisonSchema = z.object({
   base: z.object({ number: z.number().int(), sha256 }).nullable(),
@@ -176,34 +249,87 @@ export const comparisonSchema = z.object({
   comparison: z
     .looseObject({
       firstCheck: z.boolean(),
-      cells: z.array(z.looseObject({ id: z.string(), status: z.enum(['added', 'removed', 'changed', 'moved', 'unchanged']) })),
-      results: z.array(z.looseObject({ key: z.string(), status: z.enum(['added', 'removed', 'changed', 'unchanged']) })),
+      cells: z.array(
+        z.looseObject({ id: z.string(), status: z.enum(['added', 'removed', 'changed', 'moved', 'unchanged']) }),
+      ),
+      results: z.array(
+        z.looseObject({ key: z.string(), status: z.enum(['added', 'removed', 'changed', 'unchanged']) }),
+      ),
       record: z
         .looseObject({
           fields: z
-            .array(z.looseObject({ field: z.enum(['title', 'safetyRelated', 'significantFigures', 'displayUnits', 'objective', 'method', 'conclusions']), old: z.unknown(), new: z.unknown() }))
-            .meta({ description: 'Record fields that differ, including the safety flag and the significant figures; text fields with a word diff.' }),
-          inputs: z.array(z.looseObject({ key: z.string(), status: z.enum(['added', 'removed', 'changed']), changedFields: z.array(z.enum(['value', 'source', 'sourceRevision'])) })).meta({ description: 'Design inputs matched by name, with their source revisions.' }),
-          assumptions: z.array(z.looseObject({ key: z.string(), status: z.enum(['added', 'removed', 'changed']) })).meta({ description: 'Assumptions matched by text; `changed` when the verification mark differs.' }),
+            .array(
+              z.looseObject({
+                field: z.enum([
+                  'title',
+                  'safetyRelated',
+                  'significantFigures',
+                  'displayUnits',
+                  'objective',
+                  'method',
+                  'conclusions',
+                ]),
+                old: z.unknown(),
+                new: z.unknown(),
+              }),
+            )
+            .meta({
+              description:
+                'Record fields that differ, including the safety flag and the significant figures; text fields with a word diff.',
+            }),
+          inputs: z
+            .array(
+              z.looseObject({
+                key: z.string(),
+                status: z.enum(['added', 'removed', 'changed']),
+                changedFields: z.array(z.enum(['value', 'source', 'sourceRevision'])),
+              }),
+            )
+            .meta({ description: 'Design inputs matched by name, with their source revisions.' }),
+          assumptions: z
+            .array(z.looseObject({ key: z.string(), status: z.enum(['added', 'removed', 'changed']) }))
+            .meta({ description: 'Assumptions matched by text; `changed` when the verification mark differs.' }),
           references: z.array(z.looseObject({ key: z.string(), status: z.enum(['added', 'removed', 'changed']) })),
           attachments: z
             .array(
               z.looseObject({
                 key: z.string(),
-                status: z.enum(['added', 'removed', 'changed']).meta({ description: '`changed`: the same name with other bytes (replaced).' }),
+                status: z
+                  .enum(['added', 'removed', 'changed'])
+                  .meta({ description: '`changed`: the same name with other bytes (replaced).' }),
                 old: z.looseObject({ name: z.string(), size: z.number().int(), sha256 }).nullable(),
                 new: z.looseObject({ name: z.string(), size: z.number().int(), sha256 }).nullable(),
                 table: z
                   .looseObject({
                     oldRows: z.number().int().nullable(),
                     newRows: z.number().int().nullable(),
-                    columns: z.array(z.object({ name: z.string(), status: z.enum(['added', 'removed', 'unitChanged', 'unchanged']), oldUnit: z.string().nullable(), newUnit: z.string().nullable() })),
-                    rows: z.array(z.looseObject({ status: z.enum(['added', 'removed', 'changed']), oldRow: z.number().int().nullable(), newRow: z.number().int().nullable() })),
-                    rowCounts: z.object({ added: z.number().int(), removed: z.number().int(), changed: z.number().int() }),
+                    columns: z.array(
+                      z.object({
+                        name: z.string(),
+                        status: z.enum(['added', 'removed', 'unitChanged', 'unchanged']),
+                        oldUnit: z.string().nullable(),
+                        newUnit: z.string().nullable(),
+                      }),
+                    ),
+                    rows: z.array(
+                      z.looseObject({
+                        status: z.enum(['added', 'removed', 'changed']),
+                        oldRow: z.number().int().nullable(),
+                        newRow: z.number().int().nullable(),
+                      }),
+                    ),
+                    rowCounts: z.object({
+                      added: z.number().int(),
+                      removed: z.number().int(),
+                      changed: z.number().int(),
+                    }),
                     truncated: z.boolean(),
                   })
                   .nullable()
-                  .meta({ description: 'For a CSV data table on either side: the row/column diff (at most 200 row changes listed, all counted).' }),
+                  .meta({
+                    description:
+                      'For a CSV data table on either side: the row/column diff (at most 200 row changes listed, all counted).',
+                  }),
               }),
             )
             .meta({ description: 'Attachments matched by name: added, removed, replaced (name, size, SHA-256).' }),
@@ -211,14 +337,19 @@ export const comparisonSchema = z.object({
         .meta({ description: 'The calculation record and the attachments.' }),
       summary: z.looseObject({}),
     })
-    .meta({ description: 'Cells matched by id with word diffs, results by name, criteria, the calculation record and the attachments (VersionComparison in lib/sheets/compare.ts).' }),
+    .meta({
+      description:
+        'Cells matched by id with word diffs, results by name, criteria, the calculation record and the attachments (VersionComparison in lib/sheets/compare.ts).',
+    }),
 });
 
 /** The file GET …/export sends: a sheet file (what import takes) plus what Worldsheet records with it. */
 export const exportedSheetFileSchema = sheetFileSchema.extend({
   safetyRelated: z.boolean(),
   record: calculationRecordSchema,
-  attachments: z.array(sheetFileAttachmentSchema).meta({ description: 'The attachments the version cites; with `?attachments=include`, each with its bytes.' }),
+  attachments: z
+    .array(sheetFileAttachmentSchema)
+    .meta({ description: 'The attachments the version cites; with `?attachments=include`, each with its bytes.' }),
   exportedFrom: z.object({ sheet: z.string(), version: z.number().int(), sha256 }),
 });
 
@@ -230,13 +361,21 @@ export const startCandidatesSchema = z.object({
       title: z.string(),
       version: z.number().int(),
       sha256,
-      kind: z.enum(['starter', 'approved']).meta({ description: 'starter: a starter sheet, its latest version; approved: the newest approved version of the sheet.' }),
+      kind: z
+        .enum(['starter', 'approved'])
+        .meta({
+          description:
+            'starter: a starter sheet, its latest version; approved: the newest approved version of the sheet.',
+        }),
     }),
   ),
 });
 
 export const sheetStartedSchema = sheetCreatedSchema.extend({
-  version: z.number().int().meta({ description: 'The version holding the copy (2: version 1 is the sheet as created).' }),
+  version: z
+    .number()
+    .int()
+    .meta({ description: 'The version holding the copy (2: version 1 is the sheet as created).' }),
   sha256,
 });
 
@@ -249,14 +388,25 @@ export const importPreviewSchema = z.object({
   significantFigures: z.number().int(),
   displayUnits: z.enum(['si', 'trade']),
   exportedFrom: z.object({ sheet: z.string(), version: z.number().int(), sha256 }).nullable(),
-  unchangedSinceExport: z.boolean().nullable().meta({ description: 'Whether the file still hashes to the SHA-256 of the version it was exported from; null when it names none.' }),
+  unchangedSinceExport: z
+    .boolean()
+    .nullable()
+    .meta({
+      description:
+        'Whether the file still hashes to the SHA-256 of the version it was exported from; null when it names none.',
+    }),
   attachments: z.array(
     z.object({
       name: z.string(),
       mediaType: z.string(),
       size: z.number().int(),
       sha256,
-      carried: z.boolean().meta({ description: 'True: the file carries the bytes and they match the size and SHA-256 (the import stores them). False: listed only; not imported.' }),
+      carried: z
+        .boolean()
+        .meta({
+          description:
+            'True: the file carries the bytes and they match the size and SHA-256 (the import stores them). False: listed only; not imported.',
+        }),
     }),
   ),
 });
@@ -264,11 +414,18 @@ export const importPreviewSchema = z.object({
 export const healthSchema = z.object({
   status: z.enum(['ok', 'unavailable']),
   version: z.string(),
-  database: z.object({ status: z.enum(['up', 'down']), latencyMs: z.number().nullable(), migration: z.string().nullable(), error: z.string().optional() }),
+  database: z.object({
+    status: z.enum(['up', 'down']),
+    latencyMs: z.number().nullable(),
+    migration: z.string().nullable(),
+    error: z.string().optional(),
+  }),
 });
 
 /** The multipart form of an attachment upload: one file. */
-export const attachmentUploadFormSchema = z.object({ file: z.file().meta({ description: 'The file; its name and media type come from the part.' }) });
+export const attachmentUploadFormSchema = z.object({
+  file: z.file().meta({ description: 'The file; its name and media type come from the part.' }),
+});
 
 /** GET /api/sheets/{sheetId}/attachments, newest first. */
 export const attachmentListSchema = z.object({ attachments: z.array(attachmentSchema) });
@@ -290,7 +447,9 @@ const meaning = z.enum(['prepared', 'checked', 'approved', 'issued']);
 export const signatureSchema = z.object({
   id: uuid,
   versionNumber: z.number().int(),
-  sha256: sha256.meta({ description: 'SHA-256 of the signed version: the signature applies to this content only (21 CFR Part 11 §11.70).' }),
+  sha256: sha256.meta({
+    description: 'SHA-256 of the signed version: the signature applies to this content only (21 CFR Part 11 §11.70).',
+  }),
   printedName: z.string(),
   meaning,
   signedAt: timestamp,
@@ -303,15 +462,29 @@ export const sheetWorkflowSchema = z.object({
   latestVersion: z.number().int(),
   lastApprovedVersion: z.number().int().nullable(),
   checks: z.array(
-    z.object({ id: uuid, state: checkState, stateLabel: z.string(), versionNumber: z.number().int(), sha256, checker: z.string(), submittedAt: timestamp, returnReason: z.string().nullable() }),
+    z.object({
+      id: uuid,
+      state: checkState,
+      stateLabel: z.string(),
+      versionNumber: z.number().int(),
+      sha256,
+      checker: z.string(),
+      submittedAt: timestamp,
+      returnReason: z.string().nullable(),
+    }),
   ),
   signatures: z.array(signatureSchema),
   checkers: z
     .array(z.object({ userId: uuid, name: z.string(), eligible: z.boolean(), reason: z.string().nullable() }))
-    .meta({ description: 'The project\'s checkers, and why any of them may not check the latest version.' }),
+    .meta({ description: "The project's checkers, and why any of them may not check the latest version." }),
 });
 
-export const submittedCheckSchema = z.object({ id: uuid, state: z.literal('in_check'), versionNumber: z.number().int(), sha256 });
+export const submittedCheckSchema = z.object({
+  id: uuid,
+  state: z.literal('in_check'),
+  versionNumber: z.number().int(),
+  sha256,
+});
 
 export const checkQueueSchema = z.object({
   queue: z.enum(['check', 'approval']),
@@ -319,7 +492,13 @@ export const checkQueueSchema = z.object({
     z.object({
       id: uuid,
       state: checkState,
-      sheet: z.object({ code: z.string(), title: z.string(), safetyRelated: z.boolean(), projectCode: z.string(), number: z.number().int() }),
+      sheet: z.object({
+        code: z.string(),
+        title: z.string(),
+        safetyRelated: z.boolean(),
+        projectCode: z.string(),
+        number: z.number().int(),
+      }),
       versionNumber: z.number().int(),
       sha256,
       submittedBy: z.string(),
@@ -336,10 +515,25 @@ export const checkDetailSchema = z.looseObject({
   id: uuid,
   state: checkState,
   stateLabel: z.string(),
-  sheet: z.object({ id: uuid, number: z.number().int(), code: z.string(), title: z.string(), safetyRelated: z.boolean(), projectCode: z.string() }),
+  sheet: z.object({
+    id: uuid,
+    number: z.number().int(),
+    code: z.string(),
+    title: z.string(),
+    safetyRelated: z.boolean(),
+    projectCode: z.string(),
+  }),
   version: z.looseObject({ number: z.number().int(), sha256, content: versionContentSchema }),
-  base: z.looseObject({ number: z.number().int(), sha256 }).nullable().meta({ description: 'The last approved version; null at a first check.' }),
-  comparison: z.looseObject({}).meta({ description: 'The version against its base: cells (word diffs), results (old, new, relative change), the calculation record and attachments (as GET /api/sheets/{sheetId}/compare).' }),
+  base: z
+    .looseObject({ number: z.number().int(), sha256 })
+    .nullable()
+    .meta({ description: 'The last approved version; null at a first check.' }),
+  comparison: z
+    .looseObject({})
+    .meta({
+      description:
+        'The version against its base: cells (word diffs), results (old, new, relative change), the calculation record and attachments (as GET /api/sheets/{sheetId}/compare).',
+    }),
   sinceReturn: z
     .looseObject({
       checkId: uuid,
@@ -350,10 +544,21 @@ export const checkDetailSchema = z.looseObject({
       comparison: z.looseObject({}),
     })
     .nullable()
-    .meta({ description: 'A re-check after a return: the returned check, its version and the comparison of that version with this one; null otherwise.' }),
+    .meta({
+      description:
+        'A re-check after a return: the returned check, its version and the comparison of that version with this one; null otherwise.',
+    }),
   verificationMethod: z.enum(['design_review', 'alternate_calculation', 'qualification_test']).nullable(),
-  tolerance: z.number().nullable().meta({ description: "The checker's relative tolerance for the alternate comparison, as a fraction (0.001 for 0.1 %)." }),
-  toleranceText: z.string().nullable().meta({ description: 'The tolerance as the checker wrote it: "1e-6", "0.1 %", "5 ppm".' }),
+  tolerance: z
+    .number()
+    .nullable()
+    .meta({
+      description: "The checker's relative tolerance for the alternate comparison, as a fraction (0.001 for 0.1 %).",
+    }),
+  toleranceText: z
+    .string()
+    .nullable()
+    .meta({ description: 'The tolerance as the checker wrote it: "1e-6", "0.1 %", "5 ppm".' }),
   alternateComparison: z
     .looseObject({
       tolerance: z.number().nullable(),
@@ -370,17 +575,53 @@ export const checkDetailSchema = z.looseObject({
       ),
       notWithin: z.number().int(),
     })
-    .meta({ description: 'Each name defined both in the alternate cells and in the version\'s results: both values as displayed, |a − s| / |s| on SI values, and the outcome in words (units that differ, a zero sheet value, lists: see lib/checks/README.md).' }),
+    .meta({
+      description:
+        "Each name defined both in the alternate cells and in the version's results: both values as displayed, |a − s| / |s| on SI values, and the outcome in words (units that differ, a zero sheet value, lists: see lib/checks/README.md).",
+    }),
   acknowledgements: z
-    .array(z.object({ key: z.string(), kind: z.enum(['cell-error', 'criterion-failed', 'lint-warning', 'design-input']), cellId: z.string().nullable(), message: z.string(), text: z.string() }))
-    .meta({ description: 'What the originator acknowledged in writing on submitting the version: each item and the acknowledgement (immutable).' }),
+    .array(
+      z.object({
+        key: z.string(),
+        kind: z.enum(['cell-error', 'criterion-failed', 'lint-warning', 'design-input']),
+        cellId: z.string().nullable(),
+        message: z.string(),
+        text: z.string(),
+      }),
+    )
+    .meta({
+      description:
+        'What the originator acknowledged in writing on submitting the version: each item and the acknowledgement (immutable).',
+    }),
   designInputs: z
-    .array(z.object({ index: z.number().int(), name: z.string(), cell: z.string(), recordValue: z.string(), engineValue: z.string().nullable(), status: z.enum(['match', 'mismatch', 'missing-cell', 'unreadable']), words: z.string() }))
-    .meta({ description: 'Each design input of the record that names a cell quantity: the record\'s value, the value the engine used, and whether they match (in SI, to the last digit written).' }),
+    .array(
+      z.object({
+        index: z.number().int(),
+        name: z.string(),
+        cell: z.string(),
+        recordValue: z.string(),
+        engineValue: z.string().nullable(),
+        status: z.enum(['match', 'mismatch', 'missing-cell', 'unreadable']),
+        words: z.string(),
+      }),
+    )
+    .meta({
+      description:
+        "Each design input of the record that names a cell quantity: the record's value, the value the engine used, and whether they match (in SI, to the last digit written).",
+    }),
   carriedOver: z
-    .object({ fromCheckId: uuid, fromVersion: z.number().int(), fields: z.array(z.enum(['verificationMethod', 'checkerNotes', 'alternateCells', 'tolerance'])), confirmedAt: timestamp.nullable(), confirmedBy: z.string().nullable() })
+    .object({
+      fromCheckId: uuid,
+      fromVersion: z.number().int(),
+      fields: z.array(z.enum(['verificationMethod', 'checkerNotes', 'alternateCells', 'tolerance'])),
+      confirmedAt: timestamp.nullable(),
+      confirmedBy: z.string().nullable(),
+    })
     .nullable()
-    .meta({ description: 'Work carried over from the returned check of an earlier version: the fields still as carried over (an edit removes one) and the checker\'s confirmation, which signing as checked waits for.' }),
+    .meta({
+      description:
+        "Work carried over from the returned check of an earlier version: the fields still as carried over (an edit removes one) and the checker's confirmation, which signing as checked waits for.",
+    }),
   threads: z.array(
     z.object({
       id: uuid,
@@ -392,7 +633,9 @@ export const checkDetailSchema = z.looseObject({
     }),
   ),
   signatures: z.array(signatureSchema),
-  you: z.looseObject({ actions: z.array(z.enum(['return', 'sign', 'approve', 'reject'])) }).meta({ description: 'What the caller may do now.' }),
+  you: z
+    .looseObject({ actions: z.array(z.enum(['return', 'sign', 'approve', 'reject'])) })
+    .meta({ description: 'What the caller may do now.' }),
 });
 
 export const checkWorkResultSchema = z.object({ ok: z.literal(true), alternateResults: z.looseObject({}).nullable() });
@@ -442,7 +685,9 @@ export const sheetRevisionsSchema = z.object({ revisions: z.array(registerRowSch
 export const registerSchema = z.object({ project: z.string(), revisions: z.array(registerRowSchema) });
 export const withdrawnSchema = z.object({ id: uuid, status: z.literal('withdrawn') });
 
-export const verifyUploadFormSchema = z.object({ file: z.string().meta({ format: 'binary', description: 'The PDF to check.' }) });
+export const verifyUploadFormSchema = z.object({
+  file: z.string().meta({ format: 'binary', description: 'The PDF to check.' }),
+});
 
 export const verificationSchema = z.object({
   authentic: z.boolean(),
@@ -462,14 +707,32 @@ export const verificationSchema = z.object({
       legalOwner: z.string(),
     })
     .nullable(),
-  checks: z.object({ hashInRegister: z.boolean(), signatureValid: z.boolean().nullable(), signedByOrganisation: z.boolean().nullable(), stampedCopy: z.boolean().meta({ description: 'The file is a stamped copy: a registered original as its exact prefix, then a stamp signed by document control.' }) }),
+  checks: z.object({
+    hashInRegister: z.boolean(),
+    signatureValid: z.boolean().nullable(),
+    signedByOrganisation: z.boolean().nullable(),
+    stampedCopy: z
+      .boolean()
+      .meta({
+        description:
+          'The file is a stamped copy: a registered original as its exact prefix, then a stamp signed by document control.',
+      }),
+  }),
   sha256: sha256.nullable(),
 });
 
 // Citations between sheets (lib/sheets/impact.ts) and software impact (lib/sheets/software-impact.ts).
 const citedValue = z
-  .object({ text: z.string(), number: z.number().nullable(), unit: z.string().nullable(), error: z.string().nullable() })
-  .meta({ description: 'A cited result as a revision recorded it: display text, full-precision number and unit, or its error.' });
+  .object({
+    text: z.string(),
+    number: z.number().nullable(),
+    unit: z.string().nullable(),
+    error: z.string().nullable(),
+  })
+  .meta({
+    description:
+      'A cited result as a revision recorded it: display text, full-precision number and unit, or its error.',
+  });
 
 export const supersededInputSchema = z.object({
   sheetId: uuid,
@@ -482,20 +745,38 @@ export const supersededInputSchema = z.object({
   versionNumber: z.number().int(),
   currentRevision: z.string().nullable(),
   currentVersionNumber: z.number().int().nullable(),
-  names: z.array(z.object({ name: z.string(), cited: citedValue.nullable(), current: citedValue.nullable().meta({ description: 'Null: no longer defined, or no current revision.' }), changed: z.boolean() })),
-  compareHref: z.string().nullable().meta({ description: 'The comparison page between the cited and the current revision\'s versions.' }),
+  names: z.array(
+    z.object({
+      name: z.string(),
+      cited: citedValue.nullable(),
+      current: citedValue.nullable().meta({ description: 'Null: no longer defined, or no current revision.' }),
+      changed: z.boolean(),
+    }),
+  ),
+  compareHref: z
+    .string()
+    .nullable()
+    .meta({ description: "The comparison page between the cited and the current revision's versions." }),
 });
 
 const impactDependentSchema = z.object({
   depth: z.number().int().meta({ description: '1: cites the revision itself; 2: cites a revision that does; …' }),
-  via: z.object({ sheetId: uuid, sheet: z.string(), sheetNumber: z.number().int(), revision: z.string(), status: revisionStatus }),
+  via: z.object({
+    sheetId: uuid,
+    sheet: z.string(),
+    sheetNumber: z.number().int(),
+    revision: z.string(),
+    status: revisionStatus,
+  }),
   sheetId: uuid,
   sheet: z.string(),
   sheetNumber: z.number().int(),
   title: z.string(),
   versions: z.array(z.number().int()),
   names: z.array(z.string()),
-  issuedAs: z.array(z.object({ id: uuid, revision: z.string(), status: revisionStatus, versionNumber: z.number().int() })),
+  issuedAs: z.array(
+    z.object({ id: uuid, revision: z.string(), status: revisionStatus, versionNumber: z.number().int() }),
+  ),
   latestVersion: z.number().int(),
   latestCitesVia: z.boolean(),
   latestCitesSuperseded: z.boolean(),
@@ -504,13 +785,26 @@ const impactDependentSchema = z.object({
 export const sheetImpactSchema = z.object({
   sheet: z.object({ id: uuid, code: z.string(), title: z.string() }),
   supersededInputs: z.array(supersededInputSchema),
-  revisions: z.array(z.object({ id: uuid, revision: z.string(), status: revisionStatus, versionNumber: z.number().int(), issuedAt: timestamp, dependents: z.array(impactDependentSchema) })),
+  revisions: z.array(
+    z.object({
+      id: uuid,
+      revision: z.string(),
+      status: revisionStatus,
+      versionNumber: z.number().int(),
+      issuedAt: timestamp,
+      dependents: z.array(impactDependentSchema),
+    }),
+  ),
 });
 
 const facetSchema = z.object({ value: z.string(), versions: z.number().int(), revisions: z.number().int() });
 
 export const softwareImpactSchema = z.object({
-  filter: z.object({ engineVersion: z.string().nullable(), constantsEdition: z.string().nullable(), function: z.string().nullable() }),
+  filter: z.object({
+    engineVersion: z.string().nullable(),
+    constantsEdition: z.string().nullable(),
+    function: z.string().nullable(),
+  }),
   engineVersions: z.array(facetSchema),
   constantsEditions: z.array(facetSchema),
   rows: z
@@ -535,6 +829,14 @@ export const softwareImpactSchema = z.object({
     )
     .nullable()
     .meta({ description: 'Null until a filter is given.' }),
-  summary: z.object({ versions: z.number().int(), sheets: z.number().int(), revisions: z.number().int(), currentRevisions: z.number().int(), safetyRelatedSheets: z.number().int() }).nullable(),
+  summary: z
+    .object({
+      versions: z.number().int(),
+      sheets: z.number().int(),
+      revisions: z.number().int(),
+      currentRevisions: z.number().int(),
+      safetyRelatedSheets: z.number().int(),
+    })
+    .nullable(),
   truncated: z.boolean(),
 });

@@ -23,8 +23,21 @@ import { startFromSchema } from '@/lib/sheets/start-from';
 import { softwareImpactQuerySchema } from '@/lib/sheets/software-impact';
 import { createSheetSchema, saveVersionSchema } from '@/lib/sheets/sheets';
 import { voidSheetSchema } from '@/lib/sheets/void';
-import { downloadQuerySchema, issueRequestSchema, registerQuerySchema, verifyCodeSchema, withdrawSchema } from '@/lib/issue/issue';
-import { checkWorkSchema, commentSchema, decisionSchema, queueQuerySchema, resolveSchema, submitSchema } from '@/lib/checks/workflow';
+import {
+  downloadQuerySchema,
+  issueRequestSchema,
+  registerQuerySchema,
+  verifyCodeSchema,
+  withdrawSchema,
+} from '@/lib/issue/issue';
+import {
+  checkWorkSchema,
+  commentSchema,
+  decisionSchema,
+  queueQuerySchema,
+  resolveSchema,
+  submitSchema,
+} from '@/lib/checks/workflow';
 import { APP_VERSION } from '@/lib/version';
 import * as res from './openapi-schemas';
 
@@ -33,7 +46,17 @@ export type HttpMethod = 'GET' | 'POST' | 'PUT' | 'PATCH' | 'DELETE';
 /** Who may call: anyone, a browser session or an API token, or a browser session only. */
 export type Auth = 'none' | 'session or API token' | 'session';
 
-export type Tag = 'meta' | 'sign-in' | 'account' | 'admin' | 'projects' | 'sheets' | 'attachments' | 'checks' | 'revisions' | 'calculation';
+export type Tag =
+  | 'meta'
+  | 'sign-in'
+  | 'account'
+  | 'admin'
+  | 'projects'
+  | 'sheets'
+  | 'attachments'
+  | 'checks'
+  | 'revisions'
+  | 'calculation';
 
 /** A body: a zod schema, or raw bytes of a media type. */
 export type BodySchema = ZodType | 'binary';
@@ -62,7 +85,10 @@ export interface Operation {
   responses: Record<number, ResponseSpec>;
 }
 
-const json = (description: string, schema: ZodType): ResponseSpec => ({ description, content: { 'application/json': schema } });
+const json = (description: string, schema: ZodType): ResponseSpec => ({
+  description,
+  content: { 'application/json': schema },
+});
 
 const ERROR_TEXT: Record<number, string> = {
   400: 'The request is not valid; `details` lists the first problems.',
@@ -82,7 +108,9 @@ function errors(statuses: number[], overrides: Record<number, string> = {}): Rec
 }
 
 const uuidParam = (what: string) => ({ description: `The ${what}'s id (UUID).`, schema: z.uuid() });
-const projectParam = { projectId: { description: "The project's id (UUID) or its code, e.g. `TPT2`.", schema: PATH_PARAMS.projectId.schema } };
+const projectParam = {
+  projectId: { description: "The project's id (UUID) or its code, e.g. `TPT2`.", schema: PATH_PARAMS.projectId.schema },
+};
 const projectIdParam = { projectId: uuidParam('project') };
 const sheetParam = { sheetId: uuidParam('sheet') };
 
@@ -97,17 +125,23 @@ export const OPERATIONS: Operation[] = [
     summary: 'Health of the app and its database',
     tags: ['meta'],
     auth: 'none',
-    responses: { 200: json('Up, with the latest migration and the app version.', res.healthSchema), 503: json('The database cannot be reached.', res.healthSchema) },
+    responses: {
+      200: json('Up, with the latest migration and the app version.', res.healthSchema),
+      503: json('The database cannot be reached.', res.healthSchema),
+    },
   },
   {
     method: 'GET',
     path: '/api/openapi.json',
     operationId: 'getOpenApiDocument',
     summary: 'This document',
-    description: 'The OpenAPI 3.1 document of the API, generated from the zod schemas the route handlers validate with.',
+    description:
+      'The OpenAPI 3.1 document of the API, generated from the zod schemas the route handlers validate with.',
     tags: ['meta'],
     auth: 'none',
-    responses: { 200: { description: 'The OpenAPI document.', content: { 'application/json': res.openApiDocumentSchema } } },
+    responses: {
+      200: { description: 'The OpenAPI document.', content: { 'application/json': res.openApiDocumentSchema } },
+    },
   },
   {
     method: 'POST',
@@ -115,7 +149,7 @@ export const OPERATIONS: Operation[] = [
     operationId: 'reportCspViolation',
     summary: 'Where browsers report Content-Security-Policy violations',
     description:
-      'Anyone (browsers post here by themselves, as the policy\'s `report-uri` and, over HTTPS, `report-to` say). Takes ' +
+      "Anyone (browsers post here by themselves, as the policy's `report-uri` and, over HTTPS, `report-to` say). Takes " +
       '`application/csp-report`, `application/reports+json` or `application/json`, at most 64 KiB and 20 reports a body; kept in ' +
       '`csp_reports` for 30 days. Each client address may send 60 reports in 10 minutes, all addresses together 10,000 a day: 429 beyond.',
     tags: ['meta'],
@@ -135,9 +169,14 @@ export const OPERATIONS: Operation[] = [
       '`callback/oidc` (the redirect URI registered at the OpenID Connect provider), `error`. A successful sign-in sets the session cookie.',
     tags: ['sign-in'],
     auth: 'none',
-    params: { nextauth: { description: 'The next-auth action, e.g. `session`, `providers`, `csrf`, `callback/oidc`.', schema: z.string() } },
+    params: {
+      nextauth: {
+        description: 'The next-auth action, e.g. `session`, `providers`, `csrf`, `callback/oidc`.',
+        schema: z.string(),
+      },
+    },
     responses: {
-      200: json('The action\'s answer (JSON for `session`, `providers` and `csrf`).', res.nextAuthBodySchema),
+      200: json("The action's answer (JSON for `session`, `providers` and `csrf`).", res.nextAuthBodySchema),
       302: { description: 'A redirect (sign-in page, provider, callback), always to a path of the app itself.' },
       ...errors([400], { 400: 'The `callbackUrl` parameter or cookie is not a valid URL.' }),
     },
@@ -154,11 +193,23 @@ export const OPERATIONS: Operation[] = [
       'failed attempts from one client address are slowed down with growing waits.',
     tags: ['sign-in'],
     auth: 'none',
-    params: { nextauth: { description: 'The next-auth action, e.g. `callback/password`, `callback/link`, `signin/oidc`, `signout`.', schema: z.string() } },
-    body: { schema: res.nextAuthFormSchema, contentType: 'application/x-www-form-urlencoded', description: 'next-auth form fields, with `csrfToken`.' },
+    params: {
+      nextauth: {
+        description: 'The next-auth action, e.g. `callback/password`, `callback/link`, `signin/oidc`, `signout`.',
+        schema: z.string(),
+      },
+    },
+    body: {
+      schema: res.nextAuthFormSchema,
+      contentType: 'application/x-www-form-urlencoded',
+      description: 'next-auth form fields, with `csrfToken`.',
+    },
     responses: {
       200: json('JSON answer when asked for one (`json=true`).', res.nextAuthBodySchema),
-      302: { description: 'Redirect after sign-in, a refused sign-in (to the error page) or sign-out, always to a path of the app itself.' },
+      302: {
+        description:
+          'Redirect after sign-in, a refused sign-in (to the error page) or sign-out, always to a path of the app itself.',
+      },
       ...errors([400], { 400: 'The `callbackUrl` parameter or cookie is not a valid URL.' }),
     },
   },
@@ -167,11 +218,15 @@ export const OPERATIONS: Operation[] = [
     path: '/api/auth/password-reset',
     operationId: 'requestPasswordReset',
     summary: 'Send a password reset link',
-    description: 'Sends a reset link if the address has an account; the answer is the same either way. At most 3 per account per 15 minutes.',
+    description:
+      'Sends a reset link if the address has an account; the answer is the same either way. At most 3 per account per 15 minutes.',
     tags: ['sign-in'],
     auth: 'none',
     body: { schema: resetRequestSchema },
-    responses: { 202: json('Accepted (whether or not the address has an account).', res.acceptedSchema), ...errors([400, 413]) },
+    responses: {
+      202: json('Accepted (whether or not the address has an account).', res.acceptedSchema),
+      ...errors([400, 413]),
+    },
   },
   {
     method: 'POST',
@@ -181,20 +236,29 @@ export const OPERATIONS: Operation[] = [
     tags: ['sign-in'],
     auth: 'none',
     body: { schema: resetConfirmSchema },
-    responses: { 200: json('The password is changed, the account\'s sessions ended and its API tokens revoked.', res.okSchema), ...errors([400, 413], { 400: 'Invalid body, a password that is too weak, or an unknown, used or expired token.' }) },
+    responses: {
+      200: json("The password is changed, the account's sessions ended and its API tokens revoked.", res.okSchema),
+      ...errors([400, 413], {
+        400: 'Invalid body, a password that is too weak, or an unknown, used or expired token.',
+      }),
+    },
   },
   {
     method: 'POST',
     path: '/api/auth/unlock',
     operationId: 'unlockAccount',
     summary: 'Unlock an account with the e-mailed unlock link',
-    description: 'The link is e-mailed to the holder when failed passwords lock the account; it works once, and not on a lock set by an administrator.',
+    description:
+      'The link is e-mailed to the holder when failed passwords lock the account; it works once, and not on a lock set by an administrator.',
     tags: ['sign-in'],
     auth: 'none',
     body: { schema: unlockSchema },
     responses: {
       200: json('The account is unlocked and its count of failed passwords starts again.', res.okSchema),
-      ...errors([400, 409, 413], { 400: 'Invalid body, or an unknown, used or expired link.', 409: 'An administrator has locked the account since.' }),
+      ...errors([400, 409, 413], {
+        400: 'Invalid body, or an unknown, used or expired link.',
+        409: 'An administrator has locked the account since.',
+      }),
     },
   },
   {
@@ -206,7 +270,10 @@ export const OPERATIONS: Operation[] = [
     tags: ['sign-in'],
     auth: 'none',
     body: { schema: resetRequestSchema },
-    responses: { 202: json('Accepted (whether or not the address has an account).', res.acceptedSchema), ...errors([400, 413]) },
+    responses: {
+      202: json('Accepted (whether or not the address has an account).', res.acceptedSchema),
+      ...errors([400, 413]),
+    },
   },
 
   // account
@@ -228,7 +295,13 @@ export const OPERATIONS: Operation[] = [
     tags: ['account'],
     auth: 'session',
     body: { schema: passwordChangeSchema },
-    responses: { 200: json('Changed; the other sessions are ended, and the API tokens revoked when `revokeTokens` asked.', res.okSchema), ...errors([400, 401, 403, 413]) },
+    responses: {
+      200: json(
+        'Changed; the other sessions are ended, and the API tokens revoked when `revokeTokens` asked.',
+        res.okSchema,
+      ),
+      ...errors([400, 401, 403, 413]),
+    },
   },
   {
     method: 'GET',
@@ -237,7 +310,10 @@ export const OPERATIONS: Operation[] = [
     summary: "The caller's API tokens (never their secrets)",
     tags: ['account'],
     auth: 'session or API token',
-    responses: { 200: json('Newest first, revoked and expired ones included.', res.apiTokenListSchema), ...errors([401]) },
+    responses: {
+      200: json('Newest first, revoked and expired ones included.', res.apiTokenListSchema),
+      ...errors([401]),
+    },
   },
   {
     method: 'POST',
@@ -258,7 +334,7 @@ export const OPERATIONS: Operation[] = [
     method: 'DELETE',
     path: '/api/account/tokens/{tokenId}',
     operationId: 'revokeApiToken',
-    summary: 'Revoke one of the caller\'s API tokens',
+    summary: "Revoke one of the caller's API tokens",
     tags: ['account'],
     auth: 'session or API token',
     params: { tokenId: uuidParam('token') },
@@ -292,7 +368,8 @@ export const OPERATIONS: Operation[] = [
     path: '/api/admin/users/{userId}',
     operationId: 'changeUser',
     summary: 'Disable, enable, lock or unlock an account, with a reason',
-    description: 'Administrators only. Accounts are never deleted: signatures must stay readable. An administrator\'s lock lasts until an administrator unlocks.',
+    description:
+      "Administrators only. Accounts are never deleted: signatures must stay readable. An administrator's lock lasts until an administrator unlocks.",
     tags: ['admin'],
     auth: 'session or API token',
     params: { userId: uuidParam('user') },
@@ -308,7 +385,7 @@ export const OPERATIONS: Operation[] = [
     summary: 'Projects the caller is a member of (administrators: all)',
     tags: ['projects'],
     auth: 'session or API token',
-    responses: { 200: json('Projects by code, with the caller\'s roles.', res.projectListSchema), ...errors([401]) },
+    responses: { 200: json("Projects by code, with the caller's roles.", res.projectListSchema), ...errors([401]) },
   },
   {
     method: 'POST',
@@ -325,7 +402,7 @@ export const OPERATIONS: Operation[] = [
     method: 'GET',
     path: '/api/projects/{projectId}',
     operationId: 'getProject',
-    summary: 'A project, the caller\'s roles in it and its members',
+    summary: "A project, the caller's roles in it and its members",
     description: member,
     tags: ['projects'],
     auth: 'session or API token',
@@ -371,7 +448,7 @@ export const OPERATIONS: Operation[] = [
     method: 'GET',
     path: '/api/projects/{projectId}/audit',
     operationId: 'listProjectAudit',
-    summary: 'The project\'s audit trail, filtered, as JSON or CSV',
+    summary: "The project's audit trail, filtered, as JSON or CSV",
     description: 'Originators, checkers, approvers and document controllers of the project; viewers get 403.',
     tags: ['projects'],
     auth: 'session or API token',
@@ -391,7 +468,7 @@ export const OPERATIONS: Operation[] = [
     method: 'GET',
     path: '/api/projects/{projectId}/sheets',
     operationId: 'listSheets',
-    summary: 'The project\'s register of sheets',
+    summary: "The project's register of sheets",
     description: member,
     tags: ['sheets'],
     auth: 'session or API token',
@@ -418,24 +495,31 @@ export const OPERATIONS: Operation[] = [
     description:
       'Originators of the project. Version 1 is the sheet as created, version 2 holds the file. At most 32 MiB. ' +
       'Attachments the file carries (`contentBase64`) are checked against their size and SHA-256 and stored on the new sheet; a mismatch refuses the whole import (400). ' +
-      'Attachments listed without their bytes are not imported (named in the answer). `title` replaces the file\'s title. The screen shows POST …/import/preview first.',
+      "Attachments listed without their bytes are not imported (named in the answer). `title` replaces the file's title. The screen shows POST …/import/preview first.",
     tags: ['sheets'],
     auth: 'session or API token',
     params: projectParam,
     query: importQuerySchema,
     body: { schema: sheetFileSchema, description: 'A sheet file, e.g. one from GET /api/sheets/{sheetId}/export.' },
-    responses: { 201: json('The new sheet and the version holding the file.', res.sheetImportedSchema), ...errors([400, 401, 403, 404, 413]) },
+    responses: {
+      201: json('The new sheet and the version holding the file.', res.sheetImportedSchema),
+      ...errors([400, 401, 403, 404, 413]),
+    },
   },
   {
     method: 'GET',
     path: '/api/projects/{projectId}/sheets/start-from',
     operationId: 'listStartCandidates',
     summary: 'What a new sheet can be started from',
-    description: 'Originators of the project. Starter sheets (their latest version) and the newest approved version of each sheet, in every project the caller is a member of; void sheets are left out.',
+    description:
+      'Originators of the project. Starter sheets (their latest version) and the newest approved version of each sheet, in every project the caller is a member of; void sheets are left out.',
     tags: ['sheets'],
     auth: 'session or API token',
     params: projectParam,
-    responses: { 200: json('Starters first, then approved versions.', res.startCandidatesSchema), ...errors([401, 403, 404]) },
+    responses: {
+      200: json('Starters first, then approved versions.', res.startCandidatesSchema),
+      ...errors([401, 403, 404]),
+    },
   },
   {
     method: 'POST',
@@ -444,25 +528,32 @@ export const OPERATIONS: Operation[] = [
     summary: 'Start a new sheet from an approved version or a starter',
     description:
       'Originators of the project. Version 2 of the new sheet copies the content of the given version (cells, record, settings, the attachments it cites) under the new title; ' +
-      'the sheet records the exact version it was started from, for ever. 404 when the caller is not a member of the source\'s project or the version does not exist; ' +
-      '409 when the source is void, or the version is neither approved nor the latest version of a starter. The new sheet is a draft: nothing of the source\'s checks carries over.',
+      "the sheet records the exact version it was started from, for ever. 404 when the caller is not a member of the source's project or the version does not exist; " +
+      "409 when the source is void, or the version is neither approved nor the latest version of a starter. The new sheet is a draft: nothing of the source's checks carries over.",
     tags: ['sheets'],
     auth: 'session or API token',
     params: projectParam,
     body: { schema: startFromSchema },
-    responses: { 201: json('The new sheet and the version holding the copy.', res.sheetStartedSchema), ...errors([400, 401, 403, 404, 409, 413]) },
+    responses: {
+      201: json('The new sheet and the version holding the copy.', res.sheetStartedSchema),
+      ...errors([400, 401, 403, 404, 409, 413]),
+    },
   },
   {
     method: 'POST',
     path: '/api/projects/{projectId}/sheets/import/preview',
     operationId: 'previewSheetFileImport',
     summary: 'Check a sheet file and say what importing it would create, creating nothing',
-    description: 'Originators of the project. The same checks as the import (attachments against their SHA-256); the confirmation before an import.',
+    description:
+      'Originators of the project. The same checks as the import (attachments against their SHA-256); the confirmation before an import.',
     tags: ['sheets'],
     auth: 'session or API token',
     params: projectParam,
     body: { schema: sheetFileSchema, description: 'A sheet file.' },
-    responses: { 200: json('What the import would create.', res.importPreviewSchema), ...errors([400, 401, 403, 404, 413]) },
+    responses: {
+      200: json('What the import would create.', res.importPreviewSchema),
+      ...errors([400, 401, 403, 404, 413]),
+    },
   },
   {
     method: 'GET',
@@ -473,7 +564,10 @@ export const OPERATIONS: Operation[] = [
     tags: ['sheets'],
     auth: 'session or API token',
     params: sheetParam,
-    responses: { 200: json('The sheet, and its latest version with content, results and hash.', res.sheetWithVersionSchema), ...errors([401, 404]) },
+    responses: {
+      200: json('The sheet, and its latest version with content, results and hash.', res.sheetWithVersionSchema),
+      ...errors([401, 404]),
+    },
   },
   {
     method: 'GET',
@@ -508,7 +602,10 @@ export const OPERATIONS: Operation[] = [
     description: member,
     tags: ['sheets'],
     auth: 'session or API token',
-    params: { ...sheetParam, number: { description: 'The version number, from 1.', schema: PATH_PARAMS.number.schema } },
+    params: {
+      ...sheetParam,
+      number: { description: 'The version number, from 1.', schema: PATH_PARAMS.number.schema },
+    },
     responses: { 200: json('The version.', z.object({ version: res.versionSchema })), ...errors([401, 404]) },
   },
   {
@@ -525,12 +622,23 @@ export const OPERATIONS: Operation[] = [
     params: {
       ...sheetParam,
       number: { description: 'The version number, from 1.', schema: PATH_PARAMS.number.schema },
-      cellIndex: { description: 'The index of the cell in the version (`results.cells[].index`), from 0.', schema: PATH_PARAMS.cellIndex.schema },
-      line: { description: 'The line of the `sweep(…)` statement in the cell, from 1.', schema: PATH_PARAMS.line.schema },
+      cellIndex: {
+        description: 'The index of the cell in the version (`results.cells[].index`), from 0.',
+        schema: PATH_PARAMS.cellIndex.schema,
+      },
+      line: {
+        description: 'The line of the `sweep(…)` statement in the cell, from 1.',
+        schema: PATH_PARAMS.line.schema,
+      },
     },
     responses: {
-      200: { description: 'The table as a download (`content-disposition: attachment`).', content: { 'text/csv': 'binary' } },
-      ...errors([401, 404], { 404: 'No such sheet, version, cell or line, a statement that is not a sweep, or a project the caller is not a member of.' }),
+      200: {
+        description: 'The table as a download (`content-disposition: attachment`).',
+        content: { 'text/csv': 'binary' },
+      },
+      ...errors([401, 404], {
+        404: 'No such sheet, version, cell or line, a statement that is not a sweep, or a project the caller is not a member of.',
+      }),
     },
   },
   {
@@ -553,11 +661,11 @@ export const OPERATIONS: Operation[] = [
     method: 'GET',
     path: '/api/sheets/{sheetId}/impact',
     operationId: 'sheetImpact',
-    summary: 'What depends on the sheet\'s revisions, and its own superseded inputs',
+    summary: "What depends on the sheet's revisions, and its own superseded inputs",
     description:
       `${member} For each issued revision of the sheet, the sheets whose versions cite it (\`fromRevision\`), then those citing revisions issued from ` +
       'those versions, and so on, each with its depth and whether its latest version still cites a superseded revision. `supersededInputs` lists ' +
-      'the revisions the sheet\'s latest version cites that are no longer current, with the cited values then and now.',
+      "the revisions the sheet's latest version cites that are no longer current, with the cited values then and now.",
     tags: ['sheets'],
     auth: 'session or API token',
     params: sheetParam,
@@ -574,7 +682,10 @@ export const OPERATIONS: Operation[] = [
     params: sheetParam,
     query: exportQuerySchema,
     responses: {
-      200: { description: 'The sheet file, as a download (`content-disposition: attachment`).', content: { 'application/json': res.exportedSheetFileSchema } },
+      200: {
+        description: 'The sheet file, as a download (`content-disposition: attachment`).',
+        content: { 'application/json': res.exportedSheetFileSchema },
+      },
       ...errors([400, 401, 404, 413, 503]),
     },
   },
@@ -617,9 +728,13 @@ export const OPERATIONS: Operation[] = [
     tags: ['attachments'],
     auth: 'session or API token',
     params: sheetParam,
-    body: { schema: res.attachmentUploadFormSchema, contentType: 'multipart/form-data', description: 'One part named `file`.' },
+    body: {
+      schema: res.attachmentUploadFormSchema,
+      contentType: 'multipart/form-data',
+      description: 'One part named `file`.',
+    },
     responses: {
-      201: json('The stored file\'s reference, and the table read from a CSV file.', attachmentSchema),
+      201: json("The stored file's reference, and the table read from a CSV file.", attachmentSchema),
       ...errors([400, 401, 403, 404, 413, 415], {
         400: 'Not multipart, no `file` part, an empty file, or a CSV file that is not a table of numbers (the message says where).',
         413: 'The file is larger than allowed.',
@@ -635,13 +750,22 @@ export const OPERATIONS: Operation[] = [
     description: member,
     tags: ['attachments'],
     auth: 'session or API token',
-    params: { ...sheetParam, sha256: { description: 'The SHA-256 of the file, lowercase hexadecimal.', schema: z.string().regex(/^[0-9a-f]{64}$/) } },
+    params: {
+      ...sheetParam,
+      sha256: {
+        description: 'The SHA-256 of the file, lowercase hexadecimal.',
+        schema: z.string().regex(/^[0-9a-f]{64}$/),
+      },
+    },
     responses: {
       200: {
-        description: 'The file\'s bytes, checked against their SHA-256, always as a download (`content-disposition: attachment`).',
+        description:
+          "The file's bytes, checked against their SHA-256, always as a download (`content-disposition: attachment`).",
         content: { 'application/pdf': 'binary', 'image/png': 'binary', 'image/jpeg': 'binary', 'text/csv': 'binary' },
       },
-      ...errors([401, 404, 503], { 503: 'The stored file is missing or no longer matches its SHA-256; it is not served.' }),
+      ...errors([401, 404, 503], {
+        503: 'The stored file is missing or no longer matches its SHA-256; it is not served.',
+      }),
     },
   },
 
@@ -655,7 +779,10 @@ export const OPERATIONS: Operation[] = [
     tags: ['checks'],
     auth: 'session or API token',
     params: sheetParam,
-    responses: { 200: json('The sheet\'s status, checks and signatures.', res.sheetWorkflowSchema), ...errors([401, 404]) },
+    responses: {
+      200: json("The sheet's status, checks and signatures.", res.sheetWorkflowSchema),
+      ...errors([401, 404]),
+    },
   },
   {
     method: 'POST',
@@ -666,10 +793,10 @@ export const OPERATIONS: Operation[] = [
       'Originators of the project. Signs the version "prepared": the password is asked again (21 CFR Part 11 §11.200). The checker must hold ' +
       'the checker role, must not have saved any version since the last approved one, later ones included (ASME NQA-1 Requirement 3 §500), and ' +
       'must not be the submitter or anyone who submitted this version before; a refusal names the rule in `details.rule` and is audited. ' +
-      'One open check per sheet. When the sheet\'s latest earlier check was returned, its verification method, notes, alternate calculation and tolerance ' +
+      "One open check per sheet. When the sheet's latest earlier check was returned, its verification method, notes, alternate calculation and tolerance " +
       'are carried over to the new check, marked as from that check until the checker edits or confirms them (audited `check.carry_over`). ' +
       'A version with any cell error, failed design criterion, engine (lint) warning, or design input whose value does not match the cell it names is refused (400, ' +
-      '`details.acknowledgementsNeeded`: each item\'s key, kind, cell and message) until `acknowledgements` gives written text for each key; they are stored with the check, ' +
+      "`details.acknowledgementsNeeded`: each item's key, kind, cell and message) until `acknowledgements` gives written text for each key; they are stored with the check, " +
       'audited with `check.submit`, never changed, and shown to the checker, the approver and in the issued PDF.',
     tags: ['checks'],
     auth: 'session or API token',
@@ -677,7 +804,10 @@ export const OPERATIONS: Operation[] = [
     body: { schema: submitSchema },
     responses: {
       201: json('The check.', res.submittedCheckSchema),
-      ...errors([400, 401, 403, 404, 409], { 403: 'Not an originator, an ineligible checker (`details.rule`), or a wrong password.', 409: 'A check of this sheet is already open, or the version is older than the last approved one.' }),
+      ...errors([400, 401, 403, 404, 409], {
+        403: 'Not an originator, an ineligible checker (`details.rule`), or a wrong password.',
+        409: 'A check of this sheet is already open, or the version is older than the last approved one.',
+      }),
     },
   },
   {
@@ -685,7 +815,8 @@ export const OPERATIONS: Operation[] = [
     path: '/api/checks',
     operationId: 'checkQueue',
     summary: 'My checks, or my approvals',
-    description: 'Any signed-in user: `queue=check` lists the open checks naming the caller as checker; `queue=approval` the checked versions awaiting approval in projects where the caller is an approver, each saying whether the caller may approve it.',
+    description:
+      'Any signed-in user: `queue=check` lists the open checks naming the caller as checker; `queue=approval` the checked versions awaiting approval in projects where the caller is an approver, each saying whether the caller may approve it.',
     tags: ['checks'],
     auth: 'session or API token',
     query: queueQuerySchema,
@@ -695,7 +826,8 @@ export const OPERATIONS: Operation[] = [
     method: 'GET',
     path: '/api/checks/{checkId}',
     operationId: 'getCheck',
-    summary: 'A check: the version against the last approved one (and, for a re-check, against the version returned), comments, signatures',
+    summary:
+      'A check: the version against the last approved one (and, for a re-check, against the version returned), comments, signatures',
     description: member,
     tags: ['checks'],
     auth: 'session or API token',
@@ -706,7 +838,8 @@ export const OPERATIONS: Operation[] = [
     method: 'PATCH',
     path: '/api/checks/{checkId}',
     operationId: 'saveCheckWork',
-    summary: 'Record the checker\'s work: verification method, notes, alternate calculation, tolerance; confirm work carried over',
+    summary:
+      "Record the checker's work: verification method, notes, alternate calculation, tolerance; confirm work carried over",
     description:
       'The checker named on the check, while it is in check. Alternate calculation cells are evaluated by the server. `tolerance` is relative ("1e-6", "0.1 %", "5 ppm"; ' +
       'greater than 0, at most 10 %; null clears it). `confirmCarriedOver: true` confirms the work carried over from the returned check of an earlier version ' +
@@ -715,14 +848,18 @@ export const OPERATIONS: Operation[] = [
     auth: 'session or API token',
     params: { checkId: uuidParam('check') },
     body: { schema: checkWorkSchema },
-    responses: { 200: json('Saved; the alternate calculation\'s results.', res.checkWorkResultSchema), ...errors([400, 401, 403, 404, 409]) },
+    responses: {
+      200: json("Saved; the alternate calculation's results.", res.checkWorkResultSchema),
+      ...errors([400, 401, 403, 404, 409]),
+    },
   },
   {
     method: 'POST',
     path: '/api/checks/{checkId}/comments',
     operationId: 'addCheckComment',
     summary: 'Comment on a cell, or answer a comment thread',
-    description: 'The checker opens threads anchored to a cell (and optionally a statement line); only the people of the check (its submitter, checker and approver) answer them; any other member gets 403. While in check, or on a returned check until the sheet is submitted again.',
+    description:
+      'The checker opens threads anchored to a cell (and optionally a statement line); only the people of the check (its submitter, checker and approver) answer them; any other member gets 403. While in check, or on a returned check until the sheet is submitted again.',
     tags: ['checks'],
     auth: 'session or API token',
     params: { checkId: uuidParam('check') },
@@ -737,7 +874,7 @@ export const OPERATIONS: Operation[] = [
     description: 'The checker named on the check, while in check. A thread is resolved once and stays resolved.',
     tags: ['checks'],
     auth: 'session or API token',
-    params: { checkId: uuidParam('check'), commentId: uuidParam('thread\'s first comment') },
+    params: { checkId: uuidParam('check'), commentId: uuidParam("thread's first comment") },
     body: { schema: resolveSchema },
     responses: { 200: json('Resolved.', res.okSchema), ...errors([400, 401, 403, 404, 409]) },
   },
@@ -751,14 +888,17 @@ export const OPERATIONS: Operation[] = [
       'when the alternate calculation shares a name with the sheet (400), the work carried over from a returned check confirmed (409 with ' +
       '`details.carriedOver`) and the password. `approve` (password) and `reject` by an approver who saved no version since the last approved one (later ones included), did not ' +
       'submit the version and, when the version under check records itself as safety-related, is not its checker. The rules are applied again at ' +
-      'every decision. Each signature is bound to the version\'s SHA-256. An illegal transition is 409 with `details.state`.',
+      "every decision. Each signature is bound to the version's SHA-256. An illegal transition is 409 with `details.state`.",
     tags: ['checks'],
     auth: 'session or API token',
     params: { checkId: uuidParam('check') },
     body: { schema: decisionSchema },
     responses: {
       200: json('The new state.', res.decisionResultSchema),
-      ...errors([400, 401, 403, 404, 409], { 403: 'Not the checker or an eligible approver (`details.rule`), or a wrong password.', 409: 'Not possible in the current state (`details.state`), or open comment threads.' }),
+      ...errors([400, 401, 403, 404, 409], {
+        403: 'Not the checker or an eligible approver (`details.rule`), or a wrong password.',
+        409: 'Not possible in the current state (`details.state`), or open comment threads.',
+      }),
     },
   },
 
@@ -789,7 +929,9 @@ export const OPERATIONS: Operation[] = [
     body: { schema: issueRequestSchema },
     responses: {
       202: json('Accepted: the job that issues it.', res.issueAcceptedSchema),
-      ...errors([400, 401, 403, 404, 409], { 409: 'The version is not approved, is already issued, or another issue of this sheet is in progress.' }),
+      ...errors([400, 401, 403, 404, 409], {
+        409: 'The version is not approved, is already issued, or another issue of this sheet is in progress.',
+      }),
     },
   },
   {
@@ -814,7 +956,10 @@ export const OPERATIONS: Operation[] = [
     params: projectParam,
     query: registerQuerySchema,
     responses: {
-      200: { description: 'Every issued revision with its status.', content: { 'application/json': res.registerSchema, 'text/csv': 'binary' } },
+      200: {
+        description: 'Every issued revision with its status.',
+        content: { 'application/json': res.registerSchema, 'text/csv': 'binary' },
+      },
       ...errors([400, 401, 404]),
     },
   },
@@ -828,7 +973,10 @@ export const OPERATIONS: Operation[] = [
     auth: 'session or API token',
     params: { revisionId: uuidParam('revision') },
     query: downloadQuerySchema,
-    responses: { 200: { description: 'The PDF.', content: { 'application/pdf': 'binary' } }, ...errors([400, 401, 403, 404, 503]) },
+    responses: {
+      200: { description: 'The PDF.', content: { 'application/pdf': 'binary' } },
+      ...errors([400, 401, 403, 404, 503]),
+    },
   },
   {
     method: 'POST',
@@ -849,13 +997,13 @@ export const OPERATIONS: Operation[] = [
     summary: 'Is this PDF, or this verification code, an authentic issued revision?',
     description:
       'Anyone, signed in or not. Send the PDF as multipart/form-data (field `file`, at most 30 MiB) or a verification code as JSON. The answer says ' +
-      'whether the file\'s SHA-256 is in the register and its embedded signature verifies with the organisation\'s certificate, which revision it is, ' +
+      "whether the file's SHA-256 is in the register and its embedded signature verifies with the organisation's certificate, which revision it is, " +
       'and whether it is current, superseded or withdrawn. A stamped copy of a superseded or withdrawn revision (the issued file, byte for byte, ' +
       'then an incremental update signed by document control over the whole file) is answered as authentic with `checks.stampedCopy` true ' +
-      'when the prefix is a registered original and both signatures verify with the organisation\'s certificate. ' +
+      "when the prefix is a registered original and both signatures verify with the organisation's certificate. " +
       'A file that is not a PDF, or one never issued, gets an answer, not an error. ' +
       'A file whose signature container is larger than 64 KiB of DER or holds more than 4,096 ASN.1 elements is not read: 413 (an issued ' +
-      'revision\'s signature is a few KiB). Each client address may verify 30 times a minute (`WORLDSHEET_VERIFY_RATE_PER_MINUTE`): 429 beyond.',
+      "revision's signature is a few KiB). Each client address may verify 30 times a minute (`WORLDSHEET_VERIFY_RATE_PER_MINUTE`): 429 beyond.",
     tags: ['revisions'],
     auth: 'none',
     body: { schema: verifyCodeSchema, description: 'Or multipart/form-data with a `file` part.' },
@@ -872,7 +1020,8 @@ export const OPERATIONS: Operation[] = [
     method: 'GET',
     path: '/api/software-impact',
     operationId: 'softwareImpact',
-    summary: 'Versions and revisions evaluated with an engine version or constants edition (software problem reporting)',
+    summary:
+      'Versions and revisions evaluated with an engine version or constants edition (software problem reporting)',
     description:
       'Any signed-in user; only projects the caller is a member of (administrators: all). Lists every version evaluated with `engineVersion` ' +
       'and/or `constantsEdition`, optionally only those whose calculation cells call `function`, with the revision issued from it; the distinct ' +
@@ -882,7 +1031,10 @@ export const OPERATIONS: Operation[] = [
     auth: 'session or API token',
     query: softwareImpactQuerySchema,
     responses: {
-      200: { description: 'The matching versions, with counts.', content: { 'application/json': res.softwareImpactSchema, 'text/csv': 'binary' } },
+      200: {
+        description: 'The matching versions, with counts.',
+        content: { 'application/json': res.softwareImpactSchema, 'text/csv': 'binary' },
+      },
       ...errors([400, 401]),
     },
   },
@@ -892,11 +1044,11 @@ export const OPERATIONS: Operation[] = [
     method: 'POST',
     path: '/api/evaluate',
     operationId: 'evaluate',
-    summary: 'Evaluate cells with the server\'s engine',
+    summary: "Evaluate cells with the server's engine",
     description:
       'Any signed-in user. Cells are evaluated in order in a sandboxed worker with a time and a memory limit. `sheetKey` sends a sheet to the same ' +
       'worker each time, so its cache makes re-evaluation incremental. `attachments` (with `sheetId`) names CSV attachments of that sheet to use ' +
-      'as input tables; `fromRevision(…)` citations resolve to issued revisions of that sheet\'s project (without `sheetId`, to an error); ' +
+      "as input tables; `fromRevision(…)` citations resolve to issued revisions of that sheet's project (without `sheetId`, to an error); " +
       'the caller must be a member of its project, and results are cached per project only. At most 2 MiB of body, 20,000 statements and ' +
       '32 MiB of results per request (413 beyond, saying what to reduce). The workers are shared fairly: each caller may have two ' +
       'evaluations in progress (429 with `Retry-After` beyond); a cell that hit the time limit is not run again after the same cells above it.',
@@ -917,7 +1069,7 @@ export const OPERATIONS: Operation[] = [
 const TAGS: { name: Tag; description: string }[] = [
   { name: 'meta', description: 'Health and this document.' },
   { name: 'sign-in', description: 'Signing in and recovering an account.' },
-  { name: 'account', description: 'The caller\'s own account and API tokens.' },
+  { name: 'account', description: "The caller's own account and API tokens." },
   { name: 'admin', description: 'Accounts, for administrators.' },
   { name: 'projects', description: 'Projects, roles and the audit trail.' },
   { name: 'sheets', description: 'Calculation sheets and their immutable versions.' },
@@ -965,10 +1117,19 @@ function parametersOf(op: Operation): Record<string, unknown>[] {
     out.push({ name, in: 'path', required: true, description: p.description, schema: jsonSchemaOf(p.schema, 'input') });
   }
   if (op.query) {
-    const query = jsonSchemaOf(op.query, 'input') as { properties?: Record<string, Record<string, unknown>>; required?: string[] };
+    const query = jsonSchemaOf(op.query, 'input') as {
+      properties?: Record<string, Record<string, unknown>>;
+      required?: string[];
+    };
     for (const [name, schema] of Object.entries(query.properties ?? {})) {
       const { description, ...rest } = schema;
-      out.push({ name, in: 'query', required: (query.required ?? []).includes(name), ...(description ? { description } : {}), schema: rest });
+      out.push({
+        name,
+        in: 'query',
+        required: (query.required ?? []).includes(name),
+        ...(description ? { description } : {}),
+        schema: rest,
+      });
     }
   }
   return out;
@@ -988,7 +1149,11 @@ function operationObject(op: Operation): Record<string, unknown> {
           requestBody: {
             required: true,
             ...(op.body.description ? { description: op.body.description } : {}),
-            content: { [op.body.contentType ?? 'application/json']: { schema: schemaOrRef(op.body.schema, 'input', op.body.contentType ?? 'application/json') } },
+            content: {
+              [op.body.contentType ?? 'application/json']: {
+                schema: schemaOrRef(op.body.schema, 'input', op.body.contentType ?? 'application/json'),
+              },
+            },
           },
         }
       : {}),
@@ -997,7 +1162,16 @@ function operationObject(op: Operation): Record<string, unknown> {
         status,
         {
           description: r.description,
-          ...(r.content ? { content: Object.fromEntries(Object.entries(r.content).map(([type, body]) => [type, { schema: schemaOrRef(body, 'output', type) }])) } : {}),
+          ...(r.content
+            ? {
+                content: Object.fromEntries(
+                  Object.entries(r.content).map(([type, body]) => [
+                    type,
+                    { schema: schemaOrRef(body, 'output', type) },
+                  ]),
+                ),
+              }
+            : {}),
         },
       ]),
     ),
@@ -1029,19 +1203,23 @@ export function buildOpenApiDocument(): Record<string, unknown> {
     tags: TAGS,
     paths,
     components: {
-      schemas: Object.fromEntries(Object.entries(COMPONENTS).map(([name, schema]) => [name, jsonSchemaOf(schema, 'output')])),
+      schemas: Object.fromEntries(
+        Object.entries(COMPONENTS).map(([name, schema]) => [name, jsonSchemaOf(schema, 'output')]),
+      ),
       securitySchemes: {
         sessionCookie: {
           type: 'apiKey',
           in: 'cookie',
           name: 'next-auth.session-token',
-          description: 'The browser session set by signing in (`__Host-next-auth.session-token`, Secure, when served over HTTPS). Ends after idle time, 12 hours or sign-out.',
+          description:
+            'The browser session set by signing in (`__Host-next-auth.session-token`, Secure, when served over HTTPS). Ends after idle time, 12 hours or sign-out.',
         },
         apiToken: {
           type: 'http',
           scheme: 'bearer',
           bearerFormat: `${API_TOKEN_PREFIX}…`,
-          description: 'An API token made on the account page, acting with its owner\'s roles. It cannot create tokens or change the password.',
+          description:
+            "An API token made on the account page, acting with its owner's roles. It cannot create tokens or change the password.",
         },
       },
     },

@@ -45,7 +45,9 @@ export type PathParamName = keyof typeof PATH_PARAMS;
 type Parsed<P> = { [K in keyof P]: K extends PathParamName ? z.output<(typeof PATH_PARAMS)[K]['schema']> : never };
 
 /** The segments parsed, or the name of the first one that does not fit. */
-export function checkPathParams<P extends Partial<Record<PathParamName, string>>>(raw: P): { ok: true; value: Parsed<P> } | { ok: false; name: string; what: string } {
+export function checkPathParams<P extends Partial<Record<PathParamName, string>>>(
+  raw: P,
+): { ok: true; value: Parsed<P> } | { ok: false; name: string; what: string } {
   const out: Record<string, unknown> = {};
   for (const [name, value] of Object.entries(raw)) {
     const spec = (PATH_PARAMS as Record<string, { what: string; schema: ZodType }>)[name];
@@ -58,7 +60,9 @@ export function checkPathParams<P extends Partial<Record<PathParamName, string>>
 }
 
 /** For route handlers: the segments parsed, or 404 naming what does not exist. */
-export async function routeParams<P extends Partial<Record<PathParamName, string>>>(params: Promise<P> | P): Promise<Parsed<P>> {
+export async function routeParams<P extends Partial<Record<PathParamName, string>>>(
+  params: Promise<P> | P,
+): Promise<Parsed<P>> {
   const checked = checkPathParams(await params);
   if (!checked.ok) throw new AppError('not_found', `No such ${checked.what}.`);
   return checked.value;

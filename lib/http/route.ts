@@ -41,14 +41,24 @@ export function checkBrowserWrite(request: Request, options: GuardOptions = {}):
   const origin = request.headers.get('origin');
   const own = new URL(appUrl()).origin;
   if (origin !== null) {
-    if (origin !== own) throw new AppError('forbidden', `Refused: this request comes from another site (${origin.slice(0, 100)}), not from ${own}.`);
+    if (origin !== own)
+      throw new AppError(
+        'forbidden',
+        `Refused: this request comes from another site (${origin.slice(0, 100)}), not from ${own}.`,
+      );
   } else if (request.headers.get('sec-fetch-site') !== 'same-origin') {
-    throw new AppError('forbidden', `Refused: a change made with a browser session must come from the app's own pages (${own}); the request said neither Origin nor Sec-Fetch-Site: same-origin. Scripts use an API token.`);
+    throw new AppError(
+      'forbidden',
+      `Refused: a change made with a browser session must come from the app's own pages (${own}); the request said neither Origin nor Sec-Fetch-Site: same-origin. Scripts use an API token.`,
+    );
   }
   const type = mediaType(request);
   const allowed = options.multipart ? ['application/json', 'multipart/form-data'] : ['application/json'];
   if (type === null ? hasBody(request) : !allowed.includes(type)) {
-    throw new AppError('unsupported_type', `Send the request body as ${allowed.join(' or ')}${type ? `, not ${type}` : ''}.`);
+    throw new AppError(
+      'unsupported_type',
+      `Send the request body as ${allowed.join(' or ')}${type ? `, not ${type}` : ''}.`,
+    );
   }
 }
 
@@ -65,10 +75,15 @@ export async function guardRequest(request: Request, options: GuardOptions = {})
   // module's parsers are also used outside a request.
   const { getActor } = await import('@/lib/auth/current-actor');
   const actor = await getActor();
-  if (actor?.tokenScope === 'read') throw new AppError('forbidden', 'This API token is read-only: it may only make GET and HEAD requests.');
+  if (actor?.tokenScope === 'read')
+    throw new AppError('forbidden', 'This API token is read-only: it may only make GET and HEAD requests.');
 }
 
-export async function handle(request: Request, fn: () => Promise<Response>, options: GuardOptions = {}): Promise<Response> {
+export async function handle(
+  request: Request,
+  fn: () => Promise<Response>,
+  options: GuardOptions = {},
+): Promise<Response> {
   try {
     await guardRequest(request, options);
     return await fn();
@@ -85,12 +100,19 @@ export async function parseJson<T>(request: Request, schema: ZodType<T>, maxByte
 export function parseValue<T>(value: unknown, schema: ZodType<T>): T {
   const unstorable = unstorableTextPath(value);
   if (unstorable !== null) {
-    throw new AppError('bad_request', `${unstorable || 'body'}: holds a character that cannot be stored (U+0000, or half of a surrogate pair)`);
+    throw new AppError(
+      'bad_request',
+      `${unstorable || 'body'}: holds a character that cannot be stored (U+0000, or half of a surrogate pair)`,
+    );
   }
   const parsed = schema.safeParse(value);
   if (!parsed.success) {
     const issue = parsed.error.issues[0];
-    throw new AppError('bad_request', `${issue.path.join('.') || 'body'}: ${issue.message}`, parsed.error.issues.slice(0, 10));
+    throw new AppError(
+      'bad_request',
+      `${issue.path.join('.') || 'body'}: ${issue.message}`,
+      parsed.error.issues.slice(0, 10),
+    );
   }
   return parsed.data;
 }

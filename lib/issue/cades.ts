@@ -67,7 +67,10 @@ export class CadesSigner extends Signer {
       seq([oid(OID.messageDigest), set([octets(createHash('sha256').update(pdfBuffer).digest())])]),
       // SigningCertificateV2 ::= SEQUENCE { certs SEQUENCE OF ESSCertIDv2 }; ESSCertIDv2 with the
       // default hash algorithm (SHA-256) left out, as DER requires.
-      seq([oid(OID.signingCertificateV2), set([seq([seq([seq([octets(createHash('sha256').update(signerDer).digest())])])])])]),
+      seq([
+        oid(OID.signingCertificateV2),
+        set([seq([seq([seq([octets(createHash('sha256').update(signerDer).digest())])])])]),
+      ]),
     ];
     const signedAttrs = derSetOf(attributes);
     const signature = createSign('sha256').update(der(signedAttrs)).sign(this.identity.keyPem);
@@ -85,7 +88,12 @@ export class CadesSigner extends Signer {
       int(1),
       set([algorithm(OID.sha256)]),
       seq([oid(OID.data)]),
-      asn1.create(asn1.Class.CONTEXT_SPECIFIC, 0, true, certs.map((c) => pki.certificateToAsn1(c))),
+      asn1.create(
+        asn1.Class.CONTEXT_SPECIFIC,
+        0,
+        true,
+        certs.map((c) => pki.certificateToAsn1(c)),
+      ),
       set([signerInfo]),
     ]);
     return der(seq([oid(OID.signedData), asn1.create(asn1.Class.CONTEXT_SPECIFIC, 0, true, [signedData])]));
@@ -132,14 +140,18 @@ const SIGNATURE_BYTE_RANGE = /\/ByteRange\s*\[\s*(\d+)\s+(\d+)\s+(\d+)\s+(\d+)\s
 export const CONTAINER_TOO_LARGE = `Not an authentic issued revision: signature container too large (more than ${SIGNATURE_BUDGET.maxDerBytes / 1024} KiB; an issued revision's signature is a few KiB), so it was not read.`;
 export const CONTAINER_TOO_COMPLEX = `Not an authentic issued revision: signature container too complex (more than ${SIGNATURE_BUDGET.maxElements.toLocaleString('en')} ASN.1 elements, nested deeper than ${SIGNATURE_BUDGET.maxDepth}, or beyond the time and memory allowed to read it), so it was not read.`;
 
-export type DerBudgetAnswer = { ok: true; bytes: number; elements: number } | { ok: false; refused: 'too-large' | 'too-complex' | 'malformed' };
+export type DerBudgetAnswer =
+  { ok: true; bytes: number; elements: number } | { ok: false; refused: 'too-large' | 'too-complex' | 'malformed' };
 
 /**
  * Walks the DER of one element and everything inside it, counting TLV headers without building any
  * object, and refuses as soon as the budget is passed: the cost is bounded by the budget, not by what
  * the file claims. Bytes after the element (the placeholder's zero padding) are not read.
  */
-export function checkDerBudget(bytes: Uint8Array, budget: { maxDerBytes: number; maxElements: number; maxDepth: number } = SIGNATURE_BUDGET): DerBudgetAnswer {
+export function checkDerBudget(
+  bytes: Uint8Array,
+  budget: { maxDerBytes: number; maxElements: number; maxDepth: number } = SIGNATURE_BUDGET,
+): DerBudgetAnswer {
   let pos = 0;
   let elements = 0;
   // End offsets of the constructed elements we are inside.
@@ -189,7 +201,13 @@ export function checkDerBudget(bytes: Uint8Array, budget: { maxDerBytes: number;
 
 /** Where a PDF's last signature is, read from the file's text without parsing the container. */
 export type LocatedSignature =
-  | { ok: true; ranges: [number, number, number, number]; coversWholeFile: boolean; subFilter: string | null; der: Buffer }
+  | {
+      ok: true;
+      ranges: [number, number, number, number];
+      coversWholeFile: boolean;
+      subFilter: string | null;
+      der: Buffer;
+    }
   | { ok: false; check: PdfSignatureCheck };
 
 const noSignature = (problem: string, extra: Partial<PdfSignatureCheck> = {}): PdfSignatureCheck => ({
@@ -214,27 +232,42 @@ export function locateSignature(pdf: Buffer): LocatedSignature {
   if (ranges.length === 0) return { ok: false, check: noSignature('The file carries no digital signature.') };
   const m = ranges[ranges.length - 1];
   const [a, b, c, d] = m.slice(1, 5).map(Number);
-  if (a !== 0 || b <= 0 || c <= b || c + d > pdf.length) return { ok: false, check: noSignature('The signature\u2019s byte ranges do not fit the file.') };
+  if (a !== 0 || b <= 0 || c <= b || c + d > pdf.length)
+    return { ok: false, check: noSignature('The signature\u2019s byte ranges do not fit the file.') };
   const coversWholeFile = c + d === pdf.length;
-  const subFilter = /\/SubFilter\s*\/([A-Za-z0-9.]+)/.exec(text.slice(Math.max(0, m.index - 2000), m.index + 200))?.[1] ?? null;
+  const subFilter =
+    /\/SubFilter\s*\/([A-Za-z0-9.]+)/.exec(text.slice(Math.max(0, m.index - 2000), m.index + 200))?.[1] ?? null;
   // The /Contents string between the ranges: <hex>, padded with zeros after the DER. A placeholder
   // may be larger than the DER it holds, but not more than twice the DER budget (four times in hex
   // digits) plus the brackets: anything longer is refused before a byte of it is decoded.
-  if (c - b > 4 * SIGNATURE_BUDGET.maxDerBytes + 2) return { ok: false, check: noSignature(CONTAINER_TOO_LARGE, { coversWholeFile, subFilter, refused: 'too-large' }) };
+  if (c - b > 4 * SIGNATURE_BUDGET.maxDerBytes + 2)
+    return { ok: false, check: noSignature(CONTAINER_TOO_LARGE, { coversWholeFile, subFilter, refused: 'too-large' }) };
   const hex = text.slice(b, c).replace(/^</, '').replace(/>$/, '');
-  if (!/^[0-9A-Fa-f]*$/.test(hex)) return { ok: false, check: noSignature('The signature cannot be read.', { coversWholeFile, subFilter }) };
+  if (!/^[0-9A-Fa-f]*$/.test(hex))
+    return { ok: false, check: noSignature('The signature cannot be read.', { coversWholeFile, subFilter }) };
   const der = Buffer.from(hex.length % 2 ? `${hex}0` : hex, 'hex');
   const budget = checkDerBudget(der);
   if (!budget.ok) {
-    if (budget.refused === 'malformed') return { ok: false, check: noSignature('The signature cannot be read.', { coversWholeFile, subFilter }) };
-    return { ok: false, check: noSignature(budget.refused === 'too-large' ? CONTAINER_TOO_LARGE : CONTAINER_TOO_COMPLEX, { coversWholeFile, subFilter, refused: budget.refused }) };
+    if (budget.refused === 'malformed')
+      return { ok: false, check: noSignature('The signature cannot be read.', { coversWholeFile, subFilter }) };
+    return {
+      ok: false,
+      check: noSignature(budget.refused === 'too-large' ? CONTAINER_TOO_LARGE : CONTAINER_TOO_COMPLEX, {
+        coversWholeFile,
+        subFilter,
+        refused: budget.refused,
+      }),
+    };
   }
   return { ok: true, ranges: [a, b, c, d], coversWholeFile, subFilter, der: der.subarray(0, budget.bytes) };
 }
 
 /** SHA-256 of the bytes a signature's ranges cover. */
 export function signedRangesDigest(pdf: Buffer, [a, b, c, d]: [number, number, number, number]): Buffer {
-  return createHash('sha256').update(pdf.subarray(a, a + b)).update(pdf.subarray(c, c + d)).digest();
+  return createHash('sha256')
+    .update(pdf.subarray(a, a + b))
+    .update(pdf.subarray(c, c + d))
+    .digest();
 }
 
 /** What parsing the container found: all of a PdfSignatureCheck but what locateSignature reads. */
@@ -247,11 +280,20 @@ export type SignedDataCheck = Omit<PdfSignatureCheck, 'coversWholeFile' | 'subFi
  * thread (signature-parser.ts), never on its main thread.
  */
 export function verifySignedData(derBytes: Uint8Array, digest: Uint8Array): SignedDataCheck {
-  const none = (problem: string): SignedDataCheck => ({ valid: false, signerName: null, signerOrganisation: null, certificateSha256: null, problem });
+  const none = (problem: string): SignedDataCheck => ({
+    valid: false,
+    signerName: null,
+    signerOrganisation: null,
+    certificateSha256: null,
+    problem,
+  });
   try {
-    const cms = asn1.fromDer(forge.util.createBuffer(Buffer.from(derBytes).toString('binary')), { strict: false, parseAllBytes: false } as never);
+    const cms = asn1.fromDer(forge.util.createBuffer(Buffer.from(derBytes).toString('binary')), {
+      strict: false,
+      parseAllBytes: false,
+    } as never);
     const signedData = (cms.value as forge.asn1.Asn1[])[1].value as forge.asn1.Asn1[];
-    const sd = (signedData[0].value as forge.asn1.Asn1[]);
+    const sd = signedData[0].value as forge.asn1.Asn1[];
     const certsNode = sd.find((n) => n.tagClass === asn1.Class.CONTEXT_SPECIFIC && n.type === 0);
     const signerInfos = sd[sd.length - 1].value as forge.asn1.Asn1[];
     const si = signerInfos[0].value as forge.asn1.Asn1[];
@@ -270,14 +312,28 @@ export function verifySignedData(derBytes: Uint8Array, digest: Uint8Array): Sign
       certificateSha256: createHash('sha256').update(signerDer).digest('hex'),
     };
     const attrs = attrsNode.value as forge.asn1.Asn1[];
-    const digestAttr = attrs.find((x) => asn1.derToOid((x.value as forge.asn1.Asn1[])[0].value as string) === OID.messageDigest);
+    const digestAttr = attrs.find(
+      (x) => asn1.derToOid((x.value as forge.asn1.Asn1[])[0].value as string) === OID.messageDigest,
+    );
     if (!digestAttr) return { ...info, valid: false, problem: 'The signature has no message digest.' };
-    const recorded = Buffer.from(((digestAttr.value as forge.asn1.Asn1[])[1].value as forge.asn1.Asn1[])[0].value as string, 'binary');
-    if (!recorded.equals(Buffer.from(digest))) return { ...info, valid: false, problem: 'The file was changed after it was signed: its digest no longer matches the signature.' };
+    const recorded = Buffer.from(
+      ((digestAttr.value as forge.asn1.Asn1[])[1].value as forge.asn1.Asn1[])[0].value as string,
+      'binary',
+    );
+    if (!recorded.equals(Buffer.from(digest)))
+      return {
+        ...info,
+        valid: false,
+        problem: 'The file was changed after it was signed: its digest no longer matches the signature.',
+      };
     const asSet = der(set(attrs));
     const publicKey = createPublicKey(pki.publicKeyToPem(signer.publicKey));
     const ok = createVerify('sha256').update(asSet).verify(publicKey, signatureValue);
-    return { ...info, valid: ok, problem: ok ? null : 'The signature value does not verify with the certificate it carries.' };
+    return {
+      ...info,
+      valid: ok,
+      problem: ok ? null : 'The signature value does not verify with the certificate it carries.',
+    };
   } catch (error) {
     if (process.env.WORLDSHEET_DEBUG_SIGNATURES) console.error(error);
     return none('The signature cannot be read.');

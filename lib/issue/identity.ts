@@ -17,7 +17,14 @@ export interface LoadedIdentity extends SigningIdentity {
 
 const ORGANISATION = process.env.WORLDSHEET_SIGNING_ORGANISATION ?? 'Kestrelwick Beam Systems Ltd';
 
-function certificate(subject: forge.pki.CertificateField[], issuer: forge.pki.CertificateField[], publicKey: forge.pki.PublicKey, serial: string, years: number, extensions: object[]) {
+function certificate(
+  subject: forge.pki.CertificateField[],
+  issuer: forge.pki.CertificateField[],
+  publicKey: forge.pki.PublicKey,
+  serial: string,
+  years: number,
+  extensions: object[],
+) {
   const cert = forge.pki.createCertificate();
   cert.publicKey = publicKey;
   cert.serialNumber = serial;
@@ -95,13 +102,17 @@ export function signingIdentity(): LoadedIdentity {
     const folder = localKeyFolder();
     keyFile = path.join(folder, 'signing.key.pem');
     certFile = path.join(folder, 'signing.crt.pem');
-    if (!existsSync(/* turbopackIgnore: true */ keyFile) || !existsSync(/* turbopackIgnore: true */ certFile)) createTestIdentity(folder);
+    if (!existsSync(/* turbopackIgnore: true */ keyFile) || !existsSync(/* turbopackIgnore: true */ certFile))
+      createTestIdentity(folder);
     source = `local test certificate authority in ${folder}`;
   }
   const certificatePems = pemCertificates(readFileSync(/* turbopackIgnore: true */ certFile, 'utf8'));
   if (certificatePems.length === 0) throw new Error(`${certFile} holds no certificate`);
   const keyPem = readFileSync(/* turbopackIgnore: true */ keyFile, 'utf8');
-  const der = Buffer.from(forge.asn1.toDer(forge.pki.certificateToAsn1(forge.pki.certificateFromPem(certificatePems[0]))).getBytes(), 'binary');
+  const der = Buffer.from(
+    forge.asn1.toDer(forge.pki.certificateToAsn1(forge.pki.certificateFromPem(certificatePems[0]))).getBytes(),
+    'binary',
+  );
   cached = { keyPem, certificatePems, certificateSha256: createHash('sha256').update(der).digest('hex'), source };
   return cached;
 }

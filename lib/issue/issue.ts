@@ -42,7 +42,9 @@ export const issueRequestSchema = z.object({
   versionNumber: z.number().int().positive().max(INT4_MAX),
   password: z.string().min(1, 'enter your password to sign').max(200),
 });
-export const withdrawSchema = z.object({ reason: z.string().trim().min(1, 'say why the revision is withdrawn').max(5000) });
+export const withdrawSchema = z.object({
+  reason: z.string().trim().min(1, 'say why the revision is withdrawn').max(5000),
+});
 export const registerQuerySchema = z.object({
   status: z.enum(['current', 'superseded', 'withdrawn', 'all']).default('all'),
   q: z.string().max(200).optional(),
@@ -58,7 +60,12 @@ const utc = (d: Date) => `${d.toISOString().slice(0, 19).replace('T', ' ')} UTC`
 
 // ── Request ──────────────────────────────────────────────────────────────────────────────────
 
-export async function requestIssue(db: Kysely<Database>, actor: Actor, sheet: { id: string; project_id: string }, input: z.infer<typeof issueRequestSchema>) {
+export async function requestIssue(
+  db: Kysely<Database>,
+  actor: Actor,
+  sheet: { id: string; project_id: string },
+  input: z.infer<typeof issueRequestSchema>,
+) {
   const approved = await db
     .selectFrom('checks')
     .select(['id', 'version_number', 'version_sha256'])
@@ -66,17 +73,46 @@ export async function requestIssue(db: Kysely<Database>, actor: Actor, sheet: { 
     .where('version_number', '=', input.versionNumber)
     .where('state', '=', 'approved')
     .executeTakeFirst();
-  if (!approved) throw new AppError('conflict', `Version ${input.versionNumber} is not approved; only an approved version is issued.`, { state: 'not_approved' });
-  const issued = await db.selectFrom('revisions').select(['code', 'version_number']).where('sheet_id', '=', sheet.id).where('version_number', '>=', input.versionNumber).orderBy('sequence', 'desc').executeTakeFirst();
-  if (issued) throw new AppError('conflict', `Version ${issued.version_number} is already issued as revision ${issued.code}; a revision is issued from a later approved version.`);
+  if (!approved)
+    throw new AppError(
+      'conflict',
+      `Version ${input.versionNumber} is not approved; only an approved version is issued.`,
+      { state: 'not_approved' },
+    );
+  const issued = await db
+    .selectFrom('revisions')
+    .select(['code', 'version_number'])
+    .where('sheet_id', '=', sheet.id)
+    .where('version_number', '>=', input.versionNumber)
+    .orderBy('sequence', 'desc')
+    .executeTakeFirst();
+  if (issued)
+    throw new AppError(
+      'conflict',
+      `Version ${issued.version_number} is already issued as revision ${issued.code}; a revision is issued from a later approved version.`,
+    );
   // A revision is never issued on an input that has since been superseded or withdrawn.
   const stale = await supersededInputs(db, sheet.id, input.versionNumber);
   if (stale.length) {
-    const list = stale.map((s) => `${s.sheet} rev. ${s.revision} (${s.status === 'withdrawn' ? 'withdrawn' : `superseded by rev. ${s.currentRevision}`})`).join(', ');
-    throw new AppError('conflict', `Version ${input.versionNumber} cites ${list}; revise the sheet to cite the current revision, have it checked and approved, then issue.`, {
-      state: 'superseded_inputs',
-      citations: stale.map((s) => ({ sheet: s.sheet, revision: s.revision, status: s.status, currentRevision: s.currentRevision })),
-    });
+    const list = stale
+      .map(
+        (s) =>
+          `${s.sheet} rev. ${s.revision} (${s.status === 'withdrawn' ? 'withdrawn' : `superseded by rev. ${s.currentRevision}`})`,
+      )
+      .join(', ');
+    throw new AppError(
+      'conflict',
+      `Version ${input.versionNumber} cites ${list}; revise the sheet to cite the current revision, have it checked and approved, then issue.`,
+      {
+        state: 'superseded_inputs',
+        citations: stale.map((s) => ({
+          sheet: s.sheet,
+          revision: s.revision,
+          status: s.status,
+          currentRevision: s.currentRevision,
+        })),
+      },
+    );
   }
 
   await reauthenticateToSign(db, actor, {
@@ -84,14 +120,25 @@ export async function requestIssue(db: Kysely<Database>, actor: Actor, sheet: { 
     meaning: 'issued',
     password: input.password,
     // A disabled or locked account is told what a wrong password is told, as issuing always has.
-    messages: { noPassword: 'Your account has no password; set one on your account page to sign records.', disabledOrLocked: WRONG_PASSWORD_MESSAGE },
+    messages: {
+      noPassword: 'Your account has no password; set one on your account page to sign records.',
+      disabledOrLocked: WRONG_PASSWORD_MESSAGE,
+    },
   });
 
-  const project = await db.selectFrom('projects').select(['revision_scheme']).where('id', '=', sheet.project_id).executeTakeFirstOrThrow();
+  const project = await db
+    .selectFrom('projects')
+    .select(['revision_scheme'])
+    .where('id', '=', sheet.project_id)
+    .executeTakeFirstOrThrow();
   try {
     return await db.transaction().execute(async (trx) => {
       await trx.selectFrom('sheets').select('id').where('id', '=', sheet.id).forUpdate().executeTakeFirstOrThrow();
-      const last = await trx.selectFrom('revisions').select(sql<number | null>`max(sequence)`.as('n')).where('sheet_id', '=', sheet.id).executeTakeFirstOrThrow();
+      const last = await trx
+        .selectFrom('revisions')
+        .select(sql<number | null>`max(sequence)`.as('n'))
+        .where('sheet_id', '=', sheet.id)
+        .executeTakeFirstOrThrow();
       const sequence = last.n === null ? 0 : Number(last.n) + 1;
       const code = revisionCode(project.revision_scheme, sequence);
       const job = await trx
@@ -111,7 +158,13 @@ export async function requestIssue(db: Kysely<Database>, actor: Actor, sheet: { 
         .returning(['id'])
         .executeTakeFirstOrThrow();
       await jobSender().send(ISSUE_QUEUE, { issueJobId: job.id }, { db: kyselyJobDb(trx), singletonKey: job.id });
-      await recordAudit(trx, actor, { action: 'revision.request', objectType: 'sheet', objectId: sheet.id, projectId: sheet.project_id, newValue: { version: approved.version_number, revision: code, job: job.id } });
+      await recordAudit(trx, actor, {
+        action: 'revision.request',
+        objectType: 'sheet',
+        objectId: sheet.id,
+        projectId: sheet.project_id,
+        newValue: { version: approved.version_number, revision: code, job: job.id },
+      });
       return { jobId: job.id, revision: code, versionNumber: approved.version_number };
     });
   } catch (error) {
@@ -127,7 +180,21 @@ export async function issueJobStatus(db: Kysely<Database>, jobId: string) {
   return db
     .selectFrom('issue_jobs as j')
     .leftJoin('revisions as r', 'r.id', 'j.revision_id')
-    .select(['j.id', 'j.sheet_id', 'j.project_id', 'j.state', 'j.step', 'j.error', 'j.revision_code', 'j.version_number', 'j.created_at', 'j.finished_at', 'r.id as revision_id', 'r.pdf_sha256', 'r.verification_code'])
+    .select([
+      'j.id',
+      'j.sheet_id',
+      'j.project_id',
+      'j.state',
+      'j.step',
+      'j.error',
+      'j.revision_code',
+      'j.version_number',
+      'j.created_at',
+      'j.finished_at',
+      'r.id as revision_id',
+      'r.pdf_sha256',
+      'r.verification_code',
+    ])
     .where('j.id', '=', jobId)
     .executeTakeFirst();
 }
@@ -151,21 +218,56 @@ export async function pendingIssueJobs(db: Kysely<Database>): Promise<string[]> 
 /** Gathers what the PDF shows. */
 export async function revisionPdfData(db: Kysely<Database>, jobId: string): Promise<RevisionPdfData> {
   const job = await db.selectFrom('issue_jobs').selectAll().where('id', '=', jobId).executeTakeFirstOrThrow();
-  const sheet = await db.selectFrom('sheets').select(['number', 'safety_related']).where('id', '=', job.sheet_id).executeTakeFirstOrThrow();
-  const project = await db.selectFrom('projects').select(['code', 'name', 'legal_owner']).where('id', '=', job.project_id).executeTakeFirstOrThrow();
+  const sheet = await db
+    .selectFrom('sheets')
+    .select(['number', 'safety_related'])
+    .where('id', '=', job.sheet_id)
+    .executeTakeFirstOrThrow();
+  const project = await db
+    .selectFrom('projects')
+    .select(['code', 'name', 'legal_owner'])
+    .where('id', '=', job.project_id)
+    .executeTakeFirstOrThrow();
   const version = (await getVersion(db, job.sheet_id, job.version_number))!;
-  const check = await db.selectFrom('checks').select(['verification_method', 'base_version_number', 'alternate_results', 'tolerance', 'tolerance_text', 'acknowledgements']).where('id', '=', job.check_id).executeTakeFirstOrThrow();
-  const alternate = compareAlternate(version.results, check.alternate_results as SheetResult | null, check.tolerance, check.tolerance_text);
+  const check = await db
+    .selectFrom('checks')
+    .select([
+      'verification_method',
+      'base_version_number',
+      'alternate_results',
+      'tolerance',
+      'tolerance_text',
+      'acknowledgements',
+    ])
+    .where('id', '=', job.check_id)
+    .executeTakeFirstOrThrow();
+  const alternate = compareAlternate(
+    version.results,
+    check.alternate_results as SheetResult | null,
+    check.tolerance,
+    check.tolerance_text,
+  );
   const previous = await db
     .selectFrom('revisions as r')
     .innerJoin('signatures as s', (j) => j.onRef('s.check_id', '=', 'r.check_id').on('s.meaning', '=', 'approved'))
-    .innerJoin('versions as v', (j) => j.onRef('v.sheet_id', '=', 'r.sheet_id').onRef('v.number', '=', 'r.version_number'))
+    .innerJoin('versions as v', (j) =>
+      j.onRef('v.sheet_id', '=', 'r.sheet_id').onRef('v.number', '=', 'r.version_number'),
+    )
     .select(['r.code', 'r.issued_at', 'r.version_number', 'r.status', 's.printed_name', 'v.message'])
     .where('r.sheet_id', '=', job.sheet_id)
     .orderBy('r.sequence')
     .execute();
-  const signatures = await db.selectFrom('signatures').select(['printed_name', 'meaning', 'signed_at']).where('check_id', '=', job.check_id).orderBy('signed_at').execute();
-  const controller = await db.selectFrom('users').select('display_name').where('id', '=', job.requested_by).executeTakeFirstOrThrow();
+  const signatures = await db
+    .selectFrom('signatures')
+    .select(['printed_name', 'meaning', 'signed_at'])
+    .where('check_id', '=', job.check_id)
+    .orderBy('signed_at')
+    .execute();
+  const controller = await db
+    .selectFrom('users')
+    .select('display_name')
+    .where('id', '=', job.requested_by)
+    .executeTakeFirstOrThrow();
   const lastIssued = previous.length ? previous[previous.length - 1].version_number : 0;
   const creators = await db
     .selectFrom('versions as v')
@@ -187,7 +289,10 @@ export async function revisionPdfData(db: Kysely<Database>, jobId: string): Prom
       dateOfIssue: signedAt.toISOString().slice(0, 10),
       title: version.content.title,
       documentType: 'Calculation',
-      creator: creators.map((c) => c.display_name).sort().join(', '),
+      creator: creators
+        .map((c) => c.display_name)
+        .sort()
+        .join(', '),
       approvalPerson: approver,
       status: 'Issued',
       language: 'en',
@@ -196,8 +301,22 @@ export async function revisionPdfData(db: Kysely<Database>, jobId: string): Prom
     safetyRelated: sheet.safety_related,
     cautions: [...(sheet.safety_related ? [SAFETY_RELATED_CAUTION] : []), ...CAUTIONS],
     revisionHistory: [
-      ...previous.map((p) => ({ revision: p.code, date: new Date(p.issued_at).toISOString().slice(0, 10), version: p.version_number, description: p.message, approvedBy: p.printed_name, status: p.status === 'current' ? 'superseded' : p.status })),
-      { revision: job.revision_code, date: signedAt.toISOString().slice(0, 10), version: job.version_number, description: version.message, approvedBy: approver, status: 'current' },
+      ...previous.map((p) => ({
+        revision: p.code,
+        date: new Date(p.issued_at).toISOString().slice(0, 10),
+        version: p.version_number,
+        description: p.message,
+        approvedBy: p.printed_name,
+        status: p.status === 'current' ? 'superseded' : p.status,
+      })),
+      {
+        revision: job.revision_code,
+        date: signedAt.toISOString().slice(0, 10),
+        version: job.version_number,
+        description: version.message,
+        approvedBy: approver,
+        status: 'current',
+      },
     ],
     version: {
       number: version.number,
@@ -207,16 +326,40 @@ export async function revisionPdfData(db: Kysely<Database>, jobId: string): Prom
       engineVersion: version.engineVersion ?? '',
       constantsEdition: version.constantsEdition ?? '',
     },
-    constants: CONSTANTS.filter((k) => new RegExp(`(^|[^A-Za-z0-9_])${k.name}($|[^A-Za-z0-9_])`).test(sources)).map((k) => ({ name: k.name, value: `${k.value} ${k.unit}`.trim(), provenance: k.provenance })),
+    constants: CONSTANTS.filter((k) => new RegExp(`(^|[^A-Za-z0-9_])${k.name}($|[^A-Za-z0-9_])`).test(sources)).map(
+      (k) => ({ name: k.name, value: `${k.value} ${k.unit}`.trim(), provenance: k.provenance }),
+    ),
     signatures: [
-      ...signatures.map((s) => ({ printedName: s.printed_name, meaning: s.meaning, signedAt: utc(new Date(s.signed_at)) })),
+      ...signatures.map((s) => ({
+        printedName: s.printed_name,
+        meaning: s.meaning,
+        signedAt: utc(new Date(s.signed_at)),
+      })),
       { printedName: controller.display_name, meaning: 'issued', signedAt: utc(signedAt) },
     ],
     verificationMethod: check.verification_method ? VERIFICATION_LABELS[check.verification_method] : null,
-    acknowledgements: ((check.acknowledgements ?? []) as StoredAcknowledgement[]).map((a) => ({ item: `${FINDING_LABELS[a.kind]}: ${a.message}`, text: a.text })),
-    designInputChecks: checkDesignInputs(version.content.record, version.results).map((d) => ({ index: d.index, cell: d.cell, engineValue: d.engineValue, match: d.status === 'match', words: d.words })),
+    acknowledgements: ((check.acknowledgements ?? []) as StoredAcknowledgement[]).map((a) => ({
+      item: `${FINDING_LABELS[a.kind]}: ${a.message}`,
+      text: a.text,
+    })),
+    designInputChecks: checkDesignInputs(version.content.record, version.results).map((d) => ({
+      index: d.index,
+      cell: d.cell,
+      engineValue: d.engineValue,
+      match: d.status === 'match',
+      words: d.words,
+    })),
     alternateComparison: alternate.rows.length
-      ? { toleranceText: alternate.toleranceText, rows: alternate.rows.map((r) => ({ name: r.name, sheet: r.sheet, alternate: r.alternate, relativeDifference: r.relativeDifferenceText, outcome: r.words })) }
+      ? {
+          toleranceText: alternate.toleranceText,
+          rows: alternate.rows.map((r) => ({
+            name: r.name,
+            sheet: r.sheet,
+            alternate: r.alternate,
+            relativeDifference: r.relativeDifferenceText,
+            outcome: r.words,
+          })),
+        }
       : null,
     verificationCode: job.verification_code,
     verifyUrl: `${appUrl()}/verify`,
@@ -236,8 +379,14 @@ export async function processIssueJob(db: Kysely<Database>, store: ObjectStore, 
   // or stored PDF rather than making a new one, and a duplicate from a concurrent run is discarded.
   const prefix = pdfPrefixOf(job.id);
   const claim = async (key: string): Promise<string> => {
-    await db.updateTable('issue_jobs').set({ pdf_key: key }).where('id', '=', job.id).where('pdf_key', 'is', null).execute();
-    return (await db.selectFrom('issue_jobs').select('pdf_key').where('id', '=', job.id).executeTakeFirstOrThrow()).pdf_key!;
+    await db
+      .updateTable('issue_jobs')
+      .set({ pdf_key: key })
+      .where('id', '=', job.id)
+      .where('pdf_key', 'is', null)
+      .execute();
+    return (await db.selectFrom('issue_jobs').select('pdf_key').where('id', '=', job.id).executeTakeFirstOrThrow())
+      .pdf_key!;
   };
   let key = job.pdf_key;
   if (!key) {
@@ -268,10 +417,26 @@ export async function processIssueJob(db: Kysely<Database>, store: ObjectStore, 
   await setStep(db, job.id, 'recording');
   const sha256 = createHash('sha256').update(pdf).digest('hex');
   return db.transaction().execute(async (trx) => {
-    const current = await trx.selectFrom('issue_jobs').select(['state', 'revision_id']).where('id', '=', job.id).forUpdate().executeTakeFirstOrThrow();
+    const current = await trx
+      .selectFrom('issue_jobs')
+      .select(['state', 'revision_id'])
+      .where('id', '=', job.id)
+      .forUpdate()
+      .executeTakeFirstOrThrow();
     if (current.state !== 'pending') return current.revision_id;
-    const previous = await trx.selectFrom('revisions').select(['id', 'code']).where('sheet_id', '=', job.sheet_id).where('status', '=', 'current').forUpdate().executeTakeFirst();
-    if (previous) await trx.updateTable('revisions').set({ status: 'superseded', superseded_at: sql`now()` }).where('id', '=', previous.id).execute();
+    const previous = await trx
+      .selectFrom('revisions')
+      .select(['id', 'code'])
+      .where('sheet_id', '=', job.sheet_id)
+      .where('status', '=', 'current')
+      .forUpdate()
+      .executeTakeFirst();
+    if (previous)
+      await trx
+        .updateTable('revisions')
+        .set({ status: 'superseded', superseded_at: sql`now()` })
+        .where('id', '=', previous.id)
+        .execute();
     const revision = await trx
       .insertInto('revisions')
       .values({
@@ -292,20 +457,53 @@ export async function processIssueJob(db: Kysely<Database>, store: ObjectStore, 
       })
       .returning(['id'])
       .executeTakeFirstOrThrow();
-    if (previous) await trx.updateTable('revisions').set({ superseded_by: revision.id }).where('id', '=', previous.id).execute();
-    const controller = await trx.selectFrom('users').select(['id', 'email', 'display_name']).where('id', '=', job.requested_by).executeTakeFirstOrThrow();
+    if (previous)
+      await trx.updateTable('revisions').set({ superseded_by: revision.id }).where('id', '=', previous.id).execute();
+    const controller = await trx
+      .selectFrom('users')
+      .select(['id', 'email', 'display_name'])
+      .where('id', '=', job.requested_by)
+      .executeTakeFirstOrThrow();
     await trx
       .insertInto('signatures')
-      .values({ sheet_id: job.sheet_id, version_number: job.version_number, version_sha256: job.version_sha256, check_id: job.check_id, user_id: controller.id, printed_name: controller.display_name, meaning: 'issued', signed_at: job.signed_at })
+      .values({
+        sheet_id: job.sheet_id,
+        version_number: job.version_number,
+        version_sha256: job.version_sha256,
+        check_id: job.check_id,
+        user_id: controller.id,
+        printed_name: controller.display_name,
+        meaning: 'issued',
+        signed_at: job.signed_at,
+      })
       .execute();
-    await trx.updateTable('issue_jobs').set({ state: 'done', step: 'done', revision_id: revision.id, finished_at: sql`now()` }).where('id', '=', job.id).execute();
-    const actor: Actor = { userId: controller.id, email: controller.email, name: controller.display_name, isAdmin: false, via: 'system', sessionId: null, tokenId: null };
+    await trx
+      .updateTable('issue_jobs')
+      .set({ state: 'done', step: 'done', revision_id: revision.id, finished_at: sql`now()` })
+      .where('id', '=', job.id)
+      .execute();
+    const actor: Actor = {
+      userId: controller.id,
+      email: controller.email,
+      name: controller.display_name,
+      isAdmin: false,
+      via: 'system',
+      sessionId: null,
+      tokenId: null,
+    };
     await recordAudit(trx, actor, {
       action: 'revision.issue',
       objectType: 'sheet',
       objectId: job.sheet_id,
       projectId: job.project_id,
-      newValue: { revision: job.revision_code, version: job.version_number, versionSha256: job.version_sha256, pdfSha256: sha256, verificationCode: job.verification_code, supersedes: previous?.code ?? null },
+      newValue: {
+        revision: job.revision_code,
+        version: job.version_number,
+        versionSha256: job.version_sha256,
+        pdfSha256: sha256,
+        verificationCode: job.verification_code,
+        supersedes: previous?.code ?? null,
+      },
     });
     await notifyIssued(trx, job, revision.id, previous?.code ?? null, sha256);
     return revision.id;
@@ -314,16 +512,42 @@ export async function processIssueJob(db: Kysely<Database>, store: ObjectStore, 
 
 async function notifyIssued(
   trx: Transaction<Database>,
-  job: { sheet_id: string; project_id: string; check_id: string; revision_code: string; version_number: number; verification_code: string },
+  job: {
+    sheet_id: string;
+    project_id: string;
+    check_id: string;
+    revision_code: string;
+    version_number: number;
+    verification_code: string;
+  },
   revisionId: string,
   supersedes: string | null,
   sha256: string,
 ) {
-  const sheet = await trx.selectFrom('sheets as s').innerJoin('projects as p', 'p.id', 's.project_id').select(['s.number', 's.title', 'p.code']).where('s.id', '=', job.sheet_id).executeTakeFirstOrThrow();
-  const check = await trx.selectFrom('checks').select(['submitted_by', 'checker_id']).where('id', '=', job.check_id).executeTakeFirstOrThrow();
-  const approvers = await trx.selectFrom('signatures').select('user_id').where('check_id', '=', job.check_id).where('meaning', '=', 'approved').execute();
+  const sheet = await trx
+    .selectFrom('sheets as s')
+    .innerJoin('projects as p', 'p.id', 's.project_id')
+    .select(['s.number', 's.title', 'p.code'])
+    .where('s.id', '=', job.sheet_id)
+    .executeTakeFirstOrThrow();
+  const check = await trx
+    .selectFrom('checks')
+    .select(['submitted_by', 'checker_id'])
+    .where('id', '=', job.check_id)
+    .executeTakeFirstOrThrow();
+  const approvers = await trx
+    .selectFrom('signatures')
+    .select('user_id')
+    .where('check_id', '=', job.check_id)
+    .where('meaning', '=', 'approved')
+    .execute();
   const ids = [...new Set([check.submitted_by, check.checker_id, ...approvers.map((a) => a.user_id)])];
-  const people = await trx.selectFrom('users').select(['email', 'display_name']).where('id', 'in', ids).where('disabled_at', 'is', null).execute();
+  const people = await trx
+    .selectFrom('users')
+    .select(['email', 'display_name'])
+    .where('id', 'in', ids)
+    .where('disabled_at', 'is', null)
+    .execute();
   const code = formatSheetNumber(sheet.code, sheet.number);
   for (const p of people) {
     await enqueueMail(trx, {
@@ -348,12 +572,20 @@ async function notifyIssued(
 
 /** Marks a job failed for good (after the queue gave up), keeping the reason for the screen. */
 export async function failIssueJob(db: Kysely<Database>, jobId: string, error: string) {
-  await db.updateTable('issue_jobs').set({ state: 'failed', error: error.slice(0, 2000), finished_at: sql`now()` }).where('id', '=', jobId).where('state', '=', 'pending').execute();
+  await db
+    .updateTable('issue_jobs')
+    .set({ state: 'failed', error: error.slice(0, 2000), finished_at: sql`now()` })
+    .where('id', '=', jobId)
+    .where('state', '=', 'pending')
+    .execute();
 }
 
 // ── Reading, downloading, withdrawing ─────────────────────────────────────────────────────────
 
-export async function listRevisions(db: Kysely<Database>, filter: { projectId?: string; sheetId?: string; status?: string; q?: string }) {
+export async function listRevisions(
+  db: Kysely<Database>,
+  filter: { projectId?: string; sheetId?: string; status?: string; q?: string },
+) {
   let q = db
     .selectFrom('revisions as r')
     .innerJoin('sheets as s', 's.id', 'r.sheet_id')
@@ -386,7 +618,12 @@ export async function listRevisions(db: Kysely<Database>, filter: { projectId?: 
   if (filter.status && filter.status !== 'all') q = q.where('r.status', '=', filter.status as 'current');
   if (filter.q) {
     const like = `%${filter.q.replace(/[\\%_]/g, (c) => `\\${c}`)}%`;
-    q = q.where((eb) => eb.or([eb('s.title', 'ilike', like), eb(sql<string>`p.code || '-CALC-' || lpad(s.number::text, 4, '0')`, 'ilike', like)]));
+    q = q.where((eb) =>
+      eb.or([
+        eb('s.title', 'ilike', like),
+        eb(sql<string>`p.code || '-CALC-' || lpad(s.number::text, 4, '0')`, 'ilike', like),
+      ]),
+    );
   }
   const rows = await q.orderBy('s.number').orderBy('r.sequence', 'desc').execute();
   return rows.map((r) => ({
@@ -425,11 +662,54 @@ const csvField = (v: unknown) => {
  * The register as CSV. `staleInputs` (revision id → its citations of revisions no longer current, from
  * `revisionInputFlags`) fills the last column, `superseded_inputs`.
  */
-export function registerCsv(rows: RegisterRow[], staleInputs: ReadonlyMap<string, ReadonlyArray<{ sheet: string; revision: string; status: string; currentRevision: string | null }>> = new Map()): string {
-  const header = ['sheet', 'title', 'revision', 'status', 'version', 'issued_at_utc', 'issued_by', 'superseded_by', 'withdrawn_reason', 'pdf_sha256', 'version_sha256', 'verification_code', 'superseded_inputs'];
+export function registerCsv(
+  rows: RegisterRow[],
+  staleInputs: ReadonlyMap<
+    string,
+    ReadonlyArray<{ sheet: string; revision: string; status: string; currentRevision: string | null }>
+  > = new Map(),
+): string {
+  const header = [
+    'sheet',
+    'title',
+    'revision',
+    'status',
+    'version',
+    'issued_at_utc',
+    'issued_by',
+    'superseded_by',
+    'withdrawn_reason',
+    'pdf_sha256',
+    'version_sha256',
+    'verification_code',
+    'superseded_inputs',
+  ];
   const stale = (id: string) =>
-    (staleInputs.get(id) ?? []).map((c) => `${c.sheet} rev. ${c.revision} (${c.status === 'withdrawn' ? 'withdrawn' : `superseded by rev. ${c.currentRevision}`})`).join('; ');
-  const lines = rows.map((r) => [r.sheet, r.title, r.revision, r.status, r.versionNumber, r.issuedAt, r.issuedBy, r.supersededBy, r.withdrawnReason, r.pdfSha256, r.versionSha256, r.verificationCode, stale(r.id)].map(csvField).join(','));
+    (staleInputs.get(id) ?? [])
+      .map(
+        (c) =>
+          `${c.sheet} rev. ${c.revision} (${c.status === 'withdrawn' ? 'withdrawn' : `superseded by rev. ${c.currentRevision}`})`,
+      )
+      .join('; ');
+  const lines = rows.map((r) =>
+    [
+      r.sheet,
+      r.title,
+      r.revision,
+      r.status,
+      r.versionNumber,
+      r.issuedAt,
+      r.issuedBy,
+      r.supersededBy,
+      r.withdrawnReason,
+      r.pdfSha256,
+      r.versionSha256,
+      r.verificationCode,
+      stale(r.id),
+    ]
+      .map(csvField)
+      .join(','),
+  );
   return `${[header.join(','), ...lines].join('\r\n')}\r\n`;
 }
 
@@ -441,7 +721,12 @@ export async function getRevision(db: Kysely<Database>, revisionId: string) {
     .innerJoin('projects as p', 'p.id', 'r.project_id')
     .leftJoin('revisions as n', 'n.id', 'r.superseded_by')
     .selectAll('r')
-    .select(['s.number as sheet_number', 'p.code as project_code', 'n.code as superseded_by_code', 'n.issued_at as superseded_by_issued_at'])
+    .select([
+      's.number as sheet_number',
+      'p.code as project_code',
+      'n.code as superseded_by_code',
+      'n.issued_at as superseded_by_issued_at',
+    ])
     .where('r.id', '=', revisionId)
     .executeTakeFirst();
 }
@@ -456,16 +741,24 @@ export async function revisionPdf(db: Kysely<Database>, store: ObjectStore, revi
   if (!r) throw new AppError('not_found', 'No such revision.');
   const name = `${formatSheetNumber(r.project_code, r.sheet_number)}-rev-${r.code}`;
   const bytes = await store.get(r.pdf_key);
-  if (!bytes) throw new AppError('unavailable', 'The issued PDF is missing from the file store; report this to your administrator.');
+  if (!bytes)
+    throw new AppError(
+      'unavailable',
+      'The issued PDF is missing from the file store; report this to your administrator.',
+    );
   if (createHash('sha256').update(bytes).digest('hex') !== r.pdf_sha256) {
-    throw new AppError('unavailable', 'The stored PDF no longer matches its recorded SHA-256; it is not served. Report this to your administrator.');
+    throw new AppError(
+      'unavailable',
+      'The stored PDF no longer matches its recorded SHA-256; it is not served. Report this to your administrator.',
+    );
   }
   if (original || r.status === 'current') return { fileName: `${name}.pdf`, bytes, stamped: false };
   // A copy is stamped once for each status (a superseded revision later withdrawn gets a new one).
   const keyPrefix = `revisions/stamped-${r.id}-${r.status}-`;
   if (r.stamped_key && r.stamped_sha256 && r.stamped_key.startsWith(keyPrefix)) {
     const stamped = await store.get(r.stamped_key);
-    if (stamped && createHash('sha256').update(stamped).digest('hex') === r.stamped_sha256) return { fileName: `${name}-${r.status}.pdf`, bytes: stamped, stamped: true };
+    if (stamped && createHash('sha256').update(stamped).digest('hex') === r.stamped_sha256)
+      return { fileName: `${name}-${r.status}.pdf`, bytes: stamped, stamped: true };
   }
   const label =
     r.status === 'withdrawn'
@@ -496,7 +789,8 @@ export async function revisionPdf(db: Kysely<Database>, store: ObjectStore, revi
 export async function withdrawRevision(db: Kysely<Database>, actor: Actor, revisionId: string, reason: string) {
   const r = await getRevision(db, revisionId);
   if (!r) throw new AppError('not_found', 'No such revision.');
-  if (r.status === 'withdrawn') throw new AppError('conflict', `Revision ${r.code} is withdrawn already.`, { status: r.status });
+  if (r.status === 'withdrawn')
+    throw new AppError('conflict', `Revision ${r.code} is withdrawn already.`, { status: r.status });
   return db.transaction().execute(async (trx) => {
     const moved = await trx
       .updateTable('revisions')
@@ -506,7 +800,15 @@ export async function withdrawRevision(db: Kysely<Database>, actor: Actor, revis
       .returning('id')
       .executeTakeFirst();
     if (!moved) throw new AppError('conflict', 'The revision changed meanwhile; reload and try again.');
-    await recordAudit(trx, actor, { action: 'revision.withdraw', objectType: 'sheet', objectId: r.sheet_id, projectId: r.project_id, oldValue: { revision: r.code, status: r.status }, newValue: { status: 'withdrawn' }, reason });
+    await recordAudit(trx, actor, {
+      action: 'revision.withdraw',
+      objectType: 'sheet',
+      objectId: r.sheet_id,
+      projectId: r.project_id,
+      oldValue: { revision: r.code, status: r.status },
+      newValue: { status: 'withdrawn' },
+      reason,
+    });
     return { id: r.id, status: 'withdrawn' as const };
   });
 }
@@ -531,17 +833,38 @@ export interface VerificationAnswer {
     legalOwner: string;
   };
   /** What was checked, for the reader. */
-  checks: { hashInRegister: boolean; signatureValid: boolean | null; signedByOrganisation: boolean | null; stampedCopy: boolean };
+  checks: {
+    hashInRegister: boolean;
+    signatureValid: boolean | null;
+    signedByOrganisation: boolean | null;
+    stampedCopy: boolean;
+  };
   sha256: string | null;
 }
 
-async function describeRevision(db: Kysely<Database>, where: { pdfSha256?: string; stampedSha256?: string; code?: string }) {
+async function describeRevision(
+  db: Kysely<Database>,
+  where: { pdfSha256?: string; stampedSha256?: string; code?: string },
+) {
   let q = db
     .selectFrom('revisions as r')
     .innerJoin('sheets as s', 's.id', 'r.sheet_id')
     .innerJoin('projects as p', 'p.id', 'r.project_id')
     .leftJoin('revisions as n', 'n.id', 'r.superseded_by')
-    .select(['r.code', 'r.status', 'r.issued_at', 'r.version_number', 'r.version_sha256', 'r.pdf_sha256', 'r.withdrawn_reason', 'n.code as superseded_by', 's.number', 's.title', 'p.code as project_code', 'p.legal_owner']);
+    .select([
+      'r.code',
+      'r.status',
+      'r.issued_at',
+      'r.version_number',
+      'r.version_sha256',
+      'r.pdf_sha256',
+      'r.withdrawn_reason',
+      'n.code as superseded_by',
+      's.number',
+      's.title',
+      'p.code as project_code',
+      'p.legal_owner',
+    ]);
   if (where.pdfSha256) q = q.where('r.pdf_sha256', '=', where.pdfSha256);
   else if (where.stampedSha256) q = q.where('r.stamped_sha256', '=', where.stampedSha256);
   else q = q.where('r.verification_code', '=', where.code!);
@@ -576,17 +899,31 @@ function statusSentence(r: NonNullable<VerificationAnswer['revision']>): string 
  */
 export async function verifyPdfFile(db: Kysely<Database>, bytes: Uint8Array): Promise<VerificationAnswer> {
   const empty = { hashInRegister: false, signatureValid: null, signedByOrganisation: null, stampedCopy: false };
-  if (bytes.length === 0) return { authentic: false, summary: 'The file is empty.', revision: null, checks: empty, sha256: null };
+  if (bytes.length === 0)
+    return { authentic: false, summary: 'The file is empty.', revision: null, checks: empty, sha256: null };
   const buffer = Buffer.from(bytes);
   const sha256 = createHash('sha256').update(buffer).digest('hex');
   if (!buffer.subarray(0, 1024).toString('latin1').includes('%PDF-')) {
-    return { authentic: false, summary: 'This file is not a PDF, so it is not a revision issued by Worldsheet.', revision: null, checks: empty, sha256 };
+    return {
+      authentic: false,
+      summary: 'This file is not a PDF, so it is not a revision issued by Worldsheet.',
+      revision: null,
+      checks: empty,
+      sha256,
+    };
   }
   // Parsed in a worker thread, after the container's size and element count are checked here.
   const signature = await getSignatureParser().verifyPdf(buffer);
   if (signature.refused) throw new AppError('too_large', signature.problem!);
-  const signedByOrganisation = signature.certificateSha256 ? signature.certificateSha256 === signingIdentity().certificateSha256 : null;
-  const checks = { hashInRegister: false, signatureValid: signature.certificateSha256 ? signature.valid && signature.coversWholeFile : false, signedByOrganisation, stampedCopy: false };
+  const signedByOrganisation = signature.certificateSha256
+    ? signature.certificateSha256 === signingIdentity().certificateSha256
+    : null;
+  const checks = {
+    hashInRegister: false,
+    signatureValid: signature.certificateSha256 ? signature.valid && signature.coversWholeFile : false,
+    signedByOrganisation,
+    stampedCopy: false,
+  };
   const revision = await describeRevision(db, { pdfSha256: sha256 });
   if (revision) {
     checks.hashInRegister = true;
@@ -607,12 +944,15 @@ export async function verifyPdfFile(db: Kysely<Database>, bytes: Uint8Array): Pr
     const issued = await describeRevision(db, { pdfSha256: sha256Hex(prefix) });
     if (!issued) continue;
     const inner = await getSignatureParser().verifyPdf(prefix);
-    const originalValid = inner.valid && inner.coversWholeFile && inner.certificateSha256 === signingIdentity().certificateSha256;
+    const originalValid =
+      inner.valid && inner.coversWholeFile && inner.certificateSha256 === signingIdentity().certificateSha256;
     const stampValid = checks.signatureValid === true && signedByOrganisation === true;
     const copyChecks = { ...checks, hashInRegister: true, stampedCopy: true };
     if (originalValid && stampValid) {
       // What the stamp says (its signature's /Reason, covered by that signature); the revision may have moved on since.
-      const stampedAs = /\/Reason\s*\(Stamped (superseded|withdrawn)/.exec(buffer.subarray(length).toString('latin1'))?.[1] ?? issued.status;
+      const stampedAs =
+        /\/Reason\s*\(Stamped (superseded|withdrawn)/.exec(buffer.subarray(length).toString('latin1'))?.[1] ??
+        issued.status;
       return {
         authentic: true,
         summary: `Authentic stamped copy: this is ${issued.sheet} revision ${issued.revision} (issued ${issued.issuedAt.slice(0, 10)}), stamped "${stampedAs}" and signed by document control; the issued file inside it is byte for byte the one in the register. ${statusSentence(issued)}`,
@@ -645,15 +985,35 @@ export async function verifyPdfFile(db: Kysely<Database>, bytes: Uint8Array): Pr
       : signature.problem
         ? `Its signature: ${signature.problem}`
         : 'Its signature is not the organisation\u2019s.';
-  return { authentic: false, summary: `Not an issued revision: no revision in the register has this file's SHA-256. ${why}`, revision: null, checks, sha256 };
+  return {
+    authentic: false,
+    summary: `Not an issued revision: no revision in the register has this file's SHA-256. ${why}`,
+    revision: null,
+    checks,
+    sha256,
+  };
 }
 
 export async function verifyCode(db: Kysely<Database>, input: string): Promise<VerificationAnswer> {
   const code = normaliseVerificationCode(input);
   const none = { hashInRegister: false, signatureValid: null, signedByOrganisation: null, stampedCopy: false };
-  if (!code) return { authentic: false, summary: 'A verification code has 12 letters and digits, like K7QF-2M9D-XW4T.', revision: null, checks: none, sha256: null };
+  if (!code)
+    return {
+      authentic: false,
+      summary: 'A verification code has 12 letters and digits, like K7QF-2M9D-XW4T.',
+      revision: null,
+      checks: none,
+      sha256: null,
+    };
   const revision = await describeRevision(db, { code });
-  if (!revision) return { authentic: false, summary: `No issued revision has the verification code ${code}.`, revision: null, checks: none, sha256: null };
+  if (!revision)
+    return {
+      authentic: false,
+      summary: `No issued revision has the verification code ${code}.`,
+      revision: null,
+      checks: none,
+      sha256: null,
+    };
   return {
     authentic: true,
     summary: `${code} is ${revision.sheet} revision ${revision.revision}, issued ${revision.issuedAt.slice(0, 10)}. ${statusSentence(revision)} Compare the PDF's SHA-256 with ${revision.pdfSha256}, or upload the file to check it.`,
@@ -666,10 +1026,32 @@ export async function verifyCode(db: Kysely<Database>, input: string): Promise<V
 /** For the sheet page: approved versions newer than the last issued one, and the code the next revision gets. */
 export async function issueCandidates(db: Kysely<Database>, sheetId: string) {
   const [approved, last, project, pending] = await Promise.all([
-    db.selectFrom('checks').select('version_number').where('sheet_id', '=', sheetId).where('state', '=', 'approved').orderBy('version_number').execute(),
-    db.selectFrom('revisions').select(['sequence', 'version_number']).where('sheet_id', '=', sheetId).orderBy('sequence', 'desc').limit(1).executeTakeFirst(),
-    db.selectFrom('sheets as s').innerJoin('projects as p', 'p.id', 's.project_id').select('p.revision_scheme').where('s.id', '=', sheetId).executeTakeFirstOrThrow(),
-    db.selectFrom('issue_jobs').select(['id']).where('sheet_id', '=', sheetId).where('state', '=', 'pending').executeTakeFirst(),
+    db
+      .selectFrom('checks')
+      .select('version_number')
+      .where('sheet_id', '=', sheetId)
+      .where('state', '=', 'approved')
+      .orderBy('version_number')
+      .execute(),
+    db
+      .selectFrom('revisions')
+      .select(['sequence', 'version_number'])
+      .where('sheet_id', '=', sheetId)
+      .orderBy('sequence', 'desc')
+      .limit(1)
+      .executeTakeFirst(),
+    db
+      .selectFrom('sheets as s')
+      .innerJoin('projects as p', 'p.id', 's.project_id')
+      .select('p.revision_scheme')
+      .where('s.id', '=', sheetId)
+      .executeTakeFirstOrThrow(),
+    db
+      .selectFrom('issue_jobs')
+      .select(['id'])
+      .where('sheet_id', '=', sheetId)
+      .where('state', '=', 'pending')
+      .executeTakeFirst(),
   ]);
   return {
     approvedVersions: approved.map((a) => a.version_number).filter((v) => !last || v > last.version_number),

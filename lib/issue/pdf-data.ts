@@ -30,7 +30,14 @@ export interface RevisionPdfData {
   /** The cautions of lib/safety/cautions.ts (and the safety-related one when it applies). */
   cautions: string[];
   /** Every revision of this sheet up to and including this one, oldest first. */
-  revisionHistory: Array<{ revision: string; date: string; version: number; description: string; approvedBy: string; status: string }>;
+  revisionHistory: Array<{
+    revision: string;
+    date: string;
+    version: number;
+    description: string;
+    approvedBy: string;
+    status: string;
+  }>;
   version: {
     number: number;
     sha256: string;
@@ -50,7 +57,10 @@ export interface RevisionPdfData {
   acknowledgements?: Array<{ item: string; text: string }>;
   /** Each design input that names a cell quantity, by its index in the record: the value the engine used and whether it matches. */
   designInputChecks?: Array<{ index: number; cell: string; engineValue: string | null; match: boolean; words: string }>;
-  alternateComparison?: { toleranceText: string | null; rows: Array<{ name: string; sheet: string; alternate: string; relativeDifference: string; outcome: string }> } | null;
+  alternateComparison?: {
+    toleranceText: string | null;
+    rows: Array<{ name: string; sheet: string; alternate: string; relativeDifference: string; outcome: string }>;
+  } | null;
   /** Short code to type on the verification page, e.g. "K7QF-2M9D-XW4T". */
   verificationCode: string;
   /** Where to verify, e.g. "http://127.0.0.1:3000/verify". */

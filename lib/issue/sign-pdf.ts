@@ -10,7 +10,10 @@ import { signingIdentity } from './identity';
 
 const signpdf = (signpdfModule as unknown as { default?: typeof signpdfModule }).default ?? signpdfModule;
 
-export async function signPdf(pdf: Uint8Array, details: { reason: string; location: string; contactInfo: string; name: string; signingTime: Date }): Promise<Buffer> {
+export async function signPdf(
+  pdf: Uint8Array,
+  details: { reason: string; location: string; contactInfo: string; name: string; signingTime: Date },
+): Promise<Buffer> {
   const doc = await PDFDocument.load(pdf, { updateMetadata: false });
   pdflibAddPlaceholder({
     pdfDoc: doc,

@@ -6,7 +6,13 @@
 import path from 'node:path';
 import { LimitedWorker } from '@/lib/calc/sandbox/limited-worker';
 import { AppError } from '@/lib/errors/app-error';
-import { CONTAINER_TOO_COMPLEX, locateSignature, signedRangesDigest, type PdfSignatureCheck, type SignedDataCheck } from './cades';
+import {
+  CONTAINER_TOO_COMPLEX,
+  locateSignature,
+  signedRangesDigest,
+  type PdfSignatureCheck,
+  type SignedDataCheck,
+} from './cades';
 
 export interface ParseRequest {
   id: number;
@@ -70,10 +76,16 @@ export class SignatureParser {
   /** Parses and checks a container (within the budget of checkDerBudget) against the digest of the signed ranges. */
   parse(der: Uint8Array, digest: Uint8Array): Promise<SignedDataCheck> {
     if (this.queue.length >= this.options.maxQueued) {
-      return Promise.reject(new AppError('unavailable', 'The server is verifying many signatures just now; try again in a minute.'));
+      return Promise.reject(
+        new AppError('unavailable', 'The server is verifying many signatures just now; try again in a minute.'),
+      );
     }
     return new Promise((resolve, reject) => {
-      this.queue.push({ request: { id: this.nextId++, der: Uint8Array.from(der), digest: Uint8Array.from(digest) }, resolve, reject });
+      this.queue.push({
+        request: { id: this.nextId++, der: Uint8Array.from(der), digest: Uint8Array.from(digest) },
+        resolve,
+        reject,
+      });
       void this.next();
     });
   }
@@ -142,7 +154,15 @@ export class SignatureParser {
       return { ...checked, ...where, refused: null };
     } catch (error) {
       if (!(error instanceof ParseBudgetExceeded)) throw error;
-      return { valid: false, signerName: null, signerOrganisation: null, certificateSha256: null, problem: CONTAINER_TOO_COMPLEX, refused: 'too-complex', ...where };
+      return {
+        valid: false,
+        signerName: null,
+        signerOrganisation: null,
+        certificateSha256: null,
+        problem: CONTAINER_TOO_COMPLEX,
+        refused: 'too-complex',
+        ...where,
+      };
     }
   }
 }

@@ -8,7 +8,22 @@ import { createHash } from 'node:crypto';
 import { pdflibAddPlaceholder } from '@signpdf/placeholder-pdf-lib';
 import signpdfModule from '@signpdf/signpdf';
 import { SUBFILTER_ETSI_CADES_DETACHED } from '@signpdf/utils';
-import { beginMarkedContent, degrees, endMarkedContent, PDFArray, PDFDict, PDFDocument, PDFName, PDFNumber, PDFObject, PDFPage, PDFRef, PDFString, rgb, StandardFonts } from 'pdf-lib';
+import {
+  beginMarkedContent,
+  degrees,
+  endMarkedContent,
+  PDFArray,
+  PDFDict,
+  PDFDocument,
+  PDFName,
+  PDFNumber,
+  PDFObject,
+  PDFPage,
+  PDFRef,
+  PDFString,
+  rgb,
+  StandardFonts,
+} from 'pdf-lib';
 import { CadesSigner } from './cades';
 import { signingIdentity } from './identity';
 
@@ -107,18 +122,56 @@ async function drawStamp(doc: PDFDocument, stamp: StampText) {
     // content (which starts at the margin).
     const band = ascii(`${stamp.headline}. ${stamp.note}`);
     const bandSize = Math.min(9, (height - 150) / Math.max(1, bold.widthOfTextAtSize(band, 1)));
-    page.drawRectangle({ x: 9, y: 110, width: 20, height: height - 160, borderColor: red, borderWidth: 1.5, color: white, opacity: 0.95 });
+    page.drawRectangle({
+      x: 9,
+      y: 110,
+      width: 20,
+      height: height - 160,
+      borderColor: red,
+      borderWidth: 1.5,
+      color: white,
+      opacity: 0.95,
+    });
     page.drawText(band, { x: 23, y: 116, size: bandSize, font: bold, color: red, rotate: degrees(90) });
     // The watermark across the page, translucent so the content stays legible.
-    page.drawText(word, { x: width / 2 - 170, y: height / 2 - 90, size: 64, font: bold, color: red, opacity: 0.16, rotate: degrees(35) });
+    page.drawText(word, {
+      x: width / 2 - 170,
+      y: height / 2 - 90,
+      size: 64,
+      font: bold,
+      color: red,
+      opacity: 0.16,
+      rotate: degrees(35),
+    });
     // The title block's "Document status" field (top row, last 15 %), value area below its label.
     const inner = width - 2 * L.marginX - 2 * L.titleBlockBorder;
-    const rowTop = L.titleBlockBottom + L.titleBlockBorder + L.titleBlockRows[2] + L.titleBlockRows[1] + L.titleBlockRows[0];
+    const rowTop =
+      L.titleBlockBottom + L.titleBlockBorder + L.titleBlockRows[2] + L.titleBlockRows[1] + L.titleBlockRows[0];
     const fieldX = L.marginX + L.titleBlockBorder + inner * 0.85 + 1;
-    page.drawRectangle({ x: fieldX, y: rowTop - L.titleBlockRows[0] + 1.2, width: inner * 0.15 - 1.5, height: L.titleBlockRows[0] - 9.5, color: white, borderColor: red, borderWidth: 1 });
-    page.drawText(word, { x: fieldX + 2.5, y: rowTop - 19.5, size: Math.min(9, (inner * 0.15 - 7) / bold.widthOfTextAtSize(word, 1)), font: bold, color: red });
+    page.drawRectangle({
+      x: fieldX,
+      y: rowTop - L.titleBlockRows[0] + 1.2,
+      width: inner * 0.15 - 1.5,
+      height: L.titleBlockRows[0] - 9.5,
+      color: white,
+      borderColor: red,
+      borderWidth: 1,
+    });
+    page.drawText(word, {
+      x: fieldX + 2.5,
+      y: rowTop - 19.5,
+      size: Math.min(9, (inner * 0.15 - 7) / bold.widthOfTextAtSize(word, 1)),
+      font: bold,
+      color: red,
+    });
     // Under the title block: what the stamp is.
-    page.drawText(ascii(`Stamped copy, not for use: ${stamp.headline}`).slice(0, 150), { x: L.marginX, y: 5, size: 6.5, font: regular, color: red });
+    page.drawText(ascii(`Stamped copy, not for use: ${stamp.headline}`).slice(0, 150), {
+      x: L.marginX,
+      y: 5,
+      size: 6.5,
+      font: regular,
+      color: red,
+    });
     page.pushOperators(endMarkedContent());
   }
   // The revision history's status for this revision ("current" in the original). react-pdf writes
@@ -128,7 +181,15 @@ async function drawStamp(doc: PDFDocument, stamp: StampText) {
   if (at) {
     const columnWidth = (at.page.getWidth() - 2 * L.marginX) * 0.14 - 8;
     at.page.pushOperators(beginMarkedContent('Artifact'));
-    at.page.drawRectangle({ x: at.x - 1.5, y: at.y - 11.5, width: columnWidth, height: 12.5, color: white, borderColor: red, borderWidth: 0.8 });
+    at.page.drawRectangle({
+      x: at.x - 1.5,
+      y: at.y - 11.5,
+      width: columnWidth,
+      height: 12.5,
+      color: white,
+      borderColor: red,
+      borderWidth: 0.8,
+    });
     at.page.drawText(word.toLowerCase(), { x: at.x, y: at.y - 8.5, size: 8.5, font: bold, color: red });
     at.page.pushOperators(endMarkedContent());
   }
@@ -156,16 +217,27 @@ function appendUpdate(original: Buffer, doc: PDFDocument, before: Map<string, Bu
   }
   const xrefAt = offset;
   let xref = 'xref\n';
-  for (let i = 0; i < entries.length; ) {
+  for (let i = 0; i < entries.length;) {
     let j = i;
     while (j + 1 < entries.length && entries[j + 1].num === entries[j].num + 1) j++;
     xref += `${entries[i].num} ${j - i + 1}\n`;
-    for (let k = i; k <= j; k++) xref += `${String(entries[k].offset).padStart(10, '0')} ${String(entries[k].gen).padStart(5, '0')} n\r\n`;
+    for (let k = i; k <= j; k++)
+      xref += `${String(entries[k].offset).padStart(10, '0')} ${String(entries[k].gen).padStart(5, '0')} n\r\n`;
     i = j + 1;
   }
   const t = doc.context.trailerInfo;
-  const trailer = doc.context.obj({ Size: doc.context.largestObjectNumber + 1, Root: t.Root, ...(t.Info ? { Info: t.Info } : {}), ...(t.ID ? { ID: t.ID } : {}), Prev: prev });
-  parts.push(Buffer.from(`${xref}trailer\n`, 'latin1'), bytesOf(trailer), Buffer.from(`\nstartxref\n${xrefAt}\n%%EOF\n`, 'latin1'));
+  const trailer = doc.context.obj({
+    Size: doc.context.largestObjectNumber + 1,
+    Root: t.Root,
+    ...(t.Info ? { Info: t.Info } : {}),
+    ...(t.ID ? { ID: t.ID } : {}),
+    Prev: prev,
+  });
+  parts.push(
+    Buffer.from(`${xref}trailer\n`, 'latin1'),
+    bytesOf(trailer),
+    Buffer.from(`\nstartxref\n${xrefAt}\n%%EOF\n`, 'latin1'),
+  );
   return Buffer.concat(parts);
 }
 
@@ -195,7 +267,8 @@ export async function stampIssuedPdf(original: Uint8Array, stamp: StampText): Pr
   await doc.flush();
   const withPlaceholder = appendUpdate(originalBytes, doc, before);
   const signed = await signpdf.sign(withPlaceholder, new CadesSigner(signingIdentity()));
-  if (!signed.subarray(0, originalBytes.length).equals(originalBytes)) throw new Error('The stamped copy does not keep the issued file as its prefix.');
+  if (!signed.subarray(0, originalBytes.length).equals(originalBytes))
+    throw new Error('The stamped copy does not keep the issued file as its prefix.');
   return signed;
 }
 

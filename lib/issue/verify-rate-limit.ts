@@ -25,7 +25,11 @@ export function verifyRateLimitFromEnv(): VerifyRateLimit {
  * once the address has used up the window's requests. A refused request counts too, so a client
  * that keeps hammering stays refused until the window ends.
  */
-export async function countVerification(db: Kysely<Database>, address: string, limit: VerifyRateLimit = verifyRateLimitFromEnv()): Promise<void> {
+export async function countVerification(
+  db: Kysely<Database>,
+  address: string,
+  limit: VerifyRateLimit = verifyRateLimitFromEnv(),
+): Promise<void> {
   const key = address.slice(0, 100) || 'unknown';
   const window = sql`make_interval(secs => ${limit.windowSeconds})`;
   const row = await db
@@ -38,11 +42,17 @@ export async function countVerification(db: Kysely<Database>, address: string, l
         requests: sql`case when verify_rate_limits.window_started_at <= now() - ${window} then 1 else verify_rate_limits.requests + 1 end`,
       }),
     )
-    .returning(['requests', sql<number>`extract(epoch from (window_started_at + ${window} - now()))`.as('seconds_left')])
+    .returning([
+      'requests',
+      sql<number>`extract(epoch from (window_started_at + ${window} - now()))`.as('seconds_left'),
+    ])
     .executeTakeFirstOrThrow();
   if (row.requests === 1) {
     // A new window: forget addresses whose windows ended long ago, so the table stays small.
-    await db.deleteFrom('verify_rate_limits').where('window_started_at', '<', sql<Date>`now() - make_interval(secs => ${limit.windowSeconds * 10})`).execute();
+    await db
+      .deleteFrom('verify_rate_limits')
+      .where('window_started_at', '<', sql<Date>`now() - make_interval(secs => ${limit.windowSeconds * 10})`)
+      .execute();
   }
   if (row.requests > limit.requests) {
     const retryAfter = Math.max(1, Math.ceil(Number(row.seconds_left)));

@@ -7,20 +7,27 @@ import { getDb } from '@/db';
 import { failIssueJob, ISSUE_QUEUE, pendingIssueJobs, processIssueJob } from '@/lib/issue/issue';
 import { getObjectStore } from '@/lib/storage/object-store';
 
-export async function workIssueQueue(boss: PgBoss, options: { pollingIntervalSeconds: number; log?: (line: string) => void }): Promise<void> {
+export async function workIssueQueue(
+  boss: PgBoss,
+  options: { pollingIntervalSeconds: number; log?: (line: string) => void },
+): Promise<void> {
   const log = options.log ?? (() => undefined);
-  await boss.work<{ issueJobId: string }>(ISSUE_QUEUE, { batchSize: 1, pollingIntervalSeconds: options.pollingIntervalSeconds, includeMetadata: true }, async ([job]) => {
-    const id = job.data.issueJobId;
-    try {
-      const revision = await processIssueJob(getDb(), getObjectStore(), id);
-      log(`issued: request ${id} → revision ${revision}`);
-    } catch (error) {
-      const message = error instanceof Error ? error.message : String(error);
-      log(`issuing ${id} failed (attempt ${job.retryCount + 1}): ${message}`);
-      if (job.retryCount >= job.retryLimit) await failIssueJob(getDb(), id, message);
-      throw error;
-    }
-  });
+  await boss.work<{ issueJobId: string }>(
+    ISSUE_QUEUE,
+    { batchSize: 1, pollingIntervalSeconds: options.pollingIntervalSeconds, includeMetadata: true },
+    async ([job]) => {
+      const id = job.data.issueJobId;
+      try {
+        const revision = await processIssueJob(getDb(), getObjectStore(), id);
+        log(`issued: request ${id} → revision ${revision}`);
+      } catch (error) {
+        const message = error instanceof Error ? error.message : String(error);
+        log(`issuing ${id} failed (attempt ${job.retryCount + 1}): ${message}`);
+        if (job.retryCount >= job.retryLimit) await failIssueJob(getDb(), id, message);
+        throw error;
+      }
+    },
+  );
   // A worker that died mid-job leaves its queue job active until pg-boss expires it (minutes); the
   // work is resumable and recorded once, so pending requests are simply queued again now.
   for (const id of await pendingIssueJobs(getDb())) {

@@ -96,7 +96,9 @@ export async function runMailJobs(
     } catch (error) {
       await control.fail(job.id, error as Error);
       result.failed++;
-      log(`mail job ${job.id} (${parsed.data.kind}): not delivered (retried later unless that was the last try): ${(error as Error).message}`);
+      log(
+        `mail job ${job.id} (${parsed.data.kind}): not delivered (retried later unless that was the last try): ${(error as Error).message}`,
+      );
       continue;
     }
     // Completed at once, so that a crash later in the batch cannot send this one again.
@@ -114,8 +116,12 @@ export async function workMailQueue(
 ): Promise<MailDelivery> {
   const delivery = createMailDelivery(options.settings);
   const control = bossJobControl(boss);
-  await boss.work(MAIL_QUEUE, { batchSize: 10, pollingIntervalSeconds: options.pollingIntervalSeconds }, async (jobs) => {
-    await runMailJobs(jobs, delivery, control, options.log);
-  });
+  await boss.work(
+    MAIL_QUEUE,
+    { batchSize: 10, pollingIntervalSeconds: options.pollingIntervalSeconds },
+    async (jobs) => {
+      await runMailJobs(jobs, delivery, control, options.log);
+    },
+  );
   return delivery;
 }

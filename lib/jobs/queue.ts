@@ -61,7 +61,13 @@ const globalForJobs = globalThis as unknown as { worldsheetJobSender?: PgBoss };
 
 /** The connection-less pg-boss instance for send, fetch, complete and fail with `{ db }`. */
 export function jobSender(): PgBoss {
-  globalForJobs.worldsheetJobSender ??= new PgBoss({ db: notConnected, schema: JOB_SCHEMA, schedule: false, supervise: false, migrate: false });
+  globalForJobs.worldsheetJobSender ??= new PgBoss({
+    db: notConnected,
+    schema: JOB_SCHEMA,
+    schedule: false,
+    supervise: false,
+    migrate: false,
+  });
   return globalForJobs.worldsheetJobSender;
 }
 

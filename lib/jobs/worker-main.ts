@@ -45,7 +45,8 @@ async function main(): Promise<void> {
 
   starting = startJobWorker({ databaseUrl, mail, pollingIntervalSeconds, log });
   await starting;
-  if (!signalled) log(`working the queues (mail to ${redact(mail.smtpUrl)}, polling every ${pollingIntervalSeconds} s)`);
+  if (!signalled)
+    log(`working the queues (mail to ${redact(mail.smtpUrl)}, polling every ${pollingIntervalSeconds} s)`);
 }
 
 /** The SMTP URL without its password, for the log. */

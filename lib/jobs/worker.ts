@@ -26,7 +26,11 @@ export async function startJobWorker(options: JobWorkerOptions): Promise<JobWork
   try {
     await createQueues(boss);
     deliveries.push(
-      await workMailQueue(boss, { settings: options.mail, pollingIntervalSeconds: options.pollingIntervalSeconds ?? 1, log }),
+      await workMailQueue(boss, {
+        settings: options.mail,
+        pollingIntervalSeconds: options.pollingIntervalSeconds ?? 1,
+        log,
+      }),
     );
     await workIssueQueue(boss, { pollingIntervalSeconds: options.pollingIntervalSeconds ?? 1, log });
   } catch (error) {

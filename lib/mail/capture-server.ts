@@ -61,9 +61,7 @@ export function findLinks(text: string, html: string | null): string[] {
 
 /** `Name <address>` for each address of a header, as written but without quoting. */
 function addressText(value: ParsedMail['from']): string {
-  return (value?.value ?? [])
-    .map((a) => (a.name ? `${a.name} <${a.address ?? ''}>` : (a.address ?? '')))
-    .join(', ');
+  return (value?.value ?? []).map((a) => (a.name ? `${a.name} <${a.address ?? ''}>` : (a.address ?? ''))).join(', ');
 }
 
 function sendJson(res: ServerResponse, status: number, body: unknown): void {
@@ -107,7 +105,9 @@ export async function startCaptureServer(options: CaptureServerOptions): Promise
 
   // Say which port is taken, and by which setting, before starting anything.
   if (options.smtpPort !== 0 && options.smtpPort === options.httpPort) {
-    throw new MailCaptureError(`The mail capture's SMTP and HTTP ports are both ${options.smtpPort}; choose two different ports.`);
+    throw new MailCaptureError(
+      `The mail capture's SMTP and HTTP ports are both ${options.smtpPort}; choose two different ports.`,
+    );
   }
   if (options.smtpPort !== 0 && !(await portIsFree(options.smtpPort, HOST))) {
     throw busy(options.smtpPort, "the local mail capture's SMTP port", vars?.smtp);
@@ -136,7 +136,9 @@ export async function startCaptureServer(options: CaptureServerOptions): Promise
       simpleParser(stream)
         .then((parsed) => {
           if ((stream as unknown as { sizeExceeded?: boolean }).sizeExceeded) {
-            const error = new Error(`Message larger than ${MAX_MESSAGE_BYTES} bytes`) as Error & { responseCode: number };
+            const error = new Error(`Message larger than ${MAX_MESSAGE_BYTES} bytes`) as Error & {
+              responseCode: number;
+            };
             error.responseCode = 552;
             return callback(error);
           }

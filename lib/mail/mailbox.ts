@@ -25,12 +25,20 @@ export function demoMailboxEnabled(env: Env = process.env): boolean {
   return env.WORLDSHEET_DEMO === '1';
 }
 
-export async function loadDemoMailbox(db: Kysely<Database>, viewer: Actor | null, env: Env = process.env): Promise<DemoMailbox> {
+export async function loadDemoMailbox(
+  db: Kysely<Database>,
+  viewer: Actor | null,
+  env: Env = process.env,
+): Promise<DemoMailbox> {
   if (!demoMailboxEnabled(env)) return { status: 'not-demo' };
   if (!viewer) return { status: 'signed-out' };
   const captureUrl = env.WORLDSHEET_MAIL_CAPTURE_URL;
   if (!captureUrl) {
-    return { status: 'unavailable', captureUrl: null, reason: 'WORLDSHEET_MAIL_CAPTURE_URL is not set; `npm start` sets it.' };
+    return {
+      status: 'unavailable',
+      captureUrl: null,
+      reason: 'WORLDSHEET_MAIL_CAPTURE_URL is not set; `npm start` sets it.',
+    };
   }
   let captured: CapturedMessage[];
   try {
@@ -41,7 +49,13 @@ export async function loadDemoMailbox(db: Kysely<Database>, viewer: Actor | null
   }
   const email = viewer.email.toLowerCase();
   if (!viewer.isAdmin) {
-    return { status: 'ok', captureUrl, scope: 'own', viewerEmail: email, messages: captured.filter((m) => m.to.some((to) => to.toLowerCase() === email)) };
+    return {
+      status: 'ok',
+      captureUrl,
+      scope: 'own',
+      viewerEmail: email,
+      messages: captured.filter((m) => m.to.some((to) => to.toLowerCase() === email)),
+    };
   }
   await recordAudit(db, viewer, {
     action: 'mail.mailbox-read-all',

@@ -19,9 +19,16 @@ export type MailJobOptions = Pick<PgBoss.SendOptions, 'retryLimit' | 'retryDelay
  * for an invalid message, and an Error when the mail queue does not exist (the job schema is set
  * up by `npm start` and by the test setup; see ensureJobQueues).
  */
-export async function enqueueMail(db: Kysely<Database>, message: MailMessage, options: MailJobOptions = {}): Promise<string> {
+export async function enqueueMail(
+  db: Kysely<Database>,
+  message: MailMessage,
+  options: MailJobOptions = {},
+): Promise<string> {
   const data = mailMessageSchema.parse(message);
   const id = await jobSender().send(MAIL_QUEUE, data, { ...options, db: kyselyJobDb(db) });
-  if (!id) throw new Error(`the job queue "${MAIL_QUEUE}" does not exist; run ensureJobQueues (npm start does) before sending mail`);
+  if (!id)
+    throw new Error(
+      `the job queue "${MAIL_QUEUE}" does not exist; run ensureJobQueues (npm start does) before sending mail`,
+    );
   return id;
 }

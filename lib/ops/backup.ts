@@ -14,7 +14,13 @@ import { createHash } from 'node:crypto';
 import { createReadStream, existsSync, mkdirSync, readdirSync, readFileSync, writeFileSync } from 'node:fs';
 import path from 'node:path';
 import { fileURLToPath } from 'node:url';
-import { CreateBucketCommand, GetObjectCommand, ListObjectsCommand, PutObjectCommand, S3Client } from '@aws-sdk/client-s3';
+import {
+  CreateBucketCommand,
+  GetObjectCommand,
+  ListObjectsCommand,
+  PutObjectCommand,
+  S3Client,
+} from '@aws-sdk/client-s3';
 import { sql, type Kysely } from 'kysely';
 import pg from 'pg';
 import { createDb } from '../../db/index';
@@ -128,8 +134,15 @@ async function listAllKeys(client: S3Client, bucket: string, pageSize = 1000): P
  */
 function objectFile(folder: string, key: string): string {
   const parts = key.split('/');
-  if (key.length === 0 || key.startsWith('/') || parts.some((p) => p === '' || p === '.' || p === '..') || key.includes('\0')) {
-    throw new BackupError(`The object key ${JSON.stringify(key)} cannot be written as a file; nothing of this backup can be trusted to hold it.`);
+  if (
+    key.length === 0 ||
+    key.startsWith('/') ||
+    parts.some((p) => p === '' || p === '.' || p === '..') ||
+    key.includes('\0')
+  ) {
+    throw new BackupError(
+      `The object key ${JSON.stringify(key)} cannot be written as a file; nothing of this backup can be trusted to hold it.`,
+    );
   }
   return path.join(folder, OBJECTS_FOLDER, ...parts);
 }
@@ -176,7 +189,9 @@ export async function backup(options: BackupOptions): Promise<Manifest> {
   const log = options.log ?? (() => undefined);
   const folder = path.resolve(options.folder);
   if (existsSync(folder) && readdirSync(folder).length > 0) {
-    throw new BackupError(`${folder} is not empty; back up into a new or empty folder, so that nothing of an older backup mixes in.`);
+    throw new BackupError(
+      `${folder} is not empty; back up into a new or empty folder, so that nothing of an older backup mixes in.`,
+    );
   }
   mkdirSync(path.join(folder, OBJECTS_FOLDER), { recursive: true });
   const bin = ensureServerBinaries(log);
@@ -198,7 +213,11 @@ export async function backup(options: BackupOptions): Promise<Manifest> {
   const conn = connectionForTool(options.databaseUrl);
   // Custom format (-Fc): compressed, and pg_restore can restore it selectively and in order.
   // No owners or grants: the restored database belongs to whichever role restores it.
-  await run(pgDump, ['--format=custom', '--no-owner', '--no-privileges', `--file=${dumpFile}`, `--dbname=${conn.dbname}`], conn.env);
+  await run(
+    pgDump,
+    ['--format=custom', '--no-owner', '--no-privileges', `--file=${dumpFile}`, `--dbname=${conn.dbname}`],
+    conn.env,
+  );
   const dumpBytes = readFileSync(dumpFile);
 
   const s3 = s3Client(options.store);
@@ -249,8 +268,12 @@ async function assertEmptyDatabase(databaseUrl: string): Promise<void> {
   const client = new pg.Client({ connectionString: databaseUrl });
   await client.connect();
   try {
-    const tables = await client.query<{ n: number }>("select count(*)::int as n from pg_tables where schemaname = 'public'");
-    const boss = await client.query<{ n: number }>("select count(*)::int as n from pg_namespace where nspname = 'pgboss'");
+    const tables = await client.query<{ n: number }>(
+      "select count(*)::int as n from pg_tables where schemaname = 'public'",
+    );
+    const boss = await client.query<{ n: number }>(
+      "select count(*)::int as n from pg_namespace where nspname = 'pgboss'",
+    );
     if (tables.rows[0].n > 0 || boss.rows[0].n > 0) {
       const name = (await client.query<{ d: string }>('select current_database() as d')).rows[0].d;
       throw new BackupError(
@@ -266,7 +289,9 @@ async function assertEmptyDatabase(databaseUrl: string): Promise<void> {
 async function assertEmptyBucket(client: S3Client, bucket: string): Promise<void> {
   const page = await client.send(new ListObjectsCommand({ Bucket: bucket, MaxKeys: 1 }));
   if ((page.Contents?.length ?? 0) > 0) {
-    throw new BackupError(`The target bucket ${bucket} is not empty. Restore only into an empty bucket; nothing was changed.`);
+    throw new BackupError(
+      `The target bucket ${bucket} is not empty. Restore only into an empty bucket; nothing was changed.`,
+    );
   }
 }
 
@@ -287,14 +312,19 @@ export async function restore(options: RestoreOptions): Promise<Manifest> {
     const dumpFile = path.join(folder, manifest.database.file);
     if (!existsSync(dumpFile)) throw new BackupError(`The database dump ${dumpFile} is missing; nothing was restored.`);
     if ((await fileSha256(dumpFile)) !== manifest.database.sha256) {
-      throw new BackupError(`The database dump ${dumpFile} does not match the SHA-256 in the manifest; nothing was restored.`);
+      throw new BackupError(
+        `The database dump ${dumpFile} does not match the SHA-256 in the manifest; nothing was restored.`,
+      );
     }
     for (const o of manifest.objects) {
       const file = objectFile(folder, o.key);
-      if (!existsSync(file)) throw new BackupError(`The object ${o.key} is missing from the backup (${file}); nothing was restored.`);
+      if (!existsSync(file))
+        throw new BackupError(`The object ${o.key} is missing from the backup (${file}); nothing was restored.`);
       const bytes = readFileSync(file);
       if (bytes.length !== o.size || sha256(bytes) !== o.sha256) {
-        throw new BackupError(`The object ${o.key} in the backup does not match its size and SHA-256 in the manifest; nothing was restored.`);
+        throw new BackupError(
+          `The object ${o.key} in the backup does not match its size and SHA-256 in the manifest; nothing was restored.`,
+        );
       }
     }
 
@@ -313,7 +343,8 @@ export async function restore(options: RestoreOptions): Promise<Manifest> {
     for (const o of manifest.objects) {
       const bytes = readFileSync(objectFile(folder, o.key));
       // Read again just before the upload: the file must still be the one checked above.
-      if (sha256(bytes) !== o.sha256) throw new BackupError(`The object ${o.key} changed on disk during the restore; the restore is incomplete.`);
+      if (sha256(bytes) !== o.sha256)
+        throw new BackupError(`The object ${o.key} changed on disk during the restore; the restore is incomplete.`);
       await s3.send(
         new PutObjectCommand({
           Bucket: options.store.bucket,
@@ -357,14 +388,20 @@ export interface InstallationReport {
  * attachment in the object store hashes to the SHA-256 its row records, and the audit chain is
  * intact (walked here and by the database's own audit_chain_breaks()).
  */
-export async function verifyInstallation(db: Kysely<Database>, store: ObjectStore, options: { batch?: number } = {}): Promise<InstallationReport> {
+export async function verifyInstallation(
+  db: Kysely<Database>,
+  store: ObjectStore,
+  options: { batch?: number } = {},
+): Promise<InstallationReport> {
   const batch = options.batch ?? 200;
   const problems: string[] = [];
   const counts = { versions: 0, revisions: 0, stampedCopies: 0, attachments: 0, auditEvents: 0 };
   // A backup made before a migration restores at that migration's level: tables that came later are
   // absent, not broken, and have nothing to verify.
   const present = new Set(
-    (await sql<{ tablename: string }>`select tablename from pg_tables where schemaname = 'public'`.execute(db)).rows.map((r) => r.tablename),
+    (
+      await sql<{ tablename: string }>`select tablename from pg_tables where schemaname = 'public'`.execute(db)
+    ).rows.map((r) => r.tablename),
   );
 
   let lastId: string | null = null;
@@ -373,7 +410,14 @@ export async function verifyInstallation(db: Kysely<Database>, store: ObjectStor
       .selectFrom('versions')
       .innerJoin('sheets', 'sheets.id', 'versions.sheet_id')
       .innerJoin('projects', 'projects.id', 'sheets.project_id')
-      .select(['versions.id', 'versions.number', 'versions.content', 'versions.content_hash', 'sheets.number as sheet_number', 'projects.code'])
+      .select([
+        'versions.id',
+        'versions.number',
+        'versions.content',
+        'versions.content_hash',
+        'sheets.number as sheet_number',
+        'projects.code',
+      ])
       .orderBy('versions.id')
       .limit(batch);
     if (lastId) q = q.where('versions.id', '>', lastId);
@@ -381,7 +425,9 @@ export async function verifyInstallation(db: Kysely<Database>, store: ObjectStor
     for (const v of rows) {
       counts.versions++;
       if (contentHash(v.content as VersionContent) !== v.content_hash) {
-        problems.push(`version ${v.number} of sheet ${v.code} #${v.sheet_number} (${v.id}): its content no longer hashes to ${v.content_hash}`);
+        problems.push(
+          `version ${v.number} of sheet ${v.code} #${v.sheet_number} (${v.id}): its content no longer hashes to ${v.content_hash}`,
+        );
       }
     }
     if (rows.length < batch) break;
@@ -394,28 +440,44 @@ export async function verifyInstallation(db: Kysely<Database>, store: ObjectStor
       select t.id from ${sql.table(table)} t
       left join versions v on v.sheet_id = t.sheet_id and v.number = t.version_number
       where v.content_hash is distinct from t.version_sha256`.execute(db);
-    for (const row of r.rows) problems.push(`${table.replace(/s$/, '')} ${row.id}: cites a version hash that its version does not have`);
+    for (const row of r.rows)
+      problems.push(`${table.replace(/s$/, '')} ${row.id}: cites a version hash that its version does not have`);
   }
 
   const checkObject = async (what: string, key: string, expected: string, size?: string) => {
     const bytes = await store.get(key);
     if (!bytes) return problems.push(`${what}: the object ${key} is missing from the store`);
-    if (sha256(bytes) !== expected) return problems.push(`${what}: the object ${key} does not hash to the recorded ${expected}`);
-    if (size !== undefined && String(bytes.length) !== String(size)) problems.push(`${what}: the object ${key} is ${bytes.length} bytes, the record says ${size}`);
+    if (sha256(bytes) !== expected)
+      return problems.push(`${what}: the object ${key} does not hash to the recorded ${expected}`);
+    if (size !== undefined && String(bytes.length) !== String(size))
+      problems.push(`${what}: the object ${key} is ${bytes.length} bytes, the record says ${size}`);
   };
 
-  const revisions = !present.has('revisions') ? [] : await db.selectFrom('revisions').select(['id', 'code', 'pdf_key', 'pdf_sha256', 'pdf_size', 'stamped_key', 'stamped_sha256']).orderBy('id').execute();
+  const revisions = !present.has('revisions')
+    ? []
+    : await db
+        .selectFrom('revisions')
+        .select(['id', 'code', 'pdf_key', 'pdf_sha256', 'pdf_size', 'stamped_key', 'stamped_sha256'])
+        .orderBy('id')
+        .execute();
   for (const r of revisions) {
     counts.revisions++;
     await checkObject(`revision ${r.code} (${r.id}) PDF`, r.pdf_key, r.pdf_sha256, r.pdf_size);
     if (r.stamped_key || r.stamped_sha256) {
       counts.stampedCopies++;
-      if (!r.stamped_key || !r.stamped_sha256) problems.push(`revision ${r.code} (${r.id}): a stamped copy is recorded without both its key and its SHA-256`);
+      if (!r.stamped_key || !r.stamped_sha256)
+        problems.push(`revision ${r.code} (${r.id}): a stamped copy is recorded without both its key and its SHA-256`);
       else await checkObject(`revision ${r.code} (${r.id}) stamped copy`, r.stamped_key, r.stamped_sha256);
     }
   }
 
-  const attachments = !present.has('attachments') ? [] : await db.selectFrom('attachments').select(['id', 'name', 'storage_key', 'sha256', 'size']).orderBy('id').execute();
+  const attachments = !present.has('attachments')
+    ? []
+    : await db
+        .selectFrom('attachments')
+        .select(['id', 'name', 'storage_key', 'sha256', 'size'])
+        .orderBy('id')
+        .execute();
   for (const a of attachments) {
     counts.attachments++;
     await checkObject(`attachment ${a.name} (${a.id})`, a.storage_key, a.sha256, a.size);
@@ -424,12 +486,16 @@ export async function verifyInstallation(db: Kysely<Database>, store: ObjectStor
   if (!present.has('audit_events')) return { ok: problems.length === 0, counts, problems };
   const chain = await verifyAuditChain(db);
   counts.auditEvents = chain.events;
-  if (!chain.ok && chain.firstBroken) problems.push(`audit event ${chain.firstBroken.id}: ${chain.firstBroken.problem}`);
+  if (!chain.ok && chain.firstBroken)
+    problems.push(`audit event ${chain.firstBroken.id}: ${chain.firstBroken.problem}`);
   const breaks = await sql<{ id: string; problem: string }>`select id, problem from audit_chain_breaks()`.execute(db);
   for (const b of breaks.rows.slice(0, 20)) problems.push(`audit event ${b.id} (database check): ${b.problem}`);
   if (breaks.rows.length > 20) problems.push(`… and ${breaks.rows.length - 20} more audit events the database reports`);
   if (!chain.ok) {
-    const total = await db.selectFrom('audit_events').select((eb) => eb.fn.countAll<string>().as('n')).executeTakeFirstOrThrow();
+    const total = await db
+      .selectFrom('audit_events')
+      .select((eb) => eb.fn.countAll<string>().as('n'))
+      .executeTakeFirstOrThrow();
     counts.auditEvents = Number(total.n);
   }
 
@@ -442,7 +508,9 @@ export async function tableCounts(db: Kysely<Database>): Promise<Record<string, 
     select schemaname, tablename from pg_tables where schemaname in ('public', 'pgboss') order by 1, 2`.execute(db);
   const counts: Record<string, number> = {};
   for (const t of tables.rows) {
-    const r = await sql<{ n: number }>`select count(*)::int as n from ${sql.table(`${t.schemaname}.${t.tablename}`)}`.execute(db);
+    const r = await sql<{
+      n: number;
+    }>`select count(*)::int as n from ${sql.table(`${t.schemaname}.${t.tablename}`)}`.execute(db);
     counts[`${t.schemaname}.${t.tablename}`] = r.rows[0].n;
   }
   return counts;

@@ -8,9 +8,13 @@ export const CHROMIUM_PATH = process.env.WORLDSHEET_CHROMIUM ?? '/usr/bin/chromi
 const PDFSIG_PATH = '/usr/bin/pdfsig';
 
 export function ensureChromium(log: (line: string) => void): void {
-  const missing = [...(existsSync(CHROMIUM_PATH) ? [] : ['chromium']), ...(existsSync(PDFSIG_PATH) ? [] : ['poppler-utils'])];
+  const missing = [
+    ...(existsSync(CHROMIUM_PATH) ? [] : ['chromium']),
+    ...(existsSync(PDFSIG_PATH) ? [] : ['poppler-utils']),
+  ];
   if (missing.length === 0) return;
   aptInstall(missing, log);
   if (!existsSync(CHROMIUM_PATH)) throw new Error(`Chromium is still missing at ${CHROMIUM_PATH} after installing it.`);
-  if (!existsSync(PDFSIG_PATH)) throw new Error(`pdfsig is still missing at ${PDFSIG_PATH} after installing poppler-utils.`);
+  if (!existsSync(PDFSIG_PATH))
+    throw new Error(`pdfsig is still missing at ${PDFSIG_PATH} after installing poppler-utils.`);
 }

@@ -82,7 +82,9 @@ function appEnv(database: Database, extra: Record<string, string> = {}): NodeJS.
   const host = process.env.WORLDSHEET_HOST ?? '127.0.0.1';
   const port = process.env.PORT ?? '3000';
   if (!database.demo && !process.env.NEXTAUTH_SECRET) {
-    throw new LocalPostgresError('Set NEXTAUTH_SECRET (a long random string) for a deployment with its own DATABASE_URL.');
+    throw new LocalPostgresError(
+      'Set NEXTAUTH_SECRET (a long random string) for a deployment with its own DATABASE_URL.',
+    );
   }
   return {
     ...process.env,
@@ -129,10 +131,15 @@ async function startLocalObjectStore(supervisor: Supervisor): Promise<Record<str
 }
 
 function spawnJobWorker(supervisor: Supervisor, env: NodeJS.ProcessEnv) {
-  return supervisor.spawn('job worker', process.execPath, ['--import', 'tsx', path.join('lib', 'jobs', 'worker-main.ts')], {
-    cwd: root,
-    env,
-  });
+  return supervisor.spawn(
+    'job worker',
+    process.execPath,
+    ['--import', 'tsx', path.join('lib', 'jobs', 'worker-main.ts')],
+    {
+      cwd: root,
+      env,
+    },
+  );
 }
 // ─────────────────────────────────────────────────────────────────────────────────────────────
 
@@ -140,7 +147,9 @@ async function serve(supervisor: Supervisor, mode: 'start' | 'dev'): Promise<voi
   const host = process.env.WORLDSHEET_HOST ?? '127.0.0.1';
   const port = Number(process.env.PORT ?? 3000);
   if (!(await portIsFree(port, host))) {
-    throw new LocalPostgresError(`Port ${port} on ${host} is already in use. Stop what uses it, or choose another with PORT=<port>.`);
+    throw new LocalPostgresError(
+      `Port ${port} on ${host} is already in use. Stop what uses it, or choose another with PORT=<port>.`,
+    );
   }
   const mailEnv = process.env.DATABASE_URL ? {} : await startDemoMail(supervisor, `http://${host}:${port}`);
   const storeEnv = await startLocalObjectStore(supervisor);
@@ -152,7 +161,16 @@ async function serve(supervisor: Supervisor, mode: 'start' | 'dev'): Promise<voi
   const worker = spawnJobWorker(supervisor, { ...env, NODE_ENV: 'production' });
   // The app's own server (lib/ops/server.ts): Next.js behind the layer that records the connection's
   // address and sets the Content-Security-Policy.
-  const serverArgs = ['--import', 'tsx', path.join('lib', 'ops', 'server.ts'), ...(mode === 'dev' ? ['--dev'] : []), '-H', host, '-p', String(port)];
+  const serverArgs = [
+    '--import',
+    'tsx',
+    path.join('lib', 'ops', 'server.ts'),
+    ...(mode === 'dev' ? ['--dev'] : []),
+    '-H',
+    host,
+    '-p',
+    String(port),
+  ];
   const app = supervisor.spawn('app server', process.execPath, serverArgs, {
     cwd: root,
     env: mode === 'start' ? { ...env, NODE_ENV: 'production' } : { ...env, NODE_ENV: 'development' },
@@ -176,7 +194,10 @@ async function test(supervisor: Supervisor, args: string[]): Promise<void> {
     'vitest',
     process.execPath,
     [path.join(root, 'node_modules', 'vitest', 'vitest.mjs'), 'run', '--config', 'tests/vitest.config.ts', ...args],
-    { cwd: root, env: { ...process.env, NEXT_TELEMETRY_DISABLED: '1', WORLDSHEET_TEST_PG_PORT: String(testClusterPort()) } },
+    {
+      cwd: root,
+      env: { ...process.env, NEXT_TELEMETRY_DISABLED: '1', WORLDSHEET_TEST_PG_PORT: String(testClusterPort()) },
+    },
   );
   const code = await waitForExit(vitest);
   if (!supervisor.isStopping) process.exit(code);
@@ -202,7 +223,12 @@ async function bench(supervisor: Supervisor): Promise<void> {
   for (const file of ['calc-bench.ts', 'save-bench.ts', 'issue-bench.ts', 'load-bench.ts']) {
     const out = createWriteStream(path.join(folder, file.replace(/\.ts$/, '.txt')));
     out.write(`# ${file}, run ${new Date().toISOString()} at commit ${commit}\n`);
-    const child = supervisor.spawn(`benchmark ${file}`, process.execPath, ['--import', 'tsx', path.join(root, 'tests', 'bench', file)], { cwd: root, stdio: ['ignore', 'pipe', 'pipe'] });
+    const child = supervisor.spawn(
+      `benchmark ${file}`,
+      process.execPath,
+      ['--import', 'tsx', path.join(root, 'tests', 'bench', file)],
+      { cwd: root, stdio: ['ignore', 'pipe', 'pipe'] },
+    );
     child.stdout?.on('data', (chunk: Buffer) => {
       process.stdout.write(chunk);
       out.write(chunk);
@@ -238,7 +264,12 @@ async function stress(supervisor: Supervisor): Promise<void> {
     WORLDSHEET_BENCH_LOAD_REPEAT_SECONDS: process.env.WORLDSHEET_BENCH_LOAD_REPEAT_SECONDS ?? '20',
     WORLDSHEET_BENCH_HEALTH_SECONDS: process.env.WORLDSHEET_BENCH_HEALTH_SECONDS ?? '10',
   };
-  const child = supervisor.spawn('load test', process.execPath, ['--import', 'tsx', path.join(root, 'tests', 'bench', 'load-bench.ts')], { cwd: root, env });
+  const child = supervisor.spawn(
+    'load test',
+    process.execPath,
+    ['--import', 'tsx', path.join(root, 'tests', 'bench', 'load-bench.ts')],
+    { cwd: root, env },
+  );
   const code = await waitForExit(child);
   if (!supervisor.isStopping) process.exit(code);
 }

@@ -22,7 +22,11 @@ export function sourceHash(root: string): string {
   for (const f of SOURCE_FILES) if (existsSync(join(root, f))) files.push(join(root, f));
   const hash = createHash('sha256');
   for (const file of files.sort()) {
-    hash.update(relative(root, file)).update('\0').update(String(statSync(file).size)).update('\0');
+    hash
+      .update(relative(root, file))
+      .update('\0')
+      .update(String(statSync(file).size))
+      .update('\0');
     hash.update(readFileSync(file)).update('\0');
   }
   return hash.digest('hex');
@@ -32,7 +36,11 @@ export function sourceHash(root: string): string {
 export function buildIfStale(root: string, distDir: string, env: NodeJS.ProcessEnv): boolean {
   const stamp = join(root, distDir, 'worldsheet-source-hash');
   const wanted = sourceHash(root);
-  if (existsSync(join(root, distDir, 'BUILD_ID')) && existsSync(stamp) && readFileSync(stamp, 'utf8').trim() === wanted) {
+  if (
+    existsSync(join(root, distDir, 'BUILD_ID')) &&
+    existsSync(stamp) &&
+    readFileSync(stamp, 'utf8').trim() === wanted
+  ) {
     return false;
   }
   console.log(`[worldsheet] building the app into ${distDir}/ …`);

@@ -22,13 +22,23 @@ import { edgeHeaders, httpsEnabled, newNonce } from '../http/security-headers';
 
 const root = path.join(path.dirname(fileURLToPath(import.meta.url)), '..', '..');
 
-const FORWARDED_HEADERS = ['x-forwarded-for', 'x-forwarded-host', 'x-forwarded-proto', 'x-forwarded-port', 'x-real-ip', 'forwarded'];
+const FORWARDED_HEADERS = [
+  'x-forwarded-for',
+  'x-forwarded-host',
+  'x-forwarded-proto',
+  'x-forwarded-port',
+  'x-real-ip',
+  'forwarded',
+];
 
 /**
  * Rewrites the request's headers as described above and returns the headers for its response. The
  * request must come straight from a socket (req.socket.remoteAddress is its peer).
  */
-export function prepareRequest(req: IncomingMessage, options: { dev: boolean; https: boolean }): Record<string, string> {
+export function prepareRequest(
+  req: IncomingMessage,
+  options: { dev: boolean; https: boolean },
+): Record<string, string> {
   delete req.headers[PEER_ADDRESS_HEADER];
   const peer = req.socket.remoteAddress;
   if (peer) req.headers[PEER_ADDRESS_HEADER] = peer;
@@ -83,7 +93,9 @@ async function main(): Promise<void> {
     server.once('error', reject);
     server.listen(port, hostname, () => resolve());
   });
-  console.log(`[worldsheet] app server (${dev ? 'development' : 'production'}) listening on http://${hostname}:${port}${https ? ', served to browsers over HTTPS' : ''}`);
+  console.log(
+    `[worldsheet] app server (${dev ? 'development' : 'production'}) listening on http://${hostname}:${port}${https ? ', served to browsers over HTTPS' : ''}`,
+  );
 
   let stopping = false;
   const stop = (signal: NodeJS.Signals) => {

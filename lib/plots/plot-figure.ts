@@ -32,7 +32,12 @@ const LIGHT_DASH = '4 3';
 const HORIZON_COLOR = '#6f4500';
 const HORIZON_DASH = '12 3 3 3';
 
-type PathSink = { moveTo(x: number, y: number): void; lineTo(x: number, y: number): void; bezierCurveTo(a: number, b: number, c: number, d: number, x: number, y: number): void; closePath(): void };
+type PathSink = {
+  moveTo(x: number, y: number): void;
+  lineTo(x: number, y: number): void;
+  bezierCurveTo(a: number, b: number, c: number, d: number, x: number, y: number): void;
+  closePath(): void;
+};
 interface SymbolType {
   draw(context: PathSink, size: number): void;
 }
@@ -122,7 +127,11 @@ export interface SeriesStyle {
 
 /** The style of series number `i` (0-based). */
 export function seriesStyle(i: number): SeriesStyle {
-  return { color: SERIES_COLORS[i % SERIES_COLORS.length], dash: SERIES_DASHES[i % SERIES_DASHES.length], marker: MARKER_ORDER[i % MARKER_ORDER.length] };
+  return {
+    color: SERIES_COLORS[i % SERIES_COLORS.length],
+    dash: SERIES_DASHES[i % SERIES_DASHES.length],
+    marker: MARKER_ORDER[i % MARKER_ORDER.length],
+  };
 }
 
 function symbolPath(marker: string, size: number, dx: number, dy: number): string {
@@ -132,7 +141,8 @@ function symbolPath(marker: string, size: number, dx: number, dy: number): strin
     {
       moveTo: (x, y) => (d += `M${r(x + dx)},${r(y + dy)}`),
       lineTo: (x, y) => (d += `L${r(x + dx)},${r(y + dy)}`),
-      bezierCurveTo: (a, b, c2, e, x, y) => (d += `C${r(a + dx)},${r(b + dy)},${r(c2 + dx)},${r(e + dy)},${r(x + dx)},${r(y + dy)}`),
+      bezierCurveTo: (a, b, c2, e, x, y) =>
+        (d += `C${r(a + dx)},${r(b + dy)},${r(c2 + dx)},${r(e + dy)},${r(x + dx)},${r(y + dy)}`),
       closePath: () => (d += 'Z'),
     },
     size,
@@ -166,7 +176,9 @@ export function plotDescription(data: PlotData): string {
   const count = `${data.series.length} series${names ? ` (${names})` : ''}`;
   if (data.kind === 'spacetime') {
     const unit = unitLabel(spacetimeUnit(data));
-    const horizons = (data.horizons ?? []).map((h) => `horizon ${h.name}: x = ct − ${formatNumberText(h.distance, 6)}${unit ? ` ${unit}` : ''}`);
+    const horizons = (data.horizons ?? []).map(
+      (h) => `horizon ${h.name}: x = ct − ${formatNumberText(h.distance, 6)}${unit ? ` ${unit}` : ''}`,
+    );
     return `Space-time diagram, ${labels.y} against ${labels.x}, equal scales: ${count}; light lines x = ±ct${horizons.length ? `; ${horizons.join('; ')}` : ''}.`;
   }
   return `Plot of ${labels.y} against ${labels.x}: ${count}.`;
@@ -246,7 +258,14 @@ function legendRows(items: LegendItem[], width: number, fontSize: number): Legen
   return rows;
 }
 
-function drawLegend(svg: SVGSVGElement, document: Document, rows: LegendItem[][], left: number, top: number, fontSize: number): void {
+function drawLegend(
+  svg: SVGSVGElement,
+  document: Document,
+  rows: LegendItem[][],
+  left: number,
+  top: number,
+  fontSize: number,
+): void {
   const ns = 'http://www.w3.org/2000/svg';
   const g = document.createElementNS(ns, 'g');
   g.setAttribute('aria-label', 'legend');
@@ -303,14 +322,26 @@ export function plotElement(data: PlotData, document: Document, options: PlotFig
   const spacetime = data.kind === 'spacetime';
   const maxHeight = Math.max(160, options.height ?? (spacetime ? 480 : 400));
   const labels = plotAxisLabels(data);
-  const series = data.series.map((s, i) => ({ ...s, style: seriesStyle(i), points: s.points.filter(([x, y]) => Number.isFinite(x) && Number.isFinite(y)) }));
+  const series = data.series.map((s, i) => ({
+    ...s,
+    style: seriesStyle(i),
+    points: s.points.filter(([x, y]) => Number.isFinite(x) && Number.isFinite(y)),
+  }));
   const markers = series.every((s) => s.points.length <= MARKERS_UP_TO);
 
   const legend: LegendItem[] = [];
   if (spacetime || series.length > 1) {
-    for (const s of series) legend.push({ label: s.name, color: s.style.color, dash: s.style.dash, marker: markers ? s.style.marker : null, strokeWidth: 1.75 });
+    for (const s of series)
+      legend.push({
+        label: s.name,
+        color: s.style.color,
+        dash: s.style.dash,
+        marker: markers ? s.style.marker : null,
+        strokeWidth: 1.75,
+      });
   }
-  if (spacetime) legend.push({ label: 'light lines x = ±ct', color: LIGHT_COLOR, dash: LIGHT_DASH, marker: null, strokeWidth: 1 });
+  if (spacetime)
+    legend.push({ label: 'light lines x = ±ct', color: LIGHT_COLOR, dash: LIGHT_DASH, marker: null, strokeWidth: 1 });
   const rows = legendRows(legend, width - 60, fontSize);
   const legendHeight = rows.length ? rows.length * LEGEND_ROW + 8 : 0;
 
@@ -319,7 +350,14 @@ export function plotElement(data: PlotData, document: Document, options: PlotFig
   const horizons = spacetime ? (data.horizons ?? []).filter((h) => Number.isFinite(h.distance)) : [];
 
   const build = (marginLeft: number): SVGSVGElement => {
-    const layout: Layout = { width, height: maxHeight, marginLeft, marginRight: 24, marginTop: 20, marginBottom: 42 + legendHeight };
+    const layout: Layout = {
+      width,
+      height: maxHeight,
+      marginLeft,
+      marginRight: 24,
+      marginTop: 20,
+      marginBottom: 42 + legendHeight,
+    };
     const marks: Plot.Markish[] = [];
     let xDomain: [number, number];
     let yDomain: [number, number];
@@ -346,17 +384,40 @@ export function plotElement(data: PlotData, document: Document, options: PlotFig
       xDomain = [x0, x1];
       yDomain = [y0, y1];
       const box = { x0, x1, y0, y1 };
-      marks.push(Plot.ruleX([0], { stroke: 'currentColor', strokeOpacity: 0.6, strokeWidth: 0.75, ariaLabel: () => 'ct axis' }));
-      marks.push(Plot.ruleY([0], { stroke: 'currentColor', strokeOpacity: 0.6, strokeWidth: 0.75, ariaLabel: () => 'x axis' }));
+      marks.push(
+        Plot.ruleX([0], { stroke: 'currentColor', strokeOpacity: 0.6, strokeWidth: 0.75, ariaLabel: () => 'ct axis' }),
+      );
+      marks.push(
+        Plot.ruleY([0], { stroke: 'currentColor', strokeOpacity: 0.6, strokeWidth: 0.75, ariaLabel: () => 'x axis' }),
+      );
       for (const s of [1, -1] as const) {
         const seg = clip45(s, 0, box);
-        if (seg) marks.push(Plot.line(seg, { x: (d: [number, number]) => d[0], y: (d: [number, number]) => d[1], stroke: LIGHT_COLOR, strokeWidth: 1, strokeDasharray: LIGHT_DASH, ariaLabel: () => 'light line' }));
+        if (seg)
+          marks.push(
+            Plot.line(seg, {
+              x: (d: [number, number]) => d[0],
+              y: (d: [number, number]) => d[1],
+              stroke: LIGHT_COLOR,
+              strokeWidth: 1,
+              strokeDasharray: LIGHT_DASH,
+              ariaLabel: () => 'light line',
+            }),
+          );
       }
       const unit = unitLabel(spacetimeUnit(data));
       for (const h of horizons) {
         const seg = clip45(1, -h.distance, box);
         if (!seg) continue;
-        marks.push(Plot.line(seg, { x: (d: [number, number]) => d[0], y: (d: [number, number]) => d[1], stroke: HORIZON_COLOR, strokeWidth: 1.25, strokeDasharray: HORIZON_DASH, ariaLabel: () => 'horizon' }));
+        marks.push(
+          Plot.line(seg, {
+            x: (d: [number, number]) => d[0],
+            y: (d: [number, number]) => d[1],
+            stroke: HORIZON_COLOR,
+            strokeWidth: 1.25,
+            strokeDasharray: HORIZON_DASH,
+            ariaLabel: () => 'horizon',
+          }),
+        );
         // The name along the line, towards its upper end, just above it.
         const [[ax, ay], [bx, by]] = seg;
         const at: [number, number] = [ax + (bx - ax) * 0.9, ay + (by - ay) * 0.9];
@@ -393,14 +454,44 @@ export function plotElement(data: PlotData, document: Document, options: PlotFig
         }),
       );
       if (markers && s.points.length > 0) {
-        marks.push(Plot.dot(s.points, { x: (d: [number, number]) => d[0], y: (d: [number, number]) => d[1], symbol: MARKERS[st.marker], r: 3, fill: st.color, stroke: 'none', ariaLabel: () => `markers ${s.name}` }));
+        marks.push(
+          Plot.dot(s.points, {
+            x: (d: [number, number]) => d[0],
+            y: (d: [number, number]) => d[1],
+            symbol: MARKERS[st.marker],
+            r: 3,
+            fill: st.color,
+            stroke: 'none',
+            ariaLabel: () => `markers ${s.name}`,
+          }),
+        );
       }
     });
     const svg = Plot.plot({
       document,
       ...layout,
-      x: { domain: xDomain, nice: !spacetime, inset: 0, label: labels.x, labelAnchor: 'center', labelArrow: 'none', labelOffset: 34, grid: true, tickFormat: tickText },
-      y: { domain: yDomain, nice: !spacetime, inset: 0, label: labels.y, labelAnchor: 'center', labelArrow: 'none', labelOffset: marginLeft - 6, grid: true, tickFormat: tickText },
+      x: {
+        domain: xDomain,
+        nice: !spacetime,
+        inset: 0,
+        label: labels.x,
+        labelAnchor: 'center',
+        labelArrow: 'none',
+        labelOffset: 34,
+        grid: true,
+        tickFormat: tickText,
+      },
+      y: {
+        domain: yDomain,
+        nice: !spacetime,
+        inset: 0,
+        label: labels.y,
+        labelAnchor: 'center',
+        labelArrow: 'none',
+        labelOffset: marginLeft - 6,
+        grid: true,
+        tickFormat: tickText,
+      },
       marks,
     }) as SVGSVGElement;
     svg.setAttribute('font-family', options.fontFamily ?? PLOT_FONT_FAMILY);

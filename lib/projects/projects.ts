@@ -7,7 +7,13 @@ import type { Actor } from '@/lib/auth/actor';
 import { recordAudit } from '@/lib/audit/record';
 import { AppError } from '@/lib/errors/app-error';
 
-export const PROJECT_ROLES = ['originator', 'checker', 'approver', 'controller', 'viewer'] as const satisfies readonly ProjectRole[];
+export const PROJECT_ROLES = [
+  'originator',
+  'checker',
+  'approver',
+  'controller',
+  'viewer',
+] as const satisfies readonly ProjectRole[];
 
 export const ROLE_LABELS: Record<ProjectRole, string> = {
   originator: 'Originator',
@@ -18,7 +24,10 @@ export const ROLE_LABELS: Record<ProjectRole, string> = {
 };
 
 export const projectInputSchema = z.object({
-  code: z.string().trim().regex(/^[A-Z][A-Z0-9]{1,9}$/, 'a code is 2 to 10 capital letters or digits, starting with a letter'),
+  code: z
+    .string()
+    .trim()
+    .regex(/^[A-Z][A-Z0-9]{1,9}$/, 'a code is 2 to 10 capital letters or digits, starting with a letter'),
   name: z.string().trim().min(1, 'give the project a name').max(200),
   legalOwner: z.string().trim().min(1, 'name the legal owner').max(200),
   revisionScheme: z.enum(['letters', 'numbers']),
@@ -36,10 +45,22 @@ export async function createProject(db: Kysely<Database>, actor: Actor, input: z
     if (existing) throw new AppError('conflict', `A project with the code ${input.code} exists already.`);
     const project = await trx
       .insertInto('projects')
-      .values({ code: input.code, name: input.name, legal_owner: input.legalOwner, revision_scheme: input.revisionScheme, created_by: actor.userId })
+      .values({
+        code: input.code,
+        name: input.name,
+        legal_owner: input.legalOwner,
+        revision_scheme: input.revisionScheme,
+        created_by: actor.userId,
+      })
       .returning(['id', 'code'])
       .executeTakeFirstOrThrow();
-    await recordAudit(trx, actor, { action: 'project.create', objectType: 'project', objectId: project.id, projectId: project.id, newValue: input });
+    await recordAudit(trx, actor, {
+      action: 'project.create',
+      objectType: 'project',
+      objectId: project.id,
+      projectId: project.id,
+      newValue: input,
+    });
     return project;
   });
 }
@@ -49,7 +70,17 @@ export async function listProjectsFor(db: Kysely<Database>, actor: Actor) {
   const rows = await db
     .selectFrom('projects as p')
     .leftJoin('project_members as m', (j) => j.onRef('m.project_id', '=', 'p.id').on('m.user_id', '=', actor.userId))
-    .select(['p.id', 'p.code', 'p.name', 'p.legal_owner', 'p.revision_scheme', 'p.created_at', sql<ProjectRole[]>`coalesce(array_agg(m.role order by m.role) filter (where m.role is not null), '{}')`.as('roles')])
+    .select([
+      'p.id',
+      'p.code',
+      'p.name',
+      'p.legal_owner',
+      'p.revision_scheme',
+      'p.created_at',
+      sql<ProjectRole[]>`coalesce(array_agg(m.role order by m.role) filter (where m.role is not null), '{}')`.as(
+        'roles',
+      ),
+    ])
     .groupBy('p.id')
     .orderBy('p.code')
     .execute();
@@ -57,23 +88,42 @@ export async function listProjectsFor(db: Kysely<Database>, actor: Actor) {
 }
 
 export async function listAllProjects(db: Kysely<Database>) {
-  return db.selectFrom('projects').select(['id', 'code', 'name', 'legal_owner', 'revision_scheme', 'created_at']).orderBy('code').execute();
+  return db
+    .selectFrom('projects')
+    .select(['id', 'code', 'name', 'legal_owner', 'revision_scheme', 'created_at'])
+    .orderBy('code')
+    .execute();
 }
 
 export async function listMembers(db: Kysely<Database>, projectId: string) {
   return db
     .selectFrom('project_members as m')
     .innerJoin('users as u', 'u.id', 'm.user_id')
-    .select(['u.id as userId', 'u.email', 'u.display_name as name', 'u.disabled_at as disabledAt', sql<ProjectRole[]>`array_agg(m.role order by m.role)`.as('roles')])
+    .select([
+      'u.id as userId',
+      'u.email',
+      'u.display_name as name',
+      'u.disabled_at as disabledAt',
+      sql<ProjectRole[]>`array_agg(m.role order by m.role)`.as('roles'),
+    ])
     .where('m.project_id', '=', projectId)
     .groupBy(['u.id', 'u.email', 'u.display_name', 'u.disabled_at'])
     .orderBy('u.display_name')
     .execute();
 }
 
-export async function grantRole(db: Kysely<Database>, actor: Actor, projectId: string, input: z.infer<typeof roleChangeSchema>): Promise<void> {
+export async function grantRole(
+  db: Kysely<Database>,
+  actor: Actor,
+  projectId: string,
+  input: z.infer<typeof roleChangeSchema>,
+): Promise<void> {
   await db.transaction().execute(async (trx) => {
-    const user = await trx.selectFrom('users').select(['id', 'disabled_at']).where('id', '=', input.userId).executeTakeFirst();
+    const user = await trx
+      .selectFrom('users')
+      .select(['id', 'disabled_at'])
+      .where('id', '=', input.userId)
+      .executeTakeFirst();
     if (!user) throw new AppError('not_found', 'No such user.');
     if (user.disabled_at) throw new AppError('conflict', 'A disabled user cannot be given a role.');
     const added = await trx
@@ -83,11 +133,23 @@ export async function grantRole(db: Kysely<Database>, actor: Actor, projectId: s
       .returning('role')
       .executeTakeFirst();
     if (!added) throw new AppError('conflict', 'The user holds this role already.');
-    await recordAudit(trx, actor, { action: 'membership.grant', objectType: 'user', objectId: input.userId, projectId, newValue: { role: input.role }, reason: input.reason });
+    await recordAudit(trx, actor, {
+      action: 'membership.grant',
+      objectType: 'user',
+      objectId: input.userId,
+      projectId,
+      newValue: { role: input.role },
+      reason: input.reason,
+    });
   });
 }
 
-export async function revokeRole(db: Kysely<Database>, actor: Actor, projectId: string, input: z.infer<typeof roleChangeSchema>): Promise<void> {
+export async function revokeRole(
+  db: Kysely<Database>,
+  actor: Actor,
+  projectId: string,
+  input: z.infer<typeof roleChangeSchema>,
+): Promise<void> {
   await db.transaction().execute(async (trx) => {
     const removed = await trx
       .deleteFrom('project_members')
@@ -97,6 +159,13 @@ export async function revokeRole(db: Kysely<Database>, actor: Actor, projectId: 
       .returning('role')
       .executeTakeFirst();
     if (!removed) throw new AppError('not_found', 'The user does not hold this role.');
-    await recordAudit(trx, actor, { action: 'membership.revoke', objectType: 'user', objectId: input.userId, projectId, oldValue: { role: input.role }, reason: input.reason });
+    await recordAudit(trx, actor, {
+      action: 'membership.revoke',
+      objectType: 'user',
+      objectId: input.userId,
+      projectId,
+      oldValue: { role: input.role },
+      reason: input.reason,
+    });
   });
 }

@@ -43,12 +43,24 @@ export async function listUsers(db: Kysely<Database>) {
     .execute();
 }
 
-export async function inviteUser(db: Kysely<Database>, actor: Actor, input: z.infer<typeof inviteSchema>): Promise<{ id: string }> {
+export async function inviteUser(
+  db: Kysely<Database>,
+  actor: Actor,
+  input: z.infer<typeof inviteSchema>,
+): Promise<{ id: string }> {
   return db.transaction().execute(async (trx) => {
     const existing = await trx.selectFrom('users').select('id').where('email', '=', input.email).executeTakeFirst();
     if (existing) throw new AppError('conflict', 'There is an account with this e-mail address already.');
-    const user = await trx.insertInto('users').values({ email: input.email, display_name: input.name, password_hash: null, is_admin: input.isAdmin }).returning('id').executeTakeFirstOrThrow();
-    const token = await createEmailToken(trx, { userId: user.id, purpose: 'invitation', minutes: AUTH_SETTINGS.invitationDays * 24 * 60 });
+    const user = await trx
+      .insertInto('users')
+      .values({ email: input.email, display_name: input.name, password_hash: null, is_admin: input.isAdmin })
+      .returning('id')
+      .executeTakeFirstOrThrow();
+    const token = await createEmailToken(trx, {
+      userId: user.id,
+      purpose: 'invitation',
+      minutes: AUTH_SETTINGS.invitationDays * 24 * 60,
+    });
     await enqueueMail(trx, {
       kind: 'invitation',
       to: input.email,
@@ -61,40 +73,78 @@ export async function inviteUser(db: Kysely<Database>, actor: Actor, input: z.in
         `${appUrl()}/reset-password?token=${token}&invitation=1`,
       ].join('\n'),
     });
-    await recordAudit(trx, actor, { action: 'user.invite', objectType: 'user', objectId: user.id, newValue: { email: input.email, name: input.name, isAdmin: input.isAdmin } });
+    await recordAudit(trx, actor, {
+      action: 'user.invite',
+      objectType: 'user',
+      objectId: user.id,
+      newValue: { email: input.email, name: input.name, isAdmin: input.isAdmin },
+    });
     return user;
   });
 }
 
-export async function changeUser(db: Kysely<Database>, actor: Actor, userId: string, input: z.infer<typeof userChangeSchema>): Promise<void> {
-  if (userId === actor.userId && input.action === 'disable') throw new AppError('conflict', 'You cannot disable your own account.');
+export async function changeUser(
+  db: Kysely<Database>,
+  actor: Actor,
+  userId: string,
+  input: z.infer<typeof userChangeSchema>,
+): Promise<void> {
+  if (userId === actor.userId && input.action === 'disable')
+    throw new AppError('conflict', 'You cannot disable your own account.');
   await db.transaction().execute(async (trx) => {
-    const user = await trx.selectFrom('users').select(['id', 'disabled_at', 'lock_expires_at', LOCK_ACTIVE.as('locked')]).where('id', '=', userId).forUpdate().executeTakeFirst();
+    const user = await trx
+      .selectFrom('users')
+      .select(['id', 'disabled_at', 'lock_expires_at', LOCK_ACTIVE.as('locked')])
+      .where('id', '=', userId)
+      .forUpdate()
+      .executeTakeFirst();
     if (!user) throw new AppError('not_found', 'No such user.');
     if (input.action === 'disable') {
       if (user.disabled_at) throw new AppError('conflict', 'The account is disabled already.');
-      await trx.updateTable('users').set({ disabled_at: sql`now()` }).where('id', '=', userId).execute();
+      await trx
+        .updateTable('users')
+        .set({ disabled_at: sql`now()` })
+        .where('id', '=', userId)
+        .execute();
       await endUserSessions(trx as unknown as Kysely<Database>, userId, 'user disabled');
-      await trx.updateTable('api_tokens').set({ revoked_at: sql`now()` }).where('user_id', '=', userId).where('revoked_at', 'is', null).execute();
+      await trx
+        .updateTable('api_tokens')
+        .set({ revoked_at: sql`now()` })
+        .where('user_id', '=', userId)
+        .where('revoked_at', 'is', null)
+        .execute();
     } else if (input.action === 'enable') {
       if (!user.disabled_at) throw new AppError('conflict', 'The account is not disabled.');
       await trx.updateTable('users').set({ disabled_at: null }).where('id', '=', userId).execute();
     } else if (input.action === 'lock') {
       // An administrator's lock has no end (lock_expires_at null): it lasts until an administrator
       // unlocks, and the holder's e-mailed unlock links do not lift it. A timed lock becomes one.
-      if (user.locked && user.lock_expires_at === null) throw new AppError('conflict', 'The account is locked already.');
-      await trx.updateTable('users').set({ locked_at: sql`now()`, lock_expires_at: null }).where('id', '=', userId).execute();
+      if (user.locked && user.lock_expires_at === null)
+        throw new AppError('conflict', 'The account is locked already.');
+      await trx
+        .updateTable('users')
+        .set({ locked_at: sql`now()`, lock_expires_at: null })
+        .where('id', '=', userId)
+        .execute();
       // Its sessions end now; its API tokens are refused while the lock lasts (lib/auth/api-tokens.ts).
       await endUserSessions(trx, userId, 'user locked');
     } else {
       if (!user.locked) throw new AppError('conflict', 'The account is not locked.');
-      await trx.updateTable('users').set({ locked_at: null, lock_expires_at: null, failed_sign_ins: 0 }).where('id', '=', userId).execute();
+      await trx
+        .updateTable('users')
+        .set({ locked_at: null, lock_expires_at: null, failed_sign_ins: 0 })
+        .where('id', '=', userId)
+        .execute();
     }
     await recordAudit(trx, actor, {
       action: `user.${input.action}`,
       objectType: 'user',
       objectId: userId,
-      oldValue: { disabled: Boolean(user.disabled_at), locked: Boolean(user.locked), lockedUntil: user.locked ? (user.lock_expires_at?.toISOString() ?? null) : null },
+      oldValue: {
+        disabled: Boolean(user.disabled_at),
+        locked: Boolean(user.locked),
+        lockedUntil: user.locked ? (user.lock_expires_at?.toISOString() ?? null) : null,
+      },
       reason: input.reason,
     });
   });

@@ -96,7 +96,8 @@ export interface ResultComparison {
   flipped: boolean;
 }
 
-export type RecordFieldName = 'title' | 'safetyRelated' | 'significantFigures' | 'displayUnits' | 'objective' | 'method' | 'conclusions';
+export type RecordFieldName =
+  'title' | 'safetyRelated' | 'significantFigures' | 'displayUnits' | 'objective' | 'method' | 'conclusions';
 
 export interface RecordFieldChange {
   field: RecordFieldName;
@@ -251,7 +252,11 @@ export interface VersionComparison {
  *   added table lists every row as added.
  * - With `base` null every cell, result, field and list item of the target is `added`.
  */
-export function compareVersions(base: ComparedVersion | null, target: ComparedVersion, options: CompareOptions = {}): VersionComparison {
+export function compareVersions(
+  base: ComparedVersion | null,
+  target: ComparedVersion,
+  options: CompareOptions = {},
+): VersionComparison {
   const cells = compareCells(base?.content.cells ?? [], target.content.cells);
   const resultsCompared = base === null || (base.results !== null && target.results !== null);
   const results = resultsCompared ? compareResults(base?.results ?? null, target.results) : [];
@@ -296,7 +301,11 @@ function tokenize(text: string): string[] {
 export function wordDiff(oldText: string, newText: string): DiffPiece[] {
   if (oldText === newText) return oldText === '' ? [] : [{ text: oldText }];
   const changes = diffArrays(tokenize(oldText), tokenize(newText), { maxEditLength: MAX_EDIT_TOKENS });
-  if (!changes) return [...(oldText ? [{ text: oldText, removed: true as const }] : []), ...(newText ? [{ text: newText, added: true as const }] : [])];
+  if (!changes)
+    return [
+      ...(oldText ? [{ text: oldText, removed: true as const }] : []),
+      ...(newText ? [{ text: newText, added: true as const }] : []),
+    ];
 
   const pieces: DiffPiece[] = [];
   let removed = '';
@@ -458,9 +467,21 @@ function keyedStatements(results: SheetResult | null): KeyedStatement[] {
   for (const cell of results.cells) {
     for (const statement of cell.statements) {
       if (statement.kind === 'criterion') {
-        out.push({ key: keyOf(`criterion:${cell.id}:${statement.source}`), type: 'criterion', name: statement.source, cellId: cell.id, statement });
+        out.push({
+          key: keyOf(`criterion:${cell.id}:${statement.source}`),
+          type: 'criterion',
+          name: statement.source,
+          cellId: cell.id,
+          statement,
+        });
       } else if (statement.name !== null) {
-        out.push({ key: keyOf(`value:${statement.name}`), type: 'value', name: statement.name, cellId: cell.id, statement });
+        out.push({
+          key: keyOf(`value:${statement.name}`),
+          type: 'value',
+          name: statement.name,
+          cellId: cell.id,
+          statement,
+        });
       }
     }
   }
@@ -513,9 +534,11 @@ function compareResults(base: SheetResult | null, target: SheetResult | null): R
     let relativeChange: number | null = null;
     let unitChanged = false;
     if (entry.type === 'value' && oldSnap && newSnap) {
-      if (oldSnap.kind === 'quantity' && newSnap.kind === 'quantity' && oldSnap.unit !== newSnap.unit) unitChanged = true;
+      if (oldSnap.kind === 'quantity' && newSnap.kind === 'quantity' && oldSnap.unit !== newSnap.unit)
+        unitChanged = true;
       else if (oldSnap.number !== null && newSnap.number !== null && oldSnap.unit === newSnap.unit) {
-        if (oldSnap.number !== 0) relativeChange = finiteOrNull((newSnap.number - oldSnap.number) / Math.abs(oldSnap.number));
+        if (oldSnap.number !== 0)
+          relativeChange = finiteOrNull((newSnap.number - oldSnap.number) / Math.abs(oldSnap.number));
         else if (newSnap.number === 0) relativeChange = 0;
       }
     }
@@ -617,7 +640,11 @@ function displayUnitsLabel(content: VersionContent): string {
   return DISPLAY_UNITS_LABEL[content.displayUnits ?? DISPLAY_UNITS_DEFAULT];
 }
 
-function compareRecord(base: VersionContent | null, target: VersionContent, tables: Readonly<Record<string, ComparedTable>>): RecordComparison {
+function compareRecord(
+  base: VersionContent | null,
+  target: VersionContent,
+  tables: Readonly<Record<string, ComparedTable>>,
+): RecordComparison {
   const fields = [
     compareField('title', base?.title ?? null, target.title, true),
     compareField('safetyRelated', base?.safetyRelated ?? null, target.safetyRelated, false),
@@ -646,7 +673,13 @@ function compareRecord(base: VersionContent | null, target: VersionContent, tabl
       ['needsVerification'] as const,
       (a, f) => a[f],
     ),
-    references: compareList<string, never>(oldRecord?.references ?? [], target.record.references, (r) => r, [], () => null),
+    references: compareList<string, never>(
+      oldRecord?.references ?? [],
+      target.record.references,
+      (r) => r,
+      [],
+      () => null,
+    ),
     attachments: compareList(
       base?.attachments ?? [],
       target.attachments,
@@ -674,16 +707,25 @@ export function compareTables(oldTable: ComparedTable | null, newTable: Compared
     ...newCols.map((c): TableColumnChange => {
       const old = oldByName.get(c.name);
       if (!old) return { name: c.name, status: 'added', oldUnit: null, newUnit: c.unit };
-      return { name: c.name, status: old.unit === c.unit ? 'unchanged' : 'unitChanged', oldUnit: old.unit, newUnit: c.unit };
+      return {
+        name: c.name,
+        status: old.unit === c.unit ? 'unchanged' : 'unitChanged',
+        oldUnit: old.unit,
+        newUnit: c.unit,
+      };
     }),
-    ...oldCols.filter((c) => !newNames.has(c.name)).map((c): TableColumnChange => ({ name: c.name, status: 'removed', oldUnit: c.unit, newUnit: null })),
+    ...oldCols
+      .filter((c) => !newNames.has(c.name))
+      .map((c): TableColumnChange => ({ name: c.name, status: 'removed', oldUnit: c.unit, newUnit: null })),
   ];
   const shared = columns.filter((c) => c.status === 'unchanged' || c.status === 'unitChanged').map((c) => c.name);
   const newByName = new Map(newCols.map((c) => [c.name, c]));
   const oldCount = oldTable ? Math.min(oldTable.rows, ...oldCols.map((c) => c.values.length)) : 0;
   const newCount = newTable ? Math.min(newTable.rows, ...newCols.map((c) => c.values.length)) : 0;
-  const rowValues = (byName: Map<string, ComparedTable['columns'][number]>, r: number) => columns.map((c) => byName.get(c.name)?.values[r] ?? null);
-  const keyOf = (byName: Map<string, ComparedTable['columns'][number]>, r: number) => JSON.stringify(shared.map((n) => byName.get(n)!.values[r]));
+  const rowValues = (byName: Map<string, ComparedTable['columns'][number]>, r: number) =>
+    columns.map((c) => byName.get(c.name)?.values[r] ?? null);
+  const keyOf = (byName: Map<string, ComparedTable['columns'][number]>, r: number) =>
+    JSON.stringify(shared.map((n) => byName.get(n)!.values[r]));
   const oldKeys = Array.from({ length: oldCount }, (_, r) => keyOf(oldByName, r));
   const newKeys = Array.from({ length: newCount }, (_, r) => keyOf(newByName, r));
 
@@ -699,10 +741,35 @@ export function compareTables(oldTable: ComparedTable | null, newTable: Compared
       const o = k < removed.length ? removed[k] : null;
       const n = k < added.length ? added[k] : null;
       if (k < pairs && o !== null && n !== null) {
-        const changedColumns = shared.filter((name) => !Object.is(oldByName.get(name)!.values[o], newByName.get(name)!.values[n]));
-        push({ status: 'changed', oldRow: o + 1, newRow: n + 1, old: rowValues(oldByName, o), new: rowValues(newByName, n), changedColumns });
-      } else if (o !== null) push({ status: 'removed', oldRow: o + 1, newRow: null, old: rowValues(oldByName, o), new: null, changedColumns: [] });
-      else if (n !== null) push({ status: 'added', oldRow: null, newRow: n + 1, old: null, new: rowValues(newByName, n), changedColumns: [] });
+        const changedColumns = shared.filter(
+          (name) => !Object.is(oldByName.get(name)!.values[o], newByName.get(name)!.values[n]),
+        );
+        push({
+          status: 'changed',
+          oldRow: o + 1,
+          newRow: n + 1,
+          old: rowValues(oldByName, o),
+          new: rowValues(newByName, n),
+          changedColumns,
+        });
+      } else if (o !== null)
+        push({
+          status: 'removed',
+          oldRow: o + 1,
+          newRow: null,
+          old: rowValues(oldByName, o),
+          new: null,
+          changedColumns: [],
+        });
+      else if (n !== null)
+        push({
+          status: 'added',
+          oldRow: null,
+          newRow: n + 1,
+          old: null,
+          new: rowValues(newByName, n),
+          changedColumns: [],
+        });
     }
   };
 
@@ -778,7 +845,10 @@ export interface FoldedCells {
  * `minRun` cells (default 1) stays shown too. Every non-unchanged cell is shown, in the
  * comparison's order.
  */
-export function foldUnchanged(comparison: Pick<VersionComparison, 'cells'>, options: { context?: number; minRun?: number } = {}): FoldedCells {
+export function foldUnchanged(
+  comparison: Pick<VersionComparison, 'cells'>,
+  options: { context?: number; minRun?: number } = {},
+): FoldedCells {
   const context = Math.max(0, Math.floor(options.context ?? 0));
   const minRun = Math.max(1, Math.floor(options.minRun ?? 1));
   const cells = comparison.cells;

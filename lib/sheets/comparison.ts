@@ -7,8 +7,17 @@ import { attachmentTables } from '@/lib/attachments/attachments';
 import { compareVersions, type ComparedVersion, type VersionComparison } from './compare';
 
 /** Compares `base` (null: a first check, everything new) with `target`, both versions of sheet `sheetId`. */
-export async function compareStoredVersions(db: Kysely<Database>, sheetId: string, base: ComparedVersion | null, target: ComparedVersion): Promise<VersionComparison> {
+export async function compareStoredVersions(
+  db: Kysely<Database>,
+  sheetId: string,
+  base: ComparedVersion | null,
+  target: ComparedVersion,
+): Promise<VersionComparison> {
   const hashes = [...(base?.content.attachments ?? []), ...target.content.attachments].map((a) => a.sha256);
   const tables = await attachmentTables(db, sheetId, hashes);
-  return compareVersions(base ? { content: base.content, results: base.results } : null, { content: target.content, results: target.results }, { tables });
+  return compareVersions(
+    base ? { content: base.content, results: base.results } : null,
+    { content: target.content, results: target.results },
+    { tables },
+  );
 }

@@ -68,7 +68,8 @@ export const versionContentSchema = z
   .superRefine((content, ctx) => {
     const seen = new Set<string>();
     content.cells.forEach((cell, index) => {
-      if (seen.has(cell.id)) ctx.addIssue({ code: 'custom', path: ['cells', index, 'id'], message: `duplicate cell id ${cell.id}` });
+      if (seen.has(cell.id))
+        ctx.addIssue({ code: 'custom', path: ['cells', index, 'id'], message: `duplicate cell id ${cell.id}` });
       seen.add(cell.id);
     });
     refuseBidiControls(content.cells, ctx);
@@ -78,8 +79,13 @@ export const versionContentSchema = z
  * Adds an issue for every calculation cell whose source holds a bidirectional control character
  * (lib/calc/bidi-controls.ts): such a source can read differently from what is evaluated.
  */
-export function refuseBidiControls(cells: ReadonlyArray<{ kind: string; source: string }>, ctx: z.RefinementCtx, path: Array<string | number> = ['cells']): void {
-  for (const { index, message } of bidiControlsInCalcCells(cells)) ctx.addIssue({ code: 'custom', path: [...path, index, 'source'], message });
+export function refuseBidiControls(
+  cells: ReadonlyArray<{ kind: string; source: string }>,
+  ctx: z.RefinementCtx,
+  path: Array<string | number> = ['cells'],
+): void {
+  for (const { index, message } of bidiControlsInCalcCells(cells))
+    ctx.addIssue({ code: 'custom', path: [...path, index, 'source'], message });
 }
 
 export type Cell = z.infer<typeof cellSchema>;

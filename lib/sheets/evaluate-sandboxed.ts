@@ -13,12 +13,18 @@ export function evaluationScope(input: { projectId: string } | { userId: string 
   return 'projectId' in input ? `project:${input.projectId}` : `user:${input.userId}`;
 }
 
-export async function evaluateSandboxed(cells: CellInput[], options: EvaluateOptions, context: EvaluationContext): Promise<SheetResult> {
+export async function evaluateSandboxed(
+  cells: CellInput[],
+  options: EvaluateOptions,
+  context: EvaluationContext,
+): Promise<SheetResult> {
   try {
     return await getEvaluator().evaluate(cells, options, context);
   } catch (error) {
     if (error instanceof EvaluationRefused) {
-      throw error.reason === 'too-large' ? new AppError('too_large', error.message) : new AppError('too_many_requests', error.message, null, error.retryAfterSeconds);
+      throw error.reason === 'too-large'
+        ? new AppError('too_large', error.message)
+        : new AppError('too_many_requests', error.message, null, error.retryAfterSeconds);
     }
     throw error;
   }

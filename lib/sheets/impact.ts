@@ -53,7 +53,12 @@ function valueOf(statement: StatementResult | null): CitedValue | null {
 }
 
 /** The first definition of each name in a version's stored results. */
-async function definitions(db: Kysely<Database>, sheetId: string, versionNumber: number, names: string[]): Promise<Map<string, CitedValue | null>> {
+async function definitions(
+  db: Kysely<Database>,
+  sheetId: string,
+  versionNumber: number,
+  names: string[],
+): Promise<Map<string, CitedValue | null>> {
   if (names.length === 0) return new Map();
   const rows = await sql<{ name: string; statement: StatementResult | null }>`
     select n.name, jsonb_path_query_first(v.results, '$.cells[*].statements[*] ? (@.name == $name && @.kind == "definition")', jsonb_build_object('name', n.name)) as statement
@@ -62,16 +67,24 @@ async function definitions(db: Kysely<Database>, sheetId: string, versionNumber:
   return new Map(rows.rows.map((r) => [r.name, valueOf(r.statement)]));
 }
 
-const sameValue = (a: CitedValue | null, b: CitedValue | null) => a !== null && b !== null && a.error === null && b.error === null && a.number === b.number && a.unit === b.unit;
+const sameValue = (a: CitedValue | null, b: CitedValue | null) =>
+  a !== null && b !== null && a.error === null && b.error === null && a.number === b.number && a.unit === b.unit;
 
 /**
  * The citations of a version (the sheet's latest when `versionNumber` is not given) whose revision
  * is no longer current (superseded, or withdrawn), with the values then and now. Empty when every
  * cited revision is current: the flag clears when the sheet saves a version citing the current one.
  */
-export async function supersededInputs(db: Kysely<Database>, sheetId: string, versionNumber?: number): Promise<SupersededInput[]> {
+export async function supersededInputs(
+  db: Kysely<Database>,
+  sheetId: string,
+  versionNumber?: number,
+): Promise<SupersededInput[]> {
   let version = db.selectFrom('versions').select(['id']).where('sheet_id', '=', sheetId);
-  version = versionNumber === undefined ? version.orderBy('number', 'desc').limit(1) : version.where('number', '=', versionNumber);
+  version =
+    versionNumber === undefined
+      ? version.orderBy('number', 'desc').limit(1)
+      : version.where('number', '=', versionNumber);
   const v = await version.executeTakeFirst();
   if (!v) return [];
   const rows = await db
@@ -80,7 +93,21 @@ export async function supersededInputs(db: Kysely<Database>, sheetId: string, ve
     .innerJoin('sheets as s', 's.id', 'r.sheet_id')
     .innerJoin('projects as p', 'p.id', 's.project_id')
     .leftJoin('revisions as c', (j) => j.onRef('c.sheet_id', '=', 'r.sheet_id').on('c.status', '=', 'current'))
-    .select(['vr.name', 'r.id', 'r.code', 'r.status', 'r.withdrawn_reason', 'r.version_number', 'r.sequence', 's.id as sheet_id', 's.number', 's.title', 'p.code as project_code', 'c.code as current_code', 'c.version_number as current_version'])
+    .select([
+      'vr.name',
+      'r.id',
+      'r.code',
+      'r.status',
+      'r.withdrawn_reason',
+      'r.version_number',
+      'r.sequence',
+      's.id as sheet_id',
+      's.number',
+      's.title',
+      'p.code as project_code',
+      'c.code as current_code',
+      'c.version_number as current_version',
+    ])
     .where('vr.version_id', '=', v.id)
     .where('r.status', '<>', 'current')
     .orderBy('s.number')
@@ -97,7 +124,9 @@ export async function supersededInputs(db: Kysely<Database>, sheetId: string, ve
   for (const { row, names } of byRevision.values()) {
     const [cited, current] = await Promise.all([
       definitions(db, row.sheet_id, row.version_number, names),
-      row.current_version === null ? Promise.resolve(new Map<string, CitedValue | null>()) : definitions(db, row.sheet_id, row.current_version, names),
+      row.current_version === null
+        ? Promise.resolve(new Map<string, CitedValue | null>())
+        : definitions(db, row.sheet_id, row.current_version, names),
     ]);
     out.push({
       sheetId: row.sheet_id,
@@ -124,7 +153,14 @@ export async function supersededInputs(db: Kysely<Database>, sheetId: string, ve
   return out;
 }
 
-type StaleRow = { key: string; sheet_number: number; project_code: string; code: string; status: RevisionStatus; current_code: string | null };
+type StaleRow = {
+  key: string;
+  sheet_number: number;
+  project_code: string;
+  code: string;
+  status: RevisionStatus;
+  current_code: string | null;
+};
 
 function groupStale(rows: StaleRow[]): Map<string, StaleCitation[]> {
   const out = new Map<string, StaleCitation[]>();
@@ -132,7 +168,13 @@ function groupStale(rows: StaleRow[]): Map<string, StaleCitation[]> {
     const list = out.get(r.key) ?? [];
     const sheet = formatSheetNumber(r.project_code, r.sheet_number);
     if (!list.some((x) => x.sheet === sheet && x.revision === r.code)) {
-      list.push({ sheet, sheetNumber: r.sheet_number, revision: r.code, status: r.status as StaleCitation['status'], currentRevision: r.current_code });
+      list.push({
+        sheet,
+        sheetNumber: r.sheet_number,
+        revision: r.code,
+        status: r.status as StaleCitation['status'],
+        currentRevision: r.current_code,
+      });
     }
     out.set(r.key, list);
   }
@@ -143,16 +185,28 @@ function groupStale(rows: StaleRow[]): Map<string, StaleCitation[]> {
  * For the document register: per revision of the project (by id), the revisions its own version
  * cites that are no longer current. Revisions without such a citation are absent.
  */
-export async function revisionInputFlags(db: Kysely<Database>, projectId: string): Promise<Map<string, StaleCitation[]>> {
+export async function revisionInputFlags(
+  db: Kysely<Database>,
+  projectId: string,
+): Promise<Map<string, StaleCitation[]>> {
   const rows = await db
     .selectFrom('revisions as d')
-    .innerJoin('versions as v', (j) => j.onRef('v.sheet_id', '=', 'd.sheet_id').onRef('v.number', '=', 'd.version_number'))
+    .innerJoin('versions as v', (j) =>
+      j.onRef('v.sheet_id', '=', 'd.sheet_id').onRef('v.number', '=', 'd.version_number'),
+    )
     .innerJoin('version_references as vr', 'vr.version_id', 'v.id')
     .innerJoin('revisions as r', 'r.id', 'vr.revision_id')
     .innerJoin('sheets as s', 's.id', 'r.sheet_id')
     .innerJoin('projects as p', 'p.id', 's.project_id')
     .leftJoin('revisions as c', (j) => j.onRef('c.sheet_id', '=', 'r.sheet_id').on('c.status', '=', 'current'))
-    .select(['d.id as key', 's.number as sheet_number', 'p.code as project_code', 'r.code', 'r.status', 'c.code as current_code'])
+    .select([
+      'd.id as key',
+      's.number as sheet_number',
+      'p.code as project_code',
+      'r.code',
+      'r.status',
+      'c.code as current_code',
+    ])
     .where('d.project_id', '=', projectId)
     .where('r.status', '<>', 'current')
     .orderBy('s.number')
@@ -171,9 +225,21 @@ export async function sheetInputFlags(db: Kysely<Database>, projectId: string): 
     .innerJoin('sheets as s', 's.id', 'r.sheet_id')
     .innerJoin('projects as p', 'p.id', 's.project_id')
     .leftJoin('revisions as c', (j) => j.onRef('c.sheet_id', '=', 'r.sheet_id').on('c.status', '=', 'current'))
-    .select(['d.id as key', 's.number as sheet_number', 'p.code as project_code', 'r.code', 'r.status', 'c.code as current_code'])
+    .select([
+      'd.id as key',
+      's.number as sheet_number',
+      'p.code as project_code',
+      'r.code',
+      'r.status',
+      'c.code as current_code',
+    ])
     .where('d.project_id', '=', projectId)
-    .where('v.number', '=', (eb) => eb.selectFrom('versions as l').select(sql<number>`max(l.number)`.as('n')).whereRef('l.sheet_id', '=', 'v.sheet_id'))
+    .where('v.number', '=', (eb) =>
+      eb
+        .selectFrom('versions as l')
+        .select(sql<number>`max(l.number)`.as('n'))
+        .whereRef('l.sheet_id', '=', 'v.sheet_id'),
+    )
     .where('r.status', '<>', 'current')
     .orderBy('s.number')
     .orderBy('r.sequence')
@@ -186,7 +252,9 @@ export async function staleRevisionCounts(db: Kysely<Database>, projectIds: stri
   if (projectIds.length === 0) return new Map();
   const rows = await db
     .selectFrom('revisions as d')
-    .innerJoin('versions as v', (j) => j.onRef('v.sheet_id', '=', 'd.sheet_id').onRef('v.number', '=', 'd.version_number'))
+    .innerJoin('versions as v', (j) =>
+      j.onRef('v.sheet_id', '=', 'd.sheet_id').onRef('v.number', '=', 'd.version_number'),
+    )
     .innerJoin('version_references as vr', 'vr.version_id', 'v.id')
     .innerJoin('revisions as r', 'r.id', 'vr.revision_id')
     .select(['d.project_id', sql<string>`count(distinct d.id)`.as('n')])
@@ -262,7 +330,9 @@ export async function sheetImpact(db: Kysely<Database>, sheetId: string): Promis
 async function dependentsOf(db: Kysely<Database>, rootRevisionId: string): Promise<ImpactDependent[]> {
   const seen = new Set<string>([rootRevisionId]);
   let frontier = [rootRevisionId];
-  const found: Array<Omit<ImpactDependent, 'latestVersion' | 'latestCitesVia' | 'latestCitesSuperseded'> & { viaId: string }> = [];
+  const found: Array<
+    Omit<ImpactDependent, 'latestVersion' | 'latestCitesVia' | 'latestCitesSuperseded'> & { viaId: string }
+  > = [];
   for (let depth = 1; frontier.length > 0 && depth <= MAX_IMPACT_DEPTH; depth++) {
     const rows = await db
       .selectFrom('version_references as vr')
@@ -272,7 +342,20 @@ async function dependentsOf(db: Kysely<Database>, rootRevisionId: string): Promi
       .innerJoin('sheets as s', 's.id', 'r.sheet_id')
       .innerJoin('projects as p', 'p.id', 's.project_id')
       .innerJoin('projects as dp', 'dp.id', 'd.project_id')
-      .select(['vr.name', 'vr.revision_id', 'r.code', 'r.status', 's.id as via_sheet_id', 's.number as via_number', 'p.code as via_project', 'd.id as sheet_id', 'd.number', 'd.title', 'dp.code as project_code', 'v.number as version'])
+      .select([
+        'vr.name',
+        'vr.revision_id',
+        'r.code',
+        'r.status',
+        's.id as via_sheet_id',
+        's.number as via_number',
+        'p.code as via_project',
+        'd.id as sheet_id',
+        'd.number',
+        'd.title',
+        'dp.code as project_code',
+        'v.number as version',
+      ])
       .where('vr.revision_id', 'in', frontier)
       .orderBy('d.number')
       .orderBy('v.number')
@@ -285,7 +368,13 @@ async function dependentsOf(db: Kysely<Database>, rootRevisionId: string): Promi
         g = {
           depth,
           viaId: row.revision_id,
-          via: { sheetId: row.via_sheet_id, sheet: formatSheetNumber(row.via_project, row.via_number), sheetNumber: row.via_number, revision: row.code, status: row.status },
+          via: {
+            sheetId: row.via_sheet_id,
+            sheet: formatSheetNumber(row.via_project, row.via_number),
+            sheetNumber: row.via_number,
+            revision: row.code,
+            status: row.status,
+          },
           sheetId: row.sheet_id,
           sheet: formatSheetNumber(row.project_code, row.number),
           sheetNumber: row.number,
@@ -308,7 +397,12 @@ async function dependentsOf(db: Kysely<Database>, rootRevisionId: string): Promi
         .where('version_number', 'in', g.versions)
         .orderBy('sequence')
         .execute();
-      g.issuedAs = issued.map((r) => ({ id: r.id, revision: r.code, status: r.status, versionNumber: r.version_number }));
+      g.issuedAs = issued.map((r) => ({
+        id: r.id,
+        revision: r.code,
+        status: r.status,
+        versionNumber: r.version_number,
+      }));
       for (const r of issued) {
         if (!seen.has(r.id)) {
           seen.add(r.id);
@@ -333,19 +427,28 @@ async function dependentsOf(db: Kysely<Database>, rootRevisionId: string): Promi
 }
 
 /** Each sheet's latest version number and the revisions it cites, with their status now. */
-async function latestCitations(db: Kysely<Database>, sheetIds: string[]): Promise<Map<string, { version: number; cited: Array<{ revisionId: string; status: RevisionStatus }> }>> {
+async function latestCitations(
+  db: Kysely<Database>,
+  sheetIds: string[],
+): Promise<Map<string, { version: number; cited: Array<{ revisionId: string; status: RevisionStatus }> }>> {
   const rows = await db
     .selectFrom('versions as v')
     .leftJoin('version_references as vr', 'vr.version_id', 'v.id')
     .leftJoin('revisions as r', 'r.id', 'vr.revision_id')
     .select(['v.sheet_id', 'v.number', 'r.id as revision_id', 'r.status'])
     .where('v.sheet_id', 'in', sheetIds)
-    .where('v.number', '=', (eb) => eb.selectFrom('versions as l').select(sql<number>`max(l.number)`.as('n')).whereRef('l.sheet_id', '=', 'v.sheet_id'))
+    .where('v.number', '=', (eb) =>
+      eb
+        .selectFrom('versions as l')
+        .select(sql<number>`max(l.number)`.as('n'))
+        .whereRef('l.sheet_id', '=', 'v.sheet_id'),
+    )
     .execute();
   const out = new Map<string, { version: number; cited: Array<{ revisionId: string; status: RevisionStatus }> }>();
   for (const r of rows) {
     const e = out.get(r.sheet_id) ?? { version: r.number, cited: [] };
-    if (r.revision_id && r.status && !e.cited.some((c) => c.revisionId === r.revision_id)) e.cited.push({ revisionId: r.revision_id, status: r.status });
+    if (r.revision_id && r.status && !e.cited.some((c) => c.revisionId === r.revision_id))
+      e.cited.push({ revisionId: r.revision_id, status: r.status });
     out.set(r.sheet_id, e);
   }
   return out;

@@ -11,7 +11,13 @@ import { AppError, unstorableTextPath } from '@/lib/errors/app-error';
 import { DISPLAY_UNITS_DEFAULT } from '@/lib/calc/display-units';
 import { checkAttachmentFile, type CheckedAttachment } from '@/lib/attachments/attachments';
 import type { ObjectStore } from '@/lib/storage/object-store';
-import { attachmentRefSchema, calculationRecordSchema, emptyRecord, versionContentSchema, type VersionContent } from './content';
+import {
+  attachmentRefSchema,
+  calculationRecordSchema,
+  emptyRecord,
+  versionContentSchema,
+  type VersionContent,
+} from './content';
 import { contentHash } from './content-hash';
 import { createSheetWithContent } from './sheets';
 
@@ -24,19 +30,35 @@ export const SHEET_FILE_MAX_BYTES = 32 * 1024 * 1024;
 /** The query of GET /api/sheets/{sheetId}/export: `?version=n`, or nothing for the latest version. */
 export const exportQuerySchema = z.object({
   version: z.coerce.number().int().positive().max(INT4_MAX).optional(),
-  attachments: z.enum(['include']).optional().meta({ description: '`include`: carry the bytes of each attachment the version cites (base64), so that an import brings them back.' }),
+  attachments: z
+    .enum(['include'])
+    .optional()
+    .meta({
+      description:
+        '`include`: carry the bytes of each attachment the version cites (base64), so that an import brings them back.',
+    }),
 });
 
 /** An attachment as a sheet file lists it: the version's citation, with its bytes when carried. */
 export const sheetFileAttachmentSchema = attachmentRefSchema.extend({
-  contentBase64: z.string().optional().meta({ description: 'The bytes, base64: present when the file carries the attachment. An import checks their size and SHA-256.' }),
+  contentBase64: z
+    .string()
+    .optional()
+    .meta({
+      description:
+        'The bytes, base64: present when the file carries the attachment. An import checks their size and SHA-256.',
+    }),
 });
 
 /** The query of the import: a title that replaces the file's. */
 export const importQuerySchema = z.object({ title: z.string().trim().min(1).max(300).optional() });
 
 /** The file for one version: the smallest valid form plus what Worldsheet records with it. */
-export function sheetFileOf(content: VersionContent, meta: { number: string; version: number; sha256: string }, carried?: ReadonlyMap<string, Uint8Array>) {
+export function sheetFileOf(
+  content: VersionContent,
+  meta: { number: string; version: number; sha256: string },
+  carried?: ReadonlyMap<string, Uint8Array>,
+) {
   return {
     title: content.title,
     cells: content.cells.map((c) => ({ id: c.id, kind: c.kind, source: c.source })),
@@ -75,7 +97,11 @@ export interface SheetFileReading {
   unchangedSinceExport: boolean | null;
 }
 
-const exportedFromSchema = z.object({ sheet: z.string().max(100), version: z.number().int().positive(), sha256: z.string().regex(/^[0-9a-f]{64}$/) });
+const exportedFromSchema = z.object({
+  sheet: z.string().max(100),
+  version: z.number().int().positive(),
+  sha256: z.string().regex(/^[0-9a-f]{64}$/),
+});
 const BASE64 = /^(?:[A-Za-z0-9+/]{4})*(?:[A-Za-z0-9+/]{2}==|[A-Za-z0-9+/]{3}=)?$/;
 
 /**
@@ -98,11 +124,22 @@ export function readSheetFile(text: string, title?: string): SheetFileReading {
   let record = emptyRecord();
   if (file.record !== undefined) {
     const parsed = calculationRecordSchema.safeParse(file.record);
-    if (!parsed.success) throw new AppError('bad_request', `not a sheet file: record.${parsed.error.issues[0].path.join('.')}: ${parsed.error.issues[0].message}`);
+    if (!parsed.success)
+      throw new AppError(
+        'bad_request',
+        `not a sheet file: record.${parsed.error.issues[0].path.join('.')}: ${parsed.error.issues[0].message}`,
+      );
     record = parsed.data;
   }
-  const listed = z.array(sheetFileAttachmentSchema).max(200).safeParse(file.attachments ?? []);
-  if (!listed.success) throw new AppError('bad_request', `not a sheet file: attachments.${listed.error.issues[0].path.join('.')}: ${listed.error.issues[0].message}`);
+  const listed = z
+    .array(sheetFileAttachmentSchema)
+    .max(200)
+    .safeParse(file.attachments ?? []);
+  if (!listed.success)
+    throw new AppError(
+      'bad_request',
+      `not a sheet file: attachments.${listed.error.issues[0].path.join('.')}: ${listed.error.issues[0].message}`,
+    );
   const carried: CheckedAttachment[] = [];
   const notCarried: SheetFileReading['notCarried'] = [];
   const seen = new Set<string>();
@@ -115,7 +152,11 @@ export function readSheetFile(text: string, title?: string): SheetFileReading {
       notCarried.push(ref);
       continue;
     }
-    if (!BASE64.test(contentBase64)) throw new AppError('bad_request', `The attachment ${ref.name} in the file is not valid base64; nothing was imported.`);
+    if (!BASE64.test(contentBase64))
+      throw new AppError(
+        'bad_request',
+        `The attachment ${ref.name} in the file is not valid base64; nothing was imported.`,
+      );
     const bytes = new Uint8Array(Buffer.from(contentBase64, 'base64'));
     const sha256 = createHash('sha256').update(bytes).digest('hex');
     if (bytes.length !== ref.size || sha256 !== ref.sha256) {
@@ -129,11 +170,15 @@ export function readSheetFile(text: string, title?: string): SheetFileReading {
     try {
       checked = checkAttachmentFile({ name: ref.name, type: ref.mediaType, bytes });
     } catch (error) {
-      if (error instanceof AppError) throw new AppError('bad_request', `The attachment ${ref.name} in the file is not accepted: ${error.message}`);
+      if (error instanceof AppError)
+        throw new AppError('bad_request', `The attachment ${ref.name} in the file is not accepted: ${error.message}`);
       throw error;
     }
     if (checked.name !== ref.name || checked.mediaType !== ref.mediaType) {
-      throw new AppError('bad_request', `The attachment ${ref.name} (${ref.mediaType}) in the file would be stored as ${checked.name} (${checked.mediaType}); rename it in the file, or import without it.`);
+      throw new AppError(
+        'bad_request',
+        `The attachment ${ref.name} (${ref.mediaType}) in the file would be stored as ${checked.name} (${checked.mediaType}); rename it in the file, or import without it.`,
+      );
     }
     carried.push(checked);
   }
@@ -153,18 +198,35 @@ export function readSheetFile(text: string, title?: string): SheetFileReading {
     chosenTitle,
     carried.map((c) => ({ name: c.name, mediaType: c.mediaType, size: c.size, sha256: c.sha256 })),
   );
-  if (!content.success) throw new AppError('bad_request', `not a sheet file: ${content.error.issues[0].path.join('.')}: ${content.error.issues[0].message}`);
+  if (!content.success)
+    throw new AppError(
+      'bad_request',
+      `not a sheet file: ${content.error.issues[0].path.join('.')}: ${content.error.issues[0].message}`,
+    );
   // Text PostgreSQL would refuse is refused here with a message naming where it is.
   const unstorable = unstorableTextPath(content.data, 'file');
-  if (unstorable !== null) throw new AppError('bad_request', `not a sheet file: ${unstorable}: holds a character that cannot be stored (U+0000, or half of a surrogate pair)`);
+  if (unstorable !== null)
+    throw new AppError(
+      'bad_request',
+      `not a sheet file: ${unstorable}: holds a character that cannot be stored (U+0000, or half of a surrogate pair)`,
+    );
   const from = exportedFromSchema.safeParse(file.exportedFrom);
   let unchangedSinceExport: boolean | null = null;
   if (from.success) {
     // The file as written (its own title, every attachment it lists) against the exported version's hash.
-    const original = build(file.title.trim(), listed.data.map(({ contentBase64: _bytes, ...ref }) => ref));
+    const original = build(
+      file.title.trim(),
+      listed.data.map(({ contentBase64: _bytes, ...ref }) => ref),
+    );
     unchangedSinceExport = original.success && contentHash(original.data) === from.data.sha256;
   }
-  return { content: content.data, carried, notCarried, exportedFrom: from.success ? from.data : null, unchangedSinceExport };
+  return {
+    content: content.data,
+    carried,
+    notCarried,
+    exportedFrom: from.success ? from.data : null,
+    unchangedSinceExport,
+  };
 }
 
 /** What the confirmation shows before an import creates anything (POST …/sheets/import/preview). */
@@ -180,8 +242,20 @@ export function importPreview(reading: SheetFileReading) {
     exportedFrom: reading.exportedFrom,
     unchangedSinceExport: reading.unchangedSinceExport,
     attachments: [
-      ...reading.carried.map((a) => ({ name: a.name, mediaType: a.mediaType, size: a.size, sha256: a.sha256, carried: true })),
-      ...reading.notCarried.map((a) => ({ name: a.name, mediaType: a.mediaType, size: a.size, sha256: a.sha256, carried: false })),
+      ...reading.carried.map((a) => ({
+        name: a.name,
+        mediaType: a.mediaType,
+        size: a.size,
+        sha256: a.sha256,
+        carried: true,
+      })),
+      ...reading.notCarried.map((a) => ({
+        name: a.name,
+        mediaType: a.mediaType,
+        size: a.size,
+        sha256: a.sha256,
+        carried: false,
+      })),
     ],
   };
 }
@@ -195,8 +269,12 @@ function importMessage(reading: SheetFileReading): string {
       ` exported from ${sheet} version ${version} (SHA-256 ${sha256.slice(0, 12)}…; ${reading.unchangedSinceExport ? 'content unchanged since export' : 'content differs from that version'})`,
     );
   }
-  if (reading.carried.length > 0) parts.push(`; ${reading.carried.length} attachment${reading.carried.length === 1 ? '' : 's'} carried, SHA-256 verified`);
-  if (reading.notCarried.length > 0) parts.push(`; not carried, to upload again: ${reading.notCarried.map((a) => a.name).join(', ')}`);
+  if (reading.carried.length > 0)
+    parts.push(
+      `; ${reading.carried.length} attachment${reading.carried.length === 1 ? '' : 's'} carried, SHA-256 verified`,
+    );
+  if (reading.notCarried.length > 0)
+    parts.push(`; not carried, to upload again: ${reading.notCarried.map((a) => a.name).join(', ')}`);
   return parts.join('');
 }
 
@@ -204,11 +282,25 @@ function importMessage(reading: SheetFileReading): string {
  * Creates a sheet from a sheet file's text: version 1 as created, version 2 holding the file with
  * the attachments it carries (each verified, stored and recorded on the new sheet).
  */
-export async function importSheetFile(db: Kysely<Database>, actor: Actor, project: { id: string; code: string }, text: string, options: { title?: string; store?: ObjectStore } = {}) {
+export async function importSheetFile(
+  db: Kysely<Database>,
+  actor: Actor,
+  project: { id: string; code: string },
+  text: string,
+  options: { title?: string; store?: ObjectStore } = {},
+) {
   const reading = readSheetFile(text, options.title);
-  if (reading.carried.length > 0 && !options.store) throw new Error('importSheetFile: the file carries attachments but no object store was given');
+  if (reading.carried.length > 0 && !options.store)
+    throw new Error('importSheetFile: the file carries attachments but no object store was given');
   // The sheet, its attachments and its imported version are made in one transaction: never a sheet without its file.
-  const sheet = await createSheetWithContent(db, actor, project, reading.content, importMessage(reading), options.store ? { files: { checked: reading.carried, store: options.store } } : {});
+  const sheet = await createSheetWithContent(
+    db,
+    actor,
+    project,
+    reading.content,
+    importMessage(reading),
+    options.store ? { files: { checked: reading.carried, store: options.store } } : {},
+  );
   return {
     ...sheet,
     attachments: { carried: reading.carried.map((a) => a.name), notCarried: reading.notCarried.map((a) => a.name) },

@@ -10,7 +10,14 @@ import { recordAudit } from '@/lib/audit/record';
 import { bidiControlsInCalcCells } from '@/lib/calc/bidi-controls';
 import { findReferences } from '@/lib/calc/references';
 import type { InputTable, ResolvedReference, SheetResult } from '@/lib/calc/types';
-import { copyAttachments, insertAttachment, resolveAttachments, storeAttachmentBytes, tablesOfFiles, type CheckedAttachment } from '@/lib/attachments/attachments';
+import {
+  copyAttachments,
+  insertAttachment,
+  resolveAttachments,
+  storeAttachmentBytes,
+  tablesOfFiles,
+  type CheckedAttachment,
+} from '@/lib/attachments/attachments';
 import type { ObjectStore } from '@/lib/storage/object-store';
 import { evaluateSandboxed, evaluationScope } from './evaluate-sandboxed';
 import { sheetStatuses } from '@/lib/checks/status';
@@ -38,16 +45,42 @@ export async function listSheets(db: Kysely<Database>, projectId: string, projec
     .selectFrom('sheets as s')
     .innerJoin('users as o', 'o.id', 's.created_by')
     .leftJoin(
-      (eb) => eb.selectFrom('versions').select(['sheet_id', sql<number>`max(number)`.as('latest'), sql<Date>`max(created_at)`.as('updated')]).groupBy('sheet_id').as('v'),
+      (eb) =>
+        eb
+          .selectFrom('versions')
+          .select(['sheet_id', sql<number>`max(number)`.as('latest'), sql<Date>`max(created_at)`.as('updated')])
+          .groupBy('sheet_id')
+          .as('v'),
       (j) => j.onRef('v.sheet_id', '=', 's.id'),
     )
-    .select(['s.id', 's.number', 's.title', 's.safety_related', 's.voided_at', 's.starter', 'o.display_name as originator', 'v.latest', 'v.updated', 's.created_at'])
+    .select([
+      's.id',
+      's.number',
+      's.title',
+      's.safety_related',
+      's.voided_at',
+      's.starter',
+      'o.display_name as originator',
+      'v.latest',
+      'v.updated',
+      's.created_at',
+    ])
     .where('s.project_id', '=', projectId)
     .orderBy('s.number')
     .execute();
-  const statuses = await sheetStatuses(db, rows.map((r) => ({ id: r.id, latestVersion: r.latest === null ? null : Number(r.latest) })));
+  const statuses = await sheetStatuses(
+    db,
+    rows.map((r) => ({ id: r.id, latestVersion: r.latest === null ? null : Number(r.latest) })),
+  );
   const current = new Map(
-    (await db.selectFrom('revisions').select(['sheet_id', 'code']).where('project_id', '=', projectId).where('status', '=', 'current').execute()).map((r) => [r.sheet_id, r.code]),
+    (
+      await db
+        .selectFrom('revisions')
+        .select(['sheet_id', 'code'])
+        .where('project_id', '=', projectId)
+        .where('status', '=', 'current')
+        .execute()
+    ).map((r) => [r.sheet_id, r.code]),
   );
   return rows.map((r) => ({
     id: r.id,
@@ -70,8 +103,22 @@ export async function listSheets(db: Kysely<Database>, projectId: string, projec
  * the author's own editor evaluations in flight never make wait or refuse (lib/calc/sandbox/evaluator.ts),
  * in the project's cache scope.
  */
-async function evaluateContent(content: VersionContent, target: { sheetKey: string; projectId: string; userId: string }, tables: InputTable[] = [], references: ResolvedReference[] = []): Promise<SheetResult> {
-  return evaluateSandboxed(content.cells, { significantFigures: content.significantFigures, displayUnits: content.displayUnits, tables, references }, { kind: 'save', userId: target.userId, scope: evaluationScope({ projectId: target.projectId }), affinity: target.sheetKey });
+async function evaluateContent(
+  content: VersionContent,
+  target: { sheetKey: string; projectId: string; userId: string },
+  tables: InputTable[] = [],
+  references: ResolvedReference[] = [],
+): Promise<SheetResult> {
+  return evaluateSandboxed(
+    content.cells,
+    { significantFigures: content.significantFigures, displayUnits: content.displayUnits, tables, references },
+    {
+      kind: 'save',
+      userId: target.userId,
+      scope: evaluationScope({ projectId: target.projectId }),
+      affinity: target.sheetKey,
+    },
+  );
 }
 
 /** A new sheet's version 1: its title, safety flag and objective, no cells. */
@@ -108,10 +155,21 @@ async function insertSheet(
   origin: SheetOrigin | null = null,
 ) {
   await sql`select pg_advisory_xact_lock(hashtext(${`sheets:${project.id}`}))`.execute(trx);
-  const next = await trx.selectFrom('sheets').select(sql<number>`coalesce(max(number), 0) + 1`.as('n')).where('project_id', '=', project.id).executeTakeFirstOrThrow();
+  const next = await trx
+    .selectFrom('sheets')
+    .select(sql<number>`coalesce(max(number), 0) + 1`.as('n'))
+    .where('project_id', '=', project.id)
+    .executeTakeFirstOrThrow();
   const sheet = await trx
     .insertInto('sheets')
-    .values({ project_id: project.id, number: Number(next.n), title: input.title, safety_related: input.safetyRelated, created_by: actor.userId, started_from_version_id: origin?.versionId ?? null })
+    .values({
+      project_id: project.id,
+      number: Number(next.n),
+      title: input.title,
+      safety_related: input.safetyRelated,
+      created_by: actor.userId,
+      started_from_version_id: origin?.versionId ?? null,
+    })
     .returning(['id', 'number'])
     .executeTakeFirstOrThrow();
   const hash = contentHash(content);
@@ -131,7 +189,12 @@ async function insertSheet(
     })
     .execute();
   const code = formatSheetNumber(project.code, sheet.number);
-  await recordAudit(trx, actor, { action: 'sheet.create', objectType: 'sheet', objectId: sheet.id, projectId: project.id, newValue: {
+  await recordAudit(trx, actor, {
+    action: 'sheet.create',
+    objectType: 'sheet',
+    objectId: sheet.id,
+    projectId: project.id,
+    newValue: {
       number: code,
       title: input.title,
       safetyRelated: input.safetyRelated,
@@ -143,9 +206,18 @@ async function insertSheet(
   return { id: sheet.id, number: sheet.number, code };
 }
 
-export async function createSheet(db: Kysely<Database>, actor: Actor, project: { id: string; code: string }, input: z.infer<typeof createSheetSchema>) {
+export async function createSheet(
+  db: Kysely<Database>,
+  actor: Actor,
+  project: { id: string; code: string },
+  input: z.infer<typeof createSheetSchema>,
+) {
   const content = firstContent(input);
-  const results = await evaluateContent(content, { sheetKey: `new:${project.id}`, projectId: project.id, userId: actor.userId });
+  const results = await evaluateContent(content, {
+    sheetKey: `new:${project.id}`,
+    projectId: project.id,
+    userId: actor.userId,
+  });
   return db.transaction().execute((trx) => insertSheet(trx, actor, project, input, content, results));
 }
 
@@ -162,11 +234,18 @@ export async function createSheetWithContent(
   project: { id: string; code: string },
   content: VersionContent,
   message: string,
-  source: { files?: { checked: CheckedAttachment[]; store: ObjectStore }; copyFrom?: { sheetId: string; origin: SheetOrigin } } = {},
+  source: {
+    files?: { checked: CheckedAttachment[]; store: ObjectStore };
+    copyFrom?: { sheetId: string; origin: SheetOrigin };
+  } = {},
 ) {
   const input = { title: content.title, safetyRelated: content.safetyRelated, objective: content.record.objective };
   const first = firstContent(input);
-  const firstResults = await evaluateContent(first, { sheetKey: `new:${project.id}`, projectId: project.id, userId: actor.userId });
+  const firstResults = await evaluateContent(first, {
+    sheetKey: `new:${project.id}`,
+    projectId: project.id,
+    userId: actor.userId,
+  });
   // A new sheet has no attachments but those it brings, and no revision of its own that a cell could cite.
   const checked = source.files?.checked ?? [];
   let tables: InputTable[];
@@ -194,18 +273,56 @@ export async function createSheetWithContent(
 
 export async function getSheet(db: Kysely<Database>, sheetId: string) {
   if (!/^[0-9a-f-]{36}$/.test(sheetId)) return undefined;
-  return db.selectFrom('sheets').select(['id', 'project_id', 'number', 'title', 'safety_related', 'created_by', 'created_at', 'voided_at', 'void_reason']).where('id', '=', sheetId).executeTakeFirst();
+  return db
+    .selectFrom('sheets')
+    .select([
+      'id',
+      'project_id',
+      'number',
+      'title',
+      'safety_related',
+      'created_by',
+      'created_at',
+      'voided_at',
+      'void_reason',
+    ])
+    .where('id', '=', sheetId)
+    .executeTakeFirst();
 }
 
 export async function getSheetByNumber(db: Kysely<Database>, projectId: string, number: number) {
-  return db.selectFrom('sheets').select(['id', 'project_id', 'number', 'title', 'safety_related', 'created_by', 'created_at', 'voided_at', 'void_reason']).where('project_id', '=', projectId).where('number', '=', number).executeTakeFirst();
+  return db
+    .selectFrom('sheets')
+    .select([
+      'id',
+      'project_id',
+      'number',
+      'title',
+      'safety_related',
+      'created_by',
+      'created_at',
+      'voided_at',
+      'void_reason',
+    ])
+    .where('project_id', '=', projectId)
+    .where('number', '=', number)
+    .executeTakeFirst();
 }
 
 export async function listVersions(db: Kysely<Database>, sheetId: string) {
   return db
     .selectFrom('versions as v')
     .innerJoin('users as u', 'u.id', 'v.author_id')
-    .select(['v.number', 'v.parent_number as parentNumber', 'v.content_hash as sha256', 'v.message', 'v.created_at as createdAt', 'v.engine_version as engineVersion', 'v.constants_edition as constantsEdition', 'u.display_name as author'])
+    .select([
+      'v.number',
+      'v.parent_number as parentNumber',
+      'v.content_hash as sha256',
+      'v.message',
+      'v.created_at as createdAt',
+      'v.engine_version as engineVersion',
+      'v.constants_edition as constantsEdition',
+      'u.display_name as author',
+    ])
     .where('v.sheet_id', '=', sheetId)
     .orderBy('v.number', 'desc')
     .execute();
@@ -215,11 +332,24 @@ export async function getVersion(db: Kysely<Database>, sheetId: string, number?:
   let q = db
     .selectFrom('versions as v')
     .innerJoin('users as u', 'u.id', 'v.author_id')
-    .select(['v.number', 'v.parent_number as parentNumber', 'v.content', 'v.content_hash as sha256', 'v.results', 'v.message', 'v.created_at as createdAt', 'v.engine_version as engineVersion', 'v.constants_edition as constantsEdition', 'u.display_name as author'])
+    .select([
+      'v.number',
+      'v.parent_number as parentNumber',
+      'v.content',
+      'v.content_hash as sha256',
+      'v.results',
+      'v.message',
+      'v.created_at as createdAt',
+      'v.engine_version as engineVersion',
+      'v.constants_edition as constantsEdition',
+      'u.display_name as author',
+    ])
     .where('v.sheet_id', '=', sheetId);
   q = number === undefined ? q.orderBy('v.number', 'desc').limit(1) : q.where('v.number', '=', number);
   const row = await q.executeTakeFirst();
-  return row ? { ...row, content: row.content as VersionContent, results: row.results as SheetResult | null } : undefined;
+  return row
+    ? { ...row, content: row.content as VersionContent, results: row.results as SheetResult | null }
+    : undefined;
 }
 
 /** What a save computes before its transaction: the evaluation, the citations and the hash. */
@@ -229,7 +359,13 @@ interface PreparedVersion {
   hash: string;
 }
 
-async function prepareVersion(db: Kysely<Database>, sheet: { id: string | null; project_id: string }, content: VersionContent, userId: string, newTables?: InputTable[]): Promise<PreparedVersion> {
+async function prepareVersion(
+  db: Kysely<Database>,
+  sheet: { id: string | null; project_id: string },
+  content: VersionContent,
+  userId: string,
+  newTables?: InputTable[],
+): Promise<PreparedVersion> {
   // The save schema refuses these already; this keeps any other way in (a caller that builds content
   // itself) from storing a calculation that reads differently from what is evaluated.
   const bidi = bidiControlsInCalcCells(content.cells);
@@ -238,22 +374,56 @@ async function prepareVersion(db: Kysely<Database>, sheet: { id: string | null; 
   // (A sheet being created has none yet: its caller gives the tables of the files it brings.)
   const tables = sheet.id ? await resolveAttachments(db, sheet.id, content.attachments) : (newTables ?? []);
   // Citations of other sheets' issued revisions: resolved to the values as issued before evaluating.
-  const citations = await resolveCitations(db, sheet.project_id, findReferences(content.cells), sheet.id ? { excludeSheetId: sheet.id } : {});
-  const results = await evaluateContent(content, { sheetKey: sheet.id ?? `new:${sheet.project_id}`, projectId: sheet.project_id, userId }, tables, citations.map((c) => c.reference));
+  const citations = await resolveCitations(
+    db,
+    sheet.project_id,
+    findReferences(content.cells),
+    sheet.id ? { excludeSheetId: sheet.id } : {},
+  );
+  const results = await evaluateContent(
+    content,
+    { sheetKey: sheet.id ?? `new:${sheet.project_id}`, projectId: sheet.project_id, userId },
+    tables,
+    citations.map((c) => c.reference),
+  );
   return { results, citations, hash: contentHash(content) };
 }
 
 /** Inserts a prepared version on top of `parentNumber`, inside `trx`; 409 when the sheet moved on. */
-async function insertVersion(trx: Transaction<Database>, actor: Actor, sheet: { id: string; project_id: string }, input: z.infer<typeof saveVersionSchema>, prepared: PreparedVersion) {
+async function insertVersion(
+  trx: Transaction<Database>,
+  actor: Actor,
+  sheet: { id: string; project_id: string },
+  input: z.infer<typeof saveVersionSchema>,
+  prepared: PreparedVersion,
+) {
   const { results, citations, hash } = prepared;
-  const locked = await trx.selectFrom('sheets').select(['id', 'voided_at']).where('id', '=', sheet.id).forUpdate().executeTakeFirstOrThrow();
-  if (locked.voided_at) throw new AppError('conflict', 'This sheet is void: it keeps its versions but takes no new ones.', { voided: true });
-  const latest = await trx.selectFrom('versions').select(['number', 'content_hash']).where('sheet_id', '=', sheet.id).orderBy('number', 'desc').limit(1).executeTakeFirstOrThrow();
-  if (latest.number !== input.parentNumber) {
-    throw new AppError('conflict', `Version ${latest.number} was saved since version ${input.parentNumber}, which your edits are based on.`, {
-      latestNumber: latest.number,
-      latestSha256: latest.content_hash,
+  const locked = await trx
+    .selectFrom('sheets')
+    .select(['id', 'voided_at'])
+    .where('id', '=', sheet.id)
+    .forUpdate()
+    .executeTakeFirstOrThrow();
+  if (locked.voided_at)
+    throw new AppError('conflict', 'This sheet is void: it keeps its versions but takes no new ones.', {
+      voided: true,
     });
+  const latest = await trx
+    .selectFrom('versions')
+    .select(['number', 'content_hash'])
+    .where('sheet_id', '=', sheet.id)
+    .orderBy('number', 'desc')
+    .limit(1)
+    .executeTakeFirstOrThrow();
+  if (latest.number !== input.parentNumber) {
+    throw new AppError(
+      'conflict',
+      `Version ${latest.number} was saved since version ${input.parentNumber}, which your edits are based on.`,
+      {
+        latestNumber: latest.number,
+        latestSha256: latest.content_hash,
+      },
+    );
   }
   const number = latest.number + 1;
   const version = await trx
@@ -273,10 +443,28 @@ async function insertVersion(trx: Transaction<Database>, actor: Actor, sheet: { 
     .returning('id')
     .executeTakeFirstOrThrow();
   // The revisions this version depends on, for the superseded-input flags and the impact page.
-  const cited = citations.flatMap((c) => (c.revisionId ? [{ version_id: version.id, revision_id: c.revisionId, name: c.reference.name }] : []));
-  if (cited.length > 0) await trx.insertInto('version_references').values(cited).onConflict((oc) => oc.doNothing()).execute();
-  await trx.updateTable('sheets').set({ title: input.content.title, safety_related: input.content.safetyRelated, updated_at: sql`now()` }).where('id', '=', sheet.id).execute();
-  await recordAudit(trx, actor, { action: 'version.save', objectType: 'sheet', objectId: sheet.id, projectId: sheet.project_id, newValue: { version: number, parent: input.parentNumber, sha256: hash }, reason: input.message });
+  const cited = citations.flatMap((c) =>
+    c.revisionId ? [{ version_id: version.id, revision_id: c.revisionId, name: c.reference.name }] : [],
+  );
+  if (cited.length > 0)
+    await trx
+      .insertInto('version_references')
+      .values(cited)
+      .onConflict((oc) => oc.doNothing())
+      .execute();
+  await trx
+    .updateTable('sheets')
+    .set({ title: input.content.title, safety_related: input.content.safetyRelated, updated_at: sql`now()` })
+    .where('id', '=', sheet.id)
+    .execute();
+  await recordAudit(trx, actor, {
+    action: 'version.save',
+    objectType: 'sheet',
+    objectId: sheet.id,
+    projectId: sheet.project_id,
+    newValue: { version: number, parent: input.parentNumber, sha256: hash },
+    reason: input.message,
+  });
   return { number, sha256: hash, ok: results.ok };
 }
 
@@ -284,7 +472,12 @@ async function insertVersion(trx: Transaction<Database>, actor: Actor, sheet: { 
  * Saves a new version based on `parentNumber`. Refused with 409 (and the latest version's number
  * and hash) when the sheet has moved on since the parent, so the editor can show what changed.
  */
-export async function saveVersion(db: Kysely<Database>, actor: Actor, sheet: { id: string; project_id: string }, input: z.infer<typeof saveVersionSchema>) {
+export async function saveVersion(
+  db: Kysely<Database>,
+  actor: Actor,
+  sheet: { id: string; project_id: string },
+  input: z.infer<typeof saveVersionSchema>,
+) {
   const prepared = await prepareVersion(db, sheet, input.content, actor.userId);
   return db.transaction().execute((trx) => insertVersion(trx, actor, sheet, input, prepared));
 }

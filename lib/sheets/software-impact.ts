@@ -11,14 +11,27 @@ import { formatSheetNumber } from './sheet-number';
 
 /** The query of GET /api/software-impact. Empty values mean "any". */
 export const softwareImpactQuerySchema = z.object({
-  engineVersion: z.string().trim().max(100).optional().meta({ description: 'Engine version the versions were evaluated with, exactly as recorded.' }),
-  constantsEdition: z.string().trim().max(100).optional().meta({ description: 'Constants edition, exactly as recorded.' }),
+  engineVersion: z
+    .string()
+    .trim()
+    .max(100)
+    .optional()
+    .meta({ description: 'Engine version the versions were evaluated with, exactly as recorded.' }),
+  constantsEdition: z
+    .string()
+    .trim()
+    .max(100)
+    .optional()
+    .meta({ description: 'Constants edition, exactly as recorded.' }),
   function: z
     .string()
     .trim()
     .regex(/^([A-Za-z_][A-Za-z0-9_]{0,99})?$/, 'a function name: a letter or _, then letters, digits or _')
     .optional()
-    .meta({ description: 'Only versions whose calculation cells call this function (a call written as `name(`, comments included).' }),
+    .meta({
+      description:
+        'Only versions whose calculation cells call this function (a call written as `name(`, comments included).',
+    }),
   format: z.enum(['json', 'csv']).default('json'),
 });
 export type SoftwareImpactQuery = z.infer<typeof softwareImpactQuerySchema>;
@@ -58,22 +71,41 @@ export interface SoftwareImpact {
   constantsEditions: Facet[];
   /** Null when no filter is given: pick an engine version, a constants edition or a function first. */
   rows: SoftwareImpactRow[] | null;
-  summary: { versions: number; sheets: number; revisions: number; currentRevisions: number; safetyRelatedSheets: number } | null;
+  summary: {
+    versions: number;
+    sheets: number;
+    revisions: number;
+    currentRevisions: number;
+    safetyRelatedSheets: number;
+  } | null;
   truncated: boolean;
 }
 
 /** Projects the actor may see here: all for administrators, else those they are a member of. */
 function visibleSheets(db: Kysely<Database>, actor: Actor) {
   let q = db.selectFrom('sheets as s').innerJoin('projects as p', 'p.id', 's.project_id');
-  if (!actor.isAdmin) q = q.where('s.project_id', 'in', (eb) => eb.selectFrom('project_members').select('project_id').where('user_id', '=', actor.userId));
+  if (!actor.isAdmin)
+    q = q.where('s.project_id', 'in', (eb) =>
+      eb.selectFrom('project_members').select('project_id').where('user_id', '=', actor.userId),
+    );
   return q;
 }
 
-async function facet(db: Kysely<Database>, actor: Actor, column: 'engine_version' | 'constants_edition'): Promise<Facet[]> {
+async function facet(
+  db: Kysely<Database>,
+  actor: Actor,
+  column: 'engine_version' | 'constants_edition',
+): Promise<Facet[]> {
   const rows = await visibleSheets(db, actor)
     .innerJoin('versions as v', 'v.sheet_id', 's.id')
-    .leftJoin('revisions as r', (j) => j.onRef('r.sheet_id', '=', 'v.sheet_id').onRef('r.version_number', '=', 'v.number'))
-    .select([`v.${column} as value`, sql<string>`count(distinct v.id)`.as('versions'), sql<string>`count(distinct r.id)`.as('revisions')])
+    .leftJoin('revisions as r', (j) =>
+      j.onRef('r.sheet_id', '=', 'v.sheet_id').onRef('r.version_number', '=', 'v.number'),
+    )
+    .select([
+      `v.${column} as value`,
+      sql<string>`count(distinct v.id)`.as('versions'),
+      sql<string>`count(distinct r.id)`.as('revisions'),
+    ])
     .where(`v.${column}`, 'is not', null)
     .groupBy(`v.${column}`)
     .orderBy(`v.${column}`, 'desc')
@@ -81,19 +113,29 @@ async function facet(db: Kysely<Database>, actor: Actor, column: 'engine_version
   return rows.map((r) => ({ value: r.value as string, versions: Number(r.versions), revisions: Number(r.revisions) }));
 }
 
-export async function softwareImpact(db: Kysely<Database>, actor: Actor, query: SoftwareImpactQuery): Promise<SoftwareImpact> {
+export async function softwareImpact(
+  db: Kysely<Database>,
+  actor: Actor,
+  query: SoftwareImpactQuery,
+): Promise<SoftwareImpact> {
   const engineVersion = query.engineVersion || null;
   const constantsEdition = query.constantsEdition || null;
   const fn = query.function || null;
-  const [engineVersions, constantsEditions] = await Promise.all([facet(db, actor, 'engine_version'), facet(db, actor, 'constants_edition')]);
+  const [engineVersions, constantsEditions] = await Promise.all([
+    facet(db, actor, 'engine_version'),
+    facet(db, actor, 'constants_edition'),
+  ]);
   const filter = { engineVersion, constantsEdition, function: fn };
-  if (!engineVersion && !constantsEdition && !fn) return { filter, engineVersions, constantsEditions, rows: null, summary: null, truncated: false };
+  if (!engineVersion && !constantsEdition && !fn)
+    return { filter, engineVersions, constantsEditions, rows: null, summary: null, truncated: false };
 
   const limit = SOFTWARE_IMPACT_LIMIT[query.format];
   let q = visibleSheets(db, actor)
     .innerJoin('versions as v', 'v.sheet_id', 's.id')
     .innerJoin('users as u', 'u.id', 'v.author_id')
-    .leftJoin('revisions as r', (j) => j.onRef('r.sheet_id', '=', 'v.sheet_id').onRef('r.version_number', '=', 'v.number'))
+    .leftJoin('revisions as r', (j) =>
+      j.onRef('r.sheet_id', '=', 'v.sheet_id').onRef('r.version_number', '=', 'v.number'),
+    )
     .select([
       'p.code as project_code',
       's.id as sheet_id',
@@ -116,9 +158,16 @@ export async function softwareImpact(db: Kysely<Database>, actor: Actor, query: 
     // A call is the name as a whole word followed by "(" (PostgreSQL's \m is the start of a word);
     // the name is an identifier (checked by the schema), so it needs no escaping in the pattern.
     const pattern = `\\m${fn}\\s*\\(`;
-    q = q.where(sql<boolean>`exists (select 1 from jsonb_array_elements(v.content -> 'cells') as c(cell) where c.cell ->> 'kind' = 'calc' and c.cell ->> 'source' ~ ${pattern})`);
+    q = q.where(
+      sql<boolean>`exists (select 1 from jsonb_array_elements(v.content -> 'cells') as c(cell) where c.cell ->> 'kind' = 'calc' and c.cell ->> 'source' ~ ${pattern})`,
+    );
   }
-  const found = await q.orderBy('p.code').orderBy('s.number').orderBy('v.number').limit(limit + 1).execute();
+  const found = await q
+    .orderBy('p.code')
+    .orderBy('s.number')
+    .orderBy('v.number')
+    .limit(limit + 1)
+    .execute();
   const truncated = found.length > limit;
   const rows: SoftwareImpactRow[] = found.slice(0, limit).map((r) => ({
     projectCode: r.project_code,
@@ -156,9 +205,37 @@ const csvField = (v: unknown) => {
 };
 
 export function softwareImpactCsv(rows: SoftwareImpactRow[]): string {
-  const header = ['project', 'sheet', 'title', 'safety_related', 'version', 'version_sha256', 'engine_version', 'constants_edition', 'saved_at_utc', 'author', 'revision', 'revision_status'];
+  const header = [
+    'project',
+    'sheet',
+    'title',
+    'safety_related',
+    'version',
+    'version_sha256',
+    'engine_version',
+    'constants_edition',
+    'saved_at_utc',
+    'author',
+    'revision',
+    'revision_status',
+  ];
   const lines = rows.map((r) =>
-    [r.projectCode, r.sheet, r.title, r.safetyRelated ? 'yes' : 'no', r.versionNumber, r.versionSha256, r.engineVersion, r.constantsEdition, r.savedAt, r.author, r.revision, r.revisionStatus].map(csvField).join(','),
+    [
+      r.projectCode,
+      r.sheet,
+      r.title,
+      r.safetyRelated ? 'yes' : 'no',
+      r.versionNumber,
+      r.versionSha256,
+      r.engineVersion,
+      r.constantsEdition,
+      r.savedAt,
+      r.author,
+      r.revision,
+      r.revisionStatus,
+    ]
+      .map(csvField)
+      .join(','),
   );
   return `${[header.join(','), ...lines].join('\r\n')}\r\n`;
 }

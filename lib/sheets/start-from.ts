@@ -38,15 +38,41 @@ export async function startCandidates(db: Kysely<Database>, actor: Actor): Promi
     .select(['s.id', 's.number', 's.title', 's.starter', 'p.code'])
     .where('s.voided_at', 'is', null)
     // Members only: an administrator manages accounts and projects, and reads no project's sheets without a role in it.
-    .where((eb) => eb.exists(eb.selectFrom('project_members as m').select('m.user_id').whereRef('m.project_id', '=', 's.project_id').where('m.user_id', '=', actor.userId)))
-    .where((eb) => eb.or([eb('s.starter', '=', true), eb.exists(eb.selectFrom('checks as c').select('c.id').whereRef('c.sheet_id', '=', 's.id').where('c.state', '=', 'approved'))]))
+    .where((eb) =>
+      eb.exists(
+        eb
+          .selectFrom('project_members as m')
+          .select('m.user_id')
+          .whereRef('m.project_id', '=', 's.project_id')
+          .where('m.user_id', '=', actor.userId),
+      ),
+    )
+    .where((eb) =>
+      eb.or([
+        eb('s.starter', '=', true),
+        eb.exists(
+          eb
+            .selectFrom('checks as c')
+            .select('c.id')
+            .whereRef('c.sheet_id', '=', 's.id')
+            .where('c.state', '=', 'approved'),
+        ),
+      ]),
+    )
     .orderBy('p.code')
     .orderBy('s.number')
     .execute();
   if (rows.length === 0) return [];
   const ids = rows.map((r) => r.id);
   const [latest, approved] = await Promise.all([
-    db.selectFrom('versions').select(['sheet_id', 'number', 'content_hash']).where('sheet_id', 'in', ids).orderBy('sheet_id').orderBy('number', 'desc').distinctOn('sheet_id').execute(),
+    db
+      .selectFrom('versions')
+      .select(['sheet_id', 'number', 'content_hash'])
+      .where('sheet_id', 'in', ids)
+      .orderBy('sheet_id')
+      .orderBy('number', 'desc')
+      .distinctOn('sheet_id')
+      .execute(),
     db
       .selectFrom('checks')
       .select(['sheet_id', 'version_number', 'version_sha256'])
@@ -62,8 +88,17 @@ export async function startCandidates(db: Kysely<Database>, actor: Actor): Promi
     const code = formatSheetNumber(r.code, r.number);
     const a = approved.find((x) => x.sheet_id === r.id);
     const l = latest.find((x) => x.sheet_id === r.id);
-    if (r.starter && l) out.push({ sheetId: r.id, code, title: r.title, version: l.number, sha256: l.content_hash, kind: 'starter' });
-    else if (a) out.push({ sheetId: r.id, code, title: r.title, version: a.version_number, sha256: a.version_sha256, kind: 'approved' });
+    if (r.starter && l)
+      out.push({ sheetId: r.id, code, title: r.title, version: l.number, sha256: l.content_hash, kind: 'starter' });
+    else if (a)
+      out.push({
+        sheetId: r.id,
+        code,
+        title: r.title,
+        version: a.version_number,
+        sha256: a.version_sha256,
+        kind: 'approved',
+      });
   }
   return [...out.filter((c) => c.kind === 'starter'), ...out.filter((c) => c.kind === 'approved')];
 }
@@ -73,7 +108,12 @@ export async function startCandidates(db: Kysely<Database>, actor: Actor): Promi
  * person is not a member of that sheet's project or there is no such version; 409 when the sheet is
  * void, or the version is neither approved nor the latest version of a starter.
  */
-export async function startSheetFrom(db: Kysely<Database>, actor: Actor, project: { id: string; code: string }, raw: z.input<typeof startFromSchema>) {
+export async function startSheetFrom(
+  db: Kysely<Database>,
+  actor: Actor,
+  project: { id: string; code: string },
+  raw: z.input<typeof startFromSchema>,
+) {
   const input = startFromSchema.parse(raw);
   const source = await db
     .selectFrom('sheets as s')
@@ -81,7 +121,14 @@ export async function startSheetFrom(db: Kysely<Database>, actor: Actor, project
     .select(['s.id', 's.number', 's.starter', 's.voided_at', 's.project_id', 'p.code'])
     .where('s.id', '=', input.sheetId)
     .executeTakeFirst();
-  const member = source && (await db.selectFrom('project_members').select('user_id').where('project_id', '=', source.project_id).where('user_id', '=', actor.userId).executeTakeFirst()) !== undefined;
+  const member =
+    source &&
+    (await db
+      .selectFrom('project_members')
+      .select('user_id')
+      .where('project_id', '=', source.project_id)
+      .where('user_id', '=', actor.userId)
+      .executeTakeFirst()) !== undefined;
   if (!source || !member) throw new AppError('not_found', 'No such sheet.');
   const code = formatSheetNumber(source.code, source.number);
   if (source.voided_at) throw new AppError('conflict', `${code} is void; a new sheet cannot be started from it.`);
@@ -98,12 +145,22 @@ export async function startSheetFrom(db: Kysely<Database>, actor: Actor, project
   const latest = (await getVersion(db, source.id))!;
   const starterLatest = source.starter && latest.number === version.number;
   if (!approved && !starterLatest) {
-    throw new AppError('conflict', `Version ${version.number} of ${code} is not approved${source.starter ? ', nor the latest version of this starter' : ''}; a sheet is started only from an approved version or a starter.`);
+    throw new AppError(
+      'conflict',
+      `Version ${version.number} of ${code} is not approved${source.starter ? ', nor the latest version of this starter' : ''}; a sheet is started only from an approved version or a starter.`,
+    );
   }
-  const { id: versionId } = await db.selectFrom('versions').select('id').where('sheet_id', '=', source.id).where('number', '=', version.number).executeTakeFirstOrThrow();
+  const { id: versionId } = await db
+    .selectFrom('versions')
+    .select('id')
+    .where('sheet_id', '=', source.id)
+    .where('number', '=', version.number)
+    .executeTakeFirstOrThrow();
   const origin = { versionId, sheet: code, version: version.number, sha256: version.sha256 };
   const message = `Started from ${code} version ${version.number} (${approved ? 'approved' : 'starter'}; SHA-256 ${version.sha256.slice(0, 12)}…)`;
-  return createSheetWithContent(db, actor, project, { ...version.content, title: input.title }, message, { copyFrom: { sheetId: source.id, origin } });
+  return createSheetWithContent(db, actor, project, { ...version.content, title: input.title }, message, {
+    copyFrom: { sheetId: source.id, origin },
+  });
 }
 
 /** Where a sheet was started from, for its page: the sheet, version and hash, or null. */
@@ -116,5 +173,13 @@ export async function sheetOrigin(db: Kysely<Database>, sheetId: string) {
     .select(['p.code', 'o.number', 'v.number as version', 'v.content_hash'])
     .where('s.id', '=', sheetId)
     .executeTakeFirst();
-  return row ? { code: formatSheetNumber(row.code, row.number), projectCode: row.code, number: row.number, version: row.version, sha256: row.content_hash } : null;
+  return row
+    ? {
+        code: formatSheetNumber(row.code, row.number),
+        projectCode: row.code,
+        number: row.number,
+        version: row.version,
+        sha256: row.content_hash,
+      }
+    : null;
 }

@@ -17,10 +17,17 @@ export function pathInteger(value: string, min: number): number | null {
  * (from 0, as `CellResult.index`) in version `number` of the sheet; undefined when the version,
  * the cell or the statement does not exist or the statement has no table.
  */
-export async function getStudyTable(db: Kysely<Database>, { sheetId, number, cellIndex, line }: { sheetId: string; number: number; cellIndex: number; line: number }): Promise<StudyTable | undefined> {
+export async function getStudyTable(
+  db: Kysely<Database>,
+  { sheetId, number, cellIndex, line }: { sheetId: string; number: number; cellIndex: number; line: number },
+): Promise<StudyTable | undefined> {
   const row = await db
     .selectFrom('versions as v')
-    .select(sql<CellResult | null>`jsonb_path_query_first(v.results, '$.cells[*] ? (@.index == $i)', jsonb_build_object('i', ${cellIndex}::int))`.as('cell'))
+    .select(
+      sql<CellResult | null>`jsonb_path_query_first(v.results, '$.cells[*] ? (@.index == $i)', jsonb_build_object('i', ${cellIndex}::int))`.as(
+        'cell',
+      ),
+    )
     .where('v.sheet_id', '=', sheetId)
     .where('v.number', '=', number)
     .executeTakeFirst();

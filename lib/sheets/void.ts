@@ -40,12 +40,25 @@ export async function voidSheet(
       .executeTakeFirst();
     if (!sheet) throw new AppError('not_found', 'No such sheet.');
     if (!mayVoidSheet(actor, roles, sheet)) {
-      throw new AppError('forbidden', 'Only the originator who created the sheet or a document controller of the project can void it.');
+      throw new AppError(
+        'forbidden',
+        'Only the originator who created the sheet or a document controller of the project can void it.',
+      );
     }
     if (sheet.voided_at) throw new AppError('conflict', 'The sheet is already void.', { voided: true });
-    const revision = await trx.selectFrom('revisions').select('code').where('sheet_id', '=', sheet.id).orderBy('issued_at').limit(1).executeTakeFirst();
+    const revision = await trx
+      .selectFrom('revisions')
+      .select('code')
+      .where('sheet_id', '=', sheet.id)
+      .orderBy('issued_at')
+      .limit(1)
+      .executeTakeFirst();
     if (revision) {
-      throw new AppError('conflict', `The sheet was issued (revision ${revision.code}); an issued sheet is withdrawn, never voided.`, { issuedRevision: revision.code });
+      throw new AppError(
+        'conflict',
+        `The sheet was issued (revision ${revision.code}); an issued sheet is withdrawn, never voided.`,
+        { issuedRevision: revision.code },
+      );
     }
     const open = await trx
       .selectFrom('checks')
@@ -55,12 +68,20 @@ export async function voidSheet(
       .limit(1)
       .executeTakeFirst();
     if (open) {
-      throw new AppError('conflict', `Version ${open.version_number} is ${open.state === 'in_check' ? 'in check' : 'checked and awaiting approval'}; it must be decided or returned before the sheet can be voided.`, {
-        openCheckVersion: open.version_number,
-      });
+      throw new AppError(
+        'conflict',
+        `Version ${open.version_number} is ${open.state === 'in_check' ? 'in check' : 'checked and awaiting approval'}; it must be decided or returned before the sheet can be voided.`,
+        {
+          openCheckVersion: open.version_number,
+        },
+      );
     }
     const voidedAt = new Date();
-    await trx.updateTable('sheets').set({ voided_at: voidedAt, voided_by: actor.userId, void_reason: input.reason }).where('id', '=', sheet.id).execute();
+    await trx
+      .updateTable('sheets')
+      .set({ voided_at: voidedAt, voided_by: actor.userId, void_reason: input.reason })
+      .where('id', '=', sheet.id)
+      .execute();
     await recordAudit(trx, actor, {
       action: 'sheet.void',
       objectType: 'sheet',

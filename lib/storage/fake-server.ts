@@ -14,7 +14,11 @@ export interface FakeObjectStore {
   stop(): Promise<void>;
 }
 
-export async function startFakeObjectStore(options: { port: number; directory: string; bucket?: string }): Promise<FakeObjectStore> {
+export async function startFakeObjectStore(options: {
+  port: number;
+  directory: string;
+  bucket?: string;
+}): Promise<FakeObjectStore> {
   const bucket = options.bucket ?? DEFAULT_BUCKET;
   mkdirSync(options.directory, { recursive: true });
   const server = new S3rver({
@@ -30,7 +34,9 @@ export async function startFakeObjectStore(options: { port: number; directory: s
   } catch (error) {
     const code = (error as { code?: string }).code;
     if (code === 'EADDRINUSE') {
-      throw new Error(`The local object store cannot listen on 127.0.0.1:${options.port}: the port is in use. Stop what uses it, or set another port.`);
+      throw new Error(
+        `The local object store cannot listen on 127.0.0.1:${options.port}: the port is in use. Stop what uses it, or set another port.`,
+      );
     }
     throw error;
   }

@@ -2,7 +2,15 @@
 // and read back whole. Nothing overwrites: records that cite a file by its hash must always find the
 // same bytes. `discard` exists only for a duplicate that no record cites (a losing concurrent run).
 import { createHash } from 'node:crypto';
-import { DeleteObjectCommand, GetObjectCommand, HeadObjectCommand, ListObjectsV2Command, PutObjectCommand, S3Client, S3ServiceException } from '@aws-sdk/client-s3';
+import {
+  DeleteObjectCommand,
+  GetObjectCommand,
+  HeadObjectCommand,
+  ListObjectsV2Command,
+  PutObjectCommand,
+  S3Client,
+  S3ServiceException,
+} from '@aws-sdk/client-s3';
 import { AppError } from '@/lib/errors/app-error';
 import { storageConfig, type StorageConfig } from './config';
 
@@ -21,11 +29,15 @@ export interface ObjectStore {
 
 const unreachable = (error: unknown): AppError => {
   console.error('object storage:', error instanceof Error ? error.message : error);
-  return new AppError('unavailable', 'The file store cannot be reached just now; nothing was changed. Try again in a minute.');
+  return new AppError(
+    'unavailable',
+    'The file store cannot be reached just now; nothing was changed. Try again in a minute.',
+  );
 };
 
 const isNotFound = (error: unknown) =>
-  error instanceof S3ServiceException && (error.name === 'NotFound' || error.name === 'NoSuchKey' || error.$metadata?.httpStatusCode === 404);
+  error instanceof S3ServiceException &&
+  (error.name === 'NotFound' || error.name === 'NoSuchKey' || error.$metadata?.httpStatusCode === 404);
 
 export function createObjectStore(config: StorageConfig): ObjectStore {
   const client = new S3Client({

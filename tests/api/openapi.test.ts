@@ -79,7 +79,8 @@ function routesOnDisk(): RouteFile[] {
   const appDir = path.join(process.cwd(), 'app');
   const out: RouteFile[] = [];
   for (const file of routeFiles(path.join(appDir, 'api'))) {
-    for (const method of exportedMethods(readFileSync(file, 'utf8'))) out.push({ key: `${method} ${openApiPath(appDir, file)}`, file });
+    for (const method of exportedMethods(readFileSync(file, 'utf8')))
+      out.push({ key: `${method} ${openApiPath(appDir, file)}`, file });
   }
   return out.sort((a, b) => a.key.localeCompare(b.key));
 }
@@ -87,14 +88,28 @@ function routesOnDisk(): RouteFile[] {
 type Doc = {
   openapi: string;
   info: { title: string; version: string };
-  paths: Record<string, Record<string, { operationId: string; security?: Record<string, string[]>[]; parameters?: Array<{ name: string; in: string; required?: boolean; schema: unknown }>; requestBody?: { content: Record<string, { schema: unknown }> }; responses: Record<string, { description?: string; content?: Record<string, { schema: unknown }> }> }>>;
+  paths: Record<
+    string,
+    Record<
+      string,
+      {
+        operationId: string;
+        security?: Record<string, string[]>[];
+        parameters?: Array<{ name: string; in: string; required?: boolean; schema: unknown }>;
+        requestBody?: { content: Record<string, { schema: unknown }> };
+        responses: Record<string, { description?: string; content?: Record<string, { schema: unknown }> }>;
+      }
+    >
+  >;
   components: { schemas: Record<string, unknown>; securitySchemes: Record<string, unknown> };
 };
 
 const doc = buildOpenApiDocument() as Doc;
 
 function operationsInDocument(): { key: string; path: string; method: string; op: Doc['paths'][string][string] }[] {
-  return Object.entries(doc.paths).flatMap(([p, item]) => Object.entries(item).map(([method, op]) => ({ key: `${method.toUpperCase()} ${p}`, path: p, method, op })));
+  return Object.entries(doc.paths).flatMap(([p, item]) =>
+    Object.entries(item).map(([method, op]) => ({ key: `${method.toUpperCase()} ${p}`, path: p, method, op })),
+  );
 }
 
 /** Request schemas as z.toJSONSchema writes them for the request side, without the `$schema` keyword. */
@@ -105,11 +120,15 @@ function requestJsonSchema(schema: ZodType): Record<string, unknown> {
 
 describe('coverage of the route handlers', () => {
   it('finds the methods in each export form a route file uses', () => {
-    expect(exportedMethods("export function GET() {}\nexport async function POST() {}")).toEqual(['GET', 'POST']);
-    expect(exportedMethods('const handler = NextAuth(authOptions);\nexport { handler as GET, handler as POST };')).toEqual(['GET', 'POST']);
+    expect(exportedMethods('export function GET() {}\nexport async function POST() {}')).toEqual(['GET', 'POST']);
+    expect(
+      exportedMethods('const handler = NextAuth(authOptions);\nexport { handler as GET, handler as POST };'),
+    ).toEqual(['GET', 'POST']);
     expect(exportedMethods('export const { GET, POST } = handlers;')).toEqual(['GET', 'POST']);
     expect(openApiPath('/x/app', '/x/app/api/auth/[...nextauth]/route.ts')).toBe('/api/auth/{nextauth}');
-    expect(openApiPath('/x/app', '/x/app/api/sheets/[sheetId]/versions/[number]/route.ts')).toBe('/api/sheets/{sheetId}/versions/{number}');
+    expect(openApiPath('/x/app', '/x/app/api/sheets/[sheetId]/versions/[number]/route.ts')).toBe(
+      '/api/sheets/{sheetId}/versions/{number}',
+    );
   });
 
   it('documents every method of every route file under app/api', () => {
@@ -121,7 +140,11 @@ describe('coverage of the route handlers', () => {
 
   it('documents no operation whose route file or method does not exist', () => {
     const onDisk = new Set(routesOnDisk().map((r) => r.key));
-    expect(operationsInDocument().filter((o) => !onDisk.has(o.key)).map((o) => o.key)).toEqual([]);
+    expect(
+      operationsInDocument()
+        .filter((o) => !onDisk.has(o.key))
+        .map((o) => o.key),
+    ).toEqual([]);
   });
 });
 
@@ -173,7 +196,8 @@ describe('the document is OpenAPI 3.1', () => {
   it('names only declared security schemes and resolvable components', () => {
     // OpenAPI Specification 3.1.0, Security Requirement Object: each name MUST correspond to a declared security scheme.
     for (const { key, op } of operations) {
-      for (const requirement of op.security ?? []) for (const name of Object.keys(requirement)) expect(doc.components.securitySchemes, key).toHaveProperty(name);
+      for (const requirement of op.security ?? [])
+        for (const name of Object.keys(requirement)) expect(doc.components.securitySchemes, key).toHaveProperty(name);
     }
     const refs = [...JSON.stringify(doc).matchAll(/"\$ref":"#\/components\/schemas\/([^"]+)"/g)].map((m) => m[1]);
     expect(refs.length).toBeGreaterThan(0);
@@ -181,7 +205,7 @@ describe('the document is OpenAPI 3.1', () => {
   });
 });
 
-describe('generated from the handlers\' zod schemas', () => {
+describe("generated from the handlers' zod schemas", () => {
   it('shows the body of POST /api/sheets/{sheetId}/versions as z.toJSONSchema of saveVersionSchema', () => {
     const schema = doc.paths['/api/sheets/{sheetId}/versions'].post.requestBody!.content['application/json'].schema;
     expect(schema).toEqual(requestJsonSchema(sheets.saveVersionSchema));
@@ -235,11 +259,17 @@ describe('generated from the handlers\' zod schemas', () => {
           expect(op.body?.contentType, key).toMatch(/^(multipart\/form-data|application\/x-www-form-urlencoded)$/);
           continue;
         }
-        const owner = Object.entries(modules).flatMap(([file, mod]) => Object.entries(mod).filter(([, v]) => v === schema).map(([name]) => ({ file, name })))[0];
+        const owner = Object.entries(modules).flatMap(([file, mod]) =>
+          Object.entries(mod)
+            .filter(([, v]) => v === schema)
+            .map(([name]) => ({ file, name })),
+        )[0];
         expect(owner, `${key}: its schema is not exported from lib/`).toBeDefined();
         const user = (schema === op.body?.schema ? parsedInLib[key] : undefined) ?? files.get(key);
         if (!user) continue; // a route not on disk yet: the coverage test reports it
-        expect(readFileSync(path.resolve(process.cwd(), user), 'utf8'), `${key} should use ${owner!.name}`).toContain(owner!.name);
+        expect(readFileSync(path.resolve(process.cwd(), user), 'utf8'), `${key} should use ${owner!.name}`).toContain(
+          owner!.name,
+        );
         checked += 1;
       }
     }

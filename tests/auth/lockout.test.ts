@@ -42,7 +42,12 @@ beforeEach(() => {
 });
 afterEach(() => stopObserving());
 
-async function attempt(email: string, password: string, ip = '10.0.0.1', db: Kysely<Database> = testDb()): Promise<string> {
+async function attempt(
+  email: string,
+  password: string,
+  ip = '10.0.0.1',
+  db: Kysely<Database> = testDb(),
+): Promise<string> {
   try {
     await authenticatePassword(db, { email, password, ip });
     return 'ok';
@@ -55,31 +60,48 @@ async function attempt(email: string, password: string, ip = '10.0.0.1', db: Kys
 async function userRow(id: string) {
   return testDb()
     .selectFrom('users')
-    .select(['failed_sign_ins', 'locked_at', 'lock_expires_at', sql<number | null>`extract(epoch from lock_expires_at - locked_at)::float8`.as('lockSeconds')])
+    .select([
+      'failed_sign_ins',
+      'locked_at',
+      'lock_expires_at',
+      sql<number | null>`extract(epoch from lock_expires_at - locked_at)::float8`.as('lockSeconds'),
+    ])
     .where('id', '=', id)
     .executeTakeFirstOrThrow();
 }
 
 async function failAndLock(email: string): Promise<void> {
-  for (let i = 1; i <= L; i++) expect(await attempt(email, `wrong ${i}`, `10.1.0.${i}`)).toBe(i < L ? 'invalid' : 'locked');
+  for (let i = 1; i <= L; i++)
+    expect(await attempt(email, `wrong ${i}`, `10.1.0.${i}`)).toBe(i < L ? 'invalid' : 'locked');
 }
 
 describe('the account lock', () => {
   it(`is timed: ${L} wrong passwords lock for ${AUTH_SETTINGS.lockMinutes} minutes, the next ${L} for twice as long; then the right password works`, async () => {
     const ada = await makeUser(testDb(), 'ada@example.test');
     await failAndLock('ada@example.test');
-    expect(await userRow(ada.userId)).toMatchObject({ failed_sign_ins: L, lockSeconds: AUTH_SETTINGS.lockMinutes * 60 });
+    expect(await userRow(ada.userId)).toMatchObject({
+      failed_sign_ins: L,
+      lockSeconds: AUTH_SETTINGS.lockMinutes * 60,
+    });
     expect(await attempt('ada@example.test', PASSWORD)).toBe('locked');
     // The lock runs out (moved into the past rather than waited for).
-    await sql`update users set locked_at = locked_at - interval '1 day', lock_expires_at = now() - interval '1 second' where id = ${ada.userId}`.execute(testDb());
-    for (let i = 1; i <= L; i++) expect(await attempt('ada@example.test', `again ${i}`, `10.2.0.${i}`)).toBe(i < L ? 'invalid' : 'locked');
-    expect(await userRow(ada.userId)).toMatchObject({ failed_sign_ins: 2 * L, lockSeconds: 2 * AUTH_SETTINGS.lockMinutes * 60 });
-    await sql`update users set lock_expires_at = now() - interval '1 second' where id = ${ada.userId}`.execute(testDb());
+    await sql`update users set locked_at = locked_at - interval '1 day', lock_expires_at = now() - interval '1 second' where id = ${ada.userId}`.execute(
+      testDb(),
+    );
+    for (let i = 1; i <= L; i++)
+      expect(await attempt('ada@example.test', `again ${i}`, `10.2.0.${i}`)).toBe(i < L ? 'invalid' : 'locked');
+    expect(await userRow(ada.userId)).toMatchObject({
+      failed_sign_ins: 2 * L,
+      lockSeconds: 2 * AUTH_SETTINGS.lockMinutes * 60,
+    });
+    await sql`update users set lock_expires_at = now() - interval '1 second' where id = ${ada.userId}`.execute(
+      testDb(),
+    );
     expect(await attempt('ada@example.test', PASSWORD)).toBe('ok');
     expect(await userRow(ada.userId)).toMatchObject({ failed_sign_ins: 0 });
   });
 
-  it('is decided before the password: a locked account\'s right password is not even evaluated', async () => {
+  it("is decided before the password: a locked account's right password is not even evaluated", async () => {
     await makeUser(testDb(), 'ada@example.test');
     await failAndLock('ada@example.test');
     verified = [];
@@ -90,9 +112,16 @@ describe('the account lock', () => {
   it('e-mails the holder a single-use unlock link, audits the lock and the unlock, and says until when', async () => {
     const ada = await makeUser(testDb(), 'ada@example.test');
     for (let i = 1; i < L; i++) await attempt('ada@example.test', `wrong ${i}`, '192.0.2.7');
-    const error = await refusal(authenticatePassword(testDb(), { email: 'ada@example.test', password: 'wrong last', ip: '192.0.2.7' }), AuthError);
+    const error = await refusal(
+      authenticatePassword(testDb(), { email: 'ada@example.test', password: 'wrong last', ip: '192.0.2.7' }),
+      AuthError,
+    );
     expect(error.code).toBe('locked');
-    expect(error.message).toMatch(new RegExp(`^This account is locked after ${L} failed sign-in attempts, until \\d{4}-\\d\\d-\\d\\d \\d\\d:\\d\\d UTC\\. Its holder has been e-mailed a link`));
+    expect(error.message).toMatch(
+      new RegExp(
+        `^This account is locked after ${L} failed sign-in attempts, until \\d{4}-\\d\\d-\\d\\d \\d\\d:\\d\\d UTC\\. Its holder has been e-mailed a link`,
+      ),
+    );
     await drainMailQueue();
     const mail = await waitForMail({ to: 'ada@example.test', kind: 'account-locked' });
     expect(mail.subject).toBe('Your Worldsheet account is locked');
@@ -105,14 +134,23 @@ describe('the account lock', () => {
     expect((await refusal(unlockWithToken(testDb(), token))).code).toBe('bad_request');
     expect(await attempt('ada@example.test', PASSWORD)).toBe('ok');
 
-    const events = await testDb().selectFrom('audit_events').select(['action', 'object_id', 'reason']).where('action', 'in', ['user.lock', 'user.unlock']).orderBy('id').execute();
+    const events = await testDb()
+      .selectFrom('audit_events')
+      .select(['action', 'object_id', 'reason'])
+      .where('action', 'in', ['user.lock', 'user.unlock'])
+      .orderBy('id')
+      .execute();
     expect(events).toEqual([
-      { action: 'user.lock', object_id: ada.userId, reason: `${L} failed password attempts in a row (the last while signing in)` },
+      {
+        action: 'user.lock',
+        object_id: ada.userId,
+        reason: `${L} failed password attempts in a row (the last while signing in)`,
+      },
       { action: 'user.unlock', object_id: ada.userId, reason: 'unlock link e-mailed to the holder' },
     ]);
   });
 
-  it('can be set by an administrator until an administrator unlocks; the holder\'s unlock link does not lift it; all audited', async () => {
+  it("can be set by an administrator until an administrator unlocks; the holder's unlock link does not lift it; all audited", async () => {
     const admin = await makeUser(testDb(), 'admin@example.test', { admin: true });
     const ada = await makeUser(testDb(), 'ada@example.test');
     const token = await createEmailToken(testDb(), { userId: ada.userId, purpose: 'unlock', minutes: 15 });
@@ -120,17 +158,24 @@ describe('the account lock', () => {
     expect(await userRow(ada.userId)).toMatchObject({ lock_expires_at: null });
     expect(await attempt('ada@example.test', PASSWORD)).toBe('locked');
     expect((await refusal(unlockWithToken(testDb(), token))).code).toBe('conflict');
-    expect((await refusal(changeUser(testDb(), admin, ada.userId, { action: 'lock', reason: 'twice' }))).code).toBe('conflict');
+    expect((await refusal(changeUser(testDb(), admin, ada.userId, { action: 'lock', reason: 'twice' }))).code).toBe(
+      'conflict',
+    );
     await changeUser(testDb(), admin, ada.userId, { action: 'unlock', reason: 'back on the project' });
     expect(await attempt('ada@example.test', PASSWORD)).toBe('ok');
-    const events = await testDb().selectFrom('audit_events').select(['action', 'actor_id', 'reason']).where('action', 'in', ['user.lock', 'user.unlock']).orderBy('id').execute();
+    const events = await testDb()
+      .selectFrom('audit_events')
+      .select(['action', 'actor_id', 'reason'])
+      .where('action', 'in', ['user.lock', 'user.unlock'])
+      .orderBy('id')
+      .execute();
     expect(events).toEqual([
       { action: 'user.lock', actor_id: admin.userId, reason: 'left the project' },
       { action: 'user.unlock', actor_id: admin.userId, reason: 'back on the project' },
     ]);
   });
 
-  it('an administrator\'s lock replaces a timed one, and unlocking a timed lock starts the count again', async () => {
+  it("an administrator's lock replaces a timed one, and unlocking a timed lock starts the count again", async () => {
     const admin = await makeUser(testDb(), 'admin@example.test', { admin: true });
     const ada = await makeUser(testDb(), 'ada@example.test');
     await failAndLock('ada@example.test');
@@ -145,17 +190,26 @@ describe('the account lock', () => {
 describe('under concurrency', () => {
   it(`evaluates no more than ${L} of 30 concurrent wrong passwords, and the account ends locked`, async () => {
     const ada = await makeUser(testDb(), 'ada@example.test');
-    const results = await Promise.all(Array.from({ length: 30 }, (_, i) => attempt('ada@example.test', `wrong ${i}`, `10.4.${i}.1`, burstDb)));
+    const results = await Promise.all(
+      Array.from({ length: 30 }, (_, i) => attempt('ada@example.test', `wrong ${i}`, `10.4.${i}.1`, burstDb)),
+    );
     expect(verified.length).toBe(L);
     expect(results.filter((r) => r === 'invalid').length).toBe(L - 1);
     expect(results.filter((r) => r === 'locked').length).toBe(30 - (L - 1));
-    expect(await userRow(ada.userId)).toMatchObject({ failed_sign_ins: L, lockSeconds: AUTH_SETTINGS.lockMinutes * 60 });
-    expect(await testDb().selectFrom('audit_events').select('action').where('action', '=', 'user.lock').execute()).toHaveLength(1);
+    expect(await userRow(ada.userId)).toMatchObject({
+      failed_sign_ins: L,
+      lockSeconds: AUTH_SETTINGS.lockMinutes * 60,
+    });
+    expect(
+      await testDb().selectFrom('audit_events').select('action').where('action', '=', 'user.lock').execute(),
+    ).toHaveLength(1);
   });
 
   it('gives no session to the right password sent in a burst of 40 after the burst locked the account', async () => {
     const ada = await makeUser(testDb(), 'ada@example.test');
-    const burst = Promise.all(Array.from({ length: 40 }, (_, i) => attempt('ada@example.test', `wrong ${i}`, `10.5.${i}.1`, burstDb)));
+    const burst = Promise.all(
+      Array.from({ length: 40 }, (_, i) => attempt('ada@example.test', `wrong ${i}`, `10.5.${i}.1`, burstDb)),
+    );
     // The moment the lock is booked, while the burst may still be in flight.
     for (;;) {
       const row = await userRow(ada.userId);
@@ -171,7 +225,9 @@ describe('under concurrency', () => {
   });
 
   it(`evaluates no more than ${AUTH_SETTINGS.ipFreeFailures} of 30 concurrent failures from one address`, async () => {
-    const results = await Promise.all(Array.from({ length: 30 }, (_, i) => attempt(`nobody${i}@example.test`, 'guess', '203.0.113.9', burstDb)));
+    const results = await Promise.all(
+      Array.from({ length: 30 }, (_, i) => attempt(`nobody${i}@example.test`, 'guess', '203.0.113.9', burstDb)),
+    );
     expect(verified.length).toBeLessThanOrEqual(AUTH_SETTINGS.ipFreeFailures);
     expect(results.filter((r) => r === 'invalid').length).toBe(verified.length);
     expect(results.filter((r) => r === 'rate_limited').length).toBe(30 - verified.length);
@@ -189,16 +245,24 @@ describe('the per-address limit', () => {
   it(`slows an address down after ${AUTH_SETTINGS.ipFreeFailures} failures, doubling the wait with each further failure; other addresses go on`, async () => {
     await makeUser(testDb(), 'ada@example.test');
     const free = AUTH_SETTINGS.ipFreeFailures;
-    for (let i = 0; i < free; i++) expect(await attempt(`nobody${i}@example.test`, 'guess', '203.0.113.5')).toBe('invalid');
+    for (let i = 0; i < free; i++)
+      expect(await attempt(`nobody${i}@example.test`, 'guess', '203.0.113.5')).toBe('invalid');
     const waits: number[] = [];
     for (let n = 0; n < 3; n++) {
       // Refused at once, even with the right password of an account, and not counted as a failure.
-      const error = await refusal(authenticatePassword(testDb(), { email: 'ada@example.test', password: PASSWORD, ip: '203.0.113.5' }), AuthError);
+      const error = await refusal(
+        authenticatePassword(testDb(), { email: 'ada@example.test', password: PASSWORD, ip: '203.0.113.5' }),
+        AuthError,
+      );
       expect(error.code).toBe('rate_limited');
-      expect(error.message).toMatch(/^Too many failed sign-in attempts from your network\. Try again in \d+ seconds?\.$/);
+      expect(error.message).toMatch(
+        /^Too many failed sign-in attempts from your network\. Try again in \d+ seconds?\.$/,
+      );
       waits.push(error.retryAfterSeconds!);
       // The wait passes (the failures are moved back rather than waited for); one more failure.
-      await sql`update sign_in_attempts set at = at - make_interval(secs => ${error.retryAfterSeconds! + 1}) where ip = '203.0.113.5'`.execute(testDb());
+      await sql`update sign_in_attempts set at = at - make_interval(secs => ${error.retryAfterSeconds! + 1}) where ip = '203.0.113.5'`.execute(
+        testDb(),
+      );
       expect(await attempt(`late${n}@example.test`, 'guess', '203.0.113.5')).toBe('invalid');
     }
     expect(waits).toEqual([1, 2, 4]);
@@ -209,11 +273,22 @@ describe('the per-address limit', () => {
     const ada = await makeUser(testDb(), 'ada@example.test');
     const token = await createEmailToken(testDb(), { userId: ada.userId, purpose: 'sign-in', minutes: 15 });
     for (let i = 0; i < AUTH_SETTINGS.ipFreeFailures; i++) {
-      expect((await refusal(authenticateLink(testDb(), { token: `stolen-or-guessed-${i}`, ip: '203.0.113.7' }), AuthError)).code).toBe('expired_link');
+      expect(
+        (await refusal(authenticateLink(testDb(), { token: `stolen-or-guessed-${i}`, ip: '203.0.113.7' }), AuthError))
+          .code,
+      ).toBe('expired_link');
     }
-    const failures = await testDb().selectFrom('sign_in_attempts').select(['method', 'ok']).where('ip', '=', '203.0.113.7').execute();
-    expect(failures).toEqual(Array.from({ length: AUTH_SETTINGS.ipFreeFailures }, () => ({ method: 'link', ok: false })));
-    expect((await refusal(authenticateLink(testDb(), { token, ip: '203.0.113.7' }), AuthError)).code).toBe('rate_limited');
+    const failures = await testDb()
+      .selectFrom('sign_in_attempts')
+      .select(['method', 'ok'])
+      .where('ip', '=', '203.0.113.7')
+      .execute();
+    expect(failures).toEqual(
+      Array.from({ length: AUTH_SETTINGS.ipFreeFailures }, () => ({ method: 'link', ok: false })),
+    );
+    expect((await refusal(authenticateLink(testDb(), { token, ip: '203.0.113.7' }), AuthError)).code).toBe(
+      'rate_limited',
+    );
     // The refusal did not use the link up.
     expect((await authenticateLink(testDb(), { token, ip: '203.0.113.8' })).id).toBe(ada.userId);
   });
@@ -223,7 +298,9 @@ describe('the per-address limit', () => {
     const token = await createEmailToken(testDb(), { userId: ada.userId, purpose: 'sign-in', minutes: 15 });
     await failAndLock('ada@example.test');
     expect((await refusal(authenticateLink(testDb(), { token, ip: '10.7.0.1' }), AuthError)).code).toBe('locked');
-    await sql`update users set lock_expires_at = now() - interval '1 second' where id = ${ada.userId}`.execute(testDb());
+    await sql`update users set lock_expires_at = now() - interval '1 second' where id = ${ada.userId}`.execute(
+      testDb(),
+    );
     expect((await authenticateLink(testDb(), { token, ip: '10.7.0.1' })).id).toBe(ada.userId);
   });
 });
@@ -244,8 +321,12 @@ describe('an address without an account', () => {
   });
 
   it(`looks locked after ${L} failures, as an account would (and is then not evaluated either)`, async () => {
-    for (let i = 1; i < L; i++) expect(await attempt('nobody@example.test', `guess ${i}`, `10.8.0.${i}`)).toBe('invalid');
-    const error = await refusal(authenticatePassword(testDb(), { email: 'nobody@example.test', password: 'guess', ip: '10.8.1.1' }), AuthError);
+    for (let i = 1; i < L; i++)
+      expect(await attempt('nobody@example.test', `guess ${i}`, `10.8.0.${i}`)).toBe('invalid');
+    const error = await refusal(
+      authenticatePassword(testDb(), { email: 'nobody@example.test', password: 'guess', ip: '10.8.1.1' }),
+      AuthError,
+    );
     expect(error.code).toBe('locked');
     expect(error.message).toMatch(new RegExp(`^This account is locked after ${L} failed sign-in attempts, until `));
     verified = [];
@@ -278,23 +359,44 @@ describe('password re-entry and password change', () => {
     const { ada, sheet } = await signingWorld();
     const outcomes: string[] = [];
     for (let i = 1; i <= 15; i++) {
-      const e = await refusal(reauthenticateToSign(testDb(), ada, { sheet, meaning: 'prepared', password: `guess ${i}`, messages }));
-      outcomes.push(e.message.startsWith('This account is locked') ? 'locked' : e.message === 'The password is not correct; nothing was signed.' ? 'wrong' : e.message);
+      const e = await refusal(
+        reauthenticateToSign(testDb(), ada, { sheet, meaning: 'prepared', password: `guess ${i}`, messages }),
+      );
+      outcomes.push(
+        e.message.startsWith('This account is locked')
+          ? 'locked'
+          : e.message === 'The password is not correct; nothing was signed.'
+            ? 'wrong'
+            : e.message,
+      );
     }
     expect(outcomes).toEqual([...Array(L - 1).fill('wrong'), ...Array(15 - (L - 1)).fill('locked')]);
-    const right = await refusal(reauthenticateToSign(testDb(), ada, { sheet, meaning: 'prepared', password: PASSWORD, messages }));
+    const right = await refusal(
+      reauthenticateToSign(testDb(), ada, { sheet, meaning: 'prepared', password: PASSWORD, messages }),
+    );
     expect(right).toMatchObject({ code: 'forbidden', details: { rule: 'password' } });
-    expect(right.message).toMatch(/^This account is locked after 5 failed sign-in attempts, until .* Nothing was signed\.$/);
+    expect(right.message).toMatch(
+      /^This account is locked after 5 failed sign-in attempts, until .* Nothing was signed\.$/,
+    );
     expect(verified).toHaveLength(L);
     // And signing in is refused too: it is one lock.
     expect(await attempt('ada@example.test', PASSWORD)).toBe('locked');
-    const lock = await testDb().selectFrom('audit_events').select(['actor_id', 'reason']).where('action', '=', 'user.lock').execute();
-    expect(lock).toEqual([{ actor_id: ada.userId, reason: `${L} failed password attempts in a row (the last while signing a record)` }]);
+    const lock = await testDb()
+      .selectFrom('audit_events')
+      .select(['actor_id', 'reason'])
+      .where('action', '=', 'user.lock')
+      .execute();
+    expect(lock).toEqual([
+      { actor_id: ada.userId, reason: `${L} failed password attempts in a row (the last while signing a record)` },
+    ]);
   });
 
   it('a right re-entry starts the count again', async () => {
     const { ada, sheet } = await signingWorld();
-    for (let i = 1; i < L; i++) await refusal(reauthenticateToSign(testDb(), ada, { sheet, meaning: 'prepared', password: `guess ${i}`, messages }));
+    for (let i = 1; i < L; i++)
+      await refusal(
+        reauthenticateToSign(testDb(), ada, { sheet, meaning: 'prepared', password: `guess ${i}`, messages }),
+      );
     await reauthenticateToSign(testDb(), ada, { sheet, meaning: 'prepared', password: PASSWORD, messages });
     expect(await userRow(ada.userId)).toMatchObject({ failed_sign_ins: 0, locked_at: null });
   });
@@ -302,14 +404,23 @@ describe('password re-entry and password change', () => {
   it('a wrong current password of a password change is audited and counts toward the lock', async () => {
     const ada = await makeUser(testDb(), 'ada@example.test');
     for (let i = 1; i < L; i++) {
-      expect(await refusal(changePassword(testDb(), ada, { currentPassword: `guess ${i}`, newPassword: 'a brand new password' }))).toMatchObject({
+      expect(
+        await refusal(
+          changePassword(testDb(), ada, { currentPassword: `guess ${i}`, newPassword: 'a brand new password' }),
+        ),
+      ).toMatchObject({
         code: 'bad_request',
         message: 'The current password is not right.',
       });
     }
-    const locked = await refusal(changePassword(testDb(), ada, { currentPassword: 'guess last', newPassword: 'a brand new password' }));
+    const locked = await refusal(
+      changePassword(testDb(), ada, { currentPassword: 'guess last', newPassword: 'a brand new password' }),
+    );
     expect(locked.code).toBe('forbidden');
-    expect((await refusal(changePassword(testDb(), ada, { currentPassword: PASSWORD, newPassword: 'a brand new password' }))).code).toBe('forbidden');
+    expect(
+      (await refusal(changePassword(testDb(), ada, { currentPassword: PASSWORD, newPassword: 'a brand new password' })))
+        .code,
+    ).toBe('forbidden');
     expect(verified).toHaveLength(L);
     const refused = await testDb()
       .selectFrom('audit_events')
@@ -317,8 +428,14 @@ describe('password re-entry and password change', () => {
       .where('action', '=', 'user.password-change-refused')
       .orderBy('id')
       .execute();
-    expect(refused.map((e) => (e.new_value as { outcome: string }).outcome)).toEqual([...Array(L - 1).fill('wrong'), 'locked', 'locked']);
+    expect(refused.map((e) => (e.new_value as { outcome: string }).outcome)).toEqual([
+      ...Array(L - 1).fill('wrong'),
+      'locked',
+      'locked',
+    ]);
     expect(refused.every((e) => e.actor_id === ada.userId && e.object_id === ada.userId)).toBe(true);
-    expect(await testDb().selectFrom('audit_events').select('id').where('action', '=', 'user.password-change').execute()).toEqual([]);
+    expect(
+      await testDb().selectFrom('audit_events').select('id').where('action', '=', 'user.password-change').execute(),
+    ).toEqual([]);
   });
 });

@@ -30,12 +30,21 @@ describe('password sign-in', () => {
 
   it(`locks the account after ${AUTH_SETTINGS.lockAfterFailures} failures in a row, audits it, and refuses even the right password`, async () => {
     const user = await makeUser(testDb(), 'ada@example.test');
-    for (let i = 1; i < AUTH_SETTINGS.lockAfterFailures; i++) expect(await attempt('ada@example.test', `wrong ${i}`)).toBe('invalid');
+    for (let i = 1; i < AUTH_SETTINGS.lockAfterFailures; i++)
+      expect(await attempt('ada@example.test', `wrong ${i}`)).toBe('invalid');
     expect(await attempt('ada@example.test', 'wrong last')).toBe('locked');
     expect(await attempt('ada@example.test', PASSWORD)).toBe('locked');
-    const row = await testDb().selectFrom('users').select(['locked_at']).where('id', '=', user.userId).executeTakeFirstOrThrow();
+    const row = await testDb()
+      .selectFrom('users')
+      .select(['locked_at'])
+      .where('id', '=', user.userId)
+      .executeTakeFirstOrThrow();
     expect(row.locked_at).not.toBeNull();
-    const events = await testDb().selectFrom('audit_events').select(['action', 'object_id']).where('action', '=', 'user.lock').execute();
+    const events = await testDb()
+      .selectFrom('audit_events')
+      .select(['action', 'object_id'])
+      .where('action', '=', 'user.lock')
+      .execute();
     expect(events).toEqual([{ action: 'user.lock', object_id: user.userId }]);
   });
 
@@ -47,12 +56,14 @@ describe('password sign-in', () => {
   });
 
   it('answers an address without an account as a locked account after as many failures (it never says which)', async () => {
-    for (let i = 1; i < AUTH_SETTINGS.lockAfterFailures; i++) expect(await attempt('ghost@example.test', 'x', `10.0.1.${i}`)).toBe('invalid');
+    for (let i = 1; i < AUTH_SETTINGS.lockAfterFailures; i++)
+      expect(await attempt('ghost@example.test', 'x', `10.0.1.${i}`)).toBe('invalid');
     expect(await attempt('ghost@example.test', 'x', '10.0.2.1')).toBe('locked');
   });
 
   it('slows down a client address after its failures (the limit lives in tests/auth/lockout.test.ts)', async () => {
-    for (let i = 0; i < AUTH_SETTINGS.ipFreeFailures; i++) expect(await attempt(`p${i}@example.test`, 'x', '10.9.9.9')).toBe('invalid');
+    for (let i = 0; i < AUTH_SETTINGS.ipFreeFailures; i++)
+      expect(await attempt(`p${i}@example.test`, 'x', '10.9.9.9')).toBe('invalid');
     expect(await attempt('another@example.test', 'x', '10.9.9.9')).toBe('rate_limited');
   });
 

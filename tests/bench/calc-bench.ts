@@ -45,7 +45,9 @@ export function runCalcBench(repeats = 5) {
   const bindings: Record<string, unknown> = {};
   for (const b of bindLibrary(bootstrap, LIBRARY)) bindings[b.name] = b.fn;
   bare.import(bindings);
-  const constants = new Map<string, unknown>(CONSTANTS.map((k) => [k.name, k.unit === '' ? k.value : bare.unit(k.value, k.unit)]));
+  const constants = new Map<string, unknown>(
+    CONSTANTS.map((k) => [k.name, k.unit === '' ? k.value : bare.unit(k.value, k.unit)]),
+  );
   const bareRun = () => {
     const scope = new Map(constants);
     for (const s of statements) bare.compile(s).evaluate(scope);
@@ -60,7 +62,9 @@ export function runCalcBench(repeats = 5) {
     bareTimes.push(time(bareRun));
     const engine = createSheetEngine();
     fullTimes.push(time(() => engine.evaluate(sheet, { significantFigures: 6 })));
-    const edited = sheet.map((c, i) => (i === 1989 ? { ...c, source: c.source.replace(/^T_1990 = [\d.]+ MeV/, `T_1990 = ${100 + r}.5 MeV`) } : c));
+    const edited = sheet.map((c, i) =>
+      i === 1989 ? { ...c, source: c.source.replace(/^T_1990 = [\d.]+ MeV/, `T_1990 = ${100 + r}.5 MeV`) } : c,
+    );
     let evaluated = 0;
     editTimes.push(
       time(() => {
@@ -72,11 +76,26 @@ export function runCalcBench(repeats = 5) {
   const bareMs = median(bareTimes);
   const fullMs = median(fullTimes);
   const editMs = median(editTimes);
-  return { cells: sheet.length, statements: statements.length, bareMs, fullMs, editMs, fullOverBare: fullMs / bareMs, editOverFull: editMs / fullMs };
+  return {
+    cells: sheet.length,
+    statements: statements.length,
+    bareMs,
+    fullMs,
+    editMs,
+    fullOverBare: fullMs / bareMs,
+    editOverFull: editMs / fullMs,
+  };
 }
 
 const STUDY_MODEL = (energy: string) =>
-  [`T_kin = ${energy}`, 'beta = speedFromKinetic(T_kin, m_p) / c', 'gamma_L = lorentzFactor(beta)', 'p = momentumFromKinetic(T_kin, m_p)', 'Brho = magneticRigidity(p, q_e) to T*m', 'B_dip = Brho / (1.5 m) to T'].join('\n');
+  [
+    `T_kin = ${energy}`,
+    'beta = speedFromKinetic(T_kin, m_p) / c',
+    'gamma_L = lorentzFactor(beta)',
+    'p = momentumFromKinetic(T_kin, m_p)',
+    'Brho = magneticRigidity(p, q_e) to T*m',
+    'B_dip = Brho / (1.5 m) to T',
+  ].join('\n');
 
 /**
  * Studies: a 200-step sweep against 200 evaluations of the sheet with the value written in; the
@@ -96,7 +115,12 @@ export function runStudyBench(repeats = 5) {
   const monteCarloTimes: number[] = [];
   for (let r = 0; r < repeats + 1; r++) {
     const engine = createSheetEngine();
-    const sweep = time(() => engine.evaluate(cells(STUDY_MODEL('250 MeV'), 'sweep(T_kin, points(70 MeV, 250 MeV, 200), beta, gamma_L, Brho, B_dip)'), { significantFigures: 6 }));
+    const sweep = time(() =>
+      engine.evaluate(
+        cells(STUDY_MODEL('250 MeV'), 'sweep(T_kin, points(70 MeV, 250 MeV, 200), beta, gamma_L, Brho, B_dip)'),
+        { significantFigures: 6 },
+      ),
+    );
     const single = time(() => {
       for (const t of energies) engine.evaluate(cells(STUDY_MODEL(`${t} MeV`)), { significantFigures: 6 });
     });
@@ -105,7 +129,9 @@ export function runStudyBench(repeats = 5) {
     engine.clearCache();
     const firstOrder = time(() => engine.evaluate(cells(STUDY_MODEL('250 MeV ± 0.4 MeV')), { significantFigures: 6 }));
     engine.clearCache();
-    const monteCarlo = time(() => engine.evaluate(cells(STUDY_MODEL('250 MeV ± 0.4 MeV')), { significantFigures: 6, monteCarlo: 'always' }));
+    const monteCarlo = time(() =>
+      engine.evaluate(cells(STUDY_MODEL('250 MeV ± 0.4 MeV')), { significantFigures: 6, monteCarlo: 'always' }),
+    );
     if (r === 0) continue; // warm-up
     sweepTimes.push(sweep);
     singleTimes.push(single);
@@ -113,26 +139,50 @@ export function runStudyBench(repeats = 5) {
     firstOrderTimes.push(firstOrder);
     monteCarloTimes.push(monteCarlo);
   }
-  const [sweepMs, singleMs, plainMs, firstOrderMs, monteCarloMs] = [sweepTimes, singleTimes, plainTimes, firstOrderTimes, monteCarloTimes].map(median);
-  return { sweepMs, singleMs, plainMs, firstOrderMs, monteCarloMs, sweepOverSingles: sweepMs / singleMs, firstOrderOverPlain: firstOrderMs / plainMs, monteCarloOverPlain: monteCarloMs / plainMs };
+  const [sweepMs, singleMs, plainMs, firstOrderMs, monteCarloMs] = [
+    sweepTimes,
+    singleTimes,
+    plainTimes,
+    firstOrderTimes,
+    monteCarloTimes,
+  ].map(median);
+  return {
+    sweepMs,
+    singleMs,
+    plainMs,
+    firstOrderMs,
+    monteCarloMs,
+    sweepOverSingles: sweepMs / singleMs,
+    firstOrderOverPlain: firstOrderMs / plainMs,
+    monteCarloOverPlain: monteCarloMs / plainMs,
+  };
 }
 
 async function main() {
   const st = runStudyBench();
   console.log('Studies (median of 5 runs)');
-  console.log(`  sweep of 200 steps: ${st.sweepMs.toFixed(1)} ms; 200 evaluations with the value written in: ${st.singleMs.toFixed(1)} ms; ratio ${st.sweepOverSingles.toFixed(3)}`);
-  console.log(`  5 results with first-order uncertainty: ${st.firstOrderMs.toFixed(1)} ms against ${st.plainMs.toFixed(1)} ms without; ratio ${st.firstOrderOverPlain.toFixed(2)}`);
-  console.log(`  the same with Monte Carlo (10 000 draws each): ${st.monteCarloMs.toFixed(1)} ms; ratio to without ${st.monteCarloOverPlain.toFixed(1)}\n`);
+  console.log(
+    `  sweep of 200 steps: ${st.sweepMs.toFixed(1)} ms; 200 evaluations with the value written in: ${st.singleMs.toFixed(1)} ms; ratio ${st.sweepOverSingles.toFixed(3)}`,
+  );
+  console.log(
+    `  5 results with first-order uncertainty: ${st.firstOrderMs.toFixed(1)} ms against ${st.plainMs.toFixed(1)} ms without; ratio ${st.firstOrderOverPlain.toFixed(2)}`,
+  );
+  console.log(
+    `  the same with Monte Carlo (10 000 draws each): ${st.monteCarloMs.toFixed(1)} ms; ratio to without ${st.monteCarloOverPlain.toFixed(1)}\n`,
+  );
   const r = runCalcBench();
   console.log('Calculation engine, 2,000-cell sheet with units (median of 5 runs)');
   console.log(`  bare mathjs compile + evaluate:    ${r.bareMs.toFixed(1)} ms for ${r.statements} statements`);
-  console.log(`  Worldsheet full evaluation:        ${r.fullMs.toFixed(1)} ms  (TeX, substitution, formatting, analysis)`);
+  console.log(
+    `  Worldsheet full evaluation:        ${r.fullMs.toFixed(1)} ms  (TeX, substitution, formatting, analysis)`,
+  );
   console.log(`  ratio full / bare:                 ${r.fullOverBare.toFixed(2)}   (aim ≤ 1.3)`);
   console.log(`  re-evaluation after editing cell 1990 of 2000: ${r.editMs.toFixed(1)} ms`);
   console.log(`  ratio edit / full:                 ${r.editOverFull.toFixed(4)}   (aim well under 0.05)`);
   const { worstUlpTable } = await import('../calc/reference-math');
   console.log('\nWorst error in ulp over the β grids (1e-12 … 1 − 1e-15), against 50-digit references (aim ≤ 4)');
-  for (const row of worstUlpTable()) console.log(`  ${row.name.padEnd(34)} ${row.worstUlp.toFixed(2).padStart(6)} ulp  (${row.samples} samples)`);
+  for (const row of worstUlpTable())
+    console.log(`  ${row.name.padEnd(34)} ${row.worstUlp.toFixed(2).padStart(6)} ulp  (${row.samples} samples)`);
 }
 
 if (process.argv[1]?.endsWith('calc-bench.ts')) await main();

@@ -30,10 +30,22 @@ function hundredCells(run: number) {
   const cells = [];
   for (let k = 1; k <= 20; k++) {
     cells.push(
-      { id: `t${k}`, kind: 'text' as const, source: `## Section ${k}\n\nProtons at $T_{${k}}$; rigidity $B\\rho = p/q$, Lorentz factor $\\gamma \\le 3$.` },
+      {
+        id: `t${k}`,
+        kind: 'text' as const,
+        source: `## Section ${k}\n\nProtons at $T_{${k}}$; rigidity $B\\rho = p/q$, Lorentz factor $\\gamma \\le 3$.`,
+      },
       { id: `a${k}`, kind: 'calc' as const, source: `T_${k} = ${70 + k * 9}.${run} MeV\nL_${k} = ${k}.5 m` },
-      { id: `b${k}`, kind: 'calc' as const, source: `p_${k} = momentumFromKinetic(T_${k}, m_p)\nBrho_${k} = magneticRigidity(p_${k}, q_e) to T*m` },
-      { id: `c${k}`, kind: 'calc' as const, source: `g_${k} = lorentzFactor(speedFromKinetic(T_${k}, m_p))\ntof_${k} = timeOfFlight(L_${k}, T_${k}, m_p) to ns` },
+      {
+        id: `b${k}`,
+        kind: 'calc' as const,
+        source: `p_${k} = momentumFromKinetic(T_${k}, m_p)\nBrho_${k} = magneticRigidity(p_${k}, q_e) to T*m`,
+      },
+      {
+        id: `c${k}`,
+        kind: 'calc' as const,
+        source: `g_${k} = lorentzFactor(speedFromKinetic(T_${k}, m_p))\ntof_${k} = timeOfFlight(L_${k}, T_${k}, m_p) to ns`,
+      },
       { id: `d${k}`, kind: 'calc' as const, source: `Brho_${k} < 3 T*m\ng_${k} <= 1.3` },
     );
   }
@@ -48,7 +60,10 @@ async function main(supervisor: Supervisor) {
   await cluster.start();
   await cluster.ensureDatabase(DATABASE, { fresh: true });
   const folder = mkdtempSync(path.join(tmpdir(), 'ws-issue-bench-'));
-  const objects = await startFakeObjectStore({ port: Number(process.env.WORLDSHEET_BENCH_S3_PORT ?? 4598), directory: path.join(folder, 'objects') });
+  const objects = await startFakeObjectStore({
+    port: Number(process.env.WORLDSHEET_BENCH_S3_PORT ?? 4598),
+    directory: path.join(folder, 'objects'),
+  });
   supervisor.add('object store', async () => {
     await objects.stop();
     rmSync(folder, { recursive: true, force: true });
@@ -85,10 +100,18 @@ async function main(supervisor: Supervisor) {
     sizes.push(pdf.length);
   }
   const median = (xs: number[]) => [...xs].sort((a, b) => a - b)[Math.floor(xs.length / 2)];
-  console.log(`\nIssuing a 100-cell sheet (80 calculation cells, 180 statements typeset with MathJax), ${RUNS} runs after one warm-up`);
-  console.log(`  request to stored signed PDF: median ${median(totals).toFixed(0)} ms (runs: ${totals.map((t) => t.toFixed(0)).join(', ')} ms)`);
-  console.log(`  rendering alone:              median ${median(renders).toFixed(0)} ms; PDF ${Math.round(median(sizes) / 1024)} KiB before signing`);
-  console.log(`  ratio issue / rendering alone: ${(median(totals) / median(renders)).toFixed(2)}   (the rest: argon2 password check, signing, storing, recording)`);
+  console.log(
+    `\nIssuing a 100-cell sheet (80 calculation cells, 180 statements typeset with MathJax), ${RUNS} runs after one warm-up`,
+  );
+  console.log(
+    `  request to stored signed PDF: median ${median(totals).toFixed(0)} ms (runs: ${totals.map((t) => t.toFixed(0)).join(', ')} ms)`,
+  );
+  console.log(
+    `  rendering alone:              median ${median(renders).toFixed(0)} ms; PDF ${Math.round(median(sizes) / 1024)} KiB before signing`,
+  );
+  console.log(
+    `  ratio issue / rendering alone: ${(median(totals) / median(renders)).toFixed(2)}   (the rest: argon2 password check, signing, storing, recording)`,
+  );
   await supervisor.shutdown(0);
 }
 

@@ -106,7 +106,8 @@ function figures(xs: number[]): Figures {
 
 const ms = (x: number) => `${x.toFixed(1).padStart(8)} ms`;
 const mib = (bytes: number) => `${(bytes / 1024 ** 2).toFixed(0).padStart(5)} MiB`;
-const row = (label: string, f: Figures) => `  ${label.padEnd(16)} p50 ${ms(f.p50)}   p95 ${ms(f.p95)}   p99 ${ms(f.p99)}   (${f.n} requests)`;
+const row = (label: string, f: Figures) =>
+  `  ${label.padEnd(16)} p50 ${ms(f.p50)}   p95 ${ms(f.p95)}   p99 ${ms(f.p99)}   (${f.n} requests)`;
 
 /** What one autocannon run saw, by kind of request. */
 class Tally {
@@ -215,7 +216,9 @@ function editedContent(base: VersionContent, u: number, edit: number): VersionCo
   return versionContentSchema.parse({
     ...base,
     title: `Load user ${u}: ${base.title}`,
-    cells: base.cells.map((c) => (c.kind === 'calc' ? { ...c, source: c.source.replace(/^T_max = [\d.]+ MeV/m, `T_max = ${energy} MeV`) } : c)),
+    cells: base.cells.map((c) =>
+      c.kind === 'calc' ? { ...c, source: c.source.replace(/^T_max = [\d.]+ MeV/m, `T_max = ${energy} MeV`) } : c,
+    ),
   });
 }
 
@@ -225,7 +228,8 @@ function requestsFor(user: User, base: VersionContent, acks: Ack[], tallyOf: () 
   const sheet = `/api/sheets/${user.sheetId}`;
   const note = (status: number, body: string) => {
     const tally = tallyOf();
-    if ((status < 200 || status >= 300) && tally.samples.length < 5) tally.samples.push(`${status} ${body.slice(0, 300)}`);
+    if ((status < 200 || status >= 300) && tally.samples.length < 5)
+      tally.samples.push(`${status} ${body.slice(0, 300)}`);
   };
   return [
     {
@@ -237,7 +241,14 @@ function requestsFor(user: User, base: VersionContent, acks: Ack[], tallyOf: () 
       setupRequest: (r) => {
         user.edits += 1;
         user.content = editedContent(base, user.index, user.edits);
-        return { ...r, body: JSON.stringify({ cells: user.content.cells, significantFigures: user.content.significantFigures, sheetKey: user.sheetId }) } as CannonRequest;
+        return {
+          ...r,
+          body: JSON.stringify({
+            cells: user.content.cells,
+            significantFigures: user.content.significantFigures,
+            sheetKey: user.sheetId,
+          }),
+        } as CannonRequest;
       },
       onResponse: note,
     },
@@ -249,7 +260,14 @@ function requestsFor(user: User, base: VersionContent, acks: Ack[], tallyOf: () 
       headers: json,
       setupRequest: (r) => {
         user.sentHash = contentHash(user.content);
-        return { ...r, body: JSON.stringify({ parentNumber: user.latest, message: `Highest energy, edit ${user.edits}`, content: user.content }) } as CannonRequest;
+        return {
+          ...r,
+          body: JSON.stringify({
+            parentNumber: user.latest,
+            message: `Highest energy, edit ${user.edits}`,
+            content: user.content,
+          }),
+        } as CannonRequest;
       },
       onResponse: (status, body) => {
         note(status, body);
@@ -259,25 +277,48 @@ function requestsFor(user: User, base: VersionContent, acks: Ack[], tallyOf: () 
           user.latest = saved.number;
         } else if (status === 409) {
           // Only if a save was lost or doubled: follow the server so that the run goes on.
-          const latest = (JSON.parse(body) as { error?: { details?: { latestNumber?: number } } }).error?.details?.latestNumber;
+          const latest = (JSON.parse(body) as { error?: { details?: { latestNumber?: number } } }).error?.details
+            ?.latestNumber;
           if (latest) user.latest = latest;
         }
       },
     },
-    { kind: 'read version', method: 'GET', path: '', headers, setupRequest: (r) => ({ ...r, path: `${sheet}/versions/${user.latest}` }), onResponse: note },
-    { kind: 'compare', method: 'GET', path: '', headers, setupRequest: (r) => ({ ...r, path: `${sheet}/compare?base=1&target=${user.latest}` }), onResponse: note },
+    {
+      kind: 'read version',
+      method: 'GET',
+      path: '',
+      headers,
+      setupRequest: (r) => ({ ...r, path: `${sheet}/versions/${user.latest}` }),
+      onResponse: note,
+    },
+    {
+      kind: 'compare',
+      method: 'GET',
+      path: '',
+      headers,
+      setupRequest: (r) => ({ ...r, path: `${sheet}/compare?base=1&target=${user.latest}` }),
+      onResponse: note,
+    },
   ];
 }
 
 // ── The app server ────────────────────────────────────────────────────────────────────────────
 
-async function startApp(supervisor: Supervisor, env: NodeJS.ProcessEnv): Promise<{ child: ChildProcess; baseUrl: string; output: () => string }> {
+async function startApp(
+  supervisor: Supervisor,
+  env: NodeJS.ProcessEnv,
+): Promise<{ child: ChildProcess; baseUrl: string; output: () => string }> {
   // The app's own server, as `npm start` runs it (lib/ops/server.ts).
-  const child = supervisor.spawn('app server', process.execPath, ['--import', 'tsx', path.join('lib', 'ops', 'server.ts'), '-H', '127.0.0.1', '-p', String(APP_PORT)], {
-    cwd: root,
-    env,
-    stdio: ['ignore', 'pipe', 'pipe'],
-  });
+  const child = supervisor.spawn(
+    'app server',
+    process.execPath,
+    ['--import', 'tsx', path.join('lib', 'ops', 'server.ts'), '-H', '127.0.0.1', '-p', String(APP_PORT)],
+    {
+      cwd: root,
+      env,
+      stdio: ['ignore', 'pipe', 'pipe'],
+    },
+  );
   let output = '';
   const keep = (d: Buffer) => {
     output = (output + d.toString()).slice(-20_000);
@@ -304,7 +345,13 @@ async function startApp(supervisor: Supervisor, env: NodeJS.ProcessEnv): Promise
 const sleep = (s: number) => new Promise((r) => setTimeout(r, s * 1000));
 
 /** One autocannon run: every connection is one user looping over its five requests. */
-async function mixedRun(baseUrl: string, users: User[], base: VersionContent, acks: Ack[], seconds: number): Promise<Tally> {
+async function mixedRun(
+  baseUrl: string,
+  users: User[],
+  base: VersionContent,
+  acks: Ack[],
+  seconds: number,
+): Promise<Tally> {
   const tally = new Tally();
   let next = 0;
   const instance = cannon({
@@ -312,9 +359,12 @@ async function mixedRun(baseUrl: string, users: User[], base: VersionContent, ac
     connections: USERS,
     duration: seconds,
     timeout: REQUEST_TIMEOUT_S,
-    setupClient: (client: CannonClient) => client.setRequests(requestsFor(users[next++ % users.length], base, acks, () => tally)),
+    setupClient: (client: CannonClient) =>
+      client.setRequests(requestsFor(users[next++ % users.length], base, acks, () => tally)),
   });
-  instance.on('response', (client, status, _bytes, latency) => tally.record(client.requestIterator.currentRequest.kind, status, latency));
+  instance.on('response', (client, status, _bytes, latency) =>
+    tally.record(client.requestIterator.currentRequest.kind, status, latency),
+  );
   const result = await instance;
   tally.errors = result.errors;
   tally.timeouts = result.timeouts;
@@ -324,7 +374,12 @@ async function mixedRun(baseUrl: string, users: User[], base: VersionContent, ac
 
 async function healthRun(baseUrl: string, seconds: number): Promise<Tally> {
   const tally = new Tally();
-  const instance = cannon({ url: `${baseUrl}/api/health`, connections: USERS, duration: seconds, timeout: REQUEST_TIMEOUT_S });
+  const instance = cannon({
+    url: `${baseUrl}/api/health`,
+    connections: USERS,
+    duration: seconds,
+    timeout: REQUEST_TIMEOUT_S,
+  });
   instance.on('response', (_client, status, _bytes, latency) => tally.record('health', status, latency));
   const result = await instance;
   tally.errors = result.errors;
@@ -335,7 +390,11 @@ async function healthRun(baseUrl: string, seconds: number): Promise<Tally> {
 
 async function main(supervisor: Supervisor): Promise<boolean> {
   process.chdir(root);
-  const load = () => os.loadavg().map((x) => x.toFixed(2)).join(' ');
+  const load = () =>
+    os
+      .loadavg()
+      .map((x) => x.toFixed(2))
+      .join(' ');
   console.log(`[load-bench] load average before: ${load()} (${os.cpus().length} CPUs)`);
   const cluster = new LocalCluster({ name: 'bench', port: benchClusterPort(), projectRoot: root });
   cluster.prepare();
@@ -356,14 +415,25 @@ async function main(supervisor: Supervisor): Promise<boolean> {
 
   // The demo project and its people, and one more originator per user with a token and a sheet.
   await seedDemo(db);
-  const project = await db.selectFrom('projects').select(['id', 'code']).where('code', '=', DEMO_PROJECT.code).executeTakeFirstOrThrow();
+  const project = await db
+    .selectFrom('projects')
+    .select(['id', 'code'])
+    .where('code', '=', DEMO_PROJECT.code)
+    .executeTakeFirstOrThrow();
   const base = demoSheets()[0].content;
   const users: User[] = [];
   for (let u = 0; u < USERS; u++) {
     const actor = await makeUser(db, `load-${u}@bench.example`, { password: null });
-    await db.insertInto('project_members').values({ project_id: project.id, user_id: actor.userId, role: 'originator' }).execute();
+    await db
+      .insertInto('project_members')
+      .values({ project_id: project.id, user_id: actor.userId, role: 'originator' })
+      .execute();
     const { token } = await createApiToken(db, actor, 'load benchmark');
-    const sheet = await createSheet(db, actor, project, { title: `Load user ${u}`, safetyRelated: true, objective: '' });
+    const sheet = await createSheet(db, actor, project, {
+      title: `Load user ${u}`,
+      safetyRelated: true,
+      objective: '',
+    });
     users.push({ index: u, token, sheetId: sheet.id, latest: 1, edits: 0, content: base, sentHash: '' });
   }
 
@@ -392,7 +462,11 @@ async function main(supervisor: Supervisor): Promise<boolean> {
   // goes on from the sheet's latest number in the database; those saves are counted, not lost.
   let abandoned = 0;
   const resync = async () => {
-    const latest = await db.selectFrom('versions').select(['sheet_id', sql<number>`max(number)::int`.as('latest')]).groupBy('sheet_id').execute();
+    const latest = await db
+      .selectFrom('versions')
+      .select(['sheet_id', sql<number>`max(number)::int`.as('latest')])
+      .groupBy('sheet_id')
+      .execute();
     const bySheet = new Map(latest.map((v) => [v.sheet_id, v.latest]));
     for (const user of users) {
       const n = bySheet.get(user.sheetId) ?? user.latest;
@@ -423,7 +497,15 @@ async function main(supervisor: Supervisor): Promise<boolean> {
   memory.stop();
 
   // Every acknowledged save must be in the database with the acknowledged hash.
-  const stored = await db.selectFrom('versions').select(['sheet_id', 'number', 'content_hash']).where('sheet_id', 'in', users.map((u) => u.sheetId)).execute();
+  const stored = await db
+    .selectFrom('versions')
+    .select(['sheet_id', 'number', 'content_hash'])
+    .where(
+      'sheet_id',
+      'in',
+      users.map((u) => u.sheetId),
+    )
+    .execute();
   const byKey = new Map(stored.map((v) => [`${v.sheet_id}/${v.number}`, v.content_hash]));
   const lost = acks.filter((a) => byKey.get(`${a.sheetId}/${a.number}`) !== a.sha256);
   const hashNotSent = acks.filter((a) => a.sha256 !== a.sentHash);
@@ -436,32 +518,57 @@ async function main(supervisor: Supervisor): Promise<boolean> {
   const otherNon2xx = tallies.reduce((n, t) => n + t.count((s) => (s < 200 || s >= 300) && s < 500 && s !== 409), 0);
   const failed = tallies.reduce((n, t) => n + t.errors + t.timeouts, 0);
   const h = figures(health.all());
-  console.log(`\nLoad on loopback: ${USERS} users at once, each on its own sheet (the ${base.cells.length}-cell demo dipole sheet, one input edited each loop),`);
-  console.log('looping evaluate → read sheet → save version → read that version → compare with version 1; latency of every answer.');
-  console.log(`Health: GET /api/health with ${USERS} connections for ${HEALTH_SECONDS} s in the same run, before the mixed runs.\n`);
+  console.log(
+    `\nLoad on loopback: ${USERS} users at once, each on its own sheet (the ${base.cells.length}-cell demo dipole sheet, one input edited each loop),`,
+  );
+  console.log(
+    'looping evaluate → read sheet → save version → read that version → compare with version 1; latency of every answer.',
+  );
+  console.log(
+    `Health: GET /api/health with ${USERS} connections for ${HEALTH_SECONDS} s in the same run, before the mixed runs.\n`,
+  );
   console.log(row('GET /api/health', h) + `   ${(h.n / health.seconds).toFixed(0)} req/s`);
   for (const [i, r] of runs.entries()) {
     const mix = figures(r.tally.all());
-    console.log(`\nRun ${i + 1} (${r.seconds} s): ${(mix.n / r.tally.seconds).toFixed(1)} req/s, ${r.tally.latencies.get('save version')?.length ?? 0} saves`);
+    console.log(
+      `\nRun ${i + 1} (${r.seconds} s): ${(mix.n / r.tally.seconds).toFixed(1)} req/s, ${r.tally.latencies.get('save version')?.length ?? 0} saves`,
+    );
     console.log(row('whole mix', mix));
     for (const kind of KINDS) console.log(row(kind, figures(r.tally.latencies.get(kind) ?? [])));
-    console.log(`  ratio mix / health:  p50 ${(mix.p50 / h.p50).toFixed(1)}   p95 ${(mix.p95 / h.p95).toFixed(1)}   p99 ${(mix.p99 / h.p99).toFixed(1)}`);
+    console.log(
+      `  ratio mix / health:  p50 ${(mix.p50 / h.p50).toFixed(1)}   p95 ${(mix.p95 / h.p95).toFixed(1)}   p99 ${(mix.p99 / h.p99).toFixed(1)}`,
+    );
   }
-  console.log('\nApp server resident memory (lib/ops/server.ts and its children, sampled every second; aim: under 1 GiB, no growth)');
+  console.log(
+    '\nApp server resident memory (lib/ops/server.ts and its children, sampled every second; aim: under 1 GiB, no growth)',
+  );
   console.log(`  after start ${mib(startRss)}`);
-  for (const [i, r] of runs.entries()) console.log(`  run ${i + 1}: peak ${mib(r.peak)}   settled (after ${IDLE_SECONDS} s idle) ${mib(r.settled)}`);
+  for (const [i, r] of runs.entries())
+    console.log(`  run ${i + 1}: peak ${mib(r.peak)}   settled (after ${IDLE_SECONDS} s idle) ${mib(r.settled)}`);
   const overLimit = runs.some((r) => r.peak >= MEMORY_LIMIT);
   // Runs 2 and 3 are the same length: a leak shows as run 3 settling higher than run 2 and run 1.
   const grew = runs[2].settled > runs[1].settled * 1.1 && runs[2].settled > runs[0].settled * 1.1;
-  console.log(`  ${overLimit ? 'OVER 1 GiB' : 'under 1 GiB'}; ${grew ? 'GREW: run 3 settled more than 10 % above runs 1 and 2 (possible leak)' : 'no growth over 10 % from run to run'}`);
+  console.log(
+    `  ${overLimit ? 'OVER 1 GiB' : 'under 1 GiB'}; ${grew ? 'GREW: run 3 settled more than 10 % above runs 1 and 2 (possible leak)' : 'no growth over 10 % from run to run'}`,
+  );
 
-  console.log(`\nAnswers: ${fiveXx} 5xx, ${conflicts} 409, ${otherNon2xx} other non-2xx, ${failed} failed or timed out (over ${REQUEST_TIMEOUT_S} s)`);
+  console.log(
+    `\nAnswers: ${fiveXx} 5xx, ${conflicts} 409, ${otherNon2xx} other non-2xx, ${failed} failed or timed out (over ${REQUEST_TIMEOUT_S} s)`,
+  );
   for (const t of tallies) for (const s of t.samples) console.log(`  e.g. ${s}`);
-  console.log(`Saves: ${acks.length} acknowledged, ${lost.length} lost (not in the database with the acknowledged hash), ${hashNotSent.length} acknowledged with a hash other than the content's; ${abandoned} stored but in flight when a run closed its connections; audit chain breaks: ${breaks.rows.length}`);
+  console.log(
+    `Saves: ${acks.length} acknowledged, ${lost.length} lost (not in the database with the acknowledged hash), ${hashNotSent.length} acknowledged with a hash other than the content's; ${abandoned} stored but in flight when a run closed its connections; audit chain breaks: ${breaks.rows.length}`,
+  );
   console.log(`[load-bench] load average after: ${load()}`);
   // Each user saves only to its own sheet, always on the number it was last answered: a 409 means a
   // save was lost or doubled.
-  const ok = fiveXx === 0 && conflicts === 0 && lost.length === 0 && hashNotSent.length === 0 && failed === 0 && breaks.rows.length === 0;
+  const ok =
+    fiveXx === 0 &&
+    conflicts === 0 &&
+    lost.length === 0 &&
+    hashNotSent.length === 0 &&
+    failed === 0 &&
+    breaks.rows.length === 0;
   if (!ok) {
     console.log('FAILED: a 5xx, a 409, a failed request or a lost version (see above). The app server said:');
     console.log(app.output().split('\n').slice(-40).join('\n'));

@@ -63,17 +63,37 @@ export function beamLineContent(s: number): VersionContent {
         kind: 'text',
         source: `## ${k}. Drift section D${k}\n\nProton beam at kinetic energy $T_{${k}}$ through a drift of length $L_{0,${k}}$; the magnetic rigidity $B\\rho = p/q$ sets the dipole field (see *reference 2*).`,
       },
-      { id: `s${k}-in`, kind: 'calc', source: `T_${k} = ${40 + ((k * 37) % 400)}.${tag}5 MeV\nL0_${k} = ${1 + (k % 9)}.${tag}5 m` },
-      { id: `s${k}-kin`, kind: 'calc', source: `p_${k} = momentumFromKinetic(T_${k}, m_p)\nv_${k} = speedFromKinetic(T_${k}, m_p)` },
-      { id: `s${k}-gam`, kind: 'calc', source: `g_${k} = lorentzFactor(v_${k})\nbg_${k} = betaGamma(v_${k})\ny_${k} = rapidity(v_${k})` },
+      {
+        id: `s${k}-in`,
+        kind: 'calc',
+        source: `T_${k} = ${40 + ((k * 37) % 400)}.${tag}5 MeV\nL0_${k} = ${1 + (k % 9)}.${tag}5 m`,
+      },
+      {
+        id: `s${k}-kin`,
+        kind: 'calc',
+        source: `p_${k} = momentumFromKinetic(T_${k}, m_p)\nv_${k} = speedFromKinetic(T_${k}, m_p)`,
+      },
+      {
+        id: `s${k}-gam`,
+        kind: 'calc',
+        source: `g_${k} = lorentzFactor(v_${k})\nbg_${k} = betaGamma(v_${k})\ny_${k} = rapidity(v_${k})`,
+      },
       { id: `s${k}-rig`, kind: 'calc', source: `Brho_${k} = magneticRigidity(p_${k}, q_e) to T*m` },
-      { id: `s${k}-len`, kind: 'calc', source: `L_${k} = lengthContraction(L0_${k}, v_${k}) to cm\ntof_${k} = timeOfFlight(L0_${k}, T_${k}, m_p) to ns` },
+      {
+        id: `s${k}-len`,
+        kind: 'calc',
+        source: `L_${k} = lengthContraction(L0_${k}, v_${k}) to cm\ntof_${k} = timeOfFlight(L0_${k}, T_${k}, m_p) to ns`,
+      },
       {
         id: `s${k}-note`,
         kind: 'text',
         source: `The contracted length and the time of flight follow from $\\gamma_{${k}}$; the values are checked below against the specification:\n\n- dipole rigidity under 10 T·m\n- time of flight under 1 µs\n- beam line shorter than 1 km`,
       },
-      { id: `s${k}-dec`, kind: 'calc', source: `dl_${k} = decayLength(T_${k}, m_mu, 2.1969811 us) to m\ntau_${k} = timeDilation(2.1969811 us, v_${k}) to us` },
+      {
+        id: `s${k}-dec`,
+        kind: 'calc',
+        source: `dl_${k} = decayLength(T_${k}, m_mu, 2.1969811 us) to m\ntau_${k} = timeDilation(2.1969811 us, v_${k}) to us`,
+      },
       { id: `s${k}-sum`, kind: 'calc', source: k === 1 ? 'S_1 = L0_1' : `S_${k} = S_${k - 1} + L0_${k}` },
       { id: `s${k}-chk`, kind: 'calc', source: `Brho_${k} < 10 T*m\ntof_${k} < 1000 ns\nS_${k} < 1 km` },
     );
@@ -84,7 +104,8 @@ export function beamLineContent(s: number): VersionContent {
     safetyRelated: true,
     significantFigures: 6,
     record: {
-      objective: 'Magnetic rigidity, time of flight and decay lengths along the 50 drift sections of the transfer line.',
+      objective:
+        'Magnetic rigidity, time of flight and decay lengths along the 50 drift sections of the transfer line.',
       inputs: [
         { name: 'Kinetic energies', value: 'per section', source: 'Beam specification BS-12', sourceRevision: 'C' },
         { name: 'Drift lengths', value: 'per section', source: 'Layout drawing LD-440', sourceRevision: '3' },
@@ -109,7 +130,9 @@ function edited(content: VersionContent, s: number, edit: number): { content: Ve
   return {
     content: {
       ...content,
-      cells: content.cells.map((c) => (c.id === `s${k}-in` ? { ...c, source: c.source.replace(/^T_\d+ = [\d.]+ MeV/, `T_${k} = ${value} MeV`) } : c)),
+      cells: content.cells.map((c) =>
+        c.id === `s${k}-in` ? { ...c, source: c.source.replace(/^T_\d+ = [\d.]+ MeV/, `T_${k} = ${value} MeV`) } : c,
+      ),
     },
     message: `Section ${k}: kinetic energy ${value} MeV`,
   };
@@ -135,7 +158,8 @@ function figures(xs: number[]): Figures {
 }
 
 const ms = (x: number) => `${x.toFixed(1).padStart(7)} ms`;
-const row = (label: string, f: Figures) => `  ${label.padEnd(40)} p50 ${ms(f.p50)}   p95 ${ms(f.p95)}   p99 ${ms(f.p99)}   (${f.n} requests)`;
+const row = (label: string, f: Figures) =>
+  `  ${label.padEnd(40)} p50 ${ms(f.p50)}   p95 ${ms(f.p95)}   p99 ${ms(f.p99)}   (${f.n} requests)`;
 
 // ── CPU time ─────────────────────────────────────────────────────────────────────────────────
 
@@ -157,7 +181,8 @@ function cpuNow(postmasterPid: number | null): { node: number; postgres: number 
     }
     const f = stat.slice(stat.lastIndexOf(')') + 2).split(' '); // f[0] is field 3 (state)
     const pid = Number(entry);
-    if (pid === postmasterPid) ticks += Number(f[11]) + Number(f[12]) + Number(f[13]) + Number(f[14]); // own and reaped children
+    if (pid === postmasterPid)
+      ticks += Number(f[11]) + Number(f[12]) + Number(f[13]) + Number(f[14]); // own and reaped children
     else if (Number(f[1]) === postmasterPid) ticks += Number(f[11]) + Number(f[12]);
   }
   return { node, postgres: (ticks * 1000) / CLOCK_TICKS_PER_S };
@@ -166,7 +191,11 @@ function cpuNow(postmasterPid: number | null): { node: number; postgres: number 
 // ── The run ──────────────────────────────────────────────────────────────────────────────────
 
 /** Runs `clients` concurrently, each doing `count` requests one after the other; returns the latencies. */
-async function concurrently(clients: number, count: number, request: (client: number, i: number) => Promise<number>): Promise<number[]> {
+async function concurrently(
+  clients: number,
+  count: number,
+  request: (client: number, i: number) => Promise<number>,
+): Promise<number[]> {
   const latencies: number[][] = Array.from({ length: clients }, () => []);
   await Promise.all(
     latencies.map(async (mine, client) => {
@@ -192,23 +221,39 @@ export interface SaveBenchResult {
   auditChainBreaks: number;
 }
 
-export async function runSaveBench(databaseUrl: string, options: { postmasterPid?: number | null; log?: (line: string) => void } = {}): Promise<SaveBenchResult> {
+export async function runSaveBench(
+  databaseUrl: string,
+  options: { postmasterPid?: number | null; log?: (line: string) => void } = {},
+): Promise<SaveBenchResult> {
   const log = options.log ?? (() => undefined);
   const db = createDb(databaseUrl, { max: 1 });
   await migrateToLatest(db);
   await db.destroy();
 
   const app = createDb(databaseUrl); // the application's pool: DB_POOL_MAX connections
-  const bare = new pg.Pool({ connectionString: databaseUrl, max: DB_POOL_MAX, connectionTimeoutMillis: 3000, application_name: 'worldsheet-bench' });
+  const bare = new pg.Pool({
+    connectionString: databaseUrl,
+    max: DB_POOL_MAX,
+    connectionTimeoutMillis: 3000,
+    application_name: 'worldsheet-bench',
+  });
   bare.on('error', () => undefined); // as the application's pool: a dropped idle connection is not fatal
   const evaluator = getEvaluator();
   try {
     // One originator per client, as in use: the evaluator limits the saves one person has in
     // evaluation at once (four: lib/calc/sandbox/evaluator.ts, perUserSaves), so one account for all
     // clients would be refused.
-    const authors = await Promise.all(Array.from({ length: CLIENTS }, (_, k) => makeUser(app, `bench-originator-${k + 1}@example.test`, { password: null })));
+    const authors = await Promise.all(
+      Array.from({ length: CLIENTS }, (_, k) =>
+        makeUser(app, `bench-originator-${k + 1}@example.test`, { password: null }),
+      ),
+    );
     const author = authors[0];
-    const projectId = await makeProject(app, 'BEN', authors.map((a) => [a, 'originator'] as [typeof a, 'originator']));
+    const projectId = await makeProject(
+      app,
+      'BEN',
+      authors.map((a) => [a, 'originator'] as [typeof a, 'originator']),
+    );
     const project = { id: projectId, code: 'BEN' };
     // Sheets go to evaluation workers by a hash of their id: 16 random ids split 8 and 8 only one
     // time in five, and 10 and 6 or worse almost half the time; the busier worker then sets the p95.
@@ -217,7 +262,11 @@ export async function runSaveBench(databaseUrl: string, options: { postmasterPid
     const sheets: Array<{ id: string; project_id: string }> = [];
     const perWorker = Array.from({ length: evaluator.options.workers }, () => 0);
     for (let n = 1; sheets.length < CLIENTS; n++) {
-      const created = await createSheet(app, author, project, { title: `Beam line ${n}`, safetyRelated: true, objective: '' });
+      const created = await createSheet(app, author, project, {
+        title: `Beam line ${n}`,
+        safetyRelated: true,
+        objective: '',
+      });
       const worker = evaluator.workerFor(created.id);
       if (perWorker[worker] >= Math.ceil(CLIENTS / perWorker.length)) continue;
       perWorker[worker]++;
@@ -232,7 +281,8 @@ export async function runSaveBench(databaseUrl: string, options: { postmasterPid
     );
     for (const c of compression.rows) {
       const method = c.attcompression === 'l' ? 'lz4' : c.attcompression === 'p' ? 'pglz' : 'default';
-      if (c.attname === 'content') await bare.query(`alter table bench_bare alter column content set compression ${method}`);
+      if (c.attname === 'content')
+        await bare.query(`alter table bench_bare alter column content set compression ${method}`);
       await bare.query(`alter table bench_stored alter column ${c.attname} set compression ${method}`);
     }
 
@@ -244,12 +294,19 @@ export async function runSaveBench(databaseUrl: string, options: { postmasterPid
     await concurrently(CLIENTS, 1, async (s) => {
       const options = { significantFigures: current[s].significantFigures, tables: [] };
       resultsJson[s] = JSON.stringify(await evaluator.evaluate(current[s].cells, options, sheets[s].id));
-      const saved = await saveVersion(app, authors[s], sheets[s], { parentNumber: latest[s], message: 'Beam line sheet', content: current[s] });
+      const saved = await saveVersion(app, authors[s], sheets[s], {
+        parentNumber: latest[s],
+        message: 'Beam line sheet',
+        content: current[s],
+      });
       if (!saved.ok) throw new Error(`the generated sheet ${s} has errors`);
       latest[s] = saved.number;
       return 0;
     });
-    const sheetsPerWorker = Array.from({ length: evaluator.options.workers }, (_, w) => sheets.filter((sheet) => evaluator.workerFor(sheet.id) === w).length);
+    const sheetsPerWorker = Array.from(
+      { length: evaluator.options.workers },
+      (_, w) => sheets.filter((sheet) => evaluator.workerFor(sheet.id) === w).length,
+    );
     const contentBytes = Buffer.byteLength(JSON.stringify(current[0]));
     const resultsBytes = Buffer.byteLength(resultsJson[0]);
 
@@ -265,7 +322,12 @@ export async function runSaveBench(databaseUrl: string, options: { postmasterPid
       const body = JSON.stringify({ parentNumber: latest[s], message, content });
       // The editor's live evaluation through /api/evaluate before the user presses save (not timed).
       // As the editor does: the sheet's project is the cache scope a save of it evaluates in.
-      if (evaluateFirst) await evaluator.evaluate(content.cells, { significantFigures: content.significantFigures, tables: [] }, { scope: evaluationScope({ projectId }), affinity: sheets[s].id });
+      if (evaluateFirst)
+        await evaluator.evaluate(
+          content.cells,
+          { significantFigures: content.significantFigures, tables: [] },
+          { scope: evaluationScope({ projectId }), affinity: sheets[s].id },
+        );
       const t0 = performance.now();
       const saved = await saveVersion(app, authors[s], sheets[s], parseValue(JSON.parse(body), saveVersionSchema));
       const elapsed = performance.now() - t0;
@@ -279,13 +341,19 @@ export async function runSaveBench(databaseUrl: string, options: { postmasterPid
     const insert = async (s: number, withResults: boolean): Promise<number> => {
       const json = JSON.stringify(nextEdit(s).content);
       const t0 = performance.now();
-      if (withResults) await bare.query('insert into bench_stored (content, results) values ($1::jsonb, $2::jsonb)', [json, resultsJson[s]]);
+      if (withResults)
+        await bare.query('insert into bench_stored (content, results) values ($1::jsonb, $2::jsonb)', [
+          json,
+          resultsJson[s],
+        ]);
       else await bare.query('insert into bench_bare (content) values ($1::jsonb)', [json]);
       return performance.now() - t0;
     };
 
     const run = (phase: Phase, count: number) =>
-      concurrently(CLIENTS, count, (s) => (phase === 'bare' || phase === 'stored' ? insert(s, phase === 'stored') : save(s, phase === 'warm')));
+      concurrently(CLIENTS, count, (s) =>
+        phase === 'bare' || phase === 'stored' ? insert(s, phase === 'stored') : save(s, phase === 'warm'),
+      );
 
     log('warming up …');
     for (const phase of PHASES) await run(phase, WARM_UP_SAVES);
@@ -293,7 +361,9 @@ export async function runSaveBench(databaseUrl: string, options: { postmasterPid
     // Rounds of the four phases one after the other, so that whatever else the machine does in the
     // meantime falls on all of them alike.
     const perRound = Math.max(1, Math.round(SAVES_PER_CLIENT / ROUNDS));
-    log(`measuring: ${ROUNDS} rounds of ${CLIENTS} clients × ${perRound} requests in each of ${PHASES.length} phases …`);
+    log(
+      `measuring: ${ROUNDS} rounds of ${CLIENTS} clients × ${perRound} requests in each of ${PHASES.length} phases …`,
+    );
     const latencies: Record<Phase, number[]> = { bare: [], stored: [], warm: [], cold: [] };
     const cpu: Record<Phase, { node: number; postgres: number | null }> = {
       bare: { node: 0, postgres: 0 },
@@ -307,12 +377,18 @@ export async function runSaveBench(databaseUrl: string, options: { postmasterPid
         latencies[phase].push(...(await run(phase, perRound)));
         const after = cpuNow(options.postmasterPid ?? null);
         cpu[phase].node += after.node - before.node;
-        cpu[phase].postgres = after.postgres === null || before.postgres === null ? null : cpu[phase].postgres! + after.postgres - before.postgres;
+        cpu[phase].postgres =
+          after.postgres === null || before.postgres === null
+            ? null
+            : cpu[phase].postgres! + after.postgres - before.postgres;
       }
     }
     for (const phase of PHASES) {
       const n = latencies[phase].length;
-      cpu[phase] = { node: cpu[phase].node / n, postgres: cpu[phase].postgres === null ? null : cpu[phase].postgres / n };
+      cpu[phase] = {
+        node: cpu[phase].node / n,
+        postgres: cpu[phase].postgres === null ? null : cpu[phase].postgres / n,
+      };
     }
 
     const breaks = await bare.query<{ n: number }>('select count(*)::int as n from audit_chain_breaks()');
@@ -324,7 +400,12 @@ export async function runSaveBench(databaseUrl: string, options: { postmasterPid
       contentBytes,
       resultsBytes,
       storedBytes: sizes.rows[0],
-      figures: { bare: figures(latencies.bare), stored: figures(latencies.stored), warm: figures(latencies.warm), cold: figures(latencies.cold) },
+      figures: {
+        bare: figures(latencies.bare),
+        stored: figures(latencies.stored),
+        warm: figures(latencies.warm),
+        cold: figures(latencies.cold),
+      },
       cpu,
       auditChainBreaks: breaks.rows[0].n,
     };
@@ -354,7 +435,10 @@ async function main(supervisor: Supervisor) {
   process.chdir(root);
   const sandbox = sandboxOptionsFromEnv();
   const loadBefore = os.loadavg()[0];
-  const r = await runSaveBench(cluster.appUrl(DATABASE), { postmasterPid: postmasterPid(cluster), log: (line) => console.log(`[save-bench] ${line}`) });
+  const r = await runSaveBench(cluster.appUrl(DATABASE), {
+    postmasterPid: postmasterPid(cluster),
+    log: (line) => console.log(`[save-bench] ${line}`),
+  });
   const f = r.figures;
   const ratio = (a: Figures, b: Figures) => (a.p95 / b.p95).toFixed(2);
   const aim = (a: Figures) => `${ratio(a, f.bare)}   (aim ≤ ${AIM}: ${a.p95 / f.bare.p95 <= AIM ? 'met' : 'not met'})`;
@@ -366,23 +450,33 @@ async function main(supervisor: Supervisor) {
 
   console.log(`\nSaving a version of a 500-cell sheet, ${CLIENTS} clients at once, ${ROUNDS} interleaved rounds`);
   console.log('  (one sheet per client: concurrent saves to one sheet are refused with 409 by design)');
-  console.log(`  content ${kib(r.contentBytes)} of JSON, results ${kib(r.resultsBytes)}; stored after compression: ${kib(r.storedBytes.content)} and ${kib(r.storedBytes.results)}`);
-  console.log(`  database pool ${DB_POOL_MAX} connections for each; ${sandbox.workers} evaluation workers (sheets on each: ${r.sheetsPerWorker.join(', ')})`);
-  console.log(`  ${os.availableParallelism()} CPUs; load average ${loadBefore.toFixed(1)} before the run, ${os.loadavg()[0].toFixed(1)} after it (all figures are shared with whatever else runs)`);
+  console.log(
+    `  content ${kib(r.contentBytes)} of JSON, results ${kib(r.resultsBytes)}; stored after compression: ${kib(r.storedBytes.content)} and ${kib(r.storedBytes.results)}`,
+  );
+  console.log(
+    `  database pool ${DB_POOL_MAX} connections for each; ${sandbox.workers} evaluation workers (sheets on each: ${r.sheetsPerWorker.join(', ')})`,
+  );
+  console.log(
+    `  ${os.availableParallelism()} CPUs; load average ${loadBefore.toFixed(1)} before the run, ${os.loadavg()[0].toFixed(1)} after it (all figures are shared with whatever else runs)`,
+  );
   console.log(row('bare INSERT of the content JSON', f.bare));
   console.log(row('bare INSERT of content + results JSON', f.stored));
   console.log(row('save, warm (evaluated before, editor)', f.warm));
   console.log(row('save, cold (no evaluation before)', f.cold));
   console.log(`  ratio p95 warm save / bare INSERT:                 ${aim(f.warm)}`);
   console.log(`  ratio p95 cold save / bare INSERT:                 ${aim(f.cold)}`);
-  console.log(`  ratio p95 bare INSERT with results / bare INSERT:  ${ratio(f.stored, f.bare)}   (what storing the results costs by itself)`);
+  console.log(
+    `  ratio p95 bare INSERT with results / bare INSERT:  ${ratio(f.stored, f.bare)}   (what storing the results costs by itself)`,
+  );
   console.log(`  ratio p95 warm save / bare INSERT with results:    ${ratio(f.warm, f.stored)}`);
   console.log('  CPU per request (PostgreSQL: all its processes, background work included):');
   console.log(`    bare INSERT ${cpu('bare')}; with results ${cpu('stored')}`);
   console.log(`    warm save ${cpu('warm')} (the editor's evaluation before it included); cold save ${cpu('cold')}`);
   const total = (phase: Phase) => r.cpu[phase].node + (r.cpu[phase].postgres ?? 0);
   if (r.cpu.bare.postgres !== null) {
-    console.log(`  ratio CPU per request, cold save / bare INSERT:    ${(total('cold') / total('bare')).toFixed(1)}   (less sensitive to other load than the p95; at saturation latency follows it)`);
+    console.log(
+      `  ratio CPU per request, cold save / bare INSERT:    ${(total('cold') / total('bare')).toFixed(1)}   (less sensitive to other load than the p95; at saturation latency follows it)`,
+    );
   }
   console.log(`  every save accepted; audit chain breaks after the run: ${r.auditChainBreaks}`);
   await supervisor.shutdown(r.auditChainBreaks === 0 ? 0 : 1);

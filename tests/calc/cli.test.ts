@@ -16,7 +16,11 @@ function file(name: string, content: unknown): string {
   return p;
 }
 function calc(...args: string[]) {
-  const r = spawnSync('npm', ['run', '-s', 'calc', '--', ...args], { cwd: process.cwd(), encoding: 'utf8', timeout: 60_000 });
+  const r = spawnSync('npm', ['run', '-s', 'calc', '--', ...args], {
+    cwd: process.cwd(),
+    encoding: 'utf8',
+    timeout: 60_000,
+  });
   return { code: r.status, stdout: r.stdout, stderr: r.stderr };
 }
 
@@ -47,7 +51,13 @@ describe('npm run -s calc -- FILE --json', () => {
   it('lists the physics lint’s warnings per cell as strings, without changing ok or the exit code', () => {
     // Issue 15: `h * c / (500 nm)` is a plain number because mathjs's h is the hour (common practice:
     // dimensional analysis); `hbar` is the hectobar.
-    const f = file('lint.json', { title: 'Photon', cells: [{ kind: 'calc', source: 'E_ph = h * c / (500 nm)\nx_1 = 2\np_1 = hbar * c' }, { kind: 'calc', source: 'E_2 = h_P * c / (500 nm)' }] });
+    const f = file('lint.json', {
+      title: 'Photon',
+      cells: [
+        { kind: 'calc', source: 'E_ph = h * c / (500 nm)\nx_1 = 2\np_1 = hbar * c' },
+        { kind: 'calc', source: 'E_2 = h_P * c / (500 nm)' },
+      ],
+    });
     const r = calc(f, '--json');
     expect(r.code).toBe(0);
     const out = JSON.parse(r.stdout);
@@ -62,11 +72,24 @@ describe('npm run -s calc -- FILE --json', () => {
   });
 
   it('exits 1 and names the error when a cell fails', () => {
-    const r = calc(file('bad.json', { title: 'x', cells: [{ kind: 'calc', source: 'a = 1 m + 1 s' }, { kind: 'calc', source: 'b_1 = 2' }] }), '--json');
+    const r = calc(
+      file('bad.json', {
+        title: 'x',
+        cells: [
+          { kind: 'calc', source: 'a = 1 m + 1 s' },
+          { kind: 'calc', source: 'b_1 = 2' },
+        ],
+      }),
+      '--json',
+    );
     expect(r.code).toBe(1);
     const out = JSON.parse(r.stdout);
     expect(out.ok).toBe(false);
-    expect(out.cells[0]).toMatchObject({ index: 0, ok: false, error: expect.stringMatching(/cannot add `1 m` \(a length\) and `1 s` \(a time\)/) });
+    expect(out.cells[0]).toMatchObject({
+      index: 0,
+      ok: false,
+      error: expect.stringMatching(/cannot add `1 m` \(a length\) and `1 s` \(a time\)/),
+    });
     expect(out.values.b_1).toEqual({ value: 2, unit: null });
   });
 
@@ -85,7 +108,9 @@ describe('npm run -s calc -- FILE --json', () => {
   });
 
   it('prints a readable table without --json', () => {
-    const r = calc(file('table.json', { title: 'Rigidity', cells: [{ kind: 'calc', source: 'B_1 = 1.5 T\nB_1 < 1.8 T' }] }));
+    const r = calc(
+      file('table.json', { title: 'Rigidity', cells: [{ kind: 'calc', source: 'B_1 = 1.5 T\nB_1 < 1.8 T' }] }),
+    );
     expect(r.code).toBe(0);
     expect(r.stdout).toContain('Rigidity');
     // Six significant figures, trailing zeros kept (SI Brochure 9th ed. §5.4.4; common practice).

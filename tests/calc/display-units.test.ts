@@ -108,7 +108,10 @@ describe('the pieces', () => {
 
   it('cancels factors of one unit whatever their prefixes, and leaves the rest', () => {
     const u = math.multiply(math.unit('2 MeV'), math.divide(math.unit('3 T m'), math.unit('1 keV'))) as never;
-    const c = cancelLikeUnits(u) as unknown as { units: Array<{ unit: { name: string } }>; toNumber(u: string): number };
+    const c = cancelLikeUnits(u) as unknown as {
+      units: Array<{ unit: { name: string } }>;
+      toNumber(u: string): number;
+    };
     expect(c.units.map((f) => f.unit.name)).toEqual(['T', 'm']);
     expect(c.toNumber('T m')).toBeCloseTo(6000, 9);
   });
@@ -116,7 +119,10 @@ describe('the pieces', () => {
 
 describe('uncertainty in the trade units', () => {
   it('propagates to a momentum in MeV/c with a sensitivity in c⁻¹ and the summary figures without trailing zeros', () => {
-    const r = engine.evaluate([{ id: 'u1', kind: 'calc', source: 'T_u = 250 MeV ± 0.5 MeV\np_u = momentumFromKinetic(T_u, m_p)' }], { significantFigures: 6, displayUnits: 'trade' });
+    const r = engine.evaluate(
+      [{ id: 'u1', kind: 'calc', source: 'T_u = 250 MeV ± 0.5 MeV\np_u = momentumFromKinetic(T_u, m_p)' }],
+      { significantFigures: 6, displayUnits: 'trade' },
+    );
     const [input, result] = r.cells[0].statements;
     // The input's u as written, not 0.500 MeV (JCGM 100:2008, 7.2.6: an uncertainty is given to at most two significant digits).
     expect(input.uncertainty!.text).toMatch(/^standard uncertainty u = 0\.5 MeV;/);

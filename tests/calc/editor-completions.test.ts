@@ -4,11 +4,21 @@ import { CompletionContext } from '@codemirror/autocomplete';
 import { EditorState } from '@codemirror/state';
 import { describe, expect, it } from 'vitest';
 import { CONSTANTS } from '../../lib/calc/constants';
-import { calcCompletionOptions, calcCompletionSource, completeCalcAt, functionSignature, inCommentOrString } from '../../lib/calc/editor-completions';
+import {
+  calcCompletionOptions,
+  calcCompletionSource,
+  completeCalcAt,
+  functionSignature,
+  inCommentOrString,
+} from '../../lib/calc/editor-completions';
 import { LIBRARY } from '../../lib/calc/functions';
 
 describe('the options', () => {
-  const options = calcCompletionOptions([{ name: 'T_kin', summary: '250 MeV' }, { name: 'p_1' }, { name: 'T_kin', summary: 'redefined' }]);
+  const options = calcCompletionOptions([
+    { name: 'T_kin', summary: '250 MeV' },
+    { name: 'p_1' },
+    { name: 'T_kin', summary: 'redefined' },
+  ]);
   const byLabel = (label: string) => options.find((o) => o.label === label)!;
 
   it('offers the names above once, first, as variables with their summary', () => {
@@ -41,7 +51,15 @@ describe('the options', () => {
     }
     const lorentz = LIBRARY.find((f) => f.name === 'lorentzFactor')!;
     expect(functionSignature(lorentz)).toBe(`lorentzFactor(${lorentz.params.map((p) => p.name).join(', ')})`);
-    expect(functionSignature({ name: 'f', params: [{ name: 'a', kind: 'speed', description: '' }, { name: 'b', kind: 'mass', description: '' }] })).toBe('f(a, b)');
+    expect(
+      functionSignature({
+        name: 'f',
+        params: [
+          { name: 'a', kind: 'speed', description: '' },
+          { name: 'b', kind: 'mass', description: '' },
+        ],
+      }),
+    ).toBe('f(a, b)');
   });
 
   it('lets a name above hide a constant of the same name', () => {
@@ -58,7 +76,15 @@ describe('where completion applies', () => {
   });
 
   it('offers the columns of an input table after `table.`, with their units, and nothing after another name', () => {
-    const tables = [{ name: 'scan', columns: [{ name: 'energy', unit: 'MeV' }, { name: 'turns', unit: null }] }];
+    const tables = [
+      {
+        name: 'scan',
+        columns: [
+          { name: 'energy', unit: 'MeV' },
+          { name: 'turns', unit: null },
+        ],
+      },
+    ];
     const r = completeCalcAt('E = scan.en', 11, false, tables);
     expect(r?.from).toBe(9);
     expect(r?.options.map((o) => [o.label, o.detail])).toEqual([

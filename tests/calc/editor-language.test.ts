@@ -9,7 +9,9 @@ import { isUnitName, TOKEN_STYLES, tokenizeCalc, UNIT_TABLE, type CalcTokenKind 
 
 // WCAG 2.2 glossary: relative luminance and contrast ratio (as in tests/ui/contrast.test.ts).
 function luminance(hex: string): number {
-  const [r, g, b] = [1, 3, 5].map((i) => parseInt(hex.slice(i, i + 2), 16) / 255).map((c) => (c <= 0.04045 ? c / 12.92 : ((c + 0.055) / 1.055) ** 2.4));
+  const [r, g, b] = [1, 3, 5]
+    .map((i) => parseInt(hex.slice(i, i + 2), 16) / 255)
+    .map((c) => (c <= 0.04045 ? c / 12.92 : ((c + 0.055) / 1.055) ** 2.4));
   return 0.2126 * r + 0.7152 * g + 0.0722 * b;
 }
 function contrast(a: string, b: string): number {
@@ -61,7 +63,11 @@ describe('tokens', () => {
       ['9.81e-3', 'number'],
       ['km/s^2', 'unit'],
     ]);
-    expect(kinds('x = .5E+10')).toEqual([['x', 'name'], ['=', 'operator'], ['.5E+10', 'number']]);
+    expect(kinds('x = .5E+10')).toEqual([
+      ['x', 'name'],
+      ['=', 'operator'],
+      ['.5E+10', 'number'],
+    ]);
   });
 
   it('takes a spaced unit expression after `to` and `in`, and only unit names there', () => {
@@ -77,8 +83,16 @@ describe('tokens', () => {
       ['to', 'keyword'],
       ['T * m', 'unit'],
     ]);
-    expect(kinds('L_1 in km')).toEqual([['L_1', 'name'], ['in', 'keyword'], ['km', 'unit']]);
-    expect(kinds('y to x_1')).toEqual([['y', 'name'], ['to', 'keyword'], ['x_1', 'name']]);
+    expect(kinds('L_1 in km')).toEqual([
+      ['L_1', 'name'],
+      ['in', 'keyword'],
+      ['km', 'unit'],
+    ]);
+    expect(kinds('y to x_1')).toEqual([
+      ['y', 'name'],
+      ['to', 'keyword'],
+      ['x_1', 'name'],
+    ]);
   });
 
   it('reads a bare unit name as a name, since a sheet may define it (`m` is a mass after `m = 5 kg`)', () => {
@@ -94,15 +108,36 @@ describe('tokens', () => {
   });
 
   it('does not take a name after a number for a unit when it is not one, nor across a space inside', () => {
-    expect(kinds('z = 2 x_1')).toEqual([['z', 'name'], ['=', 'operator'], ['2', 'number'], ['x_1', 'name']]);
-    expect(kinds('z = 2 m / s')).toEqual([['z', 'name'], ['=', 'operator'], ['2', 'number'], ['m', 'unit'], ['/', 'operator'], ['s', 'name']]);
+    expect(kinds('z = 2 x_1')).toEqual([
+      ['z', 'name'],
+      ['=', 'operator'],
+      ['2', 'number'],
+      ['x_1', 'name'],
+    ]);
+    expect(kinds('z = 2 m / s')).toEqual([
+      ['z', 'name'],
+      ['=', 'operator'],
+      ['2', 'number'],
+      ['m', 'unit'],
+      ['/', 'operator'],
+      ['s', 'name'],
+    ]);
   });
 
   it('marks comparison operators of criteria, library functions, other functions and constants apart', () => {
-    expect(kinds('beta_1 <= 0.7')).toEqual([['beta_1', 'name'], ['<=', 'comparison'], ['0.7', 'number']]);
+    expect(kinds('beta_1 <= 0.7')).toEqual([
+      ['beta_1', 'name'],
+      ['<=', 'comparison'],
+      ['0.7', 'number'],
+    ]);
     expect(kinds('a != b')[1]).toEqual(['!=', 'comparison']);
     expect(kinds('a == b')[1]).toEqual(['==', 'comparison']);
-    expect(kinds('a > 2 T*m')).toEqual([['a', 'name'], ['>', 'comparison'], ['2', 'number'], ['T*m', 'unit']]);
+    expect(kinds('a > 2 T*m')).toEqual([
+      ['a', 'name'],
+      ['>', 'comparison'],
+      ['2', 'number'],
+      ['T*m', 'unit'],
+    ]);
     expect(kinds('r = sqrt(lorentzFactor(0.5)) * pi')).toEqual([
       ['r', 'name'],
       ['=', 'operator'],
@@ -131,7 +166,9 @@ describe('tokens', () => {
     const source = 'T_kin = 250 MeV\np_1 = momentumFromKinetic(T_kin, m_p)\n\nBrho < 2.5 T*m';
     const lines = tokenizeCalc(source);
     expect(lines).toHaveLength(4);
-    source.split('\n').forEach((line, i) => expect(lines[i].map((t) => t.text).join('')).toBe(line.replace(/\s+/g, '')));
+    source
+      .split('\n')
+      .forEach((line, i) => expect(lines[i].map((t) => t.text).join('')).toBe(line.replace(/\s+/g, '')));
   });
 });
 
@@ -139,7 +176,32 @@ describe('agreement with the engine', () => {
   const em = createEngineMath([]);
 
   it('knows exactly the units the engine knows, for every unit with every prefix', () => {
-    const prefixes = ['', 'da', 'h', 'k', 'M', 'G', 'T', 'P', 'E', 'm', 'u', 'n', 'p', 'f', 'a', 'kilo', 'mega', 'milli', 'micro', 'Ki', 'Mi', 'MM', 'q', 'x'];
+    const prefixes = [
+      '',
+      'da',
+      'h',
+      'k',
+      'M',
+      'G',
+      'T',
+      'P',
+      'E',
+      'm',
+      'u',
+      'n',
+      'p',
+      'f',
+      'a',
+      'kilo',
+      'mega',
+      'milli',
+      'micro',
+      'Ki',
+      'Mi',
+      'MM',
+      'q',
+      'x',
+    ];
     const bases = Object.values(UNIT_TABLE).flat();
     let checked = 0;
     for (const base of bases) {
@@ -148,7 +210,25 @@ describe('agreement with the engine', () => {
         checked++;
       }
     }
-    for (const name of ['T_kin', 'x', 'beta', 'gamma', 'Brho', 'p_1', 'c', 'mu', 'foo', 'MeVs', 'ly', 'pc', 'kpc', 'Da', 'kDa', 'au', 'kau']) {
+    for (const name of [
+      'T_kin',
+      'x',
+      'beta',
+      'gamma',
+      'Brho',
+      'p_1',
+      'c',
+      'mu',
+      'foo',
+      'MeVs',
+      'ly',
+      'pc',
+      'kpc',
+      'Da',
+      'kDa',
+      'au',
+      'kau',
+    ]) {
       expect(isUnitName(name), name).toBe(em.isUnitName(name));
     }
     expect(checked).toBeGreaterThan(5000);
@@ -168,7 +248,9 @@ describe('agreement with the engine', () => {
     ];
     for (const line of lines) {
       const engine = extractUnitLiterals(line, em.isUnitName).literals.map((l) => l.unit);
-      const editor = tokenizeCalc(line)[0].filter((t) => t.kind === 'unit').map((t) => t.text.replace(/\s+/g, ''));
+      const editor = tokenizeCalc(line)[0]
+        .filter((t) => t.kind === 'unit')
+        .map((t) => t.text.replace(/\s+/g, ''));
       expect([...new Set(editor)], line).toEqual(engine);
     }
   });
@@ -186,7 +268,16 @@ describe('colours', () => {
 
   it('tells library functions, constants, units, names and comparisons apart', () => {
     const look = (k: CalcTokenKind) => JSON.stringify(TOKEN_STYLES[k]);
-    const distinct: CalcTokenKind[] = ['unit', 'name', 'libraryFunction', 'constant', 'comparison', 'comment', 'string', 'operator'];
+    const distinct: CalcTokenKind[] = [
+      'unit',
+      'name',
+      'libraryFunction',
+      'constant',
+      'comparison',
+      'comment',
+      'string',
+      'operator',
+    ];
     expect(new Set(distinct.map(look)).size).toBe(distinct.length);
   });
 });

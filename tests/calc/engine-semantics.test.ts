@@ -9,7 +9,8 @@ import { createSheetEngine } from '../../lib/calc/sheet-engine';
 import type { CellInput } from '../../lib/calc/types';
 
 const engine = createSheetEngine();
-const cells = (...sources: string[]): CellInput[] => sources.map((source, i) => ({ id: `c${i + 1}`, kind: 'calc', source }));
+const cells = (...sources: string[]): CellInput[] =>
+  sources.map((source, i) => ({ id: `c${i + 1}`, kind: 'calc', source }));
 const run = (list: CellInput[], significantFigures = 6) => engine.evaluate(list, { significantFigures });
 
 describe('definitions', () => {
@@ -22,7 +23,9 @@ describe('definitions', () => {
   it('refuses a use before the definition, on the using cell, naming where it is defined', () => {
     const r = run(cells('y = x + 1', 'x = 2', 'z = 5'));
     expect(r.cells[0].ok).toBe(false);
-    expect(r.cells[0].error).toBe('`x` is used before it is defined (cell 2, line 1); define names above where they are used');
+    expect(r.cells[0].error).toBe(
+      '`x` is used before it is defined (cell 2, line 1); define names above where they are used',
+    );
     expect(r.cells[1].ok).toBe(true);
     expect(r.cells[2].ok).toBe(true);
   });
@@ -35,7 +38,19 @@ describe('definitions', () => {
 
   it('lets a quantity take a unit name while a number followed by that unit stays that unit', () => {
     // Product brief: "2 m stays two metres after m = 5 kg; the target of to is always units".
-    const r = run(cells('m = 5 kg', 'd_1 = 2 m', 'T = 250 MeV', 'E_1 = T to J', 'w_1 = m * 2', 't = 2 s', 'v_1 = 9.81 m/s^2 * t', 'L = 3 m', 'L_2 = L to m'));
+    const r = run(
+      cells(
+        'm = 5 kg',
+        'd_1 = 2 m',
+        'T = 250 MeV',
+        'E_1 = T to J',
+        'w_1 = m * 2',
+        't = 2 s',
+        'v_1 = 9.81 m/s^2 * t',
+        'L = 3 m',
+        'L_2 = L to m',
+      ),
+    );
     expect(r.ok).toBe(true);
     const value = (i: number) => r.cells[i].statements[0].value;
     expect(value(1)).toMatchObject({ number: 2, unit: 'm' });
@@ -51,7 +66,9 @@ describe('definitions', () => {
 
   it('reads a bare unit name as a quantity only where the sheet defines it, and above its use', () => {
     const r = run(cells('x_1 = 3 * s', 's = 4 m', 'y_1 = 10 m / s', 'z_1 = 5 * kg'));
-    expect(r.cells[0].error).toBe('`s` is used before it is defined (cell 2, line 1); define names above where they are used');
+    expect(r.cells[0].error).toBe(
+      '`s` is used before it is defined (cell 2, line 1); define names above where they are used',
+    );
     expect(r.cells[3].statements[0].value).toMatchObject({ number: 5, unit: 'kg' });
     // "10 m" is ten metres; the bare s after the spaced "/" is the quantity s = 4 m.
     expect(r.cells[2].statements[0].value).toMatchObject({ number: 2.5 });
@@ -85,7 +102,9 @@ describe('errors stay in their cells', () => {
   it('fails only the cells that depend on a failed name', () => {
     const r = run(cells('x_a = 1 m', 'x_b = x_a + 1 s', 'x_c = x_a * 2', 'x_d = x_b * 2', 'x_e = 5'));
     expect(r.cells.map((c) => c.ok)).toEqual([true, false, true, false, true]);
-    expect(r.cells[1].error).toBe('cannot add `x_a` (a length, 1 m) and `1 s` (a time): the terms of a sum must have the same dimension (a length and a time)');
+    expect(r.cells[1].error).toBe(
+      'cannot add `x_a` (a length, 1 m) and `1 s` (a time): the terms of a sum must have the same dimension (a length and a time)',
+    );
     expect(r.cells[3].error).toBe('depends on `x_b`, which is not available: it has an error in cell 2, line 1');
   });
 
@@ -134,9 +153,13 @@ describe('design criteria', () => {
   it('shows pass or fail with the margin to the limit, in any units of the same dimension', () => {
     const r = run(cells('B_1 = 1.62 T', 'B_1 < 1.8 T', 'B_1 > 1620.000001 mT', 'B_1 < 2 m'));
     expect(r.cells[1].statements[0].criterion).toMatchObject({ pass: true, margin: expect.closeTo(0.1, 12) });
-    expect(r.cells[1].statements[0].criterion?.marginText).toBe('margin 10 % of the limit, compared exactly (no tolerance)');
+    expect(r.cells[1].statements[0].criterion?.marginText).toBe(
+      'margin 10 % of the limit, compared exactly (no tolerance)',
+    );
     expect(r.cells[2].statements[0].criterion?.pass).toBe(false);
-    expect(r.cells[3].error).toBe('the two sides of the criterion have different dimensions: `B_1` (a magnetic flux density, 1.620\u202f00 T) and `2 m` (a length); compare quantities of one kind');
+    expect(r.cells[3].error).toBe(
+      'the two sides of the criterion have different dimensions: `B_1` (a magnetic flux density, 1.620\u202f00 T) and `2 m` (a length); compare quantities of one kind',
+    );
   });
 
   it('treats chained comparisons as one criterion', () => {
@@ -188,10 +211,18 @@ describe('input tables (CSV attachments)', () => {
       { name: 'temp', unit: 'degC', values: values.map(() => 20) },
     ],
   });
-  const withTable = (list: CellInput[], values = [70, 150, 250], sha?: string) => engine.evaluate(list, { significantFigures: 6, tables: [table(values, sha)] });
+  const withTable = (list: CellInput[], values = [70, 150, 250], sha?: string) =>
+    engine.evaluate(list, { significantFigures: 6, tables: [table(values, sha)] });
 
   it('gives each column as a list with its unit; an element by index; list functions work', () => {
-    const r = withTable(cells('E_all = scan.energy', 'E_3 = scan.energy[3] to J', 'n_mean = mean(scan.turns)', 'T_room = scan.temp[1] to K'));
+    const r = withTable(
+      cells(
+        'E_all = scan.energy',
+        'E_3 = scan.energy[3] to J',
+        'n_mean = mean(scan.turns)',
+        'T_room = scan.temp[1] to K',
+      ),
+    );
     expect(r.ok).toBe(true);
     expect(r.cells[0].statements[0].value).toMatchObject({ kind: 'matrix', text: '[70, 150, 250] MeV', unit: 'MeV' });
     // 1 eV = 1.602 176 634 × 10⁻¹⁹ J exactly (SI Brochure, 9th ed., Table 8): 250 MeV = 4.005 441 585 × 10⁻¹¹ J.
@@ -210,9 +241,13 @@ describe('input tables (CSV attachments)', () => {
 
   it('names a missing column and its columns, refuses a property of anything else, and keeps the table name', () => {
     const r = withTable(cells('x = scan.energi', 'L_1 = 2 m\ny_1 = L_1.value', 'scan = 3'));
-    expect(r.cells[0].error).toBe('the input table `scan` has no column `energi`; its columns are energy [MeV], turns, temp [degC]');
+    expect(r.cells[0].error).toBe(
+      'the input table `scan` has no column `energi`; its columns are energy [MeV], turns, temp [degC]',
+    );
     expect(r.cells[1].statements[1].error).toBe('`L_1` is not an input table; `.` reads a column of an input table');
-    expect(r.cells[2].error).toBe('`scan` is the input table read from the attachment scan.csv; a name is defined once per sheet');
+    expect(r.cells[2].error).toBe(
+      '`scan` is the input table read from the attachment scan.csv; a name is defined once per sheet',
+    );
   });
 
   it('re-evaluates the cells that use a table when its content (SHA-256) changes, and only those', () => {
@@ -226,7 +261,9 @@ describe('input tables (CSV attachments)', () => {
   });
 
   it('refuses lists of different lengths in one function call, naming the element on a domain error', () => {
-    const r = withTable(cells('v_1 = addVelocities(scan.turns / 10, [0.1, 0.2])', 'g_1 = lorentzFactor(scan.turns / 2)'));
+    const r = withTable(
+      cells('v_1 = addVelocities(scan.turns / 10, [0.1, 0.2])', 'g_1 = lorentzFactor(scan.turns / 2)'),
+    );
     expect(r.cells[0].error).toBe('addVelocities: the lists given have different lengths (3 and 2)');
     expect(r.cells[1].error).toMatch(/\(element 2\)$/);
   });

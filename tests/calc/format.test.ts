@@ -43,7 +43,9 @@ describe('significant figures keep their trailing zeros', () => {
 
   it('shows results of a sheet with them, as the app, the study tables and the PDF read them', () => {
     const engine = createSheetEngine();
-    const r = engine.evaluate([{ id: 'a', kind: 'calc', source: 'E_k = 144.11 MeV\nx_r = 1.9675 m\nb_r = 0.5' }], { significantFigures: 6 });
+    const r = engine.evaluate([{ id: 'a', kind: 'calc', source: 'E_k = 144.11 MeV\nx_r = 1.9675 m\nb_r = 0.5' }], {
+      significantFigures: 6,
+    });
     const texts = r.cells[0].statements.map((s) => s.value!.text);
     expect(texts).toEqual(['144.110 MeV', `1.967${THIN}50 m`, `0.500${THIN}000`]);
     // The machine value stays at full precision.
@@ -53,7 +55,8 @@ describe('significant figures keep their trailing zeros', () => {
 
 describe('prefixes chosen for a result are the ones the trade writes', () => {
   const engine = createSheetEngine();
-  const shown = (source: string) => engine.evaluate([{ id: 'a', kind: 'calc', source }], { significantFigures: 6 }).cells[0].statements[0].value!.text;
+  const shown = (source: string) =>
+    engine.evaluate([{ id: 'a', kind: 'calc', source }], { significantFigures: 6 }).cells[0].statements[0].value!.text;
 
   it('gives a length in metres with a power of ten beyond a kilometre, never Tm, Qm or qm (common practice)', () => {
     expect(shown('L_1 = 1e120 m')).toBe(`1.000${THIN}00 × 10¹²⁰ m`);

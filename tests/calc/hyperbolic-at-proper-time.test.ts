@@ -31,13 +31,21 @@ function expectRelative(actual: number, expected: number, tolerance: number) {
 
 describe('accuracy against 50-digit references (Rindler 2006, ch. 3: β = tanh u, t = (c/a) sinh u, x = (c²/a)(cosh u − 1))', () => {
   const cases = surveyCases();
-  for (const name of ['hyperbolicSpeedAtProperTime', 'hyperbolicCoordinateTimeAtProperTime', 'hyperbolicDistanceAtProperTime']) {
+  for (const name of [
+    'hyperbolicSpeedAtProperTime',
+    'hyperbolicCoordinateTimeAtProperTime',
+    'hyperbolicDistanceAtProperTime',
+  ]) {
     it(`${name} is within 1 ulp for a0τ/c from 1e-12 to 630, both directions`, { timeout: 60_000 }, () => {
       const f = lib.LIBRARY.find((g) => g.name === name)!;
       const list = cases[name];
       expect(list.length).toBeGreaterThanOrEqual(250);
       let worst = 0;
-      for (const args of list) worst = Math.max(worst, errorOf(f.kernel(...args) as number, REFERENCES[name](...args) as InstanceType<typeof D>));
+      for (const args of list)
+        worst = Math.max(
+          worst,
+          errorOf(f.kernel(...args) as number, REFERENCES[name](...args) as InstanceType<typeof D>),
+        );
       expect(worst).toBeLessThanOrEqual(1);
     });
   }
@@ -46,16 +54,24 @@ describe('accuracy against 50-digit references (Rindler 2006, ch. 3: β = tanh u
     const a = 1.7e20;
     for (let uu = 690; uu <= 715; uu += 2.5) {
       const tau = (uu * C) / a;
-      expect(errorOf(timeAt(a, tau), REFERENCES.hyperbolicCoordinateTimeAtProperTime(a, tau) as InstanceType<typeof D>)).toBeLessThanOrEqual(1);
-      expect(errorOf(distanceAt(-a, tau), REFERENCES.hyperbolicDistanceAtProperTime(-a, tau) as InstanceType<typeof D>)).toBeLessThanOrEqual(1);
+      expect(
+        errorOf(timeAt(a, tau), REFERENCES.hyperbolicCoordinateTimeAtProperTime(a, tau) as InstanceType<typeof D>),
+      ).toBeLessThanOrEqual(1);
+      expect(
+        errorOf(distanceAt(-a, tau), REFERENCES.hyperbolicDistanceAtProperTime(-a, tau) as InstanceType<typeof D>),
+      ).toBeLessThanOrEqual(1);
     }
   });
 
   it('the textbook cosh u − 1 in doubles would fail the grid (the reference can tell)', () => {
     const [a, tau] = [8e-4, 1e3]; // u = 2.7e-9: (c²/a)(cosh u − 1) in doubles keeps no digit
     const naive = ((C * C) / a) * (Math.cosh((a * tau) / C) - 1);
-    expect(errorOf(naive, REFERENCES.hyperbolicDistanceAtProperTime(a, tau) as InstanceType<typeof D>)).toBeGreaterThan(1e6);
-    expect(errorOf(distanceAt(a, tau), REFERENCES.hyperbolicDistanceAtProperTime(a, tau) as InstanceType<typeof D>)).toBeLessThanOrEqual(1);
+    expect(errorOf(naive, REFERENCES.hyperbolicDistanceAtProperTime(a, tau) as InstanceType<typeof D>)).toBeGreaterThan(
+      1e6,
+    );
+    expect(
+      errorOf(distanceAt(a, tau), REFERENCES.hyperbolicDistanceAtProperTime(a, tau) as InstanceType<typeof D>),
+    ).toBeLessThanOrEqual(1);
   });
 });
 
@@ -65,16 +81,21 @@ describe('published relations and cases', () => {
     // 1 + u (u = a0τ/c), so the round trip is within (2 + u)·2^-53 relative; asserted at 4u for u ≤ 1,
     // and with the factor u above.
     fc.assert(
-      fc.property(fc.double({ min: -3, max: 20, noNaN: true }), fc.double({ min: -12, max: 2, noNaN: true }), fc.boolean(), (la, lw, negative) => {
-        const a = (negative ? -1 : 1) * 10 ** la;
-        const t = (10 ** lw * C) / Math.abs(a);
-        const tau = hyperbolicProperTime(a, t);
-        const rapidity = (Math.abs(a) * tau) / C;
-        const bound = (4 + 2 * rapidity) * u;
-        expect(Math.abs(timeAt(a, tau) / t - 1)).toBeLessThanOrEqual(bound);
-        expect(Math.abs(distanceAt(a, tau) / hyperbolicDistance(a, t) - 1)).toBeLessThanOrEqual(2 * bound);
-        expect(Math.abs(speedAt(a, tau) / hyperbolicSpeed(a, t) - 1)).toBeLessThanOrEqual(bound);
-      }),
+      fc.property(
+        fc.double({ min: -3, max: 20, noNaN: true }),
+        fc.double({ min: -12, max: 2, noNaN: true }),
+        fc.boolean(),
+        (la, lw, negative) => {
+          const a = (negative ? -1 : 1) * 10 ** la;
+          const t = (10 ** lw * C) / Math.abs(a);
+          const tau = hyperbolicProperTime(a, t);
+          const rapidity = (Math.abs(a) * tau) / C;
+          const bound = (4 + 2 * rapidity) * u;
+          expect(Math.abs(timeAt(a, tau) / t - 1)).toBeLessThanOrEqual(bound);
+          expect(Math.abs(distanceAt(a, tau) / hyperbolicDistance(a, t) - 1)).toBeLessThanOrEqual(2 * bound);
+          expect(Math.abs(speedAt(a, tau) / hyperbolicSpeed(a, t) - 1)).toBeLessThanOrEqual(bound);
+        },
+      ),
       { numRuns: 2000 },
     );
   });

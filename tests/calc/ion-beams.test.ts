@@ -3,7 +3,19 @@
 // therapy trade's MeV/u), with both conventions (per nucleon, per atomic mass unit) where they differ.
 // Each check names its source.
 import { describe, expect, it } from 'vitest';
-import { C, E_CHARGE, M_ALPHA, M_ATOM_C12, M_ATOM_H1, M_ATOM_HE4, M_ATOM_NE20, M_ATOM_O16, M_E, M_P, M_U } from '../../lib/calc/constants';
+import {
+  C,
+  E_CHARGE,
+  M_ALPHA,
+  M_ATOM_C12,
+  M_ATOM_H1,
+  M_ATOM_HE4,
+  M_ATOM_NE20,
+  M_ATOM_O16,
+  M_E,
+  M_P,
+  M_U,
+} from '../../lib/calc/constants';
 import * as lib from '../../lib/calc/functions';
 import { electronBindingEnergyEV } from '../../lib/calc/functions/ion-mass';
 import { createSheetEngine } from '../../lib/calc/sheet-engine';
@@ -25,11 +37,15 @@ const momentumFromKinetic = lib.momentumFromKinetic.kernel as (T: number, m: num
 const magneticRigidity = lib.magneticRigidity.kernel as (p: number, q: number) => number;
 
 function expectRelative(actual: number, expected: number, tolerance: number) {
-  expect(Math.abs(actual - expected) / Math.abs(expected), `${actual} against ${expected}`).toBeLessThanOrEqual(tolerance);
+  expect(Math.abs(actual - expected) / Math.abs(expected), `${actual} against ${expected}`).toBeLessThanOrEqual(
+    tolerance,
+  );
 }
 /** A published value quoted to a given absolute precision. */
 function expectQuoted(actual: number, quoted: number, halfWidth: number) {
-  expect(Math.abs(actual - quoted), `${actual} against the quoted ${quoted} ± ${halfWidth}`).toBeLessThanOrEqual(halfWidth);
+  expect(Math.abs(actual - quoted), `${actual} against the quoted ${quoted} ± ${halfWidth}`).toBeLessThanOrEqual(
+    halfWidth,
+  );
 }
 
 const C12_6 = ionMass(M_ATOM_C12, 6, 6 * e);
@@ -155,7 +171,8 @@ describe('kinematics from the kinetic energy per nucleon', () => {
 
 describe('in a sheet: 430 MeV/u is read as per nucleon', () => {
   const engine = createSheetEngine();
-  const run = (source: string) => engine.evaluate([{ id: 'c1', kind: 'calc', source }], { significantFigures: 6 }).cells[0].statements;
+  const run = (source: string) =>
+    engine.evaluate([{ id: 'c1', kind: 'calc', source }], { significantFigures: 6 }).cells[0].statements;
 
   it('accepts the energy per nucleon as an energy or written in MeV/u, and gives the same result', () => {
     const [a, b, c] = run(
@@ -177,7 +194,9 @@ describe('in a sheet: 430 MeV/u is read as per nucleon', () => {
 
   it('refuses an energy per mass not written per u, and an energy per u where a total energy is meant', () => {
     const [bad] = run('rigidityFromKineticPerNucleon(430 MeV/kg, 12, ionMass(M_C12, 6, 6), 6)');
-    expect(bad.error).toContain('must be a kinetic energy per nucleon (an energy, e.g. 430 MeV) or an energy per nucleon written as MeV/u');
+    expect(bad.error).toContain(
+      'must be a kinetic energy per nucleon (an energy, e.g. 430 MeV) or an energy per nucleon written as MeV/u',
+    );
     const [total] = run('momentumFromKinetic(430 MeV/u, ionMass(M_C12, 6, 6))');
     expect(total.error).toContain('must be an energy');
   });

@@ -33,7 +33,11 @@ describe('the reference machinery', () => {
       [0.5, 0.99],
     ]) {
       const b = exact(beta);
-      const cosine = D.acos(D.cos(exact(theta)).minus(b).div(new D(1).minus(b.mul(D.cos(exact(theta))))));
+      const cosine = D.acos(
+        D.cos(exact(theta))
+          .minus(b)
+          .div(new D(1).minus(b.mul(D.cos(exact(theta))))),
+      );
       const ref = REFERENCES.aberrationAngle(theta, beta) as InstanceType<typeof D>;
       expect(ref.minus(cosine).abs().toNumber()).toBeLessThan(1e-40);
     }
@@ -53,7 +57,10 @@ describe('accuracy in ulp over the whole domain', () => {
     console.log(
       [
         'Worst error in ulp against 50-digit references (β from 1e-12 to 1 − 1e-15, a0·t/c from 1e-12 to 1e6, T/mc² from 1e-24 to 1e12):',
-        ...rows.map((r) => `  ${r.name.padEnd(34)} ${r.worstUlp.toFixed(3).padStart(7)} ulp  (${String(r.samples).padStart(4)} samples; worst at ${JSON.stringify(r.worstAt)})`),
+        ...rows.map(
+          (r) =>
+            `  ${r.name.padEnd(34)} ${r.worstUlp.toFixed(3).padStart(7)} ulp  (${String(r.samples).padStart(4)} samples; worst at ${JSON.stringify(r.worstAt)})`,
+        ),
       ].join('\n'),
     );
     expect(rows.map((r) => r.name)).toEqual(LIBRARY.map((f) => f.name));

@@ -17,7 +17,8 @@ const lib = math as unknown as Record<string, (...args: unknown[]) => unknown>;
 const constant = (name: string) => engine.em.constants.get(name)!;
 const unit = (text: string) => math.unit(text);
 const si = (u: unknown) => (u as Unit).value as number;
-const cells = (...sources: string[]): CellInput[] => sources.map((source, i) => ({ id: `c${i + 1}`, kind: 'calc', source }));
+const cells = (...sources: string[]): CellInput[] =>
+  sources.map((source, i) => ({ id: `c${i + 1}`, kind: 'calc', source }));
 const run = (...sources: string[]) => engine.evaluate(cells(...sources), { significantFigures: 6 });
 const thrown = (f: () => unknown): Error => {
   try {
@@ -40,8 +41,12 @@ describe('charge arguments', () => {
     // issue 15: `magneticRigidity(momentumFromKinetic(1 GeV, m_p), e)` silently gave 2.718× too little.
     const r = run('B_rho = magneticRigidity(momentumFromKinetic(1 GeV, m_p), e)');
     expect(r.cells[0].ok).toBe(false);
-    expect(r.cells[0].error).toContain("`e` is Euler's number 2.718…; the elementary charge is `q_e` (or give the charge number, e.g. 1)");
-    expect(thrown(() => lib.magneticRigidity(unit('1 GeV'), Math.E)).message).toContain('the elementary charge is `q_e`');
+    expect(r.cells[0].error).toContain(
+      "`e` is Euler's number 2.718…; the elementary charge is `q_e` (or give the charge number, e.g. 1)",
+    );
+    expect(thrown(() => lib.magneticRigidity(unit('1 GeV'), Math.E)).message).toContain(
+      'the elementary charge is `q_e`',
+    );
   });
 
   it('refuse a non-integer charge number, and accept integers of either sign', () => {
@@ -64,7 +69,9 @@ describe('charge arguments', () => {
     }
     // The same momentum in kg m/s.
     const pSi = exact(si(p)).div(REF_C).toNumber();
-    expect(ulpError(si(lib.magneticRigidity(math.unit(pSi, 'kg m/s'), 1)), exact(pSi).div(REF_E))).toBeLessThanOrEqual(0.5);
+    expect(ulpError(si(lib.magneticRigidity(math.unit(pSi, 'kg m/s'), 1)), exact(pSi).div(REF_E))).toBeLessThanOrEqual(
+      0.5,
+    );
   });
 
   it('gives Bρ ≈ 5.657 T·m for a proton of kinetic energy 1 GeV (p = 1.696 GeV/c)', () => {
@@ -88,7 +95,12 @@ describe('charge arguments', () => {
 describe('plain β in, plain β out', () => {
   it('addVelocities(0.5, 0.5) is the plain β 0.8, and with velocities a velocity (textbook: 0.5c ⊕ 0.5c = 0.8c, e.g. Taylor & Wheeler, Spacetime Physics)', () => {
     expect(lib.addVelocities(0.5, 0.5)).toBe(0.8);
-    const r = run('w_1 = addVelocities(0.5, 0.5)', 'w_2 = addVelocities(0.5 c, 0.5 c)', 'w_3 = addVelocities(0.5, 0.5 c)', 'g = lorentzFactor(w_1)');
+    const r = run(
+      'w_1 = addVelocities(0.5, 0.5)',
+      'w_2 = addVelocities(0.5 c, 0.5 c)',
+      'w_3 = addVelocities(0.5, 0.5 c)',
+      'g = lorentzFactor(w_1)',
+    );
     expect(r.ok).toBe(true);
     expect(r.cells[0].statements[0].value).toMatchObject({ kind: 'number', number: 0.8 });
     expect(r.cells[1].statements[0].value).toMatchObject({ kind: 'quantity', unit: 'm / s' });
@@ -120,7 +132,7 @@ describe('non-finite results', () => {
       kernel: (L0) => (L0 as number) * 1e300,
     };
     const [binding] = bindLibrary(math, [overflowing]);
-    expect(math.unit(1, 'm').equalBase((binding.fn(unit('1 m'), 0.5) as Unit))).toBe(true);
+    expect(math.unit(1, 'm').equalBase(binding.fn(unit('1 m'), 0.5) as Unit)).toBe(true);
     const error = thrown(() => binding.fn(unit('1e10 m'), 0.5));
     expect(error).toBeInstanceOf(DomainError);
     expect(error.message).toMatch(/^overflowing\(1 × 10¹⁰ m, 0\.5\): the result is not a finite number \(Infinity\)/);
@@ -142,9 +154,18 @@ describe('domain errors echo the argument as the sheet wrote it', () => {
     ['lengthContraction(-3 km, 0.5)', `lengthContraction: L0 must be ≥ 0 (a proper length); got ${MINUS}3 km`],
     ['electronWavelength(-200 kV)', `electronWavelength: U must be > 0 (an accelerating voltage); got ${MINUS}200 kV`],
     ['timeDilation(-2.5 us, 0.5)', `timeDilation: dtau must be ≥ 0 (an elapsed proper time); got ${MINUS}2.5 µs`],
-    ['kineticFromMomentum(-5 MeV/c, m_p)', `kineticFromMomentum: p must be ≥ 0 (a momentum magnitude); got ${MINUS}5 MeV/c`],
-    ['kineticFromMomentum(-1 GeV, m_p)', `kineticFromMomentum: p must be ≥ 0 (a momentum magnitude); got ${MINUS}1 GeV`],
-    ['lorentzFactor(4e8 m/s)', 'lorentzFactor: |β| must be below 1 for a massive body; got β = 1.3342563807926082 (v = 4 × 10⁸ m/s)'],
+    [
+      'kineticFromMomentum(-5 MeV/c, m_p)',
+      `kineticFromMomentum: p must be ≥ 0 (a momentum magnitude); got ${MINUS}5 MeV/c`,
+    ],
+    [
+      'kineticFromMomentum(-1 GeV, m_p)',
+      `kineticFromMomentum: p must be ≥ 0 (a momentum magnitude); got ${MINUS}1 GeV`,
+    ],
+    [
+      'lorentzFactor(4e8 m/s)',
+      'lorentzFactor: |β| must be below 1 for a massive body; got β = 1.3342563807926082 (v = 4 × 10⁸ m/s)',
+    ],
   ])('%s', (source, message) => {
     const r = run(`x = ${source}`);
     expect(r.cells[0].ok).toBe(false);

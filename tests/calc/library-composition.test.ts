@@ -64,65 +64,148 @@ function track(worst: Map<string, Worst>, route: string, ulp: number, at: string
   if (!w || ulp > w.ulp) worst.set(route, { ulp, at });
 }
 function report(title: string, worst: Map<string, Worst>): void {
-  console.log([title, ...[...worst].map(([route, w]) => `  ${route.padEnd(58)} ${w.ulp.toFixed(3).padStart(6)} ulp  (worst at ${w.at})`)].join('\n'));
+  console.log(
+    [
+      title,
+      ...[...worst].map(
+        ([route, w]) => `  ${route.padEnd(58)} ${w.ulp.toFixed(3).padStart(6)} ulp  (worst at ${w.at})`,
+      ),
+    ].join('\n'),
+  );
 }
 
 describe('compositions of library functions against 50-digit references', () => {
-  it(`stay within ${COMPANION_ULP} ulp through a speed, ${ROUND_TRIP_ULP} ulp through a momentum or energy (electrons 1 keV–10 TeV, protons 1 MeV–10 TeV)`, { timeout: 60_000 }, () => {
-    const worst = new Map<string, Worst>();
-    for (const beam of beams) {
-      const m = si(beam.m);
-      for (const Tsi of beam.T) {
-        const T = math.unit(Tsi, 'J');
-        const at = `${beam.name}, T = ${(Tsi / eV).toPrecision(6)} eV`;
-        const k = kinematics(Tsi, m);
-        const v = lib.speedFromKinetic(T, beam.m);
-        const check = (route: string, value: unknown, ref: Dec, bound: number) => {
-          const ulp = ulpError(si(value), ref);
-          track(worst, route, ulp, at);
-          expect(ulp, `${route} at ${at}`).toBeLessThanOrEqual(bound);
-        };
-        check('lorentzFactor(speedFromKinetic(T, m))', lib.lorentzFactor(v), k.gamma, COMPANION_ULP);
-        check('gammaMinusOne(speedFromKinetic(T, m))', lib.gammaMinusOne(v), k.x, COMPANION_ULP);
-        check('betaGamma(speedFromKinetic(T, m))', lib.betaGamma(v), k.betaGamma, COMPANION_ULP);
-        check('rapidity(speedFromKinetic(T, m)) = ln(γ + βγ)', lib.rapidity(v), D.ln(k.gamma.plus(k.betaGamma)), COMPANION_ULP);
-        check('dopplerFactor(speedFromKinetic(T, m)) = γ + βγ', lib.dopplerFactor(v), k.gamma.plus(k.betaGamma), COMPANION_ULP);
-        check('timeDilation(1 s, speedFromKinetic(T, m))', lib.timeDilation(math.unit(1, 's'), v), k.gamma, COMPANION_ULP);
-        check('lengthContraction(1 m, speedFromKinetic(T, m))', lib.lengthContraction(math.unit(1, 'm'), v), ONE.div(k.gamma), COMPANION_ULP);
-        check('kineticEnergy(m, speedFromKinetic(T, m)) = T', lib.kineticEnergy(beam.m, v), exact(Tsi), COMPANION_ULP);
-        // γ_{v⊕v} = γ²(1 + β²) = 2γ² − 1, and the result of addVelocities carries its own companion.
-        check('lorentzFactor(addVelocities(v, v))', lib.lorentzFactor(lib.addVelocities(v, v)), k.gamma.mul(k.gamma).mul(2).minus(1), COMPANION_ULP);
-        check('gammaFromKinetic(T, m)', lib.gammaFromKinetic(T, beam.m), k.gamma, COMPANION_ULP);
-        check('clockRateOffset(speedFromKinetic(T, m)) = 1/γ − 1', lib.clockRateOffset(v), ONE.div(k.gamma).minus(1), COMPANION_ULP);
-        const g = math.unit(9.80665, 'm/s^2');
-        check('transverseCoordinateAcceleration(g, v) = g/γ²', lib.transverseCoordinateAcceleration(g, v), exact(9.80665).div(k.gamma.pow(2)), COMPANION_ULP);
-        check('properToCoordinateAcceleration(g, v) = g/γ³', lib.properToCoordinateAcceleration(g, v), exact(9.80665).div(k.gamma.pow(3)), COMPANION_ULP);
-        // An event at x = 0, t = 1 s seen from the beam: t′ = γ t, x′ = −βγ c t.
-        const [tPrime, xPrime] = (lib.lorentzBoost(math.unit(1, 's'), math.unit(0, 'm'), v) as { valueOf(): Unit[] }).valueOf();
-        check('lorentzBoost(1 s, 0 m, v): t′ = γ·1 s', tPrime, k.gamma, COMPANION_ULP);
-        check('lorentzBoost(1 s, 0 m, v): x′ = −βγc·1 s', xPrime, k.betaGamma.mul(REF_C).neg(), COMPANION_ULP);
-        // A ray at 90° in the lab, seen from the beam: θ′ = atan2(sin θ/γ, cos θ − β) = atan2(1/γ, −β).
-        check('aberrationAngle(π/2, v)', lib.aberrationAngle(Math.PI / 2, v), aberrationRef(exact(Math.PI / 2), k), COMPANION_ULP);
+  it(
+    `stay within ${COMPANION_ULP} ulp through a speed, ${ROUND_TRIP_ULP} ulp through a momentum or energy (electrons 1 keV–10 TeV, protons 1 MeV–10 TeV)`,
+    { timeout: 60_000 },
+    () => {
+      const worst = new Map<string, Worst>();
+      for (const beam of beams) {
+        const m = si(beam.m);
+        for (const Tsi of beam.T) {
+          const T = math.unit(Tsi, 'J');
+          const at = `${beam.name}, T = ${(Tsi / eV).toPrecision(6)} eV`;
+          const k = kinematics(Tsi, m);
+          const v = lib.speedFromKinetic(T, beam.m);
+          const check = (route: string, value: unknown, ref: Dec, bound: number) => {
+            const ulp = ulpError(si(value), ref);
+            track(worst, route, ulp, at);
+            expect(ulp, `${route} at ${at}`).toBeLessThanOrEqual(bound);
+          };
+          check('lorentzFactor(speedFromKinetic(T, m))', lib.lorentzFactor(v), k.gamma, COMPANION_ULP);
+          check('gammaMinusOne(speedFromKinetic(T, m))', lib.gammaMinusOne(v), k.x, COMPANION_ULP);
+          check('betaGamma(speedFromKinetic(T, m))', lib.betaGamma(v), k.betaGamma, COMPANION_ULP);
+          check(
+            'rapidity(speedFromKinetic(T, m)) = ln(γ + βγ)',
+            lib.rapidity(v),
+            D.ln(k.gamma.plus(k.betaGamma)),
+            COMPANION_ULP,
+          );
+          check(
+            'dopplerFactor(speedFromKinetic(T, m)) = γ + βγ',
+            lib.dopplerFactor(v),
+            k.gamma.plus(k.betaGamma),
+            COMPANION_ULP,
+          );
+          check(
+            'timeDilation(1 s, speedFromKinetic(T, m))',
+            lib.timeDilation(math.unit(1, 's'), v),
+            k.gamma,
+            COMPANION_ULP,
+          );
+          check(
+            'lengthContraction(1 m, speedFromKinetic(T, m))',
+            lib.lengthContraction(math.unit(1, 'm'), v),
+            ONE.div(k.gamma),
+            COMPANION_ULP,
+          );
+          check(
+            'kineticEnergy(m, speedFromKinetic(T, m)) = T',
+            lib.kineticEnergy(beam.m, v),
+            exact(Tsi),
+            COMPANION_ULP,
+          );
+          // γ_{v⊕v} = γ²(1 + β²) = 2γ² − 1, and the result of addVelocities carries its own companion.
+          check(
+            'lorentzFactor(addVelocities(v, v))',
+            lib.lorentzFactor(lib.addVelocities(v, v)),
+            k.gamma.mul(k.gamma).mul(2).minus(1),
+            COMPANION_ULP,
+          );
+          check('gammaFromKinetic(T, m)', lib.gammaFromKinetic(T, beam.m), k.gamma, COMPANION_ULP);
+          check(
+            'clockRateOffset(speedFromKinetic(T, m)) = 1/γ − 1',
+            lib.clockRateOffset(v),
+            ONE.div(k.gamma).minus(1),
+            COMPANION_ULP,
+          );
+          const g = math.unit(9.80665, 'm/s^2');
+          check(
+            'transverseCoordinateAcceleration(g, v) = g/γ²',
+            lib.transverseCoordinateAcceleration(g, v),
+            exact(9.80665).div(k.gamma.pow(2)),
+            COMPANION_ULP,
+          );
+          check(
+            'properToCoordinateAcceleration(g, v) = g/γ³',
+            lib.properToCoordinateAcceleration(g, v),
+            exact(9.80665).div(k.gamma.pow(3)),
+            COMPANION_ULP,
+          );
+          // An event at x = 0, t = 1 s seen from the beam: t′ = γ t, x′ = −βγ c t.
+          const [tPrime, xPrime] = (
+            lib.lorentzBoost(math.unit(1, 's'), math.unit(0, 'm'), v) as { valueOf(): Unit[] }
+          ).valueOf();
+          check('lorentzBoost(1 s, 0 m, v): t′ = γ·1 s', tPrime, k.gamma, COMPANION_ULP);
+          check('lorentzBoost(1 s, 0 m, v): x′ = −βγc·1 s', xPrime, k.betaGamma.mul(REF_C).neg(), COMPANION_ULP);
+          // A ray at 90° in the lab, seen from the beam: θ′ = atan2(sin θ/γ, cos θ − β) = atan2(1/γ, −β).
+          check(
+            'aberrationAngle(π/2, v)',
+            lib.aberrationAngle(Math.PI / 2, v),
+            aberrationRef(exact(Math.PI / 2), k),
+            COMPANION_ULP,
+          );
 
-        // Through the momentum: p = βγmc.
-        const p = lib.momentumFromKinetic(T, beam.m);
-        const pRef = k.betaGamma.mul(exact(m)).mul(REF_C);
-        check('momentumFromKinetic(T, m)', p, pRef, COMPANION_ULP);
-        check('kineticFromMomentum(momentumFromKinetic(T, m), m) = T', lib.kineticFromMomentum(p, beam.m), exact(Tsi), ROUND_TRIP_ULP);
-        const pSi = si(p);
-        const y = exact(pSi).div(exact(m).mul(REF_C)); // βγ of the rounded momentum: the references below start from p
-        check('betaGammaFromMomentum(p, m)', lib.betaGammaFromMomentum(p, beam.m), y, COMPANION_ULP);
-        const u = lib.speedFromMomentum(p, beam.m);
-        check('speedFromMomentum(p, m)', u, speedFromMomentumRef(exact(pSi), exact(m)).mul(REF_C), COMPANION_ULP);
-        check('lorentzFactor(speedFromMomentum(p, m)) = √(1 + (p/mc)²)', lib.lorentzFactor(u), ONE.plus(y.mul(y)).sqrt(), COMPANION_ULP);
-        check('momentumFromKinetic(kineticFromMomentum(p, m), m) = p', lib.momentumFromKinetic(lib.kineticFromMomentum(p, beam.m), beam.m), exact(pSi), ROUND_TRIP_ULP);
-        // Through the rigidity of a singly charged particle.
-        const brho = lib.magneticRigidity(p, 1);
-        check('kineticFromRigidity(magneticRigidity(p, 1), m, 1) = T', lib.kineticFromRigidity(brho, beam.m, 1), exact(Tsi), ROUND_TRIP_ULP + 2);
+          // Through the momentum: p = βγmc.
+          const p = lib.momentumFromKinetic(T, beam.m);
+          const pRef = k.betaGamma.mul(exact(m)).mul(REF_C);
+          check('momentumFromKinetic(T, m)', p, pRef, COMPANION_ULP);
+          check(
+            'kineticFromMomentum(momentumFromKinetic(T, m), m) = T',
+            lib.kineticFromMomentum(p, beam.m),
+            exact(Tsi),
+            ROUND_TRIP_ULP,
+          );
+          const pSi = si(p);
+          const y = exact(pSi).div(exact(m).mul(REF_C)); // βγ of the rounded momentum: the references below start from p
+          check('betaGammaFromMomentum(p, m)', lib.betaGammaFromMomentum(p, beam.m), y, COMPANION_ULP);
+          const u = lib.speedFromMomentum(p, beam.m);
+          check('speedFromMomentum(p, m)', u, speedFromMomentumRef(exact(pSi), exact(m)).mul(REF_C), COMPANION_ULP);
+          check(
+            'lorentzFactor(speedFromMomentum(p, m)) = √(1 + (p/mc)²)',
+            lib.lorentzFactor(u),
+            ONE.plus(y.mul(y)).sqrt(),
+            COMPANION_ULP,
+          );
+          check(
+            'momentumFromKinetic(kineticFromMomentum(p, m), m) = p',
+            lib.momentumFromKinetic(lib.kineticFromMomentum(p, beam.m), beam.m),
+            exact(pSi),
+            ROUND_TRIP_ULP,
+          );
+          // Through the rigidity of a singly charged particle.
+          const brho = lib.magneticRigidity(p, 1);
+          check(
+            'kineticFromRigidity(magneticRigidity(p, 1), m, 1) = T',
+            lib.kineticFromRigidity(brho, beam.m, 1),
+            exact(Tsi),
+            ROUND_TRIP_ULP + 2,
+          );
+        }
       }
-    }
-    report('Worst error of compositions in ulp against 50-digit references:', worst);
-  });
+      report('Worst error of compositions in ulp against 50-digit references:', worst);
+    },
+  );
 
   it('composes opposite speeds near c without cancellation (hyperbolic motion both ways: rapidities add)', () => {
     // hyperbolicSpeed(a, t) has rapidity asinh(a t/c) (Rindler, Relativity, 2nd ed. (2006), §3.8); the
@@ -136,10 +219,17 @@ describe('compositions of library functions against 50-digit references', () => 
     ]) {
       const u = lib.hyperbolicSpeed(g, math.unit(t1, 's'));
       const w = lib.hyperbolicSpeed(minusG, math.unit(t2, 's'));
-      const eta = D.asinh(exact(9.80665).mul(exact(t1)).div(REF_C)).minus(D.asinh(exact(9.80665).mul(exact(t2)).div(REF_C)));
+      const eta = D.asinh(exact(9.80665).mul(exact(t1)).div(REF_C)).minus(
+        D.asinh(exact(9.80665).mul(exact(t2)).div(REF_C)),
+      );
       const gammaRef = D.cosh(eta);
-      expect(ulpError(si(lib.lorentzFactor(lib.addVelocities(u, w))), gammaRef), `t = ${t1}, ${t2}`).toBeLessThanOrEqual(COMPANION_ULP);
-      expect(ulpError(si(lib.rapidity(lib.addVelocities(u, w))), eta), `t = ${t1}, ${t2}`).toBeLessThanOrEqual(COMPANION_ULP);
+      expect(
+        ulpError(si(lib.lorentzFactor(lib.addVelocities(u, w))), gammaRef),
+        `t = ${t1}, ${t2}`,
+      ).toBeLessThanOrEqual(COMPANION_ULP);
+      expect(ulpError(si(lib.rapidity(lib.addVelocities(u, w))), eta), `t = ${t1}, ${t2}`).toBeLessThanOrEqual(
+        COMPANION_ULP,
+      );
     }
   });
 
@@ -191,18 +281,28 @@ describe('compositions of library functions against 50-digit references', () => 
 });
 
 describe('composition through a sheet', () => {
-  const cells = (...sources: string[]): CellInput[] => sources.map((source, i) => ({ id: `k${i + 1}`, kind: 'calc', source }));
+  const cells = (...sources: string[]): CellInput[] =>
+    sources.map((source, i) => ({ id: `k${i + 1}`, kind: 'calc', source }));
   const reference = kinematics(1.5e12 * eV, si(m_e)).gamma.toNumber();
 
   it('carries the companion through names, across lines and cells, and from cached cells', () => {
-    const sheet = engine.evaluate(cells('v_e = speedFromKinetic(1.5 TeV, m_e)\ng_1 = lorentzFactor(v_e)', 'g_2 = lorentzFactor(v_e)'), { significantFigures: 7 });
+    const sheet = engine.evaluate(
+      cells('v_e = speedFromKinetic(1.5 TeV, m_e)\ng_1 = lorentzFactor(v_e)', 'g_2 = lorentzFactor(v_e)'),
+      { significantFigures: 7 },
+    );
     expect(sheet.ok).toBe(true);
     expect(sheet.cells[0].statements[1].value!.number).toBe(reference);
     expect(sheet.cells[1].statements[0].value!.number).toBe(reference);
     // Edit only the second cell: the first comes from the cell cache with the same value object.
-    const again = engine.evaluate(cells('v_e = speedFromKinetic(1.5 TeV, m_e)\ng_1 = lorentzFactor(v_e)', 'g_2 = lorentzFactor(v_e)\ng_3 = gammaFromKinetic(1.5 TeV, m_e)'), {
-      significantFigures: 7,
-    });
+    const again = engine.evaluate(
+      cells(
+        'v_e = speedFromKinetic(1.5 TeV, m_e)\ng_1 = lorentzFactor(v_e)',
+        'g_2 = lorentzFactor(v_e)\ng_3 = gammaFromKinetic(1.5 TeV, m_e)',
+      ),
+      {
+        significantFigures: 7,
+      },
+    );
     expect(again.ok).toBe(true);
     expect(again.evaluatedCells).toBe(1); // the first cell came from the cache
     expect(again.cells[1].statements[0].value!.number).toBe(reference);
@@ -211,7 +311,10 @@ describe('composition through a sheet', () => {
   });
 
   it('loses it, as it should, for a value made by arithmetic', () => {
-    const sheet = engine.evaluate(cells('v_e = speedFromKinetic(1.5 TeV, m_e)', 'w = v_e to km/s', 'g = lorentzFactor(w)'), { significantFigures: 7 });
+    const sheet = engine.evaluate(
+      cells('v_e = speedFromKinetic(1.5 TeV, m_e)', 'w = v_e to km/s', 'g = lorentzFactor(w)'),
+      { significantFigures: 7 },
+    );
     expect(sheet.ok).toBe(true);
     expect(Math.abs(sheet.cells[2].statements[0].value!.number! / reference - 1)).toBeGreaterThan(1e-4);
   });

@@ -129,7 +129,9 @@ describe('NaN and ±Infinity', () => {
 
 describe('speeds of massive bodies', () => {
   it('says exactly what is wrong with β = 1', () => {
-    expect(refusal('lorentzFactor', [1]).message).toBe('lorentzFactor: |β| must be below 1 for a massive body; got β = 1');
+    expect(refusal('lorentzFactor', [1]).message).toBe(
+      'lorentzFactor: |β| must be below 1 for a massive body; got β = 1',
+    );
   });
 
   it('refuses |β| ≥ 1 wherever the body is massive', () => {
@@ -154,7 +156,14 @@ describe('speeds of massive bodies', () => {
   });
 
   it('accepts the largest double below 1, and zero', () => {
-    for (const name of ['lorentzFactor', 'gammaMinusOne', 'rapidity', 'dopplerFactor', 'clockRateOffset', 'betaGamma']) {
+    for (const name of [
+      'lorentzFactor',
+      'gammaMinusOne',
+      'rapidity',
+      'dopplerFactor',
+      'clockRateOffset',
+      'betaGamma',
+    ]) {
       expect(Number.isFinite(call(name, BELOW_ONE) as number), name).toBe(true);
       expect(Number.isFinite(call(name, -BELOW_ONE) as number), name).toBe(true);
       expect(Number.isFinite(call(name, 0) as number), name).toBe(true);
@@ -173,10 +182,16 @@ describe('velocity composition with light', () => {
   });
 
   it('refuses light against light and anything faster than light', () => {
-    expect(refusal('addVelocities', [1, -1]).message).toMatch(/^addVelocities: light composed with light .*β_u = 1, β_v = -1/);
+    expect(refusal('addVelocities', [1, -1]).message).toMatch(
+      /^addVelocities: light composed with light .*β_u = 1, β_v = -1/,
+    );
     expect(refusal('addVelocities', [-1, 1]).message).toMatch(/^addVelocities: light composed with light/);
-    expect(refusal('addVelocities', [1 + 2 ** -52, 0]).message).toBe('addVelocities: |β| of u must not exceed 1 (1 is light); got β = 1.0000000000000002');
-    expect(refusal('addVelocities', [0, -1.5]).message).toBe('addVelocities: |β| of v must not exceed 1 (1 is light); got β = -1.5');
+    expect(refusal('addVelocities', [1 + 2 ** -52, 0]).message).toBe(
+      'addVelocities: |β| of u must not exceed 1 (1 is light); got β = 1.0000000000000002',
+    );
+    expect(refusal('addVelocities', [0, -1.5]).message).toBe(
+      'addVelocities: |β| of v must not exceed 1 (1 is light); got β = -1.5',
+    );
   });
 });
 
@@ -184,10 +199,18 @@ describe('masses, energies and other magnitudes', () => {
   const cases: Array<[string, number[], string]> = [
     // negative or zero mass where a body must have one
     ['kineticEnergy', [0, 0.5], 'kineticEnergy: m must be > 0 (a body slower than light has mass); got m = 0 kg'],
-    ['kineticEnergy', [-M_P, 0.5], `kineticEnergy: m must be > 0 (a body slower than light has mass); got m = ${-M_P} kg`],
+    [
+      'kineticEnergy',
+      [-M_P, 0.5],
+      `kineticEnergy: m must be > 0 (a body slower than light has mass); got m = ${-M_P} kg`,
+    ],
     ['decayLength', [1e-19, 0, 1e-6], 'decayLength: m must be > 0'],
     ['decayLength', [1e-19, -M_MU, 1e-6], `got m = ${-M_MU} kg`],
-    ['sqrtSFixedTarget', [1e-10, M_P, 0], 'sqrtSFixedTarget: mTarget must be > 0 (a target at rest has mass); got mTarget = 0 kg'],
+    [
+      'sqrtSFixedTarget',
+      [1e-10, M_P, 0],
+      'sqrtSFixedTarget: mTarget must be > 0 (a target at rest has mass); got mTarget = 0 kg',
+    ],
     ['thresholdKinetic', [M_P, 0, 3 * M_P], 'thresholdKinetic: mTarget must be > 0'],
     ['synchrotronLossPerTurn', [1e-10, 7, 0], 'synchrotronLossPerTurn: m must be > 0'],
     // negative masses where zero is allowed
@@ -206,10 +229,22 @@ describe('masses, energies and other magnitudes', () => {
     ['timeOfFlight', [1, -1e-13, M_P], 'timeOfFlight: T must be ≥ 0'],
     ['synchrotronLossPerTurn', [-1e-10, 7, M_E], 'synchrotronLossPerTurn: E must be > 0'],
     // total energy below the rest energy, or below pc
-    ['sqrtSCollider', [0.5 * M_P * C * C, 1e-6, M_P, M_P], 'sqrtSCollider: the total energy E1 must be at least the rest energy mc²'],
+    [
+      'sqrtSCollider',
+      [0.5 * M_P * C * C, 1e-6, M_P, M_P],
+      'sqrtSCollider: the total energy E1 must be at least the rest energy mc²',
+    ],
     ['sqrtSCollider', [1e-6, 0.9 * M_P * C * C, M_P, M_P], 'the total energy E2 must be at least the rest energy'],
-    ['synchrotronLossPerTurn', [0.5 * M_E * C * C, 7, M_E], 'synchrotronLossPerTurn: the total energy E must be at least the rest energy mc²'],
-    ['invariantMass', [1e-10, 1e-18], 'invariantMass: the energy must be at least pc (a space-like four-momentum has no mass); got E = 1e-10 J'],
+    [
+      'synchrotronLossPerTurn',
+      [0.5 * M_E * C * C, 7, M_E],
+      'synchrotronLossPerTurn: the total energy E must be at least the rest energy mc²',
+    ],
+    [
+      'invariantMass',
+      [1e-10, 1e-18],
+      'invariantMass: the energy must be at least pc (a space-like four-momentum has no mass); got E = 1e-10 J',
+    ],
     // mass ratio and exhaust speed of a rocket
     ['rocketDeltaV', [0.1, 0.5], 'rocketDeltaV: the mass ratio R = initial/final mass must be at least 1; got R = 0.5'],
     ['rocketDeltaV', [0.1, 0], 'got R = 0'],
@@ -229,30 +264,70 @@ describe('masses, energies and other magnitudes', () => {
     ['hyperbolicProperTime', [G_N, -1], 'hyperbolicProperTime: t must be ≥ 0'],
     ['electronWavelength', [0], 'electronWavelength: U must be > 0 (an accelerating voltage); got U = 0 V'],
     ['electronWavelength', [-100], 'got U = -100 V'],
-    ['rindlerHorizonDistance', [0], 'rindlerHorizonDistance: a0 must be > 0 (the magnitude of the proper acceleration); got a0 = 0 m/s^2'],
+    [
+      'rindlerHorizonDistance',
+      [0],
+      'rindlerHorizonDistance: a0 must be > 0 (the magnitude of the proper acceleration); got a0 = 0 m/s^2',
+    ],
     ['rindlerHorizonDistance', [-G_N], `got a0 = ${-G_N} m/s^2`],
-    ['synchrotronLossPerTurn', [1e-10, 0, M_E], 'synchrotronLossPerTurn: rho must be > 0 (a bending radius); got rho = 0 m'],
+    [
+      'synchrotronLossPerTurn',
+      [1e-10, 0, M_E],
+      'synchrotronLossPerTurn: rho must be > 0 (a bending radius); got rho = 0 m',
+    ],
     // zero charge, undefined states, angles out of range, results out of range
-    ['magneticRigidity', [1e-18, 0], 'magneticRigidity: q must not be zero (a neutral particle is not bent); got q = 0 C'],
+    [
+      'magneticRigidity',
+      [1e-18, 0],
+      'magneticRigidity: q must not be zero (a neutral particle is not bent); got q = 0 C',
+    ],
     ['speedFromKinetic', [0, 0], 'speedFromKinetic: the speed of a massless particle with no energy is undefined'],
     ['timeOfFlight', [10, 0, M_P], 'timeOfFlight: a body at rest (T = 0) never covers the distance; got T = 0 J'],
     ['timeOfFlight', [10, 0, 0], 'timeOfFlight: a massless particle with no energy is undefined'],
-    ['aberrationAngle', [4, 0.5], 'aberrationAngle: theta must lie between −π and π (−180° to 180°); got theta = 4 rad'],
+    [
+      'aberrationAngle',
+      [4, 0.5],
+      'aberrationAngle: theta must lie between −π and π (−180° to 180°); got theta = 4 rad',
+    ],
     ['aberrationAngle', [-3.2, 0.5], 'got theta = -3.2 rad'],
     ['kineticEnergy', [1e300, 0.99], 'kineticEnergy: the result is outside the range of double-precision numbers'],
     ['rindlerHorizonDistance', [1e-300], 'rindlerHorizonDistance: the result is outside the range'],
     // hyperbolic motion by distance, trips, rings
-    ['hyperbolicSpeedFromDistance', [G_N, -1], 'hyperbolicSpeedFromDistance: d must be ≥ 0 (the distance covered from rest); got d = -1 m'],
-    ['hyperbolicCoordinateTimeFromDistance', [0, 1], 'hyperbolicCoordinateTimeFromDistance: a0 must not be 0 when d > 0'],
+    [
+      'hyperbolicSpeedFromDistance',
+      [G_N, -1],
+      'hyperbolicSpeedFromDistance: d must be ≥ 0 (the distance covered from rest); got d = -1 m',
+    ],
+    [
+      'hyperbolicCoordinateTimeFromDistance',
+      [0, 1],
+      'hyperbolicCoordinateTimeFromDistance: a0 must not be 0 when d > 0',
+    ],
     ['hyperbolicProperTimeFromDistance', [0, 1e-300], 'hyperbolicProperTimeFromDistance: a0 must not be 0 when d > 0'],
     ['hyperbolicTripCoordinateTime', [G_N, -5], 'hyperbolicTripCoordinateTime: d must be ≥ 0'],
     ['hyperbolicTripProperTime', [0, 4.5e11], 'hyperbolicTripProperTime: a0 must not be 0 when d > 0'],
     ['hyperbolicTripPeakSpeed', [8e-4, -4.5e11], 'hyperbolicTripPeakSpeed: d must be ≥ 0'],
-    ['hyperbolicSpeedAtProperTime', [8e-4, -1], 'hyperbolicSpeedAtProperTime: tau must be ≥ 0 (proper time since the start from rest); got tau = -1 s'],
-    ['hyperbolicCoordinateTimeAtProperTime', [1e20, 1e-6], 'hyperbolicCoordinateTimeAtProperTime: the result is outside the range'],
-    ['hyperbolicDistanceAtProperTime', [-1e20, 1e-6], 'hyperbolicDistanceAtProperTime: the result is outside the range'],
+    [
+      'hyperbolicSpeedAtProperTime',
+      [8e-4, -1],
+      'hyperbolicSpeedAtProperTime: tau must be ≥ 0 (proper time since the start from rest); got tau = -1 s',
+    ],
+    [
+      'hyperbolicCoordinateTimeAtProperTime',
+      [1e20, 1e-6],
+      'hyperbolicCoordinateTimeAtProperTime: the result is outside the range',
+    ],
+    [
+      'hyperbolicDistanceAtProperTime',
+      [-1e20, 1e-6],
+      'hyperbolicDistanceAtProperTime: the result is outside the range',
+    ],
     ['slipFactor', [3.225e-4, 0.999], 'slipFactor: gamma must be ≥ 1 (a Lorentz factor); got gamma = 0.999'],
-    ['transitionGamma', [0], 'transitionGamma: alpha_c must be > 0 (a ring with α_c ≤ 0 has no transition energy); got alpha_c = 0'],
+    [
+      'transitionGamma',
+      [0],
+      'transitionGamma: alpha_c must be > 0 (a ring with α_c ≤ 0 has no transition energy); got alpha_c = 0',
+    ],
     ['transitionGamma', [-0.01], 'got alpha_c = -0.01'],
   ];
 
@@ -300,7 +375,14 @@ describe('edges of the domain that make physical sense are accepted', () => {
     expect(call('thresholdKinetic', M_N, M_P, M_P + M_E)).toBe(0); // exothermic: no threshold
     expect(call('magneticRigidity', 1e-18, -1.602176634e-19)).toBeLessThan(0); // negative charges bend the other way
     expect(call('hyperbolicSpeed', -G_N, 1e7)).toBeLessThan(0); // acceleration in the negative direction
-    for (const name of ['hyperbolicSpeedFromDistance', 'hyperbolicCoordinateTimeFromDistance', 'hyperbolicProperTimeFromDistance', 'hyperbolicTripCoordinateTime', 'hyperbolicTripProperTime', 'hyperbolicTripPeakSpeed']) {
+    for (const name of [
+      'hyperbolicSpeedFromDistance',
+      'hyperbolicCoordinateTimeFromDistance',
+      'hyperbolicProperTimeFromDistance',
+      'hyperbolicTripCoordinateTime',
+      'hyperbolicTripProperTime',
+      'hyperbolicTripPeakSpeed',
+    ]) {
       expect(call(name, 0, 0), name).toBe(0); // no distance: no time, no speed, with or without acceleration
       expect(call(name, G_N, 0), name).toBe(0);
     }
@@ -310,10 +392,17 @@ describe('edges of the domain that make physical sense are accepted', () => {
     expect(call('hyperbolicSpeedAtProperTime', 0, 100)).toBe(0);
     expect(call('hyperbolicCoordinateTimeAtProperTime', 0, 100)).toBe(100); // no acceleration: lab time = proper time
     expect(call('hyperbolicDistanceAtProperTime', 0, 100)).toBe(0);
-    for (const name of ['hyperbolicSpeedAtProperTime', 'hyperbolicCoordinateTimeAtProperTime', 'hyperbolicDistanceAtProperTime']) expect(call(name, G_N, 0), name).toBe(0);
+    for (const name of [
+      'hyperbolicSpeedAtProperTime',
+      'hyperbolicCoordinateTimeAtProperTime',
+      'hyperbolicDistanceAtProperTime',
+    ])
+      expect(call(name, G_N, 0), name).toBe(0);
     expect(call('hyperbolicSpeedAtProperTime', -G_N, 1e7)).toBeLessThan(0); // acceleration in the negative direction
     expect(call('hyperbolicDistanceAtProperTime', -G_N, 1e7)).toBe(-call('hyperbolicDistanceAtProperTime', G_N, 1e7));
-    expect(call('hyperbolicCoordinateTimeAtProperTime', -G_N, 1e7)).toBe(call('hyperbolicCoordinateTimeAtProperTime', G_N, 1e7)); // times depend on |a0|
+    expect(call('hyperbolicCoordinateTimeAtProperTime', -G_N, 1e7)).toBe(
+      call('hyperbolicCoordinateTimeAtProperTime', G_N, 1e7),
+    ); // times depend on |a0|
     expect(call('slipFactor', -1e-3, 1)).toBe(-1.001); // negative momentum compaction, γ = 1
   });
 

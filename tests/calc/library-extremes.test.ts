@@ -60,7 +60,9 @@ describe('extreme finite inputs', () => {
         if (values.every((x) => typeof x === 'number' && Number.isFinite(x))) finite++;
         else bad.push(`${fn.name}(${args.join(', ')}) = ${String(result)}`);
       }
-      summary.push(`  ${fn.name.padEnd(34)} ${String(finite).padStart(6)} finite, ${String(refused).padStart(6)} refused`);
+      summary.push(
+        `  ${fn.name.padEnd(34)} ${String(finite).padStart(6)} finite, ${String(refused).padStart(6)} refused`,
+      );
     }
     console.log(['Extreme inputs (0, ±1e-300 … ±1e300; speeds at the edges):', ...summary].join('\n'));
     const byFunction = new Map<string, string[]>();
@@ -68,20 +70,25 @@ describe('extreme finite inputs', () => {
       const name = b.slice(0, b.indexOf('('));
       byFunction.set(name, [...(byFunction.get(name) ?? []), b]);
     }
-    expect([...byFunction].map(([name, list]) => `${list.length} × ${name}, e.g. ${list.slice(0, 3).join('; ')}`)).toEqual([]);
+    expect(
+      [...byFunction].map(([name, list]) => `${list.length} × ${name}, e.g. ${list.slice(0, 3).join('; ')}`),
+    ).toEqual([]);
   });
 });
 
 describe('the cases of the issue', () => {
   const engine = createSheetEngine();
-  const one = (source: string) => engine.evaluate([{ id: 'x', kind: 'calc', source }], { significantFigures: 6 }).cells[0];
+  const one = (source: string) =>
+    engine.evaluate([{ id: 'x', kind: 'calc', source }], { significantFigures: 6 }).cells[0];
   const kernel = (name: string) => LIBRARY.find((f) => f.name === name)!.kernel as (...a: number[]) => number;
 
   it('lengthContraction(1e302 m, 0.5) is 8.66e301 m, not NaN', () => {
     const ref = REFERENCES.lengthContraction(1e302, 0.5) as Dec;
     expect(ref.toExponential(2)).toBe('8.66e+301');
     expect(ulpError(kernel('lengthContraction')(1e302, 0.5), ref)).toBeLessThanOrEqual(0.5);
-    expect(ulpError(kernel('timeDilation')(1e302, 0.5), REFERENCES.timeDilation(1e302, 0.5) as Dec)).toBeLessThanOrEqual(0.5);
+    expect(
+      ulpError(kernel('timeDilation')(1e302, 0.5), REFERENCES.timeDilation(1e302, 0.5) as Dec),
+    ).toBeLessThanOrEqual(0.5);
     const cell = one('L = lengthContraction(1e302 m, 0.5) / (1 m)');
     expect(cell.ok).toBe(true);
     expect(ulpError(cell.statements[0].value!.number!, ref)).toBeLessThanOrEqual(0.5);
@@ -95,6 +102,8 @@ describe('the cases of the issue', () => {
     expect((REFERENCES.electronWavelength(1e-305) as Dec).toExponential(1)).toBe('3.9e+143');
     const cell = one('lambda = electronWavelength(1e-305 V) / (1 m)');
     expect(cell.ok).toBe(true);
-    expect(ulpError(cell.statements[0].value!.number!, REFERENCES.electronWavelength(1e-305) as Dec)).toBeLessThanOrEqual(1);
+    expect(
+      ulpError(cell.statements[0].value!.number!, REFERENCES.electronWavelength(1e-305) as Dec),
+    ).toBeLessThanOrEqual(1);
   });
 });

@@ -119,7 +119,8 @@ describe('velocity composition', () => {
         const composed = addVelocities(b1, b2);
         if (composed === BELOW_ONE || b12 === BELOW_ONE) return;
         const [e1, e2, e12] = [rapidity(b1), rapidity(b2), rapidity(b12)];
-        const tolerance = atanhSpread(b1) + atanhSpread(b2) + atanhSpread(b12) + ve * u * 2 + ulp(e1) + ulp(e2) + ulp(e12);
+        const tolerance =
+          atanhSpread(b1) + atanhSpread(b2) + atanhSpread(b12) + ve * u * 2 + ulp(e1) + ulp(e2) + ulp(e12);
         expect(Math.abs(e1 + e2 - e12)).toBeLessThanOrEqual(tolerance);
       }),
       { numRuns: 2000 },
@@ -146,7 +147,9 @@ describe('γ and its relatives', () => {
         const cosh = scale(add(ePlus, eMinus), 0.5);
         const gammaGap = Math.abs(sub(dd(gamma), cosh)[0]);
         const etaSpread = 0.5 * ulp(eta) * slack;
-        expect(gammaGap).toBeLessThanOrEqual(0.5 * ulp(gamma) + Math.sinh(Math.abs(eta)) * etaSpread + 2 ** -90 * gamma);
+        expect(gammaGap).toBeLessThanOrEqual(
+          0.5 * ulp(gamma) + Math.sinh(Math.abs(eta)) * etaSpread + 2 ** -90 * gamma,
+        );
         const D = dopplerFactor(b);
         const dopplerGap = Math.abs(sub(dd(D), ePlus)[0]);
         expect(dopplerGap).toBeLessThanOrEqual(0.5 * ulp(D) + D * etaSpread * slack + 2 ** -90 * D);
@@ -164,7 +167,9 @@ describe('γ and its relatives', () => {
     // run's V8; if a future V8 computes it better, this line says so and can go).
     expect(Math.abs(gamma - Math.cosh(eta))).toBeGreaterThan(Math.sinh(eta) * 0.5 * ulp(eta) + 1.5 * ulp(gamma));
     // γ̂ within 0.5 ulp of cosh of the exact rapidity, and η̂'s rounding moves cosh by at most 1.43 ulp(γ) here.
-    expect(Math.abs(sub(dd(gamma), cosh)[0])).toBeLessThanOrEqual(0.5 * ulp(gamma) + Math.sinh(eta) * 0.5 * ulp(eta) * (1 + 2 ** -20));
+    expect(Math.abs(sub(dd(gamma), cosh)[0])).toBeLessThanOrEqual(
+      0.5 * ulp(gamma) + Math.sinh(eta) * 0.5 * ulp(eta) * (1 + 2 ** -20),
+    );
   });
 
   it('γ − 1, 1/γ − 1 and βγ agree with γ', () => {
@@ -174,7 +179,9 @@ describe('γ and its relatives', () => {
         // (γ − 1) + 1: γ − 1 within u·(γ − 1), the sum and γ each within 0.5 ulp(γ).
         expect(Math.abs(gammaMinusOne(b) + 1 - gamma)).toBeLessThanOrEqual(1.5 * ulp(gamma));
         // 1/γ − 1 = −(γ − 1)/γ: u on the left, three roundings (3u) on the right.
-        expect(Math.abs(clockRateOffset(b) + gammaMinusOne(b) / gamma)).toBeLessThanOrEqual(4 * u * Math.abs(clockRateOffset(b)));
+        expect(Math.abs(clockRateOffset(b) + gammaMinusOne(b) / gamma)).toBeLessThanOrEqual(
+          4 * u * Math.abs(clockRateOffset(b)),
+        );
         // (βγ)² + 1 = γ²: each square carries 2u from its operand and u of its own, the sum u more.
         const bg = betaGamma(b);
         expect(Math.abs(bg * bg + 1 - gamma * gamma)).toBeLessThanOrEqual(7 * u * gamma * gamma);
@@ -235,10 +242,14 @@ describe('energy and momentum', () => {
         // 1u to 7u below, inside the kernel's 8u rounding allowance that reads it as at rest.
         // E1 = T + m_a c² then carries three roundings, moving √s by at most 1.5u.
         const atRest = mc2(mb) * (1 - 4 * u);
-        expect(Math.abs(sqrtSFixedTarget(T, ma, mb) / sqrtSCollider(T + mc2(ma), atRest, ma, mb) - 1)).toBeLessThanOrEqual(4 * u);
+        expect(
+          Math.abs(sqrtSFixedTarget(T, ma, mb) / sqrtSCollider(T + mc2(ma), atRest, ma, mb) - 1),
+        ).toBeLessThanOrEqual(4 * u);
         // At the threshold √s = Σm_f c²: T_th rounds once (moving √s by less than u), m_f·c² twice.
         const mf = (ma + mb) * (1 + excess);
-        expect(Math.abs(sqrtSFixedTarget(thresholdKinetic(ma, mb, mf), ma, mb) / mc2(mf) - 1)).toBeLessThanOrEqual(4 * u);
+        expect(Math.abs(sqrtSFixedTarget(thresholdKinetic(ma, mb, mf), ma, mb) / mc2(mf) - 1)).toBeLessThanOrEqual(
+          4 * u,
+        );
       }),
       { numRuns: 2000 },
     );
@@ -257,7 +268,9 @@ describe('hyperbolic motion', () => {
         const t = (ww * C) / Math.abs(a);
         const beta = hyperbolicSpeed(a, t);
         const eta = (a * hyperbolicProperTime(a, t)) / C;
-        expect(Math.abs(beta - Math.tanh(eta))).toBeLessThanOrEqual(1.5 * u * Math.abs(eta) * (1 - beta * beta) + 1.5 * ulp(beta));
+        expect(Math.abs(beta - Math.tanh(eta))).toBeLessThanOrEqual(
+          1.5 * u * Math.abs(eta) * (1 - beta * beta) + 1.5 * ulp(beta),
+        );
       }),
       { numRuns: 3000 },
     );
@@ -342,23 +355,29 @@ describe('Lorentz transformation and aberration', () => {
     // Each coordinate of the first boost is within 0.5 ulp; the second boost multiplies those errors by
     // at most γ(1 + β) ≤ 2γ, with |t′| + |x′|/c ≤ γ(1 + β)(|t| + |x|/c): within about 4γ²u(|t| + |x|/c).
     fc.assert(
-      fc.property(event, speed.filter((b) => Math.abs(b) < 1 - 1e-6), ([t, ratio], b) => {
-        const x = ratio * C * Math.abs(t);
-        const [t1, x1] = lorentzBoost(t, x, b);
-        const [t2, x2] = lorentzBoost(t1, x1, -b);
-        const g = lorentzFactor(b);
-        const scale = Math.abs(t) + Math.abs(x) / C;
-        expect(Math.abs(t2 - t)).toBeLessThanOrEqual(4 * g * g * u * scale);
-        expect(Math.abs(x2 - x) / C).toBeLessThanOrEqual(4 * g * g * u * scale);
-        const s = (ct: number, xx: number) => ct * ct - xx * xx;
-        expect(Math.abs(s(C * t1, x1) - s(C * t, x))).toBeLessThanOrEqual(8 * g * g * u * (C * scale) ** 2);
-      }),
+      fc.property(
+        event,
+        speed.filter((b) => Math.abs(b) < 1 - 1e-6),
+        ([t, ratio], b) => {
+          const x = ratio * C * Math.abs(t);
+          const [t1, x1] = lorentzBoost(t, x, b);
+          const [t2, x2] = lorentzBoost(t1, x1, -b);
+          const g = lorentzFactor(b);
+          const scale = Math.abs(t) + Math.abs(x) / C;
+          expect(Math.abs(t2 - t)).toBeLessThanOrEqual(4 * g * g * u * scale);
+          expect(Math.abs(x2 - x) / C).toBeLessThanOrEqual(4 * g * g * u * scale);
+          const s = (ct: number, xx: number) => ct * ct - xx * xx;
+          expect(Math.abs(s(C * t1, x1) - s(C * t, x))).toBeLessThanOrEqual(8 * g * g * u * (C * scale) ** 2);
+        },
+      ),
       { numRuns: 3000 },
     );
   });
 
   // Angles from 1e-300 rad up (a subnormal angle's image may round to 0 and lose its sign).
-  const angle = fc.double({ min: -Math.PI, max: Math.PI, noNaN: true }).filter((th) => th === 0 || Math.abs(th) >= 1e-300);
+  const angle = fc
+    .double({ min: -Math.PI, max: Math.PI, noNaN: true })
+    .filter((th) => th === 0 || Math.abs(th) >= 1e-300);
 
   it('aberration into the moving frame and back returns the angle', () => {
     // θ′ is within 0.5 ulp; the inverse map's slope is at most max(D, 1/D), so θ comes back within

@@ -201,7 +201,11 @@ describe('satellite clocks and signals: IS-GPS-200, Ashby (2003), IERS Conventio
     // Common practice: for a height h ≪ R, (GM/R²)·h/c² (1 − h/R); about 1 mm above the equator (2⁻¹⁰ m,
     // so that R_E + h is exact) is 1.07e-19, which 1/r_ref − 1/r would get with some 7 digits lost.
     const h = 2 ** -10;
-    expectRelative(gravitationalRateOffset(GM_E, R_E + h, R_E), ((GM_E / (R_E * R_E)) * h) / (C * C) / (1 + h / R_E), 1e-12);
+    expectRelative(
+      gravitationalRateOffset(GM_E, R_E + h, R_E),
+      ((GM_E / (R_E * R_E)) * h) / (C * C) / (1 + h / R_E),
+      1e-12,
+    );
     // The Sun's surface against infinity: GM_S/(R_S c²) = 2.12e-6 (from memory: the solar gravitational redshift, 636 m/s).
     expectQuoted(gravitationalRateOffset(1.32712440041e20, 1e30, 6.957e8), 2.12e-6, 1e-8); // IAU 2015 B3: nominal solar radius 6.957e8 m
     expect(() => gravitationalRateOffset(GM_E, 1e-3, 1)).toThrow(/weak field/);
@@ -252,7 +256,11 @@ describe('electron optics and matter waves', () => {
     expectQuoted(relativisticVoltage(200e3) / 1e3, 239.14, 0.01); // from memory: Reimer & Kohl, TEM, 5th ed., table 2.2
     expectQuoted(relativisticVoltage(300e3) / 1e3, 388.06, 0.01); // from memory: Reimer & Kohl, TEM, 5th ed., table 2.2
     // Common practice: p = √(2mₑeU*) is the relativistic momentum, so h/√(2mₑeU*) is the electron wavelength.
-    expectRelative(H_PLANCK / Math.sqrt(2 * M_E * E_CHARGE * relativisticVoltage(200e3)), electronWavelength(200e3), 1e-15);
+    expectRelative(
+      H_PLANCK / Math.sqrt(2 * M_E * E_CHARGE * relativisticVoltage(200e3)),
+      electronWavelength(200e3),
+      1e-15,
+    );
   });
 
   it('the interaction constant is 0.924, 0.729 and 0.653 rad/(kV·Å) at 100, 200 and 300 kV', () => {
@@ -262,7 +270,11 @@ describe('electron optics and matter waves', () => {
     // Reimer & Kohl §3.1: σ = (2π/(λU)) (mₑc² + eU)/(2mₑc² + eU).
     const U = 300e3;
     const rest = M_E * C * C;
-    expectRelative(interactionConstant(U), ((2 * Math.PI) / (electronWavelength(U) * U)) * ((rest + E_CHARGE * U) / (2 * rest + E_CHARGE * U)), 1e-14);
+    expectRelative(
+      interactionConstant(U),
+      ((2 * Math.PI) / (electronWavelength(U) * U)) * ((rest + E_CHARGE * U) / (2 * rest + E_CHARGE * U)),
+      1e-14,
+    );
   });
 
   it('a thermal neutron of 25.3 meV has λ = 1.798 Å; an electron’s λ is electronWavelength; a 1 eV photon’s is hc/(1 eV) = 1239.84 nm', () => {
@@ -283,7 +295,11 @@ describe('rings and decays', () => {
   it('the critical energy of electrons is 2.218 keV·E³[GeV]/ρ[m]', () => {
     // from memory: Wiedemann, Particle Accelerator Physics, ch. 24: ε_c[keV] = 2.218 E³[GeV]/ρ[m] for electrons.
     expectQuoted(synchrotronCriticalEnergy(GeV, 1, M_E) / keV, 2.218, 1e-3);
-    expectRelative(synchrotronCriticalEnergy(3 * GeV, 7, M_E), (synchrotronCriticalEnergy(GeV, 1, M_E) * 27) / 7, 1e-15); // common practice: E³/ρ scaling
+    expectRelative(
+      synchrotronCriticalEnergy(3 * GeV, 7, M_E),
+      (synchrotronCriticalEnergy(GeV, 1, M_E) * 27) / 7,
+      1e-15,
+    ); // common practice: E³/ρ scaling
   });
 
   it('two-body decay momenta: π⁺ → μ⁺ν 29.79, K⁺ → μ⁺ν 235.5, Λ → pπ⁻ 101 MeV/c', () => {
@@ -304,7 +320,11 @@ describe('rings and decays', () => {
     const T = 250 * MeV;
     const gamma = 1 + T / (M_P * C * C);
     expectRelative(cyclotronFrequency(E_CHARGE, 1, M_P, T), cyclotronFrequency(E_CHARGE, 1, M_P, 0) / gamma, 1e-15); // Jackson §12.2: ω = qB/(γm)
-    expectRelative(cyclotronFrequency(-6 * E_CHARGE, -2, 12 * 1.66053906892e-27, 0), cyclotronFrequency(6 * E_CHARGE, 2, 12 * 1.66053906892e-27, 0), 0); // common practice: signs dropped
+    expectRelative(
+      cyclotronFrequency(-6 * E_CHARGE, -2, 12 * 1.66053906892e-27, 0),
+      cyclotronFrequency(6 * E_CHARGE, 2, 12 * 1.66053906892e-27, 0),
+      0,
+    ); // common practice: signs dropped
   });
 
   it('ΔE/E = β² Δp/p for the total energy, both ways', () => {
@@ -318,7 +338,9 @@ describe('rings and decays', () => {
     const beta = k2(lib.speedFromKinetic)(250 * MeV, M_P);
     const E = 250 * MeV + M_P * C * C;
     const dT = 1e-6 * E;
-    const dpOverP = (momentumFromKinetic(250 * MeV + dT, M_P) - momentumFromKinetic(250 * MeV - dT, M_P)) / (2 * momentumFromKinetic(250 * MeV, M_P));
+    const dpOverP =
+      (momentumFromKinetic(250 * MeV + dT, M_P) - momentumFromKinetic(250 * MeV - dT, M_P)) /
+      (2 * momentumFromKinetic(250 * MeV, M_P));
     expectRelative(toP(dT / E, beta), dpOverP, 1e-8);
     expect(() => toP(1e-3, 0)).toThrow(/must move/);
   });
@@ -664,7 +686,10 @@ describe('the library as a product interface', () => {
 
   it('lists the required functions first, in order, with their exact names and parameters', () => {
     expect(LIBRARY.slice(0, required.length).map((f) => f.name)).toEqual(required);
-    const signature = (name: string) => LIBRARY.find((f) => f.name === name)!.params.map((p) => `${p.name}:${p.kind}`).join(',');
+    const signature = (name: string) =>
+      LIBRARY.find((f) => f.name === name)!
+        .params.map((p) => `${p.name}:${p.kind}`)
+        .join(',');
     expect(signature('addVelocities')).toBe('u:speed,v:speed');
     expect(signature('timeDilation')).toBe('dtau:time,v:speed');
     expect(signature('decayLength')).toBe('p:momentum,m:mass,tau:time');
@@ -680,12 +705,15 @@ describe('the library as a product interface', () => {
         expect(fn.doc[field].trim().length, `${fn.name}.doc.${field}`).toBeGreaterThan(0);
       }
       expect(fn.kernel.length, `${fn.name} kernel arity`).toBe(fn.params.length);
-      expect(fn.doc.example.startsWith(fn.name) || fn.doc.example.includes(`${fn.name}(`), `${fn.name} example`).toBe(true);
+      expect(fn.doc.example.startsWith(fn.name) || fn.doc.example.includes(`${fn.name}(`), `${fn.name} example`).toBe(
+        true,
+      );
       const file = fn.name.replace(/[A-Z]/g, (ch) => `-${ch.toLowerCase()}`);
       const text = readFileSync(path.join(folder, `${file}.ts`), 'utf8');
       const jsdoc = new RegExp(`/\\*\\*[\\s\\S]*?\\*/\\s*export const ${fn.name}: CalcFunction`);
       const block = jsdoc.exec(text)?.[0] ?? '';
-      for (const word of ['Formula', 'Domain', 'Example', 'Source']) expect(block, `${fn.name} JSDoc ${word}`).toContain(`${word}:`);
+      for (const word of ['Formula', 'Domain', 'Example', 'Source'])
+        expect(block, `${fn.name} JSDoc ${word}`).toContain(`${word}:`);
     }
   });
 });

@@ -8,7 +8,8 @@ import { cleanMessage, didYouMean, isInternalMessage } from '../../lib/calc/mess
 import type { CellInput } from '../../lib/calc/types';
 
 const engine = createSheetEngine();
-const cells = (...sources: string[]): CellInput[] => sources.map((source, i) => ({ id: `c${i + 1}`, kind: 'calc', source }));
+const cells = (...sources: string[]): CellInput[] =>
+  sources.map((source, i) => ({ id: `c${i + 1}`, kind: 'calc', source }));
 const run = (...sources: string[]) => engine.evaluate(cells(...sources), { significantFigures: 6 });
 /** The error of the last statement of a one-cell sheet. */
 const errorOf = (source: string): string => {
@@ -18,7 +19,8 @@ const errorOf = (source: string): string => {
   return error!;
 };
 /** Words of mathjs's internals that must never show. */
-const INTERNAL_WORDS = /Scalar|typed|Unexpected type|Too (few|many) arguments|expected: |actual: |index: |is no angle|Units do not match|yg\b|function cot|\(char \d+\)|TypeError|Cannot compare units|DenseMatrix|identifier/;
+const INTERNAL_WORDS =
+  /Scalar|typed|Unexpected type|Too (few|many) arguments|expected: |actual: |index: |is no angle|Units do not match|yg\b|function cot|\(char \d+\)|TypeError|Cannot compare units|DenseMatrix|identifier/;
 const clean = (message: string) => {
   expect(message).not.toMatch(INTERNAL_WORDS);
   expect(isInternalMessage(message)).toBe(false);
@@ -119,7 +121,23 @@ describe('more of mathjs’s errors, in words', () => {
   });
 
   it('no statement of a list of failing ones shows mathjs’s words', () => {
-    const failing = ['1 m + true', 'sum(1 m, 2)', 'mod(5 m, 2)', '"abc" + 1', 'det([1 m, 2])', 'concat(1, 2)', 'log(1 MeV, 2 s)', 'sinh(1 kg)', '1 MeV * 2 + 3', 'min(1 m, 2)', 'round(1 m)', 'atan2(1 m, 1 s)', 'cross([1 m], [2])', 'x_2 = [1 m, 2 s]\nsum(x_2)', 'hypot(1 m, 1 s)'];
+    const failing = [
+      '1 m + true',
+      'sum(1 m, 2)',
+      'mod(5 m, 2)',
+      '"abc" + 1',
+      'det([1 m, 2])',
+      'concat(1, 2)',
+      'log(1 MeV, 2 s)',
+      'sinh(1 kg)',
+      '1 MeV * 2 + 3',
+      'min(1 m, 2)',
+      'round(1 m)',
+      'atan2(1 m, 1 s)',
+      'cross([1 m], [2])',
+      'x_2 = [1 m, 2 s]\nsum(x_2)',
+      'hypot(1 m, 1 s)',
+    ];
     for (const source of failing) {
       const statements = run(source).cells[0].statements;
       const error = statements[statements.length - 1].error;
@@ -128,7 +146,13 @@ describe('more of mathjs’s errors, in words', () => {
   });
 
   it('cleanMessage says a sweep row’s mathjs error in words', () => {
-    expect(cleanMessage(new TypeError('Unexpected type of argument in function subtractScalar (expected: Unit, actual: number, index: 1)'))).not.toMatch(INTERNAL_WORDS);
+    expect(
+      cleanMessage(
+        new TypeError(
+          'Unexpected type of argument in function subtractScalar (expected: Unit, actual: number, index: 1)',
+        ),
+      ),
+    ).not.toMatch(INTERNAL_WORDS);
     expect(cleanMessage(new Error('speedFromKinetic: T must be ≥ 0'))).toBe('speedFromKinetic: T must be ≥ 0');
   });
 });

@@ -10,7 +10,8 @@ import { extractUnitLiterals } from '../../lib/calc/unit-literals';
 import type { CellInput } from '../../lib/calc/types';
 
 const engine = createSheetEngine();
-const cells = (...sources: string[]): CellInput[] => sources.map((source, i) => ({ id: `c${i + 1}`, kind: 'calc', source }));
+const cells = (...sources: string[]): CellInput[] =>
+  sources.map((source, i) => ({ id: `c${i + 1}`, kind: 'calc', source }));
 const run = (...sources: string[]) => engine.evaluate(cells(...sources), { significantFigures: 6 });
 
 describe('Greek names', () => {
@@ -91,7 +92,10 @@ describe("a sheet's definition takes precedence over a built-in function of that
 
 describe('units joined by a space after a number (`1 T m`)', () => {
   it('reads 1 T m as the unit T·m', () => {
-    expect(extractUnitLiterals('B_rho = 1 T m', (n) => n === 'T' || n === 'm').literals[0]).toMatchObject({ unit: 'T*m', spacedNames: ['m'] });
+    expect(extractUnitLiterals('B_rho = 1 T m', (n) => n === 'T' || n === 'm').literals[0]).toMatchObject({
+      unit: 'T*m',
+      spacedNames: ['m'],
+    });
     const r = run('B_rho = 1 T m');
     expect(r.cells[0].statements[0].value).toMatchObject({ number: 1, unit: 'T m' });
   });

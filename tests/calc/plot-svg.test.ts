@@ -42,8 +42,22 @@ const curve: PlotData = {
   y: { label: 'Brho', unit: 'T m' },
   series: [
     // Values for the picture only (common practice, no published source): two rising series.
-    { name: 'protons', points: [[70, 1.2], [150, 1.83], [250, 2.43]] },
-    { name: 'helium ions', points: [[70, 2.4], [150, 3.66], [250, 4.86]] },
+    {
+      name: 'protons',
+      points: [
+        [70, 1.2],
+        [150, 1.83],
+        [250, 2.43],
+      ],
+    },
+    {
+      name: 'helium ions',
+      points: [
+        [70, 2.4],
+        [150, 3.66],
+        [250, 4.86],
+      ],
+    },
   ],
 };
 
@@ -69,7 +83,8 @@ const scales = (data: PlotData) => {
   return { x: figure.scale('x'), y: figure.scale('y') };
 };
 
-const text = (root: Element, label: string) => [...root.querySelectorAll(`g[aria-label="${label}"] text`)].map((t) => t.textContent ?? '').join(' ');
+const text = (root: Element, label: string) =>
+  [...root.querySelectorAll(`g[aria-label="${label}"] text`)].map((t) => t.textContent ?? '').join(' ');
 
 describe('the space-time diagram of hyperbolic motion', () => {
   const svg = parse(plotSvg(spacetime, OPTIONS));
@@ -89,7 +104,7 @@ describe('the space-time diagram of hyperbolic motion', () => {
     expect(svg.getAttribute('font-family')).toContain('Source Sans 3');
   });
 
-  it('draws the worldline through the figure\'s scales, point by point', () => {
+  it("draws the worldline through the figure's scales, point by point", () => {
     const paths = [...svg.querySelectorAll('path[aria-label="series worldline at 25 m/s²"]')];
     expect(paths).toHaveLength(1);
     const drawn = pathPoints(paths[0].getAttribute('d')!);
@@ -177,7 +192,10 @@ describe('a curve plot', () => {
   it('tells series apart by colour, dash pattern and marker, and names them in a legend', () => {
     const a = svg.querySelector('path[aria-label="series protons"]')!;
     const b = svg.querySelector('path[aria-label="series helium ions"]')!;
-    const style = (p: Element) => ({ stroke: p.parentElement!.getAttribute('stroke'), dash: p.parentElement!.getAttribute('stroke-dasharray') });
+    const style = (p: Element) => ({
+      stroke: p.parentElement!.getAttribute('stroke'),
+      dash: p.parentElement!.getAttribute('stroke-dasharray'),
+    });
     expect(style(a).stroke).toBe(SERIES_COLORS[0]);
     expect(style(b).stroke).toBe(SERIES_COLORS[1]);
     expect(style(a).dash).not.toBe(style(b).dash);

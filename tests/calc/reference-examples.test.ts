@@ -22,11 +22,26 @@ function statementsOf(source: string, options: Partial<EvaluateOptions> = {}): S
   return engine.evaluate(cells, { significantFigures: 15, ...options }).cells[0].statements;
 }
 
-const SUPERSCRIPT: Record<string, string> = { '⁰': '0', '¹': '1', '²': '2', '³': '3', '⁴': '4', '⁵': '5', '⁶': '6', '⁷': '7', '⁸': '8', '⁹': '9', '⁻': '-' };
+const SUPERSCRIPT: Record<string, string> = {
+  '⁰': '0',
+  '¹': '1',
+  '²': '2',
+  '³': '3',
+  '⁴': '4',
+  '⁵': '5',
+  '⁶': '6',
+  '⁷': '7',
+  '⁸': '8',
+  '⁹': '9',
+  '⁻': '-',
+};
 
 /** A number as the engine displays it ("−2.248 443 44 × 10⁸ m") or as a reference writes it ("-2.24844344e8 m"): value and unit. */
 function parseQuantity(text: string): { value: number; digits: number; unit: string } {
-  const t = text.trim().replace(/[\u202f\u2009]/g, '').replace(/−/g, '-');
+  const t = text
+    .trim()
+    .replace(/[\u202f\u2009]/g, '')
+    .replace(/−/g, '-');
   const m = /^(-?\d+(?:\.\d+)?)(?:(?:e|E)([+-]?\d+)|\s*×\s*10([⁰¹²³⁴⁵⁶⁷⁸⁹⁻]+))?\s*(.*)$/.exec(t);
   if (!m) throw new Error(`not a number with a unit: ${text}`);
   const exponent = m[2] ?? (m[3] ? [...m[3]].map((c) => SUPERSCRIPT[c]).join('') : '0');
@@ -40,7 +55,10 @@ function documented(result: string): string {
 }
 
 /** Does the engine's value (number in unit) equal the documented one to the digits documented? */
-function agrees(actual: { value: number; unit: string | null }, doc: { value: number; digits: number; unit: string }): { ok: boolean; inDocUnit: number } {
+function agrees(
+  actual: { value: number; unit: string | null },
+  doc: { value: number; digits: number; unit: string },
+): { ok: boolean; inDocUnit: number } {
   let inDocUnit = actual.value;
   if (doc.unit || actual.unit) {
     if (!doc.unit || !actual.unit) return { ok: false, inDocUnit: NaN };
@@ -50,7 +68,10 @@ function agrees(actual: { value: number; unit: string | null }, doc: { value: nu
   const lastDigit = 10 ** (Math.floor(Math.log10(Math.abs(doc.value))) - doc.digits + 1);
   // Rounded to the documented digits, the value is the documented one (half a unit in the last
   // documented digit, and a few ulp for the decimal-to-binary conversions).
-  return { ok: Math.abs(inDocUnit - doc.value) <= 0.5 * lastDigit * (1 + 1e-9) + 4 * Number.EPSILON * Math.abs(doc.value), inDocUnit };
+  return {
+    ok: Math.abs(inDocUnit - doc.value) <= 0.5 * lastDigit * (1 + 1e-9) + 4 * Number.EPSILON * Math.abs(doc.value),
+    inDocUnit,
+  };
 }
 
 function scalarOf(value: DisplayValue): { value: number; unit: string | null } {
@@ -86,7 +107,10 @@ describe('every library function’s documented example gives its documented res
         return;
       }
       const check = agrees(scalarOf(last.value!), parseQuantity(doc));
-      expect(check.ok, `${f.name}: shown ${last.value!.text} (${check.inDocUnit} in the documented unit) against ${doc}`).toBe(true);
+      expect(
+        check.ok,
+        `${f.name}: shown ${last.value!.text} (${check.inDocUnit} in the documented unit) against ${doc}`,
+      ).toBe(true);
     });
   }
 });
@@ -110,12 +134,25 @@ describe('the naming examples of the reference page', () => {
 describe('the study statements’ examples', () => {
   // A cited result as the server resolves it (lib/sheets/references.ts): an issued revision's value.
   const references = [
-    { sheet: 'TPT2-CALC-0003', revision: 'B', name: 'Brho', value: { number: 2.4321, unit: 'T m', uncertainty: null }, error: null, status: 'current' as const, supersededBy: null, title: 'Gantry 2 rigidity', versionSha256: 'a'.repeat(64) },
+    {
+      sheet: 'TPT2-CALC-0003',
+      revision: 'B',
+      name: 'Brho',
+      value: { number: 2.4321, unit: 'T m', uncertainty: null },
+      error: null,
+      status: 'current' as const,
+      supersededBy: null,
+      title: 'Gantry 2 rigidity',
+      versionSha256: 'a'.repeat(64),
+    },
   ];
   for (const d of STUDY_FUNCTION_DOCS) {
     it(`${d.name}: ${d.example}`, () => {
       const setup = STUDY_EXAMPLE_SETUP[d.name];
-      const statements = statementsOf(setup ? `${setup}\n${d.example}` : d.example, { significantFigures: 6, references });
+      const statements = statementsOf(setup ? `${setup}\n${d.example}` : d.example, {
+        significantFigures: 6,
+        references,
+      });
       for (const st of statements) expect(st.error, st.source).toBeNull();
     });
   }

@@ -33,7 +33,10 @@ export function exact(x: number): Dec {
     exponent = biased - 1075;
   }
   // x = mantissa · 2^exponent = mantissa · 5^−exponent · 10^exponent when exponent < 0.
-  const text = exponent >= 0 ? (mantissa << BigInt(exponent)).toString() : `${(mantissa * 5n ** BigInt(-exponent)).toString()}e${exponent}`;
+  const text =
+    exponent >= 0
+      ? (mantissa << BigInt(exponent)).toString()
+      : `${(mantissa * 5n ** BigInt(-exponent)).toString()}e${exponent}`;
   return new D(negative ? `-${text}` : text);
 }
 
@@ -80,7 +83,12 @@ export const REFERENCES: Record<string, Ref> = {
   decayLength: (p, m, tau) => exact(p).mul(exact(tau)).div(exact(m)),
   electronWavelength: (U) => {
     const eU = REF_E.mul(exact(U));
-    return REF_H.div(TWO.mul(REF_ME).mul(eU).mul(ONE.plus(eU.div(TWO.mul(REF_ME).mul(C2)))).sqrt());
+    return REF_H.div(
+      TWO.mul(REF_ME)
+        .mul(eU)
+        .mul(ONE.plus(eU.div(TWO.mul(REF_ME).mul(C2))))
+        .sqrt(),
+    );
   },
   dopplerFactor: (v) => {
     const b = exact(v);
@@ -125,7 +133,11 @@ export const REFERENCES: Record<string, Ref> = {
   thresholdKinetic: (mBeam, mTarget, mProducts) => {
     const sumInitial = exact(mBeam).plus(exact(mTarget));
     const mf = exact(mProducts);
-    const T = mf.mul(mf).minus(sumInitial.mul(sumInitial)).mul(C2).div(TWO.mul(exact(mTarget)));
+    const T = mf
+      .mul(mf)
+      .minus(sumInitial.mul(sumInitial))
+      .mul(C2)
+      .div(TWO.mul(exact(mTarget)));
     return T.isNegative() ? new D(0) : T;
   },
   timeOfFlight: (L, T, m) => exact(L).div(betaFromKinetic(exact(T), exact(m)).mul(REF_C)),
@@ -145,7 +157,10 @@ export const REFERENCES: Record<string, Ref> = {
   synchrotronLossPerTurn: (E, rho, m) => {
     const gamma = exact(E).div(exact(m).mul(C2));
     const beta = ONE.minus(ONE.div(gamma.mul(gamma))).sqrt();
-    return REF_E.mul(REF_E).mul(beta.pow(3)).mul(gamma.pow(4)).div(new D(3).mul(REF_EPSILON_0).mul(exact(rho)));
+    return REF_E.mul(REF_E)
+      .mul(beta.pow(3))
+      .mul(gamma.pow(4))
+      .div(new D(3).mul(REF_EPSILON_0).mul(exact(rho)));
   },
   betaGamma: (v) => {
     const b = exact(v);
@@ -169,20 +184,34 @@ export const REFERENCES: Record<string, Ref> = {
   speedFromKineticPerNucleon: (Tn, A, m) => betaFromKinetic(exact(Tn).mul(A), exact(m)),
   momentumFromKineticPerNucleon: (Tn, A, m) => momentumFromKineticRef(exact(Tn).mul(A), exact(m)),
   rigidityFromKineticPerNucleon: (Tn, A, m, q) => momentumFromKineticRef(exact(Tn).mul(A), exact(m)).div(exact(q)),
-  kineticPerNucleonFromRigidity: (Brho, A, m, q) => kineticFromMomentumRef(exact(Brho).mul(exact(q)).abs(), exact(m)).div(A),
+  kineticPerNucleonFromRigidity: (Brho, A, m, q) =>
+    kineticFromMomentumRef(exact(Brho).mul(exact(q)).abs(), exact(m)).div(A),
   kineticPerNucleonFromMomentum: (p, A, m) => kineticFromMomentumRef(exact(p), exact(m)).div(A),
   // Satellite timing and spaceflight. GM_E (IERS 2010) is an integer, exact as a double; L_G (IAU 2000
   // B1.9) and ω_E (IS-GPS-200) are taken as their decimal values.
-  gravitationalRateOffset: (GM, r, ref) => exact(GM).div(C2).mul(ONE.div(exact(ref)).minus(ONE.div(exact(r)))),
+  gravitationalRateOffset: (GM, r, ref) =>
+    exact(GM)
+      .div(C2)
+      .mul(ONE.div(exact(ref)).minus(ONE.div(exact(r)))),
   orbitClockRateOffset: (a) => {
     const x = new D('3.986004418e14').div(exact(a).mul(C2));
     return new D('6.969290134e-10').minus(x).plus(ONE.minus(x).sqrt().minus(1));
   },
-  eccentricityClockCorrection: (a, e, E) => new D('3.986004418e14').sqrt().mul(-2).div(C2).mul(exact(e)).mul(exact(a).sqrt()).mul(D.sin(exact(E))),
+  eccentricityClockCorrection: (a, e, E) =>
+    new D('3.986004418e14')
+      .sqrt()
+      .mul(-2)
+      .div(C2)
+      .mul(exact(e))
+      .mul(exact(a).sqrt())
+      .mul(D.sin(exact(E))),
   sagnacDelay: (A) => new D('7.2921151467e-5').mul(2).mul(exact(A)).div(C2),
   shapiroDelay: (GM, r1, r2, r12) => {
     const s = exact(r1).plus(exact(r2));
-    return exact(GM).mul(2).div(C2.mul(REF_C)).mul(D.ln(s.plus(exact(r12)).div(s.minus(exact(r12)))));
+    return exact(GM)
+      .mul(2)
+      .div(C2.mul(REF_C))
+      .mul(D.ln(s.plus(exact(r12)).div(s.minus(exact(r12)))));
   },
   massRatio: (dv, ve) => D.exp(D.atanh(exact(dv)).div(exact(ve))),
   relativisticVoltage: (U) => exact(U).mul(ONE.plus(REF_E.mul(exact(U)).div(TWO.mul(REF_ME).mul(C2)))),
@@ -192,19 +221,40 @@ export const REFERENCES: Record<string, Ref> = {
     const pc = T.mul(T.plus(TWO.mul(rest))).sqrt();
     return TWO.mul(D.acos(-1)).mul(REF_E).mul(rest.plus(T)).div(REF_H.mul(REF_C).mul(pc));
   },
-  wavelengthFromKinetic: (T, m) => REF_H.mul(REF_C).div(exact(T).mul(exact(T).plus(TWO.mul(exact(m)).mul(C2))).sqrt()),
+  wavelengthFromKinetic: (T, m) =>
+    REF_H.mul(REF_C).div(
+      exact(T)
+        .mul(exact(T).plus(TWO.mul(exact(m)).mul(C2)))
+        .sqrt(),
+    ),
   wavelengthFromMomentum: (p) => REF_H.div(exact(p)),
   synchrotronCriticalEnergy: (E, rho, m) => {
     const gamma = exact(E).div(exact(m).mul(C2));
-    return new D(3).mul(REF_H).mul(REF_C).div(new D(4).mul(D.acos(-1))).mul(gamma.pow(3)).div(exact(rho));
+    return new D(3)
+      .mul(REF_H)
+      .mul(REF_C)
+      .div(new D(4).mul(D.acos(-1)))
+      .mul(gamma.pow(3))
+      .div(exact(rho));
   },
   revolutionFrequency: (v, L) => exact(v).abs().mul(REF_C).div(exact(L)),
-  cyclotronFrequency: (q, B, m, T) => exact(q).abs().mul(exact(B).abs()).mul(C2).div(TWO.mul(D.acos(-1)).mul(exact(m).mul(C2).plus(exact(T)))),
+  cyclotronFrequency: (q, B, m, T) =>
+    exact(q)
+      .abs()
+      .mul(exact(B).abs())
+      .mul(C2)
+      .div(TWO.mul(D.acos(-1)).mul(exact(m).mul(C2).plus(exact(T)))),
   momentumSpreadFromEnergySpread: (x, v) => exact(x).div(exact(v).pow(2)),
   energySpreadFromMomentumSpread: (x, v) => exact(x).mul(exact(v).pow(2)),
   twoBodyDecayMomentum: (M, m1, m2) => {
     const [a, b, c] = [exact(M), exact(m1), exact(m2)];
-    return a.mul(a).minus(b.plus(c).pow(2)).mul(a.mul(a).minus(b.minus(c).pow(2))).sqrt().mul(REF_C).div(TWO.mul(a));
+    return a
+      .mul(a)
+      .minus(b.plus(c).pow(2))
+      .mul(a.mul(a).minus(b.minus(c).pow(2)))
+      .sqrt()
+      .mul(REF_C)
+      .div(TWO.mul(a));
   },
   // Constant proper acceleration by distance (Rindler 2006, ch. 3): γ = 1 + |a|d/c², textbook forms.
   hyperbolicSpeedFromDistance: (a0, d) => fromDistanceRef(a0, d).beta,
@@ -283,7 +333,8 @@ export function ulpError(result: number, ref: Dec): number {
 
 /** Worst ulp error of a kernel result (a number or a pair) against its reference. */
 export function errorOf(result: number | [number, number], ref: Dec | [Dec, Dec]): number {
-  if (Array.isArray(result) && Array.isArray(ref)) return Math.max(ulpError(result[0], ref[0]), ulpError(result[1], ref[1]));
+  if (Array.isArray(result) && Array.isArray(ref))
+    return Math.max(ulpError(result[0], ref[0]), ulpError(result[1], ref[1]));
   if (!Array.isArray(result) && !Array.isArray(ref)) return ulpError(result, ref);
   throw new Error('errorOf: result and reference differ in shape');
 }
@@ -321,7 +372,10 @@ export function betaGrid(perSide = 120, random = 60, seed = 1): number[] {
   const low = logSpace(-12, Math.log10(0.5), perSide);
   const high = logSpace(Math.log10(0.5), -15, perSide).map((d) => 1 - d);
   const lowRandom = Array.from({ length: random }, () => 10 ** (-12 + rand() * (12 + Math.log10(0.5))));
-  const highRandom = Array.from({ length: random }, () => 1 - 10 ** (Math.log10(0.5) - rand() * (15 + Math.log10(0.5))));
+  const highRandom = Array.from(
+    { length: random },
+    () => 1 - 10 ** (Math.log10(0.5) - rand() * (15 + Math.log10(0.5))),
+  );
   const edge = [1 - 2 ** -53, 1 - 2 ** -52, 1 - 3 * 2 ** -53, 1 - 1e-15, 0.6, 0.8, 0.5];
   return [...low, ...high, ...lowRandom, ...highRandom, ...edge];
 }
@@ -365,10 +419,12 @@ export function surveyCases(): Record<string, number[][]> {
 
   cases.gammaFromKinetic = kinetic.filter(([, m]) => m > 0);
   // Momentum-based: y = βγ = p/(mc) from 1e-12 to 1e12, and massless particles.
-  const momenta = [...logSpace(-12, 12, 240), ...Array.from({ length: 80 }, () => 10 ** (-12 + 24 * rand()))].map((y) => {
-    const m = pick(masses);
-    return [y * m * C_NUM, m];
-  });
+  const momenta = [...logSpace(-12, 12, 240), ...Array.from({ length: 80 }, () => 10 ** (-12 + 24 * rand()))].map(
+    (y) => {
+      const m = pick(masses);
+      return [y * m * C_NUM, m];
+    },
+  );
   cases.betaGammaFromMomentum = momenta;
   cases.speedFromMomentum = momenta;
   cases.kineticFromMomentum = [...momenta, [1e-18, 0], [3.3e-22, 0]];
@@ -417,12 +473,14 @@ export function surveyCases(): Record<string, number[][]> {
   });
 
   // Colliders: each beam's γ from 1 + 1e-12 to 1e12, masses including 0 (massless beams).
-  cases.sqrtSCollider = ratios.map((x) => {
-    const [m1, m2] = pick(pairs);
-    const E1 = (1 + x) * (m1 || M_E_KG) * C_NUM * C_NUM;
-    const E2 = (1 + pick(ratios)) * (m2 || M_E_KG) * C_NUM * C_NUM;
-    return [E1, E2, m1, m2];
-  }).filter(([E1, E2, m1, m2]) => exact(E1).gte(exact(m1).mul(C2)) && exact(E2).gte(exact(m2).mul(C2)));
+  cases.sqrtSCollider = ratios
+    .map((x) => {
+      const [m1, m2] = pick(pairs);
+      const E1 = (1 + x) * (m1 || M_E_KG) * C_NUM * C_NUM;
+      const E2 = (1 + pick(ratios)) * (m2 || M_E_KG) * C_NUM * C_NUM;
+      return [E1, E2, m1, m2];
+    })
+    .filter(([E1, E2, m1, m2]) => exact(E1).gte(exact(m1).mul(C2)) && exact(E2).gte(exact(m2).mul(C2)));
 
   // Thresholds: product mass excess from 1e-12 to 1e3 of the initial masses.
   cases.thresholdKinetic = logSpace(-12, 3, 120).map((d) => {
@@ -431,9 +489,12 @@ export function surveyCases(): Record<string, number[][]> {
   });
 
   // Aberration: angles from 1e-12 rad to π (log-spaced, uniform, and π − 10^-k), both signs.
-  const angles = [...logSpace(-12, Math.log10(Math.PI), 80), ...Array.from({ length: 60 }, () => Math.PI * rand()), ...logSpace(-12, 0, 40).map((d) => Math.PI - d), Math.PI].map(
-    (th) => Math.min(th, Math.PI),
-  );
+  const angles = [
+    ...logSpace(-12, Math.log10(Math.PI), 80),
+    ...Array.from({ length: 60 }, () => Math.PI * rand()),
+    ...logSpace(-12, 0, 40).map((d) => Math.PI - d),
+    Math.PI,
+  ].map((th) => Math.min(th, Math.PI));
   cases.aberrationAngle = signedBetas.map((b) => {
     const th = pick(angles);
     return [rand() < 0.5 ? -th : th, b];
@@ -447,10 +508,12 @@ export function surveyCases(): Record<string, number[][]> {
   });
 
   // Synchrotron loss: γ from 1 + 1e-12 to 1e7, electrons, muons and protons.
-  cases.synchrotronLossPerTurn = logSpace(-12, 7, 120).map((x) => {
-    const m = pick([M_E_KG, M_P_KG, M_MU_KG]);
-    return [(1 + x) * m * C_NUM * C_NUM, pick([7, 0.3, 3096.175, 2803.95]), m];
-  }).filter(([E, , m]) => exact(E).gte(exact(m).mul(C2)));
+  cases.synchrotronLossPerTurn = logSpace(-12, 7, 120)
+    .map((x) => {
+      const m = pick([M_E_KG, M_P_KG, M_MU_KG]);
+      return [(1 + x) * m * C_NUM * C_NUM, pick([7, 0.3, 3096.175, 2803.95]), m];
+    })
+    .filter(([E, , m]) => exact(E).gte(exact(m).mul(C2)));
 
   // Satellite timing and spaceflight (drawn after every grid above, which therefore stay as they were).
   const bodies = [3.986004418e14, 1.32712440041e20, 4.9028e12, 1e5];
@@ -463,7 +526,11 @@ export function surveyCases(): Record<string, number[][]> {
     })
     .filter(([GM, r, ref]) => weak(GM, r) && weak(GM, ref));
   cases.orbitClockRateOffset = [...logSpace(-9, 2.3, 160), 2.3, 0.49653].map((x) => [6_378_137 * (1 + x)]);
-  cases.eccentricityClockCorrection = logSpace(6, 9, 120).map((a) => [a, pick([1e-6, 0.01, 0.3, 0.9]), (rand() - 0.5) * 20]);
+  cases.eccentricityClockCorrection = logSpace(6, 9, 120).map((a) => [
+    a,
+    pick([1e-6, 0.01, 0.3, 0.9]),
+    (rand() - 0.5) * 20,
+  ]);
   cases.sagnacDelay = logSpace(0, 15, 60).map((A) => [rand() < 0.5 ? -A : A]);
   cases.shapiroDelay = logSpace(-12, 0, 160)
     .map((d) => {
@@ -493,15 +560,26 @@ export function surveyCases(): Record<string, number[][]> {
     })
     .filter(([E, , m]) => exact(E).gte(exact(m).mul(C2)));
   cases.revolutionFrequency = signedBetas.filter((b) => b !== 0).map((b) => [b, pick([1, 26_658.883, 0.3, 6.3e3])]);
-  cases.cyclotronFrequency = kinetic.map(([T, m]) => [pick([1.602176634e-19, -1.602176634e-19, 9.6e-19]), pick([1, 0.01, 12, -3]), m, T]);
-  cases.momentumSpreadFromEnergySpread = signedBetas.filter((b) => b !== 0).map((b) => [pick([1e-3, -2.5e-4, 0.1, 3e-7]), b]);
-  cases.energySpreadFromMomentumSpread = signedBetas.filter((b) => b !== 0).map((b) => [pick([1e-3, -2.5e-4, 0.1, 3e-7]), b]);
+  cases.cyclotronFrequency = kinetic.map(([T, m]) => [
+    pick([1.602176634e-19, -1.602176634e-19, 9.6e-19]),
+    pick([1, 0.01, 12, -3]),
+    m,
+    T,
+  ]);
+  cases.momentumSpreadFromEnergySpread = signedBetas
+    .filter((b) => b !== 0)
+    .map((b) => [pick([1e-3, -2.5e-4, 0.1, 3e-7]), b]);
+  cases.energySpreadFromMomentumSpread = signedBetas
+    .filter((b) => b !== 0)
+    .map((b) => [pick([1e-3, -2.5e-4, 0.1, 3e-7]), b]);
   // Two-body decays from just above threshold (M/(m1 + m2) − 1 from 1e-12) to far above, one product massless at times.
-  cases.twoBodyDecayMomentum = logSpace(-12, 4, 160).map((x) => {
-    const m1 = pick([M_E_KG, M_P_KG, M_MU_KG, 3.7e-26]);
-    const m2 = pick([0, M_E_KG, M_P_KG, M_MU_KG]);
-    return [(m1 + m2) * (1 + x), m1, m2];
-  }).filter(([M, m1, m2]) => exact(M).gte(exact(m1).plus(exact(m2))));
+  cases.twoBodyDecayMomentum = logSpace(-12, 4, 160)
+    .map((x) => {
+      const m1 = pick([M_E_KG, M_P_KG, M_MU_KG, 3.7e-26]);
+      const m2 = pick([0, M_E_KG, M_P_KG, M_MU_KG]);
+      return [(m1 + m2) * (1 + x), m1, m2];
+    })
+    .filter(([M, m1, m2]) => exact(M).gte(exact(m1).plus(exact(m2))));
   // Hyperbolic motion by distance: x = a0·d/c² = γ − 1 from 1e-12 to 1e6, several accelerations, both
   // directions; the trips cover twice the distance (so γ at the midpoint spans the same range).
   const xs = [...logSpace(-12, 6, 200), ...Array.from({ length: 60 }, () => 10 ** (-12 + 18 * rand()))];
@@ -519,10 +597,12 @@ export function surveyCases(): Record<string, number[][]> {
   const alphas = logSpace(-5, -1, 40);
   cases.slipFactor = [
     ...alphas.map((al) => [rand() < 0.2 ? -al : al, 10 ** (4 * rand())]),
-    ...logSpace(-12, -1, 120).map((eps) => {
-      const al = pick(alphas);
-      return [al, (1 / Math.sqrt(al)) * (rand() < 0.5 ? 1 + eps : 1 - eps)];
-    }).filter(([, g]) => g >= 1),
+    ...logSpace(-12, -1, 120)
+      .map((eps) => {
+        const al = pick(alphas);
+        return [al, (1 / Math.sqrt(al)) * (rand() < 0.5 ? 1 + eps : 1 - eps)];
+      })
+      .filter(([, g]) => g >= 1),
   ];
   cases.transitionGamma = logSpace(-12, 2, 120).map((al) => [al]);
 
@@ -538,7 +618,11 @@ export function surveyCases(): Record<string, number[][]> {
   ];
   // Every charge state from −1 to min(Z, 12), and Z: at least 50 samples.
   cases.ionMass = atoms.flatMap(([M, Z]) =>
-    [...Array.from({ length: Math.min(Z, 12) + 2 }, (_, i) => i - 1), ...(Z > 12 ? [Z] : [])].map((q) => [M, Z, q * 1.602176634e-19]),
+    [...Array.from({ length: Math.min(Z, 12) + 2 }, (_, i) => i - 1), ...(Z > 12 ? [Z] : [])].map((q) => [
+      M,
+      Z,
+      q * 1.602176634e-19,
+    ]),
   );
   const ions: Array<[number, number, number]> = [
     [1, 1.67262192595e-27, 1],
@@ -556,7 +640,12 @@ export function surveyCases(): Record<string, number[][]> {
   cases.gammaFromKineticPerNucleon = perNucleon.map(([Tn, A, m]) => [Tn, A, m]);
   cases.speedFromKineticPerNucleon = perNucleon.map(([Tn, A, m]) => [Tn, A, m]);
   cases.momentumFromKineticPerNucleon = perNucleon.map(([Tn, A, m]) => [Tn, A, m]);
-  cases.rigidityFromKineticPerNucleon = perNucleon.map(([Tn, A, m, z]) => [Tn, A, m, (rand() < 0.5 ? -z : z) * 1.602176634e-19]);
+  cases.rigidityFromKineticPerNucleon = perNucleon.map(([Tn, A, m, z]) => [
+    Tn,
+    A,
+    m,
+    (rand() < 0.5 ? -z : z) * 1.602176634e-19,
+  ]);
   const ionMomenta = logSpace(-12, 12, 240).map((y) => {
     const [A, m, z] = pick(ions);
     return [y * m * C_NUM, A, m, z];
@@ -570,7 +659,10 @@ export function surveyCases(): Record<string, number[][]> {
   // Hyperbolic motion by proper time (drawn last, so the grids above keep their points): u = a0τ/c
   // from 1e-12 to 630 (overflow of t and x begins between u ≈ 660 and 720, depending on a0; see
   // support/hyperbolic-at-proper-time.ts), several accelerations, both directions.
-  const us = [...logSpace(-12, Math.log10(630), 220), ...Array.from({ length: 60 }, () => 10 ** (-12 + (12 + Math.log10(630)) * rand()))];
+  const us = [
+    ...logSpace(-12, Math.log10(630), 220),
+    ...Array.from({ length: 60 }, () => 10 ** (-12 + (12 + Math.log10(630)) * rand())),
+  ];
   const byProperTime = us.map((uu) => {
     const a = pick(accelerations);
     return [rand() < 0.5 ? -a : a, (uu * C_NUM) / a];

@@ -11,11 +11,14 @@ import type { CellInput } from '../../lib/calc/types';
 const evaluator = new SandboxedEvaluator({ timeoutMs: 3000, memoryMb: 96, workers: 1 });
 // A cold worker compiles the engine on its first request; warm it so the time limit measures the cell.
 beforeAll(async () => {
-  await evaluator.evaluate([{ id: 'w', kind: 'calc', source: 'x_w = lorentzFactor(0.5) * 2 m to cm' }], { significantFigures: 6 });
+  await evaluator.evaluate([{ id: 'w', kind: 'calc', source: 'x_w = lorentzFactor(0.5) * 2 m to cm' }], {
+    significantFigures: 6,
+  });
 });
 afterAll(() => evaluator.close());
 
-const cells = (...sources: string[]): CellInput[] => sources.map((source, i) => ({ id: `c${i + 1}`, kind: 'calc', source }));
+const cells = (...sources: string[]): CellInput[] =>
+  sources.map((source, i) => ({ id: `c${i + 1}`, kind: 'calc', source }));
 
 describe('limits', () => {
   // Each waits for a limit and a replacement worker (which starts slowly on a busy machine).
@@ -31,9 +34,13 @@ describe('limits', () => {
   });
 
   it('stops a cell that exceeds the memory limit and evaluates the others', { timeout: 90_000 }, async () => {
-    const r = await evaluator.evaluate(cells('a = 2', 'k = kron(ones(1000, 1000), ones(1, 1000))', 'b_1 = a * 3'), { significantFigures: 6 });
+    const r = await evaluator.evaluate(cells('a = 2', 'k = kron(ones(1000, 1000), ones(1, 1000))', 'b_1 = a * 3'), {
+      significantFigures: 6,
+    });
     expect(r.cells[1].ok).toBe(false);
-    expect(r.cells[1].error).toMatch(/^stopped: this cell needs more memory than the limit \(96 MB\)|^stopped after 3 s/);
+    expect(r.cells[1].error).toMatch(
+      /^stopped: this cell needs more memory than the limit \(96 MB\)|^stopped after 3 s/,
+    );
     expect(r.cells[2].statements[0].value?.number).toBe(6);
   });
 
@@ -45,7 +52,9 @@ describe('limits', () => {
 
   it('answers concurrent requests', async () => {
     const results = await Promise.all(
-      Array.from({ length: 6 }, (_, i) => evaluator.evaluate(cells(`x = ${i} s`, 'y = x * 2'), { significantFigures: 6 })),
+      Array.from({ length: 6 }, (_, i) =>
+        evaluator.evaluate(cells(`x = ${i} s`, 'y = x * 2'), { significantFigures: 6 }),
+      ),
     );
     expect(results.map((r) => r.cells[1].statements[0].value?.number)).toEqual([0, 2, 4, 6, 8, 10]);
   });
@@ -61,47 +70,75 @@ describe('fair shares of the workers', () => {
   beforeAll(() => pool.warm());
   afterAll(() => pool.close());
 
-  it('serves user B while user A floods slow cells; A is refused beyond two in flight, with Retry-After; the timed-out cell is never run again', { timeout: 90_000 }, async () => {
-    const startedBefore = pool.cellsStarted();
-    const settled = { a1: false, a2: false };
-    const a1 = pool.evaluate(cells(SLOW), { significantFigures: 6 }, { userId: 'user-a', scope: 'project:p1' }).finally(() => (settled.a1 = true));
-    const a2 = pool.evaluate(cells(SLOW), { significantFigures: 6 }, { userId: 'user-a', scope: 'project:p1' }).finally(() => (settled.a2 = true));
-    const refusals = await Promise.allSettled(
-      Array.from({ length: 10 }, () => pool.evaluate(cells(SLOW), { significantFigures: 6 }, { userId: 'user-a', scope: 'project:p1' })),
-    );
-    for (const r of refusals) {
-      expect(r.status).toBe('rejected');
-      const reason = (r as PromiseRejectedResult).reason as EvaluationRefused;
-      expect(reason).toBeInstanceOf(EvaluationRefused);
-      expect(reason.reason).toBe('too-many-requests');
-      expect(reason.retryAfterSeconds).toBe(4);
-      expect(reason.message).toMatch(/^You have 2 evaluations in progress already; at most 2 at a time\./);
-    }
-    const b = await pool.evaluate(cells('x = 3 m', 'y = x * 2'), { significantFigures: 6 }, { userId: 'user-b', scope: 'project:p2' });
-    expect(b.cells[1].statements[0].value).toMatchObject({ number: 6, unit: 'm' });
-    // B was answered while both of A's were still pending: A held one worker, not both.
-    expect(settled).toEqual({ a1: false, a2: false });
-    // A save by A is not refused for A's own evaluations in flight, and does not wait for them.
-    const save = await pool.evaluate(cells('z = 2 s'), { significantFigures: 6 }, { userId: 'user-a', kind: 'save', scope: 'project:p1' });
-    expect(save.ok).toBe(true);
-    expect(settled).toEqual({ a1: false, a2: false });
-    const [r1, r2] = await Promise.all([a1, a2]);
-    expect(r1.cells[0].error).toBe('stopped after 4 s: this cell takes longer than the time limit');
-    expect(r2.cells[0].error).toBe('stopped after 4 s: this cell takes longer than the time limit');
-    // Cells started: A1's slow cell once, B's two, the save's one. A1's retry and A2 skipped the
-    // slow cell (A2 after the same cells as A1: remembered), so it ran once in all.
-    expect(pool.cellsStarted() - startedBefore).toBe(4);
-  });
+  it(
+    'serves user B while user A floods slow cells; A is refused beyond two in flight, with Retry-After; the timed-out cell is never run again',
+    { timeout: 90_000 },
+    async () => {
+      const startedBefore = pool.cellsStarted();
+      const settled = { a1: false, a2: false };
+      const a1 = pool
+        .evaluate(cells(SLOW), { significantFigures: 6 }, { userId: 'user-a', scope: 'project:p1' })
+        .finally(() => (settled.a1 = true));
+      const a2 = pool
+        .evaluate(cells(SLOW), { significantFigures: 6 }, { userId: 'user-a', scope: 'project:p1' })
+        .finally(() => (settled.a2 = true));
+      const refusals = await Promise.allSettled(
+        Array.from({ length: 10 }, () =>
+          pool.evaluate(cells(SLOW), { significantFigures: 6 }, { userId: 'user-a', scope: 'project:p1' }),
+        ),
+      );
+      for (const r of refusals) {
+        expect(r.status).toBe('rejected');
+        const reason = (r as PromiseRejectedResult).reason as EvaluationRefused;
+        expect(reason).toBeInstanceOf(EvaluationRefused);
+        expect(reason.reason).toBe('too-many-requests');
+        expect(reason.retryAfterSeconds).toBe(4);
+        expect(reason.message).toMatch(/^You have 2 evaluations in progress already; at most 2 at a time\./);
+      }
+      const b = await pool.evaluate(
+        cells('x = 3 m', 'y = x * 2'),
+        { significantFigures: 6 },
+        { userId: 'user-b', scope: 'project:p2' },
+      );
+      expect(b.cells[1].statements[0].value).toMatchObject({ number: 6, unit: 'm' });
+      // B was answered while both of A's were still pending: A held one worker, not both.
+      expect(settled).toEqual({ a1: false, a2: false });
+      // A save by A is not refused for A's own evaluations in flight, and does not wait for them.
+      const save = await pool.evaluate(
+        cells('z = 2 s'),
+        { significantFigures: 6 },
+        { userId: 'user-a', kind: 'save', scope: 'project:p1' },
+      );
+      expect(save.ok).toBe(true);
+      expect(settled).toEqual({ a1: false, a2: false });
+      const [r1, r2] = await Promise.all([a1, a2]);
+      expect(r1.cells[0].error).toBe('stopped after 4 s: this cell takes longer than the time limit');
+      expect(r2.cells[0].error).toBe('stopped after 4 s: this cell takes longer than the time limit');
+      // Cells started: A1's slow cell once, B's two, the save's one. A1's retry and A2 skipped the
+      // slow cell (A2 after the same cells as A1: remembered), so it ran once in all.
+      expect(pool.cellsStarted() - startedBefore).toBe(4);
+    },
+  );
 
   it('a request within the share is not refused once the earlier ones are done', async () => {
-    const r = await pool.evaluate(cells('w = 5 kg'), { significantFigures: 6 }, { userId: 'user-a', scope: 'project:p1' });
+    const r = await pool.evaluate(
+      cells('w = 5 kg'),
+      { significantFigures: 6 },
+      { userId: 'user-a', scope: 'project:p1' },
+    );
     expect(r.ok).toBe(true);
   });
 
   it('sizes the pool from the CPU count unless WORLDSHEET_CALC_WORKERS says otherwise', () => {
     expect(defaultWorkerCount({})).toBe(Math.min(8, Math.max(2, os.availableParallelism())));
     expect(defaultWorkerCount({ WORLDSHEET_CALC_WORKERS: '3' })).toBe(3);
-    expect(new SandboxedEvaluator({ timeoutMs: 1000, memoryMb: 64, workers: defaultWorkerCount({ WORLDSHEET_CALC_WORKERS: '3' }) }).size).toBe(3);
+    expect(
+      new SandboxedEvaluator({
+        timeoutMs: 1000,
+        memoryMb: 64,
+        workers: defaultWorkerCount({ WORLDSHEET_CALC_WORKERS: '3' }),
+      }).size,
+    ).toBe(3);
   });
 });
 
@@ -110,9 +147,16 @@ describe('the size of a request and of its result', () => {
   afterAll(() => small.close());
 
   it('refuses 1,000 cells of 60 statements before evaluating anything, saying what to reduce', async () => {
-    const big = Array.from({ length: 1000 }, (_, i): CellInput => ({ id: `k${i}`, kind: 'calc', source: Array.from({ length: 60 }, (_, j) => `v_${i}_${j} = ${j} m`).join('\n') }));
+    const big = Array.from({ length: 1000 }, (_, i): CellInput => ({
+      id: `k${i}`,
+      kind: 'calc',
+      source: Array.from({ length: 60 }, (_, j) => `v_${i}_${j} = ${j} m`).join('\n'),
+    }));
     const runs = small.workerRuns;
-    const error = await small.evaluate(big, { significantFigures: 6 }).then(() => null, (e: unknown) => e);
+    const error = await small.evaluate(big, { significantFigures: 6 }).then(
+      () => null,
+      (e: unknown) => e,
+    );
     expect(error).toBeInstanceOf(EvaluationRefused);
     expect((error as EvaluationRefused).reason).toBe('too-large');
     expect((error as EvaluationRefused).message).toBe(
@@ -121,17 +165,28 @@ describe('the size of a request and of its result', () => {
     expect(small.workerRuns).toBe(runs);
   });
 
-  it('refuses a result heavier than the limit, and the worker serves the next request', { timeout: 60_000 }, async () => {
-    const many = Array.from({ length: 20 }, (_, i): CellInput => ({ id: `m${i}`, kind: 'calc', source: Array.from({ length: 40 }, (_, j) => `u_${i}_${j} = ${j + 1} MeV`).join('\n') }));
-    const error = await small.evaluate(many, { significantFigures: 6 }).then(() => null, (e: unknown) => e);
-    expect(error).toBeInstanceOf(EvaluationRefused);
-    expect((error as EvaluationRefused).reason).toBe('too-large');
-    expect((error as EvaluationRefused).message).toBe(
-      'The results of this evaluation are larger than the 195 KiB returned for one request. Evaluate fewer cells or statements at a time (split the sheet), or make large lists and matrices smaller.',
-    );
-    const r = await small.evaluate(cells('x = 1 m'), { significantFigures: 6 });
-    expect(r.ok).toBe(true);
-  });
+  it(
+    'refuses a result heavier than the limit, and the worker serves the next request',
+    { timeout: 60_000 },
+    async () => {
+      const many = Array.from({ length: 20 }, (_, i): CellInput => ({
+        id: `m${i}`,
+        kind: 'calc',
+        source: Array.from({ length: 40 }, (_, j) => `u_${i}_${j} = ${j + 1} MeV`).join('\n'),
+      }));
+      const error = await small.evaluate(many, { significantFigures: 6 }).then(
+        () => null,
+        (e: unknown) => e,
+      );
+      expect(error).toBeInstanceOf(EvaluationRefused);
+      expect((error as EvaluationRefused).reason).toBe('too-large');
+      expect((error as EvaluationRefused).message).toBe(
+        'The results of this evaluation are larger than the 195 KiB returned for one request. Evaluate fewer cells or statements at a time (split the sheet), or make large lists and matrices smaller.',
+      );
+      const r = await small.evaluate(cells('x = 1 m'), { significantFigures: 6 });
+      expect(r.ok).toBe(true);
+    },
+  );
 });
 
 // Results are shared only within a scope (the server's scope is the project): the same cells from
@@ -142,16 +197,28 @@ describe('the result caches are per project', () => {
 
   it('does not reveal to project 2 that project 1 evaluated the same cell', { timeout: 60_000 }, async () => {
     const secret = cells('I_beam = 312.5 mA\nP_dump = I_beam * 6.5 MV');
-    const first = await shared.evaluate(secret, { significantFigures: 6 }, { userId: 'u1', scope: 'project:one', affinity: 'sheet-1' });
+    const first = await shared.evaluate(
+      secret,
+      { significantFigures: 6 },
+      { userId: 'u1', scope: 'project:one', affinity: 'sheet-1' },
+    );
     expect(first.evaluatedCells).toBe(1);
     const started = shared.cellsStarted();
-    const other = await shared.evaluate(secret, { significantFigures: 6 }, { userId: 'u2', scope: 'project:two', affinity: 'sheet-9' });
+    const other = await shared.evaluate(
+      secret,
+      { significantFigures: 6 },
+      { userId: 'u2', scope: 'project:two', affinity: 'sheet-9' },
+    );
     expect(other.evaluatedCells).toBe(1);
     // Evaluated again in the worker (same worker: there is one), not served from its cell cache either.
     expect(shared.cellsStarted() - started).toBe(1);
     expect(other.cells).toEqual(first.cells);
     // Within project 1 the cache still serves.
-    const again = await shared.evaluate(secret, { significantFigures: 6 }, { userId: 'u1', scope: 'project:one', affinity: 'sheet-1' });
+    const again = await shared.evaluate(
+      secret,
+      { significantFigures: 6 },
+      { userId: 'u1', scope: 'project:one', affinity: 'sheet-1' },
+    );
     expect(again.evaluatedCells).toBe(0);
   });
 });

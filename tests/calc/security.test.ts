@@ -5,7 +5,8 @@ import { describe, expect, it } from 'vitest';
 import { createSheetEngine } from '../../lib/calc/sheet-engine';
 
 const engine = createSheetEngine();
-const one = (source: string) => engine.evaluate([{ id: 'c1', kind: 'calc', source }], { significantFigures: 6 }).cells[0];
+const one = (source: string) =>
+  engine.evaluate([{ id: 'c1', kind: 'calc', source }], { significantFigures: 6 }).cells[0];
 
 const ATTEMPTS: Array<[string, RegExp]> = [
   ['import({x: 1})', /import is not available|Undefined function import/],
@@ -27,7 +28,10 @@ const ATTEMPTS: Array<[string, RegExp]> = [
   ['print("$a", {a: 1})', /print is not available/],
   ['f(x) = x\nf.constructor', /No access to property "constructor"|only one plain statement|is not an input table/],
   ['sin.constructor("return process")()', /No access|a value is expected|only one plain statement|not expected here/],
-  ['x_1 = "abc"\ny_1 = x_1.constructor', /No access to property "constructor"|only one plain statement|is not an input table/],
+  [
+    'x_1 = "abc"\ny_1 = x_1.constructor',
+    /No access to property "constructor"|only one plain statement|is not an input table/,
+  ],
   ['o_1 = {a: 1}\np_1 = o_1.__proto__', /No access|only one plain statement|is not an input table/],
   ['o_2 = {}\no_2.__proto__.polluted = 1', /only plain names can be defined/],
   ['[1, 2].map.constructor', /No access|only one plain statement|Unexpected|read from an input table by its name/],
@@ -55,7 +59,10 @@ describe('sandbox escapes', () => {
 
   it('keeps the units intact after a sheet tried to redefine one', () => {
     one('createUnit("m", "2 ft", {override: true})');
-    expect((engine.em.parse('1 m').compile().evaluate() as { toNumber(u: string): number }).toNumber('ft')).toBeCloseTo(3.28084, 5);
+    expect((engine.em.parse('1 m').compile().evaluate() as { toNumber(u: string): number }).toNumber('ft')).toBeCloseTo(
+      3.28084,
+      5,
+    );
   });
 });
 

@@ -57,7 +57,9 @@ describe('studyTableCsv', () => {
     expect(records[1][2]).toBe(odd.errors[0]);
     expect(records).toHaveLength(3);
     // OWASP CSV injection: a text field starting with = is prefixed; numbers are never altered.
-    expect(studyTableCsv({ columns: [{ name: '=cmd', unit: null, tex: '' }], rows: [[-1]], errors: [null] })).toBe("'=cmd\r\n-1\r\n");
+    expect(studyTableCsv({ columns: [{ name: '=cmd', unit: null, tex: '' }], rows: [[-1]], errors: [null] })).toBe(
+      "'=cmd\r\n-1\r\n",
+    );
   });
 
   it('reads back as an input table attachment when no step failed', () => {
@@ -72,6 +74,8 @@ describe('studyTableCsv', () => {
   });
 
   it('names the download after the sheet, version, cell and line', () => {
-    expect(studyCsvFileName({ sheet: 'TPT2-CALC-0003', version: 4, cellNumber: 2, line: 3 })).toBe('TPT2-CALC-0003-v4-cell2-line3.csv');
+    expect(studyCsvFileName({ sheet: 'TPT2-CALC-0003', version: 4, cellNumber: 2, line: 3 })).toBe(
+      'TPT2-CALC-0003-v4-cell2-line3.csv',
+    );
   });
 });

@@ -18,20 +18,26 @@ describe('statement TeX', () => {
   const [cell] = createSheetEngine().evaluate([{ id: 'a', kind: 'calc', source }], { significantFigures: 6 }).cells;
 
   it('keeps a space between an operator and the symbol after it', () => {
-    expect(cell.statements.map((s) => s.tex).slice(1, 4)).toEqual(['y = 3\\cdot x', 'z = 1\\cdot e', 'w = m_{\\mathrm{p}}\\cdot c']);
+    expect(cell.statements.map((s) => s.tex).slice(1, 4)).toEqual([
+      'y = 3\\cdot x',
+      'z = 1\\cdot e',
+      'w = m_{\\mathrm{p}}\\cdot c',
+    ]);
   });
 
   it('gives TeX that KaTeX typesets without an error, for the formula and the values substituted', () => {
     for (const s of cell.statements) {
       expect(s.error).toBeNull();
-      for (const tex of [s.tex, s.substitutedTex ?? '']) expect(() => katex.renderToString(tex, { throwOnError: true, strict: 'ignore' })).not.toThrow();
+      for (const tex of [s.tex, s.substitutedTex ?? ''])
+        expect(() => katex.renderToString(tex, { throwOnError: true, strict: 'ignore' })).not.toThrow();
     }
   });
 });
 
 describe('symbols that could be read two ways', () => {
   const engine = createSheetEngine();
-  const st = (source: string) => engine.evaluate([{ id: 'a', kind: 'calc', source }], { significantFigures: 6 }).cells[0].statements.at(-1)!;
+  const st = (source: string) =>
+    engine.evaluate([{ id: 'a', kind: 'calc', source }], { significantFigures: 6 }).cells[0].statements.at(-1)!;
 
   it("sets Euler's number upright and the elementary charge as the italic e (ISO 80000-2: mathematical constants upright; CODATA symbol e)", () => {
     expect(st('x_1 = e * 1 V').tex).toBe('x_{\\mathrm{1}} = \\mathrm{e}\\cdot1~\\mathrm{V}');
@@ -43,7 +49,9 @@ describe('symbols that could be read two ways', () => {
     const s = st('p = momentumFromKinetic(250 MeV, m_p)\nn_1 = number(p, "MeV/c")');
     expect(s.tex).toBe('n_{\\mathrm{1}} = \\frac{p}{\\mathrm{MeV}/c}');
     // In SI units the momentum substituted is 729.134 MeV/c = 3.896 70 × 10⁻¹⁹ kg·m/s (CODATA 2018 e and c, exact).
-    expect(s.substitutedTex).toBe('n_{\\mathrm{1}} = \\frac{\\left(3.896\\,70 \\times 10^{-19}\\ \\mathrm{kg}\\cdot \\mathrm{m}/\\mathrm{s}\\right)}{\\mathrm{MeV}/c}');
+    expect(s.substitutedTex).toBe(
+      'n_{\\mathrm{1}} = \\frac{\\left(3.896\\,70 \\times 10^{-19}\\ \\mathrm{kg}\\cdot \\mathrm{m}/\\mathrm{s}\\right)}{\\mathrm{MeV}/c}',
+    );
   });
 
   it('typesets hypot, which mathjs writes as the undefined control sequence \\hypot', () => {
@@ -55,7 +63,8 @@ describe('symbols that could be read two ways', () => {
 
 describe('numbers in a formula', () => {
   const engine = createSheetEngine();
-  const tex = (source: string) => engine.evaluate([{ id: 'a', kind: 'calc', source }], { significantFigures: 6 }).cells[0].statements[0].tex;
+  const tex = (source: string) =>
+    engine.evaluate([{ id: 'a', kind: 'calc', source }], { significantFigures: 6 }).cells[0].statements[0].tex;
 
   it('write powers of ten with × and no plus sign, as the result does (ISO 80000-1 §7.1.3, common practice)', () => {
     expect(tex('d_1 = 3e12 m')).toBe('d_{\\mathrm{1}} = 3\\times 10^{12}~\\mathrm{m}');

@@ -24,7 +24,9 @@ const rel = (a: number, b: number) => Math.abs(a - b) / Math.abs(b);
 
 describe('momentum in eV/c and mass in eV/c² (PDG RPP conventions)', () => {
   it('reads 1.2 GeV/c after a number as a momentum, and converts it with to and number()', () => {
-    const r = run('p_1 = 1.2 GeV/c\np_2 = p_1 to MeV/c\np_3 = number(p_1, "MeV/c")\np_4 = p_1 to kg*m/s\np_5 = 250 keV/c + 1 eV/c\np_6 = 2 TeV/c');
+    const r = run(
+      'p_1 = 1.2 GeV/c\np_2 = p_1 to MeV/c\np_3 = number(p_1, "MeV/c")\np_4 = p_1 to kg*m/s\np_5 = 250 keV/c + 1 eV/c\np_6 = 2 TeV/c',
+    );
     expect(ok(r.get('p_1'))).toMatchObject({ unit: 'GeV / c', text: `1.200\u202f00 GeV/c` });
     expect(ok(r.get('p_2'))).toMatchObject({ unit: 'MeV / c', text: '1200 MeV/c' });
     expect(ok(r.get('p_2')).number).toBeCloseTo(1200, 9);
@@ -39,7 +41,9 @@ describe('momentum in eV/c and mass in eV/c² (PDG RPP conventions)', () => {
   });
 
   it('reads 938.272 MeV/c^2 as a mass and converts masses to MeV/c^2', () => {
-    const r = run('m_1 = 938.272 MeV/c^2\nm_2 = m_1 to kg\nm_3 = m_p to MeV/c^2\nm_4 = 0.511 MeV/c^2 + 1 keV/c^2\nm_5 = 1 GeV/c^2 to eV/c^2');
+    const r = run(
+      'm_1 = 938.272 MeV/c^2\nm_2 = m_1 to kg\nm_3 = m_p to MeV/c^2\nm_4 = 0.511 MeV/c^2 + 1 keV/c^2\nm_5 = 1 GeV/c^2 to eV/c^2',
+    );
     expect(ok(r.get('m_1'))).toMatchObject({ unit: 'MeV / c^2', text: '938.272 MeV/c²' });
     expect(rel(ok(r.get('m_2')).number!, (938.272e6 * EV) / (C * C))).toBeLessThan(4e-16);
     // CODATA 2022: m_p c² = 938.272 089 43(29) MeV.
@@ -61,7 +65,8 @@ describe('momentum in eV/c and mass in eV/c² (PDG RPP conventions)', () => {
 
   it('reads MeV/c only in unit positions: after a number and after to, not after another name', () => {
     const UNITS = new Set(['MeV', 'GeV', 'keV', 'eV', 'm', 's', 'T']);
-    const read = (line: string) => extractUnitLiterals(line, (n) => UNITS.has(n)).text.replace(/__u_[0-9a-f]+/g, (p) => `[${unitOfPlaceholder(p)}]`);
+    const read = (line: string) =>
+      extractUnitLiterals(line, (n) => UNITS.has(n)).text.replace(/__u_[0-9a-f]+/g, (p) => `[${unitOfPlaceholder(p)}]`);
     expect(read('p = 1.2 GeV/c')).toBe('p = 1.2 [GeV/c]');
     expect(read('m = 938.272 MeV/c^2')).toBe('m = 938.272 [MeV/c^2]');
     expect(read('x = p to MeV / c')).toBe('x = p to [MeV/c]');
@@ -74,7 +79,9 @@ describe('momentum in eV/c and mass in eV/c² (PDG RPP conventions)', () => {
 
 describe('the unified atomic mass unit u (SI Brochure 9th ed., table 8: 1 u = 1 Da = m_u)', () => {
   it('makes 430 MeV/u × 12 u equal 5160 MeV (energy per nucleon times mass in u)', () => {
-    const r = run('E_n = 430 MeV/u\nE_t = E_n * 12 u\nE_m = number(E_t, "MeV")\nm_c = 12 u to kg\nm_uc = 1 u to MeV/c^2');
+    const r = run(
+      'E_n = 430 MeV/u\nE_t = E_n * 12 u\nE_m = number(E_t, "MeV")\nm_c = 12 u to kg\nm_uc = 1 u to MeV/c^2',
+    );
     expect(ok(r.get('E_n'))).toMatchObject({ unit: 'MeV / u', text: '430 MeV/u' });
     expect(ok(r.get('E_m')).number).toBeCloseTo(5160, 9);
     // CODATA 2022: m_u = 1.660 539 068 92(52) × 10⁻²⁷ kg.
@@ -125,7 +132,9 @@ describe('ppm, ppb and rate units keep their names', () => {
 
 describe('the radian where it multiplies a length (SI Brochure 9th ed., §2.3.3: rad = m/m)', () => {
   it('makes ω·r a speed in m/s and θ·r a length, and passes ω·r to library speed parameters', () => {
-    const r = run('omega = 2 rad/s\nr_w = 3 m\nv_w = omega * r_w\nv_s = v_w to m/s\ns_a = 30 deg * 2 m\na_c = omega^2 * r_w\ng_w = lorentzFactor(omega * 3e7 m)\nphi_t = omega * 2 s\ns_30 = sin(30 deg)');
+    const r = run(
+      'omega = 2 rad/s\nr_w = 3 m\nv_w = omega * r_w\nv_s = v_w to m/s\ns_a = 30 deg * 2 m\na_c = omega^2 * r_w\ng_w = lorentzFactor(omega * 3e7 m)\nphi_t = omega * 2 s\ns_30 = sin(30 deg)',
+    );
     expect(ok(r.get('v_w'))).toMatchObject({ unit: 'm / s', number: 6 });
     expect(ok(r.get('v_s')).number).toBe(6);
     expect(ok(r.get('s_a')).number).toBeCloseTo(Math.PI / 3, 15);
@@ -144,7 +153,10 @@ describe('the examples of the function reference (lib/calc/display-units.ts, UNI
     const { UNIT_EXAMPLES } = await import('../../lib/calc/display-units');
     expect(UNIT_EXAMPLES.length).toBeGreaterThan(8);
     for (const x of UNIT_EXAMPLES) {
-      const r = engine.evaluate([{ id: 'c1', kind: 'calc', source: x.source }], { significantFigures: 6, displayUnits: x.displayUnits });
+      const r = engine.evaluate([{ id: 'c1', kind: 'calc', source: x.source }], {
+        significantFigures: 6,
+        displayUnits: x.displayUnits,
+      });
       const st = r.cells[0].statements[0];
       expect(st.error, x.source).toBeNull();
       expect(st.value!.text.replace(/\u202f/g, ' '), `${x.source} (${x.displayUnits})`).toBe(x.result);

@@ -15,7 +15,23 @@ it('keeps the significant zeros of an uncertainty', () => {
 });
 
 it('writes the combined and expanded uncertainty with their unit', () => {
-  const u: UncertaintyResult = { kind: 'propagated', u: 3.5e-22, U: 7e-22, k: 2, unit: 'kg m / s', text: '', tex: '', budget: [], nonLinear: false, monteCarlo: null, warning: null };
-  expect(combinedText(u)).toBe('combined standard uncertainty u_c = 3.5 × 10⁻²² kg·m/s; expanded uncertainty U = 7.0 × 10⁻²² kg·m/s (k = 2)');
-  expect(standardUncertaintyText({ ...u, kind: 'input', u: 0.4, unit: 'MeV' })).toBe('standard uncertainty u = 0.40 MeV');
+  const u: UncertaintyResult = {
+    kind: 'propagated',
+    u: 3.5e-22,
+    U: 7e-22,
+    k: 2,
+    unit: 'kg m / s',
+    text: '',
+    tex: '',
+    budget: [],
+    nonLinear: false,
+    monteCarlo: null,
+    warning: null,
+  };
+  expect(combinedText(u)).toBe(
+    'combined standard uncertainty u_c = 3.5 × 10⁻²² kg·m/s; expanded uncertainty U = 7.0 × 10⁻²² kg·m/s (k = 2)',
+  );
+  expect(standardUncertaintyText({ ...u, kind: 'input', u: 0.4, unit: 'MeV' })).toBe(
+    'standard uncertainty u = 0.40 MeV',
+  );
 });

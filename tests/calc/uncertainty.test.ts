@@ -117,11 +117,14 @@ describe('roundExpanded', () => {
 
 describe('firstOrder', () => {
   it('gives exact sensitivities and the budget of a linear model', () => {
-    const r = firstOrder((x) => 3 * x[0] - 2 * x[1] + 0.5 * x[2], [
-      { value: 10, u: 0.1 },
-      { value: -4, u: 0.3 },
-      { value: 1e6, u: 20, distribution: 'rectangular' },
-    ]);
+    const r = firstOrder(
+      (x) => 3 * x[0] - 2 * x[1] + 0.5 * x[2],
+      [
+        { value: 10, u: 0.1 },
+        { value: -4, u: 0.3 },
+        { value: 1e6, u: 20, distribution: 'rectangular' },
+      ],
+    );
     expect(r.y).toBe(30 + 8 + 5e5);
     expect(r.sensitivities[0]).toBeCloseTo(3, 6);
     expect(r.sensitivities[1]).toBeCloseTo(-2, 6);
@@ -215,7 +218,14 @@ describe('firstOrder', () => {
       [-0.9, 0.9, 1],
     ];
     expect(() => firstOrder(sum, three, { correlation: impossible })).toThrow(/positive semi-definite/);
-    expect(() => firstOrder(sum, three, { correlation: [[1, 0], [0, 1]] })).toThrow(/3×3/);
+    expect(() =>
+      firstOrder(sum, three, {
+        correlation: [
+          [1, 0],
+          [0, 1],
+        ],
+      }),
+    ).toThrow(/3×3/);
   });
 });
 
@@ -271,7 +281,8 @@ describe('JCGM 100:2008 (GUM) Annex H.2, simultaneous resistance and reactance m
     ].map(([v, i, p]) => [v, i * 1e-3, p]);
     const n = observations.length;
     const mean = [0, 1, 2].map((k) => observations.reduce((s, o) => s + o[k], 0) / n);
-    const cov = (a: number, b: number) => observations.reduce((s, o) => s + (o[a] - mean[a]) * (o[b] - mean[b]), 0) / (n - 1);
+    const cov = (a: number, b: number) =>
+      observations.reduce((s, o) => s + (o[a] - mean[a]) * (o[b] - mean[b]), 0) / (n - 1);
     const u = [0, 1, 2].map((k) => Math.sqrt(cov(k, k) / n));
     const r = [0, 1, 2].map((a) => [0, 1, 2].map((b) => cov(a, b) / Math.sqrt(cov(a, a) * cov(b, b))));
     // GUM H.2.2: means 4.9990 V, 19.6610 mA, 1.04446 rad; r(V, I) = −0.36, r(V, φ) = 0.86, r(I, φ) = −0.65.
@@ -342,7 +353,8 @@ describe('JCGM 101:2008 §9.2, additive model Y = X1 + X2 + X3 + X4 with Xi ~ N(
 
 describe('JCGM 101:2008 §9.3, mass calibration', () => {
   // δm = (m_Rc + δm_Rc)(1 + (ρa − ρa0)(1/ρW − 1/ρR)) − m_nom, in mg and kg/m³.
-  const model: Model = ([mRc, dmRc, rhoA, rhoW, rhoR]) => (mRc + dmRc) * (1 + (rhoA - 1.2) * (1 / rhoW - 1 / rhoR)) - 100_000;
+  const model: Model = ([mRc, dmRc, rhoA, rhoW, rhoR]) =>
+    (mRc + dmRc) * (1 + (rhoA - 1.2) * (1 / rhoW - 1 / rhoR)) - 100_000;
   // JCGM 101:2008, 9.3.1, Table 6 (from memory).
   const inputs: UncertainInput[] = [
     { value: 100_000, u: 0.05 },
@@ -415,9 +427,27 @@ describe('a linear model with several inputs', () => {
     const sum: Model = (x) => x[0] + x[1];
     // Var(X1 + X2) = u1² + u2² + 2 r u1 u2 (JCGM 100:2008, eq. 13), whatever the distributions.
     const cases: Array<[UncertainInput[], number]> = [
-      [[{ value: 0, u: 1, distribution: 'rectangular' }, { value: 0, u: 1, distribution: 'rectangular' }], 0.5],
-      [[{ value: 0, u: 1 }, { value: 0, u: 1, distribution: 'rectangular' }], 0.8],
-      [[{ value: 0, u: 1 }, { value: 0, u: 1 }], -0.6],
+      [
+        [
+          { value: 0, u: 1, distribution: 'rectangular' },
+          { value: 0, u: 1, distribution: 'rectangular' },
+        ],
+        0.5,
+      ],
+      [
+        [
+          { value: 0, u: 1 },
+          { value: 0, u: 1, distribution: 'rectangular' },
+        ],
+        0.8,
+      ],
+      [
+        [
+          { value: 0, u: 1 },
+          { value: 0, u: 1 },
+        ],
+        -0.6,
+      ],
     ];
     for (const [inputs, rho] of cases) {
       const correlation = [
@@ -430,8 +460,20 @@ describe('a linear model with several inputs', () => {
       expect(Math.abs(mc.u - expected)).toBeLessThan(3 * mc.uSe);
     }
     // A rectangular input can follow a normal one no closer than √(3/π) = 0.977.
-    const mixed: UncertainInput[] = [{ value: 0, u: 1 }, { value: 0, u: 1, distribution: 'rectangular' }];
-    expect(() => monteCarlo(sum, mixed, { trials: 100, seed: 1, correlation: [[1, 0.99], [0.99, 1]] })).toThrow(/0\.977/);
+    const mixed: UncertainInput[] = [
+      { value: 0, u: 1 },
+      { value: 0, u: 1, distribution: 'rectangular' },
+    ];
+    expect(() =>
+      monteCarlo(sum, mixed, {
+        trials: 100,
+        seed: 1,
+        correlation: [
+          [1, 0.99],
+          [0.99, 1],
+        ],
+      }),
+    ).toThrow(/0\.977/);
   });
 });
 
@@ -464,7 +506,10 @@ describe('relativity: γ = 1/√(1 − β²)', () => {
 describe('monteCarlo mechanics', () => {
   it('is reproducible from its seed', () => {
     const model: Model = (x) => Math.exp(x[0]) * x[1];
-    const inputs: UncertainInput[] = [{ value: 0.3, u: 0.1 }, { value: 2, u: 0.2, distribution: 'rectangular' }];
+    const inputs: UncertainInput[] = [
+      { value: 0.3, u: 0.1 },
+      { value: 2, u: 0.2, distribution: 'rectangular' },
+    ];
     const a = monteCarlo(model, inputs, { trials: 5_000, seed: 77 });
     expect(monteCarlo(model, inputs, { trials: 5_000, seed: 77 })).toEqual(a);
     expect(monteCarlo(model, inputs, { trials: 5_000, seed: 78 }).mean).not.toBe(a.mean);

@@ -4,7 +4,10 @@ import { extractUnitLiterals, unitOfPlaceholder } from '../../lib/calc/unit-lite
 const UNITS = new Set(['m', 's', 'kg', 'T', 'MeV', 'J', 'cm', 'in', 'h', 'ns']);
 const read = (line: string) => {
   const { text, literals } = extractUnitLiterals(line, (n) => UNITS.has(n));
-  return { text: text.replace(/__u_[0-9a-f]+/g, (p) => `[${unitOfPlaceholder(p)}]`), units: literals.map((l) => l.unit) };
+  return {
+    text: text.replace(/__u_[0-9a-f]+/g, (p) => `[${unitOfPlaceholder(p)}]`),
+    units: literals.map((l) => l.unit),
+  };
 };
 
 describe('unit literals', () => {

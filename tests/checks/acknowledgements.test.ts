@@ -23,7 +23,12 @@ beforeEach(async () => {
     [author, 'originator'],
     [checker, 'checker'],
   ]);
-  const created = await createSheet(db, author, { id: projectId, code: 'BEAM' }, { title: 'Proton beam', safetyRelated: false, objective: '' });
+  const created = await createSheet(
+    db,
+    author,
+    { id: projectId, code: 'BEAM' },
+    { title: 'Proton beam', safetyRelated: false, objective: '' },
+  );
   sheet = { id: created.id, project_id: projectId, number: created.number, title: 'Proton beam' };
   const latest = (await getVersion(db, sheet.id))!;
   // Two evaluation errors (a length plus a time; an undefined name) and a design input whose record
@@ -33,7 +38,18 @@ beforeEach(async () => {
     message: 'broken',
     content: {
       ...latest.content,
-      record: { ...latest.content.record, inputs: [{ name: 'Proton kinetic energy', value: '150 MeV', source: 'Beam specification', sourceRevision: 'A', cell: 'T' }] },
+      record: {
+        ...latest.content.record,
+        inputs: [
+          {
+            name: 'Proton kinetic energy',
+            value: '150 MeV',
+            source: 'Beam specification',
+            sourceRevision: 'A',
+            cell: 'T',
+          },
+        ],
+      },
       cells: [{ id: 'c1', kind: 'calc', source: 'T = 160 MeV\nL = 2 m + 3 s\nq = missingName * 2' }],
     },
   });
@@ -50,7 +66,9 @@ async function refusal(p: Promise<unknown>): Promise<AppError> {
 
 it('refuses the submission until each item is acknowledged, then stores and shows them', async () => {
   const db = testDb();
-  const refused = await refusal(submitForCheck(db, author, sheet, { versionNumber: 2, checkerId: checker.userId, password: PASSWORD }));
+  const refused = await refusal(
+    submitForCheck(db, author, sheet, { versionNumber: 2, checkerId: checker.userId, password: PASSWORD }),
+  );
   expect(refused).toBeInstanceOf(AppError);
   expect(refused.code).toBe('bad_request');
   expect(refused.message).toMatch(/3 items to acknowledge in writing/);
@@ -62,23 +80,58 @@ it('refuses the submission until each item is acknowledged, then stores and show
   expect(await db.selectFrom('checks').select('id').where('sheet_id', '=', sheet.id).execute()).toEqual([]);
 
   // One acknowledgement blank: still refused, naming only that item.
-  const acks = items.map((i, n) => ({ key: i.key, text: n === 1 ? '  ' : `Acknowledged ${n + 1}: known and accepted for this draft check.` }));
-  const partial = await refusal(submitForCheck(db, author, sheet, { versionNumber: 2, checkerId: checker.userId, password: PASSWORD, acknowledgements: acks }));
+  const acks = items.map((i, n) => ({
+    key: i.key,
+    text: n === 1 ? '  ' : `Acknowledged ${n + 1}: known and accepted for this draft check.`,
+  }));
+  const partial = await refusal(
+    submitForCheck(db, author, sheet, {
+      versionNumber: 2,
+      checkerId: checker.userId,
+      password: PASSWORD,
+      acknowledgements: acks,
+    }),
+  );
   expect(partial.message).toMatch(/an item to acknowledge/);
   expect(partial.message).toContain(items[1].message);
   // An acknowledgement of something the version does not have is refused.
-  const unknown = await refusal(submitForCheck(db, author, sheet, { versionNumber: 2, checkerId: checker.userId, password: PASSWORD, acknowledgements: [...acks, { key: 'error:zz:9', text: 'x' }] }));
+  const unknown = await refusal(
+    submitForCheck(db, author, sheet, {
+      versionNumber: 2,
+      checkerId: checker.userId,
+      password: PASSWORD,
+      acknowledgements: [...acks, { key: 'error:zz:9', text: 'x' }],
+    }),
+  );
   expect(unknown.message).toMatch(/error:zz:9/);
 
   acks[1].text = 'The undefined name is the next step of the calculation.';
-  const check = await submitForCheck(db, author, sheet, { versionNumber: 2, checkerId: checker.userId, password: PASSWORD, acknowledgements: acks });
+  const check = await submitForCheck(db, author, sheet, {
+    versionNumber: 2,
+    checkerId: checker.userId,
+    password: PASSWORD,
+    acknowledgements: acks,
+  });
   const detail = await getCheckDetail(db, checker, check.id);
-  expect(detail.acknowledgements.map((a) => [a.key, a.kind, a.text])).toEqual(items.map((i, n) => [i.key, i.kind, acks[n].text]));
+  expect(detail.acknowledgements.map((a) => [a.key, a.kind, a.text])).toEqual(
+    items.map((i, n) => [i.key, i.kind, acks[n].text]),
+  );
   expect(detail.designInputs).toMatchObject([{ cell: 'T', recordValue: '150 MeV', status: 'mismatch' }]);
-  const audit = await db.selectFrom('audit_events').select('new_value').where('action', '=', 'check.submit').where('object_id', '=', check.id).executeTakeFirstOrThrow();
+  const audit = await db
+    .selectFrom('audit_events')
+    .select('new_value')
+    .where('action', '=', 'check.submit')
+    .where('object_id', '=', check.id)
+    .executeTakeFirstOrThrow();
   expect(JSON.stringify(audit.new_value)).toContain('The undefined name is the next step of the calculation.');
   // Immutable once submitted.
-  await expect(db.updateTable('checks').set({ acknowledgements: '[]' } as never).where('id', '=', check.id).execute()).rejects.toThrow(/cannot be changed/);
+  await expect(
+    db
+      .updateTable('checks')
+      .set({ acknowledgements: '[]' } as never)
+      .where('id', '=', check.id)
+      .execute(),
+  ).rejects.toThrow(/cannot be changed/);
 });
 
 it('submits a clean version without acknowledgements', async () => {
@@ -89,11 +142,26 @@ it('submits a clean version without acknowledgements', async () => {
     message: 'fixed',
     content: {
       ...latest.content,
-      record: { ...latest.content.record, inputs: [{ name: 'Proton kinetic energy', value: '0.15 GeV', source: 'Beam specification', sourceRevision: 'A', cell: 'T' }] },
+      record: {
+        ...latest.content.record,
+        inputs: [
+          {
+            name: 'Proton kinetic energy',
+            value: '0.15 GeV',
+            source: 'Beam specification',
+            sourceRevision: 'A',
+            cell: 'T',
+          },
+        ],
+      },
       cells: [{ id: 'c1', kind: 'calc', source: 'T = 150 MeV' }],
     },
   });
-  const check = await submitForCheck(db, author, sheet, { versionNumber: 3, checkerId: checker.userId, password: PASSWORD });
+  const check = await submitForCheck(db, author, sheet, {
+    versionNumber: 3,
+    checkerId: checker.userId,
+    password: PASSWORD,
+  });
   const detail = await getCheckDetail(db, checker, check.id);
   expect(detail.acknowledgements).toEqual([]);
   expect(detail.designInputs).toMatchObject([{ cell: 'T', status: 'match' }]);

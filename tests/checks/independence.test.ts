@@ -8,7 +8,16 @@
 import { beforeEach, describe, expect, it } from 'vitest';
 import type { Actor } from '../../lib/auth/actor';
 import { mayAnswerThreads } from '../../lib/checks/rules';
-import { addComment, decide, eligibleCheckers, getCheckDetail, listQueue, resolveThread, saveCheckWork, submitForCheck } from '../../lib/checks/workflow';
+import {
+  addComment,
+  decide,
+  eligibleCheckers,
+  getCheckDetail,
+  listQueue,
+  resolveThread,
+  saveCheckWork,
+  submitForCheck,
+} from '../../lib/checks/workflow';
 import { createSheet, getSheet, getVersion, saveVersion } from '../../lib/sheets/sheets';
 import { testDb } from '../support/database';
 import { makeProject, makeUser, PASSWORD } from '../support/people';
@@ -33,7 +42,9 @@ interface World {
 async function world(): Promise<World> {
   const db = testDb();
   const [author, bystander, multi, checkApprove, checker, approver] = await Promise.all(
-    ['author', 'bystander', 'multi', 'check.approve', 'checker', 'approver'].map((n) => makeUser(db, `${n}@example.test`)),
+    ['author', 'bystander', 'multi', 'check.approve', 'checker', 'approver'].map((n) =>
+      makeUser(db, `${n}@example.test`),
+    ),
   );
   const projectId = await makeProject(db, 'BEAM', [
     [author, 'originator'],
@@ -50,7 +61,12 @@ async function world(): Promise<World> {
 }
 
 async function sheetOf(w: World, safetyRelated: boolean): Promise<SheetRef> {
-  const created = await createSheet(testDb(), w.author, { id: w.projectId, code: 'BEAM' }, { title: 'Interlock set-point', safetyRelated, objective: '' });
+  const created = await createSheet(
+    testDb(),
+    w.author,
+    { id: w.projectId, code: 'BEAM' },
+    { title: 'Interlock set-point', safetyRelated, objective: '' },
+  );
   const sheet = { id: created.id, project_id: w.projectId, number: created.number, title: 'Interlock set-point' };
   await edit(w.author, sheet, 'I_max = 2 nA');
   return sheet;
@@ -59,7 +75,11 @@ async function sheetOf(w: World, safetyRelated: boolean): Promise<SheetRef> {
 /** A new version on top of the latest, optionally changing the safety flag it records. */
 async function edit(actor: Actor, sheet: SheetRef, source: string, safetyRelated?: boolean) {
   const latest = (await getVersion(testDb(), sheet.id))!;
-  const content = { ...latest.content, cells: [{ id: 'c1', kind: 'calc' as const, source }], ...(safetyRelated === undefined ? {} : { safetyRelated }) };
+  const content = {
+    ...latest.content,
+    cells: [{ id: 'c1', kind: 'calc' as const, source }],
+    ...(safetyRelated === undefined ? {} : { safetyRelated }),
+  };
   return saveVersion(testDb(), actor, sheet, { parentNumber: latest.number, message: 'edit', content });
 }
 
@@ -70,11 +90,18 @@ async function submit(by: Actor, sheet: SheetRef, checker: Actor, versionNumber 
 async function signChecked(checker: Actor, checkId: string) {
   await saveCheckWork(testDb(), checker, checkId, { verificationMethod: 'design_review' });
   // Work carried over from a returned check of the sheet is confirmed before signing (lib/checks/carry-over.ts).
-  if ((await getCheckDetail(testDb(), checker, checkId)).carriedOver) await saveCheckWork(testDb(), checker, checkId, { confirmCarriedOver: true });
+  if ((await getCheckDetail(testDb(), checker, checkId)).carriedOver)
+    await saveCheckWork(testDb(), checker, checkId, { confirmCarriedOver: true });
   return decide(testDb(), checker, checkId, { action: 'sign', password: PASSWORD });
 }
 
-const refusals = () => testDb().selectFrom('audit_events').select(['actor_id', 'new_value', 'reason']).where('action', '=', 'workflow.refused').orderBy('id').execute();
+const refusals = () =>
+  testDb()
+    .selectFrom('audit_events')
+    .select(['actor_id', 'new_value', 'reason'])
+    .where('action', '=', 'workflow.refused')
+    .orderBy('id')
+    .execute();
 
 let w: World;
 beforeEach(async () => {
@@ -87,7 +114,9 @@ describe('the person who submits (signs "prepared") counts', () => {
     const e = await refusal(submit(w.multi, sheet, w.multi));
     expect(e).toMatchObject({ status: 403, details: { rule: 'checker-not-preparer' } });
     expect(e.message).toMatch(/^Person multi cannot check this version: they are its preparer/);
-    expect(await refusals()).toEqual([{ actor_id: w.multi.userId, new_value: { attempted: 'submit', rule: 'checker-not-preparer' }, reason: e.message }]);
+    expect(await refusals()).toEqual([
+      { actor_id: w.multi.userId, new_value: { attempted: 'submit', rule: 'checker-not-preparer' }, reason: e.message },
+    ]);
     expect(await testDb().selectFrom('checks').select('id').execute()).toEqual([]);
     expect(await testDb().selectFrom('signatures').select('id').execute()).toEqual([]);
   });
@@ -95,10 +124,15 @@ describe('the person who submits (signs "prepared") counts', () => {
   it('shows the submitter as not eligible on the submit form, and other checkers as eligible', async () => {
     const sheet = await sheetOf(w, false);
     const list = await eligibleCheckers(testDb(), sheet, 2, w.multi.userId);
-    expect(list.find((c) => c.userId === w.multi.userId)).toMatchObject({ eligible: false, reason: expect.stringMatching(/its preparer/) });
+    expect(list.find((c) => c.userId === w.multi.userId)).toMatchObject({
+      eligible: false,
+      reason: expect.stringMatching(/its preparer/),
+    });
     expect(list.find((c) => c.userId === w.checker.userId)).toMatchObject({ eligible: true, reason: null });
     // Seen by another submitter, the same person may check.
-    expect((await eligibleCheckers(testDb(), sheet, 2, w.author.userId)).find((c) => c.userId === w.multi.userId)).toMatchObject({ eligible: true });
+    expect(
+      (await eligibleCheckers(testDb(), sheet, 2, w.author.userId)).find((c) => c.userId === w.multi.userId),
+    ).toMatchObject({ eligible: true });
   });
 
   it('refuses the submitter as approver, on any sheet', async () => {
@@ -108,16 +142,22 @@ describe('the person who submits (signs "prepared") counts', () => {
     const e = await refusal(decide(testDb(), w.multi, id, { action: 'approve', password: PASSWORD }));
     expect(e).toMatchObject({ status: 403, details: { rule: 'approver-not-preparer' } });
     expect(e.message).toMatch(/^Person multi cannot approve this version: they are its preparer/);
-    expect((await refusal(decide(testDb(), w.multi, id, { action: 'reject', reason: 'mine' }))).details).toEqual({ rule: 'approver-not-preparer' });
+    expect((await refusal(decide(testDb(), w.multi, id, { action: 'reject', reason: 'mine' }))).details).toEqual({
+      rule: 'approver-not-preparer',
+    });
     expect((await refusals()).map((r) => r.new_value)).toEqual([
       { attempted: 'approve', rule: 'approver-not-preparer' },
       { attempted: 'reject', rule: 'approver-not-preparer' },
     ]);
-    expect(await listQueue(testDb(), w.multi, 'approval')).toEqual([expect.objectContaining({ id, eligible: false, reason: expect.stringMatching(/its preparer/) })]);
+    expect(await listQueue(testDb(), w.multi, 'approval')).toEqual([
+      expect.objectContaining({ id, eligible: false, reason: expect.stringMatching(/its preparer/) }),
+    ]);
     const detail = await getCheckDetail(testDb(), w.multi, id);
     expect(detail.you.actions).toEqual([]);
     expect(detail.you.approverRefusal).toMatch(/its preparer/);
-    expect(await testDb().selectFrom('signatures').select('meaning').where('user_id', '=', w.multi.userId).execute()).toEqual([{ meaning: 'prepared' }]);
+    expect(
+      await testDb().selectFrom('signatures').select('meaning').where('user_id', '=', w.multi.userId).execute(),
+    ).toEqual([{ meaning: 'prepared' }]);
     // Someone else approves it: three people signed.
     expect((await decide(testDb(), w.approver, id, { action: 'approve', password: PASSWORD })).state).toBe('approved');
   });
@@ -128,13 +168,23 @@ describe('the person who submits (signs "prepared") counts', () => {
     const v2 = (await getVersion(testDb(), sheet.id, 2))!;
     const row = await testDb()
       .insertInto('checks')
-      .values({ sheet_id: sheet.id, project_id: sheet.project_id, version_number: 2, version_sha256: v2.sha256, base_version_number: null, submitted_by: w.multi.userId, checker_id: w.multi.userId })
+      .values({
+        sheet_id: sheet.id,
+        project_id: sheet.project_id,
+        version_number: 2,
+        version_sha256: v2.sha256,
+        base_version_number: null,
+        submitted_by: w.multi.userId,
+        checker_id: w.multi.userId,
+      })
       .returning('id')
       .executeTakeFirstOrThrow();
     await saveCheckWork(testDb(), w.multi, row.id, { verificationMethod: 'design_review' });
     const e = await refusal(decide(testDb(), w.multi, row.id, { action: 'sign', password: PASSWORD }));
     expect(e).toMatchObject({ status: 403, details: { rule: 'checker-not-preparer' } });
-    expect((await refusal(decide(testDb(), w.multi, row.id, { action: 'return', reason: 'x' }))).details).toEqual({ rule: 'checker-not-preparer' });
+    expect((await refusal(decide(testDb(), w.multi, row.id, { action: 'return', reason: 'x' }))).details).toEqual({
+      rule: 'checker-not-preparer',
+    });
     const detail = await getCheckDetail(testDb(), w.multi, row.id);
     expect(detail.you.actions).toEqual([]);
     expect(detail.you.checkerRefusal).toMatch(/its preparer/);
@@ -159,7 +209,12 @@ describe('one person with originator, checker and approver roles', () => {
     const e = await refusal(decide(testDb(), w.multi, id, { action: 'approve', password: PASSWORD }));
     expect(e).toMatchObject({ status: 403, details: { rule: 'safety-approver-not-checker' } });
     expect((await decide(testDb(), w.approver, id, { action: 'approve', password: PASSWORD })).state).toBe('approved');
-    const signers = await testDb().selectFrom('signatures').select(['meaning', 'user_id']).where('sheet_id', '=', sheet.id).orderBy('signed_at').execute();
+    const signers = await testDb()
+      .selectFrom('signatures')
+      .select(['meaning', 'user_id'])
+      .where('sheet_id', '=', sheet.id)
+      .orderBy('signed_at')
+      .execute();
     expect(signers).toEqual([
       { meaning: 'prepared', user_id: w.author.userId },
       { meaning: 'checked', user_id: w.multi.userId },
@@ -207,7 +262,9 @@ describe('one person with originator, checker and approver roles', () => {
     await edit(w.multi, sheet, 'I_max = 2.5 nA'); // version 3
     const e = await refusal(submit(w.author, sheet, w.multi, 2));
     expect(e).toMatchObject({ status: 403, details: { rule: 'checker-not-originator' } });
-    expect((await eligibleCheckers(testDb(), sheet, 2, w.author.userId)).find((c) => c.userId === w.multi.userId)).toMatchObject({ eligible: false });
+    expect(
+      (await eligibleCheckers(testDb(), sheet, 2, w.author.userId)).find((c) => c.userId === w.multi.userId),
+    ).toMatchObject({ eligible: false });
   });
 
   it('an approver who saved a version after the one under check cannot approve it', async () => {
@@ -225,7 +282,9 @@ describe('a person with checker and approver roles', () => {
     const sheet = await sheetOf(w, false);
     const { id } = await submit(w.author, sheet, w.checkApprove);
     await signChecked(w.checkApprove, id);
-    expect((await decide(testDb(), w.checkApprove, id, { action: 'approve', password: PASSWORD })).state).toBe('approved');
+    expect((await decide(testDb(), w.checkApprove, id, { action: 'approve', password: PASSWORD })).state).toBe(
+      'approved',
+    );
   });
 
   it('cannot approve a safety-related version they checked, even when it was checked in an earlier check of the same version', async () => {
@@ -244,11 +303,32 @@ describe('answering comment threads: the people of the check only', () => {
   it('lets the submitter and the checker answer, and refuses any other originator of the project', async () => {
     const sheet = await sheetOf(w, false);
     const { id } = await submit(w.author, sheet, w.checker);
-    const thread = await addComment(testDb(), w.checker, id, { cellId: 'c1', statementLine: 1, body: 'Source of the limit?' });
-    await addComment(testDb(), w.author, id, { cellId: 'c1', statementLine: null, body: 'The interlock specification.', threadId: thread.id });
-    await addComment(testDb(), w.checker, id, { cellId: 'c1', statementLine: null, body: 'Which revision?', threadId: thread.id });
+    const thread = await addComment(testDb(), w.checker, id, {
+      cellId: 'c1',
+      statementLine: 1,
+      body: 'Source of the limit?',
+    });
+    await addComment(testDb(), w.author, id, {
+      cellId: 'c1',
+      statementLine: null,
+      body: 'The interlock specification.',
+      threadId: thread.id,
+    });
+    await addComment(testDb(), w.checker, id, {
+      cellId: 'c1',
+      statementLine: null,
+      body: 'Which revision?',
+      threadId: thread.id,
+    });
     for (const other of [w.bystander, w.multi]) {
-      const e = await refusal(addComment(testDb(), other, id, { cellId: 'c1', statementLine: null, body: 'I can answer too.', threadId: thread.id }));
+      const e = await refusal(
+        addComment(testDb(), other, id, {
+          cellId: 'c1',
+          statementLine: null,
+          body: 'I can answer too.',
+          threadId: thread.id,
+        }),
+      );
       expect(e.status).toBe(403);
       expect((await getCheckDetail(testDb(), other, id)).you.canComment).toBe(false);
     }
@@ -256,8 +336,19 @@ describe('answering comment threads: the people of the check only', () => {
     expect((await getCheckDetail(testDb(), w.checker, id)).you.canComment).toBe(true);
     // After a return, the same: the submitter answers, a bystander does not.
     await decide(testDb(), w.checker, id, { action: 'return', reason: 'Answer the thread.' });
-    await addComment(testDb(), w.author, id, { cellId: 'c1', statementLine: null, body: 'Revision C.', threadId: thread.id });
-    expect((await refusal(addComment(testDb(), w.bystander, id, { cellId: 'c1', statementLine: null, body: 'x', threadId: thread.id }))).status).toBe(403);
+    await addComment(testDb(), w.author, id, {
+      cellId: 'c1',
+      statementLine: null,
+      body: 'Revision C.',
+      threadId: thread.id,
+    });
+    expect(
+      (
+        await refusal(
+          addComment(testDb(), w.bystander, id, { cellId: 'c1', statementLine: null, body: 'x', threadId: thread.id }),
+        )
+      ).status,
+    ).toBe(403);
     await resolveThread(testDb(), w.checker, id, thread.id).catch(() => undefined);
   });
 
@@ -265,7 +356,11 @@ describe('answering comment threads: the people of the check only', () => {
     const check = { submitted_by: 'p', checker_id: 'c', decided_by: 'a', state: 'approval_returned' as const };
     expect(['p', 'c', 'a', 'x'].map((u) => mayAnswerThreads(check, u))).toEqual([true, true, true, false]);
     // Before an approver has acted, the one who decided is the checker: nobody else is added.
-    expect(['p', 'c', 'a'].map((u) => mayAnswerThreads({ ...check, state: 'returned', decided_by: 'c' }, u))).toEqual([true, true, false]);
+    expect(['p', 'c', 'a'].map((u) => mayAnswerThreads({ ...check, state: 'returned', decided_by: 'c' }, u))).toEqual([
+      true,
+      true,
+      false,
+    ]);
   });
 });
 
@@ -274,22 +369,47 @@ describe('the checker\u2019s work is audited', () => {
     const sheet = await sheetOf(w, false);
     const { id } = await submit(w.author, sheet, w.checker);
     await saveCheckWork(testDb(), w.checker, id, { verificationMethod: 'design_review', checkerNotes: 'First look.' });
-    await saveCheckWork(testDb(), w.checker, id, { verificationMethod: 'alternate_calculation', alternateCells: [{ id: 'a1', kind: 'calc', source: 'I_alt = 2 nA' }] });
+    await saveCheckWork(testDb(), w.checker, id, {
+      verificationMethod: 'alternate_calculation',
+      alternateCells: [{ id: 'a1', kind: 'calc', source: 'I_alt = 2 nA' }],
+    });
     await saveCheckWork(testDb(), w.checker, id, { checkerNotes: 'Agrees with the alternate calculation.' });
-    const events = await testDb().selectFrom('audit_events').select(['action', 'actor_id', 'object_id', 'old_value', 'new_value']).where('action', '=', 'check.work').orderBy('id').execute();
+    const events = await testDb()
+      .selectFrom('audit_events')
+      .select(['action', 'actor_id', 'object_id', 'old_value', 'new_value'])
+      .where('action', '=', 'check.work')
+      .orderBy('id')
+      .execute();
     expect(events).toEqual([
-      { action: 'check.work', actor_id: w.checker.userId, object_id: id, old_value: { verificationMethod: null, checkerNotes: '' }, new_value: { verificationMethod: 'design_review', checkerNotes: 'First look.' } },
+      {
+        action: 'check.work',
+        actor_id: w.checker.userId,
+        object_id: id,
+        old_value: { verificationMethod: null, checkerNotes: '' },
+        new_value: { verificationMethod: 'design_review', checkerNotes: 'First look.' },
+      },
       {
         action: 'check.work',
         actor_id: w.checker.userId,
         object_id: id,
         old_value: { verificationMethod: 'design_review', alternateCells: [] },
-        new_value: { verificationMethod: 'alternate_calculation', alternateCells: [{ id: 'a1', kind: 'calc', source: 'I_alt = 2 nA' }] },
+        new_value: {
+          verificationMethod: 'alternate_calculation',
+          alternateCells: [{ id: 'a1', kind: 'calc', source: 'I_alt = 2 nA' }],
+        },
       },
-      { action: 'check.work', actor_id: w.checker.userId, object_id: id, old_value: { checkerNotes: 'First look.' }, new_value: { checkerNotes: 'Agrees with the alternate calculation.' } },
+      {
+        action: 'check.work',
+        actor_id: w.checker.userId,
+        object_id: id,
+        old_value: { checkerNotes: 'First look.' },
+        new_value: { checkerNotes: 'Agrees with the alternate calculation.' },
+      },
     ]);
     // A refused change records nothing.
     await refusal(saveCheckWork(testDb(), w.author, id, { checkerNotes: 'not mine' }));
-    expect(await testDb().selectFrom('audit_events').select('id').where('action', '=', 'check.work').execute()).toHaveLength(3);
+    expect(
+      await testDb().selectFrom('audit_events').select('id').where('action', '=', 'check.work').execute(),
+    ).toHaveLength(3);
   });
 });

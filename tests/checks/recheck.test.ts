@@ -18,7 +18,11 @@ async function edit(source: string, conclusions = '') {
   return saveVersion(testDb(), author, sheet, {
     parentNumber: latest.number,
     message: 'edit',
-    content: { ...latest.content, record: { ...latest.content.record, conclusions }, cells: [{ id: 'c1', kind: 'calc', source }] },
+    content: {
+      ...latest.content,
+      record: { ...latest.content.record, conclusions },
+      cells: [{ id: 'c1', kind: 'calc', source }],
+    },
   });
 }
 
@@ -32,48 +36,90 @@ beforeEach(async () => {
     [checker, 'checker'],
     [approver, 'approver'],
   ]);
-  const created = await createSheet(db, author, { id: projectId, code: 'BEAM' }, { title: 'Dipole field', safetyRelated: false, objective: '' });
+  const created = await createSheet(
+    db,
+    author,
+    { id: projectId, code: 'BEAM' },
+    { title: 'Dipole field', safetyRelated: false, objective: '' },
+  );
   sheet = { id: created.id, project_id: projectId, number: created.number, title: 'Dipole field' };
   await edit('rho = 1.5 m');
 });
 
 it('compares a resubmission with the version the checker returned, and the first check with nothing', async () => {
   const db = testDb();
-  const first = await submitForCheck(db, author, sheet, { versionNumber: 2, checkerId: checker.userId, password: PASSWORD });
+  const first = await submitForCheck(db, author, sheet, {
+    versionNumber: 2,
+    checkerId: checker.userId,
+    password: PASSWORD,
+  });
   expect((await getCheckDetail(db, checker, first.id)).sinceReturn).toBeNull();
   await decide(db, checker, first.id, { action: 'return', reason: 'State the conclusion.' });
   await edit('rho = 1.5 m', 'The radius is as drawn.');
   await edit('rho = 1.50 m', 'The radius is as drawn.');
-  const again = await submitForCheck(db, author, sheet, { versionNumber: 4, checkerId: checker.userId, password: PASSWORD });
+  const again = await submitForCheck(db, author, sheet, {
+    versionNumber: 4,
+    checkerId: checker.userId,
+    password: PASSWORD,
+  });
   const detail = await getCheckDetail(db, checker, again.id);
   // No approved version: the main comparison is the whole sheet; the re-check's is since version 2.
   expect(detail.comparison.firstCheck).toBe(true);
-  expect(detail.sinceReturn).toMatchObject({ checkId: first.id, state: 'returned', versionNumber: 2, returnedById: checker.userId, returnedBy: checker.name, returnReason: 'State the conclusion.' });
+  expect(detail.sinceReturn).toMatchObject({
+    checkId: first.id,
+    state: 'returned',
+    versionNumber: 2,
+    returnedById: checker.userId,
+    returnedBy: checker.name,
+    returnReason: 'State the conclusion.',
+  });
   const since = detail.sinceReturn!.comparison;
   expect(since.firstCheck).toBe(false);
   expect(since.cells.map((c) => c.status)).toEqual(['changed']);
-  expect(since.record.fields.map((f) => [f.field, f.old, f.new])).toEqual([['conclusions', '', 'The radius is as drawn.']]);
+  expect(since.record.fields.map((f) => [f.field, f.old, f.new])).toEqual([
+    ['conclusions', '', 'The radius is as drawn.'],
+  ]);
 });
 
 it('compares with the version the approver returned, and carries nothing after an approval', async () => {
   const db = testDb();
-  const first = await submitForCheck(db, author, sheet, { versionNumber: 2, checkerId: checker.userId, password: PASSWORD });
+  const first = await submitForCheck(db, author, sheet, {
+    versionNumber: 2,
+    checkerId: checker.userId,
+    password: PASSWORD,
+  });
   await saveCheckWork(db, checker, first.id, { verificationMethod: 'design_review' });
   await decide(db, checker, first.id, { action: 'sign', password: PASSWORD });
   await decide(db, approver, first.id, { action: 'reject', reason: 'Cite the drawing.' });
   await edit('rho = 1.5 m  # drawing D-12');
-  const again = await submitForCheck(db, author, sheet, { versionNumber: 3, checkerId: checker.userId, password: PASSWORD });
+  const again = await submitForCheck(db, author, sheet, {
+    versionNumber: 3,
+    checkerId: checker.userId,
+    password: PASSWORD,
+  });
   const detail = await getCheckDetail(db, checker, again.id);
-  expect(detail.sinceReturn).toMatchObject({ state: 'approval_returned', versionNumber: 2, returnedById: approver.userId });
-  expect(detail.sinceReturn!.comparison.cells[0].sourceDiff).toEqual([{ text: 'rho = 1.5 m' }, { text: '  # drawing D-12', added: true }]);
+  expect(detail.sinceReturn).toMatchObject({
+    state: 'approval_returned',
+    versionNumber: 2,
+    returnedById: approver.userId,
+  });
+  expect(detail.sinceReturn!.comparison.cells[0].sourceDiff).toEqual([
+    { text: 'rho = 1.5 m' },
+    { text: '  # drawing D-12', added: true },
+  ]);
 
   await saveCheckWork(db, checker, again.id, { verificationMethod: 'design_review' });
   // The work carried over from the returned check waits for the checker's confirmation.
-  if ((await getCheckDetail(db, checker, again.id)).carriedOver) await saveCheckWork(db, checker, again.id, { confirmCarriedOver: true });
+  if ((await getCheckDetail(db, checker, again.id)).carriedOver)
+    await saveCheckWork(db, checker, again.id, { confirmCarriedOver: true });
   await decide(db, checker, again.id, { action: 'sign', password: PASSWORD });
   await decide(db, approver, again.id, { action: 'approve', password: PASSWORD });
   await edit('rho = 1.6 m');
-  const after = await submitForCheck(db, author, sheet, { versionNumber: 4, checkerId: checker.userId, password: PASSWORD });
+  const after = await submitForCheck(db, author, sheet, {
+    versionNumber: 4,
+    checkerId: checker.userId,
+    password: PASSWORD,
+  });
   const next = await getCheckDetail(db, checker, after.id);
   expect(next.base?.number).toBe(3);
   expect(next.sinceReturn).toBeNull();

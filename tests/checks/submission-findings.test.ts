@@ -25,7 +25,18 @@ describe('design inputs linked to cells', () => {
   // A proton kinetic energy of 150 MeV (a common practice beam energy) written in joules:
   // 150 MeV × 1.602 176 634 × 10⁻¹⁹ J/eV (SI 2019, exact) = 2.403 264 951 × 10⁻¹¹ J.
   it('matches the same kinetic energy written in another unit, to the digits written', () => {
-    const c = content(['T = 150 MeV'], [{ name: 'Proton kinetic energy', value: '2.403265e-11 J', source: 'Beam specification', sourceRevision: 'A', cell: 'T' }]);
+    const c = content(
+      ['T = 150 MeV'],
+      [
+        {
+          name: 'Proton kinetic energy',
+          value: '2.403265e-11 J',
+          source: 'Beam specification',
+          sourceRevision: 'A',
+          cell: 'T',
+        },
+      ],
+    );
     const findings = submissionFindings(c, evaluate(c));
     expect(findings).toEqual([]);
     const v = evaluate(c).cells[0].statements[0].value;
@@ -39,12 +50,21 @@ describe('design inputs linked to cells', () => {
   });
 
   it('reports a mismatch, units of another dimension and a name the sheet does not define', () => {
-    const c = content(['T = 160 MeV'], [
-      { name: 'Proton kinetic energy', value: '150 MeV', source: 'Beam specification', sourceRevision: 'A', cell: 'T' },
-      { name: 'Proton momentum', value: '150 MeV', source: 'Beam specification', sourceRevision: 'A', cell: 'p' },
-      { name: 'Energy as a length', value: '150 m', source: 'Beam specification', sourceRevision: 'A', cell: 'T' },
-      { name: 'Not linked', value: '3 m', source: 'Survey', sourceRevision: 'B' },
-    ]);
+    const c = content(
+      ['T = 160 MeV'],
+      [
+        {
+          name: 'Proton kinetic energy',
+          value: '150 MeV',
+          source: 'Beam specification',
+          sourceRevision: 'A',
+          cell: 'T',
+        },
+        { name: 'Proton momentum', value: '150 MeV', source: 'Beam specification', sourceRevision: 'A', cell: 'p' },
+        { name: 'Energy as a length', value: '150 m', source: 'Beam specification', sourceRevision: 'A', cell: 'T' },
+        { name: 'Not linked', value: '3 m', source: 'Survey', sourceRevision: 'B' },
+      ],
+    );
     const findings = submissionFindings(c, evaluate(c));
     expect(findings.map((f) => [f.key, f.kind])).toEqual([
       ['input:0', 'design-input'],
@@ -59,7 +79,10 @@ describe('design inputs linked to cells', () => {
 
   it('keeps the hash of a version whose inputs name no cell', () => {
     const old = content(['x = 1 m'], [{ name: 'Spacing', value: '1 m', source: 'Survey', sourceRevision: 'A' }]);
-    const linked = content(['x = 1 m'], [{ name: 'Spacing', value: '1 m', source: 'Survey', sourceRevision: 'A', cell: 'x' }]);
+    const linked = content(
+      ['x = 1 m'],
+      [{ name: 'Spacing', value: '1 m', source: 'Survey', sourceRevision: 'A', cell: 'x' }],
+    );
     // The canonical form has no "cell" key when absent, so the hash is the one stored before the field existed.
     expect(JSON.stringify(old)).not.toContain('"cell"');
     expect(contentHash(old)).not.toBe(contentHash(linked));
@@ -75,7 +98,10 @@ describe('findings to acknowledge', () => {
     expect(kinds.filter((k) => k === 'cell-error').length).toBeGreaterThanOrEqual(2);
     expect(kinds).toContain('criterion-failed');
     expect(kinds).toContain('lint-warning');
-    const { missing } = unacknowledged(findings, findings.slice(1).map((f) => ({ key: f.key, text: 'Reviewed.' })));
+    const { missing } = unacknowledged(
+      findings,
+      findings.slice(1).map((f) => ({ key: f.key, text: 'Reviewed.' })),
+    );
     expect(missing.map((f) => f.key)).toEqual([findings[0].key]);
     expect(unacknowledged(findings, [{ key: findings[0].key, text: '   ' }]).missing.length).toBe(findings.length);
     expect(unacknowledged(findings, [{ key: 'error:zz:1', text: 'x' }]).unknown).toEqual(['error:zz:1']);

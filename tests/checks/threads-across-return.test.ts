@@ -3,7 +3,14 @@
 // as checked waits for them.
 import { beforeEach, expect, it } from 'vitest';
 import type { Actor } from '../../lib/auth/actor';
-import { addComment, decide, getCheckDetail, resolveThread, saveCheckWork, submitForCheck } from '../../lib/checks/workflow';
+import {
+  addComment,
+  decide,
+  getCheckDetail,
+  resolveThread,
+  saveCheckWork,
+  submitForCheck,
+} from '../../lib/checks/workflow';
 import { createSheet, getVersion, saveVersion } from '../../lib/sheets/sheets';
 import { testDb } from '../support/database';
 import { makeProject, makeUser, PASSWORD } from '../support/people';
@@ -15,7 +22,11 @@ let sheet: { id: string; project_id: string; number: number; title: string };
 
 async function edit(source: string) {
   const latest = (await getVersion(testDb(), sheet.id))!;
-  return saveVersion(testDb(), author, sheet, { parentNumber: latest.number, message: 'edit', content: { ...latest.content, cells: [{ id: 'c1', kind: 'calc', source }] } });
+  return saveVersion(testDb(), author, sheet, {
+    parentNumber: latest.number,
+    message: 'edit',
+    content: { ...latest.content, cells: [{ id: 'c1', kind: 'calc', source }] },
+  });
 }
 
 beforeEach(async () => {
@@ -26,47 +37,108 @@ beforeEach(async () => {
     [author, 'originator'],
     [checker, 'checker'],
   ]);
-  const created = await createSheet(db, author, { id: projectId, code: 'BEAM' }, { title: 'Dipole rigidity', safetyRelated: false, objective: '' });
+  const created = await createSheet(
+    db,
+    author,
+    { id: projectId, code: 'BEAM' },
+    { title: 'Dipole rigidity', safetyRelated: false, objective: '' },
+  );
   sheet = { id: created.id, project_id: projectId, number: created.number, title: 'Dipole rigidity' };
   await edit('T_kin = 250 MeV\nBrho = magneticRigidity(momentumFromKinetic(T_kin, m_p), 1) to T*m');
 });
 
 it('lets the originator answer a returned check, carries the open thread to the resubmission, and signing waits for it', async () => {
   const db = testDb();
-  const first = await submitForCheck(db, author, sheet, { versionNumber: 2, checkerId: checker.userId, password: PASSWORD });
-  const open = await addComment(db, checker, first.id, { cellId: 'c1', statementLine: 2, body: 'Which charge state is assumed?' });
-  const settled = await addComment(db, checker, first.id, { cellId: 'c1', statementLine: 1, body: 'Typo in the comment.' });
+  const first = await submitForCheck(db, author, sheet, {
+    versionNumber: 2,
+    checkerId: checker.userId,
+    password: PASSWORD,
+  });
+  const open = await addComment(db, checker, first.id, {
+    cellId: 'c1',
+    statementLine: 2,
+    body: 'Which charge state is assumed?',
+  });
+  const settled = await addComment(db, checker, first.id, {
+    cellId: 'c1',
+    statementLine: 1,
+    body: 'Typo in the comment.',
+  });
   await resolveThread(db, checker, first.id, settled.id);
   await decide(db, checker, first.id, { action: 'return', reason: 'One open comment.' });
 
   // On the returned check: the originator answers; nobody opens a thread or resolves one there.
   expect((await getCheckDetail(db, author, first.id)).you.canComment).toBe(true);
-  await addComment(db, author, first.id, { cellId: 'c1', statementLine: null, body: 'Protons, charge 1 e.', threadId: open.id });
-  expect((await refusal(addComment(db, checker, first.id, { cellId: 'c1', statementLine: null, body: 'a new thread' }))).status).toBe(409);
+  await addComment(db, author, first.id, {
+    cellId: 'c1',
+    statementLine: null,
+    body: 'Protons, charge 1 e.',
+    threadId: open.id,
+  });
+  expect(
+    (await refusal(addComment(db, checker, first.id, { cellId: 'c1', statementLine: null, body: 'a new thread' })))
+      .status,
+  ).toBe(409);
   expect((await refusal(resolveThread(db, checker, first.id, open.id))).status).toBe(409);
 
-  await edit('T_kin = 250 MeV\nBrho = magneticRigidity(momentumFromKinetic(T_kin, m_p), 1) to T*m # protons, charge 1 e');
-  const second = await submitForCheck(db, author, sheet, { versionNumber: 3, checkerId: checker.userId, password: PASSWORD });
+  await edit(
+    'T_kin = 250 MeV\nBrho = magneticRigidity(momentumFromKinetic(T_kin, m_p), 1) to T*m # protons, charge 1 e',
+  );
+  const second = await submitForCheck(db, author, sheet, {
+    versionNumber: 3,
+    checkerId: checker.userId,
+    password: PASSWORD,
+  });
   // Once submitted again, the returned check takes no more replies; the new one carries the open thread only.
-  expect((await refusal(addComment(db, author, first.id, { cellId: 'c1', statementLine: null, body: 'late', threadId: open.id }))).status).toBe(409);
+  expect(
+    (
+      await refusal(
+        addComment(db, author, first.id, { cellId: 'c1', statementLine: null, body: 'late', threadId: open.id }),
+      )
+    ).status,
+  ).toBe(409);
   expect((await getCheckDetail(db, author, first.id)).you.canComment).toBe(false);
   const detail = await getCheckDetail(db, checker, second.id);
   expect(detail.threads).toMatchObject([
-    { id: open.id, cellId: 'c1', statementLine: 2, resolvedAt: null, openedOnVersion: 2, comments: [{ body: 'Which charge state is assumed?' }, { body: 'Protons, charge 1 e.' }] },
+    {
+      id: open.id,
+      cellId: 'c1',
+      statementLine: 2,
+      resolvedAt: null,
+      openedOnVersion: 2,
+      comments: [{ body: 'Which charge state is assumed?' }, { body: 'Protons, charge 1 e.' }],
+    },
   ]);
 
   await saveCheckWork(db, checker, second.id, { verificationMethod: 'design_review' });
-  expect(await refusal(decide(db, checker, second.id, { action: 'sign', password: PASSWORD }))).toMatchObject({ status: 409, details: { openThreads: 1 } });
-  await addComment(db, checker, second.id, { cellId: 'c1', statementLine: null, body: 'Thank you, stated now.', threadId: open.id });
+  expect(await refusal(decide(db, checker, second.id, { action: 'sign', password: PASSWORD }))).toMatchObject({
+    status: 409,
+    details: { openThreads: 1 },
+  });
+  await addComment(db, checker, second.id, {
+    cellId: 'c1',
+    statementLine: null,
+    body: 'Thank you, stated now.',
+    threadId: open.id,
+  });
   await resolveThread(db, checker, second.id, open.id);
-  expect((await getCheckDetail(db, author, second.id)).threads[0]).toMatchObject({ resolvedBy: 'Person checker', comments: [{}, {}, { body: 'Thank you, stated now.' }] });
-  expect(await decide(db, checker, second.id, { action: 'sign', password: PASSWORD })).toMatchObject({ state: 'checked' });
+  expect((await getCheckDetail(db, author, second.id)).threads[0]).toMatchObject({
+    resolvedBy: 'Person checker',
+    comments: [{}, {}, { body: 'Thank you, stated now.' }],
+  });
+  expect(await decide(db, checker, second.id, { action: 'sign', password: PASSWORD })).toMatchObject({
+    state: 'checked',
+  });
   // The returned check shows the thread as it ended.
   expect((await getCheckDetail(db, author, first.id)).threads.find((t) => t.id === open.id)?.resolvedAt).not.toBeNull();
 });
 
 it('refuses to resolve a comment id that is not a uuid with 409, not a server error', async () => {
   const db = testDb();
-  const check = await submitForCheck(db, author, sheet, { versionNumber: 2, checkerId: checker.userId, password: PASSWORD });
+  const check = await submitForCheck(db, author, sheet, {
+    versionNumber: 2,
+    checkerId: checker.userId,
+    password: PASSWORD,
+  });
   expect((await refusal(resolveThread(db, checker, check.id, 'not-a-uuid'))).status).toBe(409);
 });

@@ -8,7 +8,10 @@ import { makeSheetWithVersion } from '../support/fixtures';
 it('reports the first edited event when a superuser bypasses the triggers', async () => {
   const { userId } = await makeSheetWithVersion(testDb());
   for (const reason of ['one', 'two', 'three']) {
-    await testDb().insertInto('audit_events').values({ actor_id: userId, action: 'test.event', object_type: 'test', reason }).execute();
+    await testDb()
+      .insertInto('audit_events')
+      .values({ actor_id: userId, action: 'test.event', object_type: 'test', reason })
+      .execute();
   }
   const client = await adminPool().connect();
   try {

@@ -21,7 +21,11 @@ describe('versions are immutable', () => {
     const { versionId } = await makeSheetWithVersion(testDb());
     const message = await refused(sql`update versions set message = 'rewritten' where id = ${versionId}`);
     expect(message).toMatch(/^WS001: UPDATE on versions is refused/);
-    const row = await testDb().selectFrom('versions').select('message').where('id', '=', versionId).executeTakeFirstOrThrow();
+    const row = await testDb()
+      .selectFrom('versions')
+      .select('message')
+      .where('id', '=', versionId)
+      .executeTakeFirstOrThrow();
     expect(row.message).toBe('first');
   });
 
@@ -35,7 +39,10 @@ describe('versions are immutable', () => {
     const { versionId } = await makeSheetWithVersion(testDb());
     expect(await refused(sql`delete from versions where id = ${versionId}`)).toMatch(/DELETE on versions is refused/);
     expect(await refused(sql`truncate versions cascade`)).toMatch(/TRUNCATE on versions is refused/);
-    const count = await testDb().selectFrom('versions').select((eb) => eb.fn.countAll<string>().as('n')).executeTakeFirstOrThrow();
+    const count = await testDb()
+      .selectFrom('versions')
+      .select((eb) => eb.fn.countAll<string>().as('n'))
+      .executeTakeFirstOrThrow();
     expect(Number(count.n)).toBe(1);
   });
 
@@ -53,7 +60,9 @@ describe('versions are immutable', () => {
   it('numbers sheets uniquely within a project', async () => {
     const { projectId, userId } = await makeSheetWithVersion(testDb());
     expect(
-      await refused(sql`insert into sheets (project_id, number, title, created_by) values (${projectId}, 1, 'Duplicate', ${userId})`),
+      await refused(
+        sql`insert into sheets (project_id, number, title, created_by) values (${projectId}, 1, 'Duplicate', ${userId})`,
+      ),
     ).toMatch(/sheets_project_number_key/);
   });
 });
@@ -64,7 +73,15 @@ describe('audit events are append-only and hash-chained', () => {
     for (let i = 0; i < n; i++) {
       await testDb()
         .insertInto('audit_events')
-        .values({ actor_id: userId, project_id: projectId, action: 'test.event', object_type: 'test', object_id: String(i), new_value: JSON.stringify({ i }), reason: null })
+        .values({
+          actor_id: userId,
+          project_id: projectId,
+          action: 'test.event',
+          object_type: 'test',
+          object_id: String(i),
+          new_value: JSON.stringify({ i }),
+          reason: null,
+        })
         .execute();
     }
     return testDb().selectFrom('audit_events').selectAll().orderBy('id').execute();
@@ -72,8 +89,12 @@ describe('audit events are append-only and hash-chained', () => {
 
   it('refuses UPDATE, DELETE and TRUNCATE of audit rows', async () => {
     const [event] = await addEvents(1);
-    expect(await refused(sql`update audit_events set reason = 'edited' where id = ${event.id}`)).toMatch(/UPDATE on audit_events is refused/);
-    expect(await refused(sql`delete from audit_events where id = ${event.id}`)).toMatch(/DELETE on audit_events is refused/);
+    expect(await refused(sql`update audit_events set reason = 'edited' where id = ${event.id}`)).toMatch(
+      /UPDATE on audit_events is refused/,
+    );
+    expect(await refused(sql`delete from audit_events where id = ${event.id}`)).toMatch(
+      /DELETE on audit_events is refused/,
+    );
     expect(await refused(sql`truncate audit_events`)).toMatch(/TRUNCATE on audit_events is refused/);
   });
 

@@ -25,7 +25,11 @@ afterAll(async () => {
 });
 
 async function tables(db: ReturnType<typeof createDb>): Promise<string[]> {
-  const r = await sql<{ tablename: string }>`select tablename from pg_tables where schemaname = 'public' and tablename not like 'kysely_%' order by 1`.execute(db);
+  const r = await sql<{
+    tablename: string;
+  }>`select tablename from pg_tables where schemaname = 'public' and tablename not like 'kysely_%' order by 1`.execute(
+    db,
+  );
   return r.rows.map((row) => row.tablename);
 }
 
@@ -34,11 +38,35 @@ it('migrates up from nothing, down to nothing and up again', async () => {
   try {
     expect(await tables(db)).toEqual([]);
     await migrateToLatest(db);
-    const expected = ['api_tokens', 'attachments', 'audit_events', 'check_comments', 'checks', 'csp_reports', 'email_tokens', 'issue_jobs', 'project_members', 'projects', 'revisions', 'sessions', 'sheets', 'sign_in_attempts', 'signatures', 'users', 'verify_rate_limits', 'version_references', 'versions'];
+    const expected = [
+      'api_tokens',
+      'attachments',
+      'audit_events',
+      'check_comments',
+      'checks',
+      'csp_reports',
+      'email_tokens',
+      'issue_jobs',
+      'project_members',
+      'projects',
+      'revisions',
+      'sessions',
+      'sheets',
+      'sign_in_attempts',
+      'signatures',
+      'users',
+      'verify_rate_limits',
+      'version_references',
+      'versions',
+    ];
     expect(await tables(db)).toEqual(expected);
     await migrateDownAll(db);
     expect(await tables(db)).toEqual([]);
-    const functions = await sql<{ n: string }>`select count(*) as n from pg_proc p join pg_namespace n on n.oid = p.pronamespace where n.nspname = 'public'`.execute(db);
+    const functions = await sql<{
+      n: string;
+    }>`select count(*) as n from pg_proc p join pg_namespace n on n.oid = p.pronamespace where n.nspname = 'public'`.execute(
+      db,
+    );
     expect(Number(functions.rows[0].n)).toBe(0);
     await migrateToLatest(db);
     expect(await tables(db)).toEqual(expected);

@@ -13,7 +13,14 @@ import { testDb } from '../support/database';
 async function counts() {
   const db = testDb();
   const count = async (table: 'users' | 'projects' | 'project_members' | 'sheets' | 'versions' | 'audit_events') =>
-    Number((await db.selectFrom(table).select((eb) => eb.fn.countAll<string>().as('n')).executeTakeFirstOrThrow()).n);
+    Number(
+      (
+        await db
+          .selectFrom(table)
+          .select((eb) => eb.fn.countAll<string>().as('n'))
+          .executeTakeFirstOrThrow()
+      ).n,
+    );
   return {
     users: await count('users'),
     projects: await count('projects'),
@@ -58,7 +65,10 @@ it('stores each seeded version with the SHA-256 of its canonical content', async
 
 it('stores each demo version evaluated, every cell without error, with the engine version and constants edition', async () => {
   await seedDemo(testDb());
-  const versions = await testDb().selectFrom('versions').select(['results', 'engine_version', 'constants_edition']).execute();
+  const versions = await testDb()
+    .selectFrom('versions')
+    .select(['results', 'engine_version', 'constants_edition'])
+    .execute();
   expect(versions).toHaveLength(3);
   for (const v of versions) {
     const results = v.results as { ok: boolean; cells: Array<{ ok: boolean; error: string | null }> };
@@ -87,7 +97,9 @@ it('seeds the study sheets of the demo installation when asked, each evaluating 
   expect(versions).toHaveLength(5);
   for (const v of versions) expect((v.results as { ok: boolean }).ok).toBe(true);
   const engine = createSheetEngine();
-  const [study, worldline] = demoStudySheets().map((d) => engine.evaluate(d.content.cells, { significantFigures: 6 }).cells.flatMap((c) => c.statements));
+  const [study, worldline] = demoStudySheets().map((d) =>
+    engine.evaluate(d.content.cells, { significantFigures: 6 }).cells.flatMap((c) => c.statements),
+  );
   expect(study.find((s) => s.kind === 'sweep')?.table?.rows).toHaveLength(10);
   expect(study.find((s) => s.name === 'B_dip')?.uncertainty?.budget.map((b) => b.name)).toEqual(['T_kin', 'rho']);
   // Sheet 5, an electron from rest across a 60 mm gap at 60 kV (Rindler 2006, ch. 3, hyperbolic motion):
@@ -96,7 +108,10 @@ it('seeds the study sheets of the demo installation when asked, each evaluating 
   expect(worldline.find((s) => s.kind === 'plot')?.plot?.horizons?.[0].distance).toBeCloseTo(0.51099895069, 9);
   const gammaExit = 1 + 60 / 510.99895069;
   const a0 = (1.602176634e-19 * 1e6) / 9.1093837139e-31; // SI 2019 e exact; CODATA 2022 m_e
-  expect(worldline.find((s) => s.name === 't_gap')?.value?.number).toBeCloseTo((299_792_458 / a0) * Math.sqrt(gammaExit * gammaExit - 1) * 1e9, 9);
+  expect(worldline.find((s) => s.name === 't_gap')?.value?.number).toBeCloseTo(
+    (299_792_458 / a0) * Math.sqrt(gammaExit * gammaExit - 1) * 1e9,
+    9,
+  );
   const criteria = worldline.filter((s) => s.kind === 'criterion');
   expect(criteria).toHaveLength(2);
   expect(criteria.every((s) => s.criterion?.pass)).toBe(true);
@@ -114,15 +129,27 @@ it('seeds the starter sheets when asked: marked as starters, every cell without 
     .execute();
   expect(rows.map((r) => r.number)).toEqual([6, 7, 8, 9, 10]);
   for (const r of rows) {
-    const results = r.results as { ok: boolean; cells: Array<{ error: string | null; statements: Array<{ kind: string; criterion: { pass: boolean } | null }> }> };
+    const results = r.results as {
+      ok: boolean;
+      cells: Array<{ error: string | null; statements: Array<{ kind: string; criterion: { pass: boolean } | null }> }>;
+    };
     expect(results.cells.map((c) => c.error).filter(Boolean), `starter ${r.number}`).toEqual([]);
     expect(results.ok, `starter ${r.number}`).toBe(true);
     const criteria = results.cells.flatMap((c) => c.statements).filter((s) => s.kind === 'criterion');
     expect(criteria.length, `starter ${r.number} has a design criterion`).toBeGreaterThan(0);
-    expect(criteria.every((s) => s.criterion?.pass), `starter ${r.number}`).toBe(true);
+    expect(
+      criteria.every((s) => s.criterion?.pass),
+      `starter ${r.number}`,
+    ).toBe(true);
     // Nothing to acknowledge at submission: no error, failed criterion, engine warning or mismatched design input.
-    expect(submissionFindings(r.content as VersionContent, r.results as SheetResult), `starter ${r.number}`).toEqual([]);
+    expect(submissionFindings(r.content as VersionContent, r.results as SheetResult), `starter ${r.number}`).toEqual(
+      [],
+    );
   }
   // The demo sheets are not starters.
-  expect((await testDb().selectFrom('sheets').select('number').where('starter', '=', false).orderBy('number').execute()).map((r) => r.number)).toEqual([1, 2, 3]);
+  expect(
+    (await testDb().selectFrom('sheets').select('number').where('starter', '=', false).orderBy('number').execute()).map(
+      (r) => r.number,
+    ),
+  ).toEqual([1, 2, 3]);
 });

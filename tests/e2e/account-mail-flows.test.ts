@@ -101,7 +101,10 @@ describe('e-mailed links', () => {
       await page.getByRole('button', { name: 'Sign out' }).click();
       await page.getByRole('link', { name: 'Sign in' }).waitFor();
 
-      const mail = await waitForMail({ to: 'new.engineer@example.test', subject: 'You are invited to Worldsheet' }, 20_000);
+      const mail = await waitForMail(
+        { to: 'new.engineer@example.test', subject: 'You are invited to Worldsheet' },
+        20_000,
+      );
       await page.goto(linkIn(mail.text, '/reset-password?token='));
       await page.getByRole('heading', { name: 'Welcome: choose your password' }).waitFor();
       await page.getByLabel('New password').fill('first password of mine');

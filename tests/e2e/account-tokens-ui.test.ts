@@ -29,7 +29,10 @@ async function signIn(): Promise<BrowserSession> {
 }
 
 function bearer(token: string, init: RequestInit = {}): Promise<Response> {
-  return fetch(`${app.baseUrl}/api/account`, { ...init, headers: { authorization: `Bearer ${token}`, ...init.headers } });
+  return fetch(`${app.baseUrl}/api/account`, {
+    ...init,
+    headers: { authorization: `Bearer ${token}`, ...init.headers },
+  });
 }
 
 describe('API tokens and the password on the account page', () => {
@@ -56,21 +59,32 @@ describe('API tokens and the password on the account page', () => {
       expect(stored.scope).toBe('read');
       expect(Math.round((stored.expires_at.getTime() - stored.created_at.getTime()) / 86_400_000)).toBe(7);
       const expires = `${stored.expires_at.toISOString().slice(0, 10)} ${stored.expires_at.toISOString().slice(11, 16)} UTC`;
-      expect(await page.getByText(/Copy this token now/).locator('..').innerText()).toContain(`read only; expires ${expires}`);
+      expect(
+        await page
+          .getByText(/Copy this token now/)
+          .locator('..')
+          .innerText(),
+      ).toContain(`read only; expires ${expires}`);
       const row = page.getByRole('row', { name: /nightly export/ });
       await row.getByText(expires).waitFor();
       expect(await row.innerText()).toContain('read only');
 
       // It reads as its owner, and may not change anything.
       expect((await (await bearer(secret)).json()).via).toBe('token');
-      const write = await fetch(`${app.baseUrl}/api/account/tokens/${stored.id}`, { method: 'DELETE', headers: { authorization: `Bearer ${secret}` } });
+      const write = await fetch(`${app.baseUrl}/api/account/tokens/${stored.id}`, {
+        method: 'DELETE',
+        headers: { authorization: `Bearer ${secret}` },
+      });
       expect(write.status).toBe(403);
 
       // A read-and-write token with the default lifetime.
       await page.getByLabel('Token name').fill('deploy hook');
       await page.getByLabel(/Read and write/).check();
       await page.getByRole('button', { name: 'Create a token' }).click();
-      await page.getByRole('row', { name: /deploy hook/ }).getByText('read and write').waitFor();
+      await page
+        .getByRole('row', { name: /deploy hook/ })
+        .getByText('read and write')
+        .waitFor();
       const second = (await page.locator('code', { hasText: /^wst_/ }).innerText()).trim();
       expect(second).not.toBe(secret);
       expect((await bearer(second)).status).toBe(200);
@@ -84,19 +98,33 @@ describe('API tokens and the password on the account page', () => {
       expect((await bearer(secret)).status).toBe(401);
       expect((await bearer(second)).status).toBe(401);
       await page.reload();
-      await page.getByRole('row', { name: /nightly export/ }).getByText('revoked').waitFor();
-      await page.getByRole('row', { name: /deploy hook/ }).getByText('revoked').waitFor();
+      await page
+        .getByRole('row', { name: /nightly export/ })
+        .getByText('revoked')
+        .waitFor();
+      await page
+        .getByRole('row', { name: /deploy hook/ })
+        .getByText('revoked')
+        .waitFor();
 
       // The other browser is signed out; this one goes on.
       await elsewhere.page.goto(`${app.baseUrl}/account`);
       await elsewhere.page.waitForURL(/\/sign-in\?callbackUrl=%2Faccount$/);
-      const change = await testDb().selectFrom('audit_events').select('new_value').where('action', '=', 'user.password-change').executeTakeFirstOrThrow();
+      const change = await testDb()
+        .selectFrom('audit_events')
+        .select('new_value')
+        .where('action', '=', 'user.password-change')
+        .executeTakeFirstOrThrow();
       expect(change.new_value).toEqual({ endedSessions: 1, revokedTokens: 2, tokensRevokeAsked: true });
 
       // Sign-out is audited.
       await page.getByRole('button', { name: 'Sign out' }).click();
       await page.getByRole('link', { name: 'Sign in' }).waitFor();
-      const signOuts = await testDb().selectFrom('audit_events').select(['object_type']).where('action', '=', 'auth.sign-out').execute();
+      const signOuts = await testDb()
+        .selectFrom('audit_events')
+        .select(['object_type'])
+        .where('action', '=', 'auth.sign-out')
+        .execute();
       expect(signOuts).toEqual([{ object_type: 'session' }]);
       // The only HTTP errors are the refusals this test asked for (fetch is outside the page).
       expect(here.problems).toEqual([]);

@@ -67,13 +67,35 @@ interface Entry {
   cookie?: Partial<Record<Who, number>> & { default?: number };
 }
 
-const signedIn = (status: number, extra: Partial<Record<Who, number>> = {}) => ({ anonymous: 401, default: status, ...extra });
+const signedIn = (status: number, extra: Partial<Record<Who, number>> = {}) => ({
+  anonymous: 401,
+  default: status,
+  ...extra,
+});
 const memberOnly = (status: number) => ({ anonymous: 401, outsider: 404, admin: 404, default: status });
 const adminOnly = (status: number) => ({ anonymous: 401, admin: status, default: 403 });
-const originatorOnly = (status: number) => ({ anonymous: 401, outsider: 404, admin: 404, originator: status, default: 403 });
-const controllerOnly = (status: number) => ({ anonymous: 401, outsider: 404, admin: 404, controller: status, default: 403 });
+const originatorOnly = (status: number) => ({
+  anonymous: 401,
+  outsider: 404,
+  admin: 404,
+  originator: status,
+  default: 403,
+});
+const controllerOnly = (status: number) => ({
+  anonymous: 401,
+  outsider: 404,
+  admin: 404,
+  controller: status,
+  default: 403,
+});
 const checkerOnly = (status: number) => ({ anonymous: 401, outsider: 404, admin: 404, checker: status, default: 403 });
-const approverOnly = (status: number) => ({ anonymous: 401, outsider: 404, admin: 404, approver: status, default: 403 });
+const approverOnly = (status: number) => ({
+  anonymous: 401,
+  outsider: 404,
+  admin: 404,
+  approver: status,
+  default: 403,
+});
 const reason = 'matrix test';
 
 // Keys are "METHOD /api/path" with the route file's own [segments].
@@ -81,68 +103,144 @@ const MATRIX: Record<string, Entry> = {
   'GET /api/health': { request: () => ({ path: '/api/health' }), expect: { default: 200 } },
   'GET /api/openapi.json': { request: () => ({ path: '/api/openapi.json' }), expect: { default: 200 } },
   'GET /api/auth/[...nextauth]': { request: () => ({ path: '/api/auth/providers' }), expect: { default: 200 } },
-  'POST /api/auth/[...nextauth]': { request: () => ({ path: '/api/auth/callback/password', body: {} }), expect: { default: 302 } },
-  'POST /api/auth/password-reset': { request: () => ({ path: '/api/auth/password-reset', body: { email: 'nobody@example.test' } }), expect: { default: 202 } },
+  'POST /api/auth/[...nextauth]': {
+    request: () => ({ path: '/api/auth/callback/password', body: {} }),
+    expect: { default: 302 },
+  },
+  'POST /api/auth/password-reset': {
+    request: () => ({ path: '/api/auth/password-reset', body: { email: 'nobody@example.test' } }),
+    expect: { default: 202 },
+  },
   'POST /api/auth/password-reset/confirm': {
-    request: () => ({ path: '/api/auth/password-reset/confirm', body: { token: 'not-a-real-token-at-all', newPassword: 'a long enough password' } }),
+    request: () => ({
+      path: '/api/auth/password-reset/confirm',
+      body: { token: 'not-a-real-token-at-all', newPassword: 'a long enough password' },
+    }),
     expect: { default: 400 },
   },
-  'POST /api/auth/sign-in-link': { request: () => ({ path: '/api/auth/sign-in-link', body: { email: 'nobody@example.test' } }), expect: { default: 202 } },
-  'POST /api/auth/unlock': { request: () => ({ path: '/api/auth/unlock', body: { token: 'not-a-real-unlock-token' } }), expect: { default: 400 } },
+  'POST /api/auth/sign-in-link': {
+    request: () => ({ path: '/api/auth/sign-in-link', body: { email: 'nobody@example.test' } }),
+    expect: { default: 202 },
+  },
+  'POST /api/auth/unlock': {
+    request: () => ({ path: '/api/auth/unlock', body: { token: 'not-a-real-unlock-token' } }),
+    expect: { default: 400 },
+  },
   // Browsers post their own violation reports here, with no session; outside the request guard. A
   // well-formed Reporting API batch whose only report is not a CSP violation is accepted and stores nothing.
-  'POST /api/csp-report': { request: () => ({ path: '/api/csp-report', body: [{ type: 'deprecation', url: 'http://127.0.0.1/', body: {} }] }), expect: { default: 204 } },
-  'POST /api/evaluate': { request: () => ({ path: '/api/evaluate', body: { cells: [{ id: 'a', kind: 'calc', source: 'x_1 = 2 m' }] } }), expect: signedIn(200) },
+  'POST /api/csp-report': {
+    request: () => ({ path: '/api/csp-report', body: [{ type: 'deprecation', url: 'http://127.0.0.1/', body: {} }] }),
+    expect: { default: 204 },
+  },
+  'POST /api/evaluate': {
+    request: () => ({ path: '/api/evaluate', body: { cells: [{ id: 'a', kind: 'calc', source: 'x_1 = 2 m' }] } }),
+    expect: signedIn(200),
+  },
   'GET /api/account': { request: () => ({ path: '/api/account' }), expect: signedIn(200) },
   'POST /api/account/password': {
-    request: () => ({ path: '/api/account/password', body: { currentPassword: 'not the password', newPassword: 'another long password' } }),
+    request: () => ({
+      path: '/api/account/password',
+      body: { currentPassword: 'not the password', newPassword: 'another long password' },
+    }),
     // A token may not change the password (403); a session gives the wrong current password (400).
     expect: signedIn(403),
     cookie: signedIn(400),
   },
   'GET /api/account/tokens': { request: () => ({ path: '/api/account/tokens' }), expect: signedIn(200) },
   // A token cannot create tokens; a session can.
-  'POST /api/account/tokens': { request: () => ({ path: '/api/account/tokens', body: { name: 'from the matrix' } }), expect: signedIn(403), cookie: signedIn(201) },
-  'DELETE /api/account/tokens/[tokenId]': { request: () => ({ path: '/api/account/tokens/00000000-0000-4000-8000-000000000000' }), expect: signedIn(404) },
+  'POST /api/account/tokens': {
+    request: () => ({ path: '/api/account/tokens', body: { name: 'from the matrix' } }),
+    expect: signedIn(403),
+    cookie: signedIn(201),
+  },
+  'DELETE /api/account/tokens/[tokenId]': {
+    request: () => ({ path: '/api/account/tokens/00000000-0000-4000-8000-000000000000' }),
+    expect: signedIn(404),
+  },
   'GET /api/projects': { request: () => ({ path: '/api/projects' }), expect: signedIn(200) },
   'POST /api/projects': {
-    request: (w) => ({ path: '/api/projects', body: { code: `MTX${w.tag}`, name: 'Matrix project', legalOwner: 'Fixture Ltd', revisionScheme: 'letters' } }),
+    request: (w) => ({
+      path: '/api/projects',
+      body: { code: `MTX${w.tag}`, name: 'Matrix project', legalOwner: 'Fixture Ltd', revisionScheme: 'letters' },
+    }),
     expect: adminOnly(201),
   },
-  'GET /api/projects/[projectId]': { request: (w) => ({ path: `/api/projects/${w.projectId}` }), expect: memberOnly(200) },
-  'GET /api/projects/[projectId]/members': { request: (w) => ({ path: `/api/projects/${w.projectId}/members` }), expect: { ...memberOnly(200), admin: 200 } },
+  'GET /api/projects/[projectId]': {
+    request: (w) => ({ path: `/api/projects/${w.projectId}` }),
+    expect: memberOnly(200),
+  },
+  'GET /api/projects/[projectId]/members': {
+    request: (w) => ({ path: `/api/projects/${w.projectId}/members` }),
+    expect: { ...memberOnly(200), admin: 200 },
+  },
   'POST /api/projects/[projectId]/members': {
-    request: (w) => ({ path: `/api/projects/${w.projectId}/members`, body: { userId: w.spareUserId, role: 'viewer', reason } }),
+    request: (w) => ({
+      path: `/api/projects/${w.projectId}/members`,
+      body: { userId: w.spareUserId, role: 'viewer', reason },
+    }),
     expect: adminOnly(201),
   },
   'DELETE /api/projects/[projectId]/members': {
-    request: (w) => ({ path: `/api/projects/${w.projectId}/members`, body: { userId: w.spareUserId, role: 'viewer', reason } }),
+    request: (w) => ({
+      path: `/api/projects/${w.projectId}/members`,
+      body: { userId: w.spareUserId, role: 'viewer', reason },
+    }),
     expect: adminOnly(200),
   },
-  'GET /api/projects/[projectId]/audit': { request: (w) => ({ path: `/api/projects/${w.projectId}/audit` }), expect: { ...memberOnly(200), viewer: 403 } },
-  'GET /api/projects/[projectId]/sheets': { request: (w) => ({ path: `/api/projects/${w.projectId}/sheets` }), expect: memberOnly(200) },
+  'GET /api/projects/[projectId]/audit': {
+    request: (w) => ({ path: `/api/projects/${w.projectId}/audit` }),
+    expect: { ...memberOnly(200), viewer: 403 },
+  },
+  'GET /api/projects/[projectId]/sheets': {
+    request: (w) => ({ path: `/api/projects/${w.projectId}/sheets` }),
+    expect: memberOnly(200),
+  },
   'POST /api/projects/[projectId]/sheets': {
-    request: (w) => ({ path: `/api/projects/${w.projectId}/sheets`, body: { title: 'Matrix sheet', safetyRelated: false, objective: 'check the matrix' } }),
+    request: (w) => ({
+      path: `/api/projects/${w.projectId}/sheets`,
+      body: { title: 'Matrix sheet', safetyRelated: false, objective: 'check the matrix' },
+    }),
     expect: originatorOnly(201),
   },
   'POST /api/projects/[projectId]/sheets/import': {
-    request: (w) => ({ path: `/api/projects/${w.projectId}/sheets/import`, body: { title: 'Imported in the matrix', cells: [{ kind: 'calc', source: 'x_1 = 1 m' }] } }),
+    request: (w) => ({
+      path: `/api/projects/${w.projectId}/sheets/import`,
+      body: { title: 'Imported in the matrix', cells: [{ kind: 'calc', source: 'x_1 = 1 m' }] },
+    }),
     expect: originatorOnly(201),
   },
-  'GET /api/projects/[projectId]/sheets/start-from': { request: (w) => ({ path: `/api/projects/${w.projectId}/sheets/start-from` }), expect: originatorOnly(200) },
+  'GET /api/projects/[projectId]/sheets/start-from': {
+    request: (w) => ({ path: `/api/projects/${w.projectId}/sheets/start-from` }),
+    expect: originatorOnly(200),
+  },
   'POST /api/projects/[projectId]/sheets/start-from': {
-    request: (w) => ({ path: `/api/projects/${w.projectId}/sheets/start-from`, body: { sheetId: w.approvedSheetId, version: 1, title: 'Started in the matrix' } }),
+    request: (w) => ({
+      path: `/api/projects/${w.projectId}/sheets/start-from`,
+      body: { sheetId: w.approvedSheetId, version: 1, title: 'Started in the matrix' },
+    }),
     expect: originatorOnly(201),
   },
   'POST /api/projects/[projectId]/sheets/import/preview': {
-    request: (w) => ({ path: `/api/projects/${w.projectId}/sheets/import/preview`, body: { title: 'Previewed in the matrix', cells: [{ kind: 'calc', source: 'x_1 = 1 m' }] } }),
+    request: (w) => ({
+      path: `/api/projects/${w.projectId}/sheets/import/preview`,
+      body: { title: 'Previewed in the matrix', cells: [{ kind: 'calc', source: 'x_1 = 1 m' }] },
+    }),
     expect: originatorOnly(200),
   },
-  'GET /api/sheets/[sheetId]/export': { request: (w) => ({ path: `/api/sheets/${w.sheetId}/export` }), expect: memberOnly(200) },
+  'GET /api/sheets/[sheetId]/export': {
+    request: (w) => ({ path: `/api/sheets/${w.sheetId}/export` }),
+    expect: memberOnly(200),
+  },
   'GET /api/sheets/[sheetId]': { request: (w) => ({ path: `/api/sheets/${w.sheetId}` }), expect: memberOnly(200) },
-  'GET /api/sheets/[sheetId]/versions': { request: (w) => ({ path: `/api/sheets/${w.sheetId}/versions` }), expect: memberOnly(200) },
+  'GET /api/sheets/[sheetId]/versions': {
+    request: (w) => ({ path: `/api/sheets/${w.sheetId}/versions` }),
+    expect: memberOnly(200),
+  },
   'POST /api/sheets/[sheetId]/versions': {
-    request: (w) => ({ path: `/api/sheets/${w.sheetId}/versions`, body: { parentNumber: w.latestNumber, message: 'matrix save', content: w.sheetContent } }),
+    request: (w) => ({
+      path: `/api/sheets/${w.sheetId}/versions`,
+      body: { parentNumber: w.latestNumber, message: 'matrix save', content: w.sheetContent },
+    }),
     expect: originatorOnly(201),
   },
   // An empty reason: the roles allowed past authorization get 400, so the matrix's sheet is not voided.
@@ -150,54 +248,141 @@ const MATRIX: Record<string, Entry> = {
     request: (w) => ({ path: `/api/sheets/${w.sheetId}/void`, body: { reason: '' } }),
     expect: { anonymous: 401, outsider: 404, admin: 404, originator: 400, controller: 400, default: 403 },
   },
-  'GET /api/sheets/[sheetId]/compare': { request: (w) => ({ path: `/api/sheets/${w.sheetId}/compare?target=1` }), expect: memberOnly(200) },
-  'GET /api/sheets/[sheetId]/impact': { request: (w) => ({ path: `/api/sheets/${w.sheetId}/impact` }), expect: memberOnly(200) },
-  'GET /api/software-impact': { request: () => ({ path: '/api/software-impact?function=lorentzFactor&format=csv' }), expect: signedIn(200) },
-  'GET /api/sheets/[sheetId]/versions/[number]': { request: (w) => ({ path: `/api/sheets/${w.sheetId}/versions/1` }), expect: memberOnly(200) },
+  'GET /api/sheets/[sheetId]/compare': {
+    request: (w) => ({ path: `/api/sheets/${w.sheetId}/compare?target=1` }),
+    expect: memberOnly(200),
+  },
+  'GET /api/sheets/[sheetId]/impact': {
+    request: (w) => ({ path: `/api/sheets/${w.sheetId}/impact` }),
+    expect: memberOnly(200),
+  },
+  'GET /api/software-impact': {
+    request: () => ({ path: '/api/software-impact?function=lorentzFactor&format=csv' }),
+    expect: signedIn(200),
+  },
+  'GET /api/sheets/[sheetId]/versions/[number]': {
+    request: (w) => ({ path: `/api/sheets/${w.sheetId}/versions/1` }),
+    expect: memberOnly(200),
+  },
   // The demo sheet has no sweep: members get 404 for a statement without a table, others as usual.
-  'GET /api/sheets/[sheetId]/versions/[number]/studies/[cellIndex]/[line]': { request: (w) => ({ path: `/api/sheets/${w.sheetId}/versions/1/studies/0/1` }), expect: memberOnly(404) },
-  'GET /api/sheets/[sheetId]/attachments': { request: (w) => ({ path: `/api/sheets/${w.sheetId}/attachments` }), expect: memberOnly(200) },
+  'GET /api/sheets/[sheetId]/versions/[number]/studies/[cellIndex]/[line]': {
+    request: (w) => ({ path: `/api/sheets/${w.sheetId}/versions/1/studies/0/1` }),
+    expect: memberOnly(404),
+  },
+  'GET /api/sheets/[sheetId]/attachments': {
+    request: (w) => ({ path: `/api/sheets/${w.sheetId}/attachments` }),
+    expect: memberOnly(200),
+  },
   'POST /api/sheets/[sheetId]/attachments': {
-    request: (w) => ({ path: `/api/sheets/${w.sheetId}/attachments`, file: { name: 'matrix-probe.csv', type: 'text/csv', text: 'x [m]\n1\n' } }),
+    request: (w) => ({
+      path: `/api/sheets/${w.sheetId}/attachments`,
+      file: { name: 'matrix-probe.csv', type: 'text/csv', text: 'x [m]\n1\n' },
+    }),
     expect: originatorOnly(201),
   },
-  'GET /api/sheets/[sheetId]/attachments/[sha256]': { request: (w) => ({ path: `/api/sheets/${w.sheetId}/attachments/${w.attachmentSha256}` }), expect: memberOnly(200) },
-  'GET /api/sheets/[sheetId]/checks': { request: (w) => ({ path: `/api/sheets/${w.sheetId}/checks` }), expect: memberOnly(200) },
+  'GET /api/sheets/[sheetId]/attachments/[sha256]': {
+    request: (w) => ({ path: `/api/sheets/${w.sheetId}/attachments/${w.attachmentSha256}` }),
+    expect: memberOnly(200),
+  },
+  'GET /api/sheets/[sheetId]/checks': {
+    request: (w) => ({ path: `/api/sheets/${w.sheetId}/checks` }),
+    expect: memberOnly(200),
+  },
   'POST /api/sheets/[sheetId]/checks': {
-    request: (w) => ({ path: `/api/sheets/${w.sheetId}/checks`, body: { versionNumber: w.latestNumber, checkerId: w.checkerId, password: DEMO_PASSWORD } }),
+    request: (w) => ({
+      path: `/api/sheets/${w.sheetId}/checks`,
+      body: { versionNumber: w.latestNumber, checkerId: w.checkerId, password: DEMO_PASSWORD },
+    }),
     expect: originatorOnly(201),
   },
   'GET /api/checks': { request: () => ({ path: '/api/checks?queue=approval' }), expect: signedIn(200) },
   'GET /api/checks/[checkId]': { request: (w) => ({ path: `/api/checks/${w.checkId}` }), expect: memberOnly(200) },
-  'PATCH /api/checks/[checkId]': { request: (w) => ({ path: `/api/checks/${w.checkId}`, body: { verificationMethod: 'design_review' } }), expect: checkerOnly(200) },
+  'PATCH /api/checks/[checkId]': {
+    request: (w) => ({ path: `/api/checks/${w.checkId}`, body: { verificationMethod: 'design_review' } }),
+    expect: checkerOnly(200),
+  },
   'POST /api/checks/[checkId]/comments': {
-    request: (w) => ({ path: `/api/checks/${w.checkId}/comments`, body: { cellId: w.checkedCellId, body: 'Matrix comment' } }),
+    request: (w) => ({
+      path: `/api/checks/${w.checkId}/comments`,
+      body: { cellId: w.checkedCellId, body: 'Matrix comment' },
+    }),
     expect: checkerOnly(201),
   },
-  'PATCH /api/checks/[checkId]/comments/[commentId]': { request: (w) => ({ path: `/api/checks/${w.checkId}/comments/${w.threadId}`, body: { resolved: true } }), expect: checkerOnly(200) },
+  'PATCH /api/checks/[checkId]/comments/[commentId]': {
+    request: (w) => ({ path: `/api/checks/${w.checkId}/comments/${w.threadId}`, body: { resolved: true } }),
+    expect: checkerOnly(200),
+  },
   // Last of the check entries: returning the check closes it.
-  'POST /api/checks/[checkId]/decision': { request: (w) => ({ path: `/api/checks/${w.checkId}/decision`, body: { action: 'return', reason: 'matrix test' } }), expect: checkerOnly(200) },
-  'GET /api/sheets/[sheetId]/revisions': { request: (w) => ({ path: `/api/sheets/${w.sheetId}/revisions` }), expect: memberOnly(200) },
+  'POST /api/checks/[checkId]/decision': {
+    request: (w) => ({ path: `/api/checks/${w.checkId}/decision`, body: { action: 'return', reason: 'matrix test' } }),
+    expect: checkerOnly(200),
+  },
+  'GET /api/sheets/[sheetId]/revisions': {
+    request: (w) => ({ path: `/api/sheets/${w.sheetId}/revisions` }),
+    expect: memberOnly(200),
+  },
   'POST /api/sheets/[sheetId]/revisions': {
-    request: (w) => ({ path: `/api/sheets/${w.approvedSheetId}/revisions`, body: { versionNumber: 1, password: DEMO_PASSWORD } }),
+    request: (w) => ({
+      path: `/api/sheets/${w.approvedSheetId}/revisions`,
+      body: { versionNumber: 1, password: DEMO_PASSWORD },
+    }),
     expect: controllerOnly(202),
   },
   'GET /api/issuing/[jobId]': { request: (w) => ({ path: `/api/issuing/${w.issueJobId}` }), expect: memberOnly(200) },
-  'GET /api/projects/[projectId]/register': { request: (w) => ({ path: `/api/projects/${w.projectId}/register?format=csv` }), expect: memberOnly(200) },
-  'GET /api/revisions/[revisionId]/pdf': { request: (w) => ({ path: `/api/revisions/${w.revisionId}/pdf` }), expect: memberOnly(200) },
-  'POST /api/revisions/[revisionId]/withdraw': { request: (w) => ({ path: `/api/revisions/${w.revisionId}/withdraw`, body: { reason: 'matrix test' } }), expect: controllerOnly(200) },
-  'POST /api/verify': { request: () => ({ path: '/api/verify', body: { code: 'ZZZZ-ZZZZ-ZZZZ' } }), expect: { default: 200 } },
+  'GET /api/projects/[projectId]/register': {
+    request: (w) => ({ path: `/api/projects/${w.projectId}/register?format=csv` }),
+    expect: memberOnly(200),
+  },
+  'GET /api/revisions/[revisionId]/pdf': {
+    request: (w) => ({ path: `/api/revisions/${w.revisionId}/pdf` }),
+    expect: memberOnly(200),
+  },
+  'POST /api/revisions/[revisionId]/withdraw': {
+    request: (w) => ({ path: `/api/revisions/${w.revisionId}/withdraw`, body: { reason: 'matrix test' } }),
+    expect: controllerOnly(200),
+  },
+  'POST /api/verify': {
+    request: () => ({ path: '/api/verify', body: { code: 'ZZZZ-ZZZZ-ZZZZ' } }),
+    expect: { default: 200 },
+  },
   'GET /api/admin/users': { request: () => ({ path: '/api/admin/users' }), expect: adminOnly(200) },
-  'POST /api/admin/users': { request: (w) => ({ path: '/api/admin/users', body: { email: `invited${w.tag.toLowerCase()}@example.test`, name: 'Invited Person' } }), expect: adminOnly(201) },
-  'PATCH /api/admin/users/[userId]': { request: (w) => ({ path: `/api/admin/users/${w.spareUserId}`, body: { action: 'disable', reason } }), expect: adminOnly(200) },
+  'POST /api/admin/users': {
+    request: (w) => ({
+      path: '/api/admin/users',
+      body: { email: `invited${w.tag.toLowerCase()}@example.test`, name: 'Invited Person' },
+    }),
+    expect: adminOnly(201),
+  },
+  'PATCH /api/admin/users/[userId]': {
+    request: (w) => ({ path: `/api/admin/users/${w.spareUserId}`, body: { action: 'disable', reason } }),
+    expect: adminOnly(200),
+  },
 };
 
 // Every decision on a check, each on a check in the state where it may be taken.
 const DECISIONS: Record<Decision, Entry> = {
-  return: { request: (w) => ({ path: `/api/checks/${w.decisions.return}/decision`, body: { action: 'return', reason } }), expect: checkerOnly(200) },
-  sign: { request: (w) => ({ path: `/api/checks/${w.decisions.sign}/decision`, body: { action: 'sign', password: DEMO_PASSWORD } }), expect: checkerOnly(200) },
-  approve: { request: (w) => ({ path: `/api/checks/${w.decisions.approve}/decision`, body: { action: 'approve', password: DEMO_PASSWORD } }), expect: approverOnly(200) },
-  reject: { request: (w) => ({ path: `/api/checks/${w.decisions.reject}/decision`, body: { action: 'reject', reason } }), expect: approverOnly(200) },
+  return: {
+    request: (w) => ({ path: `/api/checks/${w.decisions.return}/decision`, body: { action: 'return', reason } }),
+    expect: checkerOnly(200),
+  },
+  sign: {
+    request: (w) => ({
+      path: `/api/checks/${w.decisions.sign}/decision`,
+      body: { action: 'sign', password: DEMO_PASSWORD },
+    }),
+    expect: checkerOnly(200),
+  },
+  approve: {
+    request: (w) => ({
+      path: `/api/checks/${w.decisions.approve}/decision`,
+      body: { action: 'approve', password: DEMO_PASSWORD },
+    }),
+    expect: approverOnly(200),
+  },
+  reject: {
+    request: (w) => ({ path: `/api/checks/${w.decisions.reject}/decision`, body: { action: 'reject', reason } }),
+    expect: approverOnly(200),
+  },
 };
 
 type Seen = 'sign-in' | 'not found' | 'content' | `status ${number}` | `redirect ${string}`;
@@ -230,12 +415,24 @@ const PAGES: Record<string, PageEntry> = {
   '/scratch': { url: () => '/scratch', expect: signedInPage },
   '/software-impact': { url: () => '/software-impact', expect: signedInPage },
   '/projects/[projectCode]': { url: () => '/projects/TPT2', expect: memberPage },
-  '/projects/[projectCode]/audit': { url: () => '/projects/TPT2/audit', expect: { ...memberPage, viewer: 'not found' } },
+  '/projects/[projectCode]/audit': {
+    url: () => '/projects/TPT2/audit',
+    expect: { ...memberPage, viewer: 'not found' },
+  },
   '/projects/[projectCode]/register': { url: () => '/projects/TPT2/register', expect: memberPage },
   '/projects/[projectCode]/sheets/[sheetNumber]': { url: () => '/projects/TPT2/sheets/1', expect: memberPage },
-  '/projects/[projectCode]/sheets/[sheetNumber]/compare': { url: () => '/projects/TPT2/sheets/1/compare?target=1', expect: memberPage },
-  '/projects/[projectCode]/sheets/[sheetNumber]/edit': { url: () => '/projects/TPT2/sheets/1/edit', expect: { anonymous: 'sign-in', originator: 'content', default: 'not found' } },
-  '/projects/[projectCode]/sheets/[sheetNumber]/impact': { url: () => '/projects/TPT2/sheets/1/impact', expect: memberPage },
+  '/projects/[projectCode]/sheets/[sheetNumber]/compare': {
+    url: () => '/projects/TPT2/sheets/1/compare?target=1',
+    expect: memberPage,
+  },
+  '/projects/[projectCode]/sheets/[sheetNumber]/edit': {
+    url: () => '/projects/TPT2/sheets/1/edit',
+    expect: { anonymous: 'sign-in', originator: 'content', default: 'not found' },
+  },
+  '/projects/[projectCode]/sheets/[sheetNumber]/impact': {
+    url: () => '/projects/TPT2/sheets/1/impact',
+    expect: memberPage,
+  },
 };
 
 function filesNamed(dir: string, file: string, out: string[] = []): string[] {
@@ -248,14 +445,20 @@ function filesNamed(dir: string, file: string, out: string[] = []): string[] {
 }
 
 const appDir = path.join(process.cwd(), 'app');
-const routeOf = (file: string) => `/${path.relative(appDir, path.dirname(file)).split(path.sep).filter((s) => s && !/^\(.*\)$/.test(s)).join('/')}`;
+const routeOf = (file: string) =>
+  `/${path
+    .relative(appDir, path.dirname(file))
+    .split(path.sep)
+    .filter((s) => s && !/^\(.*\)$/.test(s))
+    .join('/')}`;
 
 function discoveredRoutes(): string[] {
   const keys: string[] = [];
   for (const file of filesNamed(path.join(appDir, 'api'), 'route.ts')) {
     const source = readFileSync(file, 'utf8');
     const methods = new Set<string>();
-    for (const m of source.matchAll(/export\s+(?:async\s+)?function\s+(GET|POST|PUT|PATCH|DELETE)\b/g)) methods.add(m[1]);
+    for (const m of source.matchAll(/export\s+(?:async\s+)?function\s+(GET|POST|PUT|PATCH|DELETE)\b/g))
+      methods.add(m[1]);
     for (const m of source.matchAll(/\bas\s+(GET|POST|PUT|PATCH|DELETE)\b/g)) methods.add(m[1]);
     for (const method of methods) keys.push(`${method} ${routeOf(file)}`);
   }
@@ -275,15 +478,34 @@ const readTokens = new Map<Who, string>();
 const cookies = new Map<Who, string>();
 
 /** A copy of demo sheet `n` of TPT2 (version 2 holds the demo content), made by the originator. */
-async function copyOfDemoSheet(originator: Actor, project: { id: string; code: string }, n: number, title: string): Promise<{ sheet: SheetRef; latest: number; content: { cells: Array<{ id: string }> } }> {
-  const demo = await testDb().selectFrom('sheets').select('id').where('project_id', '=', project.id).where('number', '=', n).executeTakeFirstOrThrow();
+async function copyOfDemoSheet(
+  originator: Actor,
+  project: { id: string; code: string },
+  n: number,
+  title: string,
+): Promise<{ sheet: SheetRef; latest: number; content: { cells: Array<{ id: string }> } }> {
+  const demo = await testDb()
+    .selectFrom('sheets')
+    .select('id')
+    .where('project_id', '=', project.id)
+    .where('number', '=', n)
+    .executeTakeFirstOrThrow();
   const content = (await getVersion(testDb(), demo.id, 1))!.content;
   const sheet = await makeSheet(testDb(), originator, project, { title, safetyRelated: content.safetyRelated });
-  const saved = await saveVersion(testDb(), originator, sheet, { parentNumber: 1, message: 'copy of the demo sheet', content: { ...content, title } });
+  const saved = await saveVersion(testDb(), originator, sheet, {
+    parentNumber: 1,
+    message: 'copy of the demo sheet',
+    content: { ...content, title },
+  });
   return { sheet, latest: saved.number, content: content as unknown as { cells: Array<{ id: string }> } };
 }
 
-async function buildWorld(variant: Variant, people: Record<'originator' | 'checker' | 'approver' | 'controller', Actor>, project: { id: string; code: string }, outsiderId: string): Promise<World> {
+async function buildWorld(
+  variant: Variant,
+  people: Record<'originator' | 'checker' | 'approver' | 'controller', Actor>,
+  project: { id: string; code: string },
+  outsiderId: string,
+): Promise<World> {
   const tag = variant === 'token' ? '' : 'C';
   const { originator, checker, approver, controller } = people;
   const team = { author: originator, checker, approver };
@@ -295,12 +517,23 @@ async function buildWorld(variant: Variant, people: Record<'originator' | 'check
     bytes: new TextEncoder().encode('energy [MeV]\n70\n250\n'),
   });
   const second = await copyOfDemoSheet(originator, project, 2, `Matrix ${variant} check`);
-  const check = await submitForCheck(testDb(), originator, second.sheet, { versionNumber: second.latest, checkerId: checker.userId, password: DEMO_PASSWORD });
-  const thread = await addComment(testDb(), checker, check.id, { cellId: second.content.cells[0].id, statementLine: null, body: 'Source of the flight path length?' });
+  const check = await submitForCheck(testDb(), originator, second.sheet, {
+    versionNumber: second.latest,
+    checkerId: checker.userId,
+    password: DEMO_PASSWORD,
+  });
+  const thread = await addComment(testDb(), checker, check.id, {
+    cellId: second.content.cells[0].id,
+    statementLine: null,
+    body: 'Source of the flight path length?',
+  });
   // A copy of sheet 3 through check and approval to its first revision; a new sheet approved but not issued.
   const third = await copyOfDemoSheet(originator, project, 3, `Matrix ${variant} issued`);
   await checkAndApprove(testDb(), team, third.sheet, { versionNumber: third.latest, password: DEMO_PASSWORD });
-  const issued = await requestIssue(testDb(), controller, third.sheet, { versionNumber: third.latest, password: DEMO_PASSWORD });
+  const issued = await requestIssue(testDb(), controller, third.sheet, {
+    versionNumber: third.latest,
+    password: DEMO_PASSWORD,
+  });
   const revisionId = (await processIssueJob(testDb(), getObjectStore(), issued.jobId))!;
   const fresh = await makeSheet(testDb(), originator, project, { title: `Matrix ${variant} sheet to issue` });
   await checkAndApprove(testDb(), team, fresh, { versionNumber: 1, password: DEMO_PASSWORD });
@@ -308,9 +541,14 @@ async function buildWorld(variant: Variant, people: Record<'originator' | 'check
   const decisions = {} as Record<Decision, string>;
   for (const d of ['return', 'sign', 'approve', 'reject'] as const) {
     const copy = await copyOfDemoSheet(originator, project, 3, `Matrix ${variant} ${d}`);
-    const { id } = await submitForCheck(testDb(), originator, copy.sheet, { versionNumber: copy.latest, checkerId: checker.userId, password: DEMO_PASSWORD });
+    const { id } = await submitForCheck(testDb(), originator, copy.sheet, {
+      versionNumber: copy.latest,
+      checkerId: checker.userId,
+      password: DEMO_PASSWORD,
+    });
     if (d !== 'return') await saveCheckWork(testDb(), checker, id, { verificationMethod: 'design_review' });
-    if (d === 'approve' || d === 'reject') await decide(testDb(), checker, id, { action: 'sign', password: DEMO_PASSWORD });
+    if (d === 'approve' || d === 'reject')
+      await decide(testDb(), checker, id, { action: 'sign', password: DEMO_PASSWORD });
     decisions[d] = id;
   }
   return {
@@ -410,7 +648,10 @@ async function runEntry(key: string, entry: Entry, variant: Variant) {
   const expected: Record<string, number> = {};
   // The callers refused first: a request that succeeds may change the state the others are refused in
   // (after an approval, a check is no longer waiting for one: 409 rather than 403).
-  const order = [...WHO.filter((who) => wanted(entry, variant, who) >= 300), ...WHO.filter((who) => wanted(entry, variant, who) < 300)];
+  const order = [
+    ...WHO.filter((who) => wanted(entry, variant, who) >= 300),
+    ...WHO.filter((who) => wanted(entry, variant, who) < 300),
+  ];
   for (const who of order) {
     const response = await call({ method, who, via: variant, request: entry.request(worlds[variant]) });
     seen[who] = response.status;
@@ -421,7 +662,10 @@ async function runEntry(key: string, entry: Entry, variant: Variant) {
 
 /** What a visitor sees of a page: the sign-in page (redirected), the not-found page, or the page's content. */
 async function visit(url: string, who: Who): Promise<{ seen: Seen; html: string }> {
-  const response = await fetch(`${app.baseUrl}${url}`, { headers: who === 'anonymous' ? {} : { cookie: cookies.get(who)! }, redirect: 'manual' });
+  const response = await fetch(`${app.baseUrl}${url}`, {
+    headers: who === 'anonymous' ? {} : { cookie: cookies.get(who)! },
+    redirect: 'manual',
+  });
   const html = response.status < 300 || response.status >= 400 ? await response.text() : '';
   if (response.status >= 300 && response.status < 400) {
     const location = response.headers.get('location') ?? '';
@@ -429,7 +673,11 @@ async function visit(url: string, who: Who): Promise<{ seen: Seen; html: string 
   }
   // Under app/loading.tsx every page streams, so a redirect or notFound() after the first bytes is
   // written into the page (a refresh tag and the NEXT_REDIRECT / not-found markers) with status 200.
-  if (/<meta id="__next-page-redirect"[^>]*url=\/sign-in/.test(html) || /NEXT_REDIRECT;(replace|push);\/sign-in/.test(html)) return { seen: 'sign-in', html };
+  if (
+    /<meta id="__next-page-redirect"[^>]*url=\/sign-in/.test(html) ||
+    /NEXT_REDIRECT;(replace|push);\/sign-in/.test(html)
+  )
+    return { seen: 'sign-in', html };
   // notFound() after the first bytes travels as its error digest, which the browser turns into the
   // not-found page (whose text every page's payload carries anyway, for navigation).
   if (response.status === 404 || html.includes('NEXT_HTTP_ERROR_FALLBACK;404')) return { seen: 'not found', html };
@@ -439,7 +687,11 @@ async function visit(url: string, who: Who): Promise<{ seen: Seen; html: string 
 beforeAll(async () => {
   await resetDatabase();
   await seedDemo(testDb());
-  const project = await testDb().selectFrom('projects').select(['id', 'code']).where('code', '=', 'TPT2').executeTakeFirstOrThrow();
+  const project = await testDb()
+    .selectFrom('projects')
+    .select(['id', 'code'])
+    .where('code', '=', 'TPT2')
+    .executeTakeFirstOrThrow();
   const outsider = await makeUser(testDb(), 'outsider@example.test');
   await makeProject(testDb(), 'OTH', [[outsider, 'originator']]);
   const people = {
@@ -460,7 +712,13 @@ beforeAll(async () => {
   // The demo installation, as `npm start` runs it: the mailbox page exists.
   app = await startApp({ WORLDSHEET_DEMO: '1' });
   for (const who of SIGNED_IN) {
-    cookies.set(who, await signIn(who === 'outsider' ? 'outsider@example.test' : `${who}@demo.test`, who === 'outsider' ? PASSWORD : DEMO_PASSWORD));
+    cookies.set(
+      who,
+      await signIn(
+        who === 'outsider' ? 'outsider@example.test' : `${who}@demo.test`,
+        who === 'outsider' ? PASSWORD : DEMO_PASSWORD,
+      ),
+    );
   }
 });
 
@@ -475,11 +733,18 @@ describe('authorization matrix', () => {
   });
 
   for (const variant of ['token', 'cookie'] as const) {
-    describe(variant === 'token' ? 'with API tokens' : 'with browser sessions (the session cookie, from the app’s own origin)', () => {
-      // Eight callers each, some evaluating or signing: more than the default 30 s on a busy machine.
-      for (const [key, entry] of Object.entries(MATRIX)) it(key, { timeout: 120_000 }, () => runEntry(key, entry, variant));
-      for (const [action, entry] of Object.entries(DECISIONS)) it(`POST /api/checks/[checkId]/decision: ${action}`, { timeout: 120_000 }, () => runEntry('POST decision', entry, variant));
-    });
+    describe(
+      variant === 'token' ? 'with API tokens' : 'with browser sessions (the session cookie, from the app’s own origin)',
+      () => {
+        // Eight callers each, some evaluating or signing: more than the default 30 s on a busy machine.
+        for (const [key, entry] of Object.entries(MATRIX))
+          it(key, { timeout: 120_000 }, () => runEntry(key, entry, variant));
+        for (const [action, entry] of Object.entries(DECISIONS))
+          it(`POST /api/checks/[checkId]/decision: ${action}`, { timeout: 120_000 }, () =>
+            runEntry('POST decision', entry, variant),
+          );
+      },
+    );
   }
 
   describe('pages, signed out and in each role', () => {
@@ -497,20 +762,37 @@ describe('authorization matrix', () => {
 
     it('/mailbox shows a signed-out visitor no captured link, and a signed-in person not another person’s mail', async () => {
       // Mail that must not leak: a password reset for the administrator, an invitation.
-      expect((await fetch(`${app.baseUrl}/api/auth/password-reset`, { method: 'POST', headers: { 'content-type': 'application/json' }, body: JSON.stringify({ email: 'admin@demo.test' }) })).status).toBe(202);
+      expect(
+        (
+          await fetch(`${app.baseUrl}/api/auth/password-reset`, {
+            method: 'POST',
+            headers: { 'content-type': 'application/json' },
+            body: JSON.stringify({ email: 'admin@demo.test' }),
+          })
+        ).status,
+      ).toBe(202);
       const reset = await waitForMail({ to: 'admin@demo.test' });
       const adminLink = /https?:\/\/\S+token=[\w-]+/.exec(reset.text)![0];
       const anonymous = (await visit('/mailbox', 'anonymous')).html;
       expect(anonymous).not.toMatch(/token=/);
       expect(anonymous).not.toContain('admin@demo.test');
-      for (const who of ['originator', 'viewer', 'outsider'] as const) expect((await visit('/mailbox', who)).html, who).not.toContain(adminLink);
+      for (const who of ['originator', 'viewer', 'outsider'] as const)
+        expect((await visit('/mailbox', who)).html, who).not.toContain(adminLink);
     });
   });
 
   describe('state changes with a session cookie that do not come from the app’s own pages', () => {
     // The job worker may still be issuing the revision requested above (revision.issue): not counted.
     const countEvents = async () =>
-      Number((await testDb().selectFrom('audit_events').select((eb) => eb.fn.countAll().as('n')).where('action', '!=', 'revision.issue').executeTakeFirstOrThrow()).n);
+      Number(
+        (
+          await testDb()
+            .selectFrom('audit_events')
+            .select((eb) => eb.fn.countAll().as('n'))
+            .where('action', '!=', 'revision.issue')
+            .executeTakeFirstOrThrow()
+        ).n,
+      );
     let eventsBefore: number;
     beforeAll(async () => {
       eventsBefore = await countEvents();
@@ -525,16 +807,22 @@ describe('authorization matrix', () => {
         const statuses: Record<string, number> = {};
         for (const [name, probe] of Object.entries({
           'Origin: http://evil.example': { origin: 'http://evil.example' },
-          'Origin: another port of the same host': { origin: `http://127.0.0.1:${Number(new URL(app.baseUrl).port) + 1}` },
+          'Origin: another port of the same host': {
+            origin: `http://127.0.0.1:${Number(new URL(app.baseUrl).port) + 1}`,
+          },
           'no Origin, no Sec-Fetch-Site': { origin: null },
           'text/plain': { contentType: 'text/plain' },
           'application/x-www-form-urlencoded': { contentType: 'application/x-www-form-urlencoded' },
         } as Record<string, Partial<Call>>)) {
           // A body of the form's type even where the route takes none (DELETE of a token).
-          const withBody = probe.contentType && request.body === undefined && !request.file ? { ...request, body: {} } : request;
+          const withBody =
+            probe.contentType && request.body === undefined && !request.file ? { ...request, body: {} } : request;
           const response = await call({ method, who, via: 'cookie', request: withBody, ...probe });
           statuses[name] = response.status;
-          if (response.status === 403) expect(((await response.json()) as { error: { message: string } }).error.message, name).toMatch(/another site|own pages/);
+          if (response.status === 403)
+            expect(((await response.json()) as { error: { message: string } }).error.message, name).toMatch(
+              /another site|own pages/,
+            );
         }
         expect(statuses).toEqual({
           'Origin: http://evil.example': 403,
@@ -553,15 +841,33 @@ describe('authorization matrix', () => {
 
   describe('read-only API tokens', () => {
     it('read', async () => {
-      for (const who of SIGNED_IN) expect((await call({ method: 'GET', who, via: 'read-token', request: { path: '/api/account' } })).status, who).toBe(200);
-      expect((await call({ method: 'GET', who: 'originator', via: 'read-token', request: { path: `/api/sheets/${worlds.token.sheetId}` } })).status).toBe(200);
+      for (const who of SIGNED_IN)
+        expect(
+          (await call({ method: 'GET', who, via: 'read-token', request: { path: '/api/account' } })).status,
+          who,
+        ).toBe(200);
+      expect(
+        (
+          await call({
+            method: 'GET',
+            who: 'originator',
+            via: 'read-token',
+            request: { path: `/api/sheets/${worlds.token.sheetId}` },
+          })
+        ).status,
+      ).toBe(200);
     });
 
     for (const key of STATE_CHANGING) {
       it(`${key}: refused (403)`, { timeout: 120_000 }, async () => {
         const entry = MATRIX[key];
         const who = allowedCaller(entry, 'token');
-        const response = await call({ method: key.split(' ')[0], who, via: 'read-token', request: entry.request(worlds.token) });
+        const response = await call({
+          method: key.split(' ')[0],
+          who,
+          via: 'read-token',
+          request: entry.request(worlds.token),
+        });
         expect(response.status).toBe(403);
         expect(((await response.json()) as { error: { message: string } }).error.message).toMatch(/read-only/);
       });
@@ -570,12 +876,25 @@ describe('authorization matrix', () => {
 
   describe('ids that are not UUIDs and numbers beyond int4: 404 or 400, never 500', () => {
     const BAD: Record<string, string[]> = {
-      uuid: ['-'.repeat(36), '0'.repeat(36), '00000000-0000-0000-0000-00000000000g', '{00000000-0000-4000-8000-000000000000}', '%00'],
+      uuid: [
+        '-'.repeat(36),
+        '0'.repeat(36),
+        '00000000-0000-0000-0000-00000000000g',
+        '{00000000-0000-4000-8000-000000000000}',
+        '%00',
+      ],
       int: ['2147483648', '99999999999999999999', '1e3', '-1', '0x10'],
       project: ['-'.repeat(36), 'tpt2', '%00'],
       sha256: ['0'.repeat(63), 'g'.repeat(64)],
     };
-    const KIND: Record<string, string> = { number: 'int', sheetNumber: 'int', cellIndex: 'int', line: 'int', projectId: 'project', sha256: 'sha256' };
+    const KIND: Record<string, string> = {
+      number: 'int',
+      sheetNumber: 'int',
+      cellIndex: 'int',
+      line: 'int',
+      projectId: 'project',
+      sha256: 'sha256',
+    };
     for (const key of Object.keys(MATRIX).filter((k) => k.includes('[') && !k.includes('[...'))) {
       it(key, { timeout: 120_000 }, async () => {
         const entry = MATRIX[key];
@@ -588,7 +907,9 @@ describe('authorization matrix', () => {
         const seen: Record<string, number> = {};
         for (const [i, name] of names.entries()) {
           for (const bad of BAD[KIND[name] ?? 'uuid']) {
-            const path = pattern.replace(/\[(\w+)\]/g, (_, n: string) => (n === name ? bad : values[names.indexOf(n)])) + (query ? `?${query}` : '');
+            const path =
+              pattern.replace(/\[(\w+)\]/g, (_, n: string) => (n === name ? bad : values[names.indexOf(n)])) +
+              (query ? `?${query}` : '');
             seen[`${name}=${bad}`] = (await call({ method, who, via: 'token', request: { ...request, path } })).status;
             void i;
           }
@@ -601,18 +922,73 @@ describe('authorization matrix', () => {
       const w = worlds.token;
       const big = 2 ** 31;
       const statuses = {
-        compare: (await call({ method: 'GET', who: 'originator', via: 'token', request: { path: `/api/sheets/${w.sheetId}/compare?target=${big}` } })).status,
-        export: (await call({ method: 'GET', who: 'originator', via: 'token', request: { path: `/api/sheets/${w.sheetId}/export?version=${big}` } })).status,
-        save: (await call({ method: 'POST', who: 'originator', via: 'token', request: { path: `/api/sheets/${w.sheetId}/versions`, body: { parentNumber: big, message: 'x', content: w.sheetContent } } })).status,
-        submit: (await call({ method: 'POST', who: 'originator', via: 'token', request: { path: `/api/sheets/${w.sheetId}/checks`, body: { versionNumber: big, checkerId: w.checkerId, password: DEMO_PASSWORD } } })).status,
-        issue: (await call({ method: 'POST', who: 'controller', via: 'token', request: { path: `/api/sheets/${w.approvedSheetId}/revisions`, body: { versionNumber: big, password: DEMO_PASSWORD } } })).status,
+        compare: (
+          await call({
+            method: 'GET',
+            who: 'originator',
+            via: 'token',
+            request: { path: `/api/sheets/${w.sheetId}/compare?target=${big}` },
+          })
+        ).status,
+        export: (
+          await call({
+            method: 'GET',
+            who: 'originator',
+            via: 'token',
+            request: { path: `/api/sheets/${w.sheetId}/export?version=${big}` },
+          })
+        ).status,
+        save: (
+          await call({
+            method: 'POST',
+            who: 'originator',
+            via: 'token',
+            request: {
+              path: `/api/sheets/${w.sheetId}/versions`,
+              body: { parentNumber: big, message: 'x', content: w.sheetContent },
+            },
+          })
+        ).status,
+        submit: (
+          await call({
+            method: 'POST',
+            who: 'originator',
+            via: 'token',
+            request: {
+              path: `/api/sheets/${w.sheetId}/checks`,
+              body: { versionNumber: big, checkerId: w.checkerId, password: DEMO_PASSWORD },
+            },
+          })
+        ).status,
+        issue: (
+          await call({
+            method: 'POST',
+            who: 'controller',
+            via: 'token',
+            request: {
+              path: `/api/sheets/${w.approvedSheetId}/revisions`,
+              body: { versionNumber: big, password: DEMO_PASSWORD },
+            },
+          })
+        ).status,
       };
       expect(statuses).toEqual({ compare: 400, export: 400, save: 400, submit: 400, issue: 400 });
     });
 
     it('pages: the not-found page', async () => {
-      const urls = ['/checks/' + '-'.repeat(36), '/checks/' + '0'.repeat(36), '/projects/TPT2/sheets/2147483648', '/projects/TPT2/sheets/1e3/edit', '/projects/TPT2/sheets/1?version=2147483648', '/projects/TPT2/sheets/1/compare?target=99999999999', '/projects/tpt2', '/projects/%00/register'];
-      const seen = Object.fromEntries(await Promise.all(urls.map(async (url) => [url, (await visit(url, 'originator')).seen] as const)));
+      const urls = [
+        '/checks/' + '-'.repeat(36),
+        '/checks/' + '0'.repeat(36),
+        '/projects/TPT2/sheets/2147483648',
+        '/projects/TPT2/sheets/1e3/edit',
+        '/projects/TPT2/sheets/1?version=2147483648',
+        '/projects/TPT2/sheets/1/compare?target=99999999999',
+        '/projects/tpt2',
+        '/projects/%00/register',
+      ];
+      const seen = Object.fromEntries(
+        await Promise.all(urls.map(async (url) => [url, (await visit(url, 'originator')).seen] as const)),
+      );
       expect(seen).toEqual(Object.fromEntries(urls.map((url) => [url, 'not found'])));
     });
   });
@@ -628,16 +1004,24 @@ describe('authorization matrix', () => {
     expect(`${signInForm.headers.get('location') ?? ''}${await signInForm.text()}`).toContain('csrf=true');
     const signOut = await fetch(`${app.baseUrl}/api/auth/signout`, {
       method: 'POST',
-      headers: { 'content-type': 'application/x-www-form-urlencoded', origin: 'http://evil.example', cookie: cookies.get('viewer')! },
+      headers: {
+        'content-type': 'application/x-www-form-urlencoded',
+        origin: 'http://evil.example',
+        cookie: cookies.get('viewer')!,
+      },
       body: new URLSearchParams({ json: 'true' }),
       redirect: 'manual',
     });
     expect(`${signOut.headers.get('location') ?? ''}${await signOut.text()}`).toContain('csrf=true');
-    expect((await fetch(`${app.baseUrl}/api/account`, { headers: { cookie: cookies.get('viewer')! } })).status).toBe(200);
+    expect((await fetch(`${app.baseUrl}/api/account`, { headers: { cookie: cookies.get('viewer')! } })).status).toBe(
+      200,
+    );
   });
 
   it('answers 401 for a revoked or made-up token', async () => {
-    const response = await fetch(`${app.baseUrl}/api/account`, { headers: { authorization: 'Bearer wst_made-up-token' } });
+    const response = await fetch(`${app.baseUrl}/api/account`, {
+      headers: { authorization: 'Bearer wst_made-up-token' },
+    });
     expect(response.status).toBe(401);
   });
 
@@ -648,9 +1032,22 @@ describe('authorization matrix', () => {
       .where('action', 'in', ['project.create', 'membership.grant', 'membership.revoke', 'user.invite', 'user.disable'])
       .where('token_id', 'is not', null)
       .execute();
-    expect(events.map((e) => e.action).sort()).toEqual(['membership.grant', 'membership.revoke', 'project.create', 'user.disable', 'user.invite']);
-    const sheetWrites = await testDb().selectFrom('audit_events').select('action').where('action', 'in', ['sheet.create', 'version.save', 'attachment.upload']).where('token_id', 'is not', null).execute();
-    expect(new Set(sheetWrites.map((e) => e.action))).toEqual(new Set(['sheet.create', 'version.save', 'attachment.upload']));
+    expect(events.map((e) => e.action).sort()).toEqual([
+      'membership.grant',
+      'membership.revoke',
+      'project.create',
+      'user.disable',
+      'user.invite',
+    ]);
+    const sheetWrites = await testDb()
+      .selectFrom('audit_events')
+      .select('action')
+      .where('action', 'in', ['sheet.create', 'version.save', 'attachment.upload'])
+      .where('token_id', 'is not', null)
+      .execute();
+    expect(new Set(sheetWrites.map((e) => e.action))).toEqual(
+      new Set(['sheet.create', 'version.save', 'attachment.upload']),
+    );
     const sessionWrites = await testDb()
       .selectFrom('audit_events')
       .select('action')
@@ -659,6 +1056,8 @@ describe('authorization matrix', () => {
       .where('actor_id', 'is not', null)
       .where('session_id', 'is not', null)
       .execute();
-    expect(new Set(sessionWrites.map((e) => e.action))).toEqual(new Set(['project.create', 'sheet.create', 'version.save', 'attachment.upload', 'token.create']));
+    expect(new Set(sessionWrites.map((e) => e.action))).toEqual(
+      new Set(['project.create', 'sheet.create', 'version.save', 'attachment.upload', 'token.create']),
+    );
   });
 });

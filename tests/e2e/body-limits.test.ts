@@ -61,7 +61,11 @@ function rssBytes(pid: number): number {
 }
 
 /** Sends up to `total` bytes as a chunked body, stopping as soon as the answer arrives. */
-function sendChunked(path: string, headers: Record<string, string>, total: number): Promise<{ status: number; body: string; sent: number }> {
+function sendChunked(
+  path: string,
+  headers: Record<string, string>,
+  total: number,
+): Promise<{ status: number; body: string; sent: number }> {
   const url = new URL(path, app.baseUrl);
   return new Promise((resolve, reject) => {
     const chunk = Buffer.alloc(MiB, 0x20);
@@ -110,25 +114,37 @@ afterAll(async () => {
 });
 
 describe('request bodies are read with a byte limit', () => {
-  it('answers 413 to 300 MiB chunked bodies while they are being sent, and the server does not keep them', { timeout: 180_000 }, async () => {
-    const pid = listeningPid(Number(new URL(app.baseUrl).port));
-    // Warm the routes first, so that compiling and loading them is not counted as growth.
-    for (const path of ['/api/auth/password-reset', `/api/projects/${projectId}/sheets/import`, '/api/verify']) {
-      await fetch(`${app.baseUrl}${path}`, { method: 'POST', headers: { authorization: `Bearer ${token}`, 'content-type': 'application/json' }, body: '{}' });
-    }
-    const before = rssBytes(pid);
-    const reset = await sendChunked('/api/auth/password-reset', { 'content-type': 'application/json' }, BODY);
-    const imported = await sendChunked(`/api/projects/${projectId}/sheets/import`, { 'content-type': 'application/json', authorization: `Bearer ${token}` }, BODY);
-    const verified = await sendChunked('/api/verify', { 'content-type': 'multipart/form-data; boundary=x' }, BODY);
-    const after = rssBytes(pid);
-    for (const [name, r] of Object.entries({ reset, imported, verified })) {
-      expect(r.status, name).toBe(413);
-      expect(JSON.parse(r.body).error.code, name).toBe('too_large');
-      // The answer came while the client was still sending: the server did not read the rest first.
-      expect(r.sent, name).toBeLessThan(BODY / 2);
-    }
-    expect(after - before).toBeLessThan(RSS_BUDGET);
-    // Nothing was imported.
-    expect(await testDb().selectFrom('sheets').select('id').execute()).toEqual([]);
-  });
+  it(
+    'answers 413 to 300 MiB chunked bodies while they are being sent, and the server does not keep them',
+    { timeout: 180_000 },
+    async () => {
+      const pid = listeningPid(Number(new URL(app.baseUrl).port));
+      // Warm the routes first, so that compiling and loading them is not counted as growth.
+      for (const path of ['/api/auth/password-reset', `/api/projects/${projectId}/sheets/import`, '/api/verify']) {
+        await fetch(`${app.baseUrl}${path}`, {
+          method: 'POST',
+          headers: { authorization: `Bearer ${token}`, 'content-type': 'application/json' },
+          body: '{}',
+        });
+      }
+      const before = rssBytes(pid);
+      const reset = await sendChunked('/api/auth/password-reset', { 'content-type': 'application/json' }, BODY);
+      const imported = await sendChunked(
+        `/api/projects/${projectId}/sheets/import`,
+        { 'content-type': 'application/json', authorization: `Bearer ${token}` },
+        BODY,
+      );
+      const verified = await sendChunked('/api/verify', { 'content-type': 'multipart/form-data; boundary=x' }, BODY);
+      const after = rssBytes(pid);
+      for (const [name, r] of Object.entries({ reset, imported, verified })) {
+        expect(r.status, name).toBe(413);
+        expect(JSON.parse(r.body).error.code, name).toBe('too_large');
+        // The answer came while the client was still sending: the server did not read the rest first.
+        expect(r.sent, name).toBeLessThan(BODY / 2);
+      }
+      expect(after - before).toBeLessThan(RSS_BUDGET);
+      // Nothing was imported.
+      expect(await testDb().selectFrom('sheets').select('id').execute()).toEqual([]);
+    },
+  );
 });

@@ -30,14 +30,26 @@ it('evaluates through POST /api/evaluate in the production server', async () => 
   const response = await fetch(`${app.baseUrl}/api/evaluate`, {
     method: 'POST',
     headers: { 'content-type': 'application/json', authorization: `Bearer ${token}` },
-    body: JSON.stringify({ cells: [{ id: 'a', kind: 'calc', source: 'T_kin = 250 MeV\nBrho = magneticRigidity(momentumFromKinetic(T_kin, m_p), q_e) to T*m' }] }),
+    body: JSON.stringify({
+      cells: [
+        {
+          id: 'a',
+          kind: 'calc',
+          source: 'T_kin = 250 MeV\nBrho = magneticRigidity(momentumFromKinetic(T_kin, m_p), q_e) to T*m',
+        },
+      ],
+    }),
   });
   expect(response.status).toBe(200);
   const body = await response.json();
   // PDG Review of Particle Physics, kinematics: p [GeV/c] = 0.299 79 B [T] ρ [m] for unit charge; for
   // 250 MeV protons pc = √(T(T + 2 m_p c²)) = 729.13 MeV (CODATA 2022 m_p c²), so Bρ = 2.4321 T m.
   expect(body.cells[0].statements[1].value.number).toBeCloseTo(2.4321, 3);
-  const bad = await fetch(`${app.baseUrl}/api/evaluate`, { method: 'POST', body: '{', headers: { authorization: `Bearer ${token}` } });
+  const bad = await fetch(`${app.baseUrl}/api/evaluate`, {
+    method: 'POST',
+    body: '{',
+    headers: { authorization: `Bearer ${token}` },
+  });
   expect(bad.status).toBe(400);
   const oversized = await fetch(`${app.baseUrl}/api/evaluate`, {
     method: 'POST',
@@ -65,7 +77,9 @@ it('typesets the scratch pad results as the user types', async () => {
   await page.getByRole('alert').filter({ hasText: 'cannot add x_1 (a length, 2 m) and 1 s (a time)' }).waitFor();
   // The error also marks its line in the editor's gutter: a button named by the line and the message
   // (reachable by keyboard, read by a screen reader); activating it puts the cursor on that line.
-  const marker = page.getByRole('button', { name: /^Line 2 error: cannot add x_1 \(a length, 2 m\) and 1 s \(a time\)/ });
+  const marker = page.getByRole('button', {
+    name: /^Line 2 error: cannot add x_1 \(a length, 2 m\) and 1 s \(a time\)/,
+  });
   await marker.waitFor();
   expect(await page.locator('.cm-calc-error-marker[aria-label^="Line 1 "]').count()).toBe(0);
   await marker.focus();
@@ -94,7 +108,10 @@ it('lists every library function with its formula typeset', async () => {
   await expect(page.getByRole('cell', { name: /^PDG, Review of Particle Physics 2024/ }).count()).resolves.toBe(5);
   await expect(page.getByRole('cell', { name: /^AME 2020/ }).count()).resolves.toBe(4);
   await page.getByLabel('Search the functions').fill('rigidity');
-  await page.getByRole('status').filter({ hasText: /^4 of \d+ functions$/ }).waitFor();
+  await page
+    .getByRole('status')
+    .filter({ hasText: /^4 of \d+ functions$/ })
+    .waitFor();
   await expect(page.locator('article#magneticRigidity').count()).resolves.toBe(1);
   await expect(page.locator('article#kineticFromRigidity').count()).resolves.toBe(1);
   await expect(page.locator('article#rigidityFromKineticPerNucleon .katex').count()).resolves.toBeGreaterThan(0);

@@ -20,9 +20,17 @@ const signedIn = (email: string): Promise<BrowserSession> => openSignedIn(app.ba
 async function saveVersion(message: string, edit: (source: string) => string): Promise<number> {
   const latest = await originator.context.request.get(`${app.baseUrl}/api/sheets/${sheetId}`);
   const { version } = await latest.json();
-  const content = { ...version.content, cells: version.content.cells.map((c: { id: string; source: string }) => (c.id === 'rigidity' ? { ...c, source: edit(c.source) } : c)) };
+  const content = {
+    ...version.content,
+    cells: version.content.cells.map((c: { id: string; source: string }) =>
+      c.id === 'rigidity' ? { ...c, source: edit(c.source) } : c,
+    ),
+  };
   // With the session cookie, a change says where it comes from (Origin), as a browser's fetch does.
-  const saved = await originator.context.request.post(`${app.baseUrl}/api/sheets/${sheetId}/versions`, { headers: { origin: app.baseUrl }, data: { parentNumber: version.number, message, content } });
+  const saved = await originator.context.request.post(`${app.baseUrl}/api/sheets/${sheetId}/versions`, {
+    headers: { origin: app.baseUrl },
+    data: { parentNumber: version.number, message, content },
+  });
   expect(saved.status()).toBe(201);
   return (await saved.json()).number;
 }
@@ -40,11 +48,29 @@ async function submitForCheck(versionNumber: number) {
 beforeAll(async () => {
   await resetDatabase();
   await seedDemo(testDb());
-  const project = await testDb().selectFrom('projects').select('id').where('code', '=', 'TPT2').executeTakeFirstOrThrow();
-  sheetId = (await testDb().selectFrom('sheets').select('id').where('project_id', '=', project.id).where('number', '=', 1).executeTakeFirstOrThrow()).id;
+  const project = await testDb()
+    .selectFrom('projects')
+    .select('id')
+    .where('code', '=', 'TPT2')
+    .executeTakeFirstOrThrow();
+  sheetId = (
+    await testDb()
+      .selectFrom('sheets')
+      .select('id')
+      .where('project_id', '=', project.id)
+      .where('number', '=', 1)
+      .executeTakeFirstOrThrow()
+  ).id;
   // The demo originator also holds the checker role here, so the submit form has someone to refuse.
-  const user = await testDb().selectFrom('users').select('id').where('email', '=', 'originator@demo.test').executeTakeFirstOrThrow();
-  await testDb().insertInto('project_members').values({ project_id: project.id, user_id: user.id, role: 'checker', granted_by: null }).execute();
+  const user = await testDb()
+    .selectFrom('users')
+    .select('id')
+    .where('email', '=', 'originator@demo.test')
+    .executeTakeFirstOrThrow();
+  await testDb()
+    .insertInto('project_members')
+    .values({ project_id: project.id, user_id: user.id, role: 'checker', granted_by: null })
+    .execute();
   app = await startApp();
   originator = await signedIn('originator@demo.test');
   checker = await signedIn('checker@demo.test');
@@ -59,14 +85,23 @@ afterAll(async () => {
 
 it('takes a version from submission through a return, a resubmission, the check and the approval', async () => {
   // The originator saves version 2 and submits it; they cannot pick themselves as the checker.
-  expect(await saveVersion('Charge state stated', (s) => s.replace('magneticRigidity(p_max, q_e)', 'magneticRigidity(p_max, 1 * q_e)'))).toBe(2);
+  expect(
+    await saveVersion('Charge state stated', (s) =>
+      s.replace('magneticRigidity(p_max, q_e)', 'magneticRigidity(p_max, 1 * q_e)'),
+    ),
+  ).toBe(2);
   let form = await submitForCheck(2);
   const self = form.getByRole('option', { name: 'Demo Originator (not eligible)' });
   expect(await self.isDisabled()).toBe(true);
-  await form.getByText(/Demo Originator is not eligible: .*saved a version of it since the last approved one/).waitFor();
+  await form
+    .getByText(/Demo Originator is not eligible: .*saved a version of it since the last approved one/)
+    .waitFor();
   await originator.screenshot('submit-for-check');
   await form.getByRole('button', { name: 'Submit for check' }).click();
-  await form.getByRole('status').filter({ hasText: 'Version 2 is submitted to Demo Checker for check and signed as prepared.' }).waitFor();
+  await form
+    .getByRole('status')
+    .filter({ hasText: 'Version 2 is submitted to Demo Checker for check and signed as prepared.' })
+    .waitFor();
   const status = originator.page.getByRole('region', { name: 'Status' });
   await status.getByText('In check', { exact: true }).waitFor();
   await status.getByText('Version 2 is in check by Demo Checker.').waitFor();
@@ -84,8 +119,12 @@ it('takes a version from submission through a return, a resubmission, the check 
   await page.getByRole('note').filter({ hasText: 'Safety-related calculation' }).waitFor();
   let cell = page.getByRole('article', { name: /^Cell 2 \(rigidity\)/ });
   await cell.getByRole('button', { name: 'Comment on this cell' }).click();
-  await cell.getByLabel('Statement line (optional)').selectOption({ label: 'Line 3: Brho_max = magneticRigidity(p_max, 1 * q_e) to T*m' });
-  await cell.getByLabel('Comment', { exact: true }).fill('Which ion species is assumed? Cite the charge state in the design inputs.');
+  await cell
+    .getByLabel('Statement line (optional)')
+    .selectOption({ label: 'Line 3: Brho_max = magneticRigidity(p_max, 1 * q_e) to T*m' });
+  await cell
+    .getByLabel('Comment', { exact: true })
+    .fill('Which ion species is assumed? Cite the charge state in the design inputs.');
   await cell.getByRole('button', { name: 'Add the comment' }).click();
   await cell.getByText('Open thread · Line 3').waitFor();
   await page.getByLabel('Reason for returning').fill('One open comment on the rigidity cell.');
@@ -105,7 +144,9 @@ it('takes a version from submission through a return, a resubmission, the check 
   await cell.getByLabel('Your reply').fill('Protons, charge state 1; now in the cell comment.');
   await cell.getByRole('button', { name: 'Send the reply' }).click();
   await cell.getByText('Protons, charge state 1; now in the cell comment.').waitFor();
-  expect(await saveVersion('Charge state in the comment', (s) => s.replace('to T*m', 'to T*m   # protons, charge state 1'))).toBe(3);
+  expect(
+    await saveVersion('Charge state in the comment', (s) => s.replace('to T*m', 'to T*m   # protons, charge state 1')),
+  ).toBe(3);
   form = await submitForCheck(3);
   await form.getByRole('button', { name: 'Submit for check' }).click();
   await status.getByText('Version 3 is in check by Demo Checker.').waitFor();
@@ -119,22 +160,38 @@ it('takes a version from submission through a return, a resubmission, the check 
   // A re-check: what changed since the returned version 2 comes first (no version is approved yet).
   await page.getByText('Version 3, re-check after the return of version 2; no version is approved yet').waitFor();
   const sinceReturn = page.getByRole('region', { name: 'Changes since version 2, the version you returned' });
-  await sinceReturn.getByRole('article', { name: 'Cell rigidity, changed since version 2' }).getByRole('insertion').filter({ hasText: '# protons, charge state 1' }).waitFor();
-  await page.getByRole('heading', { name: 'Since the last approved version: none is approved yet, so every cell is new' }).waitFor();
+  await sinceReturn
+    .getByRole('article', { name: 'Cell rigidity, changed since version 2' })
+    .getByRole('insertion')
+    .filter({ hasText: '# protons, charge state 1' })
+    .waitFor();
+  await page
+    .getByRole('heading', { name: 'Since the last approved version: none is approved yet, so every cell is new' })
+    .waitFor();
   cell = page.getByRole('article', { name: /^Cell 2 \(rigidity\)/ });
   await cell.getByText('Open thread · Line 3 · opened at the check of version 2').waitFor();
   await cell.getByText('Protons, charge state 1; now in the cell comment.').waitFor();
-  await page.getByRole('region', { name: 'Decision' }).getByText('1 comment thread is still open; resolve them first.').waitFor();
+  await page
+    .getByRole('region', { name: 'Decision' })
+    .getByText('1 comment thread is still open; resolve them first.')
+    .waitFor();
   await cell.getByRole('button', { name: 'Resolve' }).click();
   await cell.getByText(/Resolved thread · Line 3 .* resolved by Demo Checker/).waitFor();
   await page.getByRole('radio', { name: 'Design review' }).check();
   await page.getByRole('status').filter({ hasText: 'Verification method recorded: Design review.' }).waitFor();
   await page.getByRole('button', { name: 'Add an alternate calculation cell' }).click();
-  await page.getByLabel('Alternate cell 1 source').fill('gamma_alt = 1 + 250 MeV / (m_p * c^2)\np_alt = m_p * c * sqrt(gamma_alt^2 - 1)\nB_alt = p_alt / (q_e * 1.5 m) to T');
+  await page
+    .getByLabel('Alternate cell 1 source')
+    .fill(
+      'gamma_alt = 1 + 250 MeV / (m_p * c^2)\np_alt = m_p * c * sqrt(gamma_alt^2 - 1)\nB_alt = p_alt / (q_e * 1.5 m) to T',
+    );
   await page.getByLabel("Checker's notes").fill('Field recomputed from the Lorentz factor; agrees with B_max.');
   await page.getByRole('button', { name: 'Save and evaluate' }).click();
   // 250 MeV protons on a 1.5 m radius: B = Bρ/ρ = 2.432 13 T·m / 1.5 m = 1.621 42 T (PDG RPP "Kinematics", m_p from CODATA 2022).
-  await page.getByRole('group', { name: 'Results of alternate cell 1' }).getByText(/1\.621\s?42\s?T/).waitFor();
+  await page
+    .getByRole('group', { name: 'Results of alternate cell 1' })
+    .getByText(/1\.621\s?42\s?T/)
+    .waitFor();
   const sign = page.getByRole('form', { name: 'Sign as checked' });
   await sign.getByText('Meaning of your signature: Checked').waitFor();
   await sign.getByLabel('Your password (signs as checked)').fill('not the password');
@@ -160,7 +217,10 @@ it('takes a version from submission through a return, a resubmission, the check 
   await approve.getByText('Meaning of your signature: Approved').waitFor();
   await approve.getByLabel('Your password (signs as approved)').fill(DEMO_PASSWORD);
   await approve.getByRole('button', { name: 'Approve' }).click();
-  await page.getByRole('status').filter({ hasText: 'Approved. Document control can now issue it as a revision.' }).waitFor();
+  await page
+    .getByRole('status')
+    .filter({ hasText: 'Approved. Document control can now issue it as a revision.' })
+    .waitFor();
   expect(approver.problems).toEqual([]);
 
   // The sheet is approved, with the signatures of version 3: prepared, checked, approved.
@@ -185,7 +245,10 @@ it('checks a later version against the approved one: changed cells first, unchan
   expect(await saveVersion('Larger bending radius', (s) => s.replace('rho = 1.5 m', 'rho = 1.6 m'))).toBe(4);
   const form = await submitForCheck(4);
   await form.getByRole('button', { name: 'Submit for check' }).click();
-  await originator.page.getByRole('region', { name: 'Status' }).getByText('Version 4 is in check by Demo Checker.').waitFor();
+  await originator.page
+    .getByRole('region', { name: 'Status' })
+    .getByText('Version 4 is in check by Demo Checker.')
+    .waitFor();
 
   const { page } = checker;
   await page.goto(`${app.baseUrl}/checks`);

@@ -23,24 +23,57 @@ beforeAll(async () => {
   const db = testDb();
   await seedDemo(db);
   const project = await db.selectFrom('projects').select('id').where('code', '=', 'TPT2').executeTakeFirstOrThrow();
-  const sheet = await db.selectFrom('sheets').select(['id', 'project_id', 'number', 'title']).where('project_id', '=', project.id).where('number', '=', 1).executeTakeFirstOrThrow();
+  const sheet = await db
+    .selectFrom('sheets')
+    .select(['id', 'project_id', 'number', 'title'])
+    .where('project_id', '=', project.id)
+    .where('number', '=', 1)
+    .executeTakeFirstOrThrow();
   const originatorActor = await actorByEmail(db, 'originator@demo.test');
   const checkerActor = await actorByEmail(db, 'checker@demo.test');
   // The first check: the checker records an alternate calculation and a tolerance, then returns the version.
   const v1 = (await getVersion(db, sheet.id))!;
-  const first = await submitForCheck(db, originatorActor, sheet, { versionNumber: v1.number, checkerId: checkerActor.userId, password: DEMO_PASSWORD });
+  const first = await submitForCheck(db, originatorActor, sheet, {
+    versionNumber: v1.number,
+    checkerId: checkerActor.userId,
+    password: DEMO_PASSWORD,
+  });
   await saveCheckWork(db, checkerActor, first.id, {
     verificationMethod: 'alternate_calculation',
     checkerNotes: 'Field recomputed from the total energy.',
     // T_max read as 250.1 MeV from the beam specification table: 4 × 10⁻⁴ from the sheet's 250 MeV (arithmetic).
-    alternateCells: [{ id: 'alt-1', kind: 'calc', source: 'T_max = 250.1 MeV\nE_tot = 250 MeV + m_p * c^2\np_max = sqrt(E_tot^2 - (m_p * c^2)^2) / c\nB_max = p_max / (q_e * 1.5 m) to T' }],
+    alternateCells: [
+      {
+        id: 'alt-1',
+        kind: 'calc',
+        source:
+          'T_max = 250.1 MeV\nE_tot = 250 MeV + m_p * c^2\np_max = sqrt(E_tot^2 - (m_p * c^2)^2) / c\nB_max = p_max / (q_e * 1.5 m) to T',
+      },
+    ],
     tolerance: '0.01 %',
   });
   await decide(db, checkerActor, first.id, { action: 'return', reason: 'Cite the source of the bending radius.' });
   // The originator saves the next version and submits it again.
-  const content = { ...v1.content, cells: v1.content.cells.map((c) => (c.id === 'rigidity' ? { ...c, source: c.source.replace('# dipole bending radius', '# dipole bending radius, magnet drawing D-12') } : c)) };
-  const v2 = await saveVersion(db, originatorActor, sheet, { parentNumber: v1.number, message: 'Radius source cited', content });
-  checkId = (await submitForCheck(db, originatorActor, sheet, { versionNumber: v2.number, checkerId: checkerActor.userId, password: DEMO_PASSWORD })).id;
+  const content = {
+    ...v1.content,
+    cells: v1.content.cells.map((c) =>
+      c.id === 'rigidity'
+        ? { ...c, source: c.source.replace('# dipole bending radius', '# dipole bending radius, magnet drawing D-12') }
+        : c,
+    ),
+  };
+  const v2 = await saveVersion(db, originatorActor, sheet, {
+    parentNumber: v1.number,
+    message: 'Radius source cited',
+    content,
+  });
+  checkId = (
+    await submitForCheck(db, originatorActor, sheet, {
+      versionNumber: v2.number,
+      checkerId: checkerActor.userId,
+      password: DEMO_PASSWORD,
+    })
+  ).id;
   app = await startApp();
   checker = await signedIn('checker@demo.test');
   approver = await signedIn('approver@demo.test');
@@ -52,12 +85,15 @@ afterAll(async () => {
   await app?.stop();
 });
 
-it('compares the alternate calculation, carries the returned check\'s work over, and shows both to the approver', async () => {
+it("compares the alternate calculation, carries the returned check's work over, and shows both to the approver", async () => {
   let page = checker.page;
   await page.goto(`${app.baseUrl}/checks/${checkId}`);
   const work = page.getByRole('region', { name: "The checker's work" });
   // Carried over, visibly, field by field, and not yet confirmed.
-  await work.getByRole('note', { name: 'Carried over' }).getByText(/From the check of version 1:/).waitFor();
+  await work
+    .getByRole('note', { name: 'Carried over' })
+    .getByText(/From the check of version 1:/)
+    .waitFor();
   await work.getByText('Not yet confirmed by the checker for this version.').waitFor();
   expect(await work.getByText('from the check of version 1', { exact: true }).count()).toBe(4);
   expect(await work.getByLabel("Checker's notes").inputValue()).toBe('Field recomputed from the total energy.');
@@ -65,7 +101,8 @@ it('compares the alternate calculation, carries the returned check\'s work over,
   // The comparison, in words: 250.1 MeV against 250 MeV is 4 × 10⁻⁴ (arithmetic), outside 0.01 %; the
   // momentum and field recomputed from E² = p²c² + m²c⁴ agree with the library to rounding (PDG RPP "Kinematics").
   const table = work.getByRole('table', { name: 'Alternate calculation compared with the sheet' });
-  const row = (name: string) => table.getByRole('row').filter({ has: page.getByRole('rowheader', { name, exact: true }) });
+  const row = (name: string) =>
+    table.getByRole('row').filter({ has: page.getByRole('rowheader', { name, exact: true }) });
   await row('T_max').getByText('Outside the tolerance of 0.01 %').waitFor();
   expect(await row('T_max').getByRole('cell').nth(2).innerText()).toBe('4 × 10⁻⁴');
   await row('p_max').getByText('Within the tolerance of 0.01 %').waitFor();
@@ -77,7 +114,10 @@ it('compares the alternate calculation, carries the returned check\'s work over,
   const sign = page.getByRole('form', { name: 'Sign as checked' });
   await sign.getByLabel('Your password (signs as checked)').fill(DEMO_PASSWORD);
   await sign.getByRole('button', { name: 'Sign as checked' }).click();
-  await page.getByRole('alert').filter({ hasText: 'still as carried over from the check of version 1; confirm or edit them before signing.' }).waitFor();
+  await page
+    .getByRole('alert')
+    .filter({ hasText: 'still as carried over from the check of version 1; confirm or edit them before signing.' })
+    .waitFor();
 
   // The checker states a looser tolerance (their own edit now) and confirms the rest.
   await work.getByLabel('Tolerance of the comparison (relative)').fill('0.1 %');
@@ -100,11 +140,22 @@ it('compares the alternate calculation, carries the returned check\'s work over,
   const evidence = page.getByRole('group', { name: "The checker's evidence" });
   await evidence.getByText('Verification method: Alternate calculation').waitFor();
   await evidence.getByText(/3 of 3 shared names within 0\.1 %/).waitFor();
-  await evidence.getByText("Carried over from the check of version 1: verification method, checker's notes and alternate calculation; confirmed by Demo Checker.").waitFor();
+  await evidence
+    .getByText(
+      "Carried over from the check of version 1: verification method, checker's notes and alternate calculation; confirmed by Demo Checker.",
+    )
+    .waitFor();
   const readOnly = page.getByRole('region', { name: "The checker's work" });
-  await readOnly.getByRole('note', { name: 'Carried over' }).getByText(/Confirmed for this version by Demo Checker/).waitFor();
+  await readOnly
+    .getByRole('note', { name: 'Carried over' })
+    .getByText(/Confirmed for this version by Demo Checker/)
+    .waitFor();
   expect(await readOnly.getByRole('textbox').count()).toBe(0);
-  await readOnly.getByRole('table', { name: 'Alternate calculation compared with the sheet' }).getByText('Within the tolerance of 0.1 %').first().waitFor();
+  await readOnly
+    .getByRole('table', { name: 'Alternate calculation compared with the sheet' })
+    .getByText('Within the tolerance of 0.1 %')
+    .first()
+    .waitFor();
   await approver.screenshot('check-evidence-approver');
   const approve = page.getByRole('form', { name: 'Approve' });
   await approve.getByLabel('Your password (signs as approved)').fill(DEMO_PASSWORD);

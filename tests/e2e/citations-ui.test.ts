@@ -20,9 +20,21 @@ let app: RunningApp;
 let team: { author: Actor; checker: Actor; approver: Actor; controller: Actor };
 let sheets: SheetRef[];
 
-async function saveCells(sheet: SheetRef, message: string, edit: (cells: Array<{ id: string; kind: 'calc' | 'text'; source: string }>) => Array<{ id: string; kind: 'calc' | 'text'; source: string }>) {
+async function saveCells(
+  sheet: SheetRef,
+  message: string,
+  edit: (
+    cells: Array<{ id: string; kind: 'calc' | 'text'; source: string }>,
+  ) => Array<{ id: string; kind: 'calc' | 'text'; source: string }>,
+) {
   const latest = (await getVersion(testDb(), sheet.id))!;
-  return (await saveVersion(testDb(), team.author, sheet, { parentNumber: latest.number, message, content: { ...latest.content, cells: edit(latest.content.cells) } })).number;
+  return (
+    await saveVersion(testDb(), team.author, sheet, {
+      parentNumber: latest.number,
+      message,
+      content: { ...latest.content, cells: edit(latest.content.cells) },
+    })
+  ).number;
 }
 
 async function approveAndIssue(sheet: SheetRef, versionNumber: number) {
@@ -36,22 +48,43 @@ const signedIn = (email: string): Promise<BrowserSession> => openSignedIn(app.ba
 beforeAll(async () => {
   await resetDatabase();
   await seedDemo(testDb());
-  const project = await testDb().selectFrom('projects').select('id').where('code', '=', 'TPT2').executeTakeFirstOrThrow();
-  sheets = await testDb().selectFrom('sheets').select(['id', 'project_id', 'number', 'title']).where('project_id', '=', project.id).orderBy('number').execute();
-  const [author, checker, approver, controller] = await Promise.all(['originator', 'checker', 'approver', 'controller'].map((r) => actorByEmail(testDb(), `${r}@demo.test`)));
+  const project = await testDb()
+    .selectFrom('projects')
+    .select('id')
+    .where('code', '=', 'TPT2')
+    .executeTakeFirstOrThrow();
+  sheets = await testDb()
+    .selectFrom('sheets')
+    .select(['id', 'project_id', 'number', 'title'])
+    .where('project_id', '=', project.id)
+    .orderBy('number')
+    .execute();
+  const [author, checker, approver, controller] = await Promise.all(
+    ['originator', 'checker', 'approver', 'controller'].map((r) => actorByEmail(testDb(), `${r}@demo.test`)),
+  );
   team = { author, checker, approver, controller };
   // Sheet 1 revision A (250 MeV); sheet 2 cites its Brho_max and is issued as revision A.
   await approveAndIssue(sheets[0], 1);
   const cited = await saveCells(sheets[1], 'Cite the dipole rigidity', (cells) => [
     ...cells,
-    { id: 'cited', kind: 'calc', source: 'Brho_dip = fromRevision("TPT2-CALC-0001", "A", "Brho_max")\nI_set = Brho_dip / (2 m) * 1000 A/T to A' },
+    {
+      id: 'cited',
+      kind: 'calc',
+      source: 'Brho_dip = fromRevision("TPT2-CALC-0001", "A", "Brho_max")\nI_set = Brho_dip / (2 m) * 1000 A/T to A',
+    },
   ]);
   await approveAndIssue(sheets[1], cited);
   // Sheet 1 revision B at 230 MeV: sheet 2's input is superseded. Sheet 2 then gets an approved
   // version that still cites revision A.
-  const lower = await saveCells(sheets[0], 'Highest energy 230 MeV', (cells) => cells.map((c) => (c.id === 'rigidity' ? { ...c, source: c.source.replace('T_max = 250 MeV', 'T_max = 230 MeV') } : c)));
+  const lower = await saveCells(sheets[0], 'Highest energy 230 MeV', (cells) =>
+    cells.map((c) =>
+      c.id === 'rigidity' ? { ...c, source: c.source.replace('T_max = 250 MeV', 'T_max = 230 MeV') } : c,
+    ),
+  );
   await approveAndIssue(sheets[0], lower);
-  const stale = await saveCells(sheets[1], 'Wording', (cells) => cells.map((c) => (c.id === 'tof' ? { ...c, source: `${c.source}\n# timing read-out` } : c)));
+  const stale = await saveCells(sheets[1], 'Wording', (cells) =>
+    cells.map((c) => (c.id === 'tof' ? { ...c, source: `${c.source}\n# timing read-out` } : c)),
+  );
   await checkAndApprove(testDb(), team, sheets[1], { versionNumber: stale, password: DEMO_PASSWORD });
   app = await startApp();
 });
@@ -73,8 +106,14 @@ it('shows the originator the superseded input and the cited source with its stat
   // Bρ at 250 MeV then and at 230 MeV now (PDG kinematics, pc = √(T² + 2T·mc²): 2.432 13 and 2.321 82 T·m).
   expect(text).toMatch(/2\.432\s?13/);
   expect(text).toMatch(/2\.321\s?82/);
-  await page.getByText(/from TPT2-CALC-0001 rev\. A, Brho_max/).first().waitFor();
-  await page.getByText(/superseded by rev\. B/i).first().waitFor();
+  await page
+    .getByText(/from TPT2-CALC-0001 rev\. A, Brho_max/)
+    .first()
+    .waitFor();
+  await page
+    .getByText(/superseded by rev\. B/i)
+    .first()
+    .waitFor();
   await originator.screenshot('citations-superseded-input');
   expect(originator.problems).toEqual([]);
 
@@ -85,12 +124,17 @@ it('shows the originator the superseded input and the cited source with its stat
 
   await page.goto(`${app.baseUrl}/projects/TPT2/register`);
   // The page streams in after a loading state: wait for the register itself.
-  await page.getByText(/superseded input/i).first().waitFor();
+  await page
+    .getByText(/superseded input/i)
+    .first()
+    .waitFor();
   const register = await page.locator('main').innerText();
   expect(register).toMatch(/TPT2-CALC-0002/);
   await originator.screenshot('citations-register');
 
-  await page.goto(`${app.baseUrl}/software-impact?engineVersion=${encodeURIComponent(ENGINE_VERSION)}&function=magneticRigidity`);
+  await page.goto(
+    `${app.baseUrl}/software-impact?engineVersion=${encodeURIComponent(ENGINE_VERSION)}&function=magneticRigidity`,
+  );
   await page.getByRole('heading', { name: 'What used it' }).waitFor();
   const impact = await page.locator('main').innerText();
   expect(impact).toMatch(/TPT2-CALC-0001/);
@@ -107,9 +151,14 @@ it('refuses document control an issue of a version that cites a superseded revis
   await page.getByRole('heading', { level: 2, name: 'Issue a revision' }).waitFor();
   await page.getByLabel('Your password (signs as issued)').fill(DEMO_PASSWORD);
   await page.getByRole('button', { name: 'Issue as revision B' }).click();
-  await page.getByRole('alert').filter({ hasText: /cites TPT2-CALC-0001 rev\. A \(superseded by rev\. B\)/ }).waitFor();
+  await page
+    .getByRole('alert')
+    .filter({ hasText: /cites TPT2-CALC-0001 rev\. A \(superseded by rev\. B\)/ })
+    .waitFor();
   await controller.screenshot('citations-issue-refused');
   // The refusal is the server's 409, which the panel shows; nothing else failed.
-  expect(controller.problems.filter((p) => !/HTTP 409: .*\/revisions$/.test(p) && !/status of 409 \(Conflict\)/.test(p))).toEqual([]);
+  expect(
+    controller.problems.filter((p) => !/HTTP 409: .*\/revisions$/.test(p) && !/status of 409 \(Conflict\)/.test(p)),
+  ).toEqual([]);
   await controller.close();
 });

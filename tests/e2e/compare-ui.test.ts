@@ -31,14 +31,24 @@ beforeAll(async () => {
   const db = testDb();
   await seedDemo(db);
   const project = await db.selectFrom('projects').select('id').where('code', '=', 'TPT2').executeTakeFirstOrThrow();
-  const sheet = await db.selectFrom('sheets').select(['id', 'project_id', 'number', 'title']).where('project_id', '=', project.id).where('number', '=', 1).executeTakeFirstOrThrow();
+  const sheet = await db
+    .selectFrom('sheets')
+    .select(['id', 'project_id', 'number', 'title'])
+    .where('project_id', '=', project.id)
+    .where('number', '=', 1)
+    .executeTakeFirstOrThrow();
   const author = await actorByEmail(db, 'originator@demo.test');
   const checkerActor = await actorByEmail(db, 'checker@demo.test');
   const v1 = (await getVersion(db, sheet.id))!;
   expect(v1.number).toBe(1);
   const store = getObjectStore();
   const file = (name: string, text: string) => ({ name, type: 'text/csv', bytes: new TextEncoder().encode(text) });
-  const ref = (text: string) => ({ name: 'field scan.csv', mediaType: 'text/csv', size: text.length, sha256: sha(text) });
+  const ref = (text: string) => ({
+    name: 'field scan.csv',
+    mediaType: 'text/csv',
+    size: text.length,
+    sha256: sha(text),
+  });
   await uploadAttachment(db, store, author, sheet, file('field scan.csv', scan1));
   // Version 2: conclusions written, the rated field's datasheet now at revision B, the scan attached, 4 significant figures.
   const c2: VersionContent = {
@@ -47,20 +57,50 @@ beforeAll(async () => {
     record: {
       ...v1.content.record,
       conclusions: 'The dipole reaches the field of the highest treatment energy with margin.',
-      inputs: v1.content.record.inputs.map((i) => (i.name === 'Dipole rated field' ? { ...i, sourceRevision: 'B' } : i)),
+      inputs: v1.content.record.inputs.map((i) =>
+        i.name === 'Dipole rated field' ? { ...i, sourceRevision: 'B' } : i,
+      ),
     },
     attachments: [ref(scan1)],
   };
-  await saveVersion(db, author, sheet, { parentNumber: 1, message: 'Conclusions, datasheet revision B, field scan', content: c2 });
+  await saveVersion(db, author, sheet, {
+    parentNumber: 1,
+    message: 'Conclusions, datasheet revision B, field scan',
+    content: c2,
+  });
   // Version 3: a cell edited only.
-  const c3: VersionContent = { ...c2, cells: c2.cells.map((c) => (c.id === 'rigidity' ? { ...c, source: c.source.replace('# dipole bending radius', '# dipole bending radius, magnet drawing D-12') } : c)) };
+  const c3: VersionContent = {
+    ...c2,
+    cells: c2.cells.map((c) =>
+      c.id === 'rigidity'
+        ? { ...c, source: c.source.replace('# dipole bending radius', '# dipole bending radius, magnet drawing D-12') }
+        : c,
+    ),
+  };
   await saveVersion(db, author, sheet, { parentNumber: 2, message: 'Radius source cited', content: c3 });
   // The checker returns version 3; version 4 replaces the scan and is submitted again.
-  const first = await submitForCheck(db, author, sheet, { versionNumber: 3, checkerId: checkerActor.userId, password: DEMO_PASSWORD });
-  await decide(db, checkerActor, first.id, { action: 'return', reason: 'The 250 MeV point of the scan looks low; re-measure it.' });
+  const first = await submitForCheck(db, author, sheet, {
+    versionNumber: 3,
+    checkerId: checkerActor.userId,
+    password: DEMO_PASSWORD,
+  });
+  await decide(db, checkerActor, first.id, {
+    action: 'return',
+    reason: 'The 250 MeV point of the scan looks low; re-measure it.',
+  });
   await uploadAttachment(db, store, author, sheet, file('field scan.csv', scan2));
-  await saveVersion(db, author, sheet, { parentNumber: 3, message: 'Scan re-measured', content: { ...c3, attachments: [ref(scan2)] } });
-  recheckId = (await submitForCheck(db, author, sheet, { versionNumber: 4, checkerId: checkerActor.userId, password: DEMO_PASSWORD })).id;
+  await saveVersion(db, author, sheet, {
+    parentNumber: 3,
+    message: 'Scan re-measured',
+    content: { ...c3, attachments: [ref(scan2)] },
+  });
+  recheckId = (
+    await submitForCheck(db, author, sheet, {
+      versionNumber: 4,
+      checkerId: checkerActor.userId,
+      password: DEMO_PASSWORD,
+    })
+  ).id;
   app = await startApp();
   originator = await signedIn('originator@demo.test');
   checker = await signedIn('checker@demo.test');
@@ -89,7 +129,9 @@ it('picks two versions that are not neighbours and sees the record and the attac
   await record.getByText('Significant figures', { exact: true }).waitFor();
   const inputs = record.getByRole('definition').filter({ hasText: 'Dipole rated field' });
   // Old → new: the datasheet's revision A, then B.
-  expect(await inputs.innerText()).toMatch(/Dipole rated field: 1\.8 T — Dipole magnet datasheet \(demo\), revision A → Dipole rated field: 1\.8 T — Dipole magnet datasheet \(demo\), revision B/);
+  expect(await inputs.innerText()).toMatch(
+    /Dipole rated field: 1\.8 T — Dipole magnet datasheet \(demo\), revision A → Dipole rated field: 1\.8 T — Dipole magnet datasheet \(demo\), revision B/,
+  );
   const added = record.getByRole('listitem', { name: 'Attachment field scan.csv, added' });
   await added.getByText(`SHA-256 ${sha(scan1)}`).waitFor();
   await added.getByText(`${scan1.length} bytes`).waitFor();
@@ -115,7 +157,11 @@ it('picks two versions that are not neighbours and sees the record and the attac
   const changedRow = rows.getByRole('row').filter({ has: page.getByRole('rowheader', { name: '2 → 2' }) });
   expect(await changedRow.getByRole('deletion').innerText()).toBe('1.21');
   expect(await changedRow.getByRole('insertion').innerText()).toBe('1.23');
-  await rows.getByRole('row').filter({ has: page.getByRole('rowheader', { name: '— → 3' }) }).getByText('added').waitFor();
+  await rows
+    .getByRole('row')
+    .filter({ has: page.getByRole('rowheader', { name: '— → 3' }) })
+    .getByText('added')
+    .waitFor();
   await originator.screenshot('compare-attachments-2-4');
   expect(originator.problems).toEqual([]);
 }, 300_000);
@@ -125,7 +171,10 @@ it('opens a re-check after a return with the changes since the version the check
   await page.goto(`${app.baseUrl}/checks/${recheckId}`);
   const since = page.getByRole('region', { name: 'Changes since version 3, the version you returned' });
   await since.waitFor();
-  await since.getByRole('listitem', { name: 'Attachment field scan.csv, replaced' }).getByText('Rows 1 added, 0 removed, 1 changed.').waitFor();
+  await since
+    .getByRole('listitem', { name: 'Attachment field scan.csv, replaced' })
+    .getByText('Rows 1 added, 0 removed, 1 changed.')
+    .waitFor();
   await since.getByText('No cell changed since version 3.').waitFor();
   // It comes first; the changes since the last approved version (none yet: the whole sheet) follow.
   const headings = await page.getByRole('main').getByRole('heading', { level: 2 }).allInnerTexts();

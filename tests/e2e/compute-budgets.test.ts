@@ -19,14 +19,21 @@ const VERIFY_RATE = 5;
 beforeAll(async () => {
   await resetDatabase();
   const [a, b, c] = await Promise.all(['flood', 'other', 'third'].map((n) => makeUser(testDb(), `${n}@example.test`)));
-  const one = await makeProject(testDb(), 'ONE', [[a, 'viewer'], [b, 'originator']]);
+  const one = await makeProject(testDb(), 'ONE', [
+    [a, 'viewer'],
+    [b, 'originator'],
+  ]);
   const two = await makeProject(testDb(), 'TWO', [[c, 'originator']]);
   sheets.one = (await makeSheet(testDb(), b, { id: one, code: 'ONE' }, { title: 'Dump power' })).id;
   sheets.two = (await makeSheet(testDb(), c, { id: two, code: 'TWO' }, { title: 'Dump power, elsewhere' })).id;
   tokens.a = (await createApiToken(testDb(), a, 'e2e')).token;
   tokens.b = (await createApiToken(testDb(), b, 'e2e')).token;
   tokens.c = (await createApiToken(testDb(), c, 'e2e')).token;
-  app = await startApp({ WORLDSHEET_VERIFY_RATE_PER_MINUTE: String(VERIFY_RATE), WORLDSHEET_CALC_WORKERS: '2', WORLDSHEET_CALC_TIMEOUT_MS: '4000' });
+  app = await startApp({
+    WORLDSHEET_VERIFY_RATE_PER_MINUTE: String(VERIFY_RATE),
+    WORLDSHEET_CALC_WORKERS: '2',
+    WORLDSHEET_CALC_TIMEOUT_MS: '4000',
+  });
 });
 
 afterAll(async () => {
@@ -34,13 +41,21 @@ afterAll(async () => {
 });
 
 function evaluate(who: keyof typeof tokens, body: unknown): Promise<Response> {
-  return fetch(`${app.baseUrl}/api/evaluate`, { method: 'POST', headers: { 'content-type': 'application/json', authorization: `Bearer ${tokens[who]}` }, body: JSON.stringify(body) });
+  return fetch(`${app.baseUrl}/api/evaluate`, {
+    method: 'POST',
+    headers: { 'content-type': 'application/json', authorization: `Bearer ${tokens[who]}` },
+    body: JSON.stringify(body),
+  });
 }
 
 describe('verification', () => {
   it('refuses a PDF whose signature is one DER sequence of 4.5 million elements (413, plain message), and /api/health answers meanwhile', async () => {
     const form = new FormData();
-    form.append('file', new Blob([new Uint8Array(pdfWithSignatureContents(derSequenceOfNulls(4_500_000)))], { type: 'application/pdf' }), 'hostile.pdf');
+    form.append(
+      'file',
+      new Blob([new Uint8Array(pdfWithSignatureContents(derSequenceOfNulls(4_500_000)))], { type: 'application/pdf' }),
+      'hostile.pdf',
+    );
     const verifying = fetch(`${app.baseUrl}/api/verify`, { method: 'POST', body: form });
     const health = await fetch(`${app.baseUrl}/api/health`);
     expect(health.status).toBe(200);
@@ -55,7 +70,11 @@ describe('verification', () => {
     const statuses: number[] = [];
     let last: Response | null = null;
     for (let i = 0; i < VERIFY_RATE; i++) {
-      last = await fetch(`${app.baseUrl}/api/verify`, { method: 'POST', headers: { 'content-type': 'application/json' }, body: JSON.stringify({ code: 'ZZZZ-ZZZZ-ZZZZ' }) });
+      last = await fetch(`${app.baseUrl}/api/verify`, {
+        method: 'POST',
+        headers: { 'content-type': 'application/json' },
+        body: JSON.stringify({ code: 'ZZZZ-ZZZZ-ZZZZ' }),
+      });
       statuses.push(last.status);
     }
     expect(statuses).toEqual([...Array(VERIFY_RATE - 1).fill(200), 429]);
@@ -69,35 +88,49 @@ describe('verification', () => {
 describe('evaluation', () => {
   const SLOW = [{ id: 's', kind: 'calc', source: 'f(x) = x > 0 ? f(x - 1) + f(x - 1) : 0\ny_s = f(60)' }];
 
-  it('serves another user while one floods slow cells; the flood is refused beyond its share with Retry-After', { timeout: 120_000 }, async () => {
-    // Warm both workers so that the comparison below is of scheduling, not of start-up.
-    await Promise.all([evaluate('b', { cells: [{ id: 'w', kind: 'calc', source: 'w_1 = 1 m' }] }), evaluate('c', { cells: [{ id: 'w', kind: 'calc', source: 'w_2 = 2 m' }] })]);
-    // Seven at once: two are taken (one runs, one waits its turn), five are refused.
-    const answered = { ok: 0 };
-    const flood = Array.from({ length: 7 }, () =>
-      evaluate('a', { cells: SLOW }).then((r) => {
-        if (r.status === 200) answered.ok++;
-        return r;
-      }),
-    );
-    const other = await evaluate('b', { cells: [{ id: 'k', kind: 'calc', source: 'E_k = 250 MeV\nE_2 = 2 * E_k' }] });
-    expect(other.status).toBe(200);
-    // Answered while none of the flood's slow cells had yet run into the time limit.
-    expect(answered.ok).toBe(0);
-    const responses = await Promise.all(flood);
-    const refused = responses.filter((r) => r.status === 429);
-    expect(refused).toHaveLength(5);
-    for (const r of refused) {
-      expect(Number(r.headers.get('retry-after'))).toBe(4);
-      expect((await r.json()).error.message).toMatch(/^You have 2 evaluations in progress already; at most 2 at a time\./);
-    }
-    const taken = responses.filter((r) => r.status !== 429);
-    expect(taken.map((r) => r.status)).toEqual([200, 200]);
-    for (const r of taken) expect((await r.json()).cells[0].error).toBe('stopped after 4 s: this cell takes longer than the time limit');
-  });
+  it(
+    'serves another user while one floods slow cells; the flood is refused beyond its share with Retry-After',
+    { timeout: 120_000 },
+    async () => {
+      // Warm both workers so that the comparison below is of scheduling, not of start-up.
+      await Promise.all([
+        evaluate('b', { cells: [{ id: 'w', kind: 'calc', source: 'w_1 = 1 m' }] }),
+        evaluate('c', { cells: [{ id: 'w', kind: 'calc', source: 'w_2 = 2 m' }] }),
+      ]);
+      // Seven at once: two are taken (one runs, one waits its turn), five are refused.
+      const answered = { ok: 0 };
+      const flood = Array.from({ length: 7 }, () =>
+        evaluate('a', { cells: SLOW }).then((r) => {
+          if (r.status === 200) answered.ok++;
+          return r;
+        }),
+      );
+      const other = await evaluate('b', { cells: [{ id: 'k', kind: 'calc', source: 'E_k = 250 MeV\nE_2 = 2 * E_k' }] });
+      expect(other.status).toBe(200);
+      // Answered while none of the flood's slow cells had yet run into the time limit.
+      expect(answered.ok).toBe(0);
+      const responses = await Promise.all(flood);
+      const refused = responses.filter((r) => r.status === 429);
+      expect(refused).toHaveLength(5);
+      for (const r of refused) {
+        expect(Number(r.headers.get('retry-after'))).toBe(4);
+        expect((await r.json()).error.message).toMatch(
+          /^You have 2 evaluations in progress already; at most 2 at a time\./,
+        );
+      }
+      const taken = responses.filter((r) => r.status !== 429);
+      expect(taken.map((r) => r.status)).toEqual([200, 200]);
+      for (const r of taken)
+        expect((await r.json()).cells[0].error).toBe('stopped after 4 s: this cell takes longer than the time limit');
+    },
+  );
 
   it('answers 413 with what to reduce for 1,000 cells of 60 statements', async () => {
-    const cells = Array.from({ length: 1000 }, (_, i) => ({ id: `c${i}`, kind: 'calc', source: Array.from({ length: 60 }, (_, j) => `v_${i}_${j} = ${j} m`).join('\n') }));
+    const cells = Array.from({ length: 1000 }, (_, i) => ({
+      id: `c${i}`,
+      kind: 'calc',
+      source: Array.from({ length: 60 }, (_, j) => `v_${i}_${j} = ${j} m`).join('\n'),
+    }));
     const response = await evaluate('b', { cells });
     expect(response.status).toBe(413);
     expect((await response.json()).error.message).toBe(

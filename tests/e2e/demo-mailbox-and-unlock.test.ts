@@ -26,8 +26,18 @@ afterAll(async () => {
 describe('demo mailbox', () => {
   it('shows nothing signed out, and a signed-in person only the mail addressed to them', async () => {
     const transport = nodemailer.createTransport(testSmtpUrl());
-    await transport.sendMail({ from: 'Worldsheet <no-reply@worldsheet.test>', to: 'admin@demo.test', subject: 'Your Worldsheet sign-in link', text: 'http://127.0.0.1/sign-in/link?token=admins-secret' });
-    await transport.sendMail({ from: 'Worldsheet <no-reply@worldsheet.test>', to: 'checker@demo.test', subject: 'For the checker', text: 'Hello checker.' });
+    await transport.sendMail({
+      from: 'Worldsheet <no-reply@worldsheet.test>',
+      to: 'admin@demo.test',
+      subject: 'Your Worldsheet sign-in link',
+      text: 'http://127.0.0.1/sign-in/link?token=admins-secret',
+    });
+    await transport.sendMail({
+      from: 'Worldsheet <no-reply@worldsheet.test>',
+      to: 'checker@demo.test',
+      subject: 'For the checker',
+      text: 'Hello checker.',
+    });
     transport.close();
     await waitForMail({ to: 'checker@demo.test', subject: 'For the checker' });
 
@@ -58,7 +68,10 @@ describe('unlock link', () => {
     try {
       for (let i = 1; i <= AUTH_SETTINGS.lockAfterFailures; i++) {
         await submitSignIn(page, app.baseUrl, 'viewer@demo.test', `wrong password ${i}`);
-        const expected = i < AUTH_SETTINGS.lockAfterFailures ? 'The e-mail address or the password is not right.' : /locked after 5 failed sign-in attempts, until .* UTC/;
+        const expected =
+          i < AUTH_SETTINGS.lockAfterFailures
+            ? 'The e-mail address or the password is not right.'
+            : /locked after 5 failed sign-in attempts, until .* UTC/;
         await page.getByRole('alert').filter({ hasText: expected }).waitFor();
       }
       const mail = await waitForMail({ to: 'viewer@demo.test', subject: 'Your Worldsheet account is locked' }, 20_000);

@@ -35,7 +35,11 @@ async function browser(): Promise<BrowserSession> {
 it('records the connection address for a sign-in, not the X-Forwarded-For or peer header the client sent', async () => {
   const session = await browser();
   const { page, context } = session;
-  await context.setExtraHTTPHeaders({ 'x-forwarded-for': '198.51.100.77', [PEER_ADDRESS_HEADER]: '198.51.100.78', 'x-real-ip': '198.51.100.79' });
+  await context.setExtraHTTPHeaders({
+    'x-forwarded-for': '198.51.100.77',
+    [PEER_ADDRESS_HEADER]: '198.51.100.78',
+    'x-real-ip': '198.51.100.79',
+  });
   // A wrong password first (an attempt), then the right one (a session).
   await submitSignIn(page, app.baseUrl, 'edge@example.test', 'not the password');
   await page.getByRole('alert').filter({ hasText: /./ }).waitFor();
@@ -43,10 +47,18 @@ it('records the connection address for a sign-in, not the X-Forwarded-For or pee
   await page.getByRole('button', { name: 'Sign in', exact: true }).click();
   await page.waitForURL(`${app.baseUrl}/projects`);
   const db = testDb();
-  const attempts = await db.selectFrom('sign_in_attempts').select(['ip', 'ok']).where('email', '=', 'edge@example.test').execute();
+  const attempts = await db
+    .selectFrom('sign_in_attempts')
+    .select(['ip', 'ok'])
+    .where('email', '=', 'edge@example.test')
+    .execute();
   expect(attempts.length).toBeGreaterThanOrEqual(1);
   expect(new Set(attempts.map((a) => a.ip))).toEqual(new Set(['127.0.0.1']));
-  const user = await db.selectFrom('users').select('id').where('email', '=', 'edge@example.test').executeTakeFirstOrThrow();
+  const user = await db
+    .selectFrom('users')
+    .select('id')
+    .where('email', '=', 'edge@example.test')
+    .executeTakeFirstOrThrow();
   const rows = await db.selectFrom('sessions').select('ip').where('user_id', '=', user.id).execute();
   expect(rows.map((r) => r.ip)).toEqual(['127.0.0.1']);
   expect(session.problems.filter((p) => !/status of 401|HTTP 401/.test(p))).toEqual([]);
@@ -57,7 +69,14 @@ it('serves pages with a strict policy whose fresh nonce every script carries; no
   const second = await fetch(`${app.baseUrl}/sign-in`);
   const policy = first.headers.get('content-security-policy')!;
   expect(policy).toMatch(/script-src 'self' 'nonce-[A-Za-z0-9+/=]+' 'strict-dynamic'/);
-  for (const d of ["object-src 'none'", "base-uri 'self'", "form-action 'self'", "frame-ancestors 'none'", 'report-uri /api/csp-report']) expect(policy).toContain(d);
+  for (const d of [
+    "object-src 'none'",
+    "base-uri 'self'",
+    "form-action 'self'",
+    "frame-ancestors 'none'",
+    'report-uri /api/csp-report',
+  ])
+    expect(policy).toContain(d);
   expect(policy).not.toMatch(/script-src[^;]*'unsafe-inline'/);
   const nonce = /'nonce-([^']+)'/.exec(policy)![1];
   expect(/'nonce-([^']+)'/.exec(second.headers.get('content-security-policy')!)![1]).not.toBe(nonce);
@@ -97,24 +116,62 @@ it('sees and stores a violation: injected markup with an inline handler does not
   expect(session.cspViolations[0]).toMatchObject({ effectiveDirective: 'script-src-attr', blockedURI: 'inline' });
   expect(session.problems.some((p) => p.startsWith('CSP violation: script-src-attr'))).toBe(true);
   await expect.poll(async () => (await session.cspReports()).length, { timeout: 10_000 }).toBeGreaterThan(0);
-  expect((await session.cspReports())[0]).toMatchObject({ document_uri: `${app.baseUrl}/sign-in`, blocked_uri: 'inline', directive: 'script-src-attr' });
+  expect((await session.cspReports())[0]).toMatchObject({
+    document_uri: `${app.baseUrl}/sign-in`,
+    blocked_uri: 'inline',
+    directive: 'script-src-attr',
+  });
   await session.acknowledgeCspViolations();
   expect(session.problems.filter((p) => !p.startsWith('console error:'))).toEqual([]);
 });
 
 it('takes reports in both browser formats, refuses other types and oversized bodies, and caps an address', async () => {
-  const post = (type: string, body: string) => fetch(`${app.baseUrl}/api/csp-report`, { method: 'POST', headers: { 'content-type': type }, body });
-  const count = async () => Number((await testDb().selectFrom('csp_reports').select((eb) => eb.fn.countAll().as('n')).executeTakeFirstOrThrow()).n);
-  const lastId = String((await testDb().selectFrom('csp_reports').select((eb) => eb.fn.max('id').as('id')).executeTakeFirst())?.id ?? 0);
+  const post = (type: string, body: string) =>
+    fetch(`${app.baseUrl}/api/csp-report`, { method: 'POST', headers: { 'content-type': type }, body });
+  const count = async () =>
+    Number(
+      (
+        await testDb()
+          .selectFrom('csp_reports')
+          .select((eb) => eb.fn.countAll().as('n'))
+          .executeTakeFirstOrThrow()
+      ).n,
+    );
+  const lastId = String(
+    (
+      await testDb()
+        .selectFrom('csp_reports')
+        .select((eb) => eb.fn.max('id').as('id'))
+        .executeTakeFirst()
+    )?.id ?? 0,
+  );
   const before = await count();
-  const uri = { 'csp-report': { 'document-uri': `${app.baseUrl}/x`, 'blocked-uri': 'eval', 'effective-directive': 'script-src', disposition: 'enforce' } };
+  const uri = {
+    'csp-report': {
+      'document-uri': `${app.baseUrl}/x`,
+      'blocked-uri': 'eval',
+      'effective-directive': 'script-src',
+      disposition: 'enforce',
+    },
+  };
   expect((await post('application/csp-report', JSON.stringify(uri))).status).toBe(204);
-  const api = [{ type: 'csp-violation', url: `${app.baseUrl}/y`, body: { documentURL: `${app.baseUrl}/y`, blockedURL: 'inline', effectiveDirective: 'style-src-attr' } }];
+  const api = [
+    {
+      type: 'csp-violation',
+      url: `${app.baseUrl}/y`,
+      body: { documentURL: `${app.baseUrl}/y`, blockedURL: 'inline', effectiveDirective: 'style-src-attr' },
+    },
+  ];
   expect((await post('application/reports+json', JSON.stringify(api))).status).toBe(204);
   expect((await post('text/plain', JSON.stringify(uri))).status).toBe(415);
   expect((await post('application/csp-report', 'x'.repeat(100 * 1024))).status).toBe(413);
   expect((await post('application/csp-report', '{"not":"a report"}')).status).toBe(400);
-  const rows = await testDb().selectFrom('csp_reports').select(['ip', 'directive']).orderBy('id', 'desc').limit(2).execute();
+  const rows = await testDb()
+    .selectFrom('csp_reports')
+    .select(['ip', 'directive'])
+    .orderBy('id', 'desc')
+    .limit(2)
+    .execute();
   expect(rows).toEqual([
     { ip: '127.0.0.1', directive: 'style-src-attr' },
     { ip: '127.0.0.1', directive: 'script-src' },
@@ -128,7 +185,11 @@ it('takes reports in both browser formats, refuses other types and oversized bod
   expect(last!.status).toBe(429);
   expect(Number(last!.headers.get('retry-after'))).toBeGreaterThan(0);
   // Every report this address sent in the last 10 minutes (the earlier test's browser report too): the cap, no more.
-  const fromHere = await testDb().selectFrom('csp_reports').select((eb) => eb.fn.countAll().as('n')).where('ip', '=', '127.0.0.1').executeTakeFirstOrThrow();
+  const fromHere = await testDb()
+    .selectFrom('csp_reports')
+    .select((eb) => eb.fn.countAll().as('n'))
+    .where('ip', '=', '127.0.0.1')
+    .executeTakeFirstOrThrow();
   expect(Number(fromHere.n)).toBe(CSP_REPORT_LIMITS.perAddress.count);
   expect((await count()) - before).toBeLessThanOrEqual(CSP_REPORT_LIMITS.perAddress.count);
   // These were not a browser session's: removed, so that no session's close() counts them.
@@ -138,7 +199,13 @@ it('takes reports in both browser formats, refuses other types and oversized bod
 it('keeps the browser on the app after signing in with a hostile callbackUrl (/\\host)', async () => {
   const session = await browser();
   const { page } = session;
-  await submitSignIn(page, app.baseUrl, 'redirect@example.test', PASSWORD, '/sign-in?callbackUrl=/%5Clocalhost:8766/pwned');
+  await submitSignIn(
+    page,
+    app.baseUrl,
+    'redirect@example.test',
+    PASSWORD,
+    '/sign-in?callbackUrl=/%5Clocalhost:8766/pwned',
+  );
   await page.waitForURL((url) => url.pathname === '/projects');
   expect(new URL(page.url()).origin).toBe(app.baseUrl);
   await page.getByRole('heading', { level: 1 }).waitFor();
@@ -157,12 +224,18 @@ it('keeps the browser on the app after signing in with a hostile callbackUrl (/\
 });
 
 it('answers 400, not 500, for a callback URL that is not a URL, in the query or in its cookie', async () => {
-  for (const path of ['/api/auth/session?callbackUrl=http://%5B', '/api/auth/providers?callbackUrl=not%20a%20url', '/api/auth/signin?callbackUrl=http://%5B']) {
+  for (const path of [
+    '/api/auth/session?callbackUrl=http://%5B',
+    '/api/auth/providers?callbackUrl=not%20a%20url',
+    '/api/auth/signin?callbackUrl=http://%5B',
+  ]) {
     const r = await fetch(`${app.baseUrl}${path}`, { redirect: 'manual' });
     expect(r.status, path).toBe(400);
     expect(await r.json()).toMatchObject({ error: { code: 'bad_request' } });
   }
-  const cookie = await fetch(`${app.baseUrl}/api/auth/session`, { headers: { cookie: 'next-auth.callback-url=http%3A%2F%2F%5B' } });
+  const cookie = await fetch(`${app.baseUrl}/api/auth/session`, {
+    headers: { cookie: 'next-auth.callback-url=http%3A%2F%2F%5B' },
+  });
   expect(cookie.status).toBe(400);
   // The sign-in page itself renders, sending the browser home after sign-in.
   expect((await fetch(`${app.baseUrl}/sign-in?callbackUrl=http://%5B&callbackUrl=/x`)).status).toBe(200);

@@ -79,12 +79,20 @@ export async function startApp(extraEnv: Record<string, string> = {}): Promise<R
     async stop() {
       await Promise.all([stopChild(child), worker.stop()]);
       const after = reportsFrom > cspReportsAcknowledgedThrough ? reportsFrom : cspReportsAcknowledgedThrough;
-      const reported = await testDb().selectFrom('csp_reports').select(['document_uri', 'blocked_uri', 'directive']).where('id', '>', String(after)).orderBy('id').execute();
+      const reported = await testDb()
+        .selectFrom('csp_reports')
+        .select(['document_uri', 'blocked_uri', 'directive'])
+        .where('id', '>', String(after))
+        .orderBy('id')
+        .execute();
       const lines = [
-        ...cspSeen.splice(0).map((v) => `seen: ${v.effectiveDirective} blocked ${v.blockedURI || '(inline)'} on ${v.documentURI}`),
+        ...cspSeen
+          .splice(0)
+          .map((v) => `seen: ${v.effectiveDirective} blocked ${v.blockedURI || '(inline)'} on ${v.documentURI}`),
         ...reported.map((r) => `reported: ${r.directive} blocked ${r.blocked_uri ?? '(inline)'} on ${r.document_uri}`),
       ];
-      if (lines.length > 0) throw new Error(`Content-Security-Policy violations while the app ran:\n${lines.join('\n')}`);
+      if (lines.length > 0)
+        throw new Error(`Content-Security-Policy violations while the app ran:\n${lines.join('\n')}`);
     },
   };
 }
@@ -157,7 +165,10 @@ let cspReportsAcknowledgedThrough = 0n;
 const cspSeen: CspViolationSeen[] = [];
 
 async function lastCspReportId(): Promise<string> {
-  const row = await testDb().selectFrom('csp_reports').select((eb) => eb.fn.max('id').as('id')).executeTakeFirst();
+  const row = await testDb()
+    .selectFrom('csp_reports')
+    .select((eb) => eb.fn.max('id').as('id'))
+    .executeTakeFirst();
   return String(row?.id ?? 0);
 }
 
@@ -166,7 +177,14 @@ let browser: Browser | null = null;
 export async function openBrowser(): Promise<BrowserSession> {
   browser ??= await chromium.launch({
     executablePath: CHROMIUM_PATH,
-    args: ['--no-sandbox', '--disable-gpu', '--disable-background-networking', '--disable-component-update', '--no-first-run', '--disable-sync'],
+    args: [
+      '--no-sandbox',
+      '--disable-gpu',
+      '--disable-background-networking',
+      '--disable-component-update',
+      '--no-first-run',
+      '--disable-sync',
+    ],
   });
   const context = await browser.newContext({ viewport: { width: 1280, height: 860 } });
   const problems: string[] = [];
@@ -177,22 +195,36 @@ export async function openBrowser(): Promise<BrowserSession> {
   await context.exposeBinding('__worldsheetCspViolation', (_source, v: CspViolationSeen) => {
     cspViolations.push(v);
     cspSeen.push(v);
-    problems.push(`CSP violation: ${v.effectiveDirective} blocked ${v.blockedURI || '(inline)'} on ${v.documentURI}${v.sample ? ` (${v.sample})` : ''}`);
+    problems.push(
+      `CSP violation: ${v.effectiveDirective} blocked ${v.blockedURI || '(inline)'} on ${v.documentURI}${v.sample ? ` (${v.sample})` : ''}`,
+    );
   });
   await context.addInitScript(() => {
     document.addEventListener(
       'securitypolicyviolation',
       (e) => {
-        const report = (window as unknown as { __worldsheetCspViolation: (v: CspViolationSeen) => void }).__worldsheetCspViolation;
-        report({ documentURI: e.documentURI, blockedURI: e.blockedURI, effectiveDirective: e.effectiveDirective, sample: e.sample });
+        const report = (window as unknown as { __worldsheetCspViolation: (v: CspViolationSeen) => void })
+          .__worldsheetCspViolation;
+        report({
+          documentURI: e.documentURI,
+          blockedURI: e.blockedURI,
+          effectiveDirective: e.effectiveDirective,
+          sample: e.sample,
+        });
       },
       true,
     );
   });
   const page = await context.newPage();
   const cspReports = () => {
-    const after = BigInt(reportsAfter) > cspReportsAcknowledgedThrough ? reportsAfter : String(cspReportsAcknowledgedThrough);
-    return testDb().selectFrom('csp_reports').select(['document_uri', 'blocked_uri', 'directive']).where('id', '>', after).orderBy('id').execute();
+    const after =
+      BigInt(reportsAfter) > cspReportsAcknowledgedThrough ? reportsAfter : String(cspReportsAcknowledgedThrough);
+    return testDb()
+      .selectFrom('csp_reports')
+      .select(['document_uri', 'blocked_uri', 'directive'])
+      .where('id', '>', after)
+      .orderBy('id')
+      .execute();
   };
   page.on('console', (m) => {
     if (m.type() === 'error') problems.push(`console error: ${m.text()}`);
@@ -217,7 +249,8 @@ export async function openBrowser(): Promise<BrowserSession> {
     async acknowledgeCspViolations() {
       for (const v of cspViolations) if (cspSeen.includes(v)) cspSeen.splice(cspSeen.indexOf(v), 1);
       cspViolations.length = 0;
-      for (let i = problems.length - 1; i >= 0; i--) if (problems[i].startsWith('CSP violation: ')) problems.splice(i, 1);
+      for (let i = problems.length - 1; i >= 0; i--)
+        if (problems[i].startsWith('CSP violation: ')) problems.splice(i, 1);
       reportsAfter = await lastCspReportId();
       if (BigInt(reportsAfter) > cspReportsAcknowledgedThrough) cspReportsAcknowledgedThrough = BigInt(reportsAfter);
     },
@@ -233,7 +266,13 @@ export async function openBrowser(): Promise<BrowserSession> {
 }
 
 /** Fills and submits the sign-in form; the caller waits for where it expects to land. */
-export async function submitSignIn(page: Page, baseUrl: string, email: string, password: string, path = '/sign-in'): Promise<void> {
+export async function submitSignIn(
+  page: Page,
+  baseUrl: string,
+  email: string,
+  password: string,
+  path = '/sign-in',
+): Promise<void> {
   await page.goto(`${baseUrl}${path}`);
   await page.getByLabel('E-mail').fill(email);
   await page.getByLabel('Password').fill(password);

@@ -38,7 +38,9 @@ for (const who of ['originator', 'checker', 'approver', 'controller']) {
     await session.page.screenshot({ path: path.join(SCREENSHOT_DIR, `home-work-${who}.png`), fullPage: true });
     await session.page.getByRole('heading', { level: 1, name: /^Your work/ }).waitFor({ timeout: 20_000 });
     const headings = await session.page.locator('main h2').allInnerTexts();
-    const expected = SECTIONS.filter(([key]) => work[key] !== null).map(([key, title]) => `${title} (${work[key]!.length})`);
+    const expected = SECTIONS.filter(([key]) => work[key] !== null).map(
+      ([key, title]) => `${title} (${work[key]!.length})`,
+    );
     expect(expected.length).toBeGreaterThan(0);
     expect(headings).toEqual(expected);
     // The navigation carries the same counts: all of it on "My work", each queue on its link (a

@@ -13,7 +13,15 @@ import { withdrawRevision } from '../../lib/issue/issue';
 import { checkAndApprove } from '../support/approved-sheet';
 import { resetDatabase, testDb } from '../support/database';
 import { actorByEmail } from '../support/people';
-import { closeBrowser, openBrowser, SCREENSHOT_DIR, startApp, submitSignIn, type BrowserSession, type RunningApp } from './harness';
+import {
+  closeBrowser,
+  openBrowser,
+  SCREENSHOT_DIR,
+  startApp,
+  submitSignIn,
+  type BrowserSession,
+  type RunningApp,
+} from './harness';
 
 let app: RunningApp;
 let controller: BrowserSession;
@@ -24,10 +32,25 @@ beforeAll(async () => {
   await resetDatabase();
   await seedDemo(testDb());
   // Sheet 1 of the demo project through check and approval (the browser test of that is check-approval-ui).
-  const project = await testDb().selectFrom('projects').select('id').where('code', '=', 'TPT2').executeTakeFirstOrThrow();
-  const sheet = await testDb().selectFrom('sheets').select(['id', 'project_id', 'number', 'title']).where('project_id', '=', project.id).where('number', '=', 1).executeTakeFirstOrThrow();
-  const [originator, checker, approver] = await Promise.all(['originator', 'checker', 'approver'].map((r) => actorByEmail(testDb(), `${r}@demo.test`)));
-  await checkAndApprove(testDb(), { author: originator, checker, approver }, sheet, { versionNumber: 1, password: DEMO_PASSWORD, verificationMethod: 'alternate_calculation' });
+  const project = await testDb()
+    .selectFrom('projects')
+    .select('id')
+    .where('code', '=', 'TPT2')
+    .executeTakeFirstOrThrow();
+  const sheet = await testDb()
+    .selectFrom('sheets')
+    .select(['id', 'project_id', 'number', 'title'])
+    .where('project_id', '=', project.id)
+    .where('number', '=', 1)
+    .executeTakeFirstOrThrow();
+  const [originator, checker, approver] = await Promise.all(
+    ['originator', 'checker', 'approver'].map((r) => actorByEmail(testDb(), `${r}@demo.test`)),
+  );
+  await checkAndApprove(testDb(), { author: originator, checker, approver }, sheet, {
+    versionNumber: 1,
+    password: DEMO_PASSWORD,
+    verificationMethod: 'alternate_calculation',
+  });
   app = await startApp();
   controller = await openBrowser();
   await submitSignIn(controller.page, app.baseUrl, 'controller@demo.test', DEMO_PASSWORD);
@@ -48,7 +71,10 @@ it('the controller issues revision A, follows the progress and downloads the sig
   await page.getByRole('button', { name: 'Issue as revision A' }).click();
   await page.getByRole('status').filter({ hasText: 'Issued.' }).waitFor({ timeout: 90_000 });
   await controller.screenshot('issue-done');
-  const [download] = await Promise.all([page.waitForEvent('download'), page.getByRole('link', { name: 'Download the signed PDF' }).click()]);
+  const [download] = await Promise.all([
+    page.waitForEvent('download'),
+    page.getByRole('link', { name: 'Download the signed PDF' }).click(),
+  ]);
   pdfFile = path.join(artifacts, 'issued-TPT2-CALC-0001-rev-A.pdf');
   await download.saveAs(pdfFile);
   expect(download.suggestedFilename()).toBe('TPT2-CALC-0001-rev-A.pdf');
@@ -61,7 +87,10 @@ it('the controller issues revision A, follows the progress and downloads the sig
   expect(pages.length).toBeGreaterThanOrEqual(1);
 
   await page.goto(`${app.baseUrl}/projects/TPT2/register`);
-  const row = page.getByRole('table', { name: 'Issued revisions of TPT2' }).getByRole('row').filter({ hasText: 'TPT2-CALC-0001' });
+  const row = page
+    .getByRole('table', { name: 'Issued revisions of TPT2' })
+    .getByRole('row')
+    .filter({ hasText: 'TPT2-CALC-0001' });
   await row.getByText('current').waitFor();
   await controller.screenshot('register');
   expect(controller.problems).toEqual([]);
@@ -75,10 +104,14 @@ it('a signed-out visitor verifies the PDF and its code, and is told a changed co
     await page.getByLabel('The PDF you were given').setInputFiles(pdfFile);
     await page.getByRole('button', { name: 'Check the file' }).click();
     await page.getByRole('heading', { name: 'Authentic and current' }).waitFor();
-    await page.getByText(/Authentic: this is TPT2-CALC-0001 revision A, issued \d{4}-\d\d-\d\d\. It is the current revision\./).waitFor();
+    await page
+      .getByText(/Authentic: this is TPT2-CALC-0001 revision A, issued \d{4}-\d\d-\d\d\. It is the current revision\./)
+      .waitFor();
     await visitor.screenshot('verify-authentic');
 
-    const code = /Verification code\s+([0-9A-Z]{4}-[0-9A-Z]{4}-[0-9A-Z]{4})/.exec(execFileSync('pdftotext', ['-layout', pdfFile, '-'], { encoding: 'utf8' }))![1];
+    const code = /Verification code\s+([0-9A-Z]{4}-[0-9A-Z]{4}-[0-9A-Z]{4})/.exec(
+      execFileSync('pdftotext', ['-layout', pdfFile, '-'], { encoding: 'utf8' }),
+    )![1];
     await page.getByLabel('Verification code (printed on every issued PDF)').fill(code.toLowerCase());
     await page.getByRole('button', { name: 'Look it up' }).click();
     await page.getByText(`${code} is TPT2-CALC-0001 revision A`).waitFor();
@@ -100,8 +133,18 @@ it('a signed-out visitor verifies the PDF and its code, and is told a changed co
 });
 
 it('a withdrawn revision downloads as a stamped copy that pdfsig and the verification page accept as a stamped copy', async () => {
-  const revision = await testDb().selectFrom('revisions').select('id').where('code', '=', 'A').orderBy('issued_at', 'desc').executeTakeFirstOrThrow();
-  await withdrawRevision(testDb(), await actorByEmail(testDb(), 'controller@demo.test'), revision.id, 'Field map revised by the magnet supplier.');
+  const revision = await testDb()
+    .selectFrom('revisions')
+    .select('id')
+    .where('code', '=', 'A')
+    .orderBy('issued_at', 'desc')
+    .executeTakeFirstOrThrow();
+  await withdrawRevision(
+    testDb(),
+    await actorByEmail(testDb(), 'controller@demo.test'),
+    revision.id,
+    'Field map revised by the magnet supplier.',
+  );
   const response = await controller.page.request.get(`${app.baseUrl}/api/revisions/${revision.id}/pdf`);
   expect(response.status()).toBe(200);
   const stampedFile = path.join(artifacts, 'issued-TPT2-CALC-0001-rev-A-withdrawn.pdf');
@@ -112,7 +155,17 @@ it('a withdrawn revision downloads as a stamped copy that pdfsig and the verific
   expect(Buffer.compare(stamped.subarray(0, original.length), original)).toBe(0);
   const sig = execFileSync('pdfsig', [stampedFile], { encoding: 'utf8' });
   expect(sig.match(/Signature Validation: Signature is Valid\./g)).toHaveLength(2);
-  execFileSync('pdftoppm', ['-r', '70', '-png', '-f', '1', '-l', '1', stampedFile, path.join(artifacts, 'stamped-withdrawn-page')]);
+  execFileSync('pdftoppm', [
+    '-r',
+    '70',
+    '-png',
+    '-f',
+    '1',
+    '-l',
+    '1',
+    stampedFile,
+    path.join(artifacts, 'stamped-withdrawn-page'),
+  ]);
 
   const visitor = await openBrowser();
   try {
@@ -121,7 +174,11 @@ it('a withdrawn revision downloads as a stamped copy that pdfsig and the verific
     await page.getByLabel('The PDF you were given').setInputFiles(stampedFile);
     await page.getByRole('button', { name: 'Check the file' }).click();
     await page.getByRole('heading', { name: 'Authentic stamped copy of revision A, withdrawn' }).waitFor();
-    await page.getByText(/^Authentic stamped copy: this is TPT2-CALC-0001 revision A .*It is withdrawn \(Field map revised by the magnet supplier\.\): do not use it\.$/).waitFor();
+    await page
+      .getByText(
+        /^Authentic stamped copy: this is TPT2-CALC-0001 revision A .*It is withdrawn \(Field map revised by the magnet supplier\.\): do not use it\.$/,
+      )
+      .waitFor();
     await page.getByText(/This is a stamped copy made for reading/).waitFor();
     await visitor.screenshot('verify-stamped-copy');
     expect(visitor.problems).toEqual([]);

@@ -9,7 +9,15 @@ import path from 'node:path';
 import { afterAll, beforeAll, expect, it } from 'vitest';
 import { DEMO_PASSWORD, seedDemo } from '../../db/seed';
 import { resetDatabase, testDb } from '../support/database';
-import { closeBrowser, openBrowser, SCREENSHOT_DIR, startApp, submitSignIn, type BrowserSession, type RunningApp } from './harness';
+import {
+  closeBrowser,
+  openBrowser,
+  SCREENSHOT_DIR,
+  startApp,
+  submitSignIn,
+  type BrowserSession,
+  type RunningApp,
+} from './harness';
 
 let app: RunningApp;
 const sessions: BrowserSession[] = [];
@@ -53,14 +61,20 @@ it('goes from a new sheet to a verified issued revision', async () => {
   // Hostile Markdown (OWASP XSS filter evasion cheat sheet classes): it must show as text, never run.
   await page
     .getByLabel('Cell 1 (text) source')
-    .fill('Muons from pion decay, momentum $p_\\mu$; mean decay length $\\beta\\gamma c\\tau$. <img src=x onerror="window.__xss=1"> <script>window.__xss=2</script> [link](javascript:window.__xss=3)');
+    .fill(
+      'Muons from pion decay, momentum $p_\\mu$; mean decay length $\\beta\\gamma c\\tau$. <img src=x onerror="window.__xss=1"> <script>window.__xss=2</script> [link](javascript:window.__xss=3)',
+    );
   await page.getByRole('button', { name: 'Add a calculation cell' }).click();
   await page
     .getByLabel('Cell 2 (calculation) source')
     .fill('p_mu = 150 MeV / c\nL_dec = decayLength(p_mu, m_mu, 2.1969811 us) to m\nL_dec < 1000 m');
   // βγcτ = (p/mc)·cτ with m_μc² = 105.658 375 5 MeV (CODATA 2022) and τ_μ = 2.196 981 1 µs (PDG RPP):
   // p/mc = 1.419 67, cτ = 658.638 m, so L = 935.05 m (arithmetic from those two sources).
-  await page.getByRole('article', { name: 'Cell 2 (calculation)' }).getByText(/935\.0\d*\s?m/).first().waitFor();
+  await page
+    .getByRole('article', { name: 'Cell 2 (calculation)' })
+    .getByText(/935\.0\d*\s?m/)
+    .first()
+    .waitFor();
   await page.getByRole('article', { name: 'Cell 2 (calculation)' }).getByText('Pass').waitFor();
   await page.getByLabel('What changed').fill('Decay length at 150 MeV/c');
   await page.getByRole('button', { name: 'Save version' }).click();
@@ -76,7 +90,10 @@ it('goes from a new sheet to a verified issued revision', async () => {
     await form.getByLabel('Checker').selectOption({ label: 'Demo Checker' });
     await form.getByLabel('Your password (signs as prepared)').fill(DEMO_PASSWORD);
     await form.getByRole('button', { name: 'Submit for check' }).click();
-    await page.getByRole('region', { name: 'Status' }).getByText(`Version ${version} is in check by Demo Checker.`).waitFor();
+    await page
+      .getByRole('region', { name: 'Status' })
+      .getByText(`Version ${version} is in check by Demo Checker.`)
+      .waitFor();
   };
   await submit(2);
 
@@ -86,7 +103,11 @@ it('goes from a new sheet to a verified issued revision', async () => {
   await page.getByRole('link', { name: 'Open the check of TPT2-CALC-0004 version 2' }).click();
   let cell = page.getByRole('article', { name: /^Cell 2 / });
   await cell.getByRole('button', { name: 'Comment on this cell' }).click();
-  await cell.getByLabel('Comment', { exact: true }).fill('Use the momentum at the dump entrance, 140 MeV/c, per the beam dump note. <img src=x onerror="window.__xss=4">');
+  await cell
+    .getByLabel('Comment', { exact: true })
+    .fill(
+      'Use the momentum at the dump entrance, 140 MeV/c, per the beam dump note. <img src=x onerror="window.__xss=4">',
+    );
   await cell.getByRole('button', { name: 'Add the comment' }).click();
   await cell.getByText(/Open thread/).waitFor();
   await page.getByLabel('Reason for returning').fill('Momentum at the wrong place.');
@@ -107,9 +128,15 @@ it('goes from a new sheet to a verified issued revision', async () => {
   await cell.getByText('Changed to 140 MeV/c.').waitFor();
   expect(await page.evaluate(() => (window as unknown as { __xss?: number }).__xss)).toBeUndefined();
   await page.goto(`${app.baseUrl}/projects/TPT2/sheets/4/edit`);
-  await page.getByLabel('Cell 2 (calculation) source').fill('p_mu = 140 MeV / c\nL_dec = decayLength(p_mu, m_mu, 2.1969811 us) to m\nL_dec < 1000 m');
+  await page
+    .getByLabel('Cell 2 (calculation) source')
+    .fill('p_mu = 140 MeV / c\nL_dec = decayLength(p_mu, m_mu, 2.1969811 us) to m\nL_dec < 1000 m');
   // 140/105.658 375 5 × 658.638 m = 872.71 m (same sources).
-  await page.getByRole('article', { name: 'Cell 2 (calculation)' }).getByText(/872\.7\d*\s?m/).first().waitFor();
+  await page
+    .getByRole('article', { name: 'Cell 2 (calculation)' })
+    .getByText(/872\.7\d*\s?m/)
+    .first()
+    .waitFor();
   await page.getByLabel('What changed').fill('Momentum at the dump entrance');
   await page.getByRole('button', { name: 'Save version' }).click();
   await page.getByRole('status').filter({ hasText: 'Saved as version 3.' }).waitFor();
@@ -150,13 +177,27 @@ it('goes from a new sheet to a verified issued revision', async () => {
   await page.getByLabel('Your password (signs as issued)').fill(DEMO_PASSWORD);
   await page.getByRole('button', { name: 'Issue as revision A' }).click();
   await page.getByRole('status').filter({ hasText: 'Issued.' }).waitFor({ timeout: 90_000 });
-  const [download] = await Promise.all([page.waitForEvent('download'), page.getByRole('link', { name: 'Download the signed PDF' }).click()]);
+  const [download] = await Promise.all([
+    page.waitForEvent('download'),
+    page.getByRole('link', { name: 'Download the signed PDF' }).click(),
+  ]);
   const pdf = path.join(SCREENSHOT_DIR, 'journey-TPT2-CALC-0004-rev-A.pdf');
   await download.saveAs(pdf);
   const text = execFileSync('pdftotext', ['-layout', pdf, '-'], { encoding: 'utf8' });
   expect(text).toMatch(/872\.7\d*\s*m/);
-  for (const name of ['Demo Originator', 'Demo Checker', 'Demo Approver', 'Demo Document Controller']) expect(text).toContain(name);
-  execFileSync('pdftoppm', ['-r', '70', '-png', '-f', '1', '-l', '2', pdf, path.join(SCREENSHOT_DIR, 'journey-pdf-page')]);
+  for (const name of ['Demo Originator', 'Demo Checker', 'Demo Approver', 'Demo Document Controller'])
+    expect(text).toContain(name);
+  execFileSync('pdftoppm', [
+    '-r',
+    '70',
+    '-png',
+    '-f',
+    '1',
+    '-l',
+    '2',
+    pdf,
+    path.join(SCREENSHOT_DIR, 'journey-pdf-page'),
+  ]);
   await controller.screenshot('journey-issued');
   expect(controller.problems).toEqual([]);
 

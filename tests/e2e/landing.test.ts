@@ -27,7 +27,13 @@ it('serves the landing page with what Worldsheet does and the cautions', async (
   const caution = page.getByRole('complementary', { name: 'Caution' });
   for (const text of CAUTIONS) expect(await caution.innerText()).toContain(text);
   const nav = page.getByRole('navigation', { name: 'Main' });
-  expect(await nav.getByRole('link').allInnerTexts()).toEqual(['Projects', 'My checks', 'My approvals', 'Register', 'Verify']);
+  expect(await nav.getByRole('link').allInnerTexts()).toEqual([
+    'Projects',
+    'My checks',
+    'My approvals',
+    'Register',
+    'Verify',
+  ]);
   const file = await session.screenshot('landing');
   expect(existsSync(file) && statSync(file).size > 10_000).toBe(true);
   expect(session.problems).toEqual([]);

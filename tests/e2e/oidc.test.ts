@@ -15,8 +15,20 @@ const BUTTON = 'Sign in with Fictional Org account';
 const REFUSED = 'Your organisation account has no verified e-mail address, so it cannot sign in here.';
 
 // Fictional people of a fictional organisation.
-const AUTHOR = { login: 'ada.quill', name: 'Ada Quill', email: 'ada.quill@fictional-org.test', emailVerified: true, groups: ['calc-authors', 'canteen-committee'] };
-const UNVERIFIED = { login: 'ben.sorrel', name: 'Ben Sorrel', email: 'ben.sorrel@fictional-org.test', emailVerified: false, groups: ['calc-authors'] };
+const AUTHOR = {
+  login: 'ada.quill',
+  name: 'Ada Quill',
+  email: 'ada.quill@fictional-org.test',
+  emailVerified: true,
+  groups: ['calc-authors', 'canteen-committee'],
+};
+const UNVERIFIED = {
+  login: 'ben.sorrel',
+  name: 'Ben Sorrel',
+  email: 'ben.sorrel@fictional-org.test',
+  emailVerified: false,
+  groups: ['calc-authors'],
+};
 
 let idp: IdentityProvider;
 let app: RunningApp;
@@ -30,14 +42,19 @@ const opened: BrowserSession[] = [];
  */
 async function browserSession(): Promise<BrowserSession> {
   const s = await openBrowser();
-  await s.context.route('https://fonts.googleapis.com/**', (route) => route.fulfill({ status: 200, contentType: 'text/css', body: '' }));
+  await s.context.route('https://fonts.googleapis.com/**', (route) =>
+    route.fulfill({ status: 200, contentType: 'text/css', body: '' }),
+  );
   opened.push(s);
   return s;
 }
 
 /** Back in the app: on the projects page (signed in) or on the sign-in page with an error. */
 function backInApp(url: URL): boolean {
-  return url.origin === app.baseUrl && (url.pathname === '/projects' || (url.pathname === '/sign-in' && url.searchParams.has('error')));
+  return (
+    url.origin === app.baseUrl &&
+    (url.pathname === '/projects' || (url.pathname === '/sign-in' && url.searchParams.has('error')))
+  );
 }
 
 function atProvider(url: URL): boolean {
@@ -102,7 +119,10 @@ async function heldRoles(email: string): Promise<string[]> {
 beforeAll(async () => {
   await resetDatabase();
   await seedDemo(testDb());
-  idp = await startIdentityProvider({ redirectUri: `http://127.0.0.1:${APP_PORT}/api/auth/callback/oidc`, accounts: [AUTHOR, UNVERIFIED] });
+  idp = await startIdentityProvider({
+    redirectUri: `http://127.0.0.1:${APP_PORT}/api/auth/callback/oidc`,
+    accounts: [AUTHOR, UNVERIFIED],
+  });
   app = await startApp({
     WORLDSHEET_OIDC_ISSUER: idp.issuer,
     WORLDSHEET_OIDC_CLIENT_ID: idp.clientId,
@@ -137,7 +157,11 @@ describe('single sign-on through an OpenID Connect provider', () => {
     await session.screenshot('oidc-projects-as-originator');
 
     // The user was created from the claims, and the group outside the map changed nothing.
-    const user = await testDb().selectFrom('users').select(['display_name', 'password_hash']).where('email', '=', AUTHOR.email).executeTakeFirstOrThrow();
+    const user = await testDb()
+      .selectFrom('users')
+      .select(['display_name', 'password_hash'])
+      .where('email', '=', AUTHOR.email)
+      .executeTakeFirstOrThrow();
     expect(user).toEqual({ display_name: AUTHOR.name, password_hash: null });
     expect(await heldRoles(AUTHOR.email)).toEqual(['TPT2:originator']);
     expect(idp.errors).toEqual([]);
@@ -162,7 +186,11 @@ describe('single sign-on through an OpenID Connect provider', () => {
     await session.screenshot('oidc-projects-as-checker');
     expect(await heldRoles(AUTHOR.email)).toEqual(['TPT2:checker']);
 
-    const user = await testDb().selectFrom('users').select('id').where('email', '=', AUTHOR.email).executeTakeFirstOrThrow();
+    const user = await testDb()
+      .selectFrom('users')
+      .select('id')
+      .where('email', '=', AUTHOR.email)
+      .executeTakeFirstOrThrow();
     const events = await testDb()
       .selectFrom('audit_events')
       .select(['action', 'old_value', 'new_value', 'reason'])

@@ -81,7 +81,10 @@ describe('demo roles in the browser', () => {
       await page.getByRole('link', { name: 'Administration' }).click();
       await page.getByRole('heading', { level: 1, name: 'Administration' }).waitFor();
       await page.getByRole('cell', { name: 'checker@demo.test', exact: true }).waitFor();
-      await page.getByRole('cell', { name: /Demo Checker/ }).first().waitFor();
+      await page
+        .getByRole('cell', { name: /Demo Checker/ })
+        .first()
+        .waitFor();
       await session.screenshot('administration');
       await page.goto(`${app.baseUrl}/projects/TPT2`);
       await page.getByRole('heading', { level: 1, name: 'Not found' }).waitFor();
@@ -100,7 +103,10 @@ describe('demo roles in the browser', () => {
         await page.getByLabel('E-mail').fill('locky@example.test');
         await page.getByLabel('Password').fill(`wrong password ${i}`);
         await page.getByRole('button', { name: 'Sign in', exact: true }).click();
-        const expected = i < AUTH_SETTINGS.lockAfterFailures ? 'The e-mail address or the password is not right.' : /locked after 5 failed sign-in attempts/;
+        const expected =
+          i < AUTH_SETTINGS.lockAfterFailures
+            ? 'The e-mail address or the password is not right.'
+            : /locked after 5 failed sign-in attempts/;
         await page.getByRole('alert').filter({ hasText: expected }).waitFor();
       }
       await session.screenshot('sign-in-locked');

@@ -15,7 +15,10 @@ let projectId: string;
 async function api(path: string, init: { method?: string; body?: unknown } = {}) {
   const response = await fetch(`${app.baseUrl}${path}`, {
     method: init.method ?? 'GET',
-    headers: { authorization: `Bearer ${token}`, ...(init.body !== undefined ? { 'content-type': 'application/json' } : {}) },
+    headers: {
+      authorization: `Bearer ${token}`,
+      ...(init.body !== undefined ? { 'content-type': 'application/json' } : {}),
+    },
     body: init.body === undefined ? undefined : JSON.stringify(init.body),
   });
   return { status: response.status, body: await response.json() };
@@ -38,22 +41,42 @@ describe('sheets and versions', () => {
   let v1: { content: Record<string, unknown> };
 
   it('creates sheets numbered by the server, one after the other', async () => {
-    const a = await api(`/api/projects/${projectId}/sheets`, { method: 'POST', body: { title: 'Rigidity of the transfer line', safetyRelated: true, objective: 'Dipole field' } });
-    const b = await api(`/api/projects/${projectId}/sheets`, { method: 'POST', body: { title: 'Time of flight', safetyRelated: false } });
+    const a = await api(`/api/projects/${projectId}/sheets`, {
+      method: 'POST',
+      body: { title: 'Rigidity of the transfer line', safetyRelated: true, objective: 'Dipole field' },
+    });
+    const b = await api(`/api/projects/${projectId}/sheets`, {
+      method: 'POST',
+      body: { title: 'Time of flight', safetyRelated: false },
+    });
     expect(a).toMatchObject({ status: 201, body: { number: 1, code: 'BEAM-CALC-0001' } });
     expect(b).toMatchObject({ status: 201, body: { number: 2, code: 'BEAM-CALC-0002' } });
     sheetId = a.body.id;
     const register = await api(`/api/projects/${projectId}/sheets`);
-    expect(register.body.sheets.map((s: { code: string; latestVersion: number }) => [s.code, s.latestVersion])).toEqual([
-      ['BEAM-CALC-0001', 1],
-      ['BEAM-CALC-0002', 1],
-    ]);
+    expect(register.body.sheets.map((s: { code: string; latestVersion: number }) => [s.code, s.latestVersion])).toEqual(
+      [
+        ['BEAM-CALC-0001', 1],
+        ['BEAM-CALC-0002', 1],
+      ],
+    );
     v1 = (await api(`/api/sheets/${sheetId}`)).body.version;
   });
 
   it('saves a version with its evaluation, hash, engine version and constants edition', async () => {
-    const content = { ...v1.content, cells: [{ id: 'c1', kind: 'calc', source: 'T_kin = 250 MeV\nBrho = magneticRigidity(momentumFromKinetic(T_kin, m_p), q_e) to T*m' }] };
-    const saved = await api(`/api/sheets/${sheetId}/versions`, { method: 'POST', body: { parentNumber: 1, message: 'First calculation', content } });
+    const content = {
+      ...v1.content,
+      cells: [
+        {
+          id: 'c1',
+          kind: 'calc',
+          source: 'T_kin = 250 MeV\nBrho = magneticRigidity(momentumFromKinetic(T_kin, m_p), q_e) to T*m',
+        },
+      ],
+    };
+    const saved = await api(`/api/sheets/${sheetId}/versions`, {
+      method: 'POST',
+      body: { parentNumber: 1, message: 'First calculation', content },
+    });
     expect(saved).toMatchObject({ status: 201, body: { number: 2, ok: true } });
     const v2 = (await api(`/api/sheets/${sheetId}/versions/2`)).body.version;
     expect(v2.results.cells[0].statements[1].value.unit).toBe('T m');
@@ -64,12 +87,20 @@ describe('sheets and versions', () => {
   });
 
   it('refuses a save based on a stale version with 409, naming the latest', async () => {
-    const stale = await api(`/api/sheets/${sheetId}/versions`, { method: 'POST', body: { parentNumber: 1, message: 'Edited from an old tab', content: v1.content } });
+    const stale = await api(`/api/sheets/${sheetId}/versions`, {
+      method: 'POST',
+      body: { parentNumber: 1, message: 'Edited from an old tab', content: v1.content },
+    });
     expect(stale.status).toBe(409);
     expect(stale.body.error.message).toBe('Version 2 was saved since version 1, which your edits are based on.');
-    expect(stale.body.error.details).toMatchObject({ latestNumber: 2, latestSha256: expect.stringMatching(/^[0-9a-f]{64}$/) });
+    expect(stale.body.error.details).toMatchObject({
+      latestNumber: 2,
+      latestSha256: expect.stringMatching(/^[0-9a-f]{64}$/),
+    });
     const versions = await api(`/api/sheets/${sheetId}/versions`);
-    expect(versions.body.versions.map((v: { number: number; parentNumber: number | null }) => [v.number, v.parentNumber])).toEqual([
+    expect(
+      versions.body.versions.map((v: { number: number; parentNumber: number | null }) => [v.number, v.parentNumber]),
+    ).toEqual([
       [2, 1],
       [1, null],
     ]);
@@ -88,11 +119,17 @@ describe('sheets and versions', () => {
   });
 
   it('exports a version as a sheet file that the command-line evaluator reads, and imports it back', async () => {
-    const response = await fetch(`${app.baseUrl}/api/sheets/${sheetId}/export?version=2`, { headers: { authorization: `Bearer ${token}` } });
+    const response = await fetch(`${app.baseUrl}/api/sheets/${sheetId}/export?version=2`, {
+      headers: { authorization: `Bearer ${token}` },
+    });
     expect(response.status).toBe(200);
     expect(response.headers.get('content-disposition')).toBe('attachment; filename="BEAM-CALC-0001-v2.json"');
     const file = await response.json();
-    expect(file).toMatchObject({ title: 'Rigidity of the transfer line', cells: [{ id: 'c1', kind: 'calc' }], exportedFrom: { sheet: 'BEAM-CALC-0001', version: 2 } });
+    expect(file).toMatchObject({
+      title: 'Rigidity of the transfer line',
+      cells: [{ id: 'c1', kind: 'calc' }],
+      exportedFrom: { sheet: 'BEAM-CALC-0001', version: 2 },
+    });
     const { mkdtempSync, writeFileSync } = await import('node:fs');
     const { tmpdir } = await import('node:os');
     const path = `${mkdtempSync(`${tmpdir()}/ws-export-`)}/sheet.json`;
@@ -101,26 +138,43 @@ describe('sheets and versions', () => {
     // and the next request would go out on a dead one.
     const { execFile } = await import('node:child_process');
     const { promisify } = await import('node:util');
-    const cli = await promisify(execFile)('npm', ['run', '-s', 'calc', '--', path, '--json'], { cwd: process.cwd(), encoding: 'utf8', timeout: 60_000 });
+    const cli = await promisify(execFile)('npm', ['run', '-s', 'calc', '--', path, '--json'], {
+      cwd: process.cwd(),
+      encoding: 'utf8',
+      timeout: 60_000,
+    });
     // 250 MeV protons: Bρ = 2.432 13 T m (see tests/e2e/calc.test.ts for the derivation).
     expect(JSON.parse(cli.stdout).values.Brho.value).toBeCloseTo(2.43213, 4);
     const imported = await api(`/api/projects/${projectId}/sheets/import`, { method: 'POST', body: file });
     expect(imported).toMatchObject({ status: 201, body: { code: 'BEAM-CALC-0003', version: 2 } });
     const v = (await api(`/api/sheets/${imported.body.id}/versions/2`)).body.version;
     expect(v.content.cells).toEqual(file.cells);
-    expect((await api(`/api/projects/${projectId}/sheets/import`, { method: 'POST', body: { cells: [] } })).status).toBe(400);
+    expect(
+      (await api(`/api/projects/${projectId}/sheets/import`, { method: 'POST', body: { cells: [] } })).status,
+    ).toBe(400);
   });
 
   it('refuses content that is not a sheet, and an unknown sheet or version', async () => {
-    expect((await api(`/api/sheets/${sheetId}/versions`, { method: 'POST', body: { parentNumber: 2, message: 'x', content: { cells: 'no' } } })).status).toBe(400);
+    expect(
+      (
+        await api(`/api/sheets/${sheetId}/versions`, {
+          method: 'POST',
+          body: { parentNumber: 2, message: 'x', content: { cells: 'no' } },
+        })
+      ).status,
+    ).toBe(400);
     expect((await api('/api/sheets/00000000-0000-4000-8000-000000000000')).status).toBe(404);
     expect((await api(`/api/sheets/${sheetId}/versions/99`)).status).toBe(404);
   });
 
   it('keeps every version byte-identical: the stored hash recomputes from the stored content', async () => {
-    const rows = await sql<{ content: unknown; content_hash: string }>`select content, content_hash from versions`.execute(testDb());
+    const rows = await sql<{
+      content: unknown;
+      content_hash: string;
+    }>`select content, content_hash from versions`.execute(testDb());
     expect(rows.rows.length).toBeGreaterThanOrEqual(3);
-    for (const r of rows.rows) expect(createHash('sha256').update(canonicalize(r.content)!).digest('hex')).toBe(r.content_hash);
+    for (const r of rows.rows)
+      expect(createHash('sha256').update(canonicalize(r.content)!).digest('hex')).toBe(r.content_hash);
   });
 
   it('exports a version with its attachments; the import previews it, creating nothing, then brings them back with a new title', async () => {
@@ -129,35 +183,84 @@ describe('sheets and versions', () => {
     const form = new FormData();
     const csv = 'energy [MeV], field [T]\n70, 0.4\n250, 1.3\n';
     form.append('file', new Blob([csv], { type: 'text/csv' }), 'energy-scan.csv');
-    const uploaded = await fetch(`${app.baseUrl}/api/sheets/${tof.id}/attachments`, { method: 'POST', headers: { authorization: `Bearer ${token}` }, body: form });
+    const uploaded = await fetch(`${app.baseUrl}/api/sheets/${tof.id}/attachments`, {
+      method: 'POST',
+      headers: { authorization: `Bearer ${token}` },
+      body: form,
+    });
     expect(uploaded.status).toBe(201);
     const ref = await uploaded.json();
     const latest = (await api(`/api/sheets/${tof.id}`)).body.version;
-    const content = { ...latest.content, attachments: [{ name: ref.name, mediaType: ref.mediaType, size: ref.size, sha256: ref.sha256 }], cells: [{ id: 'c1', kind: 'calc', source: 'T_top = max(energy_scan.energy)' }] };
-    expect((await api(`/api/sheets/${tof.id}/versions`, { method: 'POST', body: { parentNumber: latest.number, message: 'Scan', content } })).status).toBe(201);
+    const content = {
+      ...latest.content,
+      attachments: [{ name: ref.name, mediaType: ref.mediaType, size: ref.size, sha256: ref.sha256 }],
+      cells: [{ id: 'c1', kind: 'calc', source: 'T_top = max(energy_scan.energy)' }],
+    };
+    expect(
+      (
+        await api(`/api/sheets/${tof.id}/versions`, {
+          method: 'POST',
+          body: { parentNumber: latest.number, message: 'Scan', content },
+        })
+      ).status,
+    ).toBe(201);
 
-    const plain = await (await fetch(`${app.baseUrl}/api/sheets/${tof.id}/export`, { headers: { authorization: `Bearer ${token}` } })).json();
-    expect(plain.attachments).toEqual([{ name: 'energy-scan.csv', mediaType: 'text/csv', size: csv.length, sha256: createHash('sha256').update(csv).digest('hex') }]);
-    const response = await fetch(`${app.baseUrl}/api/sheets/${tof.id}/export?attachments=include`, { headers: { authorization: `Bearer ${token}` } });
-    expect(response.headers.get('content-disposition')).toBe('attachment; filename="BEAM-CALC-0002-v2-with-attachments.json"');
+    const plain = await (
+      await fetch(`${app.baseUrl}/api/sheets/${tof.id}/export`, { headers: { authorization: `Bearer ${token}` } })
+    ).json();
+    expect(plain.attachments).toEqual([
+      {
+        name: 'energy-scan.csv',
+        mediaType: 'text/csv',
+        size: csv.length,
+        sha256: createHash('sha256').update(csv).digest('hex'),
+      },
+    ]);
+    const response = await fetch(`${app.baseUrl}/api/sheets/${tof.id}/export?attachments=include`, {
+      headers: { authorization: `Bearer ${token}` },
+    });
+    expect(response.headers.get('content-disposition')).toBe(
+      'attachment; filename="BEAM-CALC-0002-v2-with-attachments.json"',
+    );
     const file = await response.json();
     expect(Buffer.from(file.attachments[0].contentBase64, 'base64').toString('utf8')).toBe(csv);
 
     const before = (await api(`/api/projects/${projectId}/sheets`)).body.sheets.length;
     const preview = await api(`/api/projects/${projectId}/sheets/import/preview`, { method: 'POST', body: file });
-    expect(preview).toMatchObject({ status: 200, body: { title: 'Time of flight', unchangedSinceExport: true, exportedFrom: { sheet: 'BEAM-CALC-0002', version: 2 }, attachments: [{ name: 'energy-scan.csv', carried: true }] } });
+    expect(preview).toMatchObject({
+      status: 200,
+      body: {
+        title: 'Time of flight',
+        unchangedSinceExport: true,
+        exportedFrom: { sheet: 'BEAM-CALC-0002', version: 2 },
+        attachments: [{ name: 'energy-scan.csv', carried: true }],
+      },
+    });
     expect((await api(`/api/projects/${projectId}/sheets`)).body.sheets.length).toBe(before);
 
-    const imported = await api(`/api/projects/${projectId}/sheets/import?title=${encodeURIComponent('Time of flight, beam line 2')}`, { method: 'POST', body: file });
-    expect(imported).toMatchObject({ status: 201, body: { version: 2, attachments: { carried: ['energy-scan.csv'], notCarried: [] } } });
+    const imported = await api(
+      `/api/projects/${projectId}/sheets/import?title=${encodeURIComponent('Time of flight, beam line 2')}`,
+      { method: 'POST', body: file },
+    );
+    expect(imported).toMatchObject({
+      status: 201,
+      body: { version: 2, attachments: { carried: ['energy-scan.csv'], notCarried: [] } },
+    });
     const copy = (await api(`/api/sheets/${imported.body.id}/versions/2`)).body.version;
     expect(copy.content.title).toBe('Time of flight, beam line 2');
     expect(copy.results.cells[0].statements[0].value).toMatchObject({ number: 250, unit: 'MeV' });
     const attachments = (await api(`/api/sheets/${imported.body.id}/attachments`)).body.attachments;
-    expect(attachments.map((a: { name: string; sha256: string }) => [a.name, a.sha256])).toEqual([['energy-scan.csv', ref.sha256]]);
+    expect(attachments.map((a: { name: string; sha256: string }) => [a.name, a.sha256])).toEqual([
+      ['energy-scan.csv', ref.sha256],
+    ]);
 
     // One changed byte in the carried file: refused, nothing created.
-    const tampered = { ...file, attachments: [{ ...file.attachments[0], contentBase64: Buffer.from(csv.replace('250', '251')).toString('base64') }] };
+    const tampered = {
+      ...file,
+      attachments: [
+        { ...file.attachments[0], contentBase64: Buffer.from(csv.replace('250', '251')).toString('base64') },
+      ],
+    };
     const refused = await api(`/api/projects/${projectId}/sheets/import`, { method: 'POST', body: tampered });
     expect(refused.status).toBe(400);
     expect(refused.body.error.message).toMatch(/energy-scan\.csv in the file does not match its record/);
@@ -172,12 +275,21 @@ describe('attachments', () => {
   async function upload(name: string, type: string, data: Uint8Array | string) {
     const form = new FormData();
     form.append('file', new Blob([typeof data === 'string' ? data : new Uint8Array(data)], { type }), name);
-    const response = await fetch(`${app.baseUrl}/api/sheets/${sheetId}/attachments`, { method: 'POST', headers: { authorization: `Bearer ${token}` }, body: form });
+    const response = await fetch(`${app.baseUrl}/api/sheets/${sheetId}/attachments`, {
+      method: 'POST',
+      headers: { authorization: `Bearer ${token}` },
+      body: form,
+    });
     return { status: response.status, body: await response.json() };
   }
 
   beforeAll(async () => {
-    sheetId = (await api(`/api/projects/${projectId}/sheets`, { method: 'POST', body: { title: 'Energy scan', safetyRelated: false } })).body.id;
+    sheetId = (
+      await api(`/api/projects/${projectId}/sheets`, {
+        method: 'POST',
+        body: { title: 'Energy scan', safetyRelated: false },
+      })
+    ).body.id;
   });
 
   it('uploads a CSV table and answers with its SHA-256 and how cells name its columns', async () => {
@@ -188,7 +300,14 @@ describe('attachments', () => {
       mediaType: 'text/csv',
       size: csv.length,
       sha256: createHash('sha256').update(csv).digest('hex'),
-      table: { name: 'energy_scan', rows: 2, columns: [{ name: 'energy', unit: 'MeV' }, { name: 'field', unit: 'T' }] },
+      table: {
+        name: 'energy_scan',
+        rows: 2,
+        columns: [
+          { name: 'energy', unit: 'MeV' },
+          { name: 'field', unit: 'T' },
+        ],
+      },
     });
     const list = await api(`/api/sheets/${sheetId}/attachments`);
     expect(list.body.attachments.map((a: { name: string }) => a.name)).toEqual(['energy scan.csv']);
@@ -196,13 +315,23 @@ describe('attachments', () => {
 
   it('downloads the exact bytes, as a download, with their SHA-256', async () => {
     const sha = createHash('sha256').update(csv).digest('hex');
-    const response = await fetch(`${app.baseUrl}/api/sheets/${sheetId}/attachments/${sha}`, { headers: { authorization: `Bearer ${token}` } });
+    const response = await fetch(`${app.baseUrl}/api/sheets/${sheetId}/attachments/${sha}`, {
+      headers: { authorization: `Bearer ${token}` },
+    });
     expect(response.status).toBe(200);
     expect(await response.text()).toBe(csv);
-    expect(response.headers.get('content-disposition')).toBe(`attachment; filename="energy scan.csv"; filename*=UTF-8''energy%20scan.csv`);
+    expect(response.headers.get('content-disposition')).toBe(
+      `attachment; filename="energy scan.csv"; filename*=UTF-8''energy%20scan.csv`,
+    );
     expect(response.headers.get('x-content-type-options')).toBe('nosniff');
     expect(response.headers.get('x-worldsheet-sha256')).toBe(sha);
-    expect((await fetch(`${app.baseUrl}/api/sheets/${sheetId}/attachments/${'0'.repeat(64)}`, { headers: { authorization: `Bearer ${token}` } })).status).toBe(404);
+    expect(
+      (
+        await fetch(`${app.baseUrl}/api/sheets/${sheetId}/attachments/${'0'.repeat(64)}`, {
+          headers: { authorization: `Bearer ${token}` },
+        })
+      ).status,
+    ).toBe(404);
   });
 
   it('refuses mislabelled (415), oversized (413) and malformed (400) uploads with a clear message', async () => {
@@ -225,15 +354,32 @@ describe('attachments', () => {
 
   it('evaluates cells that use the table, and saves a version citing it', async () => {
     const sha = createHash('sha256').update(csv).digest('hex');
-    const cells = [{ id: 'c1', kind: 'calc', source: 'p = momentumFromKinetic(energy_scan.energy, m_p)\nBrho = magneticRigidity(p, 1) to T*m\nmax(energy_scan.field) * 1 m < Brho[2]' }];
-    const evaluated = await api('/api/evaluate', { method: 'POST', body: { cells, sheetId, attachments: [{ name: 'energy scan.csv', sha256: sha }] } });
+    const cells = [
+      {
+        id: 'c1',
+        kind: 'calc',
+        source:
+          'p = momentumFromKinetic(energy_scan.energy, m_p)\nBrho = magneticRigidity(p, 1) to T*m\nmax(energy_scan.field) * 1 m < Brho[2]',
+      },
+    ];
+    const evaluated = await api('/api/evaluate', {
+      method: 'POST',
+      body: { cells, sheetId, attachments: [{ name: 'energy scan.csv', sha256: sha }] },
+    });
     expect(evaluated.status).toBe(200);
     // 250 MeV protons: Bρ = 2.432 13 T·m (PDG RPP "Kinematics", p = 0.299 792 458 Bρ, m_p from CODATA 2022).
     expect(evaluated.body.cells[0].statements[1].value.text).toBe('[1.231\u202f29, 2.432\u202f13] T·m');
     expect(evaluated.body.cells[0].statements[2].criterion.pass).toBe(true);
     const v1 = (await api(`/api/sheets/${sheetId}`)).body.version;
     const attachment = { name: 'energy scan.csv', mediaType: 'text/csv', size: csv.length, sha256: sha };
-    const saved = await api(`/api/sheets/${sheetId}/versions`, { method: 'POST', body: { parentNumber: 1, message: 'Rigidity over the scan', content: { ...v1.content, cells, attachments: [attachment] } } });
+    const saved = await api(`/api/sheets/${sheetId}/versions`, {
+      method: 'POST',
+      body: {
+        parentNumber: 1,
+        message: 'Rigidity over the scan',
+        content: { ...v1.content, cells, attachments: [attachment] },
+      },
+    });
     expect(saved).toMatchObject({ status: 201, body: { number: 2, ok: true } });
     const v2 = (await api(`/api/sheets/${sheetId}/versions/2`)).body.version;
     expect(v2.content.attachments).toEqual([attachment]);
@@ -266,19 +412,44 @@ describe('attachments', () => {
         { name: 'beam-losses.csv', mediaType: 'text/csv', size: notes.length, sha256: sha(notes) },
       ],
     };
-    expect((await api(`/api/sheets/${sheetId}/versions`, { method: 'POST', body: { parentNumber: 2, message: 'Re-measured scan', content } })).status).toBe(201);
+    expect(
+      (
+        await api(`/api/sheets/${sheetId}/versions`, {
+          method: 'POST',
+          body: { parentNumber: 2, message: 'Re-measured scan', content },
+        })
+      ).status,
+    ).toBe(201);
     // Version 4 only changes a design input's source revision: 1 → 4 skips two versions.
-    const v4content = { ...content, record: { ...content.record, inputs: [{ ...content.record.inputs[0], sourceRevision: 'C' }] } };
-    expect((await api(`/api/sheets/${sheetId}/versions`, { method: 'POST', body: { parentNumber: 3, message: 'Beam request revision C', content: v4content } })).status).toBe(201);
+    const v4content = {
+      ...content,
+      record: { ...content.record, inputs: [{ ...content.record.inputs[0], sourceRevision: 'C' }] },
+    };
+    expect(
+      (
+        await api(`/api/sheets/${sheetId}/versions`, {
+          method: 'POST',
+          body: { parentNumber: 3, message: 'Beam request revision C', content: v4content },
+        })
+      ).status,
+    ).toBe(201);
 
     const r = await api(`/api/sheets/${sheetId}/compare?base=2&target=4`);
     expect(r.status).toBe(200);
     const { record } = r.body.comparison;
-    expect(record.fields.map((f: { field: string }) => f.field)).toEqual(['safetyRelated', 'significantFigures', 'conclusions']);
+    expect(record.fields.map((f: { field: string }) => f.field)).toEqual([
+      'safetyRelated',
+      'significantFigures',
+      'conclusions',
+    ]);
     expect(record.fields[0]).toMatchObject({ old: false, new: true });
     expect(record.fields[1]).toMatchObject({ old: 6, new: 4 });
-    expect(record.inputs).toEqual([{ key: 'Scan energies', status: 'added', old: null, new: v4content.record.inputs[0], changedFields: [] }]);
-    expect(record.assumptions).toMatchObject([{ key: 'Fields measured at 20 °C', status: 'added', new: { needsVerification: true } }]);
+    expect(record.inputs).toEqual([
+      { key: 'Scan energies', status: 'added', old: null, new: v4content.record.inputs[0], changedFields: [] },
+    ]);
+    expect(record.assumptions).toMatchObject([
+      { key: 'Fields measured at 20 °C', status: 'added', new: { needsVerification: true } },
+    ]);
     expect(record.references).toMatchObject([{ key: 'PDG RPP, Kinematics', status: 'added' }]);
     const replaced = record.attachments.find((a: { key: string }) => a.key === 'energy scan.csv');
     expect(replaced).toMatchObject({
@@ -296,42 +467,102 @@ describe('attachments', () => {
         ],
       },
     });
-    expect(record.attachments.find((a: { key: string }) => a.key === 'beam-losses.csv')).toMatchObject({ status: 'added', new: { sha256: sha(notes), size: notes.length }, table: { newRows: 1 } });
+    expect(record.attachments.find((a: { key: string }) => a.key === 'beam-losses.csv')).toMatchObject({
+      status: 'added',
+      new: { sha256: sha(notes), size: notes.length },
+      table: { newRows: 1 },
+    });
     expect(r.body.comparison.summary).toMatchObject({ attachmentChanges: 2 });
 
     // Any pair, either way round: 4 → 3 differs only by the source revision.
     const back = await api(`/api/sheets/${sheetId}/compare?base=4&target=3`);
-    expect(back.body.comparison.record).toMatchObject({ fields: [], attachments: [], inputs: [{ key: 'Scan energies', status: 'changed', changedFields: ['sourceRevision'], old: { sourceRevision: 'C' }, new: { sourceRevision: 'B' } }] });
+    expect(back.body.comparison.record).toMatchObject({
+      fields: [],
+      attachments: [],
+      inputs: [
+        {
+          key: 'Scan energies',
+          status: 'changed',
+          changedFields: ['sourceRevision'],
+          old: { sourceRevision: 'C' },
+          new: { sourceRevision: 'B' },
+        },
+      ],
+    });
   });
 });
 
 describe('submission over HTTP', () => {
   it('refuses to submit a version with an evaluation error until each item is acknowledged in writing, then accepts it', async () => {
-    const author = await testDb().selectFrom('users').select('id').where('email', '=', 'author@example.test').executeTakeFirstOrThrow();
+    const author = await testDb()
+      .selectFrom('users')
+      .select('id')
+      .where('email', '=', 'author@example.test')
+      .executeTakeFirstOrThrow();
     const checker = await makeUser(testDb(), 'checker@example.test');
-    const acks = await makeProject(testDb(), 'ACKS', [[{ userId: author.id } as never, 'originator'], [checker, 'checker']]);
-    const created = await api(`/api/projects/${acks}/sheets`, { method: 'POST', body: { title: 'Muon decay length', safetyRelated: false } });
+    const acks = await makeProject(testDb(), 'ACKS', [
+      [{ userId: author.id } as never, 'originator'],
+      [checker, 'checker'],
+    ]);
+    const created = await api(`/api/projects/${acks}/sheets`, {
+      method: 'POST',
+      body: { title: 'Muon decay length', safetyRelated: false },
+    });
     const v1 = (await api(`/api/sheets/${created.body.id}`)).body.version;
     // A deliberate dimension error in the second line.
-    const content = { ...v1.content, cells: [{ id: 'c1', kind: 'calc', source: 'L_dec = decayLength(1 GeV, m_mu, 2.1969811 us)\nbad = 2 m + 3 s' }] };
-    expect((await api(`/api/sheets/${created.body.id}/versions`, { method: 'POST', body: { parentNumber: 1, message: 'with an error', content } })).status).toBe(201);
+    const content = {
+      ...v1.content,
+      cells: [{ id: 'c1', kind: 'calc', source: 'L_dec = decayLength(1 GeV, m_mu, 2.1969811 us)\nbad = 2 m + 3 s' }],
+    };
+    expect(
+      (
+        await api(`/api/sheets/${created.body.id}/versions`, {
+          method: 'POST',
+          body: { parentNumber: 1, message: 'with an error', content },
+        })
+      ).status,
+    ).toBe(201);
 
-    const refused = await api(`/api/sheets/${created.body.id}/checks`, { method: 'POST', body: { versionNumber: 2, checkerId: checker.userId, password: PASSWORD } });
+    const refused = await api(`/api/sheets/${created.body.id}/checks`, {
+      method: 'POST',
+      body: { versionNumber: 2, checkerId: checker.userId, password: PASSWORD },
+    });
     expect(refused.status).toBe(400);
-    expect(refused.body.error.message).toMatch(/^Version 2 has an item to acknowledge in writing before it can be submitted: cell 1, line 2 \(bad = 2 m \+ 3 s\)/);
+    expect(refused.body.error.message).toMatch(
+      /^Version 2 has an item to acknowledge in writing before it can be submitted: cell 1, line 2 \(bad = 2 m \+ 3 s\)/,
+    );
     const needed = refused.body.error.details.acknowledgementsNeeded as Array<{ key: string; kind: string }>;
     expect(needed.map((f) => f.kind)).toEqual(['cell-error']);
     // An empty acknowledgement is not one.
-    const blank = await api(`/api/sheets/${created.body.id}/checks`, { method: 'POST', body: { versionNumber: 2, checkerId: checker.userId, password: PASSWORD, acknowledgements: [{ key: needed[0].key, text: '  ' }] } });
+    const blank = await api(`/api/sheets/${created.body.id}/checks`, {
+      method: 'POST',
+      body: {
+        versionNumber: 2,
+        checkerId: checker.userId,
+        password: PASSWORD,
+        acknowledgements: [{ key: needed[0].key, text: '  ' }],
+      },
+    });
     expect(blank.status).toBe(400);
     expect(await testDb().selectFrom('checks').select('id').execute()).toEqual([]);
 
     const accepted = await api(`/api/sheets/${created.body.id}/checks`, {
       method: 'POST',
-      body: { versionNumber: 2, checkerId: checker.userId, password: PASSWORD, acknowledgements: [{ key: needed[0].key, text: 'A scratch line; the checker may ignore it.' }] },
+      body: {
+        versionNumber: 2,
+        checkerId: checker.userId,
+        password: PASSWORD,
+        acknowledgements: [{ key: needed[0].key, text: 'A scratch line; the checker may ignore it.' }],
+      },
     });
     expect(accepted.status).toBe(201);
     const stored = await testDb().selectFrom('checks').select('acknowledgements').executeTakeFirstOrThrow();
-    expect(stored.acknowledgements).toEqual([expect.objectContaining({ key: needed[0].key, kind: 'cell-error', text: 'A scratch line; the checker may ignore it.' })]);
+    expect(stored.acknowledgements).toEqual([
+      expect.objectContaining({
+        key: needed[0].key,
+        kind: 'cell-error',
+        text: 'A scratch line; the checker may ignore it.',
+      }),
+    ]);
   });
 });

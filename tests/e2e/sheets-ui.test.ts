@@ -74,7 +74,9 @@ it('edits a sheet, sees typeset results as it types, saves two versions and comp
   await source.fill('gamma_b = lorentzFactor(v_beam)\nt_proper = t_flight / gamma_b to ns\nt_proper < 100 ns');
   await page.getByRole('article', { name: 'Cell 2 (calculation)' }).getByText('Pass').waitFor();
   await page.getByRole('button', { name: 'Add an assumption' }).click();
-  await page.getByLabel('Assumption 1', { exact: true }).fill('The bunch travels on the design orbit between the monitors.');
+  await page
+    .getByLabel('Assumption 1', { exact: true })
+    .fill('The bunch travels on the design orbit between the monitors.');
   await page.getByRole('button', { name: 'Add a design input' }).click();
   await page.getByLabel('Input 2 name').fill('Beam kinetic energy');
   await page.getByLabel('Input 2 value').fill('150 MeV');
@@ -92,11 +94,23 @@ it('edits a sheet, sees typeset results as it types, saves two versions and comp
 
   await page.goto(`${app.baseUrl}/projects/TPT2/sheets/2?version=2`);
   await page.getByText('The bunch travels on the design orbit between the monitors.').waitFor();
-  await page.getByText(/Beam kinetic energy: 150 MeV — TPT2 beam requirements specification \(demo\), revision C/).waitFor();
+  await page
+    .getByText(/Beam kinetic energy: 150 MeV — TPT2 beam requirements specification \(demo\), revision C/)
+    .waitFor();
   await page.goto(`${app.baseUrl}/projects/TPT2/sheets/2/compare?base=2&target=3`);
   await page.getByRole('heading', { level: 1, name: 'Version 2 → version 3' }).waitFor();
-  expect(await page.getByRole('article', { name: /changed/ }).locator('del').innerText()).toContain('100');
-  expect(await page.getByRole('article', { name: /changed/ }).locator('ins').innerText()).toContain('60');
+  expect(
+    await page
+      .getByRole('article', { name: /changed/ })
+      .locator('del')
+      .innerText(),
+  ).toContain('100');
+  expect(
+    await page
+      .getByRole('article', { name: /changed/ })
+      .locator('ins')
+      .innerText(),
+  ).toContain('60');
   await session.screenshot('version-comparison');
   expect(session.problems).toEqual([]);
 });
@@ -107,7 +121,7 @@ it('refuses a save based on a stale version, shows it, and carries the edits ove
   await page.getByLabel('Objective').fill('Wavelength and speed of the probe electrons, edited in the browser.');
   // Meanwhile someone else saves version 2 of the same sheet.
   // A change made with the session cookie says where it comes from, as a browser's fetch does.
-  const other = await session.context.request.post(`${app.baseUrl}/api/sheets/${(await sheetId(3))}/versions`, {
+  const other = await session.context.request.post(`${app.baseUrl}/api/sheets/${await sheetId(3)}/versions`, {
     headers: { origin: app.baseUrl },
     data: { parentNumber: 1, message: 'Saved elsewhere', content: await latestContent(3) },
   });
@@ -129,21 +143,37 @@ it('uploads a CSV data table, uses its columns with units in a cell, and saves a
   await page.goto(`${app.baseUrl}/projects/TPT2/sheets/4/edit`);
   await page.getByRole('heading', { level: 2, name: 'Attachments' }).waitFor();
   const csv = 'energy [MeV], field [T]\n70, 0.4\n150, 0.9\n250, 1.3\n';
-  await page.getByLabel('File to upload').setInputFiles({ name: 'energy-scan.csv', mimeType: 'text/csv', buffer: Buffer.from(csv) });
+  await page
+    .getByLabel('File to upload')
+    .setInputFiles({ name: 'energy-scan.csv', mimeType: 'text/csv', buffer: Buffer.from(csv) });
   await page.getByRole('button', { name: 'Upload the file', exact: true }).click();
-  await page.getByRole('status').filter({ hasText: 'energy-scan.csv uploaded' }).filter({ hasText: 'energy_scan.energy [MeV], energy_scan.field [T]' }).waitFor();
-  await page.getByRole('table', { name: 'Attachments cited by this version' }).getByRole('link', { name: 'energy-scan.csv' }).waitFor();
+  await page
+    .getByRole('status')
+    .filter({ hasText: 'energy-scan.csv uploaded' })
+    .filter({ hasText: 'energy_scan.energy [MeV], energy_scan.field [T]' })
+    .waitFor();
+  await page
+    .getByRole('table', { name: 'Attachments cited by this version' })
+    .getByRole('link', { name: 'energy-scan.csv' })
+    .waitFor();
 
   // A PNG named .pdf is refused with the reason.
   const png = Buffer.from([0x89, 0x50, 0x4e, 0x47, 0x0d, 0x0a, 0x1a, 0x0a, 0, 0, 0, 0]);
-  await page.getByLabel('File to upload').setInputFiles({ name: 'datasheet.pdf', mimeType: 'application/pdf', buffer: png });
+  await page
+    .getByLabel('File to upload')
+    .setInputFiles({ name: 'datasheet.pdf', mimeType: 'application/pdf', buffer: png });
   await page.getByRole('button', { name: 'Upload the file', exact: true }).click();
   await page.getByRole('alert').filter({ hasText: 'named as a PDF document but its content is a PNG image' }).waitFor();
 
   await page.getByRole('button', { name: 'Add a calculation cell' }).click();
-  await page.getByLabel('Cell 1 (calculation) source').fill('p_scan = momentumFromKinetic(energy_scan.energy, m_p)\nBrho_scan = magneticRigidity(p_scan, 1) to T*m');
+  await page
+    .getByLabel('Cell 1 (calculation) source')
+    .fill('p_scan = momentumFromKinetic(energy_scan.energy, m_p)\nBrho_scan = magneticRigidity(p_scan, 1) to T*m');
   // 250 MeV protons: Bρ = 2.432 13 T·m (PDG RPP "Kinematics", m_p from CODATA 2022).
-  await page.getByRole('article', { name: 'Cell 1 (calculation)' }).getByText(/2\.432\s?13\]\s?T·m/).waitFor();
+  await page
+    .getByRole('article', { name: 'Cell 1 (calculation)' })
+    .getByText(/2\.432\s?13\]\s?T·m/)
+    .waitFor();
   await session.screenshot('attachments-editor');
   await page.getByLabel('What changed').fill('Rigidity over the energy scan');
   await page.getByRole('button', { name: 'Save version' }).click();
@@ -162,19 +192,38 @@ it('shows bidirectional control characters as markers in the sheet and the compa
   const { page } = session;
   session.problems.length = 0; // the 415 the previous test provoked
   const id = await sheetId(1);
-  const versions = await testDb().selectFrom('versions').select('number').where('sheet_id', '=', id).orderBy('number', 'desc').execute();
+  const versions = await testDb()
+    .selectFrom('versions')
+    .select('number')
+    .where('sheet_id', '=', id)
+    .orderBy('number', 'desc')
+    .execute();
   const latest = versions[0].number;
-  const content = (await latestContent(1)) as { title: string; cells: Array<{ id: string; kind: string; source: string }> };
-  const post = (body: unknown) => session.context.request.post(`${app.baseUrl}/api/sheets/${id}/versions`, { headers: { origin: app.baseUrl }, data: body });
+  const content = (await latestContent(1)) as {
+    title: string;
+    cells: Array<{ id: string; kind: string; source: string }>;
+  };
+  const post = (body: unknown) =>
+    session.context.request.post(`${app.baseUrl}/api/sheets/${id}/versions`, {
+      headers: { origin: app.baseUrl },
+      data: body,
+    });
   // A calculation cell holding U+202E is refused by the route with 400, naming the cell and the character.
-  const trojan = { ...content, cells: [...content.cells, { id: 'trojan', kind: 'calc', source: 'limit = 3 T*m # \u202e check' }] };
+  const trojan = {
+    ...content,
+    cells: [...content.cells, { id: 'trojan', kind: 'calc', source: 'limit = 3 T*m # \u202e check' }],
+  };
   const refused = await post({ parentNumber: latest, message: 'Trojan', content: trojan });
   expect(refused.status()).toBe(400);
   expect((await refused.json()).error.message).toBe(
     `content.cells.${content.cells.length}.source: cell ${content.cells.length + 1}: holds U+202E (RIGHT-TO-LEFT OVERRIDE) on line 1, which can make the source read differently from what is evaluated`,
   );
   // In a text cell and the title it is stored as typed, and shown as a marker.
-  const noted = { ...content, title: `${content.title} \u202e`, cells: [...content.cells, { id: 'note', kind: 'text', source: 'The limit is \u202e3 T·m\u202c.' }] };
+  const noted = {
+    ...content,
+    title: `${content.title} \u202e`,
+    cells: [...content.cells, { id: 'note', kind: 'text', source: 'The limit is \u202e3 T·m\u202c.' }],
+  };
   expect((await post({ parentNumber: latest, message: 'A note', content: noted })).status()).toBe(201);
   await page.goto(`${app.baseUrl}/projects/TPT2/sheets/1`);
   await page.getByRole('heading', { level: 1 }).locator('.ws-bidi-marker').filter({ hasText: '⟦U+202E⟧' }).waitFor();
@@ -189,11 +238,30 @@ it('shows bidirectional control characters as markers in the sheet and the compa
 });
 
 async function sheetId(number: number): Promise<string> {
-  const project = await testDb().selectFrom('projects').select('id').where('code', '=', 'TPT2').executeTakeFirstOrThrow();
-  return (await testDb().selectFrom('sheets').select('id').where('project_id', '=', project.id).where('number', '=', number).executeTakeFirstOrThrow()).id;
+  const project = await testDb()
+    .selectFrom('projects')
+    .select('id')
+    .where('code', '=', 'TPT2')
+    .executeTakeFirstOrThrow();
+  return (
+    await testDb()
+      .selectFrom('sheets')
+      .select('id')
+      .where('project_id', '=', project.id)
+      .where('number', '=', number)
+      .executeTakeFirstOrThrow()
+  ).id;
 }
 
 async function latestContent(number: number): Promise<unknown> {
   const id = await sheetId(number);
-  return (await testDb().selectFrom('versions').select('content').where('sheet_id', '=', id).orderBy('number', 'desc').limit(1).executeTakeFirstOrThrow()).content;
+  return (
+    await testDb()
+      .selectFrom('versions')
+      .select('content')
+      .where('sheet_id', '=', id)
+      .orderBy('number', 'desc')
+      .limit(1)
+      .executeTakeFirstOrThrow()
+  ).content;
 }

@@ -41,7 +41,12 @@ it('starts a new sheet from the satellite-timing starter, which records where it
   await page.getByRole('link', { name: 'TPT2-CALC-0009 version 1' }).waitFor();
   await page.getByText(/Started from TPT2-CALC-0009 version 1 \(SHA-256 [0-9a-f]{12}…\)/).waitFor();
   await session.screenshot('start-from-created');
-  const created = await testDb().selectFrom('sheets').select(['number', 'started_from_version_id']).orderBy('number', 'desc').limit(1).executeTakeFirstOrThrow();
+  const created = await testDb()
+    .selectFrom('sheets')
+    .select(['number', 'started_from_version_id'])
+    .orderBy('number', 'desc')
+    .limit(1)
+    .executeTakeFirstOrThrow();
   expect(created.number).toBe(11);
   expect(created.started_from_version_id).not.toBeNull();
   expect(session.problems).toEqual([]);

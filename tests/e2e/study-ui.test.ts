@@ -28,7 +28,10 @@ afterAll(async () => {
 it('shows a study sheet with its uncertainty budget, sweep table, plot and CSV', async () => {
   const { page } = originator;
   await page.goto(`${app.baseUrl}/projects/TPT2/sheets/4`);
-  await page.getByRole('heading', { name: /Dipole field study/ }).first().waitFor();
+  await page
+    .getByRole('heading', { name: /Dipole field study/ })
+    .first()
+    .waitFor();
 
   // The field at the highest energy, y ± U (k = 2), with its budget: two inputs, shares adding to 100 %.
   await page.getByText('(1.6214 ± 0.0052) T (k = 2)').first().waitFor();
@@ -64,13 +67,19 @@ it('shows a study sheet with its uncertainty budget, sweep table, plot and CSV',
   expect(Number(lines[10].split(',')[3])).toBeCloseTo(2.43213, 5);
 
   // The plot: an SVG figure with its axis labels in units, and the data behind it for those who cannot see it.
-  const figure = page.locator('figure').filter({ has: page.locator('svg') }).first();
+  const figure = page
+    .locator('figure')
+    .filter({ has: page.locator('svg') })
+    .first();
   await figure.scrollIntoViewIfNeeded();
   const svgText = await figure.locator('svg').first().textContent();
   expect(svgText).toMatch(/T_kin \(MeV\)/);
   expect(svgText).toMatch(/B_dip \(T\)/);
   // The same figure as a file for a report.
-  const [download] = await Promise.all([page.waitForEvent('download'), figure.getByRole('button', { name: /Download as SVG/ }).click()]);
+  const [download] = await Promise.all([
+    page.waitForEvent('download'),
+    figure.getByRole('button', { name: /Download as SVG/ }).click(),
+  ]);
   expect(download.suggestedFilename()).toMatch(/\.svg$/);
   const file = readFileSync((await download.path())!, 'utf8');
   expect(file.startsWith('<svg')).toBe(true);
@@ -83,7 +92,10 @@ it('shows a study sheet with its uncertainty budget, sweep table, plot and CSV',
 it('draws the space-time diagram of hyperbolic motion (an electron in a uniform field) with its light lines and horizon', async () => {
   const { page } = originator;
   await page.goto(`${app.baseUrl}/projects/TPT2/sheets/5`);
-  const figure = page.locator('figure').filter({ has: page.locator('svg') }).first();
+  const figure = page
+    .locator('figure')
+    .filter({ has: page.locator('svg') })
+    .first();
   await figure.waitFor();
   await figure.scrollIntoViewIfNeeded();
   const text = await figure.locator('svg').first().textContent();
@@ -103,10 +115,15 @@ it('evaluates a sweep and an uncertainty live in the editor', async () => {
   const editor = page.locator('.cm-content').first();
   await editor.click();
   await page.keyboard.press('Control+End');
-  await page.keyboard.type('\nT_2 = 150 MeV +/- 1 MeV\nt_2 = d_bpm / speedFromKinetic(T_2, m_p) to ns\nsweep(T_2, [70, 150, 250] MeV, t_2)');
+  await page.keyboard.type(
+    '\nT_2 = 150 MeV +/- 1 MeV\nt_2 = d_bpm / speedFromKinetic(T_2, m_p) to ns\nsweep(T_2, [70, 150, 250] MeV, t_2)',
+  );
   await page.getByRole('region', { name: /Sweep, line 7: 3 steps/ }).waitFor({ timeout: 20_000 });
   // u(t) = |dt/dT|·u(T): printed as y ± U with k = 2.
-  await page.getByText(/± 0\.\d+\) ns \(k = 2\)/).first().waitFor();
+  await page
+    .getByText(/± 0\.\d+\) ns \(k = 2\)/)
+    .first()
+    .waitFor();
   await originator.screenshot('study-editor-live');
   expect(originator.problems).toEqual([]);
 });

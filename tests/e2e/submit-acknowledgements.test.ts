@@ -22,7 +22,12 @@ beforeAll(async () => {
   const db = testDb();
   await seedDemo(db);
   const project = await db.selectFrom('projects').select('id').where('code', '=', 'TPT2').executeTakeFirstOrThrow();
-  const sheet = await db.selectFrom('sheets').select(['id', 'project_id', 'number', 'title']).where('project_id', '=', project.id).where('number', '=', 2).executeTakeFirstOrThrow();
+  const sheet = await db
+    .selectFrom('sheets')
+    .select(['id', 'project_id', 'number', 'title'])
+    .where('project_id', '=', project.id)
+    .where('number', '=', 2)
+    .executeTakeFirstOrThrow();
   const me = await actorByEmail(db, 'originator@demo.test');
   const v1 = (await getVersion(db, sheet.id))!;
   await saveVersion(db, me, sheet, {
@@ -34,10 +39,18 @@ beforeAll(async () => {
         ...v1.content.record,
         inputs: [
           { ...v1.content.record.inputs[0], value: '12.50 m', cell: 'd_bpm' },
-          { name: 'Proton kinetic energy', value: '0.16 GeV', source: 'TPT2 beam specification (demo)', sourceRevision: 'B', cell: 'T_beam' },
+          {
+            name: 'Proton kinetic energy',
+            value: '0.16 GeV',
+            source: 'TPT2 beam specification (demo)',
+            sourceRevision: 'B',
+            cell: 'T_beam',
+          },
         ],
       },
-      cells: v1.content.cells.map((c) => (c.id === 'tof' ? { ...c, source: `${c.source}\nL_total = d_bpm + t_flight` } : c)),
+      cells: v1.content.cells.map((c) =>
+        c.id === 'tof' ? { ...c, source: `${c.source}\nL_total = d_bpm + t_flight` } : c,
+      ),
     },
   });
   app = await startApp();
@@ -58,7 +71,9 @@ it('asks the originator to acknowledge each item, then shows the acknowledgement
   await page.goto(`${app.baseUrl}/projects/TPT2/sheets/2`);
   // The sheet page shows the design inputs against the values used: one matches, one does not.
   await page.getByText(/feeds d_bpm; value used: 12\.5/).waitFor();
-  await page.getByText(/Error: feeds T_beam, does not match: the record gives 0\.16 GeV, the sheet uses 150 MeV/).waitFor();
+  await page
+    .getByText(/Error: feeds T_beam, does not match: the record gives 0\.16 GeV, the sheet uses 150 MeV/)
+    .waitFor();
   const form = page.getByRole('region', { name: 'Submit for check' });
   await form.getByLabel('Checker').selectOption({ label: 'Demo Checker' });
   // The form lists what needs acknowledging before the first attempt; the browser will not send it with an empty one.
@@ -66,19 +81,30 @@ it('asks the originator to acknowledge each item, then shows the acknowledgement
   await asked.waitFor();
   await form.getByLabel('Your password (signs as prepared)').fill(DEMO_PASSWORD);
   await form.getByRole('button', { name: 'Submit for check' }).click();
-  expect(await asked.getByRole('textbox').first().evaluate((e) => (e as HTMLTextAreaElement).validity.valueMissing)).toBe(true);
+  expect(
+    await asked
+      .getByRole('textbox')
+      .first()
+      .evaluate((e) => (e as HTMLTextAreaElement).validity.valueMissing),
+  ).toBe(true);
   expect(await testDb().selectFrom('checks').select('id').where('version_number', '=', 2).execute()).toEqual([]);
   await originator.screenshot('submit-acknowledgements-asked');
   const error = asked.getByLabel(/Cell error: .*L_total = d_bpm \+ t_flight/);
   const input = asked.getByLabel(/Design input does not match the sheet: .*Proton kinetic energy/);
   await error.fill('The total is a draft line; the checker may ignore it.');
-  await input.fill('The specification revision B value is 160 MeV; the sheet keeps 150 MeV until the change is approved.');
+  await input.fill(
+    'The specification revision B value is 160 MeV; the sheet keeps 150 MeV until the change is approved.',
+  );
   await form.getByLabel('Your password (signs as prepared)').fill(DEMO_PASSWORD);
   await form.getByRole('button', { name: 'Submit for check' }).click();
   await form.getByText(/Version 2 is submitted to Demo Checker for check and signed as prepared/).waitFor();
   expect(originator.problems).toEqual([]);
 
-  const check = await testDb().selectFrom('checks').select('id').where('version_number', '=', 2).executeTakeFirstOrThrow();
+  const check = await testDb()
+    .selectFrom('checks')
+    .select('id')
+    .where('version_number', '=', 2)
+    .executeTakeFirstOrThrow();
   const view = checker.page;
   await view.goto(`${app.baseUrl}/checks/${check.id}`);
   const section = view.getByRole('region', { name: /Acknowledged by Demo Originator on submission \(2\)/ });

@@ -17,9 +17,22 @@ let originator: BrowserSession;
 beforeAll(async () => {
   await resetDatabase();
   await seedDemo(testDb());
-  const project = await testDb().selectFrom('projects').select('id').where('code', '=', 'TPT2').executeTakeFirstOrThrow();
-  const sheet = await testDb().selectFrom('sheets').select(['id', 'project_id', 'number', 'title']).where('project_id', '=', project.id).where('number', '=', 2).executeTakeFirstOrThrow();
-  const grant = (userId: string, role: 'originator' | 'checker') => testDb().insertInto('project_members').values({ project_id: project.id, user_id: userId, role, granted_by: null }).execute();
+  const project = await testDb()
+    .selectFrom('projects')
+    .select('id')
+    .where('code', '=', 'TPT2')
+    .executeTakeFirstOrThrow();
+  const sheet = await testDb()
+    .selectFrom('sheets')
+    .select(['id', 'project_id', 'number', 'title'])
+    .where('project_id', '=', project.id)
+    .where('number', '=', 2)
+    .executeTakeFirstOrThrow();
+  const grant = (userId: string, role: 'originator' | 'checker') =>
+    testDb()
+      .insertInto('project_members')
+      .values({ project_id: project.id, user_id: userId, role, granted_by: null })
+      .execute();
   // The demo originator (who saved version 1) also holds the checker role: as the submitter and an originator, never eligible.
   const me = await actorByEmail(testDb(), 'originator@demo.test');
   await grant(me.userId, 'checker');
@@ -28,12 +41,23 @@ beforeAll(async () => {
   await grant(preparer.userId, 'originator');
   await grant(preparer.userId, 'checker');
   const checker = await actorByEmail(testDb(), 'checker@demo.test');
-  const first = await submitForCheck(testDb(), preparer, sheet, { versionNumber: 1, checkerId: checker.userId, password: PASSWORD });
+  const first = await submitForCheck(testDb(), preparer, sheet, {
+    versionNumber: 1,
+    checkerId: checker.userId,
+    password: PASSWORD,
+  });
   await decide(testDb(), checker, first.id, { action: 'return', reason: 'Cite the survey.' });
   // The demo checker, also an originator here, then saves version 2.
   await grant(checker.userId, 'originator');
   const v1 = (await getVersion(testDb(), sheet.id))!;
-  await saveVersion(testDb(), checker, sheet, { parentNumber: v1.number, message: 'Spacing from the new survey', content: { ...v1.content, cells: v1.content.cells.map((c) => ({ ...c, source: c.source.replace('12.5 m', '12.52 m') })) } });
+  await saveVersion(testDb(), checker, sheet, {
+    parentNumber: v1.number,
+    message: 'Spacing from the new survey',
+    content: {
+      ...v1.content,
+      cells: v1.content.cells.map((c) => ({ ...c, source: c.source.replace('12.5 m', '12.52 m') })),
+    },
+  });
   app = await startApp();
   originator = await openBrowser();
   await submitSignIn(originator.page, app.baseUrl, 'originator@demo.test', DEMO_PASSWORD);

@@ -23,9 +23,17 @@ beforeAll(async () => {
   await resetDatabase();
   const db = testDb();
   await seedDemo(db);
-  const project = await db.selectFrom('projects').select(['id', 'code']).where('code', '=', 'TPT2').executeTakeFirstOrThrow();
+  const project = await db
+    .selectFrom('projects')
+    .select(['id', 'code'])
+    .where('code', '=', 'TPT2')
+    .executeTakeFirstOrThrow();
   const me = await actorByEmail(db, 'originator@demo.test');
-  const created = await createSheet(db, me, project, { title: 'Duplicate of the dipole rigidity sheet', safetyRelated: false, objective: 'Started twice by mistake.' });
+  const created = await createSheet(db, me, project, {
+    title: 'Duplicate of the dipole rigidity sheet',
+    safetyRelated: false,
+    objective: 'Started twice by mistake.',
+  });
   sheetNumber = created.number;
   app = await startApp();
 });
@@ -52,7 +60,9 @@ it('the originator voids a sheet never issued; the page and the list of sheets s
   await section.getByRole('button', { name: `Void ${code}` }).click();
   const banner = page.getByRole('status').filter({ hasText: /^Void since/ });
   await banner.waitFor();
-  expect(await banner.innerText()).toMatch(/Started twice; the work continues on TPT2-CALC-0001\..*cannot be saved, submitted or issued/);
+  expect(await banner.innerText()).toMatch(
+    /Started twice; the work continues on TPT2-CALC-0001\..*cannot be saved, submitted or issued/,
+  );
   expect(await page.getByRole('link', { name: 'Edit the sheet' }).count()).toBe(0);
   expect(await page.getByRole('region', { name: 'Submit for check' }).count()).toBe(0);
   expect(await page.getByRole('heading', { name: 'Created by mistake?' }).count()).toBe(0);

@@ -51,22 +51,119 @@ function thrown(fn: () => unknown): unknown {
 
 const expectBadRequest = (error: unknown) => {
   if (error === null) return;
-  if (!(error instanceof AppError)) throw new Error(`expected an AppError 400, got ${error instanceof Error ? `${error.name}: ${error.message}` : String(error)}`);
+  if (!(error instanceof AppError))
+    throw new Error(
+      `expected an AppError 400, got ${error instanceof Error ? `${error.name}: ${error.message}` : String(error)}`,
+    );
   expect(error.status).toBe(400);
 };
 
 // ── 1. Calculation source ──────────────────────────────────────────────────────────────────
 
 const LIBRARY_NAMES = LIBRARY.map((f) => f.name);
-const NAMES = ['x', 'y_1', 'T', 'E_k', 'v', 'beta', 'L', 'f', 'table', 'ans', ...CONSTANTS.map((c) => c.name), 'MeV', 'm', 's', 'pi', 'e', 'i', 'Infinity', 'NaN', 'true', 'null', 'end', 'to', 'in', 'import', 'createUnit', 'evaluate', 'config', 'constructor', '__proto__', 'prototype'];
-const UNITS = ['m', 'MeV', 'GeV', 'eV', 'T*m', 'm/s', 'km/h', 'kg', 'ns', 'us', 's', 'ft', 'degC', 'degF', 'rad', 'deg', 'C', 'J', 'T', 'A', 'MeV/c', 'GeV/c^2', 'm^2', 'kg m/s', '1/s', 'Hz', 'mm', 'foo'];
-const OPS = ['+', '-', '*', '/', '^', '.*', './', '%', ' mod ', ' and ', ' or ', ' xor ', '==', '!=', '&', '|', '<<', '>>'];
+const NAMES = [
+  'x',
+  'y_1',
+  'T',
+  'E_k',
+  'v',
+  'beta',
+  'L',
+  'f',
+  'table',
+  'ans',
+  ...CONSTANTS.map((c) => c.name),
+  'MeV',
+  'm',
+  's',
+  'pi',
+  'e',
+  'i',
+  'Infinity',
+  'NaN',
+  'true',
+  'null',
+  'end',
+  'to',
+  'in',
+  'import',
+  'createUnit',
+  'evaluate',
+  'config',
+  'constructor',
+  '__proto__',
+  'prototype',
+];
+const UNITS = [
+  'm',
+  'MeV',
+  'GeV',
+  'eV',
+  'T*m',
+  'm/s',
+  'km/h',
+  'kg',
+  'ns',
+  'us',
+  's',
+  'ft',
+  'degC',
+  'degF',
+  'rad',
+  'deg',
+  'C',
+  'J',
+  'T',
+  'A',
+  'MeV/c',
+  'GeV/c^2',
+  'm^2',
+  'kg m/s',
+  '1/s',
+  'Hz',
+  'mm',
+  'foo',
+];
+const OPS = [
+  '+',
+  '-',
+  '*',
+  '/',
+  '^',
+  '.*',
+  './',
+  '%',
+  ' mod ',
+  ' and ',
+  ' or ',
+  ' xor ',
+  '==',
+  '!=',
+  '&',
+  '|',
+  '<<',
+  '>>',
+];
 const CRITERIA = ['<', '<=', '>', '>=', '==', '!='];
 
 const numberText = fc.oneof(
   fc.integer({ min: -1000, max: 1000 }).map(String),
   fc.double({ noNaN: false }).map((d) => String(d)),
-  fc.constantFrom('0', '1e308', '1e-400', '1e999999', '-0', '0x1F', '0b101', '1_000', '.5', '5.', '1e', '2.5e-3', '6.02214076e23'),
+  fc.constantFrom(
+    '0',
+    '1e308',
+    '1e-400',
+    '1e999999',
+    '-0',
+    '0x1F',
+    '0b101',
+    '1_000',
+    '.5',
+    '5.',
+    '1e',
+    '2.5e-3',
+    '6.02214076e23',
+  ),
 );
 const name = fc.oneof(fc.constantFrom(...NAMES), fc.stringMatching(/^[a-zA-Z_][a-zA-Z0-9_]{0,8}$/));
 const unit = fc.constantFrom(...UNITS);
@@ -78,9 +175,30 @@ const { expr } = fc.letrec<{ expr: string }>((tie) => ({
     name,
     fc.tuple(numberText, unit).map(([n, u]) => `${n} ${u}`),
     fc.tuple(tie('expr'), fc.constantFrom(...OPS), tie('expr')).map(([a, op, b]) => `(${a} ${op} ${b})`),
-    fc.tuple(fc.constantFrom(...LIBRARY_NAMES, 'sqrt', 'sin', 'abs', 'max', 'log', 'exp', 'factorial', 'gamma', 'zeros', 'ones', 'range', 'det', 'inv', 'string', 'unit', 'number'), fc.array(tie('expr'), { maxLength: 4 })).map(
-      ([f, args]) => `${f}(${args.join(', ')})`,
-    ),
+    fc
+      .tuple(
+        fc.constantFrom(
+          ...LIBRARY_NAMES,
+          'sqrt',
+          'sin',
+          'abs',
+          'max',
+          'log',
+          'exp',
+          'factorial',
+          'gamma',
+          'zeros',
+          'ones',
+          'range',
+          'det',
+          'inv',
+          'string',
+          'unit',
+          'number',
+        ),
+        fc.array(tie('expr'), { maxLength: 4 }),
+      )
+      .map(([f, args]) => `${f}(${args.join(', ')})`),
     tie('expr').map((a) => `-${a}`),
     fc.tuple(tie('expr'), unit).map(([a, u]) => `${a} to ${u}`),
     fc.array(tie('expr'), { maxLength: 4 }).map((xs) => `[${xs.join(', ')}]`),
@@ -93,21 +211,43 @@ const statement = fc.oneof(
   fc.tuple(name, expr).map(([n, e]) => `${n} = ${e}`),
   expr,
   fc.tuple(expr, fc.constantFrom(...CRITERIA), expr).map(([a, c, b]) => `${a} ${c} ${b}`),
-  fc.tuple(name, fc.array(name, { minLength: 1, maxLength: 3 }), expr).map(([f, params, body]) => `${f}(${params.join(', ')}) = ${body}`),
+  fc
+    .tuple(name, fc.array(name, { minLength: 1, maxLength: 3 }), expr)
+    .map(([f, params, body]) => `${f}(${params.join(', ')}) = ${body}`),
   fc.tuple(name, expr, unit).map(([n, e, u]) => `${n} = ${e} to ${u}`),
   fc.constantFrom('# a comment', '', '   ', 'x =', '= 3', 'to m', '1 +', '((', ')', '"unclosed', "'", '\\', '@', '$x$'),
 );
 const calcSource = fc.array(statement, { minLength: 1, maxLength: 6 }).map((lines) => lines.join('\n'));
-const anySource = fc.oneof(calcSource, fc.string({ maxLength: 300, unit: 'binary' }), fc.string({ maxLength: 300, unit: 'grapheme' }));
-const cellsArb = fc.array(fc.tuple(fc.constantFrom<'calc' | 'text'>('calc', 'calc', 'calc', 'text'), anySource), { minLength: 1, maxLength: 4 }).map((cs): CellInput[] =>
-  cs.map(([kind, source], i) => ({ id: `c${i + 1}`, kind, source })),
+const anySource = fc.oneof(
+  calcSource,
+  fc.string({ maxLength: 300, unit: 'binary' }),
+  fc.string({ maxLength: 300, unit: 'grapheme' }),
 );
+const cellsArb = fc
+  .array(fc.tuple(fc.constantFrom<'calc' | 'text'>('calc', 'calc', 'calc', 'text'), anySource), {
+    minLength: 1,
+    maxLength: 4,
+  })
+  .map((cs): CellInput[] => cs.map(([kind, source], i) => ({ id: `c${i + 1}`, kind, source })));
 
 // A sheet that touches constants, prefixed and derived units, conversions, the library and a criterion.
 const REFERENCE: CellInput[] = [
-  { id: 'r1', kind: 'calc', source: 'T_kin = 250 MeV\nBrho = magneticRigidity(momentumFromKinetic(T_kin, m_p), q_e) to T*m\nBrho < 3 T*m' },
-  { id: 'r2', kind: 'calc', source: 'E_0 = m_p * c^2 to MeV\ngam = lorentzFactor(speedFromKinetic(T_kin, m_p))\nv_c = c to km/s' },
-  { id: 'r3', kind: 'calc', source: 'L = 1 ft to m\ndT = 10 degC to K\nq = q_e to C\nh = h_P * 1 Hz to eV\nm_ratio = m_p / m_e\ng = g_n to m/s^2\nx = 1 MeV to J' },
+  {
+    id: 'r1',
+    kind: 'calc',
+    source: 'T_kin = 250 MeV\nBrho = magneticRigidity(momentumFromKinetic(T_kin, m_p), q_e) to T*m\nBrho < 3 T*m',
+  },
+  {
+    id: 'r2',
+    kind: 'calc',
+    source: 'E_0 = m_p * c^2 to MeV\ngam = lorentzFactor(speedFromKinetic(T_kin, m_p))\nv_c = c to km/s',
+  },
+  {
+    id: 'r3',
+    kind: 'calc',
+    source:
+      'L = 1 ft to m\ndT = 10 degC to K\nq = q_e to C\nh = h_P * 1 Hz to eV\nm_ratio = m_p / m_e\ng = g_n to m/s^2\nx = 1 MeV to J',
+  },
 ];
 const comparable = (r: SheetResult) => JSON.stringify({ ...r, evaluatedCells: 0 });
 
@@ -155,56 +295,72 @@ describe('calculation source (common practice: the engine is total over its inpu
     expect(JSON.stringify(CONSTANTS)).toBe(constantsBefore);
   });
 
-  it('keeps the sandboxed evaluator answering after deep nesting, huge exponents and long strings', { timeout: 60_000 }, async () => {
-    const evaluator = getEvaluator();
-    const healthy = async () => {
-      const r = await evaluator.evaluate([{ id: 'h1', kind: 'calc', source: `x_h = ${Math.random().toFixed(6)} m\ny_h = x_h * 2 to cm` }], { significantFigures: 6 });
-      expect(r.ok).toBe(true);
-      expect(r.cells[0].statements[1].value?.unit).toBe('cm');
-    };
-    const nested = (depth: number, open = '(', close = ')') => `${open.repeat(depth)}1${close.repeat(depth)}`;
-    const longLine = 'a'.repeat(LIMITS.maxLineChars - 10);
-    const hostile = [
-      `x = ${nested(990)}`,
-      `x = ${nested(600, '[', ']')}`,
-      `x = ${nested(400, 'sqrt(', ')')}`,
-      Array.from({ length: 9 }, () => `y = ${nested(220)}`).join('\n'),
-      'x = 10^10^10^10^10',
-      'x = 1e308 MeV * 1e308 * 1e308',
-      'x = 2^1e308 m to km',
-      'x = factorial(1e6)',
-      'x = gamma(171.7)',
-      'x = ones(1000, 1001)',
-      'x = range(0, 1e12)',
-      `s = "${longLine}"`,
-      `s = "${'b'.repeat(LIMITS.maxCellSourceChars + 5)}"`,
-      Array.from({ length: 9 }, (_, i) => `s_${i} = "${'c'.repeat(1900)}"`).join('\n'),
-      'f(n) = f(n + 1)\ny = f(1)',
-      'f(n) = n > 0 ? f(n - 1) + f(n - 1) : 0\ny = f(60)',
-      'x = "\u202e\u0000\ud800"',
-      `x = ${'1 + '.repeat(480)}1`,
-    ];
-    await healthy();
-    for (const source of hostile) {
-      const cells: CellInput[] = [{ id: 'z1', kind: 'calc', source }];
-      const r = await evaluator.evaluate(cells, { significantFigures: 6 });
-      expectWellFormed(cells, r);
+  it(
+    'keeps the sandboxed evaluator answering after deep nesting, huge exponents and long strings',
+    { timeout: 60_000 },
+    async () => {
+      const evaluator = getEvaluator();
+      const healthy = async () => {
+        const r = await evaluator.evaluate(
+          [{ id: 'h1', kind: 'calc', source: `x_h = ${Math.random().toFixed(6)} m\ny_h = x_h * 2 to cm` }],
+          { significantFigures: 6 },
+        );
+        expect(r.ok).toBe(true);
+        expect(r.cells[0].statements[1].value?.unit).toBe('cm');
+      };
+      const nested = (depth: number, open = '(', close = ')') => `${open.repeat(depth)}1${close.repeat(depth)}`;
+      const longLine = 'a'.repeat(LIMITS.maxLineChars - 10);
+      const hostile = [
+        `x = ${nested(990)}`,
+        `x = ${nested(600, '[', ']')}`,
+        `x = ${nested(400, 'sqrt(', ')')}`,
+        Array.from({ length: 9 }, () => `y = ${nested(220)}`).join('\n'),
+        'x = 10^10^10^10^10',
+        'x = 1e308 MeV * 1e308 * 1e308',
+        'x = 2^1e308 m to km',
+        'x = factorial(1e6)',
+        'x = gamma(171.7)',
+        'x = ones(1000, 1001)',
+        'x = range(0, 1e12)',
+        `s = "${longLine}"`,
+        `s = "${'b'.repeat(LIMITS.maxCellSourceChars + 5)}"`,
+        Array.from({ length: 9 }, (_, i) => `s_${i} = "${'c'.repeat(1900)}"`).join('\n'),
+        'f(n) = f(n + 1)\ny = f(1)',
+        'f(n) = n > 0 ? f(n - 1) + f(n - 1) : 0\ny = f(60)',
+        'x = "\u202e\u0000\ud800"',
+        `x = ${'1 + '.repeat(480)}1`,
+      ];
       await healthy();
-    }
-    // And fast-check's own nesting of brackets, operators and exponents, a few at a time.
-    await fc.assert(
-      fc.asyncProperty(
-        fc.array(fc.tuple(fc.constantFrom('(', '[', 'sqrt(', '-', '2^', '10^', 'lorentzFactor(', '{'), fc.integer({ min: 1, max: 300 })), { minLength: 1, maxLength: 3 }),
-        async (parts) => {
-          const source = `x = ${parts.map(([p, n]) => p.repeat(n)).join('')}1e300${')'.repeat(200)}`.slice(0, LIMITS.maxLineChars + 50);
-          const cells: CellInput[] = [{ id: 'z2', kind: 'calc', source }];
-          expectWellFormed(cells, await evaluator.evaluate(cells, { significantFigures: 6 }));
-        },
-      ),
-      { numRuns: 25 },
-    );
-    await healthy();
-  });
+      for (const source of hostile) {
+        const cells: CellInput[] = [{ id: 'z1', kind: 'calc', source }];
+        const r = await evaluator.evaluate(cells, { significantFigures: 6 });
+        expectWellFormed(cells, r);
+        await healthy();
+      }
+      // And fast-check's own nesting of brackets, operators and exponents, a few at a time.
+      await fc.assert(
+        fc.asyncProperty(
+          fc.array(
+            fc.tuple(
+              fc.constantFrom('(', '[', 'sqrt(', '-', '2^', '10^', 'lorentzFactor(', '{'),
+              fc.integer({ min: 1, max: 300 }),
+            ),
+            { minLength: 1, maxLength: 3 },
+          ),
+          async (parts) => {
+            const source = `x = ${parts.map(([p, n]) => p.repeat(n)).join('')}1e300${')'.repeat(200)}`.slice(
+              0,
+              LIMITS.maxLineChars + 50,
+            );
+            const cells: CellInput[] = [{ id: 'z2', kind: 'calc', source }];
+            expectWellFormed(cells, await evaluator.evaluate(cells, { significantFigures: 6 }));
+          },
+        ),
+        { numRuns: 25 },
+      );
+      await healthy();
+    },
+  );
 });
 
 // ── 2. Sheet files for import ──────────────────────────────────────────────────────────────
@@ -214,7 +370,11 @@ const VALID_FILE = {
   significantFigures: 6,
   safetyRelated: true,
   cells: [
-    { id: 'c1', kind: 'calc', source: 'T_kin = 250 MeV\nBrho = magneticRigidity(momentumFromKinetic(T_kin, m_p), q_e) to T*m' },
+    {
+      id: 'c1',
+      kind: 'calc',
+      source: 'T_kin = 250 MeV\nBrho = magneticRigidity(momentumFromKinetic(T_kin, m_p), q_e) to T*m',
+    },
     { id: 'c2', kind: 'text', source: '# Result\n\nBρ is *under* 3 T·m.' },
   ],
   record: { objective: 'Bρ of the dipoles', inputs: [], assumptions: [], method: '', references: [], conclusions: '' },
@@ -223,13 +383,59 @@ const VALID_FILE = {
 
 const nasty = fc.oneof(
   fc.jsonValue({ maxDepth: 3 }),
-  fc.constantFrom('', ' ', '\u0000', 'a\u0000b', '\ud800', '\udfff x', '\u202e', 'x'.repeat(301), 'c1', 'C1', '-a', 'a'.repeat(41), 1.5, -1, 0, 16, 1e309, null, true, [], {}, { __proto__: { polluted: true } }),
+  fc.constantFrom(
+    '',
+    ' ',
+    '\u0000',
+    'a\u0000b',
+    '\ud800',
+    '\udfff x',
+    '\u202e',
+    'x'.repeat(301),
+    'c1',
+    'C1',
+    '-a',
+    'a'.repeat(41),
+    1.5,
+    -1,
+    0,
+    16,
+    1e309,
+    null,
+    true,
+    [],
+    {},
+    { __proto__: { polluted: true } },
+  ),
   fc.string({ maxLength: 40, unit: 'binary' }),
 );
-const FILE_PATHS: Array<Array<string | number>> = [[], ['title'], ['significantFigures'], ['safetyRelated'], ['cells'], ['cells', 0], ['cells', 0, 'id'], ['cells', 0, 'kind'], ['cells', 0, 'source'], ['cells', 1, 'id'], ['cells', 1], ['record'], ['record', 'objective'], ['record', 'inputs'], ['exportedFrom'], ['__proto__'], ['constructor'], ['cells', 5]];
+const FILE_PATHS: Array<Array<string | number>> = [
+  [],
+  ['title'],
+  ['significantFigures'],
+  ['safetyRelated'],
+  ['cells'],
+  ['cells', 0],
+  ['cells', 0, 'id'],
+  ['cells', 0, 'kind'],
+  ['cells', 0, 'source'],
+  ['cells', 1, 'id'],
+  ['cells', 1],
+  ['record'],
+  ['record', 'objective'],
+  ['record', 'inputs'],
+  ['exportedFrom'],
+  ['__proto__'],
+  ['constructor'],
+  ['cells', 5],
+];
 
 type Mutation = { path: Array<string | number>; op: 'set' | 'delete' | 'duplicate'; value: unknown };
-const mutation: fc.Arbitrary<Mutation> = fc.record({ path: fc.constantFrom(...FILE_PATHS), op: fc.constantFrom('set', 'set', 'delete', 'duplicate'), value: nasty });
+const mutation: fc.Arbitrary<Mutation> = fc.record({
+  path: fc.constantFrom(...FILE_PATHS),
+  op: fc.constantFrom('set', 'set', 'delete', 'duplicate'),
+  value: nasty,
+});
 
 function mutate(file: unknown, mutations: Mutation[]): unknown {
   let root = structuredClone(file) as Record<string | number, unknown>;
@@ -246,19 +452,30 @@ function mutate(file: unknown, mutations: Mutation[]): unknown {
     if (!target || typeof target !== 'object') continue;
     const last = m.path[m.path.length - 1];
     // defineProperty, so that "__proto__" becomes an own key as JSON.parse would make it.
-    if (m.op === 'set') Object.defineProperty(target, last, { value: m.value, enumerable: true, writable: true, configurable: true });
+    if (m.op === 'set')
+      Object.defineProperty(target, last, { value: m.value, enumerable: true, writable: true, configurable: true });
     else if (m.op === 'delete') delete target[last];
-    else if (Array.isArray(target) && typeof last === 'number' && target[last] !== undefined) target.push(structuredClone(target[last]));
+    else if (Array.isArray(target) && typeof last === 'number' && target[last] !== undefined)
+      target.push(structuredClone(target[last]));
   }
   return root;
 }
 
-const mutatedFileText = fc.tuple(fc.array(mutation, { minLength: 1, maxLength: 4 }), fc.boolean()).map(([ms, pretty]) => JSON.stringify(mutate(VALID_FILE, ms), null, pretty ? 2 : undefined) ?? 'undefined');
+const mutatedFileText = fc
+  .tuple(fc.array(mutation, { minLength: 1, maxLength: 4 }), fc.boolean())
+  .map(([ms, pretty]) => JSON.stringify(mutate(VALID_FILE, ms), null, pretty ? 2 : undefined) ?? 'undefined');
 const anyFileText = fc.oneof(
   mutatedFileText,
   fc.jsonValue().map((v) => JSON.stringify(v)),
   fc.string({ maxLength: 200, unit: 'binary' }),
-  fc.constantFrom('{"title": "x", "cells": [], "__proto__": {"polluted": 1}}', '{"title": "x", "cells": [{"kind": "calc", "source": "x = 1", "constructor": {"prototype": {"polluted": 1}}}]}', '[]', 'null', '{', '\ufeff{"title":"x","cells":[]}'),
+  fc.constantFrom(
+    '{"title": "x", "cells": [], "__proto__": {"polluted": 1}}',
+    '{"title": "x", "cells": [{"kind": "calc", "source": "x = 1", "constructor": {"prototype": {"polluted": 1}}}]}',
+    '[]',
+    'null',
+    '{',
+    '\ufeff{"title":"x","cells":[]}',
+  ),
 );
 
 describe('sheet files for import (common practice: a parser answers with a value or its own refusal)', () => {
@@ -279,47 +496,66 @@ describe('sheet files for import (common practice: a parser answers with a value
     expect(({} as Record<string, unknown>).polluted).toBeUndefined();
   });
 
-  it('imports a mutated sheet file into a new sheet, or refuses it with AppError 400', { timeout: 90_000 }, async () => {
-    const db = testDb();
-    const author = await makeUser(db, 'author@example.test');
-    const projectId = await makeProject(db, 'IMP', [[author, 'originator']]);
-    const project = { id: projectId, code: 'IMP' };
-    const outcomes = { imported: 0, refused: 0, refusedByDatabase: 0 };
-    const sheetCount = async () => Number((await db.selectFrom('sheets').select((eb) => eb.fn.countAll().as('n')).executeTakeFirstOrThrow()).n);
-    await fc.assert(
-      fc.asyncProperty(fc.oneof(mutatedFileText, mutatedFileText, fc.jsonValue({ maxDepth: 2 }).map((v) => JSON.stringify(v))), async (text) => {
-        const before = await sheetCount();
-        try {
-          const sheet = await importSheetFile(db, author, project, text);
-          expect(sheet.version).toBe(2);
-          outcomes.imported++;
-        } catch (error) {
-          // Text PostgreSQL cannot store (U+0000) is refused by the database; the route handler's
-          // errorResponse answers it with 400 like the refusals of the parser.
-          if (isUnstorableTextError(error)) outcomes.refusedByDatabase++;
-          else expectBadRequest(error);
-          expect(errorResponse(error).status).toBe(400);
-          // A refused import leaves no sheet behind.
-          expect(await sheetCount()).toBe(before);
-          outcomes.refused++;
-        }
-      }),
-      {
-        numRuns: 60,
-        // Text PostgreSQL cannot store, in each place a file puts text.
-        examples: [
-          [JSON.stringify({ ...VALID_FILE, title: 'Rigidity\u0000' })],
-          [JSON.stringify({ ...VALID_FILE, cells: [{ kind: 'calc', source: 'x = 1 m # \u0000' }] })],
-          [JSON.stringify({ ...VALID_FILE, cells: [{ kind: 'text', source: 'half a pair \ud800' }] })],
-          [JSON.stringify({ ...VALID_FILE, title: 'half a pair \udc00' })],
-          [JSON.stringify({ ...VALID_FILE, record: { ...VALID_FILE.record, objective: '\u0000' } })],
-        ],
-      },
-    );
-    // Both paths were taken.
-    expect(outcomes.imported).toBeGreaterThan(0);
-    expect(outcomes.refused).toBeGreaterThan(0);
-  });
+  it(
+    'imports a mutated sheet file into a new sheet, or refuses it with AppError 400',
+    { timeout: 90_000 },
+    async () => {
+      const db = testDb();
+      const author = await makeUser(db, 'author@example.test');
+      const projectId = await makeProject(db, 'IMP', [[author, 'originator']]);
+      const project = { id: projectId, code: 'IMP' };
+      const outcomes = { imported: 0, refused: 0, refusedByDatabase: 0 };
+      const sheetCount = async () =>
+        Number(
+          (
+            await db
+              .selectFrom('sheets')
+              .select((eb) => eb.fn.countAll().as('n'))
+              .executeTakeFirstOrThrow()
+          ).n,
+        );
+      await fc.assert(
+        fc.asyncProperty(
+          fc.oneof(
+            mutatedFileText,
+            mutatedFileText,
+            fc.jsonValue({ maxDepth: 2 }).map((v) => JSON.stringify(v)),
+          ),
+          async (text) => {
+            const before = await sheetCount();
+            try {
+              const sheet = await importSheetFile(db, author, project, text);
+              expect(sheet.version).toBe(2);
+              outcomes.imported++;
+            } catch (error) {
+              // Text PostgreSQL cannot store (U+0000) is refused by the database; the route handler's
+              // errorResponse answers it with 400 like the refusals of the parser.
+              if (isUnstorableTextError(error)) outcomes.refusedByDatabase++;
+              else expectBadRequest(error);
+              expect(errorResponse(error).status).toBe(400);
+              // A refused import leaves no sheet behind.
+              expect(await sheetCount()).toBe(before);
+              outcomes.refused++;
+            }
+          },
+        ),
+        {
+          numRuns: 60,
+          // Text PostgreSQL cannot store, in each place a file puts text.
+          examples: [
+            [JSON.stringify({ ...VALID_FILE, title: 'Rigidity\u0000' })],
+            [JSON.stringify({ ...VALID_FILE, cells: [{ kind: 'calc', source: 'x = 1 m # \u0000' }] })],
+            [JSON.stringify({ ...VALID_FILE, cells: [{ kind: 'text', source: 'half a pair \ud800' }] })],
+            [JSON.stringify({ ...VALID_FILE, title: 'half a pair \udc00' })],
+            [JSON.stringify({ ...VALID_FILE, record: { ...VALID_FILE.record, objective: '\u0000' } })],
+          ],
+        },
+      );
+      // Both paths were taken.
+      expect(outcomes.imported).toBeGreaterThan(0);
+      expect(outcomes.refused).toBeGreaterThan(0);
+    },
+  );
 });
 
 // ── 3. API bodies and query parameters ─────────────────────────────────────────────────────
@@ -329,7 +565,9 @@ function shaped(schema: ZodType): fc.Arbitrary<unknown> {
   const shape = (schema as unknown as { shape?: Record<string, unknown> }).shape;
   if (!shape || typeof shape !== 'object') return fc.jsonValue({ maxDepth: 3 });
   const keys = Object.keys(shape);
-  return fc.dictionary(fc.constantFrom(...keys, '__proto__', 'extra'), fc.oneof(fc.jsonValue({ maxDepth: 3 }), nasty), { maxKeys: keys.length + 2 });
+  return fc.dictionary(fc.constantFrom(...keys, '__proto__', 'extra'), fc.oneof(fc.jsonValue({ maxDepth: 3 }), nasty), {
+    maxKeys: keys.length + 2,
+  });
 }
 
 function expectParsedOrBadRequest(value: unknown, schema: ZodType) {
@@ -339,9 +577,17 @@ function expectParsedOrBadRequest(value: unknown, schema: ZodType) {
 }
 
 describe('API bodies and query parameters (common practice: validation answers 400, never 500)', () => {
-  const bodies = OPERATIONS.filter((op) => op.body && op.body.schema !== 'binary').map((op) => ({ id: op.operationId, schema: op.body!.schema as ZodType }));
-  const queries = OPERATIONS.filter((op) => op.query).map((op) => ({ id: op.operationId, schema: op.query! as ZodType }));
-  const params = OPERATIONS.flatMap((op) => Object.entries(op.params ?? {}).map(([p, spec]) => ({ id: `${op.operationId}.${p}`, schema: spec.schema })));
+  const bodies = OPERATIONS.filter((op) => op.body && op.body.schema !== 'binary').map((op) => ({
+    id: op.operationId,
+    schema: op.body!.schema as ZodType,
+  }));
+  const queries = OPERATIONS.filter((op) => op.query).map((op) => ({
+    id: op.operationId,
+    schema: op.query! as ZodType,
+  }));
+  const params = OPERATIONS.flatMap((op) =>
+    Object.entries(op.params ?? {}).map(([p, spec]) => ({ id: `${op.operationId}.${p}`, schema: spec.schema })),
+  );
 
   it('has schemas to fuzz', () => {
     expect(bodies.length).toBeGreaterThan(15);
@@ -351,65 +597,120 @@ describe('API bodies and query parameters (common practice: validation answers 4
   it('answers arbitrary JSON bodies, shaped or not, with a value or AppError 400', () => {
     for (const { id, schema } of bodies) {
       fc.assert(
-        fc.property(fc.oneof(fc.jsonValue({ maxDepth: 4 }), shaped(schema), fc.json().map((t) => JSON.parse(t) as unknown)), (value) => expectParsedOrBadRequest(value, schema)),
+        fc.property(
+          fc.oneof(
+            fc.jsonValue({ maxDepth: 4 }),
+            shaped(schema),
+            fc.json().map((t) => JSON.parse(t) as unknown),
+          ),
+          (value) => expectParsedOrBadRequest(value, schema),
+        ),
         { numRuns: 120, seed: hashSeed(id) },
       );
     }
   });
 
   it('answers arbitrary query strings (records of strings) and path parameters with a value or AppError 400', () => {
-    const text = fc.oneof(fc.string({ maxLength: 30 }), fc.string({ maxLength: 30, unit: 'binary' }), fc.constantFrom('', '0', '-1', '1e400', 'NaN', 'Infinity', '0x10', '9'.repeat(30), 'true', '1,2', '../', '%00'));
+    const text = fc.oneof(
+      fc.string({ maxLength: 30 }),
+      fc.string({ maxLength: 30, unit: 'binary' }),
+      fc.constantFrom('', '0', '-1', '1e400', 'NaN', 'Infinity', '0x10', '9'.repeat(30), 'true', '1,2', '../', '%00'),
+    );
     for (const { id, schema } of queries) {
       const shape = Object.keys((schema as unknown as { shape: Record<string, unknown> }).shape);
       fc.assert(
-        fc.property(fc.dictionary(fc.oneof(fc.constantFrom(...shape), fc.string({ maxLength: 8 })), text, { maxKeys: shape.length + 2 }), (query) => expectParsedOrBadRequest(query, schema)),
+        fc.property(
+          fc.dictionary(fc.oneof(fc.constantFrom(...shape), fc.string({ maxLength: 8 })), text, {
+            maxKeys: shape.length + 2,
+          }),
+          (query) => expectParsedOrBadRequest(query, schema),
+        ),
         { numRuns: 150, seed: hashSeed(id) },
       );
     }
     for (const { id, schema } of params) {
-      fc.assert(fc.property(text, (value) => expectParsedOrBadRequest(value, schema)), { numRuns: 60, seed: hashSeed(id) });
+      fc.assert(
+        fc.property(text, (value) => expectParsedOrBadRequest(value, schema)),
+        { numRuns: 60, seed: hashSeed(id) },
+      );
     }
   });
 });
 
 describe('text the database cannot store (common practice: refuse at the door, not half way through a save)', () => {
-  const saveBody = (source: string, message = 'edit') => ({ parentNumber: 1, message, content: { schema: 1, title: 'T', safetyRelated: false, significantFigures: 6, record: { objective: '', inputs: [], assumptions: [], method: '', references: [], conclusions: '' }, cells: [{ id: 'c1', kind: 'calc', source }], attachments: [] } });
+  const saveBody = (source: string, message = 'edit') => ({
+    parentNumber: 1,
+    message,
+    content: {
+      schema: 1,
+      title: 'T',
+      safetyRelated: false,
+      significantFigures: 6,
+      record: { objective: '', inputs: [], assumptions: [], method: '', references: [], conclusions: '' },
+      cells: [{ id: 'c1', kind: 'calc', source }],
+      attachments: [],
+    },
+  });
 
   it('refuses U+0000 and half surrogate pairs anywhere in a body with a 400 naming where', () => {
     const bad = fc.constantFrom('\u0000', '\ud800', '\udbff', '\udc00', '\udfff');
     fc.assert(
-      fc.property(fc.string({ maxLength: 20 }), bad, fc.string({ maxLength: 20 }), fc.boolean(), (before, char, after, inMessage) => {
-        const text = before + char + after;
-        const body = inMessage ? saveBody('x = 1', text) : saveBody(text);
-        const error = thrown(() => parseValue(body, saveVersionSchema));
-        expect(error).toBeInstanceOf(AppError);
-        expect((error as AppError).status).toBe(400);
-        expect((error as AppError).message).toMatch(inMessage ? /^message: / : /^content\.cells\.0\.source: /);
-      }),
+      fc.property(
+        fc.string({ maxLength: 20 }),
+        bad,
+        fc.string({ maxLength: 20 }),
+        fc.boolean(),
+        (before, char, after, inMessage) => {
+          const text = before + char + after;
+          const body = inMessage ? saveBody('x = 1', text) : saveBody(text);
+          const error = thrown(() => parseValue(body, saveVersionSchema));
+          expect(error).toBeInstanceOf(AppError);
+          expect((error as AppError).status).toBe(400);
+          expect((error as AppError).message).toMatch(inMessage ? /^message: / : /^content\.cells\.0\.source: /);
+        },
+      ),
       { numRuns: 100 },
     );
     // A whole surrogate pair is a character like any other.
-    expect(parseValue(saveBody('x = 1 # \u{1d49c}'), saveVersionSchema).content.cells[0].source).toBe('x = 1 # \u{1d49c}');
+    expect(parseValue(saveBody('x = 1 # \u{1d49c}'), saveVersionSchema).content.cells[0].source).toBe(
+      'x = 1 # \u{1d49c}',
+    );
   });
 
   it('answers 400, with nothing written, when such text reaches the database another way', async () => {
     const db = testDb();
     const author = await makeUser(db, 'author@example.test');
     const projectId = await makeProject(db, 'NUL', [[author, 'originator']]);
-    const created = await createSheet(db, author, { id: projectId, code: 'NUL' }, { title: 'Nul', safetyRelated: false, objective: '' });
+    const created = await createSheet(
+      db,
+      author,
+      { id: projectId, code: 'NUL' },
+      { title: 'Nul', safetyRelated: false, objective: '' },
+    );
     const sheet = { id: created.id, project_id: projectId };
     const v1 = (await getVersion(db, sheet.id, 1))!;
-    for (const input of [{ message: 'edit\u0000', source: 'x = 1' }, { message: 'edit', source: 'x = 1 # \u0000' }]) {
+    for (const input of [
+      { message: 'edit\u0000', source: 'x = 1' },
+      { message: 'edit', source: 'x = 1 # \u0000' },
+    ]) {
       let error: unknown = null;
       try {
-        await saveVersion(db, author, sheet, { parentNumber: 1, message: input.message, content: { ...v1.content, cells: [{ id: 'c1', kind: 'calc', source: input.source }] } });
+        await saveVersion(db, author, sheet, {
+          parentNumber: 1,
+          message: input.message,
+          content: { ...v1.content, cells: [{ id: 'c1', kind: 'calc', source: input.source }] },
+        });
       } catch (e) {
         error = e;
       }
       expect(isUnstorableTextError(error)).toBe(true);
       expect(errorResponse(error).status).toBe(400);
     }
-    expect((await db.selectFrom('versions').select('number').where('sheet_id', '=', sheet.id).execute()).map((v) => v.number)).toEqual([1]);
+    expect(
+      (await db.selectFrom('versions').select('number').where('sheet_id', '=', sheet.id).execute()).map(
+        (v) => v.number,
+      ),
+    ).toEqual([1]);
   });
 });
 
@@ -464,8 +765,51 @@ const PAYLOADS = [
   '```\n<script>alert(1)</script>\n```',
   '| a | b |\n| --- | --- |\n| <img src=x onerror=alert(1)> | x |',
 ];
-const FRAGMENTS = ['\n', '\n\n', ' ', '[', ']', '(', ')', '<', '>', '"', "'", '`', '$', '$$', '\\', '*', '_', '#', '> ', '- ', '1. ', '&', '&#', ';', '=', 'on', 'error', 'javascript', ':', 'script', 'http://', 'mailto:'];
-const markdownSource = fc.array(fc.oneof(fc.constantFrom(...PAYLOADS), fc.constantFrom(...FRAGMENTS), fc.string({ maxLength: 20 }), fc.string({ maxLength: 10, unit: 'binary' })), { minLength: 1, maxLength: 25 }).map((parts) => parts.join(''));
+const FRAGMENTS = [
+  '\n',
+  '\n\n',
+  ' ',
+  '[',
+  ']',
+  '(',
+  ')',
+  '<',
+  '>',
+  '"',
+  "'",
+  '`',
+  '$',
+  '$$',
+  '\\',
+  '*',
+  '_',
+  '#',
+  '> ',
+  '- ',
+  '1. ',
+  '&',
+  '&#',
+  ';',
+  '=',
+  'on',
+  'error',
+  'javascript',
+  ':',
+  'script',
+  'http://',
+  'mailto:',
+];
+const markdownSource = fc
+  .array(
+    fc.oneof(
+      fc.constantFrom(...PAYLOADS),
+      fc.constantFrom(...FRAGMENTS),
+      fc.string({ maxLength: 20 }),
+      fc.string({ maxLength: 10, unit: 'binary' }),
+    ),
+    { minLength: 1, maxLength: 25 },
+  )
+  .map((parts) => parts.join(''));
 
 /** Decodes the character references an HTML parser would decode in an attribute value. */
 function decodeEntities(value: string): string {
@@ -484,8 +828,44 @@ function decodeEntities(value: string): string {
 
 const TAG = /<(\/?)([a-zA-Z][a-zA-Z0-9:-]*)((?:\s+[^\s=/>]+(?:\s*=\s*(?:"[^"]*"|'[^']*'|[^\s>"']+))?)*)\s*(\/?)>/g;
 const ATTRIBUTE = /([^\s=/>]+)(?:\s*=\s*(?:"([^"]*)"|'([^']*)'|([^\s>"']+)))?/g;
-const FORBIDDEN_TAGS = new Set(['script', 'iframe', 'frame', 'frameset', 'object', 'embed', 'style', 'img', 'image', 'link', 'meta', 'base', 'form', 'input', 'button', 'video', 'audio', 'source', 'foreignobject', 'use', 'animate', 'set', 'template', 'body', 'html']);
-const URL_ATTRIBUTES = new Set(['href', 'src', 'srcset', 'action', 'formaction', 'xlink:href', 'data', 'poster', 'background']);
+const FORBIDDEN_TAGS = new Set([
+  'script',
+  'iframe',
+  'frame',
+  'frameset',
+  'object',
+  'embed',
+  'style',
+  'img',
+  'image',
+  'link',
+  'meta',
+  'base',
+  'form',
+  'input',
+  'button',
+  'video',
+  'audio',
+  'source',
+  'foreignobject',
+  'use',
+  'animate',
+  'set',
+  'template',
+  'body',
+  'html',
+]);
+const URL_ATTRIBUTES = new Set([
+  'href',
+  'src',
+  'srcset',
+  'action',
+  'formaction',
+  'xlink:href',
+  'data',
+  'poster',
+  'background',
+]);
 
 /** Tokenises the output's tags and attributes and returns what would act in a browser. */
 function activeMarkup(html: string): string[] {
@@ -500,9 +880,11 @@ function activeMarkup(html: string): string[] {
       if (/^on/.test(attrName)) problems.push(`event handler ${attrName} on <${tagName}>`);
       // Browsers drop ASCII tab and newline anywhere in a URL and leading spaces and controls (WHATWG URL).
       const url = value.replace(/[\t\n\r]/g, '').replace(/^[\u0000-\u0020]+/, '');
-      if (URL_ATTRIBUTES.has(attrName) && !/^(?:https?:\/\/|mailto:)/i.test(url)) problems.push(`${attrName}="${value}" on <${tagName}>`);
+      if (URL_ATTRIBUTES.has(attrName) && !/^(?:https?:\/\/|mailto:)/i.test(url))
+        problems.push(`${attrName}="${value}" on <${tagName}>`);
       if (/^(?:javascript|vbscript|data):/i.test(url)) problems.push(`script URL in ${attrName}`);
-      if (attrName === 'style' && /url\s*\(|expression\s*\(|javascript:|@import|behavior\s*:/i.test(value)) problems.push(`style ${value}`);
+      if (attrName === 'style' && /url\s*\(|expression\s*\(|javascript:|@import|behavior\s*:/i.test(value))
+        problems.push(`style ${value}`);
     }
   }
   // Every `<` left outside a tag the tokenizer read would be a tag a browser might read differently.
@@ -512,7 +894,9 @@ function activeMarkup(html: string): string[] {
 
 describe('Markdown with script (OWASP Cross Site Scripting Prevention Cheat Sheet: no script, no handlers, no script URLs)', () => {
   it('the checker sees script where there is script', () => {
-    expect(activeMarkup('<p><img src=x onerror=alert(1)></p>')).toEqual(expect.arrayContaining(['element <img>', 'event handler onerror on <img>']));
+    expect(activeMarkup('<p><img src=x onerror=alert(1)></p>')).toEqual(
+      expect.arrayContaining(['element <img>', 'event handler onerror on <img>']),
+    );
     expect(activeMarkup('<a href="&#106;avascript:alert(1)">x</a>')).toContain('script URL in href');
     expect(activeMarkup('<a href="java&#x09;script:x">x</a>')).toContain('script URL in href');
     expect(activeMarkup('<span style="background:url(x)">')).toHaveLength(1);
@@ -533,16 +917,84 @@ describe('Markdown with script (OWASP Cross Site Scripting Prevention Cheat Shee
 
 // ── 5. Attachment file names ───────────────────────────────────────────────────────────────
 
-const NAME_PARTS = ['../', '..\\', '/', '\\', '//', 'C:\\Windows\\', '/etc/', '\\\\server\\share\\', '~/', '.', '..', ' ', '\u0000', '\u0001', '\u001f', '\u007f', '\u0085', '\u009f', '\u202e', '\u202d', '\u2066', '\u200f', '\ufeff', '\t', '\n', '\r', '%2e%2e%2f', '%00', 'passwd', 'CON', 'évaluation', 'e\u0301', '𝒜𝒷', '日本語', '<script>', '"', "'", ':', '*', '?', '|', '.pdf', '.csv', '.PNG', '.jpeg', '.JPG', '.exe', '.pdf.exe', 'fdp.exe', '.', '_', '-'];
+const NAME_PARTS = [
+  '../',
+  '..\\',
+  '/',
+  '\\',
+  '//',
+  'C:\\Windows\\',
+  '/etc/',
+  '\\\\server\\share\\',
+  '~/',
+  '.',
+  '..',
+  ' ',
+  '\u0000',
+  '\u0001',
+  '\u001f',
+  '\u007f',
+  '\u0085',
+  '\u009f',
+  '\u202e',
+  '\u202d',
+  '\u2066',
+  '\u200f',
+  '\ufeff',
+  '\t',
+  '\n',
+  '\r',
+  '%2e%2e%2f',
+  '%00',
+  'passwd',
+  'CON',
+  'évaluation',
+  'e\u0301',
+  '𝒜𝒷',
+  '日本語',
+  '<script>',
+  '"',
+  "'",
+  ':',
+  '*',
+  '?',
+  '|',
+  '.pdf',
+  '.csv',
+  '.PNG',
+  '.jpeg',
+  '.JPG',
+  '.exe',
+  '.pdf.exe',
+  'fdp.exe',
+  '.',
+  '_',
+  '-',
+];
 const fileName = fc.oneof(
-  fc.array(fc.oneof(fc.constantFrom(...NAME_PARTS), fc.string({ maxLength: 12 }), fc.string({ maxLength: 6, unit: 'binary' })), { maxLength: 20 }).map((p) => p.join('')),
-  fc.tuple(fc.constantFrom('', '../', '/', 'C:\\'), fc.string({ minLength: 100, maxLength: 400, unit: 'grapheme' }), fc.constantFrom('', '.pdf', '.csv', '.png', '.jpg', '.exe')).map(([a, b, c]) => a + b + c),
+  fc
+    .array(
+      fc.oneof(
+        fc.constantFrom(...NAME_PARTS),
+        fc.string({ maxLength: 12 }),
+        fc.string({ maxLength: 6, unit: 'binary' }),
+      ),
+      { maxLength: 20 },
+    )
+    .map((p) => p.join('')),
+  fc
+    .tuple(
+      fc.constantFrom('', '../', '/', 'C:\\'),
+      fc.string({ minLength: 100, maxLength: 400, unit: 'grapheme' }),
+      fc.constantFrom('', '.pdf', '.csv', '.png', '.jpg', '.exe'),
+    )
+    .map(([a, b, c]) => a + b + c),
   fc.string({ maxLength: 200, unit: 'binary' }),
 );
 const kindArb = fc.constantFrom<AttachmentKind>('pdf', 'png', 'jpeg', 'csv');
 
 describe('attachment file names (OWASP Path Traversal; OWASP File Upload Cheat Sheet: filename sanitisation)', () => {
-  it('keeps no folder, control or bidirectional character, no leading dot, the kind\'s extension, at most 120 characters', () => {
+  it("keeps no folder, control or bidirectional character, no leading dot, the kind's extension, at most 120 characters", () => {
     fc.assert(
       fc.property(fileName, kindArb, (raw, kind) => {
         const name = sanitizeFileName(raw, kind);
@@ -567,15 +1019,65 @@ describe('attachment file names (OWASP Path Traversal; OWASP File Upload Cheat S
 
 // ── 6. Bidirectional control characters (UAX #9; CVE-2021-42574, "Trojan Source") ─────────
 
-const BIDI = ['\u061c', '\u200e', '\u200f', '\u202a', '\u202b', '\u202c', '\u202d', '\u202e', '\u2066', '\u2067', '\u2068', '\u2069'];
+const BIDI = [
+  '\u061c',
+  '\u200e',
+  '\u200f',
+  '\u202a',
+  '\u202b',
+  '\u202c',
+  '\u202d',
+  '\u202e',
+  '\u2066',
+  '\u2067',
+  '\u2068',
+  '\u2069',
+];
 const BIDI_ANY = /[\u061c\u200e\u200f\u202a-\u202e\u2066-\u2069]/;
-const withBidi = fc.array(fc.oneof(fc.constantFrom(...BIDI, '#', '\n', '$', '**', '`', '[a](https://x.test/', ')', ' ', 'x = 1', '⟦U+202E⟧', 'שלום', 'مرحبا'), fc.string({ maxLength: 8 })), { maxLength: 24 }).map((p) => p.join(''));
+const withBidi = fc
+  .array(
+    fc.oneof(
+      fc.constantFrom(
+        ...BIDI,
+        '#',
+        '\n',
+        '$',
+        '**',
+        '`',
+        '[a](https://x.test/',
+        ')',
+        ' ',
+        'x = 1',
+        '⟦U+202E⟧',
+        'שלום',
+        'مرحبا',
+      ),
+      fc.string({ maxLength: 8 }),
+    ),
+    { maxLength: 24 },
+  )
+  .map((p) => p.join(''));
 
 describe('bidirectional control characters (UAX #9; CVE-2021-42574): refused in calculation sources, shown everywhere else', () => {
   it('a calculation source is refused (400, naming the cell and the code point) exactly when it holds one; a text cell never is', () => {
     fc.assert(
       fc.property(withBidi, withBidi, (calc, text) => {
-        const body = { parentNumber: 1, message: 'm', content: { schema: 1, title: 't', safetyRelated: false, significantFigures: 6, record: { objective: '', inputs: [], assumptions: [], method: '', references: [], conclusions: '' }, cells: [{ id: 't1', kind: 'text', source: text }, { id: 'c2', kind: 'calc', source: calc }], attachments: [] } };
+        const body = {
+          parentNumber: 1,
+          message: 'm',
+          content: {
+            schema: 1,
+            title: 't',
+            safetyRelated: false,
+            significantFigures: 6,
+            record: { objective: '', inputs: [], assumptions: [], method: '', references: [], conclusions: '' },
+            cells: [
+              { id: 't1', kind: 'text', source: text },
+              { id: 'c2', kind: 'calc', source: calc },
+            ],
+            attachments: [],
+          },
+        };
         let refusal: AppError | null = null;
         try {
           parseValue(body, saveVersionSchema);
@@ -585,7 +1087,9 @@ describe('bidirectional control characters (UAX #9; CVE-2021-42574): refused in 
         }
         if (BIDI_ANY.test(calc)) {
           expect(refusal?.status).toBe(400);
-          expect(refusal?.message).toMatch(/^content\.cells\.1\.source: cell 2: holds U\+(061C|200E|200F|202[A-E]|206[6-9]) \([A-Z -]+\) on line \d+, /);
+          expect(refusal?.message).toMatch(
+            /^content\.cells\.1\.source: cell 2: holds U\+(061C|200E|200F|202[A-E]|206[6-9]) \([A-Z -]+\) on line \d+, /,
+          );
         } else {
           expect(refusal).toBeNull();
         }
@@ -609,10 +1113,27 @@ describe('path parameters (common practice: an id that names nothing is a 404, n
   const uuidLike = fc.oneof(
     fc.uuid(),
     fc.stringMatching(/^[0-9a-fA-F-]{36}$/),
-    fc.constantFrom('-'.repeat(36), '0'.repeat(36), '00000000-0000-0000-0000-000000000000', 'ffffffff-ffff-ffff-ffff-ffffffffffff', '%00', '../', ''),
+    fc.constantFrom(
+      '-'.repeat(36),
+      '0'.repeat(36),
+      '00000000-0000-0000-0000-000000000000',
+      'ffffffff-ffff-ffff-ffff-ffffffffffff',
+      '%00',
+      '../',
+      '',
+    ),
   );
-  const numberLike = fc.oneof(fc.nat().map(String), fc.bigInt({ min: 0n, max: 10n ** 30n }).map(String), fc.constantFrom('2147483647', '2147483648', '-0', '+1', '1e3', '0x1F', ' 1', '1.5'));
-  const anyText = fc.oneof(uuidLike, numberLike, fc.string({ maxLength: 40 }), fc.string({ maxLength: 40, unit: 'binary' }));
+  const numberLike = fc.oneof(
+    fc.nat().map(String),
+    fc.bigInt({ min: 0n, max: 10n ** 30n }).map(String),
+    fc.constantFrom('2147483647', '2147483648', '-0', '+1', '1e3', '0x1F', ' 1', '1.5'),
+  );
+  const anyText = fc.oneof(
+    uuidLike,
+    numberLike,
+    fc.string({ maxLength: 40 }),
+    fc.string({ maxLength: 40, unit: 'binary' }),
+  );
 
   it('parses every segment to a UUID, a project code or an integer within int4, or answers 404 naming what does not exist', async () => {
     for (const name of Object.keys(PATH_PARAMS) as PathParamName[]) {
@@ -620,7 +1141,8 @@ describe('path parameters (common practice: an id that names nothing is a 404, n
         fc.asyncProperty(anyText, async (value) => {
           try {
             const parsed = (await routeParams({ [name]: value }))[name] as unknown;
-            if (typeof parsed === 'number') expect(Number.isInteger(parsed) && parsed >= 0 && parsed <= INT4_MAX).toBe(true);
+            if (typeof parsed === 'number')
+              expect(Number.isInteger(parsed) && parsed >= 0 && parsed <= INT4_MAX).toBe(true);
             else expect(parsed).toBe(value);
           } catch (error) {
             if (!(error instanceof AppError)) throw error;
@@ -634,7 +1156,11 @@ describe('path parameters (common practice: an id that names nothing is a 404, n
 
   it('answers PostgreSQL’s refusal of a malformed or out-of-range value (22P02, 22003) with 400, not 500', async () => {
     for (const code of ['22P02', '22003']) {
-      const response = errorResponse(Object.assign(new Error('invalid input syntax for type uuid: "------------------------------------"'), { code }));
+      const response = errorResponse(
+        Object.assign(new Error('invalid input syntax for type uuid: "------------------------------------"'), {
+          code,
+        }),
+      );
       expect(response.status).toBe(400);
       expect(JSON.stringify(await response.json())).not.toContain('invalid input syntax');
     }

@@ -22,13 +22,24 @@ describe('my work', () => {
     const approved = await makeSheet(db, t.author, project, { title: 'Approved, not issued' });
     const voided = await makeSheet(db, t.author, project, { title: 'Started by mistake' });
 
-    const r = await submitForCheck(db, t.author, returned, { versionNumber: 1, checkerId: t.checker.userId, password: PASSWORD });
+    const r = await submitForCheck(db, t.author, returned, {
+      versionNumber: 1,
+      checkerId: t.checker.userId,
+      password: PASSWORD,
+    });
     await decide(db, t.checker, r.id, { action: 'return', reason: 'objective missing' });
     await submitForCheck(db, t.author, inCheck, { versionNumber: 1, checkerId: t.checker.userId, password: PASSWORD });
-    const a = await submitForCheck(db, t.author, awaitingApproval, { versionNumber: 1, checkerId: t.checker.userId, password: PASSWORD });
+    const a = await submitForCheck(db, t.author, awaitingApproval, {
+      versionNumber: 1,
+      checkerId: t.checker.userId,
+      password: PASSWORD,
+    });
     await saveCheckWork(db, t.checker, a.id, { verificationMethod: 'design_review' });
     await decide(db, t.checker, a.id, { action: 'sign', password: PASSWORD });
-    await approveNewVersion(db, t, approved, { message: 'for issue', cells: [{ id: 'c1', kind: 'calc', source: 'x = 1 m' }] });
+    await approveNewVersion(db, t, approved, {
+      message: 'for issue',
+      cells: [{ id: 'c1', kind: 'calc', source: 'x = 1 m' }],
+    });
     await voidSheet(db, t.author, ['originator'], voided.id, { reason: 'duplicate' });
 
     const author = await myWork(db, t.author);
@@ -56,7 +67,12 @@ it('does not list starter sheets among the drafts: they are worked examples to s
   const db = testDb();
   const team = await makeTeam(db, { code: 'STRT' });
   const mine = await makeSheet(db, team.author, { id: team.projectId, code: 'STRT' }, { title: 'My draft' });
-  const starter = await makeSheet(db, team.author, { id: team.projectId, code: 'STRT' }, { title: 'Starter — worked example' });
+  const starter = await makeSheet(
+    db,
+    team.author,
+    { id: team.projectId, code: 'STRT' },
+    { title: 'Starter — worked example' },
+  );
   await sql`update sheets set starter = true where id = ${starter.id}`.execute(db);
   const work = await myWork(db, team.author);
   expect(work.drafts?.map((s) => s.id)).toEqual([mine.id]);

@@ -1,6 +1,11 @@
 // Where a sign-in may send the browser: only a path of the app's own origin.
 import { expect, it } from 'vitest';
-import { InvalidCallbackUrl, isAcceptableCallbackUrl, safeSameOriginPath, sameOriginPath } from '../../lib/http/same-origin';
+import {
+  InvalidCallbackUrl,
+  isAcceptableCallbackUrl,
+  safeSameOriginPath,
+  sameOriginPath,
+} from '../../lib/http/same-origin';
 
 const origin = 'http://127.0.0.1:3000';
 

@@ -5,7 +5,12 @@ import { authCookies } from '../../lib/auth/auth-cookies';
 import { contentSecurityPolicy, edgeHeaders, httpsEnabled, newNonce } from '../../lib/http/security-headers';
 
 function directives(policy: string): Map<string, string[]> {
-  return new Map(policy.split(';').map((d) => d.trim().split(/\s+/)).map(([name, ...values]) => [name, values]));
+  return new Map(
+    policy
+      .split(';')
+      .map((d) => d.trim().split(/\s+/))
+      .map(([name, ...values]) => [name, values]),
+  );
 }
 
 it('allows scripts only with the nonce (strict-dynamic), never inline, and locks framing, plugins, base and forms', () => {
@@ -68,6 +73,9 @@ it('over HTTPS every next-auth cookie is Secure and __Host- (Path=/, no Domain);
   }
   expect(secure.sessionToken.name).toBe('__Host-next-auth.session-token');
   const plain = authCookies(false);
-  expect(plain.sessionToken).toEqual({ name: 'next-auth.session-token', options: { httpOnly: true, sameSite: 'lax', path: '/', secure: false } });
+  expect(plain.sessionToken).toEqual({
+    name: 'next-auth.session-token',
+    options: { httpOnly: true, sameSite: 'lax', path: '/', secure: false },
+  });
   for (const cookie of Object.values(plain)) expect(cookie.options.secure).toBe(false);
 });

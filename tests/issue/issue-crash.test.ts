@@ -21,49 +21,80 @@ afterEach(killWorkers);
 
 async function pdfObjects(jobId: string): Promise<number> {
   const config = storageConfig();
-  const client = new S3Client({ endpoint: config.endpoint, region: config.region, credentials: config.credentials, forcePathStyle: true });
-  return (await client.send(new ListObjectsV2Command({ Bucket: config.bucket, Prefix: `revisions/issue-${jobId}` }))).KeyCount ?? 0;
+  const client = new S3Client({
+    endpoint: config.endpoint,
+    region: config.region,
+    credentials: config.credentials,
+    forcePathStyle: true,
+  });
+  return (
+    (await client.send(new ListObjectsV2Command({ Bucket: config.bucket, Prefix: `revisions/issue-${jobId}` })))
+      .KeyCount ?? 0
+  );
 }
 
-it('finishes into one revision and one PDF after the worker is killed in the middle of issuing', { timeout: 180_000 }, async () => {
-  const db = testDb();
-  const { controller, sheet } = await approvedSheet(db);
-  // Each step pauses 1.5 s so that the kill lands inside the work, not before or after it.
-  const first = startWorker({ WORLDSHEET_ISSUE_STEP_PAUSE_MS: '1500' });
-  await until('the worker to start', async () => first.output().includes('working the queues'), 60_000);
-  const { jobId } = await requestIssue(db, controller, sheet, { versionNumber: 2, password: PASSWORD });
-  const step = await until('the job to reach the signing step', async () => {
-    const job = await db.selectFrom('issue_jobs').select(['step', 'state']).where('id', '=', jobId).executeTakeFirstOrThrow();
-    return job.step === 'signing' ? job : null;
-  }, 60_000);
-  expect(step.state).toBe('pending');
-  first.child.kill('SIGKILL');
-  await new Promise((r) => first.child.once('exit', r));
-  expect(await db.selectFrom('revisions').select('id').execute()).toEqual([]);
+it(
+  'finishes into one revision and one PDF after the worker is killed in the middle of issuing',
+  { timeout: 180_000 },
+  async () => {
+    const db = testDb();
+    const { controller, sheet } = await approvedSheet(db);
+    // Each step pauses 1.5 s so that the kill lands inside the work, not before or after it.
+    const first = startWorker({ WORLDSHEET_ISSUE_STEP_PAUSE_MS: '1500' });
+    await until('the worker to start', async () => first.output().includes('working the queues'), 60_000);
+    const { jobId } = await requestIssue(db, controller, sheet, { versionNumber: 2, password: PASSWORD });
+    const step = await until(
+      'the job to reach the signing step',
+      async () => {
+        const job = await db
+          .selectFrom('issue_jobs')
+          .select(['step', 'state'])
+          .where('id', '=', jobId)
+          .executeTakeFirstOrThrow();
+        return job.step === 'signing' ? job : null;
+      },
+      60_000,
+    );
+    expect(step.state).toBe('pending');
+    first.child.kill('SIGKILL');
+    await new Promise((r) => first.child.once('exit', r));
+    expect(await db.selectFrom('revisions').select('id').execute()).toEqual([]);
 
-  const second = startWorker();
-  await until('the request to be issued', async () => {
-    const job = await db.selectFrom('issue_jobs').select('state').where('id', '=', jobId).executeTakeFirstOrThrow();
-    return job.state === 'done';
-  }, 90_000);
-  expect(second.output()).toContain(`issuing: resuming request ${jobId}`);
-  expect(await db.selectFrom('revisions').select(['code', 'status']).execute()).toEqual([{ code: 'A', status: 'current' }]);
-  expect(await pdfObjects(jobId)).toBe(1);
-  expect(await db.selectFrom('signatures').select('id').where('meaning', '=', 'issued').execute()).toHaveLength(1);
-});
+    const second = startWorker();
+    await until(
+      'the request to be issued',
+      async () => {
+        const job = await db.selectFrom('issue_jobs').select('state').where('id', '=', jobId).executeTakeFirstOrThrow();
+        return job.state === 'done';
+      },
+      90_000,
+    );
+    expect(second.output()).toContain(`issuing: resuming request ${jobId}`);
+    expect(await db.selectFrom('revisions').select(['code', 'status']).execute()).toEqual([
+      { code: 'A', status: 'current' },
+    ]);
+    expect(await pdfObjects(jobId)).toBe(1);
+    expect(await db.selectFrom('signatures').select('id').where('meaning', '=', 'issued').execute()).toHaveLength(1);
+  },
+);
 
-it('records one revision when the same request is worked twice at once, and refuses a second request while one is pending', { timeout: 120_000 }, async () => {
-  const db = testDb();
-  const { controller, sheet } = await approvedSheet(db);
-  const results = await Promise.allSettled([
-    requestIssue(db, controller, sheet, { versionNumber: 2, password: PASSWORD }),
-    requestIssue(db, controller, sheet, { versionNumber: 2, password: PASSWORD }),
-  ]);
-  expect(results.map((r) => r.status).sort()).toEqual(['fulfilled', 'rejected']);
-  const { jobId } = (results.find((r) => r.status === 'fulfilled') as PromiseFulfilledResult<{ jobId: string }>).value;
-  const store = createObjectStore(storageConfig());
-  const [a, b] = await Promise.all([processIssueJob(db, store, jobId), processIssueJob(db, store, jobId)]);
-  expect(a).toBe(b);
-  expect(await db.selectFrom('revisions').select('id').execute()).toHaveLength(1);
-  expect(await pdfObjects(jobId)).toBe(1);
-});
+it(
+  'records one revision when the same request is worked twice at once, and refuses a second request while one is pending',
+  { timeout: 120_000 },
+  async () => {
+    const db = testDb();
+    const { controller, sheet } = await approvedSheet(db);
+    const results = await Promise.allSettled([
+      requestIssue(db, controller, sheet, { versionNumber: 2, password: PASSWORD }),
+      requestIssue(db, controller, sheet, { versionNumber: 2, password: PASSWORD }),
+    ]);
+    expect(results.map((r) => r.status).sort()).toEqual(['fulfilled', 'rejected']);
+    const { jobId } = (results.find((r) => r.status === 'fulfilled') as PromiseFulfilledResult<{ jobId: string }>)
+      .value;
+    const store = createObjectStore(storageConfig());
+    const [a, b] = await Promise.all([processIssueJob(db, store, jobId), processIssueJob(db, store, jobId)]);
+    expect(a).toBe(b);
+    expect(await db.selectFrom('revisions').select('id').execute()).toHaveLength(1);
+    expect(await pdfObjects(jobId)).toBe(1);
+  },
+);

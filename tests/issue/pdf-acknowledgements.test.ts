@@ -19,8 +19,21 @@ async function text(data: ReturnType<typeof buildRevisionPdfData>, name: string)
 it('prints the acknowledgements and the design inputs checked against the cells', async () => {
   const data = buildRevisionPdfData();
   expect(data.version.content.record.inputs.length).toBeGreaterThan(0);
-  data.acknowledgements = [{ item: 'Cell error: cell 1, line 2 (L = 2 m + 3 s): units do not match', text: 'Line 2 is a placeholder kept for the next revision.' }];
-  data.designInputChecks = [{ index: 0, cell: 'T', engineValue: '160 MeV', match: false, words: 'does not match: the record gives 150 MeV, the sheet uses 160 MeV' }];
+  data.acknowledgements = [
+    {
+      item: 'Cell error: cell 1, line 2 (L = 2 m + 3 s): units do not match',
+      text: 'Line 2 is a placeholder kept for the next revision.',
+    },
+  ];
+  data.designInputChecks = [
+    {
+      index: 0,
+      cell: 'T',
+      engineValue: '160 MeV',
+      match: false,
+      words: 'does not match: the record gives 150 MeV, the sheet uses 160 MeV',
+    },
+  ];
   const withAcks = await text(data, 'with.pdf');
   expect(withAcks).toContain('Acknowledged in writing by the originator on submission');
   expect(withAcks).toContain('Line 2 is a placeholder kept for the next revision.');

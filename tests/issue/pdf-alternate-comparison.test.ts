@@ -22,8 +22,20 @@ it('prints the alternate comparison after the signatures, outcome in words', asy
     toleranceText: '0.1 %',
     rows: [
       // 2.432 13 T·m / 1.35 m = 1.801 58 T (arithmetic); the alternate agrees to rounding.
-      { name: 'B_max', sheet: '1.801 58 T', alternate: '1.801 58 T', relativeDifference: '2.1 × 10⁻¹⁶', outcome: 'within the tolerance of 0.1 %' },
-      { name: 'T_max', sheet: '250 MeV', alternate: '250.1 MeV', relativeDifference: '4 × 10⁻⁴', outcome: 'within the tolerance of 0.1 %' },
+      {
+        name: 'B_max',
+        sheet: '1.801 58 T',
+        alternate: '1.801 58 T',
+        relativeDifference: '2.1 × 10⁻¹⁶',
+        outcome: 'within the tolerance of 0.1 %',
+      },
+      {
+        name: 'T_max',
+        sheet: '250 MeV',
+        alternate: '250.1 MeV',
+        relativeDifference: '4 × 10⁻⁴',
+        outcome: 'within the tolerance of 0.1 %',
+      },
     ],
   };
   const withTable = await text(data, 'with.pdf');

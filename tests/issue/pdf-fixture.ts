@@ -26,17 +26,27 @@ export const FIXTURE_CELLS: CellInput[] = [
   {
     id: 'rigidity',
     kind: 'calc',
-    source: ['T_kin = 250 MeV  # kinetic energy at the gantry entrance', 'p = momentumFromKinetic(T_kin, m_p)', 'Brho = magneticRigidity(p, q_e) to T*m'].join('\n'),
+    source: [
+      'T_kin = 250 MeV  # kinetic energy at the gantry entrance',
+      'p = momentumFromKinetic(T_kin, m_p)',
+      'Brho = magneticRigidity(p, q_e) to T*m',
+    ].join('\n'),
   },
   {
     id: 'speed',
     kind: 'calc',
-    source: ['# Lorentz factor of the reference speed 0.6 c', 'gamma_L = lorentzFactor(0.6)', 'beta_p = speedFromKinetic(T_kin, m_p) / c'].join('\n'),
+    source: [
+      '# Lorentz factor of the reference speed 0.6 c',
+      'gamma_L = lorentzFactor(0.6)',
+      'beta_p = speedFromKinetic(T_kin, m_p) / c',
+    ].join('\n'),
   },
   {
     id: 'criteria',
     kind: 'calc',
-    source: ['Brho < 3 T*m   # dipole limit of the gantry magnets', 'Brho < 2 T*m   # the 1.8 T reserve case'].join('\n'),
+    source: ['Brho < 3 T*m   # dipole limit of the gantry magnets', 'Brho < 2 T*m   # the 1.8 T reserve case'].join(
+      '\n',
+    ),
   },
   {
     id: 'mistake',
@@ -61,22 +71,46 @@ export function buildRevisionPdfData(options: { cells?: CellInput[] } = {}): Rev
       objective:
         'Confirm that the gantry 2 dipoles can bend protons of 70 → 250 MeV: Bρ ≤ 3 T·m with β ≤ 0.62 and γ − 1 ≈ 0.27.\n\nThe field tolerance is ±0.5 % (−0.5 %/+0.5 %); units such as m⁻¹, s² and µm appear in the inputs; Δθ and Ω are named as in the magnet specification.',
       inputs: [
-        { name: 'Maximum kinetic energy', value: '250 MeV', source: 'TPT2 beam requirements specification TPT2-SPEC-0003', sourceRevision: 'C' },
-        { name: 'Dipole bending radius', value: '1.35 m', source: 'Gantry 2 magnet specification TPT2-SPEC-0011', sourceRevision: 'B' },
-        { name: 'Field ripple', value: '±1 × 10⁻⁴', source: 'Power supply datasheet PS-220, table 4', sourceRevision: '2' },
+        {
+          name: 'Maximum kinetic energy',
+          value: '250 MeV',
+          source: 'TPT2 beam requirements specification TPT2-SPEC-0003',
+          sourceRevision: 'C',
+        },
+        {
+          name: 'Dipole bending radius',
+          value: '1.35 m',
+          source: 'Gantry 2 magnet specification TPT2-SPEC-0011',
+          sourceRevision: 'B',
+        },
+        {
+          name: 'Field ripple',
+          value: '±1 × 10⁻⁴',
+          source: 'Power supply datasheet PS-220, table 4',
+          sourceRevision: '2',
+        },
       ],
       assumptions: [
         { text: 'The beam is made of protons only (no H₂⁺ contamination).', needsVerification: false },
         { text: 'The energy loss in the vacuum window is below 0.1 MeV, so T ≈ T₀.', needsVerification: true },
       ],
-      method: 'Relativistic kinematics: p from T and m_p, then Bρ = p/q with q = e. Criteria are compared exactly on SI values.',
-      references: ['CODATA 2022 recommended values of the fundamental physical constants', 'SI Brochure, 9th edition (2019)'],
+      method:
+        'Relativistic kinematics: p from T and m_p, then Bρ = p/q with q = e. Criteria are compared exactly on SI values.',
+      references: [
+        'CODATA 2022 recommended values of the fundamental physical constants',
+        'SI Brochure, 9th edition (2019)',
+      ],
       conclusions: 'Bρ = 2.432 13 T·m at 250 MeV, inside the 3 T·m limit with a margin of 18.9 %.',
     },
     cells: cells.map((c) => ({ id: c.id, kind: c.kind, source: c.source })),
     attachments: [
       { name: 'gantry2-dipole-field-map.csv', mediaType: 'text/csv', size: 48_213, sha256: FIXTURE_SHA_ATTACHMENT_1 },
-      { name: 'TPT2-SPEC-0011-rev-B.pdf', mediaType: 'application/pdf', size: 1_204_877, sha256: FIXTURE_SHA_ATTACHMENT_2 },
+      {
+        name: 'TPT2-SPEC-0011-rev-B.pdf',
+        mediaType: 'application/pdf',
+        size: 1_204_877,
+        sha256: FIXTURE_SHA_ATTACHMENT_2,
+      },
     ],
   };
   return {
@@ -96,8 +130,22 @@ export function buildRevisionPdfData(options: { cells?: CellInput[] } = {}): Rev
     safetyRelated: true,
     cautions: [...CAUTIONS, SAFETY_RELATED_CAUTION],
     revisionHistory: [
-      { revision: 'A', date: '2026-10-14', version: 3, description: 'First issue for the gantry 2 magnet design review', approvedBy: 'Hamid Okonkwo-Reyes', status: 'Superseded' },
-      { revision: 'B', date: '2026-12-02', version: 7, description: 'Reserve case at 2 T·m added; constants to CODATA 2022', approvedBy: 'Hamid Okonkwo-Reyes', status: 'Current' },
+      {
+        revision: 'A',
+        date: '2026-10-14',
+        version: 3,
+        description: 'First issue for the gantry 2 magnet design review',
+        approvedBy: 'Hamid Okonkwo-Reyes',
+        status: 'Superseded',
+      },
+      {
+        revision: 'B',
+        date: '2026-12-02',
+        version: 7,
+        description: 'Reserve case at 2 T·m added; constants to CODATA 2022',
+        approvedBy: 'Hamid Okonkwo-Reyes',
+        status: 'Current',
+      },
     ],
     version: {
       number: 7,
@@ -108,8 +156,16 @@ export function buildRevisionPdfData(options: { cells?: CellInput[] } = {}): Rev
       constantsEdition: results.constantsEdition,
     },
     constants: [
-      { name: 'm_p', value: '1.672 621 925 95 × 10⁻²⁷ kg', provenance: 'CODATA 2022, standard uncertainty 5.2 × 10⁻³⁷ kg' },
-      { name: 'q_e', value: '1.602 176 634 × 10⁻¹⁹ C', provenance: 'exact by definition (SI Brochure, 9th edition, 2019)' },
+      {
+        name: 'm_p',
+        value: '1.672 621 925 95 × 10⁻²⁷ kg',
+        provenance: 'CODATA 2022, standard uncertainty 5.2 × 10⁻³⁷ kg',
+      },
+      {
+        name: 'q_e',
+        value: '1.602 176 634 × 10⁻¹⁹ C',
+        provenance: 'exact by definition (SI Brochure, 9th edition, 2019)',
+      },
       { name: 'c', value: '299 792 458 m/s', provenance: 'exact by definition (SI Brochure, 9th edition, 2019)' },
     ],
     signatures: [
@@ -129,12 +185,21 @@ export function generatedCells(n: number): CellInput[] {
   const cells: CellInput[] = [];
   for (let i = 0; i < n; i++) {
     if (i % 4 === 0) {
-      cells.push({ id: `t${i}`, kind: 'text', source: `### Step ${i}\nThe energy step ${i} keeps $\\beta_{${i}} \\le 1$ and reuses the **rigidity** formula.` });
+      cells.push({
+        id: `t${i}`,
+        kind: 'text',
+        source: `### Step ${i}\nThe energy step ${i} keeps $\\beta_{${i}} \\le 1$ and reuses the **rigidity** formula.`,
+      });
     } else {
       cells.push({
         id: `c${i}`,
         kind: 'calc',
-        source: [`T_${i} = ${70 + i} MeV  # step ${i}`, `p_${i} = momentumFromKinetic(T_${i}, m_p)`, `B_${i} = magneticRigidity(p_${i}, q_e) to T*m`, `B_${i} < 3 T*m`].join('\n'),
+        source: [
+          `T_${i} = ${70 + i} MeV  # step ${i}`,
+          `p_${i} = momentumFromKinetic(T_${i}, m_p)`,
+          `B_${i} = magneticRigidity(p_${i}, q_e) to T*m`,
+          `B_${i} < 3 T*m`,
+        ].join('\n'),
       });
     }
   }

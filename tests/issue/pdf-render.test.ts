@@ -15,7 +15,8 @@ import { createTexCache, typesetTex } from '../../lib/issue/pdf/tex-svg';
 import { buildRevisionPdfData, FIXTURE_SHA_ATTACHMENT_1, FIXTURE_SHA_ATTACHMENT_2 } from './pdf-fixture';
 
 const folder = mkdtempSync(path.join(tmpdir(), 'ws-pdf-render-'));
-const run = (tool: string, args: string[]) => execFileSync(tool, args, { encoding: 'utf8', maxBuffer: 64 * 1024 * 1024 });
+const run = (tool: string, args: string[]) =>
+  execFileSync(tool, args, { encoding: 'utf8', maxBuffer: 64 * 1024 * 1024 });
 /** Whitespace runs to one space: text wrapped over lines or spread over layout columns reads as one run. */
 const flat = (s: string) => s.replace(/\s+/g, ' ');
 
@@ -33,7 +34,8 @@ beforeAll(async () => {
   file = path.join(folder, 'revision.pdf');
   writeFileSync(file, bytes);
   pageCount = Number(/^Pages:\s+(\d+)/m.exec(run('pdfinfo', [file]))?.[1]);
-  for (let p = 1; p <= pageCount; p++) pages[p] = run('pdftotext', ['-layout', '-f', String(p), '-l', String(p), file, '-']);
+  for (let p = 1; p <= pageCount; p++)
+    pages[p] = run('pdftotext', ['-layout', '-f', String(p), '-l', String(p), file, '-']);
   whole = flat(run('pdftotext', [file, '-']));
   // A picture of the first page for people to look at (git-ignored).
   const artifacts = path.join(process.cwd(), 'tests', '.artifacts');
@@ -93,7 +95,10 @@ describe('the page furniture', () => {
   it('embeds only subsets of Source Sans 3 and Noto Sans Mono, never a standard-14 font', () => {
     // Common practice for archived documents (ISO 19005 requires every font embedded); the product
     // ships these two faces for their coverage of Greek, ≤, →, −, ± and superscripts.
-    const rows = run('pdffonts', [file]).split('\n').slice(2).filter((l) => l.trim());
+    const rows = run('pdffonts', [file])
+      .split('\n')
+      .slice(2)
+      .filter((l) => l.trim());
     expect(rows.length).toBeGreaterThan(0);
     for (const row of rows) {
       expect(row).toMatch(/^[A-Z]{6}\+(SourceSans3-(Regular|Italic|SemiBold|Bold)|NotoSansMono-(Regular|Bold))\s/);
@@ -114,20 +119,24 @@ describe('the content', () => {
   it('has the revision history table', () => {
     // ISO 9001:2015 §7.5.3.2 c): control of changes (version control) — common practice for a revision table.
     const text = flat(pages.join('\n'));
-    for (const r of data.revisionHistory) expect(text).toContain(`${r.revision} ${r.date} ${r.version} ${r.description} ${r.approvedBy} ${r.status}`);
+    for (const r of data.revisionHistory)
+      expect(text).toContain(`${r.revision} ${r.date} ${r.version} ${r.description} ${r.approvedBy} ${r.status}`);
   });
 
-  it('has the calculation record fields, with the inputs\' sources and the assumptions to be verified', () => {
+  it("has the calculation record fields, with the inputs' sources and the assumptions to be verified", () => {
     // ASME NQA-1 Requirement 3 §400: objective, design inputs with their sources, assumptions (those
     // needing later verification identified), method, references, conclusions.
     const r = data.version.content.record;
-    for (const heading of ['Objective', 'Design inputs', 'Assumptions', 'Method', 'References', 'Conclusions']) expect(whole).toContain(heading);
+    for (const heading of ['Objective', 'Design inputs', 'Assumptions', 'Method', 'References', 'Conclusions'])
+      expect(whole).toContain(heading);
     for (const paragraph of r.objective.split('\n\n')) expect(whole).toContain(flat(paragraph));
     const layout = flat(pages.join('\n'));
     for (const i of r.inputs) expect(layout).toContain(`${i.name} ${i.value} ${i.source} ${i.sourceRevision}`);
     for (const a of r.assumptions) expect(whole).toContain(a.text);
     const lines = pages.join('\n').split('\n');
-    expect(flat(lines.find((l) => l.includes('A2 '))!).trim()).toBe('A2 The energy loss in the vacuum window is below 0.1 MeV, so T ≈ T₀. TO BE VERIFIED');
+    expect(flat(lines.find((l) => l.includes('A2 '))!).trim()).toBe(
+      'A2 The energy loss in the vacuum window is below 0.1 MeV, so T ≈ T₀. TO BE VERIFIED',
+    );
     expect(lines.find((l) => l.includes('A1 '))).not.toContain('TO BE VERIFIED');
     expect(whole).toContain(r.method);
     for (const ref of r.references) expect(whole).toContain(ref);
@@ -136,12 +145,25 @@ describe('the content', () => {
 
   it('keeps Greek letters, ≤, →, −, ±, superscripts and subscripts in the text layer', () => {
     // Common practice: a reader searches and copies the quantities as written.
-    for (const s of ['70 → 250 MeV', 'Bρ ≤ 3 T·m', 'β ≤ 0.62', 'γ − 1 ≈ 0.27', '±0.5 %', '(−0.5 %/+0.5 %)', 'm⁻¹', 's²', 'µm', 'Δθ and Ω', 'H₂⁺', '1.672 621 925 95 × 10⁻²⁷ kg']) {
+    for (const s of [
+      '70 → 250 MeV',
+      'Bρ ≤ 3 T·m',
+      'β ≤ 0.62',
+      'γ − 1 ≈ 0.27',
+      '±0.5 %',
+      '(−0.5 %/+0.5 %)',
+      'm⁻¹',
+      's²',
+      'µm',
+      'Δθ and Ω',
+      'H₂⁺',
+      '1.672 621 925 95 × 10⁻²⁷ kg',
+    ]) {
       expect(whole).toContain(s);
     }
   });
 
-  it('shows every cell in order: each statement\'s source and result as text', () => {
+  it("shows every cell in order: each statement's source and result as text", () => {
     // Product brief, "The calculation language": formula, substitution and result for each statement.
     let at = -1;
     for (const [index, cell] of data.version.content.cells.entries()) {
@@ -252,12 +274,14 @@ describe('the formulas', () => {
     expect(content.match(/\nf\n/g)?.length ?? 0).toBeGreaterThan(100);
   });
 
-  it('leave ink between a statement\'s source line and its result, where there is no text', () => {
+  it("leave ink between a statement's source line and its result, where there is no text", () => {
     // Common practice: look at the rendered page. The formula of `p = momentumFromKinetic(…)` and its
     // substitution lie between the source line and the result line.
     const calcPage = pages.findIndex((text) => text?.includes('p = momentumFromKinetic(T_kin, m_p)'));
     const html = run('pdftotext', ['-bbox', '-f', String(calcPage), '-l', String(calcPage), file, '-']);
-    const words = [...html.matchAll(/<word xMin="([\d.]+)" yMin="([\d.]+)" xMax="([\d.]+)" yMax="([\d.]+)">([^<]*)<\/word>/g)].map((m) => ({
+    const words = [
+      ...html.matchAll(/<word xMin="([\d.]+)" yMin="([\d.]+)" xMax="([\d.]+)" yMax="([\d.]+)">([^<]*)<\/word>/g),
+    ].map((m) => ({
       xMin: Number(m[1]),
       yMin: Number(m[2]),
       xMax: Number(m[3]),
@@ -291,7 +315,9 @@ describe('the formulas', () => {
     // Common practice: one bad formula never stops the document.
     expect(() => typesetTex('\\frac{a')).toThrow();
     expect(createTexCache()('\\frac{a')).toBeNull();
-    const broken = buildRevisionPdfData({ cells: [{ id: 'bad', kind: 'text', source: 'Broken: $\\frac{a$ and fine: $x^2$' }] });
+    const broken = buildRevisionPdfData({
+      cells: [{ id: 'bad', kind: 'text', source: 'Broken: $\\frac{a$ and fine: $x^2$' }],
+    });
     const pdf = await renderRevisionPdf(broken);
     const f = path.join(folder, 'broken.pdf');
     writeFileSync(f, pdf);
@@ -314,7 +340,14 @@ describe('the formulas', () => {
     writeFileSync(f, await renderRevisionPdf(d));
     const text = flat(run('pdftotext', [f, '-']));
     expect(text).not.toMatch(/[\u061c\u200e\u200f\u202a-\u202e\u2066-\u2069]/);
-    for (const shown of ['Dipole ⟦U+202E⟧exe.fdp', 'Limit ⟦U+202E⟧3 T m⟦U+202C⟧', 'spec⟦U+2067⟧', 'By hand ⟦U+200F⟧', 'scan⟦U+202E⟧fdp.pdf', '# ok ⟦U+202E⟧']) {
+    for (const shown of [
+      'Dipole ⟦U+202E⟧exe.fdp',
+      'Limit ⟦U+202E⟧3 T m⟦U+202C⟧',
+      'spec⟦U+2067⟧',
+      'By hand ⟦U+200F⟧',
+      'scan⟦U+202E⟧fdp.pdf',
+      '# ok ⟦U+202E⟧',
+    ]) {
       expect(text).toContain(shown);
     }
   });
@@ -405,18 +438,33 @@ describe('the structure (a tagged PDF, ISO 32000-1 §14.8)', () => {
     const markInfo = doc.catalog.lookup(PDFName.of('MarkInfo'), PDFDict);
     expect(markInfo.get(PDFName.of('Marked'))?.toString()).toBe('true');
     const lang = doc.catalog.lookup(PDFName.of('Lang'));
-    expect(lang instanceof PDFString || lang instanceof PDFHexString ? lang.decodeText() : null).toBe(data.titleBlock.language);
+    expect(lang instanceof PDFString || lang instanceof PDFHexString ? lang.decodeText() : null).toBe(
+      data.titleBlock.language,
+    );
     expect(bytes.subarray(0, 8).toString('latin1')).toBe('%PDF-1.7');
   });
 
   it('reads as a document: the title as H1, the cautions, then the seven numbered sections in order, each under its H2', () => {
     // ISO 32000-1 §14.8.4.3 standard structure types (Document, Sect, H1–H6, P, Table, TR, TH, TD, Formula).
     expect(tree.split('\n')[0]).toBe('Document');
-    expect(tree).toMatch(new RegExp(`H1 \\(block\\)\\n\\s+"${data.titleBlock.title.replace(/[.*+?^${}()|[\]\\]/g, '\\$&')}"`));
+    expect(tree).toMatch(
+      new RegExp(`H1 \\(block\\)\\n\\s+"${data.titleBlock.title.replace(/[.*+?^${}()|[\]\\]/g, '\\$&')}"`),
+    );
     expect(tree).toMatch(/H2 \(block\)\n\s+"Caution"/);
-    const sections = [...tree.matchAll(/^ {2}Sect\n {4}H2 \(block\)\n\s+"(.*)"$/gm)].map((m) => m[1].replace(/\s+/g, ' '));
-    expect(sections).toEqual(['1 Revision history', '2 Calculation record', '3 Calculation', '4 Attachments', '5 Evaluation', '6 Signatures', '7 Verification']);
-    for (const field of ['Objective', 'Design inputs', 'Assumptions', 'Method', 'References', 'Conclusions']) expect(tree).toMatch(new RegExp(`H3 \\(block\\)\\n\\s+"${field}"`));
+    const sections = [...tree.matchAll(/^ {2}Sect\n {4}H2 \(block\)\n\s+"(.*)"$/gm)].map((m) =>
+      m[1].replace(/\s+/g, ' '),
+    );
+    expect(sections).toEqual([
+      '1 Revision history',
+      '2 Calculation record',
+      '3 Calculation',
+      '4 Attachments',
+      '5 Evaluation',
+      '6 Signatures',
+      '7 Verification',
+    ]);
+    for (const field of ['Objective', 'Design inputs', 'Assumptions', 'Method', 'References', 'Conclusions'])
+      expect(tree).toMatch(new RegExp(`H3 \\(block\\)\\n\\s+"${field}"`));
   });
 
   it('tags tables as rows of header and data cells', () => {
@@ -438,7 +486,9 @@ describe('the structure (a tagged PDF, ISO 32000-1 §14.8)', () => {
       alts.push(alt instanceof PDFString || alt instanceof PDFHexString ? alt.decodeText() : '');
     }
     const statements = data.version.results.cells.flatMap((c) => c.statements);
-    const expected = statements.flatMap((st) => [st.tex, st.substitutedTex && st.substitutedTex !== st.tex ? st.substitutedTex : null]).filter((t): t is string => Boolean(t));
+    const expected = statements
+      .flatMap((st) => [st.tex, st.substitutedTex && st.substitutedTex !== st.tex ? st.substitutedTex : null])
+      .filter((t): t is string => Boolean(t));
     expect(expected.length).toBeGreaterThan(5);
     for (const tex of expected) expect(alts).toContain(tex);
     expect(alts.every((a) => a.length > 0)).toBe(true);
@@ -446,7 +496,9 @@ describe('the structure (a tagged PDF, ISO 32000-1 §14.8)', () => {
 
   it('tags what each statement says (source, result, PASS/FAIL, error) and leaves the page furniture out as artifacts', () => {
     // ISO 32000-1 §14.8.2.2 (real content and artifacts: running heads and title blocks are pagination artifacts).
-    const tagged = texts().join('\n').replace(/[ \t]+/g, ' ');
+    const tagged = texts()
+      .join('\n')
+      .replace(/[ \t]+/g, ' ');
     const statements = data.version.results.cells.flatMap((c) => c.statements);
     for (const st of statements) expect(tagged).toContain(st.source.replace(/\s+/g, ' ').trim().slice(0, 30));
     expect(tagged).toMatch(/PASS/);

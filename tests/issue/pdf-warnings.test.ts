@@ -21,7 +21,11 @@ async function pdfText(data: RevisionPdfData, name: string): Promise<string> {
 }
 
 const CELLS = [
-  { id: 'photon', kind: 'calc' as const, source: 'lambda_1 = 500 nm\nE_ph = h * c / lambda_1\nE_ok = h_P * c / lambda_1 to eV' },
+  {
+    id: 'photon',
+    kind: 'calc' as const,
+    source: 'lambda_1 = 500 nm\nE_ph = h * c / lambda_1\nE_ok = h_P * c / lambda_1 to eV',
+  },
 ];
 
 let withWarnings: string;
@@ -52,7 +56,9 @@ describe('the issued PDF', () => {
   });
 
   it('counts the warnings in the evaluation summary', () => {
-    expect(withWarnings).toMatch(/Warnings 1 \(a name read as a unit or a mathematical constant where a physical constant may be meant; shown beside each statement\)/);
+    expect(withWarnings).toMatch(
+      /Warnings 1 \(a name read as a unit or a mathematical constant where a physical constant may be meant; shown beside each statement\)/,
+    );
   });
 
   it('renders results stored without the field as having no warnings', () => {

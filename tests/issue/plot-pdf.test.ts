@@ -12,7 +12,8 @@ import { renderRevisionPdf } from '../../lib/issue/pdf/render';
 import { buildRevisionPdfData, FIXTURE_CELLS } from './pdf-fixture';
 
 const folder = mkdtempSync(path.join(tmpdir(), 'ws-plot-pdf-'));
-const run = (tool: string, args: string[]) => execFileSync(tool, args, { encoding: 'utf8', maxBuffer: 64 * 1024 * 1024 });
+const run = (tool: string, args: string[]) =>
+  execFileSync(tool, args, { encoding: 'utf8', maxBuffer: 64 * 1024 * 1024 });
 const flat = (s: string) => s.replace(/\s+/g, ' ');
 
 // SI Brochure, 9th ed.: c exact; a proper acceleration of 25 m/s² (a test value, no published source);
@@ -84,12 +85,43 @@ const propagated: UncertaintyResult = {
   text: '2.4297 ± 0.0012 T·m (k = 2)',
   tex: '2.4297 \\pm 0.0012\\ \\mathrm{T}\\cdot\\mathrm{m}',
   budget: [
-    { name: 'T_u', valueText: '250 MeV', uText: '0.5 MeV', sensitivity: 7.7e-3, sensitivityText: '0.001 22 T·m/MeV', contribution: 0.00061, contributionText: '0.000 61 T·m', share: 0.9991 },
-    { name: 'm_p', valueText: '1.672 62 × 10⁻²⁷ kg', uText: '5.2 × 10⁻³⁷ kg', sensitivity: 1e26, sensitivityText: '1.1 × 10²⁶ T·m/kg', contribution: 2e-11, contributionText: '2 × 10⁻¹¹ T·m', share: 0.0009 },
+    {
+      name: 'T_u',
+      valueText: '250 MeV',
+      uText: '0.5 MeV',
+      sensitivity: 7.7e-3,
+      sensitivityText: '0.001 22 T·m/MeV',
+      contribution: 0.00061,
+      contributionText: '0.000 61 T·m',
+      share: 0.9991,
+    },
+    {
+      name: 'm_p',
+      valueText: '1.672 62 × 10⁻²⁷ kg',
+      uText: '5.2 × 10⁻³⁷ kg',
+      sensitivity: 1e26,
+      sensitivityText: '1.1 × 10²⁶ T·m/kg',
+      contribution: 2e-11,
+      contributionText: '2 × 10⁻¹¹ T·m',
+      share: 0.0009,
+    },
   ],
   nonLinear: true,
-  monteCarlo: { trials: 200_000, outOfDomain: 12, seed: 20261202, mean: 2.42969, u: 0.00061, low: 2.42848, high: 2.43092, tolerance: 0.00005, dLow: 0.00002, dHigh: 0.00003, agrees: true, text: 'mean 2.429 69 T·m, u = 0.000 61 T·m, 95.45 % interval [2.428 48, 2.430 92] T·m' },
-  warning: '12 of 200 000 draws fell outside the model\'s domain',
+  monteCarlo: {
+    trials: 200_000,
+    outOfDomain: 12,
+    seed: 20261202,
+    mean: 2.42969,
+    u: 0.00061,
+    low: 2.42848,
+    high: 2.43092,
+    tolerance: 0.00005,
+    dLow: 0.00002,
+    dHigh: 0.00003,
+    agrees: true,
+    text: 'mean 2.429 69 T·m, u = 0.000 61 T·m, 95.45 % interval [2.428 48, 2.430 92] T·m',
+  },
+  warning: "12 of 200 000 draws fell outside the model's domain",
 };
 
 const statement = (line: number, source: string, extra: Partial<StatementResult>): StatementResult => ({
@@ -123,19 +155,48 @@ const studyCell: CellResult = {
   defines: ['T_u', 'Brho_u', 'B_ref'],
   uses: [],
   statements: [
-    statement(1, STUDY_SOURCE[0], { name: 'T_u', tex: 'T_u = 250\\ \\mathrm{MeV}', value: { kind: 'quantity', text: '250 MeV', tex: '250\\ \\mathrm{MeV}', number: 250, unit: 'MeV', raw: null }, uncertainty: inputUncertainty }),
+    statement(1, STUDY_SOURCE[0], {
+      name: 'T_u',
+      tex: 'T_u = 250\\ \\mathrm{MeV}',
+      value: { kind: 'quantity', text: '250 MeV', tex: '250\\ \\mathrm{MeV}', number: 250, unit: 'MeV', raw: null },
+      uncertainty: inputUncertainty,
+    }),
     statement(2, STUDY_SOURCE[1], {
       name: 'Brho_u',
       tex: 'B\\rho_u = \\mathrm{magneticRigidity}(p, q_e)',
-      value: { kind: 'quantity', text: '2.429 68 T·m', tex: '2.429\\,68\\ \\mathrm{T}\\cdot\\mathrm{m}', number: 2.42968, unit: 'T m', raw: null },
+      value: {
+        kind: 'quantity',
+        text: '2.429 68 T·m',
+        tex: '2.429\\,68\\ \\mathrm{T}\\cdot\\mathrm{m}',
+        number: 2.42968,
+        unit: 'T m',
+        raw: null,
+      },
       uncertainty: propagated,
     }),
     statement(3, STUDY_SOURCE[2], {
       name: 'B_ref',
       tex: 'B_{ref} = 2.4297\\ \\mathrm{T}\\cdot\\mathrm{m}',
-      value: { kind: 'quantity', text: '2.4297 T·m', tex: '2.4297\\ \\mathrm{T}\\cdot\\mathrm{m}', number: 2.4297, unit: 'T m', raw: null },
+      value: {
+        kind: 'quantity',
+        text: '2.4297 T·m',
+        tex: '2.4297\\ \\mathrm{T}\\cdot\\mathrm{m}',
+        number: 2.4297,
+        unit: 'T m',
+        raw: null,
+      },
       references: [
-        { sheet: 'TPT2-CALC-0003', revision: 'B', name: 'Brho', value: { number: 2.4297, unit: 'T m', uncertainty: null }, error: null, status: 'superseded', supersededBy: 'C', title: 'Rigidity of the 250 MeV beam', versionSha256: 'ab'.repeat(32) },
+        {
+          sheet: 'TPT2-CALC-0003',
+          revision: 'B',
+          name: 'Brho',
+          value: { number: 2.4297, unit: 'T m', uncertainty: null },
+          error: null,
+          status: 'superseded',
+          supersededBy: 'C',
+          title: 'Rigidity of the 250 MeV beam',
+          versionSha256: 'ab'.repeat(32),
+        },
       ],
     }),
     statement(4, STUDY_SOURCE[3], { kind: 'sweep', table: sweep }),
@@ -153,18 +214,33 @@ let plotPage: number;
 const screenshots = path.join(process.cwd(), '.data', 'screenshots');
 
 beforeAll(async () => {
-  data = buildRevisionPdfData({ cells: [...FIXTURE_CELLS, { id: 'studies', kind: 'calc', source: STUDY_SOURCE.join('\n') }] });
+  data = buildRevisionPdfData({
+    cells: [...FIXTURE_CELLS, { id: 'studies', kind: 'calc', source: STUDY_SOURCE.join('\n') }],
+  });
   data.version.results.cells = [...data.version.results.cells.filter((cell) => cell.id !== 'studies'), studyCell];
   const bytes = await renderRevisionPdf(data);
   file = path.join(folder, 'studies.pdf');
   writeFileSync(file, bytes);
   pageCount = Number(/^Pages:\s+(\d+)/m.exec(run('pdfinfo', [file]))?.[1]);
-  for (let p = 1; p <= pageCount; p++) pages[p] = run('pdftotext', ['-layout', '-f', String(p), '-l', String(p), file, '-']);
+  for (let p = 1; p <= pageCount; p++)
+    pages[p] = run('pdftotext', ['-layout', '-f', String(p), '-l', String(p), file, '-']);
   whole = flat(run('pdftotext', [file, '-']));
   plotPage = pages.findIndex((t) => t?.includes('ct (ly)'));
   // A picture of the figure's page for people to look at (.data/ is git-ignored).
   mkdirSync(screenshots, { recursive: true });
-  if (plotPage > 0) run('pdftoppm', ['-png', '-r', '60', '-f', String(plotPage), '-l', String(plotPage), '-singlefile', file, path.join(screenshots, 'pdf-plot-page')]);
+  if (plotPage > 0)
+    run('pdftoppm', [
+      '-png',
+      '-r',
+      '60',
+      '-f',
+      String(plotPage),
+      '-l',
+      String(plotPage),
+      '-singlefile',
+      file,
+      path.join(screenshots, 'pdf-plot-page'),
+    ]);
 }, 180_000);
 
 /** The page as RGB pixels at `dpi` (pdftoppm's binary PPM). */
@@ -191,7 +267,7 @@ describe('a plot in the issued PDF', () => {
     expect(whole).toContain('horizon Rindler horizon: x = ct − 0.379 994 ly'); // c²/a in light-years, computed above
   });
 
-  it('is drawn as vector graphics: the worldline\'s blue and the horizon\'s brown are on the page, and there are no images', () => {
+  it("is drawn as vector graphics: the worldline's blue and the horizon's brown are on the page, and there are no images", () => {
     const { rgb } = pagePixels(plotPage, 60);
     let blue = 0;
     let brown = 0;
@@ -203,24 +279,33 @@ describe('a plot in the issued PDF', () => {
     // A 3-year worldline over ~300 pt at 60 dpi is a few hundred pixels of line.
     expect(blue).toBeGreaterThan(150);
     expect(brown).toBeGreaterThan(50);
-    const images = run('pdfimages', ['-list', '-f', String(plotPage), '-l', String(plotPage), file]).split('\n').slice(2).filter((l) => l.trim());
+    const images = run('pdfimages', ['-list', '-f', String(plotPage), '-l', String(plotPage), file])
+      .split('\n')
+      .slice(2)
+      .filter((l) => l.trim());
     expect(images).toEqual([]);
   });
 
   it('uses only the embedded faces for its text', () => {
-    const rows = run('pdffonts', [file]).split('\n').slice(2).filter((l) => l.trim());
-    for (const row of rows) expect(row).toMatch(/^[A-Z]{6}\+(SourceSans3-(Regular|Italic|SemiBold|Bold)|NotoSansMono-(Regular|Bold))\s/);
+    const rows = run('pdffonts', [file])
+      .split('\n')
+      .slice(2)
+      .filter((l) => l.trim());
+    for (const row of rows)
+      expect(row).toMatch(/^[A-Z]{6}\+(SourceSans3-(Regular|Italic|SemiBold|Bold)|NotoSansMono-(Regular|Bold))\s/);
   });
 });
 
 describe('a sweep table in the issued PDF', () => {
-  it('has a header of names and readable units, numbers at the sheet\'s significant figures, and the failed step with its error', () => {
+  it("has a header of names and readable units, numbers at the sheet's significant figures, and the failed step with its error", () => {
     expect(whole).toContain('Sweep, L4: 4 steps, 1 failed');
     const layout = flat(pages.join('\n'));
     expect(layout).toMatch(/T_kin \(MeV\)\s+Brho \(T·m\)/);
     // Six significant figures, trailing zeros kept (common practice): 1.834 30.
     expect(layout).toContain('150 1.834 30');
-    expect(layout).toContain('−10 Step failed: speedFromKinetic: the kinetic energy must not be negative (got −10 MeV)');
+    expect(layout).toContain(
+      '−10 Step failed: speedFromKinetic: the kinetic energy must not be negative (got −10 MeV)',
+    );
   });
 
   it('repeats its header on each page it runs onto', () => {
@@ -236,7 +321,12 @@ describe('a sweep table in the issued PDF', () => {
       expect(header, `page ${p}: header above the rows`).toBeLessThan(firstRow);
     }
     // Every step is there once, in order.
-    const steps = withRows.flatMap(({ t }) => t.split('\n').filter((l) => row.test(l)).map((l) => Number(l.trim().split(/\s+/)[0])));
+    const steps = withRows.flatMap(({ t }) =>
+      t
+        .split('\n')
+        .filter((l) => row.test(l))
+        .map((l) => Number(l.trim().split(/\s+/)[0])),
+    );
     expect(steps).toEqual(longSweep.rows.map((r) => r[0]));
   });
 });
@@ -248,20 +338,27 @@ describe('uncertainty and citations in the issued PDF', () => {
     expect(whole).toContain('standard uncertainty u = 0.50 MeV');
   });
 
-  it('shows the budget: each input\'s contribution and share, u_c and U, the Monte Carlo check and the caution', () => {
+  it("shows the budget: each input's contribution and share, u_c and U, the Monte Carlo check and the caution", () => {
     expect(whole).toContain('Uncertainty budget, L2');
     const layout = flat(pages.join('\n'));
     expect(layout).toMatch(/Input\s+Value\s+Standard uncertainty\s+Sensitivity coefficient\s+Contribution\s+Share/);
     expect(layout).toContain('T_u 250 MeV 0.5 MeV 0.001 22 T·m/MeV 0.000 61 T·m 99.9 %');
     // Two significant digits (GUM 7.2.6), written as the sheet writes numbers below 10⁻³ (lib/calc/format.ts).
-    expect(whole).toContain('combined standard uncertainty u_c = 6.1 × 10⁻⁴ T·m; expanded uncertainty U = 0.0012 T·m (k = 2)');
+    expect(whole).toContain(
+      'combined standard uncertainty u_c = 6.1 × 10⁻⁴ T·m; expanded uncertainty U = 0.0012 T·m (k = 2)',
+    );
     expect(whole).toContain('Monte Carlo propagation (JCGM 101): 200 000 trials, seed 20261202');
     expect(whole).toContain('Agrees with the first-order result');
     expect(whole).toContain("Caution: 12 of 200 000 draws fell outside the model's domain");
   });
 
   it('names the cited revision under the statement, with a badge when it is superseded', () => {
-    const line = pages.join('\n').split('\n').find((l) => l.includes('from TPT2-CALC-0003 rev. B, Brho'));
-    expect(line && flat(line).trim()).toBe('from TPT2-CALC-0003 rev. B, Brho (Rigidity of the 250 MeV beam) SUPERSEDED BY REV. C');
+    const line = pages
+      .join('\n')
+      .split('\n')
+      .find((l) => l.includes('from TPT2-CALC-0003 rev. B, Brho'));
+    expect(line && flat(line).trim()).toBe(
+      'from TPT2-CALC-0003 rev. B, Brho (Rigidity of the 250 MeV beam) SUPERSEDED BY REV. C',
+    );
   });
 });

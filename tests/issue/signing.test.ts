@@ -9,7 +9,13 @@ import path from 'node:path';
 import forge from 'node-forge';
 import { PDFDocument } from 'pdf-lib';
 import { afterEach, beforeAll, describe, expect, it, vi } from 'vitest';
-import { checkDerBudget, CONTAINER_TOO_COMPLEX, CONTAINER_TOO_LARGE, SIGNATURE_BUDGET, verifyPdfSignature } from '../../lib/issue/cades';
+import {
+  checkDerBudget,
+  CONTAINER_TOO_COMPLEX,
+  CONTAINER_TOO_LARGE,
+  SIGNATURE_BUDGET,
+  verifyPdfSignature,
+} from '../../lib/issue/cades';
 import { signingIdentity } from '../../lib/issue/identity';
 import { signPdf } from '../../lib/issue/sign-pdf';
 import { derSequenceOfNulls, pdfWithSignatureContents } from '../support/hostile-pdf';
@@ -27,7 +33,13 @@ beforeAll(async () => {
   process.env.WORLDSHEET_KEY_FOLDER = path.join(folder, 'keys');
   const doc = await PDFDocument.create();
   doc.addPage().drawText('TPT2-CALC-0001 revision A', { x: 50, y: 700 });
-  signed = await signPdf(await doc.save(), { reason: 'Issued', location: 'Tarnmoor', contactInfo: 'document.control@kestrelwick.example', name: 'Kestrelwick Beam Systems Ltd', signingTime: new Date('2026-12-02T10:00:00Z') });
+  signed = await signPdf(await doc.save(), {
+    reason: 'Issued',
+    location: 'Tarnmoor',
+    contactInfo: 'document.control@kestrelwick.example',
+    name: 'Kestrelwick Beam Systems Ltd',
+    signingTime: new Date('2026-12-02T10:00:00Z'),
+  });
 });
 
 describe('the embedded signature', () => {
@@ -42,7 +54,13 @@ describe('the embedded signature', () => {
 
   it('is verified by our own verifier with the organisation\u2019s certificate', () => {
     const check = verifyPdfSignature(signed);
-    expect(check).toMatchObject({ valid: true, coversWholeFile: true, subFilter: 'ETSI.CAdES.detached', signerOrganisation: 'Kestrelwick Beam Systems Ltd', problem: null });
+    expect(check).toMatchObject({
+      valid: true,
+      coversWholeFile: true,
+      subFilter: 'ETSI.CAdES.detached',
+      signerOrganisation: 'Kestrelwick Beam Systems Ltd',
+      problem: null,
+    });
     expect(check.certificateSha256).toBe(signingIdentity().certificateSha256);
   });
 
@@ -58,12 +76,18 @@ describe('the embedded signature', () => {
     const at = signed.indexOf('TPT2') > 0 ? signed.indexOf('/Type /Page') : 400;
     tampered[at + 1] ^= 0x01;
     expect(pdfsig(tampered)).not.toContain('Signature is Valid.');
-    expect(verifyPdfSignature(tampered)).toMatchObject({ valid: false, problem: 'The file was changed after it was signed: its digest no longer matches the signature.' });
+    expect(verifyPdfSignature(tampered)).toMatchObject({
+      valid: false,
+      problem: 'The file was changed after it was signed: its digest no longer matches the signature.',
+    });
   });
 
   it('says when there is no signature at all, or bytes were appended after it', async () => {
     const plain = Buffer.from(await (await PDFDocument.create()).save());
-    expect(verifyPdfSignature(plain)).toMatchObject({ valid: false, problem: 'The file carries no digital signature.' });
+    expect(verifyPdfSignature(plain)).toMatchObject({
+      valid: false,
+      problem: 'The file carries no digital signature.',
+    });
     const appended = Buffer.concat([signed, Buffer.from('\n% appended\n')]);
     expect(verifyPdfSignature(appended)).toMatchObject({ valid: true, coversWholeFile: false });
     expect(pdfsig(appended)).not.toContain('Total document signed');
@@ -92,7 +116,12 @@ describe('the signature container budget (checked before anything parses it)', (
     const fromDer = vi.spyOn(forge.asn1, 'fromDer');
     const hostile = pdfWithSignatureContents(derSequenceOfNulls(4_500_000));
     expect(hostile.length).toBeGreaterThan(18_000_000);
-    expect(verifyPdfSignature(hostile)).toMatchObject({ valid: false, refused: 'too-large', problem: CONTAINER_TOO_LARGE, subFilter: 'ETSI.CAdES.detached' });
+    expect(verifyPdfSignature(hostile)).toMatchObject({
+      valid: false,
+      refused: 'too-large',
+      problem: CONTAINER_TOO_LARGE,
+      subFilter: 'ETSI.CAdES.detached',
+    });
     expect(CONTAINER_TOO_LARGE).toMatch(/^Not an authentic issued revision: signature container too large/);
     expect(fromDer).not.toHaveBeenCalled();
   });
@@ -102,7 +131,11 @@ describe('the signature container budget (checked before anything parses it)', (
     expect(der.length).toBeLessThan(SIGNATURE_BUDGET.maxDerBytes);
     expect(checkDerBudget(der)).toEqual({ ok: false, refused: 'too-complex' });
     const fromDer = vi.spyOn(forge.asn1, 'fromDer');
-    expect(verifyPdfSignature(pdfWithSignatureContents(der))).toMatchObject({ valid: false, refused: 'too-complex', problem: CONTAINER_TOO_COMPLEX });
+    expect(verifyPdfSignature(pdfWithSignatureContents(der))).toMatchObject({
+      valid: false,
+      refused: 'too-complex',
+      problem: CONTAINER_TOO_COMPLEX,
+    });
     expect(CONTAINER_TOO_COMPLEX).toMatch(/^Not an authentic issued revision: signature container too complex/);
     expect(fromDer).not.toHaveBeenCalled();
   });
@@ -110,17 +143,32 @@ describe('the signature container budget (checked before anything parses it)', (
   it('refuses deep nesting and lengths that overrun their parent as it walks', () => {
     // 70 nested SEQUENCEs, each holding the next: deeper than the budget's 64.
     let nested = Buffer.from([0x05, 0x00]);
-    for (let i = 0; i < 70; i++) nested = Buffer.concat([Buffer.from([0x30, ...(nested.length < 128 ? [nested.length] : [0x81, nested.length])]), nested]);
+    for (let i = 0; i < 70; i++)
+      nested = Buffer.concat([
+        Buffer.from([0x30, ...(nested.length < 128 ? [nested.length] : [0x81, nested.length])]),
+        nested,
+      ]);
     expect(checkDerBudget(nested)).toEqual({ ok: false, refused: 'too-complex' });
-    expect(checkDerBudget(Buffer.from([0x30, 0x04, 0x04, 0x05, 0x00, 0x00]))).toEqual({ ok: false, refused: 'malformed' });
-    expect(checkDerBudget(Buffer.from([0x30, 0x80, 0x05, 0x00, 0x00, 0x00]))).toEqual({ ok: false, refused: 'malformed' });
+    expect(checkDerBudget(Buffer.from([0x30, 0x04, 0x04, 0x05, 0x00, 0x00]))).toEqual({
+      ok: false,
+      refused: 'malformed',
+    });
+    expect(checkDerBudget(Buffer.from([0x30, 0x80, 0x05, 0x00, 0x00, 0x00]))).toEqual({
+      ok: false,
+      refused: 'malformed',
+    });
     expect(checkDerBudget(Buffer.from([0x30, 0x02, 0x05, 0x00]))).toEqual({ ok: true, bytes: 4, elements: 2 });
   });
 
   it('reads a genuine container placed in the same wrapper (the wrapper is a fair test)', () => {
     const wrapped = pdfWithSignatureContents(readContents(signed));
     // Its digest cannot match (other bytes are signed), but the container is read and parsed.
-    expect(verifyPdfSignature(wrapped)).toMatchObject({ valid: false, refused: null, problem: 'The file was changed after it was signed: its digest no longer matches the signature.', signerOrganisation: 'Kestrelwick Beam Systems Ltd' });
+    expect(verifyPdfSignature(wrapped)).toMatchObject({
+      valid: false,
+      refused: null,
+      problem: 'The file was changed after it was signed: its digest no longer matches the signature.',
+      signerOrganisation: 'Kestrelwick Beam Systems Ltd',
+    });
   });
 });
 

@@ -12,7 +12,14 @@ import zlib from 'node:zlib';
 import { sql } from 'kysely';
 import { PDFArray, PDFDocument, PDFName, PDFRawStream, PDFString } from 'pdf-lib';
 import { beforeEach, describe, expect, it } from 'vitest';
-import { listRevisions, processIssueJob, requestIssue, revisionPdf, verifyPdfFile, withdrawRevision } from '../../lib/issue/issue';
+import {
+  listRevisions,
+  processIssueJob,
+  requestIssue,
+  revisionPdf,
+  verifyPdfFile,
+  withdrawRevision,
+} from '../../lib/issue/issue';
 import { storageConfig } from '../../lib/storage/config';
 import { createObjectStore } from '../../lib/storage/object-store';
 import { approveNewVersion, makeSheet, makeTeam, type SheetRef, type Team } from '../support/approved-sheet';
@@ -29,7 +36,8 @@ function saved(bytes: Uint8Array): string {
   writeFileSync(file, bytes);
   return file;
 }
-const run = (tool: string, args: string[]) => execFileSync(tool, args, { encoding: 'utf8', env: { ...process.env, TZ: 'UTC' } });
+const run = (tool: string, args: string[]) =>
+  execFileSync(tool, args, { encoding: 'utf8', env: { ...process.env, TZ: 'UTC' } });
 
 /** pdfsig's report, one block per signature ("Signature #1:" …). */
 function signatures(bytes: Uint8Array) {
@@ -37,7 +45,11 @@ function signatures(bytes: Uint8Array) {
   return out
     .split(/^Signature #\d+:$/m)
     .slice(1)
-    .map((block) => ({ valid: block.includes('Signature Validation: Signature is Valid.'), whole: block.includes('- Total document signed'), block }));
+    .map((block) => ({
+      valid: block.includes('Signature Validation: Signature is Valid.'),
+      whole: block.includes('- Total document signed'),
+      block,
+    }));
 }
 
 type World = Team & { sheet: SheetRef };
@@ -45,12 +57,20 @@ let w: World;
 beforeEach(async () => {
   const db = testDb();
   const team = await makeTeam(db, { code: 'STMP' });
-  const sheet = await makeSheet(db, team.author, { id: team.projectId, code: 'STMP' }, { title: 'Gantry dipole rigidity', safetyRelated: false, objective: 'Bρ of the gantry dipoles' });
+  const sheet = await makeSheet(
+    db,
+    team.author,
+    { id: team.projectId, code: 'STMP' },
+    { title: 'Gantry dipole rigidity', safetyRelated: false, objective: 'Bρ of the gantry dipoles' },
+  );
   w = { ...team, sheet };
 });
 
 async function issue(source: string) {
-  const versionNumber = await approveNewVersion(testDb(), w, w.sheet, { message: `Rigidity at ${source}`, cells: [{ id: 'c1', kind: 'calc', source }] });
+  const versionNumber = await approveNewVersion(testDb(), w, w.sheet, {
+    message: `Rigidity at ${source}`,
+    cells: [{ id: 'c1', kind: 'calc', source }],
+  });
   const { jobId } = await requestIssue(testDb(), w.controller, w.sheet, { versionNumber, password: PASSWORD });
   return (await processIssueJob(testDb(), store(), jobId))!;
 }
@@ -67,7 +87,9 @@ describe('stamped copies keep the issued signature', () => {
     const rowA = (await listRevisions(db, { sheetId: w.sheet.id })).find((r) => r.revision === 'A')!;
     const info = run('pdfinfo', ['-isodates', saved(originalA)]);
     const created = /^CreationDate:\s+(\S+)/m.exec(info)![1];
-    expect(new Date(created).toISOString()).toBe(new Date(Math.floor(Date.parse(rowA.issuedAt) / 1000) * 1000).toISOString());
+    expect(new Date(created).toISOString()).toBe(
+      new Date(Math.floor(Date.parse(rowA.issuedAt) / 1000) * 1000).toISOString(),
+    );
     expect(created).not.toMatch(/T00:00:00/);
     // The document language (ISO 32000-1 §14.9.2.2, the catalog's /Lang).
     const lang = (await PDFDocument.load(originalA, { updateMetadata: false })).catalog.lookup(PDFName.of('Lang'));
@@ -99,8 +121,14 @@ describe('stamped copies keep the issued signature', () => {
       expect(sigs[1].block).toContain(`Signature Field Name: Stamp ${status}`);
       // The verification page's answer.
       const answer = await verifyPdfFile(db, copy);
-      expect(answer).toMatchObject({ authentic: true, checks: { stampedCopy: true, hashInRegister: true, signatureValid: true, signedByOrganisation: true }, revision: { revision, status } });
-      expect(answer.summary).toMatch(new RegExp(`^Authentic stamped copy: this is STMP-CALC-0001 revision ${revision} .*stamped "${status}"`));
+      expect(answer).toMatchObject({
+        authentic: true,
+        checks: { stampedCopy: true, hashInRegister: true, signatureValid: true, signedByOrganisation: true },
+        revision: { revision, status },
+      });
+      expect(answer.summary).toMatch(
+        new RegExp(`^Authentic stamped copy: this is STMP-CALC-0001 revision ${revision} .*stamped "${status}"`),
+      );
       // What the copy says, as text: the stamp's words, and the title block's status overlaid.
       const text = run('pdftotext', ['-layout', saved(copy), '-']);
       expect(text).toMatch(new RegExp(`Stamped copy, not for use: ${status.toUpperCase()}`));
@@ -143,14 +171,34 @@ describe('stamped copies keep the issued signature', () => {
     expect(run('pdftotext', ['-layout', saved(laterA), '-'])).toMatch(/Stamped copy, not for use: WITHDRAWN/);
     expect(Buffer.compare((await revisionPdf(db, store(), a, false)).bytes, laterA)).toBe(0);
     // The database keeps it once for that status.
-    await expect(sql`update revisions set stamped_key = ${`revisions/stamped-${a}-withdrawn-x.pdf`}, stamped_sha256 = ${'0'.repeat(64)} where id = ${a}`.execute(db)).rejects.toThrow(/made once for each status/);
+    await expect(
+      sql`update revisions set stamped_key = ${`revisions/stamped-${a}-withdrawn-x.pdf`}, stamped_sha256 = ${'0'.repeat(64)} where id = ${a}`.execute(
+        db,
+      ),
+    ).rejects.toThrow(/made once for each status/);
     const oldCopy = await verifyPdfFile(db, superseded);
-    expect(oldCopy).toMatchObject({ authentic: true, checks: { stampedCopy: true }, revision: { revision: 'A', status: 'withdrawn' } });
-    expect(oldCopy.summary).toMatch(/stamped "superseded".*It is withdrawn \(Superseded and then found wrong\.\): do not use it\.$/);
+    expect(oldCopy).toMatchObject({
+      authentic: true,
+      checks: { stampedCopy: true },
+      revision: { revision: 'A', status: 'withdrawn' },
+    });
+    expect(oldCopy.summary).toMatch(
+      /stamped "superseded".*It is withdrawn \(Superseded and then found wrong\.\): do not use it\.$/,
+    );
 
     // A picture of the stamped first page, for a person to look at.
     mkdirSync(artifacts, { recursive: true });
     writeFileSync(path.join(artifacts, 'stamped-superseded.pdf'), superseded);
-    run('pdftoppm', ['-png', '-r', '80', '-f', '1', '-l', '1', saved(superseded), path.join(artifacts, 'stamped-superseded-page')]);
+    run('pdftoppm', [
+      '-png',
+      '-r',
+      '80',
+      '-f',
+      '1',
+      '-l',
+      '1',
+      saved(superseded),
+      path.join(artifacts, 'stamped-superseded-page'),
+    ]);
   });
 });

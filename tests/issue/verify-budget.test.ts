@@ -25,7 +25,13 @@ let signed: Buffer;
 beforeAll(async () => {
   const doc = await PDFDocument.create();
   doc.addPage().drawText('TPT2-CALC-0009 revision A (never issued)', { x: 50, y: 700 });
-  signed = await signPdf(await doc.save(), { reason: 'Issued', location: 'Tarnmoor', contactInfo: 'document.control@kestrelwick.example', name: 'Kestrelwick Beam Systems Ltd', signingTime: new Date('2026-12-02T10:00:00Z') });
+  signed = await signPdf(await doc.save(), {
+    reason: 'Issued',
+    location: 'Tarnmoor',
+    contactInfo: 'document.control@kestrelwick.example',
+    name: 'Kestrelwick Beam Systems Ltd',
+    signingTime: new Date('2026-12-02T10:00:00Z'),
+  });
 });
 
 afterEach(() => vi.restoreAllMocks());
@@ -36,7 +42,9 @@ describe('verifying a PDF', () => {
     const parsedBefore = getSignatureParser().parsed;
     const error = await refusal(verifyPdfFile(testDb(), pdfWithSignatureContents(derSequenceOfNulls(4_500_000))));
     expect(error.status).toBe(413);
-    expect(error.message).toMatch(/^Not an authentic issued revision: signature container too large \(more than 64 KiB/);
+    expect(error.message).toMatch(
+      /^Not an authentic issued revision: signature container too large \(more than 64 KiB/,
+    );
     expect(fromDer).not.toHaveBeenCalled();
     expect(getSignatureParser().parsed).toBe(parsedBefore);
   });
@@ -67,7 +75,9 @@ describe('the verification rate limit per address', () => {
     const error = await refusal(countVerification(testDb(), '192.0.2.7', limit));
     expect(error).toBeInstanceOf(AppError);
     expect(error.status).toBe(429);
-    expect(error.message).toMatch(/^Too many verifications from your address: at most 3 per 60 s\. Try again in \d+ s\.$/);
+    expect(error.message).toMatch(
+      /^Too many verifications from your address: at most 3 per 60 s\. Try again in \d+ s\.$/,
+    );
     expect(error.retryAfterSeconds).toBeGreaterThanOrEqual(1);
     expect(error.retryAfterSeconds).toBeLessThanOrEqual(60);
     const response = errorResponse(error);
@@ -77,16 +87,26 @@ describe('the verification rate limit per address', () => {
   });
 
   it('counts concurrent requests atomically: of 12 at once, exactly 3 pass', async () => {
-    const outcomes = await Promise.allSettled(Array.from({ length: 12 }, () => countVerification(testDb(), '203.0.113.9', limit)));
+    const outcomes = await Promise.allSettled(
+      Array.from({ length: 12 }, () => countVerification(testDb(), '203.0.113.9', limit)),
+    );
     expect(outcomes.filter((o) => o.status === 'fulfilled')).toHaveLength(3);
     expect(outcomes.filter((o) => o.status === 'rejected' && (o.reason as AppError).status === 429)).toHaveLength(9);
   });
 
   it('starts a new window once the old one has ended', async () => {
     for (let i = 0; i < 3; i++) await countVerification(testDb(), '192.0.2.8', limit);
-    await testDb().updateTable('verify_rate_limits').set({ window_started_at: new Date(Date.now() - 61_000) }).where('address', '=', '192.0.2.8').execute();
+    await testDb()
+      .updateTable('verify_rate_limits')
+      .set({ window_started_at: new Date(Date.now() - 61_000) })
+      .where('address', '=', '192.0.2.8')
+      .execute();
     await countVerification(testDb(), '192.0.2.8', limit);
-    const row = await testDb().selectFrom('verify_rate_limits').select('requests').where('address', '=', '192.0.2.8').executeTakeFirstOrThrow();
+    const row = await testDb()
+      .selectFrom('verify_rate_limits')
+      .select('requests')
+      .where('address', '=', '192.0.2.8')
+      .executeTakeFirstOrThrow();
     expect(row.requests).toBe(1);
   });
 });

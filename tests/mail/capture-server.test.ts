@@ -68,20 +68,33 @@ describe('refuses to start on a busy port', () => {
   });
 
   it('refuses one port for both', async () => {
-    await expect(startCaptureServer({ smtpPort: 2999, httpPort: 2999 })).rejects.toThrow(/both 2999; choose two different ports/);
+    await expect(startCaptureServer({ smtpPort: 2999, httpPort: 2999 })).rejects.toThrow(
+      /both 2999; choose two different ports/,
+    );
   });
 });
 
 it('captures messages newest first, within its bound, and serves them over HTTP', async () => {
   const server = await start({ maxMessages: 2 });
-  const reply = await send(server.smtpUrl, 'One@Example.test', 'first', 'see https://example.test/a, and http://example.test/b?x=1&y=2.');
+  const reply = await send(
+    server.smtpUrl,
+    'One@Example.test',
+    'first',
+    'see https://example.test/a, and http://example.test/b?x=1&y=2.',
+  );
   expect(reply.response).toMatch(/^250 /);
   await send(server.smtpUrl, 'two@example.test', 'second', 'no links');
   await send(server.smtpUrl, 'three@example.test', 'third', 'https://example.test/c');
 
   const list = await listCapturedMessages(server.url);
   expect(list.map((m) => m.subject)).toEqual(['third', 'second']);
-  expect(list[0]).toMatchObject({ to: ['three@example.test'], from: 'Tester <tester@example.test>', links: ['https://example.test/c'], html: null, kind: null });
+  expect(list[0]).toMatchObject({
+    to: ['three@example.test'],
+    from: 'Tester <tester@example.test>',
+    links: ['https://example.test/c'],
+    html: null,
+    kind: null,
+  });
   expect(Date.parse(list[0].date)).not.toBeNaN();
   expect(await getCapturedMessage(server.url, list[1].id)).toEqual(list[1]);
   expect(await getCapturedMessage(server.url, 'no-such-id')).toBeNull();
@@ -95,14 +108,12 @@ it('captures messages newest first, within its bound, and serves them over HTTP'
 });
 
 it('finds the links of a text, or of an HTML-only message', () => {
-  expect(findLinks('see https://example.test/a, and http://example.test/b?x=1&y=2.\n(https://example.test/c)', null)).toEqual([
-    'https://example.test/a',
-    'http://example.test/b?x=1&y=2',
-    'https://example.test/c',
-  ]);
-  expect(findLinks('', '<a href="https://example.test/r?t=1&amp;u=2">reset</a> <a href="mailto:x@example.test">x</a>')).toEqual([
-    'https://example.test/r?t=1&u=2',
-  ]);
+  expect(
+    findLinks('see https://example.test/a, and http://example.test/b?x=1&y=2.\n(https://example.test/c)', null),
+  ).toEqual(['https://example.test/a', 'http://example.test/b?x=1&y=2', 'https://example.test/c']);
+  expect(
+    findLinks('', '<a href="https://example.test/r?t=1&amp;u=2">reset</a> <a href="mailto:x@example.test">x</a>'),
+  ).toEqual(['https://example.test/r?t=1&u=2']);
 });
 
 it('stops, freeing both ports, and starts again on the same ports', async () => {

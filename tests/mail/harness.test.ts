@@ -42,7 +42,17 @@ it('has no mailbox page outside demo mode', async () => {
 it('delivers queued mail through the worker process', async () => {
   await testDb()
     .transaction()
-    .execute((trx) => enqueueMail(trx, { to: 'bea@example.test', subject: 'Welcome to Worldsheet', text: 'Sign in at http://127.0.0.1:3000/sign-in', kind: 'invitation' }));
-  const mail = await waitForMail({ to: 'bea@example.test', subject: 'Welcome to Worldsheet', kind: 'invitation' }, 10_000);
+    .execute((trx) =>
+      enqueueMail(trx, {
+        to: 'bea@example.test',
+        subject: 'Welcome to Worldsheet',
+        text: 'Sign in at http://127.0.0.1:3000/sign-in',
+        kind: 'invitation',
+      }),
+    );
+  const mail = await waitForMail(
+    { to: 'bea@example.test', subject: 'Welcome to Worldsheet', kind: 'invitation' },
+    10_000,
+  );
   expect(mail.links).toEqual(['http://127.0.0.1:3000/sign-in']);
 });

@@ -28,7 +28,10 @@ async function capture(): Promise<CaptureServer> {
   return server;
 }
 
-async function send(server: CaptureServer, messages: Array<{ to: string; subject: string; text: string }>): Promise<void> {
+async function send(
+  server: CaptureServer,
+  messages: Array<{ to: string; subject: string; text: string }>,
+): Promise<void> {
   const transport = nodemailer.createTransport(server.smtpUrl);
   for (const m of messages) await transport.sendMail({ from: 'Worldsheet <no-reply@worldsheet.test>', ...m });
   transport.close();
@@ -38,7 +41,9 @@ const demo = (server: CaptureServer) => ({ WORLDSHEET_DEMO: '1', WORLDSHEET_MAIL
 
 it('has no data and answers 404 outside demo mode', async () => {
   const ada = await makeUser(testDb(), 'ada@example.test');
-  expect(await loadDemoMailbox(testDb(), ada, { WORLDSHEET_DEMO: '0', WORLDSHEET_MAIL_CAPTURE_URL: 'http://127.0.0.1:9' })).toEqual({ status: 'not-demo' });
+  expect(
+    await loadDemoMailbox(testDb(), ada, { WORLDSHEET_DEMO: '0', WORLDSHEET_MAIL_CAPTURE_URL: 'http://127.0.0.1:9' }),
+  ).toEqual({ status: 'not-demo' });
   expect(await loadDemoMailbox(testDb(), ada, {})).toEqual({ status: 'not-demo' });
   expect(demoMailboxEnabled({ WORLDSHEET_DEMO: '0' })).toBe(false);
   vi.stubEnv('WORLDSHEET_DEMO', '0');
@@ -52,7 +57,9 @@ it('has no data and answers 404 outside demo mode', async () => {
   }
   expect(thrown).toMatchObject({ digest: 'NEXT_HTTP_ERROR_FALLBACK;404' });
   expect(generateMetadata()).toEqual({});
-  expect(() => DemoMailbox({ mailbox: { status: 'not-demo' } })).toThrow(expect.objectContaining({ digest: 'NEXT_HTTP_ERROR_FALLBACK;404' }));
+  expect(() => DemoMailbox({ mailbox: { status: 'not-demo' } })).toThrow(
+    expect.objectContaining({ digest: 'NEXT_HTTP_ERROR_FALLBACK;404' }),
+  );
   vi.stubEnv('WORLDSHEET_DEMO', '1');
   expect(MailboxPage().type).toBeTypeOf('function');
   expect(generateMetadata()).toEqual({ title: 'Demo mailbox' });
@@ -60,7 +67,13 @@ it('has no data and answers 404 outside demo mode', async () => {
 
 it('signed out, reads nothing and shows no mail, only that one must sign in', async () => {
   const server = await capture();
-  await send(server, [{ to: 'admin@example.test', subject: 'Your Worldsheet sign-in link', text: 'Sign in: http://127.0.0.1:3000/sign-in/link?token=s3cret' }]);
+  await send(server, [
+    {
+      to: 'admin@example.test',
+      subject: 'Your Worldsheet sign-in link',
+      text: 'Sign in: http://127.0.0.1:3000/sign-in/link?token=s3cret',
+    },
+  ]);
   expect(await loadDemoMailbox(testDb(), null, demo(server))).toEqual({ status: 'signed-out' });
   // With the capture server down the answer is the same: it was never asked.
   await server.stop();
@@ -75,8 +88,16 @@ it('shows a signed-in person only the mail addressed to them', async () => {
   const server = await capture();
   const ada = await makeUser(testDb(), 'ada@example.test');
   await send(server, [
-    { to: 'ada@example.test', subject: 'For Ada', text: 'Your link: http://127.0.0.1:3000/sign-in/link?token=ada-token' },
-    { to: 'admin@example.test', subject: 'For the administrator', text: 'Your link: http://127.0.0.1:3000/sign-in/link?token=admin-token' },
+    {
+      to: 'ada@example.test',
+      subject: 'For Ada',
+      text: 'Your link: http://127.0.0.1:3000/sign-in/link?token=ada-token',
+    },
+    {
+      to: 'admin@example.test',
+      subject: 'For the administrator',
+      text: 'Your link: http://127.0.0.1:3000/sign-in/link?token=admin-token',
+    },
     { to: 'bea@example.test, ADA@example.test', subject: 'For Bea and Ada', text: 'Hello both.' },
   ]);
   const data = await loadDemoMailbox(testDb(), { ...ada, email: 'Ada@Example.test' }, demo(server));
@@ -101,12 +122,28 @@ it('shows an administrator every message, and records each such reading in the a
   const data = await loadDemoMailbox(testDb(), admin, demo(server));
   expect(data).toMatchObject({ status: 'ok', scope: 'all' });
   expect(data.status === 'ok' && data.messages.map((m) => m.subject)).toEqual(['For Bea', 'For Ada']);
-  expect(renderToStaticMarkup(DemoMailbox({ mailbox: data }))).toContain('Each reading of this list is recorded in the audit trail.');
+  expect(renderToStaticMarkup(DemoMailbox({ mailbox: data }))).toContain(
+    'Each reading of this list is recorded in the audit trail.',
+  );
   await loadDemoMailbox(testDb(), admin, demo(server));
-  const events = await testDb().selectFrom('audit_events').select(['action', 'actor_id', 'object_type', 'new_value']).orderBy('id').execute();
+  const events = await testDb()
+    .selectFrom('audit_events')
+    .select(['action', 'actor_id', 'object_type', 'new_value'])
+    .orderBy('id')
+    .execute();
   expect(events).toEqual([
-    { action: 'mail.mailbox-read-all', actor_id: admin.userId, object_type: 'mailbox', new_value: { messages: 2, ids: ['2', '1'] } },
-    { action: 'mail.mailbox-read-all', actor_id: admin.userId, object_type: 'mailbox', new_value: { messages: 2, ids: ['2', '1'] } },
+    {
+      action: 'mail.mailbox-read-all',
+      actor_id: admin.userId,
+      object_type: 'mailbox',
+      new_value: { messages: 2, ids: ['2', '1'] },
+    },
+    {
+      action: 'mail.mailbox-read-all',
+      actor_id: admin.userId,
+      object_type: 'mailbox',
+      new_value: { messages: 2, ids: ['2', '1'] },
+    },
   ]);
 });
 
@@ -115,8 +152,15 @@ it('says so when the demo mail server does not answer', async () => {
   const server = await capture();
   await server.stop();
   const data = await loadDemoMailbox(testDb(), ada, demo(server));
-  expect(data).toMatchObject({ status: 'unavailable', captureUrl: server.url, reason: expect.stringMatching(/ECONNREFUSED/) });
-  expect(await loadDemoMailbox(testDb(), ada, { WORLDSHEET_DEMO: '1' })).toMatchObject({ status: 'unavailable', captureUrl: null });
+  expect(data).toMatchObject({
+    status: 'unavailable',
+    captureUrl: server.url,
+    reason: expect.stringMatching(/ECONNREFUSED/),
+  });
+  expect(await loadDemoMailbox(testDb(), ada, { WORLDSHEET_DEMO: '1' })).toMatchObject({
+    status: 'unavailable',
+    captureUrl: null,
+  });
   const html = renderToStaticMarkup(DemoMailbox({ mailbox: data }));
   expect(html).toContain('The demo mail server does not answer');
   expect(html).toContain('These e-mails were never delivered');
@@ -125,7 +169,9 @@ it('says so when the demo mail server does not answer', async () => {
 it('lists the mail in a table with a caption, header cells and clickable links', async () => {
   const server = await capture();
   const ada = await makeUser(testDb(), 'ada@example.test');
-  expect(renderToStaticMarkup(DemoMailbox({ mailbox: await loadDemoMailbox(testDb(), ada, demo(server)) }))).toContain('No e-mail to ada@example.test has been captured yet.');
+  expect(renderToStaticMarkup(DemoMailbox({ mailbox: await loadDemoMailbox(testDb(), ada, demo(server)) }))).toContain(
+    'No e-mail to ada@example.test has been captured yet.',
+  );
   await send(server, [
     {
       to: 'ada@example.test',
@@ -141,7 +187,9 @@ it('lists the mail in a table with a caption, header cells and clickable links',
   expect(html).toContain('These e-mails were never delivered');
   expect(html).toMatch(/<caption[^>]*>E-mails captured by the demo mail server, newest first<\/caption>/);
   for (const col of ['To', 'Subject', 'Received']) expect(html).toMatch(new RegExp(`<th scope="col"[^>]*>${col}</th>`));
-  expect(html).toMatch(/<th scope="row"[^>]*><a href="#message-1"[^>]*>Reset your &lt;Worldsheet&gt; password<\/a><\/th>/);
+  expect(html).toMatch(
+    /<th scope="row"[^>]*><a href="#message-1"[^>]*>Reset your &lt;Worldsheet&gt; password<\/a><\/th>/,
+  );
   expect(html).toContain('id="message-1"');
   // The link is clickable and the sentence's full stop stays outside it; the text is escaped, never HTML.
   expect(html).toContain('<a href="http://127.0.0.1:3000/reset-password?token=t0k&amp;n=1" rel="noreferrer"');

@@ -28,7 +28,10 @@ it('queues nothing when the transaction rolls back', async () => {
     db.transaction().execute(async (trx) => {
       await enqueueMail(trx, message);
       // Inside the transaction the job is there …
-      expect((await sql<{ n: number }>`select count(*)::int as n from pgboss.job where name = 'mail'`.execute(trx)).rows[0].n).toBe(1);
+      expect(
+        (await sql<{ n: number }>`select count(*)::int as n from pgboss.job where name = 'mail'`.execute(trx)).rows[0]
+          .n,
+      ).toBe(1);
       throw refused;
     }),
   ).rejects.toBe(refused);
@@ -60,7 +63,10 @@ it('delivers the mail of a committed transaction with its subject, text and link
 });
 
 it('queues on the plain connection too, and sends an HTML part when given', async () => {
-  await enqueueMail(testDb(), { ...message, html: '<p>Confirm: <a href="http://127.0.0.1:3000/verify-email?token=abc123">link</a></p>' });
+  await enqueueMail(testDb(), {
+    ...message,
+    html: '<p>Confirm: <a href="http://127.0.0.1:3000/verify-email?token=abc123">link</a></p>',
+  });
   expect((await drainMailQueue()).delivered).toBe(1);
   const mail = await waitForMail({ to: message.to, kind: 'verify-email' }, 5000);
   expect(mail.html).toContain('<a href="http://127.0.0.1:3000/verify-email?token=abc123">');
@@ -69,15 +75,27 @@ it('queues on the plain connection too, and sends an HTML part when given', asyn
 
 it('refuses an invalid message before anything is queued', async () => {
   await expect(enqueueMail(testDb(), { ...message, to: 'not an address' })).rejects.toBeInstanceOf(ZodError);
-  await expect(enqueueMail(testDb(), { ...message, subject: 'two\r\nBcc: someone@example.test' })).rejects.toBeInstanceOf(ZodError);
+  await expect(
+    enqueueMail(testDb(), { ...message, subject: 'two\r\nBcc: someone@example.test' }),
+  ).rejects.toBeInstanceOf(ZodError);
   await expect(enqueueMail(testDb(), { ...message, kind: 'Verify Email' })).rejects.toBeInstanceOf(ZodError);
   expect(await mailJobs()).toEqual([]);
 });
 
 it('keeps the mail queue on its retry settings', async () => {
-  const { rows } = await sql<{ retry_limit: number; retry_delay: number; retry_backoff: boolean; expire_seconds: number; retention_minutes: number }>`
-    select retry_limit, retry_delay, retry_backoff, expire_seconds, retention_minutes from pgboss.queue where name = 'mail'`.execute(testDb());
-  expect(rows).toEqual([{ retry_limit: 20, retry_delay: 5, retry_backoff: true, expire_seconds: 120, retention_minutes: 30 * 24 * 60 }]);
+  const { rows } = await sql<{
+    retry_limit: number;
+    retry_delay: number;
+    retry_backoff: boolean;
+    expire_seconds: number;
+    retention_minutes: number;
+  }>`
+    select retry_limit, retry_delay, retry_backoff, expire_seconds, retention_minutes from pgboss.queue where name = 'mail'`.execute(
+    testDb(),
+  );
+  expect(rows).toEqual([
+    { retry_limit: 20, retry_delay: 5, retry_backoff: true, expire_seconds: 120, retention_minutes: 30 * 24 * 60 },
+  ]);
 });
 
 it('leaves no job of an earlier test behind', async () => {

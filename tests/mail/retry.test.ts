@@ -39,19 +39,36 @@ it('the worker process retries while the mail service is down and delivers when 
   const id = await testDb()
     .transaction()
     .execute((trx) =>
-      enqueueMail(trx, { to: 'checker@example.test', subject: 'Please check SHEET-0007', text: 'http://127.0.0.1:3000/checks', kind: 'check-request' }, fastRetry),
+      enqueueMail(
+        trx,
+        {
+          to: 'checker@example.test',
+          subject: 'Please check SHEET-0007',
+          text: 'http://127.0.0.1:3000/checks',
+          kind: 'check-request',
+        },
+        fastRetry,
+      ),
     );
   // Nothing listens: the first attempt fails, the job waits for its retry, and that fails too.
-  await until('a failed retry', async () => {
-    const job = await jobState(id);
-    return job.state === 'retry' && job.retry_count >= 1;
-  }, 15_000);
+  await until(
+    'a failed retry',
+    async () => {
+      const job = await jobState(id);
+      return job.state === 'retry' && job.retry_count >= 1;
+    },
+    15_000,
+  );
   expect(worker.output()).toMatch(/not delivered .*ECONNREFUSED/);
 
   // The service comes back on the same port: the next retry delivers.
   const capture = await startCaptureServer({ smtpPort: ports.smtpPort, httpPort: ports.httpPort });
   captures.push(capture);
-  const mail = await waitForMail({ to: 'checker@example.test', subject: 'Please check SHEET-0007' }, 15_000, capture.url);
+  const mail = await waitForMail(
+    { to: 'checker@example.test', subject: 'Please check SHEET-0007' },
+    15_000,
+    capture.url,
+  );
   expect(mail).toMatchObject({ kind: 'check-request', links: ['http://127.0.0.1:3000/checks'] });
   await until('the job to complete', async () => (await jobState(id)).state === 'completed', 5000);
 
@@ -64,7 +81,11 @@ it('the worker process retries while the mail service is down and delivers when 
 
 it('drainMailQueue fails a job while the service is down and delivers it on a later drain', async () => {
   const ports = await portsOfAStoppedServer();
-  await enqueueMail(testDb(), { to: 'approver@example.test', subject: 'Approve SHEET-0008', text: 'Waiting for you.', kind: 'approval-request' }, fastRetry);
+  await enqueueMail(
+    testDb(),
+    { to: 'approver@example.test', subject: 'Approve SHEET-0008', text: 'Waiting for you.', kind: 'approval-request' },
+    fastRetry,
+  );
 
   expect(await drainMailQueue({ smtpUrl: ports.smtpUrl })).toEqual({ delivered: 0, failed: 1, waiting: 1 });
 

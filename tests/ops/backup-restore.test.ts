@@ -18,7 +18,17 @@ import type { Database } from '../../db/schema';
 import { uploadAttachment } from '../../lib/attachments/attachments';
 import { processIssueJob, requestIssue, revisionPdf } from '../../lib/issue/issue';
 import { enqueueMail } from '../../lib/mail/outbox';
-import { backup, BackupError, ensureBucket, MANIFEST_FILE, readManifest, restore, tableCounts, verifyInstallation, type Manifest } from '../../lib/ops/backup';
+import {
+  backup,
+  BackupError,
+  ensureBucket,
+  MANIFEST_FILE,
+  readManifest,
+  restore,
+  tableCounts,
+  verifyInstallation,
+  type Manifest,
+} from '../../lib/ops/backup';
 import { createSheet } from '../../lib/sheets/sheets';
 import { storageConfig, type StorageConfig } from '../../lib/storage/config';
 import { createObjectStore } from '../../lib/storage/object-store';
@@ -49,7 +59,10 @@ async function emptyDatabase(name: string): Promise<{ url: string; adminUrl: str
     await admin.end();
   }
   scratchDatabases.push(db);
-  return { url: inject('databaseUrl').replace(/\/[^/]+$/, `/${db}`), adminUrl: inject('adminServerUrl').replace(/\/[^/]+$/, `/${db}`) };
+  return {
+    url: inject('databaseUrl').replace(/\/[^/]+$/, `/${db}`),
+    adminUrl: inject('adminServerUrl').replace(/\/[^/]+$/, `/${db}`),
+  };
 }
 
 /** A new empty bucket on the test object store. */
@@ -75,12 +88,29 @@ async function buildWorld() {
   const store = createObjectStore(sourceStore());
   const team = await makeTeam(db, { code: 'BKP' });
   const { author, controller, projectId } = team;
-  const sheet = await makeSheet(db, author, { id: projectId, code: 'BKP' }, { title: 'Booster extraction kicker', objective: 'Kick angle at extraction' });
-  await uploadAttachment(db, store, author, sheet, { name: 'kicker-scan.csv', type: 'text/csv', bytes: new TextEncoder().encode('voltage [kV], angle [mrad]\n10, 0.5\n20, 1.0\n') });
-  await createSheet(db, author, { id: projectId, code: 'BKP' }, { title: 'Second sheet, never issued', safetyRelated: false, objective: '' });
+  const sheet = await makeSheet(
+    db,
+    author,
+    { id: projectId, code: 'BKP' },
+    { title: 'Booster extraction kicker', objective: 'Kick angle at extraction' },
+  );
+  await uploadAttachment(db, store, author, sheet, {
+    name: 'kicker-scan.csv',
+    type: 'text/csv',
+    bytes: new TextEncoder().encode('voltage [kV], angle [mrad]\n10, 0.5\n20, 1.0\n'),
+  });
+  await createSheet(
+    db,
+    author,
+    { id: projectId, code: 'BKP' },
+    { title: 'Second sheet, never issued', safetyRelated: false, objective: '' },
+  );
 
   const approveAndIssue = async (source: string) => {
-    const versionNumber = await approveNewVersion(db, team, sheet, { message: source, cells: [{ id: 'c1', kind: 'calc', source }] });
+    const versionNumber = await approveNewVersion(db, team, sheet, {
+      message: source,
+      cells: [{ id: 'c1', kind: 'calc', source }],
+    });
     const { jobId } = await requestIssue(db, controller, sheet, { versionNumber, password: PASSWORD });
     return (await processIssueJob(db, store, jobId))!;
   };
@@ -89,7 +119,16 @@ async function buildWorld() {
   // Revision A is superseded now: downloading it makes the stamped copy, recorded in its row.
   expect((await revisionPdf(db, store, a, false)).stamped).toBe(true);
   // Mail still queued at backup time must survive the restore (schema pgboss is in the dump).
-  await db.transaction().execute((trx) => enqueueMail(trx, { to: 'author@example.test', subject: 'Queued before the backup', text: 'fictional', kind: 'test' }));
+  await db
+    .transaction()
+    .execute((trx) =>
+      enqueueMail(trx, {
+        to: 'author@example.test',
+        subject: 'Queued before the backup',
+        text: 'fictional',
+        kind: 'test',
+      }),
+    );
 }
 
 beforeAll(async () => {
@@ -113,7 +152,12 @@ describe('backup and restore', () => {
     expect(sourceCounts['pgboss.job']).toBeGreaterThan(0);
 
     // Pages of 2 keys, so that the listing's paging is exercised with a handful of objects.
-    manifest = await backup({ databaseUrl: inject('databaseUrl'), store: sourceStore(), folder: backupFolder, listPageSize: 2 });
+    manifest = await backup({
+      databaseUrl: inject('databaseUrl'),
+      store: sourceStore(),
+      folder: backupFolder,
+      listPageSize: 2,
+    });
     expect(manifest.objects.length).toBeGreaterThan(2);
     expect(readManifest(backupFolder)).toEqual(manifest);
     expect(manifest.migration).toMatch(/^\d{8}T\d{6}_/);
@@ -122,7 +166,10 @@ describe('backup and restore', () => {
     const keys = manifest.objects.map((o) => o.key);
     const revisions = await testDb().selectFrom('revisions').select(['pdf_key', 'stamped_key']).execute();
     const attachments = await testDb().selectFrom('attachments').select('storage_key').execute();
-    for (const key of [...revisions.flatMap((r) => [r.pdf_key, r.stamped_key]), ...attachments.map((a) => a.storage_key)]) {
+    for (const key of [
+      ...revisions.flatMap((r) => [r.pdf_key, r.stamped_key]),
+      ...attachments.map((a) => a.storage_key),
+    ]) {
       if (key) expect(keys).toContain(key);
     }
 
@@ -140,20 +187,35 @@ describe('backup and restore', () => {
     expect((await createObjectStore(restoredStore).list('')).sort()).toEqual([...keys].sort());
 
     // The restored tables belong to the application role, and its immutability rules still hold.
-    const owners = await copy.selectFrom('pg_tables' as never).select('tableowner' as never).where('schemaname' as never, 'in', ['public', 'pgboss'] as never).distinct().execute();
+    const owners = await copy
+      .selectFrom('pg_tables' as never)
+      .select('tableowner' as never)
+      .where('schemaname' as never, 'in', ['public', 'pgboss'] as never)
+      .distinct()
+      .execute();
     expect(owners).toEqual([{ tableowner: 'worldsheet' }]);
     await expect(copy.deleteFrom('versions').execute()).rejects.toThrow(/refused/i);
   }, 300_000);
 
   it('refuses a target database or bucket that is not empty, and changes nothing', async () => {
     expect(manifest).toBeDefined();
-    const intoUsed = await refusal(restore({ databaseUrl: restored.url, store: await emptyBucket('unused'), folder: backupFolder }), BackupError);
+    const intoUsed = await refusal(
+      restore({ databaseUrl: restored.url, store: await emptyBucket('unused'), folder: backupFolder }),
+      BackupError,
+    );
     expect(intoUsed.message).toMatch(/target database .* is not empty/);
     const fresh = await emptyDatabase('refused');
-    const intoFullBucket = await refusal(restore({ databaseUrl: fresh.url, store: restoredStore, folder: backupFolder }), BackupError);
+    const intoFullBucket = await refusal(
+      restore({ databaseUrl: fresh.url, store: restoredStore, folder: backupFolder }),
+      BackupError,
+    );
     expect(intoFullBucket.message).toMatch(/target bucket .* is not empty/);
     const db = openDb(fresh.url);
-    const tables = await db.selectFrom('pg_tables' as never).select('tablename' as never).where('schemaname' as never, '=', 'public' as never).execute();
+    const tables = await db
+      .selectFrom('pg_tables' as never)
+      .select('tablename' as never)
+      .where('schemaname' as never, '=', 'public' as never)
+      .execute();
     expect(tables).toEqual([]);
   });
 
@@ -167,12 +229,21 @@ describe('backup and restore', () => {
     try {
       const target = await emptyDatabase('altered');
       const bucket = await emptyBucket('altered');
-      const error = await refusal(restore({ databaseUrl: target.url, store: bucket, folder: backupFolder }), BackupError);
+      const error = await refusal(
+        restore({ databaseUrl: target.url, store: bucket, folder: backupFolder }),
+        BackupError,
+      );
       expect(error.message).toContain(pdf.key);
       expect(error.message).toMatch(/does not match/);
       expect(await createObjectStore(bucket).list('')).toEqual([]);
       const db = openDb(target.url);
-      expect(await db.selectFrom('pg_tables' as never).select('tablename' as never).where('schemaname' as never, '=', 'public' as never).execute()).toEqual([]);
+      expect(
+        await db
+          .selectFrom('pg_tables' as never)
+          .select('tablename' as never)
+          .where('schemaname' as never, '=', 'public' as never)
+          .execute(),
+      ).toEqual([]);
     } finally {
       writeFileSync(file, original);
     }
@@ -183,7 +254,14 @@ describe('backup and restore', () => {
       const edited = JSON.parse(text) as Manifest;
       edited.database.sha256 = '0'.repeat(64);
       writeFileSync(manifestFile, JSON.stringify(edited));
-      const error = await refusal(restore({ databaseUrl: (await emptyDatabase('dump')).url, store: await emptyBucket('dump'), folder: backupFolder }), BackupError);
+      const error = await refusal(
+        restore({
+          databaseUrl: (await emptyDatabase('dump')).url,
+          store: await emptyBucket('dump'),
+          folder: backupFolder,
+        }),
+        BackupError,
+      );
       expect(error.message).toMatch(/database dump .* does not match/);
     } finally {
       writeFileSync(manifestFile, text);
@@ -213,8 +291,19 @@ describe('backup and restore', () => {
     const pdf = manifest.objects.find((o) => o.key === cited.pdf_key)!;
     // The object store refuses nothing: a PDF replaced under its key is found by its hash.
     const { PutObjectCommand, S3Client } = await import('@aws-sdk/client-s3');
-    const s3 = new S3Client({ endpoint: restoredStore.endpoint, region: restoredStore.region, credentials: restoredStore.credentials, forcePathStyle: true });
-    await s3.send(new PutObjectCommand({ Bucket: restoredStore.bucket, Key: pdf.key, Body: Buffer.from('%PDF-1.7 not the issued file') }));
+    const s3 = new S3Client({
+      endpoint: restoredStore.endpoint,
+      region: restoredStore.region,
+      credentials: restoredStore.credentials,
+      forcePathStyle: true,
+    });
+    await s3.send(
+      new PutObjectCommand({
+        Bucket: restoredStore.bucket,
+        Key: pdf.key,
+        Body: Buffer.from('%PDF-1.7 not the issued file'),
+      }),
+    );
     s3.destroy();
     // The replacement must be what the store now serves before the check runs (the local fake
     // writes the object and its metadata separately; under load a read can briefly see the old one).

@@ -5,7 +5,14 @@ import { createServer, type Server } from 'node:net';
 import { tmpdir } from 'node:os';
 import path from 'node:path';
 import { afterEach, describe, expect, inject, it } from 'vitest';
-import { chooseClusterFolder, findServerBinaries, LocalCluster, LocalPostgresError, lookupOsUser, portIsFree } from '../../db/local-postgres';
+import {
+  chooseClusterFolder,
+  findServerBinaries,
+  LocalCluster,
+  LocalPostgresError,
+  lookupOsUser,
+  portIsFree,
+} from '../../db/local-postgres';
 
 const made: string[] = [];
 const clusters: LocalCluster[] = [];
@@ -23,7 +30,12 @@ const runAs = process.getuid?.() === 0 ? lookupOsUser('postgres') : null;
  * so no initdb is needed to reach the checks under test.
  */
 function fakeProject(pgVersion: string): { dataFolder: string; cluster: LocalCluster } {
-  const root = path.join(process.cwd(), '.data', 'test-roots', `r${Date.now()}${Math.random().toString(16).slice(2, 8)}`);
+  const root = path.join(
+    process.cwd(),
+    '.data',
+    'test-roots',
+    `r${Date.now()}${Math.random().toString(16).slice(2, 8)}`,
+  );
   made.push(root);
   const folder = chooseClusterFolder({ projectRoot: root, name: 'probe', runAs, log: () => undefined });
   if (!folder.startsWith(root)) made.push(path.dirname(folder));
@@ -41,7 +53,9 @@ describe('LocalCluster refuses to start and says why', () => {
   it('when the data folder was made by another major version', () => {
     const { cluster, dataFolder } = fakeProject('11');
     expect(() => cluster.prepare()).toThrowError(LocalPostgresError);
-    expect(() => cluster.prepare()).toThrowError(new RegExp(`made by PostgreSQL 11, but this machine has PostgreSQL ${major}.*Nothing was changed`));
+    expect(() => cluster.prepare()).toThrowError(
+      new RegExp(`made by PostgreSQL 11, but this machine has PostgreSQL ${major}.*Nothing was changed`),
+    );
     expect(readdirSync(dataFolder)).toEqual(['PG_VERSION']);
   });
 
@@ -61,7 +75,9 @@ describe('LocalCluster refuses to start and says why', () => {
     const running = readFileSync(path.join(inject('testClusterDataFolder'), 'postmaster.pid'), 'utf8').split('\n')[0];
     writeFileSync(path.join(dataFolder, 'postmaster.pid'), `${running}\n`);
     cluster.prepare();
-    await expect(cluster.start()).rejects.toThrowError(new RegExp(`pid ${running}\\) is already running.*npm run db:stop`));
+    await expect(cluster.start()).rejects.toThrowError(
+      new RegExp(`pid ${running}\\) is already running.*npm run db:stop`),
+    );
   });
 
   it('when the port is already in use', async () => {
@@ -71,7 +87,9 @@ describe('LocalCluster refuses to start and says why', () => {
     try {
       expect(await portIsFree(54399)).toBe(false);
       cluster.prepare();
-      await expect(cluster.start()).rejects.toThrowError(/Port 54399 on 127\.0\.0\.1 is already in use.*WORLDSHEET_PG_PORT/);
+      await expect(cluster.start()).rejects.toThrowError(
+        /Port 54399 on 127\.0\.0\.1 is already in use.*WORLDSHEET_PG_PORT/,
+      );
     } finally {
       await new Promise((resolve) => blocker.close(resolve));
     }
@@ -86,6 +104,8 @@ describe.runIf(process.getuid?.() === 0)('as root', () => {
     const chosen = chooseClusterFolder({ projectRoot: privateRoot, name: 'probe', runAs, log: () => undefined });
     made.push(path.dirname(chosen));
     expect(chosen.startsWith('/var/tmp/worldsheet-')).toBe(true);
-    expect(readFileSync(path.join(privateRoot, '.data', 'pg-probe', 'WHERE-IS-THE-DATA.txt'), 'utf8')).toContain(chosen);
+    expect(readFileSync(path.join(privateRoot, '.data', 'pg-probe', 'WHERE-IS-THE-DATA.txt'), 'utf8')).toContain(
+      chosen,
+    );
   });
 });

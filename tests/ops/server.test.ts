@@ -32,7 +32,12 @@ afterEach(() => {
 });
 
 // A raw request, so that any header (even the peer header) can be sent as a client would.
-function get(headers: Record<string, string>): Promise<{ headers: Record<string, string | string[] | undefined>; body: { seen: Record<string, string>; address: string } }> {
+function get(
+  headers: Record<string, string>,
+): Promise<{
+  headers: Record<string, string | string[] | undefined>;
+  body: { seen: Record<string, string>; address: string };
+}> {
   return new Promise((resolve, reject) => {
     const req = httpRequest({ host: '127.0.0.1', port, path: '/', headers }, (res) => {
       let text = '';
@@ -45,7 +50,12 @@ function get(headers: Record<string, string>): Promise<{ headers: Record<string,
 }
 
 it('overwrites a client-sent peer header and drops its X-Forwarded-* headers', async () => {
-  const { body } = await get({ [PEER_ADDRESS_HEADER]: '198.51.100.23', 'x-forwarded-for': '198.51.100.24', 'x-forwarded-host': 'evil.example', 'x-real-ip': '198.51.100.25' });
+  const { body } = await get({
+    [PEER_ADDRESS_HEADER]: '198.51.100.23',
+    'x-forwarded-for': '198.51.100.24',
+    'x-forwarded-host': 'evil.example',
+    'x-real-ip': '198.51.100.25',
+  });
   expect(body.seen[PEER_ADDRESS_HEADER]).toBe('127.0.0.1');
   expect(body.address).toBe('127.0.0.1');
   expect(body.seen['x-forwarded-for']).toBeUndefined();
@@ -61,7 +71,10 @@ it('keeps X-Forwarded-For from a trusted proxy, and the client is its right-most
 });
 
 it('puts the same policy, with a fresh nonce, on the request and the response; a client-sent policy is replaced', async () => {
-  const a = await get({ 'content-security-policy': "script-src 'nonce-chosenbyclient'", 'content-security-policy-report-only': 'x' });
+  const a = await get({
+    'content-security-policy': "script-src 'nonce-chosenbyclient'",
+    'content-security-policy-report-only': 'x',
+  });
   const b = await get({});
   const policy = a.headers['content-security-policy'] as string;
   expect(a.body.seen['content-security-policy']).toBe(policy);

@@ -61,7 +61,10 @@ export default async function setup(project: TestProject) {
   rmSync(objectsFolder, { recursive: true, force: true });
   let objects;
   try {
-    objects = await startFakeObjectStore({ port: testMailPort('WORLDSHEET_TEST_S3_PORT', DEFAULT_TEST_S3_PORT), directory: objectsFolder });
+    objects = await startFakeObjectStore({
+      port: testMailPort('WORLDSHEET_TEST_S3_PORT', DEFAULT_TEST_S3_PORT),
+      directory: objectsFolder,
+    });
   } catch (error) {
     await mail.stop();
     throw error;

@@ -5,7 +5,12 @@ import { createHash } from 'node:crypto';
 import { PutObjectCommand, S3Client } from '@aws-sdk/client-s3';
 import { sql } from 'kysely';
 import { describe, expect, it } from 'vitest';
-import { listAttachments, readAttachment, resolveAttachments, uploadAttachment } from '../../lib/attachments/attachments';
+import {
+  listAttachments,
+  readAttachment,
+  resolveAttachments,
+  uploadAttachment,
+} from '../../lib/attachments/attachments';
 import { parseInputTable, tableNameFor } from '../../lib/attachments/csv-table';
 import { sanitizeFileName } from '../../lib/attachments/file-name';
 import { sniffKind } from '../../lib/attachments/kinds';
@@ -27,7 +32,12 @@ async function world() {
   const db = testDb();
   const author = await makeUser(db, 'author@example.test');
   const projectId = await makeProject(db, 'BEAM', [[author, 'originator']]);
-  const created = await createSheet(db, author, { id: projectId, code: 'BEAM' }, { title: 'Energy scan', safetyRelated: false, objective: '' });
+  const created = await createSheet(
+    db,
+    author,
+    { id: projectId, code: 'BEAM' },
+    { title: 'Energy scan', safetyRelated: false, objective: '' },
+  );
   return { db, author, sheet: { id: created.id, project_id: projectId } };
 }
 
@@ -76,7 +86,9 @@ describe('CSV data tables', () => {
   });
 
   it('names what is wrong, with the row and column', () => {
-    expect(() => parseInputTable('energy [MeV]\n70\nabc\n', known)).toThrow('row 3, column energy: "abc" is not a number');
+    expect(() => parseInputTable('energy [MeV]\n70\nabc\n', known)).toThrow(
+      'row 3, column energy: "abc" is not a number',
+    );
     expect(() => parseInputTable('energy [MeV]\n"1,5"\n', known)).toThrow('use a point, not a comma, for decimals');
     expect(() => parseInputTable('energy [furlongs]\n1\n', known)).toThrow('"furlongs" is not a unit');
     expect(() => parseInputTable('energy [MeV],energy [MeV]\n1,2\n', known)).toThrow('two columns named energy');
@@ -99,29 +111,65 @@ describe('CSV data tables', () => {
 describe('uploading to a sheet', () => {
   it('stores the bytes in object storage under their SHA-256 and records the attachment', async () => {
     const { db, author, sheet } = await world();
-    const info = await uploadAttachment(db, store(), author, sheet, { name: 'scan.csv', type: 'text/csv', bytes: bytes(SCAN_CSV) });
+    const info = await uploadAttachment(db, store(), author, sheet, {
+      name: 'scan.csv',
+      type: 'text/csv',
+      bytes: bytes(SCAN_CSV),
+    });
     const sha = createHash('sha256').update(SCAN_CSV).digest('hex');
-    expect(info).toMatchObject({ name: 'scan.csv', mediaType: 'text/csv', size: SCAN_CSV.length, sha256: sha, table: { name: 'scan', rows: 3 } });
+    expect(info).toMatchObject({
+      name: 'scan.csv',
+      mediaType: 'text/csv',
+      size: SCAN_CSV.length,
+      sha256: sha,
+      table: { name: 'scan', rows: 3 },
+    });
     const file = await readAttachment(db, store(), sheet.id, sha);
     expect(Buffer.from(file.bytes).toString()).toBe(SCAN_CSV);
-    const again = await uploadAttachment(db, store(), author, sheet, { name: 'scan.csv', type: 'text/csv', bytes: bytes(SCAN_CSV) });
+    const again = await uploadAttachment(db, store(), author, sheet, {
+      name: 'scan.csv',
+      type: 'text/csv',
+      bytes: bytes(SCAN_CSV),
+    });
     expect(again.sha256).toBe(sha);
     expect(await listAttachments(db, sheet.id)).toHaveLength(1);
-    const audit = await db.selectFrom('audit_events').select(['action', 'new_value']).where('action', '=', 'attachment.upload').execute();
+    const audit = await db
+      .selectFrom('audit_events')
+      .select(['action', 'new_value'])
+      .where('action', '=', 'attachment.upload')
+      .execute();
     expect(audit).toHaveLength(1);
     expect(audit[0].new_value).toMatchObject({ sha256: sha, name: 'scan.csv' });
   });
 
   it('refuses a file whose content is not what its name or type says (415), and unknown kinds', async () => {
     const { db, author, sheet } = await world();
-    const disguised = await refusal(uploadAttachment(db, store(), author, sheet, { name: 'drawing.pdf', type: 'application/pdf', bytes: PNG }));
+    const disguised = await refusal(
+      uploadAttachment(db, store(), author, sheet, { name: 'drawing.pdf', type: 'application/pdf', bytes: PNG }),
+    );
     expect(disguised.status).toBe(415);
-    expect(disguised.message).toBe('The file is named as a PDF document but its content is a PNG image; rename it or upload the right file.');
-    const sentAs = await refusal(uploadAttachment(db, store(), author, sheet, { name: 'drawing', type: 'image/png', bytes: PDF }));
+    expect(disguised.message).toBe(
+      'The file is named as a PDF document but its content is a PNG image; rename it or upload the right file.',
+    );
+    const sentAs = await refusal(
+      uploadAttachment(db, store(), author, sheet, { name: 'drawing', type: 'image/png', bytes: PDF }),
+    );
     expect(sentAs.message).toMatch(/sent as a PNG image \(image\/png\) but its content is a PDF document/);
-    const exe = await refusal(uploadAttachment(db, store(), author, sheet, { name: 'tool.pdf', type: '', bytes: new Uint8Array([0x4d, 0x5a, 0x90, 0, 3]) }));
+    const exe = await refusal(
+      uploadAttachment(db, store(), author, sheet, {
+        name: 'tool.pdf',
+        type: '',
+        bytes: new Uint8Array([0x4d, 0x5a, 0x90, 0, 3]),
+      }),
+    );
     expect(exe.status).toBe(415);
-    const text = await refusal(uploadAttachment(db, store(), author, sheet, { name: 'notes.txt', type: 'text/plain', bytes: bytes('a,b\n1,2\n') }));
+    const text = await refusal(
+      uploadAttachment(db, store(), author, sheet, {
+        name: 'notes.txt',
+        type: 'text/plain',
+        bytes: bytes('a,b\n1,2\n'),
+      }),
+    );
     expect(text.message).toMatch(/only when their name ends in .csv/);
     expect(await listAttachments(db, sheet.id)).toEqual([]);
   });
@@ -130,27 +178,48 @@ describe('uploading to a sheet', () => {
     const { db, author, sheet } = await world();
     const big = new Uint8Array(2 * 1024 * 1024 + 1).fill(0x31);
     big.set(bytes('n\n'));
-    const tooBig = await refusal(uploadAttachment(db, store(), author, sheet, { name: 'big.csv', type: 'text/csv', bytes: big }));
+    const tooBig = await refusal(
+      uploadAttachment(db, store(), author, sheet, { name: 'big.csv', type: 'text/csv', bytes: big }),
+    );
     expect(tooBig.status).toBe(413);
     expect(tooBig.message).toBe('A CSV table may be at most 2 MiB; this file is 2.0 MiB.');
-    const empty = await refusal(uploadAttachment(db, store(), author, sheet, { name: 'e.pdf', type: 'application/pdf', bytes: new Uint8Array() }));
+    const empty = await refusal(
+      uploadAttachment(db, store(), author, sheet, { name: 'e.pdf', type: 'application/pdf', bytes: new Uint8Array() }),
+    );
     expect(empty.status).toBe(400);
   });
 
   it('refuses a table whose name would hide a built-in function', async () => {
     const { db, author, sheet } = await world();
-    const e = await refusal(uploadAttachment(db, store(), author, sheet, { name: 'max.csv', type: 'text/csv', bytes: bytes('a\n1\n') }));
+    const e = await refusal(
+      uploadAttachment(db, store(), author, sheet, { name: 'max.csv', type: 'text/csv', bytes: bytes('a\n1\n') }),
+    );
     expect(e.status).toBe(400);
     expect(e.message).toMatch(/max.csv would be called `max` in cells, but is a built-in function/);
   });
 
   it('never serves bytes that no longer match their recorded SHA-256', async () => {
     const { db, author, sheet } = await world();
-    const info = await uploadAttachment(db, store(), author, sheet, { name: 'spec.pdf', type: 'application/pdf', bytes: PDF });
+    const info = await uploadAttachment(db, store(), author, sheet, {
+      name: 'spec.pdf',
+      type: 'application/pdf',
+      bytes: PDF,
+    });
     // Someone with direct access to the bucket replaces the object.
     const config = storageConfig();
-    const client = new S3Client({ endpoint: config.endpoint, region: config.region, credentials: config.credentials, forcePathStyle: true });
-    await client.send(new PutObjectCommand({ Bucket: config.bucket, Key: `attachments/sha256/${info.sha256}`, Body: bytes('%PDF-1.7 tampered') }));
+    const client = new S3Client({
+      endpoint: config.endpoint,
+      region: config.region,
+      credentials: config.credentials,
+      forcePathStyle: true,
+    });
+    await client.send(
+      new PutObjectCommand({
+        Bucket: config.bucket,
+        Key: `attachments/sha256/${info.sha256}`,
+        Body: bytes('%PDF-1.7 tampered'),
+      }),
+    );
     const e = await refusal(readAttachment(db, store(), sheet.id, info.sha256));
     expect(e.message).toMatch(/does not match its recorded SHA-256/);
   });
@@ -158,7 +227,9 @@ describe('uploading to a sheet', () => {
   it('keeps attachment rows immutable in the database', async () => {
     const { db, author, sheet } = await world();
     await uploadAttachment(db, store(), author, sheet, { name: 'spec.pdf', type: 'application/pdf', bytes: PDF });
-    await expect(sql`update attachments set name = 'other.pdf'`.execute(db)).rejects.toThrow(/UPDATE on attachments is refused/);
+    await expect(sql`update attachments set name = 'other.pdf'`.execute(db)).rejects.toThrow(
+      /UPDATE on attachments is refused/,
+    );
     await expect(sql`delete from attachments`.execute(db)).rejects.toThrow(/DELETE on attachments is refused/);
   });
 });
@@ -166,12 +237,22 @@ describe('uploading to a sheet', () => {
 describe('versions that cite attachments', () => {
   it('evaluates cells with the columns of a CSV table, units included, and records the hashes', async () => {
     const { db, author, sheet } = await world();
-    const info = await uploadAttachment(db, store(), author, sheet, { name: 'scan.csv', type: 'text/csv', bytes: bytes(SCAN_CSV) });
+    const info = await uploadAttachment(db, store(), author, sheet, {
+      name: 'scan.csv',
+      type: 'text/csv',
+      bytes: bytes(SCAN_CSV),
+    });
     const v1 = (await getVersion(db, sheet.id, 1))!;
     const content = {
       ...v1.content,
       attachments: [{ name: info.name, mediaType: info.mediaType, size: info.size, sha256: info.sha256 }],
-      cells: [{ id: 'c1', kind: 'calc' as const, source: 'T_max = max(scan.energy)\nBrho = magneticRigidity(momentumFromKinetic(scan.energy, m_p), 1) to T*m' }],
+      cells: [
+        {
+          id: 'c1',
+          kind: 'calc' as const,
+          source: 'T_max = max(scan.energy)\nBrho = magneticRigidity(momentumFromKinetic(scan.energy, m_p), 1) to T*m',
+        },
+      ],
     };
     const saved = await saveVersion(db, author, sheet, { parentNumber: 1, message: 'Rigidity over the scan', content });
     expect(saved.ok).toBe(true);
@@ -190,16 +271,36 @@ describe('versions that cite attachments', () => {
     const { db, author, sheet } = await world();
     const v1 = (await getVersion(db, sheet.id, 1))!;
     const forged = { name: 'scan.csv', mediaType: 'text/csv', size: 10, sha256: 'a'.repeat(64) };
-    const e = await refusal(saveVersion(db, author, sheet, { parentNumber: 1, message: 'forged', content: { ...v1.content, attachments: [forged] } }));
+    const e = await refusal(
+      saveVersion(db, author, sheet, {
+        parentNumber: 1,
+        message: 'forged',
+        content: { ...v1.content, attachments: [forged] },
+      }),
+    );
     expect(e.status).toBe(400);
     expect(e.message).toMatch(/scan.csv .* is not an attachment uploaded to this sheet/);
   });
 
   it('does not resolve another sheet\u2019s attachment', async () => {
     const { db, author, sheet } = await world();
-    const info = await uploadAttachment(db, store(), author, sheet, { name: 'scan.csv', type: 'text/csv', bytes: bytes(SCAN_CSV) });
-    const second = await createSheet(db, author, { id: sheet.project_id, code: 'BEAM' }, { title: 'Another', safetyRelated: false, objective: '' });
-    await expect(resolveAttachments(db, second.id, [{ name: info.name, sha256: info.sha256 }])).rejects.toThrow('not an attachment uploaded to this sheet');
-    expect((await resolveAttachments(db, sheet.id, [{ name: info.name, sha256: info.sha256 }]))[0]).toMatchObject({ name: 'scan', fileName: 'scan.csv' });
+    const info = await uploadAttachment(db, store(), author, sheet, {
+      name: 'scan.csv',
+      type: 'text/csv',
+      bytes: bytes(SCAN_CSV),
+    });
+    const second = await createSheet(
+      db,
+      author,
+      { id: sheet.project_id, code: 'BEAM' },
+      { title: 'Another', safetyRelated: false, objective: '' },
+    );
+    await expect(resolveAttachments(db, second.id, [{ name: info.name, sha256: info.sha256 }])).rejects.toThrow(
+      'not an attachment uploaded to this sheet',
+    );
+    expect((await resolveAttachments(db, sheet.id, [{ name: info.name, sha256: info.sha256 }]))[0]).toMatchObject({
+      name: 'scan',
+      fileName: 'scan.csv',
+    });
   });
 });

@@ -10,7 +10,14 @@ import { RecordChanges } from '../../components/sheet/record-changes';
 import { VisibleText } from '../../components/data/visible-text';
 import { SourceDiff } from '../../components/sheet/source-diff';
 import { VersionView } from '../../components/sheet/version-view';
-import { BIDI_CONTROLS, bidiControlsInCalcCells, bidiSegments, findBidiControl, revealBidiControls, revealBidiControlsDeep } from '../../lib/calc/bidi-controls';
+import {
+  BIDI_CONTROLS,
+  bidiControlsInCalcCells,
+  bidiSegments,
+  findBidiControl,
+  revealBidiControls,
+  revealBidiControlsDeep,
+} from '../../lib/calc/bidi-controls';
 import { evaluateRequestSchema } from '../../lib/calc/evaluate-request';
 import { createSheetEngine } from '../../lib/calc/sheet-engine';
 import { checkWorkSchema } from '../../lib/checks/workflow';
@@ -31,10 +38,20 @@ const ANY_CONTROL = /[\u061c\u200e\u200f\u202a-\u202e\u2066-\u2069]/;
 // line looks like a comment about the limit followed by the criterion, while the engine sees only a
 // comment (the criterion is never evaluated).
 const TROJAN = `limit = 3 T*m\nBrho = 2.5 T*m\n# check ${RLO} ⁦Brho < limit⁩ ⁦# against the magnet`;
-const REFUSAL = 'cell 3: holds U+202E (RIGHT-TO-LEFT OVERRIDE) on line 3, which can make the source read differently from what is evaluated';
+const REFUSAL =
+  'cell 3: holds U+202E (RIGHT-TO-LEFT OVERRIDE) on line 3, which can make the source read differently from what is evaluated';
 
 function content(cells: VersionContent['cells'], extra: Partial<VersionContent> = {}): VersionContent {
-  return { schema: 1, title: 'Dipole rigidity', safetyRelated: false, significantFigures: 6, record: emptyRecord(), cells, attachments: [], ...extra };
+  return {
+    schema: 1,
+    title: 'Dipole rigidity',
+    safetyRelated: false,
+    significantFigures: 6,
+    record: emptyRecord(),
+    cells,
+    attachments: [],
+    ...extra,
+  };
 }
 const threeCells = (third: string): VersionContent['cells'] => [
   { id: 'c1', kind: 'calc', source: 'x = 2 m' },
@@ -72,10 +89,17 @@ describe('the refusal at every door a calculation source comes in by', () => {
     expect(e.status).toBe(400);
     expect(e.message).toBe(`content.cells.2.source: ${REFUSAL}`);
     // The same content with the character in a text cell, the title and the record is accepted.
-    expect(() => versionContentSchema.parse(content([{ id: 't1', kind: 'text', source: `a ${RLO} b` }], { title: `T ${RLO}`, record: { ...emptyRecord(), method: RLO } }))).not.toThrow();
+    expect(() =>
+      versionContentSchema.parse(
+        content([{ id: 't1', kind: 'text', source: `a ${RLO} b` }], {
+          title: `T ${RLO}`,
+          record: { ...emptyRecord(), method: RLO },
+        }),
+      ),
+    ).not.toThrow();
   });
 
-  it('/api/evaluate and the checker\'s alternate calculation refuse it too', () => {
+  it("/api/evaluate and the checker's alternate calculation refuse it too", () => {
     const r = evaluateRequestSchema.safeParse({ cells: threeCells(TROJAN) });
     expect(r.success).toBe(false);
     expect(r.error!.issues.map((i) => [i.path.join('.'), i.message])).toEqual([['cells.2.source', REFUSAL]]);
@@ -90,7 +114,10 @@ describe('the refusal at every door a calculation source comes in by', () => {
     expect(st.map((s) => [s.line, s.error])).toEqual([
       [1, null],
       [2, null],
-      [3, 'cannot read this line: holds U+202E (RIGHT-TO-LEFT OVERRIDE), which can make the source read differently from what is evaluated'],
+      [
+        3,
+        'cannot read this line: holds U+202E (RIGHT-TO-LEFT OVERRIDE), which can make the source read differently from what is evaluated',
+      ],
     ]);
     expect(r.cells[0].ok).toBe(false);
   });
@@ -99,14 +126,27 @@ describe('the refusal at every door a calculation source comes in by', () => {
     const db = testDb();
     const author = await makeUser(db, 'author@example.test');
     const projectId = await makeProject(db, 'BEAM', [[author, 'originator']]);
-    const created = await createSheet(db, author, { id: projectId, code: 'BEAM' }, { title: 'Dipole rigidity', safetyRelated: false, objective: '' });
+    const created = await createSheet(
+      db,
+      author,
+      { id: projectId, code: 'BEAM' },
+      { title: 'Dipole rigidity', safetyRelated: false, objective: '' },
+    );
     const sheet = { id: created.id, project_id: projectId };
-    const e = await refusal(saveVersion(db, author, sheet, { parentNumber: 1, message: 'Trojan', content: content(threeCells(TROJAN)) }));
+    const e = await refusal(
+      saveVersion(db, author, sheet, { parentNumber: 1, message: 'Trojan', content: content(threeCells(TROJAN)) }),
+    );
     expect([e.status, e.message]).toEqual([400, REFUSAL]);
     expect((await getVersion(db, sheet.id))!.number).toBe(1);
-    expect(await db.selectFrom('audit_events').select('action').where('action', '=', 'version.save').execute()).toEqual([]);
+    expect(await db.selectFrom('audit_events').select('action').where('action', '=', 'version.save').execute()).toEqual(
+      [],
+    );
     // A text cell holding one is stored as typed (and shown with a marker).
-    const saved = await saveVersion(db, author, sheet, { parentNumber: 1, message: 'Note', content: content([{ id: 't1', kind: 'text', source: `note ${RLO} here` }]) });
+    const saved = await saveVersion(db, author, sheet, {
+      parentNumber: 1,
+      message: 'Note',
+      content: content([{ id: 't1', kind: 'text', source: `note ${RLO} here` }]),
+    });
     expect(saved.number).toBe(2);
     expect((await getVersion(db, sheet.id, 2))!.content.cells[0].source).toBe(`note ${RLO} here`);
   });
@@ -118,7 +158,9 @@ describe('the refusal at every door a calculation source comes in by', () => {
     const file = JSON.stringify({ title: 'Imported', cells: [{ kind: 'calc', source: `T = 250 MeV # \u2067 note` }] });
     const e = await refusal(importSheetFile(db, author, { id: projectId, code: 'BEAM' }, file));
     expect(e.status).toBe(400);
-    expect(e.message).toBe('not a sheet file: cells.0.source: cell 1: holds U+2067 (RIGHT-TO-LEFT ISOLATE) on line 1, which can make the source read differently from what is evaluated');
+    expect(e.message).toBe(
+      'not a sheet file: cells.0.source: cell 1: holds U+2067 (RIGHT-TO-LEFT ISOLATE) on line 1, which can make the source read differently from what is evaluated',
+    );
     expect(await db.selectFrom('sheets').select('id').execute()).toEqual([]);
   });
 });
@@ -127,7 +169,13 @@ describe('showing them everywhere else, as markers', () => {
   it('replaces each character by ⟦U+XXXX⟧, in strings and in whole documents', () => {
     expect(revealBidiControls(`abc ${RLO}fdp.exe\u200f`)).toBe('abc ⟦U+202E⟧fdp.exe⟦U+200F⟧');
     expect(revealBidiControls('plain')).toBe('plain');
-    const doc = revealBidiControlsDeep({ title: `a${RLO}`, list: [{ name: '\u2066x\u2069' }], n: 3, ok: true, none: null });
+    const doc = revealBidiControlsDeep({
+      title: `a${RLO}`,
+      list: [{ name: '\u2066x\u2069' }],
+      n: 3,
+      ok: true,
+      none: null,
+    });
     expect(doc).toEqual({ title: 'a⟦U+202E⟧', list: [{ name: '⟦U+2066⟧x⟦U+2069⟧' }], n: 3, ok: true, none: null });
   });
 
@@ -142,8 +190,12 @@ describe('showing them everywhere else, as markers', () => {
   });
 
   it('text cells (Markdown) show the marker in its own style and never the character', () => {
-    const html = renderMarkdown(`Safe **below** ${RLO}3 T·m\u202c, see [the spec${RLO}](https://example.test/a${RLO}b) and $x${RLO}$`);
-    expect(html).toContain('<span class="ws-bidi-marker" title="U+202E (RIGHT-TO-LEFT OVERRIDE)">⟦U+202E⟧</span>3 T·m<span class="ws-bidi-marker" title="U+202C (POP DIRECTIONAL FORMATTING)">⟦U+202C⟧</span>');
+    const html = renderMarkdown(
+      `Safe **below** ${RLO}3 T·m\u202c, see [the spec${RLO}](https://example.test/a${RLO}b) and $x${RLO}$`,
+    );
+    expect(html).toContain(
+      '<span class="ws-bidi-marker" title="U+202E (RIGHT-TO-LEFT OVERRIDE)">⟦U+202E⟧</span>3 T·m<span class="ws-bidi-marker" title="U+202C (POP DIRECTIONAL FORMATTING)">⟦U+202C⟧</span>',
+    );
     // Link text gets the marker; the href stays an attribute (escaped), never broken into markup.
     expect(html).toMatch(/<a href="[^"<>]*" rel="noopener noreferrer">the spec<span class="ws-bidi-marker"/);
     expect(html.replace(/href="[^"]*"/g, '')).not.toMatch(ANY_CONTROL);
@@ -156,15 +208,35 @@ describe('showing them everywhere else, as markers', () => {
         { id: 't1', kind: 'text', source: `text ${RLO}` },
       ],
       {
-        record: { ...emptyRecord(), objective: `Obj ${RLO}`, inputs: [{ name: `in${RLO}`, value: '1 T', source: 'spec', sourceRevision: 'A' }], assumptions: [{ text: `as\u2067`, needsVerification: false }], references: [`ref\u200e`] },
+        record: {
+          ...emptyRecord(),
+          objective: `Obj ${RLO}`,
+          inputs: [{ name: `in${RLO}`, value: '1 T', source: 'spec', sourceRevision: 'A' }],
+          assumptions: [{ text: `as\u2067`, needsVerification: false }],
+          references: [`ref\u200e`],
+        },
         attachments: [{ name: `scan${RLO}vsc.pdf`, mediaType: 'application/pdf', size: 10, sha256: 'a'.repeat(64) }],
       },
     );
     const html = renderToStaticMarkup(
-      createElement(VersionView, { sheetId: 's', sheetCode: 'BEAM-CALC-0001', versionNumber: 2, content: v, results: null, renderText: (s: string) => createElement(VisibleText, { text: s }) }),
+      createElement(VersionView, {
+        sheetId: 's',
+        sheetCode: 'BEAM-CALC-0001',
+        versionNumber: 2,
+        content: v,
+        results: null,
+        renderText: (s: string) => createElement(VisibleText, { text: s }),
+      }),
     );
     expect(html).not.toMatch(ANY_CONTROL);
-    for (const shown of ['x = 2 m # <span class="ws-bidi-marker"', 'Obj <span class="ws-bidi-marker"', 'in<span class="ws-bidi-marker"', 'as<span class="ws-bidi-marker"', 'ref<span class="ws-bidi-marker"', 'scan<span class="ws-bidi-marker"']) {
+    for (const shown of [
+      'x = 2 m # <span class="ws-bidi-marker"',
+      'Obj <span class="ws-bidi-marker"',
+      'in<span class="ws-bidi-marker"',
+      'as<span class="ws-bidi-marker"',
+      'ref<span class="ws-bidi-marker"',
+      'scan<span class="ws-bidi-marker"',
+    ]) {
       expect(html).toContain(shown);
     }
     // Five shown, and the sixth in the download attribute's file name.
@@ -174,14 +246,28 @@ describe('showing them everywhere else, as markers', () => {
 
   it('the compare and check views show them in the word diff, the cell source and the record changes', () => {
     const base = { content: content([{ id: 'c1', kind: 'text', source: 'limit is 3 T m' }]), results: null };
-    const target = { content: content([{ id: 'c1', kind: 'text', source: `limit is ${RLO}3 T m` }], { record: { ...emptyRecord(), method: `by hand ${RLO}` } }), results: null };
+    const target = {
+      content: content([{ id: 'c1', kind: 'text', source: `limit is ${RLO}3 T m` }], {
+        record: { ...emptyRecord(), method: `by hand ${RLO}` },
+      }),
+      results: null,
+    };
     const cmp = compareVersions(base, target);
     const cell = cmp.cells[0];
     const diff = renderToStaticMarkup(createElement(SourceDiff, { pieces: cell.sourceDiff! }));
     expect(diff).toContain('⟦U+202E⟧');
     expect(diff).not.toMatch(ANY_CONTROL);
     const check = renderToStaticMarkup(
-      createElement(CheckCell, { cell: { ...cell, kind: 'calc' }, label: 'Cell 1', source: `y = 1 # ${RLO}`, result: undefined, changes: [], baseNumber: 1, first: true, renderText: (s: string) => s }),
+      createElement(CheckCell, {
+        cell: { ...cell, kind: 'calc' },
+        label: 'Cell 1',
+        source: `y = 1 # ${RLO}`,
+        result: undefined,
+        changes: [],
+        baseNumber: 1,
+        first: true,
+        renderText: (s: string) => s,
+      }),
     );
     expect(check).toContain('y = 1 # <span class="ws-bidi-marker"');
     expect(check).not.toMatch(ANY_CONTROL);

@@ -1,7 +1,14 @@
 import { describe, expect, it } from 'vitest';
 import { createSheetEngine } from '../../lib/calc/sheet-engine';
 import type { CellResult, SheetResult, StatementResult } from '../../lib/calc/types';
-import { compareTables, compareVersions, foldUnchanged, MAX_TABLE_ROW_CHANGES, wordDiff, type ComparedVersion } from '../../lib/sheets/compare';
+import {
+  compareTables,
+  compareVersions,
+  foldUnchanged,
+  MAX_TABLE_ROW_CHANGES,
+  wordDiff,
+  type ComparedVersion,
+} from '../../lib/sheets/compare';
 import { parseInputTable } from '../../lib/attachments/csv-table';
 import { emptyRecord, type Cell, type VersionContent } from '../../lib/sheets/content';
 
@@ -61,7 +68,12 @@ describe('word diff', () => {
       { text: '1.6', added: true },
       { text: ' T\nr = 1.62 m' },
     ]);
-    expect(wordDiff('t = 1e-3 s', 't = 2e-3 s')).toEqual([{ text: 't = ' }, { text: '1e-3', removed: true }, { text: '2e-3', added: true }, { text: ' s' }]);
+    expect(wordDiff('t = 1e-3 s', 't = 2e-3 s')).toEqual([
+      { text: 't = ' },
+      { text: '1e-3', removed: true },
+      { text: '2e-3', added: true },
+      { text: ' s' },
+    ]);
   });
 
   it('folds the spaces between changed words on one line into the change', () => {
@@ -83,8 +95,18 @@ describe('word diff', () => {
     ];
     for (const [a, b] of pairs) {
       const pieces = wordDiff(a, b);
-      expect(pieces.filter((p) => !p.added).map((p) => p.text).join('')).toBe(a);
-      expect(pieces.filter((p) => !p.removed).map((p) => p.text).join('')).toBe(b);
+      expect(
+        pieces
+          .filter((p) => !p.added)
+          .map((p) => p.text)
+          .join(''),
+      ).toBe(a);
+      expect(
+        pieces
+          .filter((p) => !p.removed)
+          .map((p) => p.text)
+          .join(''),
+      ).toBe(b);
       expect(pieces.every((p) => p.text !== '')).toBe(true);
     }
   });
@@ -98,12 +120,36 @@ describe('word diff', () => {
 
 describe('cells', () => {
   it('reports added, removed, changed and unchanged cells in target order, removed ones where they stood', () => {
-    const base = { content: content([calc('a', 'x = 1 m'), text('b', 'Intro'), calc('c', 'y = 2 m'), calc('d', 'z = 3 m')]), results: null };
-    const target = { content: content([calc('a', 'x = 1 m'), calc('c', 'y = 2.5 m'), calc('n', 'w = 4 m'), calc('d', 'z = 3 m')]), results: null };
+    const base = {
+      content: content([calc('a', 'x = 1 m'), text('b', 'Intro'), calc('c', 'y = 2 m'), calc('d', 'z = 3 m')]),
+      results: null,
+    };
+    const target = {
+      content: content([calc('a', 'x = 1 m'), calc('c', 'y = 2.5 m'), calc('n', 'w = 4 m'), calc('d', 'z = 3 m')]),
+      results: null,
+    };
     const cmp = compareVersions(base, target);
     expect(cmp.cells).toEqual([
-      { id: 'a', status: 'unchanged', kind: 'calc', baseKind: 'calc', baseIndex: 0, targetIndex: 0, moved: false, sourceDiff: null },
-      { id: 'b', status: 'removed', kind: 'text', baseKind: 'text', baseIndex: 1, targetIndex: null, moved: false, sourceDiff: [{ text: 'Intro', removed: true }] },
+      {
+        id: 'a',
+        status: 'unchanged',
+        kind: 'calc',
+        baseKind: 'calc',
+        baseIndex: 0,
+        targetIndex: 0,
+        moved: false,
+        sourceDiff: null,
+      },
+      {
+        id: 'b',
+        status: 'removed',
+        kind: 'text',
+        baseKind: 'text',
+        baseIndex: 1,
+        targetIndex: null,
+        moved: false,
+        sourceDiff: [{ text: 'Intro', removed: true }],
+      },
       {
         id: 'c',
         status: 'changed',
@@ -114,8 +160,26 @@ describe('cells', () => {
         moved: false,
         sourceDiff: [{ text: 'y = ' }, { text: '2', removed: true }, { text: '2.5', added: true }, { text: ' m' }],
       },
-      { id: 'n', status: 'added', kind: 'calc', baseKind: null, baseIndex: null, targetIndex: 2, moved: false, sourceDiff: [{ text: 'w = 4 m', added: true }] },
-      { id: 'd', status: 'unchanged', kind: 'calc', baseKind: 'calc', baseIndex: 3, targetIndex: 3, moved: false, sourceDiff: null },
+      {
+        id: 'n',
+        status: 'added',
+        kind: 'calc',
+        baseKind: null,
+        baseIndex: null,
+        targetIndex: 2,
+        moved: false,
+        sourceDiff: [{ text: 'w = 4 m', added: true }],
+      },
+      {
+        id: 'd',
+        status: 'unchanged',
+        kind: 'calc',
+        baseKind: 'calc',
+        baseIndex: 3,
+        targetIndex: 3,
+        moved: false,
+        sourceDiff: null,
+      },
     ]);
     expect(cmp.summary.cells).toEqual({ added: 1, removed: 1, changed: 1, moved: 0, unchanged: 2 });
     expect(cmp.resultsCompared).toBe(false);
@@ -123,8 +187,14 @@ describe('cells', () => {
   });
 
   it('calls a cell moved only when it left the order of the others, not when cells before it were inserted', () => {
-    const base = { content: content([calc('a', 'x = 1'), calc('b', 'y = 2'), calc('c', 'z = 3'), calc('d', 'w = 4')]), results: null };
-    const moved = compareVersions(base, { content: content([calc('b', 'y = 2'), calc('c', 'z = 3'), calc('d', 'w = 4'), calc('a', 'x = 1')]), results: null });
+    const base = {
+      content: content([calc('a', 'x = 1'), calc('b', 'y = 2'), calc('c', 'z = 3'), calc('d', 'w = 4')]),
+      results: null,
+    };
+    const moved = compareVersions(base, {
+      content: content([calc('b', 'y = 2'), calc('c', 'z = 3'), calc('d', 'w = 4'), calc('a', 'x = 1')]),
+      results: null,
+    });
     expect(moved.cells.map((c) => [c.id, c.status, c.baseIndex, c.targetIndex])).toEqual([
       ['b', 'unchanged', 1, 0],
       ['c', 'unchanged', 2, 1],
@@ -133,10 +203,16 @@ describe('cells', () => {
     ]);
     expect(moved.summary.cells).toEqual({ added: 0, removed: 0, changed: 0, moved: 1, unchanged: 3 });
 
-    const inserted = compareVersions(base, { content: content([calc('n', 'v = 0'), ...base.content.cells]), results: null });
+    const inserted = compareVersions(base, {
+      content: content([calc('n', 'v = 0'), ...base.content.cells]),
+      results: null,
+    });
     expect(inserted.cells.map((c) => c.status)).toEqual(['added', 'unchanged', 'unchanged', 'unchanged', 'unchanged']);
 
-    const movedAndEdited = compareVersions(base, { content: content([calc('b', 'y = 2'), calc('a', 'x = 10'), calc('c', 'z = 3'), calc('d', 'w = 4')]), results: null });
+    const movedAndEdited = compareVersions(base, {
+      content: content([calc('b', 'y = 2'), calc('a', 'x = 10'), calc('c', 'z = 3'), calc('d', 'w = 4')]),
+      results: null,
+    });
     // Swapping a and b leaves either in order; the diff keeps b (first in the target) in place.
     expect(movedAndEdited.cells.map((c) => [c.id, c.status, c.moved])).toEqual([
       ['b', 'unchanged', false],
@@ -144,7 +220,11 @@ describe('cells', () => {
       ['c', 'unchanged', false],
       ['d', 'unchanged', false],
     ]);
-    expect(movedAndEdited.cells[1].sourceDiff).toEqual([{ text: 'x = ' }, { text: '1', removed: true }, { text: '10', added: true }]);
+    expect(movedAndEdited.cells[1].sourceDiff).toEqual([
+      { text: 'x = ' },
+      { text: '1', removed: true },
+      { text: '10', added: true },
+    ]);
   });
 
   it('puts a cell removed from the start first, before any cell added there', () => {
@@ -160,9 +240,21 @@ describe('cells', () => {
   });
 
   it('counts a change of kind as a change, with the source diff all common', () => {
-    const cmp = compareVersions({ content: content([text('a', 'E = m c^2')]), results: null }, { content: content([calc('a', 'E = m c^2')]), results: null });
+    const cmp = compareVersions(
+      { content: content([text('a', 'E = m c^2')]), results: null },
+      { content: content([calc('a', 'E = m c^2')]), results: null },
+    );
     expect(cmp.cells).toEqual([
-      { id: 'a', status: 'changed', kind: 'calc', baseKind: 'text', baseIndex: 0, targetIndex: 0, moved: false, sourceDiff: [{ text: 'E = m c^2' }] },
+      {
+        id: 'a',
+        status: 'changed',
+        kind: 'calc',
+        baseKind: 'text',
+        baseIndex: 0,
+        targetIndex: 0,
+        moved: false,
+        sourceDiff: [{ text: 'E = m c^2' }],
+      },
     ]);
     expect(cmp.summary.cells.changed).toBe(1);
   });
@@ -191,7 +283,15 @@ describe('results', () => {
     expect(br.relativeChange).toBeCloseTo(0.0288066, 6);
 
     const criterion = cmp.results.find((r) => r.type === 'criterion')!;
-    expect(criterion).toMatchObject({ key: 'criterion:c1:Br <= 2.45 T m', name: 'Br <= 2.45 T m', status: 'changed', passOld: true, passNew: false, flipped: true, relativeChange: null });
+    expect(criterion).toMatchObject({
+      key: 'criterion:c1:Br <= 2.45 T m',
+      name: 'Br <= 2.45 T m',
+      status: 'changed',
+      passOld: true,
+      passNew: false,
+      flipped: true,
+      relativeChange: null,
+    });
     // common practice: margins relative to the limit, (2.45 − 2.43)/2.45 = 0.008 16 and (2.45 − 2.5)/2.45 = −0.020 4.
     expect(criterion.old!.number).toBeCloseTo(0.00816, 5);
     expect(criterion.new!.number).toBeCloseTo(-0.0204, 4);
@@ -213,7 +313,13 @@ describe('results', () => {
       evaluated([calc('c1', 'v = 2 m / s + 1 kg\nw = v * 2\nL = 3 m')]),
     );
     const [v, w, l] = cmp.results;
-    expect(v).toMatchObject({ name: 'v', status: 'changed', old: { text: '2 m/s', error: null }, new: { text: '', number: null, unit: null, kind: null }, relativeChange: null });
+    expect(v).toMatchObject({
+      name: 'v',
+      status: 'changed',
+      old: { text: '2 m/s', error: null },
+      new: { text: '', number: null, unit: null, kind: null },
+      relativeChange: null,
+    });
     expect(v.new!.error).toMatch(/^cannot add `2 m \/ s` \(a speed\) and `1 kg` \(a mass\)/);
     expect(w.status).toBe('changed');
     expect(w.new!.error).toMatch(/depends on `v`/);
@@ -239,10 +345,23 @@ describe('results', () => {
   });
 
   it('says when the unit changed instead of comparing numbers in different units', () => {
-    const quantity = (number: number, unit: string) => ({ kind: 'quantity' as const, text: `${number} ${unit}`, tex: '', number, unit, raw: null });
+    const quantity = (number: number, unit: string) => ({
+      kind: 'quantity' as const,
+      text: `${number} ${unit}`,
+      tex: '',
+      number,
+      unit,
+      raw: null,
+    });
     const cmp = compareVersions(
-      { content: content([calc('c1', 'Br = 2.43 T m')]), results: handResult('c1', [{ name: 'Br', value: quantity(2.43, 'T m') }]) },
-      { content: content([calc('c1', 'Br = 2430 mT m')]), results: handResult('c1', [{ name: 'Br', value: quantity(2430, 'mT m') }]) },
+      {
+        content: content([calc('c1', 'Br = 2.43 T m')]),
+        results: handResult('c1', [{ name: 'Br', value: quantity(2.43, 'T m') }]),
+      },
+      {
+        content: content([calc('c1', 'Br = 2430 mT m')]),
+        results: handResult('c1', [{ name: 'Br', value: quantity(2430, 'mT m') }]),
+      },
     );
     expect(cmp.results).toEqual([
       {
@@ -314,7 +433,12 @@ describe('record and attachments', () => {
     const cmp = compareVersions({ content: base, results: null }, { content: target, results: null });
 
     expect(cmp.record.fields).toEqual([
-      { field: 'title', old: 'Dipole bending', new: 'Dipole bending power', diff: [{ text: 'Dipole bending' }, { text: ' power', added: true }] },
+      {
+        field: 'title',
+        old: 'Dipole bending',
+        new: 'Dipole bending power',
+        diff: [{ text: 'Dipole bending' }, { text: ' power', added: true }],
+      },
     ]);
     expect(cmp.record.inputs).toEqual([
       {
@@ -326,10 +450,22 @@ describe('record and attachments', () => {
       },
     ]);
     expect(cmp.record.assumptions).toEqual([
-      { key: 'Beam on the design orbit', status: 'added', old: null, new: { text: 'Beam on the design orbit', needsVerification: true }, changedFields: [] },
+      {
+        key: 'Beam on the design orbit',
+        status: 'added',
+        old: null,
+        new: { text: 'Beam on the design orbit', needsVerification: true },
+        changedFields: [],
+      },
     ]);
     expect(cmp.record.references).toEqual([
-      { key: 'Wiedemann, Particle Accelerator Physics', status: 'removed', old: 'Wiedemann, Particle Accelerator Physics', new: null, changedFields: [] },
+      {
+        key: 'Wiedemann, Particle Accelerator Physics',
+        status: 'removed',
+        old: 'Wiedemann, Particle Accelerator Physics',
+        new: null,
+        changedFields: [],
+      },
     ]);
     expect(cmp.record.attachments).toEqual([
       {
@@ -340,39 +476,73 @@ describe('record and attachments', () => {
         changedFields: ['sha256'],
         table: null,
       },
-      { key: 'photo.jpg', status: 'removed', old: { name: 'photo.jpg', mediaType: 'image/jpeg', size: 5000, sha256: hashC }, new: null, changedFields: [], table: null },
+      {
+        key: 'photo.jpg',
+        status: 'removed',
+        old: { name: 'photo.jpg', mediaType: 'image/jpeg', size: 5000, sha256: hashC },
+        new: null,
+        changedFields: [],
+        table: null,
+      },
     ]);
     expect(cmp.summary).toMatchObject({ recordChanges: 4, attachmentChanges: 2 });
     expect(cmp.summary.cells.unchanged).toBe(1);
   });
 
   it('reports the scalar fields and a changed assumption flag', () => {
-    const base = content([], { record: { ...emptyRecord(), assumptions: [{ text: 'Beam on axis', needsVerification: true }] } });
-    const target = content([], { safetyRelated: true, significantFigures: 4, record: { ...emptyRecord(), assumptions: [{ text: 'Beam on axis', needsVerification: false }] } });
+    const base = content([], {
+      record: { ...emptyRecord(), assumptions: [{ text: 'Beam on axis', needsVerification: true }] },
+    });
+    const target = content([], {
+      safetyRelated: true,
+      significantFigures: 4,
+      record: { ...emptyRecord(), assumptions: [{ text: 'Beam on axis', needsVerification: false }] },
+    });
     const cmp = compareVersions({ content: base, results: null }, { content: target, results: null });
     expect(cmp.record.fields).toEqual([
       { field: 'safetyRelated', old: false, new: true, diff: null },
       { field: 'significantFigures', old: 6, new: 4, diff: null },
     ]);
     expect(cmp.record.assumptions).toEqual([
-      { key: 'Beam on axis', status: 'changed', old: { text: 'Beam on axis', needsVerification: true }, new: { text: 'Beam on axis', needsVerification: false }, changedFields: ['needsVerification'] },
+      {
+        key: 'Beam on axis',
+        status: 'changed',
+        old: { text: 'Beam on axis', needsVerification: true },
+        new: { text: 'Beam on axis', needsVerification: false },
+        changedFields: ['needsVerification'],
+      },
     ]);
   });
 
   it('reports a change of the units shown, reading a version saved without the setting as SI units', () => {
     const before = content([]);
     expect('displayUnits' in before).toBe(false);
-    const trade = compareVersions({ content: before, results: null }, { content: content([], { displayUnits: 'trade' }), results: null });
-    expect(trade.record.fields).toEqual([{ field: 'displayUnits', old: 'SI units', new: 'Accelerator units (eV, eV/c, eV/c²)', diff: null }]);
+    const trade = compareVersions(
+      { content: before, results: null },
+      { content: content([], { displayUnits: 'trade' }), results: null },
+    );
+    expect(trade.record.fields).toEqual([
+      { field: 'displayUnits', old: 'SI units', new: 'Accelerator units (eV, eV/c, eV/c²)', diff: null },
+    ]);
     // Writing 'si' explicitly shows the same as before: no change to report.
-    expect(compareVersions({ content: before, results: null }, { content: content([], { displayUnits: 'si' }), results: null }).record.fields).toEqual([]);
+    expect(
+      compareVersions(
+        { content: before, results: null },
+        { content: content([], { displayUnits: 'si' }), results: null },
+      ).record.fields,
+    ).toEqual([]);
   });
 });
 
 describe('first check and identical versions', () => {
   it('reports everything in the target as added when there is no base', () => {
     const target = evaluated([text('t', 'Rigidity of the beam'), calc('c1', 'B = 1.5 T\nB <= 2 T')], {
-      record: { ...emptyRecord(), objective: 'Rigidity', inputs: [{ name: 'Field', value: '1.5 T', source: 'MS-12', sourceRevision: 'B' }], references: ['PDG 2024'] },
+      record: {
+        ...emptyRecord(),
+        objective: 'Rigidity',
+        inputs: [{ name: 'Field', value: '1.5 T', source: 'MS-12', sourceRevision: 'B' }],
+        references: ['PDG 2024'],
+      },
       attachments: [{ name: 'map.csv', mediaType: 'text/csv', size: 1, sha256: 'd'.repeat(64) }],
     });
     const cmp = compareVersions(null, target);
@@ -411,7 +581,11 @@ describe('first check and identical versions', () => {
 
   it('gives all unchanged and zero change counts for identical versions', () => {
     const version = evaluated([text('t', 'Intro'), calc('c1', 'B = 1.5 T\nr = 1.62 m\nBr = B * r\nBr <= 3 T m')], {
-      record: { ...emptyRecord(), inputs: [{ name: 'Field', value: '1.5 T', source: 'MS-12', sourceRevision: 'B' }], references: ['PDG 2024'] },
+      record: {
+        ...emptyRecord(),
+        inputs: [{ name: 'Field', value: '1.5 T', source: 'MS-12', sourceRevision: 'B' }],
+        references: ['PDG 2024'],
+      },
     });
     const again = evaluated(version.content.cells, { record: version.content.record });
     const cmp = compareVersions(version, again);
@@ -426,28 +600,56 @@ describe('first check and identical versions', () => {
       recordChanges: 0,
       attachmentChanges: 0,
     });
-    expect(foldUnchanged(cmp)).toEqual({ segments: [{ type: 'folded', fromTargetIndex: 0, toTargetIndex: 1, count: 2, cellIds: ['t', 'c1'] }], changedIds: [] });
+    expect(foldUnchanged(cmp)).toEqual({
+      segments: [{ type: 'folded', fromTargetIndex: 0, toTargetIndex: 1, count: 2, cellIds: ['t', 'c1'] }],
+      changedIds: [],
+    });
   });
 });
 
 describe('folding unchanged cells', () => {
   const ids = ['u1', 'u2', 'ch', 'u3', 'u4', 'u5'];
   const base = { content: content(ids.map((id) => calc(id, `${id} = 1`))), results: null };
-  const target = { content: content(ids.map((id) => calc(id, id === 'ch' ? `${id} = 2` : `${id} = 1`))), results: null };
+  const target = {
+    content: content(ids.map((id) => calc(id, id === 'ch' ? `${id} = 2` : `${id} = 1`))),
+    results: null,
+  };
   const cmp = compareVersions(base, target);
 
   it('folds the runs of unchanged cells between changes', () => {
     const folded = foldUnchanged(cmp);
     expect(folded.changedIds).toEqual(['ch']);
-    expect(folded.segments.map((s) => (s.type === 'cell' ? s.cell.id : `[${s.cellIds.join(' ')}]`))).toEqual(['[u1 u2]', 'ch', '[u3 u4 u5]']);
-    expect(folded.segments[2]).toEqual({ type: 'folded', fromTargetIndex: 3, toTargetIndex: 5, count: 3, cellIds: ['u3', 'u4', 'u5'] });
+    expect(folded.segments.map((s) => (s.type === 'cell' ? s.cell.id : `[${s.cellIds.join(' ')}]`))).toEqual([
+      '[u1 u2]',
+      'ch',
+      '[u3 u4 u5]',
+    ]);
+    expect(folded.segments[2]).toEqual({
+      type: 'folded',
+      fromTargetIndex: 3,
+      toTargetIndex: 5,
+      count: 3,
+      cellIds: ['u3', 'u4', 'u5'],
+    });
   });
 
   it('keeps context cells next to changes shown, and short runs unfolded', () => {
     const withContext = foldUnchanged(cmp, { context: 1 });
-    expect(withContext.segments.map((s) => (s.type === 'cell' ? s.cell.id : `[${s.cellIds.join(' ')}]`))).toEqual(['[u1]', 'u2', 'ch', 'u3', '[u4 u5]']);
+    expect(withContext.segments.map((s) => (s.type === 'cell' ? s.cell.id : `[${s.cellIds.join(' ')}]`))).toEqual([
+      '[u1]',
+      'u2',
+      'ch',
+      'u3',
+      '[u4 u5]',
+    ]);
     const minRun = foldUnchanged(cmp, { context: 1, minRun: 2 });
-    expect(minRun.segments.map((s) => (s.type === 'cell' ? s.cell.id : `[${s.cellIds.join(' ')}]`))).toEqual(['u1', 'u2', 'ch', 'u3', '[u4 u5]']);
+    expect(minRun.segments.map((s) => (s.type === 'cell' ? s.cell.id : `[${s.cellIds.join(' ')}]`))).toEqual([
+      'u1',
+      'u2',
+      'ch',
+      'u3',
+      '[u4 u5]',
+    ]);
   });
 });
 
@@ -459,7 +661,9 @@ describe('attachments and CSV tables', () => {
   it('lists attachments added, removed and replaced with name, size and SHA-256, and diffs a replaced CSV table by rows and columns', () => {
     // Invented demo data: a field map measured at four currents, then re-measured.
     const before = table('current [A], field [T]\n100, 0.50\n200, 1.00\n300, 1.50\n400, 2.00\n');
-    const after = table('current [A], field [T], temperature [K]\n100, 0.50, 300\n200, 1.01, 300\n400, 2.00, 301\n500, 2.49, 302\n');
+    const after = table(
+      'current [A], field [T], temperature [K]\n100, 0.50, 300\n200, 1.01, 300\n400, 2.00, 301\n500, 2.49, 302\n',
+    );
     const base = content([], {
       attachments: [
         { name: 'field-map.csv', mediaType: 'text/csv', size: 60, sha256: sha('a') },
@@ -473,7 +677,11 @@ describe('attachments and CSV tables', () => {
       ],
     });
     const scan = table('t [s]\n1\n2\n');
-    const cmp = compareVersions({ content: base, results: null }, { content: target, results: null }, { tables: { [sha('a')]: before, [sha('c')]: after, [sha('d')]: scan } });
+    const cmp = compareVersions(
+      { content: base, results: null },
+      { content: target, results: null },
+      { tables: { [sha('a')]: before, [sha('c')]: after, [sha('d')]: scan } },
+    );
     const byKey = new Map(cmp.record.attachments.map((a) => [a.key, a]));
     expect([...byKey.keys()]).toEqual(['field-map.csv', 'scan.csv', 'old-drawing.pdf']);
 
@@ -493,7 +701,14 @@ describe('attachments and CSV tables', () => {
     // Row 2 changed its field, row 3 (300 A) was removed, a row at 500 A was added; the added column
     // alone does not make rows 1 and 4 changed.
     expect(diff.rows).toEqual([
-      { status: 'changed', oldRow: 2, newRow: 2, old: [200, 1.0, null], new: [200, 1.01, 300], changedColumns: ['field'] },
+      {
+        status: 'changed',
+        oldRow: 2,
+        newRow: 2,
+        old: [200, 1.0, null],
+        new: [200, 1.01, 300],
+        changedColumns: ['field'],
+      },
       { status: 'removed', oldRow: 3, newRow: null, old: [300, 1.5, null], new: null, changedColumns: [] },
       { status: 'added', oldRow: null, newRow: 4, old: null, new: [500, 2.49, 302], changedColumns: [] },
     ]);
@@ -502,10 +717,20 @@ describe('attachments and CSV tables', () => {
 
     const added = byKey.get('scan.csv')!;
     expect(added).toMatchObject({ status: 'added', old: null, new: { name: 'scan.csv', size: 30, sha256: sha('d') } });
-    expect(added.table).toMatchObject({ oldRows: null, newRows: 2, columns: [{ name: 't', status: 'added', oldUnit: null, newUnit: 's' }], rowCounts: { added: 2, removed: 0, changed: 0 } });
+    expect(added.table).toMatchObject({
+      oldRows: null,
+      newRows: 2,
+      columns: [{ name: 't', status: 'added', oldUnit: null, newUnit: 's' }],
+      rowCounts: { added: 2, removed: 0, changed: 0 },
+    });
 
     const removed = byKey.get('old-drawing.pdf')!;
-    expect(removed).toMatchObject({ status: 'removed', new: null, old: { name: 'old-drawing.pdf', size: 12000, sha256: sha('b') }, table: null });
+    expect(removed).toMatchObject({
+      status: 'removed',
+      new: null,
+      old: { name: 'old-drawing.pdf', size: 12000, sha256: sha('b') },
+      table: null,
+    });
     expect(cmp.summary.attachmentChanges).toBe(3);
     // Plain JSON: what the API returns is what the page renders.
     expect(JSON.parse(JSON.stringify(cmp))).toEqual(cmp);
@@ -522,7 +747,8 @@ describe('attachments and CSV tables', () => {
     ]);
     expect(d.rows).toEqual([]);
 
-    const rows = (n: number, f: (i: number) => number) => 'i, v\n' + Array.from({ length: n }, (_, i) => `${i}, ${f(i)}`).join('\n');
+    const rows = (n: number, f: (i: number) => number) =>
+      'i, v\n' + Array.from({ length: n }, (_, i) => `${i}, ${f(i)}`).join('\n');
     const big = compareTables(table(rows(500, (i) => i)), table(rows(500, (i) => i + 0.5)));
     expect(big.rowCounts).toEqual({ added: 0, removed: 0, changed: 500 });
     expect(big.rows).toHaveLength(MAX_TABLE_ROW_CHANGES);
@@ -531,18 +757,27 @@ describe('attachments and CSV tables', () => {
     // Far apart (1000 row edits): compared row k with row k, every row changed.
     expect(big.rows.every((r, k) => r.status === 'changed' && r.oldRow === k + 1 && r.newRow === k + 1)).toBe(true);
     // Close: one row inserted near the top of 500 shifts nothing else.
-    const inserted = compareTables(table(rows(500, (i) => i)), table('i, v\n' + ['0, 0', '0.5, 0.5', ...Array.from({ length: 499 }, (_, k) => `${k + 1}, ${k + 1}`)].join('\n')));
-    expect(inserted.rows).toEqual([{ status: 'added', oldRow: null, newRow: 2, old: null, new: [0.5, 0.5], changedColumns: [] }]);
+    const inserted = compareTables(
+      table(rows(500, (i) => i)),
+      table('i, v\n' + ['0, 0', '0.5, 0.5', ...Array.from({ length: 499 }, (_, k) => `${k + 1}, ${k + 1}`)].join('\n')),
+    );
+    expect(inserted.rows).toEqual([
+      { status: 'added', oldRow: null, newRow: 2, old: null, new: [0.5, 0.5], changedColumns: [] },
+    ]);
   });
 
   it('gives no table diff for an attachment whose table was not passed in, and the same answer either way round', () => {
     const a = content([], { attachments: [{ name: 'd.csv', mediaType: 'text/csv', size: 10, sha256: sha('e') }] });
     const b = content([], { attachments: [{ name: 'd.csv', mediaType: 'text/csv', size: 11, sha256: sha('f') }] });
-    expect(compareVersions({ content: a, results: null }, { content: b, results: null }).record.attachments[0].table).toBeNull();
+    expect(
+      compareVersions({ content: a, results: null }, { content: b, results: null }).record.attachments[0].table,
+    ).toBeNull();
     const t1 = table('n\n1\n2\n');
     const t2 = table('n\n1\n3\n');
     const forward = compareTables(t1, t2);
     const backward = compareTables(t2, t1);
-    expect(forward.rows.map((r) => [r.oldRow, r.newRow, r.old, r.new])).toEqual(backward.rows.map((r) => [r.newRow, r.oldRow, r.new, r.old]));
+    expect(forward.rows.map((r) => [r.oldRow, r.newRow, r.old, r.new])).toEqual(
+      backward.rows.map((r) => [r.newRow, r.oldRow, r.new, r.old]),
+    );
   });
 });

@@ -5,13 +5,25 @@ import { sampleContent } from '../support/fixtures';
 
 it('serialises content per RFC 8785 (keys sorted by UTF-16 code units, no whitespace)', () => {
   const text = canonicalContent(sampleContent('A'));
-  expect(text.startsWith('{"attachments":[],"cells":[{"id":"c1","kind":"calc","source":"x = 2 m"}],"record":{')).toBe(true);
+  expect(text.startsWith('{"attachments":[],"cells":[{"id":"c1","kind":"calc","source":"x = 2 m"}],"record":{')).toBe(
+    true,
+  );
   expect(text).not.toMatch(/\s":|,\s/);
 });
 
 it('gives the same hash whatever order the keys were written in, and another for other content', () => {
   const a = sampleContent('Same');
-  const reordered = JSON.parse(JSON.stringify({ title: a.title, cells: a.cells, schema: a.schema, record: a.record, attachments: a.attachments, safetyRelated: a.safetyRelated, significantFigures: a.significantFigures }));
+  const reordered = JSON.parse(
+    JSON.stringify({
+      title: a.title,
+      cells: a.cells,
+      schema: a.schema,
+      record: a.record,
+      attachments: a.attachments,
+      safetyRelated: a.safetyRelated,
+      significantFigures: a.significantFigures,
+    }),
+  );
   expect(contentHash(reordered)).toBe(contentHash(a));
   expect(contentHash(sampleContent('Other'))).not.toBe(contentHash(a));
   expect(contentHash(a)).toBe(createHash('sha256').update(canonicalContent(a)).digest('hex'));
@@ -23,7 +35,9 @@ it('keeps the hash of a version saved before the display-units setting existed: 
   const stored = sampleContent('Before the setting');
   expect('displayUnits' in stored).toBe(false);
   // The hash as it was computed when the version was saved, from the stored JSON itself.
-  const before = createHash('sha256').update(canonicalContent(JSON.parse(JSON.stringify(stored)))).digest('hex');
+  const before = createHash('sha256')
+    .update(canonicalContent(JSON.parse(JSON.stringify(stored))))
+    .digest('hex');
   const parsed = versionContentSchema.parse(JSON.parse(JSON.stringify(stored)));
   expect('displayUnits' in parsed).toBe(false);
   expect(contentHash(parsed)).toBe(before);

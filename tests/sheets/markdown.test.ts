@@ -6,7 +6,8 @@ import { renderMarkdown } from '../../lib/sheets/markdown';
 // Every `<` of text is escaped as &lt;, so each `<` left in the output opens a real element: the
 // checks below look at the elements and their attributes, where markup could act. (What the author
 // typed may still be shown as text, e.g. the TeX source in KaTeX's annotation.)
-const FORBIDDEN_ELEMENTS = /^<\/?(?:script|iframe|img|object|embed|style|form|input|button|link|meta|base|frame|frameset|video|audio|source|image|use|foreignobject|animate|set)\b/i;
+const FORBIDDEN_ELEMENTS =
+  /^<\/?(?:script|iframe|img|object|embed|style|form|input|button|link|meta|base|frame|frameset|video|audio|source|image|use|foreignobject|animate|set)\b/i;
 
 function expectHarmless(html: string) {
   expect(html).not.toMatch(/<script/i);
@@ -24,7 +25,9 @@ function expectHarmless(html: string) {
 
 describe('Markdown', () => {
   it('renders headings, lists, emphasis, code and links', () => {
-    const html = renderMarkdown('# Beam line\n\n## Inputs\n\n- *kinetic* energy\n- **rest** mass\n\n1. one\n2. two\n\nUse `T_kin`; see https://example.org/x.');
+    const html = renderMarkdown(
+      '# Beam line\n\n## Inputs\n\n- *kinetic* energy\n- **rest** mass\n\n1. one\n2. two\n\nUse `T_kin`; see https://example.org/x.',
+    );
     expect(html).toContain('<h1>Beam line</h1>');
     expect(html).toContain('<h2>Inputs</h2>');
     expect(html).toMatch(/<ul>\s*<li><em>kinetic<\/em> energy<\/li>\s*<li><strong>rest<\/strong> mass<\/li>\s*<\/ul>/);
@@ -67,7 +70,8 @@ describe('math', () => {
   });
 
   it('keeps everything KaTeX produces (sanitising changes only the spelling of the markup)', () => {
-    const spelling = (html: string) => html.replace(/;"/g, '"').replace(/<(path|line|mspace)([^>]*)\/>/g, '<$1$2></$1>');
+    const spelling = (html: string) =>
+      html.replace(/;"/g, '"').replace(/<(path|line|mspace)([^>]*)\/>/g, '<$1$2></$1>');
     for (const f of [
       '\\sqrt{1-\\beta^2}',
       '\\overrightarrow{AB} + \\widehat{xyz}',
@@ -77,7 +81,14 @@ describe('math', () => {
       '\\xrightarrow{abc} \\cancel{x} \\underbrace{a+b}_{n}',
       '\\mathrm{MeV}\\,\\text{kg m/s} \\quad \\hat{p}_{\\mathrm{T}}',
     ]) {
-      const direct = katex.renderToString(f, { throwOnError: false, trust: false, strict: 'ignore', output: 'htmlAndMathml', maxSize: 20, maxExpand: 200 });
+      const direct = katex.renderToString(f, {
+        throwOnError: false,
+        trust: false,
+        strict: 'ignore',
+        output: 'htmlAndMathml',
+        maxSize: 20,
+        maxExpand: 200,
+      });
       expect(spelling(renderMarkdown(`$${f}$`)), f).toBe(spelling(`<p>${direct}</p>\n`));
     }
   });

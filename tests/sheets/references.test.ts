@@ -13,7 +13,13 @@ import type { SheetResult, StatementResult } from '../../lib/calc/types';
 import { submissionFindings } from '../../lib/checks/submission-findings';
 import { decide, saveCheckWork, submitForCheck } from '../../lib/checks/workflow';
 import { listRevisions, processIssueJob, registerCsv, requestIssue, withdrawRevision } from '../../lib/issue/issue';
-import { revisionInputFlags, sheetImpact, sheetInputFlags, staleRevisionCounts, supersededInputs } from '../../lib/sheets/impact';
+import {
+  revisionInputFlags,
+  sheetImpact,
+  sheetInputFlags,
+  staleRevisionCounts,
+  supersededInputs,
+} from '../../lib/sheets/impact';
 import { NO_PROJECT_FOR_REFERENCES, resolveReferences, unresolvedReferences } from '../../lib/sheets/references';
 import { createSheet, getVersion, saveVersion } from '../../lib/sheets/sheets';
 import { storageConfig } from '../../lib/storage/config';
@@ -35,14 +41,23 @@ let people: People;
 let projectId: string;
 
 async function newSheet(title: string, project = projectId, code = 'TPT2'): Promise<Sheet> {
-  const created = await createSheet(testDb(), people.author, { id: project, code }, { title, safetyRelated: false, objective: title });
+  const created = await createSheet(
+    testDb(),
+    people.author,
+    { id: project, code },
+    { title, safetyRelated: false, objective: title },
+  );
   return { id: created.id, project_id: project, number: created.number, title };
 }
 
 async function save(sheet: Sheet, source: string) {
   const db = testDb();
   const latest = (await getVersion(db, sheet.id))!;
-  return saveVersion(db, people.author, sheet, { parentNumber: latest.number, message: 'edit', content: { ...latest.content, cells: [{ id: 'c1', kind: 'calc', source }] } });
+  return saveVersion(db, people.author, sheet, {
+    parentNumber: latest.number,
+    message: 'edit',
+    content: { ...latest.content, cells: [{ id: 'c1', kind: 'calc', source }] },
+  });
 }
 
 /** Saves `source`, takes it through check and approval, and issues it: the revision's code and id. */
@@ -51,12 +66,23 @@ async function issue(sheet: Sheet, source: string) {
   const saved = await save(sheet, source);
   // A sheet with an evaluation error can only be submitted with each error acknowledged in writing.
   const version = (await getVersion(db, sheet.id, saved.number))!;
-  const acknowledgements = submissionFindings(version.content, version.results).map((f) => ({ key: f.key, text: 'Deliberate: exercises a citation of a result that is not a number.' }));
-  const { id } = await submitForCheck(db, people.author, sheet, { versionNumber: saved.number, checkerId: people.checker.userId, password: PASSWORD, acknowledgements });
+  const acknowledgements = submissionFindings(version.content, version.results).map((f) => ({
+    key: f.key,
+    text: 'Deliberate: exercises a citation of a result that is not a number.',
+  }));
+  const { id } = await submitForCheck(db, people.author, sheet, {
+    versionNumber: saved.number,
+    checkerId: people.checker.userId,
+    password: PASSWORD,
+    acknowledgements,
+  });
   await saveCheckWork(db, people.checker, id, { verificationMethod: 'design_review' });
   await decide(db, people.checker, id, { action: 'sign', password: PASSWORD });
   await decide(db, people.approver, id, { action: 'approve', password: PASSWORD });
-  const { jobId, revision } = await requestIssue(db, people.controller, sheet, { versionNumber: saved.number, password: PASSWORD });
+  const { jobId, revision } = await requestIssue(db, people.controller, sheet, {
+    versionNumber: saved.number,
+    password: PASSWORD,
+  });
   const revisionId = (await processIssueJob(db, createObjectStore(storageConfig()), jobId))!;
   return { revision, revisionId, versionNumber: saved.number };
 }
@@ -67,14 +93,23 @@ function definition(results: SheetResult | null, name: string): StatementResult 
   return s;
 }
 
-const RIGIDITY = (tKin: string) => `T_kin = ${tKin}\nBrho = magneticRigidity(momentumFromKinetic(T_kin, m_p), q_e) to T*m`;
-const cite = (sheet: string, revision: string, name = 'Brho', as = 'Brho_in') => `${as} = fromRevision("${sheet}", "${revision}", "${name}")`;
+const RIGIDITY = (tKin: string) =>
+  `T_kin = ${tKin}\nBrho = magneticRigidity(momentumFromKinetic(T_kin, m_p), q_e) to T*m`;
+const cite = (sheet: string, revision: string, name = 'Brho', as = 'Brho_in') =>
+  `${as} = fromRevision("${sheet}", "${revision}", "${name}")`;
 
 beforeEach(async () => {
   const db = testDb();
-  const [author, checker, approver, controller] = await Promise.all(['author', 'checker', 'approver', 'controller'].map((n) => makeUser(db, `${n}@example.test`)));
+  const [author, checker, approver, controller] = await Promise.all(
+    ['author', 'checker', 'approver', 'controller'].map((n) => makeUser(db, `${n}@example.test`)),
+  );
   people = { author, checker, approver, controller };
-  projectId = await makeProject(db, 'TPT2', [[author, 'originator'], [checker, 'checker'], [approver, 'approver'], [controller, 'controller']]);
+  projectId = await makeProject(db, 'TPT2', [
+    [author, 'originator'],
+    [checker, 'checker'],
+    [approver, 'approver'],
+    [controller, 'controller'],
+  ]);
 });
 
 // Issuing renders and signs a PDF, which takes seconds on a busy machine: more time than the default.
@@ -86,7 +121,11 @@ describe('resolving citations', ISSUING, () => {
     const a = await newSheet('Gantry dipole rigidity');
     const revA = await issue(a, RIGIDITY('250 MeV'));
     const issued = definition((await getVersion(db, a.id, revA.versionNumber))!.results, 'Brho');
-    const [resolved] = await resolveReferences(db, projectId, findReferences([{ kind: 'calc', source: cite('tpt2-calc-0001', 'a') }]));
+    const [resolved] = await resolveReferences(
+      db,
+      projectId,
+      findReferences([{ kind: 'calc', source: cite('tpt2-calc-0001', 'a') }]),
+    );
     expect(resolved).toMatchObject({
       sheet: 'TPT2-CALC-0001',
       revision: 'A',
@@ -103,10 +142,15 @@ describe('resolving citations', ISSUING, () => {
     // Once revision B is issued, revision A still resolves to its own value, marked superseded by B.
     await issue(a, RIGIDITY('230 MeV'));
     const [again] = await resolveReferences(db, projectId, [{ sheet: 'TPT2-CALC-0001', revision: 'A', name: 'Brho' }]);
-    expect(again).toMatchObject({ status: 'superseded', supersededBy: 'B', error: null, value: { number: issued.value!.number } });
+    expect(again).toMatchObject({
+      status: 'superseded',
+      supersededBy: 'B',
+      error: null,
+      value: { number: issued.value!.number },
+    });
   });
 
-  it('refuses another project\'s sheet, an unissued or withdrawn revision, a missing name, a value that is not a number, and the sheet itself', async () => {
+  it("refuses another project's sheet, an unissued or withdrawn revision, a missing name, a value that is not a number, and the sheet itself", async () => {
     const db = testDb();
     const a = await newSheet('Gantry dipole rigidity');
     const revA = await issue(a, `${RIGIDITY('250 MeV')}\nlabel = "dipole"\nbad = 2 m + 3 s`);
@@ -137,15 +181,26 @@ describe('resolving citations', ISSUING, () => {
     expect(errors[6]).toBeNull();
     for (const r of answers.slice(0, 6)) expect(r.value).toBeNull();
 
-    const [self] = await resolveReferences(db, projectId, [{ sheet: 'TPT2-CALC-0001', revision: 'A', name: 'Brho' }], { excludeSheetId: a.id });
+    const [self] = await resolveReferences(db, projectId, [{ sheet: 'TPT2-CALC-0001', revision: 'A', name: 'Brho' }], {
+      excludeSheetId: a.id,
+    });
     expect(self.error).toBe('a sheet cannot cite its own revisions (TPT2-CALC-0001)');
 
     await withdrawRevision(db, people.controller, revA.revisionId, 'field map of the wrong magnet');
-    const [withdrawn] = await resolveReferences(db, projectId, [{ sheet: 'TPT2-CALC-0001', revision: 'A', name: 'Brho' }]);
-    expect(withdrawn).toMatchObject({ value: null, status: 'withdrawn', error: 'revision A of TPT2-CALC-0001 was withdrawn: field map of the wrong magnet' });
+    const [withdrawn] = await resolveReferences(db, projectId, [
+      { sheet: 'TPT2-CALC-0001', revision: 'A', name: 'Brho' },
+    ]);
+    expect(withdrawn).toMatchObject({
+      value: null,
+      status: 'withdrawn',
+      error: 'revision A of TPT2-CALC-0001 was withdrawn: field map of the wrong magnet',
+    });
 
     // Evaluated outside a saved sheet (the scratch pad), a citation cannot resolve.
-    expect(unresolvedReferences([{ sheet: 'TPT2-CALC-0001', revision: 'A', name: 'Brho' }])[0]).toMatchObject({ value: null, error: NO_PROJECT_FOR_REFERENCES });
+    expect(unresolvedReferences([{ sheet: 'TPT2-CALC-0001', revision: 'A', name: 'Brho' }])[0]).toMatchObject({
+      value: null,
+      error: NO_PROJECT_FOR_REFERENCES,
+    });
   });
 });
 
@@ -174,19 +229,27 @@ describe('evaluating citations', ISSUING, () => {
     expect(cited.error).toBeNull();
     expect(cited.value!.number).toBe(issued.value!.number);
     expect(cited.value!.unit).toBe(issued.value!.unit);
-    expect(cited.references).toMatchObject([{ sheet: 'TPT2-CALC-0001', revision: 'A', name: 'Brho', status: 'current', error: null }]);
+    expect(cited.references).toMatchObject([
+      { sheet: 'TPT2-CALC-0001', revision: 'A', name: 'Brho', status: 'current', error: null },
+    ]);
     expect(definition(results, 'I_ratio').error).toBeNull();
     expect(definition(results, 'x_other').error).toMatch(/OTH-CALC-0001 is not a sheet of this project/);
     expect(definition(results, 'Brho_next').error).toMatch(/revision B of TPT2-CALC-0001 is not issued/);
     expect(definition(results, 'B_missing').error).toMatch(/revision A of TPT2-CALC-0001 has no result named Bfield/);
     // Only the citation that resolved is recorded with the version.
-    expect(await db.selectFrom('version_references').select(['revision_id', 'name']).execute()).toEqual([{ revision_id: revA.revisionId, name: 'Brho' }]);
+    expect(await db.selectFrom('version_references').select(['revision_id', 'name']).execute()).toEqual([
+      { revision_id: revA.revisionId, name: 'Brho' },
+    ]);
 
     // The same cells saved again after revision B is issued: still the value of revision A, now
     // marked superseded (the evaluator's recent results are keyed on the citations as resolved).
     await issue(a, RIGIDITY('230 MeV'));
     const latest = (await getVersion(db, b.id))!;
-    await saveVersion(db, people.author, b, { parentNumber: latest.number, message: 'same cells', content: latest.content });
+    await saveVersion(db, people.author, b, {
+      parentNumber: latest.number,
+      message: 'same cells',
+      content: latest.content,
+    });
     const again = definition((await getVersion(db, b.id))!.results, 'Brho_in');
     expect(again.value!.number).toBe(issued.value!.number);
     expect(again.references).toMatchObject([{ revision: 'A', status: 'superseded', supersededBy: 'B' }]);
@@ -209,10 +272,14 @@ describe('recording, superseded inputs and impact', ISSUING, () => {
       .innerJoin('versions as v', 'v.id', 'vr.version_id')
       .select(['v.sheet_id', 'v.number', 'vr.revision_id', 'vr.name'])
       .execute();
-    expect(recorded).toEqual([{ sheet_id: b.id, number: revBA.versionNumber, revision_id: revAA.revisionId, name: 'Brho' }]);
+    expect(recorded).toEqual([
+      { sheet_id: b.id, number: revBA.versionNumber, revision_id: revAA.revisionId, name: 'Brho' },
+    ]);
     await save(c, `${cite('TPT2-CALC-0002', 'A', 'I_max', 'I_lim')}\n${cite('TPT2-CALC-0001', 'Z')}`);
     // Only citations that resolved are recorded (revision Z does not exist).
-    expect(await db.selectFrom('version_references').select('name').where('revision_id', '=', revBA.revisionId).execute()).toEqual([{ name: 'I_max' }]);
+    expect(
+      await db.selectFrom('version_references').select('name').where('revision_id', '=', revBA.revisionId).execute(),
+    ).toEqual([{ name: 'I_max' }]);
     expect(await supersededInputs(db, b.id)).toEqual([]);
     expect((await revisionInputFlags(db, projectId)).size).toBe(0);
 
@@ -241,7 +308,12 @@ describe('recording, superseded inputs and impact', ISSUING, () => {
           {
             name: 'Brho',
             cited: { text: oldBrho.value!.text, number: oldBrho.value!.number, unit: oldBrho.value!.unit, error: null },
-            current: { text: newBrho.value!.text, number: newBrho.value!.number, unit: newBrho.value!.unit, error: null },
+            current: {
+              text: newBrho.value!.text,
+              number: newBrho.value!.number,
+              unit: newBrho.value!.unit,
+              error: null,
+            },
             changed: true,
           },
         ],
@@ -251,13 +323,21 @@ describe('recording, superseded inputs and impact', ISSUING, () => {
     // The register flags B's revision A; the sheet list flags B; C cites only B's current revision.
     const register = await revisionInputFlags(db, projectId);
     expect([...register.keys()]).toEqual([revBA.revisionId]);
-    expect(register.get(revBA.revisionId)).toEqual([{ sheet: 'TPT2-CALC-0001', sheetNumber: 1, revision: 'A', status: 'superseded', currentRevision: 'B' }]);
+    expect(register.get(revBA.revisionId)).toEqual([
+      { sheet: 'TPT2-CALC-0001', sheetNumber: 1, revision: 'A', status: 'superseded', currentRevision: 'B' },
+    ]);
     expect([...(await sheetInputFlags(db, projectId)).keys()]).toEqual([b.id]);
     expect(await staleRevisionCounts(db, [projectId])).toEqual(new Map([[projectId, 1]]));
     // The register's CSV names the superseded input on B's row only.
-    const csvRows = registerCsv(await listRevisions(db, { projectId }), register).trim().split('\r\n');
+    const csvRows = registerCsv(await listRevisions(db, { projectId }), register)
+      .trim()
+      .split('\r\n');
     expect(csvRows[0].endsWith(',superseded_inputs')).toBe(true);
-    expect(csvRows.filter((line) => line.endsWith(',TPT2-CALC-0001 rev. A (superseded by rev. B)')).map((line) => line.split(',')[0])).toEqual(['TPT2-CALC-0002']);
+    expect(
+      csvRows
+        .filter((line) => line.endsWith(',TPT2-CALC-0001 rev. A (superseded by rev. B)'))
+        .map((line) => line.split(',')[0]),
+    ).toEqual(['TPT2-CALC-0002']);
 
     // Impact of A: B directly (through revision A), C through B's revision A.
     const impact = await sheetImpact(db, a.id);
@@ -266,7 +346,19 @@ describe('recording, superseded inputs and impact', ISSUING, () => {
       ['A', 'superseded'],
     ]);
     expect(impact[0].dependents).toEqual([]);
-    expect(impact[1].dependents.map((d) => [d.depth, d.sheet, d.via.sheet, d.via.revision, d.versions, d.names, d.issuedAs.map((x) => x.revision), d.latestCitesVia, d.latestCitesSuperseded])).toEqual([
+    expect(
+      impact[1].dependents.map((d) => [
+        d.depth,
+        d.sheet,
+        d.via.sheet,
+        d.via.revision,
+        d.versions,
+        d.names,
+        d.issuedAs.map((x) => x.revision),
+        d.latestCitesVia,
+        d.latestCitesSuperseded,
+      ]),
+    ).toEqual([
       [1, 'TPT2-CALC-0002', 'TPT2-CALC-0001', 'A', [revBA.versionNumber], ['Brho'], ['A'], true, true],
       [2, 'TPT2-CALC-0003', 'TPT2-CALC-0002', 'A', [2], ['I_max'], [], true, false],
     ]);
@@ -279,7 +371,9 @@ describe('recording, superseded inputs and impact', ISSUING, () => {
     expect((await sheetInputFlags(db, projectId)).size).toBe(0);
     expect([...(await revisionInputFlags(db, projectId)).keys()]).toEqual([revBA.revisionId]);
     const after = await sheetImpact(db, a.id);
-    expect(after[0].dependents.map((d) => [d.depth, d.sheet, d.versions, d.latestCitesVia, d.latestCitesSuperseded])).toEqual([[1, 'TPT2-CALC-0002', [revBA.versionNumber + 1], true, false]]);
+    expect(
+      after[0].dependents.map((d) => [d.depth, d.sheet, d.versions, d.latestCitesVia, d.latestCitesSuperseded]),
+    ).toEqual([[1, 'TPT2-CALC-0002', [revBA.versionNumber + 1], true, false]]);
     expect(after[1].dependents.map((d) => [d.depth, d.sheet, d.latestCitesVia])).toEqual([
       [1, 'TPT2-CALC-0002', false],
       [2, 'TPT2-CALC-0003', true],
@@ -293,12 +387,19 @@ describe('recording, superseded inputs and impact', ISSUING, () => {
     await issue(a, RIGIDITY('250 MeV'));
     // B cites A rev. A and is approved; then A is issued at rev. B before B is issued.
     const saved = await save(b, `${cite('TPT2-CALC-0001', 'A')}\nI_max = 400 A`);
-    const { id } = await submitForCheck(db, people.author, b, { versionNumber: saved.number, checkerId: people.checker.userId, password: PASSWORD });
+    const { id } = await submitForCheck(db, people.author, b, {
+      versionNumber: saved.number,
+      checkerId: people.checker.userId,
+      password: PASSWORD,
+    });
     await saveCheckWork(db, people.checker, id, { verificationMethod: 'design_review' });
     await decide(db, people.checker, id, { action: 'sign', password: PASSWORD });
     await decide(db, people.approver, id, { action: 'approve', password: PASSWORD });
     await issue(a, RIGIDITY('230 MeV'));
-    const refused = await requestIssue(db, people.controller, b, { versionNumber: saved.number, password: PASSWORD }).then(
+    const refused = await requestIssue(db, people.controller, b, {
+      versionNumber: saved.number,
+      password: PASSWORD,
+    }).then(
       () => null,
       (e: Error & { status?: number; details?: Record<string, unknown> }) => e,
     );
@@ -314,7 +415,13 @@ describe('recording, superseded inputs and impact', ISSUING, () => {
     await save(b, cite('TPT2-CALC-0001', 'A'));
     await withdrawRevision(db, people.controller, revAA.revisionId, 'wrong magnet');
     const [flag] = await supersededInputs(db, b.id);
-    expect(flag).toMatchObject({ revision: 'A', status: 'withdrawn', withdrawnReason: 'wrong magnet', currentRevision: null, compareHref: null });
+    expect(flag).toMatchObject({
+      revision: 'A',
+      status: 'withdrawn',
+      withdrawnReason: 'wrong magnet',
+      currentRevision: null,
+      compareHref: null,
+    });
     expect(flag.names[0]).toMatchObject({ name: 'Brho', current: null, changed: true });
   });
 });

@@ -6,7 +6,12 @@ import { importSheetFile } from '../../lib/sheets/sheet-files';
 import { testDb } from '../support/database';
 import { makeProject, makeUser } from '../support/people';
 
-const FILE = JSON.stringify({ title: 'Imported rigidity', cells: [{ kind: 'calc', source: 'T_i = 250 MeV\nBrho_i = magneticRigidity(momentumFromKinetic(T_i, m_p), q_e) to T*m' }] });
+const FILE = JSON.stringify({
+  title: 'Imported rigidity',
+  cells: [
+    { kind: 'calc', source: 'T_i = 250 MeV\nBrho_i = magneticRigidity(momentumFromKinetic(T_i, m_p), q_e) to T*m' },
+  ],
+});
 
 async function world() {
   const db = testDb();
@@ -19,7 +24,12 @@ it('imports a file as version 2 of a new sheet, evaluated', async () => {
   const { db, author, project } = await world();
   const sheet = await importSheetFile(db, author, project, FILE);
   expect(sheet).toMatchObject({ number: 1, code: 'TPT2-CALC-0001', version: 2 });
-  const versions = await db.selectFrom('versions').select(['number', 'message', 'results']).where('sheet_id', '=', sheet.id).orderBy('number').execute();
+  const versions = await db
+    .selectFrom('versions')
+    .select(['number', 'message', 'results'])
+    .where('sheet_id', '=', sheet.id)
+    .orderBy('number')
+    .execute();
   expect(versions.map((v) => [v.number, v.message])).toEqual([
     [1, 'Sheet created'],
     [2, 'Imported from a sheet file'],
@@ -30,8 +40,12 @@ it('imports a file as version 2 of a new sheet, evaluated', async () => {
 it('leaves nothing behind when saving the imported version fails', async () => {
   const { db, author, project } = await world();
   // A database failure on the second insert only (the imported version).
-  await sql`create function refuse_second_version() returns trigger language plpgsql as $$ begin if new.number = 2 then raise exception 'simulated failure'; end if; return new; end $$`.execute(db);
-  await sql`create trigger refuse_second_version before insert on versions for each row execute function refuse_second_version()`.execute(db);
+  await sql`create function refuse_second_version() returns trigger language plpgsql as $$ begin if new.number = 2 then raise exception 'simulated failure'; end if; return new; end $$`.execute(
+    db,
+  );
+  await sql`create trigger refuse_second_version before insert on versions for each row execute function refuse_second_version()`.execute(
+    db,
+  );
   try {
     await expect(importSheetFile(db, author, project, FILE)).rejects.toThrow(/simulated failure/);
   } finally {
@@ -40,7 +54,13 @@ it('leaves nothing behind when saving the imported version fails', async () => {
   }
   expect(await db.selectFrom('sheets').select('id').execute()).toEqual([]);
   expect(await db.selectFrom('versions').select('id').execute()).toEqual([]);
-  expect(await db.selectFrom('audit_events').select('action').where('action', 'in', ['sheet.create', 'version.save']).execute()).toEqual([]);
+  expect(
+    await db
+      .selectFrom('audit_events')
+      .select('action')
+      .where('action', 'in', ['sheet.create', 'version.save'])
+      .execute(),
+  ).toEqual([]);
   // And the next import takes number 1: nothing was used up.
   expect((await importSheetFile(db, author, project, FILE)).code).toBe('TPT2-CALC-0001');
 });
@@ -51,13 +71,19 @@ it('records the units shown: a new sheet writes the trade setting, a file keeps 
   const plain = await importSheetFile(db, author, project, JSON.stringify(momentum));
   const trade = await importSheetFile(db, author, project, JSON.stringify({ ...momentum, displayUnits: 'trade' }));
   const read = async (sheetId: string) =>
-    db.selectFrom('versions').select(['number', 'content', 'results']).where('sheet_id', '=', sheetId).orderBy('number').execute();
+    db
+      .selectFrom('versions')
+      .select(['number', 'content', 'results'])
+      .where('sheet_id', '=', sheetId)
+      .orderBy('number')
+      .execute();
   const [created, imported] = await read(plain.id);
   // Version 1, as created: the setting written explicitly.
   expect((created.content as { displayUnits?: string }).displayUnits).toBe('trade');
   // A file without the setting was written before it existed: SI units, as it showed then.
   expect((imported.content as { displayUnits?: string }).displayUnits).toBe('si');
-  const unitOf = (results: unknown) => (results as { cells: Array<{ statements: Array<{ value: { unit: string } }> }> }).cells[0].statements[0].value.unit;
+  const unitOf = (results: unknown) =>
+    (results as { cells: Array<{ statements: Array<{ value: { unit: string } }> }> }).cells[0].statements[0].value.unit;
   expect(unitOf(imported.results)).toBe('(kg m) / s');
   const [, tradeVersion] = await read(trade.id);
   expect((tradeVersion.content as { displayUnits?: string }).displayUnits).toBe('trade');

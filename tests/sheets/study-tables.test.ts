@@ -9,9 +9,18 @@ import { testDb } from '../support/database';
 
 async function studySheet() {
   await seedDemo(testDb(), { studies: true });
-  const project = await testDb().selectFrom('projects').select('id').where('code', '=', 'TPT2').executeTakeFirstOrThrow();
+  const project = await testDb()
+    .selectFrom('projects')
+    .select('id')
+    .where('code', '=', 'TPT2')
+    .executeTakeFirstOrThrow();
   // Demo sheet 4: cell 3 (index 2) holds a sweep on line 1 and a plot on line 2 (db/seed.ts).
-  return testDb().selectFrom('sheets').select('id').where('project_id', '=', project.id).where('number', '=', 4).executeTakeFirstOrThrow();
+  return testDb()
+    .selectFrom('sheets')
+    .select('id')
+    .where('project_id', '=', project.id)
+    .where('number', '=', 4)
+    .executeTakeFirstOrThrow();
 }
 
 describe('getStudyTable', () => {
@@ -53,7 +62,8 @@ describe('pathInteger', () => {
   it('reads plain whole numbers from a path segment and nothing else', () => {
     expect(pathInteger('0', 0)).toBe(0);
     expect(pathInteger('12', 1)).toBe(12);
-    for (const bad of ['', '-1', '+1', '1.0', '1e3', ' 1', '0x10', '9999999999']) expect(pathInteger(bad, 0), bad).toBeNull();
+    for (const bad of ['', '-1', '+1', '1.0', '1e3', ' 1', '0x10', '9999999999'])
+      expect(pathInteger(bad, 0), bad).toBeNull();
     expect(pathInteger('0', 1)).toBeNull();
   });
 });

@@ -29,10 +29,20 @@ export interface SheetRef {
  * author@, checker@, approver@ and controller@`domain` (password PASSWORD), members of a new project
  * `code` as originator, checker, approver and controller.
  */
-export async function makeTeam(db: Kysely<Database>, options: { code: string; domain?: string }): Promise<Team & { projectId: string }> {
+export async function makeTeam(
+  db: Kysely<Database>,
+  options: { code: string; domain?: string },
+): Promise<Team & { projectId: string }> {
   const domain = options.domain ?? 'example.test';
-  const [author, checker, approver, controller] = await Promise.all(['author', 'checker', 'approver', 'controller'].map((n) => makeUser(db, `${n}@${domain}`)));
-  const projectId = await makeProject(db, options.code, [[author, 'originator'], [checker, 'checker'], [approver, 'approver'], [controller, 'controller']]);
+  const [author, checker, approver, controller] = await Promise.all(
+    ['author', 'checker', 'approver', 'controller'].map((n) => makeUser(db, `${n}@${domain}`)),
+  );
+  const projectId = await makeProject(db, options.code, [
+    [author, 'originator'],
+    [checker, 'checker'],
+    [approver, 'approver'],
+    [controller, 'controller'],
+  ]);
   return { author, checker, approver, controller, projectId };
 }
 
@@ -43,7 +53,11 @@ export async function makeSheet(
   project: { id: string; code: string },
   input: { title: string; safetyRelated?: boolean; objective?: string },
 ): Promise<SheetRef> {
-  const created = await createSheet(db, author, project, { title: input.title, safetyRelated: input.safetyRelated ?? false, objective: input.objective ?? '' });
+  const created = await createSheet(db, author, project, {
+    title: input.title,
+    safetyRelated: input.safetyRelated ?? false,
+    objective: input.objective ?? '',
+  });
   return { id: created.id, project_id: project.id, number: created.number, title: input.title };
 }
 
@@ -59,7 +73,11 @@ export async function checkAndApprove(
   options: { versionNumber: number; password?: string; verificationMethod?: VerificationMethod },
 ): Promise<string> {
   const password = options.password ?? PASSWORD;
-  const { id } = await submitForCheck(db, people.author, sheet, { versionNumber: options.versionNumber, checkerId: people.checker.userId, password });
+  const { id } = await submitForCheck(db, people.author, sheet, {
+    versionNumber: options.versionNumber,
+    checkerId: people.checker.userId,
+    password,
+  });
   await saveCheckWork(db, people.checker, id, { verificationMethod: options.verificationMethod ?? 'design_review' });
   await decide(db, people.checker, id, { action: 'sign', password });
   await decide(db, people.approver, id, { action: 'approve', password });
@@ -70,9 +88,18 @@ export async function checkAndApprove(
  * The author saves `cells` as a new version on top of the latest one, which then goes through check
  * and approval (checkAndApprove). Returns the new version's number.
  */
-export async function approveNewVersion(db: Kysely<Database>, team: Pick<Team, 'author' | 'checker' | 'approver'>, sheet: SheetRef, input: { message: string; cells: Cell[] }): Promise<number> {
+export async function approveNewVersion(
+  db: Kysely<Database>,
+  team: Pick<Team, 'author' | 'checker' | 'approver'>,
+  sheet: SheetRef,
+  input: { message: string; cells: Cell[] },
+): Promise<number> {
   const latest = (await getVersion(db, sheet.id))!;
-  const saved = await saveVersion(db, team.author, sheet, { parentNumber: latest.number, message: input.message, content: { ...latest.content, cells: input.cells } });
+  const saved = await saveVersion(db, team.author, sheet, {
+    parentNumber: latest.number,
+    message: input.message,
+    content: { ...latest.content, cells: input.cells },
+  });
   await checkAndApprove(db, team, sheet, { versionNumber: saved.number });
   return saved.number;
 }
@@ -84,6 +111,9 @@ export async function approveNewVersion(db: Kysely<Database>, team: Pick<Team, '
 export async function approvedSheet(db: Kysely<Database>): Promise<Team & { projectId: string; sheet: SheetRef }> {
   const team = await makeTeam(db, { code: 'TPT2' });
   const sheet = await makeSheet(db, team.author, { id: team.projectId, code: 'TPT2' }, { title: 'Time of flight' });
-  await approveNewVersion(db, team, sheet, { message: 'flight time', cells: [{ id: 'c1', kind: 'calc', source: 'L = 12.5 m\nt_f = L / speedFromKinetic(150 MeV, m_p) to ns' }] });
+  await approveNewVersion(db, team, sheet, {
+    message: 'flight time',
+    cells: [{ id: 'c1', kind: 'calc', source: 'L = 12.5 m\nt_f = L / speedFromKinetic(150 MeV, m_p) to ns' }],
+  });
   return { ...team, sheet };
 }

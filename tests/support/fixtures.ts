@@ -49,5 +49,11 @@ export async function makeSheetWithVersion(db: Kysely<Database>) {
     })
     .returning(['id', 'content_hash'])
     .executeTakeFirstOrThrow();
-  return { userId: user.id, projectId: project.id, sheetId: sheet.id, versionId: version.id, hash: version.content_hash };
+  return {
+    userId: user.id,
+    projectId: project.id,
+    sheetId: sheet.id,
+    versionId: version.id,
+    hash: version.content_hash,
+  };
 }

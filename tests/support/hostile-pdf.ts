@@ -7,11 +7,14 @@ export function derSequenceOfNulls(count: number): Buffer {
   const content = Buffer.alloc(2 * count);
   for (let i = 0; i < content.length; i += 2) content[i] = 0x05;
   const n = content.length;
-  const length = n < 0x80 ? Buffer.from([n]) : (() => {
-    const bytes: number[] = [];
-    for (let v = n; v > 0; v = Math.floor(v / 256)) bytes.unshift(v % 256);
-    return Buffer.from([0x80 | bytes.length, ...bytes]);
-  })();
+  const length =
+    n < 0x80
+      ? Buffer.from([n])
+      : (() => {
+          const bytes: number[] = [];
+          for (let v = n; v > 0; v = Math.floor(v / 256)) bytes.unshift(v % 256);
+          return Buffer.from([0x80 | bytes.length, ...bytes]);
+        })();
   return Buffer.concat([Buffer.from([0x30]), length, content]);
 }
 
@@ -42,6 +45,15 @@ export function pdfWithSignatureContents(der: Buffer): Buffer {
   tail += `trailer\n<< /Size 6 /Root 1 0 R >>\nstartxref\n${xrefAt}\n%%EOF\n`;
   const total = contentsEnd + tail.length;
   const pad = (n: number) => String(n).padStart(width, '0');
-  text = text.replace(placeholder, `/ByteRange [0 ${pad(contentsStart)} ${pad(contentsEnd)} ${pad(total - contentsEnd)}]`);
-  return Buffer.concat([Buffer.from(text, 'latin1'), Buffer.from('<'), Buffer.from(der.toString('hex'), 'latin1'), Buffer.from('>'), Buffer.from(tail, 'latin1')]);
+  text = text.replace(
+    placeholder,
+    `/ByteRange [0 ${pad(contentsStart)} ${pad(contentsEnd)} ${pad(total - contentsEnd)}]`,
+  );
+  return Buffer.concat([
+    Buffer.from(text, 'latin1'),
+    Buffer.from('<'),
+    Buffer.from(der.toString('hex'), 'latin1'),
+    Buffer.from('>'),
+    Buffer.from(tail, 'latin1'),
+  ]);
 }

@@ -44,7 +44,10 @@ const ERROR_EVENTS = [
   'registration_create.error',
 ];
 
-export async function startIdentityProvider(options: { redirectUri: string; accounts: TestAccount[] }): Promise<IdentityProvider> {
+export async function startIdentityProvider(options: {
+  redirectUri: string;
+  accounts: TestAccount[];
+}): Promise<IdentityProvider> {
   const accounts = new Map(options.accounts.map((a) => [a.login, { ...a, groups: [...a.groups] }]));
   const errors: string[] = [];
 
@@ -116,7 +119,9 @@ export async function startIdentityProvider(options: { redirectUri: string; acco
   for (const event of ERROR_EVENTS) {
     provider.on(event, (...args: unknown[]) => {
       const error = args.find((a) => a instanceof Error) as (Error & { error_description?: string }) | undefined;
-      errors.push(`${event}: ${error ? `${error.message}${error.error_description ? ` (${error.error_description})` : ''}` : 'no detail'}`);
+      errors.push(
+        `${event}: ${error ? `${error.message}${error.error_description ? ` (${error.error_description})` : ''}` : 'no detail'}`,
+      );
     });
   }
   handle = provider.callback();

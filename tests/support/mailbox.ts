@@ -7,7 +7,13 @@
 import { sql, type Kysely } from 'kysely';
 import { inject } from 'vitest';
 import type { Database } from '../../db/schema';
-import { createMailDelivery, MAIL_QUEUE, runMailJobs, bossJobControl, type MailJobResult } from '../../lib/jobs/mail-job';
+import {
+  createMailDelivery,
+  MAIL_QUEUE,
+  runMailJobs,
+  bossJobControl,
+  type MailJobResult,
+} from '../../lib/jobs/mail-job';
 import { jobSender, kyselyJobDb } from '../../lib/jobs/queue';
 import { clearCapturedMessages, listCapturedMessages, type CapturedMessage } from '../../lib/mail/capture-client';
 import { mailFrom } from '../../lib/mail/config';
@@ -80,9 +86,7 @@ export async function waitForMail(
       lastError = error as Error;
     }
     if (Date.now() >= deadline) {
-      const summary = seen.length
-        ? seen.map((m) => `  to ${m.to.join(', ')}: ${m.subject}`).join('\n')
-        : '  (nothing)';
+      const summary = seen.length ? seen.map((m) => `  to ${m.to.join(', ')}: ${m.subject}`).join('\n') : '  (nothing)';
       throw new Error(
         `no mail to ${match.to}${match.subject ? ` with subject ${match.subject}` : ''}${match.kind ? ` of kind ${match.kind}` : ''} within ${timeoutMs} ms; captured:\n${summary}` +
           (lastError ? `\nlast error reading ${captureUrl}: ${lastError.message}` : ''),

@@ -2,7 +2,11 @@
  * Polls `probe` every 100 ms until it gives a truthy value, and returns that value; fails after
  * `timeoutMs` with an error naming `what` was awaited.
  */
-export async function until<T>(what: string, probe: () => Promise<T | null | undefined | false>, timeoutMs: number): Promise<T> {
+export async function until<T>(
+  what: string,
+  probe: () => Promise<T | null | undefined | false>,
+  timeoutMs: number,
+): Promise<T> {
   const deadline = Date.now() + timeoutMs;
   for (;;) {
     const value = await probe();

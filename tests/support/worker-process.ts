@@ -17,7 +17,13 @@ const children: ChildProcess[] = [];
 export function startWorker(env: Record<string, string> = {}): WorkerProcess {
   const child = spawn(process.execPath, ['--import', 'tsx', path.join('lib', 'jobs', 'worker-main.ts')], {
     cwd: process.cwd(),
-    env: { ...process.env, DATABASE_URL: inject('databaseUrl'), WORLDSHEET_SMTP_URL: inject('smtpUrl'), WORLDSHEET_JOB_POLL_SECONDS: '0.5', ...env },
+    env: {
+      ...process.env,
+      DATABASE_URL: inject('databaseUrl'),
+      WORLDSHEET_SMTP_URL: inject('smtpUrl'),
+      WORLDSHEET_JOB_POLL_SECONDS: '0.5',
+      ...env,
+    },
     stdio: ['ignore', 'pipe', 'pipe'],
   });
   children.push(child);

@@ -16,7 +16,9 @@ import { SERIES_COLORS } from '../../lib/plots/plot-figure';
 /** WCAG 2.2 contrast ratio of two sRGB colours (glossary: "relative luminance", "contrast ratio"). */
 function contrast(a: string, b: string): number {
   const lum = (hex: string) => {
-    const [r, g, bl] = [1, 3, 5].map((i) => parseInt(hex.slice(i, i + 2), 16) / 255).map((c) => (c <= 0.04045 ? c / 12.92 : ((c + 0.055) / 1.055) ** 2.4));
+    const [r, g, bl] = [1, 3, 5]
+      .map((i) => parseInt(hex.slice(i, i + 2), 16) / 255)
+      .map((c) => (c <= 0.04045 ? c / 12.92 : ((c + 0.055) / 1.055) ** 2.4));
     return 0.2126 * r + 0.7152 * g + 0.0722 * bl;
   };
   const [hi, lo] = [lum(a), lum(b)].sort((x, y) => y - x);
@@ -41,7 +43,15 @@ const plot: PlotData = {
   kind: 'curve',
   x: { label: 'T_kin', unit: 'MeV' },
   y: { label: 'Brho', unit: 'T m' },
-  series: [{ name: 'protons', points: [[70, 1.2296], [250, 2.4297]] }],
+  series: [
+    {
+      name: 'protons',
+      points: [
+        [70, 1.2296],
+        [250, 2.4297],
+      ],
+    },
+  ],
 };
 
 const uncertainty: UncertaintyResult = {
@@ -52,13 +62,34 @@ const uncertainty: UncertaintyResult = {
   unit: 'T m',
   text: '2.4297 ± 0.0012 T·m (k = 2)',
   tex: '',
-  budget: [{ name: 'T_u', valueText: '250 MeV', uText: '0.5 MeV', sensitivity: 0.00122, sensitivityText: '0.001 22 T·m/MeV', contribution: 0.00061, contributionText: '0.000 61 T·m', share: 1 }],
+  budget: [
+    {
+      name: 'T_u',
+      valueText: '250 MeV',
+      uText: '0.5 MeV',
+      sensitivity: 0.00122,
+      sensitivityText: '0.001 22 T·m/MeV',
+      contribution: 0.00061,
+      contributionText: '0.000 61 T·m',
+      share: 1,
+    },
+  ],
   nonLinear: false,
   monteCarlo: null,
   warning: 'the Monte Carlo interval and the first-order one disagree',
 };
 
-const base: StatementResult = { line: 3, source: 'x', kind: 'definition', name: 'Brho_u', tex: 'B', substitutedTex: null, value: { kind: 'quantity', text: '2.429 68 T·m', tex: '', number: 2.42968, unit: 'T m', raw: null }, criterion: null, error: null };
+const base: StatementResult = {
+  line: 3,
+  source: 'x',
+  kind: 'definition',
+  name: 'Brho_u',
+  tex: 'B',
+  substitutedTex: null,
+  value: { kind: 'quantity', text: '2.429 68 T·m', tex: '', number: 2.42968, unit: 'T m', raw: null },
+  criterion: null,
+  error: null,
+};
 
 function dom(html: string): Document {
   return new DOMParser().parseFromString(`<!DOCTYPE html><body>${html}</body>`, 'text/html');
@@ -73,19 +104,35 @@ describe('a statement with a sweep, a plot, an uncertainty and a citation', () =
           uncertainty,
           table,
           plot,
-          references: [{ sheet: 'TPT2-CALC-0003', revision: 'B', name: 'Brho', value: null, error: null, status: 'withdrawn', supersededBy: null, title: 'Rigidity', versionSha256: null }],
+          references: [
+            {
+              sheet: 'TPT2-CALC-0003',
+              revision: 'B',
+              name: 'Brho',
+              value: null,
+              error: null,
+              status: 'withdrawn',
+              supersededBy: null,
+              title: 'Rigidity',
+              versionSha256: null,
+            },
+          ],
         },
         significantFigures: 4,
       }),
     ),
   );
 
-  it('shows the sweep as a real table with a caption, column headers with units, and the failed step\'s error', () => {
-    const t = [...page.querySelectorAll('table')].find((x) => x.querySelector('caption')?.textContent?.startsWith('Sweep'))!;
+  it("shows the sweep as a real table with a caption, column headers with units, and the failed step's error", () => {
+    const t = [...page.querySelectorAll('table')].find((x) =>
+      x.querySelector('caption')?.textContent?.startsWith('Sweep'),
+    )!;
     expect(t.querySelector('caption')!.textContent).toBe('Sweep, line 3: 3 steps, 1 failed');
     const headers = [...t.querySelectorAll('thead th[scope="col"]')].map((th) => th.textContent);
     expect(headers).toEqual(['T_kinMeV', 'BrhoT·m']);
-    const rows = [...t.querySelectorAll('tbody tr')].map((tr) => [...tr.querySelectorAll('td')].map((td) => td.textContent));
+    const rows = [...t.querySelectorAll('tbody tr')].map((tr) =>
+      [...tr.querySelectorAll('td')].map((td) => td.textContent),
+    );
     // Four significant figures, as the sheet asks, trailing zeros kept (lib/calc/format.ts; common practice).
     expect(rows[0]).toEqual(['70', '1.230']);
     expect(rows[1]).toEqual(['−10', 'Step failed: the kinetic energy must not be negative']);
@@ -103,21 +150,38 @@ describe('a statement with a sweep, a plot, an uncertainty and a citation', () =
     expect(page.body.textContent).toContain('2.4297 ± 0.0012 T·m (k = 2)');
     const status = page.querySelector('[role="status"]')!;
     expect(status.textContent).toBe('Caution: the Monte Carlo interval and the first-order one disagree');
-    const budget = [...page.querySelectorAll('details')].find((d) => d.querySelector('summary')!.textContent!.startsWith('Uncertainty budget'))!;
-    expect([...budget.querySelectorAll('thead th')].map((th) => th.textContent)).toEqual(['Input', 'Value', 'Standard uncertainty', 'Sensitivity coefficient', 'Contribution', 'Share']);
-    expect([...budget.querySelectorAll('tbody tr')][0].textContent).toBe('T_u250 MeV0.5 MeV0.001 22 T·m/MeV0.000 61 T·m100.0 %');
+    const budget = [...page.querySelectorAll('details')].find((d) =>
+      d.querySelector('summary')!.textContent!.startsWith('Uncertainty budget'),
+    )!;
+    expect([...budget.querySelectorAll('thead th')].map((th) => th.textContent)).toEqual([
+      'Input',
+      'Value',
+      'Standard uncertainty',
+      'Sensitivity coefficient',
+      'Contribution',
+      'Share',
+    ]);
+    expect([...budget.querySelectorAll('tbody tr')][0].textContent).toBe(
+      'T_u250 MeV0.5 MeV0.001 22 T·m/MeV0.000 61 T·m100.0 %',
+    );
     expect(budget.textContent).toContain('combined standard uncertainty u_c = 6.1 × 10⁻⁴ T·m');
   });
 
   it('names the cited revision, with its status in words', () => {
-    const item = [...page.querySelectorAll('li')].find((li) => li.textContent?.includes('from TPT2-CALC-0003 rev. B, Brho'))!;
+    const item = [...page.querySelectorAll('li')].find((li) =>
+      li.textContent?.includes('from TPT2-CALC-0003 rev. B, Brho'),
+    )!;
     expect(item.textContent).toBe('from TPT2-CALC-0003 rev. B, Brhowithdrawn');
   });
 
   it('gives the plot a caption and its points in a table behind "Show data"', () => {
     const figure = page.querySelector('figure')!;
-    expect(figure.querySelector('figcaption')!.textContent).toBe('Figure, line 3: Plot of Brho (T·m) against T_kin (MeV): 1 series (protons).');
-    const data = [...figure.querySelectorAll('details')].find((d) => d.querySelector('summary')!.textContent === 'Show data')!;
+    expect(figure.querySelector('figcaption')!.textContent).toBe(
+      'Figure, line 3: Plot of Brho (T·m) against T_kin (MeV): 1 series (protons).',
+    );
+    const data = [...figure.querySelectorAll('details')].find(
+      (d) => d.querySelector('summary')!.textContent === 'Show data',
+    )!;
     expect([...data.querySelectorAll('th')].map((th) => th.textContent)).toEqual(['T_kin (MeV)', 'Brho (T·m)']);
     expect([...data.querySelectorAll('tbody tr')].map((tr) => tr.textContent)).toEqual(['701.230', '2502.430']);
   });

@@ -18,7 +18,9 @@ function dom(html: string): Document {
 
 // A real engine result (issue 15: `h` here is the hour; common practice).
 const engine = createSheetEngine();
-const result = engine.evaluate([{ id: 'c1', kind: 'calc', source: 'x_1 = 2\nE_ph = h * c / (500 nm)' }], { significantFigures: 6 }).cells[0];
+const result = engine.evaluate([{ id: 'c1', kind: 'calc', source: 'x_1 = 2\nE_ph = h * c / (500 nm)' }], {
+  significantFigures: 6,
+}).cells[0];
 const statement = result.statements[1];
 
 describe('a statement with a warning', () => {
@@ -28,7 +30,9 @@ describe('a statement with a warning', () => {
     const list = page.querySelector('ul[aria-label="Warnings, line 2"]')!;
     expect(list).not.toBeNull();
     const items = [...list.querySelectorAll('li')];
-    expect(items.map((li) => li.textContent)).toEqual(['Warning, line 2: `h` here is the hour (a unit of time); the Planck constant is `h_P`'.replace(/`/g, '')]);
+    expect(items.map((li) => li.textContent)).toEqual([
+      'Warning, line 2: `h` here is the hour (a unit of time); the Planck constant is `h_P`'.replace(/`/g, ''),
+    ]);
     expect([...items[0].querySelectorAll('code')].map((c) => c.textContent)).toEqual(['h', 'h_P']);
     // The caution colours, not the error's: an error is an alert, a warning is not.
     expect(items[0].className).toContain('text-caution');
@@ -52,7 +56,16 @@ describe('a cell under check', () => {
     dom(
       renderToStaticMarkup(
         createElement(CheckCell, {
-          cell: { id: 'c1', kind: 'calc', status: 'unchanged', moved: false, baseKind: 'calc', baseIndex: 0, targetIndex: 0, sourceDiff: null } satisfies CellComparison,
+          cell: {
+            id: 'c1',
+            kind: 'calc',
+            status: 'unchanged',
+            moved: false,
+            baseKind: 'calc',
+            baseIndex: 0,
+            targetIndex: 0,
+            sourceDiff: null,
+          } satisfies CellComparison,
           label: 'Cell 1',
           source: 'x_1 = 2\nE_ph = h * c / (500 nm)',
           result: r,

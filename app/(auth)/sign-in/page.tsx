@@ -19,7 +19,11 @@ const SIGN_IN_ERRORS: Record<string, string> = {
 
 const DEMO = ['originator', 'checker', 'approver', 'controller', 'viewer', 'admin'];
 
-export default async function SignInPage({ searchParams }: { searchParams: Promise<Record<string, string | string[] | undefined>> }) {
+export default async function SignInPage({
+  searchParams,
+}: {
+  searchParams: Promise<Record<string, string | string[] | undefined>>;
+}) {
   const raw = await searchParams;
   // A parameter given twice arrives as an array: only a single value counts.
   const query = Object.fromEntries(Object.entries(raw).map(([k, v]) => [k, typeof v === 'string' ? v : undefined]));
@@ -27,7 +31,11 @@ export default async function SignInPage({ searchParams }: { searchParams: Promi
   const callbackUrl = safeSameOriginPath(query.callbackUrl, appUrl(), '/projects');
   const demo = process.env.WORLDSHEET_DEMO === '1';
   // Only fixed messages, chosen by code: text from the address bar is never shown as a message.
-  const error = query.error ? (Object.hasOwn(SIGN_IN_ERRORS, query.error) ? SIGN_IN_ERRORS[query.error] : 'Sign-in failed. Try again, or ask an administrator.') : null;
+  const error = query.error
+    ? Object.hasOwn(SIGN_IN_ERRORS, query.error)
+      ? SIGN_IN_ERRORS[query.error]
+      : 'Sign-in failed. Try again, or ask an administrator.'
+    : null;
   return (
     <div className="mx-auto grid max-w-sheet gap-10 py-6 md:grid-cols-2">
       <section aria-labelledby="sign-in-title" className="max-w-md">
@@ -36,7 +44,11 @@ export default async function SignInPage({ searchParams }: { searchParams: Promi
         </h1>
         <p className="mt-2 text-ink-muted">Your account is given by an administrator of your organisation.</p>
         <div className="mt-6">
-          <SignInForm callbackUrl={callbackUrl} initialError={error} oidcName={oidcConfigured() ? (process.env.WORLDSHEET_OIDC_NAME ?? 'Organisation account') : null} />
+          <SignInForm
+            callbackUrl={callbackUrl}
+            initialError={error}
+            oidcName={oidcConfigured() ? (process.env.WORLDSHEET_OIDC_NAME ?? 'Organisation account') : null}
+          />
         </div>
       </section>
       {demo ? (

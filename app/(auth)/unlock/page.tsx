@@ -5,7 +5,11 @@ export const metadata: Metadata = { title: 'Unlock your account' };
 export const dynamic = 'force-dynamic';
 
 /** The page of the unlock link e-mailed when failed passwords lock an account. A button, not the visit, unlocks: mail scanners open links. */
-export default async function UnlockPage({ searchParams }: { searchParams: Promise<Record<string, string | undefined>> }) {
+export default async function UnlockPage({
+  searchParams,
+}: {
+  searchParams: Promise<Record<string, string | undefined>>;
+}) {
   const { token } = await searchParams;
   return (
     <section className="mx-auto max-w-md py-10">
@@ -13,8 +17,8 @@ export default async function UnlockPage({ searchParams }: { searchParams: Promi
       {token ? (
         <>
           <p className="mt-2 text-ink-muted">
-            Your account was locked after several wrong passwords. The link works once. If the wrong passwords were not yours, change your password after
-            signing in and tell an administrator.
+            Your account was locked after several wrong passwords. The link works once. If the wrong passwords were not
+            yours, change your password after signing in and tell an administrator.
           </p>
           <div className="mt-6">
             <UnlockForm token={token} />

@@ -24,9 +24,17 @@ export async function POST(request: Request): Promise<Response> {
     } catch {
       throw new AppError('bad_request', 'The report is not valid JSON.');
     }
-    const outcome = await recordCspReports(getDb(), { ip: clientAddress(request.headers), violations: parseCspReports(body) });
+    const outcome = await recordCspReports(getDb(), {
+      ip: clientAddress(request.headers),
+      violations: parseCspReports(body),
+    });
     if (outcome.limited) {
-      throw new AppError('too_many_requests', 'Too many reports from this address just now; the rest were dropped.', { stored: outcome.stored }, outcome.retryAfterSeconds);
+      throw new AppError(
+        'too_many_requests',
+        'Too many reports from this address just now; the rest were dropped.',
+        { stored: outcome.stored },
+        outcome.retryAfterSeconds,
+      );
     }
     return new Response(null, { status: 204 });
   } catch (error) {

@@ -20,10 +20,15 @@ export function POST(request: Request): Promise<Response> {
     const parsed = evaluateRequestSchema.safeParse(body);
     if (!parsed.success) {
       const issue = parsed.error.issues[0];
-      throw new AppError('bad_request', `${issue.path.join('.') || 'body'}: ${issue.message}`, parsed.error.issues.slice(0, 10));
+      throw new AppError(
+        'bad_request',
+        `${issue.path.join('.') || 'body'}: ${issue.message}`,
+        parsed.error.issues.slice(0, 10),
+      );
     }
     const { cells, significantFigures, displayUnits, sheetKey, sheetId, attachments } = parsed.data;
-    if (attachments.length > 0 && !sheetId) throw new AppError('bad_request', 'sheetId: say which sheet the attachments belong to');
+    if (attachments.length > 0 && !sheetId)
+      throw new AppError('bad_request', 'sheetId: say which sheet the attachments belong to');
     const cited = findReferences(cells);
     // The sheet, and the caller's membership of its project: its attachments and citations, and the
     // cache scope (results are shared within a project only, never across).
@@ -32,14 +37,21 @@ export function POST(request: Request): Promise<Response> {
     if (sheet && attachments.length > 0) tables = await resolveAttachments(getDb(), sheet.id, attachments);
     // Citations of issued revisions resolve within the sheet's project; without a sheet, to an error.
     let references: ResolvedReference[] = [];
-    if (cited.length > 0) references = sheet ? await resolveReferences(getDb(), sheet.project_id, cited, { excludeSheetId: sheet.id }) : unresolvedReferences(cited);
+    if (cited.length > 0)
+      references = sheet
+        ? await resolveReferences(getDb(), sheet.project_id, cited, { excludeSheetId: sheet.id })
+        : unresolvedReferences(cited);
     // Interactive: counts against the caller's share of the workers (429 with Retry-After beyond it).
-    const result = await evaluateSandboxed(cells, { significantFigures, displayUnits, tables, references }, {
-      userId: actor.userId,
-      kind: 'interactive',
-      scope: evaluationScope(sheet ? { projectId: sheet.project_id } : { userId: actor.userId }),
-      affinity: sheetKey,
-    });
+    const result = await evaluateSandboxed(
+      cells,
+      { significantFigures, displayUnits, tables, references },
+      {
+        userId: actor.userId,
+        kind: 'interactive',
+        scope: evaluationScope(sheet ? { projectId: sheet.project_id } : { userId: actor.userId }),
+        affinity: sheetKey,
+      },
+    );
     return Response.json(result);
   });
 }

@@ -16,7 +16,10 @@ export function GET(request: Request): Promise<Response> {
     const answer = await softwareImpact(getDb(), actor, q);
     if (q.format === 'csv') {
       return new Response(softwareImpactCsv(answer.rows ?? []), {
-        headers: { 'content-type': 'text/csv; charset=utf-8', 'content-disposition': 'attachment; filename="software-impact.csv"' },
+        headers: {
+          'content-type': 'text/csv; charset=utf-8',
+          'content-disposition': 'attachment; filename="software-impact.csv"',
+        },
       });
     }
     return Response.json(answer);

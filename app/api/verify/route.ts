@@ -16,18 +16,30 @@ export const dynamic = 'force-dynamic';
  * address may verify a limited number of times a minute (429 with Retry-After).
  */
 export function POST(request: Request): Promise<Response> {
-  return handle(request, async () => {
-    // Counted before the body is read: a refused client costs one small database statement.
-    await countVerification(getDb(), clientAddress(request.headers));
-    const type = request.headers.get('content-type') ?? '';
-    if (/^multipart\/form-data/i.test(type)) {
-      const file = await readFormFile(request, 'file', MAX_VERIFY_BYTES, `The file is larger than ${MAX_VERIFY_BYTES / (1024 * 1024)} MiB; no issued revision is that large.`);
-      return Response.json(await verifyPdfFile(getDb(), file.bytes));
-    }
-    if (/^application\/json/i.test(type)) {
-      const { code } = await parseJson(request, verifyCodeSchema);
-      return Response.json(await verifyCode(getDb(), code));
-    }
-    throw new AppError('bad_request', 'Send a PDF as multipart/form-data (field "file") or a verification code as JSON {"code": "…"}.');
-  }, { multipart: true });
+  return handle(
+    request,
+    async () => {
+      // Counted before the body is read: a refused client costs one small database statement.
+      await countVerification(getDb(), clientAddress(request.headers));
+      const type = request.headers.get('content-type') ?? '';
+      if (/^multipart\/form-data/i.test(type)) {
+        const file = await readFormFile(
+          request,
+          'file',
+          MAX_VERIFY_BYTES,
+          `The file is larger than ${MAX_VERIFY_BYTES / (1024 * 1024)} MiB; no issued revision is that large.`,
+        );
+        return Response.json(await verifyPdfFile(getDb(), file.bytes));
+      }
+      if (/^application\/json/i.test(type)) {
+        const { code } = await parseJson(request, verifyCodeSchema);
+        return Response.json(await verifyCode(getDb(), code));
+      }
+      throw new AppError(
+        'bad_request',
+        'Send a PDF as multipart/form-data (field "file") or a verification code as JSON {"code": "…"}.',
+      );
+    },
+    { multipart: true },
+  );
 }

@@ -16,7 +16,13 @@ import { CautionNotice, SafetyRelatedNotice } from '@/components/shell/caution-n
 import { getDb } from '@/db';
 import { pageParams } from '@/lib/http/params';
 import { pageActor } from '@/lib/auth/page-guard';
-import { getCheckDetail, MEANING_LABELS, VERIFICATION_LABELS, VERIFICATION_METHODS, type CheckDetail } from '@/lib/checks/workflow';
+import {
+  getCheckDetail,
+  MEANING_LABELS,
+  VERIFICATION_LABELS,
+  VERIFICATION_METHODS,
+  type CheckDetail,
+} from '@/lib/checks/workflow';
 import { AppError } from '@/lib/errors/app-error';
 import type { CellComparison } from '@/lib/sheets/compare';
 import { VisibleText } from '@/components/data/visible-text';
@@ -28,9 +34,13 @@ export const dynamic = 'force-dynamic';
 function standing(check: CheckDetail): string {
   switch (check.state) {
     case 'in_check':
-      return check.you.isChecker ? `You are the checker of version ${check.version.number}.` : `Waiting for ${check.checker.name}\u2019s check.`;
+      return check.you.isChecker
+        ? `You are the checker of version ${check.version.number}.`
+        : `Waiting for ${check.checker.name}\u2019s check.`;
     case 'checked':
-      return check.you.actions.includes('approve') ? 'Checked; it awaits your approval.' : 'Checked; it awaits approval.';
+      return check.you.actions.includes('approve')
+        ? 'Checked; it awaits your approval.'
+        : 'Checked; it awaits approval.';
     case 'approved':
       return `Version ${check.version.number} is approved.`;
     case 'returned':
@@ -55,7 +65,13 @@ export default async function CheckPage({ params }: { params: Promise<{ checkId:
   // A re-check after a return: what changed since the returned version comes first.
   const sr = check.sinceReturn?.comparison ?? null;
   const sinceReturn = check.sinceReturn
-    ? { comparisonBase: check.sinceReturn.versionNumber, byYou: check.sinceReturn.returnedById === actor.userId, by: check.sinceReturn.returnedBy ?? (check.sinceReturn.state === 'approval_returned' ? 'the approver' : 'the checker') }
+    ? {
+        comparisonBase: check.sinceReturn.versionNumber,
+        byYou: check.sinceReturn.returnedById === actor.userId,
+        by:
+          check.sinceReturn.returnedBy ??
+          (check.sinceReturn.state === 'approval_returned' ? 'the approver' : 'the checker'),
+      }
     : null;
   const first = comparison.firstCheck;
   const changed = comparison.cells.filter((c) => c.status !== 'unchanged');
@@ -69,7 +85,9 @@ export default async function CheckPage({ params }: { params: Promise<{ checkId:
 
   const renderCell = (cell: CellComparison) => {
     const removed = cell.status === 'removed';
-    const source = removed ? (base?.content.cells[cell.baseIndex!]?.source ?? '') : (version.content.cells[cell.targetIndex!]?.source ?? '');
+    const source = removed
+      ? (base?.content.cells[cell.baseIndex!]?.source ?? '')
+      : (version.content.cells[cell.targetIndex!]?.source ?? '');
     const label = removed ? `Removed cell (was cell ${cell.baseIndex! + 1})` : `Cell ${cell.targetIndex! + 1}`;
     const lines =
       cell.kind === 'calc'
@@ -129,9 +147,7 @@ export default async function CheckPage({ params }: { params: Promise<{ checkId:
               {first ? '; no version is approved yet' : `, and against version ${base!.number}, the last approved one`}
             </>
           ) : first ? (
-            <>
-              Version {version.number}, first check: the whole sheet
-            </>
+            <>Version {version.number}, first check: the whole sheet</>
           ) : (
             <>
               Version {version.number} against version {base!.number}, the last approved one
@@ -166,32 +182,56 @@ export default async function CheckPage({ params }: { params: Promise<{ checkId:
       <CautionNotice compact />
       {check.returnReason ? (
         <p role="note" className="rounded border-l-4 border-caution-rule bg-caution-soft px-4 py-3 text-sm text-ink">
-          <span className="font-bold">{check.state === 'approval_returned' ? 'Returned by the approver' : 'Returned with comments'}:</span> {check.returnReason}
+          <span className="font-bold">
+            {check.state === 'approval_returned' ? 'Returned by the approver' : 'Returned with comments'}:
+          </span>{' '}
+          {check.returnReason}
         </p>
       ) : null}
-      <SubmissionAcknowledgements acknowledgements={check.acknowledgements} designInputs={check.designInputs} submittedBy={check.submittedBy} />
+      <SubmissionAcknowledgements
+        acknowledgements={check.acknowledgements}
+        designInputs={check.designInputs}
+        submittedBy={check.submittedBy}
+      />
 
       <div className="grid gap-8 lg:grid-cols-[minmax(0,1fr)_20rem]">
         <div className="min-w-0 space-y-8">
           {sinceReturn ? (
-            <section aria-labelledby="since-return-title" className="space-y-3 rounded border-2 border-accent bg-surface p-4">
+            <section
+              aria-labelledby="since-return-title"
+              className="space-y-3 rounded border-2 border-accent bg-surface p-4"
+            >
               <h2 id="since-return-title" className="text-lg font-bold">
-                Changes since version {sinceReturn.comparisonBase}, the version {sinceReturn.byYou ? 'you returned' : `${sinceReturn.by} returned`}
+                Changes since version {sinceReturn.comparisonBase}, the version{' '}
+                {sinceReturn.byYou ? 'you returned' : `${sinceReturn.by} returned`}
               </h2>
               <p className="text-sm text-ink-muted">
-                {sr!.summary.cells.added} added, {sr!.summary.cells.removed} removed, {sr!.summary.cells.changed} changed, {sr!.summary.cells.moved} moved, {sr!.summary.cells.unchanged} unchanged. Results changed:{' '}
+                {sr!.summary.cells.added} added, {sr!.summary.cells.removed} removed, {sr!.summary.cells.changed}{' '}
+                changed, {sr!.summary.cells.moved} moved, {sr!.summary.cells.unchanged} unchanged. Results changed:{' '}
                 {sr!.summary.results.changed}; criteria that flipped: {sr!.summary.criteriaFlipped}.{' '}
-                <Link href={`${sheetHref}/compare?base=${sinceReturn.comparisonBase}&target=${version.number}`} className="text-accent underline">
+                <Link
+                  href={`${sheetHref}/compare?base=${sinceReturn.comparisonBase}&target=${version.number}`}
+                  className="text-accent underline"
+                >
                   Open this comparison
                 </Link>
               </p>
-              {sr!.cells.filter((c) => c.status !== 'unchanged').length === 0 ? <p className="text-ink-muted">No cell changed since version {sinceReturn.comparisonBase}.</p> : null}
+              {sr!.cells.filter((c) => c.status !== 'unchanged').length === 0 ? (
+                <p className="text-ink-muted">No cell changed since version {sinceReturn.comparisonBase}.</p>
+              ) : null}
               {sr!.cells
                 .filter((c) => c.status !== 'unchanged')
                 .map((cell) => (
-                  <article key={cell.id} aria-label={`Cell ${cell.id}, ${cell.status} since version ${sinceReturn.comparisonBase}`} className="rounded border border-rule bg-paper p-3">
+                  <article
+                    key={cell.id}
+                    aria-label={`Cell ${cell.id}, ${cell.status} since version ${sinceReturn.comparisonBase}`}
+                    className="rounded border border-rule bg-paper p-3"
+                  >
                     <p className="text-xs font-semibold text-ink-muted">
-                      {cell.targetIndex !== null ? `Cell ${cell.targetIndex + 1}` : `Removed cell (was cell ${cell.baseIndex! + 1})`} · {cell.status}
+                      {cell.targetIndex !== null
+                        ? `Cell ${cell.targetIndex + 1}`
+                        : `Removed cell (was cell ${cell.baseIndex! + 1})`}{' '}
+                      · {cell.status}
                       {cell.moved ? ' · moved' : ''}
                     </p>
                     {cell.sourceDiff ? <SourceDiff pieces={cell.sourceDiff} /> : null}
@@ -206,13 +246,16 @@ export default async function CheckPage({ params }: { params: Promise<{ checkId:
                         <span className="font-mono">
                           <VisibleText text={r.name} />
                         </span>
-                        : {r.old?.error ? `error: ${r.old.error}` : (r.old?.text ?? '—')} → {r.new?.error ? `error: ${r.new.error}` : (r.new?.text ?? '—')}
+                        : {r.old?.error ? `error: ${r.old.error}` : (r.old?.text ?? '—')} →{' '}
+                        {r.new?.error ? `error: ${r.new.error}` : (r.new?.text ?? '—')}
                         {r.flipped ? ' (pass/fail flipped)' : ''}
                       </li>
                     ))}
                 </ul>
               ) : null}
-              <h3 className="font-bold">Calculation record and attachments since version {sinceReturn.comparisonBase}</h3>
+              <h3 className="font-bold">
+                Calculation record and attachments since version {sinceReturn.comparisonBase}
+              </h3>
               <RecordChanges record={sr!.record} first={false} />
             </section>
           ) : null}
@@ -226,14 +269,20 @@ export default async function CheckPage({ params }: { params: Promise<{ checkId:
             </h2>
             {!first ? (
               <p className="text-sm text-ink-muted">
-                {s.cells.added} added, {s.cells.removed} removed, {s.cells.changed} changed, {s.cells.moved} moved, {s.cells.unchanged} unchanged. Results changed: {s.results.changed}; criteria that flipped:{' '}
+                {s.cells.added} added, {s.cells.removed} removed, {s.cells.changed} changed, {s.cells.moved} moved,{' '}
+                {s.cells.unchanged} unchanged. Results changed: {s.results.changed}; criteria that flipped:{' '}
                 {s.criteriaFlipped}.
               </p>
             ) : null}
-            {changed.length === 0 ? <p className="text-ink-muted">No cell changed since version {base?.number}.</p> : null}
+            {changed.length === 0 ? (
+              <p className="text-ink-muted">No cell changed since version {base?.number}.</p>
+            ) : null}
             {changed.map(renderCell)}
             {unchanged.length ? (
-              <details open={unchanged.some((c) => check.threads.some((t) => t.cellId === c.id && !t.resolvedAt)) || undefined} className="rounded border border-rule bg-paper px-3 py-2">
+              <details
+                open={unchanged.some((c) => check.threads.some((t) => t.cellId === c.id && !t.resolvedAt)) || undefined}
+                className="rounded border border-rule bg-paper px-3 py-2"
+              >
                 <summary className="cursor-pointer text-sm font-semibold">
                   {unchanged.length} unchanged cell{unchanged.length === 1 ? '' : 's'}
                 </summary>
@@ -312,15 +361,29 @@ export default async function CheckPage({ params }: { params: Promise<{ checkId:
               </p>
             ) : null}
             {check.state !== 'in_check' || you.isChecker ? (
-              <EvidenceSummary method={check.verificationMethod ? VERIFICATION_LABELS[check.verificationMethod] : null} comparison={check.alternateComparison} carriedOver={check.carriedOver} />
+              <EvidenceSummary
+                method={check.verificationMethod ? VERIFICATION_LABELS[check.verificationMethod] : null}
+                comparison={check.alternateComparison}
+                carriedOver={check.carriedOver}
+              />
             ) : null}
-            <DecisionPanel checkId={check.id} actions={you.actions} versionNumber={version.number} sha256={version.sha256} openThreads={openThreads} methodRecorded={check.verificationMethod !== null} />
+            <DecisionPanel
+              checkId={check.id}
+              actions={you.actions}
+              versionNumber={version.number}
+              sha256={version.sha256}
+              openThreads={openThreads}
+              methodRecorded={check.verificationMethod !== null}
+            />
           </section>
           <section aria-labelledby="signatures-title" className="space-y-2 rounded border border-rule bg-surface p-4">
             <h2 id="signatures-title" className="text-lg font-bold">
               Signatures of version {version.number}
             </h2>
-            <SignatureList signatures={check.signatures.map((x) => ({ ...x, meaningLabel: MEANING_LABELS[x.meaning] }))} label={`Signatures of version ${version.number}`} />
+            <SignatureList
+              signatures={check.signatures.map((x) => ({ ...x, meaningLabel: MEANING_LABELS[x.meaning] }))}
+              label={`Signatures of version ${version.number}`}
+            />
           </section>
         </aside>
       </div>

@@ -30,7 +30,8 @@ export default async function ProjectPage({ params }: { params: Promise<{ projec
         <p className="font-mono text-sm text-ink-muted">{project.code}</p>
         <h1 className="text-2xl font-bold">{project.name}</h1>
         <p className="mt-1 text-ink-muted">
-          Legal owner: {project.legal_owner}. Revisions numbered {project.revision_scheme === 'letters' ? 'A, B, C … (skipping I, O, Q, S, X, Z)' : '0, 1, 2 …'}. Your roles:{' '}
+          Legal owner: {project.legal_owner}. Revisions numbered{' '}
+          {project.revision_scheme === 'letters' ? 'A, B, C … (skipping I, O, Q, S, X, Z)' : '0, 1, 2 …'}. Your roles:{' '}
           {roles.map((r) => ROLE_LABELS[r]).join(', ')}.
         </p>
         <p className="mt-2 flex flex-wrap gap-4">
@@ -52,7 +53,9 @@ export default async function ProjectPage({ params }: { params: Promise<{ projec
           rows={sheets.map((r) => ({
             ...r,
             updatedAt: r.updatedAt.toISOString(),
-            supersededInputs: (stale.get(r.id) ?? []).map((c) => `${c.sheet} rev ${c.revision} (${c.currentRevision ? `now ${c.currentRevision}` : c.status})`),
+            supersededInputs: (stale.get(r.id) ?? []).map(
+              (c) => `${c.sheet} rev ${c.revision} (${c.currentRevision ? `now ${c.currentRevision}` : c.status})`,
+            ),
           }))}
           projectCode={project.code}
         />
@@ -79,9 +82,15 @@ export default async function ProjectPage({ params }: { params: Promise<{ projec
           <caption className="sr-only">Members of {project.code} and their roles</caption>
           <thead>
             <tr className="border-b border-rule-strong text-left">
-              <th scope="col" className="py-2 pr-4">Name</th>
-              <th scope="col" className="py-2 pr-4">E-mail</th>
-              <th scope="col" className="py-2">Roles</th>
+              <th scope="col" className="py-2 pr-4">
+                Name
+              </th>
+              <th scope="col" className="py-2 pr-4">
+                E-mail
+              </th>
+              <th scope="col" className="py-2">
+                Roles
+              </th>
             </tr>
           </thead>
           <tbody>

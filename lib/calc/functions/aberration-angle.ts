@@ -35,7 +35,11 @@ const PI_ALLOWANCE = 4 * 2 ** -51;
 export const aberrationAngle: CalcFunction = {
   name: FN,
   params: [
-    { name: 'theta', kind: 'angle', description: 'angle between the ray’s propagation direction and the direction of v, in S' },
+    {
+      name: 'theta',
+      kind: 'angle',
+      description: 'angle between the ray’s propagation direction and the direction of v, in S',
+    },
     { name: 'v', kind: 'speed', description: 'speed of frame S′ relative to S along +x (a velocity, or β)' },
   ],
   returns: 'angle',
@@ -43,7 +47,7 @@ export const aberrationAngle: CalcFunction = {
     summary:
       'Aberration of light: the angle θ′ in a frame moving at v along +x of a ray whose propagation direction makes the angle θ with +x in the rest frame.',
     formula:
-      '\\tan\\frac{\\theta\'}{2} = \\sqrt{\\frac{1+\\beta}{1-\\beta}}\\,\\tan\\frac{\\theta}{2} \\quad\\left(\\cos\\theta\' = \\frac{\\cos\\theta - \\beta}{1 - \\beta\\cos\\theta}\\right)',
+      "\\tan\\frac{\\theta'}{2} = \\sqrt{\\frac{1+\\beta}{1-\\beta}}\\,\\tan\\frac{\\theta}{2} \\quad\\left(\\cos\\theta' = \\frac{\\cos\\theta - \\beta}{1 - \\beta\\cos\\theta}\\right)",
     domain:
       'θ is the angle of the ray’s direction of propagation (not the direction towards the source) from +x, the direction of v; −π ≤ θ ≤ π (signed angles give signed results; a few ulp beyond ±π are read as ±π). |β| < 1. NaN and ±Infinity are refused. A ray at 90° in S appears at cos θ′ = −β in S′; for the apparent direction of a source use −v.',
     example: 'aberrationAngle(90 deg, 0.6) to deg',

@@ -1,6 +1,15 @@
 import { requireFinite } from './support/domain';
 import { add, type DD, div, mul, round, sub } from './support/double-double';
-import { absDD, betaOf, isPrecise, massiveResult, ONE, oneMinusAbsBeta, preciseFromBeta, speedValue } from './support/kinematics';
+import {
+  absDD,
+  betaOf,
+  isPrecise,
+  massiveResult,
+  ONE,
+  oneMinusAbsBeta,
+  preciseFromBeta,
+  speedValue,
+} from './support/kinematics';
 import { type CalcFunction, DomainError, type KernelArgument, type PreciseSpeed } from './types';
 
 const FN = 'addVelocities';
@@ -23,13 +32,15 @@ function precise(uArg: KernelArgument, vArg: KernelArgument): PreciseSpeed | num
   if (uLight || vLight) {
     const [bu, bv] = [round(u.beta), round(v.beta)];
     if (uLight && vLight && bu !== bv) {
-      throw new DomainError(`${FN}: light composed with light in the opposite direction is undefined; got β_u = ${bu}, β_v = ${bv}`);
+      throw new DomainError(
+        `${FN}: light composed with light in the opposite direction is undefined; got β_u = ${bu}, β_v = ${bv}`,
+      );
     }
     return uLight ? bu : bv;
   }
   const a = absDD(u.beta);
   const b = absDD(v.beta);
-  const sameSign = (u.beta[0] >= 0) === (v.beta[0] >= 0);
+  const sameSign = u.beta[0] >= 0 === v.beta[0] >= 0;
   let numerator: DD;
   let denominator: DD;
   if (sameSign) {
@@ -87,12 +98,14 @@ export const addVelocities: CalcFunction = {
   returns: 'speed',
   doc: {
     summary: 'Collinear composition of two velocities; for massive bodies the result never reaches c.',
-    formula: 'u \\oplus v = \\frac{\\beta_u + \\beta_v}{1 + \\beta_u \\beta_v}\\,c \\quad\\left(= \\frac{u + v}{1 + uv/c^2}\\right)',
+    formula:
+      'u \\oplus v = \\frac{\\beta_u + \\beta_v}{1 + \\beta_u \\beta_v}\\,c \\quad\\left(= \\frac{u + v}{1 + uv/c^2}\\right)',
     domain:
       '|β_u|, |β_v| ≤ 1. Exactly c is light: c ⊕ v = c for any v > −c, −c ⊕ v = −c for v < c; c ⊕ −c is refused, as are NaN, ±Infinity and |β| > 1. For |β_u|, |β_v| < 1 the result is strictly below c: when the exact value is below 1 but rounds to 1, the largest double below 1 is returned. The result is a plain β when u and v are both plain numbers (β), as speeds read plain numbers; with a velocity among them it is a velocity.',
     example: 'addVelocities(0.5, 0.5)',
     exampleResult: '0.8 (plain β in, plain β out; addVelocities(0.5 c, 0.5 c) gives 2.3983e8 m/s)',
-    source: 'A. Einstein, "Zur Elektrodynamik bewegter Körper", Annalen der Physik 17 (1905), §5; J. D. Jackson, Classical Electrodynamics, 3rd ed. (1999), §11.4.',
+    source:
+      'A. Einstein, "Zur Elektrodynamik bewegter Körper", Annalen der Physik 17 (1905), §5; J. D. Jackson, Classical Electrodynamics, 3rd ed. (1999), §11.4.',
     numerics:
       'Numerator (TwoSum) and denominator 1 + β_u β_v (Dekker product) are exact in double-double, so opposite speeds close to c, where 1 + β_u β_v cancels, lose nothing; one double-double division, rounded once (within about half an ulp).',
   },

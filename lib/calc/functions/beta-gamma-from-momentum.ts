@@ -30,7 +30,8 @@ export const betaGammaFromMomentum: CalcFunction = {
   doc: {
     summary: 'βγ = p/(mc) of a body of mass m with momentum p.',
     formula: '\\beta\\gamma = \\frac{p}{mc}',
-    domain: 'p ≥ 0 (a momentum magnitude); m > 0. NaN and ±Infinity are refused, as is a result outside the double range.',
+    domain:
+      'p ≥ 0 (a momentum magnitude); m > 0. NaN and ±Infinity are refused, as is a result outside the double range.',
     example: 'betaGammaFromMomentum(1 GeV, m_p)',
     exampleResult: '1.0658 (a proton of 1 GeV/c)',
     source: 'Particle Data Group, Review of Particle Physics (2024), review "Kinematics" (p = γmβc).',

@@ -26,8 +26,10 @@ export const betaGamma: CalcFunction = {
     domain: '|β| < 1 (a massive body). NaN and ±Infinity are refused.',
     example: 'betaGamma(0.6)',
     exampleResult: '0.75',
-    source: 'Particle Data Group, Review of Particle Physics (2024), review "Kinematics" (βγ = p/(mc)); J. D. Jackson, Classical Electrodynamics, 3rd ed. (1999), §11.3.',
-    numerics: '1 − β² is formed exactly in double-double (it keeps every digit of 1 − β near c), root and quotient in double-double, rounded once (within about half an ulp).',
+    source:
+      'Particle Data Group, Review of Particle Physics (2024), review "Kinematics" (βγ = p/(mc)); J. D. Jackson, Classical Electrodynamics, 3rd ed. (1999), §11.3.',
+    numerics:
+      '1 − β² is formed exactly in double-double (it keeps every digit of 1 − β near c), root and quotient in double-double, rounded once (within about half an ulp).',
   },
   kernel: (v: KernelArgument): number => {
     const speed = massiveSpeed('betaGamma', 'v', v);

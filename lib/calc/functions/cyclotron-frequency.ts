@@ -33,9 +33,11 @@ export const cyclotronFrequency: CalcFunction = {
   ],
   returns: 'frequency',
   doc: {
-    summary: 'Relativistic cyclotron frequency |q|B/(2πγm) of a particle of charge q, mass m and kinetic energy T in a field B.',
+    summary:
+      'Relativistic cyclotron frequency |q|B/(2πγm) of a particle of charge q, mass m and kinetic energy T in a field B.',
     formula: 'f_c = \\frac{|q|\\,B}{2\\pi\\gamma m} = \\frac{|q|\\,B\\,c^2}{2\\pi\\,(mc^2 + T)}',
-    domain: 'q a charge or an integer charge number and B a field (their signs are dropped); m > 0; T ≥ 0. NaN and ±Infinity are refused.',
+    domain:
+      'q a charge or an integer charge number and B a field (their signs are dropped); m > 0; T ≥ 0. NaN and ±Infinity are refused.',
     example: 'cyclotronFrequency(1, 1 T, m_p, 0 MeV) to MHz',
     exampleResult: '15.245 MHz (a slow proton in 1 T)',
     source: 'J. D. Jackson, Classical Electrodynamics, 3rd ed. (1999), §12.2; CODATA 2022 (e, m_p).',

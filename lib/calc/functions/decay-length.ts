@@ -33,7 +33,8 @@ export const decayLength: CalcFunction = {
     domain: 'p ≥ 0; m > 0 (a particle with a rest frame); τ ≥ 0. NaN and ±Infinity are refused.',
     example: 'decayLength(1 GeV, m_mu, 2.1969811 us)',
     exampleResult: '6233.7 m (a muon of 1 GeV/c)',
-    source: 'Particle Data Group, Review of Particle Physics (2024), review "Kinematics" and the particle listings (cτ); βγ = p/(mc).',
+    source:
+      'Particle Data Group, Review of Particle Physics (2024), review "Kinematics" and the particle listings (cτ); βγ = p/(mc).',
     numerics: 'pτ is an exact (Dekker) product; one double-double division, rounded once.',
   },
   kernel: (p: number, m: number, tau: number): number => {

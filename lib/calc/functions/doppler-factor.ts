@@ -21,7 +21,13 @@ import type { CalcFunction, KernelArgument } from './types';
  */
 export const dopplerFactor: CalcFunction = {
   name: 'dopplerFactor',
-  params: [{ name: 'v', kind: 'speed', description: 'speed of the source along the line of sight, > 0 when approaching (a velocity, or β)' }],
+  params: [
+    {
+      name: 'v',
+      kind: 'speed',
+      description: 'speed of the source along the line of sight, > 0 when approaching (a velocity, or β)',
+    },
+  ],
   returns: 'number',
   doc: {
     summary: 'f_observed/f_source for a source moving along the line of sight, approaching for v > 0.',
@@ -29,8 +35,11 @@ export const dopplerFactor: CalcFunction = {
     domain: '|β| < 1 (a massive source; v > 0 approaching, v < 0 receding). NaN and ±Infinity are refused.',
     example: 'dopplerFactor(0.6)',
     exampleResult: '2',
-    source: 'A. Einstein, "Zur Elektrodynamik bewegter Körper", Annalen der Physik 17 (1905), §7; J. D. Jackson, Classical Electrodynamics, 3rd ed. (1999), §11.3.',
-    numerics: '1 + β and 1 − β are formed exactly (TwoSum), so nothing is lost near β = ±1; quotient and square root in double-double, rounded once (within about half an ulp).',
+    source:
+      'A. Einstein, "Zur Elektrodynamik bewegter Körper", Annalen der Physik 17 (1905), §7; J. D. Jackson, Classical Electrodynamics, 3rd ed. (1999), §11.3.',
+    numerics:
+      '1 + β and 1 − β are formed exactly (TwoSum), so nothing is lost near β = ±1; quotient and square root in double-double, rounded once (within about half an ulp).',
   },
-  kernel: (v: KernelArgument): number => finiteResult('dopplerFactor', round(dopplerOf(massiveSpeed('dopplerFactor', 'v', v)))),
+  kernel: (v: KernelArgument): number =>
+    finiteResult('dopplerFactor', round(dopplerOf(massiveSpeed('dopplerFactor', 'v', v)))),
 };

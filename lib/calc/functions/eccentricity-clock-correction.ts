@@ -35,20 +35,24 @@ export const eccentricityClockCorrection: CalcFunction = {
   ],
   returns: 'time',
   doc: {
-    summary: 'Periodic relativistic clock correction Δt_r = F e √a sin E of a satellite on an eccentric Earth orbit (IS-GPS-200), to be added to the satellite clock correction.',
+    summary:
+      'Periodic relativistic clock correction Δt_r = F e √a sin E of a satellite on an eccentric Earth orbit (IS-GPS-200), to be added to the satellite clock correction.',
     formula: '\\Delta t_{\\mathrm{r}} = F\\,e\\,\\sqrt{a}\\,\\sin E,\\quad F = -\\frac{2\\sqrt{GM_{\\mathrm{E}}}}{c^2}',
     domain: 'a > 0; 0 ≤ e < 1; E an angle (a plain number is read in radians). NaN and ±Infinity are refused.',
     example: 'eccentricityClockCorrection(26561.75 km, 0.01, 90 deg)',
     exampleResult: '−22.897 ns (the amplitude for a GPS orbit of eccentricity 0.01)',
-    source: 'IS-GPS-200, §20.3.3.3.3.1 (F = −4.442807633e-10 s/√m); N. Ashby, "Relativity in the Global Positioning System", Living Reviews in Relativity 6 (2003) 1, §5.',
-    numerics: 'A product of well-conditioned factors. F is formed from GM_E (IERS Conventions 2010), 7.3e-8 of itself from IS-GPS-200\'s F, which is formed with μ = 3.986005e14 (below 2 fs on a GPS orbit).',
+    source:
+      'IS-GPS-200, §20.3.3.3.3.1 (F = −4.442807633e-10 s/√m); N. Ashby, "Relativity in the Global Positioning System", Living Reviews in Relativity 6 (2003) 1, §5.',
+    numerics:
+      "A product of well-conditioned factors. F is formed from GM_E (IERS Conventions 2010), 7.3e-8 of itself from IS-GPS-200's F, which is formed with μ = 3.986005e14 (below 2 fs on a GPS orbit).",
   },
   kernel: (aArg: KernelArgument, eArg: KernelArgument, EArg: KernelArgument): number => {
     const a = requireFinite(FN, 'a', aArg as number);
     const e = requireFinite(FN, 'e', eArg as number);
     const E = requireFinite(FN, 'E', EArg as number);
     if (!(a > 0)) throw new DomainError(`${FN}: the semi-major axis a must be positive; got ${a} m`);
-    if (!(e >= 0 && e < 1)) throw new DomainError(`${FN}: the eccentricity must satisfy 0 ≤ e < 1 (a closed orbit); got e = ${e}`);
+    if (!(e >= 0 && e < 1))
+      throw new DomainError(`${FN}: the eccentricity must satisfy 0 ≤ e < 1 (a closed orbit); got e = ${e}`);
     return round(mulNum(mul(mulNum(F, e), sqrt(dd(a))), Math.sin(E)));
   },
 };

@@ -35,11 +35,13 @@ export const electronWavelength: CalcFunction = {
   returns: 'length',
   doc: {
     summary: 'Relativistic de Broglie wavelength of an electron accelerated from rest through U.',
-    formula: '\\lambda = \\frac{hc}{\\sqrt{eU\\,(eU + 2m_ec^2)}} \\quad\\left(= \\frac{h}{\\sqrt{2m_e eU\\,(1 + \\frac{eU}{2m_ec^2})}}\\right)',
+    formula:
+      '\\lambda = \\frac{hc}{\\sqrt{eU\\,(eU + 2m_ec^2)}} \\quad\\left(= \\frac{h}{\\sqrt{2m_e eU\\,(1 + \\frac{eU}{2m_ec^2})}}\\right)',
     domain: 'U > 0. NaN and ±Infinity are refused.',
     example: 'electronWavelength(200 kV) to pm',
     exampleResult: '2.5079 pm',
-    source: 'D. B. Williams & C. B. Carter, Transmission Electron Microscopy, 2nd ed. (2009), table 1.1; L. Reimer & H. Kohl, Transmission Electron Microscopy, 5th ed. (2008), ch. 2. Constants: h and e exact (SI 2019), mₑ CODATA 2022.',
+    source:
+      'D. B. Williams & C. B. Carter, Transmission Electron Microscopy, 2nd ed. (2009), table 1.1; L. Reimer & H. Kohl, Transmission Electron Microscopy, 5th ed. (2008), ch. 2. Constants: h and e exact (SI 2019), mₑ CODATA 2022.',
     numerics:
       'e, h and mₑ enter at their decimal (defined or recommended) values in double-double; λ = hc/(√T·√(T + 2mₑc²)) with T = eU is evaluated in double-double and rounded once (within about half an ulp of the formula with those constants).',
   },

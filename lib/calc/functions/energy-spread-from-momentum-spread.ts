@@ -6,7 +6,10 @@ import { type CalcFunction, DomainError, type KernelArgument } from './types';
 function betaSquared(fn: string, v: KernelArgument) {
   const speed = massiveSpeed(fn, 'v', v);
   const b2 = mul(speed.beta, speed.beta);
-  if (!(b2[0] > 0)) throw new DomainError(`${fn}: the particle must move (β ≠ 0): at rest a momentum spread has no energy spread to match`);
+  if (!(b2[0] > 0))
+    throw new DomainError(
+      `${fn}: the particle must move (β ≠ 0): at rest a momentum spread has no energy spread to match`,
+    );
   return b2;
 }
 
@@ -36,16 +39,22 @@ export const energySpreadFromMomentumSpread: CalcFunction = {
   ],
   returns: 'number',
   doc: {
-    summary: 'Relative spread ΔE/E = β² Δp/p of the total energy E = γmc² (not the kinetic energy) for a relative momentum spread.',
+    summary:
+      'Relative spread ΔE/E = β² Δp/p of the total energy E = γmc² (not the kinetic energy) for a relative momentum spread.',
     formula: '\\frac{\\Delta E}{E} = \\beta^2\\,\\frac{\\Delta p}{p}',
-    domain: '0 < |β| < 1. E is the total energy γmc²: the kinetic-energy spread is ΔT/T = (ΔE/E)·E/T. NaN and ±Infinity are refused.',
+    domain:
+      '0 < |β| < 1. E is the total energy γmc²: the kinetic-energy spread is ΔT/T = (ΔE/E)·E/T. NaN and ±Infinity are refused.',
     example: 'energySpreadFromMomentumSpread(4e-3, 0.5)',
     exampleResult: '0.001',
-    source: 'Common practice; PDG Review of Particle Physics, "Kinematics"; H. Wiedemann, Particle Accelerator Physics, 4th ed. (2015), ch. 8.',
+    source:
+      'Common practice; PDG Review of Particle Physics, "Kinematics"; H. Wiedemann, Particle Accelerator Physics, 4th ed. (2015), ch. 8.',
     numerics: 'β² in double-double (with the precise-speed companion when β comes from the library); rounded once.',
   },
   kernel: (x: KernelArgument, v: KernelArgument): number => {
     const spread = requireFinite('energySpreadFromMomentumSpread', 'dp_over_p', x as number);
-    return finiteResult('energySpreadFromMomentumSpread', round(mul(dd(spread), betaSquared('energySpreadFromMomentumSpread', v))));
+    return finiteResult(
+      'energySpreadFromMomentumSpread',
+      round(mul(dd(spread), betaSquared('energySpreadFromMomentumSpread', v))),
+    );
   },
 };

@@ -2,7 +2,13 @@ import { finiteResult } from './support/domain';
 import { round } from './support/double-double';
 import { gammaFromKineticDD } from './support/kinematics';
 import { requireIonMass, requireMassNumber, totalKinetic } from './support/per-nucleon';
-import { A_PARAM, ION_MASS_PARAM, PER_NUCLEON_CONVENTION, PER_NUCLEON_SOURCE, TN_PARAM } from './support/per-nucleon-docs';
+import {
+  A_PARAM,
+  ION_MASS_PARAM,
+  PER_NUCLEON_CONVENTION,
+  PER_NUCLEON_SOURCE,
+  TN_PARAM,
+} from './support/per-nucleon-docs';
 import type { CalcFunction, KernelArgument } from './types';
 
 const FN = 'gammaFromKineticPerNucleon';
@@ -33,11 +39,13 @@ export const gammaFromKineticPerNucleon: CalcFunction = {
   doc: {
     summary: `Lorentz factor γ of an ion from its kinetic energy per nucleon. ${PER_NUCLEON_CONVENTION}`,
     formula: '\\gamma = 1 + \\frac{A\\,T_n}{mc^2}',
-    domain: 'Tn ≥ 0 (per nucleon); A an integer 1 … 300 (mass number); m > 0, between 0.99 u and 1.02 u per nucleon (otherwise A and m are taken to be swapped or mismatched, and refused). NaN and ±Infinity are refused.',
+    domain:
+      'Tn ≥ 0 (per nucleon); A an integer 1 … 300 (mass number); m > 0, between 0.99 u and 1.02 u per nucleon (otherwise A and m are taken to be swapped or mismatched, and refused). NaN and ±Infinity are refused.',
     example: 'gammaFromKineticPerNucleon(430 MeV/u, 12, ionMass(M_C12, 6, 6))',
     exampleResult: '1.4618 (¹²C⁶⁺ at 430 MeV/u)',
     source: PER_NUCLEON_SOURCE,
-    numerics: 'A·Tn is an exact (Dekker) product, so the per-nucleon form adds no rounding: then T/(mc²) + 1 in double-double as in gammaFromKinetic, rounded once (within about half an ulp).',
+    numerics:
+      'A·Tn is an exact (Dekker) product, so the per-nucleon form adds no rounding: then T/(mc²) + 1 in double-double as in gammaFromKinetic, rounded once (within about half an ulp).',
   },
   kernel: (Tn: KernelArgument, A: KernelArgument, m: KernelArgument): number => {
     const a = requireMassNumber(FN, A as number);

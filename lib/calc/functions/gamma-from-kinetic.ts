@@ -31,7 +31,8 @@ export const gammaFromKinetic: CalcFunction = {
   doc: {
     summary: 'Lorentz factor γ of a body of mass m with kinetic energy T, computed directly from the energies.',
     formula: '\\gamma = 1 + \\frac{T}{mc^2}',
-    domain: 'T ≥ 0; m > 0 (a body with a rest frame). NaN and ±Infinity are refused, as is a result outside the double range.',
+    domain:
+      'T ≥ 0; m > 0 (a body with a rest frame). NaN and ±Infinity are refused, as is a result outside the double range.',
     example: 'gammaFromKinetic(1.5 TeV, m_e)',
     exampleResult: '2.9354e6',
     source: 'Particle Data Group, Review of Particle Physics (2024), review "Kinematics" (γ = E/mc², E = T + mc²).',

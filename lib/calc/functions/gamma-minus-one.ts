@@ -28,7 +28,8 @@ export const gammaMinusOne: CalcFunction = {
     domain: '|β| < 1 (a massive body). NaN and ±Infinity are refused.',
     example: 'gammaMinusOne(3874 m/s)',
     exampleResult: '8.3493e-11 (a GPS satellite in orbit)',
-    source: 'Algebraic identity γ − 1 = (1 − s)/s = β²/(s(1 + s)); γ as in J. D. Jackson, Classical Electrodynamics, 3rd ed. (1999), §11.3.',
+    source:
+      'Algebraic identity γ − 1 = (1 − s)/s = β²/(s(1 + s)); γ as in J. D. Jackson, Classical Electrodynamics, 3rd ed. (1999), §11.3.',
     numerics:
       'γ − 1 computed as γ minus 1 cancels: at β = 1e-12 every digit is lost. The form β²/(s(1 + s)) has no subtraction; it is evaluated in double-double with 1 − β² formed exactly and rounded once, so it is within about half an ulp from β = 1e-12 up to 1 − β = 1e-16.',
   },

@@ -34,12 +34,15 @@ export const hyperbolicCoordinateTimeFromDistance: CalcFunction = {
   ],
   returns: 'time',
   doc: {
-    summary: 'Coordinate (lab) time a body starting from rest with constant proper acceleration a0 takes to cover the lab distance d (the inverse of hyperbolicDistance).',
-    formula: 't = \\frac{c}{a_0}\\sqrt{\\gamma^2 - 1} = \\sqrt{\\frac{d}{a_0}}\\,\\sqrt{2 + x},\\quad \\gamma = 1 + x,\\ x = \\frac{a_0 d}{c^2}',
+    summary:
+      'Coordinate (lab) time a body starting from rest with constant proper acceleration a0 takes to cover the lab distance d (the inverse of hyperbolicDistance).',
+    formula:
+      't = \\frac{c}{a_0}\\sqrt{\\gamma^2 - 1} = \\sqrt{\\frac{d}{a_0}}\\,\\sqrt{2 + x},\\quad \\gamma = 1 + x,\\ x = \\frac{a_0 d}{c^2}',
     domain: 'a0 finite, either sign (t depends on |a0|; 0 only with d = 0); d ≥ 0. NaN and ±Infinity are refused.',
     example: 'hyperbolicCoordinateTimeFromDistance(q_e * 1 MV/m / m_e, 60 mm) to ns',
     exampleResult: '0.84990 ns (an electron from rest across a 60 mm gap at 1 MV/m)',
-    source: 'W. Rindler, Relativity: Special, General, and Cosmological, 2nd ed. (2006), ch. 3 (hyperbolic motion); C. W. Misner, K. S. Thorne, J. A. Wheeler, Gravitation (1973), §6.2.',
+    source:
+      'W. Rindler, Relativity: Special, General, and Cosmological, 2nd ed. (2006), ch. 3 (hyperbolic motion); C. W. Misner, K. S. Thorne, J. A. Wheeler, Gravitation (1973), §6.2.',
     numerics:
       'γ² − 1 = x(2 + x) with x = a0 d/c² from the exact product (the textbook form keeps nothing at x = 1e-17); √(d/a0)·√(2 + x) below x = 1 needs no division by a small a0, (d/c)·√(1 + 2/x) above no product that could overflow. Double-double, rounded once.',
   },

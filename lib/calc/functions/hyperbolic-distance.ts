@@ -34,11 +34,14 @@ export const hyperbolicDistance: CalcFunction = {
   returns: 'length',
   doc: {
     summary: 'Distance covered by coordinate time t by a body starting from rest with constant proper acceleration a0.',
-    formula: 'x = ct\\,\\frac{w}{\\sqrt{1+w^2} + 1},\\ w = \\frac{a_0 t}{c} \\quad\\left(= \\frac{c^2}{a_0}\\Big(\\sqrt{1 + (a_0t/c)^2} - 1\\Big)\\right)',
-    domain: 'a0 finite, either sign (negative: displacement in the negative direction; 0: no motion); t ≥ 0. NaN and ±Infinity are refused.',
+    formula:
+      'x = ct\\,\\frac{w}{\\sqrt{1+w^2} + 1},\\ w = \\frac{a_0 t}{c} \\quad\\left(= \\frac{c^2}{a_0}\\Big(\\sqrt{1 + (a_0t/c)^2} - 1\\Big)\\right)',
+    domain:
+      'a0 finite, either sign (negative: displacement in the negative direction; 0: no motion); t ≥ 0. NaN and ±Infinity are refused.',
     example: 'hyperbolicDistance(0.8 mm/s^2, 400 day) to au',
     exampleResult: '3.1936 au (an ion-engine probe thrusting at 0.8 mm/s² from rest for 400 days)',
-    source: 'W. Rindler, Relativity: Special, General, and Cosmological, 2nd ed. (2006), ch. 3 (hyperbolic motion); C. W. Misner, K. S. Thorne, J. A. Wheeler, Gravitation (1973), §6.2.',
+    source:
+      'W. Rindler, Relativity: Special, General, and Cosmological, 2nd ed. (2006), ch. 3 (hyperbolic motion); C. W. Misner, K. S. Thorne, J. A. Wheeler, Gravitation (1973), §6.2.',
     numerics:
       '√(1 + w²) − 1 is rewritten w²/(√(1 + w²) + 1), which does not cancel at small w (the textbook form gives 0 at w = 1e-12, this gives ½a0t²), and c²/a0 · w = ct avoids dividing by a0. Double-double, √(1 + w²) without overflow, rounded once (within about half an ulp).',
   },

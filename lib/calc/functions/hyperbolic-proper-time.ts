@@ -32,12 +32,16 @@ export const hyperbolicProperTime: CalcFunction = {
   ],
   returns: 'time',
   doc: {
-    summary: 'Proper time elapsed by coordinate time t on a body starting from rest with constant proper acceleration a0.',
-    formula: '\\tau = \\frac{c}{a_0}\\operatorname{asinh}\\frac{a_0 t}{c} = t\\,\\frac{\\operatorname{asinh} w}{w},\\ w = \\frac{a_0 t}{c}',
+    summary:
+      'Proper time elapsed by coordinate time t on a body starting from rest with constant proper acceleration a0.',
+    formula:
+      '\\tau = \\frac{c}{a_0}\\operatorname{asinh}\\frac{a_0 t}{c} = t\\,\\frac{\\operatorname{asinh} w}{w},\\ w = \\frac{a_0 t}{c}',
     domain: 'a0 finite, either sign (τ depends on |a0|; a0 = 0 gives τ = t); t ≥ 0. NaN and ±Infinity are refused.',
     example: '(400 day - hyperbolicProperTime(0.8 mm/s^2, 400 day)) to ms',
-    exampleResult: '48.990 ms (how far the clock of an ion-engine probe thrusting at 0.8 mm/s² for 400 days falls behind, from its motion alone)',
-    source: 'W. Rindler, Relativity: Special, General, and Cosmological, 2nd ed. (2006), ch. 3 (hyperbolic motion); C. W. Misner, K. S. Thorne, J. A. Wheeler, Gravitation (1973), §6.2.',
+    exampleResult:
+      '48.990 ms (how far the clock of an ion-engine probe thrusting at 0.8 mm/s² for 400 days falls behind, from its motion alone)',
+    source:
+      'W. Rindler, Relativity: Special, General, and Cosmological, 2nd ed. (2006), ch. 3 (hyperbolic motion); C. W. Misner, K. S. Thorne, J. A. Wheeler, Gravitation (1973), §6.2.',
     numerics:
       'asinh is evaluated in double-double (odd series below 0.01, otherwise ln(w + √(1 + w²)) by a Newton step on a double-double exponential). For |w| ≤ 1 the form t·asinh(w)/w is used, which needs no division by a small a0 and tends to t; above, (c/a0)·asinh(w). Rounded once (within about half an ulp).',
   },

@@ -31,7 +31,11 @@ function precise(a0: KernelArgument, tau: KernelArgument): PreciseSpeed | number
 export const hyperbolicSpeedAtProperTime: CalcFunction = {
   name: FN,
   params: [
-    { name: 'a0', kind: 'acceleration', description: 'constant proper acceleration (its sign is the direction of motion)' },
+    {
+      name: 'a0',
+      kind: 'acceleration',
+      description: 'constant proper acceleration (its sign is the direction of motion)',
+    },
     { name: 'tau', kind: 'time', description: 'proper time (the body’s own clock) since the start from rest' },
   ],
   returns: 'speed',
@@ -41,7 +45,8 @@ export const hyperbolicSpeedAtProperTime: CalcFunction = {
     domain:
       'a0 finite, either sign (the direction of motion and of the speed returned); τ ≥ 0. NaN and ±Infinity are refused. When the speed rounds to c (a0τ/c above about 19) the largest double below 1 is returned; above a0τ/c = 690 (γ above 1e299) without its precise companion.',
     example: 'hyperbolicSpeedAtProperTime(0.8 mm/s^2, 400 day) to km/s',
-    exampleResult: '27.648 km/s (an ion-engine probe thrusting at 0.8 mm/s² from rest, after 400 days on its own clock)',
+    exampleResult:
+      '27.648 km/s (an ion-engine probe thrusting at 0.8 mm/s² from rest, after 400 days on its own clock)',
     source:
       'W. Rindler, Relativity: Special, General, and Cosmological, 2nd ed. (2006), ch. 3 (hyperbolic motion: the rapidity grows as a τ/c); C. W. Misner, K. S. Thorne, J. A. Wheeler, Gravitation (1973), §6.2.',
     numerics:

@@ -33,12 +33,17 @@ function precise(a0: KernelArgument, d: KernelArgument): PreciseSpeed | number {
 export const hyperbolicSpeedFromDistance: CalcFunction = {
   name: FN,
   params: [
-    { name: 'a0', kind: 'acceleration', description: 'constant proper acceleration (its sign is the direction of motion)' },
+    {
+      name: 'a0',
+      kind: 'acceleration',
+      description: 'constant proper acceleration (its sign is the direction of motion)',
+    },
     { name: 'd', kind: 'length', description: 'coordinate (lab) distance covered from rest' },
   ],
   returns: 'speed',
   doc: {
-    summary: 'Speed of a body starting from rest with constant proper acceleration a0 once it has covered the lab distance d.',
+    summary:
+      'Speed of a body starting from rest with constant proper acceleration a0 once it has covered the lab distance d.',
     formula: '\\beta = \\frac{\\sqrt{x(2+x)}}{1+x},\\quad x = \\gamma - 1 = \\frac{a_0 d}{c^2}',
     domain:
       'a0 finite, either sign (the direction of motion and of the speed returned; 0 only with d = 0); d ≥ 0. NaN and ±Infinity are refused. When the speed rounds to c the largest double below 1 is returned.',

@@ -45,11 +45,14 @@ export const hyperbolicSpeed: CalcFunction = {
   doc: {
     summary: 'Speed at coordinate time t of a body starting from rest with constant proper acceleration a0.',
     formula: '\\beta = \\frac{w}{\\sqrt{1 + w^2}},\\quad w = \\frac{a_0 t}{c}',
-    domain: 'a0 finite, either sign (the direction of motion); t ≥ 0. NaN and ±Infinity are refused. The speed stays below c: when it rounds to c (w above about 6.7e7) the largest double below 1 is returned.',
+    domain:
+      'a0 finite, either sign (the direction of motion); t ≥ 0. NaN and ±Infinity are refused. The speed stays below c: when it rounds to c (w above about 6.7e7) the largest double below 1 is returned.',
     example: 'hyperbolicSpeed(q_e * 1 MV/m / m_e, 1 ns)',
     exampleResult: '1.5170e8 m/s (β = 0.50602: an electron 1 ns after starting from rest in a uniform 1 MV/m field)',
-    source: 'W. Rindler, Relativity: Special, General, and Cosmological, 2nd ed. (2006), ch. 3 (hyperbolic motion); C. W. Misner, K. S. Thorne, J. A. Wheeler, Gravitation (1973), §6.2.',
-    numerics: 'w = a0 t/c in double-double; √(1 + w²) is taken as |w|·√(1 + 1/w²) for |w| > 1 so nothing overflows; rounded once (within about half an ulp).',
+    source:
+      'W. Rindler, Relativity: Special, General, and Cosmological, 2nd ed. (2006), ch. 3 (hyperbolic motion); C. W. Misner, K. S. Thorne, J. A. Wheeler, Gravitation (1973), §6.2.',
+    numerics:
+      'w = a0 t/c in double-double; √(1 + w²) is taken as |w|·√(1 + 1/w²) for |w| > 1 so nothing overflows; rounded once (within about half an ulp).',
   },
   kernel: (a0: KernelArgument, t: KernelArgument): number => speedValue(precise(a0, t)),
   preciseKernel: precise,

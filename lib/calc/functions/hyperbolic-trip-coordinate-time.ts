@@ -28,12 +28,17 @@ const FN = 'hyperbolicTripCoordinateTime';
 export const hyperbolicTripCoordinateTime: CalcFunction = {
   name: FN,
   params: [
-    { name: 'a0', kind: 'acceleration', description: 'proper acceleration of the first half, and braking of the second' },
+    {
+      name: 'a0',
+      kind: 'acceleration',
+      description: 'proper acceleration of the first half, and braking of the second',
+    },
     { name: 'd', kind: 'length', description: 'coordinate (lab) distance of the whole trip, rest to rest' },
   ],
   returns: 'time',
   doc: {
-    summary: 'Coordinate (lab) time of a trip over the lab distance d from rest to rest, accelerating at a0 for the first half and braking at a0 for the second.',
+    summary:
+      'Coordinate (lab) time of a trip over the lab distance d from rest to rest, accelerating at a0 for the first half and braking at a0 for the second.',
     formula: 't = 2\\,\\frac{c}{a_0}\\sqrt{\\gamma_m^2 - 1},\\quad \\gamma_m = 1 + \\frac{a_0 d}{2c^2}',
     domain: 'a0 finite, either sign (only |a0| matters; 0 only with d = 0); d ≥ 0. NaN and ±Infinity are refused.',
     example: 'hyperbolicTripCoordinateTime(0.8 mm/s^2, 3 au) to day',

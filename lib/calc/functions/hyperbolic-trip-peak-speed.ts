@@ -33,17 +33,24 @@ function precise(a0Arg: KernelArgument, dArg: KernelArgument): PreciseSpeed | nu
 export const hyperbolicTripPeakSpeed: CalcFunction = {
   name: FN,
   params: [
-    { name: 'a0', kind: 'acceleration', description: 'proper acceleration of the first half, and braking of the second (its sign is the direction of motion)' },
+    {
+      name: 'a0',
+      kind: 'acceleration',
+      description:
+        'proper acceleration of the first half, and braking of the second (its sign is the direction of motion)',
+    },
     { name: 'd', kind: 'length', description: 'coordinate (lab) distance of the whole trip, rest to rest' },
   ],
   returns: 'speed',
   doc: {
-    summary: 'Highest speed (at the midpoint) of a trip over the lab distance d from rest to rest, accelerating at a0 for the first half and braking at a0 for the second.',
+    summary:
+      'Highest speed (at the midpoint) of a trip over the lab distance d from rest to rest, accelerating at a0 for the first half and braking at a0 for the second.',
     formula: '\\beta_m = \\frac{\\sqrt{x(2+x)}}{1+x},\\quad x = \\gamma_m - 1 = \\frac{a_0 d}{2c^2}',
     domain:
       'a0 finite, either sign (the direction of motion and of the speed returned; 0 only with d = 0); d ≥ 0. NaN and ±Infinity are refused. When the speed rounds to c the largest double below 1 is returned.',
     example: 'hyperbolicTripPeakSpeed(0.8 mm/s^2, 3 au) to km/s',
-    exampleResult: '18.948 km/s (an ion-engine probe at 0.8 mm/s² to a target 3 au away, at the midpoint where it turns to brake)',
+    exampleResult:
+      '18.948 km/s (an ion-engine probe at 0.8 mm/s² to a target 3 au away, at the midpoint where it turns to brake)',
     source:
       'W. Rindler, Relativity: Special, General, and Cosmological, 2nd ed. (2006), ch. 3 (hyperbolic motion); P. Gibbs and D. Koks, "The Relativistic Rocket", Usenet Physics FAQ (the accelerate-then-decelerate trip).',
     numerics:

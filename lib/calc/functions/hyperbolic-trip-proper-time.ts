@@ -28,16 +28,22 @@ const FN = 'hyperbolicTripProperTime';
 export const hyperbolicTripProperTime: CalcFunction = {
   name: FN,
   params: [
-    { name: 'a0', kind: 'acceleration', description: 'proper acceleration of the first half, and braking of the second' },
+    {
+      name: 'a0',
+      kind: 'acceleration',
+      description: 'proper acceleration of the first half, and braking of the second',
+    },
     { name: 'd', kind: 'length', description: 'coordinate (lab) distance of the whole trip, rest to rest' },
   ],
   returns: 'time',
   doc: {
-    summary: 'Proper time on board for a trip over the lab distance d from rest to rest, accelerating at a0 for the first half and braking at a0 for the second.',
+    summary:
+      'Proper time on board for a trip over the lab distance d from rest to rest, accelerating at a0 for the first half and braking at a0 for the second.',
     formula: '\\tau = 2\\,\\frac{c}{a_0}\\operatorname{arcosh}\\gamma_m,\\quad \\gamma_m = 1 + \\frac{a_0 d}{2c^2}',
     domain: 'a0 finite, either sign (only |a0| matters; 0 only with d = 0); d ≥ 0. NaN and ±Infinity are refused.',
     example: '(hyperbolicTripCoordinateTime(0.8 mm/s^2, 3 au) - hyperbolicTripProperTime(0.8 mm/s^2, 3 au)) to ms',
-    exampleResult: '31.539 ms (how far the on-board clock of an ion-engine probe falls behind over a 3 au trip at 0.8 mm/s², from its motion alone)',
+    exampleResult:
+      '31.539 ms (how far the on-board clock of an ion-engine probe falls behind over a 3 au trip at 0.8 mm/s², from its motion alone)',
     source:
       'W. Rindler, Relativity: Special, General, and Cosmological, 2nd ed. (2006), ch. 3 (hyperbolic motion); P. Gibbs and D. Koks, "The Relativistic Rocket", Usenet Physics FAQ (the accelerate-then-decelerate trip).',
     numerics:

@@ -71,7 +71,15 @@ import { transverseCoordinateAcceleration } from './transverse-coordinate-accele
 import type { CalcFunction } from './types';
 
 export { DomainError } from './types';
-export type { CalcFunction, CalcFunctionDoc, KernelArgument, ParamDoc, ParamKind, PreciseSpeed, ReturnKind } from './types';
+export type {
+  CalcFunction,
+  CalcFunctionDoc,
+  KernelArgument,
+  ParamDoc,
+  ParamKind,
+  PreciseSpeed,
+  ReturnKind,
+} from './types';
 export {
   aberrationAngle,
   addVelocities,
@@ -83,10 +91,8 @@ export {
   energySpreadFromMomentumSpread,
   momentumSpreadFromEnergySpread,
   revolutionFrequency,
-
   synchrotronCriticalEnergy,
   twoBodyDecayMomentum,
-
   ionMass,
   gammaFromKineticPerNucleon,
   speedFromKineticPerNucleon,
@@ -94,19 +100,16 @@ export {
   rigidityFromKineticPerNucleon,
   kineticPerNucleonFromRigidity,
   kineticPerNucleonFromMomentum,
-
   interactionConstant,
   relativisticVoltage,
   wavelengthFromKinetic,
   wavelengthFromMomentum,
-
   eccentricityClockCorrection,
   gravitationalRateOffset,
   massRatio,
   orbitClockRateOffset,
   sagnacDelay,
   shapiroDelay,
-
   dopplerFactor,
   electronWavelength,
   gammaFromKinetic,

@@ -36,13 +36,17 @@ export const interactionConstant: CalcFunction = {
   params: [{ name: 'U', kind: 'voltage', description: 'accelerating potential difference' }],
   returns: 'interaction-constant',
   doc: {
-    summary: 'Interaction constant σ = 2π mₑγ e λ/h² of an electron accelerated through U (phase shift per volt-metre of projected potential).',
-    formula: '\\sigma = \\frac{2\\pi e\\,(m_ec^2 + eU)}{hc\\,\\sqrt{eU\\,(eU + 2m_ec^2)}} = \\frac{2\\pi}{\\lambda U}\\,\\frac{m_ec^2 + eU}{2m_ec^2 + eU}',
+    summary:
+      'Interaction constant σ = 2π mₑγ e λ/h² of an electron accelerated through U (phase shift per volt-metre of projected potential).',
+    formula:
+      '\\sigma = \\frac{2\\pi e\\,(m_ec^2 + eU)}{hc\\,\\sqrt{eU\\,(eU + 2m_ec^2)}} = \\frac{2\\pi}{\\lambda U}\\,\\frac{m_ec^2 + eU}{2m_ec^2 + eU}',
     domain: 'U > 0. NaN and ±Infinity are refused; a result beyond the double range is refused.',
     example: 'interactionConstant(200 kV)',
     exampleResult: '7.2884e6 V^-1 m^-1 (0.728 84 radians per kV·Å of projected potential)',
-    source: 'E. J. Kirkland, Advanced Computing in Electron Microscopy, 2nd ed. (2010), §5.2; L. Reimer & H. Kohl, Transmission Electron Microscopy, 5th ed. (2008), §3.1. Constants: h, e exact (SI 2019), mₑ CODATA 2022.',
-    numerics: 'e, h and mₑ at their decimal values; √(eU) as √e·√U so that a tiny U does not underflow; in double-double, rounded once.',
+    source:
+      'E. J. Kirkland, Advanced Computing in Electron Microscopy, 2nd ed. (2010), §5.2; L. Reimer & H. Kohl, Transmission Electron Microscopy, 5th ed. (2008), §3.1. Constants: h, e exact (SI 2019), mₑ CODATA 2022.',
+    numerics:
+      'e, h and mₑ at their decimal values; √(eU) as √e·√U so that a tiny U does not underflow; in double-double, rounded once.',
   },
   kernel: (U: number): number => {
     requirePositive(FN, 'U', U, 'V', 'an accelerating voltage');

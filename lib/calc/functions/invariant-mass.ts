@@ -34,7 +34,8 @@ export const invariantMass: CalcFunction = {
   returns: 'mass',
   doc: {
     summary: 'Invariant mass of a particle or system of total energy E and total momentum p.',
-    formula: 'm = \\frac{\\sqrt{E - pc}\\,\\sqrt{E + pc}}{c^2} \\quad\\left(= \\frac{\\sqrt{E^2 - p^2c^2}}{c^2}\\right)',
+    formula:
+      'm = \\frac{\\sqrt{E - pc}\\,\\sqrt{E + pc}}{c^2} \\quad\\left(= \\frac{\\sqrt{E^2 - p^2c^2}}{c^2}\\right)',
     domain:
       'E ≥ 0, p ≥ 0 and E ≥ pc. A shortfall of E below pc of less than 2^-50·E (about four ulp) is taken as rounding in the inputs of a massless system and gives 0; a larger one is refused (space-like), as are NaN and ±Infinity.',
     example: 'invariantMass(10 GeV, 9.9 GeV)',
@@ -50,7 +51,9 @@ export const invariantMass: CalcFunction = {
     const deficit = sub(dd(E), pc);
     if (deficit[0] < 0) {
       if (-deficit[0] <= ROUNDING_ALLOWANCE * E) return 0;
-      throw new DomainError(`${FN}: the energy must be at least pc (a space-like four-momentum has no mass); got E = ${E} J, pc = ${round(pc)} J`);
+      throw new DomainError(
+        `${FN}: the energy must be at least pc (a space-like four-momentum has no mass); got E = ${E} J, pc = ${round(pc)} J`,
+      );
     }
     return finiteResult(FN, round(div(mul(sqrt(deficit), sqrt(add(dd(E), pc))), C_SQUARED)));
   },

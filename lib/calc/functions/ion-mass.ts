@@ -30,7 +30,9 @@ function chargeState(q: number): number {
   const n = q / E_CHARGE;
   const whole = Math.round(n);
   if (Math.abs(n - whole) > 1e-9 * Math.max(1, Math.abs(whole))) {
-    throw new DomainError(`${FN}: the charge state q must be a whole number of elementary charges; got q = ${q} C (${n} e)`);
+    throw new DomainError(
+      `${FN}: the charge state q must be a whole number of elementary charges; got q = ${q} C (${n} e)`,
+    );
   }
   return whole;
 }
@@ -68,9 +70,21 @@ function chargeState(q: number): number {
 export const ionMass: CalcFunction = {
   name: FN,
   params: [
-    { name: 'M_atom', kind: 'mass', description: 'atomic mass of the NEUTRAL atom, electrons included (M_C12, M_He4, or an AME 2020 value in u)' },
-    { name: 'Z', kind: 'number', description: 'atomic number of the element (protons in the nucleus: 6 for carbon); not the charge state' },
-    { name: 'q', kind: 'charge', description: 'charge state: electrons removed (6 or 6 q_e for C⁶⁺, 4 for C⁴⁺, −1 for H⁻)' },
+    {
+      name: 'M_atom',
+      kind: 'mass',
+      description: 'atomic mass of the NEUTRAL atom, electrons included (M_C12, M_He4, or an AME 2020 value in u)',
+    },
+    {
+      name: 'Z',
+      kind: 'number',
+      description: 'atomic number of the element (protons in the nucleus: 6 for carbon); not the charge state',
+    },
+    {
+      name: 'q',
+      kind: 'charge',
+      description: 'charge state: electrons removed (6 or 6 q_e for C⁶⁺, 4 for C⁴⁺, −1 for H⁻)',
+    },
   ],
   returns: 'mass',
   doc: {
@@ -92,16 +106,23 @@ export const ionMass: CalcFunction = {
     const Z = requireFinite(FN, 'Z', ZArg as number);
     const q = requireFinite(FN, 'q', qArg as number);
     if (!Number.isInteger(Z) || Z < 1 || Z > Z_MAX) {
-      throw new DomainError(`${FN}: Z is the atomic number, an integer from 1 to ${Z_MAX} (6 for carbon); got Z = ${Z}`);
+      throw new DomainError(
+        `${FN}: Z is the atomic number, an integer from 1 to ${Z_MAX} (6 for carbon); got Z = ${Z}`,
+      );
     }
     const nuclear = NUCLEAR_MASSES.get(M);
-    if (nuclear) throw new DomainError(`${FN}: M_atom must be the mass of the neutral atom, electrons included; ${nuclear}`);
+    if (nuclear)
+      throw new DomainError(`${FN}: M_atom must be the mass of the neutral atom, electrons included; ${nuclear}`);
     if (M < 0.99 * Z * M_U) {
-      throw new DomainError(`${FN}: M_atom = ${M} kg is too light for an atom of atomic number Z = ${Z} (at least 0.99·Z u = ${0.99 * Z * M_U} kg): is it an atomic mass, and are M_atom and Z in their places?`);
+      throw new DomainError(
+        `${FN}: M_atom = ${M} kg is too light for an atom of atomic number Z = ${Z} (at least 0.99·Z u = ${0.99 * Z * M_U} kg): is it an atomic mass, and are M_atom and Z in their places?`,
+      );
     }
     const n = chargeState(q);
     if (n < -1 || n > Z) {
-      throw new DomainError(`${FN}: the charge state q (electrons removed) must be between −1 and Z = ${Z}; got q = ${n}`);
+      throw new DomainError(
+        `${FN}: the charge state q (electrons removed) must be between −1 and Z = ${Z}; got q = ${n}`,
+      );
     }
     let m = sub(dd(M), twoProd(n, M_E));
     if (n === Z) m = add(m, dd((electronBindingEnergyEV(Z) * E_CHARGE) / (C * C)));

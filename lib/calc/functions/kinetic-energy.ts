@@ -30,11 +30,13 @@ export const kineticEnergy: CalcFunction = {
   returns: 'energy',
   doc: {
     summary: 'Kinetic energy (γ − 1)mc² of a body of mass m at speed v, equal to ½mv² to full precision at low speed.',
-    formula: 'T = \\frac{\\beta^2}{s\\,(1+s)}\\,mc^2,\\ s = \\sqrt{(1-\\beta)(1+\\beta)} \\quad\\left(= (\\gamma - 1)\\,mc^2\\right)',
+    formula:
+      'T = \\frac{\\beta^2}{s\\,(1+s)}\\,mc^2,\\ s = \\sqrt{(1-\\beta)(1+\\beta)} \\quad\\left(= (\\gamma - 1)\\,mc^2\\right)',
     domain: 'm > 0 (a body slower than light has mass); |β| < 1. NaN and ±Infinity are refused.',
     example: 'kineticEnergy(m_p, 0.6) to MeV',
     exampleResult: '234.568022 MeV (¼ m_p c²)',
-    source: 'Particle Data Group, Review of Particle Physics (2024), review "Kinematics"; J. D. Jackson, Classical Electrodynamics, 3rd ed. (1999), §11.5.',
+    source:
+      'Particle Data Group, Review of Particle Physics (2024), review "Kinematics"; J. D. Jackson, Classical Electrodynamics, 3rd ed. (1999), §11.5.',
     numerics:
       '(γ − 1) is formed as β²/(s(1 + s)) in double-double (no cancellation), multiplied by m and by c² (exact in double-double) and rounded once: within about half an ulp, and identical to ½mv² to the last digit below β ≈ 1e-8.',
   },

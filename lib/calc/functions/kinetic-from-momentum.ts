@@ -32,11 +32,14 @@ export const kineticFromMomentum: CalcFunction = {
   returns: 'energy',
   doc: {
     summary: 'Kinetic energy of a body of mass m with momentum p.',
-    formula: 'T = \\frac{p^2c^2}{E + mc^2} = pc\\,\\frac{y}{\\sqrt{1+y^2} + 1},\\quad y = \\frac{p}{mc} \\quad\\left(= E - mc^2,\\ E = \\sqrt{p^2c^2 + m^2c^4}\\right)',
-    domain: 'p ≥ 0 and m ≥ 0 (m = 0 is a massless particle: T = pc). NaN and ±Infinity are refused, as is a result outside the double range.',
+    formula:
+      'T = \\frac{p^2c^2}{E + mc^2} = pc\\,\\frac{y}{\\sqrt{1+y^2} + 1},\\quad y = \\frac{p}{mc} \\quad\\left(= E - mc^2,\\ E = \\sqrt{p^2c^2 + m^2c^4}\\right)',
+    domain:
+      'p ≥ 0 and m ≥ 0 (m = 0 is a massless particle: T = pc). NaN and ±Infinity are refused, as is a result outside the double range.',
     example: 'kineticFromMomentum(1 GeV, m_p) to MeV',
     exampleResult: '432.99 MeV (a proton of 1 GeV/c)',
-    source: 'Particle Data Group, Review of Particle Physics (2024), review "Kinematics" (E² = p²c² + m²c⁴, T = E − mc²).',
+    source:
+      'Particle Data Group, Review of Particle Physics (2024), review "Kinematics" (E² = p²c² + m²c⁴, T = E − mc²).',
     numerics:
       'E − mc² loses every digit below p ≈ 1e-8 mc; T = p²c²/(E + mc²), written as pc·y/(√(1 + y²) + 1) with y = p/(mc) so that no square leaves the double range, has no subtraction. Double-double, rounded once (within about half an ulp).',
   },

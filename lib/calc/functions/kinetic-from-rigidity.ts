@@ -29,7 +29,11 @@ export const kineticFromRigidity: CalcFunction = {
   params: [
     { name: 'Brho', kind: 'rigidity', description: 'magnetic rigidity Bρ (field times bending radius)' },
     { name: 'm', kind: 'mass', description: 'rest mass (a mass, or the rest energy mc²)' },
-    { name: 'q', kind: 'charge', description: 'charge of the particle (a charge such as q_e or 6 q_e, or an integer charge number)' },
+    {
+      name: 'q',
+      kind: 'charge',
+      description: 'charge of the particle (a charge such as q_e or 6 q_e, or an integer charge number)',
+    },
   ],
   returns: 'energy',
   doc: {
@@ -41,7 +45,8 @@ export const kineticFromRigidity: CalcFunction = {
     exampleResult: '432.98 MeV (a proton of 1 GeV/c)',
     source:
       'Particle Data Group, Review of Particle Physics (2024), reviews "Kinematics" and "Passage of particles through matter" (Bρ [T m] = 3.3356 p [GeV/c] for unit charge); H. Wiedemann, Particle Accelerator Physics, 4th ed. (2015), ch. 1.',
-    numerics: 'qBρ is an exact (Dekker) product; T = p²c²/(E + mc²) in the cancellation-free form of kineticFromMomentum, double-double, rounded once (within about half an ulp).',
+    numerics:
+      'qBρ is an exact (Dekker) product; T = p²c²/(E + mc²) in the cancellation-free form of kineticFromMomentum, double-double, rounded once (within about half an ulp).',
   },
   kernel: (BrhoArg: KernelArgument, mArg: KernelArgument, qArg: KernelArgument): number => {
     const Brho = requireFinite(FN, 'Brho', BrhoArg as number);

@@ -2,7 +2,13 @@ import { finiteResult, requireFinite } from './support/domain';
 import { round } from './support/double-double';
 import { kineticFromMomentumDD, momentumFromRigidityDD } from './support/kinematics';
 import { perNucleon, requireIonMass, requireMassNumber } from './support/per-nucleon';
-import { A_PARAM, CHARGE_STATE_PARAM, ION_MASS_PARAM, PER_NUCLEON_CONVENTION, PER_NUCLEON_SOURCE } from './support/per-nucleon-docs';
+import {
+  A_PARAM,
+  CHARGE_STATE_PARAM,
+  ION_MASS_PARAM,
+  PER_NUCLEON_CONVENTION,
+  PER_NUCLEON_SOURCE,
+} from './support/per-nucleon-docs';
 import type { CalcFunction, KernelArgument } from './types';
 
 const FN = 'kineticPerNucleonFromRigidity';
@@ -38,12 +44,15 @@ export const kineticPerNucleonFromRigidity: CalcFunction = {
   returns: 'energy',
   doc: {
     summary: `Kinetic energy per nucleon (T/A) of an ion of mass m, mass number A and charge q with magnetic rigidity Bρ. ${PER_NUCLEON_CONVENTION}`,
-    formula: 'T_n = \\frac{T}{A},\\quad T = \\frac{p^2c^2}{E + mc^2},\\quad p = |q\\,B\\rho|,\\ E = \\sqrt{p^2c^2 + m^2c^4}',
-    domain: 'Bρ has the sign of q (Bρ = p/q with p ≥ 0) and may be 0; A an integer 1 … 300 (mass number); m > 0, between 0.99 u and 1.02 u per nucleon (otherwise refused as swapped or mismatched); q ≠ 0 (6 or 6 q_e for C⁶⁺). NaN and ±Infinity are refused.',
+    formula:
+      'T_n = \\frac{T}{A},\\quad T = \\frac{p^2c^2}{E + mc^2},\\quad p = |q\\,B\\rho|,\\ E = \\sqrt{p^2c^2 + m^2c^4}',
+    domain:
+      'Bρ has the sign of q (Bρ = p/q with p ≥ 0) and may be 0; A an integer 1 … 300 (mass number); m > 0, between 0.99 u and 1.02 u per nucleon (otherwise refused as swapped or mismatched); q ≠ 0 (6 or 6 q_e for C⁶⁺). NaN and ±Infinity are refused.',
     example: 'kineticPerNucleonFromRigidity(6.6 T*m, 12, ionMass(M_C12, 6, 6), 6) to MeV',
     exampleResult: '427.42 MeV (per nucleon: the most a 6.6 T m beam line takes of ¹²C⁶⁺)',
     source: PER_NUCLEON_SOURCE,
-    numerics: 'qBρ is an exact (Dekker) product; T = p²c²/(E + mc²) without subtraction as in kineticFromMomentum, in double-double; divided by A; rounded once.',
+    numerics:
+      'qBρ is an exact (Dekker) product; T = p²c²/(E + mc²) without subtraction as in kineticFromMomentum, in double-double; divided by A; rounded once.',
   },
   kernel: (BrhoArg: KernelArgument, A: KernelArgument, m: KernelArgument, qArg: KernelArgument): number => {
     const Brho = requireFinite(FN, 'Brho', BrhoArg as number);

@@ -33,8 +33,10 @@ export const lengthContraction: CalcFunction = {
     domain: 'L0 ≥ 0 (a proper length); |β| < 1. NaN and ±Infinity are refused.',
     example: 'lengthContraction(1 m, 0.6)',
     exampleResult: '0.8 m',
-    source: 'A. Einstein, "Zur Elektrodynamik bewegter Körper", Annalen der Physik 17 (1905), §4; J. D. Jackson, Classical Electrodynamics, 3rd ed. (1999), §11.3.',
-    numerics: '1/γ = √(1 − β²) with 1 − β² formed exactly in double-double, times L0 in double-double, rounded once (within about half an ulp).',
+    source:
+      'A. Einstein, "Zur Elektrodynamik bewegter Körper", Annalen der Physik 17 (1905), §4; J. D. Jackson, Classical Electrodynamics, 3rd ed. (1999), §11.3.',
+    numerics:
+      '1/γ = √(1 − β²) with 1 − β² formed exactly in double-double, times L0 in double-double, rounded once (within about half an ulp).',
   },
   kernel: (L0: KernelArgument, v: KernelArgument): number => {
     requireNonNegative(FN, 'L0', L0 as number, 'm', 'a proper length');

@@ -28,7 +28,8 @@ export const lorentzFactor: CalcFunction = {
     domain: '|β| < 1 (a massive body). NaN and ±Infinity are refused.',
     example: 'gamma = lorentzFactor(0.6)',
     exampleResult: '1.25',
-    source: 'A. Einstein, "Zur Elektrodynamik bewegter Körper", Annalen der Physik 17 (1905), §3; J. D. Jackson, Classical Electrodynamics, 3rd ed. (1999), §11.3.',
+    source:
+      'A. Einstein, "Zur Elektrodynamik bewegter Körper", Annalen der Physik 17 (1905), §3; J. D. Jackson, Classical Electrodynamics, 3rd ed. (1999), §11.3.',
     numerics:
       '1 − β² is formed exactly in double-double arithmetic (Dekker product of β with itself, TwoSum with 1), then the square root and reciprocal are taken in double-double and the result is rounded once: within about half an ulp from β = 1e-12 to 1 − β = 1e-16. The textbook 1 − β·β in doubles loses every digit of 1 − β² near c.',
   },

@@ -23,16 +23,23 @@ export const magneticRigidity: CalcFunction = {
   name: FN,
   params: [
     { name: 'p', kind: 'momentum', description: 'momentum of the particle (a momentum, or pc as an energy)' },
-    { name: 'q', kind: 'charge', description: 'charge of the particle (a charge such as q_e or 6 q_e, or an integer charge number: 1, 6 for C⁶⁺, −1 for an electron)' },
+    {
+      name: 'q',
+      kind: 'charge',
+      description:
+        'charge of the particle (a charge such as q_e or 6 q_e, or an integer charge number: 1, 6 for C⁶⁺, −1 for an electron)',
+    },
   ],
   returns: 'rigidity',
   doc: {
     summary: 'Magnetic rigidity Bρ = p/q: the field times bending radius that keeps the particle on a circle.',
     formula: 'B\\rho = \\frac{p}{q}',
-    domain: 'p ≥ 0 (a momentum magnitude); q ≠ 0, either sign (the sign of Bρ is the bending direction). NaN and ±Infinity are refused.',
+    domain:
+      'p ≥ 0 (a momentum magnitude); q ≠ 0, either sign (the sign of Bρ is the bending direction). NaN and ±Infinity are refused.',
     example: 'Brho = magneticRigidity(momentumFromKinetic(250 MeV, m_p), q_e) to T*m',
     exampleResult: '2.4321 T m',
-    source: 'Lorentz force on a circular orbit, qvB = γmv²/ρ; H. Wiedemann, Particle Accelerator Physics, 4th ed. (2015), ch. 1; Particle Data Group, Review of Particle Physics (2024): Bρ [T m] = 3.3356 p [GeV/c] for unit charge.',
+    source:
+      'Lorentz force on a circular orbit, qvB = γmv²/ρ; H. Wiedemann, Particle Accelerator Physics, 4th ed. (2015), ch. 1; Particle Data Group, Review of Particle Physics (2024): Bρ [T m] = 3.3356 p [GeV/c] for unit charge.',
     numerics: 'One division, correctly rounded.',
   },
   kernel: (p: number, q: number): number => {

@@ -2,7 +2,13 @@ import { finiteResult } from './support/domain';
 import { round } from './support/double-double';
 import { momentumFromKineticDD } from './support/kinematics';
 import { requireIonMass, requireMassNumber, totalKinetic } from './support/per-nucleon';
-import { A_PARAM, ION_MASS_PARAM, PER_NUCLEON_CONVENTION, PER_NUCLEON_SOURCE, TN_PARAM } from './support/per-nucleon-docs';
+import {
+  A_PARAM,
+  ION_MASS_PARAM,
+  PER_NUCLEON_CONVENTION,
+  PER_NUCLEON_SOURCE,
+  TN_PARAM,
+} from './support/per-nucleon-docs';
 import type { CalcFunction, KernelArgument } from './types';
 
 const FN = 'momentumFromKineticPerNucleon';
@@ -32,11 +38,13 @@ export const momentumFromKineticPerNucleon: CalcFunction = {
   doc: {
     summary: `Momentum of an ion from its kinetic energy per nucleon. ${PER_NUCLEON_CONVENTION}`,
     formula: 'p = \\frac{\\sqrt{T}\\,\\sqrt{T + 2mc^2}}{c},\\quad T = A\\,T_n',
-    domain: 'Tn ≥ 0 (per nucleon); A an integer 1 … 300 (mass number); m > 0, between 0.99 u and 1.02 u per nucleon (otherwise refused as swapped or mismatched). NaN and ±Infinity are refused.',
+    domain:
+      'Tn ≥ 0 (per nucleon); A an integer 1 … 300 (mass number); m > 0, between 0.99 u and 1.02 u per nucleon (otherwise refused as swapped or mismatched). NaN and ±Infinity are refused.',
     example: 'momentumFromKineticPerNucleon(430 MeV/u, 12, ionMass(M_C12, 6, 6)) to GeV/c',
     exampleResult: '11.914 GeV/c (¹²C⁶⁺ at 430 MeV/u)',
     source: PER_NUCLEON_SOURCE,
-    numerics: 'A·Tn is an exact (Dekker) product; then √T·√(T + 2mc²)/c in double-double as in momentumFromKinetic (no E² − m²c⁴ cancellation), rounded once.',
+    numerics:
+      'A·Tn is an exact (Dekker) product; then √T·√(T + 2mc²)/c in double-double as in momentumFromKinetic (no E² − m²c⁴ cancellation), rounded once.',
   },
   kernel: (Tn: KernelArgument, A: KernelArgument, m: KernelArgument): number => {
     const a = requireMassNumber(FN, A as number);

@@ -29,11 +29,13 @@ export const momentumFromKinetic: CalcFunction = {
   returns: 'momentum',
   doc: {
     summary: 'Momentum of a body of mass m with kinetic energy T.',
-    formula: 'p = \\frac{\\sqrt{T}\\,\\sqrt{T + 2mc^2}}{c} \\quad\\left(= \\frac{\\sqrt{E^2 - m^2c^4}}{c},\\ E = T + mc^2\\right)',
+    formula:
+      'p = \\frac{\\sqrt{T}\\,\\sqrt{T + 2mc^2}}{c} \\quad\\left(= \\frac{\\sqrt{E^2 - m^2c^4}}{c},\\ E = T + mc^2\\right)',
     domain: 'T ≥ 0 and m ≥ 0 (m = 0 is a massless particle: p = T/c). NaN and ±Infinity are refused.',
     example: 'p = momentumFromKinetic(250 MeV, m_p)',
     exampleResult: '3.8967e-19 kg m/s (729.13 MeV/c)',
-    source: 'Particle Data Group, Review of Particle Physics (2024), review "Kinematics" (E² = p²c² + m²c⁴, E = T + mc²).',
+    source:
+      'Particle Data Group, Review of Particle Physics (2024), review "Kinematics" (E² = p²c² + m²c⁴, E = T + mc²).',
     numerics:
       'The product T(T + 2mc²) replaces E² − m²c⁴, which cancels at small T; taking √T·√(T + 2mc²) keeps every intermediate inside the double range. Double-double throughout (mc² with c² exact), rounded once: within about half an ulp.',
   },

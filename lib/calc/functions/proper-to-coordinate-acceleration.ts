@@ -35,8 +35,10 @@ export const properToCoordinateAcceleration: CalcFunction = {
     domain: 'a0 finite, either sign (its direction along the motion); |β| < 1. NaN and ±Infinity are refused.',
     example: 'properToCoordinateAcceleration(q_e * 1 MV/m / m_e, 0.6)',
     exampleResult: '9.0052e16 m/s^2 (an electron at 0.6 c pushed along its motion by a 1 MV/m field)',
-    source: 'W. Rindler, Relativity: Special, General, and Cosmological, 2nd ed. (2006), ch. 3 (transformation of acceleration, proper acceleration); J. D. Jackson, Classical Electrodynamics, 3rd ed. (1999), ch. 11.',
-    numerics: '1/γ³ = (1 − β²)·√(1 − β²) with 1 − β² formed exactly in double-double, times a0, rounded once (within about half an ulp).',
+    source:
+      'W. Rindler, Relativity: Special, General, and Cosmological, 2nd ed. (2006), ch. 3 (transformation of acceleration, proper acceleration); J. D. Jackson, Classical Electrodynamics, 3rd ed. (1999), ch. 11.',
+    numerics:
+      '1/γ³ = (1 − β²)·√(1 − β²) with 1 − β² formed exactly in double-double, times a0, rounded once (within about half an ulp).',
   },
   kernel: (a0: KernelArgument, v: KernelArgument): number => {
     requireFinite(FN, 'a0', a0 as number);

@@ -28,7 +28,8 @@ export const rapidity: CalcFunction = {
     domain: '|β| < 1 (a massive body). NaN and ±Infinity are refused.',
     example: 'rapidity(0.6)',
     exampleResult: '0.693147180559945 (= ln 2)',
-    source: 'J. D. Jackson, Classical Electrodynamics, 3rd ed. (1999), §11.3 (boost parameter, tanh ζ = β); Particle Data Group, Review of Particle Physics (2024), review "Kinematics".',
+    source:
+      'J. D. Jackson, Classical Electrodynamics, 3rd ed. (1999), §11.3 (boost parameter, tanh ζ = β); Particle Data Group, Review of Particle Physics (2024), review "Kinematics".',
     numerics:
       'Evaluated in double-double: the odd series β + β³/3 + … below |β| = 0.01, ½ log1p(2β/(1 − β)) above it with 1 − β formed exactly (a Newton step on a double-double exponential gives the logarithm). Rounded once: within about half an ulp up to 1 − β = 1e-16.',
   },

@@ -31,13 +31,16 @@ export const relativisticVoltage: CalcFunction = {
   params: [{ name: 'U', kind: 'voltage', description: 'accelerating potential difference' }],
   returns: 'voltage',
   doc: {
-    summary: 'Relativistically corrected accelerating voltage U* = U(1 + eU/(2mₑc²)) of an electron (so that p = √(2mₑeU*)).',
+    summary:
+      'Relativistically corrected accelerating voltage U* = U(1 + eU/(2mₑc²)) of an electron (so that p = √(2mₑeU*)).',
     formula: 'U^{*} = U\\left(1 + \\frac{eU}{2m_ec^2}\\right)',
     domain: 'U ≥ 0. NaN and ±Infinity are refused; a result beyond the double range is refused.',
     example: 'relativisticVoltage(200 kV)',
     exampleResult: '239.14 kV',
-    source: 'L. Reimer & H. Kohl, Transmission Electron Microscopy, 5th ed. (2008), §2.1. Constants: e exact (SI 2019), mₑ CODATA 2022.',
-    numerics: 'eU/(2mₑc²) with e and mₑ at their decimal values, and U(1 + eU/(2mₑc²)), in double-double; rounded once.',
+    source:
+      'L. Reimer & H. Kohl, Transmission Electron Microscopy, 5th ed. (2008), §2.1. Constants: e exact (SI 2019), mₑ CODATA 2022.',
+    numerics:
+      'eU/(2mₑc²) with e and mₑ at their decimal values, and U(1 + eU/(2mₑc²)), in double-double; rounded once.',
   },
   kernel: (U: number): number => {
     requireNonNegative(FN, 'U', U, 'V', 'an accelerating voltage');

@@ -31,7 +31,8 @@ export const rindlerHorizonDistance: CalcFunction = {
     domain: 'a0 > 0 (the magnitude of the proper acceleration). NaN and ±Infinity are refused.',
     example: 'rindlerHorizonDistance(q_e * 1 MV/m / m_e) to mm',
     exampleResult: '510.999 mm (m_e c²/(eE) for an electron in a uniform 1 MV/m field)',
-    source: 'W. Rindler, Relativity: Special, General, and Cosmological, 2nd ed. (2006), ch. 3 and ch. 12 (Rindler coordinates); C. W. Misner, K. S. Thorne, J. A. Wheeler, Gravitation (1973), §6.2–6.3.',
+    source:
+      'W. Rindler, Relativity: Special, General, and Cosmological, 2nd ed. (2006), ch. 3 and ch. 12 (Rindler coordinates); C. W. Misner, K. S. Thorne, J. A. Wheeler, Gravitation (1973), §6.2–6.3.',
     numerics: 'c² is exact in double-double; one division, rounded once (within about half an ulp).',
   },
   kernel: (a0: number): number => {

@@ -52,17 +52,23 @@ const FN = 'rocketDeltaV';
 export const rocketDeltaV: CalcFunction = {
   name: FN,
   params: [
-    { name: 've', kind: 'speed', description: 'exhaust speed relative to the rocket (a velocity, or β); c for a photon rocket' },
+    {
+      name: 've',
+      kind: 'speed',
+      description: 'exhaust speed relative to the rocket (a velocity, or β); c for a photon rocket',
+    },
     { name: 'R', kind: 'number', description: 'mass ratio: initial mass / final mass, ≥ 1' },
   ],
   returns: 'speed',
   doc: {
     summary: 'Speed gained from rest by a rocket of exhaust speed ve and mass ratio R (relativistic rocket equation).',
     formula: '\\Delta\\beta = \\tanh(\\beta_e \\ln R) = \\frac{E}{E+2},\\ E = R^{2\\beta_e} - 1',
-    domain: '0 ≤ β_e ≤ 1 (1: a photon rocket, Δβ = (R² − 1)/(R² + 1)); R ≥ 1 (initial mass / final mass). NaN and ±Infinity are refused. The result stays below c: when it rounds to c the largest double below 1 is returned. The result is a plain β when ve is a plain number (β), as speeds read plain numbers; with ve a velocity it is a velocity.',
+    domain:
+      '0 ≤ β_e ≤ 1 (1: a photon rocket, Δβ = (R² − 1)/(R² + 1)); R ≥ 1 (initial mass / final mass). NaN and ±Infinity are refused. The result stays below c: when it rounds to c the largest double below 1 is returned. The result is a plain β when ve is a plain number (β), as speeds read plain numbers; with ve a velocity it is a velocity.',
     example: 'rocketDeltaV(0.1, 10)',
     exampleResult: '0.22627 (a plain β, as ve is one; rocketDeltaV(0.1 c, 10) gives 6.7835e7 m/s)',
-    source: 'J. Ackeret, "Zur Theorie der Raketen", Helvetica Physica Acta 19 (1946) 103; W. Rindler, Relativity: Special, General, and Cosmological, 2nd ed. (2006), ch. 6.',
+    source:
+      'J. Ackeret, "Zur Theorie der Raketen", Helvetica Physica Acta 19 (1946) 103; W. Rindler, Relativity: Special, General, and Cosmological, 2nd ed. (2006), ch. 6.',
     numerics:
       'ln R = log1p(R − 1) with R − 1 formed exactly, times β_e, and expm1 of twice that, all in double-double (Taylor series and doublings that keep relative accuracy near 0); Δβ = E/(E + 2) has no subtraction. Rounded once (within about half an ulp).',
   },

@@ -39,7 +39,8 @@ export const slipFactor: CalcFunction = {
   returns: 'number',
   doc: {
     summary: 'Phase-slip factor η = α_c − 1/γ² of a ring (ΔT/T = η Δp/p, Δf/f = −η Δp/p: negative below transition).',
-    formula: '\\eta = \\alpha_c - \\frac{1}{\\gamma^2} = \\frac{1}{\\gamma_t^2} - \\frac{1}{\\gamma^2},\\qquad \\frac{\\Delta T}{T} = \\eta\\,\\frac{\\Delta p}{p},\\ \\frac{\\Delta f}{f} = -\\eta\\,\\frac{\\Delta p}{p}',
+    formula:
+      '\\eta = \\alpha_c - \\frac{1}{\\gamma^2} = \\frac{1}{\\gamma_t^2} - \\frac{1}{\\gamma^2},\\qquad \\frac{\\Delta T}{T} = \\eta\\,\\frac{\\Delta p}{p},\\ \\frac{\\Delta f}{f} = -\\eta\\,\\frac{\\Delta p}{p}',
     domain:
       'α_c finite, either sign (negative momentum compaction is allowed); γ ≥ 1. NaN and ±Infinity are refused. Sign convention: η = α_c − 1/γ², negative below transition (as in S. Y. Lee, Accelerator Physics); texts that write η_c = 1/γ² − α_c (e.g. H. Wiedemann, Particle Accelerator Physics) have the opposite sign.',
     example: 'slipFactor(3.225e-4, 450 GeV / (m_p * c^2))',

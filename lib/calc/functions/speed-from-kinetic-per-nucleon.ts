@@ -1,6 +1,12 @@
 import { speedFromKineticDD, speedValue } from './support/kinematics';
 import { requireIonMass, requireMassNumber, totalKinetic } from './support/per-nucleon';
-import { A_PARAM, ION_MASS_PARAM, PER_NUCLEON_CONVENTION, PER_NUCLEON_SOURCE, TN_PARAM } from './support/per-nucleon-docs';
+import {
+  A_PARAM,
+  ION_MASS_PARAM,
+  PER_NUCLEON_CONVENTION,
+  PER_NUCLEON_SOURCE,
+  TN_PARAM,
+} from './support/per-nucleon-docs';
 import type { CalcFunction, KernelArgument, PreciseSpeed } from './types';
 
 const FN = 'speedFromKineticPerNucleon';
@@ -37,11 +43,13 @@ export const speedFromKineticPerNucleon: CalcFunction = {
   doc: {
     summary: `Speed of an ion from its kinetic energy per nucleon. ${PER_NUCLEON_CONVENTION}`,
     formula: '\\beta = \\frac{\\sqrt{x\\,(x+2)}}{x+1},\\quad x = \\frac{A\\,T_n}{mc^2}',
-    domain: 'Tn ≥ 0 (per nucleon); A an integer 1 … 300 (mass number); m > 0, between 0.99 u and 1.02 u per nucleon (otherwise refused as swapped or mismatched). NaN and ±Infinity are refused.',
+    domain:
+      'Tn ≥ 0 (per nucleon); A an integer 1 … 300 (mass number); m > 0, between 0.99 u and 1.02 u per nucleon (otherwise refused as swapped or mismatched). NaN and ±Infinity are refused.',
     example: 'speedFromKineticPerNucleon(430 MeV/u, 12, ionMass(M_C12, 6, 6))',
     exampleResult: '2.1866e8 m/s (β = 0.72938)',
     source: PER_NUCLEON_SOURCE,
-    numerics: 'A·Tn is an exact (Dekker) product; then the subtraction-free β of speedFromKinetic in double-double, rounded once, with its precise companion (β and 1/γ in double-double) for exact composition.',
+    numerics:
+      'A·Tn is an exact (Dekker) product; then the subtraction-free β of speedFromKinetic in double-double, rounded once, with its precise companion (β and 1/γ in double-double) for exact composition.',
   },
   kernel: (Tn: KernelArgument, A: KernelArgument, m: KernelArgument): number => speedValue(precise(Tn, A, m)),
   preciseKernel: precise,

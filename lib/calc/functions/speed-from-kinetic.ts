@@ -7,7 +7,10 @@ function precise(TArg: KernelArgument, mArg: KernelArgument): PreciseSpeed | num
   const T = requireNonNegative(FN, 'T', TArg as number, 'J', 'a kinetic energy');
   const m = requireNonNegative(FN, 'm', mArg as number, 'kg', 'a rest mass');
   if (m === 0) {
-    if (T === 0) throw new DomainError(`${FN}: the speed of a massless particle with no energy is undefined; got T = 0 J, m = 0 kg`);
+    if (T === 0)
+      throw new DomainError(
+        `${FN}: the speed of a massless particle with no energy is undefined; got T = 0 J, m = 0 kg`,
+      );
     return { beta: [1, 0], inverseGamma: [0, 0] };
   }
   // β = √(x(x + 2))/(x + 1) and 1/γ = 1/(1 + x), x = (T/m)/c²: the companion keeps γ exactly as T/mc² gives it.
@@ -43,7 +46,8 @@ export const speedFromKinetic: CalcFunction = {
   returns: 'speed',
   doc: {
     summary: 'Speed of a body of mass m with kinetic energy T.',
-    formula: '\\beta = \\frac{\\sqrt{x\\,(x+2)}}{x+1},\\quad x = \\frac{T}{mc^2} \\quad\\left(= \\sqrt{1 - 1/\\gamma^2},\\ \\gamma = 1 + x\\right)',
+    formula:
+      '\\beta = \\frac{\\sqrt{x\\,(x+2)}}{x+1},\\quad x = \\frac{T}{mc^2} \\quad\\left(= \\sqrt{1 - 1/\\gamma^2},\\ \\gamma = 1 + x\\right)',
     domain:
       'T ≥ 0 and m ≥ 0; m = 0 gives c for T > 0, and T = m = 0 is refused. NaN and ±Infinity are refused. Above T/mc² ≈ 6.7e7 the exact β is within half an ulp of 1 and the largest double below 1 is returned: a speed cannot carry more than that, so work with energies or momenta for such beams.',
     example: 'speedFromKinetic(250 MeV, m_p)',

@@ -10,7 +10,10 @@ function precise(pArg: KernelArgument, mArg: KernelArgument): PreciseSpeed | num
   const p = requireNonNegative(FN, 'p', pArg as number, 'kg m/s', 'a momentum magnitude');
   const m = requireNonNegative(FN, 'm', mArg as number, 'kg', 'a rest mass');
   if (m === 0) {
-    if (p === 0) throw new DomainError(`${FN}: the speed of a massless particle with no momentum is undefined; got p = 0 kg m/s, m = 0 kg`);
+    if (p === 0)
+      throw new DomainError(
+        `${FN}: the speed of a massless particle with no momentum is undefined; got p = 0 kg m/s, m = 0 kg`,
+      );
     return { beta: [1, 0], inverseGamma: [0, 0] };
   }
   // y = βγ = p/(mc); β = y/√(1 + y²) and 1/γ = 1/√(1 + y²), without cancellation or overflow.
@@ -48,7 +51,8 @@ export const speedFromMomentum: CalcFunction = {
   returns: 'speed',
   doc: {
     summary: 'Speed of a body of mass m with momentum p.',
-    formula: '\\beta = \\frac{y}{\\sqrt{1 + y^2}},\\quad y = \\beta\\gamma = \\frac{p}{mc} \\quad\\left(= \\frac{pc}{E},\\ E = \\sqrt{p^2c^2 + m^2c^4}\\right)',
+    formula:
+      '\\beta = \\frac{y}{\\sqrt{1 + y^2}},\\quad y = \\beta\\gamma = \\frac{p}{mc} \\quad\\left(= \\frac{pc}{E},\\ E = \\sqrt{p^2c^2 + m^2c^4}\\right)',
     domain:
       'p ≥ 0 and m ≥ 0; m = 0 gives c for p > 0, and p = m = 0 is refused. NaN and ±Infinity are refused. A speed that rounds to c is returned as the largest double below 1, with its precise companion: lorentzFactor of the result is still exact.',
     example: 'speedFromMomentum(1 GeV, m_p)',

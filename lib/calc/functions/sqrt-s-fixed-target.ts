@@ -35,11 +35,14 @@ export const sqrtSFixedTarget: CalcFunction = {
   returns: 'energy',
   doc: {
     summary: 'Centre-of-mass energy √s of a beam of kinetic energy T on a target particle at rest.',
-    formula: '\\sqrt{s} = \\sqrt{(m_a c^2 + m_b c^2)^2 + 2\\,m_b c^2\\,T} \\quad\\left(s = m_a^2c^4 + m_b^2c^4 + 2E_a m_b c^2\\right)',
-    domain: 'T ≥ 0; mBeam ≥ 0 (0 for a photon beam); mTarget > 0 (a target at rest has mass). NaN and ±Infinity are refused.',
+    formula:
+      '\\sqrt{s} = \\sqrt{(m_a c^2 + m_b c^2)^2 + 2\\,m_b c^2\\,T} \\quad\\left(s = m_a^2c^4 + m_b^2c^4 + 2E_a m_b c^2\\right)',
+    domain:
+      'T ≥ 0; mBeam ≥ 0 (0 for a photon beam); mTarget > 0 (a target at rest has mass). NaN and ±Infinity are refused.',
     example: 'sqrtSFixedTarget(450 GeV, m_p, m_p) to GeV',
     exampleResult: '29.1199 GeV',
-    source: 'Particle Data Group, Review of Particle Physics (2024), review "Kinematics"; R. Hagedorn, Relativistic Kinematics (1963), ch. 7.',
+    source:
+      'Particle Data Group, Review of Particle Physics (2024), review "Kinematics"; R. Hagedorn, Relativistic Kinematics (1963), ch. 7.',
     numerics:
       'In terms of the kinetic energy every term is positive, so there is no cancellation at low T; the energies are scaled by a power of two before squaring so no intermediate overflows; double-double, rounded once (within about half an ulp).',
   },

@@ -40,10 +40,12 @@ export const synchrotronCriticalEnergy: CalcFunction = {
   doc: {
     summary: 'Critical photon energy ε_c = (3/2)ħcγ³/ρ of synchrotron radiation (half the power is radiated above it).',
     formula: '\\varepsilon_c = \\frac{3}{2}\\,\\frac{\\hbar c\\,\\gamma^3}{\\rho},\\quad \\gamma = \\frac{E}{mc^2}',
-    domain: 'm > 0; E ≥ mc² (total energy); ρ > 0. NaN and ±Infinity are refused; a result beyond the double range is refused. Ultra-relativistic form: for γ of a few it is not the characteristic energy of the spectrum.',
+    domain:
+      'm > 0; E ≥ mc² (total energy); ρ > 0. NaN and ±Infinity are refused; a result beyond the double range is refused. Ultra-relativistic form: for γ of a few it is not the characteristic energy of the spectrum.',
     example: 'synchrotronCriticalEnergy(3 GeV, 7 m, m_e) to keV',
     exampleResult: '8.5562 keV',
-    source: 'J. D. Jackson, Classical Electrodynamics, 3rd ed. (1999), §14.6; H. Wiedemann, Particle Accelerator Physics, 4th ed. (2015), ch. 24. Constants h and c exact (SI 2019).',
+    source:
+      'J. D. Jackson, Classical Electrodynamics, 3rd ed. (1999), §14.6; H. Wiedemann, Particle Accelerator Physics, 4th ed. (2015), ch. 24. Constants h and c exact (SI 2019).',
     numerics: 'γ = E/(mc²) and γ³ in double-double, (3/2)ħc from the defined h and c; rounded once.',
   },
   kernel: (E: number, rho: number, m: number): number => {
@@ -51,7 +53,10 @@ export const synchrotronCriticalEnergy: CalcFunction = {
     requirePositive(FN, 'rho', rho, 'm', 'a bending radius');
     requirePositive(FN, 'E', E, 'J', 'a total energy');
     const rest = restEnergy(m);
-    if (E < rest[0] * (1 - ROUNDING_ALLOWANCE)) throw new DomainError(`${FN}: E is the total energy and must be at least the rest energy mc² = ${rest[0]} J; got E = ${E} J`);
+    if (E < rest[0] * (1 - ROUNDING_ALLOWANCE))
+      throw new DomainError(
+        `${FN}: E is the total energy and must be at least the rest energy mc² = ${rest[0]} J; got E = ${E} J`,
+      );
     const gamma = div(dd(E), rest);
     const g3 = mul(mul(gamma, gamma), gamma);
     return finiteResult(FN, round(div(mul(THREE_HALVES_HBAR_C, g3), dd(rho))));

@@ -43,7 +43,8 @@ export const synchrotronLossPerTurn: CalcFunction = {
   ],
   returns: 'energy',
   doc: {
-    summary: 'Energy radiated per turn by a singly charged particle of total energy E on an isomagnetic ring of bending radius ρ.',
+    summary:
+      'Energy radiated per turn by a singly charged particle of total energy E on an isomagnetic ring of bending radius ρ.',
     formula:
       'U_0 = \\frac{e^2}{3\\varepsilon_0\\rho}\\,(\\beta\\gamma)^3\\,\\gamma,\\ (\\beta\\gamma)^2 = (\\gamma-1)(\\gamma+1),\\ \\gamma = \\frac{E}{mc^2} \\quad\\left(= \\frac{e^2\\beta^3\\gamma^4}{3\\varepsilon_0\\rho}\\right)',
     domain:
@@ -63,7 +64,9 @@ export const synchrotronLossPerTurn: CalcFunction = {
     let excess = sub(dd(E), M);
     if (excess[0] < 0) {
       if (-excess[0] > ROUNDING_ALLOWANCE * E) {
-        throw new DomainError(`${FN}: the total energy E must be at least the rest energy mc² (${round(M)} J); got E = ${E} J`);
+        throw new DomainError(
+          `${FN}: the total energy E must be at least the rest energy mc² (${round(M)} J); got E = ${E} J`,
+        );
       }
       // E entered as m·c² may round an ulp below the exact product: read it as a particle at rest.
       excess = [0, 0];

@@ -30,7 +30,11 @@ export const thresholdKinetic: CalcFunction = {
   params: [
     { name: 'mBeam', kind: 'mass', description: 'rest mass of the beam particle (a mass, or mc²); 0 for a photon' },
     { name: 'mTarget', kind: 'mass', description: 'rest mass of the target particle at rest (a mass, or mc²)' },
-    { name: 'mProducts', kind: 'mass', description: 'SUM of the rest masses of all final-state particles (a mass, or an energy)' },
+    {
+      name: 'mProducts',
+      kind: 'mass',
+      description: 'SUM of the rest masses of all final-state particles (a mass, or an energy)',
+    },
   ],
   returns: 'energy',
   doc: {
@@ -41,7 +45,8 @@ export const thresholdKinetic: CalcFunction = {
       'mBeam ≥ 0 (0 for a photon); mTarget > 0; mProducts ≥ 0 is the SUM of the final-state masses. When it does not exceed mBeam + mTarget the reaction has no threshold and 0 is returned. NaN and ±Infinity are refused.',
     example: 'thresholdKinetic(m_p, m_p, 4 m_p) to GeV',
     exampleResult: '5.6296 GeV (antiproton production p p → p p p p̄, 6 m_p c²)',
-    source: 'Particle Data Group, Review of Particle Physics (2024), review "Kinematics"; R. Hagedorn, Relativistic Kinematics (1963), ch. 7.',
+    source:
+      'Particle Data Group, Review of Particle Physics (2024), review "Kinematics"; R. Hagedorn, Relativistic Kinematics (1963), ch. 7.',
     numerics:
       'The difference of squares is factored, and the mass excess M_f − M_a − M_b is taken in double-double from exact products with c², so a small Q value over large masses keeps its digits; rounded once (within about half an ulp).',
   },

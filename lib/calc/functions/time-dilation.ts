@@ -33,8 +33,10 @@ export const timeDilation: CalcFunction = {
     domain: 'Δτ ≥ 0 (an elapsed proper time); |β| < 1. NaN and ±Infinity are refused.',
     example: 'timeDilation(2.1969811 us, 0.8)',
     exampleResult: '3.66163517e-6 s (a muon mean life seen at 0.8 c)',
-    source: 'A. Einstein, "Zur Elektrodynamik bewegter Körper", Annalen der Physik 17 (1905), §4; J. D. Jackson, Classical Electrodynamics, 3rd ed. (1999), §11.3.',
-    numerics: 'γ is formed in double-double with 1 − β² exact, multiplied by Δτ in double-double and rounded once (within about half an ulp).',
+    source:
+      'A. Einstein, "Zur Elektrodynamik bewegter Körper", Annalen der Physik 17 (1905), §4; J. D. Jackson, Classical Electrodynamics, 3rd ed. (1999), §11.3.',
+    numerics:
+      'γ is formed in double-double with 1 − β² exact, multiplied by Δτ in double-double and rounded once (within about half an ulp).',
   },
   kernel: (dtau: KernelArgument, v: KernelArgument): number => {
     requireNonNegative(FN, 'dtau', dtau as number, 's', 'an elapsed proper time');

@@ -34,10 +34,12 @@ export const timeOfFlight: CalcFunction = {
   doc: {
     summary: 'Time taken by a body of mass m and kinetic energy T to travel the distance L.',
     formula: 't = \\frac{L}{\\beta c} = \\frac{L}{c}\\,\\frac{x+1}{\\sqrt{x}\\,\\sqrt{x+2}},\\quad x = \\frac{T}{mc^2}',
-    domain: 'L ≥ 0, T ≥ 0, m ≥ 0; m = 0 gives L/c. A body at rest (T = 0, m > 0) never arrives and is refused, as are T = m = 0, NaN and ±Infinity.',
+    domain:
+      'L ≥ 0, T ≥ 0, m ≥ 0; m = 0 gives L/c. A body at rest (T = 0, m > 0) never arrives and is refused, as are T = m = 0, NaN and ±Infinity.',
     example: 'timeOfFlight(10 m, 250 MeV, m_p) to ns',
     exampleResult: '54.361 ns',
-    source: 'Definition t = L/v with β from the kinetic energy: Particle Data Group, Review of Particle Physics (2024), review "Kinematics".',
+    source:
+      'Definition t = L/v with β from the kinetic energy: Particle Data Group, Review of Particle Physics (2024), review "Kinematics".',
     numerics:
       '1/β = (x + 1)/(√x·√(x + 2)) in double-double, with x = T/(mc²): no cancellation at low energy, and no loss at high energy, where L/(βc) with a rounded β would keep none of the digits of 1/β − 1; rounded once (within about half an ulp).',
   },

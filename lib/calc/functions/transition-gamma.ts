@@ -32,7 +32,8 @@ export const transitionGamma: CalcFunction = {
     domain: 'α_c > 0 (with α_c ≤ 0 there is no transition energy). NaN and ±Infinity are refused.',
     example: 'transitionGamma(3.225e-4)',
     exampleResult: '55.685 (an LHC-like ring: α_c = 3.225e-4)',
-    source: 'S. Y. Lee, Accelerator Physics, 3rd ed. (2012), ch. 3 (γ_t = 1/√α_c); LHC Design Report, CERN-2004-003, vol. I (α_c = 3.225e-4, γ_t = 55.68).',
+    source:
+      'S. Y. Lee, Accelerator Physics, 3rd ed. (2012), ch. 3 (γ_t = 1/√α_c); LHC Design Report, CERN-2004-003, vol. I (α_c = 3.225e-4, γ_t = 55.68).',
     numerics: '√α_c and its reciprocal in double-double, rounded once (within about half an ulp).',
   },
   kernel: (alphaArg: number): number => {

@@ -35,8 +35,10 @@ export const transverseCoordinateAcceleration: CalcFunction = {
     domain: 'a0 finite, either sign; |β| < 1. NaN and ±Infinity are refused.',
     example: 'transverseCoordinateAcceleration(q_e * 1 MV/m / m_e, 0.6)',
     exampleResult: '1.1256e17 m/s^2 (an electron at 0.6 c in a 1 MV/m field across its motion, as seen in the lab)',
-    source: 'W. Rindler, Relativity: Special, General, and Cosmological, 2nd ed. (2006), ch. 3 (transformation of acceleration); J. D. Jackson, Classical Electrodynamics, 3rd ed. (1999), ch. 11.',
-    numerics: '1 − β² is formed exactly in double-double (the textbook 1 − β·β loses it near c), times a0, rounded once (within about half an ulp).',
+    source:
+      'W. Rindler, Relativity: Special, General, and Cosmological, 2nd ed. (2006), ch. 3 (transformation of acceleration); J. D. Jackson, Classical Electrodynamics, 3rd ed. (1999), ch. 11.',
+    numerics:
+      '1 − β² is formed exactly in double-double (the textbook 1 − β·β loses it near c), times a0, rounded once (within about half an ulp).',
   },
   kernel: (a0: KernelArgument, v: KernelArgument): number => {
     requireFinite(FN, 'a0', a0 as number);

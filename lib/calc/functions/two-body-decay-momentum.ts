@@ -35,11 +35,13 @@ export const twoBodyDecayMomentum: CalcFunction = {
   doc: {
     summary: 'Momentum p* of each product of a two-body decay M → m1 + m2, in the rest frame of M.',
     formula: 'p^{*} = \\frac{c\\,\\sqrt{\\left(M^2 - (m_1 + m_2)^2\\right)\\left(M^2 - (m_1 - m_2)^2\\right)}}{2M}',
-    domain: 'M > 0; m1, m2 ≥ 0 (masses, or rest energies); M ≥ m1 + m2. NaN and ±Infinity are refused; a result beyond the double range is refused.',
+    domain:
+      'M > 0; m1, m2 ≥ 0 (masses, or rest energies); M ≥ m1 + m2. NaN and ±Infinity are refused; a result beyond the double range is refused.',
     example: 'twoBodyDecayMomentum(139.57039 MeV, 105.6583755 MeV, 0 MeV) to MeV/c',
     exampleResult: '29.792 MeV/c (π⁺ → μ⁺ν_μ)',
     source: 'PDG Review of Particle Physics, "Kinematics", §49.4.2 (two-body decays).',
-    numerics: 'The four factors (M ∓ m1 ∓ m2) in double-double, so a decay just above threshold keeps its digits; product, root and the division by 2M in double-double; rounded once.',
+    numerics:
+      'The four factors (M ∓ m1 ∓ m2) in double-double, so a decay just above threshold keeps its digits; product, root and the division by 2M in double-double; rounded once.',
   },
   kernel: (M: number, m1: number, m2: number): number => {
     requirePositive(FN, 'M', M, 'kg', 'the mass of the decaying particle');
@@ -48,7 +50,8 @@ export const twoBodyDecayMomentum: CalcFunction = {
     const sum = add(dd(m1), dd(m2));
     const difference = sub(dd(m1), dd(m2));
     const below = sub(dd(M), sum);
-    if (below[0] < 0) throw new DomainError(`${FN}: the decay is not allowed: M = ${M} kg is below m1 + m2 = ${m1 + m2} kg`);
+    if (below[0] < 0)
+      throw new DomainError(`${FN}: the decay is not allowed: M = ${M} kg is below m1 + m2 = ${m1 + m2} kg`);
     const product = mul(mul(below, add(dd(M), sum)), mul(sub(dd(M), difference), add(dd(M), difference)));
     const p = div(mul(sqrt(product), C_DD), mulNum(dd(M), 2));
     return finiteResult(FN, round(p));

@@ -34,13 +34,17 @@ export const wavelengthFromKinetic: CalcFunction = {
   ],
   returns: 'length',
   doc: {
-    summary: 'de Broglie wavelength h/p of a particle of mass m and kinetic energy T (any particle; m = 0 for a photon).',
+    summary:
+      'de Broglie wavelength h/p of a particle of mass m and kinetic energy T (any particle; m = 0 for a photon).',
     formula: '\\lambda = \\frac{h}{p} = \\frac{hc}{\\sqrt{T\\,(T + 2mc^2)}}',
-    domain: 'T > 0; m ≥ 0 (a mass, or an energy read as mc²). NaN and ±Infinity are refused; a result beyond the double range is refused.',
+    domain:
+      'T > 0; m ≥ 0 (a mass, or an energy read as mc²). NaN and ±Infinity are refused; a result beyond the double range is refused.',
     example: 'wavelengthFromKinetic(25.3 meV, m_n) to nm',
     exampleResult: '0.17982 nm (1.7982 Å: a thermal neutron)',
-    source: 'L. de Broglie (1924); PDG Review of Particle Physics, "Kinematics" (pc = √(T(T + 2mc²))); G. L. Squires, Introduction to the Theory of Thermal Neutron Scattering (1978), ch. 1. Constant: h exact (SI 2019).',
-    numerics: '√T·√(T + 2mc²) in double-double (a tiny T does not underflow), h at its defined value; rounded once. For an electron it equals electronWavelength(T/e).',
+    source:
+      'L. de Broglie (1924); PDG Review of Particle Physics, "Kinematics" (pc = √(T(T + 2mc²))); G. L. Squires, Introduction to the Theory of Thermal Neutron Scattering (1978), ch. 1. Constant: h exact (SI 2019).',
+    numerics:
+      '√T·√(T + 2mc²) in double-double (a tiny T does not underflow), h at its defined value; rounded once. For an electron it equals electronWavelength(T/e).',
   },
   kernel: (T: number, m: number): number => {
     requirePositive(FN, 'T', T, 'J', 'a kinetic energy');

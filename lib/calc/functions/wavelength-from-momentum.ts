@@ -30,7 +30,8 @@ export const wavelengthFromMomentum: CalcFunction = {
   doc: {
     summary: 'de Broglie wavelength h/p of a particle of momentum p (a photon: give its energy, read as pc).',
     formula: '\\lambda = \\frac{h}{p}',
-    domain: 'p > 0 (a momentum, or an energy read as pc). NaN and ±Infinity are refused; a result beyond the double range is refused. A kinetic energy is not a momentum: use wavelengthFromKinetic(T, m).',
+    domain:
+      'p > 0 (a momentum, or an energy read as pc). NaN and ±Infinity are refused; a result beyond the double range is refused. A kinetic energy is not a momentum: use wavelengthFromKinetic(T, m).',
     example: 'wavelengthFromMomentum(1 eV) to nm',
     exampleResult: '1239.8 nm (a photon of 1 eV)',
     source: 'L. de Broglie (1924); CODATA 2022: hc = 1.239 841 984… × 10⁻⁶ eV·m (exact from h, c and e).',

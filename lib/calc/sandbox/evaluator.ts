@@ -130,7 +130,12 @@ class ResultTooLarge extends Error {
 class EvaluationThread {
   private readonly thread: LimitedWorker<WorkerReply>;
   private readonly progress = new Int32Array(new SharedArrayBuffer(4 * PROGRESS_SLOTS));
-  private current: { request: EvaluateRequest; resolve: (r: SheetResult) => void; reject: (e: Error) => void; timer: NodeJS.Timeout | null } | null = null;
+  private current: {
+    request: EvaluateRequest;
+    resolve: (r: SheetResult) => void;
+    reject: (e: Error) => void;
+    timer: NodeJS.Timeout | null;
+  } | null = null;
 
   constructor(
     readonly index: number,
@@ -168,7 +173,14 @@ class EvaluationThread {
       Atomics.store(this.progress, PROGRESS_CELL, -1);
       this.current = { request, resolve, reject, timer: null };
       this.current.timer = setTimeout(
-        () => this.fail(new LimitExceeded(this.runningCell(), `stopped after ${this.options.timeoutMs / 1000} s: this cell takes longer than the time limit`, true)),
+        () =>
+          this.fail(
+            new LimitExceeded(
+              this.runningCell(),
+              `stopped after ${this.options.timeoutMs / 1000} s: this cell takes longer than the time limit`,
+              true,
+            ),
+          ),
         this.options.timeoutMs,
       );
       // A busy worker keeps its host process alive; an idle one does not.
@@ -262,7 +274,10 @@ export class SandboxedEvaluator {
     this.threads = Array.from({ length: Math.max(1, options.workers) }, (_, i) => new EvaluationThread(i, options));
     this.idle = new Set(this.threads);
     this.perUserInFlight = Math.max(1, options.perUserInFlight ?? 2);
-    this.perUserRunning = Math.max(1, Math.min(this.perUserInFlight, options.perUserRunning ?? this.threads.length - 1));
+    this.perUserRunning = Math.max(
+      1,
+      Math.min(this.perUserInFlight, options.perUserRunning ?? this.threads.length - 1),
+    );
     this.perUserSaves = Math.max(1, options.perUserSaves ?? 4);
     this.maxQueued = Math.max(1, options.maxQueued ?? 4 * this.threads.length);
     this.maxStatements = options.maxStatements ?? DEFAULT_MAX_STATEMENTS;
@@ -274,7 +289,11 @@ export class SandboxedEvaluator {
    * Evaluates a sheet. `context` says who asks and for what (a bare string is the affinity, as for a
    * caller with no user: no per-user budget, its own cache scope).
    */
-  async evaluate(cells: CellInput[], options: EvaluateOptions, context: string | EvaluationContext = {}): Promise<SheetResult> {
+  async evaluate(
+    cells: CellInput[],
+    options: EvaluateOptions,
+    context: string | EvaluationContext = {},
+  ): Promise<SheetResult> {
     const ctx: EvaluationContext = typeof context === 'string' ? { affinity: context, kind: 'save' } : context;
     const scope = ctx.scope ?? ctx.affinity ?? '';
     const statements = countStatements(cells);
@@ -288,7 +307,17 @@ export class SandboxedEvaluator {
     // revisions belong in the key: the same value reads differently once its revision is superseded.
     // The scope (the project) too: another project's identical cells are evaluated afresh.
     const key = createHash('sha256')
-      .update(JSON.stringify([scope, cells, options.significantFigures, options.tables ?? [], options.references ?? [], options.monteCarlo ?? 'auto', options.displayUnits ?? 'si']))
+      .update(
+        JSON.stringify([
+          scope,
+          cells,
+          options.significantFigures,
+          options.tables ?? [],
+          options.references ?? [],
+          options.monteCarlo ?? 'auto',
+          options.displayUnits ?? 'si',
+        ]),
+      )
       .digest('base64');
     const hit = this.recent.get(key);
     if (hit) {
@@ -318,14 +347,30 @@ export class SandboxedEvaluator {
     const retryAfter = Math.max(1, Math.ceil(this.options.timeoutMs / 1000));
     const budget = userId === null ? null : (this.budgets.get(userId) ?? { interactive: 0, saves: 0, running: 0 });
     if (budget && kind === 'interactive' && budget.interactive >= this.perUserInFlight) {
-      throw new EvaluationRefused('too-many-requests', `You have ${budget.interactive} evaluations in progress already; at most ${this.perUserInFlight} at a time. Wait for them to finish, then try again.`, retryAfter);
+      throw new EvaluationRefused(
+        'too-many-requests',
+        `You have ${budget.interactive} evaluations in progress already; at most ${this.perUserInFlight} at a time. Wait for them to finish, then try again.`,
+        retryAfter,
+      );
     }
     if (budget && kind === 'save' && budget.saves >= this.perUserSaves) {
-      throw new EvaluationRefused('too-many-requests', `You have ${budget.saves} saves being evaluated already; at most ${this.perUserSaves} at a time. Wait for them to finish, then try again.`, retryAfter);
+      throw new EvaluationRefused(
+        'too-many-requests',
+        `You have ${budget.saves} saves being evaluated already; at most ${this.perUserSaves} at a time. Wait for them to finish, then try again.`,
+        retryAfter,
+      );
     }
     // The queue bound applies to people's requests; the server's own callers (no user) bound themselves.
-    if (userId !== null && kind === 'interactive' && this.waiting.filter((t) => t.kind === 'interactive').length >= this.maxQueued) {
-      throw new EvaluationRefused('too-many-requests', 'The server is evaluating many sheets just now; try again in a few seconds.', retryAfter);
+    if (
+      userId !== null &&
+      kind === 'interactive' &&
+      this.waiting.filter((t) => t.kind === 'interactive').length >= this.maxQueued
+    ) {
+      throw new EvaluationRefused(
+        'too-many-requests',
+        'The server is evaluating many sheets just now; try again in a few seconds.',
+        retryAfter,
+      );
     }
     if (budget && userId !== null) {
       if (kind === 'interactive') budget.interactive++;
@@ -387,7 +432,12 @@ export class SandboxedEvaluator {
    * is sent again at once, to the same thread, without that cell (never back to the queue), and
    * the cell is remembered so that the next request with the same cells up to it skips it too.
    */
-  private async evaluateInWorker(thread: EvaluationThread, cells: CellInput[], options: EvaluateOptions, scope: string): Promise<SheetResult> {
+  private async evaluateInWorker(
+    thread: EvaluationThread,
+    cells: CellInput[],
+    options: EvaluateOptions,
+    scope: string,
+  ): Promise<SheetResult> {
     const prefixKeys = this.prefixKeys(cells, options, scope);
     const skip = new Map<string, string>();
     const now = Date.now();
@@ -400,7 +450,14 @@ export class SandboxedEvaluator {
     for (let attempt = 0; attempt <= cells.length; attempt++) {
       try {
         this.workerRuns++;
-        return await thread.run({ id: this.nextId++, cells, options, skip: [...skip], scope, maxResultBytes: this.maxResultBytes });
+        return await thread.run({
+          id: this.nextId++,
+          cells,
+          options,
+          skip: [...skip],
+          scope,
+          maxResultBytes: this.maxResultBytes,
+        });
       } catch (error) {
         if (error instanceof ResultTooLarge) {
           throw new EvaluationRefused(
@@ -411,7 +468,8 @@ export class SandboxedEvaluator {
         if (!(error instanceof LimitExceeded) || error.cellIndex < 0 || error.cellIndex >= cells.length) throw error;
         skip.set(cells[error.cellIndex].id, error.message);
         if (error.limit) {
-          if (this.limitHits.size >= REMEMBERED_LIMITS) this.limitHits.delete(this.limitHits.keys().next().value as string);
+          if (this.limitHits.size >= REMEMBERED_LIMITS)
+            this.limitHits.delete(this.limitHits.keys().next().value as string);
           this.limitHits.set(prefixKeys[error.cellIndex], { message: error.message, at: Date.now() });
         }
         if (Date.now() > budgetEnds) {
@@ -427,7 +485,16 @@ export class SandboxedEvaluator {
   /** For each cell, a key of the scope, the options and every cell up to and including it. */
   private prefixKeys(cells: CellInput[], options: EvaluateOptions, scope: string): string[] {
     let h = createHash('sha256')
-      .update(JSON.stringify([scope, options.significantFigures, options.tables ?? [], options.references ?? [], options.monteCarlo ?? 'auto', options.displayUnits ?? 'si']))
+      .update(
+        JSON.stringify([
+          scope,
+          options.significantFigures,
+          options.tables ?? [],
+          options.references ?? [],
+          options.monteCarlo ?? 'auto',
+          options.displayUnits ?? 'si',
+        ]),
+      )
       .digest('base64');
     return cells.map((c) => (h = createHash('sha256').update(`${h}\0${c.kind}\0${c.source}`).digest('base64')));
   }

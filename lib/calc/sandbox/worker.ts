@@ -24,7 +24,10 @@ port.on('message', (request: EvaluateRequest) => {
       },
     });
     const bytes = jsonSizeAtMost(result, request.maxResultBytes);
-    reply = bytes > request.maxResultBytes ? { type: 'too-large', id: request.id, bytes } : { type: 'done', id: request.id, result };
+    reply =
+      bytes > request.maxResultBytes
+        ? { type: 'too-large', id: request.id, bytes }
+        : { type: 'done', id: request.id, result };
   } catch (error) {
     reply = { type: 'failed', id: request.id, error: error instanceof Error ? error.message : String(error) };
   }
@@ -34,6 +37,8 @@ port.on('message', (request: EvaluateRequest) => {
 
 // Warm the engine (its first evaluation compiles much of mathjs) before saying ready, so that the
 // time limit of the first request measures the sheet, not the start-up.
-engine.evaluate([{ id: 'warm-up', kind: 'calc', source: 'x_w = lorentzFactor(0.5) * 2 m to cm\nx_w < 3 m' }], { significantFigures: 6 });
+engine.evaluate([{ id: 'warm-up', kind: 'calc', source: 'x_w = lorentzFactor(0.5) * 2 m to cm\nx_w < 3 m' }], {
+  significantFigures: 6,
+});
 engine.clearCache();
 port.postMessage({ type: 'ready' } satisfies WorkerReply);

@@ -28,7 +28,8 @@ function inlinesOf(token: Token): Inline[] {
     if (!value) return;
     if (href !== null) linkText += value;
     const last = out[out.length - 1];
-    if (last && last.kind === 'text' && last.bold === bold > 0 && last.italic === italic > 0 && last.code === code) last.text += value;
+    if (last && last.kind === 'text' && last.bold === bold > 0 && last.italic === italic > 0 && last.code === code)
+      last.text += value;
     else out.push({ kind: 'text', text: value, bold: bold > 0, italic: italic > 0, code });
   };
   for (const child of token.children ?? []) {
@@ -64,7 +65,8 @@ function inlinesOf(token: Token): Inline[] {
       case 'link_close': {
         const target = href;
         href = null;
-        if (target && target !== linkText && target !== `mailto:${linkText}` && target !== `http://${linkText}`) text(` (${target})`);
+        if (target && target !== linkText && target !== `mailto:${linkText}` && target !== `http://${linkText}`)
+          text(` (${target})`);
         break;
       }
       case 'image':
@@ -151,7 +153,13 @@ export function markdownBlocks(source: string): Block[] {
         if (table?.row) table.row.push(inlines);
         else if (heading !== null) blocks.push({ kind: 'heading', level: heading, inlines });
         else {
-          blocks.push({ kind: 'paragraph', inlines, indent: lists.length + quote, marker: pendingMarker, quote: quote > 0 });
+          blocks.push({
+            kind: 'paragraph',
+            inlines,
+            indent: lists.length + quote,
+            marker: pendingMarker,
+            quote: quote > 0,
+          });
           pendingMarker = null;
         }
         break;

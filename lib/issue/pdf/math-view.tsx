@@ -18,7 +18,11 @@ function matrixAttr(m: Matrix): string | undefined {
 }
 
 /** Size of a typeset formula in points at `emPt`, shrunk to `maxWidth` when wider. */
-export function mathSize(math: TypesetMath, emPt: number, maxWidth = Infinity): { width: number; height: number; depth: number; scale: number } {
+export function mathSize(
+  math: TypesetMath,
+  emPt: number,
+  maxWidth = Infinity,
+): { width: number; height: number; depth: number; scale: number } {
   const [, , w, h] = math.viewBox;
   let scale = emPt / 1000;
   if (w * scale > maxWidth) scale = maxWidth / w;
@@ -39,12 +43,19 @@ export interface MathStrip {
  * otherwise it is cut at its break points, as TeX breaks a long inline formula after an operator
  * or relation, and a piece with no break point narrow enough is shrunk to fit.
  */
-export function mathStrips(math: TypesetMath, emPt: number, maxWidth: number, indent = 0, minShrink = 0.8): MathStrip[] {
+export function mathStrips(
+  math: TypesetMath,
+  emPt: number,
+  maxWidth: number,
+  indent = 0,
+  minShrink = 0.8,
+): MathStrip[] {
   const [minX, , w] = math.viewBox;
   const scale = emPt / 1000;
   const end = minX + w;
   if (w * scale <= maxWidth) return [{ start: minX, end, scale, items: math.items }];
-  if (w * scale * minShrink <= maxWidth || math.breaks.length === 0) return [{ start: minX, end, scale: maxWidth / w, items: math.items }];
+  if (w * scale * minShrink <= maxWidth || math.breaks.length === 0)
+    return [{ start: minX, end, scale: maxWidth / w, items: math.items }];
   const cuts: number[] = [minX];
   let start = minX;
   while (end - start > (maxWidth - (cuts.length > 1 ? indent : 0)) / scale) {
@@ -82,10 +93,31 @@ function Primitive({ item }: { item: MathPrimitive }): ReactElement {
     case 'rect':
       return <Rect x={item.x} y={item.y} width={item.width} height={item.height} fill={INK} transform={transform} />;
     case 'line':
-      return <Line x1={item.x1} y1={item.y1} x2={item.x2} y2={item.y2} stroke={INK} strokeWidth={item.strokeWidth} transform={transform} />;
+      return (
+        <Line
+          x1={item.x1}
+          y1={item.y1}
+          x2={item.x2}
+          y2={item.y2}
+          stroke={INK}
+          strokeWidth={item.strokeWidth}
+          transform={transform}
+        />
+      );
     case 'text':
       return (
-        <Text x={0} y={0} fill={INK} transform={transform} style={{ fontFamily: TEXT_FONT, fontSize: item.fontSize, fontWeight: item.bold ? 700 : 400, fontStyle: item.italic ? 'italic' : 'normal' }}>
+        <Text
+          x={0}
+          y={0}
+          fill={INK}
+          transform={transform}
+          style={{
+            fontFamily: TEXT_FONT,
+            fontSize: item.fontSize,
+            fontWeight: item.bold ? 700 : 400,
+            fontStyle: item.italic ? 'italic' : 'normal',
+          }}
+        >
           {item.text}
         </Text>
       );
@@ -105,14 +137,30 @@ function StripGraphic({ math, strip }: { math: TypesetMath; strip: MathStrip }):
 }
 
 /** A formula on one line, shrunk to `maxWidth` if need be (inline math in text). */
-export function MathGraphic({ math, emPt, maxWidth = Infinity }: { math: TypesetMath; emPt: number; maxWidth?: number }): ReactElement {
+export function MathGraphic({
+  math,
+  emPt,
+  maxWidth = Infinity,
+}: {
+  math: TypesetMath;
+  emPt: number;
+  maxWidth?: number;
+}): ReactElement {
   const [minX, , w] = math.viewBox;
   const { scale } = mathSize(math, emPt, maxWidth);
   return <StripGraphic math={math} strip={{ start: minX, end: minX + w, scale, items: math.items }} />;
 }
 
 /** A displayed formula: on as many lines as it needs, the continuation lines indented. */
-export function MathBlock({ math, emPt, maxWidth }: { math: TypesetMath; emPt: number; maxWidth: number }): ReactElement {
+export function MathBlock({
+  math,
+  emPt,
+  maxWidth,
+}: {
+  math: TypesetMath;
+  emPt: number;
+  maxWidth: number;
+}): ReactElement {
   const indent = emPt * 2;
   const strips = mathStrips(math, emPt, maxWidth, indent);
   if (strips.length === 1) return <StripGraphic math={math} strip={strips[0]} />;

@@ -12,7 +12,14 @@ import type { RevisionPdfData } from '../pdf-data';
 import { MONO_FONT, TEXT_FONT, registerPdfFonts } from './fonts';
 import { type Block, type Inline, markdownBlocks } from './markdown-blocks';
 import { MathBlock, MathGraphic, mathSize } from './math-view';
-import { Breakable, type FigureRenderer, PlotFigurePdf, ReferenceLines, statementExtras, UncertaintyLine } from './statement-extras';
+import {
+  Breakable,
+  type FigureRenderer,
+  PlotFigurePdf,
+  ReferenceLines,
+  statementExtras,
+  UncertaintyLine,
+} from './statement-extras';
 import { Group, Leaf, PageArtifact, installPdfStructure, structureInstructionsActedOn } from './structure';
 import { type TypesetMath, createTexCache } from './tex-svg';
 import { DISPLAY_UNITS_DEFAULT, DISPLAY_UNITS_LABEL } from '@/lib/calc/display-units';
@@ -55,11 +62,35 @@ const GUTTER = 22;
 const FORMULA_WIDTH = CONTENT_WIDTH - 2 * CELL_PAD - 2 - GUTTER;
 
 const s = {
-  page: { fontFamily: TEXT_FONT, fontSize: BODY, color: C.ink, paddingTop: PAGE_PADDING_TOP, paddingBottom: PAGE_PADDING_BOTTOM, paddingHorizontal: MARGIN_X },
+  page: {
+    fontFamily: TEXT_FONT,
+    fontSize: BODY,
+    color: C.ink,
+    paddingTop: PAGE_PADDING_TOP,
+    paddingBottom: PAGE_PADDING_BOTTOM,
+    paddingHorizontal: MARGIN_X,
+  },
   runningHeadBox: { position: 'absolute' as const, top: 18, left: MARGIN_X, right: MARGIN_X },
-  runningHead: { flexDirection: 'row' as const, justifyContent: 'space-between' as const, fontSize: 7.5, color: C.muted, borderBottomWidth: 0.5, borderBottomColor: C.rule, paddingBottom: 3 },
+  runningHead: {
+    flexDirection: 'row' as const,
+    justifyContent: 'space-between' as const,
+    fontSize: 7.5,
+    color: C.muted,
+    borderBottomWidth: 0.5,
+    borderBottomColor: C.rule,
+    paddingBottom: 3,
+  },
   h1: { fontSize: 17, fontWeight: 700, lineHeight: 1.2, marginBottom: 4 },
-  h2: { fontSize: 12.5, fontWeight: 700, color: C.accent, marginTop: 14, marginBottom: 5, paddingBottom: 2, borderBottomWidth: 1, borderBottomColor: C.accent },
+  h2: {
+    fontSize: 12.5,
+    fontWeight: 700,
+    color: C.accent,
+    marginTop: 14,
+    marginBottom: 5,
+    paddingBottom: 2,
+    borderBottomWidth: 1,
+    borderBottomColor: C.accent,
+  },
   h3: { fontSize: 10.5, fontWeight: 700, marginTop: 8, marginBottom: 3 },
   muted: { color: C.muted },
   mono: { fontFamily: MONO_FONT },
@@ -67,7 +98,14 @@ const s = {
   label: { fontSize: 7, fontWeight: 600, color: C.muted, textTransform: 'uppercase' as const, letterSpacing: 0.3 },
   table: { borderWidth: 0.75, borderColor: C.ruleStrong, marginBottom: 6 },
   tr: { flexDirection: 'row' as const, borderTopWidth: 0.5, borderTopColor: C.rule },
-  th: { fontSize: 7.5, fontWeight: 700, color: C.muted, paddingVertical: 3, paddingHorizontal: 4, backgroundColor: C.codeSoft },
+  th: {
+    fontSize: 7.5,
+    fontWeight: 700,
+    color: C.muted,
+    paddingVertical: 3,
+    paddingHorizontal: 4,
+    backgroundColor: C.codeSoft,
+  },
   td: { fontSize: 8.5, paddingVertical: 3, paddingHorizontal: 4 },
 };
 
@@ -81,7 +119,16 @@ function shown(text: string): ReactNode {
   if (segments.length === 1 && segments[0].control === null) return text;
   return segments.map((seg, i) =>
     seg.control ? (
-      <Text key={i} style={{ fontFamily: MONO_FONT, fontWeight: 700, fontStyle: 'normal', color: C.caution, backgroundColor: C.cautionSoft }}>
+      <Text
+        key={i}
+        style={{
+          fontFamily: MONO_FONT,
+          fontWeight: 700,
+          fontStyle: 'normal',
+          color: C.caution,
+          backgroundColor: C.cautionSoft,
+        }}
+      >
         {seg.text}
       </Text>
     ) : (
@@ -116,9 +163,31 @@ type Typeset = (tex: string, display?: boolean) => TypesetMath | null;
 // ---------------------------------------------------------------------------------------------
 // Page furniture
 
-function TitleField({ label, children, width, last, valueStyle, lines = 1 }: { label: string; children?: ReactNode; width: string; last?: boolean; valueStyle?: Record<string, unknown>; lines?: number }) {
+function TitleField({
+  label,
+  children,
+  width,
+  last,
+  valueStyle,
+  lines = 1,
+}: {
+  label: string;
+  children?: ReactNode;
+  width: string;
+  last?: boolean;
+  valueStyle?: Record<string, unknown>;
+  lines?: number;
+}) {
   return (
-    <View style={{ width, paddingHorizontal: 3, paddingTop: 1.5, borderRightWidth: last ? 0 : 0.75, borderRightColor: C.ink }}>
+    <View
+      style={{
+        width,
+        paddingHorizontal: 3,
+        paddingTop: 1.5,
+        borderRightWidth: last ? 0 : 0.75,
+        borderRightColor: C.ink,
+      }}
+    >
       <Text style={{ fontSize: 5.5, color: C.muted, lineHeight: 1.2 }}>{label}</Text>
       <Text style={{ fontSize: 8, lineHeight: 1.15, maxLines: lines, textOverflow: 'ellipsis', ...valueStyle }}>
         {children}
@@ -130,59 +199,67 @@ function TitleField({ label, children, width, last, valueStyle, lines = 1 }: { l
 /** ISO 7200:2004 data fields in title blocks, as one fixed block at the foot of every page. */
 function TitleBlock({ data }: { data: RevisionPdfData }) {
   const t = data.titleBlock;
-  const row = (i: number, last = false) => ({ flexDirection: 'row' as const, height: TITLE_BLOCK_ROWS[i], borderBottomWidth: last ? 0 : 0.75, borderBottomColor: C.ink });
+  const row = (i: number, last = false) => ({
+    flexDirection: 'row' as const,
+    height: TITLE_BLOCK_ROWS[i],
+    borderBottomWidth: last ? 0 : 0.75,
+    borderBottomColor: C.ink,
+  });
   return (
     // Page furniture (the body's heading, revision history and signatures say what it says): the
     // fixed box draws nothing itself, so that its frame is inside the artifact.
     <View fixed style={{ position: 'absolute', left: MARGIN_X, right: MARGIN_X, bottom: TITLE_BLOCK_BOTTOM }}>
       <PageArtifact>
-      <View style={{ borderWidth: 1.25, borderColor: C.ink, backgroundColor: '#ffffff' }}>
-      <View style={row(0)}>
-        <TitleField label="Legal owner" width="38%" valueStyle={{ fontWeight: 700 }}>
-          {t.legalOwner}
-        </TitleField>
-        <TitleField label="Project" width="32%" lines={2} valueStyle={{ fontSize: 7, lineHeight: 1.1 }}>
-          {`${t.project.code} · ${t.project.name}`}
-        </TitleField>
-        <TitleField label="Document type" width="15%">
-          {t.documentType}
-        </TitleField>
-        <TitleField label="Document status" width="15%" last valueStyle={{ fontWeight: 700 }}>
-          {t.status}
-        </TitleField>
-      </View>
-      <View style={row(1)}>
-        <TitleField label="Title" width="70%" lines={2} valueStyle={{ fontWeight: 600, fontSize: 8.5 }}>
-          {shown(t.title)}
-        </TitleField>
-        <TitleField label="Identification number" width="30%" last valueStyle={{ fontWeight: 700, fontSize: 10 }}>
-          {t.identificationNumber}
-        </TitleField>
-      </View>
-      <View style={row(2, true)}>
-        <TitleField label="Creator" width="23%">
-          {t.creator}
-        </TitleField>
-        <TitleField label="Approval person" width="23%">
-          {t.approvalPerson}
-        </TitleField>
-        <TitleField label="Rev." width="8%" valueStyle={{ fontWeight: 700 }}>
-          {t.revisionIndex}
-        </TitleField>
-        <TitleField label="Date of issue" width="15%">
-          {t.dateOfIssue}
-        </TitleField>
-        <TitleField label="Lang." width="8%">
-          {t.language}
-        </TitleField>
-        <View style={{ width: '23%', paddingHorizontal: 3, paddingTop: 1.5 }}>
-          <Text style={{ fontSize: 5.5, color: C.muted, lineHeight: 1.2 }}>Sheet</Text>
-          {/* No lineHeight on this text, here or inherited: react-pdf 4.9 applies a line height twice
+        <View style={{ borderWidth: 1.25, borderColor: C.ink, backgroundColor: '#ffffff' }}>
+          <View style={row(0)}>
+            <TitleField label="Legal owner" width="38%" valueStyle={{ fontWeight: 700 }}>
+              {t.legalOwner}
+            </TitleField>
+            <TitleField label="Project" width="32%" lines={2} valueStyle={{ fontSize: 7, lineHeight: 1.1 }}>
+              {`${t.project.code} · ${t.project.name}`}
+            </TitleField>
+            <TitleField label="Document type" width="15%">
+              {t.documentType}
+            </TitleField>
+            <TitleField label="Document status" width="15%" last valueStyle={{ fontWeight: 700 }}>
+              {t.status}
+            </TitleField>
+          </View>
+          <View style={row(1)}>
+            <TitleField label="Title" width="70%" lines={2} valueStyle={{ fontWeight: 600, fontSize: 8.5 }}>
+              {shown(t.title)}
+            </TitleField>
+            <TitleField label="Identification number" width="30%" last valueStyle={{ fontWeight: 700, fontSize: 10 }}>
+              {t.identificationNumber}
+            </TitleField>
+          </View>
+          <View style={row(2, true)}>
+            <TitleField label="Creator" width="23%">
+              {t.creator}
+            </TitleField>
+            <TitleField label="Approval person" width="23%">
+              {t.approvalPerson}
+            </TitleField>
+            <TitleField label="Rev." width="8%" valueStyle={{ fontWeight: 700 }}>
+              {t.revisionIndex}
+            </TitleField>
+            <TitleField label="Date of issue" width="15%">
+              {t.dateOfIssue}
+            </TitleField>
+            <TitleField label="Lang." width="8%">
+              {t.language}
+            </TitleField>
+            <View style={{ width: '23%', paddingHorizontal: 3, paddingTop: 1.5 }}>
+              <Text style={{ fontSize: 5.5, color: C.muted, lineHeight: 1.2 }}>Sheet</Text>
+              {/* No lineHeight on this text, here or inherited: react-pdf 4.9 applies a line height twice
               when it re-lays out a render-prop text, and the line then no longer fits and is dropped. */}
-          <Text style={{ fontSize: 8, fontWeight: 700 }} render={({ pageNumber, totalPages }) => `Sheet ${pageNumber} of ${totalPages}`} />
+              <Text
+                style={{ fontSize: 8, fontWeight: 700 }}
+                render={({ pageNumber, totalPages }) => `Sheet ${pageNumber} of ${totalPages}`}
+              />
+            </View>
+          </View>
         </View>
-      </View>
-      </View>
       </PageArtifact>
     </View>
   );
@@ -217,14 +294,27 @@ function SectionHeading({ children }: { children: string }) {
  * `anchor` names the table, its last row and that row's last cell as destinations: react-pdf writes
  * each box's offset from its parent, so their sum (with the anchored text's) places that cell.
  */
-function Table({ columns, rows, empty = 'None.', anchor }: { columns: Array<{ title: string; width: string; mono?: boolean }>; rows: ReactNode[][]; empty?: string; anchor?: string }) {
+function Table({
+  columns,
+  rows,
+  empty = 'None.',
+  anchor,
+}: {
+  columns: Array<{ title: string; width: string; mono?: boolean }>;
+  rows: ReactNode[][];
+  empty?: string;
+  anchor?: string;
+}) {
   if (rows.length === 0)
     return (
       <Leaf as="P">
         <Text style={[s.muted, s.para]}>{empty}</Text>
       </Leaf>
     );
-  const last = (r: number, i?: number) => (anchor && r === rows.length - 1 && (i === undefined || i === columns.length - 1) ? { id: `${anchor}-${i === undefined ? 'row' : 'cell'}` } : {});
+  const last = (r: number, i?: number) =>
+    anchor && r === rows.length - 1 && (i === undefined || i === columns.length - 1)
+      ? { id: `${anchor}-${i === undefined ? 'row' : 'cell'}` }
+      : {};
   return (
     <View style={s.table} {...(anchor ? { id: `${anchor}-table` } : {})}>
       <Group as="Table">
@@ -242,7 +332,13 @@ function Table({ columns, rows, empty = 'None.', anchor }: { columns: Array<{ ti
             <Group as="TR" inRow>
               {cells.map((cell, i) => (
                 <View key={i} style={[s.td, { width: columns[i].width }]} {...last(r, i)}>
-                  <Leaf as="TD">{typeof cell === 'string' ? <Text style={columns[i].mono ? [s.mono, { fontSize: 7.5 }] : undefined}>{shown(cell)}</Text> : cell}</Leaf>
+                  <Leaf as="TD">
+                    {typeof cell === 'string' ? (
+                      <Text style={columns[i].mono ? [s.mono, { fontSize: 7.5 }] : undefined}>{shown(cell)}</Text>
+                    ) : (
+                      cell
+                    )}
+                  </Leaf>
                 </View>
               ))}
             </Group>
@@ -285,7 +381,19 @@ function spanStyle(i: Extract<Inline, { kind: 'text' }>) {
 
 /** A run of inlines. Without math it is one text with styled spans; with math the words and the
  * formulas are laid out as a wrapping row, each formula sitting on the text's baseline. */
-function InlineFlow({ inlines, typeset, fontSize = BODY, style, maxWidth }: { inlines: Inline[]; typeset: Typeset; fontSize?: number; style?: Record<string, unknown>; maxWidth: number }) {
+function InlineFlow({
+  inlines,
+  typeset,
+  fontSize = BODY,
+  style,
+  maxWidth,
+}: {
+  inlines: Inline[];
+  typeset: Typeset;
+  fontSize?: number;
+  style?: Record<string, unknown>;
+  maxWidth: number;
+}) {
   const hasMath = inlines.some((i) => i.kind === 'math' && typeset(i.tex, i.display));
   if (!hasMath) {
     return (
@@ -333,7 +441,14 @@ function InlineFlow({ inlines, typeset, fontSize = BODY, style, maxWidth }: { in
     const em = fontSize * 1.05;
     const size = mathSize(math, em, maxWidth);
     parts.push(
-      <View key={k} style={i.display ? { width: '100%', alignItems: 'center', marginVertical: 3 } : { marginBottom: baselineFromBottom - size.depth }}>
+      <View
+        key={k}
+        style={
+          i.display
+            ? { width: '100%', alignItems: 'center', marginVertical: 3 }
+            : { marginBottom: baselineFromBottom - size.depth }
+        }
+      >
         <MathGraphic math={math} emPt={em} maxWidth={maxWidth} />
       </View>,
     );
@@ -350,7 +465,13 @@ function markdownElements(blocks: Block[], typeset: Typeset, maxWidth: number): 
         return (
           <Leaf key={k} as={b.level <= 1 ? 'H4' : b.level === 2 ? 'H5' : 'H6'}>
             <View style={{ marginTop: 3, marginBottom: 2 }} minPresenceAhead={24}>
-              <InlineFlow inlines={b.inlines} typeset={typeset} fontSize={b.level <= 1 ? 12 : b.level === 2 ? 11 : 10} style={{ fontWeight: 700 }} maxWidth={maxWidth} />
+              <InlineFlow
+                inlines={b.inlines}
+                typeset={typeset}
+                fontSize={b.level <= 1 ? 12 : b.level === 2 ? 11 : 10}
+                style={{ fontWeight: 700 }}
+                maxWidth={maxWidth}
+              />
             </View>
           </Leaf>
         );
@@ -358,7 +479,14 @@ function markdownElements(blocks: Block[], typeset: Typeset, maxWidth: number): 
         const indent = b.indent * 12;
         return (
           <Leaf key={k} as="P">
-            <View style={{ flexDirection: 'row', marginBottom: 3, paddingLeft: b.marker ? Math.max(0, indent - 12) : indent, ...(b.quote ? { borderLeftWidth: 2, borderLeftColor: C.rule } : {}) }}>
+            <View
+              style={{
+                flexDirection: 'row',
+                marginBottom: 3,
+                paddingLeft: b.marker ? Math.max(0, indent - 12) : indent,
+                ...(b.quote ? { borderLeftWidth: 2, borderLeftColor: C.rule } : {}),
+              }}
+            >
               {b.marker ? <Text style={{ width: 12 }}>{b.marker}</Text> : null}
               <View style={{ flex: 1 }}>
                 <InlineFlow inlines={b.inlines} typeset={typeset} maxWidth={maxWidth - indent} />
@@ -370,7 +498,14 @@ function markdownElements(blocks: Block[], typeset: Typeset, maxWidth: number): 
       case 'code':
         return (
           <Leaf key={k} as="Code">
-            <Text style={[s.mono, { fontSize: 7.5, backgroundColor: C.codeSoft, padding: 4, marginBottom: 3, marginLeft: b.indent * 12 }]}>{b.text}</Text>
+            <Text
+              style={[
+                s.mono,
+                { fontSize: 7.5, backgroundColor: C.codeSoft, padding: 4, marginBottom: 3, marginLeft: b.indent * 12 },
+              ]}
+            >
+              {b.text}
+            </Text>
           </Leaf>
         );
       case 'math': {
@@ -378,7 +513,11 @@ function markdownElements(blocks: Block[], typeset: Typeset, maxWidth: number): 
         return (
           <Leaf key={k} as={math ? 'Formula' : 'Code'} alt={math ? b.tex : undefined}>
             <View style={{ alignItems: 'center', marginVertical: 3, marginLeft: b.indent * 12 }} wrap={false}>
-              {math ? <MathBlock math={math} emPt={MATH_EM} maxWidth={maxWidth - b.indent * 12} /> : <Text style={[s.mono, { fontSize: 7.5 }]}>{`$$${b.tex}$$`}</Text>}
+              {math ? (
+                <MathBlock math={math} emPt={MATH_EM} maxWidth={maxWidth - b.indent * 12} />
+              ) : (
+                <Text style={[s.mono, { fontSize: 7.5 }]}>{`$$${b.tex}$$`}</Text>
+              )}
             </View>
           </Leaf>
         );
@@ -386,10 +525,18 @@ function markdownElements(blocks: Block[], typeset: Typeset, maxWidth: number): 
       case 'table': {
         const n = Math.max(b.header.length, ...b.rows.map((r) => r.length), 1);
         const width = `${100 / n}%`;
-        const cell = (inl: Inline[] | undefined) => <InlineFlow inlines={inl ?? []} typeset={typeset} fontSize={8.5} maxWidth={maxWidth / n - 8} />;
+        const cell = (inl: Inline[] | undefined) => (
+          <InlineFlow inlines={inl ?? []} typeset={typeset} fontSize={8.5} maxWidth={maxWidth / n - 8} />
+        );
         return (
           <View key={k}>
-            <Table columns={Array.from({ length: n }, (_, i) => ({ title: b.header[i]?.map((x) => (x.kind === 'text' ? x.text : x.tex)).join('') ?? '', width }))} rows={b.rows.map((r) => Array.from({ length: n }, (_, i) => cell(r[i])))} />
+            <Table
+              columns={Array.from({ length: n }, (_, i) => ({
+                title: b.header[i]?.map((x) => (x.kind === 'text' ? x.text : x.tex)).join('') ?? '',
+                width,
+              }))}
+              rows={b.rows.map((r) => Array.from({ length: n }, (_, i) => cell(r[i])))}
+            />
           </View>
         );
       }
@@ -435,64 +582,88 @@ function Statement({ st, typeset }: { st: StatementResult; typeset: Typeset }) {
   const result = resultText(st);
   const showSubstituted = st.substitutedTex && st.substitutedTex !== st.tex;
   return (
-    <View wrap={false} style={{ flexDirection: 'row', paddingVertical: 3, borderTopWidth: 0.5, borderTopColor: C.rule }}>
+    <View
+      wrap={false}
+      style={{ flexDirection: 'row', paddingVertical: 3, borderTopWidth: 0.5, borderTopColor: C.rule }}
+    >
       <Group as="Div" inRow>
-      <Leaf as="Lbl" inRow>
-        <Text style={[s.mono, { width: GUTTER, fontSize: 7, color: C.muted, paddingTop: 0.5 }]}>{`L${st.line}`}</Text>
-      </Leaf>
-      <View style={{ flex: 1 }}>
-        <Leaf as="Code">
-          <Text style={[s.mono, { fontSize: 7.5, color: C.muted }]}>{shown(st.source)}</Text>
+        <Leaf as="Lbl" inRow>
+          <Text style={[s.mono, { width: GUTTER, fontSize: 7, color: C.muted, paddingTop: 0.5 }]}>{`L${st.line}`}</Text>
         </Leaf>
-        {st.tex ? <Formula tex={st.tex} typeset={typeset} maxWidth={FORMULA_WIDTH} /> : null}
-        {showSubstituted ? <Formula tex={st.substitutedTex!} typeset={typeset} maxWidth={FORMULA_WIDTH} /> : null}
-        {st.error ? (
-          <Leaf as="P">
-            <Text style={{ color: C.fail, backgroundColor: C.failSoft, paddingHorizontal: 3, paddingVertical: 1, fontSize: 8.5 }}>{`Error: ${st.error}`}</Text>
+        <View style={{ flex: 1 }}>
+          <Leaf as="Code">
+            <Text style={[s.mono, { fontSize: 7.5, color: C.muted }]}>{shown(st.source)}</Text>
           </Leaf>
-        ) : st.criterion ? (
-          <Leaf as="P">
-          <View style={{ flexDirection: 'row', alignItems: 'center', marginTop: 1 }}>
-            <Text
-              style={{
-                fontWeight: 700,
-                fontSize: 8.5,
-                color: '#ffffff',
-                backgroundColor: st.criterion.pass ? C.pass : C.fail,
-                paddingHorizontal: 4,
-                paddingVertical: 0.5,
-                marginRight: 5,
-              }}
-            >
-              {st.criterion.pass ? 'PASS' : 'FAIL'}
-            </Text>
-            <Text style={{ fontSize: 8.5, color: st.criterion.pass ? C.pass : C.fail }}>{st.criterion.marginText}</Text>
-          </View>
-          </Leaf>
-        ) : result ? (
-          <Leaf as="P">
-            <Text style={{ fontWeight: 600, fontSize: 10, marginTop: 1 }}>{result}</Text>
-          </Leaf>
-        ) : null}
-        {!st.error && st.uncertainty ? (
-          <Leaf as="P">
-            <UncertaintyLine uncertainty={st.uncertainty} />
-          </Leaf>
-        ) : null}
-        {(st.warnings ?? []).map((w, i) => (
-          // The physics lint's warnings (absent in results stored before they existed: none), in the caution colours and introduced by the word.
-          <Leaf key={`w${i}`} as="P">
-            <Text style={{ color: C.caution, backgroundColor: C.cautionSoft, borderLeftWidth: 2, borderLeftColor: C.cautionRule, paddingHorizontal: 3, paddingVertical: 1, marginTop: 1, fontSize: 8.5 }}>
-              Warning: {shown(w)}
-            </Text>
-          </Leaf>
-        ))}
-        {st.references?.length ? (
-          <Leaf as="P">
-            <ReferenceLines references={st.references} />
-          </Leaf>
-        ) : null}
-      </View>
+          {st.tex ? <Formula tex={st.tex} typeset={typeset} maxWidth={FORMULA_WIDTH} /> : null}
+          {showSubstituted ? <Formula tex={st.substitutedTex!} typeset={typeset} maxWidth={FORMULA_WIDTH} /> : null}
+          {st.error ? (
+            <Leaf as="P">
+              <Text
+                style={{
+                  color: C.fail,
+                  backgroundColor: C.failSoft,
+                  paddingHorizontal: 3,
+                  paddingVertical: 1,
+                  fontSize: 8.5,
+                }}
+              >{`Error: ${st.error}`}</Text>
+            </Leaf>
+          ) : st.criterion ? (
+            <Leaf as="P">
+              <View style={{ flexDirection: 'row', alignItems: 'center', marginTop: 1 }}>
+                <Text
+                  style={{
+                    fontWeight: 700,
+                    fontSize: 8.5,
+                    color: '#ffffff',
+                    backgroundColor: st.criterion.pass ? C.pass : C.fail,
+                    paddingHorizontal: 4,
+                    paddingVertical: 0.5,
+                    marginRight: 5,
+                  }}
+                >
+                  {st.criterion.pass ? 'PASS' : 'FAIL'}
+                </Text>
+                <Text style={{ fontSize: 8.5, color: st.criterion.pass ? C.pass : C.fail }}>
+                  {st.criterion.marginText}
+                </Text>
+              </View>
+            </Leaf>
+          ) : result ? (
+            <Leaf as="P">
+              <Text style={{ fontWeight: 600, fontSize: 10, marginTop: 1 }}>{result}</Text>
+            </Leaf>
+          ) : null}
+          {!st.error && st.uncertainty ? (
+            <Leaf as="P">
+              <UncertaintyLine uncertainty={st.uncertainty} />
+            </Leaf>
+          ) : null}
+          {(st.warnings ?? []).map((w, i) => (
+            // The physics lint's warnings (absent in results stored before they existed: none), in the caution colours and introduced by the word.
+            <Leaf key={`w${i}`} as="P">
+              <Text
+                style={{
+                  color: C.caution,
+                  backgroundColor: C.cautionSoft,
+                  borderLeftWidth: 2,
+                  borderLeftColor: C.cautionRule,
+                  paddingHorizontal: 3,
+                  paddingVertical: 1,
+                  marginTop: 1,
+                  fontSize: 8.5,
+                }}
+              >
+                Warning: {shown(w)}
+              </Text>
+            </Leaf>
+          ))}
+          {st.references?.length ? (
+            <Leaf as="P">
+              <ReferenceLines references={st.references} />
+            </Leaf>
+          ) : null}
+        </View>
       </Group>
     </View>
   );
@@ -516,7 +687,14 @@ function calcElements(cell: Cell, result: CellResult | undefined, ctx: CellConte
     if (st) {
       // Figure, sweep table and uncertainty budget follow as boxes of their own, indented like the
       // formulas; a figure stays on the page of its statement (together they fit any page).
-      const extras = st.error ? [] : statementExtras(st, { width: FORMULA_WIDTH, significantFigures: ctx.significantFigures, figure: ctx.figure, keyPrefix: String(i) });
+      const extras = st.error
+        ? []
+        : statementExtras(st, {
+            width: FORMULA_WIDTH,
+            significantFigures: ctx.significantFigures,
+            figure: ctx.figure,
+            keyPrefix: String(i),
+          });
       const figure = extras.length && extras[0].type === PlotFigurePdf ? extras.shift()! : null;
       out.push(
         figure ? (
@@ -529,11 +707,25 @@ function calcElements(cell: Cell, result: CellResult | undefined, ctx: CellConte
         ),
       );
       for (const extra of extras) {
-        out.push(extra.type === Breakable ? <Breakable key={extra.key}><View style={{ marginLeft: GUTTER }}>{extra}</View></Breakable> : <View key={extra.key} style={{ marginLeft: GUTTER }}>{extra}</View>);
+        out.push(
+          extra.type === Breakable ? (
+            <Breakable key={extra.key}>
+              <View style={{ marginLeft: GUTTER }}>{extra}</View>
+            </Breakable>
+          ) : (
+            <View key={extra.key} style={{ marginLeft: GUTTER }}>
+              {extra}
+            </View>
+          ),
+        );
       }
     } else if (line.trim())
       out.push(
-        <View key={i} style={{ flexDirection: 'row', paddingVertical: 2, borderTopWidth: 0.5, borderTopColor: C.rule }} wrap={false}>
+        <View
+          key={i}
+          style={{ flexDirection: 'row', paddingVertical: 2, borderTopWidth: 0.5, borderTopColor: C.rule }}
+          wrap={false}
+        >
           <Leaf as="Code" inRow>
             <Text style={[s.mono, { width: GUTTER, fontSize: 7, color: C.muted }]}>{`L${i + 1}`}</Text>
             <Text style={[s.mono, { flex: 1, fontSize: 7.5, color: C.muted }]}>{shown(line)}</Text>
@@ -546,13 +738,17 @@ function calcElements(cell: Cell, result: CellResult | undefined, ctx: CellConte
   if (cellError)
     out.push(
       <Leaf key="error" as="P">
-        <Text style={{ color: C.fail, backgroundColor: C.failSoft, padding: 3, marginVertical: 2, fontSize: 8.5 }}>{`Error: ${cellError}`}</Text>
+        <Text
+          style={{ color: C.fail, backgroundColor: C.failSoft, padding: 3, marginVertical: 2, fontSize: 8.5 }}
+        >{`Error: ${cellError}`}</Text>
       </Leaf>,
     );
   if (!result)
     out.push(
       <Leaf key="missing" as="P">
-        <Text style={{ color: C.fail, fontSize: 8.5, marginVertical: 2 }}>No evaluation result was recorded for this cell.</Text>
+        <Text style={{ color: C.fail, fontSize: 8.5, marginVertical: 2 }}>
+          No evaluation result was recorded for this cell.
+        </Text>
       </Leaf>,
     );
   return out;
@@ -575,14 +771,31 @@ function cellElements(data: RevisionPdfData, ctx: CellContext): ReactElement[] {
     const failed = cell.kind === 'calc' && (!result || !result.ok);
     const frame = { borderColor: failed ? C.fail : C.rule, borderLeftWidth: 0.75, borderRightWidth: 0.75 };
     out.push(
-      <View key={`${cell.id}-head`} style={{ ...frame, borderTopWidth: 0.75, flexDirection: 'row', justifyContent: 'space-between', backgroundColor: cell.kind === 'calc' ? C.accentSoft : C.codeSoft, paddingHorizontal: CELL_PAD, paddingVertical: 1.5 }} minPresenceAhead={40}>
+      <View
+        key={`${cell.id}-head`}
+        style={{
+          ...frame,
+          borderTopWidth: 0.75,
+          flexDirection: 'row',
+          justifyContent: 'space-between',
+          backgroundColor: cell.kind === 'calc' ? C.accentSoft : C.codeSoft,
+          paddingHorizontal: CELL_PAD,
+          paddingVertical: 1.5,
+        }}
+        minPresenceAhead={40}
+      >
         <Leaf as="H3" inRow>
-          <Text style={{ fontSize: 7.5, fontWeight: 700, color: C.accent }}>{`Cell ${index + 1} · ${cell.kind === 'calc' ? 'calculation' : 'text'}`}</Text>
+          <Text
+            style={{ fontSize: 7.5, fontWeight: 700, color: C.accent }}
+          >{`Cell ${index + 1} · ${cell.kind === 'calc' ? 'calculation' : 'text'}`}</Text>
           <Text style={[s.mono, { fontSize: 6.5, color: C.muted }]}>{`id ${cell.id}`}</Text>
         </Leaf>
       </View>,
     );
-    const parts = cell.kind === 'calc' ? calcElements(cell, result, ctx) : markdownElements(markdownBlocks(cell.source), typeset, CONTENT_WIDTH - 2 * CELL_PAD - 2);
+    const parts =
+      cell.kind === 'calc'
+        ? calcElements(cell, result, ctx)
+        : markdownElements(markdownBlocks(cell.source), typeset, CONTENT_WIDTH - 2 * CELL_PAD - 2);
     if (parts.length === 0)
       parts.push(
         <Leaf key="empty" as="P">
@@ -625,7 +838,9 @@ function Heading({ data }: { data: RevisionPdfData }) {
   return (
     <View style={{ marginBottom: 8 }}>
       <Leaf as="P">
-        <Text style={{ fontSize: 8.5, color: C.accent, fontWeight: 600, marginBottom: 2 }}>{`${t.project.code} · ${t.project.name}`}</Text>
+        <Text
+          style={{ fontSize: 8.5, color: C.accent, fontWeight: 600, marginBottom: 2 }}
+        >{`${t.project.code} · ${t.project.name}`}</Text>
       </Leaf>
       <Leaf as="H1">
         <Text style={s.h1}>{shown(t.title)}</Text>
@@ -638,7 +853,21 @@ function Heading({ data }: { data: RevisionPdfData }) {
       </Leaf>
       {data.safetyRelated ? (
         <Leaf as="P">
-          <Text style={{ marginTop: 4, alignSelf: 'flex-start', fontSize: 8, fontWeight: 700, color: C.caution, borderWidth: 1, borderColor: C.cautionRule, paddingHorizontal: 4, paddingVertical: 1 }}>SAFETY-RELATED CALCULATION</Text>
+          <Text
+            style={{
+              marginTop: 4,
+              alignSelf: 'flex-start',
+              fontSize: 8,
+              fontWeight: 700,
+              color: C.caution,
+              borderWidth: 1,
+              borderColor: C.cautionRule,
+              paddingHorizontal: 4,
+              paddingVertical: 1,
+            }}
+          >
+            SAFETY-RELATED CALCULATION
+          </Text>
         </Leaf>
       ) : null}
     </View>
@@ -647,7 +876,17 @@ function Heading({ data }: { data: RevisionPdfData }) {
 
 function Cautions({ data }: { data: RevisionPdfData }) {
   return (
-    <View wrap={false} style={{ borderLeftWidth: 4, borderLeftColor: C.cautionRule, backgroundColor: C.cautionSoft, paddingVertical: 6, paddingHorizontal: 9, marginBottom: 4 }}>
+    <View
+      wrap={false}
+      style={{
+        borderLeftWidth: 4,
+        borderLeftColor: C.cautionRule,
+        backgroundColor: C.cautionSoft,
+        paddingVertical: 6,
+        paddingHorizontal: 9,
+        marginBottom: 4,
+      }}
+    >
       <Leaf as="H2">
         <Text style={{ fontSize: 10.5, fontWeight: 700, color: C.caution, marginBottom: 2 }}>Caution</Text>
       </Leaf>
@@ -677,7 +916,14 @@ function RevisionHistory({ data }: { data: RevisionPdfData }) {
       // The last row is this revision: its status carries a named destination, where a stamped copy
       // (lib/issue/stamp.ts) overlays "superseded" or "withdrawn".
       anchor="revision-history-this-status"
-      rows={data.revisionHistory.map((r, i, all) => [r.revision, r.date, String(r.version), r.description, r.approvedBy, i === all.length - 1 ? <Text id="revision-history-this-status">{shown(r.status)}</Text> : r.status])}
+      rows={data.revisionHistory.map((r, i, all) => [
+        r.revision,
+        r.date,
+        String(r.version),
+        r.description,
+        r.approvedBy,
+        i === all.length - 1 ? <Text id="revision-history-this-status">{shown(r.status)}</Text> : r.status,
+      ])}
     />
   );
 }
@@ -706,7 +952,9 @@ function Record({ data }: { data: RevisionPdfData }) {
         ]}
         rows={r.inputs.map((i, index) => {
           const linked = data.designInputChecks?.find((d) => d.index === index);
-          const value = linked ? `${i.value} (cell ${linked.cell}: ${linked.match ? `used ${linked.engineValue}` : `ERROR, ${linked.words}`})` : i.value;
+          const value = linked
+            ? `${i.value} (cell ${linked.cell}: ${linked.match ? `used ${linked.engineValue}` : `ERROR, ${linked.words}`})`
+            : i.value;
           return [i.name, value, i.source, i.sourceRevision];
         })}
       />
@@ -723,17 +971,33 @@ function Record({ data }: { data: RevisionPdfData }) {
       {r.assumptions.map((a, i) => (
         <View key={i} style={{ flexDirection: 'row', marginBottom: 2 }} wrap={false}>
           <Leaf as="P" inRow>
-          <Text style={{ width: 16 }}>{`A${i + 1}`}</Text>
-          <Text style={{ flex: 1 }}>{shown(a.text)}</Text>
-          {a.needsVerification ? (
-            <Text style={{ marginLeft: 6, fontSize: 7, fontWeight: 700, color: C.caution, backgroundColor: C.cautionSoft, borderWidth: 0.75, borderColor: C.cautionRule, paddingHorizontal: 3, alignSelf: 'flex-start' }}>TO BE VERIFIED</Text>
-          ) : null}
+            <Text style={{ width: 16 }}>{`A${i + 1}`}</Text>
+            <Text style={{ flex: 1 }}>{shown(a.text)}</Text>
+            {a.needsVerification ? (
+              <Text
+                style={{
+                  marginLeft: 6,
+                  fontSize: 7,
+                  fontWeight: 700,
+                  color: C.caution,
+                  backgroundColor: C.cautionSoft,
+                  borderWidth: 0.75,
+                  borderColor: C.cautionRule,
+                  paddingHorizontal: 3,
+                  alignSelf: 'flex-start',
+                }}
+              >
+                TO BE VERIFIED
+              </Text>
+            ) : null}
           </Leaf>
         </View>
       ))}
       {r.assumptions.some((a) => a.needsVerification) ? (
         <Leaf as="P">
-          <Text style={{ fontSize: 8, color: C.caution, marginBottom: 3 }}>Assumptions marked TO BE VERIFIED must be confirmed before the results are relied upon.</Text>
+          <Text style={{ fontSize: 8, color: C.caution, marginBottom: 3 }}>
+            Assumptions marked TO BE VERIFIED must be confirmed before the results are relied upon.
+          </Text>
         </Leaf>
       ) : null}
       <Leaf as="H3">
@@ -839,8 +1103,16 @@ function Evaluation({ data }: { data: RevisionPdfData }) {
       {field('Constants edition', data.version.constantsEdition)}
       {field('Significant figures shown', String(data.version.content.significantFigures))}
       {field('Units shown', DISPLAY_UNITS_LABEL[data.version.content.displayUnits ?? DISPLAY_UNITS_DEFAULT])}
-      {field('Statements', `${statements.length} in ${data.version.content.cells.length} cells; ${errors} cell${errors === 1 ? '' : 's'} with errors`)}
-      {field('Warnings', warnings === 0 ? 'none' : `${warnings} (a name read as a unit or a mathematical constant where a physical constant may be meant; shown beside each statement)`)}
+      {field(
+        'Statements',
+        `${statements.length} in ${data.version.content.cells.length} cells; ${errors} cell${errors === 1 ? '' : 's'} with errors`,
+      )}
+      {field(
+        'Warnings',
+        warnings === 0
+          ? 'none'
+          : `${warnings} (a name read as a unit or a mathematical constant where a physical constant may be meant; shown beside each statement)`,
+      )}
       {field('Design criteria', `${criteria.length} (${passed} pass, ${criteria.length - passed} fail)`)}
       <Leaf as="H3">
         <Text style={s.h3} minPresenceAhead={30}>
@@ -879,7 +1151,9 @@ function Signatures({ data }: { data: RevisionPdfData }) {
       {data.alternateComparison ? (
         <View style={{ marginTop: 6 }}>
           <Leaf as="Caption">
-          <Text style={{ fontWeight: 700, marginBottom: 2 }}>{`Checker's alternate calculation compared with the sheet (tolerance ${data.alternateComparison.toleranceText ?? 'not stated'}, relative)`}</Text>
+            <Text
+              style={{ fontWeight: 700, marginBottom: 2 }}
+            >{`Checker's alternate calculation compared with the sheet (tolerance ${data.alternateComparison.toleranceText ?? 'not stated'}, relative)`}</Text>
           </Leaf>
           <Table
             columns={[
@@ -889,14 +1163,22 @@ function Signatures({ data }: { data: RevisionPdfData }) {
               { title: '|a − s|/|s|', width: '14%' },
               { title: 'Outcome', width: '32%' },
             ]}
-            rows={data.alternateComparison.rows.map((r) => [r.name, r.sheet, r.alternate, r.relativeDifference, r.outcome])}
+            rows={data.alternateComparison.rows.map((r) => [
+              r.name,
+              r.sheet,
+              r.alternate,
+              r.relativeDifference,
+              r.outcome,
+            ])}
           />
         </View>
       ) : null}
       {data.acknowledgements?.length ? (
         <View style={{ marginTop: 6 }}>
           <Leaf as="Caption">
-            <Text style={{ fontWeight: 700, marginBottom: 2 }}>Acknowledged in writing by the originator on submission</Text>
+            <Text style={{ fontWeight: 700, marginBottom: 2 }}>
+              Acknowledged in writing by the originator on submission
+            </Text>
           </Leaf>
           <Table
             columns={[
@@ -922,15 +1204,21 @@ function Verification({ data }: { data: RevisionPdfData }) {
   );
   return (
     <View style={{ borderWidth: 1.25, borderColor: C.accent, padding: 8, marginTop: 2 }}>
-      {row('Document', `${data.titleBlock.identificationNumber}, revision ${data.titleBlock.revisionIndex}, version ${data.version.number}`)}
+      {row(
+        'Document',
+        `${data.titleBlock.identificationNumber}, revision ${data.titleBlock.revisionIndex}, version ${data.version.number}`,
+      )}
       {row('Version SHA-256', <Text style={[s.mono, { fontSize: 8 }]}>{data.version.sha256}</Text>)}
-      {row('Verification code', <Text style={[s.mono, { fontSize: 13, fontWeight: 700, color: C.accent }]}>{data.verificationCode}</Text>)}
+      {row(
+        'Verification code',
+        <Text style={[s.mono, { fontSize: 13, fontWeight: 700, color: C.accent }]}>{data.verificationCode}</Text>,
+      )}
       {row('Verify at', <Text style={[s.mono, { fontSize: 8.5 }]}>{data.verifyUrl}</Text>)}
       {row('Verification method', data.verificationMethod ?? 'Not recorded')}
       <Leaf as="P">
-      <Text style={{ fontSize: 8, color: C.muted, marginTop: 3 }}>
-        {`Upload this file or enter the verification code at the address above to learn whether it is an authentic issued revision of ${data.titleBlock.legalOwner} and whether it is still current. The file also carries the issuing organisation's digital signature, which standard PDF tools can check.`}
-      </Text>
+        <Text style={{ fontSize: 8, color: C.muted, marginTop: 3 }}>
+          {`Upload this file or enter the verification code at the address above to learn whether it is an authentic issued revision of ${data.titleBlock.legalOwner} and whether it is still current. The file also carries the issuing organisation's digital signature, which standard PDF tools can check.`}
+        </Text>
       </Leaf>
     </View>
   );
@@ -947,7 +1235,15 @@ function issueTime(data: RevisionPdfData): Date | undefined {
   return Number.isNaN(day) ? undefined : new Date(day);
 }
 
-export function RevisionPdfDocument({ data: given, typeset, figure = null }: { data: RevisionPdfData; typeset: Typeset; figure?: FigureRenderer | null }) {
+export function RevisionPdfDocument({
+  data: given,
+  typeset,
+  figure = null,
+}: {
+  data: RevisionPdfData;
+  typeset: Typeset;
+  figure?: FigureRenderer | null;
+}) {
   // Every bidirectional control character anyone typed (title, record, cells, attachment names,
   // signatures…) becomes a visible marker before anything is drawn, so none can reorder the text.
   const data = revealBidiControlsDeep(given);
@@ -973,32 +1269,32 @@ export function RevisionPdfDocument({ data: given, typeset, figure = null }: { d
         <Heading data={data} />
         <Cautions data={data} />
         <Group as="Sect">
-          <SectionHeading>1  Revision history</SectionHeading>
+          <SectionHeading>1 Revision history</SectionHeading>
           <RevisionHistory data={data} />
         </Group>
         <Group as="Sect">
-          <SectionHeading>2  Calculation record</SectionHeading>
+          <SectionHeading>2 Calculation record</SectionHeading>
           <Record data={data} />
         </Group>
         <Group as="Sect">
-          <SectionHeading>3  Calculation</SectionHeading>
+          <SectionHeading>3 Calculation</SectionHeading>
           {cellElements(data, { typeset, figure, significantFigures: data.version.content.significantFigures })}
         </Group>
         <Group as="Sect">
-          <SectionHeading>4  Attachments</SectionHeading>
+          <SectionHeading>4 Attachments</SectionHeading>
           <Attachments data={data} />
         </Group>
         <Group as="Sect">
-          <SectionHeading>5  Evaluation</SectionHeading>
+          <SectionHeading>5 Evaluation</SectionHeading>
           <Evaluation data={data} />
         </Group>
         <Group as="Sect">
-          <SectionHeading>6  Signatures</SectionHeading>
+          <SectionHeading>6 Signatures</SectionHeading>
           <Signatures data={data} />
         </Group>
         <View wrap={false}>
           <Group as="Sect">
-            <SectionHeading>7  Verification</SectionHeading>
+            <SectionHeading>7 Verification</SectionHeading>
             <Verification data={data} />
           </Group>
         </View>
@@ -1020,6 +1316,9 @@ export async function renderRevisionPdf(data: RevisionPdfData): Promise<Buffer> 
   const before = structureInstructionsActedOn();
   const pdf = await renderToBuffer(<RevisionPdfDocument data={data} typeset={typeset} figure={figure} />);
   // A silent fall-back to an untagged file would go unnoticed: refuse it.
-  if (structureInstructionsActedOn() === before) throw new Error('The issued PDF was drawn without its structure tree (the structure markers never reached pdfkit).');
+  if (structureInstructionsActedOn() === before)
+    throw new Error(
+      'The issued PDF was drawn without its structure tree (the structure markers never reached pdfkit).',
+    );
   return pdf;
 }

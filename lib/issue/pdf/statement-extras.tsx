@@ -7,7 +7,13 @@ import type { ReactElement, ReactNode } from 'react';
 import { formatNumberText } from '@/lib/calc/format';
 import { referenceText } from '@/lib/calc/reference-text';
 import type { PlotData, ResolvedReference, StatementResult, StudyTable, UncertaintyResult } from '@/lib/calc/types';
-import { BUDGET_COLUMNS, budgetRows, combinedText, monteCarloLines, standardUncertaintyText } from '@/lib/calc/uncertainty-text';
+import {
+  BUDGET_COLUMNS,
+  budgetRows,
+  combinedText,
+  monteCarloLines,
+  standardUncertaintyText,
+} from '@/lib/calc/uncertainty-text';
 import { unitLabel } from '@/lib/calc/unit-label';
 import { plotDescription } from '@/lib/plots/plot-figure';
 import { tokens } from '@/tailwind.config';
@@ -42,11 +48,24 @@ export function ReferenceLines({ references }: { references: ResolvedReference[]
           <View key={i} style={{ flexDirection: 'row', flexWrap: 'wrap', alignItems: 'center', marginTop: 1 }}>
             <Text style={{ fontSize: 8, color: C['ink-muted'] }}>{r.title ? `${r.text} (${r.title})` : r.text}</Text>
             {r.badge ? (
-              <Text style={{ marginLeft: 5, fontSize: 7, fontWeight: 700, color: C.caution, backgroundColor: C['caution-soft'], borderWidth: 0.75, borderColor: C['caution-rule'], paddingHorizontal: 3 }}>
+              <Text
+                style={{
+                  marginLeft: 5,
+                  fontSize: 7,
+                  fontWeight: 700,
+                  color: C.caution,
+                  backgroundColor: C['caution-soft'],
+                  borderWidth: 0.75,
+                  borderColor: C['caution-rule'],
+                  paddingHorizontal: 3,
+                }}
+              >
                 {r.badge.toUpperCase()}
               </Text>
             ) : null}
-            {r.problem ? <Text style={{ width: '100%', fontSize: 8, color: C.fail }}>{`Cannot be used: ${r.problem}`}</Text> : null}
+            {r.problem ? (
+              <Text style={{ width: '100%', fontSize: 8, color: C.fail }}>{`Cannot be used: ${r.problem}`}</Text>
+            ) : null}
           </View>
         );
       })}
@@ -71,11 +90,24 @@ function Caption({ children }: { children: string }) {
   );
 }
 
-const th = { fontSize: 7, fontWeight: 700, color: C['ink-muted'], paddingVertical: 2, paddingHorizontal: 3, backgroundColor: '#f3f2ec' };
+const th = {
+  fontSize: 7,
+  fontWeight: 700,
+  color: C['ink-muted'],
+  paddingVertical: 2,
+  paddingHorizontal: 3,
+  backgroundColor: '#f3f2ec',
+};
 const td = { fontSize: 7.5, paddingVertical: 1.5, paddingHorizontal: 3 };
 
 /** The budget of a propagated uncertainty as a compact table, then u_c and U, the Monte Carlo check and any warning. */
-export function UncertaintyBudget({ line, uncertainty }: { line: number; uncertainty: UncertaintyResult }): ReactElement {
+export function UncertaintyBudget({
+  line,
+  uncertainty,
+}: {
+  line: number;
+  uncertainty: UncertaintyResult;
+}): ReactElement {
   const widths = ['16%', '17%', '17%', '20%', '17%', '13%'];
   const rows = budgetRows(uncertainty);
   return (
@@ -98,7 +130,11 @@ export function UncertaintyBudget({ line, uncertainty }: { line: number; uncerta
                 <Group as="TR" inRow>
                   {cells.map((cell, i) => (
                     <Leaf key={i} as="TD" inRow>
-                      <Text style={[td, i === 0 ? mono : {}, { width: widths[i], textAlign: i === 0 ? 'left' : 'right' }]}>{cell}</Text>
+                      <Text
+                        style={[td, i === 0 ? mono : {}, { width: widths[i], textAlign: i === 0 ? 'left' : 'right' }]}
+                      >
+                        {cell}
+                      </Text>
                     </Leaf>
                   ))}
                 </Group>
@@ -112,7 +148,9 @@ export function UncertaintyBudget({ line, uncertainty }: { line: number; uncerta
       </Leaf>
       {uncertainty.nonLinear ? (
         <Leaf as="P">
-          <Text style={{ fontSize: 8, color: C['ink-muted'] }}>The model is not linear over ±2u of some input; the Monte Carlo result below is the one to rely on.</Text>
+          <Text style={{ fontSize: 8, color: C['ink-muted'] }}>
+            The model is not linear over ±2u of some input; the Monte Carlo result below is the one to rely on.
+          </Text>
         </Leaf>
       ) : null}
       {uncertainty.monteCarlo
@@ -124,7 +162,19 @@ export function UncertaintyBudget({ line, uncertainty }: { line: number; uncerta
         : null}
       {uncertainty.warning ? (
         <Leaf as="P">
-          <Text style={{ fontSize: 8, fontWeight: 700, color: C.caution, backgroundColor: C['caution-soft'], borderLeftWidth: 2, borderLeftColor: C['caution-rule'], paddingHorizontal: 4, paddingVertical: 1.5, marginTop: 2 }}>
+          <Text
+            style={{
+              fontSize: 8,
+              fontWeight: 700,
+              color: C.caution,
+              backgroundColor: C['caution-soft'],
+              borderLeftWidth: 2,
+              borderLeftColor: C['caution-rule'],
+              paddingHorizontal: 4,
+              paddingVertical: 1.5,
+              marginTop: 2,
+            }}
+          >
             {`Caution: ${uncertainty.warning}`}
           </Text>
         </Leaf>
@@ -140,7 +190,15 @@ export function studyColumnTitle(c: StudyTable['columns'][number]): string {
 }
 
 /** A sweep's table: the header repeated at the top of each page it runs onto; a failed step says why. */
-export function StudyTablePdf({ line, table, significantFigures }: { line: number; table: StudyTable; significantFigures: number }): ReactElement {
+export function StudyTablePdf({
+  line,
+  table,
+  significantFigures,
+}: {
+  line: number;
+  table: StudyTable;
+  significantFigures: number;
+}): ReactElement {
   const n = Math.max(1, table.columns.length);
   // Columns of numbers read best close together: the table takes what its columns need (at
   // least 60 % of the width, so a failed step's message has room), not the whole width.
@@ -163,18 +221,32 @@ export function StudyTablePdf({ line, table, significantFigures }: { line: numbe
   for (let start = 0; start < Math.max(1, table.rows.length); start += ROWS_PER_BOX) {
     const rows = table.rows.slice(start, start + ROWS_PER_BOX);
     boxes.push(
-      <View key={start} style={{ width: tableWidth, borderWidth: 0.5, borderColor: C['rule-strong'], borderTopWidth: start === 0 ? 0.5 : 0 }}>
+      <View
+        key={start}
+        style={{
+          width: tableWidth,
+          borderWidth: 0.5,
+          borderColor: C['rule-strong'],
+          borderTopWidth: start === 0 ? 0.5 : 0,
+        }}
+      >
         {header}
         {rows.map((row, k) => {
           const r = start + k;
           const error = table.errors[r];
           return (
-            <View key={r} style={{ flexDirection: 'row', borderTopWidth: k === 0 ? 0 : 0.5, borderTopColor: C.rule }} wrap={false}>
+            <View
+              key={r}
+              style={{ flexDirection: 'row', borderTopWidth: k === 0 ? 0 : 0.5, borderTopColor: C.rule }}
+              wrap={false}
+            >
               <Group as="TR" inRow>
                 {error ? (
                   <>
                     <Leaf as="TD" inRow>
-                      <Text style={[td, mono, { width, textAlign: 'right' }]}>{row[0] === null || row[0] === undefined ? '—' : formatNumberText(row[0], significantFigures)}</Text>
+                      <Text style={[td, mono, { width, textAlign: 'right' }]}>
+                        {row[0] === null || row[0] === undefined ? '—' : formatNumberText(row[0], significantFigures)}
+                      </Text>
                     </Leaf>
                     <Leaf as="TD" inRow>
                       <Text style={[td, { flex: 1, color: C.fail }]}>{`Step failed: ${error}`}</Text>
@@ -183,7 +255,9 @@ export function StudyTablePdf({ line, table, significantFigures }: { line: numbe
                 ) : (
                   table.columns.map((_, i) => (
                     <Leaf key={i} as="TD" inRow>
-                      <Text style={[td, mono, { width, textAlign: 'right' }]}>{row[i] === null || row[i] === undefined ? '—' : formatNumberText(row[i]!, significantFigures)}</Text>
+                      <Text style={[td, mono, { width, textAlign: 'right' }]}>
+                        {row[i] === null || row[i] === undefined ? '—' : formatNumberText(row[i]!, significantFigures)}
+                      </Text>
                     </Leaf>
                   ))
                 )}
@@ -207,7 +281,17 @@ export function StudyTablePdf({ line, table, significantFigures }: { line: numbe
 }
 
 /** A plot as vector graphics with its caption, kept on one page. */
-export function PlotFigurePdf({ line, plot, width, figure }: { line: number; plot: PlotData; width: number; figure: FigureRenderer | null }): ReactElement {
+export function PlotFigurePdf({
+  line,
+  plot,
+  width,
+  figure,
+}: {
+  line: number;
+  plot: PlotData;
+  width: number;
+  figure: FigureRenderer | null;
+}): ReactElement {
   const height = plot.kind === 'spacetime' ? SPACETIME_MAX_HEIGHT : CURVE_HEIGHT;
   return (
     <View style={{ paddingVertical: 3, borderTopWidth: 0.5, borderTopColor: C.rule }} wrap={false}>
@@ -224,9 +308,21 @@ export function PlotFigurePdf({ line, plot, width, figure }: { line: number; plo
 }
 
 /** The boxes that follow a statement's own box, in order: figure, table, budget. */
-export function statementExtras(st: StatementResult, options: { width: number; significantFigures: number; figure: FigureRenderer | null; keyPrefix: string }): ReactElement[] {
+export function statementExtras(
+  st: StatementResult,
+  options: { width: number; significantFigures: number; figure: FigureRenderer | null; keyPrefix: string },
+): ReactElement[] {
   const out: ReactElement[] = [];
-  if (st.plot) out.push(<PlotFigurePdf key={`${options.keyPrefix}-plot`} line={st.line} plot={st.plot} width={options.width} figure={options.figure} />);
+  if (st.plot)
+    out.push(
+      <PlotFigurePdf
+        key={`${options.keyPrefix}-plot`}
+        line={st.line}
+        plot={st.plot}
+        width={options.width}
+        figure={options.figure}
+      />,
+    );
   if (st.table)
     out.push(
       <Breakable key={`${options.keyPrefix}-table`}>
@@ -236,7 +332,13 @@ export function statementExtras(st: StatementResult, options: { width: number; s
   const u = st.uncertainty;
   if (u && u.kind === 'propagated' && (u.budget.length > 0 || u.monteCarlo || u.warning)) {
     const budget = <UncertaintyBudget line={st.line} uncertainty={u} />;
-    out.push(u.budget.length > 20 ? <Breakable key={`${options.keyPrefix}-budget`}>{budget}</Breakable> : <View key={`${options.keyPrefix}-budget`}>{budget}</View>);
+    out.push(
+      u.budget.length > 20 ? (
+        <Breakable key={`${options.keyPrefix}-budget`}>{budget}</Breakable>
+      ) : (
+        <View key={`${options.keyPrefix}-budget`}>{budget}</View>
+      ),
+    );
   }
   return out;
 }

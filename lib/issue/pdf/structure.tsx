@@ -21,7 +21,22 @@ import { Canvas } from '@react-pdf/renderer';
 import PDFDocument from 'pdfkit';
 import type { ReactElement, ReactNode } from 'react';
 
-type LeafType = 'H1' | 'H2' | 'H3' | 'H4' | 'H5' | 'H6' | 'P' | 'Lbl' | 'TH' | 'TD' | 'Code' | 'Formula' | 'Figure' | 'Caption' | 'Note';
+type LeafType =
+  | 'H1'
+  | 'H2'
+  | 'H3'
+  | 'H4'
+  | 'H5'
+  | 'H6'
+  | 'P'
+  | 'Lbl'
+  | 'TH'
+  | 'TD'
+  | 'Code'
+  | 'Formula'
+  | 'Figure'
+  | 'Caption'
+  | 'Note';
 type GroupType = 'Sect' | 'Div' | 'Table' | 'TR' | 'L' | 'LI';
 
 type Instruction =
@@ -72,7 +87,36 @@ let actedOn = 0;
 // Operators that only set the graphics state (ISO 32000-1 Table 51, 57, 74) and the marking
 // operators themselves: writing one of them draws nothing, so it does not open a marked sequence.
 // Every other operator (BT, a path's first m or re, Do, sh …) starts something drawn.
-const STATE_OPERATORS = new Set(['q', 'Q', 'cm', 'w', 'J', 'j', 'M', 'd', 'ri', 'i', 'gs', 'CS', 'cs', 'SC', 'SCN', 'sc', 'scn', 'G', 'g', 'RG', 'rg', 'K', 'k', 'BDC', 'BMC', 'EMC', 'MP', 'DP']);
+const STATE_OPERATORS = new Set([
+  'q',
+  'Q',
+  'cm',
+  'w',
+  'J',
+  'j',
+  'M',
+  'd',
+  'ri',
+  'i',
+  'gs',
+  'CS',
+  'cs',
+  'SC',
+  'SCN',
+  'sc',
+  'scn',
+  'G',
+  'g',
+  'RG',
+  'rg',
+  'K',
+  'k',
+  'BDC',
+  'BMC',
+  'EMC',
+  'MP',
+  'DP',
+]);
 
 function draws(data: string): boolean {
   const op = /(\S+)\s*$/.exec(data)?.[1] ?? '';
@@ -140,7 +184,8 @@ function act(doc: Doc, st: State, ins: Instruction): void {
       st.leaf = null;
       // The element is made once its content is complete, so every page it ran over is in the
       // parent tree; a leaf that drew nothing is no element.
-      if (leaf.content) st.groups[st.groups.length - 1].add(doc.struct(leaf.type, leaf.alt ? { alt: leaf.alt } : {}, [leaf.content]));
+      if (leaf.content)
+        st.groups[st.groups.length - 1].add(doc.struct(leaf.type, leaf.alt ? { alt: leaf.alt } : {}, [leaf.content]));
       if (!st.open) st.pending = true;
       return;
     }
@@ -215,7 +260,11 @@ export function structureInstructionsActedOn(): number {
 function Marker({ instruction, absolute = false }: { instruction: Instruction; absolute?: boolean }): ReactElement {
   return (
     <Canvas
-      style={absolute ? { position: 'absolute', left: 0, top: 0, width: 0.01, height: 0.01 } : { width: 0.001, height: 0.001 }}
+      style={
+        absolute
+          ? { position: 'absolute', left: 0, top: 0, width: 0.01, height: 0.01 }
+          : { width: 0.001, height: 0.001 }
+      }
       paint={(painter) => {
         (painter as unknown as { miterLimit(v: unknown): unknown }).miterLimit({ [INSTRUCTION]: instruction });
         return null;
@@ -225,7 +274,17 @@ function Marker({ instruction, absolute = false }: { instruction: Instruction; a
 }
 
 /** Tags what `children` draw as one structure element of a leaf type (a heading, a paragraph, a table cell, a formula…). */
-export function Leaf({ as, alt, inRow = false, children }: { as: LeafType; alt?: string; inRow?: boolean; children: ReactNode }): ReactElement {
+export function Leaf({
+  as,
+  alt,
+  inRow = false,
+  children,
+}: {
+  as: LeafType;
+  alt?: string;
+  inRow?: boolean;
+  children: ReactNode;
+}): ReactElement {
   return (
     <>
       <Marker instruction={{ op: 'leaf', type: as, ...(alt ? { alt } : {}) }} absolute={inRow} />
@@ -236,7 +295,15 @@ export function Leaf({ as, alt, inRow = false, children }: { as: LeafType; alt?:
 }
 
 /** Groups the leaves and groups `children` hold under one structure element (a section, a table, a row…). */
-export function Group({ as, inRow = false, children }: { as: GroupType; inRow?: boolean; children: ReactNode }): ReactElement {
+export function Group({
+  as,
+  inRow = false,
+  children,
+}: {
+  as: GroupType;
+  inRow?: boolean;
+  children: ReactNode;
+}): ReactElement {
   return (
     <>
       <Marker instruction={{ op: 'group', type: as }} absolute={inRow} />

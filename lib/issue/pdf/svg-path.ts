@@ -132,7 +132,14 @@ function serialize(segs: Segment[]): string {
     let cmd: string = seg.c;
     let p = seg.p;
     if (cmd === 'Q') {
-      p = [x0 + (2 / 3) * (p[0] - x0), y0 + (2 / 3) * (p[1] - y0), p[2] + (2 / 3) * (p[0] - p[2]), p[3] + (2 / 3) * (p[1] - p[3]), p[2], p[3]];
+      p = [
+        x0 + (2 / 3) * (p[0] - x0),
+        y0 + (2 / 3) * (p[1] - y0),
+        p[2] + (2 / 3) * (p[0] - p[2]),
+        p[3] + (2 / 3) * (p[1] - p[3]),
+        p[2],
+        p[3],
+      ];
       cmd = 'C';
     }
     out += cmd;

@@ -107,7 +107,14 @@ function declarations(el: Element): Map<string, string> {
   if (style) {
     for (const decl of style.split(';')) {
       const i = decl.indexOf(':');
-      if (i > 0) out.set(decl.slice(0, i).trim().toLowerCase(), decl.slice(i + 1).replace(/!important/, '').trim());
+      if (i > 0)
+        out.set(
+          decl.slice(0, i).trim().toLowerCase(),
+          decl
+            .slice(i + 1)
+            .replace(/!important/, '')
+            .trim(),
+        );
     }
   }
   return out;
@@ -164,7 +171,9 @@ function inherit(parent: Paint, d: Map<string, string>): Paint {
     p.strokeOpacity *= Number(opacity);
   }
   const weight = d.get('font-weight');
-  if (weight) p.fontWeight = weight === 'bold' || weight === 'bolder' ? 700 : weight === 'normal' ? 400 : Number(weight) >= 600 ? 700 : 400;
+  if (weight)
+    p.fontWeight =
+      weight === 'bold' || weight === 'bolder' ? 700 : weight === 'normal' ? 400 : Number(weight) >= 600 ? 700 : 400;
   const style = d.get('font-style');
   if (style) p.fontStyle = style === 'italic' || style === 'oblique' ? 'italic' : 'normal';
   const anchor = d.get('text-anchor');
@@ -214,12 +223,31 @@ function textRuns(el: Element, p: Paint): Array<{ text: string; x: number; y: nu
     const sx = parseLength(span.getAttribute('x'), sp.fontSize) ?? x;
     const abs = parseLength(span.getAttribute('y'), sp.fontSize);
     cy = (abs ?? cy) + (parseLength(span.getAttribute('dy'), sp.fontSize) ?? 0);
-    runs.push({ text: span.textContent ?? '', x: sx + (parseLength(span.getAttribute('dx'), sp.fontSize) ?? 0), y: cy, paint: sp });
+    runs.push({
+      text: span.textContent ?? '',
+      x: sx + (parseLength(span.getAttribute('dx'), sp.fontSize) ?? 0),
+      y: cy,
+      paint: sp,
+    });
   }
   return runs;
 }
 
-const DROPPED = new Set(['style', 'title', 'desc', 'defs', 'clippath', 'mask', 'metadata', 'script', 'foreignobject', 'marker', 'lineargradient', 'radialgradient', 'pattern']);
+const DROPPED = new Set([
+  'style',
+  'title',
+  'desc',
+  'defs',
+  'clippath',
+  'mask',
+  'metadata',
+  'script',
+  'foreignobject',
+  'marker',
+  'lineargradient',
+  'radialgradient',
+  'pattern',
+]);
 
 function walk(el: Element, parent: Paint, parentMatrix: Matrix, key: string): ReactElement | ReactElement[] | null {
   const tag = el.tagName.toLowerCase();
@@ -244,19 +272,48 @@ function walk(el: Element, parent: Paint, parentMatrix: Matrix, key: string): Re
       return path ? <Path key={key} d={path} {...shapeProps(p, m, true)} /> : null;
     }
     case 'line':
-      return <Line key={key} x1={num(el, 'x1', fs)} y1={num(el, 'y1', fs)} x2={num(el, 'x2', fs)} y2={num(el, 'y2', fs)} {...shapeProps(p, m, false)} />;
+      return (
+        <Line
+          key={key}
+          x1={num(el, 'x1', fs)}
+          y1={num(el, 'y1', fs)}
+          x2={num(el, 'x2', fs)}
+          y2={num(el, 'y2', fs)}
+          {...shapeProps(p, m, false)}
+        />
+      );
     case 'rect': {
       const width = num(el, 'width', fs);
       const height = num(el, 'height', fs);
       if (width <= 0 || height <= 0) return null;
-      return <Rect key={key} x={num(el, 'x', fs)} y={num(el, 'y', fs)} width={width} height={height} {...shapeProps(p, m, true)} />;
+      return (
+        <Rect
+          key={key}
+          x={num(el, 'x', fs)}
+          y={num(el, 'y', fs)}
+          width={width}
+          height={height}
+          {...shapeProps(p, m, true)}
+        />
+      );
     }
     case 'circle': {
       const r = num(el, 'r', fs);
-      return r > 0 ? <Circle key={key} cx={num(el, 'cx', fs)} cy={num(el, 'cy', fs)} r={r} {...shapeProps(p, m, true)} /> : null;
+      return r > 0 ? (
+        <Circle key={key} cx={num(el, 'cx', fs)} cy={num(el, 'cy', fs)} r={r} {...shapeProps(p, m, true)} />
+      ) : null;
     }
     case 'ellipse':
-      return <Ellipse key={key} cx={num(el, 'cx', fs)} cy={num(el, 'cy', fs)} rx={num(el, 'rx', fs)} ry={num(el, 'ry', fs)} {...shapeProps(p, m, true)} />;
+      return (
+        <Ellipse
+          key={key}
+          cx={num(el, 'cx', fs)}
+          cy={num(el, 'cy', fs)}
+          rx={num(el, 'rx', fs)}
+          ry={num(el, 'ry', fs)}
+          {...shapeProps(p, m, true)}
+        />
+      );
     case 'polyline':
       return <Polyline key={key} points={el.getAttribute('points') ?? ''} {...shapeProps(p, m, true)} />;
     case 'polygon':
@@ -273,7 +330,12 @@ function walk(el: Element, parent: Paint, parentMatrix: Matrix, key: string): Re
             fillOpacity={run.paint.fillOpacity !== 1 ? run.paint.fillOpacity : undefined}
             textAnchor={run.paint.textAnchor}
             transform={matrixAttr(multiply(m, [1, 0, 0, 1, run.x, run.y]))}
-            style={{ fontFamily: TEXT_FONT, fontSize: run.paint.fontSize, fontWeight: run.paint.fontWeight, fontStyle: run.paint.fontStyle }}
+            style={{
+              fontFamily: TEXT_FONT,
+              fontSize: run.paint.fontSize,
+              fontWeight: run.paint.fontWeight,
+              fontStyle: run.paint.fontStyle,
+            }}
           >
             {run.text}
           </Text>
@@ -288,7 +350,8 @@ export function svgSize(svg: Element): { width: number; height: number; viewBox:
   const vb = (svg.getAttribute('viewBox') ?? '').split(/[\s,]+/).map(Number);
   const width = parseLength(svg.getAttribute('width'), 16) ?? vb[2] ?? 300;
   const height = parseLength(svg.getAttribute('height'), 16) ?? vb[3] ?? 150;
-  const viewBox: [number, number, number, number] = vb.length === 4 && vb.every(Number.isFinite) ? (vb as [number, number, number, number]) : [0, 0, width, height];
+  const viewBox: [number, number, number, number] =
+    vb.length === 4 && vb.every(Number.isFinite) ? (vb as [number, number, number, number]) : [0, 0, width, height];
   return { width, height, viewBox };
 }
 
@@ -306,7 +369,11 @@ export function svgToPdf(svg: SVGSVGElement | Element, width?: number): ReactEle
 }
 
 /** A statement's plot drawn for the PDF: the figure made `width` points wide (one pixel of it per point). */
-export function plotPdfGraphic(data: PlotData, width: number, options: Omit<PlotFigureOptions, 'width' | 'fontFamily'> = {}): ReactElement {
+export function plotPdfGraphic(
+  data: PlotData,
+  width: number,
+  options: Omit<PlotFigureOptions, 'width' | 'fontFamily'> = {},
+): ReactElement {
   const svg = serverPlotElement(data, { fontSize: 8.5, ...options, width, fontFamily: TEXT_FONT });
   return svgToPdf(svg, width);
 }

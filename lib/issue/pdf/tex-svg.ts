@@ -158,7 +158,8 @@ export function typesetTex(source: string, display = false): TypesetMath {
   const box = String(adaptor.getAttribute(svg, 'viewBox') ?? '')
     .split(/[\s,]+/)
     .map(Number);
-  if (box.length !== 4 || box.some((x) => !Number.isFinite(x)) || box[2] <= 0 || box[3] <= 0) throw new Error('MathJax returned no viewBox');
+  if (box.length !== 4 || box.some((x) => !Number.isFinite(x)) || box[2] <= 0 || box[3] <= 0)
+    throw new Error('MathJax returned no viewBox');
   const items: MathPrimitive[] = [];
   const breaks: number[] = [];
   const mml = (node: LiteElement) => String(adaptor.getAttribute(node, 'data-mml-node') ?? '');
@@ -184,18 +185,45 @@ export function typesetTex(source: string, display = false): TypesetMath {
         const width = num(adaptor.getAttribute(node, 'width'));
         const height = num(adaptor.getAttribute(node, 'height'));
         const x = num(adaptor.getAttribute(node, 'x'));
-        if (width > 0 && height > 0) items.push({ kind: 'rect', x, y: num(adaptor.getAttribute(node, 'y')), width, height, matrix: m, left: m[0] * x + m[4] });
+        if (width > 0 && height > 0)
+          items.push({
+            kind: 'rect',
+            x,
+            y: num(adaptor.getAttribute(node, 'y')),
+            width,
+            height,
+            matrix: m,
+            left: m[0] * x + m[4],
+          });
         return;
       }
       case 'line': {
         const attr = (name: string) => num(adaptor.getAttribute(node, name));
-        items.push({ kind: 'line', x1: attr('x1'), y1: attr('y1'), x2: attr('x2'), y2: attr('y2'), strokeWidth: num(adaptor.getAttribute(node, 'stroke-width'), 40), matrix: m, left: m[0] * Math.min(attr('x1'), attr('x2')) + m[4] });
+        items.push({
+          kind: 'line',
+          x1: attr('x1'),
+          y1: attr('y1'),
+          x2: attr('x2'),
+          y2: attr('y2'),
+          strokeWidth: num(adaptor.getAttribute(node, 'stroke-width'), 40),
+          matrix: m,
+          left: m[0] * Math.min(attr('x1'), attr('x2')) + m[4],
+        });
         return;
       }
       case 'text': {
         const variant = String(adaptor.getAttribute(node, 'data-variant') ?? '');
         const text = adaptor.textContent(node);
-        if (text) items.push({ kind: 'text', text, fontSize: num(adaptor.getAttribute(node, 'font-size'), 1000), italic: variant.includes('italic'), bold: variant.includes('bold'), matrix: m, left: m[4] });
+        if (text)
+          items.push({
+            kind: 'text',
+            text,
+            fontSize: num(adaptor.getAttribute(node, 'font-size'), 1000),
+            italic: variant.includes('italic'),
+            bold: variant.includes('bold'),
+            matrix: m,
+            left: m[4],
+          });
         return;
       }
       case 'svg': {
@@ -226,7 +254,12 @@ export function typesetTex(source: string, display = false): TypesetMath {
 
   for (const child of adaptor.childNodes(svg)) if (isElement(child)) walk(child, IDENTITY, true);
   const [minX, minY, width, height] = box;
-  return { viewBox: [minX, minY, width, height], depth: minY + height, items, breaks: [...new Set(breaks)].sort((a, b) => a - b) };
+  return {
+    viewBox: [minX, minY, width, height],
+    depth: minY + height,
+    items,
+    breaks: [...new Set(breaks)].sort((a, b) => a - b),
+  };
 }
 
 /** typesetTex with a cache and no exceptions: null when the TeX cannot be typeset. */

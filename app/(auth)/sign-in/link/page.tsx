@@ -4,7 +4,11 @@ import { LinkSignIn } from '@/components/auth/link-sign-in';
 export const metadata: Metadata = { title: 'Sign in with a link' };
 export const dynamic = 'force-dynamic';
 
-export default async function LinkPage({ searchParams }: { searchParams: Promise<Record<string, string | undefined>> }) {
+export default async function LinkPage({
+  searchParams,
+}: {
+  searchParams: Promise<Record<string, string | undefined>>;
+}) {
   const { token } = await searchParams;
   return (
     <section className="mx-auto max-w-md py-10">

@@ -7,7 +7,9 @@ import { handle, parseJson } from '@/lib/http/route';
 export const dynamic = 'force-dynamic';
 
 export function GET(request: Request): Promise<Response> {
-  return handle(request, async () => Response.json({ tokens: await listApiTokens(getDb(), (await requireActor()).userId) }));
+  return handle(request, async () =>
+    Response.json({ tokens: await listApiTokens(getDb(), (await requireActor()).userId) }),
+  );
 }
 
 /**

@@ -9,6 +9,9 @@ export function POST(request: Request): Promise<Response> {
   return handle(request, async () => {
     const { email } = await parseJson(request, resetRequestSchema);
     await requestPasswordReset(getDb(), email);
-    return Response.json({ ok: true, message: 'If this address has an account, a link to reset the password is on its way.' }, { status: 202 });
+    return Response.json(
+      { ok: true, message: 'If this address has an account, a link to reset the password is on its way.' },
+      { status: 202 },
+    );
   });
 }

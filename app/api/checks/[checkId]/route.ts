@@ -10,7 +10,9 @@ type Context = { params: Promise<{ checkId: string }> };
 
 /** The check: the version against its base, comments, signatures and what the caller may do. */
 export function GET(request: Request, { params }: Context): Promise<Response> {
-  return handle(request, async () => Response.json(await getCheckDetail(getDb(), await requireActor(), (await routeParams(params)).checkId)));
+  return handle(request, async () =>
+    Response.json(await getCheckDetail(getDb(), await requireActor(), (await routeParams(params)).checkId)),
+  );
 }
 
 /** The checker's work: verification method, notes, alternate calculation cells (evaluated). */

@@ -13,71 +13,152 @@ function short(value: unknown): string {
   return text.length > 120 ? `${text.slice(0, 120)}…` : text;
 }
 
-export default async function AuditPage({ params, searchParams }: { params: Promise<{ projectCode: string }>; searchParams: Promise<Record<string, string>> }) {
+export default async function AuditPage({
+  params,
+  searchParams,
+}: {
+  params: Promise<{ projectCode: string }>;
+  searchParams: Promise<Record<string, string>>;
+}) {
   const { projectCode } = await params;
-  const { project } = await pageProject(projectCode, `/projects/${projectCode}/audit`, ['originator', 'checker', 'approver', 'controller']);
+  const { project } = await pageProject(projectCode, `/projects/${projectCode}/audit`, [
+    'originator',
+    'checker',
+    'approver',
+    'controller',
+  ]);
   const query = await searchParams;
   const parsed = auditFilterSchema.safeParse(query);
   const filter = parsed.success ? parsed.data : auditFilterSchema.parse({});
-  const [events, actions, members] = await Promise.all([listProjectAudit(getDb(), project.id, filter), listProjectAuditActions(getDb(), project.id), listMembers(getDb(), project.id)]);
-  const csv = new URLSearchParams({ ...Object.fromEntries(Object.entries(filter).filter(([, v]) => v !== undefined).map(([k, v]) => [k, String(v)])), format: 'csv' });
+  const [events, actions, members] = await Promise.all([
+    listProjectAudit(getDb(), project.id, filter),
+    listProjectAuditActions(getDb(), project.id),
+    listMembers(getDb(), project.id),
+  ]);
+  const csv = new URLSearchParams({
+    ...Object.fromEntries(
+      Object.entries(filter)
+        .filter(([, v]) => v !== undefined)
+        .map(([k, v]) => [k, String(v)]),
+    ),
+    format: 'csv',
+  });
   return (
     <div className="space-y-6">
       <header>
         <p className="font-mono text-sm text-ink-muted">{project.code}</p>
         <h1 className="text-2xl font-bold">Audit trail</h1>
         <p className="mt-1 max-w-prose text-ink-muted">
-          Every change in this project, newest first, as the database recorded it (UTC, database clock). Each event&apos;s SHA-256 covers the one before, so a changed or missing event shows.
+          Every change in this project, newest first, as the database recorded it (UTC, database clock). Each
+          event&apos;s SHA-256 covers the one before, so a changed or missing event shows.
         </p>
       </header>
       <form method="get" className="flex flex-wrap items-end gap-3 rounded border border-rule bg-surface p-3 text-sm">
         <div>
-          <label htmlFor="person" className="block font-semibold">Person</label>
-          <select id="person" name="person" defaultValue={filter.person ?? ''} className="rounded border border-rule-strong bg-surface px-2 py-1">
+          <label htmlFor="person" className="block font-semibold">
+            Person
+          </label>
+          <select
+            id="person"
+            name="person"
+            defaultValue={filter.person ?? ''}
+            className="rounded border border-rule-strong bg-surface px-2 py-1"
+          >
             <option value="">Anyone</option>
             {members.map((m) => (
-              <option key={m.userId} value={m.userId}>{m.name}</option>
+              <option key={m.userId} value={m.userId}>
+                {m.name}
+              </option>
             ))}
           </select>
         </div>
         <div>
-          <label htmlFor="action" className="block font-semibold">Action</label>
-          <select id="action" name="action" defaultValue={filter.action ?? ''} className="rounded border border-rule-strong bg-surface px-2 py-1">
+          <label htmlFor="action" className="block font-semibold">
+            Action
+          </label>
+          <select
+            id="action"
+            name="action"
+            defaultValue={filter.action ?? ''}
+            className="rounded border border-rule-strong bg-surface px-2 py-1"
+          >
             <option value="">Any</option>
             {actions.map((a) => (
-              <option key={a} value={a}>{a}</option>
+              <option key={a} value={a}>
+                {a}
+              </option>
             ))}
           </select>
         </div>
         <div>
-          <label htmlFor="from" className="block font-semibold">From (UTC)</label>
-          <input id="from" name="from" type="date" defaultValue={filter.from ?? ''} className="rounded border border-rule-strong bg-surface px-2 py-1" />
+          <label htmlFor="from" className="block font-semibold">
+            From (UTC)
+          </label>
+          <input
+            id="from"
+            name="from"
+            type="date"
+            defaultValue={filter.from ?? ''}
+            className="rounded border border-rule-strong bg-surface px-2 py-1"
+          />
         </div>
         <div>
-          <label htmlFor="to" className="block font-semibold">To (UTC)</label>
-          <input id="to" name="to" type="date" defaultValue={filter.to ?? ''} className="rounded border border-rule-strong bg-surface px-2 py-1" />
+          <label htmlFor="to" className="block font-semibold">
+            To (UTC)
+          </label>
+          <input
+            id="to"
+            name="to"
+            type="date"
+            defaultValue={filter.to ?? ''}
+            className="rounded border border-rule-strong bg-surface px-2 py-1"
+          />
         </div>
-        <button type="submit" className="rounded bg-accent px-3 py-1.5 font-semibold text-surface hover:bg-accent-hover">Filter</button>
-        <a href={`/api/projects/${project.id}/audit?${csv}`} className="font-semibold text-accent underline">Download CSV</a>
+        <button
+          type="submit"
+          className="rounded bg-accent px-3 py-1.5 font-semibold text-surface hover:bg-accent-hover"
+        >
+          Filter
+        </button>
+        <a href={`/api/projects/${project.id}/audit?${csv}`} className="font-semibold text-accent underline">
+          Download CSV
+        </a>
       </form>
       <table className="w-full border-collapse text-sm">
         <caption className="sr-only">Audit events</caption>
         <thead>
           <tr className="border-b border-rule-strong text-left">
-            <th scope="col" className="py-2 pr-3">#</th>
-            <th scope="col" className="py-2 pr-3">Time (UTC)</th>
-            <th scope="col" className="py-2 pr-3">Person</th>
-            <th scope="col" className="py-2 pr-3">Action</th>
-            <th scope="col" className="py-2 pr-3">Change</th>
-            <th scope="col" className="py-2">Reason</th>
+            <th scope="col" className="py-2 pr-3">
+              #
+            </th>
+            <th scope="col" className="py-2 pr-3">
+              Time (UTC)
+            </th>
+            <th scope="col" className="py-2 pr-3">
+              Person
+            </th>
+            <th scope="col" className="py-2 pr-3">
+              Action
+            </th>
+            <th scope="col" className="py-2 pr-3">
+              Change
+            </th>
+            <th scope="col" className="py-2">
+              Reason
+            </th>
           </tr>
         </thead>
         <tbody>
           {events.map((e) => (
             <tr key={e.id} className="border-b border-rule align-top">
               <td className="py-2 pr-3 font-mono">{e.id}</td>
-              <td className="py-2 pr-3 font-mono whitespace-nowrap">{e.occurred_at.toISOString().replace('T', ' ').slice(0, 19)}</td>
-              <td className="py-2 pr-3">{e.actor_name ?? 'system'}{e.token_id ? <span className="block text-xs text-ink-muted">via API token</span> : null}</td>
+              <td className="py-2 pr-3 font-mono whitespace-nowrap">
+                {e.occurred_at.toISOString().replace('T', ' ').slice(0, 19)}
+              </td>
+              <td className="py-2 pr-3">
+                {e.actor_name ?? 'system'}
+                {e.token_id ? <span className="block text-xs text-ink-muted">via API token</span> : null}
+              </td>
               <td className="py-2 pr-3 font-mono">{e.action}</td>
               <td className="py-2 pr-3 font-mono text-xs break-all">
                 {e.old_value !== null ? <span className="block">was {short(e.old_value)}</span> : null}

@@ -16,12 +16,21 @@ const STATUS_STYLE: Record<string, string> = {
   withdrawn: 'bg-fail-soft text-fail',
 };
 
-export default async function ProjectRegisterPage({ params, searchParams }: { params: Promise<{ projectCode: string }>; searchParams: Promise<Record<string, string>> }) {
+export default async function ProjectRegisterPage({
+  params,
+  searchParams,
+}: {
+  params: Promise<{ projectCode: string }>;
+  searchParams: Promise<Record<string, string>>;
+}) {
   const { projectCode } = await params;
   const { project, roles } = await pageProject(projectCode, `/projects/${projectCode}/register`);
   const parsed = registerQuerySchema.safeParse(await searchParams);
   const filter = parsed.success ? parsed.data : registerQuerySchema.parse({});
-  const [rows, stale] = await Promise.all([listRevisions(getDb(), { projectId: project.id, status: filter.status, q: filter.q }), revisionInputFlags(getDb(), project.id)]);
+  const [rows, stale] = await Promise.all([
+    listRevisions(getDb(), { projectId: project.id, status: filter.status, q: filter.q }),
+    revisionInputFlags(getDb(), project.id),
+  ]);
   const controller = roles.includes('controller');
   const csv = new URLSearchParams({ status: filter.status, ...(filter.q ? { q: filter.q } : {}), format: 'csv' });
   return (
@@ -30,15 +39,22 @@ export default async function ProjectRegisterPage({ params, searchParams }: { pa
         <p className="font-mono text-sm text-ink-muted">{project.code}</p>
         <h1 className="text-2xl font-bold">Document register</h1>
         <p className="mt-1 max-w-prose text-ink-muted">
-          Every issued revision of {project.name}, with its status. Only the current revision of a sheet is for use; a superseded or withdrawn one
-          downloads as a copy stamped with its status. “Superseded input” marks a revision whose version cites a revision of another sheet that
-          has since been superseded or withdrawn.
+          Every issued revision of {project.name}, with its status. Only the current revision of a sheet is for use; a
+          superseded or withdrawn one downloads as a copy stamped with its status. “Superseded input” marks a revision
+          whose version cites a revision of another sheet that has since been superseded or withdrawn.
         </p>
       </header>
       <form method="get" className="flex flex-wrap items-end gap-3 rounded border border-rule bg-surface p-3 text-sm">
         <div>
-          <label htmlFor="reg-status" className="block font-semibold">Status</label>
-          <select id="reg-status" name="status" defaultValue={filter.status} className="rounded border border-rule-strong bg-surface px-2 py-1">
+          <label htmlFor="reg-status" className="block font-semibold">
+            Status
+          </label>
+          <select
+            id="reg-status"
+            name="status"
+            defaultValue={filter.status}
+            className="rounded border border-rule-strong bg-surface px-2 py-1"
+          >
             <option value="all">Any</option>
             <option value="current">Current</option>
             <option value="superseded">Superseded</option>
@@ -46,11 +62,27 @@ export default async function ProjectRegisterPage({ params, searchParams }: { pa
           </select>
         </div>
         <div>
-          <label htmlFor="reg-q" className="block font-semibold">Sheet number or title</label>
-          <input id="reg-q" name="q" defaultValue={filter.q ?? ''} className="rounded border border-rule-strong bg-surface px-2 py-1" />
+          <label htmlFor="reg-q" className="block font-semibold">
+            Sheet number or title
+          </label>
+          <input
+            id="reg-q"
+            name="q"
+            defaultValue={filter.q ?? ''}
+            className="rounded border border-rule-strong bg-surface px-2 py-1"
+          />
         </div>
-        <button type="submit" className="rounded bg-accent px-3 py-1.5 font-semibold text-surface hover:bg-accent-hover">Filter</button>
-        <a href={`/api/projects/${project.id}/register?${csv}`} download className="ml-auto font-semibold text-accent underline">
+        <button
+          type="submit"
+          className="rounded bg-accent px-3 py-1.5 font-semibold text-surface hover:bg-accent-hover"
+        >
+          Filter
+        </button>
+        <a
+          href={`/api/projects/${project.id}/register?${csv}`}
+          download
+          className="ml-auto font-semibold text-accent underline"
+        >
           Export as CSV
         </a>
       </form>
@@ -62,14 +94,30 @@ export default async function ProjectRegisterPage({ params, searchParams }: { pa
             <caption className="sr-only">Issued revisions of {project.code}</caption>
             <thead>
               <tr className="border-b border-rule-strong">
-                <th scope="col" className="px-3 py-2">Sheet</th>
-                <th scope="col" className="px-3 py-2">Title</th>
-                <th scope="col" className="px-3 py-2">Revision</th>
-                <th scope="col" className="px-3 py-2">Status</th>
-                <th scope="col" className="px-3 py-2">Version</th>
-                <th scope="col" className="px-3 py-2">Issued (UTC)</th>
-                <th scope="col" className="px-3 py-2">Verification code</th>
-                <th scope="col" className="px-3 py-2">PDF</th>
+                <th scope="col" className="px-3 py-2">
+                  Sheet
+                </th>
+                <th scope="col" className="px-3 py-2">
+                  Title
+                </th>
+                <th scope="col" className="px-3 py-2">
+                  Revision
+                </th>
+                <th scope="col" className="px-3 py-2">
+                  Status
+                </th>
+                <th scope="col" className="px-3 py-2">
+                  Version
+                </th>
+                <th scope="col" className="px-3 py-2">
+                  Issued (UTC)
+                </th>
+                <th scope="col" className="px-3 py-2">
+                  Verification code
+                </th>
+                <th scope="col" className="px-3 py-2">
+                  PDF
+                </th>
               </tr>
             </thead>
             <tbody>
@@ -85,7 +133,9 @@ export default async function ProjectRegisterPage({ params, searchParams }: { pa
                   </td>
                   <td className="px-3 py-2 font-semibold">{r.revision}</td>
                   <td className="px-3 py-2">
-                    <span className={`rounded px-1.5 py-0.5 text-xs font-bold ${STATUS_STYLE[r.status]}`}>{r.status}</span>
+                    <span className={`rounded px-1.5 py-0.5 text-xs font-bold ${STATUS_STYLE[r.status]}`}>
+                      {r.status}
+                    </span>
                     {r.supersededBy ? <div className="text-xs text-ink-muted">by revision {r.supersededBy}</div> : null}
                     {r.withdrawnReason ? <div className="text-xs text-ink-muted">{r.withdrawnReason}</div> : null}
                     {stale.has(r.id) ? (
@@ -93,7 +143,10 @@ export default async function ProjectRegisterPage({ params, searchParams }: { pa
                         Superseded input:{' '}
                         {stale
                           .get(r.id)!
-                          .map((c) => `${c.sheet} rev ${c.revision} (${c.currentRevision ? `now ${c.currentRevision}` : c.status})`)
+                          .map(
+                            (c) =>
+                              `${c.sheet} rev ${c.revision} (${c.currentRevision ? `now ${c.currentRevision}` : c.status})`,
+                          )
                           .join('; ')}
                       </div>
                     ) : null}
@@ -110,18 +163,28 @@ export default async function ProjectRegisterPage({ params, searchParams }: { pa
                   </td>
                   <td className="px-3 py-2 font-mono whitespace-nowrap">{r.verificationCode}</td>
                   <td className="space-y-1 px-3 py-2">
-                    <a href={`/api/revisions/${r.id}/pdf`} download className="block font-semibold text-accent underline">
+                    <a
+                      href={`/api/revisions/${r.id}/pdf`}
+                      download
+                      className="block font-semibold text-accent underline"
+                    >
                       {r.status === 'current' ? 'Download' : `Download (stamped ${r.status})`}
                     </a>
                     {controller && r.status !== 'current' ? (
-                      <a href={`/api/revisions/${r.id}/pdf?original=1`} download className="block text-accent underline">
+                      <a
+                        href={`/api/revisions/${r.id}/pdf?original=1`}
+                        download
+                        className="block text-accent underline"
+                      >
                         Original file
                       </a>
                     ) : null}
                     <div className="font-mono text-xs text-ink-muted" title={`SHA-256 of the PDF: ${r.pdfSha256}`}>
                       {r.pdfSha256.slice(0, 12)}…
                     </div>
-                    {controller && r.status !== 'withdrawn' ? <WithdrawForm revisionId={r.id} label={`${r.sheet} revision ${r.revision}`} /> : null}
+                    {controller && r.status !== 'withdrawn' ? (
+                      <WithdrawForm revisionId={r.id} label={`${r.sheet} revision ${r.revision}`} />
+                    ) : null}
                   </td>
                 </tr>
               ))}

@@ -25,7 +25,9 @@ export function requireMassiveSpeed(fn: string, name: string, beta: number): num
   if (!(Math.abs(beta) < 1)) {
     const which = name === 'v' ? '|β|' : `|β| of ${name}`;
     const written = asWritten(name, beta);
-    throw new DomainError(`${fn}: ${which} must be below 1 for a massive body; got β = ${beta}${written && written !== String(beta) ? ` (${name} = ${written})` : ''}`);
+    throw new DomainError(
+      `${fn}: ${which} must be below 1 for a massive body; got β = ${beta}${written && written !== String(beta) ? ` (${name} = ${written})` : ''}`,
+    );
   }
   return beta;
 }
@@ -89,7 +91,9 @@ export function requireNonNegative(fn: string, name: string, x: number, unit: st
 /** A result that left the double range is refused rather than returned as ±Infinity or NaN. */
 export function finiteResult(fn: string, x: number): number {
   if (!Number.isFinite(x)) {
-    throw new DomainError(`${fn}: the result is outside the range of double-precision numbers (got ${x}); rescale the inputs`);
+    throw new DomainError(
+      `${fn}: the result is outside the range of double-precision numbers (got ${x}); rescale the inputs`,
+    );
   }
   return x;
 }

@@ -142,7 +142,11 @@ function sinCosReduced(r: DD): [DD, DD] {
     const sinTerm = mulNum(mul(mul(power, r), INVERSE_FACTORIAL[2 * n + 1]), sign);
     cosSum = add(cosSum, cosTerm);
     sinSum = add(sinSum, sinTerm);
-    if (Math.abs(cosTerm[0]) < NEGLIGIBLE * Math.abs(cosSum[0]) && Math.abs(sinTerm[0]) < NEGLIGIBLE * Math.abs(sinSum[0])) break;
+    if (
+      Math.abs(cosTerm[0]) < NEGLIGIBLE * Math.abs(cosSum[0]) &&
+      Math.abs(sinTerm[0]) < NEGLIGIBLE * Math.abs(sinSum[0])
+    )
+      break;
   }
   return [sinSum, cosSum];
 }

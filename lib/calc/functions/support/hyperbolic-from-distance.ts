@@ -32,7 +32,10 @@ export function distanceMotion(fn: string, a0: number, d: number, dName = 'd'): 
   requireFinite(fn, 'a0', a0);
   requireNonNegative(fn, dName, d, 'm', 'the distance covered from rest');
   const a = Math.abs(a0);
-  if (a === 0 && d > 0) throw new DomainError(`${fn}: a0 must not be 0 when ${dName} > 0 (a body at rest that does not accelerate never covers a distance); got a0 = 0`);
+  if (a === 0 && d > 0)
+    throw new DomainError(
+      `${fn}: a0 must not be 0 when ${dName} > 0 (a body at rest that does not accelerate never covers a distance); got a0 = 0`,
+    );
   const sign = a0 < 0 ? -1 : 1;
   // a·d/c² from the exact product where it is representable, otherwise as (a/c²)·d.
   const x = a * d < 1e300 ? div(twoProd(a, d), C_SQUARED) : mul(div(dd(a), C_SQUARED), dd(d));

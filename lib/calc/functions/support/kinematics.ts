@@ -8,7 +8,21 @@ import { C } from '../../constants';
 import { DomainError, type KernelArgument, type PreciseSpeed } from '../types';
 import { keepBelowLight, requireFinite, requireMassiveSpeed } from './domain';
 import { atanhSeries, hypotOne, log1p } from './elementary';
-import { add, type DD, dd, div, fromDecimal, mul, mulNum, round, scale, sqrt, sub, twoProd, twoSum } from './double-double';
+import {
+  add,
+  type DD,
+  dd,
+  div,
+  fromDecimal,
+  mul,
+  mulNum,
+  round,
+  scale,
+  sqrt,
+  sub,
+  twoProd,
+  twoSum,
+} from './double-double';
 
 /** c², exact (c is an integer below 2^53, so Dekker's product is exact). */
 export const C_SQUARED: DD = twoProd(C, C);
@@ -89,7 +103,9 @@ export function massiveSpeed(fn: string, name: string, v: KernelArgument): Preci
   if (!Number.isFinite(b) || !Number.isFinite(v.inverseGamma[0])) requireFinite(fn, name, Number.NaN);
   if (!(v.inverseGamma[0] > 0)) {
     if (Math.abs(b) >= 1 && v.inverseGamma[0] === 0) requireMassiveSpeed(fn, name, b);
-    throw new DomainError(`${fn}: ${name} is so close to c that 1/γ = √(1 − β²) is below the smallest double; use energies or momenta for such beams`);
+    throw new DomainError(
+      `${fn}: ${name} is so close to c that 1/γ = √(1 − β²) is below the smallest double; use energies or momenta for such beams`,
+    );
   }
   return v;
 }
@@ -142,7 +158,13 @@ export function speedValue(result: PreciseSpeed | number): number {
  * a companion, as the kernels did before companions existed.
  */
 export function massiveResult(beta: DD, s: DD): PreciseSpeed | number {
-  if (!(s[0] > 0) || !Number.isFinite(s[0]) || !Number.isFinite(beta[0]) || !Number.isFinite(beta[1]) || !Number.isFinite(s[1])) {
+  if (
+    !(s[0] > 0) ||
+    !Number.isFinite(s[0]) ||
+    !Number.isFinite(beta[0]) ||
+    !Number.isFinite(beta[1]) ||
+    !Number.isFinite(s[1])
+  ) {
     return keepBelowLight(round(beta));
   }
   return { beta, inverseGamma: s };
@@ -200,7 +222,9 @@ export function speedFromKineticDD(T: DD, m: number): PreciseSpeed | number {
 export function momentumFromRigidityDD(fn: string, Brho: number, q: number): DD {
   if (q === 0) throw new DomainError(`${fn}: q must not be zero (a neutral particle has no rigidity); got q = 0 C`);
   if (Brho !== 0 && Math.sign(Brho) !== Math.sign(q)) {
-    throw new DomainError(`${fn}: Brho must have the sign of q (Bρ = p/q with p ≥ 0); got Brho = ${Brho} T m, q = ${q} C`);
+    throw new DomainError(
+      `${fn}: Brho must have the sign of q (Bρ = p/q with p ≥ 0); got Brho = ${Brho} T m, q = ${q} C`,
+    );
   }
   const qBrho = twoProd(Brho, q);
   return qBrho[0] < 0 ? [-qBrho[0], -qBrho[1]] : qBrho;

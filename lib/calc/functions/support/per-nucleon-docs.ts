@@ -4,18 +4,25 @@ import type { ParamDoc } from '../types';
 export const TN_PARAM: ParamDoc = {
   name: 'Tn',
   kind: 'energy-per-nucleon',
-  description: 'kinetic energy PER NUCLEON, T/A (430 MeV, or 430 MeV/u as the therapy trade writes it: read as per nucleon)',
+  description:
+    'kinetic energy PER NUCLEON, T/A (430 MeV, or 430 MeV/u as the therapy trade writes it: read as per nucleon)',
 };
-export const A_PARAM: ParamDoc = { name: 'A', kind: 'number', description: 'mass number: nucleons in the nucleus (12 for ¹²C), a plain integer; not the charge state' };
+export const A_PARAM: ParamDoc = {
+  name: 'A',
+  kind: 'number',
+  description: 'mass number: nucleons in the nucleus (12 for ¹²C), a plain integer; not the charge state',
+};
 export const ION_MASS_PARAM: ParamDoc = {
   name: 'm',
   kind: 'mass',
-  description: 'rest mass of the ion as accelerated (e.g. ionMass(M_C12, 6, 6), m_p, m_alpha); not the neutral atomic mass',
+  description:
+    'rest mass of the ion as accelerated (e.g. ionMass(M_C12, 6, 6), m_p, m_alpha); not the neutral atomic mass',
 };
 export const CHARGE_STATE_PARAM: ParamDoc = {
   name: 'q',
   kind: 'charge',
-  description: 'charge of the ion: the charge state as an integer (6 for C⁶⁺) or a charge (6 q_e); not the atomic number',
+  description:
+    'charge of the ion: the charge state as an integer (6 for C⁶⁺) or a charge (6 q_e); not the atomic number',
 };
 
 /** The per-nucleon convention, said the same way in every per-nucleon function's documentation. */

@@ -14,7 +14,9 @@ export const A_MAX = 300;
 export function requireMassNumber(fn: string, A: number): number {
   requireFinite(fn, 'A', A);
   if (!Number.isInteger(A) || A < 1 || A > A_MAX) {
-    throw new DomainError(`${fn}: A is the mass number (nucleons in the nucleus, 12 for ¹²C), an integer from 1 to ${A_MAX}; got A = ${A}`);
+    throw new DomainError(
+      `${fn}: A is the mass number (nucleons in the nucleus, 12 for ¹²C), an integer from 1 to ${A_MAX}; got A = ${A}`,
+    );
   }
   return A;
 }

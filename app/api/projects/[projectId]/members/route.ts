@@ -12,7 +12,11 @@ type Context = { params: Promise<{ projectId: string }> };
 
 /** An administrator names the project by its id or its code, as members do. */
 async function projectForAdmin(projectId: string): Promise<string> {
-  const project = await getDb().selectFrom('projects').select('id').where(z.uuid().safeParse(projectId).success ? 'id' : 'code', '=', projectId).executeTakeFirst();
+  const project = await getDb()
+    .selectFrom('projects')
+    .select('id')
+    .where(z.uuid().safeParse(projectId).success ? 'id' : 'code', '=', projectId)
+    .executeTakeFirst();
   if (!project) throw new AppError('not_found', 'No such project.');
   return project.id;
 }

@@ -15,7 +15,10 @@ export function GET(request: Request, { params }: { params: Promise<{ projectId:
     const rows = await listRevisions(getDb(), { projectId: project.id, status: q.status, q: q.q });
     if (q.format === 'csv') {
       return new Response(registerCsv(rows, await revisionInputFlags(getDb(), project.id)), {
-        headers: { 'content-type': 'text/csv; charset=utf-8', 'content-disposition': `attachment; filename="${project.code}-register.csv"` },
+        headers: {
+          'content-type': 'text/csv; charset=utf-8',
+          'content-disposition': `attachment; filename="${project.code}-register.csv"`,
+        },
       });
     }
     return Response.json({ project: project.code, revisions: rows });

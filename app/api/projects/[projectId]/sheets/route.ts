@@ -20,6 +20,8 @@ export function GET(request: Request, { params }: Context): Promise<Response> {
 export function POST(request: Request, { params }: Context): Promise<Response> {
   return handle(request, async () => {
     const { actor, project } = await requireProjectRole((await routeParams(params)).projectId, ['originator']);
-    return Response.json(await createSheet(getDb(), actor, project, await parseJson(request, createSheetSchema)), { status: 201 });
+    return Response.json(await createSheet(getDb(), actor, project, await parseJson(request, createSheetSchema)), {
+      status: 201,
+    });
   });
 }

@@ -20,9 +20,18 @@ export function GET(request: Request, { params }: Context): Promise<Response> {
 
 /** Uploads a file (multipart field `file`); the editor then cites it in the next version. */
 export function POST(request: Request, { params }: Context): Promise<Response> {
-  return handle(request, async () => {
-    const { actor, sheet } = await requireSheetAccess((await routeParams(params)).sheetId, ['originator']);
-    const file = await readFormFile(request, 'file', MAX_ATTACHMENT_BYTES, `The file is larger than any accepted attachment: ${ACCEPTED_DESCRIPTION}.`);
-    return Response.json(await uploadAttachment(getDb(), getObjectStore(), actor, sheet, file), { status: 201 });
-  }, { multipart: true });
+  return handle(
+    request,
+    async () => {
+      const { actor, sheet } = await requireSheetAccess((await routeParams(params)).sheetId, ['originator']);
+      const file = await readFormFile(
+        request,
+        'file',
+        MAX_ATTACHMENT_BYTES,
+        `The file is larger than any accepted attachment: ${ACCEPTED_DESCRIPTION}.`,
+      );
+      return Response.json(await uploadAttachment(getDb(), getObjectStore(), actor, sheet, file), { status: 201 });
+    },
+    { multipart: true },
+  );
 }

@@ -14,7 +14,10 @@ export function GET(request: Request, { params }: Context): Promise<Response> {
     const { actor, sheet } = await requireSheetAccess((await routeParams(params)).sheetId);
     const workflow = await sheetWorkflow(getDb(), sheet.id);
     // Eligibility as if the caller submitted it: the submitter cannot also check it.
-    return Response.json({ ...workflow, checkers: await eligibleCheckers(getDb(), sheet, workflow.latestVersion, actor.userId) });
+    return Response.json({
+      ...workflow,
+      checkers: await eligibleCheckers(getDb(), sheet, workflow.latestVersion, actor.userId),
+    });
   });
 }
 

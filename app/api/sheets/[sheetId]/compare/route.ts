@@ -17,7 +17,10 @@ export function GET(request: Request, { params }: { params: Promise<{ sheetId: s
   return handle(request, async () => {
     const { sheet } = await requireSheetAccess((await routeParams(params)).sheetId);
     const q = parseValue(searchParams(request), compareQuerySchema);
-    const [base, target] = await Promise.all([q.base ? getVersion(getDb(), sheet.id, q.base) : Promise.resolve(null), getVersion(getDb(), sheet.id, q.target)]);
+    const [base, target] = await Promise.all([
+      q.base ? getVersion(getDb(), sheet.id, q.base) : Promise.resolve(null),
+      getVersion(getDb(), sheet.id, q.target),
+    ]);
     if (!target || base === undefined) throw new AppError('not_found', 'No such version.');
     return Response.json({
       base: base ? { number: base.number, sha256: base.sha256 } : null,

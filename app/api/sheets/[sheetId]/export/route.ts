@@ -27,12 +27,19 @@ export function GET(request: Request, { params }: { params: Promise<{ sheetId: s
       checkCarriedSize(version.content.attachments);
       carried = new Map();
       for (const a of version.content.attachments) {
-        if (!carried.has(a.sha256)) carried.set(a.sha256, (await readAttachment(getDb(), getObjectStore(), sheet.id, a.sha256)).bytes);
+        if (!carried.has(a.sha256))
+          carried.set(a.sha256, (await readAttachment(getDb(), getObjectStore(), sheet.id, a.sha256)).bytes);
       }
     }
     const suffix = carried && carried.size > 0 ? '-with-attachments' : '';
-    return new Response(`${JSON.stringify(sheetFileOf(version.content, { number, version: version.number, sha256: version.sha256 }, carried), null, 2)}\n`, {
-      headers: { 'content-type': 'application/json; charset=utf-8', 'content-disposition': `attachment; filename="${number}-v${version.number}${suffix}.json"` },
-    });
+    return new Response(
+      `${JSON.stringify(sheetFileOf(version.content, { number, version: version.number, sha256: version.sha256 }, carried), null, 2)}\n`,
+      {
+        headers: {
+          'content-type': 'application/json; charset=utf-8',
+          'content-disposition': `attachment; filename="${number}-v${version.number}${suffix}.json"`,
+        },
+      },
+    );
   });
 }

@@ -11,7 +11,14 @@ export const dynamic = 'force-dynamic';
 export function GET(request: Request, { params }: { params: Promise<{ sheetId: string }> }): Promise<Response> {
   return handle(request, async () => {
     const { sheet, project } = await requireSheetAccess((await routeParams(params)).sheetId);
-    const [revisions, inputs] = await Promise.all([sheetImpact(getDb(), sheet.id), supersededInputs(getDb(), sheet.id)]);
-    return Response.json({ sheet: { id: sheet.id, code: formatSheetNumber(project.code, sheet.number), title: sheet.title }, supersededInputs: inputs, revisions });
+    const [revisions, inputs] = await Promise.all([
+      sheetImpact(getDb(), sheet.id),
+      supersededInputs(getDb(), sheet.id),
+    ]);
+    return Response.json({
+      sheet: { id: sheet.id, code: formatSheetNumber(project.code, sheet.number), title: sheet.title },
+      supersededInputs: inputs,
+      revisions,
+    });
   });
 }

@@ -13,7 +13,13 @@ import { CautionNotice, SafetyRelatedNotice } from '@/components/shell/caution-n
 import { getDb } from '@/db';
 import { pageParams, queryInt4 } from '@/lib/http/params';
 import { pageProject } from '@/lib/auth/page-guard';
-import { eligibleCheckers, MEANING_LABELS, SHEET_STATUS_LABELS, sheetWorkflow, type SheetWorkflow } from '@/lib/checks/workflow';
+import {
+  eligibleCheckers,
+  MEANING_LABELS,
+  SHEET_STATUS_LABELS,
+  sheetWorkflow,
+  type SheetWorkflow,
+} from '@/lib/checks/workflow';
 import { IssuePanel } from '@/components/issue/issue-panel';
 import { issueCandidates, listRevisions } from '@/lib/issue/issue';
 import { supersededInputs } from '@/lib/sheets/impact';
@@ -31,14 +37,27 @@ export const dynamic = 'force-dynamic';
 /** One sentence on where the sheet stands, and the check it concerns. */
 function whereItStands(wf: SheetWorkflow): { text: string; checkId: string | null; linkText: string } {
   const newest = wf.checks[0];
-  const later = newest && newest.versionNumber < wf.latestVersion ? ` Version ${wf.latestVersion} is a later draft.` : '';
+  const later =
+    newest && newest.versionNumber < wf.latestVersion ? ` Version ${wf.latestVersion} is a later draft.` : '';
   switch (wf.status) {
     case 'in_check':
-      return { text: `Version ${newest.versionNumber} is in check by ${newest.checker}.${later}`, checkId: newest.id, linkText: 'Open the check' };
+      return {
+        text: `Version ${newest.versionNumber} is in check by ${newest.checker}.${later}`,
+        checkId: newest.id,
+        linkText: 'Open the check',
+      };
     case 'checked':
-      return { text: `Version ${newest.versionNumber} is checked by ${newest.checker} and awaits approval.${later}`, checkId: newest.id, linkText: 'Open the check' };
+      return {
+        text: `Version ${newest.versionNumber} is checked by ${newest.checker} and awaits approval.${later}`,
+        checkId: newest.id,
+        linkText: 'Open the check',
+      };
     case 'approved':
-      return { text: `Version ${newest.versionNumber} is approved (checked by ${newest.checker}).`, checkId: newest.id, linkText: 'Open the check' };
+      return {
+        text: `Version ${newest.versionNumber} is approved (checked by ${newest.checker}).`,
+        checkId: newest.id,
+        linkText: 'Open the check',
+      };
     case 'returned':
       return {
         text: `Version ${newest.versionNumber} was returned ${newest.state === 'approval_returned' ? 'by the approver' : `by ${newest.checker}`}: “${newest.returnReason ?? ''}”`,
@@ -57,7 +76,13 @@ function whereItStands(wf: SheetWorkflow): { text: string; checkId: string | nul
   }
 }
 
-export default async function SheetPage({ params, searchParams }: { params: Promise<{ projectCode: string; sheetNumber: string }>; searchParams: Promise<{ version?: string }> }) {
+export default async function SheetPage({
+  params,
+  searchParams,
+}: {
+  params: Promise<{ projectCode: string; sheetNumber: string }>;
+  searchParams: Promise<{ version?: string }>;
+}) {
   const { projectCode, sheetNumber } = await params;
   const { version: versionParam } = await searchParams;
   const { project, roles, actor } = await pageProject(projectCode, `/projects/${projectCode}/sheets/${sheetNumber}`);
@@ -82,28 +107,56 @@ export default async function SheetPage({ params, searchParams }: { params: Prom
   const isOriginator = roles.includes('originator');
   const checkers = isOriginator ? await eligibleCheckers(getDb(), sheet, workflow.latestVersion, actor.userId) : [];
   // Eligibility depends on the version chosen (who saved what up to it): the newest ten, each its own.
-  const submittableVersions = versions.map((v) => v.number).filter((n) => workflow.lastApprovedVersion === null || n > workflow.lastApprovedVersion).slice(0, 10);
+  const submittableVersions = versions
+    .map((v) => v.number)
+    .filter((n) => workflow.lastApprovedVersion === null || n > workflow.lastApprovedVersion)
+    .slice(0, 10);
   const checkersByVersion = isOriginator
-    ? Object.fromEntries(await Promise.all(submittableVersions.map(async (n) => [n, n === workflow.latestVersion ? checkers : await eligibleCheckers(getDb(), sheet, n, actor.userId)] as const)))
-    : {};
-  // What each submittable version needs acknowledged in writing, shown before the first attempt (the server asks again).
-  const findingsByVersion = isOriginator && !sheet.voided_at
     ? Object.fromEntries(
         await Promise.all(
-          submittableVersions.map(async (n) => {
-            const v = n === version.number ? version : await getVersion(getDb(), sheet.id, n);
-            return [n, v ? submissionFindings(v.content, v.results).map((f) => ({ key: f.key, kind: f.kind, message: f.message })) : []] as const;
-          }),
+          submittableVersions.map(
+            async (n) =>
+              [
+                n,
+                n === workflow.latestVersion ? checkers : await eligibleCheckers(getDb(), sheet, n, actor.userId),
+              ] as const,
+          ),
         ),
       )
     : {};
-  const signatures: SignatureRow[] = workflow.signatures.map((s) => ({ ...s, meaningLabel: MEANING_LABELS[s.meaning] }));
+  // What each submittable version needs acknowledged in writing, shown before the first attempt (the server asks again).
+  const findingsByVersion =
+    isOriginator && !sheet.voided_at
+      ? Object.fromEntries(
+          await Promise.all(
+            submittableVersions.map(async (n) => {
+              const v = n === version.number ? version : await getVersion(getDb(), sheet.id, n);
+              return [
+                n,
+                v
+                  ? submissionFindings(v.content, v.results).map((f) => ({
+                      key: f.key,
+                      kind: f.kind,
+                      message: f.message,
+                    }))
+                  : [],
+              ] as const;
+            }),
+          ),
+        )
+      : {};
+  const signatures: SignatureRow[] = workflow.signatures.map((s) => ({
+    ...s,
+    meaningLabel: MEANING_LABELS[s.meaning],
+  }));
   const stands = whereItStands(workflow);
   // The newest check of each version says what became of it.
   const versionState = new Map<number, string>();
   for (const c of [...workflow.checks].reverse()) versionState.set(c.versionNumber, c.stateLabel);
   const open = workflow.status === 'in_check' || workflow.status === 'checked';
-  const submittable = versions.map((v) => v.number).filter((n) => workflow.lastApprovedVersion === null || n > workflow.lastApprovedVersion);
+  const submittable = versions
+    .map((v) => v.number)
+    .filter((n) => workflow.lastApprovedVersion === null || n > workflow.lastApprovedVersion);
   const blocked = open
     ? `Version ${workflow.checks[0].versionNumber} is ${workflow.checks[0].stateLabel}; one submission at a time.`
     : submittable.length === 0
@@ -124,13 +177,18 @@ export default async function SheetPage({ params, searchParams }: { params: Prom
           </h1>
           <p className="mt-1 text-sm text-ink-muted">
             Version {version.number}
-            {version.number !== latest ? ` (read-only; the latest is ${latest})` : ' (latest)'} · {versionState.get(version.number) ?? 'not submitted for check'} · saved by{' '}
-            {version.author} on <UtcTime iso={version.createdAt.toISOString()} /> · SHA-256 <span className="font-mono">{version.sha256.slice(0, 16)}…</span>
+            {version.number !== latest ? ` (read-only; the latest is ${latest})` : ' (latest)'} ·{' '}
+            {versionState.get(version.number) ?? 'not submitted for check'} · saved by {version.author} on{' '}
+            <UtcTime iso={version.createdAt.toISOString()} /> · SHA-256{' '}
+            <span className="font-mono">{version.sha256.slice(0, 16)}…</span>
           </p>
           {origin ? (
             <p className="mt-1 text-sm">
               Started from{' '}
-              <Link href={`/projects/${origin.projectCode}/sheets/${origin.number}?version=${origin.version}`} className="font-semibold text-accent underline">
+              <Link
+                href={`/projects/${origin.projectCode}/sheets/${origin.number}?version=${origin.version}`}
+                className="font-semibold text-accent underline"
+              >
                 {origin.code} version {origin.version}
               </Link>{' '}
               (SHA-256 <span className="font-mono">{origin.sha256.slice(0, 12)}…</span>).
@@ -140,44 +198,70 @@ export default async function SheetPage({ params, searchParams }: { params: Prom
             {version.engineVersion ?? 'not evaluated'} · constants {version.constantsEdition ?? '—'}
           </p>
           <p className="mt-2 text-sm">
-            <a href={`/api/sheets/${sheet.id}/export?version=${version.number}`} download className="font-semibold text-accent underline">
+            <a
+              href={`/api/sheets/${sheet.id}/export?version=${version.number}`}
+              download
+              className="font-semibold text-accent underline"
+            >
               Download version {version.number} as a sheet file
             </a>
             {version.content.attachments.length > 0 ? (
               <>
                 {' · '}
-                <a href={`/api/sheets/${sheet.id}/export?version=${version.number}&attachments=include`} download className="font-semibold text-accent underline">
-                  with its {version.content.attachments.length === 1 ? 'attachment' : `${version.content.attachments.length} attachments`}
+                <a
+                  href={`/api/sheets/${sheet.id}/export?version=${version.number}&attachments=include`}
+                  download
+                  className="font-semibold text-accent underline"
+                >
+                  with its{' '}
+                  {version.content.attachments.length === 1
+                    ? 'attachment'
+                    : `${version.content.attachments.length} attachments`}
                 </a>
               </>
             ) : null}
             {' · '}
-            <Link href={`/projects/${project.code}/sheets/${sheet.number}/impact`} className="font-semibold text-accent underline">
+            <Link
+              href={`/projects/${project.code}/sheets/${sheet.number}/impact`}
+              className="font-semibold text-accent underline"
+            >
               Impact: what depends on this sheet
             </Link>
           </p>
           {roles.includes('originator') && !sheet.voided_at ? (
             <p className="mt-3">
-              <Link href={`/projects/${project.code}/sheets/${sheet.number}/edit`} className="rounded bg-accent px-4 py-2 font-semibold text-surface no-underline hover:bg-accent-hover">
+              <Link
+                href={`/projects/${project.code}/sheets/${sheet.number}/edit`}
+                className="rounded bg-accent px-4 py-2 font-semibold text-surface no-underline hover:bg-accent-hover"
+              >
                 Edit the sheet
               </Link>
             </p>
           ) : null}
         </header>
-        <section aria-labelledby="status-title" className="flex flex-wrap items-baseline gap-x-3 gap-y-1 rounded border border-rule bg-surface px-4 py-3">
+        <section
+          aria-labelledby="status-title"
+          className="flex flex-wrap items-baseline gap-x-3 gap-y-1 rounded border border-rule bg-surface px-4 py-3"
+        >
           <h2 id="status-title" className="sr-only">
             Status
           </h2>
           {sheet.voided_at ? (
-            <p role="status" className="w-full rounded border border-fail bg-fail-soft px-2 py-1 text-sm font-semibold text-fail">
-              Void since <UtcTime iso={sheet.voided_at.toISOString()} />. Reason: “<VisibleText text={sheet.void_reason ?? ''} />” The sheet stays in the register with its
-              versions; it cannot be saved, submitted or issued.
+            <p
+              role="status"
+              className="w-full rounded border border-fail bg-fail-soft px-2 py-1 text-sm font-semibold text-fail"
+            >
+              Void since <UtcTime iso={sheet.voided_at.toISOString()} />. Reason: “
+              <VisibleText text={sheet.void_reason ?? ''} />” The sheet stays in the register with its versions; it
+              cannot be saved, submitted or issued.
             </p>
           ) : (
             <>
               <StatusBadge status={workflow.status} label={SHEET_STATUS_LABELS[workflow.status]} />
               {current ? (
-                <span className="rounded bg-pass-soft px-1.5 py-0.5 text-xs font-bold text-pass">Issued: revision {current.revision}</span>
+                <span className="rounded bg-pass-soft px-1.5 py-0.5 text-xs font-bold text-pass">
+                  Issued: revision {current.revision}
+                </span>
               ) : null}
               <p className="text-sm">
                 {stands.text}{' '}
@@ -190,7 +274,9 @@ export default async function SheetPage({ params, searchParams }: { params: Prom
             </>
           )}
         </section>
-        {latest !== undefined ? <SupersededInputs inputs={staleInputs} projectCode={project.code} latestVersion={latest} /> : null}
+        {latest !== undefined ? (
+          <SupersededInputs inputs={staleInputs} projectCode={project.code} latestVersion={latest} />
+        ) : null}
         <section aria-labelledby="revisions-title" className="space-y-2">
           <h2 id="revisions-title" className="text-lg font-bold">
             Issued revisions
@@ -203,12 +289,24 @@ export default async function SheetPage({ params, searchParams }: { params: Prom
                 <caption className="sr-only">Issued revisions of {code}</caption>
                 <thead>
                   <tr className="border-b border-rule-strong">
-                    <th scope="col" className="py-1 pr-3">Revision</th>
-                    <th scope="col" className="py-1 pr-3">Status</th>
-                    <th scope="col" className="py-1 pr-3">Version</th>
-                    <th scope="col" className="py-1 pr-3">Issued</th>
-                    <th scope="col" className="py-1 pr-3">Verification code</th>
-                    <th scope="col" className="py-1">PDF</th>
+                    <th scope="col" className="py-1 pr-3">
+                      Revision
+                    </th>
+                    <th scope="col" className="py-1 pr-3">
+                      Status
+                    </th>
+                    <th scope="col" className="py-1 pr-3">
+                      Version
+                    </th>
+                    <th scope="col" className="py-1 pr-3">
+                      Issued
+                    </th>
+                    <th scope="col" className="py-1 pr-3">
+                      Verification code
+                    </th>
+                    <th scope="col" className="py-1">
+                      PDF
+                    </th>
                   </tr>
                 </thead>
                 <tbody>
@@ -227,7 +325,9 @@ export default async function SheetPage({ params, searchParams }: { params: Prom
                       <td className="py-1 pr-3 font-mono">{r.verificationCode}</td>
                       <td className="py-1">
                         <a href={`/api/revisions/${r.id}/pdf`} download className="font-semibold text-accent underline">
-                          {r.status === 'current' ? `Download revision ${r.revision}` : `Download revision ${r.revision} (stamped ${r.status})`}
+                          {r.status === 'current'
+                            ? `Download revision ${r.revision}`
+                            : `Download revision ${r.revision} (stamped ${r.status})`}
                         </a>
                       </td>
                     </tr>
@@ -250,7 +350,14 @@ export default async function SheetPage({ params, searchParams }: { params: Prom
         </section>
         {version.content.safetyRelated ? <SafetyRelatedNotice /> : null}
         <CautionNotice compact />
-        <VersionView sheetId={sheet.id} sheetCode={code} versionNumber={version.number} content={version.content} results={version.results} renderText={(source) => <MarkdownView source={source} />} />
+        <VersionView
+          sheetId={sheet.id}
+          sheetCode={code}
+          versionNumber={version.number}
+          content={version.content}
+          results={version.results}
+          renderText={(source) => <MarkdownView source={source} />}
+        />
       </div>
       <aside aria-label="Check and history" className="space-y-6">
         {isOriginator && !sheet.voided_at ? (
@@ -258,7 +365,14 @@ export default async function SheetPage({ params, searchParams }: { params: Prom
             <h2 id="submit-title" className="font-bold">
               Submit for check
             </h2>
-            <SubmitForCheckForm sheetId={sheet.id} versions={submittable} checkers={checkers} checkersByVersion={checkersByVersion} findingsByVersion={findingsByVersion} blocked={blocked} />
+            <SubmitForCheckForm
+              sheetId={sheet.id}
+              versions={submittable}
+              checkers={checkers}
+              checkersByVersion={checkersByVersion}
+              findingsByVersion={findingsByVersion}
+              blocked={blocked}
+            />
           </section>
         ) : null}
         {roles.includes('controller') && !sheet.voided_at ? (
@@ -266,7 +380,12 @@ export default async function SheetPage({ params, searchParams }: { params: Prom
             <h2 id="issue-title" className="font-bold">
               Issue a revision
             </h2>
-            <IssuePanel sheetId={sheet.id} approvedVersions={candidates.approvedVersions} nextRevision={candidates.nextRevision} pendingJobId={candidates.pendingJobId} />
+            <IssuePanel
+              sheetId={sheet.id}
+              approvedVersions={candidates.approvedVersions}
+              nextRevision={candidates.nextRevision}
+              pendingJobId={candidates.pendingJobId}
+            />
           </section>
         ) : null}
         {!sheet.voided_at && revisions.length === 0 && mayVoidSheet(actor, roles, sheet) ? (
@@ -293,8 +412,14 @@ export default async function SheetPage({ params, searchParams }: { params: Prom
           ) : null}
           <ol className="space-y-2 text-sm">
             {versions.map((v) => (
-              <li key={v.number} className={`rounded border px-3 py-2 ${v.number === version.number ? 'border-accent bg-accent-soft' : 'border-rule bg-surface'}`}>
-                <Link href={`/projects/${project.code}/sheets/${sheet.number}?version=${v.number}`} className="font-semibold text-accent underline">
+              <li
+                key={v.number}
+                className={`rounded border px-3 py-2 ${v.number === version.number ? 'border-accent bg-accent-soft' : 'border-rule bg-surface'}`}
+              >
+                <Link
+                  href={`/projects/${project.code}/sheets/${sheet.number}?version=${v.number}`}
+                  className="font-semibold text-accent underline"
+                >
                   Version {v.number}
                 </Link>
                 <span className="block text-ink">{v.message}</span>
@@ -302,14 +427,22 @@ export default async function SheetPage({ params, searchParams }: { params: Prom
                   {v.author} · <UtcTime iso={v.createdAt.toISOString()} />
                 </span>
                 <span className="block font-mono text-xs text-ink-muted">{v.sha256.slice(0, 16)}…</span>
-                {versionState.has(v.number) ? <span className="block text-xs font-semibold">{versionState.get(v.number)}</span> : null}
+                {versionState.has(v.number) ? (
+                  <span className="block text-xs font-semibold">{versionState.get(v.number)}</span>
+                ) : null}
                 {signatures.some((s) => s.versionNumber === v.number) ? (
                   <div className="mt-1 border-t border-rule pt-1">
-                    <SignatureList signatures={signatures.filter((s) => s.versionNumber === v.number)} label={`Signatures of version ${v.number}`} />
+                    <SignatureList
+                      signatures={signatures.filter((s) => s.versionNumber === v.number)}
+                      label={`Signatures of version ${v.number}`}
+                    />
                   </div>
                 ) : null}
                 {v.parentNumber ? (
-                  <Link href={`/projects/${project.code}/sheets/${sheet.number}/compare?base=${v.parentNumber}&target=${v.number}`} className="text-xs text-accent underline">
+                  <Link
+                    href={`/projects/${project.code}/sheets/${sheet.number}/compare?base=${v.parentNumber}&target=${v.number}`}
+                    className="text-xs text-accent underline"
+                  >
                     Compare with version {v.parentNumber}
                   </Link>
                 ) : null}

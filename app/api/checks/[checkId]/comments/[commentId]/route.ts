@@ -7,7 +7,10 @@ import { handle, parseJson } from '@/lib/http/route';
 export const dynamic = 'force-dynamic';
 
 /** Resolves a comment thread (`{"resolved": true}`; the checker only). */
-export function PATCH(request: Request, { params }: { params: Promise<{ checkId: string; commentId: string }> }): Promise<Response> {
+export function PATCH(
+  request: Request,
+  { params }: { params: Promise<{ checkId: string; commentId: string }> },
+): Promise<Response> {
   return handle(request, async () => {
     const actor = await requireActor();
     await parseJson(request, resolveSchema);

@@ -17,7 +17,14 @@ export function POST(request: Request, { params }: { params: Promise<{ projectId
   return handle(request, async () => {
     const { actor, project } = await requireProjectRole((await routeParams(params)).projectId, ['originator']);
     const query = parseValue(searchParams(request), importQuerySchema);
-    const text = await readBodyText(request, SHEET_FILE_MAX_BYTES, `A sheet file is at most ${SHEET_FILE_MAX_BYTES / (1024 * 1024)} MiB.`);
-    return Response.json(await importSheetFile(getDb(), actor, project, text, { title: query.title, store: getObjectStore() }), { status: 201 });
+    const text = await readBodyText(
+      request,
+      SHEET_FILE_MAX_BYTES,
+      `A sheet file is at most ${SHEET_FILE_MAX_BYTES / (1024 * 1024)} MiB.`,
+    );
+    return Response.json(
+      await importSheetFile(getDb(), actor, project, text, { title: query.title, store: getObjectStore() }),
+      { status: 201 },
+    );
   });
 }

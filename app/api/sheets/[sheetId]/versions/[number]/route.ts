@@ -8,7 +8,10 @@ import { getVersion } from '@/lib/sheets/sheets';
 export const dynamic = 'force-dynamic';
 
 /** One version, read-only, with the results recorded when it was saved. */
-export function GET(request: Request, { params }: { params: Promise<{ sheetId: string; number: string }> }): Promise<Response> {
+export function GET(
+  request: Request,
+  { params }: { params: Promise<{ sheetId: string; number: string }> },
+): Promise<Response> {
   return handle(request, async () => {
     const { sheetId, number } = await routeParams(params);
     const { sheet } = await requireSheetAccess(sheetId);

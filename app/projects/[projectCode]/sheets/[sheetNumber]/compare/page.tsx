@@ -15,7 +15,13 @@ import { VersionPicker } from '@/components/sheet/version-picker';
 export const metadata: Metadata = { title: 'Compare versions' };
 export const dynamic = 'force-dynamic';
 
-export default async function ComparePage({ params, searchParams }: { params: Promise<{ projectCode: string; sheetNumber: string }>; searchParams: Promise<{ base?: string; target?: string }> }) {
+export default async function ComparePage({
+  params,
+  searchParams,
+}: {
+  params: Promise<{ projectCode: string; sheetNumber: string }>;
+  searchParams: Promise<{ base?: string; target?: string }>;
+}) {
   const { projectCode, sheetNumber } = await params;
   const q = await searchParams;
   const { project } = await pageProject(projectCode, `/projects/${projectCode}/sheets/${sheetNumber}/compare`);
@@ -38,12 +44,17 @@ export default async function ComparePage({ params, searchParams }: { params: Pr
       <header>
         <p className="font-mono text-sm text-ink-muted">{formatSheetNumber(project.code, sheet.number)}</p>
         <h1 className="text-2xl font-bold">
-          {base ? `Version ${base.number} → version ${target.number}` : `Version ${target.number} (first check: everything is new)`}
+          {base
+            ? `Version ${base.number} → version ${target.number}`
+            : `Version ${target.number} (first check: everything is new)`}
         </h1>
         <p className="mt-1 text-sm text-ink-muted">
-          Cells: {c.summary.cells.added} added, {c.summary.cells.removed} removed, {c.summary.cells.changed} changed, {c.summary.cells.moved} moved, {c.summary.cells.unchanged} unchanged.
-          Results changed: {c.summary.results.changed}. Criteria that flipped: {c.summary.criteriaFlipped}. Calculation record: {c.summary.recordChanges} change
-          {c.summary.recordChanges === 1 ? '' : 's'}; attachments: {c.summary.attachmentChanges} change{c.summary.attachmentChanges === 1 ? '' : 's'}.
+          Cells: {c.summary.cells.added} added, {c.summary.cells.removed} removed, {c.summary.cells.changed} changed,{' '}
+          {c.summary.cells.moved} moved, {c.summary.cells.unchanged} unchanged. Results changed:{' '}
+          {c.summary.results.changed}. Criteria that flipped: {c.summary.criteriaFlipped}. Calculation record:{' '}
+          {c.summary.recordChanges} change
+          {c.summary.recordChanges === 1 ? '' : 's'}; attachments: {c.summary.attachmentChanges} change
+          {c.summary.attachmentChanges === 1 ? '' : 's'}.
         </p>
       </header>
       <section aria-labelledby="pick-title" className="space-y-2 rounded border border-rule bg-surface p-3">
@@ -54,15 +65,23 @@ export default async function ComparePage({ params, searchParams }: { params: Pr
       </section>
       <section aria-labelledby="record-title" className="space-y-2 rounded border border-rule bg-surface p-4">
         <h2 id="record-title" className="text-lg font-bold">
-          {base ? `Calculation record and attachments: changes since version ${base.number}` : 'Calculation record and attachments'}
+          {base
+            ? `Calculation record and attachments: changes since version ${base.number}`
+            : 'Calculation record and attachments'}
         </h2>
         <RecordChanges record={c.record} first={c.firstCheck} />
       </section>
       <section aria-labelledby="changed-cells" className="space-y-3">
-        <h2 id="changed-cells" className="text-lg font-bold">Changed cells</h2>
+        <h2 id="changed-cells" className="text-lg font-bold">
+          Changed cells
+        </h2>
         {changed.length === 0 ? <p className="text-ink-muted">No cell changed.</p> : null}
         {changed.map((cell) => (
-          <article key={cell.id} aria-label={`Cell ${cell.id}, ${cell.status}`} className="rounded border border-rule bg-surface p-3">
+          <article
+            key={cell.id}
+            aria-label={`Cell ${cell.id}, ${cell.status}`}
+            className="rounded border border-rule bg-surface p-3"
+          >
             <p className="text-xs font-semibold text-ink-muted">
               {cell.id} · {cell.status}
               {cell.moved ? ' · moved' : ''}
@@ -72,35 +91,61 @@ export default async function ComparePage({ params, searchParams }: { params: Pr
         ))}
       </section>
       <section aria-labelledby="changed-results" className="space-y-2">
-        <h2 id="changed-results" className="text-lg font-bold">Results</h2>
+        <h2 id="changed-results" className="text-lg font-bold">
+          Results
+        </h2>
         <table className="w-full border-collapse text-sm">
           <caption className="sr-only">Results that changed</caption>
           <thead>
             <tr className="border-b border-rule-strong text-left">
-              <th scope="col" className="py-2 pr-3">Result</th>
-              <th scope="col" className="py-2 pr-3">Status</th>
-              <th scope="col" className="py-2 pr-3">Old</th>
-              <th scope="col" className="py-2 pr-3">New</th>
-              <th scope="col" className="py-2">Relative change</th>
+              <th scope="col" className="py-2 pr-3">
+                Result
+              </th>
+              <th scope="col" className="py-2 pr-3">
+                Status
+              </th>
+              <th scope="col" className="py-2 pr-3">
+                Old
+              </th>
+              <th scope="col" className="py-2 pr-3">
+                New
+              </th>
+              <th scope="col" className="py-2">
+                Relative change
+              </th>
             </tr>
           </thead>
           <tbody>
-            {c.results.filter((r) => r.status !== 'unchanged').map((r) => (
-              <tr key={r.key} className="border-b border-rule">
-                <td className="py-2 pr-3 font-mono">
-                  <VisibleText text={r.name ?? r.key} />
-                </td>
-                <td className="py-2 pr-3">{r.status}{r.flipped ? ' (pass/fail flipped)' : ''}</td>
-                <td className="py-2 pr-3 font-mono">{r.old?.error ? `error: ${r.old.error}` : (r.old?.text ?? '—')}</td>
-                <td className="py-2 pr-3 font-mono">{r.new?.error ? `error: ${r.new.error}` : (r.new?.text ?? '—')}</td>
-                <td className="py-2 font-mono">{r.relativeChange === null ? '—' : `${(r.relativeChange * 100).toPrecision(3)} %`}</td>
-              </tr>
-            ))}
+            {c.results
+              .filter((r) => r.status !== 'unchanged')
+              .map((r) => (
+                <tr key={r.key} className="border-b border-rule">
+                  <td className="py-2 pr-3 font-mono">
+                    <VisibleText text={r.name ?? r.key} />
+                  </td>
+                  <td className="py-2 pr-3">
+                    {r.status}
+                    {r.flipped ? ' (pass/fail flipped)' : ''}
+                  </td>
+                  <td className="py-2 pr-3 font-mono">
+                    {r.old?.error ? `error: ${r.old.error}` : (r.old?.text ?? '—')}
+                  </td>
+                  <td className="py-2 pr-3 font-mono">
+                    {r.new?.error ? `error: ${r.new.error}` : (r.new?.text ?? '—')}
+                  </td>
+                  <td className="py-2 font-mono">
+                    {r.relativeChange === null ? '—' : `${(r.relativeChange * 100).toPrecision(3)} %`}
+                  </td>
+                </tr>
+              ))}
           </tbody>
         </table>
       </section>
       <p>
-        <Link href={`/projects/${project.code}/sheets/${sheet.number}?version=${target.number}`} className="font-semibold text-accent underline">
+        <Link
+          href={`/projects/${project.code}/sheets/${sheet.number}?version=${target.number}`}
+          className="font-semibold text-accent underline"
+        >
           Open version {target.number}
         </Link>
       </p>

@@ -13,9 +13,15 @@ import { VisibleText } from '@/components/data/visible-text';
 export const metadata: Metadata = { title: 'Edit sheet' };
 export const dynamic = 'force-dynamic';
 
-export default async function EditSheetPage({ params }: { params: Promise<{ projectCode: string; sheetNumber: string }> }) {
+export default async function EditSheetPage({
+  params,
+}: {
+  params: Promise<{ projectCode: string; sheetNumber: string }>;
+}) {
   const { projectCode, sheetNumber } = await params;
-  const { project } = await pageProject(projectCode, `/projects/${projectCode}/sheets/${sheetNumber}/edit`, ['originator']);
+  const { project } = await pageProject(projectCode, `/projects/${projectCode}/sheets/${sheetNumber}/edit`, [
+    'originator',
+  ]);
   const { sheetNumber: n } = pageParams({ sheetNumber }) ?? notFound();
   const sheet = await getSheetByNumber(getDb(), project.id, n);
   if (!sheet) notFound();
@@ -29,11 +35,17 @@ export default async function EditSheetPage({ params }: { params: Promise<{ proj
             {formatSheetNumber(project.code, sheet.number)}
           </Link>
         </p>
-        <h1 className="text-2xl font-bold">Edit: <VisibleText text={version.content.title} />
+        <h1 className="text-2xl font-bold">
+          Edit: <VisibleText text={version.content.title} />
         </h1>
       </header>
       <CautionNotice compact />
-      <SheetEditor sheetId={sheet.id} projectCode={project.code} sheetNumber={sheet.number} base={{ number: version.number, content: version.content }} />
+      <SheetEditor
+        sheetId={sheet.id}
+        projectCode={project.code}
+        sheetNumber={sheet.number}
+        base={{ number: version.number, content: version.content }}
+      />
     </div>
   );
 }

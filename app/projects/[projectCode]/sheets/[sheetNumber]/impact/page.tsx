@@ -23,21 +23,32 @@ const STATUS_STYLE: Record<string, string> = {
 function LatestState({ d }: { d: ImpactDependent }) {
   return (
     <>
-      Version {d.latestVersion} {d.latestCitesVia ? `still cites revision ${d.via.revision}` : `no longer cites revision ${d.via.revision}`}
+      Version {d.latestVersion}{' '}
+      {d.latestCitesVia ? `still cites revision ${d.via.revision}` : `no longer cites revision ${d.via.revision}`}
       {d.latestCitesSuperseded ? (
-        <span className="mt-1 block w-fit rounded bg-caution-soft px-1.5 py-0.5 text-xs font-bold text-caution">cites a superseded or withdrawn revision</span>
+        <span className="mt-1 block w-fit rounded bg-caution-soft px-1.5 py-0.5 text-xs font-bold text-caution">
+          cites a superseded or withdrawn revision
+        </span>
       ) : null}
     </>
   );
 }
 
-export default async function ImpactPage({ params }: { params: Promise<{ projectCode: string; sheetNumber: string }> }) {
+export default async function ImpactPage({
+  params,
+}: {
+  params: Promise<{ projectCode: string; sheetNumber: string }>;
+}) {
   const { projectCode, sheetNumber } = await params;
   const { project } = await pageProject(projectCode, `/projects/${projectCode}/sheets/${sheetNumber}/impact`);
   const { sheetNumber: number } = pageParams({ sheetNumber }) ?? notFound();
   const sheet = await getSheetByNumber(getDb(), project.id, number);
   if (!sheet) notFound();
-  const [revisions, inputs, versions] = await Promise.all([sheetImpact(getDb(), sheet.id), supersededInputs(getDb(), sheet.id), listVersions(getDb(), sheet.id)]);
+  const [revisions, inputs, versions] = await Promise.all([
+    sheetImpact(getDb(), sheet.id),
+    supersededInputs(getDb(), sheet.id),
+    listVersions(getDb(), sheet.id),
+  ]);
   const code = formatSheetNumber(project.code, sheet.number);
   const sheetHref = (n: number) => `/projects/${project.code}/sheets/${n}`;
   return (
@@ -58,13 +69,18 @@ export default async function ImpactPage({ params }: { params: Promise<{ project
           <VisibleText text={sheet.title} />
         </p>
         <p className="mt-2 max-w-prose text-sm">
-          For each issued revision of this sheet, the sheets whose versions cite it with <code className="font-mono">fromRevision</code> (depth 1), then
-          the sheets citing revisions issued from those versions (depth 2), and so on. When a revision is superseded or withdrawn, each of these may
-          need to be checked again.
+          For each issued revision of this sheet, the sheets whose versions cite it with{' '}
+          <code className="font-mono">fromRevision</code> (depth 1), then the sheets citing revisions issued from those
+          versions (depth 2), and so on. When a revision is superseded or withdrawn, each of these may need to be
+          checked again.
         </p>
       </header>
-      {versions[0] ? <SupersededInputs inputs={inputs} projectCode={project.code} latestVersion={versions[0].number} /> : null}
-      {revisions.length === 0 ? <p className="text-ink-muted">{code} has no issued revision, so no sheet can cite it.</p> : null}
+      {versions[0] ? (
+        <SupersededInputs inputs={inputs} projectCode={project.code} latestVersion={versions[0].number} />
+      ) : null}
+      {revisions.length === 0 ? (
+        <p className="text-ink-muted">{code} has no issued revision, so no sheet can cite it.</p>
+      ) : null}
       {revisions.map((r) => (
         <section key={r.id} aria-labelledby={`rev-${r.id}`} className="space-y-2">
           <h2 id={`rev-${r.id}`} className="flex flex-wrap items-baseline gap-2 text-lg font-bold">
@@ -84,18 +100,35 @@ export default async function ImpactPage({ params }: { params: Promise<{ project
                 </caption>
                 <thead>
                   <tr className="border-b border-rule-strong">
-                    <th scope="col" className="px-3 py-2">Depth</th>
-                    <th scope="col" className="px-3 py-2">Sheet</th>
-                    <th scope="col" className="px-3 py-2">Cites</th>
-                    <th scope="col" className="px-3 py-2">Versions citing it</th>
-                    <th scope="col" className="px-3 py-2">Issued as</th>
-                    <th scope="col" className="px-3 py-2">Latest version</th>
+                    <th scope="col" className="px-3 py-2">
+                      Depth
+                    </th>
+                    <th scope="col" className="px-3 py-2">
+                      Sheet
+                    </th>
+                    <th scope="col" className="px-3 py-2">
+                      Cites
+                    </th>
+                    <th scope="col" className="px-3 py-2">
+                      Versions citing it
+                    </th>
+                    <th scope="col" className="px-3 py-2">
+                      Issued as
+                    </th>
+                    <th scope="col" className="px-3 py-2">
+                      Latest version
+                    </th>
                   </tr>
                 </thead>
                 <tbody>
                   {r.dependents.map((d) => (
-                    <tr key={`${d.via.sheetId}:${d.via.revision}:${d.sheetId}`} className="border-b border-rule align-top">
-                      <td className="px-3 py-2 whitespace-nowrap">{d.depth === 1 ? '1 (direct)' : `${d.depth} (indirect)`}</td>
+                    <tr
+                      key={`${d.via.sheetId}:${d.via.revision}:${d.sheetId}`}
+                      className="border-b border-rule align-top"
+                    >
+                      <td className="px-3 py-2 whitespace-nowrap">
+                        {d.depth === 1 ? '1 (direct)' : `${d.depth} (indirect)`}
+                      </td>
                       <th scope="row" className="px-3 py-2 text-left font-normal">
                         <Link href={sheetHref(d.sheetNumber)} className="font-mono font-semibold text-accent underline">
                           {d.sheet}
@@ -125,7 +158,10 @@ export default async function ImpactPage({ params }: { params: Promise<{ project
                           ? '—'
                           : d.issuedAs.map((x) => (
                               <div key={x.id} className="whitespace-nowrap">
-                                rev {x.revision} <span className={`rounded px-1 text-xs font-bold ${STATUS_STYLE[x.status]}`}>{x.status}</span>
+                                rev {x.revision}{' '}
+                                <span className={`rounded px-1 text-xs font-bold ${STATUS_STYLE[x.status]}`}>
+                                  {x.status}
+                                </span>
                               </div>
                             ))}
                       </td>

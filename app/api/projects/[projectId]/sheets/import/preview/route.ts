@@ -13,7 +13,11 @@ export const dynamic = 'force-dynamic';
 export function POST(request: Request, { params }: { params: Promise<{ projectId: string }> }): Promise<Response> {
   return handle(request, async () => {
     await requireProjectRole((await routeParams(params)).projectId, ['originator']);
-    const text = await readBodyText(request, SHEET_FILE_MAX_BYTES, `A sheet file is at most ${SHEET_FILE_MAX_BYTES / (1024 * 1024)} MiB.`);
+    const text = await readBodyText(
+      request,
+      SHEET_FILE_MAX_BYTES,
+      `A sheet file is at most ${SHEET_FILE_MAX_BYTES / (1024 * 1024)} MiB.`,
+    );
     return Response.json(importPreview(readSheetFile(text)));
   });
 }

@@ -19,9 +19,17 @@ export function GET(
     const { sheet, project } = await requireSheetAccess(sheetId);
     const table = await getStudyTable(getDb(), { sheetId: sheet.id, number, cellIndex, line });
     if (!table) throw new AppError('not_found', 'No sweep table at that cell and line of this version.');
-    const fileName = studyCsvFileName({ sheet: formatSheetNumber(project.code, sheet.number), version: number, cellNumber: cellIndex + 1, line });
+    const fileName = studyCsvFileName({
+      sheet: formatSheetNumber(project.code, sheet.number),
+      version: number,
+      cellNumber: cellIndex + 1,
+      line,
+    });
     return new Response(studyTableCsv(table), {
-      headers: { 'content-type': 'text/csv; charset=utf-8', 'content-disposition': `attachment; filename="${fileName}"` },
+      headers: {
+        'content-type': 'text/csv; charset=utf-8',
+        'content-disposition': `attachment; filename="${fileName}"`,
+      },
     });
   });
 }
