@@ -10,11 +10,9 @@ import type { CheckState, Database, ProjectRole, SignatureMeaning, VerificationM
 import type { Actor } from '@/lib/auth/actor';
 import { reauthenticateToSign } from '@/lib/auth/reauthenticate';
 import { recordAudit } from '@/lib/audit/record';
-import { findReferences } from '@/lib/calc/references';
-import { resolveReferences } from '@/lib/sheets/references';
 import type { SheetResult } from '@/lib/calc/types';
 import { AppError } from '@/lib/errors/app-error';
-import { evaluateSandboxed, evaluationScope } from '@/lib/sheets/evaluate-sandboxed';
+import { evaluateInContext } from '@/lib/sheets/evaluate-in-context';
 import { appUrl } from '@/lib/http/app-url';
 import { enqueueMail } from '@/lib/mail/outbox';
 import { cellSchema, refuseBidiControls, type Cell } from '@/lib/sheets/content';
@@ -589,22 +587,16 @@ export async function saveCheckWork(
   if (check.state !== 'in_check') throw conflict(check, 'changed');
   let results: SheetResult | null | undefined;
   if (input.alternateCells) {
-    // The checker's alternate cells may cite issued revisions like the sheet's own cells.
-    const references = await resolveReferences(db, check.project_id, findReferences(input.alternateCells), {
-      excludeSheetId: check.sheet_id,
-    });
-    // Stored with the check, so evaluated as a save (outside the checker's interactive budget), in the project's cache scope.
+    // Evaluated as a save (stored with the check), with the checked version's settings and the sheet's citations.
     results = input.alternateCells.length
-      ? await evaluateSandboxed(
-          input.alternateCells,
-          { significantFigures: 6, references },
-          {
-            kind: 'save',
-            userId: actor.userId,
-            scope: evaluationScope({ projectId: check.project_id }),
-            affinity: `check:${check.id}`,
-          },
-        )
+      ? (
+          await evaluateInContext(db, {
+            cells: input.alternateCells,
+            settings: { ofVersion: check.version_number },
+            sheet: { id: check.sheet_id, projectId: check.project_id },
+            run: { kind: 'save', userId: actor.userId, affinity: `check:${check.id}` },
+          })
+        ).results
       : null;
   }
   const given = {

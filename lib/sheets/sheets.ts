@@ -7,9 +7,7 @@ import { INT4_MAX } from '@/lib/http/params';
 import type { Database } from '@/db/schema';
 import type { Actor } from '@/lib/auth/actor';
 import { recordAudit } from '@/lib/audit/record';
-import { bidiControlsInCalcCells } from '@/lib/calc/bidi-controls';
-import { findReferences } from '@/lib/calc/references';
-import type { InputTable, ResolvedReference, SheetResult } from '@/lib/calc/types';
+import type { InputTable, SheetResult } from '@/lib/calc/types';
 import {
   copyAttachments,
   insertAttachment,
@@ -19,13 +17,13 @@ import {
   type CheckedAttachment,
 } from '@/lib/attachments/attachments';
 import type { ObjectStore } from '@/lib/storage/object-store';
-import { evaluateSandboxed, evaluationScope } from './evaluate-sandboxed';
+import { evaluateInContext } from './evaluate-in-context';
 import { sheetStatuses } from '@/lib/checks/status';
 import { AppError } from '@/lib/errors/app-error';
 import { emptyRecord, versionContentSchema, type VersionContent } from './content';
 import { NEW_SHEET_DISPLAY_UNITS } from '@/lib/calc/display-units';
 import { contentHash } from './content-hash';
-import { resolveCitations } from './references';
+import type { ResolvedCitation } from './references';
 import { formatSheetNumber } from './sheet-number';
 
 export const createSheetSchema = z.object({
@@ -99,26 +97,23 @@ export async function listSheets(db: Kysely<Database>, projectId: string, projec
 }
 
 /**
- * Evaluates content with the server's sandboxed engine, for storing with a version: as a save, which
+ * Evaluates content for storing with a version (lib/sheets/evaluate-in-context.ts): as a save, which
  * the author's own editor evaluations in flight never make wait or refuse (lib/calc/sandbox/evaluator.ts),
- * in the project's cache scope.
+ * in the project's cache scope, with the content's own settings.
  */
-async function evaluateContent(
+function evaluateContent(
+  db: Kysely<Database>,
   content: VersionContent,
-  target: { sheetKey: string; projectId: string; userId: string },
-  tables: InputTable[] = [],
-  references: ResolvedReference[] = [],
-): Promise<SheetResult> {
-  return evaluateSandboxed(
-    content.cells,
-    { significantFigures: content.significantFigures, displayUnits: content.displayUnits, tables, references },
-    {
-      kind: 'save',
-      userId: target.userId,
-      scope: evaluationScope({ projectId: target.projectId }),
-      affinity: target.sheetKey,
-    },
-  );
+  target: { sheetId: string | null; sheetKey: string; projectId: string; userId: string },
+  attachments: { tables: InputTable[] } | VersionContent['attachments'] = { tables: [] },
+) {
+  return evaluateInContext(db, {
+    cells: content.cells,
+    settings: content,
+    sheet: { id: target.sheetId, projectId: target.projectId },
+    attachments,
+    run: { kind: 'save', userId: target.userId, affinity: target.sheetKey },
+  });
 }
 
 /** A new sheet's version 1: its title, safety flag and objective, no cells. */
@@ -213,7 +208,8 @@ export async function createSheet(
   input: z.infer<typeof createSheetSchema>,
 ) {
   const content = firstContent(input);
-  const results = await evaluateContent(content, {
+  const { results } = await evaluateContent(db, content, {
+    sheetId: null,
     sheetKey: `new:${project.id}`,
     projectId: project.id,
     userId: actor.userId,
@@ -241,7 +237,8 @@ export async function createSheetWithContent(
 ) {
   const input = { title: content.title, safetyRelated: content.safetyRelated, objective: content.record.objective };
   const first = firstContent(input);
-  const firstResults = await evaluateContent(first, {
+  const { results: firstResults } = await evaluateContent(db, first, {
+    sheetId: null,
     sheetKey: `new:${project.id}`,
     projectId: project.id,
     userId: actor.userId,
@@ -355,7 +352,7 @@ export async function getVersion(db: Kysely<Database>, sheetId: string, number?:
 /** What a save computes before its transaction: the evaluation, the citations and the hash. */
 interface PreparedVersion {
   results: SheetResult;
-  citations: Awaited<ReturnType<typeof resolveCitations>>;
+  citations: ResolvedCitation[];
   hash: string;
 }
 
@@ -366,25 +363,15 @@ async function prepareVersion(
   userId: string,
   newTables?: InputTable[],
 ): Promise<PreparedVersion> {
-  // The save schema refuses these already; this keeps any other way in (a caller that builds content
-  // itself) from storing a calculation that reads differently from what is evaluated.
-  const bidi = bidiControlsInCalcCells(content.cells);
-  if (bidi.length > 0) throw new AppError('bad_request', bidi[0].message, bidi);
   // Every attachment the content cites must be one uploaded to this sheet; CSV tables feed the cells.
   // (A sheet being created has none yet: its caller gives the tables of the files it brings.)
-  const tables = sheet.id ? await resolveAttachments(db, sheet.id, content.attachments) : (newTables ?? []);
-  // Citations of other sheets' issued revisions: resolved to the values as issued before evaluating.
-  const citations = await resolveCitations(
+  // Citations of other sheets' issued revisions are resolved to the values as issued before evaluating;
+  // a calculation source holding a bidirectional control character is refused, whoever built the content.
+  const { results, citations } = await evaluateContent(
     db,
-    sheet.project_id,
-    findReferences(content.cells),
-    sheet.id ? { excludeSheetId: sheet.id } : {},
-  );
-  const results = await evaluateContent(
     content,
-    { sheetKey: sheet.id ?? `new:${sheet.project_id}`, projectId: sheet.project_id, userId },
-    tables,
-    citations.map((c) => c.reference),
+    { sheetId: sheet.id, sheetKey: sheet.id ?? `new:${sheet.project_id}`, projectId: sheet.project_id, userId },
+    sheet.id ? content.attachments : { tables: newTables ?? [] },
   );
   return { results, citations, hash: contentHash(content) };
 }

@@ -4,12 +4,8 @@ import { handle } from '@/lib/http/route';
 import { EVALUATE_MAX_BYTES, evaluateRequestSchema } from '@/lib/calc/evaluate-request';
 import { requireActor } from '@/lib/auth/current-actor';
 import { getDb } from '@/db';
-import { resolveAttachments } from '@/lib/attachments/attachments';
-import { findReferences } from '@/lib/calc/references';
-import type { InputTable, ResolvedReference } from '@/lib/calc/types';
 import { requireSheetAccess } from '@/lib/sheets/access';
-import { evaluateSandboxed, evaluationScope } from '@/lib/sheets/evaluate-sandboxed';
-import { resolveReferences, unresolvedReferences } from '@/lib/sheets/references';
+import { evaluateInContext } from '@/lib/sheets/evaluate-in-context';
 
 export const dynamic = 'force-dynamic';
 
@@ -29,29 +25,18 @@ export function POST(request: Request): Promise<Response> {
     const { cells, significantFigures, displayUnits, sheetKey, sheetId, attachments } = parsed.data;
     if (attachments.length > 0 && !sheetId)
       throw new AppError('bad_request', 'sheetId: say which sheet the attachments belong to');
-    const cited = findReferences(cells);
     // The sheet, and the caller's membership of its project: its attachments and citations, and the
-    // cache scope (results are shared within a project only, never across).
+    // cache scope (results are shared within a project only, never across). Citations of issued
+    // revisions resolve within the sheet's project; without a sheet, to an error.
     const sheet = sheetId ? (await requireSheetAccess(sheetId)).sheet : null;
-    let tables: InputTable[] = [];
-    if (sheet && attachments.length > 0) tables = await resolveAttachments(getDb(), sheet.id, attachments);
-    // Citations of issued revisions resolve within the sheet's project; without a sheet, to an error.
-    let references: ResolvedReference[] = [];
-    if (cited.length > 0)
-      references = sheet
-        ? await resolveReferences(getDb(), sheet.project_id, cited, { excludeSheetId: sheet.id })
-        : unresolvedReferences(cited);
     // Interactive: counts against the caller's share of the workers (429 with Retry-After beyond it).
-    const result = await evaluateSandboxed(
+    const { results: result } = await evaluateInContext(getDb(), {
       cells,
-      { significantFigures, displayUnits, tables, references },
-      {
-        userId: actor.userId,
-        kind: 'interactive',
-        scope: evaluationScope(sheet ? { projectId: sheet.project_id } : { userId: actor.userId }),
-        affinity: sheetKey,
-      },
-    );
+      settings: { significantFigures, displayUnits },
+      sheet: sheet ? { id: sheet.id, projectId: sheet.project_id } : null,
+      attachments,
+      run: { kind: 'interactive', userId: actor.userId, affinity: sheetKey },
+    });
     return Response.json(result);
   });
 }
