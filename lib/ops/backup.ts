@@ -1,7 +1,7 @@
 // Backup and restore of a whole installation: the application database (every schema the app owns,
 // including pg-boss's `pgboss`, so queued mail survives) and every object in the bucket, written to a
 // folder with a manifest of sizes and SHA-256 sums; and the way back into an empty installation,
-// followed by a verification of every hash the records cite and of the audit chain.
+// followed by a verification of every hash the records cite and of the audit chain (lib/audit/integrity.ts).
 //
 // The database is dumped first, then the objects listed. Objects are written before any row cites
 // them and are never overwritten, so every object the dumped rows cite is in the listing after it.
@@ -9,39 +9,41 @@
 // pg_dump and pg_restore are Debian's programs of the local cluster's major version
 // (db/local-postgres.ts); they connect over TCP with the URL they are given, as any OS user. The
 // password goes to them in PGPASSWORD, never on the command line.
-import { spawn } from 'node:child_process';
-import { createHash } from 'node:crypto';
-import { createReadStream, existsSync, mkdirSync, readdirSync, readFileSync, writeFileSync } from 'node:fs';
-import path from 'node:path';
-import { fileURLToPath } from 'node:url';
+import { spawn } from "node:child_process";
+import { createHash } from "node:crypto";
+import {
+  createReadStream,
+  existsSync,
+  mkdirSync,
+  readdirSync,
+  readFileSync,
+  writeFileSync,
+} from "node:fs";
+import path from "node:path";
+import { fileURLToPath } from "node:url";
 import {
   CreateBucketCommand,
   GetObjectCommand,
   ListObjectsCommand,
   PutObjectCommand,
   S3Client,
-} from '@aws-sdk/client-s3';
-import { sql, type Kysely } from 'kysely';
-import pg from 'pg';
-import { createDb } from '../../db/index';
-import { ensureServerBinaries } from '../../db/local-postgres';
-import type { Database } from '../../db/schema';
-import { verifyAuditChain } from '../audit/verify';
-import type { VersionContent } from '../sheets/content';
-import { contentHash } from '../sheets/content-hash';
-import type { StorageConfig } from '../storage/config';
-import type { ObjectStore } from '../storage/object-store';
+} from "@aws-sdk/client-s3";
+import { sql, type Kysely } from "kysely";
+import pg from "pg";
+import { ensureServerBinaries } from "../../db/local-postgres";
+import type { Database } from "../../db/schema";
+import type { StorageConfig } from "../storage/config";
 
 export class BackupError extends Error {
   constructor(message: string) {
     super(message);
-    this.name = 'BackupError';
+    this.name = "BackupError";
   }
 }
 
-export const MANIFEST_FILE = 'manifest.json';
-export const DUMP_FILE = 'database.dump';
-export const OBJECTS_FOLDER = 'objects';
+export const MANIFEST_FILE = "manifest.json";
+export const DUMP_FILE = "database.dump";
+export const OBJECTS_FOLDER = "objects";
 
 export interface ManifestObject {
   key: string;
@@ -51,7 +53,7 @@ export interface ManifestObject {
 }
 
 export interface Manifest {
-  format: 'worldsheet-backup';
+  format: "worldsheet-backup";
   formatVersion: 1;
   /** UTC, ISO 8601. */
   createdAt: string;
@@ -87,15 +89,16 @@ interface RestoreOptions {
   log?: Log;
 }
 
-const sha256 = (bytes: Uint8Array) => createHash('sha256').update(bytes).digest('hex');
+const sha256 = (bytes: Uint8Array) =>
+  createHash("sha256").update(bytes).digest("hex");
 
 function fileSha256(file: string): Promise<string> {
   return new Promise((resolve, reject) => {
-    const hash = createHash('sha256');
+    const hash = createHash("sha256");
     createReadStream(file)
-      .on('data', (chunk) => hash.update(chunk))
-      .on('error', reject)
-      .on('end', () => resolve(hash.digest('hex')));
+      .on("data", (chunk) => hash.update(chunk))
+      .on("error", reject)
+      .on("end", () => resolve(hash.digest("hex")));
   });
 }
 
@@ -115,12 +118,24 @@ function s3Client(config: StorageConfig): S3Client {
  * on S3 and S3-compatible stores, but the local fake (s3rver 3.7) makes its V2 tokens with DES, which
  * Node's OpenSSL 3 no longer has, and fails on every truncated V2 page.
  */
-async function listAllKeys(client: S3Client, bucket: string, pageSize = 1000): Promise<string[]> {
+async function listAllKeys(
+  client: S3Client,
+  bucket: string,
+  pageSize = 1000,
+): Promise<string[]> {
   const keys: string[] = [];
   let marker: string | undefined;
   for (;;) {
-    const page = await client.send(new ListObjectsCommand({ Bucket: bucket, Marker: marker, MaxKeys: pageSize }));
-    const contents = (page.Contents ?? []).flatMap((o) => (o.Key ? [o.Key] : []));
+    const page = await client.send(
+      new ListObjectsCommand({
+        Bucket: bucket,
+        Marker: marker,
+        MaxKeys: pageSize,
+      }),
+    );
+    const contents = (page.Contents ?? []).flatMap((o) =>
+      o.Key ? [o.Key] : [],
+    );
     keys.push(...contents);
     if (!page.IsTruncated || contents.length === 0) break;
     marker = page.NextMarker ?? contents[contents.length - 1];
@@ -133,12 +148,12 @@ async function listAllKeys(client: S3Client, bucket: string, pageSize = 1000): P
  * `revisions/…`), but a key that would leave the folder is refused rather than trusted.
  */
 function objectFile(folder: string, key: string): string {
-  const parts = key.split('/');
+  const parts = key.split("/");
   if (
     key.length === 0 ||
-    key.startsWith('/') ||
-    parts.some((p) => p === '' || p === '.' || p === '..') ||
-    key.includes('\0')
+    key.startsWith("/") ||
+    parts.some((p) => p === "" || p === "." || p === "..") ||
+    key.includes("\0")
   ) {
     throw new BackupError(
       `The object key ${JSON.stringify(key)} cannot be written as a file; nothing of this backup can be trusted to hold it.`,
@@ -148,39 +163,67 @@ function objectFile(folder: string, key: string): string {
 }
 
 /** Splits a postgres:// URL into one without the password, and the password (for PGPASSWORD). */
-function connectionForTool(url: string): { dbname: string; env: NodeJS.ProcessEnv } {
+function connectionForTool(url: string): {
+  dbname: string;
+  env: NodeJS.ProcessEnv;
+} {
   const u = new URL(url);
   const password = decodeURIComponent(u.password);
-  u.password = '';
-  return { dbname: u.toString(), env: { ...process.env, PGPASSWORD: password, PGCONNECT_TIMEOUT: '10' } };
+  u.password = "";
+  return {
+    dbname: u.toString(),
+    env: { ...process.env, PGPASSWORD: password, PGCONNECT_TIMEOUT: "10" },
+  };
 }
 
-function run(program: string, args: string[], env: NodeJS.ProcessEnv): Promise<void> {
+function run(
+  program: string,
+  args: string[],
+  env: NodeJS.ProcessEnv,
+): Promise<void> {
   return new Promise((resolve, reject) => {
-    const child = spawn(program, args, { env, stdio: ['ignore', 'ignore', 'pipe'] });
-    let stderr = '';
-    child.stderr.on('data', (chunk) => (stderr += chunk));
-    child.on('error', reject);
-    child.on('exit', (code) => {
+    const child = spawn(program, args, {
+      env,
+      stdio: ["ignore", "ignore", "pipe"],
+    });
+    let stderr = "";
+    child.stderr.on("data", (chunk) => (stderr += chunk));
+    child.on("error", reject);
+    child.on("exit", (code) => {
       if (code === 0) resolve();
-      else reject(new BackupError(`${path.basename(program)} failed (exit ${code}):\n${stderr.trim()}`));
+      else
+        reject(
+          new BackupError(
+            `${path.basename(program)} failed (exit ${code}):\n${stderr.trim()}`,
+          ),
+        );
     });
   });
 }
 
 function packageVersion(): string {
-  const file = path.join(path.dirname(fileURLToPath(import.meta.url)), '..', '..', 'package.json');
+  const file = path.join(
+    path.dirname(fileURLToPath(import.meta.url)),
+    "..",
+    "..",
+    "package.json",
+  );
   try {
-    return (JSON.parse(readFileSync(file, 'utf8')) as { version: string }).version;
+    return (JSON.parse(readFileSync(file, "utf8")) as { version: string })
+      .version;
   } catch {
-    return 'unknown';
+    return "unknown";
   }
 }
 
 async function migrationLevel(client: pg.Client): Promise<string | null> {
-  const present = await client.query("select to_regclass('public.kysely_migration') is not null as present");
+  const present = await client.query(
+    "select to_regclass('public.kysely_migration') is not null as present",
+  );
   if (!present.rows[0].present) return null;
-  const r = await client.query<{ name: string }>('select name from kysely_migration order by name desc limit 1');
+  const r = await client.query<{ name: string }>(
+    "select name from kysely_migration order by name desc limit 1",
+  );
   return r.rows[0]?.name ?? null;
 }
 
@@ -195,14 +238,18 @@ export async function backup(options: BackupOptions): Promise<Manifest> {
   }
   mkdirSync(path.join(folder, OBJECTS_FOLDER), { recursive: true });
   const bin = ensureServerBinaries(log);
-  const pgDump = path.join(bin.binDir, 'pg_dump');
+  const pgDump = path.join(bin.binDir, "pg_dump");
 
   const client = new pg.Client({ connectionString: options.databaseUrl });
   await client.connect();
   let serverVersion: string;
   let migration: string | null;
   try {
-    serverVersion = (await client.query<{ v: string }>("select current_setting('server_version') as v")).rows[0].v;
+    serverVersion = (
+      await client.query<{ v: string }>(
+        "select current_setting('server_version') as v",
+      )
+    ).rows[0].v;
     migration = await migrationLevel(client);
   } finally {
     await client.end();
@@ -215,7 +262,13 @@ export async function backup(options: BackupOptions): Promise<Manifest> {
   // No owners or grants: the restored database belongs to whichever role restores it.
   await run(
     pgDump,
-    ['--format=custom', '--no-owner', '--no-privileges', `--file=${dumpFile}`, `--dbname=${conn.dbname}`],
+    [
+      "--format=custom",
+      "--no-owner",
+      "--no-privileges",
+      `--file=${dumpFile}`,
+      `--dbname=${conn.dbname}`,
+    ],
     conn.env,
   );
   const dumpBytes = readFileSync(dumpFile);
@@ -223,42 +276,67 @@ export async function backup(options: BackupOptions): Promise<Manifest> {
   const s3 = s3Client(options.store);
   const objects: ManifestObject[] = [];
   try {
-    const keys = await listAllKeys(s3, options.store.bucket, options.listPageSize);
+    const keys = await listAllKeys(
+      s3,
+      options.store.bucket,
+      options.listPageSize,
+    );
     log(`copying ${keys.length} objects from bucket ${options.store.bucket} …`);
     for (const key of keys) {
       const file = objectFile(folder, key);
-      const out = await s3.send(new GetObjectCommand({ Bucket: options.store.bucket, Key: key }));
+      const out = await s3.send(
+        new GetObjectCommand({ Bucket: options.store.bucket, Key: key }),
+      );
       const bytes = Buffer.from(await out.Body!.transformToByteArray());
       mkdirSync(path.dirname(file), { recursive: true });
       writeFileSync(file, bytes);
-      objects.push({ key, size: bytes.length, sha256: sha256(bytes), contentType: out.ContentType ?? null });
+      objects.push({
+        key,
+        size: bytes.length,
+        sha256: sha256(bytes),
+        contentType: out.ContentType ?? null,
+      });
     }
   } finally {
     s3.destroy();
   }
 
   const manifest: Manifest = {
-    format: 'worldsheet-backup',
+    format: "worldsheet-backup",
     formatVersion: 1,
     createdAt: new Date().toISOString(),
     appVersion: options.appVersion ?? packageVersion(),
     migration,
     postgres: { serverVersion, dumpProgram: `pg_dump ${bin.major}` },
-    database: { file: DUMP_FILE, size: dumpBytes.length, sha256: sha256(dumpBytes) },
+    database: {
+      file: DUMP_FILE,
+      size: dumpBytes.length,
+      sha256: sha256(dumpBytes),
+    },
     bucket: options.store.bucket,
     objects,
   };
-  writeFileSync(path.join(folder, MANIFEST_FILE), `${JSON.stringify(manifest, null, 2)}\n`);
-  log(`backup written to ${folder}: database ${dumpBytes.length} bytes, ${objects.length} objects`);
+  writeFileSync(
+    path.join(folder, MANIFEST_FILE),
+    `${JSON.stringify(manifest, null, 2)}\n`,
+  );
+  log(
+    `backup written to ${folder}: database ${dumpBytes.length} bytes, ${objects.length} objects`,
+  );
   return manifest;
 }
 
 export function readManifest(folder: string): Manifest {
   const file = path.join(path.resolve(folder), MANIFEST_FILE);
-  if (!existsSync(file)) throw new BackupError(`${file} is missing: ${folder} is not a Worldsheet backup.`);
-  const manifest = JSON.parse(readFileSync(file, 'utf8')) as Manifest;
-  if (manifest.format !== 'worldsheet-backup' || manifest.formatVersion !== 1) {
-    throw new BackupError(`${file} is not a Worldsheet backup manifest of a format this version reads (format 1).`);
+  if (!existsSync(file))
+    throw new BackupError(
+      `${file} is missing: ${folder} is not a Worldsheet backup.`,
+    );
+  const manifest = JSON.parse(readFileSync(file, "utf8")) as Manifest;
+  if (manifest.format !== "worldsheet-backup" || manifest.formatVersion !== 1) {
+    throw new BackupError(
+      `${file} is not a Worldsheet backup manifest of a format this version reads (format 1).`,
+    );
   }
   return manifest;
 }
@@ -275,10 +353,12 @@ async function assertEmptyDatabase(databaseUrl: string): Promise<void> {
       "select count(*)::int as n from pg_namespace where nspname = 'pgboss'",
     );
     if (tables.rows[0].n > 0 || boss.rows[0].n > 0) {
-      const name = (await client.query<{ d: string }>('select current_database() as d')).rows[0].d;
+      const name = (
+        await client.query<{ d: string }>("select current_database() as d")
+      ).rows[0].d;
       throw new BackupError(
-        `The target database ${name} is not empty (${tables.rows[0].n} tables in public${boss.rows[0].n ? ', a pgboss schema' : ''}). ` +
-          'Restore only into a new, empty database; nothing was changed.',
+        `The target database ${name} is not empty (${tables.rows[0].n} tables in public${boss.rows[0].n ? ", a pgboss schema" : ""}). ` +
+          "Restore only into a new, empty database; nothing was changed.",
       );
     }
   } finally {
@@ -286,8 +366,13 @@ async function assertEmptyDatabase(databaseUrl: string): Promise<void> {
   }
 }
 
-async function assertEmptyBucket(client: S3Client, bucket: string): Promise<void> {
-  const page = await client.send(new ListObjectsCommand({ Bucket: bucket, MaxKeys: 1 }));
+async function assertEmptyBucket(
+  client: S3Client,
+  bucket: string,
+): Promise<void> {
+  const page = await client.send(
+    new ListObjectsCommand({ Bucket: bucket, MaxKeys: 1 }),
+  );
   if ((page.Contents?.length ?? 0) > 0) {
     throw new BackupError(
       `The target bucket ${bucket} is not empty. Restore only into an empty bucket; nothing was changed.`,
@@ -308,9 +393,14 @@ export async function restore(options: RestoreOptions): Promise<Manifest> {
     await assertEmptyDatabase(options.databaseUrl);
     await assertEmptyBucket(s3, options.store.bucket);
 
-    log(`checking the backup against its manifest (${manifest.objects.length} objects) …`);
+    log(
+      `checking the backup against its manifest (${manifest.objects.length} objects) …`,
+    );
     const dumpFile = path.join(folder, manifest.database.file);
-    if (!existsSync(dumpFile)) throw new BackupError(`The database dump ${dumpFile} is missing; nothing was restored.`);
+    if (!existsSync(dumpFile))
+      throw new BackupError(
+        `The database dump ${dumpFile} is missing; nothing was restored.`,
+      );
     if ((await fileSha256(dumpFile)) !== manifest.database.sha256) {
       throw new BackupError(
         `The database dump ${dumpFile} does not match the SHA-256 in the manifest; nothing was restored.`,
@@ -319,7 +409,9 @@ export async function restore(options: RestoreOptions): Promise<Manifest> {
     for (const o of manifest.objects) {
       const file = objectFile(folder, o.key);
       if (!existsSync(file))
-        throw new BackupError(`The object ${o.key} is missing from the backup (${file}); nothing was restored.`);
+        throw new BackupError(
+          `The object ${o.key} is missing from the backup (${file}); nothing was restored.`,
+        );
       const bytes = readFileSync(file);
       if (bytes.length !== o.size || sha256(bytes) !== o.sha256) {
         throw new BackupError(
@@ -334,31 +426,42 @@ export async function restore(options: RestoreOptions): Promise<Manifest> {
     // One transaction: a failure leaves the database as empty as it was. --exit-on-error so that no
     // error is passed over.
     await run(
-      path.join(bin.binDir, 'pg_restore'),
-      ['--no-owner', '--no-privileges', '--single-transaction', '--exit-on-error', `--dbname=${conn.dbname}`, dumpFile],
+      path.join(bin.binDir, "pg_restore"),
+      [
+        "--no-owner",
+        "--no-privileges",
+        "--single-transaction",
+        "--exit-on-error",
+        `--dbname=${conn.dbname}`,
+        dumpFile,
+      ],
       conn.env,
     );
 
-    log(`uploading ${manifest.objects.length} objects to bucket ${options.store.bucket} …`);
+    log(
+      `uploading ${manifest.objects.length} objects to bucket ${options.store.bucket} …`,
+    );
     for (const o of manifest.objects) {
       const bytes = readFileSync(objectFile(folder, o.key));
       // Read again just before the upload: the file must still be the one checked above.
       if (sha256(bytes) !== o.sha256)
-        throw new BackupError(`The object ${o.key} changed on disk during the restore; the restore is incomplete.`);
+        throw new BackupError(
+          `The object ${o.key} changed on disk during the restore; the restore is incomplete.`,
+        );
       await s3.send(
         new PutObjectCommand({
           Bucket: options.store.bucket,
           Key: o.key,
           Body: bytes,
           ContentType: o.contentType ?? undefined,
-          ContentMD5: createHash('md5').update(bytes).digest('base64'),
+          ContentMD5: createHash("md5").update(bytes).digest("base64"),
         }),
       );
     }
   } finally {
     s3.destroy();
   }
-  log('restore done');
+  log("restore done");
   return manifest;
 }
 
@@ -369,159 +472,29 @@ export async function ensureBucket(config: StorageConfig): Promise<void> {
     await s3.send(new CreateBucketCommand({ Bucket: config.bucket }));
   } catch (error) {
     const name = (error as { name?: string }).name;
-    if (name !== 'BucketAlreadyOwnedByYou' && name !== 'BucketAlreadyExists') throw error;
+    if (name !== "BucketAlreadyOwnedByYou" && name !== "BucketAlreadyExists")
+      throw error;
   } finally {
     s3.destroy();
   }
 }
 
-export interface InstallationReport {
-  ok: boolean;
-  counts: { versions: number; revisions: number; stampedCopies: number; attachments: number; auditEvents: number };
-  /** One line per problem, naming the record and what does not match. */
-  problems: string[];
-}
-
-/**
- * Checks what the records promise: every version's content hashes to its content_hash, every
- * signature and revision cites its version's hash, every revision's PDF (and stamped copy) and every
- * attachment in the object store hashes to the SHA-256 its row records, and the audit chain is
- * intact (walked here and by the database's own audit_chain_breaks()).
- */
-export async function verifyInstallation(
-  db: Kysely<Database>,
-  store: ObjectStore,
-  options: { batch?: number } = {},
-): Promise<InstallationReport> {
-  const batch = options.batch ?? 200;
-  const problems: string[] = [];
-  const counts = { versions: 0, revisions: 0, stampedCopies: 0, attachments: 0, auditEvents: 0 };
-  // A backup made before a migration restores at that migration's level: tables that came later are
-  // absent, not broken, and have nothing to verify.
-  const present = new Set(
-    (
-      await sql<{ tablename: string }>`select tablename from pg_tables where schemaname = 'public'`.execute(db)
-    ).rows.map((r) => r.tablename),
-  );
-
-  let lastId: string | null = null;
-  while (present.has('versions')) {
-    let q = db
-      .selectFrom('versions')
-      .innerJoin('sheets', 'sheets.id', 'versions.sheet_id')
-      .innerJoin('projects', 'projects.id', 'sheets.project_id')
-      .select([
-        'versions.id',
-        'versions.number',
-        'versions.content',
-        'versions.content_hash',
-        'sheets.number as sheet_number',
-        'projects.code',
-      ])
-      .orderBy('versions.id')
-      .limit(batch);
-    if (lastId) q = q.where('versions.id', '>', lastId);
-    const rows = await q.execute();
-    for (const v of rows) {
-      counts.versions++;
-      if (contentHash(v.content as VersionContent) !== v.content_hash) {
-        problems.push(
-          `version ${v.number} of sheet ${v.code} #${v.sheet_number} (${v.id}): its content no longer hashes to ${v.content_hash}`,
-        );
-      }
-    }
-    if (rows.length < batch) break;
-    lastId = rows[rows.length - 1].id;
-  }
-
-  for (const table of ['signatures', 'revisions', 'checks'] as const) {
-    if (!present.has(table)) continue;
-    const r = await sql<{ id: string }>`
-      select t.id from ${sql.table(table)} t
-      left join versions v on v.sheet_id = t.sheet_id and v.number = t.version_number
-      where v.content_hash is distinct from t.version_sha256`.execute(db);
-    for (const row of r.rows)
-      problems.push(`${table.replace(/s$/, '')} ${row.id}: cites a version hash that its version does not have`);
-  }
-
-  const checkObject = async (what: string, key: string, expected: string, size?: string) => {
-    const bytes = await store.get(key);
-    if (!bytes) return problems.push(`${what}: the object ${key} is missing from the store`);
-    if (sha256(bytes) !== expected)
-      return problems.push(`${what}: the object ${key} does not hash to the recorded ${expected}`);
-    if (size !== undefined && String(bytes.length) !== String(size))
-      problems.push(`${what}: the object ${key} is ${bytes.length} bytes, the record says ${size}`);
-  };
-
-  const revisions = !present.has('revisions')
-    ? []
-    : await db
-        .selectFrom('revisions')
-        .select(['id', 'code', 'pdf_key', 'pdf_sha256', 'pdf_size', 'stamped_key', 'stamped_sha256'])
-        .orderBy('id')
-        .execute();
-  for (const r of revisions) {
-    counts.revisions++;
-    await checkObject(`revision ${r.code} (${r.id}) PDF`, r.pdf_key, r.pdf_sha256, r.pdf_size);
-    if (r.stamped_key || r.stamped_sha256) {
-      counts.stampedCopies++;
-      if (!r.stamped_key || !r.stamped_sha256)
-        problems.push(`revision ${r.code} (${r.id}): a stamped copy is recorded without both its key and its SHA-256`);
-      else await checkObject(`revision ${r.code} (${r.id}) stamped copy`, r.stamped_key, r.stamped_sha256);
-    }
-  }
-
-  const attachments = !present.has('attachments')
-    ? []
-    : await db
-        .selectFrom('attachments')
-        .select(['id', 'name', 'storage_key', 'sha256', 'size'])
-        .orderBy('id')
-        .execute();
-  for (const a of attachments) {
-    counts.attachments++;
-    await checkObject(`attachment ${a.name} (${a.id})`, a.storage_key, a.sha256, a.size);
-  }
-
-  if (!present.has('audit_events')) return { ok: problems.length === 0, counts, problems };
-  const chain = await verifyAuditChain(db);
-  counts.auditEvents = chain.events;
-  if (!chain.ok && chain.firstBroken)
-    problems.push(`audit event ${chain.firstBroken.id}: ${chain.firstBroken.problem}`);
-  const breaks = await sql<{ id: string; problem: string }>`select id, problem from audit_chain_breaks()`.execute(db);
-  for (const b of breaks.rows.slice(0, 20)) problems.push(`audit event ${b.id} (database check): ${b.problem}`);
-  if (breaks.rows.length > 20) problems.push(`… and ${breaks.rows.length - 20} more audit events the database reports`);
-  if (!chain.ok) {
-    const total = await db
-      .selectFrom('audit_events')
-      .select((eb) => eb.fn.countAll<string>().as('n'))
-      .executeTakeFirstOrThrow();
-    counts.auditEvents = Number(total.n);
-  }
-
-  return { ok: problems.length === 0, counts, problems };
-}
-
 /** Rows in every table of the app's schemas (public and pgboss), for comparing two installations. */
-export async function tableCounts(db: Kysely<Database>): Promise<Record<string, number>> {
+export async function tableCounts(
+  db: Kysely<Database>,
+): Promise<Record<string, number>> {
   const tables = await sql<{ schemaname: string; tablename: string }>`
-    select schemaname, tablename from pg_tables where schemaname in ('public', 'pgboss') order by 1, 2`.execute(db);
+    select schemaname, tablename from pg_tables where schemaname in ('public', 'pgboss') order by 1, 2`.execute(
+    db,
+  );
   const counts: Record<string, number> = {};
   for (const t of tables.rows) {
     const r = await sql<{
       n: number;
-    }>`select count(*)::int as n from ${sql.table(`${t.schemaname}.${t.tablename}`)}`.execute(db);
+    }>`select count(*)::int as n from ${sql.table(`${t.schemaname}.${t.tablename}`)}`.execute(
+      db,
+    );
     counts[`${t.schemaname}.${t.tablename}`] = r.rows[0].n;
   }
   return counts;
-}
-
-/** verifyInstallation on a connection string (for the commands). */
-export async function verifyInstallationAt(databaseUrl: string, store: ObjectStore): Promise<InstallationReport> {
-  const db = createDb(databaseUrl, { max: 2 });
-  try {
-    return await verifyInstallation(db, store);
-  } finally {
-    await db.destroy();
-  }
 }
