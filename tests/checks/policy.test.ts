@@ -17,7 +17,7 @@ import {
 import { DECISIONS, nextState, TRANSITIONS } from '../../lib/checks/transitions';
 
 const STATES: CheckState[] = ['in_check', 'returned', 'checked', 'approved', 'approval_returned'];
-const ROLES: ProjectRole[] = ['originator', 'checker', 'approver', 'document_controller', 'viewer'];
+const ROLES: ProjectRole[] = ['originator', 'checker', 'approver', 'controller', 'viewer'];
 
 // The people: Pat submits (signs prepared) and authored the version, Cam is the named checker,
 // Ann and Abe approve, Bea is another originator of the project with no part in the check.
