@@ -9,41 +9,34 @@
 // pg_dump and pg_restore are Debian's programs of the local cluster's major version
 // (db/local-postgres.ts); they connect over TCP with the URL they are given, as any OS user. The
 // password goes to them in PGPASSWORD, never on the command line.
-import { spawn } from "node:child_process";
-import { createHash } from "node:crypto";
-import {
-  createReadStream,
-  existsSync,
-  mkdirSync,
-  readdirSync,
-  readFileSync,
-  writeFileSync,
-} from "node:fs";
-import path from "node:path";
-import { fileURLToPath } from "node:url";
+import { spawn } from 'node:child_process';
+import { createHash } from 'node:crypto';
+import { createReadStream, existsSync, mkdirSync, readdirSync, readFileSync, writeFileSync } from 'node:fs';
+import path from 'node:path';
+import { fileURLToPath } from 'node:url';
 import {
   CreateBucketCommand,
   GetObjectCommand,
   ListObjectsCommand,
   PutObjectCommand,
   S3Client,
-} from "@aws-sdk/client-s3";
-import { sql, type Kysely } from "kysely";
-import pg from "pg";
-import { ensureServerBinaries } from "../../db/local-postgres";
-import type { Database } from "../../db/schema";
-import type { StorageConfig } from "../storage/config";
+} from '@aws-sdk/client-s3';
+import { sql, type Kysely } from 'kysely';
+import pg from 'pg';
+import { ensureServerBinaries } from '../../db/local-postgres';
+import type { Database } from '../../db/schema';
+import type { StorageConfig } from '../storage/config';
 
 export class BackupError extends Error {
   constructor(message: string) {
     super(message);
-    this.name = "BackupError";
+    this.name = 'BackupError';
   }
 }
 
-export const MANIFEST_FILE = "manifest.json";
-export const DUMP_FILE = "database.dump";
-export const OBJECTS_FOLDER = "objects";
+export const MANIFEST_FILE = 'manifest.json';
+export const DUMP_FILE = 'database.dump';
+export const OBJECTS_FOLDER = 'objects';
 
 export interface ManifestObject {
   key: string;
@@ -53,7 +46,7 @@ export interface ManifestObject {
 }
 
 export interface Manifest {
-  format: "worldsheet-backup";
+  format: 'worldsheet-backup';
   formatVersion: 1;
   /** UTC, ISO 8601. */
   createdAt: string;
@@ -89,16 +82,15 @@ interface RestoreOptions {
   log?: Log;
 }
 
-const sha256 = (bytes: Uint8Array) =>
-  createHash("sha256").update(bytes).digest("hex");
+const sha256 = (bytes: Uint8Array) => createHash('sha256').update(bytes).digest('hex');
 
 function fileSha256(file: string): Promise<string> {
   return new Promise((resolve, reject) => {
-    const hash = createHash("sha256");
+    const hash = createHash('sha256');
     createReadStream(file)
-      .on("data", (chunk) => hash.update(chunk))
-      .on("error", reject)
-      .on("end", () => resolve(hash.digest("hex")));
+      .on('data', (chunk) => hash.update(chunk))
+      .on('error', reject)
+      .on('end', () => resolve(hash.digest('hex')));
   });
 }
 
@@ -118,24 +110,12 @@ function s3Client(config: StorageConfig): S3Client {
  * on S3 and S3-compatible stores, but the local fake (s3rver 3.7) makes its V2 tokens with DES, which
  * Node's OpenSSL 3 no longer has, and fails on every truncated V2 page.
  */
-async function listAllKeys(
-  client: S3Client,
-  bucket: string,
-  pageSize = 1000,
-): Promise<string[]> {
+async function listAllKeys(client: S3Client, bucket: string, pageSize = 1000): Promise<string[]> {
   const keys: string[] = [];
   let marker: string | undefined;
   for (;;) {
-    const page = await client.send(
-      new ListObjectsCommand({
-        Bucket: bucket,
-        Marker: marker,
-        MaxKeys: pageSize,
-      }),
-    );
-    const contents = (page.Contents ?? []).flatMap((o) =>
-      o.Key ? [o.Key] : [],
-    );
+    const page = await client.send(new ListObjectsCommand({ Bucket: bucket, Marker: marker, MaxKeys: pageSize }));
+    const contents = (page.Contents ?? []).flatMap((o) => (o.Key ? [o.Key] : []));
     keys.push(...contents);
     if (!page.IsTruncated || contents.length === 0) break;
     marker = page.NextMarker ?? contents[contents.length - 1];
@@ -148,12 +128,12 @@ async function listAllKeys(
  * `revisions/…`), but a key that would leave the folder is refused rather than trusted.
  */
 function objectFile(folder: string, key: string): string {
-  const parts = key.split("/");
+  const parts = key.split('/');
   if (
     key.length === 0 ||
-    key.startsWith("/") ||
-    parts.some((p) => p === "" || p === "." || p === "..") ||
-    key.includes("\0")
+    key.startsWith('/') ||
+    parts.some((p) => p === '' || p === '.' || p === '..') ||
+    key.includes('\0')
   ) {
     throw new BackupError(
       `The object key ${JSON.stringify(key)} cannot be written as a file; nothing of this backup can be trusted to hold it.`,
@@ -163,67 +143,39 @@ function objectFile(folder: string, key: string): string {
 }
 
 /** Splits a postgres:// URL into one without the password, and the password (for PGPASSWORD). */
-function connectionForTool(url: string): {
-  dbname: string;
-  env: NodeJS.ProcessEnv;
-} {
+function connectionForTool(url: string): { dbname: string; env: NodeJS.ProcessEnv } {
   const u = new URL(url);
   const password = decodeURIComponent(u.password);
-  u.password = "";
-  return {
-    dbname: u.toString(),
-    env: { ...process.env, PGPASSWORD: password, PGCONNECT_TIMEOUT: "10" },
-  };
+  u.password = '';
+  return { dbname: u.toString(), env: { ...process.env, PGPASSWORD: password, PGCONNECT_TIMEOUT: '10' } };
 }
 
-function run(
-  program: string,
-  args: string[],
-  env: NodeJS.ProcessEnv,
-): Promise<void> {
+function run(program: string, args: string[], env: NodeJS.ProcessEnv): Promise<void> {
   return new Promise((resolve, reject) => {
-    const child = spawn(program, args, {
-      env,
-      stdio: ["ignore", "ignore", "pipe"],
-    });
-    let stderr = "";
-    child.stderr.on("data", (chunk) => (stderr += chunk));
-    child.on("error", reject);
-    child.on("exit", (code) => {
+    const child = spawn(program, args, { env, stdio: ['ignore', 'ignore', 'pipe'] });
+    let stderr = '';
+    child.stderr.on('data', (chunk) => (stderr += chunk));
+    child.on('error', reject);
+    child.on('exit', (code) => {
       if (code === 0) resolve();
-      else
-        reject(
-          new BackupError(
-            `${path.basename(program)} failed (exit ${code}):\n${stderr.trim()}`,
-          ),
-        );
+      else reject(new BackupError(`${path.basename(program)} failed (exit ${code}):\n${stderr.trim()}`));
     });
   });
 }
 
 function packageVersion(): string {
-  const file = path.join(
-    path.dirname(fileURLToPath(import.meta.url)),
-    "..",
-    "..",
-    "package.json",
-  );
+  const file = path.join(path.dirname(fileURLToPath(import.meta.url)), '..', '..', 'package.json');
   try {
-    return (JSON.parse(readFileSync(file, "utf8")) as { version: string })
-      .version;
+    return (JSON.parse(readFileSync(file, 'utf8')) as { version: string }).version;
   } catch {
-    return "unknown";
+    return 'unknown';
   }
 }
 
 async function migrationLevel(client: pg.Client): Promise<string | null> {
-  const present = await client.query(
-    "select to_regclass('public.kysely_migration') is not null as present",
-  );
+  const present = await client.query("select to_regclass('public.kysely_migration') is not null as present");
   if (!present.rows[0].present) return null;
-  const r = await client.query<{ name: string }>(
-    "select name from kysely_migration order by name desc limit 1",
-  );
+  const r = await client.query<{ name: string }>('select name from kysely_migration order by name desc limit 1');
   return r.rows[0]?.name ?? null;
 }
 
@@ -238,18 +190,14 @@ export async function backup(options: BackupOptions): Promise<Manifest> {
   }
   mkdirSync(path.join(folder, OBJECTS_FOLDER), { recursive: true });
   const bin = ensureServerBinaries(log);
-  const pgDump = path.join(bin.binDir, "pg_dump");
+  const pgDump = path.join(bin.binDir, 'pg_dump');
 
   const client = new pg.Client({ connectionString: options.databaseUrl });
   await client.connect();
   let serverVersion: string;
   let migration: string | null;
   try {
-    serverVersion = (
-      await client.query<{ v: string }>(
-        "select current_setting('server_version') as v",
-      )
-    ).rows[0].v;
+    serverVersion = (await client.query<{ v: string }>("select current_setting('server_version') as v")).rows[0].v;
     migration = await migrationLevel(client);
   } finally {
     await client.end();
@@ -262,13 +210,7 @@ export async function backup(options: BackupOptions): Promise<Manifest> {
   // No owners or grants: the restored database belongs to whichever role restores it.
   await run(
     pgDump,
-    [
-      "--format=custom",
-      "--no-owner",
-      "--no-privileges",
-      `--file=${dumpFile}`,
-      `--dbname=${conn.dbname}`,
-    ],
+    ['--format=custom', '--no-owner', '--no-privileges', `--file=${dumpFile}`, `--dbname=${conn.dbname}`],
     conn.env,
   );
   const dumpBytes = readFileSync(dumpFile);
@@ -276,67 +218,42 @@ export async function backup(options: BackupOptions): Promise<Manifest> {
   const s3 = s3Client(options.store);
   const objects: ManifestObject[] = [];
   try {
-    const keys = await listAllKeys(
-      s3,
-      options.store.bucket,
-      options.listPageSize,
-    );
+    const keys = await listAllKeys(s3, options.store.bucket, options.listPageSize);
     log(`copying ${keys.length} objects from bucket ${options.store.bucket} …`);
     for (const key of keys) {
       const file = objectFile(folder, key);
-      const out = await s3.send(
-        new GetObjectCommand({ Bucket: options.store.bucket, Key: key }),
-      );
+      const out = await s3.send(new GetObjectCommand({ Bucket: options.store.bucket, Key: key }));
       const bytes = Buffer.from(await out.Body!.transformToByteArray());
       mkdirSync(path.dirname(file), { recursive: true });
       writeFileSync(file, bytes);
-      objects.push({
-        key,
-        size: bytes.length,
-        sha256: sha256(bytes),
-        contentType: out.ContentType ?? null,
-      });
+      objects.push({ key, size: bytes.length, sha256: sha256(bytes), contentType: out.ContentType ?? null });
     }
   } finally {
     s3.destroy();
   }
 
   const manifest: Manifest = {
-    format: "worldsheet-backup",
+    format: 'worldsheet-backup',
     formatVersion: 1,
     createdAt: new Date().toISOString(),
     appVersion: options.appVersion ?? packageVersion(),
     migration,
     postgres: { serverVersion, dumpProgram: `pg_dump ${bin.major}` },
-    database: {
-      file: DUMP_FILE,
-      size: dumpBytes.length,
-      sha256: sha256(dumpBytes),
-    },
+    database: { file: DUMP_FILE, size: dumpBytes.length, sha256: sha256(dumpBytes) },
     bucket: options.store.bucket,
     objects,
   };
-  writeFileSync(
-    path.join(folder, MANIFEST_FILE),
-    `${JSON.stringify(manifest, null, 2)}\n`,
-  );
-  log(
-    `backup written to ${folder}: database ${dumpBytes.length} bytes, ${objects.length} objects`,
-  );
+  writeFileSync(path.join(folder, MANIFEST_FILE), `${JSON.stringify(manifest, null, 2)}\n`);
+  log(`backup written to ${folder}: database ${dumpBytes.length} bytes, ${objects.length} objects`);
   return manifest;
 }
 
 export function readManifest(folder: string): Manifest {
   const file = path.join(path.resolve(folder), MANIFEST_FILE);
-  if (!existsSync(file))
-    throw new BackupError(
-      `${file} is missing: ${folder} is not a Worldsheet backup.`,
-    );
-  const manifest = JSON.parse(readFileSync(file, "utf8")) as Manifest;
-  if (manifest.format !== "worldsheet-backup" || manifest.formatVersion !== 1) {
-    throw new BackupError(
-      `${file} is not a Worldsheet backup manifest of a format this version reads (format 1).`,
-    );
+  if (!existsSync(file)) throw new BackupError(`${file} is missing: ${folder} is not a Worldsheet backup.`);
+  const manifest = JSON.parse(readFileSync(file, 'utf8')) as Manifest;
+  if (manifest.format !== 'worldsheet-backup' || manifest.formatVersion !== 1) {
+    throw new BackupError(`${file} is not a Worldsheet backup manifest of a format this version reads (format 1).`);
   }
   return manifest;
 }
@@ -353,12 +270,10 @@ async function assertEmptyDatabase(databaseUrl: string): Promise<void> {
       "select count(*)::int as n from pg_namespace where nspname = 'pgboss'",
     );
     if (tables.rows[0].n > 0 || boss.rows[0].n > 0) {
-      const name = (
-        await client.query<{ d: string }>("select current_database() as d")
-      ).rows[0].d;
+      const name = (await client.query<{ d: string }>('select current_database() as d')).rows[0].d;
       throw new BackupError(
-        `The target database ${name} is not empty (${tables.rows[0].n} tables in public${boss.rows[0].n ? ", a pgboss schema" : ""}). ` +
-          "Restore only into a new, empty database; nothing was changed.",
+        `The target database ${name} is not empty (${tables.rows[0].n} tables in public${boss.rows[0].n ? ', a pgboss schema' : ''}). ` +
+          'Restore only into a new, empty database; nothing was changed.',
       );
     }
   } finally {
@@ -366,13 +281,8 @@ async function assertEmptyDatabase(databaseUrl: string): Promise<void> {
   }
 }
 
-async function assertEmptyBucket(
-  client: S3Client,
-  bucket: string,
-): Promise<void> {
-  const page = await client.send(
-    new ListObjectsCommand({ Bucket: bucket, MaxKeys: 1 }),
-  );
+async function assertEmptyBucket(client: S3Client, bucket: string): Promise<void> {
+  const page = await client.send(new ListObjectsCommand({ Bucket: bucket, MaxKeys: 1 }));
   if ((page.Contents?.length ?? 0) > 0) {
     throw new BackupError(
       `The target bucket ${bucket} is not empty. Restore only into an empty bucket; nothing was changed.`,
@@ -393,14 +303,9 @@ export async function restore(options: RestoreOptions): Promise<Manifest> {
     await assertEmptyDatabase(options.databaseUrl);
     await assertEmptyBucket(s3, options.store.bucket);
 
-    log(
-      `checking the backup against its manifest (${manifest.objects.length} objects) …`,
-    );
+    log(`checking the backup against its manifest (${manifest.objects.length} objects) …`);
     const dumpFile = path.join(folder, manifest.database.file);
-    if (!existsSync(dumpFile))
-      throw new BackupError(
-        `The database dump ${dumpFile} is missing; nothing was restored.`,
-      );
+    if (!existsSync(dumpFile)) throw new BackupError(`The database dump ${dumpFile} is missing; nothing was restored.`);
     if ((await fileSha256(dumpFile)) !== manifest.database.sha256) {
       throw new BackupError(
         `The database dump ${dumpFile} does not match the SHA-256 in the manifest; nothing was restored.`,
@@ -409,9 +314,7 @@ export async function restore(options: RestoreOptions): Promise<Manifest> {
     for (const o of manifest.objects) {
       const file = objectFile(folder, o.key);
       if (!existsSync(file))
-        throw new BackupError(
-          `The object ${o.key} is missing from the backup (${file}); nothing was restored.`,
-        );
+        throw new BackupError(`The object ${o.key} is missing from the backup (${file}); nothing was restored.`);
       const bytes = readFileSync(file);
       if (bytes.length !== o.size || sha256(bytes) !== o.sha256) {
         throw new BackupError(
@@ -426,42 +329,31 @@ export async function restore(options: RestoreOptions): Promise<Manifest> {
     // One transaction: a failure leaves the database as empty as it was. --exit-on-error so that no
     // error is passed over.
     await run(
-      path.join(bin.binDir, "pg_restore"),
-      [
-        "--no-owner",
-        "--no-privileges",
-        "--single-transaction",
-        "--exit-on-error",
-        `--dbname=${conn.dbname}`,
-        dumpFile,
-      ],
+      path.join(bin.binDir, 'pg_restore'),
+      ['--no-owner', '--no-privileges', '--single-transaction', '--exit-on-error', `--dbname=${conn.dbname}`, dumpFile],
       conn.env,
     );
 
-    log(
-      `uploading ${manifest.objects.length} objects to bucket ${options.store.bucket} …`,
-    );
+    log(`uploading ${manifest.objects.length} objects to bucket ${options.store.bucket} …`);
     for (const o of manifest.objects) {
       const bytes = readFileSync(objectFile(folder, o.key));
       // Read again just before the upload: the file must still be the one checked above.
       if (sha256(bytes) !== o.sha256)
-        throw new BackupError(
-          `The object ${o.key} changed on disk during the restore; the restore is incomplete.`,
-        );
+        throw new BackupError(`The object ${o.key} changed on disk during the restore; the restore is incomplete.`);
       await s3.send(
         new PutObjectCommand({
           Bucket: options.store.bucket,
           Key: o.key,
           Body: bytes,
           ContentType: o.contentType ?? undefined,
-          ContentMD5: createHash("md5").update(bytes).digest("base64"),
+          ContentMD5: createHash('md5').update(bytes).digest('base64'),
         }),
       );
     }
   } finally {
     s3.destroy();
   }
-  log("restore done");
+  log('restore done');
   return manifest;
 }
 
@@ -472,28 +364,21 @@ export async function ensureBucket(config: StorageConfig): Promise<void> {
     await s3.send(new CreateBucketCommand({ Bucket: config.bucket }));
   } catch (error) {
     const name = (error as { name?: string }).name;
-    if (name !== "BucketAlreadyOwnedByYou" && name !== "BucketAlreadyExists")
-      throw error;
+    if (name !== 'BucketAlreadyOwnedByYou' && name !== 'BucketAlreadyExists') throw error;
   } finally {
     s3.destroy();
   }
 }
 
 /** Rows in every table of the app's schemas (public and pgboss), for comparing two installations. */
-export async function tableCounts(
-  db: Kysely<Database>,
-): Promise<Record<string, number>> {
+export async function tableCounts(db: Kysely<Database>): Promise<Record<string, number>> {
   const tables = await sql<{ schemaname: string; tablename: string }>`
-    select schemaname, tablename from pg_tables where schemaname in ('public', 'pgboss') order by 1, 2`.execute(
-    db,
-  );
+    select schemaname, tablename from pg_tables where schemaname in ('public', 'pgboss') order by 1, 2`.execute(db);
   const counts: Record<string, number> = {};
   for (const t of tables.rows) {
     const r = await sql<{
       n: number;
-    }>`select count(*)::int as n from ${sql.table(`${t.schemaname}.${t.tablename}`)}`.execute(
-      db,
-    );
+    }>`select count(*)::int as n from ${sql.table(`${t.schemaname}.${t.tablename}`)}`.execute(db);
     counts[`${t.schemaname}.${t.tablename}`] = r.rows[0].n;
   }
   return counts;

@@ -11,11 +11,11 @@
 //   migrate   applies migrations to DATABASE_URL or the local cluster
 //   backup    dumps the database and every stored object into a folder (npm run backup -- FOLDER)
 //   restore   restores such a folder into an empty installation and verifies it (npm run restore -- FOLDER)
-import { execFileSync } from "node:child_process";
-import { createWriteStream, mkdirSync } from "node:fs";
-import path from "node:path";
-import { fileURLToPath } from "node:url";
-import { createDb } from "../../db/index";
+import { execFileSync } from 'node:child_process';
+import { createWriteStream, mkdirSync } from 'node:fs';
+import path from 'node:path';
+import { fileURLToPath } from 'node:url';
+import { createDb } from '../../db/index';
 import {
   benchClusterPort,
   devClusterPort,
@@ -23,35 +23,23 @@ import {
   LocalPostgresError,
   portIsFree,
   testClusterPort,
-} from "../../db/local-postgres";
-import { migrateToLatest } from "../../db/migrate";
-import { seedDemo } from "../../db/seed";
-import { ensureChromium } from "./chromium";
-import { localAuthSecret } from "./app-secrets";
-import { buildIfStale } from "./next-build";
-import { Supervisor, waitForExit } from "./supervisor";
-import { ensureJobQueues } from "../jobs/queue";
-import { startCaptureServer } from "../mail/capture-server";
-import { mailCapturePort, smtpPort } from "../mail/config";
-import {
-  DEFAULT_FAKE_S3_PORT,
-  FAKE_S3_CREDENTIALS,
-  storageConfig,
-  type StorageConfig,
-} from "../storage/config";
-import { startFakeObjectStore } from "../storage/fake-server";
-import { createObjectStore } from "../storage/object-store";
-import {
-  verifyInstallationAt,
-  type InstallationReport,
-} from "../audit/integrity";
-import { backup, restore } from "./backup";
+} from '../../db/local-postgres';
+import { migrateToLatest } from '../../db/migrate';
+import { seedDemo } from '../../db/seed';
+import { ensureChromium } from './chromium';
+import { localAuthSecret } from './app-secrets';
+import { buildIfStale } from './next-build';
+import { Supervisor, waitForExit } from './supervisor';
+import { ensureJobQueues } from '../jobs/queue';
+import { startCaptureServer } from '../mail/capture-server';
+import { mailCapturePort, smtpPort } from '../mail/config';
+import { DEFAULT_FAKE_S3_PORT, FAKE_S3_CREDENTIALS, storageConfig, type StorageConfig } from '../storage/config';
+import { startFakeObjectStore } from '../storage/fake-server';
+import { createObjectStore } from '../storage/object-store';
+import { verifyInstallationAt, type InstallationReport } from '../audit/integrity';
+import { backup, restore } from './backup';
 
-const root = path.join(
-  path.dirname(fileURLToPath(import.meta.url)),
-  "..",
-  "..",
-);
+const root = path.join(path.dirname(fileURLToPath(import.meta.url)), '..', '..');
 const log = (line: string) => console.log(`[worldsheet] ${line}`);
 
 interface Database {
@@ -60,26 +48,19 @@ interface Database {
 }
 
 /** DATABASE_URL when set (a deployment's own server, no demo data); otherwise the local dev cluster. */
-async function prepareDatabase(
-  supervisor: Supervisor,
-  options: { seed: boolean },
-): Promise<Database> {
+async function prepareDatabase(supervisor: Supervisor, options: { seed: boolean }): Promise<Database> {
   const external = process.env.DATABASE_URL;
   let url: string;
   if (external) {
-    log("using the PostgreSQL server named by DATABASE_URL (no demo data)");
+    log('using the PostgreSQL server named by DATABASE_URL (no demo data)');
     url = external;
   } else {
-    const cluster = new LocalCluster({
-      name: "dev",
-      port: devClusterPort(),
-      projectRoot: root,
-    });
+    const cluster = new LocalCluster({ name: 'dev', port: devClusterPort(), projectRoot: root });
     cluster.prepare();
-    supervisor.add("PostgreSQL", () => cluster.stop());
+    supervisor.add('PostgreSQL', () => cluster.stop());
     await cluster.start();
-    await cluster.ensureDatabase("worldsheet");
-    url = cluster.appUrl("worldsheet");
+    await cluster.ensureDatabase('worldsheet');
+    url = cluster.appUrl('worldsheet');
   }
   const db = createDb(url, { max: 2 });
   try {
@@ -87,9 +68,8 @@ async function prepareDatabase(
     if (!external && options.seed) {
       const r = await seedDemo(db, { studies: true, starters: true });
       log(
-        r.usersCreated + r.sheetsCreated + r.membershipsCreated === 0 &&
-          !r.projectCreated
-          ? "demo data already in place"
+        r.usersCreated + r.sheetsCreated + r.membershipsCreated === 0 && !r.projectCreated
+          ? 'demo data already in place'
           : `demo data: ${r.usersCreated} accounts, ${r.projectCreated ? 1 : 0} project, ${r.membershipsCreated} roles, ${r.sheetsCreated} sheets added`,
       );
     }
@@ -99,22 +79,19 @@ async function prepareDatabase(
   return { url, demo: !external };
 }
 
-function appEnv(
-  database: Database,
-  extra: Record<string, string> = {},
-): NodeJS.ProcessEnv {
-  const host = process.env.WORLDSHEET_HOST ?? "127.0.0.1";
-  const port = process.env.PORT ?? "3000";
+function appEnv(database: Database, extra: Record<string, string> = {}): NodeJS.ProcessEnv {
+  const host = process.env.WORLDSHEET_HOST ?? '127.0.0.1';
+  const port = process.env.PORT ?? '3000';
   if (!database.demo && !process.env.NEXTAUTH_SECRET) {
     throw new LocalPostgresError(
-      "Set NEXTAUTH_SECRET (a long random string) for a deployment with its own DATABASE_URL.",
+      'Set NEXTAUTH_SECRET (a long random string) for a deployment with its own DATABASE_URL.',
     );
   }
   return {
     ...process.env,
     DATABASE_URL: database.url,
-    WORLDSHEET_DEMO: database.demo ? "1" : "0",
-    NEXT_TELEMETRY_DISABLED: "1",
+    WORLDSHEET_DEMO: database.demo ? '1' : '0',
+    NEXT_TELEMETRY_DISABLED: '1',
     NEXTAUTH_URL: process.env.NEXTAUTH_URL ?? `http://${host}:${port}`,
     NEXTAUTH_SECRET: process.env.NEXTAUTH_SECRET ?? localAuthSecret(root),
     ...extra,
@@ -127,54 +104,38 @@ function appEnv(
 // In both cases the job worker process (lib/jobs/worker-main.ts) delivers the queued mail.
 
 /** Starts the demo mail capture server; returns the settings the app and the worker need. */
-async function startDemoMail(
-  supervisor: Supervisor,
-  appBaseUrl: string,
-): Promise<Record<string, string>> {
+async function startDemoMail(supervisor: Supervisor, appBaseUrl: string): Promise<Record<string, string>> {
   const capture = await startCaptureServer({
     smtpPort: smtpPort(),
     httpPort: mailCapturePort(),
-    portVariables: {
-      smtp: "WORLDSHEET_SMTP_PORT",
-      http: "WORLDSHEET_MAIL_CAPTURE_PORT",
-    },
+    portVariables: { smtp: 'WORLDSHEET_SMTP_PORT', http: 'WORLDSHEET_MAIL_CAPTURE_PORT' },
     log: (line) => log(`demo mail: ${line} (read it at ${appBaseUrl}/mailbox)`),
   });
-  supervisor.add("mail capture server", () => capture.stop());
-  log(
-    `demo mail server: SMTP on ${capture.smtpUrl}, nothing is delivered; captured mail at ${appBaseUrl}/mailbox`,
-  );
-  return {
-    WORLDSHEET_SMTP_URL: capture.smtpUrl,
-    WORLDSHEET_MAIL_CAPTURE_URL: capture.url,
-  };
+  supervisor.add('mail capture server', () => capture.stop());
+  log(`demo mail server: SMTP on ${capture.smtpUrl}, nothing is delivered; captured mail at ${appBaseUrl}/mailbox`);
+  return { WORLDSHEET_SMTP_URL: capture.smtpUrl, WORLDSHEET_MAIL_CAPTURE_URL: capture.url };
 }
 
 /**
  * Starts the local S3-compatible object store unless the environment names a real one
  * (WORLDSHEET_S3_ENDPOINT or WORLDSHEET_S3_BUCKET); returns the settings the app needs.
  */
-async function startLocalObjectStore(
-  supervisor: Supervisor,
-): Promise<Record<string, string>> {
-  if (process.env.WORLDSHEET_S3_ENDPOINT || process.env.WORLDSHEET_S3_BUCKET)
-    return {};
+async function startLocalObjectStore(supervisor: Supervisor): Promise<Record<string, string>> {
+  if (process.env.WORLDSHEET_S3_ENDPOINT || process.env.WORLDSHEET_S3_BUCKET) return {};
   const store = await startFakeObjectStore({
     port: Number(process.env.WORLDSHEET_S3_PORT ?? DEFAULT_FAKE_S3_PORT),
-    directory: path.join(root, ".data", "objects-dev"),
+    directory: path.join(root, '.data', 'objects-dev'),
   });
-  supervisor.add("local object store", () => store.stop());
-  log(
-    `local object store: S3-compatible fake on ${store.url}, files kept in .data/objects-dev`,
-  );
+  supervisor.add('local object store', () => store.stop());
+  log(`local object store: S3-compatible fake on ${store.url}, files kept in .data/objects-dev`);
   return store.env;
 }
 
 function spawnJobWorker(supervisor: Supervisor, env: NodeJS.ProcessEnv) {
   return supervisor.spawn(
-    "job worker",
+    'job worker',
     process.execPath,
-    ["--import", "tsx", path.join("lib", "jobs", "worker-main.ts")],
+    ['--import', 'tsx', path.join('lib', 'jobs', 'worker-main.ts')],
     {
       cwd: root,
       env,
@@ -183,58 +144,45 @@ function spawnJobWorker(supervisor: Supervisor, env: NodeJS.ProcessEnv) {
 }
 // ─────────────────────────────────────────────────────────────────────────────────────────────
 
-async function serve(
-  supervisor: Supervisor,
-  mode: "start" | "dev",
-): Promise<void> {
-  const host = process.env.WORLDSHEET_HOST ?? "127.0.0.1";
+async function serve(supervisor: Supervisor, mode: 'start' | 'dev'): Promise<void> {
+  const host = process.env.WORLDSHEET_HOST ?? '127.0.0.1';
   const port = Number(process.env.PORT ?? 3000);
   if (!(await portIsFree(port, host))) {
     throw new LocalPostgresError(
       `Port ${port} on ${host} is already in use. Stop what uses it, or choose another with PORT=<port>.`,
     );
   }
-  const mailEnv = process.env.DATABASE_URL
-    ? {}
-    : await startDemoMail(supervisor, `http://${host}:${port}`);
+  const mailEnv = process.env.DATABASE_URL ? {} : await startDemoMail(supervisor, `http://${host}:${port}`);
   const storeEnv = await startLocalObjectStore(supervisor);
   const database = await prepareDatabase(supervisor, { seed: true });
   await ensureJobQueues(database.url);
   const env = appEnv(database, { ...mailEnv, ...storeEnv });
-  if (mode === "start")
-    buildIfStale(root, ".next", { ...env, NODE_ENV: "production" });
+  if (mode === 'start') buildIfStale(root, '.next', { ...env, NODE_ENV: 'production' });
   if (supervisor.isStopping) return;
-  const worker = spawnJobWorker(supervisor, { ...env, NODE_ENV: "production" });
+  const worker = spawnJobWorker(supervisor, { ...env, NODE_ENV: 'production' });
   // The app's own server (lib/ops/server.ts): Next.js behind the layer that records the connection's
   // address and sets the Content-Security-Policy.
   const serverArgs = [
-    "--import",
-    "tsx",
-    path.join("lib", "ops", "server.ts"),
-    ...(mode === "dev" ? ["--dev"] : []),
-    "-H",
+    '--import',
+    'tsx',
+    path.join('lib', 'ops', 'server.ts'),
+    ...(mode === 'dev' ? ['--dev'] : []),
+    '-H',
     host,
-    "-p",
+    '-p',
     String(port),
   ];
-  const app = supervisor.spawn("app server", process.execPath, serverArgs, {
+  const app = supervisor.spawn('app server', process.execPath, serverArgs, {
     cwd: root,
-    env:
-      mode === "start"
-        ? { ...env, NODE_ENV: "production" }
-        : { ...env, NODE_ENV: "development" },
+    env: mode === 'start' ? { ...env, NODE_ENV: 'production' } : { ...env, NODE_ENV: 'development' },
   });
-  log(
-    `Worldsheet: http://${host}:${port}  (demo accounts are listed in README.md; Ctrl-C stops everything)`,
-  );
+  log(`Worldsheet: http://${host}:${port}  (demo accounts are listed in README.md; Ctrl-C stops everything)`);
   const [which, code] = await Promise.race([
-    waitForExit(app).then((c) => ["app server", c] as const),
-    waitForExit(worker).then((c) => ["job worker", c] as const),
+    waitForExit(app).then((c) => ['app server', c] as const),
+    waitForExit(worker).then((c) => ['job worker', c] as const),
   ]);
   if (!supervisor.isStopping) {
-    console.error(
-      `[worldsheet] the ${which} stopped unexpectedly (exit ${code}); stopping the rest.`,
-    );
+    console.error(`[worldsheet] the ${which} stopped unexpectedly (exit ${code}); stopping the rest.`);
     await supervisor.shutdown(code || 1);
   }
 }
@@ -244,22 +192,12 @@ async function test(supervisor: Supervisor, args: string[]): Promise<void> {
   // The vitest global setup starts the test cluster itself (tests/setup/global-setup.ts) and the
   // browser harness builds and serves the app; this command only runs vitest to the end.
   const vitest = supervisor.spawn(
-    "vitest",
+    'vitest',
     process.execPath,
-    [
-      path.join(root, "node_modules", "vitest", "vitest.mjs"),
-      "run",
-      "--config",
-      "tests/vitest.config.ts",
-      ...args,
-    ],
+    [path.join(root, 'node_modules', 'vitest', 'vitest.mjs'), 'run', '--config', 'tests/vitest.config.ts', ...args],
     {
       cwd: root,
-      env: {
-        ...process.env,
-        NEXT_TELEMETRY_DISABLED: "1",
-        WORLDSHEET_TEST_PG_PORT: String(testClusterPort()),
-      },
+      env: { ...process.env, NEXT_TELEMETRY_DISABLED: '1', WORLDSHEET_TEST_PG_PORT: String(testClusterPort()) },
     },
   );
   const code = await waitForExit(vitest);
@@ -274,48 +212,34 @@ async function test(supervisor: Supervisor, args: string[]): Promise<void> {
  */
 async function bench(supervisor: Supervisor): Promise<void> {
   let failed = 0;
-  const folder = path.join(root, "tests", ".artifacts", "bench");
+  const folder = path.join(root, 'tests', '.artifacts', 'bench');
   mkdirSync(folder, { recursive: true });
   const commit = (() => {
     try {
-      return execFileSync("git", ["rev-parse", "--short", "HEAD"], {
-        cwd: root,
-        encoding: "utf8",
-      }).trim();
+      return execFileSync('git', ['rev-parse', '--short', 'HEAD'], { cwd: root, encoding: 'utf8' }).trim();
     } catch {
-      return "unknown";
+      return 'unknown';
     }
   })();
-  for (const file of [
-    "calc-bench.ts",
-    "save-bench.ts",
-    "issue-bench.ts",
-    "load-bench.ts",
-  ]) {
-    const out = createWriteStream(
-      path.join(folder, file.replace(/\.ts$/, ".txt")),
-    );
-    out.write(
-      `# ${file}, run ${new Date().toISOString()} at commit ${commit}\n`,
-    );
+  for (const file of ['calc-bench.ts', 'save-bench.ts', 'issue-bench.ts', 'load-bench.ts']) {
+    const out = createWriteStream(path.join(folder, file.replace(/\.ts$/, '.txt')));
+    out.write(`# ${file}, run ${new Date().toISOString()} at commit ${commit}\n`);
     const child = supervisor.spawn(
       `benchmark ${file}`,
       process.execPath,
-      ["--import", "tsx", path.join(root, "tests", "bench", file)],
-      { cwd: root, stdio: ["ignore", "pipe", "pipe"] },
+      ['--import', 'tsx', path.join(root, 'tests', 'bench', file)],
+      { cwd: root, stdio: ['ignore', 'pipe', 'pipe'] },
     );
-    child.stdout?.on("data", (chunk: Buffer) => {
+    child.stdout?.on('data', (chunk: Buffer) => {
       process.stdout.write(chunk);
       out.write(chunk);
     });
-    child.stderr?.on("data", (chunk: Buffer) => {
+    child.stderr?.on('data', (chunk: Buffer) => {
       process.stderr.write(chunk);
       out.write(chunk);
     });
     // 'close' comes after the last output, where 'exit' may come before it.
-    const closed = new Promise<void>((resolve) =>
-      child.once("close", () => resolve()),
-    );
+    const closed = new Promise<void>((resolve) => child.once('close', () => resolve()));
     const code = await waitForExit(child);
     await closed;
     await new Promise<void>((resolve) => out.end(resolve));
@@ -325,9 +249,7 @@ async function bench(supervisor: Supervisor): Promise<void> {
       failed ||= code;
     }
   }
-  console.log(
-    `[worldsheet] figures written to ${path.relative(root, folder)}/`,
-  );
+  console.log(`[worldsheet] figures written to ${path.relative(root, folder)}/`);
   process.exit(failed);
 }
 
@@ -339,17 +261,14 @@ async function bench(supervisor: Supervisor): Promise<void> {
 async function stress(supervisor: Supervisor): Promise<void> {
   const env = {
     ...process.env,
-    WORLDSHEET_BENCH_LOAD_SECONDS:
-      process.env.WORLDSHEET_BENCH_LOAD_SECONDS ?? "60",
-    WORLDSHEET_BENCH_LOAD_REPEAT_SECONDS:
-      process.env.WORLDSHEET_BENCH_LOAD_REPEAT_SECONDS ?? "20",
-    WORLDSHEET_BENCH_HEALTH_SECONDS:
-      process.env.WORLDSHEET_BENCH_HEALTH_SECONDS ?? "10",
+    WORLDSHEET_BENCH_LOAD_SECONDS: process.env.WORLDSHEET_BENCH_LOAD_SECONDS ?? '60',
+    WORLDSHEET_BENCH_LOAD_REPEAT_SECONDS: process.env.WORLDSHEET_BENCH_LOAD_REPEAT_SECONDS ?? '20',
+    WORLDSHEET_BENCH_HEALTH_SECONDS: process.env.WORLDSHEET_BENCH_HEALTH_SECONDS ?? '10',
   };
   const child = supervisor.spawn(
-    "load test",
+    'load test',
     process.execPath,
-    ["--import", "tsx", path.join(root, "tests", "bench", "load-bench.ts")],
+    ['--import', 'tsx', path.join(root, 'tests', 'bench', 'load-bench.ts')],
     { cwd: root, env },
   );
   const code = await waitForExit(child);
@@ -359,28 +278,15 @@ async function stress(supervisor: Supervisor): Promise<void> {
 async function dbOnly(supervisor: Supervisor): Promise<void> {
   const database = await prepareDatabase(supervisor, { seed: true });
   log(`PostgreSQL ready: DATABASE_URL=${database.url}`);
-  log("Ctrl-C stops it.");
+  log('Ctrl-C stops it.');
   await new Promise(() => undefined);
 }
 
 function dbStop(args: string[]): void {
-  const which = args.includes("--test")
-    ? "test"
-    : args.includes("--bench")
-      ? "bench"
-      : "dev";
-  const port =
-    which === "test"
-      ? testClusterPort()
-      : which === "bench"
-        ? benchClusterPort()
-        : devClusterPort();
+  const which = args.includes('--test') ? 'test' : args.includes('--bench') ? 'bench' : 'dev';
+  const port = which === 'test' ? testClusterPort() : which === 'bench' ? benchClusterPort() : devClusterPort();
   const cluster = new LocalCluster({ name: which, port, projectRoot: root });
-  log(
-    cluster.stopLeftover()
-      ? "stopped the leftover server"
-      : "no server was running on that cluster",
-  );
+  log(cluster.stopLeftover() ? 'stopped the leftover server' : 'no server was running on that cluster');
 }
 
 async function migrateOnly(supervisor: Supervisor): Promise<void> {
@@ -393,46 +299,32 @@ async function migrateOnly(supervisor: Supervisor): Promise<void> {
 // installation (the dev cluster and .data/objects-dev), started here as npm start does, or the
 // running ones when npm start already runs them.
 
-async function localDatabaseUrl(
-  supervisor: Supervisor,
-  options: { create: boolean },
-): Promise<string> {
+async function localDatabaseUrl(supervisor: Supervisor, options: { create: boolean }): Promise<string> {
   if (process.env.DATABASE_URL) return process.env.DATABASE_URL;
-  const cluster = new LocalCluster({
-    name: "dev",
-    port: devClusterPort(),
-    projectRoot: root,
-  });
+  const cluster = new LocalCluster({ name: 'dev', port: devClusterPort(), projectRoot: root });
   cluster.prepare();
   try {
-    supervisor.add("PostgreSQL", () => cluster.stop());
+    supervisor.add('PostgreSQL', () => cluster.stop());
     await cluster.start();
   } catch (error) {
     // The dev cluster is already running (npm start): use it if our credentials get in.
-    if (
-      !(error instanceof LocalPostgresError) ||
-      !/already running/.test(error.message)
-    )
-      throw error;
-    const probe = createDb(cluster.appUrl("postgres"), { max: 1 });
+    if (!(error instanceof LocalPostgresError) || !/already running/.test(error.message)) throw error;
+    const probe = createDb(cluster.appUrl('postgres'), { max: 1 });
     try {
-      await probe.selectNoFrom((eb) => eb.val(1).as("one")).execute();
+      await probe.selectNoFrom((eb) => eb.val(1).as('one')).execute();
     } catch {
       throw error;
     } finally {
       await probe.destroy();
     }
-    log("using the dev cluster that is already running");
+    log('using the dev cluster that is already running');
   }
-  if (options.create) await cluster.ensureDatabase("worldsheet");
-  return cluster.appUrl("worldsheet");
+  if (options.create) await cluster.ensureDatabase('worldsheet');
+  return cluster.appUrl('worldsheet');
 }
 
-async function localStoreConfig(
-  supervisor: Supervisor,
-): Promise<StorageConfig> {
-  if (process.env.WORLDSHEET_S3_ENDPOINT || process.env.WORLDSHEET_S3_BUCKET)
-    return storageConfig();
+async function localStoreConfig(supervisor: Supervisor): Promise<StorageConfig> {
+  if (process.env.WORLDSHEET_S3_ENDPOINT || process.env.WORLDSHEET_S3_BUCKET) return storageConfig();
   const port = Number(process.env.WORLDSHEET_S3_PORT ?? DEFAULT_FAKE_S3_PORT);
   if (!(await portIsFree(port))) {
     // npm start runs the local object store in its own process; talk to that one.
@@ -444,11 +336,8 @@ async function localStoreConfig(
       WORLDSHEET_S3_SECRET_ACCESS_KEY: FAKE_S3_CREDENTIALS.secretAccessKey,
     });
   }
-  const store = await startFakeObjectStore({
-    port,
-    directory: path.join(root, ".data", "objects-dev"),
-  });
-  supervisor.add("local object store", () => store.stop());
+  const store = await startFakeObjectStore({ port, directory: path.join(root, '.data', 'objects-dev') });
+  supervisor.add('local object store', () => store.stop());
   return storageConfig({ ...process.env, ...store.env });
 }
 
@@ -458,92 +347,69 @@ function printReport(report: InstallationReport): void {
     `verified: ${c.versions} version hashes, ${c.revisions} revision PDFs, ${c.stampedCopies} stamped copies, ` +
       `${c.attachments} attachments, audit chain of ${c.auditEvents} events`,
   );
-  if (report.ok) log("every hash matches and the audit chain is intact");
-  else
-    for (const p of report.problems)
-      console.error(`[worldsheet] PROBLEM: ${p}`);
+  if (report.ok) log('every hash matches and the audit chain is intact');
+  else for (const p of report.problems) console.error(`[worldsheet] PROBLEM: ${p}`);
 }
 
 function folderArgument(args: string[], command: string): string {
-  const folder = args.find((a) => !a.startsWith("-"));
-  if (!folder)
-    throw new LocalPostgresError(
-      `Name the backup folder: npm run ${command} -- <folder>`,
-    );
+  const folder = args.find((a) => !a.startsWith('-'));
+  if (!folder) throw new LocalPostgresError(`Name the backup folder: npm run ${command} -- <folder>`);
   return path.resolve(folder);
 }
 
-async function backupCommand(
-  supervisor: Supervisor,
-  args: string[],
-): Promise<void> {
-  const folder = folderArgument(args, "backup");
+async function backupCommand(supervisor: Supervisor, args: string[]): Promise<void> {
+  const folder = folderArgument(args, 'backup');
   const store = await localStoreConfig(supervisor);
   const databaseUrl = await localDatabaseUrl(supervisor, { create: false });
   await backup({ databaseUrl, store, folder, log });
   // The installation backed up is checked too: a backup of broken records is worth knowing about.
-  const report = await verifyInstallationAt(
-    databaseUrl,
-    createObjectStore(store),
-  );
+  const report = await verifyInstallationAt(databaseUrl, createObjectStore(store));
   printReport(report);
   await supervisor.shutdown(report.ok ? 0 : 1);
 }
 
-async function restoreCommand(
-  supervisor: Supervisor,
-  args: string[],
-): Promise<void> {
-  const folder = folderArgument(args, "restore");
+async function restoreCommand(supervisor: Supervisor, args: string[]): Promise<void> {
+  const folder = folderArgument(args, 'restore');
   const store = await localStoreConfig(supervisor);
   const databaseUrl = await localDatabaseUrl(supervisor, { create: true });
   await restore({ databaseUrl, store, folder, log });
-  const report = await verifyInstallationAt(
-    databaseUrl,
-    createObjectStore(store),
-  );
+  const report = await verifyInstallationAt(databaseUrl, createObjectStore(store));
   printReport(report);
   await supervisor.shutdown(report.ok ? 0 : 1);
 }
 // ─────────────────────────────────────────────────────────────────────────────────────────────
 
-export async function runCommand(
-  command: string,
-  args: string[],
-): Promise<void> {
+export async function runCommand(command: string, args: string[]): Promise<void> {
   const supervisor = new Supervisor();
   try {
     switch (command) {
-      case "start":
-        return await serve(supervisor, "start");
-      case "dev":
-        return await serve(supervisor, "dev");
-      case "test":
+      case 'start':
+        return await serve(supervisor, 'start');
+      case 'dev':
+        return await serve(supervisor, 'dev');
+      case 'test':
         return await test(supervisor, args);
-      case "bench":
+      case 'bench':
         return await bench(supervisor);
-      case "stress":
+      case 'stress':
         return await stress(supervisor);
-      case "db-start":
+      case 'db-start':
         return await dbOnly(supervisor);
-      case "db-stop":
+      case 'db-stop':
         return dbStop(args);
-      case "migrate":
+      case 'migrate':
         return await migrateOnly(supervisor);
-      case "backup":
+      case 'backup':
         return await backupCommand(supervisor, args);
-      case "restore":
+      case 'restore':
         return await restoreCommand(supervisor, args);
       default:
         console.error(`[worldsheet] unknown command ${command}`);
         process.exit(2);
     }
   } catch (error) {
-    console.error(
-      `\n[worldsheet] ${error instanceof LocalPostgresError ? "" : "error: "}${(error as Error).message}`,
-    );
-    if (!(error instanceof LocalPostgresError) && process.env.WORLDSHEET_DEBUG)
-      console.error(error);
+    console.error(`\n[worldsheet] ${error instanceof LocalPostgresError ? '' : 'error: '}${(error as Error).message}`);
+    if (!(error instanceof LocalPostgresError) && process.env.WORLDSHEET_DEBUG) console.error(error);
     // Stop whatever was started before the failure.
     await supervisor.shutdown(1);
   }
