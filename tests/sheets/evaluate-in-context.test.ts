@@ -6,9 +6,7 @@
 import { beforeEach, describe, expect, it, vi } from 'vitest';
 import type { Actor } from '../../lib/auth/actor';
 import type { SheetResult } from '../../lib/calc/types';
-import { getCheckDetail } from '../../lib/checks/queries';
-import { saveCheckWork } from '../../lib/checks/work';
-import { submitForCheck } from '../../lib/checks/submit';
+import { getCheckDetail, saveCheckWork, submitForCheck } from '../../lib/checks/workflow';
 import { AppError } from '../../lib/errors/app-error';
 import { createSheet, getVersion, saveVersion } from '../../lib/sheets/sheets';
 import { testDb } from '../support/database';
