@@ -1,7 +1,7 @@
 'use client';
 
 import { useState } from 'react';
-import type { VerificationAnswer } from '@/lib/issue/issue';
+import type { VerificationAnswer } from '@/lib/issue/verification';
 import { VisibleText } from '@/components/data/visible-text';
 
 /** Upload a PDF or type a verification code; the server says whether it is an authentic issued revision. */

@@ -23,13 +23,11 @@ import { startFromSchema } from '@/lib/sheets/start-from';
 import { softwareImpactQuerySchema } from '@/lib/sheets/software-impact';
 import { createSheetSchema, saveVersionSchema } from '@/lib/sheets/sheets';
 import { voidSheetSchema } from '@/lib/sheets/void';
-import {
-  downloadQuerySchema,
-  issueRequestSchema,
-  registerQuerySchema,
-  verifyCodeSchema,
-  withdrawSchema,
-} from '@/lib/issue/issue';
+import { issueRequestSchema } from '@/lib/issue/request';
+import { registerQuerySchema } from '@/lib/issue/register';
+import { downloadQuerySchema } from '@/lib/issue/download';
+import { withdrawSchema } from '@/lib/issue/withdraw';
+import { verifyCodeSchema } from '@/lib/issue/verification';
 import {
   checkWorkSchema,
   commentSchema,

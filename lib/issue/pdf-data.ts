@@ -1,4 +1,4 @@
-// Everything the issued PDF shows, gathered by the issuing job (lib/issue/issue.ts) and drawn by
+// Everything the issued PDF shows, gathered by the issuing job (lib/issue/job.ts) and drawn by
 // lib/issue/pdf/render.tsx. Plain data: the renderer reads nothing else.
 import type { SheetResult } from '@/lib/calc/types';
 import type { VersionContent } from '@/lib/sheets/content';

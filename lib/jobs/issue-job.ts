@@ -1,10 +1,11 @@
-// The issuing queue: each job works one issue request (lib/issue/issue.ts) to its end. A job that
+// The issuing queue: each job works one issue request (lib/issue/job.ts) to its end. A job that
 // throws is retried by pg-boss (QUEUES.issue); one whose worker died expires and is retried; the
 // work is resumable, so a retry finishes what the failed run started. When the retries are used
 // up the request is marked failed with the reason, and nothing was recorded.
 import type PgBoss from 'pg-boss';
 import { getDb } from '@/db';
-import { failIssueJob, ISSUE_QUEUE, pendingIssueJobs, processIssueJob } from '@/lib/issue/issue';
+import { ISSUE_QUEUE } from '@/lib/issue/request';
+import { failIssueJob, pendingIssueJobs, processIssueJob } from '@/lib/issue/job';
 import { getObjectStore } from '@/lib/storage/object-store';
 
 export async function workIssueQueue(

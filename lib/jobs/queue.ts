@@ -29,7 +29,7 @@ export const QUEUES: Record<string, Omit<PgBoss.Queue, 'name'>> = {
     // 30 days. (pg-boss 10 stores only retentionMinutes for a queue; retentionDays would be ignored.)
     retentionMinutes: 30 * 24 * 60,
   },
-  // Issuing a revision (lib/issue/issue.ts): rendering, signing, storing and recording are
+  // Issuing a revision (lib/issue/job.ts): rendering, signing, storing and recording are
   // resumable, so a job that failed or whose worker died is simply run again.
   issue: {
     policy: 'standard',

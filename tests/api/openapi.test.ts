@@ -23,7 +23,11 @@ import * as softwareImpact from '../../lib/sheets/software-impact';
 import * as voiding from '../../lib/sheets/void';
 import * as startFrom from '../../lib/sheets/start-from';
 import * as checksWorkflow from '../../lib/checks/workflow';
-import * as issuing from '../../lib/issue/issue';
+import * as issueDownload from '../../lib/issue/download';
+import * as issueRegister from '../../lib/issue/register';
+import * as issueRequest from '../../lib/issue/request';
+import * as issueVerification from '../../lib/issue/verification';
+import * as issueWithdraw from '../../lib/issue/withdraw';
 
 const METHODS = ['GET', 'POST', 'PUT', 'PATCH', 'DELETE'] as const;
 
@@ -235,7 +239,11 @@ describe("generated from the handlers' zod schemas", () => {
       'lib/sheets/void.ts': voiding,
       'lib/sheets/start-from.ts': startFrom,
       'lib/checks/workflow.ts': checksWorkflow,
-      'lib/issue/issue.ts': issuing,
+      'lib/issue/request.ts': issueRequest,
+      'lib/issue/register.ts': issueRegister,
+      'lib/issue/download.ts': issueDownload,
+      'lib/issue/withdraw.ts': issueWithdraw,
+      'lib/issue/verification.ts': issueVerification,
       'lib/http/csp-reports.ts': cspReports,
     };
     // The import route hands the body text to importSheetFile, which parses it with sheetFileSchema.

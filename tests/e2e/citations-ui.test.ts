@@ -6,7 +6,8 @@
 import { afterAll, beforeAll, expect, it } from 'vitest';
 import { DEMO_PASSWORD, seedDemo } from '../../db/seed';
 import type { Actor } from '../../lib/auth/actor';
-import { processIssueJob, requestIssue } from '../../lib/issue/issue';
+import { requestIssue } from '../../lib/issue/request';
+import { processIssueJob } from '../../lib/issue/job';
 import { getVersion, saveVersion } from '../../lib/sheets/sheets';
 import { storageConfig } from '../../lib/storage/config';
 import { createObjectStore } from '../../lib/storage/object-store';

@@ -9,7 +9,7 @@ import { readdirSync, readFileSync, writeFileSync } from 'node:fs';
 import path from 'node:path';
 import { afterAll, beforeAll, expect, it } from 'vitest';
 import { DEMO_PASSWORD, seedDemo } from '../../db/seed';
-import { withdrawRevision } from '../../lib/issue/issue';
+import { withdrawRevision } from '../../lib/issue/withdraw';
 import { checkAndApprove } from '../support/approved-sheet';
 import { resetDatabase, testDb } from '../support/database';
 import { actorByEmail } from '../support/people';

@@ -12,16 +12,12 @@ import { sql } from 'kysely';
 import { PDFDocument } from 'pdf-lib';
 import { beforeEach, describe, expect, it } from 'vitest';
 import { normaliseVerificationCode, revisionCode } from '../../lib/issue/codes';
-import {
-  listRevisions,
-  processIssueJob,
-  registerCsv,
-  requestIssue,
-  revisionPdf,
-  verifyCode,
-  verifyPdfFile,
-  withdrawRevision,
-} from '../../lib/issue/issue';
+import { requestIssue } from '../../lib/issue/request';
+import { processIssueJob } from '../../lib/issue/job';
+import { listRevisions, registerCsv } from '../../lib/issue/register';
+import { revisionPdf } from '../../lib/issue/download';
+import { withdrawRevision } from '../../lib/issue/withdraw';
+import { verifyCode, verifyPdfFile } from '../../lib/issue/verification';
 import { listSheets } from '../../lib/sheets/sheets';
 import { storageConfig } from '../../lib/storage/config';
 import { createObjectStore, type ObjectStore } from '../../lib/storage/object-store';

@@ -12,14 +12,12 @@ import zlib from 'node:zlib';
 import { sql } from 'kysely';
 import { PDFArray, PDFDocument, PDFName, PDFRawStream, PDFString } from 'pdf-lib';
 import { beforeEach, describe, expect, it } from 'vitest';
-import {
-  listRevisions,
-  processIssueJob,
-  requestIssue,
-  revisionPdf,
-  verifyPdfFile,
-  withdrawRevision,
-} from '../../lib/issue/issue';
+import { requestIssue } from '../../lib/issue/request';
+import { processIssueJob } from '../../lib/issue/job';
+import { listRevisions } from '../../lib/issue/register';
+import { revisionPdf } from '../../lib/issue/download';
+import { withdrawRevision } from '../../lib/issue/withdraw';
+import { verifyPdfFile } from '../../lib/issue/verification';
 import { storageConfig } from '../../lib/storage/config';
 import { createObjectStore } from '../../lib/storage/object-store';
 import { approveNewVersion, makeSheet, makeTeam, type SheetRef, type Team } from '../support/approved-sheet';

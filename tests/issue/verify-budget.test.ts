@@ -11,7 +11,7 @@ import forge from 'node-forge';
 import { PDFDocument } from 'pdf-lib';
 import { afterEach, beforeAll, describe, expect, it, vi } from 'vitest';
 import { AppError, errorResponse } from '../../lib/errors/app-error';
-import { verifyPdfFile } from '../../lib/issue/issue';
+import { verifyPdfFile } from '../../lib/issue/verification';
 import { getSignatureParser } from '../../lib/issue/signature-parser';
 import { signPdf } from '../../lib/issue/sign-pdf';
 import { countVerification } from '../../lib/issue/verify-rate-limit';

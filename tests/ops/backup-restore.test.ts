@@ -16,7 +16,9 @@ import { afterAll, beforeAll, describe, expect, inject, it } from 'vitest';
 import { createDb } from '../../db/index';
 import type { Database } from '../../db/schema';
 import { uploadAttachment } from '../../lib/attachments/attachments';
-import { processIssueJob, requestIssue, revisionPdf } from '../../lib/issue/issue';
+import { requestIssue } from '../../lib/issue/request';
+import { processIssueJob } from '../../lib/issue/job';
+import { revisionPdf } from '../../lib/issue/download';
 import { enqueueMail } from '../../lib/mail/outbox';
 import {
   backup,
@@ -119,16 +121,14 @@ async function buildWorld() {
   // Revision A is superseded now: downloading it makes the stamped copy, recorded in its row.
   expect((await revisionPdf(db, store, a, false)).stamped).toBe(true);
   // Mail still queued at backup time must survive the restore (schema pgboss is in the dump).
-  await db
-    .transaction()
-    .execute((trx) =>
-      enqueueMail(trx, {
-        to: 'author@example.test',
-        subject: 'Queued before the backup',
-        text: 'fictional',
-        kind: 'test',
-      }),
-    );
+  await db.transaction().execute((trx) =>
+    enqueueMail(trx, {
+      to: 'author@example.test',
+      subject: 'Queued before the backup',
+      text: 'fictional',
+      kind: 'test',
+    }),
+  );
 }
 
 beforeAll(async () => {

@@ -12,7 +12,10 @@ import { findReferences } from '../../lib/calc/references';
 import type { SheetResult, StatementResult } from '../../lib/calc/types';
 import { submissionFindings } from '../../lib/checks/submission-findings';
 import { decide, saveCheckWork, submitForCheck } from '../../lib/checks/workflow';
-import { listRevisions, processIssueJob, registerCsv, requestIssue, withdrawRevision } from '../../lib/issue/issue';
+import { requestIssue } from '../../lib/issue/request';
+import { processIssueJob } from '../../lib/issue/job';
+import { listRevisions, registerCsv } from '../../lib/issue/register';
+import { withdrawRevision } from '../../lib/issue/withdraw';
 import {
   revisionInputFlags,
   sheetImpact,

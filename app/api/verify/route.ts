@@ -3,7 +3,7 @@ import { AppError } from '@/lib/errors/app-error';
 import { readFormFile } from '@/lib/http/multipart';
 import { clientAddress } from '@/lib/http/client-address';
 import { handle, parseJson } from '@/lib/http/route';
-import { MAX_VERIFY_BYTES, verifyCode, verifyCodeSchema, verifyPdfFile } from '@/lib/issue/issue';
+import { MAX_VERIFY_BYTES, verifyCode, verifyCodeSchema, verifyPdfFile } from '@/lib/issue/verification';
 import { countVerification } from '@/lib/issue/verify-rate-limit';
 
 export const dynamic = 'force-dynamic';

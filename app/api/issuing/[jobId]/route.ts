@@ -4,7 +4,7 @@ import { requireActor } from '@/lib/auth/current-actor';
 import { AppError } from '@/lib/errors/app-error';
 import { routeParams } from '@/lib/http/params';
 import { handle } from '@/lib/http/route';
-import { issueJobStatus } from '@/lib/issue/issue';
+import { issueJobStatus } from '@/lib/issue/request';
 
 export const dynamic = 'force-dynamic';
 

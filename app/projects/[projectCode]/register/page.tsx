@@ -3,7 +3,7 @@ import Link from 'next/link';
 import { getDb } from '@/db';
 import { WithdrawForm } from '@/components/issue/withdraw-form';
 import { pageProject } from '@/lib/auth/page-guard';
-import { listRevisions, registerQuerySchema } from '@/lib/issue/issue';
+import { listRevisions, registerQuerySchema } from '@/lib/issue/register';
 import { revisionInputFlags } from '@/lib/sheets/impact';
 import { VisibleText } from '@/components/data/visible-text';
 

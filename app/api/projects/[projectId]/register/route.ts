@@ -2,7 +2,7 @@ import { getDb } from '@/db';
 import { requireProjectRole } from '@/lib/auth/current-actor';
 import { routeParams } from '@/lib/http/params';
 import { handle, parseValue, searchParams } from '@/lib/http/route';
-import { listRevisions, registerCsv, registerQuerySchema } from '@/lib/issue/issue';
+import { listRevisions, registerCsv, registerQuerySchema } from '@/lib/issue/register';
 import { revisionInputFlags } from '@/lib/sheets/impact';
 
 export const dynamic = 'force-dynamic';

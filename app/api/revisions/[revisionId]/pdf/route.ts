@@ -3,7 +3,8 @@ import { requireActor, requireProjectRole } from '@/lib/auth/current-actor';
 import { AppError } from '@/lib/errors/app-error';
 import { routeParams } from '@/lib/http/params';
 import { handle, parseValue, searchParams } from '@/lib/http/route';
-import { downloadQuerySchema, getRevision, revisionPdf } from '@/lib/issue/issue';
+import { getRevision } from '@/lib/issue/register';
+import { downloadQuerySchema, revisionPdf } from '@/lib/issue/download';
 import { getObjectStore } from '@/lib/storage/object-store';
 
 export const dynamic = 'force-dynamic';

@@ -3,7 +3,8 @@ import { requireActor, requireProjectRole } from '@/lib/auth/current-actor';
 import { AppError } from '@/lib/errors/app-error';
 import { routeParams } from '@/lib/http/params';
 import { handle, parseJson } from '@/lib/http/route';
-import { getRevision, withdrawRevision, withdrawSchema } from '@/lib/issue/issue';
+import { getRevision } from '@/lib/issue/register';
+import { withdrawRevision, withdrawSchema } from '@/lib/issue/withdraw';
 
 export const dynamic = 'force-dynamic';
 

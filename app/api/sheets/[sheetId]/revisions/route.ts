@@ -1,7 +1,8 @@
 import { getDb } from '@/db';
 import { routeParams } from '@/lib/http/params';
 import { handle, parseJson } from '@/lib/http/route';
-import { issueRequestSchema, listRevisions, requestIssue } from '@/lib/issue/issue';
+import { issueRequestSchema, requestIssue } from '@/lib/issue/request';
+import { listRevisions } from '@/lib/issue/register';
 import { requireSheetAccess } from '@/lib/sheets/access';
 
 export const dynamic = 'force-dynamic';

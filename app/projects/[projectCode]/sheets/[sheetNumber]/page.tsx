@@ -21,7 +21,8 @@ import {
   type SheetWorkflow,
 } from '@/lib/checks/workflow';
 import { IssuePanel } from '@/components/issue/issue-panel';
-import { issueCandidates, listRevisions } from '@/lib/issue/issue';
+import { issueCandidates } from '@/lib/issue/request';
+import { listRevisions } from '@/lib/issue/register';
 import { supersededInputs } from '@/lib/sheets/impact';
 import { formatSheetNumber } from '@/lib/sheets/sheet-number';
 import { getSheetByNumber, getVersion, listVersions } from '@/lib/sheets/sheets';
