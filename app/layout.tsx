@@ -3,6 +3,7 @@ import Link from 'next/link';
 import { AppHeader } from '@/components/shell/app-header';
 import { getDb } from '@/db';
 import { getActor } from '@/lib/auth/current-actor';
+import { config } from '@/lib/config';
 import { myWork, navigationCounts } from '@/lib/home/my-work';
 import { APP_VERSION } from '@/lib/version';
 import { monoFont, textFont } from './fonts';
@@ -21,7 +22,7 @@ export const viewport: Viewport = { themeColor: '#0b5a61' };
 export const dynamic = 'force-dynamic';
 
 export default async function RootLayout({ children }: { children: React.ReactNode }) {
-  const demo = process.env.WORLDSHEET_DEMO === '1';
+  const demo = config().WORLDSHEET_DEMO;
   // Shows who is signed in; it protects nothing (every page and route handler checks for itself).
   const actor = await getActor().catch(() => null);
   // The counts beside the navigation (what waits for this person). A failure to count leaves the

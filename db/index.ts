@@ -30,6 +30,7 @@ export function createDb(connectionString: string, options: { max?: number } = {
 const globalForDb = globalThis as unknown as { worldsheetDb?: Kysely<Database> };
 
 function connectionString(): string {
+  // db/ may not import lib/ (the walls), so it reads its own variables; lib/config.ts validates them at start.
   const url = process.env.DATABASE_URL;
   if (!url) throw new Error('DATABASE_URL is not set; start the app with `npm start`.');
   return url;

@@ -52,6 +52,7 @@ const isRoot = () => typeof process.getuid === 'function' && process.getuid() ==
 
 /** Finds Debian's PostgreSQL server binaries (`/usr/lib/postgresql/<major>/bin`), newest first. */
 export function findServerBinaries(): ServerBinaries | null {
+  // db/ may not import lib/ (the walls), so it reads its own variables; lib/config.ts validates them at start.
   const override = process.env.WORLDSHEET_PG_BINDIR;
   if (override) {
     if (!existsSync(join(override, 'postgres'))) {
@@ -79,6 +80,7 @@ export function aptInstall(packages: string[], log: Log): void {
       `Missing Debian packages: ${packages.join(' ')}. Install them with \`sudo apt-get install ${packages.join(' ')}\` and run the command again.`,
     );
   }
+  // apt-get runs with this process's environment (db/ may not import lib/config.ts, the walls).
   const env = { ...process.env, DEBIAN_FRONTEND: 'noninteractive' };
   if (!aptUpdated) {
     log('apt-get update …');
@@ -266,7 +268,7 @@ export class LocalCluster {
     return {
       ...(this.runAs ? { uid: this.runAs.uid, gid: this.runAs.gid } : {}),
       env: {
-        PATH: process.env.PATH ?? '/usr/bin:/bin',
+        PATH: process.env.PATH ?? '/usr/bin:/bin', // the system's search path, not a setting
         LANG: 'C.UTF-8',
         LC_ALL: 'C.UTF-8',
         HOME: this.clusterFolder,
@@ -485,6 +487,7 @@ export class LocalCluster {
   }
 }
 
+// The clusters' ports. db/ may not import lib/ (the walls), so it reads its own variables; lib/config.ts validates them at start.
 export const DEFAULT_DEV_PG_PORT = 54329;
 export const DEFAULT_TEST_PG_PORT = 54339;
 export const DEFAULT_BENCH_PG_PORT = 54369;

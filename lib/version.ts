@@ -1,2 +1,4 @@
-/** The app version from package.json, injected at build time by next.config.mjs. */
-export const APP_VERSION: string = process.env.WORLDSHEET_VERSION ?? '0.0.0-dev';
+import { config } from './config';
+
+/** The app version from package.json, injected at build time by next.config.mjs (see lib/config.ts). */
+export const APP_VERSION: string = config().WORLDSHEET_VERSION;

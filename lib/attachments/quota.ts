@@ -6,19 +6,15 @@
 // bytes; default 2048), set by whoever runs the installation.
 import { sql, type Kysely } from 'kysely';
 import type { Database } from '@/db/schema';
+import { DEFAULTS, settingsOf, type Environment } from '@/lib/config';
 import { AppError } from '@/lib/errors/app-error';
 
-export const DEFAULT_PROJECT_STORAGE_QUOTA_MB = 2048;
+export const DEFAULT_PROJECT_STORAGE_QUOTA_MB = DEFAULTS.WORLDSHEET_PROJECT_STORAGE_QUOTA_MB;
 const MIB = 1024 * 1024;
 
 /** The quota in bytes, read from the environment at each use (so a restart with a new value applies). */
-export function projectStorageQuotaBytes(env: Record<string, string | undefined> = process.env): number {
-  const raw = env.WORLDSHEET_PROJECT_STORAGE_QUOTA_MB;
-  if (raw === undefined || raw.trim() === '') return DEFAULT_PROJECT_STORAGE_QUOTA_MB * MIB;
-  const mb = Number(raw);
-  if (!Number.isFinite(mb) || mb < 0)
-    throw new Error(`WORLDSHEET_PROJECT_STORAGE_QUOTA_MB must be a number of MiB (0 or more), not "${raw}"`);
-  return Math.floor(mb * MIB);
+export function projectStorageQuotaBytes(env?: Environment): number {
+  return Math.floor(settingsOf(env).WORLDSHEET_PROJECT_STORAGE_QUOTA_MB * MIB);
 }
 
 /** "2048 MiB", "1.5 MiB", "900 bytes": as the quota message writes sizes. */

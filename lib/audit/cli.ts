@@ -4,6 +4,7 @@ import path from 'node:path';
 import { fileURLToPath } from 'node:url';
 import { createDb } from '@/db';
 import { devClusterPort, LocalCluster } from '@/db/local-postgres';
+import { config } from '@/lib/config';
 import { verifyAuditChain } from './verify';
 
 const root = path.join(path.dirname(fileURLToPath(import.meta.url)), '..', '..');
@@ -13,7 +14,7 @@ async function main(argv: string[]): Promise<number> {
     process.stderr.write('usage: npm run -s audit -- verify\n');
     return 2;
   }
-  let url = process.env.DATABASE_URL;
+  let url = config().DATABASE_URL;
   if (!url) {
     const cluster = new LocalCluster({ name: 'dev', port: devClusterPort(), projectRoot: root, log: () => undefined });
     cluster.prepare();

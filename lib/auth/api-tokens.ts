@@ -12,24 +12,20 @@ import { sql, type Kysely } from 'kysely';
 import { z } from 'zod';
 import type { ApiTokenScope, Database } from '@/db/schema';
 import { recordAudit } from '@/lib/audit/record';
+import { config } from '@/lib/config';
 import { AppError } from '@/lib/errors/app-error';
 import type { Actor } from './actor';
 import { hashToken } from './email-tokens';
 
 export const API_TOKEN_PREFIX = 'wst_';
 
-function positiveDays(value: string | undefined, fallback: number): number {
-  const n = Number(value);
-  return Number.isInteger(n) && n > 0 ? n : fallback;
-}
-
-const maxDays = positiveDays(process.env.WORLDSHEET_TOKEN_MAX_DAYS, 365);
+const maxDays = config().WORLDSHEET_TOKEN_MAX_DAYS;
 
 export const API_TOKEN_SETTINGS = {
   /** The longest lifetime a token may be given at creation, in days (WORLDSHEET_TOKEN_MAX_DAYS). */
   maxDays,
   /** The lifetime of a token when none is chosen (WORLDSHEET_TOKEN_DEFAULT_DAYS, at most maxDays). */
-  defaultDays: Math.min(positiveDays(process.env.WORLDSHEET_TOKEN_DEFAULT_DAYS, 90), maxDays),
+  defaultDays: Math.min(config().WORLDSHEET_TOKEN_DEFAULT_DAYS, maxDays),
 } as const;
 
 export const API_TOKEN_SCOPES = ['read', 'read-write'] as const satisfies readonly ApiTokenScope[];
@@ -37,13 +33,10 @@ export const API_TOKEN_SCOPES = ['read', 'read-write'] as const satisfies readon
 /** The body of POST /api/account/tokens. */
 export const apiTokenInputSchema = z.object({
   name: z.string().trim().min(1, 'name the token').max(100),
-  scope: z
-    .enum(API_TOKEN_SCOPES)
-    .default('read-write')
-    .meta({
-      description:
-        '`read`: GET and HEAD requests only. `read-write`: also changes. Signing, approving and issuing need the password in any case.',
-    }),
+  scope: z.enum(API_TOKEN_SCOPES).default('read-write').meta({
+    description:
+      '`read`: GET and HEAD requests only. `read-write`: also changes. Signing, approving and issuing need the password in any case.',
+  }),
   expiresInDays: z
     .number()
     .int()

@@ -8,6 +8,7 @@ import { getDb } from '@/db';
 import { safeSameOriginPath } from '@/lib/http/same-origin';
 import { httpsEnabled } from '@/lib/http/security-headers';
 import { recordAudit } from '@/lib/audit/record';
+import { config } from '@/lib/config';
 import { clientAddress } from '@/lib/http/client-address';
 import { authCookies } from './auth-cookies';
 import { AuthError } from './auth-error';
@@ -60,7 +61,7 @@ function rethrow(error: unknown): never {
 }
 
 export const authOptions: NextAuthOptions = {
-  secret: process.env.NEXTAUTH_SECRET,
+  secret: config().NEXTAUTH_SECRET,
   session: { strategy: 'jwt', maxAge: AUTH_SETTINGS.sessionMaxHours * 3600 },
   pages: { signIn: '/sign-in', error: '/sign-in' },
   // Secure, __Host- cookies when served over HTTPS (lib/auth/auth-cookies.ts).

@@ -15,6 +15,7 @@ import type { OAuthConfig } from 'next-auth/providers/oauth';
 import type { Kysely } from 'kysely';
 import type { Database, ProjectRole } from '@/db/schema';
 import { recordAudit } from '@/lib/audit/record';
+import { config } from '@/lib/config';
 import type { Actor } from './actor';
 import { startSession } from './sessions';
 
@@ -41,21 +42,23 @@ export function parseRoleMap(text: string | undefined): RoleMapping[] {
 }
 
 export function oidcConfigured(): boolean {
-  return Boolean(process.env.WORLDSHEET_OIDC_ISSUER && process.env.WORLDSHEET_OIDC_CLIENT_ID);
+  const settings = config();
+  return Boolean(settings.WORLDSHEET_OIDC_ISSUER && settings.WORLDSHEET_OIDC_CLIENT_ID);
 }
 
 export function oidcProviders(): OAuthConfig<Record<string, unknown>>[] {
   if (!oidcConfigured()) return [];
-  const issuer = process.env.WORLDSHEET_OIDC_ISSUER!.replace(/\/$/, '');
+  const settings = config();
+  const issuer = settings.WORLDSHEET_OIDC_ISSUER!.replace(/\/$/, '');
   return [
     {
       id: 'oidc',
-      name: process.env.WORLDSHEET_OIDC_NAME ?? 'Organisation account',
+      name: settings.WORLDSHEET_OIDC_NAME,
       type: 'oauth',
       wellKnown: `${issuer}/.well-known/openid-configuration`,
       issuer,
-      clientId: process.env.WORLDSHEET_OIDC_CLIENT_ID,
-      clientSecret: process.env.WORLDSHEET_OIDC_CLIENT_SECRET,
+      clientId: settings.WORLDSHEET_OIDC_CLIENT_ID,
+      clientSecret: settings.WORLDSHEET_OIDC_CLIENT_SECRET,
       authorization: { params: { scope: 'openid email profile' } },
       idToken: true,
       // With the code flow a conforming provider may put only `sub` in the ID token and give the
@@ -83,7 +86,7 @@ export function oidcProviders(): OAuthConfig<Record<string, unknown>>[] {
 }
 
 function groupsOf(profile: Record<string, unknown>): string[] {
-  const claim = process.env.WORLDSHEET_OIDC_GROUPS_CLAIM ?? 'groups';
+  const claim = config().WORLDSHEET_OIDC_GROUPS_CLAIM;
   const value = profile[claim];
   if (Array.isArray(value)) return value.map(String);
   if (typeof value === 'string') return value.split(/[\s,]+/).filter(Boolean);
@@ -97,7 +100,7 @@ function groupsOf(profile: Record<string, unknown>): string[] {
 export async function signInWithOidc(
   db: Kysely<Database>,
   input: { profile: Record<string, unknown> | undefined; account: Account | null },
-  mapping: RoleMapping[] = parseRoleMap(process.env.WORLDSHEET_OIDC_ROLE_MAP),
+  mapping: RoleMapping[] = parseRoleMap(config().WORLDSHEET_OIDC_ROLE_MAP),
 ): Promise<{ id: string; email: string; name: string; sessionId: string } | null> {
   const profile = input.profile ?? {};
   const email = typeof profile.email === 'string' ? profile.email.trim().toLowerCase() : '';

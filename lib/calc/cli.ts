@@ -82,7 +82,8 @@ async function main(argv: string[]): Promise<number> {
     if (error instanceof SheetFileError) return failRead(`${file}: ${error.message}`);
     throw error;
   }
-  const evaluator = new SandboxedEvaluator({ ...sandboxOptionsFromEnv(), workers: 1, root });
+  // A command's own entry point: lib/calc may not import lib/config.ts, so it hands over its environment.
+  const evaluator = new SandboxedEvaluator({ ...sandboxOptionsFromEnv(process.env), workers: 1, root });
   try {
     const result = await evaluator.evaluate(cellsOf(sheet), {
       significantFigures: sheet.significantFigures ?? DEFAULT_SIGNIFICANT_FIGURES,

@@ -7,6 +7,7 @@
 // client cannot set it. Walking X-Forwarded-For from the right, the first hop that is not a trusted
 // proxy is the client (the right-most untrusted hop): entries left of it were written by the client.
 import { BlockList, isIP } from 'node:net';
+import { config } from '@/lib/config';
 
 export const PEER_ADDRESS_HEADER = 'x-worldsheet-peer-address';
 
@@ -53,7 +54,7 @@ export function parseTrustedProxies(setting: string | undefined): BlockList {
 let cached: { setting: string | undefined; list: BlockList } | null = null;
 
 function trustedProxies(): BlockList {
-  const setting = process.env.WORLDSHEET_TRUSTED_PROXIES;
+  const setting = config().WORLDSHEET_TRUSTED_PROXIES;
   if (!cached || cached.setting !== setting) cached = { setting, list: parseTrustedProxies(setting) };
   return cached.list;
 }

@@ -8,6 +8,7 @@
 // app's chunks); no inline script runs without it. Styles allow 'unsafe-inline': KaTeX, CodeMirror,
 // Observable Plot and React's style attributes write inline styles, which cannot run code.
 import { randomBytes } from 'node:crypto';
+import { settingsOf, type Environment } from '@/lib/config';
 
 export const CSP_REPORT_PATH = '/api/csp-report';
 /** The Reporting API endpoint name the policy's report-to directive names. */
@@ -17,11 +18,9 @@ export const CSP_REPORT_GROUP = 'csp';
  * Whether the app is served over HTTPS: WORLDSHEET_HTTPS=1 (or 0 to say no), otherwise whether
  * NEXTAUTH_URL, the app's public address, starts with https:.
  */
-export function httpsEnabled(env: Record<string, string | undefined> = process.env): boolean {
-  const setting = env.WORLDSHEET_HTTPS?.trim().toLowerCase();
-  if (setting === '1' || setting === 'true' || setting === 'yes') return true;
-  if (setting === '0' || setting === 'false' || setting === 'no') return false;
-  return /^https:/i.test(env.NEXTAUTH_URL ?? '');
+export function httpsEnabled(env?: Environment): boolean {
+  const settings = settingsOf(env);
+  return settings.WORLDSHEET_HTTPS ?? /^https:/i.test(settings.NEXTAUTH_URL ?? '');
 }
 
 /** 128 random bits, base64: a fresh one for every response. */

@@ -8,6 +8,7 @@
 // (signature-parser.ts) with a time and memory limit.
 import { createHash, createPublicKey, createSign, createVerify } from 'node:crypto';
 import forge from 'node-forge';
+import { config } from '../config';
 import { Signer } from '@signpdf/utils';
 
 const { asn1, pki } = forge;
@@ -335,7 +336,7 @@ export function verifySignedData(derBytes: Uint8Array, digest: Uint8Array): Sign
       problem: ok ? null : 'The signature value does not verify with the certificate it carries.',
     };
   } catch (error) {
-    if (process.env.WORLDSHEET_DEBUG_SIGNATURES) console.error(error);
+    if (config().WORLDSHEET_DEBUG_SIGNATURES) console.error(error);
     return none('The signature cannot be read.');
   }
 }

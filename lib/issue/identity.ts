@@ -6,6 +6,7 @@ import { createHash } from 'node:crypto';
 import { existsSync, mkdirSync, readFileSync, writeFileSync } from 'node:fs';
 import path from 'node:path';
 import forge from 'node-forge';
+import { config } from '@/lib/config';
 import type { SigningIdentity } from './cades';
 
 export interface LoadedIdentity extends SigningIdentity {
@@ -15,7 +16,7 @@ export interface LoadedIdentity extends SigningIdentity {
   source: string;
 }
 
-const ORGANISATION = process.env.WORLDSHEET_SIGNING_ORGANISATION ?? 'Kestrelwick Beam Systems Ltd';
+const ORGANISATION = config().WORLDSHEET_SIGNING_ORGANISATION;
 
 function certificate(
   subject: forge.pki.CertificateField[],
@@ -89,21 +90,27 @@ function pemCertificates(text: string): string[] {
 let cached: LoadedIdentity | null = null;
 
 export function localKeyFolder(root = process.cwd()): string {
-  return process.env.WORLDSHEET_KEY_FOLDER ?? path.join(/* turbopackIgnore: true */ root, '.data', 'keys');
+  return config().WORLDSHEET_KEY_FOLDER ?? path.join(/* turbopackIgnore: true */ root, '.data', 'keys');
+}
+
+/** The key and certificate files of the local test identity in `folder`, made when missing. */
+export function localTestIdentityFiles(folder = localKeyFolder()): { keyFile: string; certFile: string } {
+  const keyFile = path.join(folder, 'signing.key.pem');
+  const certFile = path.join(folder, 'signing.crt.pem');
+  if (!existsSync(/* turbopackIgnore: true */ keyFile) || !existsSync(/* turbopackIgnore: true */ certFile))
+    createTestIdentity(folder);
+  return { keyFile, certFile };
 }
 
 /** The signing identity from the configuration, or the local test one (made when missing). */
 export function signingIdentity(): LoadedIdentity {
   if (cached) return cached;
-  let keyFile = process.env.WORLDSHEET_SIGNING_KEY;
-  let certFile = process.env.WORLDSHEET_SIGNING_CERT;
+  let keyFile = config().WORLDSHEET_SIGNING_KEY;
+  let certFile = config().WORLDSHEET_SIGNING_CERT;
   let source = 'configured key and certificate';
   if (!keyFile || !certFile) {
     const folder = localKeyFolder();
-    keyFile = path.join(folder, 'signing.key.pem');
-    certFile = path.join(folder, 'signing.crt.pem');
-    if (!existsSync(/* turbopackIgnore: true */ keyFile) || !existsSync(/* turbopackIgnore: true */ certFile))
-      createTestIdentity(folder);
+    ({ keyFile, certFile } = localTestIdentityFiles(folder));
     source = `local test certificate authority in ${folder}`;
   }
   const certificatePems = pemCertificates(readFileSync(/* turbopackIgnore: true */ certFile, 'utf8'));

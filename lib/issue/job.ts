@@ -19,6 +19,7 @@ import { CAUTIONS, SAFETY_RELATED_CAUTION } from '@/lib/safety/cautions';
 import { formatSheetNumber } from '@/lib/sheets/sheet-number';
 import { getVersion } from '@/lib/sheets/sheets';
 import type { ObjectStore } from '@/lib/storage/object-store';
+import { config } from '@/lib/config';
 import type { RevisionPdfData } from './pdf-data';
 import { renderRevisionPdf } from './pdf/render';
 import { signPdf } from './sign-pdf';
@@ -30,7 +31,7 @@ const pdfPrefixOf = (jobId: string) => `revisions/issue-${jobId}/`;
 async function setStep(db: Kysely<Database>, jobId: string, step: string) {
   await db.updateTable('issue_jobs').set({ step }).where('id', '=', jobId).where('state', '=', 'pending').execute();
   // Fault-injection for the crash tests: a pause after each step gives them time to kill the worker there.
-  const pause = Number(process.env.WORLDSHEET_ISSUE_STEP_PAUSE_MS ?? 0);
+  const pause = config().WORLDSHEET_ISSUE_STEP_PAUSE_MS;
   if (pause > 0) await new Promise((r) => setTimeout(r, pause));
 }
 

@@ -6,6 +6,7 @@
 import path from 'node:path';
 import { LimitedWorker } from '@/lib/calc/sandbox/limited-worker';
 import { AppError } from '@/lib/errors/app-error';
+import { config } from '@/lib/config';
 import {
   CONTAINER_TOO_COMPLEX,
   locateSignature,
@@ -35,8 +36,8 @@ export interface SignatureParserOptions {
 
 export function signatureParserOptionsFromEnv(): SignatureParserOptions {
   return {
-    timeoutMs: Number(process.env.WORLDSHEET_SIGNATURE_PARSE_TIMEOUT_MS ?? 2000),
-    memoryMb: Number(process.env.WORLDSHEET_SIGNATURE_PARSE_MEMORY_MB ?? 64),
+    timeoutMs: config().WORLDSHEET_SIGNATURE_PARSE_TIMEOUT_MS,
+    memoryMb: config().WORLDSHEET_SIGNATURE_PARSE_MEMORY_MB,
     maxQueued: 16,
   };
 }

@@ -5,6 +5,7 @@
 // it is taken in one statement (an upsert), so concurrent requests cannot all pass a limit of one.
 import { sql, type Kysely } from 'kysely';
 import type { Database } from '@/db/schema';
+import { config } from '@/lib/config';
 import { AppError } from '@/lib/errors/app-error';
 
 export interface VerifyRateLimit {
@@ -15,7 +16,7 @@ export interface VerifyRateLimit {
 
 export function verifyRateLimitFromEnv(): VerifyRateLimit {
   return {
-    requests: Number(process.env.WORLDSHEET_VERIFY_RATE_PER_MINUTE ?? 30),
+    requests: config().WORLDSHEET_VERIFY_RATE_PER_MINUTE,
     windowSeconds: 60,
   };
 }

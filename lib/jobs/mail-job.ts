@@ -4,6 +4,7 @@
 // refused message never holds back the others of a batch.
 import nodemailer from 'nodemailer';
 import type PgBoss from 'pg-boss';
+import type { Environment } from '../config';
 import { mailFrom, smtpUrl } from '../mail/config';
 import { MAIL_QUEUE, mailMessageSchema, type MailMessage } from '../mail/message';
 
@@ -15,7 +16,7 @@ export interface MailDeliverySettings {
   from: string;
 }
 
-export function mailSettingsFromEnv(env: NodeJS.ProcessEnv = process.env): MailDeliverySettings {
+export function mailSettingsFromEnv(env?: Environment): MailDeliverySettings {
   return { smtpUrl: smtpUrl(env), from: mailFrom(env) };
 }
 

@@ -5,18 +5,28 @@
 //   WORLDSHEET_SMTP_URL           where mail goes (default smtp://127.0.0.1:$WORLDSHEET_SMTP_PORT, 2525)
 //   WORLDSHEET_MAIL_FROM          the From of every mail (default Worldsheet <no-reply@worldsheet.test>)
 //   WORLDSHEET_JOB_POLL_SECONDS   how often an idle queue is polled (default 1, at least 0.5)
+// (read through lib/config.ts; in production it refuses to start without what a deployment needs)
+import { checkProduction, ConfigError } from '../config';
 import { mailSettingsFromEnv } from './mail-job';
 import { startJobWorker } from './worker';
 
 const log = (line: string) => console.log(`[jobs] ${line}`);
 
 async function main(): Promise<void> {
-  const databaseUrl = process.env.DATABASE_URL;
+  let settings;
+  try {
+    settings = checkProduction();
+  } catch (error) {
+    if (!(error instanceof ConfigError)) throw error;
+    console.error(`[jobs] ${error.message}`);
+    process.exit(2);
+  }
+  const databaseUrl = settings.DATABASE_URL;
   if (!databaseUrl) {
     console.error('[jobs] DATABASE_URL is not set; `npm start` starts the worker with it.');
     process.exit(2);
   }
-  const pollingIntervalSeconds = Math.max(0.5, Number(process.env.WORLDSHEET_JOB_POLL_SECONDS ?? 1) || 1);
+  const pollingIntervalSeconds = Math.max(0.5, settings.WORLDSHEET_JOB_POLL_SECONDS);
   const mail = mailSettingsFromEnv();
 
   let starting: ReturnType<typeof startJobWorker> | null = null;

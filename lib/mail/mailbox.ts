@@ -9,6 +9,7 @@ import type { Kysely } from 'kysely';
 import type { Database } from '@/db/schema';
 import type { Actor } from '@/lib/auth/actor';
 import { recordAudit } from '@/lib/audit/record';
+import { settingsOf, type Environment } from '@/lib/config';
 import { listCapturedMessages, type CapturedMessage } from './capture-client';
 
 export type DemoMailbox =
@@ -18,21 +19,20 @@ export type DemoMailbox =
   /** `scope` 'own': the messages addressed to `viewerEmail`; 'all': every message (an administrator). */
   | { status: 'ok'; captureUrl: string; scope: 'own' | 'all'; viewerEmail: string; messages: CapturedMessage[] };
 
-type Env = Record<string, string | undefined>;
-
 /** Only a demo installation (`npm start` without DATABASE_URL) has a mailbox. */
-export function demoMailboxEnabled(env: Env = process.env): boolean {
-  return env.WORLDSHEET_DEMO === '1';
+export function demoMailboxEnabled(env?: Environment): boolean {
+  return settingsOf(env).WORLDSHEET_DEMO;
 }
 
 export async function loadDemoMailbox(
   db: Kysely<Database>,
   viewer: Actor | null,
-  env: Env = process.env,
+  env?: Environment,
 ): Promise<DemoMailbox> {
-  if (!demoMailboxEnabled(env)) return { status: 'not-demo' };
+  const settings = settingsOf(env);
+  if (!settings.WORLDSHEET_DEMO) return { status: 'not-demo' };
   if (!viewer) return { status: 'signed-out' };
-  const captureUrl = env.WORLDSHEET_MAIL_CAPTURE_URL;
+  const captureUrl = settings.WORLDSHEET_MAIL_CAPTURE_URL;
   if (!captureUrl) {
     return {
       status: 'unavailable',

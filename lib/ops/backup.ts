@@ -26,6 +26,7 @@ import pg from 'pg';
 import { ensureServerBinaries } from '../../db/local-postgres';
 import type { Database } from '../../db/schema';
 import type { StorageConfig } from '../storage/config';
+import { inheritedEnvironment } from '../config';
 
 export class BackupError extends Error {
   constructor(message: string) {
@@ -147,7 +148,7 @@ function connectionForTool(url: string): { dbname: string; env: NodeJS.ProcessEn
   const u = new URL(url);
   const password = decodeURIComponent(u.password);
   u.password = '';
-  return { dbname: u.toString(), env: { ...process.env, PGPASSWORD: password, PGCONNECT_TIMEOUT: '10' } };
+  return { dbname: u.toString(), env: { ...inheritedEnvironment(), PGPASSWORD: password, PGCONNECT_TIMEOUT: '10' } };
 }
 
 function run(program: string, args: string[], env: NodeJS.ProcessEnv): Promise<void> {

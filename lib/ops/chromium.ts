@@ -3,8 +3,9 @@
 // command installs whichever is missing.
 import { existsSync } from 'node:fs';
 import { aptInstall } from '../../db/local-postgres';
+import { config } from '../config';
 
-export const CHROMIUM_PATH = process.env.WORLDSHEET_CHROMIUM ?? '/usr/bin/chromium';
+export const CHROMIUM_PATH = config().WORLDSHEET_CHROMIUM;
 const PDFSIG_PATH = '/usr/bin/pdfsig';
 
 export function ensureChromium(log: (line: string) => void): void {

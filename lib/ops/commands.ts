@@ -26,6 +26,7 @@ import {
 } from '../../db/local-postgres';
 import { migrateToLatest } from '../../db/migrate';
 import { seedDemo } from '../../db/seed';
+import { checkProduction, config, ConfigError, inheritedEnvironment } from '../config';
 import { ensureChromium } from './chromium';
 import { localAuthSecret } from './app-secrets';
 import { buildIfStale } from './next-build';
@@ -33,7 +34,7 @@ import { Supervisor, waitForExit } from './supervisor';
 import { ensureJobQueues } from '../jobs/queue';
 import { startCaptureServer } from '../mail/capture-server';
 import { mailCapturePort, smtpPort } from '../mail/config';
-import { DEFAULT_FAKE_S3_PORT, FAKE_S3_CREDENTIALS, storageConfig, type StorageConfig } from '../storage/config';
+import { FAKE_S3_CREDENTIALS, storageConfig, type StorageConfig } from '../storage/config';
 import { startFakeObjectStore } from '../storage/fake-server';
 import { createObjectStore } from '../storage/object-store';
 import { verifyInstallationAt, type InstallationReport } from '../audit/integrity';
@@ -49,7 +50,7 @@ interface Database {
 
 /** DATABASE_URL when set (a deployment's own server, no demo data); otherwise the local dev cluster. */
 async function prepareDatabase(supervisor: Supervisor, options: { seed: boolean }): Promise<Database> {
-  const external = process.env.DATABASE_URL;
+  const external = config().DATABASE_URL;
   let url: string;
   if (external) {
     log('using the PostgreSQL server named by DATABASE_URL (no demo data)');
@@ -80,20 +81,21 @@ async function prepareDatabase(supervisor: Supervisor, options: { seed: boolean 
 }
 
 function appEnv(database: Database, extra: Record<string, string> = {}): NodeJS.ProcessEnv {
-  const host = process.env.WORLDSHEET_HOST ?? '127.0.0.1';
-  const port = process.env.PORT ?? '3000';
-  if (!database.demo && !process.env.NEXTAUTH_SECRET) {
+  const settings = config();
+  const host = settings.WORLDSHEET_HOST;
+  const port = settings.PORT;
+  if (!database.demo && !settings.NEXTAUTH_SECRET) {
     throw new LocalPostgresError(
       'Set NEXTAUTH_SECRET (a long random string) for a deployment with its own DATABASE_URL.',
     );
   }
   return {
-    ...process.env,
+    ...inheritedEnvironment(),
     DATABASE_URL: database.url,
     WORLDSHEET_DEMO: database.demo ? '1' : '0',
     NEXT_TELEMETRY_DISABLED: '1',
-    NEXTAUTH_URL: process.env.NEXTAUTH_URL ?? `http://${host}:${port}`,
-    NEXTAUTH_SECRET: process.env.NEXTAUTH_SECRET ?? localAuthSecret(root),
+    NEXTAUTH_URL: settings.NEXTAUTH_URL ?? `http://${host}:${port}`,
+    NEXTAUTH_SECRET: settings.NEXTAUTH_SECRET ?? localAuthSecret(root),
     ...extra,
   };
 }
@@ -121,9 +123,10 @@ async function startDemoMail(supervisor: Supervisor, appBaseUrl: string): Promis
  * (WORLDSHEET_S3_ENDPOINT or WORLDSHEET_S3_BUCKET); returns the settings the app needs.
  */
 async function startLocalObjectStore(supervisor: Supervisor): Promise<Record<string, string>> {
-  if (process.env.WORLDSHEET_S3_ENDPOINT || process.env.WORLDSHEET_S3_BUCKET) return {};
+  const settings = config();
+  if (settings.WORLDSHEET_S3_ENDPOINT || settings.WORLDSHEET_S3_BUCKET) return {};
   const store = await startFakeObjectStore({
-    port: Number(process.env.WORLDSHEET_S3_PORT ?? DEFAULT_FAKE_S3_PORT),
+    port: settings.WORLDSHEET_S3_PORT,
     directory: path.join(root, '.data', 'objects-dev'),
   });
   supervisor.add('local object store', () => store.stop());
@@ -145,18 +148,21 @@ function spawnJobWorker(supervisor: Supervisor, env: NodeJS.ProcessEnv) {
 // ─────────────────────────────────────────────────────────────────────────────────────────────
 
 async function serve(supervisor: Supervisor, mode: 'start' | 'dev'): Promise<void> {
-  const host = process.env.WORLDSHEET_HOST ?? '127.0.0.1';
-  const port = Number(process.env.PORT ?? 3000);
+  const settings = config();
+  const host = settings.WORLDSHEET_HOST;
+  const port = settings.PORT;
   if (!(await portIsFree(port, host))) {
     throw new LocalPostgresError(
       `Port ${port} on ${host} is already in use. Stop what uses it, or choose another with PORT=<port>.`,
     );
   }
-  const mailEnv = process.env.DATABASE_URL ? {} : await startDemoMail(supervisor, `http://${host}:${port}`);
+  const mailEnv = settings.DATABASE_URL ? {} : await startDemoMail(supervisor, `http://${host}:${port}`);
   const storeEnv = await startLocalObjectStore(supervisor);
   const database = await prepareDatabase(supervisor, { seed: true });
   await ensureJobQueues(database.url);
   const env = appEnv(database, { ...mailEnv, ...storeEnv });
+  // A deployment missing its secret, signing key and certificate or mail service stops before the build.
+  if (mode === 'start') checkProduction({ ...env, NODE_ENV: 'production' });
   if (mode === 'start') buildIfStale(root, '.next', { ...env, NODE_ENV: 'production' });
   if (supervisor.isStopping) return;
   const worker = spawnJobWorker(supervisor, { ...env, NODE_ENV: 'production' });
@@ -197,7 +203,11 @@ async function test(supervisor: Supervisor, args: string[]): Promise<void> {
     [path.join(root, 'node_modules', 'vitest', 'vitest.mjs'), 'run', '--config', 'tests/vitest.config.ts', ...args],
     {
       cwd: root,
-      env: { ...process.env, NEXT_TELEMETRY_DISABLED: '1', WORLDSHEET_TEST_PG_PORT: String(testClusterPort()) },
+      env: {
+        ...inheritedEnvironment(),
+        NEXT_TELEMETRY_DISABLED: '1',
+        WORLDSHEET_TEST_PG_PORT: String(testClusterPort()),
+      },
     },
   );
   const code = await waitForExit(vitest);
@@ -259,11 +269,12 @@ async function bench(supervisor: Supervisor): Promise<void> {
  * repeats, so that CI proves them on every landing; `npm run bench` prints the same figures.
  */
 async function stress(supervisor: Supervisor): Promise<void> {
+  // The benchmark's own settings (tests/bench/load-bench.ts reads them): these unless the environment sets them.
   const env = {
-    ...process.env,
-    WORLDSHEET_BENCH_LOAD_SECONDS: process.env.WORLDSHEET_BENCH_LOAD_SECONDS ?? '60',
-    WORLDSHEET_BENCH_LOAD_REPEAT_SECONDS: process.env.WORLDSHEET_BENCH_LOAD_REPEAT_SECONDS ?? '20',
-    WORLDSHEET_BENCH_HEALTH_SECONDS: process.env.WORLDSHEET_BENCH_HEALTH_SECONDS ?? '10',
+    WORLDSHEET_BENCH_LOAD_SECONDS: '60',
+    WORLDSHEET_BENCH_LOAD_REPEAT_SECONDS: '20',
+    WORLDSHEET_BENCH_HEALTH_SECONDS: '10',
+    ...inheritedEnvironment(),
   };
   const child = supervisor.spawn(
     'load test',
@@ -300,7 +311,8 @@ async function migrateOnly(supervisor: Supervisor): Promise<void> {
 // running ones when npm start already runs them.
 
 async function localDatabaseUrl(supervisor: Supervisor, options: { create: boolean }): Promise<string> {
-  if (process.env.DATABASE_URL) return process.env.DATABASE_URL;
+  const external = config().DATABASE_URL;
+  if (external) return external;
   const cluster = new LocalCluster({ name: 'dev', port: devClusterPort(), projectRoot: root });
   cluster.prepare();
   try {
@@ -324,13 +336,14 @@ async function localDatabaseUrl(supervisor: Supervisor, options: { create: boole
 }
 
 async function localStoreConfig(supervisor: Supervisor): Promise<StorageConfig> {
-  if (process.env.WORLDSHEET_S3_ENDPOINT || process.env.WORLDSHEET_S3_BUCKET) return storageConfig();
-  const port = Number(process.env.WORLDSHEET_S3_PORT ?? DEFAULT_FAKE_S3_PORT);
+  const settings = config();
+  if (settings.WORLDSHEET_S3_ENDPOINT || settings.WORLDSHEET_S3_BUCKET) return storageConfig();
+  const port = settings.WORLDSHEET_S3_PORT;
   if (!(await portIsFree(port))) {
     // npm start runs the local object store in its own process; talk to that one.
     log(`using the local object store already listening on 127.0.0.1:${port}`);
     return storageConfig({
-      ...process.env,
+      ...inheritedEnvironment(),
       WORLDSHEET_S3_ENDPOINT: `http://127.0.0.1:${port}`,
       WORLDSHEET_S3_ACCESS_KEY_ID: FAKE_S3_CREDENTIALS.accessKeyId,
       WORLDSHEET_S3_SECRET_ACCESS_KEY: FAKE_S3_CREDENTIALS.secretAccessKey,
@@ -338,7 +351,7 @@ async function localStoreConfig(supervisor: Supervisor): Promise<StorageConfig> 
   }
   const store = await startFakeObjectStore({ port, directory: path.join(root, '.data', 'objects-dev') });
   supervisor.add('local object store', () => store.stop());
-  return storageConfig({ ...process.env, ...store.env });
+  return storageConfig({ ...inheritedEnvironment(), ...store.env });
 }
 
 function printReport(report: InstallationReport): void {
@@ -408,9 +421,19 @@ export async function runCommand(command: string, args: string[]): Promise<void>
         process.exit(2);
     }
   } catch (error) {
-    console.error(`\n[worldsheet] ${error instanceof LocalPostgresError ? '' : 'error: '}${(error as Error).message}`);
-    if (!(error instanceof LocalPostgresError) && process.env.WORLDSHEET_DEBUG) console.error(error);
+    const expected = error instanceof LocalPostgresError || error instanceof ConfigError;
+    console.error(`\n[worldsheet] ${expected ? '' : 'error: '}${(error as Error).message}`);
+    if (!expected && debugging()) console.error(error);
     // Stop whatever was started before the failure.
     await supervisor.shutdown(1);
+  }
+}
+
+/** WORLDSHEET_DEBUG: print the stack of an unexpected failure (false when the settings themselves are unreadable). */
+function debugging(): boolean {
+  try {
+    return Boolean(config().WORLDSHEET_DEBUG);
+  } catch {
+    return false;
   }
 }

@@ -17,6 +17,7 @@ import { createServer, type IncomingMessage, type ServerResponse } from 'node:ht
 import path from 'node:path';
 import { fileURLToPath } from 'node:url';
 import next from 'next';
+import { checkProduction, config, ConfigError, defaultNodeEnv } from '../config';
 import { isTrustedProxy, parseTrustedProxies, PEER_ADDRESS_HEADER } from '../http/client-address';
 import { edgeHeaders, httpsEnabled, newNonce } from '../http/security-headers';
 
@@ -57,13 +58,16 @@ function argument(args: string[], names: string[]): string | undefined {
 async function main(): Promise<void> {
   const args = process.argv.slice(2);
   const dev = args.includes('--dev');
-  const hostname = argument(args, ['-H', '--hostname']) ?? process.env.WORLDSHEET_HOST ?? '127.0.0.1';
-  const port = Number(argument(args, ['-p', '--port']) ?? process.env.PORT ?? 3000);
+  if (!dev) defaultNodeEnv('production');
+  // A malformed setting, or a deployment without its secret, signing key and certificate or mail
+  // service, stops the server here rather than at the first request that needs it.
+  const settings = dev ? config() : checkProduction();
+  const hostname = argument(args, ['-H', '--hostname']) ?? settings.WORLDSHEET_HOST;
+  const port = Number(argument(args, ['-p', '--port']) ?? settings.PORT);
   if (!Number.isInteger(port) || port < 0 || port > 65535) throw new Error(`not a port: ${port}`);
   // A mistyped proxy list stops the server here rather than at the first sign-in.
-  parseTrustedProxies(process.env.WORLDSHEET_TRUSTED_PROXIES);
+  parseTrustedProxies(settings.WORLDSHEET_TRUSTED_PROXIES);
   const https = httpsEnabled();
-  if (!dev) (process.env as Record<string, string>).NODE_ENV ??= 'production';
 
   const server = createServer();
   const app = next({ dev, dir: root, hostname, port, httpServer: server });
@@ -116,7 +120,7 @@ async function main(): Promise<void> {
 
 if (process.argv[1] && path.resolve(process.argv[1]) === fileURLToPath(import.meta.url)) {
   main().catch((error) => {
-    console.error(error);
+    console.error(error instanceof ConfigError ? `[worldsheet] ${error.message}` : error);
     process.exit(1);
   });
 }

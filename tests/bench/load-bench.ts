@@ -33,6 +33,7 @@ import { benchClusterPort, LocalCluster } from '../../db/local-postgres';
 import { migrateToLatest } from '../../db/migrate';
 import { DEMO_PROJECT, demoSheets, seedDemo } from '../../db/seed';
 import { createApiToken } from '../../lib/auth/api-tokens';
+import { localTestIdentityFiles } from '../../lib/issue/identity';
 import { ensureJobQueues } from '../../lib/jobs/queue';
 import { buildIfStale } from '../../lib/ops/next-build';
 import { Supervisor } from '../../lib/ops/supervisor';
@@ -449,6 +450,12 @@ async function main(supervisor: Supervisor): Promise<boolean> {
     WORLDSHEET_KEY_FOLDER: path.join(folder, 'keys'),
     WORLDSHEET_DIST_DIR: DIST_DIR,
   };
+  // What the production server refuses to start without (lib/config.ts): a signing key and certificate
+  // (the local test identity's files) and a mail service (no job worker runs here: mail stays queued).
+  const identity = localTestIdentityFiles(path.join(folder, 'keys'));
+  env.WORLDSHEET_SIGNING_KEY = identity.keyFile;
+  env.WORLDSHEET_SIGNING_CERT = identity.certFile;
+  env.WORLDSHEET_SMTP_URL = 'smtp://127.0.0.1:9';
   if (buildIfStale(root, DIST_DIR, env)) console.log('[load-bench] built.');
   const app = await startApp(supervisor, env);
   if (!existsSync(`/proc/${app.child.pid}/status`)) throw new Error('reading the app server memory needs /proc');

@@ -30,8 +30,8 @@ import pg from 'pg';
 import { createDb, DB_POOL_MAX } from '../../db/index';
 import { benchClusterPort, LocalCluster } from '../../db/local-postgres';
 import { migrateToLatest } from '../../db/migrate';
-import { getEvaluator, sandboxOptionsFromEnv } from '../../lib/calc/sandbox/evaluator';
-import { evaluationScope } from '../../lib/sheets/evaluate-sandboxed';
+import { sandboxOptionsFromEnv } from '../../lib/calc/sandbox/evaluator';
+import { evaluationScope, getEvaluator } from '../../lib/sheets/evaluate-sandboxed';
 import { parseValue } from '../../lib/http/route';
 import { Supervisor } from '../../lib/ops/supervisor';
 import { versionContentSchema, type VersionContent } from '../../lib/sheets/content';
@@ -433,7 +433,7 @@ async function main(supervisor: Supervisor) {
 
   // The evaluation workers are started from lib/ relative to the working directory, as in the app.
   process.chdir(root);
-  const sandbox = sandboxOptionsFromEnv();
+  const sandbox = sandboxOptionsFromEnv(process.env);
   const loadBefore = os.loadavg()[0];
   const r = await runSaveBench(cluster.appUrl(DATABASE), {
     postmasterPid: postmasterPid(cluster),

@@ -14,6 +14,7 @@ import { inject } from 'vitest';
 import { CHROMIUM_PATH } from '../../lib/ops/chromium';
 import { testDb } from '../support/database';
 import { buildIfStale } from '../../lib/ops/next-build';
+import { localTestIdentityFiles } from '../../lib/issue/identity';
 
 const root = process.cwd();
 export const SCREENSHOT_DIR = path.join(root, 'tests', '.artifacts', 'screenshots');
@@ -42,6 +43,13 @@ export async function startApp(extraEnv: Record<string, string> = {}): Promise<R
     NEXTAUTH_SECRET: TEST_AUTH_SECRET,
     ...extraEnv,
   };
+  // The production server and worker refuse to start without a signing key and certificate
+  // (lib/config.ts): name the local test identity's files, as a deployment names its own.
+  if (!env.WORLDSHEET_SIGNING_KEY || !env.WORLDSHEET_SIGNING_CERT) {
+    const files = localTestIdentityFiles(env.WORLDSHEET_KEY_FOLDER);
+    env.WORLDSHEET_SIGNING_KEY = files.keyFile;
+    env.WORLDSHEET_SIGNING_CERT = files.certFile;
+  }
   const distDir = process.env.WORLDSHEET_TEST_DIST_DIR ?? '.next-test';
   buildIfStale(root, distDir, env);
   const worker = await startWorker(env);

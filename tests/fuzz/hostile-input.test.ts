@@ -14,7 +14,7 @@ import { ATTACHMENT_KINDS, type AttachmentKind } from '../../lib/attachments/kin
 import { CONSTANTS } from '../../lib/calc/constants';
 import { LIBRARY } from '../../lib/calc/functions/index';
 import { LIMITS } from '../../lib/calc/limits';
-import { getEvaluator } from '../../lib/calc/sandbox/evaluator';
+import { getEvaluator } from '../../lib/sheets/evaluate-sandboxed';
 import { createSheetEngine } from '../../lib/calc/sheet-engine';
 import { parseSheetFile, SheetFileError, sheetFileSchema } from '../../lib/calc/sheet-file';
 import type { CellInput, SheetResult } from '../../lib/calc/types';

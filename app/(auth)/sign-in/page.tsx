@@ -2,6 +2,7 @@ import type { Metadata } from 'next';
 import Link from 'next/link';
 import { SignInForm } from '@/components/auth/sign-in-form';
 import { oidcConfigured } from '@/lib/auth/oidc';
+import { config } from '@/lib/config';
 import { appUrl } from '@/lib/http/app-url';
 import { safeSameOriginPath } from '@/lib/http/same-origin';
 
@@ -29,7 +30,8 @@ export default async function SignInPage({
   const query = Object.fromEntries(Object.entries(raw).map(([k, v]) => [k, typeof v === 'string' ? v : undefined]));
   // Only a path on the app's own origin, as the URL parser resolves it (lib/http/same-origin.ts).
   const callbackUrl = safeSameOriginPath(query.callbackUrl, appUrl(), '/projects');
-  const demo = process.env.WORLDSHEET_DEMO === '1';
+  const settings = config();
+  const demo = settings.WORLDSHEET_DEMO;
   // Only fixed messages, chosen by code: text from the address bar is never shown as a message.
   const error = query.error
     ? Object.hasOwn(SIGN_IN_ERRORS, query.error)
@@ -47,7 +49,7 @@ export default async function SignInPage({
           <SignInForm
             callbackUrl={callbackUrl}
             initialError={error}
-            oidcName={oidcConfigured() ? (process.env.WORLDSHEET_OIDC_NAME ?? 'Organisation account') : null}
+            oidcName={oidcConfigured() ? settings.WORLDSHEET_OIDC_NAME : null}
           />
         </div>
       </section>

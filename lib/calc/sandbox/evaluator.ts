@@ -60,19 +60,22 @@ export const DEFAULT_MAX_RESULT_BYTES = 32 * 1024 * 1024;
 /**
  * Worker threads for this machine: one per CPU the process may use (os.availableParallelism), at
  * least 2 so that one slow sheet never holds the only worker, at most 8 (each may take its memory
- * limit). WORLDSHEET_CALC_WORKERS overrides.
+ * limit). WORLDSHEET_CALC_WORKERS in `env` overrides. lib/calc reads no environment of its own (it
+ * imports nothing outside lib/calc, so not lib/config.ts either): the server's shared evaluator
+ * (lib/sheets/evaluate-sandboxed.ts) takes its settings from lib/config.ts, the CLI passes its own.
  */
-export function defaultWorkerCount(env: Record<string, string | undefined> = process.env): number {
+export function defaultWorkerCount(env: Record<string, string | undefined>): number {
   const set = Number(env.WORLDSHEET_CALC_WORKERS);
   if (env.WORLDSHEET_CALC_WORKERS && Number.isInteger(set) && set >= 1) return set;
   return Math.min(8, Math.max(2, os.availableParallelism()));
 }
 
-export function sandboxOptionsFromEnv(): SandboxOptions {
+/** The limits WORLDSHEET_CALC_TIMEOUT_MS, WORLDSHEET_CALC_MEMORY_MB and WORLDSHEET_CALC_WORKERS of `env` set. */
+export function sandboxOptionsFromEnv(env: Record<string, string | undefined>): SandboxOptions {
   return {
-    timeoutMs: Number(process.env.WORLDSHEET_CALC_TIMEOUT_MS ?? 5000),
-    memoryMb: Number(process.env.WORLDSHEET_CALC_MEMORY_MB ?? 256),
-    workers: defaultWorkerCount(),
+    timeoutMs: Number(env.WORLDSHEET_CALC_TIMEOUT_MS ?? 5000),
+    memoryMb: Number(env.WORLDSHEET_CALC_MEMORY_MB ?? 256),
+    workers: defaultWorkerCount(env),
   };
 }
 
@@ -545,12 +548,4 @@ function hash(text: string): number {
   let h = 2166136261;
   for (let i = 0; i < text.length; i++) h = Math.imul(h ^ text.charCodeAt(i), 16777619);
   return h >>> 0;
-}
-
-const globalForEvaluator = globalThis as unknown as { worldsheetEvaluator?: SandboxedEvaluator };
-
-/** The server's shared evaluator. */
-export function getEvaluator(): SandboxedEvaluator {
-  globalForEvaluator.worldsheetEvaluator ??= new SandboxedEvaluator(sandboxOptionsFromEnv());
-  return globalForEvaluator.worldsheetEvaluator;
 }
