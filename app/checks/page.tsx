@@ -2,7 +2,7 @@ import type { Metadata } from 'next';
 import { CheckQueueTable } from '@/components/checks/check-queue-table';
 import { getDb } from '@/db';
 import { pageActor } from '@/lib/auth/page-guard';
-import { listQueue } from '@/lib/checks/workflow';
+import { listQueue } from '@/lib/checks/queries';
 
 export const metadata: Metadata = { title: 'My checks' };
 export const dynamic = 'force-dynamic';

@@ -3,7 +3,7 @@
 import { useRouter } from 'next/navigation';
 import { useEffect, useId, useRef, useState } from 'react';
 import { UtcTime } from '@/components/data/utc-time';
-import type { CheckDetail } from '@/lib/checks/workflow';
+import type { CheckDetail } from '@/lib/checks/queries';
 import { VisibleText } from '@/components/data/visible-text';
 import { revealBidiControls } from '@/lib/calc/bidi-controls';
 

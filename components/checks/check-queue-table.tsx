@@ -1,6 +1,6 @@
 import Link from 'next/link';
 import { UtcTime } from '@/components/data/utc-time';
-import type { listQueue } from '@/lib/checks/workflow';
+import type { listQueue } from '@/lib/checks/queries';
 import { VisibleText } from '@/components/data/visible-text';
 
 export type QueueRow = Awaited<ReturnType<typeof listQueue>>[number];

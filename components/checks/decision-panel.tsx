@@ -24,16 +24,14 @@ export function DecisionPanel({
   actions,
   versionNumber,
   sha256,
-  openThreads,
-  methodRecorded,
+  signWaitsFor,
 }: {
   checkId: string;
   actions: Action[];
   versionNumber: number;
   sha256: string;
-  /** Open comment threads: signing as checked waits for them. */
-  openThreads: number;
-  methodRecorded: boolean;
+  /** What signing as checked still waits for, in the server's words (the check policy's answer). */
+  signWaitsFor: string[];
 }) {
   const id = useId();
   const router = useRouter();
@@ -132,18 +130,13 @@ export function DecisionPanel({
     </form>
   );
 
-  const signNote =
-    openThreads > 0 || !methodRecorded ? (
-      <ul className="list-disc pl-5 text-xs text-caution">
-        {openThreads > 0 ? (
-          <li>
-            {openThreads === 1 ? '1 comment thread is' : `${openThreads} comment threads are`} still open; resolve them
-            first.
-          </li>
-        ) : null}
-        {!methodRecorded ? <li>Record the verification method first.</li> : null}
-      </ul>
-    ) : null;
+  const signNote = signWaitsFor.length ? (
+    <ul className="list-disc pl-5 text-xs text-caution">
+      {signWaitsFor.map((reason) => (
+        <li key={reason}>{reason}</li>
+      ))}
+    </ul>
+  ) : null;
 
   return (
     <div className="space-y-4">

@@ -1,4 +1,4 @@
-import type { SheetWorkflow } from '@/lib/checks/workflow';
+import type { SheetWorkflow } from '@/lib/checks/queries';
 
 export type SheetStatus = SheetWorkflow['status'];
 

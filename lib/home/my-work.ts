@@ -7,7 +7,7 @@
 import { sql, type Kysely } from 'kysely';
 import type { Database } from '@/db/schema';
 import type { Actor } from '@/lib/auth/actor';
-import { listQueue } from '@/lib/checks/workflow';
+import { listQueue } from '@/lib/checks/queries';
 import { sheetStatuses } from '@/lib/checks/status';
 import { formatSheetNumber } from '@/lib/sheets/sheet-number';
 

@@ -5,7 +5,8 @@
 import { beforeEach, expect, it } from 'vitest';
 import type { Actor } from '../../lib/auth/actor';
 import { AppError } from '../../lib/errors/app-error';
-import { getCheckDetail, submitForCheck } from '../../lib/checks/workflow';
+import { getCheckDetail } from '../../lib/checks/queries';
+import { submitForCheck } from '../../lib/checks/submit';
 import type { SubmissionFinding } from '../../lib/checks/submission-findings';
 import { createSheet, getVersion, saveVersion } from '../../lib/sheets/sheets';
 import { testDb } from '../support/database';

@@ -4,7 +4,11 @@
 // waits for the confirmation; audited.
 import { beforeEach, expect, it } from 'vitest';
 import type { Actor } from '../../lib/auth/actor';
-import { checkWorkSchema, decide, getCheckDetail, saveCheckWork, submitForCheck } from '../../lib/checks/workflow';
+import { checkWorkSchema } from '../../lib/checks/workflow';
+import { decide } from '../../lib/checks/decide';
+import { getCheckDetail } from '../../lib/checks/queries';
+import { saveCheckWork } from '../../lib/checks/work';
+import { submitForCheck } from '../../lib/checks/submit';
 import { createSheet, getVersion, saveVersion } from '../../lib/sheets/sheets';
 import { testDb } from '../support/database';
 import { makeProject, makeUser, PASSWORD } from '../support/people';

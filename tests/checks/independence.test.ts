@@ -8,16 +8,11 @@
 import { beforeEach, describe, expect, it } from 'vitest';
 import type { Actor } from '../../lib/auth/actor';
 import { mayAnswerThreads } from '../../lib/checks/rules';
-import {
-  addComment,
-  decide,
-  eligibleCheckers,
-  getCheckDetail,
-  listQueue,
-  resolveThread,
-  saveCheckWork,
-  submitForCheck,
-} from '../../lib/checks/workflow';
+import { addComment, resolveThread } from '../../lib/checks/threads';
+import { decide } from '../../lib/checks/decide';
+import { eligibleCheckers, submitForCheck } from '../../lib/checks/submit';
+import { getCheckDetail, listQueue } from '../../lib/checks/queries';
+import { saveCheckWork } from '../../lib/checks/work';
 import { createSheet, getSheet, getVersion, saveVersion } from '../../lib/sheets/sheets';
 import { testDb } from '../support/database';
 import { makeProject, makeUser, PASSWORD } from '../support/people';

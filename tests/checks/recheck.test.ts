@@ -3,7 +3,10 @@
 // after an approval, or a sheet's first check, carries none.
 import { beforeEach, expect, it } from 'vitest';
 import type { Actor } from '../../lib/auth/actor';
-import { decide, getCheckDetail, saveCheckWork, submitForCheck } from '../../lib/checks/workflow';
+import { decide } from '../../lib/checks/decide';
+import { getCheckDetail } from '../../lib/checks/queries';
+import { saveCheckWork } from '../../lib/checks/work';
+import { submitForCheck } from '../../lib/checks/submit';
 import { createSheet, getVersion, saveVersion } from '../../lib/sheets/sheets';
 import { testDb } from '../support/database';
 import { makeProject, makeUser, PASSWORD } from '../support/people';

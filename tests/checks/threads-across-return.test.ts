@@ -3,14 +3,11 @@
 // as checked waits for them.
 import { beforeEach, expect, it } from 'vitest';
 import type { Actor } from '../../lib/auth/actor';
-import {
-  addComment,
-  decide,
-  getCheckDetail,
-  resolveThread,
-  saveCheckWork,
-  submitForCheck,
-} from '../../lib/checks/workflow';
+import { addComment, resolveThread } from '../../lib/checks/threads';
+import { decide } from '../../lib/checks/decide';
+import { getCheckDetail } from '../../lib/checks/queries';
+import { saveCheckWork } from '../../lib/checks/work';
+import { submitForCheck } from '../../lib/checks/submit';
 import { createSheet, getVersion, saveVersion } from '../../lib/sheets/sheets';
 import { testDb } from '../support/database';
 import { makeProject, makeUser, PASSWORD } from '../support/people';

@@ -5,16 +5,11 @@
 import { sql } from 'kysely';
 import { beforeEach, describe, expect, it } from 'vitest';
 import type { Actor } from '../../lib/auth/actor';
-import {
-  addComment,
-  decide,
-  getCheckDetail,
-  listQueue,
-  resolveThread,
-  saveCheckWork,
-  sheetWorkflow,
-  submitForCheck,
-} from '../../lib/checks/workflow';
+import { addComment, resolveThread } from '../../lib/checks/threads';
+import { decide } from '../../lib/checks/decide';
+import { getCheckDetail, listQueue, sheetWorkflow } from '../../lib/checks/queries';
+import { saveCheckWork } from '../../lib/checks/work';
+import { submitForCheck } from '../../lib/checks/submit';
 import { createSheet, getVersion, saveVersion } from '../../lib/sheets/sheets';
 import { testDb } from '../support/database';
 import { drainMailQueue, waitForMail } from '../support/mailbox';

@@ -173,7 +173,7 @@ it('takes a version from submission through a return, a resubmission, the check 
   await cell.getByText('Protons, charge state 1; now in the cell comment.').waitFor();
   await page
     .getByRole('region', { name: 'Decision' })
-    .getByText('1 comment thread is still open; resolve them first.')
+    .getByText('1 comment thread is still open; resolve every thread before signing as checked.')
     .waitFor();
   await cell.getByRole('button', { name: 'Resolve' }).click();
   await cell.getByText(/Resolved thread · Line 3 .* resolved by Demo Checker/).waitFor();

@@ -5,7 +5,9 @@
 // the evidence and what was carried over before approving.
 import { afterAll, beforeAll, expect, it } from 'vitest';
 import { DEMO_PASSWORD, seedDemo } from '../../db/seed';
-import { decide, saveCheckWork, submitForCheck } from '../../lib/checks/workflow';
+import { decide } from '../../lib/checks/decide';
+import { saveCheckWork } from '../../lib/checks/work';
+import { submitForCheck } from '../../lib/checks/submit';
 import { getVersion, saveVersion } from '../../lib/sheets/sheets';
 import { resetDatabase, testDb } from '../support/database';
 import { actorByEmail } from '../support/people';

@@ -5,7 +5,8 @@
 // checker who submitted version 1 before (signed it prepared) cannot check it, but may check version 2.
 import { afterAll, beforeAll, expect, it } from 'vitest';
 import { DEMO_PASSWORD, seedDemo } from '../../db/seed';
-import { decide, submitForCheck } from '../../lib/checks/workflow';
+import { decide } from '../../lib/checks/decide';
+import { submitForCheck } from '../../lib/checks/submit';
 import { getVersion, saveVersion } from '../../lib/sheets/sheets';
 import { resetDatabase, testDb } from '../support/database';
 import { actorByEmail, makeUser, PASSWORD } from '../support/people';

@@ -3,7 +3,9 @@
 // control; void sheets are no one's work, and a person without a role has no section for it.
 import { sql } from 'kysely';
 import { describe, expect, it } from 'vitest';
-import { decide, saveCheckWork, submitForCheck } from '../../lib/checks/workflow';
+import { decide } from '../../lib/checks/decide';
+import { saveCheckWork } from '../../lib/checks/work';
+import { submitForCheck } from '../../lib/checks/submit';
 import { myWork, workCount } from '../../lib/home/my-work';
 import { voidSheet } from '../../lib/sheets/void';
 import { approveNewVersion, makeSheet, makeTeam } from '../support/approved-sheet';

@@ -6,7 +6,9 @@
 import { beforeEach, describe, expect, it, vi } from 'vitest';
 import type { Actor } from '../../lib/auth/actor';
 import type { SheetResult } from '../../lib/calc/types';
-import { getCheckDetail, saveCheckWork, submitForCheck } from '../../lib/checks/workflow';
+import { getCheckDetail } from '../../lib/checks/queries';
+import { saveCheckWork } from '../../lib/checks/work';
+import { submitForCheck } from '../../lib/checks/submit';
 import { AppError } from '../../lib/errors/app-error';
 import { createSheet, getVersion, saveVersion } from '../../lib/sheets/sheets';
 import { testDb } from '../support/database';

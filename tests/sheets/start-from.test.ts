@@ -6,7 +6,7 @@ import { sql } from 'kysely';
 import { expect, it } from 'vitest';
 import { listAttachments, uploadAttachment } from '../../lib/attachments/attachments';
 import type { SheetResult } from '../../lib/calc/types';
-import { sheetWorkflow } from '../../lib/checks/workflow';
+import { sheetWorkflow } from '../../lib/checks/queries';
 import { getVersion, saveVersion } from '../../lib/sheets/sheets';
 import { sheetOrigin, startCandidates, startSheetFrom } from '../../lib/sheets/start-from';
 import { voidSheet } from '../../lib/sheets/void';

@@ -5,7 +5,9 @@
 import type { Kysely } from 'kysely';
 import type { Database, VerificationMethod } from '../../db/schema';
 import type { Actor } from '../../lib/auth/actor';
-import { decide, saveCheckWork, submitForCheck } from '../../lib/checks/workflow';
+import { decide } from '../../lib/checks/decide';
+import { saveCheckWork } from '../../lib/checks/work';
+import { submitForCheck } from '../../lib/checks/submit';
 import type { Cell } from '../../lib/sheets/content';
 import { createSheet, getVersion, saveVersion } from '../../lib/sheets/sheets';
 import { makeProject, makeUser, PASSWORD } from './people';

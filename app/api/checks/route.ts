@@ -1,6 +1,7 @@
 import { getDb } from '@/db';
 import { requireActor } from '@/lib/auth/current-actor';
-import { listQueue, queueQuerySchema } from '@/lib/checks/workflow';
+import { listQueue } from '@/lib/checks/queries';
+import { queueQuerySchema } from '@/lib/checks/workflow';
 import { handle, parseValue, searchParams } from '@/lib/http/route';
 
 export const dynamic = 'force-dynamic';

@@ -16,13 +16,8 @@ import { CautionNotice, SafetyRelatedNotice } from '@/components/shell/caution-n
 import { getDb } from '@/db';
 import { pageParams } from '@/lib/http/params';
 import { pageActor } from '@/lib/auth/page-guard';
-import {
-  getCheckDetail,
-  MEANING_LABELS,
-  VERIFICATION_LABELS,
-  VERIFICATION_METHODS,
-  type CheckDetail,
-} from '@/lib/checks/workflow';
+import { getCheckDetail, type CheckDetail } from '@/lib/checks/queries';
+import { MEANING_LABELS, VERIFICATION_LABELS, VERIFICATION_METHODS } from '@/lib/checks/workflow';
 import { AppError } from '@/lib/errors/app-error';
 import type { CellComparison } from '@/lib/sheets/compare';
 import { VisibleText } from '@/components/data/visible-text';
@@ -78,9 +73,7 @@ export default async function CheckPage({ params }: { params: Promise<{ checkId:
   const unchanged = comparison.cells.filter((c) => c.status === 'unchanged');
   const cellIds = new Set(comparison.cells.map((c) => c.id));
   const otherThreads = check.threads.filter((t) => !cellIds.has(t.cellId));
-  const openThreads = check.threads.filter((t) => !t.resolvedAt).length;
   const resultsById = new Map((version.results?.cells ?? []).map((c) => [c.id, c]));
-  const canResolve = you.isChecker && check.state === 'in_check';
   const sheetHref = `/projects/${sheet.projectCode}/sheets/${sheet.number}`;
 
   const renderCell = (cell: CellComparison) => {
@@ -117,7 +110,7 @@ export default async function CheckPage({ params }: { params: Promise<{ checkId:
           versionNumber={version.number}
           canOpen={you.canOpenThreads}
           canReply={you.canComment}
-          canResolve={canResolve}
+          canResolve={you.canResolve}
         />
       </CheckCell>
     );
@@ -310,7 +303,7 @@ export default async function CheckPage({ params }: { params: Promise<{ checkId:
                     versionNumber={version.number}
                     canOpen={false}
                     canReply={you.canComment}
-                    canResolve={canResolve}
+                    canResolve={you.canResolve}
                   />
                 </div>
               ))}
@@ -330,7 +323,7 @@ export default async function CheckPage({ params }: { params: Promise<{ checkId:
             </h2>
             <CheckerWorkPanel
               checkId={check.id}
-              editable={you.isChecker && check.state === 'in_check'}
+              editable={you.canRecordWork}
               methods={VERIFICATION_METHODS.map((value) => ({ value, label: VERIFICATION_LABELS[value] }))}
               method={check.verificationMethod}
               notes={check.checkerNotes}
@@ -360,7 +353,7 @@ export default async function CheckPage({ params }: { params: Promise<{ checkId:
                 {you.checkerRefusal}
               </p>
             ) : null}
-            {check.state !== 'in_check' || you.isChecker ? (
+            {you.seesEvidence ? (
               <EvidenceSummary
                 method={check.verificationMethod ? VERIFICATION_LABELS[check.verificationMethod] : null}
                 comparison={check.alternateComparison}
@@ -372,8 +365,7 @@ export default async function CheckPage({ params }: { params: Promise<{ checkId:
               actions={you.actions}
               versionNumber={version.number}
               sha256={version.sha256}
-              openThreads={openThreads}
-              methodRecorded={check.verificationMethod !== null}
+              signWaitsFor={you.signWaitsFor}
             />
           </section>
           <section aria-labelledby="signatures-title" className="space-y-2 rounded border border-rule bg-surface p-4">

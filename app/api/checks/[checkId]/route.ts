@@ -1,6 +1,8 @@
 import { getDb } from '@/db';
 import { requireActor } from '@/lib/auth/current-actor';
-import { checkWorkSchema, getCheckDetail, saveCheckWork } from '@/lib/checks/workflow';
+import { checkWorkSchema } from '@/lib/checks/workflow';
+import { getCheckDetail } from '@/lib/checks/queries';
+import { saveCheckWork } from '@/lib/checks/work';
 import { routeParams } from '@/lib/http/params';
 import { handle, parseJson } from '@/lib/http/route';
 

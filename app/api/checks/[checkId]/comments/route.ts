@@ -1,6 +1,7 @@
 import { getDb } from '@/db';
 import { requireActor } from '@/lib/auth/current-actor';
-import { addComment, commentSchema } from '@/lib/checks/workflow';
+import { addComment } from '@/lib/checks/threads';
+import { commentSchema } from '@/lib/checks/workflow';
 import { routeParams } from '@/lib/http/params';
 import { handle, parseJson } from '@/lib/http/route';
 

@@ -1,6 +1,7 @@
 import { getDb } from '@/db';
 import { requireActor } from '@/lib/auth/current-actor';
-import { decide, decisionSchema } from '@/lib/checks/workflow';
+import { decide } from '@/lib/checks/decide';
+import { decisionSchema } from '@/lib/checks/workflow';
 import { routeParams } from '@/lib/http/params';
 import { handle, parseJson } from '@/lib/http/route';
 

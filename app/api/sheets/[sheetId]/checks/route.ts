@@ -1,5 +1,7 @@
 import { getDb } from '@/db';
-import { eligibleCheckers, sheetWorkflow, submitForCheck, submitSchema } from '@/lib/checks/workflow';
+import { eligibleCheckers, submitForCheck } from '@/lib/checks/submit';
+import { sheetWorkflow } from '@/lib/checks/queries';
+import { submitSchema } from '@/lib/checks/workflow';
 import { routeParams } from '@/lib/http/params';
 import { handle, parseJson } from '@/lib/http/route';
 import { requireSheetAccess } from '@/lib/sheets/access';

@@ -13,13 +13,10 @@ import { CautionNotice, SafetyRelatedNotice } from '@/components/shell/caution-n
 import { getDb } from '@/db';
 import { pageParams, queryInt4 } from '@/lib/http/params';
 import { pageProject } from '@/lib/auth/page-guard';
-import {
-  eligibleCheckers,
-  MEANING_LABELS,
-  SHEET_STATUS_LABELS,
-  sheetWorkflow,
-  type SheetWorkflow,
-} from '@/lib/checks/workflow';
+import { eligibleCheckers } from '@/lib/checks/submit';
+import { MEANING_LABELS } from '@/lib/checks/workflow';
+import { SHEET_STATUS_LABELS } from '@/lib/checks/status';
+import { sheetWorkflow, type SheetWorkflow } from '@/lib/checks/queries';
 import { IssuePanel } from '@/components/issue/issue-panel';
 import { issueCandidates } from '@/lib/issue/request';
 import { listRevisions } from '@/lib/issue/register';

@@ -1,6 +1,7 @@
 import { getDb } from '@/db';
 import { requireActor } from '@/lib/auth/current-actor';
-import { resolveSchema, resolveThread } from '@/lib/checks/workflow';
+import { resolveSchema } from '@/lib/checks/workflow';
+import { resolveThread } from '@/lib/checks/threads';
 import { routeParams } from '@/lib/http/params';
 import { handle, parseJson } from '@/lib/http/route';
 
