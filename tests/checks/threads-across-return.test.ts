@@ -139,3 +139,24 @@ it('refuses to resolve a comment id that is not a uuid with 409, not a server er
   });
   expect((await refusal(resolveThread(db, checker, check.id, 'not-a-uuid'))).status).toBe(409);
 });
+
+it('answers a return only while a thread is open: with every thread resolved, a reply on the returned check is refused like the screen says', async () => {
+  const db = testDb();
+  const check = await submitForCheck(db, author, sheet, {
+    versionNumber: 2,
+    checkerId: checker.userId,
+    password: PASSWORD,
+  });
+  const thread = await addComment(db, checker, check.id, { cellId: 'c1', statementLine: 1, body: 'Units?' });
+  await resolveThread(db, checker, check.id, thread.id);
+  await decide(db, checker, check.id, { action: 'return', reason: 'Returned without open comments.' });
+  // The read model and the mutation say the same: nothing is open to answer.
+  expect((await getCheckDetail(db, author, check.id)).you.canComment).toBe(false);
+  for (const who of [author, checker]) {
+    const e = await refusal(
+      addComment(db, who, check.id, { cellId: 'c1', statementLine: null, body: 'late', threadId: thread.id }),
+    );
+    expect(e.status).toBe(409);
+    expect(e.message).toMatch(/It has no open thread to answer\.$/);
+  }
+});
