@@ -634,8 +634,17 @@ export const checkDetailSchema = z.looseObject({
   ),
   signatures: z.array(signatureSchema),
   you: z
-    .looseObject({ actions: z.array(z.enum(['return', 'sign', 'approve', 'reject'])) })
-    .meta({ description: 'What the caller may do now.' }),
+    .looseObject({
+      actions: z.array(z.enum(['return', 'sign', 'approve', 'reject'])),
+      policy: z.record(z.string(), z.looseObject({ allowed: z.boolean(), reason: z.string().optional() })).meta({
+        description:
+          'Every action on the check (openThread, reply, resolveThread, recordWork, confirmCarriedOver, return, sign, approve, reject): whether the caller may take it now and, if not, why (reason, code, rule, details; for signing, waitingFor). The server refuses with the same answer.',
+      }),
+      signWaitsFor: z
+        .array(z.string())
+        .meta({ description: 'What signing as checked still waits for, as the server refuses it.' }),
+    })
+    .meta({ description: 'What the caller may do now (lib/checks/policy.ts).' }),
 });
 
 export const checkWorkResultSchema = z.object({ ok: z.literal(true), alternateResults: z.looseObject({}).nullable() });
