@@ -5,7 +5,8 @@ const { version } = JSON.parse(readFileSync(new URL('./package.json', import.met
 
 /** @type {import('next').NextConfig} */
 const nextConfig = {
-  // npm test builds into its own folder so it never disturbs a running `npm start`.
+  // npm test builds into its own folder so it never disturbs a running `npm start`. Read here, not through
+  // lib/config.ts: `next build` loads this file before any module of the app.
   distDir: process.env.WORLDSHEET_DIST_DIR ?? '.next',
   reactStrictMode: true,
   poweredByHeader: false,

@@ -26,6 +26,7 @@ function ensurePackages() {
   console.log(`[worldsheet] installing npm packages (npm ${args[0]}) …`);
   const npm = process.platform === 'win32' ? 'npm.cmd' : 'npm';
   // npm ci on Node 20 refuses dev dependencies when NODE_ENV=production; tests and the build need them.
+  // Plain JavaScript before TypeScript (and lib/config.ts) is available: npm gets this process's environment.
   const env = { ...process.env, NODE_ENV: 'development' };
   const result = spawnSync(npm, args, { cwd: root, stdio: 'inherit', env });
   if (result.status !== 0) {

@@ -156,13 +156,15 @@ async function serve(supervisor: Supervisor, mode: 'start' | 'dev'): Promise<voi
       `Port ${port} on ${host} is already in use. Stop what uses it, or choose another with PORT=<port>.`,
     );
   }
+  // A deployment (its own DATABASE_URL) without its secret, signing key and certificate or mail service
+  // stops here, before anything is started, migrated or built.
+  if (mode === 'start' && settings.DATABASE_URL)
+    checkProduction({ ...inheritedEnvironment(), NODE_ENV: 'production', WORLDSHEET_DEMO: '0' });
   const mailEnv = settings.DATABASE_URL ? {} : await startDemoMail(supervisor, `http://${host}:${port}`);
   const storeEnv = await startLocalObjectStore(supervisor);
   const database = await prepareDatabase(supervisor, { seed: true });
   await ensureJobQueues(database.url);
   const env = appEnv(database, { ...mailEnv, ...storeEnv });
-  // A deployment missing its secret, signing key and certificate or mail service stops before the build.
-  if (mode === 'start') checkProduction({ ...env, NODE_ENV: 'production' });
   if (mode === 'start') buildIfStale(root, '.next', { ...env, NODE_ENV: 'production' });
   if (supervisor.isStopping) return;
   const worker = spawnJobWorker(supervisor, { ...env, NODE_ENV: 'production' });
