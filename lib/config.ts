@@ -157,22 +157,25 @@ export function parseConfig(env: Environment): Config {
     if (value !== undefined && value.trim() !== '') input[name] = value;
   }
   const result = schema.safeParse(input);
-  if (result.success) return result.data;
+  if (result.success) return Object.freeze(result.data);
   throw new ConfigError(
     result.error.issues
       .map((issue) => {
         const name = String(issue.path[0]);
-        return `${name} ${issue.message.replace(/^Invalid option: expected one of .*$/, 'must be one of the listed values')}, not "${input[name]}"`;
+        return `${name} ${issue.message}, not "${input[name]}"`;
       })
       .join('; '),
   );
 }
 
-/** The process's environment as this module reads it. */
+/** The settings' variables in this process's environment now. */
 function environment(): Environment {
+  const env: Environment = {};
+  for (const name of SETTING_NAMES) env[name] = process.env[name];
   // Next inlines process.env.WORLDSHEET_VERSION (next.config.mjs `env`) into the built server at build
   // time, where the running process may not have it: read it literally so that the inlining applies.
-  return { ...process.env, WORLDSHEET_VERSION: process.env.WORLDSHEET_VERSION };
+  env.WORLDSHEET_VERSION = process.env.WORLDSHEET_VERSION;
+  return env;
 }
 
 let remembered: { key: string; config: Config } | null = null;
