@@ -1,7 +1,8 @@
 // The issuing organisation's signing identity. A deployment names its own key and certificate
 // chain (WORLDSHEET_SIGNING_KEY and WORLDSHEET_SIGNING_CERT: PEM files, the certificate first, then
 // its issuers). Without them, the first start makes a private test certificate authority and an
-// organisation signing certificate in .data/keys/ (git-ignored), and reuses them afterwards.
+// organisation signing certificate in .data/keys/ (git-ignored), and reuses them afterwards: in the demo,
+// development and tests only (a production deployment does not start without them, lib/config.ts).
 import { createHash } from 'node:crypto';
 import { existsSync, mkdirSync, readFileSync, writeFileSync } from 'node:fs';
 import path from 'node:path';
