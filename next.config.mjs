@@ -10,9 +10,6 @@ const nextConfig = {
   distDir: process.env.WORLDSHEET_DIST_DIR ?? '.next',
   reactStrictMode: true,
   poweredByHeader: false,
-  // Types are checked once for the whole project (app, lib, tests) by `tsc --noEmit` in the test
-  // suite (tests/typecheck.test.ts); the build does not check them a second time.
-  typescript: { ignoreBuildErrors: true },
   env: { WORLDSHEET_VERSION: version },
   // Native and Node-only packages stay outside the server bundle.
   serverExternalPackages: ['pg', 'pg-boss', '@node-rs/argon2', 'mathjs'],

@@ -1,20 +1,65 @@
+// Three tiers, run one after the other by `npm test` (lib/ops/test-tiers.ts) and each on its own with
+// `npm run test:unit`, `test:database`, `test:browser`:
+//   unit      pure code: files in parallel, no PostgreSQL, no fakes, no table truncation;
+//   database  the real PostgreSQL test cluster, mail capture and object store (tests/setup/), one file at a
+//             time because the files share one database and reset it between tests;
+//   browser   the built app in headless Chromium and over HTTP (tests/e2e/), on the same services.
+// A new pure test goes in a unit folder (or the UNIT list); anything else lands in the database tier.
 import path from 'node:path';
 import { fileURLToPath } from 'node:url';
 import { defineConfig } from 'vitest/config';
 
 const root = path.resolve(path.dirname(fileURLToPath(import.meta.url)), '..');
 
+export const UNIT = [
+  'tests/calc/**/*.test.ts',
+  'tests/ui/**/*.test.ts',
+  'tests/http/client-address.test.ts',
+  'tests/http/request-guard.test.ts',
+  'tests/http/same-origin.test.ts',
+  'tests/http/security-headers.test.ts',
+  'tests/fonts/**/*.test.ts',
+  'tests/lint/**/*.test.ts',
+  'tests/unit/**/*.test.ts',
+  'tests/api/openapi.test.ts',
+  'tests/checks/alternate-comparison.test.ts',
+  'tests/checks/submission-findings.test.ts',
+  'tests/checks/policy.test.ts',
+  'tests/issue/pdf-acknowledgements.test.ts',
+  'tests/issue/pdf-alternate-comparison.test.ts',
+  'tests/issue/pdf-render.test.ts',
+  'tests/issue/pdf-warnings.test.ts',
+  'tests/issue/plot-pdf.test.ts',
+  'tests/issue/signing.test.ts',
+  'tests/ops/server.test.ts',
+  'tests/ops/config.test.ts',
+  'tests/sheets/compare.test.ts',
+  'tests/sheets/content-hash.test.ts',
+  'tests/sheets/markdown.test.ts',
+];
+export const BROWSER = ['tests/e2e/**/*.test.ts'];
+
+const services = {
+  globalSetup: ['tests/setup/global-setup.ts'],
+  setupFiles: ['tests/setup/each-file.ts'],
+  // The files share one database and reset it between tests, so they run one at a time.
+  fileParallelism: false,
+};
+
 export default defineConfig({
   root,
   resolve: { alias: { '@': root } },
   test: {
-    include: ['tests/**/*.test.ts'],
     environment: 'node',
-    globalSetup: ['tests/setup/global-setup.ts'],
-    setupFiles: ['tests/setup/each-file.ts'],
-    // Database tests share one database and reset it between tests, so files run one at a time.
-    fileParallelism: false,
     testTimeout: 30_000,
     hookTimeout: 600_000,
+    projects: [
+      { extends: true, test: { name: 'unit', include: UNIT } },
+      {
+        extends: true,
+        test: { name: 'database', include: ['tests/**/*.test.ts'], exclude: [...UNIT, ...BROWSER], ...services },
+      },
+      { extends: true, test: { name: 'browser', include: BROWSER, ...services } },
+    ],
   },
 });

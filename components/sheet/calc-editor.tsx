@@ -16,8 +16,8 @@ import {
   ViewPlugin,
 } from '@codemirror/view';
 import { useEffect, useRef } from 'react';
-import { calcCompletionSource, type NameAbove } from '@/lib/calc/editor-completions';
-import { calcLanguage, TOKEN_STYLES, TOKEN_TAGS, type CalcTokenKind } from '@/lib/calc/editor-language';
+import { calcCompletionSource, type NameAbove } from './editor-completions';
+import { calcLanguage, TOKEN_STYLES, TOKEN_TAGS, type CalcTokenKind } from './editor-language';
 import { tokens } from '@/tailwind.config';
 
 export interface CalcEditorProps {

@@ -63,7 +63,8 @@ export function numberParts(x: number, sig: number, trailingZeros = true): Numbe
     text = Number(a.toPrecision(sig)).toFixed(Math.max(0, sig - 1 - exponent));
     exponent = 0;
   }
-  let [integer, fraction = ''] = text.split('.');
+  const [integer, fraction0 = ''] = text.split('.');
+  let fraction = fraction0;
   // A whole number drops its fraction's zeros only where they are all there is: written out (250),
   // or as a power of ten that is the number itself (1 × 10²⁰). 3.986004418e14 at six figures stays
   // 3.986 00 × 10¹⁴: "3.986 × 10¹⁴" would claim the digits after 3.986 are zeros.

@@ -474,7 +474,7 @@ function locate(ctx: MessageContext, node: Node, scope: Map<string, unknown>, de
     const unit = unitOf(math, values[unitArg]);
     const example = args
       .map((a, i) =>
-        i === unitArg ? `${/[+\-]/.test(sourceOf(a)) ? `(${sourceOf(a)})` : sourceOf(a)} / (1 ${unit})` : sourceOf(a),
+        i === unitArg ? `${/[+-]/.test(sourceOf(a)) ? `(${sourceOf(a)})` : sourceOf(a)} / (1 ${unit})` : sourceOf(a),
       )
       .join(', ');
     const reference = unit ? ` divide it by a reference quantity first, e.g. \`${fnName}(${example})\`` : '';

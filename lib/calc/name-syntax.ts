@@ -1,5 +1,5 @@
 // The characters of a sheet name, shared by the engine (names.ts, unit-literals.ts) and the editor
-// (editor-language.ts, editor-completions.ts), which must not load mathjs. Greek letters are letters:
+// (components/sheet/editor-language.ts, editor-completions.ts), which must not load mathjs. Greek letters are letters:
 // `γ`, `β`, `Δp`, `θ_1` (mathjs reads U+0370–U+03FF as letters).
 
 /** Greek letters a name may hold: Α–Ω, α–ω and the variants ϑ, ϕ, ϵ. */

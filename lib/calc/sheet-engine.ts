@@ -5,7 +5,7 @@
 import { createHash } from 'node:crypto';
 import type { MathJsInstance, MathNode, Unit } from 'mathjs';
 import { CONSTANTS, CONSTANTS_EDITION } from './constants';
-import { displayValue, formatNumberTex, formatNumberText } from './format';
+import { displayValue, formatNumberTex, formatNumberText, unitTexOf } from './format';
 import { LIBRARY } from './functions';
 import { bindLibrary } from './library-adapter';
 import { bidiRefusalReason, findBidiControl } from './bidi-controls';
@@ -20,12 +20,11 @@ import type {
   DisplayValue,
   EvaluateOptions,
   InputTable,
-  ResolvedReference,
   SheetReference,
   SheetResult,
   StatementResult,
 } from './types';
-import { REFERENCE_FUNCTION, referenceKey } from './references';
+import { REFERENCE_FUNCTION, referenceKey, stripComment } from './references';
 import {
   computeStudy,
   inputUncertainty,
@@ -35,17 +34,14 @@ import {
   siOf,
   type ChainStatement,
 } from './studies';
-import { STUDY_STATEMENTS, type StudyStatement } from './study-functions';
+import { STUDY_STATEMENTS, studyBindings, type StudyStatement } from './study-functions';
 import { ENGINE_VERSION } from './version';
 import { installSizeGuards, LIMITS } from './limits';
 import { extractUnitLiterals, UNIT_PLACEHOLDER_PREFIX, type UnitLiteral } from './unit-literals';
 import { lintExpression, type LintFinding } from './lint';
 import { describeOperand, engineerMessage, notDefined, parseMessage } from './messages';
 import { nonFiniteReason } from './non-finite';
-import { unitTexOf } from './format';
 import { DISPLAY_UNITS_DEFAULT, setDisplayUnits, tradeDisplay } from './display-units';
-import { stripComment } from './references';
-import { studyBindings } from './study-functions';
 
 type AnyNode = MathNode & {
   type: string;
@@ -183,9 +179,11 @@ interface CachedCell {
 export function createSheetEngine(): SheetEngine {
   // The library is bound to a mathjs instance that exists before the engine instance: the adapter
   // only needs `unit`, `isUnit` and `matrix`, which do not depend on the later configuration.
-  let em: EngineMath;
   const bootstrap = createEngineMath([]);
-  em = createEngineMath([...bindLibrary(bootstrap.math, LIBRARY), ...studyBindings(bootstrap.math)], installSizeGuards);
+  const em: EngineMath = createEngineMath(
+    [...bindLibrary(bootstrap.math, LIBRARY), ...studyBindings(bootstrap.math)],
+    installSizeGuards,
+  );
   const math: MathJsInstance = em.math;
 
   const parseCache = new Map<string, ParsedStatement[]>();
@@ -1053,7 +1051,7 @@ export function createSheetEngine(): SheetEngine {
                 );
               } catch (error) {
                 result.uncertainty = null;
-                throw new Error(`the uncertainty cannot be propagated: ${messageOf(error)}`);
+                throw new Error(`the uncertainty cannot be propagated: ${messageOf(error)}`, { cause: error });
               }
             }
           }

@@ -79,11 +79,6 @@ export const STUDY_FUNCTION_DOCS: readonly StudyFunctionDoc[] = [
 
 export function studyBindings(math: MathJsInstance): LibraryBinding[] {
   const isQuantity = (x: unknown): x is Unit => math.isUnit(x) && (x as Unit).value !== null;
-  const si = (x: unknown, fn: string, arg: string): number => {
-    if (typeof x === 'number') return x;
-    if (isQuantity(x)) return x.value as number;
-    throw new Error(`${fn}: ${arg} must be a number or a quantity`);
-  };
   const sameKind = (fn: string, a: unknown, b: unknown, names: [string, string]) => {
     if ((typeof a === 'number') !== (typeof b === 'number') || (isQuantity(a) && isQuantity(b) && !a.equalBase(b))) {
       throw new Error(`${fn}: ${names[0]} and ${names[1]} must be of one dimension`);

@@ -29,12 +29,9 @@ export const errorBodySchema = z.object({
   error: z.object({
     code: z.enum([...(Object.keys(STATUS) as AppErrorCode[]), 'internal']),
     message: z.string().meta({ description: 'Safe to show to the person using the app.' }),
-    details: z
-      .unknown()
-      .optional()
-      .meta({
-        description: 'For 400 the first validation issues, for 409 what the request conflicts with; otherwise null.',
-      }),
+    details: z.unknown().optional().meta({
+      description: 'For 400 the first validation issues, for 409 what the request conflicts with; otherwise null.',
+    }),
   }),
 });
 export type ErrorBody = z.infer<typeof errorBodySchema>;

@@ -50,11 +50,9 @@ export const apiTokenListSchema = z.object({
 
 export const apiTokenCreatedSchema = z.object({
   id: uuid,
-  token: z
-    .string()
-    .meta({
-      description: 'The secret (`wst_…`), shown in this response only; send it as `Authorization: Bearer <token>`.',
-    }),
+  token: z.string().meta({
+    description: 'The secret (`wst_…`), shown in this response only; send it as `Authorization: Bearer <token>`.',
+  }),
   prefix: z.string(),
   scope: z.enum(['read', 'read-write']),
   expires_at: timestamp.meta({ description: 'When the token stops working.' }),
@@ -71,12 +69,10 @@ export const userListSchema = z.object({
       isAdmin: z.boolean(),
       disabledAt: timestamp.nullable(),
       lockedAt: timestamp.nullable().meta({ description: 'When the lock in force began; null when not locked now.' }),
-      lockedUntil: timestamp
-        .nullable()
-        .meta({
-          description:
-            'When a timed lock (after failed passwords) ends; null with lockedAt set: until an administrator unlocks.',
-        }),
+      lockedUntil: timestamp.nullable().meta({
+        description:
+          'When a timed lock (after failed passwords) ends; null with lockedAt set: until an administrator unlocks.',
+      }),
       createdAt: timestamp,
       hasPassword: z.boolean(),
     }),
@@ -361,12 +357,10 @@ export const startCandidatesSchema = z.object({
       title: z.string(),
       version: z.number().int(),
       sha256,
-      kind: z
-        .enum(['starter', 'approved'])
-        .meta({
-          description:
-            'starter: a starter sheet, its latest version; approved: the newest approved version of the sheet.',
-        }),
+      kind: z.enum(['starter', 'approved']).meta({
+        description:
+          'starter: a starter sheet, its latest version; approved: the newest approved version of the sheet.',
+      }),
     }),
   ),
 });
@@ -388,25 +382,20 @@ export const importPreviewSchema = z.object({
   significantFigures: z.number().int(),
   displayUnits: z.enum(['si', 'trade']),
   exportedFrom: z.object({ sheet: z.string(), version: z.number().int(), sha256 }).nullable(),
-  unchangedSinceExport: z
-    .boolean()
-    .nullable()
-    .meta({
-      description:
-        'Whether the file still hashes to the SHA-256 of the version it was exported from; null when it names none.',
-    }),
+  unchangedSinceExport: z.boolean().nullable().meta({
+    description:
+      'Whether the file still hashes to the SHA-256 of the version it was exported from; null when it names none.',
+  }),
   attachments: z.array(
     z.object({
       name: z.string(),
       mediaType: z.string(),
       size: z.number().int(),
       sha256,
-      carried: z
-        .boolean()
-        .meta({
-          description:
-            'True: the file carries the bytes and they match the size and SHA-256 (the import stores them). False: listed only; not imported.',
-        }),
+      carried: z.boolean().meta({
+        description:
+          'True: the file carries the bytes and they match the size and SHA-256 (the import stores them). False: listed only; not imported.',
+      }),
     }),
   ),
 });
@@ -528,12 +517,10 @@ export const checkDetailSchema = z.looseObject({
     .looseObject({ number: z.number().int(), sha256 })
     .nullable()
     .meta({ description: 'The last approved version; null at a first check.' }),
-  comparison: z
-    .looseObject({})
-    .meta({
-      description:
-        'The version against its base: cells (word diffs), results (old, new, relative change), the calculation record and attachments (as GET /api/sheets/{sheetId}/compare).',
-    }),
+  comparison: z.looseObject({}).meta({
+    description:
+      'The version against its base: cells (word diffs), results (old, new, relative change), the calculation record and attachments (as GET /api/sheets/{sheetId}/compare).',
+  }),
   sinceReturn: z
     .looseObject({
       checkId: uuid,
@@ -549,12 +536,9 @@ export const checkDetailSchema = z.looseObject({
         'A re-check after a return: the returned check, its version and the comparison of that version with this one; null otherwise.',
     }),
   verificationMethod: z.enum(['design_review', 'alternate_calculation', 'qualification_test']).nullable(),
-  tolerance: z
-    .number()
-    .nullable()
-    .meta({
-      description: "The checker's relative tolerance for the alternate comparison, as a fraction (0.001 for 0.1 %).",
-    }),
+  tolerance: z.number().nullable().meta({
+    description: "The checker's relative tolerance for the alternate comparison, as a fraction (0.001 for 0.1 %).",
+  }),
   toleranceText: z
     .string()
     .nullable()
@@ -720,12 +704,10 @@ export const verificationSchema = z.object({
     hashInRegister: z.boolean(),
     signatureValid: z.boolean().nullable(),
     signedByOrganisation: z.boolean().nullable(),
-    stampedCopy: z
-      .boolean()
-      .meta({
-        description:
-          'The file is a stamped copy: a registered original as its exact prefix, then a stamp signed by document control.',
-      }),
+    stampedCopy: z.boolean().meta({
+      description:
+        'The file is a stamped copy: a registered original as its exact prefix, then a stamp signed by document control.',
+    }),
   }),
   sha256: sha256.nullable(),
 });

@@ -10,6 +10,7 @@
 //     process (lib/jobs/worker-main.ts) and for setting the queues up.
 import { CompiledQuery, type Kysely } from 'kysely';
 import PgBoss from 'pg-boss';
+import type { Database } from '@/db/schema';
 
 export const JOB_SCHEMA = 'pgboss';
 
@@ -44,11 +45,11 @@ export const QUEUES: Record<string, Omit<PgBoss.Queue, 'name'>> = {
 export type QueueName = keyof typeof QUEUES;
 
 /** pg-boss's connection interface, answered through a Kysely instance or transaction. */
-export function kyselyJobDb(db: Kysely<any>): PgBoss.Db {
+export function kyselyJobDb(db: Kysely<Database>): PgBoss.Db {
   return {
     async executeSql(text: string, values: unknown[] = []) {
       const result = await db.executeQuery(CompiledQuery.raw(text, values));
-      return { rows: result.rows as any[] };
+      return { rows: result.rows as unknown[] };
     },
   };
 }

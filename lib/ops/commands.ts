@@ -31,6 +31,7 @@ import { ensureChromium } from './chromium';
 import { localAuthSecret } from './app-secrets';
 import { buildIfStale } from './next-build';
 import { Supervisor, waitForExit } from './supervisor';
+import { plan, runStages } from './test-tiers';
 import { ensureJobQueues } from '../jobs/queue';
 import { startCaptureServer } from '../mail/capture-server';
 import { mailCapturePort, smtpPort } from '../mail/config';
@@ -197,22 +198,19 @@ async function serve(supervisor: Supervisor, mode: 'start' | 'dev'): Promise<voi
 
 async function test(supervisor: Supervisor, args: string[]): Promise<void> {
   ensureChromium(log);
-  // The vitest global setup starts the test cluster itself (tests/setup/global-setup.ts) and the
-  // browser harness builds and serves the app; this command only runs vitest to the end.
-  const vitest = supervisor.spawn(
-    'vitest',
-    process.execPath,
-    [path.join(root, 'node_modules', 'vitest', 'vitest.mjs'), 'run', '--config', 'tests/vitest.config.ts', ...args],
-    {
-      cwd: root,
-      env: {
-        ...inheritedEnvironment(),
-        NEXT_TELEMETRY_DISABLED: '1',
-        WORLDSHEET_TEST_PG_PORT: String(testClusterPort()),
-      },
-    },
+  // The database and browser tiers' vitest global setup starts the test cluster itself
+  // (tests/setup/global-setup.ts) and the browser harness builds and serves the app; this command runs
+  // the stages (static checks, then the tiers) to the end (lib/ops/test-tiers.ts).
+  const env = {
+    ...inheritedEnvironment(),
+    NEXT_TELEMETRY_DISABLED: '1',
+    WORLDSHEET_TEST_PG_PORT: String(testClusterPort()),
+  };
+  const code = await runStages(
+    plan(args, root),
+    (stage) => waitForExit(supervisor.spawn(stage.name, stage.command[0], stage.command.slice(1), { cwd: root, env })),
+    log,
   );
-  const code = await waitForExit(vitest);
   if (!supervisor.isStopping) process.exit(code);
 }
 

@@ -95,6 +95,17 @@ export async function listAllProjects(db: Kysely<Database>) {
     .execute();
 }
 
+/** The id of a project an administrator names by its id or its code, as members do. */
+export async function projectIdForAdmin(db: Kysely<Database>, idOrCode: string): Promise<string> {
+  const project = await db
+    .selectFrom('projects')
+    .select('id')
+    .where(z.uuid().safeParse(idOrCode).success ? 'id' : 'code', '=', idOrCode)
+    .executeTakeFirst();
+  if (!project) throw new AppError('not_found', 'No such project.');
+  return project.id;
+}
+
 export async function listMembers(db: Kysely<Database>, projectId: string) {
   return db
     .selectFrom('project_members as m')

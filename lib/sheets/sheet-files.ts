@@ -30,24 +30,18 @@ export const SHEET_FILE_MAX_BYTES = 32 * 1024 * 1024;
 /** The query of GET /api/sheets/{sheetId}/export: `?version=n`, or nothing for the latest version. */
 export const exportQuerySchema = z.object({
   version: z.coerce.number().int().positive().max(INT4_MAX).optional(),
-  attachments: z
-    .enum(['include'])
-    .optional()
-    .meta({
-      description:
-        '`include`: carry the bytes of each attachment the version cites (base64), so that an import brings them back.',
-    }),
+  attachments: z.enum(['include']).optional().meta({
+    description:
+      '`include`: carry the bytes of each attachment the version cites (base64), so that an import brings them back.',
+  }),
 });
 
 /** An attachment as a sheet file lists it: the version's citation, with its bytes when carried. */
 export const sheetFileAttachmentSchema = attachmentRefSchema.extend({
-  contentBase64: z
-    .string()
-    .optional()
-    .meta({
-      description:
-        'The bytes, base64: present when the file carries the attachment. An import checks their size and SHA-256.',
-    }),
+  contentBase64: z.string().optional().meta({
+    description:
+      'The bytes, base64: present when the file carries the attachment. An import checks their size and SHA-256.',
+  }),
 });
 
 /** The query of the import: a title that replaces the file's. */

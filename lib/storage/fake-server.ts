@@ -36,6 +36,7 @@ export async function startFakeObjectStore(options: {
     if (code === 'EADDRINUSE') {
       throw new Error(
         `The local object store cannot listen on 127.0.0.1:${options.port}: the port is in use. Stop what uses it, or set another port.`,
+        { cause: error },
       );
     }
     throw error;

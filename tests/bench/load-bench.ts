@@ -19,7 +19,7 @@
 // (3400); it stops everything at the end or on Ctrl-C. WORLDSHEET_BENCH_LOAD_SECONDS sets the first
 // run (60), WORLDSHEET_BENCH_LOAD_REPEAT_SECONDS the two repeats (30),
 // WORLDSHEET_BENCH_HEALTH_SECONDS the health run (15).
-import { spawn, type ChildProcess } from 'node:child_process';
+import type { ChildProcess } from 'node:child_process';
 import { randomBytes } from 'node:crypto';
 import { existsSync, mkdtempSync, readdirSync, readFileSync, rmSync } from 'node:fs';
 import os from 'node:os';

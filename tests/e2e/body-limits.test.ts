@@ -25,7 +25,7 @@ function listeningPid(port: number): number {
   const hexPort = port.toString(16).toUpperCase().padStart(4, '0');
   const inodes = new Set<string>();
   for (const table of ['/proc/net/tcp', '/proc/net/tcp6']) {
-    let text = '';
+    let text: string;
     try {
       text = readFileSync(table, 'utf8');
     } catch {
@@ -37,7 +37,7 @@ function listeningPid(port: number): number {
     }
   }
   for (const pid of readdirSync('/proc').filter((d) => /^\d+$/.test(d))) {
-    let fds: string[] = [];
+    let fds: string[];
     try {
       fds = readdirSync(`/proc/${pid}/fd`);
     } catch {

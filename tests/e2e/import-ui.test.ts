@@ -46,26 +46,22 @@ it('asks for confirmation and a title before creating anything, and brings the c
   await page.goto(`${app.baseUrl}/projects/TPT2`);
   await page.getByText('New sheet', { exact: true }).click();
   // An altered file: refused at once, the attachment named.
-  await page
-    .getByLabel('Import a sheet file (JSON)')
-    .setInputFiles({
-      name: 'altered.json',
-      mimeType: 'application/json',
-      buffer: Buffer.from(JSON.stringify(sheetFile(CSV.replace('250', '260')))),
-    });
+  await page.getByLabel('Import a sheet file (JSON)').setInputFiles({
+    name: 'altered.json',
+    mimeType: 'application/json',
+    buffer: Buffer.from(JSON.stringify(sheetFile(CSV.replace('250', '260')))),
+  });
   await page
     .getByRole('alert')
     .getByText(/energy-scan\.csv in the file does not match its record/)
     .waitFor();
   await session.screenshot('import-refused');
 
-  await page
-    .getByLabel('Import a sheet file (JSON)')
-    .setInputFiles({
-      name: 'scan.json',
-      mimeType: 'application/json',
-      buffer: Buffer.from(JSON.stringify(sheetFile(CSV))),
-    });
+  await page.getByLabel('Import a sheet file (JSON)').setInputFiles({
+    name: 'scan.json',
+    mimeType: 'application/json',
+    buffer: Buffer.from(JSON.stringify(sheetFile(CSV))),
+  });
   const confirm = page.getByRole('form', { name: 'Confirm the import' });
   await confirm.waitFor();
   await confirm.getByText('1 calculation cell and 0 text cells', { exact: false }).waitFor();

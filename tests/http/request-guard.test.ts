@@ -292,7 +292,7 @@ describe('path parameters', () => {
       const source = readFileSync(file, 'utf8');
       const methods = [...source.matchAll(/export\s+(?:async\s+)?function\s+(GET|HEAD|POST|PUT|PATCH|DELETE)\b/g)]
         .length;
-      const guarded = [...source.matchAll(/return handle\(request, /g)].length;
+      const guarded = [...source.matchAll(/return handle\(\s*request\s*,/g)].length;
       if (methods === 0 || methods !== guarded) missing.push(rel);
     }
     expect(missing).toEqual([]);

@@ -4,13 +4,12 @@
 // answers "authentic stamped copy"; a changed byte in the stamp is caught. Also the issued PDF's
 // creation date (the issue time) and language, read with pdfinfo.
 import { execFileSync } from 'node:child_process';
-import { createHash } from 'node:crypto';
 import { mkdirSync, mkdtempSync, writeFileSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import path from 'node:path';
 import zlib from 'node:zlib';
 import { sql } from 'kysely';
-import { PDFArray, PDFDocument, PDFName, PDFRawStream, PDFString } from 'pdf-lib';
+import { PDFArray, PDFDocument, PDFName, type PDFRawStream, PDFString } from 'pdf-lib';
 import { beforeEach, describe, expect, it } from 'vitest';
 import { requestIssue } from '../../lib/issue/request';
 import { processIssueJob } from '../../lib/issue/job';

@@ -32,9 +32,7 @@ afterEach(() => {
 });
 
 // A raw request, so that any header (even the peer header) can be sent as a client would.
-function get(
-  headers: Record<string, string>,
-): Promise<{
+function get(headers: Record<string, string>): Promise<{
   headers: Record<string, string | string[] | undefined>;
   body: { seen: Record<string, string>; address: string };
 }> {

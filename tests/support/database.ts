@@ -1,4 +1,4 @@
-import { Kysely, sql } from 'kysely';
+import { type Kysely, sql } from 'kysely';
 import pg from 'pg';
 import { inject } from 'vitest';
 import { createDb } from '../../db/index';

@@ -74,7 +74,7 @@ export async function waitForMail(
 ): Promise<CapturedMessage> {
   const deadline = Date.now() + timeoutMs;
   let seen: CapturedMessage[] = [];
-  let lastError: Error | null = null;
+  let lastError: Error | null;
   for (;;) {
     try {
       seen = await listCapturedMessages(captureUrl);

@@ -3,8 +3,7 @@
 // it: the markup a screen reader and a keyboard get (WCAG 2.2: 1.1.1 text alternatives, 1.3.1
 // tables with captions and header cells, 1.4.1 not by colour alone, 4.1.3 status messages), and the
 // plot drawn into the page by the client component.
-import { createElement } from 'react';
-import { act } from 'react';
+import { act, createElement } from 'react';
 import { createRoot } from 'react-dom/client';
 import { renderToStaticMarkup } from 'react-dom/server';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';

@@ -1,5 +1,5 @@
 import { finiteResult, requireFinite } from './support/domain';
-import { dd, div, mul, round } from './support/double-double';
+import { dd, mul, round } from './support/double-double';
 import { massiveSpeed } from './support/kinematics';
 import { type CalcFunction, DomainError, type KernelArgument } from './types';
 

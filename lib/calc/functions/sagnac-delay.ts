@@ -1,5 +1,5 @@
 import { requireFinite } from './support/domain';
-import { div, dd, fromDecimal, mulNum, round, scale } from './support/double-double';
+import { div, fromDecimal, mulNum, round, scale } from './support/double-double';
 import { C_SQUARED } from './support/kinematics';
 import type { CalcFunction, KernelArgument } from './types';
 

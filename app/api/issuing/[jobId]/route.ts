@@ -1,6 +1,5 @@
 import { getDb } from '@/db';
-import { requireProjectRole } from '@/lib/auth/current-actor';
-import { requireActor } from '@/lib/auth/current-actor';
+import { requireActor, requireProjectRole } from '@/lib/auth/current-actor';
 import { AppError } from '@/lib/errors/app-error';
 import { routeParams } from '@/lib/http/params';
 import { handle } from '@/lib/http/route';

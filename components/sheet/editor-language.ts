@@ -9,11 +9,11 @@
 // own units), and tests/calc/editor-language.test.ts checks it against the engine's answer.
 import { StreamLanguage, StringStream, type StreamParser } from '@codemirror/language';
 import { tags, type Tag } from '@lezer/highlight';
-import { tokens } from '../../tailwind.config';
-import { CONSTANTS } from './constants';
-import { LIBRARY } from './functions';
-import { readUnitExpression } from './unit-literals';
-import { NAME_CHAR, NAME_START } from './name-syntax';
+import { tokens } from '@/tailwind.config';
+import { CONSTANTS } from '@/lib/calc/constants';
+import { LIBRARY } from '@/lib/calc/functions';
+import { readUnitExpression } from '@/lib/calc/unit-literals';
+import { NAME_CHAR, NAME_START } from '@/lib/calc/name-syntax';
 
 const PREFIXES = {
   none: [''],

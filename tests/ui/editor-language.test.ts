@@ -5,7 +5,13 @@ import { describe, expect, it } from 'vitest';
 import { tokens } from '../../tailwind.config';
 import { createEngineMath } from '../../lib/calc/math-instance';
 import { extractUnitLiterals } from '../../lib/calc/unit-literals';
-import { isUnitName, TOKEN_STYLES, tokenizeCalc, UNIT_TABLE, type CalcTokenKind } from '../../lib/calc/editor-language';
+import {
+  isUnitName,
+  TOKEN_STYLES,
+  tokenizeCalc,
+  UNIT_TABLE,
+  type CalcTokenKind,
+} from '../../components/sheet/editor-language';
 
 // WCAG 2.2 glossary: relative luminance and contrast ratio (as in tests/ui/contrast.test.ts).
 function luminance(hex: string): number {

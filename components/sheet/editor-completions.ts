@@ -2,10 +2,10 @@
 // constants (with their description and provenance) and the relativistic library (with its
 // signature and one-line summary). Pure: no React, no DOM, so tests can call it directly.
 import type { Completion, CompletionContext, CompletionResult, CompletionSource } from '@codemirror/autocomplete';
-import { CONSTANTS } from './constants';
-import { LIBRARY, type CalcFunction } from './functions';
-import { STUDY_FUNCTION_DOCS } from './study-functions';
-import { NAME_CHAR, NAME_START } from './name-syntax';
+import { CONSTANTS } from '@/lib/calc/constants';
+import { LIBRARY, type CalcFunction } from '@/lib/calc/functions';
+import { STUDY_FUNCTION_DOCS } from '@/lib/calc/study-functions';
+import { NAME_CHAR, NAME_START } from '@/lib/calc/name-syntax';
 
 export interface NameAbove {
   name: string;

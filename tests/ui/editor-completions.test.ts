@@ -10,7 +10,7 @@ import {
   completeCalcAt,
   functionSignature,
   inCommentOrString,
-} from '../../lib/calc/editor-completions';
+} from '../../components/sheet/editor-completions';
 import { LIBRARY } from '../../lib/calc/functions';
 
 describe('the options', () => {

@@ -1,0 +1,103 @@
+// `npm test`: the static checks, then the three test tiers of tests/vitest.config.ts one after the other
+// (unit, database, browser), each its own vitest run so only the tiers that need PostgreSQL and the fakes
+// start them. With file arguments (`npm test -- tests/calc/x.test.ts tests/e2e/y.test.ts`) the static
+// checks are skipped and only the tiers holding those files run; `--tier unit|database|browser` runs one.
+// Prints each stage's time at the end.
+import path from 'node:path';
+import { BROWSER, UNIT } from '../../tests/vitest.config';
+
+export const TIERS = ['unit', 'database', 'browser'] as const;
+export type Tier = (typeof TIERS)[number];
+
+/** A glob of the vitest config (`**` for any folders, `*` within a name) as a regular expression. */
+function globPattern(glob: string): RegExp {
+  const body = glob
+    .split(/(\*\*\/|\*)/)
+    .map((part) => (part === '**/' ? '(?:.*/)?' : part === '*' ? '[^/]*' : part.replace(/[.+?^${}()|[\]\\]/g, '\\$&')))
+    .join('');
+  return new RegExp(`^${body}$`);
+}
+const BROWSER_PATTERNS = BROWSER.map(globPattern);
+const UNIT_PATTERNS = UNIT.map(globPattern);
+
+/** Which tier a test file belongs to, by the same globs the vitest projects use. */
+export function tierOf(file: string): Tier {
+  const rel = file.split(path.sep).join('/').replace(/^\.\//, '');
+  if (BROWSER_PATTERNS.some((p) => p.test(rel))) return 'browser';
+  if (UNIT_PATTERNS.some((p) => p.test(rel))) return 'unit';
+  return 'database';
+}
+
+type Stage = { name: string; command: string[] };
+
+/** The stages `npm test` runs for these arguments. */
+export function plan(args: string[], root: string): Stage[] {
+  const node = process.execPath;
+  const bin = (pkg: string, file: string) => path.join(root, 'node_modules', pkg, file);
+  const vitest = (tier: Tier, extra: string[]) => ({
+    name: `${tier} tier`,
+    command: [
+      node,
+      bin('vitest', 'vitest.mjs'),
+      'run',
+      '--config',
+      'tests/vitest.config.ts',
+      '--project',
+      tier,
+      ...extra,
+    ],
+  });
+  const tierFlag = args.indexOf('--tier');
+  const onlyTier = tierFlag >= 0 ? (args[tierFlag + 1] as Tier) : null;
+  if (onlyTier && !TIERS.includes(onlyTier)) throw new Error(`--tier takes one of ${TIERS.join(', ')}`);
+  const rest = tierFlag >= 0 ? args.filter((_, i) => i !== tierFlag && i !== tierFlag + 1) : args;
+  const files = rest.filter((a) => !a.startsWith('-') && /\.test\.ts$|\/$|^tests/.test(a));
+  const flags = rest.filter((a) => !files.includes(a));
+  if (files.length === 0) {
+    const stages: Stage[] = [];
+    if (!onlyTier)
+      stages.push(
+        {
+          name: 'types (tsc --noEmit)',
+          command: [node, bin('typescript', 'bin/tsc'), '--noEmit', '-p', 'tsconfig.json'],
+        },
+        {
+          name: 'lint (eslint)',
+          command: [node, bin('eslint', 'bin/eslint.js'), '-c', '.lint/eslint.config.mjs', '.'],
+        },
+        { name: 'format (prettier --check)', command: [node, bin('prettier', 'bin/prettier.cjs'), '--check', '.'] },
+      );
+    for (const tier of onlyTier ? [onlyTier] : TIERS) stages.push(vitest(tier, flags));
+    return stages;
+  }
+  // A folder argument may hold files of several tiers: give it to each tier, vitest filters by its globs.
+  return TIERS.filter((tier) => (onlyTier ? tier === onlyTier : true))
+    .map((tier) => ({ tier, mine: files.filter((f) => !f.endsWith('.test.ts') || tierOf(f) === tier) }))
+    .filter(({ mine, tier }) => mine.some((f) => f.endsWith('.test.ts') || couldHold(f, tier)))
+    .map(({ tier, mine }) => vitest(tier, ['--passWithNoTests', ...flags, ...mine]));
+}
+
+function couldHold(folder: string, tier: Tier): boolean {
+  const f = folder.replace(/\/$/, '');
+  if (tier === 'browser') return f === 'tests' || f.startsWith('tests/e2e');
+  return !f.startsWith('tests/e2e');
+}
+
+/** Runs the stages in order, stopping at the first failure; logs each stage's time; returns the exit code. */
+export async function runStages(
+  stages: Stage[],
+  run: (stage: Stage) => Promise<number>,
+  log: (line: string) => void,
+): Promise<number> {
+  const times: string[] = [];
+  let code = 0;
+  for (const stage of stages) {
+    log(`── ${stage.name}`);
+    const started = Date.now();
+    code = await run(stage);
+    times.push(`${stage.name} ${((Date.now() - started) / 1000).toFixed(1)} s${code ? ' (failed)' : ''}`);
+    if (code) break;
+  }
+  log(`Times: ${times.join('; ')}`);
+  return code;
+}
