@@ -218,11 +218,11 @@ async function test(supervisor: Supervisor, args: string[]): Promise<void> {
  * The benchmarks, one after the other: the calculation engine, saving versions, issuing and the load on
  * the served app (which run their own PostgreSQL cluster in .data/pg-bench on WORLDSHEET_BENCH_PG_PORT
  * and stop it when done). Each one's output is printed and also written, with the time and the
- * commit, to tests/.artifacts/bench/<name>.txt (git-ignored): the figures of the last run.
+ * commit, to tests/bench/figures/<name>.txt: the figures of the last run.
  */
 async function bench(supervisor: Supervisor): Promise<void> {
   let failed = 0;
-  const folder = path.join(root, 'tests', '.artifacts', 'bench');
+  const folder = path.join(root, 'tests', 'bench', 'figures');
   mkdirSync(folder, { recursive: true });
   const commit = (() => {
     try {
