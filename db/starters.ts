@@ -156,7 +156,7 @@ export function demoStarterSheets(): StarterSheet[] {
             'Brho_C = rigidityFromKineticPerNucleon(T_n, A_C, m_C6, Q_C) to T*m',
             'Brho_limit = 6.6 T*m             # maximum gantry rigidity (demo)',
             'Brho_C < Brho_limit              # design criterion',
-            'T_n_top = kineticPerNucleonFromRigidity(Brho_limit, A_C, m_C6, Q_C) to MeV   # per nucleon: the most the gantry takes',
+            'T_n_top = kineticPerNucleonFromRigidity(Brho_limit, A_C, m_C6, Q_C)   # MeV/u, per nucleon: the most the gantry takes',
           ].join('\n'),
         },
         { id: 'range', kind: 'calc', source: 'sweep(T_n, steps(100 MeV/u, 400 MeV/u, 50 MeV/u), Brho_C)' },

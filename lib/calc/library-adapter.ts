@@ -58,7 +58,10 @@ const KIND_UNITS: Record<
   },
 };
 
-const RETURN_UNITS: Record<Exclude<ReturnKind, 'number' | 'speed' | 'pair-time-length'>, string> = {
+const RETURN_UNITS: Record<
+  Exclude<ReturnKind, 'number' | 'speed' | 'pair-time-length' | 'energy-per-nucleon'>,
+  string
+> = {
   energy: 'J',
   momentum: 'kg m/s',
   time: 's',
@@ -216,6 +219,9 @@ export function bindLibrary(math: MathJsInstance, library: readonly CalcFunction
     const r = result as number;
     if (fn.returns === 'number') return r;
     if (fn.returns === 'speed') return siUnit(r * C, 'm/s');
+    // Per nucleon, shown as the trade writes it (MeV/u, one u per nucleon): an energy per mass, so it can
+    // never be read, converted or added as a total kinetic energy.
+    if (fn.returns === 'energy-per-nucleon') return siUnit(r / M_U, 'MeV/u');
     return siUnit(r, RETURN_UNITS[fn.returns]);
   };
 

@@ -201,6 +201,19 @@ describe('in a sheet: 430 MeV/u is read as per nucleon', () => {
     expect(total.error).toContain('must be an energy');
   });
 
+  it('a per-nucleon result is shown in MeV/u and can never be taken for the total kinetic energy', () => {
+    const [, top, asEnergy, total, back, lower] = run(
+      'm_C = ionMass(M_C12, 6, 6)\nT_n = kineticPerNucleonFromRigidity(6.6 T*m, 12, m_C, 6)\nT_bad = kineticPerNucleonFromRigidity(6.6 T*m, 12, m_C, 6) to MeV\nT = T_n * 12 u to MeV\nB = rigidityFromKineticPerNucleon(T_n, 12, m_C, 6) to T*m\nT_n < 430 MeV/u',
+    );
+    // HIT's carbon gantry, 6.6 T m, takes ¹²C⁶⁺ up to about 430 MeV/u (from memory); computed 427.419 MeV/u
+    expect(top.value?.text?.replace(/\s/g, ' ')).toBe('427.419 MeV/u');
+    expect(asEnergy.error).toContain('cannot convert');
+    // common practice: T = A·Tn (per nucleon), so 12 × 427.419 MeV = 5129.02 MeV
+    expect(total.value?.text?.replace(/\s/g, ' ')).toBe('5129.02 MeV');
+    expectRelative(back.value!.number!, 6.6, 4 * 2 ** -52);
+    expect(lower.value?.text).toBe('true');
+  });
+
   it('the per-u convention is written as an energy per u times the ion mass, with the total-energy functions', () => {
     const [, perU, perNucleon] = run(
       'm_C = ionMass(M_C12, 6, 6)\nT_u = 430 MeV/u * m_C to MeV\nT_n = 12 * 430 MeV to MeV',

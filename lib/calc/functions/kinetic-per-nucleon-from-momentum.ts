@@ -19,7 +19,7 @@ const FN = 'kineticPerNucleonFromMomentum';
  * Domain: p ≥ 0; A an integer 1 … 300; m > 0 and between 0.99 and 1.02 u per nucleon. NaN and
  * ±Infinity are refused.
  *
- * Example: `kineticPerNucleonFromMomentum(12 GeV/c, 12, ionMass(M_C12, 6, 6)) to MeV` → 435.22 MeV (per nucleon).
+ * Example: `kineticPerNucleonFromMomentum(12 GeV/c, 12, ionMass(M_C12, 6, 6))` → 435.22 MeV/u (per nucleon).
  *
  * Source: PDG, Review of Particle Physics (2024), "Kinematics".
  *
@@ -32,15 +32,15 @@ export const kineticPerNucleonFromMomentum: CalcFunction = {
     A_PARAM,
     ION_MASS_PARAM,
   ],
-  returns: 'energy',
+  returns: 'energy-per-nucleon',
   doc: {
     summary: `Kinetic energy per nucleon (T/A) of an ion of mass m and mass number A with momentum p. ${PER_NUCLEON_CONVENTION}`,
     formula:
       'T_n = \\frac{T}{A},\\quad T = \\frac{p^2c^2}{E + mc^2} = pc\\,\\frac{y}{\\sqrt{1+y^2} + 1},\\ y = \\frac{p}{mc}',
     domain:
       'p ≥ 0; A an integer 1 … 300 (mass number); m > 0, between 0.99 u and 1.02 u per nucleon (otherwise refused as swapped or mismatched). NaN and ±Infinity are refused.',
-    example: 'kineticPerNucleonFromMomentum(12 GeV/c, 12, ionMass(M_C12, 6, 6)) to MeV',
-    exampleResult: '435.22 MeV (per nucleon: ¹²C⁶⁺ of 12 GeV/c)',
+    example: 'kineticPerNucleonFromMomentum(12 GeV/c, 12, ionMass(M_C12, 6, 6))',
+    exampleResult: '435.22 MeV/u (per nucleon: ¹²C⁶⁺ of 12 GeV/c)',
     source: PER_NUCLEON_SOURCE,
     numerics:
       'T = p²c²/(E + mc²) without subtraction as in kineticFromMomentum, in double-double; divided by A; rounded once.',

@@ -27,7 +27,7 @@ const FN = 'kineticPerNucleonFromRigidity';
  * Domain: Bρ of the sign of q (0 allowed); A an integer 1 … 300; m > 0 and between 0.99 and 1.02 u
  * per nucleon; q ≠ 0. NaN and ±Infinity are refused.
  *
- * Example: `kineticPerNucleonFromRigidity(6.6 T*m, 12, ionMass(M_C12, 6, 6), 6) to MeV` → 427.42 MeV (per nucleon).
+ * Example: `kineticPerNucleonFromRigidity(6.6 T*m, 12, ionMass(M_C12, 6, 6), 6)` → 427.42 MeV/u (per nucleon).
  *
  * Source: PDG, Review of Particle Physics (2024), "Kinematics" and "Passage of particles through matter".
  *
@@ -41,15 +41,15 @@ export const kineticPerNucleonFromRigidity: CalcFunction = {
     ION_MASS_PARAM,
     CHARGE_STATE_PARAM,
   ],
-  returns: 'energy',
+  returns: 'energy-per-nucleon',
   doc: {
     summary: `Kinetic energy per nucleon (T/A) of an ion of mass m, mass number A and charge q with magnetic rigidity Bρ. ${PER_NUCLEON_CONVENTION}`,
     formula:
       'T_n = \\frac{T}{A},\\quad T = \\frac{p^2c^2}{E + mc^2},\\quad p = |q\\,B\\rho|,\\ E = \\sqrt{p^2c^2 + m^2c^4}',
     domain:
       'Bρ has the sign of q (Bρ = p/q with p ≥ 0) and may be 0; A an integer 1 … 300 (mass number); m > 0, between 0.99 u and 1.02 u per nucleon (otherwise refused as swapped or mismatched); q ≠ 0 (6 or 6 q_e for C⁶⁺). NaN and ±Infinity are refused.',
-    example: 'kineticPerNucleonFromRigidity(6.6 T*m, 12, ionMass(M_C12, 6, 6), 6) to MeV',
-    exampleResult: '427.42 MeV (per nucleon: the most a 6.6 T m beam line takes of ¹²C⁶⁺)',
+    example: 'kineticPerNucleonFromRigidity(6.6 T*m, 12, ionMass(M_C12, 6, 6), 6)',
+    exampleResult: '427.42 MeV/u (per nucleon: the most a 6.6 T m beam line takes of ¹²C⁶⁺)',
     source: PER_NUCLEON_SOURCE,
     numerics:
       'qBρ is an exact (Dekker) product; T = p²c²/(E + mc²) without subtraction as in kineticFromMomentum, in double-double; divided by A; rounded once.',

@@ -52,6 +52,9 @@ export type ParamKind =
  *   rigidity → T m; mass → kg; angle → rad
  * - voltage → V; frequency → Hz; interaction-constant → 1/(V m) (radians of phase per volt-metre of projected potential)
  * - pair-time-length: [t (s), x (m)] for a Lorentz transformation of an event
+ * - energy-per-nucleon: the kernel's J per nucleon → a quantity in MeV/u (the value over m_u): never a
+ *   plain energy, so a per-nucleon result cannot be mistaken for the total kinetic energy (`to MeV` is
+ *   refused as a dimension mismatch; `× A × 1 u` gives the total)
  */
 export type ReturnKind =
   | 'speed'
@@ -67,7 +70,8 @@ export type ReturnKind =
   | 'voltage'
   | 'interaction-constant'
   | 'frequency'
-  | 'pair-time-length';
+  | 'pair-time-length'
+  | 'energy-per-nucleon';
 
 export interface ParamDoc {
   name: string;
