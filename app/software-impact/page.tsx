@@ -1,6 +1,6 @@
 import type { Metadata } from 'next';
 import Link from 'next/link';
-import { UtcTime } from '@/components/data/utc-time';
+import { UtcTime } from '@/components/ui/utc-time';
 import { getDb } from '@/db';
 import { pageActor } from '@/lib/auth/page-guard';
 import { LIBRARY } from '@/lib/calc/functions';

@@ -1,5 +1,6 @@
 'use client';
 
+import { formatUtc } from '@/components/ui/utc-time';
 import { useId, useState } from 'react';
 import useSWR from 'swr';
 import { fetchJson as fetcher } from '@/components/data/fetch-json';
@@ -25,11 +26,6 @@ interface Created {
 }
 
 const SCOPE_TEXT: Record<Scope, string> = { read: 'read only', 'read-write': 'read and write' };
-
-/** `2026-12-03 14:05 UTC`: what the server stored, the same on every machine. */
-function utcMinute(at: string): string {
-  return `${at.slice(0, 10)} ${at.slice(11, 16)} UTC`;
-}
 
 /** Lifetimes offered at creation: the usual ones up to the maximum, and the default. */
 function lifetimes(defaultDays: number, maxDays: number): number[] {
@@ -149,7 +145,7 @@ export function ApiTokensPanel({ defaultDays, maxDays }: { defaultDays: number; 
           <p className="font-bold">Copy this token now: it is shown only once.</p>
           <code className="mt-1 block break-all font-mono text-ink">{created.token}</code>
           <p className="mt-1">
-            {SCOPE_TEXT[created.scope] ?? created.scope}; expires {utcMinute(created.expires_at)}. Send it as{' '}
+            {SCOPE_TEXT[created.scope] ?? created.scope}; expires {formatUtc(created.expires_at)}. Send it as{' '}
             <code className="font-mono">Authorization: Bearer …</code>. It acts with your roles.
           </p>
         </div>
@@ -188,7 +184,7 @@ export function ApiTokensPanel({ defaultDays, maxDays }: { defaultDays: number; 
               <td className="py-2 pr-3 font-mono">{t.prefix}…</td>
               <td className="py-2 pr-3">{SCOPE_TEXT[t.scope] ?? t.scope}</td>
               <td className="py-2 pr-3">{t.created_at.slice(0, 10)}</td>
-              <td className="py-2 pr-3">{utcMinute(t.expires_at)}</td>
+              <td className="py-2 pr-3">{formatUtc(t.expires_at)}</td>
               <td className="py-2 pr-3">{t.last_used_at ? t.last_used_at.slice(0, 16).replace('T', ' ') : 'never'}</td>
               <td className="py-2">
                 {t.revoked_at ? (

@@ -1,5 +1,6 @@
 'use client';
 
+import { formatUtc } from '@/components/ui/utc-time';
 import { useState } from 'react';
 import useSWR from 'swr';
 import { fetchJson as fetcher } from '@/components/data/fetch-json';
@@ -37,11 +38,6 @@ const ROLES = [
   { value: 'controller', label: 'Document controller' },
   { value: 'viewer', label: 'Viewer' },
 ];
-
-/** `2026-12-03 14:05 UTC`, the same on every machine. */
-function utcMinute(iso: string): string {
-  return `${iso.slice(0, 10)} ${iso.slice(11, 16)} UTC`;
-}
 
 function UserAction({
   user,
@@ -124,7 +120,7 @@ export function AdminConsole() {
                   ) : u.lockedAt ? (
                     <span className="text-fail">
                       {u.lockedUntil
-                        ? `locked until ${utcMinute(u.lockedUntil)} (failed passwords)`
+                        ? `locked until ${formatUtc(u.lockedUntil)} (failed passwords)`
                         : 'locked by an administrator'}
                     </span>
                   ) : u.hasPassword ? (

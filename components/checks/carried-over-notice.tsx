@@ -1,4 +1,4 @@
-import { formatUtc } from '@/components/data/utc-time';
+import { formatUtc } from '@/components/ui/utc-time';
 import { carriedFieldsText, type CarriedOver } from '@/lib/checks/carried-over';
 
 /**

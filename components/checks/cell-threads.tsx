@@ -2,7 +2,7 @@
 
 import { useRouter } from 'next/navigation';
 import { useEffect, useId, useRef, useState } from 'react';
-import { UtcTime } from '@/components/data/utc-time';
+import { UtcTime } from '@/components/ui/utc-time';
 import type { CheckDetail } from '@/lib/checks/queries';
 import { VisibleText } from '@/components/data/visible-text';
 import { revealBidiControls } from '@/lib/calc/bidi-controls';

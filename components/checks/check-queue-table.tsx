@@ -1,5 +1,5 @@
 import Link from 'next/link';
-import { UtcTime } from '@/components/data/utc-time';
+import { UtcTime } from '@/components/ui/utc-time';
 import type { listQueue } from '@/lib/checks/queries';
 import { VisibleText } from '@/components/data/visible-text';
 

@@ -1,4 +1,4 @@
-import { UtcTime } from '@/components/data/utc-time';
+import { UtcTime } from '@/components/ui/utc-time';
 
 export interface SignatureRow {
   id: string;

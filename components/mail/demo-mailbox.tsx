@@ -4,11 +4,7 @@
 import { notFound } from 'next/navigation';
 import { splitLinks, type CapturedMessage } from '@/lib/mail/capture-client';
 import type { DemoMailbox as DemoMailboxData } from '@/lib/mail/mailbox';
-
-/** `2026-12-02 09:41:07 UTC`: the same on every machine, unlike a locale format. */
-function formatTime(iso: string): string {
-  return `${iso.slice(0, 10)} ${iso.slice(11, 19)} UTC`;
-}
+import { formatUtc } from '@/components/ui/utc-time';
 
 function MessageText({ text }: { text: string }) {
   return (
@@ -49,7 +45,7 @@ function MessageCard({ message }: { message: CapturedMessage }) {
         <dd className="break-all">{message.from}</dd>
         <dt className="text-ink-muted">Received</dt>
         <dd>
-          <time dateTime={message.date}>{formatTime(message.date)}</time>
+          <time dateTime={message.date}>{formatUtc(message.date, true)}</time>
         </dd>
       </dl>
       {message.text ? (
@@ -157,7 +153,7 @@ export function DemoMailbox({ mailbox }: { mailbox: DemoMailboxData }) {
                         </a>
                       </th>
                       <td className="whitespace-nowrap py-2 font-mono text-xs">
-                        <time dateTime={m.date}>{formatTime(m.date)}</time>
+                        <time dateTime={m.date}>{formatUtc(m.date, true)}</time>
                       </td>
                     </tr>
                   ))}

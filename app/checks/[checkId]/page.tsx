@@ -9,7 +9,7 @@ import { DecisionPanel } from '@/components/checks/decision-panel';
 import { EvidenceSummary } from '@/components/checks/evidence-summary';
 import { RecordChanges } from '@/components/sheet/record-changes';
 import { SignatureList } from '@/components/checks/signatures';
-import { UtcTime } from '@/components/data/utc-time';
+import { UtcTime } from '@/components/ui/utc-time';
 import { MarkdownView } from '@/components/sheet/markdown-view';
 import { SourceDiff } from '@/components/sheet/source-diff';
 import { CautionNotice, SafetyRelatedNotice } from '@/components/shell/caution-notice';

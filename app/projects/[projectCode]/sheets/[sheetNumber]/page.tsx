@@ -4,7 +4,7 @@ import { notFound } from 'next/navigation';
 import { SignatureList, SignatureTable, type SignatureRow } from '@/components/checks/signatures';
 import { StatusBadge } from '@/components/checks/status-badge';
 import { SubmitForCheckForm } from '@/components/checks/submit-for-check-form';
-import { UtcTime } from '@/components/data/utc-time';
+import { UtcTime } from '@/components/ui/utc-time';
 import { MarkdownView } from '@/components/sheet/markdown-view';
 import { SupersededInputs } from '@/components/sheet/superseded-inputs';
 import { VersionPicker } from '@/components/sheet/version-picker';

@@ -1,7 +1,7 @@
 import type { Metadata } from 'next';
 import Link from 'next/link';
 import { notFound } from 'next/navigation';
-import { UtcTime } from '@/components/data/utc-time';
+import { UtcTime } from '@/components/ui/utc-time';
 import { SupersededInputs } from '@/components/sheet/superseded-inputs';
 import { getDb } from '@/db';
 import { pageParams } from '@/lib/http/params';
