@@ -11,15 +11,10 @@ import {
   type Facet,
 } from '@/lib/sheets/software-impact';
 import { VisibleText } from '@/components/data/visible-text';
+import { StatusBadge } from '@/components/ui/status-badge';
 
 export const metadata: Metadata = { title: 'Software impact' };
 export const dynamic = 'force-dynamic';
-
-const STATUS_STYLE: Record<string, string> = {
-  current: 'bg-pass-soft text-pass',
-  superseded: 'bg-caution-soft text-caution',
-  withdrawn: 'bg-fail-soft text-fail',
-};
 
 const counted = (f: Facet) =>
   `${f.value} — ${f.versions} ${f.versions === 1 ? 'version' : 'versions'}, ${f.revisions} ${f.revisions === 1 ? 'revision' : 'revisions'}`;
@@ -216,12 +211,7 @@ export default async function SoftwareImpactPage({ searchParams }: { searchParam
                       <td className="px-3 py-2 whitespace-nowrap">
                         {r.revision ? (
                           <>
-                            {r.revision}{' '}
-                            <span
-                              className={`rounded px-1 text-xs font-bold ${STATUS_STYLE[r.revisionStatus ?? 'current']}`}
-                            >
-                              {r.revisionStatus}
-                            </span>
+                            {r.revision} <StatusBadge status={r.revisionStatus} compact />
                           </>
                         ) : (
                           'not issued'

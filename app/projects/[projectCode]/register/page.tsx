@@ -6,15 +6,10 @@ import { pageProject } from '@/lib/auth/page-guard';
 import { listRevisions, registerQuerySchema } from '@/lib/issue/register';
 import { revisionInputFlags } from '@/lib/sheets/impact';
 import { VisibleText } from '@/components/data/visible-text';
+import { StatusBadge } from '@/components/ui/status-badge';
 
 export const metadata: Metadata = { title: 'Document register' };
 export const dynamic = 'force-dynamic';
-
-const STATUS_STYLE: Record<string, string> = {
-  current: 'bg-pass-soft text-pass',
-  superseded: 'bg-caution-soft text-caution',
-  withdrawn: 'bg-fail-soft text-fail',
-};
 
 export default async function ProjectRegisterPage({
   params,
@@ -133,9 +128,7 @@ export default async function ProjectRegisterPage({
                   </td>
                   <td className="px-3 py-2 font-semibold">{r.revision}</td>
                   <td className="px-3 py-2">
-                    <span className={`rounded px-1.5 py-0.5 text-xs font-bold ${STATUS_STYLE[r.status]}`}>
-                      {r.status}
-                    </span>
+                    <StatusBadge status={r.status} />
                     {r.supersededBy ? <div className="text-xs text-ink-muted">by revision {r.supersededBy}</div> : null}
                     {r.withdrawnReason ? <div className="text-xs text-ink-muted">{r.withdrawnReason}</div> : null}
                     {stale.has(r.id) ? (

@@ -10,15 +10,10 @@ import { sheetImpact, supersededInputs, type ImpactDependent } from '@/lib/sheet
 import { formatSheetNumber } from '@/lib/sheets/sheet-number';
 import { getSheetByNumber, listVersions } from '@/lib/sheets/sheets';
 import { VisibleText } from '@/components/data/visible-text';
+import { StatusBadge } from '@/components/ui/status-badge';
 
 export const metadata: Metadata = { title: 'Impact' };
 export const dynamic = 'force-dynamic';
-
-const STATUS_STYLE: Record<string, string> = {
-  current: 'bg-pass-soft text-pass',
-  superseded: 'bg-caution-soft text-caution',
-  withdrawn: 'bg-fail-soft text-fail',
-};
 
 function LatestState({ d }: { d: ImpactDependent }) {
   return (
@@ -85,7 +80,7 @@ export default async function ImpactPage({
         <section key={r.id} aria-labelledby={`rev-${r.id}`} className="space-y-2">
           <h2 id={`rev-${r.id}`} className="flex flex-wrap items-baseline gap-2 text-lg font-bold">
             Revision {r.revision}
-            <span className={`rounded px-1.5 py-0.5 text-xs font-bold ${STATUS_STYLE[r.status]}`}>{r.status}</span>
+            <StatusBadge status={r.status} />
             <span className="text-sm font-normal text-ink-muted">
               version {r.versionNumber}, issued <UtcTime iso={r.issuedAt} />
             </span>
@@ -158,10 +153,7 @@ export default async function ImpactPage({
                           ? '—'
                           : d.issuedAs.map((x) => (
                               <div key={x.id} className="whitespace-nowrap">
-                                rev {x.revision}{' '}
-                                <span className={`rounded px-1 text-xs font-bold ${STATUS_STYLE[x.status]}`}>
-                                  {x.status}
-                                </span>
+                                rev {x.revision} <StatusBadge status={x.status} compact />
                               </div>
                             ))}
                       </td>
