@@ -4,6 +4,7 @@ import { formatUtc } from '@/components/ui/utc-time';
 import { useId, useState } from 'react';
 import useSWR from 'swr';
 import { fetchJson as fetcher } from '@/components/data/fetch-json';
+import { primaryButton } from '@/components/ui/button';
 
 type Scope = 'read' | 'read-write';
 
@@ -124,11 +125,7 @@ export function ApiTokensPanel({ defaultDays, maxDays }: { defaultDays: number; 
             ))}
           </select>
         </div>
-        <button
-          type="submit"
-          disabled={state.kind === 'busy'}
-          className="rounded bg-accent px-4 py-2 font-semibold text-surface hover:bg-accent-hover disabled:opacity-60"
-        >
+        <button type="submit" disabled={state.kind === 'busy'} className={primaryButton}>
           {state.kind === 'busy' ? 'Working…' : 'Create a token'}
         </button>
         <p

@@ -3,6 +3,7 @@
 import { signIn } from 'next-auth/react';
 import { useRouter } from 'next/navigation';
 import { useState } from 'react';
+import { primaryButton } from '@/components/ui/button';
 
 /** Uses a sign-in link only when the person presses the button: mail scanners that open links do not spend it. */
 export function LinkSignIn({ token }: { token: string }) {
@@ -22,12 +23,7 @@ export function LinkSignIn({ token }: { token: string }) {
   }
   return (
     <div className="space-y-3">
-      <button
-        type="button"
-        onClick={go}
-        disabled={busy}
-        className="rounded bg-accent px-4 py-2 font-semibold text-surface hover:bg-accent-hover disabled:opacity-60"
-      >
+      <button type="button" onClick={go} disabled={busy} className={primaryButton}>
         {busy ? 'Signing in…' : 'Sign in to Worldsheet'}
       </button>
       <p role="alert" aria-live="assertive" className="text-sm text-fail">

@@ -5,6 +5,7 @@ import { useRouter } from 'next/navigation';
 import { useId, useState } from 'react';
 import { JsonForm } from '@/components/forms/json-form';
 import { safeSameOriginPath } from '@/lib/http/same-origin';
+import { primaryButton } from '@/components/ui/button';
 
 export function SignInForm({
   callbackUrl,
@@ -72,11 +73,7 @@ export function SignInForm({
               className="w-full rounded border border-rule-strong bg-surface px-3 py-2"
             />
           </div>
-          <button
-            type="submit"
-            disabled={busy}
-            className="rounded bg-accent px-4 py-2 font-semibold text-surface hover:bg-accent-hover disabled:opacity-60"
-          >
+          <button type="submit" disabled={busy} className={primaryButton}>
             {busy ? 'Signing in…' : 'Sign in'}
           </button>
           <p id={`${id}-error`} role="alert" aria-live="assertive" className="text-sm text-fail">

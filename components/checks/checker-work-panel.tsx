@@ -11,6 +11,7 @@ import type { CarriedOver } from '@/lib/checks/carried-over';
 import { AlternateComparisonTable } from './alternate-comparison-table';
 import { CarriedMark, CarriedOverNotice } from './carried-over-notice';
 import type { Cell } from '@/lib/sheets/content';
+import { primaryButton } from '@/components/ui/button';
 
 type Status = { kind: 'idle' | 'busy' } | { kind: 'done' | 'error'; text: string };
 
@@ -318,12 +319,7 @@ export function CheckerWorkPanel({
         </div>
       </div>
       <div className="flex flex-wrap items-center gap-3">
-        <button
-          type="button"
-          onClick={save}
-          disabled={status.kind === 'busy'}
-          className="rounded bg-accent px-4 py-2 font-semibold text-surface hover:bg-accent-hover disabled:opacity-60"
-        >
+        <button type="button" onClick={save} disabled={status.kind === 'busy'} className={primaryButton}>
           {status.kind === 'busy' ? 'Saving…' : 'Save and evaluate'}
         </button>
         <p

@@ -3,6 +3,7 @@
 import { useRouter } from 'next/navigation';
 import { useId, useState } from 'react';
 import type { Decision } from '@/lib/checks/workflow';
+import { primaryButton } from '@/components/ui/button';
 
 type Action = Decision['action'];
 type Outcome = { kind: 'idle' | 'busy' } | { kind: 'done'; text: string } | { kind: 'error'; text: string };
@@ -120,11 +121,7 @@ export function DecisionPanel({
         autoComplete="current-password"
         className="w-full rounded border border-rule-strong bg-surface px-3 py-2"
       />
-      <button
-        type="submit"
-        disabled={busy}
-        className="rounded bg-accent px-4 py-2 font-semibold text-surface hover:bg-accent-hover disabled:opacity-60"
-      >
+      <button type="submit" disabled={busy} className={primaryButton}>
         {button}
       </button>
     </form>

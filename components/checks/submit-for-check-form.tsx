@@ -2,6 +2,7 @@
 
 import { useRouter } from 'next/navigation';
 import { useId, useState } from 'react';
+import { primaryButton } from '@/components/ui/button';
 
 export interface CheckerOption {
   userId: string;
@@ -217,11 +218,7 @@ export function SubmitForCheckForm({
               className="w-full rounded border border-rule-strong bg-surface px-3 py-2"
             />
           </div>
-          <button
-            type="submit"
-            disabled={status.kind === 'busy' || !anyEligible}
-            className="rounded bg-accent px-4 py-2 font-semibold text-surface hover:bg-accent-hover disabled:opacity-60"
-          >
+          <button type="submit" disabled={status.kind === 'busy' || !anyEligible} className={primaryButton}>
             {status.kind === 'busy' ? 'Submitting…' : 'Submit for check'}
           </button>
         </form>

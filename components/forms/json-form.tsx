@@ -1,6 +1,7 @@
 'use client';
 
 import { useId, useState } from 'react';
+import { primaryButton } from '@/components/ui/button';
 
 export interface FieldSpec {
   name: string;
@@ -111,11 +112,7 @@ export function JsonForm({
           </div>
         );
       })}
-      <button
-        type="submit"
-        disabled={state.kind === 'busy'}
-        className="rounded bg-accent px-4 py-2 font-semibold text-surface hover:bg-accent-hover disabled:opacity-60"
-      >
+      <button type="submit" disabled={state.kind === 'busy'} className={primaryButton}>
         {state.kind === 'busy' ? 'Working…' : submitLabel}
       </button>
       <p

@@ -4,6 +4,7 @@ import { useRouter } from 'next/navigation';
 import { useState } from 'react';
 import useSWR from 'swr';
 import { fetchJson } from '@/components/data/fetch-json';
+import { primaryButton } from '@/components/ui/button';
 
 interface JobStatus {
   id: string;
@@ -113,11 +114,7 @@ export function IssuePanel({
               className="rounded border border-rule-strong bg-surface px-2 py-1.5"
             />
           </div>
-          <button
-            type="submit"
-            disabled={busy || !password}
-            className="rounded bg-accent px-4 py-2 font-semibold text-surface hover:bg-accent-hover disabled:opacity-60"
-          >
+          <button type="submit" disabled={busy || !password} className={primaryButton}>
             {busy ? 'Signing…' : `Issue as revision ${nextRevision}`}
           </button>
         </form>

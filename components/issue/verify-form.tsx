@@ -3,6 +3,7 @@
 import { useState } from 'react';
 import type { VerificationAnswer } from '@/lib/issue/verification';
 import { VisibleText } from '@/components/data/visible-text';
+import { primaryButton } from '@/components/ui/button';
 
 /** Upload a PDF or type a verification code; the server says whether it is an authentic issued revision. */
 export function VerifyForm() {
@@ -75,11 +76,7 @@ export function VerifyForm() {
             placeholder="K7QF-2M9D-XW4T"
             className="w-full rounded border border-rule-strong bg-surface px-3 py-2 font-mono"
           />
-          <button
-            type="submit"
-            disabled={state.kind === 'busy'}
-            className="rounded bg-accent px-4 py-2 font-semibold text-surface hover:bg-accent-hover disabled:opacity-60"
-          >
+          <button type="submit" disabled={state.kind === 'busy'} className={primaryButton}>
             Look it up
           </button>
         </form>

@@ -12,6 +12,7 @@ import { RecordListsEditor } from './record-lists-editor';
 import type { SheetResult } from '@/lib/calc/types';
 import { DISPLAY_UNITS, DISPLAY_UNITS_DEFAULT, DISPLAY_UNITS_LABEL, type DisplayUnits } from '@/lib/calc/display-units';
 import type { Cell, VersionContent } from '@/lib/sheets/content';
+import { primaryButton } from '@/components/ui/button';
 
 interface Props {
   sheetId: string;
@@ -392,7 +393,7 @@ export function SheetEditor({ sheetId, projectCode, sheetNumber, base }: Props) 
           type="button"
           onClick={save}
           disabled={!message.trim() || status.kind === 'saving'}
-          className="rounded bg-accent px-4 py-2 font-semibold text-surface hover:bg-accent-hover disabled:opacity-60"
+          className={primaryButton}
         >
           {status.kind === 'saving' ? 'Saving…' : 'Save version'}
         </button>

@@ -2,6 +2,7 @@
 
 import { useRouter } from 'next/navigation';
 import { useId, useState } from 'react';
+import { primaryButton } from '@/components/ui/button';
 
 export interface StartOption {
   sheetId: string;
@@ -118,11 +119,7 @@ export function StartFromForm({
           className="w-full rounded border border-rule-strong bg-surface px-3 py-2"
         />
       </div>
-      <button
-        type="submit"
-        disabled={state.busy || !option || !title.trim()}
-        className="rounded bg-accent px-4 py-2 font-semibold text-surface hover:bg-accent-hover disabled:opacity-60"
-      >
+      <button type="submit" disabled={state.busy || !option || !title.trim()} className={primaryButton}>
         Start the new sheet
       </button>
       <p role="alert" aria-live="polite" className="text-sm text-fail">
