@@ -1,8 +1,12 @@
 // Three tiers, run one after the other by `npm test` (lib/ops/test-tiers.ts) and each on its own with
 // `npm run test:unit`, `test:database`, `test:browser`:
-//   unit      pure code: files in parallel, no PostgreSQL, no fakes, no table truncation;
+//   unit      pure code: files in parallel, no PostgreSQL, no fakes, no table truncation, no server or
+//             worker processes of its own (the PDF tests only read their output with poppler's tools);
+//             one module cache per worker (isolate: false), so mathjs and the library load once;
 //   database  the real PostgreSQL test cluster, mail capture and object store (tests/setup/), one file at a
-//             time because the files share one database and reset it between tests;
+//             time because the files share one database and reset it between tests; also tests/processes/,
+//             the tests that start processes of their own (the calculation CLI, the sandbox's time and
+//             memory limits): not pure code, and their time is spent waiting on those processes;
 //   browser   the built app in headless Chromium and over HTTP (tests/e2e/), on the same services.
 // A new pure test goes in a unit folder (or the UNIT list); anything else lands in the database tier.
 import path from 'node:path';
@@ -54,7 +58,10 @@ export default defineConfig({
     testTimeout: 30_000,
     hookTimeout: 600_000,
     projects: [
-      { extends: true, test: { name: 'unit', include: UNIT } },
+      {
+        extends: true,
+        test: { name: 'unit', include: UNIT, isolate: false, setupFiles: ['tests/setup/unit-file.ts'] },
+      },
       {
         extends: true,
         test: { name: 'database', include: ['tests/**/*.test.ts'], exclude: [...UNIT, ...BROWSER], ...services },

@@ -13,6 +13,9 @@ describe('test tiers', () => {
     expect(tierOf('tests/e2e/journey.test.ts')).toBe('browser');
     expect(tierOf('tests/http/csp-reports.test.ts')).toBe('database');
     expect(tierOf('tests/checks/workflow.test.ts')).toBe('database');
+    // Tests that start processes of their own wait on them: not in the fast tier.
+    expect(tierOf('tests/processes/sandbox.test.ts')).toBe('database');
+    expect(tierOf('tests/processes/calc-cli.test.ts')).toBe('database');
     expect(tierOf(path.join('.', 'tests', 'ui', 'contrast.test.ts'))).toBe('unit');
   });
 

@@ -1,6 +1,7 @@
 // The linter enforces the architecture's walls (.lint/walls.mjs): each wall is shown broken by a small
-// fixture linted as if it lived at the path it names, and kept by its allowed counterpart. Also the
-// whole tree lints clean, so `.ci/run` fails on a broken wall or a lint error.
+// fixture linted as if it lived at the path it names, and kept by its allowed counterpart. The whole tree
+// is linted by npm test's lint stage (lib/ops/test-tiers.ts), before the tiers, so `.ci/run` fails on a
+// broken wall or a lint error (tests/lint/test-tiers.test.ts checks the stage is there).
 import path from 'node:path';
 import { ESLint } from 'eslint';
 import { describe, expect, it } from 'vitest';
@@ -100,16 +101,4 @@ describe('the walls between the layers', () => {
       ),
     ).toHaveLength(1);
   });
-});
-
-describe('the whole tree', () => {
-  it('lints clean (including every wall)', async () => {
-    const results = await eslint.lintFiles(['.']);
-    const problems = results.flatMap((r) =>
-      r.messages.map(
-        (m) => `${path.relative(root, r.filePath)}:${m.line}:${m.column} ${m.ruleId ?? 'fatal'}: ${m.message}`,
-      ),
-    );
-    expect(problems).toEqual([]);
-  }, 300_000);
 });

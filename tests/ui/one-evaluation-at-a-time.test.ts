@@ -1,6 +1,6 @@
 // The editor and scratch pad send one evaluation at a time and skip input overtaken while waiting,
 // so one person typing never runs past their share of the evaluation workers (common practice for
-// "latest wins" requests; the share itself is tested in tests/calc/sandbox.test.ts).
+// "latest wins" requests; the share itself is tested in tests/processes/sandbox.test.ts).
 import { expect, it } from 'vitest';
 import { oneAtATime, SupersededEvaluation } from '../../components/calc/one-evaluation-at-a-time';
 
