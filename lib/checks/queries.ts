@@ -15,10 +15,9 @@ import { getVersion } from '@/lib/sheets/sheets';
 import { compareAlternate } from './alternate-comparison';
 import { readCarriedOver } from './carried-over';
 import { policyFor, requireCheck, threadRoots } from './context';
-import { participants, person, versionSafetyFlag } from './participants';
+import { person, versionSafetyFlag } from './participants';
 import { offeredDecisions, seesEvidenceSummary } from './policy';
 import { returnedCheckBefore } from './recheck';
-import { approverRefusal } from './rules';
 import { listSignatures } from './signing';
 import { statusOf } from './status';
 import { checkDesignInputs } from './submission-findings';
@@ -183,10 +182,6 @@ export async function listQueue(db: Kysely<Database>, actor: Actor, queue: 'chec
       'c.version_sha256',
       'c.created_at',
       'c.updated_at',
-      'c.checker_id',
-      'c.submitted_by as submitter_id',
-      'c.base_version_number',
-      'c.sheet_id',
       's.number',
       's.title',
       'p.code',
@@ -214,13 +209,11 @@ export async function listQueue(db: Kysely<Database>, actor: Actor, queue: 'chec
     let eligible = true;
     let reason: string | null = null;
     if (queue === 'approval') {
-      const who = await participants(db, r.sheet_id, r.base_version_number, r.version_number, {
-        preparerId: r.submitter_id,
-        checkerId: r.checker_id,
-      });
-      const refusal = approverRefusal({ userId: actor.userId, name: actor.name, roles: ['approver'] }, who);
-      eligible = refusal === null;
-      reason = refusal?.message ?? null;
+      // The policy's own answer, as the check view shows it and the server enforces it.
+      const { check, roles } = await requireCheck(db, actor, r.id);
+      const approve = (await policyFor(db, check, actor, roles)).policy.approve;
+      eligible = approve.allowed;
+      reason = approve.allowed ? null : approve.reason;
     }
     out.push({
       id: r.id,

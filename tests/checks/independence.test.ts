@@ -150,6 +150,9 @@ describe('the person who submits (signs "prepared") counts', () => {
     const detail = await getCheckDetail(testDb(), w.multi, id);
     expect(detail.you.actions).toEqual([]);
     expect(detail.you.approverRefusal).toMatch(/its preparer/);
+    // One rule: the queue, the check view and the refused decision give the same words.
+    expect((await listQueue(testDb(), w.multi, 'approval'))[0].reason).toBe(detail.you.approverRefusal);
+    expect(detail.you.approverRefusal).toBe(e.message);
     expect(
       await testDb().selectFrom('signatures').select('meaning').where('user_id', '=', w.multi.userId).execute(),
     ).toEqual([{ meaning: 'prepared' }]);
