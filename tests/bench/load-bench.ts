@@ -15,7 +15,8 @@
 //
 // It runs its own PostgreSQL cluster (`.data/pg-bench/`, port WORLDSHEET_BENCH_PG_PORT or 54369) with
 // a fresh database, the local object store (WORLDSHEET_BENCH_S3_PORT, 4618), and the app built into
-// `.next-bench/` (rebuilt only when the sources changed) on 127.0.0.1:WORLDSHEET_BENCH_APP_PORT
+// `.next-bench/` or WORLDSHEET_BENCH_DIST_DIR (rebuilt only when the sources changed; .ci/run names the
+// test tiers' build folder, just built from the same sources) on 127.0.0.1:WORLDSHEET_BENCH_APP_PORT
 // (3400); it stops everything at the end or on Ctrl-C. WORLDSHEET_BENCH_LOAD_SECONDS sets the first
 // run (60), WORLDSHEET_BENCH_LOAD_REPEAT_SECONDS the two repeats (30),
 // WORLDSHEET_BENCH_HEALTH_SECONDS the health run (15).
@@ -45,7 +46,7 @@ import { makeUser } from '../support/people';
 
 const root = path.resolve(path.dirname(fileURLToPath(import.meta.url)), '..', '..');
 const DATABASE = 'worldsheet_load_bench';
-const DIST_DIR = '.next-bench';
+const DIST_DIR = process.env.WORLDSHEET_BENCH_DIST_DIR || '.next-bench';
 const USERS = 50;
 const FIRST_SECONDS = Number(process.env.WORLDSHEET_BENCH_LOAD_SECONDS ?? 60);
 const REPEAT_SECONDS = Number(process.env.WORLDSHEET_BENCH_LOAD_REPEAT_SECONDS ?? 30);
