@@ -3,6 +3,7 @@ import Link from 'next/link';
 import { getDb } from '@/db';
 import { pageActor } from '@/lib/auth/page-guard';
 import { listProjectsFor, ROLE_LABELS } from '@/lib/projects/projects';
+import { Table, Td, Th } from '@/components/ui/table';
 
 export const metadata: Metadata = { title: 'Projects' };
 export const dynamic = 'force-dynamic';
@@ -25,31 +26,20 @@ export default async function ProjectsPage() {
           You are not a member of any project yet. An administrator gives roles per project.
         </p>
       ) : (
-        <table className="w-full border-collapse text-sm">
-          <caption className="sr-only">Projects</caption>
+        <Table caption="Projects">
           <thead>
             <tr className="border-b border-rule-strong text-left">
-              <th scope="col" className="py-2 pr-4">
-                Code
-              </th>
-              <th scope="col" className="py-2 pr-4">
-                Name
-              </th>
-              <th scope="col" className="py-2 pr-4">
-                Legal owner
-              </th>
-              <th scope="col" className="py-2 pr-4">
-                Revisions
-              </th>
-              <th scope="col" className="py-2">
-                Your roles
-              </th>
+              <Th className="py-2 pr-4">Code</Th>
+              <Th className="py-2 pr-4">Name</Th>
+              <Th className="py-2 pr-4">Legal owner</Th>
+              <Th className="py-2 pr-4">Revisions</Th>
+              <Th className="py-2">Your roles</Th>
             </tr>
           </thead>
           <tbody>
             {projects.map((p) => (
               <tr key={p.id} className="border-b border-rule">
-                <td className="py-2 pr-4 font-mono">
+                <Td className="py-2 pr-4 font-mono">
                   {p.roles.length ? (
                     <Link href={`/projects/${p.code}`} className="font-semibold text-accent underline">
                       {p.code}
@@ -57,17 +47,17 @@ export default async function ProjectsPage() {
                   ) : (
                     p.code
                   )}
-                </td>
-                <td className="py-2 pr-4">{p.name}</td>
-                <td className="py-2 pr-4">{p.legal_owner}</td>
-                <td className="py-2 pr-4">{p.revision_scheme === 'letters' ? 'A, B, C …' : '0, 1, 2 …'}</td>
-                <td className="py-2">
+                </Td>
+                <Td className="py-2 pr-4">{p.name}</Td>
+                <Td className="py-2 pr-4">{p.legal_owner}</Td>
+                <Td className="py-2 pr-4">{p.revision_scheme === 'letters' ? 'A, B, C …' : '0, 1, 2 …'}</Td>
+                <Td className="py-2">
                   {p.roles.length ? p.roles.map((r) => ROLE_LABELS[r]).join(', ') : '— (administration only)'}
-                </td>
+                </Td>
               </tr>
             ))}
           </tbody>
-        </table>
+        </Table>
       )}
     </div>
   );

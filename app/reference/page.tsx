@@ -8,6 +8,7 @@ import { NAME_EXAMPLES } from '@/lib/calc/reference-examples';
 import { STUDY_FUNCTION_DOCS } from '@/lib/calc/study-functions';
 import { ENGINE_VERSION } from '@/lib/calc/version';
 import { DISPLAY_UNITS_LABEL, UNIT_EXAMPLES } from '@/lib/calc/display-units';
+import { Table, Td, Th } from '@/components/ui/table';
 
 export const metadata: Metadata = { title: 'Function reference' };
 
@@ -45,47 +46,32 @@ export default function ReferencePage() {
         <h2 id="constants" className="text-xl font-bold">
           Constants
         </h2>
-        <div className="mt-3 overflow-x-auto">
-          <table className="w-full border-collapse text-sm">
-            <caption className="sr-only">Built-in constants with their provenance</caption>
-            <thead>
-              <tr className="border-b border-rule-strong text-left">
-                <th scope="col" className="py-2 pr-4">
-                  Name
-                </th>
-                <th scope="col" className="py-2 pr-4">
-                  Quantity
-                </th>
-                <th scope="col" className="py-2 pr-4">
-                  Value
-                </th>
-                <th scope="col" className="py-2 pr-4">
-                  Standard uncertainty
-                </th>
-                <th scope="col" className="py-2">
-                  Provenance
-                </th>
+        <Table caption="Built-in constants with their provenance" box="mt-3">
+          <thead>
+            <tr className="border-b border-rule-strong text-left">
+              <Th className="py-2 pr-4">Name</Th>
+              <Th className="py-2 pr-4">Quantity</Th>
+              <Th className="py-2 pr-4">Value</Th>
+              <Th className="py-2 pr-4">Standard uncertainty</Th>
+              <Th className="py-2">Provenance</Th>
+            </tr>
+          </thead>
+          <tbody>
+            {CONSTANTS.map((k) => (
+              <tr key={k.name} className="border-b border-rule align-top">
+                <Td className="py-2 pr-4 font-mono">{k.name}</Td>
+                <Td className="py-2 pr-4">
+                  <TexMath tex={k.tex} /> {k.description}
+                </Td>
+                <Td className="py-2 pr-4 font-mono">
+                  {k.value} {k.unit}
+                </Td>
+                <Td className="py-2 pr-4 font-mono">{k.uncertainty === 0 ? 'exact' : `${k.uncertainty} ${k.unit}`}</Td>
+                <Td className="py-2">{k.provenance}</Td>
               </tr>
-            </thead>
-            <tbody>
-              {CONSTANTS.map((k) => (
-                <tr key={k.name} className="border-b border-rule align-top">
-                  <td className="py-2 pr-4 font-mono">{k.name}</td>
-                  <td className="py-2 pr-4">
-                    <TexMath tex={k.tex} /> {k.description}
-                  </td>
-                  <td className="py-2 pr-4 font-mono">
-                    {k.value} {k.unit}
-                  </td>
-                  <td className="py-2 pr-4 font-mono">
-                    {k.uncertainty === 0 ? 'exact' : `${k.uncertainty} ${k.unit}`}
-                  </td>
-                  <td className="py-2">{k.provenance}</td>
-                </tr>
-              ))}
-            </tbody>
-          </table>
-        </div>
+            ))}
+          </tbody>
+        </Table>
       </section>
 
       <section aria-labelledby="units">
@@ -106,37 +92,26 @@ export default function ReferencePage() {
           chosen by size; a unit written in the formula (<code className="font-mono">3 kg</code>,{' '}
           <code className="font-mono">x to J</code>) is kept, and the stored values are the same either way.
         </p>
-        <div className="mt-3 overflow-x-auto">
-          <table className="w-full border-collapse text-sm">
-            <caption className="sr-only">Examples of the units</caption>
-            <thead>
-              <tr className="border-b border-rule-strong text-left">
-                <th scope="col" className="py-2 pr-4">
-                  Statement
-                </th>
-                <th scope="col" className="py-2 pr-4">
-                  Units shown
-                </th>
-                <th scope="col" className="py-2 pr-4">
-                  Result
-                </th>
-                <th scope="col" className="py-2">
-                  Note
-                </th>
+        <Table caption="Examples of the units" box="mt-3">
+          <thead>
+            <tr className="border-b border-rule-strong text-left">
+              <Th className="py-2 pr-4">Statement</Th>
+              <Th className="py-2 pr-4">Units shown</Th>
+              <Th className="py-2 pr-4">Result</Th>
+              <Th className="py-2">Note</Th>
+            </tr>
+          </thead>
+          <tbody>
+            {UNIT_EXAMPLES.map((x) => (
+              <tr key={`${x.source}:${x.displayUnits}`} className="border-b border-rule align-top">
+                <Td className="py-2 pr-4 font-mono">{x.source}</Td>
+                <Td className="py-2 pr-4">{DISPLAY_UNITS_LABEL[x.displayUnits]}</Td>
+                <Td className="py-2 pr-4 font-mono">{x.result}</Td>
+                <Td className="py-2">{x.note}</Td>
               </tr>
-            </thead>
-            <tbody>
-              {UNIT_EXAMPLES.map((x) => (
-                <tr key={`${x.source}:${x.displayUnits}`} className="border-b border-rule align-top">
-                  <td className="py-2 pr-4 font-mono">{x.source}</td>
-                  <td className="py-2 pr-4">{DISPLAY_UNITS_LABEL[x.displayUnits]}</td>
-                  <td className="py-2 pr-4 font-mono">{x.result}</td>
-                  <td className="py-2">{x.note}</td>
-                </tr>
-              ))}
-            </tbody>
-          </table>
-        </div>
+            ))}
+          </tbody>
+        </Table>
       </section>
 
       <section aria-labelledby="lint">
@@ -153,29 +128,22 @@ export default function ReferencePage() {
           <code className="font-mono">npm run calc -- --json</code> (<code className="font-mono">cells[].warnings</code>
           ); the statement is still evaluated as written. A sheet that defines the name itself gets no warning.
         </p>
-        <div className="mt-3 overflow-x-auto">
-          <table className="w-full border-collapse text-sm">
-            <caption className="sr-only">Examples of the warnings</caption>
-            <thead>
-              <tr className="border-b border-rule-strong text-left">
-                <th scope="col" className="py-2 pr-4">
-                  Statement
-                </th>
-                <th scope="col" className="py-2">
-                  Warning
-                </th>
+        <Table caption="Examples of the warnings" box="mt-3">
+          <thead>
+            <tr className="border-b border-rule-strong text-left">
+              <Th className="py-2 pr-4">Statement</Th>
+              <Th className="py-2">Warning</Th>
+            </tr>
+          </thead>
+          <tbody>
+            {LINT_EXAMPLES.map((x) => (
+              <tr key={x.source} className="border-b border-rule align-top">
+                <Td className="py-2 pr-4 font-mono">{x.source}</Td>
+                <Td className="py-2">{x.warning ?? 'none'}</Td>
               </tr>
-            </thead>
-            <tbody>
-              {LINT_EXAMPLES.map((x) => (
-                <tr key={x.source} className="border-b border-rule align-top">
-                  <td className="py-2 pr-4 font-mono">{x.source}</td>
-                  <td className="py-2">{x.warning ?? 'none'}</td>
-                </tr>
-              ))}
-            </tbody>
-          </table>
-        </div>
+            ))}
+          </tbody>
+        </Table>
       </section>
 
       <section aria-labelledby="names">
@@ -198,32 +166,28 @@ export default function ReferencePage() {
           that says so, never a silent call of the built-in. To use the built-in function, give the quantity another
           name.
         </p>
-        <div className="mt-4 overflow-x-auto">
-          <table className="w-full text-left text-sm">
-            <thead>
-              <tr className="border-b border-rule">
-                <th scope="col" className="py-1 pr-4">
-                  Statements
-                </th>
-                <th scope="col" className="py-1 pr-4">
-                  Result
-                </th>
-                <th scope="col" className="py-1">
-                  Note
-                </th>
+        <Table
+          caption="Examples of names and of a definition taking precedence over a built-in function"
+          className="w-full text-left text-sm"
+          box="mt-4"
+        >
+          <thead>
+            <tr className="border-b border-rule">
+              <Th className="py-1 pr-4">Statements</Th>
+              <Th className="py-1 pr-4">Result</Th>
+              <Th className="py-1">Note</Th>
+            </tr>
+          </thead>
+          <tbody>
+            {NAME_EXAMPLES.map((x) => (
+              <tr key={x.source} className="border-b border-rule align-top">
+                <Td className="whitespace-pre py-1 pr-4 font-mono">{x.source}</Td>
+                <Td className="py-1 pr-4 font-mono">{x.result ?? 'error'}</Td>
+                <Td className="py-1">{x.note}</Td>
               </tr>
-            </thead>
-            <tbody>
-              {NAME_EXAMPLES.map((x) => (
-                <tr key={x.source} className="border-b border-rule align-top">
-                  <td className="whitespace-pre py-1 pr-4 font-mono">{x.source}</td>
-                  <td className="py-1 pr-4 font-mono">{x.result ?? 'error'}</td>
-                  <td className="py-1">{x.note}</td>
-                </tr>
-              ))}
-            </tbody>
-          </table>
-        </div>
+            ))}
+          </tbody>
+        </Table>
       </section>
 
       <section aria-labelledby="functions">

@@ -12,6 +12,7 @@ import {
 } from '@/lib/sheets/software-impact';
 import { VisibleText } from '@/components/data/visible-text';
 import { StatusBadge } from '@/components/ui/status-badge';
+import { Table, Td, Th } from '@/components/ui/table';
 
 export const metadata: Metadata = { title: 'Software impact' };
 export const dynamic = 'force-dynamic';
@@ -154,82 +155,71 @@ export default async function SoftwareImpactPage({ searchParams }: { searchParam
               : ''}
           </p>
           {answer.rows.length > 0 ? (
-            <div className="overflow-x-auto rounded border border-rule bg-surface">
-              <table className="w-full text-left text-sm">
-                <caption className="sr-only">
-                  Versions evaluated with the chosen engine version, constants edition or function
-                </caption>
-                <thead>
-                  <tr className="border-b border-rule-strong">
-                    <th scope="col" className="px-3 py-2">
-                      Sheet
-                    </th>
-                    <th scope="col" className="px-3 py-2">
-                      Version
-                    </th>
-                    <th scope="col" className="px-3 py-2">
-                      Revision
-                    </th>
-                    <th scope="col" className="px-3 py-2">
-                      Engine · constants
-                    </th>
-                    <th scope="col" className="px-3 py-2">
-                      Saved (UTC)
-                    </th>
+            <Table
+              caption="Versions evaluated with the chosen engine version, constants edition or function"
+              className="w-full text-left text-sm"
+              box="rounded border border-rule bg-surface"
+            >
+              <thead>
+                <tr className="border-b border-rule-strong">
+                  <Th className="px-3 py-2">Sheet</Th>
+                  <Th className="px-3 py-2">Version</Th>
+                  <Th className="px-3 py-2">Revision</Th>
+                  <Th className="px-3 py-2">Engine · constants</Th>
+                  <Th className="px-3 py-2">Saved (UTC)</Th>
+                </tr>
+              </thead>
+              <tbody>
+                {answer.rows.map((r) => (
+                  <tr key={`${r.sheetId}:${r.versionNumber}`} className="border-b border-rule align-top">
+                    <Th scope="row" className="px-3 py-2 text-left font-normal">
+                      <Link
+                        href={`/projects/${r.projectCode}/sheets/${r.sheetNumber}`}
+                        className="font-mono font-semibold text-accent underline"
+                      >
+                        {r.sheet}
+                      </Link>
+                      <div>
+                        <VisibleText text={r.title} />
+                      </div>
+                      {r.safetyRelated ? (
+                        <span className="rounded bg-caution-soft px-1.5 py-0.5 text-xs font-bold text-caution">
+                          safety-related
+                        </span>
+                      ) : null}
+                    </Th>
+                    <Td className="px-3 py-2">
+                      <Link
+                        href={`/projects/${r.projectCode}/sheets/${r.sheetNumber}?version=${r.versionNumber}`}
+                        className="text-accent underline"
+                      >
+                        {r.versionNumber}
+                      </Link>
+                      <div className="font-mono text-xs text-ink-muted" title={r.versionSha256}>
+                        {r.versionSha256.slice(0, 12)}…
+                      </div>
+                    </Td>
+                    <Td className="px-3 py-2 whitespace-nowrap">
+                      {r.revision ? (
+                        <>
+                          {r.revision} <StatusBadge status={r.revisionStatus} compact />
+                        </>
+                      ) : (
+                        'not issued'
+                      )}
+                    </Td>
+                    <Td className="px-3 py-2 text-xs">
+                      {r.engineVersion ?? '—'}
+                      <div className="text-ink-muted">{r.constantsEdition ?? '—'}</div>
+                    </Td>
+                    <Td className="px-3 py-2 whitespace-nowrap">
+                      <UtcTime iso={r.savedAt} />
+                      <div className="text-xs text-ink-muted">{r.author}</div>
+                    </Td>
                   </tr>
-                </thead>
-                <tbody>
-                  {answer.rows.map((r) => (
-                    <tr key={`${r.sheetId}:${r.versionNumber}`} className="border-b border-rule align-top">
-                      <th scope="row" className="px-3 py-2 text-left font-normal">
-                        <Link
-                          href={`/projects/${r.projectCode}/sheets/${r.sheetNumber}`}
-                          className="font-mono font-semibold text-accent underline"
-                        >
-                          {r.sheet}
-                        </Link>
-                        <div>
-                          <VisibleText text={r.title} />
-                        </div>
-                        {r.safetyRelated ? (
-                          <span className="rounded bg-caution-soft px-1.5 py-0.5 text-xs font-bold text-caution">
-                            safety-related
-                          </span>
-                        ) : null}
-                      </th>
-                      <td className="px-3 py-2">
-                        <Link
-                          href={`/projects/${r.projectCode}/sheets/${r.sheetNumber}?version=${r.versionNumber}`}
-                          className="text-accent underline"
-                        >
-                          {r.versionNumber}
-                        </Link>
-                        <div className="font-mono text-xs text-ink-muted" title={r.versionSha256}>
-                          {r.versionSha256.slice(0, 12)}…
-                        </div>
-                      </td>
-                      <td className="px-3 py-2 whitespace-nowrap">
-                        {r.revision ? (
-                          <>
-                            {r.revision} <StatusBadge status={r.revisionStatus} compact />
-                          </>
-                        ) : (
-                          'not issued'
-                        )}
-                      </td>
-                      <td className="px-3 py-2 text-xs">
-                        {r.engineVersion ?? '—'}
-                        <div className="text-ink-muted">{r.constantsEdition ?? '—'}</div>
-                      </td>
-                      <td className="px-3 py-2 whitespace-nowrap">
-                        <UtcTime iso={r.savedAt} />
-                        <div className="text-xs text-ink-muted">{r.author}</div>
-                      </td>
-                    </tr>
-                  ))}
-                </tbody>
-              </table>
-            </div>
+                ))}
+              </tbody>
+            </Table>
           ) : null}
         </section>
       )}

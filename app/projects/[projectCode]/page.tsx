@@ -10,6 +10,7 @@ import { listMembers, ROLE_LABELS } from '@/lib/projects/projects';
 import { sheetInputFlags } from '@/lib/sheets/impact';
 import { listSheets } from '@/lib/sheets/sheets';
 import { startCandidates } from '@/lib/sheets/start-from';
+import { Table, Td, Th } from '@/components/ui/table';
 
 export const metadata: Metadata = { title: 'Project' };
 export const dynamic = 'force-dynamic';
@@ -78,34 +79,27 @@ export default async function ProjectPage({ params }: { params: Promise<{ projec
         <h2 id="members-title" className="text-xl font-bold">
           Members
         </h2>
-        <table className="mt-3 w-full border-collapse text-sm">
-          <caption className="sr-only">Members of {project.code} and their roles</caption>
+        <Table caption={`Members of ${project.code} and their roles`} className="mt-3 w-full border-collapse text-sm">
           <thead>
             <tr className="border-b border-rule-strong text-left">
-              <th scope="col" className="py-2 pr-4">
-                Name
-              </th>
-              <th scope="col" className="py-2 pr-4">
-                E-mail
-              </th>
-              <th scope="col" className="py-2">
-                Roles
-              </th>
+              <Th className="py-2 pr-4">Name</Th>
+              <Th className="py-2 pr-4">E-mail</Th>
+              <Th className="py-2">Roles</Th>
             </tr>
           </thead>
           <tbody>
             {members.map((m) => (
               <tr key={m.userId} className="border-b border-rule">
-                <td className="py-2 pr-4">
+                <Td className="py-2 pr-4">
                   {m.name}
                   {m.disabledAt ? <span className="ml-2 text-xs text-fail">(disabled)</span> : null}
-                </td>
-                <td className="py-2 pr-4 font-mono">{m.email}</td>
-                <td className="py-2">{m.roles.map((r) => ROLE_LABELS[r]).join(', ')}</td>
+                </Td>
+                <Td className="py-2 pr-4 font-mono">{m.email}</Td>
+                <Td className="py-2">{m.roles.map((r) => ROLE_LABELS[r]).join(', ')}</Td>
               </tr>
             ))}
           </tbody>
-        </table>
+        </Table>
       </section>
     </div>
   );

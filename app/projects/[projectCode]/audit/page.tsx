@@ -3,6 +3,7 @@ import { getDb } from '@/db';
 import { pageProject } from '@/lib/auth/page-guard';
 import { auditFilterSchema, listProjectAudit, listProjectAuditActions } from '@/lib/audit/query';
 import { listMembers } from '@/lib/projects/projects';
+import { Table, Td, Th } from '@/components/ui/table';
 
 export const metadata: Metadata = { title: 'Audit trail' };
 export const dynamic = 'force-dynamic';
@@ -124,51 +125,38 @@ export default async function AuditPage({
           Download CSV
         </a>
       </form>
-      <table className="w-full border-collapse text-sm">
-        <caption className="sr-only">Audit events</caption>
+      <Table caption="Audit events">
         <thead>
           <tr className="border-b border-rule-strong text-left">
-            <th scope="col" className="py-2 pr-3">
-              #
-            </th>
-            <th scope="col" className="py-2 pr-3">
-              Time (UTC)
-            </th>
-            <th scope="col" className="py-2 pr-3">
-              Person
-            </th>
-            <th scope="col" className="py-2 pr-3">
-              Action
-            </th>
-            <th scope="col" className="py-2 pr-3">
-              Change
-            </th>
-            <th scope="col" className="py-2">
-              Reason
-            </th>
+            <Th className="py-2 pr-3">#</Th>
+            <Th className="py-2 pr-3">Time (UTC)</Th>
+            <Th className="py-2 pr-3">Person</Th>
+            <Th className="py-2 pr-3">Action</Th>
+            <Th className="py-2 pr-3">Change</Th>
+            <Th className="py-2">Reason</Th>
           </tr>
         </thead>
         <tbody>
           {events.map((e) => (
             <tr key={e.id} className="border-b border-rule align-top">
-              <td className="py-2 pr-3 font-mono">{e.id}</td>
-              <td className="py-2 pr-3 font-mono whitespace-nowrap">
+              <Td className="py-2 pr-3 font-mono">{e.id}</Td>
+              <Td className="py-2 pr-3 font-mono whitespace-nowrap">
                 {e.occurred_at.toISOString().replace('T', ' ').slice(0, 19)}
-              </td>
-              <td className="py-2 pr-3">
+              </Td>
+              <Td className="py-2 pr-3">
                 {e.actor_name ?? 'system'}
                 {e.token_id ? <span className="block text-xs text-ink-muted">via API token</span> : null}
-              </td>
-              <td className="py-2 pr-3 font-mono">{e.action}</td>
-              <td className="py-2 pr-3 font-mono text-xs break-all">
+              </Td>
+              <Td className="py-2 pr-3 font-mono">{e.action}</Td>
+              <Td className="py-2 pr-3 font-mono text-xs break-all">
                 {e.old_value !== null ? <span className="block">was {short(e.old_value)}</span> : null}
                 {e.new_value !== null ? <span className="block">now {short(e.new_value)}</span> : null}
-              </td>
-              <td className="py-2">{e.reason ?? ''}</td>
+              </Td>
+              <Td className="py-2">{e.reason ?? ''}</Td>
             </tr>
           ))}
         </tbody>
-      </table>
+      </Table>
       {events.length === 0 ? <p className="text-ink-muted">No events match.</p> : null}
     </div>
   );

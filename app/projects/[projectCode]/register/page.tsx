@@ -7,6 +7,7 @@ import { listRevisions, registerQuerySchema } from '@/lib/issue/register';
 import { revisionInputFlags } from '@/lib/sheets/impact';
 import { VisibleText } from '@/components/data/visible-text';
 import { StatusBadge } from '@/components/ui/status-badge';
+import { Table, Td, Th } from '@/components/ui/table';
 
 export const metadata: Metadata = { title: 'Document register' };
 export const dynamic = 'force-dynamic';
@@ -84,106 +85,83 @@ export default async function ProjectRegisterPage({
       {rows.length === 0 ? (
         <p className="text-ink-muted">No issued revision matches.</p>
       ) : (
-        <div className="overflow-x-auto rounded border border-rule bg-surface">
-          <table className="w-full text-left text-sm">
-            <caption className="sr-only">Issued revisions of {project.code}</caption>
-            <thead>
-              <tr className="border-b border-rule-strong">
-                <th scope="col" className="px-3 py-2">
-                  Sheet
-                </th>
-                <th scope="col" className="px-3 py-2">
-                  Title
-                </th>
-                <th scope="col" className="px-3 py-2">
-                  Revision
-                </th>
-                <th scope="col" className="px-3 py-2">
-                  Status
-                </th>
-                <th scope="col" className="px-3 py-2">
-                  Version
-                </th>
-                <th scope="col" className="px-3 py-2">
-                  Issued (UTC)
-                </th>
-                <th scope="col" className="px-3 py-2">
-                  Verification code
-                </th>
-                <th scope="col" className="px-3 py-2">
-                  PDF
-                </th>
-              </tr>
-            </thead>
-            <tbody>
-              {rows.map((r) => (
-                <tr key={r.id} className="border-b border-rule align-top">
-                  <td className="px-3 py-2 font-mono whitespace-nowrap">
-                    <Link href={`/projects/${project.code}/sheets/${r.sheetNumber}`} className="text-accent underline">
-                      {r.sheet}
-                    </Link>
-                  </td>
-                  <td className="px-3 py-2">
-                    <VisibleText text={r.title} />
-                  </td>
-                  <td className="px-3 py-2 font-semibold">{r.revision}</td>
-                  <td className="px-3 py-2">
-                    <StatusBadge status={r.status} />
-                    {r.supersededBy ? <div className="text-xs text-ink-muted">by revision {r.supersededBy}</div> : null}
-                    {r.withdrawnReason ? <div className="text-xs text-ink-muted">{r.withdrawnReason}</div> : null}
-                    {stale.has(r.id) ? (
-                      <div className="mt-1 w-fit rounded bg-caution-soft px-1.5 py-0.5 text-xs font-bold text-caution">
-                        Superseded input:{' '}
-                        {stale
-                          .get(r.id)!
-                          .map(
-                            (c) =>
-                              `${c.sheet} rev ${c.revision} (${c.currentRevision ? `now ${c.currentRevision}` : c.status})`,
-                          )
-                          .join('; ')}
-                      </div>
-                    ) : null}
-                  </td>
-                  <td className="px-3 py-2">
-                    {r.versionNumber}
-                    <div className="font-mono text-xs text-ink-muted" title={r.versionSha256}>
-                      {r.versionSha256.slice(0, 12)}…
+        <Table
+          caption={`Issued revisions of ${project.code}`}
+          className="w-full text-left text-sm"
+          box="rounded border border-rule bg-surface"
+        >
+          <thead>
+            <tr className="border-b border-rule-strong">
+              <Th className="px-3 py-2">Sheet</Th>
+              <Th className="px-3 py-2">Title</Th>
+              <Th className="px-3 py-2">Revision</Th>
+              <Th className="px-3 py-2">Status</Th>
+              <Th className="px-3 py-2">Version</Th>
+              <Th className="px-3 py-2">Issued (UTC)</Th>
+              <Th className="px-3 py-2">Verification code</Th>
+              <Th className="px-3 py-2">PDF</Th>
+            </tr>
+          </thead>
+          <tbody>
+            {rows.map((r) => (
+              <tr key={r.id} className="border-b border-rule align-top">
+                <Td className="px-3 py-2 font-mono whitespace-nowrap">
+                  <Link href={`/projects/${project.code}/sheets/${r.sheetNumber}`} className="text-accent underline">
+                    {r.sheet}
+                  </Link>
+                </Td>
+                <Td className="px-3 py-2">
+                  <VisibleText text={r.title} />
+                </Td>
+                <Td className="px-3 py-2 font-semibold">{r.revision}</Td>
+                <Td className="px-3 py-2">
+                  <StatusBadge status={r.status} />
+                  {r.supersededBy ? <div className="text-xs text-ink-muted">by revision {r.supersededBy}</div> : null}
+                  {r.withdrawnReason ? <div className="text-xs text-ink-muted">{r.withdrawnReason}</div> : null}
+                  {stale.has(r.id) ? (
+                    <div className="mt-1 w-fit rounded bg-caution-soft px-1.5 py-0.5 text-xs font-bold text-caution">
+                      Superseded input:{' '}
+                      {stale
+                        .get(r.id)!
+                        .map(
+                          (c) =>
+                            `${c.sheet} rev ${c.revision} (${c.currentRevision ? `now ${c.currentRevision}` : c.status})`,
+                        )
+                        .join('; ')}
                     </div>
-                  </td>
-                  <td className="px-3 py-2 whitespace-nowrap">
-                    {r.issuedAt.slice(0, 16).replace('T', ' ')}
-                    <div className="text-xs text-ink-muted">{r.issuedBy}</div>
-                  </td>
-                  <td className="px-3 py-2 font-mono whitespace-nowrap">{r.verificationCode}</td>
-                  <td className="space-y-1 px-3 py-2">
-                    <a
-                      href={`/api/revisions/${r.id}/pdf`}
-                      download
-                      className="block font-semibold text-accent underline"
-                    >
-                      {r.status === 'current' ? 'Download' : `Download (stamped ${r.status})`}
+                  ) : null}
+                </Td>
+                <Td className="px-3 py-2">
+                  {r.versionNumber}
+                  <div className="font-mono text-xs text-ink-muted" title={r.versionSha256}>
+                    {r.versionSha256.slice(0, 12)}…
+                  </div>
+                </Td>
+                <Td className="px-3 py-2 whitespace-nowrap">
+                  {r.issuedAt.slice(0, 16).replace('T', ' ')}
+                  <div className="text-xs text-ink-muted">{r.issuedBy}</div>
+                </Td>
+                <Td className="px-3 py-2 font-mono whitespace-nowrap">{r.verificationCode}</Td>
+                <Td className="space-y-1 px-3 py-2">
+                  <a href={`/api/revisions/${r.id}/pdf`} download className="block font-semibold text-accent underline">
+                    {r.status === 'current' ? 'Download' : `Download (stamped ${r.status})`}
+                  </a>
+                  {controller && r.status !== 'current' ? (
+                    <a href={`/api/revisions/${r.id}/pdf?original=1`} download className="block text-accent underline">
+                      Original file
                     </a>
-                    {controller && r.status !== 'current' ? (
-                      <a
-                        href={`/api/revisions/${r.id}/pdf?original=1`}
-                        download
-                        className="block text-accent underline"
-                      >
-                        Original file
-                      </a>
-                    ) : null}
-                    <div className="font-mono text-xs text-ink-muted" title={`SHA-256 of the PDF: ${r.pdfSha256}`}>
-                      {r.pdfSha256.slice(0, 12)}…
-                    </div>
-                    {controller && r.status !== 'withdrawn' ? (
-                      <WithdrawForm revisionId={r.id} label={`${r.sheet} revision ${r.revision}`} />
-                    ) : null}
-                  </td>
-                </tr>
-              ))}
-            </tbody>
-          </table>
-        </div>
+                  ) : null}
+                  <div className="font-mono text-xs text-ink-muted" title={`SHA-256 of the PDF: ${r.pdfSha256}`}>
+                    {r.pdfSha256.slice(0, 12)}…
+                  </div>
+                  {controller && r.status !== 'withdrawn' ? (
+                    <WithdrawForm revisionId={r.id} label={`${r.sheet} revision ${r.revision}`} />
+                  ) : null}
+                </Td>
+              </tr>
+            ))}
+          </tbody>
+        </Table>
       )}
     </div>
   );

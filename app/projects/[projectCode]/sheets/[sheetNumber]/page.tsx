@@ -28,6 +28,7 @@ import { sheetOrigin } from '@/lib/sheets/start-from';
 import { submissionFindings } from '@/lib/checks/submission-findings';
 import { VoidSheetForm } from '@/components/sheet/void-sheet-form';
 import { VisibleText } from '@/components/data/visible-text';
+import { Table, Td, Th } from '@/components/ui/table';
 
 export const metadata: Metadata = { title: 'Sheet' };
 export const dynamic = 'force-dynamic';
@@ -282,57 +283,42 @@ export default async function SheetPage({
           {revisions.length === 0 ? (
             <p className="text-sm text-ink-muted">Not issued yet.</p>
           ) : (
-            <div className="overflow-x-auto">
-              <table className="w-full text-left text-sm">
-                <caption className="sr-only">Issued revisions of {code}</caption>
-                <thead>
-                  <tr className="border-b border-rule-strong">
-                    <th scope="col" className="py-1 pr-3">
-                      Revision
-                    </th>
-                    <th scope="col" className="py-1 pr-3">
-                      Status
-                    </th>
-                    <th scope="col" className="py-1 pr-3">
-                      Version
-                    </th>
-                    <th scope="col" className="py-1 pr-3">
-                      Issued
-                    </th>
-                    <th scope="col" className="py-1 pr-3">
-                      Verification code
-                    </th>
-                    <th scope="col" className="py-1">
-                      PDF
-                    </th>
+            <Table caption={`Issued revisions of ${code}`} className="w-full text-left text-sm">
+              <thead>
+                <tr className="border-b border-rule-strong">
+                  <Th className="py-1 pr-3">Revision</Th>
+                  <Th className="py-1 pr-3">Status</Th>
+                  <Th className="py-1 pr-3">Version</Th>
+                  <Th className="py-1 pr-3">Issued</Th>
+                  <Th className="py-1 pr-3">Verification code</Th>
+                  <Th className="py-1">PDF</Th>
+                </tr>
+              </thead>
+              <tbody>
+                {revisions.map((r) => (
+                  <tr key={r.id} className="border-b border-rule">
+                    <Td className="py-1 pr-3 font-semibold">{r.revision}</Td>
+                    <Td className="py-1 pr-3">
+                      {r.status}
+                      {r.supersededBy ? ` by ${r.supersededBy}` : ''}
+                      {r.withdrawnReason ? `: ${r.withdrawnReason}` : ''}
+                    </Td>
+                    <Td className="py-1 pr-3">{r.versionNumber}</Td>
+                    <Td className="py-1 pr-3 whitespace-nowrap">
+                      <UtcTime iso={r.issuedAt} /> · {r.issuedBy}
+                    </Td>
+                    <Td className="py-1 pr-3 font-mono">{r.verificationCode}</Td>
+                    <Td className="py-1">
+                      <a href={`/api/revisions/${r.id}/pdf`} download className="font-semibold text-accent underline">
+                        {r.status === 'current'
+                          ? `Download revision ${r.revision}`
+                          : `Download revision ${r.revision} (stamped ${r.status})`}
+                      </a>
+                    </Td>
                   </tr>
-                </thead>
-                <tbody>
-                  {revisions.map((r) => (
-                    <tr key={r.id} className="border-b border-rule">
-                      <td className="py-1 pr-3 font-semibold">{r.revision}</td>
-                      <td className="py-1 pr-3">
-                        {r.status}
-                        {r.supersededBy ? ` by ${r.supersededBy}` : ''}
-                        {r.withdrawnReason ? `: ${r.withdrawnReason}` : ''}
-                      </td>
-                      <td className="py-1 pr-3">{r.versionNumber}</td>
-                      <td className="py-1 pr-3 whitespace-nowrap">
-                        <UtcTime iso={r.issuedAt} /> · {r.issuedBy}
-                      </td>
-                      <td className="py-1 pr-3 font-mono">{r.verificationCode}</td>
-                      <td className="py-1">
-                        <a href={`/api/revisions/${r.id}/pdf`} download className="font-semibold text-accent underline">
-                          {r.status === 'current'
-                            ? `Download revision ${r.revision}`
-                            : `Download revision ${r.revision} (stamped ${r.status})`}
-                        </a>
-                      </td>
-                    </tr>
-                  ))}
-                </tbody>
-              </table>
-            </div>
+                ))}
+              </tbody>
+            </Table>
           )}
           <p className="text-sm">
             <Link href={`/projects/${project.code}/register`} className="text-accent underline">

@@ -11,6 +11,7 @@ import { getSheetByNumber, getVersion, listVersions } from '@/lib/sheets/sheets'
 import { VisibleText } from '@/components/data/visible-text';
 import { RecordChanges } from '@/components/sheet/record-changes';
 import { VersionPicker } from '@/components/sheet/version-picker';
+import { Table, Td, Th } from '@/components/ui/table';
 
 export const metadata: Metadata = { title: 'Compare versions' };
 export const dynamic = 'force-dynamic';
@@ -94,25 +95,14 @@ export default async function ComparePage({
         <h2 id="changed-results" className="text-lg font-bold">
           Results
         </h2>
-        <table className="w-full border-collapse text-sm">
-          <caption className="sr-only">Results that changed</caption>
+        <Table caption="Results that changed">
           <thead>
             <tr className="border-b border-rule-strong text-left">
-              <th scope="col" className="py-2 pr-3">
-                Result
-              </th>
-              <th scope="col" className="py-2 pr-3">
-                Status
-              </th>
-              <th scope="col" className="py-2 pr-3">
-                Old
-              </th>
-              <th scope="col" className="py-2 pr-3">
-                New
-              </th>
-              <th scope="col" className="py-2">
-                Relative change
-              </th>
+              <Th className="py-2 pr-3">Result</Th>
+              <Th className="py-2 pr-3">Status</Th>
+              <Th className="py-2 pr-3">Old</Th>
+              <Th className="py-2 pr-3">New</Th>
+              <Th className="py-2">Relative change</Th>
             </tr>
           </thead>
           <tbody>
@@ -120,26 +110,26 @@ export default async function ComparePage({
               .filter((r) => r.status !== 'unchanged')
               .map((r) => (
                 <tr key={r.key} className="border-b border-rule">
-                  <td className="py-2 pr-3 font-mono">
+                  <Td className="py-2 pr-3 font-mono">
                     <VisibleText text={r.name ?? r.key} />
-                  </td>
-                  <td className="py-2 pr-3">
+                  </Td>
+                  <Td className="py-2 pr-3">
                     {r.status}
                     {r.flipped ? ' (pass/fail flipped)' : ''}
-                  </td>
-                  <td className="py-2 pr-3 font-mono">
+                  </Td>
+                  <Td className="py-2 pr-3 font-mono">
                     {r.old?.error ? `error: ${r.old.error}` : (r.old?.text ?? '—')}
-                  </td>
-                  <td className="py-2 pr-3 font-mono">
+                  </Td>
+                  <Td className="py-2 pr-3 font-mono">
                     {r.new?.error ? `error: ${r.new.error}` : (r.new?.text ?? '—')}
-                  </td>
-                  <td className="py-2 font-mono">
+                  </Td>
+                  <Td className="py-2 font-mono">
                     {r.relativeChange === null ? '—' : `${(r.relativeChange * 100).toPrecision(3)} %`}
-                  </td>
+                  </Td>
                 </tr>
               ))}
           </tbody>
-        </table>
+        </Table>
       </section>
       <p>
         <Link

@@ -11,6 +11,7 @@ import { formatSheetNumber } from '@/lib/sheets/sheet-number';
 import { getSheetByNumber, listVersions } from '@/lib/sheets/sheets';
 import { VisibleText } from '@/components/data/visible-text';
 import { StatusBadge } from '@/components/ui/status-badge';
+import { Table, Td, Th } from '@/components/ui/table';
 
 export const metadata: Metadata = { title: 'Impact' };
 export const dynamic = 'force-dynamic';
@@ -88,83 +89,70 @@ export default async function ImpactPage({
           {r.dependents.length === 0 ? (
             <p className="text-sm text-ink-muted">No sheet cites revision {r.revision}.</p>
           ) : (
-            <div className="overflow-x-auto rounded border border-rule bg-surface">
-              <table className="w-full text-left text-sm">
-                <caption className="sr-only">
-                  Sheets that depend on {code} revision {r.revision}
-                </caption>
-                <thead>
-                  <tr className="border-b border-rule-strong">
-                    <th scope="col" className="px-3 py-2">
-                      Depth
-                    </th>
-                    <th scope="col" className="px-3 py-2">
-                      Sheet
-                    </th>
-                    <th scope="col" className="px-3 py-2">
-                      Cites
-                    </th>
-                    <th scope="col" className="px-3 py-2">
-                      Versions citing it
-                    </th>
-                    <th scope="col" className="px-3 py-2">
-                      Issued as
-                    </th>
-                    <th scope="col" className="px-3 py-2">
-                      Latest version
-                    </th>
-                  </tr>
-                </thead>
-                <tbody>
-                  {r.dependents.map((d) => (
-                    <tr
-                      key={`${d.via.sheetId}:${d.via.revision}:${d.sheetId}`}
-                      className="border-b border-rule align-top"
-                    >
-                      <td className="px-3 py-2 whitespace-nowrap">
-                        {d.depth === 1 ? '1 (direct)' : `${d.depth} (indirect)`}
-                      </td>
-                      <th scope="row" className="px-3 py-2 text-left font-normal">
-                        <Link href={sheetHref(d.sheetNumber)} className="font-mono font-semibold text-accent underline">
-                          {d.sheet}
-                        </Link>
-                        <div>
-                          <VisibleText text={d.title} />
-                        </div>
-                      </th>
-                      <td className="px-3 py-2">
-                        <span className="font-mono whitespace-nowrap">
-                          {d.via.sheet} rev {d.via.revision}
+            <Table
+              caption={`Sheets that depend on ${code} revision ${r.revision}`}
+              className="w-full text-left text-sm"
+              box="rounded border border-rule bg-surface"
+            >
+              <thead>
+                <tr className="border-b border-rule-strong">
+                  <Th className="px-3 py-2">Depth</Th>
+                  <Th className="px-3 py-2">Sheet</Th>
+                  <Th className="px-3 py-2">Cites</Th>
+                  <Th className="px-3 py-2">Versions citing it</Th>
+                  <Th className="px-3 py-2">Issued as</Th>
+                  <Th className="px-3 py-2">Latest version</Th>
+                </tr>
+              </thead>
+              <tbody>
+                {r.dependents.map((d) => (
+                  <tr
+                    key={`${d.via.sheetId}:${d.via.revision}:${d.sheetId}`}
+                    className="border-b border-rule align-top"
+                  >
+                    <Td className="px-3 py-2 whitespace-nowrap">
+                      {d.depth === 1 ? '1 (direct)' : `${d.depth} (indirect)`}
+                    </Td>
+                    <Th scope="row" className="px-3 py-2 text-left font-normal">
+                      <Link href={sheetHref(d.sheetNumber)} className="font-mono font-semibold text-accent underline">
+                        {d.sheet}
+                      </Link>
+                      <div>
+                        <VisibleText text={d.title} />
+                      </div>
+                    </Th>
+                    <Td className="px-3 py-2">
+                      <span className="font-mono whitespace-nowrap">
+                        {d.via.sheet} rev {d.via.revision}
+                      </span>
+                      <div className="font-mono text-xs text-ink-muted">{d.names.join(', ')}</div>
+                    </Td>
+                    <Td className="px-3 py-2">
+                      {d.versions.map((v, i) => (
+                        <span key={v}>
+                          {i > 0 ? ', ' : ''}
+                          <Link href={`${sheetHref(d.sheetNumber)}?version=${v}`} className="text-accent underline">
+                            {v}
+                          </Link>
                         </span>
-                        <div className="font-mono text-xs text-ink-muted">{d.names.join(', ')}</div>
-                      </td>
-                      <td className="px-3 py-2">
-                        {d.versions.map((v, i) => (
-                          <span key={v}>
-                            {i > 0 ? ', ' : ''}
-                            <Link href={`${sheetHref(d.sheetNumber)}?version=${v}`} className="text-accent underline">
-                              {v}
-                            </Link>
-                          </span>
-                        ))}
-                      </td>
-                      <td className="px-3 py-2">
-                        {d.issuedAs.length === 0
-                          ? '—'
-                          : d.issuedAs.map((x) => (
-                              <div key={x.id} className="whitespace-nowrap">
-                                rev {x.revision} <StatusBadge status={x.status} compact />
-                              </div>
-                            ))}
-                      </td>
-                      <td className="px-3 py-2">
-                        <LatestState d={d} />
-                      </td>
-                    </tr>
-                  ))}
-                </tbody>
-              </table>
-            </div>
+                      ))}
+                    </Td>
+                    <Td className="px-3 py-2">
+                      {d.issuedAs.length === 0
+                        ? '—'
+                        : d.issuedAs.map((x) => (
+                            <div key={x.id} className="whitespace-nowrap">
+                              rev {x.revision} <StatusBadge status={x.status} compact />
+                            </div>
+                          ))}
+                    </Td>
+                    <Td className="px-3 py-2">
+                      <LatestState d={d} />
+                    </Td>
+                  </tr>
+                ))}
+              </tbody>
+            </Table>
           )}
         </section>
       ))}
