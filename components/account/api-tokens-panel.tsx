@@ -3,22 +3,10 @@
 import { formatUtc } from '@/components/ui/utc-time';
 import { useId, useState } from 'react';
 import useSWR from 'swr';
-import { fetchJson as fetcher } from '@/components/data/fetch-json';
+import { api, errorText } from '@/components/data/api-client';
 import { primaryButton } from '@/components/ui/button';
 
 type Scope = 'read' | 'read-write';
-
-interface TokenRow {
-  id: string;
-  name: string;
-  prefix: string;
-  scope: Scope;
-  created_at: string;
-  expires_at: string;
-  expired: boolean;
-  last_used_at: string | null;
-  revoked_at: string | null;
-}
 
 interface Created {
   token: string;
@@ -37,7 +25,7 @@ function lifetimes(defaultDays: number, maxDays: number): number[] {
 
 export function ApiTokensPanel({ defaultDays, maxDays }: { defaultDays: number; maxDays: number }) {
   const id = useId();
-  const { data, mutate } = useSWR<{ tokens: TokenRow[] }>('/api/account/tokens', fetcher);
+  const { data, mutate } = useSWR('/api/account/tokens', api.listApiTokens);
   const [created, setCreated] = useState<Created | null>(null);
   const [state, setState] = useState<{ kind: 'idle' | 'busy' | 'error' | 'done'; message?: string }>({ kind: 'idle' });
 
@@ -46,31 +34,24 @@ export function ApiTokensPanel({ defaultDays, maxDays }: { defaultDays: number; 
     const form = new FormData(event.currentTarget);
     const body = {
       name: String(form.get('name') ?? ''),
-      scope: String(form.get('scope') ?? 'read'),
+      scope: String(form.get('scope') ?? 'read') as Scope,
       expiresInDays: Number(form.get('expiresInDays')),
     };
     setState({ kind: 'busy' });
+    let answer;
     try {
-      const response = await fetch('/api/account/tokens', {
-        method: 'POST',
-        headers: { 'content-type': 'application/json' },
-        body: JSON.stringify(body),
-      });
-      const answer = (await response.json().catch(() => ({}))) as Partial<Created> & { error?: { message?: string } };
-      if (!response.ok || !answer.token) {
-        setState({ kind: 'error', message: answer.error?.message ?? `The server answered ${response.status}.` });
-        return;
-      }
-      setCreated({ token: answer.token, scope: answer.scope as Scope, expires_at: String(answer.expires_at) });
-      setState({ kind: 'done', message: 'Token created.' });
-      void mutate();
-    } catch {
-      setState({ kind: 'error', message: 'The server could not be reached.' });
+      answer = await api.createApiToken(body);
+    } catch (error) {
+      setState({ kind: 'error', message: errorText(error) });
+      return;
     }
+    setCreated({ token: answer.token, scope: answer.scope, expires_at: answer.expires_at });
+    setState({ kind: 'done', message: 'Token created.' });
+    void mutate();
   }
 
   async function revoke(tokenId: string) {
-    await fetch(`/api/account/tokens/${tokenId}`, { method: 'DELETE' });
+    await api.revokeApiToken(tokenId).catch(() => null);
     await mutate();
   }
 

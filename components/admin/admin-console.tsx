@@ -3,33 +3,10 @@
 import { formatUtc } from '@/components/ui/utc-time';
 import { useState } from 'react';
 import useSWR from 'swr';
-import { fetchJson as fetcher } from '@/components/data/fetch-json';
+import { api } from '@/components/data/api-client';
 import { JsonForm } from '@/components/forms/json-form';
 
-interface UserRow {
-  id: string;
-  email: string;
-  name: string;
-  isAdmin: boolean;
-  disabledAt: string | null;
-  lockedAt: string | null;
-  /** When a timed lock ends; null with lockedAt set: until an administrator unlocks. */
-  lockedUntil: string | null;
-  hasPassword: boolean;
-}
-interface ProjectRow {
-  id: string;
-  code: string;
-  name: string;
-  legal_owner: string;
-  revision_scheme: string;
-}
-interface MemberRow {
-  userId: string;
-  name: string;
-  email: string;
-  roles: string[];
-}
+type UserRow = Awaited<ReturnType<typeof api.listUsers>>['users'][number];
 
 const ROLES = [
   { value: 'originator', label: 'Originator' },
@@ -73,11 +50,11 @@ function UserAction({
 }
 
 export function AdminConsole() {
-  const users = useSWR<{ users: UserRow[] }>('/api/admin/users', fetcher);
-  const projects = useSWR<{ projects: ProjectRow[] }>('/api/projects', fetcher);
+  const users = useSWR('/api/admin/users', api.listUsers);
+  const projects = useSWR('/api/projects', api.listProjects);
   const [projectId, setProjectId] = useState<string>('');
   const selected = projectId || projects.data?.projects[0]?.id || '';
-  const members = useSWR<{ members: MemberRow[] }>(selected ? `/api/projects/${selected}/members` : null, fetcher);
+  const members = useSWR(selected ? `/api/projects/${selected}/members` : null, () => api.listMembers(selected));
   const userOptions = (users.data?.users ?? [])
     .filter((u) => !u.disabledAt)
     .map((u) => ({ value: u.id, label: `${u.name} (${u.email})` }));

@@ -5,6 +5,9 @@
 // has arrived meanwhile (only the latest input's result is ever shown). A 429 that still happens
 // (another tab of the same person) is retried after the Retry-After the server gives, a few times.
 
+import { api, ApiError } from '@/components/data/api-client';
+import type { SheetResult } from '@/lib/calc/types';
+
 export class SupersededEvaluation extends Error {
   constructor() {
     super('superseded by newer input');
@@ -24,20 +27,14 @@ export function oneAtATime<A extends unknown[], R>(fetcher: (...args: A) => Prom
 }
 
 /** POST /api/evaluate with the body given, retrying a 429 after its Retry-After (at most 3 tries, 10 s each). */
-export async function postEvaluation<R>(body: unknown): Promise<R> {
+export async function postEvaluation(body: Parameters<typeof api.evaluate>[0]): Promise<SheetResult> {
   for (let attempt = 1; ; attempt++) {
-    const response = await fetch('/api/evaluate', {
-      method: 'POST',
-      headers: { 'content-type': 'application/json' },
-      body: JSON.stringify(body),
-    });
-    if (response.status === 429 && attempt < 3) {
-      const seconds = Math.min(10, Math.max(1, Number(response.headers.get('retry-after')) || 1));
+    try {
+      return await api.evaluate(body);
+    } catch (error) {
+      if (!(error instanceof ApiError && error.status === 429 && attempt < 3)) throw error;
+      const seconds = Math.min(10, Math.max(1, error.retryAfterSeconds ?? 1));
       await new Promise((resolve) => setTimeout(resolve, seconds * 1000));
-      continue;
     }
-    const answer = await response.json();
-    if (!response.ok) throw new Error(answer?.error?.message ?? `HTTP ${response.status}`);
-    return answer as R;
   }
 }

@@ -3,7 +3,6 @@
 import { useEffect, useId, useState } from 'react';
 import useSWR from 'swr';
 import { CalcEditor } from '@/components/sheet/calc-editor';
-import type { SheetResult } from '@/lib/calc/types';
 import { oneAtATime, postEvaluation } from './one-evaluation-at-a-time';
 import { StatementView } from './statement-view';
 
@@ -17,7 +16,7 @@ const EXAMPLE = [
 
 // One evaluation in flight; see one-evaluation-at-a-time.ts.
 const evaluate = oneAtATime(([, source]: [string, string]) =>
-  postEvaluation<SheetResult>({ sheetKey: 'scratch', cells: [{ id: 'scratch', kind: 'calc', source }] }),
+  postEvaluation({ sheetKey: 'scratch', cells: [{ id: 'scratch', kind: 'calc', source }] }),
 );
 
 /** A single calculation cell evaluated by the server as you type. Nothing here is saved. */

@@ -2,6 +2,7 @@
 
 import { useRouter } from 'next/navigation';
 import { useEffect, useId, useRef, useState } from 'react';
+import { api, errorText } from '@/components/data/api-client';
 import { UtcTime } from '@/components/ui/utc-time';
 import type { CheckDetail } from '@/lib/checks/queries';
 import { VisibleText } from '@/components/data/visible-text';
@@ -21,18 +22,12 @@ function useFocusOnClose(open: boolean) {
 }
 
 /** Sends one request to the check's comment routes; answers the server's message on failure. */
-async function send(url: string, method: 'POST' | 'PATCH', body: unknown): Promise<string | null> {
+async function send(request: () => Promise<unknown>): Promise<string | null> {
   try {
-    const response = await fetch(url, {
-      method,
-      headers: { 'content-type': 'application/json' },
-      body: JSON.stringify(body),
-    });
-    if (response.ok) return null;
-    const answer = await response.json().catch(() => ({}));
-    return answer.error?.message ?? `The server answered ${response.status}.`;
-  } catch {
-    return 'The server could not be reached.';
+    await request();
+    return null;
+  } catch (error) {
+    return errorText(error);
   }
 }
 
@@ -85,11 +80,7 @@ function OpenThread({
   async function reply(event: React.FormEvent) {
     event.preventDefault();
     setBusy(true);
-    const problem = await send(`/api/checks/${checkId}/comments`, 'POST', {
-      cellId: thread.cellId,
-      threadId: thread.id,
-      body,
-    });
+    const problem = await send(() => api.addComment(checkId, { cellId: thread.cellId, threadId: thread.id, body }));
     setBusy(false);
     setError(problem);
     if (!problem) {
@@ -101,7 +92,7 @@ function OpenThread({
 
   async function resolve() {
     setBusy(true);
-    const problem = await send(`/api/checks/${checkId}/comments/${thread.id}`, 'PATCH', { resolved: true });
+    const problem = await send(() => api.resolveComment(checkId, thread.id, { resolved: true }));
     setBusy(false);
     setError(problem);
     if (!problem) router.refresh();
@@ -217,11 +208,9 @@ export function CellThreads({
   async function add(event: React.FormEvent) {
     event.preventDefault();
     setBusy(true);
-    const problem = await send(`/api/checks/${checkId}/comments`, 'POST', {
-      cellId,
-      statementLine: line ? Number(line) : null,
-      body,
-    });
+    const problem = await send(() =>
+      api.addComment(checkId, { cellId, statementLine: line ? Number(line) : null, body }),
+    );
     setBusy(false);
     setError(problem);
     if (!problem) {

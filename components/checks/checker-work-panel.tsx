@@ -2,6 +2,7 @@
 
 import { useRouter } from 'next/navigation';
 import { useId, useState } from 'react';
+import { api, errorText } from '@/components/data/api-client';
 import { StatementView } from '@/components/calc/statement-view';
 import { CalcEditor } from '@/components/sheet/calc-editor';
 import type { VerificationMethod } from '@/db/schema';
@@ -93,22 +94,14 @@ export function CheckerWorkPanel({
     </>
   );
 
-  async function patch(body: Record<string, unknown>): Promise<{ alternateResults: SheetResult | null } | null> {
+  async function patch(
+    body: Parameters<typeof api.saveCheckWork>[1],
+  ): Promise<{ alternateResults: SheetResult | null } | null> {
     setStatus({ kind: 'busy' });
     try {
-      const response = await fetch(`/api/checks/${checkId}`, {
-        method: 'PATCH',
-        headers: { 'content-type': 'application/json' },
-        body: JSON.stringify(body),
-      });
-      const answer = await response.json().catch(() => ({}));
-      if (!response.ok) {
-        setStatus({ kind: 'error', text: answer.error?.message ?? `The server answered ${response.status}.` });
-        return null;
-      }
-      return answer;
-    } catch {
-      setStatus({ kind: 'error', text: 'The server could not be reached; nothing was saved.' });
+      return await api.saveCheckWork(checkId, body);
+    } catch (error) {
+      setStatus({ kind: 'error', text: errorText(error, 'The server could not be reached; nothing was saved.') });
       return null;
     }
   }

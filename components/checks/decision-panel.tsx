@@ -2,6 +2,7 @@
 
 import { useRouter } from 'next/navigation';
 import { useId, useState } from 'react';
+import { api, errorText } from '@/components/data/api-client';
 import type { Decision } from '@/lib/checks/workflow';
 import { primaryButton } from '@/components/ui/button';
 
@@ -48,22 +49,14 @@ export function DecisionPanel({
         : { action, reason: String(data.get('reason') ?? '') };
     setOutcome({ kind: 'busy' });
     try {
-      const response = await fetch(`/api/checks/${checkId}/decision`, {
-        method: 'POST',
-        headers: { 'content-type': 'application/json' },
-        body: JSON.stringify(body),
-      });
-      const answer = await response.json().catch(() => ({}));
-      if (!response.ok) {
-        setOutcome({ kind: 'error', text: answer.error?.message ?? `The server answered ${response.status}.` });
-        return;
-      }
-      form.reset();
-      setOutcome({ kind: 'done', text: DONE[action] });
-      router.refresh();
-    } catch {
-      setOutcome({ kind: 'error', text: 'The server could not be reached; nothing was decided.' });
+      await api.decide(checkId, body);
+    } catch (error) {
+      setOutcome({ kind: 'error', text: errorText(error, 'The server could not be reached; nothing was decided.') });
+      return;
     }
+    form.reset();
+    setOutcome({ kind: 'done', text: DONE[action] });
+    router.refresh();
   }
 
   const busy = outcome.kind === 'busy';

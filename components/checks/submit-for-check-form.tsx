@@ -2,6 +2,7 @@
 
 import { useRouter } from 'next/navigation';
 import { useId, useState } from 'react';
+import { api, ApiError, detail, errorText } from '@/components/data/api-client';
 import { primaryButton } from '@/components/ui/button';
 
 export interface CheckerOption {
@@ -75,46 +76,41 @@ export function SubmitForCheckForm({
     const versionNumber = Number(data.get('versionNumber'));
     const checkerId = String(data.get('checkerId') ?? '');
     setStatus({ kind: 'busy' });
+    let answer;
     try {
-      const response = await fetch(`/api/sheets/${sheetId}/checks`, {
-        method: 'POST',
-        headers: { 'content-type': 'application/json' },
-        body: JSON.stringify({
-          versionNumber,
-          checkerId,
-          password: String(data.get('password') ?? ''),
-          acknowledgements: items.map((f) => ({ key: f.key, text: String(data.get(`ack:${f.key}`) ?? '') })),
-        }),
+      answer = await api.submitForCheck(sheetId, {
+        versionNumber,
+        checkerId,
+        password: String(data.get('password') ?? ''),
+        acknowledgements: items.map((f) => ({ key: f.key, text: String(data.get(`ack:${f.key}`) ?? '') })),
       });
-      const answer = await response.json().catch(() => ({}));
-      const asked = answer.error?.details?.acknowledgementsNeeded as Finding[] | undefined;
-      if (!response.ok && asked) {
+    } catch (error) {
+      const asked =
+        error instanceof ApiError ? (detail(error, 'acknowledgementsNeeded') as Finding[] | undefined) : undefined;
+      if (error instanceof ApiError && error.status !== null && asked) {
         setNeeded({ version: versionNumber, items: asked });
         setStatus({
           kind: 'error',
-          text: `${answer.error.message} Write an acknowledgement for each item below, then submit again.`,
+          text: `${error.message} Write an acknowledgement for each item below, then submit again.`,
         });
         return;
       }
-      if (!response.ok) {
-        setStatus({
-          kind: 'error',
-          text: answer.error?.message ?? `The server answered ${response.status}.`,
-          rule: answer.error?.details?.rule,
-        });
-        return;
-      }
-      form.reset();
-      setNeeded(null);
-      const checker = checkers.find((c) => c.userId === checkerId)?.name ?? 'the checker';
+      const rule = error instanceof ApiError ? detail(error, 'rule') : undefined;
       setStatus({
-        kind: 'done',
-        text: `Version ${answer.versionNumber} is submitted to ${checker} for check and signed as prepared.`,
+        kind: 'error',
+        text: errorText(error, 'The server could not be reached; nothing was submitted.'),
+        rule: typeof rule === 'string' ? rule : undefined,
       });
-      router.refresh();
-    } catch {
-      setStatus({ kind: 'error', text: 'The server could not be reached; nothing was submitted.' });
+      return;
     }
+    form.reset();
+    setNeeded(null);
+    const checker = checkers.find((c) => c.userId === checkerId)?.name ?? 'the checker';
+    setStatus({
+      kind: 'done',
+      text: `Version ${answer.versionNumber} is submitted to ${checker} for check and signed as prepared.`,
+    });
+    router.refresh();
   }
 
   return (

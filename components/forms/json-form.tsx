@@ -2,6 +2,7 @@
 
 import { useId, useState } from 'react';
 import { primaryButton } from '@/components/ui/button';
+import { api, errorText } from '@/components/data/api-client';
 
 export interface FieldSpec {
   name: string;
@@ -44,25 +45,16 @@ export function JsonForm({
     for (const f of fields)
       body[f.name] = f.type === 'checkbox' ? form.get(f.name) === 'on' : String(form.get(f.name) ?? '');
     setState({ kind: 'busy' });
+    let answer: Record<string, unknown>;
     try {
-      const response = await fetch(action, {
-        method,
-        headers: { 'content-type': 'application/json' },
-        body: JSON.stringify(body),
-      });
-      const answer = (await response.json().catch(() => ({}))) as Record<string, unknown> & {
-        error?: { message?: string };
-        message?: string;
-      };
-      if (!response.ok) {
-        setState({ kind: 'error', message: answer.error?.message ?? `The server answered ${response.status}.` });
-        return;
-      }
-      setState({ kind: 'done', message: successMessage ?? (answer.message as string | undefined) ?? 'Done.' });
-      onDone?.(answer);
-    } catch {
-      setState({ kind: 'error', message: 'The server could not be reached.' });
+      answer = await api.sendForm(method, action, body);
+    } catch (error) {
+      setState({ kind: 'error', message: errorText(error) });
+      return;
     }
+    const said = typeof answer.message === 'string' ? answer.message : undefined;
+    setState({ kind: 'done', message: successMessage ?? said ?? 'Done.' });
+    onDone?.(answer);
   }
   return (
     <form onSubmit={submit} className="space-y-3" aria-describedby={`${id}-status`}>

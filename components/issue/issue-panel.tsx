@@ -3,20 +3,8 @@
 import { useRouter } from 'next/navigation';
 import { useState } from 'react';
 import useSWR from 'swr';
-import { fetchJson } from '@/components/data/fetch-json';
+import { api, errorText } from '@/components/data/api-client';
 import { primaryButton } from '@/components/ui/button';
-
-interface JobStatus {
-  id: string;
-  state: 'pending' | 'done' | 'failed';
-  step: string;
-  error: string | null;
-  revision: string;
-  versionNumber: number;
-  revisionId: string | null;
-  pdfSha256: string | null;
-  verificationCode: string | null;
-}
 
 const STEPS = ['queued', 'rendering', 'signing', 'storing', 'recording', 'done'] as const;
 const STEP_LABELS: Record<string, string> = {
@@ -49,7 +37,7 @@ export function IssuePanel({
   const [jobId, setJobId] = useState<string | null>(pendingJobId);
   const [error, setError] = useState<string | null>(null);
   const [busy, setBusy] = useState(false);
-  const { data: job } = useSWR<JobStatus>(jobId ? `/api/issuing/${jobId}` : null, fetchJson, {
+  const { data: job } = useSWR(jobId ? `/api/issuing/${jobId}` : null, () => api.issueJob(jobId!), {
     refreshInterval: (latest) => (latest && latest.state !== 'pending' ? 0 : 700),
     onSuccess: (latest) => {
       if (latest.state === 'done') router.refresh();
@@ -60,17 +48,15 @@ export function IssuePanel({
     event.preventDefault();
     setBusy(true);
     setError(null);
-    const response = await fetch(`/api/sheets/${sheetId}/revisions`, {
-      method: 'POST',
-      headers: { 'content-type': 'application/json' },
-      body: JSON.stringify({ versionNumber: version, password }),
-    }).catch(() => null);
-    const answer = response ? await response.json().catch(() => ({})) : {};
-    setBusy(false);
-    setPassword('');
-    if (!response || response.status !== 202) {
-      setError(answer?.error?.message ?? 'The server could not be reached.');
+    let answer;
+    try {
+      answer = await api.issueRevision(sheetId, { versionNumber: version, password });
+    } catch (error) {
+      setError(errorText(error));
       return;
+    } finally {
+      setBusy(false);
+      setPassword('');
     }
     setJobId(answer.jobId);
   }

@@ -2,6 +2,7 @@
 
 import { useState } from 'react';
 import type { VerificationAnswer } from '@/lib/issue/verification';
+import { api, errorText } from '@/components/data/api-client';
 import { VisibleText } from '@/components/data/visible-text';
 import { primaryButton } from '@/components/ui/button';
 
@@ -10,16 +11,17 @@ export function VerifyForm() {
   const [answer, setAnswer] = useState<VerificationAnswer | null>(null);
   const [state, setState] = useState<{ kind: 'idle' | 'busy' | 'error'; message?: string }>({ kind: 'idle' });
 
-  async function send(body: BodyInit, headers: Record<string, string> = {}) {
+  async function send(request: () => Promise<VerificationAnswer>) {
     setState({ kind: 'busy' });
     setAnswer(null);
-    const response = await fetch('/api/verify', { method: 'POST', body, headers }).catch(() => null);
-    const data = response ? await response.json().catch(() => null) : null;
-    if (!response || !response.ok || !data) {
-      setState({ kind: 'error', message: data?.error?.message ?? 'The server could not be reached.' });
+    let data: VerificationAnswer;
+    try {
+      data = await request();
+    } catch (error) {
+      setState({ kind: 'error', message: errorText(error) });
       return;
     }
-    setAnswer(data as VerificationAnswer);
+    setAnswer(data);
     setState({ kind: 'idle' });
   }
 
@@ -31,15 +33,13 @@ export function VerifyForm() {
       setState({ kind: 'error', message: 'Choose a PDF first.' });
       return;
     }
-    const form = new FormData();
-    form.append('file', file);
-    await send(form);
+    await send(() => api.verifyFile(file));
   }
 
   async function onCode(event: React.FormEvent<HTMLFormElement>) {
     event.preventDefault();
     const code = (event.currentTarget.elements.namedItem('verify-code') as HTMLInputElement).value;
-    await send(JSON.stringify({ code }), { 'content-type': 'application/json' });
+    await send(() => api.verifyCode(code));
   }
 
   const r = answer?.revision;

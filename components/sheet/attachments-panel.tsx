@@ -2,7 +2,7 @@
 
 import { useRef, useState } from 'react';
 import useSWR from 'swr';
-import { fetchJson } from '@/components/data/fetch-json';
+import { api, errorText } from '@/components/data/api-client';
 import type { AttachmentInfo } from '@/lib/attachments/attachments';
 import type { VersionContent } from '@/lib/sheets/content';
 import { AttachmentList } from './attachment-list';
@@ -17,7 +17,7 @@ const toRef = (a: AttachmentInfo): Ref => ({ name: a.name, mediaType: a.mediaTyp
  */
 /** The sheet's uploaded attachments (one SWR cache entry shared by the panel and the editor). */
 export function useSheetAttachments(sheetId: string) {
-  return useSWR<{ attachments: AttachmentInfo[] }>(`/api/sheets/${sheetId}/attachments`, fetchJson);
+  return useSWR(`/api/sheets/${sheetId}/attachments`, () => api.listAttachments(sheetId));
 }
 
 export function AttachmentsPanel({
@@ -43,17 +43,13 @@ export function AttachmentsPanel({
       return;
     }
     setStatus({ kind: 'busy', text: `Uploading ${file.name}…` });
-    const form = new FormData();
-    form.append('file', file);
-    const response = await fetch(`/api/sheets/${sheetId}/attachments`, { method: 'POST', body: form }).catch(
-      () => null,
-    );
-    const answer = response ? await response.json().catch(() => ({})) : {};
-    if (!response || !response.ok) {
-      setStatus({ kind: 'error', text: answer?.error?.message ?? 'The upload did not reach the server.' });
+    let info: AttachmentInfo;
+    try {
+      info = await api.uploadAttachment(sheetId, file);
+    } catch (error) {
+      setStatus({ kind: 'error', text: errorText(error, 'The upload did not reach the server.') });
       return;
     }
-    const info = answer as AttachmentInfo;
     cite(info);
     await mutate();
     if (input.current) input.current.value = '';

@@ -2,18 +2,10 @@
 
 import { useRouter } from 'next/navigation';
 import { useId, useRef, useState } from 'react';
+import { api, errorText } from '@/components/data/api-client';
 
-interface Preview {
-  title: string;
-  safetyRelated: boolean;
-  calcCells: number;
-  textCells: number;
-  significantFigures: number;
-  displayUnits: 'si' | 'trade';
-  exportedFrom: { sheet: string; version: number; sha256: string } | null;
-  unchangedSinceExport: boolean | null;
-  attachments: Array<{ name: string; mediaType: string; size: number; sha256: string; carried: boolean }>;
-}
+/** What the import would create, as POST …/sheets/import/preview answers it. */
+type Preview = Awaited<ReturnType<typeof api.previewImport>>;
 
 function formatSize(bytes: number): string {
   if (bytes < 1024) return `${bytes} B`;
@@ -47,19 +39,16 @@ export function ImportSheetForm({ projectId, projectCode }: { projectId: string;
     if (!file) return;
     setState({ busy: true });
     const body = await file.text();
-    const response = await fetch(`/api/projects/${projectId}/sheets/import/preview`, {
-      method: 'POST',
-      headers: { 'content-type': 'application/json' },
-      body,
-    });
-    const answer = await response.json().catch(() => ({}));
-    if (!response.ok) {
-      setState({ error: answer.error?.message ?? `The server answered ${response.status}.` });
+    let answer: Preview;
+    try {
+      answer = await api.previewImport(projectId, body);
+    } catch (error) {
+      setState({ error: errorText(error) });
       return;
     }
     setText(body);
-    setPreview(answer as Preview);
-    setTitle((answer as Preview).title);
+    setPreview(answer);
+    setTitle(answer.title);
     setState({});
   }
 
@@ -67,15 +56,11 @@ export function ImportSheetForm({ projectId, projectCode }: { projectId: string;
     event.preventDefault();
     if (text === null) return;
     setState({ busy: true });
-    const query = new URLSearchParams({ title: title.trim() });
-    const response = await fetch(`/api/projects/${projectId}/sheets/import?${query}`, {
-      method: 'POST',
-      headers: { 'content-type': 'application/json' },
-      body: text,
-    });
-    const answer = await response.json().catch(() => ({}));
-    if (!response.ok) {
-      setState({ error: answer.error?.message ?? `The server answered ${response.status}.` });
+    let answer;
+    try {
+      answer = await api.importSheet(projectId, text, { title: title.trim() });
+    } catch (error) {
+      setState({ error: errorText(error) });
       return;
     }
     router.push(`/projects/${projectCode}/sheets/${answer.number}`);

@@ -4,12 +4,12 @@ import Link from 'next/link';
 import { useCallback, useEffect, useMemo, useRef, useState } from 'react';
 import useSWR from 'swr';
 import { oneAtATime, postEvaluation } from '@/components/calc/one-evaluation-at-a-time';
+import { api, ApiError, detail, errorText } from '@/components/data/api-client';
 import { StatementView } from '@/components/calc/statement-view';
 import { AttachmentsPanel, useSheetAttachments } from './attachments-panel';
 import { CalcEditor } from './calc-editor';
 import { MarkdownView } from './markdown-view';
 import { RecordListsEditor } from './record-lists-editor';
-import type { SheetResult } from '@/lib/calc/types';
 import { DISPLAY_UNITS, DISPLAY_UNITS_DEFAULT, DISPLAY_UNITS_LABEL, type DisplayUnits } from '@/lib/calc/display-units';
 import type { Cell, VersionContent } from '@/lib/sheets/content';
 import { primaryButton } from '@/components/ui/button';
@@ -38,7 +38,7 @@ function newCellId(cells: Cell[]): string {
 
 // One evaluation in flight per editor; see components/calc/one-evaluation-at-a-time.ts.
 const evaluate = oneAtATime(([, sheetKey, body]: [string, string, string]) =>
-  postEvaluation<SheetResult>({ ...JSON.parse(body), sheetKey }),
+  postEvaluation({ ...JSON.parse(body), sheetKey }),
 );
 
 /**
@@ -139,18 +139,14 @@ export function SheetEditor({ sheetId, projectCode, sheetNumber, base }: Props) 
 
   async function save() {
     setStatus({ kind: 'saving' });
-    const response = await fetch(`/api/sheets/${sheetId}/versions`, {
-      method: 'POST',
-      headers: { 'content-type': 'application/json' },
-      body: JSON.stringify({ parentNumber, message, content }),
-    });
-    const answer = await response.json().catch(() => ({}));
-    if (response.status === 409) {
-      setStatus({ kind: 'conflict', text: answer.error?.message, latest: answer.error?.details?.latestNumber });
-      return;
-    }
-    if (!response.ok) {
-      setStatus({ kind: 'error', text: answer.error?.message ?? `The server answered ${response.status}.` });
+    let answer;
+    try {
+      answer = await api.saveVersion(sheetId, { parentNumber, message, content });
+    } catch (error) {
+      if (error instanceof ApiError && error.status === 409) {
+        const latest = detail(error, 'latestNumber');
+        setStatus({ kind: 'conflict', text: error.message, latest: typeof latest === 'number' ? latest : undefined });
+      } else setStatus({ kind: 'error', text: errorText(error) });
       return;
     }
     localStorage.removeItem(draftKey(sheetId));

@@ -2,6 +2,7 @@
 
 import { useRouter } from 'next/navigation';
 import { useId, useState } from 'react';
+import { api, errorText } from '@/components/data/api-client';
 import { primaryButton } from '@/components/ui/button';
 
 export interface StartOption {
@@ -37,14 +38,15 @@ export function StartFromForm({
     event.preventDefault();
     if (!option) return;
     setState({ busy: true });
-    const response = await fetch(`/api/projects/${projectId}/sheets/start-from`, {
-      method: 'POST',
-      headers: { 'content-type': 'application/json' },
-      body: JSON.stringify({ sheetId: option.sheetId, version: option.version, title: title.trim() }),
-    });
-    const answer = await response.json().catch(() => ({}));
-    if (!response.ok) {
-      setState({ error: answer.error?.message ?? `The server answered ${response.status}.` });
+    let answer;
+    try {
+      answer = await api.startFrom(projectId, {
+        sheetId: option.sheetId,
+        version: option.version,
+        title: title.trim(),
+      });
+    } catch (error) {
+      setState({ error: errorText(error) });
       return;
     }
     router.push(`/projects/${projectCode}/sheets/${answer.number}`);

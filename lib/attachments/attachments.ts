@@ -4,7 +4,7 @@
 // so the version's own hash covers them.
 import { createHash } from 'node:crypto';
 import type { Kysely, Transaction } from 'kysely';
-import { z } from 'zod';
+import type { z } from 'zod';
 import type { Database } from '@/db/schema';
 import type { Actor } from '@/lib/auth/actor';
 import { recordAudit } from '@/lib/audit/record';
@@ -14,10 +14,11 @@ import { checkDefinitionName } from '@/lib/calc/names';
 import type { InputTable } from '@/lib/calc/types';
 import { AppError } from '@/lib/errors/app-error';
 import type { ObjectStore } from '@/lib/storage/object-store';
-import { attachmentRefSchema } from '@/lib/sheets/content';
+import type { attachmentRefSchema } from '@/lib/sheets/content';
 import { parseInputTable, tableNameFor, TableError } from './csv-table';
 import { sanitizeFileName } from './file-name';
 import { checkProjectStorageQuota } from './quota';
+import { attachmentSchema, tableSummarySchema, type AttachmentInfo } from './attachment-schema';
 import {
   ACCEPTED_DESCRIPTION,
   ATTACHMENT_KINDS,
@@ -29,18 +30,9 @@ import {
 
 export type AttachmentRef = z.infer<typeof attachmentRefSchema>;
 
-export const tableSummarySchema = z.object({
-  name: z.string().meta({ description: 'The name cells use: `name.column`.' }),
-  rows: z.number().int(),
-  columns: z.array(z.object({ name: z.string(), unit: z.string().nullable() })),
-});
-
-export const attachmentSchema = attachmentRefSchema.extend({
-  uploadedBy: z.string(),
-  uploadedAt: z.string().meta({ description: 'ISO 8601 UTC time.' }),
-  table: tableSummarySchema.nullable().meta({ description: 'For a CSV data table: how cells refer to it.' }),
-});
-export type AttachmentInfo = z.infer<typeof attachmentSchema>;
+// The response schemas live in a module without server imports (lib/attachments/attachment-schema.ts), so
+// client components can parse with them.
+export { attachmentSchema, tableSummarySchema, type AttachmentInfo };
 
 interface StoredTable {
   rows: number;

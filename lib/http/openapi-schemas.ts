@@ -2,12 +2,15 @@
 // response bodies, which the handlers build from lib/ functions rather than parse, and the multipart
 // upload form, which is read with request.formData(). Request bodies and queries that a handler
 // validates are never described here: the document uses the handler's own schema.
+// Client components parse the answers they read with these schemas (components/data/api-client.ts), so this
+// module imports nothing that reaches the server (pg, kysely, Node built-ins): the lint rule worldsheet/walls
+// checks that through the client.
 import { z } from 'zod';
-import { attachmentSchema } from '@/lib/attachments/attachments';
+import { attachmentSchema } from '@/lib/attachments/attachment-schema';
 import { calculationRecordSchema, versionContentSchema } from '@/lib/sheets/content';
 import { sheetFileSchema } from '@/lib/calc/sheet-file';
-import { sheetFileAttachmentSchema } from '@/lib/sheets/sheet-files';
-import { PROJECT_ROLES } from '@/lib/projects/projects';
+import { sheetFileAttachmentSchema } from '@/lib/sheets/sheet-file-attachment';
+import { PROJECT_ROLES } from '@/lib/projects/roles';
 
 const uuid = z.uuid();
 const timestamp = z.iso.datetime({ offset: true }).meta({ description: 'ISO 8601 date and time (UTC).' });

@@ -6,14 +6,9 @@ import type { Database, ProjectRole } from '@/db/schema';
 import type { Actor } from '@/lib/auth/actor';
 import { recordAudit } from '@/lib/audit/record';
 import { AppError } from '@/lib/errors/app-error';
+import { PROJECT_ROLES } from './roles';
 
-export const PROJECT_ROLES = [
-  'originator',
-  'checker',
-  'approver',
-  'controller',
-  'viewer',
-] as const satisfies readonly ProjectRole[];
+export { PROJECT_ROLES };
 
 export const ROLE_LABELS: Record<ProjectRole, string> = {
   originator: 'Originator',

@@ -12,7 +12,7 @@ import { DISPLAY_UNITS_DEFAULT } from '@/lib/calc/display-units';
 import { checkAttachmentFile, type CheckedAttachment } from '@/lib/attachments/attachments';
 import type { ObjectStore } from '@/lib/storage/object-store';
 import {
-  attachmentRefSchema,
+  type attachmentRefSchema,
   calculationRecordSchema,
   emptyRecord,
   versionContentSchema,
@@ -20,6 +20,7 @@ import {
 } from './content';
 import { contentHash } from './content-hash';
 import { createSheetWithContent } from './sheets';
+import { sheetFileAttachmentSchema } from './sheet-file-attachment';
 
 /**
  * The largest sheet file the import reads. A file can carry its attachments (base64, a third larger
@@ -36,13 +37,7 @@ export const exportQuerySchema = z.object({
   }),
 });
 
-/** An attachment as a sheet file lists it: the version's citation, with its bytes when carried. */
-export const sheetFileAttachmentSchema = attachmentRefSchema.extend({
-  contentBase64: z.string().optional().meta({
-    description:
-      'The bytes, base64: present when the file carries the attachment. An import checks their size and SHA-256.',
-  }),
-});
+export { sheetFileAttachmentSchema };
 
 /** The query of the import: a title that replaces the file's. */
 export const importQuerySchema = z.object({ title: z.string().trim().min(1).max(300).optional() });
