@@ -5,6 +5,7 @@ import { useId, useState } from 'react';
 import useSWR from 'swr';
 import { api, errorText } from '@/components/data/api-client';
 import { primaryButton } from '@/components/ui/button';
+import { Table, Td, Th } from '@/components/ui/table';
 
 type Scope = 'read' | 'read-write';
 
@@ -128,43 +129,28 @@ export function ApiTokensPanel({ defaultDays, maxDays }: { defaultDays: number; 
           </p>
         </div>
       ) : null}
-      <table className="w-full border-collapse text-sm">
-        <caption className="sr-only">Your API tokens</caption>
+      <Table caption="Your API tokens">
         <thead>
           <tr className="border-b border-rule-strong text-left">
-            <th scope="col" className="py-2 pr-3">
-              Name
-            </th>
-            <th scope="col" className="py-2 pr-3">
-              Begins with
-            </th>
-            <th scope="col" className="py-2 pr-3">
-              May
-            </th>
-            <th scope="col" className="py-2 pr-3">
-              Created
-            </th>
-            <th scope="col" className="py-2 pr-3">
-              Expires
-            </th>
-            <th scope="col" className="py-2 pr-3">
-              Last used
-            </th>
-            <th scope="col" className="py-2">
-              State
-            </th>
+            <Th className="py-2 pr-3">Name</Th>
+            <Th className="py-2 pr-3">Begins with</Th>
+            <Th className="py-2 pr-3">May</Th>
+            <Th className="py-2 pr-3">Created</Th>
+            <Th className="py-2 pr-3">Expires</Th>
+            <Th className="py-2 pr-3">Last used</Th>
+            <Th className="py-2">State</Th>
           </tr>
         </thead>
         <tbody>
           {(data?.tokens ?? []).map((t) => (
             <tr key={t.id} className="border-b border-rule">
-              <td className="py-2 pr-3">{t.name}</td>
-              <td className="py-2 pr-3 font-mono">{t.prefix}…</td>
-              <td className="py-2 pr-3">{SCOPE_TEXT[t.scope] ?? t.scope}</td>
-              <td className="py-2 pr-3">{t.created_at.slice(0, 10)}</td>
-              <td className="py-2 pr-3">{formatUtc(t.expires_at)}</td>
-              <td className="py-2 pr-3">{t.last_used_at ? t.last_used_at.slice(0, 16).replace('T', ' ') : 'never'}</td>
-              <td className="py-2">
+              <Td className="py-2 pr-3">{t.name}</Td>
+              <Td className="py-2 pr-3 font-mono">{t.prefix}…</Td>
+              <Td className="py-2 pr-3">{SCOPE_TEXT[t.scope] ?? t.scope}</Td>
+              <Td className="py-2 pr-3">{t.created_at.slice(0, 10)}</Td>
+              <Td className="py-2 pr-3">{formatUtc(t.expires_at)}</Td>
+              <Td className="py-2 pr-3">{t.last_used_at ? t.last_used_at.slice(0, 16).replace('T', ' ') : 'never'}</Td>
+              <Td className="py-2">
                 {t.revoked_at ? (
                   'revoked'
                 ) : t.expired ? (
@@ -174,11 +160,11 @@ export function ApiTokensPanel({ defaultDays, maxDays }: { defaultDays: number; 
                     Revoke {t.name}
                   </button>
                 )}
-              </td>
+              </Td>
             </tr>
           ))}
         </tbody>
-      </table>
+      </Table>
     </div>
   );
 }

@@ -5,6 +5,7 @@ import { useState } from 'react';
 import useSWR from 'swr';
 import { api } from '@/components/data/api-client';
 import { JsonForm } from '@/components/forms/json-form';
+import { Table, Td, Th } from '@/components/ui/table';
 
 type UserRow = Awaited<ReturnType<typeof api.listUsers>>['users'][number];
 
@@ -65,33 +66,24 @@ export function AdminConsole() {
         <h2 id="users-title" className="text-xl font-bold">
           People
         </h2>
-        <table className="w-full border-collapse text-sm">
-          <caption className="sr-only">Accounts</caption>
+        <Table caption="Accounts">
           <thead>
             <tr className="border-b border-rule-strong text-left">
-              <th scope="col" className="py-2 pr-3">
-                Printed name
-              </th>
-              <th scope="col" className="py-2 pr-3">
-                E-mail
-              </th>
-              <th scope="col" className="py-2 pr-3">
-                State
-              </th>
-              <th scope="col" className="py-2">
-                Actions
-              </th>
+              <Th className="py-2 pr-3">Printed name</Th>
+              <Th className="py-2 pr-3">E-mail</Th>
+              <Th className="py-2 pr-3">State</Th>
+              <Th className="py-2">Actions</Th>
             </tr>
           </thead>
           <tbody>
             {(users.data?.users ?? []).map((u) => (
               <tr key={u.id} className="border-b border-rule align-top">
-                <td className="py-2 pr-3">
+                <Td className="py-2 pr-3">
                   {u.name}
                   {u.isAdmin ? <span className="ml-2 text-xs text-ink-muted">administrator</span> : null}
-                </td>
-                <td className="py-2 pr-3 font-mono">{u.email}</td>
-                <td className="py-2 pr-3">
+                </Td>
+                <Td className="py-2 pr-3 font-mono">{u.email}</Td>
+                <Td className="py-2 pr-3">
                   {u.disabledAt ? (
                     'disabled'
                   ) : u.lockedAt ? (
@@ -105,8 +97,8 @@ export function AdminConsole() {
                   ) : (
                     'invited'
                   )}
-                </td>
-                <td className="space-y-1 py-2">
+                </Td>
+                <Td className="space-y-1 py-2">
                   {u.lockedAt ? <UserAction user={u} action="unlock" onDone={() => void users.mutate()} /> : null}
                   {!u.disabledAt && (!u.lockedAt || u.lockedUntil) ? (
                     <UserAction user={u} action="lock" onDone={() => void users.mutate()} />
@@ -116,11 +108,11 @@ export function AdminConsole() {
                     action={u.disabledAt ? 'enable' : 'disable'}
                     onDone={() => void users.mutate()}
                   />
-                </td>
+                </Td>
               </tr>
             ))}
           </tbody>
-        </table>
+        </Table>
         <div className="max-w-md rounded border border-rule bg-surface p-4">
           <h3 className="font-bold">Invite a person</h3>
           <p className="text-sm text-ink-muted">They receive an e-mail with a link to choose their password.</p>
@@ -165,29 +157,24 @@ export function AdminConsole() {
         </div>
         {selected ? (
           <>
-            <table className="w-full border-collapse text-sm">
-              <caption className="sr-only">Members and roles of the selected project</caption>
+            <Table caption="Members and roles of the selected project">
               <thead>
                 <tr className="border-b border-rule-strong text-left">
-                  <th scope="col" className="py-2 pr-3">
-                    Member
-                  </th>
-                  <th scope="col" className="py-2">
-                    Roles
-                  </th>
+                  <Th className="py-2 pr-3">Member</Th>
+                  <Th className="py-2">Roles</Th>
                 </tr>
               </thead>
               <tbody>
                 {(members.data?.members ?? []).map((m) => (
                   <tr key={m.userId} className="border-b border-rule">
-                    <td className="py-2 pr-3">
+                    <Td className="py-2 pr-3">
                       {m.name} <span className="font-mono text-xs text-ink-muted">{m.email}</span>
-                    </td>
-                    <td className="py-2">{m.roles.join(', ')}</td>
+                    </Td>
+                    <Td className="py-2">{m.roles.join(', ')}</Td>
                   </tr>
                 ))}
               </tbody>
-            </table>
+            </Table>
             <div className="grid gap-6 md:grid-cols-2">
               <div className="rounded border border-rule bg-surface p-4">
                 <h3 className="font-bold">Give a role</h3>

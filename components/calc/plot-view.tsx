@@ -5,6 +5,7 @@ import { formatNumberText } from '@/lib/calc/format';
 import type { PlotData } from '@/lib/calc/types';
 import { unitLabel } from '@/lib/calc/unit-label';
 import { plotAxisLabels, plotDescription, plotElement } from '@/lib/plots/plot-figure';
+import { Table, Td, Th } from '@/components/ui/table';
 
 const MAX_WIDTH = 760;
 
@@ -82,37 +83,33 @@ export function PlotView({
         <summary className="cursor-pointer text-accent underline-offset-2 hover:underline">Show data</summary>
         <div className="mt-1 space-y-3">
           {plot.series.map((s, i) => (
-            <div
+            <Table
               key={i}
-              className="max-h-80 overflow-auto rounded border border-rule"
-              tabIndex={0}
-              role="region"
-              aria-label={`Points of ${s.name}`}
+              caption={`${s.name} (${s.points.length} point${s.points.length === 1 ? '' : 's'})`}
+              captionClassName="bg-paper px-2 py-1 text-left font-semibold"
+              className="w-full border-collapse text-xs"
+              box="max-h-80 overflow-auto rounded border border-rule"
+              boxLabel={`Points of ${s.name}`}
             >
-              <table className="w-full border-collapse text-xs">
-                <caption className="bg-paper px-2 py-1 text-left font-semibold">
-                  {s.name} ({s.points.length} point{s.points.length === 1 ? '' : 's'})
-                </caption>
-                <thead>
-                  <tr>
-                    <th scope="col" className="border-b border-rule px-2 py-1 text-right font-semibold">
-                      {axes.x}
-                    </th>
-                    <th scope="col" className="border-b border-rule px-2 py-1 text-right font-semibold">
-                      {axes.y}
-                    </th>
+              <thead>
+                <tr>
+                  <Th className="border-b border-rule px-2 py-1 text-right font-semibold">{axes.x}</Th>
+                  <Th className="border-b border-rule px-2 py-1 text-right font-semibold">{axes.y}</Th>
+                </tr>
+              </thead>
+              <tbody className="font-mono">
+                {s.points.map(([x, y], k) => (
+                  <tr key={k} className="border-t border-rule first:border-t-0">
+                    <Td numeric className="px-2 py-0.5">
+                      {formatNumberText(x, significantFigures)}
+                    </Td>
+                    <Td numeric className="px-2 py-0.5">
+                      {formatNumberText(y, significantFigures)}
+                    </Td>
                   </tr>
-                </thead>
-                <tbody className="font-mono">
-                  {s.points.map(([x, y], k) => (
-                    <tr key={k} className="border-t border-rule first:border-t-0">
-                      <td className="px-2 py-0.5 text-right">{formatNumberText(x, significantFigures)}</td>
-                      <td className="px-2 py-0.5 text-right">{formatNumberText(y, significantFigures)}</td>
-                    </tr>
-                  ))}
-                </tbody>
-              </table>
-            </div>
+                ))}
+              </tbody>
+            </Table>
           ))}
           {plot.kind === 'spacetime' && plot.horizons?.length ? (
             <ul className="list-disc pl-5 text-xs">

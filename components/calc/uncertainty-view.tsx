@@ -6,6 +6,7 @@ import {
   monteCarloLines,
   standardUncertaintyText,
 } from '@/lib/calc/uncertainty-text';
+import { Table, Td, Th } from '@/components/ui/table';
 
 /** The line under a value: "y ± U (k = 2)" for a result, the standard uncertainty for an input. */
 export function UncertaintyValue({ uncertainty }: { uncertainty: UncertaintyResult }) {
@@ -42,48 +43,43 @@ export function UncertaintyDetails({ uncertainty, line }: { uncertainty: Uncerta
         </summary>
         <div className="mt-1 space-y-1">
           {rows.length ? (
-            <div
-              className="overflow-x-auto rounded border border-rule"
-              tabIndex={0}
-              role="region"
-              aria-label={`Uncertainty budget of line ${line}`}
+            <Table
+              caption="Contributions to the combined standard uncertainty (first order, JCGM 100)"
+              captionClassName="bg-paper px-2 py-1 text-left font-semibold"
+              className="w-full border-collapse text-xs"
+              box="rounded border border-rule"
+              boxLabel={`Uncertainty budget of line ${line}`}
             >
-              <table className="w-full border-collapse text-xs">
-                <caption className="bg-paper px-2 py-1 text-left font-semibold">
-                  Contributions to the combined standard uncertainty (first order, JCGM 100)
-                </caption>
-                <thead>
-                  <tr>
-                    {BUDGET_COLUMNS.map((title, i) => (
-                      <th
-                        key={title}
-                        scope="col"
-                        className={`border-b border-rule-strong px-2 py-1 font-semibold ${i === 0 ? 'text-left' : 'text-right'}`}
-                      >
-                        {title}
-                      </th>
-                    ))}
-                  </tr>
-                </thead>
-                <tbody>
-                  {rows.map((cells, r) => (
-                    <tr key={r} className="border-t border-rule first:border-t-0">
-                      {cells.map((cell, i) =>
-                        i === 0 ? (
-                          <th key={i} scope="row" className="px-2 py-0.5 text-left font-mono font-normal">
-                            {cell}
-                          </th>
-                        ) : (
-                          <td key={i} className="px-2 py-0.5 text-right font-mono">
-                            {cell}
-                          </td>
-                        ),
-                      )}
-                    </tr>
+              <thead>
+                <tr>
+                  {BUDGET_COLUMNS.map((title, i) => (
+                    <Th
+                      key={title}
+                      className={`border-b border-rule-strong px-2 py-1 font-semibold ${i === 0 ? 'text-left' : 'text-right'}`}
+                    >
+                      {title}
+                    </Th>
                   ))}
-                </tbody>
-              </table>
-            </div>
+                </tr>
+              </thead>
+              <tbody>
+                {rows.map((cells, r) => (
+                  <tr key={r} className="border-t border-rule first:border-t-0">
+                    {cells.map((cell, i) =>
+                      i === 0 ? (
+                        <Th key={i} scope="row" className="px-2 py-0.5 text-left font-mono font-normal">
+                          {cell}
+                        </Th>
+                      ) : (
+                        <Td key={i} numeric className="px-2 py-0.5 font-mono">
+                          {cell}
+                        </Td>
+                      ),
+                    )}
+                  </tr>
+                ))}
+              </tbody>
+            </Table>
           ) : null}
           <p className="text-xs">{combinedText(uncertainty)}</p>
           {uncertainty.nonLinear ? (

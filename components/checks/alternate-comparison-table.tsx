@@ -1,4 +1,5 @@
 import type { AlternateComparison, ComparisonStatus } from '@/lib/checks/alternate-comparison';
+import { Table, Td, Th } from '@/components/ui/table';
 
 const MARK: Record<ComparisonStatus, { sign: string; className: string }> = {
   within: { sign: '✓', className: 'text-pass' },
@@ -43,51 +44,38 @@ export function AlternateComparisonTable({
               : `${comparison.notWithin} of ${rows.length} shared names ${comparison.notWithin === 1 ? 'is' : 'are'} not within the tolerance.`}
       </p>
       {rows.length ? (
-        <div className="overflow-x-auto">
-          <table className="w-full border-collapse text-sm">
-            <caption className="sr-only">Alternate calculation compared with the sheet</caption>
-            <thead>
-              <tr className="border-b border-rule-strong text-left">
-                <th scope="col" className="py-1.5 pr-3">
-                  Name
-                </th>
-                <th scope="col" className="py-1.5 pr-3">
-                  Sheet
-                </th>
-                <th scope="col" className="py-1.5 pr-3">
-                  Alternate
-                </th>
-                <th scope="col" className="py-1.5 pr-3">
-                  Relative difference
-                </th>
-                <th scope="col" className="py-1.5">
-                  Outcome
-                </th>
+        <Table caption="Alternate calculation compared with the sheet">
+          <thead>
+            <tr className="border-b border-rule-strong text-left">
+              <Th className="py-1.5 pr-3">Name</Th>
+              <Th className="py-1.5 pr-3">Sheet</Th>
+              <Th className="py-1.5 pr-3">Alternate</Th>
+              <Th className="py-1.5 pr-3">Relative difference</Th>
+              <Th className="py-1.5">Outcome</Th>
+            </tr>
+          </thead>
+          <tbody>
+            {rows.map((r) => (
+              <tr key={r.name} className="border-b border-rule align-top">
+                <Th scope="row" className="py-1.5 pr-3 text-left font-mono font-normal">
+                  {r.name}
+                </Th>
+                <Td className="py-1.5 pr-3 tabular-nums">{r.sheet}</Td>
+                <Td className="py-1.5 pr-3 tabular-nums">
+                  {r.alternate}
+                  {r.alternateInSheetUnit ? (
+                    <span className="block text-xs text-ink-muted">= {r.alternateInSheetUnit}</span>
+                  ) : null}
+                </Td>
+                <Td className="py-1.5 pr-3 tabular-nums">{r.relativeDifferenceText}</Td>
+                <Td className={`py-1.5 font-semibold ${MARK[r.status].className}`}>
+                  <span aria-hidden="true">{MARK[r.status].sign} </span>
+                  {r.words[0].toUpperCase() + r.words.slice(1)}
+                </Td>
               </tr>
-            </thead>
-            <tbody>
-              {rows.map((r) => (
-                <tr key={r.name} className="border-b border-rule align-top">
-                  <th scope="row" className="py-1.5 pr-3 text-left font-mono font-normal">
-                    {r.name}
-                  </th>
-                  <td className="py-1.5 pr-3 tabular-nums">{r.sheet}</td>
-                  <td className="py-1.5 pr-3 tabular-nums">
-                    {r.alternate}
-                    {r.alternateInSheetUnit ? (
-                      <span className="block text-xs text-ink-muted">= {r.alternateInSheetUnit}</span>
-                    ) : null}
-                  </td>
-                  <td className="py-1.5 pr-3 tabular-nums">{r.relativeDifferenceText}</td>
-                  <td className={`py-1.5 font-semibold ${MARK[r.status].className}`}>
-                    <span aria-hidden="true">{MARK[r.status].sign} </span>
-                    {r.words[0].toUpperCase() + r.words.slice(1)}
-                  </td>
-                </tr>
-              ))}
-            </tbody>
-          </table>
-        </div>
+            ))}
+          </tbody>
+        </Table>
       ) : null}
     </div>
   );

@@ -2,6 +2,7 @@ import Link from 'next/link';
 import { UtcTime } from '@/components/ui/utc-time';
 import type { listQueue } from '@/lib/checks/queries';
 import { VisibleText } from '@/components/data/visible-text';
+import { Table, Td, Th } from '@/components/ui/table';
 
 export type QueueRow = Awaited<ReturnType<typeof listQueue>>[number];
 
@@ -16,39 +17,24 @@ export function CheckQueueTable({
   caption: string;
 }) {
   return (
-    <table className="w-full border-collapse text-sm">
-      <caption className="sr-only">{caption}</caption>
+    <Table caption={caption}>
       <thead>
         <tr className="border-b border-rule-strong text-left">
-          <th scope="col" className="py-2 pr-3">
-            Sheet
-          </th>
-          <th scope="col" className="py-2 pr-3">
-            Version
-          </th>
-          <th scope="col" className="py-2 pr-3">
-            Submitted by
-          </th>
-          <th scope="col" className="py-2 pr-3">
-            Checker
-          </th>
-          <th scope="col" className="py-2 pr-3">
-            Submitted (UTC)
-          </th>
-          {queue === 'approval' ? (
-            <th scope="col" className="py-2 pr-3">
-              You may approve
-            </th>
-          ) : null}
-          <th scope="col" className="py-2">
+          <Th className="py-2 pr-3">Sheet</Th>
+          <Th className="py-2 pr-3">Version</Th>
+          <Th className="py-2 pr-3">Submitted by</Th>
+          <Th className="py-2 pr-3">Checker</Th>
+          <Th className="py-2 pr-3">Submitted (UTC)</Th>
+          {queue === 'approval' ? <Th className="py-2 pr-3">You may approve</Th> : null}
+          <Th className="py-2">
             <span className="sr-only">Open</span>
-          </th>
+          </Th>
         </tr>
       </thead>
       <tbody>
         {rows.map((r) => (
           <tr key={r.id} className="border-b border-rule align-top">
-            <td className="py-2 pr-3">
+            <Td className="py-2 pr-3">
               <Link
                 href={`/projects/${r.sheet.projectCode}/sheets/${r.sheet.number}`}
                 className="font-mono font-semibold text-accent underline"
@@ -63,24 +49,24 @@ export function CheckQueueTable({
                   safety-related
                 </span>
               ) : null}
-            </td>
-            <td className="py-2 pr-3 font-mono">
+            </Td>
+            <Td className="py-2 pr-3 font-mono">
               {r.versionNumber}
               <span className="block text-xs text-ink-muted" title={r.sha256}>
                 {r.sha256.slice(0, 12)}…
               </span>
-            </td>
-            <td className="py-2 pr-3">{r.submittedBy}</td>
-            <td className="py-2 pr-3">{r.checker}</td>
-            <td className="py-2 pr-3 whitespace-nowrap font-mono">
+            </Td>
+            <Td className="py-2 pr-3">{r.submittedBy}</Td>
+            <Td className="py-2 pr-3">{r.checker}</Td>
+            <Td className="py-2 pr-3 whitespace-nowrap font-mono">
               <UtcTime iso={r.submittedAt} />
-            </td>
+            </Td>
             {queue === 'approval' ? (
-              <td className="max-w-xs py-2 pr-3">
+              <Td className="max-w-xs py-2 pr-3">
                 {r.eligible ? 'Yes' : <span className="text-fail">No: {r.reason}</span>}
-              </td>
+              </Td>
             ) : null}
-            <td className="py-2 whitespace-nowrap">
+            <Td className="py-2 whitespace-nowrap">
               <Link href={`/checks/${r.id}`} className="font-semibold text-accent underline">
                 Open the check
                 <span className="sr-only">
@@ -88,10 +74,10 @@ export function CheckQueueTable({
                   of {r.sheet.code} version {r.versionNumber}
                 </span>
               </Link>
-            </td>
+            </Td>
           </tr>
         ))}
       </tbody>
-    </table>
+    </Table>
   );
 }

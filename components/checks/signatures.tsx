@@ -1,4 +1,5 @@
 import { UtcTime } from '@/components/ui/utc-time';
+import { Table, Td, Th } from '@/components/ui/table';
 
 export interface SignatureRow {
   id: string;
@@ -14,41 +15,30 @@ export interface SignatureRow {
 export function SignatureTable({ signatures, caption }: { signatures: SignatureRow[]; caption: string }) {
   if (signatures.length === 0) return <p className="text-sm text-ink-muted">No signatures yet.</p>;
   return (
-    <table className="w-full border-collapse text-sm">
-      <caption className="sr-only">{caption}</caption>
+    <Table caption={caption}>
       <thead>
         <tr className="border-b border-rule-strong text-left">
-          <th scope="col" className="py-2 pr-3">
-            Printed name
-          </th>
-          <th scope="col" className="py-2 pr-3">
-            Meaning
-          </th>
-          <th scope="col" className="py-2 pr-3">
-            Signed (UTC)
-          </th>
-          <th scope="col" className="py-2 pr-3">
-            Version
-          </th>
-          <th scope="col" className="py-2">
-            SHA-256 of the version
-          </th>
+          <Th className="py-2 pr-3">Printed name</Th>
+          <Th className="py-2 pr-3">Meaning</Th>
+          <Th className="py-2 pr-3">Signed (UTC)</Th>
+          <Th className="py-2 pr-3">Version</Th>
+          <Th className="py-2">SHA-256 of the version</Th>
         </tr>
       </thead>
       <tbody>
         {signatures.map((s) => (
           <tr key={s.id} className="border-b border-rule align-top">
-            <td className="py-2 pr-3 font-semibold whitespace-nowrap">{s.printedName}</td>
-            <td className="py-2 pr-3">{s.meaningLabel}</td>
-            <td className="py-2 pr-3 whitespace-nowrap font-mono">
+            <Td className="py-2 pr-3 font-semibold whitespace-nowrap">{s.printedName}</Td>
+            <Td className="py-2 pr-3">{s.meaningLabel}</Td>
+            <Td className="py-2 pr-3 whitespace-nowrap font-mono">
               <UtcTime iso={s.signedAt} />
-            </td>
-            <td className="py-2 pr-3 font-mono">{s.versionNumber}</td>
-            <td className="py-2 font-mono text-xs break-all">{s.sha256}</td>
+            </Td>
+            <Td className="py-2 pr-3 font-mono">{s.versionNumber}</Td>
+            <Td className="py-2 font-mono text-xs break-all">{s.sha256}</Td>
           </tr>
         ))}
       </tbody>
-    </table>
+    </Table>
   );
 }
 

@@ -1,4 +1,5 @@
 import { FINDING_LABELS, type DesignInputCheck, type FindingKind } from '@/lib/checks/submission-findings';
+import { Table, Td, Th } from '@/components/ui/table';
 
 /**
  * What the originator acknowledged in writing on submitting the version (each cell error, failed
@@ -41,33 +42,34 @@ export function SubmissionAcknowledgements({
         </ul>
       ) : null}
       {designInputs.length ? (
-        <table className="w-full text-left text-sm">
-          <caption className="text-left text-xs text-ink-muted">
-            Each design input that names a cell: the record&apos;s value and the value the engine used.
-          </caption>
+        <Table
+          caption={"Each design input that names a cell: the record's value and the value the engine used."}
+          className="w-full text-left text-sm"
+          captionClassName="text-left text-xs text-ink-muted"
+        >
           <thead>
             <tr>
-              <th scope="col">Design input</th>
-              <th scope="col">Record</th>
-              <th scope="col">Value used</th>
-              <th scope="col">Outcome</th>
+              <Th>Design input</Th>
+              <Th>Record</Th>
+              <Th>Value used</Th>
+              <Th>Outcome</Th>
             </tr>
           </thead>
           <tbody>
             {designInputs.map((d) => (
               <tr key={d.index} className="border-t border-rule align-top">
-                <td>{d.name}</td>
-                <td>
+                <Td>{d.name}</Td>
+                <Td>
                   <code className="font-mono">{d.cell}</code> = {d.recordValue}
-                </td>
-                <td>{d.engineValue ?? '—'}</td>
-                <td className={d.status === 'match' ? 'text-pass' : 'font-semibold text-fail'}>
+                </Td>
+                <Td>{d.engineValue ?? '—'}</Td>
+                <Td className={d.status === 'match' ? 'text-pass' : 'font-semibold text-fail'}>
                   {d.status === 'match' ? 'matches' : `Error: ${d.words}`}
-                </td>
+                </Td>
               </tr>
             ))}
           </tbody>
-        </table>
+        </Table>
       ) : null}
     </section>
   );

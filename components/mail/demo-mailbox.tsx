@@ -5,6 +5,7 @@ import { notFound } from 'next/navigation';
 import { splitLinks, type CapturedMessage } from '@/lib/mail/capture-client';
 import type { DemoMailbox as DemoMailboxData } from '@/lib/mail/mailbox';
 import { formatUtc } from '@/components/ui/utc-time';
+import { Table, Td, Th } from '@/components/ui/table';
 
 function MessageText({ text }: { text: string }) {
   return (
@@ -124,42 +125,33 @@ export function DemoMailbox({ mailbox }: { mailbox: DemoMailboxData }) {
                 ? 'Every captured e-mail, as you are an administrator. Each reading of this list is recorded in the audit trail.'
                 : `The e-mails addressed to ${mailbox.viewerEmail}.`}
             </p>
-            <div className="mt-3 overflow-x-auto">
-              <table className="w-full border-collapse text-sm">
-                <caption className="sr-only">E-mails captured by the demo mail server, newest first</caption>
-                <thead>
-                  <tr className="border-b border-rule-strong text-left">
-                    <th scope="col" className="py-2 pr-4">
-                      To
-                    </th>
-                    <th scope="col" className="py-2 pr-4">
-                      Subject
-                    </th>
-                    <th scope="col" className="py-2">
-                      Received
-                    </th>
+            <Table caption="E-mails captured by the demo mail server, newest first" box="mt-3">
+              <thead>
+                <tr className="border-b border-rule-strong text-left">
+                  <Th className="py-2 pr-4">To</Th>
+                  <Th className="py-2 pr-4">Subject</Th>
+                  <Th className="py-2">Received</Th>
+                </tr>
+              </thead>
+              <tbody>
+                {mailbox.messages.map((m) => (
+                  <tr key={m.id} className="border-b border-rule align-top">
+                    <Td className="break-all py-2 pr-4">{m.to.join(', ')}</Td>
+                    <Th scope="row" className="py-2 pr-4 text-left font-normal">
+                      <a
+                        href={`#message-${m.id}`}
+                        className="font-semibold text-accent underline hover:text-accent-hover"
+                      >
+                        {m.subject || '(no subject)'}
+                      </a>
+                    </Th>
+                    <Td className="whitespace-nowrap py-2 font-mono text-xs">
+                      <time dateTime={m.date}>{formatUtc(m.date, true)}</time>
+                    </Td>
                   </tr>
-                </thead>
-                <tbody>
-                  {mailbox.messages.map((m) => (
-                    <tr key={m.id} className="border-b border-rule align-top">
-                      <td className="break-all py-2 pr-4">{m.to.join(', ')}</td>
-                      <th scope="row" className="py-2 pr-4 text-left font-normal">
-                        <a
-                          href={`#message-${m.id}`}
-                          className="font-semibold text-accent underline hover:text-accent-hover"
-                        >
-                          {m.subject || '(no subject)'}
-                        </a>
-                      </th>
-                      <td className="whitespace-nowrap py-2 font-mono text-xs">
-                        <time dateTime={m.date}>{formatUtc(m.date, true)}</time>
-                      </td>
-                    </tr>
-                  ))}
-                </tbody>
-              </table>
-            </div>
+                ))}
+              </tbody>
+            </Table>
           </section>
 
           <section aria-labelledby="messages" className="space-y-4">

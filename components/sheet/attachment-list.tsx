@@ -2,6 +2,7 @@ import type { VersionContent } from '@/lib/sheets/content';
 import { tableNameFor } from '@/lib/attachments/table-name';
 import { VisibleText } from '@/components/data/visible-text';
 import { revealBidiControls } from '@/lib/calc/bidi-controls';
+import { Table, Td, Th } from '@/components/ui/table';
 
 type Ref = VersionContent['attachments'][number];
 
@@ -30,64 +31,51 @@ export function AttachmentList({
 }) {
   if (attachments.length === 0) return <p className="text-sm text-ink-muted">No attachments.</p>;
   return (
-    <div className="overflow-x-auto">
-      <table className="w-full text-left text-sm">
-        <caption className="sr-only">Attachments cited by this version</caption>
-        <thead>
-          <tr className="border-b border-rule-strong">
-            <th scope="col" className="py-1 pr-3">
-              File
-            </th>
-            <th scope="col" className="py-1 pr-3">
-              Kind
-            </th>
-            <th scope="col" className="py-1 pr-3">
-              Size
-            </th>
-            <th scope="col" className="py-1 pr-3">
-              SHA-256
-            </th>
-            <th scope="col" className="py-1 pr-3">
-              In cells
-            </th>
-            {actions ? (
-              <th scope="col" className="py-1">
-                <span className="sr-only">Actions</span>
-              </th>
-            ) : null}
+    <Table caption="Attachments cited by this version" className="w-full text-left text-sm">
+      <thead>
+        <tr className="border-b border-rule-strong">
+          <Th className="py-1 pr-3">File</Th>
+          <Th className="py-1 pr-3">Kind</Th>
+          <Th className="py-1 pr-3">Size</Th>
+          <Th className="py-1 pr-3">SHA-256</Th>
+          <Th className="py-1 pr-3">In cells</Th>
+          {actions ? (
+            <Th className="py-1">
+              <span className="sr-only">Actions</span>
+            </Th>
+          ) : null}
+        </tr>
+      </thead>
+      <tbody>
+        {attachments.map((a) => (
+          <tr key={`${a.name}:${a.sha256}`} className="border-b border-rule align-top">
+            <Td className="py-1 pr-3">
+              <a
+                href={`/api/sheets/${sheetId}/attachments/${a.sha256}`}
+                download={revealBidiControls(a.name)}
+                className="font-semibold text-accent underline"
+              >
+                <VisibleText text={a.name} />
+              </a>
+            </Td>
+            <Td className="py-1 pr-3">{KIND_LABEL[a.mediaType] ?? a.mediaType}</Td>
+            <Td className="py-1 pr-3 whitespace-nowrap">{formatBytes(a.size)}</Td>
+            <Td className="py-1 pr-3">
+              <code className="break-all font-mono text-xs" title={a.sha256}>
+                {a.sha256}
+              </code>
+            </Td>
+            <Td className="py-1 pr-3">
+              {a.mediaType === 'text/csv' ? (
+                <code className="font-mono">{tableNameFor(a.name)}.column</code>
+              ) : (
+                <span className="text-ink-muted">—</span>
+              )}
+            </Td>
+            {actions ? <Td className="py-1">{actions(a)}</Td> : null}
           </tr>
-        </thead>
-        <tbody>
-          {attachments.map((a) => (
-            <tr key={`${a.name}:${a.sha256}`} className="border-b border-rule align-top">
-              <td className="py-1 pr-3">
-                <a
-                  href={`/api/sheets/${sheetId}/attachments/${a.sha256}`}
-                  download={revealBidiControls(a.name)}
-                  className="font-semibold text-accent underline"
-                >
-                  <VisibleText text={a.name} />
-                </a>
-              </td>
-              <td className="py-1 pr-3">{KIND_LABEL[a.mediaType] ?? a.mediaType}</td>
-              <td className="py-1 pr-3 whitespace-nowrap">{formatBytes(a.size)}</td>
-              <td className="py-1 pr-3">
-                <code className="break-all font-mono text-xs" title={a.sha256}>
-                  {a.sha256}
-                </code>
-              </td>
-              <td className="py-1 pr-3">
-                {a.mediaType === 'text/csv' ? (
-                  <code className="font-mono">{tableNameFor(a.name)}.column</code>
-                ) : (
-                  <span className="text-ink-muted">—</span>
-                )}
-              </td>
-              {actions ? <td className="py-1">{actions(a)}</td> : null}
-            </tr>
-          ))}
-        </tbody>
-      </table>
-    </div>
+        ))}
+      </tbody>
+    </Table>
   );
 }

@@ -3,6 +3,7 @@
 import { useRouter } from 'next/navigation';
 import { useId, useRef, useState } from 'react';
 import { api, errorText } from '@/components/data/api-client';
+import { Table, Td, Th } from '@/components/ui/table';
 
 /** What the import would create, as POST …/sheets/import/preview answers it. */
 type Preview = Awaited<ReturnType<typeof api.previewImport>>;
@@ -112,37 +113,32 @@ export function ImportSheetForm({ projectId, projectCode }: { projectId: string;
             <p>The file does not say which sheet it was exported from.</p>
           )}
           {preview.attachments.length > 0 ? (
-            <table className="w-full text-left text-xs">
-              <caption className="text-left font-semibold">Attachments in the file</caption>
+            <Table
+              caption="Attachments in the file"
+              className="w-full text-left text-xs"
+              captionClassName="text-left font-semibold"
+            >
               <thead>
                 <tr className="border-b border-rule-strong">
-                  <th scope="col" className="py-1 pr-2">
-                    Name
-                  </th>
-                  <th scope="col" className="py-1 pr-2">
-                    Size
-                  </th>
-                  <th scope="col" className="py-1 pr-2">
-                    SHA-256
-                  </th>
-                  <th scope="col" className="py-1">
-                    Imported
-                  </th>
+                  <Th className="py-1 pr-2">Name</Th>
+                  <Th className="py-1 pr-2">Size</Th>
+                  <Th className="py-1 pr-2">SHA-256</Th>
+                  <Th className="py-1">Imported</Th>
                 </tr>
               </thead>
               <tbody>
                 {preview.attachments.map((a) => (
                   <tr key={`${a.name}:${a.sha256}`} className="border-b border-rule">
-                    <td className="py-1 pr-2 break-all">{a.name}</td>
-                    <td className="py-1 pr-2 whitespace-nowrap">{formatSize(a.size)}</td>
-                    <td className="py-1 pr-2 font-mono">{a.sha256.slice(0, 16)}…</td>
-                    <td className={`py-1 ${a.carried ? 'text-pass' : 'font-semibold text-caution'}`}>
+                    <Td className="py-1 pr-2 break-all">{a.name}</Td>
+                    <Td className="py-1 pr-2 whitespace-nowrap">{formatSize(a.size)}</Td>
+                    <Td className="py-1 pr-2 font-mono">{a.sha256.slice(0, 16)}…</Td>
+                    <Td className={`py-1 ${a.carried ? 'text-pass' : 'font-semibold text-caution'}`}>
                       {a.carried ? 'yes: bytes match the SHA-256' : 'no: the file lists it without its bytes'}
-                    </td>
+                    </Td>
                   </tr>
                 ))}
               </tbody>
-            </table>
+            </Table>
           ) : null}
           {notCarried.length > 0 ? (
             <p className="font-semibold text-caution">

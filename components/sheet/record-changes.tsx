@@ -1,6 +1,7 @@
 import { SourceDiff } from '@/components/sheet/source-diff';
 import type { AttachmentChange, RecordComparison, RecordFieldName, TableDiff } from '@/lib/sheets/compare';
 import { VisibleText } from '@/components/data/visible-text';
+import { Table, Td, Th } from '@/components/ui/table';
 
 const FIELD_LABELS: Record<RecordFieldName, string> = {
   title: 'Title',
@@ -63,59 +64,52 @@ export function TableDiffView({ name, diff, first }: { name: string; diff: Table
         </ul>
       ) : null}
       {diff.rows.length ? (
-        <div className="overflow-x-auto">
-          <table className="border-collapse font-mono text-xs">
-            <caption className="sr-only">Rows of {name} that changed</caption>
-            <thead>
-              <tr className="border-b border-rule-strong text-left">
-                <th scope="col" className="py-1 pr-3 font-sans">
-                  Row
-                </th>
-                <th scope="col" className="py-1 pr-3 font-sans">
-                  Change
-                </th>
-                {diff.columns.map((c) => (
-                  <th key={c.name} scope="col" className="py-1 pr-3">
-                    {c.name}
-                    {unit(c.newUnit ?? c.oldUnit)}
-                  </th>
-                ))}
-              </tr>
-            </thead>
-            <tbody>
-              {diff.rows.map((r, i) => (
-                <tr key={i} className="border-b border-rule">
-                  <th scope="row" className="py-1 pr-3 text-left font-normal">
-                    {r.oldRow ?? '—'} → {r.newRow ?? '—'}
-                  </th>
-                  <td
-                    className={`py-1 pr-3 font-sans font-semibold ${r.status === 'added' ? 'text-pass' : r.status === 'removed' ? 'text-fail' : 'text-caution'}`}
-                  >
-                    {r.status}
-                  </td>
-                  {diff.columns.map((c, k) => {
-                    const o = r.old?.[k] ?? null;
-                    const v = r.new?.[k] ?? null;
-                    return (
-                      <td key={c.name} className="py-1 pr-3">
-                        {r.status === 'changed' && r.changedColumns.includes(c.name) ? (
-                          <>
-                            <del className="bg-fail-soft text-fail">{o}</del>{' '}
-                            <ins className="bg-pass-soft text-pass no-underline">{v}</ins>
-                          </>
-                        ) : r.status === 'removed' ? (
-                          (o ?? '')
-                        ) : (
-                          (v ?? o ?? '')
-                        )}
-                      </td>
-                    );
-                  })}
-                </tr>
+        <Table caption={`Rows of ${name} that changed`} className="border-collapse font-mono text-xs">
+          <thead>
+            <tr className="border-b border-rule-strong text-left">
+              <Th className="py-1 pr-3 font-sans">Row</Th>
+              <Th className="py-1 pr-3 font-sans">Change</Th>
+              {diff.columns.map((c) => (
+                <Th key={c.name} className="py-1 pr-3">
+                  {c.name}
+                  {unit(c.newUnit ?? c.oldUnit)}
+                </Th>
               ))}
-            </tbody>
-          </table>
-        </div>
+            </tr>
+          </thead>
+          <tbody>
+            {diff.rows.map((r, i) => (
+              <tr key={i} className="border-b border-rule">
+                <Th scope="row" className="py-1 pr-3 text-left font-normal">
+                  {r.oldRow ?? '—'} → {r.newRow ?? '—'}
+                </Th>
+                <Td
+                  className={`py-1 pr-3 font-sans font-semibold ${r.status === 'added' ? 'text-pass' : r.status === 'removed' ? 'text-fail' : 'text-caution'}`}
+                >
+                  {r.status}
+                </Td>
+                {diff.columns.map((c, k) => {
+                  const o = r.old?.[k] ?? null;
+                  const v = r.new?.[k] ?? null;
+                  return (
+                    <Td key={c.name} className="py-1 pr-3">
+                      {r.status === 'changed' && r.changedColumns.includes(c.name) ? (
+                        <>
+                          <del className="bg-fail-soft text-fail">{o}</del>{' '}
+                          <ins className="bg-pass-soft text-pass no-underline">{v}</ins>
+                        </>
+                      ) : r.status === 'removed' ? (
+                        (o ?? '')
+                      ) : (
+                        (v ?? o ?? '')
+                      )}
+                    </Td>
+                  );
+                })}
+              </tr>
+            ))}
+          </tbody>
+        </Table>
       ) : null}
       {diff.truncated ? (
         <p className="text-xs text-ink-muted">Only the first {diff.rows.length} row changes are listed.</p>

@@ -4,6 +4,7 @@ import Link from 'next/link';
 import { useMemo, useState } from 'react';
 import { SHEET_STATUS_LABELS, type SheetStatus } from '@/lib/checks/status';
 import { VisibleText } from '@/components/data/visible-text';
+import { Table, Td, Th } from '@/components/ui/table';
 
 /** The workflow status, or Void for a sheet voided as created by mistake (lib/sheets/void.ts). */
 function statusLabel(status: string): string {
@@ -70,14 +71,12 @@ export function SheetRegister({ rows, projectCode }: { rows: RegisterRow[]; proj
           placeholder="number, title, originator…"
         />
       </div>
-      <table className="w-full border-collapse text-sm">
-        <caption className="sr-only">Calculation sheets of {projectCode}</caption>
+      <Table caption={`Calculation sheets of ${projectCode}`}>
         <thead>
           <tr className="border-b border-rule-strong text-left">
             {COLUMNS.map((c) => (
-              <th
+              <Th
                 key={c.key}
-                scope="col"
                 aria-sort={sort.key === c.key ? (sort.dir === 1 ? 'ascending' : 'descending') : 'none'}
                 className="py-2 pr-3"
               >
@@ -89,22 +88,22 @@ export function SheetRegister({ rows, projectCode }: { rows: RegisterRow[]; proj
                   {c.label}
                   {sort.key === c.key ? (sort.dir === 1 ? ' ▲' : ' ▼') : ''}
                 </button>
-              </th>
+              </Th>
             ))}
           </tr>
         </thead>
         <tbody>
           {shown.map((r) => (
             <tr key={r.id} className="border-b border-rule">
-              <td className="py-2 pr-3 font-mono">
+              <Td className="py-2 pr-3 font-mono">
                 <Link
                   href={`/projects/${projectCode}/sheets/${r.number}`}
                   className="font-semibold text-accent underline"
                 >
                   {r.code}
                 </Link>
-              </td>
-              <td className="py-2 pr-3">
+              </Td>
+              <Td className="py-2 pr-3">
                 <VisibleText text={r.title} />
                 {r.safetyRelated ? (
                   <span className="ml-2 rounded bg-caution-soft px-1.5 py-0.5 text-xs font-bold text-caution">
@@ -116,8 +115,8 @@ export function SheetRegister({ rows, projectCode }: { rows: RegisterRow[]; proj
                     starter
                   </span>
                 ) : null}
-              </td>
-              <td className="py-2 pr-3">
+              </Td>
+              <Td className="py-2 pr-3">
                 {statusLabel(r.status)}
                 {r.supersededInputs?.length ? (
                   <Link
@@ -127,15 +126,15 @@ export function SheetRegister({ rows, projectCode }: { rows: RegisterRow[]; proj
                     Superseded input<span className="sr-only"> of {r.code}</span>: {r.supersededInputs.join('; ')}
                   </Link>
                 ) : null}
-              </td>
-              <td className="py-2 pr-3">{r.currentRevision ?? '—'}</td>
-              <td className="py-2 pr-3 font-mono">{r.latestVersion ?? '—'}</td>
-              <td className="py-2 pr-3">{r.originator}</td>
-              <td className="py-2 pr-3 font-mono whitespace-nowrap">{r.updatedAt.slice(0, 16).replace('T', ' ')}</td>
+              </Td>
+              <Td className="py-2 pr-3">{r.currentRevision ?? '—'}</Td>
+              <Td className="py-2 pr-3 font-mono">{r.latestVersion ?? '—'}</Td>
+              <Td className="py-2 pr-3">{r.originator}</Td>
+              <Td className="py-2 pr-3 font-mono whitespace-nowrap">{r.updatedAt.slice(0, 16).replace('T', ' ')}</Td>
             </tr>
           ))}
         </tbody>
-      </table>
+      </Table>
       {shown.length === 0 ? <p className="text-ink-muted">No sheets match.</p> : null}
     </div>
   );

@@ -1,6 +1,7 @@
 import Link from 'next/link';
 import type { CitedValue, SupersededInput } from '@/lib/sheets/impact';
 import { VisibleText } from '@/components/data/visible-text';
+import { Table, Td, Th } from '@/components/ui/table';
 
 function Value({ value, missing }: { value: CitedValue | null; missing: string }) {
   if (!value) return <span className="italic">{missing}</span>;
@@ -68,44 +69,37 @@ export function SupersededInputs({
                 </Link>
               ) : null}
             </p>
-            <table className="w-full border-collapse text-left">
-              <caption className="sr-only">Values cited from {what}, then and now</caption>
+            <Table caption={`Values cited from ${what}, then and now`} className="w-full border-collapse text-left">
               <thead>
                 <tr className="border-b border-caution-rule">
-                  <th scope="col" className="py-1 pr-3">
-                    Name
-                  </th>
-                  <th scope="col" className="py-1 pr-3">
-                    In revision {input.revision} (cited)
-                  </th>
-                  <th scope="col" className="py-1 pr-3">
+                  <Th className="py-1 pr-3">Name</Th>
+                  <Th className="py-1 pr-3">In revision {input.revision} (cited)</Th>
+                  <Th className="py-1 pr-3">
                     {input.currentRevision ? `In revision ${input.currentRevision} (current)` : 'Current'}
-                  </th>
-                  <th scope="col" className="py-1">
-                    Changed
-                  </th>
+                  </Th>
+                  <Th className="py-1">Changed</Th>
                 </tr>
               </thead>
               <tbody>
                 {input.names.map((n) => (
                   <tr key={n.name} className="border-b border-caution-rule align-top">
-                    <th scope="row" className="py-1 pr-3 font-mono font-normal">
+                    <Th scope="row" className="py-1 pr-3 font-mono font-normal">
                       {n.name}
-                    </th>
-                    <td className="py-1 pr-3">
+                    </Th>
+                    <Td className="py-1 pr-3">
                       <Value value={n.cited} missing="not recorded" />
-                    </td>
-                    <td className="py-1 pr-3">
+                    </Td>
+                    <Td className="py-1 pr-3">
                       <Value
                         value={n.current}
                         missing={input.currentRevision ? 'no longer defined' : 'no current revision'}
                       />
-                    </td>
-                    <td className="py-1 font-semibold">{n.changed ? 'yes' : 'no'}</td>
+                    </Td>
+                    <Td className="py-1 font-semibold">{n.changed ? 'yes' : 'no'}</Td>
                   </tr>
                 ))}
               </tbody>
-            </table>
+            </Table>
           </section>
         );
       })}
