@@ -6,6 +6,7 @@ import useSWR from 'swr';
 import { api, errorText } from '@/components/data/api-client';
 import { primaryButton } from '@/components/ui/button';
 import { Table, Td, Th } from '@/components/ui/table';
+import { Field, inputClass } from '@/components/ui/field';
 
 type Scope = 'read' | 'read-write';
 
@@ -59,22 +60,13 @@ export function ApiTokensPanel({ defaultDays, maxDays }: { defaultDays: number; 
   return (
     <div className="space-y-4">
       <form onSubmit={create} className="max-w-md space-y-3" aria-describedby={`${id}-status`}>
-        <div>
-          <label htmlFor={`${id}-name`} className="block text-sm font-semibold">
-            Token name
-          </label>
-          <input
-            id={`${id}-name`}
-            name="name"
-            required
-            maxLength={100}
-            aria-describedby={`${id}-name-hint`}
-            className="w-full rounded border border-rule-strong bg-surface px-3 py-2"
-          />
-          <p id={`${id}-name-hint`} className="text-xs text-ink-muted">
-            What the token is for, e.g. &quot;nightly export script&quot;.
-          </p>
-        </div>
+        <Field
+          label="Token name"
+          id={`${id}-name`}
+          hint={<>What the token is for, e.g. &quot;nightly export script&quot;.</>}
+        >
+          {(control) => <input {...control} name="name" required maxLength={100} className={inputClass} />}
+        </Field>
         <fieldset>
           <legend className="text-sm font-semibold">What it may do</legend>
           <div className="flex items-center gap-2">
@@ -90,23 +82,17 @@ export function ApiTokensPanel({ defaultDays, maxDays }: { defaultDays: number; 
             </label>
           </div>
         </fieldset>
-        <div>
-          <label htmlFor={`${id}-days`} className="block text-sm font-semibold">
-            Expires after
-          </label>
-          <select
-            id={`${id}-days`}
-            name="expiresInDays"
-            defaultValue={String(defaultDays)}
-            className="w-full rounded border border-rule-strong bg-surface px-3 py-2"
-          >
-            {lifetimes(defaultDays, maxDays).map((d) => (
-              <option key={d} value={d}>
-                {d} days
-              </option>
-            ))}
-          </select>
-        </div>
+        <Field label="Expires after" id={`${id}-days`}>
+          {(control) => (
+            <select {...control} name="expiresInDays" defaultValue={String(defaultDays)} className={inputClass}>
+              {lifetimes(defaultDays, maxDays).map((d) => (
+                <option key={d} value={d}>
+                  {d} days
+                </option>
+              ))}
+            </select>
+          )}
+        </Field>
         <button type="submit" disabled={state.kind === 'busy'} className={primaryButton}>
           {state.kind === 'busy' ? 'Working…' : 'Create a token'}
         </button>

@@ -6,6 +6,7 @@ import { useId, useState } from 'react';
 import { JsonForm } from '@/components/forms/json-form';
 import { safeSameOriginPath } from '@/lib/http/same-origin';
 import { primaryButton } from '@/components/ui/button';
+import { Field, inputClass } from '@/components/ui/field';
 
 export function SignInForm({
   callbackUrl,
@@ -47,32 +48,23 @@ export function SignInForm({
     <div className="space-y-6">
       {mode === 'password' ? (
         <form onSubmit={submit} className="space-y-3" aria-describedby={`${id}-error`}>
-          <div>
-            <label htmlFor={`${id}-email`} className="block text-sm font-semibold">
-              E-mail
-            </label>
-            <input
-              id={`${id}-email`}
-              name="email"
-              type="email"
-              required
-              autoComplete="username"
-              className="w-full rounded border border-rule-strong bg-surface px-3 py-2"
-            />
-          </div>
-          <div>
-            <label htmlFor={`${id}-password`} className="block text-sm font-semibold">
-              Password
-            </label>
-            <input
-              id={`${id}-password`}
-              name="password"
-              type="password"
-              required
-              autoComplete="current-password"
-              className="w-full rounded border border-rule-strong bg-surface px-3 py-2"
-            />
-          </div>
+          <Field label="E-mail" id={`${id}-email`}>
+            {(control) => (
+              <input {...control} name="email" type="email" required autoComplete="username" className={inputClass} />
+            )}
+          </Field>
+          <Field label="Password" id={`${id}-password`}>
+            {(control) => (
+              <input
+                {...control}
+                name="password"
+                type="password"
+                required
+                autoComplete="current-password"
+                className={inputClass}
+              />
+            )}
+          </Field>
           <button type="submit" disabled={busy} className={primaryButton}>
             {busy ? 'Signing in…' : 'Sign in'}
           </button>

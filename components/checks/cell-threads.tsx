@@ -7,6 +7,7 @@ import { UtcTime } from '@/components/ui/utc-time';
 import type { CheckDetail } from '@/lib/checks/queries';
 import { VisibleText } from '@/components/data/visible-text';
 import { revealBidiControls } from '@/lib/calc/bidi-controls';
+import { Field } from '@/components/ui/field';
 
 export type Thread = CheckDetail['threads'][number];
 
@@ -261,40 +262,38 @@ export function CellThreads({
       {canOpen && opening ? (
         <form onSubmit={add} className="space-y-2 rounded border border-rule bg-paper p-3">
           {lines.length > 0 ? (
-            <div>
-              <label htmlFor={`${id}-line`} className="block text-sm font-semibold">
-                Statement line (optional)
-              </label>
-              <select
-                id={`${id}-line`}
-                autoFocus
-                value={line}
-                onChange={(e) => setLine(e.target.value)}
-                className="w-full rounded border border-rule-strong bg-surface px-3 py-2 font-mono text-sm"
-              >
-                <option value="">The whole cell</option>
-                {lines.map((l) => (
-                  <option key={l.line} value={l.line}>
-                    Line {l.line}: {revealBidiControls(l.text.length > 60 ? `${l.text.slice(0, 59)}…` : l.text)}
-                  </option>
-                ))}
-              </select>
-            </div>
+            <Field label="Statement line (optional)" id={`${id}-line`}>
+              {(control) => (
+                <select
+                  {...control}
+                  autoFocus
+                  value={line}
+                  onChange={(e) => setLine(e.target.value)}
+                  className="w-full rounded border border-rule-strong bg-surface px-3 py-2 font-mono text-sm"
+                >
+                  <option value="">The whole cell</option>
+                  {lines.map((l) => (
+                    <option key={l.line} value={l.line}>
+                      Line {l.line}: {revealBidiControls(l.text.length > 60 ? `${l.text.slice(0, 59)}…` : l.text)}
+                    </option>
+                  ))}
+                </select>
+              )}
+            </Field>
           ) : null}
-          <div>
-            <label htmlFor={`${id}-body`} className="block text-sm font-semibold">
-              Comment
-            </label>
-            <textarea
-              id={`${id}-body`}
-              autoFocus={lines.length === 0}
-              required
-              rows={3}
-              value={body}
-              onChange={(e) => setBody(e.target.value)}
-              className="w-full rounded border border-rule-strong bg-surface px-3 py-2 text-sm"
-            />
-          </div>
+          <Field label="Comment" id={`${id}-body`}>
+            {(control) => (
+              <textarea
+                {...control}
+                autoFocus={lines.length === 0}
+                required
+                rows={3}
+                value={body}
+                onChange={(e) => setBody(e.target.value)}
+                className="w-full rounded border border-rule-strong bg-surface px-3 py-2 text-sm"
+              />
+            )}
+          </Field>
           <div className="flex gap-2">
             <button
               type="submit"

@@ -13,6 +13,7 @@ import { AlternateComparisonTable } from './alternate-comparison-table';
 import { CarriedMark, CarriedOverNotice } from './carried-over-notice';
 import type { Cell } from '@/lib/sheets/content';
 import { primaryButton } from '@/components/ui/button';
+import { Field } from '@/components/ui/field';
 
 type Status = { kind: 'idle' | 'busy' } | { kind: 'done' | 'error'; text: string };
 
@@ -240,19 +241,25 @@ export function CheckerWorkPanel({
           </label>
         ))}
       </fieldset>
-      <div>
-        <label htmlFor={`${id}-notes`} className="block text-sm font-semibold">
-          Checker&apos;s notes
-          <CarriedMark carried={carriedOver} field="checkerNotes" />
-        </label>
-        <textarea
-          id={`${id}-notes`}
-          rows={3}
-          value={notes}
-          onChange={(e) => setNotes(e.target.value)}
-          className="w-full rounded border border-rule-strong bg-surface px-3 py-2 text-sm"
-        />
-      </div>
+      <Field
+        label={
+          <>
+            Checker&apos;s notes
+            <CarriedMark carried={carriedOver} field="checkerNotes" />
+          </>
+        }
+        id={`${id}-notes`}
+      >
+        {(control) => (
+          <textarea
+            {...control}
+            rows={3}
+            value={notes}
+            onChange={(e) => setNotes(e.target.value)}
+            className="w-full rounded border border-rule-strong bg-surface px-3 py-2 text-sm"
+          />
+        )}
+      </Field>
       <div className="space-y-2">
         <h3 className="text-sm font-semibold">
           Alternate calculation
@@ -293,23 +300,25 @@ export function CheckerWorkPanel({
         >
           Add an alternate calculation cell
         </button>
-        <div>
-          <label htmlFor={`${id}-tolerance`} className="block text-sm font-semibold">
-            Tolerance of the comparison (relative)
-            <CarriedMark carried={carriedOver} field="tolerance" />
-          </label>
-          <input
-            id={`${id}-tolerance`}
-            value={tolerance}
-            onChange={(e) => setTolerance(e.target.value)}
-            aria-describedby={`${id}-tolerance-help`}
-            className="w-40 rounded border border-rule-strong bg-surface px-3 py-1.5 font-mono text-sm"
-          />
-          <p id={`${id}-tolerance-help`} className="text-xs text-ink-muted">
-            Each name the alternate cells share with the sheet is compared: |alternate − sheet| / |sheet| must not
-            exceed it. Write 1e-6, 0.1 % or 5 ppm.
-          </p>
-        </div>
+        <Field
+          label={
+            <>
+              Tolerance of the comparison (relative)
+              <CarriedMark carried={carriedOver} field="tolerance" />
+            </>
+          }
+          id={`${id}-tolerance`}
+          hint="Each name the alternate cells share with the sheet is compared: |alternate − sheet| / |sheet| must not exceed it. Write 1e-6, 0.1 % or 5 ppm."
+        >
+          {(control) => (
+            <input
+              {...control}
+              value={tolerance}
+              onChange={(e) => setTolerance(e.target.value)}
+              className="w-40 rounded border border-rule-strong bg-surface px-3 py-1.5 font-mono text-sm"
+            />
+          )}
+        </Field>
       </div>
       <div className="flex flex-wrap items-center gap-3">
         <button type="button" onClick={save} disabled={status.kind === 'busy'} className={primaryButton}>

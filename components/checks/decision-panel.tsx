@@ -5,6 +5,7 @@ import { useId, useState } from 'react';
 import { api, errorText } from '@/components/data/api-client';
 import type { Decision } from '@/lib/checks/workflow';
 import { primaryButton } from '@/components/ui/button';
+import { inputClass } from '@/components/ui/field';
 
 type Action = Decision['action'];
 type Outcome = { kind: 'idle' | 'busy' } | { kind: 'done'; text: string } | { kind: 'error'; text: string };
@@ -112,7 +113,7 @@ export function DecisionPanel({
         type="password"
         required
         autoComplete="current-password"
-        className="w-full rounded border border-rule-strong bg-surface px-3 py-2"
+        className={inputClass}
       />
       <button type="submit" disabled={busy} className={primaryButton}>
         {button}

@@ -4,6 +4,7 @@ import { useRouter } from 'next/navigation';
 import { useId, useState } from 'react';
 import { api, ApiError, detail, errorText } from '@/components/data/api-client';
 import { primaryButton } from '@/components/ui/button';
+import { Field, inputClass } from '@/components/ui/field';
 
 export interface CheckerOption {
   userId: string;
@@ -118,25 +119,24 @@ export function SubmitForCheckForm({
       {blocked ? <p className="text-sm text-ink-muted">{blocked}</p> : null}
       {!blocked ? (
         <form onSubmit={submit} className="space-y-3" aria-describedby={`${id}-status`}>
-          <div>
-            <label htmlFor={`${id}-version`} className="block text-sm font-semibold">
-              Version
-            </label>
-            <select
-              id={`${id}-version`}
-              name="versionNumber"
-              value={version}
-              onChange={(e) => setVersion(Number(e.target.value))}
-              className="w-full rounded border border-rule-strong bg-surface px-3 py-2"
-            >
-              {versions.map((v, i) => (
-                <option key={v} value={v}>
-                  Version {v}
-                  {i === 0 ? ' (latest)' : ''}
-                </option>
-              ))}
-            </select>
-          </div>
+          <Field label="Version" id={`${id}-version`}>
+            {(control) => (
+              <select
+                {...control}
+                name="versionNumber"
+                value={version}
+                onChange={(e) => setVersion(Number(e.target.value))}
+                className={inputClass}
+              >
+                {versions.map((v, i) => (
+                  <option key={v} value={v}>
+                    Version {v}
+                    {i === 0 ? ' (latest)' : ''}
+                  </option>
+                ))}
+              </select>
+            )}
+          </Field>
           <div>
             <label htmlFor={`${id}-checker`} className="block text-sm font-semibold">
               Checker
@@ -148,7 +148,7 @@ export function SubmitForCheckForm({
               required
               defaultValue=""
               aria-describedby={ineligible.length ? `${id}-ineligible` : undefined}
-              className="w-full rounded border border-rule-strong bg-surface px-3 py-2"
+              className={inputClass}
             >
               <option value="" disabled>
                 {anyEligible ? 'Choose a checker' : 'No eligible checker'}
@@ -201,19 +201,18 @@ export function SubmitForCheckForm({
               ))}
             </fieldset>
           ) : null}
-          <div>
-            <label htmlFor={`${id}-password`} className="block text-sm font-semibold">
-              Your password (signs as prepared)
-            </label>
-            <input
-              id={`${id}-password`}
-              name="password"
-              type="password"
-              required
-              autoComplete="current-password"
-              className="w-full rounded border border-rule-strong bg-surface px-3 py-2"
-            />
-          </div>
+          <Field label="Your password (signs as prepared)" id={`${id}-password`}>
+            {(control) => (
+              <input
+                {...control}
+                name="password"
+                type="password"
+                required
+                autoComplete="current-password"
+                className={inputClass}
+              />
+            )}
+          </Field>
           <button type="submit" disabled={status.kind === 'busy' || !anyEligible} className={primaryButton}>
             {status.kind === 'busy' ? 'Submitting…' : 'Submit for check'}
           </button>

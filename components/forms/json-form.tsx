@@ -2,6 +2,7 @@
 
 import { useId, useState } from 'react';
 import { primaryButton } from '@/components/ui/button';
+import { Field, inputClass } from '@/components/ui/field';
 import { api, errorText } from '@/components/data/api-client';
 
 export interface FieldSpec {
@@ -60,48 +61,46 @@ export function JsonForm({
     <form onSubmit={submit} className="space-y-3" aria-describedby={`${id}-status`}>
       {fields.map((f) => {
         const fieldId = `${id}-${f.name}`;
-        const hintId = f.hint ? `${fieldId}-hint` : undefined;
         const common = {
-          id: fieldId,
           name: f.name,
           required: f.required,
-          'aria-describedby': hintId,
           autoComplete: f.autoComplete,
           defaultValue: f.defaultValue,
         };
-        const input =
-          f.type === 'select' ? (
-            <select {...common} className="w-full rounded border border-rule-strong bg-surface px-3 py-2">
-              {f.options!.map((o) => (
-                <option key={o.value} value={o.value}>
-                  {o.label}
-                </option>
-              ))}
-            </select>
-          ) : f.type === 'textarea' ? (
-            <textarea {...common} rows={2} className="w-full rounded border border-rule-strong bg-surface px-3 py-2" />
-          ) : f.type === 'checkbox' ? (
-            <input {...common} type="checkbox" className="h-4 w-4" />
-          ) : (
-            <input
-              {...common}
-              type={f.type ?? 'text'}
-              className="w-full rounded border border-rule-strong bg-surface px-3 py-2"
-            />
+        if (f.type === 'checkbox') {
+          const hintId = f.hint ? `${fieldId}-hint` : undefined;
+          return (
+            <div key={f.name} className="flex items-center gap-2">
+              <input {...common} id={fieldId} aria-describedby={hintId} type="checkbox" className="h-4 w-4" />
+              <label htmlFor={fieldId} className="text-sm">
+                {f.label}
+              </label>
+              {f.hint ? (
+                <p id={hintId} className="text-xs text-ink-muted">
+                  {f.hint}
+                </p>
+              ) : null}
+            </div>
           );
+        }
         return (
-          <div key={f.name} className={f.type === 'checkbox' ? 'flex items-center gap-2' : ''}>
-            {f.type === 'checkbox' ? input : null}
-            <label htmlFor={fieldId} className={f.type === 'checkbox' ? 'text-sm' : 'block text-sm font-semibold'}>
-              {f.label}
-            </label>
-            {f.type !== 'checkbox' ? input : null}
-            {f.hint ? (
-              <p id={hintId} className="text-xs text-ink-muted">
-                {f.hint}
-              </p>
-            ) : null}
-          </div>
+          <Field key={f.name} label={f.label} id={fieldId} hint={f.hint}>
+            {(control) =>
+              f.type === 'select' ? (
+                <select {...common} {...control} className={inputClass}>
+                  {f.options!.map((o) => (
+                    <option key={o.value} value={o.value}>
+                      {o.label}
+                    </option>
+                  ))}
+                </select>
+              ) : f.type === 'textarea' ? (
+                <textarea {...common} {...control} rows={2} className={inputClass} />
+              ) : (
+                <input {...common} {...control} type={f.type ?? 'text'} className={inputClass} />
+              )
+            }
+          </Field>
         );
       })}
       <button type="submit" disabled={state.kind === 'busy'} className={primaryButton}>

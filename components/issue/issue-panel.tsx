@@ -5,6 +5,7 @@ import { useState } from 'react';
 import useSWR from 'swr';
 import { api, errorText } from '@/components/data/api-client';
 import { primaryButton } from '@/components/ui/button';
+import { Field } from '@/components/ui/field';
 
 const STEPS = ['queued', 'rendering', 'signing', 'storing', 'recording', 'done'] as const;
 const STEP_LABELS: Record<string, string> = {
@@ -69,37 +70,35 @@ export function IssuePanel({
     <div className="space-y-3">
       {!jobId || job?.state === 'failed' ? (
         <form onSubmit={issue} className="flex flex-wrap items-end gap-3">
-          <div>
-            <label htmlFor="issue-version" className="block text-sm font-semibold">
-              Approved version
-            </label>
-            <select
-              id="issue-version"
-              value={version}
-              onChange={(e) => setVersion(Number(e.target.value))}
-              className="rounded border border-rule-strong bg-surface px-2 py-1.5"
-            >
-              {approvedVersions.map((v) => (
-                <option key={v} value={v}>
-                  Version {v}
-                </option>
-              ))}
-            </select>
-          </div>
-          <div>
-            <label htmlFor="issue-password" className="block text-sm font-semibold">
-              Your password (signs as issued)
-            </label>
-            <input
-              id="issue-password"
-              type="password"
-              autoComplete="current-password"
-              value={password}
-              onChange={(e) => setPassword(e.target.value)}
-              required
-              className="rounded border border-rule-strong bg-surface px-2 py-1.5"
-            />
-          </div>
+          <Field label="Approved version" id="issue-version">
+            {(control) => (
+              <select
+                {...control}
+                value={version}
+                onChange={(e) => setVersion(Number(e.target.value))}
+                className="rounded border border-rule-strong bg-surface px-2 py-1.5"
+              >
+                {approvedVersions.map((v) => (
+                  <option key={v} value={v}>
+                    Version {v}
+                  </option>
+                ))}
+              </select>
+            )}
+          </Field>
+          <Field label="Your password (signs as issued)" id="issue-password">
+            {(control) => (
+              <input
+                {...control}
+                type="password"
+                autoComplete="current-password"
+                value={password}
+                onChange={(e) => setPassword(e.target.value)}
+                required
+                className="rounded border border-rule-strong bg-surface px-2 py-1.5"
+              />
+            )}
+          </Field>
           <button type="submit" disabled={busy || !password} className={primaryButton}>
             {busy ? 'Signing…' : `Issue as revision ${nextRevision}`}
           </button>

@@ -4,6 +4,7 @@ import { useRouter } from 'next/navigation';
 import { useId, useRef, useState } from 'react';
 import { api, errorText } from '@/components/data/api-client';
 import { Table, Td, Th } from '@/components/ui/table';
+import { Field } from '@/components/ui/field';
 
 /** What the import would create, as POST …/sheets/import/preview answers it. */
 type Preview = Awaited<ReturnType<typeof api.previewImport>>;
@@ -148,19 +149,18 @@ export function ImportSheetForm({ projectId, projectCode }: { projectId: string;
               along.
             </p>
           ) : null}
-          <div>
-            <label htmlFor={`${id}-title`} className="block font-semibold">
-              Title of the new sheet
-            </label>
-            <input
-              id={`${id}-title`}
-              required
-              maxLength={300}
-              value={title}
-              onChange={(e) => setTitle(e.target.value)}
-              className="w-full rounded border border-rule-strong bg-surface px-2 py-1"
-            />
-          </div>
+          <Field label="Title of the new sheet" id={`${id}-title`} labelClassName="block font-semibold">
+            {(control) => (
+              <input
+                {...control}
+                required
+                maxLength={300}
+                value={title}
+                onChange={(e) => setTitle(e.target.value)}
+                className="w-full rounded border border-rule-strong bg-surface px-2 py-1"
+              />
+            )}
+          </Field>
           <div className="flex flex-wrap gap-2">
             <button
               type="submit"

@@ -13,6 +13,7 @@ import { RecordListsEditor } from './record-lists-editor';
 import { DISPLAY_UNITS, DISPLAY_UNITS_DEFAULT, DISPLAY_UNITS_LABEL, type DisplayUnits } from '@/lib/calc/display-units';
 import type { Cell, VersionContent } from '@/lib/sheets/content';
 import { primaryButton } from '@/components/ui/button';
+import { inputClass } from '@/components/ui/field';
 
 interface Props {
   sheetId: string;
@@ -186,7 +187,7 @@ export function SheetEditor({ sheetId, projectCode, sheetNumber, base }: Props) 
             id="ed-title"
             value={content.title}
             onChange={(e) => update((c) => ({ ...c, title: e.target.value }))}
-            className="w-full rounded border border-rule-strong bg-surface px-3 py-2"
+            className={inputClass}
           />
         </div>
         <div>
@@ -221,7 +222,7 @@ export function SheetEditor({ sheetId, projectCode, sheetNumber, base }: Props) 
               rows={2}
               value={record[field]}
               onChange={(e) => setRecord({ [field]: e.target.value })}
-              className="w-full rounded border border-rule-strong bg-surface px-3 py-2"
+              className={inputClass}
             />
           </div>
         ))}
@@ -234,7 +235,7 @@ export function SheetEditor({ sheetId, projectCode, sheetNumber, base }: Props) 
             rows={2}
             value={record.references.join('\n')}
             onChange={(e) => setRecord({ references: e.target.value.split('\n').filter((x) => x.trim() !== '') })}
-            className="w-full rounded border border-rule-strong bg-surface px-3 py-2"
+            className={inputClass}
           />
         </div>
         <RecordListsEditor record={record} onChange={setRecord} />
@@ -379,12 +380,7 @@ export function SheetEditor({ sheetId, projectCode, sheetNumber, base }: Props) 
         <label htmlFor="ed-message" className="block text-sm font-semibold">
           What changed
         </label>
-        <input
-          id="ed-message"
-          value={message}
-          onChange={(e) => setMessage(e.target.value)}
-          className="w-full rounded border border-rule-strong bg-surface px-3 py-2"
-        />
+        <input id="ed-message" value={message} onChange={(e) => setMessage(e.target.value)} className={inputClass} />
         <button
           type="button"
           onClick={save}

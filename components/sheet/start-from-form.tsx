@@ -4,6 +4,7 @@ import { useRouter } from 'next/navigation';
 import { useId, useState } from 'react';
 import { api, errorText } from '@/components/data/api-client';
 import { primaryButton } from '@/components/ui/button';
+import { Field, inputClass } from '@/components/ui/field';
 
 export interface StartOption {
   sheetId: string;
@@ -76,7 +77,7 @@ export function StartFromForm({
             const o = options.find((x) => `${x.sheetId}:${x.version}` === e.target.value);
             if (o && !title.trim()) setTitle(o.title);
           }}
-          className="w-full rounded border border-rule-strong bg-surface px-3 py-2"
+          className={inputClass}
         >
           <option value="" disabled>
             Choose a sheet
@@ -108,19 +109,18 @@ export function StartFromForm({
           </p>
         ) : null}
       </div>
-      <div>
-        <label htmlFor={`${id}-new-title`} className="block text-sm font-semibold">
-          Title of the new sheet
-        </label>
-        <input
-          id={`${id}-new-title`}
-          required
-          maxLength={300}
-          value={title}
-          onChange={(e) => setTitle(e.target.value)}
-          className="w-full rounded border border-rule-strong bg-surface px-3 py-2"
-        />
-      </div>
+      <Field label="Title of the new sheet" id={`${id}-new-title`}>
+        {(control) => (
+          <input
+            {...control}
+            required
+            maxLength={300}
+            value={title}
+            onChange={(e) => setTitle(e.target.value)}
+            className={inputClass}
+          />
+        )}
+      </Field>
       <button type="submit" disabled={state.busy || !option || !title.trim()} className={primaryButton}>
         Start the new sheet
       </button>
