@@ -1,6 +1,7 @@
 'use client';
 
 import { useEffect } from 'react';
+import { primaryButton } from '@/components/ui/button';
 
 export default function ErrorPage({ error, reset }: { error: Error & { digest?: string }; reset: () => void }) {
   useEffect(() => {
@@ -18,11 +19,7 @@ export default function ErrorPage({ error, reset }: { error: Error & { digest?: 
           </>
         ) : null}
       </p>
-      <button
-        type="button"
-        onClick={reset}
-        className="mt-6 rounded bg-accent px-4 py-2 font-semibold text-surface hover:bg-accent-hover"
-      >
+      <button type="button" onClick={reset} className={`mt-6 ${primaryButton}`}>
         Try again
       </button>
     </section>

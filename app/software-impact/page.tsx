@@ -13,6 +13,7 @@ import {
 import { VisibleText } from '@/components/data/visible-text';
 import { StatusBadge } from '@/components/ui/status-badge';
 import { Table, Td, Th } from '@/components/ui/table';
+import { smallPrimaryButton } from '@/components/ui/button';
 
 export const metadata: Metadata = { title: 'Software impact' };
 export const dynamic = 'force-dynamic';
@@ -107,10 +108,7 @@ export default async function SoftwareImpactPage({ searchParams }: { searchParam
             A name written with “(” after it in a calculation cell, comments included.
           </p>
         </div>
-        <button
-          type="submit"
-          className="rounded bg-accent px-3 py-1.5 font-semibold text-surface hover:bg-accent-hover"
-        >
+        <button type="submit" className={smallPrimaryButton}>
           Find
         </button>
         {answer.rows ? (

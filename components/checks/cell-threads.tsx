@@ -8,6 +8,7 @@ import type { CheckDetail } from '@/lib/checks/queries';
 import { VisibleText } from '@/components/data/visible-text';
 import { revealBidiControls } from '@/lib/calc/bidi-controls';
 import { Field } from '@/components/ui/field';
+import { secondaryButton, smallPrimaryButton } from '@/components/ui/button';
 
 export type Thread = CheckDetail['threads'][number];
 
@@ -118,11 +119,7 @@ function OpenThread({
             className="w-full rounded border border-rule-strong bg-surface px-3 py-2 text-sm"
           />
           <div className="flex gap-2">
-            <button
-              type="submit"
-              disabled={busy || !body.trim()}
-              className="rounded bg-accent px-3 py-1.5 text-sm font-semibold text-surface hover:bg-accent-hover disabled:opacity-60"
-            >
+            <button type="submit" disabled={busy || !body.trim()} className={`${smallPrimaryButton} text-sm`}>
               Send the reply
             </button>
             <button
@@ -137,12 +134,7 @@ function OpenThread({
       ) : canReply || canResolve ? (
         <div className="mt-2 flex gap-2">
           {canReply ? (
-            <button
-              ref={replyButton}
-              type="button"
-              onClick={() => setReplying(true)}
-              className="rounded border border-rule-strong bg-surface px-3 py-1.5 text-sm font-semibold"
-            >
+            <button ref={replyButton} type="button" onClick={() => setReplying(true)} className={secondaryButton}>
               Reply
             </button>
           ) : null}
@@ -250,12 +242,7 @@ export function CellThreads({
         </details>
       ))}
       {canOpen && !opening ? (
-        <button
-          ref={openButton}
-          type="button"
-          onClick={() => setOpening(true)}
-          className="rounded border border-rule-strong bg-surface px-3 py-1.5 text-sm font-semibold"
-        >
+        <button ref={openButton} type="button" onClick={() => setOpening(true)} className={secondaryButton}>
           Comment on this cell
         </button>
       ) : null}
@@ -295,18 +282,10 @@ export function CellThreads({
             )}
           </Field>
           <div className="flex gap-2">
-            <button
-              type="submit"
-              disabled={busy || !body.trim()}
-              className="rounded bg-accent px-3 py-1.5 text-sm font-semibold text-surface hover:bg-accent-hover disabled:opacity-60"
-            >
+            <button type="submit" disabled={busy || !body.trim()} className={`${smallPrimaryButton} text-sm`}>
               Add the comment
             </button>
-            <button
-              type="button"
-              onClick={() => setOpening(false)}
-              className="rounded border border-rule-strong bg-surface px-3 py-1.5 text-sm font-semibold"
-            >
+            <button type="button" onClick={() => setOpening(false)} className={secondaryButton}>
               Cancel
             </button>
           </div>

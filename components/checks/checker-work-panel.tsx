@@ -12,7 +12,7 @@ import type { CarriedOver } from '@/lib/checks/carried-over';
 import { AlternateComparisonTable } from './alternate-comparison-table';
 import { CarriedMark, CarriedOverNotice } from './carried-over-notice';
 import type { Cell } from '@/lib/sheets/content';
-import { primaryButton } from '@/components/ui/button';
+import { primaryButton, secondaryButton } from '@/components/ui/button';
 import { Field } from '@/components/ui/field';
 
 type Status = { kind: 'idle' | 'busy' } | { kind: 'done' | 'error'; text: string };
@@ -213,7 +213,7 @@ export function CheckerWorkPanel({
                 type="button"
                 onClick={confirmCarried}
                 disabled={status.kind === 'busy'}
-                className="mt-1 rounded border border-rule-strong bg-surface px-3 py-1.5 text-sm font-semibold"
+                className={`mt-1 ${secondaryButton}`}
               >
                 Confirm the work carried over from version {carriedOver.fromVersion}
               </button>
@@ -296,7 +296,7 @@ export function CheckerWorkPanel({
         <button
           type="button"
           onClick={() => setCells((cs) => [...cs, { id: newId(cs), kind: 'calc', source: '' }])}
-          className="rounded border border-rule-strong bg-surface px-3 py-1.5 text-sm font-semibold"
+          className={secondaryButton}
         >
           Add an alternate calculation cell
         </button>

@@ -52,11 +52,7 @@ export function VerifyForm() {
             The PDF you were given
           </label>
           <input id="verify-file" name="verify-file" type="file" accept="application/pdf,.pdf" className="text-sm" />
-          <button
-            type="submit"
-            disabled={state.kind === 'busy'}
-            className="block rounded bg-accent px-4 py-2 font-semibold text-surface hover:bg-accent-hover disabled:opacity-60"
-          >
+          <button type="submit" disabled={state.kind === 'busy'} className={`block ${primaryButton}`}>
             Check the file
           </button>
           <p className="text-xs text-ink-muted">

@@ -5,6 +5,7 @@ import { useId, useRef, useState } from 'react';
 import { api, errorText } from '@/components/data/api-client';
 import { Table, Td, Th } from '@/components/ui/table';
 import { Field } from '@/components/ui/field';
+import { smallPrimaryButton } from '@/components/ui/button';
 
 /** What the import would create, as POST …/sheets/import/preview answers it. */
 type Preview = Awaited<ReturnType<typeof api.previewImport>>;
@@ -162,11 +163,7 @@ export function ImportSheetForm({ projectId, projectCode }: { projectId: string;
             )}
           </Field>
           <div className="flex flex-wrap gap-2">
-            <button
-              type="submit"
-              disabled={state.busy || !title.trim()}
-              className="rounded bg-accent px-3 py-1.5 font-semibold text-surface hover:bg-accent-hover disabled:opacity-60"
-            >
+            <button type="submit" disabled={state.busy || !title.trim()} className={smallPrimaryButton}>
               Create the sheet from this file
             </button>
             <button

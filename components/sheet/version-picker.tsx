@@ -1,3 +1,5 @@
+import { smallPrimaryButton } from '@/components/ui/button';
+
 /**
  * Choose any two versions of a sheet to compare: a plain GET form (works without JavaScript) to the
  * compare page, with two labelled selects. `idPrefix` keeps the ids unique when a page shows it twice.
@@ -58,10 +60,7 @@ export function VersionPicker({
           ))}
         </select>
       </div>
-      <button
-        type="submit"
-        className="rounded bg-accent px-3 py-1.5 text-sm font-semibold text-surface hover:bg-accent-hover"
-      >
+      <button type="submit" className={`${smallPrimaryButton} text-sm`}>
         Compare
       </button>
     </form>

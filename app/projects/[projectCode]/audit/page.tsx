@@ -4,6 +4,7 @@ import { pageProject } from '@/lib/auth/page-guard';
 import { auditFilterSchema, listProjectAudit, listProjectAuditActions } from '@/lib/audit/query';
 import { listMembers } from '@/lib/projects/projects';
 import { Table, Td, Th } from '@/components/ui/table';
+import { smallPrimaryButton } from '@/components/ui/button';
 
 export const metadata: Metadata = { title: 'Audit trail' };
 export const dynamic = 'force-dynamic';
@@ -115,10 +116,7 @@ export default async function AuditPage({
             className="rounded border border-rule-strong bg-surface px-2 py-1"
           />
         </div>
-        <button
-          type="submit"
-          className="rounded bg-accent px-3 py-1.5 font-semibold text-surface hover:bg-accent-hover"
-        >
+        <button type="submit" className={smallPrimaryButton}>
           Filter
         </button>
         <a href={`/api/projects/${project.id}/audit?${csv}`} className="font-semibold text-accent underline">

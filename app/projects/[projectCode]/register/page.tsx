@@ -8,6 +8,7 @@ import { revisionInputFlags } from '@/lib/sheets/impact';
 import { VisibleText } from '@/components/data/visible-text';
 import { StatusBadge } from '@/components/ui/status-badge';
 import { Table, Td, Th } from '@/components/ui/table';
+import { smallPrimaryButton } from '@/components/ui/button';
 
 export const metadata: Metadata = { title: 'Document register' };
 export const dynamic = 'force-dynamic';
@@ -68,10 +69,7 @@ export default async function ProjectRegisterPage({
             className="rounded border border-rule-strong bg-surface px-2 py-1"
           />
         </div>
-        <button
-          type="submit"
-          className="rounded bg-accent px-3 py-1.5 font-semibold text-surface hover:bg-accent-hover"
-        >
+        <button type="submit" className={smallPrimaryButton}>
           Filter
         </button>
         <a
