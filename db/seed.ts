@@ -2,13 +2,17 @@
 // sheets. Every name here is invented; the engineering figures are demo values, not design data.
 //
 // Idempotent: it only adds what is missing, so a second start never duplicates or wipes anything.
+// It creates its data through the app's own functions (seedDemo below), so demo data is like real data.
 // It runs only for the local demo cluster (`npm start` without DATABASE_URL), never in production.
-import { hash } from '@node-rs/argon2';
 import { sql, type Kysely } from 'kysely';
+import type { Actor } from '../lib/auth/actor';
+import { hashPassword } from '../lib/auth/password';
+import { recordAudit } from '../lib/audit/record';
+import { NEW_SHEET_DISPLAY_UNITS } from '../lib/calc/display-units';
+import { createProject, grantRole } from '../lib/projects/projects';
 import { emptyRecord, versionContentSchema, type VersionContent } from '../lib/sheets/content';
 import { contentHash } from '../lib/sheets/content-hash';
-import { createSheetEngine, type SheetEngine } from '../lib/calc/sheet-engine';
-import { NEW_SHEET_DISPLAY_UNITS } from '../lib/calc/display-units';
+import { createSheetWithContent } from '../lib/sheets/sheets';
 import type { Database, ProjectRole } from './schema';
 import { demoStarterSheets } from './starters';
 
@@ -315,7 +319,10 @@ export function demoStudySheets(): DemoSheet[] {
 export interface SeedOptions {
   /** Also seed the study sheets (numbers 4 and 5). */
   studies?: boolean;
-  /** Also seed the starter sheets (numbers 6–10, db/starters.ts), offered to start new sheets from. */
+  /**
+   * Also seed the starter sheets (numbers 6–10, db/starters.ts), offered to start new sheets from.
+   * The app numbers a project's sheets in order, so the study sheets (4 and 5) come with them.
+   */
   starters?: boolean;
 }
 
@@ -326,175 +333,219 @@ export interface SeedReport {
   sheetsCreated: number;
 }
 
+/** The message of the version that holds a demo sheet's content (version 2; version 1 is the new sheet). */
+export const DEMO_VERSION_MESSAGE = 'First draft (demo data)';
+
+/**
+ * A demo account acting without a session or token, as the app's own background work acts for a
+ * person (the issuing job acts as its document controller, lib/issue/job.ts).
+ */
+function demoActor(user: { id: string; email: string; display_name: string; is_admin: boolean }): Actor {
+  return {
+    userId: user.id,
+    email: user.email,
+    name: user.display_name,
+    isAdmin: user.is_admin,
+    via: 'system',
+    sessionId: null,
+    tokenId: null,
+  };
+}
+
+/**
+ * Seeds the demo installation through the app's own functions, so that its project, roles, sheets
+ * and versions carry the audit events, references and time stamps of real ones: the administrator
+ * creates the project and gives the roles (createProject, grantRole), the originator creates each
+ * sheet with its content (createSheetWithContent: version 1 is the new sheet, version 2 the demo
+ * content, both evaluated by the server's sandboxed evaluator). Only the accounts and the starter
+ * flag are written directly, where the app has no function (said below).
+ */
 export async function seedDemo(db: Kysely<Database>, options: SeedOptions = {}): Promise<SeedReport> {
   const report: SeedReport = { usersCreated: 0, projectCreated: false, membershipsCreated: 0, sheetsCreated: 0 };
-  const existing = await db
-    .selectFrom('users')
-    .select(['id', 'email'])
-    .where(
-      'email',
-      'in',
-      DEMO_ACCOUNTS.map((a) => a.email),
-    )
-    .execute();
+  const emails = DEMO_ACCOUNTS.map((a) => a.email);
+  const existing = await db.selectFrom('users').select('email').where('email', 'in', emails).execute();
   const missing = DEMO_ACCOUNTS.filter((a) => !existing.some((u) => u.email === a.email));
-  // Hash outside the transaction: argon2id is deliberately slow.
-  const hashes = await Promise.all(missing.map(() => hash(DEMO_PASSWORD)));
+  // Hash before taking the lock, with the app's own settings: argon2id is deliberately slow.
+  const hashes = new Map(
+    await Promise.all(missing.map(async (a) => [a.email, await hashPassword(DEMO_PASSWORD)] as const)),
+  );
 
-  await db.transaction().execute(async (trx) => {
-    // One seed at a time, even if two starts race.
-    await sql`select pg_advisory_xact_lock(hashtext('worldsheet.seed'))`.execute(trx);
-    const userIds = new Map<string, string>();
-    for (const [i, account] of missing.entries()) {
-      const row = await trx
-        .insertInto('users')
-        .values({
-          email: account.email,
-          display_name: account.name,
-          password_hash: hashes[i],
-          is_admin: account.admin ?? false,
-        })
-        .onConflict((oc) => oc.column('email').doNothing())
-        .returning('id')
-        .executeTakeFirst();
-      if (row) {
-        report.usersCreated += 1;
-        await trx
-          .insertInto('audit_events')
-          .values({
-            actor_id: null,
-            action: 'user.create',
-            object_type: 'user',
-            object_id: row.id,
-            new_value: JSON.stringify({ email: account.email, name: account.name }),
-            reason: 'demo seed',
-          })
-          .execute();
-      }
+  // One seed at a time, even if two starts race: a session lock held by the one connection the
+  // whole seed runs on (the app's functions open transactions of their own on it).
+  await db.connection().execute(async (conn) => {
+    await sql`select pg_advisory_lock(hashtext('worldsheet.seed'))`.execute(conn);
+    try {
+      await seedOnConnection(conn, hashes, options, report);
+    } finally {
+      await sql`select pg_advisory_unlock(hashtext('worldsheet.seed'))`.execute(conn);
     }
-    for (const u of await trx
+  });
+  return report;
+}
+
+async function seedOnConnection(
+  db: Kysely<Database>,
+  hashes: ReadonlyMap<string, string>,
+  options: SeedOptions,
+  report: SeedReport,
+): Promise<void> {
+  const demoUsers = () =>
+    db
       .selectFrom('users')
-      .select(['id', 'email'])
+      .select(['id', 'email', 'display_name', 'is_admin'])
       .where(
         'email',
         'in',
         DEMO_ACCOUNTS.map((a) => a.email),
       )
-      .execute()) {
-      userIds.set(u.email, u.id);
-    }
-    const admin = userIds.get('admin@demo.test')!;
+      .execute();
 
-    let project = await trx
-      .selectFrom('projects')
-      .select('id')
-      .where('code', '=', DEMO_PROJECT.code)
-      .executeTakeFirst();
-    if (!project) {
-      project = await trx
-        .insertInto('projects')
-        .values({ ...DEMO_PROJECT, created_by: admin })
-        .returning('id')
-        .executeTakeFirstOrThrow();
-      report.projectCreated = true;
-      await trx
-        .insertInto('audit_events')
-        .values({
-          actor_id: admin,
-          project_id: project.id,
-          action: 'project.create',
-          object_type: 'project',
-          object_id: project.id,
-          new_value: JSON.stringify(DEMO_PROJECT),
-          reason: 'demo seed',
-        })
-        .execute();
-    }
+  // Accounts. The app has no function that creates an account with a password: an administrator
+  // invites (inviteUser: no password, an invitation mail) and the holder chooses a password from the
+  // link (confirmPasswordReset). So the seed writes the account with its password directly, and the
+  // audit events the app writes for those two steps: user.invite by the administrator, then
+  // user.password-reset by no one (the holder is not signed in). The first administrator has no one
+  // to invite them: user.create by no one, as the app records an account made at a first sign-in
+  // through the organisation (lib/auth/oidc.ts).
+  const admin = DEMO_ACCOUNTS.find((a) => a.admin)!;
+  let users = await demoUsers();
+  let adminUser = users.find((u) => u.email === admin.email);
+  if (!adminUser) {
+    await createDemoAccount(db, null, admin, hashes.get(admin.email)!);
+    report.usersCreated += 1;
+    users = await demoUsers();
+    adminUser = users.find((u) => u.email === admin.email)!;
+  }
+  const adminActor = demoActor(adminUser);
+  for (const account of DEMO_ACCOUNTS) {
+    if (users.some((u) => u.email === account.email)) continue;
+    await createDemoAccount(db, adminActor, account, hashes.get(account.email)!);
+    report.usersCreated += 1;
+  }
+  users = await demoUsers();
+  const userOf = (email: string) => users.find((u) => u.email === email)!;
 
-    for (const account of DEMO_ACCOUNTS) {
-      for (const role of account.roles) {
-        const added = await trx
-          .insertInto('project_members')
-          .values({ project_id: project.id, user_id: userIds.get(account.email)!, role, granted_by: admin })
-          .onConflict((oc) => oc.columns(['project_id', 'user_id', 'role']).doNothing())
-          .returning('role')
-          .executeTakeFirst();
-        if (added) {
-          report.membershipsCreated += 1;
-          await trx
-            .insertInto('audit_events')
-            .values({
-              actor_id: admin,
-              project_id: project.id,
-              action: 'membership.grant',
-              object_type: 'user',
-              object_id: userIds.get(account.email)!,
-              new_value: JSON.stringify({ role }),
-              reason: 'demo seed',
-            })
-            .execute();
-        }
-      }
-    }
+  // The project, created by the administrator as POST /api/projects does.
+  let project = await db
+    .selectFrom('projects')
+    .select(['id', 'code'])
+    .where('code', '=', DEMO_PROJECT.code)
+    .executeTakeFirst();
+  if (!project) {
+    project = await createProject(db, adminActor, {
+      code: DEMO_PROJECT.code,
+      name: DEMO_PROJECT.name,
+      legalOwner: DEMO_PROJECT.legal_owner,
+      revisionScheme: DEMO_PROJECT.revision_scheme,
+    });
+    report.projectCreated = true;
+  }
 
-    const originator = userIds.get('originator@demo.test')!;
-    let engine: SheetEngine | null = null;
-    const starters = new Set(options.starters ? demoStarterSheets().map((d) => d.number) : []);
-    for (const demo of [
-      ...demoSheets(),
-      ...(options.studies ? demoStudySheets() : []),
-      ...(options.starters ? demoStarterSheets() : []),
-    ]) {
-      const sheet = await trx
-        .insertInto('sheets')
-        .values({
-          project_id: project.id,
-          number: demo.number,
-          title: demo.content.title,
-          safety_related: demo.content.safetyRelated,
-          created_by: originator,
-          starter: starters.has(demo.number),
-        })
-        .onConflict((oc) => oc.columns(['project_id', 'number']).doNothing())
-        .returning('id')
-        .executeTakeFirst();
-      if (!sheet) continue;
-      report.sheetsCreated += 1;
-      const hashHex = contentHash(demo.content);
-      // The demo content is our own, so it is evaluated in process rather than in the sandbox.
-      engine ??= createSheetEngine();
-      const results = engine.evaluate(demo.content.cells, {
-        significantFigures: demo.content.significantFigures,
-        displayUnits: demo.content.displayUnits,
-      });
-      await trx
-        .insertInto('versions')
-        .values({
-          sheet_id: sheet.id,
-          number: 1,
-          parent_number: null,
-          content: JSON.stringify(demo.content),
-          content_hash: hashHex,
-          results: JSON.stringify(results),
-          engine_version: results.engineVersion,
-          constants_edition: results.constantsEdition,
-          author_id: originator,
-          message: 'First draft (demo data)',
-        })
-        .execute();
-      await trx
-        .insertInto('audit_events')
-        .values({
-          actor_id: originator,
-          project_id: project.id,
-          action: 'version.save',
-          object_type: 'sheet',
-          object_id: sheet.id,
-          new_value: JSON.stringify({ version: 1, sha256: hashHex }),
-          reason: 'demo seed',
-        })
-        .execute();
+  // The roles, given by the administrator as POST /api/projects/{id}/members does.
+  const held = await db
+    .selectFrom('project_members')
+    .select(['user_id', 'role'])
+    .where('project_id', '=', project.id)
+    .execute();
+  for (const account of DEMO_ACCOUNTS) {
+    const user = userOf(account.email);
+    for (const role of account.roles) {
+      if (held.some((m) => m.user_id === user.id && m.role === role)) continue;
+      await grantRole(db, adminActor, project.id, { userId: user.id, role, reason: 'demo seed' });
+      report.membershipsCreated += 1;
     }
+  }
+
+  // The sheets, created by the originator with their content, as an import of a sheet file does
+  // (POST /api/projects/{id}/sheets/import): the app numbers them, so each is created only when the
+  // next number is its own (a demo database whose numbers were taken otherwise keeps its sheets).
+  const originator = demoActor(userOf('originator@demo.test'));
+  const starters = options.starters ? demoStarterSheets() : [];
+  for (const demo of [
+    ...demoSheets(),
+    ...(options.studies || options.starters ? demoStudySheets() : []),
+    ...starters,
+  ]) {
+    const numbers = await db
+      .selectFrom('sheets')
+      .select(['number'])
+      .where('project_id', '=', project.id)
+      .orderBy('number', 'desc')
+      .execute();
+    if (numbers.some((s) => s.number === demo.number)) continue;
+    if ((numbers[0]?.number ?? 0) + 1 !== demo.number) continue;
+    const created = await createSheetWithContent(db, originator, project, demo.content, DEMO_VERSION_MESSAGE);
+    if (created.number !== demo.number)
+      throw new Error(`demo sheet ${demo.number} was numbered ${created.number}: the seed lock did not hold`);
+    report.sheetsCreated += 1;
+  }
+  // The app has no function that makes a sheet a starter: the one flag is set directly, on the demo
+  // starters only (their version 2 is the demo content), also if a start stopped just before.
+  for (const demo of starters) {
+    await db
+      .updateTable('sheets')
+      .set({ starter: true })
+      .where('project_id', '=', project.id)
+      .where('number', '=', demo.number)
+      .where('starter', '=', false)
+      .where(({ exists, selectFrom }) =>
+        exists(
+          selectFrom('versions')
+            .select('versions.id')
+            .whereRef('versions.sheet_id', '=', 'sheets.id')
+            .where('versions.number', '=', 2)
+            .where('versions.content_hash', '=', contentHash(demo.content)),
+        ),
+      )
+      .execute();
+  }
+}
+
+/** One demo account with its password, and the audit events the app writes (see seedOnConnection). */
+async function createDemoAccount(
+  db: Kysely<Database>,
+  by: Actor | null,
+  account: (typeof DEMO_ACCOUNTS)[number],
+  passwordHash: string,
+): Promise<void> {
+  const isAdmin = account.admin ?? false;
+  await db.transaction().execute(async (trx) => {
+    const user = await trx
+      .insertInto('users')
+      .values({
+        email: account.email,
+        display_name: account.name,
+        password_hash: passwordHash,
+        password_changed_at: sql`now()`,
+        is_admin: isAdmin,
+      })
+      .returning('id')
+      .executeTakeFirstOrThrow();
+    // As inviteUser (lib/projects/users.ts) records it, or a first sign-in (lib/auth/oidc.ts) for the first administrator.
+    await recordAudit(
+      trx,
+      by,
+      by
+        ? {
+            action: 'user.invite',
+            objectType: 'user',
+            objectId: user.id,
+            newValue: { email: account.email, name: account.name, isAdmin },
+          }
+        : {
+            action: 'user.create',
+            objectType: 'user',
+            objectId: user.id,
+            newValue: { email: account.email, name: account.name, via: 'demo seed' },
+            reason: 'the first administrator of the demo installation',
+          },
+    );
+    // As confirmPasswordReset (lib/auth/account.ts) records the password chosen from the link.
+    await recordAudit(trx, null, {
+      action: 'user.password-reset',
+      objectType: 'user',
+      objectId: user.id,
+      newValue: { endedSessions: 0, revokedTokens: 0 },
+    });
   });
-  return report;
 }

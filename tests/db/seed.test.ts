@@ -1,14 +1,24 @@
 import { verify } from '@node-rs/argon2';
+import { sql } from 'kysely';
 import { expect, it } from 'vitest';
-import { DEMO_ACCOUNTS, DEMO_PASSWORD, demoSheets, demoStudySheets, seedDemo } from '../../db/seed';
+import {
+  DEMO_ACCOUNTS,
+  DEMO_PASSWORD,
+  DEMO_VERSION_MESSAGE,
+  demoSheets,
+  demoStudySheets,
+  seedDemo,
+} from '../../db/seed';
 import { createSheetEngine } from '../../lib/calc/sheet-engine';
 import { versionContentSchema } from '../../lib/sheets/content';
 import { contentHash } from '../../lib/sheets/content-hash';
+import { createSheet, saveVersion } from '../../lib/sheets/sheets';
 import { demoStarterSheets } from '../../db/starters';
 import type { SheetResult } from '../../lib/calc/types';
 import { submissionFindings } from '../../lib/checks/submission-findings';
 import type { VersionContent } from '../../lib/sheets/content';
 import { testDb } from '../support/database';
+import { actorByEmail } from '../support/people';
 
 async function counts() {
   const db = testDb();
@@ -35,11 +45,153 @@ it('creates the demo world once and changes nothing when run again', async () =>
   const first = await seedDemo(testDb());
   expect(first).toEqual({ usersCreated: 6, projectCreated: true, membershipsCreated: 5, sheetsCreated: 3 });
   const after1 = await counts();
-  expect(after1).toMatchObject({ users: 6, projects: 1, members: 5, sheets: 3, versions: 3 });
+  // Each sheet as the app creates one: version 1 the new sheet, version 2 the demo content.
+  expect(after1).toMatchObject({ users: 6, projects: 1, members: 5, sheets: 3, versions: 6 });
 
   const second = await seedDemo(testDb());
   expect(second).toEqual({ usersCreated: 0, projectCreated: false, membershipsCreated: 0, sheetsCreated: 0 });
   expect(await counts()).toEqual(after1);
+  const breaks = await sql`select * from audit_chain_breaks()`.execute(testDb());
+  expect(breaks.rows).toEqual([]);
+});
+
+it('records what the app records for each step: accounts, the project, the roles, the sheets and their versions', async () => {
+  await seedDemo(testDb());
+  const events = await testDb()
+    .selectFrom('audit_events as e')
+    .leftJoin('users as u', 'u.id', 'e.actor_id')
+    .select(['e.action', 'u.email as actor'])
+    .orderBy('e.occurred_at')
+    .orderBy('e.id')
+    .execute();
+  const others = DEMO_ACCOUNTS.filter((a) => !a.admin);
+  expect(events.map((e) => `${e.action} by ${e.actor ?? 'no one'}`)).toEqual([
+    'user.create by no one',
+    'user.password-reset by no one',
+    ...others.flatMap(() => ['user.invite by admin@demo.test', 'user.password-reset by no one']),
+    'project.create by admin@demo.test',
+    ...others.flatMap((a) => a.roles.map(() => 'membership.grant by admin@demo.test')),
+    ...demoSheets().flatMap(() => ['sheet.create by originator@demo.test', 'version.save by originator@demo.test']),
+  ]);
+});
+
+it('saves each demo version as the app saves one: the same audit events, references and sheet', async () => {
+  await seedDemo(testDb());
+  const db = testDb();
+  const project = await db.selectFrom('projects').select(['id', 'code']).executeTakeFirstOrThrow();
+  const demo = demoSheets()[0].content;
+  // The same content through the app's path: POST /api/projects/{id}/sheets, then POST /api/sheets/{id}/versions.
+  const originator = await actorByEmail(db, 'originator@demo.test');
+  const created = await createSheet(db, originator, project, {
+    title: demo.title,
+    safetyRelated: demo.safetyRelated,
+    objective: demo.record.objective,
+  });
+  const saved = await saveVersion(
+    db,
+    originator,
+    { id: created.id, project_id: project.id },
+    { parentNumber: 1, message: DEMO_VERSION_MESSAGE, content: demo },
+  );
+  expect(saved.number).toBe(2);
+
+  const sheetOf = async (number: number) => {
+    const sheet = await db
+      .selectFrom('sheets')
+      .select(['id', 'title', 'safety_related', 'created_by', 'starter', 'started_from_version_id', 'voided_at'])
+      .where('project_id', '=', project.id)
+      .where('number', '=', number)
+      .executeTakeFirstOrThrow();
+    const versions = await db
+      .selectFrom('versions')
+      .select([
+        'id',
+        'number',
+        'parent_number',
+        'content_hash',
+        'results',
+        'engine_version',
+        'constants_edition',
+        'author_id',
+        'message',
+        'created_at',
+      ])
+      .where('sheet_id', '=', sheet.id)
+      .orderBy('number')
+      .execute();
+    const references = await db
+      .selectFrom('version_references')
+      .select(['version_id', 'revision_id', 'name'])
+      .where(
+        'version_id',
+        'in',
+        versions.map((v) => v.id),
+      )
+      .execute();
+    const events = await db
+      .selectFrom('audit_events')
+      .select([
+        'action',
+        'object_type',
+        'actor_id',
+        'project_id',
+        'session_id',
+        'token_id',
+        'old_value',
+        'new_value',
+        'reason',
+        'occurred_at',
+      ])
+      .where('object_id', '=', sheet.id)
+      .orderBy('occurred_at')
+      .orderBy('id')
+      .execute();
+    const { id, ...row } = sheet;
+    return { id, row, versions, references, events };
+  };
+  const seeded = await sheetOf(1);
+  const app = await sheetOf(created.number);
+
+  expect(seeded.row).toEqual(app.row);
+  expect(seeded.references).toEqual(app.references);
+  const version = ({ id, created_at, results, ...v }: (typeof seeded.versions)[number]) => {
+    void id;
+    expect(created_at).toBeInstanceOf(Date);
+    // How many cells were computed afresh rather than taken from the engine's cache: not the sheet's results.
+    const { evaluatedCells, ...sheetResults } = results as SheetResult;
+    expect(evaluatedCells).toBeGreaterThanOrEqual(0);
+    return { ...v, results: sheetResults };
+  };
+  expect(seeded.versions.map(version)).toEqual(app.versions.map(version));
+  expect(seeded.versions.map((v) => [v.number, v.parent_number, v.message])).toEqual([
+    [1, null, 'Sheet created'],
+    [2, 1, DEMO_VERSION_MESSAGE],
+  ]);
+  // The events differ only in the sheet's number and their time.
+  const event = ({ occurred_at, new_value, ...e }: (typeof seeded.events)[number], code: string) => {
+    expect(occurred_at).toBeInstanceOf(Date);
+    const { number, ...value } = new_value as { number?: string };
+    expect(number ?? code).toBe(code);
+    return { ...e, new_value: value };
+  };
+  expect(seeded.events.map((e) => event(e, 'TPT2-CALC-0001'))).toEqual(app.events.map((e) => event(e, created.code)));
+  expect(seeded.events.map((e) => [e.action, e.new_value])).toEqual([
+    [
+      'sheet.create',
+      {
+        number: 'TPT2-CALC-0001',
+        title: demo.title,
+        safetyRelated: demo.safetyRelated,
+        version: 1,
+        sha256: seeded.versions[0].content_hash,
+      },
+    ],
+    ['version.save', { version: 2, parent: 1, sha256: contentHash(demo) }],
+  ]);
+  // Each version was stored in the transaction its event was recorded in, at the database's time.
+  for (const path of [seeded, app])
+    for (const [i, v] of path.versions.entries())
+      expect(v.created_at.getTime()).toBeLessThanOrEqual(path.events[i].occurred_at.getTime());
 });
 
 it('gives every demo account the documented password, hashed with argon2id', async () => {
@@ -67,9 +219,11 @@ it('stores each demo version evaluated, every cell without error, with the engin
   await seedDemo(testDb());
   const versions = await testDb()
     .selectFrom('versions')
-    .select(['results', 'engine_version', 'constants_edition'])
+    .select(['results', 'engine_version', 'constants_edition', 'content_hash'])
     .execute();
-  expect(versions).toHaveLength(3);
+  // Versions 2 hold the demo content.
+  expect(versions.filter((v) => demoSheets().some((d) => contentHash(d.content) === v.content_hash))).toHaveLength(3);
+  expect(versions).toHaveLength(6);
   for (const v of versions) {
     const results = v.results as { ok: boolean; cells: Array<{ ok: boolean; error: string | null }> };
     expect(results.cells.filter((c) => !c.ok).map((c) => c.error)).toEqual([]);
@@ -93,7 +247,7 @@ it('evaluates the demo dipole sheet to the expected rigidity and criterion', () 
 it('seeds the study sheets of the demo installation when asked, each evaluating without error', async () => {
   const report = await seedDemo(testDb(), { studies: true });
   expect(report.sheetsCreated).toBe(5);
-  const versions = await testDb().selectFrom('versions').select(['results']).execute();
+  const versions = await testDb().selectFrom('versions').select(['results']).where('number', '=', 2).execute();
   expect(versions).toHaveLength(5);
   for (const v of versions) expect((v.results as { ok: boolean }).ok).toBe(true);
   const engine = createSheetEngine();
@@ -119,12 +273,14 @@ it('seeds the study sheets of the demo installation when asked, each evaluating 
 
 it('seeds the starter sheets when asked: marked as starters, every cell without error, every design criterion met', async () => {
   const report = await seedDemo(testDb(), { starters: true });
-  expect(report.sheetsCreated).toBe(3 + demoStarterSheets().length);
+  // Numbered after the demo and study sheets (1–5), which come with them: the app numbers sheets in order.
+  expect(report.sheetsCreated).toBe(5 + demoStarterSheets().length);
   const rows = await testDb()
     .selectFrom('sheets as s')
     .innerJoin('versions as v', 'v.sheet_id', 's.id')
     .select(['s.number', 's.starter', 'v.results', 'v.content'])
     .where('s.starter', '=', true)
+    .where('v.number', '=', 2)
     .orderBy('s.number')
     .execute();
   expect(rows.map((r) => r.number)).toEqual([6, 7, 8, 9, 10]);
@@ -151,5 +307,5 @@ it('seeds the starter sheets when asked: marked as starters, every cell without 
     (await testDb().selectFrom('sheets').select('number').where('starter', '=', false).orderBy('number').execute()).map(
       (r) => r.number,
     ),
-  ).toEqual([1, 2, 3]);
+  ).toEqual([1, 2, 3, 4, 5]);
 });

@@ -481,7 +481,7 @@ const tokens = new Map<Who, string>();
 const readTokens = new Map<Who, string>();
 const cookies = new Map<Who, string>();
 
-/** A copy of demo sheet `n` of TPT2 (version 2 holds the demo content), made by the originator. */
+/** A copy of demo sheet `n` of TPT2 (its version 2, as the demo sheet's, holds the demo content), made by the originator. */
 async function copyOfDemoSheet(
   originator: Actor,
   project: { id: string; code: string },
@@ -494,7 +494,7 @@ async function copyOfDemoSheet(
     .where('project_id', '=', project.id)
     .where('number', '=', n)
     .executeTakeFirstOrThrow();
-  const content = (await getVersion(testDb(), demo.id, 1))!.content;
+  const content = (await getVersion(testDb(), demo.id, 2))!.content;
   const sheet = await makeSheet(testDb(), originator, project, { title, safetyRelated: content.safetyRelated });
   const saved = await saveVersion(testDb(), originator, sheet, {
     parentNumber: 1,

@@ -84,13 +84,13 @@ afterAll(async () => {
 });
 
 it('takes a version from submission through a return, a resubmission, the check and the approval', async () => {
-  // The originator saves version 2 and submits it; they cannot pick themselves as the checker.
+  // The originator saves version 3 and submits it; they cannot pick themselves as the checker.
   expect(
     await saveVersion('Charge state stated', (s) =>
       s.replace('magneticRigidity(p_max, q_e)', 'magneticRigidity(p_max, 1 * q_e)'),
     ),
-  ).toBe(2);
-  let form = await submitForCheck(2);
+  ).toBe(3);
+  let form = await submitForCheck(3);
   const self = form.getByRole('option', { name: 'Demo Originator (not eligible)' });
   expect(await self.isDisabled()).toBe(true);
   await form
@@ -100,11 +100,11 @@ it('takes a version from submission through a return, a resubmission, the check 
   await form.getByRole('button', { name: 'Submit for check' }).click();
   await form
     .getByRole('status')
-    .filter({ hasText: 'Version 2 is submitted to Demo Checker for check and signed as prepared.' })
+    .filter({ hasText: 'Version 3 is submitted to Demo Checker for check and signed as prepared.' })
     .waitFor();
   const status = originator.page.getByRole('region', { name: 'Status' });
   await status.getByText('In check', { exact: true }).waitFor();
-  await status.getByText('Version 2 is in check by Demo Checker.').waitFor();
+  await status.getByText('Version 3 is in check by Demo Checker.').waitFor();
   expect(originator.problems).toEqual([]);
 
   // The checker finds it in "My checks", comments on a line of a cell and returns it.
@@ -114,8 +114,8 @@ it('takes a version from submission through a return, a resubmission, the check 
   const queue = page.getByRole('table', { name: 'Versions waiting for your check' });
   await queue.getByRole('row').filter({ hasText: 'TPT2-CALC-0001' }).getByText('safety-related').waitFor();
   await checker.screenshot('my-checks');
-  await queue.getByRole('link', { name: 'Open the check of TPT2-CALC-0001 version 2' }).click();
-  await page.getByText('Version 2, first check: the whole sheet').waitFor();
+  await queue.getByRole('link', { name: 'Open the check of TPT2-CALC-0001 version 3' }).click();
+  await page.getByText('Version 3, first check: the whole sheet').waitFor();
   await page.getByRole('note').filter({ hasText: 'Safety-related calculation' }).waitFor();
   let cell = page.getByRole('article', { name: /^Cell 2 \(rigidity\)/ });
   await cell.getByRole('button', { name: 'Comment on this cell' }).click();
@@ -133,7 +133,7 @@ it('takes a version from submission through a return, a resubmission, the check 
   await page.getByText('Returned with comments: One open comment on the rigidity cell.').waitFor();
   expect(checker.problems).toEqual([]);
 
-  // The originator reads the comments from the sheet page, answers, saves version 3 and submits it.
+  // The originator reads the comments from the sheet page, answers, saves version 4 and submits it.
   page = originator.page;
   await page.reload();
   await status.getByText('Returned', { exact: true }).waitFor();
@@ -146,22 +146,22 @@ it('takes a version from submission through a return, a resubmission, the check 
   await cell.getByText('Protons, charge state 1; now in the cell comment.').waitFor();
   expect(
     await saveVersion('Charge state in the comment', (s) => s.replace('to T*m', 'to T*m   # protons, charge state 1')),
-  ).toBe(3);
-  form = await submitForCheck(3);
+  ).toBe(4);
+  form = await submitForCheck(4);
   await form.getByRole('button', { name: 'Submit for check' }).click();
-  await status.getByText('Version 3 is in check by Demo Checker.').waitFor();
+  await status.getByText('Version 4 is in check by Demo Checker.').waitFor();
   expect(originator.problems).toEqual([]);
 
   // The checker resolves the thread carried over, records the method and an alternate calculation,
   // and signs, first with a wrong password.
   page = checker.page;
   await page.goto(`${app.baseUrl}/checks`);
-  await page.getByRole('link', { name: 'Open the check of TPT2-CALC-0001 version 3' }).click();
-  // A re-check: what changed since the returned version 2 comes first (no version is approved yet).
-  await page.getByText('Version 3, re-check after the return of version 2; no version is approved yet').waitFor();
-  const sinceReturn = page.getByRole('region', { name: 'Changes since version 2, the version you returned' });
+  await page.getByRole('link', { name: 'Open the check of TPT2-CALC-0001 version 4' }).click();
+  // A re-check: what changed since the returned version 3 comes first (no version is approved yet).
+  await page.getByText('Version 4, re-check after the return of version 3; no version is approved yet').waitFor();
+  const sinceReturn = page.getByRole('region', { name: 'Changes since version 3, the version you returned' });
   await sinceReturn
-    .getByRole('article', { name: 'Cell rigidity, changed since version 2' })
+    .getByRole('article', { name: 'Cell rigidity, changed since version 3' })
     .getByRole('insertion')
     .filter({ hasText: '# protons, charge state 1' })
     .waitFor();
@@ -169,7 +169,7 @@ it('takes a version from submission through a return, a resubmission, the check 
     .getByRole('heading', { name: 'Since the last approved version: none is approved yet, so every cell is new' })
     .waitFor();
   cell = page.getByRole('article', { name: /^Cell 2 \(rigidity\)/ });
-  await cell.getByText('Open thread · Line 3 · opened at the check of version 2').waitFor();
+  await cell.getByText('Open thread · Line 3 · opened at the check of version 3').waitFor();
   await cell.getByText('Protons, charge state 1; now in the cell comment.').waitFor();
   await page
     .getByRole('region', { name: 'Decision' })
@@ -201,7 +201,7 @@ it('takes a version from submission through a return, a resubmission, the check 
   await sign.getByLabel('Your password (signs as checked)').fill(DEMO_PASSWORD);
   await sign.getByRole('button', { name: 'Sign as checked' }).click();
   await page.getByRole('status').filter({ hasText: 'Signed as checked. The version now awaits approval.' }).waitFor();
-  await page.getByRole('list', { name: 'Signatures of version 3' }).getByText('Checked', { exact: true }).waitFor();
+  await page.getByRole('list', { name: 'Signatures of version 4' }).getByText('Checked', { exact: true }).waitFor();
   // The refused signature (403) is the only HTTP error.
   expect(checker.problems.filter((p) => !/403/.test(p))).toEqual([]);
   checker.problems.length = 0;
@@ -212,7 +212,7 @@ it('takes a version from submission through a return, a resubmission, the check 
   const approvals = page.getByRole('table', { name: 'Checked versions waiting for approval' });
   await approvals.getByRole('row').filter({ hasText: 'TPT2-CALC-0001' }).getByText('Yes', { exact: true }).waitFor();
   await approver.screenshot('my-approvals');
-  await approvals.getByRole('link', { name: 'Open the check of TPT2-CALC-0001 version 3' }).click();
+  await approvals.getByRole('link', { name: 'Open the check of TPT2-CALC-0001 version 4' }).click();
   const approve = page.getByRole('form', { name: 'Approve' });
   await approve.getByText('Meaning of your signature: Approved').waitFor();
   await approve.getByLabel('Your password (signs as approved)').fill(DEMO_PASSWORD);
@@ -223,43 +223,43 @@ it('takes a version from submission through a return, a resubmission, the check 
     .waitFor();
   expect(approver.problems).toEqual([]);
 
-  // The sheet is approved, with the signatures of version 3: prepared, checked, approved.
+  // The sheet is approved, with the signatures of version 4: prepared, checked, approved.
   page = originator.page;
   await page.goto(`${app.baseUrl}/projects/TPT2/sheets/1`);
   await status.getByText('Approved', { exact: true }).waitFor();
   const signatures = page.getByRole('table', { name: 'Signatures of this sheet' });
-  const v3 = signatures.getByRole('row').filter({ has: page.getByRole('cell', { name: '3', exact: true }) });
-  expect(await v3.allInnerTexts()).toEqual([
-    expect.stringMatching(/^Demo Originator\s+Prepared\s+\d{4}-\d\d-\d\d \d\d:\d\d UTC\s+3\s+[0-9a-f]{64}$/),
-    expect.stringMatching(/^Demo Checker\s+Checked\s+\d{4}-\d\d-\d\d \d\d:\d\d UTC\s+3\s+[0-9a-f]{64}$/),
-    expect.stringMatching(/^Demo Approver\s+Approved\s+\d{4}-\d\d-\d\d \d\d:\d\d UTC\s+3\s+[0-9a-f]{64}$/),
+  const v4 = signatures.getByRole('row').filter({ has: page.getByRole('cell', { name: '4', exact: true }) });
+  expect(await v4.allInnerTexts()).toEqual([
+    expect.stringMatching(/^Demo Originator\s+Prepared\s+\d{4}-\d\d-\d\d \d\d:\d\d UTC\s+4\s+[0-9a-f]{64}$/),
+    expect.stringMatching(/^Demo Checker\s+Checked\s+\d{4}-\d\d-\d\d \d\d:\d\d UTC\s+4\s+[0-9a-f]{64}$/),
+    expect.stringMatching(/^Demo Approver\s+Approved\s+\d{4}-\d\d-\d\d \d\d:\d\d UTC\s+4\s+[0-9a-f]{64}$/),
   ]);
-  // Version 2's "prepared" stays on record.
+  // Version 3's "prepared" stays on record.
   expect(await signatures.getByRole('row').count()).toBe(5);
-  await page.getByRole('list', { name: 'Signatures of version 3' }).getByText('Approved', { exact: true }).waitFor();
+  await page.getByRole('list', { name: 'Signatures of version 4' }).getByText('Approved', { exact: true }).waitFor();
   await originator.screenshot('sheet-signatures');
   expect(originator.problems).toEqual([]);
 }, 300_000);
 
 it('checks a later version against the approved one: changed cells first, unchanged folded, results old → new', async () => {
-  expect(await saveVersion('Larger bending radius', (s) => s.replace('rho = 1.5 m', 'rho = 1.6 m'))).toBe(4);
-  const form = await submitForCheck(4);
+  expect(await saveVersion('Larger bending radius', (s) => s.replace('rho = 1.5 m', 'rho = 1.6 m'))).toBe(5);
+  const form = await submitForCheck(5);
   await form.getByRole('button', { name: 'Submit for check' }).click();
   await originator.page
     .getByRole('region', { name: 'Status' })
-    .getByText('Version 4 is in check by Demo Checker.')
+    .getByText('Version 5 is in check by Demo Checker.')
     .waitFor();
 
   const { page } = checker;
   await page.goto(`${app.baseUrl}/checks`);
-  await page.getByRole('link', { name: 'Open the check of TPT2-CALC-0001 version 4' }).click();
-  await page.getByText('Version 4 against version 3, the last approved one').waitFor();
-  const changes = page.getByRole('region', { name: 'Cells changed since version 3' });
+  await page.getByRole('link', { name: 'Open the check of TPT2-CALC-0001 version 5' }).click();
+  await page.getByText('Version 5 against version 4, the last approved one').waitFor();
+  const changes = page.getByRole('region', { name: 'Cells changed since version 4' });
   const cell = changes.getByRole('article', { name: 'Cell 2 (rigidity), changed' });
   expect(await cell.locator('del').innerText()).toContain('1.5');
   expect(await cell.locator('ins').innerText()).toContain('1.6');
   // B = 2.432 13 T·m / 1.6 m = 1.520 08 T; the relative change is 1.5/1.6 − 1 = −6.25 % (arithmetic).
-  await cell.getByText(/Changed since version 3:\s*1\.621\s?42\s?T → 1\.520\s?08\s?T \(−6\.25 %\)/).waitFor();
+  await cell.getByText(/Changed since version 4:\s*1\.621\s?42\s?T → 1\.520\s?08\s?T \(−6\.25 %\)/).waitFor();
   const folded = changes.locator('details').filter({ hasText: '2 unchanged cells' });
   expect(await folded.getAttribute('open')).toBeNull();
   expect(await page.getByRole('article', { name: 'Cell 1 (intro), unchanged' }).isVisible()).toBe(false);

@@ -34,6 +34,7 @@ beforeAll(async () => {
   const originatorActor = await actorByEmail(db, 'originator@demo.test');
   const checkerActor = await actorByEmail(db, 'checker@demo.test');
   // The first check: the checker records an alternate calculation and a tolerance, then returns the version.
+  // The demo content is version 2 (version 1 is the new sheet).
   const v1 = (await getVersion(db, sheet.id))!;
   const first = await submitForCheck(db, originatorActor, sheet, {
     versionNumber: v1.number,
@@ -94,10 +95,10 @@ it("compares the alternate calculation, carries the returned check's work over, 
   // Carried over, visibly, field by field, and not yet confirmed.
   await work
     .getByRole('note', { name: 'Carried over' })
-    .getByText(/From the check of version 1:/)
+    .getByText(/From the check of version 2:/)
     .waitFor();
   await work.getByText('Not yet confirmed by the checker for this version.').waitFor();
-  expect(await work.getByText('from the check of version 1', { exact: true }).count()).toBe(4);
+  expect(await work.getByText('from the check of version 2', { exact: true }).count()).toBe(4);
   expect(await work.getByLabel("Checker's notes").inputValue()).toBe('Field recomputed from the total energy.');
   expect(await work.getByLabel('Tolerance of the comparison (relative)').inputValue()).toBe('0.01 %');
   // The comparison, in words: 250.1 MeV against 250 MeV is 4 × 10⁻⁴ (arithmetic), outside 0.01 %; the
@@ -118,15 +119,15 @@ it("compares the alternate calculation, carries the returned check's work over, 
   await sign.getByRole('button', { name: 'Sign as checked' }).click();
   await page
     .getByRole('alert')
-    .filter({ hasText: 'still as carried over from the check of version 1; confirm or edit them before signing.' })
+    .filter({ hasText: 'still as carried over from the check of version 2; confirm or edit them before signing.' })
     .waitFor();
 
   // The checker states a looser tolerance (their own edit now) and confirms the rest.
   await work.getByLabel('Tolerance of the comparison (relative)').fill('0.1 %');
   await work.getByRole('button', { name: 'Save and evaluate' }).click();
   await row('T_max').getByText('Within the tolerance of 0.1 %').waitFor();
-  expect(await work.getByText('from the check of version 1', { exact: true }).count()).toBe(3);
-  await work.getByRole('button', { name: 'Confirm the work carried over from version 1' }).click();
+  expect(await work.getByText('from the check of version 2', { exact: true }).count()).toBe(3);
+  await work.getByRole('button', { name: 'Confirm the work carried over from version 2' }).click();
   await work.getByText(/Confirmed for this version by Demo Checker on \d{4}-\d\d-\d\d \d\d:\d\d UTC\./).waitFor();
   await sign.getByLabel('Your password (signs as checked)').fill(DEMO_PASSWORD);
   await sign.getByRole('button', { name: 'Sign as checked' }).click();
@@ -138,13 +139,13 @@ it("compares the alternate calculation, carries the returned check's work over, 
   // The approver reads the evidence beside the decision, and the comparison read-only.
   page = approver.page;
   await page.goto(`${app.baseUrl}/approvals`);
-  await page.getByRole('link', { name: 'Open the check of TPT2-CALC-0001 version 2' }).click();
+  await page.getByRole('link', { name: 'Open the check of TPT2-CALC-0001 version 3' }).click();
   const evidence = page.getByRole('group', { name: "The checker's evidence" });
   await evidence.getByText('Verification method: Alternate calculation').waitFor();
   await evidence.getByText(/3 of 3 shared names within 0\.1 %/).waitFor();
   await evidence
     .getByText(
-      "Carried over from the check of version 1: verification method, checker's notes and alternate calculation; confirmed by Demo Checker.",
+      "Carried over from the check of version 2: verification method, checker's notes and alternate calculation; confirmed by Demo Checker.",
     )
     .waitFor();
   const readOnly = page.getByRole('region', { name: "The checker's work" });

@@ -65,7 +65,7 @@ beforeAll(async () => {
   );
   team = { author, checker, approver, controller };
   // Sheet 1 revision A (250 MeV); sheet 2 cites its Brho_max and is issued as revision A.
-  await approveAndIssue(sheets[0], 1);
+  await approveAndIssue(sheets[0], 2); // version 2: the demo content
   const cited = await saveCells(sheets[1], 'Cite the dipole rigidity', (cells) => [
     ...cells,
     {

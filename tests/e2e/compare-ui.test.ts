@@ -40,8 +40,9 @@ beforeAll(async () => {
     .executeTakeFirstOrThrow();
   const author = await actorByEmail(db, 'originator@demo.test');
   const checkerActor = await actorByEmail(db, 'checker@demo.test');
+  // The demo content is version 2 (version 1 is the new sheet).
   const v1 = (await getVersion(db, sheet.id))!;
-  expect(v1.number).toBe(1);
+  expect(v1.number).toBe(2);
   const store = getObjectStore();
   const file = (name: string, text: string) => ({ name, type: 'text/csv', bytes: new TextEncoder().encode(text) });
   const ref = (text: string) => ({
@@ -51,7 +52,7 @@ beforeAll(async () => {
     sha256: sha(text),
   });
   await uploadAttachment(db, store, author, sheet, file('field scan.csv', scan1));
-  // Version 2: conclusions written, the rated field's datasheet now at revision B, the scan attached, 4 significant figures.
+  // Version 3: conclusions written, the rated field's datasheet now at revision B, the scan attached, 4 significant figures.
   const c2: VersionContent = {
     ...v1.content,
     significantFigures: 4,
@@ -65,11 +66,11 @@ beforeAll(async () => {
     attachments: [ref(scan1)],
   };
   await saveVersion(db, author, sheet, {
-    parentNumber: 1,
+    parentNumber: 2,
     message: 'Conclusions, datasheet revision B, field scan',
     content: c2,
   });
-  // Version 3: a cell edited only.
+  // Version 4: a cell edited only.
   const c3: VersionContent = {
     ...c2,
     cells: c2.cells.map((c) =>
@@ -78,10 +79,10 @@ beforeAll(async () => {
         : c,
     ),
   };
-  await saveVersion(db, author, sheet, { parentNumber: 2, message: 'Radius source cited', content: c3 });
-  // The checker returns version 3; version 4 replaces the scan and is submitted again.
+  await saveVersion(db, author, sheet, { parentNumber: 3, message: 'Radius source cited', content: c3 });
+  // The checker returns version 4; version 5 replaces the scan and is submitted again.
   const first = await submitForCheck(db, author, sheet, {
-    versionNumber: 3,
+    versionNumber: 4,
     checkerId: checkerActor.userId,
     password: DEMO_PASSWORD,
   });
@@ -91,13 +92,13 @@ beforeAll(async () => {
   });
   await uploadAttachment(db, store, author, sheet, file('field scan.csv', scan2));
   await saveVersion(db, author, sheet, {
-    parentNumber: 3,
+    parentNumber: 4,
     message: 'Scan re-measured',
     content: { ...c3, attachments: [ref(scan2)] },
   });
   recheckId = (
     await submitForCheck(db, author, sheet, {
-      versionNumber: 4,
+      versionNumber: 5,
       checkerId: checkerActor.userId,
       password: DEMO_PASSWORD,
     })
@@ -117,14 +118,14 @@ it('picks two versions that are not neighbours and sees the record and the attac
   const page = originator.page;
   await page.goto(`${app.baseUrl}/projects/TPT2/sheets/1`);
   const history = page.getByRole('form', { name: 'Compare two versions' });
-  await history.getByLabel('Base version').selectOption('1');
-  await history.getByLabel('Target version').selectOption('3');
+  await history.getByLabel('Base version').selectOption('2');
+  await history.getByLabel('Target version').selectOption('4');
   await originator.screenshot('compare-picker-history');
   await history.getByRole('button', { name: 'Compare' }).click();
-  await page.waitForURL(/\/compare\?base=1&target=3$/);
-  await page.getByRole('heading', { name: 'Version 1 → version 3' }).waitFor();
+  await page.waitForURL(/\/compare\?base=2&target=4$/);
+  await page.getByRole('heading', { name: 'Version 2 → version 4' }).waitFor();
 
-  const record = page.getByRole('region', { name: 'Calculation record and attachments: changes since version 1' });
+  const record = page.getByRole('region', { name: 'Calculation record and attachments: changes since version 2' });
   await record.getByText('Conclusions', { exact: true }).waitFor();
   await record.getByText('The dipole reaches the field of the highest treatment energy with margin.').waitFor();
   await record.getByText('Significant figures', { exact: true }).waitFor();
@@ -141,15 +142,15 @@ it('picks two versions that are not neighbours and sees the record and the attac
   await page.getByRole('article', { name: 'Cell rigidity, changed' }).waitFor();
   await originator.screenshot('compare-record-1-3');
 
-  // On the compare page, another pair: 2 → 4, the scan replaced.
+  // On the compare page, another pair: 3 → 5, the scan replaced.
   const picker = page.getByRole('form', { name: 'Compare two versions' });
-  expect(await picker.getByLabel('Base version').inputValue()).toBe('1');
-  expect(await picker.getByLabel('Target version').inputValue()).toBe('3');
-  await picker.getByLabel('Base version').selectOption('2');
-  await picker.getByLabel('Target version').selectOption('4');
+  expect(await picker.getByLabel('Base version').inputValue()).toBe('2');
+  expect(await picker.getByLabel('Target version').inputValue()).toBe('4');
+  await picker.getByLabel('Base version').selectOption('3');
+  await picker.getByLabel('Target version').selectOption('5');
   await picker.getByRole('button', { name: 'Compare' }).click();
-  await page.waitForURL(/\/compare\?base=2&target=4$/);
-  await page.getByRole('heading', { name: 'Version 2 → version 4' }).waitFor();
+  await page.waitForURL(/\/compare\?base=3&target=5$/);
+  await page.getByRole('heading', { name: 'Version 3 → version 5' }).waitFor();
   const replaced = page.getByRole('listitem', { name: 'Attachment field scan.csv, replaced' });
   await replaced.getByText(`SHA-256 ${sha(scan1)}`).waitFor();
   await replaced.getByText(`SHA-256 ${sha(scan2)}`).waitFor();
@@ -170,21 +171,21 @@ it('picks two versions that are not neighbours and sees the record and the attac
 it('opens a re-check after a return with the changes since the version the checker returned', async () => {
   const page = checker.page;
   await page.goto(`${app.baseUrl}/checks/${recheckId}`);
-  const since = page.getByRole('region', { name: 'Changes since version 3, the version you returned' });
+  const since = page.getByRole('region', { name: 'Changes since version 4, the version you returned' });
   await since.waitFor();
   await since
     .getByRole('listitem', { name: 'Attachment field scan.csv, replaced' })
     .getByText('Rows 1 added, 0 removed, 1 changed.')
     .waitFor();
-  await since.getByText('No cell changed since version 3.').waitFor();
+  await since.getByText('No cell changed since version 4.').waitFor();
   // It comes first; the changes since the last approved version (none yet: the whole sheet) follow.
   const headings = await page.getByRole('main').getByRole('heading', { level: 2 }).allInnerTexts();
-  const sinceReturn = headings.indexOf('Changes since version 3, the version you returned');
+  const sinceReturn = headings.indexOf('Changes since version 4, the version you returned');
   expect(sinceReturn).toBeGreaterThanOrEqual(0);
   expect(headings[sinceReturn + 1]).toBe('Since the last approved version: none is approved yet, so every cell is new');
   expect(headings.slice(0, sinceReturn).some((h) => /cell|change|record/i.test(h))).toBe(false);
   expect(headings).not.toContain('Cells (first check: every cell is new)');
-  await page.getByText('Version 4, re-check after the return of version 3; no version is approved yet').waitFor();
+  await page.getByText('Version 5, re-check after the return of version 4; no version is approved yet').waitFor();
   await checker.screenshot('compare-recheck-since-return');
   expect(checker.problems).toEqual([]);
 }, 300_000);

@@ -46,8 +46,9 @@ beforeAll(async () => {
   const [originator, checker, approver] = await Promise.all(
     ['originator', 'checker', 'approver'].map((r) => actorByEmail(testDb(), `${r}@demo.test`)),
   );
+  // Version 2 holds the demo content (version 1 is the new sheet).
   await checkAndApprove(testDb(), { author: originator, checker, approver }, sheet, {
-    versionNumber: 1,
+    versionNumber: 2,
     password: DEMO_PASSWORD,
     verificationMethod: 'alternate_calculation',
   });

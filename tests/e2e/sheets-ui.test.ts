@@ -84,21 +84,21 @@ it('edits a sheet, sees typeset results as it types, saves two versions and comp
   await page.getByLabel('Input 2 source revision').fill('C');
   await page.getByLabel('What changed').fill('Proper time of flight of the bunch');
   await page.getByRole('button', { name: 'Save version' }).click();
-  await page.getByRole('status').filter({ hasText: 'Saved as version 2.' }).waitFor();
+  await page.getByRole('status').filter({ hasText: 'Saved as version 3.' }).waitFor();
   await session.screenshot('sheet-editor');
 
   await source.fill('gamma_b = lorentzFactor(v_beam)\nt_proper = t_flight / gamma_b to ns\nt_proper < 60 ns');
   await page.getByLabel('What changed').fill('Tighter timing limit');
   await page.getByRole('button', { name: 'Save version' }).click();
-  await page.getByRole('status').filter({ hasText: 'Saved as version 3.' }).waitFor();
+  await page.getByRole('status').filter({ hasText: 'Saved as version 4.' }).waitFor();
 
-  await page.goto(`${app.baseUrl}/projects/TPT2/sheets/2?version=2`);
+  await page.goto(`${app.baseUrl}/projects/TPT2/sheets/2?version=3`);
   await page.getByText('The bunch travels on the design orbit between the monitors.').waitFor();
   await page
     .getByText(/Beam kinetic energy: 150 MeV — TPT2 beam requirements specification \(demo\), revision C/)
     .waitFor();
-  await page.goto(`${app.baseUrl}/projects/TPT2/sheets/2/compare?base=2&target=3`);
-  await page.getByRole('heading', { level: 1, name: 'Version 2 → version 3' }).waitFor();
+  await page.goto(`${app.baseUrl}/projects/TPT2/sheets/2/compare?base=3&target=4`);
+  await page.getByRole('heading', { level: 1, name: 'Version 3 → version 4' }).waitFor();
   expect(
     await page
       .getByRole('article', { name: /changed/ })
@@ -119,20 +119,20 @@ it('refuses a save based on a stale version, shows it, and carries the edits ove
   const { page } = session;
   await page.goto(`${app.baseUrl}/projects/TPT2/sheets/3/edit`);
   await page.getByLabel('Objective').fill('Wavelength and speed of the probe electrons, edited in the browser.');
-  // Meanwhile someone else saves version 2 of the same sheet.
+  // Meanwhile someone else saves version 3 of the same sheet.
   // A change made with the session cookie says where it comes from, as a browser's fetch does.
   const other = await session.context.request.post(`${app.baseUrl}/api/sheets/${await sheetId(3)}/versions`, {
     headers: { origin: app.baseUrl },
-    data: { parentNumber: 1, message: 'Saved elsewhere', content: await latestContent(3) },
+    data: { parentNumber: 2, message: 'Saved elsewhere', content: await latestContent(3) },
   });
   expect(other.status()).toBe(201);
   await page.getByLabel('What changed').fill('Objective reworded');
   await page.getByRole('button', { name: 'Save version' }).click();
-  await page.getByRole('alert').filter({ hasText: 'Version 2 was saved since version 1' }).waitFor();
+  await page.getByRole('alert').filter({ hasText: 'Version 3 was saved since version 2' }).waitFor();
   await session.screenshot('save-conflict');
-  await page.getByRole('button', { name: 'Keep my edits on top of version 2' }).click();
+  await page.getByRole('button', { name: 'Keep my edits on top of version 3' }).click();
   await page.getByRole('button', { name: 'Save version' }).click();
-  await page.getByRole('status').filter({ hasText: 'Saved as version 3.' }).waitFor();
+  await page.getByRole('status').filter({ hasText: 'Saved as version 4.' }).waitFor();
   // The 409 the test provoked is the only HTTP error.
   expect(session.problems.filter((p) => !/409/.test(p))).toEqual([]);
 });

@@ -38,8 +38,8 @@ it('starts a new sheet from the satellite-timing starter, which records where it
   await form.getByRole('button', { name: 'Start the new sheet' }).click();
 
   await page.getByRole('heading', { level: 1, name: 'Clock rate offset of the Corvid spare orbit' }).waitFor();
-  await page.getByRole('link', { name: 'TPT2-CALC-0009 version 1' }).waitFor();
-  await page.getByText(/Started from TPT2-CALC-0009 version 1 \(SHA-256 [0-9a-f]{12}…\)/).waitFor();
+  await page.getByRole('link', { name: 'TPT2-CALC-0009 version 2' }).waitFor();
+  await page.getByText(/Started from TPT2-CALC-0009 version 2 \(SHA-256 [0-9a-f]{12}…\)/).waitFor();
   await session.screenshot('start-from-created');
   const created = await testDb()
     .selectFrom('sheets')

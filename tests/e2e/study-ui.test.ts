@@ -55,7 +55,7 @@ it('shows a study sheet with its uncertainty budget, sweep table, plot and CSV',
   // The CSV at full precision: header with units, ten rows, the last rigidity equal to the sheet's own value.
   const link = page.getByRole('link', { name: /Download CSV/ }).first();
   const href = await link.getAttribute('href');
-  expect(href).toMatch(/\/api\/sheets\/[0-9a-f-]{36}\/versions\/1\/studies\/2\/1$/);
+  expect(href).toMatch(/\/api\/sheets\/[0-9a-f-]{36}\/versions\/2\/studies\/2\/1$/);
   const csv = await originator.context.request.get(`${app.baseUrl}${href}`);
   expect(csv.status()).toBe(200);
   expect(csv.headers()['content-type']).toMatch(/text\/csv/);

@@ -29,6 +29,7 @@ beforeAll(async () => {
     .where('number', '=', 2)
     .executeTakeFirstOrThrow();
   const me = await actorByEmail(db, 'originator@demo.test');
+  // The demo content is version 2 (version 1 is the new sheet); the originator saves version 3.
   const v1 = (await getVersion(db, sheet.id))!;
   await saveVersion(db, me, sheet, {
     parentNumber: v1.number,
@@ -87,7 +88,7 @@ it('asks the originator to acknowledge each item, then shows the acknowledgement
       .first()
       .evaluate((e) => (e as HTMLTextAreaElement).validity.valueMissing),
   ).toBe(true);
-  expect(await testDb().selectFrom('checks').select('id').where('version_number', '=', 2).execute()).toEqual([]);
+  expect(await testDb().selectFrom('checks').select('id').where('version_number', '=', 3).execute()).toEqual([]);
   await originator.screenshot('submit-acknowledgements-asked');
   const error = asked.getByLabel(/Cell error: .*L_total = d_bpm \+ t_flight/);
   const input = asked.getByLabel(/Design input does not match the sheet: .*Proton kinetic energy/);
@@ -97,13 +98,13 @@ it('asks the originator to acknowledge each item, then shows the acknowledgement
   );
   await form.getByLabel('Your password (signs as prepared)').fill(DEMO_PASSWORD);
   await form.getByRole('button', { name: 'Submit for check' }).click();
-  await form.getByText(/Version 2 is submitted to Demo Checker for check and signed as prepared/).waitFor();
+  await form.getByText(/Version 3 is submitted to Demo Checker for check and signed as prepared/).waitFor();
   expect(originator.problems).toEqual([]);
 
   const check = await testDb()
     .selectFrom('checks')
     .select('id')
-    .where('version_number', '=', 2)
+    .where('version_number', '=', 3)
     .executeTakeFirstOrThrow();
   const view = checker.page;
   await view.goto(`${app.baseUrl}/checks/${check.id}`);

@@ -14,7 +14,7 @@ async function studySheet() {
     .select('id')
     .where('code', '=', 'TPT2')
     .executeTakeFirstOrThrow();
-  // Demo sheet 4: cell 3 (index 2) holds a sweep on line 1 and a plot on line 2 (db/seed.ts).
+  // Demo sheet 4, version 2 (the demo content): cell 3 (index 2) holds a sweep on line 1 and a plot on line 2 (db/seed.ts).
   return testDb()
     .selectFrom('sheets')
     .select('id')
@@ -26,7 +26,7 @@ async function studySheet() {
 describe('getStudyTable', () => {
   it('finds the sweep of one cell and line of a version, with the numbers as evaluated', async () => {
     const sheet = await studySheet();
-    const table = await getStudyTable(testDb(), { sheetId: sheet.id, number: 1, cellIndex: 2, line: 1 });
+    const table = await getStudyTable(testDb(), { sheetId: sheet.id, number: 2, cellIndex: 2, line: 1 });
     expect(table).toBeDefined();
     expect(table!.columns.map((c) => [c.name, c.unit])).toEqual([
       ['T_kin', 'MeV'],
@@ -49,12 +49,13 @@ describe('getStudyTable', () => {
   it('finds nothing for a plot, another line, another cell or version, or another sheet', async () => {
     const sheet = await studySheet();
     const other = await testDb().selectFrom('sheets').select('id').where('number', '=', 1).executeTakeFirstOrThrow();
-    expect(await getStudyTable(testDb(), { sheetId: sheet.id, number: 1, cellIndex: 2, line: 2 })).toBeUndefined();
-    expect(await getStudyTable(testDb(), { sheetId: sheet.id, number: 1, cellIndex: 2, line: 3 })).toBeUndefined();
-    expect(await getStudyTable(testDb(), { sheetId: sheet.id, number: 1, cellIndex: 1, line: 1 })).toBeUndefined();
-    expect(await getStudyTable(testDb(), { sheetId: sheet.id, number: 1, cellIndex: 99, line: 1 })).toBeUndefined();
-    expect(await getStudyTable(testDb(), { sheetId: sheet.id, number: 2, cellIndex: 2, line: 1 })).toBeUndefined();
-    expect(await getStudyTable(testDb(), { sheetId: other.id, number: 1, cellIndex: 2, line: 1 })).toBeUndefined();
+    expect(await getStudyTable(testDb(), { sheetId: sheet.id, number: 2, cellIndex: 2, line: 2 })).toBeUndefined();
+    expect(await getStudyTable(testDb(), { sheetId: sheet.id, number: 2, cellIndex: 2, line: 3 })).toBeUndefined();
+    expect(await getStudyTable(testDb(), { sheetId: sheet.id, number: 2, cellIndex: 1, line: 1 })).toBeUndefined();
+    expect(await getStudyTable(testDb(), { sheetId: sheet.id, number: 2, cellIndex: 99, line: 1 })).toBeUndefined();
+    expect(await getStudyTable(testDb(), { sheetId: sheet.id, number: 3, cellIndex: 2, line: 1 })).toBeUndefined();
+    expect(await getStudyTable(testDb(), { sheetId: sheet.id, number: 1, cellIndex: 2, line: 1 })).toBeUndefined();
+    expect(await getStudyTable(testDb(), { sheetId: other.id, number: 2, cellIndex: 2, line: 1 })).toBeUndefined();
   });
 });
 
