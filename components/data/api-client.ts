@@ -6,6 +6,7 @@
 // answered N." when the body has none, or says that no answer arrived.
 // The request guard (lib/http/route.ts) needs nothing more than a browser sends by itself for a
 // same-origin fetch (Origin, Sec-Fetch-Site) and a JSON (or multipart) content type, which send() sets.
+import '@/components/data/zod-in-browser';
 import { z, type ZodType } from 'zod';
 import { attachmentSchema } from '@/lib/attachments/attachment-schema';
 import { errorBodySchema } from '@/lib/errors/app-error';
