@@ -32,7 +32,7 @@ export function bidiControlPattern(): RegExp {
 }
 
 /** "U+202E". */
-export function codePointLabel(codePoint: number): string {
+function codePointLabel(codePoint: number): string {
   return `U+${codePoint.toString(16).toUpperCase().padStart(4, '0')}`;
 }
 
@@ -44,10 +44,6 @@ export function describeBidiControl(codePoint: number): string {
 /** The visible stand-in for a control character: "⟦U+202E⟧". */
 export function bidiMarker(codePoint: number): string {
   return `\u27e6${codePointLabel(codePoint)}\u27e7`;
-}
-
-export function hasBidiControl(text: string): boolean {
-  return HAS_CONTROL.test(text);
 }
 
 export interface FoundBidiControl {

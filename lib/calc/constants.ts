@@ -29,7 +29,7 @@ export const E_CHARGE = 1.602_176_634e-19;
 /** Planck constant, J s: exact (SI 2019, defining constant). */
 export const H_PLANCK = 6.626_070_15e-34;
 /** Reduced Planck constant ħ = h/(2π), J s: exact, derived from the exact h (SI 2019). */
-export const HBAR = H_PLANCK / (2 * Math.PI);
+const HBAR = H_PLANCK / (2 * Math.PI);
 /** Standard acceleration of gravity, m/s²: exact (3rd CGPM 1901; SI Brochure 9th ed.). */
 export const G_N = 9.806_65;
 /** Electron mass, kg: CODATA 2022, u = 2.8e-40 kg. */
@@ -59,17 +59,17 @@ export const M_HELION = 5.006_412_7862e-27;
 /** Alpha particle (⁴He nucleus) mass, kg: CODATA 2022 (4.001 506 179 129(62) u), u = 2.1e-36 kg. */
 export const M_ALPHA = 6.644_657_345e-27;
 /** Tau mass, kg: CODATA 2022, u = 2.1e-31 kg. */
-export const M_TAU = 3.167_54e-27;
+const M_TAU = 3.167_54e-27;
 /** Charged pion mass, kg: PDG 2024, 139.570 39(18) MeV/c², converted exactly. */
-export const M_PI_CHARGED = 2.4880681963975513e-28;
+const M_PI_CHARGED = 2.4880681963975513e-28;
 /** Neutral pion mass, kg: PDG 2024, 134.9768(5) MeV/c², converted exactly. */
-export const M_PI_NEUTRAL = 2.4061800166318444e-28;
+const M_PI_NEUTRAL = 2.4061800166318444e-28;
 /** Charged kaon mass, kg: PDG 2024, 493.677(15) MeV/c², converted exactly. */
-export const M_K_CHARGED = 8.800591894834956e-28;
+const M_K_CHARGED = 8.800591894834956e-28;
 /** Neutral kaon mass, kg: PDG 2024, 497.611(13) MeV/c², converted exactly. */
-export const M_K_NEUTRAL = 8.870721814831798e-28;
+const M_K_NEUTRAL = 8.870721814831798e-28;
 /** Λ baryon mass, kg: PDG 2024, 1115.683(6) MeV/c², converted exactly. */
-export const M_LAMBDA = 1.9888856007075777e-27;
+const M_LAMBDA = 1.9888856007075777e-27;
 /** Atomic mass of ¹H (neutral atom), kg: AME 2020, 1.007 825 031 898(14) u. */
 export const M_ATOM_H1 = 1.6735328401021743e-27;
 /** Atomic mass of ⁴He (neutral atom), kg: AME 2020, 4.002 603 254 13(16) u. */
@@ -85,15 +85,15 @@ export const M_ATOM_NE20 = 3.319822799562595e-26;
 /** Geocentric gravitational constant GM of the Earth (atmosphere included), m³/s²: IERS Conventions (2010) table 1.1, u = 8e5 m³/s². */
 export const GM_EARTH = 3.986_004_418e14;
 /** Nominal mean angular velocity of the Earth, rad/s: WGS 84 / IS-GPS-200 (defining value for GPS computations). */
-export const OMEGA_EARTH = 7.292_115_146_7e-5;
+const OMEGA_EARTH = 7.292_115_146_7e-5;
 /** Equatorial radius (semi-major axis) of the WGS 84 ellipsoid, m: defining parameter. */
 export const R_EARTH = 6_378_137;
 /** L_G = 1 − d(TT)/d(TCG): IAU 2000 Resolution B1.9 (defining, exact). */
-export const L_G = 6.969_290_134e-10;
+const L_G = 6.969_290_134e-10;
 /** Geoid potential W₀ = L_G c², m²/s² (IERS Conventions (2010) §1.1: 62 636 856.0 m²/s²). */
-export const W_0 = L_G * C * C;
+const W_0 = L_G * C * C;
 /** Heliocentric gravitational constant GM of the Sun, TDB-compatible, m³/s²: IERS Conventions (2010) table 1.1 (IAU 2009 system), u = 1e10 m³/s². */
-export const GM_SUN = 1.327_124_400_41e20;
+const GM_SUN = 1.327_124_400_41e20;
 
 const SI_2019 = 'exact by definition (SI Brochure, 9th edition, 2019)';
 

@@ -37,5 +37,3 @@ export const evaluateRequestSchema = z.object({
         ctx.addIssue({ code: 'custom', path: [index, 'source'], message });
     }),
 });
-
-export type EvaluateRequestBody = z.infer<typeof evaluateRequestSchema>;

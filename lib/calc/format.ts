@@ -49,7 +49,7 @@ interface NumberParts {
  * a count, a charge number, within 4 ulp of an integer below 2⁵³) is written without a fraction, as
  * it is exact. `trailingZeros: false` drops them (axis tick labels).
  */
-export function numberParts(x: number, sig: number, trailingZeros = true): NumberParts {
+function numberParts(x: number, sig: number, trailingZeros = true): NumberParts {
   const negative = x < 0 || Object.is(x, -0);
   const a = Math.abs(x);
   if (a === 0) return { negative: false, integer: '0', fraction: '', exponent: null };
@@ -218,7 +218,7 @@ export function quantityParts(
 const AUTOMATIC_PREFIXES = new Set(['a', 'f', 'p', 'n', 'u', 'm', '', 'k', 'M', 'G', 'T', 'P', 'E']);
 const LARGEST_PREFIX: Record<string, string> = { m: 'k', s: '', g: 'k' };
 const PREFIX_ORDER = ['a', 'f', 'p', 'n', 'u', 'm', '', 'k', 'M', 'G', 'T', 'P', 'E'];
-export function prefixInUse(unitName: string, prefix: string): boolean {
+function prefixInUse(unitName: string, prefix: string): boolean {
   if (!AUTOMATIC_PREFIXES.has(prefix)) return false;
   const cap = LARGEST_PREFIX[unitName];
   return cap === undefined || PREFIX_ORDER.indexOf(prefix) <= PREFIX_ORDER.indexOf(cap);

@@ -75,7 +75,7 @@ const RETURN_UNITS: Record<
   'interaction-constant': 'V^-1 m^-1',
 };
 
-export class ArgumentError extends Error {
+class ArgumentError extends Error {
   constructor(message: string) {
     super(message);
     this.name = 'ArgumentError';

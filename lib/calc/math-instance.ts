@@ -24,23 +24,22 @@ export interface EngineMath {
  * Physical constants that mathjs carries at CODATA 2018 values, corrected to CODATA 2022 (masses)
  * or to their SI 2019 exact values. Each entry: mathjs name, value, unit, source.
  */
-export const MATHJS_CONSTANT_CORRECTIONS: ReadonlyArray<{ name: string; value: number; unit: string; source: string }> =
-  [
-    { name: 'electronMass', value: M_E, unit: 'kg', source: 'CODATA 2022' },
-    { name: 'protonMass', value: M_P, unit: 'kg', source: 'CODATA 2022' },
-    { name: 'neutronMass', value: M_N, unit: 'kg', source: 'CODATA 2022' },
-    { name: 'atomicMass', value: M_U, unit: 'kg', source: 'CODATA 2022' },
-    // CODATA 2022: ε0 = 8.854 187 8188(14) e-12 F/m; μ0 = 1.256 637 061 27(20) e-6 N/A²; α = 7.297 352 5643(11) e-3
-    { name: 'electricConstant', value: 8.8541878188e-12, unit: 'F/m', source: 'CODATA 2022' },
-    { name: 'magneticConstant', value: 1.25663706127e-6, unit: 'N/A^2', source: 'CODATA 2022' },
-    { name: 'fineStructure', value: 7.2973525643e-3, unit: '', source: 'CODATA 2022' },
-  ];
+const MATHJS_CONSTANT_CORRECTIONS: ReadonlyArray<{ name: string; value: number; unit: string; source: string }> = [
+  { name: 'electronMass', value: M_E, unit: 'kg', source: 'CODATA 2022' },
+  { name: 'protonMass', value: M_P, unit: 'kg', source: 'CODATA 2022' },
+  { name: 'neutronMass', value: M_N, unit: 'kg', source: 'CODATA 2022' },
+  { name: 'atomicMass', value: M_U, unit: 'kg', source: 'CODATA 2022' },
+  // CODATA 2022: ε0 = 8.854 187 8188(14) e-12 F/m; μ0 = 1.256 637 061 27(20) e-6 N/A²; α = 7.297 352 5643(11) e-3
+  { name: 'electricConstant', value: 8.8541878188e-12, unit: 'F/m', source: 'CODATA 2022' },
+  { name: 'magneticConstant', value: 1.25663706127e-6, unit: 'N/A^2', source: 'CODATA 2022' },
+  { name: 'fineStructure', value: 7.2973525643e-3, unit: '', source: 'CODATA 2022' },
+];
 
 /**
  * Units whose mathjs definition is not at the current value, and units the trade needs that
  * mathjs lacks. Values in SI base or derived units.
  */
-export const UNIT_CORRECTIONS: ReadonlyArray<{ name: string; value: number; unit: string; source: string }> = [
+const UNIT_CORRECTIONS: ReadonlyArray<{ name: string; value: number; unit: string; source: string }> = [
   // mathjs 15 builds the electronvolt from e = 1.602176565e-19 C (CODATA 2010).
   {
     name: 'eV',
@@ -58,7 +57,7 @@ export const UNIT_CORRECTIONS: ReadonlyArray<{ name: string; value: number; unit
   },
 ];
 
-export const NEW_UNITS: ReadonlyArray<{
+const NEW_UNITS: ReadonlyArray<{
   name: string;
   definition: string;
   aliases?: string[];
@@ -111,7 +110,7 @@ export const NEW_UNITS: ReadonlyArray<{
 const UNIT_POSITION_ONLY = new Set(['c']);
 
 /** Functions sheet code must never reach (mathjs security documentation, and more). */
-export const DISABLED_FUNCTIONS = [
+const DISABLED_FUNCTIONS = [
   'import',
   'createUnit',
   'reviver',

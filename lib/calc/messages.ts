@@ -59,7 +59,7 @@ export function isInternalMessage(message: string): boolean {
 }
 
 /** A formula as written (outer parentheses removed, unit placeholders back to their units). */
-export function sourceOf(node: MathNode): string {
+function sourceOf(node: MathNode): string {
   let n = node as Node;
   while (n.type === 'ParenthesisNode') n = n.content!;
   return n.toString().replace(/__u_[0-9a-f]+/g, (p) => unitOfPlaceholder(p) ?? p);

@@ -3,7 +3,7 @@
 // `γ`, `β`, `Δp`, `θ_1` (mathjs reads U+0370–U+03FF as letters).
 
 /** Greek letters a name may hold: Α–Ω, α–ω and the variants ϑ, ϕ, ϵ. */
-export const GREEK_LETTERS = '\\u0391-\\u03A1\\u03A3-\\u03A9\\u03B1-\\u03C9\\u03D1\\u03D5\\u03F5';
+const GREEK_LETTERS = '\\u0391-\\u03A1\\u03A3-\\u03A9\\u03B1-\\u03C9\\u03D1\\u03D5\\u03F5';
 /** A character that may start a name (a Latin or Greek letter). */
 export const NAME_START = `A-Za-z${GREEK_LETTERS}`;
 /** A character that may continue a name. */

@@ -11,10 +11,8 @@
 import { REFUSED_NAMES, type EngineMath } from './math-instance';
 import { NAME } from './name-syntax';
 
-export { NAME } from './name-syntax';
-
 /** Names the engine reads as statement forms or markers of their own: never a sheet's quantity. */
-export const STATEMENT_NAMES: ReadonlySet<string> = new Set([
+const STATEMENT_NAMES: ReadonlySet<string> = new Set([
   'uncertain',
   'correlation',
   'sweep',
@@ -39,9 +37,4 @@ export function checkDefinitionName(name: string, em: EngineMath): string | null
     return `\`${name}\` reads as the number ${lookalike} and cannot be redefined; write \`${lookalike}\` for the number, or choose another name`;
   if (STATEMENT_NAMES.has(name)) return `\`${name}\` is a statement form of its own and cannot be redefined`;
   return null;
-}
-
-/** True when a sheet's definition of `name` hides a built-in function of that name. */
-export function hidesBuiltinFunction(name: string, em: EngineMath): boolean {
-  return em.isFunctionName(name) && checkDefinitionName(name, em) === null;
 }

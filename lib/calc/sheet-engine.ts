@@ -152,7 +152,7 @@ export interface SheetEngine {
   clearCache(): void;
 }
 
-export interface EvaluateHooks {
+interface EvaluateHooks {
   /** Called before a cell is evaluated (not for cache hits); the sandbox uses it to know which cell runs. */
   onCellStart?: (index: number) => void;
   /** Cells not to evaluate, with the reason (set by the sandbox after a cell exceeded a limit). */

@@ -45,8 +45,8 @@ class OverlayScope extends Map<string, unknown> {
 }
 
 /** Monte Carlo trials per result; fixed, with a fixed seed, so that an evaluation is reproducible. */
-export const MONTE_CARLO_TRIALS = 10_000;
-export const MONTE_CARLO_SEED = 20_081_231;
+const MONTE_CARLO_TRIALS = 10_000;
+const MONTE_CARLO_SEED = 20_081_231;
 /**
  * Monte Carlo propagations per sheet evaluation (each 10 000 runs of its model). Counted in sheet
  * order, cached cells included, so the same sheet always gets the same ones.
@@ -103,7 +103,7 @@ export function siOf(math: MathJsInstance, v: unknown): number | null {
 }
 
 /** A value like `template` with the SI number `si`. */
-export function withSi(template: unknown, si: number): unknown {
+function withSi(template: unknown, si: number): unknown {
   if (typeof template === 'number') return si;
   const u = (template as Unit).clone();
   (u as unknown as { value: number }).value = si;
@@ -189,7 +189,7 @@ function displayUnitOf(math: MathJsInstance, v: unknown): DisplayUnit {
 }
 
 /** "value ± U" with the value rounded to the last digit of U (two significant digits, JCGM 100 7.2.6). */
-export function measuredText(y: number, U: number, unit: { text: string; tex: string }): { text: string; tex: string } {
+function measuredText(y: number, U: number, unit: { text: string; tex: string }): { text: string; tex: string } {
   const { U: Ur, lastDigitExponent: e } = roundExpanded(U);
   const scale =
     Math.abs(y) >= 1e6 || (Math.abs(y) < 1e-3 && Math.abs(Ur) < 1e-3) || e < -9

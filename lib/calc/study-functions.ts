@@ -7,7 +7,7 @@ import type { MathJsInstance, Unit } from 'mathjs';
 import type { LibraryBinding } from './math-instance';
 
 /** Longest list `steps` and `points` make: a sweep or a plot evaluates its model once per value. */
-export const MAX_STUDY_VALUES = 2000;
+const MAX_STUDY_VALUES = 2000;
 
 export const STUDY_STATEMENTS = ['sweep', 'plot', 'spacetime'] as const;
 export type StudyStatement = (typeof STUDY_STATEMENTS)[number];

@@ -17,7 +17,7 @@ export function standardUncertaintyText(u: UncertaintyResult): string {
 }
 
 /** A share of the combined variance: "72.4 %"; "< 0.1 %" for the negligible. */
-export function shareText(share: number): string {
+function shareText(share: number): string {
   if (!Number.isFinite(share)) return '—';
   const pct = share * 100;
   if (pct > 0 && pct < 0.05) return '< 0.1 %';

@@ -17,7 +17,7 @@
 // Math.log with its own port of fdlibm, not the platform's libm), so a seed gives the same draws on
 // every machine and an issued sheet's Monte Carlo figures can be reproduced exactly.
 
-export type Distribution = 'normal' | 'rectangular';
+type Distribution = 'normal' | 'rectangular';
 
 /** value and standard uncertainty u (for 'rectangular', the half-width is u·√3). */
 export interface UncertainInput {
@@ -99,7 +99,7 @@ export class UncertaintyDomainError extends Error {
  * GUM [59.9, 140.1], true [64, 144]); at 0.1 % the shift is about 5 % of u_c (x = 20: [320, 480] against
  * [324, 484]), where the validation itself starts to fail, and at 0.05 % (x = 30) it passes.
  */
-export const NON_LINEAR_THRESHOLD = 1e-3;
+const NON_LINEAR_THRESHOLD = 1e-3;
 
 const EPS = Number.EPSILON;
 const SQRT3 = Math.sqrt(3);

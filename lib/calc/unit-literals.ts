@@ -22,7 +22,7 @@ import { NAME_CHAR, NAME_START } from './name-syntax';
 export const UNIT_PLACEHOLDER_PREFIX = '__u_';
 
 /** Units that are units after a number only when the sheet does not define the name. */
-export const BARE_NAME_UNITS: ReadonlySet<string> = new Set(['u', 'a']);
+const BARE_NAME_UNITS: ReadonlySet<string> = new Set(['u', 'a']);
 
 /** An electronvolt unit (eV, keV, MeV, GeV, TeV …) that `/c` and `/c^2` may follow. */
 const EV_UNIT = /^(?:[yzafpnumkMGTPEZY]|da|h)?eV$/;
@@ -48,7 +48,7 @@ const WORD_CHAR = new RegExp(`[${NAME_CHAR}.]`);
 const POWER = /\^\s*(?:-?\d+(?:\.\d+)?|\(\s*-?\d+(?:\.\d+)?\s*\))/y;
 const NUMBER = /(?:\d+\.?\d*|\.\d+)(?:[eE][+-]?\d+)?/y;
 
-export function placeholderFor(unit: string): string {
+function placeholderFor(unit: string): string {
   return `${UNIT_PLACEHOLDER_PREFIX}${Buffer.from(unit, 'utf8').toString('hex')}`;
 }
 

@@ -71,20 +71,11 @@ import { transverseCoordinateAcceleration } from './transverse-coordinate-accele
 import type { CalcFunction } from './types';
 
 export { DomainError } from './types';
-export type {
-  CalcFunction,
-  CalcFunctionDoc,
-  KernelArgument,
-  ParamDoc,
-  ParamKind,
-  PreciseSpeed,
-  ReturnKind,
-} from './types';
+export type { CalcFunction, ParamKind } from './types';
 export {
   aberrationAngle,
   addVelocities,
   betaGamma,
-  betaGammaFromMomentum,
   clockRateOffset,
   decayLength,
   cyclotronFrequency,
@@ -112,7 +103,6 @@ export {
   shapiroDelay,
   dopplerFactor,
   electronWavelength,
-  gammaFromKinetic,
   gammaMinusOne,
   hyperbolicDistance,
   hyperbolicProperTime,
@@ -130,8 +120,6 @@ export {
   transitionGamma,
   invariantMass,
   kineticEnergy,
-  kineticFromMomentum,
-  kineticFromRigidity,
   lengthContraction,
   lorentzBoost,
   lorentzFactor,
@@ -142,7 +130,6 @@ export {
   rindlerHorizonDistance,
   rocketDeltaV,
   speedFromKinetic,
-  speedFromMomentum,
   sqrtSCollider,
   sqrtSFixedTarget,
   synchrotronLossPerTurn,

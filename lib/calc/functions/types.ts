@@ -79,7 +79,7 @@ export interface ParamDoc {
   description: string;
 }
 
-export interface CalcFunctionDoc {
+interface CalcFunctionDoc {
   /** What it computes, one sentence. */
   summary: string;
   /** The formula in TeX, as the engine evaluates it (stable form), and the textbook form if different. */

@@ -54,8 +54,8 @@ export interface SandboxOptions {
   rememberLimitMs?: number;
 }
 
-export const DEFAULT_MAX_STATEMENTS = 20_000;
-export const DEFAULT_MAX_RESULT_BYTES = 32 * 1024 * 1024;
+const DEFAULT_MAX_STATEMENTS = 20_000;
+const DEFAULT_MAX_RESULT_BYTES = 32 * 1024 * 1024;
 
 /**
  * Worker threads for this machine: one per CPU the process may use (os.availableParallelism), at
@@ -528,7 +528,7 @@ export class SandboxedEvaluator {
 }
 
 /** Statements of a request: the non-blank lines of its calculation cells that are not only a comment. */
-export function countStatements(cells: CellInput[]): number {
+function countStatements(cells: CellInput[]): number {
   let n = 0;
   for (const c of cells) {
     if (c.kind !== 'calc') continue;

@@ -61,7 +61,7 @@ export function withArgumentEcho<T>(current: ArgumentEcho, run: () => T): T {
 }
 
 /** The argument `name` as written, when `x` is that argument's own value. */
-export function asWritten(name: string, x: number): string | null {
+function asWritten(name: string, x: number): string | null {
   if (!echo) return null;
   const index = echo.names.indexOf(name);
   if (index < 0 || echo.values[index] !== x) return null;

@@ -13,7 +13,7 @@ import { add, div, type DD, dd, fastTwoSum, mul, mulNum, neg, scale, sqrt, sub, 
 /** ln 2 to 106 bits (QD library constant). */
 const LN2: DD = [6.931471805599452862e-1, 2.319046813846299558e-17];
 /** π/2 to 106 bits (QD library constant). */
-export const HALF_PI: DD = [1.570796326794896558, 6.123233995736766036e-17];
+const HALF_PI: DD = [1.570796326794896558, 6.123233995736766036e-17];
 
 const ONE: DD = [1, 0];
 const TWO: DD = [2, 0];

@@ -47,7 +47,7 @@ function finiteX(m: DistanceMotion): boolean {
 }
 
 /** βγ = w = √(x(2 + x)), as x·√(1 + 2/x) above x = 1 (no overflow before x itself overflows). */
-export function betaGammaOf(m: DistanceMotion): DD {
+function betaGammaOf(m: DistanceMotion): DD {
   const x = m.x;
   if (x[0] < 1) return sqrt(mul(x, add(TWO, x)));
   return mul(x, sqrt(add(ONE, div(TWO, x))));

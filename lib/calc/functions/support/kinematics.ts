@@ -30,24 +30,14 @@ export const C_DD: DD = [C, 0];
 export const ONE: DD = [1, 0];
 
 /** 1 − β², exact to about 2^-106 relative. */
-export function oneMinusBetaSquared(beta: number): DD {
+function oneMinusBetaSquared(beta: number): DD {
   const [p, e] = twoProd(beta, beta);
   return sub(twoSum(1, -p), [e, 0]);
 }
 
 /** s = 1/γ = √(1 − β²). */
-export function inverseGamma(beta: number): DD {
+function inverseGamma(beta: number): DD {
   return sqrt(oneMinusBetaSquared(beta));
-}
-
-export function gamma(beta: number): DD {
-  return div(ONE, inverseGamma(beta));
-}
-
-/** γ − 1 = β² / (s(1 + s)), s = 1/γ: no cancellation at small β. */
-export function gammaMinusOne(beta: number): DD {
-  const s = inverseGamma(beta);
-  return div(twoProd(beta, beta), mul(s, add(ONE, s)));
 }
 
 /** Rest energy mc² in joules. */
@@ -61,7 +51,7 @@ export function decimalConstant(value: number): DD {
 }
 
 /** β = √(x(x + 2)) / (x + 1) for the ratio x = T/(mc²) ≥ 0, as a double-double. */
-export function betaFromKineticRatio(x: DD): DD {
+function betaFromKineticRatio(x: DD): DD {
   if (x[0] > 2 ** 500) return ONE;
   return div(sqrt(mul(x, add(x, dd(2)))), add(x, ONE));
 }

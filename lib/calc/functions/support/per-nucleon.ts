@@ -8,7 +8,7 @@ import { requireFinite, requireNonNegative, requirePositive } from './domain';
 import { type DD, dd, div, twoProd } from './double-double';
 
 /** Largest mass number accepted (no known nuclide reaches 300). */
-export const A_MAX = 300;
+const A_MAX = 300;
 
 /** A: the mass number, an integer 1 … 300. */
 export function requireMassNumber(fn: string, A: number): number {
