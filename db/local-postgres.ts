@@ -488,9 +488,9 @@ export class LocalCluster {
 }
 
 // The clusters' ports. db/ may not import lib/ (the walls), so it reads its own variables; lib/config.ts validates them at start.
-export const DEFAULT_DEV_PG_PORT = 54329;
+const DEFAULT_DEV_PG_PORT = 54329;
 export const DEFAULT_TEST_PG_PORT = 54339;
-export const DEFAULT_BENCH_PG_PORT = 54369;
+const DEFAULT_BENCH_PG_PORT = 54369;
 
 export function devClusterPort(): number {
   return Number(process.env.WORLDSHEET_PG_PORT ?? DEFAULT_DEV_PG_PORT);

@@ -4,7 +4,7 @@ import path from 'node:path';
 import { fileURLToPath } from 'node:url';
 import { Migrator, type Kysely, type Migration, type MigrationProvider, type MigrationResultSet } from 'kysely';
 
-export const migrationFolder = path.join(path.dirname(fileURLToPath(import.meta.url)), '..', 'migrations');
+const migrationFolder = path.join(path.dirname(fileURLToPath(import.meta.url)), '..', 'migrations');
 
 /**
  * Kysely's FileMigrationProvider, with the import done here rather than inside node_modules: the
@@ -23,7 +23,7 @@ class MigrationFolderProvider implements MigrationProvider {
   }
 }
 
-export function createMigrator(db: Kysely<any>): Migrator {
+function createMigrator(db: Kysely<any>): Migrator {
   return new Migrator({ db, provider: new MigrationFolderProvider() });
 }
 

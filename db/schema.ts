@@ -1,6 +1,6 @@
 // Table types for Kysely, following its getting-started rules: one interface per table,
 // Generated<> for columns the database fills in, nullable columns as `T | null`.
-import type { ColumnType, Generated, Insertable, JSONColumnType, Selectable } from 'kysely';
+import type { ColumnType, Generated } from 'kysely';
 
 type Timestamp = ColumnType<Date, Date | string | undefined, never>;
 /** A column the database fills in and that nothing may ever write. */
@@ -9,9 +9,9 @@ type Assigned<T> = ColumnType<T, never, never>;
 type Once<T> = ColumnType<T, T, never>;
 
 export type ProjectRole = 'originator' | 'checker' | 'approver' | 'controller' | 'viewer';
-export type RevisionScheme = 'letters' | 'numbers';
+type RevisionScheme = 'letters' | 'numbers';
 
-export interface UsersTable {
+interface UsersTable {
   id: Generated<string>;
   email: string;
   display_name: string;
@@ -28,7 +28,7 @@ export interface UsersTable {
 
 export type SignInMethod = 'password' | 'link' | 'oidc';
 
-export interface SessionsTable {
+interface SessionsTable {
   id: Generated<string>;
   user_id: string;
   method: SignInMethod;
@@ -40,7 +40,7 @@ export interface SessionsTable {
   user_agent: string | null;
 }
 
-export interface SignInAttemptsTable {
+interface SignInAttemptsTable {
   id: Generated<string>;
   email: string;
   ip: string;
@@ -51,7 +51,7 @@ export interface SignInAttemptsTable {
 
 export type EmailTokenPurpose = 'sign-in' | 'password-reset' | 'invitation' | 'unlock';
 
-export interface EmailTokensTable {
+interface EmailTokensTable {
   id: Generated<string>;
   user_id: string;
   purpose: EmailTokenPurpose;
@@ -61,7 +61,7 @@ export interface EmailTokensTable {
   used_at: Date | null;
 }
 
-export interface ApiTokensTable {
+interface ApiTokensTable {
   id: Generated<string>;
   user_id: string;
   name: string;
@@ -77,7 +77,7 @@ export interface ApiTokensTable {
 
 export type ApiTokenScope = 'read' | 'read-write';
 
-export interface ProjectsTable {
+interface ProjectsTable {
   id: Generated<string>;
   code: string;
   name: string;
@@ -87,7 +87,7 @@ export interface ProjectsTable {
   created_at: Timestamp;
 }
 
-export interface ProjectMembersTable {
+interface ProjectMembersTable {
   project_id: string;
   user_id: string;
   role: ProjectRole;
@@ -95,7 +95,7 @@ export interface ProjectMembersTable {
   granted_at: Timestamp;
 }
 
-export interface SheetsTable {
+interface SheetsTable {
   id: Generated<string>;
   project_id: string;
   number: number;
@@ -114,7 +114,7 @@ export interface SheetsTable {
   started_from_version_id: ColumnType<string | null, string | null | undefined, never>;
 }
 
-export interface VersionsTable {
+interface VersionsTable {
   id: Generated<string>;
   sheet_id: Once<string>;
   number: Once<number>;
@@ -129,7 +129,7 @@ export interface VersionsTable {
   created_at: Timestamp;
 }
 
-export interface AttachmentsTable {
+interface AttachmentsTable {
   id: Generated<string>;
   sheet_id: Once<string>;
   project_id: Once<string>;
@@ -148,7 +148,7 @@ export type CheckState = 'in_check' | 'returned' | 'checked' | 'approved' | 'app
 export type VerificationMethod = 'design_review' | 'alternate_calculation' | 'qualification_test';
 export type SignatureMeaning = 'prepared' | 'checked' | 'approved' | 'issued';
 
-export interface ChecksTable {
+interface ChecksTable {
   id: Generated<string>;
   sheet_id: Once<string>;
   project_id: Once<string>;
@@ -176,7 +176,7 @@ export interface ChecksTable {
   closed_at: ColumnType<Date | null, Date | string | null | undefined, Date | string | null>;
 }
 
-export interface SignaturesTable {
+interface SignaturesTable {
   id: Generated<string>;
   sheet_id: Once<string>;
   version_number: Once<number>;
@@ -188,7 +188,7 @@ export interface SignaturesTable {
   signed_at: Timestamp;
 }
 
-export interface CheckCommentsTable {
+interface CheckCommentsTable {
   id: Generated<string>;
   check_id: Once<string>;
   thread_id: Once<string | null>;
@@ -203,7 +203,7 @@ export interface CheckCommentsTable {
 
 export type RevisionStatus = 'current' | 'superseded' | 'withdrawn';
 
-export interface IssueJobsTable {
+interface IssueJobsTable {
   id: Generated<string>;
   sheet_id: Once<string>;
   project_id: Once<string>;
@@ -224,7 +224,7 @@ export interface IssueJobsTable {
   finished_at: ColumnType<Date | null, Date | string | null | undefined, Date | string | null>;
 }
 
-export interface RevisionsTable {
+interface RevisionsTable {
   id: Generated<string>;
   sheet_id: Once<string>;
   project_id: Once<string>;
@@ -251,13 +251,13 @@ export interface RevisionsTable {
 }
 
 /** A version's citation of a named result of an issued revision (immutable, like the version). */
-export interface VersionReferencesTable {
+interface VersionReferencesTable {
   version_id: Once<string>;
   revision_id: Once<string>;
   name: Once<string>;
 }
 
-export interface AuditEventsTable {
+interface AuditEventsTable {
   id: Assigned<string>;
   occurred_at: Assigned<Date>;
   actor_id: Once<string | null>;
@@ -275,7 +275,7 @@ export interface AuditEventsTable {
 }
 
 /** A Content-Security-Policy violation report a browser sent (lib/http/csp-reports.ts). */
-export interface CspReportsTable {
+interface CspReportsTable {
   id: Generated<string>;
   received_at: Generated<Date>;
   ip: string;
@@ -287,7 +287,7 @@ export interface CspReportsTable {
 }
 
 /** Verification requests per client address in the current fixed window (lib/issue/verify-rate-limit.ts). */
-export interface VerifyRateLimitsTable {
+interface VerifyRateLimitsTable {
   address: string;
   window_started_at: Generated<Date>;
   requests: number;
@@ -314,18 +314,3 @@ export interface Database {
   verify_rate_limits: VerifyRateLimitsTable;
   csp_reports: CspReportsTable;
 }
-
-export type User = Selectable<UsersTable>;
-export type NewUser = Insertable<UsersTable>;
-export type Project = Selectable<ProjectsTable>;
-export type NewProject = Insertable<ProjectsTable>;
-export type ProjectMember = Selectable<ProjectMembersTable>;
-export type Sheet = Selectable<SheetsTable>;
-export type NewSheet = Insertable<SheetsTable>;
-export type Version = Selectable<VersionsTable>;
-export type NewVersion = Insertable<VersionsTable>;
-export type AuditEvent = Selectable<AuditEventsTable>;
-export type Session = Selectable<SessionsTable>;
-export type ApiToken = Selectable<ApiTokensTable>;
-export type NewAuditEvent = Insertable<AuditEventsTable>;
-export type { JSONColumnType };
