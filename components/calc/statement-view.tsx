@@ -54,7 +54,7 @@ function WarningText({ text }: { text: string }) {
  * The physics lint's warnings beside a statement (lib/calc/lint.ts): in the caution colours, each
  * introduced by the word "Warning" (not by colour alone), and distinct from an error's alert.
  */
-export function StatementWarnings({ line, warnings }: { line: number; warnings: readonly string[] | undefined }) {
+function StatementWarnings({ line, warnings }: { line: number; warnings: readonly string[] | undefined }) {
   if (!warnings?.length) return null;
   return (
     <ul aria-label={`Warnings, line ${line}`} className="space-y-0.5">

@@ -13,7 +13,7 @@ const STATUS_TONE: Record<CellStatus, string> = {
 };
 
 /** `+3.61 %`, `−0.120 %`: the relative change of a result, signed, to three significant figures. */
-export function formatRelativeChange(x: number): string {
+function formatRelativeChange(x: number): string {
   if (x === 0) return '0 %';
   return `${x > 0 ? '+' : '\u2212'}${Math.abs(x * 100).toPrecision(3)} %`;
 }

@@ -6,7 +6,7 @@ import { Table, Td, Th } from '@/components/ui/table';
 
 type Ref = VersionContent['attachments'][number];
 
-export function formatBytes(n: number): string {
+function formatBytes(n: number): string {
   if (n < 1024) return `${n} B`;
   if (n < 1024 * 1024) return `${(n / 1024).toFixed(1)} KiB`;
   return `${(n / (1024 * 1024)).toFixed(1)} MiB`;

@@ -37,7 +37,7 @@ export interface CalcEditorProps {
   className?: string;
 }
 
-export interface LineError {
+interface LineError {
   line: number;
   message: string;
 }

@@ -376,9 +376,9 @@ export function isUnitName(name: string): boolean {
   return !name.includes('_') && unitNames.has(name);
 }
 
-export const LIBRARY_FUNCTION_NAMES: ReadonlySet<string> = new Set(LIBRARY.map((f) => f.name));
+const LIBRARY_FUNCTION_NAMES: ReadonlySet<string> = new Set(LIBRARY.map((f) => f.name));
 /** The product's constants and mathjs's named values that a sheet cannot redefine. */
-export const CONSTANT_NAMES: ReadonlySet<string> = new Set([
+const CONSTANT_NAMES: ReadonlySet<string> = new Set([
   ...CONSTANTS.map((k) => k.name),
   'pi',
   'PI',
@@ -394,7 +394,7 @@ export const CONSTANT_NAMES: ReadonlySet<string> = new Set([
   'tau',
 ]);
 /** Words that are operators in mathjs (`to` and `in` convert units). */
-export const KEYWORDS: ReadonlySet<string> = new Set(['to', 'in', 'and', 'or', 'not', 'xor', 'mod']);
+const KEYWORDS: ReadonlySet<string> = new Set(['to', 'in', 'and', 'or', 'not', 'xor', 'mod']);
 
 // Names hold Latin and Greek letters (`γ`, `Δp`, `θ_1`; lib/calc/name-syntax.ts), and `ħ` is a constant.
 const IDENT = new RegExp(`[${NAME_START}ħ_][${NAME_CHAR}]*`, 'y');
@@ -405,7 +405,7 @@ const COMPARISON = /^(?:<=|>=|==|!=|<|>|≤|≥|≠)/;
 const OPERATOR = /^(?:\+\/-|±|\.\*|\.\/|\.\^|[-+*/^%!=:'?|&~])/;
 
 /** The end of a unit expression starting at `start` (the rule of unit-literals.ts), or `start`. */
-export function unitExpressionEnd(
+function unitExpressionEnd(
   line: string,
   start: number,
   spaced: boolean,
@@ -443,7 +443,7 @@ export interface CalcLanguageOptions {
 }
 
 /** The tokenizer, as a CodeMirror StreamParser. Token names are CalcTokenKind values. */
-export function calcStreamParser(options: CalcLanguageOptions = {}): StreamParser<CalcTokenizerState> {
+function calcStreamParser(options: CalcLanguageOptions = {}): StreamParser<CalcTokenizerState> {
   const isUnit = options.isUnit ?? isUnitName;
   return {
     name: 'worldsheet-calc',

@@ -30,7 +30,7 @@ const COLUMN_WORD = {
 } as const;
 
 /** The row/column diff of a CSV data table, as a table of the rows that changed. */
-export function TableDiffView({ name, diff, first }: { name: string; diff: TableDiff; first: boolean }) {
+function TableDiffView({ name, diff, first }: { name: string; diff: TableDiff; first: boolean }) {
   const unit = (u: string | null) => (u ? ` [${u}]` : '');
   const columnNotes = diff.columns.filter((c) => c.status !== 'unchanged');
   const n = diff.rowCounts;
