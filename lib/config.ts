@@ -75,7 +75,7 @@ const flag = z.enum(['0', '1'], { error: 'must be 1 or 0' }).transform((s) => s 
 // Each one: its type (with its default, or optional when unset has a meaning of its own). The
 // README's settings table has one row per key, in any order (tests/ops/config.test.ts checks both ways).
 
-export const SETTINGS = {
+const SETTINGS = {
   NODE_ENV: z
     .enum(['development', 'production', 'test'], { error: 'must be development, production or test' })
     .default('development'),
@@ -215,7 +215,7 @@ export function defaultNodeEnv(value: 'production' | 'development'): void {
 export const MIN_SECRET_LENGTH = 32;
 
 /** A deployment: the production build outside the demo installation that `npm start` runs without DATABASE_URL. */
-export function isProductionDeployment(settings: Config): boolean {
+function isProductionDeployment(settings: Config): boolean {
   return settings.NODE_ENV === 'production' && !settings.WORLDSHEET_DEMO;
 }
 
@@ -228,7 +228,7 @@ function readableFile(file: string): boolean {
 }
 
 /** What a deployment lacks to start: one message per missing or unusable setting, naming it. */
-export function productionProblems(settings: Config): string[] {
+function productionProblems(settings: Config): string[] {
   if (!isProductionDeployment(settings)) return [];
   const problems: string[] = [];
   if (!settings.DATABASE_URL)

@@ -18,7 +18,7 @@ import type { attachmentRefSchema } from '@/lib/sheets/content';
 import { parseInputTable, tableNameFor, TableError } from './csv-table';
 import { sanitizeFileName } from './file-name';
 import { checkProjectStorageQuota } from './quota';
-import { attachmentSchema, tableSummarySchema, type AttachmentInfo } from './attachment-schema';
+import { attachmentSchema, type AttachmentInfo } from './attachment-schema';
 import {
   ACCEPTED_DESCRIPTION,
   ATTACHMENT_KINDS,
@@ -32,7 +32,7 @@ export type AttachmentRef = z.infer<typeof attachmentRefSchema>;
 
 // The response schemas live in a module without server imports (lib/attachments/attachment-schema.ts), so
 // client components can parse with them.
-export { attachmentSchema, tableSummarySchema, type AttachmentInfo };
+export { attachmentSchema, type AttachmentInfo };
 
 interface StoredTable {
   rows: number;
@@ -52,7 +52,7 @@ function checkUnit(unit: string): string | null {
 }
 
 /** Why a table name cannot be used in cells (it is a built-in name), or null. */
-export function tableNameProblem(name: string, fileName: string): string | null {
+function tableNameProblem(name: string, fileName: string): string | null {
   unitMath ??= createEngineMath([]);
   // A sheet's own definition may take a built-in function's name (lib/calc/names.ts), but a table is
   // named by its file, not written by the author: it never hides a function.

@@ -7,7 +7,7 @@ import { reserved } from './table-name';
 
 export { tableNameFor } from './table-name';
 
-export const TABLE_LIMITS = { maxRows: 10_000, maxColumns: 50 };
+const TABLE_LIMITS = { maxRows: 10_000, maxColumns: 50 };
 
 const IDENTIFIER = /^[A-Za-z][A-Za-z0-9_]*$/;
 /** Numbers as written in engineering data files: a point for decimals, optional exponent. */

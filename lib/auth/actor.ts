@@ -12,6 +12,3 @@ export interface Actor {
   /** For an API token: what it may do ('read': GET and HEAD only). Absent for sessions. */
   tokenScope?: ApiTokenScope;
 }
-
-/** The demo seed and other start-up work act as the system, with no session or token. */
-export const SYSTEM_ACTOR = null;

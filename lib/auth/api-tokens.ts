@@ -28,7 +28,7 @@ export const API_TOKEN_SETTINGS = {
   defaultDays: Math.min(config().WORLDSHEET_TOKEN_DEFAULT_DAYS, maxDays),
 } as const;
 
-export const API_TOKEN_SCOPES = ['read', 'read-write'] as const satisfies readonly ApiTokenScope[];
+const API_TOKEN_SCOPES = ['read', 'read-write'] as const satisfies readonly ApiTokenScope[];
 
 /** The body of POST /api/account/tokens. */
 export const apiTokenInputSchema = z.object({

@@ -32,7 +32,7 @@ type Db = Kysely<Database> | Transaction<Database>;
 export const LOCK_ACTIVE = sql<boolean>`(locked_at is not null and (lock_expires_at is null or lock_expires_at > now()))`;
 
 /** `2026-12-03 14:05 UTC`: the same on every machine. */
-export function formatUtcMinute(at: Date): string {
+function formatUtcMinute(at: Date): string {
   return `${at.toISOString().slice(0, 10)} ${at.toISOString().slice(11, 16)} UTC`;
 }
 

@@ -2,7 +2,7 @@ import { randomBytes } from 'node:crypto';
 import { hash, verify } from '@node-rs/argon2';
 
 /** At least 12 characters (NIST SP 800-63B §5.1.1.2 asks for at least 8; we ask for more). */
-export const MIN_PASSWORD_LENGTH = 12;
+const MIN_PASSWORD_LENGTH = 12;
 
 export function passwordProblem(password: string): string | null {
   if (password.length < MIN_PASSWORD_LENGTH) return `Use at least ${MIN_PASSWORD_LENGTH} characters.`;
@@ -40,7 +40,7 @@ let dummy: Promise<string> | null = null;
  * hash), so that a sign-in for an address without an account does the same hashing work as one with
  * an account and its time does not tell them apart.
  */
-export function dummyPasswordHash(): Promise<string> {
+function dummyPasswordHash(): Promise<string> {
   dummy ??= hash(randomBytes(24).toString('base64url'));
   return dummy;
 }

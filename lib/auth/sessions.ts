@@ -74,7 +74,7 @@ export async function resumeSession(db: Kysely<Database>, sessionId: string): Pr
 }
 
 /** Ends one session; its user's id when it was live, null when it had ended already. */
-export async function endSession(db: Kysely<Database>, sessionId: string, reason: string): Promise<string | null> {
+async function endSession(db: Kysely<Database>, sessionId: string, reason: string): Promise<string | null> {
   if (!/^[0-9a-f-]{36}$/.test(sessionId)) return null;
   const row = await db
     .updateTable('sessions')

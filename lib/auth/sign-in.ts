@@ -36,7 +36,7 @@ const DISABLED = 'This account is disabled. Ask an administrator.';
 const UNKNOWN_ADDRESS = 'unknown';
 
 /** Seconds an address must wait after its latest failure, having had `failures` in the window. */
-export function addressDelaySeconds(failures: number): number {
+function addressDelaySeconds(failures: number): number {
   if (failures < AUTH_SETTINGS.ipFreeFailures) return 0;
   return Math.min(2 ** (failures - AUTH_SETTINGS.ipFreeFailures), AUTH_SETTINGS.rateWindowMinutes * 60);
 }

@@ -49,7 +49,7 @@ export interface AlternateComparison {
 // ── The tolerance as the checker states it ──────────────────────────────────────────────────
 
 /** Largest tolerance accepted: 10 % is already a loose check (common practice). */
-export const TOLERANCE_MAX = 0.1;
+const TOLERANCE_MAX = 0.1;
 
 /**
  * A relative tolerance as written: a number ("1e-6", "0.000 001"), a percentage ("0.1 %"), or

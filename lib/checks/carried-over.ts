@@ -1,9 +1,9 @@
 // The mark on work carried over from the returned check of an earlier version (see carry-over.ts):
 // pure, so that client components read it too.
 
-export const CARRIED_FIELDS = ['verificationMethod', 'checkerNotes', 'alternateCells', 'tolerance'] as const;
+const CARRIED_FIELDS = ['verificationMethod', 'checkerNotes', 'alternateCells', 'tolerance'] as const;
 export type CarriedField = (typeof CARRIED_FIELDS)[number];
-export const CARRIED_FIELD_LABELS: Record<CarriedField, string> = {
+const CARRIED_FIELD_LABELS: Record<CarriedField, string> = {
   verificationMethod: 'verification method',
   checkerNotes: "checker's notes",
   alternateCells: 'alternate calculation',

@@ -73,7 +73,7 @@ export function threadRoots(db: Db, check: ThreadScope) {
 }
 
 /** A returned check stays open to replies until the sheet is submitted again. */
-export async function submittedAgain(db: Db, check: ThreadScope): Promise<boolean> {
+async function submittedAgain(db: Db, check: ThreadScope): Promise<boolean> {
   return (
     (await db
       .selectFrom('checks')
@@ -107,7 +107,7 @@ export async function refuse(
  * What the policy needs to know about a check beyond its row. `versionResults` spares reading the
  * version again when the caller has it (the tolerance is needed only when names are shared).
  */
-export async function policyFacts(db: Db, check: CheckRow, versionResults?: SheetResult | null): Promise<PolicyFacts> {
+async function policyFacts(db: Db, check: CheckRow, versionResults?: SheetResult | null): Promise<PolicyFacts> {
   const [who, checker, open, again] = await Promise.all([
     participants(db, check.sheet_id, check.base_version_number, check.version_number, {
       preparerId: check.submitted_by,

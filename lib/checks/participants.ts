@@ -55,7 +55,7 @@ export async function lastApprovedNumber(db: Db, sheetId: string): Promise<numbe
  * Everyone who saved a version after `after` (the last approved version): those saved after the
  * version under check count too (a newer version is the same change carried on).
  */
-export async function originatorsSince(db: Db, sheetId: string, after: number | null): Promise<Set<string>> {
+async function originatorsSince(db: Db, sheetId: string, after: number | null): Promise<Set<string>> {
   let q = db.selectFrom('versions').select('author_id').distinct().where('sheet_id', '=', sheetId);
   if (after !== null) q = q.where('number', '>', after);
   return new Set((await q.execute()).map((r) => r.author_id));

@@ -25,7 +25,7 @@ export const CHECK_ACTIONS = [
   'confirmCarriedOver',
   ...DECISIONS,
 ] as const;
-export type CheckAction = (typeof CHECK_ACTIONS)[number];
+type CheckAction = (typeof CHECK_ACTIONS)[number];
 
 /** Why an action is refused, as the server answers it. */
 export interface Denial {
@@ -123,7 +123,7 @@ function replyState(check: PolicyCheck, facts: PolicyFacts): Denial | null {
 }
 
 /** What signing as checked waits for, each as the server refuses it. */
-export function signWaitsFor(check: PolicyCheck, facts: PolicyFacts): Denial[] {
+function signWaitsFor(check: PolicyCheck, facts: PolicyFacts): Denial[] {
   const out: Denial[] = [];
   const n = facts.openThreads;
   if (n > 0)

@@ -15,7 +15,7 @@ export type RuleId =
   | 'approver-not-originator'
   | 'safety-approver-not-checker';
 
-export const RULES: Record<RuleId, string> = {
+const RULES: Record<RuleId, string> = {
   'checker-role': 'The checker must hold the checker role in the project.',
   'checker-not-preparer':
     'The checker must be someone other than the person who submits the version and signs it prepared.',

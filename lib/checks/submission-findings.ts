@@ -48,7 +48,7 @@ export interface DesignInputCheck {
 }
 
 /** The last value each name is defined with in the results (null: its statement has an error). */
-export function definedValues(results: SheetResult | null | undefined): Map<string, DisplayValue | null> {
+function definedValues(results: SheetResult | null | undefined): Map<string, DisplayValue | null> {
   const out = new Map<string, DisplayValue | null>();
   for (const cell of results?.cells ?? []) {
     for (const s of cell.statements) {

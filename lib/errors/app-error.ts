@@ -34,7 +34,7 @@ export const errorBodySchema = z.object({
     }),
   }),
 });
-export type ErrorBody = z.infer<typeof errorBodySchema>;
+type ErrorBody = z.infer<typeof errorBodySchema>;
 
 export class AppError extends Error {
   constructor(
@@ -110,7 +110,7 @@ export function unstorableTextPath(value: unknown, path = '', depth = 0): string
 const MALFORMED_VALUE_SQLSTATES = new Set(['22P02', '22003']);
 
 /** Whether `error` is PostgreSQL refusing a value of the wrong form or range. */
-export function isMalformedValueError(error: unknown): boolean {
+function isMalformedValueError(error: unknown): boolean {
   const code = error instanceof Error ? (error as { code?: unknown }).code : undefined;
   return typeof code === 'string' && MALFORMED_VALUE_SQLSTATES.has(code);
 }
@@ -122,7 +122,7 @@ export function isMalformedValueError(error: unknown): boolean {
 const RECORD_RULE_SQLSTATES = new Set(['WS001', 'WS002', 'WS003']);
 
 /** Whether `error` is one of the database's record rules refusing a change. */
-export function isRecordRuleError(error: unknown): boolean {
+function isRecordRuleError(error: unknown): boolean {
   const code = error instanceof Error ? (error as { code?: unknown }).code : undefined;
   return typeof code === 'string' && RECORD_RULE_SQLSTATES.has(code);
 }

@@ -4,7 +4,7 @@
 // limit in memory, whatever it sends.
 import { AppError } from '@/lib/errors/app-error';
 
-export function tooLargeMessage(maxBytes: number): string {
+function tooLargeMessage(maxBytes: number): string {
   return `The request body is larger than ${maxBytes} bytes.`;
 }
 

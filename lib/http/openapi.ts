@@ -39,12 +39,12 @@ import {
 import { APP_VERSION } from '@/lib/version';
 import * as res from './openapi-schemas';
 
-export type HttpMethod = 'GET' | 'POST' | 'PUT' | 'PATCH' | 'DELETE';
+type HttpMethod = 'GET' | 'POST' | 'PUT' | 'PATCH' | 'DELETE';
 
 /** Who may call: anyone, a browser session or an API token, or a browser session only. */
-export type Auth = 'none' | 'session or API token' | 'session';
+type Auth = 'none' | 'session or API token' | 'session';
 
-export type Tag =
+type Tag =
   | 'meta'
   | 'sign-in'
   | 'account'
@@ -57,9 +57,9 @@ export type Tag =
   | 'calculation';
 
 /** A body: a zod schema, or raw bytes of a media type. */
-export type BodySchema = ZodType | 'binary';
+type BodySchema = ZodType | 'binary';
 
-export interface ResponseSpec {
+interface ResponseSpec {
   description: string;
   /** Media type → body; none for an empty body. */
   content?: Record<string, BodySchema>;
@@ -1091,7 +1091,7 @@ const COMPONENTS: Record<string, ZodType> = { Error: errorBodySchema };
  * it. Response objects stay open (no `additionalProperties: false`): a field added to an answer later
  * must not break a client that validates answers.
  */
-export function jsonSchemaOf(schema: ZodType, io: 'input' | 'output'): Record<string, unknown> {
+function jsonSchemaOf(schema: ZodType, io: 'input' | 'output'): Record<string, unknown> {
   const { $schema: _dialect, ...rest } = z.toJSONSchema(schema, {
     target: 'draft-2020-12',
     io,

@@ -9,15 +9,12 @@ import { AppError } from '@/lib/errors/app-error';
 export const INT4_MAX = 2_147_483_647;
 
 /** A decimal integer from `min` to INT4_MAX written as digits only (no sign, exponent, spaces). */
-export const intParam = (min: number) =>
+const intParam = (min: number) =>
   z
     .string()
     .regex(/^\d{1,10}$/, 'digits only')
     .transform(Number)
     .pipe(z.number().int().min(min).max(INT4_MAX));
-
-/** An integer in a JSON body or a query that ends up in an int4 column: 1 to INT4_MAX. */
-export const positiveInt4 = () => z.number().int().positive().max(INT4_MAX);
 
 const uuid = z.uuid();
 /** A project is named by its id or by its code (the pages use the code). */

@@ -19,7 +19,7 @@ import { AppError, errorResponse, unstorableTextPath } from '@/lib/errors/app-er
 import { appUrl } from '@/lib/http/app-url';
 import { readJsonBody } from '@/lib/http/body';
 
-export const SAFE_METHODS = new Set(['GET', 'HEAD', 'OPTIONS']);
+const SAFE_METHODS = new Set(['GET', 'HEAD', 'OPTIONS']);
 
 export interface GuardOptions {
   /** The route takes a file as multipart/form-data (besides, or instead of, JSON). */
@@ -37,7 +37,7 @@ function hasBody(request: Request): boolean {
 }
 
 /** The origin and content-type rule for a state change a browser may have made with the person's cookies. */
-export function checkBrowserWrite(request: Request, options: GuardOptions = {}): void {
+function checkBrowserWrite(request: Request, options: GuardOptions = {}): void {
   const origin = request.headers.get('origin');
   const own = new URL(appUrl()).origin;
   if (origin !== null) {
@@ -63,7 +63,7 @@ export function checkBrowserWrite(request: Request, options: GuardOptions = {}):
 }
 
 /** The request guard described above; throws the refusal. */
-export async function guardRequest(request: Request, options: GuardOptions = {}): Promise<void> {
+async function guardRequest(request: Request, options: GuardOptions = {}): Promise<void> {
   if (SAFE_METHODS.has(request.method.toUpperCase())) return;
   if (!request.headers.has('authorization')) {
     // Without cookies there is no session for another site to borrow: the handler answers 401, or

@@ -10,9 +10,9 @@
 import { randomBytes } from 'node:crypto';
 import { settingsOf, type Environment } from '@/lib/config';
 
-export const CSP_REPORT_PATH = '/api/csp-report';
+const CSP_REPORT_PATH = '/api/csp-report';
 /** The Reporting API endpoint name the policy's report-to directive names. */
-export const CSP_REPORT_GROUP = 'csp';
+const CSP_REPORT_GROUP = 'csp';
 
 /**
  * Whether the app is served over HTTPS: WORLDSHEET_HTTPS=1 (or 0 to say no), otherwise whether
@@ -57,7 +57,7 @@ export function contentSecurityPolicy({ nonce, dev = false, https = false }: Pol
 }
 
 /** Two years, the figure the HSTS preload list asks for. */
-export const HSTS_MAX_AGE_SECONDS = 63_072_000;
+const HSTS_MAX_AGE_SECONDS = 63_072_000;
 
 /** The headers for one response; `nonce` must be the one also set on the request Next renders. */
 export function edgeHeaders(options: PolicyOptions): Record<string, string> {

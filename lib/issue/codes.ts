@@ -2,7 +2,7 @@
 import { randomBytes } from 'node:crypto';
 
 /** Letters used for revisions: ASME Y14.35 leaves out I, O, Q, S, X and Z (they read as digits or marks). */
-export const REVISION_LETTERS = 'ABCDEFGHJKLMNPRTUVWY';
+const REVISION_LETTERS = 'ABCDEFGHJKLMNPRTUVWY';
 
 /**
  * The code of the revision at `sequence` (0 for the first): letters A … Y, then AA, AB … (ASME

@@ -39,7 +39,7 @@ function certificate(
 }
 
 /** Makes a test CA and an organisation signing certificate (RSA 2048, SHA-256) into `folder`. */
-export function createTestIdentity(folder: string, organisation = ORGANISATION): void {
+function createTestIdentity(folder: string, organisation = ORGANISATION): void {
   mkdirSync(folder, { recursive: true, mode: 0o700 });
   const caKeys = forge.pki.rsa.generateKeyPair(2048);
   const caName = [
@@ -90,7 +90,7 @@ function pemCertificates(text: string): string[] {
 
 let cached: LoadedIdentity | null = null;
 
-export function localKeyFolder(root = process.cwd()): string {
+function localKeyFolder(root = process.cwd()): string {
   return config().WORLDSHEET_KEY_FOLDER ?? path.join(/* turbopackIgnore: true */ root, '.data', 'keys');
 }
 

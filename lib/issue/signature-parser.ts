@@ -34,7 +34,7 @@ export interface SignatureParserOptions {
   root?: string;
 }
 
-export function signatureParserOptionsFromEnv(): SignatureParserOptions {
+function signatureParserOptionsFromEnv(): SignatureParserOptions {
   return {
     timeoutMs: config().WORLDSHEET_SIGNATURE_PARSE_TIMEOUT_MS,
     memoryMb: config().WORLDSHEET_SIGNATURE_PARSE_MEMORY_MB,

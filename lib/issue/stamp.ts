@@ -30,7 +30,7 @@ import { signingIdentity } from './identity';
 const signpdf = (signpdfModule as unknown as { default?: typeof signpdfModule }).default ?? signpdfModule;
 
 /** Where render.tsx draws the fields a stamp overlays (kept in step with its constants). */
-export const STAMP_LAYOUT = {
+const STAMP_LAYOUT = {
   marginX: 15 * (72 / 25.4),
   titleBlockBottom: 16,
   titleBlockRows: [25, 28, 22],

@@ -14,7 +14,7 @@ export interface VerifyRateLimit {
   windowSeconds: number;
 }
 
-export function verifyRateLimitFromEnv(): VerifyRateLimit {
+function verifyRateLimitFromEnv(): VerifyRateLimit {
   return {
     requests: config().WORLDSHEET_VERIFY_RATE_PER_MINUTE,
     windowSeconds: 60,

@@ -12,10 +12,10 @@ import { CompiledQuery, type Kysely } from 'kysely';
 import PgBoss from 'pg-boss';
 import type { Database } from '@/db/schema';
 
-export const JOB_SCHEMA = 'pgboss';
+const JOB_SCHEMA = 'pgboss';
 
 /** Every queue and its settings. Add a queue here and a handler in lib/jobs/worker.ts. */
-export const QUEUES: Record<string, Omit<PgBoss.Queue, 'name'>> = {
+const QUEUES: Record<string, Omit<PgBoss.Queue, 'name'>> = {
   // Retries with exponential backoff: pg-boss waits retryDelay·2^min(n−1, 15)·(1…2) s before retry
   // n (5–10 s, 10–20 s, 20–40 s, …, at most 1.9–3.8 days apart), so mail survives the mail service
   // being down for days; after 20 failed retries (11–23 days in all) the job is left in state
@@ -41,8 +41,6 @@ export const QUEUES: Record<string, Omit<PgBoss.Queue, 'name'>> = {
     retentionMinutes: 30 * 24 * 60,
   },
 };
-
-export type QueueName = keyof typeof QUEUES;
 
 /** pg-boss's connection interface, answered through a Kysely instance or transaction. */
 export function kyselyJobDb(db: Kysely<Database>): PgBoss.Db {

@@ -15,8 +15,6 @@ import { SMTPServer } from 'smtp-server';
 import { portIsFree } from '../../db/local-postgres';
 import { splitLinks, type CapturedMessage } from './capture-client';
 
-export type { CapturedMessage } from './capture-client';
-
 export class MailCaptureError extends Error {
   constructor(message: string) {
     super(message);

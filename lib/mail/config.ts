@@ -4,9 +4,6 @@
 // The values come from lib/config.ts; `env`, when given, is parsed instead (the tests pass their own).
 import { DEFAULTS, settingsOf, type Environment } from '@/lib/config';
 
-/** `npm start`'s capture server: SMTP on 2525, its HTTP API on 2580 (the tests use other ports). */
-export const DEFAULT_SMTP_PORT = DEFAULTS.WORLDSHEET_SMTP_PORT;
-export const DEFAULT_MAIL_CAPTURE_PORT = DEFAULTS.WORLDSHEET_MAIL_CAPTURE_PORT;
 export const DEFAULT_MAIL_FROM = DEFAULTS.WORLDSHEET_MAIL_FROM;
 
 export function smtpPort(env?: Environment): number {

@@ -36,10 +36,10 @@ export class BackupError extends Error {
 }
 
 export const MANIFEST_FILE = 'manifest.json';
-export const DUMP_FILE = 'database.dump';
-export const OBJECTS_FOLDER = 'objects';
+const DUMP_FILE = 'database.dump';
+const OBJECTS_FOLDER = 'objects';
 
-export interface ManifestObject {
+interface ManifestObject {
   key: string;
   size: number;
   sha256: string;

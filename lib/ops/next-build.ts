@@ -16,7 +16,7 @@ function walk(dir: string, out: string[]): void {
   }
 }
 
-export function sourceHash(root: string): string {
+function sourceHash(root: string): string {
   const files: string[] = [];
   for (const d of SOURCE_DIRS) walk(join(root, d), files);
   for (const f of SOURCE_FILES) if (existsSync(join(root, f))) files.push(join(root, f));

@@ -6,7 +6,7 @@
 import path from 'node:path';
 import { BROWSER, UNIT } from '../../tests/vitest.config';
 
-export const TIERS = ['unit', 'database', 'browser'] as const;
+const TIERS = ['unit', 'database', 'browser'] as const;
 export type Tier = (typeof TIERS)[number];
 
 /** A glob of the vitest config (`**` for any folders, `*` within a name) as a regular expression. */

@@ -20,11 +20,11 @@ export interface PlotFigureOptions {
   fontSize?: number;
 }
 
-export const PLOT_FONT_FAMILY = "'Source Sans 3', system-ui, sans-serif";
+const PLOT_FONT_FAMILY = "'Source Sans 3', system-ui, sans-serif";
 
 /** Series styles in order; the seventh series starts again with the first colour but a new dash and marker. */
 export const SERIES_COLORS = ['#0072b2', '#d55e00', '#007a5a', '#a8527e', '#17212b'] as const;
-export const SERIES_DASHES = [null, '8 3', '2 2.5', '10 3 2 3', '5 2 1 2 1 2', '1.5 4'] as const;
+const SERIES_DASHES = [null, '8 3', '2 2.5', '10 3 2 3', '5 2 1 2 1 2', '1.5 4'] as const;
 const MARKERS_UP_TO = 40;
 
 const LIGHT_COLOR = '#7d7768';
@@ -119,14 +119,14 @@ const MARKERS: Record<string, SymbolType> = {
 };
 const MARKER_ORDER = ['circle', 'square', 'triangle', 'diamond', 'triangle-down', 'plus'] as const;
 
-export interface SeriesStyle {
+interface SeriesStyle {
   color: string;
   dash: string | null;
   marker: (typeof MARKER_ORDER)[number];
 }
 
 /** The style of series number `i` (0-based). */
-export function seriesStyle(i: number): SeriesStyle {
+function seriesStyle(i: number): SeriesStyle {
   return {
     color: SERIES_COLORS[i % SERIES_COLORS.length],
     dash: SERIES_DASHES[i % SERIES_DASHES.length],

@@ -7,7 +7,7 @@ import { plotElement, type PlotFigureOptions } from './plot-figure';
 let window: JSDOM['window'] | null = null;
 
 /** One jsdom document per process, made on first use (figures are detached elements of it). */
-export function plotDocument(): Document {
+function plotDocument(): Document {
   window ??= new JSDOM('<!DOCTYPE html><html><body></body></html>').window;
   return window.document;
 }

@@ -8,8 +8,6 @@ import { recordAudit } from '@/lib/audit/record';
 import { AppError } from '@/lib/errors/app-error';
 import { PROJECT_ROLES } from './roles';
 
-export { PROJECT_ROLES };
-
 export const ROLE_LABELS: Record<ProjectRole, string> = {
   originator: 'Originator',
   checker: 'Checker',
@@ -80,14 +78,6 @@ export async function listProjectsFor(db: Kysely<Database>, actor: Actor) {
     .orderBy('p.code')
     .execute();
   return rows.filter((r) => actor.isAdmin || r.roles.length > 0);
-}
-
-export async function listAllProjects(db: Kysely<Database>) {
-  return db
-    .selectFrom('projects')
-    .select(['id', 'code', 'name', 'legal_owner', 'revision_scheme', 'created_at'])
-    .orderBy('code')
-    .execute();
 }
 
 /** The id of a project an administrator names by its id or its code, as members do. */

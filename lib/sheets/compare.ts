@@ -72,7 +72,7 @@ export interface ResultSnapshot {
   error: string | null;
 }
 
-export type ResultStatus = 'added' | 'removed' | 'changed' | 'unchanged';
+type ResultStatus = 'added' | 'removed' | 'changed' | 'unchanged';
 
 export interface ResultComparison {
   /** Stable key of the entry: `value:<name>` or `criterion:<cell id>:<source>` (`#2`, … for repeats). */
@@ -99,7 +99,7 @@ export interface ResultComparison {
 export type RecordFieldName =
   'title' | 'safetyRelated' | 'significantFigures' | 'displayUnits' | 'objective' | 'method' | 'conclusions';
 
-export interface RecordFieldChange {
+interface RecordFieldChange {
   field: RecordFieldName;
   /** Null at a first check. */
   old: string | number | boolean | null;
@@ -108,9 +108,9 @@ export interface RecordFieldChange {
   diff: DiffPiece[] | null;
 }
 
-export type ItemStatus = 'added' | 'removed' | 'changed';
+type ItemStatus = 'added' | 'removed' | 'changed';
 
-export interface ItemChange<T, F extends string> {
+interface ItemChange<T, F extends string> {
   /** What the item was matched by: an input's name, an assumption's or reference's text, an attachment's name. */
   key: string;
   status: ItemStatus;
@@ -120,9 +120,9 @@ export interface ItemChange<T, F extends string> {
   changedFields: F[];
 }
 
-export type InputChange = ItemChange<DesignInput, 'value' | 'source' | 'sourceRevision'>;
-export type AssumptionChange = ItemChange<Assumption, 'needsVerification'>;
-export type ReferenceChange = ItemChange<string, never>;
+type InputChange = ItemChange<DesignInput, 'value' | 'source' | 'sourceRevision'>;
+type AssumptionChange = ItemChange<Assumption, 'needsVerification'>;
+type ReferenceChange = ItemChange<string, never>;
 /**
  * An attachment added, removed or changed (status `changed`: the same name with other bytes, i.e.
  * replaced). `table` is the row/column diff when either side is a CSV data table whose parsed columns
@@ -141,9 +141,9 @@ export interface CompareOptions {
   tables?: Readonly<Record<string, ComparedTable>>;
 }
 
-export type TableColumnStatus = 'added' | 'removed' | 'unitChanged' | 'unchanged';
+type TableColumnStatus = 'added' | 'removed' | 'unitChanged' | 'unchanged';
 
-export interface TableColumnChange {
+interface TableColumnChange {
   name: string;
   status: TableColumnStatus;
   /** Null when the column is absent on that side. */
@@ -151,7 +151,7 @@ export interface TableColumnChange {
   newUnit: string | null;
 }
 
-export interface TableRowChange {
+interface TableRowChange {
   status: 'added' | 'removed' | 'changed';
   /** 1-based data row (the header not counted) in the old / new table; null when absent there. */
   oldRow: number | null;
@@ -189,7 +189,7 @@ export interface RecordComparison {
   attachments: AttachmentChange[];
 }
 
-export interface ComparisonSummary {
+interface ComparisonSummary {
   cells: Record<CellStatus, number>;
   results: Record<ResultStatus, number>;
   /** Criteria that passed in one version and failed in the other. */
@@ -817,13 +817,13 @@ export function compareTables(oldTable: ComparedTable | null, newTable: Compared
 // Folding for the check view
 
 /** A cell shown in full in the check view: a change, or unchanged context beside one. */
-export interface ShownCellSegment {
+interface ShownCellSegment {
   type: 'cell';
   cell: CellComparison;
 }
 
 /** A run of consecutive unchanged cells shown folded ("12 unchanged cells"). */
-export interface FoldedSegment {
+interface FoldedSegment {
   type: 'folded';
   /** Target positions of the first and last cell of the run (inclusive). */
   fromTargetIndex: number;

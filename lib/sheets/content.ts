@@ -4,7 +4,7 @@
 import { z } from 'zod';
 import { bidiControlsInCalcCells } from '../calc/bidi-controls';
 
-export const CONTENT_SCHEMA_VERSION = 1;
+const CONTENT_SCHEMA_VERSION = 1;
 
 const shortText = z.string().max(2000);
 const longText = z.string().max(100_000);
@@ -15,7 +15,7 @@ export const cellSchema = z.object({
   source: longText,
 });
 
-export const designInputSchema = z.object({
+const designInputSchema = z.object({
   name: shortText,
   value: shortText,
   source: shortText,
@@ -28,7 +28,7 @@ export const designInputSchema = z.object({
   cell: z.string().trim().max(100).optional(),
 });
 
-export const assumptionSchema = z.object({
+const assumptionSchema = z.object({
   text: shortText,
   needsVerification: z.boolean(),
 });

@@ -21,7 +21,7 @@ import { evaluateSandboxed, evaluationScope } from './evaluate-sandboxed';
 import { resolveCitations, unresolvedReferences, type ResolvedCitation } from './references';
 
 /** The settings of a sheet that shape how results are shown (the values are the same either way). */
-export type EvaluationSettings = Pick<EvaluateOptions, 'significantFigures' | 'displayUnits'>;
+type EvaluationSettings = Pick<EvaluateOptions, 'significantFigures' | 'displayUnits'>;
 
 export interface EvaluationInContext {
   cells: CellInput[];

@@ -300,7 +300,7 @@ export interface RevisionImpact {
 }
 
 /** Dependencies deeper than this are not followed (they cannot cycle: each step goes to a later revision). */
-export const MAX_IMPACT_DEPTH = 25;
+const MAX_IMPACT_DEPTH = 25;
 
 /**
  * Everything that depends on each revision of a sheet: the sheets whose versions cite it, then the

@@ -37,8 +37,6 @@ export const exportQuerySchema = z.object({
   }),
 });
 
-export { sheetFileAttachmentSchema };
-
 /** The query of the import: a title that replaces the file's. */
 export const importQuerySchema = z.object({ title: z.string().trim().min(1).max(300).optional() });
 

@@ -30,7 +30,7 @@ export function mathSize(
 }
 
 /** One line of a formula: the part of the viewBox from `start` to `end`, drawn at `scale` pt/unit. */
-export interface MathStrip {
+interface MathStrip {
   start: number;
   end: number;
   scale: number;
@@ -43,13 +43,7 @@ export interface MathStrip {
  * otherwise it is cut at its break points, as TeX breaks a long inline formula after an operator
  * or relation, and a piece with no break point narrow enough is shrunk to fit.
  */
-export function mathStrips(
-  math: TypesetMath,
-  emPt: number,
-  maxWidth: number,
-  indent = 0,
-  minShrink = 0.8,
-): MathStrip[] {
+function mathStrips(math: TypesetMath, emPt: number, maxWidth: number, indent = 0, minShrink = 0.8): MathStrip[] {
   const [minX, , w] = math.viewBox;
   const scale = emPt / 1000;
   const end = minX + w;

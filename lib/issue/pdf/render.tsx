@@ -138,7 +138,7 @@ function shown(text: string): ReactNode {
 }
 
 /** "2026-12-02T14:03:07.000Z" → "2026-12-02 14:03:07 UTC"; anything unparseable is shown as given. */
-export function formatUtc(value: string): string {
+function formatUtc(value: string): string {
   const d = new Date(value);
   if (Number.isNaN(d.getTime())) return value;
   const iso = d.toISOString();
@@ -1235,7 +1235,7 @@ function issueTime(data: RevisionPdfData): Date | undefined {
   return Number.isNaN(day) ? undefined : new Date(day);
 }
 
-export function RevisionPdfDocument({
+function RevisionPdfDocument({
   data: given,
   typeset,
   figure = null,

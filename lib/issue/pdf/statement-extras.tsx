@@ -101,13 +101,7 @@ const th = {
 const td = { fontSize: 7.5, paddingVertical: 1.5, paddingHorizontal: 3 };
 
 /** The budget of a propagated uncertainty as a compact table, then u_c and U, the Monte Carlo check and any warning. */
-export function UncertaintyBudget({
-  line,
-  uncertainty,
-}: {
-  line: number;
-  uncertainty: UncertaintyResult;
-}): ReactElement {
+function UncertaintyBudget({ line, uncertainty }: { line: number; uncertainty: UncertaintyResult }): ReactElement {
   const widths = ['16%', '17%', '17%', '20%', '17%', '13%'];
   const rows = budgetRows(uncertainty);
   return (
@@ -184,13 +178,13 @@ export function UncertaintyBudget({
 }
 
 /** A column heading: "T_kin (MeV)". */
-export function studyColumnTitle(c: StudyTable['columns'][number]): string {
+function studyColumnTitle(c: StudyTable['columns'][number]): string {
   const u = unitLabel(c.unit);
   return u ? `${c.name} (${u})` : c.name;
 }
 
 /** A sweep's table: the header repeated at the top of each page it runs onto; a failed step says why. */
-export function StudyTablePdf({
+function StudyTablePdf({
   line,
   table,
   significantFigures,

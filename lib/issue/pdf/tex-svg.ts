@@ -68,7 +68,7 @@ function multiply(p: Matrix, q: Matrix): Matrix {
 }
 
 /** Parses an SVG transform list ("translate(759,0) scale(0.707)", "matrix(…)", "rotate(a cx cy)"). */
-export function parseTransform(value: string | undefined | null): Matrix {
+function parseTransform(value: string | undefined | null): Matrix {
   let m: Matrix = IDENTITY;
   if (!value) return m;
   const ops = value.matchAll(/([a-zA-Z]+)\s*\(([^)]*)\)/g);
