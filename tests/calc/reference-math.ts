@@ -282,7 +282,7 @@ export const REFERENCES: Record<string, Ref> = {
  * Hyperbolic motion from rest over the distance d (a Dec, or a double taken exactly), textbook forms at
  * 50 digits: γ = 1 + |a|d/c², β = ±√(1 − 1/γ²) (the sign of a), t = (c/|a|)√(γ² − 1), τ = (c/|a|) acosh γ.
  */
-export function fromDistanceRef(a0: number, d: number | Dec): { beta: Dec; t: Dec; tau: Dec } {
+function fromDistanceRef(a0: number, d: number | Dec): { beta: Dec; t: Dec; tau: Dec } {
   const a = exact(a0).abs();
   const dist = typeof d === 'number' ? exact(d) : d;
   const gamma = ONE.plus(a.mul(dist).div(C2));
@@ -295,7 +295,7 @@ export function fromDistanceRef(a0: number, d: number | Dec): { beta: Dec; t: De
 }
 
 /** p = √(E² − m²c⁴)/c, E = T + mc² (PDG RPP 2024, "Kinematics"), 50 digits. */
-export function momentumFromKineticRef(T: Dec, m: Dec): Dec {
+function momentumFromKineticRef(T: Dec, m: Dec): Dec {
   const rest = m.mul(C2);
   const E = T.plus(rest);
   return E.mul(E).minus(rest.mul(rest)).sqrt().div(REF_C);
@@ -309,7 +309,7 @@ export function speedFromMomentumRef(p: Dec, m: Dec): Dec {
 }
 
 /** T = E − mc², E = √(p²c² + m²c⁴) (PDG RPP 2024, "Kinematics"), 50 digits (the textbook subtraction). */
-export function kineticFromMomentumRef(p: Dec, m: Dec): Dec {
+function kineticFromMomentumRef(p: Dec, m: Dec): Dec {
   const pc = p.mul(REF_C);
   const rest = m.mul(C2);
   return pc.mul(pc).plus(rest.mul(rest)).sqrt().minus(rest);

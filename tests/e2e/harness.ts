@@ -25,7 +25,7 @@ export interface RunningApp {
 }
 
 /** A fixed secret for the test server's signed session cookies. */
-export const TEST_AUTH_SECRET = 'worldsheet-test-secret-not-for-production-use';
+const TEST_AUTH_SECRET = 'worldsheet-test-secret-not-for-production-use';
 
 export async function startApp(extraEnv: Record<string, string> = {}): Promise<RunningApp> {
   const reportsFrom = BigInt(await lastCspReportId());
@@ -159,7 +159,7 @@ export interface BrowserSession {
   close(): Promise<void>;
 }
 
-export interface CspViolationSeen {
+interface CspViolationSeen {
   documentURI: string;
   blockedURI: string;
   effectiveDirective: string;

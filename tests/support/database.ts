@@ -1,4 +1,4 @@
-import { type Kysely, sql } from 'kysely';
+import type { Kysely } from 'kysely';
 import pg from 'pg';
 import { inject } from 'vitest';
 import { createDb } from '../../db/index';
@@ -53,5 +53,3 @@ export async function closeTestDatabase(): Promise<void> {
   appDb = null;
   admin = null;
 }
-
-export { sql };

@@ -22,7 +22,7 @@ import { testDb } from './database';
 export type { CapturedMessage } from '../../lib/mail/capture-client';
 
 /** The HTTP API of the test capture server, e.g. http://127.0.0.1:2590. */
-export function mailCaptureUrl(): string {
+function mailCaptureUrl(): string {
   return inject('mailCaptureUrl');
 }
 
@@ -43,7 +43,7 @@ export async function clearMailbox(captureUrl = mailCaptureUrl()): Promise<void>
 }
 
 /** Deletes every mail job, whatever its state, so that none reaches a later test. */
-export async function purgeMailQueue(db: Kysely<Database> = testDb()): Promise<void> {
+async function purgeMailQueue(db: Kysely<Database> = testDb()): Promise<void> {
   await sql`delete from pgboss.job where name = ${MAIL_QUEUE}`.execute(db);
 }
 
