@@ -185,19 +185,27 @@ export function SubmitForCheckForm({
                 be changed after submission.
               </p>
               {items.map((f, i) => (
-                <div key={f.key}>
-                  <label htmlFor={`${id}-ack-${i}`} className="block text-sm">
-                    <span className="font-semibold">{KIND_LABELS[f.kind] ?? f.kind}:</span> {f.message}
-                  </label>
-                  <textarea
-                    id={`${id}-ack-${i}`}
-                    name={`ack:${f.key}`}
-                    required
-                    rows={2}
-                    maxLength={5000}
-                    className="w-full rounded border border-rule-strong bg-surface px-3 py-2 text-sm"
-                  />
-                </div>
+                <Field
+                  key={f.key}
+                  label={
+                    <>
+                      <span className="font-semibold">{KIND_LABELS[f.kind] ?? f.kind}:</span> {f.message}
+                    </>
+                  }
+                  id={`${id}-ack-${i}`}
+                  labelClassName="block text-sm"
+                >
+                  {(control) => (
+                    <textarea
+                      {...control}
+                      name={`ack:${f.key}`}
+                      required
+                      rows={2}
+                      maxLength={5000}
+                      className="w-full rounded border border-rule-strong bg-surface px-3 py-2 text-sm"
+                    />
+                  )}
+                </Field>
               ))}
             </fieldset>
           ) : null}

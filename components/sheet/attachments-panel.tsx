@@ -6,6 +6,7 @@ import { api, errorText } from '@/components/data/api-client';
 import type { AttachmentInfo } from '@/lib/attachments/attachments';
 import type { VersionContent } from '@/lib/sheets/content';
 import { AttachmentList } from './attachment-list';
+import { Field } from '@/components/ui/field';
 
 type Ref = VersionContent['attachments'][number];
 
@@ -113,18 +114,17 @@ export function AttachmentsPanel({
         </div>
       ) : null}
       <div className="flex flex-wrap items-end gap-2">
-        <div>
-          <label htmlFor="att-file" className="block text-sm font-semibold">
-            File to upload
-          </label>
-          <input
-            id="att-file"
-            ref={input}
-            type="file"
-            accept=".pdf,.png,.jpg,.jpeg,.csv,application/pdf,image/png,image/jpeg,text/csv"
-            className="text-sm"
-          />
-        </div>
+        <Field label="File to upload" id="att-file">
+          {(control) => (
+            <input
+              {...control}
+              ref={input}
+              type="file"
+              accept=".pdf,.png,.jpg,.jpeg,.csv,application/pdf,image/png,image/jpeg,text/csv"
+              className="text-sm"
+            />
+          )}
+        </Field>
         <button
           type="button"
           onClick={upload}

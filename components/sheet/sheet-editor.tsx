@@ -13,7 +13,7 @@ import { RecordListsEditor } from './record-lists-editor';
 import { DISPLAY_UNITS, DISPLAY_UNITS_DEFAULT, DISPLAY_UNITS_LABEL, type DisplayUnits } from '@/lib/calc/display-units';
 import type { Cell, VersionContent } from '@/lib/sheets/content';
 import { primaryButton } from '@/components/ui/button';
-import { inputClass } from '@/components/ui/field';
+import { Field, inputClass } from '@/components/ui/field';
 
 interface Props {
   sheetId: string;
@@ -179,65 +179,66 @@ export function SheetEditor({ sheetId, projectCode, sheetNumber, base }: Props) 
         <h2 id="editor-record" className="text-lg font-bold">
           Calculation record
         </h2>
-        <div>
-          <label htmlFor="ed-title" className="block text-sm font-semibold">
-            Title
-          </label>
-          <input
-            id="ed-title"
-            value={content.title}
-            onChange={(e) => update((c) => ({ ...c, title: e.target.value }))}
-            className={inputClass}
-          />
-        </div>
-        <div>
-          <label htmlFor="ed-display-units" className="block text-sm font-semibold">
-            Units shown
-          </label>
-          <select
-            id="ed-display-units"
-            aria-describedby="ed-display-units-hint"
-            value={content.displayUnits ?? DISPLAY_UNITS_DEFAULT}
-            onChange={(e) => update((c) => ({ ...c, displayUnits: e.target.value as DisplayUnits }))}
-            className="rounded border border-rule-strong bg-surface px-3 py-2"
-          >
-            {DISPLAY_UNITS.map((d) => (
-              <option key={d} value={d}>
-                {DISPLAY_UNITS_LABEL[d]}
-              </option>
-            ))}
-          </select>
-          <p id="ed-display-units-hint" className="text-sm text-ink-muted">
-            How results are shown; the values are the same either way. A unit written in a formula (<code>3 kg</code>,{' '}
-            <code>x to J</code>) is always kept.
-          </p>
-        </div>
-        {(['objective', 'method', 'conclusions'] as const).map((field) => (
-          <div key={field}>
-            <label htmlFor={`ed-${field}`} className="block text-sm font-semibold capitalize">
-              {field}
-            </label>
-            <textarea
-              id={`ed-${field}`}
-              rows={2}
-              value={record[field]}
-              onChange={(e) => setRecord({ [field]: e.target.value })}
+        <Field label="Title" id="ed-title">
+          {(control) => (
+            <input
+              {...control}
+              value={content.title}
+              onChange={(e) => update((c) => ({ ...c, title: e.target.value }))}
               className={inputClass}
             />
-          </div>
+          )}
+        </Field>
+        <Field
+          label="Units shown"
+          id="ed-display-units"
+          hint={
+            <>
+              How results are shown; the values are the same either way. A unit written in a formula (<code>3 kg</code>,{' '}
+              <code>x to J</code>) is always kept.
+            </>
+          }
+          hintClassName="text-sm text-ink-muted"
+        >
+          {(control) => (
+            <select
+              {...control}
+              value={content.displayUnits ?? DISPLAY_UNITS_DEFAULT}
+              onChange={(e) => update((c) => ({ ...c, displayUnits: e.target.value as DisplayUnits }))}
+              className="rounded border border-rule-strong bg-surface px-3 py-2"
+            >
+              {DISPLAY_UNITS.map((d) => (
+                <option key={d} value={d}>
+                  {DISPLAY_UNITS_LABEL[d]}
+                </option>
+              ))}
+            </select>
+          )}
+        </Field>
+        {(['objective', 'method', 'conclusions'] as const).map((field) => (
+          <Field key={field} label={field} id={`ed-${field}`} labelClassName="block text-sm font-semibold capitalize">
+            {(control) => (
+              <textarea
+                {...control}
+                rows={2}
+                value={record[field]}
+                onChange={(e) => setRecord({ [field]: e.target.value })}
+                className={inputClass}
+              />
+            )}
+          </Field>
         ))}
-        <div>
-          <label htmlFor="ed-references" className="block text-sm font-semibold">
-            References (one per line)
-          </label>
-          <textarea
-            id="ed-references"
-            rows={2}
-            value={record.references.join('\n')}
-            onChange={(e) => setRecord({ references: e.target.value.split('\n').filter((x) => x.trim() !== '') })}
-            className={inputClass}
-          />
-        </div>
+        <Field label="References (one per line)" id="ed-references">
+          {(control) => (
+            <textarea
+              {...control}
+              rows={2}
+              value={record.references.join('\n')}
+              onChange={(e) => setRecord({ references: e.target.value.split('\n').filter((x) => x.trim() !== '') })}
+              className={inputClass}
+            />
+          )}
+        </Field>
         <RecordListsEditor record={record} onChange={setRecord} />
       </section>
 

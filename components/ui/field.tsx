@@ -29,6 +29,7 @@ export function Field({
   describedBy: alsoDescribedBy,
   className,
   labelClassName = 'block text-sm font-semibold',
+  hintClassName = 'text-xs text-ink-muted',
   children,
 }: {
   label: ReactNode;
@@ -43,6 +44,7 @@ export function Field({
   /** Classes of the field's box. */
   className?: string;
   labelClassName?: string;
+  hintClassName?: string;
   children: (control: FieldControl) => ReactNode;
 }) {
   const fresh = useId();
@@ -60,7 +62,7 @@ export function Field({
       </label>
       {children(control)}
       {hint ? (
-        <p id={hintId} className="text-xs text-ink-muted">
+        <p id={hintId} className={hintClassName}>
           {hint}
         </p>
       ) : null}

@@ -61,6 +61,24 @@ describe('Field', () => {
     expect(error.getAttribute('role')).toBe('alert');
   });
 
+  it('takes other classes for the label and the hint, keeping the ids that bind them', () => {
+    const doc = parse(
+      renderToStaticMarkup(
+        h(Field, {
+          label: 'Units shown',
+          id: 'units',
+          hint: 'How results are shown.',
+          labelClassName: 'block text-sm',
+          hintClassName: 'text-sm text-ink-muted',
+          children: (c) => h('select', c),
+        }),
+      ),
+    );
+    expect(doc.querySelector('label')!.className).toBe('block text-sm');
+    expect(doc.getElementById('units-hint')!.className).toBe('text-sm text-ink-muted');
+    expect(doc.querySelector('select')!.getAttribute('aria-describedby')).toBe('units-hint');
+  });
+
   it('describedBy leaves out what is absent and gives undefined for nothing', () => {
     expect(describedBy('a', undefined, false, null, 'b')).toBe('a b');
     expect(describedBy(undefined, false)).toBeUndefined();
