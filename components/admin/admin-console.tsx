@@ -6,6 +6,7 @@ import useSWR from 'swr';
 import { api } from '@/components/data/api-client';
 import { JsonForm } from '@/components/forms/json-form';
 import { Table, Td, Th } from '@/components/ui/table';
+import { Field } from '@/components/ui/field';
 
 type UserRow = Awaited<ReturnType<typeof api.listUsers>>['users'][number];
 
@@ -137,23 +138,22 @@ export function AdminConsole() {
           Projects and roles
         </h2>
         <div className="flex flex-wrap items-end gap-3">
-          <div>
-            <label htmlFor="admin-project" className="block text-sm font-semibold">
-              Project
-            </label>
-            <select
-              id="admin-project"
-              value={selected}
-              onChange={(e) => setProjectId(e.target.value)}
-              className="rounded border border-rule-strong bg-surface px-3 py-2"
-            >
-              {(projects.data?.projects ?? []).map((p) => (
-                <option key={p.id} value={p.id}>
-                  {p.code}: {p.name}
-                </option>
-              ))}
-            </select>
-          </div>
+          <Field label="Project" id="admin-project">
+            {(control) => (
+              <select
+                {...control}
+                value={selected}
+                onChange={(e) => setProjectId(e.target.value)}
+                className="rounded border border-rule-strong bg-surface px-3 py-2"
+              >
+                {(projects.data?.projects ?? []).map((p) => (
+                  <option key={p.id} value={p.id}>
+                    {p.code}: {p.name}
+                  </option>
+                ))}
+              </select>
+            )}
+          </Field>
         </div>
         {selected ? (
           <>
