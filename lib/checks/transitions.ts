@@ -72,9 +72,3 @@ export const TRANSITIONS: Readonly<Record<DecisionAction, Transition>> = {
 
 /** The decisions in the order the screens offer them. */
 export const DECISIONS = Object.keys(TRANSITIONS) as DecisionAction[];
-
-/** The state `action` moves a check in `state` to, or null when the decision is not taken in that state. */
-export function nextState(state: CheckState, action: DecisionAction): CheckState | null {
-  const t = TRANSITIONS[action];
-  return t.from === state ? t.to : null;
-}

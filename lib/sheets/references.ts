@@ -53,8 +53,12 @@ function convertUncertainty(u: number, from: string | null, to: string | null): 
 }
 
 /**
- * Resolves citations with the rows each resolved to; see `resolveReferences`. `saveVersion` records
- * the revisions of the citations that resolved.
+ * Resolves each citation to the value of the named result as issued: the sheet by its number in the
+ * same project, the revision by its code (issued, not withdrawn), the result by its name among the
+ * definitions of that revision's version. A value comes with the status of the revision (current, or
+ * superseded with the code of the current revision); anything else comes back as an error, which the
+ * engine shows on the statement that cites it. Each answer (`reference`) comes with the rows it
+ * resolved to; `saveVersion` records the revisions of the citations that resolved.
  */
 export async function resolveCitations(
   db: Kysely<Database>,
@@ -71,22 +75,6 @@ export async function resolveCitations(
   const out: ResolvedCitation[] = [];
   for (const ref of refs) out.push(await resolveOne(db, projectId, project.code, ref, opts.excludeSheetId));
   return out;
-}
-
-/**
- * Resolves each citation to the value of the named result as issued: the sheet by its number in the
- * same project, the revision by its code (issued, not withdrawn), the result by its name among the
- * definitions of that revision's version. A value comes with the status of the revision (current, or
- * superseded with the code of the current revision); anything else comes back as an error, which the
- * engine shows on the statement that cites it.
- */
-export async function resolveReferences(
-  db: Kysely<Database>,
-  projectId: string,
-  refs: readonly SheetReference[],
-  opts: { excludeSheetId?: string } = {},
-): Promise<ResolvedReference[]> {
-  return (await resolveCitations(db, projectId, refs, opts)).map((c) => c.reference);
 }
 
 async function resolveOne(

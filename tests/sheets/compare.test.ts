@@ -4,7 +4,6 @@ import type { CellResult, SheetResult, StatementResult } from '../../lib/calc/ty
 import {
   compareTables,
   compareVersions,
-  foldUnchanged,
   MAX_TABLE_ROW_CHANGES,
   wordDiff,
   type ComparedVersion,
@@ -600,56 +599,6 @@ describe('first check and identical versions', () => {
       recordChanges: 0,
       attachmentChanges: 0,
     });
-    expect(foldUnchanged(cmp)).toEqual({
-      segments: [{ type: 'folded', fromTargetIndex: 0, toTargetIndex: 1, count: 2, cellIds: ['t', 'c1'] }],
-      changedIds: [],
-    });
-  });
-});
-
-describe('folding unchanged cells', () => {
-  const ids = ['u1', 'u2', 'ch', 'u3', 'u4', 'u5'];
-  const base = { content: content(ids.map((id) => calc(id, `${id} = 1`))), results: null };
-  const target = {
-    content: content(ids.map((id) => calc(id, id === 'ch' ? `${id} = 2` : `${id} = 1`))),
-    results: null,
-  };
-  const cmp = compareVersions(base, target);
-
-  it('folds the runs of unchanged cells between changes', () => {
-    const folded = foldUnchanged(cmp);
-    expect(folded.changedIds).toEqual(['ch']);
-    expect(folded.segments.map((s) => (s.type === 'cell' ? s.cell.id : `[${s.cellIds.join(' ')}]`))).toEqual([
-      '[u1 u2]',
-      'ch',
-      '[u3 u4 u5]',
-    ]);
-    expect(folded.segments[2]).toEqual({
-      type: 'folded',
-      fromTargetIndex: 3,
-      toTargetIndex: 5,
-      count: 3,
-      cellIds: ['u3', 'u4', 'u5'],
-    });
-  });
-
-  it('keeps context cells next to changes shown, and short runs unfolded', () => {
-    const withContext = foldUnchanged(cmp, { context: 1 });
-    expect(withContext.segments.map((s) => (s.type === 'cell' ? s.cell.id : `[${s.cellIds.join(' ')}]`))).toEqual([
-      '[u1]',
-      'u2',
-      'ch',
-      'u3',
-      '[u4 u5]',
-    ]);
-    const minRun = foldUnchanged(cmp, { context: 1, minRun: 2 });
-    expect(minRun.segments.map((s) => (s.type === 'cell' ? s.cell.id : `[${s.cellIds.join(' ')}]`))).toEqual([
-      'u1',
-      'u2',
-      'ch',
-      'u3',
-      '[u4 u5]',
-    ]);
   });
 });
 

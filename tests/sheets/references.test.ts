@@ -25,12 +25,16 @@ import {
   staleRevisionCounts,
   supersededInputs,
 } from '../../lib/sheets/impact';
-import { NO_PROJECT_FOR_REFERENCES, resolveReferences, unresolvedReferences } from '../../lib/sheets/references';
+import { NO_PROJECT_FOR_REFERENCES, resolveCitations, unresolvedReferences } from '../../lib/sheets/references';
 import { createSheet, getVersion, saveVersion } from '../../lib/sheets/sheets';
 import { storageConfig } from '../../lib/storage/config';
 import { createObjectStore } from '../../lib/storage/object-store';
 import { testDb } from '../support/database';
 import { makeProject, makeUser, PASSWORD } from '../support/people';
+
+/** The answers the engine gets for these citations (what resolveCitations resolves, without the rows). */
+const resolveReferences = async (...args: Parameters<typeof resolveCitations>) =>
+  (await resolveCitations(...args)).map((c) => c.reference);
 
 process.env.WORLDSHEET_KEY_FOLDER ??= path.join(mkdtempSync(path.join(tmpdir(), 'ws-refs-')), 'keys');
 
