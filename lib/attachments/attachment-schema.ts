@@ -3,7 +3,7 @@
 import { z } from 'zod';
 import { attachmentRefSchema } from '@/lib/sheets/content';
 
-export const tableSummarySchema = z.object({
+const tableSummarySchema = z.object({
   name: z.string().meta({ description: 'The name cells use: `name.column`.' }),
   rows: z.number().int(),
   columns: z.array(z.object({ name: z.string(), unit: z.string().nullable() })),
