@@ -5,13 +5,6 @@ import { sql, type Kysely } from 'kysely';
 import type { Database } from '@/db/schema';
 import type { CellResult, StudyTable } from '@/lib/calc/types';
 
-/** Whole numbers from `min`, written plainly in a path ("3", not "3.0" or "+3"); null otherwise. */
-export function pathInteger(value: string, min: number): number | null {
-  if (!/^\d{1,9}$/.test(value)) return null;
-  const n = Number(value);
-  return n >= min ? n : null;
-}
-
 /**
  * The table of the sweep on line `line` (from 1) of the cell whose result has index `cellIndex`
  * (from 0, as `CellResult.index`) in version `number` of the sheet; undefined when the version,

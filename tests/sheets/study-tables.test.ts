@@ -4,7 +4,7 @@
 import { describe, expect, it } from 'vitest';
 import { seedDemo } from '../../db/seed';
 import { studyTableCsv } from '../../lib/calc/study-csv';
-import { getStudyTable, pathInteger } from '../../lib/sheets/study-tables';
+import { getStudyTable } from '../../lib/sheets/study-tables';
 import { testDb } from '../support/database';
 
 async function studySheet() {
@@ -56,15 +56,5 @@ describe('getStudyTable', () => {
     expect(await getStudyTable(testDb(), { sheetId: sheet.id, number: 3, cellIndex: 2, line: 1 })).toBeUndefined();
     expect(await getStudyTable(testDb(), { sheetId: sheet.id, number: 1, cellIndex: 2, line: 1 })).toBeUndefined();
     expect(await getStudyTable(testDb(), { sheetId: other.id, number: 2, cellIndex: 2, line: 1 })).toBeUndefined();
-  });
-});
-
-describe('pathInteger', () => {
-  it('reads plain whole numbers from a path segment and nothing else', () => {
-    expect(pathInteger('0', 0)).toBe(0);
-    expect(pathInteger('12', 1)).toBe(12);
-    for (const bad of ['', '-1', '+1', '1.0', '1e3', ' 1', '0x10', '9999999999'])
-      expect(pathInteger(bad, 0), bad).toBeNull();
-    expect(pathInteger('0', 1)).toBeNull();
   });
 });
