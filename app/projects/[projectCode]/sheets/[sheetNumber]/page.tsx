@@ -1,5 +1,6 @@
 import type { Metadata } from 'next';
 import Link from 'next/link';
+import { Suspense } from 'react';
 import { notFound } from 'next/navigation';
 import { SignatureList, SignatureTable, type SignatureRow } from '@/components/checks/signatures';
 import { StatusBadge } from '@/components/checks/status-badge';
@@ -75,6 +76,76 @@ function whereItStands(wf: SheetWorkflow): { text: string; checkId: string | nul
   }
 }
 
+type Sheet = NonNullable<Awaited<ReturnType<typeof getSheetByNumber>>>;
+type Version = NonNullable<Awaited<ReturnType<typeof getVersion>>>;
+
+/**
+ * The submission form, streamed after the rest of the page: who may check each submittable version
+ * (the independence rules, one query per version) and what each needs acknowledged in writing.
+ */
+async function SubmitSection({
+  sheet,
+  version,
+  workflow,
+  versions,
+  userId,
+  submittable,
+  blocked,
+}: {
+  sheet: Sheet;
+  version: Version;
+  workflow: SheetWorkflow;
+  versions: Awaited<ReturnType<typeof listVersions>>;
+  userId: string;
+  submittable: number[];
+  blocked: string | null;
+}) {
+  // Eligibility depends on the version chosen (who saved what up to it): the newest ten, each its own.
+  const submittableVersions = versions
+    .map((v) => v.number)
+    .filter((n) => workflow.lastApprovedVersion === null || n > workflow.lastApprovedVersion)
+    .slice(0, 10);
+  const latestCheckers = eligibleCheckers(getDb(), sheet, workflow.latestVersion, userId);
+  const [checkers, checkersByVersion, findingsByVersion] = await Promise.all([
+    latestCheckers,
+    Promise.all(
+      submittableVersions.map(
+        async (n) =>
+          [
+            n,
+            await (n === workflow.latestVersion ? latestCheckers : eligibleCheckers(getDb(), sheet, n, userId)),
+          ] as const,
+      ),
+    ).then((entries) => Object.fromEntries(entries)),
+    // What each submittable version needs acknowledged in writing, shown before the first attempt (the server asks again).
+    Promise.all(
+      submittableVersions.map(async (n) => {
+        const v = n === version.number ? version : await getVersion(getDb(), sheet.id, n);
+        return [
+          n,
+          v
+            ? submissionFindings(v.content, v.results).map((f) => ({
+                key: f.key,
+                kind: f.kind,
+                message: f.message,
+              }))
+            : [],
+        ] as const;
+      }),
+    ).then((entries) => Object.fromEntries(entries)),
+  ]);
+  return (
+    <SubmitForCheckForm
+      sheetId={sheet.id}
+      versions={submittable}
+      checkers={checkers}
+      checkersByVersion={checkersByVersion}
+      findingsByVersion={findingsByVersion}
+      blocked={blocked}
+    />
+  );
+}
+
 export default async function SheetPage({
   params,
   searchParams,
@@ -104,46 +175,6 @@ export default async function SheetPage({
   const latest = versions[0]?.number;
   const code = formatSheetNumber(project.code, sheet.number);
   const isOriginator = roles.includes('originator');
-  const checkers = isOriginator ? await eligibleCheckers(getDb(), sheet, workflow.latestVersion, actor.userId) : [];
-  // Eligibility depends on the version chosen (who saved what up to it): the newest ten, each its own.
-  const submittableVersions = versions
-    .map((v) => v.number)
-    .filter((n) => workflow.lastApprovedVersion === null || n > workflow.lastApprovedVersion)
-    .slice(0, 10);
-  const checkersByVersion = isOriginator
-    ? Object.fromEntries(
-        await Promise.all(
-          submittableVersions.map(
-            async (n) =>
-              [
-                n,
-                n === workflow.latestVersion ? checkers : await eligibleCheckers(getDb(), sheet, n, actor.userId),
-              ] as const,
-          ),
-        ),
-      )
-    : {};
-  // What each submittable version needs acknowledged in writing, shown before the first attempt (the server asks again).
-  const findingsByVersion =
-    isOriginator && !sheet.voided_at
-      ? Object.fromEntries(
-          await Promise.all(
-            submittableVersions.map(async (n) => {
-              const v = n === version.number ? version : await getVersion(getDb(), sheet.id, n);
-              return [
-                n,
-                v
-                  ? submissionFindings(v.content, v.results).map((f) => ({
-                      key: f.key,
-                      kind: f.kind,
-                      message: f.message,
-                    }))
-                  : [],
-              ] as const;
-            }),
-          ),
-        )
-      : {};
   const signatures: SignatureRow[] = workflow.signatures.map((s) => ({
     ...s,
     meaningLabel: MEANING_LABELS[s.meaning],
@@ -349,14 +380,23 @@ export default async function SheetPage({
             <h2 id="submit-title" className="font-bold">
               Submit for check
             </h2>
-            <SubmitForCheckForm
-              sheetId={sheet.id}
-              versions={submittable}
-              checkers={checkers}
-              checkersByVersion={checkersByVersion}
-              findingsByVersion={findingsByVersion}
-              blocked={blocked}
-            />
+            <Suspense
+              fallback={
+                <p role="status" className="text-sm text-ink-muted">
+                  Finding who may check each version…
+                </p>
+              }
+            >
+              <SubmitSection
+                sheet={sheet}
+                version={version}
+                workflow={workflow}
+                versions={versions}
+                userId={actor.userId}
+                submittable={submittable}
+                blocked={blocked}
+              />
+            </Suspense>
           </section>
         ) : null}
         {roles.includes('controller') && !sheet.voided_at ? (
