@@ -14,6 +14,7 @@ import { VisibleText } from '@/components/data/visible-text';
 import { StatusBadge } from '@/components/ui/status-badge';
 import { Table, Td, Th } from '@/components/ui/table';
 import { smallPrimaryButton } from '@/components/ui/button';
+import { Field } from '@/components/ui/field';
 
 export const metadata: Metadata = { title: 'Software impact' };
 export const dynamic = 'force-dynamic';
@@ -50,42 +51,40 @@ export default async function SoftwareImpactPage({ searchParams }: { searchParam
         className="flex flex-wrap items-end gap-3 rounded border border-rule bg-surface p-3 text-sm"
         aria-describedby={problem ? 'swi-problem' : undefined}
       >
-        <div>
-          <label htmlFor="swi-engine" className="block font-semibold">
-            Engine version
-          </label>
-          <select
-            id="swi-engine"
-            name="engineVersion"
-            defaultValue={answer.filter.engineVersion ?? ''}
-            className="max-w-md rounded border border-rule-strong bg-surface px-2 py-1"
-          >
-            <option value="">Any</option>
-            {answer.engineVersions.map((f) => (
-              <option key={f.value} value={f.value}>
-                {counted(f)}
-              </option>
-            ))}
-          </select>
-        </div>
-        <div>
-          <label htmlFor="swi-edition" className="block font-semibold">
-            Constants edition
-          </label>
-          <select
-            id="swi-edition"
-            name="constantsEdition"
-            defaultValue={answer.filter.constantsEdition ?? ''}
-            className="max-w-md rounded border border-rule-strong bg-surface px-2 py-1"
-          >
-            <option value="">Any</option>
-            {answer.constantsEditions.map((f) => (
-              <option key={f.value} value={f.value}>
-                {counted(f)}
-              </option>
-            ))}
-          </select>
-        </div>
+        <Field label="Engine version" id="swi-engine" labelClassName="block font-semibold">
+          {(control) => (
+            <select
+              {...control}
+              name="engineVersion"
+              defaultValue={answer.filter.engineVersion ?? ''}
+              className="max-w-md rounded border border-rule-strong bg-surface px-2 py-1"
+            >
+              <option value="">Any</option>
+              {answer.engineVersions.map((f) => (
+                <option key={f.value} value={f.value}>
+                  {counted(f)}
+                </option>
+              ))}
+            </select>
+          )}
+        </Field>
+        <Field label="Constants edition" id="swi-edition" labelClassName="block font-semibold">
+          {(control) => (
+            <select
+              {...control}
+              name="constantsEdition"
+              defaultValue={answer.filter.constantsEdition ?? ''}
+              className="max-w-md rounded border border-rule-strong bg-surface px-2 py-1"
+            >
+              <option value="">Any</option>
+              {answer.constantsEditions.map((f) => (
+                <option key={f.value} value={f.value}>
+                  {counted(f)}
+                </option>
+              ))}
+            </select>
+          )}
+        </Field>
         <div>
           <label htmlFor="swi-function" className="block font-semibold">
             Calls the function (optional)

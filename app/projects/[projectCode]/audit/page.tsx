@@ -5,6 +5,7 @@ import { auditFilterSchema, listProjectAudit, listProjectAuditActions } from '@/
 import { listMembers } from '@/lib/projects/projects';
 import { Table, Td, Th } from '@/components/ui/table';
 import { smallPrimaryButton } from '@/components/ui/button';
+import { Field } from '@/components/ui/field';
 
 export const metadata: Metadata = { title: 'Audit trail' };
 export const dynamic = 'force-dynamic';
@@ -56,66 +57,62 @@ export default async function AuditPage({
         </p>
       </header>
       <form method="get" className="flex flex-wrap items-end gap-3 rounded border border-rule bg-surface p-3 text-sm">
-        <div>
-          <label htmlFor="person" className="block font-semibold">
-            Person
-          </label>
-          <select
-            id="person"
-            name="person"
-            defaultValue={filter.person ?? ''}
-            className="rounded border border-rule-strong bg-surface px-2 py-1"
-          >
-            <option value="">Anyone</option>
-            {members.map((m) => (
-              <option key={m.userId} value={m.userId}>
-                {m.name}
-              </option>
-            ))}
-          </select>
-        </div>
-        <div>
-          <label htmlFor="action" className="block font-semibold">
-            Action
-          </label>
-          <select
-            id="action"
-            name="action"
-            defaultValue={filter.action ?? ''}
-            className="rounded border border-rule-strong bg-surface px-2 py-1"
-          >
-            <option value="">Any</option>
-            {actions.map((a) => (
-              <option key={a} value={a}>
-                {a}
-              </option>
-            ))}
-          </select>
-        </div>
-        <div>
-          <label htmlFor="from" className="block font-semibold">
-            From (UTC)
-          </label>
-          <input
-            id="from"
-            name="from"
-            type="date"
-            defaultValue={filter.from ?? ''}
-            className="rounded border border-rule-strong bg-surface px-2 py-1"
-          />
-        </div>
-        <div>
-          <label htmlFor="to" className="block font-semibold">
-            To (UTC)
-          </label>
-          <input
-            id="to"
-            name="to"
-            type="date"
-            defaultValue={filter.to ?? ''}
-            className="rounded border border-rule-strong bg-surface px-2 py-1"
-          />
-        </div>
+        <Field label="Person" id="person" labelClassName="block font-semibold">
+          {(control) => (
+            <select
+              {...control}
+              name="person"
+              defaultValue={filter.person ?? ''}
+              className="rounded border border-rule-strong bg-surface px-2 py-1"
+            >
+              <option value="">Anyone</option>
+              {members.map((m) => (
+                <option key={m.userId} value={m.userId}>
+                  {m.name}
+                </option>
+              ))}
+            </select>
+          )}
+        </Field>
+        <Field label="Action" id="action" labelClassName="block font-semibold">
+          {(control) => (
+            <select
+              {...control}
+              name="action"
+              defaultValue={filter.action ?? ''}
+              className="rounded border border-rule-strong bg-surface px-2 py-1"
+            >
+              <option value="">Any</option>
+              {actions.map((a) => (
+                <option key={a} value={a}>
+                  {a}
+                </option>
+              ))}
+            </select>
+          )}
+        </Field>
+        <Field label="From (UTC)" id="from" labelClassName="block font-semibold">
+          {(control) => (
+            <input
+              {...control}
+              name="from"
+              type="date"
+              defaultValue={filter.from ?? ''}
+              className="rounded border border-rule-strong bg-surface px-2 py-1"
+            />
+          )}
+        </Field>
+        <Field label="To (UTC)" id="to" labelClassName="block font-semibold">
+          {(control) => (
+            <input
+              {...control}
+              name="to"
+              type="date"
+              defaultValue={filter.to ?? ''}
+              className="rounded border border-rule-strong bg-surface px-2 py-1"
+            />
+          )}
+        </Field>
         <button type="submit" className={smallPrimaryButton}>
           Filter
         </button>

@@ -9,6 +9,7 @@ import { VisibleText } from '@/components/data/visible-text';
 import { StatusBadge } from '@/components/ui/status-badge';
 import { Table, Td, Th } from '@/components/ui/table';
 import { smallPrimaryButton } from '@/components/ui/button';
+import { Field } from '@/components/ui/field';
 
 export const metadata: Metadata = { title: 'Document register' };
 export const dynamic = 'force-dynamic';
@@ -42,33 +43,31 @@ export default async function ProjectRegisterPage({
         </p>
       </header>
       <form method="get" className="flex flex-wrap items-end gap-3 rounded border border-rule bg-surface p-3 text-sm">
-        <div>
-          <label htmlFor="reg-status" className="block font-semibold">
-            Status
-          </label>
-          <select
-            id="reg-status"
-            name="status"
-            defaultValue={filter.status}
-            className="rounded border border-rule-strong bg-surface px-2 py-1"
-          >
-            <option value="all">Any</option>
-            <option value="current">Current</option>
-            <option value="superseded">Superseded</option>
-            <option value="withdrawn">Withdrawn</option>
-          </select>
-        </div>
-        <div>
-          <label htmlFor="reg-q" className="block font-semibold">
-            Sheet number or title
-          </label>
-          <input
-            id="reg-q"
-            name="q"
-            defaultValue={filter.q ?? ''}
-            className="rounded border border-rule-strong bg-surface px-2 py-1"
-          />
-        </div>
+        <Field label="Status" id="reg-status" labelClassName="block font-semibold">
+          {(control) => (
+            <select
+              {...control}
+              name="status"
+              defaultValue={filter.status}
+              className="rounded border border-rule-strong bg-surface px-2 py-1"
+            >
+              <option value="all">Any</option>
+              <option value="current">Current</option>
+              <option value="superseded">Superseded</option>
+              <option value="withdrawn">Withdrawn</option>
+            </select>
+          )}
+        </Field>
+        <Field label="Sheet number or title" id="reg-q" labelClassName="block font-semibold">
+          {(control) => (
+            <input
+              {...control}
+              name="q"
+              defaultValue={filter.q ?? ''}
+              className="rounded border border-rule-strong bg-surface px-2 py-1"
+            />
+          )}
+        </Field>
         <button type="submit" className={smallPrimaryButton}>
           Filter
         </button>
