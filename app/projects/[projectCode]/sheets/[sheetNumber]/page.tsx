@@ -30,6 +30,7 @@ import { submissionFindings } from '@/lib/checks/submission-findings';
 import { VoidSheetForm } from '@/components/sheet/void-sheet-form';
 import { VisibleText } from '@/components/data/visible-text';
 import { Table, Td, Th } from '@/components/ui/table';
+import { primaryButton } from '@/components/ui/button';
 
 export const metadata: Metadata = { title: 'Sheet' };
 export const dynamic = 'force-dynamic';
@@ -262,7 +263,7 @@ export default async function SheetPage({
             <p className="mt-3">
               <Link
                 href={`/projects/${project.code}/sheets/${sheet.number}/edit`}
-                className="rounded bg-accent px-4 py-2 font-semibold text-surface no-underline hover:bg-accent-hover"
+                className={`${primaryButton} no-underline`}
               >
                 Edit the sheet
               </Link>
