@@ -18,7 +18,7 @@ import { demoStarterSheets } from './starters';
 
 export const DEMO_PASSWORD = 'worldsheet-demo';
 
-export const DEMO_ORGANISATION = 'Kestrelwick Beam Systems Ltd';
+const DEMO_ORGANISATION = 'Kestrelwick Beam Systems Ltd';
 export const DEMO_PROJECT = {
   code: 'TPT2',
   name: 'Tarnmoor Proton Therapy Centre — gantry 2 beam transport',

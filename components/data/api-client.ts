@@ -26,7 +26,7 @@ import type { saveVersionSchema } from '@/lib/sheets/sheets';
 import type { importQuerySchema } from '@/lib/sheets/sheet-files';
 import type { startFromSchema } from '@/lib/sheets/start-from';
 
-export const UNREACHABLE = 'The server could not be reached.';
+const UNREACHABLE = 'The server could not be reached.';
 
 /** Any failed call: the server's refusal (status, code, message, details), no answer (status null), or an answer not as documented. */
 export class ApiError extends Error {
@@ -62,9 +62,9 @@ export function detail(error: ApiError, key: string): unknown {
 export type HttpMethod = 'GET' | 'POST' | 'PATCH' | 'DELETE';
 
 /** A request body: a value sent as JSON, JSON text sent as it is, or a multipart form (a file). */
-export type RequestBody = { json: unknown } | { jsonText: string } | { form: FormData };
+type RequestBody = { json: unknown } | { jsonText: string } | { form: FormData };
 
-export interface CallOptions {
+interface CallOptions {
   body?: RequestBody;
   /** The one success status the route answers; any other 2xx is an error too. Default: any 2xx. */
   status?: number;
@@ -79,7 +79,7 @@ const errorAnswerSchema = z.object({
 });
 
 /** Sends one request and parses the answer with `schema`; throws ApiError on any failure. */
-export async function call<S extends ZodType>(
+async function call<S extends ZodType>(
   method: HttpMethod,
   url: string,
   schema: S,

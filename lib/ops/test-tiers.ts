@@ -1,4 +1,4 @@
-// `npm test`: the static checks, then the three test tiers of tests/vitest.config.ts one after the other
+// `npm test`: the static checks (types, lint, format, unused code), then the three test tiers of tests/vitest.config.ts one after the other
 // (unit, database, browser), each its own vitest run so only the tiers that need PostgreSQL and the fakes
 // start them. With file arguments (`npm test -- tests/calc/x.test.ts tests/e2e/y.test.ts`) the static
 // checks are skipped and only the tiers holding those files run; `--tier unit|database|browser` runs one.
@@ -66,6 +66,10 @@ export function plan(args: string[], root: string): Stage[] {
           command: [node, bin('eslint', 'bin/eslint.js'), '-c', '.lint/eslint.config.mjs', '.'],
         },
         { name: 'format (prettier --check)', command: [node, bin('prettier', 'bin/prettier.cjs'), '--check', '.'] },
+        {
+          name: 'unused code (knip)',
+          command: [node, bin('knip', 'bin/knip.js'), '-c', '.lint/knip.jsonc'],
+        },
       );
     for (const tier of onlyTier ? [onlyTier] : TIERS) stages.push(vitest(tier, flags));
     return stages;

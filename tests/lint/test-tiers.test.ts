@@ -24,6 +24,7 @@ describe('test tiers', () => {
       'types (tsc --noEmit)',
       'lint (eslint)',
       'format (prettier --check)',
+      'unused code (knip)',
       'unit tier',
       'database tier',
       'browser tier',
