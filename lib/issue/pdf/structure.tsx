@@ -17,6 +17,8 @@
 // - a leaf or group may run over a page break: the leaf's marked content is reopened on the next
 //   page after its page furniture, under the same structure element;
 // - page furniture (the running head and the title block) is a pagination artifact.
+// package.json pins pdfkit at exactly the version @react-pdf/renderer depends on, so npm installs one
+// copy: the one react-pdf draws with, whose prototype `install` patches.
 import { Canvas } from '@react-pdf/renderer';
 import PDFDocument from 'pdfkit';
 import type { ReactElement, ReactNode } from 'react';
