@@ -8,7 +8,6 @@ import type { Actor } from '@/lib/auth/actor';
 import type { SheetResult } from '@/lib/calc/types';
 import { AppError } from '@/lib/errors/app-error';
 import type { Cell } from '@/lib/sheets/content';
-import type { VersionComparison } from '@/lib/sheets/compare';
 import { compareStoredVersions } from '@/lib/sheets/comparison';
 import { formatSheetNumber } from '@/lib/sheets/sheet-number';
 import { getVersion } from '@/lib/sheets/sheets';
@@ -60,9 +59,14 @@ export async function getCheckDetail(db: Kysely<Database>, actor: Actor, checkId
     person(db, check.project_id, check.checker_id),
   ]);
   if (!version) throw new AppError('not_found', 'The version under check is missing.');
-  const comparison: VersionComparison = await compareStoredVersions(db, check.sheet_id, base ?? null, version);
-  // A re-check after a return: what changed since the version that was returned comes first.
-  const returned = await returnedCheckBefore(db, check);
+  // The comparison with the base, the returned check before this one (a re-check after a return: what
+  // changed since the version that was returned comes first) and the policy's answers for the caller (the
+  // policy the mutations enforce, policy.ts) do not depend on each other.
+  const [comparison, returned, { policy, facts }] = await Promise.all([
+    compareStoredVersions(db, check.sheet_id, base ?? null, version),
+    returnedCheckBefore(db, check),
+    policyFor(db, check, actor, roles, version.results),
+  ]);
   const returnedVersion = returned ? await getVersion(db, check.sheet_id, returned.versionNumber) : null;
   const sinceReturn =
     returned && returnedVersion
@@ -86,8 +90,6 @@ export async function getCheckDetail(db: Kysely<Database>, actor: Actor, checkId
         .filter((c) => c.id === t.id || c.thread_id === t.id)
         .map((c) => ({ id: c.id, author: c.author, body: c.body, createdAt: new Date(c.created_at).toISOString() })),
     }));
-  // What the caller may do now, and why not: the policy the mutations enforce (policy.ts).
-  const { policy, facts } = await policyFor(db, check, actor, roles, version.results);
   const who = facts.participants;
   const sign = policy.sign;
   const approve = policy.approve;
