@@ -6,7 +6,7 @@ import { useId, useState } from 'react';
 import { JsonForm } from '@/components/forms/json-form';
 import { safeSameOriginPath } from '@/lib/http/same-origin';
 import { primaryButton } from '@/components/ui/button';
-import { Field, inputClass } from '@/components/ui/field';
+import { Field, inputClass, PasswordField } from '@/components/ui/field';
 
 export function SignInForm({
   callbackUrl,
@@ -53,18 +53,7 @@ export function SignInForm({
               <input {...control} name="email" type="email" required autoComplete="username" className={inputClass} />
             )}
           </Field>
-          <Field label="Password" id={`${id}-password`}>
-            {(control) => (
-              <input
-                {...control}
-                name="password"
-                type="password"
-                required
-                autoComplete="current-password"
-                className={inputClass}
-              />
-            )}
-          </Field>
+          <PasswordField label="Password" id={`${id}-password`} />
           <button type="submit" disabled={busy} className={primaryButton}>
             {busy ? 'Signing in…' : 'Sign in'}
           </button>

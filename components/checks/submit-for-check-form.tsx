@@ -4,7 +4,7 @@ import { useRouter } from 'next/navigation';
 import { useId, useState } from 'react';
 import { api, ApiError, detail, errorText } from '@/components/data/api-client';
 import { primaryButton } from '@/components/ui/button';
-import { Field, inputClass } from '@/components/ui/field';
+import { Field, inputClass, PasswordField } from '@/components/ui/field';
 
 export interface CheckerOption {
   userId: string;
@@ -209,18 +209,7 @@ export function SubmitForCheckForm({
               ))}
             </fieldset>
           ) : null}
-          <Field label="Your password (signs as prepared)" id={`${id}-password`}>
-            {(control) => (
-              <input
-                {...control}
-                name="password"
-                type="password"
-                required
-                autoComplete="current-password"
-                className={inputClass}
-              />
-            )}
-          </Field>
+          <PasswordField label="Your password (signs as prepared)" id={`${id}-password`} />
           <button type="submit" disabled={status.kind === 'busy' || !anyEligible} className={primaryButton}>
             {status.kind === 'busy' ? 'Submitting…' : 'Submit for check'}
           </button>

@@ -74,3 +74,21 @@ export function Field({
     </div>
   );
 }
+
+/** The account password asked for to sign in or to sign a record: a required field the browser fills. */
+export function PasswordField({ label, id }: { label: ReactNode; id: string }) {
+  return (
+    <Field label={label} id={id}>
+      {(control) => (
+        <input
+          {...control}
+          name="password"
+          type="password"
+          required
+          autoComplete="current-password"
+          className={inputClass}
+        />
+      )}
+    </Field>
+  );
+}
