@@ -17,6 +17,8 @@ port.on('message', (request: EvaluateRequest) => {
     const result = engine.evaluate(request.cells, request.options, {
       skip,
       cacheScope: request.scope,
+      // Every result is sent: typeset and format each cell within its own time.
+      presentEachCell: true,
       onCellStart: (index) => {
         Atomics.store(progress, PROGRESS_CELL, index);
         // A skipped cell only gets its error; it is not run.

@@ -1,0 +1,192 @@
+// The plan of a sheet, made from its parsed cells before anything is evaluated: where each name is
+// first defined, what kind of statement defines it, the sheet's own functions, the inputs that carry
+// an uncertainty and their correlations, and for each calculation cell the names it reads and the
+// part of its cache key that does not depend on evaluation (the rest, the keys of the cells that
+// define what it reads, is added as the sheet is evaluated: run.ts).
+import type { MathNode } from 'mathjs';
+import type { EngineMath } from '../math-instance';
+import { REFUSED_NAMES } from '../math-instance';
+import { notDefined } from '../messages';
+import { checkDefinitionName } from '../names';
+import type { CellInput, InputTable, StatementResult } from '../types';
+import type { ParsedStatement } from './statement';
+
+type Position = { cell: number; line: number };
+
+interface CellPlan {
+  /** Names the cell defines. */
+  ownNames: string[];
+  /** Names the cell reads from outside itself, sorted (as `CellResult.uses`). */
+  external: string[];
+  /** Of `external`, those defined above the cell (input tables included): their cells' keys enter its key. */
+  definedAbove: string[];
+  /** The part of the cell's cache key known before evaluation. */
+  staticKey: string;
+}
+
+export interface SheetPlan {
+  parsed: ParsedStatement[][];
+  tables: ReadonlyMap<string, InputTable>;
+  /** Where each name is first defined (input tables at cell −1): to tell "defined below" from "undefined". */
+  firstDefinition: ReadonlyMap<string, Position>;
+  /** What the sheet's first definition of each name is: a value (`x = …`) cannot be called as `x(…)`. */
+  definitionKindOf: ReadonlyMap<string, StatementResult['kind']>;
+  /** The sheet's functions, to say what fails inside a call. */
+  sheetFunctions: ReadonlyMap<string, { params: string[]; expr: MathNode }>;
+  /** Inputs written with an uncertainty (and read without error). */
+  staticallyUncertain: ReadonlySet<string>;
+  /** Correlations between inputs: the first correlation(x, y, r) of each pair. */
+  correlations: ReadonlyMap<string, { r: number; cell: number; line: number }>;
+  pairKey(a: string, b: string): string;
+  correlationOf(a: string, b: string): number;
+  /** The names a statement reads: bare unit names and built-in function names the sheet defines count. */
+  usesOf(st: ParsedStatement): readonly string[];
+  /** The lint's finding for a name the sheet defines is dropped (the name is the sheet's quantity). */
+  lintSilenced(name: string): boolean;
+  /** Names a misspelt name may have meant. */
+  messageNames: { candidates: () => string[]; caseCandidates: () => string[] };
+  calledQuantityMessage(name: string): string;
+  cells: Array<CellPlan | null>;
+}
+
+/** Names a misspelt name is compared with: functions, mathematical values and units (any case). */
+const builtinNameLists = new WeakMap<EngineMath, { names: string[]; units: string[] }>();
+function builtinNamesOf(em: EngineMath): { names: string[]; units: string[] } {
+  const known = builtinNameLists.get(em);
+  if (known) return known;
+  const math = em.math as unknown as Record<string, unknown>;
+  const names = Object.keys(math).filter(
+    (k) =>
+      /^[a-z][A-Za-z0-9]*$/.test(k) &&
+      !/Scalar$|Dependencies$|^create[A-Z]/.test(k) &&
+      !REFUSED_NAMES.has(k) &&
+      (em.isFunctionName(k) || em.isMathConstant(k)),
+  );
+  const units = (em.math.Unit as unknown as { UNITS: Record<string, { prefixes: Record<string, unknown> }> }).UNITS;
+  const unitNames: string[] = [];
+  for (const [name, u] of Object.entries(units))
+    for (const p of Object.keys(u.prefixes ?? { '': 1 })) unitNames.push(p + name);
+  const lists = { names, units: unitNames.filter((n) => em.isUnitName(n)) };
+  builtinNameLists.set(em, lists);
+  return lists;
+}
+
+export interface PlanOptions {
+  tables: readonly InputTable[];
+  /** Extra key parts of a statement, by its form (citations: their resolution). */
+  formKeyParts: (st: ParsedStatement) => string[];
+  monteCarloAlways: boolean;
+}
+
+export function planSheet(
+  em: EngineMath,
+  cells: CellInput[],
+  parsed: ParsedStatement[][],
+  options: PlanOptions,
+): SheetPlan {
+  const tables = new Map(options.tables.map((t) => [t.name, t]));
+  const firstDefinition = new Map<string, Position>();
+  for (const name of tables.keys()) firstDefinition.set(name, { cell: -1, line: 0 });
+  const definitionKindOf = new Map<string, StatementResult['kind']>();
+  const sheetFunctions = new Map<string, { params: string[]; expr: MathNode }>();
+  const staticallyUncertain = new Set<string>();
+  parsed.forEach((statements, ci) => {
+    for (const st of statements) {
+      if (!st.defines) continue;
+      if (!firstDefinition.has(st.defines)) firstDefinition.set(st.defines, { cell: ci, line: st.line });
+      if (!definitionKindOf.has(st.defines)) definitionKindOf.set(st.defines, st.kind);
+      if (st.kind === 'function' && st.node && !sheetFunctions.has(st.defines))
+        sheetFunctions.set(st.defines, { params: (st.node.params as string[]) ?? [], expr: st.node.expr! });
+      if (st.uncertain && !st.parseError && !st.staticError) staticallyUncertain.add(st.defines);
+    }
+  });
+  const pairKey = (a: string, b: string) => (a < b ? `${a}\0${b}` : `${b}\0${a}`);
+  const correlations = new Map<string, { r: number; cell: number; line: number }>();
+  parsed.forEach((statements, ci) => {
+    for (const st of statements) {
+      const c = st.correlation;
+      if (c && staticallyUncertain.has(c.a) && staticallyUncertain.has(c.b) && !correlations.has(pairKey(c.a, c.b)))
+        correlations.set(pairKey(c.a, c.b), { r: c.r, cell: ci, line: st.line });
+    }
+  });
+  const correlationContext = correlations.size
+    ? `correlations:${[...correlations].map(([k, v]) => `${k}=${v.r}`).join(';')}`
+    : '';
+  const messageNames = {
+    candidates: () => [...firstDefinition.keys(), ...em.constants.keys(), ...builtinNamesOf(em).names],
+    caseCandidates: () => builtinNamesOf(em).units,
+  };
+  const lintSilenced = (name: string) => firstDefinition.has(name) && checkDefinitionName(name, em) === null;
+  const usesOf = (st: ParsedStatement) =>
+    st.unitNamed.length || st.fnNamed.length
+      ? [
+          ...st.uses,
+          ...st.unitNamed.filter((n) => firstDefinition.has(n)),
+          ...st.fnNamed.filter((n) => firstDefinition.has(n)),
+        ]
+      : st.uses;
+
+  const cellPlans = cells.map((cell, ci): CellPlan | null => {
+    if (cell.kind === 'text') return null;
+    const statements = parsed[ci];
+    const ownNames: string[] = [];
+    for (const st of statements) if (st.defines && !ownNames.includes(st.defines)) ownNames.push(st.defines);
+    const above = (n: string) => {
+      const at = firstDefinition.get(n);
+      return at !== undefined && at.cell < ci;
+    };
+    const used = new Set<string>();
+    for (const st of statements) for (const n of usesOf(st)) used.add(n);
+    const external = [...used].filter((n) => !ownNames.includes(n) || above(n)).sort();
+    const definedAbove = external.filter(above);
+    const parts: string[] = [];
+    for (const n of external) {
+      if (above(n)) continue;
+      const later = firstDefinition.get(n);
+      // An undefined name's message suggests names of the sheet: the suggestion is part of the key.
+      parts.push(
+        `${n}=${later ? `later:${later.cell}:${later.line}` : `undefined:${em.isFunctionName(n) ? '' : notDefined(n, messageNames)}`}`,
+      );
+    }
+    for (const n of ownNames) {
+      const at = firstDefinition.get(n)!;
+      parts.push(`own:${n}=${at.cell < ci ? `${at.cell}:${at.line}` : 'new'}`);
+    }
+    for (const st of statements) parts.push(...options.formKeyParts(st));
+    if (options.monteCarloAlways && ownNames.length) parts.push('monteCarlo:always');
+    if (correlationContext) parts.push(correlationContext);
+    // Whether the sheet defines a name the lint flags decides whether the warning shows.
+    const linted = new Set(statements.flatMap((st) => st.lint.map((f) => f.name)));
+    for (const n of linted) parts.push(`lint:${n}=${lintSilenced(n)}`);
+    // Whether the sheet defines a unit name written after a number's unit with a space (`1 T m`).
+    const spaced = new Set(statements.flatMap((st) => st.unitLiterals.flatMap((l) => l.spacedNames ?? [])));
+    for (const n of spaced) parts.push(`spaced:${n}=${firstDefinition.has(n)}`);
+    return { ownNames, external, definedAbove, staticKey: parts.join('\0') };
+  });
+
+  return {
+    parsed,
+    tables,
+    firstDefinition,
+    definitionKindOf,
+    sheetFunctions,
+    staticallyUncertain,
+    correlations,
+    pairKey,
+    correlationOf: (a, b) => (a === b ? 1 : (correlations.get(pairKey(a, b))?.r ?? 0)),
+    usesOf,
+    lintSilenced,
+    messageNames,
+    calledQuantityMessage(name) {
+      if (tables.has(name))
+        return `\`${name}\` is the input table read from ${tables.get(name)!.fileName}, not a function; read a column as ${name}.column`;
+      const at = firstDefinition.get(name)!;
+      const where = `cell ${at.cell + 1}, line ${at.line}`;
+      if (em.isFunctionName(name)) {
+        return `\`${name}\` is this sheet's own quantity (defined in ${where}), not a function: a sheet's definition takes precedence over the built-in function ${name} everywhere in the sheet; to call the built-in function, give the quantity another name (e.g. \`${name}_1\`)`;
+      }
+      return `\`${name}\` is a quantity (defined in ${where}), not a function: write \`${name} * (…)\` for a product, or define a function such as f(x) = …`;
+    },
+    cells: cellPlans,
+  };
+}

@@ -1,0 +1,165 @@
+// What a person sees of a statement: its formula typeset, the formula with the values substituted,
+// and its value formatted to the sheet's significant figures. None of it decides a value, so it is
+// made only when a cell's statements are first read (shown, sent, stored or printed) and then kept
+// with the cell's cached result: a cell answered from the cache is never typeset again.
+import type { MathJsInstance } from 'mathjs';
+import { CONSTANTS } from '../constants';
+import { displayUnitsOf, setDisplayUnits, tradeDisplay, type DisplayUnits } from '../display-units';
+import { displayValue, formatNumberTex, unitTexOf } from '../format';
+import type { EngineMath } from '../math-instance';
+import { formulaTex, substitutedTex, substitutionTex, type TexContext } from '../tex';
+import type { CellResult, DisplayValue, StatementResult } from '../types';
+import type { SheetPlan } from './plan';
+import type { ParsedStatement } from './statement';
+
+/** What one evaluation's presentation needs: its scope (values never change once defined) and plan. */
+export interface Presentation {
+  math: MathJsInstance;
+  em: EngineMath;
+  sig: number;
+  displayUnits: DisplayUnits;
+  scope: ReadonlyMap<string, unknown>;
+  plan: SheetPlan;
+  /** TeX of the built-in constants as substituted (per significant figures and display units). */
+  constantsTex: ReadonlyMap<string, string>;
+  /** TeX of each defined value as substituted, made once per evaluation. */
+  valueTex: Map<string, string | undefined>;
+}
+
+interface Pending {
+  presentation: Presentation;
+  cell: number;
+  parsed: ParsedStatement[];
+  /** The value each statement shows, or `NOT_SHOWN`. */
+  shown: unknown[];
+}
+
+export const NOT_SHOWN = Symbol('not shown');
+
+/** A calculation cell's statements, presented on first read. */
+export class PresentedStatements {
+  private pending: Pending | null;
+  constructor(
+    private readonly statements: StatementResult[],
+    pending: Pending,
+  ) {
+    this.pending = pending;
+  }
+
+  get(): StatementResult[] {
+    if (this.pending) {
+      present(this.statements, this.pending);
+      this.pending = null; // the scope and plan are no longer held
+    }
+    return this.statements;
+  }
+}
+
+/** Constants are substituted in the SI unit they are defined in; in the trade's units masses in MeV/c². */
+export function constantsTexOf(em: EngineMath, sig: number, displayUnits: DisplayUnits): Map<string, string> {
+  const math = em.math;
+  return new Map(
+    CONSTANTS.map((k) => {
+      const value = em.constants.get(k.name)!;
+      const trade = displayUnits === 'trade' && typeof value !== 'number' ? tradeDisplay(math, value) : null;
+      const tex = trade
+        ? `${formatNumberTex(trade.number, sig)}\\ ${unitTexOf(math, trade.unitString)}`
+        : k.unit === ''
+          ? formatNumberTex(k.value, sig)
+          : `${formatNumberTex(k.value, sig)}\\ ${unitTexOf(math, k.unit)}`;
+      return [k.name, substitutionTex(tex)];
+    }),
+  );
+}
+
+function valueTexOf(p: Presentation, name: string): string | undefined {
+  const constant = p.constantsTex.get(name);
+  if (constant !== undefined) return constant;
+  if (p.valueTex.has(name)) return p.valueTex.get(name);
+  let tex: string | undefined;
+  if (p.scope.has(name) && !p.plan.tables.has(name)) {
+    const v = p.scope.get(name);
+    // Lists stay as their names in substituted formulas: their values are shown as results.
+    if (typeof v !== 'function' && !p.math.isMatrix(v) && !Array.isArray(v))
+      tex = substitutionTex(displayValue(p.math, v, p.sig).tex);
+  }
+  p.valueTex.set(name, tex);
+  return tex;
+}
+
+function present(statements: StatementResult[], pending: Pending): void {
+  const { presentation: p, cell, parsed, shown } = pending;
+  const { math, em, plan } = p;
+  // A name is a value (not a unit or function) where the sheet defines it in this cell or above,
+  // or it is a constant or an input table.
+  const texCtx: TexContext = {
+    isValueName: (n) => {
+      if (em.constants.has(n) || plan.tables.has(n)) return true;
+      const at = plan.firstDefinition.get(n);
+      return at !== undefined && at.cell <= cell;
+    },
+    valueTex: (n) => valueTexOf(p, n),
+    unitTex: (unit) => unitTexOf(math, unit),
+  };
+  const before = displayUnitsOf(math);
+  setDisplayUnits(math, p.displayUnits);
+  try {
+    statements.forEach((result, i) => {
+      const node = parsed[i].node;
+      if (node) {
+        try {
+          result.tex = formulaTex(node, texCtx);
+        } catch {
+          result.tex = '';
+        }
+      }
+      if (shown[i] === NOT_SHOWN || !node) return;
+      result.value = displayOrExplain(math, shown[i], p.sig);
+      try {
+        result.substitutedTex = substitutedTex(node, texCtx);
+      } catch {
+        result.substitutedTex = null;
+      }
+    });
+  } finally {
+    setDisplayUnits(math, before);
+  }
+}
+
+/** The value as shown; a value that cannot be formatted says so rather than showing nothing. */
+function displayOrExplain(math: MathJsInstance, value: unknown, sig: number): DisplayValue {
+  try {
+    return displayValue(math, value, sig) as DisplayValue;
+  } catch (error) {
+    const text = `the value cannot be shown: ${error instanceof Error ? error.message : String(error)}`;
+    return {
+      kind: 'other',
+      text,
+      tex: `\\text{${text.replace(/[\\{}$&#^_%~]/g, '')}}`,
+      number: null,
+      unit: null,
+      raw: null,
+    };
+  }
+}
+
+/** A calculation cell's result whose `statements` are presented on first read. */
+export function cellResultOf(fields: Omit<CellResult, 'statements'>, statements: PresentedStatements): CellResult {
+  const result = {
+    id: fields.id,
+    index: fields.index,
+    kind: fields.kind,
+    ok: fields.ok,
+    error: fields.error,
+    statements: undefined as unknown as StatementResult[],
+    warnings: fields.warnings,
+    defines: fields.defines,
+    uses: fields.uses,
+  };
+  Object.defineProperty(result, 'statements', {
+    enumerable: true,
+    configurable: true,
+    get: () => statements.get(),
+  });
+  return result;
+}
