@@ -109,6 +109,17 @@ function meaningOf(name: string, em: EngineMath, given: string | undefined): str
  * The lint findings of one statement's expression (for a definition, its right-hand side), at
  * most one per name. The engine drops the findings for names the sheet defines.
  */
+/** A name the lint looks for, as a whole word: a line without one needs no lint. */
+const SUSPECT_WORD = new RegExp(
+  `(?<![\\p{L}\\p{N}_])(?:${[...SUSPECT_NAMES.keys()].map((n) => n.replace(/[.*+?^${}()|[\]\\]/g, '\\$&')).join('|')})(?![\\p{L}\\p{N}_])`,
+  'u',
+);
+
+/** Whether a line may hold a name the lint looks for (false: `lintExpression` finds nothing). */
+export function mayNeedLint(text: string): boolean {
+  return SUSPECT_WORD.test(text);
+}
+
 export function lintExpression(node: MathNode, em: EngineMath): LintFinding[] {
   const found = new Map<string, string>();
   // `slot` is the node as its parent holds it: `n` itself, or the parenthesis around it.

@@ -23,7 +23,7 @@ import { referenceKey } from './references';
 import type { CellInput, CellResult, EvaluateOptions, InputTable, SheetResult, StatementResult } from './types';
 import { ENGINE_VERSION } from './version';
 import { createCellParser } from './engine/parse';
-import { planSheet, type SheetPlan } from './engine/plan';
+import { planSheet, type CellPlan, type SheetPlan } from './engine/plan';
 import { cellResultOf, constantsTexOf, NOT_SHOWN, PresentedStatements, type Presentation } from './engine/present';
 import { SheetRun, type CellRun } from './engine/run';
 import type { ParsedStatement } from './engine/statement';
@@ -68,6 +68,12 @@ interface CachedCell {
   monteCarloRequests: number;
 }
 
+/** A statement's error; what it defines is then unavailable to the statements below. */
+function fail(result: StatementResult, st: ParsedStatement, cell: CellRun, message: string): void {
+  result.error = message;
+  if (st.defines) cell.failed.set(st.defines, `it has an error in cell ${cell.index + 1}, line ${st.line}`);
+}
+
 function remember<K, V>(map: Map<K, V>, key: K, value: V, max: number): void {
   if (map.size >= max) map.delete(map.keys().next().value as K);
   map.set(key, value);
@@ -95,6 +101,7 @@ export function createSheetEngine(): SheetEngine {
     return u;
   };
   const cellCache = new Map<string, CachedCell>();
+  const recentPlans = new Map<string, SheetPlan>();
   // An input table's value (columns as vectors of quantities), built once per attachment content.
   const tableCache = new Map<string, Record<string, unknown>>();
   const tableValue = (table: InputTable): Record<string, unknown> => {
@@ -211,6 +218,30 @@ export function createSheetEngine(): SheetEngine {
     return value;
   }
 
+  /**
+   * A cell's cache key: the settings, its position and text, the static part of its plan, the keys
+   * of the cells that defined the names it reads, and how many of the sheet's Monte Carlo
+   * propagations are left (which decides which it may run). Hashed again only when one changed.
+   */
+  function cellKey(cellPlan: CellPlan, settings: string, cellText: string, run: SheetRun): string {
+    const { nameKey, failed } = run;
+    const monteCarloUsed = run.inputU.size > 0 ? Math.min(run.monteCarloRequests, MONTE_CARLO_PER_SHEET) : -1;
+    const last = cellPlan.lastKey;
+    if (last && last.settings === settings && last.monteCarloUsed === monteCarloUsed) {
+      let same = true;
+      for (let i = 0; i < cellPlan.definedAbove.length && same; i++)
+        same = (nameKey.get(cellPlan.definedAbove[i]) ?? null) === last.inputs[i];
+      if (same) return last.key;
+    }
+    const inputs = cellPlan.definedAbove.map((n) => nameKey.get(n) ?? `failed:${failed.get(n) ?? ''}`);
+    const hash = createHash('sha256').update(`${settings}\0${cellText}\0${cellPlan.staticKey}`);
+    inputs.forEach((v, i) => hash.update(`\0${cellPlan.definedAbove[i]}=${v}`));
+    if (monteCarloUsed >= 0) hash.update(`\0monteCarloUsed:${monteCarloUsed}`);
+    const key = hash.digest('base64');
+    cellPlan.lastKey = { settings, monteCarloUsed, inputs, key };
+    return key;
+  }
+
   function evaluate(cells: CellInput[], options: EvaluateOptions, hooks: EvaluateHooks = {}): SheetResult {
     if (cells.length > LIMITS.maxCells) throw new Error(`a sheet holds at most ${LIMITS.maxCells} cells`);
     const sig = Math.min(15, Math.max(2, Math.round(options.significantFigures)));
@@ -221,11 +252,23 @@ export function createSheetEngine(): SheetEngine {
 
     // Parse, then plan.
     const parsed = cells.map((c) => (c.kind === 'calc' ? parser.parseCell(c.source) : []));
-    const plan: SheetPlan = planSheet(em, cells, parsed, {
-      tables: options.tables ?? [],
-      formKeyParts: (st) => (st.form?.keyParts ? st.form.keyParts(st, { resolved }) : []),
-      monteCarloAlways: options.monteCarlo === 'always',
-    });
+    // The previous plan of the same sheet (same scope, same cells), to plan only what was edited.
+    const planKey = `${hooks.cacheScope ?? ''}\0${cells.map((c) => c.id).join('\0')}`;
+    const plan: SheetPlan = planSheet(
+      em,
+      cells,
+      parsed,
+      {
+        tables: options.tables ?? [],
+        references: options.references ?? [],
+        formKeyParts: (st) => (st.form?.keyParts ? st.form.keyParts(st, { resolved }) : []),
+        monteCarloAlways: options.monteCarlo === 'always',
+      },
+      recentPlans.get(planKey),
+    );
+    recentPlans.delete(planKey);
+    remember(recentPlans, planKey, plan, 16);
+    const settings = `${hooks.cacheScope ?? ''}\0${sig}\0${displayUnits}`;
     const run = new SheetRun(em, plan, sig, resolved, options.monteCarlo, unitLiteral);
     const { scope, definedAt, failed, nameKey } = run;
     for (const [name, table] of plan.tables) {
@@ -269,13 +312,7 @@ export function createSheetEngine(): SheetEngine {
       // name cells by number), the display precision, the keys of the cells that defined what it
       // uses (the rest is in the plan), and how many of the sheet's Monte Carlo propagations are
       // left, which decides which this cell may run.
-      const hash = createHash('sha256').update(
-        `${hooks.cacheScope ?? ''}\0${sig}\0${displayUnits}\0${ci}\0${cell.source}\0${cellPlan.staticKey}`,
-      );
-      for (const n of cellPlan.definedAbove) hash.update(`\0${n}=${nameKey.get(n) ?? `failed:${failed.get(n) ?? ''}`}`);
-      if (run.inputU.size > 0)
-        hash.update(`\0monteCarloUsed:${Math.min(run.monteCarloRequests, MONTE_CARLO_PER_SHEET)}`);
-      const key = hash.digest('base64');
+      const key = cellKey(cellPlan, settings, `${ci}\0${cell.source}`, run);
 
       const cached = skipReason ? undefined : cellCache.get(key);
       if (cached) {
@@ -309,14 +346,10 @@ export function createSheetEngine(): SheetEngine {
           value: null,
           criterion: null,
           error: null,
-          warnings: st.lint.filter((f) => !plan.lintSilenced(f.name)).map((f) => f.message),
+          warnings: st.lint.length ? st.lint.filter((f) => !plan.lintSilenced(f.name)).map((f) => f.message) : [],
         };
         out.push(result);
         shown.push(NOT_SHOWN);
-        const fail = (message: string) => {
-          result.error = message;
-          if (st.defines) cellRun.failed.set(st.defines, `it has an error in cell ${ci + 1}, line ${st.line}`);
-        };
         // Register the definition first, so that later uses of a name whose statement fails read
         // "depends on …, which has an error" rather than "not defined".
         if (st.defines) {
@@ -336,7 +369,7 @@ export function createSheetEngine(): SheetEngine {
             ? `cannot read this line: ${st.parseError}`
             : (st.staticError ?? unavailable(st, run, cellRun));
         if (problem) {
-          fail(problem);
+          fail(result, st, cellRun, problem);
           continue;
         }
         try {
@@ -346,6 +379,9 @@ export function createSheetEngine(): SheetEngine {
           // mathjs's own wording never reaches a person (messages.ts); the engine's and the
           // library's messages pass through.
           fail(
+            result,
+            st,
+            cellRun,
             engineerMessage(error, {
               math,
               node: st.form!.messageNode(st),
@@ -410,6 +446,7 @@ export function createSheetEngine(): SheetEngine {
     cacheSize: () => cellCache.size,
     clearCache: () => {
       cellCache.clear();
+      recentPlans.clear();
       parser.clear();
     },
   };

@@ -48,8 +48,14 @@ const WORD_CHAR = new RegExp(`[${NAME_CHAR}.]`);
 const POWER = /\^\s*(?:-?\d+(?:\.\d+)?|\(\s*-?\d+(?:\.\d+)?\s*\))/y;
 const NUMBER = /(?:\d+\.?\d*|\.\d+)(?:[eE][+-]?\d+)?/y;
 
+const placeholders = new Map<string, string>();
 function placeholderFor(unit: string): string {
-  return `${UNIT_PLACEHOLDER_PREFIX}${Buffer.from(unit, 'utf8').toString('hex')}`;
+  let known = placeholders.get(unit);
+  if (known === undefined) {
+    known = `${UNIT_PLACEHOLDER_PREFIX}${Buffer.from(unit, 'utf8').toString('hex')}`;
+    if (placeholders.size < 10_000) placeholders.set(unit, known);
+  }
+  return known;
 }
 
 export function unitOfPlaceholder(name: string): string | null {

@@ -3,7 +3,7 @@
 // recognised by its form (forms/). Parsed cells are cached by their text (per engine).
 import type { MathNode } from 'mathjs';
 import { bidiRefusalReason, findBidiControl } from '../bidi-controls';
-import { lintExpression } from '../lint';
+import { lintExpression, mayNeedLint } from '../lint';
 import { LIMITS } from '../limits';
 import { REFUSED_NAMES, type EngineMath } from '../math-instance';
 import { parseMessage } from '../messages';
@@ -157,10 +157,12 @@ function readStatement(em: EngineMath, st: ParsedStatement, text: string): void 
   }
   if (recognisable) st.form = FORMS.find((f) => f.recognise(st, node, em)) ?? null;
   if (st.defines) st.staticError ??= checkDefinitionName(st.defines, em);
-  try {
-    st.lint = lintExpression(node.type === 'AssignmentNode' ? node.value! : node, em);
-  } catch {
-    st.lint = [];
+  if (mayNeedLint(text)) {
+    try {
+      st.lint = lintExpression(node.type === 'AssignmentNode' ? node.value! : node, em);
+    } catch {
+      st.lint = [];
+    }
   }
 }
 

@@ -13,7 +13,7 @@ import type { ParsedStatement } from './statement';
 
 type Position = { cell: number; line: number };
 
-interface CellPlan {
+export interface CellPlan {
   /** Names the cell defines. */
   ownNames: string[];
   /** Names the cell reads from outside itself, sorted (as `CellResult.uses`). */
@@ -22,6 +22,11 @@ interface CellPlan {
   definedAbove: string[];
   /** The part of the cell's cache key known before evaluation. */
   staticKey: string;
+  /**
+   * The cell's key in the last evaluation and what it was made of (run.ts): when the keys of the
+   * cells it reads are the same again, so is its key, and it is not hashed again.
+   */
+  lastKey: { settings: string; monteCarloUsed: number; inputs: string[]; key: string } | null;
 }
 
 export interface SheetPlan {
@@ -46,7 +51,11 @@ export interface SheetPlan {
   /** Names a misspelt name may have meant. */
   messageNames: { candidates: () => string[]; caseCandidates: () => string[] };
   calledQuantityMessage(name: string): string;
+  /** The correlations as part of every cell's key (they hold for every result). */
+  correlationContext: string;
   cells: Array<CellPlan | null>;
+  /** What the plan was made from, to make the next plan of the same sheet from it (`planSheet`). */
+  basis: { sources: string[]; kinds: string[]; options: string; definitions: Array<string | null> };
 }
 
 /** Names a misspelt name is compared with: functions, mathematical values and units (any case). */
@@ -73,16 +82,90 @@ function builtinNamesOf(em: EngineMath): { names: string[]; units: string[] } {
 
 export interface PlanOptions {
   tables: readonly InputTable[];
+  /** The citations as resolved for this evaluation (their resolution is part of citing cells' keys). */
+  references: readonly unknown[];
   /** Extra key parts of a statement, by its form (citations: their resolution). */
   formKeyParts: (st: ParsedStatement) => string[];
   monteCarloAlways: boolean;
 }
 
+/**
+ * What a cell contributes to the sheet's plan beyond its own key: the names it defines, where and
+ * how, its inputs with an uncertainty and its correlations; null when it defines a function (whose
+ * body the sheet's messages quote).
+ */
+function definitionsOf(statements: ParsedStatement[]): string | null {
+  let text = '';
+  for (const st of statements) {
+    if (st.kind === 'function') return null;
+    if (st.defines) text += `${st.line}:${st.defines}:${st.kind}:${st.uncertain && !st.parseError && !st.staticError}|`;
+    if (st.correlation) text += `${st.line}:~${st.correlation.a},${st.correlation.b},${st.correlation.r}|`;
+  }
+  return text;
+}
+
+/**
+ * The plan of a sheet. Given the plan of the same sheet's previous evaluation, cells whose text is
+ * unchanged keep their part of it when the edited cells define the same names at the same places
+ * (the usual edit): the cost then follows the cells edited, not the sheet's length.
+ */
 export function planSheet(
   em: EngineMath,
   cells: CellInput[],
   parsed: ParsedStatement[][],
   options: PlanOptions,
+  previous?: SheetPlan,
+): SheetPlan {
+  const basisOptions = JSON.stringify([
+    options.tables.map((t) => [t.name, t.sha256, t.fileName]),
+    options.references,
+    options.monteCarloAlways,
+  ]);
+  if (previous && previous.basis.options === basisOptions && previous.basis.sources.length === cells.length) {
+    const reused = replan(em, previous, cells, parsed, options);
+    if (reused) return reused;
+  }
+  return planAnew(em, cells, parsed, options, basisOptions);
+}
+
+function replan(
+  em: EngineMath,
+  previous: SheetPlan,
+  cells: CellInput[],
+  parsed: ParsedStatement[][],
+  options: PlanOptions,
+): SheetPlan | null {
+  const { basis } = previous;
+  const changed: number[] = [];
+  for (let ci = 0; ci < cells.length; ci++) {
+    if (cells[ci].kind !== basis.kinds[ci]) return null;
+    if (cells[ci].source !== basis.sources[ci]) {
+      if (changed.length >= 16) return null;
+      changed.push(ci);
+    }
+  }
+  const definitions = basis.definitions.slice();
+  for (const ci of changed) {
+    const now = definitionsOf(parsed[ci]);
+    if (now === null || now !== basis.definitions[ci]) return null;
+    definitions[ci] = now;
+  }
+  const plan: SheetPlan = {
+    ...previous,
+    parsed,
+    cells: previous.cells.slice(),
+    basis: { sources: cells.map((c) => c.source), kinds: basis.kinds, options: basis.options, definitions },
+  };
+  for (const ci of changed) plan.cells[ci] = cells[ci].kind === 'text' ? null : cellPlanOf(em, plan, ci, options);
+  return plan;
+}
+
+function planAnew(
+  em: EngineMath,
+  cells: CellInput[],
+  parsed: ParsedStatement[][],
+  options: PlanOptions,
+  basisOptions: string,
 ): SheetPlan {
   const tables = new Map(options.tables.map((t) => [t.name, t]));
   const firstDefinition = new Map<string, Position>();
@@ -126,45 +209,7 @@ export function planSheet(
         ]
       : st.uses;
 
-  const cellPlans = cells.map((cell, ci): CellPlan | null => {
-    if (cell.kind === 'text') return null;
-    const statements = parsed[ci];
-    const ownNames: string[] = [];
-    for (const st of statements) if (st.defines && !ownNames.includes(st.defines)) ownNames.push(st.defines);
-    const above = (n: string) => {
-      const at = firstDefinition.get(n);
-      return at !== undefined && at.cell < ci;
-    };
-    const used = new Set<string>();
-    for (const st of statements) for (const n of usesOf(st)) used.add(n);
-    const external = [...used].filter((n) => !ownNames.includes(n) || above(n)).sort();
-    const definedAbove = external.filter(above);
-    const parts: string[] = [];
-    for (const n of external) {
-      if (above(n)) continue;
-      const later = firstDefinition.get(n);
-      // An undefined name's message suggests names of the sheet: the suggestion is part of the key.
-      parts.push(
-        `${n}=${later ? `later:${later.cell}:${later.line}` : `undefined:${em.isFunctionName(n) ? '' : notDefined(n, messageNames)}`}`,
-      );
-    }
-    for (const n of ownNames) {
-      const at = firstDefinition.get(n)!;
-      parts.push(`own:${n}=${at.cell < ci ? `${at.cell}:${at.line}` : 'new'}`);
-    }
-    for (const st of statements) parts.push(...options.formKeyParts(st));
-    if (options.monteCarloAlways && ownNames.length) parts.push('monteCarlo:always');
-    if (correlationContext) parts.push(correlationContext);
-    // Whether the sheet defines a name the lint flags decides whether the warning shows.
-    const linted = new Set(statements.flatMap((st) => st.lint.map((f) => f.name)));
-    for (const n of linted) parts.push(`lint:${n}=${lintSilenced(n)}`);
-    // Whether the sheet defines a unit name written after a number's unit with a space (`1 T m`).
-    const spaced = new Set(statements.flatMap((st) => st.unitLiterals.flatMap((l) => l.spacedNames ?? [])));
-    for (const n of spaced) parts.push(`spaced:${n}=${firstDefinition.has(n)}`);
-    return { ownNames, external, definedAbove, staticKey: parts.join('\0') };
-  });
-
-  return {
+  const plan: SheetPlan = {
     parsed,
     tables,
     firstDefinition,
@@ -173,7 +218,7 @@ export function planSheet(
     staticallyUncertain,
     correlations,
     pairKey,
-    correlationOf: (a, b) => (a === b ? 1 : (correlations.get(pairKey(a, b))?.r ?? 0)),
+    correlationOf: (a: string, b: string) => (a === b ? 1 : (correlations.get(pairKey(a, b))?.r ?? 0)),
     usesOf,
     lintSilenced,
     messageNames,
@@ -187,6 +232,55 @@ export function planSheet(
       }
       return `\`${name}\` is a quantity (defined in ${where}), not a function: write \`${name} * (…)\` for a product, or define a function such as f(x) = …`;
     },
-    cells: cellPlans,
+    cells: [],
+    basis: {
+      sources: cells.map((c) => c.source),
+      kinds: cells.map((c) => c.kind),
+      options: basisOptions,
+      definitions: parsed.map(definitionsOf),
+    },
+    correlationContext,
   };
+  plan.cells = cells.map((cell, ci) => (cell.kind === 'text' ? null : cellPlanOf(em, plan, ci, options)));
+  return plan;
+}
+
+/** A calculation cell's names and the part of its cache key known before evaluation. */
+function cellPlanOf(em: EngineMath, plan: SheetPlan, ci: number, options: PlanOptions): CellPlan {
+  const { firstDefinition, usesOf, lintSilenced, messageNames, correlationContext } = plan;
+  const statements = plan.parsed[ci];
+  const ownNames: string[] = [];
+  for (const st of statements) if (st.defines && !ownNames.includes(st.defines)) ownNames.push(st.defines);
+  const used = new Set<string>();
+  for (const st of statements) for (const n of usesOf(st)) used.add(n);
+  const external: string[] = [];
+  const definedAbove: string[] = [];
+  const parts: string[] = [];
+  for (const n of [...used].sort()) {
+    const at = firstDefinition.get(n);
+    const above = at !== undefined && at.cell < ci;
+    if (above) definedAbove.push(n);
+    if (ownNames.includes(n) && !above) continue;
+    external.push(n);
+    if (above) continue;
+    // An undefined name's message suggests names of the sheet: the suggestion is part of the key.
+    parts.push(
+      `${n}=${at ? `later:${at.cell}:${at.line}` : `undefined:${em.isFunctionName(n) ? '' : notDefined(n, messageNames)}`}`,
+    );
+  }
+  for (const n of ownNames) {
+    const at = firstDefinition.get(n)!;
+    parts.push(`own:${n}=${at.cell < ci ? `${at.cell}:${at.line}` : 'new'}`);
+  }
+  for (const st of statements) {
+    if (st.form?.keyParts) parts.push(...options.formKeyParts(st));
+    // Whether the sheet defines a name the lint flags decides whether the warning shows.
+    for (const f of st.lint) parts.push(`lint:${f.name}=${lintSilenced(f.name)}`);
+    // Whether the sheet defines a unit name written after a number's unit with a space (`1 T m`).
+    for (const l of st.unitLiterals)
+      for (const n of l.spacedNames ?? []) parts.push(`spaced:${n}=${firstDefinition.has(n)}`);
+  }
+  if (options.monteCarloAlways && ownNames.length) parts.push('monteCarlo:always');
+  if (correlationContext) parts.push(correlationContext);
+  return { ownNames, external, definedAbove, staticKey: parts.join('\0'), lastKey: null };
 }
