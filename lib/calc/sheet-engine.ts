@@ -322,7 +322,7 @@ export function createSheetEngine(): SheetEngine {
         run.monteCarloRequests += cached.monteCarloRequests;
         for (const st of statements)
           if (st.defines && !definedAt.has(st.defines)) definedAt.set(st.defines, { cell: ci, line: st.line });
-        for (const name of cellPlan.ownNames) nameKey.set(name, key);
+        for (const name of cellPlan.definesFirst) nameKey.set(name, key);
         const r = cached.result;
         results.push(r.id === cell.id ? r : { ...r, id: cell.id, index: ci });
         continue;
@@ -397,7 +397,7 @@ export function createSheetEngine(): SheetEngine {
       }
 
       for (const [name, why] of cellRun.failed) failed.set(name, why);
-      for (const name of cellPlan.ownNames) nameKey.set(name, key);
+      for (const name of cellPlan.definesFirst) nameKey.set(name, key);
       const firstError = out.find((s) => s.error)?.error ?? null;
       const presented = new PresentedStatements(out, { presentation, cell: ci, parsed: statements, shown });
       if (hooks.presentEachCell) presented.get();
