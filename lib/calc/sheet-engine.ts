@@ -7,7 +7,7 @@
 // engine/forms/), plan (engine/plan.ts: definitions, correlations and the cells' cache keys, before
 // anything is evaluated) and evaluate (below: the generic checks every statement passes, then its
 // form's evaluation). Typesetting and display formatting are not on this path (engine/present.ts).
-import { createHash } from 'node:crypto';
+import { hash } from 'node:crypto';
 import type { MathJsInstance, Unit } from 'mathjs';
 import { CONSTANTS_EDITION } from './constants';
 import { DISPLAY_UNITS_DEFAULT, setDisplayUnits, type DisplayUnits } from './display-units';
@@ -234,10 +234,10 @@ export function createSheetEngine(): SheetEngine {
       if (same) return last.key;
     }
     const inputs = cellPlan.definedAbove.map((n) => nameKey.get(n) ?? `failed:${failed.get(n) ?? ''}`);
-    const hash = createHash('sha256').update(`${settings}\0${cellText}\0${cellPlan.staticKey}`);
-    inputs.forEach((v, i) => hash.update(`\0${cellPlan.definedAbove[i]}=${v}`));
-    if (monteCarloUsed >= 0) hash.update(`\0monteCarloUsed:${monteCarloUsed}`);
-    const key = hash.digest('base64');
+    let text = `${settings}\0${cellText}\0${cellPlan.staticKey}`;
+    for (let i = 0; i < inputs.length; i++) text += `\0${cellPlan.definedAbove[i]}=${inputs[i]}`;
+    if (monteCarloUsed >= 0) text += `\0monteCarloUsed:${monteCarloUsed}`;
+    const key = hash('sha256', text, 'base64');
     cellPlan.lastKey = { settings, monteCarloUsed, inputs, key };
     return key;
   }

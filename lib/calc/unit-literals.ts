@@ -126,6 +126,34 @@ export function readUnitExpression(
   }
 }
 
+/** ASCII fast paths of the character classes above (other characters are asked of the regular expressions). */
+function isWordStart(ch: string): boolean {
+  const c = ch.charCodeAt(0);
+  if (c < 128) return (c >= 65 && c <= 90) || (c >= 97 && c <= 122) || c === 95;
+  return WORD_START.test(ch);
+}
+function isWordChar(ch: string): boolean {
+  const c = ch.charCodeAt(0);
+  if (c < 128) return (c >= 65 && c <= 90) || (c >= 97 && c <= 122) || (c >= 48 && c <= 57) || c === 95 || c === 46;
+  return WORD_CHAR.test(ch);
+}
+
+/** The unit expression written from `from` to `to` as one placeholder, recorded once per statement. */
+function takeUnit(line: string, from: number, to: number, literals: UnitLiteral[], spacedNames: string[]): string {
+  const written = line.slice(from, to);
+  const unit = written
+    .replace(/\s*([*/^])\s*/g, '$1')
+    .replace(/\(\s+/g, '(')
+    .replace(/\s+\)/g, ')')
+    .replace(/\s+/g, '*');
+  const placeholder = placeholderFor(unit);
+  const known = literals.find((l) => l.placeholder === placeholder);
+  if (!known) literals.push({ placeholder, unit, ...(spacedNames.length ? { spacedNames, written } : {}) });
+  else if (spacedNames.length)
+    Object.assign(known, { spacedNames: [...new Set([...(known.spacedNames ?? []), ...spacedNames])], written });
+  return placeholder;
+}
+
 /** Replaces unit literals of one statement (comment already removed) by placeholders. */
 export function extractUnitLiterals(
   line: string,
@@ -133,76 +161,56 @@ export function extractUnitLiterals(
 ): { text: string; literals: UnitLiteral[] } {
   const literals: UnitLiteral[] = [];
   let out = '';
+  // Characters from `copied` to `i` are copied as they are when the next placeholder is written.
+  let copied = 0;
   let i = 0;
   let quote: string | null = null;
-  const take = (from: number, to: number, spacedNames: string[] = []) => {
-    const written = line.slice(from, to);
-    // Spaces around operators and inside a power's parentheses go; a space between two units multiplies.
-    const unit = written
-      .replace(/\s*([*/^])\s*/g, '$1')
-      .replace(/\(\s+/g, '(')
-      .replace(/\s+\)/g, ')')
-      .replace(/\s+/g, '*');
-    const placeholder = placeholderFor(unit);
-    const known = literals.find((l) => l.placeholder === placeholder);
-    if (!known) literals.push({ placeholder, unit, ...(spacedNames.length ? { spacedNames, written } : {}) });
-    else if (spacedNames.length)
-      Object.assign(known, { spacedNames: [...new Set([...(known.spacedNames ?? []), ...spacedNames])], written });
-    out += placeholder;
-  };
   while (i < line.length) {
     const ch = line[i];
     if (quote) {
-      out += ch;
-      if (ch === '\\' && i + 1 < line.length) out += line[++i];
+      if (ch === '\\' && i + 1 < line.length) i++;
       else if (ch === quote) quote = null;
       i++;
       continue;
     }
     if (ch === '"' || ch === "'") {
       quote = ch;
-      out += ch;
       i++;
       continue;
     }
-    const prev = i > 0 ? line[i - 1] : '';
-    if (WORD_START.test(ch)) {
+    if (isWordStart(ch)) {
       WORD.lastIndex = i;
       const word = WORD.exec(line)![0];
-      out += word;
       i += word.length;
       if ((word === 'to' || word === 'in') && /\s/.test(line[i] ?? '')) {
         let j = i;
         while (line[j] === ' ' || line[j] === '\t') j++;
         const end = readUnitExpression(line, j, isUnit, true);
         if (end > j) {
-          out += line.slice(i, j);
-          take(j, end);
-          i = end;
+          out += line.slice(copied, j) + takeUnit(line, j, end, literals, []);
+          i = copied = end;
         }
       }
       continue;
     }
-    if (/[0-9.]/.test(ch) && !WORD_CHAR.test(prev)) {
+    const c = ch.charCodeAt(0);
+    if (((c >= 48 && c <= 57) || c === 46) && !(i > 0 && isWordChar(line[i - 1]))) {
       NUMBER.lastIndex = i;
       const m = NUMBER.exec(line);
       if (m) {
-        out += m[0];
         i += m[0].length;
         let j = i;
         while (line[j] === ' ' || line[j] === '\t') j++;
         const spacedNames: string[] = [];
         const end = readUnitExpression(line, j, isUnit, false, spacedNames);
         if (end > j) {
-          out += line.slice(i, j);
-          take(j, end, spacedNames);
-          i = end;
+          out += line.slice(copied, j) + takeUnit(line, j, end, literals, spacedNames);
+          i = copied = end;
         }
         continue;
       }
     }
-    out += ch;
     i++;
   }
-  return { text: out, literals };
+  return { text: copied === 0 ? line : out + line.slice(copied), literals };
 }

@@ -257,12 +257,13 @@ function cellPlanOf(em: EngineMath, plan: SheetPlan, ci: number, options: PlanOp
   const statements = plan.parsed[ci];
   const ownNames: string[] = [];
   for (const st of statements) if (st.defines && !ownNames.includes(st.defines)) ownNames.push(st.defines);
-  const used = new Set<string>();
-  for (const st of statements) for (const n of usesOf(st)) used.add(n);
+  const used: string[] = [];
+  for (const st of statements) for (const n of usesOf(st)) if (!used.includes(n)) used.push(n);
+  if (used.length > 1) used.sort();
   const external: string[] = [];
   const definedAbove: string[] = [];
   const parts: string[] = [];
-  for (const n of [...used].sort()) {
+  for (const n of used) {
     const at = firstDefinition.get(n);
     const above = at !== undefined && at.cell < ci;
     if (above) definedAbove.push(n);
