@@ -60,7 +60,9 @@ interface EvaluateHooks {
 
 interface CachedCell {
   result: CellResult;
-  values: Map<string, unknown>;
+  /** The names the cell defines and their values, side by side. */
+  names: string[];
+  values: unknown[];
   failed: Map<string, string>;
   /** Standard uncertainties of the inputs the cell defines (`x = value ± u`). */
   uncertainties: Map<string, unknown>;
@@ -141,7 +143,7 @@ export function createSheetEngine(): SheetEngine {
    * before its definition or unknown, a quantity called as a function, a missing table column), or null.
    */
   function unavailable(st: ParsedStatement, run: SheetRun, cell: CellRun): string | null {
-    const { plan, definedAt, tables } = run;
+    const { plan, tables } = run;
     // `1 T m`: a unit name joined by a space after a number's unit, which the sheet also defines.
     const spacedUnit = st.unitLiterals.find((l) => l.spacedNames?.some((n) => plan.firstDefinition.has(n)));
     if (spacedUnit) {
@@ -157,7 +159,7 @@ export function createSheetEngine(): SheetEngine {
     );
     if (calledQuantity) return plan.calledQuantityMessage(calledQuantity);
     for (const name of plan.usesOf(st)) {
-      if (definedAt.has(name)) {
+      if (run.isDefined(name)) {
         const why = run.failed.get(name) ?? cell.failed.get(name);
         if (why) return `depends on \`${name}\`, which is not available: ${why}`;
         continue;
@@ -224,16 +226,16 @@ export function createSheetEngine(): SheetEngine {
    * propagations are left (which decides which it may run). Hashed again only when one changed.
    */
   function cellKey(cellPlan: CellPlan, settings: string, cellText: string, run: SheetRun): string {
-    const { nameKey, failed } = run;
+    const { failed } = run;
     const monteCarloUsed = run.inputU.size > 0 ? Math.min(run.monteCarloRequests, MONTE_CARLO_PER_SHEET) : -1;
     const last = cellPlan.lastKey;
     if (last && last.settings === settings && last.monteCarloUsed === monteCarloUsed) {
       let same = true;
       for (let i = 0; i < cellPlan.definedAbove.length && same; i++)
-        same = (nameKey.get(cellPlan.definedAbove[i]) ?? null) === last.inputs[i];
+        same = (run.keyOf(cellPlan.definedAbove[i]) ?? null) === last.inputs[i];
       if (same) return last.key;
     }
-    const inputs = cellPlan.definedAbove.map((n) => nameKey.get(n) ?? `failed:${failed.get(n) ?? ''}`);
+    const inputs = cellPlan.definedAbove.map((n) => run.keyOf(n) ?? `failed:${failed.get(n) ?? ''}`);
     let text = `${settings}\0${cellText}\0${cellPlan.staticKey}`;
     for (let i = 0; i < inputs.length; i++) text += `\0${cellPlan.definedAbove[i]}=${inputs[i]}`;
     if (monteCarloUsed >= 0) text += `\0monteCarloUsed:${monteCarloUsed}`;
@@ -270,11 +272,10 @@ export function createSheetEngine(): SheetEngine {
     remember(recentPlans, planKey, plan, 16);
     const settings = `${hooks.cacheScope ?? ''}\0${sig}\0${displayUnits}`;
     const run = new SheetRun(em, plan, sig, resolved, options.monteCarlo, unitLiteral);
-    const { scope, definedAt, failed, nameKey } = run;
+    const { scope, failed } = run;
     for (const [name, table] of plan.tables) {
       scope.set(name, tableValue(table));
-      definedAt.set(name, { cell: -1, line: 0 });
-      nameKey.set(name, `table:${table.sha256}:${table.fileName}`);
+      run.tableKeys.set(name, `table:${table.sha256}:${table.fileName}`);
     }
     const presentation: Presentation = {
       math,
@@ -307,6 +308,8 @@ export function createSheetEngine(): SheetEngine {
         continue;
       }
       const statements = parsed[ci];
+      run.atCell = ci;
+      run.atLine = 0;
       const skipReason = hooks.skip?.get(cell.id);
       // The key covers everything the cell's results depend on: its text, its position (messages
       // name cells by number), the display precision, the keys of the cells that defined what it
@@ -316,13 +319,11 @@ export function createSheetEngine(): SheetEngine {
 
       const cached = skipReason ? undefined : cellCache.get(key);
       if (cached) {
-        for (const [name, value] of cached.values) scope.set(name, value);
-        for (const [name, why] of cached.failed) failed.set(name, why);
-        for (const [name, u] of cached.uncertainties) run.inputU.set(name, u);
+        for (let i = 0; i < cached.names.length; i++) scope.set(cached.names[i], cached.values[i]);
+        if (cached.failed.size) for (const [name, why] of cached.failed) failed.set(name, why);
+        if (cached.uncertainties.size) for (const [name, u] of cached.uncertainties) run.inputU.set(name, u);
         run.monteCarloRequests += cached.monteCarloRequests;
-        for (const st of statements)
-          if (st.defines && !definedAt.has(st.defines)) definedAt.set(st.defines, { cell: ci, line: st.line });
-        for (const name of cellPlan.definesFirst) nameKey.set(name, key);
+        run.cellKeys[ci] = key;
         const r = cached.result;
         results.push(r.id === cell.id ? r : { ...r, id: cell.id, index: ci });
         continue;
@@ -336,6 +337,7 @@ export function createSheetEngine(): SheetEngine {
       const shown: unknown[] = [];
 
       for (const st of statements) {
+        run.atLine = st.line;
         const result: StatementResult = {
           line: st.line,
           source: st.source,
@@ -353,15 +355,14 @@ export function createSheetEngine(): SheetEngine {
         // Register the definition first, so that later uses of a name whose statement fails read
         // "depends on …, which has an error" rather than "not defined".
         if (st.defines) {
-          const earlier = definedAt.get(st.defines);
-          if (earlier) {
+          const earlier = plan.firstDefinition.get(st.defines)!;
+          if (earlier.cell !== ci || earlier.line !== st.line) {
             const table = plan.tables.get(st.defines);
             result.error = table
               ? `\`${st.defines}\` is the input table read from the attachment ${table.fileName}; a name is defined once per sheet`
               : `\`${st.defines}\` is already defined in cell ${earlier.cell + 1}, line ${earlier.line}; a name is defined once per sheet`;
             continue;
           }
-          definedAt.set(st.defines, { cell: ci, line: st.line });
         }
         const problem = skipReason
           ? skipReason
@@ -397,7 +398,7 @@ export function createSheetEngine(): SheetEngine {
       }
 
       for (const [name, why] of cellRun.failed) failed.set(name, why);
-      for (const name of cellPlan.definesFirst) nameKey.set(name, key);
+      run.cellKeys[ci] = key;
       const firstError = out.find((s) => s.error)?.error ?? null;
       const presented = new PresentedStatements(out, { presentation, cell: ci, parsed: statements, shown });
       if (hooks.presentEachCell) presented.get();
@@ -421,7 +422,8 @@ export function createSheetEngine(): SheetEngine {
           key,
           {
             result: cellResult,
-            values: cellRun.values,
+            names: [...cellRun.values.keys()],
+            values: [...cellRun.values.values()],
             failed: cellRun.failed,
             uncertainties: cellRun.uncertainties,
             monteCarloRequests: run.monteCarloRequests - requestsBefore,

@@ -16,12 +16,6 @@ type Position = { cell: number; line: number };
 export interface CellPlan {
   /** Names the cell defines. */
   ownNames: string[];
-  /**
-   * The names whose first definition is in this cell: the cells that read them take this cell's key
-   * into theirs. A name defined again here (an error) keeps the key of the cell that first defined
-   * it, so that editing the first definition still reaches every cell that reads it.
-   */
-  definesFirst: string[];
   /** Names the cell reads from outside itself, sorted (as `CellResult.uses`). */
   external: string[];
   /** Of `external`, those defined above the cell (input tables included): their cells' keys enter its key. */
@@ -289,6 +283,5 @@ function cellPlanOf(em: EngineMath, plan: SheetPlan, ci: number, options: PlanOp
   }
   if (options.monteCarloAlways && ownNames.length) parts.push('monteCarlo:always');
   if (correlationContext) parts.push(correlationContext);
-  const definesFirst = ownNames.filter((n) => firstDefinition.get(n)!.cell === ci);
-  return { ownNames, definesFirst, external, definedAbove, staticKey: parts.join('\0'), lastKey: null };
+  return { ownNames, external, definedAbove, staticKey: parts.join('\0'), lastKey: null };
 }

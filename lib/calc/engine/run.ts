@@ -33,11 +33,15 @@ function chainNode(st: ParsedStatement) {
 export class SheetRun {
   readonly math: MathJsInstance;
   readonly scope: Map<string, unknown>;
-  readonly definedAt = new Map<string, { cell: number; line: number }>();
+  /** The statement being evaluated (cell −1 before the first): what is defined is what stands up to it. */
+  atCell = -1;
+  atLine = 0;
   /** Names whose value is unavailable, with why. */
   readonly failed = new Map<string, string>();
-  /** Cache key of the cell that defined each name, so a dependent cell's key changes with it. */
-  readonly nameKey = new Map<string, string>();
+  /** Cache key of each cell evaluated so far (a cell reading a name takes its defining cell's key). */
+  readonly cellKeys: string[] = [];
+  /** Keys of the input tables, which are defined before the first cell. */
+  readonly tableKeys = new Map<string, string>();
   /** Standard uncertainties of the inputs that carry one, by name. */
   readonly inputU = new Map<string, unknown>();
   readonly resolved: ReadonlyMap<string, ResolvedReference>;
@@ -63,6 +67,22 @@ export class SheetRun {
 
   get tables() {
     return this.plan.tables;
+  }
+
+  /**
+   * Is the name defined at the statement being evaluated (its first definition stands at or above
+   * it, or it is an input table)? A name defined again later is still defined where it first was.
+   */
+  isDefined(name: string): boolean {
+    const at = this.plan.firstDefinition.get(name);
+    return at !== undefined && (at.cell < this.atCell || (at.cell === this.atCell && at.line <= this.atLine));
+  }
+
+  /** The cache key of the cell that first defined a name (or of the input table), if evaluated. */
+  keyOf(name: string): string | undefined {
+    const at = this.plan.firstDefinition.get(name);
+    if (at === undefined) return undefined;
+    return at.cell < 0 ? this.tableKeys.get(name) : this.cellKeys[at.cell];
   }
 
   /** Stores a value the cell defines. */

@@ -40,7 +40,7 @@ export const correlation: StatementForm = {
     const { a, b, r } = st.correlation!;
     const { plan } = run;
     for (const name of [a, b]) {
-      if (!run.definedAt.has(name)) throw new Error(`\`${name}\` is not defined above`);
+      if (!run.isDefined(name)) throw new Error(`\`${name}\` is not defined above`);
       if (!plan.staticallyUncertain.has(name))
         throw new Error(`\`${name}\` carries no standard uncertainty (write it as ${name} = value ± u)`);
     }

@@ -44,7 +44,7 @@ export const study: StatementForm = {
     if (run.tables.has(input) || !run.chain().index.has(input))
       throw new Error(`\`${input}\` must be a value defined above to be swept`);
     for (const t of targets) {
-      if (!run.definedAt.has(t) || run.tables.has(t)) throw new Error(`\`${t}\` is not a result defined above`);
+      if (!run.isDefined(t) || run.tables.has(t)) throw new Error(`\`${t}\` is not a result defined above`);
     }
     const memo = new Map<string, boolean>();
     const out = computeStudy(math, run.reevaluator(), scope, {
