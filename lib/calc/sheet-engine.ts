@@ -399,9 +399,10 @@ export function createSheetEngine(): SheetEngine {
 
       for (const [name, why] of cellRun.failed) failed.set(name, why);
       run.cellKeys[ci] = key;
-      const firstError = out.find((s) => s.error)?.error ?? null;
       const presented = new PresentedStatements(out, { presentation, cell: ci, parsed: statements, shown });
+      // Presented at once, a value that cannot be shown is the cell's error too.
       if (hooks.presentEachCell) presented.get();
+      const firstError = out.find((s) => s.error)?.error ?? null;
       const cellResult = cellResultOf(
         {
           id: cell.id,

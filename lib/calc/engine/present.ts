@@ -114,7 +114,13 @@ function present(statements: StatementResult[], pending: Pending): void {
         }
       }
       if (shown[i] === NOT_SHOWN || !node) return;
-      result.value = displayOrExplain(math, shown[i], p.sig);
+      try {
+        result.value = displayValue(math, shown[i], p.sig) as DisplayValue;
+      } catch (error) {
+        // Never a blank where a value should be: the statement says why it shows none.
+        result.error = `the value cannot be shown: ${error instanceof Error ? error.message : String(error)}`;
+        return;
+      }
       try {
         result.substitutedTex = substitutedTex(node, texCtx);
       } catch {
@@ -123,23 +129,6 @@ function present(statements: StatementResult[], pending: Pending): void {
     });
   } finally {
     setDisplayUnits(math, before);
-  }
-}
-
-/** The value as shown; a value that cannot be formatted says so rather than showing nothing. */
-function displayOrExplain(math: MathJsInstance, value: unknown, sig: number): DisplayValue {
-  try {
-    return displayValue(math, value, sig) as DisplayValue;
-  } catch (error) {
-    const text = `the value cannot be shown: ${error instanceof Error ? error.message : String(error)}`;
-    return {
-      kind: 'other',
-      text,
-      tex: `\\text{${text.replace(/[\\{}$&#^_%~]/g, '')}}`,
-      number: null,
-      unit: null,
-      raw: null,
-    };
   }
 }
 
