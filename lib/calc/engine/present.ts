@@ -87,6 +87,20 @@ function valueTexOf(p: Presentation, name: string): string | undefined {
   return tex;
 }
 
+/** Every name written in the statement (each once), found once per statement text. */
+const symbolNames = new WeakMap<ParsedStatement, string[]>();
+function symbolsOf(st: ParsedStatement): string[] {
+  let names = symbolNames.get(st);
+  if (!names) {
+    const found = new Set<string>();
+    st.node!.traverse((n) => {
+      if ((n as { type: string }).type === 'SymbolNode') found.add((n as unknown as { name: string }).name);
+    });
+    symbolNames.set(st, (names = [...found]));
+  }
+  return names;
+}
+
 function present(statements: StatementResult[], pending: Pending): void {
   const { presentation: p, cell, parsed, shown } = pending;
   const { math, em, plan } = p;
@@ -105,12 +119,21 @@ function present(statements: StatementResult[], pending: Pending): void {
   setDisplayUnits(math, p.displayUnits);
   try {
     statements.forEach((result, i) => {
-      const node = parsed[i].node;
+      const st = parsed[i];
+      const node = st.node;
       if (node) {
-        try {
-          result.tex = formulaTex(node, texCtx);
-        } catch {
-          result.tex = '';
+        // Typeset once per statement text and reading of its names (a cell evaluated again
+        // because a value above changed reads the same; its substitution is made again).
+        let values = '';
+        for (const n of symbolsOf(st)) values += texCtx.isValueName(n) ? '1' : '0';
+        if (st.texMemo?.values === values) result.tex = st.texMemo.tex;
+        else {
+          try {
+            result.tex = formulaTex(node, texCtx);
+          } catch {
+            result.tex = '';
+          }
+          st.texMemo = { values, tex: result.tex };
         }
       }
       if (shown[i] === NOT_SHOWN || !node) return;

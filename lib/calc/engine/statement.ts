@@ -59,6 +59,11 @@ export interface ParsedStatement {
   lint: LintFinding[];
   /** The compiled expression the form evaluates, made on first use and kept with the parsed statement. */
   compiled?: { evaluate(scope: Map<string, unknown>): unknown };
+  /**
+   * The statement's formula typeset, with which of its names were values when it was made: the
+   * same text reads the same wherever those names are values again (present.ts).
+   */
+  texMemo?: { values: string; tex: string };
   /** Further compiled parts a form evaluates (a criterion's operands), made on first use. */
   compiledParts?: Array<{ evaluate(scope: Map<string, unknown>): unknown }>;
 }
