@@ -53,7 +53,17 @@ const MONTE_CARLO_SEED = 20_081_231;
  */
 export const MONTE_CARLO_PER_SHEET = 8;
 
+/** Re-evaluations kept per evaluation for propagation (each a handful of values); beyond, none are kept. */
+const REUSED_RUNS_LIMIT = 60_000;
+
 export class Reevaluator {
+  /**
+   * Runs made with a key (the inputs' names and values): the scope they reached and how far, so
+   * that a later result of the same inputs goes on from there instead of evaluating the statements
+   * above it again. Uncertainty propagation asks for the same draws and steps for every result.
+   */
+  private readonly reused = new Map<string, { scope: OverlayScope; changed: Set<string>; done: number }>();
+
   constructor(
     private readonly base: ReadonlyMap<string, unknown>,
     private readonly chain: readonly ChainStatement[],
@@ -68,25 +78,47 @@ export class Reevaluator {
   /**
    * The values of `targets` with the inputs in `overrides` replaced: every statement between the
    * first input and the last target that reads a changed name is evaluated again, in sheet order.
-   * Throws the first error met.
+   * Throws the first error met. With `key` (naming the overrides exactly), the run is kept and a
+   * later run with the same key goes on from where it stopped (the overrides, given as a function,
+   * are then made only when the key is new).
    */
-  run(overrides: ReadonlyMap<string, unknown>, targets: readonly string[]): Map<string, unknown> {
-    const scope = new OverlayScope(this.base);
-    const changed = new Set<string>();
-    let first = Infinity;
-    for (const [name, value] of overrides) {
-      scope.set(name, value);
-      changed.add(name);
-      first = Math.min(first, this.position(name));
+  run(
+    overrides: ReadonlyMap<string, unknown> | (() => ReadonlyMap<string, unknown>),
+    targets: readonly string[],
+    key?: string,
+  ): Map<string, unknown> {
+    let state = key === undefined ? undefined : this.reused.get(key);
+    if (!state) {
+      if (typeof overrides === 'function') overrides = overrides();
+      const scope = new OverlayScope(this.base);
+      const changed = new Set<string>();
+      let first = Infinity;
+      for (const [name, value] of overrides) {
+        scope.set(name, value);
+        changed.add(name);
+        first = Math.min(first, this.position(name));
+      }
+      state = { scope, changed, done: Math.max(-1, first) };
+      if (key !== undefined && this.reused.size < REUSED_RUNS_LIMIT) this.reused.set(key, state);
     }
-    const last = Math.max(...targets.map((t) => this.position(t)));
-    for (let i = Math.max(0, first + 1); i <= last; i++) {
+    const { scope, changed } = state;
+    let last = -1;
+    for (const t of targets) last = Math.max(last, this.position(t));
+    for (let i = state.done + 1; i <= last; i++) {
       const st = this.chain[i];
-      if (changed.has(st.defines) || !st.uses.some((u) => changed.has(u))) continue;
-      st.run(scope);
-      changed.add(st.defines);
+      if (!changed.has(st.defines)) {
+        let reads = false;
+        for (let k = 0; k < st.uses.length && !reads; k++) reads = changed.has(st.uses[k]);
+        if (reads) {
+          st.run(scope);
+          changed.add(st.defines);
+        }
+      }
+      state.done = i;
     }
-    return new Map(targets.map((t) => [t, scope.get(t)]));
+    const out = new Map<string, unknown>();
+    for (const t of targets) out.set(t, scope.get(t));
+    return out;
   }
 }
 
@@ -260,8 +292,12 @@ export function propagateUncertainty(
   const ySi = siOf(math, y);
   if (ySi === null) throw new Error('an uncertainty is propagated to single values only (not to lists)');
   const xs: UncertainInput[] = inputs.map((i) => ({ value: siOf(math, i.value)!, u: Math.abs(siOf(math, i.u)!) }));
+  // The same inputs at the same values give every result of the sheet from one run (Reevaluator).
+  const names = inputs.map((i) => i.name).join('\0');
   const model = (x: readonly number[]): number => {
-    const out = re.run(new Map(inputs.map((i, k) => [i.name, withSi(i.value, x[k])])), [target]).get(target);
+    const out = re
+      .run(() => new Map(inputs.map((i, k) => [i.name, withSi(i.value, x[k])])), [target], `${names}\0${x.join('\0')}`)
+      .get(target);
     const si = siOf(math, out);
     if (si === null) throw new Error(`${target} is not a single value`);
     return si;
