@@ -47,7 +47,7 @@ function sheetCells(run: number) {
         kind: 'calc' as const,
         source: `g_${k} = lorentzFactor(speedFromKinetic(T_${k}, m_p))\ntof_${k} = timeOfFlight(L_${k}, T_${k}, m_p) to ns`,
       },
-      { id: `d${k}`, kind: 'calc' as const, source: `Brho_${k} < 3 T*m\ng_${k} <= 1.3` },
+      { id: `d${k}`, kind: 'calc' as const, source: `Brho_${k} < 5 T*m\ng_${k} <= 1.6` },
     );
   }
   return cells;
