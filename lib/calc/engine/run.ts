@@ -116,7 +116,7 @@ export class SheetRun {
             for (const l of st.unitLiterals)
               if (!scope.has(l.placeholder)) scope.set(l.placeholder, unitLiteral(l.unit));
             if (st.reference) return; // a cited value depends on nothing in this sheet
-            const value = compiledOnce(st, () => chainNode(st)).evaluate(sc);
+            const value = compiledOnce(st, () => chainNode(st), true).evaluate(sc);
             if (st.kind !== 'function') sc.set(name, value);
           },
         });

@@ -134,8 +134,15 @@ export function calledName(node: AnyNode): string | null {
     : null;
 }
 
-/** Compiles once per parsed statement (parsed statements are cached by their cell's text). */
-export function compiledOnce(st: ParsedStatement, node: () => AnyNode) {
-  st.compiled ??= node().compile();
-  return st.compiled;
+/**
+ * The statement compiled. Kept with the parsed statement (cached by its cell's text) only by the
+ * chain that re-evaluates it many times (sweeps, uncertainty: `keep`); an evaluation of the sheet
+ * compiles it afresh, since a compiled statement weighs more than its parse and the caches hold
+ * tens of thousands.
+ */
+export function compiledOnce(st: ParsedStatement, node: () => AnyNode, keep = false) {
+  if (st.compiled) return st.compiled;
+  const compiled = node().compile();
+  if (keep) st.compiled = compiled;
+  return compiled;
 }

@@ -54,8 +54,7 @@ export const criterion: StatementForm = {
   evaluate(st, run, _cell, result) {
     const { math, scope } = run;
     const { operands, fns } = criterionOperands(st.node!);
-    st.compiledParts ??= operands.map((o) => o.compile());
-    const values = st.compiledParts.map((c) => c.evaluate(scope));
+    const values = operands.map((o) => o.compile().evaluate(scope));
     let pass = true;
     let margin: number | null = null;
     for (let i = 0; i < fns.length; i++) {
