@@ -315,6 +315,9 @@ describe('the formulas', () => {
     // Common practice: one bad formula never stops the document.
     expect(() => typesetTex('\\frac{a')).toThrow();
     expect(createTexCache()('\\frac{a')).toBeNull();
+    // Kept across renders: a second document's typesetter answers with the same outlines, not a new typesetting.
+    expect(createTexCache()('x_{k} = \\sqrt{y}', true)).toBe(createTexCache()('x_{k} = \\sqrt{y}', true));
+    expect(createTexCache()('x_{k} = \\sqrt{y}', true)).not.toBe(createTexCache()('x_{k} = \\sqrt{y}', false));
     const broken = buildRevisionPdfData({
       cells: [{ id: 'bad', kind: 'text', source: 'Broken: $\\frac{a$ and fine: $x^2$' }],
     });

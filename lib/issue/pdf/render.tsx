@@ -1306,7 +1306,7 @@ function RevisionPdfDocument({
 /** The issued PDF of one revision, unsigned (lib/issue/sign-pdf.ts adds the organisation's signature). */
 export async function renderRevisionPdf(data: RevisionPdfData): Promise<Buffer> {
   registerPdfFonts();
-  // One TeX → outline conversion per distinct string in this document.
+  // One TeX → outline conversion per distinct string, kept across renders (./tex-svg.ts).
   const typeset = createTexCache();
   // Plots are drawn by Observable Plot on a jsdom document (./svg-to-pdf.tsx), loaded only for a
   // sheet that has one, so issuing any other sheet (and every module importing this one) skips it.

@@ -262,19 +262,47 @@ export function typesetTex(source: string, display = false): TypesetMath {
   };
 }
 
+// Typeset formulas kept across renders, keyed by the TeX and its display mode: a sheet issued again,
+// or another revision of it, typesets only the formulas that changed. A result is never mutated by
+// the renderer (strips filter into new arrays), so one object serves every document. Bounded by the
+// characters of path data held (about 2 bytes each), oldest use evicted first.
+const SHARED_LIMIT_CHARS = 8_000_000;
+const shared = new Map<string, { math: TypesetMath | null; chars: number }>();
+let sharedChars = 0;
+
+function weight(math: TypesetMath | null): number {
+  if (!math) return 16;
+  let chars = 64;
+  for (const it of math.items)
+    chars += 48 + (it.kind === 'path' ? it.d.length : it.kind === 'text' ? it.text.length : 0);
+  return chars;
+}
+
 /** typesetTex with a cache and no exceptions: null when the TeX cannot be typeset. */
 export function createTexCache(): (source: string, display?: boolean) => TypesetMath | null {
-  const cache = new Map<string, TypesetMath | null>();
   return (source, display = false) => {
     const key = `${display ? 'D' : 'I'}${source}`;
-    if (cache.has(key)) return cache.get(key)!;
-    let result: TypesetMath | null;
-    try {
-      result = source.trim() ? typesetTex(source, display) : null;
-    } catch {
-      result = null;
+    const hit = shared.get(key);
+    if (hit) {
+      // Most recently used last, so eviction takes the oldest use.
+      shared.delete(key);
+      shared.set(key, hit);
+      return hit.math;
     }
-    cache.set(key, result);
-    return result;
+    let math: TypesetMath | null;
+    try {
+      math = source.trim() ? typesetTex(source, display) : null;
+    } catch {
+      math = null;
+    }
+    const chars = weight(math);
+    shared.set(key, { math, chars });
+    sharedChars += chars;
+    for (const [k, v] of shared) {
+      if (sharedChars <= SHARED_LIMIT_CHARS) break;
+      shared.delete(k);
+      sharedChars -= v.chars;
+    }
+    return math;
   };
 }
