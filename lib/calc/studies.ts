@@ -39,6 +39,10 @@ class OverlayScope extends Map<string, unknown> {
   override has(key: string): boolean {
     return super.has(key) || this.base.has(key);
   }
+  /** Written in this scope (changed from the sheet's value). */
+  hasOwn(key: string): boolean {
+    return super.has(key);
+  }
   override keys(): MapIterator<string> {
     return new Set([...this.base.keys(), ...super.keys()]).values();
   }
@@ -62,7 +66,7 @@ export class Reevaluator {
    * that a later result of the same inputs goes on from there instead of evaluating the statements
    * above it again. Uncertainty propagation asks for the same draws and steps for every result.
    */
-  private readonly reused = new Map<string, { scope: OverlayScope; changed: Set<string>; done: number }>();
+  private readonly reused = new Map<string, RunState>();
 
   constructor(
     private readonly base: ReadonlyMap<string, unknown>,
@@ -87,7 +91,67 @@ export class Reevaluator {
     targets: readonly string[],
     key?: string,
   ): Map<string, unknown> {
-    let state = key === undefined ? undefined : this.reused.get(key);
+    const state = this.advance(overrides, targets, key === undefined ? undefined : this.reused.get(key), key);
+    const out = new Map<string, unknown>();
+    for (const t of targets) out.set(t, state.scope.get(t));
+    return out;
+  }
+
+  /**
+   * The value of `target` in run `index` of the numbered series `series` (the draws of one Monte Carlo
+   * propagation: the same inputs, distributions and seed give the same draw at the same index for every
+   * result). Kept in an array rather than under a key made of the draw's values, so that a later result
+   * of the same draws goes on from where an earlier one stopped without building and hashing a key.
+   */
+  runInSeries(series: string, index: number, overrides: () => ReadonlyMap<string, unknown>, target: string): unknown {
+    let runs = this.series.get(series);
+    if (!runs) {
+      runs = { columns: new Map(), done: [], scope: new OverlayScope(this.base) };
+      if (this.series.size < SERIES_LIMIT) this.series.set(series, runs);
+    }
+    const { columns, scope } = runs;
+    let done = runs.done[index];
+    scope.clear();
+    if (done === undefined) {
+      let first = Infinity;
+      for (const [name, value] of overrides()) {
+        let column = columns.get(name);
+        if (!column) columns.set(name, (column = []));
+        column[index] = value;
+        first = Math.min(first, this.position(name));
+      }
+      done = Math.max(-1, first);
+    }
+    // A draw's values so far, one column per changed name (no scope or set kept per draw).
+    for (const [name, column] of columns) if (index in column) scope.set(name, column[index]);
+    const last = this.position(target);
+    for (let i = done + 1; i <= last; i++) {
+      const st = this.chain[i];
+      if (!scope.hasOwn(st.defines)) {
+        let reads = false;
+        for (let k = 0; k < st.uses.length && !reads; k++) reads = scope.hasOwn(st.uses[k]);
+        if (reads) {
+          runs.done[index] = i - 1;
+          st.run(scope);
+          let column = columns.get(st.defines);
+          if (!column) columns.set(st.defines, (column = []));
+          column[index] = scope.get(st.defines);
+        }
+      }
+      done = i;
+    }
+    runs.done[index] = Math.max(done, runs.done[index] ?? -1);
+    return scope.get(target);
+  }
+
+  private readonly series = new Map<string, Series>();
+
+  private advance(
+    overrides: ReadonlyMap<string, unknown> | (() => ReadonlyMap<string, unknown>),
+    targets: readonly string[],
+    state: RunState | undefined,
+    key?: string,
+  ): RunState {
     if (!state) {
       if (typeof overrides === 'function') overrides = overrides();
       const scope = new OverlayScope(this.base);
@@ -116,11 +180,26 @@ export class Reevaluator {
       }
       state.done = i;
     }
-    const out = new Map<string, unknown>();
-    for (const t of targets) out.set(t, scope.get(t));
-    return out;
+    return state;
   }
 }
+
+/** The draws of one Monte Carlo series: each changed name's value per draw, and how far each draw has gone. */
+interface Series {
+  columns: Map<string, unknown[]>;
+  done: number[];
+  /** Scratch scope, refilled for each draw. */
+  scope: OverlayScope;
+}
+
+interface RunState {
+  scope: OverlayScope;
+  changed: Set<string>;
+  done: number;
+}
+
+/** Monte Carlo series kept per evaluation (each MONTE_CARLO_TRIALS runs); beyond, none are kept. */
+const SERIES_LIMIT = MONTE_CARLO_PER_SHEET;
 
 function messageOf(error: unknown): string {
   // A row's error is shown to a person: never mathjs's own wording (messages.ts).
@@ -340,7 +419,23 @@ export function propagateUncertainty(
       ? `the model is markedly non-linear here and the first-order result may be poor; the Monte Carlo check was not run (at most ${MONTE_CARLO_PER_SHEET} per sheet, to stay within the evaluation time limit)`
       : null;
   } else if (wanted) {
-    const r = monteCarlo(model, xs, {
+    // The draws depend only on the inputs, their correlation and the seed: every result of the same
+    // inputs sees the same draw at the same index, so each goes on from the statements evaluated for it.
+    const series = `${names}\0${xs.map((x) => `${x.value}\0${x.u}`).join('\0')}\0${correlated ? correlated.join(';') : ''}`;
+    // monteCarlo calls the model once per trial, in order, so a count names the draw.
+    let trial = 0;
+    const drawn = (x: readonly number[]): number => {
+      const out = re.runInSeries(
+        series,
+        trial++,
+        () => new Map(inputs.map((i, k) => [i.name, withSi(i.value, x[k])])),
+        target,
+      );
+      const si = siOf(math, out);
+      if (si === null) throw new Error(`${target} is not a single value`);
+      return si;
+    };
+    const r = monteCarlo(drawn, xs, {
       trials: MONTE_CARLO_TRIALS,
       seed: MONTE_CARLO_SEED,
       ...(correlated ? { correlation: correlated } : {}),
