@@ -8,8 +8,14 @@ export const LIMITS = {
   maxStatementsPerCell: 500,
   /** Elements in one matrix or array a sheet creates. */
   maxMatrixElements: 1_000_000,
-  parseCacheEntries: 20_000,
-  cellCacheEntries: 20_000,
+  /**
+   * Each evaluation worker keeps parsed cells and cell results for incremental re-evaluation; a
+   * cached cell weighs about 5 KiB of heap (parse and result; tests/bench/README.md, Load), so twice
+   * maxCells (the largest sheet and its re-evaluation after an edit, evicted oldest first) bounds
+   * each worker's caches near 50 MiB rather than 100 MiB at 20,000.
+   */
+  parseCacheEntries: 10_000,
+  cellCacheEntries: 10_000,
 } as const;
 
 function sizeOf(args: unknown[]): number {

@@ -148,7 +148,9 @@ class EvaluationThread {
       entry: WORKER_ENTRY,
       root: options.root,
       memoryMb: options.memoryMb,
-      youngMb: Math.min(64, options.memoryMb / 4),
+      // 16 MB of young generation, not 64: two workers filling their caches held about 95 MiB less
+      // resident memory for about 8 % more CPU (tests/bench/README.md, Load).
+      youngMb: Math.min(16, options.memoryMb / 4),
       workerData: { progress: this.progress.buffer },
       label: 'evaluation worker',
       onMessage: (m) => this.onReply(m),
