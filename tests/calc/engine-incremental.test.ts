@@ -104,6 +104,7 @@ describe('incremental evaluation equals evaluation from scratch', () => {
     // Found by the property above: the cell that repeats a definition (an error) used to give the
     // name its own key, so the cells reading the name kept their cached value after the first
     // definition changed, and showed a value the sheet no longer gives.
+    // The values are plain arithmetic on invented inputs (1 T·m × 3 = 3 T·m; 4 m × 3 = 12 m).
     const engine = createSheetEngine();
     const texts = ['x_a = 1 T m', '# nothing', '## note', 'x_a = 2 m', 'y_b = x_a * 3', '# nothing'];
     expect(engine.evaluate(sheetOf(texts), options).cells[4].statements[0].value?.text).toBe('3 T·m');
