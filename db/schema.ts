@@ -121,12 +121,22 @@ interface VersionsTable {
   parent_number: Once<number | null>;
   content: ColumnType<unknown, string, never>;
   content_hash: Once<string>;
-  results: ColumnType<unknown | null, string | null, never>;
+  /** Results as one document: versions saved before results were stored by cell (read through version_results). */
+  results: ColumnType<unknown | null, string | null | undefined, never>;
+  /** The results without their cells, and the digests of their cells in result_cells (lib/sheets/result-storage.ts). */
+  result_head: ColumnType<unknown | null, string | null | undefined, never>;
+  result_cells: ColumnType<Buffer | null, Buffer | null | undefined, never>;
   engine_version: Once<string | null>;
   constants_edition: Once<string | null>;
   author_id: Once<string>;
   message: ColumnType<string, string | undefined, never>;
   created_at: Timestamp;
+}
+
+/** One cell's result, stored once for every version whose results hold it; never changed. */
+interface ResultCellsTable {
+  hash: ColumnType<Buffer, Buffer, never>;
+  result: ColumnType<unknown, string, never>;
 }
 
 interface AttachmentsTable {
@@ -299,6 +309,7 @@ export interface Database {
   project_members: ProjectMembersTable;
   sheets: SheetsTable;
   versions: VersionsTable;
+  result_cells: ResultCellsTable;
   attachments: AttachmentsTable;
   checks: ChecksTable;
   signatures: SignaturesTable;

@@ -74,6 +74,20 @@ export async function verifyInstallation(
     lastId = rows[rows.length - 1].id;
   }
 
+  // Results stored by cell (migration 20261205T000100): every cell a version lists is stored, and
+  // every stored cell still hashes to its key.
+  if (present.has('result_cells')) {
+    const missing = await sql<{ version_id: string; cell_index: number }>`
+      select version_id, cell_index from version_result_cells_missing()`.execute(db);
+    for (const m of missing.rows.slice(0, 20))
+      problems.push(`version ${m.version_id}: the result of its cell at position ${m.cell_index + 1} is missing`);
+    if (missing.rows.length > 20) problems.push(`… and ${missing.rows.length - 20} more missing cell results`);
+    const altered = await sql<{ hash: string }>`
+      select encode(hash, 'hex') as hash from result_cells
+      where hash <> sha256(convert_to(result::text, 'UTF8'))`.execute(db);
+    for (const a of altered.rows) problems.push(`cell result ${a.hash}: its stored text no longer hashes to its key`);
+  }
+
   for (const table of ['signatures', 'revisions', 'checks'] as const) {
     if (!present.has(table)) continue;
     const r = await sql<{ id: string }>`

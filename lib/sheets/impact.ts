@@ -61,7 +61,7 @@ async function definitions(
 ): Promise<Map<string, CitedValue | null>> {
   if (names.length === 0) return new Map();
   const rows = await sql<{ name: string; statement: StatementResult | null }>`
-    select n.name, jsonb_path_query_first(v.results, '$.cells[*].statements[*] ? (@.name == $name && @.kind == "definition")', jsonb_build_object('name', n.name)) as statement
+    select n.name, jsonb_path_query_first(version_results(v), '$.cells[*].statements[*] ? (@.name == $name && @.kind == "definition")', jsonb_build_object('name', n.name)) as statement
     from versions v cross join unnest(${names}::text[]) as n(name)
     where v.sheet_id = ${sheetId} and v.number = ${versionNumber}`.execute(db);
   return new Map(rows.rows.map((r) => [r.name, valueOf(r.statement)]));

@@ -152,7 +152,7 @@ async function resolveOne(
   const found = await db
     .selectFrom('versions')
     .select(
-      sql<StatementResult | null>`jsonb_path_query_first(results, '$.cells[*].statements[*] ? (@.name == $name && @.kind == "definition")', jsonb_build_object('name', ${ref.name}::text))`.as(
+      sql<StatementResult | null>`jsonb_path_query_first(version_results(versions), '$.cells[*].statements[*] ? (@.name == $name && @.kind == "definition")', jsonb_build_object('name', ${ref.name}::text))`.as(
         'statement',
       ),
     )

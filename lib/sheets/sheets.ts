@@ -25,6 +25,7 @@ import { NEW_SHEET_DISPLAY_UNITS } from '@/lib/calc/display-units';
 import { contentHash } from './content-hash';
 import type { ResolvedCitation } from './references';
 import { formatSheetNumber } from './sheet-number';
+import { storeResults } from './result-storage';
 
 export const createSheetSchema = z.object({
   title: z.string().trim().min(1, 'give the sheet a title').max(300),
@@ -168,6 +169,7 @@ async function insertSheet(
     .returning(['id', 'number'])
     .executeTakeFirstOrThrow();
   const hash = contentHash(content);
+  const stored = await storeResults(trx, results, null);
   await trx
     .insertInto('versions')
     .values({
@@ -176,7 +178,7 @@ async function insertSheet(
       parent_number: null,
       content: JSON.stringify(content),
       content_hash: hash,
-      results: JSON.stringify(results),
+      ...stored,
       engine_version: results.engineVersion,
       constants_edition: results.constantsEdition,
       author_id: actor.userId,
@@ -334,7 +336,7 @@ export async function getVersion(db: Kysely<Database>, sheetId: string, number?:
       'v.parent_number as parentNumber',
       'v.content',
       'v.content_hash as sha256',
-      'v.results',
+      sql<unknown>`version_results(v)`.as('results'),
       'v.message',
       'v.created_at as createdAt',
       'v.engine_version as engineVersion',
@@ -397,7 +399,7 @@ async function insertVersion(
     });
   const latest = await trx
     .selectFrom('versions')
-    .select(['number', 'content_hash'])
+    .select(['number', 'content_hash', 'result_cells'])
     .where('sheet_id', '=', sheet.id)
     .orderBy('number', 'desc')
     .limit(1)
@@ -413,6 +415,8 @@ async function insertVersion(
     );
   }
   const number = latest.number + 1;
+  // Only the cells whose results the version before does not hold are stored anew.
+  const stored = await storeResults(trx, results, latest.result_cells);
   const version = await trx
     .insertInto('versions')
     .values({
@@ -421,7 +425,7 @@ async function insertVersion(
       parent_number: input.parentNumber,
       content: JSON.stringify(input.content),
       content_hash: hash,
-      results: JSON.stringify(results),
+      ...stored,
       engine_version: results.engineVersion,
       constants_edition: results.constantsEdition,
       author_id: actor.userId,

@@ -17,7 +17,7 @@ export async function getStudyTable(
   const row = await db
     .selectFrom('versions as v')
     .select(
-      sql<CellResult | null>`jsonb_path_query_first(v.results, '$.cells[*] ? (@.index == $i)', jsonb_build_object('i', ${cellIndex}::int))`.as(
+      sql<CellResult | null>`jsonb_path_query_first(version_results(v), '$.cells[*] ? (@.index == $i)', jsonb_build_object('i', ${cellIndex}::int))`.as(
         'cell',
       ),
     )

@@ -393,7 +393,11 @@ export async function runSaveBench(
 
     const breaks = await bare.query<{ n: number }>('select count(*)::int as n from audit_chain_breaks()');
     const sizes = await bare.query<{ content: number; results: number }>(
-      'select avg(pg_column_size(content))::int as content, avg(pg_column_size(results))::int as results from versions where number > 1',
+      // Results: a version's head and cell digests, and its share of the cell results stored (each once).
+      `select avg(pg_column_size(content))::int as content,
+              (avg(coalesce(pg_column_size(results), 0) + coalesce(pg_column_size(result_head), 0) + coalesce(pg_column_size(result_cells), 0))
+               + (select coalesce(sum(pg_column_size(result)), 0) from result_cells) / count(*))::int as results
+       from versions where number > 1`,
     );
     return {
       sheetsPerWorker,

@@ -49,6 +49,7 @@ it('migrates up from nothing, down to nothing and up again', async () => {
       'issue_jobs',
       'project_members',
       'projects',
+      'result_cells',
       'revisions',
       'sessions',
       'sheets',

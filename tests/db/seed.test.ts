@@ -109,7 +109,7 @@ it('saves each demo version as the app saves one: the same audit events, referen
         'number',
         'parent_number',
         'content_hash',
-        'results',
+        sql<unknown>`version_results(versions)`.as('results'),
         'engine_version',
         'constants_edition',
         'author_id',
@@ -219,7 +219,12 @@ it('stores each demo version evaluated, every cell without error, with the engin
   await seedDemo(testDb());
   const versions = await testDb()
     .selectFrom('versions')
-    .select(['results', 'engine_version', 'constants_edition', 'content_hash'])
+    .select([
+      sql<unknown>`version_results(versions)`.as('results'),
+      'engine_version',
+      'constants_edition',
+      'content_hash',
+    ])
     .execute();
   // Versions 2 hold the demo content.
   expect(versions.filter((v) => demoSheets().some((d) => contentHash(d.content) === v.content_hash))).toHaveLength(3);
@@ -247,7 +252,11 @@ it('evaluates the demo dipole sheet to the expected rigidity and criterion', () 
 it('seeds the study sheets of the demo installation when asked, each evaluating without error', async () => {
   const report = await seedDemo(testDb(), { studies: true });
   expect(report.sheetsCreated).toBe(5);
-  const versions = await testDb().selectFrom('versions').select(['results']).where('number', '=', 2).execute();
+  const versions = await testDb()
+    .selectFrom('versions')
+    .select(sql<unknown>`version_results(versions)`.as('results'))
+    .where('number', '=', 2)
+    .execute();
   expect(versions).toHaveLength(5);
   for (const v of versions) expect((v.results as { ok: boolean }).ok).toBe(true);
   const engine = createSheetEngine();
@@ -278,7 +287,7 @@ it('seeds the starter sheets when asked: marked as starters, every cell without 
   const rows = await testDb()
     .selectFrom('sheets as s')
     .innerJoin('versions as v', 'v.sheet_id', 's.id')
-    .select(['s.number', 's.starter', 'v.results', 'v.content'])
+    .select(['s.number', 's.starter', sql<unknown>`version_results(v)`.as('results'), 'v.content'])
     .where('s.starter', '=', true)
     .where('v.number', '=', 2)
     .orderBy('s.number')

@@ -26,7 +26,7 @@ it('imports a file as version 2 of a new sheet, evaluated', async () => {
   expect(sheet).toMatchObject({ number: 1, code: 'TPT2-CALC-0001', version: 2 });
   const versions = await db
     .selectFrom('versions')
-    .select(['number', 'message', 'results'])
+    .select(['number', 'message', sql<unknown>`version_results(versions)`.as('results')])
     .where('sheet_id', '=', sheet.id)
     .orderBy('number')
     .execute();
@@ -73,7 +73,7 @@ it('records the units shown: a new sheet writes the trade setting, a file keeps 
   const read = async (sheetId: string) =>
     db
       .selectFrom('versions')
-      .select(['number', 'content', 'results'])
+      .select(['number', 'content', sql<unknown>`version_results(versions)`.as('results')])
       .where('sheet_id', '=', sheetId)
       .orderBy('number')
       .execute();

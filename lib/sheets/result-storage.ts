@@ -1,0 +1,75 @@
+// How a version's results are stored (migration 20261205T000100): the results without their cells
+// as `result_head`, and each cell's result once in the installation, as a row of `result_cells` keyed
+// by the SHA-256 of its exact JSON text; the version lists its cells' digests in order
+// (`result_cells`, 32 bytes each). A save that changes one cell stores one new cell row, not the
+// whole document again. Reading goes through the database's `version_results(v)`, which gives the
+// same document whichever way a version was stored (older versions keep their `results` column).
+import { createHash } from 'node:crypto';
+import { sql, type Transaction } from 'kysely';
+import type { Database } from '@/db/schema';
+import type { CellResult, SheetResult } from '@/lib/calc/types';
+
+const DIGEST_BYTES = 32;
+
+/**
+ * Each cell result's digest, kept as long as the result object lives: the evaluator hands out the
+ * same cell objects for results it keeps (lib/calc/sandbox/evaluator.ts), so a save that follows the
+ * editor's evaluation of the same content hashes nothing again. Cell results are never changed once
+ * made.
+ */
+const digests = new WeakMap<CellResult, Buffer>();
+
+const sha256 = (text: string) => createHash('sha256').update(text, 'utf8').digest();
+
+function digestOf(cell: CellResult, texts?: Map<CellResult, string>): Buffer {
+  let digest = digests.get(cell);
+  if (!digest) {
+    const text = JSON.stringify(cell);
+    digest = sha256(text);
+    digests.set(cell, digest);
+    texts?.set(cell, text);
+  }
+  return digest;
+}
+
+/** The columns of a version row that hold its results. */
+export interface StoredResults {
+  result_head: string;
+  result_cells: Buffer;
+}
+
+/**
+ * Stores the cells of `results` that `known` (the digests of the version saved before, or null)
+ * does not list, and returns the version's columns. Within `trx`, before the version row is
+ * inserted; a cell already stored by any version is not stored again (rows are never changed).
+ */
+export async function storeResults(
+  trx: Transaction<Database>,
+  results: SheetResult,
+  known: Uint8Array | null,
+): Promise<StoredResults> {
+  const { cells, ...head } = results;
+  const have = new Set<string>();
+  if (known) for (let i = 0; i < known.length; i += DIGEST_BYTES) have.add(hex(known.subarray(i, i + DIGEST_BYTES)));
+  const texts = new Map<CellResult, string>();
+  const list = cells.map((cell) => digestOf(cell, texts));
+  const newHashes: string[] = [];
+  const newTexts: string[] = [];
+  cells.forEach((cell, i) => {
+    const h = list[i].toString('hex');
+    if (have.has(h)) return;
+    have.add(h);
+    newHashes.push(h);
+    // The exact text the digest was made from (a digest kept from earlier: the same text again).
+    newTexts.push(texts.get(cell) ?? JSON.stringify(cell));
+  });
+  if (newHashes.length > 0) {
+    await sql`
+      insert into result_cells (hash, result)
+      select decode(t.h, 'hex'), t.r::json from unnest(${newHashes}::text[], ${newTexts}::text[]) as t(h, r)
+      on conflict (hash) do nothing`.execute(trx);
+  }
+  return { result_head: JSON.stringify(head), result_cells: Buffer.concat(list) };
+}
+
+const hex = (bytes: Uint8Array) => Buffer.from(bytes.buffer, bytes.byteOffset, bytes.byteLength).toString('hex');
