@@ -29,6 +29,7 @@ import { seedDemo } from '../../db/seed';
 import { checkProduction, config, ConfigError, inheritedEnvironment } from '../config';
 import { ensureChromium } from './chromium';
 import { localAuthSecret } from './app-secrets';
+import { ensureCalcWorkerBundle } from './calc-worker-build';
 import { buildIfStale } from './next-build';
 import { Supervisor, waitForExit } from './supervisor';
 import { plan, runStages } from './test-tiers';
@@ -166,6 +167,9 @@ async function serve(supervisor: Supervisor, mode: 'start' | 'dev'): Promise<voi
   const database = await prepareDatabase(supervisor, { seed: true });
   await ensureJobQueues(database.url);
   const env = appEnv(database, { ...mailEnv, ...storeEnv });
+  // The evaluation workers' prebuilt engine (lib/ops/calc-worker-build.ts); `next dev` too, so its
+  // workers start from it until lib/calc is edited (then from source, as before).
+  ensureCalcWorkerBundle(root);
   if (mode === 'start') buildIfStale(root, '.next', { ...env, NODE_ENV: 'production' });
   if (supervisor.isStopping) return;
   const worker = spawnJobWorker(supervisor, { ...env, NODE_ENV: 'production' });
@@ -198,6 +202,8 @@ async function serve(supervisor: Supervisor, mode: 'start' | 'dev'): Promise<voi
 
 async function test(supervisor: Supervisor, args: string[]): Promise<void> {
   ensureChromium(log);
+  // The tests' evaluation workers (the sandbox and CLI tests, the served app) load the prebuilt engine.
+  ensureCalcWorkerBundle(root);
   // The database and browser tiers' vitest global setup starts the test cluster itself
   // (tests/setup/global-setup.ts) and the browser harness builds and serves the app; this command runs
   // the stages (static checks, then the tiers) to the end (lib/ops/test-tiers.ts).
@@ -222,6 +228,7 @@ async function test(supervisor: Supervisor, args: string[]): Promise<void> {
  */
 async function bench(supervisor: Supervisor): Promise<void> {
   let failed = 0;
+  ensureCalcWorkerBundle(root);
   const folder = path.join(root, 'tests', 'bench', 'figures');
   mkdirSync(folder, { recursive: true });
   const commit = (() => {

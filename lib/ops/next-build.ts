@@ -3,6 +3,7 @@ import { spawnSync } from 'node:child_process';
 import { createHash } from 'node:crypto';
 import { existsSync, readdirSync, readFileSync, statSync, writeFileSync } from 'node:fs';
 import { join, relative } from 'node:path';
+import { ensureCalcWorkerBundle } from './calc-worker-build';
 
 const SOURCE_DIRS = ['app', 'components', 'lib', 'db', 'public', 'fonts'];
 const SOURCE_FILES = ['package-lock.json', 'next.config.mjs', 'tailwind.config.ts', 'tsconfig.json', '.postcssrc.json'];
@@ -32,8 +33,14 @@ function sourceHash(root: string): string {
   return hash.digest('hex');
 }
 
-/** Runs `next build` into `distDir` unless the stamp there matches the sources. Returns whether it built. */
+/**
+ * Runs `next build` into `distDir` unless the stamp there matches the sources, after building the
+ * evaluation worker's prebuilt engine if needed. Returns whether it ran `next build`.
+ */
 export function buildIfStale(root: string, distDir: string, env: NodeJS.ProcessEnv): boolean {
+  // The app's evaluation workers load the prebuilt engine for the same sources (built apart: the
+  // Next.js build does not include it, and it is made again only when lib/calc or the lock changed).
+  ensureCalcWorkerBundle(root);
   const stamp = join(root, distDir, 'worldsheet-source-hash');
   const wanted = sourceHash(root);
   if (

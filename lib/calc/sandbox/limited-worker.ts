@@ -7,8 +7,8 @@ import path from 'node:path';
 import { Worker } from 'node:worker_threads';
 
 export interface LimitedWorkerOptions<M> {
-  /** Path of the entry module under `root` (default the working directory). */
-  entry: string;
+  /** Path of the entry module under `root` (default the working directory), or a function giving it at each start. */
+  entry: string | (() => string);
   root?: string;
   /** Old-generation heap limit in MB; the young generation gets `youngMb`. */
   memoryMb: number;
@@ -31,7 +31,10 @@ export class LimitedWorker<M extends { type: string }> {
     if (this.ready) return this.ready;
     const { entry, root, memoryMb, youngMb, workerData, label } = this.options;
     // The entry loads its code from source at run time; the app bundler must not follow it.
-    const file = path.join(/* turbopackIgnore: true */ root ?? process.cwd(), entry);
+    const file = path.join(
+      /* turbopackIgnore: true */ root ?? process.cwd(),
+      typeof entry === 'string' ? entry : entry(),
+    );
     const worker = new Worker(/* turbopackIgnore: true */ file, {
       workerData,
       resourceLimits: { maxOldGenerationSizeMb: memoryMb, maxYoungGenerationSizeMb: youngMb, stackSizeMb: 4 },
