@@ -40,7 +40,7 @@ import { makeProject, makeUser } from '../support/people';
 
 const root = path.resolve(path.dirname(fileURLToPath(import.meta.url)), '..', '..');
 const DATABASE = 'worldsheet_bench';
-const CLIENTS = 16;
+const CLIENTS = Number(process.env.WORLDSHEET_BENCH_CLIENTS ?? 16);
 const SECTIONS = 50; // of 10 cells each: 500 cells
 const SAVES_PER_CLIENT = Number(process.env.WORLDSHEET_BENCH_SAVES ?? 15);
 const WARM_UP_SAVES = 2;

@@ -25,6 +25,7 @@
 import { createHash } from 'node:crypto';
 import os from 'node:os';
 import path from 'node:path';
+import { CellReceiver } from './cell-transfer';
 import { LimitedWorker } from './limited-worker';
 import { currentWorkerBundle } from './worker-bundle';
 import type { CellInput, EvaluateOptions, SheetResult } from '../types';
@@ -139,6 +140,8 @@ class ResultTooLarge extends Error {
 class EvaluationThread {
   private readonly thread: LimitedWorker<WorkerReply>;
   private readonly progress = new Int32Array(new SharedArrayBuffer(4 * PROGRESS_SLOTS));
+  /** The cells this worker sent, so that it need not send them again (cell-transfer.ts). */
+  private readonly received = new CellReceiver(RECEIVED_CELLS);
   private current: {
     request: EvaluateRequest;
     resolve: (r: SheetResult) => void;
@@ -207,14 +210,22 @@ class EvaluationThread {
   }
 
   private onReply(m: WorkerReply): void {
-    if (m.type === 'ready' || !this.current || m.id !== this.current.request.id) return;
-    const { resolve, reject, timer } = this.current;
-    if (timer) clearTimeout(timer);
+    const current = this.current;
+    if (m.type === 'ready' || !current || m.id !== current.request.id) return;
+    const result = m.type === 'done' ? this.received.unpack(m.result) : null;
+    if (m.type === 'done' && !result) {
+      // A cell sent before is no longer kept here: the same request again, every cell in full (all
+      // cache hits in the worker), within the same time limit.
+      current.request = { ...current.request, full: true };
+      this.thread.post(current.request);
+      return;
+    }
+    if (current.timer) clearTimeout(current.timer);
     this.current = null;
     this.thread.idle();
-    if (m.type === 'done') resolve(m.result);
-    else if (m.type === 'too-large') reject(new ResultTooLarge(m.bytes));
-    else reject(new Error(m.error));
+    if (result) current.resolve(result);
+    else if (m.type === 'too-large') current.reject(new ResultTooLarge(m.bytes));
+    else if (m.type === 'failed') current.reject(new Error(m.error));
   }
 
   private onCrash(error: Error & { code?: string }): void {
@@ -260,6 +271,8 @@ interface Ticket {
 
 /** Whole results kept in this process, so that the same sheet asked again (a save right after the editor's evaluation) is not sent to a worker. */
 const RECENT_RESULTS = 24;
+/** Cell results kept per worker thread so that the worker need not send them again (about 1.2 KiB of JSON each on the benchmark sheets). */
+const RECEIVED_CELLS = 5000;
 /** Cells remembered as having hit a limit. */
 const REMEMBERED_LIMITS = 2000;
 

@@ -1,4 +1,5 @@
-import type { CellInput, EvaluateOptions, SheetResult } from '../types';
+import type { CellInput, EvaluateOptions } from '../types';
+import type { PackedResult } from './cell-transfer';
 
 export interface EvaluateRequest {
   id: number;
@@ -10,11 +11,13 @@ export interface EvaluateRequest {
   scope: string;
   /** The most the result may weigh, serialized as JSON, in bytes; beyond, the reply is `too-large`. */
   maxResultBytes: number;
+  /** Send every cell in full, none by its number (cell-transfer.ts: the server no longer keeps one). */
+  full?: boolean;
 }
 
 export type WorkerReply =
   | { type: 'ready' }
-  | { type: 'done'; id: number; result: SheetResult }
+  | { type: 'done'; id: number; result: PackedResult }
   | { type: 'too-large'; id: number; bytes: number }
   | { type: 'failed'; id: number; error: string };
 

@@ -4,10 +4,12 @@
 // that the request asks for too much (413) instead of the thread running out of memory sending it.
 import { parentPort, workerData } from 'node:worker_threads';
 import { createSheetEngine } from '../sheet-engine';
-import { jsonSizeAtMost, PROGRESS_CELL, PROGRESS_STARTED, type EvaluateRequest, type WorkerReply } from './protocol';
+import { CellSender } from './cell-transfer';
+import { PROGRESS_CELL, PROGRESS_STARTED, type EvaluateRequest, type WorkerReply } from './protocol';
 
 const progress = new Int32Array(workerData.progress as SharedArrayBuffer);
 const engine = createSheetEngine();
+const sender = new CellSender();
 const port = parentPort!;
 
 port.on('message', (request: EvaluateRequest) => {
@@ -25,11 +27,12 @@ port.on('message', (request: EvaluateRequest) => {
         if (!skip.has(request.cells[index].id)) Atomics.add(progress, PROGRESS_STARTED, 1);
       },
     });
-    const bytes = jsonSizeAtMost(result, request.maxResultBytes);
+    // Cells sent before go as their numbers (cell-transfer.ts); the size counts the whole result.
+    const { packed, bytes } = sender.pack(result, request.full === true, request.maxResultBytes);
     reply =
       bytes > request.maxResultBytes
         ? { type: 'too-large', id: request.id, bytes }
-        : { type: 'done', id: request.id, result };
+        : { type: 'done', id: request.id, result: packed };
   } catch (error) {
     reply = { type: 'failed', id: request.id, error: error instanceof Error ? error.message : String(error) };
   }
