@@ -10,7 +10,11 @@ import { WORKER_BUNDLE_DIR, workerBundlePath, workerSourceHash } from '../calc/s
 /** Older bundles are removed once this old: a process started before the edit may still be starting one. */
 const KEEP_OLD_MS = 60 * 60_000;
 
-/** Builds the prebuilt worker for the sources under `root` unless it exists. Returns whether it built. */
+/**
+ * Builds the prebuilt worker for the sources under `root` unless it exists. Returns whether it built.
+ * Sources esbuild cannot read (an edit in progress) are left for tsc and the tests to report: it says
+ * so in one line and the workers load the engine from source, as whenever no build matches.
+ */
 export function ensureCalcWorkerBundle(root: string): boolean {
   const entry = workerBundlePath(workerSourceHash(root));
   const file = path.join(root, entry);
@@ -19,10 +23,34 @@ export function ensureCalcWorkerBundle(root: string): boolean {
   mkdirSync(folder, { recursive: true });
   // Written beside and renamed: two commands building at once each rename a whole file.
   const partial = `${file}.${process.pid}.partial`;
+  try {
+    buildWorker(root, partial);
+  } catch (error) {
+    rmSync(partial, { force: true });
+    const first = (error as { errors?: Array<{ text: string; location: { file: string; line: number } | null }> })
+      .errors?.[0];
+    const reason = first
+      ? `${first.location ? `${first.location.file}:${first.location.line}: ` : ''}${first.text}`
+      : (error as Error).message;
+    console.error(`[worldsheet] the evaluation worker was not prebuilt (${reason}); workers load it from source`);
+    return false;
+  }
+  renameSync(partial, file);
+  const now = Date.now();
+  for (const name of readdirSync(folder)) {
+    const other = path.join(folder, name);
+    if (other !== file && name.startsWith('calc-worker-') && now - statSync(other).mtimeMs > KEEP_OLD_MS) {
+      rmSync(other, { force: true });
+    }
+  }
+  return true;
+}
+
+function buildWorker(root: string, outfile: string): void {
   buildSync({
     absWorkingDir: root,
     entryPoints: [path.join('lib', 'calc', 'sandbox', 'worker.ts')],
-    outfile: partial,
+    outfile,
     bundle: true,
     platform: 'node',
     format: 'esm',
@@ -33,15 +61,6 @@ export function ensureCalcWorkerBundle(root: string): boolean {
     banner: {
       js: "import { createRequire as __wsCreateRequire } from 'node:module'; const require = __wsCreateRequire(import.meta.url);",
     },
-    logLevel: 'warning',
+    logLevel: 'silent',
   });
-  renameSync(partial, file);
-  const now = Date.now();
-  for (const name of readdirSync(folder)) {
-    const other = path.join(folder, name);
-    if (other !== file && name.startsWith('calc-worker-') && now - statSync(other).mtimeMs > KEEP_OLD_MS) {
-      rmSync(other, { force: true });
-    }
-  }
-  return true;
 }
