@@ -189,6 +189,42 @@ describe('the size of a request and of its result', () => {
   );
 });
 
+// The whole results the server keeps (so that a save right after the editor's evaluation of the
+// same cells needs no worker) are bounded by their size, not only by their number.
+describe('the results kept in the server', () => {
+  const kept = new SandboxedEvaluator({ timeoutMs: 5000, memoryMb: 96, workers: 1, keepResultsBytes: 40_000 });
+  afterAll(() => kept.close());
+  // About 5 KB of results as JSON (invented values); one with 40 statements about 15 KB.
+  const medium = (tag: string) =>
+    cells(Array.from({ length: 12 }, (_, j) => `w_${tag}_${j} = ${j + 1} MeV`).join('\n'));
+
+  it('answers the same cells again without a worker, but keeps no result heavier than a quarter of the bound', async () => {
+    const runs = () => kept.workerRuns;
+    const before = runs();
+    await kept.evaluate(cells('y_k = 2 m'), { significantFigures: 6 });
+    await kept.evaluate(cells('y_k = 2 m'), { significantFigures: 6 });
+    expect(runs() - before).toBe(1);
+
+    // Over 10 KB: evaluated again every time.
+    const heavy = cells(Array.from({ length: 40 }, (_, j) => `h_${j} = ${j + 1} MeV`).join('\n'));
+    const start = runs();
+    await kept.evaluate(heavy, { significantFigures: 6 });
+    await kept.evaluate(heavy, { significantFigures: 6 });
+    expect(runs() - start).toBe(2);
+  });
+
+  it('lets the oldest results go once the ones kept would weigh more than the bound', async () => {
+    for (const tag of ['a', 'b', 'c', 'd', 'e', 'f', 'g', 'h', 'i'])
+      await kept.evaluate(medium(tag), { significantFigures: 6 });
+    const start = kept.workerRuns;
+    // The latest is still kept; the first went when the later ones filled the 40 KB.
+    await kept.evaluate(medium('i'), { significantFigures: 6 });
+    expect(kept.workerRuns - start).toBe(0);
+    await kept.evaluate(medium('a'), { significantFigures: 6 });
+    expect(kept.workerRuns - start).toBe(1);
+  });
+});
+
 // Results are shared only within a scope (the server's scope is the project): the same cells from
 // another project are evaluated afresh and reported so, never answered from the first one's cache.
 describe('the result caches are per project', () => {

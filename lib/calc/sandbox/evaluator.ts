@@ -29,7 +29,14 @@ import { CellReceiver } from './cell-transfer';
 import { LimitedWorker } from './limited-worker';
 import { currentWorkerBundle } from './worker-bundle';
 import type { CellInput, EvaluateOptions, SheetResult } from '../types';
-import { PROGRESS_CELL, PROGRESS_SLOTS, PROGRESS_STARTED, type EvaluateRequest, type WorkerReply } from './protocol';
+import {
+  jsonSizeAtMost,
+  PROGRESS_CELL,
+  PROGRESS_SLOTS,
+  PROGRESS_STARTED,
+  type EvaluateRequest,
+  type WorkerReply,
+} from './protocol';
 
 export interface SandboxOptions {
   /** Time limit for one evaluation request in one worker, in ms. */
@@ -52,6 +59,8 @@ export interface SandboxOptions {
   maxStatements?: number;
   /** Serialized size of one result, in bytes. */
   maxResultBytes?: number;
+  /** The whole results kept in this process, as JSON, in bytes (RECENT_BYTES below). Default 48 MiB. */
+  keepResultsBytes?: number;
   /** How long a cell that hit a limit is answered with that error without running it again, in ms. Default 10 minutes. */
   rememberLimitMs?: number;
   /**
@@ -223,8 +232,10 @@ class EvaluationThread {
     if (current.timer) clearTimeout(current.timer);
     this.current = null;
     this.thread.idle();
-    if (result) current.resolve(result);
-    else if (m.type === 'too-large') current.reject(new ResultTooLarge(m.bytes));
+    if (result) {
+      resultBytes.set(result, (m as { bytes: number }).bytes);
+      current.resolve(result);
+    } else if (m.type === 'too-large') current.reject(new ResultTooLarge(m.bytes));
     else if (m.type === 'failed') current.reject(new Error(m.error));
   }
 
@@ -271,6 +282,14 @@ interface Ticket {
 
 /** Whole results kept in this process, so that the same sheet asked again (a save right after the editor's evaluation) is not sent to a worker. */
 const RECENT_RESULTS = 24;
+/**
+ * And at most this much of them, as JSON, unless told (a result may weigh up to maxResultBytes,
+ * 32 MiB: 24 of those would hold most of the server's memory). A result heavier than a quarter of
+ * it is not kept.
+ */
+const RECENT_BYTES = 48 * 1024 * 1024;
+/** Each result's size as JSON, as its worker counted it. */
+const resultBytes = new WeakMap<SheetResult, number>();
 /** Cell results kept per worker thread so that the worker need not send them again (about 1.2 KiB of JSON each on the benchmark sheets). */
 const RECEIVED_CELLS = 5000;
 /** Cells remembered as having hit a limit. */
@@ -285,6 +304,9 @@ export class SandboxedEvaluator {
   private nextId = 1;
   private roundRobin = 0;
   private readonly recent = new Map<string, SheetResult>();
+  /** The size of the results in `recent`, as JSON. */
+  private recentBytes = 0;
+  private readonly keepResultsBytes: number;
   /** Cells that hit a limit, by scope and everything up to and including the cell, with the error they ended with. */
   private readonly limitHits = new Map<string, { message: string; at: number }>();
   private readonly perUserInFlight: number;
@@ -310,6 +332,7 @@ export class SandboxedEvaluator {
     this.maxStatements = options.maxStatements ?? DEFAULT_MAX_STATEMENTS;
     this.maxResultBytes = options.maxResultBytes ?? DEFAULT_MAX_RESULT_BYTES;
     this.rememberLimitMs = options.rememberLimitMs ?? 10 * 60_000;
+    this.keepResultsBytes = options.keepResultsBytes ?? RECENT_BYTES;
   }
 
   /**
@@ -360,9 +383,23 @@ export class SandboxedEvaluator {
       release.done();
     }
     // A result cut short by a limit depends on the load of the moment: not kept.
-    if (!result.cells.some((c) => c.error !== null && /^(stopped|not evaluated)/.test(c.error))) {
-      if (this.recent.size >= RECENT_RESULTS) this.recent.delete(this.recent.keys().next().value as string);
+    const bytes = resultBytes.get(result) ?? jsonSizeAtMost(result, this.maxResultBytes);
+    if (
+      bytes <= this.keepResultsBytes / 4 &&
+      !this.recent.has(key) &&
+      !result.cells.some((c) => c.error !== null && /^(stopped|not evaluated)/.test(c.error))
+    ) {
+      while (
+        this.recent.size >= RECENT_RESULTS ||
+        (this.recent.size > 0 && this.recentBytes + bytes > this.keepResultsBytes)
+      ) {
+        const oldest = this.recent.keys().next().value as string;
+        this.recentBytes -= resultBytes.get(this.recent.get(oldest)!) ?? 0;
+        this.recent.delete(oldest);
+      }
+      resultBytes.set(result, bytes);
       this.recent.set(key, result);
+      this.recentBytes += bytes;
     }
     return result;
   }

@@ -17,7 +17,12 @@ export interface EvaluateRequest {
 
 export type WorkerReply =
   | { type: 'ready' }
-  | { type: 'done'; id: number; result: PackedResult }
+  | {
+      type: 'done';
+      id: number;
+      result: PackedResult;
+      /** The whole result's size as JSON (jsonSizeAtMost). */ bytes: number;
+    }
   | { type: 'too-large'; id: number; bytes: number }
   | { type: 'failed'; id: number; error: string };
 

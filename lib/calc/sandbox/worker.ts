@@ -32,7 +32,7 @@ port.on('message', (request: EvaluateRequest) => {
     reply =
       bytes > request.maxResultBytes
         ? { type: 'too-large', id: request.id, bytes }
-        : { type: 'done', id: request.id, result: packed };
+        : { type: 'done', id: request.id, result: packed, bytes };
   } catch (error) {
     reply = { type: 'failed', id: request.id, error: error instanceof Error ? error.message : String(error) };
   }
