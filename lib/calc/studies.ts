@@ -391,26 +391,29 @@ export function propagateUncertainty(
   const uc = fo.uc / dy.factor;
   const U = 2 * uc;
   const yShown = ySi / dy.factor;
-  const budget: BudgetLine[] = inputs.map((input, k) => {
-    const dx = displayUnitOf(math, input.value);
-    // An input with u = 0 contributes nothing; its sensitivity is not evaluated (NaN from firstOrder).
-    const c = Number.isFinite(fo.sensitivities[k]) ? fo.sensitivities[k] : 0;
-    const cShown = (c * dx.factor) / dy.factor;
-    const unitOfC = quotientText(dy, dx);
-    const contribution = Math.abs(fo.contributions[k]) / dy.factor;
-    return {
-      name: input.name,
-      valueText: displayValue(math, input.value, sig).text,
-      uText: `${formatNumberText(xs[k].u / dx.factor, Math.min(sig, 3), SUMMARY)}${dx.text ? ` ${dx.text}` : ''}`,
-      sensitivity: c,
-      sensitivityText: Number.isFinite(fo.sensitivities[k])
-        ? `${formatNumberText(cShown, Math.min(sig, 4), SUMMARY)}${unitOfC ? ` ${unitOfC}` : ''}`
-        : 'not evaluated (u = 0)',
-      contribution,
-      contributionText: `${formatNumberText(contribution, Math.min(sig, 3), SUMMARY)}${dy.text ? ` ${dy.text}` : ''}`,
-      share: fo.shares[k],
-    };
-  });
+  const budgetOf = (): BudgetLine[] =>
+    inputs.map((input, k) => {
+      const dx = displayUnitOf(math, input.value);
+      // An input with u = 0 contributes nothing; its sensitivity is not evaluated (NaN from firstOrder).
+      const c = Number.isFinite(fo.sensitivities[k]) ? fo.sensitivities[k] : 0;
+      const cShown = (c * dx.factor) / dy.factor;
+      const unitOfC = quotientText(dy, dx);
+      const contribution = Math.abs(fo.contributions[k]) / dy.factor;
+      return {
+        name: input.name,
+        valueText: displayValue(math, input.value, sig).text,
+        uText: `${formatNumberText(xs[k].u / dx.factor, Math.min(sig, 3), SUMMARY)}${dx.text ? ` ${dx.text}` : ''}`,
+        sensitivity: c,
+        sensitivityText: Number.isFinite(fo.sensitivities[k])
+          ? `${formatNumberText(cShown, Math.min(sig, 4), SUMMARY)}${unitOfC ? ` ${unitOfC}` : ''}`
+          : 'not evaluated (u = 0)',
+        contribution,
+        contributionText: `${formatNumberText(contribution, Math.min(sig, 3), SUMMARY)}${dy.text ? ` ${dy.text}` : ''}`,
+        share: fo.shares[k],
+      };
+    });
+  // What is written in words and TeX is made when the statement is presented (presentUncertainty).
+  const pending: Array<() => void> = [];
   let mc: MonteCarloSummary | null = null;
   let warning: string | null = null;
   const wanted = fo.nonLinear || monteCarloMode === 'always';
@@ -458,8 +461,12 @@ export function propagateUncertainty(
         dLow: v.dLow / dy.factor,
         dHigh: v.dHigh / dy.factor,
         agrees: v.agrees && r.outOfDomain === 0,
-        text: `Monte Carlo (JCGM 101, ${r.trials.toLocaleString('en').replace(/,/g, '\u202f')} draws): mean ${d(r.mean)}${unit}, u = ${d(r.u)}${unit}, 95.45 % interval [${d(r.low)}, ${d(r.high)}]${unit}`,
+        text: '',
       };
+      const summary = mc;
+      pending.push(() => {
+        summary.text = `Monte Carlo (JCGM 101, ${r.trials.toLocaleString('en').replace(/,/g, '\u202f')} draws): mean ${d(r.mean)}${unit}, u = ${d(r.u)}${unit}, 95.45 % interval [${d(r.low)}, ${d(r.high)}]${unit}`;
+      });
       if (r.outOfDomain > 0) {
         warning = `${r.outOfDomain} of ${r.trials} Monte Carlo draws fell outside the model's domain and were left out; the uncertainty is too large for this model near its limit`;
       } else if (!v.agrees) {
@@ -467,16 +474,15 @@ export function propagateUncertainty(
       }
     }
   }
-  const shown = measuredText(yShown, U, dy);
-  return {
+  const result: UncertaintyResult = {
     kind: 'propagated',
     u: uc,
     U: roundExpanded(U).U,
     k: 2,
     unit: dy.unit,
-    text: shown.text,
-    tex: shown.tex,
-    budget,
+    text: '',
+    tex: '',
+    budget: [],
     ...(correlated
       ? {
           correlations: inputs.flatMap((a, i) =>
@@ -492,6 +498,32 @@ export function propagateUncertainty(
     monteCarlo: mc,
     warning,
   };
+  pending.push(() => {
+    const shown = measuredText(yShown, U, dy);
+    result.text = shown.text;
+    result.tex = shown.tex;
+    result.budget = budgetOf();
+  });
+  unpresented.set(result, () => {
+    for (const p of pending) p();
+  });
+  return result;
+}
+
+/**
+ * The words and TeX of propagated uncertainties (the budget's lines, "y ± U", the Monte Carlo
+ * summary), made when their statement is presented (engine/present.ts), under the display units of
+ * the evaluation that propagated them; none of it decides a value.
+ */
+const unpresented = new WeakMap<UncertaintyResult, () => void>();
+
+/** Fills in the text of an uncertainty propagated by propagateUncertainty, once; nothing for any other. */
+export function presentUncertainty(u: UncertaintyResult | null | undefined): void {
+  if (!u) return;
+  const present = unpresented.get(u);
+  if (!present) return;
+  unpresented.delete(u);
+  present();
 }
 
 export interface StudyRequest {

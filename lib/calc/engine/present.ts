@@ -1,12 +1,14 @@
 // What a person sees of a statement: its formula typeset, the formula with the values substituted,
-// and its value formatted to the sheet's significant figures. None of it decides a value, so it is
-// made only when a cell's statements are first read (shown, sent, stored or printed) and then kept
-// with the cell's cached result: a cell answered from the cache is never typeset again.
+// its value formatted to the sheet's significant figures, and its uncertainty's budget and text.
+// None of it decides a value, so it is made only when a cell's statements are first read (shown,
+// sent, stored or printed) and then kept with the cell's cached result: a cell answered from the
+// cache is never typeset again.
 import type { MathJsInstance } from 'mathjs';
 import { CONSTANTS } from '../constants';
 import { displayUnitsOf, setDisplayUnits, tradeDisplay, type DisplayUnits } from '../display-units';
 import { displayValue, formatNumberTex, unitTexOf } from '../format';
 import type { EngineMath } from '../math-instance';
+import { presentUncertainty } from '../studies';
 import { formulaTex, substitutedTex, substitutionTex, type TexContext } from '../tex';
 import type { CellResult, DisplayValue, StatementResult } from '../types';
 import type { SheetPlan } from './plan';
@@ -121,6 +123,7 @@ function present(statements: StatementResult[], pending: Pending): void {
     statements.forEach((result, i) => {
       const st = parsed[i];
       const node = st.node;
+      presentUncertainty(result.uncertainty);
       if (node) {
         // Typeset once per statement text and reading of its names (a cell evaluated again
         // because a value above changed reads the same; its substitution is made again).
