@@ -58,6 +58,25 @@ async function pageContent(pageIndex: number): Promise<string> {
     .join('\n');
 }
 
+function streamText(stream: PDFRawStream): string {
+  const raw = Buffer.from(stream.getContents());
+  return stream.dict.get(PDFName.of('Filter')) ? zlib.inflateSync(raw).toString('latin1') : raw.toString('latin1');
+}
+
+/** The content of each form XObject a page names among its resources, by name. */
+async function pageForms(pageIndex: number): Promise<Map<string, string>> {
+  const doc = await PDFDocument.load(bytes);
+  const page = doc.getPage(pageIndex);
+  const forms = new Map<string, string>();
+  const xobjects = page.node.Resources()?.lookupMaybe(PDFName.of('XObject'), PDFDict);
+  for (const [name, ref] of xobjects?.entries() ?? []) {
+    const stream = doc.context.lookup(ref);
+    if (stream instanceof PDFRawStream && stream.dict.get(PDFName.of('Subtype'))?.toString() === '/Form')
+      forms.set(name.decodeText(), streamText(stream));
+  }
+  return forms;
+}
+
 describe('the page furniture', () => {
   it('is a PDF of several A4 pages', () => {
     expect(bytes.subarray(0, 5).toString('latin1')).toBe('%PDF-');
@@ -269,9 +288,20 @@ describe('the formulas', () => {
     const calcPage = pages.findIndex((text) => /T_kin = 250 MeV\s+# kinetic energy/.test(text ?? ''));
     expect(calcPage).toBeGreaterThan(0);
     const content = await pageContent(calcPage - 1);
-    // Glyph outlines: many cubic curves and fills on the page that holds the calculation cells.
-    expect(content.match(/ c\n/g)?.length ?? 0).toBeGreaterThan(1000);
-    expect(content.match(/\nf\n/g)?.length ?? 0).toBeGreaterThan(100);
+    // Glyph outlines: many cubic curves and fills on the page that holds the calculation cells. Each
+    // distinct glyph is a form XObject (ISO 32000-1 §8.10) holding its outline and a fill, drawn by
+    // reference (`Do`) at each use; count what the uses draw.
+    const forms = await pageForms(calcPage - 1);
+    let curves = content.match(/ c\n/g)?.length ?? 0;
+    let fills = content.match(/\nf\n/g)?.length ?? 0;
+    for (const [, name] of content.matchAll(/\/(\S+) Do\b/g)) {
+      const form = forms.get(name);
+      expect(form).toBeDefined();
+      curves += form!.match(/ c\n/g)?.length ?? 0;
+      fills += form!.match(/\nf\n?$/g)?.length ?? 0;
+    }
+    expect(curves).toBeGreaterThan(1000);
+    expect(fills).toBeGreaterThan(100);
   });
 
   it("leave ink between a statement's source line and its result, where there is no text", () => {
@@ -353,6 +383,33 @@ describe('the formulas', () => {
     ]) {
       expect(text).toContain(shown);
     }
+  });
+
+  it('draw a character the math fonts lack as text, and each glyph outline once however often it is used', async () => {
+    // Common practice: a character MathJax's fonts lack is drawn by MathJax as SVG text; the glyphs
+    // it has are drawn by reference to one form XObject each (ISO 32000-1 §8.10).
+    const d = buildRevisionPdfData({
+      cells: [{ id: 'note', kind: 'text', source: 'Two charges: $q = 5\\,\\text{€}$ and $r = 5 + 5$.' }],
+    });
+    const out = await renderRevisionPdf(d);
+    const f = path.join(folder, 'euro.pdf');
+    writeFileSync(f, out);
+    const text = flat(run('pdftotext', [f, '-']));
+    expect(text).toContain('€');
+    expect(text).not.toContain('\\text'); // typeset, not shown as its TeX source
+    const doc = await PDFDocument.load(out);
+    const contents = doc.getPages().map((page) => {
+      const ref = page.node.get(PDFName.of('Contents'));
+      const list = ref instanceof PDFArray ? ref.asArray() : [ref];
+      return list.map((r) => streamText(doc.context.lookup(r as PDFRef) as PDFRawStream)).join('\n');
+    });
+    const uses = contents.flatMap((c) => [...c.matchAll(/\/(Wg\d+) Do\b/g)].map((m) => m[1]));
+    // "5" is drawn three times from one outline.
+    expect(uses.length).toBeGreaterThan(new Set(uses).size);
+    const forms = doc.context
+      .enumerateIndirectObjects()
+      .filter(([, o]) => o instanceof PDFRawStream && o.dict.get(PDFName.of('Subtype'))?.toString() === '/Form');
+    expect(forms.length).toBe(new Set(uses).size);
   });
 
   it('cut a formula too wide for the page at its operators instead of shrinking it to nothing', () => {

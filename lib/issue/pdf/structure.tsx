@@ -8,6 +8,7 @@
 // calls a Canvas's paint function with a painter that forwards a fixed list of pdfkit methods; a
 // marker passes its instruction through one of them (`miterLimit`), which this module wraps so that
 // an instruction object is acted on with pdfkit's own marking API and any number is passed through.
+// The same way in lets the formulas draw with pdfkit directly (`drawDirect`).
 // Every instruction is a no-op for a pdfkit document that did not start tagged (see `install`).
 //
 // The rules the markers follow (checked here, an error stops the rendering):
@@ -50,6 +51,24 @@ type Instruction =
   | { op: 'end-artifact' };
 
 const INSTRUCTION = Symbol.for('worldsheet.pdf-structure');
+const DIRECT = Symbol.for('worldsheet.pdf-direct');
+
+/**
+ * Lets a Canvas's paint function draw with the pdfkit document itself, through the same wrapped
+ * method as the markers (the painter forwards only a fixed list of methods). `draw` runs at once,
+ * with the page's current transform (the Canvas's top left corner, y down); an error is thrown
+ * if it did not run, so nothing is ever left out silently.
+ */
+export function drawDirect(painter: unknown, draw: (doc: unknown) => void): void {
+  let ran = false;
+  (painter as { miterLimit(v: unknown): unknown }).miterLimit({
+    [DIRECT]: (doc: unknown) => {
+      ran = true;
+      draw(doc);
+    },
+  });
+  if (!ran) throw new Error('PDF drawing: the direct drawing hook is not installed (installPdfStructure).');
+}
 
 // The slice of pdfkit's document (its MarkingsMixin) this module uses.
 interface StructureContent {
@@ -243,6 +262,10 @@ export function installPdfStructure(): void {
   };
   const miterLimit = proto.miterLimit;
   proto.miterLimit = function (this: Doc, value: unknown) {
+    if (value && typeof value === 'object' && DIRECT in value) {
+      (value as { [DIRECT]: (doc: unknown) => void })[DIRECT](this);
+      return this;
+    }
     if (value && typeof value === 'object' && INSTRUCTION in value) {
       const st = states.get(this);
       if (st) act(this, st, (value as { [INSTRUCTION]: Instruction })[INSTRUCTION]);

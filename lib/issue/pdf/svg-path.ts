@@ -174,3 +174,54 @@ export function pdfPathData(d: string): string {
   }
   return out;
 }
+
+/** A glyph outline as PDF content: path operators and the box its points span, in glyph units. */
+export interface PdfGlyph {
+  ops: string;
+  bbox: [number, number, number, number];
+}
+
+// The PDF operators of each distinct rewritten outline, made once per process (the same bound).
+const glyphOps = new Map<string, PdfGlyph | null>();
+
+/**
+ * The path operators (ISO 32000-1 §8.5.2: m, l, c, h) of absolute M/L/C/Z path data as
+ * `pdfPathData` writes it, with the box of its points (control points included, so the outline is
+ * inside it); null for any other data, which is then drawn as SVG.
+ */
+export function pdfGlyph(d: string): PdfGlyph | null {
+  let out = glyphOps.get(d);
+  if (out !== undefined) return out;
+  out = null;
+  const tokens = d.match(/[A-Za-z]|[-+]?(?:\d+\.?\d*|\.\d+)(?:[eE][-+]?\d+)?/g) ?? [];
+  const ops: string[] = [];
+  let x0 = Infinity;
+  let y0 = Infinity;
+  let x1 = -Infinity;
+  let y1 = -Infinity;
+  let ok = tokens.length > 0;
+  for (let i = 0; ok && i < tokens.length;) {
+    const c = tokens[i++];
+    const n = c === 'M' || c === 'L' ? 2 : c === 'C' ? 6 : c === 'Z' ? 0 : -1;
+    if (n < 0 || i + n > tokens.length) {
+      ok = false;
+      break;
+    }
+    const p = tokens.slice(i, i + n);
+    i += n;
+    for (let k = 0; k < n; k += 2) {
+      const x = Number(p[k]);
+      const y = Number(p[k + 1]);
+      if (!Number.isFinite(x) || !Number.isFinite(y)) ok = false;
+      x0 = Math.min(x0, x);
+      y0 = Math.min(y0, y);
+      x1 = Math.max(x1, x);
+      y1 = Math.max(y1, y);
+    }
+    ops.push(n ? `${p.join(' ')} ${c === 'M' ? 'm' : c === 'L' ? 'l' : 'c'}` : 'h');
+  }
+  if (ok && Number.isFinite(x0)) out = { ops: ops.join('\n'), bbox: [x0, y0, x1, y1] };
+  if (glyphOps.size > 20_000) glyphOps.clear();
+  glyphOps.set(d, out);
+  return out;
+}

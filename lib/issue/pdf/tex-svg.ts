@@ -2,11 +2,10 @@
 // every glyph as an inline path (`fontCache: 'none'`); this module walks MathJax's own node tree
 // (never the SVG text) and flattens it into glyph outlines, rules (fraction bars, radicals'
 // overlines) and lines, each with the transforms of its enclosing groups composed into one matrix.
-// The renderer draws them with react-pdf's SVG elements. Flat, because react-pdf closes every group
-// with an empty fill of its own; one path per glyph in the glyph's own coordinates (rather than all
-// glyphs baked into one path), because a glyph's data is then the same string at every use and the
-// compressed page stays small — about 2.4 times smaller on a formula-heavy sheet, for about a
-// fifth more drawing time.
+// The renderer (`math-view.tsx`) draws them. Flat, one path per glyph in the glyph's own
+// coordinates (rather than all glyphs baked into one path), because a glyph's data is then the same
+// string at every use: the renderer writes each distinct glyph once per document and draws every use
+// of it by reference.
 import { liteAdaptor, type LiteAdaptor } from 'mathjax-full/js/adaptors/liteAdaptor.js';
 import type { LiteElement, LiteNode } from 'mathjax-full/js/adaptors/lite/Element.js';
 import { RegisterHTMLHandler } from 'mathjax-full/js/handlers/html.js';
@@ -264,8 +263,12 @@ export function typesetTex(source: string, display = false): TypesetMath {
 
 // Typeset formulas kept across renders, keyed by the TeX and its display mode: a sheet issued again,
 // or another revision of it, typesets only the formulas that changed. A result is never mutated by
-// the renderer (strips filter into new arrays), so one object serves every document. Bounded by the
-// characters of path data held (about 2 bytes each), oldest use evicted first.
+// the renderer (strips filter into new arrays), so one object serves every document. Bounded by an
+// estimate of what each formula holds of its own, oldest use evicted first: a glyph's path data is
+// one string shared by every formula that uses the glyph (`pdfPathData` keeps one per distinct
+// outline, itself bounded), so a piece counts as 48 characters and text as its length. Counting
+// each path's characters again at every use bounded the cache at about 400 formulas, and issuing a
+// 200-cell sheet a second time typeset all of its 1,200 formulas again.
 const SHARED_LIMIT_CHARS = 8_000_000;
 const shared = new Map<string, { math: TypesetMath | null; chars: number }>();
 let sharedChars = 0;
@@ -273,8 +276,7 @@ let sharedChars = 0;
 function weight(math: TypesetMath | null): number {
   if (!math) return 16;
   let chars = 64;
-  for (const it of math.items)
-    chars += 48 + (it.kind === 'path' ? it.d.length : it.kind === 'text' ? it.text.length : 0);
+  for (const it of math.items) chars += 48 + (it.kind === 'text' ? it.text.length : 0);
   return chars;
 }
 
