@@ -80,6 +80,7 @@ async function main(supervisor: Supervisor) {
 
   const team = await makeTeam(db, { code: 'BNCH', domain: 'bench.example' });
   const totals: number[] = [];
+  const requests: number[] = [];
   const renders: number[] = [];
   const sizes: number[] = [];
   for (let run = 0; run <= RUNS; run++) {
@@ -88,6 +89,7 @@ async function main(supervisor: Supervisor) {
 
     const t0 = performance.now();
     const { jobId } = await requestIssue(db, team.controller, sheet, { versionNumber: 2, password: PASSWORD });
+    const requested = performance.now() - t0;
     const revisionId = await processIssueJob(db, store, jobId);
     const total = performance.now() - t0;
     const r0 = performance.now();
@@ -97,6 +99,7 @@ async function main(supervisor: Supervisor) {
     // The first run warms MathJax, fonts and the database; it is not counted.
     if (run === 0) continue;
     totals.push(total);
+    requests.push(requested);
     renders.push(render);
     sizes.push(pdf.length);
   }
@@ -108,7 +111,10 @@ async function main(supervisor: Supervisor) {
     `  request to stored signed PDF: median ${median(totals).toFixed(0)} ms (runs: ${totals.map((t) => t.toFixed(0)).join(', ')} ms)   (aim ≤ 3000 ms)`,
   );
   console.log(
-    `  rendering alone:              median ${median(renders).toFixed(0)} ms; PDF ${Math.round(median(sizes) / 1024)} KiB before signing`,
+    `  of which the request (password check with argon2, recording the job): median ${median(requests).toFixed(0)} ms; the job (gather, typeset new formulas, render, sign, store, record): median ${median(totals.map((t, i) => t - requests[i])).toFixed(0)} ms`,
+  );
+  console.log(
+    `  rendering alone (again, its formulas already typeset): median ${median(renders).toFixed(0)} ms; PDF ${Math.round(median(sizes) / 1024)} KiB before signing`,
   );
   console.log(
     `  ratio issue / rendering alone: ${(median(totals) / median(renders)).toFixed(2)}   (the rest: argon2 password check, signing, storing, recording)`,
