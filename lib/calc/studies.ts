@@ -277,6 +277,22 @@ function quotientText(dy: DisplayUnit, dx: DisplayUnit): string {
   return dy.text && dx.text ? `${dy.text}/${dx.text}` : dy.text || (dx.text ? `1/${dx.text}` : '');
 }
 
+// Each engine's parsed unit of one display unit, by unit string: parsing it is most of what a display
+// unit costs, and a sheet cannot define units (createUnit is disabled for sheet code), so the same
+// string always parses to the same unit in one mathjs instance.
+const displayTemplates = new WeakMap<MathJsInstance, Map<string, Unit & { _denormalize(x: number): number }>>();
+
+function displayTemplate(math: MathJsInstance, unitString: string): Unit & { _denormalize(x: number): number } {
+  let byString = displayTemplates.get(math);
+  if (!byString) displayTemplates.set(math, (byString = new Map()));
+  let template = byString.get(unitString);
+  if (!template) {
+    template = math.unit(1, unitString) as Unit & { _denormalize(x: number): number };
+    byString.set(unitString, template);
+  }
+  return template;
+}
+
 function displayUnitOf(math: MathJsInstance, v: unknown): DisplayUnit {
   if (typeof v === 'number' || !math.isUnit(v)) return { unit: null, text: '', tex: '', factor: 1, fromSi: (si) => si };
   const q = quantityParts(math, v as Unit);
@@ -288,12 +304,19 @@ function displayUnitOf(math: MathJsInstance, v: unknown): DisplayUnit {
       factor: ((v as Unit).value as number) / (q.number || 1),
       fromSi: (si) => si / (((v as Unit).value as number) / (q.number || 1)),
     };
-  const template = math.unit(1, q.unitString) as Unit & { _denormalize(x: number): number };
+  const template = displayTemplate(math, q.unitString);
   const factor = template.value as number;
+  // The text and TeX are wanted only when the result is presented: made then, once.
+  let text: string | undefined;
+  let tex: string | undefined;
   return {
     unit: q.unitString,
-    text: unitText(q.parts),
-    tex: unitTex(q.parts),
+    get text() {
+      return (text ??= unitText(q.parts));
+    },
+    get tex() {
+      return (tex ??= unitTex(q.parts));
+    },
     factor,
     fromSi: (si) => template._denormalize(si),
   };
@@ -322,26 +345,39 @@ function measuredText(y: number, U: number, unit: { text: string; tex: string })
   return { text, tex };
 }
 
+/**
+ * The words and TeX of uncertainties (an input's "u = …; y ± U"; a propagated one's budget lines,
+ * "y ± U" and Monte Carlo summary), made when their statement is presented (engine/present.ts),
+ * under the display units of the evaluation that made them; none of it decides a value.
+ */
+const unpresented = new WeakMap<UncertaintyResult, () => void>();
+
 /** An input's own standard uncertainty, for display beside its value. */
 export function inputUncertainty(math: MathJsInstance, value: unknown, u: unknown, sig: number): UncertaintyResult {
   const du = displayUnitOf(math, value);
   const y = (siOf(math, value) ?? 0) / du.factor;
   const uu = (siOf(math, u) ?? 0) / du.factor;
   const U = 2 * uu;
-  const shown = measuredText(y, U, du);
-  return {
+  const result: UncertaintyResult = {
     kind: 'input',
     u: uu,
     U: roundExpanded(U).U,
     k: 2,
     unit: du.unit,
-    text: `standard uncertainty u = ${formatNumberText(uu, Math.min(sig, 3), SUMMARY)}${du.text ? ` ${du.text}` : ''}; ${shown.text}`,
-    tex: shown.tex,
+    text: '',
+    tex: '',
     budget: [],
     nonLinear: false,
     monteCarlo: null,
     warning: null,
   };
+  // Written in words and TeX when the statement is presented (presentUncertainty), as for a propagated one.
+  unpresented.set(result, () => {
+    const shown = measuredText(y, U, du);
+    result.text = `standard uncertainty u = ${formatNumberText(uu, Math.min(sig, 3), SUMMARY)}${du.text ? ` ${du.text}` : ''}; ${shown.text}`;
+    result.tex = shown.tex;
+  });
+  return result;
 }
 
 export interface PropagationInput {
@@ -509,13 +545,6 @@ export function propagateUncertainty(
   });
   return result;
 }
-
-/**
- * The words and TeX of propagated uncertainties (the budget's lines, "y ± U", the Monte Carlo
- * summary), made when their statement is presented (engine/present.ts), under the display units of
- * the evaluation that propagated them; none of it decides a value.
- */
-const unpresented = new WeakMap<UncertaintyResult, () => void>();
 
 /** Fills in the text of an uncertainty propagated by propagateUncertainty, once; nothing for any other. */
 export function presentUncertainty(u: UncertaintyResult | null | undefined): void {

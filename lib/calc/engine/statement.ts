@@ -136,9 +136,10 @@ export function calledName(node: AnyNode): string | null {
 
 /**
  * The statement compiled. Kept with the parsed statement (cached by its cell's text) only by the
- * chain that re-evaluates it many times (sweeps, uncertainty: `keep`); an evaluation of the sheet
- * compiles it afresh, since a compiled statement weighs more than its parse and the caches hold
- * tens of thousands.
+ * chain that re-evaluates it many times (sweeps, uncertainty: `keep`) and, so that the chain finds it,
+ * by the evaluation of an uncertain input and of a definition below one; otherwise an evaluation of
+ * the sheet compiles it afresh, since a compiled statement weighs more than its parse and the caches
+ * hold tens of thousands.
  */
 export function compiledOnce(st: ParsedStatement, node: () => AnyNode, keep = false) {
   if (st.compiled) return st.compiled;

@@ -11,7 +11,9 @@ export const definition: StatementForm = {
   recognise: (st) => st.kind === 'definition',
   messageNode: (st) => st.node!.value!,
   evaluate(st, run, cell) {
-    const value = compiledOnce(st, () => st.node!.value!).evaluate(run.scope);
+    // Below an uncertain input, propagation re-evaluates the statement with the same compiled form
+    // (run.ts, chain), so it is kept rather than compiled again there.
+    const value = compiledOnce(st, () => st.node!.value!, run.inputU.size > 0).evaluate(run.scope);
     if (typeof value === 'function') throw new Error('define functions with the form f(x) = …');
     run.define(st.defines!, value, cell);
     return value;

@@ -22,7 +22,8 @@ export const uncertainInput: StatementForm = {
   evaluate(st, run, cell) {
     const { math, scope } = run;
     const uNode = st.node!.value!.args![1];
-    const value = compiledOnce(st, () => st.node!.value!.args![0]).evaluate(scope);
+    // Kept: propagation re-evaluates it with the same compiled form (run.ts, chain).
+    const value = compiledOnce(st, () => st.node!.value!.args![0], true).evaluate(scope);
     const u = uNode.compile().evaluate(scope);
     const v = siOf(math, value);
     const us = siOf(math, u);
