@@ -18,6 +18,8 @@ import type { BudgetLine, MonteCarloSummary, PlotData, StudyTable, UncertaintyRe
 import { nameTex } from './tex';
 import { parseUnitString } from './unit-label';
 import { firstOrder, monteCarlo, roundExpanded, validateAgainstMonteCarlo, type UncertainInput } from './uncertainty';
+import { LIBRARY } from './functions';
+import { compileNumeric, siNumberOf } from './numeric-chain';
 
 /** A statement that defines a name, as the engine re-evaluates it in a scope of its choosing. */
 export interface ChainStatement {
@@ -26,6 +28,173 @@ export interface ChainStatement {
   uses: readonly string[];
   /** Evaluates the statement in `scope` and stores what it defines there. */
   run(scope: Map<string, unknown>): void;
+  /** The tree `run` evaluates, for a value (not a function or a cited value): compiled on SI numbers where it can be (numeric-chain.ts). */
+  node?: unknown;
+}
+
+let numericChainOn = true;
+
+/** Statements compiled on SI numbers and chains refused since the process started (for tests and benchmarks). */
+export const numericChainCounts = { compiled: 0, refused: 0 };
+
+/** Turns the evaluation on SI numbers off (on by default), so that tests compare it with mathjs's own. */
+export function setNumericChain(on: boolean): void {
+  numericChainOn = on;
+}
+
+const LIBRARY_NAMES: ReadonlySet<string> = new Set(LIBRARY.map((f) => f.name));
+const LIBRARY_KINDS = new Map<string, readonly string[]>(LIBRARY.map((f) => [f.name, f.params.map((p) => p.kind)]));
+
+/**
+ * The statements a propagation re-evaluates for one set of inputs, compiled on SI numbers in sheet
+ * order, as far as the targets asked for so far; and, for a Monte Carlo series, each statement's value
+ * in each draw, so that a later result of the same draws goes on from there.
+ */
+class NumericChain {
+  /** Slot of each changed name: the inputs first, then each statement re-evaluated. */
+  private readonly slotOf = new Map<string, number>();
+  private readonly steps: Array<{ slot: number; run: (slots: Float64Array) => number; column?: Float64Array }> = [];
+  /** Values at the sheet's values (to check each compiled statement against what the sheet gave). */
+  private nominal: Float64Array;
+  /** Position in the chain up to which the statements are compiled. */
+  private upTo: number;
+  private readonly changed: Set<string>;
+  private refused = false;
+  /** Per draw: statements evaluated, and whether the next one threw. */
+  private done?: Int32Array;
+  private threw?: Uint8Array;
+  private scratch: Float64Array;
+
+  constructor(
+    private readonly math: MathJsInstance,
+    private readonly re: Reevaluator,
+    private readonly inputs: readonly string[],
+    private readonly trials = 0,
+  ) {
+    this.changed = new Set(inputs);
+    this.nominal = new Float64Array(inputs.length + 8);
+    this.scratch = new Float64Array(this.nominal.length);
+    let first = Infinity;
+    inputs.forEach((name, k) => {
+      const si = siNumberOf(math, re.base.get(name));
+      const at = re.position(name);
+      if (si === undefined || at < 0) this.refused = true;
+      else this.nominal[k] = si;
+      this.slotOf.set(name, k);
+      first = Math.min(first, at);
+    });
+    this.upTo = first;
+    if (trials > 0) {
+      this.done = new Int32Array(trials);
+      this.threw = new Uint8Array(trials);
+    }
+  }
+
+  /** Number of statements to evaluate for `target`, or −1 when the fast path cannot give it. */
+  stepsFor(target: string): number {
+    if (this.refused) return -1;
+    const last = this.re.position(target);
+    for (let i = this.upTo + 1; i <= last && !this.refused; i++) {
+      const st = this.re.statement(i);
+      this.upTo = i;
+      if (this.changed.has(st.defines) || !st.uses.some((u) => this.changed.has(u))) continue;
+      this.changed.add(st.defines);
+      const slot = this.inputs.length + this.steps.length;
+      if (slot >= this.nominal.length) {
+        const grown = new Float64Array(this.nominal.length * 2);
+        grown.set(this.nominal);
+        this.nominal = grown;
+        this.scratch = new Float64Array(grown.length);
+      }
+      const run = st.node
+        ? compileNumeric(
+            {
+              math: this.math,
+              base: this.re.base,
+              libraryNames: LIBRARY_NAMES,
+              slotOf: (name) => this.slotOf.get(name),
+              paramKinds: (fn) => LIBRARY_KINDS.get(fn),
+            },
+            st.node as Parameters<typeof compileNumeric>[1],
+            this.nominal,
+          )
+        : null;
+      const si = siNumberOf(this.math, this.re.base.get(st.defines));
+      // The statement on SI numbers must give exactly what the sheet gave at the sheet's values.
+      if (!run || si === undefined || !Object.is(run(this.nominal), si)) {
+        this.refused = true;
+        numericChainCounts.refused++;
+        break;
+      }
+      numericChainCounts.compiled++;
+      this.nominal[slot] = si;
+      this.slotOf.set(st.defines, slot);
+      this.steps.push({ slot, run, column: this.trials > 0 ? new Float64Array(this.trials) : undefined });
+    }
+    if (this.refused) return -1;
+    const slot = this.slotOf.get(target);
+    if (slot === undefined || slot < this.inputs.length) return -1;
+    return slot - this.inputs.length + 1;
+  }
+
+  /** Runs made at given inputs (by their values), as far as they went: the first-order steps are the same for every result. */
+  private readonly runs = new Map<string, { values: number[]; threw: boolean }>();
+
+  /** The target's SI value (the statement `count` − 1) with the inputs at `x`; throws what a statement throws. */
+  evaluate(x: readonly number[], count: number): number {
+    const s = this.scratch;
+    for (let k = 0; k < x.length; k++) s[k] = x[k];
+    const key = x.join('\0');
+    let run = this.runs.get(key);
+    if (!run) {
+      run = { values: [], threw: false };
+      if (this.runs.size < REUSED_RUNS_LIMIT) this.runs.set(key, run);
+    }
+    const { values } = run;
+    let k = 0;
+    for (const end = Math.min(values.length, count); k < end; k++) s[this.steps[k].slot] = values[k];
+    if (k < count && run.threw) throw new Error('a statement cannot be evaluated at these inputs');
+    for (; k < count; k++) {
+      const step = this.steps[k];
+      let v: number;
+      try {
+        v = step.run(s);
+      } catch (error) {
+        run.threw = true;
+        throw error;
+      }
+      s[step.slot] = v;
+      values.push(v);
+    }
+    return s[this.steps[count - 1].slot];
+  }
+
+  /** The same in draw `t` of a series, going on from the statements an earlier result evaluated in it. */
+  evaluateDraw(t: number, x: readonly number[], count: number): number {
+    const s = this.scratch;
+    const done = this.done!;
+    for (let k = 0; k < x.length; k++) s[k] = x[k];
+    let k = 0;
+    for (const end = Math.min(done[t], count); k < end; k++) {
+      const step = this.steps[k];
+      s[step.slot] = step.column![t];
+    }
+    if (k < count && this.threw![t]) throw new Error('a statement cannot be evaluated for this draw');
+    for (; k < count; k++) {
+      const step = this.steps[k];
+      let v: number;
+      try {
+        v = step.run(s);
+      } catch (error) {
+        done[t] = k;
+        this.threw![t] = 1;
+        throw error;
+      }
+      s[step.slot] = step.column![t] = v;
+      done[t] = k + 1;
+    }
+    return s[this.steps[count - 1].slot];
+  }
 }
 
 /** A scope that reads through to the sheet's scope and keeps its own writes. */
@@ -69,7 +238,7 @@ export class Reevaluator {
   private readonly reused = new Map<string, RunState>();
 
   constructor(
-    private readonly base: ReadonlyMap<string, unknown>,
+    readonly base: ReadonlyMap<string, unknown>,
     private readonly chain: readonly ChainStatement[],
     private readonly index: ReadonlyMap<string, number>,
   ) {}
@@ -77,6 +246,56 @@ export class Reevaluator {
   /** Position of a name's definition in the sheet, or −1. */
   position(name: string): number {
     return this.index.get(name) ?? -1;
+  }
+
+  /** The definition at a position of the chain. */
+  statement(i: number): ChainStatement {
+    return this.chain[i];
+  }
+
+  private readonly numericChains = new Map<string, NumericChain>();
+  private readonly numericSeries = new Map<string, NumericChain>();
+
+  /**
+   * The SI value of `target` as a function of the inputs' SI values, evaluated on plain numbers
+   * (numeric-chain.ts), or null where the statements cannot be (then `run` is the way).
+   */
+  numericModel(
+    math: MathJsInstance,
+    inputs: readonly string[],
+    target: string,
+  ): ((x: readonly number[]) => number) | null {
+    if (!numericChainOn) return null;
+    const key = inputs.join('\0');
+    let chain = this.numericChains.get(key);
+    if (!chain) this.numericChains.set(key, (chain = new NumericChain(math, this, inputs)));
+    const count = chain.stepsFor(target);
+    if (count < 0) return null;
+    const c = chain;
+    return (x) => c.evaluate(x, count);
+  }
+
+  /**
+   * The same for the draws of a Monte Carlo series (see runInSeries): draw `t` of the series with the
+   * inputs at `x`, going on from the statements an earlier result of the series evaluated.
+   */
+  numericSeriesModel(
+    math: MathJsInstance,
+    series: string,
+    trials: number,
+    inputs: readonly string[],
+    target: string,
+  ): ((t: number, x: readonly number[]) => number) | null {
+    if (!numericChainOn) return null;
+    let chain = this.numericSeries.get(series);
+    if (!chain) {
+      chain = new NumericChain(math, this, inputs, trials);
+      if (this.numericSeries.size < SERIES_LIMIT) this.numericSeries.set(series, chain);
+    }
+    const count = chain.stepsFor(target);
+    if (count < 0) return null;
+    const c = chain;
+    return (t, x) => c.evaluateDraw(t, x, count);
   }
 
   /**
@@ -409,7 +628,12 @@ export function propagateUncertainty(
   const xs: UncertainInput[] = inputs.map((i) => ({ value: siOf(math, i.value)!, u: Math.abs(siOf(math, i.u)!) }));
   // The same inputs at the same values give every result of the sheet from one run (Reevaluator).
   const names = inputs.map((i) => i.name).join('\0');
-  const model = (x: readonly number[]): number => {
+  const numeric = re.numericModel(
+    math,
+    inputs.map((i) => i.name),
+    target,
+  );
+  const slow = (x: readonly number[]): number => {
     const out = re
       .run(() => new Map(inputs.map((i, k) => [i.name, withSi(i.value, x[k])])), [target], `${names}\0${x.join('\0')}`)
       .get(target);
@@ -417,6 +641,7 @@ export function propagateUncertainty(
     if (si === null) throw new Error(`${target} is not a single value`);
     return si;
   };
+  const model = numeric ?? slow;
   const correlation =
     correlationOf && inputs.length > 1
       ? inputs.map((a) => inputs.map((b) => correlationOf(a.name, b.name)))
@@ -463,17 +688,26 @@ export function propagateUncertainty(
     const series = `${names}\0${xs.map((x) => `${x.value}\0${x.u}`).join('\0')}\0${correlated ? correlated.join(';') : ''}`;
     // monteCarlo calls the model once per trial, in order, so a count names the draw.
     let trial = 0;
-    const drawn = (x: readonly number[]): number => {
-      const out = re.runInSeries(
-        series,
-        trial++,
-        () => new Map(inputs.map((i, k) => [i.name, withSi(i.value, x[k])])),
-        target,
-      );
-      const si = siOf(math, out);
-      if (si === null) throw new Error(`${target} is not a single value`);
-      return si;
-    };
+    const numericDraw = re.numericSeriesModel(
+      math,
+      series,
+      MONTE_CARLO_TRIALS,
+      inputs.map((i) => i.name),
+      target,
+    );
+    const drawn = numericDraw
+      ? (x: readonly number[]): number => numericDraw(trial++, x)
+      : (x: readonly number[]): number => {
+          const out = re.runInSeries(
+            series,
+            trial++,
+            () => new Map(inputs.map((i, k) => [i.name, withSi(i.value, x[k])])),
+            target,
+          );
+          const si = siOf(math, out);
+          if (si === null) throw new Error(`${target} is not a single value`);
+          return si;
+        };
     const r = monteCarlo(drawn, xs, {
       trials: MONTE_CARLO_TRIALS,
       seed: MONTE_CARLO_SEED,

@@ -112,6 +112,7 @@ export class SheetRun {
         chain.statements.push({
           defines: name,
           uses: direct,
+          ...(st.kind !== 'function' && !st.reference ? { node: chainNode(st) } : {}),
           run: (sc) => {
             for (const l of st.unitLiterals)
               if (!scope.has(l.placeholder)) scope.set(l.placeholder, unitLiteral(l.unit));

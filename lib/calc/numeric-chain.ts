@@ -1,0 +1,223 @@
+// The statements a propagation re-evaluates, compiled a second time to run on plain SI numbers, so
+// that the 10 000 draws of a Monte Carlo propagation (and the steps of a first-order one) do not make
+// and drop mathjs Units by the hundred thousand.
+//
+// Why the numbers are the same: mathjs keeps a quantity's value in coherent SI units, and for the
+// operations accepted here (×, /, +, −, unary −, `to`, and the library's functions) the value of
+// the result is one IEEE operation on the operands' values (Unit.multiply, Unit.divide, addScalar,
+// unaryMinus, Unit.to with equal offsets), or the library function itself. So the fast path does the
+// same operation on the same doubles, in the same order, and gives the same bits. The dimensions and
+// the kinds of the values do not change from one draw to another (only SI values do), so they are
+// checked once, on the sheet's own values: each operation is also done with mathjs on those values,
+// and the node is refused unless that gives the same kind of result (a number, or a Unit with a
+// number) and exactly the same SI value.
+//
+// Anything else is refused and the propagation re-evaluates the statements with mathjs as before
+// (studies.ts, Reevaluator): powers and other mathjs functions, conditionals, indexing, matrices,
+// complex numbers, units with an offset (degC, degF), a dimensionless unit with a name (ppm, whose
+// product with a number mathjs computes differently, math-instance.ts), functions the sheet defines,
+// and a library speed argument that could carry a precise-speed companion (library-adapter.ts): any
+// speed argument given as a quantity must be the result of an operation, which has none.
+import type { MathJsInstance } from 'mathjs';
+
+/** The node kinds read here (mathjs MathNode, loosely). */
+interface Node {
+  type: string;
+  name?: string;
+  fn?: Node | string;
+  args?: Node[];
+  content?: Node;
+  value?: unknown;
+}
+
+class Refused extends Error {}
+
+interface UnitLike {
+  value: number | null;
+  units: Array<{ unit: { offset: number }; power: number }>;
+  dimensions: number[];
+  clone(): UnitLike;
+  _normalize(x: number): number;
+}
+
+/** A compiled node: its SI value from the slots, its value at the sheet's values, and whether that is a new object. */
+interface Compiled {
+  run: (slots: Float64Array) => number;
+  nominal: unknown;
+  /** The value is made by an operation (no precise-speed companion can be attached to it). */
+  made: boolean;
+  /** A unit without a value (a unit literal), usable only as a factor or as the target of `to`. */
+  valueless?: boolean;
+}
+
+const OPERATORS = new Set(['multiply', 'divide', 'add', 'subtract', 'unaryMinus', 'to']);
+
+export interface NumericChainContext {
+  math: MathJsInstance;
+  /** The sheet's values (what each name evaluated to). */
+  base: ReadonlyMap<string, unknown>;
+  /** Names of the library's functions (bound by library-adapter.ts). */
+  libraryNames: ReadonlySet<string>;
+  /** Slot of a name whose value changes from run to run, or undefined for a name read from `base`. */
+  slotOf: (name: string) => number | undefined;
+  /** Kind of each library function's parameters. */
+  paramKinds: (fn: string) => readonly string[] | undefined;
+}
+
+function isPlainUnit(math: MathJsInstance, v: unknown): v is UnitLike {
+  return math.isUnit(v) && (v as unknown as UnitLike).units.every((u) => u.unit.offset === 0);
+}
+
+/** A value the fast path can hold as an SI number: a finite-or-not number, or an offset-free Unit with a number. */
+export function siNumberOf(math: MathJsInstance, v: unknown): number | undefined {
+  if (typeof v === 'number') return v;
+  if (isPlainUnit(math, v) && typeof v.value === 'number') return v.value;
+  return undefined;
+}
+
+const dimensionlessNamed = (math: MathJsInstance, v: unknown): boolean =>
+  math.isUnit(v) &&
+  (v as unknown as UnitLike).units.length > 0 &&
+  (v as unknown as UnitLike).dimensions.every((d) => Math.abs(d) < 1e-12);
+
+/**
+ * Compiles a statement's tree to a function of the slots giving its SI value, or null when some part
+ * of it is refused (see the top of this file). `slots` holds the values at the sheet's values, to check
+ * each operation against mathjs.
+ */
+export function compileNumeric(
+  ctx: NumericChainContext,
+  node: Node,
+  slots: Float64Array,
+): ((slots: Float64Array) => number) | null {
+  try {
+    const c = compile(ctx, node, slots);
+    if (c.valueless || siNumberOf(ctx.math, c.nominal) === undefined) return null;
+    return c.run;
+  } catch (error) {
+    if (error instanceof Refused) return null;
+    throw error;
+  }
+}
+
+function same(a: number, b: number | undefined): boolean {
+  return b !== undefined && Object.is(a, b);
+}
+
+function compile(ctx: NumericChainContext, node: Node, slots: Float64Array): Compiled {
+  const { math } = ctx;
+  switch (node.type) {
+    case 'ParenthesisNode':
+      return compile(ctx, node.content!, slots);
+    case 'ConstantNode': {
+      const c = node.value;
+      if (typeof c !== 'number') throw new Refused();
+      return { run: () => c, nominal: c, made: false };
+    }
+    case 'SymbolNode': {
+      const name = node.name!;
+      if (!ctx.base.has(name)) throw new Refused();
+      const nominal = ctx.base.get(name);
+      if (math.isUnit(nominal) && isPlainUnit(math, nominal) && nominal.value === null) {
+        if (ctx.slotOf(name) !== undefined) throw new Refused();
+        // A unit literal: mathjs multiplies and divides by its value in SI, _normalize(1).
+        const factor = nominal._normalize(1);
+        return { run: () => factor, nominal, made: false, valueless: true };
+      }
+      const si = siNumberOf(math, nominal);
+      if (si === undefined) throw new Refused();
+      const slot = ctx.slotOf(name);
+      if (slot === undefined) return { run: () => si, nominal, made: false };
+      if (!same(slots[slot], si)) throw new Refused();
+      return { run: (s) => s[slot], nominal, made: false };
+    }
+    case 'OperatorNode': {
+      const fn = typeof node.fn === 'string' ? node.fn : '';
+      const args = node.args ?? [];
+      if (!OPERATORS.has(fn)) throw new Refused();
+      if (fn === 'to') {
+        if (args.length !== 2) throw new Refused();
+        const a = compile(ctx, args[0], slots);
+        const b = compile(ctx, args[1], slots);
+        // Unit.to keeps the SI value when neither unit has an offset (checked: plain units only).
+        if (a.valueless || !b.valueless || !math.isUnit(a.nominal)) throw new Refused();
+        const nominal = (math as unknown as Record<string, (x: unknown, y: unknown) => unknown>).to(
+          a.nominal,
+          b.nominal,
+        );
+        if (!isPlainUnit(math, nominal) || !same(a.run(slots), siNumberOf(math, nominal))) throw new Refused();
+        return { run: a.run, nominal, made: true };
+      }
+      const compiled = args.map((a) => compile(ctx, a, slots));
+      for (const c of compiled) {
+        if (!(typeof c.nominal === 'number' || isPlainUnit(math, c.nominal))) throw new Refused();
+        if (dimensionlessNamed(math, c.nominal)) throw new Refused();
+        if (c.valueless && fn !== 'multiply' && fn !== 'divide') throw new Refused();
+      }
+      if (compiled.every((c) => c.valueless)) throw new Refused();
+      const nominal = (math as unknown as Record<string, (...x: unknown[]) => unknown>)[fn](
+        ...compiled.map((c) => c.nominal),
+      );
+      let run: (s: Float64Array) => number;
+      if (fn === 'unaryMinus' && compiled.length === 1) {
+        const [a] = compiled.map((c) => c.run);
+        run = (s) => -a(s);
+      } else if (compiled.length === 2) {
+        const [a, b] = compiled.map((c) => c.run);
+        if (fn === 'multiply') run = (s) => a(s) * b(s);
+        else if (fn === 'divide') run = (s) => a(s) / b(s);
+        else if (fn === 'add') run = (s) => a(s) + b(s);
+        else if (fn === 'subtract') run = (s) => a(s) - b(s);
+        else throw new Refused();
+      } else {
+        throw new Refused();
+      }
+      if (dimensionlessNamed(math, nominal) || !same(run(slots), siNumberOf(math, nominal))) throw new Refused();
+      return { run, nominal, made: true };
+    }
+    case 'FunctionNode': {
+      const callee = node.fn as Node | undefined;
+      const name = callee?.type === 'SymbolNode' ? callee.name! : '';
+      // A name the sheet defines (a function of its own) is called instead of the library's.
+      if (!ctx.libraryNames.has(name) || ctx.base.has(name)) throw new Refused();
+      const kinds = ctx.paramKinds(name);
+      const args = node.args ?? [];
+      if (!kinds || kinds.length !== args.length) throw new Refused();
+      const compiled = args.map((a) => compile(ctx, a, slots));
+      const f = (math as unknown as Record<string, (...x: unknown[]) => unknown>)[name];
+      const scratch: unknown[] = compiled.map((c, i) => {
+        if (c.valueless) throw new Refused();
+        if (typeof c.nominal === 'number') return 0;
+        if (!isPlainUnit(math, c.nominal)) throw new Refused();
+        // A speed given as a quantity may be one the library returned, with its precise companion.
+        if (kinds[i] === 'speed' && !c.made) throw new Refused();
+        return c.nominal.clone();
+      });
+      const runs = compiled.map((c) => c.run);
+      const callWith = (s: Float64Array): unknown => {
+        for (let i = 0; i < runs.length; i++) {
+          const v = runs[i](s);
+          const held = scratch[i];
+          if (typeof held === 'number') scratch[i] = v;
+          else (held as { value: number }).value = v;
+        }
+        return f(...scratch);
+      };
+      const call = (s: Float64Array): number => {
+        const out = callWith(s);
+        if (typeof out === 'number') return out;
+        const si = siNumberOf(math, out);
+        if (si === undefined) throw new Error(`${name} did not give a single value`);
+        return si;
+      };
+      // The call at the sheet's values: the same values as the sheet passed, in copies, which differ
+      // from the sheet's own objects only by a precise-speed companion, refused above.
+      const nominal = callWith(slots);
+      if (!(typeof nominal === 'number' || isPlainUnit(math, nominal))) throw new Refused();
+      // A library result is a new object, but a speed may carry a companion: not `made`.
+      return { run: call, nominal, made: false };
+    }
+    default:
+      throw new Refused();
+  }
+}

@@ -1,0 +1,181 @@
+// The propagation's re-evaluation on plain SI numbers (lib/calc/numeric-chain.ts) against mathjs's own
+// evaluation of the same statements: the same doubles in the same operations, so every figure of a
+// first-order and of a Monte Carlo propagation is the same to the bit; and what it cannot prove
+// equal, it refuses (the propagation then evaluates with mathjs as before).
+import { afterEach, describe, expect, it } from 'vitest';
+import { LIBRARY } from '../../lib/calc/functions';
+import { bindLibrary } from '../../lib/calc/library-adapter';
+import { createEngineMath } from '../../lib/calc/math-instance';
+import { compileNumeric } from '../../lib/calc/numeric-chain';
+import { createSheetEngine } from '../../lib/calc/sheet-engine';
+import { numericChainCounts, setNumericChain } from '../../lib/calc/studies';
+import type { CellInput, SheetResult } from '../../lib/calc/types';
+
+afterEach(() => setNumericChain(true));
+
+const figures = (r: SheetResult) =>
+  r.cells
+    .flatMap((c) => c.statements)
+    .filter((s) => s.uncertainty?.kind === 'propagated')
+    .map((s) => {
+      const u = s.uncertainty!;
+      return {
+        name: s.name,
+        value: s.value?.number,
+        u: u.u,
+        U: u.U,
+        nonLinear: u.nonLinear,
+        warning: u.warning,
+        budget: u.budget.map((b) => [b.sensitivity, b.contribution, b.share]),
+        monteCarlo: u.monteCarlo && {
+          mean: u.monteCarlo.mean,
+          u: u.monteCarlo.u,
+          low: u.monteCarlo.low,
+          high: u.monteCarlo.high,
+          outOfDomain: u.monteCarlo.outOfDomain,
+          tolerance: u.monteCarlo.tolerance,
+          agrees: u.monteCarlo.agrees,
+        },
+      };
+    });
+
+/** The figures with the numeric chain on and off, each from an engine of its own. */
+function bothWays(source: string) {
+  const cells: CellInput[] = [{ id: 'c1', kind: 'calc', source }];
+  const options = { significantFigures: 6, monteCarlo: 'always' as const };
+  setNumericChain(true);
+  const before = { ...numericChainCounts };
+  const fast = figures(createSheetEngine().evaluate(cells, options));
+  const compiled = numericChainCounts.compiled - before.compiled;
+  const refused = numericChainCounts.refused - before.refused;
+  setNumericChain(false);
+  const reference = figures(createSheetEngine().evaluate(cells, options));
+  setNumericChain(true);
+  return { fast, reference, compiled, refused };
+}
+
+describe('propagation on SI numbers', () => {
+  it('gives the same bits as mathjs for the beam model of the benchmark (first order and 10 000 draws)', () => {
+    const { fast, reference, compiled, refused } = bothWays(
+      [
+        'T_kin = 250 MeV ± 0.4 MeV',
+        'beta = speedFromKinetic(T_kin, m_p) / c',
+        'gamma_L = lorentzFactor(beta)',
+        'p = momentumFromKinetic(T_kin, m_p)',
+        'Brho = magneticRigidity(p, q_e) to T*m',
+        'B_dip = Brho / (1.5 m) to T',
+      ].join('\n'),
+    );
+    expect(fast.length).toBe(5);
+    expect(fast.every((f) => f.monteCarlo !== null)).toBe(true);
+    // Every statement on SI numbers: once for the first-order steps, once for the draws.
+    expect([compiled, refused]).toEqual([10, 0]);
+    expect(fast).toEqual(reference);
+  });
+
+  it('gives the same bits with two correlated inputs, sums, differences, a sign and plain numbers', () => {
+    const { fast, reference, compiled, refused } = bothWays(
+      [
+        'T_a = 120 MeV ± 3 MeV',
+        'm_a = 938.272 MeV ± 0.5 MeV',
+        'correlation(T_a, m_a, 0.3)',
+        'E_a = T_a + m_a',
+        'g_a = E_a / m_a',
+        'd_a = -(2 * T_a - 30 MeV) / (1 MeV)',
+        'p_a = momentumFromKinetic(T_a, m_a) to MeV/c',
+        'r_a = p_a / (E_a / c) - 0.5',
+      ].join('\n'),
+    );
+    expect(fast.length).toBe(5);
+    // Of both inputs: 5 statements for the first-order steps, 5 for the draws; of T_a alone (d_a):
+    // the 3 statements down to d_a, twice.
+    expect([compiled, refused]).toEqual([16, 0]);
+    expect(fast).toEqual(reference);
+  });
+
+  it('gives the same result where it must refuse: a speed the library returned passed to the library, a power, a function of the sheet', () => {
+    const { fast, reference, refused } = bothWays(
+      [
+        'T_b = 250 MeV ± 0.4 MeV',
+        'v_b = speedFromKinetic(T_b, m_p)',
+        'g_b = lorentzFactor(v_b)',
+        'q_b = (T_b / (1 MeV))^2',
+        'f(x) = 2 x',
+        'h_b = f(T_b)',
+      ].join('\n'),
+    );
+    expect(fast.length).toBe(4);
+    expect(refused).toBeGreaterThan(0);
+    expect(fast).toEqual(reference);
+  });
+
+  it('gives the same result for a temperature in degrees Celsius, which it refuses', () => {
+    const { fast, reference, compiled } = bothWays(
+      ['t_c = 20 degC ± 0.5 degC', 'L_c = 1 m + 1.2e-5 m / K * (t_c to K)'].join('\n'),
+    );
+    expect(fast.length).toBe(1);
+    expect(compiled).toBe(0);
+    expect(fast).toEqual(reference);
+  });
+});
+
+describe('what the compilation on SI numbers refuses', () => {
+  const bootstrap = createEngineMath([]);
+  const em = createEngineMath(bindLibrary(bootstrap.math, LIBRARY));
+  const { math } = em;
+  const names = new Set(LIBRARY.map((f) => f.name));
+  const kinds = new Map(LIBRARY.map((f) => [f.name, f.params.map((p) => p.kind)]));
+  /** Compiles `expr` with `x` (the slot 0) at `x0`; null when refused. */
+  const compiled = (expr: string, x0: unknown, extra: Record<string, unknown> = {}) => {
+    const base = new Map<string, unknown>([
+      ...em.constants,
+      ['x', x0],
+      ['MeV', math.unit('MeV')],
+      ...Object.entries(extra),
+    ]);
+    const slots = new Float64Array([math.isUnit(x0) ? (x0.value as number) : (x0 as number)]);
+    return compileNumeric(
+      {
+        math,
+        base,
+        libraryNames: names,
+        slotOf: (n) => (n === 'x' ? 0 : undefined),
+        paramKinds: (f) => kinds.get(f),
+      },
+      em.parse(expr) as never,
+      slots,
+    );
+  };
+
+  it('accepts products, quotients, sums, `to` and the library, and gives what mathjs gives at other values', () => {
+    const run = compiled('speedFromKinetic(x + 2 * x - x, m_p) / c', math.unit(100, 'MeV'));
+    expect(run).not.toBeNull();
+    for (const mev of [1, 70, 250, 1000, 12345.678]) {
+      const x = math.unit(mev, 'MeV');
+      const viaMathjs = em
+        .parse('speedFromKinetic(x + 2 * x - x, m_p) / c')
+        .compile()
+        .evaluate(new Map<string, unknown>([...em.constants, ['x', x]])) as number;
+      expect(run!(new Float64Array([x.value as number]))).toBe(viaMathjs);
+    }
+  });
+
+  it('refuses a unit with an offset, a power, a dimensionless named unit, a function it does not know, a speed that may carry its precise companion', () => {
+    expect(compiled('x to K', math.unit(20, 'degC'), { K: math.unit('K') })).toBeNull();
+    expect(compiled('x ^ 2', 3)).toBeNull();
+    expect(compiled('x * 2', math.unit(5, 'ppm'))).toBeNull();
+    expect(compiled('sqrt(x)', 4)).toBeNull();
+    expect(
+      compiled('lorentzFactor(v)', 1, {
+        v: (math as unknown as Record<string, (...a: unknown[]) => unknown>).speedFromKinetic(
+          math.unit(250, 'MeV'),
+          em.constants.get('m_p'),
+        ),
+      }),
+    ).toBeNull();
+    // A function the sheet defines under the library's name is the sheet's.
+    expect(compiled('lorentzFactor(x)', 0.5, { lorentzFactor: (b: number) => b })).toBeNull();
+    // The same speed passed through an operation has no companion, and is accepted.
+    expect(compiled('lorentzFactor(x * 1)', math.unit(1e8, 'm/s'))).not.toBeNull();
+  });
+});
