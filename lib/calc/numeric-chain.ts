@@ -94,9 +94,10 @@ export function compileNumeric(
     const c = compile(ctx, node, slots);
     if (c.valueless || siNumberOf(ctx.math, c.nominal) === undefined) return null;
     return c.run;
-  } catch (error) {
-    if (error instanceof Refused) return null;
-    throw error;
+  } catch {
+    // Refused, or mathjs or the library threw at the sheet's values (which the sheet evaluated):
+    // either way the propagation keeps to mathjs.
+    return null;
   }
 }
 
