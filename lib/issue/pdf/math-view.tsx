@@ -8,10 +8,11 @@
 // points per em (1 ex ≈ 0.442 em in MathJax's TeX fonts, so 10 pt per em is about 4.4 pt per ex).
 import { Canvas, Line, Path, Rect, Svg, Text, View } from '@react-pdf/renderer';
 import type { ReactElement } from 'react';
+import { multiply, type Matrix } from './affine';
 import { TEXT_FONT } from './fonts';
 import { drawDirect } from './structure';
 import { pdfGlyph } from './svg-path';
-import type { Matrix, MathPrimitive, TypesetMath } from './tex-svg';
+import type { MathPrimitive, TypesetMath } from './tex-svg';
 
 const INK = '#17212b';
 
@@ -182,17 +183,7 @@ function drawStrip(doc: PdfDoc, minY: number, strip: MathStrip): void {
   const parts: string[] = [];
   let stroked = false;
   for (const item of strip.items) {
-    const m = item.matrix;
-    const cm = [
-      view[0] * m[0] + view[2] * m[1],
-      view[1] * m[0] + view[3] * m[1],
-      view[0] * m[2] + view[2] * m[3],
-      view[1] * m[2] + view[3] * m[3],
-      view[0] * m[4] + view[2] * m[5] + view[4],
-      view[1] * m[4] + view[3] * m[5] + view[5],
-    ]
-      .map(pdfNumber)
-      .join(' ');
+    const cm = multiply(view, item.matrix).map(pdfNumber).join(' ');
     let draw: string;
     switch (item.kind) {
       case 'path':

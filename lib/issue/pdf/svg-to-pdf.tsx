@@ -10,24 +10,10 @@ import type { ReactElement } from 'react';
 import type { PlotData } from '@/lib/calc/types';
 import type { PlotFigureOptions } from '@/lib/plots/plot-figure';
 import { serverPlotElement } from '@/lib/plots/plot-svg';
+import { IDENTITY, multiply, type Matrix } from './affine';
 import { TEXT_FONT } from './fonts';
 
-export type Matrix = [number, number, number, number, number, number];
-
-const IDENTITY: Matrix = [1, 0, 0, 1, 0, 0];
 const INK = '#17212b';
-
-/** m1 · m2 (apply m2 first). */
-export function multiply(m1: Matrix, m2: Matrix): Matrix {
-  return [
-    m1[0] * m2[0] + m1[2] * m2[1],
-    m1[1] * m2[0] + m1[3] * m2[1],
-    m1[0] * m2[2] + m1[2] * m2[3],
-    m1[1] * m2[2] + m1[3] * m2[3],
-    m1[0] * m2[4] + m1[2] * m2[5] + m1[4],
-    m1[1] * m2[4] + m1[3] * m2[5] + m1[5],
-  ];
-}
 
 /** An SVG `transform` attribute as one matrix (translate, scale, rotate with or without centre, skewX, skewY, matrix). */
 export function parseTransform(value: string | null): Matrix {

@@ -24,10 +24,8 @@ import 'mathjax-full/js/input/tex/color/ColorConfiguration.js';
 import 'mathjax-full/js/input/tex/verb/VerbConfiguration.js';
 import { mathjax } from 'mathjax-full/js/mathjax.js';
 import { SVG } from 'mathjax-full/js/output/svg.js';
+import { IDENTITY, multiply, type Matrix } from './affine';
 import { pdfPathData } from './svg-path';
-
-/** An SVG affine matrix [a, b, c, d, e, f]: x' = a·x + c·y + e, y' = b·x + d·y + f. */
-export type Matrix = [number, number, number, number, number, number];
 
 /** A drawable piece; `left` is where it starts in viewBox units, for cutting a long formula. */
 export type MathPrimitive = { left: number } & (
@@ -51,19 +49,6 @@ export interface TypesetMath {
    * a fraction, root, script or braced group, as TeX breaks inline formulas.
    */
   breaks: number[];
-}
-
-const IDENTITY: Matrix = [1, 0, 0, 1, 0, 0];
-
-function multiply(p: Matrix, q: Matrix): Matrix {
-  return [
-    p[0] * q[0] + p[2] * q[1],
-    p[1] * q[0] + p[3] * q[1],
-    p[0] * q[2] + p[2] * q[3],
-    p[1] * q[2] + p[3] * q[3],
-    p[0] * q[4] + p[2] * q[5] + p[4],
-    p[1] * q[4] + p[3] * q[5] + p[5],
-  ];
 }
 
 /** Parses an SVG transform list ("translate(759,0) scale(0.707)", "matrix(…)", "rotate(a cx cy)"). */
