@@ -408,7 +408,9 @@ describe('the formulas', () => {
     expect(uses.length).toBeGreaterThan(new Set(uses).size);
     const forms = doc.context
       .enumerateIndirectObjects()
-      .filter(([, o]) => o instanceof PDFRawStream && o.dict.get(PDFName.of('Subtype'))?.toString() === '/Form');
+      .filter(([, o]) => o instanceof PDFRawStream && o.dict.get(PDFName.of('Subtype'))?.toString() === '/Form')
+      // The one form that writes text is the title block's page count ("Sheet n of m").
+      .filter(([, o]) => !/\bTj\b|\bTJ\b/.test(streamText(o as PDFRawStream)));
     expect(forms.length).toBe(new Set(uses).size);
   });
 
@@ -552,6 +554,40 @@ describe('the structure (a tagged PDF, ISO 32000-1 §14.8)', () => {
     expect(expected.length).toBeGreaterThan(5);
     for (const tex of expected) expect(alts).toContain(tex);
     expect(alts.every((a) => a.length > 0)).toBe(true);
+  });
+
+  it('tags a formula cut over several lines as one Formula element, and one drawn partly as text too', async () => {
+    // ISO 32000-1 §14.8.2.2.1 and §14.9.3: a formula is one element with its TeX as /Alt, however it
+    // is drawn (lines drawn directly open and close their element from their own drawing; a formula
+    // holding text is drawn as SVG between the element's markers).
+    const long = Array.from({ length: 40 }, (_, i) => `${i + 1}~\\mathrm{m}`).join(' + ');
+    const euro = 'q = 5\\,\\text{€}';
+    const d = buildRevisionPdfData({
+      cells: [{ id: 'note', kind: 'text', source: `Lengths:\n\n$$${long}$$\n\nCharge:\n\n$$${euro}$$` }],
+    });
+    const out = await renderRevisionPdf(d);
+    const doc = await PDFDocument.load(out, { updateMetadata: false });
+    const alts: string[] = [];
+    for (const [, object] of doc.context.enumerateIndirectObjects()) {
+      if (!(object instanceof PDFDict) || object.get(PDFName.of('S'))?.toString() !== '/Formula') continue;
+      const alt = object.lookup(PDFName.of('Alt'));
+      alts.push(alt instanceof PDFString || alt instanceof PDFHexString ? alt.decodeText().trim() : '');
+    }
+    expect(alts.filter((a) => a === long)).toHaveLength(1);
+    expect(alts.filter((a) => a === euro)).toHaveLength(1);
+    const shows = new Set(['Tj', 'TJ', 'f', 'S', 'Do']);
+    let lines = 0;
+    for (const page of doc.getPages()) {
+      const ref = page.node.get(PDFName.of('Contents'));
+      const list = ref instanceof PDFArray ? ref.asArray() : [ref];
+      const content = list.map((r) => streamText(doc.context.lookup(r as PDFRef) as PDFRawStream)).join('\n');
+      const ops = markedDepths(content);
+      expect(ops.filter((o) => shows.has(o.op) && o.depth === 0)).toEqual([]);
+      expect(ops.filter((o) => o.op === 'EMC').length).toBe(ops.filter((o) => o.op === 'BDC' || o.op === 'BMC').length);
+      // Each line of a formula drawn directly is its own q … Q holding its Do's.
+      lines += [...content.matchAll(/\/Wg\d+ Do\nQ\nQ/g)].length;
+    }
+    expect(lines).toBeGreaterThan(2); // the long sum took several lines
   });
 
   it('tags what each statement says (source, result, PASS/FAIL, error) and leaves the page furniture out as artifacts', () => {

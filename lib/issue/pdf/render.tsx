@@ -20,6 +20,7 @@ import {
   statementExtras,
   UncertaintyLine,
 } from './statement-extras';
+import { SheetNumber } from './sheet-number';
 import { Group, Leaf, PageArtifact, installPdfStructure, structureInstructionsActedOn } from './structure';
 import { type TypesetMath, createTexCache } from './tex-svg';
 import { DISPLAY_UNITS_DEFAULT, DISPLAY_UNITS_LABEL } from '@/lib/calc/display-units';
@@ -251,12 +252,8 @@ function TitleBlock({ data }: { data: RevisionPdfData }) {
             </TitleField>
             <View style={{ width: '23%', paddingHorizontal: 3, paddingTop: 1.5 }}>
               <Text style={{ fontSize: 5.5, color: C.muted, lineHeight: 1.2 }}>Sheet</Text>
-              {/* No lineHeight on this text, here or inherited: react-pdf 4.9 applies a line height twice
-              when it re-lays out a render-prop text, and the line then no longer fits and is dropped. */}
-              <Text
-                style={{ fontSize: 8, fontWeight: 700 }}
-                render={({ pageNumber, totalPages }) => `Sheet ${pageNumber} of ${totalPages}`}
-              />
+              {/* Not a render prop: that would make react-pdf paginate the whole document twice. */}
+              <SheetNumber size={8} ink={C.ink} />
             </View>
           </View>
         </View>
@@ -363,11 +360,9 @@ function Formula({ tex, typeset, maxWidth }: { tex: string; typeset: Typeset; ma
       </Leaf>
     );
   return (
-    <Leaf as="Formula" alt={tex}>
-      <View style={{ marginVertical: 1.5 }}>
-        <MathBlock math={math} emPt={MATH_EM} maxWidth={maxWidth} />
-      </View>
-    </Leaf>
+    <View style={{ marginVertical: 1.5 }}>
+      <MathBlock math={math} emPt={MATH_EM} maxWidth={maxWidth} leaf={{ as: 'Formula', alt: tex }} />
+    </View>
   );
 }
 
@@ -511,15 +506,20 @@ function markdownElements(blocks: Block[], typeset: Typeset, maxWidth: number): 
       case 'math': {
         const math = typeset(b.tex, true);
         return (
-          <Leaf key={k} as={math ? 'Formula' : 'Code'} alt={math ? b.tex : undefined}>
-            <View style={{ alignItems: 'center', marginVertical: 3, marginLeft: b.indent * 12 }} wrap={false}>
-              {math ? (
-                <MathBlock math={math} emPt={MATH_EM} maxWidth={maxWidth - b.indent * 12} />
-              ) : (
+          <View key={k} style={{ alignItems: 'center', marginVertical: 3, marginLeft: b.indent * 12 }} wrap={false}>
+            {math ? (
+              <MathBlock
+                math={math}
+                emPt={MATH_EM}
+                maxWidth={maxWidth - b.indent * 12}
+                leaf={{ as: 'Formula', alt: b.tex }}
+              />
+            ) : (
+              <Leaf as="Code">
                 <Text style={[s.mono, { fontSize: 7.5 }]}>{`$$${b.tex}$$`}</Text>
-              )}
-            </View>
-          </Leaf>
+              </Leaf>
+            )}
+          </View>
         );
       }
       case 'table': {

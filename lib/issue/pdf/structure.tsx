@@ -24,7 +24,7 @@ import { Canvas } from '@react-pdf/renderer';
 import PDFDocument from 'pdfkit';
 import type { ReactElement, ReactNode } from 'react';
 
-type LeafType =
+export type LeafType =
   | 'H1'
   | 'H2'
   | 'H3'
@@ -68,6 +68,24 @@ export function drawDirect(painter: unknown, draw: (doc: unknown) => void): void
     },
   });
   if (!ran) throw new Error('PDF drawing: the direct drawing hook is not installed (installPdfStructure).');
+}
+
+/**
+ * Starts (or ends) a leaf from inside a Canvas's paint function, before (or after) what it draws:
+ * for a Canvas that is itself the whole content of a leaf, in place of the two markers around it.
+ * Same instruction, same rules, one layout node instead of three.
+ */
+export function openLeafInPaint(painter: unknown, as: LeafType, alt?: string): void {
+  (painter as { miterLimit(v: unknown): unknown }).miterLimit({
+    [INSTRUCTION]: { op: 'leaf', type: as, ...(alt ? { alt } : {}) } satisfies Instruction,
+  });
+}
+
+/** Ends the leaf started by openLeafInPaint, after the last Canvas of its content has drawn. */
+export function closeLeafInPaint(painter: unknown): void {
+  (painter as { miterLimit(v: unknown): unknown }).miterLimit({
+    [INSTRUCTION]: { op: 'end-leaf' } satisfies Instruction,
+  });
 }
 
 // The slice of pdfkit's document (its MarkingsMixin) this module uses.
