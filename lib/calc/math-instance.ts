@@ -228,6 +228,7 @@ export function createEngineMath(
     };
   }
   math.import(disabled, { override: true });
+  rememberUnitNames(math);
 
   const mathRecord = math as unknown as Record<string, unknown>;
   const libraryNames = new Set(library.map((f) => f.name));
@@ -255,6 +256,43 @@ export function createEngineMath(
       MATH_CONSTANTS.has(name) ||
       (Object.prototype.hasOwnProperty.call(mathRecord, name) && typeof mathRecord[name] !== 'function'),
   };
+}
+
+/** Answers of `Unit.isValuelessUnit` kept per instance; beyond this many names, asked again each time. */
+const REMEMBERED_UNIT_NAMES = 100_000;
+
+/**
+ * mathjs asks `Unit.isValuelessUnit` of every name it compiles that is not one of its own (SymbolNode),
+ * and answers from a memo of only 100 names: for a name that is no unit it then tries every unit and
+ * prefix in turn. A sheet uses thousands of names (T_1 … T_2000), so nearly every compilation of a
+ * statement missed that memo. The answer depends only on the name and the unit table, which changes
+ * only through createUnit and deleteUnit (mathjs clears its memo there, and so does this one); sheet
+ * code cannot call either (disabled above), so after creation the table is fixed.
+ */
+function rememberUnitNames(math: MathJsInstance): void {
+  const unit = math.Unit as unknown as Record<string, (...args: unknown[]) => unknown>;
+  const ask = unit.isValuelessUnit.bind(unit) as (name: string) => boolean;
+  const known = new Map<string, boolean>();
+  unit.isValuelessUnit = (name: unknown): boolean => {
+    if (typeof name !== 'string') return ask(name as string);
+    let answer = known.get(name);
+    if (answer === undefined) {
+      answer = ask(name);
+      if (known.size < REMEMBERED_UNIT_NAMES) known.set(name, answer);
+    }
+    return answer;
+  };
+  for (const change of ['createUnit', 'createUnitSingle', 'deleteUnit']) {
+    const original = unit[change].bind(unit);
+    unit[change] = (...args: unknown[]): unknown => {
+      known.clear();
+      try {
+        return original(...args);
+      } finally {
+        known.clear();
+      }
+    };
+  }
 }
 
 interface UnitInternals {

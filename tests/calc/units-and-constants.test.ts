@@ -3,6 +3,7 @@
 import { describe, expect, it } from 'vitest';
 import katex from 'katex';
 import { CONSTANTS } from '../../lib/calc/constants';
+import { createEngineMath } from '../../lib/calc/math-instance';
 import { createSheetEngine } from '../../lib/calc/sheet-engine';
 import { D, ulpError } from './reference-math';
 
@@ -237,5 +238,43 @@ describe('a dimensionless constant: L_G (IAU 2000 Resolution B1.9)', () => {
     for (const tex of [st.tex, st.substitutedTex ?? ''])
       expect(() => katex.renderToString(tex, { throwOnError: true }), tex).not.toThrow();
     expect(st.tex).toContain('M(^{12}\\mathrm{C})');
+  });
+});
+
+describe("the engine's remembered answers of Unit.isValuelessUnit (math-instance.ts)", () => {
+  // The engine keeps mathjs's answers per name; they must stay right for units, prefixed
+  // units, the units the engine adds, and names that are no unit (more than mathjs's memo of 100).
+  const names = ['m', 'cm', 'MeV', 'kMeV', 'GeV', 'u', 'Da', 'yr', 'ppm', 'c', 'T', 'foo', 'T_kin', 'x', 'in', 'mm'];
+  for (let i = 1; i <= 300; i++) names.push(`T_${i}`, `v${i}`, `L_${i}`);
+
+  it('answers as mathjs reads the name (Unit.parse), the first time and again', () => {
+    const em = createSheetEngine().em;
+    const unit = em.math.Unit as unknown as { isValuelessUnit(n: string): boolean };
+    // The reference: whether mathjs reads the name as a unit (Unit.parse, which does not ask
+    // isValuelessUnit).
+    const own = (name: string) => {
+      try {
+        em.math.unit(name);
+        return true;
+      } catch {
+        return false;
+      }
+    };
+    for (let round = 0; round < 2; round++)
+      for (const name of names) expect(unit.isValuelessUnit(name), name).toBe(own(name));
+  });
+
+  it('forgets its answers when a unit is created or deleted', () => {
+    const { math } = createEngineMath([]);
+    const unit = math.Unit as unknown as {
+      isValuelessUnit(n: string): boolean;
+      createUnitSingle(n: string, d: string): unknown;
+      deleteUnit(n: string): void;
+    };
+    expect(unit.isValuelessUnit('furlongish')).toBe(false);
+    unit.createUnitSingle('furlongish', '201.168 m');
+    expect(unit.isValuelessUnit('furlongish')).toBe(true);
+    unit.deleteUnit('furlongish');
+    expect(unit.isValuelessUnit('furlongish')).toBe(false);
   });
 });
