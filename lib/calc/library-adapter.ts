@@ -82,21 +82,26 @@ class ArgumentError extends Error {
   }
 }
 
+/** Which argument a message is about; written only for a message (toNumber runs on every call). */
+function where(fn: CalcFunction, index: number): string {
+  return `${fn.name}: argument ${index + 1} (${fn.params[index].name})`;
+}
+
 /**
  * A plain number given for a charge is a charge number (6 for C⁶⁺, −1 for an electron), so it must be
  * an integer. Euler's number (a sheet's bare `e`) is the likely slip for the elementary charge and is
  * named as such: before this check, `magneticRigidity(p, e)` was read as 2.718 elementary charges.
  */
-function chargeNumber(where: string, value: number): number {
+function chargeNumber(argument: string, value: number): number {
   if (!Number.isFinite(value)) return value; // refused below as not finite
   if (value === Math.E) {
     throw new ArgumentError(
-      `${where}: \`e\` is Euler's number 2.718…; the elementary charge is \`q_e\` (or give the charge number, e.g. 1)`,
+      `${argument}: \`e\` is Euler's number 2.718…; the elementary charge is \`q_e\` (or give the charge number, e.g. 1)`,
     );
   }
   if (!Number.isInteger(value)) {
     throw new ArgumentError(
-      `${where} must be a charge (e.g. 2 q_e, or in C) or an integer charge number (e.g. 6 for C⁶⁺, −1 for an electron); a charge number must be an integer, got the plain number ${value}`,
+      `${argument} must be a charge (e.g. 2 q_e, or in C) or an integer charge number (e.g. 6 for C⁶⁺, −1 for an electron); a charge number must be an integer, got the plain number ${value}`,
     );
   }
   return value;
@@ -159,21 +164,21 @@ export function bindLibrary(math: MathJsInstance, library: readonly CalcFunction
 
   const toNumber = (fn: CalcFunction, index: number, value: unknown): number => {
     const param = fn.params[index];
-    const where = `${fn.name}: argument ${index + 1} (${param.name})`;
     if (typeof value === 'number') {
       if (param.kind === 'number' || param.kind === 'speed' || param.kind === 'angle') return value;
-      if (param.kind === 'charge') return chargeNumber(where, value) * E_CHARGE;
+      if (param.kind === 'charge') return chargeNumber(where(fn, index), value) * E_CHARGE;
       throw new ArgumentError(
-        `${where} must be ${KIND_UNITS[param.kind].label} with a unit; got the plain number ${value}`,
+        `${where(fn, index)} must be ${KIND_UNITS[param.kind].label} with a unit; got the plain number ${value}`,
       );
     }
     if (math.isUnit(value)) {
       const unit = value as Unit;
       if (param.kind === 'number') {
-        throw new ArgumentError(`${where} must be a plain number; got ${describe(unit)}`);
+        throw new ArgumentError(`${where(fn, index)} must be a plain number; got ${describe(unit)}`);
       }
       const spec = KIND_UNITS[param.kind];
-      if (unit.value === null) throw new ArgumentError(`${where} needs a value, not the bare unit ${describe(unit)}`);
+      if (unit.value === null)
+        throw new ArgumentError(`${where(fn, index)} needs a value, not the bare unit ${describe(unit)}`);
       // mathjs keeps a unit's value normalised to coherent SI units, so for these kinds (none has
       // an offset, as temperatures do) `value` is already the SI number.
       if (unit.equalBase(baseOf(spec.si))) {
@@ -183,11 +188,11 @@ export function bindLibrary(math: MathJsInstance, library: readonly CalcFunction
       if (spec.alt && unit.equalBase(baseOf(spec.alt.si)) && (spec.alt.written?.(unit) ?? true))
         return spec.alt.toSi(unit.value as number);
       throw new ArgumentError(
-        `${where} must be ${spec.label}${spec.alt ? ` or ${spec.alt.label}` : ''}${param.kind === 'speed' ? ' or a plain β' : ''}; got ${describe(unit)}`,
+        `${where(fn, index)} must be ${spec.label}${spec.alt ? ` or ${spec.alt.label}` : ''}${param.kind === 'speed' ? ' or a plain β' : ''}; got ${describe(unit)}`,
       );
     }
     throw new ArgumentError(
-      `${where} must be ${param.kind === 'number' ? 'a number' : KIND_UNITS[param.kind].label}; got ${describe(value)}`,
+      `${where(fn, index)} must be ${param.kind === 'number' ? 'a number' : KIND_UNITS[param.kind].label}; got ${describe(value)}`,
     );
   };
 
@@ -249,6 +254,13 @@ export function bindLibrary(math: MathJsInstance, library: readonly CalcFunction
     );
   };
 
+  const names = new Map<CalcFunction, readonly string[]>();
+  const paramNames = (fn: CalcFunction): readonly string[] => {
+    let n = names.get(fn);
+    if (!n) names.set(fn, (n = fn.params.map((p) => p.name)));
+    return n;
+  };
+
   const scalar = (fn: CalcFunction, args: unknown[]): unknown => {
     const numbers = args.map((a, i) => toArgument(fn, i, a));
     for (const [i, n] of numbers.entries()) {
@@ -257,7 +269,7 @@ export function bindLibrary(math: MathJsInstance, library: readonly CalcFunction
     }
     // Domain messages echo an argument as the sheet wrote it (functions/support/domain.ts).
     const echo = {
-      names: fn.params.map((p) => p.name),
+      names: paramNames(fn),
       values: numbers.map((n) => (typeof n === 'number' ? n : speedValue(n))),
       text: (i: number) => asWritten(args[i]),
     };

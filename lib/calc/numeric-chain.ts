@@ -44,6 +44,11 @@ interface UnitLike {
 interface Compiled {
   run: (slots: Float64Array) => number;
   nominal: unknown;
+  /**
+   * The SI number `run` gives at the sheet's values, worked out once from the operands' own (so that
+   * checking a node does not run the nodes below it again, library calls included).
+   */
+  si: number;
   /** The value is made by an operation (no precise-speed companion can be attached to it). */
   made: boolean;
   /** A unit without a value (a unit literal), usable only as a factor or as the target of `to`. */
@@ -113,7 +118,7 @@ function compile(ctx: NumericChainContext, node: Node, slots: Float64Array): Com
     case 'ConstantNode': {
       const c = node.value;
       if (typeof c !== 'number') throw new Refused();
-      return { run: () => c, nominal: c, made: false };
+      return { run: () => c, nominal: c, si: c, made: false };
     }
     case 'SymbolNode': {
       const name = node.name!;
@@ -123,14 +128,14 @@ function compile(ctx: NumericChainContext, node: Node, slots: Float64Array): Com
         if (ctx.slotOf(name) !== undefined) throw new Refused();
         // A unit literal: mathjs multiplies and divides by its value in SI, _normalize(1).
         const factor = nominal._normalize(1);
-        return { run: () => factor, nominal, made: false, valueless: true };
+        return { run: () => factor, nominal, si: factor, made: false, valueless: true };
       }
       const si = siNumberOf(math, nominal);
       if (si === undefined) throw new Refused();
       const slot = ctx.slotOf(name);
-      if (slot === undefined) return { run: () => si, nominal, made: false };
+      if (slot === undefined) return { run: () => si, nominal, si, made: false };
       if (!same(slots[slot], si)) throw new Refused();
-      return { run: (s) => s[slot], nominal, made: false };
+      return { run: (s) => s[slot], nominal, si, made: false };
     }
     case 'OperatorNode': {
       const fn = typeof node.fn === 'string' ? node.fn : '';
@@ -146,8 +151,8 @@ function compile(ctx: NumericChainContext, node: Node, slots: Float64Array): Com
           a.nominal,
           b.nominal,
         );
-        if (!isPlainUnit(math, nominal) || !same(a.run(slots), siNumberOf(math, nominal))) throw new Refused();
-        return { run: a.run, nominal, made: true };
+        if (!isPlainUnit(math, nominal) || !same(a.si, siNumberOf(math, nominal))) throw new Refused();
+        return { run: a.run, nominal, si: a.si, made: true };
       }
       const compiled = args.map((a) => compile(ctx, a, slots));
       for (const c of compiled) {
@@ -159,22 +164,27 @@ function compile(ctx: NumericChainContext, node: Node, slots: Float64Array): Com
       const nominal = (math as unknown as Record<string, (...x: unknown[]) => unknown>)[fn](
         ...compiled.map((c) => c.nominal),
       );
+      // Each operation twice: as the run's closure, and on the operands' values at the sheet's values
+      // (the same IEEE operation; stepsFor then checks the whole run against the sheet's value).
       let run: (s: Float64Array) => number;
+      let si: number;
       if (fn === 'unaryMinus' && compiled.length === 1) {
         const [a] = compiled.map((c) => c.run);
         run = (s) => -a(s);
+        si = -compiled[0].si;
       } else if (compiled.length === 2) {
         const [a, b] = compiled.map((c) => c.run);
-        if (fn === 'multiply') run = (s) => a(s) * b(s);
-        else if (fn === 'divide') run = (s) => a(s) / b(s);
-        else if (fn === 'add') run = (s) => a(s) + b(s);
-        else if (fn === 'subtract') run = (s) => a(s) - b(s);
+        const [x, y] = compiled.map((c) => c.si);
+        if (fn === 'multiply') [run, si] = [(s) => a(s) * b(s), x * y];
+        else if (fn === 'divide') [run, si] = [(s) => a(s) / b(s), x / y];
+        else if (fn === 'add') [run, si] = [(s) => a(s) + b(s), x + y];
+        else if (fn === 'subtract') [run, si] = [(s) => a(s) - b(s), x - y];
         else throw new Refused();
       } else {
         throw new Refused();
       }
-      if (dimensionlessNamed(math, nominal) || !same(run(slots), siNumberOf(math, nominal))) throw new Refused();
-      return { run, nominal, made: true };
+      if (dimensionlessNamed(math, nominal) || !same(si, siNumberOf(math, nominal))) throw new Refused();
+      return { run, nominal, si, made: true };
     }
     case 'FunctionNode': {
       const callee = node.fn as Node | undefined;
@@ -204,6 +214,15 @@ function compile(ctx: NumericChainContext, node: Node, slots: Float64Array): Com
         }
         return f(...scratch);
       };
+      // At the sheet's values: the operands' values worked out when they were compiled.
+      const nominalCall = (): unknown => {
+        for (let i = 0; i < compiled.length; i++) {
+          const held = scratch[i];
+          if (typeof held === 'number') scratch[i] = compiled[i].si;
+          else (held as { value: number }).value = compiled[i].si;
+        }
+        return f(...scratch);
+      };
       const call = (s: Float64Array): number => {
         const out = callWith(s);
         if (typeof out === 'number') return out;
@@ -213,10 +232,11 @@ function compile(ctx: NumericChainContext, node: Node, slots: Float64Array): Com
       };
       // The call at the sheet's values: the same values as the sheet passed, in copies, which differ
       // from the sheet's own objects only by a precise-speed companion, refused above.
-      const nominal = callWith(slots);
-      if (!(typeof nominal === 'number' || isPlainUnit(math, nominal))) throw new Refused();
+      const nominal = nominalCall();
+      const si = siNumberOf(math, nominal);
+      if (si === undefined) throw new Refused();
       // A library result is a new object, but a speed may carry a companion: not `made`.
-      return { run: call, nominal, made: false };
+      return { run: call, nominal, si, made: false };
     }
     default:
       throw new Refused();
