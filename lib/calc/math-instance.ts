@@ -265,31 +265,50 @@ const REMEMBERED_UNIT_NAMES = 100_000;
  * mathjs asks `Unit.isValuelessUnit` of every name it compiles that is not one of its own (SymbolNode),
  * and answers from a memo of only 100 names: for a name that is no unit it then tries every unit and
  * prefix in turn. A sheet uses thousands of names (T_1 … T_2000), so nearly every compilation of a
- * statement missed that memo. The answer depends only on the name and the unit table, which changes
- * only through createUnit and deleteUnit (mathjs clears its memo there, and so does this one); sheet
- * code cannot call either (disabled above), so after creation the table is fixed.
+ * statement missed that memo. mathjs finds a unit only as a key of its unit table or as one of a
+ * unit's prefixes followed by such a key, so a name holding a character found in no key and no prefix
+ * (the underscore of T_1, for one) is no unit: answered at once. Other answers are kept per name. Both
+ * depend only on the unit table, which changes only through createUnit and deleteUnit (mathjs clears
+ * its memo there, and so does this); sheet code cannot call either (disabled above).
  */
 function rememberUnitNames(math: MathJsInstance): void {
-  const unit = math.Unit as unknown as Record<string, (...args: unknown[]) => unknown>;
+  const unit = math.Unit as unknown as Record<string, (...args: unknown[]) => unknown> & {
+    UNITS: Record<string, { prefixes: Record<string, unknown> }>;
+  };
   const ask = unit.isValuelessUnit.bind(unit) as (name: string) => boolean;
   const known = new Map<string, boolean>();
+  /** Every character of a unit's name or of one of its prefixes; null until asked after a change. */
+  let characters: Set<string> | null = null;
+  const charactersOfUnits = (): Set<string> => {
+    const all = new Set<string>();
+    for (const key of Object.keys(unit.UNITS)) {
+      for (const ch of key) all.add(ch);
+      for (const prefix of Object.keys(unit.UNITS[key].prefixes ?? {})) for (const ch of prefix) all.add(ch);
+    }
+    return all;
+  };
   unit.isValuelessUnit = (name: unknown): boolean => {
     if (typeof name !== 'string') return ask(name as string);
     let answer = known.get(name);
-    if (answer === undefined) {
-      answer = ask(name);
-      if (known.size < REMEMBERED_UNIT_NAMES) known.set(name, answer);
+    if (answer !== undefined) return answer;
+    characters ??= charactersOfUnits();
+    for (const ch of name) {
+      if (!characters.has(ch)) return false;
     }
+    answer = ask(name);
+    if (known.size < REMEMBERED_UNIT_NAMES) known.set(name, answer);
     return answer;
   };
   for (const change of ['createUnit', 'createUnitSingle', 'deleteUnit']) {
     const original = unit[change].bind(unit);
     unit[change] = (...args: unknown[]): unknown => {
       known.clear();
+      characters = null;
       try {
         return original(...args);
       } finally {
         known.clear();
+        characters = null;
       }
     };
   }

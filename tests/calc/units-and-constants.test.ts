@@ -245,7 +245,8 @@ describe("the engine's remembered answers of Unit.isValuelessUnit (math-instance
   // The engine keeps mathjs's answers per name; they must stay right for units, prefixed
   // units, the units the engine adds, and names that are no unit (more than mathjs's memo of 100).
   const names = ['m', 'cm', 'MeV', 'kMeV', 'GeV', 'u', 'Da', 'yr', 'ppm', 'c', 'T', 'foo', 'T_kin', 'x', 'in', 'mm'];
-  for (let i = 1; i <= 300; i++) names.push(`T_${i}`, `v${i}`, `L_${i}`);
+  for (let i = 1; i <= 300; i++) names.push(`T_${i}`, `v${i}`, `L_${i}`, `μs${i}`);
+  names.push('μs', 'ms', 'Å', 'angstrom', 'γ', 'Δp', 'θ_1', 'km2');
 
   it('answers as mathjs reads the name (Unit.parse), the first time and again', () => {
     const em = createSheetEngine().em;
@@ -276,5 +277,12 @@ describe("the engine's remembered answers of Unit.isValuelessUnit (math-instance
     expect(unit.isValuelessUnit('furlongish')).toBe(true);
     unit.deleteUnit('furlongish');
     expect(unit.isValuelessUnit('furlongish')).toBe(false);
+    // A name with a character no unit had (X) is answered at once, until a unit has it.
+    expect(unit.isValuelessUnit('chainX')).toBe(false);
+    unit.createUnitSingle('chainX', '20.1168 m');
+    expect(unit.isValuelessUnit('chainX')).toBe(true);
+    expect(unit.isValuelessUnit('kchainX')).toBe(false); // created without prefixes
+    unit.deleteUnit('chainX');
+    expect(unit.isValuelessUnit('chainX')).toBe(false);
   });
 });
