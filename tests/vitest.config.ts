@@ -35,7 +35,6 @@ export const UNIT = [
   'tests/issue/pdf-warnings.test.ts',
   'tests/issue/plot-pdf.test.ts',
   'tests/issue/signing.test.ts',
-  'tests/issue/typeset-ahead.test.ts',
   'tests/ops/server.test.ts',
   'tests/ops/config.test.ts',
   'tests/sheets/compare.test.ts',

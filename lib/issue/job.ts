@@ -22,7 +22,6 @@ import type { ObjectStore } from '@/lib/storage/object-store';
 import { config } from '@/lib/config';
 import type { RevisionPdfData } from './pdf-data';
 import { renderRevisionPdf } from './pdf/render';
-import { statementFormulas, typesetAhead } from './pdf/typeset-ahead';
 import { signPdf } from './sign-pdf';
 
 const utc = (d: Date) => `${d.toISOString().slice(0, 19).replace('T', ' ')} UTC`;
@@ -222,8 +221,6 @@ export async function processIssueJob(db: Kysely<Database>, store: ObjectStore, 
   if (!key) {
     await setStep(db, job.id, 'rendering');
     const data = await revisionPdfData(db, job.id);
-    // The new formulas (every substituted value) typeset in two threads at once, before rendering.
-    await typesetAhead(statementFormulas(data));
     const unsigned = await renderRevisionPdf(data);
     await setStep(db, job.id, 'signing');
     const legalOwner = data.titleBlock.legalOwner;

@@ -171,22 +171,8 @@ export function pdfPathData(d: string): string {
     out = segs ? serialize(segs) : d;
     if (rewritten.size > 20_000) rewritten.clear();
     rewritten.set(d, out);
-    out = internPathData(out);
   }
   return out;
-}
-
-// One string per distinct rewritten outline, so that formulas typeset elsewhere (a worker thread,
-// whose strings arrive as copies) share their glyphs' path data with the rest (the same bound).
-const canonical = new Map<string, string>();
-
-/** The process's one copy of rewritten path data equal to `d`. */
-export function internPathData(d: string): string {
-  const known = canonical.get(d);
-  if (known !== undefined) return known;
-  if (canonical.size > 20_000) canonical.clear();
-  canonical.set(d, d);
-  return d;
 }
 
 /** A glyph outline as PDF content: path operators and the box its points span, in glyph units. */

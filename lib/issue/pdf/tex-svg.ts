@@ -265,42 +265,10 @@ function weight(math: TypesetMath | null): number {
   return chars;
 }
 
-/** The cache's key of a TeX string in a display mode. */
-export function typesetKey(source: string, display: boolean): string {
-  return `${display ? 'D' : 'I'}${source}`;
-}
-
-/** typesetTex without exceptions: null when the TeX is empty or cannot be typeset. */
-export function typesetOrNull(source: string, display: boolean): TypesetMath | null {
-  try {
-    return source.trim() ? typesetTex(source, display) : null;
-  } catch {
-    return null;
-  }
-}
-
-/** Whether the formula under `key` is kept already. */
-export function isTypeset(key: string): boolean {
-  return shared.has(key);
-}
-
-/** Keeps a typeset formula under `key` (from typesetOrNull, here or in a worker thread). */
-export function rememberTypeset(key: string, math: TypesetMath | null): void {
-  if (shared.has(key)) return;
-  const chars = weight(math);
-  shared.set(key, { math, chars });
-  sharedChars += chars;
-  for (const [k, v] of shared) {
-    if (sharedChars <= SHARED_LIMIT_CHARS) break;
-    shared.delete(k);
-    sharedChars -= v.chars;
-  }
-}
-
 /** typesetTex with a cache and no exceptions: null when the TeX cannot be typeset. */
 export function createTexCache(): (source: string, display?: boolean) => TypesetMath | null {
   return (source, display = false) => {
-    const key = typesetKey(source, display);
+    const key = `${display ? 'D' : 'I'}${source}`;
     const hit = shared.get(key);
     if (hit) {
       // Most recently used last, so eviction takes the oldest use.
@@ -308,8 +276,20 @@ export function createTexCache(): (source: string, display?: boolean) => Typeset
       shared.set(key, hit);
       return hit.math;
     }
-    const math = typesetOrNull(source, display);
-    rememberTypeset(key, math);
+    let math: TypesetMath | null;
+    try {
+      math = source.trim() ? typesetTex(source, display) : null;
+    } catch {
+      math = null;
+    }
+    const chars = weight(math);
+    shared.set(key, { math, chars });
+    sharedChars += chars;
+    for (const [k, v] of shared) {
+      if (sharedChars <= SHARED_LIMIT_CHARS) break;
+      shared.delete(k);
+      sharedChars -= v.chars;
+    }
     return math;
   };
 }
