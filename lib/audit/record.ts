@@ -15,24 +15,26 @@ export interface AuditInput {
   reason?: string | null;
 }
 
+/** The columns an audit event is inserted with (the database adds its number, time and hashes). */
+export function auditRow(actor: Actor | null, event: AuditInput) {
+  return {
+    actor_id: actor?.userId ?? null,
+    session_id: actor?.sessionId ?? null,
+    token_id: actor?.tokenId ?? null,
+    project_id: event.projectId ?? null,
+    action: event.action,
+    object_type: event.objectType,
+    object_id: event.objectId ?? null,
+    old_value: event.oldValue === undefined ? null : JSON.stringify(event.oldValue),
+    new_value: event.newValue === undefined ? null : JSON.stringify(event.newValue),
+    reason: event.reason ?? null,
+  };
+}
+
 export async function recordAudit(
   db: Kysely<Database> | Transaction<Database>,
   actor: Actor | null,
   event: AuditInput,
 ): Promise<void> {
-  await db
-    .insertInto('audit_events')
-    .values({
-      actor_id: actor?.userId ?? null,
-      session_id: actor?.sessionId ?? null,
-      token_id: actor?.tokenId ?? null,
-      project_id: event.projectId ?? null,
-      action: event.action,
-      object_type: event.objectType,
-      object_id: event.objectId ?? null,
-      old_value: event.oldValue === undefined ? null : JSON.stringify(event.oldValue),
-      new_value: event.newValue === undefined ? null : JSON.stringify(event.newValue),
-      reason: event.reason ?? null,
-    })
-    .execute();
+  await db.insertInto('audit_events').values(auditRow(actor, event)).execute();
 }

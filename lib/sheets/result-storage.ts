@@ -38,16 +38,19 @@ export interface StoredResults {
   result_cells: Buffer;
 }
 
+/** What a version stores of its results: its columns, and the cell rows not stored before. */
+export interface ResultRows extends StoredResults {
+  /** The cells `known` does not list: their digests (hex) and the exact texts the digests were made from. */
+  newHashes: string[];
+  newTexts: string[];
+}
+
 /**
- * Stores the cells of `results` that `known` (the digests of the version saved before, or null)
- * does not list, and returns the version's columns. Within `trx`, before the version row is
- * inserted; a cell already stored by any version is not stored again (rows are never changed).
+ * The version's result columns, and the cells of `results` that `known` (the digests of the version
+ * saved before, or null) does not list: those a save must store (a cell any other version stored
+ * already is skipped by the insert; rows are never changed).
  */
-export async function storeResults(
-  trx: Transaction<Database>,
-  results: SheetResult,
-  known: Uint8Array | null,
-): Promise<StoredResults> {
+export function resultRows(results: SheetResult, known: Uint8Array | null): ResultRows {
   const { cells, ...head } = results;
   const have = new Set<string>();
   if (known) for (let i = 0; i < known.length; i += DIGEST_BYTES) have.add(hex(known.subarray(i, i + DIGEST_BYTES)));
@@ -63,13 +66,26 @@ export async function storeResults(
     // The exact text the digest was made from (a digest kept from earlier: the same text again).
     newTexts.push(texts.get(cell) ?? JSON.stringify(cell));
   });
+  return { result_head: JSON.stringify(head), result_cells: Buffer.concat(list), newHashes, newTexts };
+}
+
+/**
+ * Stores the cells of `results` that `known` does not list and returns the version's columns.
+ * Within `trx`, before the version row is inserted.
+ */
+export async function storeResults(
+  trx: Transaction<Database>,
+  results: SheetResult,
+  known: Uint8Array | null,
+): Promise<StoredResults> {
+  const { newHashes, newTexts, ...stored } = resultRows(results, known);
   if (newHashes.length > 0) {
     await sql`
       insert into result_cells (hash, result)
       select decode(t.h, 'hex'), t.r::json from unnest(${newHashes}::text[], ${newTexts}::text[]) as t(h, r)
       on conflict (hash) do nothing`.execute(trx);
   }
-  return { result_head: JSON.stringify(head), result_cells: Buffer.concat(list) };
+  return stored;
 }
 
 const hex = (bytes: Uint8Array) => Buffer.from(bytes.buffer, bytes.byteOffset, bytes.byteLength).toString('hex');

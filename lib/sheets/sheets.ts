@@ -6,7 +6,7 @@ import { z } from 'zod';
 import { INT4_MAX } from '@/lib/http/params';
 import type { Database } from '@/db/schema';
 import type { Actor } from '@/lib/auth/actor';
-import { recordAudit } from '@/lib/audit/record';
+import { auditRow, recordAudit } from '@/lib/audit/record';
 import type { InputTable, SheetResult } from '@/lib/calc/types';
 import {
   copyAttachments,
@@ -25,7 +25,7 @@ import { NEW_SHEET_DISPLAY_UNITS } from '@/lib/calc/display-units';
 import { contentHash } from './content-hash';
 import type { ResolvedCitation } from './references';
 import { formatSheetNumber } from './sheet-number';
-import { storeResults } from './result-storage';
+import { resultRows, storeResults } from './result-storage';
 
 export const createSheetSchema = z.object({
   title: z.string().trim().min(1, 'give the sheet a title').max(300),
@@ -378,77 +378,64 @@ async function prepareVersion(
   return { results, citations, hash: contentHash(content) };
 }
 
-/** Inserts a prepared version on top of `parentNumber`, inside `trx`; 409 when the sheet moved on. */
+/** The sheet's void mark and its latest version, read in one query. */
+async function readLatest(db: Kysely<Database> | Transaction<Database>, sheetId: string) {
+  const { rows } = await sql<{
+    voided_at: Date | null;
+    number: number;
+    content_hash: string;
+    result_cells: Buffer | null;
+  }>`
+    select s.voided_at, v.number, v.content_hash, v.result_cells
+    from sheets s
+    cross join lateral (
+      select number, content_hash, result_cells from versions where sheet_id = s.id order by number desc limit 1
+    ) v
+    where s.id = ${sheetId}`.execute(db);
+  if (rows.length === 0) throw new AppError('not_found', 'No such sheet.');
+  return rows[0];
+}
+
+const voidSheet = () =>
+  new AppError('conflict', 'This sheet is void: it keeps its versions but takes no new ones.', { voided: true });
+
+const movedOn = (latest: { number: number; content_hash: string }, parentNumber: number) =>
+  new AppError(
+    'conflict',
+    `Version ${latest.number} was saved since version ${parentNumber}, which your edits are based on.`,
+    {
+      latestNumber: latest.number,
+      latestSha256: latest.content_hash,
+    },
+  );
+
+/**
+ * Inserts a prepared version on top of `parentNumber`; 409 when the sheet moved on or is void.
+ *
+ * One read, then one statement: the sheet's row (locked by its update, which finds nothing once the
+ * sheet is void), the cells the version before does not hold, the version, the revisions it cites
+ * and its audit event. Run on its own the statement is its own transaction, so a save holds the
+ * sheet's row and the audit chain's lock only while the database executes it, never across a round
+ * trip to this process. A save that raced another based on the same parent collides on the
+ * version's number (versions_sheet_number_key) and is refused as the read would have refused it.
+ */
 async function insertVersion(
-  trx: Transaction<Database>,
+  db: Kysely<Database> | Transaction<Database>,
   actor: Actor,
   sheet: { id: string; project_id: string },
   input: z.infer<typeof saveVersionSchema>,
   prepared: PreparedVersion,
 ) {
   const { results, citations, hash } = prepared;
-  const locked = await trx
-    .selectFrom('sheets')
-    .select(['id', 'voided_at'])
-    .where('id', '=', sheet.id)
-    .forUpdate()
-    .executeTakeFirstOrThrow();
-  if (locked.voided_at)
-    throw new AppError('conflict', 'This sheet is void: it keeps its versions but takes no new ones.', {
-      voided: true,
-    });
-  const latest = await trx
-    .selectFrom('versions')
-    .select(['number', 'content_hash', 'result_cells'])
-    .where('sheet_id', '=', sheet.id)
-    .orderBy('number', 'desc')
-    .limit(1)
-    .executeTakeFirstOrThrow();
-  if (latest.number !== input.parentNumber) {
-    throw new AppError(
-      'conflict',
-      `Version ${latest.number} was saved since version ${input.parentNumber}, which your edits are based on.`,
-      {
-        latestNumber: latest.number,
-        latestSha256: latest.content_hash,
-      },
-    );
-  }
+  const latest = await readLatest(db, sheet.id);
+  if (latest.voided_at) throw voidSheet();
+  if (latest.number !== input.parentNumber) throw movedOn(latest, input.parentNumber);
   const number = latest.number + 1;
   // Only the cells whose results the version before does not hold are stored anew.
-  const stored = await storeResults(trx, results, latest.result_cells);
-  const version = await trx
-    .insertInto('versions')
-    .values({
-      sheet_id: sheet.id,
-      number,
-      parent_number: input.parentNumber,
-      content: JSON.stringify(input.content),
-      content_hash: hash,
-      ...stored,
-      engine_version: results.engineVersion,
-      constants_edition: results.constantsEdition,
-      author_id: actor.userId,
-      message: input.message,
-    })
-    .returning('id')
-    .executeTakeFirstOrThrow();
+  const rows = resultRows(results, latest.result_cells);
   // The revisions this version depends on, for the superseded-input flags and the impact page.
-  const cited = citations.flatMap((c) =>
-    c.revisionId ? [{ version_id: version.id, revision_id: c.revisionId, name: c.reference.name }] : [],
-  );
-  if (cited.length > 0)
-    await trx
-      .insertInto('version_references')
-      .values(cited)
-      .onConflict((oc) => oc.doNothing())
-      .execute();
-  await trx
-    .updateTable('sheets')
-    .set({ title: input.content.title, safety_related: input.content.safetyRelated, updated_at: sql`now()` })
-    .where('id', '=', sheet.id)
-    .execute();
-  await recordAudit(trx, actor, {
+  const cited = citations.flatMap((c) => (c.revisionId ? [{ revisionId: c.revisionId, name: c.reference.name }] : []));
+  const audit = auditRow(actor, {
     action: 'version.save',
     objectType: 'sheet',
     objectId: sheet.id,
@@ -456,6 +443,50 @@ async function insertVersion(
     newValue: { version: number, parent: input.parentNumber, sha256: hash },
     reason: input.message,
   });
+  let inserted: { id: string }[];
+  try {
+    ({ rows: inserted } = await sql<{ id: string }>`
+      with sheet as (
+        update sheets
+        set title = ${input.content.title}::text, safety_related = ${input.content.safetyRelated}::boolean, updated_at = now()
+        where id = ${sheet.id}::uuid and voided_at is null
+        returning id
+      ), cells as (
+        insert into result_cells (hash, result)
+        select decode(t.h, 'hex'), t.r::json
+        from unnest(${rows.newHashes}::text[], ${rows.newTexts}::text[]) as t(h, r)
+        where exists (select 1 from sheet)
+        on conflict (hash) do nothing
+      ), version as (
+        insert into versions (sheet_id, number, parent_number, content, content_hash, result_head, result_cells,
+                              engine_version, constants_edition, author_id, message)
+        select sheet.id, ${number}::integer, ${input.parentNumber}::integer, ${JSON.stringify(input.content)}::jsonb,
+               ${hash}::text, ${rows.result_head}::jsonb, ${rows.result_cells}::bytea, ${results.engineVersion}::text,
+               ${results.constantsEdition}::text, ${actor.userId}::uuid, ${input.message}::text
+        from sheet
+        returning id
+      ), refs as (
+        insert into version_references (version_id, revision_id, name)
+        select version.id, t.r, t.n
+        from version, unnest(${cited.map((c) => c.revisionId)}::uuid[], ${cited.map((c) => c.name)}::text[]) as t(r, n)
+        on conflict do nothing
+      ), audit as (
+        insert into audit_events (actor_id, session_id, token_id, project_id, action, object_type, object_id,
+                                  old_value, new_value, reason)
+        select ${audit.actor_id}::uuid, ${audit.session_id}::uuid, ${audit.token_id}::uuid, ${audit.project_id}::uuid,
+               ${audit.action}::text, ${audit.object_type}::text, ${audit.object_id}::text, ${audit.old_value}::jsonb,
+               ${audit.new_value}::jsonb, ${audit.reason}::text
+        from version
+      )
+      select id from version`.execute(db));
+  } catch (error) {
+    const pgError = error as { code?: string; constraint?: string };
+    if (pgError.code === '23505' && pgError.constraint === 'versions_sheet_number_key')
+      throw movedOn(await readLatest(db, sheet.id), input.parentNumber);
+    throw error;
+  }
+  // No row: the sheet was voided between the read and the statement.
+  if (inserted.length === 0) throw voidSheet();
   return { number, sha256: hash, ok: results.ok };
 }
 
@@ -470,5 +501,5 @@ export async function saveVersion(
   input: z.infer<typeof saveVersionSchema>,
 ) {
   const prepared = await prepareVersion(db, sheet, input.content, actor.userId);
-  return db.transaction().execute((trx) => insertVersion(trx, actor, sheet, input, prepared));
+  return insertVersion(db, actor, sheet, input, prepared);
 }
