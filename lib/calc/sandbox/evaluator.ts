@@ -502,10 +502,11 @@ export class SandboxedEvaluator {
     options: EvaluateOptions,
     scope: string,
   ): Promise<SheetResult> {
-    const prefixKeys = this.prefixKeys(cells, options, scope);
+    // The prefix keys (a SHA-256 per cell) are worked out only when a limit is remembered or hit.
+    let prefixKeys = this.limitHits.size > 0 ? this.prefixKeys(cells, options, scope) : null;
     const skip = new Map<string, string>();
     const now = Date.now();
-    for (const [i, k] of prefixKeys.entries()) {
+    for (const [i, k] of (prefixKeys ?? []).entries()) {
       const remembered = this.limitHits.get(k);
       if (remembered && now - remembered.at < this.rememberLimitMs) skip.set(cells[i].id, remembered.message);
       else if (remembered) this.limitHits.delete(k);
@@ -534,6 +535,7 @@ export class SandboxedEvaluator {
         if (error.limit) {
           if (this.limitHits.size >= REMEMBERED_LIMITS)
             this.limitHits.delete(this.limitHits.keys().next().value as string);
+          prefixKeys ??= this.prefixKeys(cells, options, scope);
           this.limitHits.set(prefixKeys[error.cellIndex], { message: error.message, at: Date.now() });
         }
         if (Date.now() > budgetEnds) {
