@@ -39,6 +39,7 @@ export const UNIT = [
   'tests/ops/config.test.ts',
   'tests/sheets/compare.test.ts',
   'tests/sheets/content-hash.test.ts',
+  'tests/sheets/result-rows.test.ts',
   'tests/sheets/markdown.test.ts',
 ];
 export const BROWSER = ['tests/e2e/**/*.test.ts'];

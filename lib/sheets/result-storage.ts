@@ -52,16 +52,21 @@ export interface ResultRows extends StoredResults {
  */
 export function resultRows(results: SheetResult, known: Uint8Array | null): ResultRows {
   const { cells, ...head } = results;
-  const have = new Set<string>();
-  if (known) for (let i = 0; i < known.length; i += DIGEST_BYTES) have.add(hex(known.subarray(i, i + DIGEST_BYTES)));
   const texts = new Map<CellResult, string>();
   const list = cells.map((cell) => digestOf(cell, texts));
   const newHashes: string[] = [];
   const newTexts: string[] = [];
+  // Most cells are where they were, unchanged: compared in place; any other is looked for anywhere
+  // in the version before's list (at a digest's boundary), then among those stored by this save.
+  const before = known ? Buffer.from(known.buffer, known.byteOffset, known.byteLength) : null;
+  const adding = new Set<string>();
   cells.forEach((cell, i) => {
+    const at = i * DIGEST_BYTES;
+    if (before && at + DIGEST_BYTES <= before.length && list[i].equals(before.subarray(at, at + DIGEST_BYTES))) return;
+    if (before && listedIn(before, list[i])) return;
     const h = list[i].toString('hex');
-    if (have.has(h)) return;
-    have.add(h);
+    if (adding.has(h)) return;
+    adding.add(h);
     newHashes.push(h);
     // The exact text the digest was made from (a digest kept from earlier: the same text again).
     newTexts.push(texts.get(cell) ?? JSON.stringify(cell));
@@ -88,4 +93,10 @@ export async function storeResults(
   return stored;
 }
 
-const hex = (bytes: Uint8Array) => Buffer.from(bytes.buffer, bytes.byteOffset, bytes.byteLength).toString('hex');
+/** Whether `digests` (32 bytes each) lists `digest`. */
+function listedIn(digests: Buffer, digest: Buffer): boolean {
+  for (let at = digests.indexOf(digest); at !== -1; at = digests.indexOf(digest, at + 1))
+    if (at % DIGEST_BYTES === 0) return true;
+  return false;
+}
+
