@@ -1,4 +1,7 @@
-// Every migration applies to an empty database, reverts completely and applies again.
+// Every migration applies to an empty database, reverts completely and applies again; instances
+// migrating at the same moment apply each migration once.
+import { readdir } from 'node:fs/promises';
+import path from 'node:path';
 import { sql } from 'kysely';
 import pg from 'pg';
 import { afterAll, beforeAll, expect, inject, it } from 'vitest';
@@ -73,5 +76,32 @@ it('migrates up from nothing, down to nothing and up again', async () => {
     expect(await tables(db)).toEqual(expected);
   } finally {
     await db.destroy();
+  }
+});
+
+it('applies each migration once when several instances migrate an empty database at the same moment', async () => {
+  // As several app instances starting together do: Kysely's Migrator takes a PostgreSQL advisory lock
+  // (in a transaction) around the whole run, so the second and third find nothing left to apply.
+  const admin = new pg.Client({ connectionString: inject('adminServerUrl') });
+  await admin.connect();
+  await admin.query(`drop database if exists ${DB} with (force)`);
+  await admin.query(`create database ${DB} owner worldsheet template template0`);
+  await admin.end();
+  const instances = [1, 2, 3].map(() => createDb(url, { max: 1 }));
+  try {
+    const applied = await Promise.all(
+      instances.map(async (db) => {
+        const lines: string[] = [];
+        await migrateToLatest(db, (line) => lines.push(line));
+        return lines.filter((l) => l.endsWith(': applied')).length;
+      }),
+    );
+    const files = (await readdir(path.join(process.cwd(), 'migrations'))).filter((f) => /\.(ts|mjs|js)$/.test(f));
+    // One instance applied every migration; the others none.
+    expect([...applied].sort((a, b) => a - b)).toEqual([0, 0, files.length]);
+    const rows = await sql<{ name: string }>`select name from kysely_migration order by name`.execute(instances[0]);
+    expect(rows.rows.map((r) => r.name)).toEqual(files.map((f) => f.replace(/\.[^.]+$/, '')).sort());
+  } finally {
+    await Promise.all(instances.map((db) => db.destroy()));
   }
 });
