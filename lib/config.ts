@@ -82,6 +82,8 @@ const SETTINGS = {
   // Where the app listens and how people reach it
   PORT: port.default(3000),
   WORLDSHEET_HOST: text.default('127.0.0.1'),
+  WORLDSHEET_DRAIN_DELAY_MS: integer(0, 'a whole number of milliseconds').default(0),
+  WORLDSHEET_DRAIN_TIMEOUT_MS: integer(0, 'a whole number of milliseconds').default(25_000),
   NEXTAUTH_URL: url(['http:', 'https:']).optional(),
   NEXTAUTH_SECRET: text.optional(),
   WORLDSHEET_HTTPS: yesNo.optional(),

@@ -403,8 +403,10 @@ export const importPreviewSchema = z.object({
   ),
 });
 
+export const livenessSchema = z.object({ status: z.literal('ok'), version: z.string() });
+
 export const healthSchema = z.object({
-  status: z.enum(['ok', 'unavailable']),
+  status: z.enum(['ok', 'unavailable', 'draining']),
   version: z.string(),
   database: z.object({
     status: z.enum(['up', 'down']),

@@ -120,12 +120,25 @@ export const OPERATIONS: Operation[] = [
     method: 'GET',
     path: '/api/health',
     operationId: 'getHealth',
-    summary: 'Health of the app and its database',
+    summary: 'Readiness: the app and its database',
+    description:
+      'For a load balancer: 200 while this instance takes requests; 503 while its database cannot be reached or while it drains after SIGTERM (status `draining`).',
     tags: ['meta'],
     auth: 'none',
     responses: {
       200: json('Up, with the latest migration and the app version.', res.healthSchema),
-      503: json('The database cannot be reached.', res.healthSchema),
+      503: json('The database cannot be reached, or this instance is draining.', res.healthSchema),
+    },
+  },
+  {
+    method: 'GET',
+    path: '/api/health/live',
+    operationId: 'getLiveness',
+    summary: 'Liveness: the process answers (asks nothing of the database)',
+    tags: ['meta'],
+    auth: 'none',
+    responses: {
+      200: json('The process answers.', res.livenessSchema),
     },
   },
   {

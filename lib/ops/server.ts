@@ -19,6 +19,7 @@ import { fileURLToPath } from 'node:url';
 import v8 from 'node:v8';
 import next from 'next';
 import { checkProduction, config, ConfigError, defaultNodeEnv } from '../config';
+import { startDraining } from '../health/draining';
 import { isTrustedProxy, parseTrustedProxies, PEER_ADDRESS_HEADER } from '../http/client-address';
 import { edgeHeaders, httpsEnabled, newNonce } from '../http/security-headers';
 
@@ -102,6 +103,7 @@ async function main(): Promise<void> {
   // Production collects sooner (above); --dev keeps V8's own heap growth.
   if (!dev) limitHeapGrowth();
   const server = createServer();
+  let closing = false;
   const app = next({ dev, dir: root, hostname, port, httpServer: server });
   const handle = app.getRequestHandler();
   await app.prepare();
@@ -117,6 +119,8 @@ async function main(): Promise<void> {
       return;
     }
     for (const [name, value] of Object.entries(headers)) res.setHeader(name, value);
+    // Once the server stops accepting, each kept-alive connection closes after its response.
+    if (closing) res.setHeader('Connection', 'close');
     handle(req, res).catch((error: unknown) => {
       console.error(error);
       if (!res.headersSent) res.statusCode = 500;
@@ -133,18 +137,37 @@ async function main(): Promise<void> {
     `[worldsheet] app server (${dev ? 'development' : 'production'}) listening on http://${hostname}:${port}${https ? ', served to browsers over HTTPS' : ''}`,
   );
 
+  // Stopping (SIGTERM from a process manager, SIGINT from a terminal) drains: readiness (GET
+  // /api/health) answers 503 at once; after WORLDSHEET_DRAIN_DELAY_MS (for a load balancer to see it)
+  // the server stops accepting connections and answers what is in flight, closing each kept-alive
+  // connection after its response; at WORLDSHEET_DRAIN_TIMEOUT_MS whatever is left is cut off.
+  const drainDelayMs = settings.WORLDSHEET_DRAIN_DELAY_MS;
+  const drainTimeoutMs = settings.WORLDSHEET_DRAIN_TIMEOUT_MS;
   let stopping = false;
   const stop = (signal: NodeJS.Signals) => {
     if (stopping) return;
     stopping = true;
-    server.close();
-    server.closeIdleConnections();
-    const force = setTimeout(() => process.exit(0), 5_000);
+    startDraining();
+    console.log(
+      `[worldsheet] ${signal}: draining (not ready; closing in ${drainDelayMs} ms, at most ${drainTimeoutMs} ms in all)`,
+    );
+    const exitCode = signal === 'SIGINT' ? 130 : 0;
+    const force = setTimeout(() => {
+      console.log('[worldsheet] drain time is up: closing the connections left');
+      server.closeAllConnections();
+      process.exit(exitCode);
+    }, drainTimeoutMs);
     force.unref();
-    app
-      .close()
-      .catch(() => undefined)
-      .finally(() => process.exit(signal === 'SIGINT' ? 130 : 0));
+    setTimeout(() => {
+      closing = true;
+      server.close(() => {
+        app
+          .close()
+          .catch(() => undefined)
+          .finally(() => process.exit(exitCode));
+      });
+      server.closeIdleConnections();
+    }, drainDelayMs);
   };
   process.on('SIGTERM', () => stop('SIGTERM'));
   process.on('SIGINT', () => stop('SIGINT'));

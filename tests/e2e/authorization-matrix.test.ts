@@ -105,6 +105,7 @@ const reason = 'matrix test';
 // Keys are "METHOD /api/path" with the route file's own [segments].
 const MATRIX: Record<string, Entry> = {
   'GET /api/health': { request: () => ({ path: '/api/health' }), expect: { default: 200 } },
+  'GET /api/health/live': { request: () => ({ path: '/api/health/live' }), expect: { default: 200 } },
   'GET /api/openapi.json': { request: () => ({ path: '/api/openapi.json' }), expect: { default: 200 } },
   'GET /api/auth/[...nextauth]': { request: () => ({ path: '/api/auth/providers' }), expect: { default: 200 } },
   'POST /api/auth/[...nextauth]': {

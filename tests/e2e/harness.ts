@@ -21,6 +21,8 @@ export const SCREENSHOT_DIR = path.join(root, 'tests', '.artifacts', 'screenshot
 
 export interface RunningApp {
   baseUrl: string;
+  /** The app server's process (lib/ops/server.ts), for tests of how it stops. */
+  server: ChildProcess;
   stop(): Promise<void>;
 }
 
@@ -84,6 +86,7 @@ export async function startApp(extraEnv: Record<string, string> = {}): Promise<R
   }
   return {
     baseUrl,
+    server: child,
     async stop() {
       await Promise.all([stopChild(child), worker.stop()]);
       const after = reportsFrom > cspReportsAcknowledgedThrough ? reportsFrom : cspReportsAcknowledgedThrough;
