@@ -99,4 +99,3 @@ function listedIn(digests: Buffer, digest: Buffer): boolean {
     if (at % DIGEST_BYTES === 0) return true;
   return false;
 }
-
