@@ -57,6 +57,8 @@ export function buildIfStale(root: string, distDir: string, env: NodeJS.ProcessE
     env: { ...env, WORLDSHEET_DIST_DIR: distDir, NEXT_TELEMETRY_DISABLED: '1' },
   });
   if (result.status !== 0) throw new Error('`next build` failed; see its messages above.');
-  writeFileSync(stamp, `${wanted}\n`);
+  // Hashed again: `next build` may rewrite tsconfig.json, and a stamp of the sources before it would
+  // make the next caller build again, into the folder a running server reads.
+  writeFileSync(stamp, `${sourceHash(root)}\n`);
   return true;
 }

@@ -29,9 +29,16 @@ export interface RunningApp {
 /** A fixed secret for the test server's signed session cookies. */
 const TEST_AUTH_SECRET = 'worldsheet-test-secret-not-for-production-use';
 
-export async function startApp(extraEnv: Record<string, string> = {}): Promise<RunningApp> {
+/**
+ * Starts the app server and a job worker on the test database. `options.port` runs a further
+ * instance beside the first (the tests of several instances); it defaults to WORLDSHEET_TEST_APP_PORT.
+ */
+export async function startApp(
+  extraEnv: Record<string, string> = {},
+  options: { port?: number } = {},
+): Promise<RunningApp> {
   const reportsFrom = BigInt(await lastCspReportId());
-  const port = Number(process.env.WORLDSHEET_TEST_APP_PORT ?? 3199);
+  const port = options.port ?? Number(process.env.WORLDSHEET_TEST_APP_PORT ?? 3199);
   const env: NodeJS.ProcessEnv = {
     ...process.env,
     NODE_ENV: 'production',
