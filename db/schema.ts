@@ -232,6 +232,9 @@ interface IssueJobsTable {
   revision_id: string | null;
   created_at: Timestamp;
   finished_at: ColumnType<Date | null, Date | string | null | undefined, Date | string | null>;
+  /** The job worker working the request, and until when (renewed while it works; lib/issue/job.ts). */
+  lease_owner: string | null;
+  lease_expires_at: ColumnType<Date | null, Date | string | null | undefined, Date | string | null>;
 }
 
 interface RevisionsTable {

@@ -139,6 +139,7 @@ const SETTINGS = {
   WORLDSHEET_SIGNATURE_PARSE_TIMEOUT_MS: integer(1, 'a whole number of milliseconds (1 or more)').default(2000),
   WORLDSHEET_SIGNATURE_PARSE_MEMORY_MB: integer(1, 'a whole number of MB (1 or more)').default(64),
   WORLDSHEET_ISSUE_STEP_PAUSE_MS: integer(0, 'a whole number of milliseconds (0 or more)').default(0),
+  WORLDSHEET_ISSUE_LEASE_SECONDS: integer(2, 'a whole number of seconds (2 or more)').default(30),
   // Tools and diagnostics
   WORLDSHEET_CHROMIUM: text.default('/usr/bin/chromium'),
   WORLDSHEET_DEBUG: text.optional(),

@@ -4,7 +4,7 @@
 // Each step is resumable: the PDF of a job is stored under the job's own key, so a job run again
 // after a crash reuses it, and the final transaction happens once (all or nothing).
 import { createHash } from 'node:crypto';
-import { sql, type Kysely, type Transaction } from 'kysely';
+import { sql, type Kysely, type Selectable, type Transaction } from 'kysely';
 import type { Database } from '@/db/schema';
 import type { Actor } from '@/lib/auth/actor';
 import { recordAudit } from '@/lib/audit/record';
@@ -191,14 +191,94 @@ export async function revisionPdfData(db: Kysely<Database>, jobId: string): Prom
   };
 }
 
+/** How long a lease lasts without being renewed (renewed every third of it while the job is worked). */
+const leaseSeconds = () => config().WORLDSHEET_ISSUE_LEASE_SECONDS;
+
+/**
+ * Takes (or renews) the lease of a pending request for `owner`: granted when no one holds it, when
+ * `owner` does, or when the holder's lease has lapsed. False when another live worker holds it or
+ * the request is no longer pending.
+ */
+async function takeLease(db: Kysely<Database>, jobId: string, owner: string): Promise<boolean> {
+  const taken = await db
+    .updateTable('issue_jobs')
+    .set({ lease_owner: owner, lease_expires_at: sql`now() + make_interval(secs => ${leaseSeconds()})` })
+    .where('id', '=', jobId)
+    .where('state', '=', 'pending')
+    .where((eb) =>
+      eb.or([
+        eb('lease_owner', 'is', null),
+        eb('lease_owner', '=', owner),
+        eb('lease_expires_at', '<', sql<Date>`now()`),
+      ]),
+    )
+    .returning('id')
+    .executeTakeFirst();
+  return taken !== undefined;
+}
+
+/**
+ * Pending requests whose worker's lease has lapsed (the worker died or was cut off while working
+ * them): another worker queues them again (lib/jobs/issue-job.ts).
+ */
+export async function lapsedIssueJobs(db: Kysely<Database>): Promise<Array<{ id: string; lapsedAt: Date }>> {
+  const rows = await db
+    .selectFrom('issue_jobs')
+    .select(['id', 'lease_expires_at'])
+    .where('state', '=', 'pending')
+    .where('lease_expires_at', '<', sql<Date>`now()`)
+    .execute();
+  return rows.map((r) => ({ id: r.id, lapsedAt: r.lease_expires_at! }));
+}
+
+/** Ends `owner`'s leases at once (a worker stopping with requests in hand): another worker resumes them. */
+export async function releaseIssueLeases(db: Kysely<Database>, owner: string): Promise<void> {
+  await db
+    .updateTable('issue_jobs')
+    .set({ lease_expires_at: sql`now() - interval '1 second'` })
+    .where('lease_owner', '=', owner)
+    .where('state', '=', 'pending')
+    .execute();
+}
+
 /**
  * Works one issue job to its end. Safe to run again at any point: a stored PDF is reused, and the
- * revision is recorded once. Returns the revision id.
+ * revision is recorded once. Returns the revision id. With `options.owner` (a job worker), the
+ * request is worked only under that worker's lease, renewed while it works; null when another live
+ * worker holds it (that worker finishes it, or another resumes it once its lease lapses).
  */
-export async function processIssueJob(db: Kysely<Database>, store: ObjectStore, jobId: string): Promise<string | null> {
+export async function processIssueJob(
+  db: Kysely<Database>,
+  store: ObjectStore,
+  jobId: string,
+  options: { owner?: string } = {},
+): Promise<string | null> {
   const job = await db.selectFrom('issue_jobs').selectAll().where('id', '=', jobId).executeTakeFirst();
   if (!job) return null;
   if (job.state !== 'pending') return job.revision_id;
+  const owner = options.owner;
+  if (owner === undefined) return workIssueJob(db, store, job);
+  if (!(await takeLease(db, jobId, owner))) {
+    const now = await db
+      .selectFrom('issue_jobs')
+      .select(['state', 'revision_id'])
+      .where('id', '=', jobId)
+      .executeTakeFirst();
+    return now && now.state !== 'pending' ? now.revision_id : null;
+  }
+  const renew = setInterval(() => void takeLease(db, jobId, owner).catch(() => undefined), (leaseSeconds() * 1000) / 3);
+  try {
+    return await workIssueJob(db, store, job);
+  } finally {
+    clearInterval(renew);
+  }
+}
+
+async function workIssueJob(
+  db: Kysely<Database>,
+  store: ObjectStore,
+  job: Selectable<Database['issue_jobs']>,
+): Promise<string | null> {
   // The PDF a request produces is stored under the request's prefix by its own SHA-256, and then
   // claimed in the request's row; only the claimed one is ever recorded. A rerun reuses a claimed
   // or stored PDF rather than making a new one, and a duplicate from a concurrent run is discarded.

@@ -1,7 +1,7 @@
 // Works every queue of lib/jobs/queue.ts until stopped. Runs in its own process
 // (lib/jobs/worker-main.ts), started by `npm start` and by the browser test harness.
 import { createQueues, startBoss } from './queue';
-import { workIssueQueue } from './issue-job';
+import { workIssueQueue, type IssueQueueWorker } from './issue-job';
 import { workMailQueue, type MailDelivery, type MailDeliverySettings } from './mail-job';
 
 export interface JobWorkerOptions {
@@ -23,6 +23,7 @@ export async function startJobWorker(options: JobWorkerOptions): Promise<JobWork
   // A lost connection or a failing poll is reported and retried by pg-boss, never fatal.
   boss.on('error', (error) => log(`job queue error: ${error.message}`));
   const deliveries: MailDelivery[] = [];
+  let issuing: IssueQueueWorker | null = null;
   try {
     await createQueues(boss);
     deliveries.push(
@@ -32,7 +33,7 @@ export async function startJobWorker(options: JobWorkerOptions): Promise<JobWork
         log,
       }),
     );
-    await workIssueQueue(boss, { pollingIntervalSeconds: options.pollingIntervalSeconds ?? 1, log });
+    issuing = await workIssueQueue(boss, { pollingIntervalSeconds: options.pollingIntervalSeconds ?? 1, log });
   } catch (error) {
     await boss.stop({ graceful: false });
     throw error;
@@ -44,6 +45,8 @@ export async function startJobWorker(options: JobWorkerOptions): Promise<JobWork
         // wait: true resolves once the jobs in hand are finished (or failed at the timeout) and the pool is closed.
         await boss.stop({ graceful: true, wait: true, timeout: timeoutMs });
         for (const d of deliveries) d.close();
+        // A request still in hand at the timeout goes to another worker at once, not after its lease.
+        await issuing?.close();
       })();
       return stopping;
     },
