@@ -47,7 +47,7 @@ import { makeUser } from '../support/people';
 const root = path.resolve(path.dirname(fileURLToPath(import.meta.url)), '..', '..');
 const DATABASE = 'worldsheet_load_bench';
 const DIST_DIR = process.env.WORLDSHEET_BENCH_DIST_DIR || '.next-bench';
-const USERS = 50;
+export const USERS = 50;
 const FIRST_SECONDS = Number(process.env.WORLDSHEET_BENCH_LOAD_SECONDS ?? 60);
 const REPEAT_SECONDS = Number(process.env.WORLDSHEET_BENCH_LOAD_REPEAT_SECONDS ?? 30);
 const HEALTH_SECONDS = Number(process.env.WORLDSHEET_BENCH_HEALTH_SECONDS ?? 15);
@@ -56,13 +56,13 @@ const IDLE_SECONDS = 5;
 const APP_PORT = Number(process.env.WORLDSHEET_BENCH_APP_PORT ?? 3400);
 const S3_PORT = Number(process.env.WORLDSHEET_BENCH_S3_PORT ?? 4618);
 /** A request unanswered this long counts as failed; generous so that a slow save is still acknowledged. */
-const REQUEST_TIMEOUT_S = 60;
+export const REQUEST_TIMEOUT_S = 60;
 /** The aim for the app server's resident memory at the peak of the 50-user load. */
 const MEMORY_AIM = 600 * 1024 ** 2;
 
 // ── The autocannon API, as far as it is used here ─────────────────────────────────────────────
 
-interface CannonRequest {
+export interface CannonRequest {
   kind: Kind;
   method: 'GET' | 'POST';
   path: string;
@@ -70,7 +70,7 @@ interface CannonRequest {
   setupRequest?: (request: CannonRequest) => CannonRequest;
   onResponse?: (status: number, body: string) => void;
 }
-interface CannonClient {
+export interface CannonClient {
   setRequests(requests: CannonRequest[]): void;
   requestIterator: { currentRequest: CannonRequest };
 }
@@ -83,11 +83,11 @@ interface CannonInstance extends Promise<CannonResult> {
   on(event: 'response', listener: (client: CannonClient, status: number, bytes: number, ms: number) => void): void;
   stop(): void;
 }
-const cannon = autocannon as (options: Record<string, unknown>) => CannonInstance;
+export const cannon = autocannon as (options: Record<string, unknown>) => CannonInstance;
 
 // ── Figures ───────────────────────────────────────────────────────────────────────────────────
 
-const KINDS = ['evaluate', 'read sheet', 'save version', 'read version', 'compare'] as const;
+export const KINDS = ['evaluate', 'read sheet', 'save version', 'read version', 'compare'] as const;
 type Kind = (typeof KINDS)[number] | 'health';
 
 /** Nearest-rank percentile. */
@@ -102,18 +102,18 @@ interface Figures {
   n: number;
 }
 
-function figures(xs: number[]): Figures {
+export function figures(xs: number[]): Figures {
   const s = [...xs].sort((a, b) => a - b);
   return { p50: percentile(s, 0.5), p95: percentile(s, 0.95), p99: percentile(s, 0.99), n: s.length };
 }
 
 const ms = (x: number) => `${x.toFixed(1).padStart(8)} ms`;
 const mib = (bytes: number) => `${(bytes / 1024 ** 2).toFixed(0).padStart(5)} MiB`;
-const row = (label: string, f: Figures) =>
+export const row = (label: string, f: Figures) =>
   `  ${label.padEnd(16)} p50 ${ms(f.p50)}   p95 ${ms(f.p95)}   p99 ${ms(f.p99)}   (${f.n} requests)`;
 
 /** What one autocannon run saw, by kind of request. */
-class Tally {
+export class Tally {
   readonly latencies = new Map<Kind, number[]>();
   readonly statuses = new Map<string, number>();
   /** A few bodies of answers other than 2xx (and 409), to say what went wrong. */
@@ -192,7 +192,7 @@ function memorySampler(pid: number) {
 
 // ── The users and their sheets ────────────────────────────────────────────────────────────────
 
-interface User {
+export interface User {
   index: number;
   token: string;
   sheetId: string;
@@ -203,7 +203,7 @@ interface User {
   sentHash: string;
 }
 
-interface Ack {
+export interface Ack {
   sheetId: string;
   number: number;
   sha256: string;
@@ -225,7 +225,7 @@ function editedContent(base: VersionContent, u: number, edit: number): VersionCo
   });
 }
 
-function requestsFor(user: User, base: VersionContent, acks: Ack[], tallyOf: () => Tally): CannonRequest[] {
+export function requestsFor(user: User, base: VersionContent, acks: Ack[], tallyOf: () => Tally): CannonRequest[] {
   const headers = { authorization: `Bearer ${user.token}` };
   const json = { ...headers, 'content-type': 'application/json' };
   const sheet = `/api/sheets/${user.sheetId}`;
@@ -307,15 +307,16 @@ function requestsFor(user: User, base: VersionContent, acks: Ack[], tallyOf: () 
 
 // ── The app server ────────────────────────────────────────────────────────────────────────────
 
-async function startApp(
+export async function startApp(
   supervisor: Supervisor,
   env: NodeJS.ProcessEnv,
+  port = APP_PORT,
 ): Promise<{ child: ChildProcess; baseUrl: string; output: () => string }> {
   // The app's own server, as `npm start` runs it (lib/ops/server.ts).
   const child = supervisor.spawn(
-    'app server',
+    `app server ${port}`,
     process.execPath,
-    ['--import', 'tsx', path.join('lib', 'ops', 'server.ts'), '-H', '127.0.0.1', '-p', String(APP_PORT)],
+    ['--import', 'tsx', path.join('lib', 'ops', 'server.ts'), '-H', '127.0.0.1', '-p', String(port)],
     {
       cwd: root,
       env,
@@ -328,7 +329,7 @@ async function startApp(
   };
   child.stdout!.on('data', keep);
   child.stderr!.on('data', keep);
-  const baseUrl = `http://127.0.0.1:${APP_PORT}`;
+  const baseUrl = `http://127.0.0.1:${port}`;
   const deadline = Date.now() + 60_000;
   for (;;) {
     if (child.exitCode !== null) throw new Error(`the app server exited (${child.exitCode}):\n${output}`);
