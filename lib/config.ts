@@ -250,6 +250,11 @@ function productionProblems(settings: Config): string[] {
   }
   if (!settings.WORLDSHEET_SMTP_URL)
     problems.push('WORLDSHEET_SMTP_URL is not set: name the mail service (smtp:// or smtps://)');
+  // Without either, `npm start` would start the local fake object store: never for a deployment.
+  if (!settings.WORLDSHEET_S3_BUCKET && !settings.WORLDSHEET_S3_ENDPOINT)
+    problems.push(
+      'WORLDSHEET_S3_BUCKET is not set: name the bucket of the object store (and WORLDSHEET_S3_ENDPOINT for a self-hosted S3-compatible one)',
+    );
   return problems;
 }
 
