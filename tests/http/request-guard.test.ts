@@ -271,9 +271,11 @@ describe('path parameters', () => {
     const apiDir = path.join(process.cwd(), 'app', 'api');
     // csp-report: browsers post violation reports themselves (application/csp-report, with the page's
     // cookies); it reads no session and stores only capped reports (app/api/csp-report/route.ts).
+    // health/live: a load balancer's liveness probe, answered without reading the request or the database.
     const outside = new Set([
       'auth/[...nextauth]/route.ts',
       'health/route.ts',
+      'health/live/route.ts',
       'openapi.json/route.ts',
       'csp-report/route.ts',
     ]);
