@@ -336,3 +336,79 @@ export function bindLibrary(math: MathJsInstance, library: readonly CalcFunction
     },
   }));
 }
+
+const numericBases = new WeakMap<MathJsInstance, Map<string, Unit>>();
+
+/**
+ * A library function on SI numbers, for the statements a propagation re-evaluates (numeric-chain.ts):
+ * given the arguments at the sheet's values (which fix each argument's kind and dimension), a function
+ * of the arguments' SI numbers that gives the SI value of what the bound function returns, with the
+ * same kernel on the same doubles (so the same bits), without making a mathjs Unit. It throws where
+ * the bound function throws (a message without the argument echo: a draw's message is not shown).
+ * Null where the arguments or the result are of a form it does not take (a list, a pair, a unit of
+ * neither the kind's dimension nor its alternative's).
+ */
+export function numericLibraryCall(
+  math: MathJsInstance,
+  fn: CalcFunction,
+  nominal: readonly unknown[],
+): ((args: readonly number[]) => number) | null {
+  if (fn.returns === 'pair-time-length' || nominal.length !== fn.params.length) return null;
+  let bases = numericBases.get(math);
+  if (!bases) numericBases.set(math, (bases = new Map()));
+  const baseOf = (si: string): Unit => {
+    let u = bases!.get(si);
+    if (!u) bases!.set(si, (u = math.unit(si)));
+    return u;
+  };
+  const identity = (x: number) => x;
+  const convert: Array<(x: number) => number> = [];
+  let speeds = 0;
+  let plainSpeeds = 0;
+  for (const [i, param] of fn.params.entries()) {
+    const value = nominal[i];
+    if (param.kind === 'speed') speeds++;
+    if (typeof value === 'number') {
+      if (param.kind === 'speed') plainSpeeds++;
+      if (param.kind === 'number' || param.kind === 'speed' || param.kind === 'angle') convert.push(identity);
+      else if (param.kind === 'charge') convert.push((x) => chargeNumber(where(fn, i), x) * E_CHARGE);
+      else return null;
+      continue;
+    }
+    if (!math.isUnit(value) || param.kind === 'number') return null;
+    const unit = value as Unit;
+    if (typeof unit.value !== 'number') return null;
+    const spec = KIND_UNITS[param.kind];
+    if (unit.equalBase(baseOf(spec.si))) convert.push(param.kind === 'speed' ? (x) => x / C : identity);
+    else if (spec.alt && unit.equalBase(baseOf(spec.alt.si)) && (spec.alt.written?.(unit) ?? true))
+      convert.push(spec.alt.toSi);
+    else return null;
+  }
+  const n = convert.length;
+  const numbers = new Array<number>(n);
+  const argumentsOf = (args: readonly number[]): number[] => {
+    for (let i = 0; i < n; i++) {
+      const x = convert[i](args[i]);
+      if (!Number.isFinite(x))
+        throw new DomainError(`${fn.name}: argument ${i + 1} (${fn.params[i].name}) must be finite; got ${x}`);
+      numbers[i] = x;
+    }
+    return numbers;
+  };
+  const finiteOf = (x: number): number => {
+    if (typeof x === 'number' && Number.isFinite(x)) return x;
+    throw new DomainError(`${fn.name}: the result is not a finite number (${String(x)})`);
+  };
+  const kernel = fn.kernel as (...args: number[]) => number;
+  // As `call` above: all speed arguments plain numbers → a plain β; a precise speed → β·c; else `wrap`'s SI value.
+  if (fn.returns === 'speed' && speeds > 0 && plainSpeeds === speeds)
+    return (args) => finiteOf(kernel(...argumentsOf(args)));
+  if (fn.returns === 'speed' && fn.preciseKernel) {
+    const precise = fn.preciseKernel as (...args: number[]) => PreciseSpeed | number;
+    return (args) => finiteOf(speedValue(precise(...argumentsOf(args)))) * C;
+  }
+  if (fn.returns === 'number') return (args) => finiteOf(kernel(...argumentsOf(args)));
+  if (fn.returns === 'speed') return (args) => finiteOf(kernel(...argumentsOf(args))) * C;
+  if (fn.returns === 'energy-per-nucleon') return (args) => finiteOf(kernel(...argumentsOf(args))) / M_U;
+  return (args) => finiteOf(kernel(...argumentsOf(args)));
+}

@@ -67,6 +67,11 @@ export interface NumericChainContext {
   slotOf: (name: string) => number | undefined;
   /** Kind of each library function's parameters. */
   paramKinds: (fn: string) => readonly string[] | undefined;
+  /**
+   * A library function on the arguments' SI numbers, given its arguments at the sheet's values
+   * (library-adapter.ts, numericLibraryCall), or null: the call then goes through mathjs.
+   */
+  libraryNumeric?: (fn: string, nominal: readonly unknown[]) => ((args: readonly number[]) => number) | null;
 }
 
 function isPlainUnit(math: MathJsInstance, v: unknown): v is UnitLike {
@@ -235,6 +240,20 @@ function compile(ctx: NumericChainContext, node: Node, slots: Float64Array): Com
       const nominal = nominalCall();
       const si = siNumberOf(math, nominal);
       if (si === undefined) throw new Refused();
+      // The same kernel on the SI numbers, without a Unit per argument and per result, where it gives
+      // exactly the bound function's SI value at the sheet's values.
+      const numeric = ctx.libraryNumeric?.(
+        name,
+        compiled.map((c) => c.nominal),
+      );
+      const buffer = new Array<number>(runs.length);
+      if (numeric && same(numeric(compiled.map((c) => c.si)), si)) {
+        const direct = (s: Float64Array): number => {
+          for (let i = 0; i < runs.length; i++) buffer[i] = runs[i](s);
+          return numeric(buffer);
+        };
+        return { run: direct, nominal, si, made: false };
+      }
       // A library result is a new object, but a speed may carry a companion: not `made`.
       return { run: call, nominal, si, made: false };
     }

@@ -20,6 +20,7 @@ import { parseUnitString } from './unit-label';
 import { firstOrder, monteCarlo, roundExpanded, validateAgainstMonteCarlo, type UncertainInput } from './uncertainty';
 import { LIBRARY } from './functions';
 import { compileNumeric, siNumberOf } from './numeric-chain';
+import { numericLibraryCall } from './library-adapter';
 
 /** A statement that defines a name, as the engine re-evaluates it in a scope of its choosing. */
 export interface ChainStatement {
@@ -43,6 +44,7 @@ export function setNumericChain(on: boolean): void {
 }
 
 const LIBRARY_NAMES: ReadonlySet<string> = new Set(LIBRARY.map((f) => f.name));
+const LIBRARY_BY_NAME = new Map(LIBRARY.map((f) => [f.name, f]));
 const LIBRARY_KINDS = new Map<string, readonly string[]>(LIBRARY.map((f) => [f.name, f.params.map((p) => p.kind)]));
 
 /**
@@ -114,6 +116,10 @@ class NumericChain {
               libraryNames: LIBRARY_NAMES,
               slotOf: (name) => this.slotOf.get(name),
               paramKinds: (fn) => LIBRARY_KINDS.get(fn),
+              libraryNumeric: (fn, nominal) => {
+                const f = LIBRARY_BY_NAME.get(fn);
+                return f ? numericLibraryCall(this.math, f, nominal) : null;
+              },
             },
             st.node as Parameters<typeof compileNumeric>[1],
             this.nominal,
@@ -138,13 +144,20 @@ class NumericChain {
   }
 
   /** Runs made at given inputs (by their values), as far as they went: the first-order steps are the same for every result. */
-  private readonly runs = new Map<string, { values: number[]; threw: boolean }>();
+  private readonly runs = new Map<string | number, { values: number[]; threw: boolean }>();
 
   /** The target's SI value (the statement `count` − 1) with the inputs at `x`; throws what a statement throws. */
   evaluate(x: readonly number[], count: number): number {
     const s = this.scratch;
-    for (let k = 0; k < x.length; k++) s[k] = x[k];
-    const key = x.join('\0');
+    let atNominal = true;
+    for (let k = 0; k < x.length; k++) {
+      s[k] = x[k];
+      if (!Object.is(x[k], this.nominal[k])) atNominal = false;
+    }
+    // At the sheet's values every compiled statement gave the sheet's own value (checked in stepsFor).
+    if (atNominal) return this.nominal[this.steps[count - 1].slot];
+    // One input (the usual case) is keyed by its value itself, without making a string.
+    const key = x.length === 1 ? x[0] : x.join('\0');
     let run = this.runs.get(key);
     if (!run) {
       run = { values: [], threw: false };

@@ -4,9 +4,9 @@
 // equal, it refuses (the propagation then evaluates with mathjs as before).
 import { afterEach, describe, expect, it } from 'vitest';
 import { LIBRARY } from '../../lib/calc/functions';
-import { bindLibrary } from '../../lib/calc/library-adapter';
+import { bindLibrary, numericLibraryCall } from '../../lib/calc/library-adapter';
 import { createEngineMath } from '../../lib/calc/math-instance';
-import { compileNumeric } from '../../lib/calc/numeric-chain';
+import { compileNumeric, siNumberOf } from '../../lib/calc/numeric-chain';
 import { createSheetEngine } from '../../lib/calc/sheet-engine';
 import { numericChainCounts, setNumericChain } from '../../lib/calc/studies';
 import type { CellInput, SheetResult } from '../../lib/calc/types';
@@ -177,5 +177,120 @@ describe('what the compilation on SI numbers refuses', () => {
     expect(compiled('lorentzFactor(x)', 0.5, { lorentzFactor: (b: number) => b })).toBeNull();
     // The same speed passed through an operation has no companion, and is accepted.
     expect(compiled('lorentzFactor(x * 1)', math.unit(1e8, 'm/s'))).not.toBeNull();
+  });
+});
+
+describe('a library function on SI numbers (numericLibraryCall)', () => {
+  const bootstrap = createEngineMath([]);
+  const em = createEngineMath(bindLibrary(bootstrap.math, LIBRARY));
+  const math = em.math as unknown as Record<string, (...a: unknown[]) => unknown> & typeof em.math;
+  // Arguments of each kind, in the forms a sheet writes them (values of common practice for a proton
+  // beam; only their forms matter here): SI units, the trade's units, the alternative dimension.
+  const forms: Record<string, Array<() => unknown>> = {
+    speed: [() => 0.6, () => math.unit(1.2e8, 'm/s')],
+    mass: [() => em.constants.get('m_p'), () => math.unit(938.272, 'MeV')],
+    energy: [() => math.unit(250, 'MeV'), () => math.unit(4e-11, 'J')],
+    momentum: [() => math.unit(7.3e-19, 'kg m/s'), () => math.unit(729, 'MeV')],
+    time: [() => math.unit(2.2, 'us')],
+    length: [() => math.unit(12, 'm')],
+    acceleration: [() => math.unit(9.81, 'm/s^2')],
+    voltage: [() => math.unit(300, 'kV')],
+    charge: [() => 1, () => math.unit(1.602176634e-19, 'C')],
+    angle: [() => math.unit(0.3, 'rad'), () => 0.3],
+    rigidity: [() => math.unit(2.4, 'T m')],
+    'gravitational-parameter': [() => math.unit(3.986004418e14, 'm^3/s^2')],
+    area: [() => math.unit(2, 'm^2')],
+    'magnetic-field': [() => math.unit(1.5, 'T')],
+    'energy-per-nucleon': [() => math.unit(250, 'MeV'), () => math.unit(250, 'MeV/u')],
+    number: [() => 0.6, () => 12, () => 6],
+  };
+  const scaled = (v: unknown, f: number): unknown =>
+    typeof v === 'number' ? (Number.isInteger(v) ? v : v * f) : math.multiply(v as never, f);
+
+  it('gives the bits the bound function gives, and throws where it throws, for every function and argument form', () => {
+    let compared = 0;
+    let threw = 0;
+    const covered = new Set<string>();
+    const check = (fn: (typeof LIBRARY)[number], nominal: unknown[]): void => {
+      let bound: unknown;
+      try {
+        bound = math[fn.name](...nominal);
+      } catch {
+        return; // not a call the sheet could make at these values: nothing to compile
+      }
+      const numeric = numericLibraryCall(em.math, fn, nominal);
+      if (fn.returns === 'pair-time-length') {
+        expect(numeric, fn.name).toBeNull();
+        return;
+      }
+      expect(numeric, fn.name).not.toBeNull();
+      // At the sheet's values and at others of the same forms (the draws of a propagation).
+      for (const f of [1, 1.013, 0.97, 40]) {
+        const args = nominal.map((v) => scaled(v, f));
+        const si = args.map((a) => siNumberOf(em.math, a)!);
+        let expected: number | undefined;
+        try {
+          expected = siNumberOf(em.math, f === 1 ? bound : math[fn.name](...args));
+        } catch {
+          expect(() => numeric!(si), `${fn.name} ×${f}`).toThrow();
+          threw++;
+          continue;
+        }
+        expect(Object.is(numeric!(si), expected), `${fn.name} ×${f}: ${numeric!(si)} against ${expected}`).toBe(true);
+        compared++;
+        covered.add(fn.name);
+      }
+    };
+    for (const fn of LIBRARY) {
+      const choices = fn.params.map((p) => forms[p.kind]);
+      const count = Math.max(...choices.map((c) => c.length));
+      for (let variant = 0; variant < count; variant++)
+        check(
+          fn,
+          choices.map((c) => c[Math.min(variant, c.length - 1)]()),
+        );
+    }
+    // Functions whose arguments must agree with one another (values of common practice, from
+    // memory: a carbon-12 beam at 430 MeV/u, a 3 GeV electron ring, a GPS orbit, K⁺ → π⁺π⁰).
+    const MeV = (x: number) => math.unit(x, 'MeV');
+    const mC = MeV(11174.86);
+    const explicit: Array<[string, unknown[]]> = [
+      ['invariantMass', [MeV(1000), MeV(500)]],
+      ['sqrtSCollider', [MeV(1000), MeV(1000), em.constants.get('m_p'), em.constants.get('m_p')]],
+      ['synchrotronLossPerTurn', [MeV(3000), math.unit(7, 'm'), em.constants.get('m_e')]],
+      ['synchrotronCriticalEnergy', [MeV(3000), math.unit(7, 'm'), em.constants.get('m_e')]],
+      ['ionMass', [math.unit(12, 'u'), 6, 6]],
+      ['gammaFromKineticPerNucleon', [MeV(430), 12, mC]],
+      ['speedFromKineticPerNucleon', [math.unit(430, 'MeV/u'), 12, mC]],
+      ['momentumFromKineticPerNucleon', [MeV(430), 12, mC]],
+      ['rigidityFromKineticPerNucleon', [MeV(430), 12, mC, 6]],
+      ['kineticPerNucleonFromRigidity', [math.unit(6.6, 'T m'), 12, mC, 6]],
+      ['kineticPerNucleonFromMomentum', [MeV(12000), 12, mC]],
+      [
+        'gravitationalRateOffset',
+        [math.unit(3.986004418e14, 'm^3/s^2'), math.unit(26560, 'km'), math.unit(6378, 'km')],
+      ],
+      ['orbitClockRateOffset', [math.unit(26560, 'km')]],
+      ['twoBodyDecayMomentum', [MeV(493.677), MeV(139.57), MeV(134.98)]],
+    ];
+    for (const [name, args] of explicit)
+      check(
+        LIBRARY.find((f) => f.name === name)!,
+        args,
+      );
+    // Most of the library is exercised, some calls outside their domain (×40 a speed above c).
+    expect(compared).toBeGreaterThan(200);
+    const single = LIBRARY.filter((fn) => fn.returns !== 'pair-time-length').map((fn) => fn.name);
+    expect(single.filter((name) => !covered.has(name))).toEqual([]);
+    expect(threw).toBeGreaterThan(0);
+  });
+
+  it('refuses an argument of neither the kind nor its alternative, and a list', () => {
+    const lorentz = LIBRARY.find((f) => f.name === 'lorentzFactor')!;
+    expect(numericLibraryCall(em.math, lorentz, [math.unit(3, 'kg')])).toBeNull();
+    expect(numericLibraryCall(em.math, lorentz, [math.matrix([0.1, 0.2])])).toBeNull();
+    const kinetic = LIBRARY.find((f) => f.name === 'speedFromKinetic')!;
+    // An energy per mass not written per u is not an energy per nucleon, nor a mass.
+    expect(numericLibraryCall(em.math, kinetic, [math.unit(250, 'MeV'), math.unit(3, 'm^2/s^2')])).toBeNull();
   });
 });
