@@ -41,6 +41,7 @@ export const UNIT = [
   'tests/sheets/content-hash.test.ts',
   'tests/sheets/result-rows.test.ts',
   'tests/sheets/markdown.test.ts',
+  'tests/audit/sentences.test.ts',
 ];
 export const BROWSER = ['tests/e2e/**/*.test.ts'];
 

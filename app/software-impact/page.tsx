@@ -51,13 +51,18 @@ export default async function SoftwareImpactPage({ searchParams }: { searchParam
         className="flex flex-wrap items-end gap-3 rounded border border-rule bg-surface p-3 text-sm"
         aria-describedby={problem ? 'swi-problem' : undefined}
       >
-        <Field label="Engine version" id="swi-engine" labelClassName="block font-semibold">
+        <Field
+          label="Engine version"
+          id="swi-engine"
+          labelClassName="block font-semibold"
+          className="min-w-0 max-w-full"
+        >
           {(control) => (
             <select
               {...control}
               name="engineVersion"
               defaultValue={answer.filter.engineVersion ?? ''}
-              className="max-w-md rounded border border-rule-strong bg-surface px-2 py-1"
+              className="w-full max-w-md rounded border border-rule-strong bg-surface px-2 py-1"
             >
               <option value="">Any</option>
               {answer.engineVersions.map((f) => (
@@ -68,13 +73,18 @@ export default async function SoftwareImpactPage({ searchParams }: { searchParam
             </select>
           )}
         </Field>
-        <Field label="Constants edition" id="swi-edition" labelClassName="block font-semibold">
+        <Field
+          label="Constants edition"
+          id="swi-edition"
+          labelClassName="block font-semibold"
+          className="min-w-0 max-w-full"
+        >
           {(control) => (
             <select
               {...control}
               name="constantsEdition"
               defaultValue={answer.filter.constantsEdition ?? ''}
-              className="max-w-md rounded border border-rule-strong bg-surface px-2 py-1"
+              className="w-full max-w-md rounded border border-rule-strong bg-surface px-2 py-1"
             >
               <option value="">Any</option>
               {answer.constantsEditions.map((f) => (

@@ -15,7 +15,7 @@ import { SourceDiff } from '@/components/sheet/source-diff';
 import { UtcTime } from '@/components/ui/utc-time';
 import type { CheckDetail } from '@/lib/checks/queries';
 import { MEANING_LABELS, VERIFICATION_LABELS, VERIFICATION_METHODS } from '@/lib/checks/workflow';
-import type { CellComparison } from '@/lib/sheets/compare';
+import { resultChangesText, type CellComparison } from '@/lib/sheets/compare';
 
 /** A re-check after a return: the version that was returned, and who returned it. */
 export interface SinceReturn {
@@ -133,8 +133,8 @@ export function SinceReturnSection({ check, sinceReturn }: { check: CheckDetail;
       </h2>
       <p className="text-sm text-ink-muted">
         {sr!.summary.cells.added} added, {sr!.summary.cells.removed} removed, {sr!.summary.cells.changed} changed,{' '}
-        {sr!.summary.cells.moved} moved, {sr!.summary.cells.unchanged} unchanged. Results changed:{' '}
-        {sr!.summary.results.changed}; criteria that flipped: {sr!.summary.criteriaFlipped}.{' '}
+        {sr!.summary.cells.moved} moved, {sr!.summary.cells.unchanged} unchanged;{' '}
+        {resultChangesText(sr!.summary.results)}; criteria that flipped: {sr!.summary.criteriaFlipped}.{' '}
         <Link
           href={`${sheetHref}/compare?base=${sinceReturn.comparisonBase}&target=${version.number}`}
           className="text-accent underline"
@@ -245,8 +245,7 @@ export function CellsSection({ check, sinceReturn }: { check: CheckDetail; since
       {!first ? (
         <p className="text-sm text-ink-muted">
           {s.cells.added} added, {s.cells.removed} removed, {s.cells.changed} changed, {s.cells.moved} moved,{' '}
-          {s.cells.unchanged} unchanged. Results changed: {s.results.changed}; criteria that flipped:{' '}
-          {s.criteriaFlipped}.
+          {s.cells.unchanged} unchanged; {resultChangesText(s.results)}; criteria that flipped: {s.criteriaFlipped}.
         </p>
       ) : null}
       {changed.length === 0 ? <p className="text-ink-muted">No cell changed since version {base?.number}.</p> : null}

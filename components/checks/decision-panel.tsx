@@ -1,14 +1,19 @@
 'use client';
 
 import { useRouter } from 'next/navigation';
-import { useId, useState } from 'react';
+import { useEffect, useId, useRef, useState } from 'react';
 import { api, errorText } from '@/components/data/api-client';
 import type { Decision } from '@/lib/checks/workflow';
 import { primaryButton } from '@/components/ui/button';
 import { inputClass } from '@/components/ui/field';
 
 type Action = Decision['action'];
-type Outcome = { kind: 'idle' | 'busy' } | { kind: 'done'; text: string } | { kind: 'error'; text: string };
+// Each outcome belongs to the form that asked for it and is shown under that form, not under another.
+type Outcome =
+  | { kind: 'idle' }
+  | { kind: 'busy'; action: Action }
+  | { kind: 'done'; action: Action; text: string }
+  | { kind: 'error'; action: Action; text: string };
 
 const DONE: Record<Action, string> = {
   return: 'Returned to the originator with comments.',
@@ -39,6 +44,11 @@ export function DecisionPanel({
   const id = useId();
   const router = useRouter();
   const [outcome, setOutcome] = useState<Outcome>({ kind: 'idle' });
+  // After a decision its form is gone (the check moved on): the focus goes to what became of it.
+  const done = useRef<HTMLDivElement>(null);
+  useEffect(() => {
+    if (outcome.kind === 'done') done.current?.focus();
+  }, [outcome]);
 
   async function decide(event: React.FormEvent<HTMLFormElement>, action: Action) {
     event.preventDefault();
@@ -48,19 +58,36 @@ export function DecisionPanel({
       action === 'sign' || action === 'approve'
         ? { action, password: String(data.get('password') ?? '') }
         : { action, reason: String(data.get('reason') ?? '') };
-    setOutcome({ kind: 'busy' });
+    setOutcome({ kind: 'busy', action });
     try {
       await api.decide(checkId, body);
     } catch (error) {
-      setOutcome({ kind: 'error', text: errorText(error, 'The server could not be reached; nothing was decided.') });
+      setOutcome({
+        kind: 'error',
+        action,
+        text: errorText(error, 'The server could not be reached; nothing was decided.'),
+      });
+      const field = form.elements.namedItem(action === 'sign' || action === 'approve' ? 'password' : 'reason');
+      if (field instanceof HTMLInputElement || field instanceof HTMLTextAreaElement) field.focus();
       return;
     }
     form.reset();
-    setOutcome({ kind: 'done', text: DONE[action] });
+    setOutcome({ kind: 'done', action, text: DONE[action] });
     router.refresh();
   }
 
   const busy = outcome.kind === 'busy';
+  /** A refusal of `action`'s request, under its own form (not under another form's). */
+  const outcomeOf = (action: Action) => (
+    <div id={`${id}-${action}-outcome`} aria-live="assertive" className="text-sm">
+      {outcome.kind === 'error' && outcome.action === action ? (
+        <p role="alert" className="rounded bg-fail-soft px-3 py-2 text-fail">
+          {outcome.text}
+        </p>
+      ) : null}
+    </div>
+  );
+
   const meaning = (word: string) => (
     <p className="text-xs text-ink-muted">
       Meaning of your signature: <strong className="text-ink">{word}</strong>. It binds to version {versionNumber},
@@ -89,6 +116,7 @@ export function DecisionPanel({
       >
         {button}
       </button>
+      {outcomeOf(action)}
     </form>
   );
   const signForm = (
@@ -118,6 +146,7 @@ export function DecisionPanel({
       <button type="submit" disabled={busy} className={primaryButton}>
         {button}
       </button>
+      {outcomeOf(action)}
     </form>
   );
 
@@ -139,8 +168,7 @@ export function DecisionPanel({
       {actions.includes('reject')
         ? reasonForm('reject', 'Return to originator', 'Reason for not approving', 'Return to originator')
         : null}
-      <div role={outcome.kind === 'error' ? 'alert' : 'status'} aria-live="polite" className="text-sm">
-        {outcome.kind === 'error' ? <p className="rounded bg-fail-soft px-3 py-2 text-fail">{outcome.text}</p> : null}
+      <div ref={done} tabIndex={-1} role="status" aria-live="polite" className="text-sm">
         {outcome.kind === 'done' ? <p className="rounded bg-pass-soft px-3 py-2 text-pass">{outcome.text}</p> : null}
       </div>
     </div>

@@ -27,8 +27,7 @@ const KIND_LABELS: Record<string, string> = {
   'design-input': 'Design input does not match the sheet',
 };
 
-type Status =
-  { kind: 'idle' | 'busy' } | { kind: 'done'; text: string } | { kind: 'error'; text: string; rule?: string };
+type Status = { kind: 'idle' | 'busy' } | { kind: 'done'; text: string } | { kind: 'error'; text: string };
 
 /**
  * The originator submits one exact version to a named checker. Submitting signs the version as
@@ -96,11 +95,17 @@ export function SubmitForCheckForm({
         });
         return;
       }
-      const rule = error instanceof ApiError ? detail(error, 'rule') : undefined;
+      // The message says what is wrong in words; a wrong password sends the person back to the field.
+      if (error instanceof ApiError && detail(error, 'rule') === 'password') {
+        const field = form.elements.namedItem('password');
+        if (field instanceof HTMLInputElement) {
+          field.value = '';
+          field.focus();
+        }
+      }
       setStatus({
         kind: 'error',
         text: errorText(error, 'The server could not be reached; nothing was submitted.'),
-        rule: typeof rule === 'string' ? rule : undefined,
       });
       return;
     }
@@ -221,12 +226,7 @@ export function SubmitForCheckForm({
         aria-live="polite"
         className="text-sm"
       >
-        {status.kind === 'error' ? (
-          <p className="rounded bg-fail-soft px-3 py-2 text-fail">
-            {status.text}
-            {status.rule ? <span className="block text-xs">Rule: {status.rule}</span> : null}
-          </p>
-        ) : null}
+        {status.kind === 'error' ? <p className="rounded bg-fail-soft px-3 py-2 text-fail">{status.text}</p> : null}
         {status.kind === 'done' ? <p className="text-pass">{status.text}</p> : null}
       </div>
     </div>

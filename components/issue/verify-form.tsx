@@ -69,9 +69,13 @@ export function VerifyForm() {
             id="verify-code"
             name="verify-code"
             autoComplete="off"
-            placeholder="K7QF-2M9D-XW4T"
+            spellCheck={false}
+            aria-describedby="verify-code-hint"
             className="w-full rounded border border-rule-strong bg-surface px-3 py-2 font-mono"
           />
+          <p id="verify-code-hint" className="text-xs text-ink-muted">
+            Three groups of four letters and digits joined by hyphens, as printed in the PDF&apos;s title block.
+          </p>
           <button type="submit" disabled={state.kind === 'busy'} className={primaryButton}>
             Look it up
           </button>
@@ -107,8 +111,8 @@ export function VerifyForm() {
                 </dd>
                 <dt className="font-semibold">Revision</dt>
                 <dd>
-                  {r.revision} ({r.status}
-                  {r.supersededBy ? `, superseded by revision ${r.supersededBy}` : ''}
+                  {r.revision} (
+                  {r.status === 'superseded' && r.supersededBy ? `superseded by revision ${r.supersededBy}` : r.status}
                   {r.withdrawnReason ? `: ${r.withdrawnReason}` : ''})
                 </dd>
                 <dt className="font-semibold">Issued (UTC)</dt>

@@ -38,7 +38,7 @@ export function AttachmentList({
           <Th className="py-1 pr-3">Kind</Th>
           <Th className="py-1 pr-3">Size</Th>
           <Th className="py-1 pr-3">SHA-256</Th>
-          <Th className="py-1 pr-3">In cells</Th>
+          <Th className="py-1 pr-3">In cells as</Th>
           {actions ? (
             <Th className="py-1">
               <span className="sr-only">Actions</span>
@@ -67,7 +67,9 @@ export function AttachmentList({
             </Td>
             <Td className="py-1 pr-3">
               {a.mediaType === 'text/csv' ? (
-                <code className="font-mono">{tableNameFor(a.name)}.column</code>
+                <span>
+                  table <code className="font-mono">{tableNameFor(a.name)}</code>; a column by its name after a dot
+                </span>
               ) : (
                 <span className="text-ink-muted">—</span>
               )}

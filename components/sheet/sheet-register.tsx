@@ -95,7 +95,7 @@ export function SheetRegister({ rows, projectCode }: { rows: RegisterRow[]; proj
         <tbody>
           {shown.map((r) => (
             <tr key={r.id} className="border-b border-rule">
-              <Td className="py-2 pr-3 font-mono">
+              <Td className="py-2 pr-3 font-mono whitespace-nowrap">
                 <Link
                   href={`/projects/${projectCode}/sheets/${r.number}`}
                   className="font-semibold text-accent underline"

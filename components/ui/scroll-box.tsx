@@ -57,8 +57,14 @@ export function ScrollBox({
   );
 }
 
-/** `overflow-x-auto` and the caller's classes, unless those already let the box scroll both ways. */
+/**
+ * `overflow-x-auto` and the caller's classes, unless those already let the box scroll both ways; always
+ * `relative`, so that what is positioned inside (KaTeX's hidden MathML, for one) is clipped by the box
+ * instead of widening the page.
+ */
 function boxClasses(className: string | undefined): string {
-  if (!className) return 'overflow-x-auto';
-  return /(^|\s)overflow-auto(\s|$)/.test(className) ? className : `overflow-x-auto ${className}`;
+  if (!className) return 'relative overflow-x-auto';
+  return /(^|\s)overflow-auto(\s|$)/.test(className)
+    ? `relative ${className}`
+    : `relative overflow-x-auto ${className}`;
 }

@@ -2,6 +2,8 @@
 import type { Kysely } from 'kysely';
 import { z } from 'zod';
 import type { Database } from '@/db/schema';
+import { formatSheetNumber } from '@/lib/sheets/sheet-number';
+import type { AuditNames } from './sentences';
 
 export const auditFilterSchema = z.object({
   person: z
@@ -115,4 +117,31 @@ export function auditCsv(rows: Awaited<ReturnType<typeof listProjectAudit>>): st
       .join(','),
   );
   return `${[header.join(','), ...lines].join('\r\n')}\r\n`;
+}
+
+/** The names the audit page's sentences need (lib/audit/sentences.ts) for the events shown. */
+export async function auditNames(
+  db: Kysely<Database>,
+  project: { id: string; code: string },
+  events: ReadonlyArray<{ object_type: string; object_id: string | null }>,
+): Promise<AuditNames> {
+  const ids = (type: string) => [
+    ...new Set(events.filter((e) => e.object_type === type && e.object_id).map((e) => e.object_id!)),
+  ];
+  const checkIds = ids('check');
+  const userIds = ids('user');
+  const [sheets, checks, users] = await Promise.all([
+    db.selectFrom('sheets').select(['id', 'number']).where('project_id', '=', project.id).execute(),
+    checkIds.length
+      ? db.selectFrom('checks').select(['id', 'sheet_id']).where('id', 'in', checkIds).execute()
+      : Promise.resolve([]),
+    userIds.length
+      ? db.selectFrom('users').select(['id', 'display_name']).where('id', 'in', userIds).execute()
+      : Promise.resolve([]),
+  ]);
+  return {
+    sheets: new Map(sheets.map((s) => [s.id, { number: s.number, code: formatSheetNumber(project.code, s.number) }])),
+    checks: new Map(checks.map((c) => [c.id, c.sheet_id])),
+    users: new Map(users.map((u) => [u.id, u.display_name])),
+  };
 }

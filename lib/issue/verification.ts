@@ -203,7 +203,8 @@ export async function verifyCode(db: Kysely<Database>, input: string): Promise<V
   if (!code)
     return {
       authentic: false,
-      summary: 'A verification code has 12 letters and digits, like K7QF-2M9D-XW4T.',
+      summary:
+        'A verification code has 12 letters and digits in three groups of four joined by hyphens, as printed in the title block of the PDF.',
       revision: null,
       checks: none,
       sha256: null,

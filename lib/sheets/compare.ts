@@ -812,3 +812,15 @@ export function compareTables(oldTable: ComparedTable | null, newTable: Compared
     truncated: rowCounts.added + rowCounts.removed + rowCounts.changed > rows.length,
   };
 }
+
+/**
+ * The results' changes in words, naming only what happened: "results: 5 added", "results: 2 changed,
+ * 1 removed", "no result changed" (a bare "Results changed: 0" above a table of added results read as
+ * if nothing had).
+ */
+export function resultChangesText(results: Record<ResultStatus, number>): string {
+  const parts = (['changed', 'added', 'removed'] as const)
+    .filter((s) => results[s] > 0)
+    .map((s) => `${results[s]} ${s}`);
+  return parts.length ? `results: ${parts.join(', ')}` : 'no result changed';
+}

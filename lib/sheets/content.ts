@@ -30,7 +30,10 @@ const designInputSchema = z.object({
 
 const assumptionSchema = z.object({
   text: shortText,
-  needsVerification: z.boolean(),
+  // Chosen by the originator for each assumption (the editor presets neither answer).
+  needsVerification: z.boolean({
+    error: 'say for each assumption whether it is verified or still to be verified',
+  }),
 });
 
 export const attachmentRefSchema = z.object({

@@ -422,7 +422,8 @@ const PAGES: Record<string, PageEntry> = {
   '/projects/[projectCode]': { url: () => '/projects/TPT2', expect: memberPage },
   '/projects/[projectCode]/audit': {
     url: () => '/projects/TPT2/audit',
-    expect: { ...memberPage, viewer: 'not found' },
+    // A member without the role is told what the page needs, on the project's page.
+    expect: { ...memberPage, viewer: 'redirect /projects/TPT2?notAllowed=audit' },
   },
   '/projects/[projectCode]/register': { url: () => '/projects/TPT2/register', expect: memberPage },
   '/projects/[projectCode]/sheets/[sheetNumber]': { url: () => '/projects/TPT2/sheets/1', expect: memberPage },
@@ -432,7 +433,13 @@ const PAGES: Record<string, PageEntry> = {
   },
   '/projects/[projectCode]/sheets/[sheetNumber]/edit': {
     url: () => '/projects/TPT2/sheets/1/edit',
-    expect: { anonymous: 'sign-in', originator: 'content', default: 'not found' },
+    expect: {
+      anonymous: 'sign-in',
+      originator: 'content',
+      outsider: 'not found',
+      admin: 'not found',
+      default: 'redirect /projects/TPT2?notAllowed=edit',
+    },
   },
   '/projects/[projectCode]/sheets/[sheetNumber]/impact': {
     url: () => '/projects/TPT2/sheets/1/impact',
@@ -683,6 +690,10 @@ async function visit(url: string, who: Who): Promise<{ seen: Seen; html: string 
     /NEXT_REDIRECT;(replace|push);\/sign-in/.test(html)
   )
     return { seen: 'sign-in', html };
+  // Another redirect after the first bytes (a member without the page's role is sent to the project's
+  // page, which says what the page needs).
+  const other = /NEXT_REDIRECT;(?:replace|push);([^;"\\]+);/.exec(html);
+  if (other) return { seen: `redirect ${other[1]}`, html };
   // notFound() after the first bytes travels as its error digest, which the browser turns into the
   // not-found page (whose text every page's payload carries anyway, for navigation).
   if (response.status === 404 || html.includes('NEXT_HTTP_ERROR_FALLBACK;404')) return { seen: 'not found', html };

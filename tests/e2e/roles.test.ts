@@ -52,10 +52,21 @@ describe('demo roles in the browser', () => {
         // once the root loading boundary has started streaming; the API answers 404 — see the matrix).
         await page.goto(`${app.baseUrl}/projects/TPT2/audit`);
         if (who.audit) {
-          await page.getByRole('cell', { name: 'membership.grant' }).first().waitFor();
+          await page
+            .getByRole('cell', { name: /gave Demo Checker the checker role/ })
+            .first()
+            .waitFor();
           await session.screenshot('audit-trail');
         } else {
-          await page.getByRole('heading', { level: 1, name: 'Not found' }).waitFor();
+          // A member is told what the page needs and what their roles are, not that it does not exist.
+          await page.waitForURL(`${app.baseUrl}/projects/TPT2?notAllowed=audit`);
+          await page.getByRole('status').filter({ hasText: 'The audit trail is for' }).waitFor();
+          expect(
+            await page
+              .getByRole('status')
+              .filter({ hasText: `Your roles in TPT2: ${who.role}.` })
+              .count(),
+          ).toBe(1);
         }
         await page.goto(`${app.baseUrl}/admin`);
         await page.getByRole('heading', { level: 1, name: 'Not found' }).waitFor();

@@ -77,6 +77,8 @@ it('edits a sheet, sees typeset results as it types, saves two versions and comp
   await page
     .getByLabel('Assumption 1', { exact: true })
     .fill('The bunch travels on the design orbit between the monitors.');
+  // Neither answer is preset for a new assumption: the originator chooses.
+  await page.getByRole('group', { name: 'Assumption 1: verified?' }).getByLabel('verified', { exact: true }).check();
   await page.getByRole('button', { name: 'Add a design input' }).click();
   await page.getByLabel('Input 2 name').fill('Beam kinetic energy');
   await page.getByLabel('Input 2 value').fill('150 MeV');

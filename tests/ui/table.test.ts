@@ -47,7 +47,8 @@ describe('the markup', () => {
     );
     const box = doc.body.firstElementChild!;
     expect(box.tagName).toBe('DIV');
-    expect(box.className).toBe('overflow-x-auto mt-3 rounded border');
+    // `relative`: what is positioned inside (KaTeX's hidden MathML) is clipped by the box, not the page.
+    expect(box.className).toBe('relative overflow-x-auto mt-3 rounded border');
     expect(box.hasAttribute('tabindex')).toBe(false);
     expect(box.hasAttribute('role')).toBe(false);
     expect(doc.querySelector('caption')!.className).toBe('text-left');
@@ -59,7 +60,7 @@ describe('the markup', () => {
       'text/html',
     );
     const box = doc.body.firstElementChild!;
-    expect(box.className).toBe('max-h-96 overflow-auto');
+    expect(box.className).toBe('relative max-h-96 overflow-auto');
     expect(box.getAttribute('tabindex')).toBe('0');
     expect(box.getAttribute('role')).toBe('region');
     expect(box.getAttribute('aria-label')).toBe('Sweep, line 3');

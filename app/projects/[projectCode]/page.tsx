@@ -1,7 +1,7 @@
 import type { Metadata } from 'next';
 import Link from 'next/link';
 import { getDb } from '@/db';
-import { pageProject } from '@/lib/auth/page-guard';
+import { pageProject, ROLE_PAGES, type RolePage } from '@/lib/auth/page-guard';
 import { CreateSheetForm } from '@/components/sheet/create-sheet-form';
 import { ImportSheetForm } from '@/components/sheet/import-sheet-form';
 import { StartFromForm } from '@/components/sheet/start-from-form';
@@ -15,8 +15,18 @@ import { Table, Td, Th } from '@/components/ui/table';
 export const metadata: Metadata = { title: 'Project' };
 export const dynamic = 'force-dynamic';
 
-export default async function ProjectPage({ params }: { params: Promise<{ projectCode: string }> }) {
+export default async function ProjectPage({
+  params,
+  searchParams,
+}: {
+  params: Promise<{ projectCode: string }>;
+  searchParams: Promise<Record<string, string | string[] | undefined>>;
+}) {
   const { projectCode } = await params;
+  const asked = (await searchParams).notAllowed;
+  // Only the known pages' explanations are shown (never the query's own text).
+  const notAllowed =
+    typeof asked === 'string' && Object.hasOwn(ROLE_PAGES, asked) ? ROLE_PAGES[asked as RolePage] : null;
   const { project, roles, actor } = await pageProject(projectCode, `/projects/${projectCode}`);
   const [members, sheets, stale, candidates] = await Promise.all([
     listMembers(getDb(), project.id),
@@ -27,6 +37,12 @@ export default async function ProjectPage({ params }: { params: Promise<{ projec
   const seesAudit = roles.some((r) => r !== 'viewer');
   return (
     <div className="space-y-8">
+      {notAllowed ? (
+        <p role="status" className="rounded border-l-4 border-caution-rule bg-caution-soft px-4 py-3 text-caution">
+          {notAllowed} Your roles in {project.code}: {roles.map((r) => ROLE_LABELS[r]).join(', ')}. An administrator
+          gives roles per project.
+        </p>
+      ) : null}
       <header>
         <p className="font-mono text-sm text-ink-muted">{project.code}</p>
         <h1 className="text-2xl font-bold">{project.name}</h1>

@@ -1,7 +1,9 @@
 import type { Metadata } from 'next';
 import { getDb } from '@/db';
 import { pageProject } from '@/lib/auth/page-guard';
-import { auditFilterSchema, listProjectAudit, listProjectAuditActions } from '@/lib/audit/query';
+import Link from 'next/link';
+import { auditFilterSchema, auditNames, listProjectAudit, listProjectAuditActions } from '@/lib/audit/query';
+import { auditSentence } from '@/lib/audit/sentences';
 import { listMembers } from '@/lib/projects/projects';
 import { Table, Td, Th } from '@/components/ui/table';
 import { smallPrimaryButton } from '@/components/ui/button';
@@ -10,10 +12,9 @@ import { Field } from '@/components/ui/field';
 export const metadata: Metadata = { title: 'Audit trail' };
 export const dynamic = 'force-dynamic';
 
-function short(value: unknown): string {
-  if (value === null || value === undefined) return '';
-  const text = JSON.stringify(value);
-  return text.length > 120 ? `${text.slice(0, 120)}…` : text;
+/** A stored value as it is kept (JSON), for the disclosure under each sentence. */
+function raw(value: unknown): string {
+  return JSON.stringify(value, null, 1);
 }
 
 export default async function AuditPage({
@@ -24,12 +25,12 @@ export default async function AuditPage({
   searchParams: Promise<Record<string, string>>;
 }) {
   const { projectCode } = await params;
-  const { project } = await pageProject(projectCode, `/projects/${projectCode}/audit`, [
-    'originator',
-    'checker',
-    'approver',
-    'controller',
-  ]);
+  const { project } = await pageProject(
+    projectCode,
+    `/projects/${projectCode}/audit`,
+    ['originator', 'checker', 'approver', 'controller'],
+    'audit',
+  );
   const query = await searchParams;
   const parsed = auditFilterSchema.safeParse(query);
   const filter = parsed.success ? parsed.data : auditFilterSchema.parse({});
@@ -38,6 +39,7 @@ export default async function AuditPage({
     listProjectAuditActions(getDb(), project.id),
     listMembers(getDb(), project.id),
   ]);
+  const names = await auditNames(getDb(), project, events);
   const csv = new URLSearchParams({
     ...Object.fromEntries(
       Object.entries(filter)
@@ -125,9 +127,7 @@ export default async function AuditPage({
           <tr className="border-b border-rule-strong text-left">
             <Th className="py-2 pr-3">#</Th>
             <Th className="py-2 pr-3">Time (UTC)</Th>
-            <Th className="py-2 pr-3">Person</Th>
-            <Th className="py-2 pr-3">Action</Th>
-            <Th className="py-2 pr-3">Change</Th>
+            <Th className="py-2 pr-3">Event</Th>
             <Th className="py-2">Reason</Th>
           </tr>
         </thead>
@@ -139,13 +139,7 @@ export default async function AuditPage({
                 {e.occurred_at.toISOString().replace('T', ' ').slice(0, 19)}
               </Td>
               <Td className="py-2 pr-3">
-                {e.actor_name ?? 'system'}
-                {e.token_id ? <span className="block text-xs text-ink-muted">via API token</span> : null}
-              </Td>
-              <Td className="py-2 pr-3 font-mono">{e.action}</Td>
-              <Td className="py-2 pr-3 font-mono text-xs break-all">
-                {e.old_value !== null ? <span className="block">was {short(e.old_value)}</span> : null}
-                {e.new_value !== null ? <span className="block">now {short(e.new_value)}</span> : null}
+                <AuditEventCell event={e} names={names} projectCode={project.code} />
               </Td>
               <Td className="py-2">{e.reason ?? ''}</Td>
             </tr>
@@ -154,5 +148,53 @@ export default async function AuditPage({
       </Table>
       {events.length === 0 ? <p className="text-ink-muted">No events match.</p> : null}
     </div>
+  );
+}
+
+function AuditEventCell({
+  event,
+  names,
+  projectCode,
+}: {
+  event: Awaited<ReturnType<typeof listProjectAudit>>[number];
+  names: Awaited<ReturnType<typeof auditNames>>;
+  projectCode: string;
+}) {
+  const { text, sheet } = auditSentence(event, names);
+  return (
+    <>
+      <span className="block">
+        {text}
+        {event.token_id ? ' (through an API token)' : ''}.
+      </span>
+      {sheet ? (
+        <Link href={`/projects/${projectCode}/sheets/${sheet.number}`} className="text-sm text-accent underline">
+          Open {sheet.code}
+        </Link>
+      ) : null}
+      <details className="mt-1 text-xs text-ink-muted">
+        <summary className="cursor-pointer">As recorded: {event.action}</summary>
+        <dl className="mt-1 grid gap-x-2 sm:grid-cols-[auto_minmax(0,1fr)]">
+          {event.old_value !== null ? (
+            <>
+              <dt className="font-semibold">Was</dt>
+              <dd>
+                <pre className="whitespace-pre-wrap break-all font-mono">{raw(event.old_value)}</pre>
+              </dd>
+            </>
+          ) : null}
+          {event.new_value !== null ? (
+            <>
+              <dt className="font-semibold">Now</dt>
+              <dd>
+                <pre className="whitespace-pre-wrap break-all font-mono">{raw(event.new_value)}</pre>
+              </dd>
+            </>
+          ) : null}
+          <dt className="font-semibold">SHA-256</dt>
+          <dd className="break-all font-mono">{event.hash}</dd>
+        </dl>
+      </details>
+    </>
   );
 }

@@ -6,6 +6,7 @@ import { getDb } from '@/db';
 import { pageParams, queryInt4 } from '@/lib/http/params';
 import { pageProject } from '@/lib/auth/page-guard';
 import { compareStoredVersions } from '@/lib/sheets/comparison';
+import { resultChangesText } from '@/lib/sheets/compare';
 import { formatSheetNumber } from '@/lib/sheets/sheet-number';
 import { getSheetByNumber, getVersion, listVersions } from '@/lib/sheets/sheets';
 import { VisibleText } from '@/components/data/visible-text';
@@ -51,9 +52,9 @@ export default async function ComparePage({
         </h1>
         <p className="mt-1 text-sm text-ink-muted">
           Cells: {c.summary.cells.added} added, {c.summary.cells.removed} removed, {c.summary.cells.changed} changed,{' '}
-          {c.summary.cells.moved} moved, {c.summary.cells.unchanged} unchanged. Results changed:{' '}
-          {c.summary.results.changed}. Criteria that flipped: {c.summary.criteriaFlipped}. Calculation record:{' '}
-          {c.summary.recordChanges} change
+          {c.summary.cells.moved} moved, {c.summary.cells.unchanged} unchanged.{' '}
+          {sentence(resultChangesText(c.summary.results))} Criteria that flipped: {c.summary.criteriaFlipped}.
+          Calculation record: {c.summary.recordChanges} change
           {c.summary.recordChanges === 1 ? '' : 's'}; attachments: {c.summary.attachmentChanges} change
           {c.summary.attachmentChanges === 1 ? '' : 's'}.
         </p>
@@ -141,4 +142,9 @@ export default async function ComparePage({
       </p>
     </div>
   );
+}
+
+/** "results: 5 added" as a sentence of its own: "Results: 5 added." */
+function sentence(text: string): string {
+  return `${text.charAt(0).toUpperCase()}${text.slice(1)}.`;
 }

@@ -19,9 +19,12 @@ export default async function EditSheetPage({
   params: Promise<{ projectCode: string; sheetNumber: string }>;
 }) {
   const { projectCode, sheetNumber } = await params;
-  const { project } = await pageProject(projectCode, `/projects/${projectCode}/sheets/${sheetNumber}/edit`, [
-    'originator',
-  ]);
+  const { project } = await pageProject(
+    projectCode,
+    `/projects/${projectCode}/sheets/${sheetNumber}/edit`,
+    ['originator'],
+    'edit',
+  );
   const { sheetNumber: n } = pageParams({ sheetNumber }) ?? notFound();
   const sheet = await getSheetByNumber(getDb(), project.id, n);
   if (!sheet) notFound();
