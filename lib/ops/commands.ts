@@ -11,6 +11,7 @@
 //   migrate   applies migrations to DATABASE_URL or the local cluster
 //   backup    dumps the database and every stored object into a folder (npm run backup -- FOLDER)
 //   restore   restores such a folder into an empty installation and verifies it (npm run restore -- FOLDER)
+//   audit     walks the audit chain of the installation, app running or not (npm run -s audit -- verify)
 import { execFileSync } from 'node:child_process';
 import { createWriteStream, mkdirSync } from 'node:fs';
 import path from 'node:path';
@@ -40,7 +41,9 @@ import { FAKE_S3_CREDENTIALS, storageConfig, type StorageConfig } from '../stora
 import { startFakeObjectStore } from '../storage/fake-server';
 import { createObjectStore } from '../storage/object-store';
 import { verifyInstallationAt, type InstallationReport } from '../audit/integrity';
+import { auditCommand } from './audit-command';
 import { backup, restore } from './backup';
+import { localDatabaseUrl } from './local-database';
 
 const root = path.join(path.dirname(fileURLToPath(import.meta.url)), '..', '..');
 const log = (line: string) => console.log(`[worldsheet] ${line}`);
@@ -310,35 +313,10 @@ async function migrateOnly(supervisor: Supervisor): Promise<void> {
   await supervisor.shutdown(0);
 }
 
-// ── Backup and restore ───────────────────────────────────────────────────────────────────────
+// ── Backup, restore and the audit check ──────────────────────────────────────────────────────
 // On DATABASE_URL and the configured object store when they are set; otherwise on the local demo
 // installation (the dev cluster and .data/objects-dev), started here as npm start does, or the
-// running ones when npm start already runs them.
-
-async function localDatabaseUrl(supervisor: Supervisor, options: { create: boolean }): Promise<string> {
-  const external = config().DATABASE_URL;
-  if (external) return external;
-  const cluster = new LocalCluster({ name: 'dev', port: devClusterPort(), projectRoot: root });
-  cluster.prepare();
-  try {
-    supervisor.add('PostgreSQL', () => cluster.stop());
-    await cluster.start();
-  } catch (error) {
-    // The dev cluster is already running (npm start): use it if our credentials get in.
-    if (!(error instanceof LocalPostgresError) || !/already running/.test(error.message)) throw error;
-    const probe = createDb(cluster.appUrl('postgres'), { max: 1 });
-    try {
-      await probe.selectNoFrom((eb) => eb.val(1).as('one')).execute();
-    } catch {
-      throw error;
-    } finally {
-      await probe.destroy();
-    }
-    log('using the dev cluster that is already running');
-  }
-  if (options.create) await cluster.ensureDatabase('worldsheet');
-  return cluster.appUrl('worldsheet');
-}
+// running ones when npm start already runs them (lib/ops/local-database.ts).
 
 async function localStoreConfig(supervisor: Supervisor): Promise<StorageConfig> {
   const settings = config();
@@ -378,7 +356,7 @@ function folderArgument(args: string[], command: string): string {
 async function backupCommand(supervisor: Supervisor, args: string[]): Promise<void> {
   const folder = folderArgument(args, 'backup');
   const store = await localStoreConfig(supervisor);
-  const databaseUrl = await localDatabaseUrl(supervisor, { create: false });
+  const databaseUrl = await localDatabaseUrl(supervisor, { create: false, log });
   await backup({ databaseUrl, store, folder, log });
   // The installation backed up is checked too: a backup of broken records is worth knowing about.
   const report = await verifyInstallationAt(databaseUrl, createObjectStore(store));
@@ -389,7 +367,7 @@ async function backupCommand(supervisor: Supervisor, args: string[]): Promise<vo
 async function restoreCommand(supervisor: Supervisor, args: string[]): Promise<void> {
   const folder = folderArgument(args, 'restore');
   const store = await localStoreConfig(supervisor);
-  const databaseUrl = await localDatabaseUrl(supervisor, { create: true });
+  const databaseUrl = await localDatabaseUrl(supervisor, { create: true, log });
   await restore({ databaseUrl, store, folder, log });
   const report = await verifyInstallationAt(databaseUrl, createObjectStore(store));
   printReport(report);
@@ -421,6 +399,8 @@ export async function runCommand(command: string, args: string[]): Promise<void>
         return await backupCommand(supervisor, args);
       case 'restore':
         return await restoreCommand(supervisor, args);
+      case 'audit':
+        return await supervisor.shutdown(await auditCommand(supervisor, args));
       default:
         console.error(`[worldsheet] unknown command ${command}`);
         process.exit(2);
