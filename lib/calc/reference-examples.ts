@@ -51,6 +51,7 @@ export const STUDY_EXAMPLE_SETUP: Readonly<Record<string, string>> = {
   correlation: 'V_m = 5 V ± 0.1 V\nI_m = 2 A ± 0.05 A',
   sweep:
     'T_kin = 250 MeV\nbeta = speedFromKinetic(T_kin, m_p) / c\ngamma = gammaFromKinetic(T_kin, m_p)\np = momentumFromKinetic(T_kin, m_p)\nBrho = magneticRigidity(p, 1)',
-  plot: 'T_kin = 250 MeV\np = momentumFromKinetic(T_kin, m_p)\nBrho = magneticRigidity(p, 1)',
+  plot: 'T_kin = 250 MeV\np = momentumFromKinetic(T_kin, m_p)\nBrho = magneticRigidity(p, 1)\nBrho_max = 2.5 T*m',
+  dataPoints: 'T_kin = 250 MeV\np = momentumFromKinetic(T_kin, m_p)\nBrho = magneticRigidity(p, 1)',
   spacetime: 'a0 = q_e * 1 MV/m / m_e\nt = 1 ns\nx_e = hyperbolicDistance(a0, t)\nd_h = rindlerHorizonDistance(a0)',
 };

@@ -16,7 +16,7 @@ import {
 } from './format';
 import type { BudgetLine, MonteCarloSummary, PlotData, StudyTable, UncertaintyResult } from './types';
 import { nameTex } from './tex';
-import { parseUnitString } from './unit-label';
+import { parseUnitString, unitLabel } from './unit-label';
 import { firstOrder, monteCarlo, roundExpanded, validateAgainstMonteCarlo, type UncertainInput } from './uncertainty';
 import { LIBRARY } from './functions';
 import { compileNumeric, siNumberOf } from './numeric-chain';
@@ -807,8 +807,61 @@ export interface StudyRequest {
   input: string;
   values: unknown[];
   targets: readonly string[];
+  /** Plots only: columns of input tables to overlay as points (`dataPoints(table.x, table.y)`). */
+  overlays?: ReadonlyArray<{ x: OverlayColumn; y: OverlayColumn }>;
   /** Does a target depend on the input (transitively)? */
   dependsOnInput: (name: string) => boolean;
+}
+
+/** A column of an input table as the sheet reads it (`table.column`), with the table's own numbers. */
+export interface OverlayColumn {
+  /** `table.column`, for the legend and messages. */
+  label: string;
+  /** The column's elements as the sheet has them (quantities, or numbers for a column without unit). */
+  values: unknown[];
+  /** The attachment's numbers and unit, as read from the file. */
+  raw: { unit: string | null; values: number[] };
+}
+
+/** What a dimension is, for messages: its display unit, or "a plain number". */
+function dimensionWords(math: MathJsInstance, v: unknown): string {
+  const unit = displayUnitOf(math, v).unit;
+  return unit ? `in ${unitLabel(unit)}` : 'a plain number';
+}
+
+/**
+ * A column of an input table in an axis' display unit. Where one of the column's unit is one of the
+ * axis' (the same SI factor, no offset), the numbers are the table's own, unconverted; otherwise each
+ * element's SI value is converted as the curves' are. Refused, naming the column, when an element
+ * is not of the axis' dimension.
+ */
+function columnOnAxis(
+  math: MathJsInstance,
+  column: OverlayColumn,
+  axis: DisplayUnit,
+  template: unknown,
+  axisName: string,
+): number[] {
+  if (!column.values.length) throw new Error(`\`${column.label}\` is empty; dataPoints needs at least one row`);
+  const sample = column.values[0];
+  const same =
+    typeof template === 'number'
+      ? typeof sample === 'number'
+      : math.isUnit(sample) && (sample as Unit).value !== null && (sample as Unit).equalBase(template as Unit);
+  if (!same)
+    throw new Error(
+      `\`${column.label}\` is ${dimensionWords(math, sample)}, not of the dimension of ${axisName} (${dimensionWords(math, template)})`,
+    );
+  const { unit, values } = column.raw;
+  if (values.length === column.values.length) {
+    if (unit === null && axis.unit === null && axis.factor === 1) return [...values];
+    if (unit !== null && axis.unit !== null) {
+      const one = math.unit(1, unit);
+      const offset = one.units.some((u) => (u.unit as unknown as { offset: number }).offset !== 0);
+      if (!offset && one.value === axis.factor) return [...values];
+    }
+  }
+  return column.values.map((v) => axis.fromSi(siOf(math, v)!));
 }
 
 /** Light-year in metres (c × Julian year), the unit of long space-time diagrams. */
@@ -876,25 +929,47 @@ export function computeStudy(
   }
 
   if (request.kind === 'plot') {
-    const first = scope.get(targets[0]);
-    for (const t of targets.slice(1)) {
-      const v = scope.get(t);
-      const same =
-        typeof first === 'number' ? typeof v === 'number' : math.isUnit(v) && (v as Unit).equalBase(first as Unit);
-      if (!same)
-        throw new Error(
-          `the curves of one plot share an axis: \`${t}\` is not of the dimension of \`${targets[0]}\`; draw it in a plot of its own`,
-        );
+    // A result that does not depend on the input is a design limit: a horizontal line at its value.
+    const curves = targets.filter((t) => request.dependsOnInput(t));
+    const limits = targets.filter((t) => !request.dependsOnInput(t));
+    if (!curves.length)
+      throw new Error(
+        `none of ${targets.map((t) => `\`${t}\``).join(', ')} depends on \`${input}\`; a plot needs at least one curve (a result that does not depend on the input is drawn as a design limit)`,
+      );
+    const first = scope.get(curves[0]);
+    const sameAsFirst = (v: unknown) =>
+      typeof first === 'number' ? typeof v === 'number' : math.isUnit(v) && (v as Unit).equalBase(first as Unit);
+    for (const t of targets) {
+      if (t === curves[0] || sameAsFirst(scope.get(t))) continue;
+      throw new Error(
+        limits.includes(t)
+          ? `\`${t}\` does not depend on \`${input}\`, so it is drawn as a design limit on the axis of the curves, but it is ${dimensionWords(math, scope.get(t))} and \`${curves[0]}\` is ${dimensionWords(math, first)}; a limit must be of the curves' dimension`
+          : `the curves of one plot share an axis: \`${t}\` is not of the dimension of \`${curves[0]}\`; draw it in a plot of its own`,
+      );
     }
     const dx = displayUnitOf(math, base);
     const dy = displayUnitOf(math, first);
+    const data = (request.overlays ?? []).map(({ x, y }) => {
+      const xs = columnOnAxis(math, x, dx, base, `the input \`${input}\``);
+      const ys = columnOnAxis(math, y, dy, first, `the curves (\`${curves[0]}\`)`);
+      if (xs.length !== ys.length)
+        throw new Error(
+          `\`${x.label}\` has ${xs.length} rows and \`${y.label}\` has ${ys.length}; dataPoints pairs them row by row`,
+        );
+      return {
+        name: y.label,
+        x: x.label,
+        y: y.label,
+        points: xs.map((v, k) => [v, ys[k]] as [number, number]),
+      };
+    });
     return {
       table: null,
       plot: {
         kind: 'curve',
         x: { label: input, unit: dx.unit },
-        y: { label: targets.join(', '), unit: dy.unit },
-        series: targets.map((t) => ({
+        y: { label: curves.join(', '), unit: dy.unit },
+        series: curves.map((t) => ({
           name: t,
           points: values.flatMap((v, r) => {
             const y = raw[r] ? siOf(math, valueOf(r, t)) : null;
@@ -903,6 +978,10 @@ export function computeStudy(
               : [[Number(dx.fromSi(siOf(math, v)!).toPrecision(15)), dy.fromSi(y)] as [number, number]];
           }),
         })),
+        ...(limits.length
+          ? { limits: limits.map((t) => ({ name: t, value: dy.fromSi(siOf(math, scope.get(t))!) })) }
+          : {}),
+        ...(data.length ? { data } : {}),
       },
     };
   }

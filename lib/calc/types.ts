@@ -170,6 +170,17 @@ export interface PlotData {
    * lines at 45° through the origin, and horizon lines x = ct − d for each distance d given.
    */
   horizons?: Array<{ name: string; distance: number }>;
+  /**
+   * For curve plots: design limits, each a named result that does not depend on the plot's input,
+   * drawn as a horizontal line y = value (in the y axis' unit, the same conversion as the curves').
+   */
+  limits?: Array<{ name: string; value: number }>;
+  /**
+   * For curve plots: points of attached data tables (`dataPoints(table.x, table.y)`), drawn as
+   * markers without a line; x and y in the axes' units (the table's own numbers when its column is
+   * in the axis' unit).
+   */
+  data?: Array<{ name: string; x: string; y: string; points: Array<[number, number]> }>;
 }
 
 export interface StatementResult {

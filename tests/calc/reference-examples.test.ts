@@ -146,12 +146,26 @@ describe('the study statements’ examples', () => {
       versionSha256: 'a'.repeat(64),
     },
   ];
+  // An attached data table as the server reads it (lib/attachments/csv-table.ts), for dataPoints;
+  // the numbers are illustrative (no published source).
+  const tables = [
+    {
+      name: 'energies',
+      sha256: 'b'.repeat(64),
+      fileName: 'energies.csv',
+      columns: [
+        { name: 'T', unit: 'MeV', values: [70, 150, 250] },
+        { name: 'Brho', unit: 'T m', values: [1.23, 1.83, 2.43] },
+      ],
+    },
+  ];
   for (const d of STUDY_FUNCTION_DOCS) {
     it(`${d.name}: ${d.example}`, () => {
       const setup = STUDY_EXAMPLE_SETUP[d.name];
       const statements = statementsOf(setup ? `${setup}\n${d.example}` : d.example, {
         significantFigures: 6,
         references,
+        tables,
       });
       for (const st of statements) expect(st.error, st.source).toBeNull();
     });

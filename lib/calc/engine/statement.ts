@@ -54,7 +54,13 @@ export interface ParsedStatement {
   /** `correlation(x, y, r)`: the correlation coefficient of two uncertain inputs. */
   correlation: { a: string; b: string; r: number } | null;
   /** `sweep(…)`, `plot(…)` or `spacetime(…)`: the input swept and the results named. */
-  study: { kind: StudyStatement; input: string; targets: string[] } | null;
+  study: {
+    kind: StudyStatement;
+    input: string;
+    targets: string[];
+    /** `dataPoints(table.x, table.y)` arguments of a plot: columns of input tables. */
+    overlays: Array<{ x: { table: string; column: string }; y: { table: string; column: string } }>;
+  } | null;
   /** Names read as a unit or mathematical constant where a physical constant is likely meant (lint.ts). */
   lint: LintFinding[];
   /** The compiled expression the form evaluates, made on first use and kept with the parsed statement. */
