@@ -3,7 +3,7 @@
 import { useEffect, useRef, useState } from 'react';
 import { formatNumberText } from '@/lib/calc/format';
 import type { PlotData } from '@/lib/calc/types';
-import { unitLabel } from '@/lib/calc/unit-label';
+import { axisLabel, unitLabel } from '@/lib/calc/unit-label';
 import { plotAxisLabels, plotDescription, plotElement } from '@/lib/plots/plot-figure';
 import { Table, Td, Th } from '@/components/ui/table';
 
@@ -111,6 +111,49 @@ export function PlotView({
               </tbody>
             </Table>
           ))}
+          {(plot.data ?? []).map((d, i) => (
+            <Table
+              key={`data-${i}`}
+              caption={`${d.name}, table data (${d.points.length} point${d.points.length === 1 ? '' : 's'})`}
+              captionClassName="bg-paper px-2 py-1 text-left font-semibold"
+              className="w-full border-collapse text-xs"
+              box="max-h-80 overflow-auto rounded border border-rule"
+              boxLabel={`Points of ${d.name} (table data)`}
+            >
+              <thead>
+                <tr>
+                  <Th className="border-b border-rule px-2 py-1 text-right font-semibold">
+                    {axisLabel(d.x, plot.x.unit)}
+                  </Th>
+                  <Th className="border-b border-rule px-2 py-1 text-right font-semibold">
+                    {axisLabel(d.y, plot.y.unit)}
+                  </Th>
+                </tr>
+              </thead>
+              <tbody className="font-mono">
+                {d.points.map(([x, y], k) => (
+                  <tr key={k} className="border-t border-rule first:border-t-0">
+                    <Td numeric className="px-2 py-0.5">
+                      {formatNumberText(x, significantFigures)}
+                    </Td>
+                    <Td numeric className="px-2 py-0.5">
+                      {formatNumberText(y, significantFigures)}
+                    </Td>
+                  </tr>
+                ))}
+              </tbody>
+            </Table>
+          ))}
+          {plot.limits?.length ? (
+            <ul className="list-disc pl-5 text-xs">
+              {plot.limits.map((l, i) => (
+                <li key={i}>
+                  design limit {l.name} = {formatNumberText(l.value, significantFigures)}
+                  {plot.y.unit ? ` ${unitLabel(plot.y.unit)}` : ''}
+                </li>
+              ))}
+            </ul>
+          ) : null}
           {plot.kind === 'spacetime' && plot.horizons?.length ? (
             <ul className="list-disc pl-5 text-xs">
               {plot.horizons.map((h, i) => (

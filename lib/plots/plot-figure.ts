@@ -31,6 +31,9 @@ const LIGHT_COLOR = '#7d7768';
 const LIGHT_DASH = '4 3';
 const HORIZON_COLOR = '#6f4500';
 const HORIZON_DASH = '12 3 3 3';
+/** Design limits: a dark red long dash, unlike any series' colour or dash. */
+const LIMIT_COLOR = '#9b1c31';
+const LIMIT_DASH = '9 3 1.5 3';
 
 type PathSink = {
   moveTo(x: number, y: number): void;
@@ -181,7 +184,21 @@ export function plotDescription(data: PlotData): string {
     );
     return `Space-time diagram, ${labels.y} against ${labels.x}, equal scales: ${count}; light lines x = ±ct${horizons.length ? `; ${horizons.join('; ')}` : ''}.`;
   }
-  return `Plot of ${labels.y} against ${labels.x}: ${count}.`;
+  const unit = unitLabel(data.y.unit);
+  const limits = (data.limits ?? []).map((l) => `design limit ${limitText(l, unit)}`);
+  const tables = (data.data ?? []).map((d) => `${d.points.length} points of ${d.y} against ${d.x} (table data)`);
+  const more = [...limits, ...tables];
+  return `Plot of ${labels.y} against ${labels.x}: ${count}${more.length ? `; ${more.join('; ')}` : ''}.`;
+}
+
+/** "B_max = 1.8 T": a design limit's name and value in the axis unit. */
+export function limitText(limit: { name: string; value: number }, unit: string): string {
+  return `${limit.name} = ${formatNumberText(limit.value, 6, { trailingZeros: false })}${unit ? ` ${unit}` : ''}`;
+}
+
+/** A horizon's label: "d_h: x = ct − 0.38 ly". */
+function horizonText(h: { name: string; distance: number }, unit: string): string {
+  return `${h.name}: x = ct − ${formatNumberText(h.distance, 4)}${unit ? ` ${unit}` : ''}`;
 }
 
 type Box = { x0: number; x1: number; y0: number; y1: number };
@@ -229,9 +246,19 @@ interface Layout {
 interface LegendItem {
   label: string;
   color: string;
+  /** Null: a solid line; undefined with `line: false`: no line (points of a table). */
   dash: string | null;
   marker: string | null;
   strokeWidth: number;
+  /** Drawn without its line sample (markers only). */
+  line?: boolean;
+  /** An outlined marker (table data) rather than a filled one (a curve's points). */
+  hollow?: boolean;
+}
+
+interface LegendRow {
+  items: Array<{ item: LegendItem; lines: string[]; x: number }>;
+  height: number;
 }
 
 const LEGEND_ROW = 18;
@@ -239,67 +266,106 @@ const LEGEND_SAMPLE = 30;
 
 /** Rough text width (Source Sans 3 averages about 0.5 em per character). */
 const textWidth = (s: string, fontSize: number) => s.length * fontSize * 0.52;
+/**
+ * A generous text width, for deciding whether a label fits where it is placed: Source Sans 3's
+ * widest common glyphs (m, w, digits, capitals) run to about 0.6 em, and a fallback face wider.
+ */
+const fitWidth = (s: string, fontSize: number) => s.length * fontSize * 0.62;
 
-function legendRows(items: LegendItem[], width: number, fontSize: number): LegendItem[][] {
-  const rows: LegendItem[][] = [];
-  let row: LegendItem[] = [];
+/** A label broken at spaces (or anywhere, for a word too long) into lines no wider than `room`. */
+function wrapText(label: string, room: number, fontSize: number): string[] {
+  const perLine = Math.max(4, Math.floor(room / (fontSize * 0.62)));
+  if (label.length <= perLine) return [label];
+  const lines: string[] = [];
+  let line = '';
+  for (const word of label.split(' ')) {
+    let w = word;
+    while (w.length > perLine) {
+      if (line) lines.push(line);
+      line = '';
+      lines.push(w.slice(0, perLine));
+      w = w.slice(perLine);
+    }
+    if (!line) line = w;
+    else if (line.length + 1 + w.length <= perLine) line += ` ${w}`;
+    else {
+      lines.push(line);
+      line = w;
+    }
+  }
+  if (line) lines.push(line);
+  return lines;
+}
+
+/**
+ * The legend in rows no wider than `width`: items side by side while they fit, a label longer than
+ * a whole row broken into lines under one another, so that no text runs past the figure's edge.
+ */
+function legendRows(items: LegendItem[], width: number, fontSize: number): LegendRow[] {
+  const rows: LegendRow[] = [];
+  let row: LegendRow = { items: [], height: LEGEND_ROW };
   let used = 0;
+  const room = width - LEGEND_SAMPLE - 6;
   for (const item of items) {
-    const w = LEGEND_SAMPLE + 6 + textWidth(item.label, fontSize) + 18;
-    if (row.length && used + w > width) {
+    const lines = wrapText(item.label, room, fontSize);
+    const w =
+      LEGEND_SAMPLE + 6 + Math.max(...lines.map((l) => Math.max(textWidth(l, fontSize), fitWidth(l, fontSize)))) + 18;
+    if (row.items.length && used + w > width) {
       rows.push(row);
-      row = [];
+      row = { items: [], height: LEGEND_ROW };
       used = 0;
     }
-    row.push(item);
+    row.items.push({ item, lines, x: used });
+    row.height = Math.max(row.height, lines.length * LEGEND_ROW);
     used += w;
   }
-  if (row.length) rows.push(row);
+  if (row.items.length) rows.push(row);
   return rows;
 }
 
-function drawLegend(
-  svg: SVGSVGElement,
-  document: Document,
-  rows: LegendItem[][],
-  left: number,
-  top: number,
-  fontSize: number,
-): void {
+function drawLegend(svg: SVGSVGElement, document: Document, rows: LegendRow[], left: number, top: number): void {
   const ns = 'http://www.w3.org/2000/svg';
   const g = document.createElementNS(ns, 'g');
   g.setAttribute('aria-label', 'legend');
   g.setAttribute('transform', `translate(${left},${top})`);
-  rows.forEach((row, r) => {
-    let x = 0;
-    const y = r * LEGEND_ROW + LEGEND_ROW / 2;
-    for (const item of row) {
-      const line = document.createElementNS(ns, 'line');
-      line.setAttribute('x1', String(x));
-      line.setAttribute('x2', String(x + LEGEND_SAMPLE));
-      line.setAttribute('y1', String(y));
-      line.setAttribute('y2', String(y));
-      line.setAttribute('stroke', item.color);
-      line.setAttribute('stroke-width', String(item.strokeWidth));
-      if (item.dash) line.setAttribute('stroke-dasharray', item.dash);
-      g.appendChild(line);
+  let rowTop = 0;
+  for (const row of rows) {
+    const y = rowTop + LEGEND_ROW / 2;
+    for (const { item, lines, x } of row.items) {
+      if (item.line !== false) {
+        const line = document.createElementNS(ns, 'line');
+        line.setAttribute('x1', String(x));
+        line.setAttribute('x2', String(x + LEGEND_SAMPLE));
+        line.setAttribute('y1', String(y));
+        line.setAttribute('y2', String(y));
+        line.setAttribute('stroke', item.color);
+        line.setAttribute('stroke-width', String(item.strokeWidth));
+        if (item.dash) line.setAttribute('stroke-dasharray', item.dash);
+        g.appendChild(line);
+      }
       if (item.marker) {
         const path = document.createElementNS(ns, 'path');
-        path.setAttribute('d', symbolPath(item.marker, 22, x + LEGEND_SAMPLE / 2, y));
-        path.setAttribute('fill', item.color);
+        path.setAttribute('d', symbolPath(item.marker, item.hollow ? 38 : 22, x + LEGEND_SAMPLE / 2, y));
+        if (item.hollow) {
+          path.setAttribute('fill', '#ffffff');
+          path.setAttribute('stroke', item.color);
+          path.setAttribute('stroke-width', '1.25');
+        } else path.setAttribute('fill', item.color);
         g.appendChild(path);
       }
-      const text = document.createElementNS(ns, 'text');
-      text.setAttribute('x', String(x + LEGEND_SAMPLE + 6));
-      text.setAttribute('y', String(y));
-      text.setAttribute('dy', '0.32em');
-      text.setAttribute('text-anchor', 'start');
-      text.setAttribute('fill', 'currentColor');
-      text.textContent = item.label;
-      g.appendChild(text);
-      x += LEGEND_SAMPLE + 6 + textWidth(item.label, fontSize) + 18;
+      lines.forEach((l, k) => {
+        const text = document.createElementNS(ns, 'text');
+        text.setAttribute('x', String(x + LEGEND_SAMPLE + 6));
+        text.setAttribute('y', String(y + k * LEGEND_ROW));
+        text.setAttribute('dy', '0.32em');
+        text.setAttribute('text-anchor', 'start');
+        text.setAttribute('fill', 'currentColor');
+        text.textContent = l;
+        g.appendChild(text);
+      });
     }
-  });
+    rowTop += row.height;
+  }
   svg.appendChild(g);
 }
 
@@ -307,6 +373,80 @@ function drawLegend(
 function yTickWidth(svg: SVGSVGElement, fontSize: number): number {
   const labels = [...svg.querySelectorAll('g[aria-label="y-axis tick label"] text')].map((t) => t.textContent ?? '');
   return Math.max(0, ...labels.map((l) => textWidth(l, fontSize)));
+}
+
+/**
+ * Where a horizon's label goes along its line x = ct − d (clipped to the frame as `seg`): its end at
+ * the point of the line, from 90 % of the way up downwards, where the whole rotated text (a box of
+ * its estimated width and one font height, 4 px off the line) lies within `frame`; the first of
+ * `texts` that fits somewhere. Null when none does.
+ */
+function horizonLabelPlace(
+  seg: [[number, number], [number, number]],
+  px: (x: number) => number,
+  py: (ct: number) => number,
+  frame: { left: number; right: number; top: number; bottom: number },
+  fontSize: number,
+  texts: string[],
+): { at: [number, number]; text: string } | null {
+  const [[ax, ay], [bx, by]] = seg;
+  const r = Math.SQRT1_2;
+  for (const text of texts) {
+    const L = fitWidth(text, fontSize);
+    const F = fontSize * 1.2;
+    for (let f = 0.9; f >= 0.05; f -= 0.05) {
+      const at: [number, number] = [ax + (bx - ax) * f, ay + (by - ay) * f];
+      // The text's end, 4 px up and left of the line; it runs down-left from there along the line.
+      const ex = px(at[0]) - 4;
+      const ey = py(at[1]) - 4;
+      const corners = [
+        [ex, ey],
+        [ex - L * r, ey + L * r],
+        [ex - F * r, ey - F * r],
+        [ex - (L + F) * r, ey + (L - F) * r],
+      ];
+      if (corners.every(([x, y]) => x >= frame.left && x <= frame.right && y >= frame.top && y <= frame.bottom))
+        return { at, text };
+    }
+  }
+  return null;
+}
+
+/**
+ * Each design limit's label on its line, at the right of the frame: "B_max = 1.8 T limit" above the
+ * line (below it when the line runs along the top), the name alone when the whole does not fit the
+ * frame's width, none when neither does (the legend names every limit in full).
+ */
+function drawLimitLabels(
+  svg: SVGSVGElement,
+  document: Document,
+  limits: Array<{ name: string; value: number }>,
+  unit: string,
+  layout: Layout,
+  fontSize: number,
+): void {
+  const ns = 'http://www.w3.org/2000/svg';
+  const scale = (svg as unknown as { scale(name: 'y'): { apply(v: number): number } }).scale('y');
+  const right = layout.width - layout.marginRight - 4;
+  const room = right - layout.marginLeft - 4;
+  const g = document.createElementNS(ns, 'g');
+  g.setAttribute('aria-label', 'design limit labels');
+  for (const l of limits) {
+    const text = [`${limitText(l, unit)} limit`, `${l.name} limit`, l.name].find((t) => fitWidth(t, fontSize) <= room);
+    if (!text) continue;
+    const y = scale.apply(l.value);
+    const above = y - 4 - fontSize >= 2;
+    const t = document.createElementNS(ns, 'text');
+    t.setAttribute('x', String(right));
+    t.setAttribute('y', String(above ? y - 4 : y + 4));
+    t.setAttribute('dy', above ? '0' : '0.8em');
+    t.setAttribute('text-anchor', 'end');
+    t.setAttribute('fill', LIMIT_COLOR);
+    t.setAttribute('aria-label', `design limit label ${l.name}`);
+    t.textContent = text;
+    g.appendChild(t);
+  }
+  svg.appendChild(g);
 }
 
 /**
@@ -328,9 +468,24 @@ export function plotElement(data: PlotData, document: Document, options: PlotFig
     points: s.points.filter(([x, y]) => Number.isFinite(x) && Number.isFinite(y)),
   }));
   const markers = series.every((s) => s.points.length <= MARKERS_UP_TO);
+  const yUnit = unitLabel(data.y.unit);
+  const limits = spacetime ? [] : (data.limits ?? []).filter((l) => Number.isFinite(l.value));
+  // Points of data tables: outlined markers without a line, in shapes after the curves' own.
+  const tables = spacetime
+    ? []
+    : (data.data ?? []).map((d, i) => {
+        const style = seriesStyle(series.length + i);
+        return {
+          ...d,
+          color: style.color,
+          marker: style.marker,
+          points: d.points.filter(([x, y]) => Number.isFinite(x) && Number.isFinite(y)),
+        };
+      });
+  const horizonUnit = unitLabel(spacetimeUnit(data));
 
   const legend: LegendItem[] = [];
-  if (spacetime || series.length > 1) {
+  if (spacetime || series.length > 1 || limits.length || tables.length) {
     for (const s of series)
       legend.push({
         label: s.name,
@@ -340,14 +495,43 @@ export function plotElement(data: PlotData, document: Document, options: PlotFig
         strokeWidth: 1.75,
       });
   }
-  if (spacetime)
-    legend.push({ label: 'light lines x = ±ct', color: LIGHT_COLOR, dash: LIGHT_DASH, marker: null, strokeWidth: 1 });
-  const rows = legendRows(legend, width - 60, fontSize);
-  const legendHeight = rows.length ? rows.length * LEGEND_ROW + 8 : 0;
-
-  const xs = series.flatMap((s) => s.points.map((p) => p[0]));
-  const ys = series.flatMap((s) => s.points.map((p) => p[1]));
+  for (const t of tables)
+    legend.push({
+      label: `${t.name} (table data)`,
+      color: t.color,
+      dash: null,
+      marker: t.marker,
+      strokeWidth: 1,
+      line: false,
+      hollow: true,
+    });
+  for (const l of limits)
+    legend.push({
+      label: `${limitText(l, yUnit)} (design limit)`,
+      color: LIMIT_COLOR,
+      dash: LIMIT_DASH,
+      marker: null,
+      strokeWidth: 1.5,
+    });
   const horizons = spacetime ? (data.horizons ?? []).filter((h) => Number.isFinite(h.distance)) : [];
+  if (spacetime) {
+    legend.push({ label: 'light lines x = ±ct', color: LIGHT_COLOR, dash: LIGHT_DASH, marker: null, strokeWidth: 1 });
+    // Each horizon is named in full here too, whatever room its line leaves for its label.
+    for (const h of horizons)
+      legend.push({
+        label: `horizon ${horizonText(h, horizonUnit)}`,
+        color: HORIZON_COLOR,
+        dash: HORIZON_DASH,
+        marker: null,
+        strokeWidth: 1.25,
+      });
+  }
+  const legendWidth = Math.max(120, width - 60);
+  const rows = legendRows(legend, legendWidth, fontSize);
+  const legendHeight = rows.length ? rows.reduce((h, r) => h + r.height, 0) + 8 : 0;
+
+  const xs = [...series, ...tables].flatMap((s) => s.points.map((p) => p[0]));
+  const ys = [...series, ...tables].flatMap((s) => s.points.map((p) => p[1]));
 
   const build = (marginLeft: number): SVGSVGElement => {
     const layout: Layout = {
@@ -404,7 +588,7 @@ export function plotElement(data: PlotData, document: Document, options: PlotFig
             }),
           );
       }
-      const unit = unitLabel(spacetimeUnit(data));
+      const unit = horizonUnit;
       for (const h of horizons) {
         const seg = clip45(1, -h.distance, box);
         if (!seg) continue;
@@ -418,28 +602,53 @@ export function plotElement(data: PlotData, document: Document, options: PlotFig
             ariaLabel: () => 'horizon',
           }),
         );
-        // The name along the line, towards its upper end, just above it.
-        const [[ax, ay], [bx, by]] = seg;
-        const at: [number, number] = [ax + (bx - ax) * 0.9, ay + (by - ay) * 0.9];
-        marks.push(
-          Plot.text([at], {
-            x: (d: [number, number]) => d[0],
-            y: (d: [number, number]) => d[1],
-            text: () => `${h.name}: x = ct − ${formatNumberText(h.distance, 4)}${unit ? ` ${unit}` : ''}`,
-            rotate: -45,
-            textAnchor: 'end',
-            lineAnchor: 'bottom',
-            // Off the line by 4√2 px at right angles, so descenders clear it.
-            dx: -4,
-            dy: -4,
-            fill: HORIZON_COLOR,
-            ariaLabel: () => 'horizon label',
-          }),
-        );
+        // The name along the line, towards its upper end, just above it, where all of it lies
+        // inside the frame (or the top margin); else the name alone; else none (the legend has it).
+        const px = (x: number) => layout.marginLeft + (x - x0) * k;
+        const py = (ct: number) => layout.marginTop + (y1 - ct) * k;
+        const frame = {
+          left: layout.marginLeft,
+          right: width - 2,
+          top: 2,
+          bottom: layout.marginTop + innerH,
+        };
+        const place = horizonLabelPlace(seg, px, py, frame, fontSize, [horizonText(h, unit), h.name]);
+        if (place)
+          marks.push(
+            Plot.text([place.at], {
+              x: (d: [number, number]) => d[0],
+              y: (d: [number, number]) => d[1],
+              text: () => place.text,
+              rotate: -45,
+              textAnchor: 'end',
+              lineAnchor: 'bottom',
+              // Off the line by 4√2 px at right angles, so descenders clear it.
+              dx: -4,
+              dy: -4,
+              fill: HORIZON_COLOR,
+              ariaLabel: () => 'horizon label',
+            }),
+          );
       }
     } else {
       xDomain = widen(extent(xs));
-      yDomain = widen(extent(ys));
+      // Each limit is inside the y domain, so its line is always drawn.
+      yDomain = widen(extent([...ys, ...limits.map((l) => l.value)]));
+      if (limits.length) {
+        // Room above and below, so that a limit at the end of the range is not the frame's edge.
+        const pad = (yDomain[1] - yDomain[0]) * 0.06;
+        yDomain = [yDomain[0] - pad, yDomain[1] + pad];
+      }
+      // Under the curves, so that a curve crossing a limit stays visible.
+      for (const l of limits)
+        marks.push(
+          Plot.ruleY([l.value], {
+            stroke: LIMIT_COLOR,
+            strokeWidth: 1.5,
+            strokeDasharray: LIMIT_DASH,
+            ariaLabel: () => `design limit ${l.name}`,
+          }),
+        );
     }
     series.forEach((s) => {
       const st = s.style;
@@ -467,6 +676,21 @@ export function plotElement(data: PlotData, document: Document, options: PlotFig
         );
       }
     });
+    for (const t of tables) {
+      if (!t.points.length) continue;
+      marks.push(
+        Plot.dot(t.points, {
+          x: (d: [number, number]) => d[0],
+          y: (d: [number, number]) => d[1],
+          symbol: MARKERS[t.marker],
+          r: 4,
+          fill: '#ffffff',
+          stroke: t.color,
+          strokeWidth: 1.25,
+          ariaLabel: () => `table data ${t.name}`,
+        }),
+      );
+    }
     const svg = Plot.plot({
       document,
       ...layout,
@@ -496,7 +720,9 @@ export function plotElement(data: PlotData, document: Document, options: PlotFig
     }) as SVGSVGElement;
     svg.setAttribute('font-family', options.fontFamily ?? PLOT_FONT_FAMILY);
     svg.setAttribute('font-size', String(fontSize));
-    if (rows.length) drawLegend(svg, document, rows, layout.marginLeft, layout.height - legendHeight, fontSize);
+    if (limits.length) drawLimitLabels(svg, document, limits, yUnit, layout, fontSize);
+    if (rows.length)
+      drawLegend(svg, document, rows, Math.min(layout.marginLeft, width - legendWidth), layout.height - legendHeight);
     return svg;
   };
 

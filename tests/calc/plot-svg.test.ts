@@ -230,3 +230,121 @@ describe('unit labels', () => {
     expect(unitLabel(null)).toBe('');
   });
 });
+
+describe('a design limit and table data on a curve plot', () => {
+  // A dipole field against kinetic energy, its limit and measured points (numbers for the picture
+  // only, no published source).
+  const limited: PlotData = {
+    kind: 'curve',
+    x: { label: 'T_kin', unit: 'MeV' },
+    y: { label: 'B_dip', unit: 'T' },
+    series: [
+      {
+        name: 'B_dip',
+        points: [
+          [70, 0.82],
+          [150, 1.22],
+          [250, 1.62],
+        ],
+      },
+    ],
+    limits: [{ name: 'B_max', value: 1.8 }],
+    data: [
+      {
+        name: 'energies.B',
+        x: 'energies.T',
+        y: 'energies.B',
+        points: [
+          [70.1, 0.818],
+          [180.7, 1.3592],
+          [249.9, 1.6207],
+        ],
+      },
+    ],
+  };
+  const svg = parse(plotSvg(limited, OPTIONS));
+  const { x: sx, y: sy } = scales(limited);
+
+  it('draws the limit as one dashed horizontal line at exactly its value on the y scale', () => {
+    const lines = [...svg.querySelectorAll('line[aria-label="design limit B_max"]')];
+    expect(lines).toHaveLength(1);
+    const line = lines[0];
+    expect(Number(line.getAttribute('y1'))).toBe(sy.apply(1.8));
+    expect(Number(line.getAttribute('y2'))).toBe(sy.apply(1.8));
+    expect(line.parentElement!.getAttribute('stroke-dasharray')).toBeTruthy();
+    // Not a curve: no series path is drawn for the limit.
+    expect(svg.querySelector('path[aria-label="series B_max"]')).toBeNull();
+    // Inside the frame, not on its edge.
+    expect(sy.apply(1.8)).toBeGreaterThan(Math.min(...sy.range));
+  });
+
+  it('labels the limit with its name and value inside the figure, and says in the legend that it is the limit', () => {
+    const label = svg.querySelector('text[aria-label="design limit label B_max"]')!;
+    expect(label.textContent).toBe('B_max = 1.8 T limit');
+    expect(label.getAttribute('text-anchor')).toBe('end');
+    expect(Number(label.getAttribute('x'))).toBeLessThanOrEqual(640);
+    expect(text(svg, 'legend')).toContain('B_max = 1.8 T (design limit)');
+    expect(text(svg, 'legend')).toContain('B_dip');
+  });
+
+  it('draws each table row as an outlined marker at its point, named in the legend as table data', () => {
+    const marks = [...svg.querySelectorAll('path[aria-label="table data energies.B"]')];
+    expect(marks).toHaveLength(3);
+    marks.forEach((m, i) => {
+      const [, tx, ty] = /translate\(([-\d.e]+),([-\d.e]+)\)/.exec(m.getAttribute('transform')!)!.map(Number);
+      expect(tx).toBeCloseTo(sx.apply(limited.data![0].points[i][0]), 6);
+      expect(ty).toBeCloseTo(sy.apply(limited.data![0].points[i][1]), 6);
+    });
+    // Outlined (white inside), a shape other than the curve's filled circles.
+    const group = marks[0].parentElement!;
+    expect(group.getAttribute('fill')).toBe('#ffffff');
+    expect(marks[0].getAttribute('d')).not.toBe(
+      svg.querySelector('path[aria-label="markers B_dip"]')!.getAttribute('d'),
+    );
+    expect(text(svg, 'legend')).toContain('energies.B (table data)');
+  });
+
+  it('breaks a legend label longer than the figure into lines within its width', () => {
+    const narrow = {
+      ...limited,
+      limits: [{ name: 'B_max_of_the_main_dipole_at_the_gantry_entrance_per_spec', value: 1.8 }],
+    };
+    const out = parse(plotSvg(narrow, { width: 240 }));
+    const texts = [...out.querySelectorAll('g[aria-label="legend"] text')];
+    expect(texts.length).toBeGreaterThan(3);
+    const left = Number(
+      /translate\(([-\d.]+),/.exec(out.querySelector('g[aria-label="legend"]')!.getAttribute('transform')!)![1],
+    );
+    for (const t of texts)
+      expect(left + Number(t.getAttribute('x')) + (t.textContent ?? '').length * 11 * 0.52).toBeLessThanOrEqual(240);
+  });
+});
+
+describe('the label of a horizon whose line is short', () => {
+  // The horizon 0.38 ly away and events up to ct = 0.1 ly: its line crosses only the lower left corner.
+  const short: PlotData = {
+    kind: 'spacetime',
+    x: { label: 'x', unit: 'ly' },
+    y: { label: 'ct', unit: 'ly' },
+    series: [{ name: 'worldline at 25 m/s²', points: worldline(0.1, 20) }],
+    horizons: [{ name: 'Rindler horizon of the probe accelerating at 25 m/s² from the pad', distance: horizon }],
+  };
+  const svg = parse(plotSvg(short, { width: 390 }));
+
+  it('is left off the line when it cannot lie along it within the figure, and the legend names the horizon in full', () => {
+    expect(svg.querySelector('text[aria-label="horizon label"]')).toBeNull();
+    expect(text(svg, 'legend')).toContain('horizon Rindler horizon of the probe accelerating at 25 m/s² from the pad');
+  });
+
+  it('is shortened to the name where only the name fits, ending inside the figure', () => {
+    const named = parse(plotSvg({ ...short, horizons: [{ name: 'd_h', distance: horizon }] }, { width: 390 }));
+    const label = named.querySelector('text[aria-label="horizon label"]')!;
+    expect(label.textContent).toBe('d_h');
+    const [, tx, ty] = /translate\(([-\d.e]+),([-\d.e]+)\)/.exec(label.getAttribute('transform')!)!.map(Number);
+    // Rotated 45° up, its start runs down-left from (tx, ty): three glyphs of at most 0.62 em.
+    const run = 3 * 11 * 0.62 * Math.SQRT1_2;
+    expect(tx - run).toBeGreaterThanOrEqual(58);
+    expect(ty + run).toBeLessThanOrEqual(Number(named.getAttribute('height')));
+    expect(text(named, 'legend')).toContain('horizon d_h: x = ct − 0.3800 ly');
+  });
+});
