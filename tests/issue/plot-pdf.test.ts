@@ -5,10 +5,15 @@ import { execFileSync } from 'node:child_process';
 import { mkdirSync, mkdtempSync, readFileSync, writeFileSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import path from 'node:path';
+import { Document, Page, renderToBuffer } from '@react-pdf/renderer';
+import { createElement } from 'react';
 import { beforeAll, describe, expect, it } from 'vitest';
 import type { CellResult, PlotData, StatementResult, StudyTable, UncertaintyResult } from '../../lib/calc/types';
 import type { RevisionPdfData } from '../../lib/issue/pdf-data';
+import { registerPdfFonts } from '../../lib/issue/pdf/fonts';
 import { renderRevisionPdf } from '../../lib/issue/pdf/render';
+import { plotPdfGraphic, svgSize } from '../../lib/issue/pdf/svg-to-pdf';
+import { serverPlotElement } from '../../lib/plots/plot-svg';
 import { buildRevisionPdfData, FIXTURE_CELLS } from './pdf-fixture';
 
 const folder = mkdtempSync(path.join(tmpdir(), 'ws-plot-pdf-'));
@@ -360,5 +365,163 @@ describe('uncertainty and citations in the issued PDF', () => {
     expect(line && flat(line).trim()).toBe(
       'from TPT2-CALC-0003 rev. B, Brho (Rigidity of the 250 MeV beam) SUPERSEDED BY REV. C',
     );
+  });
+});
+
+describe('a design limit, table data and a long horizon label in the PDF figure', () => {
+  // Each figure alone on a page with a 40 pt white border, drawn as the issued PDF draws it
+  // (plotPdfGraphic: Source Sans 3 at 8.5 pt, one figure pixel per point), read back at 72 dpi
+  // (one pixel per point): what lies outside the figure's box would be drawn on the border.
+  const M = 40;
+  const W = 400;
+  const limited: PlotData = {
+    kind: 'curve',
+    x: { label: 'T_kin', unit: 'MeV' },
+    y: { label: 'B_dip', unit: 'T' },
+    // Numbers for the picture only (no published source): a rising field, its limit, a scan.
+    series: [
+      {
+        name: 'B_dip',
+        points: Array.from({ length: 50 }, (_, i) => [70 + (180 * i) / 49, 0.82 + (0.8 * i) / 49] as [number, number]),
+      },
+    ],
+    limits: [{ name: 'B_max', value: 1.5 }],
+    data: [
+      {
+        name: 'energies.B',
+        x: 'energies.T',
+        y: 'energies.B',
+        points: [
+          [70.1, 0.818],
+          [120.35, 1.0945],
+          [180.7, 1.3592],
+          [249.9, 1.6207],
+        ],
+      },
+    ],
+  };
+  // Events up to ct = 0.1 ly and a horizon 0.38 ly away: its line crosses only the lower left corner.
+  const shortHorizon: PlotData = {
+    kind: 'spacetime',
+    x: { label: 'x', unit: 'ly' },
+    y: { label: 'ct', unit: 'ly' },
+    series: [{ name: 'probe', points: worldline.filter(([, ct]) => ct <= 0.1) }],
+    horizons: [{ name: 'Rindler horizon of the probe leaving the pad', distance: (c * c) / a / ly }],
+  };
+  const figures: Array<{ data: PlotData; height: number; file: string; w: number; h: number; text: string }> = [];
+
+  beforeAll(async () => {
+    registerPdfFonts();
+    for (const [k, data] of [limited, shortHorizon].entries()) {
+      const height = data.kind === 'spacetime' ? 380 : 280;
+      const size = svgSize(serverPlotElement(data, { fontSize: 8.5, width: W, height, fontFamily: 'Source Sans 3' }));
+      const h = (W * size.viewBox[3]) / size.viewBox[2];
+      const doc = createElement(
+        Document,
+        null,
+        createElement(
+          Page,
+          { size: [W + 2 * M, h + 2 * M], style: { padding: M } },
+          plotPdfGraphic(data, W, { height }),
+        ),
+      );
+      const out = path.join(folder, `figure-${k}.pdf`);
+      writeFileSync(out, await renderToBuffer(doc));
+      figures.push({ data, height, file: out, w: W, h, text: flat(run('pdftotext', [out, '-'])) });
+    }
+  }, 120_000);
+
+  /** The page as RGB pixels at 72 dpi. */
+  function pixels(file: string) {
+    const out = file.replace(/\.pdf$/, '');
+    run('pdftoppm', ['-r', '72', '-singlefile', file, out]);
+    const ppm = readFileSync(`${out}.ppm`);
+    const m = /^P6\s+(\d+)\s+(\d+)\s+255\s/.exec(ppm.subarray(0, 40).toString('latin1'))!;
+    const width = Number(m[1]);
+    const rgb = ppm.subarray(m[0].length);
+    return {
+      width,
+      height: Number(m[2]),
+      /** Pixels near `hex`, as [x, y]. */
+      near(hex: string, tolerance: number): Array<[number, number]> {
+        const [r0, g0, b0] = [1, 3, 5].map((i) => parseInt(hex.slice(i, i + 2), 16));
+        const found: Array<[number, number]> = [];
+        for (let i = 0; i + 2 < rgb.length; i += 3) {
+          if (
+            Math.abs(rgb[i] - r0) < tolerance &&
+            Math.abs(rgb[i + 1] - g0) < tolerance &&
+            Math.abs(rgb[i + 2] - b0) < tolerance
+          )
+            found.push([(i / 3) % width, Math.floor(i / 3 / width)]);
+        }
+        return found;
+      },
+    };
+  }
+
+  it('draws the limit line across the frame at exactly its value on the y scale, and names it the design limit', () => {
+    const { data, height, file, text } = figures[0];
+    const sy = (
+      serverPlotElement(data, { fontSize: 8.5, width: W, height, fontFamily: 'Source Sans 3' }) as SVGSVGElement & {
+        scale(n: 'y'): { apply(v: number): number };
+      }
+    ).scale('y');
+    const red = pixels(file).near('#9b1c31', 40);
+    const perRow = new Map<number, number>();
+    for (const [, y] of red) perRow.set(y, (perRow.get(y) ?? 0) + 1);
+    // The dash-dot covers about 64 % of the frame's width; the densest row is the line.
+    const [row, count] = [...perRow.entries()].sort((p, q) => q[1] - p[1])[0];
+    expect(count).toBeGreaterThan(150);
+    expect(Math.abs(row + 0.5 - (M + sy.apply(1.5)))).toBeLessThan(1.5);
+    expect(text).toContain('B_max = 1.5 T (design limit)');
+    expect(text).toContain('B_max = 1.5 T limit');
+    expect(text).toContain('energies.B (table data)');
+  });
+
+  it("draws the table's rows as outlined markers inside the figure", () => {
+    const { file, w, h } = figures[0];
+    // #d55e00, the second style's colour (the one series is blue).
+    const orange = pixels(file).near('#d55e00', 40);
+    // Four markers of radius 4 outlined at 1.25 pt and the legend's sample: some tens of pixels.
+    expect(orange.length).toBeGreaterThan(40);
+    for (const [x, y] of orange) {
+      expect(x).toBeGreaterThanOrEqual(M - 1);
+      expect(x).toBeLessThanOrEqual(M + w + 1);
+      expect(y).toBeGreaterThanOrEqual(M - 1);
+      expect(y).toBeLessThanOrEqual(M + h + 1);
+    }
+  });
+
+  it("keeps a long horizon label within the figure's box and names the horizon in full in the legend", () => {
+    const { file, w, h, text } = figures[1];
+    // The horizon is drawn (its line and legend sample in brown).
+    expect(pixels(file).near('#6f4500', 35).length).toBeGreaterThan(50);
+    // Every word's box, as poppler places the glyphs (rotated ones included, and whether or not the
+    // figure's box would clip them), lies within the figure's box on the page.
+    const words = [
+      ...run('pdftotext', ['-bbox', file, '-']).matchAll(
+        /<word xMin="([-\d.]+)" yMin="([-\d.]+)" xMax="([-\d.]+)" yMax="([-\d.]+)">([^<]*)<\/word>/g,
+      ),
+    ].map((m) => ({ box: m.slice(1, 5).map(Number), word: m[5] }));
+    expect(words.length).toBeGreaterThan(20);
+    const outside = words.filter(
+      ({ box: [x0, y0, x1, y1] }) => x0 < M - 1 || y0 < M - 1 || x1 > M + w + 1 || y1 > M + h + 1,
+    );
+    expect(outside).toEqual([]);
+    expect(text).toContain('horizon Rindler horizon of the probe leaving the pad: x = ct − 0.3800 ly');
+  });
+
+  it('keeps the limit label and the legend of the curve plot within its box', () => {
+    const { file, w, h } = figures[0];
+    const words = [
+      ...run('pdftotext', ['-bbox', file, '-']).matchAll(
+        /<word xMin="([-\d.]+)" yMin="([-\d.]+)" xMax="([-\d.]+)" yMax="([-\d.]+)">([^<]*)<\/word>/g,
+      ),
+    ].map((m) => ({ box: m.slice(1, 5).map(Number), word: m[5] }));
+    expect(words.map((x) => x.word)).toContain('limit');
+    const outside = words.filter(
+      ({ box: [x0, y0, x1, y1] }) => x0 < M - 1 || y0 < M - 1 || x1 > M + w + 1 || y1 > M + h + 1,
+    );
+    expect(outside).toEqual([]);
   });
 });
