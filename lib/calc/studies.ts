@@ -814,7 +814,7 @@ export interface StudyRequest {
 }
 
 /** A column of an input table as the sheet reads it (`table.column`), with the table's own numbers. */
-export interface OverlayColumn {
+interface OverlayColumn {
   /** `table.column`, for the legend and messages. */
   label: string;
   /** The column's elements as the sheet has them (quantities, or numbers for a column without unit). */

@@ -192,7 +192,7 @@ export function plotDescription(data: PlotData): string {
 }
 
 /** "B_max = 1.8 T": a design limit's name and value in the axis unit. */
-export function limitText(limit: { name: string; value: number }, unit: string): string {
+function limitText(limit: { name: string; value: number }, unit: string): string {
   return `${limit.name} = ${formatNumberText(limit.value, 6, { trailingZeros: false })}${unit ? ` ${unit}` : ''}`;
 }
 
