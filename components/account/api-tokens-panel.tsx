@@ -1,10 +1,10 @@
 'use client';
 
 import { formatUtc } from '@/components/ui/utc-time';
-import { useId, useState } from 'react';
+import { useEffect, useId, useRef, useState } from 'react';
 import useSWR from 'swr';
 import { api, errorText } from '@/components/data/api-client';
-import { primaryButton } from '@/components/ui/button';
+import { primaryButton, secondaryButton } from '@/components/ui/button';
 import { Table, Td, Th } from '@/components/ui/table';
 import { Field, inputClass } from '@/components/ui/field';
 
@@ -50,11 +50,6 @@ export function ApiTokensPanel({ defaultDays, maxDays }: { defaultDays: number; 
     setCreated({ token: answer.token, scope: answer.scope, expires_at: answer.expires_at });
     setState({ kind: 'done', message: 'Token created.' });
     void mutate();
-  }
-
-  async function revoke(tokenId: string) {
-    await api.revokeApiToken(tokenId).catch(() => null);
-    await mutate();
   }
 
   return (
@@ -142,15 +137,93 @@ export function ApiTokensPanel({ defaultDays, maxDays }: { defaultDays: number; 
                 ) : t.expired ? (
                   'expired'
                 ) : (
-                  <button type="button" onClick={() => revoke(t.id)} className="font-semibold text-fail underline">
-                    Revoke {t.name}
-                  </button>
+                  <RevokeToken id={t.id} name={t.name} onRevoked={() => void mutate()} />
                 )}
               </Td>
             </tr>
           ))}
         </tbody>
       </Table>
+    </div>
+  );
+}
+
+/**
+ * Revoking asks first: the button opens a question with the revoking button focused and a Cancel
+ * (or Escape) that leaves the token as it is and puts the focus back on the first button.
+ */
+function RevokeToken({ id, name, onRevoked }: { id: string; name: string; onRevoked: () => void }) {
+  const questionId = useId();
+  const [state, setState] = useState<{ kind: 'closed' | 'asking' | 'busy' | 'error'; message?: string }>({
+    kind: 'closed',
+  });
+  const opener = useRef<HTMLButtonElement>(null);
+  const confirm = useRef<HTMLButtonElement>(null);
+  const wasOpen = useRef(false);
+  const open = state.kind !== 'closed';
+  useEffect(() => {
+    if (open && !wasOpen.current) confirm.current?.focus();
+    else if (!open && wasOpen.current) opener.current?.focus();
+    wasOpen.current = open;
+  }, [open]);
+
+  async function revoke() {
+    setState({ kind: 'busy' });
+    try {
+      await api.revokeApiToken(id);
+    } catch (error) {
+      setState({ kind: 'error', message: errorText(error) });
+      return;
+    }
+    onRevoked();
+  }
+
+  if (!open) {
+    return (
+      <button
+        ref={opener}
+        type="button"
+        onClick={() => setState({ kind: 'asking' })}
+        className="font-semibold text-fail underline"
+      >
+        Revoke {name}
+      </button>
+    );
+  }
+  return (
+    <div
+      role="group"
+      aria-labelledby={questionId}
+      className="min-w-56 space-y-2"
+      onKeyDown={(event) => {
+        if (event.key === 'Escape' && state.kind !== 'busy') setState({ kind: 'closed' });
+      }}
+    >
+      <p id={questionId}>Revoke {name}? Whatever uses it is refused from then on; this cannot be undone.</p>
+      <div className="flex flex-wrap gap-2">
+        <button
+          ref={confirm}
+          type="button"
+          onClick={() => void revoke()}
+          disabled={state.kind === 'busy'}
+          className="rounded bg-fail px-3 py-1.5 text-sm font-semibold text-surface disabled:opacity-60"
+        >
+          {state.kind === 'busy' ? 'Working…' : 'Revoke the token'}
+        </button>
+        <button
+          type="button"
+          onClick={() => setState({ kind: 'closed' })}
+          disabled={state.kind === 'busy'}
+          className={secondaryButton}
+        >
+          Cancel
+        </button>
+      </div>
+      {state.kind === 'error' ? (
+        <p role="alert" className="text-sm text-fail">
+          {state.message}
+        </p>
+      ) : null}
     </div>
   );
 }

@@ -1,7 +1,7 @@
 'use client';
 
 import { formatUtc } from '@/components/ui/utc-time';
-import { useState } from 'react';
+import { useEffect, useRef, useState } from 'react';
 import useSWR from 'swr';
 import { api } from '@/components/data/api-client';
 import { JsonForm } from '@/components/forms/json-form';
@@ -18,36 +18,98 @@ const ROLES = [
   { value: 'viewer', label: 'Viewer' },
 ];
 
+type UserActionKind = 'disable' | 'enable' | 'lock' | 'unlock' | 'send-password-reset';
+
+/** What each action's opening button, reason field, submit button and notice say. */
+const ACTION_WORDS: Record<
+  UserActionKind,
+  { open: (name: string) => string; reason: (name: string) => string; submit: string; done: (u: UserRow) => string }
+> = {
+  disable: {
+    open: (name) => `Disable ${name}`,
+    reason: (name) => `Reason to disable ${name}`,
+    submit: 'Disable',
+    done: (u) => `${u.name} is disabled.`,
+  },
+  enable: {
+    open: (name) => `Enable ${name}`,
+    reason: (name) => `Reason to enable ${name}`,
+    submit: 'Enable',
+    done: (u) => `${u.name} is enabled.`,
+  },
+  lock: {
+    open: (name) => `Lock ${name}`,
+    reason: (name) => `Reason to lock ${name}`,
+    submit: 'Lock',
+    done: (u) => `${u.name} is locked.`,
+  },
+  unlock: {
+    open: (name) => `Unlock ${name}`,
+    reason: (name) => `Reason to unlock ${name}`,
+    submit: 'Unlock',
+    done: (u) => `${u.name} is unlocked.`,
+  },
+  'send-password-reset': {
+    open: (name) => `Send ${name} a reset link`,
+    reason: (name) => `Reason to send ${name} a reset link`,
+    submit: 'Send the link',
+    done: (u) => `A password-reset link is on its way to ${u.email}.`,
+  },
+};
+
+/**
+ * One action on an account: a button that opens a form asking for the reason (focus moves to it),
+ * which is sent, or cancelled (button or Escape) without effect, focus back on the button.
+ */
 function UserAction({
   user,
   action,
   onDone,
 }: {
   user: UserRow;
-  action: 'disable' | 'enable' | 'lock' | 'unlock';
-  onDone: () => void;
+  action: UserActionKind;
+  onDone: (notice: string) => void;
 }) {
   const [open, setOpen] = useState(false);
-  const label = { disable: 'Disable', enable: 'Enable', lock: 'Lock', unlock: 'Unlock' }[action];
+  const box = useRef<HTMLDivElement>(null);
+  const opener = useRef<HTMLButtonElement>(null);
+  const wasOpen = useRef(false);
+  useEffect(() => {
+    if (open) box.current?.querySelector<HTMLElement>('input, textarea')?.focus();
+    else if (wasOpen.current) opener.current?.focus();
+    wasOpen.current = open;
+  }, [open]);
+  const words = ACTION_WORDS[action];
   if (!open) {
     return (
-      <button type="button" onClick={() => setOpen(true)} className="font-semibold text-accent underline">
-        {label} {user.name}
+      <button
+        ref={opener}
+        type="button"
+        onClick={() => setOpen(true)}
+        className="block text-left font-semibold text-accent underline"
+      >
+        {words.open(user.name)}
       </button>
     );
   }
   return (
-    <JsonForm
-      action={`/api/admin/users/${user.id}`}
-      method="PATCH"
-      extra={{ action }}
-      fields={[{ name: 'reason', label: `Reason to ${action} ${user.name}`, required: true }]}
-      submitLabel={label}
-      onDone={() => {
-        setOpen(false);
-        onDone();
-      }}
-    />
+    <div ref={box} className="min-w-56 rounded border border-rule p-3">
+      <JsonForm
+        action={`/api/admin/users/${user.id}`}
+        method="PATCH"
+        extra={{ action }}
+        fields={[
+          { name: 'reason', label: words.reason(user.name), required: true, hint: 'Recorded in the audit trail.' },
+        ]}
+        submitLabel={words.submit}
+        onCancel={() => setOpen(false)}
+        onDone={() => {
+          wasOpen.current = false;
+          setOpen(false);
+          onDone(words.done(user));
+        }}
+      />
+    </div>
   );
 }
 
@@ -55,6 +117,14 @@ export function AdminConsole() {
   const users = useSWR('/api/admin/users', api.listUsers);
   const projects = useSWR('/api/projects', api.listProjects);
   const [projectId, setProjectId] = useState<string>('');
+  // What the last action on an account did; focus moves here when its form closes.
+  const [notice, setNotice] = useState('');
+  const noticeRef = useRef<HTMLParagraphElement>(null);
+  const accountChanged = (text: string) => {
+    setNotice(text);
+    void users.mutate();
+    noticeRef.current?.focus();
+  };
   const selected = projectId || projects.data?.projects[0]?.id || '';
   const members = useSWR(selected ? `/api/projects/${selected}/members` : null, () => api.listMembers(selected));
   const userOptions = (users.data?.users ?? [])
@@ -67,6 +137,9 @@ export function AdminConsole() {
         <h2 id="users-title" className="text-xl font-bold">
           People
         </h2>
+        <p ref={noticeRef} tabIndex={-1} role="status" className="text-sm text-pass">
+          {notice}
+        </p>
         <Table caption="Accounts">
           <thead>
             <tr className="border-b border-rule-strong text-left">
@@ -100,14 +173,16 @@ export function AdminConsole() {
                   )}
                 </Td>
                 <Td className="space-y-1 py-2">
-                  {u.lockedAt ? <UserAction user={u} action="unlock" onDone={() => void users.mutate()} /> : null}
+                  {u.lockedAt ? <UserAction user={u} action="unlock" onDone={accountChanged} /> : null}
                   {!u.disabledAt && (!u.lockedAt || u.lockedUntil) ? (
-                    <UserAction user={u} action="lock" onDone={() => void users.mutate()} />
+                    <UserAction user={u} action="lock" onDone={accountChanged} />
                   ) : null}
+                  {!u.disabledAt ? <UserAction user={u} action="send-password-reset" onDone={accountChanged} /> : null}
                   <UserAction
+                    key={u.disabledAt ? 'enable' : 'disable'}
                     user={u}
                     action={u.disabledAt ? 'enable' : 'disable'}
-                    onDone={() => void users.mutate()}
+                    onDone={accountChanged}
                   />
                 </Td>
               </tr>
@@ -138,13 +213,15 @@ export function AdminConsole() {
           Projects and roles
         </h2>
         <div className="flex flex-wrap items-end gap-3">
-          <Field label="Project" id="admin-project">
+          {/* A select is as wide as its longest option: held to the page's width, so a long project
+              name does not make a phone's page scroll sideways. */}
+          <Field label="Project" id="admin-project" className="w-full min-w-0 max-w-xl">
             {(control) => (
               <select
                 {...control}
                 value={selected}
                 onChange={(e) => setProjectId(e.target.value)}
-                className="rounded border border-rule-strong bg-surface px-3 py-2"
+                className="w-full min-w-0 rounded border border-rule-strong bg-surface px-3 py-2"
               >
                 {(projects.data?.projects ?? []).map((p) => (
                   <option key={p.id} value={p.id}>

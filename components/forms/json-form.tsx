@@ -1,7 +1,7 @@
 'use client';
 
 import { useId, useState } from 'react';
-import { primaryButton } from '@/components/ui/button';
+import { primaryButton, secondaryButton } from '@/components/ui/button';
 import { Field, inputClass } from '@/components/ui/field';
 import { api, errorText } from '@/components/data/api-client';
 
@@ -28,6 +28,7 @@ export function JsonForm({
   onDone,
   successMessage,
   extra,
+  onCancel,
 }: {
   action: string;
   method?: 'POST' | 'PATCH' | 'DELETE';
@@ -36,6 +37,8 @@ export function JsonForm({
   onDone?: (body: Record<string, unknown>) => void;
   successMessage?: string;
   extra?: Record<string, unknown>;
+  /** Shows a Cancel button (and lets Escape cancel): the form is left without sending anything. */
+  onCancel?: () => void;
 }) {
   const id = useId();
   const [state, setState] = useState<{ kind: 'idle' | 'busy' | 'error' | 'done'; message?: string }>({ kind: 'idle' });
@@ -58,7 +61,18 @@ export function JsonForm({
     onDone?.(answer);
   }
   return (
-    <form onSubmit={submit} className="space-y-3" aria-describedby={`${id}-status`}>
+    <form
+      onSubmit={submit}
+      onKeyDown={
+        onCancel
+          ? (event) => {
+              if (event.key === 'Escape' && state.kind !== 'busy') onCancel();
+            }
+          : undefined
+      }
+      className="space-y-3"
+      aria-describedby={`${id}-status`}
+    >
       {fields.map((f) => {
         const fieldId = `${id}-${f.name}`;
         const common = {
@@ -103,9 +117,16 @@ export function JsonForm({
           </Field>
         );
       })}
-      <button type="submit" disabled={state.kind === 'busy'} className={primaryButton}>
-        {state.kind === 'busy' ? 'Working…' : submitLabel}
-      </button>
+      <div className="flex flex-wrap items-center gap-3">
+        <button type="submit" disabled={state.kind === 'busy'} className={primaryButton}>
+          {state.kind === 'busy' ? 'Working…' : submitLabel}
+        </button>
+        {onCancel ? (
+          <button type="button" onClick={onCancel} disabled={state.kind === 'busy'} className={secondaryButton}>
+            Cancel
+          </button>
+        ) : null}
+      </div>
       <p
         id={`${id}-status`}
         role={state.kind === 'error' ? 'alert' : 'status'}

@@ -101,42 +101,70 @@ async function requestLink(db: Kysely<Database>, email: string, purpose: 'passwo
     .where('email', '=', email)
     .executeTakeFirst();
   if (!user || user.disabled_at) return;
-  // At most three links of a kind per account in a quarter of an hour: the form cannot be used to
-  // flood someone's mailbox.
-  const recent = await db
-    .selectFrom('email_tokens')
-    .select((eb) => eb.fn.countAll<string>().as('n'))
-    .where('user_id', '=', user.id)
-    .where('purpose', '=', purpose)
-    .where('created_at', '>', sql<Date>`now() - interval '15 minutes'`)
-    .executeTakeFirstOrThrow();
-  if (Number(recent.n) >= 3) return;
+  if (await tooManyLinks(db, user.id, purpose)) return;
   await db.transaction().execute(async (trx) => {
-    const minutes = purpose === 'sign-in' ? AUTH_SETTINGS.signInLinkMinutes : AUTH_SETTINGS.passwordResetMinutes;
-    const token = await createEmailToken(trx, { userId: user.id, purpose, minutes });
-    const link =
-      purpose === 'sign-in' ? `${appUrl()}/sign-in/link?token=${token}` : `${appUrl()}/reset-password?token=${token}`;
-    await enqueueMail(trx, {
-      kind: purpose,
-      to: email,
-      subject: purpose === 'sign-in' ? 'Your Worldsheet sign-in link' : 'Reset your Worldsheet password',
-      text: [
-        `Hello ${user.display_name},`,
-        '',
-        purpose === 'sign-in'
-          ? `Sign in to Worldsheet with this link. It works once, for ${minutes} minutes:`
-          : `Choose a new Worldsheet password with this link. It works once, for ${minutes} minutes:`,
-        '',
-        link,
-        '',
-        'If you did not ask for it, ignore this message.',
-      ].join('\n'),
-    });
+    await mailLink(trx, { userId: user.id, email, name: user.display_name, purpose });
     await recordAudit(trx, null, {
       action: purpose === 'sign-in' ? 'auth.link-request' : 'auth.reset-request',
       objectType: 'user',
       objectId: user.id,
     });
+  });
+}
+
+/**
+ * At most three links of a kind per account in a quarter of an hour, whoever asks (the holder or an
+ * administrator): neither form can be used to flood someone's mailbox.
+ */
+export async function tooManyLinks(
+  db: Kysely<Database>,
+  userId: string,
+  purpose: 'password-reset' | 'sign-in',
+): Promise<boolean> {
+  const recent = await db
+    .selectFrom('email_tokens')
+    .select((eb) => eb.fn.countAll<string>().as('n'))
+    .where('user_id', '=', userId)
+    .where('purpose', '=', purpose)
+    .where('created_at', '>', sql<Date>`now() - interval '15 minutes'`)
+    .executeTakeFirstOrThrow();
+  return Number(recent.n) >= 3;
+}
+
+/**
+ * Makes a single-use link and queues it to the account's own address, in the caller's transaction.
+ * The link goes only into that mail: `sentBy` (an administrator's printed name) is said in it, so the
+ * holder knows who sent a link they did not ask for.
+ */
+export async function mailLink(
+  trx: Kysely<Database>,
+  input: { userId: string; email: string; name: string; purpose: 'password-reset' | 'sign-in'; sentBy?: string },
+): Promise<void> {
+  const { purpose } = input;
+  const minutes = purpose === 'sign-in' ? AUTH_SETTINGS.signInLinkMinutes : AUTH_SETTINGS.passwordResetMinutes;
+  const token = await createEmailToken(trx, { userId: input.userId, purpose, minutes });
+  const link =
+    purpose === 'sign-in' ? `${appUrl()}/sign-in/link?token=${token}` : `${appUrl()}/reset-password?token=${token}`;
+  const what =
+    purpose === 'sign-in'
+      ? `Sign in to Worldsheet with this link. It works once, for ${minutes} minutes:`
+      : `Choose a new Worldsheet password with this link. It works once, for ${minutes} minutes:`;
+  await enqueueMail(trx, {
+    kind: purpose,
+    to: input.email,
+    subject: purpose === 'sign-in' ? 'Your Worldsheet sign-in link' : 'Reset your Worldsheet password',
+    text: [
+      `Hello ${input.name},`,
+      '',
+      ...(input.sentBy ? [`${input.sentBy}, an administrator of Worldsheet, sent you this link.`, ''] : []),
+      what,
+      '',
+      link,
+      '',
+      input.sentBy
+        ? 'If you did not expect it, tell your administrator; your password stays as it is until the link is used.'
+        : 'If you did not ask for it, ignore this message.',
+    ].join('\n'),
   });
 }
 

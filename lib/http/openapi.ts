@@ -378,14 +378,14 @@ export const OPERATIONS: Operation[] = [
     method: 'PATCH',
     path: '/api/admin/users/{userId}',
     operationId: 'changeUser',
-    summary: 'Disable, enable, lock or unlock an account, with a reason',
+    summary: 'Disable, enable, lock or unlock an account, or send it a password-reset link, with a reason',
     description:
-      "Administrators only. Accounts are never deleted: signatures must stay readable. An administrator's lock lasts until an administrator unlocks.",
+      "Administrators only. Accounts are never deleted: signatures must stay readable. An administrator's lock lasts until an administrator unlocks. A reset link is mailed to the account's own address only (at most three in 15 minutes, then 429), never returned.",
     tags: ['admin'],
     auth: 'session or API token',
     params: { userId: uuidParam('user') },
     body: { schema: userChangeSchema },
-    responses: { 200: json('Changed and audited.', res.okSchema), ...errors([400, 401, 403, 404, 409, 413]) },
+    responses: { 200: json('Changed and audited.', res.okSchema), ...errors([400, 401, 403, 404, 409, 413, 429]) },
   },
 
   // projects

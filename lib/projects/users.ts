@@ -1,9 +1,10 @@
 // Accounts, as administrators manage them: invite, disable and enable (never delete: signatures
-// must stay readable), lock (until an administrator unlocks) and unlock.
+// must stay readable), lock (until an administrator unlocks), unlock, and send a password-reset link.
 import { sql, type Kysely } from 'kysely';
 import { z } from 'zod';
 import type { Database } from '@/db/schema';
 import type { Actor } from '@/lib/auth/actor';
+import { mailLink, tooManyLinks } from '@/lib/auth/account';
 import { createEmailToken } from '@/lib/auth/email-tokens';
 import { LOCK_ACTIVE } from '@/lib/auth/lockout';
 import { endUserSessions } from '@/lib/auth/sessions';
@@ -20,7 +21,7 @@ export const inviteSchema = z.object({
 });
 
 export const userChangeSchema = z.object({
-  action: z.enum(['disable', 'enable', 'lock', 'unlock']),
+  action: z.enum(['disable', 'enable', 'lock', 'unlock', 'send-password-reset']),
   reason: z.string().trim().min(3, 'give a reason').max(1000),
 });
 
@@ -94,7 +95,7 @@ export async function changeUser(
   await db.transaction().execute(async (trx) => {
     const user = await trx
       .selectFrom('users')
-      .select(['id', 'disabled_at', 'lock_expires_at', LOCK_ACTIVE.as('locked')])
+      .select(['id', 'email', 'display_name', 'disabled_at', 'lock_expires_at', LOCK_ACTIVE.as('locked')])
       .where('id', '=', userId)
       .forUpdate()
       .executeTakeFirst();
@@ -128,6 +129,22 @@ export async function changeUser(
         .execute();
       // Its sessions end now; its API tokens are refused while the lock lasts (lib/auth/api-tokens.ts).
       await endUserSessions(trx, userId, 'user locked');
+    } else if (input.action === 'send-password-reset') {
+      // The link is mailed to the account's own address and never shown to the administrator, so it
+      // lets nobody act as someone else; sending one to oneself is audited like any other.
+      if (user.disabled_at) throw new AppError('conflict', 'The account is disabled: enable it first.');
+      if (await tooManyLinks(trx, userId, 'password-reset'))
+        throw new AppError(
+          'too_many_requests',
+          'Three reset links went to this account in the last 15 minutes; wait before sending another.',
+        );
+      await mailLink(trx, {
+        userId,
+        email: user.email,
+        name: user.display_name,
+        purpose: 'password-reset',
+        sentBy: actor.name,
+      });
     } else {
       if (!user.locked) throw new AppError('conflict', 'The account is not locked.');
       await trx
@@ -145,6 +162,7 @@ export async function changeUser(
         locked: Boolean(user.locked),
         lockedUntil: user.locked ? (user.lock_expires_at?.toISOString() ?? null) : null,
       },
+      newValue: input.action === 'send-password-reset' ? { mailedTo: user.email } : undefined,
       reason: input.reason,
     });
   });

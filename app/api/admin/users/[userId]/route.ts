@@ -6,7 +6,10 @@ import { changeUser, userChangeSchema } from '@/lib/projects/users';
 
 export const dynamic = 'force-dynamic';
 
-/** Disables, enables or unlocks an account, with a reason. Accounts are never deleted. */
+/**
+ * Disables, enables, locks or unlocks an account, or mails it a password-reset link, with a reason.
+ * Accounts are never deleted.
+ */
 export function PATCH(request: Request, { params }: { params: Promise<{ userId: string }> }): Promise<Response> {
   return handle(request, async () => {
     const actor = await requireAdmin();
