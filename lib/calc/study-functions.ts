@@ -1,8 +1,8 @@
 // Functions of engineering studies that are not relativistic kernels: value lists for sweeps and
 // plots (`steps`, `points`), and the names the engine treats as statements or markers of their own
-// (`uncertain`, `sweep`, `plot`, `dataPoints`, `spacetime`, `fromRevision`). Registered with mathjs so that a sheet
-// cannot redefine them and the editor knows them; the engine evaluates the statement forms itself,
-// and these bodies only answer when one is used where it has no meaning.
+// (`uncertain`, `sweep`, `plot`, `dataPoints`, `spacetime`, `fromRevision`). Registered with mathjs
+// so that a sheet cannot redefine them and the editor knows them; the engine evaluates the statement
+// forms itself, and these bodies only answer when one is used where it has no meaning.
 import type { MathJsInstance, Unit } from 'mathjs';
 import type { LibraryBinding } from './math-instance';
 
@@ -59,14 +59,14 @@ export const STUDY_FUNCTION_DOCS: readonly StudyFunctionDoc[] = [
     name: 'plot',
     signature: 'plot(input, values, result1, result2, …)',
     summary:
-      "Curves of the named results (of one dimension) against one input defined above, over the values given. A named result that does not depend on the input is a design limit: a dashed horizontal line at exactly its value in the axis unit, labelled with its name and value; it must be of the curves' dimension. Points of an attached data table are added with dataPoints(table.x, table.y).",
+      "Curves of the named results (of one dimension) against one input defined above, over the values given. A named result that does not depend on the input is a design limit: a dash-dot horizontal line at exactly its value in the axis unit, labelled with its name and value; it must be of the curves' dimension. Points of an attached data table are added with dataPoints(table.x, table.y).",
     example: 'plot(T_kin, points(70 MeV, 250 MeV, 91), Brho, Brho_max)',
   },
   {
     name: 'dataPoints',
-    signature: 'plot(input, values, result1, …, dataPoints(table.x, table.y))',
+    signature: 'dataPoints(table.x, table.y)',
     summary:
-      "Inside plot(…): the rows of two columns of an attached data table drawn as hollow markers without a line, named in the legend. The x column must be of the input's dimension and the y column of the curves'; both of one length and not empty. A column in the axis unit is drawn with its own numbers, another unit is converted.",
+      "Among the results of a plot, plot(input, values, result1, …, dataPoints(table.x, table.y)): the rows of two columns of an attached data table drawn as outlined markers without a line, named in the legend. The x column must be of the input's dimension and the y column of the curves'; both of one length and not empty. A column in the axis unit is drawn with its own numbers, another unit is converted.",
     example: 'plot(T_kin, points(70 MeV, 250 MeV, 91), Brho, dataPoints(energies.T, energies.Brho))',
   },
   {
