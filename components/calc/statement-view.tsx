@@ -72,10 +72,13 @@ export function StatementView({
   statement,
   significantFigures = 6,
   studyCsv,
+  quietErrors = false,
 }: {
   statement: StatementResult;
   significantFigures?: number;
   studyCsv?: StudyCsvLink;
+  /** The error shown without role="alert": in the sheet editor, which announces errors itself once typing pauses. */
+  quietErrors?: boolean;
 }) {
   const s = statement;
   const references = s.references ?? [];
@@ -95,7 +98,7 @@ export function StatementView({
           <TexMath tex={s.substitutedTex} className="block text-sm text-ink-muted" />
         ) : null}
         {s.error ? (
-          <p role="alert" className="rounded bg-fail-soft px-2 py-1 text-sm text-fail">
+          <p role={quietErrors ? undefined : 'alert'} className="rounded bg-fail-soft px-2 py-1 text-sm text-fail">
             Line {s.line}: <WarningText text={s.error} />
           </p>
         ) : null}

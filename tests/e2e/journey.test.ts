@@ -57,14 +57,17 @@ it('goes from a new sheet to a verified issued revision', async () => {
   await page.getByRole('button', { name: 'Create the sheet' }).click();
   await page.waitForURL(`${app.baseUrl}/projects/TPT2/sheets/4`);
   await page.goto(`${app.baseUrl}/projects/TPT2/sheets/4/edit`);
-  await page.getByRole('button', { name: 'Add a text cell' }).click();
+  // The sheet starts empty: its first cell, a note, comes from "Add to the sheet…".
+  await page.getByRole('button', { name: 'Add to the sheet' }).click();
+  await page.getByRole('menuitem', { name: 'Note' }).click();
   // Hostile Markdown (OWASP XSS filter evasion cheat sheet classes): it must show as text, never run.
   await page
-    .getByLabel('Cell 1 (text) source')
+    .getByLabel('Cell 1 (note) source')
     .fill(
       'Muons from pion decay, momentum $p_\\mu$; mean decay length $\\beta\\gamma c\\tau$. <img src=x onerror="window.__xss=1"> <script>window.__xss=2</script> [link](javascript:window.__xss=3)',
     );
-  await page.getByRole('button', { name: 'Add a calculation cell' }).click();
+  await page.getByRole('button', { name: 'Insert below cell 1' }).click();
+  await page.getByRole('menuitem', { name: 'Calculation step' }).click();
   await page
     .getByLabel('Cell 2 (calculation) source')
     .fill('p_mu = 150 MeV / c\nL_dec = decayLength(p_mu, m_mu, 2.1969811 us) to m\nL_dec < 1000 m');

@@ -69,7 +69,8 @@ it('edits a sheet, sees typeset results as it types, saves two versions and comp
   const { page } = session;
   await page.goto(`${app.baseUrl}/projects/TPT2/sheets/2/edit`);
   await page.getByRole('heading', { level: 1, name: /Edit: Time of flight/ }).waitFor();
-  await page.getByRole('button', { name: 'Add a calculation cell' }).click();
+  await page.getByRole('button', { name: 'Insert below cell 1' }).click();
+  await page.getByRole('menuitem', { name: 'Calculation step' }).click();
   const source = page.getByLabel('Cell 2 (calculation) source');
   await source.fill('gamma_b = lorentzFactor(v_beam)\nt_proper = t_flight / gamma_b to ns\nt_proper < 100 ns');
   await page.getByRole('article', { name: 'Cell 2 (calculation)' }).getByText('Pass').waitFor();
@@ -167,7 +168,8 @@ it('uploads a CSV data table, uses its columns with units in a cell, and saves a
   await page.getByRole('button', { name: 'Upload the file', exact: true }).click();
   await page.getByRole('alert').filter({ hasText: 'named as a PDF document but its content is a PNG image' }).waitFor();
 
-  await page.getByRole('button', { name: 'Add a calculation cell' }).click();
+  await page.getByRole('button', { name: 'Add to the sheet' }).click();
+  await page.getByRole('menuitem', { name: 'Calculation step' }).click();
   await page
     .getByLabel('Cell 1 (calculation) source')
     .fill('p_scan = momentumFromKinetic(energy_scan.energy, m_p)\nBrho_scan = magneticRigidity(p_scan, 1) to T*m');
