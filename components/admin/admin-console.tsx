@@ -113,6 +113,17 @@ function UserAction({
   );
 }
 
+function AccountState({ user: u }: { user: UserRow }) {
+  if (u.disabledAt) return 'disabled';
+  if (u.lockedAt)
+    return (
+      <span className="text-fail">
+        {u.lockedUntil ? `locked until ${formatUtc(u.lockedUntil)} (failed passwords)` : 'locked by an administrator'}
+      </span>
+    );
+  return u.hasPassword ? 'active' : 'invited';
+}
+
 export function AdminConsole() {
   const users = useSWR('/api/admin/users', api.listUsers);
   const projects = useSWR('/api/projects', api.listProjects);
@@ -144,8 +155,8 @@ export function AdminConsole() {
           <thead>
             <tr className="border-b border-rule-strong text-left">
               <Th className="py-2 pr-3">Printed name</Th>
-              <Th className="py-2 pr-3">E-mail</Th>
-              <Th className="py-2 pr-3">State</Th>
+              <Th className="hidden py-2 pr-3 sm:table-cell">E-mail</Th>
+              <Th className="hidden py-2 pr-3 sm:table-cell">State</Th>
               <Th className="py-2">Actions</Th>
             </tr>
           </thead>
@@ -155,22 +166,15 @@ export function AdminConsole() {
                 <Td className="py-2 pr-3">
                   {u.name}
                   {u.isAdmin ? <span className="ml-2 text-xs text-ink-muted">administrator</span> : null}
+                  {/* On a phone the e-mail and the state stand under the name, and the actions beside it. */}
+                  <span className="block break-all font-mono sm:hidden">{u.email}</span>
+                  <span className="block sm:hidden">
+                    <AccountState user={u} />
+                  </span>
                 </Td>
-                <Td className="py-2 pr-3 font-mono">{u.email}</Td>
-                <Td className="py-2 pr-3">
-                  {u.disabledAt ? (
-                    'disabled'
-                  ) : u.lockedAt ? (
-                    <span className="text-fail">
-                      {u.lockedUntil
-                        ? `locked until ${formatUtc(u.lockedUntil)} (failed passwords)`
-                        : 'locked by an administrator'}
-                    </span>
-                  ) : u.hasPassword ? (
-                    'active'
-                  ) : (
-                    'invited'
-                  )}
+                <Td className="hidden py-2 pr-3 font-mono sm:table-cell">{u.email}</Td>
+                <Td className="hidden py-2 pr-3 sm:table-cell">
+                  <AccountState user={u} />
                 </Td>
                 <Td className="space-y-1 py-2">
                   {u.lockedAt ? <UserAction user={u} action="unlock" onDone={accountChanged} /> : null}
