@@ -47,7 +47,7 @@ export default async function HomePage() {
         <h2 id="journey" className="text-xl font-bold">
           How a calculation travels
         </h2>
-        <ol className="mt-4 grid gap-3 sm:grid-cols-2 lg:grid-cols-3">
+        <ol className="mt-4 grid grid-cols-1 gap-3 sm:grid-cols-2 lg:grid-cols-3">
           {STEPS.map((step, i) => (
             <li key={step.term} className="rounded border border-rule bg-surface p-4">
               <p className="flex items-baseline gap-2">

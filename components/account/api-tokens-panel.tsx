@@ -65,13 +65,13 @@ export function ApiTokensPanel({ defaultDays, maxDays }: { defaultDays: number; 
         <fieldset>
           <legend className="text-sm font-semibold">What it may do</legend>
           <div className="flex items-center gap-2">
-            <input id={`${id}-scope-read`} type="radio" name="scope" value="read" defaultChecked className="h-4 w-4" />
+            <input id={`${id}-scope-read`} type="radio" name="scope" value="read" defaultChecked className="h-6 w-6" />
             <label htmlFor={`${id}-scope-read`} className="text-sm">
               Read only
             </label>
           </div>
           <div className="flex items-center gap-2">
-            <input id={`${id}-scope-rw`} type="radio" name="scope" value="read-write" className="h-4 w-4" />
+            <input id={`${id}-scope-rw`} type="radio" name="scope" value="read-write" className="h-6 w-6" />
             <label htmlFor={`${id}-scope-rw`} className="text-sm">
               Read and write (signing still asks for your password)
             </label>

@@ -1,5 +1,6 @@
 'use client';
 
+import { ScrollBox } from '@/components/ui/scroll-box';
 import { useMemo, useState } from 'react';
 import { TexMath } from './tex-math';
 
@@ -57,9 +58,9 @@ export function FunctionReference({ functions }: { functions: FunctionDocView[] 
             {f.name}({f.params.map((p) => p.name).join(', ')})
           </h3>
           <p className="mt-1">{f.summary}</p>
-          <div className="mt-2 overflow-x-auto">
+          <ScrollBox className="mt-2" scrollLabel={`Formula of ${f.name} (scrolls sideways)`}>
             <TexMath tex={f.formula} display />
-          </div>
+          </ScrollBox>
           <dl className="mt-2 grid gap-x-4 gap-y-1 text-sm sm:grid-cols-[8rem_minmax(0,1fr)]">
             <dt className="font-semibold">Arguments</dt>
             <dd>

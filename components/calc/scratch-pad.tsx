@@ -36,7 +36,7 @@ export function ScratchPad() {
   const cell = data?.cells[0];
 
   return (
-    <div className="grid gap-6 lg:grid-cols-2">
+    <div className="grid grid-cols-1 gap-6 lg:grid-cols-2">
       <div>
         <p id={inputId} className="block font-semibold">
           Calculation cell

@@ -1,3 +1,4 @@
+import { ScrollBox } from '@/components/ui/scroll-box';
 import { referenceText } from '@/lib/calc/reference-text';
 import type { ResolvedReference, StatementResult } from '@/lib/calc/types';
 import { PlotView } from './plot-view';
@@ -86,7 +87,7 @@ export function StatementView({
   const csv = s.table && studyCsv ? studyCsv(s.line) : null;
   return (
     <div className="grid gap-1 border-t border-rule py-2 first:border-t-0 sm:grid-cols-[minmax(0,1fr)_auto] sm:gap-4">
-      <div className="min-w-0 space-y-1 overflow-x-auto">
+      <ScrollBox className="min-w-0 space-y-1" scrollLabel={`Line ${s.line}, typeset (scrolls sideways)`}>
         {s.tex ? (
           <TexMath tex={s.tex} className="block text-ink" />
         ) : (
@@ -104,7 +105,7 @@ export function StatementView({
         ) : null}
         <StatementWarnings line={s.line} warnings={s.warnings} />
         {references.length ? <ReferenceLines references={references} /> : null}
-      </div>
+      </ScrollBox>
       <div className="text-right sm:min-w-40">
         {s.criterion ? (
           <p>

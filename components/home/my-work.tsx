@@ -46,7 +46,7 @@ export function MyWorkView({ name, work }: { name: string; work: MyWork }) {
     <div className="space-y-6">
       <h1 className="text-2xl font-bold">Your work, {name}</h1>
       {none ? <p>You have no role in any project yet. A project administrator adds you to a project.</p> : null}
-      <div className="grid gap-4 lg:grid-cols-2">
+      <div className="grid grid-cols-1 gap-4 lg:grid-cols-2">
         {work.returned ? (
           <Section
             id="work-returned"

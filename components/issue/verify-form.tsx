@@ -45,7 +45,7 @@ export function VerifyForm() {
   const r = answer?.revision;
   return (
     <div className="space-y-6">
-      <div className="grid gap-4 md:grid-cols-2">
+      <div className="grid grid-cols-1 gap-4 md:grid-cols-2">
         <form onSubmit={onFile} className="space-y-2 rounded border border-rule bg-surface p-4">
           <h2 className="text-lg font-bold">Check a PDF</h2>
           <label htmlFor="verify-file" className="block text-sm font-semibold">

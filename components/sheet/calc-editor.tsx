@@ -238,6 +238,9 @@ export function CalcEditor({
           autocompletion({ override: [calcCompletionSource(() => namesRef.current)], icons: false }),
           keymap.of([{ key: 'Tab', run: acceptCompletion }, ...completionKeymap, ...historyKeymap, ...defaultKeymap]),
           theme,
+          // Long lines wrap: nothing of a statement is hidden past the box's edge (on a phone above all),
+          // and the box has no sideways scroll that only a pointer could reach.
+          EditorView.lineWrapping,
           // 1.5rem a line, plus the content's padding.
           EditorView.theme({ '.cm-content, .cm-gutter': { minHeight: `${minLines * 1.5 + 1}rem` } }),
           ro.of([EditorState.readOnly.of(readOnly)]),

@@ -140,7 +140,7 @@ export function VersionView({
                 <div className="py-2">{renderText(cell.source)}</div>
               ) : (
                 <>
-                  <pre className="my-2 overflow-x-auto rounded bg-paper p-2 font-mono text-sm">
+                  <pre className="my-2 whitespace-pre-wrap break-words rounded bg-paper p-2 font-mono text-sm">
                     <VisibleText text={cell.source} />
                   </pre>
                   {result ? (

@@ -17,12 +17,15 @@ export function overflows(el: {
 
 export function ScrollBox({
   labelledBy,
+  scrollLabel,
   label,
   className,
   children,
 }: {
   /** Id of the element naming the box while it scrolls (the table's caption). */
-  labelledBy: string;
+  labelledBy?: string;
+  /** The box's name while it scrolls, where no element names it (a formula: "Line 3, typeset"). */
+  scrollLabel?: string;
   /** A fixed name: the box is then a focusable region whether or not it scrolls. */
   label?: string;
   className?: string;
@@ -48,7 +51,11 @@ export function ScrollBox({
     label !== undefined
       ? { tabIndex: 0, role: 'region', 'aria-label': label }
       : scrolls
-        ? { tabIndex: 0, role: 'region', 'aria-labelledby': labelledBy }
+        ? {
+            tabIndex: 0,
+            role: 'region',
+            ...(labelledBy ? { 'aria-labelledby': labelledBy } : { 'aria-label': scrollLabel }),
+          }
         : {};
   return (
     <div ref={ref} className={boxClasses(className)} {...region}>

@@ -39,7 +39,7 @@ export default async function SignInPage({
       : 'Sign-in failed. Try again, or ask an administrator.'
     : null;
   return (
-    <div className="mx-auto grid max-w-sheet gap-10 py-6 md:grid-cols-2">
+    <div className="mx-auto grid max-w-sheet grid-cols-1 gap-10 py-6 md:grid-cols-2">
       <section aria-labelledby="sign-in-title" className="max-w-md">
         <h1 id="sign-in-title" className="text-2xl font-bold">
           Sign in
