@@ -61,7 +61,7 @@ export function FunctionReference({ functions }: { functions: FunctionDocView[] 
           <ScrollBox className="mt-2" scrollLabel={`Formula of ${f.name} (scrolls sideways)`}>
             <TexMath tex={f.formula} display />
           </ScrollBox>
-          <dl className="mt-2 grid gap-x-4 gap-y-1 text-sm sm:grid-cols-[8rem_minmax(0,1fr)]">
+          <dl className="mt-2 grid grid-cols-1 gap-x-4 gap-y-1 break-words text-sm sm:grid-cols-[8rem_minmax(0,1fr)]">
             <dt className="font-semibold">Arguments</dt>
             <dd>
               {f.params.map((p) => (

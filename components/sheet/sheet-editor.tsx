@@ -247,6 +247,16 @@ export function SheetEditor({ sheetId, projectCode, sheetNumber, base }: Props) 
     if (deleted) undoButton.current?.focus();
   }, [deleted]);
 
+  // The Save button is disabled while saving and after (the summary is emptied), which drops its focus
+  // on the page: the focus then goes to what became of the save. A save by Ctrl+S from a cell leaves
+  // the focus in the cell.
+  const statusBox = useRef<HTMLDivElement>(null);
+  useEffect(() => {
+    if (status.kind !== 'saved' && status.kind !== 'conflict' && status.kind !== 'error') return;
+    const active = document.activeElement;
+    if (!active || active === document.body) statusBox.current?.focus();
+  }, [status]);
+
   async function save() {
     setStatus({ kind: 'saving' });
     let answer;
@@ -552,6 +562,8 @@ export function SheetEditor({ sheetId, projectCode, sheetNumber, base }: Props) 
           {status.kind === 'saving' ? 'Saving…' : 'Save version'}
         </button>
         <div
+          ref={statusBox}
+          tabIndex={-1}
           role={status.kind === 'error' || status.kind === 'conflict' ? 'alert' : 'status'}
           aria-live="polite"
           className="text-sm"
