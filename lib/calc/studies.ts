@@ -100,6 +100,7 @@ class NumericChain {
       const st = this.re.statement(i);
       this.upTo = i;
       if (this.changed.has(st.defines) || !st.uses.some((u) => this.changed.has(u))) continue;
+      if (this.re.unavailable(st)) continue;
       this.changed.add(st.defines);
       const slot = this.inputs.length + this.steps.length;
       if (slot >= this.nominal.length) {
@@ -266,6 +267,17 @@ export class Reevaluator {
     return this.chain[i];
   }
 
+  /**
+   * A definition the sheet could not evaluate (its name has no value): nothing evaluated reads it, so
+   * no result a propagation asks for depends on it, and it is not evaluated again. Before, a failed
+   * statement between an uncertain input and an unrelated result (z = y + x with y undefined, above
+   * w = f(x)) made the result's propagation fail with the other statement's error, and whether it
+   * did depended on which cells came from the cache.
+   */
+  unavailable(st: ChainStatement): boolean {
+    return !this.base.has(st.defines);
+  }
+
   private readonly numericChains = new Map<string, NumericChain>();
   private readonly numericSeries = new Map<string, NumericChain>();
 
@@ -359,7 +371,7 @@ export class Reevaluator {
     const last = this.position(target);
     for (let i = done + 1; i <= last; i++) {
       const st = this.chain[i];
-      if (!scope.hasOwn(st.defines)) {
+      if (!scope.hasOwn(st.defines) && !this.unavailable(st)) {
         let reads = false;
         for (let k = 0; k < st.uses.length && !reads; k++) reads = scope.hasOwn(st.uses[k]);
         if (reads) {
@@ -402,7 +414,7 @@ export class Reevaluator {
     for (const t of targets) last = Math.max(last, this.position(t));
     for (let i = state.done + 1; i <= last; i++) {
       const st = this.chain[i];
-      if (!changed.has(st.defines)) {
+      if (!changed.has(st.defines) && !this.unavailable(st)) {
         let reads = false;
         for (let k = 0; k < st.uses.length && !reads; k++) reads = changed.has(st.uses[k]);
         if (reads) {

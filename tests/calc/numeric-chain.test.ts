@@ -294,3 +294,30 @@ describe('a library function on SI numbers (numericLibraryCall)', () => {
     expect(numericLibraryCall(em.math, kinetic, [math.unit(250, 'MeV'), math.unit(3, 'm^2/s^2')])).toBeNull();
   });
 });
+
+describe('a statement the sheet could not evaluate, between an uncertain input and a result', () => {
+  it('does not stop the propagation to a result that does not read it, with or without the numeric chain', () => {
+    // u(w) = 2·u(x) and u(v) = 3·u(x) for w = 2x, v = 3x (JCGM 100:2008, eq. 10; exact here).
+    const source = [
+      'x_a = 1 m ± 0.01 m',
+      'z_c = y_b + x_a',
+      'f(t) = t * 2',
+      'w_f = f(x_a)',
+      'v_g = 3 * x_a',
+    ].join('\n');
+    for (const on of [true, false]) {
+      setNumericChain(on);
+      const r = createSheetEngine().evaluate([{ id: 'c1', kind: 'calc', source }], {
+        significantFigures: 6,
+        monteCarlo: 'always',
+      });
+      const [, z, , w, v] = r.cells[0].statements;
+      expect(z.error).toMatch(/y_b/);
+      expect([w.error, v.error]).toEqual([null, null]);
+      expect(w.uncertainty?.kind).toBe('propagated');
+      expect(w.uncertainty!.u).toBeCloseTo(0.02, 12);
+      expect(v.uncertainty!.u).toBeCloseTo(0.03, 12);
+      expect(w.uncertainty!.monteCarlo).not.toBeNull();
+    }
+  });
+});
