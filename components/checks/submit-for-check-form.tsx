@@ -1,7 +1,7 @@
 'use client';
 
 import { useRouter } from 'next/navigation';
-import { useId, useState } from 'react';
+import { useEffect, useId, useRef, useState } from 'react';
 import { api, ApiError, detail, errorText } from '@/components/data/api-client';
 import { primaryButton } from '@/components/ui/button';
 import { Field, inputClass, PasswordField } from '@/components/ui/field';
@@ -56,6 +56,11 @@ export function SubmitForCheckForm({
   const id = useId();
   const router = useRouter();
   const [status, setStatus] = useState<Status>({ kind: 'idle' });
+  // After a submission the form is gone (the version is in check): the focus goes to what became of it.
+  const statusBox = useRef<HTMLDivElement>(null);
+  useEffect(() => {
+    if (status.kind === 'done') statusBox.current?.focus();
+  }, [status]);
   const [version, setVersion] = useState<number | undefined>(versions[0]);
   const [needed, setNeeded] = useState<{ version: number; items: Finding[] } | null>(null);
   // The server's list after a refusal wins (it is the one it will check); before that, the page's.
@@ -221,6 +226,8 @@ export function SubmitForCheckForm({
         </form>
       ) : null}
       <div
+        ref={statusBox}
+        tabIndex={-1}
         id={`${id}-status`}
         role={status.kind === 'error' ? 'alert' : 'status'}
         aria-live="polite"

@@ -1,7 +1,7 @@
 'use client';
 
 import { useRouter } from 'next/navigation';
-import { useState } from 'react';
+import { useEffect, useRef, useState } from 'react';
 import useSWR from 'swr';
 import { api, errorText } from '@/components/data/api-client';
 import { primaryButton } from '@/components/ui/button';
@@ -38,6 +38,12 @@ export function IssuePanel({
   const [jobId, setJobId] = useState<string | null>(pendingJobId);
   const [error, setError] = useState<string | null>(null);
   const [busy, setBusy] = useState(false);
+  // Once the request is taken the form gives way to its progress: the focus follows it there.
+  const progressBox = useRef<HTMLDivElement>(null);
+  const asked = useRef(false);
+  useEffect(() => {
+    if (jobId && asked.current) progressBox.current?.focus();
+  }, [jobId]);
   const { data: job } = useSWR(jobId ? `/api/issuing/${jobId}` : null, () => api.issueJob(jobId!), {
     refreshInterval: (latest) => (latest && latest.state !== 'pending' ? 0 : 700),
     onSuccess: (latest) => {
@@ -59,6 +65,7 @@ export function IssuePanel({
       setBusy(false);
       setPassword('');
     }
+    asked.current = true;
     setJobId(answer.jobId);
   }
 
@@ -110,7 +117,13 @@ export function IssuePanel({
         </p>
       ) : null}
       {jobId ? (
-        <div role="status" aria-live="polite" className="space-y-2 rounded border border-rule bg-paper p-3 text-sm">
+        <div
+          ref={progressBox}
+          tabIndex={-1}
+          role="status"
+          aria-live="polite"
+          className="space-y-2 rounded border border-rule bg-paper p-3 text-sm"
+        >
           <p className="font-semibold">
             Revision {job?.revision ?? nextRevision}:{' '}
             {job

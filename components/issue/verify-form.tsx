@@ -1,6 +1,6 @@
 'use client';
 
-import { useState } from 'react';
+import { useEffect, useRef, useState } from 'react';
 import type { VerificationAnswer } from '@/lib/issue/verification';
 import { api, errorText } from '@/components/data/api-client';
 import { VisibleText } from '@/components/data/visible-text';
@@ -10,6 +10,11 @@ import { primaryButton } from '@/components/ui/button';
 export function VerifyForm() {
   const [answer, setAnswer] = useState<VerificationAnswer | null>(null);
   const [state, setState] = useState<{ kind: 'idle' | 'busy' | 'error'; message?: string }>({ kind: 'idle' });
+  // The answer is what the visitor came for: the focus goes to it, so it is read out first.
+  const answerBox = useRef<HTMLElement>(null);
+  useEffect(() => {
+    if (answer) answerBox.current?.focus();
+  }, [answer]);
 
   async function send(request: () => Promise<VerificationAnswer>) {
     setState({ kind: 'busy' });
@@ -90,6 +95,8 @@ export function VerifyForm() {
         ) : null}
         {answer ? (
           <section
+            ref={answerBox}
+            tabIndex={-1}
             aria-labelledby="verify-answer"
             className={`space-y-3 rounded border-2 p-4 ${answer.authentic && r?.status === 'current' ? 'border-pass bg-pass-soft' : answer.authentic ? 'border-caution-rule bg-caution-soft' : 'border-fail bg-fail-soft'}`}
           >
