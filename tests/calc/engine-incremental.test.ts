@@ -27,6 +27,7 @@ const TEXTS = [
   'correlation(k_1, k_2, -0.25)',
   'q_1 = lorentzFactor(0.5)\nq_2 = q_1 * x_a',
   'sweep(x_a, [1 m, 2 m], y_b, z_c)',
+  'plot(x_a, [1 m, 2 m], y_b)',
   'T_k = 200 MeV',
   'v_k = speedFromKinetic(T_k, m_p)',
   'x_a = 4 m\nx_a = 5 m',

@@ -275,6 +275,11 @@ function cellPlanOf(em: EngineMath, plan: SheetPlan, ci: number, options: PlanOp
   }
   for (const st of statements) {
     if (st.form?.keyParts) parts.push(...options.formKeyParts(st));
+    // A second correlation of a pair names where the first stands: that place is part of the key.
+    if (st.correlation) {
+      const first = plan.correlations.get(plan.pairKey(st.correlation.a, st.correlation.b));
+      if (first) parts.push(`correlation-first:${first.cell}:${first.line}`);
+    }
     // Whether the sheet defines a name the lint flags decides whether the warning shows.
     for (const f of st.lint) parts.push(`lint:${f.name}=${lintSilenced(f.name)}`);
     // Whether the sheet defines a unit name written after a number's unit with a space (`1 T m`).
