@@ -54,7 +54,7 @@ export function FunctionReference({ functions }: { functions: FunctionDocView[] 
           aria-labelledby={`${f.name}-title`}
           className="rounded border border-rule bg-surface p-4"
         >
-          <h3 id={`${f.name}-title`} className="font-mono text-base font-bold">
+          <h3 id={`${f.name}-title`} className="break-words font-mono text-base font-bold">
             {f.name}({f.params.map((p) => p.name).join(', ')})
           </h3>
           <p className="mt-1">{f.summary}</p>
