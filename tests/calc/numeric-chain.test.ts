@@ -298,13 +298,9 @@ describe('a library function on SI numbers (numericLibraryCall)', () => {
 describe('a statement the sheet could not evaluate, between an uncertain input and a result', () => {
   it('does not stop the propagation to a result that does not read it, with or without the numeric chain', () => {
     // u(w) = 2·u(x) and u(v) = 3·u(x) for w = 2x, v = 3x (JCGM 100:2008, eq. 10; exact here).
-    const source = [
-      'x_a = 1 m ± 0.01 m',
-      'z_c = y_b + x_a',
-      'f(t) = t * 2',
-      'w_f = f(x_a)',
-      'v_g = 3 * x_a',
-    ].join('\n');
+    const source = ['x_a = 1 m ± 0.01 m', 'z_c = y_b + x_a', 'f(t) = t * 2', 'w_f = f(x_a)', 'v_g = 3 * x_a'].join(
+      '\n',
+    );
     for (const on of [true, false]) {
       setNumericChain(on);
       const r = createSheetEngine().evaluate([{ id: 'c1', kind: 'calc', source }], {
