@@ -27,13 +27,9 @@ it('serves the landing page with what Worldsheet does and the cautions', async (
   const caution = page.getByRole('complementary', { name: 'Caution' });
   for (const text of CAUTIONS) expect(await caution.innerText()).toContain(text);
   const nav = page.getByRole('navigation', { name: 'Main' });
-  expect(await nav.getByRole('link').allInnerTexts()).toEqual([
-    'Projects',
-    'My checks',
-    'My approvals',
-    'Register',
-    'Verify',
-  ]);
+  // A visitor is shown only what a visitor can use: Verify (and Sign in beside the navigation).
+  expect(await nav.getByRole('link').allInnerTexts()).toEqual(['Verify']);
+  await page.getByRole('banner').getByRole('link', { name: 'Sign in' }).waitFor();
   const file = await session.screenshot('landing');
   expect(existsSync(file) && statSync(file).size > 10_000).toBe(true);
   expect(session.problems).toEqual([]);
@@ -47,7 +43,7 @@ it('lets a keyboard user skip to the content and reach the navigation', async ()
   await page.keyboard.press('Tab');
   expect(await page.evaluate(() => document.activeElement?.getAttribute('aria-label'))).toBe('Worldsheet, home');
   await page.keyboard.press('Tab');
-  expect(await page.evaluate(() => document.activeElement?.textContent)).toBe('Projects');
+  expect(await page.evaluate(() => document.activeElement?.textContent)).toBe('Verify');
   expect(session.problems).toEqual([]);
 });
 
