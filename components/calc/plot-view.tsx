@@ -1,6 +1,6 @@
 'use client';
 
-import { useEffect, useRef, useState } from 'react';
+import { useEffect, useRef, useState, type ReactNode } from 'react';
 import { formatNumberText } from '@/lib/calc/format';
 import type { PlotData } from '@/lib/calc/types';
 import { axisLabel, unitLabel } from '@/lib/calc/unit-label';
@@ -83,66 +83,26 @@ export function PlotView({
         <summary className="cursor-pointer text-accent underline-offset-2 hover:underline">Show data</summary>
         <div className="mt-1 space-y-3">
           {plot.series.map((s, i) => (
-            <Table
+            <PointsTable
               key={i}
               caption={`${s.name} (${s.points.length} point${s.points.length === 1 ? '' : 's'})`}
-              captionClassName="bg-paper px-2 py-1 text-left font-semibold"
-              className="w-full border-collapse text-xs"
-              box="max-h-80 overflow-auto rounded border border-rule"
               boxLabel={`Points of ${s.name}`}
-            >
-              <thead>
-                <tr>
-                  <Th className="border-b border-rule px-2 py-1 text-right font-semibold">{axes.x}</Th>
-                  <Th className="border-b border-rule px-2 py-1 text-right font-semibold">{axes.y}</Th>
-                </tr>
-              </thead>
-              <tbody className="font-mono">
-                {s.points.map(([x, y], k) => (
-                  <tr key={k} className="border-t border-rule first:border-t-0">
-                    <Td numeric className="px-2 py-0.5">
-                      {formatNumberText(x, significantFigures)}
-                    </Td>
-                    <Td numeric className="px-2 py-0.5">
-                      {formatNumberText(y, significantFigures)}
-                    </Td>
-                  </tr>
-                ))}
-              </tbody>
-            </Table>
+              x={axes.x}
+              y={axes.y}
+              points={s.points}
+              significantFigures={significantFigures}
+            />
           ))}
           {(plot.data ?? []).map((d, i) => (
-            <Table
+            <PointsTable
               key={`data-${i}`}
               caption={`${d.name}, table data (${d.points.length} point${d.points.length === 1 ? '' : 's'})`}
-              captionClassName="bg-paper px-2 py-1 text-left font-semibold"
-              className="w-full border-collapse text-xs"
-              box="max-h-80 overflow-auto rounded border border-rule"
               boxLabel={`Points of ${d.name} (table data)`}
-            >
-              <thead>
-                <tr>
-                  <Th className="border-b border-rule px-2 py-1 text-right font-semibold">
-                    {axisLabel(d.x, plot.x.unit)}
-                  </Th>
-                  <Th className="border-b border-rule px-2 py-1 text-right font-semibold">
-                    {axisLabel(d.y, plot.y.unit)}
-                  </Th>
-                </tr>
-              </thead>
-              <tbody className="font-mono">
-                {d.points.map(([x, y], k) => (
-                  <tr key={k} className="border-t border-rule first:border-t-0">
-                    <Td numeric className="px-2 py-0.5">
-                      {formatNumberText(x, significantFigures)}
-                    </Td>
-                    <Td numeric className="px-2 py-0.5">
-                      {formatNumberText(y, significantFigures)}
-                    </Td>
-                  </tr>
-                ))}
-              </tbody>
-            </Table>
+              x={axisLabel(d.x, plot.x.unit)}
+              y={axisLabel(d.y, plot.y.unit)}
+              points={d.points}
+              significantFigures={significantFigures}
+            />
           ))}
           {plot.limits?.length ? (
             <ul className="list-disc pl-5 text-xs">
@@ -167,5 +127,51 @@ export function PlotView({
         </div>
       </details>
     </figure>
+  );
+}
+
+/** The points of one curve or of a table's data, as the plot's "Show data" lists them. */
+function PointsTable({
+  caption,
+  boxLabel,
+  x,
+  y,
+  points,
+  significantFigures,
+}: {
+  caption: string;
+  boxLabel: string;
+  x: ReactNode;
+  y: ReactNode;
+  points: ReadonlyArray<readonly [number, number]>;
+  significantFigures: number;
+}) {
+  return (
+    <Table
+      caption={caption}
+      captionClassName="bg-paper px-2 py-1 text-left font-semibold"
+      className="w-full border-collapse text-xs"
+      box="max-h-80 overflow-auto rounded border border-rule"
+      boxLabel={boxLabel}
+    >
+      <thead>
+        <tr>
+          <Th className="border-b border-rule px-2 py-1 text-right font-semibold">{x}</Th>
+          <Th className="border-b border-rule px-2 py-1 text-right font-semibold">{y}</Th>
+        </tr>
+      </thead>
+      <tbody className="font-mono">
+        {points.map(([px, py], k) => (
+          <tr key={k} className="border-t border-rule first:border-t-0">
+            <Td numeric className="px-2 py-0.5">
+              {formatNumberText(px, significantFigures)}
+            </Td>
+            <Td numeric className="px-2 py-0.5">
+              {formatNumberText(py, significantFigures)}
+            </Td>
+          </tr>
+        ))}
+      </tbody>
+    </Table>
   );
 }
