@@ -115,6 +115,31 @@ describe('incremental evaluation equals evaluation from scratch', () => {
     expect(r.cells[3].error).toBe('`x_a` is already defined in cell 1, line 1; a name is defined once per sheet');
   });
 
+  it('keys a name read before its definition by where and what that definition is', () => {
+    // Both were stale cache hits before: the reader's key held the later definition's place but not
+    // its kind, and a spaced unit name's definition only whether there was one.
+    const pairs: Array<[string[], string[], string]> = [
+      [
+        ['w_1 = f_q(2)', 'f_q = 3'],
+        ['w_1 = f_q(2)', 'f_q(t) = t'],
+        '`f_q` is used before it is defined (cell 2, line 1); define names above where they are used',
+      ],
+      [
+        ['q_1 = 1 T m', '# x', 'm = 2'],
+        ['q_1 = 1 T m', 'm = 2', '# x'],
+        '`T m` after a number reads `m` as a unit, but this sheet also defines a quantity `m` (cell 2, line 1): write `T*m` (no spaces) for the unit, or put `*` with spaces before the quantity (`… * m`)',
+      ],
+    ];
+    for (const [first, then, message] of pairs) {
+      const engine = createSheetEngine();
+      const cells = (texts: string[]): CellInput[] => texts.map((source, i) => ({ id: `c${i}`, kind: 'calc', source }));
+      engine.evaluate(cells(first), options);
+      const r = engine.evaluate(cells(then), options);
+      expect(r.cells[0].error).toBe(message);
+      expect(answer(r)).toBe(answer(createSheetEngine().evaluate(cells(then), options)));
+    }
+  });
+
   it('presents the same statements whether at once or on first read', () => {
     const texts = [
       'x_a = 1 m ± 0.01 m',

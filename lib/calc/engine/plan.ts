@@ -247,7 +247,7 @@ function planAnew(
 
 /** A calculation cell's names and the part of its cache key known before evaluation. */
 function cellPlanOf(em: EngineMath, plan: SheetPlan, ci: number, options: PlanOptions): CellPlan {
-  const { firstDefinition, usesOf, lintSilenced, messageNames, correlationContext } = plan;
+  const { firstDefinition, usesOf, lintSilenced, correlationContext } = plan;
   const statements = plan.parsed[ci];
   const ownNames: string[] = [];
   for (const st of statements) if (st.defines && !ownNames.includes(st.defines)) ownNames.push(st.defines);
@@ -265,9 +265,7 @@ function cellPlanOf(em: EngineMath, plan: SheetPlan, ci: number, options: PlanOp
     external.push(n);
     if (above) continue;
     // An undefined name's message suggests names of the sheet: the suggestion is part of the key.
-    parts.push(
-      `${n}=${at ? `later:${at.cell}:${at.line}` : `undefined:${em.isFunctionName(n) ? '' : notDefined(n, messageNames)}`}`,
-    );
+    parts.push(`${n}=${whereNotAbove(em, plan, n)}`);
   }
   for (const n of ownNames) {
     const at = firstDefinition.get(n)!;
@@ -282,11 +280,33 @@ function cellPlanOf(em: EngineMath, plan: SheetPlan, ci: number, options: PlanOp
     }
     // Whether the sheet defines a name the lint flags decides whether the warning shows.
     for (const f of st.lint) parts.push(`lint:${f.name}=${lintSilenced(f.name)}`);
-    // Whether the sheet defines a unit name written after a number's unit with a space (`1 T m`).
-    for (const l of st.unitLiterals)
-      for (const n of l.spacedNames ?? []) parts.push(`spaced:${n}=${firstDefinition.has(n)}`);
+    // Whether and where the sheet defines a unit name written after a number's unit with a space
+    // (`1 T m`): the refusal names the definition's place.
+    parts.push(...spacedParts(plan, st));
   }
   if (options.monteCarloAlways && ownNames.length) parts.push('monteCarlo:always');
   if (correlationContext) parts.push(correlationContext);
   return { ownNames, external, definedAbove, staticKey: parts.join('\0'), lastKey: null };
+}
+
+/**
+ * Where a name read but not defined above stands, as its messages say it: defined later (its place,
+ * and its kind, which decides whether calling it is "a quantity, not a function" or "used before it
+ * is defined"), or not defined (the message suggests names of the sheet).
+ */
+function whereNotAbove(em: EngineMath, plan: SheetPlan, n: string): string {
+  const at = plan.firstDefinition.get(n);
+  if (at) return `later:${at.cell}:${at.line}:${plan.definitionKindOf.get(n)}`;
+  return `undefined:${em.isFunctionName(n) ? '' : notDefined(n, plan.messageNames)}`;
+}
+
+/** Unit names written after a number's unit with a space, and where the sheet defines them, if it does. */
+function spacedParts(plan: SheetPlan, st: ParsedStatement): string[] {
+  const parts: string[] = [];
+  for (const l of st.unitLiterals)
+    for (const n of l.spacedNames ?? []) {
+      const at = plan.firstDefinition.get(n);
+      parts.push(`spaced:${n}=${at ? `${at.cell}:${at.line}` : 'none'}`);
+    }
+  return parts;
 }
