@@ -68,6 +68,8 @@ interface CachedCell {
   uncertainties: Map<string, unknown>;
   /** Monte Carlo propagations the cell asked for (run or refused), counted towards the sheet's share. */
   monteCarloRequests: number;
+  /** The keys of the names the cell first defines (`definitionKeys`), which its own key decides. */
+  nameKeys: Array<[string, string]>;
 }
 
 /** A statement's error; what it defines is then unavailable to the statements below. */
@@ -222,8 +224,9 @@ export function createSheetEngine(): SheetEngine {
 
   /**
    * A cell's cache key: the settings, its position and text, the static part of its plan, the keys
-   * of the cells that defined the names it reads, and how many of the sheet's Monte Carlo
-   * propagations are left (which decides which it may run). Hashed again only when one changed.
+   * of the names it reads (run.keyOf: of their defining statements), and how many of the sheet's
+   * Monte Carlo propagations are left (which decides which it may run). Hashed again only when one
+   * changed.
    */
   function cellKey(cellPlan: CellPlan, settings: string, cellText: string, run: SheetRun): string {
     const { failed } = run;
@@ -242,6 +245,46 @@ export function createSheetEngine(): SheetEngine {
     const key = hash('sha256', text, 'base64');
     cellPlan.lastKey = { settings, monteCarloUsed, inputs, key };
     return key;
+  }
+
+  /**
+   * The keys of the names a cell first defines, which the cells reading them take into their keys
+   * (run.keyOf), once the cell is evaluated. A name's key is that of its defining statement alone:
+   * the settings, its position and text, its form's key parts, where the names it reads stand when
+   * not above it (plan.ts), and the keys of the names it reads (those of its own cell first), so an
+   * edit of another statement of the cell leaves it as it was. What the statement gives a reader
+   * (its value, or that it failed, which names its cell and line; an input's uncertainty) depends on
+   * nothing else, with two exceptions, which take the cell's key: a definition evaluated once the
+   * sheet has an uncertain input, whose propagation evaluates other statements that read the same
+   * inputs and fails with them (and counts Monte Carlo runs in sheet order); and a cell skipped by
+   * the sandbox (every name failed, not cached), whose names' keys say so. A one-statement cell's
+   * name takes the cell's key, which then says no more than the statement's would.
+   */
+  function definitionKeys(
+    cellPlan: CellPlan,
+    statements: ParsedStatement[],
+    settings: string,
+    key: string,
+    run: SheetRun,
+    uncertainFromLine: number,
+    cellRun: CellRun,
+  ): Array<[string, string]> {
+    const keys: Array<[string, string]> = [];
+    const inCell = new Map<string, string>();
+    for (const d of cellPlan.definitions) {
+      const st = statements[d.index];
+      let k = key;
+      const propagated = st.line >= uncertainFromLine && st.kind === 'definition' && !cellRun.uncertainties.has(d.name);
+      if (statements.length > 1 && !propagated) {
+        let text = `${settings}\0${d.staticKey}`;
+        for (const n of d.above) text += `\0${n}=${run.keyOf(n) ?? `failed:${run.failed.get(n) ?? ''}`}`;
+        for (const n of d.inCell) text += `\0${n}=${inCell.get(n)}`;
+        k = hash('sha256', text, 'base64');
+      }
+      inCell.set(d.name, k);
+      keys.push([d.name, k]);
+    }
+    return keys;
   }
 
   function evaluate(cells: CellInput[], options: EvaluateOptions, hooks: EvaluateHooks = {}): SheetResult {
@@ -312,9 +355,9 @@ export function createSheetEngine(): SheetEngine {
       run.atLine = 0;
       const skipReason = hooks.skip?.get(cell.id);
       // The key covers everything the cell's results depend on: its text, its position (messages
-      // name cells by number), the display precision, the keys of the cells that defined what it
-      // uses (the rest is in the plan), and how many of the sheet's Monte Carlo propagations are
-      // left, which decides which this cell may run.
+      // name cells by number), the display precision, the keys of the names it uses (of their
+      // defining statements; the rest is in the plan), and how many of the sheet's Monte Carlo
+      // propagations are left, which decides which this cell may run.
       const key = cellKey(cellPlan, settings, `${ci}\0${cell.source}`, run);
 
       const cached = skipReason ? undefined : cellCache.get(key);
@@ -324,6 +367,7 @@ export function createSheetEngine(): SheetEngine {
         if (cached.uncertainties.size) for (const [name, u] of cached.uncertainties) run.inputU.set(name, u);
         run.monteCarloRequests += cached.monteCarloRequests;
         run.cellKeys[ci] = key;
+        for (const [name, k] of cached.nameKeys) run.nameKeys.set(name, k);
         const r = cached.result;
         results.push(r.id === cell.id ? r : { ...r, id: cell.id, index: ci });
         continue;
@@ -335,9 +379,13 @@ export function createSheetEngine(): SheetEngine {
       const requestsBefore = run.monteCarloRequests;
       const out: StatementResult[] = [];
       const shown: unknown[] = [];
+      // The first line evaluated once the sheet has an uncertain input (definitions from there on
+      // may be given a propagated uncertainty: definitionKeys).
+      let uncertainFromLine = Infinity;
 
       for (const st of statements) {
         run.atLine = st.line;
+        if (uncertainFromLine === Infinity && run.inputU.size > 0) uncertainFromLine = st.line;
         const result: StatementResult = {
           line: st.line,
           source: st.source,
@@ -399,6 +447,15 @@ export function createSheetEngine(): SheetEngine {
 
       for (const [name, why] of cellRun.failed) failed.set(name, why);
       run.cellKeys[ci] = key;
+      // A skipped cell is not cached, and its names failed only because it was skipped: their key
+      // is not the one the cell's evaluation gives them.
+      const nameKeys = skipReason
+        ? cellPlan.definitions.map((d): [string, string] => [
+            d.name,
+            hash('sha256', `${key}\0skipped:${skipReason}\0${d.name}`, 'base64'),
+          ])
+        : definitionKeys(cellPlan, statements, settings, key, run, uncertainFromLine, cellRun);
+      for (const [name, k] of nameKeys) run.nameKeys.set(name, k);
       const presented = new PresentedStatements(out, { presentation, cell: ci, parsed: statements, shown });
       // Presented at once, a value that cannot be shown is the cell's error too.
       if (hooks.presentEachCell) presented.get();
@@ -428,6 +485,7 @@ export function createSheetEngine(): SheetEngine {
             failed: cellRun.failed,
             uncertainties: cellRun.uncertainties,
             monteCarloRequests: run.monteCarloRequests - requestsBefore,
+            nameKeys,
           },
           LIMITS.cellCacheEntries,
         );

@@ -1,8 +1,8 @@
 // The plan of a sheet, made from its parsed cells before anything is evaluated: where each name is
 // first defined, what kind of statement defines it, the sheet's own functions, the inputs that carry
 // an uncertainty and their correlations, and for each calculation cell the names it reads and the
-// part of its cache key that does not depend on evaluation (the rest, the keys of the cells that
-// define what it reads, is added as the sheet is evaluated: run.ts).
+// part of its cache key that does not depend on evaluation (the rest, the keys of the names it
+// reads, is added as the sheet is evaluated: run.ts), and the same for each name the cell defines.
 import type { MathNode } from 'mathjs';
 import type { EngineMath } from '../math-instance';
 import { REFUSED_NAMES } from '../math-instance';
@@ -13,9 +13,28 @@ import type { ParsedStatement } from './statement';
 
 type Position = { cell: number; line: number };
 
+/**
+ * A statement that first defines a name, and the part of that name's key known before evaluation
+ * (sheet-engine.ts, `definitionKeys`): what its value, or its failure, depends on, without the other
+ * statements of its cell.
+ */
+export interface DefinitionPlan {
+  name: string;
+  /** Index of the statement among its cell's statements. */
+  index: number;
+  /** Its position and text, its form's key parts, and where the names it reads stand when not above it. */
+  staticKey: string;
+  /** Names it reads that are defined in a cell above (input tables included): their keys enter its key. */
+  above: string[];
+  /** Names it reads that are first defined on an earlier line of its own cell: their keys enter its key. */
+  inCell: string[];
+}
+
 export interface CellPlan {
   /** Names the cell defines. */
   ownNames: string[];
+  /** The statements of the cell that first define a name, in order. */
+  definitions: DefinitionPlan[];
   /** Names the cell reads from outside itself, sorted (as `CellResult.uses`). */
   external: string[];
   /** Of `external`, those defined above the cell (input tables included): their cells' keys enter its key. */
@@ -286,7 +305,25 @@ function cellPlanOf(em: EngineMath, plan: SheetPlan, ci: number, options: PlanOp
   }
   if (options.monteCarloAlways && ownNames.length) parts.push('monteCarlo:always');
   if (correlationContext) parts.push(correlationContext);
-  return { ownNames, external, definedAbove, staticKey: parts.join('\0'), lastKey: null };
+  const definitions: DefinitionPlan[] = [];
+  statements.forEach((st, index) => {
+    const at = st.defines ? firstDefinition.get(st.defines) : undefined;
+    if (!at || at.cell !== ci || at.line !== st.line) return;
+    const above: string[] = [];
+    const inCell: string[] = [];
+    const own = [`${ci}:${st.line}`, st.source];
+    if (st.form?.keyParts) own.push(...options.formKeyParts(st));
+    own.push(...spacedParts(plan, st));
+    for (const n of usesOf(st)) {
+      const from = firstDefinition.get(n);
+      if (from && from.cell < ci) above.push(n);
+      else if (from && from.cell === ci && from.line < st.line) inCell.push(n);
+      else
+        own.push(`${n}=${from && from.cell === ci && from.line === st.line ? 'itself' : whereNotAbove(em, plan, n)}`);
+    }
+    definitions.push({ name: st.defines!, index, staticKey: own.join('\0'), above, inCell });
+  });
+  return { ownNames, definitions, external, definedAbove, staticKey: parts.join('\0'), lastKey: null };
 }
 
 /**

@@ -38,8 +38,14 @@ export class SheetRun {
   atLine = 0;
   /** Names whose value is unavailable, with why. */
   readonly failed = new Map<string, string>();
-  /** Cache key of each cell evaluated so far (a cell reading a name takes its defining cell's key). */
+  /** Cache key of each cell evaluated so far. */
   readonly cellKeys: string[] = [];
+  /**
+   * Key of each name defined so far, from the statement that first defines it (sheet-engine.ts,
+   * `definitionKeys`): a cell reading the name takes this key, so an edit of another statement of
+   * the defining cell leaves the reader's key as it was.
+   */
+  readonly nameKeys = new Map<string, string>();
   /** Keys of the input tables, which are defined before the first cell. */
   readonly tableKeys = new Map<string, string>();
   /** Standard uncertainties of the inputs that carry one, by name. */
@@ -78,11 +84,15 @@ export class SheetRun {
     return at !== undefined && (at.cell < this.atCell || (at.cell === this.atCell && at.line <= this.atLine));
   }
 
-  /** The cache key of the cell that first defined a name (or of the input table), if evaluated. */
+  /**
+   * The key of a name's first definition (or of the input table), if evaluated: the key of its
+   * statement, or of its cell where the statement's result may depend on others of the cell.
+   */
   keyOf(name: string): string | undefined {
     const at = this.plan.firstDefinition.get(name);
     if (at === undefined) return undefined;
-    return at.cell < 0 ? this.tableKeys.get(name) : this.cellKeys[at.cell];
+    if (at.cell < 0) return this.tableKeys.get(name);
+    return this.nameKeys.get(name) ?? this.cellKeys[at.cell];
   }
 
   /** Stores a value the cell defines. */
