@@ -13,7 +13,7 @@
 //   restore   restores such a folder into an empty installation and verifies it (npm run restore -- FOLDER)
 //   audit     walks the audit chain of the installation, app running or not (npm run -s audit -- verify)
 import { execFileSync } from 'node:child_process';
-import { createWriteStream, mkdirSync } from 'node:fs';
+import { closeSync, createWriteStream, mkdirSync, openSync, readFileSync } from 'node:fs';
 import path from 'node:path';
 import { fileURLToPath } from 'node:url';
 import { createDb } from '../../db/index';
@@ -217,10 +217,27 @@ async function test(supervisor: Supervisor, args: string[]): Promise<void> {
   };
   const code = await runStages(
     plan(args, root),
-    (stage) => waitForExit(supervisor.spawn(stage.name, stage.command[0], stage.command.slice(1), { cwd: root, env })),
+    async (stage) => {
+      if (!stage.background)
+        return waitForExit(supervisor.spawn(stage.name, stage.command[0], stage.command.slice(1), { cwd: root, env }));
+      // Beside the tiers: its output in a file, shown only if it fails.
+      const logFile = path.join(root, '.data', 'app-build.log');
+      mkdirSync(path.dirname(logFile), { recursive: true });
+      const out = openSync(logFile, 'w');
+      const child = supervisor.spawn(stage.name, stage.command[0], stage.command.slice(1), {
+        cwd: root,
+        env,
+        stdio: ['ignore', out, out],
+      });
+      const exit = await waitForExit(child);
+      closeSync(out);
+      if (exit) console.error(`[worldsheet] the ${stage.name} failed:\n${readFileSync(logFile, 'utf8')}`);
+      return exit;
+    },
     log,
   );
-  if (!supervisor.isStopping) process.exit(code);
+  // Stops what may still run (the app's build, when a tier before the browser tier failed).
+  if (!supervisor.isStopping) await supervisor.shutdown(code);
 }
 
 /**

@@ -2,7 +2,9 @@
 // (unit, database, browser), each its own vitest run so only the tiers that need PostgreSQL and the fakes
 // start them. With file arguments (`npm test -- tests/calc/x.test.ts tests/e2e/y.test.ts`) the static
 // checks are skipped and only the tiers holding those files run; `--tier unit|database|browser` runs one.
-// Prints each stage's time at the end.
+// When the browser tier runs after another tier, the production app it serves is built beside the tiers
+// before it (a background stage; its output goes to a log file, printed if it fails): on two CPUs the
+// database tier, one file at a time, leaves room for it. Prints each stage's time at the end.
 import path from 'node:path';
 import { BROWSER, UNIT } from '../../tests/vitest.config';
 
@@ -28,7 +30,32 @@ export function tierOf(file: string): Tier {
   return 'database';
 }
 
-type Stage = { name: string; command: string[] };
+export type Stage = {
+  name: string;
+  command: string[];
+  /** Started and not waited for: the stage named by a later stage's `after`. */
+  background?: boolean;
+  /** A background stage this one waits for (and fails with) before it starts. */
+  after?: string;
+};
+
+const APP_BUILD = 'app build (beside the tiers)';
+
+/** With the browser tier after another tier: the app's build starts first, in the background. */
+function buildBeside(stages: Stage[], root: string, node: string): Stage[] {
+  const browser = stages.findIndex((s) => s.name === 'browser tier');
+  const firstTier = stages.findIndex((s) => s.name.endsWith(' tier'));
+  if (browser < 0 || browser === firstTier) return stages;
+  const distDir = process.env.WORLDSHEET_TEST_DIST_DIR ?? '.next-test';
+  const build: Stage = {
+    name: APP_BUILD,
+    command: [node, '--import', 'tsx', path.join(root, 'lib', 'ops', 'build-app.ts'), distDir],
+    background: true,
+  };
+  const out = stages.map((s, i) => (i === browser ? { ...s, after: APP_BUILD } : s));
+  out.splice(firstTier, 0, build);
+  return out;
+}
 
 /** The stages `npm test` runs for these arguments. */
 export function plan(args: string[], root: string): Stage[] {
@@ -72,13 +99,14 @@ export function plan(args: string[], root: string): Stage[] {
         },
       );
     for (const tier of onlyTier ? [onlyTier] : TIERS) stages.push(vitest(tier, flags));
-    return stages;
+    return buildBeside(stages, root, node);
   }
   // A folder argument may hold files of several tiers: give it to each tier, vitest filters by its globs.
-  return TIERS.filter((tier) => (onlyTier ? tier === onlyTier : true))
+  const tiers = TIERS.filter((tier) => (onlyTier ? tier === onlyTier : true))
     .map((tier) => ({ tier, mine: files.filter((f) => !f.endsWith('.test.ts') || tierOf(f) === tier) }))
     .filter(({ mine, tier }) => mine.some((f) => f.endsWith('.test.ts') || couldHold(f, tier)))
     .map(({ tier, mine }) => vitest(tier, ['--passWithNoTests', ...flags, ...mine]));
+  return buildBeside(tiers, root, node);
 }
 
 function couldHold(folder: string, tier: Tier): boolean {
@@ -87,19 +115,41 @@ function couldHold(folder: string, tier: Tier): boolean {
   return !f.startsWith('tests/e2e');
 }
 
-/** Runs the stages in order, stopping at the first failure; logs each stage's time; returns the exit code. */
+/**
+ * Runs the stages in order, stopping at the first failure (a background stage is started and waited
+ * for by the stage that names it in `after`); logs each stage's time; returns the exit code.
+ */
 export async function runStages(
   stages: Stage[],
   run: (stage: Stage) => Promise<number>,
   log: (line: string) => void,
 ): Promise<number> {
   const times: string[] = [];
+  const background = new Map<string, Promise<number>>();
   let code = 0;
   for (const stage of stages) {
-    log(`── ${stage.name}`);
     const started = Date.now();
+    const timed = (c: number) => `${stage.name} ${((Date.now() - started) / 1000).toFixed(1)} s${c ? ' (failed)' : ''}`;
+    if (stage.background) {
+      log(`── ${stage.name}: started`);
+      background.set(
+        stage.name,
+        run(stage).then((c) => {
+          times.push(timed(c));
+          return c;
+        }),
+      );
+      continue;
+    }
+    const before = stage.after ? background.get(stage.after) : undefined;
+    if (before) {
+      log(`── ${stage.name}: waiting for the ${stage.after}`);
+      code = await before;
+      if (code) break;
+    }
+    log(`── ${stage.name}`);
     code = await run(stage);
-    times.push(`${stage.name} ${((Date.now() - started) / 1000).toFixed(1)} s${code ? ' (failed)' : ''}`);
+    times.push(timed(code));
     if (code) break;
   }
   log(`Times: ${times.join('; ')}`);

@@ -2,7 +2,7 @@
 // a run with file arguments starts only the tiers that hold them.
 import path from 'node:path';
 import { describe, expect, it } from 'vitest';
-import { plan, tierOf } from '../../lib/ops/test-tiers';
+import { plan, runStages, tierOf, type Stage } from '../../lib/ops/test-tiers';
 
 const root = process.cwd();
 
@@ -25,18 +25,54 @@ describe('test tiers', () => {
       'lint (eslint)',
       'format (prettier --check)',
       'unused code (knip)',
+      'app build (beside the tiers)',
       'unit tier',
       'database tier',
       'browser tier',
     ]);
+    const stages = plan([], root);
+    expect(stages.find((s) => s.name === 'app build (beside the tiers)')).toMatchObject({ background: true });
+    expect(stages.find((s) => s.name === 'browser tier')?.after).toBe('app build (beside the tiers)');
     expect(plan(['--tier', 'unit'], root).map((s) => s.name)).toEqual(['unit tier']);
+    // The browser tier alone builds the app itself, as before (the harness's buildIfStale).
+    expect(plan(['--tier', 'browser'], root).map((s) => s.name)).toEqual(['browser tier']);
+  });
+
+  it('runs a background stage beside the stages after it; the stage that waits for it fails with it', async () => {
+    const events: string[] = [];
+    let finishBuild: (code: number) => void = () => {};
+    const stages: Stage[] = [
+      { name: 'build', command: [], background: true },
+      { name: 'one', command: [] },
+      { name: 'two', command: [], after: 'build' },
+    ];
+    const run = (stage: Stage) => {
+      events.push(`start ${stage.name}`);
+      if (stage.background) return new Promise<number>((resolve) => (finishBuild = resolve));
+      return Promise.resolve(0);
+    };
+    const done = runStages(stages, run, () => {});
+    await new Promise((r) => setTimeout(r, 10));
+    // "one" ran while the build was still going; "two" waits for it.
+    expect(events).toEqual(['start build', 'start one']);
+    finishBuild(0);
+    expect(await done).toBe(0);
+    expect(events).toEqual(['start build', 'start one', 'start two']);
+
+    events.length = 0;
+    const failing = runStages(stages, run, () => {});
+    await new Promise((r) => setTimeout(r, 10));
+    finishBuild(1);
+    expect(await failing).toBe(1);
+    expect(events).toEqual(['start build', 'start one']);
   });
 
   it('runs only the tiers holding the files named', () => {
     const stages = plan(['tests/calc/format.test.ts', 'tests/e2e/landing.test.ts', '-t', 'x'], root);
-    expect(stages.map((s) => s.name)).toEqual(['unit tier', 'browser tier']);
-    expect(stages[0].command.slice(-4)).toEqual(['--passWithNoTests', '-t', 'x', 'tests/calc/format.test.ts']);
-    expect(stages[1].command.at(-1)).toBe('tests/e2e/landing.test.ts');
+    expect(stages.map((s) => s.name)).toEqual(['app build (beside the tiers)', 'unit tier', 'browser tier']);
+    expect(stages[1].command.slice(-4)).toEqual(['--passWithNoTests', '-t', 'x', 'tests/calc/format.test.ts']);
+    expect(stages[2].command.at(-1)).toBe('tests/e2e/landing.test.ts');
+    expect(plan(['tests/e2e/landing.test.ts'], root).map((s) => s.name)).toEqual(['browser tier']);
     expect(plan(['tests/sheets'], root).map((s) => s.name)).toEqual(['unit tier', 'database tier']);
   });
 });
