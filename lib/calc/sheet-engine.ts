@@ -69,7 +69,7 @@ interface CachedCell {
   /** Monte Carlo propagations the cell asked for (run or refused), counted towards the sheet's share. */
   monteCarloRequests: number;
   /** The keys of the names the cell first defines (`definitionKeys`), which its own key decides. */
-  nameKeys: Array<[string, string]>;
+  nameKeys: ReadonlyMap<string, string>;
 }
 
 /** A statement's error; what it defines is then unavailable to the statements below. */
@@ -268,9 +268,8 @@ export function createSheetEngine(): SheetEngine {
     run: SheetRun,
     uncertainFromLine: number,
     cellRun: CellRun,
-  ): Array<[string, string]> {
-    const keys: Array<[string, string]> = [];
-    const inCell = new Map<string, string>();
+  ): Map<string, string> {
+    const keys = new Map<string, string>();
     for (const d of cellPlan.definitions) {
       const st = statements[d.index];
       let k = key;
@@ -278,11 +277,10 @@ export function createSheetEngine(): SheetEngine {
       if (statements.length > 1 && !propagated) {
         let text = `${settings}\0${d.staticKey}`;
         for (const n of d.above) text += `\0${n}=${run.keyOf(n) ?? `failed:${run.failed.get(n) ?? ''}`}`;
-        for (const n of d.inCell) text += `\0${n}=${inCell.get(n)}`;
+        for (const n of d.inCell) text += `\0${n}=${keys.get(n)}`;
         k = hash('sha256', text, 'base64');
       }
-      inCell.set(d.name, k);
-      keys.push([d.name, k]);
+      keys.set(d.name, k);
     }
     return keys;
   }
@@ -367,7 +365,7 @@ export function createSheetEngine(): SheetEngine {
         if (cached.uncertainties.size) for (const [name, u] of cached.uncertainties) run.inputU.set(name, u);
         run.monteCarloRequests += cached.monteCarloRequests;
         run.cellKeys[ci] = key;
-        for (const [name, k] of cached.nameKeys) run.nameKeys.set(name, k);
+        run.nameKeys[ci] = cached.nameKeys;
         const r = cached.result;
         results.push(r.id === cell.id ? r : { ...r, id: cell.id, index: ci });
         continue;
@@ -450,12 +448,14 @@ export function createSheetEngine(): SheetEngine {
       // A skipped cell is not cached, and its names failed only because it was skipped: their key
       // is not the one the cell's evaluation gives them.
       const nameKeys = skipReason
-        ? cellPlan.definitions.map((d): [string, string] => [
-            d.name,
-            hash('sha256', `${key}\0skipped:${skipReason}\0${d.name}`, 'base64'),
-          ])
+        ? new Map(
+            cellPlan.definitions.map((d) => [
+              d.name,
+              hash('sha256', `${key}\0skipped:${skipReason}\0${d.name}`, 'base64'),
+            ]),
+          )
         : definitionKeys(cellPlan, statements, settings, key, run, uncertainFromLine, cellRun);
-      for (const [name, k] of nameKeys) run.nameKeys.set(name, k);
+      run.nameKeys[ci] = nameKeys;
       const presented = new PresentedStatements(out, { presentation, cell: ci, parsed: statements, shown });
       // Presented at once, a value that cannot be shown is the cell's error too.
       if (hooks.presentEachCell) presented.get();

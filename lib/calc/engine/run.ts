@@ -41,11 +41,12 @@ export class SheetRun {
   /** Cache key of each cell evaluated so far. */
   readonly cellKeys: string[] = [];
   /**
-   * Key of each name defined so far, from the statement that first defines it (sheet-engine.ts,
-   * `definitionKeys`): a cell reading the name takes this key, so an edit of another statement of
-   * the defining cell leaves the reader's key as it was.
+   * Per cell evaluated so far, the key of each name it first defines, from the defining statement
+   * (sheet-engine.ts, `definitionKeys`; kept with the cell's cached result): a cell reading the name
+   * takes this key, so an edit of another statement of the defining cell leaves the reader's key as
+   * it was.
    */
-  readonly nameKeys = new Map<string, string>();
+  readonly nameKeys: Array<ReadonlyMap<string, string>> = [];
   /** Keys of the input tables, which are defined before the first cell. */
   readonly tableKeys = new Map<string, string>();
   /** Standard uncertainties of the inputs that carry one, by name. */
@@ -92,7 +93,7 @@ export class SheetRun {
     const at = this.plan.firstDefinition.get(name);
     if (at === undefined) return undefined;
     if (at.cell < 0) return this.tableKeys.get(name);
-    return this.nameKeys.get(name) ?? this.cellKeys[at.cell];
+    return this.nameKeys[at.cell]?.get(name) ?? this.cellKeys[at.cell];
   }
 
   /** Stores a value the cell defines. */
