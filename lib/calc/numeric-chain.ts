@@ -10,7 +10,9 @@
 // the kinds of the values do not change from one draw to another (only SI values do), so they are
 // checked once, on the sheet's own values: each operation is also done with mathjs on those values,
 // and the node is refused unless that gives the same kind of result (a number, or a Unit with a
-// number) and exactly the same SI value.
+// number) and exactly the same SI value. The statement's last operation (its root) was done with
+// mathjs by the sheet itself, on the same values: its result is the sheet's value of the statement,
+// which the caller passes in (`known`), so it is checked against that value rather than done again.
 //
 // Anything else is refused and the propagation re-evaluates the statements with mathjs as before
 // (studies.ts, Reevaluator): powers and other mathjs functions, conditionals, indexing, matrices,
@@ -99,9 +101,15 @@ export function compileNumeric(
   ctx: NumericChainContext,
   node: Node,
   slots: Float64Array,
+  /**
+   * The statement's value as the sheet evaluated it (mathjs on these very values): the result of the
+   * root operation, which is then not done again (a library call at the root is not made again; its
+   * SI number on the fast path is compared with this value's).
+   */
+  known?: { value: unknown },
 ): ((slots: Float64Array) => number) | null {
   try {
-    const c = compile(ctx, node, slots);
+    const c = compile(ctx, node, slots, known);
     if (c.valueless || siNumberOf(ctx.math, c.nominal) === undefined) return null;
     return c.run;
   } catch {
@@ -115,11 +123,52 @@ function same(a: number, b: number | undefined): boolean {
   return b !== undefined && Object.is(a, b);
 }
 
-function compile(ctx: NumericChainContext, node: Node, slots: Float64Array): Compiled {
+type Mathjs = Record<string, (...x: unknown[]) => unknown>;
+
+/** The kind checks of an operator's operands (see the top of the file). */
+function operandsAccepted(math: MathJsInstance, fn: string, compiled: readonly Compiled[]): void {
+  let allValueless = true;
+  for (const c of compiled) {
+    if (!(typeof c.nominal === 'number' || isPlainUnit(math, c.nominal))) throw new Refused();
+    if (dimensionlessNamed(math, c.nominal)) throw new Refused();
+    if (c.valueless && fn !== 'multiply' && fn !== 'divide') throw new Refused();
+    if (!c.valueless) allValueless = false;
+  }
+  if (allValueless) throw new Refused();
+}
+
+/**
+ * The bound library function `f` called with copies of the arguments' nominal values whose SI numbers
+ * are set before each call: at the sheet's values (`atNominal`), or from the slots (`run`, where the
+ * kernel has no form on SI numbers).
+ */
+function boundCall(math: MathJsInstance, name: string, f: (...x: unknown[]) => unknown, compiled: readonly Compiled[]) {
+  const scratch: unknown[] = compiled.map((c) => (typeof c.nominal === 'number' ? 0 : (c.nominal as UnitLike).clone()));
+  const callWith = (values: (i: number) => number): unknown => {
+    for (let i = 0; i < compiled.length; i++) {
+      const held = scratch[i];
+      if (typeof held === 'number') scratch[i] = values(i);
+      else (held as { value: number }).value = values(i);
+    }
+    return f(...scratch);
+  };
+  return {
+    atNominal: (): unknown => callWith((i) => compiled[i].si),
+    run: (s: Float64Array): number => {
+      const out = callWith((i) => compiled[i].run(s));
+      if (typeof out === 'number') return out;
+      const si = siNumberOf(math, out);
+      if (si === undefined) throw new Error(`${name} did not give a single value`);
+      return si;
+    },
+  };
+}
+
+function compile(ctx: NumericChainContext, node: Node, slots: Float64Array, known?: { value: unknown }): Compiled {
   const { math } = ctx;
   switch (node.type) {
     case 'ParenthesisNode':
-      return compile(ctx, node.content!, slots);
+      return compile(ctx, node.content!, slots, known);
     case 'ConstantNode': {
       const c = node.value;
       if (typeof c !== 'number') throw new Refused();
@@ -152,34 +201,26 @@ function compile(ctx: NumericChainContext, node: Node, slots: Float64Array): Com
         const b = compile(ctx, args[1], slots);
         // Unit.to keeps the SI value when neither unit has an offset (checked: plain units only).
         if (a.valueless || !b.valueless || !math.isUnit(a.nominal)) throw new Refused();
-        const nominal = (math as unknown as Record<string, (x: unknown, y: unknown) => unknown>).to(
-          a.nominal,
-          b.nominal,
-        );
+        const nominal = known ? known.value : (math as unknown as Mathjs).to(a.nominal, b.nominal);
         if (!isPlainUnit(math, nominal) || !same(a.si, siNumberOf(math, nominal))) throw new Refused();
         return { run: a.run, nominal, si: a.si, made: true };
       }
       const compiled = args.map((a) => compile(ctx, a, slots));
-      for (const c of compiled) {
-        if (!(typeof c.nominal === 'number' || isPlainUnit(math, c.nominal))) throw new Refused();
-        if (dimensionlessNamed(math, c.nominal)) throw new Refused();
-        if (c.valueless && fn !== 'multiply' && fn !== 'divide') throw new Refused();
-      }
-      if (compiled.every((c) => c.valueless)) throw new Refused();
-      const nominal = (math as unknown as Record<string, (...x: unknown[]) => unknown>)[fn](
-        ...compiled.map((c) => c.nominal),
-      );
+      operandsAccepted(math, fn, compiled);
+      const nominal = known ? known.value : (math as unknown as Mathjs)[fn](...compiled.map((c) => c.nominal));
       // Each operation twice: as the run's closure, and on the operands' values at the sheet's values
       // (the same IEEE operation; stepsFor then checks the whole run against the sheet's value).
       let run: (s: Float64Array) => number;
       let si: number;
       if (fn === 'unaryMinus' && compiled.length === 1) {
-        const [a] = compiled.map((c) => c.run);
+        const a = compiled[0].run;
         run = (s) => -a(s);
         si = -compiled[0].si;
       } else if (compiled.length === 2) {
-        const [a, b] = compiled.map((c) => c.run);
-        const [x, y] = compiled.map((c) => c.si);
+        const a = compiled[0].run;
+        const b = compiled[1].run;
+        const x = compiled[0].si;
+        const y = compiled[1].si;
         if (fn === 'multiply') [run, si] = [(s) => a(s) * b(s), x * y];
         else if (fn === 'divide') [run, si] = [(s) => a(s) / b(s), x / y];
         else if (fn === 'add') [run, si] = [(s) => a(s) + b(s), x + y];
@@ -200,44 +241,20 @@ function compile(ctx: NumericChainContext, node: Node, slots: Float64Array): Com
       const args = node.args ?? [];
       if (!kinds || kinds.length !== args.length) throw new Refused();
       const compiled = args.map((a) => compile(ctx, a, slots));
-      const f = (math as unknown as Record<string, (...x: unknown[]) => unknown>)[name];
-      const scratch: unknown[] = compiled.map((c, i) => {
+      for (let i = 0; i < compiled.length; i++) {
+        const c = compiled[i];
         if (c.valueless) throw new Refused();
-        if (typeof c.nominal === 'number') return 0;
+        if (typeof c.nominal === 'number') continue;
         if (!isPlainUnit(math, c.nominal)) throw new Refused();
         // A speed given as a quantity may be one the library returned, with its precise companion.
         if (kinds[i] === 'speed' && !c.made) throw new Refused();
-        return c.nominal.clone();
-      });
-      const runs = compiled.map((c) => c.run);
-      const callWith = (s: Float64Array): unknown => {
-        for (let i = 0; i < runs.length; i++) {
-          const v = runs[i](s);
-          const held = scratch[i];
-          if (typeof held === 'number') scratch[i] = v;
-          else (held as { value: number }).value = v;
-        }
-        return f(...scratch);
-      };
-      // At the sheet's values: the operands' values worked out when they were compiled.
-      const nominalCall = (): unknown => {
-        for (let i = 0; i < compiled.length; i++) {
-          const held = scratch[i];
-          if (typeof held === 'number') scratch[i] = compiled[i].si;
-          else (held as { value: number }).value = compiled[i].si;
-        }
-        return f(...scratch);
-      };
-      const call = (s: Float64Array): number => {
-        const out = callWith(s);
-        if (typeof out === 'number') return out;
-        const si = siNumberOf(math, out);
-        if (si === undefined) throw new Error(`${name} did not give a single value`);
-        return si;
-      };
-      // The call at the sheet's values: the same values as the sheet passed, in copies, which differ
-      // from the sheet's own objects only by a precise-speed companion, refused above.
-      const nominal = nominalCall();
+      }
+      const f = (math as unknown as Mathjs)[name];
+      // The call at the sheet's values: at the root, the sheet's own value of the statement (the bound
+      // function on the sheet's arguments); inside a statement, the bound function on copies of the
+      // arguments, which differ from the sheet's own objects only by a precise-speed companion, refused above.
+      let bound: ReturnType<typeof boundCall> | undefined;
+      const nominal = known ? known.value : (bound = boundCall(math, name, f, compiled)).atNominal();
       const si = siNumberOf(math, nominal);
       if (si === undefined) throw new Refused();
       // The same kernel on the SI numbers, without a Unit per argument and per result, where it gives
@@ -246,16 +263,22 @@ function compile(ctx: NumericChainContext, node: Node, slots: Float64Array): Com
         name,
         compiled.map((c) => c.nominal),
       );
-      const buffer = new Array<number>(runs.length);
       if (numeric && same(numeric(compiled.map((c) => c.si)), si)) {
+        const runs = compiled.map((c) => c.run);
+        const buffer = new Array<number>(runs.length);
         const direct = (s: Float64Array): number => {
           for (let i = 0; i < runs.length; i++) buffer[i] = runs[i](s);
           return numeric(buffer);
         };
         return { run: direct, nominal, si, made: false };
       }
+      // Else the bound function itself, on copies; at the root, checked against the sheet's value here.
+      if (!bound) {
+        bound = boundCall(math, name, f, compiled);
+        if (!same(si, siNumberOf(math, bound.atNominal()))) throw new Refused();
+      }
       // A library result is a new object, but a speed may carry a companion: not `made`.
-      return { run: call, nominal, si, made: false };
+      return { run: bound.run, nominal, si, made: false };
     }
     default:
       throw new Refused();

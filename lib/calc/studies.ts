@@ -19,7 +19,7 @@ import { nameTex } from './tex';
 import { parseUnitString, unitLabel } from './unit-label';
 import { firstOrder, monteCarlo, roundExpanded, validateAgainstMonteCarlo, type UncertainInput } from './uncertainty';
 import { LIBRARY } from './functions';
-import { compileNumeric, siNumberOf } from './numeric-chain';
+import { compileNumeric, siNumberOf, type NumericChainContext } from './numeric-chain';
 import { numericLibraryCall } from './library-adapter';
 
 /** A statement that defines a name, as the engine re-evaluates it in a scope of its choosing. */
@@ -92,6 +92,24 @@ class NumericChain {
     }
   }
 
+  private compileContext?: NumericChainContext;
+
+  /** What compileNumeric reads of the sheet, made once per chain. */
+  private context(): NumericChainContext {
+    const math = this.math;
+    return (this.compileContext ??= {
+      math,
+      base: this.re.base,
+      libraryNames: LIBRARY_NAMES,
+      slotOf: (name) => this.slotOf.get(name),
+      paramKinds: (fn) => LIBRARY_KINDS.get(fn),
+      libraryNumeric: (fn, nominal) => {
+        const f = LIBRARY_BY_NAME.get(fn);
+        return f ? numericLibraryCall(math, f, nominal) : null;
+      },
+    });
+  }
+
   /** Number of statements to evaluate for `target`, or −1 when the fast path cannot give it. */
   stepsFor(target: string): number {
     if (this.refused) return -1;
@@ -109,24 +127,12 @@ class NumericChain {
         this.nominal = grown;
         this.scratch = new Float64Array(grown.length);
       }
+      // The sheet's value of the statement: the result of its last operation, not done again.
+      const value = this.re.base.get(st.defines);
       const run = st.node
-        ? compileNumeric(
-            {
-              math: this.math,
-              base: this.re.base,
-              libraryNames: LIBRARY_NAMES,
-              slotOf: (name) => this.slotOf.get(name),
-              paramKinds: (fn) => LIBRARY_KINDS.get(fn),
-              libraryNumeric: (fn, nominal) => {
-                const f = LIBRARY_BY_NAME.get(fn);
-                return f ? numericLibraryCall(this.math, f, nominal) : null;
-              },
-            },
-            st.node as Parameters<typeof compileNumeric>[1],
-            this.nominal,
-          )
+        ? compileNumeric(this.context(), st.node as Parameters<typeof compileNumeric>[1], this.nominal, { value })
         : null;
-      const si = siNumberOf(this.math, this.re.base.get(st.defines));
+      const si = siNumberOf(this.math, value);
       // The statement on SI numbers must give exactly what the sheet gave at the sheet's values.
       if (!run || si === undefined || !Object.is(run(this.nominal), si)) {
         this.refused = true;

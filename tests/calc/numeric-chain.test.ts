@@ -178,6 +178,44 @@ describe('what the compilation on SI numbers refuses', () => {
     // The same speed passed through an operation has no companion, and is accepted.
     expect(compiled('lorentzFactor(x * 1)', math.unit(1e8, 'm/s'))).not.toBeNull();
   });
+
+  it('checks the last operation of a statement against the sheet value of the statement instead of doing it again', () => {
+    const known = (expr: string, x0: unknown, value: unknown) => {
+      const base = new Map<string, unknown>([...em.constants, ['x', x0], ['GeV', math.unit('GeV')]]);
+      const slots = new Float64Array([math.isUnit(x0) ? (x0.value as number) : (x0 as number)]);
+      return compileNumeric(
+        {
+          math,
+          base,
+          libraryNames: names,
+          slotOf: (n) => (n === 'x' ? 0 : undefined),
+          paramKinds: (f) => kinds.get(f),
+        },
+        em.parse(expr) as never,
+        slots,
+        { value },
+      );
+    };
+    const evaluate = (expr: string, x0: unknown) =>
+      em
+        .parse(expr)
+        .compile()
+        .evaluate(new Map<string, unknown>([...em.constants, ['x', x0], ['GeV', math.unit('GeV')]]));
+    const next = (v: number) => v + Math.abs(v) * Number.EPSILON;
+    const T = math.unit(250, 'MeV');
+    for (const expr of ['momentumFromKinetic(x, m_p)', 'x * 2 / c', 'momentumFromKinetic(x, m_p) * c to GeV']) {
+      const value = evaluate(expr, T) as { value: number; clone(): typeof value };
+      // The sheet's own value: accepted, and the run gives it.
+      const run = known(expr, T, value);
+      expect(run, expr).not.toBeNull();
+      expect(run!(new Float64Array([T.value as number]))).toBe(value.value);
+      // A value one ulp off, or not a single number, is not what the statement gives: refused.
+      const off = value.clone();
+      off.value = next(value.value);
+      expect(known(expr, T, off), expr).toBeNull();
+      expect(known(expr, T, math.matrix([value.value])), expr).toBeNull();
+    }
+  });
 });
 
 describe('a library function on SI numbers (numericLibraryCall)', () => {
