@@ -602,18 +602,41 @@ function measuredText(y: number, U: number, unit: { text: string; tex: string })
  */
 const unpresented = new WeakMap<UncertaintyResult, () => void>();
 
+/**
+ * Above this standard uncertainty (in SI), an uncertainty's figures in the display unit are worked out
+ * as it is evaluated, so that one too large to be shown (U = 2u in the display unit not finite,
+ * refused by roundExpanded) is the statement's error as it always was; at or below it they are worked
+ * out when the statement is presented. Below it, U overflows only in a display unit under 10⁻²⁰⁸ of
+ * the SI unit (a unit written so, `to qm^7`); presenting it then says the uncertainty cannot be shown.
+ */
+const FIGURES_WHEN_PRESENTED = 1e100;
+
+/**
+ * A display-dependent part of an uncertainty (`figures`: u, U and the unit in the display unit; `words`:
+ * text, TeX, budget), run when the statement is presented, or the figures at once when they must be.
+ */
+function presentLater(result: UncertaintyResult, uSi: number, figures: () => void, words: () => void): void {
+  if (uSi <= FIGURES_WHEN_PRESENTED) {
+    unpresented.set(result, () => {
+      figures();
+      words();
+    });
+  } else {
+    figures();
+    unpresented.set(result, words);
+  }
+}
+
 /** An input's own standard uncertainty, for display beside its value. */
 export function inputUncertainty(math: MathJsInstance, value: unknown, u: unknown, sig: number): UncertaintyResult {
-  const du = displayUnitOf(math, value);
-  const y = (siOf(math, value) ?? 0) / du.factor;
-  const uu = (siOf(math, u) ?? 0) / du.factor;
-  const U = 2 * uu;
+  const ySi = siOf(math, value) ?? 0;
+  const uSi = siOf(math, u) ?? 0;
   const result: UncertaintyResult = {
     kind: 'input',
-    u: uu,
-    U: roundExpanded(U).U,
+    u: 0,
+    U: 0,
     k: 2,
-    unit: du.unit,
+    unit: null,
     text: '',
     tex: '',
     budget: [],
@@ -621,12 +644,27 @@ export function inputUncertainty(math: MathJsInstance, value: unknown, u: unknow
     monteCarlo: null,
     warning: null,
   };
-  // Written in words and TeX when the statement is presented (presentUncertainty), as for a propagated one.
-  unpresented.set(result, () => {
-    const shown = measuredText(y, U, du);
-    result.text = `standard uncertainty u = ${formatNumberText(uu, Math.min(sig, 3), SUMMARY)}${du.text ? ` ${du.text}` : ''}; ${shown.text}`;
-    result.tex = shown.tex;
-  });
+  // The figures in the value's display unit, and the words and TeX, when the statement is presented
+  // (presentUncertainty), as for a propagated one; none of it decides a value.
+  let du: DisplayUnit;
+  let U = 0;
+  presentLater(
+    result,
+    uSi,
+    () => {
+      du = displayUnitOf(math, value);
+      const uu = uSi / du.factor;
+      U = 2 * uu;
+      result.u = uu;
+      result.U = roundExpanded(U).U;
+      result.unit = du.unit;
+    },
+    () => {
+      const shown = measuredText(ySi / du.factor, U, du);
+      result.text = `standard uncertainty u = ${formatNumberText(result.u, Math.min(sig, 3), SUMMARY)}${du.text ? ` ${du.text}` : ''}; ${shown.text}`;
+      result.tex = shown.tex;
+    },
+  );
   return result;
 }
 
@@ -679,10 +717,9 @@ export function propagateUncertainty(
       : undefined;
   const correlated = correlation?.some((row, i) => row.some((r, j) => i !== j && r !== 0)) ? correlation : undefined;
   const fo = firstOrder(model, xs, correlated ? { correlation: correlated } : undefined);
-  const dy = displayUnitOf(math, y);
-  const uc = fo.uc / dy.factor;
-  const U = 2 * uc;
-  const yShown = ySi / dy.factor;
+  // Everything below in the display unit of the result (dy) is made when the statement is presented
+  // (presentLater): the figures, the budget's lines, the words and TeX.
+  let dy: DisplayUnit;
   const budgetOf = (): BudgetLine[] =>
     inputs.map((input, k) => {
       const dx = displayUnitOf(math, input.value);
@@ -704,10 +741,10 @@ export function propagateUncertainty(
         share: fo.shares[k],
       };
     });
-  // What is written in words and TeX is made when the statement is presented (presentUncertainty).
-  const pending: Array<() => void> = [];
   let mc: MonteCarloSummary | null = null;
   let warning: string | null = null;
+  /** The Monte Carlo figures in SI, converted to the display unit with the others. */
+  let mcSi: { r: ReturnType<typeof monteCarlo>; v: ReturnType<typeof validateAgainstMonteCarlo> } | null = null;
   const wanted = fo.nonLinear || monteCarloMode === 'always';
   if (wanted && !takeMonteCarloSlot()) {
     warning = fo.nonLinear
@@ -748,39 +785,32 @@ export function propagateUncertainty(
       warning = `the Monte Carlo propagation could not evaluate the model for ${r.outOfDomain} of ${r.trials} draws (outside a function's domain); the first-order result is not reliable here`;
     } else {
       const v = validateAgainstMonteCarlo(ySi, 2 * fo.uc, fo.uc, r);
-      const d = (si: number) => formatNumberText(si / dy.factor, Math.min(sig, 4), SUMMARY);
-      const unit = dy.text ? ` ${dy.text}` : '';
+      mcSi = { r, v };
       mc = {
         trials: r.trials,
         outOfDomain: r.outOfDomain,
         seed: MONTE_CARLO_SEED,
-        mean: r.mean / dy.factor,
-        u: r.u / dy.factor,
-        low: r.low / dy.factor,
-        high: r.high / dy.factor,
-        tolerance: v.tolerance / dy.factor,
-        dLow: v.dLow / dy.factor,
-        dHigh: v.dHigh / dy.factor,
+        mean: r.mean,
+        u: r.u,
+        low: r.low,
+        high: r.high,
+        tolerance: v.tolerance,
+        dLow: v.dLow,
+        dHigh: v.dHigh,
         agrees: v.agrees && r.outOfDomain === 0,
         text: '',
       };
-      const summary = mc;
-      pending.push(() => {
-        summary.text = `Monte Carlo (JCGM 101, ${r.trials.toLocaleString('en').replace(/,/g, '\u202f')} draws): mean ${d(r.mean)}${unit}, u = ${d(r.u)}${unit}, 95.45 % interval [${d(r.low)}, ${d(r.high)}]${unit}`;
-      });
       if (r.outOfDomain > 0) {
         warning = `${r.outOfDomain} of ${r.trials} Monte Carlo draws fell outside the model's domain and were left out; the uncertainty is too large for this model near its limit`;
-      } else if (!v.agrees) {
-        warning = `the first-order (GUM) interval differs from the Monte Carlo interval by more than ${d(v.tolerance)}${unit} (JCGM 101, 8.2): use the Monte Carlo result`;
       }
     }
   }
   const result: UncertaintyResult = {
     kind: 'propagated',
-    u: uc,
-    U: roundExpanded(U).U,
+    u: 0,
+    U: 0,
     k: 2,
-    unit: dy.unit,
+    unit: null,
     text: '',
     tex: '',
     budget: [],
@@ -799,15 +829,43 @@ export function propagateUncertainty(
     monteCarlo: mc,
     warning,
   };
-  pending.push(() => {
-    const shown = measuredText(yShown, U, dy);
-    result.text = shown.text;
-    result.tex = shown.tex;
-    result.budget = budgetOf();
-  });
-  unpresented.set(result, () => {
-    for (const p of pending) p();
-  });
+  let U = 0;
+  const d = (si: number) => formatNumberText(si / dy.factor, Math.min(sig, 4), SUMMARY);
+  presentLater(
+    result,
+    fo.uc,
+    () => {
+      dy = displayUnitOf(math, y);
+      const uc = fo.uc / dy.factor;
+      U = 2 * uc;
+      result.u = uc;
+      result.U = roundExpanded(U).U;
+      result.unit = dy.unit;
+      if (mc && mcSi) {
+        const { r, v } = mcSi;
+        mc.mean = r.mean / dy.factor;
+        mc.u = r.u / dy.factor;
+        mc.low = r.low / dy.factor;
+        mc.high = r.high / dy.factor;
+        mc.tolerance = v.tolerance / dy.factor;
+        mc.dLow = v.dLow / dy.factor;
+        mc.dHigh = v.dHigh / dy.factor;
+        if (r.outOfDomain === 0 && !v.agrees)
+          result.warning = `the first-order (GUM) interval differs from the Monte Carlo interval by more than ${d(v.tolerance)}${dy.text ? ` ${dy.text}` : ''} (JCGM 101, 8.2): use the Monte Carlo result`;
+      }
+    },
+    () => {
+      if (mc && mcSi) {
+        const { r } = mcSi;
+        const unit = dy.text ? ` ${dy.text}` : '';
+        mc.text = `Monte Carlo (JCGM 101, ${r.trials.toLocaleString('en').replace(/,/g, '\u202f')} draws): mean ${d(r.mean)}${unit}, u = ${d(r.u)}${unit}, 95.45 % interval [${d(r.low)}, ${d(r.high)}]${unit}`;
+      }
+      const shown = measuredText(ySi / dy.factor, U, dy);
+      result.text = shown.text;
+      result.tex = shown.tex;
+      result.budget = budgetOf();
+    },
+  );
   return result;
 }
 

@@ -318,6 +318,48 @@ describe('uncertainty (JCGM 100:2008, law of propagation of uncertainty)', () =>
     expect(r.cells[2].statements[1].error).toMatch(/± gives an input its standard uncertainty/);
   });
 
+  it('gives the same uncertainty figures and words whether a cell is presented as it is evaluated or when it is read', () => {
+    // The figures in the display unit (u, U, unit), the budget, the Monte Carlo summary and the words
+    // are made when a statement is presented (studies.ts, presentLater): the sandbox presents each cell
+    // at once, the editor's evaluation when it is read; both must give the same JSON.
+    const cells = calc(
+      'T_w = 250 MeV ± 0.4 MeV\nm_w = 938.272 MeV ± 0.5 MeV',
+      'p_w = momentumFromKinetic(T_w, m_w) to MeV/c',
+    );
+    for (const displayUnits of ['si', 'trade'] as const) {
+      const options = { significantFigures: 6, displayUnits, monteCarlo: 'always' as const };
+      const atOnce = JSON.stringify(createSheetEngine().evaluate(cells, options, { presentEachCell: true }));
+      const onRead = JSON.stringify(createSheetEngine().evaluate(cells, options));
+      expect(onRead).toBe(atOnce);
+      const r = JSON.parse(onRead) as SheetResult;
+      const u = statement(r, 'p_w').uncertainty!;
+      expect(u.unit).toBe('MeV / c');
+      expect(u.U).toBe(Number((2 * u.u).toExponential(1)));
+      expect(u.text).toMatch(/^\(\d+\.\d+ ± \d+\.\d+\) MeV\/c \(k = 2\)$/);
+      expect(u.budget.map((b) => b.name)).toEqual(['T_w', 'm_w']);
+      expect(u.monteCarlo!.text).toMatch(/^Monte Carlo \(JCGM 101, 10\u202f000 draws\): mean /);
+      expect(statement(r, 'T_w').uncertainty).toMatchObject({ kind: 'input', u: 0.4, U: 0.8, unit: 'MeV' });
+    }
+  });
+
+  it('refuses, as it is evaluated, an uncertainty whose expanded figure is not finite in its display unit', () => {
+    // u = 1e290 m in qm is 1e320: not a number. Above 1e100 (SI) the figures are worked out as the
+    // statement is evaluated, so the statement fails and its dependents say so. Below, in a display
+    // unit under 1e-208 of the SI unit, they are worked out when presented: the statement keeps its
+    // value and says its uncertainty cannot be shown.
+    const r = run(
+      calc('L_o = 1 m ± 1e290 m\nV_o = L_o to qm\nW_o = V_o * 2', 'A_o = 1 m^7 ± 1e99 m^7\nB_o = A_o to qm^7'),
+    );
+    expect(statement(r, 'V_o').error).toMatch(
+      /^the uncertainty cannot be propagated: an expanded uncertainty must be a finite number/,
+    );
+    expect(statement(r, 'W_o').error).toMatch(/depends on `V_o`/);
+    const b = statement(r, 'B_o');
+    expect(b.error).toMatch(/^the uncertainty cannot be shown: an expanded uncertainty must be a finite number/);
+    expect(b.uncertainty).toBeNull();
+    expect(b.value?.unit).toBe('qm^7');
+  });
+
   it('keeps uncertainties through the cache when only a dependent cell changes', () => {
     const cells = calc('T_u = 100 MeV ± 1 MeV', 'p_u = momentumFromKinetic(T_u, m_p)');
     const first = statement(run(cells), 'p_u').uncertainty!.u;

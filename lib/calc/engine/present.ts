@@ -123,7 +123,14 @@ function present(statements: StatementResult[], pending: Pending): void {
     statements.forEach((result, i) => {
       const st = parsed[i];
       const node = st.node;
-      presentUncertainty(result.uncertainty);
+      try {
+        presentUncertainty(result.uncertainty);
+      } catch (error) {
+        // Its figures in the display unit are made here (studies.ts, presentLater): never a blank
+        // where they should be, the statement says why it shows none.
+        result.uncertainty = null;
+        result.error ??= `the uncertainty cannot be shown: ${error instanceof Error ? error.message : String(error)}`;
+      }
       if (node) {
         // Typeset once per statement text and reading of its names (a cell evaluated again
         // because a value above changed reads the same; its substitution is made again).
