@@ -55,16 +55,22 @@ const LIBRARY_KINDS = new Map<string, readonly string[]>(LIBRARY.map((f) => [f.n
 class NumericChain {
   /** Slot of each changed name: the inputs first, then each statement re-evaluated. */
   private readonly slotOf = new Map<string, number>();
-  private readonly steps: Array<{ slot: number; run: (slots: Float64Array) => number; column?: Float64Array }> = [];
+  private readonly steps: Array<{
+    slot: number;
+    run: (slots: Float64Array) => number;
+    /** Slots of the changed names the statement reads (a failure there is its failure). */
+    reads: number[];
+    column?: Float64Array;
+  }> = [];
   /** Values at the sheet's values (to check each compiled statement against what the sheet gave). */
   private nominal: Float64Array;
   /** Position in the chain up to which the statements are compiled. */
   private upTo: number;
   private readonly changed: Set<string>;
   private refused = false;
-  /** Per draw: statements evaluated, and whether the next one threw. */
+  /** Per draw: statements evaluated, and the statements that failed in it (by slot, with the error). */
   private done?: Int32Array;
-  private threw?: Uint8Array;
+  private readonly drawFailures = new Map<number, Map<number, unknown>>();
   private scratch: Float64Array;
 
   constructor(
@@ -88,7 +94,6 @@ class NumericChain {
     this.upTo = first;
     if (trials > 0) {
       this.done = new Int32Array(trials);
-      this.threw = new Uint8Array(trials);
     }
   }
 
@@ -141,8 +146,13 @@ class NumericChain {
       }
       numericChainCounts.compiled++;
       this.nominal[slot] = si;
+      const reads: number[] = [];
+      for (const u of st.uses) {
+        const read = this.slotOf.get(u);
+        if (read !== undefined) reads.push(read);
+      }
       this.slotOf.set(st.defines, slot);
-      this.steps.push({ slot, run, column: this.trials > 0 ? new Float64Array(this.trials) : undefined });
+      this.steps.push({ slot, run, reads, column: this.trials > 0 ? new Float64Array(this.trials) : undefined });
     }
     if (this.refused) return -1;
     const slot = this.slotOf.get(target);
@@ -151,9 +161,13 @@ class NumericChain {
   }
 
   /** Runs made at given inputs (by their values), as far as they went: the first-order steps are the same for every result. */
-  private readonly runs = new Map<string | number, { values: number[]; threw: boolean }>();
+  private readonly runs = new Map<string | number, { values: number[]; failed: Map<number, unknown> | null }>();
 
-  /** The target's SI value (the statement `count` − 1) with the inputs at `x`; throws what a statement throws. */
+  /**
+   * The target's SI value (the statement `count` − 1) with the inputs at `x`; throws what the target's
+   * statement, or a statement it reads, throws. A statement between the inputs and the target that
+   * the target does not read may fail without failing the target: it is another result's model.
+   */
   evaluate(x: readonly number[], count: number): number {
     const s = this.scratch;
     let atNominal = true;
@@ -167,26 +181,30 @@ class NumericChain {
     const key = x.length === 1 ? x[0] : x.join('\0');
     let run = this.runs.get(key);
     if (!run) {
-      run = { values: [], threw: false };
+      run = { values: [], failed: null };
       if (this.runs.size < REUSED_RUNS_LIMIT) this.runs.set(key, run);
     }
     const { values } = run;
     let k = 0;
     for (const end = Math.min(values.length, count); k < end; k++) s[this.steps[k].slot] = values[k];
-    if (k < count && run.threw) throw new Error('a statement cannot be evaluated at these inputs');
     for (; k < count; k++) {
       const step = this.steps[k];
-      let v: number;
-      try {
-        v = step.run(s);
-      } catch (error) {
-        run.threw = true;
-        throw error;
+      let v = NaN;
+      const upstream = run.failed ? failureRead(run.failed, step.reads) : NO_FAILURE;
+      if (upstream !== NO_FAILURE) run.failed!.set(step.slot, upstream);
+      else {
+        try {
+          v = step.run(s);
+        } catch (error) {
+          (run.failed ??= new Map()).set(step.slot, error);
+        }
       }
       s[step.slot] = v;
       values.push(v);
     }
-    return s[this.steps[count - 1].slot];
+    const target = this.steps[count - 1].slot;
+    if (run.failed?.has(target)) throw run.failed.get(target);
+    return s[target];
   }
 
   /** The same in draw `t` of a series, going on from the statements an earlier result evaluated in it. */
@@ -199,22 +217,40 @@ class NumericChain {
       const step = this.steps[k];
       s[step.slot] = step.column![t];
     }
-    if (k < count && this.threw![t]) throw new Error('a statement cannot be evaluated for this draw');
+    let failed = this.drawFailures.get(t);
     for (; k < count; k++) {
       const step = this.steps[k];
-      let v: number;
-      try {
-        v = step.run(s);
-      } catch (error) {
-        done[t] = k;
-        this.threw![t] = 1;
-        throw error;
+      let v = NaN;
+      const upstream = failed ? failureRead(failed, step.reads) : NO_FAILURE;
+      if (upstream !== NO_FAILURE) failed!.set(step.slot, upstream);
+      else {
+        try {
+          v = step.run(s);
+        } catch (error) {
+          if (!failed) this.drawFailures.set(t, (failed = new Map()));
+          failed.set(step.slot, error);
+        }
       }
       s[step.slot] = step.column![t] = v;
       done[t] = k + 1;
     }
-    return s[this.steps[count - 1].slot];
+    const target = this.steps[count - 1].slot;
+    if (failed?.has(target)) throw failed.get(target);
+    return s[target];
   }
+}
+
+const NO_FAILURE = Symbol('no failure');
+
+/** The error of the first of `reads` (slots) that failed, or NO_FAILURE. */
+function failureRead(failed: ReadonlyMap<number, unknown>, reads: readonly number[]): unknown {
+  for (const r of reads) if (failed.has(r)) return failed.get(r);
+  return NO_FAILURE;
+}
+
+/** A statement's value in a Monte Carlo draw where it (or a statement it reads) could not be evaluated. */
+class FailedInDraw {
+  constructor(readonly error: unknown) {}
 }
 
 /** A scope that reads through to the sheet's scope and keeps its own writes. */
@@ -332,7 +368,8 @@ export class Reevaluator {
   /**
    * The values of `targets` with the inputs in `overrides` replaced: every statement between the
    * first input and the last target that reads a changed name is evaluated again, in sheet order.
-   * Throws the first error met. With `key` (naming the overrides exactly), the run is kept and a
+   * Throws the error of the first target that failed, or that reads a statement that failed (one
+   * the targets do not read may fail: it is another result's model). With `key` (naming the overrides exactly), the run is kept and a
    * later run with the same key goes on from where it stopped (the overrides, given as a function,
    * are then made only when the key is new).
    */
@@ -342,6 +379,7 @@ export class Reevaluator {
     key?: string,
   ): Map<string, unknown> {
     const state = this.advance(overrides, targets, key === undefined ? undefined : this.reused.get(key), key);
+    for (const t of targets) if (state.failed.has(t)) throw state.failed.get(t);
     const out = new Map<string, unknown>();
     for (const t of targets) out.set(t, state.scope.get(t));
     return out;
@@ -381,17 +419,33 @@ export class Reevaluator {
         let reads = false;
         for (let k = 0; k < st.uses.length && !reads; k++) reads = scope.hasOwn(st.uses[k]);
         if (reads) {
-          runs.done[index] = i - 1;
-          st.run(scope);
+          // A statement that fails, or reads one that did, is failed in this draw; only a target
+          // that is (or reads) it fails with it.
+          let value: unknown;
+          for (let k = 0; k < st.uses.length && value === undefined; k++) {
+            const read = scope.get(st.uses[k]);
+            if (read instanceof FailedInDraw) value = read;
+          }
+          if (value === undefined) {
+            try {
+              st.run(scope);
+              value = scope.get(st.defines);
+            } catch (error) {
+              value = new FailedInDraw(error);
+            }
+          }
+          scope.set(st.defines, value);
           let column = columns.get(st.defines);
           if (!column) columns.set(st.defines, (column = []));
-          column[index] = scope.get(st.defines);
+          column[index] = value;
         }
       }
       done = i;
     }
     runs.done[index] = Math.max(done, runs.done[index] ?? -1);
-    return scope.get(target);
+    const value = scope.get(target);
+    if (value instanceof FailedInDraw) throw value.error;
+    return value;
   }
 
   private readonly series = new Map<string, Series>();
@@ -412,7 +466,7 @@ export class Reevaluator {
         changed.add(name);
         first = Math.min(first, this.position(name));
       }
-      state = { scope, changed, done: Math.max(-1, first) };
+      state = { scope, changed, done: Math.max(-1, first), failed: new Map() };
       if (key !== undefined && this.reused.size < REUSED_RUNS_LIMIT) this.reused.set(key, state);
     }
     const { scope, changed } = state;
@@ -424,7 +478,20 @@ export class Reevaluator {
         let reads = false;
         for (let k = 0; k < st.uses.length && !reads; k++) reads = changed.has(st.uses[k]);
         if (reads) {
-          st.run(scope);
+          // A statement that fails, or reads one that did, is failed in this run; only a target
+          // that is (or reads) it fails with it (run).
+          let upstream: unknown = NO_FAILURE;
+          if (state.failed.size)
+            for (let k = 0; k < st.uses.length && upstream === NO_FAILURE; k++)
+              if (state.failed.has(st.uses[k])) upstream = state.failed.get(st.uses[k]);
+          if (upstream !== NO_FAILURE) state.failed.set(st.defines, upstream);
+          else {
+            try {
+              st.run(scope);
+            } catch (error) {
+              state.failed.set(st.defines, error);
+            }
+          }
           changed.add(st.defines);
         }
       }
@@ -446,6 +513,8 @@ interface RunState {
   scope: OverlayScope;
   changed: Set<string>;
   done: number;
+  /** Statements that failed in the run, or read one that did, with the error. */
+  failed: Map<string, unknown>;
 }
 
 /** Monte Carlo series kept per evaluation (each MONTE_CARLO_TRIALS runs); beyond, none are kept. */

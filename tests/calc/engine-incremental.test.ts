@@ -170,11 +170,12 @@ describe('incremental evaluation equals evaluation from scratch', () => {
     ]);
   });
 
-  it('keys a definition below an uncertain input by its whole cell', () => {
-    // y's propagation evaluates again every statement between x and y that reads x: here z, which
-    // cannot be evaluated on either side of x = 0.5 (β beyond 1 at the steps), so y fails with it.
-    // Mending z (another statement of y's cell) must reach w, which reads only y. (y's conditional
-    // keeps it off the numeric chain, and it is linear: no Monte Carlo run changes w's key.)
+  it('keys a definition below an uncertain input so that an edit of its cell reaches its readers', () => {
+    // z cannot be evaluated on either side of x = 0.5 (β beyond 1 at the steps); y does not read it,
+    // so y's propagation does not fail with it (tests/calc/propagation-unrelated.test.ts). Editing z
+    // (another statement of y's cell) must give w, which reads only y, what a fresh evaluation gives.
+    // (y's conditional keeps it off the numeric chain, and it is linear: no Monte Carlo run changes
+    // w's key.)
     const engine = createSheetEngine();
     const texts = [
       'x_u = 0.5 ± 0.1',
@@ -183,7 +184,9 @@ describe('incremental evaluation equals evaluation from scratch', () => {
       'w_u = y_u * 2',
     ];
     const before = engine.evaluate(sheetOf(texts), options);
-    expect(before.cells[3].error).toBe('depends on `y_u`, which is not available: it has an error in cell 2, line 2');
+    expect(before.cells[1].statements[0].error).toMatch(/uncertainty cannot be propagated/);
+    expect(before.cells[3].error).toBeNull();
+    expect(answer(before)).toBe(answer(createSheetEngine().evaluate(sheetOf(texts), options)));
     const edited = texts.map((t, i) => (i === 1 ? 'z_u = 2 * x_u\ny_u = (x_u > 0 ? 3 : 0) * x_u' : t));
     const r = engine.evaluate(sheetOf(edited), options);
     expect(r.cells[3].error).toBeNull();
