@@ -1,7 +1,7 @@
 // Builds the production app only when its sources changed since the last build into that folder.
 import { spawnSync } from 'node:child_process';
 import { createHash } from 'node:crypto';
-import { existsSync, readdirSync, readFileSync, statSync, writeFileSync } from 'node:fs';
+import { existsSync, mkdirSync, readdirSync, readFileSync, rmSync, statSync, writeFileSync } from 'node:fs';
 import { join, relative } from 'node:path';
 import { ensureCalcWorkerBundle } from './calc-worker-build';
 
@@ -41,6 +41,45 @@ export function buildIfStale(root: string, distDir: string, env: NodeJS.ProcessE
   // The app's evaluation workers load the prebuilt engine for the same sources (built apart: the
   // Next.js build does not include it, and it is made again only when lib/calc or the lock changed).
   ensureCalcWorkerBundle(root);
+  // One build of a folder at a time (`npm test` builds beside the tiers while a database-tier test
+  // may ask for the same build): a second caller waits, then finds it current.
+  return withBuildLock(root, distDir, () => buildUnlocked(root, distDir, env));
+}
+
+/** Holds `.data/build-locks/<distDir>.lock` (the holder's PID) while `fn` runs; a lock whose holder is gone is taken over. */
+function withBuildLock<T>(root: string, distDir: string, fn: () => T): T {
+  const folder = join(root, '.data', 'build-locks');
+  mkdirSync(folder, { recursive: true });
+  const lock = join(folder, `${distDir.replace(/[^\w.-]+/g, '_')}.lock`);
+  const pause = new Int32Array(new SharedArrayBuffer(4));
+  for (;;) {
+    try {
+      writeFileSync(lock, String(process.pid), { flag: 'wx' });
+      break;
+    } catch (error) {
+      if ((error as NodeJS.ErrnoException).code !== 'EEXIST') throw error;
+      const holder = Number(readFileSync(lock, 'utf8'));
+      if (!holder || !alive(holder)) rmSync(lock, { force: true });
+      else Atomics.wait(pause, 0, 0, 500);
+    }
+  }
+  try {
+    return fn();
+  } finally {
+    rmSync(lock, { force: true });
+  }
+}
+
+function alive(pid: number): boolean {
+  try {
+    process.kill(pid, 0);
+    return true;
+  } catch (error) {
+    return (error as NodeJS.ErrnoException).code === 'EPERM';
+  }
+}
+
+function buildUnlocked(root: string, distDir: string, env: NodeJS.ProcessEnv): boolean {
   const stamp = join(root, distDir, 'worldsheet-source-hash');
   const wanted = sourceHash(root);
   if (

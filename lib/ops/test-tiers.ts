@@ -7,6 +7,7 @@
 // database tier, one file at a time, leaves room for it. Prints each stage's time at the end.
 import path from 'node:path';
 import { BROWSER, UNIT } from '../../tests/vitest.config';
+import { inheritedEnvironment } from '../config';
 
 const TIERS = ['unit', 'database', 'browser'] as const;
 export type Tier = (typeof TIERS)[number];
@@ -46,7 +47,7 @@ function buildBeside(stages: Stage[], root: string, node: string): Stage[] {
   const browser = stages.findIndex((s) => s.name === 'browser tier');
   const firstTier = stages.findIndex((s) => s.name.endsWith(' tier'));
   if (browser < 0 || browser === firstTier) return stages;
-  const distDir = process.env.WORLDSHEET_TEST_DIST_DIR ?? '.next-test';
+  const distDir = inheritedEnvironment().WORLDSHEET_TEST_DIST_DIR ?? '.next-test';
   const build: Stage = {
     name: APP_BUILD,
     command: [node, '--import', 'tsx', path.join(root, 'lib', 'ops', 'build-app.ts'), distDir],
