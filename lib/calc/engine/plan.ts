@@ -18,7 +18,7 @@ type Position = { cell: number; line: number };
  * (sheet-engine.ts, `definitionKeys`): what its value, or its failure, depends on, without the other
  * statements of its cell.
  */
-export interface DefinitionPlan {
+interface DefinitionPlan {
   name: string;
   /** Index of the statement among its cell's statements. */
   index: number;
