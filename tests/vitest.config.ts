@@ -68,7 +68,16 @@ export default defineConfig({
         extends: true,
         test: { name: 'database', include: ['tests/**/*.test.ts'], exclude: [...UNIT, ...BROWSER], ...services },
       },
-      { extends: true, test: { name: 'browser', include: BROWSER, ...services } },
+      {
+        extends: true,
+        // One app for the files that need no app of their own (tests/setup/browser-app.ts).
+        test: {
+          name: 'browser',
+          include: BROWSER,
+          ...services,
+          globalSetup: [...services.globalSetup, 'tests/setup/browser-app.ts'],
+        },
+      },
     ],
   },
 });

@@ -1,20 +1,20 @@
-// The browser harness: builds the production app (into .next-test/, only when sources changed),
-// serves it against the test database, with the job worker process delivering its mail to the test
-// mail capture server, and drives Debian's Chromium through playwright-core.
+// The browser harness: the production app on the test services (its processes: app-process.ts;
+// one app for the whole browser tier unless a file needs its own: startApp), and Debian's Chromium
+// driven through playwright-core.
 // Every page it visits can be saved as a screenshot in tests/.artifacts/screenshots/ (git-ignored).
 // A console error or a failed request fails the test that caused it. A Content-Security-Policy
 // violation is one of those problems as the page sees it (securitypolicyviolation), and the app's
 // stop() throws, after stopping its processes, when any page of its run saw one or reported one to
 // the app (table csp_reports) that its test did not acknowledge: the file fails.
-import { spawn, type ChildProcess } from 'node:child_process';
+import type { ChildProcess } from 'node:child_process';
 import { mkdirSync } from 'node:fs';
 import path from 'node:path';
 import { chromium, type Browser, type BrowserContext, type Page } from 'playwright-core';
 import { inject } from 'vitest';
 import { CHROMIUM_PATH } from '../../lib/ops/chromium';
 import { testDb } from '../support/database';
-import { buildIfStale } from '../../lib/ops/next-build';
-import { localTestIdentityFiles } from '../../lib/issue/identity';
+import { sql } from 'kysely';
+import { appEnvironment, launchApp, testAppPort } from './app-process';
 
 const root = process.cwd();
 export const SCREENSHOT_DIR = path.join(root, 'tests', '.artifacts', 'screenshots');
@@ -26,132 +26,89 @@ export interface RunningApp {
   stop(): Promise<void>;
 }
 
-/** A fixed secret for the test server's signed session cookies. */
-const TEST_AUTH_SECRET = 'worldsheet-test-secret-not-for-production-use';
-
 /**
- * Starts the app server and a job worker on the test database. `options.port` runs a further
- * instance beside the first (the tests of several instances); it defaults to WORLDSHEET_TEST_APP_PORT.
+ * The app on the test services: its own server and job worker (lib/ops/server.ts,
+ * lib/jobs/worker-main.ts; tests/e2e/app-process.ts) when `extraEnv` or `options.port` asks for one
+ * (a second instance, other settings); otherwise the browser tier's one app, which its global setup
+ * started (tests/setup/browser-app.ts) and stops at the end of the run, so that each file does not
+ * wait for a server and a worker to start. Either way, stop() throws when a page saw or reported a
+ * Content-Security-Policy violation since the call that no test acknowledged; for the shared app it
+ * first waits (up to 20 s) for the jobs due to finish, so that none runs on into the next file.
+ * `options.port` runs a further instance beside the first (the tests of several instances); the
+ * app's own port defaults to WORLDSHEET_TEST_APP_PORT.
  */
 export async function startApp(
   extraEnv: Record<string, string> = {},
   options: { port?: number } = {},
 ): Promise<RunningApp> {
   const reportsFrom = BigInt(await lastCspReportId());
-  const port = options.port ?? Number(process.env.WORLDSHEET_TEST_APP_PORT ?? 3199);
-  const env: NodeJS.ProcessEnv = {
-    ...process.env,
-    NODE_ENV: 'production',
-    DATABASE_URL: inject('databaseUrl'),
-    WORLDSHEET_DEMO: '0',
-    NEXT_TELEMETRY_DISABLED: '1',
-    WORLDSHEET_SMTP_URL: inject('smtpUrl'),
-    WORLDSHEET_MAIL_CAPTURE_URL: inject('mailCaptureUrl'),
-    ...inject('objectStoreEnv'),
-    NEXTAUTH_URL: `http://127.0.0.1:${port}`,
-    NEXTAUTH_SECRET: TEST_AUTH_SECRET,
-    ...extraEnv,
-  };
-  // The production server and worker refuse to start without a signing key and certificate
-  // (lib/config.ts): name the local test identity's files, as a deployment names its own.
-  if (!env.WORLDSHEET_SIGNING_KEY || !env.WORLDSHEET_SIGNING_CERT) {
-    const files = localTestIdentityFiles(env.WORLDSHEET_KEY_FOLDER);
-    env.WORLDSHEET_SIGNING_KEY = files.keyFile;
-    env.WORLDSHEET_SIGNING_CERT = files.certFile;
+  const shared = Object.keys(extraEnv).length === 0 && options.port === undefined ? inject('sharedAppUrl') : undefined;
+  if (shared) {
+    return {
+      baseUrl: shared,
+      get server(): ChildProcess {
+        throw new Error(
+          "the browser tier's shared app belongs to the run: start an app of its own to stop its process",
+        );
+      },
+      async stop() {
+        await jobsSettled();
+        await cspCheck(reportsFrom);
+      },
+    };
   }
-  const distDir = process.env.WORLDSHEET_TEST_DIST_DIR ?? '.next-test';
-  buildIfStale(root, distDir, env);
-  const worker = await startWorker(env);
-  // The app's own server, as `npm start` runs it (lib/ops/server.ts).
-  const child: ChildProcess = spawn(
-    process.execPath,
-    ['--import', 'tsx', path.join('lib', 'ops', 'server.ts'), '-H', '127.0.0.1', '-p', String(port)],
-    { cwd: root, env: { ...env, WORLDSHEET_DIST_DIR: distDir }, stdio: ['ignore', 'pipe', 'pipe'] },
+  const port = options.port ?? testAppPort();
+  const app = await launchApp(
+    appEnvironment(
+      {
+        databaseUrl: inject('databaseUrl'),
+        smtpUrl: inject('smtpUrl'),
+        mailCaptureUrl: inject('mailCaptureUrl'),
+        objectStoreEnv: inject('objectStoreEnv'),
+      },
+      port,
+      extraEnv,
+    ),
+    port,
   );
-  let output = '';
-  child.stdout!.on('data', (d) => (output += d));
-  child.stderr!.on('data', (d) => (output += d));
-  const baseUrl = `http://127.0.0.1:${port}`;
-  const deadline = Date.now() + 60_000;
-  for (;;) {
-    if (child.exitCode !== null) {
-      await worker.stop();
-      throw new Error(`the app server exited (${child.exitCode}):\n${output}`);
-    }
-    try {
-      const r = await fetch(`${baseUrl}/api/health`);
-      if (r.ok) break;
-    } catch {
-      // not listening yet
-    }
-    if (Date.now() > deadline) {
-      child.kill('SIGKILL');
-      await worker.stop();
-      throw new Error(`the app server did not answer within 60 s:\n${output}`);
-    }
-    await new Promise((r) => setTimeout(r, 200));
-  }
   return {
-    baseUrl,
-    server: child,
+    baseUrl: app.baseUrl,
+    server: app.server,
     async stop() {
-      await Promise.all([stopChild(child), worker.stop()]);
-      const after = reportsFrom > cspReportsAcknowledgedThrough ? reportsFrom : cspReportsAcknowledgedThrough;
-      const reported = await testDb()
-        .selectFrom('csp_reports')
-        .select(['document_uri', 'blocked_uri', 'directive'])
-        .where('id', '>', String(after))
-        .orderBy('id')
-        .execute();
-      const lines = [
-        ...cspSeen
-          .splice(0)
-          .map((v) => `seen: ${v.effectiveDirective} blocked ${v.blockedURI || '(inline)'} on ${v.documentURI}`),
-        ...reported.map((r) => `reported: ${r.directive} blocked ${r.blocked_uri ?? '(inline)'} on ${r.document_uri}`),
-      ];
-      if (lines.length > 0)
-        throw new Error(`Content-Security-Policy violations while the app ran:\n${lines.join('\n')}`);
+      await app.stop();
+      await cspCheck(reportsFrom);
     },
   };
 }
 
-async function stopChild(child: ChildProcess): Promise<void> {
-  if (child.exitCode !== null || child.signalCode !== null) return;
-  const exited = new Promise((r) => child.once('exit', r));
-  child.kill('SIGTERM');
-  await exited;
+/** Waits (up to 20 s) until no job is running or due in the test database's queue. */
+async function jobsSettled(): Promise<void> {
+  const deadline = Date.now() + 20_000;
+  while (Date.now() < deadline) {
+    const { rows } = await sql<{ n: number }>`
+      select count(*)::int as n from pgboss.job
+      where state = 'active' or (state in ('created', 'retry') and start_after <= now())`.execute(testDb());
+    if (rows[0].n === 0) return;
+    await new Promise((r) => setTimeout(r, 250));
+  }
 }
 
-/** The job worker process (lib/jobs/worker-main.ts), as `npm start` runs it, polling twice a second. */
-async function startWorker(env: NodeJS.ProcessEnv): Promise<{ stop(): Promise<void> }> {
-  const child = spawn(process.execPath, ['--import', 'tsx', path.join('lib', 'jobs', 'worker-main.ts')], {
-    cwd: root,
-    env: { ...env, NODE_ENV: 'production', WORLDSHEET_JOB_POLL_SECONDS: '0.5' },
-    stdio: ['ignore', 'pipe', 'pipe'],
-  });
-  let output = '';
-  const ready = new Promise<void>((resolve, reject) => {
-    const timer = setTimeout(() => reject(new Error(`the job worker did not start within 30 s:\n${output}`)), 30_000);
-    child.stdout!.on('data', (d) => {
-      output += d;
-      if (output.includes('working the queues')) {
-        clearTimeout(timer);
-        resolve();
-      }
-    });
-    child.stderr!.on('data', (d) => (output += d));
-    child.once('exit', (code) => {
-      clearTimeout(timer);
-      reject(new Error(`the job worker exited (${code}):\n${output}`));
-    });
-  });
-  try {
-    await ready;
-  } catch (error) {
-    child.kill('SIGKILL');
-    throw error;
-  }
-  return { stop: () => stopChild(child) };
+/** Throws when a page saw, or the app stored a report of, a CSP violation after `reportsFrom` that no test acknowledged. */
+async function cspCheck(reportsFrom: bigint): Promise<void> {
+  const after = reportsFrom > cspReportsAcknowledgedThrough ? reportsFrom : cspReportsAcknowledgedThrough;
+  const reported = await testDb()
+    .selectFrom('csp_reports')
+    .select(['document_uri', 'blocked_uri', 'directive'])
+    .where('id', '>', String(after))
+    .orderBy('id')
+    .execute();
+  const lines = [
+    ...cspSeen
+      .splice(0)
+      .map((v) => `seen: ${v.effectiveDirective} blocked ${v.blockedURI || '(inline)'} on ${v.documentURI}`),
+    ...reported.map((r) => `reported: ${r.directive} blocked ${r.blocked_uri ?? '(inline)'} on ${r.document_uri}`),
+  ];
+  if (lines.length > 0) throw new Error(`Content-Security-Policy violations while the app ran:\n${lines.join('\n')}`);
 }
 
 export interface BrowserSession {
