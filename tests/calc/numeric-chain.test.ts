@@ -125,12 +125,16 @@ describe('what the compilation on SI numbers refuses', () => {
   const { math } = em;
   const names = new Set(LIBRARY.map((f) => f.name));
   const kinds = new Map(LIBRARY.map((f) => [f.name, f.params.map((p) => p.kind)]));
-  /** Compiles `expr` with `x` (the slot 0) at `x0`; null when refused. */
-  const compiled = (expr: string, x0: unknown, extra: Record<string, unknown> = {}) => {
+  /**
+   * Compiles `expr` with `x` (the slot 0) at `x0`; null when refused. With `known`, the statement's
+   * value at the sheet's values, which its last operation is checked against.
+   */
+  const compiled = (expr: string, x0: unknown, extra: Record<string, unknown> = {}, known?: { value: unknown }) => {
     const base = new Map<string, unknown>([
       ...em.constants,
       ['x', x0],
       ['MeV', math.unit('MeV')],
+      ['GeV', math.unit('GeV')],
       ...Object.entries(extra),
     ]);
     const slots = new Float64Array([math.isUnit(x0) ? (x0.value as number) : (x0 as number)]);
@@ -144,6 +148,7 @@ describe('what the compilation on SI numbers refuses', () => {
       },
       em.parse(expr) as never,
       slots,
+      known,
     );
   };
 
@@ -180,22 +185,7 @@ describe('what the compilation on SI numbers refuses', () => {
   });
 
   it('checks the last operation of a statement against the sheet value of the statement instead of doing it again', () => {
-    const known = (expr: string, x0: unknown, value: unknown) => {
-      const base = new Map<string, unknown>([...em.constants, ['x', x0], ['GeV', math.unit('GeV')]]);
-      const slots = new Float64Array([math.isUnit(x0) ? (x0.value as number) : (x0 as number)]);
-      return compileNumeric(
-        {
-          math,
-          base,
-          libraryNames: names,
-          slotOf: (n) => (n === 'x' ? 0 : undefined),
-          paramKinds: (f) => kinds.get(f),
-        },
-        em.parse(expr) as never,
-        slots,
-        { value },
-      );
-    };
+    const known = (expr: string, x0: unknown, value: unknown) => compiled(expr, x0, {}, { value });
     const evaluate = (expr: string, x0: unknown) =>
       em
         .parse(expr)
