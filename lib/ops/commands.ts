@@ -12,7 +12,7 @@
 //   backup    dumps the database and every stored object into a folder (npm run backup -- FOLDER)
 //   restore   restores such a folder into an empty installation and verifies it (npm run restore -- FOLDER)
 //   audit     walks the audit chain of the installation, app running or not (npm run -s audit -- verify)
-import { execFileSync, spawn } from 'node:child_process';
+import { execFileSync } from 'node:child_process';
 import { closeSync, createWriteStream, mkdirSync, openSync, readFileSync } from 'node:fs';
 import path from 'node:path';
 import { fileURLToPath } from 'node:url';
@@ -225,19 +225,13 @@ async function test(supervisor: Supervisor, args: string[]): Promise<void> {
       mkdirSync(path.dirname(logFile), { recursive: true });
       const out = openSync(logFile, 'w');
       // In a process group of its own, so that stopping it stops `next build` under it too.
-      const child = spawn(stage.command[0], stage.command.slice(1), {
+      const child = supervisor.spawn(stage.name, stage.command[0], stage.command.slice(1), {
         cwd: root,
         env,
         stdio: ['ignore', out, out],
         detached: true,
       });
-      const exited = waitForExit(child);
-      supervisor.add(stage.name, async () => {
-        if (child.exitCode !== null || child.signalCode !== null) return;
-        process.kill(-child.pid!, 'SIGTERM');
-        await exited;
-      });
-      const exit = await exited;
+      const exit = await waitForExit(child);
       closeSync(out);
       if (exit) console.error(`[worldsheet] the ${stage.name} failed:\n${readFileSync(logFile, 'utf8')}`);
       return exit;

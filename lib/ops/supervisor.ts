@@ -36,17 +36,25 @@ export class Supervisor {
     this.stoppers.push({ name, stop });
   }
 
-  /** Starts a child process that the shutdown stops with SIGTERM (then SIGKILL after a grace period). */
+  /**
+   * Starts a child process that the shutdown stops with SIGTERM (then SIGKILL after a grace period).
+   * With `detached`, the child leads a process group of its own, and the whole group is signalled
+   * (so that what it started, such as `next build` under a build script, stops with it).
+   */
   spawn(name: string, command: string, args: string[], options: SpawnOptions = {}): ChildProcess {
     const child = spawn(command, args, { stdio: 'inherit', ...options });
     const exited = new Promise<void>((resolve) => {
       if (child.exitCode !== null || child.signalCode !== null) resolve();
       else child.once('exit', () => resolve());
     });
+    const signal = (s: NodeJS.Signals) => {
+      if (options.detached && child.pid !== undefined) process.kill(-child.pid, s);
+      else child.kill(s);
+    };
     this.add(name, async () => {
       if (child.exitCode !== null || child.signalCode !== null) return;
-      child.kill('SIGTERM');
-      const timer = setTimeout(() => child.kill('SIGKILL'), 15_000);
+      signal('SIGTERM');
+      const timer = setTimeout(() => signal('SIGKILL'), 15_000);
       await exited;
       clearTimeout(timer);
     });
