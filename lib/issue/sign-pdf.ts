@@ -4,7 +4,7 @@
 import { pdflibAddPlaceholder } from '@signpdf/placeholder-pdf-lib';
 import signpdfModule from '@signpdf/signpdf';
 import { SUBFILTER_ETSI_CADES_DETACHED } from '@signpdf/utils';
-import { PDFDocument } from 'pdf-lib';
+import { ParseSpeeds, PDFDocument } from 'pdf-lib';
 import { CadesSigner } from './cades';
 import { signingIdentity } from './identity';
 
@@ -14,7 +14,11 @@ export async function signPdf(
   pdf: Uint8Array,
   details: { reason: string; location: string; contactInfo: string; name: string; signingTime: Date },
 ): Promise<Buffer> {
-  const doc = await PDFDocument.load(pdf, { updateMetadata: false });
+  // pdf-lib yields to the event loop (a setTimeout) every 100 objects parsed and every 50 written
+  // by default; an issued PDF has thousands of objects (glyph forms, the structure tree), so that
+  // was most of the signing time (a 200-cell sheet: about 230 ms of 290). Parsed and written in one
+  // go, the bytes are the same.
+  const doc = await PDFDocument.load(pdf, { updateMetadata: false, parseSpeed: ParseSpeeds.Fastest });
   pdflibAddPlaceholder({
     pdfDoc: doc,
     reason: details.reason,
@@ -25,6 +29,6 @@ export async function signPdf(
     subFilter: SUBFILTER_ETSI_CADES_DETACHED,
     signatureLength: 16_384,
   });
-  const withPlaceholder = Buffer.from(await doc.save({ useObjectStreams: false }));
+  const withPlaceholder = Buffer.from(await doc.save({ useObjectStreams: false, objectsPerTick: Infinity }));
   return signpdf.sign(withPlaceholder, new CadesSigner(signingIdentity()));
 }
