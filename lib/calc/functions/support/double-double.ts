@@ -40,12 +40,65 @@ function split(a: number): DD {
   return [hi, a - hi];
 }
 
+// The operations below are written out on plain doubles, with the two halves of an intermediate
+// double-double held in H and L, rather than made of twoSum, twoProd and fastTwoSum: the same
+// operations in the same order (so the same bits), without a two-element array per step. Each kernel
+// makes thousands of these steps per first-order propagation, and the arrays were most of its garbage.
+let H = 0;
+let L = 0;
+
+function isLarge(a: number): boolean {
+  return (a > 6.69692879491417e299 || a < -6.69692879491417e299) && Number.isFinite(a);
+}
+
+/** The error e of the product p = fl(a · b): a · b = p + e exactly (Dekker, Veltkamp; split as in split()). */
+function productError(a: number, b: number, p: number): number {
+  if (isLarge(a) || isLarge(b)) {
+    const [ah, al] = split(a);
+    const [bh, bl] = split(b);
+    return ah * bh - p + ah * bl + al * bh + al * bl;
+  }
+  let t = SPLITTER * a;
+  const ah = t - (t - a);
+  const al = a - ah;
+  t = SPLITTER * b;
+  const bh = t - (t - b);
+  const bl = b - bh;
+  return ah * bh - p + ah * bl + al * bh + al * bl;
+}
+
+/** (a0 + a1) + (b0 + b1) into H, L: add() below. */
+function addInto(a0: number, a1: number, b0: number, b1: number): void {
+  // twoSum(a0, b0)
+  const s1 = a0 + b0;
+  let bb = s1 - a0;
+  const s2 = a0 - (s1 - bb) + (b0 - bb);
+  // twoSum(a1, b1)
+  const t1 = a1 + b1;
+  bb = t1 - a1;
+  const t2 = a1 - (t1 - bb) + (b1 - bb);
+  // fastTwoSum(s1, s2 + t1)
+  const v = s2 + t1;
+  const u1 = s1 + v;
+  const u2 = v - (u1 - s1);
+  // fastTwoSum(u1, u2 + t2)
+  const w = u2 + t2;
+  H = u1 + w;
+  L = w - (H - u1);
+}
+
+/** (b0 + b1) · q into H, L: mulNum() below. */
+function mulNumInto(b0: number, b1: number, q: number): void {
+  const p = b0 * q;
+  const v = productError(b0, q, p) + b1 * q;
+  H = p + v;
+  L = v - (H - p);
+}
+
 /** a · b = p + e exactly (Dekker, Veltkamp). */
 export function twoProd(a: number, b: number): DD {
   const p = a * b;
-  const [ah, al] = split(a);
-  const [bh, bl] = split(b);
-  return [p, ah * bh - p + ah * bl + al * bh + al * bl];
+  return [p, productError(a, b, p)];
 }
 
 export function dd(x: number): DD {
@@ -57,24 +110,26 @@ export function neg(a: DD): DD {
 }
 
 export function add(a: DD, b: DD): DD {
-  const [s1, s2] = twoSum(a[0], b[0]);
-  const [t1, t2] = twoSum(a[1], b[1]);
-  const [u1, u2] = fastTwoSum(s1, s2 + t1);
-  return fastTwoSum(u1, u2 + t2);
+  addInto(a[0], a[1], b[0], b[1]);
+  return [H, L];
 }
 
+/** a − b, as a + (−b) (IEEE x + (−y) is x − y, signed zeros included). */
 export function sub(a: DD, b: DD): DD {
-  return add(a, neg(b));
+  addInto(a[0], a[1], -b[0], -b[1]);
+  return [H, L];
 }
 
 export function mul(a: DD, b: DD): DD {
-  const [p, e] = twoProd(a[0], b[0]);
-  return fastTwoSum(p, e + (a[0] * b[1] + a[1] * b[0]));
+  const p = a[0] * b[0];
+  const v = productError(a[0], b[0], p) + (a[0] * b[1] + a[1] * b[0]);
+  const s = p + v;
+  return [s, v - (s - p)];
 }
 
 export function mulNum(a: DD, b: number): DD {
-  const [p, e] = twoProd(a[0], b);
-  return fastTwoSum(p, e + a[1] * b);
+  mulNumInto(a[0], a[1], b);
+  return [H, L];
 }
 
 /** Exact scaling by a power of two (no rounding unless the result under- or overflows). */
@@ -83,20 +138,35 @@ export function scale(a: DD, powerOfTwo: number): DD {
 }
 
 export function div(a: DD, b: DD): DD {
-  const q1 = a[0] / b[0];
-  let r = sub(a, mulNum(b, q1));
-  const q2 = r[0] / b[0];
-  r = sub(r, mulNum(b, q2));
-  const q3 = r[0] / b[0];
-  const [s, e] = fastTwoSum(q1, q2);
-  return add([s, e], [q3, 0]);
+  const b0 = b[0];
+  const b1 = b[1];
+  const q1 = a[0] / b0;
+  // r = a − b·q1
+  mulNumInto(b0, b1, q1);
+  addInto(a[0], a[1], -H, -L);
+  const q2 = H / b0;
+  // r = r − b·q2
+  const r0 = H;
+  const r1 = L;
+  mulNumInto(b0, b1, q2);
+  addInto(r0, r1, -H, -L);
+  const q3 = H / b0;
+  // fastTwoSum(q1, q2), then + [q3, 0]
+  const s = q1 + q2;
+  const e = q2 - (s - q1);
+  addInto(s, e, q3, 0);
+  return [H, L];
 }
 
 export function sqrt(a: DD): DD {
   if (a[0] <= 0) return [0, 0];
   const x = Math.sqrt(a[0]);
-  const residual = sub(a, twoProd(x, x));
-  return fastTwoSum(x, residual[0] / (2 * x));
+  // residual = a − x·x
+  const p = x * x;
+  addInto(a[0], a[1], -p, -productError(x, x, p));
+  const d = H / (2 * x);
+  const s = x + d;
+  return [s, d - (s - x)];
 }
 
 /** The double nearest to the double-double value. */
