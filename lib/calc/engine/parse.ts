@@ -14,15 +14,18 @@ import { extractUnitLiterals, UNIT_PLACEHOLDER_PREFIX } from '../unit-literals';
 import { FORMS } from './forms';
 import { blankStatement, type AnyNode, type ParsedStatement } from './statement';
 
+/** `name = value ± u`: made once (not global, so exec keeps no position between lines). */
+const PLUS_MINUS_LINE = new RegExp(`^\\s*([${NAME_START}][${NAME_CHAR}]*)\\s*=(?!=)([^±]+)±([^±]+)$`);
+
 /**
  * `x = value ± u` written as `x = uncertain(value, u)` for the parser; a `±` anywhere else is refused.
  * Returns the line unchanged when it holds no `±`.
  */
 function rewritePlusMinus(line: string): { text: string; error: string | null } {
   // `+/-` is read as `±` for keyboards without it (it means nothing else in a formula).
-  const text = line.includes('+/-') ? line.replace(/\+\/-/g, '±') : line;
+  const text = line.includes('+/-') ? line.replaceAll('+/-', '±') : line;
   if (!text.includes('±')) return { text, error: null };
-  const m = new RegExp(`^\\s*([${NAME_START}][${NAME_CHAR}]*)\\s*=(?!=)([^±]+)±([^±]+)$`).exec(text);
+  const m = PLUS_MINUS_LINE.exec(text);
   if (!m || /["']/.test(text))
     return { text, error: '± gives an input its standard uncertainty: write name = value ± u, one ± per line' };
   return { text: `${m[1]} = uncertain(${m[2].trim()}, ${m[3].trim()})`, error: null };
