@@ -361,17 +361,17 @@ export function numericLibraryCall(
     if (!u) bases!.set(si, (u = math.unit(si)));
     return u;
   };
-  const identity = (x: number) => x;
-  const convert: Array<(x: number) => number> = [];
-  let speeds = 0;
-  let plainSpeeds = 0;
-  for (const [i, param] of fn.params.entries()) {
+  // Each argument's conversion to the kernel's number, by a letter: n a plain number (or a plain
+  // β, P), q a charge number, u a unit of the kind's SI dimension (s for a speed: ÷ c), a the kind's
+  // alternative. The function on SI numbers depends on nothing else, so it is made once per letters.
+  let letters = '';
+  for (let i = 0; i < fn.params.length; i++) {
+    const param = fn.params[i];
     const value = nominal[i];
-    if (param.kind === 'speed') speeds++;
     if (typeof value === 'number') {
-      if (param.kind === 'speed') plainSpeeds++;
-      if (param.kind === 'number' || param.kind === 'speed' || param.kind === 'angle') convert.push(identity);
-      else if (param.kind === 'charge') convert.push((x) => chargeNumber(where(fn, i), x) * E_CHARGE);
+      if (param.kind === 'speed') letters += 'P';
+      else if (param.kind === 'number' || param.kind === 'angle') letters += 'n';
+      else if (param.kind === 'charge') letters += 'q';
       else return null;
       continue;
     }
@@ -379,10 +379,36 @@ export function numericLibraryCall(
     const unit = value as Unit;
     if (typeof unit.value !== 'number') return null;
     const spec = KIND_UNITS[param.kind];
-    if (unit.equalBase(baseOf(spec.si))) convert.push(param.kind === 'speed' ? (x) => x / C : identity);
-    else if (spec.alt && unit.equalBase(baseOf(spec.alt.si)) && (spec.alt.written?.(unit) ?? true))
-      convert.push(spec.alt.toSi);
+    if (unit.equalBase(baseOf(spec.si))) letters += param.kind === 'speed' ? 's' : 'u';
+    else if (spec.alt && unit.equalBase(baseOf(spec.alt.si)) && (spec.alt.written?.(unit) ?? true)) letters += 'a';
     else return null;
+  }
+  let made = numericCalls.get(fn);
+  if (!made) numericCalls.set(fn, (made = new Map()));
+  let call = made.get(letters);
+  if (!call) made.set(letters, (call = numericCallOf(fn, letters)));
+  return call;
+}
+
+/** Library functions on SI numbers, made by numericCallOf, by the conversion letters of their arguments. */
+const numericCalls = new WeakMap<CalcFunction, Map<string, (args: readonly number[]) => number>>();
+
+function numericCallOf(fn: CalcFunction, letters: string): (args: readonly number[]) => number {
+  const identity = (x: number) => x;
+  const convert: Array<(x: number) => number> = [];
+  let speeds = 0;
+  let plainSpeeds = 0;
+  for (let i = 0; i < letters.length; i++) {
+    const letter = letters[i];
+    if (fn.params[i].kind === 'speed') speeds++;
+    if (letter === 'P') plainSpeeds++;
+    if (letter === 'q') convert.push((x) => chargeNumber(where(fn, i), x) * E_CHARGE);
+    else if (letter === 's') convert.push((x) => x / C);
+    else if (letter === 'a') {
+      const kind = fn.params[i].kind;
+      if (kind === 'number') throw new Error(`${fn.name}: a plain number has no alternative unit`);
+      convert.push(KIND_UNITS[kind].alt!.toSi);
+    } else convert.push(identity);
   }
   const n = convert.length;
   const numbers = new Array<number>(n);

@@ -104,13 +104,18 @@ export function compileNumeric(
   /**
    * The statement's value as the sheet evaluated it (mathjs on these very values): the result of the
    * root operation, which is then not done again (a library call at the root is not made again; its
-   * SI number on the fast path is compared with this value's).
+   * SI number on the fast path is compared with this value's). The function returned then gives
+   * exactly that value's SI number at `slots` (checked here), so the caller need not run it again.
    */
   known?: { value: unknown },
 ): ((slots: Float64Array) => number) | null {
   try {
     const c = compile(ctx, node, slots, known);
     if (c.valueless || siNumberOf(ctx.math, c.nominal) === undefined) return null;
+    // `si` is what `run` gives at `slots`: each node's run does the same IEEE operation (or calls the
+    // same pure kernel) on its operands' runs as its `si` does on theirs, and a slot's is checked
+    // against the slot itself; so checking `si` checks the run without doing it again.
+    if (known && !same(c.si, siNumberOf(ctx.math, known.value))) return null;
     return c.run;
   } catch {
     // Refused, or mathjs or the library threw at the sheet's values (which the sheet evaluated):
