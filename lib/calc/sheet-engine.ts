@@ -228,7 +228,7 @@ export function createSheetEngine(): SheetEngine {
    * Monte Carlo propagations are left (which decides which it may run). Hashed again only when one
    * changed.
    */
-  function cellKey(cellPlan: CellPlan, settings: string, cellText: string, run: SheetRun): string {
+  function cellKey(cellPlan: CellPlan, settings: string, index: number, source: string, run: SheetRun): string {
     const { failed } = run;
     const monteCarloUsed = run.inputU.size > 0 ? Math.min(run.monteCarloRequests, MONTE_CARLO_PER_SHEET) : -1;
     const last = cellPlan.lastKey;
@@ -239,7 +239,7 @@ export function createSheetEngine(): SheetEngine {
       if (same) return last.key;
     }
     const inputs = cellPlan.definedAbove.map((n) => run.keyOf(n) ?? `failed:${failed.get(n) ?? ''}`);
-    let text = `${settings}\0${cellText}\0${cellPlan.staticKey}`;
+    let text = `${settings}\0${index}\0${source}\0${cellPlan.staticKey}`;
     for (let i = 0; i < inputs.length; i++) text += `\0${cellPlan.definedAbove[i]}=${inputs[i]}`;
     if (monteCarloUsed >= 0) text += `\0monteCarloUsed:${monteCarloUsed}`;
     const key = hash('sha256', text, 'base64');
@@ -356,7 +356,7 @@ export function createSheetEngine(): SheetEngine {
       // name cells by number), the display precision, the keys of the names it uses (of their
       // defining statements; the rest is in the plan), and how many of the sheet's Monte Carlo
       // propagations are left, which decides which this cell may run.
-      const key = cellKey(cellPlan, settings, `${ci}\0${cell.source}`, run);
+      const key = cellKey(cellPlan, settings, ci, cell.source, run);
 
       const cached = skipReason ? undefined : cellCache.get(key);
       if (cached) {
