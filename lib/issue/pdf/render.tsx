@@ -21,6 +21,7 @@ import {
   UncertaintyLine,
 } from './statement-extras';
 import { SheetNumber } from './sheet-number';
+import { installFontReuse } from './pdfkit-fonts';
 import { Group, Leaf, PageArtifact, installPdfStructure, structureInstructionsActedOn } from './structure';
 import { type TypesetMath, createTexCache } from './tex-svg';
 import { DISPLAY_UNITS_DEFAULT, DISPLAY_UNITS_LABEL } from '@/lib/calc/display-units';
@@ -1313,6 +1314,7 @@ export async function renderRevisionPdf(data: RevisionPdfData): Promise<Buffer> 
   const hasPlot = data.version.results.cells.some((c) => c.statements.some((st) => st.plot));
   const figure: FigureRenderer | null = hasPlot ? (await import('./svg-to-pdf')).plotPdfGraphic : null;
   installPdfStructure();
+  installFontReuse();
   const before = structureInstructionsActedOn();
   const pdf = await renderToBuffer(<RevisionPdfDocument data={data} typeset={typeset} figure={figure} />);
   // A silent fall-back to an untagged file would go unnoticed: refuse it.
