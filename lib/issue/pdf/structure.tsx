@@ -157,9 +157,15 @@ const STATE_OPERATORS = new Set([
   'DP',
 ]);
 
+const SPACE = /\s/;
+
+/** Whether content ending with `data`'s last operator draws; read from the end (a formula's data is long). */
 function draws(data: string): boolean {
-  const op = /(\S+)\s*$/.exec(data)?.[1] ?? '';
-  return !STATE_OPERATORS.has(op);
+  let end = data.length;
+  while (end > 0 && SPACE.test(data[end - 1])) end--;
+  let start = end;
+  while (start > 0 && !SPACE.test(data[start - 1])) start--;
+  return !STATE_OPERATORS.has(data.slice(start, end));
 }
 
 function write(doc: Doc, st: State, fn: () => void): void {
