@@ -22,6 +22,7 @@ import {
 } from './statement-extras';
 import { SheetNumber } from './sheet-number';
 import { installFontReuse } from './pdfkit-fonts';
+import { keepTextLayouts } from './text-layout-cache';
 import { Group, Leaf, PageArtifact, installPdfStructure, structureInstructionsActedOn } from './structure';
 import { type TypesetMath, createTexCache } from './tex-svg';
 import { DISPLAY_UNITS_DEFAULT, DISPLAY_UNITS_LABEL } from '@/lib/calc/display-units';
@@ -1307,6 +1308,7 @@ function RevisionPdfDocument({
 /** The issued PDF of one revision, unsigned (lib/issue/sign-pdf.ts adds the organisation's signature). */
 export async function renderRevisionPdf(data: RevisionPdfData): Promise<Buffer> {
   registerPdfFonts();
+  await keepTextLayouts([TEXT_FONT, MONO_FONT]);
   // One TeX → outline conversion per distinct string, kept across renders (./tex-svg.ts).
   const typeset = createTexCache();
   // Plots are drawn by Observable Plot on a jsdom document (./svg-to-pdf.tsx), loaded only for a
