@@ -258,3 +258,64 @@ describe('the result caches are per project', () => {
     expect(again.evaluatedCells).toBe(0);
   });
 });
+
+// A sheet's evaluations go to one worker (its affinity), whose cell cache holds the sheet: there an
+// edit evaluates only the cells it affects. When that worker is busy, the request waits for it for
+// a while (spillAfterMs) rather than take a free worker that would evaluate the whole sheet again;
+// past that wait it takes the free one. What is asserted is which worker answered, told by how many
+// cells it evaluated, and the order of completion, never a duration: the busy worker's cell (2^23
+// calls of a function, over a second on this machine) outlasts the 100 ms wait of the second case.
+// Expected values: the statements' own arithmetic (common practice).
+describe('a sheet waits for its own worker', () => {
+  const BUSY = 'f(x) = x > 0 ? f(x - 1) + f(x - 1) : 0\ny_b = f(22)';
+  /** 12 cells that read nothing of each other; `last` is the last one's length. */
+  const sheet = (last: number): CellInput[] =>
+    Array.from({ length: 12 }, (_, i) => ({
+      id: `k${i + 1}`,
+      kind: 'calc',
+      source: `L_${i + 1} = ${i === 11 ? last : i + 1} m\nA_${i + 1} = L_${i + 1} * 2 m`,
+    }));
+  /** An affinity other than `of` that goes to the same worker. */
+  const sameWorker = (pool: SandboxedEvaluator, of: string) => {
+    for (let k = 0; ; k++) if (pool.workerFor(`busy-${k}`) === pool.workerFor(of)) return `busy-${k}`;
+  };
+
+  /** Evaluates the sheet, makes its worker busy, then evaluates the sheet with its last cell edited. */
+  async function editWhileBusy(spillAfterMs: number) {
+    const pool = new SandboxedEvaluator({ timeoutMs: 60_000, memoryMb: 96, workers: 2, spillAfterMs });
+    try {
+      await pool.warm();
+      const first = await pool.evaluate(sheet(12), { significantFigures: 6 }, { affinity: 'sheet-x' });
+      expect(first.evaluatedCells).toBe(12);
+      const order: string[] = [];
+      const busy = pool
+        .evaluate(cells(BUSY), { significantFigures: 6 }, { affinity: sameWorker(pool, 'sheet-x') })
+        .finally(() => order.push('busy'));
+      const edit = pool
+        .evaluate(sheet(7), { significantFigures: 6 }, { affinity: 'sheet-x' })
+        .finally(() => order.push('edit'));
+      const [b, e] = await Promise.all([busy, edit]);
+      expect(b.ok).toBe(true);
+      expect(e.cells[11].statements[1].value).toMatchObject({ number: 14, unit: 'm^2' });
+      return { evaluated: e.evaluatedCells, order };
+    } finally {
+      await pool.close();
+    }
+  }
+
+  it('waits for its busy worker, then evaluates there only the edited cell', { timeout: 90_000 }, async () => {
+    const { evaluated, order } = await editWhileBusy(60_000);
+    expect(order).toEqual(['busy', 'edit']);
+    expect(evaluated).toBe(1);
+  });
+
+  it(
+    'takes the free worker once it has waited spillAfterMs, and evaluates the whole sheet there',
+    { timeout: 90_000 },
+    async () => {
+      const { evaluated, order } = await editWhileBusy(100);
+      expect(order).toEqual(['edit', 'busy']);
+      expect(evaluated).toBe(12);
+    },
+  );
+});

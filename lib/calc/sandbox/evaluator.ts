@@ -64,6 +64,11 @@ export interface SandboxOptions {
   /** How long a cell that hit a limit is answered with that error without running it again, in ms. Default 10 minutes. */
   rememberLimitMs?: number;
   /**
+   * How long a request with an affinity waits for its own worker while another is free before it
+   * takes the free one, in ms (SPILL_AFTER_MS below). Default 500.
+   */
+  spillAfterMs?: number;
+  /**
    * Load the engine from its TypeScript sources through tsx even when a prebuilt worker for them is
    * built (worker-bundle.ts); for the test that compares the two. Default false.
    */
@@ -277,8 +282,22 @@ interface Ticket {
   userId: string | null;
   kind: 'interactive' | 'save';
   affinity: number | null;
+  /** When it started waiting (Date.now()). */
+  since: number;
   grant: (thread: EvaluationThread) => void;
 }
+
+/**
+ * A request with an affinity (a sheet) waits this long for its own worker while another is free.
+ * Its worker holds the sheet's cells in its cache, and the cells it sent before, which the server
+ * keeps (cell-transfer.ts): there, an edit re-evaluates the cells it affects and sends those. Any
+ * other worker evaluates the whole sheet and sends all of it, and its cache makes room for it by
+ * dropping cells of its own sheets. With 16 clients saving 500-cell sheets on 2 workers, about half
+ * of the saves went to the other worker that way (every cell's result received, frozen and digested
+ * again) while their own was busy for tens of milliseconds. Past this wait, a slow cell on the
+ * sheet's worker (up to the time limit) does not hold the request back any longer.
+ */
+const SPILL_AFTER_MS = 500;
 
 /** Whole results kept in this process, so that the same sheet asked again (a save right after the editor's evaluation) is not sent to a worker. */
 const RECENT_RESULTS = 24;
@@ -447,6 +466,7 @@ export class SandboxedEvaluator {
         userId,
         kind,
         affinity,
+        since: Date.now(),
         grant: (thread) => {
           if (budget) budget.running++;
           resolve({
@@ -469,22 +489,47 @@ export class SandboxedEvaluator {
     });
   }
 
-  /** Hands free workers to waiting requests: saves first, then interactive ones within their user's running share. */
+  /**
+   * Hands free workers to waiting requests: saves first, then interactive ones within their user's
+   * running share, each in the order they came. A request with an affinity takes its own worker;
+   * while that one is busy it leaves a free one to the requests after it, for up to spillAfterMs
+   * (SPILL_AFTER_MS), then takes any.
+   */
   private dispatch(): void {
-    while (this.idle.size > 0 && this.waiting.length > 0) {
-      const running = (t: Ticket) => (t.userId === null ? 0 : (this.budgets.get(t.userId)?.running ?? 0));
-      const index =
-        this.waiting.findIndex((t) => t.kind === 'save') >= 0
-          ? this.waiting.findIndex((t) => t.kind === 'save')
-          : this.waiting.findIndex((t) => t.userId === null || running(t) < this.perUserRunning);
-      if (index < 0) return;
-      const [ticket] = this.waiting.splice(index, 1);
+    const now = Date.now();
+    const spillAfter = this.options.spillAfterMs ?? SPILL_AFTER_MS;
+    let nextSpill = Infinity;
+    const running = (t: Ticket) => (t.userId === null ? 0 : (this.budgets.get(t.userId)?.running ?? 0));
+    const order = [...this.waiting.filter((t) => t.kind === 'save'), ...this.waiting.filter((t) => t.kind !== 'save')];
+    for (const ticket of order) {
+      if (this.idle.size === 0) break;
+      if (ticket.kind !== 'save' && ticket.userId !== null && running(ticket) >= this.perUserRunning) continue;
       const preferred = ticket.affinity === null ? null : this.threads[ticket.affinity];
-      const thread = preferred && this.idle.has(preferred) ? preferred : this.pickIdle();
+      let thread: EvaluationThread;
+      if (preferred && this.idle.has(preferred)) thread = preferred;
+      else if (!preferred || now - ticket.since >= spillAfter) thread = this.pickIdle();
+      else {
+        nextSpill = Math.min(nextSpill, ticket.since + spillAfter);
+        continue;
+      }
+      this.waiting.splice(this.waiting.indexOf(ticket), 1);
       this.idle.delete(thread);
       ticket.grant(thread);
     }
+    // A request left waiting for its busy worker while another is free: looked at again when its wait is up.
+    if (nextSpill < Infinity && this.idle.size > 0 && !this.spillTimer) {
+      this.spillTimer = setTimeout(
+        () => {
+          this.spillTimer = null;
+          this.dispatch();
+        },
+        Math.max(0, nextSpill - now),
+      );
+      this.spillTimer.unref();
+    }
   }
+
+  private spillTimer: NodeJS.Timeout | null = null;
 
   private pickIdle(): EvaluationThread {
     const free = [...this.idle];
@@ -586,6 +631,8 @@ export class SandboxedEvaluator {
   }
 
   async close(): Promise<void> {
+    if (this.spillTimer) clearTimeout(this.spillTimer);
+    this.spillTimer = null;
     await Promise.all(this.threads.map((t) => t.close()));
   }
 }
