@@ -106,6 +106,8 @@ export function createSheetEngine(): SheetEngine {
   };
   const cellCache = new Map<string, CachedCell>();
   const recentPlans = new Map<string, SheetPlan>();
+  /** The result of a text cell, by its position and id (it says nothing else). */
+  const textResults = new Map<string, CellResult>();
   // An input table's value (columns as vectors of quantities), built once per attachment content.
   const tableCache = new Map<string, Record<string, unknown>>();
   const tableValue = (table: InputTable): Record<string, unknown> => {
@@ -335,17 +337,25 @@ export function createSheetEngine(): SheetEngine {
     for (const [ci, cell] of cells.entries()) {
       const cellPlan = plan.cells[ci];
       if (!cellPlan) {
-        results.push({
-          id: cell.id,
-          index: ci,
-          kind: 'text',
-          ok: true,
-          error: null,
-          statements: [],
-          warnings: [],
-          defines: [],
-          uses: [],
-        });
+        // The same object for the same cell at the same place, as for a cached calculation cell: a
+        // result sent before is not sent again (sandbox/cell-transfer.ts), nor digested again by a save.
+        const textKey = `${ci}\0${cell.id}`;
+        let text = textResults.get(textKey);
+        if (!text) {
+          text = {
+            id: cell.id,
+            index: ci,
+            kind: 'text',
+            ok: true,
+            error: null,
+            statements: [],
+            warnings: [],
+            defines: [],
+            uses: [],
+          };
+          remember(textResults, textKey, text, LIMITS.cellCacheEntries);
+        }
+        results.push(text);
         continue;
       }
       const statements = parsed[ci];
@@ -508,6 +518,7 @@ export function createSheetEngine(): SheetEngine {
     clearCache: () => {
       cellCache.clear();
       recentPlans.clear();
+      textResults.clear();
       parser.clear();
     },
   };

@@ -30,14 +30,21 @@ describe('sending results between worker and server', () => {
 
     const second = engine.evaluate(sheet('300 MeV'), { significantFigures: 6 });
     const two = sender.pack(second, false, LIMIT);
-    // Cells a and b changed (b reads E_k); c is the object sent before. (A text cell's result is
-    // made afresh at each evaluation, so it goes in full; it is small.)
-    expect(two.packed.cells.slice(0, 3).map((c) => typeof c)).toEqual(['object', 'object', 'number']);
+    // Cells a and b changed (b reads E_k); c and the text cell d are the objects sent before.
+    expect(two.packed.cells.map((c) => typeof c)).toEqual(['object', 'object', 'number', 'number']);
     expect(two.bytes).toBe(jsonSizeAtMost(second, LIMIT));
     const rebuilt = receiver.unpack(carried(two.packed))!;
     expect(rebuilt).toEqual(JSON.parse(JSON.stringify(second)));
     expect(rebuilt.ok).toBe(true);
     expect(rebuilt.cells[1].statements[0].value!.number).toBe(second.cells[1].statements[0].value!.number);
+
+    // The text cell moved first: a new result, which says where it now stands.
+    const moved = engine.evaluate([sheet('300 MeV')[3], ...sheet('300 MeV').slice(0, 3)], { significantFigures: 6 });
+    expect(moved.cells[0]).not.toBe(second.cells[3]);
+    expect(moved.cells[0]).toMatchObject({ id: 'd', index: 0, kind: 'text' });
+    const three = sender.pack(moved, false, LIMIT);
+    expect(typeof three.packed.cells[0]).toBe('object');
+    expect(receiver.unpack(carried(three.packed))).toEqual(JSON.parse(JSON.stringify(moved)));
   });
 
   it('answers null when a cell named is no longer kept, and a full reply then rebuilds it', () => {
