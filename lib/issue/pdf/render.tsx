@@ -583,23 +583,25 @@ function resultText(st: StatementResult): string | null {
 function Statement({ st, typeset }: { st: StatementResult; typeset: Typeset }) {
   const result = resultText(st);
   const showSubstituted = st.substitutedTex && st.substitutedTex !== st.tex;
+  // The statement's box is never split by a page, so its tags ride on its own elements (`whole`):
+  // a sheet has hundreds of statements, and markers would be eight layout nodes each.
   return (
-    <View
-      wrap={false}
-      style={{ flexDirection: 'row', paddingVertical: 3, borderTopWidth: 0.5, borderTopColor: C.rule }}
-    >
-      <Group as="Div" inRow>
-        <Leaf as="Lbl" inRow>
+    <Group as="Div" whole>
+      <View
+        wrap={false}
+        style={{ flexDirection: 'row', paddingVertical: 3, borderTopWidth: 0.5, borderTopColor: C.rule }}
+      >
+        <Leaf as="Lbl" whole>
           <Text style={[s.mono, { width: GUTTER, fontSize: 7, color: C.muted, paddingTop: 0.5 }]}>{`L${st.line}`}</Text>
         </Leaf>
         <View style={{ flex: 1 }}>
-          <Leaf as="Code">
+          <Leaf as="Code" whole>
             <Text style={[s.mono, { fontSize: 7.5, color: C.muted }]}>{shown(st.source)}</Text>
           </Leaf>
           {st.tex ? <Formula tex={st.tex} typeset={typeset} maxWidth={FORMULA_WIDTH} /> : null}
           {showSubstituted ? <Formula tex={st.substitutedTex!} typeset={typeset} maxWidth={FORMULA_WIDTH} /> : null}
           {st.error ? (
-            <Leaf as="P">
+            <Leaf as="P" whole>
               <Text
                 style={{
                   color: C.fail,
@@ -611,7 +613,7 @@ function Statement({ st, typeset }: { st: StatementResult; typeset: Typeset }) {
               >{`Error: ${st.error}`}</Text>
             </Leaf>
           ) : st.criterion ? (
-            <Leaf as="P">
+            <Leaf as="P" whole>
               <View style={{ flexDirection: 'row', alignItems: 'center', marginTop: 1 }}>
                 <Text
                   style={{
@@ -632,7 +634,7 @@ function Statement({ st, typeset }: { st: StatementResult; typeset: Typeset }) {
               </View>
             </Leaf>
           ) : result ? (
-            <Leaf as="P">
+            <Leaf as="P" whole>
               <Text style={{ fontWeight: 600, fontSize: 10, marginTop: 1 }}>{result}</Text>
             </Leaf>
           ) : null}
@@ -643,7 +645,7 @@ function Statement({ st, typeset }: { st: StatementResult; typeset: Typeset }) {
           ) : null}
           {(st.warnings ?? []).map((w, i) => (
             // The physics lint's warnings (absent in results stored before they existed: none), in the caution colours and introduced by the word.
-            <Leaf key={`w${i}`} as="P">
+            <Leaf key={`w${i}`} as="P" whole>
               <Text
                 style={{
                   color: C.caution,
@@ -666,8 +668,8 @@ function Statement({ st, typeset }: { st: StatementResult; typeset: Typeset }) {
             </Leaf>
           ) : null}
         </View>
-      </Group>
-    </View>
+      </View>
+    </Group>
   );
 }
 

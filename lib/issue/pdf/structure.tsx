@@ -22,7 +22,7 @@
 // copy: the one react-pdf draws with, whose prototype `install` patches.
 import { Canvas } from '@react-pdf/renderer';
 import PDFDocument from 'pdfkit';
-import type { ReactElement, ReactNode } from 'react';
+import { Children, cloneElement, isValidElement, type ReactElement, type ReactNode } from 'react';
 
 export type LeafType =
   | 'H1'
@@ -51,6 +51,7 @@ type Instruction =
   | { op: 'end-artifact' };
 
 const INSTRUCTION = Symbol.for('worldsheet.pdf-structure');
+const INSTRUCTIONS = Symbol.for('worldsheet.pdf-structure-after');
 const DIRECT = Symbol.for('worldsheet.pdf-direct');
 
 /**
@@ -106,6 +107,8 @@ interface Doc {
   miterLimit(value: unknown): Doc;
   addPage(options?: unknown): Doc;
   initMarkings(options: Record<string, unknown>): void;
+  transform(...args: unknown[]): Doc;
+  addNamedDestination(name: unknown, ...args: unknown[]): Doc;
 }
 
 interface State {
@@ -297,6 +300,28 @@ export function installPdfStructure(): void {
     }
     return miterLimit.call(this, value);
   };
+  // A whole element's instructions (see `onElement`): before it draws, as a transform operation
+  // react-pdf applies to the element (a "matrix" whose only value is the instruction); after it
+  // and its children have drawn, as the element's named destination.
+  const transform = proto.transform;
+  proto.transform = function (this: Doc, ...args: unknown[]) {
+    const value = args[0];
+    if (value && typeof value === 'object' && INSTRUCTION in value) {
+      const st = states.get(this);
+      if (st) act(this, st, (value as { [INSTRUCTION]: Instruction })[INSTRUCTION]);
+      return this;
+    }
+    return transform.apply(this, args);
+  };
+  const addNamedDestination = proto.addNamedDestination;
+  proto.addNamedDestination = function (this: Doc, name: unknown, ...args: unknown[]) {
+    if (name && typeof name === 'object' && INSTRUCTIONS in name) {
+      const st = states.get(this);
+      if (st) for (const ins of (name as { [INSTRUCTIONS]: Instruction[] })[INSTRUCTIONS]) act(this, st, ins);
+      return this;
+    }
+    return addNamedDestination.call(this, name, ...args);
+  };
 }
 
 /** How many structure instructions this process has acted on: a rendering that adds none was drawn untagged. */
@@ -322,18 +347,47 @@ function Marker({ instruction, absolute = false }: { instruction: Instruction; a
   );
 }
 
-/** Tags what `children` draw as one structure element of a leaf type (a heading, a paragraph, a table cell, a formula…). */
+/**
+ * `element` (one react-pdf View or Text, never split by a page) carrying `before` and `after`
+ * itself, instead of markers around it: react-pdf applies an element's `transform` operations
+ * before drawing it and adds its `id` as a named destination after drawing it and its children,
+ * and `installPdfStructure` teaches pdfkit to act on an instruction passed either way. No layout
+ * node is added (a 200-cell sheet's statements had some 5,000 markers). An element split over a
+ * page would act on them on each page, so `whole` is only for elements that are not split (inside
+ * a `wrap={false}` box).
+ */
+function onElement(children: ReactNode, before: Instruction[], after: Instruction[]): ReactElement {
+  const element = Children.only(children);
+  if (!isValidElement(element) || typeof element.type !== 'string')
+    throw new Error('PDF structure: a whole leaf or group is one react-pdf element (a View or a Text).');
+  const props = element.props as { transform?: unknown; id?: unknown; style?: unknown };
+  const styles = ([] as unknown[]).concat(props.style ?? []) as Array<Record<string, unknown> | null | undefined>;
+  if (props.transform !== undefined || props.id !== undefined || styles.some((st) => st && 'transform' in st))
+    throw new Error('PDF structure: a whole leaf or group cannot have a transform or an id of its own.');
+  return cloneElement(element as ReactElement<Record<string, unknown>>, {
+    transform: before.map((ins) => ({ operation: 'matrix', value: [{ [INSTRUCTION]: ins }] })),
+    id: { [INSTRUCTIONS]: after },
+  });
+}
+
+/**
+ * Tags what `children` draw as one structure element of a leaf type (a heading, a paragraph, a table cell, a formula…).
+ * With `whole`, `children` is one View or Text that a page never splits, and carries the tags itself (`onElement`).
+ */
 export function Leaf({
   as,
   alt,
   inRow = false,
+  whole = false,
   children,
 }: {
   as: LeafType;
   alt?: string;
   inRow?: boolean;
+  whole?: boolean;
   children: ReactNode;
 }): ReactElement {
+  if (whole) return onElement(children, [{ op: 'leaf', type: as, ...(alt ? { alt } : {}) }], [{ op: 'end-leaf' }]);
   return (
     <>
       <Marker instruction={{ op: 'leaf', type: as, ...(alt ? { alt } : {}) }} absolute={inRow} />
@@ -347,12 +401,16 @@ export function Leaf({
 export function Group({
   as,
   inRow = false,
+  whole = false,
   children,
 }: {
   as: GroupType;
   inRow?: boolean;
+  /** `children` is one View or Text that a page never splits, and carries the tags itself (`onElement`). */
+  whole?: boolean;
   children: ReactNode;
 }): ReactElement {
+  if (whole) return onElement(children, [{ op: 'group', type: as }], [{ op: 'end-group' }]);
   return (
     <>
       <Marker instruction={{ op: 'group', type: as }} absolute={inRow} />
