@@ -1,12 +1,13 @@
-// Three tiers, run one after the other by `npm test` (lib/ops/test-tiers.ts) and each on its own with
-// `npm run test:unit`, `test:database`, `test:browser`:
+// Four tiers, run by `npm test` (lib/ops/test-tiers.ts) and each on its own with `npm run test:unit`,
+// `test:database`, `test:processes`, `test:browser`:
 //   unit      pure code: files in parallel, no PostgreSQL, no fakes, no table truncation, no server or
 //             worker processes of its own (the PDF tests only read their output with poppler's tools);
 //             one module cache per worker (isolate: false), so mathjs and the library load once;
 //   database  the real PostgreSQL test cluster, mail capture and object store (tests/setup/), one file at a
-//             time because the files share one database and reset it between tests; also tests/processes/,
-//             the tests that start processes of their own (the calculation CLI, the sandbox's time and
-//             memory limits): not pure code, and their time is spent waiting on those processes;
+//             time because the files share one database and reset it between tests;
+//   processes tests/processes/, the tests that start processes of their own (the calculation CLI, the
+//             sandbox's workers, time and memory limits): no database; their time is spent waiting on
+//             those processes, so `npm test` runs them beside the database tier;
 //   browser   the built app in headless Chromium and over HTTP (tests/e2e/), on the same services.
 // A new pure test goes in a unit folder (or the UNIT list); anything else lands in the database tier.
 import path from 'node:path';
@@ -44,6 +45,8 @@ export const UNIT = [
   'tests/audit/sentences.test.ts',
 ];
 export const BROWSER = ['tests/e2e/**/*.test.ts'];
+/** Tests that start processes of their own (the calculation CLI, the sandbox's workers and limits): no database. */
+export const PROCESSES = ['tests/processes/**/*.test.ts'];
 
 const services = {
   globalSetup: ['tests/setup/global-setup.ts'],
@@ -66,7 +69,17 @@ export default defineConfig({
       },
       {
         extends: true,
-        test: { name: 'database', include: ['tests/**/*.test.ts'], exclude: [...UNIT, ...BROWSER], ...services },
+        test: {
+          name: 'database',
+          include: ['tests/**/*.test.ts'],
+          exclude: [...UNIT, ...BROWSER, ...PROCESSES],
+          ...services,
+        },
+      },
+      {
+        extends: true,
+        // One file at a time: their time is spent waiting on the processes they start and on real time limits.
+        test: { name: 'processes', include: PROCESSES, fileParallelism: false },
       },
       {
         extends: true,

@@ -220,8 +220,8 @@ async function test(supervisor: Supervisor, args: string[]): Promise<void> {
     async (stage) => {
       if (!stage.background)
         return waitForExit(supervisor.spawn(stage.name, stage.command[0], stage.command.slice(1), { cwd: root, env }));
-      // Beside the tiers: its output in a file, shown only if it fails.
-      const logFile = path.join(root, '.data', 'app-build.log');
+      // Beside the tiers: its output in a file, shown if it fails (a test tier's last lines also when it passes).
+      const logFile = path.join(root, stage.log ?? path.join('.data', 'background.log'));
       mkdirSync(path.dirname(logFile), { recursive: true });
       const out = openSync(logFile, 'w');
       // In a process group of its own, so that stopping it stops `next build` under it too.
@@ -234,6 +234,8 @@ async function test(supervisor: Supervisor, args: string[]): Promise<void> {
       const exit = await waitForExit(child);
       closeSync(out);
       if (exit) console.error(`[worldsheet] the ${stage.name} failed:\n${readFileSync(logFile, 'utf8')}`);
+      else if (stage.name.endsWith(' tier'))
+        log(`the ${stage.name} passed:\n${readFileSync(logFile, 'utf8').trimEnd().split('\n').slice(-6).join('\n')}`);
       return exit;
     },
     log,

@@ -1,15 +1,17 @@
-// `npm test`: the static checks (types, lint, format, unused code), then the three test tiers of tests/vitest.config.ts one after the other
-// (unit, database, browser), each its own vitest run so only the tiers that need PostgreSQL and the fakes
-// start them. With file arguments (`npm test -- tests/calc/x.test.ts tests/e2e/y.test.ts`) the static
-// checks are skipped and only the tiers holding those files run; `--tier unit|database|browser` runs one.
-// When the browser tier runs after another tier, the production app it serves is built beside the tiers
-// before it (a background stage; its output goes to a log file, printed if it fails): on two CPUs the
-// database tier, one file at a time, leaves room for it. Prints each stage's time at the end.
+// `npm test`: the static checks (types, lint, format, unused code), then the four test tiers of
+// tests/vitest.config.ts (unit, database, processes, browser), each its own vitest run so only the tiers
+// that need PostgreSQL and the fakes start them. With file arguments (`npm test -- tests/calc/x.test.ts
+// tests/e2e/y.test.ts`) the static checks are skipped and only the tiers holding those files run;
+// `--tier unit|database|processes|browser` runs one. Two stages run in the background, each with its
+// output in a log file (printed if it fails; a test tier's last lines also when it passes): when the
+// browser tier runs after another tier, the production app it serves is built beside the tiers before
+// it; and with both, the processes tier runs beside the database tier. On two CPUs the database tier,
+// one file at a time, leaves room for them. Prints each stage's time at the end.
 import path from 'node:path';
-import { BROWSER, UNIT } from '../../tests/vitest.config';
+import { BROWSER, PROCESSES, UNIT } from '../../tests/vitest.config';
 import { inheritedEnvironment } from '../config';
 
-const TIERS = ['unit', 'database', 'browser'] as const;
+const TIERS = ['unit', 'database', 'processes', 'browser'] as const;
 export type Tier = (typeof TIERS)[number];
 
 /** A glob of the vitest config (`**` for any folders, `*` within a name) as a regular expression. */
@@ -22,20 +24,26 @@ function globPattern(glob: string): RegExp {
 }
 const BROWSER_PATTERNS = BROWSER.map(globPattern);
 const UNIT_PATTERNS = UNIT.map(globPattern);
+const PROCESSES_PATTERNS = PROCESSES.map(globPattern);
 
 /** Which tier a test file belongs to, by the same globs the vitest projects use. */
 export function tierOf(file: string): Tier {
   const rel = file.split(path.sep).join('/').replace(/^\.\//, '');
   if (BROWSER_PATTERNS.some((p) => p.test(rel))) return 'browser';
   if (UNIT_PATTERNS.some((p) => p.test(rel))) return 'unit';
+  if (PROCESSES_PATTERNS.some((p) => p.test(rel))) return 'processes';
   return 'database';
 }
 
 export type Stage = {
   name: string;
   command: string[];
-  /** Started and not waited for: the stage named by a later stage's `after`. */
+  /**
+   * Started and not waited for: the stage named by a later stage's `after`, or else waited for once
+   * the other stages are done. Its output goes to `log` (under the project).
+   */
   background?: boolean;
+  log?: string;
   /** A background stage this one waits for (and fails with) before it starts. */
   after?: string;
 };
@@ -52,9 +60,24 @@ function buildBeside(stages: Stage[], root: string, node: string): Stage[] {
     name: APP_BUILD,
     command: [node, '--import', 'tsx', path.join(root, 'lib', 'ops', 'build-app.ts'), distDir],
     background: true,
+    log: path.join('.data', 'app-build.log'),
   };
   const out = stages.map((s, i) => (i === browser ? { ...s, after: APP_BUILD } : s));
   out.splice(firstTier, 0, build);
+  return out;
+}
+
+/** With the database tier: the processes tier runs beside it, in the background. */
+function processesBeside(stages: Stage[]): Stage[] {
+  const database = stages.findIndex((s) => s.name === 'database tier');
+  const processes = stages.findIndex((s) => s.name === 'processes tier');
+  if (database < 0 || processes < 0) return stages;
+  const out = stages.filter((_, i) => i !== processes);
+  out.splice(out.indexOf(stages[database]), 0, {
+    ...stages[processes],
+    background: true,
+    log: path.join('.data', 'processes-tier.log'),
+  });
   return out;
 }
 
@@ -100,20 +123,21 @@ export function plan(args: string[], root: string): Stage[] {
         },
       );
     for (const tier of onlyTier ? [onlyTier] : TIERS) stages.push(vitest(tier, flags));
-    return buildBeside(stages, root, node);
+    return buildBeside(processesBeside(stages), root, node);
   }
   // A folder argument may hold files of several tiers: give it to each tier, vitest filters by its globs.
   const tiers = TIERS.filter((tier) => (onlyTier ? tier === onlyTier : true))
     .map((tier) => ({ tier, mine: files.filter((f) => !f.endsWith('.test.ts') || tierOf(f) === tier) }))
     .filter(({ mine, tier }) => mine.some((f) => f.endsWith('.test.ts') || couldHold(f, tier)))
     .map(({ tier, mine }) => vitest(tier, ['--passWithNoTests', ...flags, ...mine]));
-  return buildBeside(tiers, root, node);
+  return buildBeside(processesBeside(tiers), root, node);
 }
 
 function couldHold(folder: string, tier: Tier): boolean {
   const f = folder.replace(/\/$/, '');
   if (tier === 'browser') return f === 'tests' || f.startsWith('tests/e2e');
-  return !f.startsWith('tests/e2e');
+  if (tier === 'processes') return f === 'tests' || f.startsWith('tests/processes');
+  return !f.startsWith('tests/e2e') && !f.startsWith('tests/processes');
 }
 
 /**
@@ -152,6 +176,13 @@ export async function runStages(
     code = await run(stage);
     times.push(timed(code));
     if (code) break;
+  }
+  // A background stage no stage waited for is waited for now; its failure is the run's. (After a
+  // failure the run stops: its runner stops what is still going.)
+  for (const stage of stages) {
+    if (code || !stage.background || stages.some((s) => s.after === stage.name)) continue;
+    log(`── waiting for the ${stage.name}`);
+    code = await background.get(stage.name)!;
   }
   log(`Times: ${times.join('; ')}`);
   return code;

@@ -13,13 +13,13 @@ describe('test tiers', () => {
     expect(tierOf('tests/e2e/journey.test.ts')).toBe('browser');
     expect(tierOf('tests/http/csp-reports.test.ts')).toBe('database');
     expect(tierOf('tests/checks/workflow.test.ts')).toBe('database');
-    // Tests that start processes of their own wait on them: not in the fast tier.
-    expect(tierOf('tests/processes/sandbox.test.ts')).toBe('database');
-    expect(tierOf('tests/processes/calc-cli.test.ts')).toBe('database');
+    // Tests that start processes of their own wait on them: a tier of their own, not the fast one.
+    expect(tierOf('tests/processes/sandbox.test.ts')).toBe('processes');
+    expect(tierOf('tests/processes/calc-cli.test.ts')).toBe('processes');
     expect(tierOf(path.join('.', 'tests', 'ui', 'contrast.test.ts'))).toBe('unit');
   });
 
-  it('runs the static checks first, then the three tiers, with no arguments', () => {
+  it('runs the static checks first, then the four tiers, with no arguments', () => {
     expect(plan([], root).map((s) => s.name)).toEqual([
       'types (tsc --noEmit)',
       'lint (eslint)',
@@ -27,13 +27,26 @@ describe('test tiers', () => {
       'unused code (knip)',
       'app build (beside the tiers)',
       'unit tier',
+      'processes tier',
       'database tier',
       'browser tier',
     ]);
     const stages = plan([], root);
     expect(stages.find((s) => s.name === 'app build (beside the tiers)')).toMatchObject({ background: true });
     expect(stages.find((s) => s.name === 'browser tier')?.after).toBe('app build (beside the tiers)');
+    // The processes tier beside the database tier, its output in a log of its own.
+    expect(stages.find((s) => s.name === 'processes tier')).toMatchObject({
+      background: true,
+      log: path.join('.data', 'processes-tier.log'),
+    });
+    expect(stages.find((s) => s.name === 'processes tier')?.command).toContain('processes');
     expect(plan(['--tier', 'unit'], root).map((s) => s.name)).toEqual(['unit tier']);
+    // Alone, or named by a file, it runs in the foreground.
+    expect(plan(['--tier', 'processes'], root)).toEqual([expect.objectContaining({ name: 'processes tier' })]);
+    expect(plan(['--tier', 'processes'], root)[0].background).toBeUndefined();
+    expect(plan(['tests/processes/sandbox.test.ts'], root).map((s) => [s.name, s.background])).toEqual([
+      ['processes tier', undefined],
+    ]);
     // The browser tier alone builds the app itself, as before (the harness's buildIfStale).
     expect(plan(['--tier', 'browser'], root).map((s) => s.name)).toEqual(['browser tier']);
   });
@@ -67,6 +80,28 @@ describe('test tiers', () => {
     expect(events).toEqual(['start build', 'start one']);
   });
 
+  it('waits at the end for a background stage no stage waits for, and fails with it', async () => {
+    const stages: Stage[] = [
+      { name: 'beside', command: [], background: true },
+      { name: 'one', command: [] },
+    ];
+    for (const exit of [0, 1]) {
+      let finish: (code: number) => void = () => {};
+      let settled = false;
+      const run = (stage: Stage) =>
+        stage.background ? new Promise<number>((resolve) => (finish = resolve)) : Promise.resolve(0);
+      const done = runStages(stages, run, () => {}).then((code) => {
+        settled = true;
+        return code;
+      });
+      await new Promise((r) => setTimeout(r, 10));
+      // "one" is done, the background stage is not: the run is not over.
+      expect(settled).toBe(false);
+      finish(exit);
+      expect(await done).toBe(exit);
+    }
+  });
+
   it('runs only the tiers holding the files named', () => {
     const stages = plan(['tests/calc/format.test.ts', 'tests/e2e/landing.test.ts', '-t', 'x'], root);
     expect(stages.map((s) => s.name)).toEqual(['app build (beside the tiers)', 'unit tier', 'browser tier']);
@@ -74,5 +109,13 @@ describe('test tiers', () => {
     expect(stages[2].command.at(-1)).toBe('tests/e2e/landing.test.ts');
     expect(plan(['tests/e2e/landing.test.ts'], root).map((s) => s.name)).toEqual(['browser tier']);
     expect(plan(['tests/sheets'], root).map((s) => s.name)).toEqual(['unit tier', 'database tier']);
+    // A folder that may hold files of every tier: the processes tier beside the database tier.
+    expect(plan(['tests'], root).map((s) => s.name)).toEqual([
+      'app build (beside the tiers)',
+      'unit tier',
+      'processes tier',
+      'database tier',
+      'browser tier',
+    ]);
   });
 });
