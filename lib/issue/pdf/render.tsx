@@ -212,7 +212,7 @@ function TitleBlock({ data }: { data: RevisionPdfData }) {
     // Page furniture (the body's heading, revision history and signatures say what it says): the
     // fixed box draws nothing itself, so that its frame is inside the artifact.
     <View fixed style={{ position: 'absolute', left: MARGIN_X, right: MARGIN_X, bottom: TITLE_BLOCK_BOTTOM }}>
-      <PageArtifact>
+      <PageArtifact whole>
         <View style={{ borderWidth: 1.25, borderColor: C.ink, backgroundColor: '#ffffff' }}>
           <View style={row(0)}>
             <TitleField label="Legal owner" width="38%" valueStyle={{ fontWeight: 700 }}>
@@ -269,7 +269,7 @@ function RunningHead({ data }: { data: RevisionPdfData }) {
   return (
     // Page furniture; the fixed box draws nothing itself, so that its rule is inside the artifact.
     <View fixed style={s.runningHeadBox}>
-      <PageArtifact>
+      <PageArtifact whole>
         <View style={s.runningHead}>
           <Text>{t.legalOwner}</Text>
           <Text>{`${t.identificationNumber} · Rev. ${t.revisionIndex} · ${t.status}`}</Text>
@@ -788,7 +788,7 @@ function cellElements(data: RevisionPdfData, ctx: CellContext): ReactElement[] {
         }}
         minPresenceAhead={40}
       >
-        <Leaf as="H3" inRow>
+        <Leaf as="H3" whole>
           <Text
             style={{ fontSize: 7.5, fontWeight: 700, color: C.accent }}
           >{`Cell ${index + 1} · ${cell.kind === 'calc' ? 'calculation' : 'text'}`}</Text>

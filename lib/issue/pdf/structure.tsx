@@ -300,7 +300,7 @@ export function installPdfStructure(): void {
     }
     return miterLimit.call(this, value);
   };
-  // A whole element's instructions (see `onElement`): before it draws, as a transform operation
+  // A whole element's instructions (see `onElements`): before it draws, as a transform operation
   // react-pdf applies to the element (a "matrix" whose only value is the instruction); after it
   // and its children have drawn, as the element's named destination.
   const transform = proto.transform;
@@ -348,31 +348,45 @@ function Marker({ instruction, absolute = false }: { instruction: Instruction; a
 }
 
 /**
- * `element` (one react-pdf View or Text, never split by a page) carrying `before` and `after`
- * itself, instead of markers around it: react-pdf applies an element's `transform` operations
- * before drawing it and adds its `id` as a named destination after drawing it and its children,
- * and `installPdfStructure` teaches pdfkit to act on an instruction passed either way. No layout
- * node is added (a 200-cell sheet's statements had some 5,000 markers). An element split over a
- * page would act on them on each page, so `whole` is only for elements that are not split (inside
- * a `wrap={false}` box).
+ * `children` (react-pdf Views or Texts side by side, none split by a page) carrying `before` and
+ * `after` themselves, instead of markers around them: react-pdf applies an element's `transform`
+ * operations before drawing it and adds its `id` as a named destination after drawing it and its
+ * children, and `installPdfStructure` teaches pdfkit to act on an instruction passed either way.
+ * The first element carries `before`, the last `after`; no layout node is added (a 200-cell
+ * sheet's statements had some 5,000 markers). An element split over a page would act on them on
+ * each page, so `whole` is only for elements that are not split (inside a `wrap={false}` box, in
+ * a row, or fixed page furniture).
  */
-function onElement(children: ReactNode, before: Instruction[], after: Instruction[]): ReactElement {
-  const element = Children.only(children);
-  if (!isValidElement(element) || typeof element.type !== 'string')
-    throw new Error('PDF structure: a whole leaf or group is one react-pdf element (a View or a Text).');
-  const props = element.props as { transform?: unknown; id?: unknown; style?: unknown };
-  const styles = ([] as unknown[]).concat(props.style ?? []) as Array<Record<string, unknown> | null | undefined>;
-  if (props.transform !== undefined || props.id !== undefined || styles.some((st) => st && 'transform' in st))
-    throw new Error('PDF structure: a whole leaf or group cannot have a transform or an id of its own.');
-  return cloneElement(element as ReactElement<Record<string, unknown>>, {
-    transform: before.map((ins) => ({ operation: 'matrix', value: [{ [INSTRUCTION]: ins }] })),
-    id: { [INSTRUCTIONS]: after },
-  });
+function onElements(children: ReactNode, before: Instruction[], after: Instruction[]): ReactElement {
+  const elements = Children.toArray(children);
+  if (elements.length === 0) throw new Error('PDF structure: a whole leaf or group has no element to carry its tags.');
+  for (const element of elements) {
+    if (!isValidElement(element) || typeof element.type !== 'string')
+      throw new Error('PDF structure: a whole leaf or group is made of react-pdf elements (Views or Texts).');
+  }
+  const carry = (element: ReactElement, tags: Record<string, unknown>) => {
+    const props = element.props as { transform?: unknown; id?: unknown; style?: unknown };
+    const styles = ([] as unknown[]).concat(props.style ?? []) as Array<Record<string, unknown> | null | undefined>;
+    if (props.transform !== undefined || props.id !== undefined || styles.some((st) => st && 'transform' in st))
+      throw new Error('PDF structure: an element carrying tags cannot have a transform or an id of its own.');
+    return cloneElement(element as ReactElement<Record<string, unknown>>, tags);
+  };
+  const transform = before.map((ins) => ({ operation: 'matrix', value: [{ [INSTRUCTION]: ins }] }));
+  const id = { [INSTRUCTIONS]: after };
+  const list = elements as ReactElement[];
+  if (list.length === 1) return carry(list[0], { transform, id });
+  return (
+    <>
+      {carry(list[0], { transform })}
+      {list.slice(1, -1)}
+      {carry(list[list.length - 1], { id })}
+    </>
+  );
 }
 
 /**
  * Tags what `children` draw as one structure element of a leaf type (a heading, a paragraph, a table cell, a formula…).
- * With `whole`, `children` is one View or Text that a page never splits, and carries the tags itself (`onElement`).
+ * With `whole`, `children` are Views or Texts that a page never splits, and carry the tags themselves (`onElements`).
  */
 export function Leaf({
   as,
@@ -387,7 +401,7 @@ export function Leaf({
   whole?: boolean;
   children: ReactNode;
 }): ReactElement {
-  if (whole) return onElement(children, [{ op: 'leaf', type: as, ...(alt ? { alt } : {}) }], [{ op: 'end-leaf' }]);
+  if (whole) return onElements(children, [{ op: 'leaf', type: as, ...(alt ? { alt } : {}) }], [{ op: 'end-leaf' }]);
   return (
     <>
       <Marker instruction={{ op: 'leaf', type: as, ...(alt ? { alt } : {}) }} absolute={inRow} />
@@ -406,11 +420,11 @@ export function Group({
 }: {
   as: GroupType;
   inRow?: boolean;
-  /** `children` is one View or Text that a page never splits, and carries the tags itself (`onElement`). */
+  /** `children` are Views or Texts that a page never splits, and carry the tags themselves (`onElements`). */
   whole?: boolean;
   children: ReactNode;
 }): ReactElement {
-  if (whole) return onElement(children, [{ op: 'group', type: as }], [{ op: 'end-group' }]);
+  if (whole) return onElements(children, [{ op: 'group', type: as }], [{ op: 'end-group' }]);
   return (
     <>
       <Marker instruction={{ op: 'group', type: as }} absolute={inRow} />
@@ -420,8 +434,12 @@ export function Group({
   );
 }
 
-/** Page furniture, repeated on every page (running head, title block): a pagination artifact. */
-export function PageArtifact({ children }: { children: ReactNode }): ReactElement {
+/**
+ * Page furniture, repeated on every page (running head, title block): a pagination artifact. With
+ * `whole`, `children` are Views or Texts that carry the tags themselves (`onElements`).
+ */
+export function PageArtifact({ whole = false, children }: { whole?: boolean; children: ReactNode }): ReactElement {
+  if (whole) return onElements(children, [{ op: 'artifact' }], [{ op: 'end-artifact' }]);
   return (
     <>
       <Marker instruction={{ op: 'artifact' }} absolute />
