@@ -260,9 +260,9 @@ describe('the result caches are per project', () => {
 });
 
 // A sheet's evaluations go to one worker (its affinity), whose cell cache holds the sheet: there an
-// edit evaluates only the cells it affects. When that worker is busy, the request waits for it for
-// a while (spillAfterMs) rather than take a free worker that would evaluate the whole sheet again;
-// past that wait it takes the free one. What is asserted is which worker answered, told by how many
+// edit evaluates only the cells it affects. When that worker is busy, the request waits for it rather
+// than take a free worker that would evaluate the whole sheet again, unless the request holding its
+// worker has held it spillAfterMs: then it takes the free one. What is asserted is which worker answered, told by how many
 // cells it evaluated, and the order of completion, never a duration: the busy worker's cell (2^23
 // calls of a function, over a second on this machine) outlasts the 100 ms wait of the second case.
 // Expected values: the statements' own arithmetic (common practice).
@@ -310,7 +310,7 @@ describe('a sheet waits for its own worker', () => {
   });
 
   it(
-    'takes the free worker once it has waited spillAfterMs, and evaluates the whole sheet there',
+    'takes the free worker once its own has been held spillAfterMs by one request, and evaluates the whole sheet there',
     { timeout: 90_000 },
     async () => {
       const { evaluated, order } = await editWhileBusy(100);

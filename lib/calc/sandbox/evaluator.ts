@@ -64,8 +64,8 @@ export interface SandboxOptions {
   /** How long a cell that hit a limit is answered with that error without running it again, in ms. Default 10 minutes. */
   rememberLimitMs?: number;
   /**
-   * How long a request with an affinity waits for its own worker while another is free before it
-   * takes the free one, in ms (SPILL_AFTER_MS below). Default 500.
+   * How long one request may hold a worker before a request waiting for that worker (its sheet's)
+   * takes another that is free, in ms (SPILL_AFTER_MS below). Default 500.
    */
   spillAfterMs?: number;
   /**
@@ -152,6 +152,8 @@ class ResultTooLarge extends Error {
 
 /** One worker thread, running one request at a time (the pool hands it out only when idle). */
 class EvaluationThread {
+  /** When the request holding this thread was given it (Date.now()), or null while it is free. */
+  heldSince: number | null = null;
   private readonly thread: LimitedWorker<WorkerReply>;
   private readonly progress = new Int32Array(new SharedArrayBuffer(4 * PROGRESS_SLOTS));
   /** The cells this worker sent, so that it need not send them again (cell-transfer.ts). */
@@ -282,20 +284,21 @@ interface Ticket {
   userId: string | null;
   kind: 'interactive' | 'save';
   affinity: number | null;
-  /** When it started waiting (Date.now()). */
-  since: number;
   grant: (thread: EvaluationThread) => void;
 }
 
 /**
- * A request with an affinity (a sheet) waits this long for its own worker while another is free.
- * Its worker holds the sheet's cells in its cache, and the cells it sent before, which the server
- * keeps (cell-transfer.ts): there, an edit re-evaluates the cells it affects and sends those. Any
- * other worker evaluates the whole sheet and sends all of it, and its cache makes room for it by
- * dropping cells of its own sheets. With 16 clients saving 500-cell sheets on 2 workers, about half
- * of the saves went to the other worker that way (every cell's result received, frozen and digested
- * again) while their own was busy for tens of milliseconds. Past this wait, a slow cell on the
- * sheet's worker (up to the time limit) does not hold the request back any longer.
+ * A request with an affinity (a sheet) waits for its own worker while another is free, unless the
+ * request holding its worker has held it this long. Its worker holds the sheet's cells in its cache,
+ * and the cells it sent before, which the server keeps (cell-transfer.ts): there, an edit re-evaluates
+ * the cells it affects and sends those. Any other worker evaluates the whole sheet and sends all of
+ * it, and its cache makes room for it by dropping cells of its own sheets. With 16 clients saving
+ * 500-cell sheets on 2 workers, about half of the saves went to the other worker that way (every
+ * cell's result received, frozen and digested again) while their own was busy for tens of
+ * milliseconds. Waiting behind short requests is what a busy server should do (going elsewhere only
+ * adds a whole evaluation: with a limit on the wait instead, the saves that waited longest under load
+ * went elsewhere and took longest of all); a slow request on the sheet's worker (up to the time limit)
+ * no longer holds the request back once it has run this long.
  */
 const SPILL_AFTER_MS = 500;
 
@@ -466,7 +469,6 @@ export class SandboxedEvaluator {
         userId,
         kind,
         affinity,
-        since: Date.now(),
         grant: (thread) => {
           if (budget) budget.running++;
           resolve({
@@ -478,6 +480,7 @@ export class SandboxedEvaluator {
                 else budget.saves--;
                 if (budget.interactive === 0 && budget.saves === 0 && budget.running === 0) this.budgets.delete(userId);
               }
+              thread.heldSince = null;
               this.idle.add(thread);
               this.dispatch();
             },
@@ -492,8 +495,8 @@ export class SandboxedEvaluator {
   /**
    * Hands free workers to waiting requests: saves first, then interactive ones within their user's
    * running share, each in the order they came. A request with an affinity takes its own worker;
-   * while that one is busy it leaves a free one to the requests after it, for up to spillAfterMs
-   * (SPILL_AFTER_MS), then takes any.
+   * while that one is busy it leaves a free one to the requests after it, unless the request holding
+   * its worker has held it spillAfterMs (SPILL_AFTER_MS): then it takes any.
    */
   private dispatch(): void {
     const now = Date.now();
@@ -506,14 +509,16 @@ export class SandboxedEvaluator {
       if (ticket.kind !== 'save' && ticket.userId !== null && running(ticket) >= this.perUserRunning) continue;
       const preferred = ticket.affinity === null ? null : this.threads[ticket.affinity];
       let thread: EvaluationThread;
+      const heldSince = preferred?.heldSince ?? null;
       if (preferred && this.idle.has(preferred)) thread = preferred;
-      else if (!preferred || now - ticket.since >= spillAfter) thread = this.pickIdle();
+      else if (!preferred || heldSince === null || now - heldSince >= spillAfter) thread = this.pickIdle();
       else {
-        nextSpill = Math.min(nextSpill, ticket.since + spillAfter);
+        nextSpill = Math.min(nextSpill, heldSince + spillAfter);
         continue;
       }
       this.waiting.splice(this.waiting.indexOf(ticket), 1);
       this.idle.delete(thread);
+      thread.heldSince = now;
       ticket.grant(thread);
     }
     // A request left waiting for its busy worker while another is free: looked at again when its wait is up.
