@@ -412,9 +412,10 @@ const movedOn = (latest: { number: number; content_hash: string }, parentNumber:
 /**
  * Inserts a prepared version on top of `parentNumber`; 409 when the sheet moved on or is void.
  *
- * One read, then one statement: the sheet's row (locked by its update, which finds nothing once the
- * sheet is void), the cells the version before does not hold, the version, the revisions it cites
- * and its audit event. Run on its own the statement is its own transaction, so a save holds the
+ * One read (skipped when this process saved or read the parent: storedCellsOf), then one statement:
+ * the sheet's row (locked by its update, which finds nothing once the sheet is void or when the
+ * parent is not its latest version), the cells the version before does not hold, the version, the
+ * revisions it cites and its audit event. Run on its own the statement is its own transaction, so a save holds the
  * sheet's row and the audit chain's lock only while the database executes it, never across a round
  * trip to this process. A save that raced another based on the same parent collides on the
  * version's number (versions_sheet_number_key) and is refused as the read would have refused it.
@@ -427,12 +428,20 @@ async function insertVersion(
   prepared: PreparedVersion,
 ) {
   const { results, citations, hash } = prepared;
-  const latest = await readLatest(db, sheet.id);
-  if (latest.voided_at) throw voidSheet();
-  if (latest.number !== input.parentNumber) throw movedOn(latest, input.parentNumber);
-  const number = latest.number + 1;
+  // The digests of the parent's stored cells, kept from when this process saved or read it (a version
+  // never changes); else read with the sheet's void mark and latest version, which refuse early.
+  const parentKey = `${sheet.id}:${input.parentNumber}`;
+  let known = storedCellsOf.get(parentKey);
+  if (!known) {
+    const latest = await readLatest(db, sheet.id);
+    if (latest.voided_at) throw voidSheet();
+    if (latest.number !== input.parentNumber) throw movedOn(latest, input.parentNumber);
+    if (latest.result_cells && !db.isTransaction) remember(parentKey, latest.result_cells);
+    known = latest.result_cells ?? undefined;
+  }
+  const number = input.parentNumber + 1;
   // Only the cells whose results the version before does not hold are stored anew.
-  const rows = resultRows(results, latest.result_cells);
+  const rows = resultRows(results, known ?? null);
   // The revisions this version depends on, for the superseded-input flags and the impact page.
   const cited = citations.flatMap((c) => (c.revisionId ? [{ revisionId: c.revisionId, name: c.reference.name }] : []));
   const audit = auditRow(actor, {
@@ -450,6 +459,7 @@ async function insertVersion(
         update sheets
         set title = ${input.content.title}::text, safety_related = ${input.content.safetyRelated}::boolean, updated_at = now()
         where id = ${sheet.id}::uuid and voided_at is null
+          and ${input.parentNumber}::integer = (select max(v.number) from versions v where v.sheet_id = ${sheet.id}::uuid)
         returning id
       ), cells as (
         insert into result_cells (hash, result)
@@ -485,9 +495,32 @@ async function insertVersion(
       throw movedOn(await readLatest(db, sheet.id), input.parentNumber);
     throw error;
   }
-  // No row: the sheet was voided between the read and the statement.
-  if (inserted.length === 0) throw voidSheet();
+  // No row: the sheet is void, or its latest version is not the parent (voided or saved since the
+  // read, or since the parent's cells were kept here): the read says which.
+  if (inserted.length === 0) {
+    const latest = await readLatest(db, sheet.id);
+    if (latest.voided_at || latest.number === input.parentNumber) throw voidSheet();
+    throw movedOn(latest, input.parentNumber);
+  }
+  // Kept once committed: inside a caller's transaction (a new sheet's versions) it may yet roll back.
+  if (!db.isTransaction) remember(`${sheet.id}:${number}`, rows.result_cells);
   return { number, sha256: hash, ok: results.ok };
+}
+
+/**
+ * The digests of a version's stored cells (its `result_cells`), by sheet id and version number, for
+ * the versions this process saved or read last: the next save based on one of them need not read it
+ * again (one round trip to the database instead of two). A version never changes, so an entry is
+ * never wrong; whether the parent is still the sheet's latest version, and the sheet not void, the
+ * save's statement itself checks.
+ */
+const storedCellsOf = new Map<string, Buffer>();
+const STORED_CELLS_KEPT = 256;
+
+function remember(key: string, cells: Buffer): void {
+  storedCellsOf.delete(key);
+  if (storedCellsOf.size >= STORED_CELLS_KEPT) storedCellsOf.delete(storedCellsOf.keys().next().value as string);
+  storedCellsOf.set(key, cells);
 }
 
 /**

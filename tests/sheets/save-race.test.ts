@@ -1,7 +1,9 @@
-// Saving a version is one read and then one statement (lib/sheets/sheets.ts, insertVersion): two
-// saves based on the same version that both pass the read are decided by the database, and exactly
-// one becomes the next version, with exactly one audit event; the other is refused with 409 naming
-// the version that won. A sheet voided between the read and the statement takes no version.
+// Saving a version is one statement, after a read of the sheet's latest version unless this process
+// saved or read the parent itself (lib/sheets/sheets.ts, insertVersion): two saves based on the same
+// version that both pass the read are decided by the database, and exactly one becomes the next
+// version, with exactly one audit event; the other is refused with 409 naming the version that won. A
+// sheet voided between the read and the statement takes no version. Without the read, the statement
+// itself refuses a parent that is no longer the latest version, or a void sheet.
 import { sql, type Transaction } from 'kysely';
 import type { Database } from '../../db/schema';
 import { beforeEach, describe, expect, it } from 'vitest';
@@ -109,5 +111,47 @@ describe('two saves based on the same version', () => {
       .where('object_id', '=', w.sheet.id)
       .execute();
     expect(saves).toEqual([]);
+  });
+});
+
+describe('a save based on a version this process saved (no read before the statement)', () => {
+  /** A save of `source` based on version `parent`, with the content of version 1 otherwise. */
+  async function saveOn(parent: number, source: string) {
+    const first = (await getVersion(testDb(), w.sheet.id, 1))!;
+    return saveVersion(testDb(), w.author, w.sheet, {
+      parentNumber: parent,
+      message: `on ${parent}`,
+      content: { ...first.content, cells: [{ id: 'c1', kind: 'calc', source }] },
+    });
+  }
+
+  it('is refused with 409 naming the latest version when another instance saved since', async () => {
+    expect((await saveOn(1, 'x = 1 m')).number).toBe(2);
+    // Another instance's version 3 (a copy of version 2, written as that instance's statement would).
+    await sql`
+      insert into versions (sheet_id, number, parent_number, content, content_hash, result_head, result_cells,
+                            engine_version, constants_edition, author_id, message)
+      select sheet_id, 3, 2, content, content_hash, result_head, result_cells, engine_version, constants_edition,
+             author_id, 'elsewhere'
+      from versions where sheet_id = ${w.sheet.id} and number = 2`.execute(testDb());
+    const v3 = (await getVersion(testDb(), w.sheet.id, 3))!;
+    const outcome = await refusal(saveOn(2, 'x = 2 m'));
+    expect(outcome).toMatchObject({
+      status: 409,
+      message: 'Version 3 was saved since version 2, which your edits are based on.',
+      details: { latestNumber: 3, latestSha256: v3.sha256 },
+    });
+    expect((await listVersions(testDb(), w.sheet.id)).map((v) => v.number)).toEqual([3, 2, 1]);
+    // Based on version 3 (never saved here: read first), it is version 4.
+    expect((await saveOn(3, 'x = 3 m')).number).toBe(4);
+  });
+
+  it('is refused as void once the sheet is void, and takes no version', async () => {
+    expect((await saveOn(1, 'x = 1 m')).number).toBe(2);
+    await sql`update sheets set voided_at = now(), voided_by = ${w.controller.userId}, void_reason = 'replaced'
+              where id = ${w.sheet.id}`.execute(testDb());
+    const outcome = await refusal(saveOn(2, 'x = 2 m'));
+    expect(outcome).toMatchObject({ code: 'conflict', details: { voided: true } });
+    expect((await listVersions(testDb(), w.sheet.id)).map((v) => v.number)).toEqual([2, 1]);
   });
 });
