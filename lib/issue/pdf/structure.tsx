@@ -293,11 +293,8 @@ export function installPdfStructure(): void {
       (value as { [DIRECT]: (doc: unknown) => void })[DIRECT](this);
       return this;
     }
-    if (value && typeof value === 'object' && INSTRUCTION in value) {
-      const st = states.get(this);
-      if (st) act(this, st, (value as { [INSTRUCTION]: Instruction })[INSTRUCTION]);
-      return this;
-    }
+    const instructions = carried(value, INSTRUCTION);
+    if (instructions) return actOn(this, instructions);
     return miterLimit.call(this, value);
   };
   // A whole element's instructions (see `onElements`): before it draws, as a transform operation
@@ -305,23 +302,30 @@ export function installPdfStructure(): void {
   // and its children have drawn, as the element's named destination.
   const transform = proto.transform;
   proto.transform = function (this: Doc, ...args: unknown[]) {
-    const value = args[0];
-    if (value && typeof value === 'object' && INSTRUCTION in value) {
-      const st = states.get(this);
-      if (st) act(this, st, (value as { [INSTRUCTION]: Instruction })[INSTRUCTION]);
-      return this;
-    }
+    const instructions = carried(args[0], INSTRUCTION);
+    if (instructions) return actOn(this, instructions);
     return transform.apply(this, args);
   };
   const addNamedDestination = proto.addNamedDestination;
   proto.addNamedDestination = function (this: Doc, name: unknown, ...args: unknown[]) {
-    if (name && typeof name === 'object' && INSTRUCTIONS in name) {
-      const st = states.get(this);
-      if (st) for (const ins of (name as { [INSTRUCTIONS]: Instruction[] })[INSTRUCTIONS]) act(this, st, ins);
-      return this;
-    }
+    const instructions = carried(name, INSTRUCTIONS);
+    if (instructions) return actOn(this, instructions);
     return addNamedDestination.call(this, name, ...args);
   };
+}
+
+/** The instructions a value passed to one of pdfkit's methods carries under `key` (one or a list), or null. */
+function carried(value: unknown, key: typeof INSTRUCTION | typeof INSTRUCTIONS): readonly Instruction[] | null {
+  if (!value || typeof value !== 'object' || !(key in value)) return null;
+  const held = (value as Record<symbol, Instruction | Instruction[]>)[key];
+  return Array.isArray(held) ? held : [held];
+}
+
+/** Acts on carried instructions in order; the method that carried them does nothing else. */
+function actOn(doc: Doc, instructions: readonly Instruction[]): Doc {
+  const st = states.get(doc);
+  if (st) for (const ins of instructions) act(doc, st, ins);
+  return doc;
 }
 
 /** How many structure instructions this process has acted on: a rendering that adds none was drawn untagged. */
